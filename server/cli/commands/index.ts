@@ -1,0 +1,9 @@
+/** Every CLI subcommand, by name. Add a command: one module in this folder, one line here. */
+import type { Command } from '../io.ts';
+import { ephemerisCommand } from './ephemeris.ts';
+import { eventsCommand } from './events.ts';
+
+export const commands: Record<string, Command> = {
+  ephemeris: ephemerisCommand,
+  events: eventsCommand,
+};

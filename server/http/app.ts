@@ -1,0 +1,41 @@
+/**
+ * The Hono application: every resource module mounted under /api, one error handler, a body limit.
+ */
+import { OpenAPIHono } from '@hono/zod-openapi';
+import { bodyLimit } from 'hono/body-limit';
+import { HttpError, errorResponse } from './errors.ts';
+import { healthRoutes } from './health.ts';
+import { orbitRoutes } from './orbit.ts';
+import { validationHook } from './validation.ts';
+
+export const VERSION = '0.1.0';
+
+export interface AppOptions {
+  /** Largest accepted request body, bytes. */
+  maxBodyBytes?: number;
+}
+
+export function createApp(options: AppOptions = {}) {
+  const maxBodyBytes = options.maxBodyBytes ?? 2 * 1024 * 1024;
+  const app = new OpenAPIHono({ defaultHook: validationHook });
+  app.onError((err, c) => errorResponse(c, err));
+  app.use(
+    '/api/*',
+    bodyLimit({
+      maxSize: maxBodyBytes,
+      onError: () => {
+        throw new HttpError(413, 'body_too_large', `the request body exceeds ${maxBodyBytes} bytes`);
+      },
+    }),
+  );
+  const api = new OpenAPIHono({ defaultHook: validationHook });
+  api.route('/', healthRoutes(VERSION));
+  api.route('/', orbitRoutes());
+  api.doc31('/openapi.json', { openapi: '3.1.0', info: { title: 'epochwright API', version: VERSION } });
+  app.route('/api', api);
+  app.all('/api/*', (c) => errorResponse(c, new HttpError(404, 'not_found', `no such endpoint: ${c.req.method} ${c.req.path}`)));
+  app.notFound((c) => errorResponse(c, new HttpError(404, 'not_found', `not found: ${c.req.path}`)));
+  return app;
+}
+
+export type App = ReturnType<typeof createApp>;

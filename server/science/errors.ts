@@ -1,0 +1,41 @@
+/**
+ * The one error type the science layer throws for bad input. It names the field, the value and the
+ * rule that was broken, so every interface (HTTP, CLI) can show it as it is.
+ */
+export class InputError extends Error {
+  override readonly name = 'InputError';
+  constructor(
+    /** Path of the offending field, dotted (e.g. `elements.eccentricity`). */
+    readonly field: string,
+    /** The value as given. */
+    readonly value: unknown,
+    /** The rule it broke, in words (e.g. `must satisfy 0 ≤ e < 1`). */
+    readonly rule: string,
+  ) {
+    super(`${field}: ${describeValue(value)} ${rule}`);
+  }
+}
+
+/** Thrown when a computation has no meaningful answer for valid input (e.g. a search that cannot converge). */
+export class ComputationError extends Error {
+  override readonly name = 'ComputationError';
+}
+
+function describeValue(value: unknown): string {
+  if (typeof value === 'string') return JSON.stringify(value);
+  if (value === undefined) return '(missing)';
+  try {
+    const s = JSON.stringify(value);
+    return s === undefined ? String(value) : s.length > 80 ? `${s.slice(0, 77)}...` : s;
+  } catch {
+    return String(value);
+  }
+}
+
+/** Guard: a finite number, or throw naming the field. */
+export function requireFinite(field: string, value: unknown): number {
+  if (typeof value !== 'number' || !Number.isFinite(value)) {
+    throw new InputError(field, value, 'must be a finite number');
+  }
+  return value;
+}

@@ -1,0 +1,79 @@
+/**
+ * Physical quantities of an orbit once its distance is known: size in au, the central mass by
+ * Kepler's third law, the Schwarzschild radius, periapsis distance and speed, K, and the sizes of
+ * the relativistic terms at periapsis.
+ */
+import { AU_M, C_KM_PER_S, GM_SUN_M3_PER_S2, SECONDS_PER_DAY } from '../constants.ts';
+import { InputError } from '../errors.ts';
+import { gravitationalRedshiftKmS, precessionPerOrbitRad, romerDelayDays, schwarzschildRadiusM, transverseDopplerKmS } from './relativity.ts';
+import type { Orbit } from './types.ts';
+
+/** Semi-major axis in au: a[″] × d[pc] (1″ at 1 pc subtends 1 au, by the definition of the parsec). */
+export function semiMajorAxisAu(aMas: number, distancePc: number): number {
+  return (aMas / 1000) * distancePc;
+}
+
+/** Total mass parameter G(M₁+M₂), m³/s², from Kepler's third law: GM = 4π²a³/P². */
+export function massParameterM3S2(aAu: number, periodDays: number): number {
+  const aM = aAu * AU_M;
+  const pS = periodDays * SECONDS_PER_DAY;
+  return (4 * Math.PI * Math.PI * aM * aM * aM) / (pS * pS);
+}
+
+/** Mass in solar masses (IAU 2015 nominal GM☉) from a (au) and P (days). */
+export function massSolar(aAu: number, periodDays: number): number {
+  return massParameterM3S2(aAu, periodDays) / GM_SUN_M3_PER_S2;
+}
+
+/** Velocity semi-amplitude K, km/s: 2π·a·sin i / (P·√(1−e²)). */
+export function semiAmplitudeKmS(aAu: number, periodDays: number, e: number, iRad: number): number {
+  return (2 * Math.PI * aAu * AU_M * Math.sin(iRad)) / (periodDays * SECONDS_PER_DAY * Math.sqrt(1 - e * e)) / 1000;
+}
+
+export interface PhysicalQuantities {
+  semiMajorAxisAu: number;
+  massSolar: number;
+  schwarzschildRadiusAu: number;
+  schwarzschildRadiusKm: number;
+  periapsisAu: number;
+  periapsisSchwarzschildRadii: number;
+  apoapsisAu: number;
+  periapsisSpeedKmS: number;
+  /** Periapsis speed as a fraction of c. */
+  periapsisSpeedFractionC: number;
+  semiAmplitudeKmS: number;
+  /** Schwarzschild precession, arcmin per orbit. */
+  precessionArcminPerOrbit: number;
+  gravitationalRedshiftAtPeriapsisKmS: number;
+  transverseDopplerAtPeriapsisKmS: number;
+  /** Largest Rømer delay over the orbit (light time across a·(1+e)·sin i on the far side), days. */
+  romerDelayRangeDays: number;
+}
+
+/** The physical quantities of an orbit with a distance. @throws InputError when the distance is missing. */
+export function physicalQuantities(orbit: Orbit): PhysicalQuantities {
+  if (orbit.distancePc === null) throw new InputError('orbit.distancePc', null, 'is needed for physical quantities');
+  const aAu = semiMajorAxisAu(orbit.aMas, orbit.distancePc);
+  const gm = massParameterM3S2(aAu, orbit.periodDays);
+  const rsM = schwarzschildRadiusM(gm);
+  const periAu = aAu * (1 - orbit.e);
+  // Vis-viva at periapsis: v² = GM(2/r − 1/a).
+  const vPeri = Math.sqrt(gm * (2 / (periAu * AU_M) - 1 / (aAu * AU_M))) / 1000;
+  const zRange = aAu * (1 + orbit.e) * Math.sin(orbit.iRad);
+  return {
+    semiMajorAxisAu: aAu,
+    massSolar: gm / GM_SUN_M3_PER_S2,
+    schwarzschildRadiusAu: rsM / AU_M,
+    schwarzschildRadiusKm: rsM / 1000,
+    periapsisAu: periAu,
+    periapsisSchwarzschildRadii: (periAu * AU_M) / rsM,
+    apoapsisAu: aAu * (1 + orbit.e),
+    periapsisSpeedKmS: vPeri,
+    periapsisSpeedFractionC: vPeri / C_KM_PER_S,
+    semiAmplitudeKmS: semiAmplitudeKmS(aAu, orbit.periodDays, orbit.e, orbit.iRad),
+    precessionArcminPerOrbit: (precessionPerOrbitRad(gm, aAu * AU_M, orbit.e) * 180 * 60) / Math.PI,
+    gravitationalRedshiftAtPeriapsisKmS: gravitationalRedshiftKmS(gm, periAu * AU_M),
+    transverseDopplerAtPeriapsisKmS: transverseDopplerKmS(vPeri),
+    romerDelayRangeDays: romerDelayDays(zRange),
+  };
+}

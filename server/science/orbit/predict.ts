@@ -1,0 +1,251 @@
+/**
+ * Predictions: where a star on a known orbit is on the sky, and how it moves, at given epochs.
+ *
+ * Batch first (Float64Array of JD in, a column of Float64Array per quantity out); the scalar
+ * `predict` wraps it. Relativistic terms: their sizes are always reported when the distance is known;
+ * they enter positions and the total radial velocity only when switched on for the orbit.
+ */
+import { AU_KM, C_KM_PER_S, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../constants.ts';
+import { jdToIso } from '../time/index.ts';
+import { solveKepler, trueAnomalyFromEccentric } from './kepler.ts';
+import { massParameterM3S2, semiMajorAxisAu } from './physical.ts';
+import { gravitationalRedshiftKmS, precessionPerOrbitRad, romerDelayDays, transverseDopplerKmS } from './relativity.ts';
+import type { Orbit } from './types.ts';
+import { AU_M } from '../constants.ts';
+
+/** Columns of a batch prediction. 3-D and velocity columns are NaN when the orbit has no distance. */
+export const PREDICTION_FIELDS = [
+  'jd',
+  'meanAnomalyDeg',
+  'eccentricAnomalyDeg',
+  'trueAnomalyDeg',
+  'dRaMas',
+  'dDecMas',
+  'separationMas',
+  'positionAngleDeg',
+  'vRaMasYr',
+  'vDecMasYr',
+  'separation3dAu',
+  'speedKmS',
+  'lineOfSightAu',
+  'radialVelocityKmS',
+  'keplerianRvKmS',
+  'romerDelayDays',
+  'gravitationalRedshiftKmS',
+  'transverseDopplerKmS',
+  'precessionDeg',
+] as const;
+export type PredictionField = (typeof PREDICTION_FIELDS)[number];
+export type PredictionColumns = Record<PredictionField, Float64Array>;
+
+/** One prediction. Units are in the names; fields that need a distance are null without one. */
+export interface Prediction {
+  epoch: string;
+  jd: number;
+  meanAnomalyDeg: number;
+  eccentricAnomalyDeg: number;
+  trueAnomalyDeg: number;
+  /** Δα* = Δα·cos δ, east positive, mas. */
+  dRaMas: number;
+  /** Δδ, north positive, mas. */
+  dDecMas: number;
+  separationMas: number;
+  /** Position angle, north through east, [0, 360) deg. */
+  positionAngleDeg: number;
+  vRaMasYr: number;
+  vDecMasYr: number;
+  separation3dAu: number | null;
+  speedKmS: number | null;
+  /** Line-of-sight position, au, positive behind the primary (away from us). */
+  lineOfSightAu: number | null;
+  /** Radial velocity with γ and every switched-on relativistic term, km/s, positive receding. */
+  radialVelocityKmS: number | null;
+  /** The Keplerian part alone (without γ), km/s. */
+  keplerianRvKmS: number | null;
+  /** Size of each relativistic term (included in the totals only when switched on). */
+  romerDelayDays: number | null;
+  gravitationalRedshiftKmS: number | null;
+  transverseDopplerKmS: number | null;
+  /** Schwarzschild precession of ω accumulated since the periapsis epoch T, deg. */
+  precessionDeg: number | null;
+}
+
+/** Per-orbit constants, computed once per batch. */
+export interface Prepared {
+  orbit: Orbit;
+  n: number; // mean motion, rad/day
+  sq: number; // √(1 − e²)
+  cn: number;
+  sn: number;
+  ci: number;
+  si: number;
+  aAu: number; // NaN without a distance
+  gm: number; // m³/s², NaN without a distance
+  precessionRadPerDay: number; // 0 when unknown
+}
+
+export function prepare(orbit: Orbit): Prepared {
+  const hasD = orbit.distancePc !== null;
+  const aAu = hasD ? semiMajorAxisAu(orbit.aMas, orbit.distancePc!) : Number.NaN;
+  const gm = hasD ? massParameterM3S2(aAu, orbit.periodDays) : Number.NaN;
+  return {
+    orbit,
+    n: TWO_PI / orbit.periodDays,
+    sq: Math.sqrt(1 - orbit.e * orbit.e),
+    cn: Math.cos(orbit.nodeRad),
+    sn: Math.sin(orbit.nodeRad),
+    ci: Math.cos(orbit.iRad),
+    si: Math.sin(orbit.iRad),
+    aAu,
+    gm,
+    precessionRadPerDay: hasD ? precessionPerOrbitRad(gm, aAu * AU_M, orbit.e) / orbit.periodDays : 0,
+  };
+}
+
+export function allocateColumns(n: number): PredictionColumns {
+  const out = {} as PredictionColumns;
+  for (const f of PREDICTION_FIELDS) out[f] = new Float64Array(n);
+  return out;
+}
+
+/** Argument of periapsis at emission time tEm (rad), with precession when switched on. */
+function argAt(p: Prepared, tEm: number): number {
+  return p.orbit.relativity.precession ? p.orbit.argRad + p.precessionRadPerDay * (tEm - p.orbit.periapsisJd) : p.orbit.argRad;
+}
+
+/** Line-of-sight position (au) at emission time tEm with eccentric anomaly E. */
+function lineOfSightAu(p: Prepared, tEm: number, E: number): number {
+  const w = argAt(p, tEm);
+  return p.aAu * p.si * ((Math.cos(E) - p.orbit.e) * Math.sin(w) + p.sq * Math.sin(E) * Math.cos(w));
+}
+
+/** Emission time and E for an observed time: t_obs = t_em + z(t_em)/c when Rømer delay is on. */
+export function emissionState(p: Prepared, tObs: number): { tEm: number; E: number } {
+  const o = p.orbit;
+  let tEm = tObs;
+  let E = solveKepler(p.n * (tEm - o.periapsisJd), o.e);
+  if (!o.relativity.romer) return { tEm, E };
+  for (let it = 0; it < 8; it++) {
+    const next = tObs - romerDelayDays(lineOfSightAu(p, tEm, E));
+    const done = Math.abs(next - tEm) < 1e-10;
+    tEm = next;
+    E = solveKepler(p.n * (tEm - o.periapsisJd), o.e);
+    if (done) break;
+  }
+  return { tEm, E };
+}
+
+/** Observed time of emission time tEm with eccentric anomaly E. */
+export function observedTime(p: Prepared, tEm: number, E: number): number {
+  return p.orbit.relativity.romer ? tEm + romerDelayDays(lineOfSightAu(p, tEm, E)) : tEm;
+}
+
+/** Write every column at index i for the state at emission time tEm, eccentric anomaly E, observed at tObs. */
+export function writeState(p: Prepared, tObs: number, tEm: number, E: number, c: PredictionColumns, i: number): void {
+  const o = p.orbit;
+  const e = o.e;
+  const cosE = Math.cos(E), sinE = Math.sin(E);
+  const X = cosE - e, Y = p.sq * sinE;
+  const Edot = p.n / (1 - e * cosE); // rad/day
+  const Xd = -sinE * Edot, Yd = p.sq * cosE * Edot; // per day
+  const dOmega = p.precessionRadPerDay * (tEm - o.periapsisJd);
+  const w = o.relativity.precession ? o.argRad + dOmega : o.argRad;
+  const cw = Math.cos(w), sw = Math.sin(w);
+  const a = o.aMas;
+  const A = a * (cw * p.cn - sw * p.sn * p.ci);
+  const B = a * (cw * p.sn + sw * p.cn * p.ci);
+  const F = a * (-sw * p.cn - cw * p.sn * p.ci);
+  const G = a * (-sw * p.sn + cw * p.cn * p.ci);
+  const dDec = A * X + F * Y;
+  const dRa = B * X + G * Y;
+  let M = (E - e * sinE) % TWO_PI;
+  if (M < 0) M += TWO_PI;
+  let nu = trueAnomalyFromEccentric(E, e);
+  if (nu < 0) nu += TWO_PI;
+  let Ered = E % TWO_PI;
+  if (Ered < 0) Ered += TWO_PI;
+  let pa = Math.atan2(dRa, dDec) / DEG;
+  if (pa < 0) pa += 360;
+  c.jd[i] = tObs;
+  c.meanAnomalyDeg[i] = M / DEG;
+  c.eccentricAnomalyDeg[i] = Ered / DEG;
+  c.trueAnomalyDeg[i] = nu / DEG;
+  c.dRaMas[i] = dRa;
+  c.dDecMas[i] = dDec;
+  c.separationMas[i] = Math.hypot(dRa, dDec);
+  c.positionAngleDeg[i] = pa;
+  const aAu = p.aAu;
+  // Light-time compresses the observed clock: dt_em/dt_obs = 1/(1 + v_z/c).
+  const zdotAuDay = aAu * p.si * (Xd * sw + Yd * cw);
+  const vzKmS = (zdotAuDay * AU_KM) / SECONDS_PER_DAY;
+  const clock = o.relativity.romer ? 1 / (1 + vzKmS / C_KM_PER_S) : 1;
+  c.vRaMasYr[i] = (B * Xd + G * Yd) * JULIAN_YEAR_DAYS * clock;
+  c.vDecMasYr[i] = (A * Xd + F * Yd) * JULIAN_YEAR_DAYS * clock;
+  if (o.distancePc === null) {
+    c.separation3dAu[i] = c.speedKmS[i] = c.lineOfSightAu[i] = c.radialVelocityKmS[i] = Number.NaN;
+    c.keplerianRvKmS[i] = c.romerDelayDays[i] = c.gravitationalRedshiftKmS[i] = Number.NaN;
+    c.transverseDopplerKmS[i] = c.precessionDeg[i] = Number.NaN;
+    return;
+  }
+  const rAu = aAu * (1 - e * cosE);
+  const zAu = aAu * p.si * (X * sw + Y * cw);
+  const speed = (aAu * Math.hypot(Xd, Yd) * AU_KM) / SECONDS_PER_DAY;
+  const gr = gravitationalRedshiftKmS(p.gm, rAu * AU_M);
+  const td = transverseDopplerKmS(speed);
+  c.separation3dAu[i] = rAu;
+  c.speedKmS[i] = speed;
+  c.lineOfSightAu[i] = zAu;
+  c.keplerianRvKmS[i] = vzKmS;
+  c.radialVelocityKmS[i] = o.gammaKmS + vzKmS + (o.relativity.gravitationalRedshift ? gr : 0) + (o.relativity.transverseDoppler ? td : 0);
+  c.romerDelayDays[i] = romerDelayDays(zAu);
+  c.gravitationalRedshiftKmS[i] = gr;
+  c.transverseDopplerKmS[i] = td;
+  c.precessionDeg[i] = dOmega / DEG;
+}
+
+/**
+ * Predict at many observed epochs.
+ * @param jd observed epochs, Julian Date (UTC)
+ * @returns one Float64Array per field of PREDICTION_FIELDS, same length as jd
+ */
+export function predictBatch(orbit: Orbit, jd: Float64Array, out: PredictionColumns = allocateColumns(jd.length)): PredictionColumns {
+  const p = prepare(orbit);
+  for (let i = 0; i < jd.length; i++) {
+    const tObs = jd[i]!;
+    const { tEm, E } = emissionState(p, tObs);
+    writeState(p, tObs, tEm, E, out, i);
+  }
+  return out;
+}
+
+/** Row i of a batch as a Prediction object. */
+export function rowOf(c: PredictionColumns, i: number): Prediction {
+  const opt = (x: number) => (Number.isNaN(x) ? null : x);
+  return {
+    epoch: jdToIso(c.jd[i]!),
+    jd: c.jd[i]!,
+    meanAnomalyDeg: c.meanAnomalyDeg[i]!,
+    eccentricAnomalyDeg: c.eccentricAnomalyDeg[i]!,
+    trueAnomalyDeg: c.trueAnomalyDeg[i]!,
+    dRaMas: c.dRaMas[i]!,
+    dDecMas: c.dDecMas[i]!,
+    separationMas: c.separationMas[i]!,
+    positionAngleDeg: c.positionAngleDeg[i]!,
+    vRaMasYr: c.vRaMasYr[i]!,
+    vDecMasYr: c.vDecMasYr[i]!,
+    separation3dAu: opt(c.separation3dAu[i]!),
+    speedKmS: opt(c.speedKmS[i]!),
+    lineOfSightAu: opt(c.lineOfSightAu[i]!),
+    radialVelocityKmS: opt(c.radialVelocityKmS[i]!),
+    keplerianRvKmS: opt(c.keplerianRvKmS[i]!),
+    romerDelayDays: opt(c.romerDelayDays[i]!),
+    gravitationalRedshiftKmS: opt(c.gravitationalRedshiftKmS[i]!),
+    transverseDopplerKmS: opt(c.transverseDopplerKmS[i]!),
+    precessionDeg: opt(c.precessionDeg[i]!),
+  };
+}
+
+/** Scalar wrapper: the prediction at one observed epoch (JD). */
+export function predict(orbit: Orbit, jd: number): Prediction {
+  return rowOf(predictBatch(orbit, Float64Array.of(jd)), 0);
+}

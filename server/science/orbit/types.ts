@@ -1,0 +1,101 @@
+/**
+ * The orbit as users give it (input types, interface units) and as the engine uses it (internal units).
+ * Interface: degrees, arcsec, years, epochs as strings. Inside: radians, mas, days, Julian Dates.
+ */
+
+/** Campbell elements of the relative orbit of a star about its primary. */
+export interface CampbellInput {
+  kind?: 'campbell';
+  /** Period P, Julian years, > 0. */
+  periodYears: number;
+  /** Epoch of periapsis T: ISO 8601, "JD …", "MJD …", "J2027.35" or "B1934.008". */
+  periapsis: string;
+  /** Eccentricity e, 0 ≤ e < 1. */
+  eccentricity: number;
+  /** Angular semi-major axis a, arcsec, > 0. */
+  semiMajorAxisArcsec: number;
+  /** Inclination i, degrees, 0 ≤ i ≤ 180 (i > 90: clockwise on the sky). */
+  inclinationDeg: number;
+  /** Position angle of the ascending node Ω (where the star recedes), degrees, normalised to [0, 360). */
+  ascendingNodeDeg: number;
+  /** Argument of periapsis ω from the ascending node, degrees, normalised to [0, 360). */
+  argPeriapsisDeg: number;
+}
+
+/** Thiele–Innes constants (arcsec) with P, T, e: Δδ = A·X + F·Y, Δα* = B·X + G·Y. */
+export interface ThieleInnesInput {
+  kind: 'thiele-innes';
+  periodYears: number;
+  periapsis: string;
+  eccentricity: number;
+  aArcsec: number;
+  bArcsec: number;
+  fArcsec: number;
+  gArcsec: number;
+}
+
+export type ElementsInput = CampbellInput | ThieleInnesInput;
+
+/** Which relativistic terms a prediction includes. All off by default (the usual case for binaries). */
+export interface RelativitySwitches {
+  /** Light-travel time across the orbit (observed time = emission time + z/c). */
+  romer: boolean;
+  /** Gravitational redshift GM/(rc) added to the radial velocity. */
+  gravitationalRedshift: boolean;
+  /** Transverse (second-order) Doppler shift v²/(2c) added to the radial velocity. */
+  transverseDoppler: boolean;
+  /** Schwarzschild precession of ω, Δω = 6πGM/(c²a(1−e²)) per orbit, applied at its secular rate. */
+  precession: boolean;
+}
+
+/** Parameters a covariance matrix may cover, in these units. */
+export const COVARIANCE_PARAMETERS = [
+  'periodYears',
+  'periapsisDays',
+  'eccentricity',
+  'semiMajorAxisArcsec',
+  'inclinationDeg',
+  'ascendingNodeDeg',
+  'argPeriapsisDeg',
+  'distancePc',
+  'systemicVelocityKmS',
+] as const;
+export type CovarianceParameter = (typeof COVARIANCE_PARAMETERS)[number];
+
+export interface CovarianceInput {
+  /** Names of the rows/columns, each once, from COVARIANCE_PARAMETERS (periapsisDays: T in days). */
+  parameters: CovarianceParameter[];
+  /** Symmetric positive semi-definite matrix in the parameters' units. */
+  matrix: number[][];
+}
+
+export interface OrbitInput {
+  elements: ElementsInput;
+  /** Distance to the system, parsec, > 0. Needed for physical sizes, radial velocity and relativity. */
+  distancePc?: number;
+  /** Systemic (primary's) radial velocity γ, km/s. Default 0. */
+  systemicVelocityKmS?: number;
+  relativity?: Partial<RelativitySwitches>;
+  covariance?: CovarianceInput;
+}
+
+export interface Covariance {
+  parameters: CovarianceParameter[];
+  /** Row-major, n×n. */
+  matrix: number[][];
+}
+
+/** A validated orbit in internal units. Immutable by convention: derive new ones with `withParameter`. */
+export interface Orbit {
+  periodDays: number;
+  periapsisJd: number;
+  e: number;
+  aMas: number;
+  iRad: number;
+  nodeRad: number;
+  argRad: number;
+  distancePc: number | null;
+  gammaKmS: number;
+  relativity: RelativitySwitches;
+  covariance: Covariance | null;
+}
