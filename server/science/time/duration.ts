@@ -27,3 +27,17 @@ export function parseDurationDays(value: unknown, field = 'step'): number {
   if (!Number.isFinite(days) || days <= 0) throw new InputError(field, value, 'must be a positive duration');
   return days;
 }
+
+/** Most epochs one request may ask for. */
+export const MAX_EPOCHS = 200_000;
+
+/**
+ * Epochs from start to end inclusive (JD) every stepDays; the last one is end only if it falls on the step.
+ * @throws InputError when end < start or the grid would exceed MAX_EPOCHS
+ */
+export function epochRange(startJd: number, endJd: number, stepDays: number): Float64Array {
+  if (endJd < startJd) throw new InputError('end', endJd, `must not be before start (${startJd})`);
+  const count = Math.floor((endJd - startJd) / stepDays + 1e-9) + 1;
+  if (count > MAX_EPOCHS) throw new InputError('step', stepDays, `gives ${count} epochs; at most ${MAX_EPOCHS} per request`);
+  return Float64Array.from({ length: count }, (_, i) => startJd + i * stepDays);
+}

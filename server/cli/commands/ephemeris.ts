@@ -1,0 +1,74 @@
+/** `epochwright ephemeris`: predicted positions and radial velocities at epochs. */
+import { parseArgs } from 'node:util';
+import { ephemeris, type EphemerisRow } from '../../science/orbit/index.ts';
+import { resolveEpochs, describeOrbit } from '../../http/orbit.ts';
+import { UsageError, outputFormat, type Command } from '../io.ts';
+import { render, type Column } from '../output.ts';
+import { ORBIT_OPTION_HELP, epochPrinter, orbitOptions, readMonteCarlo, readOrbit } from './orbit-args.ts';
+
+const help = `usage: epochwright ephemeris --orbit <json|file> (--from <epoch> --to <epoch> --every <step> | --at <epoch>[,<epoch>…]) [options]
+
+Predicts, for each epoch: separation ρ (mas), position angle θ (deg, north through east), offsets
+Δα* (east) and Δδ (north) in mas, and with a distance the radial velocity (km/s, receding positive).
+With a covariance, each comes with its 1σ; with --mc, with Monte Carlo percentiles (JSON/CSV).
+
+Epochs: ISO 8601 with zone (2027-03-01T00:00Z, 2027-03-01), "JD 2461466.5", "MJD 61466",
+"J2027.35", "B1934.008". Steps: 30d, 6h, 15min, 1yr.
+
+options:
+  --from, --to, --every  a range of epochs (both ends included when on the step)
+  --at                   a comma-separated list of epochs
+${ORBIT_OPTION_HELP}
+`;
+
+export const ephemerisCommand: Command = {
+  summary: 'predict sky offsets, separation, position angle and radial velocity at epochs',
+  help,
+  run(argv) {
+    const { values } = parseArgs({
+      args: argv,
+      options: { ...orbitOptions, from: { type: 'string' }, to: { type: 'string' }, every: { type: 'string' }, at: { type: 'string' } },
+      strict: true,
+      allowPositionals: false,
+    });
+    const format = outputFormat(values);
+    const orbit = readOrbit(values.orbit);
+    let epochs: Parameters<typeof resolveEpochs>[0];
+    if (values.at !== undefined) {
+      if (values.from ?? values.to ?? values.every) throw new UsageError('give either --at or --from/--to/--every');
+      epochs = values.at.split(',').map((s) => s.trim());
+    } else {
+      if (values.from === undefined || values.to === undefined || values.every === undefined) {
+        throw new UsageError('give --at <epochs>, or all of --from, --to and --every');
+      }
+      epochs = { start: values.from, end: values.to, step: values.every };
+    }
+    const mc = readMonteCarlo(values);
+    const rows = ephemeris(orbit, resolveEpochs(epochs), mc ? { monteCarlo: mc } : {});
+    const show = epochPrinter(values.time);
+    const columns: Column<EphemerisRow>[] = [
+      { header: 'epoch', value: (r) => show(r.jd) },
+      { header: 'rho_mas', value: (r) => r.separationMas, digits: 3 },
+      { header: 'theta_deg', value: (r) => r.positionAngleDeg, digits: 3 },
+      { header: 'dra_mas', value: (r) => r.dRaMas, digits: 3 },
+      { header: 'ddec_mas', value: (r) => r.dDecMas, digits: 3 },
+    ];
+    const sig = (f: keyof NonNullable<EphemerisRow['sigma']>) => (r: EphemerisRow) => r.sigma?.[f];
+    if (orbit.covariance) {
+      columns.push({ header: 'rho_sigma_mas', value: sig('separationMas'), digits: 3 }, { header: 'theta_sigma_deg', value: sig('positionAngleDeg'), digits: 3 });
+    }
+    if (orbit.distancePc !== null) {
+      columns.push({ header: 'rv_kms', value: (r) => r.radialVelocityKmS, digits: 2 });
+      if (orbit.covariance) columns.push({ header: 'rv_sigma_kms', value: sig('radialVelocityKmS'), digits: 2 });
+      columns.push({ header: 'r3d_au', value: (r) => r.separation3dAu, digits: 2 });
+    }
+    columns.push({ header: 'nu_deg', value: (r) => r.trueAnomalyDeg, digits: 3 });
+    if (mc && format === 'csv') {
+      for (const [k, p] of ['p2.5', 'p16', 'p50', 'p84', 'p97.5'].entries()) {
+        columns.push({ header: `rho_${p}_mas`, value: (r) => r.percentiles?.separationMas?.[k], digits: 3 });
+        columns.push({ header: `theta_${p}_deg`, value: (r) => r.percentiles?.positionAngleDeg?.[k], digits: 3 });
+      }
+    }
+    return render(format, rows, columns, { orbit: describeOrbit(orbit), predictions: rows });
+  },
+};

@@ -1,0 +1,71 @@
+/**
+ * Request schemas for orbits and epochs. zod checks shapes and types (400 on failure); the orbit
+ * engine's validateOrbit checks ranges and rules (422 naming field, value and rule), so each rule
+ * is written once.
+ */
+import { z } from '@hono/zod-openapi';
+import { COVARIANCE_PARAMETERS } from '../../science/orbit/index.ts';
+import { EVENT_KINDS } from '../../science/orbit/index.ts';
+
+const epoch = z.string().openapi({ description: 'ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"', example: '2027-03-01T00:00:00Z' });
+
+const Campbell = z
+  .object({
+    kind: z.literal('campbell').optional(),
+    periodYears: z.number().openapi({ description: 'period P, Julian years' }),
+    periapsis: epoch.openapi({ description: 'epoch of periapsis T' }),
+    eccentricity: z.number(),
+    semiMajorAxisArcsec: z.number().openapi({ description: 'angular semi-major axis a, arcsec' }),
+    inclinationDeg: z.number(),
+    ascendingNodeDeg: z.number().openapi({ description: 'Ω, deg; the node where the star recedes' }),
+    argPeriapsisDeg: z.number().openapi({ description: 'ω, deg' }),
+  })
+  .strict();
+
+const ThieleInnes = z
+  .object({
+    kind: z.literal('thiele-innes'),
+    periodYears: z.number(),
+    periapsis: epoch,
+    eccentricity: z.number(),
+    aArcsec: z.number(),
+    bArcsec: z.number(),
+    fArcsec: z.number(),
+    gArcsec: z.number(),
+  })
+  .strict();
+
+export const OrbitSchema = z
+  .object({
+    elements: z.union([ThieleInnes, Campbell]),
+    distancePc: z.number().optional().openapi({ description: 'distance, parsec' }),
+    systemicVelocityKmS: z.number().optional().openapi({ description: 'systemic velocity γ, km/s' }),
+    relativity: z
+      .object({
+        romer: z.boolean().optional(),
+        gravitationalRedshift: z.boolean().optional(),
+        transverseDoppler: z.boolean().optional(),
+        precession: z.boolean().optional(),
+      })
+      .strict()
+      .optional(),
+    covariance: z
+      .object({ parameters: z.array(z.enum(COVARIANCE_PARAMETERS)), matrix: z.array(z.array(z.number())) })
+      .strict()
+      .optional()
+      .openapi({ description: 'covariance of the Campbell elements in the units of the parameter names (periapsisDays: T in days)' }),
+  })
+  .strict()
+  .openapi('Orbit');
+
+export const EpochRangeSchema = z
+  .object({ start: epoch, end: epoch, step: z.union([z.string(), z.number()]).openapi({ description: 'e.g. "30d", "6h", "1yr"; a number is days' }) })
+  .strict();
+
+export const MonteCarloSchema = z
+  .object({ draws: z.number().int(), seed: z.number().int() })
+  .strict()
+  .openapi({ description: 'Monte Carlo percentiles from seeded draws of the covariance' });
+
+export const EpochSchema = epoch;
+export const EventKindSchema = z.enum(EVENT_KINDS);
