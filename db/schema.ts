@@ -1,0 +1,246 @@
+/**
+ * The campaign store's schema: camelCase keys in TypeScript, snake_case columns in SQL.
+ * Instants are ISO 8601 UTC strings (`…Z`); night dates are the local evening date `YYYY-MM-DD`.
+ * JSON columns hold structures that are read and written whole (orbit elements, goals).
+ */
+import { sql } from 'drizzle-orm';
+import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import type { OrbitInput } from '../server/science/orbit/types.ts';
+
+const created = () => text('created_at').notNull();
+const updated = () => text('updated_at').notNull();
+
+export const users = sqliteTable('users', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  name: text('name').notNull().unique(),
+  role: text('role', { enum: ['lead', 'observer', 'viewer'] }).notNull(),
+  createdAt: created(),
+});
+
+/** Bearer tokens, stored as SHA-256 hex of the secret: the secret itself is shown once and never kept. */
+export const tokens = sqliteTable('tokens', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  userId: integer('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  hash: text('hash').notNull().unique(),
+  label: text('label').notNull(),
+  createdAt: created(),
+  revokedAt: text('revoked_at'),
+});
+
+export const systems = sqliteTable('systems', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  name: text('name').notNull().unique(),
+  raDeg: real('ra_deg').notNull(),
+  decDeg: real('dec_deg').notNull(),
+  pmRaMasYr: real('pm_ra_mas_yr').notNull().default(0),
+  pmDecMasYr: real('pm_dec_mas_yr').notNull().default(0),
+  distancePc: real('distance_pc'),
+  massSolar: real('mass_solar'),
+  notes: text('notes').notNull().default(''),
+  createdAt: created(),
+  updatedAt: updated(),
+});
+
+export const targets = sqliteTable(
+  'targets',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    systemId: integer('system_id').notNull().references(() => systems.id, { onDelete: 'restrict' }),
+    name: text('name').notNull(),
+    magnitude: real('magnitude'),
+    band: text('band'),
+    notes: text('notes').notNull().default(''),
+    createdAt: created(),
+    updatedAt: updated(),
+  },
+  (t) => [uniqueIndex('targets_system_name').on(t.systemId, t.name)],
+);
+
+/** Immutable versions; exactly one per target has `current = 1` (a partial unique index keeps it so). */
+export const orbitSolutions = sqliteTable(
+  'orbit_solutions',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+    version: integer('version').notNull(),
+    current: integer('current', { mode: 'boolean' }).notNull(),
+    orbit: text('orbit', { mode: 'json' }).$type<OrbitInput>().notNull(),
+    provenance: text('provenance', { enum: ['entered', 'imported', 'fitted'] }).notNull(),
+    /** Measurement ids the fit used (provenance `fitted`). */
+    fittedFrom: text('fitted_from', { mode: 'json' }).$type<number[]>(),
+    reference: text('reference').notNull().default(''),
+    notes: text('notes').notNull().default(''),
+    createdBy: integer('created_by').references(() => users.id),
+    createdAt: created(),
+  },
+  (t) => [
+    uniqueIndex('orbit_solutions_target_version').on(t.targetId, t.version),
+    uniqueIndex('orbit_solutions_one_current').on(t.targetId).where(sql`current = 1`),
+  ],
+);
+
+export const sites = sqliteTable('sites', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  name: text('name').notNull().unique(),
+  latitudeDeg: real('latitude_deg').notNull(),
+  longitudeDeg: real('longitude_deg').notNull(),
+  elevationM: real('elevation_m').notNull(),
+  timeZone: text('time_zone').notNull(),
+  minAltitudeDeg: real('min_altitude_deg').notNull().default(30),
+  sunAvoidanceDeg: real('sun_avoidance_deg').notNull().default(45),
+  pressureHpa: real('pressure_hpa'),
+  temperatureC: real('temperature_c'),
+  laserGuideStar: integer('laser_guide_star', { mode: 'boolean' }).notNull().default(false),
+  notes: text('notes').notNull().default(''),
+  createdAt: created(),
+  updatedAt: updated(),
+});
+
+export interface CampaignGoals {
+  /** Wanted interval between epochs of a target, days. */
+  cadenceDays: number;
+  /** Interval near periapsis, days, used within `densifyWithinDays` of a passage. */
+  densifiedCadenceDays?: number;
+  densifyWithinDays?: number;
+  kinds: ('astrometry' | 'spectroscopy')[];
+}
+export interface CampaignConstraints {
+  maxAirmass?: number;
+  minMoonSeparationDeg?: number;
+  darkness?: 'civil' | 'nautical' | 'astronomical';
+}
+
+export const campaigns = sqliteTable('campaigns', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  name: text('name').notNull().unique(),
+  startDate: text('start_date').notNull(),
+  endDate: text('end_date').notNull(),
+  goals: text('goals', { mode: 'json' }).$type<CampaignGoals>().notNull(),
+  constraints: text('constraints', { mode: 'json' }).$type<CampaignConstraints>().notNull(),
+  notes: text('notes').notNull().default(''),
+  createdAt: created(),
+  updatedAt: updated(),
+});
+
+export const campaignTargets = sqliteTable(
+  'campaign_targets',
+  {
+    campaignId: integer('campaign_id').notNull().references(() => campaigns.id, { onDelete: 'cascade' }),
+    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+  },
+  (t) => [primaryKey({ columns: [t.campaignId, t.targetId] })],
+);
+
+export const campaignSites = sqliteTable(
+  'campaign_sites',
+  {
+    campaignId: integer('campaign_id').notNull().references(() => campaigns.id, { onDelete: 'cascade' }),
+    siteId: integer('site_id').notNull().references(() => sites.id, { onDelete: 'restrict' }),
+  },
+  (t) => [primaryKey({ columns: [t.campaignId, t.siteId] })],
+);
+
+export const nights = sqliteTable(
+  'nights',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    siteId: integer('site_id').notNull().references(() => sites.id, { onDelete: 'restrict' }),
+    campaignId: integer('campaign_id').references(() => campaigns.id, { onDelete: 'restrict' }),
+    date: text('date').notNull(),
+    notes: text('notes').notNull().default(''),
+    createdAt: created(),
+    updatedAt: updated(),
+  },
+  (t) => [uniqueIndex('nights_site_date').on(t.siteId, t.date), index('nights_campaign').on(t.campaignId)],
+);
+
+export const BLOCK_STATUSES = ['planned', 'obtained', 'partial', 'lost', 'withdrawn'] as const;
+
+export const blocks = sqliteTable(
+  'blocks',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    nightId: integer('night_id').notNull().references(() => nights.id, { onDelete: 'restrict' }),
+    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+    kind: text('kind', { enum: ['astrometry', 'spectroscopy'] }).notNull(),
+    startUtc: text('start_utc').notNull(),
+    endUtc: text('end_utc').notNull(),
+    status: text('status', { enum: BLOCK_STATUSES }).notNull().default('planned'),
+    laserGuideStar: integer('laser_guide_star', { mode: 'boolean' }).notNull().default(false),
+    notes: text('notes').notNull().default(''),
+    version: integer('version').notNull().default(1),
+    createdAt: created(),
+    updatedAt: updated(),
+  },
+  (t) => [index('blocks_night').on(t.nightId), index('blocks_target').on(t.targetId)],
+);
+
+export const nightReports = sqliteTable('night_reports', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  nightId: integer('night_id').notNull().unique().references(() => nights.id, { onDelete: 'restrict' }),
+  seeingArcsec: real('seeing_arcsec'),
+  strehlRatio: real('strehl_ratio'),
+  cloudCoverPct: real('cloud_cover_pct'),
+  humidityPct: real('humidity_pct'),
+  windMS: real('wind_m_s'),
+  temperatureC: real('temperature_c'),
+  timeLostHours: real('time_lost_hours').notNull().default(0),
+  timeLostReason: text('time_lost_reason').notNull().default(''),
+  notes: text('notes').notNull().default(''),
+  authorId: integer('author_id').references(() => users.id),
+  version: integer('version').notNull().default(1),
+  createdAt: created(),
+  updatedAt: updated(),
+});
+
+/** What became of one block, written with the night report (one per block). */
+export const blockOutcomes = sqliteTable('block_outcomes', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  reportId: integer('report_id').notNull().references(() => nightReports.id, { onDelete: 'cascade' }),
+  blockId: integer('block_id').notNull().unique().references(() => blocks.id, { onDelete: 'restrict' }),
+  status: text('status', { enum: BLOCK_STATUSES }).notNull(),
+  exposureMinutes: real('exposure_minutes'),
+  notes: text('notes').notNull().default(''),
+});
+
+export const measurements = sqliteTable(
+  'measurements',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+    blockId: integer('block_id').references(() => blocks.id, { onDelete: 'set null' }),
+    kind: text('kind', { enum: ['offsets', 'separation', 'radial-velocity'] }).notNull(),
+    epoch: text('epoch').notNull(),
+    epochJd: real('epoch_jd').notNull(),
+    dRaMas: real('d_ra_mas'),
+    dDecMas: real('d_dec_mas'),
+    sigmaDRaMas: real('sigma_d_ra_mas'),
+    sigmaDDecMas: real('sigma_d_dec_mas'),
+    separationMas: real('separation_mas'),
+    positionAngleDeg: real('position_angle_deg'),
+    sigmaSeparationMas: real('sigma_separation_mas'),
+    sigmaPositionAngleDeg: real('sigma_position_angle_deg'),
+    correlation: real('correlation'),
+    radialVelocityKmS: real('radial_velocity_km_s'),
+    sigmaRadialVelocityKmS: real('sigma_radial_velocity_km_s'),
+    instrument: text('instrument').notNull(),
+    notes: text('notes').notNull().default(''),
+    createdAt: created(),
+    updatedAt: updated(),
+  },
+  (t) => [index('measurements_target_epoch').on(t.targetId, t.epochJd), index('measurements_block').on(t.blockId)],
+);
+
+export const auditTrail = sqliteTable(
+  'audit_trail',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    at: text('at').notNull(),
+    userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+    action: text('action', { enum: ['create', 'update', 'delete', 'import'] }).notNull(),
+    entity: text('entity').notNull(),
+    entityId: integer('entity_id'),
+    detail: text('detail', { mode: 'json' }).$type<unknown>(),
+  },
+  (t) => [index('audit_entity').on(t.entity, t.entityId)],
+);

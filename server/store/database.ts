@@ -1,0 +1,78 @@
+/**
+ * Opening the campaign store: an embedded libSQL file by default (in a git-ignored data folder),
+ * a libSQL server when DATABASE_URL says so, or an embedded replica that syncs with one.
+ * Migrations under db/migrations are applied on every open (a no-op when none is pending).
+ */
+import { mkdirSync } from 'node:fs';
+import { dirname, isAbsolute, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { createClient, type Client } from '@libsql/client';
+import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql';
+import { migrate } from 'drizzle-orm/libsql/migrator';
+import * as schema from '../../db/schema.ts';
+
+export type Db = LibSQLDatabase<typeof schema>;
+/** A transaction handle or the database itself: repositories accept either. */
+export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
+export type DbOrTx = Db | Tx;
+
+const REPO_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
+export const MIGRATIONS_FOLDER = resolve(REPO_ROOT, 'db/migrations');
+/** Default data folder (git-ignored), relative to the repository. */
+export const DEFAULT_DATA_DIR = resolve(REPO_ROOT, 'data');
+
+export interface OpenOptions {
+  /** `file:/abs/path.db`, `:memory:`, `libsql://…`, `http(s)://…`. Default: a file in the data folder. */
+  url?: string;
+  authToken?: string;
+  /** With a `file:` url: keep it as an embedded replica of this libSQL server. */
+  syncUrl?: string;
+  syncIntervalS?: number;
+  /** Data folder for the default file url. */
+  dataDir?: string;
+}
+
+export interface Database {
+  db: Db;
+  client: Client;
+  url: string;
+  /** True for a local file without a sync url (WAL on, backups by VACUUM INTO). */
+  isLocalFile: boolean;
+  close(): void;
+}
+
+/** The url from options, then DATABASE_URL, then `file:<dataDir>/epochwright.db`. */
+export function resolveDatabaseUrl(options: OpenOptions = {}, env: NodeJS.ProcessEnv = process.env): string {
+  if (options.url) return options.url;
+  if (env.DATABASE_URL) return env.DATABASE_URL;
+  return `file:${resolve(options.dataDir ?? env.EPOCHWRIGHT_DATA_DIR ?? DEFAULT_DATA_DIR, 'epochwright.db')}`;
+}
+
+function filePath(url: string): string | null {
+  if (!url.startsWith('file:')) return null;
+  const p = url.slice('file:'.length).replace(/^\/\/(?=\/)/, '');
+  return isAbsolute(p) ? p : resolve(process.cwd(), p);
+}
+
+/** Open, create the parent folder of a file database, turn on WAL, and migrate. */
+export async function openDatabase(options: OpenOptions = {}): Promise<Database> {
+  const url = resolveDatabaseUrl(options);
+  const path = filePath(url);
+  if (path) mkdirSync(dirname(path), { recursive: true });
+  const syncUrl = options.syncUrl ?? process.env.DATABASE_SYNC_URL;
+  const client = createClient({
+    url,
+    authToken: options.authToken ?? process.env.DATABASE_AUTH_TOKEN,
+    ...(syncUrl && path ? { syncUrl, syncInterval: options.syncIntervalS ?? 60 } : {}),
+  });
+  const isLocalFile = path !== null && !syncUrl;
+  if (isLocalFile) {
+    // WAL persists in the file; readers (a backup, the CLI) then never block the server's writer.
+    await client.execute('PRAGMA journal_mode = WAL');
+    await client.execute('PRAGMA busy_timeout = 5000');
+  }
+  await client.execute('PRAGMA foreign_keys = ON');
+  const db = drizzle(client, { schema });
+  await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
+  return { db, client, url, isLocalFile, close: () => client.close() };
+}

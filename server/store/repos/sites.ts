@@ -1,0 +1,14 @@
+/** Observing sites: where, how high, which zone, and the limits that protect people and equipment. */
+import { sites } from '../../../db/schema.ts';
+import { entity } from '../crud.ts';
+import type { Db } from '../database.ts';
+import { repository } from '../repository.ts';
+import { SiteInput } from '../schemas/entities.ts';
+
+export type SiteRow = typeof sites.$inferSelect;
+
+export const siteEntity = entity<SiteRow>({ name: 'site', table: sites, hasUpdatedAt: true, versioned: false, orderBy: [sites.name] });
+
+export function siteRepository(db: Db) {
+  return repository(db, { entity: siteEntity, schema: SiteInput, keys: Object.keys(SiteInput.shape) });
+}

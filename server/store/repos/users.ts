@@ -1,0 +1,77 @@
+/**
+ * Users, their roles and bearer tokens. A token is 32 random bytes shown once; only its SHA-256
+ * is stored, so a copy of the database does not hand out access.
+ */
+import { createHash, randomBytes } from 'node:crypto';
+import { and, eq, isNull } from 'drizzle-orm';
+import { tokens, users } from '../../../db/schema.ts';
+import { recordAudit, nowIso, type Actor } from '../audit.ts';
+import { entity, getById, insertIn, list } from '../crud.ts';
+import type { Db } from '../database.ts';
+import { NotFoundError } from '../errors.ts';
+import { parseInput } from '../schemas/common.ts';
+import { UserInput, type Role } from '../schemas/entities.ts';
+
+export type UserRow = typeof users.$inferSelect;
+export type { Role };
+
+export const userEntity = entity<UserRow>({ name: 'user', table: users, hasUpdatedAt: false, versioned: false, orderBy: [users.name] });
+
+/** Token prefix makes a leaked secret easy to recognise in logs and scanners. */
+const TOKEN_PREFIX = 'ewt_';
+
+export function hashToken(secret: string): string {
+  return createHash('sha256').update(secret, 'utf8').digest('hex');
+}
+
+export interface IssuedToken {
+  user: UserRow;
+  tokenId: number;
+  /** The bearer secret: shown once, never stored. */
+  secret: string;
+}
+
+export function userRepository(db: Db) {
+  const issue = async (tx: Parameters<Parameters<Db['transaction']>[0]>[0], actor: Actor, user: UserRow, label: string): Promise<IssuedToken> => {
+    const secret = TOKEN_PREFIX + randomBytes(32).toString('base64url');
+    const [row] = await tx.insert(tokens).values({ userId: user.id, hash: hashToken(secret), label, createdAt: nowIso() }).returning();
+    await recordAudit(tx, actor, 'create', 'token', row!.id, { userId: user.id, label });
+    return { user, tokenId: row!.id, secret };
+  };
+  return {
+    entity: userEntity,
+    list: (page?: { limit?: number; offset?: number }) => list(db, userEntity, [], page),
+    get: (id: number) => getById(db, userEntity, id),
+    count: async () => (await list(db, userEntity, [], { limit: 1 })).total,
+    /** Create a user and its first token in one transaction. */
+    createWithToken: (actor: Actor, input: unknown, label = 'first token') =>
+      db.transaction(async (tx) => {
+        const u = parseInput(UserInput, input);
+        const user = await insertIn(tx, userEntity, actor, u);
+        return issue(tx, actor, user, label);
+      }),
+    /** A further token for an existing user, by name. */
+    issueToken: (actor: Actor, userName: string, label: string) =>
+      db.transaction(async (tx) => {
+        const [user] = await tx.select().from(users).where(eq(users.name, userName));
+        if (!user) throw new NotFoundError('user named', userName);
+        return issue(tx, actor, user, label);
+      }),
+    revokeToken: (actor: Actor, tokenId: number) =>
+      db.transaction(async (tx) => {
+        const done = await tx.update(tokens).set({ revokedAt: nowIso() }).where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt))).returning();
+        if (done.length === 0) throw new NotFoundError('active token', tokenId);
+        await recordAudit(tx, actor, 'update', 'token', tokenId, { revoked: true });
+      }),
+    /** The user a bearer secret belongs to, or null when it is unknown or revoked. */
+    authenticate: async (secret: string): Promise<UserRow | null> => {
+      const rows = await db
+        .select({ user: users })
+        .from(tokens)
+        .innerJoin(users, eq(users.id, tokens.userId))
+        .where(and(eq(tokens.hash, hashToken(secret)), isNull(tokens.revokedAt)))
+        .limit(1);
+      return rows[0]?.user ?? null;
+    },
+  };
+}

@@ -1,0 +1,67 @@
+/**
+ * Shared pieces of the input schemas, and the bridge from a zod verdict to our InputError.
+ * The same schemas check HTTP bodies, CLI input and CSV rows, and document the API.
+ */
+import { IANAZone } from 'luxon';
+import { z } from 'zod';
+import { InputError } from '../../science/errors.ts';
+import { parseEpoch, jdToIso } from '../../science/time/index.ts';
+
+export const id = z.number().int().positive();
+export const name = z.string().trim().min(1).max(120);
+export const notes = z.string().max(20_000).default('');
+/** A local calendar date, `YYYY-MM-DD`. */
+export const localDate = z.iso.date().describe('local calendar date YYYY-MM-DD');
+/** An instant given as ISO 8601 with a zone, JD, MJD, Julian or Besselian epoch; stored as ISO UTC. */
+export const epoch = z
+  .string()
+  .describe('epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"')
+  .superRefine((v, ctx) => {
+    try {
+      parseEpoch(v, 'epoch');
+    } catch (err) {
+      ctx.addIssue({ code: 'custom', message: err instanceof InputError ? err.rule : 'is not an epoch' });
+    }
+  });
+export const timeZone = z
+  .string()
+  .describe('IANA time zone, e.g. America/Santiago')
+  .refine((v) => IANAZone.isValidZone(v), { message: 'must be an IANA time zone name such as "America/Santiago"' });
+
+/** Normalise an epoch string to ISO 8601 UTC (ms) and its JD. */
+export function normaliseEpoch(value: string, field: string): { iso: string; jd: number } {
+  const jd = parseEpoch(value, field);
+  return { iso: jdToIso(jd), jd };
+}
+
+export interface RowProblem {
+  field: string;
+  value: unknown;
+  rule: string;
+}
+
+function valueAt(input: unknown, path: readonly PropertyKey[]): unknown {
+  let v: unknown = input;
+  for (const k of path) v = v !== null && typeof v === 'object' ? (v as Record<PropertyKey, unknown>)[k] : undefined;
+  return v;
+}
+
+/** Every problem zod found, as field/value/rule. */
+export function problemsOf(error: z.ZodError, input: unknown, prefix = ''): RowProblem[] {
+  return error.issues.map((i) => ({
+    field: [prefix, ...i.path.map(String)].filter(Boolean).join('.') || prefix || '(input)',
+    value: valueAt(input, i.path),
+    rule: i.message,
+  }));
+}
+
+/** Parse with a schema; on failure throw InputError for the first problem (all of them in `problems`). */
+export function parseInput<S extends z.ZodType>(schema: S, input: unknown, prefix = ''): z.output<S> {
+  const r = schema.safeParse(input);
+  if (r.success) return r.data;
+  const problems = problemsOf(r.error, input, prefix);
+  const first = problems[0]!;
+  const err = new InputError(first.field, first.value, first.rule);
+  (err as InputError & { problems?: RowProblem[] }).problems = problems;
+  throw err;
+}

@@ -1,0 +1,170 @@
+/**
+ * Input schemas of every stored entity (units in the names). `…Fields` are the plain objects
+ * (their `.partial()` documents PATCH bodies); `…Input` add the cross-field rules.
+ */
+import { z } from 'zod';
+import { BLOCK_STATUSES } from '../../../db/schema.ts';
+import { epoch, id, localDate, name, notes, timeZone } from './common.ts';
+
+const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();
+
+export const SystemFields = z.object({
+  name,
+  raDeg: z.number().min(0).lt(360).describe('ICRS right ascension of the primary, degrees [0, 360)'),
+  decDeg: z.number().min(-90).max(90).describe('ICRS declination of the primary, degrees'),
+  pmRaMasYr: z.number().default(0).describe('proper motion μα* = μα·cos δ, mas/yr'),
+  pmDecMasYr: z.number().default(0).describe('proper motion μδ, mas/yr'),
+  distancePc: optionalNumber(z.number().positive().describe('distance, parsec')),
+  massSolar: optionalNumber(z.number().positive().describe('mass estimate of the primary, solar masses')),
+  notes,
+});
+export const SystemInput = SystemFields;
+
+export const TargetFields = z.object({
+  systemId: id,
+  name,
+  magnitude: optionalNumber(z.number().min(-5).max(35).describe('apparent magnitude in `band`')),
+  band: z.string().max(20).nullable().optional(),
+  notes,
+});
+export const TargetInput = TargetFields;
+
+/** The orbit is checked in depth by validateOrbit (422 naming the element); here only its shape. */
+export const OrbitShape = z
+  .object({
+    elements: z.record(z.string(), z.unknown()).describe('Campbell elements or Thiele–Innes constants (see OrbitInput)'),
+    distancePc: z.number().positive().optional(),
+    systemicVelocityKmS: z.number().optional(),
+    relativity: z.record(z.string(), z.boolean()).optional(),
+    covariance: z.object({ parameters: z.array(z.string()), matrix: z.array(z.array(z.number())) }).optional(),
+  })
+  .strict();
+
+export const OrbitSolutionInput = z.object({
+  targetId: id,
+  orbit: OrbitShape,
+  provenance: z.enum(['entered', 'imported', 'fitted']).default('entered'),
+  fittedFrom: z.array(id).nullable().optional().describe('measurement ids a fit used'),
+  reference: z.string().max(500).default('').describe('where the solution comes from'),
+  notes,
+  makeCurrent: z.boolean().default(true).describe('become the target’s current solution'),
+});
+
+export const SiteFields = z.object({
+  name,
+  latitudeDeg: z.number().min(-90).max(90).describe('geodetic latitude, degrees, north positive'),
+  longitudeDeg: z.number().min(-180).max(180).describe('longitude, degrees, east positive'),
+  elevationM: z.number().min(-500).max(6000).describe('elevation above the ellipsoid, metres'),
+  timeZone,
+  minAltitudeDeg: z.number().min(0).max(89).default(30).describe('lowest usable altitude, degrees'),
+  sunAvoidanceDeg: z.number().min(0).max(180).default(45).describe('closest allowed angle to the Sun, degrees'),
+  pressureHpa: optionalNumber(z.number().min(300).max(1100).describe('typical pressure for refraction, hPa')),
+  temperatureC: optionalNumber(z.number().min(-60).max(50).describe('typical night temperature, °C')),
+  laserGuideStar: z.boolean().default(false).describe('the site runs a laser guide star'),
+  notes,
+});
+export const SiteInput = SiteFields;
+
+export const CampaignFields = z.object({
+  name,
+  startDate: localDate,
+  endDate: localDate,
+  goals: z
+    .object({
+      cadenceDays: z.number().positive().describe('wanted interval between epochs of a target, days'),
+      densifiedCadenceDays: z.number().positive().optional().describe('interval near periapsis, days'),
+      densifyWithinDays: z.number().positive().optional().describe('how close to periapsis the dense cadence applies, days'),
+      kinds: z.array(z.enum(['astrometry', 'spectroscopy'])).min(1),
+    })
+    .strict(),
+  constraints: z
+    .object({
+      maxAirmass: z.number().min(1).max(10).optional(),
+      minMoonSeparationDeg: z.number().min(0).max(180).optional(),
+      darkness: z.enum(['civil', 'nautical', 'astronomical']).optional(),
+    })
+    .strict()
+    .default({}),
+  targetIds: z.array(id).default([]),
+  siteIds: z.array(id).default([]),
+  notes,
+});
+export const CampaignInput = CampaignFields.refine((c) => c.endDate >= c.startDate, { message: 'must not be before startDate', path: ['endDate'] });
+
+export const NightFields = z.object({ siteId: id, campaignId: id.nullable().optional(), date: localDate, notes });
+export const NightInput = NightFields;
+
+export const BlockFields = z.object({
+  nightId: id,
+  targetId: id,
+  kind: z.enum(['astrometry', 'spectroscopy']),
+  startUtc: epoch.describe('start, ISO 8601 UTC'),
+  endUtc: epoch.describe('end, ISO 8601 UTC'),
+  status: z.enum(BLOCK_STATUSES).default('planned'),
+  laserGuideStar: z.boolean().default(false),
+  notes,
+});
+export const BlockInput = BlockFields;
+
+export const OutcomeInput = z.object({
+  blockId: id,
+  status: z.enum(BLOCK_STATUSES),
+  exposureMinutes: optionalNumber(z.number().min(0).max(1440)),
+  notes,
+});
+
+export const NightReportFields = z.object({
+  nightId: id,
+  seeingArcsec: optionalNumber(z.number().positive().max(20).describe('seeing FWHM at zenith, arcsec')),
+  strehlRatio: optionalNumber(z.number().min(0).max(1).describe('adaptive-optics Strehl ratio, 0–1')),
+  cloudCoverPct: optionalNumber(z.number().min(0).max(100)),
+  humidityPct: optionalNumber(z.number().min(0).max(100)),
+  windMS: optionalNumber(z.number().min(0).max(100).describe('wind speed, m/s')),
+  temperatureC: optionalNumber(z.number().min(-60).max(50)),
+  timeLostHours: z.number().min(0).max(24).default(0),
+  timeLostReason: z.string().max(2000).default(''),
+  notes,
+  outcomes: z.array(OutcomeInput).default([]),
+});
+export const NightReportInput = NightReportFields;
+
+const MEASUREMENT_FIELDS = {
+  offsets: ['dRaMas', 'dDecMas', 'sigmaDRaMas', 'sigmaDDecMas'],
+  separation: ['separationMas', 'positionAngleDeg', 'sigmaSeparationMas', 'sigmaPositionAngleDeg'],
+  'radial-velocity': ['radialVelocityKmS', 'sigmaRadialVelocityKmS'],
+} as const;
+
+export const MeasurementFields = z.object({
+  targetId: id,
+  blockId: id.nullable().optional(),
+  kind: z.enum(['offsets', 'separation', 'radial-velocity']).describe('offsets Δα*, Δδ; separation and position angle; or radial velocity'),
+  epoch,
+  dRaMas: optionalNumber(z.number().describe('Δα* = Δα·cos δ, east positive, mas')),
+  dDecMas: optionalNumber(z.number().describe('Δδ, north positive, mas')),
+  sigmaDRaMas: optionalNumber(z.number().positive()),
+  sigmaDDecMas: optionalNumber(z.number().positive()),
+  separationMas: optionalNumber(z.number().min(0)),
+  positionAngleDeg: optionalNumber(z.number().min(0).lt(360).describe('north through east, degrees')),
+  sigmaSeparationMas: optionalNumber(z.number().positive()),
+  sigmaPositionAngleDeg: optionalNumber(z.number().positive()),
+  correlation: optionalNumber(z.number().min(-1).max(1).describe('correlation of the two astrometric errors')),
+  radialVelocityKmS: optionalNumber(z.number().min(-30_000).max(30_000).describe('positive receding, km/s')),
+  sigmaRadialVelocityKmS: optionalNumber(z.number().positive()),
+  instrument: z.string().trim().min(1).max(120),
+  notes,
+});
+export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
+  for (const [kind, fields] of Object.entries(MEASUREMENT_FIELDS)) {
+    for (const f of fields) {
+      const present = m[f] !== undefined && m[f] !== null;
+      if (kind === m.kind && !present) ctx.addIssue({ code: 'custom', path: [f], message: `is required for kind "${m.kind}"` });
+      if (kind !== m.kind && present) ctx.addIssue({ code: 'custom', path: [f], message: `does not belong to kind "${m.kind}"` });
+    }
+  }
+  if (m.kind === 'radial-velocity' && m.correlation !== undefined && m.correlation !== null) {
+    ctx.addIssue({ code: 'custom', path: ['correlation'], message: 'applies to astrometric kinds only' });
+  }
+});
+
+export const UserInput = z.object({ name: z.string().trim().min(1).max(80), role: z.enum(['lead', 'observer', 'viewer']) });
+export type Role = z.infer<typeof UserInput>['role'];
