@@ -129,15 +129,26 @@ export function eventsInOrbit(s: OrbitSampler, k: number, kinds: ReadonlySet<Eve
   const h = (2 * Math.PI) / SAMPLES_PER_ORBIT;
   const grid = (f: Scalar) => {
     const v = new Float64Array(SAMPLES_PER_ORBIT + 2);
-    for (let j = -1; j <= SAMPLES_PER_ORBIT; j++) v[j + 1] = f(k, -Math.PI + j * h);
+    for (let j = -1; j < SAMPLES_PER_ORBIT; j++) v[j + 1] = f(k, -Math.PI + j * h);
+    // The seam E = π of orbit k is E = −π of orbit k + 1: take that value, so that a root on the
+    // seam falls in exactly one orbit whatever the rounding of sin(±π).
+    v[SAMPLES_PER_ORBIT + 1] = f(k + 1, -Math.PI);
     return v;
   };
   if (kinds.has('ascending-node') || kinds.has('descending-node')) {
     const f = nodeFunction(s);
     const v = grid(f);
     for (let j = 0; j < SAMPLES_PER_ORBIT; j++) {
-      const a = v[j + 1]!, b = v[j + 2]!;
-      if (a === 0 || a > 0 === b > 0) continue;
+      const prev = v[j]!, a = v[j + 1]!, b = v[j + 2]!;
+      if (a === 0) {
+        // A root exactly on a sample (e.g. ω = 0 puts the node at E = 0).
+        if (prev !== 0 && b !== 0 && prev > 0 !== b > 0) {
+          const kind: EventKind = b > prev ? 'ascending-node' : 'descending-node';
+          if (kinds.has(kind)) out.push({ kind, k, E: -Math.PI + j * h });
+        }
+        continue;
+      }
+      if (b === 0 || a > 0 === b > 0) continue;
       const kind: EventKind = b > a ? 'ascending-node' : 'descending-node';
       if (!kinds.has(kind)) continue;
       out.push({ kind, k, E: bisect(f, k, -Math.PI + j * h, -Math.PI + (j + 1) * h, a) });
@@ -155,8 +166,8 @@ export function eventsInOrbit(s: OrbitSampler, k: number, kinds: ReadonlySet<Eve
     for (let j = 0; j < SAMPLES_PER_ORBIT; j++) {
       const a = v[j]!, b = v[j + 1]!, c = v[j + 2]!;
       const E0 = -Math.PI + j * h;
-      if (b >= a && b > c && kinds.has(maxKind)) out.push({ kind: maxKind, k, E: wrap(golden(f, k, E0 - h, E0 + h, 1)) });
-      if (b <= a && b < c && kinds.has(minKind)) out.push({ kind: minKind, k, E: wrap(golden(f, k, E0 - h, E0 + h, -1)) });
+      if (b >= a && b > c && kinds.has(maxKind)) out.push(seamed(maxKind, k, golden(f, k, E0 - h, E0 + h, 1)));
+      if (b <= a && b < c && kinds.has(minKind)) out.push(seamed(minKind, k, golden(f, k, E0 - h, E0 + h, -1)));
     }
   };
   if (s.p.orbit.distancePc !== null) extrema((kk, E) => s.at(kk, E).radialVelocityKmS[0]!, 'rv-maximum', 'rv-minimum');
@@ -164,7 +175,14 @@ export function eventsInOrbit(s: OrbitSampler, k: number, kinds: ReadonlySet<Eve
   return out;
 }
 
-/** Keep an E found past ±π in the orbit's own range (the refinement may step over the seam). */
+/** A refinement may step over the seam at E = ±π: carry it into the neighbouring orbit. */
+function seamed(kind: EventKind, k: number, E: number): EventLocus {
+  if (E >= Math.PI) return { kind, k: k + 1, E: E - 2 * Math.PI };
+  if (E < -Math.PI) return { kind, k: k - 1, E: E + 2 * Math.PI };
+  return { kind, k, E };
+}
+
+/** An angle difference brought into [−π, π). */
 function wrap(E: number): number {
   return E >= Math.PI ? E - 2 * Math.PI : E < -Math.PI ? E + 2 * Math.PI : E;
 }
