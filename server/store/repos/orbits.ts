@@ -5,8 +5,7 @@
 import { and, desc, eq, max } from 'drizzle-orm';
 import { orbitSolutions } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
-import { validateOrbit } from '../../science/orbit/elements.ts';
-import type { Orbit, OrbitInput } from '../../science/orbit/types.ts';
+import { validateOrbit, type Orbit, type OrbitInput } from '../../science/orbit/index.ts';
 import { recordAudit, nowIso, type Actor } from '../audit.ts';
 import { entity, getById, list, remove, requireRef, type Page, type PageRequest } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';

@@ -1,0 +1,45 @@
+/**
+ * Bearer-token sign-in and roles. `identify` looks the token up (no token: anonymous); each store
+ * route then asks for the role it needs: viewer reads, observer logs nights, lead edits orbits,
+ * campaigns and sites. No token → 401; a token whose role is too low → 403.
+ */
+import type { Context, MiddlewareHandler } from 'hono';
+import type { Store } from '../store/index.ts';
+import type { Role, UserRow } from '../store/repos/users.ts';
+import { HttpError } from './errors.ts';
+
+export type AuthEnv = { Variables: { user: UserRow | null } };
+
+const RANK: Record<Role, number> = { viewer: 0, observer: 1, lead: 2 };
+
+/** Read the bearer token (or `?token=` for calendar subscriptions, which cannot send headers). */
+export function identify(store: Store, options: { queryTokenPaths?: RegExp } = {}): MiddlewareHandler<AuthEnv> {
+  return async (c, next) => {
+    const header = c.req.header('authorization');
+    let secret: string | undefined;
+    if (header !== undefined) {
+      const m = /^Bearer\s+(\S+)\s*$/i.exec(header);
+      if (!m) throw new HttpError(401, 'unauthenticated', 'the Authorization header must be "Bearer <token>"');
+      secret = m[1];
+    } else if (options.queryTokenPaths?.test(c.req.path)) {
+      secret = c.req.query('token');
+    }
+    let user: UserRow | null = null;
+    if (secret !== undefined) {
+      user = await store.users.authenticate(secret);
+      if (!user) throw new HttpError(401, 'unauthenticated', 'the token is unknown or has been revoked');
+    }
+    c.set('user', user);
+    await next();
+  };
+}
+
+/** The signed-in user if their role is at least `role`; otherwise 401 or 403. */
+export function requireRole(c: Context<AuthEnv>, role: Role): UserRow {
+  const user = c.get('user');
+  if (!user) throw new HttpError(401, 'unauthenticated', 'sign in: send "Authorization: Bearer <token>"');
+  if (RANK[user.role] < RANK[role]) {
+    throw new HttpError(403, 'forbidden', `this needs the ${role} role; user ${JSON.stringify(user.name)} is ${user.role}`, { needed: role, role: user.role });
+  }
+  return user;
+}

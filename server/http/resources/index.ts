@@ -1,0 +1,24 @@
+/** Every store resource under one sub-application, with bearer sign-in. */
+import type { Store } from '../../store/index.ts';
+import { identify } from '../auth.ts';
+import { campaignRoutes } from './campaigns.ts';
+import { resourceApp } from './common.ts';
+import { exchangeRoutes } from './exchange.ts';
+import { measurementRoutes } from './measurements.ts';
+import { nightReportRoutes } from './night-reports.ts';
+import { blockRoutes, nightRoutes } from './nights.ts';
+import { orbitSolutionRoutes } from './orbit-solutions.ts';
+import { siteRoutes } from './sites.ts';
+import { systemRoutes, targetRoutes } from './systems.ts';
+import { targetViewRoutes } from './target-views.ts';
+import { userRoutes } from './users.ts';
+
+export function storeRoutes(store: Store) {
+  const app = resourceApp();
+  app.use('*', identify(store, { queryTokenPaths: /\/calendar\.ics$/ }));
+  app.openAPIRegistry.registerComponent('securitySchemes', 'bearer', { type: 'http', scheme: 'bearer', description: 'a token from `epochwright account add` or POST /api/users' });
+  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes]) {
+    app.route('/', routes(store));
+  }
+  return app;
+}

@@ -1,0 +1,81 @@
+/**
+ * The CSV layouts of targets, orbit solutions and measurements: the same columns are written by
+ * the exports and read by the imports, so an export can be edited in a spreadsheet and read back.
+ * Header names are the JSON field names; `system` and `target` are names, not ids.
+ */
+export const CSV_KINDS = ['targets', 'orbits', 'measurements'] as const;
+export type CsvKind = (typeof CSV_KINDS)[number];
+
+export const TARGET_COLUMNS = ['system', 'name', 'magnitude', 'band', 'notes'] as const;
+
+export const ORBIT_COLUMNS = [
+  'system',
+  'target',
+  'kind',
+  'periodYears',
+  'periapsis',
+  'eccentricity',
+  'semiMajorAxisArcsec',
+  'inclinationDeg',
+  'ascendingNodeDeg',
+  'argPeriapsisDeg',
+  'aArcsec',
+  'bArcsec',
+  'fArcsec',
+  'gArcsec',
+  'distancePc',
+  'systemicVelocityKmS',
+  'relativity',
+  'reference',
+  'notes',
+  'makeCurrent',
+] as const;
+
+export const MEASUREMENT_COLUMNS = [
+  'system',
+  'target',
+  'kind',
+  'epoch',
+  'dRaMas',
+  'dDecMas',
+  'sigmaDRaMas',
+  'sigmaDDecMas',
+  'separationMas',
+  'positionAngleDeg',
+  'sigmaSeparationMas',
+  'sigmaPositionAngleDeg',
+  'correlation',
+  'radialVelocityKmS',
+  'sigmaRadialVelocityKmS',
+  'instrument',
+  'blockId',
+  'notes',
+] as const;
+
+export const COLUMNS: Record<CsvKind, readonly string[]> = { targets: TARGET_COLUMNS, orbits: ORBIT_COLUMNS, measurements: MEASUREMENT_COLUMNS };
+
+/** Which columns are required in the header (others may be left out entirely). */
+export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
+  targets: ['system', 'name'],
+  orbits: ['system', 'target', 'periodYears', 'periapsis', 'eccentricity'],
+  measurements: ['system', 'target', 'kind', 'epoch', 'instrument'],
+};
+
+/** Columns read as numbers (a cell that is not a number is reported as it is). */
+export const NUMERIC = new Set([
+  'magnitude',
+  'periodYears',
+  'eccentricity',
+  'semiMajorAxisArcsec',
+  'inclinationDeg',
+  'ascendingNodeDeg',
+  'argPeriapsisDeg',
+  'aArcsec',
+  'bArcsec',
+  'fArcsec',
+  'gArcsec',
+  'distancePc',
+  'systemicVelocityKmS',
+  'blockId',
+  ...MEASUREMENT_COLUMNS.filter((c) => /Mas$|Deg$|KmS$|^correlation$/.test(c)),
+]);

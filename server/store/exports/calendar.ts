@@ -1,0 +1,83 @@
+/**
+ * A campaign's iCalendar (RFC 5545) feed: its planned blocks and the periapsis passages of its
+ * targets that fall within the campaign (or the coming year, whichever ends later).
+ * UIDs are stable (block id, target and orbit number) so a subscribed calendar updates in place.
+ */
+import ical from 'ical-generator';
+import { and, eq, inArray } from 'drizzle-orm';
+import { blocks, nights, sites, targets, systems } from '../../../db/schema.ts';
+import { findEvents } from '../../science/orbit/index.ts';
+import { parseEpoch, unixMsToJd, jdToUnixMs } from '../../science/time/index.ts';
+import { getById } from '../crud.ts';
+import type { DbOrTx } from '../database.ts';
+import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
+import { currentOrbit } from '../repos/orbits.ts';
+import { NotFoundError } from '../errors.ts';
+
+const LASER_CAUTION = 'Laser guide star: aircraft and satellite avoidance follow the site’s laser-traffic rules and the local aviation authority, not this tool.';
+
+export interface CalendarOptions {
+  /** Host name used in UIDs, e.g. the server's. */
+  domain?: string;
+  /** "Now" for the look-ahead window, ms since 1970 (tests pin it). */
+  nowMs?: number;
+  /** Fixed DTSTAMP for reproducible output, ms since 1970. */
+  stampMs?: number;
+}
+
+export async function campaignCalendar(db: DbOrTx, campaignId: number, options: CalendarOptions = {}): Promise<string> {
+  const campaign = await getById(db, campaignEntity, campaignId);
+  const { targetIds } = await campaignMembers(db, campaignId);
+  const domain = options.domain ?? 'epochwright.invalid';
+  const stamp = new Date(options.stampMs ?? Date.parse(campaign.updatedAt));
+  const cal = ical({ name: `epochwright: ${campaign.name}`, prodId: { company: 'epochwright', product: 'campaign feed', language: 'EN' } });
+
+  const rows = await db
+    .select({ b: blocks, night: nights.date, site: sites.name, target: targets.name, system: systems.name })
+    .from(blocks)
+    .innerJoin(nights, eq(nights.id, blocks.nightId))
+    .innerJoin(sites, eq(sites.id, nights.siteId))
+    .innerJoin(targets, eq(targets.id, blocks.targetId))
+    .innerJoin(systems, eq(systems.id, targets.systemId))
+    .where(and(eq(nights.campaignId, campaignId)))
+    .orderBy(blocks.startUtc);
+  for (const r of rows) {
+    cal.createEvent({
+      id: `block-${r.b.id}@${domain}`,
+      start: new Date(r.b.startUtc),
+      end: new Date(r.b.endUtc),
+      stamp,
+      summary: `${r.target} (${r.system}) ${r.b.kind} at ${r.site} [${r.b.status}]`,
+      description: [`Night ${r.night} at ${r.site}; block ${r.b.id}, version ${r.b.version}.`, r.b.notes, r.b.laserGuideStar ? LASER_CAUTION : ''].filter(Boolean).join('\n'),
+    });
+  }
+
+  const startJd = parseEpoch(`${campaign.startDate}T00:00Z`, 'startDate');
+  const nowJd = unixMsToJd(options.nowMs ?? Date.now());
+  const endJd = Math.max(parseEpoch(`${campaign.endDate}T00:00Z`, 'endDate') + 1, nowJd + 366);
+  if (targetIds.length) {
+    const named = await db.select({ id: targets.id, name: targets.name, system: systems.name }).from(targets).innerJoin(systems, eq(systems.id, targets.systemId)).where(inArray(targets.id, targetIds));
+    for (const t of named) {
+      let found;
+      try {
+        found = await currentOrbit(db, t.id);
+      } catch (err) {
+        if (err instanceof NotFoundError) continue; // a target without a solution has no predicted passages
+        throw err;
+      }
+      for (const ev of findEvents(found.orbit, startJd, endJd, { kinds: ['periapsis'] })) {
+        const at = new Date(jdToUnixMs(ev.jd));
+        cal.createEvent({
+          id: `periapsis-${t.id}-${ev.orbitNumber}-v${found.solution.version}@${domain}`,
+          start: at,
+          end: new Date(at.getTime() + 60_000),
+          stamp,
+          summary: `Periapsis of ${t.name} (${t.system})`,
+          description: `Predicted from orbit solution version ${found.solution.version} (id ${found.solution.id}): ${ev.epoch}.`,
+        });
+      }
+    }
+  }
+  return cal.toString();
+}
+

@@ -1,0 +1,30 @@
+/** Measurements for export, with their system and target names, as JSON rows or CSV (the import layout). */
+import { stringify } from 'csv-stringify/sync';
+import { and, asc, eq, type SQL } from 'drizzle-orm';
+import { measurements, systems, targets } from '../../../db/schema.ts';
+import type { DbOrTx } from '../database.ts';
+import { MEASUREMENT_COLUMNS } from '../csv/columns.ts';
+import type { MeasurementRow } from '../repos/measurements.ts';
+
+export type ExportedMeasurement = MeasurementRow & { system: string; target: string };
+
+/** Every measurement matching `where`, ordered by target and epoch (no paging: exports are whole). */
+export async function measurementsForExport(db: DbOrTx, where: (SQL | undefined)[]): Promise<ExportedMeasurement[]> {
+  const rows = await db
+    .select({ m: measurements, system: systems.name, target: targets.name })
+    .from(measurements)
+    .innerJoin(targets, eq(targets.id, measurements.targetId))
+    .innerJoin(systems, eq(systems.id, targets.systemId))
+    .where(and(...where.filter((w): w is SQL => w !== undefined)))
+    .orderBy(asc(systems.name), asc(targets.name), asc(measurements.epochJd), asc(measurements.id));
+  return rows.map((r) => ({ ...r.m, system: r.system, target: r.target }));
+}
+
+/** RFC 4180 CSV with the header of MEASUREMENT_COLUMNS; numbers as stored (full precision). */
+export function measurementsCsv(rows: readonly ExportedMeasurement[]): string {
+  const cells = rows.map((r) => MEASUREMENT_COLUMNS.map((c) => {
+    const v = (r as Record<string, unknown>)[c];
+    return v === null || v === undefined ? '' : String(v);
+  }));
+  return stringify([[...MEASUREMENT_COLUMNS], ...cells]);
+}
