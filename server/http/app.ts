@@ -6,6 +6,8 @@ import { bodyLimit } from 'hono/body-limit';
 import { HttpError, errorResponse } from './errors.ts';
 import { healthRoutes } from './health.ts';
 import { orbitRoutes } from './orbit.ts';
+import { storeRoutes } from './resources/index.ts';
+import type { Store } from '../store/index.ts';
 import { validationHook } from './validation.ts';
 
 export const VERSION = '0.1.0';
@@ -13,6 +15,8 @@ export const VERSION = '0.1.0';
 export interface AppOptions {
   /** Largest accepted request body, bytes. */
   maxBodyBytes?: number;
+  /** The campaign store; without it only the stateless routes (health, ephemeris, events, sky) exist. */
+  store?: Store;
 }
 
 export function createApp(options: AppOptions = {}) {
@@ -31,6 +35,7 @@ export function createApp(options: AppOptions = {}) {
   const api = new OpenAPIHono({ defaultHook: validationHook });
   api.route('/', healthRoutes(VERSION));
   api.route('/', orbitRoutes());
+  if (options.store) api.route('/', storeRoutes(options.store));
   api.doc31('/openapi.json', { openapi: '3.1.0', info: { title: 'epochwright API', version: VERSION } });
   app.route('/api', api);
   app.all('/api/*', (c) => errorResponse(c, new HttpError(404, 'not_found', `no such endpoint: ${c.req.method} ${c.req.path}`)));
