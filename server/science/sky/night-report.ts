@@ -1,0 +1,156 @@
+/**
+ * One night at one site for a list of targets: Sun, twilights, darkness, Moon, each target's
+ * windows and an altitude/airmass curve for plotting. Times are given in UTC and in the site's zone.
+ */
+import { DEG } from '../constants.ts';
+import { airmass } from './airmass.ts';
+import type { Constraints } from './constraints.ts';
+import { darknessExact, darknessFast, type Interval } from './darkness.ts';
+import { nightFrame } from './frame.ts';
+import { instant, nightSpan, type Instant } from './night.ts';
+import { exactSampler, fastSampler, frameTarget } from './samplers.ts';
+import type { Site } from './site.ts';
+import { moonNight, sunNight, TWILIGHT_SUN_ALTITUDE_DEG, type TwilightKind } from './sun-moon.ts';
+import type { Target } from './target.ts';
+import { findWindows, refineTransit, transitTimes, type Limit } from './windows.ts';
+
+export interface NightOptions {
+  /** "fast" (the night's tables; default) or "exact" (astronomy-engine per instant, slower). */
+  method?: 'fast' | 'exact';
+  /** Window sampling step, minutes, (0, 30]; edges are refined to 1 s. Default 5. */
+  stepMinutes?: number;
+  /** Curve sampling step, minutes; 0 for no curves. Default 10. */
+  curveStepMinutes?: number;
+}
+
+export interface ReportPoint extends Instant {
+  altitudeDeg: number;
+  airmass: number;
+}
+
+export interface ReportWindow {
+  start: Instant;
+  end: Instant;
+  hours: number;
+  opensBy: Limit;
+  closesBy: Limit;
+  transit: ReportPoint | null;
+  best: ReportPoint & { seeingArcsec: number | null; moonSeparationDeg: number };
+}
+
+export interface TargetNight {
+  name: string;
+  /** Apparent place of date at the night's middle, degrees. */
+  raOfDateDeg: number;
+  decOfDateDeg: number;
+  observableHours: number;
+  windows: ReportWindow[];
+  /** Sampled for plotting; airmass is null where the target is below the horizon. */
+  curve: { utc: string[]; altitudeDeg: number[]; airmass: (number | null)[]; moonSeparationDeg: number[] } | null;
+}
+
+export interface NightReport {
+  site: { name: string; timeZone: string; latitudeDeg: number; longitudeDeg: number; elevationM: number; pressureHpa: number; temperatureC: number };
+  night: { date: string; start: Instant; end: Instant; hours: number };
+  sun: {
+    set: Instant | null;
+    rise: Instant | null;
+    midnight: Instant;
+    twilights: Record<TwilightKind, { dusk: Instant | null; dawn: Instant | null; sunAltitudeDeg: number }>;
+  };
+  darkness: { limit: string; intervals: { start: Instant; end: Instant; hours: number }[]; hours: number };
+  moon: { rise: Instant | null; set: Instant | null; transit: Instant | null; illuminatedFraction: number; phaseDeg: number };
+  constraints: { altitudeLimitDeg: number; maxAirmass: number | null; airmassFormula: string; minMoonSeparationDeg: number; sunAvoidanceDeg: number; horizonMask: boolean };
+  method: 'fast' | 'exact';
+  targets: TargetNight[];
+  cautions: string[];
+}
+
+const hoursOf = (i: Interval) => (i.endJd - i.startJd) * 24;
+
+export function nightReport(site: Site, date: string, targets: readonly Target[], c: Constraints, options: NightOptions = {}): NightReport {
+  const method = options.method ?? 'fast';
+  const stepDays = (options.stepMinutes ?? 5) / 1440;
+  const curveStep = options.curveStepMinutes ?? 10;
+  const span = nightSpan(site, date);
+  const zone = site.timeZone;
+  const at = (jd: number | null) => (jd === null ? null : instant(jd, zone));
+  const frame = nightFrame(site, span);
+  const dark = method === 'exact' ? darknessExact(site, span, c.sunLimitDeg) : darknessFast(frame, c.sunLimitDeg);
+  const sun = sunNight(site, span);
+  const moon = moonNight(site, span, sun.midnightJd);
+  const edges: Interval = { startJd: span.startJd, endJd: span.endJd };
+  const point = (p: { jd: number; altitudeDeg: number; airmass: number }): ReportPoint => ({ ...instant(p.jd, zone), altitudeDeg: p.altitudeDeg, airmass: p.airmass });
+
+  const targetNights = targets.map((target): TargetNight => {
+    const ft = frameTarget(frame, target);
+    const fast = fastSampler(frame, ft);
+    const sample = method === 'exact' ? exactSampler(site, target) : fast;
+    let transits = transitTimes(ft.raRad, frame.lastStartRad, frame.lastRateRadPerDay, span.startJd, span.endJd);
+    if (method === 'exact') transits = transits.map((t) => refineTransit(sample, t, frame.lastRateRadPerDay));
+    const windows = findWindows(sample, c, dark, edges, stepDays, transits).map((w) => ({
+      start: instant(w.startJd, zone),
+      end: instant(w.endJd, zone),
+      hours: hoursOf(w),
+      opensBy: w.opensBy,
+      closesBy: w.closesBy,
+      transit: w.transit && point(w.transit),
+      best: { ...point(w.best), seeingArcsec: w.best.seeingArcsec, moonSeparationDeg: w.best.moonSeparationDeg },
+    }));
+    let curve: TargetNight['curve'] = null;
+    if (curveStep > 0) {
+      curve = { utc: [], altitudeDeg: [], airmass: [], moonSeparationDeg: [] };
+      const n = Math.floor((span.endJd - span.startJd) * 1440 / curveStep);
+      for (let i = 0; i <= n; i++) {
+        const jd = span.startJd + (i * curveStep) / 1440;
+        const s = fast(jd);
+        const x = airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg);
+        curve.utc.push(instant(jd, zone).utc);
+        curve.altitudeDeg.push(round(s.altitudeDeg, 3));
+        curve.airmass.push(s.altitudeDeg > 0 && Number.isFinite(x) ? round(x, 4) : null);
+        curve.moonSeparationDeg.push(round(s.moonSeparationDeg, 2));
+      }
+    }
+    return {
+      name: target.name,
+      raOfDateDeg: ft.raRad / DEG,
+      decOfDateDeg: ft.decRad / DEG,
+      observableHours: windows.reduce((h, w) => h + w.hours, 0),
+      windows,
+      curve,
+    };
+  });
+
+  const twilights = {} as NightReport['sun']['twilights'];
+  for (const kind of Object.keys(TWILIGHT_SUN_ALTITUDE_DEG) as TwilightKind[]) {
+    twilights[kind] = { dusk: at(sun.dusk[kind]), dawn: at(sun.dawn[kind]), sunAltitudeDeg: TWILIGHT_SUN_ALTITUDE_DEG[kind] };
+  }
+  return {
+    site: { name: site.name, timeZone: zone, latitudeDeg: site.latitudeDeg, longitudeDeg: site.longitudeDeg, elevationM: site.elevationM, pressureHpa: site.pressureHpa, temperatureC: site.temperatureC },
+    night: { date, start: instant(span.startJd, zone), end: instant(span.endJd, zone), hours: hoursOf(span) },
+    sun: { set: at(sun.setJd), rise: at(sun.riseJd), midnight: instant(sun.midnightJd, zone), twilights },
+    darkness: { limit: c.darknessLabel, intervals: dark.map((d) => ({ start: instant(d.startJd, zone), end: instant(d.endJd, zone), hours: hoursOf(d) })), hours: dark.reduce((h, d) => h + hoursOf(d), 0) },
+    moon: { rise: at(moon.riseJd), set: at(moon.setJd), transit: at(moon.transitJd), illuminatedFraction: moon.illuminatedFraction, phaseDeg: moon.phaseDeg },
+    constraints: { altitudeLimitDeg: c.altitudeLimitDeg, maxAirmass: c.maxAirmass, airmassFormula: c.airmassFormula, minMoonSeparationDeg: c.minMoonSeparationDeg, sunAvoidanceDeg: c.sunAvoidanceDeg, horizonMask: c.mask.length > 0 },
+    method,
+    targets: targetNights,
+    cautions: cautions(c),
+  };
+}
+
+function round(x: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(x * f) / f;
+}
+
+/** The usual cautions for pointing near the Sun; the site's rules always take precedence. */
+export function cautions(c: Constraints): string[] {
+  const out = ['Windows are advisory: the site\'s own pointing limits, Sun-avoidance interlocks and operating rules take precedence.'];
+  if (c.sunLimitDeg > TWILIGHT_SUN_ALTITUDE_DEG.nautical) {
+    out.push(`The darkness limit (${c.darknessLabel}) lets windows start in bright twilight: never point a telescope, finder or camera near the Sun; follow the site's Sun-avoidance rules.`);
+  }
+  if (c.sunAvoidanceDeg < 30) {
+    out.push(`Sun avoidance is set to ${c.sunAvoidanceDeg}°, below the usual 30–45°: check it against the site's rules before observing.`);
+  }
+  return out;
+}

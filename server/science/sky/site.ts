@@ -1,0 +1,154 @@
+/**
+ * Observing sites: where the telescope stands, its clock's zone, its weather for refraction, and
+ * where it may point (a minimum altitude, a horizon mask for mountains and domes, a Sun-avoidance
+ * angle). `validateSite` is the one gate every caller (HTTP, CLI, store) passes a site through.
+ */
+import { Observer } from 'astronomy-engine';
+import { IANAZone } from 'luxon';
+import { InputError, requireFinite } from '../errors.ts';
+import { standardAtmosphere } from './atmosphere.ts';
+
+/** One point of a horizon mask: below `altitudeDeg` at `azimuthDeg` the view is blocked. */
+export interface HorizonPoint {
+  /** Azimuth, degrees from north through east, [0, 360). */
+  azimuthDeg: number;
+  /** Lowest usable (refracted) altitude in that direction, degrees, [−5, 90). */
+  altitudeDeg: number;
+}
+
+/** A site as callers give it. Units are in the names. */
+export interface SiteInput {
+  name?: string;
+  /** Geodetic latitude, degrees, [−90, 90], north positive. */
+  latitudeDeg: number;
+  /** Longitude, degrees east of Greenwich, [−180, 360). */
+  longitudeDeg: number;
+  /** Height above sea level, metres, [−500, 6000]. */
+  elevationM: number;
+  /** IANA time zone for local times, e.g. "America/Santiago". */
+  timeZone: string;
+  /** Air pressure, hPa, [0, 1100]; default from the elevation by the standard atmosphere; 0 turns refraction off. */
+  pressureHpa?: number;
+  /** Air temperature, °C, [−80, 60]; default from the elevation by the standard atmosphere. */
+  temperatureC?: number;
+  /** Lowest altitude the telescope may point at, degrees, [−5, 89]; default 0. */
+  minAltitudeDeg?: number;
+  /** Azimuth-dependent horizon, linearly interpolated (wrapping through north). */
+  horizonMask?: HorizonPoint[];
+  /** Closest the telescope may point to the Sun, degrees, [0, 180); default 45. */
+  sunAvoidanceDeg?: number;
+}
+
+/** A validated site: every default filled in. */
+export interface Site {
+  name: string;
+  latitudeDeg: number;
+  longitudeDeg: number;
+  elevationM: number;
+  timeZone: string;
+  pressureHpa: number;
+  temperatureC: number;
+  minAltitudeDeg: number;
+  /** Sorted by azimuth, no duplicates; empty for a flat horizon. */
+  horizonMask: HorizonPoint[];
+  sunAvoidanceDeg: number;
+  /** astronomy-engine's observer for the same place. */
+  observer: Observer;
+}
+
+/** Sun-avoidance default, degrees (common practice, no source: a typical telescope interlock). */
+export const DEFAULT_SUN_AVOIDANCE_DEG = 45;
+
+function numberIn(field: string, value: unknown, lo: number, hi: number, hiOpen = false): number {
+  const x = requireFinite(field, value);
+  if (x < lo || (hiOpen ? x >= hi : x > hi)) {
+    throw new InputError(field, value, `must lie in [${lo}, ${hi}${hiOpen ? ')' : ']'}`);
+  }
+  return x;
+}
+
+function optional(field: string, value: unknown, lo: number, hi: number, fallback: number, hiOpen = false): number {
+  return value === undefined || value === null ? fallback : numberIn(field, value, lo, hi, hiOpen);
+}
+
+/** Check a site and fill its defaults. @throws InputError naming the first bad field. */
+export function validateSite(input: unknown, prefix = 'site'): Site {
+  if (typeof input !== 'object' || input === null || Array.isArray(input)) {
+    throw new InputError(prefix, input, 'must be an object with latitudeDeg, longitudeDeg, elevationM and timeZone');
+  }
+  const s = input as Record<string, unknown>;
+  const f = (k: string) => `${prefix}.${k}`;
+  const name = s.name === undefined ? 'site' : s.name;
+  if (typeof name !== 'string' || name.trim() === '' || name.length > 100) {
+    throw new InputError(f('name'), s.name, 'must be a non-empty string of at most 100 characters');
+  }
+  const latitudeDeg = numberIn(f('latitudeDeg'), s.latitudeDeg, -90, 90);
+  let longitudeDeg = numberIn(f('longitudeDeg'), s.longitudeDeg, -180, 360, true);
+  if (longitudeDeg > 180) longitudeDeg -= 360;
+  const elevationM = numberIn(f('elevationM'), s.elevationM, -500, 6000);
+  if (typeof s.timeZone !== 'string' || !IANAZone.isValidZone(s.timeZone)) {
+    throw new InputError(f('timeZone'), s.timeZone, 'must be an IANA time zone name such as "America/Santiago" or "UTC"');
+  }
+  const std = standardAtmosphere(elevationM);
+  const pressureHpa = optional(f('pressureHpa'), s.pressureHpa, 0, 1100, std.pressureHpa);
+  const temperatureC = optional(f('temperatureC'), s.temperatureC, -80, 60, std.temperatureC);
+  const minAltitudeDeg = optional(f('minAltitudeDeg'), s.minAltitudeDeg, -5, 89, 0);
+  const sunAvoidanceDeg = optional(f('sunAvoidanceDeg'), s.sunAvoidanceDeg, 0, 180, DEFAULT_SUN_AVOIDANCE_DEG, true);
+  const horizonMask = validateMask(f('horizonMask'), s.horizonMask);
+  return {
+    name: name.trim(),
+    latitudeDeg,
+    longitudeDeg,
+    elevationM,
+    timeZone: s.timeZone,
+    pressureHpa,
+    temperatureC,
+    minAltitudeDeg,
+    horizonMask,
+    sunAvoidanceDeg,
+    observer: new Observer(latitudeDeg, longitudeDeg, elevationM),
+  };
+}
+
+function validateMask(field: string, value: unknown): HorizonPoint[] {
+  if (value === undefined || value === null) return [];
+  if (!Array.isArray(value) || value.length > 720) {
+    throw new InputError(field, value, 'must be an array of at most 720 { azimuthDeg, altitudeDeg } points');
+  }
+  const points = value.map((p: unknown, i) => {
+    if (typeof p !== 'object' || p === null) throw new InputError(`${field}.${i}`, p, 'must be an object { azimuthDeg, altitudeDeg }');
+    const q = p as Record<string, unknown>;
+    return {
+      azimuthDeg: numberIn(`${field}.${i}.azimuthDeg`, q.azimuthDeg, 0, 360, true),
+      altitudeDeg: numberIn(`${field}.${i}.altitudeDeg`, q.altitudeDeg, -5, 90, true),
+    };
+  });
+  points.sort((a, b) => a.azimuthDeg - b.azimuthDeg);
+  for (let i = 1; i < points.length; i++) {
+    if (points[i]!.azimuthDeg === points[i - 1]!.azimuthDeg) {
+      throw new InputError(field, value, `must not give azimuth ${points[i]!.azimuthDeg}° twice`);
+    }
+  }
+  return points;
+}
+
+/** Mask altitude (degrees) at an azimuth (degrees), interpolated linearly with wrap-around; −90 without a mask. */
+export function maskAltitudeDeg(mask: readonly HorizonPoint[], azimuthDeg: number): number {
+  const n = mask.length;
+  if (n === 0) return -90;
+  if (n === 1) return mask[0]!.altitudeDeg;
+  let hi = 0;
+  while (hi < n && mask[hi]!.azimuthDeg <= azimuthDeg) hi++;
+  const a = mask[(hi - 1 + n) % n]!;
+  const b = mask[hi % n]!;
+  let span = b.azimuthDeg - a.azimuthDeg;
+  let off = azimuthDeg - a.azimuthDeg;
+  if (span <= 0) span += 360;
+  if (off < 0) off += 360;
+  return a.altitudeDeg + ((b.altitudeDeg - a.altitudeDeg) * off) / span;
+}
+
+/** Highest altitude anywhere on the mask, degrees (−90 without a mask). */
+export function maskMaxAltitudeDeg(mask: readonly HorizonPoint[]): number {
+  return mask.reduce((m, p) => Math.max(m, p.altitudeDeg), -90);
+}
