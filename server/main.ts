@@ -1,8 +1,11 @@
 /**
- * `npm start`: the HTTP server on 127.0.0.1 (or HOST), port PORT (default 8417).
+ * `npm start`: open the campaign store (DATABASE_URL, or a file in the data folder), load the demo
+ * on first start unless EPOCHWRIGHT_DEMO=0, and serve the API on 127.0.0.1 (or HOST), port PORT
+ * (default 8417). On first start the local lead's token is printed once.
  */
 import { serve } from '@hono/node-server';
 import { createApp } from './http/app.ts';
+import { startStore } from './store/startup.ts';
 
 const port = Number(process.env.PORT ?? 8417);
 const hostname = process.env.HOST ?? '127.0.0.1';
@@ -11,13 +14,30 @@ if (!Number.isInteger(port) || port < 0 || port > 65535) {
   process.exit(2);
 }
 
-const app = createApp();
+let started;
+try {
+  started = await startStore();
+} catch (err) {
+  console.error(`epochwright: cannot open the database: ${err instanceof Error ? err.message : String(err)}`);
+  process.exit(1);
+}
+const { store, demo, firstLead } = started;
+const app = createApp({ store });
 const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
-  console.log(`epochwright listening on http://${hostname}:${info.port}/ (API at /api, health at /api/health)`);
+  const base = `http://${hostname}:${info.port}/`;
+  console.log(`epochwright listening on ${base} (API at /api, OpenAPI at /api/openapi.json)`);
+  console.log(`database: ${store.database.url.replace(/\/\/[^@/]*@/, '//…@')}`);
+  if (demo) console.log(`demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty store)`);
+  if (firstLead) {
+    console.log(`first start: created lead ${JSON.stringify(firstLead.user.name)}. Its token is shown this once; keep it safe:`);
+    console.log(`  token: ${firstLead.secret}`);
+    console.log(`  sign in: ${base}?token=${firstLead.secret}`);
+  }
 });
 for (const sig of ['SIGINT', 'SIGTERM'] as const) {
   process.on(sig, () => {
     server.close();
+    store.database.close();
     process.exit(0);
   });
 }

@@ -30,7 +30,7 @@ export function exchangeRoutes(store: Store) {
       security,
       summary: 'Import a CSV file of targets, orbit solutions or measurements, all rows or none',
       request: { params: KindParam, query: ImportQuery, body: { content: { 'text/csv': { schema: z.string() } }, required: true } },
-      responses: { 200: json(Report, 'imported (or checked, in a dry run)'), 422: json(z.object({ error: z.object({ code: z.string(), message: z.string(), details: Report }) }), 'bad rows: every one listed, nothing written'), ...errorResponses },
+      responses: { ...errorResponses, 200: json(Report, 'imported (or checked, in a dry run)'), 422: json(z.object({ error: z.object({ code: z.string(), message: z.string(), details: Report }) }), 'bad rows: every one listed, nothing written') },
     }),
     h(async (c) => {
       const kind = valid(c, 'param').kind as CsvKind;
