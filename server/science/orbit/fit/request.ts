@@ -1,0 +1,112 @@
+/**
+ * A fit request checked field by field before anything is computed. Errors name the dotted path
+ * of the field, its value and the rule, as everywhere in the engine.
+ */
+import { InputError, requireFinite } from '../../errors.ts';
+import { parseEpoch } from '../../time/index.ts';
+import type { RelativitySwitches } from '../types.ts';
+import { readMeasurements, type Observation } from './measurements.ts';
+import type { FitRequest, PriorInput, RangeHint, SamplerOptions, StarHints } from './types.ts';
+
+export interface CheckedStar {
+  name: string;
+  obs: Observation[];
+  hints: StarHints;
+}
+
+export interface CheckedRequest {
+  stars: CheckedStar[];
+  relativity: RelativitySwitches;
+  frameOffset: boolean;
+  frameDrift: boolean;
+  frameEpochJd: number | null;
+  fixed: [string, number][];
+  priors: [string, PriorInput][];
+  loss: 'gaussian' | 'huber';
+  asOfJd: number | null;
+  sample: Required<SamplerOptions> | null;
+}
+
+const NAME_RE = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,39}$/;
+const SWITCHES = ['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession'] as const;
+
+function epoch(field: string, v: unknown): number {
+  return typeof v === 'number' ? requireFinite(field, v) : parseEpoch(v, field);
+}
+
+function range(field: string, v: unknown, lo: number, hi: number): RangeHint {
+  if (typeof v !== 'object' || v === null) throw new InputError(field, v, 'must be an object { min, max }');
+  const r = v as Record<string, unknown>;
+  const min = requireFinite(`${field}.min`, r.min), max = requireFinite(`${field}.max`, r.max);
+  if (!(min >= lo)) throw new InputError(`${field}.min`, min, `must be ≥ ${lo}`);
+  if (!(max <= hi)) throw new InputError(`${field}.max`, max, `must be ≤ ${hi}`);
+  if (!(max >= min)) throw new InputError(`${field}.max`, max, `must be ≥ min (${min})`);
+  return { min, max };
+}
+
+function boolOf(field: string, v: unknown): boolean {
+  if (v === undefined) return false;
+  if (typeof v !== 'boolean') throw new InputError(field, v, 'must be true or false');
+  return v;
+}
+
+export function checkRequest(req: FitRequest): CheckedRequest {
+  if (typeof req !== 'object' || req === null) throw new InputError('request', req, 'must be an object');
+  if (!Array.isArray(req.stars) || req.stars.length === 0) throw new InputError('stars', req.stars, 'must be a non-empty list of stars with their measurements');
+  if (req.stars.length > 20) throw new InputError('stars', req.stars.length, 'must list at most 20 stars');
+  const names = new Set<string>();
+  const stars = req.stars.map((s, k): CheckedStar => {
+    const p = `stars.${k}`;
+    if (typeof s !== 'object' || s === null) throw new InputError(p, s, 'must be an object');
+    if (typeof s.name !== 'string' || !NAME_RE.test(s.name)) throw new InputError(`${p}.name`, s.name, 'must be 1–40 letters, digits, "-", "_" or ".", starting with a letter or digit');
+    if (names.has(s.name)) throw new InputError(`${p}.name`, s.name, 'appears twice');
+    names.add(s.name);
+    const hints: StarHints = {};
+    if (s.hints !== undefined) {
+      if (typeof s.hints !== 'object' || s.hints === null) throw new InputError(`${p}.hints`, s.hints, 'must be an object');
+      if (s.hints.periodYears !== undefined) hints.periodYears = range(`${p}.hints.periodYears`, s.hints.periodYears, 1e-6, 1e6);
+      if (s.hints.eccentricity !== undefined) hints.eccentricity = range(`${p}.hints.eccentricity`, s.hints.eccentricity, 0, 0.99);
+    }
+    return { name: s.name, obs: readMeasurements(s.measurements, `${p}.measurements`), hints };
+  });
+  const relativity: RelativitySwitches = { romer: false, gravitationalRedshift: false, transverseDoppler: false, precession: false };
+  if (req.relativity !== undefined) {
+    if (typeof req.relativity !== 'object' || req.relativity === null) throw new InputError('relativity', req.relativity, 'must be an object of switches');
+    for (const [key, v] of Object.entries(req.relativity)) {
+      if (!(SWITCHES as readonly string[]).includes(key)) throw new InputError(`relativity.${key}`, v, `is not a switch; known: ${SWITCHES.join(', ')}`);
+      relativity[key as keyof RelativitySwitches] = boolOf(`relativity.${key}`, v);
+    }
+  }
+  const frame = req.frame ?? {};
+  if (typeof frame !== 'object' || frame === null) throw new InputError('frame', frame, 'must be an object { offset, drift }');
+  const fixed = Object.entries(req.fixed ?? {}).map(([k, v]): [string, number] => [k, requireFinite(`fixed.${k}`, v)]);
+  const priors = Object.entries(req.priors ?? {}).map(([k, v]): [string, PriorInput] => {
+    if (typeof v !== 'object' || v === null) throw new InputError(`priors.${k}`, v, 'must be an object { mean, sigma }');
+    const sigma = requireFinite(`priors.${k}.sigma`, v.sigma);
+    if (!(sigma > 0)) throw new InputError(`priors.${k}.sigma`, sigma, 'must be greater than 0');
+    return [k, { mean: requireFinite(`priors.${k}.mean`, v.mean), sigma }];
+  });
+  const loss = req.loss ?? 'gaussian';
+  if (loss !== 'gaussian' && loss !== 'huber') throw new InputError('loss', loss, 'must be "gaussian" or "huber"');
+  return {
+    stars, relativity, fixed, priors, loss,
+    frameOffset: boolOf('frame.offset', frame.offset),
+    frameDrift: boolOf('frame.drift', frame.drift),
+    frameEpochJd: req.frameEpoch === undefined ? null : epoch('frameEpoch', req.frameEpoch),
+    asOfJd: req.asOf === undefined ? null : epoch('asOf', req.asOf),
+    sample: req.sample === undefined ? null : checkSampler(req.sample),
+  };
+}
+
+function checkSampler(s: SamplerOptions): Required<SamplerOptions> {
+  if (typeof s !== 'object' || s === null) throw new InputError('sample', s, 'must be an object { seed, walkers?, steps?, burn? }');
+  const seed = requireFinite('sample.seed', s.seed);
+  if (!Number.isInteger(seed)) throw new InputError('sample.seed', seed, 'must be an integer');
+  const steps = s.steps ?? 2000;
+  if (!Number.isInteger(steps) || steps < 100 || steps > 100_000) throw new InputError('sample.steps', steps, 'must be an integer from 100 to 100000');
+  const burn = s.burn ?? Math.floor(steps / 2);
+  if (!Number.isInteger(burn) || burn < 0 || burn > 100_000) throw new InputError('sample.burn', burn, 'must be an integer from 0 to 100000');
+  const walkers = s.walkers ?? 0; // 0: chosen from the number of free parameters
+  if (!Number.isInteger(walkers) || walkers < 0 || walkers > 1000 || walkers % 2 !== 0) throw new InputError('sample.walkers', walkers, 'must be an even integer up to 1000');
+  return { seed, steps, burn, walkers };
+}

@@ -1,0 +1,168 @@
+/**
+ * From a minimum to what users read: every parameter and derived quantity with its 1σ (linear
+ * propagation through the covariance, gradients by central differences of quantities.ts),
+ * residuals per measurement with outliers flagged, and per star an OrbitInput with its covariance
+ * that can be stored as a new orbit-solution version.
+ */
+import { DEG } from '../../constants.ts';
+import { jdToIso } from '../../time/index.ts';
+import { COVARIANCE_PARAMETERS, type CovarianceParameter, type OrbitInput } from '../types.ts';
+import { propagate } from './covariance.ts';
+import { starOrbit } from './layout.ts';
+import { evaluateModel, stepFor } from './model.ts';
+import { nextCycle, quantityNames, starQuantities } from './quantities.ts';
+import type { CheckedRequest } from './request.ts';
+import type { Solution } from './solve.ts';
+import type { DerivedQuantity, FittedParameter, Residual } from './types.ts';
+
+/** |whitened residual| above this flags the measurement as an outlier. */
+export const OUTLIER_SIGMA = 5;
+
+export interface StarSolution {
+  name: string;
+  /** Elements, Thiele–Innes constants and (with a distance) physical quantities, each with 1σ. */
+  quantities: (DerivedQuantity & { fitted: boolean })[];
+  /** The solution as an orbit input, with the covariance of the elements, distance and γ. */
+  orbit: OrbitInput;
+  nextPeriapsis: string;
+  chi2: number;
+  components: number;
+}
+
+export interface FitResult {
+  method: string;
+  derivatives: string;
+  loss: 'gaussian' | 'huber';
+  stars: StarSolution[];
+  /** The fitted vector in interface units (fixed ones with σ = 0). */
+  parameters: FittedParameter[];
+  /** Covariance of the free parameters, interface units. */
+  covariance: { parameters: string[]; matrix: number[][] };
+  chi2: number;
+  dof: number;
+  reducedChi2: number | null;
+  components: number;
+  iterations: number;
+  converged: boolean;
+  frameEpoch: string | null;
+  asOf: string;
+  residuals: Residual[];
+  outliers: number;
+  sampler?: { walkers: number; steps: number; burn: number; seed: number; acceptance: number; samples: number };
+}
+
+const wrap180 = (x: number) => x - 360 * Math.round(x / 360);
+
+/** ∂q/∂x for every quantity of star k over the free parameters, by central differences. */
+export function quantityGradients(sol: Solution, k: number, cycle: number): Float64Array[] {
+  const { L, problem, theta } = sol;
+  const desc = quantityNames(L);
+  const grads = desc.map(() => new Float64Array(problem.n));
+  problem.free.forEach((idx, j) => {
+    const h = stepFor(L, theta, idx);
+    const tp = Float64Array.from(theta), tm = Float64Array.from(theta);
+    tp[idx] = theta[idx]! + h;
+    tm[idx] = theta[idx]! - h;
+    const qp = starQuantities(L, tp, k, cycle), qm = starQuantities(L, tm, k, cycle);
+    desc.forEach((d, q) => {
+      const diff = qp[q]! - qm[q]!;
+      grads[q]![j] = (d.angle ? wrap180(diff) : diff) / (2 * h);
+    });
+  });
+  return grads;
+}
+
+/** Derived dates count from the request's asOf, or from the latest epoch. */
+export function asOfJdOf(sol: Solution, req: CheckedRequest): number {
+  return req.asOfJd ?? Math.max(...sol.L.stars.flatMap((s) => Array.from(s.jd)));
+}
+
+export function assemble(sol: Solution, req: CheckedRequest, derivatives: string): FitResult {
+  const { L, problem, theta, lm, covariance: C } = sol;
+  const asOfJd = asOfJdOf(sol, req);
+  const freePos = new Map(problem.free.map((idx, j) => [idx, j]));
+  const parameters: FittedParameter[] = L.params.map((p, idx) => {
+    const j = freePos.get(idx);
+    const raw = theta[idx]! * p.scale;
+    return {
+      name: p.name,
+      value: p.angle && p.key !== 'inclinationDeg' ? ((raw % 360) + 360) % 360 : raw,
+      sigma: j === undefined ? 0 : Math.sqrt(Math.max(C[j]![j]!, 0)) * Math.abs(p.scale),
+      unit: p.unit,
+      fixed: j === undefined,
+    };
+  });
+  const names = problem.free.map((idx) => L.params[idx]!.name);
+  const scales = problem.free.map((idx) => L.params[idx]!.scale);
+  const covariance = { parameters: names, matrix: C.map((row, a) => row.map((v, b) => v * scales[a]! * scales[b]!)) };
+  const { r } = problem.evaluate(lm.x, false);
+  const model = evaluateModel(L, theta, false).values;
+  const residuals: Residual[] = [];
+  const stars = L.stars.map((s, k): StarSolution => {
+    const cycle = nextCycle(L, theta, k, asOfJd);
+    const desc = quantityNames(L);
+    const values = starQuantities(L, theta, k, cycle);
+    const grads = quantityGradients(sol, k, cycle);
+    const own = new Set(L.params.filter((p) => (p.star === k || p.star === null) && !parameters[L.params.indexOf(p)]!.fixed).map((p) => p.key as string));
+    const quantities = desc.map((d, q) => ({ name: d.name, value: values[q]!, sigma: Math.sqrt(propagate(C, grads[q]!)), unit: d.unit, fitted: own.has(d.name) }));
+    const covNames = COVARIANCE_PARAMETERS.filter((n) => desc.some((d) => d.name === n));
+    const gi = covNames.map((n) => grads[desc.findIndex((d) => d.name === n)]!);
+    const matrix = gi.map((ga) => gi.map((gb) => bilinear(C, ga, gb)));
+    const o = starOrbit(L, theta, k);
+    const at = (n: string) => values[desc.findIndex((d) => d.name === n)]!;
+    const orbit: OrbitInput = {
+      elements: {
+        kind: 'campbell', periodYears: at('periodYears'), periapsis: `JD ${at('periapsisDays').toFixed(6)}`, eccentricity: at('eccentricity'),
+        semiMajorAxisArcsec: at('semiMajorAxisArcsec'), inclinationDeg: at('inclinationDeg'), ascendingNodeDeg: at('ascendingNodeDeg'), argPeriapsisDeg: at('argPeriapsisDeg'),
+      },
+      ...(o.distancePc !== null ? { distancePc: o.distancePc } : {}),
+      ...(L.sys.gamma >= 0 ? { systemicVelocityKmS: o.gammaKmS } : {}),
+      relativity: { ...L.relativity },
+      covariance: { parameters: covNames as CovarianceParameter[], matrix },
+    };
+    let chi2 = 0, comps = 0;
+    let c = s.firstComponent;
+    for (const m of s.obs) {
+      const n = m.kind === 'rv' ? 1 : 2;
+      const res: number[] = [], norm: number[] = [];
+      let outlier = false;
+      for (let q = 0; q < n; q++) {
+        let d = m.value[q]! - model[c + q]!;
+        if (m.kind === 'separation' && q === 1) d = Math.atan2(Math.sin(d), Math.cos(d));
+        res.push(m.kind === 'separation' && q === 1 ? d / DEG : d);
+        norm.push(d / m.sigma[q]!);
+        chi2 += r[c + q]! ** 2;
+        if (Math.abs(r[c + q]!) > OUTLIER_SIGMA) outlier = true;
+      }
+      comps += n;
+      residuals.push({ star: s.name, index: m.index, ...(m.id !== undefined ? { id: m.id } : {}), kind: m.kind, jd: m.jd, epoch: jdToIso(m.jd), residual: res, normalized: norm, outlier });
+      c += n;
+    }
+    return { name: s.name, quantities, orbit, nextPeriapsis: jdToIso(at('nextPeriapsisJd')), chi2, components: comps };
+  });
+  const dof = problem.rows - problem.n;
+  return {
+    method: 'grid over P, e, T with linear Thiele–Innes and γ/distance solves; Levenberg–Marquardt on all parameters',
+    derivatives,
+    loss: req.loss,
+    stars,
+    parameters,
+    covariance,
+    chi2: lm.chi2,
+    dof,
+    reducedChi2: dof > 0 ? lm.chi2 / dof : null,
+    components: L.components,
+    iterations: lm.iterations,
+    converged: lm.converged,
+    frameEpoch: L.sys.x0 >= 0 || L.sys.vx >= 0 ? jdToIso(L.frameEpochJd) : null,
+    asOf: jdToIso(asOfJd),
+    residuals,
+    outliers: residuals.filter((x) => x.outlier).length,
+  };
+}
+
+function bilinear(C: number[][], a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let s = 0;
+  for (let i = 0; i < C.length; i++) for (let j = 0; j < C.length; j++) s += a[i]! * C[i]![j]! * b[j]!;
+  return s;
+}

@@ -1,0 +1,212 @@
+/**
+ * The fit itself: refusals first, then per star the grid start and Levenberg–Marquardt, then (for
+ * several stars) the joint fit that shares the mass, the distance, γ and the frame, started from
+ * the single-star solutions. Returns the minimum and its covariance; result.ts dresses it up.
+ */
+import { JULIAN_YEAR_DAYS } from '../../constants.ts';
+import { thieleInnesToCampbell } from '../elements.ts';
+import { covarianceFromJacobian } from './covariance.ts';
+import { gridSearch, type GridNode } from './grid.ts';
+import { buildLayout, findParameter, type Layout, starOrbit } from './layout.ts';
+import { levenbergMarquardt, type LmResult } from './lm.ts';
+import { canonicalize, makeProblem, type Prior, type Problem } from './problem.ts';
+import { FitRefusal } from './refusal.ts';
+import type { CheckedRequest, CheckedStar } from './request.ts';
+
+export interface Solution {
+  L: Layout;
+  problem: Problem;
+  /** The full parameter vector at the minimum (internal units). */
+  theta: Float64Array;
+  lm: LmResult;
+  /** Covariance of the free parameters (internal units), in the order of problem.free. */
+  covariance: number[][];
+}
+
+interface Built {
+  L: Layout;
+  base: Float64Array;
+  free: number[];
+  fixedMask: boolean[];
+  priors: Prior[];
+}
+
+/** Layout, fixed values and priors for some of the request's stars. `strict`: unknown names are errors. */
+export function build(req: CheckedRequest, stars: CheckedStar[], strict: boolean): Built {
+  const ast = req.stars.flatMap((s) => s.obs.filter((m) => m.kind !== 'rv').map((m) => m.jd));
+  const frameEpochJd = req.frameEpochJd ?? (ast.length ? ast.reduce((a, b) => a + b, 0) / ast.length : 0);
+  const distanceWanted = req.fixed.some(([k]) => k === 'distancePc') || req.priors.some(([k]) => k === 'distancePc');
+  const L = buildLayout(stars, { relativity: req.relativity, frameOffset: req.frameOffset, frameDrift: req.frameDrift, frameEpochJd, distanceWanted });
+  const base = new Float64Array(L.params.length);
+  const fixedMask = L.params.map(() => false);
+  const lookup = (name: string, field: string): number => {
+    try {
+      return findParameter(L, name, field);
+    } catch (err) {
+      if (strict) throw err;
+      return -1;
+    }
+  };
+  for (const [name, v] of req.fixed) {
+    const j = lookup(name, `fixed.${name}`);
+    if (j < 0) continue;
+    base[j] = v / L.params[j]!.scale;
+    fixedMask[j] = true;
+  }
+  const priors: Prior[] = [];
+  for (const [name, p] of req.priors) {
+    const j = lookup(name, `priors.${name}`);
+    if (j >= 0) priors.push({ index: j, mean: p.mean / L.params[j]!.scale, sigma: p.sigma / L.params[j]!.scale });
+  }
+  const free = L.params.map((_, j) => j).filter((j) => !fixedMask[j]);
+  return { L, base, free, fixedMask, priors };
+}
+
+function components(star: CheckedStar): number {
+  return star.obs.reduce((n, m) => n + (m.kind === 'rv' ? 1 : 2), 0);
+}
+
+/** The refusals that need no fit: no astrometry, too few measurements, one epoch. */
+function refuseEarly(star: CheckedStar, ownParams: number): void {
+  const ast = star.obs.filter((m) => m.kind !== 'rv');
+  if (ast.length === 0) {
+    throw new FitRefusal('no-astrometry', `star ${star.name}: no astrometric measurement; radial velocities alone give a·sin i, not the orbit on the sky — add offsets or separations`, [star.name]);
+  }
+  const n = components(star);
+  if (n < ownParams) {
+    throw new FitRefusal('too-few-measurements', `star ${star.name}: ${n} measurement components (${ast.length} astrometric epochs count twice) for ${ownParams} free parameters of its orbit — at least ${ownParams} are needed`, [star.name]);
+  }
+  const jd = ast.map((m) => m.jd);
+  const span = Math.max(...jd) - Math.min(...jd);
+  const pMin = star.hints.periodYears ? star.hints.periodYears.min * JULIAN_YEAR_DAYS : 1;
+  if (!(span >= 1e-3 * pMin)) {
+    throw new FitRefusal('single-phase', `star ${star.name}: all ${ast.length} astrometric epochs fall at one orbital phase (they span ${span.toFixed(3)} d); an orbit needs epochs spread along it`, [star.name]);
+  }
+}
+
+/** Refuse when every epoch of a star sits within 0.5% of the fitted orbit's phase (e.g. epochs one period apart). */
+function refuseSinglePhase(L: Layout, theta: Float64Array): void {
+  L.stars.forEach((s, k) => {
+    const o = starOrbit(L, theta, k);
+    const ph = Array.from(s.jd, (t) => {
+      const f = (t - o.periapsisJd) / o.periodDays;
+      return f - Math.floor(f);
+    }).sort((a, b) => a - b);
+    let gap = 1 - ph[ph.length - 1]! + ph[0]!;
+    for (let q = 1; q < ph.length; q++) gap = Math.max(gap, ph[q]! - ph[q - 1]!);
+    if (1 - gap < 0.005) {
+      throw new FitRefusal('single-phase', `star ${s.name}: at the fitted period of ${(o.periodDays / JULIAN_YEAR_DAYS).toPrecision(6)} yr all ${s.jd.length} epochs fall at orbital phase ${ph[0]!.toFixed(3)} (within ${((1 - gap) * 100).toFixed(2)}% of the orbit); add epochs at other phases`, [s.name]);
+    }
+  });
+}
+
+function lmOn(b: Built, theta0: Float64Array, req: CheckedRequest): { problem: Problem; lm: LmResult; theta: Float64Array } {
+  for (let j = 0; j < theta0.length; j++) if (b.fixedMask[j]) theta0[j] = b.base[j]!;
+  canonicalize(b.L, theta0);
+  const problem = makeProblem(b.L, theta0, b.free, b.priors);
+  const lm = levenbergMarquardt(problem, Float64Array.from(b.free, (j) => theta0[j]!), { loss: req.loss });
+  return { problem, lm, theta: problem.full(lm.x) };
+}
+
+function covarianceOf(problem: Problem, lm: LmResult, req: CheckedRequest): number[][] {
+  const { J } = problem.evaluate(lm.x, true);
+  const names = problem.free.map((j) => problem.L.params[j]!.name);
+  return covarianceFromJacobian(J!, problem.rows, problem.n, req.loss === 'huber' ? lm.weights : null, names);
+}
+
+/** The start vector of a single-star layout from a grid node. */
+function startFromNode(b: Built, node: GridNode): Float64Array {
+  const { L } = b;
+  const t = new Float64Array(L.params.length);
+  const s = L.stars[0]!.slots;
+  t[s.P] = node.periodDays;
+  t[s.T] = node.periapsisJd;
+  t[s.e] = node.e;
+  if (s.A >= 0) {
+    t[s.A] = node.A; t[s.B] = node.B; t[s.F] = node.F; t[s.G] = node.G;
+  } else {
+    const c = thieleInnesToCampbell(node);
+    const flip = (node.signedDistancePc ?? 1) < 0 ? Math.PI : 0;
+    if (s.a >= 0) t[s.a] = c.a;
+    t[s.i] = c.iRad;
+    t[s.node] = c.nodeRad + flip;
+    t[s.arg] = c.argRad + flip;
+  }
+  const prior = (j: number) => b.priors.find((p) => p.index === j)?.mean;
+  if (L.sys.d >= 0) t[L.sys.d] = node.signedDistancePc !== null ? Math.abs(node.signedDistancePc) : (prior(L.sys.d) ?? 1000);
+  if (L.sys.gamma >= 0) t[L.sys.gamma] = node.gamma ?? 0;
+  if (L.sys.x0 >= 0) { t[L.sys.x0] = node.frame[0]; t[L.sys.y0] = node.frame[1]; }
+  if (L.sys.vx >= 0) { t[L.sys.vx] = node.frame[2]; t[L.sys.vy] = node.frame[3]; }
+  return t;
+}
+
+/** Grid + LM for one star alone (its own distance and γ when it has velocities). */
+export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolean, withCovariance = true): Solution {
+  const b = build(req, [star], strict);
+  refuseEarly(star, 7);
+  if (b.free.length > b.L.components + b.priors.length) {
+    throw new FitRefusal('too-few-measurements', `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`);
+  }
+  const jd = star.obs.map((m) => m.jd);
+  const span = Math.max(1, Math.max(...jd) - Math.min(...jd));
+  const fixedVal = (key: string) => {
+    const j = b.L.params.findIndex((p) => p.key === key);
+    return j >= 0 && b.fixedMask[j] ? b.base[j]! : null;
+  };
+  const pFix = fixedVal('periodYears'), eFix = fixedVal('eccentricity');
+  const hp = star.hints.periodYears;
+  const periodDays = pFix !== null ? { min: pFix, max: pFix } : hp ? { min: hp.min * JULIAN_YEAR_DAYS, max: hp.max * JULIAN_YEAR_DAYS } : { min: span / 2, max: 20 * span };
+  const eccentricity = eFix !== null ? { min: eFix, max: eFix } : star.hints.eccentricity ?? { min: 0, max: 0.97 };
+  const nodes = gridSearch(star.obs, { periodDays, eccentricity, frameOffset: req.frameOffset, frameDrift: req.frameDrift, frameEpochJd: b.L.frameEpochJd, keep: 5 });
+  if (nodes.length === 0) {
+    throw new FitRefusal('no-start', `star ${star.name}: no orbit in the search ranges fits the measurements by linear least squares (too few distinct epochs, or fewer than two radial velocities)`, [star.name]);
+  }
+  let best: ReturnType<typeof lmOn> | null = null;
+  for (const node of nodes) {
+    const r = lmOn(b, startFromNode(b, node), req);
+    if (!best || r.lm.cost < best.lm.cost) best = r;
+  }
+  refuseSinglePhase(b.L, best!.theta);
+  return { L: b.L, problem: best!.problem, theta: best!.theta, lm: best!.lm, covariance: withCovariance ? covarianceOf(best!.problem, best!.lm, req) : [] };
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s.length % 2 ? s[(s.length - 1) / 2]! : 0.5 * (s[s.length / 2 - 1]! + s[s.length / 2]!);
+}
+
+/** The fit of a request: one star alone, or all stars jointly around one primary. */
+export function solve(req: CheckedRequest): Solution {
+  if (req.stars.length === 1) return solveStar(req, req.stars[0]!, true);
+  const b = build(req, req.stars, true);
+  if (b.free.length > b.L.components + b.priors.length) {
+    throw new FitRefusal('too-few-measurements', `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`);
+  }
+  const singles = req.stars.map((s) => solveStar(req, s, false, false));
+  const { L } = b;
+  const t = new Float64Array(L.params.length);
+  const ds = singles.filter((s) => s.L.stars[0]!.hasRv).map((s) => s.theta[s.L.sys.d]!);
+  const dPrior = b.priors.find((p) => p.index === L.sys.d)?.mean;
+  const d0 = b.fixedMask[L.sys.d] ? b.base[L.sys.d]! : ds.length ? median(ds) : dPrior;
+  if (d0 === undefined) {
+    throw new FitRefusal('singular', 'the distance is not constrained: no star has radial velocities — add some, give distancePc a prior, or fix it', ['distancePc']);
+  }
+  t[L.sys.d] = d0;
+  const masses: number[] = [];
+  singles.forEach((s, k) => {
+    const o = starOrbit(s.L, s.theta, 0);
+    const slots = L.stars[k]!.slots;
+    t[slots.P] = o.periodDays; t[slots.T] = o.periapsisJd; t[slots.e] = o.e;
+    t[slots.i] = o.iRad; t[slots.node] = o.nodeRad; t[slots.arg] = o.argRad;
+    masses.push(((o.aMas / 1000) * d0) ** 3 / (o.periodDays / JULIAN_YEAR_DAYS) ** 2);
+  });
+  t[L.sys.M] = median(masses);
+  const withRv = singles.filter((s) => s.L.sys.gamma >= 0);
+  if (L.sys.gamma >= 0) t[L.sys.gamma] = withRv.reduce((a, s) => a + s.theta[s.L.sys.gamma]!, 0) / withRv.length;
+  for (const key of ['x0', 'y0', 'vx', 'vy'] as const) {
+    if (L.sys[key] >= 0) t[L.sys[key]] = singles.reduce((a, s) => a + s.theta[s.L.sys[key]]!, 0) / singles.length;
+  }
+  const r = lmOn(b, t, req);
+  refuseSinglePhase(L, r.theta);
+  return { L, problem: r.problem, theta: r.theta, lm: r.lm, covariance: covarianceOf(r.problem, r.lm, req) };
+}

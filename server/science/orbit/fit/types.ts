@@ -1,0 +1,139 @@
+/**
+ * What a fit takes and what it returns. Interface units (mas, km/s, degrees, years, epochs as
+ * strings or JD) in the inputs and the reported values; internal units live in layout.ts.
+ */
+import type { RelativitySwitches } from '../types.ts';
+
+/** An astrometric offset of the star from the primary's reference point. */
+export interface OffsetInput {
+  kind: 'offset';
+  /** Epoch: ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number. */
+  epoch: string | number;
+  /** Δα* = Δα·cos δ, east positive, mas. */
+  dRaMas: number;
+  /** Δδ, north positive, mas. */
+  dDecMas: number;
+  sigmaRaMas: number;
+  sigmaDecMas: number;
+  /** Correlation of the Δα* and Δδ errors, −1 < ρ < 1. Default 0. */
+  correlation?: number;
+  /** The caller's identifier, echoed in the residuals. */
+  id?: string;
+}
+
+/** An astrometric position as separation and position angle. */
+export interface SeparationInput {
+  kind: 'separation';
+  epoch: string | number;
+  separationMas: number;
+  /** Position angle, north through east, degrees. */
+  positionAngleDeg: number;
+  sigmaSeparationMas: number;
+  sigmaPositionAngleDeg: number;
+  id?: string;
+}
+
+/** A radial velocity of the star, km/s, positive receding. */
+export interface VelocityInput {
+  kind: 'rv';
+  epoch: string | number;
+  velocityKmS: number;
+  sigmaKmS: number;
+  id?: string;
+}
+
+export type MeasurementInput = OffsetInput | SeparationInput | VelocityInput;
+
+/** A range or a single value to search around. */
+export interface RangeHint {
+  min: number;
+  max: number;
+}
+
+/** Where the global search looks for one star; every field optional. */
+export interface StarHints {
+  /** Period range, Julian years. Default: half the span of the epochs to twenty spans. */
+  periodYears?: RangeHint;
+  /** Eccentricity range inside [0, 0.99]. Default: the whole of it. */
+  eccentricity?: RangeHint;
+}
+
+export interface StarInput {
+  /** A short name, unique in the request (letters, digits, - _ .). */
+  name: string;
+  measurements: MeasurementInput[];
+  hints?: StarHints;
+}
+
+/** A Gaussian prior on one parameter, in the parameter's interface unit. */
+export interface PriorInput {
+  mean: number;
+  sigma: number;
+}
+
+export interface SamplerOptions {
+  /** Walkers, even, ≥ 2 × free parameters. Default: 4 × free parameters. */
+  walkers?: number;
+  /** Steps per walker after burn-in, 100 … 100000. Default 2000. */
+  steps?: number;
+  /** Steps thrown away first. Default: steps / 2. */
+  burn?: number;
+  /** Seed of the random source; the same seed gives the same percentiles. */
+  seed: number;
+}
+
+export interface FitRequest {
+  stars: StarInput[];
+  /** Relativistic terms in the model (all off by default). They need the distance. */
+  relativity?: Partial<RelativitySwitches>;
+  /** Fit the primary's offset (x0, y0) and drift (vx, vy) on the sky. Default: neither. */
+  frame?: { offset?: boolean; drift?: boolean };
+  /** Reference epoch of the frame drift. Default: the mean astrometric epoch. */
+  frameEpoch?: string | number;
+  /** Parameters held at a value, by reported name (e.g. "distancePc", "S1.eccentricity"). */
+  fixed?: Record<string, number>;
+  /** Gaussian priors, by reported name. */
+  priors?: Record<string, PriorInput>;
+  /** `huber` downweights residuals beyond 2σ (Huber 1964); default `gaussian`. */
+  loss?: 'gaussian' | 'huber';
+  /** Derived dates (next periapsis) are counted from here. Default: the latest epoch. */
+  asOf?: string | number;
+  /** Posterior sampling by an affine-invariant ensemble (Goodman & Weare 2010). */
+  sample?: SamplerOptions;
+}
+
+/** One fitted parameter in its interface unit. */
+export interface FittedParameter {
+  name: string;
+  value: number;
+  /** 1σ from the covariance; 0 for a fixed parameter. */
+  sigma: number;
+  unit: string;
+  fixed: boolean;
+  /** Posterior percentiles (2.5, 16, 50, 84, 97.5) when the sampler ran. */
+  percentiles?: number[];
+}
+
+/** The residual of one measurement: observed − model, in the measurement's units and in σ. */
+export interface Residual {
+  star: string;
+  index: number;
+  id?: string;
+  kind: MeasurementInput['kind'];
+  jd: number;
+  epoch: string;
+  /** Observed − model per component: [Δα*, Δδ] mas, [ρ mas, θ deg], or [v km/s]. */
+  residual: number[];
+  /** Residual / σ per component (without the correlation). */
+  normalized: number[];
+  /** |whitened residual| > 5 in any component. */
+  outlier: boolean;
+}
+
+export interface DerivedQuantity {
+  name: string;
+  value: number;
+  sigma: number;
+  unit: string;
+  percentiles?: number[];
+}
