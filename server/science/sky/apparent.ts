@@ -90,6 +90,11 @@ export function parallacticAngleRad(haRad: number, decRad: number, latRad: numbe
 export function skyPlaceExact(icrs: Vec3, jdUtc: number, site: Site): SkyPlace {
   const time = astroTime(jdUtc);
   const { raRad, decRad } = raDecFromVector(apparentOfDate(icrs, time, site));
+  return skyPlaceOfDate(raRad, decRad, time, site);
+}
+
+/** The topocentric place of an apparent place of date (α, δ in radians) through astronomy-engine's Horizon. */
+export function skyPlaceOfDate(raRad: number, decRad: number, time: AstroTime, site: Site): SkyPlace {
   const hor = Horizon(time, site.observer, raRad / (15 * DEG), decRad / DEG);
   const ha = wrapPi(localSiderealRad(time, site.longitudeDeg) - raRad);
   return {

@@ -97,6 +97,7 @@ export function sunAt(f: NightFrame, jd: number): Vec3 {
 
 /** The Moon's interpolated direction of date at a JD (clamped to the knot range). */
 export function moonAt(f: NightFrame, jd: number): Vec3 {
+  if (f.moonKnots.length < 2) throw new Error('nightFrame: the Moon table is empty (build the frame with moonKnotHours > 0 or call withMoon)');
   return interpolateKnots(f, f.moonKnots, jd);
 }
 

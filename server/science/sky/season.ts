@@ -1,0 +1,284 @@
+/**
+ * The season map: for a site, a year and many targets, the observable hours per night of each
+ * target (darkness sampled every few minutes) and its season's start, end and best night.
+ *
+ * Fast path throughout: each night is reduced once to its tables (`frame.ts`) and its dark sample
+ * grid; each target once per night to its apparent place; the samples above the altitude limit are
+ * then counted in closed form (`season-count.ts`). Only target-nights that the horizon mask, the
+ * Moon or the Sun may affect fall back to testing each sample.
+ */
+import { DEG, TWO_PI } from '../constants.ts';
+import type { Constraints } from './constraints.ts';
+import { darknessFast, type Interval } from './darkness.ts';
+import { lastAt, moonAt, nightFrame, sunAt, withMoon, type NightFrame } from './frame.ts';
+import { addDays, nightSpan } from './night.ts';
+import { apparentAltitudeDeg, trueAltitudeDeg } from './refraction.ts';
+import { maskAltitudeDeg, maskMaxAltitudeDeg, type Site } from './site.ts';
+import { cosLimitHourAngle, countUp } from './season-count.ts';
+import { icrsDirection, type Target } from './target.ts';
+import { type Vec3 } from './vectors.ts';
+
+export interface SeasonOptions {
+  /** Darkness sampling step, minutes, [1, 60]; default 5. */
+  stepMinutes?: number;
+  /** A night counts towards the season when the target is observable at least this long, hours; default 1. */
+  minHoursPerNight?: number;
+  /** Runs of at most this many unusable nights (bright Moon, say) do not break a season; default 7. */
+  maxGapNights?: number;
+}
+
+export interface SeasonNight {
+  date: string;
+  /** Dark hours of the night (sample count × step). */
+  darkHours: number;
+  /** Moon illumination is left to the night report; the map keeps the numbers per night small. */
+  samples: number;
+}
+
+export interface SeasonSummary {
+  /** First and last night (YYYY-MM-DD) of the longest run of usable nights; null when there is none. */
+  start: string | null;
+  end: string | null;
+  /** The run passes through 31 December into January of this year's map (the map is circular). */
+  wrapsYearEnd: boolean;
+  /** Usable every night of the year. */
+  allYear: boolean;
+  usableNights: number;
+  /** The night with the most observable hours (ties: the one whose transit is nearest the middle of darkness). */
+  bestNight: string | null;
+  bestHours: number;
+}
+
+export interface TargetSeason {
+  name: string;
+  /** Observable hours per night, one per night of `nights`. */
+  hours: Float32Array;
+  season: SeasonSummary;
+}
+
+export interface SeasonMap {
+  year: number;
+  stepMinutes: number;
+  nights: SeasonNight[];
+  targets: TargetSeason[];
+  /** Work done: samples × targets, and target-nights that needed a per-sample test. */
+  evaluations: number;
+  perSampleTargetNights: number;
+}
+
+interface PreparedNight {
+  frame: NightFrame;
+  dark: Interval[];
+  /** Samples per dark interval. */
+  counts: number[];
+  total: number;
+  midDarkJd: number;
+  /** Lazily filled per-sample Sun/Moon directions for the per-sample test. */
+  sunAt?: Vec3[];
+  moonAt?: Vec3[];
+  moonUp?: boolean[];
+}
+
+/** The nights of a year at a site, prepared for counting. */
+function prepareNights(site: Site, year: number, c: Constraints, stepDays: number): { dates: string[]; nights: PreparedNight[] } {
+  const dates: string[] = [];
+  const nights: PreparedNight[] = [];
+  const first = `${year}-01-01`;
+  for (let i = 0; ; i++) {
+    const date = addDays(first, i);
+    if (!date.startsWith(String(year))) break;
+    const span = nightSpan(site, date);
+    const frame = nightFrame(site, span, 0);
+    const dark = darknessFast(frame, c.sunLimitDeg);
+    if (dark.length > 0) withMoon(frame, dark[0]!.startJd, dark[dark.length - 1]!.endJd, 2);
+    const counts = dark.map((d) => Math.floor((d.endJd - d.startJd) / stepDays + 1e-9) + 1);
+    const midDarkJd = dark.length > 0 ? (dark[0]!.startJd + dark[dark.length - 1]!.endJd) / 2 : frame.midJd;
+    dates.push(date);
+    nights.push({ frame, dark, counts, total: counts.reduce((a, b) => a + b, 0), midDarkJd });
+  }
+  return { dates, nights };
+}
+
+/** Sun/Moon directions on a night's sample grid (filled once, on first need). */
+function sampleBodies(n: PreparedNight, stepDays: number): void {
+  if (n.sunAt) return;
+  n.sunAt = [];
+  n.moonAt = [];
+  n.moonUp = [];
+  for (let d = 0; d < n.dark.length; d++) {
+    for (let k = 0; k < n.counts[d]!; k++) {
+      const jd = n.dark[d]!.startJd + k * stepDays;
+      const moon = moonAt(n.frame, jd);
+      n.sunAt.push(sunAt(n.frame, jd));
+      n.moonAt.push(moon);
+      const h = lastAt(n.frame, jd) - Math.atan2(moon[1], moon[0]);
+      n.moonUp.push(n.frame.sinLat * moon[2] + n.frame.cosLat * Math.sqrt(moon[0] * moon[0] + moon[1] * moon[1]) * Math.cos(h) > 0);
+    }
+  }
+}
+
+export function seasonMap(site: Site, year: number, targets: readonly Target[], c: Constraints, options: SeasonOptions = {}): SeasonMap {
+  const stepMinutes = options.stepMinutes ?? 5;
+  const stepDays = stepMinutes / 1440;
+  const minSamples = Math.ceil(((options.minHoursPerNight ?? 1) * 60) / stepMinutes - 1e-9);
+  const maxGap = options.maxGapNights ?? 7;
+  const { dates, nights } = prepareNights(site, year, c, stepDays);
+  const nN = nights.length;
+  const scale = nights[0]!.frame.refractionScale;
+  const sinLimit = Math.sin(trueAltitudeDeg(c.altitudeLimitDeg, scale) * DEG);
+  const maskTop = Math.max(c.altitudeLimitDeg, maskMaxAltitudeDeg(c.mask));
+  const sinMaskTop = Math.sin(trueAltitudeDeg(maskTop, scale) * DEG);
+  const cosMoonMargin = Math.cos(Math.min(180, c.minMoonSeparationDeg + 1) * DEG);
+  const cosSunMargin = Math.cos(Math.min(180, c.sunAvoidanceDeg + 1) * DEG);
+  const sinLat = nights[0]!.frame.sinLat, cosLat = nights[0]!.frame.cosLat;
+  let evaluations = 0;
+  let perSample = 0;
+
+  const out = targets.map((target): TargetSeason => {
+    const hours = new Float32Array(nN);
+    const counts = new Int32Array(nN);
+    let bestCount = -1, bestNight = -1, bestTie = Infinity;
+    // Without an orbit a target moves linearly on the sky over a year: interpolate its ICRS vector.
+    const a = icrsDirection(target, nights[0]!.frame.midJd);
+    const b = icrsDirection(target, nights[nN - 1]!.frame.midJd);
+    for (let i = 0; i < nN; i++) {
+      const n = nights[i]!;
+      evaluations += n.total;
+      if (n.total === 0) continue;
+      const f = n.frame;
+      let px: number, py: number, pz: number;
+      if (target.orbit !== null) {
+        [px, py, pz] = icrsDirection(target, f.midJd);
+      } else {
+        const u = nN > 1 ? i / (nN - 1) : 0;
+        px = a[0] + (b[0] - a[0]) * u; py = a[1] + (b[1] - a[1]) * u; pz = a[2] + (b[2] - a[2]) * u;
+      }
+      // Annual aberration, then precession-nutation (inlined `apparentInFrame`; this loop runs millions of times).
+      const be = f.beta;
+      const pb = px * be[0] + py * be[1] + pz * be[2];
+      let qx = px + be[0] - pb * px, qy = py + be[1] - pb * py, qz = pz + be[2] - pb * pz;
+      const m = f.precNut;
+      const r0 = m[0]!, r1 = m[1]!, r2 = m[2]!;
+      const x = r0[0]! * qx + r0[1]! * qy + r0[2]! * qz;
+      const y = r1[0]! * qx + r1[1]! * qy + r1[2]! * qz;
+      const z = r2[0]! * qx + r2[1]! * qy + r2[2]! * qz;
+      const rxy = Math.sqrt(x * x + y * y);
+      const rr = Math.sqrt(rxy * rxy + z * z);
+      const ra = Math.atan2(y, x);
+      const sinDec = z / rr, cosDec = rxy / rr;
+      qx = x / rr; qy = y / rr; qz = z / rr;
+      const dH = f.lastRateRadPerDay * stepDays;
+      // Does anything but altitude matter tonight? Mask band, Moon or Sun within reach → test each sample.
+      const cosLo = cosLimitHourAngle(sinDec, cosDec, sinLat, cosLat, sinLimit);
+      let needSamples = false;
+      let count = 0;
+      for (let d = 0; d < n.dark.length; d++) {
+        count += countUp(lastAt(f, n.dark[d]!.startJd) - ra, dH, n.counts[d]!, cosLo);
+      }
+      if (count > 0 && c.mask.length > 0 && maskTop > c.altitudeLimitDeg) {
+        // The mask matters only if some sample above the limit is below the mask's top.
+        const cosHi = cosLimitHourAngle(sinDec, cosDec, sinLat, cosLat, sinMaskTop);
+        let above = 0;
+        for (let d = 0; d < n.dark.length; d++) above += countUp(lastAt(f, n.dark[d]!.startJd) - ra, dH, n.counts[d]!, cosHi);
+        needSamples = above !== count;
+      }
+      if (!needSamples && count > 0 && c.minMoonSeparationDeg > 0) {
+        for (const mv of f.moonKnots) {
+          if (mv[0] * qx + mv[1] * qy + mv[2] * qz > cosMoonMargin) { needSamples = true; break; }
+        }
+      }
+      if (!needSamples && count > 0 && c.sunAvoidanceDeg > 0) {
+        const s = sunAt(f, n.midDarkJd);
+        if (s[0] * qx + s[1] * qy + s[2] * qz > cosSunMargin) needSamples = true;
+      }
+      if (needSamples) {
+        count = 0;
+        perSample++;
+        sampleBodies(n, stepDays);
+        const cosMoon = Math.cos(c.minMoonSeparationDeg * DEG);
+        const cosSun = Math.cos(c.sunAvoidanceDeg * DEG);
+        let j = 0;
+        for (let d = 0; d < n.dark.length; d++) {
+          const hs = lastAt(f, n.dark[d]!.startJd) - ra;
+          for (let k = 0; k < n.counts[d]!; k++, j++) {
+            const h = hs + k * dH;
+            const ch = Math.cos(h);
+            const sinAlt = sinLat * sinDec + cosLat * cosDec * ch;
+            if (sinAlt < sinLimit) continue;
+            if (c.mask.length > 0) {
+              const alt = apparentAltitudeDeg(Math.asin(sinAlt) / DEG, scale);
+              let az = Math.atan2(-cosDec * Math.sin(h), cosLat * sinDec - sinLat * cosDec * ch) / DEG;
+              if (az < 0) az += 360;
+              if (alt < maskAltitudeDeg(c.mask, az)) continue;
+            }
+            const sv = n.sunAt![j]!;
+            if (sv[0] * qx + sv[1] * qy + sv[2] * qz > cosSun) continue;
+            const mv = n.moonAt![j]!;
+            if (n.moonUp![j] && mv[0] * qx + mv[1] * qy + mv[2] * qz > cosMoon) continue;
+            count++;
+          }
+        }
+      }
+      counts[i] = count;
+      hours[i] = (count * stepMinutes) / 60;
+      if (count >= bestCount && count > 0) {
+        let hm = (lastAt(f, n.midDarkJd) - ra) % TWO_PI;
+        if (hm > Math.PI) hm -= TWO_PI;
+        else if (hm < -Math.PI) hm += TWO_PI;
+        if (count > bestCount || Math.abs(hm) < bestTie) {
+          bestCount = count;
+          bestNight = i;
+          bestTie = Math.abs(hm);
+        }
+      }
+    }
+    return { name: target.name, hours, season: summarise(counts, minSamples, maxGap, dates, bestNight, bestCount, stepMinutes) };
+  });
+
+  return {
+    year,
+    stepMinutes,
+    nights: nights.map((n, i) => ({ date: dates[i]!, darkHours: (n.total * stepMinutes) / 60, samples: n.total })),
+    targets: out,
+    evaluations: evaluations,
+    perSampleTargetNights: perSample,
+  };
+}
+
+/** The longest circular run of usable nights, bridging gaps of at most `maxGap` nights. */
+export function summarise(counts: Int32Array, minSamples: number, maxGap: number, dates: string[], bestNight: number, bestCount: number, stepMinutes: number): SeasonSummary {
+  const n = counts.length;
+  const usable: number[] = [];
+  for (let i = 0; i < n; i++) if (counts[i]! >= Math.max(1, minSamples)) usable.push(i);
+  const best = { bestNight: bestNight >= 0 ? dates[bestNight]! : null, bestHours: bestCount > 0 ? (bestCount * stepMinutes) / 60 : 0 };
+  if (usable.length === 0) return { start: null, end: null, wrapsYearEnd: false, allYear: false, usableNights: 0, ...best };
+  // Segments of usable nights whose gaps are ≤ maxGap.
+  const segs: { first: number; last: number; nights: number }[] = [];
+  for (const i of usable) {
+    const s = segs[segs.length - 1];
+    if (s && i - s.last - 1 <= maxGap) {
+      s.last = i;
+      s.nights++;
+    } else segs.push({ first: i, last: i, nights: 1 });
+  }
+  const firstSeg = segs[0]!, lastSeg = segs[segs.length - 1]!;
+  if (segs.length === 1 && firstSeg.first <= maxGap && n - 1 - firstSeg.last <= maxGap && firstSeg.first + (n - 1 - firstSeg.last) <= maxGap) {
+    return { start: dates[0]!, end: dates[n - 1]!, wrapsYearEnd: false, allYear: true, usableNights: usable.length, ...best };
+  }
+  let wraps = false;
+  if (segs.length > 1 && firstSeg.first + (n - 1 - lastSeg.last) <= maxGap) {
+    lastSeg.nights += firstSeg.nights;
+    lastSeg.last = firstSeg.last;
+    segs.shift();
+    wraps = true;
+  }
+  const top = segs.reduce((x, y) => (y.nights > x.nights ? y : x));
+  return {
+    start: dates[top.first]!,
+    end: dates[top.last]!,
+    wrapsYearEnd: wraps && top === lastSeg,
+    allYear: false,
+    usableNights: top.nights,
+    ...best,
+  };
+}
