@@ -1,0 +1,67 @@
+/**
+ * Crash safety: a child process importing a large CSV is killed with SIGKILL in the middle of the
+ * transaction; the file database then holds none of the import, and a run left to finish holds
+ * all of it. (SQLite's atomic commit through the write-ahead log, from memory: sqlite.org "Atomic
+ * Commit In SQLite" and "Write-Ahead Logging".)
+ */
+import { spawn } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { LOCAL_OPERATOR, createStore, openDatabase } from '../../server/store/index.ts';
+
+const here = dirname(fileURLToPath(import.meta.url));
+const child = join(here, 'crash-child.ts');
+const ROWS = 6000;
+
+async function countMeasurements(path: string): Promise<{ n: number; integrity: string }> {
+  const store = createStore(await openDatabase({ url: `file:${path}` }));
+  const n = Number((await store.database.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n);
+  const integrity = String((await store.database.client.execute('PRAGMA integrity_check')).rows[0]![0]);
+  store.database.close();
+  return { n, integrity };
+}
+
+/** Run the child; with `killAtRow`, SIGKILL it once it reports that row. */
+function runChild(path: string, killAtRow?: number): Promise<{ signal: NodeJS.Signals | null; code: number | null; out: string }> {
+  return new Promise((done, fail) => {
+    const p = spawn(process.execPath, ['--import', 'tsx', child, path, String(ROWS)], { cwd: resolve(here, '../..'), stdio: ['ignore', 'pipe', 'pipe'] });
+    let out = '';
+    let err = '';
+    p.stdout.on('data', (d: Buffer) => {
+      out += d.toString();
+      if (killAtRow !== undefined && out.includes(`row ${killAtRow}\n`)) p.kill('SIGKILL');
+    });
+    p.stderr.on('data', (d: Buffer) => (err += d.toString()));
+    p.on('error', fail);
+    p.on('close', (code, signal) => (code !== 0 && signal === null ? fail(new Error(`child failed (${code}): ${err}`)) : done({ signal, code, out })));
+  });
+}
+
+describe('an import killed mid-way', () => {
+  let dir: string;
+  const db = (name: string) => join(dir, name);
+  beforeAll(async () => {
+    dir = mkdtempSync(join(tmpdir(), 'epochwright-crash-'));
+    for (const name of ['killed.db', 'finished.db']) {
+      const store = createStore(await openDatabase({ url: `file:${db(name)}` }));
+      const system = await store.systems.create(LOCAL_OPERATOR, { name: 'Crash Deep', raDeg: 1, decDeg: 1 });
+      await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'C s1' });
+      store.database.close();
+    }
+  });
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+  it('leaves none of it when killed, all of it when finished', async () => {
+    const killed = await runChild(db('killed.db'), 3000);
+    expect(killed.signal).toBe('SIGKILL'); // the child really was killed…
+    expect(killed.out).not.toContain('done'); // …before the import finished
+    expect(await countMeasurements(db('killed.db'))).toEqual({ n: 0, integrity: 'ok' }); // none of the rows; PRAGMA integrity_check says "ok" for a sound file (sqlite.org pragma docs, from memory)
+
+    const finished = await runChild(db('finished.db'));
+    expect(finished.out).toContain('done');
+    expect(await countMeasurements(db('finished.db'))).toEqual({ n: ROWS, integrity: 'ok' }); // every row of the file made by the child
+  }, 180_000);
+});
