@@ -74,7 +74,7 @@ export async function fixture(store: Store, options: { maxBodyBytes?: number } =
   const night = await store.nights.create(a, { siteId: site.id, campaignId: campaign.id, date: '2027-06-10' });
   const block = await store.blocks.create(a, { nightId: night.id, targetId: target.id, kind: 'astrometry', startUtc: '2027-06-11T04:00:00Z', endUtc: '2027-06-11T05:00:00Z' });
   const app = createApp({ store, ...(options.maxBodyBytes ? { maxBodyBytes: options.maxBodyBytes } : {}) });
-  const call = (role: 'lead' | 'observer' | 'viewer' | null, method: string, path: string, body?: unknown) =>
+  const call = async (role: 'lead' | 'observer' | 'viewer' | null, method: string, path: string, body?: unknown) =>
     app.request(path, {
       method,
       headers: { ...(role ? { authorization: `Bearer ${tokens[role]}` } : {}), ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },

@@ -6,10 +6,12 @@
 import { SiderealTime } from 'astronomy-engine';
 import { DateTime } from 'luxon';
 import { predict, validateOrbit, type OrbitInput } from '../../science/orbit/index.ts';
-import { jdToIso, parseEpoch, unixMsToJd } from '../../science/time/index.ts';
+import { TWILIGHT_SUN_ALTITUDE_DEG, darknessExact, nightSpan, validateSite } from '../../science/sky/index.ts';
+import { jdToIso, jdToUnixMs, parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import type { DbOrTx } from '../database.ts';
 import type { Store } from '../index.ts';
+import type { SiteRow } from '../repos/sites.ts';
 import { INSTRUMENTS, LANTERN, LANTERN_B_ORBIT, SITES, VESPER, VESPER_STARS, vesperOrbit } from './scenario.ts';
 
 /** A small deterministic generator (LCG) so the demo is the same on every start. */
@@ -23,16 +25,24 @@ function addDays(date: string, n: number): string {
   return DateTime.fromISO(date, { zone: 'UTC' }).plus({ days: n }).toISODate()!;
 }
 
-/** Transit of right ascension `raDeg` nearest local midnight after `date`, clamped to 21:00–04:00 local. */
-export function transitNear(date: string, timeZone: string, longitudeDeg: number, raDeg: number): DateTime {
-  const midnight = DateTime.fromISO(`${date}T00:00`, { zone: timeZone }).plus({ days: 1 });
-  const lstHours = SiderealTime(midnight.toJSDate()) + longitudeDeg / 15;
-  let ha = (((lstHours - raDeg / 15) % 24) + 36) % 24 - 12; // hours, (−12, 12]
-  ha *= 0.99727; // sidereal to solar hours
-  const t = midnight.minus({ hours: ha });
-  const early = midnight.minus({ hours: 3 });
-  const late = midnight.plus({ hours: 4 });
-  return t < early ? early : t > late ? late : t;
+/**
+ * Where to start a night's run of blocks lasting `minutes`: centred on the transit of `raDeg`
+ * nearest local midnight, then moved inside astronomical darkness (the sky engine's Sun search).
+ */
+export function runStart(site: SiteRow, date: string, raDeg: number, minutes: number): DateTime {
+  const midnight = DateTime.fromISO(`${date}T00:00`, { zone: site.timeZone }).plus({ days: 1 });
+  const lstHours = SiderealTime(midnight.toJSDate()) + site.longitudeDeg / 15;
+  const ha = ((((lstHours - raDeg / 15) % 24) + 36) % 24 - 12) * 0.99727; // hours, sidereal to solar
+  let start = midnight.minus({ hours: ha, minutes: minutes / 2 });
+  const sky = validateSite(site);
+  const dark = darknessExact(sky, nightSpan(sky, date), TWILIGHT_SUN_ALTITUDE_DEG.astronomical)[0];
+  if (dark) {
+    const earliest = DateTime.fromMillis(jdToUnixMs(dark.startJd) + 5 * 60_000, { zone: site.timeZone });
+    const latest = DateTime.fromMillis(jdToUnixMs(dark.endJd) - (minutes + 5) * 60_000, { zone: site.timeZone });
+    if (start > latest) start = latest;
+    if (start < earliest) start = earliest;
+  }
+  return start;
 }
 
 interface Plan {
@@ -107,11 +117,12 @@ export async function loadDemo(store: Store, actor: Actor, options: DemoOptions 
         const past = date < today;
         const lost = past && rnd.uniform() < 0.2;
         const outcomes = [];
-        let offset = -40;
+        const blockCount = plan.targets.reduce((n, t) => n + t.kinds.length, 0);
+        const first = runStart(site, date, plan.targets[0]!.raDeg, blockCount * 50);
+        let offset = 0;
         for (const t of plan.targets) {
-          const centre = transitNear(date, site.timeZone, site.longitudeDeg, t.raDeg);
           for (const kind of t.kinds) {
-            const start = centre.plus({ minutes: offset });
+            const start = first.plus({ minutes: offset });
             offset += 50;
             const block = await store.blocks.createIn(tx, actor, {
               nightId: night.id,

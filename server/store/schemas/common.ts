@@ -8,7 +8,7 @@ import { InputError } from '../../science/errors.ts';
 import { parseEpoch, jdToIso } from '../../science/time/index.ts';
 
 export const id = z.number().int().positive();
-export const name = z.string().trim().min(1).max(120);
+export const name = z.string().trim().min(1).max(100);
 export const notes = z.string().max(20_000).default('');
 /** A local calendar date, `YYYY-MM-DD`. */
 export const localDate = z.iso.date().describe('local calendar date YYYY-MM-DD');

@@ -1,0 +1,152 @@
+/**
+ * The demo campaign and what leaves the store: the demo's orbits obey Kepler's third law and one
+ * star passes periapsis within a year of 2026-12-01; its blocks fall in darkness; the iCalendar
+ * feed parses with node-ical and keeps RFC 5545's rules; measurements survive an export and
+ * re-import unchanged; a backup taken while writes go on is a sound database.
+ */
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { Body, Equator, Horizon, Observer } from 'astronomy-engine';
+import ical from 'node-ical';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createApp } from '../../server/http/app.ts';
+import { findEvents, physicalQuantities, validateOrbit } from '../../server/science/orbit/index.ts';
+import { parseEpoch } from '../../server/science/time/index.ts';
+import { backupDatabase } from '../../server/store/backup.ts';
+import { importCsv } from '../../server/store/csv/import.ts';
+import { measurementsCsv, measurementsForExport } from '../../server/store/exports/measurements.ts';
+import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
+import { startStore } from '../../server/store/startup.ts';
+import { LANTERN, VESPER } from '../../server/store/demo/scenario.ts';
+
+let dir: string;
+let store: Store;
+let leadToken: string;
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'epochwright-demo-'));
+  const started = await startStore({ url: `file:${join(dir, 'demo.db')}`, demo: true, today: '2026-12-01' });
+  store = started.store;
+  leadToken = started.firstLead!.secret;
+});
+afterAll(() => {
+  store.database.close();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+describe('the demo campaign', () => {
+  it('loads once, with a lead created on first start', async () => {
+    expect((await store.systems.list([])).total).toBe(2); // scenario.ts: Vesper Core and the Lantern Pair
+    const again = await startStore({ url: store.database.url, demo: true });
+    expect([again.demo, again.firstLead]).toEqual([null, null]); // a second start neither reloads nor makes another lead
+    again.store.database.close();
+    expect((await store.systems.list([])).total).toBe(2);
+  });
+
+  it('has orbits that agree with the stated masses by Kepler’s third law, M = a³/P²', async () => {
+    const solutions = await store.orbitSolutions.list([]);
+    let worst = 0;
+    for (const s of solutions.items) {
+      const m = physicalQuantities(validateOrbit(s.orbit)).massSolar;
+      const stated = s.orbit.distancePc === LANTERN.distancePc ? LANTERN.massSolar : VESPER.massSolar;
+      worst = Math.max(worst, Math.abs(m / stated - 1));
+    }
+    console.log(`demo orbits: worst relative mass difference ${worst.toExponential(2)}`);
+    expect(worst).toBeLessThan(1e-4); // Kepler's third law in solar units (common practice, no source); a rounded to 6 digits
+  });
+
+  it('has one star reaching periapsis within a year of 2026-12-01', async () => {
+    const start = parseEpoch('2026-12-01T00:00Z');
+    const passages = [];
+    for (const s of (await store.orbitSolutions.list([])).items) passages.push(...findEvents(validateOrbit(s.orbit), start, start + 365.25, { kinds: ['periapsis'] }));
+    expect(passages.length).toBe(1); // the issue asks for one star approaching periapsis within the next year
+  });
+
+  it('plans blocks only in darkness, with the Sun below −18° (astronomical twilight)', async () => {
+    const sites = (await store.sites.list([])).items;
+    const nights = (await store.nights.list([], { limit: 500 })).items;
+    const blocks = (await store.blocks.list([], { limit: 500 })).items;
+    let highest = -90;
+    for (const b of blocks) {
+      const night = nights.find((n) => n.id === b.nightId)!;
+      const site = sites.find((s) => s.id === night.siteId)!;
+      const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
+      for (const t of [b.startUtc, b.endUtc]) {
+        const sun = Equator(Body.Sun, new Date(t), observer, true, true);
+        highest = Math.max(highest, Horizon(new Date(t), observer, sun.ra, sun.dec).altitude);
+      }
+    }
+    console.log(`demo blocks: ${blocks.length}, highest Sun altitude at a block edge ${highest.toFixed(1)}°`);
+    expect(highest).toBeLessThan(-18); // astronomical twilight limit (Explanatory Supplement to the Astronomical Almanac, via REFERENCES.md); Sun from astronomy-engine
+  });
+});
+
+describe('the campaign iCalendar feed', () => {
+  it('parses with node-ical and follows RFC 5545: CRLF, folded lines, UTC times, unique UIDs', async () => {
+    const app = createApp({ store });
+    expect((await app.request('/api/campaigns/1/calendar.ics')).status).toBe(401);
+    const res = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}`);
+    expect(res.headers.get('content-type')).toMatch(/^text\/calendar/); // RFC 5545 §8.1 media type
+    const text = await res.text();
+    const lines = text.split('\r\n');
+    expect(text.replace(/\r\n/g, '')).not.toMatch(/[\r\n]/); // RFC 5545 §3.1: lines end in CRLF
+    expect(Math.max(...lines.map((l) => Buffer.byteLength(l, 'utf8')))).toBeLessThanOrEqual(75); // RFC 5545 §3.1: at most 75 octets a line
+    for (const l of lines.filter((x) => /^DT(START|END|STAMP)/.test(x))) expect(l).toMatch(/:\d{8}T\d{6}Z$/); // RFC 5545 §3.3.5 form 2, UTC time
+    const parsed = Object.values(ical.sync.parseICS(text)).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
+    const uids = parsed.map((e) => e.uid);
+    expect(new Set(uids).size).toBe(uids.length); // RFC 5545 §3.8.4.7: UID unique
+    const blocks = await store.blocks.list([], { limit: 500 });
+    const campaignBlocks = (await store.nights.list([], { limit: 500 })).items.filter((n) => n.campaignId === 1).map((n) => n.id);
+    const expectedBlocks = blocks.items.filter((b) => campaignBlocks.includes(b.nightId)).length;
+    const periapsis = parsed.filter((e) => String(e.summary).startsWith('Periapsis'));
+    expect(parsed.length - periapsis.length).toBe(expectedBlocks); // every block of the campaign, from the store
+    const s1 = periapsis.find((e) => String(e.summary).includes('VC s1'))!;
+    const engine = findEvents(validateOrbit((await store.orbitSolutions.list([])).items[0]!.orbit), parseEpoch('2027-01-01T00:00Z'), parseEpoch('2028-01-01T00:00Z'), { kinds: ['periapsis'] })[0]!;
+    expect(Math.abs(new Date(s1.start).getTime() - Date.parse(engine.epoch))).toBeLessThan(1000); // the orbit engine's passage, as node-ical reads it back (1 s: iCalendar has whole seconds)
+  });
+});
+
+describe('exports and imports', () => {
+  it('reads back an exported measurements CSV unchanged into a second store', async () => {
+    const rows = await measurementsForExport(store.db, []);
+    const csv = measurementsCsv(rows.map((r) => ({ ...r, blockId: null })));
+    const copy = createStore(await openDatabase({ url: ':memory:' }));
+    for (const sys of (await store.systems.list([])).items) {
+      const { id: _id, createdAt: _c, updatedAt: _u, ...input } = sys;
+      const made = await copy.systems.create(LOCAL_OPERATOR, input);
+      for (const t of (await store.targets.list([])).items.filter((x) => x.systemId === sys.id)) await copy.targets.create(LOCAL_OPERATOR, { systemId: made.id, name: t.name });
+    }
+    const dry = await importCsv(copy, LOCAL_OPERATOR, 'measurements', csv, { dryRun: true });
+    expect([dry.rows, dry.written]).toEqual([rows.length, 0]); // a dry run writes nothing
+    expect((await copy.measurements.list([])).total).toBe(0);
+    const report = await importCsv(copy, LOCAL_OPERATOR, 'measurements', csv);
+    expect(report.written).toBe(rows.length);
+    const back = await measurementsForExport(copy.db, []);
+    const strip = (r: (typeof rows)[number]) => ({ ...r, id: 0, targetId: 0, blockId: null, createdAt: '', updatedAt: '' });
+    expect(back.map(strip)).toEqual(rows.map(strip)); // every value as exported
+    copy.database.close();
+  });
+
+  it('imports orbit solutions from CSV as new current versions', async () => {
+    const csv = ['system,target,periodYears,periapsis,eccentricity,semiMajorAxisArcsec,inclinationDeg,ascendingNodeDeg,argPeriapsisDeg,distancePc,relativity,reference', 'Vesper Core,VC s2,9.61,J2024.21,0.62,0.0839,42,110,300,7400,gravitationalRedshift;transverseDoppler,CSV test'].join('\n');
+    const report = await importCsv(store, LOCAL_OPERATOR, 'orbits', csv);
+    expect(report.written).toBe(1);
+    const current = (await store.orbitSolutions.list([])).items.filter((s) => s.current && s.reference === 'CSV test');
+    expect(current.map((s) => [s.version, s.provenance, s.orbit.relativity])).toEqual([[2, 'imported', { gravitationalRedshift: true, transverseDoppler: true }]]); // values of the CSV row above
+  });
+
+  it('backs up a consistent copy while writes go on', async () => {
+    const writes = (async () => {
+      for (let i = 0; i < 40; i++) await store.systems.create(LOCAL_OPERATOR, { name: `Backup Test ${i}`, raDeg: i, decDeg: 0 });
+    })();
+    const path = await backupDatabase(store.database, join(dir, 'copy.db'));
+    await writes;
+    const copy = await openDatabase({ url: `file:${path}` });
+    expect(String((await copy.client.execute('PRAGMA integrity_check')).rows[0]![0])).toBe('ok'); // sqlite.org PRAGMA integrity_check (from memory)
+    const n = Number((await copy.client.execute('SELECT count(*) AS n FROM systems')).rows[0]!.n);
+    const audited = Number((await copy.client.execute("SELECT count(*) AS n FROM audit_trail WHERE entity = 'system' AND action = 'create'")).rows[0]!.n);
+    expect(n).toBe(audited); // one instant: every system in the copy has its audit entry, and no more
+    copy.close();
+    await expect(backupDatabase(store.database, path)).rejects.toThrow(/already exists/);
+  });
+});
