@@ -6,6 +6,7 @@ import { bodyLimit } from 'hono/body-limit';
 import { HttpError, errorResponse } from './errors.ts';
 import { healthRoutes } from './health.ts';
 import { orbitRoutes } from './orbit.ts';
+import { skyRoutes } from './sky.ts';
 import { storeRoutes } from './resources/index.ts';
 import type { Store } from '../store/index.ts';
 import { validationHook } from './validation.ts';
@@ -35,6 +36,7 @@ export function createApp(options: AppOptions = {}) {
   const api = new OpenAPIHono({ defaultHook: validationHook });
   api.route('/', healthRoutes(VERSION));
   api.route('/', orbitRoutes());
+  api.route('/', skyRoutes());
   if (options.store) api.route('/', storeRoutes(options.store));
   api.doc31('/openapi.json', { openapi: '3.1.0', info: { title: 'epochwright API', version: VERSION } });
   app.route('/api', api);
