@@ -2,8 +2,12 @@
 import type { Command } from '../io.ts';
 import { ephemerisCommand } from './ephemeris.ts';
 import { eventsCommand } from './events.ts';
+import { nightCommand } from './night.ts';
+import { seasonCommand } from './season.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
   events: eventsCommand,
+  night: nightCommand,
+  season: seasonCommand,
 };

@@ -1,0 +1,70 @@
+/** `epochwright night`: one night at a site — twilights, the Moon, and when each target can be observed. */
+import { parseArgs } from 'node:util';
+import { nightReport, parseNightDate, type ReportWindow } from '../../science/sky/index.ts';
+import { UsageError, outputFormat, type Command } from '../io.ts';
+import { render, type Column } from '../output.ts';
+import { SKY_OPTION_HELP, numberOption, readSky, skyOptions } from './sky-args.ts';
+
+const help = `usage: epochwright night --site <json|file> --date <YYYY-MM-DD> --targets <json|file> [options]
+
+For the night whose evening falls on --date (local date at the site): sunset, the three twilights,
+darkness, the Moon (rise, set, illumination), and for each target the windows in which it meets
+every constraint, with what opens and closes each window, its transit and best airmass.
+Times are shown in the site's time zone; --json gives UTC and local for each.
+
+options:
+${SKY_OPTION_HELP}
+  --date <YYYY-MM-DD>        the local evening date
+  --exact                    compute every instant with astronomy-engine (slower; the reference)
+  --step <minutes>           window search step (default 5; edges are refined to 1 s)
+`;
+
+type Row = ReportWindow & { target: string };
+
+const hhmm = (local: string) => local.slice(5, 16).replace('T', ' ');
+
+export const nightCommand: Command = {
+  summary: 'twilights, Moon and observing windows of targets for one night at a site',
+  help,
+  run(argv) {
+    const { values } = parseArgs({ args: argv, options: { ...skyOptions, date: { type: 'string' }, exact: { type: 'boolean' }, step: { type: 'string' } }, strict: true, allowPositionals: false });
+    const format = outputFormat(values);
+    if (values.date === undefined) throw new UsageError('--date is required (the local evening date, YYYY-MM-DD)');
+    parseNightDate(values.date, '--date');
+    const { site, targets, constraints } = readSky(values);
+    const stepMinutes = values.step === undefined ? 5 : numberOption('step', values.step);
+    if (!(stepMinutes > 0 && stepMinutes <= 30)) throw new UsageError(`--step: ${values.step} must lie in (0, 30] minutes`);
+    const report = nightReport(site, values.date, targets, constraints, { method: values.exact ? 'exact' : 'fast', stepMinutes, curveStepMinutes: format === 'json' ? 10 : 0 });
+    const rows: Row[] = report.targets.flatMap((t) => t.windows.map((w) => ({ ...w, target: t.name })));
+    const columns: Column<Row>[] = [
+      { header: 'target', value: (r) => r.target },
+      { header: 'opens', value: (r) => hhmm(r.start.local) },
+      { header: 'closes', value: (r) => hhmm(r.end.local) },
+      { header: 'hours', value: (r) => r.hours, digits: 2 },
+      { header: 'opened_by', value: (r) => r.opensBy },
+      { header: 'closed_by', value: (r) => r.closesBy },
+      { header: 'transit', value: (r) => (r.transit ? hhmm(r.transit.local) : '') },
+      { header: 'best_airmass', value: (r) => r.best.airmass, digits: 3 },
+      { header: 'best_at', value: (r) => hhmm(r.best.local) },
+      { header: 'moon_deg', value: (r) => r.best.moonSeparationDeg, digits: 1 },
+    ];
+    if (format !== 'table') {
+      if (format === 'csv') columns.splice(1, 2, { header: 'opens_utc', value: (r) => r.start.utc }, { header: 'closes_utc', value: (r) => r.end.utc });
+      return render(format, rows, columns, report);
+    }
+    const t = (i: { local: string } | null) => (i ? hhmm(i.local) : '—');
+    const tw = report.sun.twilights;
+    const head = [
+      `${report.site.name}, night of ${report.night.date} (${report.site.timeZone}; local times)`,
+      `sunset ${t(report.sun.set)}  civil ${t(tw.civil.dusk)}  nautical ${t(tw.nautical.dusk)}  astronomical ${t(tw.astronomical.dusk)}`,
+      `astronomical ${t(tw.astronomical.dawn)}  nautical ${t(tw.nautical.dawn)}  civil ${t(tw.civil.dawn)}  sunrise ${t(report.sun.rise)}`,
+      `darkness, ${report.darkness.limit}: ${report.darkness.hours.toFixed(2)} h`,
+      `Moon: rises ${t(report.moon.rise)}, sets ${t(report.moon.set)}, ${(report.moon.illuminatedFraction * 100).toFixed(0)}% lit`,
+      `limits: altitude ≥ ${report.constraints.altitudeLimitDeg.toFixed(1)}°${report.constraints.maxAirmass ? ` (airmass ≤ ${report.constraints.maxAirmass})` : ''}, Moon ≥ ${report.constraints.minMoonSeparationDeg}°, Sun ≥ ${report.constraints.sunAvoidanceDeg}°`,
+      '',
+    ];
+    const none = report.targets.filter((x) => x.windows.length === 0).map((x) => x.name);
+    const tail = none.length ? `\nno window tonight: ${none.join(', ')}\n` : '';
+    return head.join('\n') + '\n' + render(format, rows, columns, report) + tail + report.cautions.map((c) => `note: ${c}\n`).join('');
+  },
+};
