@@ -3,11 +3,11 @@
  * and events, through the same orbit engine functions as the stateless endpoints.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import { stringify } from 'csv-stringify/sync';
-import { EVENT_KINDS, PREDICTION_FIELDS, ephemeris, eventsWithUncertainty, type EphemerisRow } from '../../science/orbit/index.ts';
+import { EVENT_KINDS, ephemeris, eventsWithUncertainty } from '../../science/orbit/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import type { Store } from '../../store/index.ts';
+import { ephemerisCsv } from '../../store/exports/ephemeris.ts';
 import { currentOrbit } from '../../store/repos/orbits.ts';
 import { requireRole } from '../auth.ts';
 import { describeOrbit, resolveEpochs } from '../orbit.ts';
@@ -22,12 +22,6 @@ const EphemerisQuery = z.object({
   format: z.enum(['json', 'csv']).default('json'),
 });
 const EventsQuery = z.object({ start: z.string(), end: z.string(), kinds: z.string().optional().openapi({ description: `comma-separated: ${EVENT_KINDS.join(', ')}` }) });
-
-/** Ephemeris rows as CSV: the prediction columns in their units, epoch first. */
-export function ephemerisCsv(rows: readonly EphemerisRow[]): string {
-  const cols = ['epoch', ...PREDICTION_FIELDS] as const;
-  return stringify([[...cols], ...rows.map((r) => cols.map((c) => { const v = (r as unknown as Record<string, unknown>)[c]; return v === null || v === undefined ? '' : String(v); }))]);
-}
 
 export function targetViewRoutes(store: Store) {
   const app = resourceApp();

@@ -1,13 +1,14 @@
 /**
  * A campaign's iCalendar (RFC 5545) feed: its planned blocks and the periapsis passages of its
- * targets that fall within the campaign (or the coming year, whichever ends later).
+ * targets from the campaign's start to a year after its end (a fixed window, so the feed depends
+ * only on the stored data).
  * UIDs are stable (block id, target and orbit number) so a subscribed calendar updates in place.
  */
 import ical from 'ical-generator';
 import { and, eq, inArray } from 'drizzle-orm';
 import { blocks, nights, sites, targets, systems } from '../../../db/schema.ts';
 import { findEvents } from '../../science/orbit/index.ts';
-import { parseEpoch, unixMsToJd, jdToUnixMs } from '../../science/time/index.ts';
+import { parseEpoch, jdToUnixMs } from '../../science/time/index.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
@@ -19,8 +20,6 @@ const LASER_CAUTION = 'Laser guide star: aircraft and satellite avoidance follow
 export interface CalendarOptions {
   /** Host name used in UIDs, e.g. the server's. */
   domain?: string;
-  /** "Now" for the look-ahead window, ms since 1970 (tests pin it). */
-  nowMs?: number;
   /** Fixed DTSTAMP for reproducible output, ms since 1970. */
   stampMs?: number;
 }
@@ -53,8 +52,7 @@ export async function campaignCalendar(db: DbOrTx, campaignId: number, options: 
   }
 
   const startJd = parseEpoch(`${campaign.startDate}T00:00Z`, 'startDate');
-  const nowJd = unixMsToJd(options.nowMs ?? Date.now());
-  const endJd = Math.max(parseEpoch(`${campaign.endDate}T00:00Z`, 'endDate') + 1, nowJd + 366);
+  const endJd = parseEpoch(`${campaign.endDate}T00:00Z`, 'endDate') + 1 + 365.25;
   if (targetIds.length) {
     const named = await db.select({ id: targets.id, name: targets.name, system: systems.name }).from(targets).innerJoin(systems, eq(systems.id, targets.systemId)).where(inArray(targets.id, targetIds));
     for (const t of named) {

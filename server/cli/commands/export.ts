@@ -1,0 +1,67 @@
+/** `epochwright export`: measurements (CSV in the import layout, or JSON), or a stored target's ephemeris. */
+import { parseArgs } from 'node:util';
+import { eq } from 'drizzle-orm';
+import { measurements } from '../../../db/schema.ts';
+import { ephemeris } from '../../science/orbit/index.ts';
+import { ephemerisCsv } from '../../store/exports/ephemeris.ts';
+import { resolveEpochs } from '../../http/orbit.ts';
+import { measurementsCsv, measurementsForExport } from '../../store/exports/measurements.ts';
+import { campaignCalendar } from '../../store/exports/calendar.ts';
+import { currentOrbit } from '../../store/repos/orbits.ts';
+import { UsageError, type Command } from '../io.ts';
+import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+
+const help = `usage: epochwright export measurements [--target-id <id>] [--json]
+       epochwright export ephemeris --target-id <id> --from <epoch> --to <epoch> [--step <interval>] [--json]
+       epochwright export calendar --campaign-id <id>
+
+measurements  CSV in the layout 'epochwright import --kind measurements' reads (or JSON)
+ephemeris     predictions from the target's current orbit solution, CSV (or JSON)
+calendar      the campaign's planned blocks and periapsis passages as iCalendar (RFC 5545)
+
+options:
+${DATABASE_HELP}
+`;
+
+function id(name: string, v: string | undefined): number | undefined {
+  if (v === undefined) return undefined;
+  const n = Number(v);
+  if (!Number.isInteger(n) || n <= 0) throw new UsageError(`--${name}: ${JSON.stringify(v)} must be a positive whole number`);
+  return n;
+}
+
+export const exportCommand: Command = {
+  summary: 'export measurements, a stored target’s ephemeris, or a campaign calendar',
+  help,
+  async run(argv) {
+    const { values, positionals } = parseArgs({
+      args: argv,
+      options: { ...databaseOption, 'target-id': { type: 'string' }, 'campaign-id': { type: 'string' }, from: { type: 'string' }, to: { type: 'string' }, step: { type: 'string' }, json: { type: 'boolean' } },
+      strict: true,
+      allowPositionals: true,
+    });
+    const [what] = positionals;
+    const targetId = id('target-id', values['target-id']);
+    return withStore(values.database, async (store) => {
+      switch (what) {
+        case 'measurements': {
+          const rows = await measurementsForExport(store.db, [targetId ? eq(measurements.targetId, targetId) : undefined]);
+          return values.json ? JSON.stringify(rows, null, 2) + '\n' : measurementsCsv(rows);
+        }
+        case 'ephemeris': {
+          if (targetId === undefined || values.from === undefined || values.to === undefined) throw new UsageError('export ephemeris needs --target-id, --from and --to');
+          const { orbit } = await currentOrbit(store.db, targetId);
+          const rows = ephemeris(orbit, resolveEpochs({ start: values.from, end: values.to, step: values.step ?? '30d' }));
+          return values.json ? JSON.stringify(rows, null, 2) + '\n' : ephemerisCsv(rows);
+        }
+        case 'calendar': {
+          const campaignId = id('campaign-id', values['campaign-id']);
+          if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
+          return campaignCalendar(store.db, campaignId);
+        }
+        default:
+          throw new UsageError(`export: say measurements, ephemeris or calendar${what ? ` (not ${JSON.stringify(what)})` : ''}`);
+      }
+    });
+  },
+};

@@ -1,0 +1,54 @@
+/** `epochwright import`: a CSV of targets, orbit solutions or measurements, all rows or none. */
+import { readFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { CSV_KINDS, COLUMNS, REQUIRED_COLUMNS, type CsvKind } from '../../store/csv/columns.ts';
+import { ImportRejected, importCsv } from '../../store/csv/import.ts';
+import { LOCAL_OPERATOR } from '../../store/index.ts';
+import { UsageError, type Command } from '../io.ts';
+import { formatTable } from '../output.ts';
+import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+
+const help = `usage: epochwright import --kind targets|orbits|measurements --file <csv> [--check-only]
+
+Reads a CSV whose first line names the columns and writes every row in one transaction. If any
+row is bad, nothing is written and every bad row is listed (line, column, value, rule).
+--check-only does all the checks and writes nothing.
+
+columns (required ones marked *):
+${CSV_KINDS.map((k) => `  ${k}: ${COLUMNS[k].map((c) => (REQUIRED_COLUMNS[k].includes(c) ? `${c}*` : c)).join(', ')}`).join('\n')}
+  system and target are names; relativity lists switches separated by ";".
+
+options:
+${DATABASE_HELP}
+`;
+
+export const importCommand: Command = {
+  summary: 'import targets, orbit solutions or measurements from CSV (all rows or none)',
+  help,
+  async run(argv) {
+    const { values } = parseArgs({ args: argv, options: { ...databaseOption, kind: { type: 'string' }, file: { type: 'string' }, 'check-only': { type: 'boolean' } }, strict: true, allowPositionals: false });
+    const kind = values.kind as CsvKind | undefined;
+    if (kind === undefined || !CSV_KINDS.includes(kind)) throw new UsageError(`--kind must be one of ${CSV_KINDS.join(', ')}`);
+    if (values.file === undefined) throw new UsageError('--file is required');
+    let text: string;
+    try {
+      text = readFileSync(values.file, 'utf8');
+    } catch (err) {
+      throw new UsageError(`--file: cannot read ${JSON.stringify(values.file)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+    }
+    const dryRun = values['check-only'] ?? false;
+    try {
+      const report = await withStore(values.database, (store) => importCsv(store, LOCAL_OPERATOR, kind, text, { dryRun }));
+      return dryRun ? `checked ${report.rows} ${kind} rows: all good, nothing written\n` : `imported ${report.written} ${kind} rows\n`;
+    } catch (err) {
+      if (!(err instanceof ImportRejected)) throw err;
+      const table = formatTable(err.report.problems, [
+        { header: 'line', value: (p) => p.line },
+        { header: 'column', value: (p) => p.column },
+        { header: 'value', value: (p) => (p.value === undefined || p.value === null ? '' : JSON.stringify(p.value)) },
+        { header: 'rule', value: (p) => p.rule },
+      ]);
+      throw new UsageError(`${err.report.problems.length} problem(s); nothing was written\n${table}`);
+    }
+  },
+};
