@@ -4,10 +4,18 @@ import { ephemerisCommand } from './ephemeris.ts';
 import { eventsCommand } from './events.ts';
 import { nightCommand } from './night.ts';
 import { seasonCommand } from './season.ts';
+import { accountCommand } from './account.ts';
+import { backupCommand } from './backup.ts';
+import { importCommand } from './import.ts';
+import { exportCommand } from './export.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
   events: eventsCommand,
   night: nightCommand,
   season: seasonCommand,
+  account: accountCommand,
+  backup: backupCommand,
+  import: importCommand,
+  export: exportCommand,
 };
