@@ -7,7 +7,7 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { Body, Equator, Horizon, Observer } from 'astronomy-engine';
+import { Body, Equator, Horizon, Observer, SearchAltitude } from 'astronomy-engine';
 import ical from 'node-ical';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/http/app.ts';
@@ -148,5 +148,26 @@ describe('exports and imports', () => {
     expect(n).toBe(audited); // one instant: every system in the copy has its audit entry, and no more
     copy.close();
     await expect(backupDatabase(store.database, path)).rejects.toThrow(/already exists/);
+  });
+});
+
+describe('a stored night’s visibility', () => {
+  it('reports darkness as astronomy-engine finds it, the campaign’s targets, and the laser caution', async () => {
+    const app = createApp({ store });
+    const night = (await store.nights.list([], { limit: 500 })).items.find((n) => n.date === '2027-06-12' && n.siteId === 1)!;
+    const res = await app.request(`/api/nights/${night.id}/visibility`, { headers: { authorization: `Bearer ${leadToken}` } });
+    expect(res.status).toBe(200);
+    const report = (await res.json()) as { darkness: { hours: number }; targets: { name: string; observableHours: number }[]; cautions: string[] };
+    const site = (await store.sites.get(night.siteId));
+    const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
+    const noon = new Date('2027-06-12T16:00:00Z'); // local noon in America/Santiago (UTC−4 in June)
+    const dusk = SearchAltitude(Body.Sun, observer, -1, noon, 1, -18)!;
+    const dawn = SearchAltitude(Body.Sun, observer, +1, dusk, 1, -18)!;
+    const hours = (dawn.date.getTime() - dusk.date.getTime()) / 3_600_000;
+    console.log(`night ${night.date}: darkness ${report.darkness.hours.toFixed(3)} h, astronomy-engine ${hours.toFixed(3)} h`);
+    expect(Math.abs(report.darkness.hours - hours)).toBeLessThan(0.02); // astronomy-engine SearchAltitude at −18° (astronomical twilight); ~1 min
+    expect(report.targets.map((t) => t.name)).toEqual(['VC s1 (Vesper Core)', 'VC s2 (Vesper Core)', 'VC s3 (Vesper Core)', 'VC s4 (Vesper Core)']); // the campaign's targets (scenario.ts)
+    expect(report.targets[0]!.observableHours).toBeGreaterThan(4); // declination −22° at latitude −25° in June culminates near the zenith at night (common practice, no source)
+    expect(report.cautions.some((c) => c.includes('laser'))).toBe(true); // the site runs a laser guide star
   });
 });

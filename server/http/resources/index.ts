@@ -6,6 +6,7 @@ import { resourceApp } from './common.ts';
 import { exchangeRoutes } from './exchange.ts';
 import { measurementRoutes } from './measurements.ts';
 import { nightReportRoutes } from './night-reports.ts';
+import { nightVisibilityRoutes } from './night-visibility.ts';
 import { blockRoutes, nightRoutes } from './nights.ts';
 import { orbitSolutionRoutes } from './orbit-solutions.ts';
 import { siteRoutes } from './sites.ts';
@@ -17,7 +18,7 @@ export function storeRoutes(store: Store) {
   const app = resourceApp();
   app.use('*', identify(store, { queryTokenPaths: /\/calendar\.ics$/ }));
   app.openAPIRegistry.registerComponent('securitySchemes', 'bearer', { type: 'http', scheme: 'bearer', description: 'a token from `epochwright account add` or POST /api/users' });
-  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes]) {
+  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, nightVisibilityRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes]) {
     app.route('/', routes(store));
   }
   return app;

@@ -14,8 +14,8 @@ import type { DbOrTx } from '../database.ts';
 import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 import { NotFoundError } from '../errors.ts';
+import { LASER_CAUTION } from '../views/visibility.ts';
 
-const LASER_CAUTION = 'Laser guide star: aircraft and satellite avoidance follow the site’s laser-traffic rules and the local aviation authority, not this tool.';
 
 export interface CalendarOptions {
   /** Host name used in UIDs, e.g. the server's. */
