@@ -1,0 +1,25 @@
+/** The sky engine's public surface is pinned: a change to it is a decision, not an accident. */
+import { expect, it } from 'vitest';
+import * as sky from '../../../server/science/sky/index.ts';
+
+it('exports exactly these values', () => {
+  expect(Object.keys(sky).sort()).toEqual([
+    'AIRMASS_FORMULAS', 'DEFAULT_MAX_AIRMASS', 'DEFAULT_MOON_SEPARATION_DEG', 'DEFAULT_SUN_AVOIDANCE_DEG', 'LIMITS',
+    'TWILIGHT_SUN_ALTITUDE_DEG', 'airmass', 'altitudeForAirmass', 'apparentAltitudeDeg', 'astroTime', 'darknessExact',
+    'darknessFast', 'deltaTSeconds', 'exactSampler', 'fastSampler', 'findWindows', 'frameTarget', 'icrsDirection',
+    'instant', 'maskAltitudeDeg', 'moonNight', 'nightFrame', 'nightReport', 'nightSpan', 'offsetPosition',
+    'parallacticAngleRad', 'parseNightDate', 'refractionDeg', 'refractionScale', 'seasonMap', 'seeingAtAirmass',
+    'skyPlaceExact', 'skyPlaceOfDate', 'standardAtmosphere', 'sunNight', 'taiMinusUtcS', 'targetPositionAt',
+    'trueAltitudeDeg', 'validateConstraints', 'validateSite', 'validateTarget',
+  ].sort());
+});
+
+it('keeps the science layer free of http, store and client imports', async () => {
+  const { readdirSync, readFileSync } = await import('node:fs');
+  const dir = new URL('../../../server/science/sky/', import.meta.url);
+  for (const f of readdirSync(dir)) {
+    const src = readFileSync(new URL(f, dir), 'utf8');
+    expect(src, f).not.toMatch(/from '\.\.\/\.\.\/(http|store|cli)\//);
+    expect(src, f).not.toMatch(/from '.*client\//);
+  }
+});
