@@ -7,7 +7,7 @@
  */
 import { AU_KM, C_KM_PER_S, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../constants.ts';
 import { jdToIso } from '../time/index.ts';
-import { solveKepler, trueAnomalyFromEccentric } from './kepler.ts';
+import { solveKepler, solveKeplerBatch, trueAnomalyFromEccentric } from './kepler.ts';
 import { massParameterM3S2, semiMajorAxisAu } from './physical.ts';
 import { gravitationalRedshiftKmS, precessionPerOrbitRad, romerDelayDays, transverseDopplerKmS } from './relativity.ts';
 import type { Orbit } from './types.ts';
@@ -210,11 +210,20 @@ export function writeState(p: Prepared, tObs: number, tEm: number, E: number, c:
  */
 export function predictBatch(orbit: Orbit, jd: Float64Array, out: PredictionColumns = allocateColumns(jd.length)): PredictionColumns {
   const p = prepare(orbit);
-  for (let i = 0; i < jd.length; i++) {
-    const tObs = jd[i]!;
-    const { tEm, E } = emissionState(p, tObs);
-    writeState(p, tObs, tEm, E, out, i);
+  if (orbit.relativity.romer) {
+    // Each epoch has its own light-time fixed point.
+    for (let i = 0; i < jd.length; i++) {
+      const tObs = jd[i]!;
+      const { tEm, E } = emissionState(p, tObs);
+      writeState(p, tObs, tEm, E, out, i);
+    }
+    return out;
   }
+  // Without light time, one batch Kepler solve serves every epoch (the anomaly columns are scratch space).
+  const M = out.meanAnomalyDeg;
+  for (let i = 0; i < jd.length; i++) M[i] = p.n * (jd[i]! - orbit.periapsisJd);
+  const E = solveKeplerBatch(M, orbit.e, out.eccentricAnomalyDeg);
+  for (let i = 0; i < jd.length; i++) writeState(p, jd[i]!, jd[i]!, E[i]!, out, i);
   return out;
 }
 

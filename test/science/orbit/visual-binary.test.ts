@@ -2,20 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { predict, validateOrbit } from '../../../server/science/orbit/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
 
-// Meeus, Astronomical Algorithms, 2nd ed., Example 57.a (from memory; values in ../shared/REFERENCES.md):
-// P = 41.623 yr, T = 1934.008, e = 0.2763, a = 0.907″, i = 59.025°, Ω = 23.717°, ω = 219.907°, epoch 1980.0.
-// Meeus counts years of the period's own length, so T and the epoch are Julian-year epochs here.
-export const MEEUS_57A = {
-  elements: {
-    periodYears: 41.623,
-    periapsis: 'J1934.008',
-    eccentricity: 0.2763,
-    semiMajorAxisArcsec: 0.907,
-    inclinationDeg: 59.025,
-    ascendingNodeDeg: 23.717,
-    argPeriapsisDeg: 219.907,
-  },
-};
+import { MEEUS_57A } from '../../fixtures/orbits.ts';
 
 describe('visual binary, Meeus Example 57.a', () => {
   const p = predict(validateOrbit(MEEUS_57A), parseEpoch('J1980.0'));
