@@ -172,7 +172,7 @@ export function seasonJson(site: Site, map: ReturnType<typeof seasonMap>) {
     year: map.year,
     stepMinutes: map.stepMinutes,
     nights: map.nights.map((n) => ({ date: n.date, darkHours: Math.round(n.darkHours * 1000) / 1000 })),
-    targets: map.targets.map((t) => ({ name: t.name, season: t.season, hoursPerNight: Array.from(t.hours, (h) => Math.round(h * 1000) / 1000) })),
+    targets: map.targets.map((t) => ({ name: t.name, season: t.season, periapses: t.periapses, hoursPerNight: Array.from(t.hours, (h) => Math.round(h * 1000) / 1000) })),
     evaluations: map.evaluations,
   };
 }

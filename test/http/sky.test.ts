@@ -81,6 +81,19 @@ describe('POST /api/sky/season', () => {
     expect(Math.max(...r.targets[1]!.hoursPerNight)).toBe(0);
   });
 
+  it('says whether each periapsis of an orbiting target falls in its season', async () => {
+    // Invented demo orbit: periapsis at 2027-07-10T00:00Z, which is the evening of 9 July in Chile (UTC−4).
+    const plover = { name: 'Plover', raDeg: 266.41, decDeg: -29.0, orbit: { elements: { periodYears: 0.9, periapsis: '2027-07-10T00:00:00Z', eccentricity: 0.5, semiMajorAxisArcsec: 0.05, inclinationDeg: 40, ascendingNodeDeg: 100, argPeriapsisDeg: 50 } } };
+    const res = await post('/api/sky/season', { site, year: 2027, targets: [plover], stepMinutes: 10 });
+    const r = (await res.json()) as { nights: { date: string }[]; targets: { hoursPerNight: number[]; periapses: { epoch: string; night: string; hours: number; inSeason: boolean }[] }[] };
+    const [p] = r.targets[0]!.periapses;
+    expect(r.targets[0]!.periapses).toHaveLength(1);
+    expect(p!.epoch).toBe('2027-07-10T00:00:00.000Z');
+    expect(p!.night).toBe('2027-07-09');
+    expect(p!.inSeason).toBe(true);
+    expect(p!.hours).toBeCloseTo(r.targets[0]!.hoursPerNight[r.nights.findIndex((n) => n.date === '2027-07-09')]!, 3);
+  });
+
   it('answers 422 for a year out of range', async () => {
     const res = await post('/api/sky/season', { site, year: 1066, targets });
     expect(res.status).toBe(422);

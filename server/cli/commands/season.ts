@@ -52,6 +52,7 @@ export const seasonCommand: Command = {
       { header: 'usable_nights', value: (t) => t.season.usableNights },
       { header: 'best_night', value: (t) => t.season.bestNight ?? '—' },
       { header: 'best_hours', value: (t) => t.season.bestHours, digits: 2 },
+      { header: 'periapsis', value: (t) => t.periapses.map((p) => `${p.night} ${p.inSeason ? 'in season' : 'OUT of season'} ${p.hours.toFixed(1)} h`).join('; ') },
     ];
     return render(format, map.targets, columns, seasonJson(site, map));
   },

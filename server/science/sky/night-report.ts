@@ -4,6 +4,7 @@
  */
 import { DEG } from '../constants.ts';
 import { airmass } from './airmass.ts';
+import { parallacticAngleRad } from './apparent.ts';
 import type { Constraints } from './constraints.ts';
 import { darknessExact, darknessFast, type Interval } from './darkness.ts';
 import { nightFrame } from './frame.ts';
@@ -45,8 +46,19 @@ export interface TargetNight {
   decOfDateDeg: number;
   observableHours: number;
   windows: ReportWindow[];
-  /** Sampled for plotting; airmass is null where the target is below the horizon. */
-  curve: { utc: string[]; altitudeDeg: number[]; airmass: (number | null)[]; moonSeparationDeg: number[] } | null;
+  /** Distances from the Moon and the Sun at local solar midnight, degrees. */
+  moonSeparationDeg: number;
+  sunSeparationDeg: number;
+  /** Sampled for plotting (fast path); airmass is null where the target is below the horizon. */
+  curve: {
+    utc: string[];
+    altitudeDeg: number[];
+    azimuthDeg: number[];
+    airmass: (number | null)[];
+    hourAngleDeg: number[];
+    parallacticAngleDeg: number[];
+    moonSeparationDeg: number[];
+  } | null;
 }
 
 export interface NightReport {
@@ -99,7 +111,7 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
     }));
     let curve: TargetNight['curve'] = null;
     if (curveStep > 0) {
-      curve = { utc: [], altitudeDeg: [], airmass: [], moonSeparationDeg: [] };
+      curve = { utc: [], altitudeDeg: [], azimuthDeg: [], airmass: [], hourAngleDeg: [], parallacticAngleDeg: [], moonSeparationDeg: [] };
       const n = Math.floor((span.endJd - span.startJd) * 1440 / curveStep);
       for (let i = 0; i <= n; i++) {
         const jd = span.startJd + (i * curveStep) / 1440;
@@ -107,7 +119,10 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
         const x = airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg);
         curve.utc.push(instant(jd, zone).utc);
         curve.altitudeDeg.push(round(s.altitudeDeg, 3));
+        curve.azimuthDeg.push(round(s.azimuthDeg, 3));
         curve.airmass.push(s.altitudeDeg > 0 && Number.isFinite(x) ? round(x, 4) : null);
+        curve.hourAngleDeg.push(round(s.hourAngleRad / DEG, 3));
+        curve.parallacticAngleDeg.push(round(parallacticAngleRad(s.hourAngleRad, ft.decRad, site.latitudeDeg * DEG) / DEG, 2));
         curve.moonSeparationDeg.push(round(s.moonSeparationDeg, 2));
       }
     }
@@ -116,6 +131,8 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
       raOfDateDeg: ft.raRad / DEG,
       decOfDateDeg: ft.decRad / DEG,
       observableHours: windows.reduce((h, w) => h + w.hours, 0),
+      moonSeparationDeg: fast(sun.midnightJd).moonSeparationDeg,
+      sunSeparationDeg: fast(sun.midnightJd).sunSeparationDeg,
       windows,
       curve,
     };

@@ -17,6 +17,8 @@ import { maskAltitudeDeg, maskMaxAltitudeDeg, type Site } from './site.ts';
 import { cosLimitHourAngle, countUp } from './season-count.ts';
 import { icrsDirection, type Target } from './target.ts';
 import { type Vec3 } from './vectors.ts';
+import { findEvents } from '../orbit/index.ts';
+import { jdToIso } from '../time/index.ts';
 
 export interface SeasonOptions {
   /** Darkness sampling step, minutes, [1, 60]; default 5. */
@@ -49,11 +51,25 @@ export interface SeasonSummary {
   bestHours: number;
 }
 
+/** A periapsis passage of an orbiting target in the map's year, and whether it can be watched. */
+export interface PeriapsisInSeason {
+  /** Observed instant (light-travel time included when the orbit switches it on), ISO 8601 UTC. */
+  epoch: string;
+  /** The night (local evening date) in which it falls. */
+  night: string;
+  /** Observable hours on that night. */
+  hours: number;
+  /** The night lies inside the target's season. */
+  inSeason: boolean;
+}
+
 export interface TargetSeason {
   name: string;
   /** Observable hours per night, one per night of `nights`. */
   hours: Float32Array;
   season: SeasonSummary;
+  /** Periapsis passages within the year (empty for targets without an orbit). */
+  periapses: PeriapsisInSeason[];
 }
 
 export interface SeasonMap {
@@ -232,7 +248,8 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
         }
       }
     }
-    return { name: target.name, hours, season: summarise(counts, minSamples, maxGap, dates, bestNight, bestCount, stepMinutes) };
+    const season = summarise(counts, minSamples, maxGap, dates, bestNight, bestCount, stepMinutes);
+    return { name: target.name, hours, season, periapses: periapses(target, nights, dates, hours, season) };
   });
 
   return {
@@ -281,4 +298,22 @@ export function summarise(counts: Int32Array, minSamples: number, maxGap: number
     usableNights: top.nights,
     ...best,
   };
+}
+
+/** Whether night index i lies in a season (handles seasons that run through the year end). */
+export function nightInSeason(season: SeasonSummary, dates: readonly string[], i: number): boolean {
+  if (season.allYear) return true;
+  if (season.start === null || season.end === null) return false;
+  const s = dates.indexOf(season.start), e = dates.indexOf(season.end);
+  return s <= e ? i >= s && i <= e : i >= s || i <= e;
+}
+
+function periapses(target: Target, nights: readonly PreparedNight[], dates: readonly string[], hours: Float32Array, season: SeasonSummary): PeriapsisInSeason[] {
+  if (target.orbit === null) return [];
+  const first = nights[0]!.frame.span.startJd, last = nights[nights.length - 1]!.frame.span.endJd;
+  return findEvents(target.orbit, first, last, { kinds: ['periapsis'] }).flatMap((ev) => {
+    const i = nights.findIndex((n) => ev.jd >= n.frame.span.startJd && ev.jd < n.frame.span.endJd);
+    if (i < 0) return [];
+    return [{ epoch: jdToIso(ev.jd), night: dates[i]!, hours: hours[i]!, inSeason: nightInSeason(season, dates, i) }];
+  });
 }
