@@ -1,0 +1,66 @@
+import { describe, expect, it } from 'vitest';
+import * as orbit from '../../../server/science/orbit/index.ts';
+import * as time from '../../../server/science/time/index.ts';
+
+// The public surface of the orbit engine and the epoch module is pinned: a change here is a decision.
+describe('public surface', () => {
+  it('orbit engine exports exactly these values', () => {
+    expect(Object.keys(orbit).sort()).toEqual(
+      [
+        'COVARIANCE_PARAMETERS',
+        'EVENT_KINDS',
+        'PERCENTILES',
+        'PREDICTION_FIELDS',
+        'UNCERTAIN_FIELDS',
+        'campbellToThieleInnes',
+        'drawOrbits',
+        'eccentricFromTrueAnomaly',
+        'ephemeris',
+        'eventsWithUncertainty',
+        'findEvents',
+        'getParameter',
+        'gravitationalRedshiftKmS',
+        'linearSigma',
+        'massSolar',
+        'nextPeriapsis',
+        'percentiles',
+        'physicalQuantities',
+        'precessionPerOrbitRad',
+        'predict',
+        'predictBatch',
+        'romerDelayDays',
+        'schwarzschildRadiusM',
+        'semiMajorAxisAu',
+        'solveKepler',
+        'solveKeplerBatch',
+        'thieleInnesToCampbell',
+        'toCampbellInput',
+        'toThieleInnesInput',
+        'transverseDopplerKmS',
+        'trueAnomalyFromEccentric',
+        'validateOrbit',
+        'withParameter',
+      ].sort(),
+    );
+  });
+
+  it('epoch module exports exactly these values', () => {
+    expect(Object.keys(time).sort()).toEqual(
+      [
+        'MAX_EPOCHS',
+        'besselianEpochToJd',
+        'epochRange',
+        'formatEpoch',
+        'jdToBesselianEpoch',
+        'jdToIso',
+        'jdToJulianEpoch',
+        'jdToMjd',
+        'jdToUnixMs',
+        'julianEpochToJd',
+        'parseDurationDays',
+        'parseEpoch',
+        'unixMsToJd',
+      ].sort(),
+    );
+  });
+});
