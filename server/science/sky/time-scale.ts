@@ -1,9 +1,11 @@
 /**
- * UTC → TT for astronomy-engine. Its default ΔT (TT − UT1) is a long-term polynomial that is off by
- * a few seconds today, which moves every hour angle by tens of arcseconds. Since 1972, TT − UTC is
- * known exactly (32.184 s + the leap seconds), and UT1 − UTC stays within ±0.9 s, so we take
- * UT1 = UTC and TT = UTC + 32.184 s + (TAI − UTC). Before 1972 astronomy-engine's model is kept.
- * After the last entry we assume no new leap second (none is announced).
+ * UTC → TT for astronomy-engine. astronomy-engine reads its input instant as UT (which drives the
+ * Earth's rotation, so hour angles do not depend on this) and derives TT = UT + ΔT, which places the
+ * Sun, the Moon and the precession-nutation. Its default ΔT is a long-term polynomial that is about
+ * 6 s off in 2026 (the Moon then lands ~3″ astray). Since 1972, TT − UTC is known exactly
+ * (32.184 s + the leap seconds) and UT1 − UTC stays within ±0.9 s, so we take UT1 = UTC and
+ * TT = UTC + 32.184 s + (TAI − UTC), as ERFA does with dut1 = 0. Before 1972 astronomy-engine's
+ * model is kept. After the last entry we assume no new leap second (none is announced).
  */
 import { DeltaT_EspenakMeeus, SetDeltaTFunction } from 'astronomy-engine';
 import { JD_J2000, MJD_OFFSET } from '../constants.ts';
