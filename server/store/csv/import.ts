@@ -83,7 +83,19 @@ function cellValue(column: string, cell: string): unknown {
   return cell;
 }
 
-async function targetIdOf(tx: DbOrTx, system: unknown, target: unknown): Promise<number> {
+/** Names already resolved in this import (a file usually repeats a few targets many times). */
+type NameCache = Map<string, number>;
+
+async function targetIdOf(tx: DbOrTx, system: unknown, target: unknown, cache: NameCache): Promise<number> {
+  const key = JSON.stringify([system, target]);
+  const hit = cache.get(key);
+  if (hit !== undefined) return hit;
+  const id = await lookupTarget(tx, system, target);
+  cache.set(key, id);
+  return id;
+}
+
+async function lookupTarget(tx: DbOrTx, system: unknown, target: unknown): Promise<number> {
   if (typeof system !== 'string') throw new InputError('system', system, 'is required: the name of a stored system');
   const [sys] = await tx.select({ id: systems.id }).from(systems).where(eq(systems.name, system));
   if (!sys) throw new InputError('system', system, 'does not name a stored system');
@@ -96,7 +108,7 @@ async function targetIdOf(tx: DbOrTx, system: unknown, target: unknown): Promise
 const RELATIVITY = ['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession'];
 
 /** One CSV row to the JSON input of the repository. */
-async function toInput(tx: DbOrTx, kind: CsvKind, cells: Record_): Promise<Record<string, unknown>> {
+async function toInput(tx: DbOrTx, kind: CsvKind, cells: Record_, cache: NameCache): Promise<Record<string, unknown>> {
   const v: Record<string, unknown> = Object.fromEntries(Object.entries(cells).map(([k, c]) => [k, cellValue(k, c)]));
   if (kind === 'targets') {
     if (typeof v.system !== 'string') throw new InputError('system', v.system, 'is required: the name of a stored system');
@@ -105,7 +117,7 @@ async function toInput(tx: DbOrTx, kind: CsvKind, cells: Record_): Promise<Recor
     const { system: _s, ...rest } = v;
     return { ...rest, systemId: sys.id };
   }
-  const targetId = await targetIdOf(tx, v.system, v.target);
+  const targetId = await targetIdOf(tx, v.system, v.target, cache);
   const { system: _s, target: _t, ...rest } = v;
   if (kind === 'measurements') return { ...rest, targetId };
   const on = typeof v.relativity === 'string' ? v.relativity.split(/[\s;|]+/).filter(Boolean) : [];
@@ -153,9 +165,10 @@ export async function importCsv(store: Store, actor: Actor, kind: CsvKind, text:
   const report: ImportReport = { kind, dryRun, rows: rows.length, written: 0, problems };
   try {
     await store.db.transaction(async (tx) => {
+      const cache: NameCache = new Map();
       for (const [i, { line, cells }] of rows.entries()) {
         try {
-          await repo.createIn(tx, actor, await toInput(tx, kind, cells));
+          await repo.createIn(tx, actor, await toInput(tx, kind, cells, cache));
         } catch (err) {
           problems.push(...problemsOf(err, line));
         }
