@@ -7,7 +7,7 @@
  */
 import { AU_KM, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
 import { thieleInnesToCampbell } from '../elements.ts';
-import { solveKepler } from '../kepler.ts';
+import { solveKeplerBatch } from '../kepler.ts';
 import type { Observation } from './measurements.ts';
 
 const KAPPA = AU_KM / SECONDS_PER_DAY / 1000;
@@ -40,6 +40,34 @@ export interface GridNode {
 }
 
 const E_NODES = [0, 0.15, 0.3, 0.45, 0.6, 0.7, 0.8, 0.87, 0.92, 0.95, 0.97];
+
+/**
+ * cos E and sin E tabulated over one orbit in mean anomaly, per eccentricity, and read by linear
+ * interpolation: the grid needs ~10⁶ anomalies per fit and only start-level accuracy (≲0.01 rad at
+ * e = 0.97 next to periapsis, far less elsewhere), so a table filled by the engine's Kepler solver
+ * replaces a solve per epoch per node (about 20× faster).
+ */
+const TABLE_SIZE = 8192;
+const tables = new Map<number, { cos: Float64Array; sin: Float64Array }>();
+function anomalyTable(e: number): { cos: Float64Array; sin: Float64Array } {
+  let t = tables.get(e);
+  if (!t) {
+    const M = Float64Array.from({ length: TABLE_SIZE + 1 }, (_, k) => (TWO_PI * k) / TABLE_SIZE);
+    const E = solveKeplerBatch(M, e);
+    t = { cos: E.map(Math.cos), sin: E.map(Math.sin) };
+    if (tables.size > 64) tables.clear();
+    tables.set(e, t);
+  }
+  return t;
+}
+
+/** cos E, sin E at orbital phase u (fraction of the period since periapsis, any real), written into out. */
+function lookup(t: { cos: Float64Array; sin: Float64Array }, u: number, out: Float64Array): void {
+  const x = (u - Math.floor(u)) * TABLE_SIZE;
+  const i = Math.min(Math.floor(x), TABLE_SIZE - 1), f = x - i;
+  out[0] = t.cos[i]! + f * (t.cos[i + 1]! - t.cos[i]!);
+  out[1] = t.sin[i]! + f * (t.sin[i + 1]! - t.sin[i]!);
+}
 
 /**
  * Solve the small symmetric positive-definite system N·s = b in place (n ≤ 4 unknowns, N row-major).
@@ -103,18 +131,20 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const Nx = new Float64Array(nLin * nLin), Ny = new Float64Array(nLin * nLin);
   const bx = new Float64Array(nLin), by = new Float64Array(nLin);
   const XY = new Float64Array(2 * ast.length);
+  const u0 = new Float64Array(ast.length), cs = new Float64Array(2);
   for (const P of periods) {
-    const n = TWO_PI / P;
+    ast.forEach((m, q) => (u0[q] = (m.jd - tRef) / P));
     for (const e of eNodes) {
       const sq = Math.sqrt(1 - e * e);
+      const table = anomalyTable(e);
       const nPhase = Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5)));
       for (let ph = 0; ph < nPhase; ph++) {
         const T = tRef - (ph / nPhase) * P;
         Nx.fill(0); Ny.fill(0); bx.fill(0); by.fill(0);
         for (let q = 0; q < ast.length; q++) {
           const m = ast[q]!;
-          const E = solveKepler(n * (m.jd - T), e);
-          const X = Math.cos(E) - e, Y = sq * Math.sin(E);
+          lookup(table, u0[q]! + ph / nPhase, cs);
+          const X = cs[0]! - e, Y = sq * cs[1]!;
           XY[2 * q] = X;
           XY[2 * q + 1] = Y;
           fillColumns(col, X, Y, m.jd, o);
@@ -142,7 +172,7 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
         if (o.frameOffset) { frame[0] = sx[k]!; frame[1] = sy[k]!; k++; }
         if (o.frameDrift) { frame[2] = sx[k]!; frame[3] = sy[k]!; }
         const node: GridNode = { chi2, periodDays: P, periapsisJd: T, e, A: sy[0]!, F: sy[1]!, B: sx[0]!, G: sx[1]!, frame, gamma: null, signedDistancePc: null };
-        if (rv.length > 0 && !velocityPart(node, rv)) continue;
+        if (rv.length > 0) velocityPart(node, rv, table);
         nodes.push(node);
       }
     }
@@ -159,24 +189,29 @@ function fillColumns(col: Float64Array, X: number, Y: number, jd: number, o: Gri
 }
 
 /** v = γ + D·b(t), b the radial velocity per parsec of the astrometric orbit: linear in γ and D. */
-function velocityPart(node: GridNode, rv: Observation[]): boolean {
+function velocityPart(node: GridNode, rv: Observation[], table: { cos: Float64Array; sin: Float64Array }): void {
   const c = thieleInnesToCampbell(node);
   const e = node.e, sq = Math.sqrt(1 - e * e), n = TWO_PI / node.periodDays;
   const C = c.a * Math.sin(c.iRad) * Math.sin(c.argRad), H = c.a * Math.sin(c.iRad) * Math.cos(c.argRad);
-  const N = new Float64Array(4), rhs = new Float64Array(2);
+  const N = new Float64Array(4), rhs = new Float64Array(2), cs = new Float64Array(2);
   const basis = rv.map((m) => {
-    const E = solveKepler(n * (m.jd - node.periapsisJd), e);
-    const b = (KAPPA * n * (-C * Math.sin(E) + H * sq * Math.cos(E))) / (1 - e * Math.cos(E));
+    lookup(table, (m.jd - node.periapsisJd) / node.periodDays, cs);
+    const b = (KAPPA * n * (-C * cs[1]! + H * sq * cs[0]!)) / (1 - e * cs[0]!);
     const w = 1 / m.sigma[0] ** 2;
     N[0] = N[0]! + w; N[2] = N[2]! + w * b; N[3] = N[3]! + w * b * b;
     rhs[0] = rhs[0]! + w * m.value[0]; rhs[1] = rhs[1]! + w * b * m.value[0];
     return b;
   });
-  if (rv.length < 2 || !solveSmall(N, rhs, 2)) return false;
+  if (!solveSmall(N, rhs, 2)) {
+    // The velocities cannot separate γ from the distance (e.g. all on one night): start from their
+    // mean and let the covariance step name what is undetermined.
+    const w = rv.reduce((s, m) => s + m.sigma[0] ** -2, 0);
+    node.gamma = rv.reduce((s, m) => s + m.value[0] * m.sigma[0] ** -2, 0) / w;
+    return;
+  }
   node.gamma = rhs[0]!;
   node.signedDistancePc = rhs[1]!;
   rv.forEach((m, q) => (node.chi2 += (m.value[0] - rhs[0]! - rhs[1]! * basis[q]!) ** 2 / m.sigma[0] ** 2));
-  return true;
 }
 
 /** The best nodes that differ in period, eccentricity or phase. */

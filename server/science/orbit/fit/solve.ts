@@ -84,19 +84,23 @@ function refuseEarly(star: CheckedStar, ownParams: number): void {
   }
 }
 
-/** Refuse when every epoch of a star sits within 0.5% of the fitted orbit's phase (e.g. epochs one period apart). */
+/** Refuse when every epoch of a star sits within 0.5% of the orbit's phase (e.g. epochs one period apart). */
+function refusePhases(name: string, jd: ArrayLike<number>, periodDays: number, periapsisJd: number): void {
+  const ph = Array.from(jd, (t) => {
+    const f = (t - periapsisJd) / periodDays;
+    return f - Math.floor(f);
+  }).sort((a, b) => a - b);
+  let gap = 1 - ph[ph.length - 1]! + ph[0]!;
+  for (let q = 1; q < ph.length; q++) gap = Math.max(gap, ph[q]! - ph[q - 1]!);
+  if (1 - gap < 0.005) {
+    throw new FitRefusal('single-phase', `star ${name}: at a period of ${(periodDays / JULIAN_YEAR_DAYS).toPrecision(6)} yr all ${ph.length} epochs fall at one orbital phase (within ${((1 - gap) * 100).toFixed(2)}% of the orbit); add epochs at other phases`, [name]);
+  }
+}
+
 function refuseSinglePhase(L: Layout, theta: Float64Array): void {
   L.stars.forEach((s, k) => {
     const o = starOrbit(L, theta, k);
-    const ph = Array.from(s.jd, (t) => {
-      const f = (t - o.periapsisJd) / o.periodDays;
-      return f - Math.floor(f);
-    }).sort((a, b) => a - b);
-    let gap = 1 - ph[ph.length - 1]! + ph[0]!;
-    for (let q = 1; q < ph.length; q++) gap = Math.max(gap, ph[q]! - ph[q - 1]!);
-    if (1 - gap < 0.005) {
-      throw new FitRefusal('single-phase', `star ${s.name}: at the fitted period of ${(o.periodDays / JULIAN_YEAR_DAYS).toPrecision(6)} yr all ${s.jd.length} epochs fall at orbital phase ${ph[0]!.toFixed(3)} (within ${((1 - gap) * 100).toFixed(2)}% of the orbit); add epochs at other phases`, [s.name]);
-    }
+    refusePhases(s.name, s.jd, o.periodDays, o.periapsisJd);
   });
 }
 
@@ -154,6 +158,7 @@ export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolea
     return j >= 0 && b.fixedMask[j] ? b.base[j]! : null;
   };
   const pFix = fixedVal('periodYears'), eFix = fixedVal('eccentricity');
+  if (pFix !== null) refusePhases(star.name, star.obs.map((m) => m.jd), pFix, 0);
   const hp = star.hints.periodYears;
   const periodDays = pFix !== null ? { min: pFix, max: pFix } : hp ? { min: hp.min * JULIAN_YEAR_DAYS, max: hp.max * JULIAN_YEAR_DAYS } : { min: span / 2, max: 20 * span };
   const eccentricity = eFix !== null ? { min: eFix, max: eFix } : star.hints.eccentricity ?? { min: 0, max: 0.97 };
