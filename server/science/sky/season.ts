@@ -89,6 +89,9 @@ interface PreparedNight {
   counts: number[];
   total: number;
   midDarkJd: number;
+  /** A cap around the Moon's path through darkness: centre (unit vector) and cos of (limit + 1° + radius). */
+  moonCap: Vec3;
+  cosMoonCap: number;
   /** Lazily filled per-sample Sun/Moon directions for the per-sample test. */
   sunAt?: Vec3[];
   moonAt?: Vec3[];
@@ -109,8 +112,16 @@ function prepareNights(site: Site, year: number, c: Constraints, stepDays: numbe
     if (dark.length > 0) withMoon(frame, dark[0]!.startJd, dark[dark.length - 1]!.endJd, 2);
     const counts = dark.map((d) => Math.floor((d.endJd - d.startJd) / stepDays + 1e-9) + 1);
     const midDarkJd = dark.length > 0 ? (dark[0]!.startJd + dark[dark.length - 1]!.endJd) / 2 : frame.midJd;
+    // One dot product per target-night instead of one per Moon knot: the knots lie within `radius` of their mean.
+    let cx = 0, cy = 0, cz = 0;
+    for (const m of frame.moonKnots) { cx += m[0]; cy += m[1]; cz += m[2]; }
+    const cr = Math.sqrt(cx * cx + cy * cy + cz * cz) || 1;
+    const moonCap: Vec3 = [cx / cr, cy / cr, cz / cr];
+    let radius = 0;
+    for (const m of frame.moonKnots) radius = Math.max(radius, Math.acos(Math.min(1, m[0] * moonCap[0] + m[1] * moonCap[1] + m[2] * moonCap[2])));
+    const capDeg = c.minMoonSeparationDeg + 1 + radius / DEG;
     dates.push(date);
-    nights.push({ frame, dark, counts, total: counts.reduce((a, b) => a + b, 0), midDarkJd });
+    nights.push({ frame, dark, counts, total: counts.reduce((a, b) => a + b, 0), midDarkJd, moonCap, cosMoonCap: capDeg >= 180 ? -2 : Math.cos(capDeg * DEG) });
   }
   return { dates, nights };
 }
@@ -144,7 +155,6 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
   const sinLimit = Math.sin(trueAltitudeDeg(c.altitudeLimitDeg, scale) * DEG);
   const maskTop = Math.max(c.altitudeLimitDeg, maskMaxAltitudeDeg(c.mask));
   const sinMaskTop = Math.sin(trueAltitudeDeg(maskTop, scale) * DEG);
-  const cosMoonMargin = Math.cos(Math.min(180, c.minMoonSeparationDeg + 1) * DEG);
   const cosSunMargin = Math.cos(Math.min(180, c.sunAvoidanceDeg + 1) * DEG);
   const sinLat = nights[0]!.frame.sinLat, cosLat = nights[0]!.frame.cosLat;
   let evaluations = 0;
@@ -199,9 +209,8 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
         needSamples = above !== count;
       }
       if (!needSamples && count > 0 && c.minMoonSeparationDeg > 0) {
-        for (const mv of f.moonKnots) {
-          if (mv[0] * qx + mv[1] * qy + mv[2] * qz > cosMoonMargin) { needSamples = true; break; }
-        }
+        const mc = n.moonCap;
+        needSamples = mc[0] * qx + mc[1] * qy + mc[2] * qz > n.cosMoonCap;
       }
       if (!needSamples && count > 0 && c.sunAvoidanceDeg > 0) {
         const s = sunAt(f, n.midDarkJd);
