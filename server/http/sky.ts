@@ -7,12 +7,14 @@ import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import { InputError, requireFinite } from '../science/errors.ts';
 import {
   AIRMASS_FORMULAS,
+  cautions,
   nightReport,
   parseNightDate,
   seasonMap,
   validateConstraints,
   validateSite,
   validateTarget,
+  type Constraints,
   type Site,
   type Target,
 } from '../science/sky/index.ts';
@@ -160,13 +162,13 @@ export function skyRoutes() {
       ...(minHoursPerNight === undefined ? {} : { minHoursPerNight }),
       ...(maxGapNights === undefined ? {} : { maxGapNights }),
     });
-    return c.json(seasonJson(site, map), 200);
+    return c.json(seasonJson(site, map, constraints), 200);
   });
   return app;
 }
 
 /** The season map as JSON: hours rounded to the minute. */
-export function seasonJson(site: Site, map: ReturnType<typeof seasonMap>) {
+export function seasonJson(site: Site, map: ReturnType<typeof seasonMap>, constraints: Constraints) {
   return {
     site: { name: site.name, timeZone: site.timeZone, latitudeDeg: site.latitudeDeg, longitudeDeg: site.longitudeDeg, elevationM: site.elevationM },
     year: map.year,
@@ -174,5 +176,6 @@ export function seasonJson(site: Site, map: ReturnType<typeof seasonMap>) {
     nights: map.nights.map((n) => ({ date: n.date, darkHours: Math.round(n.darkHours * 1000) / 1000 })),
     targets: map.targets.map((t) => ({ name: t.name, season: t.season, periapses: t.periapses, hoursPerNight: Array.from(t.hours, (h) => Math.round(h * 1000) / 1000) })),
     evaluations: map.evaluations,
+    cautions: cautions(constraints),
   };
 }

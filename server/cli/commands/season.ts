@@ -54,6 +54,6 @@ export const seasonCommand: Command = {
       { header: 'best_hours', value: (t) => t.season.bestHours, digits: 2 },
       { header: 'periapsis', value: (t) => t.periapses.map((p) => `${p.night} ${p.inSeason ? 'in season' : 'OUT of season'} ${p.hours.toFixed(1)} h`).join('; ') },
     ];
-    return render(format, map.targets, columns, seasonJson(site, map));
+    return render(format, map.targets, columns, seasonJson(site, map, constraints));
   },
 };

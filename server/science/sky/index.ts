@@ -10,7 +10,7 @@ export { DEFAULT_MAX_AIRMASS, DEFAULT_MOON_SEPARATION_DEG, validateConstraints, 
 export { darknessExact, darknessFast, type Interval } from './darkness.ts';
 export { nightFrame, type NightFrame } from './frame.ts';
 export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from './night.ts';
-export { nightReport, type NightOptions, type NightReport, type ReportWindow, type TargetNight } from './night-report.ts';
+export { cautions, nightReport, type NightOptions, type NightReport, type ReportWindow, type TargetNight } from './night-report.ts';
 export { apparentAltitudeDeg, refractionDeg, refractionScale, trueAltitudeDeg } from './refraction.ts';
 export { exactSampler, fastSampler, frameTarget, type Sampler, type SkySample } from './samplers.ts';
 export { seasonMap, type SeasonMap, type SeasonOptions, type SeasonSummary, type TargetSeason } from './season.ts';
