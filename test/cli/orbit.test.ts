@@ -1,19 +1,9 @@
-import { execFile } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { MEEUS_57A } from '../fixtures/orbits.ts';
-
-const BIN = join(import.meta.dirname, '../../server/cli/bin.mjs');
-
-function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    execFile(process.execPath, [BIN, ...args], { timeout: 60_000 }, (err, stdout, stderr) => {
-      resolve({ code: err ? ((err as { code?: number }).code ?? 1) : 0, stdout, stderr });
-    });
-  });
-}
+import { cli } from './run-cli.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'epochwright-cli-'));
 const orbitFile = join(dir, 'orbit.json');
