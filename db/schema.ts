@@ -6,6 +6,10 @@
 import { sql } from 'drizzle-orm';
 import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
 import type { OrbitInput } from '../server/science/orbit/types.ts';
+import type { HorizonPoint } from '../server/science/sky/site.ts';
+
+/** J2000.0 (JD 2451545.0) as the store writes instants; the default epoch of a catalogue position. */
+export const J2000_ISO = '2000-01-01T12:00:00.000Z';
 
 const created = () => text('created_at').notNull();
 const updated = () => text('updated_at').notNull();
@@ -34,6 +38,8 @@ export const systems = sqliteTable('systems', {
   decDeg: real('dec_deg').notNull(),
   pmRaMasYr: real('pm_ra_mas_yr').notNull().default(0),
   pmDecMasYr: real('pm_dec_mas_yr').notNull().default(0),
+  /** Epoch of raDeg/decDeg (ISO 8601 UTC); proper motion carries the position from here. J2000.0 for rows older than the column. */
+  positionEpoch: text('position_epoch').notNull().default(J2000_ISO),
   distancePc: real('distance_pc'),
   massSolar: real('mass_solar'),
   notes: text('notes').notNull().default(''),
@@ -90,6 +96,8 @@ export const sites = sqliteTable('sites', {
   sunAvoidanceDeg: real('sun_avoidance_deg').notNull().default(45),
   pressureHpa: real('pressure_hpa'),
   temperatureC: real('temperature_c'),
+  /** Azimuth-dependent horizon (the sky engine's shape), sorted by azimuth; empty for a flat horizon. */
+  horizonMask: text('horizon_mask', { mode: 'json' }).$type<HorizonPoint[]>().notNull().default(sql`'[]'`),
   laserGuideStar: integer('laser_guide_star', { mode: 'boolean' }).notNull().default(false),
   notes: text('notes').notNull().default(''),
   createdAt: created(),
