@@ -122,12 +122,9 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
       F: requireFinite(`${p}.fArcsec`, el.fArcsec),
       G: requireFinite(`${p}.gArcsec`, el.gArcsec),
     };
-    if (ti.A * ti.G - ti.B * ti.F === 0 && ti.A === 0 && ti.B === 0) {
-      throw new InputError(`${p}.aArcsec`, ti.A, 'with B, F, G must describe an orbit of non-zero size');
-    }
     const c = thieleInnesToCampbell(ti);
     aMas = c.a * 1000;
-    if (!(aMas > 0)) throw new InputError(`${p}.aArcsec`, ti.A, 'with B, F, G must describe an orbit of non-zero size');
+    if (!(aMas > 0)) throw new InputError(`${p}.aArcsec`, ti.A, 'with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size');
     iRad = c.iRad;
     nodeRad = c.nodeRad;
     argRad = c.argRad;

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { predict, validateOrbit } from '../../../server/science/orbit/index.ts';
+import { predict, toThieleInnesInput, validateOrbit } from '../../../server/science/orbit/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
-
 import { MEEUS_57A } from '../../fixtures/orbits.ts';
 
 describe('visual binary, Meeus Example 57.a', () => {
@@ -25,5 +24,22 @@ describe('visual binary, Meeus Example 57.a', () => {
     expect(p.dRaMas).toBeLessThan(0);
     expect(p.dDecMas).toBeGreaterThan(0);
     expect(Math.hypot(p.dRaMas, p.dDecMas)).toBeCloseTo(p.separationMas, 9);
+  });
+});
+
+describe('elements given as Thiele–Innes constants', () => {
+  it('give the same position as the Campbell elements of Meeus Example 57.a', () => {
+    const campbell = validateOrbit(MEEUS_57A);
+    const ti = validateOrbit({ elements: toThieleInnesInput(campbell) });
+    const p = predict(ti, parseEpoch('J1980.0'));
+    // Meeus Example 57.a (from memory): θ = 318.42°, ρ = 0.4110″.
+    expect(Math.abs(p.positionAngleDeg - 318.42)).toBeLessThan(0.01);
+    expect(Math.abs(p.separationMas - 411.0)).toBeLessThan(0.1);
+  });
+
+  it('refuse an orbit of zero size and name the field', () => {
+    expect(() =>
+      validateOrbit({ elements: { kind: 'thiele-innes', periodYears: 10, periapsis: 'J2000', eccentricity: 0.1, aArcsec: 0, bArcsec: 0, fArcsec: 0, gArcsec: 0 } }),
+    ).toThrow(/elements\.aArcsec: 0 with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size/);
   });
 });
