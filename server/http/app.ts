@@ -5,6 +5,7 @@ import { OpenAPIHono } from '@hono/zod-openapi';
 import { bodyLimit } from 'hono/body-limit';
 import { HttpError, errorResponse } from './errors.ts';
 import { healthRoutes } from './health.ts';
+import { methodNotAllowed } from './method-not-allowed.ts';
 import { orbitRoutes } from './orbit.ts';
 import { skyRoutes } from './sky.ts';
 import { storeRoutes } from './resources/index.ts';
@@ -40,6 +41,7 @@ export function createApp(options: AppOptions = {}) {
   if (options.store) api.route('/', storeRoutes(options.store));
   api.doc31('/openapi.json', { openapi: '3.1.0', info: { title: 'epochwright API', version: VERSION } });
   app.route('/api', api);
+  app.all('/api/*', methodNotAllowed(app));
   app.all('/api/*', (c) => errorResponse(c, new HttpError(404, 'not_found', `no such endpoint: ${c.req.method} ${c.req.path}`)));
   app.notFound((c) => errorResponse(c, new HttpError(404, 'not_found', `not found: ${c.req.path}`)));
   return app;

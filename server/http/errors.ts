@@ -6,7 +6,7 @@ import type { Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { ComputationError, InputError } from '../science/errors.ts';
 
-export type ErrorStatus = 400 | 401 | 403 | 404 | 409 | 413 | 415 | 422 | 500;
+export type ErrorStatus = 400 | 401 | 403 | 404 | 405 | 409 | 413 | 415 | 422 | 500;
 
 export class HttpError extends Error {
   override readonly name = 'HttpError';

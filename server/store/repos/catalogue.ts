@@ -1,14 +1,37 @@
 /** Systems (a primary with its position) and targets (the stars that orbit it). */
 import { systems, targets } from '../../../db/schema.ts';
+import { InputError } from '../../science/errors.ts';
+import { validateTarget } from '../../science/sky/index.ts';
 import { entity, requireRef } from '../crud.ts';
 import type { Db } from '../database.ts';
 import { repository } from '../repository.ts';
+import { normaliseEpoch } from '../schemas/common.ts';
 import { SystemInput, TargetInput } from '../schemas/entities.ts';
 
 export type SystemRow = typeof systems.$inferSelect;
 export type TargetRow = typeof targets.$inferSelect;
 
-export const systemEntity = entity<SystemRow>({ name: 'system', table: systems, hasUpdatedAt: true, versioned: false, orderBy: [systems.name] });
+/** A system's position as the sky engine's target input: ICRS at `positionEpoch`, carried by its proper motion. */
+export function systemSkyPosition(s: Pick<SystemRow, 'raDeg' | 'decDeg' | 'pmRaMasYr' | 'pmDecMasYr' | 'positionEpoch'>) {
+  return { raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, epoch: s.positionEpoch };
+}
+
+export const systemEntity = entity<SystemRow>({
+  name: 'system',
+  table: systems,
+  hasUpdatedAt: true,
+  versioned: false,
+  orderBy: [systems.name],
+  // The sky engine's validateTarget is the gate: a stored position is one the sky engine can place.
+  check: async (_tx, next) => {
+    try {
+      validateTarget({ name: next.name, ...systemSkyPosition(next as SystemRow) }, 'system');
+    } catch (err) {
+      if (err instanceof InputError) throw new InputError(err.field.replace(/^system\./, '').replace(/^epoch$/, 'positionEpoch'), err.value, err.rule);
+      throw err;
+    }
+  },
+});
 export const targetEntity = entity<TargetRow>({
   name: 'target',
   table: targets,
@@ -21,7 +44,12 @@ export const targetEntity = entity<TargetRow>({
 });
 
 export function systemRepository(db: Db) {
-  return repository(db, { entity: systemEntity, schema: SystemInput, keys: Object.keys(SystemInput.shape) });
+  return repository(db, {
+    entity: systemEntity,
+    schema: SystemInput,
+    keys: Object.keys(SystemInput.shape),
+    toRow: (input) => ({ ...input, positionEpoch: normaliseEpoch(input.positionEpoch, 'positionEpoch').iso }),
+  });
 }
 
 export function targetRepository(db: Db) {

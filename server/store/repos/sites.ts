@@ -1,7 +1,7 @@
 /** Observing sites: where, how high, which zone, and the limits that protect people and equipment. */
 import { sites } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
-import { validateSite } from '../../science/sky/index.ts';
+import { validateSite, type Site } from '../../science/sky/index.ts';
 import { entity } from '../crud.ts';
 import type { Db } from '../database.ts';
 import { repository } from '../repository.ts';
@@ -9,23 +9,33 @@ import { SiteInput } from '../schemas/entities.ts';
 
 export type SiteRow = typeof sites.$inferSelect;
 
+/** The sky engine's validateSite is the one gate for sites: stored sites pass it too. Fields are named as in the store. */
+function skySite(values: Record<string, unknown>): Site {
+  try {
+    return validateSite(values, 'site');
+  } catch (err) {
+    if (err instanceof InputError) throw new InputError(err.field.replace(/^site\./, ''), err.value, err.rule);
+    throw err;
+  }
+}
+
 export const siteEntity = entity<SiteRow>({
   name: 'site',
   table: sites,
   hasUpdatedAt: true,
   versioned: false,
   orderBy: [sites.name],
-  // The sky engine's validateSite is the one gate for sites: stored sites pass it too.
   check: async (_tx, next) => {
-    try {
-      validateSite(next, 'site');
-    } catch (err) {
-      if (err instanceof InputError) throw new InputError(err.field.replace(/^site\./, ''), err.value, err.rule);
-      throw err;
-    }
+    skySite(next);
   },
 });
 
 export function siteRepository(db: Db) {
-  return repository(db, { entity: siteEntity, schema: SiteInput, keys: Object.keys(SiteInput.shape) });
+  return repository(db, {
+    entity: siteEntity,
+    schema: SiteInput,
+    keys: Object.keys(SiteInput.shape),
+    // The mask is stored as the sky engine reads it: checked point by point (indices as sent), then in azimuth order.
+    toRow: (input) => ({ ...input, horizonMask: skySite(input).horizonMask }),
+  });
 }

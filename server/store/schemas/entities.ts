@@ -14,6 +14,7 @@ export const SystemFields = z.object({
   decDeg: z.number().min(-90).max(90).describe('ICRS declination of the primary, degrees'),
   pmRaMasYr: z.number().default(0).describe('proper motion μα* = μα·cos δ, mas/yr'),
   pmDecMasYr: z.number().default(0).describe('proper motion μδ, mas/yr'),
+  positionEpoch: epoch.default('J2000.0').describe('epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0'),
   distancePc: optionalNumber(z.number().positive().describe('distance, parsec')),
   massSolar: optionalNumber(z.number().positive().describe('mass estimate of the primary, solar masses')),
   notes,
@@ -60,6 +61,12 @@ export const SiteFields = z.object({
   sunAvoidanceDeg: z.number().min(0).max(180).default(45).describe('closest allowed angle to the Sun, degrees'),
   pressureHpa: optionalNumber(z.number().min(300).max(1100).describe('typical pressure for refraction, hPa')),
   temperatureC: optionalNumber(z.number().min(-60).max(50).describe('typical night temperature, °C')),
+  // Shape only here; ranges and repeated azimuths are the sky engine's validateSite rules (422).
+  horizonMask: z
+    .array(z.object({ azimuthDeg: z.number().describe('degrees from north through east, [0, 360)'), altitudeDeg: z.number().describe('lowest usable refracted altitude there, degrees, [−5, 90)') }).strict())
+    .max(720)
+    .default([])
+    .describe('azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon'),
   laserGuideStar: z.boolean().default(false).describe('the site runs a laser guide star'),
   notes,
 });

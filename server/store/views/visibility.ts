@@ -1,8 +1,8 @@
 /**
  * A stored night's visibility: the sky engine's night report for the night's site, for the
  * campaign's targets (or, without a campaign, the targets of the night's blocks), each placed by
- * its system's position plus its current orbit, under the campaign's constraints.
- * System positions are taken as ICRS at J2000.0 with their proper motions.
+ * its system's position (ICRS at the system's position epoch, carried by its proper motion) plus its
+ * current orbit, under the campaign's constraints and the site's stored horizon mask.
  */
 import { eq, inArray } from 'drizzle-orm';
 import { blocks, systems, targets } from '../../../db/schema.ts';
@@ -11,6 +11,7 @@ import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
 import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
+import { systemSkyPosition } from '../repos/catalogue.ts';
 import { nightEntity } from '../repos/nights.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 import { siteEntity } from '../repos/sites.ts';
@@ -34,7 +35,7 @@ export async function nightVisibility(db: DbOrTx, nightId: number, options: { cu
     } catch (err) {
       if (!(err instanceof NotFoundError)) throw err; // a target without a solution is placed at its primary
     }
-    skyTargets.push(validateTarget({ name: `${t.name} (${s.name})`, raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, ...(orbit ? { orbit } : {}) }, `targets.${t.id}`));
+    skyTargets.push(validateTarget({ name: `${t.name} (${s.name})`, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) }, `targets.${t.id}`));
   }
   const c = campaign?.constraints ?? {};
   const constraints = validateConstraints({ ...(c.darkness ? { darkness: c.darkness } : {}), ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}), ...(c.minMoonSeparationDeg !== undefined ? { minMoonSeparationDeg: c.minMoonSeparationDeg } : {}), minAltitudeDeg: siteRow.minAltitudeDeg }, site, 'constraints');
