@@ -13,7 +13,8 @@ export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from
 export { cautions, nightReport, type NightOptions, type NightReport, type ReportWindow, type TargetNight } from './night-report.ts';
 export { apparentAltitudeDeg, refractionDeg, refractionScale, trueAltitudeDeg } from './refraction.ts';
 export { exactSampler, fastSampler, frameTarget, type Sampler, type SkySample } from './samplers.ts';
-export { seasonMap, type SeasonMap, type SeasonOptions, type SeasonSummary, type TargetSeason } from './season.ts';
+export { seasonMap, type SeasonMap, type SeasonOptions, type TargetSeason } from './season.ts';
+export type { PeriapsisInSeason, SeasonSummary } from './season-summary.ts';
 export { DEFAULT_SUN_AVOIDANCE_DEG, maskAltitudeDeg, validateSite, type HorizonPoint, type Site, type SiteInput } from './site.ts';
 export { TWILIGHT_SUN_ALTITUDE_DEG, moonNight, sunNight, type TwilightKind } from './sun-moon.ts';
 export { icrsDirection, offsetPosition, targetPositionAt, validateTarget, type Target, type TargetInput } from './target.ts';

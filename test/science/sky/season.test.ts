@@ -7,7 +7,7 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { nightFrame, nightSpan, seasonMap, validateConstraints, validateSite, validateTarget, fastSampler, frameTarget, darknessFast } from '../../../server/science/sky/index.ts';
 import { countUp } from '../../../server/science/sky/season-count.ts';
-import { summarise } from '../../../server/science/sky/season.ts';
+import { summarise } from '../../../server/science/sky/season-summary.ts';
 import { brokenLimit } from '../../../server/science/sky/windows.ts';
 import { randomTarget, seeded } from './helpers.ts';
 
