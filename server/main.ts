@@ -5,6 +5,7 @@
  */
 import { serve } from '@hono/node-server';
 import { createApp } from './http/app.ts';
+import { DEFAULT_CLIENT_DIR, hasBuiltClient } from './http/client-static.ts';
 import { startStore } from './store/startup.ts';
 
 const port = Number(process.env.PORT ?? 8417);
@@ -22,7 +23,8 @@ try {
   process.exit(1);
 }
 const { store, demo, firstLead } = started;
-const app = createApp({ store });
+const withClient = hasBuiltClient(DEFAULT_CLIENT_DIR);
+const app = createApp({ store, ...(withClient ? { clientDir: DEFAULT_CLIENT_DIR } : {}) });
 const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
   const base = `http://${hostname}:${info.port}/`;
   console.log(`epochwright listening on ${base} (API at /api, OpenAPI at /api/openapi.json)`);

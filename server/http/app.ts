@@ -9,6 +9,7 @@ import { methodNotAllowed } from './method-not-allowed.ts';
 import { orbitRoutes } from './orbit.ts';
 import { skyRoutes } from './sky.ts';
 import { storeRoutes } from './resources/index.ts';
+import { mountClient } from './client-static.ts';
 import type { Store } from '../store/index.ts';
 import { validationHook } from './validation.ts';
 
@@ -19,6 +20,8 @@ export interface AppOptions {
   maxBodyBytes?: number;
   /** The campaign store; without it only the stateless routes (health, ephemeris, events, sky) exist. */
   store?: Store;
+  /** A built client folder (client/dist) to serve after the API, with index.html for client-side routes. */
+  clientDir?: string;
 }
 
 export function createApp(options: AppOptions = {}) {
@@ -43,6 +46,7 @@ export function createApp(options: AppOptions = {}) {
   app.route('/api', api);
   app.all('/api/*', methodNotAllowed(app));
   app.all('/api/*', (c) => errorResponse(c, new HttpError(404, 'not_found', `no such endpoint: ${c.req.method} ${c.req.path}`)));
+  if (options.clientDir) mountClient(app, options.clientDir);
   app.notFound((c) => errorResponse(c, new HttpError(404, 'not_found', `not found: ${c.req.path}`)));
   return app;
 }

@@ -1,0 +1,70 @@
+/** The campaign's slowly changing records, loaded once per page and refreshed after an edit. */
+import { getAll } from './client.ts';
+import type { CampaignRow, SiteRow, SolutionRow, SystemRow, TargetRow } from './types.ts';
+
+export interface Catalogue {
+  systems: SystemRow[];
+  targets: TargetRow[];
+  sites: SiteRow[];
+  campaigns: CampaignRow[];
+  solutions: SolutionRow[];
+  target(id: number): TargetRow | undefined;
+  system(id: number): SystemRow | undefined;
+  site(id: number): SiteRow | undefined;
+  currentSolution(targetId: number): SolutionRow | undefined;
+}
+
+let cached: Promise<Catalogue> | null = null;
+
+export function loadCatalogue(): Promise<Catalogue> {
+  cached ??= (async () => {
+    const [systems, targets, sites, campaigns, solutions] = await Promise.all([
+      getAll<SystemRow>('/systems'),
+      getAll<TargetRow>('/targets'),
+      getAll<SiteRow>('/sites'),
+      getAll<CampaignRow>('/campaigns'),
+      getAll<SolutionRow>('/orbit-solutions'),
+    ]);
+    const byId = <T extends { id: number }>(rows: T[]) => new Map(rows.map((r) => [r.id, r]));
+    const [sy, ta, si] = [byId(systems), byId(targets), byId(sites)];
+    return {
+      systems,
+      targets,
+      sites,
+      campaigns,
+      solutions,
+      target: (id) => ta.get(id),
+      system: (id) => sy.get(id),
+      site: (id) => si.get(id),
+      currentSolution: (targetId) => solutions.find((s) => s.targetId === targetId && s.current),
+    };
+  })();
+  cached.catch(() => (cached = null));
+  return cached;
+}
+
+export const invalidateCatalogue = () => void (cached = null);
+
+/** The sky engine's target shape for a stored target: its system's place plus its current orbit. */
+export function skyTarget(cat: Catalogue, targetId: number) {
+  const t = cat.target(targetId);
+  const s = t && cat.system(t.systemId);
+  if (!t || !s) return null;
+  const orbit = cat.currentSolution(targetId)?.orbit;
+  return { name: t.name, raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, ...(orbit ? { orbit } : {}) };
+}
+
+/** The sky engine's site shape for a stored site. */
+export function skySite(site: SiteRow) {
+  return {
+    name: site.name,
+    latitudeDeg: site.latitudeDeg,
+    longitudeDeg: site.longitudeDeg,
+    elevationM: site.elevationM,
+    timeZone: site.timeZone,
+    minAltitudeDeg: site.minAltitudeDeg,
+    sunAvoidanceDeg: site.sunAvoidanceDeg,
+    ...(site.pressureHpa !== null ? { pressureHpa: site.pressureHpa } : {}),
+    ...(site.temperatureC !== null ? { temperatureC: site.temperatureC } : {}),
+  };
+}

@@ -1,0 +1,91 @@
+/** The shell: sign-in, the signed-in user's role, theme, navigation, and the view for the address. */
+import { useEffect, useState } from 'preact/hooks';
+import { get } from './api/client.ts';
+import type { Me } from './api/types.ts';
+import { interceptLinks, match, usePath } from './lib/router.ts';
+import { sessionToken, setSessionToken, signOut } from './lib/session.ts';
+import { ErrorLine, MeContext } from './lib/ui.tsx';
+import { OverviewView } from './views/overview.tsx';
+import { TargetView } from './views/target.tsx';
+import { NightView } from './views/night.tsx';
+import { ReportView } from './views/report.tsx';
+import { SeasonView } from './views/season.tsx';
+import { RecordsView } from './views/records.tsx';
+
+type Theme = 'night' | 'day';
+
+function route(path: string) {
+  let m;
+  if ((m = match('/targets/:id', path))) return <TargetView id={Number(m.id)} />;
+  if ((m = match('/nights/:id/report', path))) return <ReportView nightId={Number(m.id)} />;
+  if ((m = match('/nights/:id', path))) return <NightView id={Number(m.id)} />;
+  if (match('/season', path)) return <SeasonView />;
+  if (match('/records', path)) return <RecordsView />;
+  if (match('/', path)) return <OverviewView />;
+  return <p class="panel">Nothing lives at {path}. <a href="/">Back to the campaign</a>.</p>;
+}
+
+function SignIn({ error, onToken }: { error: unknown; onToken: (t: string) => void }) {
+  const [value, setValue] = useState('');
+  return (
+    <form class="panel sign-in" onSubmit={(e) => (e.preventDefault(), onToken(value))}>
+      <h1>Sign in</h1>
+      <p>Open the sign-in link that <code>npm start</code> printed on first start, or paste a token from <code>epochwright account add</code>.</p>
+      <label>Token <input name="token" type="password" autoComplete="off" value={value} onInput={(e) => setValue(e.currentTarget.value)} /></label>
+      <button type="submit">Sign in</button>
+      <ErrorLine error={error} />
+    </form>
+  );
+}
+
+export function App() {
+  const path = usePath();
+  const [theme, setTheme] = useState<Theme>((document.documentElement.dataset.theme as Theme) || 'night');
+  const [me, setMe] = useState<Me | null>(null);
+  const [authError, setAuthError] = useState<unknown>(null);
+  const [tokenTick, setTokenTick] = useState(0);
+  useEffect(() => {
+    document.documentElement.dataset.theme = theme;
+    localStorage.setItem('ew.theme', theme);
+  }, [theme]);
+  useEffect(() => {
+    if (!sessionToken()) return;
+    get<Me>('/me').then(setMe, (e: unknown) => {
+      setAuthError(e);
+      signOut();
+      setMe(null);
+    });
+  }, [tokenTick]);
+  const nav = [
+    ['/', 'Campaign'],
+    ['/season', 'Season'],
+    ['/records', 'Records'],
+  ] as const;
+  return (
+    <MeContext.Provider value={me}>
+      <div class="shell" onClick={interceptLinks}>
+        <a class="skip" href="#main">Skip to content</a>
+        <header class="topbar">
+          <a class="wordmark" href="/"><span class="mark" aria-hidden="true">◜◞</span> epochwright</a>
+          <nav aria-label="views">
+            {nav.map(([href, label]) => (
+              <a key={href} href={href} aria-current={(href === '/' ? path === '/' || path.startsWith('/?') : path.startsWith(href)) ? 'page' : undefined}>{label}</a>
+            ))}
+          </nav>
+          <div class="who">
+            {me && <span class={`role role-${me.role}`} title="your role on this server">{me.name} · {me.role}</span>}
+            <button type="button" class="ghost" onClick={() => setTheme(theme === 'night' ? 'day' : 'night')} aria-label={`switch to the ${theme === 'night' ? 'day' : 'night'} theme`}>
+              {theme === 'night' ? 'Day theme' : 'Night theme'}
+            </button>
+            {me && <button type="button" class="ghost" onClick={() => (signOut(), setMe(null))}>Sign out</button>}
+          </div>
+        </header>
+        <main id="main" tabIndex={-1}>
+          {me ? route(path) : sessionToken() && !authError ? <p class="loading">Signing in…</p> : (
+            <SignIn error={authError} onToken={(t) => (setSessionToken(t), setAuthError(null), setTokenTick(tokenTick + 1))} />
+          )}
+        </main>
+      </div>
+    </MeContext.Provider>
+  );
+}

@@ -1,0 +1,45 @@
+/** Small shared pieces of the views: status lines, errors, numbers with units, the role gate. */
+import type { ComponentChildren } from 'preact';
+import { createContext } from 'preact';
+import { useContext } from 'preact/hooks';
+import { ApiError } from '../api/client.ts';
+import type { Me, Role } from '../api/types.ts';
+
+export const MeContext = createContext<Me | null>(null);
+const RANK: Record<Role, number> = { viewer: 0, observer: 1, lead: 2 };
+
+/** True when the signed-in user has at least this role (the server checks again on every write). */
+export function useCan(role: Role): boolean {
+  const me = useContext(MeContext);
+  return !!me && RANK[me.role] >= RANK[role];
+}
+
+export function ErrorLine({ error }: { error: unknown }) {
+  if (!error) return null;
+  const text = error instanceof ApiError ? `${error.message} (${error.status} ${error.code})` : error instanceof Error ? error.message : String(error);
+  return <p class="error-line" role="alert">{text}</p>;
+}
+
+export function Loading({ what }: { what: string }) {
+  return <p class="loading" aria-live="polite">Loading {what}…</p>;
+}
+
+/** A number with its unit, or an en dash when missing. */
+export function Qty({ v, unit, digits = 1 }: { v: number | null | undefined; unit: string; digits?: number }) {
+  if (v === null || v === undefined || !Number.isFinite(v)) return <span class="qty missing">–</span>;
+  return <span class="qty">{v.toFixed(digits)}{unit ? <span class="unit">{unit.startsWith('°') || unit === '%' ? unit : ` ${unit}`}</span> : null}</span>;
+}
+
+export function Section({ title, children, id }: { title: string; children: ComponentChildren; id?: string }) {
+  return (
+    <section class="panel" id={id} aria-labelledby={id ? `${id}-h` : undefined}>
+      <h2 id={id ? `${id}-h` : undefined}>{title}</h2>
+      {children}
+    </section>
+  );
+}
+
+/** Safety notes are shown verbatim and never hidden behind a toggle. */
+export function Caution({ children }: { children: ComponentChildren }) {
+  return <p class="caution" role="note"><span class="caution-mark" aria-hidden="true">!</span> {children}</p>;
+}

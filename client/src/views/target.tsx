@@ -1,0 +1,152 @@
+/**
+ * One target: the orbit on the sky (north up, east left) with measurements, residuals and planned
+ * epochs; the radial-velocity curve with the relativistic terms switchable; the events; the orbit
+ * solution versions with their provenance; and the ephemeris table with its CSV.
+ */
+import { useState } from 'preact/hooks';
+import { get, send } from '../api/client.ts';
+import { invalidateCatalogue, loadCatalogue } from '../api/catalogue.ts';
+import type { OrbitEvent } from '../api/types.ts';
+import { measurementPoint, SkyPlanePlot, type SkyMeasurement } from '../plots/sky-plane.tsx';
+import { RvCurvePlot, yearOf } from '../plots/rv-curve.tsx';
+import { utcText } from '../lib/time.ts';
+import { ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
+import { useLoad } from '../lib/use-load.ts';
+import { EphemerisTable } from './ephemeris-table.tsx';
+import { astrometricResidual, loadTargetData, rvSeries, type TargetData } from './target-data.ts';
+
+function SkyPanel({ d }: { d: TargetData }) {
+  const ms: SkyMeasurement[] = [];
+  for (const m of d.measurements) {
+    const p = measurementPoint(m);
+    const pred = d.atMeasurement.get(m.id);
+    if (p) ms.push({ ...p, ...(pred ? { predicted: { dRaMas: pred.dRaMas, dDecMas: pred.dDecMas } } : {}) });
+  }
+  const peri = d.track.reduce<(typeof d.track)[number] | undefined>((best, p) => (!best || p.separationMas < best.separationMas ? p : best), undefined);
+  const astro = d.measurements.map((m) => ({ m, r: astrometricResidual(m, d.atMeasurement.get(m.id)) })).filter((x) => x.r);
+  const rms = astro.length ? Math.sqrt(astro.reduce((s, x) => s + x.r!.dRa ** 2 + x.r!.dDec ** 2, 0) / astro.length) : null;
+  return (
+    <>
+      <SkyPlanePlot track={d.track} dateTicks={d.ticks} periapsis={peri} measurements={ms} planned={d.atPlanned} title="predicted track and measurements on the sky, north up, east left" />
+      <p class="legend">
+        <span class="key key-track" /> predicted track (current solution) · <span class="key key-meas" /> measurement with 1σ error ellipse · <span class="key key-resid" /> residual (predicted → measured) · <span class="key key-plan" /> planned epoch · ◆ periapsis on the plotted track (closest sampled point)
+        {rms !== null && <> · RMS astrometric residual <Qty v={rms} unit="mas" digits={2} /> over {astro.length} measurements</>}
+      </p>
+    </>
+  );
+}
+
+function RvPanel({ d }: { d: TargetData }) {
+  const [withRel, setWithRel] = useState(true);
+  const rel = rvSeries(d.track);
+  if (!rel.length) return <p class="muted">No radial velocity: the current solution has no distance or systemic velocity.</p>;
+  const plain = d.rvPlain ? rvSeries(d.rvPlain) : null;
+  const meas = d.measurements
+    .filter((m) => m.kind === 'radial-velocity' && m.radialVelocityKmS !== null)
+    .map((m) => {
+      const p = d.atMeasurement.get(m.id);
+      return { id: m.id, t: yearOf(m.epoch), v: m.radialVelocityKmS!, sigma: m.sigmaRadialVelocityKmS ?? 0, ...(p ? { residual: m.radialVelocityKmS! - p.radialVelocityKmS } : {}) };
+    });
+  return (
+    <>
+      {plain && (
+        <label class="switch">
+          <input type="checkbox" checked={withRel} onChange={(e) => setWithRel(e.currentTarget.checked)} /> include the relativistic terms (gravitational redshift, transverse Doppler, Rømer delay, precession) in the curve
+        </label>
+      )}
+      <RvCurvePlot curve={withRel || !plain ? rel : plain} compare={plain ? (withRel ? plain : rel) : undefined} measurements={meas} nowYear={yearOf(new Date().toISOString())} />
+      <p class="legend"><span class="key key-track" /> {withRel || !plain ? 'with' : 'without'} relativistic terms{plain && <> · <span class="key key-compare" /> {withRel ? 'without' : 'with'} them, for comparison</>} · measurements with 1σ bars{!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}</p>
+    </>
+  );
+}
+
+function Events({ targetId, periodYears }: { targetId: number; periodYears: number | null }) {
+  const span = Math.min(Math.max(periodYears ?? 5, 2), 30);
+  const start = new Date(Date.now() - 365.25 * 86_400_000).toISOString();
+  const end = new Date(Date.now() + span * 365.25 * 86_400_000).toISOString();
+  const { data, error } = useLoad(() => get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, { start, end }), [targetId]);
+  if (error) return <ErrorLine error={error} />;
+  if (!data) return <Loading what="events" />;
+  return (
+    <table class="data events">
+      <caption>From one year ago to {span.toFixed(0)} years ahead; uncertainty from the solution’s covariance where it has one.</caption>
+      <thead><tr><th>event</th><th>epoch (UTC)</th><th>± (d)</th><th>separation (mas)</th><th>PA (°)</th><th>v_r (km/s)</th></tr></thead>
+      <tbody>
+        {data.events.map((e) => (
+          <tr key={`${e.kind}${e.jd}`} class={e.kind === 'periapsis' ? 'row-periapsis' : ''}>
+            <td>{e.kind}</td><td>{utcText(e.epoch)}</td><td><Qty v={e.sigmaDays} unit="" /></td>
+            <td><Qty v={e.state?.separationMas} unit="" digits={2} /></td><td><Qty v={e.state?.positionAngleDeg} unit="" /></td><td><Qty v={e.state?.radialVelocityKmS} unit="" /></td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+function Solutions({ targetId, onChange }: { targetId: number; onChange: () => void }) {
+  const lead = useCan('lead');
+  const { data: cat } = useLoad(loadCatalogue, [targetId]);
+  const [error, setError] = useState<unknown>(null);
+  if (!cat) return <Loading what="solutions" />;
+  const rows = cat.solutions.filter((s) => s.targetId === targetId).sort((a, b) => b.version - a.version);
+  const makeCurrent = async (id: number) => {
+    try {
+      await send('POST', `/orbit-solutions/${id}/current`);
+      invalidateCatalogue();
+      onChange();
+    } catch (e) {
+      setError(e);
+    }
+  };
+  return (
+    <>
+      <table class="data solutions">
+        <thead><tr><th>version</th><th>provenance</th><th>reference</th><th>P (yr)</th><th>e</th><th>a (″)</th><th>stored</th><th></th></tr></thead>
+        <tbody>
+          {rows.map((s) => (
+            <tr key={s.id} class={s.current ? 'current' : ''}>
+              <td>v{s.version}{s.current && <span class="tag">current</span>}</td>
+              <td>{s.provenance}{s.fittedFrom ? ` from ${s.fittedFrom.length} measurements` : ''}</td>
+              <td>{s.reference || <span class="muted">–</span>}</td>
+              <td>{String(s.orbit.elements.periodYears ?? '–')}</td><td>{String(s.orbit.elements.eccentricity ?? '–')}</td><td>{String(s.orbit.elements.semiMajorAxisArcsec ?? '–')}</td>
+              <td>{utcText(s.createdAt)}</td>
+              <td>{lead && !s.current && <button type="button" onClick={() => makeCurrent(s.id)}>Make current</button>}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <ErrorLine error={error} />
+    </>
+  );
+}
+
+export function TargetView({ id }: { id: number }) {
+  const [tick, setTick] = useState(0);
+  const { data, error } = useLoad(async () => {
+    const cat = await loadCatalogue();
+    return { cat, d: await loadTargetData(cat, id) };
+  }, [id, tick]);
+  if (error) return <ErrorLine error={error} />;
+  if (!data) return <Loading what="the target" />;
+  const { cat, d } = data;
+  const t = cat.target(id);
+  const sys = t && cat.system(t.systemId);
+  if (!t) return <p class="panel">No target {id}.</p>;
+  return (
+    <div class="view target">
+      <div class="view-head">
+        <h1>{t.name} <span class="muted">in {sys?.name}</span></h1>
+        <p class="muted">{t.magnitude !== null ? `${t.magnitude} mag (${t.band ?? 'band?'})` : ''} · current solution {d.solution ? `v${d.solution.version} (${d.solution.provenance})` : 'none'} · {d.measurements.length} measurements · {d.planned.length} planned blocks</p>
+      </div>
+      {!d.solution ? <p class="panel">This target has no orbit solution yet.</p> : (
+        <div class="two-col">
+          <Section title="On the sky" id="sky-plane"><SkyPanel d={d} /></Section>
+          <Section title="Radial velocity" id="rv"><RvPanel d={d} /></Section>
+        </div>
+      )}
+      <Section title="Events" id="events"><Events targetId={id} periodYears={d.periodYears} /></Section>
+      <Section title="Orbit solutions" id="solutions"><Solutions targetId={id} onChange={() => setTick(tick + 1)} /></Section>
+      {d.solution && <Section title="Ephemeris" id="ephemeris"><EphemerisTable targetId={id} name={t.name} /></Section>}
+    </div>
+  );
+}

@@ -1,0 +1,73 @@
+/**
+ * What the browser tests and the client benchmark share: build the client with Vite, start the
+ * real server (server/main.ts, as `npm start` does) on port 0 with a temporary database and the
+ * demo campaign, and launch Debian's chromium through playwright-core.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join, resolve } from 'node:path';
+import { chromium, type Browser } from 'playwright-core';
+import { build } from 'vite';
+
+export const REPO = resolve(import.meta.dirname, '../..');
+export const CLIENT_DIST = join(REPO, 'client/dist');
+export const SCREENSHOTS = join(REPO, 'test-output/e2e');
+export const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+
+/** Build client/dist exactly as `npm run build` does. */
+export async function buildClient(): Promise<void> {
+  await build({ configFile: join(REPO, 'client/vite.config.ts'), logLevel: 'warn' });
+}
+
+export interface RunningServer {
+  url: string;
+  token: string;
+  stop(): Promise<void>;
+}
+
+/** Start server/main.ts on a free port with a fresh database; resolves once it prints its address and first token. */
+export async function startServer(): Promise<RunningServer> {
+  const dir = mkdtempSync(join(tmpdir(), 'epochwright-e2e-'));
+  const tsx = join(REPO, 'node_modules/tsx/dist/cli.mjs');
+  const child: ChildProcess = spawn(process.execPath, [tsx, 'server/main.ts'], {
+    cwd: REPO,
+    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', DATABASE_URL: `file:${join(dir, 'e2e.db')}`, EPOCHWRIGHT_DEMO: '1' },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let out = '';
+  const ready = new Promise<{ url: string; token: string }>((ok, fail) => {
+    const timer = setTimeout(() => fail(new Error(`server did not start in 90 s:\n${out}`)), 90_000);
+    const look = (chunk: Buffer) => {
+      out += chunk.toString();
+      const url = /listening on (http:\/\/\S+?)\/? /.exec(out)?.[1];
+      const token = /^\s*token: (\S+)$/m.exec(out)?.[1];
+      if (url && token) (clearTimeout(timer), ok({ url, token }));
+    };
+    child.stdout!.on('data', look);
+    child.stderr!.on('data', look);
+    child.on('exit', (code) => (clearTimeout(timer), fail(new Error(`server exited with ${code}:\n${out}`))));
+  });
+  const { url, token } = await ready;
+  return {
+    url,
+    token,
+    async stop() {
+      if (child.exitCode === null) {
+        const exited = new Promise((r) => child.once('exit', r));
+        child.kill('SIGTERM');
+        await exited;
+      }
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** Headless chromium with the quiet flags from DEVELOPERS.md. */
+export function launchBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: CHROMIUM,
+    headless: true,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+  });
+}
