@@ -5,6 +5,7 @@
  * Status codes are those of RFC 9110 §15 (from memory) as DESIGN.md assigns them.
  */
 import { readFileSync } from 'node:fs';
+import { Body, DefineStar, Equator, Horizon, Observer } from 'astronomy-engine';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import { MIGRATIONS_FOLDER } from '../../server/store/database.ts';
@@ -74,7 +75,101 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     const first = (await (await f.call('viewer', 'GET', `/api/orbit-solutions?targetId=${f.ids.target}&current=false`)).json()) as { items: { id: number }[] };
     expect((await f.call('lead', 'POST', `/api/orbit-solutions/${first.items[0]!.id}/current`)).status).toBe(200);
     expect((await f.call('lead', 'DELETE', `/api/orbit-solutions/${body.id}`)).status).toBe(204);
-    expect((await f.call('lead', 'PATCH', `/api/orbit-solutions/${body.id}`, { notes: 'x' })).status).toBe(404); // versions have no update route
+    const before = await tableCounts(f.store);
+    const stored = await f.store.orbitSolutions.get(first.items[0]!.id);
+    for (const method of ['PATCH', 'PUT']) {
+      const res = await f.call('lead', method, `/api/orbit-solutions/${first.items[0]!.id}`, { notes: 'x' });
+      expect(res.status, method).toBe(405); // RFC 9110 §15.5.6 Method Not Allowed (from memory): versions are immutable, the path exists
+      expect(res.headers.get('allow')).toBe('DELETE, GET, HEAD'); // RFC 9110 §15.5.6: a 405 carries Allow; the routes of orbit-solutions.ts (HEAD answered by GET)
+      const err = (await res.json()) as { error: { code: string; message: string; details: { allow: string[] } } };
+      expect(err.error.code).toBe('method_not_allowed'); // DESIGN.md error shape { error: { code, message, details } }
+      expect(err.error.details.allow).toEqual(['DELETE', 'GET', 'HEAD']);
+    }
+    expect(await tableCounts(f.store)).toEqual(before);
+    expect(await f.store.orbitSolutions.get(first.items[0]!.id)).toEqual(stored); // nothing changed
+  });
+
+  it('answers 405 with Allow on every other path that exists under other methods, and 404 where no route exists', async () => {
+    const before = await tableCounts(f.store);
+    const cases = [
+      { method: 'POST', path: '/api/audit', allow: 'GET, HEAD' }, // the audit trail is written by the store only
+      { method: 'DELETE', path: '/api/audit', allow: 'GET, HEAD' },
+      { method: 'PATCH', path: `/api/nights/${f.ids.night}/visibility`, allow: 'GET, HEAD' }, // a computed view
+      { method: 'PUT', path: `/api/targets/${f.ids.target}/ephemeris`, allow: 'GET, HEAD' },
+      { method: 'GET', path: '/api/tokens/1', allow: 'DELETE' }, // a token secret is shown once, never read back
+      { method: 'POST', path: '/api/me', allow: 'GET, HEAD' },
+      { method: 'PUT', path: `/api/systems/${f.ids.system}`, allow: 'DELETE, GET, HEAD, PATCH' }, // PATCH is the update method here
+    ];
+    for (const c of cases) {
+      const res = await f.call('lead', c.method, c.path, c.method === 'GET' || c.method === 'DELETE' ? undefined : {});
+      expect(res.status, `${c.method} ${c.path}`).toBe(405); // RFC 9110 §15.5.6 (from memory)
+      expect(res.headers.get('allow'), `${c.method} ${c.path}`).toBe(c.allow); // the routes this API declares for the path
+    }
+    expect((await f.call('lead', 'PATCH', '/api/no-such-thing/1', {})).status).toBe(404); // RFC 9110 §15.5.5: no route at all
+    expect((await f.call(null, 'PATCH', `/api/orbit-solutions/1`, {})).status).toBe(405); // the method rule holds before sign-in (no token sent)
+    expect(await tableCounts(f.store)).toEqual(before);
+  });
+
+  it('stores a site’s horizon mask in azimuth order, and the night view obeys it', async () => {
+    const path = `/api/nights/${f.ids.night}/visibility`;
+    type Report = { constraints: { horizonMask: boolean; altitudeLimitDeg: number }; targets: { windows: { start: { utc: string }; end: { utc: string }; hours: number; opensBy: string; closesBy: string }[] }[] };
+    const flat = (await (await f.call('viewer', 'GET', path)).json()) as Report;
+    expect(flat.constraints.horizonMask).toBe(false); // the fixture site has no mask
+    // A wall of 70° over the eastern half (azimuth 10°–170°), 20° (below the 30° limit) over the western half.
+    const mask = [{ azimuthDeg: 350, altitudeDeg: 20 }, { azimuthDeg: 10, altitudeDeg: 70 }, { azimuthDeg: 190, altitudeDeg: 20 }, { azimuthDeg: 170, altitudeDeg: 70 }];
+    const patched = await f.call('lead', 'PATCH', `/api/sites/${f.ids.site}`, { horizonMask: mask });
+    expect(patched.status, await patched.clone().text()).toBe(200);
+    expect(((await patched.json()) as { horizonMask: { azimuthDeg: number }[] }).horizonMask.map((p) => p.azimuthDeg)).toEqual([10, 170, 190, 350]); // the points sent above, sorted
+    const masked = (await (await f.call('viewer', 'GET', path)).json()) as Report;
+    expect(masked.constraints.horizonMask).toBe(true);
+    const [w0, w1] = [flat.targets[0]!.windows[0]!, masked.targets[0]!.windows[0]!];
+    expect(w1.opensBy).toBe('horizon-mask');
+    expect(w1.hours).toBeLessThan(w0.hours);
+    // Where the engine opens and closes the window, astronomy-engine (an outside library) puts the star at the mask's and the limit's altitude.
+    const site = await f.store.sites.get(f.ids.site);
+    const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
+    DefineStar(Body.Star1, 263.8 / 15, -21.7, 25_000); // the fixture system's ICRS position; its orbit offset (< 0.2″) is negligible here
+    const horizon = (utc: string) => {
+      const eq = Equator(Body.Star1, new Date(utc), observer, true, true);
+      return Horizon(new Date(utc), observer, eq.ra, eq.dec, 'normal');
+    };
+    const open = horizon(w1.start.utc);
+    const close = horizon(w1.end.utc);
+    console.log(`mask window: opens at altitude ${open.altitude.toFixed(3)}° azimuth ${open.azimuth.toFixed(1)}°, closes at ${close.altitude.toFixed(3)}° azimuth ${close.azimuth.toFixed(1)}° (${w1.closesBy}); ${w1.hours.toFixed(2)} h vs ${w0.hours.toFixed(2)} h without the mask`);
+    expect(open.azimuth > 10 && open.azimuth < 170).toBe(true); // rising in the east, behind the 70° part of the mask
+    expect(Math.abs(open.altitude - 70)).toBeLessThan(0.05); // the mask altitude set above; astronomy-engine's sea-level refraction differs from the site's by < 0.01° at 70°
+    expect(w1.closesBy).toBe('altitude'); // on this June night the star sinks to the site limit before dawn ends darkness
+    expect(close.azimuth > 190 && close.azimuth < 350).toBe(true); // setting in the west, where the 20° mask is below the site limit
+    expect(Math.abs(close.altitude - masked.constraints.altitudeLimitDeg)).toBeLessThan(0.05); // the site's minimum altitude (fixture default 30°)
+  });
+
+  it('keeps a system’s position epoch and proper motion, and the night view carries the position by them', async () => {
+    const system = (await (await f.call('viewer', 'GET', `/api/systems/${f.ids.system}`)).json()) as { positionEpoch: string };
+    expect(system.positionEpoch).toBe('2000-01-01T12:00:00.000Z'); // J2000.0 = JD 2451545.0 = 2000 January 1, 12h (IAU 1976 standard epoch, from memory); the default
+    const path = `/api/nights/${f.ids.night}/visibility`;
+    type Report = { night: { start: { utc: string }; end: { utc: string } }; targets: { raOfDateDeg: number; decOfDateDeg: number }[] };
+    const place = async () => {
+      const r = (await (await f.call('viewer', 'GET', path)).json()) as Report;
+      return { ...r.targets[0]!, midMs: (Date.parse(r.night.start.utc) + Date.parse(r.night.end.utc)) / 2 };
+    };
+    const still = await place();
+    const mu = { ra: 4000, dec: -3000 }; // mas/yr, invented for this test (large, so that the shift is tens of arcseconds)
+    const patched = await f.call('lead', 'PATCH', `/api/systems/${f.ids.system}`, { pmRaMasYr: mu.ra, pmDecMasYr: mu.dec, positionEpoch: 'J2017.0' });
+    expect(patched.status, await patched.clone().text()).toBe(200);
+    expect(((await patched.json()) as { positionEpoch: string }).positionEpoch).toBe('2016-12-31T18:00:00.000Z'); // J2017.0 = JD 2451545.0 + 17 × 365.25 = JD 2457754.25, i.e. 2016 December 31, 18h (Julian epoch definition, IAU 1976, from memory)
+    const moved = await place();
+    const years = (still.midMs - Date.parse('2016-12-31T18:00:00Z')) / (365.25 * 86_400_000);
+    const cosDec = Math.cos((-21.7 * Math.PI) / 180);
+    const dRa = (moved.raOfDateDeg - still.raOfDateDeg) * cosDec * 3.6e6;
+    const dDec = (moved.decOfDateDeg - still.decOfDateDeg) * 3.6e6;
+    const err = Math.hypot(dRa - mu.ra * years, dDec - mu.dec * years);
+    console.log(`proper motion over ${years.toFixed(3)} yr: moved (${(dRa / 1000).toFixed(3)}″, ${(dDec / 1000).toFixed(3)}″), expected (${((mu.ra * years) / 1000).toFixed(3)}″, ${((mu.dec * years) / 1000).toFixed(3)}″), off by ${(err / 1000).toFixed(3)}″`);
+    expect(err).toBeLessThan(300); // μ·Δt on the tangent plane (definition of proper motion, common practice, no source); 0.3″ allows the ~0.15° turn of the of-date axes from J2000 to 2027
+    // The same position given at the night's own epoch: no time has passed, so the motion moves nothing.
+    const atNight = await f.call('lead', 'PATCH', `/api/systems/${f.ids.system}`, { positionEpoch: new Date(still.midMs).toISOString() });
+    expect(atNight.status).toBe(200);
+    const here = await place();
+    expect(Math.hypot((here.raOfDateDeg - still.raOfDateDeg) * cosDec, here.decOfDateDeg - still.decOfDateDeg) * 3.6e6).toBeLessThan(1); // zero elapsed time, zero motion (mas)
   });
 
   it('applies the roles: viewer reads, observer logs, lead edits orbits, campaigns and sites', async () => {

@@ -23,6 +23,10 @@ function cases(f: Fixture): Case[] {
     { name: 'patch of a system that does not exist', role: 'lead', method: 'PATCH', path: '/api/systems/9999', body: { notes: 'x' }, status: 404 },
     { name: 'patch of a system to an impossible declination', role: 'lead', method: 'PATCH', path: `/api/systems/${ids.system}`, body: { decDeg: -91 }, status: 400, field: 'decDeg' },
     { name: 'delete of a system still holding targets', role: 'lead', method: 'DELETE', path: `/api/systems/${ids.system}`, body: undefined, status: 409 },
+    { name: 'system moving 30″ a year', role: 'lead', method: 'POST', path: '/api/systems', body: { name: 'A', raDeg: 1, decDeg: 2, pmRaMasYr: 30_000 }, status: 422, field: 'pmRaMasYr' },
+    { name: 'system positioned at no epoch', role: 'lead', method: 'POST', path: '/api/systems', body: { name: 'A', raDeg: 1, decDeg: 2, positionEpoch: 'last spring' }, status: 400, field: 'positionEpoch' },
+    { name: 'patch of a system to an epoch without a zone', role: 'lead', method: 'PATCH', path: `/api/systems/${ids.system}`, body: { positionEpoch: '2016-01-01T12:00' }, status: 400, field: 'positionEpoch' },
+    { name: 'patch of a system to a proper motion the sky engine refuses', role: 'lead', method: 'PATCH', path: `/api/systems/${ids.system}`, body: { pmDecMasYr: -25_000, notes: 'changed' }, status: 422, field: 'pmDecMasYr' },
     { name: 'target of an unknown system', role: 'lead', method: 'POST', path: '/api/targets', body: { systemId: 9999, name: 'x' }, status: 422, field: 'systemId' },
     { name: 'target with a text magnitude', role: 'lead', method: 'POST', path: '/api/targets', body: { systemId: ids.system, name: 'x', magnitude: 'bright' }, status: 400, field: 'magnitude' },
     { name: 'orbit with e = 1.2', role: 'lead', method: 'POST', path: '/api/orbit-solutions', body: { targetId: ids.target, orbit: { ...ORBIT_S1, elements: { ...ORBIT_S1.elements, eccentricity: 1.2 } } }, status: 422, field: 'orbit.elements.eccentricity' },
@@ -31,6 +35,12 @@ function cases(f: Fixture): Case[] {
     { name: 'fitted orbit without its measurements', role: 'lead', method: 'POST', path: '/api/orbit-solutions', body: { targetId: ids.target, orbit: ORBIT_S1, provenance: 'fitted' }, status: 422, field: 'fittedFrom' },
     { name: 'site in an unknown time zone', role: 'lead', method: 'POST', path: '/api/sites', body: { name: 'P', latitudeDeg: 1, longitudeDeg: 1, elevationM: 1, timeZone: 'Mars/Olympus' }, status: 400, field: 'timeZone' },
     { name: 'site at latitude 91', role: 'lead', method: 'POST', path: '/api/sites', body: { name: 'P', latitudeDeg: 91, longitudeDeg: 1, elevationM: 1, timeZone: 'UTC' }, status: 400, field: 'latitudeDeg' },
+    { name: 'site whose second mask point is above the zenith', role: 'lead', method: 'POST', path: '/api/sites', body: { name: 'P', latitudeDeg: 1, longitudeDeg: 1, elevationM: 1, timeZone: 'UTC', horizonMask: [{ azimuthDeg: 0, altitudeDeg: 10 }, { azimuthDeg: 90, altitudeDeg: 95 }] }, status: 422, field: 'horizonMask.1.altitudeDeg' },
+    { name: 'site whose mask gives one azimuth twice', role: 'lead', method: 'POST', path: '/api/sites', body: { name: 'P', latitudeDeg: 1, longitudeDeg: 1, elevationM: 1, timeZone: 'UTC', horizonMask: [{ azimuthDeg: 90, altitudeDeg: 10 }, { azimuthDeg: 90, altitudeDeg: 12 }] }, status: 422, field: 'horizonMask' },
+    { name: 'site whose mask is not a list', role: 'lead', method: 'POST', path: '/api/sites', body: { name: 'P', latitudeDeg: 1, longitudeDeg: 1, elevationM: 1, timeZone: 'UTC', horizonMask: { azimuthDeg: 90, altitudeDeg: 10 } }, status: 400, field: 'horizonMask' },
+    { name: 'site mask point with an unknown field', role: 'lead', method: 'POST', path: '/api/sites', body: { name: 'P', latitudeDeg: 1, longitudeDeg: 1, elevationM: 1, timeZone: 'UTC', horizonMask: [{ azimuthDeg: 90, altitudeDeg: 10, height: 3 }] }, status: 400 },
+    { name: 'patch of a site to a mask at azimuth 360', role: 'lead', method: 'PATCH', path: `/api/sites/${ids.site}`, body: { horizonMask: [{ azimuthDeg: 360, altitudeDeg: 10 }], notes: 'changed' }, status: 422, field: 'horizonMask.0.azimuthDeg' },
+    { name: 'patch of an orbit solution (immutable)', role: 'lead', method: 'PATCH', path: '/api/orbit-solutions/1', body: { notes: 'changed' }, status: 405 },
     { name: 'campaign ending before it starts', role: 'lead', method: 'POST', path: '/api/campaigns', body: { name: 'C2', startDate: '2027-05-01', endDate: '2027-04-01', goals: { cadenceDays: 7, kinds: ['astrometry'] } }, status: 422, field: 'endDate' },
     { name: 'campaign naming a good and an unknown target', role: 'lead', method: 'POST', path: '/api/campaigns', body: { name: 'C2', startDate: '2027-01-01', endDate: '2027-04-01', goals: { cadenceDays: 7, kinds: ['astrometry'] }, targetIds: [ids.target, 9999] }, status: 422, field: 'targetIds.1' },
     { name: 'campaign without a measurement kind', role: 'lead', method: 'POST', path: '/api/campaigns', body: { name: 'C2', startDate: '2027-01-01', endDate: '2027-04-01', goals: { cadenceDays: 7, kinds: [] } }, status: 400, field: 'goals.kinds' },
@@ -69,6 +79,7 @@ describe.each(BACKENDS)('bad input on $name', (backend) => {
   it('rejects every bad write with a clear error and changes nothing', async () => {
     const before = await tableCounts(f.store);
     const blockBefore = await f.store.blocks.get(f.ids.block);
+    const rowsBefore = [await f.store.systems.get(f.ids.system), await f.store.sites.get(f.ids.site), await f.store.orbitSolutions.get(1)];
     for (const c of cases(f)) {
       const res = await f.call(c.role, c.method, c.path, c.body);
       const text = await res.text();
@@ -82,6 +93,7 @@ describe.each(BACKENDS)('bad input on $name', (backend) => {
       expect(await tableCounts(f.store), c.name).toEqual(before);
     }
     expect(await f.store.blocks.get(f.ids.block)).toEqual(blockBefore); // the report that failed on its second outcome did not touch the first block
+    expect([await f.store.systems.get(f.ids.system), await f.store.sites.get(f.ids.site), await f.store.orbitSolutions.get(1)]).toEqual(rowsBefore); // failed patches left the rows as they were
   });
 
   it('refuses bodies over the size limit and bodies that are not JSON', async () => {

@@ -1,6 +1,7 @@
-/** `epochwright account`: create users with a role, issue and list tokens (secrets shown once). */
+/** `epochwright account`: create users with a role, issue, list and revoke tokens (secrets shown once). */
 import { parseArgs } from 'node:util';
-import { LOCAL_OPERATOR } from '../../store/index.ts';
+import { InputError } from '../../science/errors.ts';
+import { LOCAL_OPERATOR, NotFoundError } from '../../store/index.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -8,10 +9,15 @@ import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 const help = `usage: epochwright account add --name <name> --role lead|observer|viewer
        epochwright account token --name <name> [--label <text>]
        epochwright account list [--json|--csv]
+       epochwright account tokens [--name <name>] [--json|--csv]
+       epochwright account revoke --id <token id>
 
 add     creates a user and prints its first bearer token (shown this once; only a hash is kept)
 token   issues a further token for an existing user
 list    shows the users and their roles
+tokens  shows every token (or one user's): id, holder, label, when issued and when revoked;
+        secrets cannot be shown again, only the id names a token
+revoke  stops a token from signing in at once; the record stays, marked with the time
 
 roles: lead edits orbits, campaigns and sites; observer writes nights, blocks, reports and
 measurements; viewer reads.
@@ -20,13 +26,18 @@ options:
 ${DATABASE_HELP}
 `;
 
+/** A missing row named on the command line is bad input (exit 2), not a failure. */
+const asInputError = (field: string, value: unknown, rule: string) => (err: unknown): never => {
+  throw err instanceof NotFoundError ? new InputError(field, value, rule) : err;
+};
+
 export const accountCommand: Command = {
-  summary: 'create users with a role and issue their bearer tokens',
+  summary: 'create users with a role; issue, list and revoke their bearer tokens',
   help,
   async run(argv) {
     const { values, positionals } = parseArgs({
       args: argv,
-      options: { ...databaseOption, name: { type: 'string' }, role: { type: 'string' }, label: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } },
+      options: { ...databaseOption, name: { type: 'string' }, role: { type: 'string' }, label: { type: 'string' }, id: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } },
       strict: true,
       allowPositionals: true,
     });
@@ -53,8 +64,26 @@ export const accountCommand: Command = {
             { header: 'created (UTC)', value: (u) => u.createdAt },
           ], page.items);
         }
+        case 'tokens': {
+          const rows = await store.users.listTokens(values.name).catch(asInputError('--name', values.name, 'does not name a user (see `account list`)'));
+          return render(outputFormat(values), rows, [
+            { header: 'id', value: (t) => t.id },
+            { header: 'user', value: (t) => t.userName },
+            { header: 'role', value: (t) => t.role },
+            { header: 'label', value: (t) => t.label },
+            { header: 'issued (UTC)', value: (t) => t.createdAt },
+            { header: 'revoked (UTC)', value: (t) => t.revokedAt ?? '' },
+          ], rows);
+        }
+        case 'revoke': {
+          if (values.id === undefined) throw new UsageError('account revoke needs --id <token id> (see `account tokens`)');
+          const id = Number(values.id);
+          if (!Number.isInteger(id) || id <= 0) throw new InputError('--id', values.id, 'must be a positive whole number, a token id from `account tokens`');
+          const t = await store.users.revokeToken(LOCAL_OPERATOR, id).catch(asInputError('--id', values.id, 'does not name an active token (see `account tokens`)'));
+          return `revoked token ${t.id} (${JSON.stringify(t.label)}) of ${JSON.stringify(t.userName)} at ${t.revokedAt ?? ''}; it no longer signs in.\n`;
+        }
         default:
-          throw new UsageError(`account: say add, token or list${action ? ` (not ${JSON.stringify(action)})` : ''}`);
+          throw new UsageError(`account: say add, token, list, tokens or revoke${action ? ` (not ${JSON.stringify(action)})` : ''}`);
       }
     });
   },

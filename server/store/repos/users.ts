@@ -3,7 +3,7 @@
  * is stored, so a copy of the database does not hand out access.
  */
 import { createHash, randomBytes } from 'node:crypto';
-import { and, eq, isNull } from 'drizzle-orm';
+import { and, asc, eq, isNull } from 'drizzle-orm';
 import { tokens, users } from '../../../db/schema.ts';
 import { recordAudit, nowIso, type Actor } from '../audit.ts';
 import { entity, getById, insertIn, list } from '../crud.ts';
@@ -31,6 +31,17 @@ export interface IssuedToken {
   secret: string;
 }
 
+/** A token as it may be shown: who holds it and when it was issued or revoked. */
+export interface TokenListing {
+  id: number;
+  userName: string;
+  role: Role;
+  label: string;
+  createdAt: string;
+  revokedAt: string | null;
+}
+const listing = { id: tokens.id, userName: users.name, role: users.role, label: tokens.label, createdAt: tokens.createdAt, revokedAt: tokens.revokedAt };
+
 export function userRepository(db: Db) {
   const issue = async (tx: Parameters<Parameters<Db['transaction']>[0]>[0], actor: Actor, user: UserRow, label: string): Promise<IssuedToken> => {
     const secret = TOKEN_PREFIX + randomBytes(32).toString('base64url');
@@ -57,12 +68,22 @@ export function userRepository(db: Db) {
         if (!user) throw new NotFoundError('user named', userName);
         return issue(tx, actor, user, label);
       }),
-    revokeToken: (actor: Actor, tokenId: number) =>
+    /** Revoke an active token; returns what was revoked (never the hash). */
+    revokeToken: (actor: Actor, tokenId: number): Promise<TokenListing> =>
       db.transaction(async (tx) => {
-        const done = await tx.update(tokens).set({ revokedAt: nowIso() }).where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt))).returning();
+        const done = await tx.update(tokens).set({ revokedAt: nowIso() }).where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt))).returning({ id: tokens.id });
         if (done.length === 0) throw new NotFoundError('active token', tokenId);
         await recordAudit(tx, actor, 'update', 'token', tokenId, { revoked: true });
+        const [row] = await tx.select(listing).from(tokens).innerJoin(users, eq(users.id, tokens.userId)).where(eq(tokens.id, tokenId));
+        return row!;
       }),
+    /** Every token (or one user's, by name), oldest first: id, owner, label and dates; never the hash. */
+    listTokens: async (userName?: string): Promise<TokenListing[]> => {
+      if (userName !== undefined && (await db.select({ id: users.id }).from(users).where(eq(users.name, userName))).length === 0) {
+        throw new NotFoundError('user named', userName);
+      }
+      return db.select(listing).from(tokens).innerJoin(users, eq(users.id, tokens.userId)).where(userName === undefined ? undefined : eq(users.name, userName)).orderBy(asc(tokens.id));
+    },
     /** The user a bearer secret belongs to, or null when it is unknown or revoked. */
     authenticate: async (secret: string): Promise<UserRow | null> => {
       const rows = await db
