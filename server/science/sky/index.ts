@@ -12,7 +12,7 @@ export { nightFrame, type NightFrame } from './frame.ts';
 export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from './night.ts';
 export { cautions, nightReport, type NightOptions, type NightReport, type ReportWindow, type TargetNight } from './night-report.ts';
 export { apparentAltitudeDeg, refractionDeg, refractionScale, trueAltitudeDeg } from './refraction.ts';
-export { exactSampler, fastSampler, frameTarget, type Sampler, type SkySample } from './samplers.ts';
+export { altitudeGrid, exactSampler, fastSampler, frameTarget, type FrameTarget, type Sampler, type SkySample } from './samplers.ts';
 export { seasonMap, type SeasonMap, type SeasonOptions, type TargetSeason } from './season.ts';
 export type { PeriapsisInSeason, SeasonSummary } from './season-summary.ts';
 export { DEFAULT_SUN_AVOIDANCE_DEG, maskAltitudeDeg, validateSite, type HorizonPoint, type Site, type SiteInput } from './site.ts';

@@ -84,3 +84,22 @@ export function fastSampler(frame: NightFrame, t: FrameTarget): Sampler {
     };
   };
 }
+
+/**
+ * Refracted altitudes (degrees) of many targets at many instants of one night, fast path, in one
+ * Float64Array: row t (target), column k (instant), index t·n + k.
+ */
+export function altitudeGrid(frame: NightFrame, targets: readonly FrameTarget[], jd: Float64Array): Float64Array {
+  const n = jd.length;
+  const out = new Float64Array(targets.length * n);
+  const last = Float64Array.from(jd, (t) => lastAt(frame, t));
+  for (let i = 0; i < targets.length; i++) {
+    const t = targets[i]!;
+    const a = frame.sinLat * t.sinDec, b = frame.cosLat * t.cosDec;
+    for (let k = 0; k < n; k++) {
+      const alt = Math.asin(a + b * Math.cos(last[k]! - t.raRad)) / DEG;
+      out[i * n + k] = apparentAltitudeDeg(alt, frame.refractionScale);
+    }
+  }
+  return out;
+}

@@ -4,7 +4,7 @@ import * as sky from '../../../server/science/sky/index.ts';
 
 it('exports exactly these values', () => {
   expect(Object.keys(sky).sort()).toEqual([
-    'AIRMASS_FORMULAS', 'DEFAULT_MAX_AIRMASS', 'DEFAULT_MOON_SEPARATION_DEG', 'DEFAULT_SUN_AVOIDANCE_DEG', 'LIMITS',
+    'AIRMASS_FORMULAS', 'DEFAULT_MAX_AIRMASS', 'altitudeGrid', 'DEFAULT_MOON_SEPARATION_DEG', 'DEFAULT_SUN_AVOIDANCE_DEG', 'LIMITS',
     'TWILIGHT_SUN_ALTITUDE_DEG', 'airmass', 'cautions', 'altitudeForAirmass', 'apparentAltitudeDeg', 'astroTime', 'darknessExact',
     'darknessFast', 'deltaTSeconds', 'exactSampler', 'fastSampler', 'findWindows', 'frameTarget', 'icrsDirection',
     'instant', 'maskAltitudeDeg', 'moonNight', 'nightFrame', 'nightReport', 'nightSpan', 'offsetPosition',
