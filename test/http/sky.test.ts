@@ -29,7 +29,7 @@ describe('POST /api/sky/night', () => {
       targets: { name: string; windows: { start: { utc: string; local: string }; best: { airmass: number; seeingArcsec: number } }[]; curve: { utc: string[]; altitudeDeg: number[] } }[];
       cautions: string[];
     };
-    expect(r.night.start.local).toBe('2027-06-15T12:00:00-04:00');
+    expect(r.night.start.local).toBe('2027-06-15T12:00:00-04:00'); // Chile keeps UTC−4 in its winter (IANA tz database, America/Santiago)
     expect(r.sun.twilights.astronomical.dusk.local.startsWith('2027-06-15T19:')).toBe(true);
     expect(r.moon.illuminatedFraction).toBeGreaterThan(0);
     const [tern, vireo] = r.targets;
@@ -37,7 +37,7 @@ describe('POST /api/sky/night', () => {
     expect(tern!.windows[0]!.best.airmass).toBeLessThan(1.01); // δ = −29° passes 4.4° from the zenith at φ = −24.6° (common practice, no source)
     expect(tern!.windows[0]!.best.seeingArcsec).toBeCloseTo(0.7 * tern!.windows[0]!.best.airmass ** 0.6, 9);
     expect(vireo!.windows).toEqual([]); // δ = +80° never rises at φ = −24.6°
-    expect(tern!.curve.utc).toHaveLength(49);
+    expect(tern!.curve.utc).toHaveLength(49); // 24 h every 30 min, both ends
     expect(r.cautions.length).toBeGreaterThan(0);
   });
 

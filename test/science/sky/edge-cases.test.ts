@@ -33,12 +33,12 @@ describe('polar day and polar night', () => {
     const c = validateConstraints({ darkness: 'civil', minMoonSeparationDeg: 0 }, arctic);
     const r = nightReport(arctic, '2027-12-21', [star('high north', 40, 60)], c, { curveStepMinutes: 0 });
     expect(r.darkness.intervals).toHaveLength(1);
-    expect(r.darkness.hours).toBeCloseTo(24, 6);
+    expect(r.darkness.hours).toBeCloseTo(24, 6); // the whole noon-to-noon night (common practice, no source)
     const [w] = r.targets[0]!.windows;
     expect(r.targets[0]!.windows).toHaveLength(1);
     expect(w!.opensBy).toBe('night-edge');
     expect(w!.closesBy).toBe('night-edge');
-    expect(w!.hours).toBeCloseTo(24, 6);
+    expect(w!.hours).toBeCloseTo(24, 6); // δ = 60° at φ = 78.2° never drops below 48° (common practice, no source)
     expect(r.cautions.some((s) => s.includes('never point'))).toBe(true); // civil darkness carries the Sun caution
   });
 });
@@ -58,8 +58,8 @@ describe('circumpolar and never-rising targets', () => {
   it('a target that never rises has no window and stays below the horizon all night', () => {
     const r = nightReport(alpine, '2027-02-10', [star('far south', 100, -60)], noMoon(alpine), { curveStepMinutes: 15 });
     expect(r.targets[0]!.windows).toEqual([]);
-    // Highest altitude 90 − 47.5 − 60 < 0 (common practice, no source)
-    expect(Math.max(...r.targets[0]!.curve!.altitudeDeg)).toBeLessThan(0);
+    // Highest altitude 90 − 47.5 − 60 = −17.5° (common practice, no source)
+    expect(Math.max(...r.targets[0]!.curve!.altitudeDeg)).toBeLessThan(0); // refraction lifts by < 1°, far less than the 17.5° margin
     expect(r.targets[0]!.curve!.airmass.every((x) => x === null)).toBe(true);
   });
 });
@@ -68,8 +68,8 @@ describe('nights across a daylight-saving change', () => {
   it('spring forward: the night lasts 23 h and local times change offset at 02:00', () => {
     // Central European Summer Time starts on the last Sunday of March at 01:00 UTC (EU Directive 2000/84/EC (from memory))
     const r = nightReport(alpine, '2027-03-27', [star('pole', 30, 85)], noMoon(alpine), { curveStepMinutes: 0 });
-    expect(r.night.hours).toBeCloseTo(23, 6);
-    expect(r.night.start.local).toBe('2027-03-27T12:00:00+01:00');
+    expect(r.night.hours).toBeCloseTo(23, 6); // clocks go forward one hour (EU Directive 2000/84/EC (from memory))
+    expect(r.night.start.local).toBe('2027-03-27T12:00:00+01:00'); // CET = UTC+1, CEST = UTC+2 (IANA tz database, Europe/Berlin)
     expect(r.night.end.local).toBe('2027-03-28T12:00:00+02:00');
     const [w] = r.targets[0]!.windows;
     expect(w!.start.local.endsWith('+01:00')).toBe(true);
@@ -80,7 +80,7 @@ describe('nights across a daylight-saving change', () => {
 
   it('fall back: the night lasts 25 h', () => {
     const r = nightReport(alpine, '2027-10-30', [], noMoon(alpine));
-    expect(r.night.hours).toBeCloseTo(25, 6);
+    expect(r.night.hours).toBeCloseTo(25, 6); // clocks go back one hour on the last Sunday of October (EU Directive 2000/84/EC (from memory))
     expect(r.night.end.local).toBe('2027-10-31T12:00:00+01:00');
   });
 });
@@ -124,21 +124,21 @@ describe('horizon mask, Moon and Sun avoidance', () => {
     // cross 0.05° of mask slope. Transit: local sidereal time = apparent right ascension of date.
     const dra = ((r.targets[0]!.raOfDateDeg * DEG - lastAt(frame, midnight)) % (2 * Math.PI) + 3 * Math.PI) % (2 * Math.PI) - Math.PI;
     const transitJd = midnight + dra / frame.lastRateRadPerDay;
-    expect(Math.abs(ms(w!.start.utc) / 86_400_000 + 2_440_587.5 - transitJd) * 86_400).toBeLessThan(20);
+    expect(Math.abs(ms(w!.start.utc) / 86_400_000 + 2_440_587.5 - transitJd) * 86_400).toBeLessThan(20); // common practice, no source: a few seconds of mask slope plus the 1 s edge search
     const open = nightReport(alpine, '2027-01-15', [star('behind the ridge', raDeg, 5)], noMoon(alpine, { minAltitudeDeg: 10 }), { curveStepMinutes: 0 });
     expect(open.targets[0]!.windows[0]!.opensBy).toBe('altitude');
   });
 
   it('the Moon closes part of the night to a target near it, and no window keeps it within the limit', () => {
-    // Full Moon of 2027-01-22 (a night chosen near it); the target sits 12° north of the Moon.
+    // A night near full Moon; the target sits 12° north of the Moon.
     const span = nightSpan(alpine, '2027-01-22');
     const moon = raDecFromVector(bodyPlace(Body.Moon, alpine, (span.startJd + span.endJd) / 2).ofDate);
     const target = star('beside the Moon', moon.raRad / DEG, moon.decRad / DEG + 12);
     const withMoon = nightReport(alpine, '2027-01-22', [target], validateConstraints({ minMoonSeparationDeg: 30, minAltitudeDeg: 15 }, alpine), { curveStepMinutes: 0 });
     const without = nightReport(alpine, '2027-01-22', [target], noMoon(alpine, { minAltitudeDeg: 15 }), { curveStepMinutes: 0 });
-    expect(without.targets[0]!.observableHours).toBeGreaterThan(4);
+    expect(without.targets[0]!.observableHours).toBeGreaterThan(4); // a winter night at 47.5°N with a target near the full Moon, high in the sky (common practice, no source)
     expect(withMoon.targets[0]!.observableHours).toBeLessThan(without.targets[0]!.observableHours - 1);
-    expect(withMoon.moon.illuminatedFraction).toBeGreaterThan(0.9);
+    expect(withMoon.moon.illuminatedFraction).toBeGreaterThan(0.9); // the night was chosen near full Moon (astronomy-engine Illumination)
   });
 
   it('Sun avoidance shortens a window that starts in twilight near the setting Sun', () => {
