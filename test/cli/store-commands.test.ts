@@ -42,6 +42,25 @@ describe('store commands', () => {
     expect(await run('account', 'list')).toMatch(/night lead\s+lead/);
   });
 
+  it('account tokens lists tokens without secrets, and account revoke stops one at once', async () => {
+    const out = await run('account', 'token', '--name', 'night lead', '--label', 'laptop');
+    const [, id, secret] = /token id (\d+)\), shown once: (\S+)/.exec(out)!;
+    const listed = JSON.parse(await run('account', 'tokens', '--name', 'night lead', '--json')) as { id: number; label: string; revokedAt: string | null }[];
+    expect(listed.map((t) => [t.id, t.label, t.revokedAt])).toEqual([[1, 'created at the command line', null], [Number(id), 'laptop', null]]); // the two tokens made for this user in these tests
+    expect(JSON.stringify(listed)).not.toContain(secret!); // secrets are shown once, never listed
+    expect(await run('account', 'revoke', '--id', id!)).toMatch(new RegExp(`revoked token ${id} \\("laptop"\\) of "night lead" at \\d{4}-\\d\\d-\\d\\dT`));
+    const store = createStore(await openDatabase({ url }));
+    expect(await store.users.authenticate(secret!)).toBeNull(); // revoked: no longer signs in
+    store.database.close();
+    expect(await run('account', 'tokens')).toMatch(new RegExp(`\\n\\s*${id}\\s+night lead\\s+lead\\s+laptop\\s+\\S+Z\\s+\\S+Z`)); // table row with both dates
+    const again = await run('account', 'revoke', '--id', id!).catch((e: unknown) => e);
+    expect(again).toBeInstanceOf(InputError); // exit 2: bad input, not a failure
+    expect((again as InputError).field).toBe('--id');
+    await expect(run('account', 'revoke', '--id', 'first')).rejects.toBeInstanceOf(InputError);
+    await expect(run('account', 'revoke')).rejects.toBeInstanceOf(UsageError);
+    await expect(run('account', 'tokens', '--name', 'nobody here')).rejects.toBeInstanceOf(InputError);
+  });
+
   it('import lists every bad row and writes nothing; a good file is written whole', async () => {
     const bad = join(dir, 'bad.csv');
     writeFileSync(bad, 'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2027.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2027.5,fast,5,spec\nNowhere,K s1,radial-velocity,J2027.6,1,5,spec\n');
