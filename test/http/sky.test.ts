@@ -100,3 +100,11 @@ describe('POST /api/sky/season', () => {
     expect(((await res.json()) as ErrorBody).error.details.field).toBe('year');
   });
 });
+
+describe('OpenAPI', () => {
+  it('documents both sky endpoints with their request schemas', async () => {
+    const doc = (await (await app.request('/api/openapi.json')).json()) as { paths: Record<string, { post?: { requestBody?: unknown } }> };
+    expect(doc.paths['/sky/night']?.post?.requestBody).toBeDefined();
+    expect(doc.paths['/sky/season']?.post?.requestBody).toBeDefined();
+  });
+});
