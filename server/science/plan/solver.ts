@@ -193,13 +193,25 @@ class Timeline {
   }
 }
 
-/** Greedy insertion and local improvement; at most `maxPasses` improvement passes. */
+/**
+ * Greedy insertion and local improvement from three orders (highest value; highest value per slot;
+ * fewest allowed starts), keeping the best; at most `maxPasses` improvement passes each.
+ */
 export function solveGreedy(p: SolverProblem, maxPasses = 6): Placement[] {
-  const tl = new Timeline(p);
   const peak = p.items.map((it) => it.values.reduce((m, v) => Math.max(m, v), 0));
-  const order = p.items.map((_, i) => i).filter((i) => p.items[i]!.starts.length > 0);
-  // Highest peak value first; among equals the most constrained (fewest starts), then item order.
-  order.sort((a, b) => peak[b]! - peak[a]! || p.items[a]!.starts.length - p.items[b]!.starts.length || a - b);
+  const base = p.items.map((_, i) => i).filter((i) => p.items[i]!.starts.length > 0);
+  const keys: ((i: number) => number)[] = [(i) => -peak[i]!, (i) => -peak[i]! / p.items[i]!.slots, (i) => p.items[i]!.starts.length];
+  let best: Placement[] = [];
+  for (const key of keys) {
+    const order = [...base].sort((a, b) => key(a) - key(b) || peak[b]! - peak[a]! || a - b);
+    const got = improve(p, order, peak, maxPasses);
+    if (totalValue(got) > totalValue(best) + EPS) best = got;
+  }
+  return best;
+}
+
+function improve(p: SolverProblem, order: number[], peak: number[], maxPasses: number): Placement[] {
+  const tl = new Timeline(p);
   const placed = new Map<number, Placement>();
   for (const i of order) {
     const b = tl.bestStart(i);

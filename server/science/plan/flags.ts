@@ -1,0 +1,215 @@
+/**
+ * Flags: computed warnings for a campaign's targets, soonest first, each with a plain reason.
+ * - periapsis ahead: date ± 1σ (linear, from the covariance), lead-time band, observable hours per
+ *   night at each site over the ± window, rates of change and the sampling they call for, and the
+ *   sizes of the relativistic terms; "periapsis unobservable" when no site sees it;
+ * - blend risk: intervals when two stars of a system (or a star and a visible primary) are closer on
+ *   the sky than the resolution limit;
+ * - stale prediction: position uncertainty now beyond a limit, or no measurement for longer than the cadence.
+ */
+import { DateTime } from 'luxon';
+import { eventsWithUncertainty, ephemeris, physicalQuantities, predictBatch, type Orbit } from '../orbit/index.ts';
+import { intervalsWhere } from '../sky/darkness.ts';
+import type { Constraints } from '../sky/constraints.ts';
+import type { Site } from '../sky/site.ts';
+import type { Target } from '../sky/target.ts';
+import { jdToIso, jdToUnixMs } from '../time/index.ts';
+import { numberIn, positive } from './checks.ts';
+import { dominantReason, nightGrid, reasonWords, targetGrid } from './grid.ts';
+import type { Precision } from './information.ts';
+import { InputError } from '../errors.ts';
+
+export const FLAG_KINDS = ['periapsis-ahead', 'periapsis-unobservable', 'blend-risk', 'stale-prediction'] as const;
+export type FlagKind = (typeof FLAG_KINDS)[number];
+
+export interface FlagTarget {
+  target: Target;
+  /** Stars of one system are checked in pairs for blends. */
+  system: string;
+  cadenceDays?: number;
+  lastMeasuredJd?: number | null;
+  /** The primary itself shows in the images (a star, not a dark compact object). */
+  primaryVisible?: boolean;
+}
+
+export interface FlagOptions {
+  /** The moment flags are computed for, JD (UTC). */
+  nowJd: number;
+  /** Lead-time bands, days, ascending; the largest is how far ahead periapses are looked for. Default [30, 182, 365]. */
+  leadDays?: number[];
+  /** Resolution limit for blends, mas; no blend flags without it. */
+  resolutionMas?: number;
+  /** Position uncertainty beyond which a prediction is stale, mas; default 10. */
+  staleSigmaMas?: number;
+  precision?: Precision;
+}
+
+export interface SiteHours {
+  site: string;
+  /** Observable hours per night over the ± window (nights in order). */
+  nights: { date: string; hours: number }[];
+  minHours: number;
+  maxHours: number;
+  /** Why it cannot be observed on the night of periapsis, if it cannot. */
+  blocked: string | null;
+}
+
+export interface Flag {
+  kind: FlagKind;
+  target: string;
+  /** When it applies (periapsis, blend start, or now), ISO 8601 UTC. */
+  date: string;
+  daysAhead: number;
+  reason: string;
+  periapsis?: {
+    sigmaDays: number | null;
+    band: string;
+    sites: SiteHours[];
+    radialVelocityRateKmSPerDay: number | null;
+    skyRateMasPerDay: number;
+    /** Longest interval between epochs that still follows the change at the expected precision, days. */
+    samplingDays: number | null;
+    relativity: { gravitationalRedshiftKmS: number; transverseDopplerKmS: number; precessionArcminPerOrbit: number } | null;
+  };
+  blend?: { other: string; start: string; end: string; closestMas: number };
+  stale?: { sigmaMas: number | null; daysSinceMeasured: number | null };
+}
+
+function localNight(jd: number, zone: string): string {
+  return DateTime.fromMillis(jdToUnixMs(jd - 0.5), { zone }).toISODate()!;
+}
+
+function bandOf(days: number, lead: number[]): string {
+  const b = lead.find((l) => days <= l);
+  return b === undefined ? `more than ${lead[lead.length - 1]} days ahead` : `within ${b} days`;
+}
+
+/** Observable hours per night around a date at one site (nights spaced to at most 31). */
+export function hoursAround(site: Site, c: Constraints, target: Target, centreJd: number, halfDays: number): SiteHours {
+  const step = Math.max(1, Math.ceil((2 * halfDays + 1) / 31));
+  const nights: { date: string; hours: number }[] = [];
+  let blocked: string | null = null;
+  for (let d = -halfDays; d <= halfDays; d += step) {
+    const date = localNight(centreJd + d, site.timeZone);
+    const g = nightGrid(site, c, date, 10);
+    const tg = targetGrid(g, target);
+    const hours = g.edgeJd.length === 0 ? 0 : Math.max(0, tg.ok.reduce((n, v) => n + v, 0) - 1) * (10 / 60);
+    nights.push({ date, hours });
+    if (Math.abs(d) < step / 2 + 1e-9 || (d <= 0 && d + step > 0)) {
+      const r = g.edgeJd.length === 0 ? null : dominantReason(tg);
+      if (g.edgeJd.length === 0) blocked = 'no darkness';
+      else if (r !== null) blocked = `${reasonWords(r, c)}${r === 'sun-avoidance' ? ` (${tg.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''}`;
+    }
+  }
+  const hs = nights.map((n) => n.hours);
+  return { site: site.name, nights, minHours: Math.min(...hs), maxHours: Math.max(...hs), blocked };
+}
+
+export function computeFlags(targets: readonly FlagTarget[], sites: readonly { site: Site; constraints: Constraints }[], options: FlagOptions): Flag[] {
+  const now = options.nowJd;
+  const lead = (options.leadDays ?? [30, 182, 365]).map((d, i) => positive(`leadDays.${i}`, d, 36525));
+  if (lead.length === 0) throw new InputError('leadDays', lead, 'must list at least one lead time');
+  lead.sort((a, b) => a - b);
+  const horizon = lead[lead.length - 1]!;
+  const staleSigma = positive('staleSigmaMas', options.staleSigmaMas ?? 10, 1e9);
+  const resolution = options.resolutionMas === undefined ? null : positive('resolutionMas', options.resolutionMas, 1e6);
+  const precision = options.precision ?? { astrometryMas: 1, spectroscopyKmS: 5 };
+  const flags: Flag[] = [];
+
+  for (const ft of targets) {
+    const orbit = ft.target.orbit;
+    const name = ft.target.name;
+    if (orbit) flags.push(...periapsisFlags(ft, orbit, sites, now, horizon, lead, precision));
+    // Stale: uncertainty now, and time since the last measurement.
+    const sigma = orbit?.covariance ? (() => {
+      const r = ephemeris(orbit, Float64Array.of(now))[0]!;
+      return Math.hypot(r.sigma?.dRaMas ?? 0, r.sigma?.dDecMas ?? 0);
+    })() : null;
+    const since = ft.lastMeasuredJd === undefined || ft.lastMeasuredJd === null ? null : now - ft.lastMeasuredJd;
+    const reasons: string[] = [];
+    if (sigma !== null && sigma > staleSigma) reasons.push(`its predicted position is uncertain by ${sigma.toFixed(1)} mas (1σ), beyond the ${staleSigma} mas limit`);
+    if (since !== null && ft.cadenceDays !== undefined && since > ft.cadenceDays) reasons.push(`it has not been measured for ${Math.floor(since)} days, longer than its ${ft.cadenceDays}-day cadence`);
+    if (ft.cadenceDays !== undefined && ft.lastMeasuredJd === null) reasons.push('it has never been measured');
+    if (reasons.length > 0) flags.push({ kind: 'stale-prediction', target: name, date: jdToIso(now), daysAhead: 0, reason: `${name}: ${reasons.join('; ')}.`, stale: { sigmaMas: sigma, daysSinceMeasured: since } });
+  }
+
+  if (resolution !== null) {
+    const bySystem = new Map<string, FlagTarget[]>();
+    for (const t of targets) if (t.target.orbit) bySystem.set(t.system, [...(bySystem.get(t.system) ?? []), t]);
+    for (const group of bySystem.values()) {
+      for (let i = 0; i < group.length; i++) {
+        const a = group[i]!;
+        if (a.primaryVisible) flags.push(...blendFlags(a, null, now, horizon, resolution));
+        for (let j = i + 1; j < group.length; j++) flags.push(...blendFlags(a, group[j]!, now, horizon, resolution));
+      }
+    }
+  }
+  return flags.sort((x, y) => x.date.localeCompare(y.date) || FLAG_KINDS.indexOf(x.kind) - FLAG_KINDS.indexOf(y.kind) || x.target.localeCompare(y.target));
+}
+
+function periapsisFlags(ft: FlagTarget, orbit: Orbit, sites: readonly { site: Site; constraints: Constraints }[], now: number, horizon: number, lead: number[], precision: Precision): Flag[] {
+  const name = ft.target.name;
+  const ev = eventsWithUncertainty(orbit, now, now + horizon, { kinds: ['periapsis'] })[0];
+  if (!ev) return [];
+  const sigmaDays = ev.sigmaDays ?? null;
+  const half = Math.max(1, Math.min(60, Math.ceil(sigmaDays ?? 1)));
+  const siteHours = sites.map((s) => hoursAround(s.site, s.constraints, ft.target, ev.jd, half));
+  const rows = predictBatch(orbit, Float64Array.of(ev.jd - 0.5, ev.jd, ev.jd + 0.5));
+  const rvRate = orbit.distancePc === null ? null : rows.radialVelocityKmS[2]! - rows.radialVelocityKmS[0]!;
+  const skyRate = Math.hypot(rows.vRaMasYr[1]!, rows.vDecMasYr[1]!) / 365.25;
+  const cands = [precision.astrometryMas / skyRate, rvRate ? precision.spectroscopyKmS / Math.abs(rvRate) : Infinity].filter((x) => Number.isFinite(x));
+  const samplingDays = cands.length ? Math.min(...cands) : null;
+  let relativity: NonNullable<Flag['periapsis']>['relativity'] = null;
+  if (orbit.distancePc !== null) {
+    const q = physicalQuantities(orbit);
+    relativity = { gravitationalRedshiftKmS: q.gravitationalRedshiftAtPeriapsisKmS, transverseDopplerKmS: q.transverseDopplerAtPeriapsisKmS, precessionArcminPerOrbit: q.precessionArcminPerOrbit };
+  }
+  const daysAhead = ev.jd - now;
+  const band = bandOf(daysAhead, lead);
+  const seen = siteHours.filter((s) => s.maxHours > 0);
+  const date = ev.epoch;
+  const pm = sigmaDays === null ? '(no covariance: uncertainty unknown)' : `± ${sigmaDays.toFixed(1)} d`;
+  const rates = `radial velocity changes by ${rvRate === null ? '? (no distance)' : `${Math.abs(rvRate).toFixed(2)} km/s`} and position by ${skyRate.toFixed(3)} mas per day there${samplingDays !== null ? `, so sample at least every ${samplingDays < 1 ? `${(samplingDays * 24).toFixed(1)} h` : `${samplingDays.toFixed(1)} d`}` : ''}`;
+  const rel = relativity ? `; gravitational redshift ${relativity.gravitationalRedshiftKmS.toFixed(3)} km/s, transverse Doppler ${relativity.transverseDopplerKmS.toFixed(3)} km/s, precession ${relativity.precessionArcminPerOrbit.toFixed(2)}′ per orbit` : '';
+  const where = siteHours.map((s) => `${s.site} ${s.minHours.toFixed(1)}–${s.maxHours.toFixed(1)} h per night${s.blocked ? ` (on the night itself it ${s.blocked})` : ''}`).join('; ');
+  const details = { sigmaDays, band, sites: siteHours, radialVelocityRateKmSPerDay: rvRate, skyRateMasPerDay: skyRate, samplingDays, relativity };
+  const out: Flag[] = [];
+  if (seen.length === 0) {
+    const why = siteHours.map((s) => `at ${s.site} it ${s.blocked ?? 'has no window'}`).join('; ');
+    out.push({ kind: 'periapsis-unobservable', target: name, date, daysAhead, reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, but no campaign site can observe it in that window: ${why}.`, periapsis: details });
+  }
+  out.push({ kind: 'periapsis-ahead', target: name, date, daysAhead, reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} days ahead (${band}). Observable: ${where}. Its ${rates}${rel}.`, periapsis: details });
+  return out;
+}
+
+function blendFlags(a: FlagTarget, b: FlagTarget | null, now: number, horizon: number, resolution: number): Flag[] {
+  const oa = a.target.orbit!, ob = b?.target.orbit ?? null;
+  const period = Math.min(oa.periodDays, ob?.periodDays ?? Infinity);
+  const step = Math.min(5, Math.max(0.25, period / 2000));
+  const n = Math.ceil(horizon / step) + 1;
+  const jd = Float64Array.from({ length: n }, (_, i) => now + (i * horizon) / (n - 1));
+  const pa = predictBatch(oa, jd), pb = ob ? predictBatch(ob, jd) : null;
+  const sepAt = (i: number) => Math.hypot(pa.dRaMas[i]! - (pb ? pb.dRaMas[i]! : 0), pa.dDecMas[i]! - (pb ? pb.dDecMas[i]! : 0));
+  const sep = (t: number) => {
+    const x = predictBatch(oa, Float64Array.of(t)), y = ob ? predictBatch(ob, Float64Array.of(t)) : null;
+    return Math.hypot(x.dRaMas[0]! - (y ? y.dRaMas[0]! : 0), x.dDecMas[0]! - (y ? y.dDecMas[0]! : 0));
+  };
+  let closest = Infinity;
+  for (let i = 0; i < n; i++) closest = Math.min(closest, sepAt(i));
+  if (closest > resolution * 3) return [];
+  const other = b ? b.target.name : `the primary of ${a.system}`;
+  return intervalsWhere((t) => sep(t) < resolution, now, now + horizon, step, 0.01).map((iv) => {
+    let min = Infinity;
+    for (let k = 0; k <= 50; k++) min = Math.min(min, sep(iv.startJd + ((iv.endJd - iv.startJd) * k) / 50));
+    const start = jdToIso(iv.startJd), end = jdToIso(iv.endJd);
+    return {
+      kind: 'blend-risk' as const,
+      target: a.target.name,
+      date: start,
+      daysAhead: iv.startJd - now,
+      reason: `${a.target.name} and ${other} are closer than the ${resolution} mas resolution limit from ${start.slice(0, 10)} to ${end.slice(0, 10)} (closest ${min.toFixed(1)} mas): astrometry of either is unreliable then.`,
+      blend: { other, start, end, closestMas: min },
+    };
+  });
+}
+
