@@ -157,7 +157,8 @@ describe('a stored night’s visibility', () => {
     const night = (await store.nights.list([], { limit: 500 })).items.find((n) => n.date === '2027-06-12' && n.siteId === 1)!;
     const res = await app.request(`/api/nights/${night.id}/visibility`, { headers: { authorization: `Bearer ${leadToken}` } });
     expect(res.status).toBe(200);
-    const report = (await res.json()) as { darkness: { hours: number }; targets: { name: string; observableHours: number }[]; cautions: string[] };
+    const report = (await res.json()) as { darkness: { hours: number }; targets: { name: string; observableHours: number }[]; cautions: string[]; constraints: { horizonMask: boolean } };
+    expect(report.constraints.horizonMask).toBe(true); // scenario.ts gives Tolvane Ridge a stored horizon mask, and the view uses it
     const site = (await store.sites.get(night.siteId));
     const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
     const noon = new Date('2027-06-12T16:00:00Z'); // local noon in America/Santiago (UTC−4 in June)

@@ -10,7 +10,7 @@
 import type { OrbitInput } from '../../science/orbit/index.ts';
 
 export const VESPER = { name: 'Vesper Core', raDeg: 263.842, decDeg: -21.716, pmRaMasYr: -2.9, pmDecMasYr: -5.1, distancePc: 7400, massSolar: 2.6e6, notes: 'Invented compact object for the demo campaign.' };
-export const LANTERN = { name: 'Lantern Pair', raDeg: 96.318, decDeg: 12.407, pmRaMasYr: 143.2, pmDecMasYr: -61.8, distancePc: 18.6, massSolar: 1.9, notes: 'Invented visual binary for the demo campaign.' };
+export const LANTERN = { name: 'Lantern Pair', raDeg: 96.318, decDeg: 12.407, pmRaMasYr: 143.2, pmDecMasYr: -61.8, positionEpoch: 'J2016.0', distancePc: 18.6, massSolar: 1.9, notes: 'Invented visual binary for the demo campaign; position at J2016.0, moving 1.7″ by 2027.' };
 
 /** Angular semi-major axis, arcsec, from mass (M☉), period (yr) and distance (pc): a[au] = (M·P²)^(1/3). */
 export function keplerAxisArcsec(massSolar: number, periodYears: number, distancePc: number): number {
@@ -70,7 +70,15 @@ export const LANTERN_B_ORBIT: OrbitInput = {
 };
 
 export const SITES = [
-  { name: 'Tolvane Ridge', latitudeDeg: -24.931, longitudeDeg: -69.517, elevationM: 2710, timeZone: 'America/Santiago', minAltitudeDeg: 30, sunAvoidanceDeg: 45, pressureHpa: 742, temperatureC: 9, laserGuideStar: true, notes: 'Invented site. Laser guide star in use: follow the site’s laser-traffic rules.' },
+  {
+    name: 'Tolvane Ridge', latitudeDeg: -24.931, longitudeDeg: -69.517, elevationM: 2710, timeZone: 'America/Santiago', minAltitudeDeg: 30, sunAvoidanceDeg: 45, pressureHpa: 742, temperatureC: 9, laserGuideStar: true,
+    // An invented neighbouring summit rises above the 30° limit to the south; low ridges elsewhere.
+    horizonMask: [
+      { azimuthDeg: 0, altitudeDeg: 8 }, { azimuthDeg: 60, altitudeDeg: 6 }, { azimuthDeg: 120, altitudeDeg: 10 }, { azimuthDeg: 150, altitudeDeg: 22 },
+      { azimuthDeg: 170, altitudeDeg: 34 }, { azimuthDeg: 190, altitudeDeg: 31 }, { azimuthDeg: 210, altitudeDeg: 14 }, { azimuthDeg: 260, altitudeDeg: 7 }, { azimuthDeg: 320, altitudeDeg: 9 },
+    ],
+    notes: 'Invented site. Laser guide star in use: follow the site’s laser-traffic rules. The summit to the south rises to 34°, above the 30° limit between azimuths 163° and 191°.',
+  },
   { name: 'Ostrel Summit', latitudeDeg: 23.614, longitudeDeg: -105.982, elevationM: 2930, timeZone: 'America/Mazatlan', minAltitudeDeg: 25, sunAvoidanceDeg: 40, pressureHpa: 718, temperatureC: 4, laserGuideStar: false, notes: 'Invented site.' },
 ];
 

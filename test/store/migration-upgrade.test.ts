@@ -1,0 +1,49 @@
+/**
+ * A data file written before migration 0001 opens with it applied: existing systems keep their
+ * position as J2000.0 (what the store assumed before the column existed) and existing sites get a
+ * flat horizon, and both still pass the store's checks on their next update.
+ */
+import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { createClient } from '@libsql/client';
+import { drizzle } from 'drizzle-orm/libsql';
+import { migrate } from 'drizzle-orm/libsql/migrator';
+import { afterAll, beforeAll, expect, it } from 'vitest';
+import { MIGRATIONS_FOLDER } from '../../server/store/database.ts';
+import { LOCAL_OPERATOR, createStore, openDatabase } from '../../server/store/index.ts';
+
+let dir: string;
+beforeAll(() => {
+  dir = mkdtempSync(join(tmpdir(), 'epochwright-upgrade-'));
+});
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+it('upgrades a database made by migration 0000 alone, keeping its rows', async () => {
+  // The migrations folder as it stood before 0001: the first journal entry only.
+  const old = join(dir, 'migrations-0000');
+  cpSync(MIGRATIONS_FOLDER, old, { recursive: true });
+  const journal = JSON.parse(readFileSync(join(old, 'meta/_journal.json'), 'utf8')) as { entries: { tag: string }[] };
+  expect(journal.entries[1]?.tag).toMatch(/^0001_/); // the migration under test exists
+  writeFileSync(join(old, 'meta/_journal.json'), JSON.stringify({ ...journal, entries: journal.entries.slice(0, 1) }));
+  const url = `file:${join(dir, 'old.db')}`;
+  const client = createClient({ url });
+  await migrate(drizzle(client), { migrationsFolder: old });
+  const now = '2026-01-01T00:00:00.000Z';
+  await client.execute({ sql: 'INSERT INTO systems (name, ra_deg, dec_deg, pm_ra_mas_yr, pm_dec_mas_yr, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)', args: ['Old Deep', 10, 20, 5, -5, now, now] });
+  await client.execute({ sql: 'INSERT INTO sites (name, latitude_deg, longitude_deg, elevation_m, time_zone, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)', args: ['Old Ridge', -30, -70, 2400, 'America/Santiago', now, now] });
+  client.close();
+
+  const store = createStore(await openDatabase({ url }));
+  try {
+    const [system] = (await store.systems.list([])).items;
+    const [site] = (await store.sites.list([])).items;
+    expect(system).toMatchObject({ name: 'Old Deep', pmRaMasYr: 5, positionEpoch: '2000-01-01T12:00:00.000Z' }); // J2000.0 = JD 2451545.0 (IAU 1976 standard epoch, from memory): the store's assumption before 0001
+    expect(site).toMatchObject({ name: 'Old Ridge', horizonMask: [] }); // a flat horizon, as before 0001
+    const patched = await store.sites.update(LOCAL_OPERATOR, site!.id, { horizonMask: [{ azimuthDeg: 180, altitudeDeg: 25 }] });
+    expect(patched.horizonMask).toEqual([{ azimuthDeg: 180, altitudeDeg: 25 }]); // the value sent
+    expect((await store.systems.update(LOCAL_OPERATOR, system!.id, { notes: 'kept' })).positionEpoch).toBe('2000-01-01T12:00:00.000Z'); // unchanged by an unrelated patch
+  } finally {
+    store.database.close();
+  }
+});
