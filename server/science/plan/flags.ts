@@ -96,7 +96,7 @@ export function hoursAround(site: Site, c: Constraints, target: Target, centreJd
     const hours = g.edgeJd.length === 0 ? 0 : Math.max(0, tg.ok.reduce((n, v) => n + v, 0) - 1) * (10 / 60);
     nights.push({ date, hours });
     if (Math.abs(d) < step / 2 + 1e-9 || (d <= 0 && d + step > 0)) {
-      const r = g.edgeJd.length === 0 ? null : dominantReason(tg);
+      const r = g.edgeJd.length === 0 ? null : dominantReason(tg, c);
       if (g.edgeJd.length === 0) blocked = 'no darkness';
       else if (r !== null) blocked = `${reasonWords(r, c)}${r === 'sun-avoidance' ? ` (${tg.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''}`;
     }

@@ -156,11 +156,16 @@ export function blockQuality(t: TargetGrid, i: number, k: number): number {
   return (t.inverseAirmassSum[i + k + 1]! - t.inverseAirmassSum[i]!) / (k + 1);
 }
 
-/** The limit broken at most edges of the night (ties: the earlier in REASON_CODES), or null when some edge is ok. */
-export function dominantReason(t: TargetGrid): ReasonCode | null {
+/**
+ * Why a target cannot be observed on the night, or null when some edge is ok: the Sun when the
+ * target lies inside the Sun-avoidance angle at the night's middle (it is then also low at night, but
+ * the Sun is the cause), else the limit broken at most edges (ties: the earlier in REASON_CODES).
+ */
+export function dominantReason(t: TargetGrid, c?: Constraints): ReasonCode | null {
   const counts = new Array<number>(REASON_CODES.length + 1).fill(0);
   for (let i = 0; i < t.reason.length; i++) counts[t.reason[i]!]!++;
   if (counts[0]! > 0 && t.ok.some((v) => v === 1)) return null;
+  if (c && t.sunSeparationDeg < c.sunAvoidanceDeg) return 'sun-avoidance';
   let best = 1;
   for (let r = 2; r < counts.length; r++) if (counts[r]! > counts[best]!) best = r;
   return counts[best]! > 0 ? REASON_CODES[best - 1]! : null;

@@ -243,7 +243,7 @@ function whyLeftOut(c: Candidate, grid: NightGrid, removed: Set<string>, everFit
   if (removed.has(c.id)) return 'removed by the user';
   if (grid.edgeJd.length === 0) return `no darkness (${grid.constraints.darknessLabel}) at ${grid.site.name} on this night`;
   if (!everFits) {
-    const r = dominantReason(c.grid);
+    const r = dominantReason(c.grid, grid.constraints);
     if (r !== null) return `${c.targetName} ${reasonWords(r, grid.constraints)}${r === 'sun-avoidance' ? ` (${c.grid.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''} on this night`;
     let longest = 0;
     for (let i = 0; i < c.grid.okRun.length; i++) longest = Math.max(longest, c.grid.okRun[i]!);

@@ -190,7 +190,7 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
             }
           }
           if (best < 0) {
-            const r = dominantReason(tg);
+            const r = dominantReason(tg, sites[si]!.constraints);
             codes[ti]![(k * nS + si) * nD + di] = r === null ? TOO_SHORT : 1 + ['altitude', 'horizon-mask', 'sun-avoidance', 'moon'].indexOf(r);
             continue;
           }
