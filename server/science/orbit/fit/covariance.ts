@@ -57,11 +57,14 @@ export function covarianceFromJacobian(J: Float64Array, rows: number, n: number,
     );
   }
   const inv = svd.inverse();
-  const C: number[][] = [];
+  // Symmetrised exactly (the SVD inverse is symmetric only to rounding; Cholesky downstream checks).
+  const C: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
   for (let a = 0; a < n; a++) {
-    const row: number[] = [];
-    for (let b = 0; b < n; b++) row.push(inv.get(a, b) * scale[a]! * scale[b]!);
-    C.push(row);
+    for (let b = a; b < n; b++) {
+      const v = 0.5 * (inv.get(a, b) + inv.get(b, a)) * scale[a]! * scale[b]!;
+      C[a]![b] = v;
+      C[b]![a] = v;
+    }
   }
   return C;
 }

@@ -127,56 +127,69 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const eNodes = E_NODES.filter((e) => e >= o.eccentricity.min - 1e-12 && e <= o.eccentricity.max + 1e-12);
   if (eNodes.length === 0) eNodes.push(0.5 * (o.eccentricity.min + o.eccentricity.max));
   const nodes: GridNode[] = [];
+  let cut = Infinity;
   const col = new Float64Array(nLin);
   const Nx = new Float64Array(nLin * nLin), Ny = new Float64Array(nLin * nLin);
   const bx = new Float64Array(nLin), by = new Float64Array(nLin);
-  const XY = new Float64Array(2 * ast.length);
-  const u0 = new Float64Array(ast.length), cs = new Float64Array(2);
+  const sx = new Float64Array(nLin), sy = new Float64Array(nLin);
+  // χ² = Σw·x² − bᵀs at the least-squares solution s: no second pass over the epochs.
+  const sumWxx = ast.reduce((a, m) => a + m.wx * m.x * m.x, 0), sumWyy = ast.reduce((a, m) => a + m.wy * m.y * m.y, 0);
+  const u0 = new Float64Array(ast.length);
+  const TS = TABLE_SIZE;
   for (const P of periods) {
     ast.forEach((m, q) => (u0[q] = (m.jd - tRef) / P));
     for (const e of eNodes) {
       const sq = Math.sqrt(1 - e * e);
-      const table = anomalyTable(e);
+      const { cos, sin } = anomalyTable(e);
       const nPhase = Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5)));
       for (let ph = 0; ph < nPhase; ph++) {
         const T = tRef - (ph / nPhase) * P;
         Nx.fill(0); Ny.fill(0); bx.fill(0); by.fill(0);
         for (let q = 0; q < ast.length; q++) {
           const m = ast[q]!;
-          lookup(table, u0[q]! + ph / nPhase, cs);
-          const X = cs[0]! - e, Y = sq * cs[1]!;
-          XY[2 * q] = X;
-          XY[2 * q + 1] = Y;
+          // Inline table read (see lookup): cos E, sin E at this phase.
+          const u = u0[q]! + ph / nPhase;
+          const xTab = (u - Math.floor(u)) * TS;
+          const i = Math.min(xTab | 0, TS - 1), f = xTab - i;
+          const X = cos[i]! + f * (cos[i + 1]! - cos[i]!) - e, Y = sq * (sin[i]! + f * (sin[i + 1]! - sin[i]!));
+          if (nLin === 2) {
+            // The common case (no frame terms), unrolled.
+            const wx = m.wx, wy = m.wy;
+            bx[0] = bx[0]! + wx * X * m.x; bx[1] = bx[1]! + wx * Y * m.x;
+            by[0] = by[0]! + wy * X * m.y; by[1] = by[1]! + wy * Y * m.y;
+            Nx[0] = Nx[0]! + wx * X * X; Nx[2] = Nx[2]! + wx * Y * X; Nx[3] = Nx[3]! + wx * Y * Y;
+            Ny[0] = Ny[0]! + wy * X * X; Ny[2] = Ny[2]! + wy * Y * X; Ny[3] = Ny[3]! + wy * Y * Y;
+            continue;
+          }
           fillColumns(col, X, Y, m.jd, o);
           for (let a = 0; a < nLin; a++) {
-            bx[a] = bx[a]! + m.wx * col[a]! * m.x;
-            by[a] = by[a]! + m.wy * col[a]! * m.y;
+            const ca = col[a]!;
+            bx[a] = bx[a]! + m.wx * ca * m.x;
+            by[a] = by[a]! + m.wy * ca * m.y;
             for (let b = 0; b <= a; b++) {
-              Nx[a * nLin + b] = Nx[a * nLin + b]! + m.wx * col[a]! * col[b]!;
-              Ny[a * nLin + b] = Ny[a * nLin + b]! + m.wy * col[a]! * col[b]!;
+              Nx[a * nLin + b] = Nx[a * nLin + b]! + m.wx * ca * col[b]!;
+              Ny[a * nLin + b] = Ny[a * nLin + b]! + m.wy * ca * col[b]!;
             }
           }
         }
-        if (!solveSmall(Nx, bx, nLin) || !solveSmall(Ny, by, nLin)) continue;
-        const sx = bx, sy = by;
-        let chi2 = 0;
-        for (let q = 0; q < ast.length; q++) {
-          const m = ast[q]!;
-          fillColumns(col, XY[2 * q]!, XY[2 * q + 1]!, m.jd, o);
-          let px = 0, py = 0;
-          for (let a = 0; a < nLin; a++) { px += col[a]! * sx[a]!; py += col[a]! * sy[a]!; }
-          chi2 += m.wx * (m.x - px) ** 2 + m.wy * (m.y - py) ** 2;
-        }
+        sx.set(bx);
+        sy.set(by);
+        if (!solveSmall(Nx, sx, nLin) || !solveSmall(Ny, sy, nLin)) continue;
+        let chi2 = sumWxx + sumWyy;
+        for (let a = 0; a < nLin; a++) chi2 -= bx[a]! * sx[a]! + by[a]! * sy[a]!;
+        if (chi2 > cut) continue;
         const frame: [number, number, number, number] = [0, 0, 0, 0];
         let k = 2;
         if (o.frameOffset) { frame[0] = sx[k]!; frame[1] = sy[k]!; k++; }
         if (o.frameDrift) { frame[2] = sx[k]!; frame[3] = sy[k]!; }
-        const node: GridNode = { chi2, periodDays: P, periapsisJd: T, e, A: sy[0]!, F: sy[1]!, B: sx[0]!, G: sx[1]!, frame, gamma: null, signedDistancePc: null };
-        if (rv.length > 0) velocityPart(node, rv, table);
-        nodes.push(node);
+        nodes.push({ chi2: Math.max(chi2, 0), periodDays: P, periapsisJd: T, e, A: sy[0]!, F: sy[1]!, B: sx[0]!, G: sx[1]!, frame, gamma: null, signedDistancePc: null });
+        if (nodes.length >= 4 * POOL) cut = prune(nodes);
       }
     }
   }
+  // The velocities join only for the nodes the astrometry likes best (they rarely reorder the rest).
+  prune(nodes);
+  if (rv.length > 0) for (const nd of nodes) velocityPart(nd, rv, anomalyTable(nd.e));
   return pickDistinct(nodes, o.keep);
 }
 
@@ -212,6 +225,16 @@ function velocityPart(node: GridNode, rv: Observation[], table: { cos: Float64Ar
   node.gamma = rhs[0]!;
   node.signedDistancePc = rhs[1]!;
   rv.forEach((m, q) => (node.chi2 += (m.value[0] - rhs[0]! - rhs[1]! * basis[q]!) ** 2 / m.sigma[0] ** 2));
+}
+
+/** Nodes kept from the astrometric pass for the velocity pass. */
+const POOL = 400;
+
+/** Keep the POOL best nodes; returns the χ² above which a node cannot enter. */
+function prune(nodes: GridNode[]): number {
+  nodes.sort((a, b) => a.chi2 - b.chi2);
+  nodes.length = Math.min(nodes.length, POOL);
+  return nodes.length === POOL ? nodes[POOL - 1]!.chi2 : Infinity;
 }
 
 /** The best nodes that differ in period, eccentricity or phase. */

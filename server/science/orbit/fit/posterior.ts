@@ -1,7 +1,10 @@
 /**
- * Posterior sampling of a fit: flat priors on the fitted parameters inside their domain (and the
- * Gaussian priors of the request), likelihood from the same whitened residuals as the fit. Walkers
- * start in a ball of half the covariance around the minimum and spread out during burn-in.
+ * Posterior sampling of a fit. Priors: P log-uniform inside the period range that was searched
+ * (the hints, or the default range), T uniform within half a period of the fitted passage (one
+ * passage, not its copies a period away), e uniform in [0, 0.999), every other parameter flat inside
+ * its domain, plus the Gaussian priors of the request. Without the bounds on P a poorly covered arc
+ * leaves the posterior improper (ever longer periods fit an arc about as well). Likelihood from the
+ * same whitened residuals as the fit. Walkers start in a ball of the covariance around the minimum.
  * Percentiles go onto every parameter and every reported quantity, the next periapsis included
  * (counted per sample from the sample's own P and T).
  */
@@ -38,20 +41,29 @@ export function samplePosterior(sol: Solution, req: CheckedRequest, result: FitR
   const logPost = (x: Float64Array) => {
     const t = problem.full(x);
     if (!inDomain(L, t)) return -Infinity;
-    for (const s of L.stars) if (s.slots.i >= 0 && !(t[s.slots.i]! >= 0 && t[s.slots.i]! <= Math.PI)) return -Infinity;
-    return -0.5 * cost(problem.evaluate(x, false).r, req.loss);
+    let logPrior = 0;
+    for (const [k, s] of L.stars.entries()) {
+      const { P, T, i } = s.slots;
+      if (i >= 0 && !(t[i]! >= 0 && t[i]! <= Math.PI)) return -Infinity;
+      const range = sol.periodRanges[k]!;
+      if (t[P]! < range.min * (1 - 1e-9) || t[P]! > range.max * (1 + 1e-9)) return -Infinity;
+      if (Math.abs(t[T]! - theta[T]!) > 0.5 * t[P]!) return -Infinity;
+      logPrior -= Math.log(t[P]!);
+    }
+    return logPrior - 0.5 * cost(problem.evaluate(x, false).r, req.loss);
   };
   const rng = new SeededRandom(opts.seed ^ 0x5eed);
-  const C = new Matrix(sol.covariance).mul(0.25);
+  const C = new Matrix(sol.covariance);
   const chol = new CholeskyDecomposition(C);
-  const Lc = chol.isPositiveDefinite() ? chol.lowerTriangularMatrix : Matrix.diag(sol.covariance.map((r, a) => Math.sqrt(Math.max(r[a]!, 0)) / 2));
+  const Lc = chol.isPositiveDefinite() ? chol.lowerTriangularMatrix : Matrix.diag(sol.covariance.map((r, a) => Math.sqrt(Math.max(r[a]!, 0))));
   const x0 = Float64Array.from(problem.free, (j) => theta[j]!);
   const start: Float64Array[] = [];
   for (let w = 0; w < walkers; w++) {
     for (let tries = 0; ; tries++) {
-      const z = Array.from({ length: n }, () => rng.normal() * 0.5 ** tries);
+      // Redraw at full width a few times before shrinking the ball towards the minimum.
+      const z = Array.from({ length: n }, () => rng.normal() * 0.5 ** Math.max(0, tries - 10));
       const x = Float64Array.from(x0, (v, a) => v + z.reduce((s, zb, b) => s + Lc.get(a, b) * zb, 0));
-      if (Number.isFinite(logPost(x)) || tries > 30) {
+      if (Number.isFinite(logPost(x)) || tries > 40) {
         start.push(Number.isFinite(logPost(x)) ? x : Float64Array.from(x0));
         break;
       }

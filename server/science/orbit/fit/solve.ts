@@ -9,7 +9,7 @@ import { covarianceFromJacobian } from './covariance.ts';
 import { gridSearch, type GridNode } from './grid.ts';
 import { buildLayout, findParameter, type Layout, starOrbit } from './layout.ts';
 import { levenbergMarquardt, type LmResult } from './lm.ts';
-import { canonicalize, makeProblem, type Prior, type Problem } from './problem.ts';
+import { canonicalize, finiteDifferenceProblem, makeProblem, type Prior, type Problem } from './problem.ts';
 import { FitRefusal } from './refusal.ts';
 import type { CheckedRequest, CheckedStar } from './request.ts';
 
@@ -21,6 +21,8 @@ export interface Solution {
   lm: LmResult;
   /** Covariance of the free parameters (internal units), in the order of problem.free. */
   covariance: number[][];
+  /** Per star, the period range searched (days): the sampler's prior bounds on P. */
+  periodRanges: { min: number; max: number }[];
 }
 
 interface Built {
@@ -104,10 +106,14 @@ function refuseSinglePhase(L: Layout, theta: Float64Array): void {
   });
 }
 
-function lmOn(b: Built, theta0: Float64Array, req: CheckedRequest): { problem: Problem; lm: LmResult; theta: Float64Array } {
+/** How LM takes its derivatives: analytic (the default), or by central differences (the benchmark's baseline). */
+export type DerivativeMode = 'analytic' | 'finite-difference';
+
+export function lmOn(b: Built, theta0: Float64Array, req: CheckedRequest, mode: DerivativeMode): { problem: Problem; lm: LmResult; theta: Float64Array } {
   for (let j = 0; j < theta0.length; j++) if (b.fixedMask[j]) theta0[j] = b.base[j]!;
   canonicalize(b.L, theta0);
-  const problem = makeProblem(b.L, theta0, b.free, b.priors);
+  const analytic = makeProblem(b.L, theta0, b.free, b.priors);
+  const problem = mode === 'analytic' ? analytic : finiteDifferenceProblem(analytic);
   const lm = levenbergMarquardt(problem, Float64Array.from(b.free, (j) => theta0[j]!), { loss: req.loss });
   return { problem, lm, theta: problem.full(lm.x) };
 }
@@ -118,8 +124,8 @@ function covarianceOf(problem: Problem, lm: LmResult, req: CheckedRequest): numb
   return covarianceFromJacobian(J!, problem.rows, problem.n, req.loss === 'huber' ? lm.weights : null, names);
 }
 
-/** The start vector of a single-star layout from a grid node. */
-function startFromNode(b: Built, node: GridNode): Float64Array {
+/** The start vector of a single-star layout from a grid node (exported for the benchmark). */
+export function startFromNode(b: Built, node: GridNode): Float64Array {
   const { L } = b;
   const t = new Float64Array(L.params.length);
   const s = L.stars[0]!.slots;
@@ -145,7 +151,7 @@ function startFromNode(b: Built, node: GridNode): Float64Array {
 }
 
 /** Grid + LM for one star alone (its own distance and γ when it has velocities). */
-export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolean, withCovariance = true): Solution {
+export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolean, withCovariance = true, mode: DerivativeMode = 'analytic'): Solution {
   const b = build(req, [star], strict);
   refuseEarly(star, 7);
   if (b.free.length > b.L.components + b.priors.length) {
@@ -168,11 +174,14 @@ export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolea
   }
   let best: ReturnType<typeof lmOn> | null = null;
   for (const node of nodes) {
-    const r = lmOn(b, startFromNode(b, node), req);
+    const r = lmOn(b, startFromNode(b, node), req, mode);
     if (!best || r.lm.cost < best.lm.cost) best = r;
   }
   refuseSinglePhase(b.L, best!.theta);
-  return { L: b.L, problem: best!.problem, theta: best!.theta, lm: best!.lm, covariance: withCovariance ? covarianceOf(best!.problem, best!.lm, req) : [] };
+  return {
+    L: b.L, problem: best!.problem, theta: best!.theta, lm: best!.lm, periodRanges: [periodDays],
+    covariance: withCovariance ? covarianceOf(best!.problem, best!.lm, req) : [],
+  };
 }
 
 function median(xs: number[]): number {
@@ -181,13 +190,13 @@ function median(xs: number[]): number {
 }
 
 /** The fit of a request: one star alone, or all stars jointly around one primary. */
-export function solve(req: CheckedRequest): Solution {
-  if (req.stars.length === 1) return solveStar(req, req.stars[0]!, true);
+export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): Solution {
+  if (req.stars.length === 1) return solveStar(req, req.stars[0]!, true, true, mode);
   const b = build(req, req.stars, true);
   if (b.free.length > b.L.components + b.priors.length) {
     throw new FitRefusal('too-few-measurements', `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`);
   }
-  const singles = req.stars.map((s) => solveStar(req, s, false, false));
+  const singles = req.stars.map((s) => solveStar(req, s, false, false, mode));
   const { L } = b;
   const t = new Float64Array(L.params.length);
   const ds = singles.filter((s) => s.L.stars[0]!.hasRv).map((s) => s.theta[s.L.sys.d]!);
@@ -211,7 +220,7 @@ export function solve(req: CheckedRequest): Solution {
   for (const key of ['x0', 'y0', 'vx', 'vy'] as const) {
     if (L.sys[key] >= 0) t[L.sys[key]] = singles.reduce((a, s) => a + s.theta[s.L.sys[key]]!, 0) / singles.length;
   }
-  const r = lmOn(b, t, req);
+  const r = lmOn(b, t, req, mode);
   refuseSinglePhase(L, r.theta);
-  return { L, problem: r.problem, theta: r.theta, lm: r.lm, covariance: covarianceOf(r.problem, r.lm, req) };
+  return { L, problem: r.problem, theta: r.theta, lm: r.lm, covariance: covarianceOf(r.problem, r.lm, req), periodRanges: singles.map((s) => s.periodRanges[0]!) };
 }
