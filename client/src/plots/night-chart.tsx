@@ -33,7 +33,7 @@ export function nightSpan(vis: Visibility): [number, number] {
 
 export function NightChart(props: NightChartProps) {
   const { vis, mode } = props;
-  const width = props.width ?? 760;
+  const width = props.width ?? 1100;
   const plotH = 250;
   const height = M.top + plotH + LANE + M.bottom;
   const [t0, t1] = nightSpan(vis);
@@ -63,9 +63,10 @@ export function NightChart(props: NightChartProps) {
       ) : null}
       <g class="grid">{hours.map((h) => <line key={h} x1={x(h)} x2={x(h)} y1={M.top} y2={M.top + plotH} />)}</g>
       {limit !== undefined && <line class="limit-line" x1={M.left} x2={width - M.right} y1={y(limit)} y2={y(limit)}><title>{mode === 'altitude' ? `altitude limit ${limit.toFixed(1)}°` : `airmass limit ${limit}`}</title></line>}
+      <clipPath id="night-plot-area"><rect x={M.left} y={M.top} width={width - M.left - M.right} height={plotH} /></clipPath>
       {vis.targets.map((t, i) =>
         t.curve ? (
-          <g class={`series s${i % 6}`} key={t.name}>
+          <g class={`series s${i % 6}`} key={t.name} clip-path="url(#night-plot-area)">
             <path stroke-dasharray={SERIES_DASH[i % 6]} d={t.curve.utc.map((u, k) => `${k ? 'L' : 'M'}${x(ms(u)).toFixed(1)},${y(Math.max(mode === 'altitude' ? 0 : 1, value(t.curve!.altitudeDeg[k] ?? 0, t.curve!.airmass[k] ?? null))).toFixed(1)}`).join('')} />
             <title>{t.name}</title>
           </g>

@@ -33,8 +33,10 @@ export function ticks(lo: number, hi: number, count = 5): number[] {
   const a = Math.min(lo, hi);
   const b = Math.max(lo, hi);
   const step = niceStep(a, b, count);
+  // Integer multiples of the step, rounded to the step's decimals (no accumulated error).
+  const decimals = Math.max(0, -Math.floor(Math.log10(step)));
   const out: number[] = [];
-  for (let v = Math.ceil(a / step - 1e-9) * step; v <= b + step * 1e-9; v += step) out.push(Math.abs(v) < step * 1e-9 ? 0 : Number(v.toPrecision(12)));
+  for (let k = Math.ceil(a / step); k * step <= b; k++) out.push(Number((k * step).toFixed(decimals)) || 0);
   return out;
 }
 

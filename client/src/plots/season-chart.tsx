@@ -20,7 +20,7 @@ export interface SeasonChartProps {
   width?: number;
 }
 
-const M = { left: 110, right: 14, top: 10, bottom: 34 };
+const M = { left: 150, right: 14, top: 10, bottom: 34 };
 const ROW = 52;
 const MONTHS = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
 

@@ -52,6 +52,16 @@ export function measurementPoint(m: { id: number; epoch: string; kind: string; d
   return null;
 }
 
+/** Mark which points get a text label: each at least `minPx` from every labelled one before it. */
+export function labelSpaced<T extends { px: number; py: number }>(points: T[], minPx: number): (T & { label: boolean })[] {
+  const kept: T[] = [];
+  return points.map((p) => {
+    const label = kept.every((k) => Math.hypot(k.px - p.px, k.py - p.py) >= minPx);
+    if (label) kept.push(p);
+    return { ...p, label };
+  });
+}
+
 export function SkyPlanePlot(props: SkyPlaneProps) {
   const width = props.width ?? 560;
   const height = Math.round(width * 0.92);
@@ -82,10 +92,11 @@ export function SkyPlanePlot(props: SkyPlaneProps) {
       </g>
       <path class="track" d={path} />
       <g class="primary"><path d={`M${x(0) - 6},${y(0)}h12M${x(0)},${y(0) - 6}v12`} /><title>primary</title></g>
-      {props.dateTicks.map((t) => (
+      {labelSpaced(props.dateTicks.map((t) => ({ t, px: x(t.dRaMas), py: y(t.dDecMas) })), 16).map(({ t, px, py, label }) => (
         <g class="date-tick" key={t.epoch}>
-          <circle cx={x(t.dRaMas)} cy={y(t.dDecMas)} r="2.5" />
-          <text x={x(t.dRaMas) + 5} y={y(t.dDecMas) - 5}>{t.epoch.slice(0, 4)}</text>
+          <circle cx={px} cy={py} r="2.5" />
+          {label && <text x={px + 5} y={py - 5}>{t.epoch.slice(0, 4)}</text>}
+          <title>{t.epoch.slice(0, 10)}</title>
         </g>
       ))}
       {props.periapsis && (

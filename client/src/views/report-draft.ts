@@ -62,7 +62,7 @@ export function formOf(report: ReportRow | null, blockIds: number[]): ReportForm
 /** The request body for a form: empty number fields become null; blocks without a status are not reported. */
 export function bodyOf(form: ReportForm) {
   const num = (s: string) => (s.trim() === '' ? null : Number(s));
-  const conditions = Object.fromEntries(CONDITION_FIELDS.map((f) => [f.key, num(form.conditions[f.key])]));
+  const conditions = Object.fromEntries(CONDITION_FIELDS.map((f) => [f.key, num(form.conditions[f.key])])) as Record<ConditionKey, number | null>;
   const outcomes: Outcome[] = Object.entries(form.outcomes)
     .filter(([, o]) => o.status)
     .map(([id, o]) => ({ blockId: Number(id), status: o.status, exposureMinutes: num(o.exposureMinutes), notes: o.notes }));

@@ -30,7 +30,7 @@ function SiteSeason({ cat, campaign, siteId, year, nights, blocks }: { cat: Cata
       hoursPerNight: t.hoursPerNight,
       periapsisDates: t.periapses.map((p) => (p.epoch ?? p.date ?? '').slice(0, 10)).filter(Boolean),
       plannedDates: planned,
-      seasonText: t.season ? `${t.season.start.slice(5)} to ${t.season.end.slice(5)}, ${t.season.usableNights} nights` : 'not observable',
+      seasonText: t.season ? `${t.season.start.slice(5)} → ${t.season.end.slice(5)} · ${t.season.usableNights} nights` : 'not observable',
     };
   });
   return (

@@ -5,7 +5,8 @@
  */
 import { getAll, send } from '../api/client.ts';
 import type { Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, MeasurementRow, Prediction, SolutionRow } from '../api/types.ts';
+import type { BlockRow, MeasurementRow, OrbitEvent, Prediction, SolutionRow } from '../api/types.ts';
+import { get } from '../api/client.ts';
 import { yearOf } from '../plots/rv-curve.tsx';
 
 const DAY = 86_400_000;
@@ -19,6 +20,8 @@ export interface TargetData {
   ticks: Prediction[];
   atMeasurement: Map<number, Prediction>;
   atPlanned: Prediction[];
+  /** Periapsis passages inside the plotted span (from the events endpoint, not the closest sampled point). */
+  periapses: Prediction[];
   rvPlain: Prediction[] | null;
   periodYears: number | null;
 }
@@ -27,7 +30,7 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
   const solution = cat.currentSolution(targetId);
   const [measurements, blocks] = await Promise.all([getAll<MeasurementRow>('/measurements', { targetId }), getAll<BlockRow>('/blocks', { targetId, from: new Date().toISOString() })]);
   const planned = blocks.filter((b) => b.status === 'planned');
-  const empty = { solution, measurements, planned, track: [], ticks: [], atMeasurement: new Map(), atPlanned: [], rvPlain: null, periodYears: null };
+  const empty = { solution, measurements, planned, track: [], ticks: [], atMeasurement: new Map(), atPlanned: [], periapses: [], rvPlain: null, periodYears: null };
   if (!solution) return empty;
   const periodYears = Number(solution.orbit.elements.periodYears);
   if (!Number.isFinite(periodYears) || periodYears <= 0) return empty;
@@ -45,7 +48,9 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
   for (let y = y0; y <= y1; y += every) ticks.push(`${y}-01-01T00:00:00Z`);
   const mEpochs = measurements.map((m) => m.epoch);
   const pEpochs = planned.map((b) => new Date((Date.parse(b.startUtc) + Date.parse(b.endUtc)) / 2).toISOString());
-  const epochs = [...track, ...ticks, ...mEpochs, ...pEpochs];
+  const events = await get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, { start: new Date(t0).toISOString(), end: new Date(t1).toISOString(), kinds: 'periapsis' });
+  const periEpochs = events.events.map((e) => e.epoch);
+  const epochs = [...track, ...ticks, ...mEpochs, ...pEpochs, ...periEpochs];
   const hasRelativity = Object.values(solution.orbit.relativity ?? {}).some(Boolean);
   const [main, plain] = await Promise.all([
     send<{ predictions: Prediction[] }>('POST', '/ephemeris', { orbit: solution.orbit, epochs }),
@@ -58,6 +63,7 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
   const tickP = take(ticks.length);
   const mP = take(mEpochs.length);
   const plP = take(pEpochs.length);
+  const periP = take(periEpochs.length);
   return {
     solution,
     measurements,
@@ -66,6 +72,7 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
     ticks: tickP,
     atMeasurement: new Map(measurements.map((m, i) => [m.id, mP[i]!])),
     atPlanned: plP,
+    periapses: periP,
     rvPlain: plain?.predictions ?? null,
     periodYears,
   };

@@ -22,14 +22,15 @@ function SkyPanel({ d }: { d: TargetData }) {
     const pred = d.atMeasurement.get(m.id);
     if (p) ms.push({ ...p, ...(pred ? { predicted: { dRaMas: pred.dRaMas, dDecMas: pred.dDecMas } } : {}) });
   }
-  const peri = d.track.reduce<(typeof d.track)[number] | undefined>((best, p) => (!best || p.separationMas < best.separationMas ? p : best), undefined);
+  // The passage nearest to now when the plotted span holds more than one.
+  const peri = [...d.periapses].sort((a, b) => Math.abs(Date.parse(a.epoch) - Date.now()) - Math.abs(Date.parse(b.epoch) - Date.now()))[0];
   const astro = d.measurements.map((m) => ({ m, r: astrometricResidual(m, d.atMeasurement.get(m.id)) })).filter((x) => x.r);
   const rms = astro.length ? Math.sqrt(astro.reduce((s, x) => s + x.r!.dRa ** 2 + x.r!.dDec ** 2, 0) / astro.length) : null;
   return (
     <>
       <SkyPlanePlot track={d.track} dateTicks={d.ticks} periapsis={peri} measurements={ms} planned={d.atPlanned} title="predicted track and measurements on the sky, north up, east left" />
       <p class="legend">
-        <span class="key key-track" /> predicted track (current solution) · <span class="key key-meas" /> measurement with 1σ error ellipse · <span class="key key-resid" /> residual (predicted → measured) · <span class="key key-plan" /> planned epoch · ◆ periapsis on the plotted track (closest sampled point)
+        <span class="key key-track" /> predicted track (current solution) · <span class="key key-meas" /> measurement with 1σ error ellipse · <span class="key key-resid" /> residual (predicted → measured) · <span class="key key-plan" /> planned epoch · ◆ periapsis (true anomaly 0)
         {rms !== null && <> · RMS astrometric residual <Qty v={rms} unit="mas" digits={2} /> over {astro.length} measurements</>}
       </p>
     </>
