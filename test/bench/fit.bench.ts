@@ -19,7 +19,7 @@ function star(name: string, periodYears: number, periapsis: string, e: number, i
   const semiMajorAxisArcsec = Math.cbrt(MASS * periodYears ** 2) / DISTANCE;
   const truth = { elements: { periodYears, periapsis, eccentricity: e, semiMajorAxisArcsec, inclinationDeg: i, ascendingNodeDeg: node, argPeriapsisDeg: arg }, distancePc: DISTANCE, systemicVelocityKmS: 0 };
   const r = new SeededRandom(seed);
-  const measurements = simulate(truth, { astrometryJd: epochs(J2012, 14 * 365.25, nAst, r, 10), sigmaMas: 0.4, velocityJd: epochs(J2012 + 30, 13.5 * 365.25, nRv, r, 10), sigmaKmS: 12 }, seed + 1);
+  const measurements = simulate(truth, { astrometryJd: epochs(J2012, 14 * 365.25, nAst, r, 10), sigmaMas: 0.4, velocityJd: epochs(J2012 + 30, 13.5 * 365.25, nRv, r, 10), sigmaRadialVelocityKmS: 12 }, seed + 1);
   return { name, measurements, hints: { periodYears: { min: periodYears * 0.85, max: periodYears * 1.2 } } };
 }
 

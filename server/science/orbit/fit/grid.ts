@@ -104,8 +104,8 @@ function solveSmall(N: Float64Array, b: Float64Array, n: number): boolean {
 
 /** Astrometric components as (Δα*, Δδ) with σ, separations converted (a start needs no more). */
 function cartesian(obs: Observation[]): { jd: number; x: number; y: number; wx: number; wy: number }[] {
-  return obs.filter((o) => o.kind !== 'rv').map((o) => {
-    if (o.kind === 'offset') return { jd: o.jd, x: o.value[0], y: o.value[1], wx: 1 / o.sigma[0] ** 2, wy: 1 / o.sigma[1] ** 2 };
+  return obs.filter((o) => o.kind !== 'radial-velocity').map((o) => {
+    if (o.kind === 'offsets') return { jd: o.jd, x: o.value[0], y: o.value[1], wx: 1 / o.sigma[0] ** 2, wy: 1 / o.sigma[1] ** 2 };
     const [rho, th] = o.value;
     const s = Math.max(o.sigma[0], rho * o.sigma[1]);
     return { jd: o.jd, x: rho * Math.sin(th), y: rho * Math.cos(th), wx: 1 / (s * s), wy: 1 / (s * s) };
@@ -114,7 +114,7 @@ function cartesian(obs: Observation[]): { jd: number; x: number; y: number; wx: 
 
 export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const ast = cartesian(obs);
-  const rv = obs.filter((m) => m.kind === 'rv');
+  const rv = obs.filter((m) => m.kind === 'radial-velocity');
   const all = obs.map((m) => m.jd);
   const t0 = Math.min(...all), t1 = Math.max(...all);
   const span = Math.max(t1 - t0, 1e-3);

@@ -103,7 +103,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
     return params.length - 1;
   };
   const massMode = stars.length > 1;
-  const anyRv = stars.some((s) => s.obs.some((m) => m.kind === 'rv'));
+  const anyRv = stars.some((s) => s.obs.some((m) => m.kind === 'radial-velocity'));
   const anyRel = Object.values(o.relativity).some((v) => v);
   const needD = anyRv || anyRel || massMode || o.distanceWanted;
   const sys = {
@@ -118,7 +118,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
   let first = 0;
   const starLayouts = stars.map((s, k): StarLayout => {
     const prefix = `${s.name}.`;
-    const hasRv = s.obs.some((m) => m.kind === 'rv');
+    const hasRv = s.obs.some((m) => m.kind === 'radial-velocity');
     const orientation = !massMode && !hasRv && !anyRel ? 'thiele-innes' : 'campbell';
     const ti = orientation === 'thiele-innes';
     const slots: StarSlots = {
@@ -134,10 +134,10 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
       F: ti ? add('fArcsec', k, prefix) : -1,
       G: ti ? add('gArcsec', k, prefix) : -1,
     };
-    const components = s.obs.reduce((n, m) => n + (m.kind === 'rv' ? 1 : 2), 0);
+    const components = s.obs.reduce((n, m) => n + (m.kind === 'radial-velocity' ? 1 : 2), 0);
     const out: StarLayout = {
       name: s.name, obs: s.obs, jd: Float64Array.from(s.obs, (m) => m.jd), hasRv,
-      hasAstrometry: s.obs.some((m) => m.kind !== 'rv'), orientation, slots, firstComponent: first,
+      hasAstrometry: s.obs.some((m) => m.kind !== 'radial-velocity'), orientation, slots, firstComponent: first,
     };
     first += components;
     return out;

@@ -7,7 +7,7 @@ import { InputError, requireFinite } from '../../errors.ts';
 import { parseEpoch } from '../../time/index.ts';
 import type { MeasurementInput } from './types.ts';
 
-export type ObsKind = 'offset' | 'separation' | 'rv';
+export type ObsKind = 'offsets' | 'separation' | 'radial-velocity';
 
 /** One measurement in internal units. Components: offset [Δα*, Δδ] mas; separation [ρ mas, θ rad]; rv [v km/s]. */
 export interface Observation {
@@ -46,13 +46,13 @@ export function readMeasurements(list: unknown, prefix: string): Observation[] {
     const jd = epochOf(`${p}.epoch`, m.epoch);
     const kind = m.kind as MeasurementInput['kind'] | undefined;
     switch (kind) {
-      case 'offset': {
+      case 'offsets': {
         const rho = m.correlation === undefined ? 0 : requireFinite(`${p}.correlation`, m.correlation);
         if (!(rho > -1 && rho < 1)) throw new InputError(`${p}.correlation`, rho, 'must satisfy −1 < ρ < 1');
         return {
           kind, index: k, id, jd, rho,
           value: [requireFinite(`${p}.dRaMas`, m.dRaMas), requireFinite(`${p}.dDecMas`, m.dDecMas)],
-          sigma: [positive(`${p}.sigmaRaMas`, m.sigmaRaMas), positive(`${p}.sigmaDecMas`, m.sigmaDecMas)],
+          sigma: [positive(`${p}.sigmaDRaMas`, m.sigmaDRaMas), positive(`${p}.sigmaDDecMas`, m.sigmaDDecMas)],
         };
       }
       case 'separation': {
@@ -64,19 +64,19 @@ export function readMeasurements(list: unknown, prefix: string): Observation[] {
           sigma: [positive(`${p}.sigmaSeparationMas`, m.sigmaSeparationMas), positive(`${p}.sigmaPositionAngleDeg`, m.sigmaPositionAngleDeg) * DEG],
         };
       }
-      case 'rv':
+      case 'radial-velocity':
         return {
           kind, index: k, id, jd, rho: 0,
-          value: [requireFinite(`${p}.velocityKmS`, m.velocityKmS), 0],
-          sigma: [positive(`${p}.sigmaKmS`, m.sigmaKmS), 1],
+          value: [requireFinite(`${p}.radialVelocityKmS`, m.radialVelocityKmS), 0],
+          sigma: [positive(`${p}.sigmaRadialVelocityKmS`, m.sigmaRadialVelocityKmS), 1],
         };
       default:
-        throw new InputError(`${p}.kind`, m.kind, 'must be "offset", "separation" or "rv"');
+        throw new InputError(`${p}.kind`, m.kind, 'must be "offsets", "separation" or "radial-velocity"');
     }
   });
 }
 
 /** Number of residual components a measurement contributes. */
 export function componentCount(o: Observation): number {
-  return o.kind === 'rv' ? 1 : 2;
+  return o.kind === 'radial-velocity' ? 1 : 2;
 }

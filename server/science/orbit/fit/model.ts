@@ -71,7 +71,7 @@ export function angleComponents(L: Layout): Uint8Array {
     let c = s.firstComponent;
     for (const m of s.obs) {
       if (m.kind === 'separation') mask[c + 1] = 1;
-      c += m.kind === 'rv' ? 1 : 2;
+      c += m.kind === 'radial-velocity' ? 1 : 2;
     }
   }
   return mask;
@@ -105,11 +105,11 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
     for (let m = 0; m < star.obs.length; m++) {
       const ob = star.obs[m]!;
       const tau = (ob.jd - L.frameEpochJd) / JULIAN_YEAR_DAYS;
-      if (ob.kind === 'rv') {
+      if (ob.kind === 'radial-velocity') {
         values[row] = cols.radialVelocityKmS[m]!;
       } else {
         const x = cols.dRaMas[m]! + x0 + vx * tau, y = cols.dDecMas[m]! + y0 + vy * tau;
-        if (ob.kind === 'offset') {
+        if (ob.kind === 'offsets') {
           values[row] = x;
           values[row + 1] = y;
         } else {
@@ -126,7 +126,7 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
         const dEdP = -Mfull / P / D, dEdT = -n / D, dEde = sE / D;
         const X = cE - e, Y = sq * sE;
         const dXdE = -sE, dYdE = sq * cE, dYde = (-e / sq) * sE;
-        if (ob.kind !== 'rv') {
+        if (ob.kind !== 'radial-velocity') {
           // Δδ = A X + F Y, Δα* = B X + G Y.
           gy[s.P] = (A * dXdE + F * dYdE) * dEdP;
           gx[s.P] = (B * dXdE + G * dYdE) * dEdP;
@@ -167,9 +167,9 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
           addSize(L, theta, k, gv, vk / a, a);
         }
         const base = row * np;
-        if (ob.kind === 'rv') {
+        if (ob.kind === 'radial-velocity') {
           deriv.set(gv, base);
-        } else if (ob.kind === 'offset') {
+        } else if (ob.kind === 'offsets') {
           deriv.set(gx, base);
           deriv.set(gy, base + np);
         } else {
@@ -181,7 +181,7 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
           }
         }
       }
-      row += ob.kind === 'rv' ? 1 : 2;
+      row += ob.kind === 'radial-velocity' ? 1 : 2;
     }
   }
   return { values, deriv };

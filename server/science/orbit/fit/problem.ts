@@ -37,7 +37,7 @@ export function whiten(L: Layout, theta: Float64Array, free: number[], priors: P
   for (const star of L.stars) {
     let c = star.firstComponent;
     for (const m of star.obs) {
-      if (m.kind === 'rv') {
+      if (m.kind === 'radial-velocity') {
         r[c] = (values[c]! - m.value[0]) / m.sigma[0];
         if (J) for (let j = 0; j < nf; j++) J[c * nf + j] = pick(c, j) / m.sigma[0];
         c += 1;

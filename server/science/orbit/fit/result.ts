@@ -123,7 +123,7 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
     let chi2 = 0, comps = 0;
     let c = s.firstComponent;
     for (const m of s.obs) {
-      const n = m.kind === 'rv' ? 1 : 2;
+      const n = m.kind === 'radial-velocity' ? 1 : 2;
       const res: number[] = [], norm: number[] = [];
       let outlier = false;
       for (let q = 0; q < n; q++) {

@@ -35,7 +35,7 @@ interface Built {
 
 /** Layout, fixed values and priors for some of the request's stars. `strict`: unknown names are errors. */
 export function build(req: CheckedRequest, stars: CheckedStar[], strict: boolean): Built {
-  const ast = req.stars.flatMap((s) => s.obs.filter((m) => m.kind !== 'rv').map((m) => m.jd));
+  const ast = req.stars.flatMap((s) => s.obs.filter((m) => m.kind !== 'radial-velocity').map((m) => m.jd));
   const frameEpochJd = req.frameEpochJd ?? (ast.length ? ast.reduce((a, b) => a + b, 0) / ast.length : 0);
   const distanceWanted = req.fixed.some(([k]) => k === 'distancePc') || req.priors.some(([k]) => k === 'distancePc');
   const L = buildLayout(stars, { relativity: req.relativity, frameOffset: req.frameOffset, frameDrift: req.frameDrift, frameEpochJd, distanceWanted });
@@ -65,12 +65,12 @@ export function build(req: CheckedRequest, stars: CheckedStar[], strict: boolean
 }
 
 function components(star: CheckedStar): number {
-  return star.obs.reduce((n, m) => n + (m.kind === 'rv' ? 1 : 2), 0);
+  return star.obs.reduce((n, m) => n + (m.kind === 'radial-velocity' ? 1 : 2), 0);
 }
 
 /** The refusals that need no fit: no astrometry, too few measurements, one epoch. */
 function refuseEarly(star: CheckedStar, ownParams: number): void {
-  const ast = star.obs.filter((m) => m.kind !== 'rv');
+  const ast = star.obs.filter((m) => m.kind !== 'radial-velocity');
   if (ast.length === 0) {
     throw new FitRefusal('no-astrometry', `star ${star.name}: no astrometric measurement; radial velocities alone give a·sin i, not the orbit on the sky — add offsets or separations`, [star.name]);
   }

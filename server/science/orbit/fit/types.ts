@@ -6,15 +6,15 @@ import type { RelativitySwitches } from '../types.ts';
 
 /** An astrometric offset of the star from the primary's reference point. */
 export interface OffsetInput {
-  kind: 'offset';
+  kind: 'offsets';
   /** Epoch: ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number. */
   epoch: string | number;
   /** Δα* = Δα·cos δ, east positive, mas. */
   dRaMas: number;
   /** Δδ, north positive, mas. */
   dDecMas: number;
-  sigmaRaMas: number;
-  sigmaDecMas: number;
+  sigmaDRaMas: number;
+  sigmaDDecMas: number;
   /** Correlation of the Δα* and Δδ errors, −1 < ρ < 1. Default 0. */
   correlation?: number;
   /** The caller's identifier, echoed in the residuals. */
@@ -35,10 +35,10 @@ export interface SeparationInput {
 
 /** A radial velocity of the star, km/s, positive receding. */
 export interface VelocityInput {
-  kind: 'rv';
+  kind: 'radial-velocity';
   epoch: string | number;
-  velocityKmS: number;
-  sigmaKmS: number;
+  radialVelocityKmS: number;
+  sigmaRadialVelocityKmS: number;
   id?: string;
 }
 

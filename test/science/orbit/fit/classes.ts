@@ -41,7 +41,7 @@ function plan(truth: OrbitInput, make: (r: SeededRandom) => Parameters<typeof si
 export const CLASSES: Record<string, OrbitClass> = {
   eccentric: {
     name: 'eccentric (e = 0.6)', truth: eccentricTruth, hints: { periodYears: { min: 10, max: 14.5 } },
-    measurements: plan(eccentricTruth, (r) => ({ astrometryJd: epochs(J2015, 14 * YR, 30, r, 30), sigmaMas: 1, velocityJd: epochs(J2015 + 200, 12 * YR, 20, r, 30), sigmaKmS: 0.3 })),
+    measurements: plan(eccentricTruth, (r) => ({ astrometryJd: epochs(J2015, 14 * YR, 30, r, 30), sigmaMas: 1, velocityJd: epochs(J2015 + 200, 12 * YR, 20, r, 30), sigmaRadialVelocityKmS: 0.3 })),
   },
   circular: {
     name: 'near-circular (e = 0.03)', truth: circularTruth, hints: { periodYears: { min: 6.5, max: 10 } },
@@ -49,7 +49,7 @@ export const CLASSES: Record<string, OrbitClass> = {
   },
   edgeOn: {
     name: 'edge-on (i = 90°)', truth: edgeOnTruth, hints: { periodYears: { min: 8, max: 12 } },
-    measurements: plan(edgeOnTruth, (r) => ({ astrometryJd: epochs(J2015, 12 * YR, 30, r, 30), sigmaMas: 0.8, velocityJd: epochs(J2015 + 100, 11 * YR, 20, r, 30), sigmaKmS: 0.4 })),
+    measurements: plan(edgeOnTruth, (r) => ({ astrometryJd: epochs(J2015, 12 * YR, 30, r, 30), sigmaMas: 0.8, velocityJd: epochs(J2015 + 100, 11 * YR, 20, r, 30), sigmaRadialVelocityKmS: 0.4 })),
   },
   faceOn: {
     name: 'face-on (i = 0°)', truth: faceOnTruth, hints: { periodYears: { min: 7, max: 11 } },
@@ -59,11 +59,11 @@ export const CLASSES: Record<string, OrbitClass> = {
     name: 'e = 0.92, periapsis well covered', truth: coveredTruth, hints: { periodYears: { min: 12.5, max: 18 } },
     measurements: plan(coveredTruth, (r) => ({
       astrometryJd: [...epochs(J2015, 10 * YR, 16, r, 20), ...epochs(J2015 + 6 * YR, 0.8 * YR, 10, r, 5)].sort((a, b) => a - b),
-      sigmaMas: 0.5, velocityJd: [...epochs(J2015, 10 * YR, 8, r, 20), ...epochs(J2015 + 6.1 * YR, 0.6 * YR, 8, r, 5)], sigmaKmS: 15,
+      sigmaMas: 0.5, velocityJd: [...epochs(J2015, 10 * YR, 8, r, 20), ...epochs(J2015 + 6.1 * YR, 0.6 * YR, 8, r, 5)], sigmaRadialVelocityKmS: 15,
     })),
   },
   uncovered: {
     name: 'e = 0.91, periapsis not covered', truth: uncoveredTruth, hints: { periodYears: { min: 12, max: 26 } },
-    measurements: plan(uncoveredTruth, (r) => ({ astrometryJd: epochs(J2015 + 3 * YR, 11 * YR, 26, r, 20), sigmaMas: 0.5, velocityJd: epochs(J2015 + 3 * YR, 11 * YR, 12, r, 20), sigmaKmS: 15 })),
+    measurements: plan(uncoveredTruth, (r) => ({ astrometryJd: epochs(J2015 + 3 * YR, 11 * YR, 26, r, 20), sigmaMas: 0.5, velocityJd: epochs(J2015 + 3 * YR, 11 * YR, 12, r, 20), sigmaRadialVelocityKmS: 15 })),
   },
 };

@@ -17,7 +17,7 @@ const star = (name: string, periodYears: number, e: number, iDeg: number, withRv
   name,
   measurements: simulate(
     { elements: { periodYears, periapsis: 'J2021.3', eccentricity: e, semiMajorAxisArcsec: 0.1 * periodYears ** (2 / 3), inclinationDeg: iDeg, ascendingNodeDeg: 130, argPeriapsisDeg: 250 }, distancePc: 8100, systemicVelocityKmS: 12 },
-    { astrometryJd: epochs(J2020, 3000, 12, rng, 20), sigmaMas: 0.5, polar, correlation: polar ? 0 : 0.3, ...(withRv ? { velocityJd: epochs(J2020 + 100, 2500, 8, rng, 10), sigmaKmS: 8 } : {}) },
+    { astrometryJd: epochs(J2020, 3000, 12, rng, 20), sigmaMas: 0.5, polar, correlation: polar ? 0 : 0.3, ...(withRv ? { velocityJd: epochs(J2020 + 100, 2500, 8, rng, 10), sigmaRadialVelocityKmS: 8 } : {}) },
     11,
   ),
 });

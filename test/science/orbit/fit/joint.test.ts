@@ -17,7 +17,7 @@ function star(name: string, periodYears: number, periapsis: string, e: number, i
   const aArcsec = Math.cbrt(MASS * periodYears ** 2) / DISTANCE; // Kepler's third law: a[au]³ = M P²
   const truth: OrbitInput = { elements: { periodYears, periapsis, eccentricity: e, semiMajorAxisArcsec: aArcsec, inclinationDeg: i, ascendingNodeDeg: node, argPeriapsisDeg: arg }, distancePc: DISTANCE, systemicVelocityKmS: 0 };
   const r = new SeededRandom(seed);
-  const measurements = simulate(truth, { astrometryJd: epochs(J2015, 12 * 365.25, 24, r, 20), sigmaMas: 0.4, velocityJd: epochs(J2015 + 50, 11.5 * 365.25, 12, r, 20), sigmaKmS: 12 }, seed + 1);
+  const measurements = simulate(truth, { astrometryJd: epochs(J2015, 12 * 365.25, 24, r, 20), sigmaMas: 0.4, velocityJd: epochs(J2015 + 50, 11.5 * 365.25, 12, r, 20), sigmaRadialVelocityKmS: 12 }, seed + 1);
   return { input: { name, measurements, hints: { periodYears: { min: periodYears * 0.8, max: periodYears * 1.25 } } }, truth };
 }
 

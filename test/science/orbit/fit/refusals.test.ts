@@ -48,7 +48,7 @@ describe('fit refusals', () => {
 
   it('refuses a singular normal matrix and names what it cannot separate', () => {
     // Velocities from a single epoch cannot tell γ from the distance (which scales the orbital part).
-    const rvNight: MeasurementInput[] = [0, 1, 2].map((k) => ({ kind: 'rv', epoch: J2015 + 1000, velocityKmS: 25 + k * 0.1, sigmaKmS: 0.5 }));
+    const rvNight: MeasurementInput[] = [0, 1, 2].map((k) => ({ kind: 'radial-velocity', epoch: J2015 + 1000, radialVelocityKmS: 25 + k * 0.1, sigmaRadialVelocityKmS: 0.5 }));
     const r = refusal({ stars: [{ name: 'S7', measurements: [...good, ...rvNight], hints: { periodYears: { min: 8, max: 12 } } }] });
     expect(r.reason).toBe('singular');
     expect(r.parameters).toEqual(expect.arrayContaining(['distancePc', 'systemicVelocityKmS']));
@@ -56,7 +56,7 @@ describe('fit refusals', () => {
   });
 
   it('refuses radial velocities without astrometry', () => {
-    const rvOnly: MeasurementInput[] = Array.from({ length: 12 }, (_, k) => ({ kind: 'rv', epoch: J2015 + 100 * k, velocityKmS: 20, sigmaKmS: 1 }));
+    const rvOnly: MeasurementInput[] = Array.from({ length: 12 }, (_, k) => ({ kind: 'radial-velocity', epoch: J2015 + 100 * k, radialVelocityKmS: 20, sigmaRadialVelocityKmS: 1 }));
     expect(refusal({ stars: [{ name: 'S7', measurements: rvOnly }] }).reason).toBe('no-astrometry');
   });
 
@@ -67,12 +67,12 @@ describe('fit refusals', () => {
   });
 
   it('rejects bad input naming the field, the value and the rule', () => {
-    const bad = good.map((m, k) => (k === 2 ? { ...m, sigmaRaMas: 0 } : m));
+    const bad = good.map((m, k) => (k === 2 ? { ...m, sigmaDRaMas: 0 } : m));
     expect(() => fitOrbits({ stars: [{ name: 'S7', measurements: bad }] })).toThrow(InputError);
     try {
       fitOrbits({ stars: [{ name: 'S7', measurements: bad }] });
     } catch (err) {
-      expect((err as InputError).field).toBe('stars.0.measurements.2.sigmaRaMas');
+      expect((err as InputError).field).toBe('stars.0.measurements.2.sigmaDRaMas');
       expect((err as InputError).message).toMatch(/must be greater than 0/);
     }
     expect(() => fitOrbits({ stars: [{ name: 'S7', measurements: good }], fixed: { massSolar: 2 } })).toThrow(/fixed.massSolar: "massSolar" is not a parameter of this fit/);

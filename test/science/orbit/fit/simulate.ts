@@ -12,7 +12,7 @@ export interface SimulationPlan {
   sigmaMas: number;
   /** Radial-velocity epochs (JD) and σ, km/s. */
   velocityJd?: number[];
-  sigmaKmS?: number;
+  sigmaRadialVelocityKmS?: number;
   /** Report astrometry as separation and position angle instead of offsets. */
   polar?: boolean;
   /** Correlation of the Δα*, Δδ errors. */
@@ -40,15 +40,15 @@ export function simulate(truth: OrbitInput, plan: SimulationPlan, seed: number):
     }
     const z1 = rng.normal(), z2 = rng.normal();
     out.push({
-      kind: 'offset', epoch: jd,
+      kind: 'offsets', epoch: jd,
       dRaMas: a.dRaMas[k]! + s * z1,
       dDecMas: a.dDecMas[k]! + s * (rho * z1 + Math.sqrt(1 - rho * rho) * z2),
-      sigmaRaMas: s, sigmaDecMas: s, ...(rho !== 0 ? { correlation: rho } : {}),
+      sigmaDRaMas: s, sigmaDDecMas: s, ...(rho !== 0 ? { correlation: rho } : {}),
     });
   });
   if (plan.velocityJd) {
     const v = predictBatch(orbit, Float64Array.from(plan.velocityJd));
-    plan.velocityJd.forEach((jd, k) => out.push({ kind: 'rv', epoch: jd, velocityKmS: v.radialVelocityKmS[k]! + rng.normal() * plan.sigmaKmS!, sigmaKmS: plan.sigmaKmS! }));
+    plan.velocityJd.forEach((jd, k) => out.push({ kind: 'radial-velocity', epoch: jd, radialVelocityKmS: v.radialVelocityKmS[k]! + rng.normal() * plan.sigmaRadialVelocityKmS!, sigmaRadialVelocityKmS: plan.sigmaRadialVelocityKmS! }));
   }
   return out;
 }
