@@ -2,21 +2,11 @@
  * The `night` and `season` commands end to end through the real CLI entry: table, --json, --csv,
  * and exit code 2 with the field named on bad input. Site and targets are invented.
  */
-import { execFile } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-
-const BIN = join(import.meta.dirname, '../../server/cli/bin.mjs');
-
-function cli(args: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  return new Promise((resolve) => {
-    execFile(process.execPath, [BIN, ...args], { timeout: 60_000 }, (err, stdout, stderr) => {
-      resolve({ code: err ? ((err as { code?: number }).code ?? 1) : 0, stdout, stderr });
-    });
-  });
-}
+import { cli } from './run-cli.ts';
 
 const dir = mkdtempSync(join(tmpdir(), 'epochwright-sky-cli-'));
 const siteFile = join(dir, 'site.json');
