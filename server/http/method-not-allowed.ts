@@ -22,7 +22,7 @@ function pathPattern(path: string): RegExp {
       return seg.replace(/[.*+?^${}()|[\]\\]/g, '\\$&');
     })
     .join('/');
-  return new RegExp(`^${body}/?$`);
+  return new RegExp(`^${body}$`); // hono matches paths strictly: no optional trailing slash
 }
 
 /**
