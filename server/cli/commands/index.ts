@@ -8,6 +8,7 @@ import { accountCommand } from './account.ts';
 import { backupCommand } from './backup.ts';
 import { importCommand } from './import.ts';
 import { exportCommand } from './export.ts';
+import { flagsCommand } from './flags.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
@@ -18,4 +19,5 @@ export const commands: Record<string, Command> = {
   backup: backupCommand,
   import: importCommand,
   export: exportCommand,
+  flags: flagsCommand,
 };

@@ -9,6 +9,7 @@ import { nightReportRoutes } from './night-reports.ts';
 import { nightVisibilityRoutes } from './night-visibility.ts';
 import { blockRoutes, nightRoutes } from './nights.ts';
 import { orbitSolutionRoutes } from './orbit-solutions.ts';
+import { planRoutes } from './plan.ts';
 import { siteRoutes } from './sites.ts';
 import { systemRoutes, targetRoutes } from './systems.ts';
 import { targetViewRoutes } from './target-views.ts';
@@ -18,7 +19,7 @@ export function storeRoutes(store: Store) {
   const app = resourceApp();
   app.use('*', identify(store, { queryTokenPaths: /\/calendar\.ics$/ }));
   app.openAPIRegistry.registerComponent('securitySchemes', 'bearer', { type: 'http', scheme: 'bearer', description: 'a token from `epochwright account add` or POST /api/users' });
-  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, nightVisibilityRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes]) {
+  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, nightVisibilityRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes, planRoutes]) {
     app.route('/', routes(store));
   }
   return app;

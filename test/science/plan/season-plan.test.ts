@@ -90,7 +90,7 @@ describe('expected shrinkage against a refit', () => {
     const simulate = (jds: number[]) => {
       const p = predictBatch(truth, Float64Array.from(jds));
       const kind = offsetKind() as 'offset';
-      return jds.map((jd, k) => ({ kind, epoch: jd, dRaMas: p.dRaMas[k]! + sigma * rng.normal(), dDecMas: p.dDecMas[k]! + sigma * rng.normal(), sigmaRaMas: sigma, sigmaDecMas: sigma, sigmaDRaMas: sigma, sigmaDDecMas: sigma }));
+      return jds.map((jd, k) => ({ kind, epoch: jd, dRaMas: p.dRaMas[k]! + sigma * rng.normal(), dDecMas: p.dDecMas[k]! + sigma * rng.normal(), sigmaRaMas: sigma, sigmaDecMas: sigma, sigmaDRaMas: sigma, sigmaDDecMas: sigma })) as never[];
     };
     const T = truth.periapsisJd;
     const past = simulate(Array.from({ length: 16 }, (_, k) => T - 3000 + k * 170));

@@ -1,0 +1,45 @@
+/** `epochwright flags`: a stored campaign's planning flags, soonest first. */
+import { parseArgs } from 'node:util';
+import type { Flag } from '../../science/plan/index.ts';
+import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
+import { campaignFlags } from '../../store/views/planning.ts';
+import { UsageError, outputFormat, type Command } from '../io.ts';
+import { render, type Column } from '../output.ts';
+import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+
+const help = `usage: epochwright flags --campaign <id> [--at <epoch>] [--resolution <mas>] [--json | --csv]
+
+Warnings for every target of a stored campaign, soonest first: a periapsis ahead (date ± 1σ, lead
+time, observable hours per night at each site, rates of change, relativistic terms), a periapsis no
+site can observe, a blend with another star of the system (with --resolution), a stale prediction.
+
+options:
+  --campaign <id>        the campaign
+  --at <epoch>           compute for this moment (ISO 8601, JD, MJD); default now
+  --resolution <mas>     resolution limit for blend flags
+${DATABASE_HELP}
+  --json | --csv         machine-readable output instead of a table
+`;
+
+export const flagsCommand: Command = {
+  summary: 'periapsis, blend and stale-prediction flags of a stored campaign',
+  help,
+  async run(argv) {
+    const { values } = parseArgs({ args: argv, options: { ...databaseOption, campaign: { type: 'string' }, at: { type: 'string' }, resolution: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } }, strict: true, allowPositionals: false });
+    const format = outputFormat(values);
+    const id = Number(values.campaign);
+    if (values.campaign === undefined || !Number.isInteger(id) || id <= 0) throw new UsageError(`--campaign: ${JSON.stringify(values.campaign ?? null)} must be a campaign id (a positive integer)`);
+    const nowJd = values.at === undefined ? unixMsToJd(Date.now()) : parseEpoch(values.at, '--at');
+    const resolution = values.resolution === undefined ? undefined : Number(values.resolution);
+    if (resolution !== undefined && !(resolution > 0)) throw new UsageError(`--resolution: ${values.resolution} must be a positive number of mas`);
+    const result = await withStore(values.database, (store) => campaignFlags(store.db, id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }));
+    const columns: Column<Flag>[] = [
+      { header: 'date', value: (f) => f.date.slice(0, 10) },
+      { header: 'days_ahead', value: (f) => f.daysAhead, digits: 0 },
+      { header: 'kind', value: (f) => f.kind },
+      { header: 'target', value: (f) => f.target },
+      { header: 'reason', value: (f) => f.reason },
+    ];
+    return render(format, result.flags, columns, result);
+  },
+};

@@ -1,0 +1,26 @@
+/** GET /campaigns/{id}/flags: the planning flags of a stored campaign, soonest first. */
+import { createRoute, z } from '@hono/zod-openapi';
+import type { Store } from '../../store/index.ts';
+import { campaignFlags } from '../../store/views/planning.ts';
+import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
+import { requireRole } from '../auth.ts';
+import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+
+const FlagsQuery = z.object({
+  at: z.string().optional().openapi({ description: 'the moment to compute flags for (ISO 8601, JD, MJD); default now' }),
+  resolutionMas: z.coerce.number().positive().optional().openapi({ description: 'resolution limit for blend flags, mas' }),
+});
+
+export function planRoutes(store: Store) {
+  const app = resourceApp();
+  app.openapi(
+    createRoute({ method: 'get', path: '/campaigns/{id}/flags', tags: ['planning'], security, summary: 'Periapsis, blend and stale-prediction flags of a campaign, soonest first', request: { params: IdParam, query: FlagsQuery }, responses: { 200: json(z.record(z.string(), z.unknown()), 'the flags'), ...errorResponses } }),
+    h(async (c) => {
+      requireRole(c, 'viewer');
+      const q = valid(c, 'query');
+      const nowJd = q.at === undefined ? unixMsToJd(Date.now()) : parseEpoch(q.at, 'at');
+      return c.json(await campaignFlags(store.db, valid(c, 'param').id as number, { nowJd, ...(q.resolutionMas ? { resolutionMas: q.resolutionMas as number } : {}) }), 200);
+    }),
+  );
+  return app;
+}

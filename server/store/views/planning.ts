@@ -1,0 +1,57 @@
+/**
+ * A stored campaign turned into the planners' inputs: its sites (with the campaign's constraints),
+ * its targets placed by their system and current orbit, with their last measurement. Then the
+ * campaign's flags. Systems are taken as ICRS at J2000.0 with their proper motions, as in visibility.ts.
+ */
+import { eq, inArray, max } from 'drizzle-orm';
+import { measurements, sites as sitesTable, systems, targets as targetsTable } from '../../../db/schema.ts';
+import { computeFlags, type Flag } from '../../science/plan/index.ts';
+import { validateConstraints, validateSite, validateTarget, type Constraints, type Site, type Target } from '../../science/sky/index.ts';
+import { getById } from '../crud.ts';
+import type { DbOrTx } from '../database.ts';
+import { NotFoundError } from '../errors.ts';
+import { campaignEntity, campaignMembers, type CampaignRow } from '../repos/campaigns.ts';
+import { currentOrbit } from '../repos/orbits.ts';
+
+export interface CampaignPlanningInput {
+  campaign: CampaignRow;
+  sites: { id: number; site: Site; constraints: Constraints; laserGuideStar: boolean }[];
+  targets: { id: number; system: string; target: Target; lastMeasuredJd: number | null }[];
+}
+
+export async function campaignPlanningInput(db: DbOrTx, campaignId: number): Promise<CampaignPlanningInput> {
+  const campaign = await getById(db, campaignEntity, campaignId);
+  const { targetIds, siteIds } = await campaignMembers(db, campaignId);
+  const c = campaign.constraints ?? {};
+  const siteRows = siteIds.length ? await db.select().from(sitesTable).where(inArray(sitesTable.id, siteIds)) : [];
+  const sites = siteRows.map((row) => {
+    const site = validateSite(row, `sites.${row.id}`);
+    const constraints = validateConstraints({ ...(c.darkness ? { darkness: c.darkness } : {}), ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}), ...(c.minMoonSeparationDeg !== undefined ? { minMoonSeparationDeg: c.minMoonSeparationDeg } : {}), minAltitudeDeg: row.minAltitudeDeg }, site, 'constraints');
+    return { id: row.id, site, constraints, laserGuideStar: row.laserGuideStar };
+  });
+  const rows = targetIds.length ? await db.select({ t: targetsTable, s: systems }).from(targetsTable).innerJoin(systems, eq(systems.id, targetsTable.systemId)).where(inArray(targetsTable.id, targetIds)) : [];
+  const last = targetIds.length ? await db.select({ id: measurements.targetId, jd: max(measurements.epochJd) }).from(measurements).where(inArray(measurements.targetId, targetIds)).groupBy(measurements.targetId) : [];
+  const targets = [];
+  for (const { t, s } of rows) {
+    let orbit;
+    try {
+      orbit = (await currentOrbit(db, t.id)).solution.orbit;
+    } catch (err) {
+      if (!(err instanceof NotFoundError)) throw err;
+    }
+    const target = validateTarget({ name: t.name, raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, ...(orbit ? { orbit } : {}) }, `targets.${t.id}`);
+    targets.push({ id: t.id, system: s.name, target, lastMeasuredJd: last.find((l) => l.id === t.id)?.jd ?? null });
+  }
+  return { campaign, sites, targets };
+}
+
+/** The campaign's flags now (or at `nowJd`). */
+export async function campaignFlags(db: DbOrTx, campaignId: number, options: { nowJd: number; resolutionMas?: number }): Promise<{ campaignId: number; flags: Flag[] }> {
+  const input = await campaignPlanningInput(db, campaignId);
+  const flags = computeFlags(
+    input.targets.map((t) => ({ target: t.target, system: t.system, cadenceDays: input.campaign.goals.cadenceDays, lastMeasuredJd: t.lastMeasuredJd })),
+    input.sites,
+    { nowJd: options.nowJd, leadDays: [30, 182, 365], ...(options.resolutionMas ? { resolutionMas: options.resolutionMas } : {}) },
+  );
+  return { campaignId, flags };
+}
