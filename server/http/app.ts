@@ -8,6 +8,7 @@ import { healthRoutes } from './health.ts';
 import { methodNotAllowed } from './method-not-allowed.ts';
 import { orbitRoutes } from './orbit.ts';
 import { skyRoutes } from './sky.ts';
+import { fitRoutes } from './fit.ts';
 import { storeRoutes } from './resources/index.ts';
 import { mountClient } from './client-static.ts';
 import type { Store } from '../store/index.ts';
@@ -42,6 +43,7 @@ export function createApp(options: AppOptions = {}) {
   api.route('/', orbitRoutes());
   api.route('/', skyRoutes());
   if (options.store) api.route('/', storeRoutes(options.store));
+  api.route('/', fitRoutes(options.store));
   api.doc31('/openapi.json', { openapi: '3.1.0', info: { title: 'epochwright API', version: VERSION } });
   app.route('/api', api);
   app.all('/api/*', methodNotAllowed(app));

@@ -27,7 +27,7 @@ export interface CheckedRequest {
   sample: Required<SamplerOptions> | null;
 }
 
-const NAME_RE = /^[A-Za-z0-9][A-Za-z0-9_.-]{0,39}$/;
+const NAME_RE = /^[^\s\p{Cc}][^\p{Cc}]{0,79}$/u;
 const SWITCHES = ['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession'] as const;
 
 function epoch(field: string, v: unknown): number {
@@ -58,7 +58,7 @@ export function checkRequest(req: FitRequest): CheckedRequest {
   const stars = req.stars.map((s, k): CheckedStar => {
     const p = `stars.${k}`;
     if (typeof s !== 'object' || s === null) throw new InputError(p, s, 'must be an object');
-    if (typeof s.name !== 'string' || !NAME_RE.test(s.name)) throw new InputError(`${p}.name`, s.name, 'must be 1–40 letters, digits, "-", "_" or ".", starting with a letter or digit');
+    if (typeof s.name !== 'string' || !NAME_RE.test(s.name)) throw new InputError(`${p}.name`, s.name, 'must be 1–80 characters without control characters, not starting with a space');
     if (names.has(s.name)) throw new InputError(`${p}.name`, s.name, 'appears twice');
     names.add(s.name);
     const hints: StarHints = {};

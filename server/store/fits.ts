@@ -1,0 +1,102 @@
+/**
+ * Fits of stored measurements: gather a target's (or a system's) measurements into a fit request,
+ * with defaults from the current orbit solutions, and accept a fit as new orbit-solution versions
+ * with their provenance, all targets in one transaction. The fit itself is the orbit engine's.
+ */
+import { and, eq, inArray } from 'drizzle-orm';
+import { measurements, orbitSolutions, targets } from '../../db/schema.ts';
+import { InputError } from '../science/errors.ts';
+import { JULIAN_YEAR_DAYS } from '../science/constants.ts';
+import { validateOrbit, type RelativitySwitches } from '../science/orbit/index.ts';
+import type { FitRequest, FitResult, MeasurementInput, StarHints } from '../science/orbit/fit/index.ts';
+import type { Actor } from './audit.ts';
+import { getById } from './crud.ts';
+import type { Store } from './index.ts';
+import type { MeasurementRow } from './repos/measurements.ts';
+import type { OrbitSolutionRow } from './repos/orbits.ts';
+import { systemEntity, targetEntity } from './repos/catalogue.ts';
+
+/** What a stored fit may set; everything else comes from the stored measurements. */
+export type StoredFitOptions = Omit<FitRequest, 'stars'> & {
+  /** Only these measurements (ids); default every measurement of the targets. */
+  measurementIds?: number[];
+  /** Search ranges per target name; default P from 0.75 to 1.35 times the current solution's. */
+  hints?: Record<string, StarHints>;
+};
+
+export interface PreparedFit {
+  request: FitRequest;
+  targets: { id: number; name: string; measurementIds: number[] }[];
+}
+
+function toInput(m: MeasurementRow): MeasurementInput {
+  const common = { epoch: m.epoch, id: String(m.id) };
+  switch (m.kind) {
+    case 'offsets':
+      return { kind: 'offsets', ...common, dRaMas: m.dRaMas!, dDecMas: m.dDecMas!, sigmaDRaMas: m.sigmaDRaMas!, sigmaDDecMas: m.sigmaDDecMas!, ...(m.correlation !== null ? { correlation: m.correlation } : {}) };
+    case 'separation':
+      return { kind: 'separation', ...common, separationMas: m.separationMas!, positionAngleDeg: m.positionAngleDeg!, sigmaSeparationMas: m.sigmaSeparationMas!, sigmaPositionAngleDeg: m.sigmaPositionAngleDeg! };
+    case 'radial-velocity':
+      return { kind: 'radial-velocity', ...common, radialVelocityKmS: m.radialVelocityKmS!, sigmaRadialVelocityKmS: m.sigmaRadialVelocityKmS! };
+  }
+}
+
+/** The targets of a system that have measurements, by id. @throws NotFoundError for an unknown system */
+export async function systemTargetIds(store: Store, systemId: number): Promise<number[]> {
+  await getById(store.db, systemEntity, systemId);
+  const rows = await store.db
+    .selectDistinct({ id: targets.id })
+    .from(targets)
+    .innerJoin(measurements, eq(measurements.targetId, targets.id))
+    .where(eq(targets.systemId, systemId))
+    .orderBy(targets.id);
+  return rows.map((r) => r.id);
+}
+
+/** Build the fit request of the given targets from their stored measurements. */
+export async function prepareStoredFit(store: Store, targetIds: number[], options: StoredFitOptions): Promise<PreparedFit> {
+  if (targetIds.length === 0) throw new InputError('targets', targetIds, 'must name at least one target with measurements');
+  const { measurementIds, hints, ...rest } = options;
+  const rows = await store.db.select().from(measurements).where(inArray(measurements.targetId, targetIds)).orderBy(measurements.epochJd, measurements.id);
+  const chosen = measurementIds ? new Set(measurementIds) : null;
+  measurementIds?.forEach((id, k) => {
+    if (!rows.some((r) => r.id === id)) throw new InputError(`measurementIds.${k}`, id, `is not a measurement of target ${targetIds.join(', ')}`);
+  });
+  const current = await store.db.select().from(orbitSolutions).where(and(inArray(orbitSolutions.targetId, targetIds), eq(orbitSolutions.current, true)));
+  const relativity: Partial<RelativitySwitches> = { ...(rest.relativity ?? {}) };
+  const out: PreparedFit['targets'] = [];
+  const stars: FitRequest['stars'] = [];
+  for (const id of targetIds) {
+    const target = await getById(store.db, targetEntity, id);
+    const mine = rows.filter((r) => r.targetId === id && (!chosen || chosen.has(r.id)));
+    if (mine.length === 0) throw new InputError('targets', id, `target ${target.name} has no measurements to fit`);
+    const sol = current.find((c) => c.targetId === id);
+    let starHints = hints?.[target.name];
+    if (sol) {
+      const orbit = validateOrbit(sol.orbit, 'orbit');
+      const p = orbit.periodDays / JULIAN_YEAR_DAYS;
+      starHints ??= { periodYears: { min: 0.75 * p, max: 1.35 * p } };
+      if (rest.relativity === undefined) for (const [k, v] of Object.entries(orbit.relativity)) if (v) relativity[k as keyof RelativitySwitches] = true;
+    }
+    stars.push({ name: target.name, measurements: mine.map(toInput), ...(starHints ? { hints: starHints } : {}) });
+    out.push({ id, name: target.name, measurementIds: mine.map((r) => r.id) });
+  }
+  return { request: { ...rest, relativity, stars }, targets: out };
+}
+
+/**
+ * Store each fitted star as a new orbit-solution version of its target (provenance "fitted",
+ * the measurements used, method and χ² in the reference), made current; all or none.
+ */
+export async function acceptStoredFit(store: Store, actor: Actor, prepared: PreparedFit, result: FitResult, notes = ''): Promise<OrbitSolutionRow[]> {
+  const when = new Date().toISOString();
+  const reference = `fit ${when}: ${result.derivatives === 'analytic' ? '' : 'relativistic terms on; '}χ² = ${result.chi2.toFixed(2)} for ${result.dof} degrees of freedom${result.reducedChi2 !== null ? ` (χ²/dof = ${result.reducedChi2.toFixed(3)})` : ''}, loss ${result.loss}, ${result.outliers} outlier(s)`;
+  return store.db.transaction(async (tx) => {
+    const rows: OrbitSolutionRow[] = [];
+    for (const [k, t] of prepared.targets.entries()) {
+      const star = result.stars[k]!;
+      rows.push(await store.orbitSolutions.createIn(tx, actor, { targetId: t.id, orbit: star.orbit, provenance: 'fitted', fittedFrom: t.measurementIds, reference: reference.slice(0, 500), notes, makeCurrent: true }));
+    }
+    return rows;
+  });
+}
