@@ -62,3 +62,66 @@ describe('every view opens, shows its content and logs no console error', () => 
     await ctx.close();
   });
 });
+
+describe('views', () => {
+  let ctx: BrowserContext;
+  beforeAll(async () => {
+    ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  });
+  afterAll(async () => ctx.close());
+
+  test('target: sky plane, radial velocity, events, solutions, ephemeris', async () => {
+    const { page, errors } = await open(ctx, '/targets/1');
+    await page.locator('svg.sky-plane .measurement').first().waitFor();
+    await page.locator('svg.rv-curve').waitFor();
+    await page.locator('#events tbody tr').first().waitFor();
+    await page.locator('#ephemeris tbody tr').first().waitFor();
+    await expect(page.locator('#events').textContent()).resolves.toContain('periapsis');
+    await expect(page.locator('#solutions').textContent()).resolves.toContain('current');
+    await shot(page, 'target');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  test('night: chart with twilight bands and blocks, cautions, times in UTC and local', async () => {
+    const nights = await api<{ items: { id: number; date: string; siteId: number }[] }>('/nights?siteId=1&limit=500');
+    const night = nights.items.find((n) => n.date >= '2027-03-01')!;
+    const { page, errors } = await open(ctx, `/nights/${night.id}`);
+    await page.locator('svg.night-chart .series').first().waitFor();
+    expect(await page.locator('svg.night-chart .band.dark').count()).toBeGreaterThan(0);
+    expect(await page.locator('svg.night-chart .block-bar').count()).toBeGreaterThan(0);
+    // Tolvane Ridge runs a laser guide star (demo scenario): its caution is on the page.
+    await expect(page.locator('.caution').allTextContents()).resolves.toEqual(expect.arrayContaining([expect.stringContaining('laser')]));
+    await expect(page.locator('table.blocks thead').textContent()).resolves.toContain('America/Santiago');
+    await shot(page, 'night');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  test('night report', async () => {
+    const reports = await api<{ items: { nightId: number }[] }>('/night-reports?limit=1');
+    const { page, errors } = await open(ctx, `/nights/${reports.items[0]!.nightId}/report`);
+    await page.locator('form.report-form input[name=seeingArcsec]').waitFor();
+    await page.locator('#measurements').waitFor();
+    await shot(page, 'report');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  test('season', async () => {
+    const { page, errors } = await open(ctx, '/season');
+    await page.locator('svg.season-chart .season-row').first().waitFor();
+    await shot(page, 'season');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  test('records', async () => {
+    const { page, errors } = await open(ctx, '/records');
+    await page.locator('#sites table tbody tr').first().waitFor();
+    await expect(page.locator('#import').count()).resolves.toBe(1);
+    await shot(page, 'records');
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});

@@ -1,0 +1,231 @@
+/**
+ * What people do with the client, end to end in chromium against the real server: move and remove
+ * blocks, write and save a night report, resolve a conflicting save, lose the page mid-edit and
+ * find the draft again, and see no edit controls as a viewer. The sky-plane plot is checked in
+ * the browser as drawn: east left, north up, ellipses of the stated size.
+ */
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
+import { SCREENSHOTS, launchBrowser } from './harness.ts';
+
+const base = inject('baseUrl');
+const lead = inject('leadToken');
+let browser: Browser;
+
+interface Report { id: number; nightId: number; seeingArcsec: number | null; strehlRatio: number | null; notes: string; timeLostReason: string; version: number }
+interface Block { id: number; nightId: number; startUtc: string; endUtc: string; version: number; status: string }
+
+async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
+  const res = await fetch(`${base}/api${path}`, {
+    method: init.method ?? 'GET',
+    headers: { authorization: `Bearer ${init.token ?? lead}`, ...(init.body ? { 'content-type': 'application/json' } : {}) },
+    ...(init.body ? { body: JSON.stringify(init.body) } : {}),
+  });
+  if (!res.ok) throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
+  return (res.status === 204 ? undefined : await res.json()) as T;
+}
+
+async function open(ctx: BrowserContext, path: string, token = lead): Promise<{ page: Page; errors: string[] }> {
+  const page = await ctx.newPage();
+  const errors: string[] = [];
+  page.on('console', (m) => m.type() === 'error' && !/status of 409/.test(m.text()) && errors.push(m.text()));
+  page.on('pageerror', (e) => errors.push(e.message));
+  await page.goto(`${base}${path}?token=${token}`);
+  return { page, errors };
+}
+const shot = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
+
+beforeAll(async () => {
+  mkdirSync(SCREENSHOTS, { recursive: true });
+  browser = await launchBrowser();
+});
+afterAll(async () => browser?.close());
+
+describe('night report', () => {
+  test('write and save, then a conflicting save is shown side by side and resolved field by field', async () => {
+    const ctx = await browser.newContext();
+    const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
+    const before = reports.items[0]!;
+    const { page, errors } = await open(ctx, `/nights/${before.nightId}/report`);
+    const seeing = page.locator('input[name=seeingArcsec]');
+    await seeing.waitFor();
+    // 1. An ordinary save bumps the version.
+    await seeing.fill('0.71');
+    await page.getByRole('button', { name: 'Save report' }).click();
+    await page.getByText(`Saved as version ${before.version + 1}`).waitFor();
+    expect((await api<Report>(`/night-reports/${before.id}`)).seeingArcsec).toBe(0.71);
+    // 2. Someone else saves while this page still holds the version it read.
+    await seeing.fill('0.95');
+    await api(`/night-reports/${before.id}`, { method: 'PATCH', body: { version: before.version + 1, notes: 'edited at the summit', strehlRatio: 0.5 } });
+    await page.getByRole('button', { name: 'Save report' }).click();
+    const conflict = page.locator('.conflict');
+    await conflict.waitFor();
+    await expect(conflict.locator('tr[data-field]').count()).resolves.toBe(3); // seeing, Strehl, notes
+    await shot(page, 'report-conflict');
+    // Keep my seeing; take their notes and Strehl ratio.
+    await conflict.locator('tr[data-field="notes"] input[value=theirs]').check();
+    await conflict.locator('tr[data-field="conditions.strehlRatio"] input[value=theirs]').check();
+    await conflict.getByRole('button', { name: 'Save with these choices' }).click();
+    await page.getByText(`Saved as version ${before.version + 3}`).waitFor();
+    const after = await api<Report>(`/night-reports/${before.id}`);
+    expect(after).toMatchObject({ seeingArcsec: 0.95, strehlRatio: 0.5, notes: 'edited at the summit', version: before.version + 3 });
+    expect(await page.evaluate((n) => localStorage.getItem(`ew.draft.report.${n}`), before.nightId)).toBeNull();
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+
+  test('a page killed mid-edit leaves its draft, which the next visit restores; nothing reached the server', async () => {
+    const ctx = await browser.newContext();
+    const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
+    const r = reports.items[1]!;
+    const first = await open(ctx, `/nights/${r.nightId}/report`);
+    const reason = first.page.locator('input[name=timeLostReason]');
+    await reason.waitFor();
+    await reason.fill('wind gusts above 18 m/s');
+    await first.page.waitForFunction((n) => localStorage.getItem(`ew.draft.report.${n}`)?.includes('wind gusts'), r.nightId);
+    // Crash the renderer half a second after the last keystroke: no unload handlers, no chance to save.
+    await first.page.waitForTimeout(500);
+    const cdp = await ctx.newCDPSession(first.page);
+    const crashed = first.page.waitForEvent('crash', { timeout: 15_000 });
+    void cdp.send('Page.crash').catch(() => undefined);
+    await crashed;
+    void first.page.close().catch(() => undefined);
+    const again = await open(ctx, `/nights/${r.nightId}/report`);
+    await again.page.getByText('Restored an unsaved draft').waitFor();
+    await expect(again.page.locator('input[name=timeLostReason]').inputValue()).resolves.toBe('wind gusts above 18 m/s');
+    expect((await api<Report>(`/night-reports/${r.id}`)).timeLostReason).toBe(r.timeLostReason);
+    await shot(again.page, 'report-draft-restored');
+    expect(again.errors).toEqual([]);
+    await ctx.close();
+  });
+
+  test('field-level messages: a value the server refuses is named beside its field', async () => {
+    const ctx = await browser.newContext();
+    const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
+    const r = reports.items[2]!;
+    const { page } = await open(ctx, `/nights/${r.nightId}/report`);
+    await page.locator('input[name=humidityPct]').fill('140');
+    await page.getByRole('button', { name: 'Save report' }).click();
+    const msg = page.locator('.field.invalid .field-msg');
+    await msg.waitFor();
+    await expect(page.locator('.field.invalid input').getAttribute('name')).resolves.toBe('humidityPct');
+    expect((await api<Report>(`/night-reports/${r.id}`)).version).toBe(r.version);
+    await ctx.close();
+  });
+});
+
+describe('night blocks', () => {
+  test('move a block 15 minutes later and remove another', async () => {
+    const ctx = await browser.newContext();
+    const blocks = await api<{ items: Block[] }>(`/blocks?from=${new Date().toISOString()}&limit=500`);
+    const byNight = new Map<number, Block[]>();
+    for (const b of blocks.items) byNight.set(b.nightId, [...(byNight.get(b.nightId) ?? []), b]);
+    const [nightId, bs] = [...byNight].find(([, v]) => v.length >= 2)!;
+    const sorted = bs.sort((a, b) => a.startUtc.localeCompare(b.startUtc));
+    const { page, errors } = await open(ctx, `/nights/${nightId}`);
+    const row = page.locator(`table.blocks tr[data-block="${sorted[0]!.id}"]`);
+    await row.waitFor();
+    await row.getByRole('button', { name: /15 minutes later/ }).click();
+    await expect.poll(async () => (await api<Block>(`/blocks/${sorted[0]!.id}`)).startUtc).toBe(new Date(Date.parse(sorted[0]!.startUtc) + 15 * 60_000).toISOString());
+    const last = sorted[sorted.length - 1]!;
+    await page.locator(`table.blocks tr[data-block="${last.id}"]`).getByRole('button', { name: /^remove/ }).click();
+    await page.locator(`table.blocks tr[data-block="${last.id}"]`).waitFor({ state: 'detached' });
+    await expect(api(`/blocks/${last.id}`)).rejects.toThrow(/404/);
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});
+
+describe('roles', () => {
+  test('a viewer sees the plan and the report but no edit controls', async () => {
+    const made = await api<{ token: string }>('/users', { method: 'POST', body: { name: 'guest viewer', role: 'viewer' } });
+    const ctx = await browser.newContext();
+    const nights = await api<{ items: { id: number }[] }>('/nights?limit=1');
+    const night = await open(ctx, `/nights/${nights.items[0]!.id}`, made.token);
+    await night.page.locator('table.blocks').waitFor();
+    await expect(night.page.locator('.role').textContent()).resolves.toContain('viewer');
+    expect(await night.page.getByRole('button', { name: /^remove/ }).count()).toBe(0);
+    expect(await night.page.getByRole('button', { name: /minutes later/ }).count()).toBe(0);
+    const rec = await open(ctx, '/records', made.token);
+    await rec.page.locator('#sites table').waitFor();
+    expect(await rec.page.getByRole('button', { name: 'Edit' }).count()).toBe(0);
+    expect(await rec.page.locator('#import').count()).toBe(0);
+    expect([...night.errors, ...rec.errors]).toEqual([]);
+    await ctx.close();
+  });
+});
+
+describe('sky-plane plot as drawn in the browser', () => {
+  test('east is left, north is up, and each error ellipse has the size and orientation of its measurement', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const { page } = await open(ctx, '/targets/1');
+    const svg = page.locator('svg.sky-plane');
+    await svg.locator('.measurement').first().waitFor();
+    const drawn = await page.evaluate(() => {
+      const s = document.querySelector('svg.sky-plane')!;
+      const box = (sel: string) => s.querySelector(sel)!.getBoundingClientRect();
+      const ticks = (sel: string) => [...s.querySelectorAll(`${sel} text[data-value]`)].map((t) => ({ v: Number(t.getAttribute('data-value')), x: Number(t.getAttribute('x')), y: Number(t.getAttribute('y')) }));
+      return {
+        masPerPx: Number(s.getAttribute('data-mas-per-px')),
+        e: box('.compass-e'), n: box('.compass-n'),
+        xTicks: ticks('.x-axis'), yTicks: ticks('.y-axis'),
+        xTitle: s.querySelector('.x-axis .axis-title')!.textContent, yTitle: s.querySelector('.y-axis .axis-title')!.textContent,
+        ellipses: [...s.querySelectorAll('.measurement')].map((g) => {
+          const el = g.querySelector('ellipse')!;
+          return { id: Number(g.getAttribute('data-id')), cx: Number(el.getAttribute('cx')), cy: Number(el.getAttribute('cy')), rx: Number(el.getAttribute('rx')), ry: Number(el.getAttribute('ry')), transform: el.getAttribute('transform')! };
+        }),
+      };
+    });
+    // The E mark sits left of the N mark's foot, N above.
+    expect(drawn.e.x).toBeLessThan(drawn.n.x);
+    expect(drawn.n.y).toBeLessThan(drawn.e.y);
+    // Axis ticks: Δα* decreases to the right, Δδ decreases downwards; titles carry units.
+    const xs = drawn.xTicks.sort((a, b) => a.x - b.x);
+    expect(xs.length).toBeGreaterThan(2);
+    for (let i = 1; i < xs.length; i++) expect(xs[i]!.v).toBeLessThan(xs[i - 1]!.v);
+    const ys = drawn.yTicks.sort((a, b) => a.y - b.y);
+    for (let i = 1; i < ys.length; i++) expect(ys[i]!.v).toBeLessThan(ys[i - 1]!.v);
+    expect(drawn.xTitle).toContain('(mas)');
+    expect(drawn.yTitle).toContain('(mas)');
+    // Ellipses against the stored uncertainties (demo measurements, sigma 0.4 mas, correlation 0.1).
+    const ms = await api<{ items: { id: number; kind: string; dRaMas: number; sigmaDRaMas: number; sigmaDDecMas: number; correlation: number | null }[] }>('/measurements?targetId=1&kind=offsets&limit=500');
+    expect(drawn.ellipses.length).toBe(ms.items.length);
+    for (const m of ms.items) {
+      const el = drawn.ellipses.find((d) => d.id === m.id)!;
+      const [a, b, r] = [m.sigmaDRaMas ** 2, m.sigmaDDecMas ** 2, (m.correlation ?? 0) * m.sigmaDRaMas * m.sigmaDDecMas];
+      const l1 = (a + b) / 2 + Math.hypot((a - b) / 2, r);
+      const l2 = (a + b) / 2 - Math.hypot((a - b) / 2, r);
+      // Radii are clamped to at least half a pixel so tiny errors stay visible.
+      expect(el.rx).toBeCloseTo(Math.max(Math.sqrt(l1) / drawn.masPerPx, 0.5), 6);
+      expect(el.ry).toBeCloseTo(Math.max(Math.sqrt(l2) / drawn.masPerPx, 0.5), 6);
+      const angle = Number(/rotate\(([-\d.e]+)/.exec(el.transform)![1]);
+      const pa = ((Math.atan2(r === 0 ? (a >= b ? 1 : 0) : r, r === 0 ? (a >= b ? 0 : 1) : l1 - a) * 180) / Math.PI + 180) % 180;
+      expect(Math.abs((((angle + 90 + pa) % 180) + 180) % 180)).toBeLessThan(1e-6);
+    }
+    // Two measurements: the one further east is drawn further left.
+    const [m1, m2] = [...ms.items].sort((p, q) => p.dRaMas - q.dRaMas);
+    const e1 = drawn.ellipses.find((d) => d.id === m1!.id)!;
+    const e2 = drawn.ellipses.find((d) => d.id === ms.items.sort((p, q) => q.dRaMas - p.dRaMas)[0]!.id)!;
+    expect(e2.cx).toBeLessThan(e1.cx);
+    void m2;
+    await ctx.close();
+  });
+});
+
+describe('themes', () => {
+  test('the day theme is one click away and stays chosen', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const { page, errors } = await open(ctx, '/targets/5');
+    await page.locator('svg.sky-plane').waitFor();
+    await page.getByRole('button', { name: /day theme/i }).click();
+    await expect(page.evaluate(() => document.documentElement.dataset.theme)).resolves.toBe('day');
+    await page.reload();
+    await expect(page.evaluate(() => document.documentElement.dataset.theme)).resolves.toBe('day');
+    await page.locator('svg.sky-plane .measurement').first().waitFor();
+    await shot(page, 'target-day-theme');
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});
