@@ -9,6 +9,7 @@ import { backupCommand } from './backup.ts';
 import { importCommand } from './import.ts';
 import { exportCommand } from './export.ts';
 import { flagsCommand } from './flags.ts';
+import { fitCommand } from './fit.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
@@ -20,4 +21,5 @@ export const commands: Record<string, Command> = {
   import: importCommand,
   export: exportCommand,
   flags: flagsCommand,
+  fit: fitCommand,
 };
