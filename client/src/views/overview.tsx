@@ -1,86 +1,70 @@
 /**
- * The campaign at a glance: periapsis passages ahead (soonest first, with their ± days, lead-time
- * band and whether each site can see the star then), the next nights at each site, and the latest
- * night reports.
+ * The campaign at a glance: the planning flags soonest first (periapsis ahead with its ± days,
+ * lead-time band and each site's hours around it; periapsis while unobservable; blend risks; stale
+ * predictions), the next nights at each site, and the latest night reports.
  */
 import { useState } from 'preact/hooks';
-import { get, getAll, send } from '../api/client.ts';
-import { loadCatalogue, skySite, skyTarget, type Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, NightRow, OrbitEvent, ReportRow, Season } from '../api/types.ts';
-import { daysFromNow, todayIn, utcText } from '../lib/time.ts';
+import { get, getAll } from '../api/client.ts';
+import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
+import type { BlockRow, NightRow, ReportRow } from '../api/types.ts';
+import { dateText, todayIn, utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 
-export interface Passage { targetId: number; name: string; epoch: string; sigmaDays: number | undefined; sites: { site: string; inSeason: boolean | null; hours: number | null }[] }
-
-/** Lead-time bands: what a planner can still do about a passage. */
-export function leadBand(days: number): { label: string; cls: string } {
-  if (days < 0) return { label: 'passed', cls: 'band-past' };
-  if (days <= 90) return { label: 'within 3 months: book time now', cls: 'band-urgent' };
-  if (days <= 365) return { label: 'within a year: plan this season', cls: 'band-soon' };
-  return { label: 'more than a year ahead', cls: 'band-later' };
+export interface Flag {
+  kind: 'periapsis-ahead' | 'periapsis-unobservable' | 'blend-risk' | 'stale-prediction' | string;
+  target: string;
+  date: string;
+  daysAhead: number;
+  reason: string;
+  periapsis?: { sigmaDays: number | null; band: string; sites: { site: string; minHours: number; maxHours: number; blocked: string | null }[]; samplingDays: number | null };
+  blend?: { other: string; start: string; end: string; closestMas: number };
+  stale?: { sigmaMas: number | null; daysSinceMeasured: number | null };
 }
 
-async function passages(cat: Catalogue, targetIds: number[], siteIds: number[], aheadYears: number): Promise<Passage[]> {
-  const now = new Date();
-  const end = new Date(now.getTime() + aheadYears * 365.25 * 86_400_000);
-  const found: Passage[] = [];
-  await Promise.all(
-    targetIds.filter((id) => cat.currentSolution(id)).map(async (id) => {
-      const r = await get<{ events: OrbitEvent[] }>(`/targets/${id}/events`, { start: now.toISOString(), end: end.toISOString(), kinds: 'periapsis' });
-      for (const e of r.events) found.push({ targetId: id, name: cat.target(id)?.name ?? `#${id}`, epoch: e.epoch, sigmaDays: e.sigmaDays, sites: [] });
-    }),
-  );
-  // One season map per site and year answers "can this site see the star around periapsis?".
-  const years = [...new Set(found.map((p) => Number(p.epoch.slice(0, 4))))];
-  for (const siteId of siteIds) {
-    const site = cat.site(siteId);
-    if (!site) continue;
-    for (const year of years) {
-      const here = found.filter((p) => p.epoch.startsWith(String(year)));
-      const targets = [...new Set(here.map((p) => p.targetId))].map((id) => skyTarget(cat, id)).filter((t) => t !== null);
-      const season = await send<Season>('POST', '/sky/season', { site: skySite(site), year, targets });
-      for (const p of here) {
-        const t = season.targets.find((s) => s.name === p.name);
-        const hit = t?.periapses.find((q) => q.epoch && Math.abs(Date.parse(q.epoch) - Date.parse(p.epoch)) < 3 * 86_400_000) as { inSeason?: boolean; hours?: number } | undefined;
-        p.sites.push({ site: site.name, inSeason: hit?.inSeason ?? null, hours: hit?.hours ?? null });
-      }
-    }
-  }
-  return found.sort((a, b) => a.epoch.localeCompare(b.epoch));
+const KIND_WORDS: Record<string, string> = { 'periapsis-ahead': 'periapsis ahead', 'periapsis-unobservable': 'periapsis unobservable', 'blend-risk': 'blend risk', 'stale-prediction': 'prediction stale' };
+
+/** Urgency class from days ahead: it sets the border style (width and dash), not only its colour. */
+export function urgency(days: number): string {
+  return days <= 30 ? 'band-urgent' : days <= 365 ? 'band-soon' : 'band-later';
 }
 
-function Passages({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
-  const c = cat.campaigns.find((x) => x.id === campaignId)!;
-  const { data, error } = useLoad(() => passages(cat, c.targetIds, c.siteIds, 3), [campaignId]);
-  if (error) return <ErrorLine error={error} />;
-  if (!data) return <Loading what="periapsis passages" />;
-  if (!data.length) return <p>No periapsis passage in the next three years.</p>;
+function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
+  const name = targetId ? <a href={`/targets/${targetId}`}>{f.target}</a> : <span>{f.target}</span>;
+  const p = f.periapsis;
   return (
-    <ol class="flag-list">
-      {data.map((p) => {
-        const d = daysFromNow(p.epoch);
-        const band = leadBand(d);
-        return (
-          <li key={`${p.targetId}-${p.epoch}`} class={`flag periapsis-flag ${band.cls}`}>
-            <div class="flag-head">
-              <span class="flag-kind">periapsis ahead</span>
-              <a href={`/targets/${p.targetId}`}>{p.name}</a>
-              <span class="flag-when">{utcText(p.epoch)} UTC {p.sigmaDays !== undefined ? <>± <Qty v={p.sigmaDays} unit="d" /></> : <span class="muted">(no covariance: date uncertainty unknown)</span>}</span>
-            </div>
-            <div class="flag-body">
-              <span class="lead-band">in {Math.round(d)} days · {band.label}</span>
-              {p.sites.map((s) => (
-                <span key={s.site} class={`site-chip ${s.inSeason ? 'seen' : 'unseen'}`}>
-                  {s.site}: {s.inSeason === null ? 'unknown' : s.inSeason ? <>observable (<Qty v={s.hours} unit="h" /> that night)</> : 'not observable (out of season)'}
-                </span>
-              ))}
-            </div>
-          </li>
-        );
-      })}
-    </ol>
+    <li class={`flag flag-${f.kind} ${p ? `periapsis-flag ${urgency(f.daysAhead)}` : 'band-note'}`}>
+      <div class="flag-head">
+        <span class="flag-kind">{KIND_WORDS[f.kind] ?? f.kind}</span>
+        {name}
+        {p ? (
+          <span class="flag-when">{utcText(f.date)} UTC {p.sigmaDays !== null ? <>± <Qty v={p.sigmaDays} unit="d" /></> : <span class="muted">(no covariance: uncertainty unknown)</span>} · in {Math.round(f.daysAhead)} days · {p.band}</span>
+        ) : f.blend ? (
+          <span class="flag-when">{dateText(f.blend.start)} to {dateText(f.blend.end)} with {f.blend.other}, closest <Qty v={f.blend.closestMas} unit="mas" digits={1} /></span>
+        ) : null}
+      </div>
+      {p && (
+        <div class="flag-body">
+          {p.sites.map((s) => (
+            <span key={s.site} class={`site-chip ${s.blocked ? 'unseen' : 'seen'}`}>
+              {s.site}: {s.blocked ? <>not observable ({s.blocked})</> : <>observable <Qty v={s.minHours} unit="" />–<Qty v={s.maxHours} unit="h" /> per night</>}
+            </span>
+          ))}
+          {p.samplingDays !== null && <span>sample at least every <Qty v={p.samplingDays * 24} unit="h" /></span>}
+        </div>
+      )}
+      <p class="flag-reason">{f.reason}</p>
+    </li>
   );
+}
+
+function Flags({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
+  const { data, error } = useLoad(() => get<{ flags: Flag[] }>(`/campaigns/${campaignId}/flags`), [campaignId]);
+  if (error) return <ErrorLine error={error} />;
+  if (!data) return <Loading what="flags" />;
+  if (!data.flags.length) return <p>No flags: nothing needs attention.</p>;
+  const idOf = (name: string) => cat.targets.find((t) => t.name === name)?.id;
+  return <ol class="flag-list">{data.flags.map((f) => <FlagItem key={`${f.kind}${f.target}${f.date}`} f={f} targetId={idOf(f.target)} />)}</ol>;
 }
 
 function NextNights({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
@@ -170,7 +154,7 @@ export function OverviewView() {
         </label>
         <p class="muted">{c.startDate} to {c.endDate} · targets: {c.targetIds.map((t) => cat.target(t)?.name).join(', ')} · {c.notes}</p>
       </div>
-      <Section title="Flags: periapsis passages ahead" id="flags"><Passages cat={cat} campaignId={id} /></Section>
+      <Section title="Flags, soonest first" id="flags"><Flags cat={cat} campaignId={id} /></Section>
       <Section title="Next nights" id="next-nights"><NextNights cat={cat} campaignId={id} /></Section>
       <Section title="Latest night reports" id="latest-reports"><LatestReports cat={cat} campaignId={id} /></Section>
     </div>

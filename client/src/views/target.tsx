@@ -56,7 +56,7 @@ function RvPanel({ d }: { d: TargetData }) {
         </label>
       )}
       <RvCurvePlot curve={withRel || !plain ? rel : plain} compare={plain ? (withRel ? plain : rel) : undefined} measurements={meas} nowYear={yearOf(new Date().toISOString())} />
-      <p class="legend"><span class="key key-track" /> {withRel || !plain ? 'with' : 'without'} relativistic terms{plain && <> · <span class="key key-compare" /> {withRel ? 'without' : 'with'} them, for comparison</>} · measurements with 1σ bars{!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}</p>
+      <p class="legend"><span class="key key-track" /> {!plain ? 'predicted (this solution has no relativistic terms switched on)' : withRel ? 'with relativistic terms' : 'without relativistic terms'}{plain && <> · <span class="key key-compare" /> {withRel ? 'without' : 'with'} them, for comparison</>} · measurements with 1σ bars{!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}</p>
     </>
   );
 }
