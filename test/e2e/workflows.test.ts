@@ -138,6 +138,24 @@ describe('night blocks', () => {
   });
 });
 
+describe('safety', () => {
+  test('a block on a target too close to the Sun is marked as refused, with the reason', async () => {
+    // Vesper Core (demo, RA 263.8°, Dec −21.7°) sits a few degrees from the Sun in mid-December
+    // (the Sun crosses RA 264° near 16 December at Dec ≈ −23°; common practice, no source).
+    const night = await api<{ id: number }>('/nights', { method: 'POST', body: { siteId: 1, campaignId: 1, date: '2026-12-16' } });
+    await api('/blocks', { method: 'POST', body: { nightId: night.id, targetId: 1, kind: 'astrometry', startUtc: '2026-12-17T04:00:00Z', endUtc: '2026-12-17T04:30:00Z' } });
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const { page, errors } = await open(ctx, `/nights/${night.id}`);
+    const problem = page.locator('table.blocks .problem');
+    await problem.waitFor();
+    await expect(problem.textContent()).resolves.toMatch(/from the Sun, inside the site’s 45° Sun-avoidance angle/);
+    await expect(page.locator('.caution').first().textContent()).resolves.toContain('Sun-avoidance');
+    await shot(page, 'night-sun-refusal');
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});
+
 describe('roles', () => {
   test('a viewer sees the plan and the report but no edit controls', async () => {
     const made = await api<{ token: string }>('/users', { method: 'POST', body: { name: 'guest viewer', role: 'viewer' } });

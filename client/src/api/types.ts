@@ -26,11 +26,11 @@ export interface Visibility {
   night: { date: string; start: Stamp; end: Stamp };
   sun: { set: Stamp | null; rise: Stamp | null; twilights: Record<'civil' | 'nautical' | 'astronomical', { dusk: Stamp | null; dawn: Stamp | null }> };
   darkness: { limit: string; intervals: Interval[]; hours: number };
-  moon: { rise: Stamp | null; set: Stamp | null; illuminatedFraction: number; curve?: { utc: string[]; altitudeDeg: number[] } };
+  moon: { rise: Stamp | null; set: Stamp | null; illuminatedFraction: number };
   constraints: { altitudeLimitDeg: number; maxAirmass?: number; sunAvoidanceDeg: number };
   targets: VisTarget[];
   cautions: string[];
 }
 export interface SeasonTarget { name: string; season: { start: string; end: string; usableNights: number; bestNight: string; bestHours: number } | null; periapses: { epoch?: string; date?: string; inSeason?: boolean }[]; hoursPerNight: number[] }
-export interface Season { year: number; nights: { date: string; darkHours: number }[]; targets: SeasonTarget[] }
+export interface Season { year: number; nights: { date: string; darkHours: number }[]; targets: SeasonTarget[]; cautions?: string[] }
 export interface Page<T> { items: T[]; total: number }

@@ -7,7 +7,7 @@ import { getAll, send } from '../api/client.ts';
 import { loadCatalogue, skySite, skyTarget, type Catalogue } from '../api/catalogue.ts';
 import type { BlockRow, CampaignRow, NightRow, Season } from '../api/types.ts';
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
-import { ErrorLine, Loading, Section } from '../lib/ui.tsx';
+import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 
 function constraintsOf(c: CampaignRow) {
@@ -37,6 +37,7 @@ function SiteSeason({ cat, campaign, siteId, year, nights, blocks }: { cat: Cata
     <Section title={`${site.name} (${site.timeZone})`} id={`season-site-${siteId}`}>
       <SeasonChart year={year} rows={rows} darkHours={data.nights.map((n) => n.darkHours)} />
       <p class="legend">Bars: hours per night the target meets the campaign’s constraints (darkness {campaign.constraints.darkness ?? 'astronomical'}, airmass ≤ {campaign.constraints.maxAirmass ?? 2}, Moon ≥ {campaign.constraints.minMoonSeparationDeg ?? 30}° away) · faint line: hours of darkness · ◆ periapsis · ticks under a strip: nights already planned.</p>
+      {(data.cautions ?? []).map((c) => <Caution key={c}>{c}</Caution>)}
       {data.targets.flatMap((t) => t.periapses.filter((p) => p.inSeason === false).map((p) => <p class="notice" key={`${t.name}${p.epoch}`}>{t.name} passes periapsis on {(p.epoch ?? '').slice(0, 10)} while it cannot be observed from {site.name}.</p>))}
     </Section>
   );
