@@ -40,6 +40,7 @@ const StoredBody = z
   .object({
     ...Options,
     measurementIds: z.array(z.number().int().positive()).optional().openapi({ description: 'fit only these measurements' }),
+    targetIds: z.array(z.number().int().positive()).min(1).optional().openapi({ description: 'system fits: only these targets of the system' }),
     hints: z.record(z.string(), Hints).optional().openapi({ description: 'search ranges by target name (default: around the current solution’s period)' }),
     notes: z.string().max(2000).optional().openapi({ description: 'stored with the accepted solutions' }),
   })
@@ -65,9 +66,10 @@ export function fitRoutes(store?: Store) {
   );
   if (!store) return app;
   for (const path of ['/targets/:id/fit', '/targets/:id/fit/accept', '/systems/:id/fit', '/systems/:id/fit/accept']) app.use(path, identify(store));
-  const targetsOf = async (c: Context<AuthEnv>, scope: 'target' | 'system') => {
+  const targetsOf = async (c: Context<AuthEnv>, scope: 'target' | 'system', only: number[] | undefined) => {
     const id = valid(c, 'param').id as number;
-    return scope === 'target' ? [id] : systemTargetIds(store, id);
+    if (scope === 'target' && only) throw new HttpError(400, 'invalid_request', 'targetIds: belongs to system fits; a target fit fits its own target');
+    return scope === 'target' ? [id] : systemTargetIds(store, id, only);
   };
   for (const scope of ['target', 'system'] as const) {
     const base = scope === 'target' ? '/targets/{id}/fit' : '/systems/{id}/fit';
@@ -76,8 +78,8 @@ export function fitRoutes(store?: Store) {
       createRoute({ method: 'post', path: base, tags, security, summary: `Fit ${what} (preview, nothing stored)`, request: { params: IdParam, ...body(StoredBody) }, responses: { 200: fitted, ...errorResponses } }),
       h(async (c) => {
         requireRole(c, 'viewer');
-        const { notes: _notes, ...options } = valid(c, 'json') as StoredFitOptions & { notes?: string };
-        const prepared = await prepareStoredFit(store, await targetsOf(c, scope), options);
+        const { notes: _notes, targetIds, ...options } = valid(c, 'json') as StoredFitOptions & { notes?: string; targetIds?: number[] };
+        const prepared = await prepareStoredFit(store, await targetsOf(c, scope, targetIds), options);
         return c.json({ targets: prepared.targets, result: runFit(prepared.request) }, 200);
       }),
     );
@@ -85,8 +87,8 @@ export function fitRoutes(store?: Store) {
       createRoute({ method: 'post', path: `${base}/accept`, tags, security, summary: `Fit ${what} and store the result as new current orbit-solution versions (lead)`, request: { params: IdParam, ...body(StoredBody) }, responses: { 201: json(Any, 'the stored versions and the fit'), ...errorResponses } }),
       h(async (c) => {
         const user = requireRole(c, 'lead');
-        const { notes, ...options } = valid(c, 'json') as StoredFitOptions & { notes?: string };
-        const prepared = await prepareStoredFit(store, await targetsOf(c, scope), options);
+        const { notes, targetIds, ...options } = valid(c, 'json') as StoredFitOptions & { notes?: string; targetIds?: number[] };
+        const prepared = await prepareStoredFit(store, await targetsOf(c, scope, targetIds), options);
         const result = runFit(prepared.request);
         const solutions = await acceptStoredFit(store, { userId: user.id }, prepared, result, notes ?? '');
         return c.json({ solutions, result }, 201);

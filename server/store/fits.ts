@@ -41,8 +41,11 @@ function toInput(m: MeasurementRow): MeasurementInput {
   }
 }
 
-/** The targets of a system that have measurements, by id. @throws NotFoundError for an unknown system */
-export async function systemTargetIds(store: Store, systemId: number): Promise<number[]> {
+/**
+ * The targets of a system that have measurements, by id; `only` picks some of them.
+ * @throws NotFoundError for an unknown system; InputError for a target outside the system
+ */
+export async function systemTargetIds(store: Store, systemId: number, only?: number[]): Promise<number[]> {
   await getById(store.db, systemEntity, systemId);
   const rows = await store.db
     .selectDistinct({ id: targets.id })
@@ -50,7 +53,12 @@ export async function systemTargetIds(store: Store, systemId: number): Promise<n
     .innerJoin(measurements, eq(measurements.targetId, targets.id))
     .where(eq(targets.systemId, systemId))
     .orderBy(targets.id);
-  return rows.map((r) => r.id);
+  const ids = rows.map((r) => r.id);
+  if (!only) return ids;
+  only.forEach((id, k) => {
+    if (!ids.includes(id)) throw new InputError(`targetIds.${k}`, id, `is not a target of system ${systemId} with measurements (those are ${ids.join(', ')})`);
+  });
+  return only;
 }
 
 /** Build the fit request of the given targets from their stored measurements. */

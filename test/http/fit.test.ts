@@ -93,17 +93,25 @@ describe('fits of stored measurements (demo campaign)', () => {
     expect(ephBody).toContain(`"version":${acc.solutions[0]!.version}`);
   });
 
-  it('fits a system jointly and names a measurement that is not the target’s', async () => {
+  it('fits a system jointly, refuses what the data leave open, and names a measurement that is not the target’s', async () => {
     const app = createApp({ store });
     const systems = (await store.systems.list([])).items as { id: number; name: string }[];
+    const targets = (await store.targets.list([])).items as { id: number; name: string }[];
     const vesper = systems.find((s) => s.name === 'Vesper Core')!;
-    const res = await post(app, `/api/systems/${vesper.id}/fit`, { relativity: {} }, viewer);
+    const [s1, s2] = ['VC s1', 'VC s2'].map((n) => targets.find((t) => t.name === n)!.id);
+    const res = await post(app, `/api/systems/${vesper.id}/fit`, { relativity: {}, targetIds: [s1, s2] }, viewer);
     expect(res.status, await res.clone().text()).toBe(200);
     const body = (await res.json()) as { targets: unknown[]; result: { parameters: { name: string; value: number; sigma: number }[] } };
-    expect(body.targets.length).toBe(4);
+    expect(body.targets.length).toBe(2);
     const m = body.result.parameters.find((q) => q.name === 'massSolar')!;
     expect(Math.abs(m.value - 2.6e6)).toBeLessThan(3 * m.sigma); // scenario.ts: Vesper Core, 2.6 × 10⁶ M☉ (invented)
-    const wrong = await post(app, `/api/targets/1/fit`, { measurementIds: [999999] }, viewer);
+    // All four stars: the two on 30–50-year orbits seen for seven years leave their orientation open.
+    const all = await post(app, `/api/systems/${vesper.id}/fit`, { relativity: {} }, viewer);
+    expect(all.status).toBe(422);
+    const refused = ((await all.json()) as { error: { code: string; details: { reason: string; parameters: string[] } } }).error;
+    expect(refused.code).toBe('fit_refused');
+    expect(refused.details.parameters.join(' ')).toMatch(/VC s[34]\./);
+    const wrong = await post(app, `/api/targets/${s1}/fit`, { measurementIds: [999999] }, viewer);
     expect(wrong.status).toBe(422);
     expect(((await wrong.json()) as { error: { details: { field: string } } }).error.details.field).toBe('measurementIds.0');
   });

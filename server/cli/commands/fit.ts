@@ -9,7 +9,7 @@ import { renderFit } from './fit-output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 const help = `usage: epochwright fit --file <measurements.csv> [--target <name>]... [model options] [--json | --csv]
-       epochwright fit --target-id <id> | --system-id <id> [--accept [--notes <text>]] [model options]
+       epochwright fit --target-id <id> | --system-id <id> [--target-id <id>]... [--accept [--notes <text>]] [model options]
 
 Fits orbits by least squares from a global search over period, eccentricity and periapsis time, so no
 starting orbit is needed. Several targets are fitted jointly: they share the primary's mass, distance,
@@ -19,7 +19,7 @@ source:
   --file <path>           measurements CSV in the layout of 'epochwright export measurements'
                           (target, kind, epoch, dRaMas, dDecMas, sigmaDRaMas, …, radialVelocityKmS, …)
   --target <name>         fit only this target of the file (repeatable)
-  --target-id <id>        the stored measurements of one target
+  --target-id <id>        the stored measurements of one target (with --system-id: only these targets, repeatable)
   --system-id <id>        the stored measurements of a system's targets, jointly
   --accept                store the fit as new current orbit-solution versions (the old ones stay)
   --notes <text>          notes stored with accepted solutions
@@ -115,7 +115,7 @@ export const fitCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        file: { type: 'string' }, target: { type: 'string', multiple: true }, 'target-id': { type: 'string' }, 'system-id': { type: 'string' },
+        file: { type: 'string' }, target: { type: 'string', multiple: true }, 'target-id': { type: 'string', multiple: true }, 'system-id': { type: 'string' },
         accept: { type: 'boolean' }, notes: { type: 'string' }, period: { type: 'string', multiple: true }, eccentricity: { type: 'string' },
         fix: { type: 'string', multiple: true }, prior: { type: 'string', multiple: true }, frame: { type: 'string' }, relativity: { type: 'string' },
         robust: { type: 'boolean' }, 'as-of': { type: 'string' }, sample: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' }, residuals: { type: 'boolean' },
@@ -125,9 +125,10 @@ export const fitCommand: Command = {
     });
     const format = outputFormat(values);
     if (values.residuals && format !== 'csv') throw new UsageError('--residuals goes with --csv (the table and JSON always include residuals)');
-    const targetId = positiveId('target-id', values['target-id']), systemId = positiveId('system-id', values['system-id']);
-    const sources = [values.file !== undefined, targetId !== undefined, systemId !== undefined].filter(Boolean).length;
-    if (sources !== 1) throw new UsageError('give exactly one of --file, --target-id and --system-id');
+    const targetIds = (values['target-id'] ?? []).map((t) => positiveId('target-id', t)!);
+    const systemId = positiveId('system-id', values['system-id']);
+    if ([values.file !== undefined, targetIds.length > 0 || systemId !== undefined].filter(Boolean).length !== 1) throw new UsageError('give --file, or --target-id / --system-id for stored measurements');
+    if (systemId === undefined && targetIds.length > 1) throw new UsageError('several --target-id go with --system-id (a joint fit shares one primary)');
     if (values.accept && values.file !== undefined) throw new UsageError('--accept stores solutions of stored targets: use it with --target-id or --system-id');
     const { hintsAll, hintsBy, ...model } = modelOptions(values);
     if (values.file !== undefined) {
@@ -138,7 +139,7 @@ export const fitCommand: Command = {
       return renderFit(fitOrbits({ ...model, stars }), format, values.residuals === true);
     }
     return withStore(values.database, async (store) => {
-      const ids = targetId !== undefined ? [targetId] : await systemTargetIds(store, systemId!);
+      const ids = systemId === undefined ? targetIds : await systemTargetIds(store, systemId, targetIds.length > 0 ? targetIds : undefined);
       let prepared = await prepareStoredFit(store, ids, model);
       if (hintsAll || Object.keys(hintsBy).length > 0) {
         // Named hints first, then the one for every star, then the default from the current solution.

@@ -24,6 +24,8 @@ export interface LmOptions {
   maxIterations?: number;
   /** Stop when the relative decrease of the cost falls below this. Default 1e-10. */
   tolerance?: number;
+  /** …or its absolute decrease below this (χ² units: 1e-4 moves a parameter by ~0.01σ). Default 1e-4. */
+  absoluteTolerance?: number;
   loss?: 'gaussian' | 'huber';
   /** Huber threshold in σ. Default 2. */
   huberK?: number;
@@ -53,6 +55,7 @@ function costOf(r: Float64Array, loss: 'gaussian' | 'huber', k: number): number 
 export function levenbergMarquardt(problem: LeastSquares, start: Float64Array, options: LmOptions = {}): LmResult {
   const maxIter = options.maxIterations ?? 200;
   const tol = options.tolerance ?? 1e-10;
+  const absTol = options.absoluteTolerance ?? 1e-4;
   const loss = options.loss ?? 'gaussian';
   const k = options.huberK ?? 2;
   const n = problem.n;
@@ -110,7 +113,7 @@ export function levenbergMarquardt(problem: LeastSquares, start: Float64Array, o
         const drop = cost - trialCost;
         x = trial;
         ev = problem.evaluate(trial, true);
-        converged = drop <= tol * Math.max(cost, 1e-30);
+        converged = drop <= tol * Math.max(cost, 1e-30) || drop <= absTol;
         cost = trialCost;
         lambda = Math.max(lambda / 3, 1e-12);
         accepted = true;

@@ -76,7 +76,7 @@ function refuseEarly(star: CheckedStar, ownParams: number): void {
   }
   const n = components(star);
   if (n < ownParams) {
-    throw new FitRefusal('too-few-measurements', `star ${star.name}: ${n} measurement components (${ast.length} astrometric epochs count twice) for ${ownParams} free parameters of its orbit — at least ${ownParams} are needed`, [star.name]);
+    throw new FitRefusal('too-few-measurements', `star ${star.name}: ${n} measurement components (${ast.length} astrometric epoch${ast.length === 1 ? ' counts' : 's count'} twice) for ${ownParams} free parameters of its orbit — at least ${ownParams} are needed`, [star.name]);
   }
   const jd = ast.map((m) => m.jd);
   const span = Math.max(...jd) - Math.min(...jd);

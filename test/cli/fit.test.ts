@@ -1,0 +1,75 @@
+/**
+ * `epochwright fit` on the demo campaign (invented): a CSV file in the export layout, the same
+ * measurements from the store, and --accept storing a new current solution.
+ */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { main } from '../../server/cli/main.ts';
+import type { Store } from '../../server/store/index.ts';
+import { startStore } from '../../server/store/startup.ts';
+import { measurementsCsv, measurementsForExport } from '../../server/store/exports/measurements.ts';
+
+let dir: string;
+let store: Store;
+let url: string;
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'epochwright-fit-cli-'));
+  url = `file:${join(dir, 'demo.db')}`;
+  store = (await startStore({ url, demo: true, today: '2026-12-01' })).store;
+  writeFileSync(join(dir, 'm.csv'), measurementsCsv(await measurementsForExport(store.db, [])));
+});
+afterAll(() => {
+  store.database.close();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
+  const out: string[] = [], err: string[] = [];
+  const [w, e] = [process.stdout.write.bind(process.stdout), process.stderr.write.bind(process.stderr)];
+  process.stdout.write = ((s: string) => (out.push(s), true)) as typeof process.stdout.write;
+  process.stderr.write = ((s: string) => (err.push(s), true)) as typeof process.stderr.write;
+  try {
+    const code = await main(args);
+    return { code, out: out.join(''), err: err.join('') };
+  } finally {
+    process.stdout.write = w;
+    process.stderr.write = e;
+  }
+}
+
+describe('epochwright fit', () => {
+  it('fits a target from a CSV file: table with residuals, JSON, and CSV of residuals', async () => {
+    const file = join(dir, 'm.csv');
+    const table = await run(['fit', '--file', file, '--target', 'VC s2', '--period', '7:13']);
+    expect(table.code, table.err).toBe(0);
+    expect(table.out).toMatch(/χ² = [\d.]+ for \d+ degrees of freedom/);
+    expect(table.out).toMatch(/VC s2\s+periodYears\s+9\.6\d*/); // scenario.ts: P = 9.6 yr (invented)
+    expect(table.out).toMatch(/residuals/);
+    const json = JSON.parse((await run(['fit', '--file', file, '--target', 'VC s2', '--period', '7:13', '--json'])).out) as { residuals: unknown[]; stars: unknown[] };
+    expect(json.residuals.length).toBe(17);
+    const csv = (await run(['fit', '--file', file, '--target', 'VC s2', '--period', '7:13', '--csv', '--residuals'])).out.trim().split('\n');
+    expect(csv[0]).toBe('star,row,kind,epoch,o−c 1,o−c 2,(o−c)/σ 1,(o−c)/σ 2,outlier');
+    expect(csv.length).toBe(18);
+  });
+
+  it('refuses too few measurements and bad usage with a message and a non-zero exit', async () => {
+    const few = await run(['fit', '--file', join(dir, 'm.csv'), '--target', 'Lantern B']);
+    expect(few.code).toBe(1);
+    expect(few.err).toMatch(/Lantern B: 2 measurement components .* for 7 free parameters/);
+    const bad = await run(['fit', '--file', join(dir, 'm.csv'), '--period', '7']);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toMatch(/--period: "7" must be <min>:<max>/);
+  });
+
+  it('fits stored measurements and --accept stores a new current version', async () => {
+    const targets = (await store.targets.list([])).items as { id: number; name: string }[];
+    const s2 = targets.find((t) => t.name === 'VC s2')!.id;
+    const res = await run(['fit', '--target-id', String(s2), '--accept', '--notes', 'from the CLI test', '--database', url]);
+    expect(res.code, res.err).toBe(0);
+    expect(res.out).toMatch(/stored VC s2 \(target \d+\) as orbit solution \d+, version 2, now current/);
+    const versions = (await store.orbitSolutions.list([])).items.filter((v) => v.targetId === s2);
+    expect(versions.map((v) => [v.version, v.current, v.provenance])).toEqual([[1, false, 'entered'], [2, true, 'fitted']]);
+  });
+});
