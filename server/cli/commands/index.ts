@@ -9,6 +9,8 @@ import { backupCommand } from './backup.ts';
 import { importCommand } from './import.ts';
 import { exportCommand } from './export.ts';
 import { flagsCommand } from './flags.ts';
+import { planNightCommand } from './plan-night.ts';
+import { planSeasonCommand } from './plan-season.ts';
 import { fitCommand } from './fit.ts';
 
 export const commands: Record<string, Command> = {
@@ -21,5 +23,7 @@ export const commands: Record<string, Command> = {
   import: importCommand,
   export: exportCommand,
   flags: flagsCommand,
+  'plan-season': planSeasonCommand,
+  'plan-night': planNightCommand,
   fit: fitCommand,
 };

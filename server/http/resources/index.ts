@@ -9,7 +9,9 @@ import { nightReportRoutes } from './night-reports.ts';
 import { nightVisibilityRoutes } from './night-visibility.ts';
 import { blockRoutes, nightRoutes } from './nights.ts';
 import { orbitSolutionRoutes } from './orbit-solutions.ts';
+import { nightScheduleRoutes } from './night-schedule.ts';
 import { planRoutes } from './plan.ts';
+import { seasonPlanRoutes } from './season-plan.ts';
 import { siteRoutes } from './sites.ts';
 import { systemRoutes, targetRoutes } from './systems.ts';
 import { targetViewRoutes } from './target-views.ts';
@@ -19,7 +21,7 @@ export function storeRoutes(store: Store) {
   const app = resourceApp();
   app.use('*', identify(store, { queryTokenPaths: /\/calendar\.ics$/ }));
   app.openAPIRegistry.registerComponent('securitySchemes', 'bearer', { type: 'http', scheme: 'bearer', description: 'a token from `epochwright account add` or POST /api/users' });
-  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, nightVisibilityRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes, planRoutes]) {
+  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, nightVisibilityRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes, planRoutes, seasonPlanRoutes, nightScheduleRoutes]) {
     app.route('/', routes(store));
   }
   return app;

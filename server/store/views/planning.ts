@@ -1,7 +1,7 @@
 /**
  * A stored campaign turned into the planners' inputs: its sites (with the campaign's constraints),
  * its targets placed by their system and current orbit, with their last measurement. Then the
- * campaign's flags. Systems are taken as ICRS at J2000.0 with their proper motions, as in visibility.ts.
+ * campaign's flags. Systems are placed at their stored position epoch with their proper motions, as in visibility.ts.
  */
 import { eq, inArray, max } from 'drizzle-orm';
 import { measurements, sites as sitesTable, systems, targets as targetsTable } from '../../../db/schema.ts';
@@ -11,6 +11,7 @@ import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
 import { campaignEntity, campaignMembers, type CampaignRow } from '../repos/campaigns.ts';
+import { systemSkyPosition } from '../repos/catalogue.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 
 export interface CampaignPlanningInput {
@@ -39,7 +40,7 @@ export async function campaignPlanningInput(db: DbOrTx, campaignId: number): Pro
     } catch (err) {
       if (!(err instanceof NotFoundError)) throw err;
     }
-    const target = validateTarget({ name: t.name, raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, ...(orbit ? { orbit } : {}) }, `targets.${t.id}`);
+    const target = validateTarget({ name: t.name, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) }, `targets.${t.id}`);
     targets.push({ id: t.id, system: s.name, target, lastMeasuredJd: last.find((l) => l.id === t.id)?.jd ?? null });
   }
   return { campaign, sites, targets };

@@ -1,0 +1,125 @@
+/** `epochwright plan-season`: a stored campaign's season plan; `--accept` stores it as blocks. */
+import { parseArgs } from 'node:util';
+import { InputError } from '../../science/errors.ts';
+import type { PlannedEpoch } from '../../science/plan/index.ts';
+import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
+import { LOCAL_OPERATOR } from '../../store/index.ts';
+import { acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
+import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
+import { formatTable, render, type Column } from '../output.ts';
+import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+
+const help = `usage: epochwright plan-season --campaign <id> --start <YYYY-MM-DD> --end <YYYY-MM-DD> [options]
+
+The epochs a stored campaign should observe from --start to --end: for each target and goal kind,
+one site-night in every cadence window (denser near periapsis), the one that most tightens the
+orbit; each timed by the night scheduler. Shows why each epoch was chosen, the goals that cannot be
+met and why, and how much the plan should shrink the 1σ of each periapsis date and mass.
+
+Nothing is written unless --accept is given. Accepting replaces the blocks of the open nights that
+are still only plans; obtained, logged, measured or begun blocks, and their nights, are kept.
+
+options:
+  --campaign <id>        the campaign
+  --start, --end <date>  first and last night (local evening dates) within the campaign
+  --site <id>            plan for this site of the campaign only (repeatable); default all
+  --all-nights           plan every night of the range, not only the campaign's stored nights
+  --at <epoch>           the moment of planning (ISO 8601, JD, MJD); default now
+  --settings <json|file> more planner settings: { blockMinutes: { astrometry, spectroscopy },
+                         precision: { astrometryMas, spectroscopyKmS }, slotMinutes, slewMinutes,
+                         sameTargetMinutes, fillFraction, extraEpochsPerTarget }
+  --accept               store the plan (as the local operator)
+  --digest <hex>         with --accept: refuse if the plan differs from the preview with this digest
+${DATABASE_HELP}
+  --json | --csv         machine-readable output instead of a table
+`;
+
+const SETTINGS = ['blockMinutes', 'precision', 'slotMinutes', 'slewMinutes', 'sameTargetMinutes', 'fillFraction', 'extraEpochsPerTarget'];
+/** Re-raise an InputError under the option the user typed (`options`: request field → option), so the message names it. */
+export async function asOptions<T>(options: Record<string, string>, f: () => Promise<T>): Promise<T> {
+  try {
+    return await f();
+  } catch (err) {
+    if (!(err instanceof InputError)) throw err;
+    const [head, ...rest] = err.field.split('.');
+    const option = options[head!] ?? options['*'];
+    if (option === undefined) throw err;
+    throw new InputError(options[head!] ? [option, ...rest].join('.') : `${option} ${err.field}`, err.value, err.rule);
+  }
+}
+
+const OPTIONS = { startDate: '--start', endDate: '--end', siteIds: '--site', nights: '--all-nights', campaignId: '--campaign', '*': '--settings' };
+
+export function positiveId(option: string, text: string | undefined): number {
+  const id = Number(text);
+  if (text === undefined || !Number.isInteger(id) || id <= 0) throw new UsageError(`--${option}: ${JSON.stringify(text ?? null)} must be an id (a positive integer)`);
+  return id;
+}
+
+export const planSeasonCommand: Command = {
+  summary: 'season plan of a stored campaign: epochs, reasons, unmet goals (--accept stores it)',
+  help,
+  async run(argv) {
+    const { values } = parseArgs({
+      args: argv,
+      options: { ...databaseOption, campaign: { type: 'string' }, start: { type: 'string' }, end: { type: 'string' }, site: { type: 'string', multiple: true }, 'all-nights': { type: 'boolean' }, at: { type: 'string' }, settings: { type: 'string' }, accept: { type: 'boolean' }, digest: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } },
+      strict: true,
+      allowPositionals: false,
+    });
+    const format = outputFormat(values);
+    const id = positiveId('campaign', values.campaign);
+    if (values.start === undefined || values.end === undefined) throw new UsageError('--start and --end are required (local evening dates, YYYY-MM-DD)');
+    if (values.digest !== undefined && !values.accept) throw new UsageError('--digest goes with --accept');
+    const settings = values.settings === undefined ? {} : readJsonArg('settings', values.settings);
+    if (typeof settings !== 'object' || settings === null || Array.isArray(settings)) throw new UsageError('--settings must be a JSON object');
+    for (const k of Object.keys(settings)) if (!SETTINGS.includes(k)) throw new UsageError(`--settings: unknown setting ${JSON.stringify(k)} (known: ${SETTINGS.join(', ')})`);
+    const atJd = values.at === undefined ? unixMsToJd(Date.now()) : parseEpoch(values.at, '--at');
+    const request: SeasonPlanRequest = {
+      ...(settings as object),
+      startDate: values.start,
+      endDate: values.end,
+      ...(values.site ? { siteIds: values.site.map((s) => positiveId('site', s)) } : {}),
+      nights: values['all-nights'] ? 'all' : 'allocated',
+      ...(values.digest !== undefined ? { digest: values.digest } : {}),
+    };
+    const result = await withStore(values.database, (store) => asOptions(OPTIONS, () => (values.accept ? acceptSeasonPlan(store, LOCAL_OPERATOR, id, request, atJd) : previewSeasonPlan(store.db, id, request, atJd))));
+    const columns: Column<PlannedEpoch>[] = [
+      { header: 'night', value: (e) => e.date },
+      { header: 'site', value: (e) => e.site },
+      { header: format === 'table' ? 'start_local' : 'start_utc', value: (e) => (format === 'table' ? e.block.start.local.slice(0, 16).replace('T', ' ') : e.block.start.utc) },
+      { header: 'minutes', value: (e) => e.block.minutes, digits: 0 },
+      { header: 'target', value: (e) => e.target },
+      { header: 'kind', value: (e) => e.kind },
+      { header: 'airmass', value: (e) => e.block.airmassMiddle, digits: 2 },
+      { header: 'gain', value: (e) => e.gain, digits: 3 },
+      { header: 'why', value: (e) => e.why },
+      ...(format === 'table' ? [] : [{ header: 'reason', value: (e: PlannedEpoch) => e.reason }]),
+    ];
+    const plan = result.plan;
+    if (format !== 'table') return render(format, plan.epochs, columns, result);
+    const stored = result as Partial<Awaited<ReturnType<typeof acceptSeasonPlan>>>;
+    const written = stored.written && stored.nightsCreated ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced, ${stored.nightsCreated.length} nights created\n` : `preview only (digest ${result.digest}): accepting would replace ${result.replaces.length} stored blocks; run again with --accept to store it\n`;
+    const sigma = (x: number | null, d: number) => (x === null ? '—' : x.toFixed(d));
+    const targets = formatTable(plan.targets, [
+      { header: 'target', value: (t) => t.target },
+      { header: 'astrometry', value: (t) => t.epochs.astrometry, digits: 0 },
+      { header: 'spectroscopy', value: (t) => t.epochs.spectroscopy, digits: 0 },
+      { header: 'cadence_met', value: (t) => (t.cadenceMet ? 'yes' : 'no') },
+      { header: 'sigma_T_days', value: (t) => (t.shrinkage ? `${sigma(t.shrinkage.periapsisDays.before, 2)} → ${sigma(t.shrinkage.periapsisDays.after, 2)}` : '—') },
+      { header: 'sigma_mass_pct', value: (t) => (t.shrinkage ? `${sigma(t.shrinkage.massFraction.before && t.shrinkage.massFraction.before * 100, 2)} → ${sigma(t.shrinkage.massFraction.after && t.shrinkage.massFraction.after * 100, 2)}` : '—') },
+      { header: 'periapses', value: (t) => t.periapses.map((p) => p.slice(0, 10)).join(' ') },
+    ]);
+    const skipped = result.sites.flatMap((s) => s.skipped.map((k) => `  ${s.name} ${k.date}: ${k.reason}\n`));
+    return [
+      `campaign ${id}, nights ${plan.startDate} to ${plan.endDate} (${result.nights}); ${plan.sites.map((s) => `${s.name}: ${s.nightsUsed} of ${s.nights} nights used, ${s.plannedHours.toFixed(1)} h planned`).join('; ')}\n\n`,
+      formatTable(plan.epochs, columns),
+      '\n',
+      targets,
+      plan.unmet.length ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.from} to ${u.to}: ${u.reason}\n`).join('')}` : '',
+      skipped.length ? `\nnights left out:\n${skipped.join('')}` : '',
+      '\n',
+      written,
+      ...plan.cautions.map((c) => `note: ${c}\n`),
+    ].join('');
+  },
+};

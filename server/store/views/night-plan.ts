@@ -1,0 +1,151 @@
+/**
+ * A stored night's schedule: the night scheduler over the night's campaign (its targets, goal kinds
+ * and constraints at the night's site), previewed, edited (pin or move a block with `pins`, drop
+ * one with `remove`, bring your own `candidates`), then accepted into stored blocks.
+ *
+ * The campaign's candidates, unless the request brings its own: one block per target and goal kind,
+ * `id` "<target>:<kind>", astrometry 40 min and spectroscopy 60 min (as the season planner), priority
+ * 1, or 2 within the campaign's densification window of a periapsis (30 d when it sets none); laser
+ * guide star on astrometry at a site that uses one.
+ *
+ * Accepting replaces the night's blocks that are still only plans (plan-scope.ts) and keeps the
+ * rest; it refuses, writing nothing, when a new block would overlap a kept one or start before
+ * the moment of the request, or when the night has a report.
+ */
+import { InputError } from '../../science/errors.ts';
+import { findEvents } from '../../science/orbit/index.ts';
+import { scheduleNight, type CandidateInput, type MeasurementKind, type NightSchedule, type ScheduleMethod } from '../../science/plan/index.ts';
+import { jdToIso, unixMsToJd } from '../../science/time/index.ts';
+import type { Actor } from '../audit.ts';
+import { getById, removeIn } from '../crud.ts';
+import type { DbOrTx } from '../database.ts';
+import { ConflictError } from '../errors.ts';
+import type { Store } from '../index.ts';
+import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
+import { nightStates, planDigest, plannerNames } from './plan-scope.ts';
+import { campaignPlanningInput } from './planning.ts';
+
+export interface NightScheduleRequest {
+  /** Candidate blocks in the night scheduler's shape; default: the campaign's (see above). */
+  candidates?: unknown;
+  /** Keep (or move) blocks at a start: [{ id, start }]. */
+  pins?: unknown;
+  /** Candidate ids to leave out. */
+  remove?: unknown;
+  slotMinutes?: number;
+  slewMinutes?: number;
+  sameTargetMinutes?: number;
+  method?: ScheduleMethod;
+  /** Length of the campaign's default candidates per kind, minutes. */
+  blockMinutes?: Partial<Record<MeasurementKind, number>>;
+  /** The preview's digest: accept refuses (409) when the schedule would now come out differently. */
+  digest?: string;
+}
+
+export interface NightSchedulePreview {
+  nightId: number;
+  campaignId: number;
+  at: string;
+  candidatesFrom: 'campaign' | 'request';
+  candidates: CandidateInput[] | unknown;
+  schedule: NightSchedule;
+  /** Stored blocks accepting would delete (all still only plans), and those it keeps with the reason. */
+  replaces: number[];
+  kept: { id: number; reason: string }[];
+  digest: string;
+}
+
+const ID_UNSAFE = /[^\w.:@ -]/g;
+const DEFAULT_MINUTES: Record<MeasurementKind, number> = { astrometry: 40, spectroscopy: 60 };
+
+async function prepare(db: DbOrTx, nightId: number, request: NightScheduleRequest, atJd: number) {
+  const at = jdToIso(atJd);
+  const night = await getById(db, nightEntity, nightId);
+  if (night.campaignId === null) throw new InputError('nightId', nightId, 'is stored without a campaign: give the night a campaignId so its targets and constraints are known');
+  const input = await campaignPlanningInput(db, night.campaignId);
+  const site = input.sites.find((s) => s.id === night.siteId);
+  if (!site) throw new InputError('nightId', nightId, `is at site ${night.siteId}, which is not one of the sites of campaign ${night.campaignId}`);
+  const names = plannerNames(input.targets);
+  const targets = input.targets.map((t) => ({ ...t.target, name: names.get(t.id)! }));
+  let candidates: unknown = request.candidates;
+  const fromCampaign = candidates === undefined;
+  if (fromCampaign) {
+    const minutes = { ...DEFAULT_MINUTES, ...(request.blockMinutes ?? {}) };
+    const span = nightIntervalUtc(night.date, site.site.timeZone);
+    const midJd = unixMsToJd((Date.parse(span.start) + Date.parse(span.end)) / 2);
+    const window = input.campaign.goals.densifyWithinDays ?? 30;
+    candidates = targets.flatMap((t) => {
+      const near = t.orbit !== null && findEvents(t.orbit, midJd - window, midJd + window, { kinds: ['periapsis'] }).length > 0;
+      return input.campaign.goals.kinds.map((kind) => ({
+        id: `${t.name}:${kind}`.replace(ID_UNSAFE, '_').slice(0, 80),
+        target: t.name,
+        kind,
+        durationMinutes: minutes[kind],
+        priority: near ? 2 : 1,
+        laserGuideStar: site.laserGuideStar && kind === 'astrometry',
+      }));
+    });
+  }
+  const schedule = scheduleNight(site.site, site.constraints, night.date, targets, {
+    candidates,
+    pins: request.pins,
+    remove: request.remove,
+    ...(request.slotMinutes !== undefined ? { slotMinutes: request.slotMinutes } : {}),
+    ...(request.slewMinutes !== undefined ? { slewMinutes: request.slewMinutes } : {}),
+    ...(request.sameTargetMinutes !== undefined ? { sameTargetMinutes: request.sameTargetMinutes } : {}),
+    ...(request.method !== undefined ? { method: request.method } : {}),
+  });
+  const [state] = await nightStates(db, { nightIds: [nightId] }, at);
+  const replaces = state!.blocks.filter((b) => b.kept === null).map((b) => b.block.id);
+  const keptBlocks = state!.blocks.filter((b) => b.kept !== null);
+  const digest = planDigest({ blocks: schedule.blocks.map((b) => [b.id, b.target, b.kind, b.start.utc, b.end.utc]), replaces });
+  const preview: NightSchedulePreview = {
+    nightId,
+    campaignId: night.campaignId,
+    at,
+    candidatesFrom: fromCampaign ? 'campaign' : 'request',
+    candidates,
+    schedule,
+    replaces,
+    kept: keptBlocks.map((b) => ({ id: b.block.id, reason: b.kept! })),
+    digest,
+  };
+  return { preview, reported: state!.reported, keptRows: keptBlocks.map((b) => b.block), targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])) };
+}
+
+/** The schedule of a stored night, written nowhere. @throws InputError naming the field. */
+export async function previewNightSchedule(db: DbOrTx, nightId: number, request: NightScheduleRequest, atJd: number): Promise<NightSchedulePreview> {
+  return (await prepare(db, nightId, request, atJd)).preview;
+}
+
+/** Compute the schedule again inside one transaction and store it in place of the night's planned blocks. */
+export async function acceptNightSchedule(store: Store, actor: Actor, nightId: number, request: NightScheduleRequest, atJd: number): Promise<NightSchedulePreview & { written: BlockRow[] }> {
+  return store.db.transaction(async (tx) => {
+    const { preview, reported, keptRows, targetIdByName } = await prepare(tx, nightId, request, atJd);
+    if (request.digest !== undefined && request.digest !== preview.digest) {
+      throw new ConflictError('stale_version', `the schedule has changed since the preview (digest ${request.digest}, now ${preview.digest}); preview again`, { digest: preview.digest });
+    }
+    if (reported) throw new ConflictError('not_allowed', `night ${nightId} has a report: its blocks are a record now, not a plan`);
+    for (const b of preview.schedule.blocks) {
+      if (Date.parse(b.start.utc) <= Date.parse(preview.at)) {
+        throw new ConflictError('not_allowed', `block ${b.id} would start at ${b.start.utc}, not after ${preview.at}: pin it later or remove it`, { block: b.id });
+      }
+      const clash = keptRows.find((k) => Date.parse(k.startUtc) < Date.parse(b.end.utc) && Date.parse(b.start.utc) < Date.parse(k.endUtc));
+      if (clash) throw new ConflictError('not_allowed', `block ${b.id} (${b.start.utc} to ${b.end.utc}) would overlap stored block ${clash.id} (${clash.startUtc} to ${clash.endUtc}), which stays (${preview.kept.find((k) => k.id === clash.id)!.reason}): pin it elsewhere or remove it`, { block: b.id, kept: clash.id });
+    }
+    for (const id of preview.replaces) await removeIn(tx, blockEntity, actor, id);
+    const written: BlockRow[] = [];
+    for (const b of preview.schedule.blocks) {
+      written.push(await store.blocks.createIn(tx, actor, {
+        nightId,
+        targetId: targetIdByName.get(b.target)!,
+        kind: b.kind,
+        startUtc: b.start.utc,
+        endUtc: b.end.utc,
+        laserGuideStar: b.laserGuideStar,
+        notes: `night schedule ${preview.digest}: ${b.id}${b.pinned ? ' (pinned)' : ''}`,
+      }));
+    }
+    return { ...preview, written };
+  });
+}

@@ -1,0 +1,170 @@
+/**
+ * A stored campaign's season plan: preview it (the season planner over the campaign's targets,
+ * goals and sites, on the nights that are still open), then accept it into stored blocks.
+ *
+ * Open nights: the campaign's own stored nights in the range (`nights: "allocated"`, the default),
+ * or every date of the range (`"all"`, creating the night rows it uses) — leaving out nights of
+ * other campaigns, nights with a report, nights with a kept block (plan-scope.ts) and nights that
+ * have begun. Accepting replaces every block on the open stored nights (all still only plans) with
+ * the new plan's, in one transaction; nothing else is touched, so a re-plan after a night keeps
+ * what was observed and logged.
+ */
+import { InputError } from '../../science/errors.ts';
+import { addDays } from '../../science/sky/night.ts';
+import { planSeason, type MeasurementKind, type SeasonOptions, type SeasonPlan, type SeasonSite, type SeasonTarget } from '../../science/plan/index.ts';
+import { jdToIso, jdToUnixMs } from '../../science/time/index.ts';
+import type { Actor } from '../audit.ts';
+import { removeIn } from '../crud.ts';
+import type { DbOrTx } from '../database.ts';
+import { ConflictError } from '../errors.ts';
+import type { Store } from '../index.ts';
+import { blockEntity, nightIntervalUtc, type BlockRow, type NightRow } from '../repos/nights.ts';
+import { lastEpochs, nightStates, planDigest, plannerNames } from './plan-scope.ts';
+import { campaignPlanningInput } from './planning.ts';
+
+export const NIGHT_CHOICES = ['allocated', 'all'] as const;
+
+export interface SeasonPlanRequest extends SeasonOptions {
+  startDate: string;
+  endDate: string;
+  /** Sites of the campaign to plan for; default all of them. */
+  siteIds?: number[];
+  nights?: (typeof NIGHT_CHOICES)[number];
+  /** The preview's digest: accept refuses (409) when the plan would now come out differently. */
+  digest?: string;
+}
+
+export interface SeasonPlanPreview {
+  campaignId: number;
+  /** The moment the plan was made for: nights begun before it are not planned, blocks begun before it are kept. */
+  at: string;
+  nights: (typeof NIGHT_CHOICES)[number];
+  sites: { siteId: number; name: string; openNights: number; skipped: { date: string; reason: string }[] }[];
+  plan: SeasonPlan;
+  /** Stored blocks accepting would delete (all still only plans). */
+  replaces: number[];
+  digest: string;
+}
+
+interface Prepared {
+  preview: SeasonPlanPreview;
+  siteIdByName: Map<string, number>;
+  targetIdByName: Map<string, number>;
+  nightByKey: Map<string, NightRow>;
+}
+
+async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanRequest, atJd: number): Promise<Prepared> {
+  const at = jdToIso(atJd);
+  const input = await campaignPlanningInput(db, campaignId);
+  const { campaign } = input;
+  const mode = request.nights ?? 'allocated';
+  if (!(NIGHT_CHOICES as readonly string[]).includes(mode)) throw new InputError('nights', mode, 'must be "allocated" (the campaign’s stored nights) or "all" (every night of the range)');
+  for (const field of ['startDate', 'endDate'] as const) {
+    const d = request[field];
+    if (typeof d !== 'string' || d < campaign.startDate || d > campaign.endDate) throw new InputError(field, d, `must be a date within the campaign's dates ${campaign.startDate} to ${campaign.endDate}`);
+  }
+  const ids = request.siteIds ?? input.sites.map((s) => s.id);
+  ids.forEach((id, k) => {
+    if (!input.sites.some((s) => s.id === id)) throw new InputError(`siteIds.${k}`, id, `must be one of the campaign's sites (${input.sites.map((s) => s.id).join(', ')})`);
+  });
+  const chosen = input.sites.filter((s) => ids.includes(s.id));
+  if (chosen.length === 0) throw new InputError('siteIds', ids, 'must name at least one of the campaign’s sites');
+  if (input.targets.length === 0) throw new InputError('campaignId', campaignId, 'has no targets to plan');
+
+  const states = await nightStates(db, { siteIds: chosen.map((s) => s.id), from: request.startDate, to: request.endDate }, at);
+  const nightByKey = new Map<string, NightRow>();
+  const replaces: number[] = [];
+  const seasonSites: SeasonSite[] = [];
+  const sitesOut: SeasonPlanPreview['sites'] = [];
+  for (const s of chosen) {
+    const skipped: { date: string; reason: string }[] = [];
+    const open: string[] = [];
+    const stored = new Map(states.filter((n) => n.night.siteId === s.id).map((n) => [n.night.date, n]));
+    for (let d = request.startDate; d <= request.endDate; d = addDays(d, 1)) {
+      const state = stored.get(d);
+      const begun = Date.parse(nightIntervalUtc(d, s.site.timeZone).start) <= jdToUnixMs(atJd);
+      if (!state) {
+        if (mode === 'all' && !begun) open.push(d);
+        continue;
+      }
+      const kept = state.blocks.filter((b) => b.kept !== null);
+      const reason =
+        state.night.campaignId !== campaignId ? (state.night.campaignId === null ? 'the night is stored without a campaign' : `the night belongs to campaign ${state.night.campaignId}`)
+        : state.reported ? 'the night has a report'
+        : kept.length > 0 ? `block ${kept[0]!.block.id} stays: ${kept[0]!.kept}`
+        : begun ? `the night began before ${at}`
+        : null;
+      if (reason) {
+        skipped.push({ date: d, reason });
+        continue;
+      }
+      open.push(d);
+      nightByKey.set(`${s.id}/${d}`, state.night);
+      replaces.push(...state.blocks.map((b) => b.block.id));
+    }
+    seasonSites.push({ site: s.site, constraints: s.constraints, nights: open, laserGuideStar: s.laserGuideStar });
+    sitesOut.push({ siteId: s.id, name: s.site.name, openNights: open.length, skipped });
+  }
+
+  const names = plannerNames(input.targets);
+  const last = await lastEpochs(db, campaignId, input.targets.map((t) => t.id), nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start);
+  const goals = campaign.goals;
+  const targets: SeasonTarget[] = input.targets.map((t) => ({
+    target: { ...t.target, name: names.get(t.id)! },
+    kinds: goals.kinds as MeasurementKind[],
+    cadenceDays: goals.cadenceDays,
+    ...(goals.densifiedCadenceDays !== undefined ? { densifiedCadenceDays: goals.densifiedCadenceDays } : {}),
+    ...(goals.densifyWithinDays !== undefined ? { densifyWithinDays: goals.densifyWithinDays } : {}),
+    lastEpochJd: last.get(t.id) ?? {},
+  }));
+  const { startDate, endDate, siteIds: _s, nights: _n, digest: _d, ...options } = request;
+  const plan = planSeason(startDate, endDate, seasonSites, targets, options);
+  replaces.sort((a, b) => a - b);
+  const digest = planDigest({ epochs: plan.epochs.map((e) => [e.target, e.kind, e.site, e.date, e.block.start.utc, e.block.end.utc]), replaces });
+  return {
+    preview: { campaignId, at, nights: mode, sites: sitesOut, plan, replaces, digest },
+    siteIdByName: new Map(chosen.map((s) => [s.site.name, s.id])),
+    targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
+    nightByKey,
+  };
+}
+
+/** The season plan for a stored campaign, written nowhere. @throws InputError naming the field. */
+export async function previewSeasonPlan(db: DbOrTx, campaignId: number, request: SeasonPlanRequest, atJd: number): Promise<SeasonPlanPreview> {
+  return (await prepare(db, campaignId, request, atJd)).preview;
+}
+
+/**
+ * Compute the plan again inside one transaction and store it: delete the blocks it replaces,
+ * create the nights it needs (`nights: "all"`), write its blocks. Any failure writes nothing.
+ */
+export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: number, request: SeasonPlanRequest, atJd: number): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
+  return store.db.transaction(async (tx) => {
+    const { preview, siteIdByName, targetIdByName, nightByKey } = await prepare(tx, campaignId, request, atJd);
+    if (request.digest !== undefined && request.digest !== preview.digest) {
+      throw new ConflictError('stale_version', `the plan has changed since the preview (digest ${request.digest}, now ${preview.digest}): the stored campaign, its nights or the moment moved on; preview again`, { digest: preview.digest });
+    }
+    for (const id of preview.replaces) await removeIn(tx, blockEntity, actor, id);
+    const written: BlockRow[] = [];
+    const nightsCreated: NightRow[] = [];
+    for (const e of preview.plan.epochs) {
+      const siteId = siteIdByName.get(e.site)!;
+      let night = nightByKey.get(`${siteId}/${e.date}`);
+      if (!night) {
+        night = await store.nights.createIn(tx, actor, { siteId, campaignId, date: e.date, notes: 'allocated by an accepted season plan' });
+        nightByKey.set(`${siteId}/${e.date}`, night);
+        nightsCreated.push(night);
+      }
+      written.push(await store.blocks.createIn(tx, actor, {
+        nightId: night.id,
+        targetId: targetIdByName.get(e.target)!,
+        kind: e.kind,
+        startUtc: e.block.start.utc,
+        endUtc: e.block.end.utc,
+        laserGuideStar: e.block.laserGuideStar,
+        notes: `season plan ${preview.digest} (${e.why}): ${e.reason}`,
+      }));
+    }
+    return { ...preview, written, nightsCreated };
+  });
+}
