@@ -138,6 +138,43 @@ describe('night blocks', () => {
   });
 });
 
+describe('night scheduler', () => {
+  test('propose a schedule, pin a block, move another, re-schedule the rest, store it', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const today = new Date().toISOString().slice(0, 10);
+    const nights = await api<{ items: { id: number; date: string; siteId: number; campaignId: number | null }[] }>(`/nights?siteId=1&campaignId=1&from=${today}&limit=500`);
+    const night = nights.items.sort((a, b) => a.date.localeCompare(b.date)).at(-1)!;
+    const { page, errors } = await open(ctx, `/nights/${night.id}`);
+    await page.getByRole('button', { name: 'Propose a schedule' }).click();
+    const rows = page.locator('table.proposal tbody tr');
+    await rows.first().waitFor();
+    const ids = await rows.evaluateAll((trs) => trs.map((tr) => tr.getAttribute('data-proposed')!));
+    expect(ids.length).toBeGreaterThan(1);
+    // Every candidate left out carries its reason.
+    for (const li of await page.locator('.left-out li').allTextContents()) expect(li).toMatch(/: \S/);
+    // Pin the first block where it is.
+    await page.getByRole('button', { name: `pin ${ids[0]}`, exact: true }).click();
+    await expect.poll(() => page.locator(`tr[data-proposed="${ids[0]}"]`).textContent()).toContain('pinned');
+    // Move the last one 15 minutes later (which pins it there); the rest is re-scheduled around both.
+    const last = ids[ids.length - 1]!;
+    const before = await page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent();
+    await page.getByRole('button', { name: `move ${last} 15 minutes later and pin it` }).click();
+    await expect.poll(() => page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent()).not.toBe(before);
+    await expect(page.locator(`tr[data-proposed="${last}"]`).textContent()).resolves.toContain('pinned');
+    expect(await page.locator('svg.night-chart .block-bar.proposed').count()).toBe(await rows.count());
+    await shot(page, 'night-schedule-proposal');
+    const proposed = await rows.count();
+    const lastStart = (await page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent())!.slice(0, 5);
+    await page.getByRole('button', { name: 'Store this schedule' }).click();
+    await page.getByText(/^Stored: /).waitFor();
+    const stored = await api<{ items: Block[] }>(`/blocks?nightId=${night.id}&limit=500`);
+    expect(stored.items.length).toBe(proposed);
+    expect(stored.items.map((b) => b.startUtc.slice(11, 16))).toContain(lastStart);
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});
+
 describe('safety', () => {
   test('a block on a target too close to the Sun is marked as refused, with the reason', async () => {
     // Vesper Core (demo, RA 263.8°, Dec −21.7°) sits a few degrees from the Sun in mid-December

@@ -14,8 +14,8 @@ export interface NightChartProps {
   targetName: (id: number) => string;
   nowMs?: number;
   mode: NightMode;
-  selectedBlock?: number | null | undefined;
-  onSelectBlock?: ((id: number) => void) | undefined;
+  /** A proposed schedule, drawn in a second lane under the stored blocks. */
+  proposed?: { id: string; target: string; kind: string; start: { utc: string }; end: { utc: string }; pinned: boolean; laserGuideStar: boolean }[] | undefined;
   width?: number;
 }
 
@@ -35,7 +35,8 @@ export function NightChart(props: NightChartProps) {
   const { vis, mode } = props;
   const width = props.width ?? 1100;
   const plotH = 250;
-  const height = M.top + plotH + LANE + M.bottom;
+  const lanes = props.proposed ? 2 : 1;
+  const height = M.top + plotH + LANE * lanes + M.bottom;
   const [t0, t1] = nightSpan(vis);
   const x = linear([t0, t1], [M.left, width - M.right]);
   const y = mode === 'altitude' ? linear([0, 90], [M.top + plotH, M.top]) : linear([3, 1], [M.top + plotH, M.top]);
@@ -78,14 +79,26 @@ export function NightChart(props: NightChartProps) {
       </g>
       <g class="blocks-lane">
         {props.blocks.map((b) => (
-          <g key={b.id} class={`block-bar ${b.status}${b.id === props.selectedBlock ? ' selected' : ''}${b.laserGuideStar ? ' lgs' : ''}`} data-block={b.id}
-            onClick={() => props.onSelectBlock?.(b.id)}>
+          <g key={b.id} class={`block-bar ${b.status}${b.laserGuideStar ? ' lgs' : ''}`} data-block={b.id}>
             <rect x={x(ms(b.startUtc))} y={laneY} width={Math.max(2, x(ms(b.endUtc)) - x(ms(b.startUtc)))} height={LANE - 10} rx="3" />
             <text x={x(ms(b.startUtc)) + 3} y={laneY + 16}>{props.targetName(b.targetId).slice(0, 10)}</text>
             <title>{`${props.targetName(b.targetId)} ${b.kind} ${utcClock(b.startUtc)}–${utcClock(b.endUtc)} UTC (${b.status})${b.laserGuideStar ? ', laser guide star' : ''}`}</title>
           </g>
         ))}
+        <text class="lane-label" x={M.left - 6} y={laneY + 16} text-anchor="end">stored</text>
       </g>
+      {props.proposed && (
+        <g class="blocks-lane proposed-lane">
+          <text class="lane-label" x={M.left - 6} y={laneY + LANE + 16} text-anchor="end">proposed</text>
+          {props.proposed.map((b) => (
+            <g key={b.id} class={`block-bar proposed${b.pinned ? ' pinned' : ''}${b.laserGuideStar ? ' lgs' : ''}`} data-proposed={b.id}>
+              <rect x={x(ms(b.start.utc))} y={laneY + LANE} width={Math.max(2, x(ms(b.end.utc)) - x(ms(b.start.utc)))} height={LANE - 10} rx="3" />
+              <text x={x(ms(b.start.utc)) + 3} y={laneY + LANE + 16}>{b.pinned ? '⊙ ' : ''}{b.target.slice(0, 10)}</text>
+              <title>{`proposed: ${b.target} ${b.kind} ${utcClock(b.start.utc)}–${utcClock(b.end.utc)} UTC${b.pinned ? ', pinned' : ''}`}</title>
+            </g>
+          ))}
+        </g>
+      )}
       <g class="axis x-axis">
         {hours.map((h) => {
           const iso = new Date(h).toISOString();
@@ -101,7 +114,7 @@ export function NightChart(props: NightChartProps) {
         <text class="axis-title" x={(M.left + width - M.right) / 2} y={height - 6} text-anchor="middle">{`time (h:min), UTC and ${zone}`}</text>
       </g>
       {props.nowMs !== undefined && props.nowMs >= t0 && props.nowMs <= t1 && (
-        <line class="now-line" x1={x(props.nowMs)} x2={x(props.nowMs)} y1={M.top} y2={laneY + LANE}><title>now</title></line>
+        <line class="now-line" x1={x(props.nowMs)} x2={x(props.nowMs)} y1={M.top} y2={laneY + LANE * lanes}><title>now</title></line>
       )}
     </svg>
   );

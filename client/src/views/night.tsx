@@ -12,6 +12,7 @@ import { NightChart, SERIES_DASH, type NightMode } from '../plots/night-chart.ts
 import { isoOf, ms, utcClock, zoneAbbrev, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
+import { SchedulePanel, type ScheduledBlock } from './schedule-panel.tsx';
 
 const STEP_MIN = 15;
 
@@ -76,6 +77,7 @@ export function NightView({ id }: { id: number }) {
   const canEdit = useCan('observer');
   const [mode, setMode] = useState<NightMode>('altitude');
   const [tick, setTick] = useState(0);
+  const [proposal, setProposal] = useState<ScheduledBlock[] | null>(null);
   const { data, error } = useLoad(async () => {
     const cat = await loadCatalogue();
     const night = await get<NightRow>(`/nights/${id}`);
@@ -104,7 +106,7 @@ export function NightView({ id }: { id: number }) {
       {vis.cautions.map((c) => <Caution key={c}>{c}</Caution>)}
       {blocks.some((b) => b.laserGuideStar) && <Caution>Blocks marked “laser guide star” propagate a laser: coordinate with the site’s laser-traffic system and stop whenever the site’s spotters or the aviation authority say so.</Caution>}
       <Section title="The night" id="night-chart">
-        <NightChart vis={vis} blocks={blocks} targetName={names} nowMs={Date.now()} mode={mode} />
+        <NightChart vis={vis} blocks={blocks} targetName={names} nowMs={Date.now()} mode={mode} proposed={proposal ?? undefined} />
         <ul class="legend series-legend">
           {vis.targets.map((t, i) => (
             <li key={t.name} class={`s${i % 6}`}><svg width="28" height="8" aria-hidden="true"><line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={SERIES_DASH[i % 6]} /></svg> {t.name}: <Qty v={t.observableHours} unit="h" /> observable, Moon <Qty v={t.moonSeparationDeg} unit="°" digits={0} /> away, Sun <Qty v={t.sunSeparationDeg} unit="°" digits={0} /> away</li>
@@ -125,6 +127,7 @@ export function NightView({ id }: { id: number }) {
       <Section title="Blocks" id="blocks">
         <BlockTable blocks={blocks} vis={vis} names={names} zone={zone} sunAvoid={site.sunAvoidanceDeg} canEdit={canEdit} onChanged={() => setTick(tick + 1)} />
       </Section>
+      <SchedulePanel night={night} blocks={blocks} cat={cat} canEdit={canEdit} onChanged={() => setTick(tick + 1)} onProposal={setProposal} />
     </div>
   );
 }
