@@ -15,7 +15,9 @@ import { findEvents, physicalQuantities, validateOrbit } from '../../server/scie
 import { parseEpoch } from '../../server/science/time/index.ts';
 import { backupDatabase } from '../../server/store/backup.ts';
 import { importCsv } from '../../server/store/csv/import.ts';
+import { campaignCalendar } from '../../server/store/exports/calendar.ts';
 import { measurementsCsv, measurementsForExport } from '../../server/store/exports/measurements.ts';
+import { campaignFlags } from '../../server/store/views/planning.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { startStore } from '../../server/store/startup.ts';
 import { LANTERN, VESPER } from '../../server/store/demo/scenario.ts';
@@ -99,10 +101,25 @@ describe('the campaign iCalendar feed', () => {
     const campaignBlocks = (await store.nights.list([], { limit: 500 })).items.filter((n) => n.campaignId === 1).map((n) => n.id);
     const expectedBlocks = blocks.items.filter((b) => campaignBlocks.includes(b.nightId)).length;
     const periapsis = parsed.filter((e) => String(e.summary).startsWith('Periapsis'));
-    expect(parsed.length - periapsis.length).toBe(expectedBlocks); // every block of the campaign, from the store
+    const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
+    expect(parsed.length - periapsis.length - flagEvents.length).toBe(expectedBlocks); // every block of the campaign, from the store
     const s1 = periapsis.find((e) => String(e.summary).includes('VC s1'))!;
     const engine = findEvents(validateOrbit((await store.orbitSolutions.list([])).items[0]!.orbit), parseEpoch('2027-01-01T00:00Z'), parseEpoch('2028-01-01T00:00Z'), { kinds: ['periapsis'] })[0]!;
     expect(Math.abs(new Date(s1.start).getTime() - Date.parse(engine.epoch))).toBeLessThan(1000); // the orbit engine's passage, as node-ical reads it back (1 s: iCalendar has whole seconds)
+  });
+
+  it('carries the campaign’s flags at a given moment, as node-ical reads them back', async () => {
+    const atJd = parseEpoch('2026-12-01T00:00:00Z');
+    const text = await campaignCalendar(store.db, 1, { flagsAtJd: atJd, stampMs: Date.parse('2026-12-01T00:00:00Z') });
+    const parsed = Object.values(ical.sync.parseICS(text)).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
+    const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
+    const { flags } = await campaignFlags(store.db, 1, { nowJd: atJd });
+    expect(flagEvents.length).toBe(flags.length); // one event per flag of the planning engine (flags endpoint)
+    expect(new Set(parsed.map((e) => e.uid)).size).toBe(parsed.length); // RFC 5545 §3.8.4.7: UID unique
+    const ahead = flagEvents.find((e) => String(e.summary) === 'Flag, periapsis ahead: VC s1')!;
+    const flag = flags.find((f) => f.kind === 'periapsis-ahead' && f.target === 'VC s1')!;
+    expect(Math.abs(new Date(ahead.start).getTime() - Date.parse(flag.date))).toBeLessThan(1000); // the flag's date (demo periapsis of VC s1, 2027-06-14, invented), whole seconds in iCalendar
+    expect(String(ahead.description)).toBe(flag.reason); // the reason survives RFC 5545 folding and escaping
   });
 });
 

@@ -1,27 +1,29 @@
 /**
  * A campaign's iCalendar (RFC 5545) feed: its planned blocks and the periapsis passages of its
- * targets from the campaign's start to a year after its end (a fixed window, so the feed depends
- * only on the stored data).
+ * targets from the campaign's start to a year after its end (a fixed window, so these depend
+ * only on the stored data), and the campaign's flags as computed at the moment of the request.
  * UIDs are stable (block id, target and orbit number) so a subscribed calendar updates in place.
  */
 import ical from 'ical-generator';
 import { and, eq, inArray } from 'drizzle-orm';
 import { blocks, nights, sites, targets, systems } from '../../../db/schema.ts';
 import { findEvents } from '../../science/orbit/index.ts';
-import { parseEpoch, jdToUnixMs } from '../../science/time/index.ts';
+import { parseEpoch, jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 import { NotFoundError } from '../errors.ts';
-import { LASER_CAUTION } from '../views/visibility.ts';
-
+import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
+import { campaignFlags } from '../views/planning.ts';
 
 export interface CalendarOptions {
   /** Host name used in UIDs, e.g. the server's. */
   domain?: string;
   /** Fixed DTSTAMP for reproducible output, ms since 1970. */
   stampMs?: number;
+  /** The moment flags are computed for, JD (UTC); default now. */
+  flagsAtJd?: number;
 }
 
 export async function campaignCalendar(db: DbOrTx, campaignId: number, options: CalendarOptions = {}): Promise<string> {
@@ -47,7 +49,7 @@ export async function campaignCalendar(db: DbOrTx, campaignId: number, options: 
       end: new Date(r.b.endUtc),
       stamp,
       summary: `${r.target} (${r.system}) ${r.b.kind} at ${r.site} [${r.b.status}]`,
-      description: [`Night ${r.night} at ${r.site}; block ${r.b.id}, version ${r.b.version}.`, r.b.notes, r.b.laserGuideStar ? LASER_CAUTION : ''].filter(Boolean).join('\n'),
+      description: [`Night ${r.night} at ${r.site}; block ${r.b.id}, version ${r.b.version}.`, r.b.notes, r.b.laserGuideStar ? LASER_GUIDE_STAR_CAUTION : ''].filter(Boolean).join('\n'),
     });
   }
 
@@ -75,6 +77,21 @@ export async function campaignCalendar(db: DbOrTx, campaignId: number, options: 
         });
       }
     }
+  }
+
+  // Flags: a UID per kind, target and day, so a flag that persists updates in place.
+  const { flags } = await campaignFlags(db, campaignId, { nowJd: options.flagsAtJd ?? unixMsToJd(Date.now()) });
+  for (const f of flags) {
+    const start = new Date(f.blend ? f.blend.start : f.date);
+    const end = f.blend ? new Date(f.blend.end) : new Date(start.getTime() + 60_000);
+    cal.createEvent({
+      id: `flag-${f.kind}-${encodeURIComponent(f.target).replace(/%/g, '')}-${f.date.slice(0, 10).replace(/-/g, '')}@${domain}`,
+      start,
+      end: end > start ? end : new Date(start.getTime() + 60_000),
+      stamp,
+      summary: `Flag, ${f.kind.replace(/-/g, ' ')}: ${f.target}`,
+      description: f.reason,
+    });
   }
   return cal.toString();
 }

@@ -6,6 +6,7 @@
  */
 import { eq, inArray } from 'drizzle-orm';
 import { blocks, systems, targets } from '../../../db/schema.ts';
+import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
 import { nightReport, validateConstraints, validateSite, validateTarget, type NightReport } from '../../science/sky/index.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
@@ -15,8 +16,6 @@ import { systemSkyPosition } from '../repos/catalogue.ts';
 import { nightEntity } from '../repos/nights.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 import { siteEntity } from '../repos/sites.ts';
-
-export const LASER_CAUTION = 'This site uses a laser guide star: aircraft and satellite avoidance are set by the site’s laser-traffic rules and the local aviation authority, not by this tool.';
 
 export async function nightVisibility(db: DbOrTx, nightId: number, options: { curves?: boolean } = {}): Promise<NightReport & { nightId: number; campaignId: number | null }> {
   const night = await getById(db, nightEntity, nightId);
@@ -40,6 +39,6 @@ export async function nightVisibility(db: DbOrTx, nightId: number, options: { cu
   const c = campaign?.constraints ?? {};
   const constraints = validateConstraints({ ...(c.darkness ? { darkness: c.darkness } : {}), ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}), ...(c.minMoonSeparationDeg !== undefined ? { minMoonSeparationDeg: c.minMoonSeparationDeg } : {}), minAltitudeDeg: siteRow.minAltitudeDeg }, site, 'constraints');
   const report = nightReport(site, night.date, skyTargets, constraints, { curveStepMinutes: options.curves ? 10 : 0 });
-  if (siteRow.laserGuideStar) report.cautions.push(LASER_CAUTION);
+  if (siteRow.laserGuideStar) report.cautions.push(LASER_GUIDE_STAR_CAUTION);
   return { nightId, campaignId: night.campaignId, ...report };
 }
