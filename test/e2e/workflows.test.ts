@@ -284,3 +284,27 @@ describe('themes', () => {
     await ctx.close();
   });
 });
+
+describe('season plan', () => {
+  test('propose a season plan, see it on the season chart with its reasons, accept it into blocks', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const { page, errors } = await open(ctx, '/season');
+    await page.locator('#season-site-1 svg.season-chart .season-row').first().waitFor();
+    await page.locator('#season-site-2 svg.season-chart .season-row').first().waitFor();
+    await page.getByRole('button', { name: 'Propose a season plan' }).click();
+    await page.getByRole('button', { name: 'Accept into blocks' }).waitFor();
+    expect(await page.locator('svg.season-chart .proposed-mark').count()).toBeGreaterThan(0);
+    await page.locator('#season-plan details summary').first().click();
+    const why = await page.locator('#season-plan table.epochs tbody tr td:last-child').allTextContents();
+    expect(why.length).toBeGreaterThan(0);
+    for (const w of why) expect(w.trim().length).toBeGreaterThan(10);
+    await shot(page, 'season-plan-proposal');
+    await page.getByRole('button', { name: 'Accept into blocks' }).click();
+    const status = page.locator('#season-plan .notice');
+    await status.waitFor();
+    const written = Number(/Accepted: (\d+) blocks stored/.exec((await status.textContent())!)?.[1]);
+    expect(written).toBe(why.length);
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});

@@ -10,6 +10,8 @@ export interface SeasonRow {
   hoursPerNight: number[];
   periapsisDates: string[];
   plannedDates: string[];
+  /** Nights of a proposed plan, not yet stored. */
+  proposedDates?: string[];
   seasonText: string;
 }
 export interface SeasonChartProps {
@@ -59,6 +61,9 @@ export function SeasonChart(props: SeasonChartProps) {
             <path class="hours-bars" d={r.hoursPerNight.map((h, i) => (h > 0 ? `M${x(i).toFixed(1)},${y(0).toFixed(1)}v${(y(h) - y(0)).toFixed(1)}h${bw.toFixed(2)}v${(y(0) - y(h)).toFixed(1)}z` : '')).join('')} />
             {r.plannedDates.map((d) => (
               <line class="planned-tick" key={d} x1={x(dayOfYear(d, props.year)) + bw / 2} x2={x(dayOfYear(d, props.year)) + bw / 2} y1={top + ROW - 8} y2={top + ROW - 1}><title>{`planned night ${d}`}</title></line>
+            ))}
+            {(r.proposedDates ?? []).map((d) => (
+              <circle class="proposed-mark" key={`p${d}`} cx={x(dayOfYear(d, props.year)) + bw / 2} cy={top + ROW - 4} r="3"><title>{`proposed night ${d}`}</title></circle>
             ))}
             {r.periapsisDates.map((d) => (
               <path class="periapsis-mark" key={d} d={`M${x(dayOfYear(d, props.year))},${top + 2}l5,6l-5,6l-5,-6z`}><title>{`periapsis ${d}`}</title></path>

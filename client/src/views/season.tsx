@@ -9,13 +9,14 @@ import type { BlockRow, CampaignRow, NightRow, Season } from '../api/types.ts';
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
 import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
+import { SeasonPlanPanel, type SeasonPlanPreview } from './season-plan.tsx';
 
 function constraintsOf(c: CampaignRow) {
   const k = c.constraints;
   return { ...(k.maxAirmass ? { maxAirmass: k.maxAirmass } : {}), ...(k.minMoonSeparationDeg !== undefined ? { minMoonSeparationDeg: k.minMoonSeparationDeg } : {}), ...(k.darkness ? { darkness: k.darkness } : {}) };
 }
 
-function SiteSeason({ cat, campaign, siteId, year, nights, blocks }: { cat: Catalogue; campaign: CampaignRow; siteId: number; year: number; nights: NightRow[]; blocks: BlockRow[] }) {
+function SiteSeason({ cat, campaign, siteId, year, nights, blocks, proposal }: { cat: Catalogue; campaign: CampaignRow; siteId: number; year: number; nights: NightRow[]; blocks: BlockRow[]; proposal: SeasonPlanPreview | null }) {
   const site = cat.site(siteId)!;
   const targets = campaign.targetIds.map((id) => ({ id, t: skyTarget(cat, id) })).filter((x) => x.t !== null);
   const { data, error } = useLoad(() => send<Season>('POST', '/sky/season', { site: skySite(site), year, targets: targets.map((x) => x.t), constraints: constraintsOf(campaign) }), [siteId, year, campaign.id]);
@@ -30,13 +31,14 @@ function SiteSeason({ cat, campaign, siteId, year, nights, blocks }: { cat: Cata
       hoursPerNight: t.hoursPerNight,
       periapsisDates: t.periapses.map((p) => (p.epoch ?? p.date ?? '').slice(0, 10)).filter(Boolean),
       plannedDates: planned,
+      proposedDates: [...new Set((proposal?.plan.epochs ?? []).filter((e) => e.site === site.name && e.target === t.name && e.date.startsWith(String(year))).map((e) => e.date))],
       seasonText: t.season ? `${t.season.start.slice(5)} → ${t.season.end.slice(5)} · ${t.season.usableNights} nights` : 'not observable',
     };
   });
   return (
     <Section title={`${site.name} (${site.timeZone})`} id={`season-site-${siteId}`}>
       <SeasonChart year={year} rows={rows} darkHours={data.nights.map((n) => n.darkHours)} />
-      <p class="legend">Bars: hours per night the target meets the campaign’s constraints (darkness {campaign.constraints.darkness ?? 'astronomical'}, airmass ≤ {campaign.constraints.maxAirmass ?? 2}, Moon ≥ {campaign.constraints.minMoonSeparationDeg ?? 30}° away) · faint line: hours of darkness · ◆ periapsis · ticks under a strip: nights already planned.</p>
+      <p class="legend">Bars: hours per night the target meets the campaign’s constraints (darkness {campaign.constraints.darkness ?? 'astronomical'}, airmass ≤ {campaign.constraints.maxAirmass ?? 2}, Moon ≥ {campaign.constraints.minMoonSeparationDeg ?? 30}° away) · faint line: hours of darkness · ◆ periapsis · ticks under a strip: nights already planned{proposal ? ' · hollow circles: the proposed season plan' : ''}.</p>
       {(data.cautions ?? []).map((c) => <Caution key={c}>{c}</Caution>)}
       {data.targets.flatMap((t) => t.periapses.filter((p) => p.inSeason === false).map((p) => <p class="notice" key={`${t.name}${p.epoch}`}>{t.name} passes periapsis on {(p.epoch ?? '').slice(0, 10)} while it cannot be observed from {site.name}.</p>))}
     </Section>
@@ -44,13 +46,15 @@ function SiteSeason({ cat, campaign, siteId, year, nights, blocks }: { cat: Cata
 }
 
 export function SeasonView() {
+  const [tick, setTick] = useState(0);
   const { data, error } = useLoad(async () => {
     const cat = await loadCatalogue();
     const [nights, blocks] = await Promise.all([getAll<NightRow>('/nights'), getAll<BlockRow>('/blocks')]);
     return { cat, nights, blocks };
-  }, []);
+  }, [tick]);
   const [campaignId, setCampaignId] = useState<number | null>(null);
   const [year, setYear] = useState<number | null>(null);
+  const [proposal, setProposal] = useState<SeasonPlanPreview | null>(null);
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="the season" />;
   const { cat } = data;
@@ -66,7 +70,8 @@ export function SeasonView() {
           <label class="inline">Year <input type="number" min={1900} max={2200} value={y} onChange={(e) => setYear(Number(e.currentTarget.value))} /></label>
         </div>
       </div>
-      {campaign.siteIds.map((sid) => <SiteSeason key={`${sid}-${y}`} cat={cat} campaign={campaign} siteId={sid} year={y} nights={data.nights} blocks={data.blocks} />)}
+      {campaign.siteIds.map((sid) => <SiteSeason key={`${sid}-${y}`} cat={cat} campaign={campaign} siteId={sid} year={y} nights={data.nights} blocks={data.blocks} proposal={proposal} />)}
+      <SeasonPlanPanel key={`${campaign.id}-${y}`} campaign={campaign} year={y} onProposal={setProposal} onAccepted={() => setTick(tick + 1)} />
     </div>
   );
 }
