@@ -1,0 +1,188 @@
+/**
+ * The season plan and the night schedule of the demo campaign through the API, on both backends:
+ * previews write nothing; accepting stores exactly the plan, replacing only blocks that are still
+ * plans; every stored block passes astronomy-engine's checks of darkness, altitude, airmass, Moon
+ * and Sun; bad input and stale previews leave the database as it was.
+ *
+ * Demo scenario (server/store/demo/scenario.ts, invented): campaign 1 follows the Vesper Core stars
+ * from Tolvane Ridge (site 1, laser guide star) and Ostrel Summit (site 2); VC s1 passes periapsis
+ * on 2027-06-14. Constraints: airmass ≤ 1.8, Moon ≥ 30°, astronomical darkness; Sun avoidance 45°/40°.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from '../../server/science/plan/index.ts';
+import { LOCAL_OPERATOR } from '../../server/store/index.ts';
+import { loadDemo } from '../../server/store/demo/load.ts';
+import { SITES, VESPER } from '../../server/store/demo/scenario.ts';
+import { createApp } from '../../server/http/app.ts';
+import { BACKENDS, tableCounts } from '../store/backends.ts';
+import { skyMargins } from './block-sky.ts';
+
+const AT = '2026-12-01T00:00:00Z';
+const RANGE = { startDate: '2027-06-01', endDate: '2027-06-30', at: AT };
+
+type Json = Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
+
+for (const backend of BACKENDS) {
+  describe(`planning writes (${backend.name})`, () => {
+    let env: Awaited<ReturnType<(typeof backend)['open']>>;
+    let call: (role: 'lead' | 'observer' | 'viewer', method: string, path: string, body?: unknown) => Promise<Response>;
+    beforeAll(async () => {
+      env = await backend.open();
+      await loadDemo(env.store, LOCAL_OPERATOR, { today: '2026-12-01' });
+      const tokens = {
+        lead: (await env.store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan lead', role: 'lead' })).secret,
+        observer: (await env.store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan observer', role: 'observer' })).secret,
+        viewer: (await env.store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan viewer', role: 'viewer' })).secret,
+      };
+      const app = createApp({ store: env.store });
+      call = (role, method, path, body) => app.request(path, { method, headers: { authorization: `Bearer ${tokens[role]}`, 'content-type': 'application/json' }, ...(body === undefined ? {} : { body: JSON.stringify(body) }) });
+    });
+    afterAll(() => env.cleanup());
+
+    const campaignBlocks = async (from: string, to: string) => {
+      const nights = (await env.store.nights.list([], { limit: 500 })).items.filter((n) => n.campaignId === 1 && n.date >= from && n.date <= to);
+      const blocks = (await env.store.blocks.list([], { limit: 500 })).items.filter((b) => nights.some((n) => n.id === b.nightId));
+      return { nights, blocks };
+    };
+    const checkSky = (siteId: number, blocks: { startUtc: string; endUtc: string }[]) => {
+      const site = SITES[siteId - 1]!;
+      const m = skyMargins(site, VESPER.raDeg, VESPER.decDeg, blocks);
+      console.log(`${site.name}: ${m.edges} block edges; Sun ≤ ${m.highestSunDeg.toFixed(1)}°, altitude ≥ ${m.lowestAltitudeDeg.toFixed(2)}°, airmass ≤ ${m.highestAirmass.toFixed(3)}, Moon ≥ ${m.closestMoonDeg.toFixed(1)}°, Sun ≥ ${m.closestSunDeg.toFixed(1)}° away`);
+      expect(m.highestSunDeg).toBeLessThan(-18); // astronomical darkness (Explanatory Supplement to the Astronomical Almanac, via REFERENCES.md); Sun from astronomy-engine
+      expect(m.highestAirmass).toBeLessThan(1.8 + 0.01); // the demo campaign's limit; Kasten & Young, Applied Optics 28, 4735 (1989), on astronomy-engine's altitude (0.01: its standard refraction vs the site's pressure)
+      expect(m.lowestAltitudeDeg).toBeGreaterThan(site.minAltitudeDeg - 0.05); // the site's altitude limit (demo, invented)
+      expect(m.closestMoonDeg).toBeGreaterThan(30 - 0.1); // the campaign's Moon limit (demo); 0.1°: the target is placed at its primary here
+      expect(m.closestSunDeg).toBeGreaterThan(site.sunAvoidanceDeg); // the site's Sun-avoidance angle (demo)
+    };
+
+    it('previews a season plan without writing, with reasons, unmet goals and shrinking σ', async () => {
+      const before = await tableCounts(env.store);
+      const res = await call('viewer', 'POST', '/api/campaigns/1/season-plan', RANGE);
+      expect(res.status, await res.clone().text()).toBe(200);
+      const body = (await res.json()) as Json;
+      expect(await tableCounts(env.store)).toEqual(before); // a preview writes nothing
+      expect(body.plan.epochs.length).toBeGreaterThan(0);
+      for (const e of body.plan.epochs) expect(e.reason).toMatch(/gap|tightens/);
+      for (const u of body.plan.unmet) expect(u.reason.length).toBeGreaterThan(20);
+      const s1 = body.plan.targets.find((t: Json) => t.target === 'VC s1');
+      expect(s1.periapses[0].slice(0, 10)).toBe('2027-06-14'); // demo periapsis of VC s1 (invented), Rømer delay within a day
+      expect(s1.shrinkage.periapsisDays.after).toBeLessThan(s1.shrinkage.periapsisDays.before); // epochs add information, so σ can only shrink (Fisher information is additive; common practice, no source)
+      expect(body.plan.cautions).toEqual([PLAN_ADVISORY, LASER_GUIDE_STAR_CAUTION]);
+      const { blocks } = await campaignBlocks(RANGE.startDate, RANGE.endDate);
+      expect([...body.replaces].sort()).toEqual(blocks.map((b) => b.id).sort()); // the demo's June blocks are all still plans
+    });
+
+    it('accepts the plan as blocks (lead only), exactly as previewed, in darkness and within limits', async () => {
+      const preview = (await (await call('viewer', 'POST', '/api/campaigns/1/season-plan', RANGE)).json()) as Json;
+      const before = await tableCounts(env.store);
+      expect((await call('observer', 'POST', '/api/campaigns/1/season-plan/accept', { ...RANGE, digest: preview.digest })).status).toBe(403); // a season plan is the lead's (store roles)
+      expect(await tableCounts(env.store)).toEqual(before);
+      const outside = await campaignBlocks('2027-07-01', '2027-10-31');
+      const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', { ...RANGE, digest: preview.digest });
+      expect(res.status, await res.clone().text()).toBe(201);
+      const body = (await res.json()) as Json;
+      const { blocks } = await campaignBlocks(RANGE.startDate, RANGE.endDate);
+      const stored = blocks.map((b) => `${b.startUtc} ${b.kind}`).sort();
+      expect(stored).toEqual(preview.plan.epochs.map((e: Json) => `${e.block.start.utc.replace('Z', '.000Z')} ${e.kind}`).sort()); // the preview, block for block
+      expect(blocks.some((b) => preview.replaces.includes(b.id))).toBe(false);
+      expect((await campaignBlocks('2027-07-01', '2027-10-31')).blocks).toEqual(outside.blocks); // nights outside the range untouched
+      expect(blocks.filter((b) => b.laserGuideStar).every((b) => b.kind === 'astrometry')).toBe(true);
+      for (const siteId of [1, 2]) {
+        const nights = (await env.store.nights.list([], { limit: 500 })).items.filter((n) => n.siteId === siteId).map((n) => n.id);
+        checkSky(siteId, blocks.filter((b) => nights.includes(b.nightId)));
+      }
+      expect(body.written.length).toBe(preview.plan.epochs.length);
+    });
+
+    it('re-plans after a logged night: keeps its blocks, replaces the other plans; a stale digest writes nothing', async () => {
+      const { nights, blocks } = await campaignBlocks('2027-06-05', '2027-06-05');
+      const night = nights[0]!;
+      const mine = blocks.filter((b) => b.nightId === night.id);
+      await env.store.nightReports.create(LOCAL_OPERATOR, { nightId: night.id, seeingArcsec: 0.6, outcomes: mine.map((b) => ({ blockId: b.id, status: 'obtained', exposureMinutes: 30 })) });
+      const stale = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', { ...RANGE, digest: '0000000000000000' });
+      expect(stale.status).toBe(409); // the plan changed since that preview: RFC 9110 §15.5.10 Conflict (from memory)
+      const preview = (await (await call('viewer', 'POST', '/api/campaigns/1/season-plan', RANGE)).json()) as Json;
+      expect(preview.sites[0].skipped).toContainEqual({ date: '2027-06-05', reason: 'the night has a report' });
+      const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', { ...RANGE, digest: preview.digest });
+      expect(res.status, await res.clone().text()).toBe(201);
+      const after = (await env.store.blocks.list([], { limit: 500 })).items.filter((b) => b.nightId === night.id);
+      expect(after.map((b) => [b.id, b.status])).toEqual(mine.map((b) => [b.id, 'obtained'])); // the logged night is kept as it was
+    });
+
+    it('refuses bad season input naming the field, writing nothing', async () => {
+      const before = await tableCounts(env.store);
+      const cases: [unknown, number, string][] = [
+        [{ ...RANGE, startDate: '2026-01-01' }, 422, 'startDate'],
+        [{ ...RANGE, siteIds: [1, 99] }, 422, 'siteIds.1'],
+        [{ ...RANGE, fillFraction: 2 }, 422, 'fillFraction'],
+        [{ ...RANGE, blockMinutes: { astrometry: -5 } }, 422, 'blockMinutes.astrometry'],
+        [{ ...RANGE, nights: 'some' }, 400, 'nights'],
+        [{ ...RANGE, colour: 'red' }, 400, '(body)'],
+        [{ ...RANGE, at: 'soon' }, 422, 'at'],
+      ];
+      for (const [body, status, field] of cases) {
+        const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', body);
+        const err = ((await res.json()) as Json).error;
+        expect(res.status, JSON.stringify(err)).toBe(status); // 422 a value breaks a rule, 400 malformed (DESIGN.md errors)
+        expect(err.details.field ?? err.details.issues[0].field).toBe(field);
+      }
+      expect((await call('lead', 'POST', '/api/campaigns/77/season-plan/accept', RANGE)).status).toBe(404);
+      expect(await tableCounts(env.store)).toEqual(before); // nothing written by any of them
+    });
+
+    it('schedules a stored night: every block placed or left out with its reason, laser caution, pins and removals', async () => {
+      const { nights } = await campaignBlocks('2027-06-12', '2027-06-12');
+      const id = nights.find((n) => n.siteId === 1)!.id;
+      const before = await tableCounts(env.store);
+      const res = await call('viewer', 'POST', `/api/nights/${id}/schedule`, { at: AT });
+      expect(res.status, await res.clone().text()).toBe(200);
+      const s = ((await res.json()) as Json).schedule;
+      expect(await tableCounts(env.store)).toEqual(before);
+      expect(s.blocks.length + s.leftOut.length).toBe(8); // 4 demo targets × 2 goal kinds
+      for (const l of s.leftOut) expect(l.reason.length).toBeGreaterThan(10);
+      for (const b of s.blocks) expect(b.cautions).toEqual(b.laserGuideStar ? [LASER_GUIDE_STAR_CAUTION] : []);
+      expect(s.blocks.some((b: Json) => b.laserGuideStar)).toBe(true); // astrometry at Tolvane Ridge uses the laser (demo)
+      const first = s.blocks[0];
+      const pinAt = new Date(Date.parse(s.blocks.at(-1).end.utc) - first.minutes * 60_000).toISOString();
+      const edited = (await (await call('viewer', 'POST', `/api/nights/${id}/schedule`, { at: AT, pins: [{ id: first.id, start: pinAt }], remove: ['VC s4:spectroscopy'] })).json()) as Json;
+      const moved = edited.schedule.blocks.find((b: Json) => b.id === first.id);
+      expect([moved.start.utc, moved.pinned]).toEqual([pinAt.replace('.000Z', 'Z'), true]); // moved to the pinned start (a slot edge)
+      expect(edited.schedule.leftOut).toContainEqual({ id: 'VC s4:spectroscopy', target: 'VC s4', kind: 'spectroscopy', reason: 'removed by the user' });
+    });
+
+    it('accepts a night schedule (observer) in place of its planned blocks, refusing overlaps with kept blocks', async () => {
+      const { nights } = await campaignBlocks('2027-06-26', '2027-06-26');
+      const id = nights.find((n) => n.siteId === 1)!.id;
+      const preview = (await (await call('viewer', 'POST', `/api/nights/${id}/schedule`, { at: AT })).json()) as Json;
+      expect((await call('viewer', 'POST', `/api/nights/${id}/schedule/accept`, { at: AT })).status).toBe(403);
+      const res = await call('observer', 'POST', `/api/nights/${id}/schedule/accept`, { at: AT, digest: preview.digest });
+      expect(res.status, await res.clone().text()).toBe(201);
+      const stored = (await env.store.blocks.list([], { limit: 500 })).items.filter((b) => b.nightId === id);
+      expect(stored.map((b) => b.startUtc).sort()).toEqual(preview.schedule.blocks.map((b: Json) => b.start.utc.replace('Z', '.000Z')).sort());
+      checkSky(1, stored);
+      // Withdraw one stored block: it is kept, and a schedule overlapping it is refused with nothing written.
+      const w = stored[0]!;
+      await env.store.blocks.update(LOCAL_OPERATOR, w.id, { status: 'withdrawn' }, w.version);
+      const before = await tableCounts(env.store);
+      const clash = await call('observer', 'POST', `/api/nights/${id}/schedule/accept`, { at: AT });
+      expect(clash.status).toBe(409); // clashes with the stored state (DESIGN.md errors)
+      expect(((await clash.json()) as Json).error.message).toMatch(new RegExp(`overlap stored block ${w.id}`));
+      expect(await tableCounts(env.store)).toEqual(before);
+      const bad = await call('observer', 'POST', `/api/nights/${id}/schedule/accept`, { at: AT, pins: [{ id: 'VC s1:astrometry', start: '2027-06-27T18:00:00Z' }] });
+      expect(bad.status).toBe(422);
+      expect(((await bad.json()) as Json).error.details.field).toBe('pins.0.start');
+      expect(await tableCounts(env.store)).toEqual(before);
+    });
+
+    it('explains Sun-avoidance refusals when the targets are near the Sun', async () => {
+      // Early December the Sun passes within a few degrees of Vesper Core (RA 263.8°, Dec −21.7°, invented).
+      const night = await env.store.nights.create(LOCAL_OPERATOR, { siteId: 1, campaignId: 1, date: '2026-12-10' });
+      const s = ((await (await call('viewer', 'POST', `/api/nights/${night.id}/schedule`, { at: AT })).json()) as Json).schedule;
+      expect(s.blocks).toEqual([]);
+      for (const l of s.leftOut) expect(l.reason).toMatch(/inside the Sun-avoidance angle \(45°\) \(\d+° from the Sun\)/); // Tolvane Ridge's 45° (demo)
+      const res = await call('observer', 'POST', `/api/nights/${night.id}/schedule/accept`, { at: AT, pins: [{ id: 'VC s1:astrometry', start: '2026-12-11T04:00:00Z' }] });
+      expect(res.status).toBe(422);
+      expect(((await res.json()) as Json).error.message).toMatch(/Sun|dark/);
+    });
+  });
+}
