@@ -28,6 +28,7 @@ const app = createApp({ store, ...(withClient ? { clientDir: DEFAULT_CLIENT_DIR 
 const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
   const base = `http://${hostname}:${info.port}/`;
   console.log(`epochwright listening on ${base} (API at /api, OpenAPI at /api/openapi.json)`);
+  console.log(withClient ? `light client: open ${base} in a browser` : 'no built client in client/dist: run `npm run build` for the browser views');
   console.log(`database: ${store.database.url.replace(/\/\/[^@/]*@/, '//…@')}`);
   if (demo) console.log(`demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty store)`);
   if (firstLead) {
