@@ -14,7 +14,7 @@ const base = inject('baseUrl');
 const lead = inject('leadToken');
 let browser: Browser;
 
-interface Report { id: number; nightId: number; seeingArcsec: number | null; strehlRatio: number | null; notes: string; timeLostReason: string; version: number }
+interface Report { id: number; nightId: number; seeingArcsec: number | null; strehlRatio: number | null; windMS: number | null; notes: string; timeLostReason: string; version: number }
 interface Block { id: number; nightId: number; startUtc: string; endUtc: string; version: number; status: string }
 
 async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
@@ -98,6 +98,23 @@ describe('night report', () => {
     expect((await api<Report>(`/night-reports/${r.id}`)).timeLostReason).toBe(r.timeLostReason);
     await shot(again.page, 'report-draft-restored');
     expect(again.errors).toEqual([]);
+    await ctx.close();
+  });
+
+  test('a save while the connection is down keeps the draft; the same save succeeds once it is back', async () => {
+    const ctx = await browser.newContext();
+    const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
+    const r = reports.items[3]!;
+    const { page } = await open(ctx, `/nights/${r.nightId}/report`);
+    await page.locator('input[name=windMS]').fill('12.5');
+    await ctx.setOffline(true);
+    await page.getByRole('button', { name: 'Save report' }).click();
+    await page.getByText('Not saved: your draft is still kept in this browser.').waitFor();
+    expect(await page.evaluate((n) => localStorage.getItem(`ew.draft.report.${n}`), r.nightId)).toContain('12.5');
+    await ctx.setOffline(false);
+    await page.getByRole('button', { name: 'Save report' }).click();
+    await page.getByText(`Saved as version ${r.version + 1}`).waitFor();
+    expect((await api<Report>(`/night-reports/${r.id}`)).windMS).toBe(12.5);
     await ctx.close();
   });
 
@@ -189,6 +206,55 @@ describe('safety', () => {
     await expect(page.locator('.caution').first().textContent()).resolves.toContain('Sun-avoidance');
     await shot(page, 'night-sun-refusal');
     expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});
+
+describe('printable night sheet and records', () => {
+  test('printing the night hides the controls and keeps the chart, the times and the blocks', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1100, height: 900 } });
+    const nights = await api<{ items: { id: number }[] }>('/nights?siteId=1&limit=500');
+    const { page } = await open(ctx, `/nights/${nights.items.at(-1)!.id}`);
+    await page.locator('svg.night-chart').waitFor();
+    await page.emulateMedia({ media: 'print' });
+    expect(await page.locator('.topbar').isVisible()).toBe(false);
+    expect(await page.locator('.toolbar').first().isVisible()).toBe(false);
+    expect(await page.locator('svg.night-chart').isVisible()).toBe(true);
+    expect(await page.locator('#sun-moon table').isVisible()).toBe(true);
+    expect(await page.locator('.caution').first().isVisible()).toBe(true);
+    await shot(page, 'night-print-sheet');
+    await ctx.close();
+  });
+
+  test('a CSV import with bad rows lists each one and writes nothing; a lead’s bad edit is named beside its field', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const before = await api<{ total: number }>('/measurements?limit=1');
+    const { page, errors } = await open(ctx, '/records');
+    await page.locator('#import textarea').waitFor();
+    const csv = (await (await fetch(`${base}/api/exports/measurements?targetId=5`, { headers: { authorization: `Bearer ${lead}` } })).text()).split('\n');
+    // Keep the header and the first row, then a copy of that row with an impossible epoch.
+    const header = csv[0]!;
+    const row = csv[1]!;
+    const cols = header.split(',');
+    const bad = row.split(',');
+    bad[cols.indexOf('epoch')] = 'not-a-date';
+    await page.locator('#import textarea').fill([header, row, bad.join(',')].join('\n'));
+    await page.getByRole('button', { name: 'Import all rows' }).click();
+    const report = page.locator('.import-report.bad');
+    await report.waitFor();
+    await expect(report.textContent()).resolves.toContain('nothing was written');
+    expect(await report.locator('tbody tr').count()).toBeGreaterThan(0);
+    await expect(report.locator('tbody tr').first().textContent()).resolves.toContain('epoch');
+    expect((await api<{ total: number }>('/measurements?limit=1')).total).toBe(before.total);
+    // A lead edits a site with a latitude out of range.
+    const site = page.locator('#sites tr[data-id="2"]');
+    await site.getByRole('button', { name: 'Edit' }).click();
+    await site.locator('input[name=latitudeDeg]').fill('123');
+    await site.getByRole('button', { name: 'Save' }).click();
+    await site.locator('.field-msg').waitFor();
+    expect((await api<{ latitudeDeg: number }>('/sites/2')).latitudeDeg).toBe(23.614);
+    await shot(page, 'records-errors');
+    expect(errors.filter((e) => !/status of (400|422)/.test(e))).toEqual([]);
     await ctx.close();
   });
 });
