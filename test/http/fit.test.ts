@@ -43,6 +43,11 @@ describe('POST /api/fit (stateless)', () => {
     expect(err.details.reason).toBe('too-few-measurements');
     expect((await post(app, '/api/fit', { stars: [], lossy: 1 })).status).toBe(400); // unknown key and empty list: schema errors
   });
+
+  it('documents the fit endpoints in the OpenAPI document', async () => {
+    const doc = (await (await createApp({ store: undefined }).request('/api/openapi.json')).json()) as { paths: Record<string, { post?: unknown }> };
+    expect(doc.paths['/fit']?.post).toBeDefined();
+  });
 });
 
 describe('fits of stored measurements (demo campaign)', () => {
@@ -83,6 +88,8 @@ describe('fits of stored measurements (demo campaign)', () => {
     expect(acc.solutions[0]!.provenance).toBe('fitted');
     expect(acc.solutions[0]!.fittedFrom).toEqual(pv.targets[0]!.measurementIds);
     expect(acc.solutions[0]!.reference).toMatch(/χ² = .* degrees of freedom/);
+    const doc = (await (await app.request('/api/openapi.json')).json()) as { paths: Record<string, unknown> };
+    for (const path of ['/targets/{id}/fit', '/targets/{id}/fit/accept', '/systems/{id}/fit', '/systems/{id}/fit/accept']) expect(Object.keys(doc.paths)).toContain(path);
     const versions = (await store.orbitSolutions.list([])).items.filter((v) => v.targetId === s2.id);
     expect(versions.length).toBe(2);
     expect(versions.filter((v) => v.current).map((v) => v.id)).toEqual([acc.solutions[0]!.id]);

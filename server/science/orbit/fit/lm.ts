@@ -43,7 +43,8 @@ export interface LmResult {
   weights: Float64Array;
 }
 
-function costOf(r: Float64Array, loss: 'gaussian' | 'huber', k: number): number {
+/** The cost LM minimises: Σ r² (Gaussian), or 2 Σ ρ_Huber(r) with threshold k (Huber). */
+export function costOf(r: Float64Array, loss: 'gaussian' | 'huber', k = 2): number {
   let s = 0;
   for (let i = 0; i < r.length; i++) {
     const a = Math.abs(r[i]!);

@@ -12,6 +12,7 @@
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { SeededRandom } from '../../random.ts';
 import { PERCENTILES, percentiles } from '../uncertainty.ts';
+import { costOf } from './lm.ts';
 import { conditional, drawLinear, linearSplit } from './marginal.ts';
 import { inDomain } from './problem.ts';
 import { nextCycle, quantityNames, starQuantities } from './quantities.ts';
@@ -19,15 +20,6 @@ import type { CheckedRequest } from './request.ts';
 import { asOfJdOf, type FitResult } from './result.ts';
 import { ensembleSample } from './sampler.ts';
 import type { Solution } from './solve.ts';
-
-function cost(r: Float64Array, loss: 'gaussian' | 'huber'): number {
-  let s = 0;
-  for (const v of r) {
-    const a = Math.abs(v);
-    s += loss === 'huber' && a > 2 ? 4 * a - 4 : a * a;
-  }
-  return s;
-}
 
 /** Unwrap angles (deg) to within ±180° of a reference, then take percentiles. */
 function anglePct(xs: number[], ref: number): number[] {
@@ -90,7 +82,7 @@ function drawSamples(sol: Solution, req: CheckedRequest): { xs: Float64Array[]; 
     const x = expand(y);
     const lp = logPrior(sol, problem.full(x));
     if (!Number.isFinite(lp)) return -Infinity;
-    if (!split) return lp - 0.5 * cost(problem.evaluate(x, false).r, req.loss);
+    if (!split) return lp - 0.5 * costOf(problem.evaluate(x, false).r, req.loss);
     const c = conditional(problem, split, x);
     return c ? lp - 0.5 * c.chi2 - 0.5 * c.logDet : -Infinity;
   };
