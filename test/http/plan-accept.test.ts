@@ -35,7 +35,7 @@ for (const backend of BACKENDS) {
         viewer: (await env.store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan viewer', role: 'viewer' })).secret,
       };
       const app = createApp({ store: env.store });
-      call = (role, method, path, body) => app.request(path, { method, headers: { authorization: `Bearer ${tokens[role]}`, 'content-type': 'application/json' }, ...(body === undefined ? {} : { body: JSON.stringify(body) }) });
+      call = async (role, method, path, body) => app.request(path, { method, headers: { authorization: `Bearer ${tokens[role]}`, 'content-type': 'application/json' }, ...(body === undefined ? {} : { body: JSON.stringify(body) }) });
     });
     afterAll(() => env.cleanup());
 
@@ -109,6 +109,16 @@ for (const backend of BACKENDS) {
       expect(after.map((b) => [b.id, b.status])).toEqual(mine.map((b) => [b.id, 'obtained'])); // the logged night is kept as it was
     });
 
+    it('plans every night of a range with nights: "all", creating the nights it uses', async () => {
+      const body = { startDate: '2027-07-01', endDate: '2027-07-10', siteIds: [2], nights: 'all', at: AT };
+      const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', body);
+      expect(res.status, await res.clone().text()).toBe(201);
+      const out = (await res.json()) as Json;
+      expect(out.nightsCreated.length).toBe(new Set(out.plan.epochs.map((e: Json) => e.date)).size); // one new night per planned date (Ostrel Summit has no stored July nights in the demo)
+      for (const n of out.nightsCreated) expect([n.siteId, n.campaignId]).toEqual([2, 1]);
+      checkSky(2, out.written);
+    });
+
     it('refuses bad season input naming the field, writing nothing', async () => {
       const before = await tableCounts(env.store);
       const cases: [unknown, number, string][] = [
@@ -172,6 +182,11 @@ for (const backend of BACKENDS) {
       expect(bad.status).toBe(422);
       expect(((await bad.json()) as Json).error.details.field).toBe('pins.0.start');
       expect(await tableCounts(env.store)).toEqual(before);
+    });
+
+    it('lists the planning routes in the OpenAPI document', async () => {
+      const doc = (await (await call('viewer', 'GET', '/api/openapi.json')).json()) as Json;
+      for (const p of ['/campaigns/{id}/season-plan', '/campaigns/{id}/season-plan/accept', '/nights/{id}/schedule', '/nights/{id}/schedule/accept']) expect(Object.keys(doc.paths)).toContain(p);
     });
 
     it('explains Sun-avoidance refusals when the targets are near the Sun', async () => {
