@@ -335,6 +335,26 @@ describe('sky-plane plot as drawn in the browser', () => {
   });
 });
 
+describe('fitting from the target page', () => {
+  test('fit the stored measurements, see the fitted track, store it as the new current version', async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    // VC s3 (demo): other tests rely on VC s1's stored solution, so fit another star.
+    const { page, errors } = await open(ctx, '/targets/3');
+    await page.getByRole('button', { name: 'Fit the stored measurements' }).click();
+    await page.locator('table.fit-parameters tbody tr').first().waitFor();
+    await page.locator('svg.sky-plane path.track-compare').waitFor();
+    await expect(page.locator('#solutions').textContent()).resolves.toMatch(/χ² [\d.]+ for \d+ degrees of freedom/);
+    await shot(page, 'target-fit-preview');
+    await page.getByRole('button', { name: 'Store as the current solution' }).click();
+    await page.getByText('Stored as version 2, now current.').waitFor();
+    await expect.poll(() => page.locator('#solutions tr.current').textContent()).toContain('v2');
+    const sols = await api<{ items: { version: number; current: boolean; provenance: string }[] }>('/orbit-solutions?targetId=3');
+    expect(sols.items.find((x) => x.current)).toMatchObject({ version: 2, provenance: 'fitted' });
+    expect(errors).toEqual([]);
+    await ctx.close();
+  });
+});
+
 describe('themes', () => {
   test('the day theme is one click away and stays chosen', async () => {
     const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });

@@ -11,6 +11,8 @@ export interface TrackPoint extends SkyPoint { epoch: string }
 export interface SkyMeasurement extends SkyPoint { id: number; epoch: string; ellipse: ErrorEllipse; predicted?: SkyPoint }
 export interface SkyPlaneProps {
   track: TrackPoint[];
+  /** A second track for comparison (e.g. a fit not yet stored), drawn dashed. */
+  compareTrack?: SkyPoint[] | undefined;
   /** Points on the track to label with their date (e.g. each 1 January). */
   dateTicks: TrackPoint[];
   periapsis?: TrackPoint | undefined;
@@ -65,7 +67,7 @@ export function labelSpaced<T extends { px: number; py: number }>(points: T[], m
 export function SkyPlanePlot(props: SkyPlaneProps) {
   const width = props.width ?? 560;
   const height = Math.round(width * 0.92);
-  const all: SkyPoint[] = [...props.track, ...props.measurements, ...props.planned];
+  const all: SkyPoint[] = [...props.track, ...(props.compareTrack ?? []), ...props.measurements, ...props.planned];
   const { x, y, masPerPx } = skyPlaneGeometry(all, width, height);
   const path = props.track.map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`).join('');
   const xt = ticks(x.domain[1], x.domain[0], 6);
@@ -90,6 +92,7 @@ export function SkyPlanePlot(props: SkyPlaneProps) {
         <line x1="0" y1="0" x2="0" y2="-24" /><text class="compass-n" x="0" y="-27" text-anchor="middle">N</text>
         <line x1="0" y1="0" x2="-24" y2="0" /><text class="compass-e" x="-28" y="4" text-anchor="end">E</text>
       </g>
+      {props.compareTrack && <path class="track-compare" d={props.compareTrack.map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`).join('')} />}
       <path class="track" d={path} />
       <g class="primary"><path d={`M${x(0) - 6},${y(0)}h12M${x(0)},${y(0) - 6}v12`} /><title>primary</title></g>
       {labelSpaced(props.dateTicks.map((t) => ({ t, px: x(t.dRaMas), py: y(t.dDecMas) })), 16).map(({ t, px, py, label }) => (

@@ -5,7 +5,7 @@
  */
 import { useState } from 'preact/hooks';
 import { get, send } from '../api/client.ts';
-import { invalidateCatalogue, loadCatalogue } from '../api/catalogue.ts';
+import { invalidateCatalogue, loadCatalogue, type Catalogue } from '../api/catalogue.ts';
 import type { OrbitEvent } from '../api/types.ts';
 import { measurementPoint, SkyPlanePlot, type SkyMeasurement } from '../plots/sky-plane.tsx';
 import { RvCurvePlot, yearOf } from '../plots/rv-curve.tsx';
@@ -14,8 +14,10 @@ import { ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { EphemerisTable } from './ephemeris-table.tsx';
 import { astrometricResidual, loadTargetData, rvSeries, type TargetData } from './target-data.ts';
+import { FitPanel } from './fit-panel.tsx';
+import type { Prediction } from '../api/types.ts';
 
-function SkyPanel({ d }: { d: TargetData }) {
+function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null }) {
   const ms: SkyMeasurement[] = [];
   for (const m of d.measurements) {
     const p = measurementPoint(m);
@@ -28,9 +30,10 @@ function SkyPanel({ d }: { d: TargetData }) {
   const rms = astro.length ? Math.sqrt(astro.reduce((s, x) => s + x.r!.dRa ** 2 + x.r!.dDec ** 2, 0) / astro.length) : null;
   return (
     <>
-      <SkyPlanePlot track={d.track} dateTicks={d.ticks} periapsis={peri} measurements={ms} planned={d.atPlanned} title="predicted track and measurements on the sky, north up, east left" />
+      <SkyPlanePlot track={d.track} compareTrack={fitted ?? undefined} dateTicks={d.ticks} periapsis={peri} measurements={ms} planned={d.atPlanned} title="predicted track and measurements on the sky, north up, east left" />
       <p class="legend">
         <span class="key key-track" /> predicted track (current solution) · <span class="key key-meas" /> measurement with 1σ error ellipse · <span class="key key-resid" /> residual (predicted → measured) · <span class="key key-plan" /> planned epoch · ◆ periapsis (true anomaly 0)
+        {fitted && <> · <span class="key key-fit" /> fitted track (not stored)</>}
         {rms !== null && <> · RMS astrometric residual <Qty v={rms} unit="mas" digits={2} /> over {astro.length} measurements</>}
       </p>
     </>
@@ -84,11 +87,9 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
   );
 }
 
-function Solutions({ targetId, onChange }: { targetId: number; onChange: () => void }) {
+function Solutions({ cat, targetId, onChange }: { cat: Catalogue; targetId: number; onChange: () => void }) {
   const lead = useCan('lead');
-  const { data: cat } = useLoad(loadCatalogue, [targetId]);
   const [error, setError] = useState<unknown>(null);
-  if (!cat) return <Loading what="solutions" />;
   const rows = cat.solutions.filter((s) => s.targetId === targetId).sort((a, b) => b.version - a.version);
   const makeCurrent = async (id: number) => {
     try {
@@ -123,6 +124,7 @@ function Solutions({ targetId, onChange }: { targetId: number; onChange: () => v
 
 export function TargetView({ id }: { id: number }) {
   const [tick, setTick] = useState(0);
+  const [fitted, setFitted] = useState<Prediction[] | null>(null);
   const { data, error } = useLoad(async () => {
     const cat = await loadCatalogue();
     return { cat, d: await loadTargetData(cat, id) };
@@ -141,12 +143,15 @@ export function TargetView({ id }: { id: number }) {
       </div>
       {!d.solution ? <p class="panel">This target has no orbit solution yet.</p> : (
         <div class="two-col">
-          <Section title="On the sky" id="sky-plane"><SkyPanel d={d} /></Section>
+          <Section title="On the sky" id="sky-plane"><SkyPanel d={d} fitted={fitted} /></Section>
           <Section title="Radial velocity" id="rv"><RvPanel d={d} /></Section>
         </div>
       )}
       <Section title="Events" id="events"><Events targetId={id} periodYears={d.periodYears} /></Section>
-      <Section title="Orbit solutions" id="solutions"><Solutions targetId={id} onChange={() => setTick(tick + 1)} /></Section>
+      <Section title="Orbit solutions" id="solutions">
+        <Solutions cat={cat} targetId={id} onChange={() => setTick(tick + 1)} />
+        {d.measurements.length > 0 && <FitPanel targetId={id} trackEpochs={d.track.map((p) => p.epoch)} onFittedTrack={setFitted} onStored={() => setTick(tick + 1)} />}
+      </Section>
       {d.solution && <Section title="Ephemeris" id="ephemeris"><EphemerisTable targetId={id} name={t.name} /></Section>}
     </div>
   );
