@@ -19,7 +19,13 @@ const tags = ['fits'];
 const Any = z.record(z.string(), z.unknown());
 const Epoch = z.union([z.string(), z.number()]).openapi({ description: 'ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number' });
 const Range = z.object({ min: z.number(), max: z.number() }).strict();
-const Hints = z.object({ periodYears: Range.optional().openapi({ description: 'period search range, years' }), eccentricity: Range.optional() }).strict();
+const Hints = z
+  .object({
+    periodYears: Range.optional().openapi({ description: 'period search range, years' }),
+    eccentricity: Range.optional(),
+    start: z.object({ elements: Any, distancePc: z.number().optional(), systemicVelocityKmS: z.number().optional() }).strict().optional().openapi({ description: 'an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ' }),
+  })
+  .strict();
 const Options = {
   relativity: z.record(z.string(), z.boolean()).optional().openapi({ description: 'romer, gravitationalRedshift, transverseDoppler, precession' }),
   frame: z.object({ offset: z.boolean().optional(), drift: z.boolean().optional() }).strict().optional().openapi({ description: 'fit the primary’s offset (mas) and drift (mas/yr) on the sky' }),

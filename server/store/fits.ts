@@ -7,7 +7,7 @@ import { and, eq, inArray } from 'drizzle-orm';
 import { measurements, orbitSolutions, targets } from '../../db/schema.ts';
 import { InputError } from '../science/errors.ts';
 import { JULIAN_YEAR_DAYS } from '../science/constants.ts';
-import { validateOrbit, type RelativitySwitches } from '../science/orbit/index.ts';
+import { toCampbellInput, validateOrbit, type RelativitySwitches } from '../science/orbit/index.ts';
 import type { FitRequest, FitResult, MeasurementInput, StarHints } from '../science/orbit/fit/index.ts';
 import type { Actor } from './audit.ts';
 import { getById } from './crud.ts';
@@ -20,7 +20,7 @@ import { systemEntity, targetEntity } from './repos/catalogue.ts';
 export type StoredFitOptions = Omit<FitRequest, 'stars'> & {
   /** Only these measurements (ids); default every measurement of the targets. */
   measurementIds?: number[];
-  /** Search ranges per target name; default P from 0.75 to 1.35 times the current solution's. */
+  /** Search ranges per target name; default P from 0.75 to 1.35 times the current solution's, which is also a start. */
   hints?: Record<string, StarHints>;
 };
 
@@ -83,7 +83,8 @@ export async function prepareStoredFit(store: Store, targetIds: number[], option
     if (sol) {
       const orbit = validateOrbit(sol.orbit, 'orbit');
       const p = orbit.periodDays / JULIAN_YEAR_DAYS;
-      starHints ??= { periodYears: { min: 0.75 * p, max: 1.35 * p } };
+      starHints = { ...(starHints ?? { periodYears: { min: 0.75 * p, max: 1.35 * p } }) };
+      starHints.start ??= { elements: toCampbellInput(orbit), ...(orbit.distancePc !== null ? { distancePc: orbit.distancePc } : {}), systemicVelocityKmS: orbit.gammaKmS };
       if (rest.relativity === undefined) for (const [k, v] of Object.entries(orbit.relativity)) if (v) relativity[k as keyof RelativitySwitches] = true;
     }
     stars.push({ name: target.name, measurements: mine.map(toInput), ...(starHints ? { hints: starHints } : {}) });

@@ -4,7 +4,8 @@
  */
 import { InputError, requireFinite } from '../../errors.ts';
 import { parseEpoch } from '../../time/index.ts';
-import type { RelativitySwitches } from '../types.ts';
+import { validateOrbit } from '../elements.ts';
+import type { Orbit, RelativitySwitches } from '../types.ts';
 import { readMeasurements, type Observation } from './measurements.ts';
 import type { FitRequest, PriorInput, RangeHint, SamplerOptions, StarHints } from './types.ts';
 
@@ -12,6 +13,8 @@ export interface CheckedStar {
   name: string;
   obs: Observation[];
   hints: StarHints;
+  /** The validated starting orbit of hints.start, or null. */
+  start: Orbit | null;
 }
 
 export interface CheckedRequest {
@@ -67,7 +70,9 @@ export function checkRequest(req: FitRequest): CheckedRequest {
       if (s.hints.periodYears !== undefined) hints.periodYears = range(`${p}.hints.periodYears`, s.hints.periodYears, 1e-6, 1e6);
       if (s.hints.eccentricity !== undefined) hints.eccentricity = range(`${p}.hints.eccentricity`, s.hints.eccentricity, 0, 0.99);
     }
-    return { name: s.name, obs: readMeasurements(s.measurements, `${p}.measurements`), hints };
+    const st = s.hints?.start;
+    const start = st === undefined ? null : validateOrbit({ elements: st.elements, ...(st.distancePc !== undefined ? { distancePc: st.distancePc } : {}), ...(st.systemicVelocityKmS !== undefined ? { systemicVelocityKmS: st.systemicVelocityKmS } : {}) }, `${p}.hints.start`);
+    return { name: s.name, obs: readMeasurements(s.measurements, `${p}.measurements`), hints, start };
   });
   const relativity: RelativitySwitches = { romer: false, gravitationalRedshift: false, transverseDoppler: false, precession: false };
   if (req.relativity !== undefined) {

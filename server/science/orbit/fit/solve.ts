@@ -4,7 +4,8 @@
  * the single-star solutions. Returns the minimum and its covariance; result.ts dresses it up.
  */
 import { JULIAN_YEAR_DAYS } from '../../constants.ts';
-import { thieleInnesToCampbell } from '../elements.ts';
+import { campbellToThieleInnes, thieleInnesToCampbell } from '../elements.ts';
+import type { Orbit } from '../types.ts';
 import { covarianceFromJacobian } from './covariance.ts';
 import { gridSearch, type GridNode } from './grid.ts';
 import { buildLayout, findParameter, type Layout, starOrbit } from './layout.ts';
@@ -172,9 +173,11 @@ export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolea
   if (nodes.length === 0) {
     throw new FitRefusal('no-start', `star ${star.name}: no orbit in the search ranges fits the measurements by linear least squares (too few distinct epochs, or fewer than two radial velocities)`, [star.name]);
   }
+  const starts = nodes.map((node) => startFromNode(b, node));
+  if (star.start) starts.push(withElements(b.L, 0, startFromNode(b, nodes[0]!), star.start));
   let best: ReturnType<typeof lmOn> | null = null;
-  for (const node of nodes) {
-    const r = lmOn(b, startFromNode(b, node), req, mode);
+  for (const t0 of starts) {
+    const r = lmOn(b, t0, req, mode);
     if (!best || r.lm.cost < best.lm.cost) best = r;
   }
   refuseSinglePhase(b.L, best!.theta);
@@ -182,6 +185,25 @@ export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolea
     L: b.L, problem: best!.problem, theta: best!.theta, lm: best!.lm, periodRanges: [periodDays],
     covariance: withCovariance ? covarianceOf(best!.problem, best!.lm, req) : [],
   };
+}
+
+/** theta with star k's orbital elements taken from an orbit (the distance, γ and frame stay). */
+function withElements(L: Layout, k: number, theta: Float64Array, o: Orbit): Float64Array {
+  const t = Float64Array.from(theta);
+  const s = L.stars[k]!.slots;
+  t[s.P] = o.periodDays;
+  t[s.T] = o.periapsisJd;
+  t[s.e] = o.e;
+  if (s.A >= 0) {
+    const ti = campbellToThieleInnes(o.aMas, o.iRad, o.nodeRad, o.argRad);
+    t[s.A] = ti.A; t[s.B] = ti.B; t[s.F] = ti.F; t[s.G] = ti.G;
+    return t;
+  }
+  if (s.a >= 0) t[s.a] = o.aMas;
+  t[s.i] = o.iRad;
+  t[s.node] = o.nodeRad;
+  t[s.arg] = o.argRad;
+  return t;
 }
 
 function median(xs: number[]): number {
@@ -220,7 +242,32 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
   for (const key of ['x0', 'y0', 'vx', 'vy'] as const) {
     if (L.sys[key] >= 0) t[L.sys[key]] = singles.reduce((a, s) => a + s.theta[s.L.sys[key]]!, 0) / singles.length;
   }
-  const r = lmOn(b, t, req, mode);
-  refuseSinglePhase(L, r.theta);
-  return { L, problem: r.problem, theta: r.theta, lm: r.lm, covariance: covarianceOf(r.problem, r.lm, req), periodRanges: singles.map((s) => s.periodRanges[0]!) };
+  // Starts: the single-star solutions, and (when given) the stars' starting orbits with the mass they imply.
+  const starts: Float64Array[] = [t];
+  if (req.stars.some((s) => s.start)) {
+    let t2: Float64Array = Float64Array.from(t);
+    req.stars.forEach((s, k) => {
+      if (s.start) t2 = withElements(L, k, t2, s.start);
+    });
+    const given = req.stars.flatMap((s) => (s.start?.distancePc ? [s.start.distancePc] : []));
+    const d2 = b.fixedMask[L.sys.d] ? d0 : given.length ? median(given) : d0;
+    t2[L.sys.d] = d2;
+    const implied = req.stars.flatMap((s) => (s.start ? [((s.start.aMas / 1000) * d2) ** 3 / (s.start.periodDays / JULIAN_YEAR_DAYS) ** 2] : []));
+    t2[L.sys.M] = median(implied);
+    const gammas = req.stars.flatMap((s) => (s.start?.distancePc !== undefined ? [s.start.gammaKmS] : []));
+    if (L.sys.gamma >= 0 && gammas.length) t2[L.sys.gamma] = median(gammas);
+    starts.push(t2);
+  }
+  // The lowest χ² whose covariance exists; if none has one, the lowest χ²'s refusal.
+  const runs = starts.map((t0) => lmOn(b, t0, req, mode)).sort((x, y) => x.lm.cost - y.lm.cost);
+  let firstError: unknown = null;
+  for (const r of runs) {
+    try {
+      refuseSinglePhase(L, r.theta);
+      return { L, problem: r.problem, theta: r.theta, lm: r.lm, covariance: covarianceOf(r.problem, r.lm, req), periodRanges: singles.map((s) => s.periodRanges[0]!) };
+    } catch (err) {
+      firstError ??= err;
+    }
+  }
+  throw firstError;
 }

@@ -2,7 +2,14 @@
  * What a fit takes and what it returns. Interface units (mas, km/s, degrees, years, epochs as
  * strings or JD) in the inputs and the reported values; internal units live in layout.ts.
  */
-import type { RelativitySwitches } from '../types.ts';
+import type { CampbellInput, RelativitySwitches } from '../types.ts';
+
+/** A starting orbit: Campbell elements, with the distance and γ when known. */
+export interface StartInput {
+  elements: CampbellInput;
+  distancePc?: number;
+  systemicVelocityKmS?: number;
+}
 
 /** An astrometric offset of the star from the primary's reference point. */
 export interface OffsetInput {
@@ -56,6 +63,8 @@ export interface StarHints {
   periodYears?: RangeHint;
   /** Eccentricity range inside [0, 0.99]. Default: the whole of it. */
   eccentricity?: RangeHint;
+  /** An orbit to start from as well as the search's best nodes (e.g. the current solution); the lower χ² wins. */
+  start?: StartInput;
 }
 
 export interface StarInput {

@@ -77,5 +77,7 @@ describe('fit refusals', () => {
     }
     expect(() => fitOrbits({ stars: [{ name: 'S7', measurements: good }], fixed: { massSolar: 2 } })).toThrow(/fixed.massSolar: "massSolar" is not a parameter of this fit/);
     expect(() => fitOrbits({ stars: [{ name: 'S7', measurements: good }], priors: { 'S7.eccentricity': { mean: 0.4, sigma: -1 } } })).toThrow(/priors.S7.eccentricity.sigma/);
+    const start = { elements: { ...truth.elements, eccentricity: 1.2 } };
+    expect(() => fitOrbits({ stars: [{ name: 'S7', measurements: good, hints: { start } }] })).toThrow(/stars.0.hints.start.elements.eccentricity: 1.2 must satisfy 0 ≤ e < 1/);
   });
 });
