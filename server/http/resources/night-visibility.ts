@@ -5,7 +5,7 @@ import { nightVisibility } from '../../store/views/visibility.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 
-const Query = z.object({ curves: z.enum(['true', 'false']).default('false').openapi({ description: 'include altitude and airmass curves every 10 minutes' }) });
+const Query = z.object({ curves: z.enum(['true', 'false']).default('false').openapi({ description: 'include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude' }) });
 
 export function nightVisibilityRoutes(store: Store) {
   const app = resourceApp();

@@ -7,10 +7,10 @@ import { airmass } from './airmass.ts';
 import { parallacticAngleRad } from './apparent.ts';
 import type { Constraints } from './constraints.ts';
 import { darknessExact, darknessFast, type Interval } from './darkness.ts';
-import { nightFrame } from './frame.ts';
+import { altitudeOfVectorRad, moonAt, nightFrame, type NightFrame } from './frame.ts';
 import { instant, nightSpan, type Instant } from './night.ts';
 import { exactSampler, fastSampler, frameTarget } from './samplers.ts';
-import type { Site } from './site.ts';
+import { maskAltitudeDeg, type Site } from './site.ts';
 import { moonNight, sunNight, TWILIGHT_SUN_ALTITUDE_DEG, type TwilightKind } from './sun-moon.ts';
 import type { Target } from './target.ts';
 import { findWindows, refineTransit, transitTimes, type Limit } from './windows.ts';
@@ -58,7 +58,15 @@ export interface TargetNight {
     hourAngleDeg: number[];
     parallacticAngleDeg: number[];
     moonSeparationDeg: number[];
+    /** With a horizon mask only: the mask's altitude at the target's azimuth at each sample, degrees. */
+    horizonMaskDeg?: number[];
   } | null;
+}
+
+/** The Moon's topocentric altitude (centre, geometric: no refraction), degrees, on the curves' instants. */
+export interface MoonCurve {
+  utc: string[];
+  altitudeDeg: number[];
 }
 
 export interface NightReport {
@@ -71,7 +79,7 @@ export interface NightReport {
     twilights: Record<TwilightKind, { dusk: Instant | null; dawn: Instant | null; sunAltitudeDeg: number }>;
   };
   darkness: { limit: string; intervals: { start: Instant; end: Instant; hours: number }[]; hours: number };
-  moon: { rise: Instant | null; set: Instant | null; transit: Instant | null; illuminatedFraction: number; phaseDeg: number };
+  moon: { rise: Instant | null; set: Instant | null; transit: Instant | null; illuminatedFraction: number; phaseDeg: number; curve: MoonCurve | null };
   constraints: { altitudeLimitDeg: number; maxAirmass: number | null; airmassFormula: string; minMoonSeparationDeg: number; sunAvoidanceDeg: number; horizonMask: boolean };
   method: 'fast' | 'exact';
   targets: TargetNight[];
@@ -92,6 +100,13 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
   const sun = sunNight(site, span);
   const moon = moonNight(site, span, sun.midnightJd);
   const edges: Interval = { startJd: span.startJd, endJd: span.endJd };
+  // One set of curve instants for every target and the Moon.
+  const curveJd: number[] = [];
+  if (curveStep > 0) {
+    const n = Math.floor((span.endJd - span.startJd) * 1440 / curveStep);
+    for (let i = 0; i <= n; i++) curveJd.push(span.startJd + (i * curveStep) / 1440);
+  }
+  const curveUtc = curveJd.map((jd) => instant(jd, zone).utc);
   const point = (p: { jd: number; altitudeDeg: number; airmass: number }): ReportPoint => ({ ...instant(p.jd, zone), altitudeDeg: p.altitudeDeg, airmass: p.airmass });
 
   const targetNights = targets.map((target): TargetNight => {
@@ -111,19 +126,18 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
     }));
     let curve: TargetNight['curve'] = null;
     if (curveStep > 0) {
-      curve = { utc: [], altitudeDeg: [], azimuthDeg: [], airmass: [], hourAngleDeg: [], parallacticAngleDeg: [], moonSeparationDeg: [] };
-      const n = Math.floor((span.endJd - span.startJd) * 1440 / curveStep);
-      for (let i = 0; i <= n; i++) {
-        const jd = span.startJd + (i * curveStep) / 1440;
+      curve = { utc: curveUtc, altitudeDeg: [], azimuthDeg: [], airmass: [], hourAngleDeg: [], parallacticAngleDeg: [], moonSeparationDeg: [] };
+      const mask: number[] | undefined = c.mask.length > 0 ? (curve.horizonMaskDeg = []) : undefined;
+      for (const jd of curveJd) {
         const s = fast(jd);
         const x = airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg);
-        curve.utc.push(instant(jd, zone).utc);
         curve.altitudeDeg.push(round(s.altitudeDeg, 3));
         curve.azimuthDeg.push(round(s.azimuthDeg, 3));
         curve.airmass.push(s.altitudeDeg > 0 && Number.isFinite(x) ? round(x, 4) : null);
         curve.hourAngleDeg.push(round(s.hourAngleRad / DEG, 3));
         curve.parallacticAngleDeg.push(round(parallacticAngleRad(s.hourAngleRad, ft.decRad, site.latitudeDeg * DEG) / DEG, 2));
         curve.moonSeparationDeg.push(round(s.moonSeparationDeg, 2));
+        mask?.push(round(maskAltitudeDeg(c.mask, s.azimuthDeg), 3));
       }
     }
     return {
@@ -147,12 +161,17 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
     night: { date, start: instant(span.startJd, zone), end: instant(span.endJd, zone), hours: hoursOf(span) },
     sun: { set: at(sun.setJd), rise: at(sun.riseJd), midnight: instant(sun.midnightJd, zone), twilights },
     darkness: { limit: c.darknessLabel, intervals: dark.map((d) => ({ start: instant(d.startJd, zone), end: instant(d.endJd, zone), hours: hoursOf(d) })), hours: dark.reduce((h, d) => h + hoursOf(d), 0) },
-    moon: { rise: at(moon.riseJd), set: at(moon.setJd), transit: at(moon.transitJd), illuminatedFraction: moon.illuminatedFraction, phaseDeg: moon.phaseDeg },
+    moon: { rise: at(moon.riseJd), set: at(moon.setJd), transit: at(moon.transitJd), illuminatedFraction: moon.illuminatedFraction, phaseDeg: moon.phaseDeg, curve: curveStep > 0 ? moonCurve(frame, curveJd, curveUtc) : null },
     constraints: { altitudeLimitDeg: c.altitudeLimitDeg, maxAirmass: c.maxAirmass, airmassFormula: c.airmassFormula, minMoonSeparationDeg: c.minMoonSeparationDeg, sunAvoidanceDeg: c.sunAvoidanceDeg, horizonMask: c.mask.length > 0 },
     method,
     targets: targetNights,
     cautions: cautions(c),
   };
+}
+
+/** From the night's Moon table (knots every hour, under 0.01° of interpolation error; see frame.ts). */
+function moonCurve(frame: NightFrame, jds: readonly number[], utc: string[]): MoonCurve {
+  return { utc, altitudeDeg: jds.map((jd) => round(altitudeOfVectorRad(frame, moonAt(frame, jd), jd) / DEG, 3)) };
 }
 
 function round(x: number, digits: number): number {
