@@ -45,16 +45,16 @@ export function loadCatalogue(): Promise<Catalogue> {
 
 export const invalidateCatalogue = () => void (cached = null);
 
-/** The sky engine's target shape for a stored target: its system's place plus its current orbit. */
+/** The sky engine's target shape for a stored target: its system's place at its position epoch plus its current orbit. */
 export function skyTarget(cat: Catalogue, targetId: number) {
   const t = cat.target(targetId);
   const s = t && cat.system(t.systemId);
   if (!t || !s) return null;
   const orbit = cat.currentSolution(targetId)?.orbit;
-  return { name: t.name, raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, ...(orbit ? { orbit } : {}) };
+  return { name: t.name, raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, epoch: s.positionEpoch, ...(orbit ? { orbit } : {}) };
 }
 
-/** The sky engine's site shape for a stored site. */
+/** The sky engine's site shape for a stored site, with its horizon mask. */
 export function skySite(site: SiteRow) {
   return {
     name: site.name,
@@ -64,6 +64,7 @@ export function skySite(site: SiteRow) {
     timeZone: site.timeZone,
     minAltitudeDeg: site.minAltitudeDeg,
     sunAvoidanceDeg: site.sunAvoidanceDeg,
+    horizonMask: site.horizonMask,
     ...(site.pressureHpa !== null ? { pressureHpa: site.pressureHpa } : {}),
     ...(site.temperatureC !== null ? { temperatureC: site.temperatureC } : {}),
   };

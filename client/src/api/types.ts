@@ -1,9 +1,10 @@
 /** The shapes the client reads from the HTTP API (units as in the server's schemas). */
 export type Role = 'lead' | 'observer' | 'viewer';
 export interface Me { id: number; name: string; role: Role }
-export interface SystemRow { id: number; name: string; raDeg: number; decDeg: number; pmRaMasYr: number; pmDecMasYr: number; distancePc: number | null; massSolar: number | null; notes: string }
+export interface SystemRow { id: number; name: string; raDeg: number; decDeg: number; pmRaMasYr: number; pmDecMasYr: number; /** epoch of raDeg/decDeg, ISO 8601 UTC */ positionEpoch: string; distancePc: number | null; massSolar: number | null; notes: string }
 export interface TargetRow { id: number; systemId: number; name: string; magnitude: number | null; band: string | null; notes: string }
-export interface SiteRow { id: number; name: string; latitudeDeg: number; longitudeDeg: number; elevationM: number; timeZone: string; minAltitudeDeg: number; sunAvoidanceDeg: number; pressureHpa: number | null; temperatureC: number | null; laserGuideStar: boolean; notes: string }
+export interface HorizonPoint { azimuthDeg: number; altitudeDeg: number }
+export interface SiteRow { id: number; name: string; latitudeDeg: number; longitudeDeg: number; elevationM: number; timeZone: string; minAltitudeDeg: number; sunAvoidanceDeg: number; pressureHpa: number | null; temperatureC: number | null; horizonMask: HorizonPoint[]; laserGuideStar: boolean; notes: string }
 export interface CampaignRow { id: number; name: string; startDate: string; endDate: string; targetIds: number[]; siteIds: number[]; notes: string; goals: { cadenceDays: number; kinds: string[] }; constraints: { maxAirmass?: number; minMoonSeparationDeg?: number; darkness?: string } }
 export interface NightRow { id: number; siteId: number; campaignId: number | null; date: string; notes: string }
 export type BlockStatus = 'planned' | 'obtained' | 'partial' | 'lost' | 'skipped';
@@ -18,7 +19,8 @@ export interface OrbitEvent { kind: string; epoch: string; jd: number; orbitNumb
 export interface Stamp { utc: string; local: string }
 export interface Interval { start: Stamp; end: Stamp; hours: number }
 export interface Window extends Interval { opensBy: string; closesBy: string; best?: { utc: string; altitudeDeg: number; airmass: number } }
-export interface Curve { utc: string[]; altitudeDeg: number[]; airmass: (number | null)[]; moonSeparationDeg: number[] }
+/** Sampled every few minutes; `horizonMaskDeg` (the mask's altitude at the target's azimuth, °) only with a horizon mask. */
+export interface Curve { utc: string[]; altitudeDeg: number[]; azimuthDeg: number[]; airmass: (number | null)[]; moonSeparationDeg: number[]; horizonMaskDeg?: number[] }
 export interface VisTarget { name: string; observableHours: number; moonSeparationDeg: number; sunSeparationDeg: number; windows: Window[]; curve: Curve | null }
 export interface Visibility {
   nightId: number;
@@ -26,8 +28,9 @@ export interface Visibility {
   night: { date: string; start: Stamp; end: Stamp };
   sun: { set: Stamp | null; rise: Stamp | null; twilights: Record<'civil' | 'nautical' | 'astronomical', { dusk: Stamp | null; dawn: Stamp | null }> };
   darkness: { limit: string; intervals: Interval[]; hours: number };
-  moon: { rise: Stamp | null; set: Stamp | null; illuminatedFraction: number };
-  constraints: { altitudeLimitDeg: number; maxAirmass?: number; sunAvoidanceDeg: number };
+  /** `curve`: the Moon's topocentric altitude (centre, no refraction, °) on the targets' instants, when curves were asked for. */
+  moon: { rise: Stamp | null; set: Stamp | null; illuminatedFraction: number; curve?: { utc: string[]; altitudeDeg: number[] } | null };
+  constraints: { altitudeLimitDeg: number; maxAirmass?: number; sunAvoidanceDeg: number; horizonMask?: boolean };
   targets: VisTarget[];
   cautions: string[];
 }

@@ -1,10 +1,13 @@
 /**
- * One night on a UTC time axis: twilight bands, Moon-up band, each target's altitude (or airmass)
- * curve, the altitude limit, a line for now, and the night's blocks in a lane beneath.
+ * One night on a UTC time axis: twilight bands, Moon-up strip, each target's altitude (or airmass)
+ * curve, the altitude limit, a line for now, and the night's blocks in a lane beneath. In the
+ * altitude view the Moon's own altitude is drawn too, and the site's horizon mask is shaded along
+ * each target's path where it stands above the altitude limit.
  * Axis labels give UTC and the site's local clock side by side.
  */
 import type { BlockRow, Visibility } from '../api/types.ts';
 import { ms, utcClock, zoneClock } from '../lib/time.ts';
+import { maskAboveLimitPaths, moonAbovePath } from './night-overlays.ts';
 import { linear } from './scale.ts';
 
 export type NightMode = 'altitude' | 'airmass';
@@ -21,6 +24,8 @@ export interface NightChartProps {
 
 /** Dash patterns so curves differ by more than colour. */
 export const SERIES_DASH = ['', '6 3', '2 3', '8 3 2 3', '1 2', '10 4'];
+/** The Moon's curve: long-short dashes, in its own colour and thinner than any target's. */
+export const MOON_DASH = '12 3 3 3';
 const M = { left: 54, right: 14, top: 14, bottom: 56 };
 const LANE = 34;
 
@@ -64,7 +69,22 @@ export function NightChart(props: NightChartProps) {
       ) : null}
       <g class="grid">{hours.map((h) => <line key={h} x1={x(h)} x2={x(h)} y1={M.top} y2={M.top + plotH} />)}</g>
       {limit !== undefined && <line class="limit-line" x1={M.left} x2={width - M.right} y1={y(limit)} y2={y(limit)}><title>{mode === 'altitude' ? `altitude limit ${limit.toFixed(1)}°` : `airmass limit ${limit}`}</title></line>}
+      <pattern id="mask-hatch" patternUnits="userSpaceOnUse" width="6" height="6" patternTransform="rotate(45)"><line x1="0" y1="0" x2="0" y2="6" /></pattern>
       <clipPath id="night-plot-area"><rect x={M.left} y={M.top} width={width - M.left - M.right} height={plotH} /></clipPath>
+      {mode === 'altitude' && vis.targets.map((t, i) =>
+        t.curve?.horizonMaskDeg ? (
+          <g class={`mask-band s${i % 6}`} key={`mask-${t.name}`} clip-path="url(#night-plot-area)">
+            {maskAboveLimitPaths(t.curve.utc.map(ms), t.curve.horizonMaskDeg, t.curve.altitudeDeg, vis.constraints.altitudeLimitDeg, x, y).map((d) => <path key={d} d={d} />)}
+            <title>{`horizon mask along ${t.name}’s path, above the ${vis.constraints.altitudeLimitDeg.toFixed(0)}° limit`}</title>
+          </g>
+        ) : null,
+      )}
+      {mode === 'altitude' && vis.moon.curve ? (
+        <g class="moon-curve" clip-path="url(#night-plot-area)">
+          <path stroke-dasharray={MOON_DASH} d={moonAbovePath(vis.moon.curve.utc.map(ms), vis.moon.curve.altitudeDeg, x, y)} />
+          <title>{`Moon altitude, ${Math.round(vis.moon.illuminatedFraction * 100)}% illuminated`}</title>
+        </g>
+      ) : null}
       {vis.targets.map((t, i) =>
         t.curve ? (
           <g class={`series s${i % 6}`} key={t.name} clip-path="url(#night-plot-area)">

@@ -8,7 +8,7 @@ import { useState } from 'preact/hooks';
 import { get, getAll, send } from '../api/client.ts';
 import { loadCatalogue } from '../api/catalogue.ts';
 import type { BlockRow, NightRow, Visibility } from '../api/types.ts';
-import { NightChart, SERIES_DASH, type NightMode } from '../plots/night-chart.tsx';
+import { MOON_DASH, NightChart, SERIES_DASH, type NightMode } from '../plots/night-chart.tsx';
 import { isoOf, ms, utcClock, zoneAbbrev, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -111,6 +111,12 @@ export function NightView({ id }: { id: number }) {
           {vis.targets.map((t, i) => (
             <li key={t.name} class={`s${i % 6}`}><svg width="28" height="8" aria-hidden="true"><line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={SERIES_DASH[i % 6]} /></svg> {t.name}: <Qty v={t.observableHours} unit="h" /> observable, Moon <Qty v={t.moonSeparationDeg} unit="°" digits={0} /> away, Sun <Qty v={t.sunSeparationDeg} unit="°" digits={0} /> away</li>
           ))}
+          {vis.moon.curve && (
+            <li class="moon-key"><svg width="28" height="8" aria-hidden="true"><line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={MOON_DASH} /></svg> Moon altitude{mode === 'airmass' ? ' (altitude view)' : ''}: <Qty v={vis.moon.illuminatedFraction * 100} unit="%" digits={0} /> illuminated</li>
+          )}
+          {vis.targets.some((t) => t.curve?.horizonMaskDeg?.some((m) => m > vis.constraints.altitudeLimitDeg)) && (
+            <li class="mask-key"><svg width="28" height="10" aria-hidden="true"><rect width="28" height="10" /></svg> hatched: the site’s horizon mask along a target’s path where it rises above the altitude limit (altitude view)</li>
+          )}
           <li class="band-key">bands, lightest to darkest: Sun above 0°, civil, nautical, astronomical twilight, darkness · top strip: Moon up · dashed line: altitude limit · vertical line: now</li>
         </ul>
       </Section>

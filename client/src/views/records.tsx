@@ -1,12 +1,14 @@
 /**
  * Systems, targets, orbit solutions and sites: everyone reads them; leads change a record in
- * place and import CSV files, with every bad row listed and nothing written when any row fails.
+ * place, add systems, sites and campaigns, and import CSV files, with every bad row listed and
+ * nothing written when any row fails.
  */
 import { useState } from 'preact/hooks';
 import { ApiError, fieldMessages, send } from '../api/client.ts';
 import { invalidateCatalogue, loadCatalogue } from '../api/catalogue.ts';
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
+import { CreateRecords } from './record-forms.tsx';
 
 type Row = Record<string, unknown> & { id: number };
 interface Column { key: string; label: string; editable?: 'number' | 'text' | 'boolean' }
@@ -147,6 +149,7 @@ export function RecordsView() {
         <RecordTable path="/sites" rows={cat.sites as unknown as Row[]} cols={SITE_COLS} onSaved={reload} />
         {cat.sites.some((s) => s.laserGuideStar) && <Caution>Sites marked “laser guide star”: aircraft and satellite avoidance follow the site’s laser-traffic rules and the local aviation authority, not this tool.</Caution>}
       </Section>
+      {lead && <Section title="Add a system, site or campaign" id="create"><CreateRecords cat={cat} onCreated={reload} /></Section>}
       {lead && <Section title="Import a CSV file" id="import"><CsvImport onDone={reload} /></Section>}
     </div>
   );

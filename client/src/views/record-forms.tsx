@@ -1,0 +1,222 @@
+/**
+ * Leads add systems, sites and campaigns here. Each form posts one record; the server's 400/422
+ * details are shown beside the field they name, the typed values stay for correcting, and nothing
+ * is stored unless the whole record is accepted.
+ */
+import { useState } from 'preact/hooks';
+import { fieldMessages, send } from '../api/client.ts';
+import { invalidateCatalogue, type Catalogue } from '../api/catalogue.ts';
+import type { HorizonPoint } from '../api/types.ts';
+import { ErrorLine } from '../lib/ui.tsx';
+
+/** One input. `key` is the dotted path in the request body, so server messages land beside it. */
+export interface FieldSpec {
+  key: string;
+  label: string;
+  kind: 'text' | 'number' | 'date' | 'boolean' | 'select' | 'ids' | 'mask' | 'textarea';
+  /** Left out of the body when empty (the server's default applies). */
+  optional?: boolean;
+  initial?: string | boolean | number[];
+  options?: { value: string; label: string }[];
+  hint?: string;
+  /** Turns the typed text into the body's value (default: the text itself). */
+  toValue?: (text: string) => unknown;
+}
+type Value = string | boolean | number[];
+
+/** "az alt, az alt, …" (degrees) → mask points, or the rule a pair breaks when it is not two numbers. */
+export function parseMask(text: string): { points: HorizonPoint[] } | { rule: string } {
+  const pairs = text.split(/[,;\n]/).map((p) => p.trim()).filter(Boolean);
+  const points: HorizonPoint[] = [];
+  for (const [i, p] of pairs.entries()) {
+    const nums = p.split(/\s+/).map(Number);
+    if (nums.length !== 2 || nums.some((n) => !Number.isFinite(n))) return { rule: `pair ${i + 1} "${p}" must be two numbers: azimuth then altitude, degrees` };
+    points.push({ azimuthDeg: nums[0]!, altitudeDeg: nums[1]! });
+  }
+  return { points };
+}
+
+/** Set a dotted path in a plain object, creating the objects on the way. */
+function setPath(body: Record<string, unknown>, path: string, v: unknown): void {
+  const keys = path.split('.');
+  let o = body;
+  for (const k of keys.slice(0, -1)) o = (o[k] ??= {}) as Record<string, unknown>;
+  o[keys[keys.length - 1]!] = v;
+}
+
+/** The request body from the form's values, or the first field the client itself cannot read. */
+export function bodyOf(fields: FieldSpec[], values: Record<string, Value>): { body: Record<string, unknown> } | { field: string; rule: string } {
+  const body: Record<string, unknown> = {};
+  for (const f of fields) {
+    const v = values[f.key];
+    if (f.kind === 'boolean' || f.kind === 'ids') setPath(body, f.key, v);
+    else if (f.kind === 'mask') {
+      const m = parseMask(String(v ?? ''));
+      if ('rule' in m) return { field: f.key, rule: m.rule };
+      if (m.points.length) setPath(body, f.key, m.points);
+    } else {
+      const s = String(v ?? '').trim();
+      if (s === '' && f.optional) continue;
+      if (f.kind === 'number') {
+        const n = s === '' ? NaN : Number(s);
+        if (!Number.isFinite(n)) return { field: f.key, rule: `${JSON.stringify(s)} must be a number` };
+        setPath(body, f.key, n);
+      } else setPath(body, f.key, f.toValue ? f.toValue(s) : s);
+    }
+  }
+  return { body };
+}
+
+/** Server messages keyed by the form field whose path prefixes theirs (horizonMask.2.altitudeDeg → horizonMask). */
+export function messagesByField(fields: FieldSpec[], raw: Record<string, string>): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [path, msg] of Object.entries(raw)) {
+    const f = fields.find((x) => path === x.key || path.startsWith(`${x.key}.`));
+    const key = f?.key ?? '(form)';
+    const text = f && path !== f.key ? `${path.slice(f.key.length + 1)}: ${msg}` : msg;
+    out[key] = out[key] ? `${out[key]}; ${text}` : text;
+  }
+  return out;
+}
+
+const initialOf = (fields: FieldSpec[]) => Object.fromEntries(fields.map((f) => [f.key, f.initial ?? (f.kind === 'boolean' ? false : f.kind === 'ids' ? [] : '')])) as Record<string, Value>;
+
+export function CreateForm({ title, path, fields, onCreated, ids }: { title: string; path: string; fields: FieldSpec[]; onCreated: () => void; ids?: Record<string, { id: number; name: string }[]> }) {
+  const [values, setValues] = useState(() => initialOf(fields));
+  const [error, setError] = useState<unknown>(null);
+  const [local, setLocal] = useState<{ field: string; rule: string } | null>(null);
+  const [created, setCreated] = useState<string | null>(null);
+  const [busy, setBusy] = useState(false);
+  const msgs = { ...messagesByField(fields, fieldMessages(error)), ...(local ? { [local.field]: local.rule } : {}) };
+  const set = (k: string, v: Value) => setValues({ ...values, [k]: v });
+  const submit = async (e: Event) => {
+    e.preventDefault();
+    setError(null);
+    setLocal(null);
+    setCreated(null);
+    const b = bodyOf(fields, values);
+    if ('field' in b) return setLocal(b);
+    setBusy(true);
+    try {
+      const row = await send<{ id: number; name: string }>('POST', path, b.body);
+      setValues(initialOf(fields));
+      setCreated(`${row.name} added (#${row.id}).`);
+      invalidateCatalogue();
+      onCreated();
+    } catch (err) {
+      setError(err);
+    } finally {
+      setBusy(false);
+    }
+  };
+  const input = (f: FieldSpec) => {
+    const v = values[f.key];
+    const common = { name: f.key, 'aria-invalid': !!msgs[f.key], 'aria-describedby': msgs[f.key] ? `${path.slice(1)}-${f.key}-msg` : undefined };
+    switch (f.kind) {
+      case 'boolean':
+        return <input type="checkbox" {...common} checked={Boolean(v)} onChange={(e) => set(f.key, e.currentTarget.checked)} />;
+      case 'select':
+        return <select {...common} value={String(v)} onChange={(e) => set(f.key, e.currentTarget.value)}>{f.options!.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}</select>;
+      case 'textarea':
+      case 'mask':
+        return <textarea {...common} rows={2} value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+      case 'ids': {
+        const chosen = v as number[];
+        return (
+          <span class="id-choices" role="group" aria-label={f.label}>
+            {(ids?.[f.key] ?? []).map((o) => (
+              <label key={o.id} class="inline"><input type="checkbox" checked={chosen.includes(o.id)} onChange={(e) => set(f.key, e.currentTarget.checked ? [...chosen, o.id] : chosen.filter((x) => x !== o.id))} /> {o.name}</label>
+            ))}
+          </span>
+        );
+      }
+      case 'number':
+        return <input {...common} type="number" step="any" value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+      case 'date':
+        return <input {...common} type="date" value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+      default:
+        return <input {...common} type="text" value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+    }
+  };
+  const unplaced = msgs['(form)'];
+  return (
+    <form class="create-form" aria-label={title} onSubmit={submit} noValidate>
+      <fieldset>
+        <legend>{title}</legend>
+        <div class="field-grid">
+          {fields.map((f) => (
+            <label key={f.key} class={`field${f.kind === 'ids' || f.kind === 'mask' || f.kind === 'textarea' ? ' wide' : ''}${msgs[f.key] ? ' invalid' : ''}`}>
+              <span>{f.label}{f.optional ? <span class="muted"> (optional)</span> : null}</span>
+              {input(f)}
+              {f.hint && <span class="muted hint">{f.hint}</span>}
+              {msgs[f.key] && <span class="field-msg" id={`${path.slice(1)}-${f.key}-msg`}>{msgs[f.key]}</span>}
+            </label>
+          ))}
+        </div>
+        <div class="toolbar">
+          <button type="submit" class="primary" disabled={busy}>Add</button>
+          {created && <span class="created" role="status">{created}</span>}
+        </div>
+        {unplaced && <p class="field-msg" role="alert">{unplaced}</p>}
+        {error !== null && !Object.keys(msgs).length ? <ErrorLine error={error} /> : null}
+        {(error !== null || local) && <p class="muted">Nothing was stored; correct the marked fields and add again.</p>}
+      </fieldset>
+    </form>
+  );
+}
+
+const DARKNESS = [{ value: '', label: 'server default (astronomical)' }, { value: 'astronomical', label: 'astronomical (Sun below −18°)' }, { value: 'nautical', label: 'nautical (Sun below −12°)' }, { value: 'civil', label: 'civil (Sun below −6°)' }];
+
+export const SYSTEM_FIELDS: FieldSpec[] = [
+  { key: 'name', label: 'name', kind: 'text' },
+  { key: 'raDeg', label: 'RA (°, ICRS)', kind: 'number' },
+  { key: 'decDeg', label: 'Dec (°, ICRS)', kind: 'number' },
+  { key: 'positionEpoch', label: 'position epoch', kind: 'text', optional: true, hint: 'e.g. J2016.0, an ISO 8601 instant, JD or MJD; default J2000.0' },
+  { key: 'pmRaMasYr', label: 'μα* (mas/yr)', kind: 'number', optional: true },
+  { key: 'pmDecMasYr', label: 'μδ (mas/yr)', kind: 'number', optional: true },
+  { key: 'distancePc', label: 'distance (pc)', kind: 'number', optional: true },
+  { key: 'massSolar', label: 'mass (M☉)', kind: 'number', optional: true },
+  { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
+];
+
+export const SITE_FIELDS: FieldSpec[] = [
+  { key: 'name', label: 'name', kind: 'text' },
+  { key: 'latitudeDeg', label: 'latitude (°, N +)', kind: 'number' },
+  { key: 'longitudeDeg', label: 'longitude (°, E +)', kind: 'number' },
+  { key: 'elevationM', label: 'elevation (m)', kind: 'number' },
+  { key: 'timeZone', label: 'time zone (IANA)', kind: 'text', hint: 'e.g. America/Santiago' },
+  { key: 'minAltitudeDeg', label: 'lowest altitude (°)', kind: 'number', optional: true },
+  { key: 'sunAvoidanceDeg', label: 'Sun avoidance (°)', kind: 'number', optional: true, hint: 'default 45°; follow the site’s own interlock if stricter' },
+  { key: 'pressureHpa', label: 'pressure (hPa)', kind: 'number', optional: true },
+  { key: 'temperatureC', label: 'temperature (°C)', kind: 'number', optional: true },
+  { key: 'horizonMask', label: 'horizon mask', kind: 'mask', optional: true, hint: 'pairs “azimuth altitude” in degrees, separated by commas, e.g. 0 8, 170 34, 260 7' },
+  { key: 'laserGuideStar', label: 'laser guide star', kind: 'boolean' },
+  { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
+];
+
+export const CAMPAIGN_FIELDS: FieldSpec[] = [
+  { key: 'name', label: 'name', kind: 'text' },
+  { key: 'startDate', label: 'first night', kind: 'date' },
+  { key: 'endDate', label: 'last night', kind: 'date' },
+  { key: 'goals.cadenceDays', label: 'cadence (days)', kind: 'number' },
+  { key: 'goals.kinds', label: 'measurements', kind: 'select', initial: 'astrometry', options: [{ value: 'astrometry', label: 'astrometry' }, { value: 'spectroscopy', label: 'spectroscopy' }, { value: 'both', label: 'astrometry and spectroscopy' }], toValue: (s) => (s === 'both' ? ['astrometry', 'spectroscopy'] : [s]) },
+  { key: 'goals.densifiedCadenceDays', label: 'cadence near periapsis (days)', kind: 'number', optional: true },
+  { key: 'goals.densifyWithinDays', label: 'near periapsis means within (days)', kind: 'number', optional: true },
+  { key: 'constraints.maxAirmass', label: 'highest airmass', kind: 'number', optional: true },
+  { key: 'constraints.minMoonSeparationDeg', label: 'least Moon distance (°)', kind: 'number', optional: true },
+  { key: 'constraints.darkness', label: 'darkness', kind: 'select', optional: true, options: DARKNESS, initial: '' },
+  { key: 'targetIds', label: 'targets', kind: 'ids' },
+  { key: 'siteIds', label: 'sites', kind: 'ids' },
+  { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
+];
+
+/** The three forms, for the records page (leads only). */
+export function CreateRecords({ cat, onCreated }: { cat: Catalogue; onCreated: () => void }) {
+  return (
+    <div class="create-records">
+      <CreateForm title="New system" path="/systems" fields={SYSTEM_FIELDS} onCreated={onCreated} />
+      <CreateForm title="New site" path="/sites" fields={SITE_FIELDS} onCreated={onCreated} />
+      <CreateForm title="New campaign" path="/campaigns" fields={CAMPAIGN_FIELDS} onCreated={onCreated} ids={{ targetIds: cat.targets.map((t) => ({ id: t.id, name: t.name })), siteIds: cat.sites.map((s) => ({ id: s.id, name: s.name })) }} />
+    </div>
+  );
+}
