@@ -163,6 +163,8 @@ export const nights = sqliteTable(
 );
 
 export const BLOCK_STATUSES = ['planned', 'obtained', 'partial', 'lost', 'withdrawn'] as const;
+/** Who made a block: an accepted season plan, an accepted night schedule, or a person (HTTP, CLI). */
+export const BLOCK_ORIGINS = ['season-plan', 'night-schedule', 'by-hand'] as const;
 
 export const blocks = sqliteTable(
   'blocks',
@@ -175,6 +177,10 @@ export const blocks = sqliteTable(
     endUtc: text('end_utc').notNull(),
     status: text('status', { enum: BLOCK_STATUSES }).notNull().default('planned'),
     laserGuideStar: integer('laser_guide_star', { mode: 'boolean' }).notNull().default(false),
+    /** Set once, when the block is written. Rows older than the column are 'by-hand' unless their notes show a plan wrote them (migration 0002). */
+    origin: text('origin', { enum: BLOCK_ORIGINS }).notNull().default('by-hand'),
+    /** A person fixed this block where it is: no accepted plan replaces it. */
+    pinned: integer('pinned', { mode: 'boolean' }).notNull().default(false),
     notes: text('notes').notNull().default(''),
     version: integer('version').notNull().default(1),
     createdAt: created(),

@@ -3,6 +3,7 @@ import { parseArgs } from 'node:util';
 import { eq } from 'drizzle-orm';
 import { measurements } from '../../../db/schema.ts';
 import { ephemeris } from '../../science/orbit/index.ts';
+import { parseEpoch } from '../../science/time/index.ts';
 import { ephemerisCsv } from '../../store/exports/ephemeris.ts';
 import { resolveEpochs } from '../../http/orbit.ts';
 import { measurementsCsv, measurementsForExport } from '../../store/exports/measurements.ts';
@@ -13,11 +14,12 @@ import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 const help = `usage: epochwright export measurements [--target-id <id>] [--json]
        epochwright export ephemeris --target-id <id> --from <epoch> --to <epoch> [--step <interval>] [--json]
-       epochwright export calendar --campaign-id <id>
+       epochwright export calendar --campaign-id <id> [--at <epoch>]
 
 measurements  CSV in the layout 'epochwright import --kind measurements' reads (or JSON)
 ephemeris     predictions from the target's current orbit solution, CSV (or JSON)
-calendar      the campaign's planned blocks and periapsis passages as iCalendar (RFC 5545)
+calendar      the campaign's planned blocks and periapsis passages as iCalendar (RFC 5545), with
+              its flags as of --at (ISO 8601, JD, MJD; default now)
 
 options:
 ${DATABASE_HELP}
@@ -36,7 +38,7 @@ export const exportCommand: Command = {
   async run(argv) {
     const { values, positionals } = parseArgs({
       args: argv,
-      options: { ...databaseOption, 'target-id': { type: 'string' }, 'campaign-id': { type: 'string' }, from: { type: 'string' }, to: { type: 'string' }, step: { type: 'string' }, json: { type: 'boolean' } },
+      options: { ...databaseOption, 'target-id': { type: 'string' }, 'campaign-id': { type: 'string' }, from: { type: 'string' }, to: { type: 'string' }, step: { type: 'string' }, at: { type: 'string' }, json: { type: 'boolean' } },
       strict: true,
       allowPositionals: true,
     });
@@ -57,7 +59,7 @@ export const exportCommand: Command = {
         case 'calendar': {
           const campaignId = id('campaign-id', values['campaign-id']);
           if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
-          return campaignCalendar(store.db, campaignId);
+          return campaignCalendar(store.db, campaignId, values.at === undefined ? {} : { flagsAtJd: parseEpoch(values.at, '--at') });
         }
         default:
           throw new UsageError(`export: say measurements, ephemeris or calendar${what ? ` (not ${JSON.stringify(what)})` : ''}`);

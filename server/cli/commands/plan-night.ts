@@ -4,6 +4,7 @@ import type { ScheduledBlock } from '../../science/plan/index.ts';
 import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import { LOCAL_OPERATOR } from '../../store/index.ts';
 import { acceptNightSchedule, previewNightSchedule, type NightScheduleRequest } from '../../store/views/night-plan.ts';
+import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { asOptions, positiveId } from './plan-season.ts';
@@ -17,7 +18,9 @@ astrometry 40 min, spectroscopy 60 min, doubled priority near periapsis) or your
 left out is listed with its reason; blocks using a laser guide star carry the caution.
 
 Nothing is written unless --accept is given. Accepting replaces the night's blocks that are still
-only plans and keeps obtained, logged, measured or begun ones (refusing any overlap with them).
+only plans and keeps obtained, logged, measured, begun, hand-made and pinned ones: the schedule is
+planned around them, and a candidate of the same target and kind as a kept block is left out.
+Blocks pinned with --pin are stored as pinned, so later re-plans keep them.
 
 options:
   --night <id>                 the stored night (its campaign gives targets and constraints)
@@ -27,14 +30,15 @@ options:
                                maxAirmass?, laserGuideStar? }]
   --method <auto|exact|heuristic>
   --slot <minutes>             slot length, [1, 30]; default 5
-  --at <epoch>                 the moment of scheduling (ISO 8601, JD, MJD); default now
+  --at <epoch>                 the moment of scheduling (ISO 8601, JD, MJD); default now. With
+                               --accept it may not lie more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the clock
   --accept                     store the schedule (as the local operator)
   --digest <hex>               with --accept: refuse if the schedule differs from that preview
 ${DATABASE_HELP}
   --json | --csv               machine-readable output instead of a table
 `;
 
-const OPTIONS = { pins: '--pin', remove: '--remove', candidates: '--candidates', slotMinutes: '--slot', method: '--method', nightId: '--night' };
+const OPTIONS = { pins: '--pin', remove: '--remove', candidates: '--candidates', slotMinutes: '--slot', method: '--method', nightId: '--night', at: '--at' };
 
 export const planNightCommand: Command = {
   summary: 'schedule of a stored night: blocks, left-out blocks and why (--accept stores it)',

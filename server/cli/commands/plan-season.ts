@@ -5,6 +5,7 @@ import type { PlannedEpoch } from '../../science/plan/index.ts';
 import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import { LOCAL_OPERATOR } from '../../store/index.ts';
 import { acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
+import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -17,14 +18,16 @@ orbit; each timed by the night scheduler. Shows why each epoch was chosen, the g
 met and why, and how much the plan should shrink the 1σ of each periapsis date and mass.
 
 Nothing is written unless --accept is given. Accepting replaces the blocks of the open nights that
-are still only plans; obtained, logged, measured or begun blocks, and their nights, are kept.
+are still only plans; obtained, logged, measured, begun, hand-made or pinned blocks, and their
+nights, are kept.
 
 options:
   --campaign <id>        the campaign
   --start, --end <date>  first and last night (local evening dates) within the campaign
   --site <id>            plan for this site of the campaign only (repeatable); default all
   --all-nights           plan every night of the range, not only the campaign's stored nights
-  --at <epoch>           the moment of planning (ISO 8601, JD, MJD); default now
+  --at <epoch>           the moment of planning (ISO 8601, JD, MJD); default now. With --accept
+                         it may not lie more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the clock
   --settings <json|file> more planner settings: { blockMinutes: { astrometry, spectroscopy },
                          precision: { astrometryMas, spectroscopyKmS }, slotMinutes, slewMinutes,
                          sameTargetMinutes, fillFraction, extraEpochsPerTarget }
@@ -48,7 +51,7 @@ export async function asOptions<T>(options: Record<string, string>, f: () => Pro
   }
 }
 
-const OPTIONS = { startDate: '--start', endDate: '--end', siteIds: '--site', nights: '--all-nights', campaignId: '--campaign', '*': '--settings' };
+const OPTIONS = { startDate: '--start', endDate: '--end', siteIds: '--site', nights: '--all-nights', campaignId: '--campaign', at: '--at', '*': '--settings' };
 
 export function positiveId(option: string, text: string | undefined): number {
   const id = Number(text);

@@ -8,6 +8,7 @@ import { ImportRejected, importCsv } from '../../store/csv/import.ts';
 import { campaignCalendar } from '../../store/exports/calendar.ts';
 import { measurementsCsv, measurementsForExport } from '../../store/exports/measurements.ts';
 import type { Store } from '../../store/index.ts';
+import { parseEpoch } from '../../science/time/index.ts';
 import { requireRole } from '../auth.ts';
 import { HttpError } from '../errors.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
@@ -15,6 +16,7 @@ import { MeasurementFilters, measurementWhere } from './measurements.ts';
 
 const Report = z.object({ kind: z.enum(CSV_KINDS), dryRun: z.boolean(), rows: z.number().int(), written: z.number().int(), problems: z.array(z.object({ line: z.number().int(), column: z.string(), value: z.unknown(), rule: z.string() })) });
 const ImportQuery = z.object({ dryRun: z.enum(['true', 'false']).default('false').openapi({ description: 'check every row, write nothing' }) });
+const CalendarQuery = z.object({ at: z.string().optional().openapi({ description: 'the moment the flags are computed for (ISO 8601 with zone, JD, MJD); default now' }) });
 const KindParam = z.object({ kind: z.enum(CSV_KINDS).openapi({ param: { name: 'kind', in: 'path' } }) });
 
 /** Who may import what: orbit solutions and targets are the lead's, measurements the observers'. */
@@ -57,10 +59,11 @@ export function exchangeRoutes(store: Store) {
     }),
   );
   app.openapi(
-    createRoute({ method: 'get', path: '/campaigns/{id}/calendar.ics', tags: ['exports'], security, summary: 'The campaign as an iCalendar feed (RFC 5545); calendar programs may pass ?token=', request: { params: IdParam }, responses: { 200: { content: { 'text/calendar': { schema: z.string() } }, description: 'the feed' }, ...errorResponses } }),
+    createRoute({ method: 'get', path: '/campaigns/{id}/calendar.ics', tags: ['exports'], security, summary: 'The campaign as an iCalendar feed (RFC 5545); calendar programs may pass ?token=', request: { params: IdParam, query: CalendarQuery }, responses: { 200: { content: { 'text/calendar': { schema: z.string() } }, description: 'the feed' }, ...errorResponses } }),
     h(async (c) => {
       requireRole(c, 'viewer');
-      const text = await campaignCalendar(store.db, valid(c, 'param').id as number, { domain: new URL(c.req.url).hostname || undefined });
+      const { at } = valid(c, 'query');
+      const text = await campaignCalendar(store.db, valid(c, 'param').id as number, { domain: new URL(c.req.url).hostname || undefined, ...(at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') }) });
       return c.body(text, 200, { 'content-type': 'text/calendar; charset=utf-8' });
     }),
   );

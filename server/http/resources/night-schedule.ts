@@ -8,6 +8,7 @@ import { createRoute, z } from '@hono/zod-openapi';
 import { SCHEDULE_METHODS } from '../../science/plan/index.ts';
 import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import type { Store } from '../../store/index.ts';
+import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { acceptNightSchedule, previewNightSchedule, type NightScheduleRequest } from '../../store/views/night-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
@@ -22,7 +23,7 @@ export const NightScheduleBody = z.object({
   sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),
   method: z.enum(SCHEDULE_METHODS).optional().openapi({ description: '"auto" (default): exact up to 8 candidates, else greedy with local improvement' }),
   blockMinutes: z.object({ astrometry: num('default 40'), spectroscopy: num('default 60') }).strict().optional().openapi({ description: 'lengths of the campaign’s candidates, minutes' }),
-  at: z.string().optional().openapi({ description: 'the moment of scheduling (ISO 8601, JD, MJD); default now. Blocks begun before it are kept' }),
+  at: z.string().optional().openapi({ description: `the moment of scheduling (ISO 8601, JD, MJD); default now. Blocks begun before it are kept. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock` }),
   digest: z.string().optional().openapi({ description: 'accept only: the preview’s digest; 409 if the schedule would now differ' }),
 }).strict();
 

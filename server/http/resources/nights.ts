@@ -1,7 +1,7 @@
 /** /nights and /blocks: the planned nights at each site and their blocks (observers write). */
 import { z } from '@hono/zod-openapi';
 import { eq, gte, inArray, lt, lte } from 'drizzle-orm';
-import { blocks, nights } from '../../../db/schema.ts';
+import { BLOCK_ORIGINS, blocks, nights } from '../../../db/schema.ts';
 import { parseEpoch, jdToIso } from '../../science/time/index.ts';
 import type { Store } from '../../store/index.ts';
 import { BlockFields, NightFields } from '../../store/schemas/entities.ts';
@@ -43,7 +43,7 @@ export function blockRoutes(store: Store) {
     repo: store.blocks,
     create: BlockFields.strict(),
     patch: patchOf(BlockFields),
-    row: rowOf(BlockFields, { version: z.number().int() }),
+    row: rowOf(BlockFields, { version: z.number().int(), origin: z.enum(BLOCK_ORIGINS).openapi({ description: 'who made the block: an accepted season plan, night schedule, or a person; set once' }) }),
     filters: z.object({ nightId: optionalId, targetId: optionalId, siteId: optionalId, campaignId: optionalId, from: instantQuery, to: instantQuery }),
     where: (q) => [
       q.nightId ? eq(blocks.nightId, q.nightId) : undefined,

@@ -7,6 +7,7 @@
 import { createRoute, z } from '@hono/zod-openapi';
 import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import type { Store } from '../../store/index.ts';
+import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { NIGHT_CHOICES, acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
@@ -17,7 +18,7 @@ export const SeasonPlanBody = z.object({
   endDate: z.iso.date().openapi({ description: 'last night, within the campaign and 400 nights of startDate' }),
   siteIds: z.array(z.number().int().positive()).optional().openapi({ description: 'sites of the campaign to plan; default all' }),
   nights: z.enum(NIGHT_CHOICES).optional().openapi({ description: '"allocated" (default): the campaign’s stored nights; "all": every night of the range' }),
-  at: z.string().optional().openapi({ description: 'the moment of planning (ISO 8601, JD, MJD); default now. Nights begun before it are not planned' }),
+  at: z.string().optional().openapi({ description: `the moment of planning (ISO 8601, JD, MJD); default now. Nights begun before it are not planned. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock` }),
   blockMinutes: z.object({ astrometry: num('minutes, default 40'), spectroscopy: num('minutes, default 60') }).strict().optional(),
   precision: z.object({ astrometryMas: num('expected 1σ per offset, mas; default 1'), spectroscopyKmS: num('expected 1σ, km/s; default 5') }).strict().optional(),
   slotMinutes: num('slot length, minutes, [1, 30]; default 10'),

@@ -1,8 +1,9 @@
 /**
  * The night scheduler: from candidate blocks for one site and night, a non-overlapping sequence
  * inside the observable windows that maximises Σ priority × (mean 1/airmass over the block), with a
- * changeover gap between blocks, pinned blocks kept where the user put them, and a reason for every
- * block left out. The same input always gives the same schedule.
+ * changeover gap between blocks, pinned blocks kept where the user put them, blocks already stored
+ * that must stay (`kept`) planned around, and a reason for every block left out. The same input
+ * always gives the same schedule.
  */
 import { InputError } from '../errors.ts';
 import type { Constraints } from '../sky/constraints.ts';
@@ -38,6 +39,21 @@ export interface ScheduleRequest extends ScheduleOptions {
   pins?: unknown;
   /** Candidate ids to leave out. */
   remove?: unknown;
+  /** Blocks already on the night that stay as they are: no block may overlap one (with the changeover gap). */
+  kept?: readonly KeptBlock[];
+}
+
+/** A stored block the schedule must plan around. */
+export interface KeptBlock {
+  /** How the reasons name it, e.g. "block 12". */
+  label: string;
+  /** Name of one of the targets, or null for a target outside the request (the slew gap then applies). */
+  target: string | null;
+  kind: MeasurementKind;
+  startJd: number;
+  endJd: number;
+  /** It stands for the night's epoch of its target and kind (planned or obtained, not lost or withdrawn): a candidate of the same target and kind is left out. */
+  counts: boolean;
 }
 
 export interface ScheduledBlock {
@@ -110,8 +126,20 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
   const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => ({ ...c, slots: slotsFor(c.durationMinutes, grid), grid: gridOf(c.targetIndex) }));
   const byId = new Map(candidates.map((c) => [c.id, c]));
   const removed = readRemoved(request.remove, byId);
-  const pins = readPins(request.pins, byId, removed, grid);
   const gapDays = (a: number, b: number) => (a === b ? sameTargetMinutes : slewMinutes) / 1440;
+  const kept = (request.kept ?? []).map((k) => ({ ...k, targetIndex: k.target === null ? -1 : targets.findIndex((t) => t.name === k.target) }));
+  const repeats = new Map<Candidate, string>();
+  for (const c of candidates) {
+    const same = kept.find((k) => k.counts && k.targetIndex === c.targetIndex && k.kind === c.kind);
+    if (same) repeats.set(c, `already has a kept block of this kind tonight (${same.label})`);
+  }
+  // Clear of a kept block: the changeover gap on both sides (a target outside the request always needs a slew).
+  const clearOfKept = (c: Candidate, startJd: number, endJd: number) =>
+    kept.find((k) => {
+      const gap = k.targetIndex < 0 ? slewMinutes / 1440 : gapDays(c.targetIndex, k.targetIndex);
+      return !(endJd + gap <= k.startJd + 1e-9 || k.endJd + gap <= startJd + 1e-9);
+    }) ?? null;
+  const pins = readPins(request.pins, byId, removed, grid, repeats, (c, s) => clearOfKept(c, grid.edgeJd[s]!, grid.edgeJd[s + c.slots]!));
   const jd = grid.edgeJd;
   const clearOfPins = (c: Candidate, s: number) =>
     pins.every((p) => {
@@ -121,7 +149,7 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
       return jd[pe]! + gapDays(p.candidate.targetIndex, c.targetIndex) <= jd[s]! + 1e-9;
     });
 
-  const free = candidates.filter((c) => !removed.has(c.id) && !pins.some((p) => p.candidate === c));
+  const free = candidates.filter((c) => !removed.has(c.id) && !repeats.has(c) && !pins.some((p) => p.candidate === c));
   const everFits = new Map<Candidate, boolean>();
   const items: SolverItem[] = free.map((c) => {
     const starts: number[] = [];
@@ -130,7 +158,7 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
     for (let i = 0; i + c.slots < jd.length; i++) {
       if (!fitsAt(c, i)) continue;
       fits = true;
-      if (!clearOfPins(c, i)) continue;
+      if (!clearOfPins(c, i) || clearOfKept(c, jd[i]!, jd[i + c.slots]!) !== null) continue;
       starts.push(i);
       values.push(valueAt(c, i));
     }
@@ -174,7 +202,7 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
   });
   const leftOut = candidates
     .filter((c) => !placed.some((p) => p.c === c))
-    .map((c) => ({ id: c.id, target: c.targetName, kind: c.kind, reason: whyLeftOut(c, grid, removed, everFits.get(c) ?? false, pins, placed) }));
+    .map((c) => ({ id: c.id, target: c.targetName, kind: c.kind, reason: repeats.get(c) ?? whyLeftOut(c, grid, removed, everFits.get(c) ?? false, pins, placed, kept.length > 0) }));
   const notes = [PLAN_ADVISORY, ...skyCautions(grid.constraints).slice(1)];
   if (blocks.some((b) => b.laserGuideStar)) notes.push(LASER_GUIDE_STAR_CAUTION);
   return {
@@ -204,7 +232,7 @@ function readRemoved(input: unknown, byId: Map<string, Candidate>): Set<string> 
   return new Set(input as string[]);
 }
 
-function readPins(input: unknown, byId: Map<string, Candidate>, removed: Set<string>, grid: NightGrid): Pin[] {
+function readPins(input: unknown, byId: Map<string, Candidate>, removed: Set<string>, grid: NightGrid, repeats: Map<Candidate, string>, clash: (c: Candidate, s: number) => KeptBlock | null): Pin[] {
   if (input === undefined || input === null) return [];
   if (!Array.isArray(input)) throw new InputError('pins', input, 'must be an array of { id, start }');
   const jd = grid.edgeJd;
@@ -215,6 +243,7 @@ function readPins(input: unknown, byId: Map<string, Candidate>, removed: Set<str
     const c = typeof r.id === 'string' ? byId.get(r.id) : undefined;
     if (!c) throw new InputError(`${p}.id`, r.id, 'must be the id of a candidate');
     if (removed.has(c.id)) throw new InputError(`${p}.id`, r.id, 'is also in "remove"');
+    if (repeats.has(c)) throw new InputError(`${p}.id`, r.id, `cannot be pinned: its target ${repeats.get(c)}`);
     const t = parseEpoch(r.start, `${p}.start`);
     let s = -1;
     for (let i = 0; i < jd.length; i++) if (Math.abs(jd[i]! - t) <= half + 1e-9) s = s < 0 || Math.abs(jd[i]! - t) < Math.abs(jd[s]! - t) ? i : s;
@@ -223,6 +252,8 @@ function readPins(input: unknown, byId: Map<string, Candidate>, removed: Set<str
       const bad = firstBroken(c, s);
       throw new InputError(`${p}.start`, r.start, `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : reasonWords(bad, grid.constraints)}${c.maxAirmass !== null && bad === null ? ` or above its airmass limit ${c.maxAirmass}` : ''}`);
     }
+    const over = clash(c, s);
+    if (over) throw new InputError(`${p}.start`, r.start, `would put ${c.id} over ${over.label} (or inside the changeover gap around it), which stays on the night`);
     return { candidate: c, start: s };
   });
   pins.sort((a, b) => a.start - b.start);
@@ -239,7 +270,7 @@ function firstBroken(c: Candidate, s: number): (typeof REASON_CODES)[number] | n
   return null;
 }
 
-function whyLeftOut(c: Candidate, grid: NightGrid, removed: Set<string>, everFits: boolean, pins: Pin[], placed: { c: Candidate; start: number; pinned: boolean }[]): string {
+function whyLeftOut(c: Candidate, grid: NightGrid, removed: Set<string>, everFits: boolean, pins: Pin[], placed: { c: Candidate; start: number; pinned: boolean }[], anyKept: boolean): string {
   if (removed.has(c.id)) return 'removed by the user';
   if (grid.edgeJd.length === 0) return `no darkness (${grid.constraints.darknessLabel}) at ${grid.site.name} on this night`;
   if (!everFits) {
@@ -263,5 +294,6 @@ function whyLeftOut(c: Candidate, grid: NightGrid, removed: Set<string>, everFit
   const pinnedRivals = rivals.filter((p) => p.pinned).map((p) => p.c.id);
   if (rivals.length > 0 && pinnedRivals.length === rivals.length) return `its windows are taken by pinned blocks: ${pinnedRivals.join(', ')}`;
   void pins;
+  if (rivals.length === 0 && anyKept) return 'its windows are taken by blocks already stored on the night, which stay';
   return `its windows are taken by blocks worth more in total: ${rivals.map((p) => p.c.id).join(', ')}`;
 }

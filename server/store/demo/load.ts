@@ -131,6 +131,7 @@ export async function loadDemo(store: Store, actor: Actor, options: DemoOptions 
               startUtc: start.toUTC().toISO()!,
               endUtc: start.plus({ minutes: 45 }).toUTC().toISO()!,
               laserGuideStar: site.laserGuideStar && kind === 'astrometry' && t.raDeg === VESPER.raDeg,
+              origin: 'season-plan', // the demo's nights stand for an earlier accepted plan, so a re-plan may replace their future blocks
             });
             counts.blocks++;
             if (!past) continue;

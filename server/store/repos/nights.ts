@@ -72,6 +72,7 @@ export function blockRepository(db: Db) {
     entity: blockEntity,
     schema: BlockInput,
     keys: Object.keys(BlockInput.shape),
+    fixedKeys: ['origin'],
     toRow: (b) => ({ ...b, startUtc: normaliseEpoch(b.startUtc, 'startUtc').iso, endUtc: normaliseEpoch(b.endUtc, 'endUtc').iso }),
   });
 }

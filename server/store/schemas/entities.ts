@@ -3,7 +3,7 @@
  * (their `.partial()` documents PATCH bodies); `…Input` add the cross-field rules.
  */
 import { z } from 'zod';
-import { BLOCK_STATUSES } from '../../../db/schema.ts';
+import { BLOCK_ORIGINS, BLOCK_STATUSES } from '../../../db/schema.ts';
 import { epoch, id, localDate, name, notes, timeZone } from './common.ts';
 
 const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();
@@ -109,9 +109,11 @@ export const BlockFields = z.object({
   endUtc: epoch.describe('end, ISO 8601 UTC'),
   status: z.enum(BLOCK_STATUSES).default('planned'),
   laserGuideStar: z.boolean().default(false),
+  pinned: z.boolean().default(false).describe('a person fixed this block where it is: no accepted plan replaces it'),
   notes,
 });
-export const BlockInput = BlockFields;
+/** The store's own input adds who made the block; over HTTP and the CLI that is always a person (`by-hand`). */
+export const BlockInput = BlockFields.extend({ origin: z.enum(BLOCK_ORIGINS).default('by-hand') });
 
 export const OutcomeInput = z.object({
   blockId: id,

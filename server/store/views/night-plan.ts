@@ -8,13 +8,18 @@
  * 1, or 2 within the campaign's densification window of a periapsis (30 d when it sets none); laser
  * guide star on astrometry at a site that uses one.
  *
- * Accepting replaces the night's blocks that are still only plans (plan-scope.ts) and keeps the
- * rest; it refuses, writing nothing, when a new block would overlap a kept one or start before
- * the moment of the request, or when the night has a report.
+ * The night's stored blocks that stay (plan-scope.ts: logged, measured, made by hand, pinned, begun…)
+ * are planned around: no new block overlaps one, and a candidate of the same target and kind as a
+ * kept planned or obtained block is left out ("already has a kept block of this kind tonight").
+ *
+ * Accepting replaces the night's blocks that are still only plans and keeps the rest; it refuses,
+ * writing nothing, when a new block would start before the moment of the request, when that moment
+ * lies in the past, or when the night has a report. Blocks it writes record their origin and
+ * whether the user pinned them (a pinned block then stays through later re-plans).
  */
 import { InputError } from '../../science/errors.ts';
 import { findEvents } from '../../science/orbit/index.ts';
-import { scheduleNight, type CandidateInput, type MeasurementKind, type NightSchedule, type ScheduleMethod } from '../../science/plan/index.ts';
+import { scheduleNight, type CandidateInput, type KeptBlock, type MeasurementKind, type NightSchedule, type ScheduleMethod } from '../../science/plan/index.ts';
 import { jdToIso, unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import { getById, removeIn } from '../crud.ts';
@@ -22,7 +27,7 @@ import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { Store } from '../index.ts';
 import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
-import { nightStates, planDigest, plannerNames } from './plan-scope.ts';
+import { nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
 
 export interface NightScheduleRequest {
@@ -67,6 +72,16 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
   if (!site) throw new InputError('nightId', nightId, `is at site ${night.siteId}, which is not one of the sites of campaign ${night.campaignId}`);
   const names = plannerNames(input.targets);
   const targets = input.targets.map((t) => ({ ...t.target, name: names.get(t.id)! }));
+  const [state] = await nightStates(db, { nightIds: [nightId] }, at);
+  const keptBlocks = state!.blocks.filter((b) => b.kept !== null);
+  const kept: KeptBlock[] = keptBlocks.map(({ block: k }) => ({
+    label: `block ${k.id}`,
+    target: names.get(k.targetId) ?? null,
+    kind: k.kind,
+    startJd: unixMsToJd(Date.parse(k.startUtc)),
+    endJd: unixMsToJd(Date.parse(k.endUtc)),
+    counts: k.status === 'planned' || k.status === 'obtained' || k.status === 'partial',
+  }));
   let candidates: unknown = request.candidates;
   const fromCampaign = candidates === undefined;
   if (fromCampaign) {
@@ -90,14 +105,13 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
     candidates,
     pins: request.pins,
     remove: request.remove,
+    kept,
     ...(request.slotMinutes !== undefined ? { slotMinutes: request.slotMinutes } : {}),
     ...(request.slewMinutes !== undefined ? { slewMinutes: request.slewMinutes } : {}),
     ...(request.sameTargetMinutes !== undefined ? { sameTargetMinutes: request.sameTargetMinutes } : {}),
     ...(request.method !== undefined ? { method: request.method } : {}),
   });
-  const [state] = await nightStates(db, { nightIds: [nightId] }, at);
   const replaces = state!.blocks.filter((b) => b.kept === null).map((b) => b.block.id);
-  const keptBlocks = state!.blocks.filter((b) => b.kept !== null);
   const digest = planDigest({ blocks: schedule.blocks.map((b) => [b.id, b.target, b.kind, b.start.utc, b.end.utc]), replaces });
   const preview: NightSchedulePreview = {
     nightId,
@@ -110,7 +124,7 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
     kept: keptBlocks.map((b) => ({ id: b.block.id, reason: b.kept! })),
     digest,
   };
-  return { preview, reported: state!.reported, keptRows: keptBlocks.map((b) => b.block), targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])) };
+  return { preview, reported: state!.reported, targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])) };
 }
 
 /** The schedule of a stored night, written nowhere. @throws InputError naming the field. */
@@ -119,9 +133,10 @@ export async function previewNightSchedule(db: DbOrTx, nightId: number, request:
 }
 
 /** Compute the schedule again inside one transaction and store it in place of the night's planned blocks. */
-export async function acceptNightSchedule(store: Store, actor: Actor, nightId: number, request: NightScheduleRequest, atJd: number): Promise<NightSchedulePreview & { written: BlockRow[] }> {
+export async function acceptNightSchedule(store: Store, actor: Actor, nightId: number, request: NightScheduleRequest, atJd: number, nowMs: number = Date.now()): Promise<NightSchedulePreview & { written: BlockRow[] }> {
+  requireAcceptMoment(atJd, nowMs);
   return store.db.transaction(async (tx) => {
-    const { preview, reported, keptRows, targetIdByName } = await prepare(tx, nightId, request, atJd);
+    const { preview, reported, targetIdByName } = await prepare(tx, nightId, request, atJd);
     if (request.digest !== undefined && request.digest !== preview.digest) {
       throw new ConflictError('stale_version', `the schedule has changed since the preview (digest ${request.digest}, now ${preview.digest}); preview again`, { digest: preview.digest });
     }
@@ -130,8 +145,6 @@ export async function acceptNightSchedule(store: Store, actor: Actor, nightId: n
       if (Date.parse(b.start.utc) <= Date.parse(preview.at)) {
         throw new ConflictError('not_allowed', `block ${b.id} would start at ${b.start.utc}, not after ${preview.at}: pin it later or remove it`, { block: b.id });
       }
-      const clash = keptRows.find((k) => Date.parse(k.startUtc) < Date.parse(b.end.utc) && Date.parse(b.start.utc) < Date.parse(k.endUtc));
-      if (clash) throw new ConflictError('not_allowed', `block ${b.id} (${b.start.utc} to ${b.end.utc}) would overlap stored block ${clash.id} (${clash.startUtc} to ${clash.endUtc}), which stays (${preview.kept.find((k) => k.id === clash.id)!.reason}): pin it elsewhere or remove it`, { block: b.id, kept: clash.id });
     }
     for (const id of preview.replaces) await removeIn(tx, blockEntity, actor, id);
     const written: BlockRow[] = [];
@@ -143,6 +156,8 @@ export async function acceptNightSchedule(store: Store, actor: Actor, nightId: n
         startUtc: b.start.utc,
         endUtc: b.end.utc,
         laserGuideStar: b.laserGuideStar,
+        origin: 'night-schedule',
+        pinned: b.pinned,
         notes: `night schedule ${preview.digest}: ${b.id}${b.pinned ? ' (pinned)' : ''}`,
       }));
     }

@@ -1,14 +1,20 @@
 /**
  * What an accepted plan may overwrite. The rule (the same for the season plan and the night
- * schedule): a stored block is replaceable while it is still only a plan — status `planned`, no
- * outcome, no measurement tied to it, on a night without a report, starting after the moment of
- * the request. Anything else (obtained, partial, lost, withdrawn, logged, measured, begun) is kept.
+ * schedule): a stored block is replaceable while it is still only a plan that a plan made —
+ * status `planned`, no outcome, no measurement tied to it, on a night without a report, written by
+ * an accepted plan and not pinned by a person, starting after the moment of the request. Anything
+ * else (obtained, partial, lost, withdrawn, logged, measured, made by hand, pinned, begun) is kept.
+ *
+ * The moment of an accept may not lie in the past (beyond a small allowance for clock skew), so a
+ * plan cannot reach back and replace blocks that have in fact begun; a preview may be made as of
+ * any moment, since it writes nothing.
  */
 import { createHash } from 'node:crypto';
 import { and, eq, gte, inArray, lte, max } from 'drizzle-orm';
 import { blockOutcomes, blocks, measurements, nightReports, nights } from '../../../db/schema.ts';
 import type { MeasurementKind } from '../../science/plan/index.ts';
-import { unixMsToJd } from '../../science/time/index.ts';
+import { InputError } from '../../science/errors.ts';
+import { jdToIso, jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import type { DbOrTx } from '../database.ts';
 import type { BlockRow, NightRow } from '../repos/nights.ts';
 
@@ -29,8 +35,21 @@ export function keptBecause(b: BlockRow, reported: boolean, hasOutcome: boolean,
   if (b.status !== 'planned') return `its status is ${b.status}`;
   if (reported || hasOutcome) return 'its night has a report';
   if (hasMeasurement) return 'a measurement is tied to it';
+  if (b.pinned) return 'a person pinned it';
+  if (b.origin === 'by-hand') return 'it was made by hand';
   if (Date.parse(b.startUtc) <= Date.parse(atIso)) return `it started at ${b.startUtc}, not after ${atIso}`;
   return null;
+}
+
+/** How far before the server's clock an accept's `at` may lie: clock skew between a client and the server, not more (common practice, no source). */
+export const ACCEPT_AT_TOLERANCE_MINUTES = 2;
+
+/** Refuse an accept whose moment lies before the server's clock (less the tolerance): blocks begun since then would be replaced. */
+export function requireAcceptMoment(atJd: number, nowMs: number = Date.now()): void {
+  const earliest = nowMs - ACCEPT_AT_TOLERANCE_MINUTES * 60_000;
+  if (jdToUnixMs(atJd) < earliest) {
+    throw new InputError('at', jdToIso(atJd), `must not be earlier than the server's clock less ${ACCEPT_AT_TOLERANCE_MINUTES} min (${new Date(earliest).toISOString()}) when accepting: a plan may not replace blocks that have begun; preview as of a past moment instead, or leave "at" out`);
+  }
 }
 
 /** Stored nights at the given sites from `from` to `to` (any campaign), with their blocks judged at `atIso`. */

@@ -5,9 +5,10 @@
  * Open nights: the campaign's own stored nights in the range (`nights: "allocated"`, the default),
  * or every date of the range (`"all"`, creating the night rows it uses) — leaving out nights of
  * other campaigns, nights with a report, nights with a kept block (plan-scope.ts) and nights that
- * have begun. Accepting replaces every block on the open stored nights (all still only plans) with
- * the new plan's, in one transaction; nothing else is touched, so a re-plan after a night keeps
- * what was observed and logged.
+ * have begun. A block made by hand or pinned by a person is kept, so its night is left out too.
+ * Accepting replaces every block on the open stored nights (all still only plans) with the new
+ * plan's, in one transaction; nothing else is touched, so a re-plan after a night keeps what was
+ * observed and logged. An accept's moment may not lie in the past (plan-scope.ts).
  */
 import { InputError } from '../../science/errors.ts';
 import { addDays } from '../../science/sky/night.ts';
@@ -19,7 +20,7 @@ import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { Store } from '../index.ts';
 import { blockEntity, nightIntervalUtc, type BlockRow, type NightRow } from '../repos/nights.ts';
-import { lastEpochs, nightStates, planDigest, plannerNames } from './plan-scope.ts';
+import { lastEpochs, nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
 
 export const NIGHT_CHOICES = ['allocated', 'all'] as const;
@@ -138,7 +139,8 @@ export async function previewSeasonPlan(db: DbOrTx, campaignId: number, request:
  * Compute the plan again inside one transaction and store it: delete the blocks it replaces,
  * create the nights it needs (`nights: "all"`), write its blocks. Any failure writes nothing.
  */
-export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: number, request: SeasonPlanRequest, atJd: number): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
+export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: number, request: SeasonPlanRequest, atJd: number, nowMs: number = Date.now()): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
+  requireAcceptMoment(atJd, nowMs);
   return store.db.transaction(async (tx) => {
     const { preview, siteIdByName, targetIdByName, nightByKey } = await prepare(tx, campaignId, request, atJd);
     if (request.digest !== undefined && request.digest !== preview.digest) {
@@ -162,6 +164,7 @@ export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: n
         startUtc: e.block.start.utc,
         endUtc: e.block.end.utc,
         laserGuideStar: e.block.laserGuideStar,
+        origin: 'season-plan',
         notes: `season plan ${preview.digest} (${e.why}): ${e.reason}`,
       }));
     }
