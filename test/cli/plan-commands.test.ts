@@ -15,6 +15,7 @@ import { cli } from './run-cli.ts';
 let dir: string;
 let url: string;
 let store: Store;
+// Previews are made as of the demo's day; accepts run at the clock (an accept may not reach back in time).
 const AT = ['--at', '2026-12-01T00:00:00Z'];
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-plan-cli-'));
@@ -27,7 +28,7 @@ afterAll(() => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-const season = (...args: string[]) => cli(['plan-season', '--campaign', '1', '--start', '2027-06-01', '--end', '2027-06-30', ...AT, '--database', url, ...args]);
+const season = (...args: string[]) => cli(['plan-season', '--campaign', '1', '--start', '2027-06-01', '--end', '2027-06-30', ...(args.includes('--accept') ? [] : AT), '--database', url, ...args]);
 const nightId = async (date: string) => (await store.nights.list([], { limit: 500 })).items.find((n) => n.date === date && n.siteId === 1 && n.campaignId === 1)!.id;
 
 describe('epochwright plan-season', () => {
@@ -64,9 +65,10 @@ describe('epochwright plan-season', () => {
       [['--site', '9'], /--site\.0: 9 must be one of the campaign's sites/],
       [['--settings', '{"fillFraction": 3}'], /--settings fillFraction: 3 must lie in \(0, 1\]/],
       [['--settings', '{"colour": 1}'], /unknown setting "colour"/],
+      [AT, /--at: "2026-12-01T00:00:00.000Z" must not be earlier than the server's clock less 2 min/], // a past moment: accepting may not replace blocks begun since
     ];
     for (const [args, message] of cases) {
-      const res = await cli(['plan-season', '--campaign', '1', '--start', '2027-06-01', '--end', '2027-06-30', ...AT, '--database', url, ...args, '--accept']);
+      const res = await cli(['plan-season', '--campaign', '1', '--start', '2027-06-01', '--end', '2027-06-30', '--database', url, ...args, '--accept']);
       expect([res.code, res.stdout]).toEqual([2, '']); // exit 2 on bad input (server/cli/main.ts)
       expect(res.stderr).toMatch(message);
     }
@@ -90,11 +92,15 @@ describe('epochwright plan-night', () => {
   it('stores the schedule with --accept; a pin outside darkness exits 2 and writes nothing', async () => {
     const id = await nightId('2027-06-19');
     const before = await tableCounts(store);
-    const bad = await cli(['plan-night', '--night', String(id), ...AT, '--pin', 'VC s1:astrometry@2027-06-20T16:00Z', '--accept', '--database', url]);
+    const bad = await cli(['plan-night', '--night', String(id), '--pin', 'VC s1:astrometry@2027-06-20T16:00Z', '--accept', '--database', url]);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/--pin\.0\.start: "2027-06-20T16:00Z" is not inside darkness/);
     expect(await tableCounts(store)).toEqual(before);
-    const res = await cli(['plan-night', '--night', String(id), ...AT, '--accept', '--json', '--database', url]);
+    const past = await cli(['plan-night', '--night', String(id), ...AT, '--accept', '--database', url]);
+    expect([past.code, past.stdout]).toEqual([2, '']); // bad input: exit 2 (server/cli/main.ts)
+    expect(past.stderr).toMatch(/--at: .* must not be earlier than the server's clock/);
+    expect(await tableCounts(store)).toEqual(before);
+    const res = await cli(['plan-night', '--night', String(id), '--accept', '--json', '--database', url]);
     expect(res.code, res.stderr).toBe(0);
     const body = JSON.parse(res.stdout);
     const stored = (await store.blocks.list([], { limit: 500 })).items.filter((b) => b.nightId === id);

@@ -189,6 +189,91 @@ for (const backend of BACKENDS) {
       expect(await tableCounts(env.store)).toEqual(before);
     });
 
+    const targetId = async (name: string) => (await env.store.targets.list([], { limit: 50 })).items.find((t) => t.name === name)!.id;
+    const nightOf = async (date: string, siteId: number) => (await campaignBlocks(date, date)).nights.find((n) => n.siteId === siteId)!;
+
+    it('keeps hand-made and pinned blocks through a season re-plan, leaving their nights out with the reason', async () => {
+      // July at Tolvane Ridge still holds the demo's own blocks (written as an earlier season plan, scenario.ts).
+      const JULY = { startDate: '2027-07-01', endDate: '2027-07-31', siteIds: [1] };
+      const { nights, blocks } = await campaignBlocks(JULY.startDate, JULY.endDate);
+      const n03 = nights.find((n) => n.date === '2027-07-03' && n.siteId === 1)!;
+      const n10 = nights.find((n) => n.date === '2027-07-10' && n.siteId === 1)!;
+      const slot = blocks.find((b) => b.nightId === n03.id)!;
+      const body = { nightId: n03.id, targetId: await targetId('VC s1'), kind: 'astrometry', startUtc: slot.startUtc, endUtc: slot.endUtc };
+      const before = await tableCounts(env.store);
+      expect((await call('observer', 'POST', '/api/blocks', { ...body, origin: 'season-plan' })).status).toBe(400); // the origin is the server's to set: an unknown key (DESIGN.md errors)
+      expect(await tableCounts(env.store)).toEqual(before);
+      const made = await call('observer', 'POST', '/api/blocks', body);
+      expect(made.status, await made.clone().text()).toBe(201);
+      const hand = (await made.json()) as Json;
+      expect([hand.origin, hand.pinned]).toEqual(['by-hand', false]); // made through the API by a person, not pinned unless asked
+      expect((await call('observer', 'PATCH', `/api/blocks/${hand.id}`, { origin: 'season-plan', version: hand.version })).status).toBe(400); // set once, never patched
+      // Pin a block a plan wrote, on another night.
+      const target = blocks.find((b) => b.nightId === n10.id)!;
+      expect(target.origin).toBe('season-plan');
+      const pinned = await call('observer', 'PATCH', `/api/blocks/${target.id}`, { pinned: true, version: target.version });
+      expect(pinned.status, await pinned.clone().text()).toBe(200);
+      expect(((await pinned.json()) as Json).origin).toBe('season-plan'); // pinning does not change who made it
+
+      const preview = (await (await call('viewer', 'POST', '/api/campaigns/1/season-plan', { ...JULY, at: AT })).json()) as Json;
+      const skipped = preview.sites.flatMap((s: Json) => s.skipped);
+      expect(skipped).toContainEqual({ date: '2027-07-03', reason: `block ${hand.id} stays: it was made by hand` });
+      expect(skipped).toContainEqual({ date: '2027-07-10', reason: `block ${target.id} stays: a person pinned it` });
+      expect(preview.replaces).not.toContain(hand.id);
+      expect(preview.replaces).not.toContain(target.id);
+      const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', { ...JULY, digest: preview.digest });
+      expect(res.status, await res.clone().text()).toBe(201);
+      const out = (await res.json()) as Json;
+      expect(out.replaces.length).toBeGreaterThan(0); // the other July nights' demo blocks were still plans
+      expect(out.written.every((b: Json) => b.origin === 'season-plan' && b.pinned === false)).toBe(true); // a plan's blocks, nobody pinned them
+      const after = (await env.store.blocks.list([], { limit: 500 })).items;
+      expect(after.find((b) => b.id === hand.id)).toMatchObject({ origin: 'by-hand', version: hand.version }); // untouched
+      expect(after.find((b) => b.id === target.id)).toMatchObject({ pinned: true, startUtc: target.startUtc });
+      expect(after.filter((b) => b.nightId === n03.id || b.nightId === n10.id).length).toBe(blocks.filter((b) => b.nightId === n03.id || b.nightId === n10.id).length + 1); // their nights are left out whole: the demo's blocks and the hand-made one
+      expect(out.written.some((b: Json) => b.nightId === n03.id || b.nightId === n10.id)).toBe(false);
+    });
+
+    it('schedules a night around a hand-made block, leaving out a second block of its target and kind; pins are stored and kept', async () => {
+      const night = await nightOf('2027-06-12', 1); // clear of the Moon (06-19 is not: the Moon limit leaves every block out)
+      const first = ((await (await call('viewer', 'POST', `/api/nights/${night.id}/schedule`, { at: AT })).json()) as Json).schedule.blocks[0];
+      const hand = await env.store.blocks.create(LOCAL_OPERATOR, { nightId: night.id, targetId: await targetId('VC s1'), kind: 'astrometry', startUtc: first.start.utc, endUtc: first.end.utc });
+      const preview = (await (await call('viewer', 'POST', `/api/nights/${night.id}/schedule`, { at: AT })).json()) as Json;
+      expect(preview.kept).toContainEqual({ id: hand.id, reason: 'it was made by hand' });
+      expect(preview.schedule.leftOut).toContainEqual({ id: 'VC s1:astrometry', target: 'VC s1', kind: 'astrometry', reason: `already has a kept block of this kind tonight (block ${hand.id})` });
+      const [hs, he] = [Date.parse(hand.startUtc), Date.parse(hand.endUtc)];
+      for (const b of preview.schedule.blocks) {
+        const gap = (b.target === 'VC s1' ? 3 : 8) * 60_000; // the scheduler's default changeover gaps (night-schedule.ts; common practice, no source)
+        expect(Date.parse(b.end.utc) + gap <= hs || he + gap <= Date.parse(b.start.utc), `${b.id} ${b.start.utc}–${b.end.utc}`).toBe(true);
+      }
+      const before = await tableCounts(env.store);
+      const cases: [unknown, string, RegExp][] = [
+        [{ pins: [{ id: 'VC s1:astrometry', start: first.start.utc }] }, 'pins.0.id', /already has a kept block of this kind tonight/],
+        [{ pins: [{ id: 'VC s2:astrometry', start: first.start.utc }] }, 'pins.0.start', new RegExp(`over block ${hand.id}`)],
+        [{ at: new Date(Date.now() - 3 * 60_000).toISOString() }, 'at', /must not be earlier than the server's clock less 2 min/], // 3 min back, beyond plan-scope.ts's 2 min allowance
+      ];
+      for (const [body, field, message] of cases) {
+        const res = await call('observer', 'POST', `/api/nights/${night.id}/schedule/accept`, body);
+        const err = ((await res.json()) as Json).error;
+        expect([res.status, err.details.field], err.message).toEqual([422, field]);
+        expect(err.message).toMatch(message);
+      }
+      expect(await tableCounts(env.store)).toEqual(before); // nothing written by any of them
+
+      // Pin one proposed block and accept 1 min behind the clock (inside the 2 min allowance): stored as pinned.
+      const pick = preview.schedule.blocks.at(-1);
+      const res = await call('observer', 'POST', `/api/nights/${night.id}/schedule/accept`, { at: new Date(Date.now() - 60_000).toISOString(), pins: [{ id: pick.id, start: pick.start.utc }] });
+      expect(res.status, await res.clone().text()).toBe(201);
+      const written = ((await res.json()) as Json).written as Json[];
+      expect(written.map((b) => [b.origin, b.pinned, b.startUtc])).toContainEqual(['night-schedule', true, pick.start.utc.replace('Z', '.000Z')]);
+      expect(written.filter((b) => b.pinned).length).toBe(1); // only the one pinned in the request
+      const pinnedId = written.find((b) => b.pinned)!.id;
+      const next = (await (await call('viewer', 'POST', `/api/nights/${night.id}/schedule`, {})).json()) as Json;
+      expect(next.kept).toContainEqual({ id: pinnedId, reason: 'a person pinned it' });
+      expect(next.kept).toContainEqual({ id: hand.id, reason: 'it was made by hand' });
+      expect(next.replaces).not.toContain(pinnedId);
+      expect(next.schedule.leftOut).toContainEqual({ id: pick.id, target: pick.target, kind: pick.kind, reason: `already has a kept block of this kind tonight (block ${pinnedId})` });
+    });
+
     it('lists the planning routes in the OpenAPI document', async () => {
       const doc = (await (await call('viewer', 'GET', '/api/openapi.json')).json()) as Json;
       for (const p of ['/campaigns/{id}/season-plan', '/campaigns/{id}/season-plan/accept', '/nights/{id}/schedule', '/nights/{id}/schedule/accept']) expect(Object.keys(doc.paths)).toContain(p);
