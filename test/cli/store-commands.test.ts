@@ -83,6 +83,12 @@ describe('store commands', () => {
     expect(eph.trim().split('\n').length).toBe(4); // header + 3 daily rows, both ends included
     const cal = ical.sync.parseICS(await run('export', 'calendar', '--campaign-id', '1'));
     expect(Object.values(cal).filter((c) => c?.type === 'VEVENT' && !String(c.summary).startsWith('Flag')).length).toBe(1); // one periapsis of K s1 (P = 14.2 yr) in the coming year, no blocks (flags aside)
+    const flagsAt = async (at: string) => Object.values(ical.sync.parseICS(await run('export', 'calendar', '--campaign-id', '1', '--at', at))).filter((c) => c?.type === 'VEVENT' && String(c.summary).startsWith('Flag')).map((c) => String((c as ical.VEvent).summary));
+    expect(await flagsAt('2027-01-01T00:00:00Z')).toContain('Flag, periapsis ahead: K s1'); // K s1 passes periapsis on 2027-06-14 (ORBIT_S1, invented), within the flags' year ahead
+    expect(await flagsAt('2027-07-01T00:00:00Z')).not.toContain('Flag, periapsis ahead: K s1'); // passed; the next is 14.2 yr later (ORBIT_S1)
+    const bad = await run('export', 'calendar', '--campaign-id', '1', '--at', 'someday').catch((e: unknown) => e);
+    expect(bad).toBeInstanceOf(InputError); // exit 2: bad input (server/cli/main.ts)
+    expect((bad as InputError).field).toBe('--at');
     const out = await run('backup', '--to', join(dir, 'copy.db'));
     const copy = await openDatabase({ url: `file:${/written to (.*)$/m.exec(out)![1]}` });
     expect(Number((await copy.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n)).toBe(2); // the two imported above

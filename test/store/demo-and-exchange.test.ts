@@ -123,6 +123,26 @@ describe('the campaign iCalendar feed', () => {
   });
 });
 
+describe('the feed’s flags at a chosen moment', () => {
+  it('computes the flags for ?at=, and refuses a bad at naming it', async () => {
+    const app = createApp({ store });
+    const flagsOf = async (at: string) => {
+      const res = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}&at=${encodeURIComponent(at)}`);
+      expect(res.status).toBe(200);
+      return (Object.values(ical.sync.parseICS(await res.text())).filter((c) => c?.type === 'VEVENT') as ical.VEvent[]).filter((e) => String(e.summary).startsWith('Flag')).map((e) => String(e.summary)).sort();
+    };
+    for (const at of ['2026-12-01T00:00:00Z', '2027-07-01T00:00:00Z']) {
+      const { flags } = await campaignFlags(store.db, 1, { nowJd: parseEpoch(at) });
+      expect(await flagsOf(at)).toEqual(flags.map((f) => `Flag, ${f.kind.replace(/-/g, ' ')}: ${f.target}`).sort()); // the planning engine's flags at that moment (flags endpoint)
+    }
+    expect(await flagsOf('2026-12-01T00:00:00Z')).toContain('Flag, periapsis ahead: VC s1'); // demo periapsis of VC s1 on 2027-06-14 (invented), within the flags' year ahead
+    expect(await flagsOf('2027-07-01T00:00:00Z')).not.toContain('Flag, periapsis ahead: VC s1'); // passed by then; the next is 14.2 yr later (demo period, invented)
+    const bad = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}&at=someday`);
+    expect(bad.status).toBe(422); // a value that breaks a rule (DESIGN.md errors)
+    expect(((await bad.json()) as { error: { details: { field: string } } }).error.details.field).toBe('at');
+  });
+});
+
 describe('exports and imports', () => {
   it('reads back an exported measurements CSV unchanged into a second store', async () => {
     const rows = await measurementsForExport(store.db, []);
