@@ -134,3 +134,48 @@ describe('scheduleNight', () => {
     expect(() => scheduleNight(SITE, CONSTRAINTS, DATE, targets, { candidates: [{ id: 'x', target: 'F1', kind: 'astrometry', durationMinutes: -5, priority: 1 }] })).toThrow(/candidates\.0\.durationMinutes/);
   });
 });
+
+describe('blocks already stored that stay (kept)', () => {
+  it('plans around them with the changeover gap and leaves out repeats of their target and kind', () => {
+    const free = scheduleNight(SITE, CONSTRAINTS, DATE, targets, { candidates });
+    const [a, b, c] = [free.blocks[0]!, free.blocks[2]!, free.blocks[4]!];
+    const keep = (x: typeof a, label: string, target: string | null, counts: boolean) => ({ label, target, kind: x.kind, startJd: isoToJd(x.start.utc), endJd: isoToJd(x.end.utc), counts });
+    const kept = [keep(a, 'block 1', a.target, true), keep(b, 'block 2', null, true), keep(c, 'block 3', c.target, false)];
+    const s = scheduleNight(SITE, CONSTRAINTS, DATE, targets, { candidates, kept });
+    expect(s.blocks.length).toBeGreaterThan(3);
+    let closest = Infinity;
+    for (const x of s.blocks) {
+      for (const k of kept) {
+        const gapMin = k.target === x.target ? 3 : 8; // the scheduler's default changeover gaps (ScheduleOptions; common practice, no source); a target outside the request always counts as a slew
+        const after = (isoToJd(x.start.utc) - k.endJd) * 1440, before = (k.startJd - isoToJd(x.end.utc)) * 1440;
+        closest = Math.min(closest, Math.max(after, before) - gapMin);
+        expect(after >= gapMin - 1e-6 || before >= gapMin - 1e-6, `${x.id} vs ${k.label}`).toBe(true);
+      }
+    }
+    console.log(`kept blocks: closest new block ${closest.toFixed(2)} min beyond the changeover gap`);
+    const repeats = candidates.filter((x) => x.target === a.target && x.kind === a.kind);
+    for (const r of repeats) expect(s.leftOut).toContainEqual({ id: r.id, target: r.target, kind: r.kind, reason: 'already has a kept block of this kind tonight (block 1)' });
+    expect(s.leftOut.filter((x) => x.reason.includes('(block 3)'))).toEqual([]); // block 3 is lost or withdrawn (counts: false): not the night's epoch of its kind
+    expect(s.leftOut.filter((x) => x.reason.includes('(block 2)'))).toEqual([]); // block 2's target is outside the request
+  });
+
+  it('refuses a pin over a kept block or of a repeat, naming the pin', () => {
+    const free = scheduleNight(SITE, CONSTRAINTS, DATE, targets, { candidates });
+    const a = free.blocks[0]!;
+    const other = free.blocks.find((x) => x.target !== a.target)!;
+    const kept = [{ label: 'block 9', target: a.target, kind: a.kind, startJd: isoToJd(a.start.utc), endJd: isoToJd(a.end.utc), counts: true }];
+    const field = (pins: unknown) => {
+      try {
+        scheduleNight(SITE, CONSTRAINTS, DATE, targets, { candidates, kept, pins });
+      } catch (err) {
+        expect(err).toBeInstanceOf(InputError);
+        return [(err as InputError).field, (err as InputError).rule];
+      }
+      return null;
+    };
+    expect(field([{ id: a.id, start: other.start.utc }])).toEqual(['pins.0.id', 'cannot be pinned: its target already has a kept block of this kind tonight (block 9)']);
+    const [f, rule] = field([{ id: other.id, start: a.start.utc }]) ?? [];
+    expect(f).toBe('pins.0.start');
+    expect(rule).toMatch(/over block 9/);
+  });
+});
