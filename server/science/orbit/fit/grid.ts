@@ -5,9 +5,10 @@
  * systemic velocity and the signed distance from the radial velocities, whose sign settles
  * Ω against Ω + 180°. No starting guess of the orbit is needed, only the search ranges.
  */
-import { AU_KM, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
+import { AU_KM, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
 import { thieleInnesToCampbell } from '../elements.ts';
-import { solveKeplerBatch } from '../kepler.ts';
+import { anomalyTable, readTable, TABLE_SIZE, type AnomalyTable } from './anomaly-table.ts';
+import { astrometryColumns, type NodeFit, solveSmall, twoUnknowns, withFrame } from './grid-kernels.ts';
 import type { Observation } from './measurements.ts';
 
 const KAPPA = AU_KM / SECONDS_PER_DAY / 1000;
@@ -39,81 +40,13 @@ export interface GridNode {
   signedDistancePc: number | null;
 }
 
+/** The first pass visits every PHASE_STRIDE-th phase. */
+const PHASE_STRIDE = 8;
+
 const E_NODES = [0, 0.15, 0.3, 0.45, 0.6, 0.7, 0.8, 0.87, 0.92, 0.95, 0.97];
 
-/**
- * cos E and sin E tabulated over one orbit in mean anomaly, per eccentricity, and read by linear
- * interpolation: the grid needs ~10⁶ anomalies per fit and only start-level accuracy (≲0.01 rad at
- * e = 0.97 next to periapsis, far less elsewhere), so a table filled by the engine's Kepler solver
- * replaces a solve per epoch per node (about 20× faster).
- */
-const TABLE_SIZE = 8192;
-const tables = new Map<number, { cos: Float64Array; sin: Float64Array }>();
-function anomalyTable(e: number): { cos: Float64Array; sin: Float64Array } {
-  let t = tables.get(e);
-  if (!t) {
-    const M = Float64Array.from({ length: TABLE_SIZE + 1 }, (_, k) => (TWO_PI * k) / TABLE_SIZE);
-    const E = solveKeplerBatch(M, e);
-    t = { cos: E.map(Math.cos), sin: E.map(Math.sin) };
-    if (tables.size > 64) tables.clear();
-    tables.set(e, t);
-  }
-  return t;
-}
-
-/** cos E, sin E at orbital phase u (fraction of the period since periapsis, any real), written into out. */
-function lookup(t: { cos: Float64Array; sin: Float64Array }, u: number, out: Float64Array): void {
-  const x = (u - Math.floor(u)) * TABLE_SIZE;
-  const i = Math.min(Math.floor(x), TABLE_SIZE - 1), f = x - i;
-  out[0] = t.cos[i]! + f * (t.cos[i + 1]! - t.cos[i]!);
-  out[1] = t.sin[i]! + f * (t.sin[i + 1]! - t.sin[i]!);
-}
-
-/**
- * Solve the small symmetric positive-definite system N·s = b in place (n ≤ 4 unknowns, N row-major).
- * The grid solves ~10⁴–10⁵ of these per fit; with ml-matrix each 2×2 solve cost ~7.5 µs in object
- * set-up (32 000 solves: 240 ms, as long as the grid's Kepler solves), so this one inner loop factors
- * by hand. Everything else (LM, covariance, sampler) uses ml-matrix.
- * @returns false when N is not positive definite (the linear parameters are not determined)
- */
-function solveSmall(N: Float64Array, b: Float64Array, n: number): boolean {
-  for (let j = 0; j < n; j++) {
-    let d = N[j * n + j]!;
-    for (let k = 0; k < j; k++) d -= N[j * n + k]! ** 2;
-    if (!(d > 1e-12 * Math.abs(N[j * n + j]!)) || !(d > 0)) return false;
-    const l = Math.sqrt(d);
-    N[j * n + j] = l;
-    for (let i = j + 1; i < n; i++) {
-      let v = N[i * n + j]!;
-      for (let k = 0; k < j; k++) v -= N[i * n + k]! * N[j * n + k]!;
-      N[i * n + j] = v / l;
-    }
-  }
-  for (let i = 0; i < n; i++) {
-    let v = b[i]!;
-    for (let k = 0; k < i; k++) v -= N[i * n + k]! * b[k]!;
-    b[i] = v / N[i * n + i]!;
-  }
-  for (let i = n - 1; i >= 0; i--) {
-    let v = b[i]!;
-    for (let k = i + 1; k < n; k++) v -= N[k * n + i]! * b[k]!;
-    b[i] = v / N[i * n + i]!;
-  }
-  return true;
-}
-
-/** Astrometric components as (Δα*, Δδ) with σ, separations converted (a start needs no more). */
-function cartesian(obs: Observation[]): { jd: number; x: number; y: number; wx: number; wy: number }[] {
-  return obs.filter((o) => o.kind !== 'radial-velocity').map((o) => {
-    if (o.kind === 'offsets') return { jd: o.jd, x: o.value[0], y: o.value[1], wx: 1 / o.sigma[0] ** 2, wy: 1 / o.sigma[1] ** 2 };
-    const [rho, th] = o.value;
-    const s = Math.max(o.sigma[0], rho * o.sigma[1]);
-    return { jd: o.jd, x: rho * Math.sin(th), y: rho * Math.cos(th), wx: 1 / (s * s), wy: 1 / (s * s) };
-  });
-}
-
 export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
-  const ast = cartesian(obs);
+  const ast = astrometryColumns(obs);
   const rv = obs.filter((m) => m.kind === 'radial-velocity');
   const all = obs.map((m) => m.jd);
   const t0 = Math.min(...all), t1 = Math.max(...all);
@@ -128,62 +61,33 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   if (eNodes.length === 0) eNodes.push(0.5 * (o.eccentricity.min + o.eccentricity.max));
   const nodes: GridNode[] = [];
   let cut = Infinity;
-  const col = new Float64Array(nLin);
-  const Nx = new Float64Array(nLin * nLin), Ny = new Float64Array(nLin * nLin);
-  const bx = new Float64Array(nLin), by = new Float64Array(nLin);
-  const sx = new Float64Array(nLin), sy = new Float64Array(nLin);
-  // χ² = Σw·x² − bᵀs at the least-squares solution s: no second pass over the epochs.
-  const sumWxx = ast.reduce((a, m) => a + m.wx * m.x * m.x, 0), sumWyy = ast.reduce((a, m) => a + m.wy * m.y * m.y, 0);
-  const u0 = new Float64Array(ast.length);
-  const TS = TABLE_SIZE;
-  for (const P of periods) {
-    ast.forEach((m, q) => (u0[q] = (m.jd - tRef) / P));
+  const fit: NodeFit = { chi2: 0, sx: new Float64Array(nLin), sy: new Float64Array(nLin) };
+  const kernel = nLin === 2 ? twoUnknowns(ast) : withFrame(ast, nLin, o.frameOffset, o.frameDrift, o.frameEpochJd);
+  // Each epoch's table position at phase 0 of this period row, in table intervals, in [0, TABLE_SIZE).
+  const start = new Float64Array(ast.n);
+  // Every eighth phase first: the pool's cut is then already tight when the rest is searched,
+  // so more nodes stop at an early bound. The order changes no result.
+  for (const coarse of [true, false]) for (const P of periods) {
+    for (let q = 0; q < ast.n; q++) {
+      const u = (ast.jd[q]! - tRef) / P;
+      const x = (u - Math.floor(u)) * TABLE_SIZE;
+      start[q] = x < TABLE_SIZE ? x : 0;
+    }
     for (const e of eNodes) {
-      const sq = Math.sqrt(1 - e * e);
-      const { cos, sin } = anomalyTable(e);
+      const table = anomalyTable(e);
       const nPhase = Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5)));
       for (let ph = 0; ph < nPhase; ph++) {
-        const T = tRef - (ph / nPhase) * P;
-        Nx.fill(0); Ny.fill(0); bx.fill(0); by.fill(0);
-        for (let q = 0; q < ast.length; q++) {
-          const m = ast[q]!;
-          // Inline table read (see lookup): cos E, sin E at this phase.
-          const u = u0[q]! + ph / nPhase;
-          const xTab = (u - Math.floor(u)) * TS;
-          const i = Math.min(xTab | 0, TS - 1), f = xTab - i;
-          const X = cos[i]! + f * (cos[i + 1]! - cos[i]!) - e, Y = sq * (sin[i]! + f * (sin[i + 1]! - sin[i]!));
-          if (nLin === 2) {
-            // The common case (no frame terms), unrolled.
-            const wx = m.wx, wy = m.wy;
-            bx[0] = bx[0]! + wx * X * m.x; bx[1] = bx[1]! + wx * Y * m.x;
-            by[0] = by[0]! + wy * X * m.y; by[1] = by[1]! + wy * Y * m.y;
-            Nx[0] = Nx[0]! + wx * X * X; Nx[2] = Nx[2]! + wx * Y * X; Nx[3] = Nx[3]! + wx * Y * Y;
-            Ny[0] = Ny[0]! + wy * X * X; Ny[2] = Ny[2]! + wy * Y * X; Ny[3] = Ny[3]! + wy * Y * Y;
-            continue;
-          }
-          fillColumns(col, X, Y, m.jd, o);
-          for (let a = 0; a < nLin; a++) {
-            const ca = col[a]!;
-            bx[a] = bx[a]! + m.wx * ca * m.x;
-            by[a] = by[a]! + m.wy * ca * m.y;
-            for (let b = 0; b <= a; b++) {
-              Nx[a * nLin + b] = Nx[a * nLin + b]! + m.wx * ca * col[b]!;
-              Ny[a * nLin + b] = Ny[a * nLin + b]! + m.wy * ca * col[b]!;
-            }
-          }
-        }
-        sx.set(bx);
-        sy.set(by);
-        if (!solveSmall(Nx, sx, nLin) || !solveSmall(Ny, sy, nLin)) continue;
-        let chi2 = sumWxx + sumWyy;
-        for (let a = 0; a < nLin; a++) chi2 -= bx[a]! * sx[a]! + by[a]! * sy[a]!;
-        if (chi2 > cut) continue;
+        if (ph % PHASE_STRIDE === 0 !== coarse) continue;
+        if (!kernel(table, start, (ph / nPhase) * TABLE_SIZE, cut, fit)) continue;
+        const { chi2, sx, sy } = fit;
         const frame: [number, number, number, number] = [0, 0, 0, 0];
         let k = 2;
         if (o.frameOffset) { frame[0] = sx[k]!; frame[1] = sy[k]!; k++; }
         if (o.frameDrift) { frame[2] = sx[k]!; frame[3] = sy[k]!; }
+        const T = tRef - (ph / nPhase) * P;
         nodes.push({ chi2: Math.max(chi2, 0), periodDays: P, periapsisJd: T, e, A: sy[0]!, F: sy[1]!, B: sx[0]!, G: sx[1]!, frame, gamma: null, signedDistancePc: null });
-        if (nodes.length >= 4 * POOL) cut = prune(nodes);
+        // Prune often: a tight cut early lets the kernels' bounds reject more nodes.
+        if (nodes.length >= POOL + 100) cut = prune(nodes);
       }
     }
   }
@@ -193,23 +97,16 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   return pickDistinct(nodes, o.keep);
 }
 
-function fillColumns(col: Float64Array, X: number, Y: number, jd: number, o: GridOptions): void {
-  col[0] = X;
-  col[1] = Y;
-  let k = 2;
-  if (o.frameOffset) col[k++] = 1;
-  if (o.frameDrift) col[k] = (jd - o.frameEpochJd) / JULIAN_YEAR_DAYS;
-}
-
 /** v = γ + D·b(t), b the radial velocity per parsec of the astrometric orbit: linear in γ and D. */
-function velocityPart(node: GridNode, rv: Observation[], table: { cos: Float64Array; sin: Float64Array }): void {
+function velocityPart(node: GridNode, rv: Observation[], table: AnomalyTable): void {
   const c = thieleInnesToCampbell(node);
   const e = node.e, sq = Math.sqrt(1 - e * e), n = TWO_PI / node.periodDays;
   const C = c.a * Math.sin(c.iRad) * Math.sin(c.argRad), H = c.a * Math.sin(c.iRad) * Math.cos(c.argRad);
   const N = new Float64Array(4), rhs = new Float64Array(2), cs = new Float64Array(2);
   const basis = rv.map((m) => {
-    lookup(table, (m.jd - node.periapsisJd) / node.periodDays, cs);
-    const b = (KAPPA * n * (-C * cs[1]! + H * sq * cs[0]!)) / (1 - e * cs[0]!);
+    // cs = (X, Y) = (cos E − e, √(1−e²)·sin E), so 1 − e·cos E = 1 − e² − e·X.
+    readTable(table, (m.jd - node.periapsisJd) / node.periodDays, cs);
+    const b = (KAPPA * n * (-C * cs[1]! / sq + H * sq * (cs[0]! + e))) / (1 - e * e - e * cs[0]!);
     const w = 1 / m.sigma[0] ** 2;
     N[0] = N[0]! + w; N[2] = N[2]! + w * b; N[3] = N[3]! + w * b * b;
     rhs[0] = rhs[0]! + w * m.value[0]; rhs[1] = rhs[1]! + w * b * m.value[0];
