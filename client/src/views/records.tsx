@@ -132,7 +132,7 @@ export function RecordsView() {
   const targets = cat.targets.map((t) => ({ ...t, systemName: cat.system(t.systemId)?.name })) as unknown as Row[];
   return (
     <div class="view records">
-      <div class="view-head"><h1>Records</h1><p class="muted">{lead ? 'You are a lead: you can change records and import CSV files.' : 'Read only: changing records needs the lead role.'}</p></div>
+      <div class="view-head"><h1>Records</h1><p class="muted">{lead ? 'You are a lead: you can change and add records and import CSV files.' : 'Read only: changing records needs the lead role.'}</p></div>
       <Section title="Systems" id="systems"><RecordTable path="/systems" rows={cat.systems as unknown as Row[]} cols={SYSTEM_COLS} onSaved={reload} /></Section>
       <Section title="Targets" id="targets">
         <RecordTable path="/targets" rows={targets} cols={TARGET_COLS} onSaved={reload} />

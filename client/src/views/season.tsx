@@ -70,7 +70,8 @@ export function SeasonView() {
           <label class="inline">Year <input type="number" min={1900} max={2200} value={y} onChange={(e) => setYear(Number(e.currentTarget.value))} /></label>
         </div>
       </div>
-      {campaign.siteIds.map((sid) => <SiteSeason key={`${sid}-${y}`} cat={cat} campaign={campaign} siteId={sid} year={y} nights={data.nights} blocks={data.blocks} proposal={proposal} />)}
+      {/* keyed by campaign too: a site's season of the previous campaign must not render with this one's targets */}
+      {campaign.siteIds.map((sid) => <SiteSeason key={`${campaign.id}-${sid}-${y}`} cat={cat} campaign={campaign} siteId={sid} year={y} nights={data.nights} blocks={data.blocks} proposal={proposal} />)}
       <SeasonPlanPanel key={`${campaign.id}-${y}`} campaign={campaign} year={y} onProposal={setProposal} onAccepted={() => setTick(tick + 1)} />
     </div>
   );
