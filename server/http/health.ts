@@ -1,5 +1,6 @@
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import { validationHook } from './validation.ts';
+import { nowIso } from '../clock.ts';
 
 const Health = z.object({
   status: z.literal('ok'),
@@ -17,6 +18,6 @@ const route = createRoute({
 
 export function healthRoutes(version: string) {
   return new OpenAPIHono({ defaultHook: validationHook }).openapi(route, (c) =>
-    c.json({ status: 'ok' as const, name: 'epochwright' as const, version, time: new Date().toISOString() }, 200),
+    c.json({ status: 'ok' as const, name: 'epochwright' as const, version, time: nowIso() }, 200),
   );
 }

@@ -1,6 +1,7 @@
 /** The audit trail: who changed what and when, written in the same transaction as the change. */
 import { auditTrail } from '../../db/schema.ts';
 import type { DbOrTx } from './database.ts';
+import { nowIso } from '../clock.ts';
 
 /** Who is writing: a signed-in user, or the local operator at the command line (null). */
 export interface Actor {
@@ -14,7 +15,3 @@ export async function recordAudit(tx: DbOrTx, actor: Actor, action: AuditAction,
   await tx.insert(auditTrail).values({ at: nowIso(), userId: actor.userId, action, entity, entityId, detail: detail ?? null });
 }
 
-/** The current instant as ISO 8601 UTC with milliseconds. */
-export function nowIso(): string {
-  return new Date().toISOString();
-}

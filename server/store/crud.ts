@@ -6,7 +6,8 @@
 import { and, asc, count, eq, type SQL } from 'drizzle-orm';
 import type { SQLiteColumn, SQLiteTable } from 'drizzle-orm/sqlite-core';
 import { InputError } from '../science/errors.ts';
-import { recordAudit, nowIso, type Actor } from './audit.ts';
+import { recordAudit, type Actor } from './audit.ts';
+import { nowIso } from '../clock.ts';
 import type { Db, DbOrTx } from './database.ts';
 import { ConflictError, NotFoundError, translateConstraint } from './errors.ts';
 

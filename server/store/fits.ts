@@ -15,6 +15,7 @@ import type { Store } from './index.ts';
 import type { MeasurementRow } from './repos/measurements.ts';
 import type { OrbitSolutionRow } from './repos/orbits.ts';
 import { systemEntity, targetEntity } from './repos/catalogue.ts';
+import { nowIso } from '../clock.ts';
 
 /** What a stored fit may set; everything else comes from the stored measurements. */
 export type StoredFitOptions = Omit<FitRequest, 'stars'> & {
@@ -98,7 +99,7 @@ export async function prepareStoredFit(store: Store, targetIds: number[], option
  * the measurements used, method and χ² in the reference), made current; all or none.
  */
 export async function acceptStoredFit(store: Store, actor: Actor, prepared: PreparedFit, result: FitResult, notes = ''): Promise<OrbitSolutionRow[]> {
-  const when = new Date().toISOString();
+  const when = nowIso();
   const reference = `fit ${when}: ${result.derivatives === 'analytic' ? '' : 'relativistic terms on; '}χ² = ${result.chi2.toFixed(2)} for ${result.dof} degrees of freedom${result.reducedChi2 !== null ? ` (χ²/dof = ${result.reducedChi2.toFixed(3)})` : ''}, loss ${result.loss}, ${result.outliers} outlier(s)`;
   return store.db.transaction(async (tx) => {
     const rows: OrbitSolutionRow[] = [];

@@ -16,6 +16,7 @@ import { SITES, VESPER } from '../../server/store/demo/scenario.ts';
 import { createApp } from '../../server/http/app.ts';
 import { BACKENDS, tableCounts } from '../store/backends.ts';
 import { skyMargins } from './block-sky.ts';
+import { nowMs } from '../../server/clock.ts';
 
 // Previews are made as of the demo's day; an accept may not reach back in time, so it runs at the server's clock (no `at`).
 const AT = '2026-12-01T00:00:00Z';
@@ -249,7 +250,7 @@ for (const backend of BACKENDS) {
       const cases: [unknown, string, RegExp][] = [
         [{ pins: [{ id: 'VC s1:astrometry', start: first.start.utc }] }, 'pins.0.id', /already has a kept block of this kind tonight/],
         [{ pins: [{ id: 'VC s2:astrometry', start: first.start.utc }] }, 'pins.0.start', new RegExp(`over block ${hand.id}`)],
-        [{ at: new Date(Date.now() - 3 * 60_000).toISOString() }, 'at', /must not be earlier than the server's clock less 2 min/], // 3 min back, beyond plan-scope.ts's 2 min allowance
+        [{ at: new Date(nowMs() - 3 * 60_000).toISOString() }, 'at', /must not be earlier than the server's clock less 2 min/], // 3 min back, beyond plan-scope.ts's 2 min allowance
       ];
       for (const [body, field, message] of cases) {
         const res = await call('observer', 'POST', `/api/nights/${night.id}/schedule/accept`, body);
@@ -261,7 +262,7 @@ for (const backend of BACKENDS) {
 
       // Pin one proposed block and accept 1 min behind the clock (inside the 2 min allowance): stored as pinned.
       const pick = preview.schedule.blocks.at(-1);
-      const res = await call('observer', 'POST', `/api/nights/${night.id}/schedule/accept`, { at: new Date(Date.now() - 60_000).toISOString(), pins: [{ id: pick.id, start: pick.start.utc }] });
+      const res = await call('observer', 'POST', `/api/nights/${night.id}/schedule/accept`, { at: new Date(nowMs() - 60_000).toISOString(), pins: [{ id: pick.id, start: pick.start.utc }] });
       expect(res.status, await res.clone().text()).toBe(201);
       const written = ((await res.json()) as Json).written as Json[];
       expect(written.map((b) => [b.origin, b.pinned, b.startUtc])).toContainEqual(['night-schedule', true, pick.start.utc.replace('Z', '.000Z')]);

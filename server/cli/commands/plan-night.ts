@@ -9,6 +9,7 @@ import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { asOptions, positiveId } from './plan-season.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { nowMs } from '../../clock.ts';
 
 const help = `usage: epochwright plan-night --night <id> [options]
 
@@ -68,7 +69,7 @@ export const planNightCommand: Command = {
       ...(slot !== undefined ? { slotMinutes: slot } : {}),
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
-    const atJd = values.at === undefined ? unixMsToJd(Date.now()) : parseEpoch(values.at, '--at');
+    const atJd = values.at === undefined ? unixMsToJd(nowMs()) : parseEpoch(values.at, '--at');
     const result = await withStore(values.database, (store) =>
       asOptions(OPTIONS, () => (values.accept ? acceptNightSchedule(store, LOCAL_OPERATOR, id, request, atJd) : previewNightSchedule(store.db, id, request, atJd))),
     );

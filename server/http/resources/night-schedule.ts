@@ -12,6 +12,7 @@ import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { acceptNightSchedule, previewNightSchedule, type NightScheduleRequest } from '../../store/views/night-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { nowMs } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const NightScheduleBody = z.object({
@@ -29,7 +30,7 @@ export const NightScheduleBody = z.object({
 
 function request(c: Parameters<Parameters<typeof h>[0]>[0]): { id: number; body: NightScheduleRequest; atJd: number } {
   const { at, ...body } = valid(c, 'json') as z.output<typeof NightScheduleBody>;
-  return { id: valid(c, 'param').id as number, body: body as NightScheduleRequest, atJd: at === undefined ? unixMsToJd(Date.now()) : parseEpoch(at, 'at') };
+  return { id: valid(c, 'param').id as number, body: body as NightScheduleRequest, atJd: at === undefined ? unixMsToJd(nowMs()) : parseEpoch(at, 'at') };
 }
 
 export function nightScheduleRoutes(store: Store) {

@@ -5,6 +5,7 @@ import { campaignFlags } from '../../store/views/planning.ts';
 import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { nowMs } from '../../clock.ts';
 
 const FlagsQuery = z.object({
   at: z.string().optional().openapi({ description: 'the moment to compute flags for (ISO 8601, JD, MJD); default now' }),
@@ -18,7 +19,7 @@ export function planRoutes(store: Store) {
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query');
-      const nowJd = q.at === undefined ? unixMsToJd(Date.now()) : parseEpoch(q.at, 'at');
+      const nowJd = q.at === undefined ? unixMsToJd(nowMs()) : parseEpoch(q.at, 'at');
       return c.json(await campaignFlags(store.db, valid(c, 'param').id as number, { nowJd, ...(q.resolutionMas ? { resolutionMas: q.resolutionMas as number } : {}) }), 200);
     }),
   );

@@ -11,6 +11,7 @@ import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { NIGHT_CHOICES, acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { nowMs } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const SeasonPlanBody = z.object({
@@ -31,7 +32,7 @@ export const SeasonPlanBody = z.object({
 
 function request(c: Parameters<Parameters<typeof h>[0]>[0]): { id: number; body: SeasonPlanRequest; atJd: number } {
   const { at, ...body } = valid(c, 'json') as z.output<typeof SeasonPlanBody>;
-  return { id: valid(c, 'param').id as number, body: body as SeasonPlanRequest, atJd: at === undefined ? unixMsToJd(Date.now()) : parseEpoch(at, 'at') };
+  return { id: valid(c, 'param').id as number, body: body as SeasonPlanRequest, atJd: at === undefined ? unixMsToJd(nowMs()) : parseEpoch(at, 'at') };
 }
 
 export function seasonPlanRoutes(store: Store) {

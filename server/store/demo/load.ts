@@ -13,6 +13,7 @@ import type { DbOrTx } from '../database.ts';
 import type { Store } from '../index.ts';
 import type { SiteRow } from '../repos/sites.ts';
 import { INSTRUMENTS, LANTERN, LANTERN_B_ORBIT, SITES, VESPER, VESPER_STARS, vesperOrbit } from './scenario.ts';
+import { nowIso } from '../../clock.ts';
 
 /** A small deterministic generator (LCG) so the demo is the same on every start. */
 function noise(seed: number) {
@@ -58,7 +59,7 @@ export interface DemoOptions {
 }
 
 export async function loadDemo(store: Store, actor: Actor, options: DemoOptions = {}): Promise<{ nights: number; blocks: number; reports: number; measurements: number }> {
-  const today = options.today ?? new Date().toISOString().slice(0, 10);
+  const today = options.today ?? nowIso().slice(0, 10);
   const counts = { nights: 0, blocks: 0, reports: 0, measurements: 0 };
   await store.db.transaction(async (tx) => {
     const rnd = noise(20261201);

@@ -16,6 +16,7 @@ import { currentOrbit } from '../repos/orbits.ts';
 import { NotFoundError } from '../errors.ts';
 import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
 import { campaignFlags } from '../views/planning.ts';
+import { nowMs } from '../../clock.ts';
 
 export interface CalendarOptions {
   /** Host name used in UIDs, e.g. the server's. */
@@ -80,7 +81,7 @@ export async function campaignCalendar(db: DbOrTx, campaignId: number, options: 
   }
 
   // Flags: a UID per kind, target and day, so a flag that persists updates in place.
-  const { flags } = await campaignFlags(db, campaignId, { nowJd: options.flagsAtJd ?? unixMsToJd(Date.now()) });
+  const { flags } = await campaignFlags(db, campaignId, { nowJd: options.flagsAtJd ?? unixMsToJd(nowMs()) });
   for (const f of flags) {
     const start = new Date(f.blend ? f.blend.start : f.date);
     const end = f.blend ? new Date(f.blend.end) : new Date(start.getTime() + 60_000);

@@ -5,7 +5,8 @@
 import { createHash, randomBytes } from 'node:crypto';
 import { and, asc, eq, isNull } from 'drizzle-orm';
 import { tokens, users } from '../../../db/schema.ts';
-import { recordAudit, nowIso, type Actor } from '../audit.ts';
+import { recordAudit, type Actor } from '../audit.ts';
+import { nowIso } from '../../clock.ts';
 import { entity, getById, insertIn, list } from '../crud.ts';
 import type { Db } from '../database.ts';
 import { NotFoundError } from '../errors.ts';

@@ -29,6 +29,7 @@ import type { Store } from '../index.ts';
 import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
 import { nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
+import { nowMs } from '../../clock.ts';
 
 export interface NightScheduleRequest {
   /** Candidate blocks in the night scheduler's shape; default: the campaign's (see above). */
@@ -133,8 +134,8 @@ export async function previewNightSchedule(db: DbOrTx, nightId: number, request:
 }
 
 /** Compute the schedule again inside one transaction and store it in place of the night's planned blocks. */
-export async function acceptNightSchedule(store: Store, actor: Actor, nightId: number, request: NightScheduleRequest, atJd: number, nowMs: number = Date.now()): Promise<NightSchedulePreview & { written: BlockRow[] }> {
-  requireAcceptMoment(atJd, nowMs);
+export async function acceptNightSchedule(store: Store, actor: Actor, nightId: number, request: NightScheduleRequest, atJd: number, clockMs: number = nowMs()): Promise<NightSchedulePreview & { written: BlockRow[] }> {
+  requireAcceptMoment(atJd, clockMs);
   return store.db.transaction(async (tx) => {
     const { preview, reported, targetIdByName } = await prepare(tx, nightId, request, atJd);
     if (request.digest !== undefined && request.digest !== preview.digest) {

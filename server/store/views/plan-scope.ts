@@ -17,6 +17,7 @@ import { InputError } from '../../science/errors.ts';
 import { jdToIso, jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import type { DbOrTx } from '../database.ts';
 import type { BlockRow, NightRow } from '../repos/nights.ts';
+import { nowMs } from '../../clock.ts';
 
 export interface BlockState {
   block: BlockRow;
@@ -45,8 +46,8 @@ export function keptBecause(b: BlockRow, reported: boolean, hasOutcome: boolean,
 export const ACCEPT_AT_TOLERANCE_MINUTES = 2;
 
 /** Refuse an accept whose moment lies before the server's clock (less the tolerance): blocks begun since then would be replaced. */
-export function requireAcceptMoment(atJd: number, nowMs: number = Date.now()): void {
-  const earliest = nowMs - ACCEPT_AT_TOLERANCE_MINUTES * 60_000;
+export function requireAcceptMoment(atJd: number, clockMs: number = nowMs()): void {
+  const earliest = clockMs - ACCEPT_AT_TOLERANCE_MINUTES * 60_000;
   if (jdToUnixMs(atJd) < earliest) {
     throw new InputError('at', jdToIso(atJd), `must not be earlier than the server's clock less ${ACCEPT_AT_TOLERANCE_MINUTES} min (${new Date(earliest).toISOString()}) when accepting: a plan may not replace blocks that have begun; preview as of a past moment instead, or leave "at" out`);
   }

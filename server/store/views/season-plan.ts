@@ -22,6 +22,7 @@ import type { Store } from '../index.ts';
 import { blockEntity, nightIntervalUtc, type BlockRow, type NightRow } from '../repos/nights.ts';
 import { lastEpochs, nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
+import { nowMs } from '../../clock.ts';
 
 export const NIGHT_CHOICES = ['allocated', 'all'] as const;
 
@@ -139,8 +140,8 @@ export async function previewSeasonPlan(db: DbOrTx, campaignId: number, request:
  * Compute the plan again inside one transaction and store it: delete the blocks it replaces,
  * create the nights it needs (`nights: "all"`), write its blocks. Any failure writes nothing.
  */
-export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: number, request: SeasonPlanRequest, atJd: number, nowMs: number = Date.now()): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
-  requireAcceptMoment(atJd, nowMs);
+export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: number, request: SeasonPlanRequest, atJd: number, clockMs: number = nowMs()): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
+  requireAcceptMoment(atJd, clockMs);
   return store.db.transaction(async (tx) => {
     const { preview, siteIdByName, targetIdByName, nightByKey } = await prepare(tx, campaignId, request, atJd);
     if (request.digest !== undefined && request.digest !== preview.digest) {

@@ -1,0 +1,21 @@
+/**
+ * The one clock of the server and the CLI. EPOCHWRIGHT_NOW (an ISO 8601 instant with its zone)
+ * freezes it, so that a demo, a plan "as of" a date, or a test suite gives the same answer on any day.
+ */
+const FROZEN = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:\d{2})$/;
+
+/** Milliseconds since 1970-01-01T00:00Z: the frozen instant when EPOCHWRIGHT_NOW is set, else the system clock. */
+export function nowMs(env: NodeJS.ProcessEnv = process.env): number {
+  const frozen = env.EPOCHWRIGHT_NOW;
+  if (frozen === undefined || frozen === '') return Date.now();
+  const ms = FROZEN.test(frozen) ? Date.parse(frozen) : Number.NaN;
+  if (Number.isNaN(ms)) {
+    throw new Error(`EPOCHWRIGHT_NOW: ${JSON.stringify(frozen)} must be an ISO 8601 instant with its zone, e.g. 2026-12-01T12:00:00Z`);
+  }
+  return ms;
+}
+
+/** The clock as an ISO 8601 UTC string. */
+export function nowIso(env: NodeJS.ProcessEnv = process.env): string {
+  return new Date(nowMs(env)).toISOString();
+}
