@@ -144,14 +144,18 @@ export function CreateForm({ title, path, fields, onCreated, ids }: { title: str
       <fieldset>
         <legend>{title}</legend>
         <div class="field-grid">
-          {fields.map((f) => (
-            <label key={f.key} class={`field${f.kind === 'ids' || f.kind === 'mask' || f.kind === 'textarea' ? ' wide' : ''}${msgs[f.key] ? ' invalid' : ''}`}>
-              <span>{f.label}{f.optional ? <span class="muted"> (optional)</span> : null}</span>
-              {input(f)}
-              {f.hint && <span class="muted hint">{f.hint}</span>}
-              {msgs[f.key] && <span class="field-msg" id={`${path.slice(1)}-${f.key}-msg`}>{msgs[f.key]}</span>}
-            </label>
-          ))}
+          {fields.map((f) => {
+            // A list of checkboxes holds labels of its own, so its wrapper cannot be a label.
+            const Wrap = f.kind === 'ids' ? 'div' : 'label';
+            return (
+              <Wrap key={f.key} class={`field${f.kind === 'ids' || f.kind === 'mask' || f.kind === 'textarea' ? ' wide' : ''}${msgs[f.key] ? ' invalid' : ''}`}>
+                <span>{f.label}{f.optional ? <span class="muted"> (optional)</span> : null}</span>
+                {input(f)}
+                {f.hint && <span class="muted hint">{f.hint}</span>}
+                {msgs[f.key] && <span class="field-msg" id={`${path.slice(1)}-${f.key}-msg`}>{msgs[f.key]}</span>}
+              </Wrap>
+            );
+          })}
         </div>
         <div class="toolbar">
           <button type="submit" class="primary" disabled={busy}>Add</button>
