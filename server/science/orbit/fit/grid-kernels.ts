@@ -41,10 +41,15 @@ export interface NodeFit { chi2: number; sx: Float64Array; sy: Float64Array }
 
 /**
  * One node: the epochs' table positions are start[q] + offset (start in [0, TABLE_SIZE), offset
- * the node's phase in table intervals, in [0, TABLE_SIZE)). Returns false when the node's χ²
- * exceeds cut or its linear parameters are undetermined; otherwise fills fit.
+ * the node's phase in table intervals, in [0, TABLE_SIZE)). `fit` returns true and fills `out`
+ * when the node's χ² is within cut; otherwise false, with out.chi2 a lower bound on the node's χ²
+ * (+∞ when its linear parameters are undetermined). With cut = −∞ it returns at the first bound:
+ * `bounds` says whether that bound is cheap (a prefix of the epochs) or the full χ².
  */
-export type NodeKernel = (table: AnomalyTable, start: Float64Array, offset: number, cut: number, fit: NodeFit) => boolean;
+export interface NodeKernel {
+  bounds: boolean;
+  fit(table: AnomalyTable, start: Float64Array, offset: number, cut: number, out: NodeFit): boolean;
+}
 
 /** Epoch q of n in check order: strided, so every prefix spans the whole time range. */
 function checkOrder(n: number): number[] {
@@ -76,7 +81,7 @@ export function astrometryColumns(obs: Observation[]): Astrometry {
  */
 export function twoUnknowns(ast: Astrometry): NodeKernel {
   const { wx, wy, px, py, prefixSumWxx, stops } = ast;
-  return (table, start, offset, cut, fit) => {
+  const fitNode: NodeKernel['fit'] = (table, start, offset, cut, fit) => {
     let bx0 = 0, bx1 = 0, by0 = 0, by1 = 0;
     let nx0 = 0, nx1 = 0, nx2 = 0, ny0 = 0, ny1 = 0, ny2 = 0;
     let q = 0, chi2 = Infinity, sx0 = 0, sx1 = 0, sy0 = 0, sy1 = 0;
@@ -96,19 +101,27 @@ export function twoUnknowns(ast: Astrometry): NodeKernel {
       // Positive definite, with the same relative floor on the second pivot as solveSmall.
       const definite = nx0 > 0 && dx > 1e-12 * nx0 * nx2 && ny0 > 0 && dy > 1e-12 * ny0 * ny2;
       if (!definite) {
-        if (end === ast.n) return false;
+        if (end === ast.n) {
+          fit.chi2 = Infinity;
+          return false;
+        }
         continue; // this prefix bounds nothing
       }
       sx0 = (nx2 * bx0 - nx1 * bx1) / dx; sx1 = (nx0 * bx1 - nx1 * bx0) / dx;
       sy0 = (ny2 * by0 - ny1 * by1) / dy; sy1 = (ny0 * by1 - ny1 * by0) / dy;
       chi2 = prefixSumWxx[end]! - (bx0 * sx0 + bx1 * sx1 + by0 * sy0 + by1 * sy1);
-      // The prefix bound carries rounding of order 1e-16 of Σw·x²: reject only clearly above the cut.
-      if (chi2 > cut + (end === ast.n ? 0 : 1e-9 * prefixSumWxx[end]!)) return false;
+      // A prefix bound carries rounding of order 1e-16 of Σw·x²: lower it by far more than that.
+      if (end < ast.n) chi2 -= 1e-9 * prefixSumWxx[end]!;
+      if (chi2 > cut) {
+        fit.chi2 = chi2;
+        return false;
+      }
     }
     fit.chi2 = chi2;
     fit.sx[0] = sx0; fit.sx[1] = sx1; fit.sy[0] = sy0; fit.sy[1] = sy1;
     return true;
   };
+  return { bounds: stops.length > 1, fit: fitNode };
 }
 
 /** With a frame offset and/or drift: 3 or 4 unknowns per coordinate, solved by solveSmall (no early rejection). */
@@ -116,7 +129,7 @@ export function withFrame(ast: Astrometry, nLin: number, frameOffset: boolean, f
   const col = new Float64Array(nLin);
   const Nx = new Float64Array(nLin * nLin), Ny = new Float64Array(nLin * nLin);
   const bx = new Float64Array(nLin), by = new Float64Array(nLin);
-  return (table, start, offset, cut, fit) => {
+  const fitNode: NodeKernel['fit'] = (table, start, offset, cut, fit) => {
     Nx.fill(0); Ny.fill(0); bx.fill(0); by.fill(0);
     for (let q = 0; q < ast.n; q++) {
       let x = start[q]! + offset;
@@ -141,13 +154,14 @@ export function withFrame(ast: Astrometry, nLin: number, frameOffset: boolean, f
     const { sx, sy } = fit;
     sx.set(bx);
     sy.set(by);
+    fit.chi2 = Infinity;
     if (!solveSmall(Nx, sx, nLin) || !solveSmall(Ny, sy, nLin)) return false;
     let chi2 = ast.prefixSumWxx[ast.n]!;
     for (let a = 0; a < nLin; a++) chi2 -= bx[a]! * sx[a]! + by[a]! * sy[a]!;
-    if (chi2 > cut) return false;
     fit.chi2 = chi2;
-    return true;
+    return chi2 <= cut;
   };
+  return { bounds: false, fit: fitNode };
 }
 
 /**

@@ -40,9 +40,6 @@ export interface GridNode {
   signedDistancePc: number | null;
 }
 
-/** The first pass visits every PHASE_STRIDE-th phase. */
-const PHASE_STRIDE = 8;
-
 const E_NODES = [0, 0.15, 0.3, 0.45, 0.6, 0.7, 0.8, 0.87, 0.92, 0.95, 0.97];
 
 export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
@@ -63,34 +60,49 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   let cut = Infinity;
   const fit: NodeFit = { chi2: 0, sx: new Float64Array(nLin), sy: new Float64Array(nLin) };
   const kernel = nLin === 2 ? twoUnknowns(ast) : withFrame(ast, nLin, o.frameOffset, o.frameDrift, o.frameEpochJd);
-  // Each epoch's table position at phase 0 of this period row, in table intervals, in [0, TABLE_SIZE).
-  const start = new Float64Array(ast.n);
-  // Every eighth phase first: the pool's cut is then already tight when the rest is searched,
-  // so more nodes stop at an early bound. The order changes no result.
-  for (const coarse of [true, false]) for (const P of periods) {
-    for (let q = 0; q < ast.n; q++) {
-      const u = (ast.jd[q]! - tRef) / P;
-      const x = (u - Math.floor(u)) * TABLE_SIZE;
-      start[q] = x < TABLE_SIZE ? x : 0;
-    }
-    for (const e of eNodes) {
-      const table = anomalyTable(e);
-      const nPhase = Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5)));
-      for (let ph = 0; ph < nPhase; ph++) {
-        if (ph % PHASE_STRIDE === 0 !== coarse) continue;
-        if (!kernel(table, start, (ph / nPhase) * TABLE_SIZE, cut, fit)) continue;
-        const { chi2, sx, sy } = fit;
-        const frame: [number, number, number, number] = [0, 0, 0, 0];
-        let k = 2;
-        if (o.frameOffset) { frame[0] = sx[k]!; frame[1] = sy[k]!; k++; }
-        if (o.frameDrift) { frame[2] = sx[k]!; frame[3] = sy[k]!; }
-        const T = tRef - (ph / nPhase) * P;
-        nodes.push({ chi2: Math.max(chi2, 0), periodDays: P, periapsisJd: T, e, A: sy[0]!, F: sy[1]!, B: sx[0]!, G: sx[1]!, frame, gamma: null, signedDistancePc: null });
-        // Prune often: a tight cut early lets the kernels' bounds reject more nodes.
-        if (nodes.length >= POOL + 100) cut = prune(nodes);
-      }
+  // Each epoch's table position at phase 0 of each period row, in table intervals, in [0, TABLE_SIZE).
+  const starts = periods.map((P) => Float64Array.from(ast.jd, (jd) => {
+    const u = (jd - tRef) / P, x = (u - Math.floor(u)) * TABLE_SIZE;
+    return x < TABLE_SIZE ? x : 0;
+  }));
+  // The nodes as (period row, eccentricity node, phase offset in table intervals).
+  const perE = eNodes.map((e) => Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5))));
+  const count = periods.length * perE.reduce((x, y) => x + y, 0);
+  const row = new Int32Array(count), ecc = new Int32Array(count), phase = new Float64Array(count);
+  let c = 0;
+  for (let r = 0; r < periods.length; r++) {
+    for (let k = 0; k < eNodes.length; k++) {
+      for (let ph = 0; ph < perE[k]!; ph++, c++) { row[c] = r; ecc[c] = k; phase[c] = ph / perE[k]!; }
     }
   }
+  const tables = eNodes.map((e) => anomalyTable(e));
+  // Most promising first: each node's bound from its first eighth of the epochs (cheap), then the
+  // nodes with the 4·POOL lowest bounds in order of bound, so the pool's cut is tight early, then the
+  // rest, each skipped at once when its bound exceeds the cut. The order changes no result; a full
+  // sort of every node would cost more than it saves. (No bounds with frame terms.)
+  const bound = new Float64Array(count);
+  if (kernel.bounds) for (let i = 0; i < count; i++) {
+    kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, -Infinity, fit);
+    bound[i] = fit.chi2;
+  }
+  const tau = Float64Array.from(bound).sort()[Math.min(4 * POOL, count) - 1]!;
+  const first: number[] = [];
+  for (let i = 0; i < count; i++) if (bound[i]! <= tau) first.push(i);
+  first.sort((x, y) => bound[x]! - bound[y]!);
+  const visit = (i: number) => {
+    if (bound[i]! > cut || !kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, cut, fit)) return;
+    const { chi2, sx, sy } = fit;
+    const frame: [number, number, number, number] = [0, 0, 0, 0];
+    let k = 2;
+    if (o.frameOffset) { frame[0] = sx[k]!; frame[1] = sy[k]!; k++; }
+    if (o.frameDrift) { frame[2] = sx[k]!; frame[3] = sy[k]!; }
+    const P = periods[row[i]!]!;
+    nodes.push({ chi2: Math.max(chi2, 0), periodDays: P, periapsisJd: tRef - phase[i]! * P, e: eNodes[ecc[i]!]!, A: sy[0]!, F: sy[1]!, B: sx[0]!, G: sx[1]!, frame, gamma: null, signedDistancePc: null });
+    // Prune often: a tight cut early lets more nodes stop early.
+    if (nodes.length >= POOL + 100) cut = prune(nodes);
+  };
+  for (const i of first) visit(i);
+  for (let i = 0; i < count; i++) if (!(bound[i]! <= tau)) visit(i);
   // The velocities join only for the nodes the astrometry likes best (they rarely reorder the rest).
   prune(nodes);
   if (rv.length > 0) for (const nd of nodes) velocityPart(nd, rv, anomalyTable(nd.e));

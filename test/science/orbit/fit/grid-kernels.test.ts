@@ -1,8 +1,8 @@
 /**
  * The grid's node kernel against an independent weighted least-squares solve (ml-matrix's QR on
  * the whitened design matrix, no early rejection), on an invented eccentric orbit with 100
- * astrometric epochs: the same χ² at every node, and the early rejection never drops a node
- * whose full χ² is within the cut.
+ * astrometric epochs: the same χ² at every node, the early rejection never drops a node whose
+ * full χ² is within the cut, and the first bound never exceeds the node's χ².
  */
 import { Matrix, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
@@ -45,7 +45,7 @@ describe('grid node kernel', () => {
     const rng = new SeededRandom(7);
     // The kernel takes the epochs in its own check order (ast.jd); the reference in input order.
     const byJd = new Map(obs.map((m, q) => [m.jd, q]));
-    let worstRel = 0;
+    let worstRel = 0, worstBound = 0;
     const nodes = 300;
     for (let k = 0; k < nodes; k++) {
       const e = [0, 0.45, 0.8, 0.92, 0.97][k % 5]!;
@@ -63,16 +63,20 @@ describe('grid node kernel', () => {
         pos[byJd.get(jd)!] = x >= TABLE_SIZE ? x - TABLE_SIZE : x;
       });
       const ref = referenceChi2(pos, table);
-      expect(kernel(table, start, offset, Infinity, fit)).toBe(true);
+      expect(kernel.fit(table, start, offset, Infinity, fit)).toBe(true);
       const rel = Math.abs(fit.chi2 - ref) / ref;
       worstRel = Math.max(worstRel, rel);
       // Same arithmetic up to rounding: 1e-9 relative (common practice, no source).
       expect(rel).toBeLessThan(1e-9);
       // A cut just above the node's χ² must keep it, whatever its partial sums did on the way.
-      expect(kernel(table, start, offset, ref * (1 + 1e-8), fit)).toBe(true);
+      expect(kernel.fit(table, start, offset, ref * (1 + 1e-8), fit)).toBe(true);
       // A cut just below must drop it.
-      expect(kernel(table, start, offset, ref * (1 - 1e-8), fit)).toBe(false);
+      expect(kernel.fit(table, start, offset, ref * (1 - 1e-8), fit)).toBe(false);
+      // With no cut it stops at its first bound, which must not exceed the node's χ².
+      expect(kernel.fit(table, start, offset, -Infinity, fit)).toBe(false);
+      expect(fit.chi2).toBeLessThanOrEqual(ref);
+      worstBound = Math.max(worstBound, fit.chi2 / ref);
     }
-    console.log(`grid kernel vs QR least squares over ${nodes} nodes: worst relative χ² difference ${worstRel.toExponential(2)}`);
+    console.log(`grid kernel vs QR least squares over ${nodes} nodes: worst relative χ² difference ${worstRel.toExponential(2)}; first bound at most ${(100 * worstBound).toFixed(1)}% of the node's χ²`);
   });
 });
