@@ -88,7 +88,7 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const tau = Float64Array.from(bound).sort()[Math.min(4 * POOL, count) - 1]!;
   const first: number[] = [];
   for (let i = 0; i < count; i++) if (bound[i]! <= tau) first.push(i);
-  first.sort((x, y) => bound[x]! - bound[y]!);
+  if (kernel.bounds) first.sort((x, y) => bound[x]! - bound[y]!); // without bounds: every node, in grid order
   const visit = (i: number) => {
     if (bound[i]! > cut || !kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, cut, fit)) return;
     const { chi2, sx, sy } = fit;
