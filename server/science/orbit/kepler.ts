@@ -1,7 +1,7 @@
 /**
  * Kepler's equation E − e·sin E = M for every 0 ≤ e < 1.
  *
- * Fast path: a starting E interpolated in a precomputed (e, M) table, then two Halley steps whose
+ * * Fast path: a starting E interpolated in a precomputed (e, M) table, then a Halley and a Newton step whose
  * sin/cos come from the nearest of 257 tabulated nodes carried across the small remaining step by
  * their series, so a solve calls no transcendental function at all (Math.sin and Math.cos cost
  * ~20 ns each on our machines, as much as the rest of a solve).
@@ -80,8 +80,8 @@ export function solveKeplerBatch(
     const ecc = perItem ? (e as Float64Array)[i]! : e0;
     const mIn = meanAnomalyRad[i]!;
     // Reduce M to [−π, π]; the 2πk goes back on at the end so the equation holds for the input M.
-    const k = Math.round(mIn * INV_TWO_PI);
-    const m = mIn - k * TWO_PI;
+    const k = mIn >= -Math.PI && mIn <= Math.PI ? 0 : Math.round(mIn * INV_TWO_PI);
+    const m = k === 0 ? mIn : mIn - k * TWO_PI;
     if (ecc === 0) {
       out[i] = mIn;
       continue;
@@ -106,19 +106,25 @@ export function solveKeplerBatch(
     if (1 - ecc * cosJ > FLAT) {
       const Ej = j * HN;
       let d = E - Ej;
-      for (let it = 0; it < 2; it++) {
-        // sin and cos of E = Ej + d from the node's values and the series of d (|d| ≲ 0.01:
-        // truncation below d¹⁰/10! ≈ 3e-27).
-        const d2 = d * d;
-        const sd = d * (1 - d2 * S3 * (1 - d2 * S5 * (1 - d2 * S7 * (1 - d2 * S9))));
-        const cd = 1 - d2 * C2 * (1 - d2 * C4 * (1 - d2 * C6 * (1 - d2 * C8)));
-        const sinE = sinJ * cd + cosJ * sd;
-        const cosE = cosJ * cd - sinJ * sd;
-        const f = Ej + d - ecc * sinE - am;
-        const f1 = 1 - ecc * cosE;
-        step = (-2 * f * f1) / (2 * f1 * f1 - f * ecc * sinE);
-        d += step;
-      }
+      // sin and cos of E = Ej + d from the node's values and the series of d (|d| ≲ 0.01:
+      // truncation below d¹⁰/10! ≈ 3e-27). A Halley step, then a Newton step.
+      let d2 = d * d;
+      let sd = d * (1 - d2 * S3 * (1 - d2 * S5 * (1 - d2 * S7 * (1 - d2 * S9))));
+      let cd = 1 - d2 * C2 * (1 - d2 * C4 * (1 - d2 * C6 * (1 - d2 * C8)));
+      let sinE = sinJ * cd + cosJ * sd;
+      let cosE = cosJ * cd - sinJ * sd;
+      let f = Ej + d - ecc * sinE - am;
+      let f1 = 1 - ecc * cosE;
+      d += (-2 * f * f1) / (2 * f1 * f1 - f * ecc * sinE);
+      d2 = d * d;
+      sd = d * (1 - d2 * S3 * (1 - d2 * S5 * (1 - d2 * S7 * (1 - d2 * S9))));
+      cd = 1 - d2 * C2 * (1 - d2 * C4 * (1 - d2 * C6 * (1 - d2 * C8)));
+      sinE = sinJ * cd + cosJ * sd;
+      cosE = cosJ * cd - sinJ * sd;
+      f = Ej + d - ecc * sinE - am;
+      f1 = 1 - ecc * cosE;
+      step = -f / f1;
+      d += step;
       E = Ej + d;
     }
     if (!(Math.abs(step) < 1e-9)) E = keplerRobust(am, ecc);
