@@ -1,9 +1,9 @@
 /**
  * Kepler's equation E − e·sin E = M for every 0 ≤ e < 1.
  *
- * * Fast path: a starting E interpolated in a precomputed (e, M) table, then a Halley and a Newton step whose
- * sin/cos come from the nearest of 257 tabulated nodes carried across the small remaining step by
- * their series, so a solve calls no transcendental function at all (Math.sin and Math.cos cost
+ * Fast path: a starting E interpolated in a precomputed (e, M) table, then a Halley and a Newton
+ * step whose sin/cos come from the nearest of 257 tabulated nodes carried across the small remaining
+ * step by their series, so a solve calls no transcendental function at all (Math.sin and Math.cos cost
  * ~20 ns each on our machines, as much as the rest of a solve).
  *
  * Robust path, for the corner e → 1 near periapsis where 1 − e·cos E is small and for the rare
