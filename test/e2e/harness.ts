@@ -71,3 +71,16 @@ export function launchBrowser(): Promise<Browser> {
     args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
   });
 }
+
+/** A fetch wrapper for the API, signed in with a bearer token (`defaultToken` unless one is given). */
+export function apiCaller(base: string, defaultToken: string) {
+  return async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
+    const res = await fetch(`${base}/api${path}`, {
+      method: init.method ?? 'GET',
+      headers: { authorization: `Bearer ${init.token ?? defaultToken}`, ...(init.body ? { 'content-type': 'application/json' } : {}) },
+      ...(init.body ? { body: JSON.stringify(init.body) } : {}),
+    });
+    if (!res.ok) throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
+    return (res.status === 204 ? undefined : await res.json()) as T;
+  };
+}

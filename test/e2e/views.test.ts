@@ -7,21 +7,13 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { SCREENSHOTS, launchBrowser } from './harness.ts';
+import { SCREENSHOTS, apiCaller, launchBrowser } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
 let browser: Browser;
 
-async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
-  const res = await fetch(`${base}/api${path}`, {
-    method: init.method ?? 'GET',
-    headers: { authorization: `Bearer ${init.token ?? lead}`, ...(init.body ? { 'content-type': 'application/json' } : {}) },
-    ...(init.body ? { body: JSON.stringify(init.body) } : {}),
-  });
-  if (!res.ok) throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
-  return (res.status === 204 ? undefined : await res.json()) as T;
-}
+const api = apiCaller(base, lead);
 
 /** A signed-in page that records console errors and failed requests. */
 async function open(ctx: BrowserContext, path: string, token = lead): Promise<{ page: Page; errors: string[] }> {

@@ -8,7 +8,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { SCREENSHOTS, launchBrowser } from './harness.ts';
+import { SCREENSHOTS, apiCaller, launchBrowser } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -17,15 +17,7 @@ let browser: Browser;
 interface Report { id: number; nightId: number; seeingArcsec: number | null; strehlRatio: number | null; windMS: number | null; notes: string; timeLostReason: string; version: number }
 interface Block { id: number; nightId: number; startUtc: string; endUtc: string; version: number; status: string }
 
-async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
-  const res = await fetch(`${base}/api${path}`, {
-    method: init.method ?? 'GET',
-    headers: { authorization: `Bearer ${init.token ?? lead}`, ...(init.body ? { 'content-type': 'application/json' } : {}) },
-    ...(init.body ? { body: JSON.stringify(init.body) } : {}),
-  });
-  if (!res.ok) throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
-  return (res.status === 204 ? undefined : await res.json()) as T;
-}
+const api = apiCaller(base, lead);
 
 async function open(ctx: BrowserContext, path: string, token = lead): Promise<{ page: Page; errors: string[] }> {
   const page = await ctx.newPage();
