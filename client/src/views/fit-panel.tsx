@@ -9,6 +9,7 @@ import { invalidateCatalogue } from '../api/catalogue.ts';
 import type { Prediction } from '../api/types.ts';
 import { utcText } from '../lib/time.ts';
 import { ErrorLine, Qty, useCan } from '../lib/ui.tsx';
+import { useAction } from '../lib/use-action.ts';
 
 interface FitParameter { name: string; value: number; sigma: number; unit: string }
 interface FitPreview {
@@ -29,40 +30,25 @@ interface FitPreview {
 export function FitPanel({ targetId, trackEpochs, onFittedTrack, onStored }: { targetId: number; trackEpochs: string[]; onFittedTrack: (t: Prediction[] | null) => void; onStored: () => void }) {
   const lead = useCan('lead');
   const [fit, setFit] = useState<FitPreview | null>(null);
-  const [busy, setBusy] = useState(false);
-  const [error, setError] = useState<unknown>(null);
+  const { busy, error, run } = useAction();
   const [status, setStatus] = useState('');
-  const preview = async () => {
-    setBusy(true);
-    setError(null);
-    setStatus('');
-    try {
+  const preview = () =>
+    run(async () => {
+      setStatus('');
       const f = await send<FitPreview>('POST', `/targets/${targetId}/fit`, {});
       setFit(f);
       const orbit = f.result.stars[0]?.orbit;
       if (orbit && trackEpochs.length) onFittedTrack((await send<{ predictions: Prediction[] }>('POST', '/ephemeris', { orbit, epochs: trackEpochs })).predictions);
-    } catch (e) {
-      setError(e);
-    } finally {
-      setBusy(false);
-    }
-  };
-  const accept = async () => {
-    setBusy(true);
-    setError(null);
-    try {
+    });
+  const accept = () =>
+    run(async () => {
       const r = await send<{ solutions: { version: number }[] }>('POST', `/targets/${targetId}/fit/accept`, { notes: 'fitted from the light client' });
       setStatus(`Stored as version ${r.solutions.map((s) => s.version).join(', ')}, now current.`);
       setFit(null);
       onFittedTrack(null);
       invalidateCatalogue();
       onStored();
-    } catch (e) {
-      setError(e);
-    } finally {
-      setBusy(false);
-    }
-  };
+    });
   const r = fit?.result;
   return (
     <div class="fit-panel">

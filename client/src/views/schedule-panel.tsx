@@ -9,6 +9,7 @@ import type { Catalogue } from '../api/catalogue.ts';
 import type { BlockRow, NightRow, Stamp } from '../api/types.ts';
 import { isoOf, ms, utcClock, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section } from '../lib/ui.tsx';
+import { useAction } from '../lib/use-action.ts';
 
 export interface ScheduledBlock { id: string; target: string; kind: string; start: Stamp; end: Stamp; minutes: number; airmassMiddle: number; altitudeMiddleDeg: number; pinned: boolean; laserGuideStar: boolean; cautions: string[] }
 export interface SchedulePreview {
@@ -24,41 +25,30 @@ const MOVE_MIN = 15;
 export function SchedulePanel({ night, blocks, cat, canEdit, onChanged, onProposal }: { night: NightRow; blocks: BlockRow[]; cat: Catalogue; canEdit: boolean; onChanged: () => void; onProposal?: (p: ScheduledBlock[] | null) => void }) {
   const [edits, setEdits] = useState<Edits>({ pins: {}, remove: [] });
   const [preview, setPreview] = useState<SchedulePreview | null>(null);
-  const [busy, setBusy] = useState(false);
-  const [error, setError] = useState<unknown>(null);
+  const { busy, error, run } = useAction();
   const [stored, setStored] = useState<string>('');
   const zone = cat.site(night.siteId)?.timeZone ?? 'UTC';
   const body = (e: Edits) => ({ pins: Object.entries(e.pins).map(([id, start]) => ({ id, start })), remove: e.remove });
-  const propose = async (e: Edits) => {
-    setBusy(true);
-    setError(null);
-    setEdits(e);
-    try {
+  const propose = (e: Edits) =>
+    run(async () => {
+      setEdits(e);
       const p = await send<SchedulePreview>('POST', `/nights/${night.id}/schedule`, body(e));
       setPreview(p);
       onProposal?.(p.schedule.blocks);
-    } catch (err) {
-      setError(err);
-    } finally {
-      setBusy(false);
-    }
-  };
+    });
   const accept = async () => {
     if (!preview) return;
-    setBusy(true);
-    setError(null);
-    try {
-      const r = await send<{ written?: unknown[] }>('POST', `/nights/${night.id}/schedule/accept`, { ...body(edits), digest: preview.digest });
-      setStored(`Stored: ${r.written?.length ?? preview.schedule.blocks.length} blocks written, ${preview.replaces.length} planned blocks replaced.`);
-      setPreview(null);
-      onProposal?.(null);
-      setEdits({ pins: {}, remove: [] });
-      onChanged();
-    } catch (err) {
-      setError(err instanceof ApiError && err.status === 409 ? new Error(`${err.message}. Propose again to see the schedule as it now comes out.`) : err);
-    } finally {
-      setBusy(false);
-    }
+    await run(
+      async () => {
+        const r = await send<{ written?: unknown[] }>('POST', `/nights/${night.id}/schedule/accept`, { ...body(edits), digest: preview.digest });
+        setStored(`Stored: ${r.written?.length ?? preview.schedule.blocks.length} blocks written, ${preview.replaces.length} planned blocks replaced.`);
+        setPreview(null);
+        onProposal?.(null);
+        setEdits({ pins: {}, remove: [] });
+        onChanged();
+      },
+      (err) => (err instanceof ApiError && err.status === 409 ? new Error(`${err.message}. Propose again to see the schedule as it now comes out.`) : err),
+    );
   };
   const pin = (b: ScheduledBlock, shiftMin = 0) => propose({ ...edits, pins: { ...edits.pins, [b.id]: isoOf(ms(b.start.utc) + shiftMin * 60_000) } });
   const unpin = (b: ScheduledBlock) => {

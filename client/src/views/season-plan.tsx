@@ -8,6 +8,7 @@ import { ApiError, fieldMessages, send } from '../api/client.ts';
 import type { CampaignRow, Stamp } from '../api/types.ts';
 import { utcClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section, useCan } from '../lib/ui.tsx';
+import { useAction } from '../lib/use-action.ts';
 
 export interface PlannedEpoch { target: string; kind: string; site: string; date: string; block: { start: Stamp; end: Stamp; laserGuideStar: boolean }; why: string; reason: string }
 export interface SeasonPlanPreview {
@@ -29,39 +30,28 @@ export function SeasonPlanPanel({ campaign, year, onProposal, onAccepted }: { ca
   const clamp = (d: string) => (d < campaign.startDate ? campaign.startDate : d > campaign.endDate ? campaign.endDate : d);
   const [form, setForm] = useState({ startDate: clamp(today > `${year}-01-01` ? today : `${year}-01-01`), endDate: clamp(`${year}-12-31`), nights: 'allocated' });
   const [preview, setPreview] = useState<SeasonPlanPreview | null>(null);
-  const [busy, setBusy] = useState(false);
-  const [error, setError] = useState<unknown>(null);
+  const { busy, error, run } = useAction();
   const [status, setStatus] = useState('');
   const msgs = fieldMessages(error);
-  const propose = async () => {
-    setBusy(true);
-    setError(null);
-    setStatus('');
-    try {
+  const propose = () =>
+    run(async () => {
+      setStatus('');
       const p = await send<SeasonPlanPreview>('POST', `/campaigns/${campaign.id}/season-plan`, form);
       setPreview(p);
       onProposal(p);
-    } catch (e) {
-      setError(e);
-    } finally {
-      setBusy(false);
-    }
-  };
+    });
   const accept = async () => {
     if (!preview) return;
-    setBusy(true);
-    setError(null);
-    try {
-      const r = await send<{ written: unknown[]; nightsCreated: unknown[] }>('POST', `/campaigns/${campaign.id}/season-plan/accept`, { ...form, digest: preview.digest });
-      setStatus(`Accepted: ${r.written.length} blocks stored, ${r.nightsCreated.length} nights created, ${preview.replaces.length} planned blocks replaced.`);
-      setPreview(null);
-      onProposal(null);
-      onAccepted();
-    } catch (e) {
-      setError(e instanceof ApiError && e.status === 409 ? new Error(`${e.message}. Propose again to review the plan as it now comes out.`) : e);
-    } finally {
-      setBusy(false);
-    }
+    await run(
+      async () => {
+        const r = await send<{ written: unknown[]; nightsCreated: unknown[] }>('POST', `/campaigns/${campaign.id}/season-plan/accept`, { ...form, digest: preview.digest });
+        setStatus(`Accepted: ${r.written.length} blocks stored, ${r.nightsCreated.length} nights created, ${preview.replaces.length} planned blocks replaced.`);
+        setPreview(null);
+        onProposal(null);
+        onAccepted();
+      },
+      (e) => (e instanceof ApiError && e.status === 409 ? new Error(`${e.message}. Propose again to review the plan as it now comes out.`) : e),
+    );
   };
   const p = preview?.plan;
   return (
