@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { Body, Equator, Horizon, MakeTime, Observer } from 'astronomy-engine';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { SCREENSHOTS, launchBrowser } from './harness.ts';
+import { SCREENSHOTS, launchBrowser, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -50,7 +50,7 @@ const pathYs = (d: string) => [...d.matchAll(/[ML]([-\d.]+),([-\d.]+)/g)].map((m
 beforeAll(async () => {
   mkdirSync(SCREENSHOTS, { recursive: true });
   browser = await launchBrowser();
-  ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
 });
 afterAll(async () => {
   await ctx?.close();

@@ -7,13 +7,19 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { chromium, type Browser } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions } from 'playwright-core';
 import { build } from 'vite';
 
 export const REPO = resolve(import.meta.dirname, '../..');
 export const CLIENT_DIST = join(REPO, 'client/dist');
 export const SCREENSHOTS = join(REPO, 'test-output/e2e');
 export const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
+/**
+ * The instant the browser tests run at: the server's clock is frozen there (EPOCHWRIGHT_NOW) and each
+ * browser context's clock starts there, so the demo campaign (2026-03 … 2027-10) looks the same on
+ * any day the suite runs. The same instant as the unit suite's (vitest.config.ts).
+ */
+export const TEST_NOW = '2026-12-01T12:00:00Z';
 
 /** Build client/dist exactly as `npm run build` does. */
 export async function buildClient(): Promise<void> {
@@ -32,7 +38,7 @@ export async function startServer(): Promise<RunningServer> {
   const tsx = join(REPO, 'node_modules/tsx/dist/cli.mjs');
   const child: ChildProcess = spawn(process.execPath, [tsx, 'server/main.ts'], {
     cwd: REPO,
-    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', DATABASE_URL: `file:${join(dir, 'e2e.db')}`, EPOCHWRIGHT_DEMO: '1' },
+    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', DATABASE_URL: `file:${join(dir, 'e2e.db')}`, EPOCHWRIGHT_DEMO: '1', EPOCHWRIGHT_NOW: TEST_NOW },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let out = '';
@@ -83,4 +89,11 @@ export function apiCaller(base: string, defaultToken: string) {
     if (!res.ok) throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
     return (res.status === 204 ? undefined : await res.json()) as T;
   };
+}
+
+/** A browser context whose clock starts at TEST_NOW and then runs on. */
+export async function newContext(browser: Browser, options: BrowserContextOptions = {}): Promise<BrowserContext> {
+  const ctx = await browser.newContext(options);
+  await ctx.clock.install({ time: TEST_NOW });
+  return ctx;
 }

@@ -7,7 +7,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { SCREENSHOTS, apiCaller, launchBrowser } from './harness.ts';
+import { SCREENSHOTS, apiCaller, launchBrowser, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -38,7 +38,7 @@ afterAll(async () => {
 
 describe('every view opens, shows its content and logs no console error', () => {
   test('campaign overview with a periapsis flag', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const { page, errors } = await open(ctx, '/');
     await page.locator('.periapsis-flag').first().waitFor();
     // The sign-in link's token leaves the address bar and the role is shown.
@@ -58,7 +58,7 @@ describe('every view opens, shows its content and logs no console error', () => 
 describe('views', () => {
   let ctx: BrowserContext;
   beforeAll(async () => {
-    ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
   });
   afterAll(async () => ctx.close());
 

@@ -8,7 +8,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { SCREENSHOTS, apiCaller, launchBrowser } from './harness.ts';
+import { SCREENSHOTS, TEST_NOW, apiCaller, launchBrowser, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -37,7 +37,7 @@ afterAll(async () => browser?.close());
 
 describe('night report', () => {
   test('write and save, then a conflicting save is shown side by side and resolved field by field', async () => {
-    const ctx = await browser.newContext();
+    const ctx = await newContext(browser);
     const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
     const before = reports.items[0]!;
     const { page, errors } = await open(ctx, `/nights/${before.nightId}/report`);
@@ -69,7 +69,7 @@ describe('night report', () => {
   });
 
   test('a page killed mid-edit leaves its draft, which the next visit restores; nothing reached the server', async () => {
-    const ctx = await browser.newContext();
+    const ctx = await newContext(browser);
     const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
     const r = reports.items[1]!;
     const first = await open(ctx, `/nights/${r.nightId}/report`);
@@ -94,7 +94,7 @@ describe('night report', () => {
   });
 
   test('a save while the connection is down keeps the draft; the same save succeeds once it is back', async () => {
-    const ctx = await browser.newContext();
+    const ctx = await newContext(browser);
     const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
     const r = reports.items[3]!;
     const { page } = await open(ctx, `/nights/${r.nightId}/report`);
@@ -111,7 +111,7 @@ describe('night report', () => {
   });
 
   test('field-level messages: a value the server refuses is named beside its field', async () => {
-    const ctx = await browser.newContext();
+    const ctx = await newContext(browser);
     const reports = await api<{ items: Report[] }>('/night-reports?limit=500');
     const r = reports.items[2]!;
     const { page } = await open(ctx, `/nights/${r.nightId}/report`);
@@ -127,8 +127,8 @@ describe('night report', () => {
 
 describe('night blocks', () => {
   test('move a block 15 minutes later and remove another', async () => {
-    const ctx = await browser.newContext();
-    const blocks = await api<{ items: Block[] }>(`/blocks?from=${new Date().toISOString()}&limit=500`);
+    const ctx = await newContext(browser);
+    const blocks = await api<{ items: Block[] }>(`/blocks?from=${TEST_NOW}&limit=500`);
     const byNight = new Map<number, Block[]>();
     for (const b of blocks.items) byNight.set(b.nightId, [...(byNight.get(b.nightId) ?? []), b]);
     const [nightId, bs] = [...byNight].find(([, v]) => v.length >= 2)!;
@@ -149,8 +149,8 @@ describe('night blocks', () => {
 
 describe('night scheduler', () => {
   test('propose a schedule, pin a block, move another, re-schedule the rest, store it', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-    const today = new Date().toISOString().slice(0, 10);
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
+    const today = TEST_NOW.slice(0, 10);
     const nights = await api<{ items: { id: number; date: string; siteId: number; campaignId: number | null }[] }>(`/nights?siteId=1&campaignId=1&from=${today}&limit=500`);
     const night = nights.items.sort((a, b) => a.date.localeCompare(b.date)).at(-1)!;
     const { page, errors } = await open(ctx, `/nights/${night.id}`);
@@ -190,7 +190,7 @@ describe('safety', () => {
     // (the Sun crosses RA 264° near 16 December at Dec ≈ −23°; common practice, no source).
     const night = await api<{ id: number }>('/nights', { method: 'POST', body: { siteId: 1, campaignId: 1, date: '2026-12-16' } });
     await api('/blocks', { method: 'POST', body: { nightId: night.id, targetId: 1, kind: 'astrometry', startUtc: '2026-12-17T04:00:00Z', endUtc: '2026-12-17T04:30:00Z' } });
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const { page, errors } = await open(ctx, `/nights/${night.id}`);
     const problem = page.locator('table.blocks .problem');
     await problem.waitFor();
@@ -204,7 +204,7 @@ describe('safety', () => {
 
 describe('printable night sheet and records', () => {
   test('printing the night hides the controls and keeps the chart, the times and the blocks', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1100, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1100, height: 900 } });
     const nights = await api<{ items: { id: number }[] }>('/nights?siteId=1&limit=500');
     const { page } = await open(ctx, `/nights/${nights.items.at(-1)!.id}`);
     await page.locator('svg.night-chart').waitFor();
@@ -219,7 +219,7 @@ describe('printable night sheet and records', () => {
   });
 
   test('a CSV import with bad rows lists each one and writes nothing; a lead’s bad edit is named beside its field', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const before = await api<{ total: number }>('/measurements?limit=1');
     const { page, errors } = await open(ctx, '/records');
     await page.locator('#import textarea').waitFor();
@@ -254,7 +254,7 @@ describe('printable night sheet and records', () => {
 describe('roles', () => {
   test('a viewer sees the plan and the report but no edit controls', async () => {
     const made = await api<{ token: string }>('/users', { method: 'POST', body: { name: 'guest viewer', role: 'viewer' } });
-    const ctx = await browser.newContext();
+    const ctx = await newContext(browser);
     const nights = await api<{ items: { id: number }[] }>('/nights?limit=1');
     const night = await open(ctx, `/nights/${nights.items[0]!.id}`, made.token);
     await night.page.locator('table.blocks').waitFor();
@@ -272,7 +272,7 @@ describe('roles', () => {
 
 describe('sky-plane plot as drawn in the browser', () => {
   test('east is left, north is up, and each error ellipse has the size and orientation of its measurement', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const { page } = await open(ctx, '/targets/1');
     const svg = page.locator('svg.sky-plane');
     await svg.locator('.measurement').first().waitFor();
@@ -329,7 +329,7 @@ describe('sky-plane plot as drawn in the browser', () => {
 
 describe('fitting from the target page', () => {
   test('fit the stored measurements, see the fitted track, store it as the new current version', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     // VC s3 (demo): other tests rely on VC s1's stored solution, so fit another star.
     const { page, errors } = await open(ctx, '/targets/3');
     await page.getByRole('button', { name: 'Fit the stored measurements' }).click();
@@ -349,7 +349,7 @@ describe('fitting from the target page', () => {
 
 describe('themes', () => {
   test('the day theme is one click away and stays chosen', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const { page, errors } = await open(ctx, '/targets/5');
     await page.locator('svg.sky-plane').waitFor();
     await page.getByRole('button', { name: /day theme/i }).click();
@@ -365,7 +365,7 @@ describe('themes', () => {
 
 describe('season plan', () => {
   test('propose a season plan, see it on the season chart with its reasons, accept it into blocks', async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const { page, errors } = await open(ctx, '/season');
     await page.locator('#season-site-1 svg.season-chart .season-row').first().waitFor();
     await page.locator('#season-site-2 svg.season-chart .season-row').first().waitFor();
