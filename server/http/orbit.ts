@@ -2,9 +2,8 @@
  * Stateless orbit endpoints: POST /ephemeris and POST /events take an orbit in the body.
  */
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
-import { ephemeris, eventsWithUncertainty, physicalQuantities, toCampbellInput, toThieleInnesInput, validateOrbit, type Orbit, type OrbitInput } from '../science/orbit/index.ts';
-import { epochRange, parseDurationDays, parseEpoch } from '../science/time/index.ts';
-import { InputError } from '../science/errors.ts';
+import { describeOrbit, ephemeris, eventsWithUncertainty, validateOrbit, type OrbitInput } from '../science/orbit/index.ts';
+import { parseEpoch, resolveEpochs } from '../science/time/index.ts';
 import { EpochRangeSchema, EpochSchema, EventKindSchema, MonteCarloSchema, OrbitSchema } from './schemas/orbit.ts';
 import { validationHook } from './validation.ts';
 
@@ -46,25 +45,6 @@ const eventsRoute = createRoute({
   request: { body: { content: { 'application/json': { schema: EventsRequest } }, required: true } },
   responses: { 200: json(Any, 'events soonest first, each with its state and date uncertainty'), ...errors },
 });
-
-/** The epochs of a request as JD: a list, or a range with a step. */
-export function resolveEpochs(epochs: string[] | { start: string; end: string; step: string | number }): Float64Array {
-  if (Array.isArray(epochs)) return Float64Array.from(epochs, (e, i) => parseEpoch(e, `epochs.${i}`));
-  const start = parseEpoch(epochs.start, 'epochs.start');
-  const end = parseEpoch(epochs.end, 'epochs.end');
-  if (end < start) throw new InputError('epochs.end', epochs.end, 'must not be before epochs.start');
-  return epochRange(start, end, parseDurationDays(epochs.step, 'epochs.step'));
-}
-
-/** What every orbit response says about the orbit itself. */
-export function describeOrbit(orbit: Orbit) {
-  return {
-    campbell: toCampbellInput(orbit),
-    thieleInnes: toThieleInnesInput(orbit),
-    physical: orbit.distancePc === null ? null : physicalQuantities(orbit),
-    relativity: orbit.relativity,
-  };
-}
 
 export function orbitRoutes() {
   const app = new OpenAPIHono({ defaultHook: validationHook });

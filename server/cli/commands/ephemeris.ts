@@ -1,7 +1,8 @@
 /** `epochwright ephemeris`: predicted positions and radial velocities at epochs. */
 import { parseArgs } from 'node:util';
 import { ephemeris, type EphemerisRow } from '../../science/orbit/index.ts';
-import { resolveEpochs, describeOrbit } from '../../http/orbit.ts';
+import { describeOrbit } from '../../science/orbit/index.ts';
+import { resolveEpochs, type EpochsInput } from '../../science/time/index.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { ORBIT_OPTION_HELP, epochPrinter, orbitOptions, readMonteCarlo, readOrbit } from './orbit-args.ts';
@@ -33,7 +34,7 @@ export const ephemerisCommand: Command = {
     });
     const format = outputFormat(values);
     const orbit = readOrbit(values.orbit);
-    let epochs: Parameters<typeof resolveEpochs>[0];
+    let epochs: EpochsInput;
     if (values.at !== undefined) {
       if (values.from ?? values.to ?? values.every) throw new UsageError('give either --at or --from/--to/--every');
       epochs = values.at.split(',').map((s) => s.trim());

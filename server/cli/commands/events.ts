@@ -2,7 +2,7 @@
 import { parseArgs } from 'node:util';
 import { EVENT_KINDS, eventsWithUncertainty, type EventKind, type EventWithUncertainty } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
-import { describeOrbit } from '../../http/orbit.ts';
+import { describeOrbit } from '../../science/orbit/index.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { ORBIT_OPTION_HELP, epochPrinter, orbitOptions, readMonteCarlo, readOrbit } from './orbit-args.ts';

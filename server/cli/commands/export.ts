@@ -5,7 +5,7 @@ import { measurements } from '../../../db/schema.ts';
 import { ephemeris } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { ephemerisCsv } from '../../store/exports/ephemeris.ts';
-import { resolveEpochs } from '../../http/orbit.ts';
+import { resolveEpochs } from '../../science/time/index.ts';
 import { measurementsCsv, measurementsForExport } from '../../store/exports/measurements.ts';
 import { campaignCalendar } from '../../store/exports/calendar.ts';
 import { currentOrbit } from '../../store/repos/orbits.ts';

@@ -10,7 +10,8 @@ import type { Store } from '../../store/index.ts';
 import { ephemerisCsv } from '../../store/exports/ephemeris.ts';
 import { currentOrbit } from '../../store/repos/orbits.ts';
 import { requireRole } from '../auth.ts';
-import { describeOrbit, resolveEpochs } from '../orbit.ts';
+import { describeOrbit } from '../../science/orbit/index.ts';
+import { resolveEpochs } from '../../science/time/index.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 
 const tags = ['targets'];

@@ -3,6 +3,7 @@
  */
 import { JULIAN_YEAR_DAYS } from '../constants.ts';
 import { InputError } from '../errors.ts';
+import { parseEpoch } from './epoch.ts';
 
 const UNITS_IN_DAYS: Record<string, number> = {
   s: 1 / 86_400,
@@ -40,4 +41,19 @@ export function epochRange(startJd: number, endJd: number, stepDays: number): Fl
   const count = Math.floor((endJd - startJd) / stepDays + 1e-9) + 1;
   if (count > MAX_EPOCHS) throw new InputError('step', stepDays, `gives ${count} epochs; at most ${MAX_EPOCHS} per request`);
   return Float64Array.from({ length: count }, (_, i) => startJd + i * stepDays);
+}
+
+/** Epochs as a request gives them: a list, or a range with a step. */
+export type EpochsInput = string[] | { start: string; end: string; step: string | number };
+
+/**
+ * The epochs of a request as JD.
+ * @throws InputError naming `epochs.<i>`, `epochs.start`, `epochs.end` or `epochs.step`
+ */
+export function resolveEpochs(epochs: EpochsInput): Float64Array {
+  if (Array.isArray(epochs)) return Float64Array.from(epochs, (e, i) => parseEpoch(e, `epochs.${i}`));
+  const start = parseEpoch(epochs.start, 'epochs.start');
+  const end = parseEpoch(epochs.end, 'epochs.end');
+  if (end < start) throw new InputError('epochs.end', epochs.end, 'must not be before epochs.start');
+  return epochRange(start, end, parseDurationDays(epochs.step, 'epochs.step'));
 }

@@ -11,4 +11,4 @@ export {
   jdToBesselianEpoch,
   type EpochFormat,
 } from './epoch.ts';
-export { parseDurationDays, epochRange, MAX_EPOCHS } from './duration.ts';
+export { parseDurationDays, epochRange, resolveEpochs, MAX_EPOCHS, type EpochsInput } from './duration.ts';

@@ -15,6 +15,7 @@ describe('public surface', () => {
         'campbellToThieleInnes',
         'drawOrbits',
         'eccentricFromTrueAnomaly',
+        'describeOrbit',
         'ephemeris',
         'eventsWithUncertainty',
         'findEvents',
@@ -59,6 +60,7 @@ describe('public surface', () => {
         'julianEpochToJd',
         'parseDurationDays',
         'parseEpoch',
+        'resolveEpochs',
         'unixMsToJd',
       ].sort(),
     );
