@@ -11,6 +11,7 @@ import {
   nightReport,
   parseNightDate,
   seasonMap,
+  seasonReport,
   validateConstraints,
   validateSite,
   validateTarget,
@@ -162,20 +163,8 @@ export function skyRoutes() {
       ...(minHoursPerNight === undefined ? {} : { minHoursPerNight }),
       ...(maxGapNights === undefined ? {} : { maxGapNights }),
     });
-    return c.json(seasonJson(site, map, constraints), 200);
+    return c.json(seasonReport(site, map, constraints), 200);
   });
   return app;
 }
 
-/** The season map as JSON: hours rounded to the minute. */
-export function seasonJson(site: Site, map: ReturnType<typeof seasonMap>, constraints: Constraints) {
-  return {
-    site: { name: site.name, timeZone: site.timeZone, latitudeDeg: site.latitudeDeg, longitudeDeg: site.longitudeDeg, elevationM: site.elevationM },
-    year: map.year,
-    stepMinutes: map.stepMinutes,
-    nights: map.nights.map((n) => ({ date: n.date, darkHours: Math.round(n.darkHours * 1000) / 1000 })),
-    targets: map.targets.map((t) => ({ name: t.name, season: t.season, periapses: t.periapses, hoursPerNight: Array.from(t.hours, (h) => Math.round(h * 1000) / 1000) })),
-    evaluations: map.evaluations,
-    cautions: cautions(constraints),
-  };
-}

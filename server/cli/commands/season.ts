@@ -1,7 +1,6 @@
 /** `epochwright season`: each target's observable hours per night across a year at a site, and its season. */
 import { parseArgs } from 'node:util';
-import { seasonJson } from '../../http/sky.ts';
-import { seasonMap, type TargetSeason } from '../../science/sky/index.ts';
+import { seasonMap, seasonReport, type TargetSeason } from '../../science/sky/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { formatCsv, render, type Column } from '../output.ts';
@@ -54,6 +53,6 @@ export const seasonCommand: Command = {
       { header: 'best_hours', value: (t) => t.season.bestHours, digits: 2 },
       { header: 'periapsis', value: (t) => t.periapses.map((p) => `${p.night} ${p.inSeason ? 'in season' : 'OUT of season'} ${p.hours.toFixed(1)} h`).join('; ') },
     ];
-    return render(format, map.targets, columns, seasonJson(site, map, constraints));
+    return render(format, map.targets, columns, seasonReport(site, map, constraints));
   },
 };

@@ -14,6 +14,7 @@ export { cautions, nightReport, type NightOptions, type NightReport, type Report
 export { apparentAltitudeDeg, refractionDeg, refractionScale, trueAltitudeDeg } from './refraction.ts';
 export { altitudeGrid, exactSampler, fastSampler, frameTarget, type FrameTarget, type Sampler, type SkySample } from './samplers.ts';
 export { seasonMap, type SeasonMap, type SeasonOptions, type TargetSeason } from './season.ts';
+export { seasonReport } from './season-report.ts';
 export type { PeriapsisInSeason, SeasonSummary } from './season-summary.ts';
 export { DEFAULT_SUN_AVOIDANCE_DEG, maskAltitudeDeg, validateSite, type HorizonPoint, type Site, type SiteInput } from './site.ts';
 export { TWILIGHT_SUN_ALTITUDE_DEG, moonNight, sunNight, type TwilightKind } from './sun-moon.ts';

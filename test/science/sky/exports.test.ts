@@ -8,7 +8,7 @@ it('exports exactly these values', () => {
     'TWILIGHT_SUN_ALTITUDE_DEG', 'airmass', 'cautions', 'altitudeForAirmass', 'apparentAltitudeDeg', 'astroTime', 'darknessExact',
     'darknessFast', 'deltaTSeconds', 'exactSampler', 'fastSampler', 'findWindows', 'frameTarget', 'icrsDirection',
     'instant', 'maskAltitudeDeg', 'moonNight', 'nightFrame', 'nightReport', 'nightSpan', 'offsetPosition',
-    'parallacticAngleRad', 'parseNightDate', 'refractionDeg', 'refractionScale', 'seasonMap', 'seeingAtAirmass',
+    'parallacticAngleRad', 'parseNightDate', 'refractionDeg', 'refractionScale', 'seasonMap', 'seasonReport', 'seeingAtAirmass',
     'skyPlaceExact', 'skyPlaceOfDate', 'standardAtmosphere', 'sunNight', 'taiMinusUtcS', 'targetPositionAt',
     'trueAltitudeDeg', 'validateConstraints', 'validateSite', 'validateTarget',
   ].sort());
