@@ -1,13 +1,14 @@
 /**
  * One night at one site: altitude or airmass of the campaign's targets against time with the
  * twilight bands, the Moon and a line for now; the night's blocks on the same axis and in a table
- * (UTC and the site's clock side by side) where observers move, mark and remove them; the
- * scheduler panel; the site's cautions; and a printable night sheet.
+ * (UTC and the site’s clock side by side, where each came from and whether it is pinned) where
+ * observers move, pin and remove them; the scheduler panel; the site's cautions; and a printable
+ * night sheet.
  */
 import { useState } from 'preact/hooks';
-import { get, getAll, send } from '../api/client.ts';
+import { ApiError, get, getAll, send } from '../api/client.ts';
 import { loadCatalogue } from '../api/catalogue.ts';
-import type { BlockRow, NightRow, Visibility } from '../api/types.ts';
+import type { BlockOrigin, BlockRow, NightRow, Visibility } from '../api/types.ts';
 import { MOON_DASH, NightChart, SERIES_DASH, type NightMode } from '../plots/night-chart.tsx';
 import { isoOf, ms, utcClock, zoneAbbrev, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
@@ -15,6 +16,9 @@ import { useLoad } from '../lib/use-load.ts';
 import { SchedulePanel, type ScheduledBlock } from './schedule-panel.tsx';
 
 const STEP_MIN = 15;
+
+/** How the blocks table says where a stored block came from. */
+export const ORIGIN_LABEL: Record<BlockOrigin, string> = { 'season-plan': 'season plan', 'night-schedule': 'night schedule', 'by-hand': 'by hand' };
 
 /** Why a stored block sits outside what the sky engine allows for its target tonight, or null. */
 export function blockProblem(b: BlockRow, vis: Visibility, targetName: string, siteSunAvoidanceDeg: number): string | null {
@@ -38,26 +42,33 @@ function BlockTable({ blocks, vis, names, zone, sunAvoid, canEdit, onChanged }: 
     }
     onChanged();
   };
+  const setPinned = (b: BlockRow, pinned: boolean) => act(() => send('PATCH', `/blocks/${b.id}`, { pinned, version: b.version }));
   const shift = (b: BlockRow, minutes: number) =>
     act(() => send('PATCH', `/blocks/${b.id}`, { startUtc: isoOf(ms(b.startUtc) + minutes * 60_000), endUtc: isoOf(ms(b.endUtc) + minutes * 60_000), version: b.version }));
   if (!blocks.length) return <p class="muted">No blocks on this night yet.</p>;
   return (
     <>
+      <p class="muted pin-note">A stored night schedule or season plan never replaces a pinned block or one made by hand, nor one already begun, reported or measured. Pin a block to keep it where it is through the next re-plan.</p>
       <table class="data blocks">
-        <thead><tr><th>target</th><th>kind</th><th>UTC</th><th>{zoneAbbrev(blocks[0]!.startUtc, zone)} ({zone})</th><th>status</th><th>check</th>{canEdit && <th>change</th>}</tr></thead>
+        <thead><tr><th>target</th><th>kind</th><th>UTC</th><th>{zoneAbbrev(blocks[0]!.startUtc, zone)} ({zone})</th><th>status</th><th>made by</th><th>pinned</th><th>check</th>{canEdit && <th>change</th>}</tr></thead>
         <tbody>
           {blocks.map((b) => {
             const problem = blockProblem(b, vis, names(b.targetId), sunAvoid);
             return (
-              <tr key={b.id} data-block={b.id} class={problem ? 'has-problem' : ''}>
+              <tr key={b.id} data-block={b.id} data-version={b.version} class={problem ? 'has-problem' : ''}>
                 <td><a href={`/targets/${b.targetId}`}>{names(b.targetId)}</a></td>
                 <td>{b.kind}{b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}</td>
                 <td>{utcClock(b.startUtc)}–{utcClock(b.endUtc)}</td>
                 <td>{zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}</td>
                 <td>{b.status}</td>
+                <td class="origin">{ORIGIN_LABEL[b.origin] ?? b.origin}</td>
+                <td class="pin-state">{b.pinned ? <span class="tag pin-tag">pinned</span> : <span class="muted">no</span>}</td>
                 <td>{problem ? <span class="problem">{problem}</span> : <span class="ok">inside its window</span>}</td>
                 {canEdit && (
                   <td class="actions">
+                    {b.pinned
+                      ? <button type="button" aria-label={`unpin ${names(b.targetId)} ${b.kind}`} onClick={() => setPinned(b, false)}>Unpin</button>
+                      : <button type="button" aria-label={`pin ${names(b.targetId)} ${b.kind}`} onClick={() => setPinned(b, true)}>Pin</button>}
                     <button type="button" aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes earlier`} onClick={() => shift(b, -STEP_MIN)}>−{STEP_MIN} min</button>
                     <button type="button" aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes later`} onClick={() => shift(b, STEP_MIN)}>+{STEP_MIN} min</button>
                     <button type="button" class="danger" aria-label={`remove ${names(b.targetId)} ${b.kind}`} onClick={() => act(() => send('DELETE', `/blocks/${b.id}`))}>Remove</button>
@@ -69,6 +80,7 @@ function BlockTable({ blocks, vis, names, zone, sunAvoid, canEdit, onChanged }: 
         </tbody>
       </table>
       <ErrorLine error={error} />
+      {error instanceof ApiError && error.status === 409 && <p class="muted" role="status">Someone changed this block first; the table now shows it as stored.</p>}
     </>
   );
 }
