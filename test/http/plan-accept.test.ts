@@ -193,7 +193,7 @@ for (const backend of BACKENDS) {
     const targetId = async (name: string) => (await env.store.targets.list([], { limit: 50 })).items.find((t) => t.name === name)!.id;
     const nightOf = async (date: string, siteId: number) => (await campaignBlocks(date, date)).nights.find((n) => n.siteId === siteId)!;
 
-    it('keeps hand-made and pinned blocks through a season re-plan, leaving their nights out with the reason', async () => {
+    it('keeps hand-made and pinned blocks through a season re-plan, planning new blocks around them on their nights', async () => {
       // July at Tolvane Ridge still holds the demo's own blocks (written as an earlier season plan, scenario.ts).
       const JULY = { startDate: '2027-07-01', endDate: '2027-07-31', siteIds: [1] };
       const { nights, blocks } = await campaignBlocks(JULY.startDate, JULY.endDate);
@@ -217,9 +217,10 @@ for (const backend of BACKENDS) {
       expect(((await pinned.json()) as Json).origin).toBe('season-plan'); // pinning does not change who made it
 
       const preview = (await (await call('viewer', 'POST', '/api/campaigns/1/season-plan', { ...JULY, at: AT })).json()) as Json;
-      const skipped = preview.sites.flatMap((s: Json) => s.skipped);
-      expect(skipped).toContainEqual({ date: '2027-07-03', reason: `block ${hand.id} stays: it was made by hand` });
-      expect(skipped).toContainEqual({ date: '2027-07-10', reason: `block ${target.id} stays: a person pinned it` });
+      expect(preview.sites.flatMap((s: Json) => s.skipped).map((k: Json) => k.date)).not.toContain('2027-07-03'); // planned around, no longer left out
+      const around = preview.sites.flatMap((s: Json) => s.plannedAround);
+      expect(around).toContainEqual({ date: '2027-07-03', kept: [{ id: hand.id, reason: 'it was made by hand' }] });
+      expect(around).toContainEqual({ date: '2027-07-10', kept: [{ id: target.id, reason: 'a person pinned it' }] });
       expect(preview.replaces).not.toContain(hand.id);
       expect(preview.replaces).not.toContain(target.id);
       const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', { ...JULY, digest: preview.digest });
@@ -230,8 +231,22 @@ for (const backend of BACKENDS) {
       const after = (await env.store.blocks.list([], { limit: 500 })).items;
       expect(after.find((b) => b.id === hand.id)).toMatchObject({ origin: 'by-hand', version: hand.version }); // untouched
       expect(after.find((b) => b.id === target.id)).toMatchObject({ pinned: true, startUtc: target.startUtc });
-      expect(after.filter((b) => b.nightId === n03.id || b.nightId === n10.id).length).toBe(blocks.filter((b) => b.nightId === n03.id || b.nightId === n10.id).length + 1); // their nights are left out whole: the demo's blocks and the hand-made one
-      expect(out.written.some((b: Json) => b.nightId === n03.id || b.nightId === n10.id)).toBe(false);
+      // The hand-made block's night gets new blocks in the time it leaves free: none over it or inside the changeover gap, none repeating its target and kind.
+      const added = out.written.filter((b: Json) => b.nightId === n03.id) as Json[];
+      console.log(`2027-07-03: ${added.length} new blocks around hand-made block ${hand.id} (${hand.startUtc}–${hand.endUtc})`);
+      expect(added.length).toBeGreaterThan(0);
+      for (const [kept, nightId] of [[hand, n03.id], [target, n10.id]] as const) {
+        const keptTarget = kept.targetId;
+        for (const b of out.written.filter((x: Json) => x.nightId === nightId) as Json[]) {
+          const gap = (b.targetId === keptTarget ? 3 : 8) * 60_000; // the scheduler's default changeover gaps (night-schedule.ts; common practice, no source)
+          expect(Date.parse(b.endUtc) + gap <= Date.parse(kept.startUtc) || Date.parse(kept.endUtc) + gap <= Date.parse(b.startUtc), `block ${b.id} ${b.startUtc}–${b.endUtc}`).toBe(true);
+          expect([b.targetId, b.kind], `block ${b.id}`).not.toEqual([keptTarget, kept.kind]); // a kept block of the target and kind is that night's epoch: no repeat
+        }
+      }
+      checkSky(1, added as { startUtc: string; endUtc: string }[]);
+      const stayed = after.filter((b) => b.nightId === n03.id || b.nightId === n10.id).map((b) => b.id).sort((a, b) => a - b);
+      expect(stayed).toEqual([hand.id, target.id, ...out.written.filter((b: Json) => b.nightId === n03.id || b.nightId === n10.id).map((b: Json) => b.id)].sort((a, b) => a - b)); // on those nights: the kept blocks and the new plan's, the demo's plans replaced
+      expect(after.find((b) => b.id === hand.id)).toEqual(hand); // the hand-made block unchanged, every field
     });
 
     it('schedules a night around a hand-made block, leaving out a second block of its target and kind; pins are stored and kept', async () => {

@@ -114,6 +114,7 @@ export const planSeasonCommand: Command = {
       { header: 'periapses', value: (t) => t.periapses.map((p) => p.slice(0, 10)).join(' ') },
     ]);
     const skipped = result.sites.flatMap((s) => s.skipped.map((k) => `  ${s.name} ${k.date}: ${k.reason}\n`));
+    const around = result.sites.flatMap((s) => s.plannedAround.map((n) => `  ${s.name} ${n.date}: ${n.kept.map((k) => `block ${k.id} (${k.reason})`).join(', ')}\n`));
     return [
       `campaign ${id}, nights ${plan.startDate} to ${plan.endDate} (${result.nights}); ${plan.sites.map((s) => `${s.name}: ${s.nightsUsed} of ${s.nights} nights used, ${s.plannedHours.toFixed(1)} h planned`).join('; ')}\n\n`,
       formatTable(plan.epochs, columns),
@@ -121,6 +122,7 @@ export const planSeasonCommand: Command = {
       targets,
       plan.unmet.length ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.from} to ${u.to}: ${u.reason}\n`).join('')}` : '',
       skipped.length ? `\nnights left out:\n${skipped.join('')}` : '',
+      around.length ? `\nnights planned around blocks that stay:\n${around.join('')}` : '',
       '\n',
       written,
       ...plan.cautions.map((c) => `note: ${c}\n`),

@@ -6,6 +6,10 @@
  * darkness and still has room. Extra epochs, when asked for, go where the information is largest.
  * Each site-night's epochs are then timed by the night scheduler. Every choice and every unmet goal
  * carries its reason.
+ *
+ * Blocks already stored that stay (`SeasonSite.kept`, by night) are planned around: new blocks go in
+ * the time they leave free, with the changeover gap, and a kept block that counts stands for its
+ * night's epoch of that target and kind (the cadence counts it; no repeat is added that night).
  */
 import { InputError } from '../errors.ts';
 import { findEvents } from '../orbit/index.ts';
@@ -17,9 +21,9 @@ import { jdToIso } from '../time/index.ts';
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
 import { MEASUREMENT_KINDS, slotsFor, type MeasurementKind } from './candidates.ts';
 import { numberIn, positive } from './checks.ts';
-import { blockQuality, dominantReason, nightGrid, reasonWords, targetGrid, type NightGrid, type ReasonCode } from './grid.ts';
+import { blockQuality, dominantReason, nightGrid, reasonWords, targetGrid, type NightGrid, type ReasonCode, type TargetGrid } from './grid.ts';
 import { addInformation, informationModel, jacobians, posteriorCovariance, uncertainties, varianceReduction, type InformationModel, type Precision, type Uncertainties } from './information.ts';
-import { scheduleOnGrid, type ScheduledBlock } from './night-schedule.ts';
+import { scheduleOnGrid, type KeptBlock, type ScheduledBlock } from './night-schedule.ts';
 
 export interface SeasonSite {
   site: Site;
@@ -28,6 +32,8 @@ export interface SeasonSite {
   nights?: readonly string[] | null;
   /** Astrometry at this site uses a laser guide star. */
   laserGuideStar?: boolean;
+  /** Stored blocks that stay, by night (local evening date, one of `nights`): planned around, never moved. */
+  kept?: Readonly<Record<string, readonly KeptBlock[]>>;
 }
 
 export interface SeasonTarget {
@@ -115,7 +121,7 @@ interface Option {
   used: boolean;
 }
 
-const NOT_ALLOCATED = 5, NO_DARKNESS = 6, TOO_SHORT = 7;
+const NOT_ALLOCATED = 5, NO_DARKNESS = 6, TOO_SHORT = 7, KEPT_FULL = 8;
 const MAX_NIGHTS = 400;
 
 export function planSeason(startDate: string, endDate: string, sites: readonly SeasonSite[], targets: readonly SeasonTarget[], options: SeasonOptions = {}): SeasonPlan {
@@ -152,7 +158,11 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
   const fill = options.fillFraction ?? 0.9;
   if (!(fill > 0 && fill <= 1)) throw new InputError('fillFraction', fill, 'must lie in (0, 1]');
   const extra = numberIn('extraEpochsPerTarget', options.extraEpochsPerTarget ?? 0, 0, 20);
+  const sameTargetMinutes = options.sameTargetMinutes ?? 3;
   const nS = sites.length, nD = dates.length;
+  const keptOf = keptByNight(sites, dates, names);
+  // The changeover gap a new block of target `name` keeps from a kept block (the night scheduler's rule).
+  const keptGapDays = (name: string, k: KeptBlock) => (k.target === name ? sameTargetMinutes : slewMinutes) / 1440;
 
   // Nights: grids and room left (minutes).
   const grids: (NightGrid | null)[] = [];
@@ -162,7 +172,8 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
     dates.forEach((d, di) => {
       const g = allowed && !allowed.has(d) ? null : nightGrid(s.site, s.constraints, d, slotMinutes);
       grids.push(g);
-      room[si * nD + di] = g ? fill * g.darkHours * 60 : 0;
+      const held = keptOf[si * nD + di]!.reduce((m, k) => m + (k.endJd - k.startJd) * 1440 + slewMinutes, 0);
+      room[si * nD + di] = g ? Math.max(0, fill * g.darkHours * 60 - held) : 0;
     });
   });
   const nightJd = dates.map((d) => nightSpan(sites[0]!.site, d).startJd + 0.5);
@@ -179,24 +190,34 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
           continue;
         }
         const tg = targetGrid(g, t.target);
+        const kept = keptOf[si * nD + di]!;
+        const okRun = kept.length > 0 ? runAroundKept(g, tg, kept, (k) => keptGapDays(t.target.name, k)) : tg.okRun;
         for (const kind of t.kinds) {
           const k = kind === 'astrometry' ? 0 : 1;
+          if (kept.some((b) => b.counts && b.target === t.target.name && b.kind === kind)) {
+            codes[ti]![(k * nS + si) * nD + di] = KEPT_FULL; // a kept block is this night's epoch: no repeat
+            continue;
+          }
           const slots = slotsFor(blockMinutes[kind], g);
           let best = -1, bq = 0;
           for (let i = 0; i + slots < g.edgeJd.length; i++) {
-            if (tg.okRun[i]! >= slots + 1) {
+            if (okRun[i]! >= slots + 1) {
               const q = blockQuality(tg, i, slots);
               if (q > bq) (bq = q), (best = i);
             }
           }
           if (best < 0) {
+            if (okRun !== tg.okRun && tg.okRun.some((n) => n >= slots + 1)) {
+              codes[ti]![(k * nS + si) * nD + di] = KEPT_FULL;
+              continue;
+            }
             const r = dominantReason(tg, sites[si]!.constraints);
             codes[ti]![(k * nS + si) * nD + di] = r === null ? TOO_SHORT : 1 + ['altitude', 'horizon-mask', 'sun-avoidance', 'moon'].indexOf(r);
             continue;
           }
           let first = best;
-          while (first > 0 && tg.okRun[first - 1]! > 0 && g.run[first - 1] === g.run[best]) first--;
-          out.push({ s: si, d: di, kind, first, last: first + tg.okRun[first]! - 1, slots, jd: (g.edgeJd[best]! + g.edgeJd[best + slots]!) / 2, quality: bq, jac: null, used: false });
+          while (first > 0 && okRun[first - 1] === okRun[first]! + 1) first--;
+          out.push({ s: si, d: di, kind, first, last: first + okRun[first]! - 1, slots, jd: (g.edgeJd[best]! + g.edgeJd[best + slots]!) / 2, quality: bq, jac: null, used: false });
         }
       }
     }
@@ -212,6 +233,15 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
     opts.forEach((o, k) => (o.jac = jac[k]!));
   });
   const planned = models.map((m) => (m ? new Float64Array(m.parameters.length ** 2) : null));
+  // Kept blocks that count are epochs of the season: their information is in before anything is chosen.
+  const keptEpochs = targets.map((t) => keptOf.flatMap((list, key) => list.filter((k) => k.counts && k.target === t.target.name).map((k) => ({ k, d: key % nD }))));
+  const addKept = (info: (Float64Array | null)[]) => keptEpochs.forEach((list, ti) => {
+    const m = models[ti];
+    if (!m || list.length === 0) return;
+    const jac = jacobians(m, Float64Array.from(list, ({ k }) => (k.startJd + k.endJd) / 2));
+    list.forEach(({ k }, j) => addInformation(info[ti]!, jac[j]!, m.parameters.length, k.kind, precision));
+  });
+  addKept(planned);
   const gradients = models.map((m) => {
     if (!m) return null;
     const n = m.parameters.length;
@@ -285,6 +315,11 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
         if (end >= nD && (lastIdx >= 0 || last !== undefined)) break; // the rest of the gap runs past the range
         const from = Math.max(0, lastIdx + 1), to = end - 1;
         if (from > to || from >= nD) break;
+        const held = keptEpochs[ti]!.filter(({ k, d }) => k.kind === kind && d >= from && d <= to);
+        if (held.length > 0) {
+          lastIdx = Math.max(...held.map(({ d }) => d)); // a kept block already meets this window
+          continue;
+        }
         const cov = covOf(ti);
         // Look in the second half of the window first, so the epochs come about one cadence apart, not closer.
         let best: Option | null = null, bestScore = -1, count = 0;
@@ -320,7 +355,7 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
         counts.set(c, (counts.get(c) ?? 0) + 1);
       }
       const [code, n] = [...counts.entries()].sort((a, b) => b[1] - a[1] || a[0] - b[0])[0]!;
-      const words = code === 0 ? 'its windows are already full' : code === NOT_ALLOCATED ? 'has no allocated night' : code === NO_DARKNESS ? 'has no darkness' : code === TOO_SHORT ? `has no window as long as the ${blockMinutes[kind]}-min block` : `${t.target.name} ${reasonWords((['altitude', 'horizon-mask', 'sun-avoidance', 'moon'] as ReasonCode[])[code - 1]!, s.constraints)}`;
+      const words = code === 0 ? 'its windows are already full' : code === KEPT_FULL ? 'its windows are taken by blocks that stay on the night' : code === NOT_ALLOCATED ? 'has no allocated night' : code === NO_DARKNESS ? 'has no darkness' : code === TOO_SHORT ? `has no window as long as the ${blockMinutes[kind]}-min block` : `${t.target.name} ${reasonWords((['altitude', 'horizon-mask', 'sun-avoidance', 'moon'] as ReasonCode[])[code - 1]!, s.constraints)}`;
       return `at ${s.site.name} ${words} (${n} of ${to - from + 1} nights)`;
     });
     return `${peri ? `periapsis on ${jdToIso(peri).slice(0, 10)} falls in this window, but ` : ''}no ${kind} epoch fits from ${dates[from]} to ${dates[to]}: ${parts.join('; ')}`;
@@ -350,6 +385,7 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
   }
   const skyTargets = targets.map((t) => t.target);
   const finalInfo = models.map((m) => (m ? new Float64Array(m.parameters.length ** 2) : null));
+  addKept(finalInfo);
   for (const [key, list] of [...byNight.entries()].sort((a, b) => a[0] - b[0])) {
     const si = Math.floor(key / nD), di = key % nD;
     const lgs = sites[si]!.laserGuideStar === true;
@@ -357,6 +393,7 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
       candidates: list.map((c, k) => ({ id: `${k}`, target: targets[c.ti]!.target.name, kind: c.o.kind, durationMinutes: blockMinutes[c.o.kind], priority: (targets[c.ti]!.priority ?? 1) * (1 + c.gain), laserGuideStar: lgs && c.o.kind === 'astrometry' })),
       slewMinutes,
       sameTargetMinutes: options.sameTargetMinutes,
+      kept: keptOf[key]!,
     }, new Map());
     for (const b of schedule.blocks) {
       const c = list[Number(b.id)]!;
@@ -412,4 +449,35 @@ export function planSeason(startDate: string, endDate: string, sites: readonly S
     targets: targetPlans,
     cautions,
   };
+}
+
+/** Each site-night's kept blocks (index site × nights + night), checked against the sites' nights and the targets. */
+function keptByNight(sites: readonly SeasonSite[], dates: readonly string[], names: ReadonlySet<string>): (readonly KeptBlock[])[] {
+  const out: (readonly KeptBlock[])[] = [];
+  sites.forEach((s, si) => {
+    const byDate = s.kept ?? {};
+    for (const [date, list] of Object.entries(byDate)) {
+      if (!dates.includes(date) || (s.nights && !s.nights.includes(date))) throw new InputError(`sites.${si}.kept.${date}`, date, "must be one of the site's nights in the range");
+      list.forEach((k, j) => {
+        const f = `sites.${si}.kept.${date}.${j}`;
+        if (k.target !== null && !names.has(k.target)) throw new InputError(`${f}.target`, k.target, 'must name one of the targets, or be null for a target outside the plan');
+        if (!MEASUREMENT_KINDS.includes(k.kind)) throw new InputError(`${f}.kind`, k.kind, 'must be "astrometry" or "spectroscopy"');
+        if (!(Number.isFinite(k.startJd) && Number.isFinite(k.endJd) && k.endJd > k.startJd)) throw new InputError(`${f}.endJd`, k.endJd, `must be a finite JD after startJd ${k.startJd}`);
+      });
+    }
+    for (const d of dates) out.push(byDate[d] ?? []);
+  });
+  return out;
+}
+
+/** The target's ok runs (edges from each one) with the time of kept blocks, widened by the changeover gap, cut out. */
+function runAroundKept(g: NightGrid, tg: TargetGrid, kept: readonly KeptBlock[], gapDays: (k: KeptBlock) => number): Int32Array {
+  const jd = g.edgeJd, n = jd.length;
+  const run = new Int32Array(n);
+  for (let i = n - 1; i >= 0; i--) {
+    if (!tg.ok[i]) continue;
+    const on = tg.okRun[i]! > 1 && !kept.some((k) => jd[i]! < k.endJd + gapDays(k) - 1e-9 && jd[i + 1]! > k.startJd - gapDays(k) + 1e-9);
+    run[i] = 1 + (on ? run[i + 1]! : 0);
+  }
+  return run;
 }

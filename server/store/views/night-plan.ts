@@ -27,7 +27,7 @@ import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { Store } from '../index.ts';
 import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
-import { nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
+import { asKeptBlock, nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
 import { nowMs } from '../../clock.ts';
 
@@ -75,14 +75,7 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
   const targets = input.targets.map((t) => ({ ...t.target, name: names.get(t.id)! }));
   const [state] = await nightStates(db, { nightIds: [nightId] }, at);
   const keptBlocks = state!.blocks.filter((b) => b.kept !== null);
-  const kept: KeptBlock[] = keptBlocks.map(({ block: k }) => ({
-    label: `block ${k.id}`,
-    target: names.get(k.targetId) ?? null,
-    kind: k.kind,
-    startJd: unixMsToJd(Date.parse(k.startUtc)),
-    endJd: unixMsToJd(Date.parse(k.endUtc)),
-    counts: k.status === 'planned' || k.status === 'obtained' || k.status === 'partial',
-  }));
+  const kept: KeptBlock[] = keptBlocks.map(({ block }) => asKeptBlock(block, names));
   let candidates: unknown = request.candidates;
   const fromCampaign = candidates === undefined;
   if (fromCampaign) {

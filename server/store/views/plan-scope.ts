@@ -12,7 +12,7 @@
 import { createHash } from 'node:crypto';
 import { and, eq, gte, inArray, lte, max } from 'drizzle-orm';
 import { blockOutcomes, blocks, measurements, nightReports, nights } from '../../../db/schema.ts';
-import type { MeasurementKind } from '../../science/plan/index.ts';
+import type { KeptBlock, MeasurementKind } from '../../science/plan/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { jdToIso, jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import type { DbOrTx } from '../database.ts';
@@ -71,6 +71,18 @@ export async function nightStates(db: DbOrTx, where: { siteIds: number[]; from: 
     reported: reported.has(night.id),
     blocks: blockRows.filter((b) => b.nightId === night.id).map((block) => ({ block, kept: keptBecause(block, reported.has(night.id), withOutcome.has(block.id), measured.has(block.id), atIso) })),
   }));
+}
+
+/** A kept stored block as the planners see it (`names`: the planners' target names by id; another target is null). */
+export function asKeptBlock(b: BlockRow, names: ReadonlyMap<number, string>): KeptBlock {
+  return {
+    label: `block ${b.id}`,
+    target: names.get(b.targetId) ?? null,
+    kind: b.kind,
+    startJd: unixMsToJd(Date.parse(b.startUtc)),
+    endJd: unixMsToJd(Date.parse(b.endUtc)),
+    counts: b.status === 'planned' || b.status === 'obtained' || b.status === 'partial',
+  };
 }
 
 const KIND_OF: Record<string, MeasurementKind> = { offsets: 'astrometry', separation: 'astrometry', 'radial-velocity': 'spectroscopy' };

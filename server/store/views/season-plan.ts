@@ -4,15 +4,16 @@
  *
  * Open nights: the campaign's own stored nights in the range (`nights: "allocated"`, the default),
  * or every date of the range (`"all"`, creating the night rows it uses) — leaving out nights of
- * other campaigns, nights with a report, nights with a kept block (plan-scope.ts) and nights that
- * have begun. A block made by hand or pinned by a person is kept, so its night is left out too.
- * Accepting replaces every block on the open stored nights (all still only plans) with the new
- * plan's, in one transaction; nothing else is touched, so a re-plan after a night keeps what was
+ * other campaigns, nights with a report and nights that have begun. On an open night, blocks that
+ * stay (plan-scope.ts: made by hand, pinned, logged, measured…) are planned around: new blocks go in
+ * the time they leave free, and a kept block counts as that night's epoch of its target and kind.
+ * Accepting replaces the open stored nights' blocks that are still only plans with the new plan's,
+ * in one transaction; nothing else is touched, so a re-plan keeps what was made by hand, pinned,
  * observed and logged. An accept's moment may not lie in the past (plan-scope.ts).
  */
 import { InputError } from '../../science/errors.ts';
 import { addDays } from '../../science/sky/night.ts';
-import { planSeason, type MeasurementKind, type SeasonOptions, type SeasonPlan, type SeasonSite, type SeasonTarget } from '../../science/plan/index.ts';
+import { planSeason, type KeptBlock, type MeasurementKind, type SeasonOptions, type SeasonPlan, type SeasonSite, type SeasonTarget } from '../../science/plan/index.ts';
 import { jdToIso, jdToUnixMs } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import { removeIn } from '../crud.ts';
@@ -20,7 +21,7 @@ import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { Store } from '../index.ts';
 import { blockEntity, nightIntervalUtc, type BlockRow, type NightRow } from '../repos/nights.ts';
-import { lastEpochs, nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
+import { asKeptBlock, lastEpochs, nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
 import { nowMs } from '../../clock.ts';
 
@@ -41,7 +42,7 @@ export interface SeasonPlanPreview {
   /** The moment the plan was made for: nights begun before it are not planned, blocks begun before it are kept. */
   at: string;
   nights: (typeof NIGHT_CHOICES)[number];
-  sites: { siteId: number; name: string; openNights: number; skipped: { date: string; reason: string }[] }[];
+  sites: { siteId: number; name: string; openNights: number; skipped: { date: string; reason: string }[]; plannedAround: { date: string; kept: { id: number; reason: string }[] }[] }[];
   plan: SeasonPlan;
   /** Stored blocks accepting would delete (all still only plans). */
   replaces: number[];
@@ -73,6 +74,7 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
   if (chosen.length === 0) throw new InputError('siteIds', ids, 'must name at least one of the campaign’s sites');
   if (input.targets.length === 0) throw new InputError('campaignId', campaignId, 'has no targets to plan');
 
+  const names = plannerNames(input.targets);
   const states = await nightStates(db, { siteIds: chosen.map((s) => s.id), from: request.startDate, to: request.endDate }, at);
   const nightByKey = new Map<string, NightRow>();
   const replaces: number[] = [];
@@ -80,6 +82,8 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
   const sitesOut: SeasonPlanPreview['sites'] = [];
   for (const s of chosen) {
     const skipped: { date: string; reason: string }[] = [];
+    const plannedAround: { date: string; kept: { id: number; reason: string }[] }[] = [];
+    const keptByDate: Record<string, KeptBlock[]> = {};
     const open: string[] = [];
     const stored = new Map(states.filter((n) => n.night.siteId === s.id).map((n) => [n.night.date, n]));
     for (let d = request.startDate; d <= request.endDate; d = addDays(d, 1)) {
@@ -89,11 +93,9 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
         if (mode === 'all' && !begun) open.push(d);
         continue;
       }
-      const kept = state.blocks.filter((b) => b.kept !== null);
       const reason =
         state.night.campaignId !== campaignId ? (state.night.campaignId === null ? 'the night is stored without a campaign' : `the night belongs to campaign ${state.night.campaignId}`)
         : state.reported ? 'the night has a report'
-        : kept.length > 0 ? `block ${kept[0]!.block.id} stays: ${kept[0]!.kept}`
         : begun ? `the night began before ${at}`
         : null;
       if (reason) {
@@ -102,13 +104,17 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
       }
       open.push(d);
       nightByKey.set(`${s.id}/${d}`, state.night);
-      replaces.push(...state.blocks.map((b) => b.block.id));
+      const kept = state.blocks.filter((b) => b.kept !== null);
+      if (kept.length > 0) {
+        keptByDate[d] = kept.map((b) => asKeptBlock(b.block, names));
+        plannedAround.push({ date: d, kept: kept.map((b) => ({ id: b.block.id, reason: b.kept! })) });
+      }
+      replaces.push(...state.blocks.filter((b) => b.kept === null).map((b) => b.block.id));
     }
-    seasonSites.push({ site: s.site, constraints: s.constraints, nights: open, laserGuideStar: s.laserGuideStar });
-    sitesOut.push({ siteId: s.id, name: s.site.name, openNights: open.length, skipped });
+    seasonSites.push({ site: s.site, constraints: s.constraints, nights: open, laserGuideStar: s.laserGuideStar, kept: keptByDate });
+    sitesOut.push({ siteId: s.id, name: s.site.name, openNights: open.length, skipped, plannedAround });
   }
 
-  const names = plannerNames(input.targets);
   const last = await lastEpochs(db, campaignId, input.targets.map((t) => t.id), nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start);
   const goals = campaign.goals;
   const targets: SeasonTarget[] = input.targets.map((t) => ({
