@@ -12,7 +12,7 @@ import { useAction } from '../lib/use-action.ts';
 
 export interface PlannedEpoch { target: string; kind: string; site: string; date: string; block: { start: Stamp; end: Stamp; laserGuideStar: boolean }; why: string; reason: string }
 export interface SeasonPlanPreview {
-  sites: { siteId: number; name: string; openNights: number; skipped: { date: string; reason: string }[] }[];
+  sites: { siteId: number; name: string; openNights: number; skipped: { date: string; reason: string }[]; plannedAround: { date: string; kept: { id: number; reason: string }[] }[] }[];
   plan: {
     sites: { name: string; nights: number; nightsUsed: number; darkHours: number; plannedHours: number }[];
     epochs: PlannedEpoch[];
@@ -72,10 +72,10 @@ export function SeasonPlanPanel({ campaign, year, onProposal, onAccepted }: { ca
           {p.cautions.map((c) => <Caution key={c}>{c}</Caution>)}
           <p>{p.epochs.length} epochs proposed; accepting replaces {preview.replaces.length} blocks that are still only plans{lead ? '' : ' (accepting needs the lead role)'}.</p>
           <table class="data">
-            <thead><tr><th>site</th><th>open nights</th><th>nights used</th><th>planned (h)</th><th>darkness (h)</th><th>nights skipped</th></tr></thead>
+            <thead><tr><th>site</th><th>open nights</th><th>nights used</th><th>planned (h)</th><th>darkness (h)</th><th>nights skipped</th><th>planned around blocks that stay</th></tr></thead>
             <tbody>{p.sites.map((s) => {
               const meta = preview.sites.find((m) => m.name === s.name);
-              return <tr key={s.name}><td>{s.name}</td><td>{s.nights}</td><td>{s.nightsUsed}</td><td><Qty v={s.plannedHours} unit="" /></td><td><Qty v={s.darkHours} unit="" /></td><td>{meta?.skipped.map((k) => `${k.date} (${k.reason})`).join('; ') || '–'}</td></tr>;
+              return <tr key={s.name}><td>{s.name}</td><td>{s.nights}</td><td>{s.nightsUsed}</td><td><Qty v={s.plannedHours} unit="" /></td><td><Qty v={s.darkHours} unit="" /></td><td>{meta?.skipped.map((k) => `${k.date} (${k.reason})`).join('; ') || '–'}</td><td>{meta?.plannedAround.map((n) => `${n.date}: ${n.kept.map((k) => `block ${k.id} (${k.reason})`).join(', ')}`).join('; ') || '–'}</td></tr>;
             })}</tbody>
           </table>
           <table class="data">
