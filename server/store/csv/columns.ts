@@ -61,21 +61,8 @@ export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
   measurements: ['system', 'target', 'kind', 'epoch', 'instrument'],
 };
 
+/** A column whose name ends in its unit holds a number, as do the dimensionless ones listed here. */
+const NUMBER_BY_NAME = /(Years|Arcsec|Deg|Pc|KmS|Mas)$|^(eccentricity|correlation|magnitude|blockId)$/;
+
 /** Columns read as numbers (a cell that is not a number is reported as it is). */
-export const NUMERIC = new Set([
-  'magnitude',
-  'periodYears',
-  'eccentricity',
-  'semiMajorAxisArcsec',
-  'inclinationDeg',
-  'ascendingNodeDeg',
-  'argPeriapsisDeg',
-  'aArcsec',
-  'bArcsec',
-  'fArcsec',
-  'gArcsec',
-  'distancePc',
-  'systemicVelocityKmS',
-  'blockId',
-  ...MEASUREMENT_COLUMNS.filter((c) => /Mas$|Deg$|KmS$|^correlation$/.test(c)),
-]);
+export const NUMERIC = new Set([...TARGET_COLUMNS, ...ORBIT_COLUMNS, ...MEASUREMENT_COLUMNS].filter((c) => NUMBER_BY_NAME.test(c)));
