@@ -65,4 +65,4 @@ export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
 const NUMBER_BY_NAME = /(Years|Arcsec|Deg|Pc|KmS|Mas)$|^(eccentricity|correlation|magnitude|blockId)$/;
 
 /** Columns read as numbers (a cell that is not a number is reported as it is). */
-export const NUMERIC = new Set([...TARGET_COLUMNS, ...ORBIT_COLUMNS, ...MEASUREMENT_COLUMNS].filter((c) => NUMBER_BY_NAME.test(c)));
+export const NUMERIC: ReadonlySet<string> = new Set<string>([...TARGET_COLUMNS, ...ORBIT_COLUMNS, ...MEASUREMENT_COLUMNS].filter((c) => NUMBER_BY_NAME.test(c)));
