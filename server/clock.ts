@@ -2,6 +2,8 @@
  * The one clock of the server and the CLI. EPOCHWRIGHT_NOW (an ISO 8601 instant with its zone)
  * freezes it, so that a demo, a plan "as of" a date, or a test suite gives the same answer on any day.
  */
+import { parseEpoch, unixMsToJd } from './science/time/index.ts';
+
 const FROZEN = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:\d{2})$/;
 
 /** Milliseconds since 1970-01-01T00:00Z: the frozen instant when EPOCHWRIGHT_NOW is set, else the system clock. */
@@ -18,4 +20,14 @@ export function nowMs(env: NodeJS.ProcessEnv = process.env): number {
 /** The clock as an ISO 8601 UTC string. */
 export function nowIso(env: NodeJS.ProcessEnv = process.env): string {
   return new Date(nowMs(env)).toISOString();
+}
+
+/** The clock as a Julian Date. */
+export function nowJd(env: NodeJS.ProcessEnv = process.env): number {
+  return unixMsToJd(nowMs(env));
+}
+
+/** A moment a user may give (`at`: any epoch form) as JD, or the clock's when none is given. */
+export function momentJd(value: unknown, field: string): number {
+  return value === undefined ? nowJd() : parseEpoch(value, field);
 }

@@ -1,12 +1,11 @@
 /** `epochwright flags`: a stored campaign's planning flags, soonest first. */
 import { parseArgs } from 'node:util';
 import type { Flag } from '../../science/plan/index.ts';
-import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import { campaignFlags } from '../../store/views/planning.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
-import { nowMs } from '../../clock.ts';
+import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright flags --campaign <id> [--at <epoch>] [--resolution <mas>] [--json | --csv]
 
@@ -30,7 +29,7 @@ export const flagsCommand: Command = {
     const format = outputFormat(values);
     const id = Number(values.campaign);
     if (values.campaign === undefined || !Number.isInteger(id) || id <= 0) throw new UsageError(`--campaign: ${JSON.stringify(values.campaign ?? null)} must be a campaign id (a positive integer)`);
-    const nowJd = values.at === undefined ? unixMsToJd(nowMs()) : parseEpoch(values.at, '--at');
+    const nowJd = momentJd(values.at, '--at');
     const resolution = values.resolution === undefined ? undefined : Number(values.resolution);
     if (resolution !== undefined && !(resolution > 0)) throw new UsageError(`--resolution: ${values.resolution} must be a positive number of mas`);
     const result = await withStore(values.database, (store) => campaignFlags(store.db, id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }));

@@ -1,7 +1,6 @@
 /** `epochwright plan-night`: the schedule of a stored night; `--accept` stores it as blocks. */
 import { parseArgs } from 'node:util';
 import type { ScheduledBlock } from '../../science/plan/index.ts';
-import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import { LOCAL_OPERATOR } from '../../store/index.ts';
 import { acceptNightSchedule, previewNightSchedule, type NightScheduleRequest } from '../../store/views/night-plan.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
@@ -9,7 +8,7 @@ import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { asOptions, positiveId } from './plan-season.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
-import { nowMs } from '../../clock.ts';
+import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright plan-night --night <id> [options]
 
@@ -69,7 +68,7 @@ export const planNightCommand: Command = {
       ...(slot !== undefined ? { slotMinutes: slot } : {}),
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
-    const atJd = values.at === undefined ? unixMsToJd(nowMs()) : parseEpoch(values.at, '--at');
+    const atJd = momentJd(values.at, '--at');
     const result = await withStore(values.database, (store) =>
       asOptions(OPTIONS, () => (values.accept ? acceptNightSchedule(store, LOCAL_OPERATOR, id, request, atJd) : previewNightSchedule(store.db, id, request, atJd))),
     );

@@ -2,14 +2,13 @@
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
 import type { PlannedEpoch } from '../../science/plan/index.ts';
-import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import { LOCAL_OPERATOR } from '../../store/index.ts';
 import { acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
-import { nowMs } from '../../clock.ts';
+import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright plan-season --campaign <id> --start <YYYY-MM-DD> --end <YYYY-MM-DD> [options]
 
@@ -77,7 +76,7 @@ export const planSeasonCommand: Command = {
     const settings = values.settings === undefined ? {} : readJsonArg('settings', values.settings);
     if (typeof settings !== 'object' || settings === null || Array.isArray(settings)) throw new UsageError('--settings must be a JSON object');
     for (const k of Object.keys(settings)) if (!SETTINGS.includes(k)) throw new UsageError(`--settings: unknown setting ${JSON.stringify(k)} (known: ${SETTINGS.join(', ')})`);
-    const atJd = values.at === undefined ? unixMsToJd(nowMs()) : parseEpoch(values.at, '--at');
+    const atJd = momentJd(values.at, '--at');
     const request: SeasonPlanRequest = {
       ...(settings as object),
       startDate: values.start,

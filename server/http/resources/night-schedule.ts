@@ -6,13 +6,12 @@
  */
 import { createRoute, z } from '@hono/zod-openapi';
 import { SCHEDULE_METHODS } from '../../science/plan/index.ts';
-import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import type { Store } from '../../store/index.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { acceptNightSchedule, previewNightSchedule, type NightScheduleRequest } from '../../store/views/night-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
-import { nowMs } from '../../clock.ts';
+import { momentJd } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const NightScheduleBody = z.object({
@@ -30,7 +29,7 @@ export const NightScheduleBody = z.object({
 
 function request(c: Parameters<Parameters<typeof h>[0]>[0]): { id: number; body: NightScheduleRequest; atJd: number } {
   const { at, ...body } = valid(c, 'json') as z.output<typeof NightScheduleBody>;
-  return { id: valid(c, 'param').id as number, body: body as NightScheduleRequest, atJd: at === undefined ? unixMsToJd(nowMs()) : parseEpoch(at, 'at') };
+  return { id: valid(c, 'param').id as number, body: body as NightScheduleRequest, atJd: momentJd(at, 'at') };
 }
 
 export function nightScheduleRoutes(store: Store) {

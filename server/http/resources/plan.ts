@@ -2,10 +2,9 @@
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
 import { campaignFlags } from '../../store/views/planning.ts';
-import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
-import { nowMs } from '../../clock.ts';
+import { momentJd } from '../../clock.ts';
 
 const FlagsQuery = z.object({
   at: z.string().optional().openapi({ description: 'the moment to compute flags for (ISO 8601, JD, MJD); default now' }),
@@ -19,7 +18,7 @@ export function planRoutes(store: Store) {
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query');
-      const nowJd = q.at === undefined ? unixMsToJd(nowMs()) : parseEpoch(q.at, 'at');
+      const nowJd = momentJd(q.at, 'at');
       return c.json(await campaignFlags(store.db, valid(c, 'param').id as number, { nowJd, ...(q.resolutionMas ? { resolutionMas: q.resolutionMas as number } : {}) }), 200);
     }),
   );

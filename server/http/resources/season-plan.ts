@@ -5,13 +5,12 @@
  * server/store/views/plan-scope.ts.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import { parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import type { Store } from '../../store/index.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { NIGHT_CHOICES, acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
-import { nowMs } from '../../clock.ts';
+import { momentJd } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const SeasonPlanBody = z.object({
@@ -32,7 +31,7 @@ export const SeasonPlanBody = z.object({
 
 function request(c: Parameters<Parameters<typeof h>[0]>[0]): { id: number; body: SeasonPlanRequest; atJd: number } {
   const { at, ...body } = valid(c, 'json') as z.output<typeof SeasonPlanBody>;
-  return { id: valid(c, 'param').id as number, body: body as SeasonPlanRequest, atJd: at === undefined ? unixMsToJd(nowMs()) : parseEpoch(at, 'at') };
+  return { id: valid(c, 'param').id as number, body: body as SeasonPlanRequest, atJd: momentJd(at, 'at') };
 }
 
 export function seasonPlanRoutes(store: Store) {

@@ -8,7 +8,7 @@ import ical from 'ical-generator';
 import { and, eq, inArray } from 'drizzle-orm';
 import { blocks, nights, sites, targets, systems } from '../../../db/schema.ts';
 import { findEvents } from '../../science/orbit/index.ts';
-import { parseEpoch, jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
+import { parseEpoch, jdToUnixMs } from '../../science/time/index.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
@@ -16,7 +16,7 @@ import { currentOrbit } from '../repos/orbits.ts';
 import { NotFoundError } from '../errors.ts';
 import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
 import { campaignFlags } from '../views/planning.ts';
-import { nowMs } from '../../clock.ts';
+import { nowJd } from '../../clock.ts';
 
 export interface CalendarOptions {
   /** Host name used in UIDs, e.g. the server's. */
@@ -81,7 +81,7 @@ export async function campaignCalendar(db: DbOrTx, campaignId: number, options: 
   }
 
   // Flags: a UID per kind, target and day, so a flag that persists updates in place.
-  const { flags } = await campaignFlags(db, campaignId, { nowJd: options.flagsAtJd ?? unixMsToJd(nowMs()) });
+  const { flags } = await campaignFlags(db, campaignId, { nowJd: options.flagsAtJd ?? nowJd() });
   for (const f of flags) {
     const start = new Date(f.blend ? f.blend.start : f.date);
     const end = f.blend ? new Date(f.blend.end) : new Date(start.getTime() + 60_000);
