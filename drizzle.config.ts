@@ -5,5 +5,8 @@ export default defineConfig({
   dialect: 'turso',
   schema: './db/schema.ts',
   out: './db/migrations',
-  dbCredentials: { url: process.env.DATABASE_URL ?? 'file:data/epochwright.db', authToken: process.env.DATABASE_AUTH_TOKEN },
+  dbCredentials: {
+    url: process.env.DATABASE_URL ?? 'file:data/epochwright.db',
+    authToken: process.env.DATABASE_AUTH_TOKEN,
+  },
 });

@@ -4,7 +4,15 @@
  * JSON columns hold structures that are read and written whole (orbit elements, goals).
  */
 import { sql } from 'drizzle-orm';
-import { index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core';
+import {
+  index,
+  integer,
+  primaryKey,
+  real,
+  sqliteTable,
+  text,
+  uniqueIndex,
+} from 'drizzle-orm/sqlite-core';
 import type { OrbitInput } from '../server/science/orbit/types.ts';
 import type { HorizonPoint } from '../server/science/sky/site.ts';
 
@@ -24,7 +32,9 @@ export const users = sqliteTable('users', {
 /** Bearer tokens, stored as SHA-256 hex of the secret: the secret itself is shown once and never kept. */
 export const tokens = sqliteTable('tokens', {
   id: integer('id').primaryKey({ autoIncrement: true }),
-  userId: integer('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+  userId: integer('user_id')
+    .notNull()
+    .references(() => users.id, { onDelete: 'cascade' }),
   hash: text('hash').notNull().unique(),
   label: text('label').notNull(),
   createdAt: created(),
@@ -51,7 +61,9 @@ export const targets = sqliteTable(
   'targets',
   {
     id: integer('id').primaryKey({ autoIncrement: true }),
-    systemId: integer('system_id').notNull().references(() => systems.id, { onDelete: 'restrict' }),
+    systemId: integer('system_id')
+      .notNull()
+      .references(() => systems.id, { onDelete: 'restrict' }),
     name: text('name').notNull(),
     magnitude: real('magnitude'),
     band: text('band'),
@@ -67,7 +79,9 @@ export const orbitSolutions = sqliteTable(
   'orbit_solutions',
   {
     id: integer('id').primaryKey({ autoIncrement: true }),
-    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+    targetId: integer('target_id')
+      .notNull()
+      .references(() => targets.id, { onDelete: 'restrict' }),
     version: integer('version').notNull(),
     current: integer('current', { mode: 'boolean' }).notNull(),
     orbit: text('orbit', { mode: 'json' }).$type<OrbitInput>().notNull(),
@@ -97,7 +111,10 @@ export const sites = sqliteTable('sites', {
   pressureHpa: real('pressure_hpa'),
   temperatureC: real('temperature_c'),
   /** Azimuth-dependent horizon (the sky engine's shape), sorted by azimuth; empty for a flat horizon. */
-  horizonMask: text('horizon_mask', { mode: 'json' }).$type<HorizonPoint[]>().notNull().default(sql`'[]'`),
+  horizonMask: text('horizon_mask', { mode: 'json' })
+    .$type<HorizonPoint[]>()
+    .notNull()
+    .default(sql`'[]'`),
   laserGuideStar: integer('laser_guide_star', { mode: 'boolean' }).notNull().default(false),
   notes: text('notes').notNull().default(''),
   createdAt: created(),
@@ -133,8 +150,12 @@ export const campaigns = sqliteTable('campaigns', {
 export const campaignTargets = sqliteTable(
   'campaign_targets',
   {
-    campaignId: integer('campaign_id').notNull().references(() => campaigns.id, { onDelete: 'cascade' }),
-    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+    campaignId: integer('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    targetId: integer('target_id')
+      .notNull()
+      .references(() => targets.id, { onDelete: 'restrict' }),
   },
   (t) => [primaryKey({ columns: [t.campaignId, t.targetId] })],
 );
@@ -142,8 +163,12 @@ export const campaignTargets = sqliteTable(
 export const campaignSites = sqliteTable(
   'campaign_sites',
   {
-    campaignId: integer('campaign_id').notNull().references(() => campaigns.id, { onDelete: 'cascade' }),
-    siteId: integer('site_id').notNull().references(() => sites.id, { onDelete: 'restrict' }),
+    campaignId: integer('campaign_id')
+      .notNull()
+      .references(() => campaigns.id, { onDelete: 'cascade' }),
+    siteId: integer('site_id')
+      .notNull()
+      .references(() => sites.id, { onDelete: 'restrict' }),
   },
   (t) => [primaryKey({ columns: [t.campaignId, t.siteId] })],
 );
@@ -152,14 +177,19 @@ export const nights = sqliteTable(
   'nights',
   {
     id: integer('id').primaryKey({ autoIncrement: true }),
-    siteId: integer('site_id').notNull().references(() => sites.id, { onDelete: 'restrict' }),
+    siteId: integer('site_id')
+      .notNull()
+      .references(() => sites.id, { onDelete: 'restrict' }),
     campaignId: integer('campaign_id').references(() => campaigns.id, { onDelete: 'restrict' }),
     date: text('date').notNull(),
     notes: text('notes').notNull().default(''),
     createdAt: created(),
     updatedAt: updated(),
   },
-  (t) => [uniqueIndex('nights_site_date').on(t.siteId, t.date), index('nights_campaign').on(t.campaignId)],
+  (t) => [
+    uniqueIndex('nights_site_date').on(t.siteId, t.date),
+    index('nights_campaign').on(t.campaignId),
+  ],
 );
 
 export const BLOCK_STATUSES = ['planned', 'obtained', 'partial', 'lost', 'withdrawn'] as const;
@@ -170,8 +200,12 @@ export const blocks = sqliteTable(
   'blocks',
   {
     id: integer('id').primaryKey({ autoIncrement: true }),
-    nightId: integer('night_id').notNull().references(() => nights.id, { onDelete: 'restrict' }),
-    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+    nightId: integer('night_id')
+      .notNull()
+      .references(() => nights.id, { onDelete: 'restrict' }),
+    targetId: integer('target_id')
+      .notNull()
+      .references(() => targets.id, { onDelete: 'restrict' }),
     kind: text('kind', { enum: ['astrometry', 'spectroscopy'] }).notNull(),
     startUtc: text('start_utc').notNull(),
     endUtc: text('end_utc').notNull(),
@@ -191,7 +225,10 @@ export const blocks = sqliteTable(
 
 export const nightReports = sqliteTable('night_reports', {
   id: integer('id').primaryKey({ autoIncrement: true }),
-  nightId: integer('night_id').notNull().unique().references(() => nights.id, { onDelete: 'restrict' }),
+  nightId: integer('night_id')
+    .notNull()
+    .unique()
+    .references(() => nights.id, { onDelete: 'restrict' }),
   seeingArcsec: real('seeing_arcsec'),
   strehlRatio: real('strehl_ratio'),
   cloudCoverPct: real('cloud_cover_pct'),
@@ -210,8 +247,13 @@ export const nightReports = sqliteTable('night_reports', {
 /** What became of one block, written with the night report (one per block). */
 export const blockOutcomes = sqliteTable('block_outcomes', {
   id: integer('id').primaryKey({ autoIncrement: true }),
-  reportId: integer('report_id').notNull().references(() => nightReports.id, { onDelete: 'cascade' }),
-  blockId: integer('block_id').notNull().unique().references(() => blocks.id, { onDelete: 'restrict' }),
+  reportId: integer('report_id')
+    .notNull()
+    .references(() => nightReports.id, { onDelete: 'cascade' }),
+  blockId: integer('block_id')
+    .notNull()
+    .unique()
+    .references(() => blocks.id, { onDelete: 'restrict' }),
   status: text('status', { enum: BLOCK_STATUSES }).notNull(),
   exposureMinutes: real('exposure_minutes'),
   notes: text('notes').notNull().default(''),
@@ -221,7 +263,9 @@ export const measurements = sqliteTable(
   'measurements',
   {
     id: integer('id').primaryKey({ autoIncrement: true }),
-    targetId: integer('target_id').notNull().references(() => targets.id, { onDelete: 'restrict' }),
+    targetId: integer('target_id')
+      .notNull()
+      .references(() => targets.id, { onDelete: 'restrict' }),
     blockId: integer('block_id').references(() => blocks.id, { onDelete: 'set null' }),
     kind: text('kind', { enum: ['offsets', 'separation', 'radial-velocity'] }).notNull(),
     epoch: text('epoch').notNull(),
@@ -242,7 +286,10 @@ export const measurements = sqliteTable(
     createdAt: created(),
     updatedAt: updated(),
   },
-  (t) => [index('measurements_target_epoch').on(t.targetId, t.epochJd), index('measurements_block').on(t.blockId)],
+  (t) => [
+    index('measurements_target_epoch').on(t.targetId, t.epochJd),
+    index('measurements_block').on(t.blockId),
+  ],
 );
 
 export const auditTrail = sqliteTable(

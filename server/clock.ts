@@ -12,7 +12,9 @@ export function nowMs(env: NodeJS.ProcessEnv = process.env): number {
   if (frozen === undefined || frozen === '') return Date.now();
   const ms = FROZEN.test(frozen) ? Date.parse(frozen) : Number.NaN;
   if (Number.isNaN(ms)) {
-    throw new Error(`EPOCHWRIGHT_NOW: ${JSON.stringify(frozen)} must be an ISO 8601 instant with its zone, e.g. 2026-12-01T12:00:00Z`);
+    throw new Error(
+      `EPOCHWRIGHT_NOW: ${JSON.stringify(frozen)} must be an ISO 8601 instant with its zone, e.g. 2026-12-01T12:00:00Z`,
+    );
   }
   return ms;
 }

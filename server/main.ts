@@ -19,7 +19,9 @@ let started;
 try {
   started = await startStore();
 } catch (err) {
-  console.error(`epochwright: cannot open the database: ${err instanceof Error ? err.message : String(err)}`);
+  console.error(
+    `epochwright: cannot open the database: ${err instanceof Error ? err.message : String(err)}`,
+  );
   process.exit(1);
 }
 const { store, demo, firstLead } = started;
@@ -28,11 +30,20 @@ const app = createApp({ store, ...(withClient ? { clientDir: DEFAULT_CLIENT_DIR 
 const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
   const base = `http://${hostname}:${info.port}/`;
   console.log(`epochwright listening on ${base} (API at /api, OpenAPI at /api/openapi.json)`);
-  console.log(withClient ? `light client: open ${base} in a browser` : 'no built client in client/dist: run `npm run build` for the browser views');
+  console.log(
+    withClient
+      ? `light client: open ${base} in a browser`
+      : 'no built client in client/dist: run `npm run build` for the browser views',
+  );
   console.log(`database: ${store.database.url.replace(/\/\/[^@/]*@/, '//…@')}`);
-  if (demo) console.log(`demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty store)`);
+  if (demo)
+    console.log(
+      `demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty store)`,
+    );
   if (firstLead) {
-    console.log(`first start: created lead ${JSON.stringify(firstLead.user.name)}. Its token is shown this once; keep it safe:`);
+    console.log(
+      `first start: created lead ${JSON.stringify(firstLead.user.name)}. Its token is shown this once; keep it safe:`,
+    );
     console.log(`  token: ${firstLead.secret}`);
     console.log(`  sign in: ${base}?token=${firstLead.secret}`);
   }

@@ -17,16 +17,24 @@ function sources(dir: string): string[] {
 /** Every relative import of a file, resolved to a repo path. */
 function imports(file: string): string[] {
   const src = readFileSync(file, 'utf8');
-  return [...src.matchAll(/(?:from|import)\s*\(?\s*'(\.[^']+)'/g)].map((m) => relative(REPO, resolve(file, '..', m[1]!)));
+  return [...src.matchAll(/(?:from|import)\s*\(?\s*'(\.[^']+)'/g)].map((m) =>
+    relative(REPO, resolve(file, '..', m[1]!)),
+  );
 }
 
 function offending(layer: string, forbidden: string[]): string[] {
-  return sources(join(REPO, layer)).flatMap((f) => imports(f).filter((i) => forbidden.some((x) => i.startsWith(x))).map((i) => `${relative(REPO, f)} → ${i}`));
+  return sources(join(REPO, layer)).flatMap((f) =>
+    imports(f)
+      .filter((i) => forbidden.some((x) => i.startsWith(x)))
+      .map((i) => `${relative(REPO, f)} → ${i}`),
+  );
 }
 
 describe('layers', () => {
   it('science imports no store, db, http, cli or client code', () => {
-    expect(offending('server/science', ['server/store', 'server/http', 'server/cli', 'db/', 'client/'])).toEqual([]);
+    expect(
+      offending('server/science', ['server/store', 'server/http', 'server/cli', 'db/', 'client/']),
+    ).toEqual([]);
   });
   it('the store imports no http, cli or client code', () => {
     expect(offending('server/store', ['server/http', 'server/cli', 'client/'])).toEqual([]);

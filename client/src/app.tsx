@@ -22,7 +22,11 @@ function route(path: string) {
   if (match('/season', path)) return <SeasonView />;
   if (match('/records', path)) return <RecordsView />;
   if (match('/', path)) return <OverviewView />;
-  return <p class="panel">Nothing lives at {path}. <a href="/">Back to the campaign</a>.</p>;
+  return (
+    <p class="panel">
+      Nothing lives at {path}. <a href="/">Back to the campaign</a>.
+    </p>
+  );
 }
 
 function SignIn({ error, onToken }: { error: unknown; onToken: (t: string) => void }) {
@@ -30,8 +34,20 @@ function SignIn({ error, onToken }: { error: unknown; onToken: (t: string) => vo
   return (
     <form class="panel sign-in" onSubmit={(e) => (e.preventDefault(), onToken(value))}>
       <h1>Sign in</h1>
-      <p>Open the sign-in link that <code>npm start</code> printed on first start, or paste a token from <code>epochwright account add</code>.</p>
-      <label>Token <input name="token" type="password" autoComplete="off" value={value} onInput={(e) => setValue(e.currentTarget.value)} /></label>
+      <p>
+        Open the sign-in link that <code>npm start</code> printed on first start, or paste a token
+        from <code>epochwright account add</code>.
+      </p>
+      <label>
+        Token{' '}
+        <input
+          name="token"
+          type="password"
+          autoComplete="off"
+          value={value}
+          onInput={(e) => setValue(e.currentTarget.value)}
+        />
+      </label>
       <button type="submit">Sign in</button>
       <ErrorLine error={error} />
     </form>
@@ -40,7 +56,9 @@ function SignIn({ error, onToken }: { error: unknown; onToken: (t: string) => vo
 
 export function App() {
   const path = usePath();
-  const [theme, setTheme] = useState<Theme>((document.documentElement.dataset.theme as Theme) || 'night');
+  const [theme, setTheme] = useState<Theme>(
+    (document.documentElement.dataset.theme as Theme) || 'night',
+  );
   const [me, setMe] = useState<Me | null>(null);
   const [authError, setAuthError] = useState<unknown>(null);
   const [tokenTick, setTokenTick] = useState(0);
@@ -64,25 +82,62 @@ export function App() {
   return (
     <MeContext.Provider value={me}>
       <div class="shell" onClick={interceptLinks}>
-        <a class="skip" href="#main">Skip to content</a>
+        <a class="skip" href="#main">
+          Skip to content
+        </a>
         <header class="topbar">
-          <a class="wordmark" href="/"><span class="mark" aria-hidden="true">◜◞</span> epochwright</a>
+          <a class="wordmark" href="/">
+            <span class="mark" aria-hidden="true">
+              ◜◞
+            </span>{' '}
+            epochwright
+          </a>
           <nav aria-label="views">
             {nav.map(([href, label]) => (
-              <a key={href} href={href} aria-current={(href === '/' ? path === '/' || path.startsWith('/?') : path.startsWith(href)) ? 'page' : undefined}>{label}</a>
+              <a
+                key={href}
+                href={href}
+                aria-current={
+                  (href === '/' ? path === '/' || path.startsWith('/?') : path.startsWith(href))
+                    ? 'page'
+                    : undefined
+                }
+              >
+                {label}
+              </a>
             ))}
           </nav>
           <div class="who">
-            {me && <span class={`role role-${me.role}`} title="your role on this server">{me.name} · {me.role}</span>}
-            <button type="button" class="ghost" onClick={() => setTheme(theme === 'night' ? 'day' : 'night')} aria-label={`switch to the ${theme === 'night' ? 'day' : 'night'} theme`}>
+            {me && (
+              <span class={`role role-${me.role}`} title="your role on this server">
+                {me.name} · {me.role}
+              </span>
+            )}
+            <button
+              type="button"
+              class="ghost"
+              onClick={() => setTheme(theme === 'night' ? 'day' : 'night')}
+              aria-label={`switch to the ${theme === 'night' ? 'day' : 'night'} theme`}
+            >
               {theme === 'night' ? 'Day theme' : 'Night theme'}
             </button>
-            {me && <button type="button" class="ghost" onClick={() => (signOut(), setMe(null))}>Sign out</button>}
+            {me && (
+              <button type="button" class="ghost" onClick={() => (signOut(), setMe(null))}>
+                Sign out
+              </button>
+            )}
           </div>
         </header>
         <main id="main" tabIndex={-1}>
-          {me ? route(path) : sessionToken() && !authError ? <p class="loading">Signing in…</p> : (
-            <SignIn error={authError} onToken={(t) => (setSessionToken(t), setAuthError(null), setTokenTick(tokenTick + 1))} />
+          {me ? (
+            route(path)
+          ) : sessionToken() && !authError ? (
+            <p class="loading">Signing in…</p>
+          ) : (
+            <SignIn
+              error={authError}
+              onToken={(t) => (setSessionToken(t), setAuthError(null), setTokenTick(tokenTick + 1))}
+            />
           )}
         </main>
       </div>

@@ -19,7 +19,9 @@ export function readJsonArg(option: string, text: string | undefined): unknown {
     try {
       source = readFileSync(trimmed, 'utf8');
     } catch (err) {
-      throw new UsageError(`--${option}: cannot read file ${JSON.stringify(trimmed)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+      throw new UsageError(
+        `--${option}: cannot read file ${JSON.stringify(trimmed)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
+      );
     }
   }
   try {

@@ -8,7 +8,9 @@ import { commands } from './commands/index.ts';
 
 function usage(): string {
   const width = Math.max(...Object.keys(commands).map((k) => k.length));
-  const lines = Object.entries(commands).map(([name, c]: [string, Command]) => `  ${name.padEnd(width)}  ${c.summary}`);
+  const lines = Object.entries(commands).map(
+    ([name, c]: [string, Command]) => `  ${name.padEnd(width)}  ${c.summary}`,
+  );
   return `usage: epochwright <command> [options]\n\ncommands:\n${lines.join('\n')}\n\n'epochwright <command> --help' shows a command's options.\n`;
 }
 
@@ -35,16 +37,24 @@ export async function main(argv: string[]): Promise<number> {
       process.stderr.write(`epochwright ${name}: ${err.message}\n`);
       return 2;
     }
-    if (err instanceof TypeError && (err as NodeJS.ErrnoException).code?.startsWith('ERR_PARSE_ARGS')) {
+    if (
+      err instanceof TypeError &&
+      (err as NodeJS.ErrnoException).code?.startsWith('ERR_PARSE_ARGS')
+    ) {
       process.stderr.write(`epochwright ${name}: ${err.message}\n`);
       return 2;
     }
-    process.stderr.write(`epochwright ${name}: ${err instanceof Error ? err.message : String(err)}\n`);
+    process.stderr.write(
+      `epochwright ${name}: ${err instanceof Error ? err.message : String(err)}\n`,
+    );
     return 1;
   }
 }
 
-if (import.meta.url === `file://${process.argv[1]}` || process.argv[1]?.endsWith('server/cli/main.ts')) {
+if (
+  import.meta.url === `file://${process.argv[1]}` ||
+  process.argv[1]?.endsWith('server/cli/main.ts')
+) {
   main(process.argv.slice(2)).then((code) => {
     process.exitCode = code;
   });

@@ -26,23 +26,48 @@ function cell<Row>(col: Column<Row>, row: Row): string {
 /** An aligned text table: numbers right-aligned, text left-aligned. */
 export function formatTable<Row>(rows: readonly Row[], columns: readonly Column<Row>[]): string {
   const cells = rows.map((r) => columns.map((c) => cell(c, r)));
-  const numeric = columns.map((c, j) => rows.length > 0 && rows.every((r) => {
-    const v = c.value(r);
-    return v === null || v === undefined || typeof v === 'number';
-  }) && j >= 0);
-  const widths = columns.map((c, j) => Math.max(c.header.length, ...cells.map((row) => row[j]!.length)));
-  const pad = (s: string, j: number) => (numeric[j] ? s.padStart(widths[j]!) : s.padEnd(widths[j]!));
-  const lines = [columns.map((c, j) => pad(c.header, j)).join('  '), widths.map((w) => '-'.repeat(w)).join('  ')];
-  for (const row of cells) lines.push(row.map((s, j) => pad(s, j)).join('  ').trimEnd());
+  const numeric = columns.map(
+    (c, j) =>
+      rows.length > 0 &&
+      rows.every((r) => {
+        const v = c.value(r);
+        return v === null || v === undefined || typeof v === 'number';
+      }) &&
+      j >= 0,
+  );
+  const widths = columns.map((c, j) =>
+    Math.max(c.header.length, ...cells.map((row) => row[j]!.length)),
+  );
+  const pad = (s: string, j: number) =>
+    numeric[j] ? s.padStart(widths[j]!) : s.padEnd(widths[j]!);
+  const lines = [
+    columns.map((c, j) => pad(c.header, j)).join('  '),
+    widths.map((w) => '-'.repeat(w)).join('  '),
+  ];
+  for (const row of cells)
+    lines.push(
+      row
+        .map((s, j) => pad(s, j))
+        .join('  ')
+        .trimEnd(),
+    );
   return lines.join('\n') + '\n';
 }
 
 export function formatCsv<Row>(rows: readonly Row[], columns: readonly Column<Row>[]): string {
-  return stringify([columns.map((c) => c.header), ...rows.map((r) => columns.map((c) => cell(c, r)))]);
+  return stringify([
+    columns.map((c) => c.header),
+    ...rows.map((r) => columns.map((c) => cell(c, r))),
+  ]);
 }
 
 /** Render rows in the chosen format; `json` prints `jsonValue` (the full structured result). */
-export function render<Row>(format: OutputFormat, rows: readonly Row[], columns: readonly Column<Row>[], jsonValue: unknown): string {
+export function render<Row>(
+  format: OutputFormat,
+  rows: readonly Row[],
+  columns: readonly Column<Row>[],
+  jsonValue: unknown,
+): string {
   switch (format) {
     case 'json':
       return JSON.stringify(jsonValue, null, 2) + '\n';

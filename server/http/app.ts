@@ -34,7 +34,11 @@ export function createApp(options: AppOptions = {}) {
     bodyLimit({
       maxSize: maxBodyBytes,
       onError: () => {
-        throw new HttpError(413, 'body_too_large', `the request body exceeds ${maxBodyBytes} bytes`);
+        throw new HttpError(
+          413,
+          'body_too_large',
+          `the request body exceeds ${maxBodyBytes} bytes`,
+        );
       },
     }),
   );
@@ -44,12 +48,22 @@ export function createApp(options: AppOptions = {}) {
   api.route('/', skyRoutes());
   if (options.store) api.route('/', storeRoutes(options.store));
   api.route('/', fitRoutes(options.store));
-  api.doc31('/openapi.json', { openapi: '3.1.0', info: { title: 'epochwright API', version: VERSION } });
+  api.doc31('/openapi.json', {
+    openapi: '3.1.0',
+    info: { title: 'epochwright API', version: VERSION },
+  });
   app.route('/api', api);
   app.all('/api/*', methodNotAllowed(app));
-  app.all('/api/*', (c) => errorResponse(c, new HttpError(404, 'not_found', `no such endpoint: ${c.req.method} ${c.req.path}`)));
+  app.all('/api/*', (c) =>
+    errorResponse(
+      c,
+      new HttpError(404, 'not_found', `no such endpoint: ${c.req.method} ${c.req.path}`),
+    ),
+  );
   if (options.clientDir) mountClient(app, options.clientDir);
-  app.notFound((c) => errorResponse(c, new HttpError(404, 'not_found', `not found: ${c.req.path}`)));
+  app.notFound((c) =>
+    errorResponse(c, new HttpError(404, 'not_found', `not found: ${c.req.path}`)),
+  );
   return app;
 }
 

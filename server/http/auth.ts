@@ -13,13 +13,21 @@ export type AuthEnv = { Variables: { user: UserRow | null } };
 const RANK: Record<Role, number> = { viewer: 0, observer: 1, lead: 2 };
 
 /** Read the bearer token (or `?token=` for calendar subscriptions, which cannot send headers). */
-export function identify(store: Store, options: { queryTokenPaths?: RegExp } = {}): MiddlewareHandler<AuthEnv> {
+export function identify(
+  store: Store,
+  options: { queryTokenPaths?: RegExp } = {},
+): MiddlewareHandler<AuthEnv> {
   return async (c, next) => {
     const header = c.req.header('authorization');
     let secret: string | undefined;
     if (header !== undefined) {
       const m = /^Bearer\s+(\S+)\s*$/i.exec(header);
-      if (!m) throw new HttpError(401, 'unauthenticated', 'the Authorization header must be "Bearer <token>"');
+      if (!m)
+        throw new HttpError(
+          401,
+          'unauthenticated',
+          'the Authorization header must be "Bearer <token>"',
+        );
       secret = m[1];
     } else if (options.queryTokenPaths?.test(c.req.path)) {
       secret = c.req.query('token');
@@ -27,7 +35,8 @@ export function identify(store: Store, options: { queryTokenPaths?: RegExp } = {
     let user: UserRow | null = null;
     if (secret !== undefined) {
       user = await store.users.authenticate(secret);
-      if (!user) throw new HttpError(401, 'unauthenticated', 'the token is unknown or has been revoked');
+      if (!user)
+        throw new HttpError(401, 'unauthenticated', 'the token is unknown or has been revoked');
     }
     c.set('user', user);
     await next();
@@ -37,9 +46,15 @@ export function identify(store: Store, options: { queryTokenPaths?: RegExp } = {
 /** The signed-in user if their role is at least `role`; otherwise 401 or 403. */
 export function requireRole(c: Context<AuthEnv>, role: Role): UserRow {
   const user = c.get('user');
-  if (!user) throw new HttpError(401, 'unauthenticated', 'sign in: send "Authorization: Bearer <token>"');
+  if (!user)
+    throw new HttpError(401, 'unauthenticated', 'sign in: send "Authorization: Bearer <token>"');
   if (RANK[user.role] < RANK[role]) {
-    throw new HttpError(403, 'forbidden', `this needs the ${role} role; user ${JSON.stringify(user.name)} is ${user.role}`, { needed: role, role: user.role });
+    throw new HttpError(
+      403,
+      'forbidden',
+      `this needs the ${role} role; user ${JSON.stringify(user.name)} is ${user.role}`,
+      { needed: role, role: user.role },
+    );
   }
   return user;
 }

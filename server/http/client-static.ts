@@ -20,8 +20,24 @@ export const hasBuiltClient = (dir: string) => existsSync(join(dir, 'index.html'
 export function mountClient(app: Hono<any, any, any>, dir: string): void {
   app.use(
     '/assets/*',
-    serveStatic({ root: dir, onFound: (_path, c) => c.header('cache-control', 'public, max-age=31536000, immutable') }),
+    serveStatic({
+      root: dir,
+      onFound: (_path, c) => c.header('cache-control', 'public, max-age=31536000, immutable'),
+    }),
   );
-  app.use('/*', serveStatic({ root: dir, index: 'index.html', onFound: (_path, c) => c.header('cache-control', 'no-cache') }));
-  app.get('*', serveStatic({ path: join(dir, 'index.html'), onFound: (_path, c) => c.header('cache-control', 'no-cache') }));
+  app.use(
+    '/*',
+    serveStatic({
+      root: dir,
+      index: 'index.html',
+      onFound: (_path, c) => c.header('cache-control', 'no-cache'),
+    }),
+  );
+  app.get(
+    '*',
+    serveStatic({
+      path: join(dir, 'index.html'),
+      onFound: (_path, c) => c.header('cache-control', 'no-cache'),
+    }),
+  );
 }

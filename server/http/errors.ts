@@ -28,16 +28,40 @@ export interface ErrorBody {
 export function toHttpError(err: unknown): HttpError {
   if (err instanceof HttpError) return err;
   if (err instanceof InputError) {
-    return new HttpError(422, 'invalid_value', err.message, { field: err.field, value: err.value, rule: err.rule });
+    return new HttpError(422, 'invalid_value', err.message, {
+      field: err.field,
+      value: err.value,
+      rule: err.rule,
+    });
   }
   if (err instanceof ComputationError) return new HttpError(422, 'no_solution', err.message);
   if (err instanceof HTTPException) {
     const status = err.status as number;
-    if (status === 413) return new HttpError(413, 'body_too_large', 'the request body is larger than the server accepts');
-    if (status === 415) return new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
-    if (status === 400) return new HttpError(400, 'malformed_body', err.message || 'the request body is not valid JSON');
-    if (status === 401) return new HttpError(401, 'unauthenticated', err.message || 'a valid bearer token is required');
-    return new HttpError(status >= 400 && status < 600 ? (status as ErrorStatus) : 500, 'http_error', err.message);
+    if (status === 413)
+      return new HttpError(
+        413,
+        'body_too_large',
+        'the request body is larger than the server accepts',
+      );
+    if (status === 415)
+      return new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
+    if (status === 400)
+      return new HttpError(
+        400,
+        'malformed_body',
+        err.message || 'the request body is not valid JSON',
+      );
+    if (status === 401)
+      return new HttpError(
+        401,
+        'unauthenticated',
+        err.message || 'a valid bearer token is required',
+      );
+    return new HttpError(
+      status >= 400 && status < 600 ? (status as ErrorStatus) : 500,
+      'http_error',
+      err.message,
+    );
   }
   return new HttpError(500, 'internal', 'internal error');
 }
@@ -45,6 +69,12 @@ export function toHttpError(err: unknown): HttpError {
 export function errorResponse(c: Context, err: unknown): Response {
   const e = toHttpError(err);
   if (e.status === 500) console.error(err);
-  const body: ErrorBody = { error: { code: e.code, message: e.message, ...(e.details === undefined ? {} : { details: e.details }) } };
+  const body: ErrorBody = {
+    error: {
+      code: e.code,
+      message: e.message,
+      ...(e.details === undefined ? {} : { details: e.details }),
+    },
+  };
   return c.json(body, e.status);
 }

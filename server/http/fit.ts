@@ -8,58 +8,156 @@
  */
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Context } from 'hono';
-import { FitRefusal, fitOrbits, type FitRequest, type FitResult } from '../science/orbit/fit/index.ts';
+import {
+  FitRefusal,
+  fitOrbits,
+  type FitRequest,
+  type FitResult,
+} from '../science/orbit/fit/index.ts';
 import type { Store } from '../store/index.ts';
-import { acceptStoredFit, prepareStoredFit, systemTargetIds, type StoredFitOptions } from '../store/fits.ts';
+import {
+  acceptStoredFit,
+  prepareStoredFit,
+  systemTargetIds,
+  type StoredFitOptions,
+} from '../store/fits.ts';
 import { identify, requireRole, type AuthEnv } from './auth.ts';
 import { HttpError } from './errors.ts';
-import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './resources/common.ts';
+import {
+  IdParam,
+  errorResponses,
+  h,
+  json,
+  resourceApp,
+  security,
+  valid,
+} from './resources/common.ts';
 
 const tags = ['fits'];
 const Any = z.record(z.string(), z.unknown());
-const Epoch = z.union([z.string(), z.number()]).openapi({ description: 'ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number' });
+const Epoch = z
+  .union([z.string(), z.number()])
+  .openapi({ description: 'ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number' });
 const Range = z.object({ min: z.number(), max: z.number() }).strict();
 const Hints = z
   .object({
     periodYears: Range.optional().openapi({ description: 'period search range, years' }),
     eccentricity: Range.optional(),
-    start: z.object({ elements: Any, distancePc: z.number().optional(), systemicVelocityKmS: z.number().optional() }).strict().optional().openapi({ description: 'an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ' }),
+    start: z
+      .object({
+        elements: Any,
+        distancePc: z.number().optional(),
+        systemicVelocityKmS: z.number().optional(),
+      })
+      .strict()
+      .optional()
+      .openapi({
+        description:
+          'an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ',
+      }),
   })
   .strict();
 const Options = {
-  relativity: z.record(z.string(), z.boolean()).optional().openapi({ description: 'romer, gravitationalRedshift, transverseDoppler, precession' }),
-  frame: z.object({ offset: z.boolean().optional(), drift: z.boolean().optional() }).strict().optional().openapi({ description: 'fit the primary’s offset (mas) and drift (mas/yr) on the sky' }),
+  relativity: z
+    .record(z.string(), z.boolean())
+    .optional()
+    .openapi({ description: 'romer, gravitationalRedshift, transverseDoppler, precession' }),
+  frame: z
+    .object({ offset: z.boolean().optional(), drift: z.boolean().optional() })
+    .strict()
+    .optional()
+    .openapi({ description: 'fit the primary’s offset (mas) and drift (mas/yr) on the sky' }),
   frameEpoch: Epoch.optional(),
-  fixed: z.record(z.string(), z.number()).optional().openapi({ description: 'parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units' }),
-  priors: z.record(z.string(), z.object({ mean: z.number(), sigma: z.number() }).strict()).optional().openapi({ description: 'Gaussian priors by parameter name' }),
+  fixed: z
+    .record(z.string(), z.number())
+    .optional()
+    .openapi({
+      description:
+        'parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units',
+    }),
+  priors: z
+    .record(z.string(), z.object({ mean: z.number(), sigma: z.number() }).strict())
+    .optional()
+    .openapi({ description: 'Gaussian priors by parameter name' }),
   loss: z.enum(['gaussian', 'huber']).optional(),
-  asOf: Epoch.optional().openapi({ description: 'next periapsis counted from here (default: the latest epoch)' }),
-  sample: z.object({ seed: z.number().int(), walkers: z.number().int().optional(), steps: z.number().int().optional(), burn: z.number().int().optional() }).strict().optional().openapi({ description: 'posterior sampling (affine-invariant ensemble), seeded' }),
+  asOf: Epoch.optional().openapi({
+    description: 'next periapsis counted from here (default: the latest epoch)',
+  }),
+  sample: z
+    .object({
+      seed: z.number().int(),
+      walkers: z.number().int().optional(),
+      steps: z.number().int().optional(),
+      burn: z.number().int().optional(),
+    })
+    .strict()
+    .optional()
+    .openapi({ description: 'posterior sampling (affine-invariant ensemble), seeded' }),
 };
 const FitBody = z
   .object({
-    stars: z.array(z.object({ name: z.string(), measurements: z.array(Any).openapi({ description: 'offsets, separation or radial-velocity measurements (fields as in /measurements)' }), hints: Hints.optional() }).strict()).min(1),
+    stars: z
+      .array(
+        z
+          .object({
+            name: z.string(),
+            measurements: z
+              .array(Any)
+              .openapi({
+                description:
+                  'offsets, separation or radial-velocity measurements (fields as in /measurements)',
+              }),
+            hints: Hints.optional(),
+          })
+          .strict(),
+      )
+      .min(1),
     ...Options,
   })
   .strict();
 const StoredBody = z
   .object({
     ...Options,
-    measurementIds: z.array(z.number().int().positive()).optional().openapi({ description: 'fit only these measurements' }),
-    targetIds: z.array(z.number().int().positive()).min(1).optional().openapi({ description: 'system fits: only these targets of the system' }),
-    hints: z.record(z.string(), Hints).optional().openapi({ description: 'search ranges by target name (default: around the current solution’s period)' }),
-    notes: z.string().max(2000).optional().openapi({ description: 'stored with the accepted solutions' }),
+    measurementIds: z
+      .array(z.number().int().positive())
+      .optional()
+      .openapi({ description: 'fit only these measurements' }),
+    targetIds: z
+      .array(z.number().int().positive())
+      .min(1)
+      .optional()
+      .openapi({ description: 'system fits: only these targets of the system' }),
+    hints: z
+      .record(z.string(), Hints)
+      .optional()
+      .openapi({
+        description: 'search ranges by target name (default: around the current solution’s period)',
+      }),
+    notes: z
+      .string()
+      .max(2000)
+      .optional()
+      .openapi({ description: 'stored with the accepted solutions' }),
   })
   .strict();
-const body = (schema: z.ZodType) => ({ body: { content: { 'application/json': { schema } }, required: true } });
-const fitted = json(Any, 'the fit: parameters with 1σ, covariance, χ², residuals per measurement, per-star elements and derived quantities');
+const body = (schema: z.ZodType) => ({
+  body: { content: { 'application/json': { schema } }, required: true },
+});
+const fitted = json(
+  Any,
+  'the fit: parameters with 1σ, covariance, χ², residuals per measurement, per-star elements and derived quantities',
+);
 
 /** The fit, with a refusal turned into 422 naming what is missing. */
 function runFit(request: FitRequest): FitResult {
   try {
     return fitOrbits(request);
   } catch (err) {
-    if (err instanceof FitRefusal) throw new HttpError(422, 'fit_refused', err.message, { reason: err.reason, parameters: err.parameters });
+    if (err instanceof FitRefusal)
+      throw new HttpError(422, 'fit_refused', err.message, {
+        reason: err.reason,
+        parameters: err.parameters,
+      });
     throw err;
   }
 }
@@ -67,36 +165,98 @@ function runFit(request: FitRequest): FitResult {
 export function fitRoutes(store?: Store) {
   const app = resourceApp();
   app.openapi(
-    createRoute({ method: 'post', path: '/fit', tags, summary: 'Fit orbits to measurements in the body (one star, or several jointly)', request: body(FitBody), responses: { 200: fitted, ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/fit',
+      tags,
+      summary: 'Fit orbits to measurements in the body (one star, or several jointly)',
+      request: body(FitBody),
+      responses: { 200: fitted, ...errorResponses },
+    }),
     h(async (c) => c.json(runFit(valid(c, 'json') as unknown as FitRequest), 200)),
   );
   if (!store) return app;
-  for (const path of ['/targets/:id/fit', '/targets/:id/fit/accept', '/systems/:id/fit', '/systems/:id/fit/accept']) app.use(path, identify(store));
-  const targetsOf = async (c: Context<AuthEnv>, scope: 'target' | 'system', only: number[] | undefined) => {
+  for (const path of [
+    '/targets/:id/fit',
+    '/targets/:id/fit/accept',
+    '/systems/:id/fit',
+    '/systems/:id/fit/accept',
+  ])
+    app.use(path, identify(store));
+  const targetsOf = async (
+    c: Context<AuthEnv>,
+    scope: 'target' | 'system',
+    only: number[] | undefined,
+  ) => {
     const id = valid(c, 'param').id as number;
-    if (scope === 'target' && only) throw new HttpError(400, 'invalid_request', 'targetIds: belongs to system fits; a target fit fits its own target');
+    if (scope === 'target' && only)
+      throw new HttpError(
+        400,
+        'invalid_request',
+        'targetIds: belongs to system fits; a target fit fits its own target',
+      );
     return scope === 'target' ? [id] : systemTargetIds(store, id, only);
   };
   for (const scope of ['target', 'system'] as const) {
     const base = scope === 'target' ? '/targets/{id}/fit' : '/systems/{id}/fit';
-    const what = scope === 'target' ? 'a target’s stored measurements' : 'the stored measurements of a system’s targets jointly (shared mass, distance, γ)';
+    const what =
+      scope === 'target'
+        ? 'a target’s stored measurements'
+        : 'the stored measurements of a system’s targets jointly (shared mass, distance, γ)';
     app.openapi(
-      createRoute({ method: 'post', path: base, tags, security, summary: `Fit ${what} (preview, nothing stored)`, request: { params: IdParam, ...body(StoredBody) }, responses: { 200: fitted, ...errorResponses } }),
+      createRoute({
+        method: 'post',
+        path: base,
+        tags,
+        security,
+        summary: `Fit ${what} (preview, nothing stored)`,
+        request: { params: IdParam, ...body(StoredBody) },
+        responses: { 200: fitted, ...errorResponses },
+      }),
       h(async (c) => {
         requireRole(c, 'viewer');
-        const { notes: _notes, targetIds, ...options } = valid(c, 'json') as StoredFitOptions & { notes?: string; targetIds?: number[] };
-        const prepared = await prepareStoredFit(store, await targetsOf(c, scope, targetIds), options);
+        const {
+          notes: _notes,
+          targetIds,
+          ...options
+        } = valid(c, 'json') as StoredFitOptions & { notes?: string; targetIds?: number[] };
+        const prepared = await prepareStoredFit(
+          store,
+          await targetsOf(c, scope, targetIds),
+          options,
+        );
         return c.json({ targets: prepared.targets, result: runFit(prepared.request) }, 200);
       }),
     );
     app.openapi(
-      createRoute({ method: 'post', path: `${base}/accept`, tags, security, summary: `Fit ${what} and store the result as new current orbit-solution versions (lead)`, request: { params: IdParam, ...body(StoredBody) }, responses: { 201: json(Any, 'the stored versions and the fit'), ...errorResponses } }),
+      createRoute({
+        method: 'post',
+        path: `${base}/accept`,
+        tags,
+        security,
+        summary: `Fit ${what} and store the result as new current orbit-solution versions (lead)`,
+        request: { params: IdParam, ...body(StoredBody) },
+        responses: { 201: json(Any, 'the stored versions and the fit'), ...errorResponses },
+      }),
       h(async (c) => {
         const user = requireRole(c, 'lead');
-        const { notes, targetIds, ...options } = valid(c, 'json') as StoredFitOptions & { notes?: string; targetIds?: number[] };
-        const prepared = await prepareStoredFit(store, await targetsOf(c, scope, targetIds), options);
+        const { notes, targetIds, ...options } = valid(c, 'json') as StoredFitOptions & {
+          notes?: string;
+          targetIds?: number[];
+        };
+        const prepared = await prepareStoredFit(
+          store,
+          await targetsOf(c, scope, targetIds),
+          options,
+        );
         const result = runFit(prepared.request);
-        const solutions = await acceptStoredFit(store, { userId: user.id }, prepared, result, notes ?? '');
+        const solutions = await acceptStoredFit(
+          store,
+          { userId: user.id },
+          prepared,
+          result,
+          notes ?? '',
+        );
         return c.json({ solutions, result }, 201);
       }),
     );

@@ -13,7 +13,9 @@ const route = createRoute({
   method: 'get',
   path: '/health',
   summary: 'Liveness check',
-  responses: { 200: { content: { 'application/json': { schema: Health } }, description: 'the server is up' } },
+  responses: {
+    200: { content: { 'application/json': { schema: Health } }, description: 'the server is up' },
+  },
 });
 
 export function healthRoutes(version: string) {

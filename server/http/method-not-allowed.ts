@@ -32,12 +32,22 @@ function pathPattern(path: string): RegExp {
 export function methodNotAllowed(app: { routes: readonly RouteInfo[] }): MiddlewareHandler {
   let known: { pattern: RegExp; method: string }[] | null = null;
   return async (c, next) => {
-    known ??= app.routes.filter((r) => r.method !== 'ALL').map((r) => ({ pattern: pathPattern(r.path), method: r.method.toUpperCase() }));
+    known ??= app.routes
+      .filter((r) => r.method !== 'ALL')
+      .map((r) => ({ pattern: pathPattern(r.path), method: r.method.toUpperCase() }));
     const methods = new Set(known.filter((r) => r.pattern.test(c.req.path)).map((r) => r.method));
     if (methods.size === 0 || methods.has(c.req.method)) return next();
     if (methods.has('GET')) methods.add('HEAD'); // hono answers HEAD from the GET route
     const allow = [...methods].sort();
     c.header('Allow', allow.join(', '));
-    return errorResponse(c, new HttpError(405, 'method_not_allowed', `${c.req.method} is not allowed on ${c.req.path}; allowed: ${allow.join(', ')}`, { method: c.req.method, allow }));
+    return errorResponse(
+      c,
+      new HttpError(
+        405,
+        'method_not_allowed',
+        `${c.req.method} is not allowed on ${c.req.path}; allowed: ${allow.join(', ')}`,
+        { method: c.req.method, allow },
+      ),
+    );
   };
 }

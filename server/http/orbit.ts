@@ -2,18 +2,35 @@
  * Stateless orbit endpoints: POST /ephemeris and POST /events take an orbit in the body.
  */
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
-import { describeOrbit, ephemeris, eventsWithUncertainty, validateOrbit, type OrbitInput } from '../science/orbit/index.ts';
+import {
+  describeOrbit,
+  ephemeris,
+  eventsWithUncertainty,
+  validateOrbit,
+  type OrbitInput,
+} from '../science/orbit/index.ts';
 import { parseEpoch, resolveEpochs } from '../science/time/index.ts';
-import { EpochRangeSchema, EpochSchema, EventKindSchema, MonteCarloSchema, OrbitSchema } from './schemas/orbit.ts';
+import {
+  EpochRangeSchema,
+  EpochSchema,
+  EventKindSchema,
+  MonteCarloSchema,
+  OrbitSchema,
+} from './schemas/orbit.ts';
 import { validationHook } from './validation.ts';
 
-const json = (schema: z.ZodType, description: string) => ({ content: { 'application/json': { schema } }, description });
+const json = (schema: z.ZodType, description: string) => ({
+  content: { 'application/json': { schema } },
+  description,
+});
 const Any = z.record(z.string(), z.unknown());
 
 const EphemerisRequest = z
   .object({
     orbit: OrbitSchema,
-    epochs: z.union([z.array(EpochSchema).min(1), EpochRangeSchema]).openapi({ description: 'a list of epochs, or a range with a step' }),
+    epochs: z
+      .union([z.array(EpochSchema).min(1), EpochRangeSchema])
+      .openapi({ description: 'a list of epochs, or a range with a step' }),
     monteCarlo: MonteCarloSchema.optional(),
   })
   .strict();
@@ -28,22 +45,34 @@ const EventsRequest = z
   })
   .strict();
 
-const errors = { 400: json(Any, 'malformed request'), 422: json(Any, 'a value breaks a rule (field, value, rule in details)') };
+const errors = {
+  400: json(Any, 'malformed request'),
+  422: json(Any, 'a value breaks a rule (field, value, rule in details)'),
+};
 
 const ephemerisRoute = createRoute({
   method: 'post',
   path: '/ephemeris',
   summary: 'Predict offsets, separation, position angle and radial velocity at epochs',
-  request: { body: { content: { 'application/json': { schema: EphemerisRequest } }, required: true } },
-  responses: { 200: json(Any, 'the orbit in both forms, its physical quantities, and one row per epoch'), ...errors },
+  request: {
+    body: { content: { 'application/json': { schema: EphemerisRequest } }, required: true },
+  },
+  responses: {
+    200: json(Any, 'the orbit in both forms, its physical quantities, and one row per epoch'),
+    ...errors,
+  },
 });
 
 const eventsRoute = createRoute({
   method: 'post',
   path: '/events',
-  summary: 'Periapsis, apoapsis, nodes, radial-velocity extrema and separation extrema in an interval',
+  summary:
+    'Periapsis, apoapsis, nodes, radial-velocity extrema and separation extrema in an interval',
   request: { body: { content: { 'application/json': { schema: EventsRequest } }, required: true } },
-  responses: { 200: json(Any, 'events soonest first, each with its state and date uncertainty'), ...errors },
+  responses: {
+    200: json(Any, 'events soonest first, each with its state and date uncertainty'),
+    ...errors,
+  },
 });
 
 export function orbitRoutes() {

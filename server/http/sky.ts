@@ -22,7 +22,10 @@ import {
 import { OrbitSchema } from './schemas/orbit.ts';
 import { validationHook } from './validation.ts';
 
-const json = (schema: z.ZodType, description: string) => ({ content: { 'application/json': { schema } }, description });
+const json = (schema: z.ZodType, description: string) => ({
+  content: { 'application/json': { schema } },
+  description,
+});
 const Any = z.record(z.string(), z.unknown());
 
 export const SiteSchema = z
@@ -32,12 +35,32 @@ export const SiteSchema = z
     longitudeDeg: z.number().openapi({ description: 'longitude, degrees east' }),
     elevationM: z.number().openapi({ description: 'height above sea level, m' }),
     timeZone: z.string().openapi({ description: 'IANA time zone', example: 'America/Santiago' }),
-    pressureHpa: z.number().optional().openapi({ description: 'air pressure, hPa (default: standard atmosphere at the elevation; 0: no refraction)' }),
-    temperatureC: z.number().optional().openapi({ description: 'air temperature, °C (default: standard atmosphere)' }),
-    minAltitudeDeg: z.number().optional().openapi({ description: 'lowest pointing altitude, degrees (default 0)' }),
-    horizonMask: z.array(z.object({ azimuthDeg: z.number(), altitudeDeg: z.number() }).strict()).optional()
-      .openapi({ description: 'lowest usable altitude (degrees) by azimuth (degrees from north through east), interpolated' }),
-    sunAvoidanceDeg: z.number().optional().openapi({ description: 'closest approach to the Sun, degrees (default 45)' }),
+    pressureHpa: z
+      .number()
+      .optional()
+      .openapi({
+        description:
+          'air pressure, hPa (default: standard atmosphere at the elevation; 0: no refraction)',
+      }),
+    temperatureC: z
+      .number()
+      .optional()
+      .openapi({ description: 'air temperature, °C (default: standard atmosphere)' }),
+    minAltitudeDeg: z
+      .number()
+      .optional()
+      .openapi({ description: 'lowest pointing altitude, degrees (default 0)' }),
+    horizonMask: z
+      .array(z.object({ azimuthDeg: z.number(), altitudeDeg: z.number() }).strict())
+      .optional()
+      .openapi({
+        description:
+          'lowest usable altitude (degrees) by azimuth (degrees from north through east), interpolated',
+      }),
+    sunAvoidanceDeg: z
+      .number()
+      .optional()
+      .openapi({ description: 'closest approach to the Sun, degrees (default 45)' }),
   })
   .strict()
   .openapi('Site');
@@ -45,27 +68,56 @@ export const SiteSchema = z
 export const SkyTargetSchema = z
   .object({
     name: z.string(),
-    raDeg: z.number().openapi({ description: 'ICRS right ascension at epoch, degrees (the primary\'s when an orbit is given)' }),
+    raDeg: z
+      .number()
+      .openapi({
+        description:
+          "ICRS right ascension at epoch, degrees (the primary's when an orbit is given)",
+      }),
     decDeg: z.number().openapi({ description: 'ICRS declination at epoch, degrees' }),
-    pmRaMasYr: z.number().optional().openapi({ description: 'proper motion μα* = μα·cos δ, mas/yr' }),
+    pmRaMasYr: z
+      .number()
+      .optional()
+      .openapi({ description: 'proper motion μα* = μα·cos δ, mas/yr' }),
     pmDecMasYr: z.number().optional().openapi({ description: 'proper motion μδ, mas/yr' }),
-    epoch: z.string().optional().openapi({ description: 'epoch of the position (default J2000.0)' }),
-    orbit: OrbitSchema.optional().openapi({ description: 'the star\'s orbit about the primary: its offset is added on each date' }),
+    epoch: z
+      .string()
+      .optional()
+      .openapi({ description: 'epoch of the position (default J2000.0)' }),
+    orbit: OrbitSchema.optional().openapi({
+      description: "the star's orbit about the primary: its offset is added on each date",
+    }),
   })
   .strict()
   .openapi('SkyTarget');
 
 export const ConstraintsSchema = z
   .object({
-    darkness: z.union([z.enum(['civil', 'nautical', 'astronomical']), z.number()]).optional()
-      .openapi({ description: 'twilight kind, or highest solar altitude in degrees (default astronomical)' }),
+    darkness: z
+      .union([z.enum(['civil', 'nautical', 'astronomical']), z.number()])
+      .optional()
+      .openapi({
+        description: 'twilight kind, or highest solar altitude in degrees (default astronomical)',
+      }),
     minAltitudeDeg: z.number().optional(),
-    maxAirmass: z.number().optional().openapi({ description: 'default 2 unless minAltitudeDeg is given' }),
+    maxAirmass: z
+      .number()
+      .optional()
+      .openapi({ description: 'default 2 unless minAltitudeDeg is given' }),
     airmassFormula: z.enum(AIRMASS_FORMULAS).optional(),
-    minMoonSeparationDeg: z.number().optional().openapi({ description: 'applies while the Moon is up; default 30' }),
-    sunAvoidanceDeg: z.number().optional().openapi({ description: 'overrides the site\'s' }),
+    minMoonSeparationDeg: z
+      .number()
+      .optional()
+      .openapi({ description: 'applies while the Moon is up; default 30' }),
+    sunAvoidanceDeg: z.number().optional().openapi({ description: "overrides the site's" }),
     useHorizonMask: z.boolean().optional(),
-    zenithSeeingArcsec: z.number().optional().openapi({ description: 'zenith seeing FWHM, arcsec: the seeing at each window\'s best airmass is reported' }),
+    zenithSeeingArcsec: z
+      .number()
+      .optional()
+      .openapi({
+        description:
+          "zenith seeing FWHM, arcsec: the seeing at each window's best airmass is reported",
+      }),
   })
   .strict()
   .openapi('Constraints');
@@ -73,12 +125,28 @@ export const ConstraintsSchema = z
 const NightRequest = z
   .object({
     site: SiteSchema,
-    date: z.string().openapi({ description: 'local date on which the evening falls, YYYY-MM-DD', example: '2027-06-15' }),
+    date: z
+      .string()
+      .openapi({
+        description: 'local date on which the evening falls, YYYY-MM-DD',
+        example: '2027-06-15',
+      }),
     targets: z.array(SkyTargetSchema).max(200),
     constraints: ConstraintsSchema.optional(),
-    method: z.enum(['fast', 'exact']).optional().openapi({ description: 'fast (default) or exact (astronomy-engine per instant, at most 20 targets)' }),
-    stepMinutes: z.number().optional().openapi({ description: 'window search step, minutes, (0, 30]; default 5' }),
-    curveStepMinutes: z.number().optional().openapi({ description: 'curve step, minutes, [0, 60]; 0 for no curves; default 10' }),
+    method: z
+      .enum(['fast', 'exact'])
+      .optional()
+      .openapi({
+        description: 'fast (default) or exact (astronomy-engine per instant, at most 20 targets)',
+      }),
+    stepMinutes: z
+      .number()
+      .optional()
+      .openapi({ description: 'window search step, minutes, (0, 30]; default 5' }),
+    curveStepMinutes: z
+      .number()
+      .optional()
+      .openapi({ description: 'curve step, minutes, [0, 60]; 0 for no curves; default 10' }),
   })
   .strict();
 
@@ -88,44 +156,70 @@ const SeasonRequest = z
     year: z.number().int(),
     targets: z.array(SkyTargetSchema).max(500),
     constraints: ConstraintsSchema.optional(),
-    stepMinutes: z.number().optional().openapi({ description: 'darkness sampling step, minutes, [1, 60]; default 5' }),
-    minHoursPerNight: z.number().optional().openapi({ description: 'hours that make a night usable; default 1' }),
-    maxGapNights: z.number().int().optional().openapi({ description: 'unusable nights bridged inside a season; default 7' }),
+    stepMinutes: z
+      .number()
+      .optional()
+      .openapi({ description: 'darkness sampling step, minutes, [1, 60]; default 5' }),
+    minHoursPerNight: z
+      .number()
+      .optional()
+      .openapi({ description: 'hours that make a night usable; default 1' }),
+    maxGapNights: z
+      .number()
+      .int()
+      .optional()
+      .openapi({ description: 'unusable nights bridged inside a season; default 7' }),
   })
   .strict();
 
-const errors = { 400: json(Any, 'malformed request'), 422: json(Any, 'a value breaks a rule (field, value, rule in details)') };
+const errors = {
+  400: json(Any, 'malformed request'),
+  422: json(Any, 'a value breaks a rule (field, value, rule in details)'),
+};
 
 const nightRoute = createRoute({
   method: 'post',
   path: '/sky/night',
-  summary: 'One night at a site: Sun, twilights, darkness, Moon, and each target\'s windows and altitude curve',
+  summary:
+    "One night at a site: Sun, twilights, darkness, Moon, and each target's windows and altitude curve",
   request: { body: { content: { 'application/json': { schema: NightRequest } }, required: true } },
-  responses: { 200: json(Any, 'the night report; times in UTC and in the site\'s zone'), ...errors },
+  responses: { 200: json(Any, "the night report; times in UTC and in the site's zone"), ...errors },
 });
 
 const seasonRoute = createRoute({
   method: 'post',
   path: '/sky/season',
-  summary: 'Observable hours per night across a year, with each target\'s season start, end and best night',
+  summary:
+    "Observable hours per night across a year, with each target's season start, end and best night",
   request: { body: { content: { 'application/json': { schema: SeasonRequest } }, required: true } },
   responses: { 200: json(Any, 'the season map'), ...errors },
 });
 
-function inRange(field: string, value: number | undefined, lo: number, hi: number, loOpen = false): number | undefined {
+function inRange(
+  field: string,
+  value: number | undefined,
+  lo: number,
+  hi: number,
+  loOpen = false,
+): number | undefined {
   if (value === undefined) return undefined;
   const x = requireFinite(field, value);
-  if ((loOpen ? x <= lo : x < lo) || x > hi) throw new InputError(field, value, `must lie in ${loOpen ? '(' : '['}${lo}, ${hi}]`);
+  if ((loOpen ? x <= lo : x < lo) || x > hi)
+    throw new InputError(field, value, `must lie in ${loOpen ? '(' : '['}${lo}, ${hi}]`);
   return x;
 }
 
 /** Site and targets of a request, validated (every target before any work). */
-function siteAndTargets(body: { site: unknown; targets: unknown[] }): { site: Site; targets: Target[] } {
+function siteAndTargets(body: { site: unknown; targets: unknown[] }): {
+  site: Site;
+  targets: Target[];
+} {
   const site = validateSite(body.site, 'site');
   const targets = body.targets.map((t, i) => validateTarget(t, `targets.${i}`));
   const seen = new Set<string>();
   targets.forEach((t, i) => {
-    if (seen.has(t.name)) throw new InputError(`targets.${i}.name`, t.name, 'must be unique within the request');
+    if (seen.has(t.name))
+      throw new InputError(`targets.${i}.name`, t.name, 'must be unique within the request');
     seen.add(t.name);
   });
   return { site, targets };
@@ -141,7 +235,11 @@ export function skyRoutes() {
     const stepMinutes = inRange('stepMinutes', body.stepMinutes, 0, 30, true);
     const curveStepMinutes = inRange('curveStepMinutes', body.curveStepMinutes, 0, 60);
     if (body.method === 'exact' && targets.length > 20) {
-      throw new InputError('targets', `${targets.length} targets`, 'must number at most 20 with method "exact"');
+      throw new InputError(
+        'targets',
+        `${targets.length} targets`,
+        'must number at most 20 with method "exact"',
+      );
     }
     const report = nightReport(site, body.date, targets, constraints, {
       ...(body.method ? { method: body.method } : {}),
@@ -153,7 +251,8 @@ export function skyRoutes() {
   app.openapi(seasonRoute, (c) => {
     const body = c.req.valid('json');
     const { site, targets } = siteAndTargets(body);
-    if (body.year < 1900 || body.year > 2100) throw new InputError('year', body.year, 'must lie between 1900 and 2100');
+    if (body.year < 1900 || body.year > 2100)
+      throw new InputError('year', body.year, 'must lie between 1900 and 2100');
     const constraints = validateConstraints(body.constraints ?? {}, site, 'constraints');
     const stepMinutes = inRange('stepMinutes', body.stepMinutes, 1, 60);
     const minHoursPerNight = inRange('minHoursPerNight', body.minHoursPerNight, 0, 24);
@@ -167,4 +266,3 @@ export function skyRoutes() {
   });
   return app;
 }
-

@@ -22,7 +22,10 @@ export function describeIssues(error: z.ZodError): { field: string; rule: string
 }
 
 /** The OpenAPIHono default hook: a failed validation is a 400 naming every field. */
-export function validationHook(result: { success: boolean; error?: z.ZodError; target?: string }, _c: Context): void {
+export function validationHook(
+  result: { success: boolean; error?: z.ZodError; target?: string },
+  _c: Context,
+): void {
   if (!result.success && result.error) {
     const issues = describeIssues(result.error);
     const first = issues[0]!;

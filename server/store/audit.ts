@@ -11,7 +11,22 @@ export const LOCAL_OPERATOR: Actor = { userId: null };
 
 export type AuditAction = 'create' | 'update' | 'delete' | 'import';
 
-export async function recordAudit(tx: DbOrTx, actor: Actor, action: AuditAction, entity: string, entityId: number | null, detail?: unknown): Promise<void> {
-  await tx.insert(auditTrail).values({ at: nowIso(), userId: actor.userId, action, entity, entityId, detail: detail ?? null });
+export async function recordAudit(
+  tx: DbOrTx,
+  actor: Actor,
+  action: AuditAction,
+  entity: string,
+  entityId: number | null,
+  detail?: unknown,
+): Promise<void> {
+  await tx
+    .insert(auditTrail)
+    .values({
+      at: nowIso(),
+      userId: actor.userId,
+      action,
+      entity,
+      entityId,
+      detail: detail ?? null,
+    });
 }
-

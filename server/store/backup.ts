@@ -11,10 +11,19 @@ import type { Database } from './database.ts';
 /** Write a copy of the database to `path` (a new file). Returns its absolute path. */
 export async function backupDatabase(database: Database, path: string): Promise<string> {
   if (!database.isLocalFile && database.url !== ':memory:') {
-    throw new InputError('DATABASE_URL', database.url.replace(/\/\/[^@/]*@/, '//…@'), 'is not a local file: back up a libSQL server with its own tools');
+    throw new InputError(
+      'DATABASE_URL',
+      database.url.replace(/\/\/[^@/]*@/, '//…@'),
+      'is not a local file: back up a libSQL server with its own tools',
+    );
   }
   const target = resolve(path);
-  if (existsSync(target)) throw new InputError('to', path, 'already exists; choose a new file name so no backup is overwritten');
+  if (existsSync(target))
+    throw new InputError(
+      'to',
+      path,
+      'already exists; choose a new file name so no backup is overwritten',
+    );
   mkdirSync(dirname(target), { recursive: true });
   await database.client.execute({ sql: 'VACUUM INTO ?', args: [target] });
   return target;

@@ -48,12 +48,23 @@ export function entity<T>(spec: Omit<Entity<T>, '_row'>): Entity<T> {
 /* eslint-disable @typescript-eslint/no-explicit-any */
 const q = (db: DbOrTx) => db as any;
 
-export async function list<T>(db: DbOrTx, e: Entity<T>, where: (SQL | undefined)[], page: PageRequest = {}): Promise<Page<T>> {
+export async function list<T>(
+  db: DbOrTx,
+  e: Entity<T>,
+  where: (SQL | undefined)[],
+  page: PageRequest = {},
+): Promise<Page<T>> {
   const limit = Math.min(page.limit ?? DEFAULT_LIMIT, MAX_LIMIT);
   const offset = page.offset ?? 0;
   const cond = and(...where.filter((w): w is SQL => w !== undefined));
   const order = (e.orderBy ?? [e.table.id]).map((c) => asc(c));
-  const items = (await q(db).select().from(e.table).where(cond).orderBy(...order, asc(e.table.id)).limit(limit).offset(offset)) as T[];
+  const items = (await q(db)
+    .select()
+    .from(e.table)
+    .where(cond)
+    .orderBy(...order, asc(e.table.id))
+    .limit(limit)
+    .offset(offset)) as T[];
   const [{ n }] = (await q(db).select({ n: count() }).from(e.table).where(cond)) as [{ n: number }];
   return { items, total: n, limit, offset };
 }
@@ -93,39 +104,73 @@ export async function create<T>(db: Db, e: Entity<T>, actor: Actor, values: Row)
  * Apply a partial update inside an open transaction. For versioned tables `expectedVersion` must
  * equal the stored version; the stored version then goes up by one.
  */
-export async function updateIn<T>(tx: DbOrTx, e: Entity<T>, actor: Actor, id: number, patch: Row, expectedVersion?: number): Promise<T> {
+export async function updateIn<T>(
+  tx: DbOrTx,
+  e: Entity<T>,
+  actor: Actor,
+  id: number,
+  patch: Row,
+  expectedVersion?: number,
+): Promise<T> {
   const previous = await getById(tx, e, id);
   const prev = previous as Row;
   if (e.versioned) {
-    if (expectedVersion === undefined) throw new ConflictError('stale_version', `updating a ${e.name} needs the version you last read`, { currentVersion: prev.version });
+    if (expectedVersion === undefined)
+      throw new ConflictError(
+        'stale_version',
+        `updating a ${e.name} needs the version you last read`,
+        { currentVersion: prev.version },
+      );
     if (expectedVersion !== prev.version) {
-      throw new ConflictError('stale_version', `the ${e.name} was changed by someone else (you sent version ${expectedVersion}, it is now ${String(prev.version)}); reload and apply your change again`, {
-        currentVersion: prev.version,
-        current: previous,
-      });
+      throw new ConflictError(
+        'stale_version',
+        `the ${e.name} was changed by someone else (you sent version ${expectedVersion}, it is now ${String(prev.version)}); reload and apply your change again`,
+        {
+          currentVersion: prev.version,
+          current: previous,
+        },
+      );
     }
   }
   const set: Row = { ...patch };
   if (e.hasUpdatedAt) set.updatedAt = nowIso();
   if (e.versioned) set.version = (prev.version as number) + 1;
   if (e.check) await e.check(tx, { ...prev, ...set }, previous);
-  const where = e.versioned ? and(eq(e.table.id, id), eq((e.table as any).version, prev.version)) : eq(e.table.id, id);
+  const where = e.versioned
+    ? and(eq(e.table.id, id), eq((e.table as any).version, prev.version))
+    : eq(e.table.id, id);
   let rows: T[];
   try {
     rows = (await q(tx).update(e.table).set(set).where(where).returning()) as T[];
   } catch (err) {
     translateConstraint(err, e.name);
   }
-  if (rows.length !== 1) throw new ConflictError('stale_version', `the ${e.name} changed while it was being updated; reload and try again`);
+  if (rows.length !== 1)
+    throw new ConflictError(
+      'stale_version',
+      `the ${e.name} changed while it was being updated; reload and try again`,
+    );
   await recordAudit(tx, actor, 'update', e.name, id, patch);
   return rows[0]!;
 }
 
-export async function update<T>(db: Db, e: Entity<T>, actor: Actor, id: number, patch: Row, expectedVersion?: number): Promise<T> {
+export async function update<T>(
+  db: Db,
+  e: Entity<T>,
+  actor: Actor,
+  id: number,
+  patch: Row,
+  expectedVersion?: number,
+): Promise<T> {
   return db.transaction((tx) => updateIn(tx, e, actor, id, patch, expectedVersion));
 }
 
-export async function removeIn<T>(tx: DbOrTx, e: Entity<T>, actor: Actor, id: number): Promise<void> {
+export async function removeIn<T>(
+  tx: DbOrTx,
+  e: Entity<T>,
+  actor: Actor,
+  id: number,
+): Promise<void> {
   const previous = await getById(tx, e, id);
   try {
     await q(tx).delete(e.table).where(eq(e.table.id, id));
@@ -140,7 +185,12 @@ export async function remove<T>(db: Db, e: Entity<T>, actor: Actor, id: number):
 }
 
 /** Throw InputError (422) naming `field` when `id` is not a row of `e`. */
-export async function requireRef<T>(tx: DbOrTx, e: Entity<T>, field: string, id: unknown): Promise<T> {
+export async function requireRef<T>(
+  tx: DbOrTx,
+  e: Entity<T>,
+  field: string,
+  id: unknown,
+): Promise<T> {
   const row = typeof id === 'number' ? await findById(tx, e, id) : null;
   if (!row) throw new InputError(field, id, `does not name an existing ${e.name}`);
   return row;

@@ -42,7 +42,10 @@ export interface Database {
 }
 
 /** The url from options, then DATABASE_URL, then `file:<dataDir>/epochwright.db`. */
-export function resolveDatabaseUrl(options: OpenOptions = {}, env: NodeJS.ProcessEnv = process.env): string {
+export function resolveDatabaseUrl(
+  options: OpenOptions = {},
+  env: NodeJS.ProcessEnv = process.env,
+): string {
   if (options.url) return options.url;
   if (env.DATABASE_URL) return env.DATABASE_URL;
   return `file:${resolve(options.dataDir ?? env.EPOCHWRIGHT_DATA_DIR ?? DEFAULT_DATA_DIR, 'epochwright.db')}`;

@@ -25,7 +25,11 @@ export class ConflictError extends Error {
 
 /** The SQLite error code under drizzle's DrizzleQueryError wrapper (or on the error itself). */
 export function sqliteCode(err: unknown): string | undefined {
-  for (let e: unknown = err, depth = 0; e && depth < 4; e = (e as { cause?: unknown }).cause, depth++) {
+  for (
+    let e: unknown = err, depth = 0;
+    e && depth < 4;
+    e = (e as { cause?: unknown }).cause, depth++
+  ) {
     const code = (e as { code?: unknown }).code;
     if (typeof code === 'string' && code.startsWith('SQLITE_')) return code;
   }
@@ -45,10 +49,17 @@ export function translateConstraint(err: unknown, entity: string): never {
     const msg = causeMessage(err);
     if (/UNIQUE/i.test(msg)) {
       const cols = /UNIQUE constraint failed: (.*)$/i.exec(msg)?.[1] ?? '';
-      throw new ConflictError('duplicate', `a ${entity} with the same ${cols.replace(/\w+\./g, '') || 'key'} already exists`, { columns: cols });
+      throw new ConflictError(
+        'duplicate',
+        `a ${entity} with the same ${cols.replace(/\w+\./g, '') || 'key'} already exists`,
+        { columns: cols },
+      );
     }
     if (/FOREIGN KEY/i.test(msg)) {
-      throw new ConflictError('in_use', `the ${entity} is still referenced by other records (remove those first)`);
+      throw new ConflictError(
+        'in_use',
+        `the ${entity} is still referenced by other records (remove those first)`,
+      );
     }
   }
   throw err;

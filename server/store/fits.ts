@@ -8,7 +8,12 @@ import { measurements, orbitSolutions, targets } from '../../db/schema.ts';
 import { InputError } from '../science/errors.ts';
 import { JULIAN_YEAR_DAYS } from '../science/constants.ts';
 import { toCampbellInput, validateOrbit, type RelativitySwitches } from '../science/orbit/index.ts';
-import type { FitRequest, FitResult, MeasurementInput, StarHints } from '../science/orbit/fit/index.ts';
+import type {
+  FitRequest,
+  FitResult,
+  MeasurementInput,
+  StarHints,
+} from '../science/orbit/fit/index.ts';
 import type { Actor } from './audit.ts';
 import { getById } from './crud.ts';
 import type { Store } from './index.ts';
@@ -34,11 +39,31 @@ function toInput(m: MeasurementRow): MeasurementInput {
   const common = { epoch: m.epoch, id: String(m.id) };
   switch (m.kind) {
     case 'offsets':
-      return { kind: 'offsets', ...common, dRaMas: m.dRaMas!, dDecMas: m.dDecMas!, sigmaDRaMas: m.sigmaDRaMas!, sigmaDDecMas: m.sigmaDDecMas!, ...(m.correlation !== null ? { correlation: m.correlation } : {}) };
+      return {
+        kind: 'offsets',
+        ...common,
+        dRaMas: m.dRaMas!,
+        dDecMas: m.dDecMas!,
+        sigmaDRaMas: m.sigmaDRaMas!,
+        sigmaDDecMas: m.sigmaDDecMas!,
+        ...(m.correlation !== null ? { correlation: m.correlation } : {}),
+      };
     case 'separation':
-      return { kind: 'separation', ...common, separationMas: m.separationMas!, positionAngleDeg: m.positionAngleDeg!, sigmaSeparationMas: m.sigmaSeparationMas!, sigmaPositionAngleDeg: m.sigmaPositionAngleDeg! };
+      return {
+        kind: 'separation',
+        ...common,
+        separationMas: m.separationMas!,
+        positionAngleDeg: m.positionAngleDeg!,
+        sigmaSeparationMas: m.sigmaSeparationMas!,
+        sigmaPositionAngleDeg: m.sigmaPositionAngleDeg!,
+      };
     case 'radial-velocity':
-      return { kind: 'radial-velocity', ...common, radialVelocityKmS: m.radialVelocityKmS!, sigmaRadialVelocityKmS: m.sigmaRadialVelocityKmS! };
+      return {
+        kind: 'radial-velocity',
+        ...common,
+        radialVelocityKmS: m.radialVelocityKmS!,
+        sigmaRadialVelocityKmS: m.sigmaRadialVelocityKmS!,
+      };
   }
 }
 
@@ -46,7 +71,11 @@ function toInput(m: MeasurementRow): MeasurementInput {
  * The targets of a system that have measurements, by id; `only` picks some of them.
  * @throws NotFoundError for an unknown system; InputError for a target outside the system
  */
-export async function systemTargetIds(store: Store, systemId: number, only?: number[]): Promise<number[]> {
+export async function systemTargetIds(
+  store: Store,
+  systemId: number,
+  only?: number[],
+): Promise<number[]> {
   await getById(store.db, systemEntity, systemId);
   const rows = await store.db
     .selectDistinct({ id: targets.id })
@@ -57,38 +86,71 @@ export async function systemTargetIds(store: Store, systemId: number, only?: num
   const ids = rows.map((r) => r.id);
   if (!only) return ids;
   only.forEach((id, k) => {
-    if (!ids.includes(id)) throw new InputError(`targetIds.${k}`, id, `is not a target of system ${systemId} with measurements (those are ${ids.join(', ')})`);
+    if (!ids.includes(id))
+      throw new InputError(
+        `targetIds.${k}`,
+        id,
+        `is not a target of system ${systemId} with measurements (those are ${ids.join(', ')})`,
+      );
   });
   return only;
 }
 
 /** Build the fit request of the given targets from their stored measurements. */
-export async function prepareStoredFit(store: Store, targetIds: number[], options: StoredFitOptions): Promise<PreparedFit> {
-  if (targetIds.length === 0) throw new InputError('targets', targetIds, 'must name at least one target with measurements');
+export async function prepareStoredFit(
+  store: Store,
+  targetIds: number[],
+  options: StoredFitOptions,
+): Promise<PreparedFit> {
+  if (targetIds.length === 0)
+    throw new InputError('targets', targetIds, 'must name at least one target with measurements');
   const { measurementIds, hints, ...rest } = options;
-  const rows = await store.db.select().from(measurements).where(inArray(measurements.targetId, targetIds)).orderBy(measurements.epochJd, measurements.id);
+  const rows = await store.db
+    .select()
+    .from(measurements)
+    .where(inArray(measurements.targetId, targetIds))
+    .orderBy(measurements.epochJd, measurements.id);
   const chosen = measurementIds ? new Set(measurementIds) : null;
   measurementIds?.forEach((id, k) => {
-    if (!rows.some((r) => r.id === id)) throw new InputError(`measurementIds.${k}`, id, `is not a measurement of target ${targetIds.join(', ')}`);
+    if (!rows.some((r) => r.id === id))
+      throw new InputError(
+        `measurementIds.${k}`,
+        id,
+        `is not a measurement of target ${targetIds.join(', ')}`,
+      );
   });
-  const current = await store.db.select().from(orbitSolutions).where(and(inArray(orbitSolutions.targetId, targetIds), eq(orbitSolutions.current, true)));
+  const current = await store.db
+    .select()
+    .from(orbitSolutions)
+    .where(and(inArray(orbitSolutions.targetId, targetIds), eq(orbitSolutions.current, true)));
   const relativity: Partial<RelativitySwitches> = { ...(rest.relativity ?? {}) };
   const out: PreparedFit['targets'] = [];
   const stars: FitRequest['stars'] = [];
   for (const id of targetIds) {
     const target = await getById(store.db, targetEntity, id);
     const mine = rows.filter((r) => r.targetId === id && (!chosen || chosen.has(r.id)));
-    if (mine.length === 0) throw new InputError('targets', id, `target ${target.name} has no measurements to fit`);
+    if (mine.length === 0)
+      throw new InputError('targets', id, `target ${target.name} has no measurements to fit`);
     const sol = current.find((c) => c.targetId === id);
     let starHints = hints?.[target.name];
     if (sol) {
       const orbit = validateOrbit(sol.orbit, 'orbit');
       const p = orbit.periodDays / JULIAN_YEAR_DAYS;
       starHints = { ...(starHints ?? { periodYears: { min: 0.75 * p, max: 1.35 * p } }) };
-      starHints.start ??= { elements: toCampbellInput(orbit), ...(orbit.distancePc !== null ? { distancePc: orbit.distancePc } : {}), systemicVelocityKmS: orbit.gammaKmS };
-      if (rest.relativity === undefined) for (const [k, v] of Object.entries(orbit.relativity)) if (v) relativity[k as keyof RelativitySwitches] = true;
+      starHints.start ??= {
+        elements: toCampbellInput(orbit),
+        ...(orbit.distancePc !== null ? { distancePc: orbit.distancePc } : {}),
+        systemicVelocityKmS: orbit.gammaKmS,
+      };
+      if (rest.relativity === undefined)
+        for (const [k, v] of Object.entries(orbit.relativity))
+          if (v) relativity[k as keyof RelativitySwitches] = true;
     }
-    stars.push({ name: target.name, measurements: mine.map(toInput), ...(starHints ? { hints: starHints } : {}) });
+    stars.push({
+      name: target.name,
+      measurements: mine.map(toInput),
+      ...(starHints ? { hints: starHints } : {}),
+    });
     out.push({ id, name: target.name, measurementIds: mine.map((r) => r.id) });
   }
   return { request: { ...rest, relativity, stars }, targets: out };
@@ -98,14 +160,30 @@ export async function prepareStoredFit(store: Store, targetIds: number[], option
  * Store each fitted star as a new orbit-solution version of its target (provenance "fitted",
  * the measurements used, method and χ² in the reference), made current; all or none.
  */
-export async function acceptStoredFit(store: Store, actor: Actor, prepared: PreparedFit, result: FitResult, notes = ''): Promise<OrbitSolutionRow[]> {
+export async function acceptStoredFit(
+  store: Store,
+  actor: Actor,
+  prepared: PreparedFit,
+  result: FitResult,
+  notes = '',
+): Promise<OrbitSolutionRow[]> {
   const when = nowIso();
   const reference = `fit ${when}: ${result.derivatives === 'analytic' ? '' : 'relativistic terms on; '}χ² = ${result.chi2.toFixed(2)} for ${result.dof} degrees of freedom${result.reducedChi2 !== null ? ` (χ²/dof = ${result.reducedChi2.toFixed(3)})` : ''}, loss ${result.loss}, ${result.outliers} outlier(s)`;
   return store.db.transaction(async (tx) => {
     const rows: OrbitSolutionRow[] = [];
     for (const [k, t] of prepared.targets.entries()) {
       const star = result.stars[k]!;
-      rows.push(await store.orbitSolutions.createIn(tx, actor, { targetId: t.id, orbit: star.orbit, provenance: 'fitted', fittedFrom: t.measurementIds, reference: reference.slice(0, 500), notes, makeCurrent: true }));
+      rows.push(
+        await store.orbitSolutions.createIn(tx, actor, {
+          targetId: t.id,
+          orbit: star.orbit,
+          provenance: 'fitted',
+          fittedFrom: t.measurementIds,
+          reference: reference.slice(0, 500),
+          notes,
+          makeCurrent: true,
+        }),
+      );
     }
     return rows;
   });

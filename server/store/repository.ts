@@ -44,7 +44,10 @@ function pick(row: Row, keys: readonly string[]): Row {
   return out;
 }
 
-export function repository<T, S extends z.ZodType>(db: Db, spec: RepositorySpec<T, S>): Repository<T> {
+export function repository<T, S extends z.ZodType>(
+  db: Db,
+  spec: RepositorySpec<T, S>,
+): Repository<T> {
   const { entity, schema, keys } = spec;
   const toRow = spec.toRow ?? ((input: z.output<S>) => pick(input as Row, keys));
   const createIn = async (tx: DbOrTx, actor: Actor, input: unknown) => {

@@ -34,7 +34,17 @@ export async function startStore(options: StartOptions = {}): Promise<Started> {
   const [{ n }] = (await store.db.select({ n: count() }).from(auditTrail)) as [{ n: number }];
   const neverWritten = n === 0;
   const wantDemo = options.demo ?? process.env.EPOCHWRIGHT_DEMO !== '0';
-  const demo = neverWritten && wantDemo ? await loadDemo(store, LOCAL_OPERATOR, options.today ? { today: options.today } : {}) : null;
-  const firstLead = (await store.users.count()) === 0 ? await store.users.createWithToken(LOCAL_OPERATOR, { name: options.leadName ?? 'local lead', role: 'lead' }, 'created at first start') : null;
+  const demo =
+    neverWritten && wantDemo
+      ? await loadDemo(store, LOCAL_OPERATOR, options.today ? { today: options.today } : {})
+      : null;
+  const firstLead =
+    (await store.users.count()) === 0
+      ? await store.users.createWithToken(
+          LOCAL_OPERATOR,
+          { name: options.leadName ?? 'local lead', role: 'lead' },
+          'created at first start',
+        )
+      : null;
   return { store, demo, firstLead };
 }

@@ -25,16 +25,38 @@ const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.len
 /** Gzipped kB of the scripts an index.html loads at once (module entry plus modulepreload links). */
 function initialScriptsKb(dist: string): number {
   const html = readFileSync(join(dist, 'index.html'), 'utf8');
-  const srcs = [...html.matchAll(/<script[^>]+src="([^"]+)"|<link[^>]+rel="modulepreload"[^>]+href="([^"]+)"/g)].map((m) => m[1] ?? m[2]!);
-  return srcs.reduce((kb, src) => kb + gzipSync(readFileSync(join(dist, src.replace(/^\//, '')))).length / 1024, 0);
+  const srcs = [
+    ...html.matchAll(/<script[^>]+src="([^"]+)"|<link[^>]+rel="modulepreload"[^>]+href="([^"]+)"/g),
+  ].map((m) => m[1] ?? m[2]!);
+  return srcs.reduce(
+    (kb, src) => kb + gzipSync(readFileSync(join(dist, src.replace(/^\//, '')))).length / 1024,
+    0,
+  );
 }
 
 async function librariesOnlyKb(): Promise<number> {
   const dir = mkdtempSync(join(tmpdir(), 'epochwright-bench-'));
   try {
-    writeFileSync(join(dir, 'index.html'), '<!doctype html><div id="app"></div><script type="module" src="./main.js"></script>');
-    writeFileSync(join(dir, 'main.js'), "import { h, render } from 'preact';\nimport { useState, useEffect } from 'preact/hooks';\nimport { DateTime } from 'luxon';\nrender(h('p', null, DateTime.now().toISO(), String(useState), String(useEffect)), document.getElementById('app'));\n");
-    await build({ root: dir, configFile: false, logLevel: 'silent', resolve: { alias: { preact: join(REPO, 'node_modules/preact'), luxon: join(REPO, 'node_modules/luxon') } }, build: { outDir: join(dir, 'dist'), target: 'es2022' } });
+    writeFileSync(
+      join(dir, 'index.html'),
+      '<!doctype html><div id="app"></div><script type="module" src="./main.js"></script>',
+    );
+    writeFileSync(
+      join(dir, 'main.js'),
+      "import { h, render } from 'preact';\nimport { useState, useEffect } from 'preact/hooks';\nimport { DateTime } from 'luxon';\nrender(h('p', null, DateTime.now().toISO(), String(useState), String(useEffect)), document.getElementById('app'));\n",
+    );
+    await build({
+      root: dir,
+      configFile: false,
+      logLevel: 'silent',
+      resolve: {
+        alias: {
+          preact: join(REPO, 'node_modules/preact'),
+          luxon: join(REPO, 'node_modules/luxon'),
+        },
+      },
+      build: { outDir: join(dir, 'dist'), target: 'es2022' },
+    });
     return initialScriptsKb(join(dir, 'dist'));
   } finally {
     rmSync(dir, { recursive: true, force: true });
@@ -45,7 +67,15 @@ export async function run(): Promise<string[]> {
   await buildClient();
   const appKb = initialScriptsKb(CLIENT_DIST);
   const libKb = await librariesOnlyKb();
-  const lines = [benchLine('client-bundle', appKb, 'kB-gzip', appKb / libKb, `preact+luxon-only(${libKb.toFixed(1)}kB)`)];
+  const lines = [
+    benchLine(
+      'client-bundle',
+      appKb,
+      'kB-gzip',
+      appKb / libKb,
+      `preact+luxon-only(${libKb.toFixed(1)}kB)`,
+    ),
+  ];
   const server = await startServer();
   const browser = await launchBrowser();
   try {
@@ -64,7 +94,15 @@ export async function run(): Promise<string[]> {
       ours.push(await timeTo(`/?token=${server.token}`, '#flags .flag'));
       shell.push(await timeTo('/', 'form.sign-in'));
     }
-    lines.push(benchLine('client-first-render', median(ours), 'ms', median(ours) / median(shell), 'sign-in-shell-without-data'));
+    lines.push(
+      benchLine(
+        'client-first-render',
+        median(ours),
+        'ms',
+        median(ours) / median(shell),
+        'sign-in-shell-without-data',
+      ),
+    );
   } finally {
     await browser.close();
     await server.stop();

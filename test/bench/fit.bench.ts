@@ -13,25 +13,78 @@ import { SeededRandom } from '../../server/science/random.ts';
 import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
 import { benchLine, bestOfPair, isMain } from './timing.ts';
 
-const MASS = 4.3e6, DISTANCE = 8200, J2012 = 2455927.5;
+const MASS = 4.3e6,
+  DISTANCE = 8200,
+  J2012 = 2455927.5;
 
-function star(name: string, periodYears: number, periapsis: string, e: number, i: number, node: number, arg: number, nAst: number, nRv: number, seed: number): StarInput {
+function star(
+  name: string,
+  periodYears: number,
+  periapsis: string,
+  e: number,
+  i: number,
+  node: number,
+  arg: number,
+  nAst: number,
+  nRv: number,
+  seed: number,
+): StarInput {
   const semiMajorAxisArcsec = Math.cbrt(MASS * periodYears ** 2) / DISTANCE;
-  const truth = { elements: { periodYears, periapsis, eccentricity: e, semiMajorAxisArcsec, inclinationDeg: i, ascendingNodeDeg: node, argPeriapsisDeg: arg }, distancePc: DISTANCE, systemicVelocityKmS: 0 };
+  const truth = {
+    elements: {
+      periodYears,
+      periapsis,
+      eccentricity: e,
+      semiMajorAxisArcsec,
+      inclinationDeg: i,
+      ascendingNodeDeg: node,
+      argPeriapsisDeg: arg,
+    },
+    distancePc: DISTANCE,
+    systemicVelocityKmS: 0,
+  };
   const r = new SeededRandom(seed);
-  const measurements = simulate(truth, { astrometryJd: epochs(J2012, 14 * 365.25, nAst, r, 10), sigmaMas: 0.4, velocityJd: epochs(J2012 + 30, 13.5 * 365.25, nRv, r, 10), sigmaRadialVelocityKmS: 12 }, seed + 1);
-  return { name, measurements, hints: { periodYears: { min: periodYears * 0.85, max: periodYears * 1.2 } } };
+  const measurements = simulate(
+    truth,
+    {
+      astrometryJd: epochs(J2012, 14 * 365.25, nAst, r, 10),
+      sigmaMas: 0.4,
+      velocityJd: epochs(J2012 + 30, 13.5 * 365.25, nRv, r, 10),
+      sigmaRadialVelocityKmS: 12,
+    },
+    seed + 1,
+  );
+  return {
+    name,
+    measurements,
+    hints: { periodYears: { min: periodYears * 0.85, max: periodYears * 1.2 } },
+  };
 }
 
 export async function run(): Promise<string[]> {
   const single = { stars: [star('Brisa-1', 15, 'J2021.4', 0.9, 130, 225, 65, 100, 50, 11)] };
   const req = checkRequest(single);
   fitOrbits(single); // warm up
-  const whole = bestOfPair(3, () => solve(req, 'analytic'), () => solve(req, 'finite-difference'));
+  const whole = bestOfPair(
+    3,
+    () => solve(req, 'analytic'),
+    () => solve(req, 'finite-difference'),
+  );
   const b = build(req, req.stars, true);
   const s0 = req.stars[0]!;
-  const node = gridSearch(s0.obs, { periodDays: { min: 15 * 0.85 * 365.25, max: 15 * 1.2 * 365.25 }, eccentricity: { min: 0, max: 0.97 }, frameOffset: false, frameDrift: false, frameEpochJd: b.L.frameEpochJd, keep: 1 })[0]!;
-  const lm = bestOfPair(5, () => lmOn(b, startFromNode(b, node), req, 'analytic'), () => lmOn(b, startFromNode(b, node), req, 'finite-difference'));
+  const node = gridSearch(s0.obs, {
+    periodDays: { min: 15 * 0.85 * 365.25, max: 15 * 1.2 * 365.25 },
+    eccentricity: { min: 0, max: 0.97 },
+    frameOffset: false,
+    frameDrift: false,
+    frameEpochJd: b.L.frameEpochJd,
+    keep: 1,
+  })[0]!;
+  const lm = bestOfPair(
+    5,
+    () => lmOn(b, startFromNode(b, node), req, 'analytic'),
+    () => lmOn(b, startFromNode(b, node), req, 'finite-difference'),
+  );
   const five = {
     stars: [
       star('Brisa-1', 15, 'J2021.4', 0.9, 130, 225, 65, 40, 15, 21),
@@ -43,11 +96,21 @@ export async function run(): Promise<string[]> {
   };
   const reqJoint = checkRequest(five);
   solve(reqJoint); // warm up
-  const joint = bestOfPair(2, () => solve(reqJoint, 'analytic'), () => solve(reqJoint, 'finite-difference'));
+  const joint = bestOfPair(
+    2,
+    () => solve(reqJoint, 'analytic'),
+    () => solve(reqJoint, 'finite-difference'),
+  );
   return [
     benchLine('fit', whole.ours * 1e3, 'ms', whole.baseline / whole.ours, 'finite-difference-lm'),
     benchLine('fit-lm', lm.ours * 1e3, 'ms', lm.baseline / lm.ours, 'finite-difference-lm'),
-    benchLine('fit-joint', joint.ours * 1e3, 'ms', joint.baseline / joint.ours, 'finite-difference-lm'),
+    benchLine(
+      'fit-joint',
+      joint.ours * 1e3,
+      'ms',
+      joint.baseline / joint.ours,
+      'finite-difference-lm',
+    ),
   ];
 }
 

@@ -3,13 +3,38 @@
  * solver, the heuristic's time and value against the exact optimum), and a season of 200 targets,
  * 2 sites and 180 nights. Targets (issue 5): ≤ 200 ms for the night, ≤ 10 s for the season.
  */
-import { validateConstraints, validateSite, validateTarget } from '../../server/science/sky/index.ts';
-import { planSeason, scheduleNight, solveExact, solveGreedy, totalValue, type SolverProblem } from '../../server/science/plan/index.ts';
+import {
+  validateConstraints,
+  validateSite,
+  validateTarget,
+} from '../../server/science/sky/index.ts';
+import {
+  planSeason,
+  scheduleNight,
+  solveExact,
+  solveGreedy,
+  totalValue,
+  type SolverProblem,
+} from '../../server/science/plan/index.ts';
 import { SeededRandom } from '../../server/science/random.ts';
 import { benchLine, bestOf, bestOfPair, isMain } from './timing.ts';
 
-const site = validateSite({ name: 'Bench Hill', latitudeDeg: -27.5, longitudeDeg: -70.2, elevationM: 2500, timeZone: 'America/Santiago', minAltitudeDeg: 25 });
-const site2 = validateSite({ name: 'Bench Mesa', latitudeDeg: 28.7, longitudeDeg: -17.9, elevationM: 2300, timeZone: 'Atlantic/Canary', minAltitudeDeg: 25 });
+const site = validateSite({
+  name: 'Bench Hill',
+  latitudeDeg: -27.5,
+  longitudeDeg: -70.2,
+  elevationM: 2500,
+  timeZone: 'America/Santiago',
+  minAltitudeDeg: 25,
+});
+const site2 = validateSite({
+  name: 'Bench Mesa',
+  latitudeDeg: 28.7,
+  longitudeDeg: -17.9,
+  elevationM: 2300,
+  timeZone: 'Atlantic/Canary',
+  minAltitudeDeg: 25,
+});
 const constraints = validateConstraints({ maxAirmass: 2 }, site);
 const constraints2 = validateConstraints({ maxAirmass: 2 }, site2);
 
@@ -24,39 +49,97 @@ function smallProblem(rng: SeededRandom): SolverProblem {
       const lo = Math.floor(rng.uniform() * (edges - slots - 1));
       const hi = Math.min(edges - slots - 1, lo + 10 + Math.floor(rng.uniform() * 20));
       const starts = Int32Array.from({ length: hi - lo + 1 }, (_, k) => lo + k);
-      return { slots, group: Math.floor(rng.uniform() * 4), starts, values: Float64Array.from(starts, (s) => 1 + Math.sin(s / 9) + rng.uniform()) };
+      return {
+        slots,
+        group: Math.floor(rng.uniform() * 4),
+        starts,
+        values: Float64Array.from(starts, (s) => 1 + Math.sin(s / 9) + rng.uniform()),
+      };
     }),
   };
 }
 
 export async function run(): Promise<string[]> {
-  const targets = Array.from({ length: 60 }, (_, i) => validateTarget({ name: `N${i}`, raDeg: (i * 6.1) % 360, decDeg: -70 + ((i * 37) % 95) }));
-  const candidates = Array.from({ length: 200 }, (_, i) => ({ id: `b${i}`, target: `N${i % 60}`, kind: i % 2 ? 'astrometry' : 'spectroscopy', durationMinutes: 20 + ((i * 13) % 50), priority: 1 + ((i * 7) % 5) }));
-  const night = bestOf(5, () => void scheduleNight(site, constraints, '2027-05-20', targets, { candidates }));
+  const targets = Array.from({ length: 60 }, (_, i) =>
+    validateTarget({ name: `N${i}`, raDeg: (i * 6.1) % 360, decDeg: -70 + ((i * 37) % 95) }),
+  );
+  const candidates = Array.from({ length: 200 }, (_, i) => ({
+    id: `b${i}`,
+    target: `N${i % 60}`,
+    kind: i % 2 ? 'astrometry' : 'spectroscopy',
+    durationMinutes: 20 + ((i * 13) % 50),
+    priority: 1 + ((i * 7) % 5),
+  }));
+  const night = bestOf(
+    5,
+    () => void scheduleNight(site, constraints, '2027-05-20', targets, { candidates }),
+  );
 
   const rng = new SeededRandom(5);
   const problems = Array.from({ length: 20 }, () => smallProblem(rng));
-  let ratioSum = 0, worst = 1;
+  let ratioSum = 0,
+    worst = 1;
   for (const p of problems) {
     const r = totalValue(solveGreedy(p)) / totalValue(solveExact(p));
     ratioSum += r;
     worst = Math.min(worst, r);
   }
-  const pair = bestOfPair(3, () => problems.forEach((p) => solveGreedy(p)), () => problems.forEach((p) => solveExact(p)));
+  const pair = bestOfPair(
+    3,
+    () => problems.forEach((p) => solveGreedy(p)),
+    () => problems.forEach((p) => solveExact(p)),
+  );
 
   const seasonTargets = Array.from({ length: 200 }, (_, i) => ({
-    target: validateTarget({ name: `T${i}`, raDeg: (i * 1.8) % 360, decDeg: -60 + ((i * 29) % 110), orbit: { elements: { periodYears: 5 + (i % 30), periapsis: `J${2027 + (i % 7) * 0.37}`, eccentricity: 0.2 + (i % 7) * 0.1, semiMajorAxisArcsec: 0.05 + (i % 11) * 0.02, inclinationDeg: 20 + (i % 9) * 15, ascendingNodeDeg: (i * 41) % 360, argPeriapsisDeg: (i * 67) % 360 }, distancePc: 50 + i } }),
+    target: validateTarget({
+      name: `T${i}`,
+      raDeg: (i * 1.8) % 360,
+      decDeg: -60 + ((i * 29) % 110),
+      orbit: {
+        elements: {
+          periodYears: 5 + (i % 30),
+          periapsis: `J${2027 + (i % 7) * 0.37}`,
+          eccentricity: 0.2 + (i % 7) * 0.1,
+          semiMajorAxisArcsec: 0.05 + (i % 11) * 0.02,
+          inclinationDeg: 20 + (i % 9) * 15,
+          ascendingNodeDeg: (i * 41) % 360,
+          argPeriapsisDeg: (i * 67) % 360,
+        },
+        distancePc: 50 + i,
+      },
+    }),
     kinds: ['astrometry', 'spectroscopy'] as const,
     cadenceDays: 30,
   }));
   const t0 = process.hrtime.bigint();
-  const plan = planSeason('2027-03-01', '2027-08-27', [{ site, constraints }, { site: site2, constraints: constraints2 }], seasonTargets);
+  const plan = planSeason(
+    '2027-03-01',
+    '2027-08-27',
+    [
+      { site, constraints },
+      { site: site2, constraints: constraints2 },
+    ],
+    seasonTargets,
+  );
   const season = Number(process.hrtime.bigint() - t0) / 1e9;
   return [
     benchLine('plan-night', night * 1000, 'ms'),
-    benchLine('plan-night-small', (pair.ours / problems.length) * 1000, 'ms', pair.ours / pair.baseline, 'exhaustive'),
-    benchLine('plan-night-value', ratioSum / problems.length, 'of-optimum', worst, 'exhaustive (worst case)'),
-    benchLine('plan-season', season, 's') + ` (${plan.epochs.length} epochs, ${plan.unmet.length} unmet goals)`,
+    benchLine(
+      'plan-night-small',
+      (pair.ours / problems.length) * 1000,
+      'ms',
+      pair.ours / pair.baseline,
+      'exhaustive',
+    ),
+    benchLine(
+      'plan-night-value',
+      ratioSum / problems.length,
+      'of-optimum',
+      worst,
+      'exhaustive (worst case)',
+    ),
+    benchLine('plan-season', season, 's') +
+      ` (${plan.epochs.length} epochs, ${plan.unmet.length} unmet goals)`,
   ];
 }
 

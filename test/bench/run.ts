@@ -15,7 +15,9 @@ const files = readdirSync(dir)
 let failed = false;
 for (const f of files) {
   try {
-    const mod = (await import(pathToFileURL(join(dir, f)).href)) as { run: () => Promise<string[]> };
+    const mod = (await import(pathToFileURL(join(dir, f)).href)) as {
+      run: () => Promise<string[]>;
+    };
     for (const line of await mod.run()) console.log(line);
   } catch (err) {
     failed = true;

@@ -27,11 +27,23 @@ import { SeededRandom } from '../../server/science/random.ts';
 import { benchLine, bestOfPair, isMain } from './timing.ts';
 
 // Invented demo site.
-const site = validateSite({ name: 'Loma Serena', latitudeDeg: -24.6, longitudeDeg: -70.4, elevationM: 2600, timeZone: 'America/Santiago' });
+const site = validateSite({
+  name: 'Loma Serena',
+  latitudeDeg: -24.6,
+  longitudeDeg: -70.4,
+  elevationM: 2600,
+  timeZone: 'America/Santiago',
+});
 
 function randomTargets(n: number, rng: SeededRandom): Target[] {
   return Array.from({ length: n }, (_, i) =>
-    validateTarget({ name: `t${i}`, raDeg: 360 * rng.uniform(), decDeg: (Math.asin(2 * rng.uniform() - 1) * 180) / Math.PI, pmRaMasYr: 50 * (rng.uniform() - 0.5), pmDecMasYr: 50 * (rng.uniform() - 0.5) }),
+    validateTarget({
+      name: `t${i}`,
+      raDeg: 360 * rng.uniform(),
+      decDeg: (Math.asin(2 * rng.uniform() - 1) * 180) / Math.PI,
+      pmRaMasYr: 50 * (rng.uniform() - 0.5),
+      pmDecMasYr: 50 * (rng.uniform() - 0.5),
+    }),
   );
 }
 
@@ -43,11 +55,17 @@ export async function run(): Promise<string[]> {
   // Exact per instant on a random subsample of (target, night, dark instant).
   const picks: { target: Target; jd: number }[] = [];
   while (picks.length < 3000) {
-    const date = new Date(Date.UTC(2027, 0, 1 + Math.floor(rng.uniform() * 365))).toISOString().slice(0, 10);
+    const date = new Date(Date.UTC(2027, 0, 1 + Math.floor(rng.uniform() * 365)))
+      .toISOString()
+      .slice(0, 10);
     const span = nightSpan(site, date);
     const dark = darknessFast(nightFrame(site, span, 0), c.sunLimitDeg)[0];
     if (!dark) continue;
-    for (let k = 0; k < 30; k++) picks.push({ target: targets[Math.floor(rng.uniform() * targets.length)]!, jd: dark.startJd + rng.uniform() * (dark.endJd - dark.startJd) });
+    for (let k = 0; k < 30; k++)
+      picks.push({
+        target: targets[Math.floor(rng.uniform() * targets.length)]!,
+        jd: dark.startJd + rng.uniform() * (dark.endJd - dark.startJd),
+      });
   }
   let evaluations = 0;
   let sink = 0;
@@ -57,7 +75,8 @@ export async function run(): Promise<string[]> {
       evaluations = seasonMap(site, 2027, targets, c).evaluations;
     },
     () => {
-      for (const p of picks) sink += skyPlaceExact(icrsDirection(p.target, p.jd), p.jd, site).altitudeDeg;
+      for (const p of picks)
+        sink += skyPlaceExact(icrsDirection(p.target, p.jd), p.jd, site).altitudeDeg;
     },
   );
   if (!Number.isFinite(sink)) throw new Error('exact path gave a non-finite altitude');
@@ -71,7 +90,9 @@ export async function run(): Promise<string[]> {
     () => nightReport(site, '2027-06-15', few, c, { curveStepMinutes: 0 }),
     () => nightReport(site, '2027-06-15', few, c, { method: 'exact', curveStepMinutes: 0 }),
   );
-  lines.push(benchLine('night-windows', fastNight * 1000, 'ms', exactNight / fastNight, 'exact-per-instant'));
+  lines.push(
+    benchLine('night-windows', fastNight * 1000, 'ms', exactNight / fastNight, 'exact-per-instant'),
+  );
   return lines;
 }
 

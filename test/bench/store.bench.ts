@@ -13,7 +13,11 @@ import { benchLine, isMain } from './timing.ts';
 
 async function freshStore(): Promise<{ store: Store; targetId: number }> {
   const store = createStore(await openDatabase({ url: ':memory:' }));
-  const system = await store.systems.create(LOCAL_OPERATOR, { name: 'Bench Deep', raDeg: 1, decDeg: 1 });
+  const system = await store.systems.create(LOCAL_OPERATOR, {
+    name: 'Bench Deep',
+    raDeg: 1,
+    decDeg: 1,
+  });
   const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'B s1' });
   return { store, targetId: target.id };
 }
@@ -26,34 +30,85 @@ async function seconds(f: () => Promise<unknown>): Promise<number> {
 
 export async function run(): Promise<string[]> {
   const n = 3000;
-  const csv = ['system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument', ...Array.from({ length: n }, (_, i) => `Bench Deep,B s1,radial-velocity,JD ${2461000 + i * 0.01},${i % 300},5,bench spectrograph`)].join('\n');
+  const csv = [
+    'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument',
+    ...Array.from(
+      { length: n },
+      (_, i) =>
+        `Bench Deep,B s1,radial-velocity,JD ${2461000 + i * 0.01},${i % 300},5,bench spectrograph`,
+    ),
+  ].join('\n');
   let ours = Infinity;
   let base = Infinity;
   for (let r = 0; r < 3; r++) {
     const a = await freshStore();
-    ours = Math.min(ours, await seconds(() => importCsv(a.store, LOCAL_OPERATOR, 'measurements', csv)));
+    ours = Math.min(
+      ours,
+      await seconds(() => importCsv(a.store, LOCAL_OPERATOR, 'measurements', csv)),
+    );
     a.store.database.close();
     const b = await freshStore();
     const now = new Date().toISOString();
-    const rows = Array.from({ length: n }, (_, i) => ({ targetId: b.targetId, kind: 'radial-velocity' as const, epoch: now, epochJd: 2461000 + i * 0.01, radialVelocityKmS: i % 300, sigmaRadialVelocityKmS: 5, instrument: 'bench spectrograph', createdAt: now, updatedAt: now }));
-    base = Math.min(base, await seconds(() => b.store.db.transaction(async (tx) => {
-      for (let i = 0; i < rows.length; i += 500) await tx.insert(measurements).values(rows.slice(i, i + 500));
-    })));
+    const rows = Array.from({ length: n }, (_, i) => ({
+      targetId: b.targetId,
+      kind: 'radial-velocity' as const,
+      epoch: now,
+      epochJd: 2461000 + i * 0.01,
+      radialVelocityKmS: i % 300,
+      sigmaRadialVelocityKmS: 5,
+      instrument: 'bench spectrograph',
+      createdAt: now,
+      updatedAt: now,
+    }));
+    base = Math.min(
+      base,
+      await seconds(() =>
+        b.store.db.transaction(async (tx) => {
+          for (let i = 0; i < rows.length; i += 500)
+            await tx.insert(measurements).values(rows.slice(i, i + 500));
+        }),
+      ),
+    );
     b.store.database.close();
   }
-  const lines = [benchLine('store-import-measurements', n / ours, 'rows/s', base / ours, 'plain-drizzle-insert')];
+  const lines = [
+    benchLine('store-import-measurements', n / ours, 'rows/s', base / ours, 'plain-drizzle-insert'),
+  ];
 
-  const { store, firstLead } = await startStore({ url: ':memory:', demo: true, today: '2026-12-01' });
+  const { store, firstLead } = await startStore({
+    url: ':memory:',
+    demo: true,
+    today: '2026-12-01',
+  });
   const app = createApp({ store });
   const headers = { authorization: `Bearer ${firstLead!.secret}` };
   const reps = 200;
   let http = Infinity;
   let direct = Infinity;
   for (let r = 0; r < 3; r++) {
-    http = Math.min(http, await seconds(async () => { for (let i = 0; i < reps; i++) await (await app.request('/api/blocks?limit=50', { headers })).json(); }));
-    direct = Math.min(direct, await seconds(async () => { for (let i = 0; i < reps; i++) await store.blocks.list([], { limit: 50 }); }));
+    http = Math.min(
+      http,
+      await seconds(async () => {
+        for (let i = 0; i < reps; i++)
+          await (await app.request('/api/blocks?limit=50', { headers })).json();
+      }),
+    );
+    direct = Math.min(
+      direct,
+      await seconds(async () => {
+        for (let i = 0; i < reps; i++) await store.blocks.list([], { limit: 50 });
+      }),
+    );
   }
-  lines.push(benchLine('store-http-list-blocks', (http / reps) * 1e6, 'us', direct / http, 'repository-call'));
+  lines.push(
+    benchLine(
+      'store-http-list-blocks',
+      (http / reps) * 1e6,
+      'us',
+      direct / http,
+      'repository-call',
+    ),
+  );
   store.database.close();
   return lines;
 }

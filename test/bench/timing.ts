@@ -13,7 +13,11 @@ export function bestOf(runs: number, fn: () => void): number {
  * Best-of times (s) of a case and its baseline, run alternately so that a change in the machine's
  * load during the run hurts both alike.
  */
-export function bestOfPair(runs: number, ours: () => void, baseline: () => void): { ours: number; baseline: number } {
+export function bestOfPair(
+  runs: number,
+  ours: () => void,
+  baseline: () => void,
+): { ours: number; baseline: number } {
   let a = Infinity;
   let b = Infinity;
   for (let r = 0; r < runs; r++) {
@@ -24,9 +28,17 @@ export function bestOfPair(runs: number, ours: () => void, baseline: () => void)
 }
 
 /** A line in the format of DESIGN.md: BENCH <name> <value> <unit> ratio=<x> vs <baseline>. */
-export function benchLine(name: string, value: number, unit: string, ratio?: number, baseline?: string): string {
+export function benchLine(
+  name: string,
+  value: number,
+  unit: string,
+  ratio?: number,
+  baseline?: string,
+): string {
   const v = value >= 100 ? value.toFixed(0) : value >= 1 ? value.toFixed(2) : value.toPrecision(3);
-  return ratio === undefined ? `BENCH ${name} ${v} ${unit}` : `BENCH ${name} ${v} ${unit} ratio=${ratio.toFixed(2)} vs ${baseline}`;
+  return ratio === undefined
+    ? `BENCH ${name} ${v} ${unit}`
+    : `BENCH ${name} ${v} ${unit} ratio=${ratio.toFixed(2)} vs ${baseline}`;
 }
 
 /** True when this module is the script that node/tsx was asked to run. */

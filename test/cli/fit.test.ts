@@ -26,8 +26,12 @@ afterAll(() => {
 });
 
 async function run(args: string[]): Promise<{ code: number; out: string; err: string }> {
-  const out: string[] = [], err: string[] = [];
-  const [w, e] = [process.stdout.write.bind(process.stdout), process.stderr.write.bind(process.stderr)];
+  const out: string[] = [],
+    err: string[] = [];
+  const [w, e] = [
+    process.stdout.write.bind(process.stdout),
+    process.stderr.write.bind(process.stderr),
+  ];
   process.stdout.write = ((s: string) => (out.push(s), true)) as typeof process.stdout.write;
   process.stderr.write = ((s: string) => (err.push(s), true)) as typeof process.stderr.write;
   try {
@@ -47,9 +51,25 @@ describe('epochwright fit', () => {
     expect(table.out).toMatch(/χ² = [\d.]+ for \d+ degrees of freedom/);
     expect(table.out).toMatch(/VC s2\s+periodYears\s+9\.6\d*/); // scenario.ts: P = 9.6 yr (invented)
     expect(table.out).toMatch(/residuals/);
-    const json = JSON.parse((await run(['fit', '--file', file, '--target', 'VC s2', '--period', '7:13', '--json'])).out) as { residuals: unknown[]; stars: unknown[] };
+    const json = JSON.parse(
+      (await run(['fit', '--file', file, '--target', 'VC s2', '--period', '7:13', '--json'])).out,
+    ) as { residuals: unknown[]; stars: unknown[] };
     expect(json.residuals.length).toBe(17);
-    const csv = (await run(['fit', '--file', file, '--target', 'VC s2', '--period', '7:13', '--csv', '--residuals'])).out.trim().split('\n');
+    const csv = (
+      await run([
+        'fit',
+        '--file',
+        file,
+        '--target',
+        'VC s2',
+        '--period',
+        '7:13',
+        '--csv',
+        '--residuals',
+      ])
+    ).out
+      .trim()
+      .split('\n');
     expect(csv[0]).toBe('star,row,kind,epoch,o−c 1,o−c 2,(o−c)/σ 1,(o−c)/σ 2,outlier');
     expect(csv.length).toBe(18);
   });
@@ -66,10 +86,24 @@ describe('epochwright fit', () => {
   it('fits stored measurements and --accept stores a new current version', async () => {
     const targets = (await store.targets.list([])).items as { id: number; name: string }[];
     const s2 = targets.find((t) => t.name === 'VC s2')!.id;
-    const res = await run(['fit', '--target-id', String(s2), '--accept', '--notes', 'from the CLI test', '--database', url]);
+    const res = await run([
+      'fit',
+      '--target-id',
+      String(s2),
+      '--accept',
+      '--notes',
+      'from the CLI test',
+      '--database',
+      url,
+    ]);
     expect(res.code, res.err).toBe(0);
-    expect(res.out).toMatch(/stored VC s2 \(target \d+\) as orbit solution \d+, version 2, now current/);
+    expect(res.out).toMatch(
+      /stored VC s2 \(target \d+\) as orbit solution \d+, version 2, now current/,
+    );
     const versions = (await store.orbitSolutions.list([])).items.filter((v) => v.targetId === s2);
-    expect(versions.map((v) => [v.version, v.current, v.provenance])).toEqual([[1, false, 'entered'], [2, true, 'fitted']]);
+    expect(versions.map((v) => [v.version, v.current, v.provenance])).toEqual([
+      [1, false, 'entered'],
+      [2, true, 'fitted'],
+    ]);
   });
 });

@@ -14,13 +14,27 @@ describe('epochwright CLI, orbit commands', () => {
     // Meeus, Astronomical Algorithms, 2nd ed., Example 57.a (from memory)
     const r = await cli(['ephemeris', '--orbit', orbitFile, '--at', 'J1980.0', '--json']);
     expect(r.code).toBe(0);
-    const body = JSON.parse(r.stdout) as { predictions: { positionAngleDeg: number; separationMas: number }[] };
+    const body = JSON.parse(r.stdout) as {
+      predictions: { positionAngleDeg: number; separationMas: number }[];
+    };
     expect(Math.abs(body.predictions[0]!.positionAngleDeg - 318.42)).toBeLessThan(0.01);
     expect(Math.abs(body.predictions[0]!.separationMas - 411.0)).toBeLessThan(0.1);
   });
 
   it('prints an aligned table by default and CSV on request', async () => {
-    const t = await cli(['ephemeris', '--orbit', JSON.stringify(MEEUS_57A), '--from', 'J1980', '--to', 'J1982', '--every', '1yr', '--time', 'julian']);
+    const t = await cli([
+      'ephemeris',
+      '--orbit',
+      JSON.stringify(MEEUS_57A),
+      '--from',
+      'J1980',
+      '--to',
+      'J1982',
+      '--every',
+      '1yr',
+      '--time',
+      'julian',
+    ]);
     expect(t.code).toBe(0);
     const lines = t.stdout.trimEnd().split('\n');
     expect(lines[0]).toMatch(/^epoch\s+rho_mas\s+theta_deg/);
@@ -31,7 +45,17 @@ describe('epochwright CLI, orbit commands', () => {
   });
 
   it('lists events', async () => {
-    const r = await cli(['events', '--orbit', orbitFile, '--from', '1970-01-01', '--to', '2020-01-01', '--kinds', 'periapsis']);
+    const r = await cli([
+      'events',
+      '--orbit',
+      orbitFile,
+      '--from',
+      '1970-01-01',
+      '--to',
+      '2020-01-01',
+      '--kinds',
+      'periapsis',
+    ]);
     expect(r.code).toBe(0);
     // Two passages 41.623 yr apart after T = 1934.008 (Meeus Example 57.a elements): 1975.6 and 2017.3.
     expect(r.stdout).toMatch(/periapsis\s+1975-08/);
@@ -47,7 +71,17 @@ describe('epochwright CLI, orbit commands', () => {
     for (const args of [
       ['ephemeris', '--orbit', orbitFile],
       ['ephemeris', '--orbit', orbitFile, '--at', 'soon'],
-      ['events', '--orbit', orbitFile, '--from', '2020-01-01', '--to', '2030-01-01', '--kinds', 'eclipse'],
+      [
+        'events',
+        '--orbit',
+        orbitFile,
+        '--from',
+        '2020-01-01',
+        '--to',
+        '2030-01-01',
+        '--kinds',
+        'eclipse',
+      ],
       ['ephemeris', '--orbit', join(dir, 'missing.json'), '--at', 'J1980'],
       ['ephemeris', '--bogus'],
       ['nonsense'],

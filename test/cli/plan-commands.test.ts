@@ -28,15 +28,33 @@ afterAll(() => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-const season = (...args: string[]) => cli(['plan-season', '--campaign', '1', '--start', '2027-06-01', '--end', '2027-06-30', ...(args.includes('--accept') ? [] : AT), '--database', url, ...args]);
-const nightId = async (date: string) => (await store.nights.list([], { limit: 500 })).items.find((n) => n.date === date && n.siteId === 1 && n.campaignId === 1)!.id;
+const season = (...args: string[]) =>
+  cli([
+    'plan-season',
+    '--campaign',
+    '1',
+    '--start',
+    '2027-06-01',
+    '--end',
+    '2027-06-30',
+    ...(args.includes('--accept') ? [] : AT),
+    '--database',
+    url,
+    ...args,
+  ]);
+const nightId = async (date: string) =>
+  (await store.nights.list([], { limit: 500 })).items.find(
+    (n) => n.date === date && n.siteId === 1 && n.campaignId === 1,
+  )!.id;
 
 describe('epochwright plan-season', () => {
   it('shows the plan as a table, JSON and CSV without writing', async () => {
     const before = await tableCounts(store);
     const table = await season();
     expect(table.code, table.stderr).toBe(0);
-    expect(table.stdout).toMatch(/^night\s+site\s+start_local\s+minutes\s+target\s+kind\s+airmass\s+gain\s+why/m);
+    expect(table.stdout).toMatch(
+      /^night\s+site\s+start_local\s+minutes\s+target\s+kind\s+airmass\s+gain\s+why/m,
+    );
     expect(table.stdout).toMatch(/VC s1\s+\d+\s+\d+\s+(yes|no)\s+[\d.]+ → [\d.]+.*2027-06-14/); // demo periapsis of VC s1 (invented)
     expect(table.stdout).toMatch(/preview only \(digest [0-9a-f]{16}\)/);
     expect(table.stdout).toMatch(/note: Laser guide star/);
@@ -55,20 +73,42 @@ describe('epochwright plan-season', () => {
     const res = await season('--accept', '--digest', preview.digest, '--json');
     expect(res.code, res.stderr).toBe(0);
     const body = JSON.parse(res.stdout);
-    expect(body.written.map((b: { startUtc: string }) => b.startUtc).sort()).toEqual(preview.plan.epochs.map((e: { block: { start: { utc: string } } }) => e.block.start.utc.replace('Z', '.000Z')).sort()); // block for block the preview
+    expect(body.written.map((b: { startUtc: string }) => b.startUtc).sort()).toEqual(
+      preview.plan.epochs
+        .map((e: { block: { start: { utc: string } } }) => e.block.start.utc.replace('Z', '.000Z'))
+        .sort(),
+    ); // block for block the preview
   });
 
   it('exits 2 naming the option on bad input, writing nothing', async () => {
     const before = await tableCounts(store);
     const cases: [string[], RegExp][] = [
-      [['--start', '2025-01-01'], /--start: "2025-01-01" must be a date within the campaign's dates/],
+      [
+        ['--start', '2025-01-01'],
+        /--start: "2025-01-01" must be a date within the campaign's dates/,
+      ],
       [['--site', '9'], /--site\.0: 9 must be one of the campaign's sites/],
       [['--settings', '{"fillFraction": 3}'], /--settings fillFraction: 3 must lie in \(0, 1\]/],
       [['--settings', '{"colour": 1}'], /unknown setting "colour"/],
-      [AT, /--at: "2026-12-01T00:00:00.000Z" must not be earlier than the server's clock less 2 min/], // a past moment: accepting may not replace blocks begun since
+      [
+        AT,
+        /--at: "2026-12-01T00:00:00.000Z" must not be earlier than the server's clock less 2 min/,
+      ], // a past moment: accepting may not replace blocks begun since
     ];
     for (const [args, message] of cases) {
-      const res = await cli(['plan-season', '--campaign', '1', '--start', '2027-06-01', '--end', '2027-06-30', '--database', url, ...args, '--accept']);
+      const res = await cli([
+        'plan-season',
+        '--campaign',
+        '1',
+        '--start',
+        '2027-06-01',
+        '--end',
+        '2027-06-30',
+        '--database',
+        url,
+        ...args,
+        '--accept',
+      ]);
       expect([res.code, res.stdout]).toEqual([2, '']); // exit 2 on bad input (server/cli/main.ts)
       expect(res.stderr).toMatch(message);
     }
@@ -79,31 +119,88 @@ describe('epochwright plan-season', () => {
 describe('epochwright plan-night', () => {
   it('schedules a stored night with pins and removals, listing what is left out and why', async () => {
     const id = await nightId('2027-06-05');
-    const res = await cli(['plan-night', '--night', String(id), ...AT, '--remove', 'VC s4:spectroscopy', '--database', url]);
+    const res = await cli([
+      'plan-night',
+      '--night',
+      String(id),
+      ...AT,
+      '--remove',
+      'VC s4:spectroscopy',
+      '--database',
+      url,
+    ]);
     expect(res.code, res.stderr).toBe(0);
-    expect(res.stdout).toMatch(/^Tolvane Ridge, night of 2027-06-05 \(America\/Santiago; local times\)/);
+    expect(res.stdout).toMatch(
+      /^Tolvane Ridge, night of 2027-06-05 \(America\/Santiago; local times\)/,
+    );
     expect(res.stdout).toMatch(/left out:\n {2}VC s4:spectroscopy: removed by the user/);
-    const json = JSON.parse((await cli(['plan-night', '--night', String(id), ...AT, '--json', '--database', url])).stdout);
+    const json = JSON.parse(
+      (await cli(['plan-night', '--night', String(id), ...AT, '--json', '--database', url])).stdout,
+    );
     const last = json.schedule.blocks.at(-1);
-    const pinned = JSON.parse((await cli(['plan-night', '--night', String(id), ...AT, '--pin', `${last.id}@${last.start.utc}`, '--json', '--database', url])).stdout);
-    expect(pinned.schedule.blocks.find((b: { id: string }) => b.id === last.id)).toMatchObject({ start: last.start, pinned: true });
+    const pinned = JSON.parse(
+      (
+        await cli([
+          'plan-night',
+          '--night',
+          String(id),
+          ...AT,
+          '--pin',
+          `${last.id}@${last.start.utc}`,
+          '--json',
+          '--database',
+          url,
+        ])
+      ).stdout,
+    );
+    expect(pinned.schedule.blocks.find((b: { id: string }) => b.id === last.id)).toMatchObject({
+      start: last.start,
+      pinned: true,
+    });
   });
 
   it('stores the schedule with --accept; a pin outside darkness exits 2 and writes nothing', async () => {
     const id = await nightId('2027-06-19');
     const before = await tableCounts(store);
-    const bad = await cli(['plan-night', '--night', String(id), '--pin', 'VC s1:astrometry@2027-06-20T16:00Z', '--accept', '--database', url]);
+    const bad = await cli([
+      'plan-night',
+      '--night',
+      String(id),
+      '--pin',
+      'VC s1:astrometry@2027-06-20T16:00Z',
+      '--accept',
+      '--database',
+      url,
+    ]);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/--pin\.0\.start: "2027-06-20T16:00Z" is not inside darkness/);
     expect(await tableCounts(store)).toEqual(before);
-    const past = await cli(['plan-night', '--night', String(id), ...AT, '--accept', '--database', url]);
+    const past = await cli([
+      'plan-night',
+      '--night',
+      String(id),
+      ...AT,
+      '--accept',
+      '--database',
+      url,
+    ]);
     expect([past.code, past.stdout]).toEqual([2, '']); // bad input: exit 2 (server/cli/main.ts)
     expect(past.stderr).toMatch(/--at: .* must not be earlier than the server's clock/);
     expect(await tableCounts(store)).toEqual(before);
-    const res = await cli(['plan-night', '--night', String(id), '--accept', '--json', '--database', url]);
+    const res = await cli([
+      'plan-night',
+      '--night',
+      String(id),
+      '--accept',
+      '--json',
+      '--database',
+      url,
+    ]);
     expect(res.code, res.stderr).toBe(0);
     const body = JSON.parse(res.stdout);
-    const stored = (await store.blocks.list([], { limit: 500 })).items.filter((b) => b.nightId === id);
+    const stored = (await store.blocks.list([], { limit: 500 })).items.filter(
+      (b) => b.nightId === id,
+    );
     expect(stored.length).toBe(body.schedule.blocks.length);
     expect(body.schedule.leftOut.length + body.schedule.blocks.length).toBe(8); // 4 demo targets × 2 goal kinds, each placed or explained
   });

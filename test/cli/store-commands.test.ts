@@ -15,17 +15,35 @@ import { ORBIT_S1 } from '../store/backends.ts';
 
 let dir: string;
 let url: string;
-const run = (name: string, ...argv: string[]) => Promise.resolve(commands[name]!.run([...argv, '--database', url]));
+const run = (name: string, ...argv: string[]) =>
+  Promise.resolve(commands[name]!.run([...argv, '--database', url]));
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-cli-'));
   url = `file:${join(dir, 'cli.db')}`;
   const store = createStore(await openDatabase({ url }));
-  const system = await store.systems.create(LOCAL_OPERATOR, { name: 'Cli Deep', raDeg: 263.8, decDeg: -21.7 });
+  const system = await store.systems.create(LOCAL_OPERATOR, {
+    name: 'Cli Deep',
+    raDeg: 263.8,
+    decDeg: -21.7,
+  });
   const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'K s1' });
   await store.orbitSolutions.create(LOCAL_OPERATOR, { targetId: target.id, orbit: ORBIT_S1 });
-  const site = await store.sites.create(LOCAL_OPERATOR, { name: 'Cli Ridge', latitudeDeg: -24.9, longitudeDeg: -69.5, elevationM: 2700, timeZone: 'America/Santiago' });
-  await store.campaigns.create(LOCAL_OPERATOR, { name: 'Cli campaign', startDate: '2027-01-01', endDate: '2027-12-31', goals: { cadenceDays: 14, kinds: ['astrometry'] }, targetIds: [target.id], siteIds: [site.id] });
+  const site = await store.sites.create(LOCAL_OPERATOR, {
+    name: 'Cli Ridge',
+    latitudeDeg: -24.9,
+    longitudeDeg: -69.5,
+    elevationM: 2700,
+    timeZone: 'America/Santiago',
+  });
+  await store.campaigns.create(LOCAL_OPERATOR, {
+    name: 'Cli campaign',
+    startDate: '2027-01-01',
+    endDate: '2027-12-31',
+    goals: { cadenceDays: 14, kinds: ['astrometry'] },
+    targetIds: [target.id],
+    siteIds: [site.id],
+  });
   store.database.close();
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
@@ -37,7 +55,9 @@ describe('store commands', () => {
     const store = createStore(await openDatabase({ url }));
     expect((await store.users.authenticate(token))?.role).toBe('lead'); // the role given above
     store.database.close();
-    await expect(run('account', 'add', '--name', 'x', '--role', 'admin')).rejects.toBeInstanceOf(InputError);
+    await expect(run('account', 'add', '--name', 'x', '--role', 'admin')).rejects.toBeInstanceOf(
+      InputError,
+    );
     await expect(run('account', 'frobnicate')).rejects.toBeInstanceOf(UsageError);
     expect(await run('account', 'list')).toMatch(/night lead\s+lead/);
   });
@@ -45,53 +65,104 @@ describe('store commands', () => {
   it('account tokens lists tokens without secrets, and account revoke stops one at once', async () => {
     const out = await run('account', 'token', '--name', 'night lead', '--label', 'laptop');
     const [, id, secret] = /token id (\d+)\), shown once: (\S+)/.exec(out)!;
-    const listed = JSON.parse(await run('account', 'tokens', '--name', 'night lead', '--json')) as { id: number; label: string; revokedAt: string | null }[];
-    expect(listed.map((t) => [t.id, t.label, t.revokedAt])).toEqual([[1, 'created at the command line', null], [Number(id), 'laptop', null]]); // the two tokens made for this user in these tests
+    const listed = JSON.parse(await run('account', 'tokens', '--name', 'night lead', '--json')) as {
+      id: number;
+      label: string;
+      revokedAt: string | null;
+    }[];
+    expect(listed.map((t) => [t.id, t.label, t.revokedAt])).toEqual([
+      [1, 'created at the command line', null],
+      [Number(id), 'laptop', null],
+    ]); // the two tokens made for this user in these tests
     expect(JSON.stringify(listed)).not.toContain(secret!); // secrets are shown once, never listed
-    expect(await run('account', 'revoke', '--id', id!)).toMatch(new RegExp(`revoked token ${id} \\("laptop"\\) of "night lead" at \\d{4}-\\d\\d-\\d\\dT`));
+    expect(await run('account', 'revoke', '--id', id!)).toMatch(
+      new RegExp(`revoked token ${id} \\("laptop"\\) of "night lead" at \\d{4}-\\d\\d-\\d\\dT`),
+    );
     const store = createStore(await openDatabase({ url }));
     expect(await store.users.authenticate(secret!)).toBeNull(); // revoked: no longer signs in
     store.database.close();
-    expect(await run('account', 'tokens')).toMatch(new RegExp(`\\n\\s*${id}\\s+night lead\\s+lead\\s+laptop\\s+\\S+Z\\s+\\S+Z`)); // table row with both dates
+    expect(await run('account', 'tokens')).toMatch(
+      new RegExp(`\\n\\s*${id}\\s+night lead\\s+lead\\s+laptop\\s+\\S+Z\\s+\\S+Z`),
+    ); // table row with both dates
     const again = await run('account', 'revoke', '--id', id!).catch((e: unknown) => e);
     expect(again).toBeInstanceOf(InputError); // exit 2: bad input, not a failure
     expect((again as InputError).field).toBe('--id');
     await expect(run('account', 'revoke', '--id', 'first')).rejects.toBeInstanceOf(InputError);
     await expect(run('account', 'revoke')).rejects.toBeInstanceOf(UsageError);
-    await expect(run('account', 'tokens', '--name', 'nobody here')).rejects.toBeInstanceOf(InputError);
+    await expect(run('account', 'tokens', '--name', 'nobody here')).rejects.toBeInstanceOf(
+      InputError,
+    );
   });
 
   it('import lists every bad row and writes nothing; a good file is written whole', async () => {
     const bad = join(dir, 'bad.csv');
-    writeFileSync(bad, 'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2027.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2027.5,fast,5,spec\nNowhere,K s1,radial-velocity,J2027.6,1,5,spec\n');
-    const err = await run('import', '--kind', 'measurements', '--file', bad).catch((e: unknown) => e);
+    writeFileSync(
+      bad,
+      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2027.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2027.5,fast,5,spec\nNowhere,K s1,radial-velocity,J2027.6,1,5,spec\n',
+    );
+    const err = await run('import', '--kind', 'measurements', '--file', bad).catch(
+      (e: unknown) => e,
+    );
     expect(err).toBeInstanceOf(UsageError);
     expect((err as Error).message).toMatch(/2 problem/); // the two bad rows planted above
     expect((err as Error).message).toMatch(/3\s+radialVelocityKmS\s+"fast"/);
     expect((err as Error).message).toMatch(/4\s+system\s+"Nowhere"/);
     const good = join(dir, 'good.csv');
-    writeFileSync(good, 'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2027.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2027.5,130,5,spec\n');
-    expect(await run('import', '--kind', 'measurements', '--file', good, '--check-only')).toMatch(/checked 2 .* nothing written/);
-    expect(await run('export', 'measurements')).toBe('system,target,kind,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,separationMas,positionAngleDeg,sigmaSeparationMas,sigmaPositionAngleDeg,correlation,radialVelocityKmS,sigmaRadialVelocityKmS,instrument,blockId,notes\n'); // header only: nothing written so far
-    expect(await run('import', '--kind', 'measurements', '--file', good)).toBe('imported 2 measurements rows\n');
+    writeFileSync(
+      good,
+      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2027.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2027.5,130,5,spec\n',
+    );
+    expect(await run('import', '--kind', 'measurements', '--file', good, '--check-only')).toMatch(
+      /checked 2 .* nothing written/,
+    );
+    expect(await run('export', 'measurements')).toBe(
+      'system,target,kind,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,separationMas,positionAngleDeg,sigmaSeparationMas,sigmaPositionAngleDeg,correlation,radialVelocityKmS,sigmaRadialVelocityKmS,instrument,blockId,notes\n',
+    ); // header only: nothing written so far
+    expect(await run('import', '--kind', 'measurements', '--file', good)).toBe(
+      'imported 2 measurements rows\n',
+    );
     const csv = await run('export', 'measurements');
     expect(csv.trim().split('\n').length).toBe(3); // header + the 2 rows of good.csv
   });
 
   it('exports an ephemeris and a calendar, and writes a backup', async () => {
-    const eph = await run('export', 'ephemeris', '--target-id', '1', '--from', '2027-06-01T00:00Z', '--to', '2027-06-03T00:00Z', '--step', '1d');
+    const eph = await run(
+      'export',
+      'ephemeris',
+      '--target-id',
+      '1',
+      '--from',
+      '2027-06-01T00:00Z',
+      '--to',
+      '2027-06-03T00:00Z',
+      '--step',
+      '1d',
+    );
     expect(eph.trim().split('\n').length).toBe(4); // header + 3 daily rows, both ends included
     const cal = ical.sync.parseICS(await run('export', 'calendar', '--campaign-id', '1'));
-    expect(Object.values(cal).filter((c) => c?.type === 'VEVENT' && !String(c.summary).startsWith('Flag')).length).toBe(1); // one periapsis of K s1 (P = 14.2 yr) in the coming year, no blocks (flags aside)
-    const flagsAt = async (at: string) => Object.values(ical.sync.parseICS(await run('export', 'calendar', '--campaign-id', '1', '--at', at))).filter((c) => c?.type === 'VEVENT' && String(c.summary).startsWith('Flag')).map((c) => String((c as ical.VEvent).summary));
+    expect(
+      Object.values(cal).filter(
+        (c) => c?.type === 'VEVENT' && !String(c.summary).startsWith('Flag'),
+      ).length,
+    ).toBe(1); // one periapsis of K s1 (P = 14.2 yr) in the coming year, no blocks (flags aside)
+    const flagsAt = async (at: string) =>
+      Object.values(
+        ical.sync.parseICS(await run('export', 'calendar', '--campaign-id', '1', '--at', at)),
+      )
+        .filter((c) => c?.type === 'VEVENT' && String(c.summary).startsWith('Flag'))
+        .map((c) => String((c as ical.VEvent).summary));
     expect(await flagsAt('2027-01-01T00:00:00Z')).toContain('Flag, periapsis ahead: K s1'); // K s1 passes periapsis on 2027-06-14 (ORBIT_S1, invented), within the flags' year ahead
     expect(await flagsAt('2027-07-01T00:00:00Z')).not.toContain('Flag, periapsis ahead: K s1'); // passed; the next is 14.2 yr later (ORBIT_S1)
-    const bad = await run('export', 'calendar', '--campaign-id', '1', '--at', 'someday').catch((e: unknown) => e);
+    const bad = await run('export', 'calendar', '--campaign-id', '1', '--at', 'someday').catch(
+      (e: unknown) => e,
+    );
     expect(bad).toBeInstanceOf(InputError); // exit 2: bad input (server/cli/main.ts)
     expect((bad as InputError).field).toBe('--at');
     const out = await run('backup', '--to', join(dir, 'copy.db'));
     const copy = await openDatabase({ url: `file:${/written to (.*)$/m.exec(out)![1]}` });
-    expect(Number((await copy.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n)).toBe(2); // the two imported above
+    expect(
+      Number((await copy.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n),
+    ).toBe(2); // the two imported above
     copy.close();
   });
 });

@@ -6,7 +6,11 @@
 import fc from 'fast-check';
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, test } from 'vitest';
-import { offsetsEllipse, separationToOffsets, svgRotationDeg } from '../../client/src/plots/ellipse.ts';
+import {
+  offsetsEllipse,
+  separationToOffsets,
+  svgRotationDeg,
+} from '../../client/src/plots/ellipse.ts';
 import { linear, niceStep, ticks } from '../../client/src/plots/scale.ts';
 import { labelSpaced, skyPlaneGeometry } from '../../client/src/plots/sky-plane.tsx';
 import { parseEpoch } from '../../server/science/time/index.ts';
@@ -16,7 +20,10 @@ import { MEEUS_57A } from '../fixtures/orbits.ts';
 const rad = Math.PI / 180;
 
 describe('sky-plane geometry', () => {
-  const points = [{ dRaMas: -40, dDecMas: -10 }, { dRaMas: 45, dDecMas: 150 }];
+  const points = [
+    { dRaMas: -40, dDecMas: -10 },
+    { dRaMas: 45, dDecMas: 150 },
+  ];
   const g = skyPlaneGeometry(points, 560, 515);
 
   test('east (positive Δα*) is to the left and north (positive Δδ) is up', () => {
@@ -43,7 +50,14 @@ describe('sky-plane geometry', () => {
   });
 
   test('date labels closer than the minimum spacing are dropped, the first is kept', () => {
-    const out = labelSpaced([{ px: 0, py: 0 }, { px: 5, py: 0 }, { px: 20, py: 0 }], 16);
+    const out = labelSpaced(
+      [
+        { px: 0, py: 0 },
+        { px: 5, py: 0 },
+        { px: 20, py: 0 },
+      ],
+      16,
+    );
     expect(out.map((p) => p.label)).toEqual([true, false, true]);
   });
 });
@@ -60,18 +74,22 @@ describe('axis ticks', () => {
 
   test('ticks fall inside the domain, in order, for a reversed domain too', () => {
     fc.assert(
-      fc.property(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.double({ min: 1e-3, max: 1e6, noNaN: true }), (lo, span) => {
-        const t = ticks(lo + span, lo, 6);
-        // Doubles resolve about 1e-16 of the larger magnitude; allow 1e-9 of it at the edges.
-        const eps = 1e-9 * Math.max(span, Math.abs(lo));
-        expect(t.length).toBeGreaterThan(0);
-        expect(t.length).toBeLessThanOrEqual(13);
-        for (let i = 0; i < t.length; i++) {
-          expect(t[i]!).toBeGreaterThanOrEqual(lo - eps);
-          expect(t[i]!).toBeLessThanOrEqual(lo + span + eps);
-          if (i) expect(t[i]!).toBeGreaterThan(t[i - 1]!);
-        }
-      }),
+      fc.property(
+        fc.double({ min: -1e6, max: 1e6, noNaN: true }),
+        fc.double({ min: 1e-3, max: 1e6, noNaN: true }),
+        (lo, span) => {
+          const t = ticks(lo + span, lo, 6);
+          // Doubles resolve about 1e-16 of the larger magnitude; allow 1e-9 of it at the edges.
+          const eps = 1e-9 * Math.max(span, Math.abs(lo));
+          expect(t.length).toBeGreaterThan(0);
+          expect(t.length).toBeLessThanOrEqual(13);
+          for (let i = 0; i < t.length; i++) {
+            expect(t[i]!).toBeGreaterThanOrEqual(lo - eps);
+            expect(t[i]!).toBeLessThanOrEqual(lo + span + eps);
+            if (i) expect(t[i]!).toBeGreaterThan(t[i - 1]!);
+          }
+        },
+      ),
       { numRuns: 3000 },
     );
   });
@@ -95,7 +113,10 @@ describe('error ellipses', () => {
   });
 
   test('uncorrelated errors: the larger sigma sets the axis (Δδ larger: PA 0°; Δα* larger: PA 90°)', () => {
-    for (const [sa, sd, pa] of [[0.2, 0.6, 0], [0.6, 0.2, 90]] as const) {
+    for (const [sa, sd, pa] of [
+      [0.2, 0.6, 0],
+      [0.6, 0.2, 90],
+    ] as const) {
       const e = offsetsEllipse(sa, sd, 0);
       expect(e.majorMas).toBeCloseTo(0.6, 12);
       expect(e.minorMas).toBeCloseTo(0.2, 12);
@@ -106,38 +127,55 @@ describe('error ellipses', () => {
   test('agrees with ml-matrix’s eigen-decomposition for random covariances', () => {
     let worst = 0;
     fc.assert(
-      fc.property(fc.double({ min: 0.01, max: 50, noNaN: true }), fc.double({ min: 0.01, max: 50, noNaN: true }), fc.double({ min: -0.99, max: 0.99, noNaN: true }), (sa, sd, r) => {
-        const e = offsetsEllipse(sa, sd, r);
-        const cov = new Matrix([[sa * sa, r * sa * sd], [r * sa * sd, sd * sd]]);
-        const eig = new EigenvalueDecomposition(cov);
-        const values = eig.realEigenvalues;
-        const k = values[0]! >= values[1]! ? 0 : 1;
-        const [east, north] = [eig.eigenvectorMatrix.get(0, k), eig.eigenvectorMatrix.get(1, k)];
-        const pa = ((Math.atan2(east, north) / rad) % 180 + 180) % 180;
-        expect(e.majorMas).toBeCloseTo(Math.sqrt(Math.max(...values)), 6);
-        expect(e.minorMas).toBeCloseTo(Math.sqrt(Math.max(0, Math.min(...values))), 6);
-        // Compare axes modulo 180°, and only where the ellipse is not (nearly) a circle.
-        if (e.majorMas - e.minorMas > 1e-6 * e.majorMas) {
-          const d = Math.abs(((e.paDeg - pa + 90) % 180 + 180) % 180 - 90);
-          worst = Math.max(worst, d);
-          expect(d).toBeLessThan(1e-4);
-        }
-      }),
+      fc.property(
+        fc.double({ min: 0.01, max: 50, noNaN: true }),
+        fc.double({ min: 0.01, max: 50, noNaN: true }),
+        fc.double({ min: -0.99, max: 0.99, noNaN: true }),
+        (sa, sd, r) => {
+          const e = offsetsEllipse(sa, sd, r);
+          const cov = new Matrix([
+            [sa * sa, r * sa * sd],
+            [r * sa * sd, sd * sd],
+          ]);
+          const eig = new EigenvalueDecomposition(cov);
+          const values = eig.realEigenvalues;
+          const k = values[0]! >= values[1]! ? 0 : 1;
+          const [east, north] = [eig.eigenvectorMatrix.get(0, k), eig.eigenvectorMatrix.get(1, k)];
+          const pa = (((Math.atan2(east, north) / rad) % 180) + 180) % 180;
+          expect(e.majorMas).toBeCloseTo(Math.sqrt(Math.max(...values)), 6);
+          expect(e.minorMas).toBeCloseTo(Math.sqrt(Math.max(0, Math.min(...values))), 6);
+          // Compare axes modulo 180°, and only where the ellipse is not (nearly) a circle.
+          if (e.majorMas - e.minorMas > 1e-6 * e.majorMas) {
+            const d = Math.abs(((((e.paDeg - pa + 90) % 180) + 180) % 180) - 90);
+            worst = Math.max(worst, d);
+            expect(d).toBeLessThan(1e-4);
+          }
+        },
+      ),
       { numRuns: 500 },
     );
-    console.log(`error-ellipse position angle vs ml-matrix: worst ${worst.toExponential(2)}° over 500 covariances`);
+    console.log(
+      `error-ellipse position angle vs ml-matrix: worst ${worst.toExponential(2)}° over 500 covariances`,
+    );
   });
 
   test('the SVG rotation turns the drawn major axis to the stated position angle on the north-up, east-left plot', () => {
-    const g = skyPlaneGeometry([{ dRaMas: -100, dDecMas: -100 }, { dRaMas: 100, dDecMas: 100 }], 500, 500);
+    const g = skyPlaneGeometry(
+      [
+        { dRaMas: -100, dDecMas: -100 },
+        { dRaMas: 100, dDecMas: 100 },
+      ],
+      500,
+      500,
+    );
     for (const pa of [0, 30, 45, 90, 135, 170]) {
       const t = svgRotationDeg(pa) * rad;
       // SVG rotate(θ) takes screen (1, 0) to (cos θ, sin θ) with y downwards.
       const [sx, sy] = [Math.cos(t), Math.sin(t)];
       const east = g.x.invert(g.x(0) + sx) - 0;
       const north = g.y.invert(g.y(0) + sy) - 0;
-      const back = ((Math.atan2(east, north) / rad) % 360 + 360) % 360;
-      expect(Math.abs(((back - pa + 90) % 180 + 180) % 180 - 90)).toBeLessThan(1e-9);
+      const back = (((Math.atan2(east, north) / rad) % 360) + 360) % 360;
+      expect(Math.abs(((((back - pa + 90) % 180) + 180) % 180) - 90)).toBeLessThan(1e-9);
     }
   });
 

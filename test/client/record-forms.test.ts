@@ -6,43 +6,141 @@
  */
 import { describe, expect, test } from 'vitest';
 import { ApiError, fieldMessages } from '../../client/src/api/client.ts';
-import { CAMPAIGN_FIELDS, SITE_FIELDS, SYSTEM_FIELDS, bodyOf, messagesByField, parseMask } from '../../client/src/views/record-forms.tsx';
+import {
+  CAMPAIGN_FIELDS,
+  SITE_FIELDS,
+  SYSTEM_FIELDS,
+  bodyOf,
+  messagesByField,
+  parseMask,
+} from '../../client/src/views/record-forms.tsx';
 import { CampaignInput, SiteInput, SystemInput } from '../../server/store/schemas/entities.ts';
 
 describe('request bodies', () => {
   test('a campaign: nested goals and constraints, empty optional fields left out, the schema accepts it', () => {
-    const r = bodyOf(CAMPAIGN_FIELDS, { name: 'Dusk run', startDate: '2028-03-01', endDate: '2028-09-30', 'goals.cadenceDays': '14', 'goals.kinds': 'both', 'goals.densifiedCadenceDays': '', 'goals.densifyWithinDays': '', 'constraints.maxAirmass': '1.8', 'constraints.minMoonSeparationDeg': '', 'constraints.darkness': '', targetIds: [2, 3], siteIds: [1], notes: '' });
-    expect(r).toEqual({ body: { name: 'Dusk run', startDate: '2028-03-01', endDate: '2028-09-30', goals: { cadenceDays: 14, kinds: ['astrometry', 'spectroscopy'] }, constraints: { maxAirmass: 1.8 }, targetIds: [2, 3], siteIds: [1] } });
+    const r = bodyOf(CAMPAIGN_FIELDS, {
+      name: 'Dusk run',
+      startDate: '2028-03-01',
+      endDate: '2028-09-30',
+      'goals.cadenceDays': '14',
+      'goals.kinds': 'both',
+      'goals.densifiedCadenceDays': '',
+      'goals.densifyWithinDays': '',
+      'constraints.maxAirmass': '1.8',
+      'constraints.minMoonSeparationDeg': '',
+      'constraints.darkness': '',
+      targetIds: [2, 3],
+      siteIds: [1],
+      notes: '',
+    });
+    expect(r).toEqual({
+      body: {
+        name: 'Dusk run',
+        startDate: '2028-03-01',
+        endDate: '2028-09-30',
+        goals: { cadenceDays: 14, kinds: ['astrometry', 'spectroscopy'] },
+        constraints: { maxAirmass: 1.8 },
+        targetIds: [2, 3],
+        siteIds: [1],
+      },
+    });
     expect(CampaignInput.safeParse((r as { body: unknown }).body).success).toBe(true);
   });
 
   test('a site with a horizon mask typed as pairs; the schema accepts it', () => {
-    const r = bodyOf(SITE_FIELDS, { name: 'Harrow Knoll', latitudeDeg: '-29.25', longitudeDeg: '-70.7', elevationM: '2350', timeZone: 'America/Santiago', minAltitudeDeg: '', sunAvoidanceDeg: '', pressureHpa: '', temperatureC: '', horizonMask: '0 8, 170 34; 260 7', laserGuideStar: false, notes: '' });
-    expect(r).toEqual({ body: { name: 'Harrow Knoll', latitudeDeg: -29.25, longitudeDeg: -70.7, elevationM: 2350, timeZone: 'America/Santiago', horizonMask: [{ azimuthDeg: 0, altitudeDeg: 8 }, { azimuthDeg: 170, altitudeDeg: 34 }, { azimuthDeg: 260, altitudeDeg: 7 }], laserGuideStar: false } });
+    const r = bodyOf(SITE_FIELDS, {
+      name: 'Harrow Knoll',
+      latitudeDeg: '-29.25',
+      longitudeDeg: '-70.7',
+      elevationM: '2350',
+      timeZone: 'America/Santiago',
+      minAltitudeDeg: '',
+      sunAvoidanceDeg: '',
+      pressureHpa: '',
+      temperatureC: '',
+      horizonMask: '0 8, 170 34; 260 7',
+      laserGuideStar: false,
+      notes: '',
+    });
+    expect(r).toEqual({
+      body: {
+        name: 'Harrow Knoll',
+        latitudeDeg: -29.25,
+        longitudeDeg: -70.7,
+        elevationM: 2350,
+        timeZone: 'America/Santiago',
+        horizonMask: [
+          { azimuthDeg: 0, altitudeDeg: 8 },
+          { azimuthDeg: 170, altitudeDeg: 34 },
+          { azimuthDeg: 260, altitudeDeg: 7 },
+        ],
+        laserGuideStar: false,
+      },
+    });
     expect(SiteInput.safeParse((r as { body: unknown }).body).success).toBe(true);
   });
 
   test('a system with its position epoch; the schema accepts it', () => {
-    const r = bodyOf(SYSTEM_FIELDS, { name: 'Quill Pair', raDeg: '12.5', decDeg: '-40.25', positionEpoch: 'J2016.0', pmRaMasYr: '88', pmDecMasYr: '', distancePc: '31', massSolar: '', notes: '' });
-    expect(r).toEqual({ body: { name: 'Quill Pair', raDeg: 12.5, decDeg: -40.25, positionEpoch: 'J2016.0', pmRaMasYr: 88, distancePc: 31 } });
+    const r = bodyOf(SYSTEM_FIELDS, {
+      name: 'Quill Pair',
+      raDeg: '12.5',
+      decDeg: '-40.25',
+      positionEpoch: 'J2016.0',
+      pmRaMasYr: '88',
+      pmDecMasYr: '',
+      distancePc: '31',
+      massSolar: '',
+      notes: '',
+    });
+    expect(r).toEqual({
+      body: {
+        name: 'Quill Pair',
+        raDeg: 12.5,
+        decDeg: -40.25,
+        positionEpoch: 'J2016.0',
+        pmRaMasYr: 88,
+        distancePc: 31,
+      },
+    });
     expect(SystemInput.safeParse((r as { body: unknown }).body).success).toBe(true);
   });
 
   test('a required number left empty, and a mask pair that is not two numbers, are named before anything is sent', () => {
-    expect(bodyOf(SYSTEM_FIELDS, { name: 'x', raDeg: '', decDeg: '1' })).toEqual({ field: 'raDeg', rule: '"" must be a number' });
-    expect(parseMask('0 8, 170')).toEqual({ rule: 'pair 2 "170" must be two numbers: azimuth then altitude, degrees' });
+    expect(bodyOf(SYSTEM_FIELDS, { name: 'x', raDeg: '', decDeg: '1' })).toEqual({
+      field: 'raDeg',
+      rule: '"" must be a number',
+    });
+    expect(parseMask('0 8, 170')).toEqual({
+      rule: 'pair 2 "170" must be two numbers: azimuth then altitude, degrees',
+    });
   });
 });
 
 describe('server messages beside their fields', () => {
   test('400 issues on nested paths and a 422 on a mask point land on the form field holding them', () => {
-    const bad400 = new ApiError(400, 'invalid_request', 'goals.cadenceDays: too small', { issues: [{ field: 'goals.cadenceDays', rule: 'Too small: expected number to be >0' }, { field: 'endDate', rule: 'must not be before startDate' }] });
-    expect(messagesByField(CAMPAIGN_FIELDS, fieldMessages(bad400))).toEqual({ 'goals.cadenceDays': 'Too small: expected number to be >0', endDate: 'must not be before startDate' });
-    const bad422 = new ApiError(422, 'invalid_value', 'horizonMask.1.altitudeDeg', { field: 'horizonMask.1.altitudeDeg', value: 95, rule: 'must lie in [-5, 90)' });
-    expect(messagesByField(SITE_FIELDS, fieldMessages(bad422))).toEqual({ horizonMask: '1.altitudeDeg: 95 must lie in [-5, 90)' });
+    const bad400 = new ApiError(400, 'invalid_request', 'goals.cadenceDays: too small', {
+      issues: [
+        { field: 'goals.cadenceDays', rule: 'Too small: expected number to be >0' },
+        { field: 'endDate', rule: 'must not be before startDate' },
+      ],
+    });
+    expect(messagesByField(CAMPAIGN_FIELDS, fieldMessages(bad400))).toEqual({
+      'goals.cadenceDays': 'Too small: expected number to be >0',
+      endDate: 'must not be before startDate',
+    });
+    const bad422 = new ApiError(422, 'invalid_value', 'horizonMask.1.altitudeDeg', {
+      field: 'horizonMask.1.altitudeDeg',
+      value: 95,
+      rule: 'must lie in [-5, 90)',
+    });
+    expect(messagesByField(SITE_FIELDS, fieldMessages(bad422))).toEqual({
+      horizonMask: '1.altitudeDeg: 95 must lie in [-5, 90)',
+    });
   });
 
   test('a path no field holds is kept for the form as a whole', () => {
-    expect(messagesByField(SYSTEM_FIELDS, { '(body)': 'must be an object' })).toEqual({ '(form)': 'must be an object' });
+    expect(messagesByField(SYSTEM_FIELDS, { '(body)': 'must be an object' })).toEqual({
+      '(form)': 'must be an object',
+    });
   });
 });

@@ -5,8 +5,18 @@ import type { ReportRow } from '../../client/src/api/types.ts';
 
 // Invented report values (demo only).
 const stored: ReportRow = {
-  id: 7, nightId: 3, seeingArcsec: 0.8, strehlRatio: 0.4, cloudCoverPct: 10, humidityPct: 30, windMS: 5, temperatureC: 8,
-  timeLostHours: 0, timeLostReason: '', notes: 'steady', version: 2,
+  id: 7,
+  nightId: 3,
+  seeingArcsec: 0.8,
+  strehlRatio: 0.4,
+  cloudCoverPct: 10,
+  humidityPct: 30,
+  windMS: 5,
+  temperatureC: 8,
+  timeLostHours: 0,
+  timeLostReason: '',
+  notes: 'steady',
+  version: 2,
   outcomes: [{ blockId: 11, status: 'obtained', exposureMinutes: 40, notes: '' }],
 };
 
@@ -16,8 +26,15 @@ describe('report drafts', () => {
     expect(form.conditions.seeingArcsec).toBe('0.8');
     expect(form.outcomes[12]).toEqual({ status: '', exposureMinutes: '', notes: '' });
     const body = bodyOf(form);
-    expect(body).toMatchObject({ seeingArcsec: 0.8, strehlRatio: 0.4, timeLostHours: 0, notes: 'steady' });
-    expect(body.outcomes).toEqual([{ blockId: 11, status: 'obtained', exposureMinutes: 40, notes: '' }]);
+    expect(body).toMatchObject({
+      seeingArcsec: 0.8,
+      strehlRatio: 0.4,
+      timeLostHours: 0,
+      notes: 'steady',
+    });
+    expect(body.outcomes).toEqual([
+      { blockId: 11, status: 'obtained', exposureMinutes: 40, notes: '' },
+    ]);
     form.conditions.windMS = '';
     expect(bodyOf(form).windMS).toBeNull();
   });
@@ -26,14 +43,42 @@ describe('report drafts', () => {
     const mine = formOf(stored, [11]);
     mine.conditions.seeingArcsec = '1.1';
     mine.notes = 'mine';
-    const theirs = formOf({ ...stored, strehlRatio: 0.2, notes: 'theirs', outcomes: [{ blockId: 11, status: 'lost', exposureMinutes: null, notes: 'clouds' }] }, [11]);
+    const theirs = formOf(
+      {
+        ...stored,
+        strehlRatio: 0.2,
+        notes: 'theirs',
+        outcomes: [{ blockId: 11, status: 'lost', exposureMinutes: null, notes: 'clouds' }],
+      },
+      [11],
+    );
     const d = differences(mine, theirs);
-    expect(d.map((x) => x.path).sort()).toEqual(['conditions.seeingArcsec', 'conditions.strehlRatio', 'notes', 'outcomes.11']);
-    const merged = merge(mine, theirs, { 'conditions.seeingArcsec': 'mine', 'conditions.strehlRatio': 'theirs', notes: 'mine', 'outcomes.11': 'theirs' });
+    expect(d.map((x) => x.path).sort()).toEqual([
+      'conditions.seeingArcsec',
+      'conditions.strehlRatio',
+      'notes',
+      'outcomes.11',
+    ]);
+    const merged = merge(mine, theirs, {
+      'conditions.seeingArcsec': 'mine',
+      'conditions.strehlRatio': 'theirs',
+      notes: 'mine',
+      'outcomes.11': 'theirs',
+    });
     expect(merged.conditions.seeingArcsec).toBe('1.1');
     expect(merged.conditions.strehlRatio).toBe('0.2');
     expect(merged.notes).toBe('mine');
     expect(merged.outcomes[11]).toEqual({ status: 'lost', exposureMinutes: '', notes: 'clouds' });
-    expect(differences(merged, merge(mine, theirs, { 'conditions.seeingArcsec': 'mine', 'conditions.strehlRatio': 'theirs', notes: 'mine', 'outcomes.11': 'theirs' }))).toEqual([]);
+    expect(
+      differences(
+        merged,
+        merge(mine, theirs, {
+          'conditions.seeingArcsec': 'mine',
+          'conditions.strehlRatio': 'theirs',
+          notes: 'mine',
+          'outcomes.11': 'theirs',
+        }),
+      ),
+    ).toEqual([]);
   });
 });

@@ -13,10 +13,23 @@ const lead = inject('leadToken');
 const api = apiCaller(base, lead);
 let browser: Browser;
 
-interface Block { id: number; nightId: number; startUtc: string; status: string; notes: string; version: number; origin: string; pinned: boolean }
+interface Block {
+  id: number;
+  nightId: number;
+  startUtc: string;
+  status: string;
+  notes: string;
+  version: number;
+  origin: string;
+  pinned: boolean;
+}
 
 /** The table's words for each origin (our own wording, no source: it is what the view promises to show). */
-const LABEL: Record<string, string> = { 'season-plan': 'season plan', 'night-schedule': 'night schedule', 'by-hand': 'by hand' };
+const LABEL: Record<string, string> = {
+  'season-plan': 'season plan',
+  'night-schedule': 'night schedule',
+  'by-hand': 'by hand',
+};
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -30,7 +43,9 @@ describe('pinning stored blocks', () => {
     const counts = new Map<number, number>();
     for (const b of all) counts.set(b.nightId, (counts.get(b.nightId) ?? 0) + 1);
     const busyNight = [...counts].find(([, n]) => n >= 2)?.[0];
-    const candidates = all.filter((b) => b.status === 'planned' && !b.pinned && b.nightId !== busyNight);
+    const candidates = all.filter(
+      (b) => b.status === 'planned' && !b.pinned && b.nightId !== busyNight,
+    );
     const block = candidates.find((b) => b.origin !== 'by-hand') ?? candidates[0];
     expect(block, 'the demo has an unpinned planned block on a quiet night').toBeDefined();
     const b = block!;
@@ -38,14 +53,19 @@ describe('pinning stored blocks', () => {
     const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
     const errors: string[] = [];
-    page.on('console', (m) => m.type() === 'error' && !/status of 409/.test(m.text()) && errors.push(m.text()));
+    page.on(
+      'console',
+      (m) => m.type() === 'error' && !/status of 409/.test(m.text()) && errors.push(m.text()),
+    );
     page.on('pageerror', (e) => errors.push(e.message));
     await page.goto(`${base}/nights/${b.nightId}?token=${lead}`);
     const row = page.locator(`table.blocks tr[data-block="${b.id}"]`);
     await row.waitFor();
     await expect(row.locator('td.origin').textContent()).resolves.toBe(LABEL[b.origin]);
     await expect(row.locator('td.pin-state').textContent()).resolves.toBe('no');
-    await expect(page.locator('.pin-note').textContent()).resolves.toMatch(/never replaces a pinned block or one made by hand/);
+    await expect(page.locator('.pin-note').textContent()).resolves.toMatch(
+      /never replaces a pinned block or one made by hand/,
+    );
 
     // Pin it: the server stores it pinned with the next version.
     await row.getByRole('button', { name: /^pin / }).click();
@@ -58,10 +78,15 @@ describe('pinning stored blocks', () => {
     // Someone else saves the block while this page holds the version it read: the unpin is refused.
     const pinned = await api<Block>(`/blocks/${b.id}`);
     expect(pinned).toMatchObject({ pinned: true, version: b.version + 1, origin: b.origin });
-    await api(`/blocks/${b.id}`, { method: 'PATCH', body: { notes: pinned.notes, version: pinned.version } });
+    await api(`/blocks/${b.id}`, {
+      method: 'PATCH',
+      body: { notes: pinned.notes, version: pinned.version },
+    });
     await row.getByRole('button', { name: /^unpin / }).click();
     await page.getByRole('alert').filter({ hasText: /409/ }).waitFor();
-    await page.getByText('Someone changed this block first; the table now shows it as stored.').waitFor();
+    await page
+      .getByText('Someone changed this block first; the table now shows it as stored.')
+      .waitFor();
     expect((await api<Block>(`/blocks/${b.id}`)).pinned).toBe(true);
 
     // After the reload the page holds the stored version, and the unpin goes through.

@@ -18,30 +18,57 @@ const lead = inject('leadToken');
 let browser: Browser;
 let ctx: BrowserContext;
 
-interface Site { id: number; name: string; latitudeDeg: number; longitudeDeg: number; elevationM: number; horizonMask: { azimuthDeg: number; altitudeDeg: number }[] }
-interface Vis { site: { name: string }; sun: { set: { utc: string } | null; rise: { utc: string } | null }; moon: { illuminatedFraction: number; curve: { utc: string[]; altitudeDeg: number[] } | null }; constraints: { altitudeLimitDeg: number; horizonMask: boolean }; targets: { name: string; curve: { utc: string[]; altitudeDeg: number[]; horizonMaskDeg?: number[] } | null }[] }
+interface Site {
+  id: number;
+  name: string;
+  latitudeDeg: number;
+  longitudeDeg: number;
+  elevationM: number;
+  horizonMask: { azimuthDeg: number; altitudeDeg: number }[];
+}
+interface Vis {
+  site: { name: string };
+  sun: { set: { utc: string } | null; rise: { utc: string } | null };
+  moon: { illuminatedFraction: number; curve: { utc: string[]; altitudeDeg: number[] } | null };
+  constraints: { altitudeLimitDeg: number; horizonMask: boolean };
+  targets: {
+    name: string;
+    curve: { utc: string[]; altitudeDeg: number[]; horizonMaskDeg?: number[] } | null;
+  }[];
+}
 
 async function api<T>(path: string, init: { method?: string; body?: unknown } = {}): Promise<T> {
   const res = await fetch(`${base}/api${path}`, {
     method: init.method ?? 'GET',
-    headers: { authorization: `Bearer ${lead}`, ...(init.body ? { 'content-type': 'application/json' } : {}) },
+    headers: {
+      authorization: `Bearer ${lead}`,
+      ...(init.body ? { 'content-type': 'application/json' } : {}),
+    },
     ...(init.body ? { body: JSON.stringify(init.body) } : {}),
   });
-  if (!res.ok) throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
+  if (!res.ok)
+    throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
   return (res.status === 204 ? undefined : await res.json()) as T;
 }
 
 /** A signed-in page that records console errors (refused writes this file makes on purpose aside). */
-async function open(path: string, before?: (page: Page) => void): Promise<{ page: Page; errors: string[] }> {
+async function open(
+  path: string,
+  before?: (page: Page) => void,
+): Promise<{ page: Page; errors: string[] }> {
   const page = await ctx.newPage();
   before?.(page);
   const errors: string[] = [];
-  page.on('console', (m) => m.type() === 'error' && !/status of (400|422)/.test(m.text()) && errors.push(m.text()));
+  page.on(
+    'console',
+    (m) => m.type() === 'error' && !/status of (400|422)/.test(m.text()) && errors.push(m.text()),
+  );
   page.on('pageerror', (e) => errors.push(e.message));
   await page.goto(`${base}${path}?token=${lead}`);
   return { page, errors };
 }
-const shot = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
+const shot = (page: Page, name: string) =>
+  page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
 
 /** The night chart's vertical scale in the altitude view (client/src/plots/night-chart.tsx: top 14, plot 250 high, 0–90°). */
 const altOfY = (y: number) => ((264 - y) * 90) / 250;
@@ -58,16 +85,20 @@ afterAll(async () => {
 });
 
 describe('the Moon on the night chart', () => {
-  test('the stored night\'s Moon curve agrees with astronomy-engine within 1′, and the chart draws it at that altitude', async () => {
+  test("the stored night's Moon curve agrees with astronomy-engine within 1′, and the chart draws it at that altitude", async () => {
     const sites = (await api<{ items: Site[] }>('/sites?limit=500')).items;
-    const nights = (await api<{ items: { id: number; siteId: number; date: string }[] }>('/nights?limit=500')).items;
+    const nights = (
+      await api<{ items: { id: number; siteId: number; date: string }[] }>('/nights?limit=500')
+    ).items;
     // A demo night on which the Moon is up between sunset and sunrise (the chart's span).
     let found: { id: number; vis: Vis; site: Site } | null = null;
     for (const n of nights.slice(0, 30)) {
       const vis = await api<Vis>(`/nights/${n.id}/visibility?curves=true`);
       const c = vis.moon.curve!;
       const [t0, t1] = [Date.parse(vis.sun.set!.utc), Date.parse(vis.sun.rise!.utc)];
-      if (c.utc.some((u, i) => Date.parse(u) > t0 && Date.parse(u) < t1 && c.altitudeDeg[i]! > 20)) {
+      if (
+        c.utc.some((u, i) => Date.parse(u) > t0 && Date.parse(u) < t1 && c.altitudeDeg[i]! > 20)
+      ) {
         found = { id: n.id, vis, site: sites.find((s) => s.id === n.siteId)! };
         break;
       }
@@ -77,12 +108,18 @@ describe('the Moon on the night chart', () => {
     const c = vis.moon.curve!;
     // Reference: astronomy-engine's topocentric Moon, centre, no refraction, at every fifth sample.
     const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
-    const errs = c.utc.filter((_, i) => i % 5 === 0).map((u) => {
-      const t = MakeTime(new Date(u));
-      const eq = Equator(Body.Moon, t, observer, true, true);
-      return Math.abs(c.altitudeDeg[c.utc.indexOf(u)]! - Horizon(t, observer, eq.ra, eq.dec).altitude);
-    });
-    console.log(`stored night ${id}: Moon altitude vs astronomy-engine, worst ${(Math.max(...errs) * 3600).toFixed(1)}″ over ${errs.length} instants`);
+    const errs = c.utc
+      .filter((_, i) => i % 5 === 0)
+      .map((u) => {
+        const t = MakeTime(new Date(u));
+        const eq = Equator(Body.Moon, t, observer, true, true);
+        return Math.abs(
+          c.altitudeDeg[c.utc.indexOf(u)]! - Horizon(t, observer, eq.ra, eq.dec).altitude,
+        );
+      });
+    console.log(
+      `stored night ${id}: Moon altitude vs astronomy-engine, worst ${(Math.max(...errs) * 3600).toFixed(1)}″ over ${errs.length} instants`,
+    );
     expect(Math.max(...errs)).toBeLessThan(1 / 60); // 1′: the brief's tolerance for a plotted curve
 
     const { page, errors } = await open(`/nights/${id}`);
@@ -95,9 +132,13 @@ describe('the Moon on the night chart', () => {
     // Nothing drawn below the horizon.
     expect(Math.max(...ys)).toBeLessThanOrEqual(264.05);
     const key = page.locator('.series-legend .moon-key');
-    await expect(key.textContent()).resolves.toContain(`${Math.round(vis.moon.illuminatedFraction * 100)}%`);
+    await expect(key.textContent()).resolves.toContain(
+      `${Math.round(vis.moon.illuminatedFraction * 100)}%`,
+    );
     await expect(key.textContent()).resolves.toContain('illuminated');
-    await page.locator('svg.night-chart').screenshot({ path: join(SCREENSHOTS, 'night-moon-curve.png') });
+    await page
+      .locator('svg.night-chart')
+      .screenshot({ path: join(SCREENSHOTS, 'night-moon-curve.png') });
     expect(errors).toEqual([]);
     await page.close();
   });
@@ -111,7 +152,11 @@ describe('adding records, and a horizon mask on the night chart', () => {
 
   test('refused values are named beside their fields with nothing stored; corrected, each record is added', async () => {
     const count = async (p: string) => (await api<{ total: number }>(`${p}?limit=1`)).total;
-    const before = { systems: await count('/systems'), sites: await count('/sites'), campaigns: await count('/campaigns') };
+    const before = {
+      systems: await count('/systems'),
+      sites: await count('/sites'),
+      campaigns: await count('/campaigns'),
+    };
     const { page, errors } = await open('/records');
     const sys = page.locator('form[aria-label="New system"]');
     await sys.waitFor();
@@ -128,7 +173,9 @@ describe('adding records, and a horizon mask on the night chart', () => {
     await sys.locator('[name=raDeg]').fill('201.25');
     await sys.getByRole('button', { name: 'Add' }).click();
     await sys.locator('.created').waitFor();
-    const system = (await api<{ items: { id: number; positionEpoch: string }[] }>('/systems?name=Yarrow%20Pair')).items[0]!;
+    const system = (
+      await api<{ items: { id: number; positionEpoch: string }[] }>('/systems?name=Yarrow%20Pair')
+    ).items[0]!;
     made.push(`/systems/${system.id}`);
     expect(system.positionEpoch.startsWith('2016-01-01')).toBe(true); // J2016.0 = 2016-01-01T12:00 TT (Lieske 1979 Julian epochs, from memory)
 
@@ -145,13 +192,17 @@ describe('adding records, and a horizon mask on the night chart', () => {
     const maskMsg = form.locator('.field.invalid .field-msg');
     await maskMsg.waitFor();
     await expect(maskMsg.textContent()).resolves.toMatch(/^3\.altitudeDeg: 95 /);
-    await expect(form.locator('.field.invalid textarea').getAttribute('name')).resolves.toBe('horizonMask');
+    await expect(form.locator('.field.invalid textarea').getAttribute('name')).resolves.toBe(
+      'horizonMask',
+    );
     expect(await count('/sites')).toBe(before.sites);
     // Corrected: a ridge of 60° between azimuths 80° and 130°, where the demo's Vesper Core rises (invented).
     await form.locator('[name=horizonMask]').fill('0 5, 60 5, 80 60, 130 60, 150 5');
     await form.getByRole('button', { name: 'Add' }).click();
     await form.locator('.created').waitFor();
-    const site = (await api<{ items: Site[] }>('/sites?limit=500')).items.find((s) => s.name === 'Wexmoor Shelf')!;
+    const site = (await api<{ items: Site[] }>('/sites?limit=500')).items.find(
+      (s) => s.name === 'Wexmoor Shelf',
+    )!;
     made.push(`/sites/${site.id}`);
     expect(site.horizonMask).toHaveLength(5);
     await page.locator('#sites tr', { hasText: 'Wexmoor Shelf' }).waitFor();
@@ -162,15 +213,25 @@ describe('adding records, and a horizon mask on the night chart', () => {
     await camp.locator('[name=startDate]').fill('2027-06-01');
     await camp.locator('[name=endDate]').fill('2027-05-01');
     await camp.locator('[name="goals.cadenceDays"]').fill('7');
-    await camp.locator('[role=group][aria-label=targets] label', { hasText: 'VC s1' }).locator('input').check();
-    await camp.locator('[role=group][aria-label=sites] label', { hasText: 'Wexmoor Shelf' }).locator('input').check();
+    await camp
+      .locator('[role=group][aria-label=targets] label', { hasText: 'VC s1' })
+      .locator('input')
+      .check();
+    await camp
+      .locator('[role=group][aria-label=sites] label', { hasText: 'Wexmoor Shelf' })
+      .locator('input')
+      .check();
     await camp.getByRole('button', { name: 'Add' }).click();
     await camp.locator('.field.invalid [name=endDate]').waitFor();
     expect(await count('/campaigns')).toBe(before.campaigns);
     await camp.locator('[name=endDate]').fill('2027-09-30');
     await camp.getByRole('button', { name: 'Add' }).click();
     await camp.locator('.created').waitFor();
-    const campaign = (await api<{ items: { id: number; name: string; siteIds: number[]; targetIds: number[] }[] }>('/campaigns?limit=500')).items.find((c) => c.name === 'Zephyr shelf trial')!;
+    const campaign = (
+      await api<{ items: { id: number; name: string; siteIds: number[]; targetIds: number[] }[] }>(
+        '/campaigns?limit=500',
+      )
+    ).items.find((c) => c.name === 'Zephyr shelf trial')!;
     made.push(`/campaigns/${campaign.id}`);
     expect(campaign.siteIds).toEqual([site.id]);
     expect(campaign.targetIds).toHaveLength(1);
@@ -179,7 +240,10 @@ describe('adding records, and a horizon mask on the night chart', () => {
     await page.close();
 
     // A night of the new campaign at the new site: the mask stands above the 30° limit where the target rises.
-    const night = await api<{ id: number }>('/nights', { method: 'POST', body: { siteId: site.id, campaignId: campaign.id, date: '2027-06-14' } });
+    const night = await api<{ id: number }>('/nights', {
+      method: 'POST',
+      body: { siteId: site.id, campaignId: campaign.id, date: '2027-06-14' },
+    });
     made.push(`/nights/${night.id}`);
     const vis = await api<Vis>(`/nights/${night.id}/visibility?curves=true`);
     expect(vis.constraints.horizonMask).toBe(true);
@@ -191,26 +255,41 @@ describe('adding records, and a horizon mask on the night chart', () => {
     // The band's top is the ridge: 60° (the mask typed above).
     expect(altOfY(Math.min(...pathYs((await band.getAttribute('d'))!)))).toBeCloseTo(60, 1);
     await n.page.locator('.series-legend .mask-key').waitFor();
-    await n.page.locator('svg.night-chart').screenshot({ path: join(SCREENSHOTS, 'night-horizon-mask.png') });
+    await n.page
+      .locator('svg.night-chart')
+      .screenshot({ path: join(SCREENSHOTS, 'night-horizon-mask.png') });
     expect(n.errors).toEqual([]);
     await n.page.close();
   });
 });
 
 describe('sky calls from the client', () => {
-  test('the season view sends each system\'s position epoch and each site\'s horizon mask', async () => {
-    const systems = (await api<{ items: { id: number; positionEpoch: string }[] }>('/systems?limit=500')).items;
-    const targets = (await api<{ items: { id: number; name: string; systemId: number }[] }>('/targets?limit=500')).items;
+  test("the season view sends each system's position epoch and each site's horizon mask", async () => {
+    const systems = (
+      await api<{ items: { id: number; positionEpoch: string }[] }>('/systems?limit=500')
+    ).items;
+    const targets = (
+      await api<{ items: { id: number; name: string; systemId: number }[] }>('/targets?limit=500')
+    ).items;
     const sites = (await api<{ items: Site[] }>('/sites?limit=500')).items;
-    const bodies: { site: { name: string; horizonMask?: unknown }; targets: { name: string; epoch?: string }[] }[] = [];
-    const isSeason = (r: { method(): string; url(): string }) => r.method() === 'POST' && r.url().endsWith('/api/sky/season');
-    const { page, errors } = await open('/season', (p) => p.on('request', (r) => isSeason(r) && bodies.push(JSON.parse(r.postData()!))));
+    const bodies: {
+      site: { name: string; horizonMask?: unknown };
+      targets: { name: string; epoch?: string }[];
+    }[] = [];
+    const isSeason = (r: { method(): string; url(): string }) =>
+      r.method() === 'POST' && r.url().endsWith('/api/sky/season');
+    const { page, errors } = await open('/season', (p) =>
+      p.on('request', (r) => isSeason(r) && bodies.push(JSON.parse(r.postData()!))),
+    );
     await page.locator('svg.season-chart .season-row').first().waitFor();
     // The other campaigns too, so both demo systems (one at J2016.0) are sent.
     const select = page.locator('.view-head .toolbar select').first();
     const current = await select.inputValue();
-    const options = await select.locator('option').evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value));
-    for (const v of options.filter((o) => o !== current)) await Promise.all([page.waitForRequest(isSeason), select.selectOption(v)]);
+    const options = await select
+      .locator('option')
+      .evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value));
+    for (const v of options.filter((o) => o !== current))
+      await Promise.all([page.waitForRequest(isSeason), select.selectOption(v)]);
     await page.waitForLoadState('networkidle');
     expect(bodies.length).toBeGreaterThan(0);
     const epochs = new Set<string>();

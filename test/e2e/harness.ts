@@ -7,7 +7,12 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
-import { chromium, type Browser, type BrowserContext, type BrowserContextOptions } from 'playwright-core';
+import {
+  chromium,
+  type Browser,
+  type BrowserContext,
+  type BrowserContextOptions,
+} from 'playwright-core';
 import { build } from 'vite';
 
 export const REPO = resolve(import.meta.dirname, '../..');
@@ -38,21 +43,34 @@ export async function startServer(): Promise<RunningServer> {
   const tsx = join(REPO, 'node_modules/tsx/dist/cli.mjs');
   const child: ChildProcess = spawn(process.execPath, [tsx, 'server/main.ts'], {
     cwd: REPO,
-    env: { ...process.env, PORT: '0', HOST: '127.0.0.1', DATABASE_URL: `file:${join(dir, 'e2e.db')}`, EPOCHWRIGHT_DEMO: '1', EPOCHWRIGHT_NOW: TEST_NOW },
+    env: {
+      ...process.env,
+      PORT: '0',
+      HOST: '127.0.0.1',
+      DATABASE_URL: `file:${join(dir, 'e2e.db')}`,
+      EPOCHWRIGHT_DEMO: '1',
+      EPOCHWRIGHT_NOW: TEST_NOW,
+    },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let out = '';
   const ready = new Promise<{ url: string; token: string }>((ok, fail) => {
-    const timer = setTimeout(() => fail(new Error(`server did not start in 90 s:\n${out}`)), 90_000);
+    const timer = setTimeout(
+      () => fail(new Error(`server did not start in 90 s:\n${out}`)),
+      90_000,
+    );
     const look = (chunk: Buffer) => {
       out += chunk.toString();
       const url = /listening on (http:\/\/\S+?)\/? /.exec(out)?.[1];
       const token = /^\s*token: (\S+)$/m.exec(out)?.[1];
-      if (url && token) (clearTimeout(timer), ok({ url, token }));
+      if (url && token) clearTimeout(timer), ok({ url, token });
     };
     child.stdout!.on('data', look);
     child.stderr!.on('data', look);
-    child.on('exit', (code) => (clearTimeout(timer), fail(new Error(`server exited with ${code}:\n${out}`))));
+    child.on(
+      'exit',
+      (code) => (clearTimeout(timer), fail(new Error(`server exited with ${code}:\n${out}`))),
+    );
   });
   const { url, token } = await ready;
   return {
@@ -74,25 +92,42 @@ export function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: CHROMIUM,
     headless: true,
-    args: ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'],
+    args: [
+      '--no-sandbox',
+      '--disable-gpu',
+      '--disable-background-networking',
+      '--disable-component-update',
+      '--disable-sync',
+      '--no-first-run',
+    ],
   });
 }
 
 /** A fetch wrapper for the API, signed in with a bearer token (`defaultToken` unless one is given). */
 export function apiCaller(base: string, defaultToken: string) {
-  return async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
+  return async function api<T>(
+    path: string,
+    init: { method?: string; body?: unknown; token?: string } = {},
+  ): Promise<T> {
     const res = await fetch(`${base}/api${path}`, {
       method: init.method ?? 'GET',
-      headers: { authorization: `Bearer ${init.token ?? defaultToken}`, ...(init.body ? { 'content-type': 'application/json' } : {}) },
+      headers: {
+        authorization: `Bearer ${init.token ?? defaultToken}`,
+        ...(init.body ? { 'content-type': 'application/json' } : {}),
+      },
       ...(init.body ? { body: JSON.stringify(init.body) } : {}),
     });
-    if (!res.ok) throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
+    if (!res.ok)
+      throw new Error(`${init.method ?? 'GET'} ${path}: ${res.status} ${await res.text()}`);
     return (res.status === 204 ? undefined : await res.json()) as T;
   };
 }
 
 /** A browser context whose clock starts at TEST_NOW and then runs on. */
-export async function newContext(browser: Browser, options: BrowserContextOptions = {}): Promise<BrowserContext> {
+export async function newContext(
+  browser: Browser,
+  options: BrowserContextOptions = {},
+): Promise<BrowserContext> {
   const ctx = await browser.newContext(options);
   await ctx.clock.install({ time: TEST_NOW });
   return ctx;

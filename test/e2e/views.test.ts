@@ -16,7 +16,11 @@ let browser: Browser;
 const api = apiCaller(base, lead);
 
 /** A signed-in page that records console errors and failed requests. */
-async function open(ctx: BrowserContext, path: string, token = lead): Promise<{ page: Page; errors: string[] }> {
+async function open(
+  ctx: BrowserContext,
+  path: string,
+  token = lead,
+): Promise<{ page: Page; errors: string[] }> {
   const page = await ctx.newPage();
   const errors: string[] = [];
   page.on('console', (m) => m.type() === 'error' && errors.push(m.text()));
@@ -26,7 +30,8 @@ async function open(ctx: BrowserContext, path: string, token = lead): Promise<{ 
   return { page, errors };
 }
 
-const shot = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
+const shot = (page: Page, name: string) =>
+  page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
 
 beforeAll(async () => {
   mkdirSync(SCREENSHOTS, { recursive: true });
@@ -76,15 +81,21 @@ describe('views', () => {
   });
 
   test('night: chart with twilight bands and blocks, cautions, times in UTC and local', async () => {
-    const nights = await api<{ items: { id: number; date: string; siteId: number }[] }>('/nights?siteId=1&limit=500');
+    const nights = await api<{ items: { id: number; date: string; siteId: number }[] }>(
+      '/nights?siteId=1&limit=500',
+    );
     const night = nights.items.find((n) => n.date >= '2027-03-01')!;
     const { page, errors } = await open(ctx, `/nights/${night.id}`);
     await page.locator('svg.night-chart .series').first().waitFor();
     expect(await page.locator('svg.night-chart .band.dark').count()).toBeGreaterThan(0);
     expect(await page.locator('svg.night-chart .block-bar').count()).toBeGreaterThan(0);
     // Tolvane Ridge runs a laser guide star (demo scenario): its caution is on the page.
-    await expect(page.locator('.caution').allTextContents()).resolves.toEqual(expect.arrayContaining([expect.stringContaining('laser')]));
-    await expect(page.locator('table.blocks thead').textContent()).resolves.toContain('America/Santiago');
+    await expect(page.locator('.caution').allTextContents()).resolves.toEqual(
+      expect.arrayContaining([expect.stringContaining('laser')]),
+    );
+    await expect(page.locator('table.blocks thead').textContent()).resolves.toContain(
+      'America/Santiago',
+    );
     await shot(page, 'night');
     expect(errors).toEqual([]);
     await page.close();

@@ -14,20 +14,44 @@ const base = inject('baseUrl');
 const lead = inject('leadToken');
 let browser: Browser;
 
-interface Report { id: number; nightId: number; seeingArcsec: number | null; strehlRatio: number | null; windMS: number | null; notes: string; timeLostReason: string; version: number }
-interface Block { id: number; nightId: number; startUtc: string; endUtc: string; version: number; status: string }
+interface Report {
+  id: number;
+  nightId: number;
+  seeingArcsec: number | null;
+  strehlRatio: number | null;
+  windMS: number | null;
+  notes: string;
+  timeLostReason: string;
+  version: number;
+}
+interface Block {
+  id: number;
+  nightId: number;
+  startUtc: string;
+  endUtc: string;
+  version: number;
+  status: string;
+}
 
 const api = apiCaller(base, lead);
 
-async function open(ctx: BrowserContext, path: string, token = lead): Promise<{ page: Page; errors: string[] }> {
+async function open(
+  ctx: BrowserContext,
+  path: string,
+  token = lead,
+): Promise<{ page: Page; errors: string[] }> {
   const page = await ctx.newPage();
   const errors: string[] = [];
-  page.on('console', (m) => m.type() === 'error' && !/status of 409/.test(m.text()) && errors.push(m.text()));
+  page.on(
+    'console',
+    (m) => m.type() === 'error' && !/status of 409/.test(m.text()) && errors.push(m.text()),
+  );
   page.on('pageerror', (e) => errors.push(e.message));
   await page.goto(`${base}${path}?token=${token}`);
   return { page, errors };
 }
-const shot = (page: Page, name: string) => page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
+const shot = (page: Page, name: string) =>
+  page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
 
 beforeAll(async () => {
   mkdirSync(SCREENSHOTS, { recursive: true });
@@ -50,7 +74,10 @@ describe('night report', () => {
     expect((await api<Report>(`/night-reports/${before.id}`)).seeingArcsec).toBe(0.71);
     // 2. Someone else saves while this page still holds the version it read.
     await seeing.fill('0.95');
-    await api(`/night-reports/${before.id}`, { method: 'PATCH', body: { version: before.version + 1, notes: 'edited at the summit', strehlRatio: 0.5 } });
+    await api(`/night-reports/${before.id}`, {
+      method: 'PATCH',
+      body: { version: before.version + 1, notes: 'edited at the summit', strehlRatio: 0.5 },
+    });
     await page.getByRole('button', { name: 'Save report' }).click();
     const conflict = page.locator('.conflict');
     await conflict.waitFor();
@@ -62,8 +89,15 @@ describe('night report', () => {
     await conflict.getByRole('button', { name: 'Save with these choices' }).click();
     await page.getByText(`Saved as version ${before.version + 3}`).waitFor();
     const after = await api<Report>(`/night-reports/${before.id}`);
-    expect(after).toMatchObject({ seeingArcsec: 0.95, strehlRatio: 0.5, notes: 'edited at the summit', version: before.version + 3 });
-    expect(await page.evaluate((n) => localStorage.getItem(`ew.draft.report.${n}`), before.nightId)).toBeNull();
+    expect(after).toMatchObject({
+      seeingArcsec: 0.95,
+      strehlRatio: 0.5,
+      notes: 'edited at the summit',
+      version: before.version + 3,
+    });
+    expect(
+      await page.evaluate((n) => localStorage.getItem(`ew.draft.report.${n}`), before.nightId),
+    ).toBeNull();
     expect(errors).toEqual([]);
     await ctx.close();
   });
@@ -76,7 +110,10 @@ describe('night report', () => {
     const reason = first.page.locator('input[name=timeLostReason]');
     await reason.waitFor();
     await reason.fill('wind gusts above 18 m/s');
-    await first.page.waitForFunction((n) => localStorage.getItem(`ew.draft.report.${n}`)?.includes('wind gusts'), r.nightId);
+    await first.page.waitForFunction(
+      (n) => localStorage.getItem(`ew.draft.report.${n}`)?.includes('wind gusts'),
+      r.nightId,
+    );
     // Crash the renderer half a second after the last keystroke: no unload handlers, no chance to save.
     await first.page.waitForTimeout(500);
     const cdp = await ctx.newCDPSession(first.page);
@@ -86,7 +123,9 @@ describe('night report', () => {
     void first.page.close().catch(() => undefined);
     const again = await open(ctx, `/nights/${r.nightId}/report`);
     await again.page.getByText('Restored an unsaved draft').waitFor();
-    await expect(again.page.locator('input[name=timeLostReason]').inputValue()).resolves.toBe('wind gusts above 18 m/s');
+    await expect(again.page.locator('input[name=timeLostReason]').inputValue()).resolves.toBe(
+      'wind gusts above 18 m/s',
+    );
     expect((await api<Report>(`/night-reports/${r.id}`)).timeLostReason).toBe(r.timeLostReason);
     await shot(again.page, 'report-draft-restored');
     expect(again.errors).toEqual([]);
@@ -102,7 +141,9 @@ describe('night report', () => {
     await ctx.setOffline(true);
     await page.getByRole('button', { name: 'Save report' }).click();
     await page.getByText('Not saved: your draft is still kept in this browser.').waitFor();
-    expect(await page.evaluate((n) => localStorage.getItem(`ew.draft.report.${n}`), r.nightId)).toContain('12.5');
+    expect(
+      await page.evaluate((n) => localStorage.getItem(`ew.draft.report.${n}`), r.nightId),
+    ).toContain('12.5');
     await ctx.setOffline(false);
     await page.getByRole('button', { name: 'Save report' }).click();
     await page.getByText(`Saved as version ${r.version + 1}`).waitFor();
@@ -119,7 +160,9 @@ describe('night report', () => {
     await page.getByRole('button', { name: 'Save report' }).click();
     const msg = page.locator('.field.invalid .field-msg');
     await msg.waitFor();
-    await expect(page.locator('.field.invalid input').getAttribute('name')).resolves.toBe('humidityPct');
+    await expect(page.locator('.field.invalid input').getAttribute('name')).resolves.toBe(
+      'humidityPct',
+    );
     expect((await api<Report>(`/night-reports/${r.id}`)).version).toBe(r.version);
     await ctx.close();
   });
@@ -137,9 +180,14 @@ describe('night blocks', () => {
     const row = page.locator(`table.blocks tr[data-block="${sorted[0]!.id}"]`);
     await row.waitFor();
     await row.getByRole('button', { name: /15 minutes later/ }).click();
-    await expect.poll(async () => (await api<Block>(`/blocks/${sorted[0]!.id}`)).startUtc).toBe(new Date(Date.parse(sorted[0]!.startUtc) + 15 * 60_000).toISOString());
+    await expect
+      .poll(async () => (await api<Block>(`/blocks/${sorted[0]!.id}`)).startUtc)
+      .toBe(new Date(Date.parse(sorted[0]!.startUtc) + 15 * 60_000).toISOString());
     const last = sorted[sorted.length - 1]!;
-    await page.locator(`table.blocks tr[data-block="${last.id}"]`).getByRole('button', { name: /^remove/ }).click();
+    await page
+      .locator(`table.blocks tr[data-block="${last.id}"]`)
+      .getByRole('button', { name: /^remove/ })
+      .click();
     await page.locator(`table.blocks tr[data-block="${last.id}"]`).waitFor({ state: 'detached' });
     await expect(api(`/blocks/${last.id}`)).rejects.toThrow(/404/);
     expect(errors).toEqual([]);
@@ -151,7 +199,9 @@ describe('night scheduler', () => {
   test('propose a schedule, pin a block, move another, re-schedule the rest, store it', async () => {
     const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const today = TEST_NOW.slice(0, 10);
-    const nights = await api<{ items: { id: number; date: string; siteId: number; campaignId: number | null }[] }>(`/nights?siteId=1&campaignId=1&from=${today}&limit=500`);
+    const nights = await api<{
+      items: { id: number; date: string; siteId: number; campaignId: number | null }[];
+    }>(`/nights?siteId=1&campaignId=1&from=${today}&limit=500`);
     const night = nights.items.sort((a, b) => a.date.localeCompare(b.date)).at(-1)!;
     const { page, errors } = await open(ctx, `/nights/${night.id}`);
     await page.getByRole('button', { name: 'Propose a schedule' }).click();
@@ -160,20 +210,32 @@ describe('night scheduler', () => {
     const ids = await rows.evaluateAll((trs) => trs.map((tr) => tr.getAttribute('data-proposed')!));
     expect(ids.length).toBeGreaterThan(1);
     // Every candidate left out carries its reason.
-    for (const li of await page.locator('.left-out li').allTextContents()) expect(li).toMatch(/: \S/);
+    for (const li of await page.locator('.left-out li').allTextContents())
+      expect(li).toMatch(/: \S/);
     // Pin the first block where it is.
     await page.getByRole('button', { name: `pin ${ids[0]}`, exact: true }).click();
-    await expect.poll(() => page.locator(`tr[data-proposed="${ids[0]}"]`).textContent()).toContain('pinned');
+    await expect
+      .poll(() => page.locator(`tr[data-proposed="${ids[0]}"]`).textContent())
+      .toContain('pinned');
     // Move the last one 15 minutes later (which pins it there); the rest is re-scheduled around both.
     const last = ids[ids.length - 1]!;
     const before = await page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent();
     await page.getByRole('button', { name: `move ${last} 15 minutes later and pin it` }).click();
-    await expect.poll(() => page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent()).not.toBe(before);
-    await expect(page.locator(`tr[data-proposed="${last}"]`).textContent()).resolves.toContain('pinned');
-    expect(await page.locator('svg.night-chart .block-bar.proposed').count()).toBe(await rows.count());
+    await expect
+      .poll(() => page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent())
+      .not.toBe(before);
+    await expect(page.locator(`tr[data-proposed="${last}"]`).textContent()).resolves.toContain(
+      'pinned',
+    );
+    expect(await page.locator('svg.night-chart .block-bar.proposed').count()).toBe(
+      await rows.count(),
+    );
     await shot(page, 'night-schedule-proposal');
     const proposed = await rows.count();
-    const lastStart = (await page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent())!.slice(0, 5);
+    const lastStart = (await page
+      .locator(`tr[data-proposed="${last}"] td`)
+      .nth(1)
+      .textContent())!.slice(0, 5);
     await page.getByRole('button', { name: 'Store this schedule' }).click();
     await page.getByText(/^Stored: /).waitFor();
     const stored = await api<{ items: Block[] }>(`/blocks?nightId=${night.id}&limit=500`);
@@ -188,14 +250,30 @@ describe('safety', () => {
   test('a block on a target too close to the Sun is marked as refused, with the reason', async () => {
     // Vesper Core (demo, RA 263.8°, Dec −21.7°) sits a few degrees from the Sun in mid-December
     // (the Sun crosses RA 264° near 16 December at Dec ≈ −23°; common practice, no source).
-    const night = await api<{ id: number }>('/nights', { method: 'POST', body: { siteId: 1, campaignId: 1, date: '2026-12-16' } });
-    await api('/blocks', { method: 'POST', body: { nightId: night.id, targetId: 1, kind: 'astrometry', startUtc: '2026-12-17T04:00:00Z', endUtc: '2026-12-17T04:30:00Z' } });
+    const night = await api<{ id: number }>('/nights', {
+      method: 'POST',
+      body: { siteId: 1, campaignId: 1, date: '2026-12-16' },
+    });
+    await api('/blocks', {
+      method: 'POST',
+      body: {
+        nightId: night.id,
+        targetId: 1,
+        kind: 'astrometry',
+        startUtc: '2026-12-17T04:00:00Z',
+        endUtc: '2026-12-17T04:30:00Z',
+      },
+    });
     const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
     const { page, errors } = await open(ctx, `/nights/${night.id}`);
     const problem = page.locator('table.blocks .problem');
     await problem.waitFor();
-    await expect(problem.textContent()).resolves.toMatch(/from the Sun, inside the site’s 45° Sun-avoidance angle/);
-    await expect(page.locator('.caution').first().textContent()).resolves.toContain('Sun-avoidance');
+    await expect(problem.textContent()).resolves.toMatch(
+      /from the Sun, inside the site’s 45° Sun-avoidance angle/,
+    );
+    await expect(page.locator('.caution').first().textContent()).resolves.toContain(
+      'Sun-avoidance',
+    );
     await shot(page, 'night-sun-refusal');
     expect(errors).toEqual([]);
     await ctx.close();
@@ -223,7 +301,13 @@ describe('printable night sheet and records', () => {
     const before = await api<{ total: number }>('/measurements?limit=1');
     const { page, errors } = await open(ctx, '/records');
     await page.locator('#import textarea').waitFor();
-    const csv = (await (await fetch(`${base}/api/exports/measurements?targetId=5`, { headers: { authorization: `Bearer ${lead}` } })).text()).split('\n');
+    const csv = (
+      await (
+        await fetch(`${base}/api/exports/measurements?targetId=5`, {
+          headers: { authorization: `Bearer ${lead}` },
+        })
+      ).text()
+    ).split('\n');
     // Keep the header and the first row, then a copy of that row with an impossible epoch.
     const header = csv[0]!;
     const row = csv[1]!;
@@ -253,7 +337,10 @@ describe('printable night sheet and records', () => {
 
 describe('roles', () => {
   test('a viewer sees the plan and the report but no edit controls', async () => {
-    const made = await api<{ token: string }>('/users', { method: 'POST', body: { name: 'guest viewer', role: 'viewer' } });
+    const made = await api<{ token: string }>('/users', {
+      method: 'POST',
+      body: { name: 'guest viewer', role: 'viewer' },
+    });
     const ctx = await newContext(browser);
     const nights = await api<{ items: { id: number }[] }>('/nights?limit=1');
     const night = await open(ctx, `/nights/${nights.items[0]!.id}`, made.token);
@@ -279,15 +366,30 @@ describe('sky-plane plot as drawn in the browser', () => {
     const drawn = await page.evaluate(() => {
       const s = document.querySelector('svg.sky-plane')!;
       const box = (sel: string) => s.querySelector(sel)!.getBoundingClientRect();
-      const ticks = (sel: string) => [...s.querySelectorAll(`${sel} text[data-value]`)].map((t) => ({ v: Number(t.getAttribute('data-value')), x: Number(t.getAttribute('x')), y: Number(t.getAttribute('y')) }));
+      const ticks = (sel: string) =>
+        [...s.querySelectorAll(`${sel} text[data-value]`)].map((t) => ({
+          v: Number(t.getAttribute('data-value')),
+          x: Number(t.getAttribute('x')),
+          y: Number(t.getAttribute('y')),
+        }));
       return {
         masPerPx: Number(s.getAttribute('data-mas-per-px')),
-        e: box('.compass-e'), n: box('.compass-n'),
-        xTicks: ticks('.x-axis'), yTicks: ticks('.y-axis'),
-        xTitle: s.querySelector('.x-axis .axis-title')!.textContent, yTitle: s.querySelector('.y-axis .axis-title')!.textContent,
+        e: box('.compass-e'),
+        n: box('.compass-n'),
+        xTicks: ticks('.x-axis'),
+        yTicks: ticks('.y-axis'),
+        xTitle: s.querySelector('.x-axis .axis-title')!.textContent,
+        yTitle: s.querySelector('.y-axis .axis-title')!.textContent,
         ellipses: [...s.querySelectorAll('.measurement')].map((g) => {
           const el = g.querySelector('ellipse')!;
-          return { id: Number(g.getAttribute('data-id')), cx: Number(el.getAttribute('cx')), cy: Number(el.getAttribute('cy')), rx: Number(el.getAttribute('rx')), ry: Number(el.getAttribute('ry')), transform: el.getAttribute('transform')! };
+          return {
+            id: Number(g.getAttribute('data-id')),
+            cx: Number(el.getAttribute('cx')),
+            cy: Number(el.getAttribute('cy')),
+            rx: Number(el.getAttribute('rx')),
+            ry: Number(el.getAttribute('ry')),
+            transform: el.getAttribute('transform')!,
+          };
         }),
       };
     });
@@ -303,24 +405,43 @@ describe('sky-plane plot as drawn in the browser', () => {
     expect(drawn.xTitle).toContain('(mas)');
     expect(drawn.yTitle).toContain('(mas)');
     // Ellipses against the stored uncertainties (demo measurements, sigma 0.4 mas, correlation 0.1).
-    const ms = await api<{ items: { id: number; kind: string; dRaMas: number; sigmaDRaMas: number; sigmaDDecMas: number; correlation: number | null }[] }>('/measurements?targetId=1&kind=offsets&limit=500');
+    const ms = await api<{
+      items: {
+        id: number;
+        kind: string;
+        dRaMas: number;
+        sigmaDRaMas: number;
+        sigmaDDecMas: number;
+        correlation: number | null;
+      }[];
+    }>('/measurements?targetId=1&kind=offsets&limit=500');
     expect(drawn.ellipses.length).toBe(ms.items.length);
     for (const m of ms.items) {
       const el = drawn.ellipses.find((d) => d.id === m.id)!;
-      const [a, b, r] = [m.sigmaDRaMas ** 2, m.sigmaDDecMas ** 2, (m.correlation ?? 0) * m.sigmaDRaMas * m.sigmaDDecMas];
+      const [a, b, r] = [
+        m.sigmaDRaMas ** 2,
+        m.sigmaDDecMas ** 2,
+        (m.correlation ?? 0) * m.sigmaDRaMas * m.sigmaDDecMas,
+      ];
       const l1 = (a + b) / 2 + Math.hypot((a - b) / 2, r);
       const l2 = (a + b) / 2 - Math.hypot((a - b) / 2, r);
       // Radii are clamped to at least half a pixel so tiny errors stay visible.
       expect(el.rx).toBeCloseTo(Math.max(Math.sqrt(l1) / drawn.masPerPx, 0.5), 6);
       expect(el.ry).toBeCloseTo(Math.max(Math.sqrt(l2) / drawn.masPerPx, 0.5), 6);
       const angle = Number(/rotate\(([-\d.e]+)/.exec(el.transform)![1]);
-      const pa = ((Math.atan2(r === 0 ? (a >= b ? 1 : 0) : r, r === 0 ? (a >= b ? 0 : 1) : l1 - a) * 180) / Math.PI + 180) % 180;
+      const pa =
+        ((Math.atan2(r === 0 ? (a >= b ? 1 : 0) : r, r === 0 ? (a >= b ? 0 : 1) : l1 - a) * 180) /
+          Math.PI +
+          180) %
+        180;
       expect(Math.abs((((angle + 90 + pa) % 180) + 180) % 180)).toBeLessThan(1e-6);
     }
     // Two measurements: the one further east is drawn further left.
     const [m1, m2] = [...ms.items].sort((p, q) => p.dRaMas - q.dRaMas);
     const e1 = drawn.ellipses.find((d) => d.id === m1!.id)!;
-    const e2 = drawn.ellipses.find((d) => d.id === ms.items.sort((p, q) => q.dRaMas - p.dRaMas)[0]!.id)!;
+    const e2 = drawn.ellipses.find(
+      (d) => d.id === ms.items.sort((p, q) => q.dRaMas - p.dRaMas)[0]!.id,
+    )!;
     expect(e2.cx).toBeLessThan(e1.cx);
     void m2;
     await ctx.close();
@@ -335,12 +456,16 @@ describe('fitting from the target page', () => {
     await page.getByRole('button', { name: 'Fit the stored measurements' }).click();
     await page.locator('table.fit-parameters tbody tr').first().waitFor();
     await page.locator('svg.sky-plane path.track-compare').waitFor();
-    await expect(page.locator('#solutions').textContent()).resolves.toMatch(/χ² [\d.]+ for \d+ degrees of freedom/);
+    await expect(page.locator('#solutions').textContent()).resolves.toMatch(
+      /χ² [\d.]+ for \d+ degrees of freedom/,
+    );
     await shot(page, 'target-fit-preview');
     await page.getByRole('button', { name: 'Store as the current solution' }).click();
     await page.getByText('Stored as version 2, now current.').waitFor();
     await expect.poll(() => page.locator('#solutions tr.current').textContent()).toContain('v2');
-    const sols = await api<{ items: { version: number; current: boolean; provenance: string }[] }>('/orbit-solutions?targetId=3');
+    const sols = await api<{ items: { version: number; current: boolean; provenance: string }[] }>(
+      '/orbit-solutions?targetId=3',
+    );
     expect(sols.items.find((x) => x.current)).toMatchObject({ version: 2, provenance: 'fitted' });
     expect(errors).toEqual([]);
     await ctx.close();
@@ -373,14 +498,18 @@ describe('season plan', () => {
     await page.getByRole('button', { name: 'Accept into blocks' }).waitFor();
     expect(await page.locator('svg.season-chart .proposed-mark').count()).toBeGreaterThan(0);
     await page.locator('#season-plan details summary').first().click();
-    const why = await page.locator('#season-plan table.epochs tbody tr td:last-child').allTextContents();
+    const why = await page
+      .locator('#season-plan table.epochs tbody tr td:last-child')
+      .allTextContents();
     expect(why.length).toBeGreaterThan(0);
     for (const w of why) expect(w.trim().length).toBeGreaterThan(10);
     await shot(page, 'season-plan-proposal');
     await page.getByRole('button', { name: 'Accept into blocks' }).click();
     const status = page.locator('#season-plan .notice');
     await status.waitFor();
-    const written = Number(/Accepted: (\d+) blocks stored/.exec((await status.textContent())!)?.[1]);
+    const written = Number(
+      /Accepted: (\d+) blocks stored/.exec((await status.textContent())!)?.[1],
+    );
     expect(written).toBe(why.length);
     expect(errors).toEqual([]);
     await ctx.close();

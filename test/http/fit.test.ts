@@ -14,18 +14,53 @@ import { SeededRandom } from '../../server/science/random.ts';
 import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
 
 const post = (app: ReturnType<typeof createApp>, path: string, body: unknown, token?: string) =>
-  app.request(path, { method: 'POST', body: JSON.stringify(body), headers: { 'content-type': 'application/json', ...(token ? { authorization: `Bearer ${token}` } : {}) } });
+  app.request(path, {
+    method: 'POST',
+    body: JSON.stringify(body),
+    headers: {
+      'content-type': 'application/json',
+      ...(token ? { authorization: `Bearer ${token}` } : {}),
+    },
+  });
 
-const truth = { elements: { periodYears: 10, periapsis: 'J2018.1', eccentricity: 0.4, semiMajorAxisArcsec: 0.15, inclinationDeg: 60, ascendingNodeDeg: 160, argPeriapsisDeg: 45 }, distancePc: 40, systemicVelocityKmS: 21 };
+const truth = {
+  elements: {
+    periodYears: 10,
+    periapsis: 'J2018.1',
+    eccentricity: 0.4,
+    semiMajorAxisArcsec: 0.15,
+    inclinationDeg: 60,
+    ascendingNodeDeg: 160,
+    argPeriapsisDeg: 45,
+  },
+  distancePc: 40,
+  systemicVelocityKmS: 21,
+};
 const r = new SeededRandom(4);
-const measurements = simulate(truth, { astrometryJd: epochs(2457023.5, 12 * 365.25, 20, r, 20), sigmaMas: 0.8, velocityJd: epochs(2457123.5, 11 * 365.25, 10, r, 20), sigmaRadialVelocityKmS: 0.4 }, 5);
+const measurements = simulate(
+  truth,
+  {
+    astrometryJd: epochs(2457023.5, 12 * 365.25, 20, r, 20),
+    sigmaMas: 0.8,
+    velocityJd: epochs(2457123.5, 11 * 365.25, 10, r, 20),
+    sigmaRadialVelocityKmS: 0.4,
+  },
+  5,
+);
 
 describe('POST /api/fit (stateless)', () => {
   const app = createApp();
   it('fits measurements in the body and returns parameters, covariance and residuals', async () => {
-    const res = await post(app, '/api/fit', { stars: [{ name: 'Tarn', measurements, hints: { periodYears: { min: 8, max: 12 } } }] });
+    const res = await post(app, '/api/fit', {
+      stars: [{ name: 'Tarn', measurements, hints: { periodYears: { min: 8, max: 12 } } }],
+    });
     expect(res.status, await res.clone().text()).toBe(200);
-    const body = (await res.json()) as { parameters: { name: string; value: number; sigma: number }[]; residuals: unknown[]; covariance: { parameters: string[] }; reducedChi2: number };
+    const body = (await res.json()) as {
+      parameters: { name: string; value: number; sigma: number }[];
+      residuals: unknown[];
+      covariance: { parameters: string[] };
+      reducedChi2: number;
+    };
     expect(body.residuals).toHaveLength(measurements.length);
     expect(body.covariance.parameters).toContain('Tarn.eccentricity');
     const e = body.parameters.find((p) => p.name === 'Tarn.eccentricity')!;
@@ -33,19 +68,33 @@ describe('POST /api/fit (stateless)', () => {
   });
 
   it('answers 422 naming the field for a bad value, and 422 fit_refused when the data cannot constrain the orbit', async () => {
-    const bad = await post(app, '/api/fit', { stars: [{ name: 'Tarn', measurements: measurements.map((m, k) => (k === 1 ? { ...m, epoch: 'someday' } : m)) }] });
+    const bad = await post(app, '/api/fit', {
+      stars: [
+        {
+          name: 'Tarn',
+          measurements: measurements.map((m, k) => (k === 1 ? { ...m, epoch: 'someday' } : m)),
+        },
+      ],
+    });
     expect(bad.status).toBe(422);
-    expect(((await bad.json()) as { error: { details: { field: string } } }).error.details.field).toBe('stars.0.measurements.1.epoch');
-    const few = await post(app, '/api/fit', { stars: [{ name: 'Tarn', measurements: measurements.slice(0, 3) }] });
+    expect(
+      ((await bad.json()) as { error: { details: { field: string } } }).error.details.field,
+    ).toBe('stars.0.measurements.1.epoch');
+    const few = await post(app, '/api/fit', {
+      stars: [{ name: 'Tarn', measurements: measurements.slice(0, 3) }],
+    });
     expect(few.status).toBe(422);
-    const err = ((await few.json()) as { error: { code: string; details: { reason: string } } }).error;
+    const err = ((await few.json()) as { error: { code: string; details: { reason: string } } })
+      .error;
     expect(err.code).toBe('fit_refused');
     expect(err.details.reason).toBe('too-few-measurements');
     expect((await post(app, '/api/fit', { stars: [], lossy: 1 })).status).toBe(400); // unknown key and empty list: schema errors
   });
 
   it('documents the fit endpoints in the OpenAPI document', async () => {
-    const doc = (await (await createApp({ store: undefined }).request('/api/openapi.json')).json()) as { paths: Record<string, { post?: unknown }> };
+    const doc = (await (
+      await createApp({ store: undefined }).request('/api/openapi.json')
+    ).json()) as { paths: Record<string, { post?: unknown }> };
     expect(doc.paths['/fit']?.post).toBeDefined();
   });
 });
@@ -57,10 +106,16 @@ describe('fits of stored measurements (demo campaign)', () => {
   let viewer: string;
   beforeAll(async () => {
     dir = mkdtempSync(join(tmpdir(), 'epochwright-fit-'));
-    const started = await startStore({ url: `file:${join(dir, 'fit.db')}`, demo: true, today: '2026-12-01' });
+    const started = await startStore({
+      url: `file:${join(dir, 'fit.db')}`,
+      demo: true,
+      today: '2026-12-01',
+    });
     store = started.store;
     lead = started.firstLead!.secret;
-    viewer = (await store.users.createWithToken(LOCAL_OPERATOR, { name: 'fit viewer', role: 'viewer' })).secret;
+    viewer = (
+      await store.users.createWithToken(LOCAL_OPERATOR, { name: 'fit viewer', role: 'viewer' })
+    ).secret;
   });
   afterAll(() => {
     store.database.close();
@@ -73,7 +128,13 @@ describe('fits of stored measurements (demo campaign)', () => {
     const s2 = targets.find((t) => t.name === 'VC s2')!;
     const preview = await post(app, `/api/targets/${s2.id}/fit`, {}, viewer);
     expect(preview.status, await preview.clone().text()).toBe(200);
-    const pv = (await preview.json()) as { targets: { measurementIds: number[] }[]; result: { reducedChi2: number; stars: { quantities: { name: string; value: number; sigma: number }[] }[] } };
+    const pv = (await preview.json()) as {
+      targets: { measurementIds: number[] }[];
+      result: {
+        reducedChi2: number;
+        stars: { quantities: { name: string; value: number; sigma: number }[] }[];
+      };
+    };
     expect(pv.targets[0]!.measurementIds.length).toBeGreaterThan(7);
     // The demo's VC s2 has P = 9.6 yr (server/store/demo/scenario.ts, invented).
     const p = pv.result.stars[0]!.quantities.find((q) => q.name === 'periodYears')!;
@@ -81,20 +142,47 @@ describe('fits of stored measurements (demo campaign)', () => {
     expect((await post(app, `/api/targets/${s2.id}/fit/accept`, {}, viewer)).status).toBe(403);
     expect((await post(app, `/api/targets/${s2.id}/fit`, {})).status).toBe(401);
 
-    const accepted = await post(app, `/api/targets/${s2.id}/fit/accept`, { notes: 'first fitted solution' }, lead);
+    const accepted = await post(
+      app,
+      `/api/targets/${s2.id}/fit/accept`,
+      { notes: 'first fitted solution' },
+      lead,
+    );
     expect(accepted.status, await accepted.clone().text()).toBe(201);
-    const acc = (await accepted.json()) as { solutions: { id: number; version: number; current: boolean; provenance: string; fittedFrom: number[]; reference: string }[] };
+    const acc = (await accepted.json()) as {
+      solutions: {
+        id: number;
+        version: number;
+        current: boolean;
+        provenance: string;
+        fittedFrom: number[];
+        reference: string;
+      }[];
+    };
     expect(acc.solutions[0]!.current).toBe(true);
     expect(acc.solutions[0]!.provenance).toBe('fitted');
     expect(acc.solutions[0]!.fittedFrom).toEqual(pv.targets[0]!.measurementIds);
     expect(acc.solutions[0]!.reference).toMatch(/χ² = .* degrees of freedom/);
-    const doc = (await (await app.request('/api/openapi.json')).json()) as { paths: Record<string, unknown> };
-    for (const path of ['/targets/{id}/fit', '/targets/{id}/fit/accept', '/systems/{id}/fit', '/systems/{id}/fit/accept']) expect(Object.keys(doc.paths)).toContain(path);
-    const versions = (await store.orbitSolutions.list([])).items.filter((v) => v.targetId === s2.id);
+    const doc = (await (await app.request('/api/openapi.json')).json()) as {
+      paths: Record<string, unknown>;
+    };
+    for (const path of [
+      '/targets/{id}/fit',
+      '/targets/{id}/fit/accept',
+      '/systems/{id}/fit',
+      '/systems/{id}/fit/accept',
+    ])
+      expect(Object.keys(doc.paths)).toContain(path);
+    const versions = (await store.orbitSolutions.list([])).items.filter(
+      (v) => v.targetId === s2.id,
+    );
     expect(versions.length).toBe(2);
     expect(versions.filter((v) => v.current).map((v) => v.id)).toEqual([acc.solutions[0]!.id]);
     // The target's ephemeris now comes from the fitted solution, with its covariance.
-    const eph = await app.request(`/api/targets/${s2.id}/ephemeris?start=2027-01-01T00:00:00Z&end=2027-02-01T00:00:00Z&step=10d`, { headers: { authorization: `Bearer ${viewer}` } });
+    const eph = await app.request(
+      `/api/targets/${s2.id}/ephemeris?start=2027-01-01T00:00:00Z&end=2027-02-01T00:00:00Z&step=10d`,
+      { headers: { authorization: `Bearer ${viewer}` } },
+    );
     expect(eph.status, await eph.clone().text()).toBe(200);
     const ephBody = JSON.stringify(await eph.json());
     expect(ephBody).toContain(`"version":${acc.solutions[0]!.version}`);
@@ -106,9 +194,17 @@ describe('fits of stored measurements (demo campaign)', () => {
     const targets = (await store.targets.list([])).items as { id: number; name: string }[];
     const vesper = systems.find((s) => s.name === 'Vesper Core')!;
     const [s1, s2] = ['VC s1', 'VC s2'].map((n) => targets.find((t) => t.name === n)!.id);
-    const res = await post(app, `/api/systems/${vesper.id}/fit`, { relativity: {}, targetIds: [s1, s2] }, viewer);
+    const res = await post(
+      app,
+      `/api/systems/${vesper.id}/fit`,
+      { relativity: {}, targetIds: [s1, s2] },
+      viewer,
+    );
     expect(res.status, await res.clone().text()).toBe(200);
-    const body = (await res.json()) as { targets: unknown[]; result: { parameters: { name: string; value: number; sigma: number }[] } };
+    const body = (await res.json()) as {
+      targets: unknown[];
+      result: { parameters: { name: string; value: number; sigma: number }[] };
+    };
     expect(body.targets.length).toBe(2);
     const m = body.result.parameters.find((q) => q.name === 'massSolar')!;
     expect(Math.abs(m.value - 2.6e6)).toBeLessThan(3 * m.sigma); // scenario.ts: Vesper Core, 2.6 × 10⁶ M☉ (invented)
@@ -116,7 +212,10 @@ describe('fits of stored measurements (demo campaign)', () => {
     // orbits seen for seven years add little, but the shared mass and distance still come out.
     const all = await post(app, `/api/systems/${vesper.id}/fit`, { relativity: {} }, viewer);
     expect(all.status, await all.clone().text()).toBe(200);
-    const allBody = (await all.json()) as { targets: unknown[]; result: { parameters: { name: string; value: number; sigma: number }[] } };
+    const allBody = (await all.json()) as {
+      targets: unknown[];
+      result: { parameters: { name: string; value: number; sigma: number }[] };
+    };
     expect(allBody.targets.length).toBe(4);
     const m4 = allBody.result.parameters.find((q) => q.name === 'massSolar')!;
     const d4 = allBody.result.parameters.find((q) => q.name === 'distancePc')!;
@@ -124,6 +223,8 @@ describe('fits of stored measurements (demo campaign)', () => {
     expect(Math.abs(d4.value - 7400)).toBeLessThan(3 * d4.sigma); // scenario.ts: 7400 pc (invented)
     const wrong = await post(app, `/api/targets/${s1}/fit`, { measurementIds: [999999] }, viewer);
     expect(wrong.status).toBe(422);
-    expect(((await wrong.json()) as { error: { details: { field: string } } }).error.details.field).toBe('measurementIds.0');
+    expect(
+      ((await wrong.json()) as { error: { details: { field: string } } }).error.details.field,
+    ).toBe('measurementIds.0');
   });
 });

@@ -18,7 +18,9 @@ beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-plan-'));
   store = createStore(await openDatabase({ url: `file:${join(dir, 'plan.db')}` }));
   await loadDemo(store, LOCAL_OPERATOR, { today: '2026-12-01' });
-  token = (await store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan viewer', role: 'viewer' })).secret;
+  token = (
+    await store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan viewer', role: 'viewer' })
+  ).secret;
 });
 afterAll(() => {
   store.database.close();
@@ -28,9 +30,13 @@ afterAll(() => {
 describe('GET /api/campaigns/{id}/flags', () => {
   it('flags the demo periapsis months ahead with reasons', async () => {
     const app = createApp({ store });
-    const res = await app.request('/api/campaigns/1/flags?at=2026-12-01T00:00:00Z', { headers: { authorization: `Bearer ${token}` } });
+    const res = await app.request('/api/campaigns/1/flags?at=2026-12-01T00:00:00Z', {
+      headers: { authorization: `Bearer ${token}` },
+    });
     expect(res.status, await res.clone().text()).toBe(200);
-    const body = (await res.json()) as { flags: { kind: string; target: string; date: string; reason: string }[] };
+    const body = (await res.json()) as {
+      flags: { kind: string; target: string; date: string; reason: string }[];
+    };
     const peri = body.flags.find((f) => f.kind === 'periapsis-ahead' && f.target === 'VC s1')!;
     expect(peri.date.slice(0, 7)).toBe('2027-06'); // the demo scenario's periapsis of VC s1 (invented), Rømer delay included
     expect(peri.reason).toMatch(/within 365 days/);
@@ -43,7 +49,15 @@ describe('GET /api/campaigns/{id}/flags', () => {
     process.stdout.write = ((s: string) => (out.push(s), true)) as typeof process.stdout.write;
     let code: number;
     try {
-      code = await main(['flags', '--campaign', '1', '--at', '2026-12-01T00:00:00Z', '--database', `file:${join(dir, 'plan.db')}`]);
+      code = await main([
+        'flags',
+        '--campaign',
+        '1',
+        '--at',
+        '2026-12-01T00:00:00Z',
+        '--database',
+        `file:${join(dir, 'plan.db')}`,
+      ]);
     } finally {
       process.stdout.write = write;
     }

@@ -21,7 +21,13 @@ export const BACKENDS: Backend[] = [
     async open() {
       const dir = mkdtempSync(join(tmpdir(), 'epochwright-store-'));
       const store = createStore(await openDatabase({ url: `file:${join(dir, 'test.db')}` }));
-      return { store, cleanup: () => { store.database.close(); rmSync(dir, { recursive: true, force: true }); } };
+      return {
+        store,
+        cleanup: () => {
+          store.database.close();
+          rmSync(dir, { recursive: true, force: true });
+        },
+      };
     },
   },
   {
@@ -38,7 +44,9 @@ export async function tableCounts(store: Store): Promise<Record<string, number>>
   const out: Record<string, number> = {};
   for (const [name, table] of Object.entries(schema)) {
     if (typeof table !== 'object' || table === null || !('getSQL' in table)) continue;
-    const [{ n }] = (await store.db.select({ n: count() }).from(table as typeof schema.users)) as [{ n: number }];
+    const [{ n }] = (await store.db.select({ n: count() }).from(table as typeof schema.users)) as [
+      { n: number },
+    ];
     out[name] = n;
   }
   return out;
@@ -48,37 +56,115 @@ export interface Fixture {
   store: Store;
   app: ReturnType<typeof createApp>;
   tokens: { lead: string; observer: string; viewer: string };
-  ids: { system: number; target: number; site: number; campaign: number; night: number; block: number };
+  ids: {
+    system: number;
+    target: number;
+    site: number;
+    campaign: number;
+    night: number;
+    block: number;
+  };
   /** fetch through app.request with a role's token and JSON body. */
-  call(role: 'lead' | 'observer' | 'viewer' | null, method: string, path: string, body?: unknown): Promise<Response>;
+  call(
+    role: 'lead' | 'observer' | 'viewer' | null,
+    method: string,
+    path: string,
+    body?: unknown,
+  ): Promise<Response>;
 }
 
 export const ORBIT_S1 = {
-  elements: { periodYears: 14.2, periapsis: '2027-06-14T06:00:00Z', eccentricity: 0.87, semiMajorAxisArcsec: 0.109, inclinationDeg: 128, ascendingNodeDeg: 231, argPeriapsisDeg: 64 },
+  elements: {
+    periodYears: 14.2,
+    periapsis: '2027-06-14T06:00:00Z',
+    eccentricity: 0.87,
+    semiMajorAxisArcsec: 0.109,
+    inclinationDeg: 128,
+    ascendingNodeDeg: 231,
+    argPeriapsisDeg: 64,
+  },
   distancePc: 7400,
 };
 
 /** Users of each role and one of every entity, made through the store. */
-export async function fixture(store: Store, options: { maxBodyBytes?: number } = {}): Promise<Fixture> {
+export async function fixture(
+  store: Store,
+  options: { maxBodyBytes?: number } = {},
+): Promise<Fixture> {
   const a = LOCAL_OPERATOR;
   const tokens = {
     lead: (await store.users.createWithToken(a, { name: 'lead one', role: 'lead' })).secret,
-    observer: (await store.users.createWithToken(a, { name: 'observer one', role: 'observer' })).secret,
+    observer: (await store.users.createWithToken(a, { name: 'observer one', role: 'observer' }))
+      .secret,
     viewer: (await store.users.createWithToken(a, { name: 'viewer one', role: 'viewer' })).secret,
   };
-  const system = await store.systems.create(a, { name: 'Test Deep', raDeg: 263.8, decDeg: -21.7, distancePc: 7400 });
+  const system = await store.systems.create(a, {
+    name: 'Test Deep',
+    raDeg: 263.8,
+    decDeg: -21.7,
+    distancePc: 7400,
+  });
   const target = await store.targets.create(a, { systemId: system.id, name: 'T s1' });
   await store.orbitSolutions.create(a, { targetId: target.id, orbit: ORBIT_S1 });
-  const site = await store.sites.create(a, { name: 'Test Ridge', latitudeDeg: -24.9, longitudeDeg: -69.5, elevationM: 2700, timeZone: 'America/Santiago' });
-  const campaign = await store.campaigns.create(a, { name: 'Test campaign', startDate: '2027-01-01', endDate: '2027-12-31', goals: { cadenceDays: 14, kinds: ['astrometry'] }, targetIds: [target.id], siteIds: [site.id] });
-  const night = await store.nights.create(a, { siteId: site.id, campaignId: campaign.id, date: '2027-06-10' });
-  const block = await store.blocks.create(a, { nightId: night.id, targetId: target.id, kind: 'astrometry', startUtc: '2027-06-11T04:00:00Z', endUtc: '2027-06-11T05:00:00Z' });
-  const app = createApp({ store, ...(options.maxBodyBytes ? { maxBodyBytes: options.maxBodyBytes } : {}) });
-  const call = async (role: 'lead' | 'observer' | 'viewer' | null, method: string, path: string, body?: unknown) =>
+  const site = await store.sites.create(a, {
+    name: 'Test Ridge',
+    latitudeDeg: -24.9,
+    longitudeDeg: -69.5,
+    elevationM: 2700,
+    timeZone: 'America/Santiago',
+  });
+  const campaign = await store.campaigns.create(a, {
+    name: 'Test campaign',
+    startDate: '2027-01-01',
+    endDate: '2027-12-31',
+    goals: { cadenceDays: 14, kinds: ['astrometry'] },
+    targetIds: [target.id],
+    siteIds: [site.id],
+  });
+  const night = await store.nights.create(a, {
+    siteId: site.id,
+    campaignId: campaign.id,
+    date: '2027-06-10',
+  });
+  const block = await store.blocks.create(a, {
+    nightId: night.id,
+    targetId: target.id,
+    kind: 'astrometry',
+    startUtc: '2027-06-11T04:00:00Z',
+    endUtc: '2027-06-11T05:00:00Z',
+  });
+  const app = createApp({
+    store,
+    ...(options.maxBodyBytes ? { maxBodyBytes: options.maxBodyBytes } : {}),
+  });
+  const call = async (
+    role: 'lead' | 'observer' | 'viewer' | null,
+    method: string,
+    path: string,
+    body?: unknown,
+  ) =>
     app.request(path, {
       method,
-      headers: { ...(role ? { authorization: `Bearer ${tokens[role]}` } : {}), ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },
-      ...(body !== undefined ? { body: typeof body === 'string' ? body : JSON.stringify(body) } : {}),
+      headers: {
+        ...(role ? { authorization: `Bearer ${tokens[role]}` } : {}),
+        ...(body !== undefined ? { 'content-type': 'application/json' } : {}),
+      },
+      ...(body !== undefined
+        ? { body: typeof body === 'string' ? body : JSON.stringify(body) }
+        : {}),
     });
-  return { store, app, tokens, ids: { system: system.id, target: target.id, site: site.id, campaign: campaign.id, night: night.id, block: block.id }, call };
+  return {
+    store,
+    app,
+    tokens,
+    ids: {
+      system: system.id,
+      target: target.id,
+      site: site.id,
+      campaign: campaign.id,
+      night: night.id,
+      block: block.id,
+    },
+    call,
+  };
 }

@@ -10,7 +10,10 @@ const [path, rowsArg] = process.argv.slice(2);
 const n = Number(rowsArg);
 const store = createStore(await openDatabase({ url: `file:${path}` }));
 const lines = ['system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument'];
-for (let i = 0; i < n; i++) lines.push(`Crash Deep,C s1,radial-velocity,JD ${2461000 + i * 0.01},${(i % 400) - 200},5,crash spectrograph`);
+for (let i = 0; i < n; i++)
+  lines.push(
+    `Crash Deep,C s1,radial-velocity,JD ${2461000 + i * 0.01},${(i % 400) - 200},5,crash spectrograph`,
+  );
 process.stdout.write('started\n');
 await importCsv(store, LOCAL_OPERATOR, 'measurements', lines.join('\n'), {
   onRow: (i) => {

@@ -18,16 +18,26 @@ const ROWS = 6000;
 
 async function countMeasurements(path: string): Promise<{ n: number; integrity: string }> {
   const store = createStore(await openDatabase({ url: `file:${path}` }));
-  const n = Number((await store.database.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n);
-  const integrity = String((await store.database.client.execute('PRAGMA integrity_check')).rows[0]![0]);
+  const n = Number(
+    (await store.database.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n,
+  );
+  const integrity = String(
+    (await store.database.client.execute('PRAGMA integrity_check')).rows[0]![0],
+  );
   store.database.close();
   return { n, integrity };
 }
 
 /** Run the child; with `killAtRow`, SIGKILL it once it reports that row. */
-function runChild(path: string, killAtRow?: number): Promise<{ signal: NodeJS.Signals | null; code: number | null; out: string }> {
+function runChild(
+  path: string,
+  killAtRow?: number,
+): Promise<{ signal: NodeJS.Signals | null; code: number | null; out: string }> {
   return new Promise((done, fail) => {
-    const p = spawn(process.execPath, ['--import', 'tsx', child, path, String(ROWS)], { cwd: resolve(here, '../..'), stdio: ['ignore', 'pipe', 'pipe'] });
+    const p = spawn(process.execPath, ['--import', 'tsx', child, path, String(ROWS)], {
+      cwd: resolve(here, '../..'),
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
     let out = '';
     let err = '';
     p.stdout.on('data', (d: Buffer) => {
@@ -36,7 +46,11 @@ function runChild(path: string, killAtRow?: number): Promise<{ signal: NodeJS.Si
     });
     p.stderr.on('data', (d: Buffer) => (err += d.toString()));
     p.on('error', fail);
-    p.on('close', (code, signal) => (code !== 0 && signal === null ? fail(new Error(`child failed (${code}): ${err}`)) : done({ signal, code, out })));
+    p.on('close', (code, signal) =>
+      code !== 0 && signal === null
+        ? fail(new Error(`child failed (${code}): ${err}`))
+        : done({ signal, code, out }),
+    );
   });
 }
 
@@ -47,7 +61,11 @@ describe('an import killed mid-way', () => {
     dir = mkdtempSync(join(tmpdir(), 'epochwright-crash-'));
     for (const name of ['killed.db', 'finished.db']) {
       const store = createStore(await openDatabase({ url: `file:${db(name)}` }));
-      const system = await store.systems.create(LOCAL_OPERATOR, { name: 'Crash Deep', raDeg: 1, decDeg: 1 });
+      const system = await store.systems.create(LOCAL_OPERATOR, {
+        name: 'Crash Deep',
+        raDeg: 1,
+        decDeg: 1,
+      });
       await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'C s1' });
       store.database.close();
     }

@@ -27,7 +27,11 @@ let store: Store;
 let leadToken: string;
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-demo-'));
-  const started = await startStore({ url: `file:${join(dir, 'demo.db')}`, demo: true, today: '2026-12-01' });
+  const started = await startStore({
+    url: `file:${join(dir, 'demo.db')}`,
+    demo: true,
+    today: '2026-12-01',
+  });
   store = started.store;
   leadToken = started.firstLead!.secret;
 });
@@ -50,7 +54,8 @@ describe('the demo campaign', () => {
     let worst = 0;
     for (const s of solutions.items) {
       const m = physicalQuantities(validateOrbit(s.orbit)).massSolar;
-      const stated = s.orbit.distancePc === LANTERN.distancePc ? LANTERN.massSolar : VESPER.massSolar;
+      const stated =
+        s.orbit.distancePc === LANTERN.distancePc ? LANTERN.massSolar : VESPER.massSolar;
       worst = Math.max(worst, Math.abs(m / stated - 1));
     }
     console.log(`demo orbits: worst relative mass difference ${worst.toExponential(2)}`);
@@ -60,7 +65,10 @@ describe('the demo campaign', () => {
   it('has one star reaching periapsis within a year of 2026-12-01', async () => {
     const start = parseEpoch('2026-12-01T00:00Z');
     const passages = [];
-    for (const s of (await store.orbitSolutions.list([])).items) passages.push(...findEvents(validateOrbit(s.orbit), start, start + 365.25, { kinds: ['periapsis'] }));
+    for (const s of (await store.orbitSolutions.list([])).items)
+      passages.push(
+        ...findEvents(validateOrbit(s.orbit), start, start + 365.25, { kinds: ['periapsis'] }),
+      );
     expect(passages.length).toBe(1); // the issue asks for one star approaching periapsis within the next year
   });
 
@@ -78,7 +86,9 @@ describe('the demo campaign', () => {
         highest = Math.max(highest, Horizon(new Date(t), observer, sun.ra, sun.dec).altitude);
       }
     }
-    console.log(`demo blocks: ${blocks.length}, highest Sun altitude at a block edge ${highest.toFixed(1)}°`);
+    console.log(
+      `demo blocks: ${blocks.length}, highest Sun altitude at a block edge ${highest.toFixed(1)}°`,
+    );
     expect(highest).toBeLessThan(-18); // astronomical twilight limit (Explanatory Supplement to the Astronomical Almanac, via REFERENCES.md); Sun from astronomy-engine
   });
 });
@@ -93,25 +103,40 @@ describe('the campaign iCalendar feed', () => {
     const lines = text.split('\r\n');
     expect(text.replace(/\r\n/g, '')).not.toMatch(/[\r\n]/); // RFC 5545 §3.1: lines end in CRLF
     expect(Math.max(...lines.map((l) => Buffer.byteLength(l, 'utf8')))).toBeLessThanOrEqual(75); // RFC 5545 §3.1: at most 75 octets a line
-    for (const l of lines.filter((x) => /^DT(START|END|STAMP)/.test(x))) expect(l).toMatch(/:\d{8}T\d{6}Z$/); // RFC 5545 §3.3.5 form 2, UTC time
-    const parsed = Object.values(ical.sync.parseICS(text)).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
+    for (const l of lines.filter((x) => /^DT(START|END|STAMP)/.test(x)))
+      expect(l).toMatch(/:\d{8}T\d{6}Z$/); // RFC 5545 §3.3.5 form 2, UTC time
+    const parsed = Object.values(ical.sync.parseICS(text)).filter(
+      (c) => c?.type === 'VEVENT',
+    ) as ical.VEvent[];
     const uids = parsed.map((e) => e.uid);
     expect(new Set(uids).size).toBe(uids.length); // RFC 5545 §3.8.4.7: UID unique
     const blocks = await store.blocks.list([], { limit: 500 });
-    const campaignBlocks = (await store.nights.list([], { limit: 500 })).items.filter((n) => n.campaignId === 1).map((n) => n.id);
+    const campaignBlocks = (await store.nights.list([], { limit: 500 })).items
+      .filter((n) => n.campaignId === 1)
+      .map((n) => n.id);
     const expectedBlocks = blocks.items.filter((b) => campaignBlocks.includes(b.nightId)).length;
     const periapsis = parsed.filter((e) => String(e.summary).startsWith('Periapsis'));
     const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
     expect(parsed.length - periapsis.length - flagEvents.length).toBe(expectedBlocks); // every block of the campaign, from the store
     const s1 = periapsis.find((e) => String(e.summary).includes('VC s1'))!;
-    const engine = findEvents(validateOrbit((await store.orbitSolutions.list([])).items[0]!.orbit), parseEpoch('2027-01-01T00:00Z'), parseEpoch('2028-01-01T00:00Z'), { kinds: ['periapsis'] })[0]!;
+    const engine = findEvents(
+      validateOrbit((await store.orbitSolutions.list([])).items[0]!.orbit),
+      parseEpoch('2027-01-01T00:00Z'),
+      parseEpoch('2028-01-01T00:00Z'),
+      { kinds: ['periapsis'] },
+    )[0]!;
     expect(Math.abs(new Date(s1.start).getTime() - Date.parse(engine.epoch))).toBeLessThan(1000); // the orbit engine's passage, as node-ical reads it back (1 s: iCalendar has whole seconds)
   });
 
   it('carries the campaign’s flags at a given moment, as node-ical reads them back', async () => {
     const atJd = parseEpoch('2026-12-01T00:00:00Z');
-    const text = await campaignCalendar(store.db, 1, { flagsAtJd: atJd, stampMs: Date.parse('2026-12-01T00:00:00Z') });
-    const parsed = Object.values(ical.sync.parseICS(text)).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
+    const text = await campaignCalendar(store.db, 1, {
+      flagsAtJd: atJd,
+      stampMs: Date.parse('2026-12-01T00:00:00Z'),
+    });
+    const parsed = Object.values(ical.sync.parseICS(text)).filter(
+      (c) => c?.type === 'VEVENT',
+    ) as ical.VEvent[];
     const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
     const { flags } = await campaignFlags(store.db, 1, { nowJd: atJd });
     expect(flagEvents.length).toBe(flags.length); // one event per flag of the planning engine (flags endpoint)
@@ -127,19 +152,32 @@ describe('the feed’s flags at a chosen moment', () => {
   it('computes the flags for ?at=, and refuses a bad at naming it', async () => {
     const app = createApp({ store });
     const flagsOf = async (at: string) => {
-      const res = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}&at=${encodeURIComponent(at)}`);
+      const res = await app.request(
+        `/api/campaigns/1/calendar.ics?token=${leadToken}&at=${encodeURIComponent(at)}`,
+      );
       expect(res.status).toBe(200);
-      return (Object.values(ical.sync.parseICS(await res.text())).filter((c) => c?.type === 'VEVENT') as ical.VEvent[]).filter((e) => String(e.summary).startsWith('Flag')).map((e) => String(e.summary)).sort();
+      return (
+        Object.values(ical.sync.parseICS(await res.text())).filter(
+          (c) => c?.type === 'VEVENT',
+        ) as ical.VEvent[]
+      )
+        .filter((e) => String(e.summary).startsWith('Flag'))
+        .map((e) => String(e.summary))
+        .sort();
     };
     for (const at of ['2026-12-01T00:00:00Z', '2027-07-01T00:00:00Z']) {
       const { flags } = await campaignFlags(store.db, 1, { nowJd: parseEpoch(at) });
-      expect(await flagsOf(at)).toEqual(flags.map((f) => `Flag, ${f.kind.replace(/-/g, ' ')}: ${f.target}`).sort()); // the planning engine's flags at that moment (flags endpoint)
+      expect(await flagsOf(at)).toEqual(
+        flags.map((f) => `Flag, ${f.kind.replace(/-/g, ' ')}: ${f.target}`).sort(),
+      ); // the planning engine's flags at that moment (flags endpoint)
     }
     expect(await flagsOf('2026-12-01T00:00:00Z')).toContain('Flag, periapsis ahead: VC s1'); // demo periapsis of VC s1 on 2027-06-14 (invented), within the flags' year ahead
     expect(await flagsOf('2027-07-01T00:00:00Z')).not.toContain('Flag, periapsis ahead: VC s1'); // passed by then; the next is 14.2 yr later (demo period, invented)
     const bad = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}&at=someday`);
     expect(bad.status).toBe(422); // a value that breaks a rule (DESIGN.md errors)
-    expect(((await bad.json()) as { error: { details: { field: string } } }).error.details.field).toBe('at');
+    expect(
+      ((await bad.json()) as { error: { details: { field: string } } }).error.details.field,
+    ).toBe('at');
   });
 });
 
@@ -151,7 +189,8 @@ describe('exports and imports', () => {
     for (const sys of (await store.systems.list([])).items) {
       const { id: _id, createdAt: _c, updatedAt: _u, ...input } = sys;
       const made = await copy.systems.create(LOCAL_OPERATOR, input);
-      for (const t of (await store.targets.list([])).items.filter((x) => x.systemId === sys.id)) await copy.targets.create(LOCAL_OPERATOR, { systemId: made.id, name: t.name });
+      for (const t of (await store.targets.list([])).items.filter((x) => x.systemId === sys.id))
+        await copy.targets.create(LOCAL_OPERATOR, { systemId: made.id, name: t.name });
     }
     const dry = await importCsv(copy, LOCAL_OPERATOR, 'measurements', csv, { dryRun: true });
     expect([dry.rows, dry.written]).toEqual([rows.length, 0]); // a dry run writes nothing
@@ -159,29 +198,54 @@ describe('exports and imports', () => {
     const report = await importCsv(copy, LOCAL_OPERATOR, 'measurements', csv);
     expect(report.written).toBe(rows.length);
     const back = await measurementsForExport(copy.db, []);
-    const strip = (r: (typeof rows)[number]) => ({ ...r, id: 0, targetId: 0, blockId: null, createdAt: '', updatedAt: '' });
+    const strip = (r: (typeof rows)[number]) => ({
+      ...r,
+      id: 0,
+      targetId: 0,
+      blockId: null,
+      createdAt: '',
+      updatedAt: '',
+    });
     expect(back.map(strip)).toEqual(rows.map(strip)); // every value as exported
     copy.database.close();
   });
 
   it('imports orbit solutions from CSV as new current versions', async () => {
-    const csv = ['system,target,periodYears,periapsis,eccentricity,semiMajorAxisArcsec,inclinationDeg,ascendingNodeDeg,argPeriapsisDeg,distancePc,relativity,reference', 'Vesper Core,VC s2,9.61,J2024.21,0.62,0.0839,42,110,300,7400,gravitationalRedshift;transverseDoppler,CSV test'].join('\n');
+    const csv = [
+      'system,target,periodYears,periapsis,eccentricity,semiMajorAxisArcsec,inclinationDeg,ascendingNodeDeg,argPeriapsisDeg,distancePc,relativity,reference',
+      'Vesper Core,VC s2,9.61,J2024.21,0.62,0.0839,42,110,300,7400,gravitationalRedshift;transverseDoppler,CSV test',
+    ].join('\n');
     const report = await importCsv(store, LOCAL_OPERATOR, 'orbits', csv);
     expect(report.written).toBe(1);
-    const current = (await store.orbitSolutions.list([])).items.filter((s) => s.current && s.reference === 'CSV test');
-    expect(current.map((s) => [s.version, s.provenance, s.orbit.relativity])).toEqual([[2, 'imported', { gravitationalRedshift: true, transverseDoppler: true }]]); // values of the CSV row above
+    const current = (await store.orbitSolutions.list([])).items.filter(
+      (s) => s.current && s.reference === 'CSV test',
+    );
+    expect(current.map((s) => [s.version, s.provenance, s.orbit.relativity])).toEqual([
+      [2, 'imported', { gravitationalRedshift: true, transverseDoppler: true }],
+    ]); // values of the CSV row above
   });
 
   it('backs up a consistent copy while writes go on', async () => {
     const writes = (async () => {
-      for (let i = 0; i < 40; i++) await store.systems.create(LOCAL_OPERATOR, { name: `Backup Test ${i}`, raDeg: i, decDeg: 0 });
+      for (let i = 0; i < 40; i++)
+        await store.systems.create(LOCAL_OPERATOR, {
+          name: `Backup Test ${i}`,
+          raDeg: i,
+          decDeg: 0,
+        });
     })();
     const path = await backupDatabase(store.database, join(dir, 'copy.db'));
     await writes;
     const copy = await openDatabase({ url: `file:${path}` });
     expect(String((await copy.client.execute('PRAGMA integrity_check')).rows[0]![0])).toBe('ok'); // sqlite.org PRAGMA integrity_check (from memory)
     const n = Number((await copy.client.execute('SELECT count(*) AS n FROM systems')).rows[0]!.n);
-    const audited = Number((await copy.client.execute("SELECT count(*) AS n FROM audit_trail WHERE entity = 'system' AND action = 'create'")).rows[0]!.n);
+    const audited = Number(
+      (
+        await copy.client.execute(
+          "SELECT count(*) AS n FROM audit_trail WHERE entity = 'system' AND action = 'create'",
+        )
+      ).rows[0]!.n,
+    );
     expect(n).toBe(audited); // one instant: every system in the copy has its audit entry, and no more
     copy.close();
     await expect(backupDatabase(store.database, path)).rejects.toThrow(/already exists/);
@@ -191,20 +255,36 @@ describe('exports and imports', () => {
 describe('a stored night’s visibility', () => {
   it('reports darkness as astronomy-engine finds it, the campaign’s targets, and the laser caution', async () => {
     const app = createApp({ store });
-    const night = (await store.nights.list([], { limit: 500 })).items.find((n) => n.date === '2027-06-12' && n.siteId === 1)!;
-    const res = await app.request(`/api/nights/${night.id}/visibility`, { headers: { authorization: `Bearer ${leadToken}` } });
+    const night = (await store.nights.list([], { limit: 500 })).items.find(
+      (n) => n.date === '2027-06-12' && n.siteId === 1,
+    )!;
+    const res = await app.request(`/api/nights/${night.id}/visibility`, {
+      headers: { authorization: `Bearer ${leadToken}` },
+    });
     expect(res.status).toBe(200);
-    const report = (await res.json()) as { darkness: { hours: number }; targets: { name: string; observableHours: number }[]; cautions: string[]; constraints: { horizonMask: boolean } };
+    const report = (await res.json()) as {
+      darkness: { hours: number };
+      targets: { name: string; observableHours: number }[];
+      cautions: string[];
+      constraints: { horizonMask: boolean };
+    };
     expect(report.constraints.horizonMask).toBe(true); // scenario.ts gives Tolvane Ridge a stored horizon mask, and the view uses it
-    const site = (await store.sites.get(night.siteId));
+    const site = await store.sites.get(night.siteId);
     const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
     const noon = new Date('2027-06-12T16:00:00Z'); // local noon in America/Santiago (UTC−4 in June)
     const dusk = SearchAltitude(Body.Sun, observer, -1, noon, 1, -18)!;
     const dawn = SearchAltitude(Body.Sun, observer, +1, dusk, 1, -18)!;
     const hours = (dawn.date.getTime() - dusk.date.getTime()) / 3_600_000;
-    console.log(`night ${night.date}: darkness ${report.darkness.hours.toFixed(3)} h, astronomy-engine ${hours.toFixed(3)} h`);
+    console.log(
+      `night ${night.date}: darkness ${report.darkness.hours.toFixed(3)} h, astronomy-engine ${hours.toFixed(3)} h`,
+    );
     expect(Math.abs(report.darkness.hours - hours)).toBeLessThan(0.02); // astronomy-engine SearchAltitude at −18° (astronomical twilight); ~1 min
-    expect(report.targets.map((t) => t.name)).toEqual(['VC s1 (Vesper Core)', 'VC s2 (Vesper Core)', 'VC s3 (Vesper Core)', 'VC s4 (Vesper Core)']); // the campaign's targets (scenario.ts)
+    expect(report.targets.map((t) => t.name)).toEqual([
+      'VC s1 (Vesper Core)',
+      'VC s2 (Vesper Core)',
+      'VC s3 (Vesper Core)',
+      'VC s4 (Vesper Core)',
+    ]); // the campaign's targets (scenario.ts)
     expect(report.targets[0]!.observableHours).toBeGreaterThan(4); // declination −22° at latitude −25° in June culminates near the zenith at night (common practice, no source)
     expect(report.cautions.some((c) => c.includes('laser'))).toBe(true); // the site runs a laser guide star
   });

@@ -3,5 +3,12 @@ import { expect, it } from 'vitest';
 import * as store from '../../server/store/index.ts';
 
 it('exports exactly the store entry points', () => {
-  expect(Object.keys(store).sort()).toEqual(['ConflictError', 'LOCAL_OPERATOR', 'NotFoundError', 'createStore', 'openDatabase', 'resolveDatabaseUrl']); // server/store/index.ts as designed
+  expect(Object.keys(store).sort()).toEqual([
+    'ConflictError',
+    'LOCAL_OPERATOR',
+    'NotFoundError',
+    'createStore',
+    'openDatabase',
+    'resolveDatabaseUrl',
+  ]); // server/store/index.ts as designed
 });

@@ -24,26 +24,45 @@ it('upgrades a database made by migration 0000 alone, keeping its rows', async (
   // The migrations folder as it stood before 0001: the first journal entry only.
   const old = join(dir, 'migrations-0000');
   cpSync(MIGRATIONS_FOLDER, old, { recursive: true });
-  const journal = JSON.parse(readFileSync(join(old, 'meta/_journal.json'), 'utf8')) as { entries: { tag: string }[] };
+  const journal = JSON.parse(readFileSync(join(old, 'meta/_journal.json'), 'utf8')) as {
+    entries: { tag: string }[];
+  };
   expect(journal.entries[1]?.tag).toMatch(/^0001_/); // the migration under test exists
-  writeFileSync(join(old, 'meta/_journal.json'), JSON.stringify({ ...journal, entries: journal.entries.slice(0, 1) }));
+  writeFileSync(
+    join(old, 'meta/_journal.json'),
+    JSON.stringify({ ...journal, entries: journal.entries.slice(0, 1) }),
+  );
   const url = `file:${join(dir, 'old.db')}`;
   const client = createClient({ url });
   await migrate(drizzle(client), { migrationsFolder: old });
   const now = '2026-01-01T00:00:00.000Z';
-  await client.execute({ sql: 'INSERT INTO systems (name, ra_deg, dec_deg, pm_ra_mas_yr, pm_dec_mas_yr, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)', args: ['Old Deep', 10, 20, 5, -5, now, now] });
-  await client.execute({ sql: 'INSERT INTO sites (name, latitude_deg, longitude_deg, elevation_m, time_zone, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)', args: ['Old Ridge', -30, -70, 2400, 'America/Santiago', now, now] });
+  await client.execute({
+    sql: 'INSERT INTO systems (name, ra_deg, dec_deg, pm_ra_mas_yr, pm_dec_mas_yr, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)',
+    args: ['Old Deep', 10, 20, 5, -5, now, now],
+  });
+  await client.execute({
+    sql: 'INSERT INTO sites (name, latitude_deg, longitude_deg, elevation_m, time_zone, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)',
+    args: ['Old Ridge', -30, -70, 2400, 'America/Santiago', now, now],
+  });
   client.close();
 
   const store = createStore(await openDatabase({ url }));
   try {
     const [system] = (await store.systems.list([])).items;
     const [site] = (await store.sites.list([])).items;
-    expect(system).toMatchObject({ name: 'Old Deep', pmRaMasYr: 5, positionEpoch: '2000-01-01T12:00:00.000Z' }); // J2000.0 = JD 2451545.0 (IAU 1976 standard epoch, from memory): the store's assumption before 0001
+    expect(system).toMatchObject({
+      name: 'Old Deep',
+      pmRaMasYr: 5,
+      positionEpoch: '2000-01-01T12:00:00.000Z',
+    }); // J2000.0 = JD 2451545.0 (IAU 1976 standard epoch, from memory): the store's assumption before 0001
     expect(site).toMatchObject({ name: 'Old Ridge', horizonMask: [] }); // a flat horizon, as before 0001
-    const patched = await store.sites.update(LOCAL_OPERATOR, site!.id, { horizonMask: [{ azimuthDeg: 180, altitudeDeg: 25 }] });
+    const patched = await store.sites.update(LOCAL_OPERATOR, site!.id, {
+      horizonMask: [{ azimuthDeg: 180, altitudeDeg: 25 }],
+    });
     expect(patched.horizonMask).toEqual([{ azimuthDeg: 180, altitudeDeg: 25 }]); // the value sent
-    expect((await store.systems.update(LOCAL_OPERATOR, system!.id, { notes: 'kept' })).positionEpoch).toBe('2000-01-01T12:00:00.000Z'); // unchanged by an unrelated patch
+    expect(
+      (await store.systems.update(LOCAL_OPERATOR, system!.id, { notes: 'kept' })).positionEpoch,
+    ).toBe('2000-01-01T12:00:00.000Z'); // unchanged by an unrelated patch
   } finally {
     store.database.close();
   }
@@ -53,30 +72,72 @@ it('upgrades a database made before migration 0002: blocks get their origin and 
   // The migrations folder as it stood before 0002: the first two journal entries.
   const old = join(dir, 'migrations-0001');
   cpSync(MIGRATIONS_FOLDER, old, { recursive: true });
-  const journal = JSON.parse(readFileSync(join(old, 'meta/_journal.json'), 'utf8')) as { entries: { tag: string }[] };
+  const journal = JSON.parse(readFileSync(join(old, 'meta/_journal.json'), 'utf8')) as {
+    entries: { tag: string }[];
+  };
   expect(journal.entries[2]?.tag).toMatch(/^0002_/); // the migration under test exists
-  writeFileSync(join(old, 'meta/_journal.json'), JSON.stringify({ ...journal, entries: journal.entries.slice(0, 2) }));
+  writeFileSync(
+    join(old, 'meta/_journal.json'),
+    JSON.stringify({ ...journal, entries: journal.entries.slice(0, 2) }),
+  );
   const url = `file:${join(dir, 'old-blocks.db')}`;
   const client = createClient({ url });
   await migrate(drizzle(client), { migrationsFolder: old });
   const now = '2026-01-01T00:00:00.000Z';
-  await client.execute({ sql: 'INSERT INTO systems (name, ra_deg, dec_deg, created_at, updated_at) VALUES (?, ?, ?, ?, ?)', args: ['Old Deep', 10, 20, now, now] });
-  await client.execute({ sql: 'INSERT INTO targets (system_id, name, created_at, updated_at) VALUES (1, ?, ?, ?)', args: ['O s1', now, now] });
-  await client.execute({ sql: 'INSERT INTO sites (name, latitude_deg, longitude_deg, elevation_m, time_zone, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)', args: ['Old Ridge', -30, -70, 2400, 'America/Santiago', now, now] });
-  await client.execute({ sql: 'INSERT INTO nights (site_id, date, created_at, updated_at) VALUES (1, ?, ?, ?)', args: ['2027-06-10', now, now] });
+  await client.execute({
+    sql: 'INSERT INTO systems (name, ra_deg, dec_deg, created_at, updated_at) VALUES (?, ?, ?, ?, ?)',
+    args: ['Old Deep', 10, 20, now, now],
+  });
+  await client.execute({
+    sql: 'INSERT INTO targets (system_id, name, created_at, updated_at) VALUES (1, ?, ?, ?)',
+    args: ['O s1', now, now],
+  });
+  await client.execute({
+    sql: 'INSERT INTO sites (name, latitude_deg, longitude_deg, elevation_m, time_zone, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)',
+    args: ['Old Ridge', -30, -70, 2400, 'America/Santiago', now, now],
+  });
+  await client.execute({
+    sql: 'INSERT INTO nights (site_id, date, created_at, updated_at) VALUES (1, ?, ?, ?)',
+    args: ['2027-06-10', now, now],
+  });
   // The notes the accepts wrote before 0002 (season-plan.ts, night-plan.ts), and a block a person made.
-  const notes = ['season plan 0123456789abcdef (cadence): keeps every gap within 14 d', 'night schedule 0123456789abcdef: O s1:astrometry', 'night schedule 0123456789abcdef: O s1:spectroscopy (pinned)', 'moved by hand after the season plan'];
+  const notes = [
+    'season plan 0123456789abcdef (cadence): keeps every gap within 14 d',
+    'night schedule 0123456789abcdef: O s1:astrometry',
+    'night schedule 0123456789abcdef: O s1:spectroscopy (pinned)',
+    'moved by hand after the season plan',
+  ];
   for (const [k, n] of notes.entries()) {
-    await client.execute({ sql: 'INSERT INTO blocks (night_id, target_id, kind, start_utc, end_utc, notes, created_at, updated_at) VALUES (1, 1, ?, ?, ?, ?, ?, ?)', args: ['astrometry', `2027-06-11T0${k}:00:00.000Z`, `2027-06-11T0${k}:30:00.000Z`, n, now, now] });
+    await client.execute({
+      sql: 'INSERT INTO blocks (night_id, target_id, kind, start_utc, end_utc, notes, created_at, updated_at) VALUES (1, 1, ?, ?, ?, ?, ?, ?)',
+      args: [
+        'astrometry',
+        `2027-06-11T0${k}:00:00.000Z`,
+        `2027-06-11T0${k}:30:00.000Z`,
+        n,
+        now,
+        now,
+      ],
+    });
   }
   client.close();
 
   const store = createStore(await openDatabase({ url }));
   try {
     const rows = (await store.blocks.list([])).items.map((b) => [b.origin, b.pinned]);
-    expect(rows).toEqual([['season-plan', false], ['night-schedule', false], ['night-schedule', true], ['by-hand', false]]); // the rule of migration 0002: plan-written notes name their origin; anything else is kept as made by hand
+    expect(rows).toEqual([
+      ['season-plan', false],
+      ['night-schedule', false],
+      ['night-schedule', true],
+      ['by-hand', false],
+    ]); // the rule of migration 0002: plan-written notes name their origin; anything else is kept as made by hand
     const [first] = (await store.blocks.list([])).items;
-    const patched = await store.blocks.update(LOCAL_OPERATOR, first!.id, { pinned: true }, first!.version);
+    const patched = await store.blocks.update(
+      LOCAL_OPERATOR,
+      first!.id,
+      { pinned: true },
+      first!.version,
+    );
     expect([patched.origin, patched.pinned]).toEqual(['season-plan', true]); // a pin changes the pin, not who made the block
   } finally {
     store.database.close();

@@ -2,7 +2,14 @@
 declare module 'astronomia' {
   export const binary: {
     meanAnomaly(year: number, T: number, P: number): number;
-    position(a: number, e: number, i: number, node: number, omega: number, E: number): [number, number];
+    position(
+      a: number,
+      e: number,
+      i: number,
+      node: number,
+      omega: number,
+      E: number,
+    ): [number, number];
   };
   export const kepler: {
     kepler3(e: number, m: number): number;

@@ -51,7 +51,15 @@ export function skyTarget(cat: Catalogue, targetId: number) {
   const s = t && cat.system(t.systemId);
   if (!t || !s) return null;
   const orbit = cat.currentSolution(targetId)?.orbit;
-  return { name: t.name, raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, epoch: s.positionEpoch, ...(orbit ? { orbit } : {}) };
+  return {
+    name: t.name,
+    raDeg: s.raDeg,
+    decDeg: s.decDeg,
+    pmRaMasYr: s.pmRaMasYr,
+    pmDecMasYr: s.pmDecMasYr,
+    epoch: s.positionEpoch,
+    ...(orbit ? { orbit } : {}),
+  };
 }
 
 /** The sky engine's site shape for a stored site, with its horizon mask. */

@@ -24,10 +24,19 @@ export function usePath(): string {
 
 /** Follow same-origin links without a page load (modifier clicks still open new tabs). */
 export function interceptLinks(e: MouseEvent): void {
-  if (e.defaultPrevented || e.button !== 0 || e.metaKey || e.ctrlKey || e.shiftKey || e.altKey) return;
+  if (e.defaultPrevented || e.button !== 0 || e.metaKey || e.ctrlKey || e.shiftKey || e.altKey)
+    return;
   const a = (e.target as Element).closest?.('a');
   const href = a?.getAttribute('href');
-  if (!a || !href || !href.startsWith('/') || href.startsWith('/api') || a.hasAttribute('download') || a.target) return;
+  if (
+    !a ||
+    !href ||
+    !href.startsWith('/') ||
+    href.startsWith('/api') ||
+    a.hasAttribute('download') ||
+    a.target
+  )
+    return;
   e.preventDefault();
   navigate(href);
 }

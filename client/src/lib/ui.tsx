@@ -16,21 +16,58 @@ export function useCan(role: Role): boolean {
 
 export function ErrorLine({ error }: { error: unknown }) {
   if (!error) return null;
-  const text = error instanceof ApiError ? `${error.message} (${error.status} ${error.code})` : error instanceof Error ? error.message : String(error);
-  return <p class="error-line" role="alert">{text}</p>;
+  const text =
+    error instanceof ApiError
+      ? `${error.message} (${error.status} ${error.code})`
+      : error instanceof Error
+        ? error.message
+        : String(error);
+  return (
+    <p class="error-line" role="alert">
+      {text}
+    </p>
+  );
 }
 
 export function Loading({ what }: { what: string }) {
-  return <p class="loading" aria-live="polite">Loading {what}…</p>;
+  return (
+    <p class="loading" aria-live="polite">
+      Loading {what}…
+    </p>
+  );
 }
 
 /** A number with its unit, or an en dash when missing. */
-export function Qty({ v, unit, digits = 1 }: { v: number | null | undefined; unit: string; digits?: number }) {
-  if (v === null || v === undefined || !Number.isFinite(v)) return <span class="qty missing">–</span>;
-  return <span class="qty">{v.toFixed(digits)}{unit ? <span class="unit">{unit.startsWith('°') || unit === '%' ? unit : ` ${unit}`}</span> : null}</span>;
+export function Qty({
+  v,
+  unit,
+  digits = 1,
+}: {
+  v: number | null | undefined;
+  unit: string;
+  digits?: number;
+}) {
+  if (v === null || v === undefined || !Number.isFinite(v))
+    return <span class="qty missing">–</span>;
+  return (
+    <span class="qty">
+      {v.toFixed(digits)}
+      {unit ? (
+        <span class="unit">{unit.startsWith('°') || unit === '%' ? unit : ` ${unit}`}</span>
+      ) : null}
+    </span>
+  );
 }
 
-export function Section({ title, children, id }: { title: string; children: ComponentChildren; id?: string }) {
+export function Section({
+  title,
+  children,
+  id,
+}: {
+  title: string;
+  children: ComponentChildren;
+  id?: string;
+}) {
   return (
     <section class="panel" id={id} aria-labelledby={id ? `${id}-h` : undefined}>
       <h2 id={id ? `${id}-h` : undefined}>{title}</h2>
@@ -41,5 +78,12 @@ export function Section({ title, children, id }: { title: string; children: Comp
 
 /** Safety notes are shown verbatim and never hidden behind a toggle. */
 export function Caution({ children }: { children: ComponentChildren }) {
-  return <p class="caution" role="note"><span class="caution-mark" aria-hidden="true">!</span> {children}</p>;
+  return (
+    <p class="caution" role="note">
+      <span class="caution-mark" aria-hidden="true">
+        !
+      </span>{' '}
+      {children}
+    </p>
+  );
 }

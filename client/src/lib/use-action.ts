@@ -7,7 +7,10 @@ import { useState } from 'preact/hooks';
 export function useAction() {
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<unknown>(null);
-  const run = async (action: () => Promise<void>, reword: (e: unknown) => unknown = (e) => e): Promise<void> => {
+  const run = async (
+    action: () => Promise<void>,
+    reword: (e: unknown) => unknown = (e) => e,
+  ): Promise<void> => {
     setBusy(true);
     setError(null);
     try {

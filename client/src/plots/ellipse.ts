@@ -15,7 +15,11 @@ export interface ErrorEllipse {
  * Ellipse of the covariance [[σα², ρσασδ], [ρσασδ, σδ²]] of (Δα*, Δδ), east positive and north positive.
  * The eigenvector (e, n) of the larger eigenvalue points along the major axis; its position angle is atan2(e, n).
  */
-export function offsetsEllipse(sigmaRaMas: number, sigmaDecMas: number, correlation = 0): ErrorEllipse {
+export function offsetsEllipse(
+  sigmaRaMas: number,
+  sigmaDecMas: number,
+  correlation = 0,
+): ErrorEllipse {
   const a = sigmaRaMas * sigmaRaMas;
   const d = sigmaDecMas * sigmaDecMas;
   const b = correlation * sigmaRaMas * sigmaDecMas;
@@ -45,7 +49,12 @@ export function offsetsEllipse(sigmaRaMas: number, sigmaDecMas: number, correlat
  * A separation and position angle measurement as offsets with its error ellipse: the separation
  * error lies along the radius (at the position angle), the angle error across it (σθ·ρ, θ in radians).
  */
-export function separationToOffsets(separationMas: number, paDeg: number, sigmaSepMas: number, sigmaPaDeg: number): { dRaMas: number; dDecMas: number; ellipse: ErrorEllipse } {
+export function separationToOffsets(
+  separationMas: number,
+  paDeg: number,
+  sigmaSepMas: number,
+  sigmaPaDeg: number,
+): { dRaMas: number; dDecMas: number; ellipse: ErrorEllipse } {
   const t = (paDeg * Math.PI) / 180;
   const across = separationMas * ((sigmaPaDeg * Math.PI) / 180);
   const radialIsMajor = sigmaSepMas >= across;

@@ -13,7 +13,7 @@ export function runs(n: number, above: (k: number) => boolean): [number, number]
   for (let k = 0; k <= n; k++) {
     const on = k < n && above(k);
     if (on && start < 0) start = k;
-    if (!on && start >= 0) (out.push([start, k - 1]), (start = -1));
+    if (!on && start >= 0) out.push([start, k - 1]), (start = -1);
   }
   return out;
 }
@@ -48,7 +48,14 @@ export function moonAbovePath(tMs: number[], altDeg: number[], x: Map1, y: Map1)
  * the mask, not the limit, decides. An edge set by the target's rising or setting stops at the
  * last sample above the horizon; an edge set by the mask is interpolated to the limit.
  */
-export function maskAboveLimitPaths(tMs: number[], maskDeg: number[], targetAltDeg: number[], limitDeg: number, x: Map1, y: Map1): string[] {
+export function maskAboveLimitPaths(
+  tMs: number[],
+  maskDeg: number[],
+  targetAltDeg: number[],
+  limitDeg: number,
+  x: Map1,
+  y: Map1,
+): string[] {
   const n = Math.min(tMs.length, maskDeg.length, targetAltDeg.length);
   const up = (k: number) => targetAltDeg[k]! > 0;
   const pt = (t: number, a: number) => `${x(t).toFixed(1)},${y(a).toFixed(1)}`;

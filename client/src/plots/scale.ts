@@ -36,7 +36,8 @@ export function ticks(lo: number, hi: number, count = 5): number[] {
   // Integer multiples of the step, rounded to the step's decimals (no accumulated error).
   const decimals = Math.max(0, -Math.floor(Math.log10(step)));
   const out: number[] = [];
-  for (let k = Math.ceil(a / step); k * step <= b; k++) out.push(Number((k * step).toFixed(decimals)) || 0);
+  for (let k = Math.ceil(a / step); k * step <= b; k++)
+    out.push(Number((k * step).toFixed(decimals)) || 0);
   return out;
 }
 

@@ -3,12 +3,27 @@
  * same length on both axes. Track with date ticks, periapsis, measurements with 1σ error ellipses
  * and residual lines, and planned epochs.
  */
-import { offsetsEllipse, separationToOffsets, svgRotationDeg, type ErrorEllipse } from './ellipse.ts';
+import {
+  offsetsEllipse,
+  separationToOffsets,
+  svgRotationDeg,
+  type ErrorEllipse,
+} from './ellipse.ts';
 import { linear, pad, ticks, tickLabel } from './scale.ts';
 
-export interface SkyPoint { dRaMas: number; dDecMas: number }
-export interface TrackPoint extends SkyPoint { epoch: string }
-export interface SkyMeasurement extends SkyPoint { id: number; epoch: string; ellipse: ErrorEllipse; predicted?: SkyPoint }
+export interface SkyPoint {
+  dRaMas: number;
+  dDecMas: number;
+}
+export interface TrackPoint extends SkyPoint {
+  epoch: string;
+}
+export interface SkyMeasurement extends SkyPoint {
+  id: number;
+  epoch: string;
+  ellipse: ErrorEllipse;
+  predicted?: SkyPoint;
+}
 export interface SkyPlaneProps {
   track: TrackPoint[];
   /** A second track for comparison (e.g. a fit not yet stored), drawn dashed. */
@@ -43,19 +58,46 @@ export function skyPlaneGeometry(points: SkyPoint[], width: number, height: numb
   return { x, y, masPerPx, w, h };
 }
 
-export function measurementPoint(m: { id: number; epoch: string; kind: string; dRaMas: number | null; dDecMas: number | null; sigmaDRaMas: number | null; sigmaDDecMas: number | null; correlation: number | null; separationMas: number | null; positionAngleDeg: number | null; sigmaSeparationMas: number | null; sigmaPositionAngleDeg: number | null }): SkyMeasurement | null {
+export function measurementPoint(m: {
+  id: number;
+  epoch: string;
+  kind: string;
+  dRaMas: number | null;
+  dDecMas: number | null;
+  sigmaDRaMas: number | null;
+  sigmaDDecMas: number | null;
+  correlation: number | null;
+  separationMas: number | null;
+  positionAngleDeg: number | null;
+  sigmaSeparationMas: number | null;
+  sigmaPositionAngleDeg: number | null;
+}): SkyMeasurement | null {
   if (m.kind === 'offsets' && m.dRaMas !== null && m.dDecMas !== null) {
-    return { id: m.id, epoch: m.epoch, dRaMas: m.dRaMas, dDecMas: m.dDecMas, ellipse: offsetsEllipse(m.sigmaDRaMas ?? 0, m.sigmaDDecMas ?? 0, m.correlation ?? 0) };
+    return {
+      id: m.id,
+      epoch: m.epoch,
+      dRaMas: m.dRaMas,
+      dDecMas: m.dDecMas,
+      ellipse: offsetsEllipse(m.sigmaDRaMas ?? 0, m.sigmaDDecMas ?? 0, m.correlation ?? 0),
+    };
   }
   if (m.kind === 'separation' && m.separationMas !== null && m.positionAngleDeg !== null) {
-    const s = separationToOffsets(m.separationMas, m.positionAngleDeg, m.sigmaSeparationMas ?? 0, m.sigmaPositionAngleDeg ?? 0);
+    const s = separationToOffsets(
+      m.separationMas,
+      m.positionAngleDeg,
+      m.sigmaSeparationMas ?? 0,
+      m.sigmaPositionAngleDeg ?? 0,
+    );
     return { id: m.id, epoch: m.epoch, dRaMas: s.dRaMas, dDecMas: s.dDecMas, ellipse: s.ellipse };
   }
   return null;
 }
 
 /** Mark which points get a text label: each at least `minPx` from every labelled one before it. */
-export function labelSpaced<T extends { px: number; py: number }>(points: T[], minPx: number): (T & { label: boolean })[] {
+export function labelSpaced<T extends { px: number; py: number }>(
+  points: T[],
+  minPx: number,
+): (T & { label: boolean })[] {
   const kept: T[] = [];
   return points.map((p) => {
     const label = kept.every((k) => Math.hypot(k.px - p.px, k.py - p.py) >= minPx);
@@ -67,50 +109,118 @@ export function labelSpaced<T extends { px: number; py: number }>(points: T[], m
 export function SkyPlanePlot(props: SkyPlaneProps) {
   const width = props.width ?? 560;
   const height = Math.round(width * 0.92);
-  const all: SkyPoint[] = [...props.track, ...(props.compareTrack ?? []), ...props.measurements, ...props.planned];
+  const all: SkyPoint[] = [
+    ...props.track,
+    ...(props.compareTrack ?? []),
+    ...props.measurements,
+    ...props.planned,
+  ];
   const { x, y, masPerPx } = skyPlaneGeometry(all, width, height);
-  const path = props.track.map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`).join('');
+  const path = props.track
+    .map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`)
+    .join('');
   const xt = ticks(x.domain[1], x.domain[0], 6);
   const yt = ticks(y.domain[1], y.domain[0], 6);
   const bottom = height - M.bottom;
   const right = width - M.right;
   return (
-    <svg class="plot sky-plane" viewBox={`0 0 ${width} ${height}`} role="img" aria-label={props.title ?? 'orbit on the sky, north up, east left'} data-mas-per-px={masPerPx}>
+    <svg
+      class="plot sky-plane"
+      viewBox={`0 0 ${width} ${height}`}
+      role="img"
+      aria-label={props.title ?? 'orbit on the sky, north up, east left'}
+      data-mas-per-px={masPerPx}
+    >
       <g class="grid">
-        {xt.map((v) => <line key={`x${v}`} x1={x(v)} x2={x(v)} y1={M.top} y2={bottom} />)}
-        {yt.map((v) => <line key={`y${v}`} y1={y(v)} y2={y(v)} x1={M.left} x2={right} />)}
+        {xt.map((v) => (
+          <line key={`x${v}`} x1={x(v)} x2={x(v)} y1={M.top} y2={bottom} />
+        ))}
+        {yt.map((v) => (
+          <line key={`y${v}`} y1={y(v)} y2={y(v)} x1={M.left} x2={right} />
+        ))}
       </g>
       <g class="axis x-axis">
-        {xt.map((v) => <text key={v} x={x(v)} y={bottom + 14} text-anchor="middle" data-value={v}>{tickLabel(v)}</text>)}
-        <text class="axis-title" x={(M.left + right) / 2} y={height - 6} text-anchor="middle">Δα* (mas) — east ←</text>
+        {xt.map((v) => (
+          <text key={v} x={x(v)} y={bottom + 14} text-anchor="middle" data-value={v}>
+            {tickLabel(v)}
+          </text>
+        ))}
+        <text class="axis-title" x={(M.left + right) / 2} y={height - 6} text-anchor="middle">
+          Δα* (mas) — east ←
+        </text>
       </g>
       <g class="axis y-axis">
-        {yt.map((v) => <text key={v} x={M.left - 6} y={y(v) + 4} text-anchor="end" data-value={v}>{tickLabel(v)}</text>)}
-        <text class="axis-title" transform={`translate(14 ${(M.top + bottom) / 2}) rotate(-90)`} text-anchor="middle">Δδ (mas) — north ↑</text>
+        {yt.map((v) => (
+          <text key={v} x={M.left - 6} y={y(v) + 4} text-anchor="end" data-value={v}>
+            {tickLabel(v)}
+          </text>
+        ))}
+        <text
+          class="axis-title"
+          transform={`translate(14 ${(M.top + bottom) / 2}) rotate(-90)`}
+          text-anchor="middle"
+        >
+          Δδ (mas) — north ↑
+        </text>
       </g>
       <g class="compass" transform={`translate(${right - 34} ${M.top + 34})`}>
-        <line x1="0" y1="0" x2="0" y2="-24" /><text class="compass-n" x="0" y="-27" text-anchor="middle">N</text>
-        <line x1="0" y1="0" x2="-24" y2="0" /><text class="compass-e" x="-28" y="4" text-anchor="end">E</text>
+        <line x1="0" y1="0" x2="0" y2="-24" />
+        <text class="compass-n" x="0" y="-27" text-anchor="middle">
+          N
+        </text>
+        <line x1="0" y1="0" x2="-24" y2="0" />
+        <text class="compass-e" x="-28" y="4" text-anchor="end">
+          E
+        </text>
       </g>
-      {props.compareTrack && <path class="track-compare" d={props.compareTrack.map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`).join('')} />}
+      {props.compareTrack && (
+        <path
+          class="track-compare"
+          d={props.compareTrack
+            .map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`)
+            .join('')}
+        />
+      )}
       <path class="track" d={path} />
-      <g class="primary"><path d={`M${x(0) - 6},${y(0)}h12M${x(0)},${y(0) - 6}v12`} /><title>primary</title></g>
-      {labelSpaced(props.dateTicks.map((t) => ({ t, px: x(t.dRaMas), py: y(t.dDecMas) })), 16).map(({ t, px, py, label }) => (
+      <g class="primary">
+        <path d={`M${x(0) - 6},${y(0)}h12M${x(0)},${y(0) - 6}v12`} />
+        <title>primary</title>
+      </g>
+      {labelSpaced(
+        props.dateTicks.map((t) => ({ t, px: x(t.dRaMas), py: y(t.dDecMas) })),
+        16,
+      ).map(({ t, px, py, label }) => (
         <g class="date-tick" key={t.epoch}>
           <circle cx={px} cy={py} r="2.5" />
-          {label && <text x={px + 5} y={py - 5}>{t.epoch.slice(0, 4)}</text>}
+          {label && (
+            <text x={px + 5} y={py - 5}>
+              {t.epoch.slice(0, 4)}
+            </text>
+          )}
           <title>{t.epoch.slice(0, 10)}</title>
         </g>
       ))}
       {props.periapsis && (
         <g class="periapsis-mark">
-          <path d={`M${x(props.periapsis.dRaMas)},${y(props.periapsis.dDecMas) - 7}l6,7l-6,7l-6,-7z`} />
-          <text x={x(props.periapsis.dRaMas) + 9} y={y(props.periapsis.dDecMas) + 14}>periapsis {props.periapsis.epoch.slice(0, 10)}</text>
+          <path
+            d={`M${x(props.periapsis.dRaMas)},${y(props.periapsis.dDecMas) - 7}l6,7l-6,7l-6,-7z`}
+          />
+          <text x={x(props.periapsis.dRaMas) + 9} y={y(props.periapsis.dDecMas) + 14}>
+            periapsis {props.periapsis.epoch.slice(0, 10)}
+          </text>
         </g>
       )}
       {props.measurements.map((m) => (
         <g class="measurement" key={m.id} data-id={m.id}>
-          {m.predicted && <line class="residual" x1={x(m.predicted.dRaMas)} y1={y(m.predicted.dDecMas)} x2={x(m.dRaMas)} y2={y(m.dDecMas)} />}
+          {m.predicted && (
+            <line
+              class="residual"
+              x1={x(m.predicted.dRaMas)}
+              y1={y(m.predicted.dDecMas)}
+              x2={x(m.dRaMas)}
+              y2={y(m.dDecMas)}
+            />
+          )}
           <ellipse
             class="error-ellipse"
             cx={x(m.dRaMas)}

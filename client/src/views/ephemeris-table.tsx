@@ -14,15 +14,24 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
   const [query, setQuery] = useState(form);
   const [csvError, setCsvError] = useState<unknown>(null);
   const q = { start: `${query.start}T00:00:00Z`, end: `${query.end}T00:00:00Z`, step: query.step };
-  const { data, error } = useLoad(() => get<Ephemeris>(`/targets/${targetId}/ephemeris`, q), [targetId, query.start, query.end, query.step]);
+  const { data, error } = useLoad(
+    () => get<Ephemeris>(`/targets/${targetId}/ephemeris`, q),
+    [targetId, query.start, query.end, query.step],
+  );
   const download = async () => {
     setCsvError(null);
     try {
       const token = sessionToken();
-      const res = await fetch(`/api/targets/${targetId}/ephemeris?${new URLSearchParams({ ...q, format: 'csv' })}`, { headers: token ? { authorization: `Bearer ${token}` } : {} });
+      const res = await fetch(
+        `/api/targets/${targetId}/ephemeris?${new URLSearchParams({ ...q, format: 'csv' })}`,
+        { headers: token ? { authorization: `Bearer ${token}` } : {} },
+      );
       if (!res.ok) throw new Error(`CSV download failed: HTTP ${res.status}`);
       const url = URL.createObjectURL(new Blob([await res.text()], { type: 'text/csv' }));
-      const a = Object.assign(document.createElement('a'), { href: url, download: `${name.replace(/\W+/g, '-')}-ephemeris.csv` });
+      const a = Object.assign(document.createElement('a'), {
+        href: url,
+        download: `${name.replace(/\W+/g, '-')}-ephemeris.csv`,
+      });
       a.click();
       setTimeout(() => URL.revokeObjectURL(url), 1000);
     } catch (e) {
@@ -32,22 +41,70 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
   return (
     <>
       <form class="row-form" onSubmit={(e) => (e.preventDefault(), setQuery(form))}>
-        <label>from (UTC date) <input type="date" value={form.start} onInput={(e) => setForm({ ...form, start: e.currentTarget.value })} /></label>
-        <label>to (UTC date) <input type="date" value={form.end} onInput={(e) => setForm({ ...form, end: e.currentTarget.value })} /></label>
-        <label>step (e.g. 30d, 12h) <input value={form.step} size={6} onInput={(e) => setForm({ ...form, step: e.currentTarget.value })} /></label>
+        <label>
+          from (UTC date){' '}
+          <input
+            type="date"
+            value={form.start}
+            onInput={(e) => setForm({ ...form, start: e.currentTarget.value })}
+          />
+        </label>
+        <label>
+          to (UTC date){' '}
+          <input
+            type="date"
+            value={form.end}
+            onInput={(e) => setForm({ ...form, end: e.currentTarget.value })}
+          />
+        </label>
+        <label>
+          step (e.g. 30d, 12h){' '}
+          <input
+            value={form.step}
+            size={6}
+            onInput={(e) => setForm({ ...form, step: e.currentTarget.value })}
+          />
+        </label>
         <button type="submit">Compute</button>
-        <button type="button" onClick={download}>Download CSV</button>
+        <button type="button" onClick={download}>
+          Download CSV
+        </button>
       </form>
       <ErrorLine error={error ?? csvError} />
-      {!data ? (!error && <Loading what="the ephemeris" />) : (
+      {!data ? (
+        !error && <Loading what="the ephemeris" />
+      ) : (
         <div class="scroll">
           <table class="data ephemeris">
-            <thead><tr><th>epoch (UTC)</th><th>Δα* (mas)</th><th>Δδ (mas)</th><th>separation (mas)</th><th>PA (°)</th><th>v_r (km/s)</th></tr></thead>
+            <thead>
+              <tr>
+                <th>epoch (UTC)</th>
+                <th>Δα* (mas)</th>
+                <th>Δδ (mas)</th>
+                <th>separation (mas)</th>
+                <th>PA (°)</th>
+                <th>v_r (km/s)</th>
+              </tr>
+            </thead>
             <tbody>
               {data.predictions.map((p) => (
                 <tr key={p.jd}>
-                  <td>{utcText(p.epoch)}</td><td><Qty v={p.dRaMas} unit="" digits={2} /></td><td><Qty v={p.dDecMas} unit="" digits={2} /></td>
-                  <td><Qty v={p.separationMas} unit="" digits={2} /></td><td><Qty v={p.positionAngleDeg} unit="" digits={2} /></td><td><Qty v={p.radialVelocityKmS} unit="" digits={2} /></td>
+                  <td>{utcText(p.epoch)}</td>
+                  <td>
+                    <Qty v={p.dRaMas} unit="" digits={2} />
+                  </td>
+                  <td>
+                    <Qty v={p.dDecMas} unit="" digits={2} />
+                  </td>
+                  <td>
+                    <Qty v={p.separationMas} unit="" digits={2} />
+                  </td>
+                  <td>
+                    <Qty v={p.positionAngleDeg} unit="" digits={2} />
+                  </td>
+                  <td>
+                    <Qty v={p.radialVelocityKmS} unit="" digits={2} />
+                  </td>
                 </tr>
               ))}
             </tbody>

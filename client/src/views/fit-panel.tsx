@@ -11,7 +11,12 @@ import { utcText } from '../lib/time.ts';
 import { ErrorLine, Qty, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
-interface FitParameter { name: string; value: number; sigma: number; unit: string }
+interface FitParameter {
+  name: string;
+  value: number;
+  sigma: number;
+  unit: string;
+}
 interface FitPreview {
   targets: { id: number; name: string; measurementIds: number[] }[];
   result: {
@@ -27,7 +32,17 @@ interface FitPreview {
   };
 }
 
-export function FitPanel({ targetId, trackEpochs, onFittedTrack, onStored }: { targetId: number; trackEpochs: string[]; onFittedTrack: (t: Prediction[] | null) => void; onStored: () => void }) {
+export function FitPanel({
+  targetId,
+  trackEpochs,
+  onFittedTrack,
+  onStored,
+}: {
+  targetId: number;
+  trackEpochs: string[];
+  onFittedTrack: (t: Prediction[] | null) => void;
+  onStored: () => void;
+}) {
   const lead = useCan('lead');
   const [fit, setFit] = useState<FitPreview | null>(null);
   const { busy, error, run } = useAction();
@@ -38,11 +53,23 @@ export function FitPanel({ targetId, trackEpochs, onFittedTrack, onStored }: { t
       const f = await send<FitPreview>('POST', `/targets/${targetId}/fit`, {});
       setFit(f);
       const orbit = f.result.stars[0]?.orbit;
-      if (orbit && trackEpochs.length) onFittedTrack((await send<{ predictions: Prediction[] }>('POST', '/ephemeris', { orbit, epochs: trackEpochs })).predictions);
+      if (orbit && trackEpochs.length)
+        onFittedTrack(
+          (
+            await send<{ predictions: Prediction[] }>('POST', '/ephemeris', {
+              orbit,
+              epochs: trackEpochs,
+            })
+          ).predictions,
+        );
     });
   const accept = () =>
     run(async () => {
-      const r = await send<{ solutions: { version: number }[] }>('POST', `/targets/${targetId}/fit/accept`, { notes: 'fitted from the light client' });
+      const r = await send<{ solutions: { version: number }[] }>(
+        'POST',
+        `/targets/${targetId}/fit/accept`,
+        { notes: 'fitted from the light client' },
+      );
       setStatus(`Stored as version ${r.solutions.map((s) => s.version).join(', ')}, now current.`);
       setFit(null);
       onFittedTrack(null);
@@ -53,22 +80,59 @@ export function FitPanel({ targetId, trackEpochs, onFittedTrack, onStored }: { t
   return (
     <div class="fit-panel">
       <div class="toolbar">
-        <button type="button" disabled={busy} onClick={preview}>{fit ? 'Fit again' : 'Fit the stored measurements'}</button>
-        {fit && lead && <button type="button" class="primary" disabled={busy} onClick={accept}>Store as the current solution</button>}
-        {fit && <button type="button" disabled={busy} onClick={() => (setFit(null), onFittedTrack(null))}>Discard fit</button>}
+        <button type="button" disabled={busy} onClick={preview}>
+          {fit ? 'Fit again' : 'Fit the stored measurements'}
+        </button>
+        {fit && lead && (
+          <button type="button" class="primary" disabled={busy} onClick={accept}>
+            Store as the current solution
+          </button>
+        )}
+        {fit && (
+          <button type="button" disabled={busy} onClick={() => (setFit(null), onFittedTrack(null))}>
+            Discard fit
+          </button>
+        )}
         {busy && <span class="loading">fitting…</span>}
-        {status && <span class="save-status" role="status">{status}</span>}
+        {status && (
+          <span class="save-status" role="status">
+            {status}
+          </span>
+        )}
       </div>
       <ErrorLine error={error} />
       {r && (
         <>
           <p>
-            {fit!.targets[0]?.measurementIds.length} measurements · χ² <Qty v={r.chi2} unit="" digits={2} /> for {r.dof} degrees of freedom (reduced <Qty v={r.reducedChi2} unit="" digits={2} />) · {r.converged ? `converged in ${r.iterations} iterations` : 'did not converge'} · {r.outliers} outliers
-            {r.stars[0]?.nextPeriapsis && <> · next periapsis {utcText(r.stars[0].nextPeriapsis)} UTC</>}. The fitted track is drawn dashed on the sky plane.
+            {fit!.targets[0]?.measurementIds.length} measurements · χ²{' '}
+            <Qty v={r.chi2} unit="" digits={2} /> for {r.dof} degrees of freedom (reduced{' '}
+            <Qty v={r.reducedChi2} unit="" digits={2} />) ·{' '}
+            {r.converged ? `converged in ${r.iterations} iterations` : 'did not converge'} ·{' '}
+            {r.outliers} outliers
+            {r.stars[0]?.nextPeriapsis && (
+              <> · next periapsis {utcText(r.stars[0].nextPeriapsis)} UTC</>
+            )}
+            . The fitted track is drawn dashed on the sky plane.
           </p>
           <table class="data fit-parameters">
-            <thead><tr><th>parameter</th><th>value</th><th>1σ</th><th>unit</th></tr></thead>
-            <tbody>{r.parameters.map((p) => <tr key={p.name}><td>{p.name}</td><td>{Number(p.value.toPrecision(8))}</td><td>{Number(p.sigma.toPrecision(3))}</td><td>{p.unit}</td></tr>)}</tbody>
+            <thead>
+              <tr>
+                <th>parameter</th>
+                <th>value</th>
+                <th>1σ</th>
+                <th>unit</th>
+              </tr>
+            </thead>
+            <tbody>
+              {r.parameters.map((p) => (
+                <tr key={p.name}>
+                  <td>{p.name}</td>
+                  <td>{Number(p.value.toPrecision(8))}</td>
+                  <td>{Number(p.sigma.toPrecision(3))}</td>
+                  <td>{p.unit}</td>
+                </tr>
+              ))}
+            </tbody>
           </table>
           <p class="muted">{r.method}</p>
         </>

@@ -18,20 +18,47 @@ import { SchedulePanel, type ScheduledBlock } from './schedule-panel.tsx';
 const STEP_MIN = 15;
 
 /** How the blocks table says where a stored block came from. */
-export const ORIGIN_LABEL: Record<BlockOrigin, string> = { 'season-plan': 'season plan', 'night-schedule': 'night schedule', 'by-hand': 'by hand' };
+export const ORIGIN_LABEL: Record<BlockOrigin, string> = {
+  'season-plan': 'season plan',
+  'night-schedule': 'night schedule',
+  'by-hand': 'by hand',
+};
 
 /** Why a stored block sits outside what the sky engine allows for its target tonight, or null. */
-export function blockProblem(b: BlockRow, vis: Visibility, targetName: string, siteSunAvoidanceDeg: number): string | null {
+export function blockProblem(
+  b: BlockRow,
+  vis: Visibility,
+  targetName: string,
+  siteSunAvoidanceDeg: number,
+): string | null {
   const t = vis.targets.find((v) => v.name === targetName || v.name.startsWith(`${targetName} (`));
   if (!t) return null;
-  if (t.sunSeparationDeg < siteSunAvoidanceDeg) return `refused: ${t.sunSeparationDeg.toFixed(0)}° from the Sun, inside the site’s ${siteSunAvoidanceDeg}° Sun-avoidance angle`;
+  if (t.sunSeparationDeg < siteSunAvoidanceDeg)
+    return `refused: ${t.sunSeparationDeg.toFixed(0)}° from the Sun, inside the site’s ${siteSunAvoidanceDeg}° Sun-avoidance angle`;
   const s = ms(b.startUtc);
   const e = ms(b.endUtc);
-  if (!t.windows.some((w) => ms(w.start.utc) <= s + 1000 && ms(w.end.utc) >= e - 1000)) return 'outside the target’s observable window tonight (darkness, altitude, airmass or Moon limit)';
+  if (!t.windows.some((w) => ms(w.start.utc) <= s + 1000 && ms(w.end.utc) >= e - 1000))
+    return 'outside the target’s observable window tonight (darkness, altitude, airmass or Moon limit)';
   return null;
 }
 
-function BlockTable({ blocks, vis, names, zone, sunAvoid, canEdit, onChanged }: { blocks: BlockRow[]; vis: Visibility; names: (id: number) => string; zone: string; sunAvoid: number; canEdit: boolean; onChanged: () => void }) {
+function BlockTable({
+  blocks,
+  vis,
+  names,
+  zone,
+  sunAvoid,
+  canEdit,
+  onChanged,
+}: {
+  blocks: BlockRow[];
+  vis: Visibility;
+  names: (id: number) => string;
+  zone: string;
+  sunAvoid: number;
+  canEdit: boolean;
+  onChanged: () => void;
+}) {
   const [error, setError] = useState<unknown>(null);
   const act = async (f: () => Promise<unknown>) => {
     setError(null);
@@ -42,36 +69,120 @@ function BlockTable({ blocks, vis, names, zone, sunAvoid, canEdit, onChanged }: 
     }
     onChanged();
   };
-  const setPinned = (b: BlockRow, pinned: boolean) => act(() => send('PATCH', `/blocks/${b.id}`, { pinned, version: b.version }));
+  const setPinned = (b: BlockRow, pinned: boolean) =>
+    act(() => send('PATCH', `/blocks/${b.id}`, { pinned, version: b.version }));
   const shift = (b: BlockRow, minutes: number) =>
-    act(() => send('PATCH', `/blocks/${b.id}`, { startUtc: isoOf(ms(b.startUtc) + minutes * 60_000), endUtc: isoOf(ms(b.endUtc) + minutes * 60_000), version: b.version }));
+    act(() =>
+      send('PATCH', `/blocks/${b.id}`, {
+        startUtc: isoOf(ms(b.startUtc) + minutes * 60_000),
+        endUtc: isoOf(ms(b.endUtc) + minutes * 60_000),
+        version: b.version,
+      }),
+    );
   if (!blocks.length) return <p class="muted">No blocks on this night yet.</p>;
   return (
     <>
-      <p class="muted pin-note">A stored night schedule or season plan never replaces a pinned block or one made by hand, nor one already begun, reported or measured. Pin a block to keep it where it is through the next re-plan.</p>
+      <p class="muted pin-note">
+        A stored night schedule or season plan never replaces a pinned block or one made by hand,
+        nor one already begun, reported or measured. Pin a block to keep it where it is through the
+        next re-plan.
+      </p>
       <table class="data blocks">
-        <thead><tr><th>target</th><th>kind</th><th>UTC</th><th>{zoneAbbrev(blocks[0]!.startUtc, zone)} ({zone})</th><th>status</th><th>made by</th><th>pinned</th><th>check</th>{canEdit && <th>change</th>}</tr></thead>
+        <thead>
+          <tr>
+            <th>target</th>
+            <th>kind</th>
+            <th>UTC</th>
+            <th>
+              {zoneAbbrev(blocks[0]!.startUtc, zone)} ({zone})
+            </th>
+            <th>status</th>
+            <th>made by</th>
+            <th>pinned</th>
+            <th>check</th>
+            {canEdit && <th>change</th>}
+          </tr>
+        </thead>
         <tbody>
           {blocks.map((b) => {
             const problem = blockProblem(b, vis, names(b.targetId), sunAvoid);
             return (
-              <tr key={b.id} data-block={b.id} data-version={b.version} class={problem ? 'has-problem' : ''}>
-                <td><a href={`/targets/${b.targetId}`}>{names(b.targetId)}</a></td>
-                <td>{b.kind}{b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}</td>
-                <td>{utcClock(b.startUtc)}–{utcClock(b.endUtc)}</td>
-                <td>{zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}</td>
+              <tr
+                key={b.id}
+                data-block={b.id}
+                data-version={b.version}
+                class={problem ? 'has-problem' : ''}
+              >
+                <td>
+                  <a href={`/targets/${b.targetId}`}>{names(b.targetId)}</a>
+                </td>
+                <td>
+                  {b.kind}
+                  {b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}
+                </td>
+                <td>
+                  {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
+                </td>
+                <td>
+                  {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
+                </td>
                 <td>{b.status}</td>
                 <td class="origin">{ORIGIN_LABEL[b.origin] ?? b.origin}</td>
-                <td class="pin-state">{b.pinned ? <span class="tag pin-tag">pinned</span> : <span class="muted">no</span>}</td>
-                <td>{problem ? <span class="problem">{problem}</span> : <span class="ok">inside its window</span>}</td>
+                <td class="pin-state">
+                  {b.pinned ? (
+                    <span class="tag pin-tag">pinned</span>
+                  ) : (
+                    <span class="muted">no</span>
+                  )}
+                </td>
+                <td>
+                  {problem ? (
+                    <span class="problem">{problem}</span>
+                  ) : (
+                    <span class="ok">inside its window</span>
+                  )}
+                </td>
                 {canEdit && (
                   <td class="actions">
-                    {b.pinned
-                      ? <button type="button" aria-label={`unpin ${names(b.targetId)} ${b.kind}`} onClick={() => setPinned(b, false)}>Unpin</button>
-                      : <button type="button" aria-label={`pin ${names(b.targetId)} ${b.kind}`} onClick={() => setPinned(b, true)}>Pin</button>}
-                    <button type="button" aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes earlier`} onClick={() => shift(b, -STEP_MIN)}>−{STEP_MIN} min</button>
-                    <button type="button" aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes later`} onClick={() => shift(b, STEP_MIN)}>+{STEP_MIN} min</button>
-                    <button type="button" class="danger" aria-label={`remove ${names(b.targetId)} ${b.kind}`} onClick={() => act(() => send('DELETE', `/blocks/${b.id}`))}>Remove</button>
+                    {b.pinned ? (
+                      <button
+                        type="button"
+                        aria-label={`unpin ${names(b.targetId)} ${b.kind}`}
+                        onClick={() => setPinned(b, false)}
+                      >
+                        Unpin
+                      </button>
+                    ) : (
+                      <button
+                        type="button"
+                        aria-label={`pin ${names(b.targetId)} ${b.kind}`}
+                        onClick={() => setPinned(b, true)}
+                      >
+                        Pin
+                      </button>
+                    )}
+                    <button
+                      type="button"
+                      aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes earlier`}
+                      onClick={() => shift(b, -STEP_MIN)}
+                    >
+                      −{STEP_MIN} min
+                    </button>
+                    <button
+                      type="button"
+                      aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes later`}
+                      onClick={() => shift(b, STEP_MIN)}
+                    >
+                      +{STEP_MIN} min
+                    </button>
+                    <button
+                      type="button"
+                      class="danger"
+                      aria-label={`remove ${names(b.targetId)} ${b.kind}`}
+                      onClick={() => act(() => send('DELETE', `/blocks/${b.id}`))}
+                    >
+                      Remove
+                    </button>
                   </td>
                 )}
               </tr>
@@ -80,7 +191,11 @@ function BlockTable({ blocks, vis, names, zone, sunAvoid, canEdit, onChanged }: 
         </tbody>
       </table>
       <ErrorLine error={error} />
-      {error instanceof ApiError && error.status === 409 && <p class="muted" role="status">Someone changed this block first; the table now shows it as stored.</p>}
+      {error instanceof ApiError && error.status === 409 && (
+        <p class="muted" role="status">
+          Someone changed this block first; the table now shows it as stored.
+        </p>
+      )}
     </>
   );
 }
@@ -93,7 +208,10 @@ export function NightView({ id }: { id: number }) {
   const { data, error } = useLoad(async () => {
     const cat = await loadCatalogue();
     const night = await get<NightRow>(`/nights/${id}`);
-    const [vis, blocks] = await Promise.all([get<Visibility>(`/nights/${id}/visibility`, { curves: 'true' }), getAll<BlockRow>('/blocks', { nightId: id })]);
+    const [vis, blocks] = await Promise.all([
+      get<Visibility>(`/nights/${id}/visibility`, { curves: 'true' }),
+      getAll<BlockRow>('/blocks', { nightId: id }),
+    ]);
     return { cat, night, vis, blocks: blocks.sort((a, b) => a.startUtc.localeCompare(b.startUtc)) };
   }, [id, tick]);
   if (error) return <ErrorLine error={error} />;
@@ -103,49 +221,145 @@ export function NightView({ id }: { id: number }) {
   const names = (tid: number) => cat.target(tid)?.name ?? `#${tid}`;
   const zone = site.timeZone;
   const dark = vis.darkness.intervals;
-  const both = (iso: string | null | undefined) => (iso ? <>{utcClock(iso)} UTC · {zoneClock(iso, zone)} local</> : '–');
+  const both = (iso: string | null | undefined) =>
+    iso ? (
+      <>
+        {utcClock(iso)} UTC · {zoneClock(iso, zone)} local
+      </>
+    ) : (
+      '–'
+    );
   return (
     <div class="view night">
       <div class="view-head">
-        <h1>{site.name}, night of {night.date}</h1>
-        <p class="muted">{zone} · darkness ({vis.darkness.limit}) <Qty v={vis.darkness.hours} unit="h" /> · Moon {Math.round(vis.moon.illuminatedFraction * 100)}% illuminated</p>
+        <h1>
+          {site.name}, night of {night.date}
+        </h1>
+        <p class="muted">
+          {zone} · darkness ({vis.darkness.limit}) <Qty v={vis.darkness.hours} unit="h" /> · Moon{' '}
+          {Math.round(vis.moon.illuminatedFraction * 100)}% illuminated
+        </p>
         <div class="toolbar no-print">
-          <a href={`/nights/${id}/report`} class="button">Night report</a>
-          <button type="button" onClick={() => print()}>Print night sheet</button>
-          <label class="inline">plot <select value={mode} onChange={(e) => setMode(e.currentTarget.value as NightMode)}><option value="altitude">altitude (°)</option><option value="airmass">airmass</option></select></label>
+          <a href={`/nights/${id}/report`} class="button">
+            Night report
+          </a>
+          <button type="button" onClick={() => print()}>
+            Print night sheet
+          </button>
+          <label class="inline">
+            plot{' '}
+            <select value={mode} onChange={(e) => setMode(e.currentTarget.value as NightMode)}>
+              <option value="altitude">altitude (°)</option>
+              <option value="airmass">airmass</option>
+            </select>
+          </label>
         </div>
       </div>
-      {vis.cautions.map((c) => <Caution key={c}>{c}</Caution>)}
-      {blocks.some((b) => b.laserGuideStar) && <Caution>Blocks marked “laser guide star” propagate a laser: coordinate with the site’s laser-traffic system and stop whenever the site’s spotters or the aviation authority say so.</Caution>}
+      {vis.cautions.map((c) => (
+        <Caution key={c}>{c}</Caution>
+      ))}
+      {blocks.some((b) => b.laserGuideStar) && (
+        <Caution>
+          Blocks marked “laser guide star” propagate a laser: coordinate with the site’s
+          laser-traffic system and stop whenever the site’s spotters or the aviation authority say
+          so.
+        </Caution>
+      )}
       <Section title="The night" id="night-chart">
-        <NightChart vis={vis} blocks={blocks} targetName={names} nowMs={Date.now()} mode={mode} proposed={proposal ?? undefined} />
+        <NightChart
+          vis={vis}
+          blocks={blocks}
+          targetName={names}
+          nowMs={Date.now()}
+          mode={mode}
+          proposed={proposal ?? undefined}
+        />
         <ul class="legend series-legend">
           {vis.targets.map((t, i) => (
-            <li key={t.name} class={`s${i % 6}`}><svg width="28" height="8" aria-hidden="true"><line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={SERIES_DASH[i % 6]} /></svg> {t.name}: <Qty v={t.observableHours} unit="h" /> observable, Moon <Qty v={t.moonSeparationDeg} unit="°" digits={0} /> away, Sun <Qty v={t.sunSeparationDeg} unit="°" digits={0} /> away</li>
+            <li key={t.name} class={`s${i % 6}`}>
+              <svg width="28" height="8" aria-hidden="true">
+                <line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={SERIES_DASH[i % 6]} />
+              </svg>{' '}
+              {t.name}: <Qty v={t.observableHours} unit="h" /> observable, Moon{' '}
+              <Qty v={t.moonSeparationDeg} unit="°" digits={0} /> away, Sun{' '}
+              <Qty v={t.sunSeparationDeg} unit="°" digits={0} /> away
+            </li>
           ))}
           {vis.moon.curve && (
-            <li class="moon-key"><svg width="28" height="8" aria-hidden="true"><line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={MOON_DASH} /></svg> Moon altitude{mode === 'airmass' ? ' (altitude view)' : ''}: <Qty v={vis.moon.illuminatedFraction * 100} unit="%" digits={0} /> illuminated</li>
+            <li class="moon-key">
+              <svg width="28" height="8" aria-hidden="true">
+                <line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={MOON_DASH} />
+              </svg>{' '}
+              Moon altitude{mode === 'airmass' ? ' (altitude view)' : ''}:{' '}
+              <Qty v={vis.moon.illuminatedFraction * 100} unit="%" digits={0} /> illuminated
+            </li>
           )}
-          {vis.targets.some((t) => t.curve?.horizonMaskDeg?.some((m) => m > vis.constraints.altitudeLimitDeg)) && (
-            <li class="mask-key"><svg width="28" height="10" aria-hidden="true"><rect width="28" height="10" /></svg> hatched: the site’s horizon mask along a target’s path where it rises above the altitude limit (altitude view)</li>
+          {vis.targets.some((t) =>
+            t.curve?.horizonMaskDeg?.some((m) => m > vis.constraints.altitudeLimitDeg),
+          ) && (
+            <li class="mask-key">
+              <svg width="28" height="10" aria-hidden="true">
+                <rect width="28" height="10" />
+              </svg>{' '}
+              hatched: the site’s horizon mask along a target’s path where it rises above the
+              altitude limit (altitude view)
+            </li>
           )}
-          <li class="band-key">bands, lightest to darkest: Sun above 0°, civil, nautical, astronomical twilight, darkness · top strip: Moon up · dashed line: altitude limit · vertical line: now</li>
+          <li class="band-key">
+            bands, lightest to darkest: Sun above 0°, civil, nautical, astronomical twilight,
+            darkness · top strip: Moon up · dashed line: altitude limit · vertical line: now
+          </li>
         </ul>
       </Section>
       <Section title="Sun, twilight and Moon" id="sun-moon">
         <table class="data times">
           <tbody>
-            <tr><th>sunset</th><td>{both(vis.sun.set?.utc)}</td><th>sunrise</th><td>{both(vis.sun.rise?.utc)}</td></tr>
-            <tr><th>astronomical dusk (−18°)</th><td>{both(vis.sun.twilights.astronomical.dusk?.utc)}</td><th>astronomical dawn</th><td>{both(vis.sun.twilights.astronomical.dawn?.utc)}</td></tr>
-            <tr><th>darkness starts</th><td>{both(dark[0]?.start.utc)}</td><th>darkness ends</th><td>{both(dark[dark.length - 1]?.end.utc)}</td></tr>
-            <tr><th>moonrise</th><td>{both(vis.moon.rise?.utc)}</td><th>moonset</th><td>{both(vis.moon.set?.utc)}</td></tr>
+            <tr>
+              <th>sunset</th>
+              <td>{both(vis.sun.set?.utc)}</td>
+              <th>sunrise</th>
+              <td>{both(vis.sun.rise?.utc)}</td>
+            </tr>
+            <tr>
+              <th>astronomical dusk (−18°)</th>
+              <td>{both(vis.sun.twilights.astronomical.dusk?.utc)}</td>
+              <th>astronomical dawn</th>
+              <td>{both(vis.sun.twilights.astronomical.dawn?.utc)}</td>
+            </tr>
+            <tr>
+              <th>darkness starts</th>
+              <td>{both(dark[0]?.start.utc)}</td>
+              <th>darkness ends</th>
+              <td>{both(dark[dark.length - 1]?.end.utc)}</td>
+            </tr>
+            <tr>
+              <th>moonrise</th>
+              <td>{both(vis.moon.rise?.utc)}</td>
+              <th>moonset</th>
+              <td>{both(vis.moon.set?.utc)}</td>
+            </tr>
           </tbody>
         </table>
       </Section>
       <Section title="Blocks" id="blocks">
-        <BlockTable blocks={blocks} vis={vis} names={names} zone={zone} sunAvoid={site.sunAvoidanceDeg} canEdit={canEdit} onChanged={() => setTick(tick + 1)} />
+        <BlockTable
+          blocks={blocks}
+          vis={vis}
+          names={names}
+          zone={zone}
+          sunAvoid={site.sunAvoidanceDeg}
+          canEdit={canEdit}
+          onChanged={() => setTick(tick + 1)}
+        />
       </Section>
-      <SchedulePanel night={night} blocks={blocks} cat={cat} canEdit={canEdit} onChanged={() => setTick(tick + 1)} onProposal={setProposal} />
+      <SchedulePanel
+        night={night}
+        blocks={blocks}
+        cat={cat}
+        canEdit={canEdit}
+        onChanged={() => setTick(tick + 1)}
+        onProposal={setProposal}
+      />
     </div>
   );
 }

@@ -17,12 +17,22 @@ export interface Flag {
   date: string;
   daysAhead: number;
   reason: string;
-  periapsis?: { sigmaDays: number | null; band: string; sites: { site: string; minHours: number; maxHours: number; blocked: string | null }[]; samplingDays: number | null };
+  periapsis?: {
+    sigmaDays: number | null;
+    band: string;
+    sites: { site: string; minHours: number; maxHours: number; blocked: string | null }[];
+    samplingDays: number | null;
+  };
   blend?: { other: string; start: string; end: string; closestMas: number };
   stale?: { sigmaMas: number | null; daysSinceMeasured: number | null };
 }
 
-const KIND_WORDS: Record<string, string> = { 'periapsis-ahead': 'periapsis ahead', 'periapsis-unobservable': 'periapsis unobservable', 'blend-risk': 'blend risk', 'stale-prediction': 'prediction stale' };
+const KIND_WORDS: Record<string, string> = {
+  'periapsis-ahead': 'periapsis ahead',
+  'periapsis-unobservable': 'periapsis unobservable',
+  'blend-risk': 'blend risk',
+  'stale-prediction': 'prediction stale',
+};
 
 /** Urgency class from days ahead: it sets the border style (width and dash), not only its colour. */
 export function urgency(days: number): string {
@@ -38,19 +48,44 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
         <span class="flag-kind">{KIND_WORDS[f.kind] ?? f.kind}</span>
         {name}
         {p ? (
-          <span class="flag-when">{utcText(f.date)} UTC {p.sigmaDays !== null ? <>± <Qty v={p.sigmaDays} unit="d" /></> : <span class="muted">(no covariance: uncertainty unknown)</span>} · in {Math.round(f.daysAhead)} days · {p.band}</span>
+          <span class="flag-when">
+            {utcText(f.date)} UTC{' '}
+            {p.sigmaDays !== null ? (
+              <>
+                ± <Qty v={p.sigmaDays} unit="d" />
+              </>
+            ) : (
+              <span class="muted">(no covariance: uncertainty unknown)</span>
+            )}{' '}
+            · in {Math.round(f.daysAhead)} days · {p.band}
+          </span>
         ) : f.blend ? (
-          <span class="flag-when">{dateText(f.blend.start)} to {dateText(f.blend.end)} with {f.blend.other}, closest <Qty v={f.blend.closestMas} unit="mas" digits={1} /></span>
+          <span class="flag-when">
+            {dateText(f.blend.start)} to {dateText(f.blend.end)} with {f.blend.other}, closest{' '}
+            <Qty v={f.blend.closestMas} unit="mas" digits={1} />
+          </span>
         ) : null}
       </div>
       {p && (
         <div class="flag-body">
           {p.sites.map((s) => (
             <span key={s.site} class={`site-chip ${s.blocked ? 'unseen' : 'seen'}`}>
-              {s.site}: {s.blocked ? <>not observable ({s.blocked})</> : <>observable <Qty v={s.minHours} unit="" />–<Qty v={s.maxHours} unit="h" /> per night</>}
+              {s.site}:{' '}
+              {s.blocked ? (
+                <>not observable ({s.blocked})</>
+              ) : (
+                <>
+                  observable <Qty v={s.minHours} unit="" />–<Qty v={s.maxHours} unit="h" /> per
+                  night
+                </>
+              )}
             </span>
           ))}
-          {p.samplingDays !== null && <span>sample at least every <Qty v={p.samplingDays * 24} unit="h" /></span>}
+          {p.samplingDays !== null && (
+            <span>
+              sample at least every <Qty v={p.samplingDays * 24} unit="h" />
+            </span>
+          )}
         </div>
       )}
       <p class="flag-reason">{f.reason}</p>
@@ -59,19 +94,31 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
 }
 
 function Flags({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
-  const { data, error } = useLoad(() => get<{ flags: Flag[] }>(`/campaigns/${campaignId}/flags`), [campaignId]);
+  const { data, error } = useLoad(
+    () => get<{ flags: Flag[] }>(`/campaigns/${campaignId}/flags`),
+    [campaignId],
+  );
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="flags" />;
   if (!data.flags.length) return <p>No flags: nothing needs attention.</p>;
   const idOf = (name: string) => cat.targets.find((t) => t.name === name)?.id;
-  return <ol class="flag-list">{data.flags.map((f) => <FlagItem key={`${f.kind}${f.target}${f.date}`} f={f} targetId={idOf(f.target)} />)}</ol>;
+  return (
+    <ol class="flag-list">
+      {data.flags.map((f) => (
+        <FlagItem key={`${f.kind}${f.target}${f.date}`} f={f} targetId={idOf(f.target)} />
+      ))}
+    </ol>
+  );
 }
 
 function NextNights({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
   const c = cat.campaigns.find((x) => x.id === campaignId)!;
   const { data, error } = useLoad(async () => {
     const nights = await getAll<NightRow>('/nights', { campaignId });
-    const blocks = await getAll<BlockRow>('/blocks', { campaignId, from: new Date().toISOString() });
+    const blocks = await getAll<BlockRow>('/blocks', {
+      campaignId,
+      from: new Date().toISOString(),
+    });
     return { nights, blocks };
   }, [campaignId]);
   if (error) return <ErrorLine error={error} />;
@@ -82,18 +129,30 @@ function NextNights({ cat, campaignId }: { cat: Catalogue; campaignId: number })
         const site = cat.site(sid);
         if (!site) return null;
         const today = todayIn(site.timeZone);
-        const next = data.nights.filter((n) => n.siteId === sid && n.date >= today).sort((a, b) => a.date.localeCompare(b.date)).slice(0, 4);
+        const next = data.nights
+          .filter((n) => n.siteId === sid && n.date >= today)
+          .sort((a, b) => a.date.localeCompare(b.date))
+          .slice(0, 4);
         return (
           <div key={sid} class="site-column">
-            <h3>{site.name} <span class="muted">({site.timeZone})</span></h3>
-            {next.length === 0 ? <p class="muted">No nights planned.</p> : (
+            <h3>
+              {site.name} <span class="muted">({site.timeZone})</span>
+            </h3>
+            {next.length === 0 ? (
+              <p class="muted">No nights planned.</p>
+            ) : (
               <ul class="night-list">
                 {next.map((n) => {
                   const bs = data.blocks.filter((b) => b.nightId === n.id);
                   return (
                     <li key={n.id}>
-                      <a href={`/nights/${n.id}`}>night of {n.date}</a> · {bs.length} block{bs.length === 1 ? '' : 's'}
-                      {bs.some((b) => b.laserGuideStar) && <span class="tag lgs-tag" title="uses a laser guide star">laser</span>}
+                      <a href={`/nights/${n.id}`}>night of {n.date}</a> · {bs.length} block
+                      {bs.length === 1 ? '' : 's'}
+                      {bs.some((b) => b.laserGuideStar) && (
+                        <span class="tag lgs-tag" title="uses a laser guide star">
+                          laser
+                        </span>
+                      )}
                     </li>
                   );
                 })}
@@ -108,26 +167,56 @@ function NextNights({ cat, campaignId }: { cat: Catalogue; campaignId: number })
 
 function LatestReports({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
   const { data, error } = useLoad(async () => {
-    const [reports, nights] = await Promise.all([getAll<ReportRow>('/night-reports', { campaignId }), getAll<NightRow>('/nights', { campaignId })]);
+    const [reports, nights] = await Promise.all([
+      getAll<ReportRow>('/night-reports', { campaignId }),
+      getAll<NightRow>('/nights', { campaignId }),
+    ]);
     const night = new Map(nights.map((n) => [n.id, n]));
-    return reports.map((r) => ({ r, n: night.get(r.nightId)! })).filter((x) => x.n).sort((a, b) => b.n.date.localeCompare(a.n.date)).slice(0, 6);
+    return reports
+      .map((r) => ({ r, n: night.get(r.nightId)! }))
+      .filter((x) => x.n)
+      .sort((a, b) => b.n.date.localeCompare(a.n.date))
+      .slice(0, 6);
   }, [campaignId]);
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="night reports" />;
   if (!data.length) return <p class="muted">No night reports yet.</p>;
   return (
     <table class="data">
-      <thead><tr><th>night</th><th>site</th><th>seeing (″)</th><th>Strehl</th><th>clouds (%)</th><th>lost (h)</th><th>blocks obtained</th></tr></thead>
+      <thead>
+        <tr>
+          <th>night</th>
+          <th>site</th>
+          <th>seeing (″)</th>
+          <th>Strehl</th>
+          <th>clouds (%)</th>
+          <th>lost (h)</th>
+          <th>blocks obtained</th>
+        </tr>
+      </thead>
       <tbody>
         {data.map(({ r, n }) => (
           <tr key={r.id}>
-            <td><a href={`/nights/${n.id}/report`}>{n.date}</a></td>
+            <td>
+              <a href={`/nights/${n.id}/report`}>{n.date}</a>
+            </td>
             <td>{cat.site(n.siteId)?.name}</td>
-            <td><Qty v={r.seeingArcsec} unit="" digits={2} /></td>
-            <td><Qty v={r.strehlRatio} unit="" digits={2} /></td>
-            <td><Qty v={r.cloudCoverPct} unit="" digits={0} /></td>
-            <td><Qty v={r.timeLostHours} unit="" /> {r.timeLostReason && <span class="muted">{r.timeLostReason}</span>}</td>
-            <td>{r.outcomes.filter((o) => o.status === 'obtained').length} / {r.outcomes.length}</td>
+            <td>
+              <Qty v={r.seeingArcsec} unit="" digits={2} />
+            </td>
+            <td>
+              <Qty v={r.strehlRatio} unit="" digits={2} />
+            </td>
+            <td>
+              <Qty v={r.cloudCoverPct} unit="" digits={0} />
+            </td>
+            <td>
+              <Qty v={r.timeLostHours} unit="" />{' '}
+              {r.timeLostReason && <span class="muted">{r.timeLostReason}</span>}
+            </td>
+            <td>
+              {r.outcomes.filter((o) => o.status === 'obtained').length} / {r.outcomes.length}
+            </td>
           </tr>
         ))}
       </tbody>
@@ -140,23 +229,43 @@ export function OverviewView() {
   const [campaignId, setCampaignId] = useState<number | null>(null);
   if (error) return <ErrorLine error={error} />;
   if (!cat) return <Loading what="the campaign" />;
-  if (!cat.campaigns.length) return <p class="panel">No campaign yet. A lead can add one through the API or the CLI; see <a href="/records">Records</a>.</p>;
+  if (!cat.campaigns.length)
+    return (
+      <p class="panel">
+        No campaign yet. A lead can add one through the API or the CLI; see{' '}
+        <a href="/records">Records</a>.
+      </p>
+    );
   const id = campaignId ?? cat.campaigns[0]!.id;
   const c = cat.campaigns.find((x) => x.id === id)!;
   return (
     <div class="view overview">
       <div class="view-head">
         <h1>{c.name}</h1>
-        <label class="inline">Campaign{' '}
+        <label class="inline">
+          Campaign{' '}
           <select value={id} onChange={(e) => setCampaignId(Number(e.currentTarget.value))}>
-            {cat.campaigns.map((x) => <option key={x.id} value={x.id}>{x.name}</option>)}
+            {cat.campaigns.map((x) => (
+              <option key={x.id} value={x.id}>
+                {x.name}
+              </option>
+            ))}
           </select>
         </label>
-        <p class="muted">{c.startDate} to {c.endDate} · targets: {c.targetIds.map((t) => cat.target(t)?.name).join(', ')} · {c.notes}</p>
+        <p class="muted">
+          {c.startDate} to {c.endDate} · targets:{' '}
+          {c.targetIds.map((t) => cat.target(t)?.name).join(', ')} · {c.notes}
+        </p>
       </div>
-      <Section title="Flags, soonest first" id="flags"><Flags cat={cat} campaignId={id} /></Section>
-      <Section title="Next nights" id="next-nights"><NextNights cat={cat} campaignId={id} /></Section>
-      <Section title="Latest night reports" id="latest-reports"><LatestReports cat={cat} campaignId={id} /></Section>
+      <Section title="Flags, soonest first" id="flags">
+        <Flags cat={cat} campaignId={id} />
+      </Section>
+      <Section title="Next nights" id="next-nights">
+        <NextNights cat={cat} campaignId={id} />
+      </Section>
+      <Section title="Latest night reports" id="latest-reports">
+        <LatestReports cat={cat} campaignId={id} />
+      </Section>
     </div>
   );
 }

@@ -26,11 +26,15 @@ type Value = string | boolean | number[];
 
 /** "az alt, az alt, …" (degrees) → mask points, or the rule a pair breaks when it is not two numbers. */
 export function parseMask(text: string): { points: HorizonPoint[] } | { rule: string } {
-  const pairs = text.split(/[,;\n]/).map((p) => p.trim()).filter(Boolean);
+  const pairs = text
+    .split(/[,;\n]/)
+    .map((p) => p.trim())
+    .filter(Boolean);
   const points: HorizonPoint[] = [];
   for (const [i, p] of pairs.entries()) {
     const nums = p.split(/\s+/).map(Number);
-    if (nums.length !== 2 || nums.some((n) => !Number.isFinite(n))) return { rule: `pair ${i + 1} "${p}" must be two numbers: azimuth then altitude, degrees` };
+    if (nums.length !== 2 || nums.some((n) => !Number.isFinite(n)))
+      return { rule: `pair ${i + 1} "${p}" must be two numbers: azimuth then altitude, degrees` };
     points.push({ azimuthDeg: nums[0]!, altitudeDeg: nums[1]! });
   }
   return { points };
@@ -45,7 +49,10 @@ function setPath(body: Record<string, unknown>, path: string, v: unknown): void 
 }
 
 /** The request body from the form's values, or the first field the client itself cannot read. */
-export function bodyOf(fields: FieldSpec[], values: Record<string, Value>): { body: Record<string, unknown> } | { field: string; rule: string } {
+export function bodyOf(
+  fields: FieldSpec[],
+  values: Record<string, Value>,
+): { body: Record<string, unknown> } | { field: string; rule: string } {
   const body: Record<string, unknown> = {};
   for (const f of fields) {
     const v = values[f.key];
@@ -59,7 +66,8 @@ export function bodyOf(fields: FieldSpec[], values: Record<string, Value>): { bo
       if (s === '' && f.optional) continue;
       if (f.kind === 'number') {
         const n = s === '' ? NaN : Number(s);
-        if (!Number.isFinite(n)) return { field: f.key, rule: `${JSON.stringify(s)} must be a number` };
+        if (!Number.isFinite(n))
+          return { field: f.key, rule: `${JSON.stringify(s)} must be a number` };
         setPath(body, f.key, n);
       } else setPath(body, f.key, f.toValue ? f.toValue(s) : s);
     }
@@ -68,7 +76,10 @@ export function bodyOf(fields: FieldSpec[], values: Record<string, Value>): { bo
 }
 
 /** Server messages keyed by the form field whose path prefixes theirs (horizonMask.2.altitudeDeg → horizonMask). */
-export function messagesByField(fields: FieldSpec[], raw: Record<string, string>): Record<string, string> {
+export function messagesByField(
+  fields: FieldSpec[],
+  raw: Record<string, string>,
+): Record<string, string> {
   const out: Record<string, string> = {};
   for (const [path, msg] of Object.entries(raw)) {
     const f = fields.find((x) => path === x.key || path.startsWith(`${x.key}.`));
@@ -79,15 +90,36 @@ export function messagesByField(fields: FieldSpec[], raw: Record<string, string>
   return out;
 }
 
-const initialOf = (fields: FieldSpec[]) => Object.fromEntries(fields.map((f) => [f.key, f.initial ?? (f.kind === 'boolean' ? false : f.kind === 'ids' ? [] : '')])) as Record<string, Value>;
+const initialOf = (fields: FieldSpec[]) =>
+  Object.fromEntries(
+    fields.map((f) => [
+      f.key,
+      f.initial ?? (f.kind === 'boolean' ? false : f.kind === 'ids' ? [] : ''),
+    ]),
+  ) as Record<string, Value>;
 
-export function CreateForm({ title, path, fields, onCreated, ids }: { title: string; path: string; fields: FieldSpec[]; onCreated: () => void; ids?: Record<string, { id: number; name: string }[]> }) {
+export function CreateForm({
+  title,
+  path,
+  fields,
+  onCreated,
+  ids,
+}: {
+  title: string;
+  path: string;
+  fields: FieldSpec[];
+  onCreated: () => void;
+  ids?: Record<string, { id: number; name: string }[]>;
+}) {
   const [values, setValues] = useState(() => initialOf(fields));
   const [error, setError] = useState<unknown>(null);
   const [local, setLocal] = useState<{ field: string; rule: string } | null>(null);
   const [created, setCreated] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
-  const msgs = { ...messagesByField(fields, fieldMessages(error)), ...(local ? { [local.field]: local.rule } : {}) };
+  const msgs = {
+    ...messagesByField(fields, fieldMessages(error)),
+    ...(local ? { [local.field]: local.rule } : {}),
+  };
   const set = (k: string, v: Value) => setValues({ ...values, [k]: v });
   const submit = async (e: Event) => {
     e.preventDefault();
@@ -111,31 +143,93 @@ export function CreateForm({ title, path, fields, onCreated, ids }: { title: str
   };
   const input = (f: FieldSpec) => {
     const v = values[f.key];
-    const common = { name: f.key, 'aria-invalid': !!msgs[f.key], 'aria-describedby': msgs[f.key] ? `${path.slice(1)}-${f.key}-msg` : undefined };
+    const common = {
+      name: f.key,
+      'aria-invalid': !!msgs[f.key],
+      'aria-describedby': msgs[f.key] ? `${path.slice(1)}-${f.key}-msg` : undefined,
+    };
     switch (f.kind) {
       case 'boolean':
-        return <input type="checkbox" {...common} checked={Boolean(v)} onChange={(e) => set(f.key, e.currentTarget.checked)} />;
+        return (
+          <input
+            type="checkbox"
+            {...common}
+            checked={Boolean(v)}
+            onChange={(e) => set(f.key, e.currentTarget.checked)}
+          />
+        );
       case 'select':
-        return <select {...common} value={String(v)} onChange={(e) => set(f.key, e.currentTarget.value)}>{f.options!.map((o) => <option key={o.value} value={o.value}>{o.label}</option>)}</select>;
+        return (
+          <select {...common} value={String(v)} onChange={(e) => set(f.key, e.currentTarget.value)}>
+            {f.options!.map((o) => (
+              <option key={o.value} value={o.value}>
+                {o.label}
+              </option>
+            ))}
+          </select>
+        );
       case 'textarea':
       case 'mask':
-        return <textarea {...common} rows={2} value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+        return (
+          <textarea
+            {...common}
+            rows={2}
+            value={String(v)}
+            onInput={(e) => set(f.key, e.currentTarget.value)}
+          />
+        );
       case 'ids': {
         const chosen = v as number[];
         return (
           <span class="id-choices" role="group" aria-label={f.label}>
             {(ids?.[f.key] ?? []).map((o) => (
-              <label key={o.id} class="inline"><input type="checkbox" checked={chosen.includes(o.id)} onChange={(e) => set(f.key, e.currentTarget.checked ? [...chosen, o.id] : chosen.filter((x) => x !== o.id))} /> {o.name}</label>
+              <label key={o.id} class="inline">
+                <input
+                  type="checkbox"
+                  checked={chosen.includes(o.id)}
+                  onChange={(e) =>
+                    set(
+                      f.key,
+                      e.currentTarget.checked
+                        ? [...chosen, o.id]
+                        : chosen.filter((x) => x !== o.id),
+                    )
+                  }
+                />{' '}
+                {o.name}
+              </label>
             ))}
           </span>
         );
       }
       case 'number':
-        return <input {...common} type="number" step="any" value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+        return (
+          <input
+            {...common}
+            type="number"
+            step="any"
+            value={String(v)}
+            onInput={(e) => set(f.key, e.currentTarget.value)}
+          />
+        );
       case 'date':
-        return <input {...common} type="date" value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+        return (
+          <input
+            {...common}
+            type="date"
+            value={String(v)}
+            onInput={(e) => set(f.key, e.currentTarget.value)}
+          />
+        );
       default:
-        return <input {...common} type="text" value={String(v)} onInput={(e) => set(f.key, e.currentTarget.value)} />;
+        return (
+          <input
+            {...common}
+            type="text"
+            value={String(v)}
+            onInput={(e) => set(f.key, e.currentTarget.value)}
+          />
+        );
     }
   };
   const unplaced = msgs['(form)'];
@@ -148,34 +242,67 @@ export function CreateForm({ title, path, fields, onCreated, ids }: { title: str
             // A list of checkboxes holds labels of its own, so its wrapper cannot be a label.
             const Wrap = f.kind === 'ids' ? 'div' : 'label';
             return (
-              <Wrap key={f.key} class={`field${f.kind === 'ids' || f.kind === 'mask' || f.kind === 'textarea' ? ' wide' : ''}${msgs[f.key] ? ' invalid' : ''}`}>
-                <span>{f.label}{f.optional ? <span class="muted"> (optional)</span> : null}</span>
+              <Wrap
+                key={f.key}
+                class={`field${f.kind === 'ids' || f.kind === 'mask' || f.kind === 'textarea' ? ' wide' : ''}${msgs[f.key] ? ' invalid' : ''}`}
+              >
+                <span>
+                  {f.label}
+                  {f.optional ? <span class="muted"> (optional)</span> : null}
+                </span>
                 {input(f)}
                 {f.hint && <span class="muted hint">{f.hint}</span>}
-                {msgs[f.key] && <span class="field-msg" id={`${path.slice(1)}-${f.key}-msg`}>{msgs[f.key]}</span>}
+                {msgs[f.key] && (
+                  <span class="field-msg" id={`${path.slice(1)}-${f.key}-msg`}>
+                    {msgs[f.key]}
+                  </span>
+                )}
               </Wrap>
             );
           })}
         </div>
         <div class="toolbar">
-          <button type="submit" class="primary" disabled={busy}>Add</button>
-          {created && <span class="created" role="status">{created}</span>}
+          <button type="submit" class="primary" disabled={busy}>
+            Add
+          </button>
+          {created && (
+            <span class="created" role="status">
+              {created}
+            </span>
+          )}
         </div>
-        {unplaced && <p class="field-msg" role="alert">{unplaced}</p>}
+        {unplaced && (
+          <p class="field-msg" role="alert">
+            {unplaced}
+          </p>
+        )}
         {error !== null && !Object.keys(msgs).length ? <ErrorLine error={error} /> : null}
-        {(error !== null || local) && <p class="muted">Nothing was stored; correct the marked fields and add again.</p>}
+        {(error !== null || local) && (
+          <p class="muted">Nothing was stored; correct the marked fields and add again.</p>
+        )}
       </fieldset>
     </form>
   );
 }
 
-const DARKNESS = [{ value: '', label: 'server default (astronomical)' }, { value: 'astronomical', label: 'astronomical (Sun below −18°)' }, { value: 'nautical', label: 'nautical (Sun below −12°)' }, { value: 'civil', label: 'civil (Sun below −6°)' }];
+const DARKNESS = [
+  { value: '', label: 'server default (astronomical)' },
+  { value: 'astronomical', label: 'astronomical (Sun below −18°)' },
+  { value: 'nautical', label: 'nautical (Sun below −12°)' },
+  { value: 'civil', label: 'civil (Sun below −6°)' },
+];
 
 export const SYSTEM_FIELDS: FieldSpec[] = [
   { key: 'name', label: 'name', kind: 'text' },
   { key: 'raDeg', label: 'RA (°, ICRS)', kind: 'number' },
   { key: 'decDeg', label: 'Dec (°, ICRS)', kind: 'number' },
-  { key: 'positionEpoch', label: 'position epoch', kind: 'text', optional: true, hint: 'e.g. J2016.0, an ISO 8601 instant, JD or MJD; default J2000.0' },
+  {
+    key: 'positionEpoch',
+    label: 'position epoch',
+    kind: 'text',
+    optional: true,
+    hint: 'e.g. J2016.0, an ISO 8601 instant, JD or MJD; default J2000.0',
+  },
   { key: 'pmRaMasYr', label: 'μα* (mas/yr)', kind: 'number', optional: true },
   { key: 'pmDecMasYr', label: 'μδ (mas/yr)', kind: 'number', optional: true },
   { key: 'distancePc', label: 'distance (pc)', kind: 'number', optional: true },
@@ -190,10 +317,22 @@ export const SITE_FIELDS: FieldSpec[] = [
   { key: 'elevationM', label: 'elevation (m)', kind: 'number' },
   { key: 'timeZone', label: 'time zone (IANA)', kind: 'text', hint: 'e.g. America/Santiago' },
   { key: 'minAltitudeDeg', label: 'lowest altitude (°)', kind: 'number', optional: true },
-  { key: 'sunAvoidanceDeg', label: 'Sun avoidance (°)', kind: 'number', optional: true, hint: 'default 45°; follow the site’s own interlock if stricter' },
+  {
+    key: 'sunAvoidanceDeg',
+    label: 'Sun avoidance (°)',
+    kind: 'number',
+    optional: true,
+    hint: 'default 45°; follow the site’s own interlock if stricter',
+  },
   { key: 'pressureHpa', label: 'pressure (hPa)', kind: 'number', optional: true },
   { key: 'temperatureC', label: 'temperature (°C)', kind: 'number', optional: true },
-  { key: 'horizonMask', label: 'horizon mask', kind: 'mask', optional: true, hint: 'pairs “azimuth altitude” in degrees, separated by commas, e.g. 0 8, 170 34, 260 7' },
+  {
+    key: 'horizonMask',
+    label: 'horizon mask',
+    kind: 'mask',
+    optional: true,
+    hint: 'pairs “azimuth altitude” in degrees, separated by commas, e.g. 0 8, 170 34, 260 7',
+  },
   { key: 'laserGuideStar', label: 'laser guide star', kind: 'boolean' },
   { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
 ];
@@ -203,12 +342,45 @@ export const CAMPAIGN_FIELDS: FieldSpec[] = [
   { key: 'startDate', label: 'first night', kind: 'date' },
   { key: 'endDate', label: 'last night', kind: 'date' },
   { key: 'goals.cadenceDays', label: 'cadence (days)', kind: 'number' },
-  { key: 'goals.kinds', label: 'measurements', kind: 'select', initial: 'astrometry', options: [{ value: 'astrometry', label: 'astrometry' }, { value: 'spectroscopy', label: 'spectroscopy' }, { value: 'both', label: 'astrometry and spectroscopy' }], toValue: (s) => (s === 'both' ? ['astrometry', 'spectroscopy'] : [s]) },
-  { key: 'goals.densifiedCadenceDays', label: 'cadence near periapsis (days)', kind: 'number', optional: true },
-  { key: 'goals.densifyWithinDays', label: 'near periapsis means within (days)', kind: 'number', optional: true },
+  {
+    key: 'goals.kinds',
+    label: 'measurements',
+    kind: 'select',
+    initial: 'astrometry',
+    options: [
+      { value: 'astrometry', label: 'astrometry' },
+      { value: 'spectroscopy', label: 'spectroscopy' },
+      { value: 'both', label: 'astrometry and spectroscopy' },
+    ],
+    toValue: (s) => (s === 'both' ? ['astrometry', 'spectroscopy'] : [s]),
+  },
+  {
+    key: 'goals.densifiedCadenceDays',
+    label: 'cadence near periapsis (days)',
+    kind: 'number',
+    optional: true,
+  },
+  {
+    key: 'goals.densifyWithinDays',
+    label: 'near periapsis means within (days)',
+    kind: 'number',
+    optional: true,
+  },
   { key: 'constraints.maxAirmass', label: 'highest airmass', kind: 'number', optional: true },
-  { key: 'constraints.minMoonSeparationDeg', label: 'least Moon distance (°)', kind: 'number', optional: true },
-  { key: 'constraints.darkness', label: 'darkness', kind: 'select', optional: true, options: DARKNESS, initial: '' },
+  {
+    key: 'constraints.minMoonSeparationDeg',
+    label: 'least Moon distance (°)',
+    kind: 'number',
+    optional: true,
+  },
+  {
+    key: 'constraints.darkness',
+    label: 'darkness',
+    kind: 'select',
+    optional: true,
+    options: DARKNESS,
+    initial: '',
+  },
   { key: 'targetIds', label: 'targets', kind: 'ids' },
   { key: 'siteIds', label: 'sites', kind: 'ids' },
   { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
@@ -220,7 +392,16 @@ export function CreateRecords({ cat, onCreated }: { cat: Catalogue; onCreated: (
     <div class="create-records">
       <CreateForm title="New system" path="/systems" fields={SYSTEM_FIELDS} onCreated={onCreated} />
       <CreateForm title="New site" path="/sites" fields={SITE_FIELDS} onCreated={onCreated} />
-      <CreateForm title="New campaign" path="/campaigns" fields={CAMPAIGN_FIELDS} onCreated={onCreated} ids={{ targetIds: cat.targets.map((t) => ({ id: t.id, name: t.name })), siteIds: cat.sites.map((s) => ({ id: s.id, name: s.name })) }} />
+      <CreateForm
+        title="New campaign"
+        path="/campaigns"
+        fields={CAMPAIGN_FIELDS}
+        onCreated={onCreated}
+        ids={{
+          targetIds: cat.targets.map((t) => ({ id: t.id, name: t.name })),
+          siteIds: cat.sites.map((s) => ({ id: s.id, name: s.name })),
+        }}
+      />
     </div>
   );
 }

@@ -11,13 +11,47 @@ import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
 
 type Row = Record<string, unknown> & { id: number };
-interface Column { key: string; label: string; editable?: 'number' | 'text' | 'boolean' }
+interface Column {
+  key: string;
+  label: string;
+  editable?: 'number' | 'text' | 'boolean';
+}
 
-const SYSTEM_COLS: Column[] = [{ key: 'name', label: 'name', editable: 'text' }, { key: 'raDeg', label: 'RA (°, ICRS)', editable: 'number' }, { key: 'decDeg', label: 'Dec (°, ICRS)', editable: 'number' }, { key: 'distancePc', label: 'distance (pc)', editable: 'number' }, { key: 'massSolar', label: 'mass (M☉)', editable: 'number' }];
-const TARGET_COLS: Column[] = [{ key: 'name', label: 'name', editable: 'text' }, { key: 'systemName', label: 'system' }, { key: 'magnitude', label: 'magnitude', editable: 'number' }, { key: 'band', label: 'band', editable: 'text' }];
-const SITE_COLS: Column[] = [{ key: 'name', label: 'name', editable: 'text' }, { key: 'latitudeDeg', label: 'latitude (°, N +)', editable: 'number' }, { key: 'longitudeDeg', label: 'longitude (°, E +)', editable: 'number' }, { key: 'elevationM', label: 'elevation (m)', editable: 'number' }, { key: 'timeZone', label: 'time zone (IANA)', editable: 'text' }, { key: 'minAltitudeDeg', label: 'lowest altitude (°)', editable: 'number' }, { key: 'sunAvoidanceDeg', label: 'Sun avoidance (°)', editable: 'number' }, { key: 'laserGuideStar', label: 'laser guide star', editable: 'boolean' }];
+const SYSTEM_COLS: Column[] = [
+  { key: 'name', label: 'name', editable: 'text' },
+  { key: 'raDeg', label: 'RA (°, ICRS)', editable: 'number' },
+  { key: 'decDeg', label: 'Dec (°, ICRS)', editable: 'number' },
+  { key: 'distancePc', label: 'distance (pc)', editable: 'number' },
+  { key: 'massSolar', label: 'mass (M☉)', editable: 'number' },
+];
+const TARGET_COLS: Column[] = [
+  { key: 'name', label: 'name', editable: 'text' },
+  { key: 'systemName', label: 'system' },
+  { key: 'magnitude', label: 'magnitude', editable: 'number' },
+  { key: 'band', label: 'band', editable: 'text' },
+];
+const SITE_COLS: Column[] = [
+  { key: 'name', label: 'name', editable: 'text' },
+  { key: 'latitudeDeg', label: 'latitude (°, N +)', editable: 'number' },
+  { key: 'longitudeDeg', label: 'longitude (°, E +)', editable: 'number' },
+  { key: 'elevationM', label: 'elevation (m)', editable: 'number' },
+  { key: 'timeZone', label: 'time zone (IANA)', editable: 'text' },
+  { key: 'minAltitudeDeg', label: 'lowest altitude (°)', editable: 'number' },
+  { key: 'sunAvoidanceDeg', label: 'Sun avoidance (°)', editable: 'number' },
+  { key: 'laserGuideStar', label: 'laser guide star', editable: 'boolean' },
+];
 
-function RecordTable({ path, rows, cols, onSaved }: { path: string; rows: Row[]; cols: Column[]; onSaved: () => void }) {
+function RecordTable({
+  path,
+  rows,
+  cols,
+  onSaved,
+}: {
+  path: string;
+  rows: Row[];
+  cols: Column[];
+  onSaved: () => void;
+}) {
   const lead = useCan('lead');
   const [editing, setEditing] = useState<number | null>(null);
   const [values, setValues] = useState<Record<string, string | boolean>>({});
@@ -26,7 +60,20 @@ function RecordTable({ path, rows, cols, onSaved }: { path: string; rows: Row[];
   const start = (r: Row) => {
     setEditing(r.id);
     setError(null);
-    setValues(Object.fromEntries(cols.filter((c) => c.editable).map((c) => [c.key, c.editable === 'boolean' ? Boolean(r[c.key]) : r[c.key] === null || r[c.key] === undefined ? '' : String(r[c.key])])));
+    setValues(
+      Object.fromEntries(
+        cols
+          .filter((c) => c.editable)
+          .map((c) => [
+            c.key,
+            c.editable === 'boolean'
+              ? Boolean(r[c.key])
+              : r[c.key] === null || r[c.key] === undefined
+                ? ''
+                : String(r[c.key]),
+          ]),
+      ),
+    );
   };
   const save = async (r: Row) => {
     const patch: Record<string, unknown> = {};
@@ -46,7 +93,14 @@ function RecordTable({ path, rows, cols, onSaved }: { path: string; rows: Row[];
   };
   return (
     <table class="data records">
-      <thead><tr>{cols.map((c) => <th key={c.key}>{c.label}</th>)}{lead && <th>change</th>}</tr></thead>
+      <thead>
+        <tr>
+          {cols.map((c) => (
+            <th key={c.key}>{c.label}</th>
+          ))}
+          {lead && <th>change</th>}
+        </tr>
+      </thead>
       <tbody>
         {rows.map((r) => (
           <tr key={r.id} data-id={r.id}>
@@ -54,28 +108,74 @@ function RecordTable({ path, rows, cols, onSaved }: { path: string; rows: Row[];
               <td key={c.key}>
                 {editing === r.id && c.editable ? (
                   <>
-                    {c.editable === 'boolean'
-                      ? <input type="checkbox" aria-label={c.label} checked={Boolean(values[c.key])} onChange={(e) => setValues({ ...values, [c.key]: e.currentTarget.checked })} />
-                      : <input aria-label={c.label} name={c.key} {...({ type: c.editable === 'number' ? 'number' : 'text' } as object)} step="any" value={String(values[c.key] ?? '')} aria-invalid={!!msgs[c.key]} onInput={(e) => setValues({ ...values, [c.key]: e.currentTarget.value })} />}
+                    {c.editable === 'boolean' ? (
+                      <input
+                        type="checkbox"
+                        aria-label={c.label}
+                        checked={Boolean(values[c.key])}
+                        onChange={(e) => setValues({ ...values, [c.key]: e.currentTarget.checked })}
+                      />
+                    ) : (
+                      <input
+                        aria-label={c.label}
+                        name={c.key}
+                        {...({ type: c.editable === 'number' ? 'number' : 'text' } as object)}
+                        step="any"
+                        value={String(values[c.key] ?? '')}
+                        aria-invalid={!!msgs[c.key]}
+                        onInput={(e) => setValues({ ...values, [c.key]: e.currentTarget.value })}
+                      />
+                    )}
                     {msgs[c.key] && <span class="field-msg">{msgs[c.key]}</span>}
                   </>
-                ) : typeof r[c.key] === 'boolean' ? (r[c.key] ? 'yes' : 'no') : String(r[c.key] ?? '–')}
+                ) : typeof r[c.key] === 'boolean' ? (
+                  r[c.key] ? (
+                    'yes'
+                  ) : (
+                    'no'
+                  )
+                ) : (
+                  String(r[c.key] ?? '–')
+                )}
               </td>
             ))}
             {lead && (
               <td class="actions">
-                {editing === r.id ? <><button type="button" class="primary" onClick={() => save(r)}>Save</button><button type="button" onClick={() => setEditing(null)}>Cancel</button></> : <button type="button" onClick={() => start(r)}>Edit</button>}
+                {editing === r.id ? (
+                  <>
+                    <button type="button" class="primary" onClick={() => save(r)}>
+                      Save
+                    </button>
+                    <button type="button" onClick={() => setEditing(null)}>
+                      Cancel
+                    </button>
+                  </>
+                ) : (
+                  <button type="button" onClick={() => start(r)}>
+                    Edit
+                  </button>
+                )}
               </td>
             )}
           </tr>
         ))}
       </tbody>
-      {error !== null && !Object.keys(msgs).length ? <caption><ErrorLine error={error} /></caption> : null}
+      {error !== null && !Object.keys(msgs).length ? (
+        <caption>
+          <ErrorLine error={error} />
+        </caption>
+      ) : null}
     </table>
   );
 }
 
-interface ImportReport { kind: string; dryRun: boolean; rows: number; written: number; problems: { line: number; column: string; value: unknown; rule: string }[] }
+interface ImportReport {
+  kind: string;
+  dryRun: boolean;
+  rows: number;
+  written: number;
+  problems: { line: number; column: string; value: unknown; rule: string }[];
+}
 
 function CsvImport({ onDone }: { onDone: () => void }) {
   const [kind, setKind] = useState('measurements');
@@ -86,10 +186,13 @@ function CsvImport({ onDone }: { onDone: () => void }) {
     setError(null);
     setReport(null);
     try {
-      setReport(await send<ImportReport>('POST', `/imports/${kind}?dryRun=${dryRun}`, text, 'text/csv'));
-      if (!dryRun) (invalidateCatalogue(), onDone());
+      setReport(
+        await send<ImportReport>('POST', `/imports/${kind}?dryRun=${dryRun}`, text, 'text/csv'),
+      );
+      if (!dryRun) invalidateCatalogue(), onDone();
     } catch (e) {
-      if (e instanceof ApiError && (e.details as ImportReport | undefined)?.problems) setReport(e.details as ImportReport);
+      if (e instanceof ApiError && (e.details as ImportReport | undefined)?.problems)
+        setReport(e.details as ImportReport);
       else setError(e);
     }
   };
@@ -97,23 +200,75 @@ function CsvImport({ onDone }: { onDone: () => void }) {
   return (
     <div class="csv-import">
       <div class="toolbar">
-        <label class="inline">kind <select value={kind} onChange={(e) => setKind(e.currentTarget.value)}><option value="targets">targets</option><option value="orbit-solutions">orbit solutions</option><option value="measurements">measurements</option></select></label>
-        <label class="inline">file <input type="file" accept=".csv,text/csv" onChange={(e) => readFile(e.currentTarget.files?.[0])} /></label>
+        <label class="inline">
+          kind{' '}
+          <select value={kind} onChange={(e) => setKind(e.currentTarget.value)}>
+            <option value="targets">targets</option>
+            <option value="orbit-solutions">orbit solutions</option>
+            <option value="measurements">measurements</option>
+          </select>
+        </label>
+        <label class="inline">
+          file{' '}
+          <input
+            type="file"
+            accept=".csv,text/csv"
+            onChange={(e) => readFile(e.currentTarget.files?.[0])}
+          />
+        </label>
       </div>
-      <label class="field wide"><span>CSV text (header row first)</span><textarea rows={6} value={text} onInput={(e) => setText(e.currentTarget.value)} /></label>
+      <label class="field wide">
+        <span>CSV text (header row first)</span>
+        <textarea rows={6} value={text} onInput={(e) => setText(e.currentTarget.value)} />
+      </label>
       <div class="toolbar">
-        <button type="button" onClick={() => run(true)}>Check only</button>
-        <button type="button" class="primary" onClick={() => run(false)}>Import all rows</button>
+        <button type="button" onClick={() => run(true)}>
+          Check only
+        </button>
+        <button type="button" class="primary" onClick={() => run(false)}>
+          Import all rows
+        </button>
       </div>
       <ErrorLine error={error} />
       {report && (
-        <div class={report.problems.length ? 'import-report bad' : 'import-report good'} role="status">
-          {report.problems.length
-            ? <p>{report.problems.length} problem{report.problems.length === 1 ? '' : 's'} in {report.rows} rows; nothing was written.</p>
-            : <p>{report.rows} rows {report.dryRun ? 'checked, all good; nothing written yet' : `imported (${report.written} written)`}.</p>}
+        <div
+          class={report.problems.length ? 'import-report bad' : 'import-report good'}
+          role="status"
+        >
+          {report.problems.length ? (
+            <p>
+              {report.problems.length} problem{report.problems.length === 1 ? '' : 's'} in{' '}
+              {report.rows} rows; nothing was written.
+            </p>
+          ) : (
+            <p>
+              {report.rows} rows{' '}
+              {report.dryRun
+                ? 'checked, all good; nothing written yet'
+                : `imported (${report.written} written)`}
+              .
+            </p>
+          )}
           {report.problems.length > 0 && (
-            <table class="data"><thead><tr><th>line</th><th>column</th><th>value</th><th>rule</th></tr></thead>
-              <tbody>{report.problems.map((p, i) => <tr key={i}><td>{p.line}</td><td>{p.column}</td><td>{JSON.stringify(p.value)}</td><td>{p.rule}</td></tr>)}</tbody>
+            <table class="data">
+              <thead>
+                <tr>
+                  <th>line</th>
+                  <th>column</th>
+                  <th>value</th>
+                  <th>rule</th>
+                </tr>
+              </thead>
+              <tbody>
+                {report.problems.map((p, i) => (
+                  <tr key={i}>
+                    <td>{p.line}</td>
+                    <td>{p.column}</td>
+                    <td>{JSON.stringify(p.value)}</td>
+                    <td>{p.rule}</td>
+                  </tr>
+                ))}
+              </tbody>
             </table>
           )}
         </div>
@@ -129,28 +284,106 @@ export function RecordsView() {
   if (error) return <ErrorLine error={error} />;
   if (!cat) return <Loading what="the records" />;
   const reload = () => setTick(tick + 1);
-  const targets = cat.targets.map((t) => ({ ...t, systemName: cat.system(t.systemId)?.name })) as unknown as Row[];
+  const targets = cat.targets.map((t) => ({
+    ...t,
+    systemName: cat.system(t.systemId)?.name,
+  })) as unknown as Row[];
   return (
     <div class="view records">
-      <div class="view-head"><h1>Records</h1><p class="muted">{lead ? 'You are a lead: you can change and add records and import CSV files.' : 'Read only: changing records needs the lead role.'}</p></div>
-      <Section title="Systems" id="systems"><RecordTable path="/systems" rows={cat.systems as unknown as Row[]} cols={SYSTEM_COLS} onSaved={reload} /></Section>
+      <div class="view-head">
+        <h1>Records</h1>
+        <p class="muted">
+          {lead
+            ? 'You are a lead: you can change and add records and import CSV files.'
+            : 'Read only: changing records needs the lead role.'}
+        </p>
+      </div>
+      <Section title="Systems" id="systems">
+        <RecordTable
+          path="/systems"
+          rows={cat.systems as unknown as Row[]}
+          cols={SYSTEM_COLS}
+          onSaved={reload}
+        />
+      </Section>
       <Section title="Targets" id="targets">
         <RecordTable path="/targets" rows={targets} cols={TARGET_COLS} onSaved={reload} />
-        <p>{cat.targets.map((t) => <a key={t.id} class="chip" href={`/targets/${t.id}`}>{t.name} →</a>)}</p>
+        <p>
+          {cat.targets.map((t) => (
+            <a key={t.id} class="chip" href={`/targets/${t.id}`}>
+              {t.name} →
+            </a>
+          ))}
+        </p>
       </Section>
       <Section title="Orbit solutions" id="orbit-solutions">
         <table class="data">
-          <thead><tr><th>target</th><th>version</th><th>provenance</th><th>reference</th><th>P (yr)</th><th>e</th><th>a (″)</th><th>relativistic terms</th></tr></thead>
-          <tbody>{cat.solutions.map((s) => <tr key={s.id} class={s.current ? 'current' : ''}><td><a href={`/targets/${s.targetId}`}>{cat.target(s.targetId)?.name}</a></td><td>v{s.version}{s.current && <span class="tag">current</span>}</td><td>{s.provenance}</td><td>{s.reference}</td><td>{String(s.orbit.elements.periodYears ?? '–')}</td><td>{String(s.orbit.elements.eccentricity ?? '–')}</td><td>{String(s.orbit.elements.semiMajorAxisArcsec ?? '–')}</td><td>{Object.entries(s.orbit.relativity ?? {}).filter(([, v]) => v).map(([k]) => k).join(', ') || 'none'}</td></tr>)}</tbody>
+          <thead>
+            <tr>
+              <th>target</th>
+              <th>version</th>
+              <th>provenance</th>
+              <th>reference</th>
+              <th>P (yr)</th>
+              <th>e</th>
+              <th>a (″)</th>
+              <th>relativistic terms</th>
+            </tr>
+          </thead>
+          <tbody>
+            {cat.solutions.map((s) => (
+              <tr key={s.id} class={s.current ? 'current' : ''}>
+                <td>
+                  <a href={`/targets/${s.targetId}`}>{cat.target(s.targetId)?.name}</a>
+                </td>
+                <td>
+                  v{s.version}
+                  {s.current && <span class="tag">current</span>}
+                </td>
+                <td>{s.provenance}</td>
+                <td>{s.reference}</td>
+                <td>{String(s.orbit.elements.periodYears ?? '–')}</td>
+                <td>{String(s.orbit.elements.eccentricity ?? '–')}</td>
+                <td>{String(s.orbit.elements.semiMajorAxisArcsec ?? '–')}</td>
+                <td>
+                  {Object.entries(s.orbit.relativity ?? {})
+                    .filter(([, v]) => v)
+                    .map(([k]) => k)
+                    .join(', ') || 'none'}
+                </td>
+              </tr>
+            ))}
+          </tbody>
         </table>
-        <p class="muted">New versions come from a fit, an import below, or POST /api/orbit-solutions; a target’s page switches the current one.</p>
+        <p class="muted">
+          New versions come from a fit, an import below, or POST /api/orbit-solutions; a target’s
+          page switches the current one.
+        </p>
       </Section>
       <Section title="Sites" id="sites">
-        <RecordTable path="/sites" rows={cat.sites as unknown as Row[]} cols={SITE_COLS} onSaved={reload} />
-        {cat.sites.some((s) => s.laserGuideStar) && <Caution>Sites marked “laser guide star”: aircraft and satellite avoidance follow the site’s laser-traffic rules and the local aviation authority, not this tool.</Caution>}
+        <RecordTable
+          path="/sites"
+          rows={cat.sites as unknown as Row[]}
+          cols={SITE_COLS}
+          onSaved={reload}
+        />
+        {cat.sites.some((s) => s.laserGuideStar) && (
+          <Caution>
+            Sites marked “laser guide star”: aircraft and satellite avoidance follow the site’s
+            laser-traffic rules and the local aviation authority, not this tool.
+          </Caution>
+        )}
       </Section>
-      {lead && <Section title="Add a system, site or campaign" id="create"><CreateRecords cat={cat} onCreated={reload} /></Section>}
-      {lead && <Section title="Import a CSV file" id="import"><CsvImport onDone={reload} /></Section>}
+      {lead && (
+        <Section title="Add a system, site or campaign" id="create">
+          <CreateRecords cat={cat} onCreated={reload} />
+        </Section>
+      )}
+      {lead && (
+        <Section title="Import a CSV file" id="import">
+          <CsvImport onDone={reload} />
+        </Section>
+      )}
     </div>
   );
 }

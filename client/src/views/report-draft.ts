@@ -7,8 +7,22 @@
 import type { Outcome, ReportRow } from '../api/types.ts';
 
 export const CONDITION_FIELDS = [
-  { key: 'seeingArcsec', label: 'seeing FWHM at zenith', unit: 'arcsec', min: 0, max: 20, step: 0.01 },
-  { key: 'strehlRatio', label: 'adaptive-optics Strehl ratio', unit: '0–1', min: 0, max: 1, step: 0.01 },
+  {
+    key: 'seeingArcsec',
+    label: 'seeing FWHM at zenith',
+    unit: 'arcsec',
+    min: 0,
+    max: 20,
+    step: 0.01,
+  },
+  {
+    key: 'strehlRatio',
+    label: 'adaptive-optics Strehl ratio',
+    unit: '0–1',
+    min: 0,
+    max: 1,
+    step: 0.01,
+  },
   { key: 'cloudCoverPct', label: 'cloud cover', unit: '%', min: 0, max: 100, step: 1 },
   { key: 'humidityPct', label: 'relative humidity', unit: '%', min: 0, max: 100, step: 1 },
   { key: 'windMS', label: 'wind speed', unit: 'm/s', min: 0, max: 100, step: 0.1 },
@@ -50,47 +64,102 @@ const str = (v: number | null | undefined) => (v === null || v === undefined ? '
 
 /** The form for a stored report (or an empty one), with an outcome row for every block of the night. */
 export function formOf(report: ReportRow | null, blockIds: number[]): ReportForm {
-  const conditions = Object.fromEntries(CONDITION_FIELDS.map((f) => [f.key, str(report?.[f.key])])) as Record<ConditionKey, string>;
+  const conditions = Object.fromEntries(
+    CONDITION_FIELDS.map((f) => [f.key, str(report?.[f.key])]),
+  ) as Record<ConditionKey, string>;
   const outcomes: ReportForm['outcomes'] = {};
   for (const id of blockIds) {
     const o = report?.outcomes.find((x) => x.blockId === id);
-    outcomes[id] = { status: o?.status ?? '', exposureMinutes: str(o?.exposureMinutes), notes: o?.notes ?? '' };
+    outcomes[id] = {
+      status: o?.status ?? '',
+      exposureMinutes: str(o?.exposureMinutes),
+      notes: o?.notes ?? '',
+    };
   }
-  return { conditions, timeLostReason: report?.timeLostReason ?? '', notes: report?.notes ?? '', outcomes };
+  return {
+    conditions,
+    timeLostReason: report?.timeLostReason ?? '',
+    notes: report?.notes ?? '',
+    outcomes,
+  };
 }
 
 /** The request body for a form: empty number fields become null; blocks without a status are not reported. */
 export function bodyOf(form: ReportForm) {
   const num = (s: string) => (s.trim() === '' ? null : Number(s));
-  const conditions = Object.fromEntries(CONDITION_FIELDS.map((f) => [f.key, num(form.conditions[f.key])])) as Record<ConditionKey, number | null>;
+  const conditions = Object.fromEntries(
+    CONDITION_FIELDS.map((f) => [f.key, num(form.conditions[f.key])]),
+  ) as Record<ConditionKey, number | null>;
   const outcomes: Outcome[] = Object.entries(form.outcomes)
     .filter(([, o]) => o.status)
-    .map(([id, o]) => ({ blockId: Number(id), status: o.status, exposureMinutes: num(o.exposureMinutes), notes: o.notes }));
-  return { ...conditions, timeLostHours: num(form.conditions.timeLostHours) ?? 0, timeLostReason: form.timeLostReason, notes: form.notes, outcomes };
+    .map(([id, o]) => ({
+      blockId: Number(id),
+      status: o.status,
+      exposureMinutes: num(o.exposureMinutes),
+      notes: o.notes,
+    }));
+  return {
+    ...conditions,
+    timeLostHours: num(form.conditions.timeLostHours) ?? 0,
+    timeLostReason: form.timeLostReason,
+    notes: form.notes,
+    outcomes,
+  };
 }
 
 /** Fields whose values differ between two forms, as [path, mine, theirs] for the conflict view. */
-export function differences(mine: ReportForm, theirs: ReportForm): { path: string; label: string; mine: string; theirs: string }[] {
+export function differences(
+  mine: ReportForm,
+  theirs: ReportForm,
+): { path: string; label: string; mine: string; theirs: string }[] {
   const out: { path: string; label: string; mine: string; theirs: string }[] = [];
-  for (const f of CONDITION_FIELDS) if (mine.conditions[f.key] !== theirs.conditions[f.key]) out.push({ path: `conditions.${f.key}`, label: `${f.label} (${f.unit})`, mine: mine.conditions[f.key], theirs: theirs.conditions[f.key] });
-  if (mine.timeLostReason !== theirs.timeLostReason) out.push({ path: 'timeLostReason', label: 'why time was lost', mine: mine.timeLostReason, theirs: theirs.timeLostReason });
-  if (mine.notes !== theirs.notes) out.push({ path: 'notes', label: 'notes', mine: mine.notes, theirs: theirs.notes });
+  for (const f of CONDITION_FIELDS)
+    if (mine.conditions[f.key] !== theirs.conditions[f.key])
+      out.push({
+        path: `conditions.${f.key}`,
+        label: `${f.label} (${f.unit})`,
+        mine: mine.conditions[f.key],
+        theirs: theirs.conditions[f.key],
+      });
+  if (mine.timeLostReason !== theirs.timeLostReason)
+    out.push({
+      path: 'timeLostReason',
+      label: 'why time was lost',
+      mine: mine.timeLostReason,
+      theirs: theirs.timeLostReason,
+    });
+  if (mine.notes !== theirs.notes)
+    out.push({ path: 'notes', label: 'notes', mine: mine.notes, theirs: theirs.notes });
   for (const id of new Set([...Object.keys(mine.outcomes), ...Object.keys(theirs.outcomes)])) {
     const a = mine.outcomes[Number(id)];
     const b = theirs.outcomes[Number(id)];
-    const show = (o: typeof a) => (o && o.status ? `${o.status}${o.exposureMinutes ? `, ${o.exposureMinutes} min` : ''}${o.notes ? `, “${o.notes}”` : ''}` : '(none)');
-    if (show(a) !== show(b)) out.push({ path: `outcomes.${id}`, label: `block ${id} outcome`, mine: show(a), theirs: show(b) });
+    const show = (o: typeof a) =>
+      o && o.status
+        ? `${o.status}${o.exposureMinutes ? `, ${o.exposureMinutes} min` : ''}${o.notes ? `, “${o.notes}”` : ''}`
+        : '(none)';
+    if (show(a) !== show(b))
+      out.push({
+        path: `outcomes.${id}`,
+        label: `block ${id} outcome`,
+        mine: show(a),
+        theirs: show(b),
+      });
   }
   return out;
 }
 
 /** Take the chosen side of each differing field. */
-export function merge(mine: ReportForm, theirs: ReportForm, pick: Record<string, 'mine' | 'theirs'>): ReportForm {
+export function merge(
+  mine: ReportForm,
+  theirs: ReportForm,
+  pick: Record<string, 'mine' | 'theirs'>,
+): ReportForm {
   const out: ReportForm = structuredClone(mine);
   for (const [path, side] of Object.entries(pick)) {
     if (side === 'mine') continue;
     const [head, rest] = path.split('.') as [string, string | undefined];
-    if (head === 'conditions' && rest) out.conditions[rest as ConditionKey] = theirs.conditions[rest as ConditionKey];
+    if (head === 'conditions' && rest)
+      out.conditions[rest as ConditionKey] = theirs.conditions[rest as ConditionKey];
     else if (head === 'outcomes' && rest) {
       const o = theirs.outcomes[Number(rest)];
       if (o) out.outcomes[Number(rest)] = { ...o };

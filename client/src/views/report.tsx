@@ -11,18 +11,39 @@ import { utcClock, utcText, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { ReportConflict } from './report-conflict.tsx';
-import { bodyOf, CONDITION_FIELDS, dropDraft, formOf, readDraft, writeDraft, type ReportForm } from './report-draft.ts';
+import {
+  bodyOf,
+  CONDITION_FIELDS,
+  dropDraft,
+  formOf,
+  readDraft,
+  writeDraft,
+  type ReportForm,
+} from './report-draft.ts';
 import { ReportMeasurements } from './report-measurements.tsx';
 
 const STATUSES = ['obtained', 'partial', 'lost', 'withdrawn', 'planned'];
 
-interface Loaded { cat: Catalogue; night: NightRow; blocks: BlockRow[]; report: ReportRow | null }
+interface Loaded {
+  cat: Catalogue;
+  night: NightRow;
+  blocks: BlockRow[];
+  report: ReportRow | null;
+}
 
 async function load(nightId: number): Promise<Loaded> {
   const cat = await loadCatalogue();
   const night = await get<NightRow>(`/nights/${nightId}`);
-  const [blocks, reports] = await Promise.all([getAll<BlockRow>('/blocks', { nightId }), getAll<ReportRow>('/night-reports', { nightId })]);
-  return { cat, night, blocks: blocks.sort((a, b) => a.startUtc.localeCompare(b.startUtc)), report: reports[0] ?? null };
+  const [blocks, reports] = await Promise.all([
+    getAll<BlockRow>('/blocks', { nightId }),
+    getAll<ReportRow>('/night-reports', { nightId }),
+  ]);
+  return {
+    cat,
+    night,
+    blocks: blocks.sort((a, b) => a.startUtc.localeCompare(b.startUtc)),
+    report: reports[0] ?? null,
+  };
 }
 
 function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
@@ -31,8 +52,20 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
   const zone = cat.site(night.siteId)?.timeZone ?? 'UTC';
   const stored = readDraft(night.id);
   const [restored] = useState(stored);
-  const [base, setBase] = useState(stored ? stored.base : data.report ? { id: data.report.id, version: data.report.version } : null);
-  const [form, setForm] = useState<ReportForm>(stored?.form ?? formOf(data.report, blocks.map((b) => b.id)));
+  const [base, setBase] = useState(
+    stored
+      ? stored.base
+      : data.report
+        ? { id: data.report.id, version: data.report.version }
+        : null,
+  );
+  const [form, setForm] = useState<ReportForm>(
+    stored?.form ??
+      formOf(
+        data.report,
+        blocks.map((b) => b.id),
+      ),
+  );
   const [dirty, setDirty] = useState(!!stored);
   const [status, setStatus] = useState<string>('');
   const [error, setError] = useState<unknown>(null);
@@ -60,7 +93,12 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
       setDirty(false);
       setTheirs(null);
       setBase({ id: saved.id, version: saved.version });
-      setForm(formOf(saved, blocks.map((x) => x.id)));
+      setForm(
+        formOf(
+          saved,
+          blocks.map((x) => x.id),
+        ),
+      );
       setStatus(`Saved as version ${saved.version} at ${utcClock(new Date().toISOString())} UTC.`);
       onSaved();
     } catch (e) {
@@ -74,20 +112,64 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
   };
   const num = (k: (typeof CONDITION_FIELDS)[number]) => (
     <label key={k.key} class={messages[k.key] ? 'field invalid' : 'field'}>
-      <span>{k.label} ({k.unit})</span>
-      <input name={k.key} type="number" inputMode="decimal" min={k.min} max={k.max} step={k.step} value={form.conditions[k.key]} disabled={!canWrite}
-        aria-invalid={!!messages[k.key]} aria-describedby={messages[k.key] ? `${k.key}-msg` : undefined}
-        onInput={(e) => edit((d) => void (d.conditions[k.key] = e.currentTarget.value))} />
-      {messages[k.key] && <span class="field-msg" id={`${k.key}-msg`}>{messages[k.key]}</span>}
+      <span>
+        {k.label} ({k.unit})
+      </span>
+      <input
+        name={k.key}
+        type="number"
+        inputMode="decimal"
+        min={k.min}
+        max={k.max}
+        step={k.step}
+        value={form.conditions[k.key]}
+        disabled={!canWrite}
+        aria-invalid={!!messages[k.key]}
+        aria-describedby={messages[k.key] ? `${k.key}-msg` : undefined}
+        onInput={(e) => edit((d) => void (d.conditions[k.key] = e.currentTarget.value))}
+      />
+      {messages[k.key] && (
+        <span class="field-msg" id={`${k.key}-msg`}>
+          {messages[k.key]}
+        </span>
+      )}
     </label>
   );
   return (
     <>
-      {restored && <p class="notice" role="status">Restored an unsaved draft from {utcText(restored.savedAt)} UTC{restored.base ? `, started from version ${restored.base.version}` : ''}. Save it, or reload the stored version below.</p>}
+      {restored && (
+        <p class="notice" role="status">
+          Restored an unsaved draft from {utcText(restored.savedAt)} UTC
+          {restored.base ? `, started from version ${restored.base.version}` : ''}. Save it, or
+          reload the stored version below.
+        </p>
+      )}
       {theirs && (
-        <ReportConflict mine={form} theirs={formOf(theirs, blocks.map((b) => b.id))} theirsVersion={theirs.version}
-          onResolve={(merged) => { setForm(merged); save(merged, { id: theirs.id, version: theirs.version }); }}
-          onTakeTheirs={() => { dropDraft(night.id); setDirty(false); setTheirs(null); setBase({ id: theirs.id, version: theirs.version }); setForm(formOf(theirs, blocks.map((b) => b.id))); setStatus(`Took version ${theirs.version} from the server; your draft was discarded.`); }} />
+        <ReportConflict
+          mine={form}
+          theirs={formOf(
+            theirs,
+            blocks.map((b) => b.id),
+          )}
+          theirsVersion={theirs.version}
+          onResolve={(merged) => {
+            setForm(merged);
+            save(merged, { id: theirs.id, version: theirs.version });
+          }}
+          onTakeTheirs={() => {
+            dropDraft(night.id);
+            setDirty(false);
+            setTheirs(null);
+            setBase({ id: theirs.id, version: theirs.version });
+            setForm(
+              formOf(
+                theirs,
+                blocks.map((b) => b.id),
+              ),
+            );
+            setStatus(`Took version ${theirs.version} from the server; your draft was discarded.`);
+          }}
+        />
       )}
       <form class="report-form" onSubmit={(e) => (e.preventDefault(), save(form, base))} noValidate>
         <fieldset>
@@ -95,29 +177,100 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
           <div class="field-grid">{CONDITION_FIELDS.map(num)}</div>
           <label class={messages.timeLostReason ? 'field wide invalid' : 'field wide'}>
             <span>why time was lost</span>
-            <input name="timeLostReason" value={form.timeLostReason} disabled={!canWrite} onInput={(e) => edit((d) => void (d.timeLostReason = e.currentTarget.value))} />
+            <input
+              name="timeLostReason"
+              value={form.timeLostReason}
+              disabled={!canWrite}
+              onInput={(e) => edit((d) => void (d.timeLostReason = e.currentTarget.value))}
+            />
             {messages.timeLostReason && <span class="field-msg">{messages.timeLostReason}</span>}
           </label>
-          <label class="field wide"><span>notes</span><textarea name="notes" rows={3} value={form.notes} disabled={!canWrite} onInput={(e) => edit((d) => void (d.notes = e.currentTarget.value))} /></label>
+          <label class="field wide">
+            <span>notes</span>
+            <textarea
+              name="notes"
+              rows={3}
+              value={form.notes}
+              disabled={!canWrite}
+              onInput={(e) => edit((d) => void (d.notes = e.currentTarget.value))}
+            />
+          </label>
         </fieldset>
         <fieldset>
           <legend>Outcome of each block</legend>
           {blocks.length === 0 && <p class="muted">No blocks were planned on this night.</p>}
           <table class="data outcomes">
-            <thead><tr><th>block</th><th>UTC</th><th>local</th><th>outcome</th><th>exposure (min)</th><th>notes</th></tr></thead>
+            <thead>
+              <tr>
+                <th>block</th>
+                <th>UTC</th>
+                <th>local</th>
+                <th>outcome</th>
+                <th>exposure (min)</th>
+                <th>notes</th>
+              </tr>
+            </thead>
             <tbody>
               {blocks.map((b, i) => {
                 const o = form.outcomes[b.id] ?? { status: '', exposureMinutes: '', notes: '' };
-                const msg = messages[`outcomes.${i}.status`] ?? messages[`outcomes.${i}.exposureMinutes`];
-                const set = (f: (x: typeof o) => void) => edit((d) => { const x = { ...(d.outcomes[b.id] ?? o) }; f(x); d.outcomes[b.id] = x; });
+                const msg =
+                  messages[`outcomes.${i}.status`] ?? messages[`outcomes.${i}.exposureMinutes`];
+                const set = (f: (x: typeof o) => void) =>
+                  edit((d) => {
+                    const x = { ...(d.outcomes[b.id] ?? o) };
+                    f(x);
+                    d.outcomes[b.id] = x;
+                  });
                 return (
                   <tr key={b.id} data-block={b.id}>
-                    <td>{cat.target(b.targetId)?.name} {b.kind}{b.laserGuideStar && <span class="tag lgs-tag">laser</span>}</td>
-                    <td>{utcClock(b.startUtc)}–{utcClock(b.endUtc)}</td>
-                    <td>{zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}</td>
-                    <td><select name={`outcome-${b.id}`} aria-label={`outcome of block ${b.id}`} value={o.status} disabled={!canWrite} onChange={(e) => set((x) => void (x.status = e.currentTarget.value))}><option value="">(not reported)</option>{STATUSES.map((s) => <option key={s} value={s}>{s}</option>)}</select></td>
-                    <td><input type="number" min={0} max={1440} aria-label={`exposure of block ${b.id}, minutes`} value={o.exposureMinutes} disabled={!canWrite} onInput={(e) => set((x) => void (x.exposureMinutes = e.currentTarget.value))} />{msg && <span class="field-msg">{msg}</span>}</td>
-                    <td><input aria-label={`notes on block ${b.id}`} value={o.notes} disabled={!canWrite} onInput={(e) => set((x) => void (x.notes = e.currentTarget.value))} /></td>
+                    <td>
+                      {cat.target(b.targetId)?.name} {b.kind}
+                      {b.laserGuideStar && <span class="tag lgs-tag">laser</span>}
+                    </td>
+                    <td>
+                      {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
+                    </td>
+                    <td>
+                      {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
+                    </td>
+                    <td>
+                      <select
+                        name={`outcome-${b.id}`}
+                        aria-label={`outcome of block ${b.id}`}
+                        value={o.status}
+                        disabled={!canWrite}
+                        onChange={(e) => set((x) => void (x.status = e.currentTarget.value))}
+                      >
+                        <option value="">(not reported)</option>
+                        {STATUSES.map((s) => (
+                          <option key={s} value={s}>
+                            {s}
+                          </option>
+                        ))}
+                      </select>
+                    </td>
+                    <td>
+                      <input
+                        type="number"
+                        min={0}
+                        max={1440}
+                        aria-label={`exposure of block ${b.id}, minutes`}
+                        value={o.exposureMinutes}
+                        disabled={!canWrite}
+                        onInput={(e) =>
+                          set((x) => void (x.exposureMinutes = e.currentTarget.value))
+                        }
+                      />
+                      {msg && <span class="field-msg">{msg}</span>}
+                    </td>
+                    <td>
+                      <input
+                        aria-label={`notes on block ${b.id}`}
+                        value={o.notes}
+                        disabled={!canWrite}
+                        onInput={(e) => set((x) => void (x.notes = e.currentTarget.value))}
+                      />
+                    </td>
                   </tr>
                 );
               })}
@@ -126,9 +279,32 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
         </fieldset>
         {canWrite && (
           <div class="toolbar">
-            <button type="submit" class="primary">Save report</button>
-            {dirty && data.report && <button type="button" onClick={() => { dropDraft(night.id); setDirty(false); setBase({ id: data.report!.id, version: data.report!.version }); setForm(formOf(data.report, blocks.map((b) => b.id))); setStatus('Draft discarded; showing the stored version.'); }}>Discard draft</button>}
-            <span class="save-status" role="status">{status || (base ? `Stored version ${base.version}.` : 'No report stored for this night yet.')}</span>
+            <button type="submit" class="primary">
+              Save report
+            </button>
+            {dirty && data.report && (
+              <button
+                type="button"
+                onClick={() => {
+                  dropDraft(night.id);
+                  setDirty(false);
+                  setBase({ id: data.report!.id, version: data.report!.version });
+                  setForm(
+                    formOf(
+                      data.report,
+                      blocks.map((b) => b.id),
+                    ),
+                  );
+                  setStatus('Draft discarded; showing the stored version.');
+                }}
+              >
+                Discard draft
+              </button>
+            )}
+            <span class="save-status" role="status">
+              {status ||
+                (base ? `Stored version ${base.version}.` : 'No report stored for this night yet.')}
+            </span>
           </div>
         )}
         <ErrorLine error={error} />
@@ -146,12 +322,25 @@ export function ReportView({ nightId }: { nightId: number }) {
   return (
     <div class="view report">
       <div class="view-head">
-        <h1>Night report: {site?.name}, night of {data.night.date}</h1>
-        <p><a href={`/nights/${nightId}`}>← the night’s plan</a></p>
+        <h1>
+          Night report: {site?.name}, night of {data.night.date}
+        </h1>
+        <p>
+          <a href={`/nights/${nightId}`}>← the night’s plan</a>
+        </p>
       </div>
-      {data.blocks.some((b) => b.laserGuideStar) && <Caution>This night used a laser guide star: record any propagation stops ordered by the site’s laser-traffic system or spotters under time lost.</Caution>}
-      <Section title="Report" id="report"><Editor data={data} onSaved={() => setTick(tick + 1)} /></Section>
-      <Section title="Measurements obtained" id="measurements"><ReportMeasurements blocks={data.blocks} cat={data.cat} tick={tick} /></Section>
+      {data.blocks.some((b) => b.laserGuideStar) && (
+        <Caution>
+          This night used a laser guide star: record any propagation stops ordered by the site’s
+          laser-traffic system or spotters under time lost.
+        </Caution>
+      )}
+      <Section title="Report" id="report">
+        <Editor data={data} onSaved={() => setTick(tick + 1)} />
+      </Section>
+      <Section title="Measurements obtained" id="measurements">
+        <ReportMeasurements blocks={data.blocks} cat={data.cat} tick={tick} />
+      </Section>
     </div>
   );
 }

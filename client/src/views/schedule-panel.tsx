@@ -11,24 +11,64 @@ import { isoOf, ms, utcClock, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
-export interface ScheduledBlock { id: string; target: string; kind: string; start: Stamp; end: Stamp; minutes: number; airmassMiddle: number; altitudeMiddleDeg: number; pinned: boolean; laserGuideStar: boolean; cautions: string[] }
+export interface ScheduledBlock {
+  id: string;
+  target: string;
+  kind: string;
+  start: Stamp;
+  end: Stamp;
+  minutes: number;
+  airmassMiddle: number;
+  altitudeMiddleDeg: number;
+  pinned: boolean;
+  laserGuideStar: boolean;
+  cautions: string[];
+}
 export interface SchedulePreview {
-  schedule: { blocks: ScheduledBlock[]; leftOut: { id: string; target: string; kind: string; reason: string }[]; cautions: string[]; darkHours: number; scheduledHours: number; method: string; timeZone: string };
+  schedule: {
+    blocks: ScheduledBlock[];
+    leftOut: { id: string; target: string; kind: string; reason: string }[];
+    cautions: string[];
+    darkHours: number;
+    scheduledHours: number;
+    method: string;
+    timeZone: string;
+  };
   replaces: number[];
   kept: { id: number; reason: string }[];
   digest: string;
 }
-interface Edits { pins: Record<string, string>; remove: string[] }
+interface Edits {
+  pins: Record<string, string>;
+  remove: string[];
+}
 
 const MOVE_MIN = 15;
 
-export function SchedulePanel({ night, blocks, cat, canEdit, onChanged, onProposal }: { night: NightRow; blocks: BlockRow[]; cat: Catalogue; canEdit: boolean; onChanged: () => void; onProposal?: (p: ScheduledBlock[] | null) => void }) {
+export function SchedulePanel({
+  night,
+  blocks,
+  cat,
+  canEdit,
+  onChanged,
+  onProposal,
+}: {
+  night: NightRow;
+  blocks: BlockRow[];
+  cat: Catalogue;
+  canEdit: boolean;
+  onChanged: () => void;
+  onProposal?: (p: ScheduledBlock[] | null) => void;
+}) {
   const [edits, setEdits] = useState<Edits>({ pins: {}, remove: [] });
   const [preview, setPreview] = useState<SchedulePreview | null>(null);
   const { busy, error, run } = useAction();
   const [stored, setStored] = useState<string>('');
   const zone = cat.site(night.siteId)?.timeZone ?? 'UTC';
-  const body = (e: Edits) => ({ pins: Object.entries(e.pins).map(([id, start]) => ({ id, start })), remove: e.remove });
+  const body = (e: Edits) => ({
+    pins: Object.entries(e.pins).map(([id, start]) => ({ id, start })),
+    remove: e.remove,
+  });
   const propose = (e: Edits) =>
     run(async () => {
       setEdits(e);
@@ -40,17 +80,30 @@ export function SchedulePanel({ night, blocks, cat, canEdit, onChanged, onPropos
     if (!preview) return;
     await run(
       async () => {
-        const r = await send<{ written?: unknown[] }>('POST', `/nights/${night.id}/schedule/accept`, { ...body(edits), digest: preview.digest });
-        setStored(`Stored: ${r.written?.length ?? preview.schedule.blocks.length} blocks written, ${preview.replaces.length} planned blocks replaced.`);
+        const r = await send<{ written?: unknown[] }>(
+          'POST',
+          `/nights/${night.id}/schedule/accept`,
+          { ...body(edits), digest: preview.digest },
+        );
+        setStored(
+          `Stored: ${r.written?.length ?? preview.schedule.blocks.length} blocks written, ${preview.replaces.length} planned blocks replaced.`,
+        );
         setPreview(null);
         onProposal?.(null);
         setEdits({ pins: {}, remove: [] });
         onChanged();
       },
-      (err) => (err instanceof ApiError && err.status === 409 ? new Error(`${err.message}. Propose again to see the schedule as it now comes out.`) : err),
+      (err) =>
+        err instanceof ApiError && err.status === 409
+          ? new Error(`${err.message}. Propose again to see the schedule as it now comes out.`)
+          : err,
     );
   };
-  const pin = (b: ScheduledBlock, shiftMin = 0) => propose({ ...edits, pins: { ...edits.pins, [b.id]: isoOf(ms(b.start.utc) + shiftMin * 60_000) } });
+  const pin = (b: ScheduledBlock, shiftMin = 0) =>
+    propose({
+      ...edits,
+      pins: { ...edits.pins, [b.id]: isoOf(ms(b.start.utc) + shiftMin * 60_000) },
+    });
   const unpin = (b: ScheduledBlock) => {
     const { [b.id]: _, ...rest } = edits.pins;
     return propose({ ...edits, pins: rest });
@@ -62,54 +115,158 @@ export function SchedulePanel({ night, blocks, cat, canEdit, onChanged, onPropos
   const s = preview?.schedule;
   return (
     <Section title="Scheduler" id="scheduler">
-      <p class="muted">Proposes the night from the campaign’s targets and goals: blocks inside darkness and each target’s window, best airmass first. Pin a block to keep it where it is, move it, or leave it out; the rest is re-scheduled around it. Nothing is stored until you store it.</p>
+      <p class="muted">
+        Proposes the night from the campaign’s targets and goals: blocks inside darkness and each
+        target’s window, best airmass first. Pin a block to keep it where it is, move it, or leave
+        it out; the rest is re-scheduled around it. Nothing is stored until you store it.
+      </p>
       <div class="toolbar">
-        <button type="button" class="primary" disabled={busy} onClick={() => propose(edits)}>{preview ? 'Re-schedule' : 'Propose a schedule'}</button>
-        {preview && canEdit && <button type="button" disabled={busy} onClick={accept}>Store this schedule</button>}
-        {preview && <button type="button" disabled={busy} onClick={() => (setPreview(null), onProposal?.(null), setEdits({ pins: {}, remove: [] }))}>Discard proposal</button>}
+        <button type="button" class="primary" disabled={busy} onClick={() => propose(edits)}>
+          {preview ? 'Re-schedule' : 'Propose a schedule'}
+        </button>
+        {preview && canEdit && (
+          <button type="button" disabled={busy} onClick={accept}>
+            Store this schedule
+          </button>
+        )}
+        {preview && (
+          <button
+            type="button"
+            disabled={busy}
+            onClick={() => (
+              setPreview(null), onProposal?.(null), setEdits({ pins: {}, remove: [] })
+            )}
+          >
+            Discard proposal
+          </button>
+        )}
         {busy && <span class="loading">working…</span>}
-        {stored && <span class="save-status" role="status">{stored}</span>}
+        {stored && (
+          <span class="save-status" role="status">
+            {stored}
+          </span>
+        )}
       </div>
       <ErrorLine error={error} />
       {s && preview && (
         <>
-          {s.cautions.map((c) => <Caution key={c}>{c}</Caution>)}
-          <p>{s.blocks.length} blocks, <Qty v={s.scheduledHours} unit="h" /> of <Qty v={s.darkHours} unit="h" /> darkness ({s.method} solution). Storing replaces {preview.replaces.length} planned block{preview.replaces.length === 1 ? '' : 's'}{preview.kept.length ? `; keeps ${preview.kept.length}: ${preview.kept.map((k) => `#${k.id} (${k.reason})`).join(', ')}` : ''}.</p>
+          {s.cautions.map((c) => (
+            <Caution key={c}>{c}</Caution>
+          ))}
+          <p>
+            {s.blocks.length} blocks, <Qty v={s.scheduledHours} unit="h" /> of{' '}
+            <Qty v={s.darkHours} unit="h" /> darkness ({s.method} solution). Storing replaces{' '}
+            {preview.replaces.length} planned block{preview.replaces.length === 1 ? '' : 's'}
+            {preview.kept.length
+              ? `; keeps ${preview.kept.length}: ${preview.kept.map((k) => `#${k.id} (${k.reason})`).join(', ')}`
+              : ''}
+            .
+          </p>
           <table class="data proposal">
-            <thead><tr><th>block</th><th>UTC</th><th>local</th><th>airmass (middle)</th><th>altitude (°, middle)</th><th>pinned</th><th>change</th></tr></thead>
+            <thead>
+              <tr>
+                <th>block</th>
+                <th>UTC</th>
+                <th>local</th>
+                <th>airmass (middle)</th>
+                <th>altitude (°, middle)</th>
+                <th>pinned</th>
+                <th>change</th>
+              </tr>
+            </thead>
             <tbody>
               {s.blocks.map((b) => (
                 <tr key={b.id} data-proposed={b.id}>
-                  <td>{b.target} {b.kind}{b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}</td>
-                  <td>{utcClock(b.start.utc)}–{utcClock(b.end.utc)}</td>
-                  <td>{zoneClock(b.start.utc, zone)}–{zoneClock(b.end.utc, zone)}</td>
-                  <td><Qty v={b.airmassMiddle} unit="" digits={2} /></td>
-                  <td><Qty v={b.altitudeMiddleDeg} unit="" digits={0} /></td>
+                  <td>
+                    {b.target} {b.kind}
+                    {b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}
+                  </td>
+                  <td>
+                    {utcClock(b.start.utc)}–{utcClock(b.end.utc)}
+                  </td>
+                  <td>
+                    {zoneClock(b.start.utc, zone)}–{zoneClock(b.end.utc, zone)}
+                  </td>
+                  <td>
+                    <Qty v={b.airmassMiddle} unit="" digits={2} />
+                  </td>
+                  <td>
+                    <Qty v={b.altitudeMiddleDeg} unit="" digits={0} />
+                  </td>
                   <td>{b.pinned ? 'pinned' : ''}</td>
                   <td class="actions">
-                    {b.pinned ? <button type="button" onClick={() => unpin(b)} aria-label={`unpin ${b.id}`}>Unpin</button> : <button type="button" onClick={() => pin(b)} aria-label={`pin ${b.id}`}>Pin</button>}
-                    <button type="button" onClick={() => pin(b, -MOVE_MIN)} aria-label={`move ${b.id} ${MOVE_MIN} minutes earlier and pin it`}>−{MOVE_MIN} min</button>
-                    <button type="button" onClick={() => pin(b, MOVE_MIN)} aria-label={`move ${b.id} ${MOVE_MIN} minutes later and pin it`}>+{MOVE_MIN} min</button>
-                    <button type="button" class="danger" onClick={() => leaveOut(b.id)} aria-label={`leave out ${b.id}`}>Leave out</button>
+                    {b.pinned ? (
+                      <button type="button" onClick={() => unpin(b)} aria-label={`unpin ${b.id}`}>
+                        Unpin
+                      </button>
+                    ) : (
+                      <button type="button" onClick={() => pin(b)} aria-label={`pin ${b.id}`}>
+                        Pin
+                      </button>
+                    )}
+                    <button
+                      type="button"
+                      onClick={() => pin(b, -MOVE_MIN)}
+                      aria-label={`move ${b.id} ${MOVE_MIN} minutes earlier and pin it`}
+                    >
+                      −{MOVE_MIN} min
+                    </button>
+                    <button
+                      type="button"
+                      onClick={() => pin(b, MOVE_MIN)}
+                      aria-label={`move ${b.id} ${MOVE_MIN} minutes later and pin it`}
+                    >
+                      +{MOVE_MIN} min
+                    </button>
+                    <button
+                      type="button"
+                      class="danger"
+                      onClick={() => leaveOut(b.id)}
+                      aria-label={`leave out ${b.id}`}
+                    >
+                      Leave out
+                    </button>
                   </td>
                 </tr>
               ))}
             </tbody>
           </table>
           <h3>Left out, and why</h3>
-          {s.leftOut.length === 0 ? <p class="muted">Every candidate fits.</p> : (
+          {s.leftOut.length === 0 ? (
+            <p class="muted">Every candidate fits.</p>
+          ) : (
             <ul class="left-out">
               {s.leftOut.map((l) => (
                 <li key={l.id} data-left-out={l.id}>
-                  <strong>{l.target} {l.kind}</strong>: {l.reason}
-                  {edits.remove.includes(l.id) && <> <button type="button" onClick={() => propose({ ...edits, remove: edits.remove.filter((r) => r !== l.id) })}>Put back</button></>}
+                  <strong>
+                    {l.target} {l.kind}
+                  </strong>
+                  : {l.reason}
+                  {edits.remove.includes(l.id) && (
+                    <>
+                      {' '}
+                      <button
+                        type="button"
+                        onClick={() =>
+                          propose({ ...edits, remove: edits.remove.filter((r) => r !== l.id) })
+                        }
+                      >
+                        Put back
+                      </button>
+                    </>
+                  )}
                 </li>
               ))}
             </ul>
           )}
         </>
       )}
-      {blocks.length > 0 && !preview && <p class="muted">The night already has {blocks.length} stored block{blocks.length === 1 ? '' : 's'}; a stored schedule replaces those still only planned.</p>}
+      {blocks.length > 0 && !preview && (
+        <p class="muted">
+          The night already has {blocks.length} stored block{blocks.length === 1 ? '' : 's'}; a
+          stored schedule replaces those still only planned.
+        </p>
+      )}
     </Section>
   );
 }

@@ -10,25 +10,68 @@ import { utcClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
-export interface PlannedEpoch { target: string; kind: string; site: string; date: string; block: { start: Stamp; end: Stamp; laserGuideStar: boolean }; why: string; reason: string }
+export interface PlannedEpoch {
+  target: string;
+  kind: string;
+  site: string;
+  date: string;
+  block: { start: Stamp; end: Stamp; laserGuideStar: boolean };
+  why: string;
+  reason: string;
+}
 export interface SeasonPlanPreview {
-  sites: { siteId: number; name: string; openNights: number; skipped: { date: string; reason: string }[]; plannedAround: { date: string; kept: { id: number; reason: string }[] }[] }[];
+  sites: {
+    siteId: number;
+    name: string;
+    openNights: number;
+    skipped: { date: string; reason: string }[];
+    plannedAround: { date: string; kept: { id: number; reason: string }[] }[];
+  }[];
   plan: {
-    sites: { name: string; nights: number; nightsUsed: number; darkHours: number; plannedHours: number }[];
+    sites: {
+      name: string;
+      nights: number;
+      nightsUsed: number;
+      darkHours: number;
+      plannedHours: number;
+    }[];
     epochs: PlannedEpoch[];
     unmet: { target: string; kind: string; from: string; to: string; reason: string }[];
-    targets: { target: string; epochs: Record<string, number>; cadenceMet: boolean; shrinkage: { periapsisDays?: { before: number; after: number } | null; massFraction?: { before: number; after: number } | null } }[];
+    targets: {
+      target: string;
+      epochs: Record<string, number>;
+      cadenceMet: boolean;
+      shrinkage: {
+        periapsisDays?: { before: number; after: number } | null;
+        massFraction?: { before: number; after: number } | null;
+      };
+    }[];
     cautions: string[];
   };
   replaces: number[];
   digest: string;
 }
 
-export function SeasonPlanPanel({ campaign, year, onProposal, onAccepted }: { campaign: CampaignRow; year: number; onProposal: (p: SeasonPlanPreview | null) => void; onAccepted: () => void }) {
+export function SeasonPlanPanel({
+  campaign,
+  year,
+  onProposal,
+  onAccepted,
+}: {
+  campaign: CampaignRow;
+  year: number;
+  onProposal: (p: SeasonPlanPreview | null) => void;
+  onAccepted: () => void;
+}) {
   const lead = useCan('lead');
   const today = new Date().toISOString().slice(0, 10);
-  const clamp = (d: string) => (d < campaign.startDate ? campaign.startDate : d > campaign.endDate ? campaign.endDate : d);
-  const [form, setForm] = useState({ startDate: clamp(today > `${year}-01-01` ? today : `${year}-01-01`), endDate: clamp(`${year}-12-31`), nights: 'allocated' });
+  const clamp = (d: string) =>
+    d < campaign.startDate ? campaign.startDate : d > campaign.endDate ? campaign.endDate : d;
+  const [form, setForm] = useState({
+    startDate: clamp(today > `${year}-01-01` ? today : `${year}-01-01`),
+    endDate: clamp(`${year}-12-31`),
+    nights: 'allocated',
+  });
   const [preview, setPreview] = useState<SeasonPlanPreview | null>(null);
   const { busy, error, run } = useAction();
   const [status, setStatus] = useState('');
@@ -36,7 +79,11 @@ export function SeasonPlanPanel({ campaign, year, onProposal, onAccepted }: { ca
   const propose = () =>
     run(async () => {
       setStatus('');
-      const p = await send<SeasonPlanPreview>('POST', `/campaigns/${campaign.id}/season-plan`, form);
+      const p = await send<SeasonPlanPreview>(
+        'POST',
+        `/campaigns/${campaign.id}/season-plan`,
+        form,
+      );
       setPreview(p);
       onProposal(p);
     });
@@ -44,61 +91,228 @@ export function SeasonPlanPanel({ campaign, year, onProposal, onAccepted }: { ca
     if (!preview) return;
     await run(
       async () => {
-        const r = await send<{ written: unknown[]; nightsCreated: unknown[] }>('POST', `/campaigns/${campaign.id}/season-plan/accept`, { ...form, digest: preview.digest });
-        setStatus(`Accepted: ${r.written.length} blocks stored, ${r.nightsCreated.length} nights created, ${preview.replaces.length} planned blocks replaced.`);
+        const r = await send<{ written: unknown[]; nightsCreated: unknown[] }>(
+          'POST',
+          `/campaigns/${campaign.id}/season-plan/accept`,
+          { ...form, digest: preview.digest },
+        );
+        setStatus(
+          `Accepted: ${r.written.length} blocks stored, ${r.nightsCreated.length} nights created, ${preview.replaces.length} planned blocks replaced.`,
+        );
         setPreview(null);
         onProposal(null);
         onAccepted();
       },
-      (e) => (e instanceof ApiError && e.status === 409 ? new Error(`${e.message}. Propose again to review the plan as it now comes out.`) : e),
+      (e) =>
+        e instanceof ApiError && e.status === 409
+          ? new Error(`${e.message}. Propose again to review the plan as it now comes out.`)
+          : e,
     );
   };
   const p = preview?.plan;
   return (
     <Section title="Season plan" id="season-plan">
       <form class="row-form" onSubmit={(e) => (e.preventDefault(), propose())}>
-        <label>first night (local date) <input type="date" name="startDate" value={form.startDate} onInput={(e) => setForm({ ...form, startDate: e.currentTarget.value })} />{msgs.startDate && <span class="field-msg">{msgs.startDate}</span>}</label>
-        <label>last night (local date) <input type="date" name="endDate" value={form.endDate} onInput={(e) => setForm({ ...form, endDate: e.currentTarget.value })} />{msgs.endDate && <span class="field-msg">{msgs.endDate}</span>}</label>
-        <label>nights <select value={form.nights} onChange={(e) => setForm({ ...form, nights: e.currentTarget.value })}><option value="allocated">the campaign’s allocated nights</option><option value="all">every night of the range</option></select></label>
-        <button type="submit" class="primary" disabled={busy}>Propose a season plan</button>
-        {preview && lead && <button type="button" disabled={busy} onClick={accept}>Accept into blocks</button>}
-        {preview && <button type="button" disabled={busy} onClick={() => (setPreview(null), onProposal(null))}>Discard</button>}
+        <label>
+          first night (local date){' '}
+          <input
+            type="date"
+            name="startDate"
+            value={form.startDate}
+            onInput={(e) => setForm({ ...form, startDate: e.currentTarget.value })}
+          />
+          {msgs.startDate && <span class="field-msg">{msgs.startDate}</span>}
+        </label>
+        <label>
+          last night (local date){' '}
+          <input
+            type="date"
+            name="endDate"
+            value={form.endDate}
+            onInput={(e) => setForm({ ...form, endDate: e.currentTarget.value })}
+          />
+          {msgs.endDate && <span class="field-msg">{msgs.endDate}</span>}
+        </label>
+        <label>
+          nights{' '}
+          <select
+            value={form.nights}
+            onChange={(e) => setForm({ ...form, nights: e.currentTarget.value })}
+          >
+            <option value="allocated">the campaign’s allocated nights</option>
+            <option value="all">every night of the range</option>
+          </select>
+        </label>
+        <button type="submit" class="primary" disabled={busy}>
+          Propose a season plan
+        </button>
+        {preview && lead && (
+          <button type="button" disabled={busy} onClick={accept}>
+            Accept into blocks
+          </button>
+        )}
+        {preview && (
+          <button
+            type="button"
+            disabled={busy}
+            onClick={() => (setPreview(null), onProposal(null))}
+          >
+            Discard
+          </button>
+        )}
         {busy && <span class="loading">planning…</span>}
       </form>
-      {status && <p class="notice" role="status">{status}</p>}
+      {status && (
+        <p class="notice" role="status">
+          {status}
+        </p>
+      )}
       <ErrorLine error={error} />
       {preview && p && (
         <>
-          {p.cautions.map((c) => <Caution key={c}>{c}</Caution>)}
-          <p>{p.epochs.length} epochs proposed; accepting replaces {preview.replaces.length} blocks that are still only plans{lead ? '' : ' (accepting needs the lead role)'}.</p>
+          {p.cautions.map((c) => (
+            <Caution key={c}>{c}</Caution>
+          ))}
+          <p>
+            {p.epochs.length} epochs proposed; accepting replaces {preview.replaces.length} blocks
+            that are still only plans{lead ? '' : ' (accepting needs the lead role)'}.
+          </p>
           <table class="data">
-            <thead><tr><th>site</th><th>open nights</th><th>nights used</th><th>planned (h)</th><th>darkness (h)</th><th>nights skipped</th><th>planned around blocks that stay</th></tr></thead>
-            <tbody>{p.sites.map((s) => {
-              const meta = preview.sites.find((m) => m.name === s.name);
-              return <tr key={s.name}><td>{s.name}</td><td>{s.nights}</td><td>{s.nightsUsed}</td><td><Qty v={s.plannedHours} unit="" /></td><td><Qty v={s.darkHours} unit="" /></td><td>{meta?.skipped.map((k) => `${k.date} (${k.reason})`).join('; ') || '–'}</td><td>{meta?.plannedAround.map((n) => `${n.date}: ${n.kept.map((k) => `block ${k.id} (${k.reason})`).join(', ')}`).join('; ') || '–'}</td></tr>;
-            })}</tbody>
+            <thead>
+              <tr>
+                <th>site</th>
+                <th>open nights</th>
+                <th>nights used</th>
+                <th>planned (h)</th>
+                <th>darkness (h)</th>
+                <th>nights skipped</th>
+                <th>planned around blocks that stay</th>
+              </tr>
+            </thead>
+            <tbody>
+              {p.sites.map((s) => {
+                const meta = preview.sites.find((m) => m.name === s.name);
+                return (
+                  <tr key={s.name}>
+                    <td>{s.name}</td>
+                    <td>{s.nights}</td>
+                    <td>{s.nightsUsed}</td>
+                    <td>
+                      <Qty v={s.plannedHours} unit="" />
+                    </td>
+                    <td>
+                      <Qty v={s.darkHours} unit="" />
+                    </td>
+                    <td>{meta?.skipped.map((k) => `${k.date} (${k.reason})`).join('; ') || '–'}</td>
+                    <td>
+                      {meta?.plannedAround
+                        .map(
+                          (n) =>
+                            `${n.date}: ${n.kept.map((k) => `block ${k.id} (${k.reason})`).join(', ')}`,
+                        )
+                        .join('; ') || '–'}
+                    </td>
+                  </tr>
+                );
+              })}
+            </tbody>
           </table>
           <table class="data">
-            <thead><tr><th>target</th><th>epochs</th><th>cadence met</th><th>periapsis date σ (d), before → after</th><th>mass σ (fraction), before → after</th></tr></thead>
-            <tbody>{p.targets.map((t) => (
-              <tr key={t.target}><td>{t.target}</td><td>{Object.entries(t.epochs).map(([k, n]) => `${n} ${k}`).join(', ')}</td><td>{t.cadenceMet ? 'yes' : 'no'}</td>
-                <td>{t.shrinkage.periapsisDays ? <><Qty v={t.shrinkage.periapsisDays.before} unit="" digits={2} /> → <Qty v={t.shrinkage.periapsisDays.after} unit="" digits={2} /></> : '–'}</td>
-                <td>{t.shrinkage.massFraction ? <><Qty v={t.shrinkage.massFraction.before} unit="" digits={3} /> → <Qty v={t.shrinkage.massFraction.after} unit="" digits={3} /></> : '–'}</td></tr>
-            ))}</tbody>
+            <thead>
+              <tr>
+                <th>target</th>
+                <th>epochs</th>
+                <th>cadence met</th>
+                <th>periapsis date σ (d), before → after</th>
+                <th>mass σ (fraction), before → after</th>
+              </tr>
+            </thead>
+            <tbody>
+              {p.targets.map((t) => (
+                <tr key={t.target}>
+                  <td>{t.target}</td>
+                  <td>
+                    {Object.entries(t.epochs)
+                      .map(([k, n]) => `${n} ${k}`)
+                      .join(', ')}
+                  </td>
+                  <td>{t.cadenceMet ? 'yes' : 'no'}</td>
+                  <td>
+                    {t.shrinkage.periapsisDays ? (
+                      <>
+                        <Qty v={t.shrinkage.periapsisDays.before} unit="" digits={2} /> →{' '}
+                        <Qty v={t.shrinkage.periapsisDays.after} unit="" digits={2} />
+                      </>
+                    ) : (
+                      '–'
+                    )}
+                  </td>
+                  <td>
+                    {t.shrinkage.massFraction ? (
+                      <>
+                        <Qty v={t.shrinkage.massFraction.before} unit="" digits={3} /> →{' '}
+                        <Qty v={t.shrinkage.massFraction.after} unit="" digits={3} />
+                      </>
+                    ) : (
+                      '–'
+                    )}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
           </table>
           <details>
             <summary>{p.epochs.length} proposed epochs, with the reason for each</summary>
             <div class="scroll">
               <table class="data epochs">
-                <thead><tr><th>night</th><th>site</th><th>target</th><th>kind</th><th>UTC</th><th>why</th></tr></thead>
-                <tbody>{p.epochs.map((e) => <tr key={`${e.target}${e.kind}${e.date}${e.site}`}><td>{e.date}</td><td>{e.site}</td><td>{e.target}</td><td>{e.kind}{e.block.laserGuideStar && <span class="tag lgs-tag">laser</span>}</td><td>{utcClock(e.block.start.utc)}–{utcClock(e.block.end.utc)}</td><td>{e.reason}</td></tr>)}</tbody>
+                <thead>
+                  <tr>
+                    <th>night</th>
+                    <th>site</th>
+                    <th>target</th>
+                    <th>kind</th>
+                    <th>UTC</th>
+                    <th>why</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {p.epochs.map((e) => (
+                    <tr key={`${e.target}${e.kind}${e.date}${e.site}`}>
+                      <td>{e.date}</td>
+                      <td>{e.site}</td>
+                      <td>{e.target}</td>
+                      <td>
+                        {e.kind}
+                        {e.block.laserGuideStar && <span class="tag lgs-tag">laser</span>}
+                      </td>
+                      <td>
+                        {utcClock(e.block.start.utc)}–{utcClock(e.block.end.utc)}
+                      </td>
+                      <td>{e.reason}</td>
+                    </tr>
+                  ))}
+                </tbody>
               </table>
             </div>
           </details>
-          {p.unmet.length === 0 ? <p class="muted">Every goal is met.</p> : (
+          {p.unmet.length === 0 ? (
+            <p class="muted">Every goal is met.</p>
+          ) : (
             <details>
-              <summary>{p.unmet.length} goal{p.unmet.length === 1 ? '' : 's'} the plan cannot meet, with the reason for each</summary>
-              <ul class="unmet">{p.unmet.map((u, i) => <li key={i}><strong>{u.target} {u.kind}</strong>, {u.from} to {u.to}: {u.reason}</li>)}</ul>
+              <summary>
+                {p.unmet.length} goal{p.unmet.length === 1 ? '' : 's'} the plan cannot meet, with
+                the reason for each
+              </summary>
+              <ul class="unmet">
+                {p.unmet.map((u, i) => (
+                  <li key={i}>
+                    <strong>
+                      {u.target} {u.kind}
+                    </strong>
+                    , {u.from} to {u.to}: {u.reason}
+                  </li>
+                ))}
+              </ul>
             </details>
           )}
         </>

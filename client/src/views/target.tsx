@@ -22,19 +22,52 @@ function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null })
   for (const m of d.measurements) {
     const p = measurementPoint(m);
     const pred = d.atMeasurement.get(m.id);
-    if (p) ms.push({ ...p, ...(pred ? { predicted: { dRaMas: pred.dRaMas, dDecMas: pred.dDecMas } } : {}) });
+    if (p)
+      ms.push({
+        ...p,
+        ...(pred ? { predicted: { dRaMas: pred.dRaMas, dDecMas: pred.dDecMas } } : {}),
+      });
   }
   // The passage nearest to now when the plotted span holds more than one.
-  const peri = [...d.periapses].sort((a, b) => Math.abs(Date.parse(a.epoch) - Date.now()) - Math.abs(Date.parse(b.epoch) - Date.now()))[0];
-  const astro = d.measurements.map((m) => ({ m, r: astrometricResidual(m, d.atMeasurement.get(m.id)) })).filter((x) => x.r);
-  const rms = astro.length ? Math.sqrt(astro.reduce((s, x) => s + x.r!.dRa ** 2 + x.r!.dDec ** 2, 0) / astro.length) : null;
+  const peri = [...d.periapses].sort(
+    (a, b) =>
+      Math.abs(Date.parse(a.epoch) - Date.now()) - Math.abs(Date.parse(b.epoch) - Date.now()),
+  )[0];
+  const astro = d.measurements
+    .map((m) => ({ m, r: astrometricResidual(m, d.atMeasurement.get(m.id)) }))
+    .filter((x) => x.r);
+  const rms = astro.length
+    ? Math.sqrt(astro.reduce((s, x) => s + x.r!.dRa ** 2 + x.r!.dDec ** 2, 0) / astro.length)
+    : null;
   return (
     <>
-      <SkyPlanePlot track={d.track} compareTrack={fitted ?? undefined} dateTicks={d.ticks} periapsis={peri} measurements={ms} planned={d.atPlanned} title="predicted track and measurements on the sky, north up, east left" />
+      <SkyPlanePlot
+        track={d.track}
+        compareTrack={fitted ?? undefined}
+        dateTicks={d.ticks}
+        periapsis={peri}
+        measurements={ms}
+        planned={d.atPlanned}
+        title="predicted track and measurements on the sky, north up, east left"
+      />
       <p class="legend">
-        <span class="key key-track" /> predicted track (current solution) · <span class="key key-meas" /> measurement with 1σ error ellipse · <span class="key key-resid" /> residual (predicted → measured) · <span class="key key-plan" /> planned epoch · ◆ periapsis (true anomaly 0)
-        {fitted && <> · <span class="key key-fit" /> fitted track (not stored)</>}
-        {rms !== null && <> · RMS astrometric residual <Qty v={rms} unit="mas" digits={2} /> over {astro.length} measurements</>}
+        <span class="key key-track" /> predicted track (current solution) ·{' '}
+        <span class="key key-meas" /> measurement with 1σ error ellipse ·{' '}
+        <span class="key key-resid" /> residual (predicted → measured) ·{' '}
+        <span class="key key-plan" /> planned epoch · ◆ periapsis (true anomaly 0)
+        {fitted && (
+          <>
+            {' '}
+            · <span class="key key-fit" /> fitted track (not stored)
+          </>
+        )}
+        {rms !== null && (
+          <>
+            {' '}
+            · RMS astrometric residual <Qty v={rms} unit="mas" digits={2} /> over {astro.length}{' '}
+            measurements
+          </>
+        )}
       </p>
     </>
   );
@@ -43,23 +76,60 @@ function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null })
 function RvPanel({ d }: { d: TargetData }) {
   const [withRel, setWithRel] = useState(true);
   const rel = rvSeries(d.track);
-  if (!rel.length) return <p class="muted">No radial velocity: the current solution has no distance or systemic velocity.</p>;
+  if (!rel.length)
+    return (
+      <p class="muted">
+        No radial velocity: the current solution has no distance or systemic velocity.
+      </p>
+    );
   const plain = d.rvPlain ? rvSeries(d.rvPlain) : null;
   const meas = d.measurements
     .filter((m) => m.kind === 'radial-velocity' && m.radialVelocityKmS !== null)
     .map((m) => {
       const p = d.atMeasurement.get(m.id);
-      return { id: m.id, t: yearOf(m.epoch), v: m.radialVelocityKmS!, sigma: m.sigmaRadialVelocityKmS ?? 0, ...(p ? { residual: m.radialVelocityKmS! - p.radialVelocityKmS } : {}) };
+      return {
+        id: m.id,
+        t: yearOf(m.epoch),
+        v: m.radialVelocityKmS!,
+        sigma: m.sigmaRadialVelocityKmS ?? 0,
+        ...(p ? { residual: m.radialVelocityKmS! - p.radialVelocityKmS } : {}),
+      };
     });
   return (
     <>
       {plain && (
         <label class="switch">
-          <input type="checkbox" checked={withRel} onChange={(e) => setWithRel(e.currentTarget.checked)} /> include the relativistic terms (gravitational redshift, transverse Doppler, Rømer delay, precession) in the curve
+          <input
+            type="checkbox"
+            checked={withRel}
+            onChange={(e) => setWithRel(e.currentTarget.checked)}
+          />{' '}
+          include the relativistic terms (gravitational redshift, transverse Doppler, Rømer delay,
+          precession) in the curve
         </label>
       )}
-      <RvCurvePlot curve={withRel || !plain ? rel : plain} compare={plain ? (withRel ? plain : rel) : undefined} measurements={meas} nowYear={yearOf(new Date().toISOString())} />
-      <p class="legend"><span class="key key-track" /> {!plain ? 'predicted (this solution has no relativistic terms switched on)' : withRel ? 'with relativistic terms' : 'without relativistic terms'}{plain && <> · <span class="key key-compare" /> {withRel ? 'without' : 'with'} them, for comparison</>} · measurements with 1σ bars{!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}</p>
+      <RvCurvePlot
+        curve={withRel || !plain ? rel : plain}
+        compare={plain ? (withRel ? plain : rel) : undefined}
+        measurements={meas}
+        nowYear={yearOf(new Date().toISOString())}
+      />
+      <p class="legend">
+        <span class="key key-track" />{' '}
+        {!plain
+          ? 'predicted (this solution has no relativistic terms switched on)'
+          : withRel
+            ? 'with relativistic terms'
+            : 'without relativistic terms'}
+        {plain && (
+          <>
+            {' '}
+            · <span class="key key-compare" /> {withRel ? 'without' : 'with'} them, for comparison
+          </>
+        )}{' '}
+        · measurements with 1σ bars
+        {!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}
+      </p>
     </>
   );
 }
@@ -68,18 +138,45 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
   const span = Math.min(Math.max(periodYears ?? 5, 2), 30);
   const start = new Date(Date.now() - 365.25 * 86_400_000).toISOString();
   const end = new Date(Date.now() + span * 365.25 * 86_400_000).toISOString();
-  const { data, error } = useLoad(() => get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, { start, end }), [targetId]);
+  const { data, error } = useLoad(
+    () => get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, { start, end }),
+    [targetId],
+  );
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="events" />;
   return (
     <table class="data events">
-      <caption>From one year ago to {span.toFixed(0)} years ahead; uncertainty from the solution’s covariance where it has one.</caption>
-      <thead><tr><th>event</th><th>epoch (UTC)</th><th>± (d)</th><th>separation (mas)</th><th>PA (°)</th><th>v_r (km/s)</th></tr></thead>
+      <caption>
+        From one year ago to {span.toFixed(0)} years ahead; uncertainty from the solution’s
+        covariance where it has one.
+      </caption>
+      <thead>
+        <tr>
+          <th>event</th>
+          <th>epoch (UTC)</th>
+          <th>± (d)</th>
+          <th>separation (mas)</th>
+          <th>PA (°)</th>
+          <th>v_r (km/s)</th>
+        </tr>
+      </thead>
       <tbody>
         {data.events.map((e) => (
           <tr key={`${e.kind}${e.jd}`} class={e.kind === 'periapsis' ? 'row-periapsis' : ''}>
-            <td>{e.kind}</td><td>{utcText(e.epoch)}</td><td><Qty v={e.sigmaDays} unit="" /></td>
-            <td><Qty v={e.state?.separationMas} unit="" digits={2} /></td><td><Qty v={e.state?.positionAngleDeg} unit="" /></td><td><Qty v={e.state?.radialVelocityKmS} unit="" /></td>
+            <td>{e.kind}</td>
+            <td>{utcText(e.epoch)}</td>
+            <td>
+              <Qty v={e.sigmaDays} unit="" />
+            </td>
+            <td>
+              <Qty v={e.state?.separationMas} unit="" digits={2} />
+            </td>
+            <td>
+              <Qty v={e.state?.positionAngleDeg} unit="" />
+            </td>
+            <td>
+              <Qty v={e.state?.radialVelocityKmS} unit="" />
+            </td>
           </tr>
         ))}
       </tbody>
@@ -87,10 +184,20 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
   );
 }
 
-function Solutions({ cat, targetId, onChange }: { cat: Catalogue; targetId: number; onChange: () => void }) {
+function Solutions({
+  cat,
+  targetId,
+  onChange,
+}: {
+  cat: Catalogue;
+  targetId: number;
+  onChange: () => void;
+}) {
   const lead = useCan('lead');
   const [error, setError] = useState<unknown>(null);
-  const rows = cat.solutions.filter((s) => s.targetId === targetId).sort((a, b) => b.version - a.version);
+  const rows = cat.solutions
+    .filter((s) => s.targetId === targetId)
+    .sort((a, b) => b.version - a.version);
   const makeCurrent = async (id: number) => {
     try {
       await send('POST', `/orbit-solutions/${id}/current`);
@@ -103,16 +210,41 @@ function Solutions({ cat, targetId, onChange }: { cat: Catalogue; targetId: numb
   return (
     <>
       <table class="data solutions">
-        <thead><tr><th>version</th><th>provenance</th><th>reference</th><th>P (yr)</th><th>e</th><th>a (″)</th><th>stored</th><th></th></tr></thead>
+        <thead>
+          <tr>
+            <th>version</th>
+            <th>provenance</th>
+            <th>reference</th>
+            <th>P (yr)</th>
+            <th>e</th>
+            <th>a (″)</th>
+            <th>stored</th>
+            <th></th>
+          </tr>
+        </thead>
         <tbody>
           {rows.map((s) => (
             <tr key={s.id} class={s.current ? 'current' : ''}>
-              <td>v{s.version}{s.current && <span class="tag">current</span>}</td>
-              <td>{s.provenance}{s.fittedFrom ? ` from ${s.fittedFrom.length} measurements` : ''}</td>
+              <td>
+                v{s.version}
+                {s.current && <span class="tag">current</span>}
+              </td>
+              <td>
+                {s.provenance}
+                {s.fittedFrom ? ` from ${s.fittedFrom.length} measurements` : ''}
+              </td>
               <td>{s.reference || <span class="muted">–</span>}</td>
-              <td>{String(s.orbit.elements.periodYears ?? '–')}</td><td>{String(s.orbit.elements.eccentricity ?? '–')}</td><td>{String(s.orbit.elements.semiMajorAxisArcsec ?? '–')}</td>
+              <td>{String(s.orbit.elements.periodYears ?? '–')}</td>
+              <td>{String(s.orbit.elements.eccentricity ?? '–')}</td>
+              <td>{String(s.orbit.elements.semiMajorAxisArcsec ?? '–')}</td>
               <td>{utcText(s.createdAt)}</td>
-              <td>{lead && !s.current && <button type="button" onClick={() => makeCurrent(s.id)}>Make current</button>}</td>
+              <td>
+                {lead && !s.current && (
+                  <button type="button" onClick={() => makeCurrent(s.id)}>
+                    Make current
+                  </button>
+                )}
+              </td>
             </tr>
           ))}
         </tbody>
@@ -138,21 +270,46 @@ export function TargetView({ id }: { id: number }) {
   return (
     <div class="view target">
       <div class="view-head">
-        <h1>{t.name} <span class="muted">in {sys?.name}</span></h1>
-        <p class="muted">{t.magnitude !== null ? `${t.magnitude} mag (${t.band ?? 'band?'})` : ''} · current solution {d.solution ? `v${d.solution.version} (${d.solution.provenance})` : 'none'} · {d.measurements.length} measurements · {d.planned.length} planned blocks</p>
+        <h1>
+          {t.name} <span class="muted">in {sys?.name}</span>
+        </h1>
+        <p class="muted">
+          {t.magnitude !== null ? `${t.magnitude} mag (${t.band ?? 'band?'})` : ''} · current
+          solution {d.solution ? `v${d.solution.version} (${d.solution.provenance})` : 'none'} ·{' '}
+          {d.measurements.length} measurements · {d.planned.length} planned blocks
+        </p>
       </div>
-      {!d.solution ? <p class="panel">This target has no orbit solution yet.</p> : (
+      {!d.solution ? (
+        <p class="panel">This target has no orbit solution yet.</p>
+      ) : (
         <div class="two-col">
-          <Section title="On the sky" id="sky-plane"><SkyPanel d={d} fitted={fitted} /></Section>
-          <Section title="Radial velocity" id="rv"><RvPanel d={d} /></Section>
+          <Section title="On the sky" id="sky-plane">
+            <SkyPanel d={d} fitted={fitted} />
+          </Section>
+          <Section title="Radial velocity" id="rv">
+            <RvPanel d={d} />
+          </Section>
         </div>
       )}
-      <Section title="Events" id="events"><Events targetId={id} periodYears={d.periodYears} /></Section>
+      <Section title="Events" id="events">
+        <Events targetId={id} periodYears={d.periodYears} />
+      </Section>
       <Section title="Orbit solutions" id="solutions">
         <Solutions cat={cat} targetId={id} onChange={() => setTick(tick + 1)} />
-        {d.measurements.length > 0 && <FitPanel targetId={id} trackEpochs={d.track.map((p) => p.epoch)} onFittedTrack={setFitted} onStored={() => setTick(tick + 1)} />}
+        {d.measurements.length > 0 && (
+          <FitPanel
+            targetId={id}
+            trackEpochs={d.track.map((p) => p.epoch)}
+            onFittedTrack={setFitted}
+            onStored={() => setTick(tick + 1)}
+          />
+        )}
       </Section>
-      {d.solution && <Section title="Ephemeris" id="ephemeris"><EphemerisTable targetId={id} name={t.name} /></Section>}
+      {d.solution && (
+        <Section title="Ephemeris" id="ephemeris">
+          <EphemerisTable targetId={id} name={t.name} />
+        </Section>
+      )}
     </div>
   );
 }

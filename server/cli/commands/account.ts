@@ -27,9 +27,11 @@ ${DATABASE_HELP}
 `;
 
 /** A missing row named on the command line is bad input (exit 2), not a failure. */
-const asInputError = (field: string, value: unknown, rule: string) => (err: unknown): never => {
-  throw err instanceof NotFoundError ? new InputError(field, value, rule) : err;
-};
+const asInputError =
+  (field: string, value: unknown, rule: string) =>
+  (err: unknown): never => {
+    throw err instanceof NotFoundError ? new InputError(field, value, rule) : err;
+  };
 
 export const accountCommand: Command = {
   summary: 'create users with a role; issue, list and revoke their bearer tokens',
@@ -37,7 +39,15 @@ export const accountCommand: Command = {
   async run(argv) {
     const { values, positionals } = parseArgs({
       args: argv,
-      options: { ...databaseOption, name: { type: 'string' }, role: { type: 'string' }, label: { type: 'string' }, id: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } },
+      options: {
+        ...databaseOption,
+        name: { type: 'string' },
+        role: { type: 'string' },
+        label: { type: 'string' },
+        id: { type: 'string' },
+        json: { type: 'boolean' },
+        csv: { type: 'boolean' },
+      },
       strict: true,
       allowPositionals: true,
     });
@@ -46,44 +56,83 @@ export const accountCommand: Command = {
     return withStore(values.database, async (store) => {
       switch (action) {
         case 'add': {
-          if (values.name === undefined || values.role === undefined) throw new UsageError('account add needs --name and --role');
-          const issued = await store.users.createWithToken(LOCAL_OPERATOR, { name: values.name, role: values.role }, values.label ?? 'created at the command line');
+          if (values.name === undefined || values.role === undefined)
+            throw new UsageError('account add needs --name and --role');
+          const issued = await store.users.createWithToken(
+            LOCAL_OPERATOR,
+            { name: values.name, role: values.role },
+            values.label ?? 'created at the command line',
+          );
           return `created ${issued.user.role} ${JSON.stringify(issued.user.name)} (id ${issued.user.id}).\ntoken (shown once): ${issued.secret}\n`;
         }
         case 'token': {
           if (values.name === undefined) throw new UsageError('account token needs --name');
-          const issued = await store.users.issueToken(LOCAL_OPERATOR, values.name, values.label ?? 'issued at the command line');
+          const issued = await store.users.issueToken(
+            LOCAL_OPERATOR,
+            values.name,
+            values.label ?? 'issued at the command line',
+          );
           return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
         }
         case 'list': {
           const page = await store.users.list({ limit: 500 });
-          return render(outputFormat(values), page.items, [
-            { header: 'id', value: (u) => u.id },
-            { header: 'name', value: (u) => u.name },
-            { header: 'role', value: (u) => u.role },
-            { header: 'created (UTC)', value: (u) => u.createdAt },
-          ], page.items);
+          return render(
+            outputFormat(values),
+            page.items,
+            [
+              { header: 'id', value: (u) => u.id },
+              { header: 'name', value: (u) => u.name },
+              { header: 'role', value: (u) => u.role },
+              { header: 'created (UTC)', value: (u) => u.createdAt },
+            ],
+            page.items,
+          );
         }
         case 'tokens': {
-          const rows = await store.users.listTokens(values.name).catch(asInputError('--name', values.name, 'does not name a user (see `account list`)'));
-          return render(outputFormat(values), rows, [
-            { header: 'id', value: (t) => t.id },
-            { header: 'user', value: (t) => t.userName },
-            { header: 'role', value: (t) => t.role },
-            { header: 'label', value: (t) => t.label },
-            { header: 'issued (UTC)', value: (t) => t.createdAt },
-            { header: 'revoked (UTC)', value: (t) => t.revokedAt ?? '' },
-          ], rows);
+          const rows = await store.users
+            .listTokens(values.name)
+            .catch(
+              asInputError('--name', values.name, 'does not name a user (see `account list`)'),
+            );
+          return render(
+            outputFormat(values),
+            rows,
+            [
+              { header: 'id', value: (t) => t.id },
+              { header: 'user', value: (t) => t.userName },
+              { header: 'role', value: (t) => t.role },
+              { header: 'label', value: (t) => t.label },
+              { header: 'issued (UTC)', value: (t) => t.createdAt },
+              { header: 'revoked (UTC)', value: (t) => t.revokedAt ?? '' },
+            ],
+            rows,
+          );
         }
         case 'revoke': {
-          if (values.id === undefined) throw new UsageError('account revoke needs --id <token id> (see `account tokens`)');
+          if (values.id === undefined)
+            throw new UsageError('account revoke needs --id <token id> (see `account tokens`)');
           const id = Number(values.id);
-          if (!Number.isInteger(id) || id <= 0) throw new InputError('--id', values.id, 'must be a positive whole number, a token id from `account tokens`');
-          const t = await store.users.revokeToken(LOCAL_OPERATOR, id).catch(asInputError('--id', values.id, 'does not name an active token (see `account tokens`)'));
+          if (!Number.isInteger(id) || id <= 0)
+            throw new InputError(
+              '--id',
+              values.id,
+              'must be a positive whole number, a token id from `account tokens`',
+            );
+          const t = await store.users
+            .revokeToken(LOCAL_OPERATOR, id)
+            .catch(
+              asInputError(
+                '--id',
+                values.id,
+                'does not name an active token (see `account tokens`)',
+              ),
+            );
           return `revoked token ${t.id} (${JSON.stringify(t.label)}) of ${JSON.stringify(t.userName)} at ${t.revokedAt ?? ''}; it no longer signs in.\n`;
         }
         default:
-          throw new UsageError(`account: say add, token, list, tokens or revoke${action ? ` (not ${JSON.stringify(action)})` : ''}`);
+          throw new UsageError(
+            `account: say add, token, list, tokens or revoke${action ? ` (not ${JSON.stringify(action)})` : ''}`,
+          );
       }
     });
   },

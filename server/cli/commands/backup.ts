@@ -18,7 +18,12 @@ export const backupCommand: Command = {
   summary: 'write a consistent copy of the database while the server runs',
   help,
   async run(argv) {
-    const { values } = parseArgs({ args: argv, options: { ...databaseOption, to: { type: 'string' } }, strict: true, allowPositionals: false });
+    const { values } = parseArgs({
+      args: argv,
+      options: { ...databaseOption, to: { type: 'string' } },
+      strict: true,
+      allowPositionals: false,
+    });
     if (values.to === undefined) throw new UsageError('--to is required');
     const to = values.to;
     const path = await withStore(values.database, (store) => backupDatabase(store.database, to));

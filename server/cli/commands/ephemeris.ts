@@ -5,7 +5,13 @@ import { describeOrbit } from '../../science/orbit/index.ts';
 import { resolveEpochs, type EpochsInput } from '../../science/time/index.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
-import { ORBIT_OPTION_HELP, epochPrinter, orbitOptions, readMonteCarlo, readOrbit } from './orbit-args.ts';
+import {
+  ORBIT_OPTION_HELP,
+  epochPrinter,
+  orbitOptions,
+  readMonteCarlo,
+  readOrbit,
+} from './orbit-args.ts';
 
 const help = `usage: epochwright ephemeris --orbit <json|file> (--from <epoch> --to <epoch> --every <step> | --at <epoch>[,<epoch>…]) [options]
 
@@ -28,7 +34,13 @@ export const ephemerisCommand: Command = {
   run(argv) {
     const { values } = parseArgs({
       args: argv,
-      options: { ...orbitOptions, from: { type: 'string' }, to: { type: 'string' }, every: { type: 'string' }, at: { type: 'string' } },
+      options: {
+        ...orbitOptions,
+        from: { type: 'string' },
+        to: { type: 'string' },
+        every: { type: 'string' },
+        at: { type: 'string' },
+      },
       strict: true,
       allowPositionals: false,
     });
@@ -36,7 +48,8 @@ export const ephemerisCommand: Command = {
     const orbit = readOrbit(values.orbit);
     let epochs: EpochsInput;
     if (values.at !== undefined) {
-      if (values.from ?? values.to ?? values.every) throw new UsageError('give either --at or --from/--to/--every');
+      if (values.from ?? values.to ?? values.every)
+        throw new UsageError('give either --at or --from/--to/--every');
       epochs = values.at.split(',').map((s) => s.trim());
     } else {
       if (values.from === undefined || values.to === undefined || values.every === undefined) {
@@ -56,18 +69,30 @@ export const ephemerisCommand: Command = {
     ];
     const sig = (f: keyof NonNullable<EphemerisRow['sigma']>) => (r: EphemerisRow) => r.sigma?.[f];
     if (orbit.covariance) {
-      columns.push({ header: 'rho_sigma_mas', value: sig('separationMas'), digits: 3 }, { header: 'theta_sigma_deg', value: sig('positionAngleDeg'), digits: 3 });
+      columns.push(
+        { header: 'rho_sigma_mas', value: sig('separationMas'), digits: 3 },
+        { header: 'theta_sigma_deg', value: sig('positionAngleDeg'), digits: 3 },
+      );
     }
     if (orbit.distancePc !== null) {
       columns.push({ header: 'rv_kms', value: (r) => r.radialVelocityKmS, digits: 2 });
-      if (orbit.covariance) columns.push({ header: 'rv_sigma_kms', value: sig('radialVelocityKmS'), digits: 2 });
+      if (orbit.covariance)
+        columns.push({ header: 'rv_sigma_kms', value: sig('radialVelocityKmS'), digits: 2 });
       columns.push({ header: 'r3d_au', value: (r) => r.separation3dAu, digits: 2 });
     }
     columns.push({ header: 'nu_deg', value: (r) => r.trueAnomalyDeg, digits: 3 });
     if (mc && format === 'csv') {
       for (const [k, p] of ['p2.5', 'p16', 'p50', 'p84', 'p97.5'].entries()) {
-        columns.push({ header: `rho_${p}_mas`, value: (r) => r.percentiles?.separationMas?.[k], digits: 3 });
-        columns.push({ header: `theta_${p}_deg`, value: (r) => r.percentiles?.positionAngleDeg?.[k], digits: 3 });
+        columns.push({
+          header: `rho_${p}_mas`,
+          value: (r) => r.percentiles?.separationMas?.[k],
+          digits: 3,
+        });
+        columns.push({
+          header: `theta_${p}_deg`,
+          value: (r) => r.percentiles?.positionAngleDeg?.[k],
+          digits: 3,
+        });
       }
     }
     return render(format, rows, columns, { orbit: describeOrbit(orbit), predictions: rows });

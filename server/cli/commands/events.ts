@@ -1,11 +1,22 @@
 /** `epochwright events`: periapsis, apoapsis, nodes and extrema in an interval. */
 import { parseArgs } from 'node:util';
-import { EVENT_KINDS, eventsWithUncertainty, type EventKind, type EventWithUncertainty } from '../../science/orbit/index.ts';
+import {
+  EVENT_KINDS,
+  eventsWithUncertainty,
+  type EventKind,
+  type EventWithUncertainty,
+} from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { describeOrbit } from '../../science/orbit/index.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
-import { ORBIT_OPTION_HELP, epochPrinter, orbitOptions, readMonteCarlo, readOrbit } from './orbit-args.ts';
+import {
+  ORBIT_OPTION_HELP,
+  epochPrinter,
+  orbitOptions,
+  readMonteCarlo,
+  readOrbit,
+} from './orbit-args.ts';
 
 const help = `usage: epochwright events --orbit <json|file> --from <epoch> --to <epoch> [--kinds <k,k,…>] [options]
 
@@ -27,37 +38,58 @@ export const eventsCommand: Command = {
   run(argv) {
     const { values } = parseArgs({
       args: argv,
-      options: { ...orbitOptions, from: { type: 'string' }, to: { type: 'string' }, kinds: { type: 'string' } },
+      options: {
+        ...orbitOptions,
+        from: { type: 'string' },
+        to: { type: 'string' },
+        kinds: { type: 'string' },
+      },
       strict: true,
       allowPositionals: false,
     });
     const format = outputFormat(values);
     const orbit = readOrbit(values.orbit);
-    if (values.from === undefined || values.to === undefined) throw new UsageError('--from and --to are required');
+    if (values.from === undefined || values.to === undefined)
+      throw new UsageError('--from and --to are required');
     const kinds = values.kinds?.split(',').map((k) => k.trim());
     for (const k of kinds ?? []) {
-      if (!(EVENT_KINDS as readonly string[]).includes(k)) throw new UsageError(`--kinds: ${JSON.stringify(k)} must be one of ${EVENT_KINDS.join(', ')}`);
+      if (!(EVENT_KINDS as readonly string[]).includes(k))
+        throw new UsageError(
+          `--kinds: ${JSON.stringify(k)} must be one of ${EVENT_KINDS.join(', ')}`,
+        );
     }
     const mc = readMonteCarlo(values);
-    const events = eventsWithUncertainty(orbit, parseEpoch(values.from, 'from'), parseEpoch(values.to, 'to'), {
-      ...(kinds ? { kinds: kinds as EventKind[] } : {}),
-      ...(mc ? { monteCarlo: mc } : {}),
-    });
+    const events = eventsWithUncertainty(
+      orbit,
+      parseEpoch(values.from, 'from'),
+      parseEpoch(values.to, 'to'),
+      {
+        ...(kinds ? { kinds: kinds as EventKind[] } : {}),
+        ...(mc ? { monteCarlo: mc } : {}),
+      },
+    );
     const show = epochPrinter(values.time);
     const columns: Column<EventWithUncertainty>[] = [
       { header: 'event', value: (e) => e.kind },
       { header: 'epoch', value: (e) => show(e.jd) },
     ];
-    if (orbit.covariance) columns.push({ header: 'sigma_days', value: (e) => e.sigmaDays, digits: 2 });
+    if (orbit.covariance)
+      columns.push({ header: 'sigma_days', value: (e) => e.sigmaDays, digits: 2 });
     if (mc) {
-      columns.push({ header: 'p16', value: (e) => e.percentileEpochs?.[1]?.slice(0, 16) }, { header: 'p84', value: (e) => e.percentileEpochs?.[3]?.slice(0, 16) });
+      columns.push(
+        { header: 'p16', value: (e) => e.percentileEpochs?.[1]?.slice(0, 16) },
+        { header: 'p84', value: (e) => e.percentileEpochs?.[3]?.slice(0, 16) },
+      );
     }
     columns.push(
       { header: 'rho_mas', value: (e) => e.state.separationMas, digits: 3 },
       { header: 'theta_deg', value: (e) => e.state.positionAngleDeg, digits: 3 },
     );
     if (orbit.distancePc !== null) {
-      columns.push({ header: 'rv_kms', value: (e) => e.state.radialVelocityKmS, digits: 2 }, { header: 'r3d_au', value: (e) => e.state.separation3dAu, digits: 2 });
+      columns.push(
+        { header: 'rv_kms', value: (e) => e.state.radialVelocityKmS, digits: 2 },
+        { header: 'r3d_au', value: (e) => e.state.separation3dAu, digits: 2 },
+      );
     }
     return render(format, events, columns, { orbit: describeOrbit(orbit), events });
   },

@@ -28,7 +28,8 @@ ${DATABASE_HELP}
 function id(name: string, v: string | undefined): number | undefined {
   if (v === undefined) return undefined;
   const n = Number(v);
-  if (!Number.isInteger(n) || n <= 0) throw new UsageError(`--${name}: ${JSON.stringify(v)} must be a positive whole number`);
+  if (!Number.isInteger(n) || n <= 0)
+    throw new UsageError(`--${name}: ${JSON.stringify(v)} must be a positive whole number`);
   return n;
 }
 
@@ -38,7 +39,16 @@ export const exportCommand: Command = {
   async run(argv) {
     const { values, positionals } = parseArgs({
       args: argv,
-      options: { ...databaseOption, 'target-id': { type: 'string' }, 'campaign-id': { type: 'string' }, from: { type: 'string' }, to: { type: 'string' }, step: { type: 'string' }, at: { type: 'string' }, json: { type: 'boolean' } },
+      options: {
+        ...databaseOption,
+        'target-id': { type: 'string' },
+        'campaign-id': { type: 'string' },
+        from: { type: 'string' },
+        to: { type: 'string' },
+        step: { type: 'string' },
+        at: { type: 'string' },
+        json: { type: 'boolean' },
+      },
       strict: true,
       allowPositionals: true,
     });
@@ -47,22 +57,34 @@ export const exportCommand: Command = {
     return withStore(values.database, async (store) => {
       switch (what) {
         case 'measurements': {
-          const rows = await measurementsForExport(store.db, [targetId ? eq(measurements.targetId, targetId) : undefined]);
+          const rows = await measurementsForExport(store.db, [
+            targetId ? eq(measurements.targetId, targetId) : undefined,
+          ]);
           return values.json ? JSON.stringify(rows, null, 2) + '\n' : measurementsCsv(rows);
         }
         case 'ephemeris': {
-          if (targetId === undefined || values.from === undefined || values.to === undefined) throw new UsageError('export ephemeris needs --target-id, --from and --to');
+          if (targetId === undefined || values.from === undefined || values.to === undefined)
+            throw new UsageError('export ephemeris needs --target-id, --from and --to');
           const { orbit } = await currentOrbit(store.db, targetId);
-          const rows = ephemeris(orbit, resolveEpochs({ start: values.from, end: values.to, step: values.step ?? '30d' }));
+          const rows = ephemeris(
+            orbit,
+            resolveEpochs({ start: values.from, end: values.to, step: values.step ?? '30d' }),
+          );
           return values.json ? JSON.stringify(rows, null, 2) + '\n' : ephemerisCsv(rows);
         }
         case 'calendar': {
           const campaignId = id('campaign-id', values['campaign-id']);
           if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
-          return campaignCalendar(store.db, campaignId, values.at === undefined ? {} : { flagsAtJd: parseEpoch(values.at, '--at') });
+          return campaignCalendar(
+            store.db,
+            campaignId,
+            values.at === undefined ? {} : { flagsAtJd: parseEpoch(values.at, '--at') },
+          );
         }
         default:
-          throw new UsageError(`export: say measurements, ephemeris or calendar${what ? ` (not ${JSON.stringify(what)})` : ''}`);
+          throw new UsageError(
+            `export: say measurements, ephemeris or calendar${what ? ` (not ${JSON.stringify(what)})` : ''}`,
+          );
       }
     });
   },

@@ -20,10 +20,16 @@ export function starsFromCsv(text: string, source: string, only: string[] = []):
     throw new UsageError(`${source}: not valid CSV (${(err as Error).message})`);
   }
   const [header, ...body] = rows;
-  if (!header) throw new UsageError(`${source}: empty file; expected a header with ${REQUIRED.join(', ')}`);
-  for (const c of REQUIRED) if (!header.includes(c)) throw new UsageError(`${source}: the header lacks the column ${JSON.stringify(c)}`);
+  if (!header)
+    throw new UsageError(`${source}: empty file; expected a header with ${REQUIRED.join(', ')}`);
+  for (const c of REQUIRED)
+    if (!header.includes(c))
+      throw new UsageError(`${source}: the header lacks the column ${JSON.stringify(c)}`);
   header.forEach((c) => {
-    if (!(MEASUREMENT_COLUMNS as readonly string[]).includes(c)) throw new UsageError(`${source}: unknown column ${JSON.stringify(c)}; known: ${MEASUREMENT_COLUMNS.join(', ')}`);
+    if (!(MEASUREMENT_COLUMNS as readonly string[]).includes(c))
+      throw new UsageError(
+        `${source}: unknown column ${JSON.stringify(c)}; known: ${MEASUREMENT_COLUMNS.join(', ')}`,
+      );
   });
   const stars = new Map<string, MeasurementInput[]>();
   body.forEach((cells, k) => {
@@ -34,19 +40,25 @@ export function starsFromCsv(text: string, source: string, only: string[] = []):
       if (v === '') return;
       if (NUMERIC.has(c)) {
         const x = Number(v);
-        if (!Number.isFinite(x)) throw new UsageError(`${source}: line ${line}, column ${c}: ${JSON.stringify(v)} is not a number`);
+        if (!Number.isFinite(x))
+          throw new UsageError(
+            `${source}: line ${line}, column ${c}: ${JSON.stringify(v)} is not a number`,
+          );
         rec[c] = x;
       } else rec[c] = v;
     });
     const target = String(rec.target ?? '');
-    if (target === '') throw new UsageError(`${source}: line ${line}, column target: must name the target`);
+    if (target === '')
+      throw new UsageError(`${source}: line ${line}, column target: must name the target`);
     if (only.length > 0 && !only.includes(target)) return;
     for (const drop of ['system', 'target', 'instrument', 'blockId', 'notes']) delete rec[drop];
     const list = stars.get(target) ?? [];
     list.push(rec as unknown as MeasurementInput);
     stars.set(target, list);
   });
-  for (const t of only) if (!stars.has(t)) throw new UsageError(`--target: ${JSON.stringify(t)} has no measurements in ${source}`);
+  for (const t of only)
+    if (!stars.has(t))
+      throw new UsageError(`--target: ${JSON.stringify(t)} has no measurements in ${source}`);
   if (stars.size === 0) throw new UsageError(`${source}: no measurements`);
   return [...stars].map(([name, measurements]) => ({ name, measurements }));
 }
@@ -56,7 +68,9 @@ export function readStarsFile(path: string, only: string[]): StarInput[] {
   try {
     text = readFileSync(path, 'utf8');
   } catch (err) {
-    throw new UsageError(`--file: cannot read ${JSON.stringify(path)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+    throw new UsageError(
+      `--file: cannot read ${JSON.stringify(path)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
+    );
   }
   return starsFromCsv(text, path, only);
 }

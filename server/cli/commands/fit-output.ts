@@ -16,8 +16,30 @@ interface QuantityRow {
 const digits = (v: number) => (Math.abs(v) >= 1e5 ? 3 : 6);
 
 function quantityRows(r: FitResult): QuantityRow[] {
-  const system = r.parameters.filter((p) => !p.name.includes('.')).map((p) => ({ star: '(system)', name: p.name, value: p.value, sigma: p.sigma, unit: p.unit, fitted: p.fixed ? 'fixed' : 'fitted', p16: p.percentiles?.[1], p84: p.percentiles?.[3] }));
-  const stars = r.stars.flatMap((s) => s.quantities.map((q) => ({ star: s.name, name: q.name, value: q.value, sigma: q.sigma, unit: q.unit, fitted: q.fitted ? 'fitted' : 'derived', p16: q.percentiles?.[1], p84: q.percentiles?.[3] })));
+  const system = r.parameters
+    .filter((p) => !p.name.includes('.'))
+    .map((p) => ({
+      star: '(system)',
+      name: p.name,
+      value: p.value,
+      sigma: p.sigma,
+      unit: p.unit,
+      fitted: p.fixed ? 'fixed' : 'fitted',
+      p16: p.percentiles?.[1],
+      p84: p.percentiles?.[3],
+    }));
+  const stars = r.stars.flatMap((s) =>
+    s.quantities.map((q) => ({
+      star: s.name,
+      name: q.name,
+      value: q.value,
+      sigma: q.sigma,
+      unit: q.unit,
+      fitted: q.fitted ? 'fitted' : 'derived',
+      p16: q.percentiles?.[1],
+      p84: q.percentiles?.[3],
+    })),
+  );
   return [...system, ...stars];
 }
 
@@ -30,8 +52,14 @@ const QUANTITY_COLUMNS: Column<QuantityRow>[] = [
   { header: 'how', value: (q) => q.fitted },
 ];
 const PERCENTILE_COLUMNS: Column<QuantityRow>[] = [
-  { header: 'p16', value: (q) => (q.p16 === undefined ? null : Number(q.p16.toFixed(digits(q.p16)))) },
-  { header: 'p84', value: (q) => (q.p84 === undefined ? null : Number(q.p84.toFixed(digits(q.p84)))) },
+  {
+    header: 'p16',
+    value: (q) => (q.p16 === undefined ? null : Number(q.p16.toFixed(digits(q.p16)))),
+  },
+  {
+    header: 'p84',
+    value: (q) => (q.p84 === undefined ? null : Number(q.p84.toFixed(digits(q.p84)))),
+  },
 ];
 
 const RESIDUAL_COLUMNS: Column<Residual>[] = [
@@ -53,14 +81,28 @@ export function summary(r: FitResult): string {
     `loss ${r.loss}; derivatives ${r.derivatives}; ${r.iterations} iterations${r.converged ? '' : ' (not converged)'}; next periapsis counted from ${r.asOf}`,
     ...r.stars.map((s) => `${s.name}: next periapsis ${s.nextPeriapsis}`),
   ];
-  if (r.sampler) lines.push(`posterior: ${r.sampler.samples} samples from ${r.sampler.walkers} walkers × ${r.sampler.steps} steps (seed ${r.sampler.seed}), acceptance ${r.sampler.acceptance.toFixed(2)}`);
+  if (r.sampler)
+    lines.push(
+      `posterior: ${r.sampler.samples} samples from ${r.sampler.walkers} walkers × ${r.sampler.steps} steps (seed ${r.sampler.seed}), acceptance ${r.sampler.acceptance.toFixed(2)}`,
+    );
   return lines.join('\n') + '\n';
 }
 
 /** Table output: everything. CSV: the quantities, or the residuals with `residuals`. */
-export function renderFit(r: FitResult, format: 'table' | 'json' | 'csv', residuals: boolean, extra = ''): string {
+export function renderFit(
+  r: FitResult,
+  format: 'table' | 'json' | 'csv',
+  residuals: boolean,
+  extra = '',
+): string {
   if (format === 'json') return JSON.stringify(r, null, 2) + '\n';
   const cols = r.sampler ? [...QUANTITY_COLUMNS, ...PERCENTILE_COLUMNS] : QUANTITY_COLUMNS;
-  if (format === 'csv') return residuals ? formatCsv(r.residuals, RESIDUAL_COLUMNS) : formatCsv(quantityRows(r), cols);
-  return [extra + summary(r), formatTable(quantityRows(r), cols), 'residuals (o−c: Δα*, Δδ mas | ρ mas, θ deg | v km/s):\n' + formatTable(r.residuals, RESIDUAL_COLUMNS)].join('\n');
+  if (format === 'csv')
+    return residuals ? formatCsv(r.residuals, RESIDUAL_COLUMNS) : formatCsv(quantityRows(r), cols);
+  return [
+    extra + summary(r),
+    formatTable(quantityRows(r), cols),
+    'residuals (o−c: Δα*, Δδ mas | ρ mas, θ deg | v km/s):\n' +
+      formatTable(r.residuals, RESIDUAL_COLUMNS),
+  ].join('\n');
 }

@@ -2,7 +2,12 @@
 import { parseArgs } from 'node:util';
 import { fitOrbits, type FitRequest, type StarHints } from '../../science/orbit/fit/index.ts';
 import { LOCAL_OPERATOR } from '../../store/index.ts';
-import { acceptStoredFit, prepareStoredFit, systemTargetIds, type StoredFitOptions } from '../../store/fits.ts';
+import {
+  acceptStoredFit,
+  prepareStoredFit,
+  systemTargetIds,
+  type StoredFitOptions,
+} from '../../store/fits.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { readStarsFile } from './fit-csv.ts';
 import { renderFit } from './fit-output.ts';
@@ -41,8 +46,10 @@ output:
 
 function range(option: string, text: string): { min: number; max: number } {
   const m = /^\s*([^:]+):([^:]+)\s*$/.exec(text);
-  const min = Number(m?.[1]), max = Number(m?.[2]);
-  if (!m || !Number.isFinite(min) || !Number.isFinite(max)) throw new UsageError(`--${option}: ${JSON.stringify(text)} must be <min>:<max>`);
+  const min = Number(m?.[1]),
+    max = Number(m?.[2]);
+  if (!m || !Number.isFinite(min) || !Number.isFinite(max))
+    throw new UsageError(`--${option}: ${JSON.stringify(text)} must be <min>:<max>`);
   return { min, max };
 }
 
@@ -56,45 +63,74 @@ function pairs(option: string, list: string[] | undefined): [string, string][] {
 
 function numberOf(option: string, name: string, text: string): number {
   const x = Number(text);
-  if (text === '' || !Number.isFinite(x)) throw new UsageError(`--${option}: ${name}=${JSON.stringify(text)} must be a number`);
+  if (text === '' || !Number.isFinite(x))
+    throw new UsageError(`--${option}: ${name}=${JSON.stringify(text)} must be a number`);
   return x;
 }
 
 const SWITCHES = ['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession'];
 
 /** The model options shared by file and stored fits. */
-function modelOptions(v: Record<string, unknown>): Omit<FitRequest, 'stars'> & { hintsAll?: StarHints; hintsBy: Record<string, StarHints> } {
+function modelOptions(
+  v: Record<string, unknown>,
+): Omit<FitRequest, 'stars'> & { hintsAll?: StarHints; hintsBy: Record<string, StarHints> } {
   const hintsBy: Record<string, StarHints> = {};
   let hintsAll: StarHints | undefined;
-  const ecc = v.eccentricity === undefined ? undefined : range('eccentricity', v.eccentricity as string);
+  const ecc =
+    v.eccentricity === undefined ? undefined : range('eccentricity', v.eccentricity as string);
   for (const p of (v.period as string[] | undefined) ?? []) {
     const k = p.lastIndexOf('=');
-    if (k > 0) hintsBy[p.slice(0, k).trim()] = { periodYears: range('period', p.slice(k + 1)), ...(ecc ? { eccentricity: ecc } : {}) };
+    if (k > 0)
+      hintsBy[p.slice(0, k).trim()] = {
+        periodYears: range('period', p.slice(k + 1)),
+        ...(ecc ? { eccentricity: ecc } : {}),
+      };
     else hintsAll = { periodYears: range('period', p) };
   }
   if (ecc) hintsAll = { ...hintsAll, eccentricity: ecc };
-  const fixed = Object.fromEntries(pairs('fix', v.fix as string[]).map(([n, x]) => [n, numberOf('fix', n, x)]));
-  const priors = Object.fromEntries(pairs('prior', v.prior as string[]).map(([n, x]) => {
-    const [mean, sigma] = x.split(',');
-    return [n, { mean: numberOf('prior', n, mean ?? ''), sigma: numberOf('prior', n, sigma ?? '') }];
-  }));
-  const out: ReturnType<typeof modelOptions> = { fixed, priors, hintsBy, ...(hintsAll ? { hintsAll } : {}) };
+  const fixed = Object.fromEntries(
+    pairs('fix', v.fix as string[]).map(([n, x]) => [n, numberOf('fix', n, x)]),
+  );
+  const priors = Object.fromEntries(
+    pairs('prior', v.prior as string[]).map(([n, x]) => {
+      const [mean, sigma] = x.split(',');
+      return [
+        n,
+        { mean: numberOf('prior', n, mean ?? ''), sigma: numberOf('prior', n, sigma ?? '') },
+      ];
+    }),
+  );
+  const out: ReturnType<typeof modelOptions> = {
+    fixed,
+    priors,
+    hintsBy,
+    ...(hintsAll ? { hintsAll } : {}),
+  };
   if (v.frame !== undefined) {
     const parts = (v.frame as string).split(',').map((s) => s.trim());
-    for (const p of parts) if (p !== 'offset' && p !== 'drift') throw new UsageError(`--frame: ${JSON.stringify(p)} must be offset or drift`);
+    for (const p of parts)
+      if (p !== 'offset' && p !== 'drift')
+        throw new UsageError(`--frame: ${JSON.stringify(p)} must be offset or drift`);
     out.frame = { offset: parts.includes('offset'), drift: parts.includes('drift') };
   }
   if (v.relativity !== undefined) {
     const t = (v.relativity as string).trim();
     const on = t === 'all' ? SWITCHES : t === 'none' ? [] : t.split(',').map((s) => s.trim());
-    for (const s of on) if (!SWITCHES.includes(s)) throw new UsageError(`--relativity: ${JSON.stringify(s)} is not one of ${SWITCHES.join(', ')}, all, none`);
+    for (const s of on)
+      if (!SWITCHES.includes(s))
+        throw new UsageError(
+          `--relativity: ${JSON.stringify(s)} is not one of ${SWITCHES.join(', ')}, all, none`,
+        );
     out.relativity = Object.fromEntries(SWITCHES.map((s) => [s, on.includes(s)]));
   }
   if (v.robust) out.loss = 'huber';
   if (v['as-of'] !== undefined) out.asOf = v['as-of'] as string;
   if (v.sample !== undefined) {
     const m = /^(-?\d+)(?::(\d+))?$/.exec((v.sample as string).trim());
-    if (!m) throw new UsageError(`--sample: ${JSON.stringify(v.sample)} must be <seed> or <seed>:<steps>`);
+    if (!m)
+      throw new UsageError(
+        `--sample: ${JSON.stringify(v.sample)} must be <seed> or <seed>:<steps>`,
+      );
     out.sample = { seed: Number(m[1]), ...(m[2] ? { steps: Number(m[2]) } : {}) };
   }
   return out;
@@ -103,33 +139,62 @@ function modelOptions(v: Record<string, unknown>): Omit<FitRequest, 'stars'> & {
 function positiveId(option: string, text: unknown): number | undefined {
   if (text === undefined) return undefined;
   const n = Number(text);
-  if (!Number.isInteger(n) || n <= 0) throw new UsageError(`--${option}: ${JSON.stringify(text)} must be a positive whole number`);
+  if (!Number.isInteger(n) || n <= 0)
+    throw new UsageError(`--${option}: ${JSON.stringify(text)} must be a positive whole number`);
   return n;
 }
 
 export const fitCommand: Command = {
-  summary: 'fit orbits to measurements (CSV file or stored), optionally accepting them as new solutions',
+  summary:
+    'fit orbits to measurements (CSV file or stored), optionally accepting them as new solutions',
   help,
   async run(argv) {
     const { values } = parseArgs({
       args: argv,
       options: {
         ...databaseOption,
-        file: { type: 'string' }, target: { type: 'string', multiple: true }, 'target-id': { type: 'string', multiple: true }, 'system-id': { type: 'string' },
-        accept: { type: 'boolean' }, notes: { type: 'string' }, period: { type: 'string', multiple: true }, eccentricity: { type: 'string' },
-        fix: { type: 'string', multiple: true }, prior: { type: 'string', multiple: true }, frame: { type: 'string' }, relativity: { type: 'string' },
-        robust: { type: 'boolean' }, 'as-of': { type: 'string' }, sample: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' }, residuals: { type: 'boolean' },
+        file: { type: 'string' },
+        target: { type: 'string', multiple: true },
+        'target-id': { type: 'string', multiple: true },
+        'system-id': { type: 'string' },
+        accept: { type: 'boolean' },
+        notes: { type: 'string' },
+        period: { type: 'string', multiple: true },
+        eccentricity: { type: 'string' },
+        fix: { type: 'string', multiple: true },
+        prior: { type: 'string', multiple: true },
+        frame: { type: 'string' },
+        relativity: { type: 'string' },
+        robust: { type: 'boolean' },
+        'as-of': { type: 'string' },
+        sample: { type: 'string' },
+        json: { type: 'boolean' },
+        csv: { type: 'boolean' },
+        residuals: { type: 'boolean' },
       },
       strict: true,
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    if (values.residuals && format !== 'csv') throw new UsageError('--residuals goes with --csv (the table and JSON always include residuals)');
+    if (values.residuals && format !== 'csv')
+      throw new UsageError(
+        '--residuals goes with --csv (the table and JSON always include residuals)',
+      );
     const targetIds = (values['target-id'] ?? []).map((t) => positiveId('target-id', t)!);
     const systemId = positiveId('system-id', values['system-id']);
-    if ([values.file !== undefined, targetIds.length > 0 || systemId !== undefined].filter(Boolean).length !== 1) throw new UsageError('give --file, or --target-id / --system-id for stored measurements');
-    if (systemId === undefined && targetIds.length > 1) throw new UsageError('several --target-id go with --system-id (a joint fit shares one primary)');
-    if (values.accept && values.file !== undefined) throw new UsageError('--accept stores solutions of stored targets: use it with --target-id or --system-id');
+    if (
+      [values.file !== undefined, targetIds.length > 0 || systemId !== undefined].filter(Boolean)
+        .length !== 1
+    )
+      throw new UsageError('give --file, or --target-id / --system-id for stored measurements');
+    if (systemId === undefined && targetIds.length > 1)
+      throw new UsageError(
+        'several --target-id go with --system-id (a joint fit shares one primary)',
+      );
+    if (values.accept && values.file !== undefined)
+      throw new UsageError(
+        '--accept stores solutions of stored targets: use it with --target-id or --system-id',
+      );
     const { hintsAll, hintsBy, ...model } = modelOptions(values);
     if (values.file !== undefined) {
       const stars = readStarsFile(values.file, values.target ?? []).map((s) => {
@@ -139,19 +204,44 @@ export const fitCommand: Command = {
       return renderFit(fitOrbits({ ...model, stars }), format, values.residuals === true);
     }
     return withStore(values.database, async (store) => {
-      const ids = systemId === undefined ? targetIds : await systemTargetIds(store, systemId, targetIds.length > 0 ? targetIds : undefined);
+      const ids =
+        systemId === undefined
+          ? targetIds
+          : await systemTargetIds(store, systemId, targetIds.length > 0 ? targetIds : undefined);
       let prepared = await prepareStoredFit(store, ids, model);
       if (hintsAll || Object.keys(hintsBy).length > 0) {
         // Named hints first, then the one for every star, then the default from the current solution.
         const first = prepared;
-        const hints = Object.fromEntries(first.targets.map((t) => [t.name, hintsBy[t.name] ?? hintsAll ?? first.request.stars.find((s) => s.name === t.name)?.hints ?? {}]));
-        prepared = await prepareStoredFit(store, ids, { ...model, hints } satisfies StoredFitOptions);
+        const hints = Object.fromEntries(
+          first.targets.map((t) => [
+            t.name,
+            hintsBy[t.name] ??
+              hintsAll ??
+              first.request.stars.find((s) => s.name === t.name)?.hints ??
+              {},
+          ]),
+        );
+        prepared = await prepareStoredFit(store, ids, {
+          ...model,
+          hints,
+        } satisfies StoredFitOptions);
       }
       const result = fitOrbits(prepared.request);
       let note = '';
       if (values.accept) {
-        const rows = await acceptStoredFit(store, LOCAL_OPERATOR, prepared, result, values.notes ?? '');
-        note = rows.map((r, k) => `stored ${prepared.targets[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`).join('');
+        const rows = await acceptStoredFit(
+          store,
+          LOCAL_OPERATOR,
+          prepared,
+          result,
+          values.notes ?? '',
+        );
+        note = rows
+          .map(
+            (r, k) =>
+              `stored ${prepared.targets[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`,
+          )
+          .join('');
         if (format === 'json') return JSON.stringify({ solutions: rows, result }, null, 2) + '\n';
       }
       return renderFit(result, format, values.residuals === true, note);

@@ -25,14 +25,32 @@ export const flagsCommand: Command = {
   summary: 'periapsis, blend and stale-prediction flags of a stored campaign',
   help,
   async run(argv) {
-    const { values } = parseArgs({ args: argv, options: { ...databaseOption, campaign: { type: 'string' }, at: { type: 'string' }, resolution: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } }, strict: true, allowPositionals: false });
+    const { values } = parseArgs({
+      args: argv,
+      options: {
+        ...databaseOption,
+        campaign: { type: 'string' },
+        at: { type: 'string' },
+        resolution: { type: 'string' },
+        json: { type: 'boolean' },
+        csv: { type: 'boolean' },
+      },
+      strict: true,
+      allowPositionals: false,
+    });
     const format = outputFormat(values);
     const id = Number(values.campaign);
-    if (values.campaign === undefined || !Number.isInteger(id) || id <= 0) throw new UsageError(`--campaign: ${JSON.stringify(values.campaign ?? null)} must be a campaign id (a positive integer)`);
+    if (values.campaign === undefined || !Number.isInteger(id) || id <= 0)
+      throw new UsageError(
+        `--campaign: ${JSON.stringify(values.campaign ?? null)} must be a campaign id (a positive integer)`,
+      );
     const nowJd = momentJd(values.at, '--at');
     const resolution = values.resolution === undefined ? undefined : Number(values.resolution);
-    if (resolution !== undefined && !(resolution > 0)) throw new UsageError(`--resolution: ${values.resolution} must be a positive number of mas`);
-    const result = await withStore(values.database, (store) => campaignFlags(store.db, id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }));
+    if (resolution !== undefined && !(resolution > 0))
+      throw new UsageError(`--resolution: ${values.resolution} must be a positive number of mas`);
+    const result = await withStore(values.database, (store) =>
+      campaignFlags(store.db, id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
+    );
     const columns: Column<Flag>[] = [
       { header: 'date', value: (f) => f.date.slice(0, 10) },
       { header: 'days_ahead', value: (f) => f.daysAhead, digits: 0 },

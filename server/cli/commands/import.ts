@@ -26,29 +26,51 @@ export const importCommand: Command = {
   summary: 'import targets, orbit solutions or measurements from CSV (all rows or none)',
   help,
   async run(argv) {
-    const { values } = parseArgs({ args: argv, options: { ...databaseOption, kind: { type: 'string' }, file: { type: 'string' }, 'check-only': { type: 'boolean' } }, strict: true, allowPositionals: false });
+    const { values } = parseArgs({
+      args: argv,
+      options: {
+        ...databaseOption,
+        kind: { type: 'string' },
+        file: { type: 'string' },
+        'check-only': { type: 'boolean' },
+      },
+      strict: true,
+      allowPositionals: false,
+    });
     const kind = values.kind as CsvKind | undefined;
-    if (kind === undefined || !CSV_KINDS.includes(kind)) throw new UsageError(`--kind must be one of ${CSV_KINDS.join(', ')}`);
+    if (kind === undefined || !CSV_KINDS.includes(kind))
+      throw new UsageError(`--kind must be one of ${CSV_KINDS.join(', ')}`);
     if (values.file === undefined) throw new UsageError('--file is required');
     let text: string;
     try {
       text = readFileSync(values.file, 'utf8');
     } catch (err) {
-      throw new UsageError(`--file: cannot read ${JSON.stringify(values.file)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`);
+      throw new UsageError(
+        `--file: cannot read ${JSON.stringify(values.file)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
+      );
     }
     const dryRun = values['check-only'] ?? false;
     try {
-      const report = await withStore(values.database, (store) => importCsv(store, LOCAL_OPERATOR, kind, text, { dryRun }));
-      return dryRun ? `checked ${report.rows} ${kind} rows: all good, nothing written\n` : `imported ${report.written} ${kind} rows\n`;
+      const report = await withStore(values.database, (store) =>
+        importCsv(store, LOCAL_OPERATOR, kind, text, { dryRun }),
+      );
+      return dryRun
+        ? `checked ${report.rows} ${kind} rows: all good, nothing written\n`
+        : `imported ${report.written} ${kind} rows\n`;
     } catch (err) {
       if (!(err instanceof ImportRejected)) throw err;
       const table = formatTable(err.report.problems, [
         { header: 'line', value: (p) => p.line },
         { header: 'column', value: (p) => p.column },
-        { header: 'value', value: (p) => (p.value === undefined || p.value === null ? '' : JSON.stringify(p.value)) },
+        {
+          header: 'value',
+          value: (p) => (p.value === undefined || p.value === null ? '' : JSON.stringify(p.value)),
+        },
         { header: 'rule', value: (p) => p.rule },
       ]);
-      throw new UsageError(`${err.report.problems.length} problem(s); nothing was written\n${table}`);
+      throw new UsageError(
+        `${err.report.problems.length} problem(s); nothing was written\n${table}`,
+      );
     }
   },
 };

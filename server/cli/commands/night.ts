@@ -27,15 +27,33 @@ export const nightCommand: Command = {
   summary: 'twilights, Moon and observing windows of targets for one night at a site',
   help,
   run(argv) {
-    const { values } = parseArgs({ args: argv, options: { ...skyOptions, date: { type: 'string' }, exact: { type: 'boolean' }, step: { type: 'string' } }, strict: true, allowPositionals: false });
+    const { values } = parseArgs({
+      args: argv,
+      options: {
+        ...skyOptions,
+        date: { type: 'string' },
+        exact: { type: 'boolean' },
+        step: { type: 'string' },
+      },
+      strict: true,
+      allowPositionals: false,
+    });
     const format = outputFormat(values);
-    if (values.date === undefined) throw new UsageError('--date is required (the local evening date, YYYY-MM-DD)');
+    if (values.date === undefined)
+      throw new UsageError('--date is required (the local evening date, YYYY-MM-DD)');
     parseNightDate(values.date, '--date');
     const { site, targets, constraints } = readSky(values);
     const stepMinutes = values.step === undefined ? 5 : numberOption('step', values.step);
-    if (!(stepMinutes > 0 && stepMinutes <= 30)) throw new UsageError(`--step: ${values.step} must lie in (0, 30] minutes`);
-    const report = nightReport(site, values.date, targets, constraints, { method: values.exact ? 'exact' : 'fast', stepMinutes, curveStepMinutes: format === 'json' ? 10 : 0 });
-    const rows: Row[] = report.targets.flatMap((t) => t.windows.map((w) => ({ ...w, target: t.name })));
+    if (!(stepMinutes > 0 && stepMinutes <= 30))
+      throw new UsageError(`--step: ${values.step} must lie in (0, 30] minutes`);
+    const report = nightReport(site, values.date, targets, constraints, {
+      method: values.exact ? 'exact' : 'fast',
+      stepMinutes,
+      curveStepMinutes: format === 'json' ? 10 : 0,
+    });
+    const rows: Row[] = report.targets.flatMap((t) =>
+      t.windows.map((w) => ({ ...w, target: t.name })),
+    );
     const columns: Column<Row>[] = [
       { header: 'target', value: (r) => r.target },
       { header: 'opens', value: (r) => hhmm(r.start.local) },
@@ -49,7 +67,13 @@ export const nightCommand: Command = {
       { header: 'moon_deg', value: (r) => r.best.moonSeparationDeg, digits: 1 },
     ];
     if (format !== 'table') {
-      if (format === 'csv') columns.splice(1, 2, { header: 'opens_utc', value: (r) => r.start.utc }, { header: 'closes_utc', value: (r) => r.end.utc });
+      if (format === 'csv')
+        columns.splice(
+          1,
+          2,
+          { header: 'opens_utc', value: (r) => r.start.utc },
+          { header: 'closes_utc', value: (r) => r.end.utc },
+        );
       return render(format, rows, columns, report);
     }
     const t = (i: { local: string } | null) => (i ? hhmm(i.local) : '—');
@@ -65,6 +89,12 @@ export const nightCommand: Command = {
     ];
     const none = report.targets.filter((x) => x.windows.length === 0).map((x) => x.name);
     const tail = none.length ? `\nno window tonight: ${none.join(', ')}\n` : '';
-    return head.join('\n') + '\n' + render(format, rows, columns, report) + tail + report.cautions.map((c) => `note: ${c}\n`).join('');
+    return (
+      head.join('\n') +
+      '\n' +
+      render(format, rows, columns, report) +
+      tail +
+      report.cautions.map((c) => `note: ${c}\n`).join('')
+    );
   },
 };

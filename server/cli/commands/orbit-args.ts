@@ -31,22 +31,30 @@ export function readOrbit(text: string | undefined): Orbit {
 }
 
 function integer(option: string, text: string): number {
-  if (!/^-?\d+$/.test(text.trim())) throw new UsageError(`--${option}: ${JSON.stringify(text)} must be an integer`);
+  if (!/^-?\d+$/.test(text.trim()))
+    throw new UsageError(`--${option}: ${JSON.stringify(text)} must be an integer`);
   return Number(text);
 }
 
-export function readMonteCarlo(values: { mc?: string; seed?: string }): { draws: number; seed: number } | undefined {
+export function readMonteCarlo(values: {
+  mc?: string;
+  seed?: string;
+}): { draws: number; seed: number } | undefined {
   if (values.mc === undefined) {
     if (values.seed !== undefined) throw new UsageError('--seed goes with --mc');
     return undefined;
   }
-  return { draws: integer('mc', values.mc), seed: values.seed === undefined ? 1 : integer('seed', values.seed) };
+  return {
+    draws: integer('mc', values.mc),
+    seed: values.seed === undefined ? 1 : integer('seed', values.seed),
+  };
 }
 
 const FORMATS: EpochFormat[] = ['iso', 'jd', 'mjd', 'julian', 'besselian'];
 
 export function epochPrinter(value: string | undefined): (jd: number) => string {
   const format = (value ?? 'iso') as EpochFormat;
-  if (!FORMATS.includes(format)) throw new UsageError(`--time: ${JSON.stringify(value)} must be one of ${FORMATS.join(', ')}`);
+  if (!FORMATS.includes(format))
+    throw new UsageError(`--time: ${JSON.stringify(value)} must be one of ${FORMATS.join(', ')}`);
   return (jd) => formatEpoch(jd, format);
 }

@@ -2,7 +2,11 @@
 import { parseArgs } from 'node:util';
 import type { ScheduledBlock } from '../../science/plan/index.ts';
 import { LOCAL_OPERATOR } from '../../store/index.ts';
-import { acceptNightSchedule, previewNightSchedule, type NightScheduleRequest } from '../../store/views/night-plan.ts';
+import {
+  acceptNightSchedule,
+  previewNightSchedule,
+  type NightScheduleRequest,
+} from '../../store/views/night-plan.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
@@ -38,7 +42,15 @@ ${DATABASE_HELP}
   --json | --csv               machine-readable output instead of a table
 `;
 
-const OPTIONS = { pins: '--pin', remove: '--remove', candidates: '--candidates', slotMinutes: '--slot', method: '--method', nightId: '--night', at: '--at' };
+const OPTIONS = {
+  pins: '--pin',
+  remove: '--remove',
+  candidates: '--candidates',
+  slotMinutes: '--slot',
+  method: '--method',
+  nightId: '--night',
+  at: '--at',
+};
 
 export const planNightCommand: Command = {
   summary: 'schedule of a stored night: blocks, left-out blocks and why (--accept stores it)',
@@ -46,52 +58,89 @@ export const planNightCommand: Command = {
   async run(argv) {
     const { values } = parseArgs({
       args: argv,
-      options: { ...databaseOption, night: { type: 'string' }, pin: { type: 'string', multiple: true }, remove: { type: 'string', multiple: true }, candidates: { type: 'string' }, method: { type: 'string' }, slot: { type: 'string' }, at: { type: 'string' }, accept: { type: 'boolean' }, digest: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } },
+      options: {
+        ...databaseOption,
+        night: { type: 'string' },
+        pin: { type: 'string', multiple: true },
+        remove: { type: 'string', multiple: true },
+        candidates: { type: 'string' },
+        method: { type: 'string' },
+        slot: { type: 'string' },
+        at: { type: 'string' },
+        accept: { type: 'boolean' },
+        digest: { type: 'string' },
+        json: { type: 'boolean' },
+        csv: { type: 'boolean' },
+      },
       strict: true,
       allowPositionals: false,
     });
     const format = outputFormat(values);
     const id = positiveId('night', values.night);
-    if (values.digest !== undefined && !values.accept) throw new UsageError('--digest goes with --accept');
+    if (values.digest !== undefined && !values.accept)
+      throw new UsageError('--digest goes with --accept');
     const pins = values.pin?.map((p) => {
       const at = p.lastIndexOf('@');
-      if (at <= 0) throw new UsageError(`--pin: ${JSON.stringify(p)} must be <block id>@<start>, e.g. "VC s1:astrometry@2027-06-06T05:00Z"`);
+      if (at <= 0)
+        throw new UsageError(
+          `--pin: ${JSON.stringify(p)} must be <block id>@<start>, e.g. "VC s1:astrometry@2027-06-06T05:00Z"`,
+        );
       return { id: p.slice(0, at), start: p.slice(at + 1) };
     });
     const slot = values.slot === undefined ? undefined : Number(values.slot);
-    if (values.slot !== undefined && !Number.isFinite(slot)) throw new UsageError(`--slot: ${JSON.stringify(values.slot)} must be a number of minutes`);
+    if (values.slot !== undefined && !Number.isFinite(slot))
+      throw new UsageError(`--slot: ${JSON.stringify(values.slot)} must be a number of minutes`);
     const request: NightScheduleRequest = {
-      ...(values.candidates !== undefined ? { candidates: readJsonArg('candidates', values.candidates) } : {}),
+      ...(values.candidates !== undefined
+        ? { candidates: readJsonArg('candidates', values.candidates) }
+        : {}),
       ...(pins ? { pins } : {}),
       ...(values.remove ? { remove: values.remove } : {}),
-      ...(values.method !== undefined ? { method: values.method as NightScheduleRequest['method'] } : {}),
+      ...(values.method !== undefined
+        ? { method: values.method as NightScheduleRequest['method'] }
+        : {}),
       ...(slot !== undefined ? { slotMinutes: slot } : {}),
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
     const atJd = momentJd(values.at, '--at');
     const result = await withStore(values.database, (store) =>
-      asOptions(OPTIONS, () => (values.accept ? acceptNightSchedule(store, LOCAL_OPERATOR, id, request, atJd) : previewNightSchedule(store.db, id, request, atJd))),
+      asOptions(OPTIONS, () =>
+        values.accept
+          ? acceptNightSchedule(store, LOCAL_OPERATOR, id, request, atJd)
+          : previewNightSchedule(store.db, id, request, atJd),
+      ),
     );
     const s = result.schedule;
-    const local = (i: { local: string; utc: string }) => (format === 'table' ? i.local.slice(11, 16) : i.utc);
+    const local = (i: { local: string; utc: string }) =>
+      format === 'table' ? i.local.slice(11, 16) : i.utc;
     const columns: Column<ScheduledBlock>[] = [
       { header: format === 'table' ? 'start' : 'start_utc', value: (b) => local(b.start) },
       { header: format === 'table' ? 'end' : 'end_utc', value: (b) => local(b.end) },
       { header: 'block', value: (b) => b.id },
       { header: 'target', value: (b) => b.target },
       { header: 'kind', value: (b) => b.kind },
-      { header: 'airmass', value: (b) => `${b.airmassStart.toFixed(2)}/${b.airmassMiddle.toFixed(2)}/${b.airmassEnd.toFixed(2)}` },
+      {
+        header: 'airmass',
+        value: (b) =>
+          `${b.airmassStart.toFixed(2)}/${b.airmassMiddle.toFixed(2)}/${b.airmassEnd.toFixed(2)}`,
+      },
       { header: 'pinned', value: (b) => (b.pinned ? 'yes' : '') },
       { header: 'laser', value: (b) => (b.laserGuideStar ? 'yes' : '') },
     ];
     if (format !== 'table') return render(format, s.blocks, columns, result);
     const stored = result as Partial<Awaited<ReturnType<typeof acceptNightSchedule>>>;
-    const written = stored.written ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced\n` : `preview only (digest ${result.digest}): accepting would replace stored blocks [${result.replaces.join(', ')}]; run again with --accept to store it\n`;
+    const written = stored.written
+      ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced\n`
+      : `preview only (digest ${result.digest}): accepting would replace stored blocks [${result.replaces.join(', ')}]; run again with --accept to store it\n`;
     return [
       `${s.site}, night of ${s.date} (${s.timeZone}; local times), ${s.method} schedule: ${s.scheduledHours.toFixed(2)} h of ${s.darkHours.toFixed(2)} h dark\n\n`,
       formatTable(s.blocks, columns),
-      s.leftOut.length ? `\nleft out:\n${s.leftOut.map((l) => `  ${l.id}: ${l.reason}\n`).join('')}` : '',
-      result.kept.length ? `\nstored blocks kept:\n${result.kept.map((k) => `  block ${k.id}: ${k.reason}\n`).join('')}` : '',
+      s.leftOut.length
+        ? `\nleft out:\n${s.leftOut.map((l) => `  ${l.id}: ${l.reason}\n`).join('')}`
+        : '',
+      result.kept.length
+        ? `\nstored blocks kept:\n${result.kept.map((k) => `  block ${k.id}: ${k.reason}\n`).join('')}`
+        : '',
       '\n',
       written,
       ...s.cautions.map((c) => `note: ${c}\n`),

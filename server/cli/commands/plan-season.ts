@@ -3,7 +3,11 @@ import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
 import type { PlannedEpoch } from '../../science/plan/index.ts';
 import { LOCAL_OPERATOR } from '../../store/index.ts';
-import { acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
+import {
+  acceptSeasonPlan,
+  previewSeasonPlan,
+  type SeasonPlanRequest,
+} from '../../store/views/season-plan.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
@@ -37,9 +41,20 @@ ${DATABASE_HELP}
   --json | --csv         machine-readable output instead of a table
 `;
 
-const SETTINGS = ['blockMinutes', 'precision', 'slotMinutes', 'slewMinutes', 'sameTargetMinutes', 'fillFraction', 'extraEpochsPerTarget'];
+const SETTINGS = [
+  'blockMinutes',
+  'precision',
+  'slotMinutes',
+  'slewMinutes',
+  'sameTargetMinutes',
+  'fillFraction',
+  'extraEpochsPerTarget',
+];
 /** Re-raise an InputError under the option the user typed (`options`: request field → option), so the message names it. */
-export async function asOptions<T>(options: Record<string, string>, f: () => Promise<T>): Promise<T> {
+export async function asOptions<T>(
+  options: Record<string, string>,
+  f: () => Promise<T>,
+): Promise<T> {
   try {
     return await f();
   } catch (err) {
@@ -47,15 +62,30 @@ export async function asOptions<T>(options: Record<string, string>, f: () => Pro
     const [head, ...rest] = err.field.split('.');
     const option = options[head!] ?? options['*'];
     if (option === undefined) throw err;
-    throw new InputError(options[head!] ? [option, ...rest].join('.') : `${option} ${err.field}`, err.value, err.rule);
+    throw new InputError(
+      options[head!] ? [option, ...rest].join('.') : `${option} ${err.field}`,
+      err.value,
+      err.rule,
+    );
   }
 }
 
-const OPTIONS = { startDate: '--start', endDate: '--end', siteIds: '--site', nights: '--all-nights', campaignId: '--campaign', at: '--at', '*': '--settings' };
+const OPTIONS = {
+  startDate: '--start',
+  endDate: '--end',
+  siteIds: '--site',
+  nights: '--all-nights',
+  campaignId: '--campaign',
+  at: '--at',
+  '*': '--settings',
+};
 
 export function positiveId(option: string, text: string | undefined): number {
   const id = Number(text);
-  if (text === undefined || !Number.isInteger(id) || id <= 0) throw new UsageError(`--${option}: ${JSON.stringify(text ?? null)} must be an id (a positive integer)`);
+  if (text === undefined || !Number.isInteger(id) || id <= 0)
+    throw new UsageError(
+      `--${option}: ${JSON.stringify(text ?? null)} must be an id (a positive integer)`,
+    );
   return id;
 }
 
@@ -65,17 +95,37 @@ export const planSeasonCommand: Command = {
   async run(argv) {
     const { values } = parseArgs({
       args: argv,
-      options: { ...databaseOption, campaign: { type: 'string' }, start: { type: 'string' }, end: { type: 'string' }, site: { type: 'string', multiple: true }, 'all-nights': { type: 'boolean' }, at: { type: 'string' }, settings: { type: 'string' }, accept: { type: 'boolean' }, digest: { type: 'string' }, json: { type: 'boolean' }, csv: { type: 'boolean' } },
+      options: {
+        ...databaseOption,
+        campaign: { type: 'string' },
+        start: { type: 'string' },
+        end: { type: 'string' },
+        site: { type: 'string', multiple: true },
+        'all-nights': { type: 'boolean' },
+        at: { type: 'string' },
+        settings: { type: 'string' },
+        accept: { type: 'boolean' },
+        digest: { type: 'string' },
+        json: { type: 'boolean' },
+        csv: { type: 'boolean' },
+      },
       strict: true,
       allowPositionals: false,
     });
     const format = outputFormat(values);
     const id = positiveId('campaign', values.campaign);
-    if (values.start === undefined || values.end === undefined) throw new UsageError('--start and --end are required (local evening dates, YYYY-MM-DD)');
-    if (values.digest !== undefined && !values.accept) throw new UsageError('--digest goes with --accept');
+    if (values.start === undefined || values.end === undefined)
+      throw new UsageError('--start and --end are required (local evening dates, YYYY-MM-DD)');
+    if (values.digest !== undefined && !values.accept)
+      throw new UsageError('--digest goes with --accept');
     const settings = values.settings === undefined ? {} : readJsonArg('settings', values.settings);
-    if (typeof settings !== 'object' || settings === null || Array.isArray(settings)) throw new UsageError('--settings must be a JSON object');
-    for (const k of Object.keys(settings)) if (!SETTINGS.includes(k)) throw new UsageError(`--settings: unknown setting ${JSON.stringify(k)} (known: ${SETTINGS.join(', ')})`);
+    if (typeof settings !== 'object' || settings === null || Array.isArray(settings))
+      throw new UsageError('--settings must be a JSON object');
+    for (const k of Object.keys(settings))
+      if (!SETTINGS.includes(k))
+        throw new UsageError(
+          `--settings: unknown setting ${JSON.stringify(k)} (known: ${SETTINGS.join(', ')})`,
+        );
     const atJd = momentJd(values.at, '--at');
     const request: SeasonPlanRequest = {
       ...(settings as object),
@@ -85,11 +135,23 @@ export const planSeasonCommand: Command = {
       nights: values['all-nights'] ? 'all' : 'allocated',
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
-    const result = await withStore(values.database, (store) => asOptions(OPTIONS, () => (values.accept ? acceptSeasonPlan(store, LOCAL_OPERATOR, id, request, atJd) : previewSeasonPlan(store.db, id, request, atJd))));
+    const result = await withStore(values.database, (store) =>
+      asOptions(OPTIONS, () =>
+        values.accept
+          ? acceptSeasonPlan(store, LOCAL_OPERATOR, id, request, atJd)
+          : previewSeasonPlan(store.db, id, request, atJd),
+      ),
+    );
     const columns: Column<PlannedEpoch>[] = [
       { header: 'night', value: (e) => e.date },
       { header: 'site', value: (e) => e.site },
-      { header: format === 'table' ? 'start_local' : 'start_utc', value: (e) => (format === 'table' ? e.block.start.local.slice(0, 16).replace('T', ' ') : e.block.start.utc) },
+      {
+        header: format === 'table' ? 'start_local' : 'start_utc',
+        value: (e) =>
+          format === 'table'
+            ? e.block.start.local.slice(0, 16).replace('T', ' ')
+            : e.block.start.utc,
+      },
       { header: 'minutes', value: (e) => e.block.minutes, digits: 0 },
       { header: 'target', value: (e) => e.target },
       { header: 'kind', value: (e) => e.kind },
@@ -101,25 +163,49 @@ export const planSeasonCommand: Command = {
     const plan = result.plan;
     if (format !== 'table') return render(format, plan.epochs, columns, result);
     const stored = result as Partial<Awaited<ReturnType<typeof acceptSeasonPlan>>>;
-    const written = stored.written && stored.nightsCreated ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced, ${stored.nightsCreated.length} nights created\n` : `preview only (digest ${result.digest}): accepting would replace ${result.replaces.length} stored blocks; run again with --accept to store it\n`;
+    const written =
+      stored.written && stored.nightsCreated
+        ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced, ${stored.nightsCreated.length} nights created\n`
+        : `preview only (digest ${result.digest}): accepting would replace ${result.replaces.length} stored blocks; run again with --accept to store it\n`;
     const sigma = (x: number | null, d: number) => (x === null ? '—' : x.toFixed(d));
     const targets = formatTable(plan.targets, [
       { header: 'target', value: (t) => t.target },
       { header: 'astrometry', value: (t) => t.epochs.astrometry, digits: 0 },
       { header: 'spectroscopy', value: (t) => t.epochs.spectroscopy, digits: 0 },
       { header: 'cadence_met', value: (t) => (t.cadenceMet ? 'yes' : 'no') },
-      { header: 'sigma_T_days', value: (t) => (t.shrinkage ? `${sigma(t.shrinkage.periapsisDays.before, 2)} → ${sigma(t.shrinkage.periapsisDays.after, 2)}` : '—') },
-      { header: 'sigma_mass_pct', value: (t) => (t.shrinkage ? `${sigma(t.shrinkage.massFraction.before && t.shrinkage.massFraction.before * 100, 2)} → ${sigma(t.shrinkage.massFraction.after && t.shrinkage.massFraction.after * 100, 2)}` : '—') },
+      {
+        header: 'sigma_T_days',
+        value: (t) =>
+          t.shrinkage
+            ? `${sigma(t.shrinkage.periapsisDays.before, 2)} → ${sigma(t.shrinkage.periapsisDays.after, 2)}`
+            : '—',
+      },
+      {
+        header: 'sigma_mass_pct',
+        value: (t) =>
+          t.shrinkage
+            ? `${sigma(t.shrinkage.massFraction.before && t.shrinkage.massFraction.before * 100, 2)} → ${sigma(t.shrinkage.massFraction.after && t.shrinkage.massFraction.after * 100, 2)}`
+            : '—',
+      },
       { header: 'periapses', value: (t) => t.periapses.map((p) => p.slice(0, 10)).join(' ') },
     ]);
-    const skipped = result.sites.flatMap((s) => s.skipped.map((k) => `  ${s.name} ${k.date}: ${k.reason}\n`));
-    const around = result.sites.flatMap((s) => s.plannedAround.map((n) => `  ${s.name} ${n.date}: ${n.kept.map((k) => `block ${k.id} (${k.reason})`).join(', ')}\n`));
+    const skipped = result.sites.flatMap((s) =>
+      s.skipped.map((k) => `  ${s.name} ${k.date}: ${k.reason}\n`),
+    );
+    const around = result.sites.flatMap((s) =>
+      s.plannedAround.map(
+        (n) =>
+          `  ${s.name} ${n.date}: ${n.kept.map((k) => `block ${k.id} (${k.reason})`).join(', ')}\n`,
+      ),
+    );
     return [
       `campaign ${id}, nights ${plan.startDate} to ${plan.endDate} (${result.nights}); ${plan.sites.map((s) => `${s.name}: ${s.nightsUsed} of ${s.nights} nights used, ${s.plannedHours.toFixed(1)} h planned`).join('; ')}\n\n`,
       formatTable(plan.epochs, columns),
       '\n',
       targets,
-      plan.unmet.length ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.from} to ${u.to}: ${u.reason}\n`).join('')}` : '',
+      plan.unmet.length
+        ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.from} to ${u.to}: ${u.reason}\n`).join('')}`
+        : '',
       skipped.length ? `\nnights left out:\n${skipped.join('')}` : '',
       around.length ? `\nnights planned around blocks that stay:\n${around.join('')}` : '',
       '\n',

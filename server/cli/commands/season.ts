@@ -21,37 +21,68 @@ ${SKY_OPTION_HELP}
 `;
 
 export const seasonCommand: Command = {
-  summary: 'observable hours per night across a year, and each target\'s season at a site',
+  summary: "observable hours per night across a year, and each target's season at a site",
   help,
   run(argv) {
-    const { values } = parseArgs({ args: argv, options: { ...skyOptions, year: { type: 'string' }, step: { type: 'string' }, 'min-hours': { type: 'string' } }, strict: true, allowPositionals: false });
+    const { values } = parseArgs({
+      args: argv,
+      options: {
+        ...skyOptions,
+        year: { type: 'string' },
+        step: { type: 'string' },
+        'min-hours': { type: 'string' },
+      },
+      strict: true,
+      allowPositionals: false,
+    });
     const format = outputFormat(values);
     if (values.year === undefined) throw new UsageError('--year is required');
     const year = numberOption('year', values.year);
-    if (!Number.isInteger(year) || year < 1900 || year > 2100) throw new InputError('--year', values.year, 'must be a whole year from 1900 to 2100');
+    if (!Number.isInteger(year) || year < 1900 || year > 2100)
+      throw new InputError('--year', values.year, 'must be a whole year from 1900 to 2100');
     const { site, targets, constraints } = readSky(values);
     const stepMinutes = values.step === undefined ? 5 : numberOption('step', values.step);
-    if (!(stepMinutes >= 1 && stepMinutes <= 60)) throw new UsageError(`--step: ${values.step} must lie in [1, 60] minutes`);
-    const minHoursPerNight = values['min-hours'] === undefined ? 1 : numberOption('min-hours', values['min-hours']);
+    if (!(stepMinutes >= 1 && stepMinutes <= 60))
+      throw new UsageError(`--step: ${values.step} must lie in [1, 60] minutes`);
+    const minHoursPerNight =
+      values['min-hours'] === undefined ? 1 : numberOption('min-hours', values['min-hours']);
     const map = seasonMap(site, year, targets, constraints, { stepMinutes, minHoursPerNight });
     if (format === 'csv') {
       const nights = map.nights.map((n, i) => ({ n, i }));
       const columns: Column<(typeof nights)[number]>[] = [
         { header: 'date', value: (r) => r.n.date },
         { header: 'dark_h', value: (r) => r.n.darkHours, digits: 3 },
-        ...map.targets.map((t): Column<(typeof nights)[number]> => ({ header: `${t.name}_h`, value: (r) => t.hours[r.i], digits: 3 })),
+        ...map.targets.map(
+          (t): Column<(typeof nights)[number]> => ({
+            header: `${t.name}_h`,
+            value: (r) => t.hours[r.i],
+            digits: 3,
+          }),
+        ),
       ];
       return formatCsv(nights, columns);
     }
     const columns: Column<TargetSeason>[] = [
       { header: 'target', value: (t) => t.name },
-      { header: 'season_from', value: (t) => (t.season.allYear ? 'all year' : t.season.start ?? '—') },
-      { header: 'season_to', value: (t) => (t.season.allYear ? '' : t.season.end ?? '') },
+      {
+        header: 'season_from',
+        value: (t) => (t.season.allYear ? 'all year' : (t.season.start ?? '—')),
+      },
+      { header: 'season_to', value: (t) => (t.season.allYear ? '' : (t.season.end ?? '')) },
       { header: 'across_new_year', value: (t) => (t.season.wrapsYearEnd ? 'yes' : '') },
       { header: 'usable_nights', value: (t) => t.season.usableNights },
       { header: 'best_night', value: (t) => t.season.bestNight ?? '—' },
       { header: 'best_hours', value: (t) => t.season.bestHours, digits: 2 },
-      { header: 'periapsis', value: (t) => t.periapses.map((p) => `${p.night} ${p.inSeason ? 'in season' : 'OUT of season'} ${p.hours.toFixed(1)} h`).join('; ') },
+      {
+        header: 'periapsis',
+        value: (t) =>
+          t.periapses
+            .map(
+              (p) =>
+                `${p.night} ${p.inSeason ? 'in season' : 'OUT of season'} ${p.hours.toFixed(1)} h`,
+            )
+            .join('; '),
+      },
     ];
     return render(format, map.targets, columns, seasonReport(site, map, constraints));
   },

@@ -1,6 +1,13 @@
 /** What the `night` and `season` commands share: reading a site, targets and constraints. */
 import { InputError } from '../../science/errors.ts';
-import { validateConstraints, validateSite, validateTarget, type Constraints, type Site, type Target } from '../../science/sky/index.ts';
+import {
+  validateConstraints,
+  validateSite,
+  validateTarget,
+  type Constraints,
+  type Site,
+  type Target,
+} from '../../science/sky/index.ts';
 import { readJsonArg } from '../io.ts';
 
 export const SKY_OPTION_HELP = `  --site <json|file>         the site: {"latitudeDeg", "longitudeDeg" (east), "elevationM", "timeZone",
@@ -28,20 +35,41 @@ export const skyOptions = {
 
 function numberOption(name: string, text: string): number {
   const x = Number(text);
-  if (text.trim() === '' || !Number.isFinite(x)) throw new InputError(`--${name}`, text, 'must be a number');
+  if (text.trim() === '' || !Number.isFinite(x))
+    throw new InputError(`--${name}`, text, 'must be a number');
   return x;
 }
 
-export function readSky(values: { site?: string; targets?: string; constraints?: string; darkness?: string; 'max-airmass'?: string; 'moon-distance'?: string }): { site: Site; targets: Target[]; constraints: Constraints } {
+export function readSky(values: {
+  site?: string;
+  targets?: string;
+  constraints?: string;
+  darkness?: string;
+  'max-airmass'?: string;
+  'moon-distance'?: string;
+}): { site: Site; targets: Target[]; constraints: Constraints } {
   const site = validateSite(readJsonArg('site', values.site), 'site');
   const raw = readJsonArg('targets', values.targets);
   const list = Array.isArray(raw) ? raw : (raw as { targets?: unknown }).targets;
-  if (!Array.isArray(list)) throw new InputError('targets', raw, 'must be an array of targets (or an object with a "targets" array)');
+  if (!Array.isArray(list))
+    throw new InputError(
+      'targets',
+      raw,
+      'must be an array of targets (or an object with a "targets" array)',
+    );
   const targets = list.map((t, i) => validateTarget(t, `targets.${i}`));
-  const c = values.constraints === undefined ? {} : (readJsonArg('constraints', values.constraints) as Record<string, unknown>);
-  if (values.darkness !== undefined) c.darkness = /^[a-z]+$/i.test(values.darkness) ? values.darkness : numberOption('darkness', values.darkness);
-  if (values['max-airmass'] !== undefined) c.maxAirmass = numberOption('max-airmass', values['max-airmass']);
-  if (values['moon-distance'] !== undefined) c.minMoonSeparationDeg = numberOption('moon-distance', values['moon-distance']);
+  const c =
+    values.constraints === undefined
+      ? {}
+      : (readJsonArg('constraints', values.constraints) as Record<string, unknown>);
+  if (values.darkness !== undefined)
+    c.darkness = /^[a-z]+$/i.test(values.darkness)
+      ? values.darkness
+      : numberOption('darkness', values.darkness);
+  if (values['max-airmass'] !== undefined)
+    c.maxAirmass = numberOption('max-airmass', values['max-airmass']);
+  if (values['moon-distance'] !== undefined)
+    c.minMoonSeparationDeg = numberOption('moon-distance', values['moon-distance']);
   return { site, targets, constraints: validateConstraints(c, site, 'constraints') };
 }
 

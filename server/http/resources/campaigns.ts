@@ -18,10 +18,31 @@ export function campaignRoutes(store: Store) {
     create: CampaignFields.strict(),
     patch: patchOf(CampaignFields),
     row: rowOf(CampaignFields),
-    filters: z.object({ targetId: optionalId, siteId: optionalId, from: dateQuery.openapi({ description: 'campaigns running on or after this date' }), to: dateQuery }),
+    filters: z.object({
+      targetId: optionalId,
+      siteId: optionalId,
+      from: dateQuery.openapi({ description: 'campaigns running on or after this date' }),
+      to: dateQuery,
+    }),
     where: (q) => [
-      q.targetId ? inArray(campaigns.id, store.db.select({ id: campaignTargets.campaignId }).from(campaignTargets).where(and(inArray(campaignTargets.targetId, [q.targetId])))) : undefined,
-      q.siteId ? inArray(campaigns.id, store.db.select({ id: campaignSites.campaignId }).from(campaignSites).where(inArray(campaignSites.siteId, [q.siteId]))) : undefined,
+      q.targetId
+        ? inArray(
+            campaigns.id,
+            store.db
+              .select({ id: campaignTargets.campaignId })
+              .from(campaignTargets)
+              .where(and(inArray(campaignTargets.targetId, [q.targetId]))),
+          )
+        : undefined,
+      q.siteId
+        ? inArray(
+            campaigns.id,
+            store.db
+              .select({ id: campaignSites.campaignId })
+              .from(campaignSites)
+              .where(inArray(campaignSites.siteId, [q.siteId])),
+          )
+        : undefined,
       q.from ? gte(campaigns.endDate, q.from) : undefined,
       q.to ? lte(campaigns.startDate, q.to) : undefined,
     ],

@@ -15,11 +15,17 @@ import { validationHook } from '../validation.ts';
 
 /** Store errors to HTTP: 404 missing row, 409 clash with stored state, 422 a value breaks a rule. */
 export function storeErrorToHttp(err: unknown): unknown {
-  if (err instanceof NotFoundError) return new HttpError(404, 'not_found', err.message, { entity: err.entity, id: err.id });
+  if (err instanceof NotFoundError)
+    return new HttpError(404, 'not_found', err.message, { entity: err.entity, id: err.id });
   if (err instanceof ConflictError) return new HttpError(409, err.code, err.message, err.details);
   if (err instanceof InputError) {
     const problems = (err as InputError & { problems?: unknown }).problems;
-    return new HttpError(422, 'invalid_value', err.message, { field: err.field, value: err.value, rule: err.rule, ...(problems ? { problems } : {}) });
+    return new HttpError(422, 'invalid_value', err.message, {
+      field: err.field,
+      value: err.value,
+      rule: err.rule,
+      ...(problems ? { problems } : {}),
+    });
   }
   return err;
 }
@@ -32,8 +38,17 @@ export function resourceApp() {
 
 export const security = [{ bearer: [] }];
 const Any = z.record(z.string(), z.unknown());
-export const json = (schema: z.ZodType, description: string) => ({ content: { 'application/json': { schema } }, description });
-const err = (d: string) => json(z.object({ error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }) }), d);
+export const json = (schema: z.ZodType, description: string) => ({
+  content: { 'application/json': { schema } },
+  description,
+});
+const err = (d: string) =>
+  json(
+    z.object({
+      error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }),
+    }),
+    d,
+  );
 export const errorResponses = {
   400: err('malformed request (field-level issues in details)'),
   401: err('no valid bearer token'),
@@ -42,13 +57,31 @@ export const errorResponses = {
   409: err('clashes with the stored state (stale version, duplicate, still in use)'),
   422: err('a value breaks a rule (field, value, rule in details)'),
 };
-export const IdParam = z.object({ id: z.coerce.number().int().positive().openapi({ param: { name: 'id', in: 'path' } }) });
+export const IdParam = z.object({
+  id: z.coerce
+    .number()
+    .int()
+    .positive()
+    .openapi({ param: { name: 'id', in: 'path' } }),
+});
 export const PageQuery = z.object({
-  limit: z.coerce.number().int().min(1).max(500).default(50).openapi({ description: 'page size, 1–500' }),
+  limit: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .max(500)
+    .default(50)
+    .openapi({ description: 'page size, 1–500' }),
   offset: z.coerce.number().int().min(0).default(0),
 });
 export const optionalId = z.coerce.number().int().positive().optional();
-export const pageOf = (item: z.ZodType) => z.object({ items: z.array(item), total: z.number().int(), limit: z.number().int(), offset: z.number().int() });
+export const pageOf = (item: z.ZodType) =>
+  z.object({
+    items: z.array(item),
+    total: z.number().int(),
+    limit: z.number().int(),
+    offset: z.number().int(),
+  });
 export const RowSchema = Any;
 
 export interface ResourceSpec<T, Q extends z.ZodObject> {
@@ -68,49 +101,115 @@ export interface ResourceSpec<T, Q extends z.ZodObject> {
 
 /* The handlers are checked by zod at run time; hono's generic route typing does not survive a factory. */
 export const h = (f: (c: Context<AuthEnv>) => Promise<Response>) => f as never;
-export const valid = (c: Context<AuthEnv>, target: 'json' | 'query' | 'param') => (c.req as unknown as { valid(t: string): Record<string, unknown> }).valid(target);
+export const valid = (c: Context<AuthEnv>, target: 'json' | 'query' | 'param') =>
+  (c.req as unknown as { valid(t: string): Record<string, unknown> }).valid(target);
 
 /** The five routes of a plain resource. Versioned resources take `version` in the PATCH body. */
 export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
   const { path, tag, repo, writeRole } = spec;
   const view = spec.view ?? (async (r: T) => r);
   const versioned = repo.entity.versioned;
-  const patchBody = versioned ? spec.patch.extend({ version: z.number().int().positive().openapi({ description: 'the version you last read' }) }) : spec.patch;
+  const patchBody = versioned
+    ? spec.patch.extend({
+        version: z.number().int().positive().openapi({ description: 'the version you last read' }),
+      })
+    : spec.patch;
   const one = `${path}/{id}`;
   const app = resourceApp();
   app.openapi(
-    createRoute({ method: 'get', path, tags: [tag], security, summary: `List ${tag}`, request: { query: PageQuery.extend(spec.filters.shape) }, responses: { 200: json(pageOf(spec.row), 'one page'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path,
+      tags: [tag],
+      security,
+      summary: `List ${tag}`,
+      request: { query: PageQuery.extend(spec.filters.shape) },
+      responses: { 200: json(pageOf(spec.row), 'one page'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const { limit, offset, ...filters } = valid(c, 'query');
-      const page = await repo.list(spec.where(filters as z.output<Q>), { limit: limit as number, offset: offset as number });
+      const page = await repo.list(spec.where(filters as z.output<Q>), {
+        limit: limit as number,
+        offset: offset as number,
+      });
       return c.json({ ...page, items: await Promise.all(page.items.map(view)) }, 200);
     }),
   );
   app.openapi(
-    createRoute({ method: 'get', path: one, tags: [tag], security, summary: `Read one of ${tag}`, request: { params: IdParam }, responses: { 200: json(spec.row, 'the record'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: one,
+      tags: [tag],
+      security,
+      summary: `Read one of ${tag}`,
+      request: { params: IdParam },
+      responses: { 200: json(spec.row, 'the record'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       return c.json((await view(await repo.get(valid(c, 'param').id as number))) as object, 200);
     }),
   );
   app.openapi(
-    createRoute({ method: 'post', path, tags: [tag], security, summary: `Create one of ${tag}`, request: { body: { content: { 'application/json': { schema: spec.create } }, required: true } }, responses: { 201: json(spec.row, 'created'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path,
+      tags: [tag],
+      security,
+      summary: `Create one of ${tag}`,
+      request: {
+        body: { content: { 'application/json': { schema: spec.create } }, required: true },
+      },
+      responses: { 201: json(spec.row, 'created'), ...errorResponses },
+    }),
     h(async (c) => {
       const user = requireRole(c, writeRole);
-      return c.json((await view(await repo.create({ userId: user.id }, valid(c, 'json')))) as object, 201);
+      return c.json(
+        (await view(await repo.create({ userId: user.id }, valid(c, 'json')))) as object,
+        201,
+      );
     }),
   );
   app.openapi(
-    createRoute({ method: 'patch', path: one, tags: [tag], security, summary: `Change one of ${tag}${versioned ? ' (send the version you read; 409 if it changed)' : ''}`, request: { params: IdParam, body: { content: { 'application/json': { schema: patchBody } }, required: true } }, responses: { 200: json(spec.row, 'the changed record'), ...errorResponses } }),
+    createRoute({
+      method: 'patch',
+      path: one,
+      tags: [tag],
+      security,
+      summary: `Change one of ${tag}${versioned ? ' (send the version you read; 409 if it changed)' : ''}`,
+      request: {
+        params: IdParam,
+        body: { content: { 'application/json': { schema: patchBody } }, required: true },
+      },
+      responses: { 200: json(spec.row, 'the changed record'), ...errorResponses },
+    }),
     h(async (c) => {
       const user = requireRole(c, writeRole);
       const { version, ...patch } = valid(c, 'json');
-      return c.json((await view(await repo.update({ userId: user.id }, valid(c, 'param').id as number, patch, version as number | undefined))) as object, 200);
+      return c.json(
+        (await view(
+          await repo.update(
+            { userId: user.id },
+            valid(c, 'param').id as number,
+            patch,
+            version as number | undefined,
+          ),
+        )) as object,
+        200,
+      );
     }),
   );
   app.openapi(
-    createRoute({ method: 'delete', path: one, tags: [tag], security, summary: `Delete one of ${tag}`, request: { params: IdParam }, responses: { 204: { description: 'deleted' }, ...errorResponses } }),
+    createRoute({
+      method: 'delete',
+      path: one,
+      tags: [tag],
+      security,
+      summary: `Delete one of ${tag}`,
+      request: { params: IdParam },
+      responses: { 204: { description: 'deleted' }, ...errorResponses },
+    }),
     h(async (c) => {
       const user = requireRole(c, writeRole);
       await repo.remove({ userId: user.id }, valid(c, 'param').id as number);
@@ -125,12 +224,20 @@ export function patchOf(fields: z.ZodObject, fixed: readonly string[] = []): z.Z
   const shape = Object.fromEntries(
     Object.entries(fields.shape)
       .filter(([k]) => !fixed.includes(k))
-      .map(([k, v]) => [k, (v instanceof z.ZodDefault ? (v.unwrap() as z.ZodType) : (v as z.ZodType)).optional()]),
+      .map(([k, v]) => [
+        k,
+        (v instanceof z.ZodDefault ? (v.unwrap() as z.ZodType) : (v as z.ZodType)).optional(),
+      ]),
   );
   return z.object(shape).strict();
 }
 
 /** The stored row as documented: the input fields plus id and timestamps. */
 export function rowOf(fields: z.ZodObject, extra: Record<string, z.ZodType> = {}): z.ZodObject {
-  return fields.extend({ id: z.number().int(), createdAt: z.string(), updatedAt: z.string().optional(), ...extra });
+  return fields.extend({
+    id: z.number().int(),
+    createdAt: z.string(),
+    updatedAt: z.string().optional(),
+    ...extra,
+  });
 }

@@ -14,10 +14,33 @@ import { HttpError } from '../errors.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 import { MeasurementFilters, measurementWhere } from './measurements.ts';
 
-const Report = z.object({ kind: z.enum(CSV_KINDS), dryRun: z.boolean(), rows: z.number().int(), written: z.number().int(), problems: z.array(z.object({ line: z.number().int(), column: z.string(), value: z.unknown(), rule: z.string() })) });
-const ImportQuery = z.object({ dryRun: z.enum(['true', 'false']).default('false').openapi({ description: 'check every row, write nothing' }) });
-const CalendarQuery = z.object({ at: z.string().optional().openapi({ description: 'the moment the flags are computed for (ISO 8601 with zone, JD, MJD); default now' }) });
-const KindParam = z.object({ kind: z.enum(CSV_KINDS).openapi({ param: { name: 'kind', in: 'path' } }) });
+const Report = z.object({
+  kind: z.enum(CSV_KINDS),
+  dryRun: z.boolean(),
+  rows: z.number().int(),
+  written: z.number().int(),
+  problems: z.array(
+    z.object({ line: z.number().int(), column: z.string(), value: z.unknown(), rule: z.string() }),
+  ),
+});
+const ImportQuery = z.object({
+  dryRun: z
+    .enum(['true', 'false'])
+    .default('false')
+    .openapi({ description: 'check every row, write nothing' }),
+});
+const CalendarQuery = z.object({
+  at: z
+    .string()
+    .optional()
+    .openapi({
+      description:
+        'the moment the flags are computed for (ISO 8601 with zone, JD, MJD); default now',
+    }),
+});
+const KindParam = z.object({
+  kind: z.enum(CSV_KINDS).openapi({ param: { name: 'kind', in: 'path' } }),
+});
 
 /** Who may import what: orbit solutions and targets are the lead's, measurements the observers'. */
 const IMPORT_ROLE = { targets: 'lead', orbits: 'lead', measurements: 'observer' } as const;
@@ -31,39 +54,87 @@ export function exchangeRoutes(store: Store) {
       tags: ['imports'],
       security,
       summary: 'Import a CSV file of targets, orbit solutions or measurements, all rows or none',
-      request: { params: KindParam, query: ImportQuery, body: { content: { 'text/csv': { schema: z.string() } }, required: true } },
-      responses: { ...errorResponses, 200: json(Report, 'imported (or checked, in a dry run)'), 422: json(z.object({ error: z.object({ code: z.string(), message: z.string(), details: Report }) }), 'bad rows: every one listed, nothing written') },
+      request: {
+        params: KindParam,
+        query: ImportQuery,
+        body: { content: { 'text/csv': { schema: z.string() } }, required: true },
+      },
+      responses: {
+        ...errorResponses,
+        200: json(Report, 'imported (or checked, in a dry run)'),
+        422: json(
+          z.object({ error: z.object({ code: z.string(), message: z.string(), details: Report }) }),
+          'bad rows: every one listed, nothing written',
+        ),
+      },
     }),
     h(async (c) => {
       const kind = valid(c, 'param').kind as CsvKind;
       const user = requireRole(c, IMPORT_ROLE[kind]);
       const type = c.req.header('content-type') ?? '';
-      if (!/^text\/csv\b/i.test(type)) throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
+      if (!/^text\/csv\b/i.test(type))
+        throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
       try {
-        const report = await importCsv(store, { userId: user.id }, kind, await c.req.text(), { dryRun: valid(c, 'query').dryRun === 'true' });
+        const report = await importCsv(store, { userId: user.id }, kind, await c.req.text(), {
+          dryRun: valid(c, 'query').dryRun === 'true',
+        });
         return c.json(report, 200);
       } catch (err) {
-        if (err instanceof ImportRejected) throw new HttpError(422, 'import_rejected', err.message, err.report);
+        if (err instanceof ImportRejected)
+          throw new HttpError(422, 'import_rejected', err.message, err.report);
         throw err;
       }
     }),
   );
   app.openapi(
-    createRoute({ method: 'get', path: '/exports/measurements', tags: ['exports'], security, summary: 'Measurements as CSV (the import layout) or JSON', request: { query: MeasurementFilters.extend({ format: z.enum(['csv', 'json']).default('csv') }) }, responses: { 200: { content: { 'text/csv': { schema: z.string() } }, description: 'the measurements' }, ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/exports/measurements',
+      tags: ['exports'],
+      security,
+      summary: 'Measurements as CSV (the import layout) or JSON',
+      request: {
+        query: MeasurementFilters.extend({ format: z.enum(['csv', 'json']).default('csv') }),
+      },
+      responses: {
+        200: { content: { 'text/csv': { schema: z.string() } }, description: 'the measurements' },
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const { format, ...filters } = valid(c, 'query');
-      const rows = await measurementsForExport(store.db, measurementWhere(store, filters as z.output<typeof MeasurementFilters>));
+      const rows = await measurementsForExport(
+        store.db,
+        measurementWhere(store, filters as z.output<typeof MeasurementFilters>),
+      );
       if (format === 'json') return c.json({ measurements: rows }, 200);
-      return c.body(measurementsCsv(rows), 200, { 'content-type': 'text/csv; charset=utf-8', 'content-disposition': 'attachment; filename="measurements.csv"' });
+      return c.body(measurementsCsv(rows), 200, {
+        'content-type': 'text/csv; charset=utf-8',
+        'content-disposition': 'attachment; filename="measurements.csv"',
+      });
     }),
   );
   app.openapi(
-    createRoute({ method: 'get', path: '/campaigns/{id}/calendar.ics', tags: ['exports'], security, summary: 'The campaign as an iCalendar feed (RFC 5545); calendar programs may pass ?token=', request: { params: IdParam, query: CalendarQuery }, responses: { 200: { content: { 'text/calendar': { schema: z.string() } }, description: 'the feed' }, ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/campaigns/{id}/calendar.ics',
+      tags: ['exports'],
+      security,
+      summary: 'The campaign as an iCalendar feed (RFC 5545); calendar programs may pass ?token=',
+      request: { params: IdParam, query: CalendarQuery },
+      responses: {
+        200: { content: { 'text/calendar': { schema: z.string() } }, description: 'the feed' },
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const { at } = valid(c, 'query');
-      const text = await campaignCalendar(store.db, valid(c, 'param').id as number, { domain: new URL(c.req.url).hostname || undefined, ...(at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') }) });
+      const text = await campaignCalendar(store.db, valid(c, 'param').id as number, {
+        domain: new URL(c.req.url).hostname || undefined,
+        ...(at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') }),
+      });
       return c.body(text, 200, { 'content-type': 'text/calendar; charset=utf-8' });
     }),
   );

@@ -20,8 +20,29 @@ import { userRoutes } from './users.ts';
 export function storeRoutes(store: Store) {
   const app = resourceApp();
   app.use('*', identify(store, { queryTokenPaths: /\/calendar\.ics$/ }));
-  app.openAPIRegistry.registerComponent('securitySchemes', 'bearer', { type: 'http', scheme: 'bearer', description: 'a token from `epochwright account add` or POST /api/users' });
-  for (const routes of [systemRoutes, targetRoutes, targetViewRoutes, orbitSolutionRoutes, siteRoutes, campaignRoutes, nightRoutes, nightVisibilityRoutes, blockRoutes, nightReportRoutes, measurementRoutes, exchangeRoutes, userRoutes, planRoutes, seasonPlanRoutes, nightScheduleRoutes]) {
+  app.openAPIRegistry.registerComponent('securitySchemes', 'bearer', {
+    type: 'http',
+    scheme: 'bearer',
+    description: 'a token from `epochwright account add` or POST /api/users',
+  });
+  for (const routes of [
+    systemRoutes,
+    targetRoutes,
+    targetViewRoutes,
+    orbitSolutionRoutes,
+    siteRoutes,
+    campaignRoutes,
+    nightRoutes,
+    nightVisibilityRoutes,
+    blockRoutes,
+    nightReportRoutes,
+    measurementRoutes,
+    exchangeRoutes,
+    userRoutes,
+    planRoutes,
+    seasonPlanRoutes,
+    nightScheduleRoutes,
+  ]) {
     app.route('/', routes(store));
   }
   return app;

@@ -12,14 +12,22 @@ export const MeasurementFilters = z.object({
   systemId: optionalId,
   blockId: optionalId,
   kind: z.enum(['offsets', 'separation', 'radial-velocity']).optional(),
-  from: z.string().optional().openapi({ description: 'earliest epoch (ISO 8601 with zone, JD, MJD, J…)' }),
+  from: z
+    .string()
+    .optional()
+    .openapi({ description: 'earliest epoch (ISO 8601 with zone, JD, MJD, J…)' }),
   to: z.string().optional(),
 });
 
 export function measurementWhere(store: Store, q: z.output<typeof MeasurementFilters>) {
   return [
     q.targetId ? eq(measurements.targetId, q.targetId) : undefined,
-    q.systemId ? inArray(measurements.targetId, store.db.select({ id: targets.id }).from(targets).where(eq(targets.systemId, q.systemId))) : undefined,
+    q.systemId
+      ? inArray(
+          measurements.targetId,
+          store.db.select({ id: targets.id }).from(targets).where(eq(targets.systemId, q.systemId)),
+        )
+      : undefined,
     q.blockId ? eq(measurements.blockId, q.blockId) : undefined,
     q.kind ? eq(measurements.kind, q.kind) : undefined,
     q.from ? gte(measurements.epochJd, parseEpoch(q.from, 'from')) : undefined,

@@ -8,7 +8,8 @@ import { NightReportFields } from '../../store/schemas/entities.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 
 export function nightReportRoutes(store: Store) {
-  const nightIds = (cond: ReturnType<typeof eq>) => inArray(nightReports.nightId, store.db.select({ id: nights.id }).from(nights).where(cond));
+  const nightIds = (cond: ReturnType<typeof eq>) =>
+    inArray(nightReports.nightId, store.db.select({ id: nights.id }).from(nights).where(cond));
   return crudRoutes({
     store,
     path: '/night-reports',
@@ -17,7 +18,13 @@ export function nightReportRoutes(store: Store) {
     create: NightReportFields.strict(),
     patch: patchOf(NightReportFields, ['nightId']),
     row: rowOf(NightReportFields, { version: z.number().int() }),
-    filters: z.object({ nightId: optionalId, siteId: optionalId, campaignId: optionalId, from: z.iso.date().optional(), to: z.iso.date().optional() }),
+    filters: z.object({
+      nightId: optionalId,
+      siteId: optionalId,
+      campaignId: optionalId,
+      from: z.iso.date().optional(),
+      to: z.iso.date().optional(),
+    }),
     where: (q) => [
       q.nightId ? eq(nightReports.nightId, q.nightId) : undefined,
       q.siteId ? nightIds(eq(nights.siteId, q.siteId)) : undefined,

@@ -8,35 +8,93 @@ import { createRoute, z } from '@hono/zod-openapi';
 import { SCHEDULE_METHODS } from '../../science/plan/index.ts';
 import type { Store } from '../../store/index.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
-import { acceptNightSchedule, previewNightSchedule, type NightScheduleRequest } from '../../store/views/night-plan.ts';
+import {
+  acceptNightSchedule,
+  previewNightSchedule,
+  type NightScheduleRequest,
+} from '../../store/views/night-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 import { momentJd } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
-export const NightScheduleBody = z.object({
-  candidates: z.array(z.unknown()).optional().openapi({ description: 'blocks to choose from: { id, target, kind, durationMinutes, priority, maxAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"' }),
-  pins: z.array(z.unknown()).optional().openapi({ description: 'keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge)' }),
-  remove: z.array(z.unknown()).optional().openapi({ description: 'candidate ids to leave out' }),
-  slotMinutes: num('slot length, minutes, [1, 30]; default 5'),
-  slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
-  sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),
-  method: z.enum(SCHEDULE_METHODS).optional().openapi({ description: '"auto" (default): exact up to 8 candidates, else greedy with local improvement' }),
-  blockMinutes: z.object({ astrometry: num('default 40'), spectroscopy: num('default 60') }).strict().optional().openapi({ description: 'lengths of the campaign’s candidates, minutes' }),
-  at: z.string().optional().openapi({ description: `the moment of scheduling (ISO 8601, JD, MJD); default now. Blocks begun before it are kept. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock` }),
-  digest: z.string().optional().openapi({ description: 'accept only: the preview’s digest; 409 if the schedule would now differ' }),
-}).strict();
+export const NightScheduleBody = z
+  .object({
+    candidates: z
+      .array(z.unknown())
+      .optional()
+      .openapi({
+        description:
+          'blocks to choose from: { id, target, kind, durationMinutes, priority, maxAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"',
+      }),
+    pins: z
+      .array(z.unknown())
+      .optional()
+      .openapi({
+        description:
+          'keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge)',
+      }),
+    remove: z.array(z.unknown()).optional().openapi({ description: 'candidate ids to leave out' }),
+    slotMinutes: num('slot length, minutes, [1, 30]; default 5'),
+    slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
+    sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),
+    method: z
+      .enum(SCHEDULE_METHODS)
+      .optional()
+      .openapi({
+        description:
+          '"auto" (default): exact up to 8 candidates, else greedy with local improvement',
+      }),
+    blockMinutes: z
+      .object({ astrometry: num('default 40'), spectroscopy: num('default 60') })
+      .strict()
+      .optional()
+      .openapi({ description: 'lengths of the campaign’s candidates, minutes' }),
+    at: z
+      .string()
+      .optional()
+      .openapi({
+        description: `the moment of scheduling (ISO 8601, JD, MJD); default now. Blocks begun before it are kept. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock`,
+      }),
+    digest: z
+      .string()
+      .optional()
+      .openapi({
+        description: 'accept only: the preview’s digest; 409 if the schedule would now differ',
+      }),
+  })
+  .strict();
 
-function request(c: Parameters<Parameters<typeof h>[0]>[0]): { id: number; body: NightScheduleRequest; atJd: number } {
+function request(c: Parameters<Parameters<typeof h>[0]>[0]): {
+  id: number;
+  body: NightScheduleRequest;
+  atJd: number;
+} {
   const { at, ...body } = valid(c, 'json') as z.output<typeof NightScheduleBody>;
-  return { id: valid(c, 'param').id as number, body: body as NightScheduleRequest, atJd: momentJd(at, 'at') };
+  return {
+    id: valid(c, 'param').id as number,
+    body: body as NightScheduleRequest,
+    atJd: momentJd(at, 'at'),
+  };
 }
 
 export function nightScheduleRoutes(store: Store) {
   const app = resourceApp();
   const body = { content: { 'application/json': { schema: NightScheduleBody } }, required: true };
   app.openapi(
-    createRoute({ method: 'post', path: '/nights/{id}/schedule', tags: ['planning'], security, summary: 'Preview the schedule of a stored night: blocks in darkness, every left-out block with its reason, laser and Sun cautions', request: { params: IdParam, body }, responses: { 200: json(z.record(z.string(), z.unknown()), 'the schedule, written nowhere'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/nights/{id}/schedule',
+      tags: ['planning'],
+      security,
+      summary:
+        'Preview the schedule of a stored night: blocks in darkness, every left-out block with its reason, laser and Sun cautions',
+      request: { params: IdParam, body },
+      responses: {
+        200: json(z.record(z.string(), z.unknown()), 'the schedule, written nowhere'),
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const { id, body: b, atJd } = request(c);
@@ -44,7 +102,18 @@ export function nightScheduleRoutes(store: Store) {
     }),
   );
   app.openapi(
-    createRoute({ method: 'post', path: '/nights/{id}/schedule/accept', tags: ['planning'], security, summary: 'Store the night’s schedule in place of its still-planned blocks (all or nothing)', request: { params: IdParam, body }, responses: { 201: json(z.record(z.string(), z.unknown()), 'the schedule with the blocks written'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/nights/{id}/schedule/accept',
+      tags: ['planning'],
+      security,
+      summary: 'Store the night’s schedule in place of its still-planned blocks (all or nothing)',
+      request: { params: IdParam, body },
+      responses: {
+        201: json(z.record(z.string(), z.unknown()), 'the schedule with the blocks written'),
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       const user = requireRole(c, 'observer');
       const { id, body: b, atJd } = request(c);

@@ -5,15 +5,39 @@ import { nightVisibility } from '../../store/views/visibility.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 
-const Query = z.object({ curves: z.enum(['true', 'false']).default('false').openapi({ description: 'include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude' }) });
+const Query = z.object({
+  curves: z
+    .enum(['true', 'false'])
+    .default('false')
+    .openapi({
+      description:
+        'include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude',
+    }),
+});
 
 export function nightVisibilityRoutes(store: Store) {
   const app = resourceApp();
   app.openapi(
-    createRoute({ method: 'get', path: '/nights/{id}/visibility', tags: ['nights'], security, summary: 'Darkness, Moon and each target’s windows on a stored night', request: { params: IdParam, query: Query }, responses: { 200: json(z.record(z.string(), z.unknown()), 'the night report with cautions'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/nights/{id}/visibility',
+      tags: ['nights'],
+      security,
+      summary: 'Darkness, Moon and each target’s windows on a stored night',
+      request: { params: IdParam, query: Query },
+      responses: {
+        200: json(z.record(z.string(), z.unknown()), 'the night report with cautions'),
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
-      return c.json(await nightVisibility(store.db, valid(c, 'param').id as number, { curves: valid(c, 'query').curves === 'true' }), 200);
+      return c.json(
+        await nightVisibility(store.db, valid(c, 'param').id as number, {
+          curves: valid(c, 'query').curves === 'true',
+        }),
+        200,
+      );
     }),
   );
   return app;

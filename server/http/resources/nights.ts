@@ -8,7 +8,10 @@ import { BlockFields, NightFields } from '../../store/schemas/entities.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 
 const dateQuery = z.iso.date().optional();
-const instantQuery = z.string().optional().openapi({ description: 'epoch (ISO 8601 with zone, JD, MJD, J…)' });
+const instantQuery = z
+  .string()
+  .optional()
+  .openapi({ description: 'epoch (ISO 8601 with zone, JD, MJD, J…)' });
 
 /** An epoch from the query string as ISO UTC (string comparison of ISO UTC is time order). */
 export const isoOf = (v: string, field: string) => jdToIso(parseEpoch(v, field));
@@ -22,7 +25,12 @@ export function nightRoutes(store: Store) {
     create: NightFields.strict(),
     patch: patchOf(NightFields, ['siteId', 'date']),
     row: rowOf(NightFields),
-    filters: z.object({ siteId: optionalId, campaignId: optionalId, from: dateQuery.openapi({ description: 'first night date, YYYY-MM-DD' }), to: dateQuery }),
+    filters: z.object({
+      siteId: optionalId,
+      campaignId: optionalId,
+      from: dateQuery.openapi({ description: 'first night date, YYYY-MM-DD' }),
+      to: dateQuery,
+    }),
     where: (q) => [
       q.siteId ? eq(nights.siteId, q.siteId) : undefined,
       q.campaignId ? eq(nights.campaignId, q.campaignId) : undefined,
@@ -43,8 +51,23 @@ export function blockRoutes(store: Store) {
     repo: store.blocks,
     create: BlockFields.strict(),
     patch: patchOf(BlockFields),
-    row: rowOf(BlockFields, { version: z.number().int(), origin: z.enum(BLOCK_ORIGINS).openapi({ description: 'who made the block: an accepted season plan, night schedule, or a person; set once' }) }),
-    filters: z.object({ nightId: optionalId, targetId: optionalId, siteId: optionalId, campaignId: optionalId, from: instantQuery, to: instantQuery }),
+    row: rowOf(BlockFields, {
+      version: z.number().int(),
+      origin: z
+        .enum(BLOCK_ORIGINS)
+        .openapi({
+          description:
+            'who made the block: an accepted season plan, night schedule, or a person; set once',
+        }),
+    }),
+    filters: z.object({
+      nightId: optionalId,
+      targetId: optionalId,
+      siteId: optionalId,
+      campaignId: optionalId,
+      from: instantQuery,
+      to: instantQuery,
+    }),
     where: (q) => [
       q.nightId ? eq(blocks.nightId, q.nightId) : undefined,
       q.targetId ? eq(blocks.targetId, q.targetId) : undefined,

@@ -9,47 +9,116 @@ import type { Store } from '../../store/index.ts';
 import { OrbitSolutionInput } from '../../store/schemas/entities.ts';
 import { requireRole } from '../auth.ts';
 import { OrbitSchema } from '../schemas/orbit.ts';
-import { IdParam, PageQuery, errorResponses, h, json, optionalId, pageOf, resourceApp, security, valid } from './common.ts';
+import {
+  IdParam,
+  PageQuery,
+  errorResponses,
+  h,
+  json,
+  optionalId,
+  pageOf,
+  resourceApp,
+  security,
+  valid,
+} from './common.ts';
 
 const tags = ['orbit solutions'];
 const Create = OrbitSolutionInput.extend({ orbit: OrbitSchema }).strict();
-const Row = OrbitSolutionInput.omit({ makeCurrent: true }).extend({ id: z.number().int(), version: z.number().int(), current: z.boolean(), createdBy: z.number().int().nullable(), createdAt: z.string() });
-const Filters = PageQuery.extend({ targetId: optionalId, current: z.enum(['true', 'false']).optional().openapi({ description: 'only the current (true) or only earlier versions (false)' }) });
+const Row = OrbitSolutionInput.omit({ makeCurrent: true }).extend({
+  id: z.number().int(),
+  version: z.number().int(),
+  current: z.boolean(),
+  createdBy: z.number().int().nullable(),
+  createdAt: z.string(),
+});
+const Filters = PageQuery.extend({
+  targetId: optionalId,
+  current: z
+    .enum(['true', 'false'])
+    .optional()
+    .openapi({ description: 'only the current (true) or only earlier versions (false)' }),
+});
 
 export function orbitSolutionRoutes(store: Store) {
   const app = resourceApp();
   app.openapi(
-    createRoute({ method: 'get', path: '/orbit-solutions', tags, security, summary: 'List orbit solutions (all versions)', request: { query: Filters }, responses: { 200: json(pageOf(Row), 'one page'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/orbit-solutions',
+      tags,
+      security,
+      summary: 'List orbit solutions (all versions)',
+      request: { query: Filters },
+      responses: { 200: json(pageOf(Row), 'one page'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query') as z.output<typeof Filters>;
-      const where = [q.targetId ? eq(orbitSolutions.targetId, q.targetId) : undefined, q.current ? eq(orbitSolutions.current, q.current === 'true') : undefined];
+      const where = [
+        q.targetId ? eq(orbitSolutions.targetId, q.targetId) : undefined,
+        q.current ? eq(orbitSolutions.current, q.current === 'true') : undefined,
+      ];
       return c.json(await store.orbitSolutions.list(where, q), 200);
     }),
   );
   app.openapi(
-    createRoute({ method: 'get', path: '/orbit-solutions/{id}', tags, security, summary: 'Read one orbit solution', request: { params: IdParam }, responses: { 200: json(Row, 'the solution'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/orbit-solutions/{id}',
+      tags,
+      security,
+      summary: 'Read one orbit solution',
+      request: { params: IdParam },
+      responses: { 200: json(Row, 'the solution'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       return c.json(await store.orbitSolutions.get(valid(c, 'param').id as number), 200);
     }),
   );
   app.openapi(
-    createRoute({ method: 'post', path: '/orbit-solutions', tags, security, summary: 'Store a new version of a target’s orbit (checked by the orbit engine)', request: { body: { content: { 'application/json': { schema: Create } }, required: true } }, responses: { 201: json(Row, 'stored'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/orbit-solutions',
+      tags,
+      security,
+      summary: 'Store a new version of a target’s orbit (checked by the orbit engine)',
+      request: { body: { content: { 'application/json': { schema: Create } }, required: true } },
+      responses: { 201: json(Row, 'stored'), ...errorResponses },
+    }),
     h(async (c) => {
       const user = requireRole(c, 'lead');
       return c.json(await store.orbitSolutions.create({ userId: user.id }, valid(c, 'json')), 201);
     }),
   );
   app.openapi(
-    createRoute({ method: 'post', path: '/orbit-solutions/{id}/current', tags, security, summary: 'Make this version the target’s current solution', request: { params: IdParam }, responses: { 200: json(Row, 'now current'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/orbit-solutions/{id}/current',
+      tags,
+      security,
+      summary: 'Make this version the target’s current solution',
+      request: { params: IdParam },
+      responses: { 200: json(Row, 'now current'), ...errorResponses },
+    }),
     h(async (c) => {
       const user = requireRole(c, 'lead');
-      return c.json(await store.orbitSolutions.makeCurrent({ userId: user.id }, valid(c, 'param').id as number), 200);
+      return c.json(
+        await store.orbitSolutions.makeCurrent({ userId: user.id }, valid(c, 'param').id as number),
+        200,
+      );
     }),
   );
   app.openapi(
-    createRoute({ method: 'delete', path: '/orbit-solutions/{id}', tags, security, summary: 'Delete a version that is not current', request: { params: IdParam }, responses: { 204: { description: 'deleted' }, ...errorResponses } }),
+    createRoute({
+      method: 'delete',
+      path: '/orbit-solutions/{id}',
+      tags,
+      security,
+      summary: 'Delete a version that is not current',
+      request: { params: IdParam },
+      responses: { 204: { description: 'deleted' }, ...errorResponses },
+    }),
     h(async (c) => {
       const user = requireRole(c, 'lead');
       await store.orbitSolutions.remove({ userId: user.id }, valid(c, 'param').id as number);

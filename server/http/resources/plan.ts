@@ -7,19 +7,40 @@ import { IdParam, errorResponses, h, json, resourceApp, security, valid } from '
 import { momentJd } from '../../clock.ts';
 
 const FlagsQuery = z.object({
-  at: z.string().optional().openapi({ description: 'the moment to compute flags for (ISO 8601, JD, MJD); default now' }),
-  resolutionMas: z.coerce.number().positive().optional().openapi({ description: 'resolution limit for blend flags, mas' }),
+  at: z
+    .string()
+    .optional()
+    .openapi({ description: 'the moment to compute flags for (ISO 8601, JD, MJD); default now' }),
+  resolutionMas: z.coerce
+    .number()
+    .positive()
+    .optional()
+    .openapi({ description: 'resolution limit for blend flags, mas' }),
 });
 
 export function planRoutes(store: Store) {
   const app = resourceApp();
   app.openapi(
-    createRoute({ method: 'get', path: '/campaigns/{id}/flags', tags: ['planning'], security, summary: 'Periapsis, blend and stale-prediction flags of a campaign, soonest first', request: { params: IdParam, query: FlagsQuery }, responses: { 200: json(z.record(z.string(), z.unknown()), 'the flags'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/campaigns/{id}/flags',
+      tags: ['planning'],
+      security,
+      summary: 'Periapsis, blend and stale-prediction flags of a campaign, soonest first',
+      request: { params: IdParam, query: FlagsQuery },
+      responses: { 200: json(z.record(z.string(), z.unknown()), 'the flags'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query');
       const nowJd = momentJd(q.at, 'at');
-      return c.json(await campaignFlags(store.db, valid(c, 'param').id as number, { nowJd, ...(q.resolutionMas ? { resolutionMas: q.resolutionMas as number } : {}) }), 200);
+      return c.json(
+        await campaignFlags(store.db, valid(c, 'param').id as number, {
+          nowJd,
+          ...(q.resolutionMas ? { resolutionMas: q.resolutionMas as number } : {}),
+        }),
+        200,
+      );
     }),
   );
   return app;

@@ -7,38 +7,99 @@
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
 import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
-import { NIGHT_CHOICES, acceptSeasonPlan, previewSeasonPlan, type SeasonPlanRequest } from '../../store/views/season-plan.ts';
+import {
+  NIGHT_CHOICES,
+  acceptSeasonPlan,
+  previewSeasonPlan,
+  type SeasonPlanRequest,
+} from '../../store/views/season-plan.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 import { momentJd } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
-export const SeasonPlanBody = z.object({
-  startDate: z.iso.date().openapi({ description: 'first night (local evening date), within the campaign' }),
-  endDate: z.iso.date().openapi({ description: 'last night, within the campaign and 400 nights of startDate' }),
-  siteIds: z.array(z.number().int().positive()).optional().openapi({ description: 'sites of the campaign to plan; default all' }),
-  nights: z.enum(NIGHT_CHOICES).optional().openapi({ description: '"allocated" (default): the campaign’s stored nights; "all": every night of the range' }),
-  at: z.string().optional().openapi({ description: `the moment of planning (ISO 8601, JD, MJD); default now. Nights begun before it are not planned. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock` }),
-  blockMinutes: z.object({ astrometry: num('minutes, default 40'), spectroscopy: num('minutes, default 60') }).strict().optional(),
-  precision: z.object({ astrometryMas: num('expected 1σ per offset, mas; default 1'), spectroscopyKmS: num('expected 1σ, km/s; default 5') }).strict().optional(),
-  slotMinutes: num('slot length, minutes, [1, 30]; default 10'),
-  slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
-  sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),
-  fillFraction: num('share of each night’s darkness the plan may fill, (0, 1]; default 0.9'),
-  extraEpochsPerTarget: num('epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0'),
-  digest: z.string().optional().openapi({ description: 'accept only: the preview’s digest; 409 if the plan would now differ' }),
-}).strict();
+export const SeasonPlanBody = z
+  .object({
+    startDate: z.iso
+      .date()
+      .openapi({ description: 'first night (local evening date), within the campaign' }),
+    endDate: z.iso
+      .date()
+      .openapi({ description: 'last night, within the campaign and 400 nights of startDate' }),
+    siteIds: z
+      .array(z.number().int().positive())
+      .optional()
+      .openapi({ description: 'sites of the campaign to plan; default all' }),
+    nights: z
+      .enum(NIGHT_CHOICES)
+      .optional()
+      .openapi({
+        description:
+          '"allocated" (default): the campaign’s stored nights; "all": every night of the range',
+      }),
+    at: z
+      .string()
+      .optional()
+      .openapi({
+        description: `the moment of planning (ISO 8601, JD, MJD); default now. Nights begun before it are not planned. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock`,
+      }),
+    blockMinutes: z
+      .object({ astrometry: num('minutes, default 40'), spectroscopy: num('minutes, default 60') })
+      .strict()
+      .optional(),
+    precision: z
+      .object({
+        astrometryMas: num('expected 1σ per offset, mas; default 1'),
+        spectroscopyKmS: num('expected 1σ, km/s; default 5'),
+      })
+      .strict()
+      .optional(),
+    slotMinutes: num('slot length, minutes, [1, 30]; default 10'),
+    slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
+    sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),
+    fillFraction: num('share of each night’s darkness the plan may fill, (0, 1]; default 0.9'),
+    extraEpochsPerTarget: num(
+      'epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0',
+    ),
+    digest: z
+      .string()
+      .optional()
+      .openapi({
+        description: 'accept only: the preview’s digest; 409 if the plan would now differ',
+      }),
+  })
+  .strict();
 
-function request(c: Parameters<Parameters<typeof h>[0]>[0]): { id: number; body: SeasonPlanRequest; atJd: number } {
+function request(c: Parameters<Parameters<typeof h>[0]>[0]): {
+  id: number;
+  body: SeasonPlanRequest;
+  atJd: number;
+} {
   const { at, ...body } = valid(c, 'json') as z.output<typeof SeasonPlanBody>;
-  return { id: valid(c, 'param').id as number, body: body as SeasonPlanRequest, atJd: momentJd(at, 'at') };
+  return {
+    id: valid(c, 'param').id as number,
+    body: body as SeasonPlanRequest,
+    atJd: momentJd(at, 'at'),
+  };
 }
 
 export function seasonPlanRoutes(store: Store) {
   const app = resourceApp();
   const body = { content: { 'application/json': { schema: SeasonPlanBody } }, required: true };
   app.openapi(
-    createRoute({ method: 'post', path: '/campaigns/{id}/season-plan', tags: ['planning'], security, summary: 'Preview the season plan of a campaign: epochs per target, reasons, unmet goals, expected σ shrinkage, blocks it would replace', request: { params: IdParam, body }, responses: { 200: json(z.record(z.string(), z.unknown()), 'the plan, written nowhere'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/campaigns/{id}/season-plan',
+      tags: ['planning'],
+      security,
+      summary:
+        'Preview the season plan of a campaign: epochs per target, reasons, unmet goals, expected σ shrinkage, blocks it would replace',
+      request: { params: IdParam, body },
+      responses: {
+        200: json(z.record(z.string(), z.unknown()), 'the plan, written nowhere'),
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const { id, body: b, atJd } = request(c);
@@ -46,7 +107,19 @@ export function seasonPlanRoutes(store: Store) {
     }),
   );
   app.openapi(
-    createRoute({ method: 'post', path: '/campaigns/{id}/season-plan/accept', tags: ['planning'], security, summary: 'Store the season plan as blocks, replacing the still-planned blocks of its open nights (all or nothing)', request: { params: IdParam, body }, responses: { 201: json(z.record(z.string(), z.unknown()), 'the plan with the blocks and nights written'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/campaigns/{id}/season-plan/accept',
+      tags: ['planning'],
+      security,
+      summary:
+        'Store the season plan as blocks, replacing the still-planned blocks of its open nights (all or nothing)',
+      request: { params: IdParam, body },
+      responses: {
+        201: json(z.record(z.string(), z.unknown()), 'the plan with the blocks and nights written'),
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       const user = requireRole(c, 'lead');
       const { id, body: b, atJd } = request(c);

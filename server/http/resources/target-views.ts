@@ -19,34 +19,81 @@ const Any = z.record(z.string(), z.unknown());
 const EphemerisQuery = z.object({
   start: z.string().openapi({ description: 'first epoch (ISO 8601 with zone, JD, MJD, J…)' }),
   end: z.string(),
-  step: z.string().default('30d').openapi({ description: 'interval, e.g. "1d", "12h", or days as a number' }),
+  step: z
+    .string()
+    .default('30d')
+    .openapi({ description: 'interval, e.g. "1d", "12h", or days as a number' }),
   format: z.enum(['json', 'csv']).default('json'),
 });
-const EventsQuery = z.object({ start: z.string(), end: z.string(), kinds: z.string().optional().openapi({ description: `comma-separated: ${EVENT_KINDS.join(', ')}` }) });
+const EventsQuery = z.object({
+  start: z.string(),
+  end: z.string(),
+  kinds: z
+    .string()
+    .optional()
+    .openapi({ description: `comma-separated: ${EVENT_KINDS.join(', ')}` }),
+});
 
 export function targetViewRoutes(store: Store) {
   const app = resourceApp();
   app.openapi(
-    createRoute({ method: 'get', path: '/targets/{id}/ephemeris', tags, security, summary: 'Ephemeris of a target from its current orbit solution', request: { params: IdParam, query: EphemerisQuery }, responses: { 200: json(Any, 'solution, orbit and one row per epoch (CSV with format=csv)'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/targets/{id}/ephemeris',
+      tags,
+      security,
+      summary: 'Ephemeris of a target from its current orbit solution',
+      request: { params: IdParam, query: EphemerisQuery },
+      responses: {
+        200: json(Any, 'solution, orbit and one row per epoch (CSV with format=csv)'),
+        ...errorResponses,
+      },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query') as z.output<typeof EphemerisQuery>;
       const { solution, orbit } = await currentOrbit(store.db, valid(c, 'param').id as number);
       const rows = ephemeris(orbit, resolveEpochs({ start: q.start, end: q.end, step: q.step }));
-      if (q.format === 'csv') return c.body(ephemerisCsv(rows), 200, { 'content-type': 'text/csv; charset=utf-8' });
-      return c.json({ solution: { id: solution.id, version: solution.version }, orbit: describeOrbit(orbit), predictions: rows }, 200);
+      if (q.format === 'csv')
+        return c.body(ephemerisCsv(rows), 200, { 'content-type': 'text/csv; charset=utf-8' });
+      return c.json(
+        {
+          solution: { id: solution.id, version: solution.version },
+          orbit: describeOrbit(orbit),
+          predictions: rows,
+        },
+        200,
+      );
     }),
   );
   app.openapi(
-    createRoute({ method: 'get', path: '/targets/{id}/events', tags, security, summary: 'Periapsis and other events of a target from its current orbit solution', request: { params: IdParam, query: EventsQuery }, responses: { 200: json(Any, 'events soonest first'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/targets/{id}/events',
+      tags,
+      security,
+      summary: 'Periapsis and other events of a target from its current orbit solution',
+      request: { params: IdParam, query: EventsQuery },
+      responses: { 200: json(Any, 'events soonest first'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query') as z.output<typeof EventsQuery>;
       const { solution, orbit } = await currentOrbit(store.db, valid(c, 'param').id as number);
       const kinds = q.kinds?.split(',').map((k) => k.trim());
       const unknown = kinds?.find((k) => !(EVENT_KINDS as readonly string[]).includes(k));
-      if (unknown !== undefined) throw new InputError('kinds', unknown, `is not an event kind; use ${EVENT_KINDS.join(', ')}`);
-      const events = eventsWithUncertainty(orbit, parseEpoch(q.start, 'start'), parseEpoch(q.end, 'end'), kinds ? { kinds: kinds as never } : {});
+      if (unknown !== undefined)
+        throw new InputError(
+          'kinds',
+          unknown,
+          `is not an event kind; use ${EVENT_KINDS.join(', ')}`,
+        );
+      const events = eventsWithUncertainty(
+        orbit,
+        parseEpoch(q.start, 'start'),
+        parseEpoch(q.end, 'end'),
+        kinds ? { kinds: kinds as never } : {},
+      );
       return c.json({ solution: { id: solution.id, version: solution.version }, events }, 200);
     }),
   );

@@ -5,35 +5,97 @@ import { auditTrail } from '../../../db/schema.ts';
 import type { Store } from '../../store/index.ts';
 import { UserInput } from '../../store/schemas/entities.ts';
 import { requireRole } from '../auth.ts';
-import { IdParam, PageQuery, errorResponses, h, json, optionalId, pageOf, resourceApp, security, valid } from './common.ts';
+import {
+  IdParam,
+  PageQuery,
+  errorResponses,
+  h,
+  json,
+  optionalId,
+  pageOf,
+  resourceApp,
+  security,
+  valid,
+} from './common.ts';
 
 const User = UserInput.extend({ id: z.number().int(), createdAt: z.string() });
-const Issued = z.object({ user: User, tokenId: z.number().int(), token: z.string().openapi({ description: 'the bearer secret, shown this once only' }) });
-const Audit = z.object({ id: z.number().int(), at: z.string(), userId: z.number().int().nullable(), action: z.string(), entity: z.string(), entityId: z.number().int().nullable(), detail: z.unknown() });
+const Issued = z.object({
+  user: User,
+  tokenId: z.number().int(),
+  token: z.string().openapi({ description: 'the bearer secret, shown this once only' }),
+});
+const Audit = z.object({
+  id: z.number().int(),
+  at: z.string(),
+  userId: z.number().int().nullable(),
+  action: z.string(),
+  entity: z.string(),
+  entityId: z.number().int().nullable(),
+  detail: z.unknown(),
+});
 
 export function userRoutes(store: Store) {
   const app = resourceApp();
   app.openapi(
-    createRoute({ method: 'get', path: '/me', tags: ['users'], security, summary: 'Who the token belongs to', responses: { 200: json(User, 'the signed-in user'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/me',
+      tags: ['users'],
+      security,
+      summary: 'Who the token belongs to',
+      responses: { 200: json(User, 'the signed-in user'), ...errorResponses },
+    }),
     h(async (c) => c.json(requireRole(c, 'viewer'), 200)),
   );
   app.openapi(
-    createRoute({ method: 'get', path: '/users', tags: ['users'], security, summary: 'List users', request: { query: PageQuery }, responses: { 200: json(pageOf(User), 'one page'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/users',
+      tags: ['users'],
+      security,
+      summary: 'List users',
+      request: { query: PageQuery },
+      responses: { 200: json(pageOf(User), 'one page'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'lead');
-      return c.json(await store.users.list(valid(c, 'query') as { limit: number; offset: number }), 200);
+      return c.json(
+        await store.users.list(valid(c, 'query') as { limit: number; offset: number }),
+        200,
+      );
     }),
   );
   app.openapi(
-    createRoute({ method: 'post', path: '/users', tags: ['users'], security, summary: 'Create a user and its first token (shown once)', request: { body: { content: { 'application/json': { schema: UserInput.strict() } }, required: true } }, responses: { 201: json(Issued, 'created'), ...errorResponses } }),
+    createRoute({
+      method: 'post',
+      path: '/users',
+      tags: ['users'],
+      security,
+      summary: 'Create a user and its first token (shown once)',
+      request: {
+        body: { content: { 'application/json': { schema: UserInput.strict() } }, required: true },
+      },
+      responses: { 201: json(Issued, 'created'), ...errorResponses },
+    }),
     h(async (c) => {
       const lead = requireRole(c, 'lead');
-      const { user, tokenId, secret } = await store.users.createWithToken({ userId: lead.id }, valid(c, 'json'));
+      const { user, tokenId, secret } = await store.users.createWithToken(
+        { userId: lead.id },
+        valid(c, 'json'),
+      );
       return c.json({ user, tokenId, token: secret }, 201);
     }),
   );
   app.openapi(
-    createRoute({ method: 'delete', path: '/tokens/{id}', tags: ['users'], security, summary: 'Revoke a token', request: { params: IdParam }, responses: { 204: { description: 'revoked' }, ...errorResponses } }),
+    createRoute({
+      method: 'delete',
+      path: '/tokens/{id}',
+      tags: ['users'],
+      security,
+      summary: 'Revoke a token',
+      request: { params: IdParam },
+      responses: { 204: { description: 'revoked' }, ...errorResponses },
+    }),
     h(async (c) => {
       const lead = requireRole(c, 'lead');
       await store.users.revokeToken({ userId: lead.id }, valid(c, 'param').id as number);
@@ -42,12 +104,31 @@ export function userRoutes(store: Store) {
   );
   const AuditQuery = PageQuery.extend({ entity: z.string().optional(), entityId: optionalId });
   app.openapi(
-    createRoute({ method: 'get', path: '/audit', tags: ['users'], security, summary: 'Who changed what and when, newest first', request: { query: AuditQuery }, responses: { 200: json(pageOf(Audit), 'one page'), ...errorResponses } }),
+    createRoute({
+      method: 'get',
+      path: '/audit',
+      tags: ['users'],
+      security,
+      summary: 'Who changed what and when, newest first',
+      request: { query: AuditQuery },
+      responses: { 200: json(pageOf(Audit), 'one page'), ...errorResponses },
+    }),
     h(async (c) => {
       requireRole(c, 'lead');
       const q = valid(c, 'query') as z.output<typeof AuditQuery>;
-      const cond = and(...[q.entity ? eq(auditTrail.entity, q.entity) : undefined, q.entityId ? eq(auditTrail.entityId, q.entityId) : undefined].filter((w): w is SQL => !!w));
-      const items = await store.db.select().from(auditTrail).where(cond).orderBy(desc(auditTrail.id)).limit(q.limit).offset(q.offset);
+      const cond = and(
+        ...[
+          q.entity ? eq(auditTrail.entity, q.entity) : undefined,
+          q.entityId ? eq(auditTrail.entityId, q.entityId) : undefined,
+        ].filter((w): w is SQL => !!w),
+      );
+      const items = await store.db
+        .select()
+        .from(auditTrail)
+        .where(cond)
+        .orderBy(desc(auditTrail.id))
+        .limit(q.limit)
+        .offset(q.offset);
       const total = await store.db.$count(auditTrail, cond);
       return c.json({ items, total, limit: q.limit, offset: q.offset }, 200);
     }),

@@ -7,7 +7,12 @@ import { z } from '@hono/zod-openapi';
 import { COVARIANCE_PARAMETERS } from '../../science/orbit/index.ts';
 import { EVENT_KINDS } from '../../science/orbit/index.ts';
 
-const epoch = z.string().openapi({ description: 'ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"', example: '2027-03-01T00:00:00Z' });
+const epoch = z
+  .string()
+  .openapi({
+    description: 'ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"',
+    example: '2027-03-01T00:00:00Z',
+  });
 
 const Campbell = z
   .object({
@@ -17,7 +22,9 @@ const Campbell = z
     eccentricity: z.number(),
     semiMajorAxisArcsec: z.number().openapi({ description: 'angular semi-major axis a, arcsec' }),
     inclinationDeg: z.number(),
-    ascendingNodeDeg: z.number().openapi({ description: 'Ω, deg; the node where the star recedes' }),
+    ascendingNodeDeg: z
+      .number()
+      .openapi({ description: 'Ω, deg; the node where the star recedes' }),
     argPeriapsisDeg: z.number().openapi({ description: 'ω, deg' }),
   })
   .strict();
@@ -39,7 +46,10 @@ export const OrbitSchema = z
   .object({
     elements: z.union([ThieleInnes, Campbell]),
     distancePc: z.number().optional().openapi({ description: 'distance, parsec' }),
-    systemicVelocityKmS: z.number().optional().openapi({ description: 'systemic velocity γ, km/s' }),
+    systemicVelocityKmS: z
+      .number()
+      .optional()
+      .openapi({ description: 'systemic velocity γ, km/s' }),
     relativity: z
       .object({
         romer: z.boolean().optional(),
@@ -50,16 +60,28 @@ export const OrbitSchema = z
       .strict()
       .optional(),
     covariance: z
-      .object({ parameters: z.array(z.enum(COVARIANCE_PARAMETERS)), matrix: z.array(z.array(z.number())) })
+      .object({
+        parameters: z.array(z.enum(COVARIANCE_PARAMETERS)),
+        matrix: z.array(z.array(z.number())),
+      })
       .strict()
       .optional()
-      .openapi({ description: 'covariance of the Campbell elements in the units of the parameter names (periapsisDays: T in days)' }),
+      .openapi({
+        description:
+          'covariance of the Campbell elements in the units of the parameter names (periapsisDays: T in days)',
+      }),
   })
   .strict()
   .openapi('Orbit');
 
 export const EpochRangeSchema = z
-  .object({ start: epoch, end: epoch, step: z.union([z.string(), z.number()]).openapi({ description: 'e.g. "30d", "6h", "1yr"; a number is days' }) })
+  .object({
+    start: epoch,
+    end: epoch,
+    step: z
+      .union([z.string(), z.number()])
+      .openapi({ description: 'e.g. "30d", "6h", "1yr"; a number is days' }),
+  })
   .strict();
 
 export const MonteCarloSchema = z

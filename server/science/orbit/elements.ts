@@ -26,9 +26,16 @@ export interface ThieleInnes {
 }
 
 /** Campbell (a, i, Ω, ω in rad) → Thiele–Innes, same unit as a. */
-export function campbellToThieleInnes(a: number, iRad: number, nodeRad: number, argRad: number): ThieleInnes {
-  const cw = Math.cos(argRad), sw = Math.sin(argRad);
-  const cn = Math.cos(nodeRad), sn = Math.sin(nodeRad);
+export function campbellToThieleInnes(
+  a: number,
+  iRad: number,
+  nodeRad: number,
+  argRad: number,
+): ThieleInnes {
+  const cw = Math.cos(argRad),
+    sw = Math.sin(argRad);
+  const cn = Math.cos(nodeRad),
+    sn = Math.sin(nodeRad);
   const ci = Math.cos(iRad);
   return {
     A: a * (cw * cn - sw * sn * ci),
@@ -42,7 +49,12 @@ export function campbellToThieleInnes(a: number, iRad: number, nodeRad: number, 
  * Thiele–Innes → Campbell (angles in rad). Astrometry alone cannot tell Ω from Ω + 180° (with
  * ω + 180°): this returns Ω in [0, π), the usual convention until radial velocities decide.
  */
-export function thieleInnesToCampbell(ti: ThieleInnes): { a: number; iRad: number; nodeRad: number; argRad: number } {
+export function thieleInnesToCampbell(ti: ThieleInnes): {
+  a: number;
+  iRad: number;
+  nodeRad: number;
+  argRad: number;
+} {
   const { A, B, F, G } = ti;
   const sum = Math.atan2(B - F, A + G); // ω + Ω
   const diff = Math.atan2(-B - F, A - G); // ω − Ω
@@ -58,7 +70,10 @@ export function thieleInnesToCampbell(ti: ThieleInnes): { a: number; iRad: numbe
   const v = A * G - B * F;
   const a = Math.sqrt(u + Math.sqrt(Math.max(0, (u + v) * (u - v))));
   // cos i from the combinations that stay well-conditioned for any Ω, ω.
-  const cw = Math.cos(arg), sw = Math.sin(arg), cn = Math.cos(node), sn = Math.sin(node);
+  const cw = Math.cos(arg),
+    sw = Math.sin(arg),
+    cn = Math.cos(node),
+    sn = Math.sin(node);
   // B·sw·cn − F·cw·sn ... use A,B,F,G projected: (B·cn − A·sn) = a·sw·ci, (G·cn − F·sn) = a·cw·ci.
   const ciSw = (B * cn - A * sn) / a;
   const ciCw = (G * cn - F * sn) / a;
@@ -87,7 +102,8 @@ function positive(field: string, v: unknown): number {
 
 function eccentricity(field: string, v: unknown): number {
   const x = requireFinite(field, v);
-  if (!(x >= 0 && x < 1)) throw new InputError(field, v, 'must satisfy 0 ≤ e < 1 (bound orbits only)');
+  if (!(x >= 0 && x < 1))
+    throw new InputError(field, v, 'must satisfy 0 ≤ e < 1 (bound orbits only)');
   return x;
 }
 
@@ -96,10 +112,12 @@ function eccentricity(field: string, v: unknown): number {
  * @throws InputError naming the field (dotted path under `prefix`), the value and the rule
  */
 export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
-  if (typeof input !== 'object' || input === null) throw new InputError(prefix, input, 'must be an object');
+  if (typeof input !== 'object' || input === null)
+    throw new InputError(prefix, input, 'must be an object');
   const el = input.elements as unknown as Record<string, unknown> | undefined;
   const p = `${prefix}.elements`;
-  if (typeof el !== 'object' || el === null) throw new InputError(p, el, 'must be an object with the orbital elements');
+  if (typeof el !== 'object' || el === null)
+    throw new InputError(p, el, 'must be an object with the orbital elements');
   const kind = el.kind ?? 'campbell';
   if (kind !== 'campbell' && kind !== 'thiele-innes') {
     throw new InputError(`${p}.kind`, kind, 'must be "campbell" or "thiele-innes"');
@@ -111,7 +129,8 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
   if (kind === 'campbell') {
     aMas = positive(`${p}.semiMajorAxisArcsec`, el.semiMajorAxisArcsec) * 1000;
     const iDeg = requireFinite(`${p}.inclinationDeg`, el.inclinationDeg);
-    if (!(iDeg >= 0 && iDeg <= 180)) throw new InputError(`${p}.inclinationDeg`, iDeg, 'must satisfy 0 ≤ i ≤ 180');
+    if (!(iDeg >= 0 && iDeg <= 180))
+      throw new InputError(`${p}.inclinationDeg`, iDeg, 'must satisfy 0 ≤ i ≤ 180');
     iRad = iDeg * DEG;
     nodeRad = mod(requireFinite(`${p}.ascendingNodeDeg`, el.ascendingNodeDeg), 360) * DEG;
     argRad = mod(requireFinite(`${p}.argPeriapsisDeg`, el.argPeriapsisDeg), 360) * DEG;
@@ -124,56 +143,124 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
     };
     const c = thieleInnesToCampbell(ti);
     aMas = c.a * 1000;
-    if (!(aMas > 0)) throw new InputError(`${p}.aArcsec`, ti.A, 'with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size');
+    if (!(aMas > 0))
+      throw new InputError(
+        `${p}.aArcsec`,
+        ti.A,
+        'with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size',
+      );
     iRad = c.iRad;
     nodeRad = c.nodeRad;
     argRad = c.argRad;
   }
-  const distancePc = input.distancePc === undefined || input.distancePc === null ? null : positive(`${prefix}.distancePc`, input.distancePc);
-  const gammaKmS = input.systemicVelocityKmS === undefined ? 0 : requireFinite(`${prefix}.systemicVelocityKmS`, input.systemicVelocityKmS);
+  const distancePc =
+    input.distancePc === undefined || input.distancePc === null
+      ? null
+      : positive(`${prefix}.distancePc`, input.distancePc);
+  const gammaKmS =
+    input.systemicVelocityKmS === undefined
+      ? 0
+      : requireFinite(`${prefix}.systemicVelocityKmS`, input.systemicVelocityKmS);
   const relativity = { ...DEFAULT_RELATIVITY };
   if (input.relativity !== undefined) {
-    if (typeof input.relativity !== 'object' || input.relativity === null) throw new InputError(`${prefix}.relativity`, input.relativity, 'must be an object of switches');
+    if (typeof input.relativity !== 'object' || input.relativity === null)
+      throw new InputError(
+        `${prefix}.relativity`,
+        input.relativity,
+        'must be an object of switches',
+      );
     for (const [key, value] of Object.entries(input.relativity)) {
-      if (!(key in DEFAULT_RELATIVITY)) throw new InputError(`${prefix}.relativity.${key}`, value, `is not a switch; known: ${Object.keys(DEFAULT_RELATIVITY).join(', ')}`);
-      if (typeof value !== 'boolean') throw new InputError(`${prefix}.relativity.${key}`, value, 'must be true or false');
+      if (!(key in DEFAULT_RELATIVITY))
+        throw new InputError(
+          `${prefix}.relativity.${key}`,
+          value,
+          `is not a switch; known: ${Object.keys(DEFAULT_RELATIVITY).join(', ')}`,
+        );
+      if (typeof value !== 'boolean')
+        throw new InputError(`${prefix}.relativity.${key}`, value, 'must be true or false');
       relativity[key as keyof RelativitySwitches] = value;
     }
   }
   if (distancePc === null) {
     const on = Object.entries(relativity).find(([, v]) => v);
-    if (on) throw new InputError(`${prefix}.relativity.${on[0]}`, true, 'needs the distance (distancePc) to know the orbit in au');
+    if (on)
+      throw new InputError(
+        `${prefix}.relativity.${on[0]}`,
+        true,
+        'needs the distance (distancePc) to know the orbit in au',
+      );
   }
-  const covariance = input.covariance === undefined ? null : validateCovariance(input.covariance, `${prefix}.covariance`);
-  return { periodDays, periapsisJd, e, aMas, iRad, nodeRad, argRad, distancePc, gammaKmS, relativity, covariance };
+  const covariance =
+    input.covariance === undefined
+      ? null
+      : validateCovariance(input.covariance, `${prefix}.covariance`);
+  return {
+    periodDays,
+    periapsisJd,
+    e,
+    aMas,
+    iRad,
+    nodeRad,
+    argRad,
+    distancePc,
+    gammaKmS,
+    relativity,
+    covariance,
+  };
 }
 
 function validateCovariance(input: CovarianceInput, field: string): Covariance {
   const { parameters, matrix } = input;
-  if (!Array.isArray(parameters) || parameters.length === 0) throw new InputError(`${field}.parameters`, parameters, 'must be a non-empty list of parameter names');
+  if (!Array.isArray(parameters) || parameters.length === 0)
+    throw new InputError(
+      `${field}.parameters`,
+      parameters,
+      'must be a non-empty list of parameter names',
+    );
   const seen = new Set<string>();
   parameters.forEach((name, k) => {
     if (!(COVARIANCE_PARAMETERS as readonly string[]).includes(name)) {
-      throw new InputError(`${field}.parameters.${k}`, name, `must be one of ${COVARIANCE_PARAMETERS.join(', ')}`);
+      throw new InputError(
+        `${field}.parameters.${k}`,
+        name,
+        `must be one of ${COVARIANCE_PARAMETERS.join(', ')}`,
+      );
     }
     if (seen.has(name)) throw new InputError(`${field}.parameters.${k}`, name, 'appears twice');
     seen.add(name);
   });
   const n = parameters.length;
-  if (!Array.isArray(matrix) || matrix.length !== n) throw new InputError(`${field}.matrix`, matrix, `must have ${n} rows, one per parameter`);
+  if (!Array.isArray(matrix) || matrix.length !== n)
+    throw new InputError(`${field}.matrix`, matrix, `must have ${n} rows, one per parameter`);
   matrix.forEach((row, r) => {
-    if (!Array.isArray(row) || row.length !== n) throw new InputError(`${field}.matrix.${r}`, row, `must have ${n} columns`);
+    if (!Array.isArray(row) || row.length !== n)
+      throw new InputError(`${field}.matrix.${r}`, row, `must have ${n} columns`);
     row.forEach((v, c) => requireFinite(`${field}.matrix.${r}.${c}`, v));
   });
   for (let r = 0; r < n; r++) {
-    if (matrix[r]![r]! < 0) throw new InputError(`${field}.matrix.${r}.${r}`, matrix[r]![r], 'is a variance and must be ≥ 0');
+    if (matrix[r]![r]! < 0)
+      throw new InputError(
+        `${field}.matrix.${r}.${r}`,
+        matrix[r]![r],
+        'is a variance and must be ≥ 0',
+      );
     for (let c = 0; c < r; c++) {
-      const x = matrix[r]![c]!, y = matrix[c]![r]!;
+      const x = matrix[r]![c]!,
+        y = matrix[c]![r]!;
       if (Math.abs(x - y) > 1e-9 * Math.max(Math.abs(x), Math.abs(y), Number.MIN_VALUE)) {
-        throw new InputError(`${field}.matrix.${r}.${c}`, x, `must equal matrix.${c}.${r} (${y}): a covariance is symmetric`);
+        throw new InputError(
+          `${field}.matrix.${r}.${c}`,
+          x,
+          `must equal matrix.${c}.${r} (${y}): a covariance is symmetric`,
+        );
       }
       const limit = Math.sqrt(matrix[r]![r]! * matrix[c]![c]!);
-      if (Math.abs(x) > limit * (1 + 1e-9)) throw new InputError(`${field}.matrix.${r}.${c}`, x, `makes a correlation beyond ±1 (|cov| must be ≤ ${limit})`);
+      if (Math.abs(x) > limit * (1 + 1e-9))
+        throw new InputError(
+          `${field}.matrix.${r}.${c}`,
+          x,
+          `makes a correlation beyond ±1 (|cov| must be ≤ ${limit})`,
+        );
     }
   }
   return { parameters: [...parameters], matrix: matrix.map((row) => [...row]) };
@@ -182,15 +269,24 @@ function validateCovariance(input: CovarianceInput, field: string): Covariance {
 /** An orbit's value of a covariance parameter, in that parameter's unit. */
 export function getParameter(orbit: Orbit, name: CovarianceParameter): number {
   switch (name) {
-    case 'periodYears': return orbit.periodDays / JULIAN_YEAR_DAYS;
-    case 'periapsisDays': return orbit.periapsisJd;
-    case 'eccentricity': return orbit.e;
-    case 'semiMajorAxisArcsec': return orbit.aMas / 1000;
-    case 'inclinationDeg': return orbit.iRad / DEG;
-    case 'ascendingNodeDeg': return orbit.nodeRad / DEG;
-    case 'argPeriapsisDeg': return orbit.argRad / DEG;
-    case 'distancePc': return orbit.distancePc ?? Number.NaN;
-    case 'systemicVelocityKmS': return orbit.gammaKmS;
+    case 'periodYears':
+      return orbit.periodDays / JULIAN_YEAR_DAYS;
+    case 'periapsisDays':
+      return orbit.periapsisJd;
+    case 'eccentricity':
+      return orbit.e;
+    case 'semiMajorAxisArcsec':
+      return orbit.aMas / 1000;
+    case 'inclinationDeg':
+      return orbit.iRad / DEG;
+    case 'ascendingNodeDeg':
+      return orbit.nodeRad / DEG;
+    case 'argPeriapsisDeg':
+      return orbit.argRad / DEG;
+    case 'distancePc':
+      return orbit.distancePc ?? Number.NaN;
+    case 'systemicVelocityKmS':
+      return orbit.gammaKmS;
   }
 }
 
@@ -198,15 +294,33 @@ export function getParameter(orbit: Orbit, name: CovarianceParameter): number {
 export function withParameter(orbit: Orbit, name: CovarianceParameter, value: number): Orbit {
   const o = { ...orbit };
   switch (name) {
-    case 'periodYears': o.periodDays = value * JULIAN_YEAR_DAYS; break;
-    case 'periapsisDays': o.periapsisJd = value; break;
-    case 'eccentricity': o.e = value; break;
-    case 'semiMajorAxisArcsec': o.aMas = value * 1000; break;
-    case 'inclinationDeg': o.iRad = value * DEG; break;
-    case 'ascendingNodeDeg': o.nodeRad = value * DEG; break;
-    case 'argPeriapsisDeg': o.argRad = value * DEG; break;
-    case 'distancePc': o.distancePc = value; break;
-    case 'systemicVelocityKmS': o.gammaKmS = value; break;
+    case 'periodYears':
+      o.periodDays = value * JULIAN_YEAR_DAYS;
+      break;
+    case 'periapsisDays':
+      o.periapsisJd = value;
+      break;
+    case 'eccentricity':
+      o.e = value;
+      break;
+    case 'semiMajorAxisArcsec':
+      o.aMas = value * 1000;
+      break;
+    case 'inclinationDeg':
+      o.iRad = value * DEG;
+      break;
+    case 'ascendingNodeDeg':
+      o.nodeRad = value * DEG;
+      break;
+    case 'argPeriapsisDeg':
+      o.argRad = value * DEG;
+      break;
+    case 'distancePc':
+      o.distancePc = value;
+      break;
+    case 'systemicVelocityKmS':
+      o.gammaKmS = value;
+      break;
   }
   return o;
 }

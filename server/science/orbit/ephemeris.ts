@@ -4,13 +4,33 @@
  */
 import { InputError } from '../errors.ts';
 import { jdToIso } from '../time/index.ts';
-import { findEventLoci, eventFromLocus, relocateEvent, type EventOptions, type OrbitEvent } from './events.ts';
+import {
+  findEventLoci,
+  eventFromLocus,
+  relocateEvent,
+  type EventOptions,
+  type OrbitEvent,
+} from './events.ts';
 import { predictBatch, rowOf, type Prediction, type PredictionColumns } from './predict.ts';
 import type { Orbit } from './types.ts';
-import { PERCENTILES, anglePercentiles, drawOrbits, linearSigma, percentiles, validateMonteCarlo, type MonteCarloOptions } from './uncertainty.ts';
+import {
+  PERCENTILES,
+  anglePercentiles,
+  drawOrbits,
+  linearSigma,
+  percentiles,
+  validateMonteCarlo,
+  type MonteCarloOptions,
+} from './uncertainty.ts';
 
 /** Quantities that carry an uncertainty in an ephemeris. */
-export const UNCERTAIN_FIELDS = ['dRaMas', 'dDecMas', 'separationMas', 'positionAngleDeg', 'radialVelocityKmS'] as const;
+export const UNCERTAIN_FIELDS = [
+  'dRaMas',
+  'dDecMas',
+  'separationMas',
+  'positionAngleDeg',
+  'radialVelocityKmS',
+] as const;
 export type UncertainField = (typeof UNCERTAIN_FIELDS)[number];
 
 export interface UncertaintyOptions {
@@ -32,11 +52,16 @@ function fieldsFor(orbit: Orbit): UncertainField[] {
 }
 
 /** Predictions at the epochs (JD), with uncertainties as the orbit and options allow. */
-export function ephemeris(orbit: Orbit, jd: Float64Array, options: UncertaintyOptions = {}): EphemerisRow[] {
+export function ephemeris(
+  orbit: Orbit,
+  jd: Float64Array,
+  options: UncertaintyOptions = {},
+): EphemerisRow[] {
   const cols = predictBatch(orbit, jd);
   const rows: EphemerisRow[] = Array.from({ length: jd.length }, (_, i) => rowOf(cols, i));
   if (!orbit.covariance) {
-    if (options.monteCarlo) throw new InputError('orbit.covariance', null, 'is needed for Monte Carlo percentiles');
+    if (options.monteCarlo)
+      throw new InputError('orbit.covariance', null, 'is needed for Monte Carlo percentiles');
     return rows;
   }
   const fields = fieldsFor(orbit);
@@ -55,7 +80,12 @@ export function ephemeris(orbit: Orbit, jd: Float64Array, options: UncertaintyOp
   });
   if (options.monteCarlo) {
     const mc = validateMonteCarlo(options.monteCarlo);
-    if (mc.draws * n > MAX_MC_WORK) throw new InputError('monteCarlo.draws', mc.draws, `× ${n} epochs exceeds ${MAX_MC_WORK} predictions per request`);
+    if (mc.draws * n > MAX_MC_WORK)
+      throw new InputError(
+        'monteCarlo.draws',
+        mc.draws,
+        `× ${n} epochs exceeds ${MAX_MC_WORK} predictions per request`,
+      );
     const samples = fields.map(() => Array.from({ length: n }, () => new Float64Array(mc.draws)));
     drawOrbits(orbit, mc).forEach((o, d) => {
       const c = predictBatch(o, jd);
@@ -65,7 +95,12 @@ export function ephemeris(orbit: Orbit, jd: Float64Array, options: UncertaintyOp
     });
     rows.forEach((r, i) => {
       r.percentiles = Object.fromEntries(
-        fields.map((f, k) => [f, f === 'positionAngleDeg' ? anglePercentiles(samples[k]![i]!, r.positionAngleDeg) : percentiles(samples[k]![i]!)]),
+        fields.map((f, k) => [
+          f,
+          f === 'positionAngleDeg'
+            ? anglePercentiles(samples[k]![i]!, r.positionAngleDeg)
+            : percentiles(samples[k]![i]!),
+        ]),
       );
     });
   }
@@ -82,11 +117,17 @@ export interface EventWithUncertainty extends OrbitEvent {
 }
 
 /** Events in [startJd, endJd] with the uncertainty of each date. */
-export function eventsWithUncertainty(orbit: Orbit, startJd: number, endJd: number, options: EventOptions & UncertaintyOptions = {}): EventWithUncertainty[] {
+export function eventsWithUncertainty(
+  orbit: Orbit,
+  startJd: number,
+  endJd: number,
+  options: EventOptions & UncertaintyOptions = {},
+): EventWithUncertainty[] {
   const { sampler, loci } = findEventLoci(orbit, startJd, endJd, options);
   const events: EventWithUncertainty[] = loci.map((l) => eventFromLocus(sampler, l));
   if (!orbit.covariance) {
-    if (options.monteCarlo) throw new InputError('orbit.covariance', null, 'is needed for Monte Carlo percentiles');
+    if (options.monteCarlo)
+      throw new InputError('orbit.covariance', null, 'is needed for Monte Carlo percentiles');
     return events;
   }
   const times = (o: Orbit) => loci.map((l) => relocateEvent(o, l) ?? Number.NaN);
@@ -96,7 +137,12 @@ export function eventsWithUncertainty(orbit: Orbit, startJd: number, endJd: numb
   });
   if (options.monteCarlo) {
     const mc = validateMonteCarlo(options.monteCarlo);
-    if (mc.draws * loci.length > MAX_MC_WORK / 100) throw new InputError('monteCarlo.draws', mc.draws, `× ${loci.length} events exceeds ${MAX_MC_WORK / 100} event searches per request`);
+    if (mc.draws * loci.length > MAX_MC_WORK / 100)
+      throw new InputError(
+        'monteCarlo.draws',
+        mc.draws,
+        `× ${loci.length} events exceeds ${MAX_MC_WORK / 100} event searches per request`,
+      );
     const samples = loci.map(() => [] as number[]);
     for (const o of drawOrbits(orbit, mc)) {
       times(o).forEach((t, i) => {

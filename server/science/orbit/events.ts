@@ -11,7 +11,16 @@
  */
 import { ComputationError, InputError } from '../errors.ts';
 import { jdToIso } from '../time/index.ts';
-import { allocateColumns, observedTime, prepare, rowOf, writeState, type Prediction, type PredictionColumns, type Prepared } from './predict.ts';
+import {
+  allocateColumns,
+  observedTime,
+  prepare,
+  rowOf,
+  writeState,
+  type Prediction,
+  type PredictionColumns,
+  type Prepared,
+} from './predict.ts';
 import type { Orbit } from './types.ts';
 
 export const EVENT_KINDS = [
@@ -122,7 +131,11 @@ function golden(f: Scalar, k: number, lo: number, hi: number, sign: number): num
 }
 
 /** Every event of the requested kinds in orbit k, as (kind, k, E), E ∈ [−π, π). */
-export function eventsInOrbit(s: OrbitSampler, k: number, kinds: ReadonlySet<EventKind>): EventLocus[] {
+export function eventsInOrbit(
+  s: OrbitSampler,
+  k: number,
+  kinds: ReadonlySet<EventKind>,
+): EventLocus[] {
   const out: EventLocus[] = [];
   if (kinds.has('periapsis')) out.push({ kind: 'periapsis', k, E: 0 });
   if (kinds.has('apoapsis')) out.push({ kind: 'apoapsis', k, E: -Math.PI });
@@ -139,7 +152,9 @@ export function eventsInOrbit(s: OrbitSampler, k: number, kinds: ReadonlySet<Eve
     const f = nodeFunction(s);
     const v = grid(f);
     for (let j = 0; j < SAMPLES_PER_ORBIT; j++) {
-      const prev = v[j]!, a = v[j + 1]!, b = v[j + 2]!;
+      const prev = v[j]!,
+        a = v[j + 1]!,
+        b = v[j + 2]!;
       if (a === 0) {
         // A root exactly on a sample (e.g. ω = 0 puts the node at E = 0).
         if (prev !== 0 && b !== 0 && prev > 0 !== b > 0) {
@@ -157,20 +172,26 @@ export function eventsInOrbit(s: OrbitSampler, k: number, kinds: ReadonlySet<Eve
   const extrema = (f: Scalar, maxKind: EventKind, minKind: EventKind) => {
     if (!kinds.has(maxKind) && !kinds.has(minKind)) return;
     const v = grid(f);
-    let lo = Infinity, hi = -Infinity;
+    let lo = Infinity,
+      hi = -Infinity;
     for (const x of v) {
       lo = Math.min(lo, x);
       hi = Math.max(hi, x);
     }
     if (!(hi - lo > 1e-9 * Math.max(Math.abs(hi), Math.abs(lo), 1e-300))) return; // flat: no extremum to speak of
     for (let j = 0; j < SAMPLES_PER_ORBIT; j++) {
-      const a = v[j]!, b = v[j + 1]!, c = v[j + 2]!;
+      const a = v[j]!,
+        b = v[j + 1]!,
+        c = v[j + 2]!;
       const E0 = -Math.PI + j * h;
-      if (b >= a && b > c && kinds.has(maxKind)) out.push(seamed(maxKind, k, golden(f, k, E0 - h, E0 + h, 1)));
-      if (b <= a && b < c && kinds.has(minKind)) out.push(seamed(minKind, k, golden(f, k, E0 - h, E0 + h, -1)));
+      if (b >= a && b > c && kinds.has(maxKind))
+        out.push(seamed(maxKind, k, golden(f, k, E0 - h, E0 + h, 1)));
+      if (b <= a && b < c && kinds.has(minKind))
+        out.push(seamed(minKind, k, golden(f, k, E0 - h, E0 + h, -1)));
     }
   };
-  if (s.p.orbit.distancePc !== null) extrema((kk, E) => s.at(kk, E).radialVelocityKmS[0]!, 'rv-maximum', 'rv-minimum');
+  if (s.p.orbit.distancePc !== null)
+    extrema((kk, E) => s.at(kk, E).radialVelocityKmS[0]!, 'rv-maximum', 'rv-minimum');
   extrema((kk, E) => s.at(kk, E).separationMas[0]!, 'widest-separation', 'closest-separation');
   return out;
 }
@@ -197,15 +218,27 @@ export interface EventOptions {
  * RV extrema need a distance (they are skipped without one).
  * @throws InputError when the interval is reversed or spans more than 20 000 orbits
  */
-export function findEventLoci(orbit: Orbit, startJd: number, endJd: number, options: EventOptions = {}): { sampler: OrbitSampler; loci: EventLocus[] } {
+export function findEventLoci(
+  orbit: Orbit,
+  startJd: number,
+  endJd: number,
+  options: EventOptions = {},
+): { sampler: OrbitSampler; loci: EventLocus[] } {
   if (!(endJd > startJd)) throw new InputError('end', endJd, `must be after start (${startJd})`);
   const kinds = new Set<EventKind>(options.kinds ?? EVENT_KINDS);
-  for (const k of kinds) if (!(EVENT_KINDS as readonly string[]).includes(k)) throw new InputError('kinds', k, `must be one of ${EVENT_KINDS.join(', ')}`);
+  for (const k of kinds)
+    if (!(EVENT_KINDS as readonly string[]).includes(k))
+      throw new InputError('kinds', k, `must be one of ${EVENT_KINDS.join(', ')}`);
   const P = orbit.periodDays;
   // Light time can move an event by up to a·(1+e)/c: widen the search by a period each side.
   const k0 = Math.floor((startJd - orbit.periapsisJd) / P) - 1;
   const k1 = Math.ceil((endJd - orbit.periapsisJd) / P) + 1;
-  if (k1 - k0 > MAX_ORBITS) throw new InputError('end', endJd, `spans ${k1 - k0} orbits; at most ${MAX_ORBITS} per request`);
+  if (k1 - k0 > MAX_ORBITS)
+    throw new InputError(
+      'end',
+      endJd,
+      `spans ${k1 - k0} orbits; at most ${MAX_ORBITS} per request`,
+    );
   const sampler = new OrbitSampler(orbit);
   const loci: { l: EventLocus; t: number }[] = [];
   for (let k = k0; k <= k1; k++) {
@@ -219,7 +252,12 @@ export function findEventLoci(orbit: Orbit, startJd: number, endJd: number, opti
 }
 
 /** The events as objects with their states (see findEventLoci). */
-export function findEvents(orbit: Orbit, startJd: number, endJd: number, options: EventOptions = {}): OrbitEvent[] {
+export function findEvents(
+  orbit: Orbit,
+  startJd: number,
+  endJd: number,
+  options: EventOptions = {},
+): OrbitEvent[] {
   const { sampler, loci } = findEventLoci(orbit, startJd, endJd, options);
   return loci.map((l) => eventFromLocus(sampler, l));
 }
@@ -246,7 +284,9 @@ export function relocateEvent(orbit: Orbit, locus: EventLocus): number | null {
 
 /** The next periapsis passage at or after jd (observed time). */
 export function nextPeriapsis(orbit: Orbit, jd: number): OrbitEvent {
-  const { sampler, loci } = findEventLoci(orbit, jd, jd + orbit.periodDays * 1.0000001 + 1, { kinds: ['periapsis'] });
+  const { sampler, loci } = findEventLoci(orbit, jd, jd + orbit.periodDays * 1.0000001 + 1, {
+    kinds: ['periapsis'],
+  });
   const first = loci[0];
   if (!first) throw new ComputationError('no periapsis found within one period');
   return eventFromLocus(sampler, first);

@@ -19,13 +19,49 @@ export {
   getParameter,
   withParameter,
 } from './elements.ts';
-export { solveKepler, solveKeplerBatch, trueAnomalyFromEccentric, eccentricFromTrueAnomaly } from './kepler.ts';
-export { predict, predictBatch, PREDICTION_FIELDS, type Prediction, type PredictionColumns, type PredictionField } from './predict.ts';
-export { findEvents, nextPeriapsis, EVENT_KINDS, type EventKind, type OrbitEvent, type EventOptions } from './events.ts';
+export {
+  solveKepler,
+  solveKeplerBatch,
+  trueAnomalyFromEccentric,
+  eccentricFromTrueAnomaly,
+} from './kepler.ts';
+export {
+  predict,
+  predictBatch,
+  PREDICTION_FIELDS,
+  type Prediction,
+  type PredictionColumns,
+  type PredictionField,
+} from './predict.ts';
+export {
+  findEvents,
+  nextPeriapsis,
+  EVENT_KINDS,
+  type EventKind,
+  type OrbitEvent,
+  type EventOptions,
+} from './events.ts';
 export { describeOrbit } from './describe.ts';
-export { physicalQuantities, massSolar, semiMajorAxisAu, type PhysicalQuantities } from './physical.ts';
-export { schwarzschildRadiusM, precessionPerOrbitRad, gravitationalRedshiftKmS, transverseDopplerKmS, romerDelayDays } from './relativity.ts';
-export { linearSigma, drawOrbits, percentiles, PERCENTILES, type MonteCarloOptions } from './uncertainty.ts';
+export {
+  physicalQuantities,
+  massSolar,
+  semiMajorAxisAu,
+  type PhysicalQuantities,
+} from './physical.ts';
+export {
+  schwarzschildRadiusM,
+  precessionPerOrbitRad,
+  gravitationalRedshiftKmS,
+  transverseDopplerKmS,
+  romerDelayDays,
+} from './relativity.ts';
+export {
+  linearSigma,
+  drawOrbits,
+  percentiles,
+  PERCENTILES,
+  type MonteCarloOptions,
+} from './uncertainty.ts';
 export {
   ephemeris,
   eventsWithUncertainty,

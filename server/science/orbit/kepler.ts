@@ -56,8 +56,12 @@ const INV_HN = NN / Math.PI;
 const NODE_SIN = Float64Array.from({ length: NN + 1 }, (_, j) => Math.sin(j * HN));
 const NODE_COS = Float64Array.from({ length: NN + 1 }, (_, j) => Math.cos(j * HN));
 const INV_TWO_PI = 1 / TWO_PI;
-const S3 = 1 / 6, S5 = 1 / 20, S7 = 1 / 42;
-const C2 = 1 / 2, C4 = 1 / 12, C6 = 1 / 30;
+const S3 = 1 / 6,
+  S5 = 1 / 20,
+  S7 = 1 / 42;
+const C2 = 1 / 2,
+  C4 = 1 / 12,
+  C6 = 1 / 30;
 /** Below this 1 − e·cos E the fast path hands over to the robust one. */
 const FLAT = 0.15;
 

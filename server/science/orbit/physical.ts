@@ -5,7 +5,13 @@
  */
 import { AU_M, C_KM_PER_S, GM_SUN_M3_PER_S2, SECONDS_PER_DAY } from '../constants.ts';
 import { InputError } from '../errors.ts';
-import { gravitationalRedshiftKmS, precessionPerOrbitRad, romerDelayDays, schwarzschildRadiusM, transverseDopplerKmS } from './relativity.ts';
+import {
+  gravitationalRedshiftKmS,
+  precessionPerOrbitRad,
+  romerDelayDays,
+  schwarzschildRadiusM,
+  transverseDopplerKmS,
+} from './relativity.ts';
 import type { Orbit } from './types.ts';
 
 /** Semi-major axis in au: a[″] × d[pc] (1″ at 1 pc subtends 1 au, by the definition of the parsec). */
@@ -27,7 +33,11 @@ export function massSolar(aAu: number, periodDays: number): number {
 
 /** Velocity semi-amplitude K, km/s: 2π·a·sin i / (P·√(1−e²)). */
 export function semiAmplitudeKmS(aAu: number, periodDays: number, e: number, iRad: number): number {
-  return (2 * Math.PI * aAu * AU_M * Math.sin(iRad)) / (periodDays * SECONDS_PER_DAY * Math.sqrt(1 - e * e)) / 1000;
+  return (
+    (2 * Math.PI * aAu * AU_M * Math.sin(iRad)) /
+    (periodDays * SECONDS_PER_DAY * Math.sqrt(1 - e * e)) /
+    1000
+  );
 }
 
 export interface PhysicalQuantities {
@@ -52,7 +62,8 @@ export interface PhysicalQuantities {
 
 /** The physical quantities of an orbit with a distance. @throws InputError when the distance is missing. */
 export function physicalQuantities(orbit: Orbit): PhysicalQuantities {
-  if (orbit.distancePc === null) throw new InputError('orbit.distancePc', null, 'is needed for physical quantities');
+  if (orbit.distancePc === null)
+    throw new InputError('orbit.distancePc', null, 'is needed for physical quantities');
   const aAu = semiMajorAxisAu(orbit.aMas, orbit.distancePc);
   const gm = massParameterM3S2(aAu, orbit.periodDays);
   const rsM = schwarzschildRadiusM(gm);

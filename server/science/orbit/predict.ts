@@ -9,7 +9,12 @@ import { AU_KM, C_KM_PER_S, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } fro
 import { jdToIso } from '../time/index.ts';
 import { solveKepler, solveKeplerBatch, trueAnomalyFromEccentric } from './kepler.ts';
 import { massParameterM3S2, semiMajorAxisAu } from './physical.ts';
-import { gravitationalRedshiftKmS, precessionPerOrbitRad, romerDelayDays, transverseDopplerKmS } from './relativity.ts';
+import {
+  gravitationalRedshiftKmS,
+  precessionPerOrbitRad,
+  romerDelayDays,
+  transverseDopplerKmS,
+} from './relativity.ts';
 import type { Orbit } from './types.ts';
 import { AU_M } from '../constants.ts';
 
@@ -98,7 +103,9 @@ export function prepare(orbit: Orbit): Prepared {
     si: Math.sin(orbit.iRad),
     aAu,
     gm,
-    precessionRadPerDay: hasD ? precessionPerOrbitRad(gm, aAu * AU_M, orbit.e) / orbit.periodDays : 0,
+    precessionRadPerDay: hasD
+      ? precessionPerOrbitRad(gm, aAu * AU_M, orbit.e) / orbit.periodDays
+      : 0,
   };
 }
 
@@ -110,13 +117,17 @@ export function allocateColumns(n: number): PredictionColumns {
 
 /** Argument of periapsis at emission time tEm (rad), with precession when switched on. */
 function argAt(p: Prepared, tEm: number): number {
-  return p.orbit.relativity.precession ? p.orbit.argRad + p.precessionRadPerDay * (tEm - p.orbit.periapsisJd) : p.orbit.argRad;
+  return p.orbit.relativity.precession
+    ? p.orbit.argRad + p.precessionRadPerDay * (tEm - p.orbit.periapsisJd)
+    : p.orbit.argRad;
 }
 
 /** Line-of-sight position (au) at emission time tEm with eccentric anomaly E. */
 function lineOfSightAu(p: Prepared, tEm: number, E: number): number {
   const w = argAt(p, tEm);
-  return p.aAu * p.si * ((Math.cos(E) - p.orbit.e) * Math.sin(w) + p.sq * Math.sin(E) * Math.cos(w));
+  return (
+    p.aAu * p.si * ((Math.cos(E) - p.orbit.e) * Math.sin(w) + p.sq * Math.sin(E) * Math.cos(w))
+  );
 }
 
 /** Emission time and E for an observed time: t_obs = t_em + z(t_em)/c when Rømer delay is on. */
@@ -141,16 +152,27 @@ export function observedTime(p: Prepared, tEm: number, E: number): number {
 }
 
 /** Write every column at index i for the state at emission time tEm, eccentric anomaly E, observed at tObs. */
-export function writeState(p: Prepared, tObs: number, tEm: number, E: number, c: PredictionColumns, i: number): void {
+export function writeState(
+  p: Prepared,
+  tObs: number,
+  tEm: number,
+  E: number,
+  c: PredictionColumns,
+  i: number,
+): void {
   const o = p.orbit;
   const e = o.e;
-  const cosE = Math.cos(E), sinE = Math.sin(E);
-  const X = cosE - e, Y = p.sq * sinE;
+  const cosE = Math.cos(E),
+    sinE = Math.sin(E);
+  const X = cosE - e,
+    Y = p.sq * sinE;
   const Edot = p.n / (1 - e * cosE); // rad/day
-  const Xd = -sinE * Edot, Yd = p.sq * cosE * Edot; // per day
+  const Xd = -sinE * Edot,
+    Yd = p.sq * cosE * Edot; // per day
   const dOmega = p.precessionRadPerDay * (tEm - o.periapsisJd);
   const w = o.relativity.precession ? o.argRad + dOmega : o.argRad;
-  const cw = Math.cos(w), sw = Math.sin(w);
+  const cw = Math.cos(w),
+    sw = Math.sin(w);
   const a = o.aMas;
   const A = a * (cw * p.cn - sw * p.sn * p.ci);
   const B = a * (cw * p.sn + sw * p.cn * p.ci);
@@ -196,7 +218,11 @@ export function writeState(p: Prepared, tObs: number, tEm: number, E: number, c:
   c.speedKmS[i] = speed;
   c.lineOfSightAu[i] = zAu;
   c.keplerianRvKmS[i] = vzKmS;
-  c.radialVelocityKmS[i] = o.gammaKmS + vzKmS + (o.relativity.gravitationalRedshift ? gr : 0) + (o.relativity.transverseDoppler ? td : 0);
+  c.radialVelocityKmS[i] =
+    o.gammaKmS +
+    vzKmS +
+    (o.relativity.gravitationalRedshift ? gr : 0) +
+    (o.relativity.transverseDoppler ? td : 0);
   c.romerDelayDays[i] = romerDelayDays(zAu);
   c.gravitationalRedshiftKmS[i] = gr;
   c.transverseDopplerKmS[i] = td;
@@ -208,7 +234,11 @@ export function writeState(p: Prepared, tObs: number, tEm: number, E: number, c:
  * @param jd observed epochs, Julian Date (UTC)
  * @returns one Float64Array per field of PREDICTION_FIELDS, same length as jd
  */
-export function predictBatch(orbit: Orbit, jd: Float64Array, out: PredictionColumns = allocateColumns(jd.length)): PredictionColumns {
+export function predictBatch(
+  orbit: Orbit,
+  jd: Float64Array,
+  out: PredictionColumns = allocateColumns(jd.length),
+): PredictionColumns {
   const p = prepare(orbit);
   if (orbit.relativity.romer) {
     // Each epoch has its own light-time fixed point.

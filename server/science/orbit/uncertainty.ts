@@ -19,13 +19,16 @@ export interface MonteCarloOptions {
 }
 
 export function validateMonteCarlo(mc: MonteCarloOptions, field = 'monteCarlo'): MonteCarloOptions {
-  if (!Number.isInteger(mc.draws) || mc.draws < 10 || mc.draws > 100_000) throw new InputError(`${field}.draws`, mc.draws, 'must be an integer from 10 to 100000');
-  if (!Number.isInteger(mc.seed)) throw new InputError(`${field}.seed`, mc.seed, 'must be an integer');
+  if (!Number.isInteger(mc.draws) || mc.draws < 10 || mc.draws > 100_000)
+    throw new InputError(`${field}.draws`, mc.draws, 'must be an integer from 10 to 100000');
+  if (!Number.isInteger(mc.seed))
+    throw new InputError(`${field}.seed`, mc.seed, 'must be an integer');
   return mc;
 }
 
 function requireCovariance(orbit: Orbit): Covariance {
-  if (!orbit.covariance) throw new InputError('orbit.covariance', null, 'is needed for uncertainties');
+  if (!orbit.covariance)
+    throw new InputError('orbit.covariance', null, 'is needed for uncertainties');
   return orbit.covariance;
 }
 
@@ -40,7 +43,11 @@ function diff(a: number, b: number, angle: boolean): number {
  * @param angleOutputs indices of outputs that are angles in degrees (differences wrap at 360°)
  * @returns σ per output (0 where the output does not depend on any uncertain parameter)
  */
-export function linearSigma(orbit: Orbit, f: (o: Orbit) => ArrayLike<number>, angleOutputs: ReadonlySet<number> = new Set()): Float64Array {
+export function linearSigma(
+  orbit: Orbit,
+  f: (o: Orbit) => ArrayLike<number>,
+  angleOutputs: ReadonlySet<number> = new Set(),
+): Float64Array {
   const cov = requireCovariance(orbit);
   const n = cov.parameters.length;
   const m = f(orbit).length;
@@ -54,12 +61,17 @@ export function linearSigma(orbit: Orbit, f: (o: Orbit) => ArrayLike<number>, an
     const x = getParameter(orbit, name);
     let h = 1e-4 * sigma;
     // Keep e inside [0, 1) and sizes positive: step one-sided near a bound.
-    let lo = x - h, hi = x + h;
+    let lo = x - h,
+      hi = x + h;
     if (name === 'eccentricity') {
       if (lo < 0) lo = x;
       if (hi >= 1) hi = x;
     }
-    if ((name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc') && lo <= 0) lo = x;
+    if (
+      (name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc') &&
+      lo <= 0
+    )
+      lo = x;
     h = hi - lo;
     if (h === 0) continue;
     const fp = f(withParameter(orbit, name, hi));
@@ -88,7 +100,12 @@ function covarianceRoot(cov: Covariance): Matrix {
   const values = eig.realEigenvalues;
   const scale = Math.max(...values.map(Math.abs));
   values.forEach((v, k) => {
-    if (v < -1e-10 * scale) throw new InputError('orbit.covariance.matrix', cov.matrix, `is not positive semi-definite (eigenvalue ${v.toPrecision(3)})`);
+    if (v < -1e-10 * scale)
+      throw new InputError(
+        'orbit.covariance.matrix',
+        cov.matrix,
+        `is not positive semi-definite (eigenvalue ${v.toPrecision(3)})`,
+      );
     void k;
   });
   const V = eig.eigenvectorMatrix;
@@ -109,7 +126,10 @@ export function drawOrbits(orbit: Orbit, mc: MonteCarloOptions): Orbit[] {
   const out: Orbit[] = [];
   let attempts = 0;
   while (out.length < mc.draws) {
-    if (++attempts > mc.draws * 20) throw new ComputationError('the covariance puts most draws outside bound orbits (e ≥ 1 or sizes ≤ 0)');
+    if (++attempts > mc.draws * 20)
+      throw new ComputationError(
+        'the covariance puts most draws outside bound orbits (e ≥ 1 or sizes ≤ 0)',
+      );
     const z = Array.from({ length: n }, () => rng.normal());
     let o = orbit;
     let ok = true;
@@ -129,12 +149,16 @@ export function drawOrbits(orbit: Orbit, mc: MonteCarloOptions): Orbit[] {
 
 function inDomain(name: CovarianceParameter, v: number): boolean {
   if (name === 'eccentricity') return v >= 0 && v < 1;
-  if (name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc') return v > 0;
+  if (name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc')
+    return v > 0;
   return true;
 }
 
 /** Percentiles (linear interpolation between order statistics) of a sample. */
-export function percentiles(sample: ArrayLike<number>, ps: readonly number[] = PERCENTILES): number[] {
+export function percentiles(
+  sample: ArrayLike<number>,
+  ps: readonly number[] = PERCENTILES,
+): number[] {
   const s = Float64Array.from(sample).sort();
   return ps.map((p) => {
     const x = (p / 100) * (s.length - 1);
@@ -145,7 +169,11 @@ export function percentiles(sample: ArrayLike<number>, ps: readonly number[] = P
 }
 
 /** Percentiles of angles (deg) unwrapped around a reference angle, returned in [0, 360). */
-export function anglePercentiles(sample: ArrayLike<number>, referenceDeg: number, ps: readonly number[] = PERCENTILES): number[] {
+export function anglePercentiles(
+  sample: ArrayLike<number>,
+  referenceDeg: number,
+  ps: readonly number[] = PERCENTILES,
+): number[] {
   const u = Float64Array.from(sample, (a) => referenceDeg + diff(a, referenceDeg, true));
   return percentiles(u, ps).map((a) => ((a % 360) + 360) % 360);
 }

@@ -43,32 +43,64 @@ export interface Candidate {
 
 const ID_RE = /^[\w.:@ -]{1,80}$/;
 
-export function checkCandidates(input: unknown, targets: readonly Target[], field = 'candidates'): Omit<Candidate, 'slots' | 'grid'>[] {
-  if (!Array.isArray(input)) throw new InputError(field, input, 'must be an array of candidate blocks');
-  if (input.length > 2000) throw new InputError(field, input.length, 'must hold at most 2000 candidate blocks');
+export function checkCandidates(
+  input: unknown,
+  targets: readonly Target[],
+  field = 'candidates',
+): Omit<Candidate, 'slots' | 'grid'>[] {
+  if (!Array.isArray(input))
+    throw new InputError(field, input, 'must be an array of candidate blocks');
+  if (input.length > 2000)
+    throw new InputError(field, input.length, 'must hold at most 2000 candidate blocks');
   const ids = new Set<string>();
   const byName = new Map(targets.map((t, i) => [t.name, i]));
   return input.map((raw: unknown, k) => {
     const p = `${field}.${k}`;
-    if (typeof raw !== 'object' || raw === null) throw new InputError(p, raw, 'must be an object { id, target, kind, durationMinutes, priority }');
+    if (typeof raw !== 'object' || raw === null)
+      throw new InputError(
+        p,
+        raw,
+        'must be an object { id, target, kind, durationMinutes, priority }',
+      );
     const c = raw as Record<string, unknown>;
-    if (typeof c.id !== 'string' || !ID_RE.test(c.id)) throw new InputError(`${p}.id`, c.id, 'must be 1–80 letters, digits, spaces or . : @ _ -');
+    if (typeof c.id !== 'string' || !ID_RE.test(c.id))
+      throw new InputError(`${p}.id`, c.id, 'must be 1–80 letters, digits, spaces or . : @ _ -');
     if (ids.has(c.id)) throw new InputError(`${p}.id`, c.id, 'is used by an earlier candidate');
     ids.add(c.id);
     const targetIndex = typeof c.target === 'string' ? byName.get(c.target.trim()) : undefined;
-    if (targetIndex === undefined) throw new InputError(`${p}.target`, c.target, `must name one of the targets (${[...byName.keys()].slice(0, 5).join(', ')}${byName.size > 5 ? ', …' : ''})`);
-    if (!(MEASUREMENT_KINDS as readonly unknown[]).includes(c.kind)) throw new InputError(`${p}.kind`, c.kind, 'must be "astrometry" or "spectroscopy"');
+    if (targetIndex === undefined)
+      throw new InputError(
+        `${p}.target`,
+        c.target,
+        `must name one of the targets (${[...byName.keys()].slice(0, 5).join(', ')}${byName.size > 5 ? ', …' : ''})`,
+      );
+    if (!(MEASUREMENT_KINDS as readonly unknown[]).includes(c.kind))
+      throw new InputError(`${p}.kind`, c.kind, 'must be "astrometry" or "spectroscopy"');
     const durationMinutes = requireFinite(`${p}.durationMinutes`, c.durationMinutes);
-    if (!(durationMinutes > 0 && durationMinutes <= 720)) throw new InputError(`${p}.durationMinutes`, durationMinutes, 'must lie in (0, 720] minutes');
+    if (!(durationMinutes > 0 && durationMinutes <= 720))
+      throw new InputError(`${p}.durationMinutes`, durationMinutes, 'must lie in (0, 720] minutes');
     const priority = requireFinite(`${p}.priority`, c.priority);
-    if (!(priority > 0 && priority <= 1000)) throw new InputError(`${p}.priority`, priority, 'must lie in (0, 1000]');
+    if (!(priority > 0 && priority <= 1000))
+      throw new InputError(`${p}.priority`, priority, 'must lie in (0, 1000]');
     let maxAirmass: number | null = null;
     if (c.maxAirmass !== undefined && c.maxAirmass !== null) {
       maxAirmass = requireFinite(`${p}.maxAirmass`, c.maxAirmass);
-      if (!(maxAirmass > 1 && maxAirmass <= 40)) throw new InputError(`${p}.maxAirmass`, maxAirmass, 'must lie in (1, 40]');
+      if (!(maxAirmass > 1 && maxAirmass <= 40))
+        throw new InputError(`${p}.maxAirmass`, maxAirmass, 'must lie in (1, 40]');
     }
-    if (c.laserGuideStar !== undefined && typeof c.laserGuideStar !== 'boolean') throw new InputError(`${p}.laserGuideStar`, c.laserGuideStar, 'must be true or false');
-    return { index: k, id: c.id, targetIndex, targetName: targets[targetIndex]!.name, kind: c.kind as MeasurementKind, durationMinutes, priority, maxAirmass, laserGuideStar: c.laserGuideStar === true };
+    if (c.laserGuideStar !== undefined && typeof c.laserGuideStar !== 'boolean')
+      throw new InputError(`${p}.laserGuideStar`, c.laserGuideStar, 'must be true or false');
+    return {
+      index: k,
+      id: c.id,
+      targetIndex,
+      targetName: targets[targetIndex]!.name,
+      kind: c.kind as MeasurementKind,
+      durationMinutes,
+      priority,
+      maxAirmass,
+      laserGuideStar: c.laserGuideStar === true,
+    };
   });
 }
 

@@ -8,7 +8,13 @@
  * - stale prediction: position uncertainty now beyond a limit, or no measurement for longer than the cadence.
  */
 import { DateTime } from 'luxon';
-import { eventsWithUncertainty, ephemeris, physicalQuantities, predictBatch, type Orbit } from '../orbit/index.ts';
+import {
+  eventsWithUncertainty,
+  ephemeris,
+  physicalQuantities,
+  predictBatch,
+  type Orbit,
+} from '../orbit/index.ts';
 import { intervalsWhere } from '../sky/darkness.ts';
 import type { Constraints } from '../sky/constraints.ts';
 import type { Site } from '../sky/site.ts';
@@ -19,7 +25,12 @@ import { dominantReason, nightGrid, reasonWords, targetGrid } from './grid.ts';
 import type { Precision } from './information.ts';
 import { InputError } from '../errors.ts';
 
-export const FLAG_KINDS = ['periapsis-ahead', 'periapsis-unobservable', 'blend-risk', 'stale-prediction'] as const;
+export const FLAG_KINDS = [
+  'periapsis-ahead',
+  'periapsis-unobservable',
+  'blend-risk',
+  'stale-prediction',
+] as const;
 export type FlagKind = (typeof FLAG_KINDS)[number];
 
 export interface FlagTarget {
@@ -69,7 +80,11 @@ export interface Flag {
     skyRateMasPerDay: number;
     /** Longest interval between epochs that still follows the change at the expected precision, days. */
     samplingDays: number | null;
-    relativity: { gravitationalRedshiftKmS: number; transverseDopplerKmS: number; precessionArcminPerOrbit: number } | null;
+    relativity: {
+      gravitationalRedshiftKmS: number;
+      transverseDopplerKmS: number;
+      precessionArcminPerOrbit: number;
+    } | null;
   };
   blend?: { other: string; start: string; end: string; closestMas: number };
   stale?: { sigmaMas: number | null; daysSinceMeasured: number | null };
@@ -85,7 +100,13 @@ function bandOf(days: number, lead: number[]): string {
 }
 
 /** Observable hours per night around a date at one site (nights spaced to at most 31). */
-export function hoursAround(site: Site, c: Constraints, target: Target, centreJd: number, halfDays: number): SiteHours {
+export function hoursAround(
+  site: Site,
+  c: Constraints,
+  target: Target,
+  centreJd: number,
+  halfDays: number,
+): SiteHours {
   const step = Math.max(1, Math.ceil((2 * halfDays + 1) / 31));
   const nights: { date: string; hours: number }[] = [];
   let blocked: string | null = null;
@@ -93,26 +114,37 @@ export function hoursAround(site: Site, c: Constraints, target: Target, centreJd
     const date = localNight(centreJd + d, site.timeZone);
     const g = nightGrid(site, c, date, 10);
     const tg = targetGrid(g, target);
-    const hours = g.edgeJd.length === 0 ? 0 : Math.max(0, tg.ok.reduce((n, v) => n + v, 0) - 1) * (10 / 60);
+    const hours =
+      g.edgeJd.length === 0 ? 0 : Math.max(0, tg.ok.reduce((n, v) => n + v, 0) - 1) * (10 / 60);
     nights.push({ date, hours });
     if (Math.abs(d) < step / 2 + 1e-9 || (d <= 0 && d + step > 0)) {
       const r = g.edgeJd.length === 0 ? null : dominantReason(tg, c);
       if (g.edgeJd.length === 0) blocked = 'no darkness';
-      else if (r !== null) blocked = `${reasonWords(r, c)}${r === 'sun-avoidance' ? ` (${tg.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''}`;
+      else if (r !== null)
+        blocked = `${reasonWords(r, c)}${r === 'sun-avoidance' ? ` (${tg.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''}`;
     }
   }
   const hs = nights.map((n) => n.hours);
   return { site: site.name, nights, minHours: Math.min(...hs), maxHours: Math.max(...hs), blocked };
 }
 
-export function computeFlags(targets: readonly FlagTarget[], sites: readonly { site: Site; constraints: Constraints }[], options: FlagOptions): Flag[] {
+export function computeFlags(
+  targets: readonly FlagTarget[],
+  sites: readonly { site: Site; constraints: Constraints }[],
+  options: FlagOptions,
+): Flag[] {
   const now = options.nowJd;
-  const lead = (options.leadDays ?? [30, 182, 365]).map((d, i) => positive(`leadDays.${i}`, d, 36525));
+  const lead = (options.leadDays ?? [30, 182, 365]).map((d, i) =>
+    positive(`leadDays.${i}`, d, 36525),
+  );
   if (lead.length === 0) throw new InputError('leadDays', lead, 'must list at least one lead time');
   lead.sort((a, b) => a - b);
   const horizon = lead[lead.length - 1]!;
   const staleSigma = positive('staleSigmaMas', options.staleSigmaMas ?? 10, 1e9);
-  const resolution = options.resolutionMas === undefined ? null : positive('resolutionMas', options.resolutionMas, 1e6);
+  const resolution =
+    options.resolutionMas === undefined
+      ? null
+      : positive('resolutionMas', options.resolutionMas, 1e6);
   const precision = options.precision ?? { astrometryMas: 1, spectroscopyKmS: 5 };
   const flags: Flag[] = [];
 
@@ -121,33 +153,68 @@ export function computeFlags(targets: readonly FlagTarget[], sites: readonly { s
     const name = ft.target.name;
     if (orbit) flags.push(...periapsisFlags(ft, orbit, sites, now, horizon, lead, precision));
     // Stale: uncertainty now, and time since the last measurement.
-    const sigma = orbit?.covariance ? (() => {
-      const r = ephemeris(orbit, Float64Array.of(now))[0]!;
-      return Math.hypot(r.sigma?.dRaMas ?? 0, r.sigma?.dDecMas ?? 0);
-    })() : null;
-    const since = ft.lastMeasuredJd === undefined || ft.lastMeasuredJd === null ? null : now - ft.lastMeasuredJd;
+    const sigma = orbit?.covariance
+      ? (() => {
+          const r = ephemeris(orbit, Float64Array.of(now))[0]!;
+          return Math.hypot(r.sigma?.dRaMas ?? 0, r.sigma?.dDecMas ?? 0);
+        })()
+      : null;
+    const since =
+      ft.lastMeasuredJd === undefined || ft.lastMeasuredJd === null
+        ? null
+        : now - ft.lastMeasuredJd;
     const reasons: string[] = [];
-    if (sigma !== null && sigma > staleSigma) reasons.push(`its predicted position is uncertain by ${sigma.toFixed(1)} mas (1σ), beyond the ${staleSigma} mas limit`);
-    if (since !== null && ft.cadenceDays !== undefined && since > ft.cadenceDays) reasons.push(`it has not been measured for ${Math.floor(since)} days, longer than its ${ft.cadenceDays}-day cadence`);
-    if (ft.cadenceDays !== undefined && ft.lastMeasuredJd === null) reasons.push('it has never been measured');
-    if (reasons.length > 0) flags.push({ kind: 'stale-prediction', target: name, date: jdToIso(now), daysAhead: 0, reason: `${name}: ${reasons.join('; ')}.`, stale: { sigmaMas: sigma, daysSinceMeasured: since } });
+    if (sigma !== null && sigma > staleSigma)
+      reasons.push(
+        `its predicted position is uncertain by ${sigma.toFixed(1)} mas (1σ), beyond the ${staleSigma} mas limit`,
+      );
+    if (since !== null && ft.cadenceDays !== undefined && since > ft.cadenceDays)
+      reasons.push(
+        `it has not been measured for ${Math.floor(since)} days, longer than its ${ft.cadenceDays}-day cadence`,
+      );
+    if (ft.cadenceDays !== undefined && ft.lastMeasuredJd === null)
+      reasons.push('it has never been measured');
+    if (reasons.length > 0)
+      flags.push({
+        kind: 'stale-prediction',
+        target: name,
+        date: jdToIso(now),
+        daysAhead: 0,
+        reason: `${name}: ${reasons.join('; ')}.`,
+        stale: { sigmaMas: sigma, daysSinceMeasured: since },
+      });
   }
 
   if (resolution !== null) {
     const bySystem = new Map<string, FlagTarget[]>();
-    for (const t of targets) if (t.target.orbit) bySystem.set(t.system, [...(bySystem.get(t.system) ?? []), t]);
+    for (const t of targets)
+      if (t.target.orbit) bySystem.set(t.system, [...(bySystem.get(t.system) ?? []), t]);
     for (const group of bySystem.values()) {
       for (let i = 0; i < group.length; i++) {
         const a = group[i]!;
         if (a.primaryVisible) flags.push(...blendFlags(a, null, now, horizon, resolution));
-        for (let j = i + 1; j < group.length; j++) flags.push(...blendFlags(a, group[j]!, now, horizon, resolution));
+        for (let j = i + 1; j < group.length; j++)
+          flags.push(...blendFlags(a, group[j]!, now, horizon, resolution));
       }
     }
   }
-  return flags.sort((x, y) => x.date.localeCompare(y.date) || FLAG_KINDS.indexOf(x.kind) - FLAG_KINDS.indexOf(y.kind) || x.target.localeCompare(y.target));
+  return flags.sort(
+    (x, y) =>
+      x.date.localeCompare(y.date) ||
+      FLAG_KINDS.indexOf(x.kind) - FLAG_KINDS.indexOf(y.kind) ||
+      x.target.localeCompare(y.target),
+  );
 }
 
-function periapsisFlags(ft: FlagTarget, orbit: Orbit, sites: readonly { site: Site; constraints: Constraints }[], now: number, horizon: number, lead: number[], precision: Precision): Flag[] {
+function periapsisFlags(
+  ft: FlagTarget,
+  orbit: Orbit,
+  sites: readonly { site: Site; constraints: Constraints }[],
+  now: number,
+  horizon: number,
+  lead: number[],
+  precision: Precision,
+): Flag[] {
   const name = ft.target.name;
   const ev = eventsWithUncertainty(orbit, now, now + horizon, { kinds: ['periapsis'] })[0];
   if (!ev) return [];
@@ -155,44 +222,98 @@ function periapsisFlags(ft: FlagTarget, orbit: Orbit, sites: readonly { site: Si
   const half = Math.max(1, Math.min(60, Math.ceil(sigmaDays ?? 1)));
   const siteHours = sites.map((s) => hoursAround(s.site, s.constraints, ft.target, ev.jd, half));
   const rows = predictBatch(orbit, Float64Array.of(ev.jd - 0.5, ev.jd, ev.jd + 0.5));
-  const rvRate = orbit.distancePc === null ? null : rows.radialVelocityKmS[2]! - rows.radialVelocityKmS[0]!;
+  const rvRate =
+    orbit.distancePc === null ? null : rows.radialVelocityKmS[2]! - rows.radialVelocityKmS[0]!;
   const skyRate = Math.hypot(rows.vRaMasYr[1]!, rows.vDecMasYr[1]!) / 365.25;
-  const cands = [precision.astrometryMas / skyRate, rvRate ? precision.spectroscopyKmS / Math.abs(rvRate) : Infinity].filter((x) => Number.isFinite(x));
+  const cands = [
+    precision.astrometryMas / skyRate,
+    rvRate ? precision.spectroscopyKmS / Math.abs(rvRate) : Infinity,
+  ].filter((x) => Number.isFinite(x));
   const samplingDays = cands.length ? Math.min(...cands) : null;
   let relativity: NonNullable<Flag['periapsis']>['relativity'] = null;
   if (orbit.distancePc !== null) {
     const q = physicalQuantities(orbit);
-    relativity = { gravitationalRedshiftKmS: q.gravitationalRedshiftAtPeriapsisKmS, transverseDopplerKmS: q.transverseDopplerAtPeriapsisKmS, precessionArcminPerOrbit: q.precessionArcminPerOrbit };
+    relativity = {
+      gravitationalRedshiftKmS: q.gravitationalRedshiftAtPeriapsisKmS,
+      transverseDopplerKmS: q.transverseDopplerAtPeriapsisKmS,
+      precessionArcminPerOrbit: q.precessionArcminPerOrbit,
+    };
   }
   const daysAhead = ev.jd - now;
   const band = bandOf(daysAhead, lead);
   const seen = siteHours.filter((s) => s.maxHours > 0);
   const date = ev.epoch;
-  const pm = sigmaDays === null ? '(no covariance: uncertainty unknown)' : `± ${sigmaDays.toFixed(1)} d`;
+  const pm =
+    sigmaDays === null ? '(no covariance: uncertainty unknown)' : `± ${sigmaDays.toFixed(1)} d`;
   const rates = `radial velocity changes by ${rvRate === null ? '? (no distance)' : `${Math.abs(rvRate).toFixed(2)} km/s`} and position by ${skyRate.toFixed(3)} mas per day there${samplingDays !== null ? `, so sample at least every ${samplingDays < 1 ? `${(samplingDays * 24).toFixed(1)} h` : `${samplingDays.toFixed(1)} d`}` : ''}`;
-  const rel = relativity ? `; gravitational redshift ${relativity.gravitationalRedshiftKmS.toFixed(3)} km/s, transverse Doppler ${relativity.transverseDopplerKmS.toFixed(3)} km/s, precession ${relativity.precessionArcminPerOrbit.toFixed(2)}′ per orbit` : '';
-  const where = siteHours.map((s) => `${s.site} ${s.minHours.toFixed(1)}–${s.maxHours.toFixed(1)} h per night${s.blocked ? ` (on the night itself it ${s.blocked})` : ''}`).join('; ');
-  const details = { sigmaDays, band, sites: siteHours, radialVelocityRateKmSPerDay: rvRate, skyRateMasPerDay: skyRate, samplingDays, relativity };
+  const rel = relativity
+    ? `; gravitational redshift ${relativity.gravitationalRedshiftKmS.toFixed(3)} km/s, transverse Doppler ${relativity.transverseDopplerKmS.toFixed(3)} km/s, precession ${relativity.precessionArcminPerOrbit.toFixed(2)}′ per orbit`
+    : '';
+  const where = siteHours
+    .map(
+      (s) =>
+        `${s.site} ${s.minHours.toFixed(1)}–${s.maxHours.toFixed(1)} h per night${s.blocked ? ` (on the night itself it ${s.blocked})` : ''}`,
+    )
+    .join('; ');
+  const details = {
+    sigmaDays,
+    band,
+    sites: siteHours,
+    radialVelocityRateKmSPerDay: rvRate,
+    skyRateMasPerDay: skyRate,
+    samplingDays,
+    relativity,
+  };
   const out: Flag[] = [];
   if (seen.length === 0) {
     const why = siteHours.map((s) => `at ${s.site} it ${s.blocked ?? 'has no window'}`).join('; ');
-    out.push({ kind: 'periapsis-unobservable', target: name, date, daysAhead, reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, but no campaign site can observe it in that window: ${why}.`, periapsis: details });
+    out.push({
+      kind: 'periapsis-unobservable',
+      target: name,
+      date,
+      daysAhead,
+      reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, but no campaign site can observe it in that window: ${why}.`,
+      periapsis: details,
+    });
   }
-  out.push({ kind: 'periapsis-ahead', target: name, date, daysAhead, reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} days ahead (${band}). Observable: ${where}. Its ${rates}${rel}.`, periapsis: details });
+  out.push({
+    kind: 'periapsis-ahead',
+    target: name,
+    date,
+    daysAhead,
+    reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} days ahead (${band}). Observable: ${where}. Its ${rates}${rel}.`,
+    periapsis: details,
+  });
   return out;
 }
 
-function blendFlags(a: FlagTarget, b: FlagTarget | null, now: number, horizon: number, resolution: number): Flag[] {
-  const oa = a.target.orbit!, ob = b?.target.orbit ?? null;
+function blendFlags(
+  a: FlagTarget,
+  b: FlagTarget | null,
+  now: number,
+  horizon: number,
+  resolution: number,
+): Flag[] {
+  const oa = a.target.orbit!,
+    ob = b?.target.orbit ?? null;
   const period = Math.min(oa.periodDays, ob?.periodDays ?? Infinity);
   const step = Math.min(5, Math.max(0.25, period / 2000));
   const n = Math.ceil(horizon / step) + 1;
   const jd = Float64Array.from({ length: n }, (_, i) => now + (i * horizon) / (n - 1));
-  const pa = predictBatch(oa, jd), pb = ob ? predictBatch(ob, jd) : null;
-  const sepAt = (i: number) => Math.hypot(pa.dRaMas[i]! - (pb ? pb.dRaMas[i]! : 0), pa.dDecMas[i]! - (pb ? pb.dDecMas[i]! : 0));
+  const pa = predictBatch(oa, jd),
+    pb = ob ? predictBatch(ob, jd) : null;
+  const sepAt = (i: number) =>
+    Math.hypot(
+      pa.dRaMas[i]! - (pb ? pb.dRaMas[i]! : 0),
+      pa.dDecMas[i]! - (pb ? pb.dDecMas[i]! : 0),
+    );
   const sep = (t: number) => {
-    const x = predictBatch(oa, Float64Array.of(t)), y = ob ? predictBatch(ob, Float64Array.of(t)) : null;
-    return Math.hypot(x.dRaMas[0]! - (y ? y.dRaMas[0]! : 0), x.dDecMas[0]! - (y ? y.dDecMas[0]! : 0));
+    const x = predictBatch(oa, Float64Array.of(t)),
+      y = ob ? predictBatch(ob, Float64Array.of(t)) : null;
+    return Math.hypot(
+      x.dRaMas[0]! - (y ? y.dRaMas[0]! : 0),
+      x.dDecMas[0]! - (y ? y.dDecMas[0]! : 0),
+    );
   };
   let closest = Infinity;
   for (let i = 0; i < n; i++) closest = Math.min(closest, sepAt(i));
@@ -200,8 +321,10 @@ function blendFlags(a: FlagTarget, b: FlagTarget | null, now: number, horizon: n
   const other = b ? b.target.name : `the primary of ${a.system}`;
   return intervalsWhere((t) => sep(t) < resolution, now, now + horizon, step, 0.01).map((iv) => {
     let min = Infinity;
-    for (let k = 0; k <= 50; k++) min = Math.min(min, sep(iv.startJd + ((iv.endJd - iv.startJd) * k) / 50));
-    const start = jdToIso(iv.startJd), end = jdToIso(iv.endJd);
+    for (let k = 0; k <= 50; k++)
+      min = Math.min(min, sep(iv.startJd + ((iv.endJd - iv.startJd) * k) / 50));
+    const start = jdToIso(iv.startJd),
+      end = jdToIso(iv.endJd);
     return {
       kind: 'blend-risk' as const,
       target: a.target.name,
@@ -212,4 +335,3 @@ function blendFlags(a: FlagTarget, b: FlagTarget | null, now: number, horizon: n
     };
   });
 }
-

@@ -20,7 +20,12 @@ import type { Target } from '../sky/target.ts';
 import type { Limit } from '../sky/windows.ts';
 
 /** Why a target cannot be observed at an edge (the sky engine's limits; darkness never occurs on the grid). */
-export const REASON_CODES = ['altitude', 'horizon-mask', 'sun-avoidance', 'moon'] as const satisfies readonly Limit[];
+export const REASON_CODES = [
+  'altitude',
+  'horizon-mask',
+  'sun-avoidance',
+  'moon',
+] as const satisfies readonly Limit[];
 export type ReasonCode = (typeof REASON_CODES)[number];
 const CODE: Record<string, number> = Object.fromEntries(REASON_CODES.map((r, i) => [r, i + 1]));
 
@@ -67,7 +72,12 @@ export interface TargetGrid {
  * The night's grid.
  * @param slotMinutes slot length, minutes, [1, 30]
  */
-export function nightGrid(site: Site, constraints: Constraints, date: string, slotMinutes: number): NightGrid {
+export function nightGrid(
+  site: Site,
+  constraints: Constraints,
+  date: string,
+  slotMinutes: number,
+): NightGrid {
   const span = nightSpan(site, date);
   const frame = nightFrame(site, span, 1);
   const dark = darknessFast(frame, constraints.sunLimitDeg);
@@ -85,18 +95,40 @@ export function nightGrid(site: Site, constraints: Constraints, date: string, sl
   });
   const darkHours = dark.reduce((h, d) => h + (d.endJd - d.startJd) * 24, 0);
   const n = edges.length;
-  const lastRad = new Float64Array(n), sun = new Float64Array(3 * n), moon = new Float64Array(3 * n), moonUp = new Uint8Array(n);
+  const lastRad = new Float64Array(n),
+    sun = new Float64Array(3 * n),
+    moon = new Float64Array(3 * n),
+    moonUp = new Uint8Array(n);
   for (let i = 0; i < n; i++) {
     const jd = edges[i]!;
     lastRad[i] = lastAt(frame, jd);
-    const sv = sunAt(frame, jd), mv = moonAt(frame, jd);
+    const sv = sunAt(frame, jd),
+      mv = moonAt(frame, jd);
     sun.set(sv, 3 * i);
     moon.set(mv, 3 * i);
     const h = lastRad[i]! - Math.atan2(mv[1], mv[0]);
-    moonUp[i] = frame.sinLat * mv[2] + frame.cosLat * Math.hypot(mv[0], mv[1]) * Math.cos(h) > 0 ? 1 : 0;
+    moonUp[i] =
+      frame.sinLat * mv[2] + frame.cosLat * Math.hypot(mv[0], mv[1]) * Math.cos(h) > 0 ? 1 : 0;
   }
-  const sinAltitudeLimit = Math.sin(trueAltitudeDeg(constraints.altitudeLimitDeg, frame.refractionScale) * DEG);
-  return { site, constraints, date, slotMinutes, frame, edgeJd: Float64Array.from(edges), run: Int32Array.from(run), lastRad, sun, moon, moonUp, sinAltitudeLimit, dark, darkHours };
+  const sinAltitudeLimit = Math.sin(
+    trueAltitudeDeg(constraints.altitudeLimitDeg, frame.refractionScale) * DEG,
+  );
+  return {
+    site,
+    constraints,
+    date,
+    slotMinutes,
+    frame,
+    edgeJd: Float64Array.from(edges),
+    run: Int32Array.from(run),
+    lastRad,
+    sun,
+    moon,
+    moonUp,
+    sinAltitudeLimit,
+    dark,
+    darkHours,
+  };
 }
 
 /**
@@ -127,12 +159,20 @@ export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
     let code = 0;
     if (sinAlt < grid.sinAltitudeLimit) code = CODE.altitude!;
     else if (c.mask.length > 0) {
-      let az = Math.atan2(-ft.cosDec * Math.sin(h), f.cosLat * ft.sinDec - f.sinLat * ft.cosDec * ch) / DEG;
+      let az =
+        Math.atan2(-ft.cosDec * Math.sin(h), f.cosLat * ft.sinDec - f.sinLat * ft.cosDec * ch) /
+        DEG;
       if (az < 0) az += 360;
       if (appAlt < maskAltitudeDeg(c.mask, az)) code = CODE['horizon-mask']!;
     }
-    if (code === 0 && sun[3 * i]! * qx + sun[3 * i + 1]! * qy + sun[3 * i + 2]! * qz > cosSun) code = CODE['sun-avoidance']!;
-    if (code === 0 && moonUp[i] && moon[3 * i]! * qx + moon[3 * i + 1]! * qy + moon[3 * i + 2]! * qz > cosMoon) code = CODE.moon!;
+    if (code === 0 && sun[3 * i]! * qx + sun[3 * i + 1]! * qy + sun[3 * i + 2]! * qz > cosSun)
+      code = CODE['sun-avoidance']!;
+    if (
+      code === 0 &&
+      moonUp[i] &&
+      moon[3 * i]! * qx + moon[3 * i + 1]! * qy + moon[3 * i + 2]! * qz > cosMoon
+    )
+      code = CODE.moon!;
     if (code === 0) {
       x[i] = airmass(c.airmassFormula, trueAlt, appAlt);
       if (!Number.isFinite(x[i])) code = CODE.altitude!;
@@ -145,9 +185,11 @@ export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
     okRun[i] = ok[i] ? 1 + (i + 1 < n && grid.run[i + 1] === grid.run[i] ? okRun[i + 1]! : 0) : 0;
   }
   const inverseAirmassSum = new Float64Array(n + 1);
-  for (let i = 0; i < n; i++) inverseAirmassSum[i + 1] = inverseAirmassSum[i]! + (ok[i] ? 1 / x[i]! : 0);
+  for (let i = 0; i < n; i++)
+    inverseAirmassSum[i + 1] = inverseAirmassSum[i]! + (ok[i] ? 1 / x[i]! : 0);
   const sm = sunAt(f, f.midJd);
-  const sunSeparationDeg = Math.acos(Math.max(-1, Math.min(1, sm[0] * qx + sm[1] * qy + sm[2] * qz))) / DEG;
+  const sunSeparationDeg =
+    Math.acos(Math.max(-1, Math.min(1, sm[0] * qx + sm[1] * qy + sm[2] * qz))) / DEG;
   return { ok, reason, airmass: x, altitudeDeg: alt, sunSeparationDeg, okRun, inverseAirmassSum };
 }
 

@@ -1,9 +1,57 @@
 /** Planning: flags, the season plan and the night schedule. Pure functions over the orbit and sky engines. */
 export { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
 export { MEASUREMENT_KINDS, type CandidateInput, type MeasurementKind } from './candidates.ts';
-export { FLAG_KINDS, computeFlags, hoursAround, type Flag, type FlagKind, type FlagOptions, type FlagTarget, type SiteHours } from './flags.ts';
+export {
+  FLAG_KINDS,
+  computeFlags,
+  hoursAround,
+  type Flag,
+  type FlagKind,
+  type FlagOptions,
+  type FlagTarget,
+  type SiteHours,
+} from './flags.ts';
 export { nightGrid, targetGrid, REASON_CODES, type NightGrid, type TargetGrid } from './grid.ts';
-export { addInformation, informationModel, jacobians, posteriorCovariance, uncertainties, varianceReduction, type InformationModel, type Precision, type Uncertainties } from './information.ts';
-export { AUTO_EXACT_ITEMS, SCHEDULE_METHODS, scheduleNight, scheduleOnGrid, type LeftOutBlock, type NightSchedule, type ScheduleMethod, type ScheduleOptions, type ScheduleRequest, type ScheduledBlock, type KeptBlock } from './night-schedule.ts';
-export { planSeason, type PlannedEpoch, type SeasonOptions, type SeasonPlan, type SeasonSite, type SeasonTarget, type TargetPlan, type UnmetGoal } from './season-plan.ts';
-export { EXACT_MAX_ITEMS, solveExact, solveGreedy, totalValue, type Placement, type SolverItem, type SolverProblem } from './solver.ts';
+export {
+  addInformation,
+  informationModel,
+  jacobians,
+  posteriorCovariance,
+  uncertainties,
+  varianceReduction,
+  type InformationModel,
+  type Precision,
+  type Uncertainties,
+} from './information.ts';
+export {
+  AUTO_EXACT_ITEMS,
+  SCHEDULE_METHODS,
+  scheduleNight,
+  scheduleOnGrid,
+  type LeftOutBlock,
+  type NightSchedule,
+  type ScheduleMethod,
+  type ScheduleOptions,
+  type ScheduleRequest,
+  type ScheduledBlock,
+  type KeptBlock,
+} from './night-schedule.ts';
+export {
+  planSeason,
+  type PlannedEpoch,
+  type SeasonOptions,
+  type SeasonPlan,
+  type SeasonSite,
+  type SeasonTarget,
+  type TargetPlan,
+  type UnmetGoal,
+} from './season-plan.ts';
+export {
+  EXACT_MAX_ITEMS,
+  solveExact,
+  solveGreedy,
+  totalValue,
+  type Placement,
+  type SolverItem,
+  type SolverProblem,
+} from './solver.ts';

@@ -6,7 +6,13 @@
  * it is what a least-squares refit would report when the orbit is already well determined.
  */
 import { Matrix, inverse } from 'ml-matrix';
-import { getParameter, predictBatch, withParameter, type CovarianceParameter, type Orbit } from '../orbit/index.ts';
+import {
+  getParameter,
+  predictBatch,
+  withParameter,
+  type CovarianceParameter,
+  type Orbit,
+} from '../orbit/index.ts';
 import type { MeasurementKind } from './candidates.ts';
 
 export interface Precision {
@@ -51,7 +57,9 @@ export function informationModel(orbit: Orbit): InformationModel {
   }
   const n = parameters.length;
   // A parameter held exactly (σ = 0) would make the covariance singular: give it a vanishing variance instead.
-  for (let i = 0; i < n; i++) if (!(cov[i]![i]! > 0)) cov[i]![i] = 1e-12 * Math.max(1, Math.abs(getParameter(orbit, parameters[i]!))) ** 2;
+  for (let i = 0; i < n; i++)
+    if (!(cov[i]![i]! > 0))
+      cov[i]![i] = 1e-12 * Math.max(1, Math.abs(getParameter(orbit, parameters[i]!))) ** 2;
   const prior = Float64Array.from(inverse(new Matrix(cov)).to1DArray());
   const g = new Float64Array(n);
   let any = false;
@@ -92,9 +100,16 @@ export function jacobians(model: InformationModel, jd: Float64Array): Float64Arr
 }
 
 /** Add one measurement's information Jᵀ W J into `info` (n×n, row-major). */
-export function addInformation(info: Float64Array, jac: Float64Array, n: number, kind: MeasurementKind, precision: Precision): void {
+export function addInformation(
+  info: Float64Array,
+  jac: Float64Array,
+  n: number,
+  kind: MeasurementKind,
+  precision: Precision,
+): void {
   const rows = kind === 'astrometry' ? [0, 1] : [2];
-  const w = kind === 'astrometry' ? 1 / precision.astrometryMas ** 2 : 1 / precision.spectroscopyKmS ** 2;
+  const w =
+    kind === 'astrometry' ? 1 / precision.astrometryMas ** 2 : 1 / precision.spectroscopyKmS ** 2;
   for (const r of rows) {
     for (let a = 0; a < n; a++) {
       const ja = jac[r * n + a]! * w;
@@ -133,21 +148,35 @@ export function uncertainties(model: InformationModel, added: Float64Array | nul
  * How much one more measurement would tighten the orbit, given what is already planned: the sum of
  * the fractional variance reductions of T and of the mass (0 … 2; larger is better).
  */
-export function gain(model: InformationModel, planned: Float64Array, jac: Float64Array, kind: MeasurementKind, precision: Precision, before: Uncertainties): number {
+export function gain(
+  model: InformationModel,
+  planned: Float64Array,
+  jac: Float64Array,
+  kind: MeasurementKind,
+  precision: Precision,
+  before: Uncertainties,
+): number {
   const n = model.parameters.length;
   const trial = Float64Array.from(planned);
   addInformation(trial, jac, n, kind, precision);
   const after = uncertainties(model, trial);
   let g = 0;
-  if (before.periapsisDays && after.periapsisDays !== null) g += 1 - (after.periapsisDays / before.periapsisDays) ** 2;
-  if (before.massFraction && after.massFraction !== null) g += 1 - (after.massFraction / before.massFraction) ** 2;
+  if (before.periapsisDays && after.periapsisDays !== null)
+    g += 1 - (after.periapsisDays / before.periapsisDays) ** 2;
+  if (before.massFraction && after.massFraction !== null)
+    g += 1 - (after.massFraction / before.massFraction) ** 2;
   return g;
 }
 
 /** Covariance after adding information (n×n, row-major). */
-export function posteriorCovariance(model: InformationModel, added: Float64Array | null): Float64Array {
+export function posteriorCovariance(
+  model: InformationModel,
+  added: Float64Array | null,
+): Float64Array {
   const n = model.parameters.length;
-  const rows = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => model.prior[i * n + j]! + (added ? added[i * n + j]! : 0)));
+  const rows = Array.from({ length: n }, (_, i) =>
+    Array.from({ length: n }, (_, j) => model.prior[i * n + j]! + (added ? added[i * n + j]! : 0)),
+  );
   return Float64Array.from(inverse(new Matrix(rows)).to1DArray());
 }
 
@@ -155,7 +184,14 @@ export function posteriorCovariance(model: InformationModel, added: Float64Array
  * Variance of gᵀθ removed by one more measurement, for a covariance C: vᵀ S⁻¹ v with
  * v = J C g and S = W⁻¹ + J C Jᵀ (the Kalman update; at most 2 rows, so no matrix inverse).
  */
-export function varianceReduction(cov: Float64Array, n: number, jac: Float64Array, kind: MeasurementKind, precision: Precision, g: Float64Array): number {
+export function varianceReduction(
+  cov: Float64Array,
+  n: number,
+  jac: Float64Array,
+  kind: MeasurementKind,
+  precision: Precision,
+  g: Float64Array,
+): number {
   const rows = kind === 'astrometry' ? [0, 1] : [2];
   const r = rows.length;
   const JC: Float64Array[] = rows.map((row) => {
@@ -168,8 +204,14 @@ export function varianceReduction(cov: Float64Array, n: number, jac: Float64Arra
     return out;
   });
   const v = JC.map((u) => u.reduce((s, x, b) => s + x * g[b]!, 0));
-  const noise = kind === 'astrometry' ? precision.astrometryMas ** 2 : precision.spectroscopyKmS ** 2;
-  const S = rows.map((_, i) => rows.map((row2, j) => JC[i]!.reduce((s, x, b) => s + x * jac[row2 * n + b]!, 0) + (i === j ? noise : 0)));
+  const noise =
+    kind === 'astrometry' ? precision.astrometryMas ** 2 : precision.spectroscopyKmS ** 2;
+  const S = rows.map((_, i) =>
+    rows.map(
+      (row2, j) =>
+        JC[i]!.reduce((s, x, b) => s + x * jac[row2 * n + b]!, 0) + (i === j ? noise : 0),
+    ),
+  );
   if (r === 1) return v[0]! ** 2 / S[0]![0]!;
   const det = S[0]![0]! * S[1]![1]! - S[0]![1]! * S[1]![0]!;
   if (!(det > 0)) return 0;

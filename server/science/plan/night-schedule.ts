@@ -13,10 +13,32 @@ import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
 import { parseEpoch } from '../time/index.ts';
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
-import { checkCandidates, fitsAt, slotsFor, valueAt, type Candidate, type MeasurementKind } from './candidates.ts';
-import { dominantReason, nightGrid, reasonWords, REASON_CODES, targetGrid, type NightGrid, type TargetGrid } from './grid.ts';
+import {
+  checkCandidates,
+  fitsAt,
+  slotsFor,
+  valueAt,
+  type Candidate,
+  type MeasurementKind,
+} from './candidates.ts';
+import {
+  dominantReason,
+  nightGrid,
+  reasonWords,
+  REASON_CODES,
+  targetGrid,
+  type NightGrid,
+  type TargetGrid,
+} from './grid.ts';
 import { numberIn } from './checks.ts';
-import { EXACT_MAX_ITEMS, solveExact, solveGreedy, totalValue, type Placement, type SolverItem } from './solver.ts';
+import {
+  EXACT_MAX_ITEMS,
+  solveExact,
+  solveGreedy,
+  totalValue,
+  type Placement,
+  type SolverItem,
+} from './solver.ts';
 
 export const SCHEDULE_METHODS = ['auto', 'exact', 'heuristic'] as const;
 export type ScheduleMethod = (typeof SCHEDULE_METHODS)[number];
@@ -106,28 +128,52 @@ interface Pin {
 }
 
 /** Schedule one night at a site. @throws InputError naming the first bad field. */
-export function scheduleNight(site: Site, constraints: Constraints, date: string, targets: readonly Target[], request: ScheduleRequest): NightSchedule {
-  const slotMinutes = request.slotMinutes === undefined ? 5 : numberIn('slotMinutes', request.slotMinutes, 1, 30);
+export function scheduleNight(
+  site: Site,
+  constraints: Constraints,
+  date: string,
+  targets: readonly Target[],
+  request: ScheduleRequest,
+): NightSchedule {
+  const slotMinutes =
+    request.slotMinutes === undefined ? 5 : numberIn('slotMinutes', request.slotMinutes, 1, 30);
   const grid = nightGrid(site, constraints, date, slotMinutes);
   return scheduleOnGrid(grid, targets, request, new Map());
 }
 
 /** Schedule on a prepared grid, reusing target grids cached by target index. */
-export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], request: ScheduleRequest, cache: Map<number, TargetGrid>): NightSchedule {
-  const slewMinutes = request.slewMinutes === undefined ? 8 : numberIn('slewMinutes', request.slewMinutes, 0, 120);
-  const sameTargetMinutes = request.sameTargetMinutes === undefined ? 3 : numberIn('sameTargetMinutes', request.sameTargetMinutes, 0, 120);
+export function scheduleOnGrid(
+  grid: NightGrid,
+  targets: readonly Target[],
+  request: ScheduleRequest,
+  cache: Map<number, TargetGrid>,
+): NightSchedule {
+  const slewMinutes =
+    request.slewMinutes === undefined ? 8 : numberIn('slewMinutes', request.slewMinutes, 0, 120);
+  const sameTargetMinutes =
+    request.sameTargetMinutes === undefined
+      ? 3
+      : numberIn('sameTargetMinutes', request.sameTargetMinutes, 0, 120);
   const method = request.method ?? 'auto';
-  if (!(SCHEDULE_METHODS as readonly string[]).includes(method)) throw new InputError('method', method, `must be one of ${SCHEDULE_METHODS.join(', ')}`);
+  if (!(SCHEDULE_METHODS as readonly string[]).includes(method))
+    throw new InputError('method', method, `must be one of ${SCHEDULE_METHODS.join(', ')}`);
   const gridOf = (i: number) => {
     let g = cache.get(i);
     if (!g) cache.set(i, (g = targetGrid(grid, targets[i]!)));
     return g;
   };
-  const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => ({ ...c, slots: slotsFor(c.durationMinutes, grid), grid: gridOf(c.targetIndex) }));
+  const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => ({
+    ...c,
+    slots: slotsFor(c.durationMinutes, grid),
+    grid: gridOf(c.targetIndex),
+  }));
   const byId = new Map(candidates.map((c) => [c.id, c]));
   const removed = readRemoved(request.remove, byId);
   const gapDays = (a: number, b: number) => (a === b ? sameTargetMinutes : slewMinutes) / 1440;
-  const kept = (request.kept ?? []).map((k) => ({ ...k, targetIndex: k.target === null ? -1 : targets.findIndex((t) => t.name === k.target) }));
+  const kept = (request.kept ?? []).map((k) => ({
+    ...k,
+    targetIndex: k.target === null ? -1 : targets.findIndex((t) => t.name === k.target),
+  }));
   const repeats = new Map<Candidate, string>();
   for (const c of candidates) {
     const same = kept.find((k) => k.counts && k.targetIndex === c.targetIndex && k.kind === c.kind);
@@ -139,17 +185,23 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
       const gap = k.targetIndex < 0 ? slewMinutes / 1440 : gapDays(c.targetIndex, k.targetIndex);
       return !(endJd + gap <= k.startJd + 1e-9 || k.endJd + gap <= startJd + 1e-9);
     }) ?? null;
-  const pins = readPins(request.pins, byId, removed, grid, repeats, (c, s) => clearOfKept(c, grid.edgeJd[s]!, grid.edgeJd[s + c.slots]!));
+  const pins = readPins(request.pins, byId, removed, grid, repeats, (c, s) =>
+    clearOfKept(c, grid.edgeJd[s]!, grid.edgeJd[s + c.slots]!),
+  );
   const jd = grid.edgeJd;
   const clearOfPins = (c: Candidate, s: number) =>
     pins.every((p) => {
-      const e = s + c.slots, pe = p.start + p.candidate.slots;
+      const e = s + c.slots,
+        pe = p.start + p.candidate.slots;
       if (p.candidate === c) return false;
-      if (jd[e]! + gapDays(c.targetIndex, p.candidate.targetIndex) <= jd[p.start]! + 1e-9) return true;
+      if (jd[e]! + gapDays(c.targetIndex, p.candidate.targetIndex) <= jd[p.start]! + 1e-9)
+        return true;
       return jd[pe]! + gapDays(p.candidate.targetIndex, c.targetIndex) <= jd[s]! + 1e-9;
     });
 
-  const free = candidates.filter((c) => !removed.has(c.id) && !repeats.has(c) && !pins.some((p) => p.candidate === c));
+  const free = candidates.filter(
+    (c) => !removed.has(c.id) && !repeats.has(c) && !pins.some((p) => p.candidate === c),
+  );
   const everFits = new Map<Candidate, boolean>();
   const items: SolverItem[] = free.map((c) => {
     const starts: number[] = [];
@@ -163,12 +215,22 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
       values.push(valueAt(c, i));
     }
     everFits.set(c, fits);
-    return { slots: c.slots, group: c.targetIndex, starts: Int32Array.from(starts), values: Float64Array.from(values) };
+    return {
+      slots: c.slots,
+      group: c.targetIndex,
+      starts: Int32Array.from(starts),
+      values: Float64Array.from(values),
+    };
   });
   const schedulable = items.filter((it) => it.starts.length > 0).length;
   let used: 'exact' | 'heuristic';
   if (method === 'exact') {
-    if (schedulable > EXACT_MAX_ITEMS) throw new InputError('method', method, `solves at most ${EXACT_MAX_ITEMS} schedulable candidates (this night has ${schedulable}); use "auto" or "heuristic"`);
+    if (schedulable > EXACT_MAX_ITEMS)
+      throw new InputError(
+        'method',
+        method,
+        `solves at most ${EXACT_MAX_ITEMS} schedulable candidates (this night has ${schedulable}); use "auto" or "heuristic"`,
+      );
     used = 'exact';
   } else used = method === 'heuristic' || schedulable > AUTO_EXACT_ITEMS ? 'heuristic' : 'exact';
   const problem = { edgeJd: jd, items, gapDays };
@@ -202,7 +264,14 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
   });
   const leftOut = candidates
     .filter((c) => !placed.some((p) => p.c === c))
-    .map((c) => ({ id: c.id, target: c.targetName, kind: c.kind, reason: repeats.get(c) ?? whyLeftOut(c, grid, removed, everFits.get(c) ?? false, pins, placed, kept.length > 0) }));
+    .map((c) => ({
+      id: c.id,
+      target: c.targetName,
+      kind: c.kind,
+      reason:
+        repeats.get(c) ??
+        whyLeftOut(c, grid, removed, everFits.get(c) ?? false, pins, placed, kept.length > 0),
+    }));
   const notes = [PLAN_ADVISORY, ...skyCautions(grid.constraints).slice(1)];
   if (blocks.some((b) => b.laserGuideStar)) notes.push(LASER_GUIDE_STAR_CAUTION);
   return {
@@ -213,7 +282,11 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
     slewMinutes,
     sameTargetMinutes,
     method: used,
-    darkness: grid.dark.map((d) => ({ start: instant(d.startJd, zone), end: instant(d.endJd, zone), hours: (d.endJd - d.startJd) * 24 })),
+    darkness: grid.dark.map((d) => ({
+      start: instant(d.startJd, zone),
+      end: instant(d.endJd, zone),
+      hours: (d.endJd - d.startJd) * 24,
+    })),
     darkHours: grid.darkHours,
     scheduledHours: blocks.reduce((h, b) => h + b.minutes / 60, 0),
     totalValue: totalValue(blocks.map((b) => ({ item: 0, start: 0, end: 0, value: b.value }))),
@@ -225,16 +298,26 @@ export function scheduleOnGrid(grid: NightGrid, targets: readonly Target[], requ
 
 function readRemoved(input: unknown, byId: Map<string, Candidate>): Set<string> {
   if (input === undefined || input === null) return new Set();
-  if (!Array.isArray(input)) throw new InputError('remove', input, 'must be an array of candidate ids');
+  if (!Array.isArray(input))
+    throw new InputError('remove', input, 'must be an array of candidate ids');
   input.forEach((id, k) => {
-    if (typeof id !== 'string' || !byId.has(id)) throw new InputError(`remove.${k}`, id, 'must be the id of a candidate');
+    if (typeof id !== 'string' || !byId.has(id))
+      throw new InputError(`remove.${k}`, id, 'must be the id of a candidate');
   });
   return new Set(input as string[]);
 }
 
-function readPins(input: unknown, byId: Map<string, Candidate>, removed: Set<string>, grid: NightGrid, repeats: Map<Candidate, string>, clash: (c: Candidate, s: number) => KeptBlock | null): Pin[] {
+function readPins(
+  input: unknown,
+  byId: Map<string, Candidate>,
+  removed: Set<string>,
+  grid: NightGrid,
+  repeats: Map<Candidate, string>,
+  clash: (c: Candidate, s: number) => KeptBlock | null,
+): Pin[] {
   if (input === undefined || input === null) return [];
-  if (!Array.isArray(input)) throw new InputError('pins', input, 'must be an array of { id, start }');
+  if (!Array.isArray(input))
+    throw new InputError('pins', input, 'must be an array of { id, start }');
   const jd = grid.edgeJd;
   const half = grid.slotMinutes / 2880;
   const pins: Pin[] = input.map((raw: unknown, k) => {
@@ -243,47 +326,80 @@ function readPins(input: unknown, byId: Map<string, Candidate>, removed: Set<str
     const c = typeof r.id === 'string' ? byId.get(r.id) : undefined;
     if (!c) throw new InputError(`${p}.id`, r.id, 'must be the id of a candidate');
     if (removed.has(c.id)) throw new InputError(`${p}.id`, r.id, 'is also in "remove"');
-    if (repeats.has(c)) throw new InputError(`${p}.id`, r.id, `cannot be pinned: its target ${repeats.get(c)}`);
+    if (repeats.has(c))
+      throw new InputError(`${p}.id`, r.id, `cannot be pinned: its target ${repeats.get(c)}`);
     const t = parseEpoch(r.start, `${p}.start`);
     let s = -1;
-    for (let i = 0; i < jd.length; i++) if (Math.abs(jd[i]! - t) <= half + 1e-9) s = s < 0 || Math.abs(jd[i]! - t) < Math.abs(jd[s]! - t) ? i : s;
-    if (s < 0) throw new InputError(`${p}.start`, r.start, `is not inside darkness at ${grid.site.name} on the night of ${grid.date}: a block may only start in the dark`);
+    for (let i = 0; i < jd.length; i++)
+      if (Math.abs(jd[i]! - t) <= half + 1e-9)
+        s = s < 0 || Math.abs(jd[i]! - t) < Math.abs(jd[s]! - t) ? i : s;
+    if (s < 0)
+      throw new InputError(
+        `${p}.start`,
+        r.start,
+        `is not inside darkness at ${grid.site.name} on the night of ${grid.date}: a block may only start in the dark`,
+      );
     if (s + c.slots >= jd.length || !fitsAt(c, s)) {
       const bad = firstBroken(c, s);
-      throw new InputError(`${p}.start`, r.start, `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : reasonWords(bad, grid.constraints)}${c.maxAirmass !== null && bad === null ? ` or above its airmass limit ${c.maxAirmass}` : ''}`);
+      throw new InputError(
+        `${p}.start`,
+        r.start,
+        `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : reasonWords(bad, grid.constraints)}${c.maxAirmass !== null && bad === null ? ` or above its airmass limit ${c.maxAirmass}` : ''}`,
+      );
     }
     const over = clash(c, s);
-    if (over) throw new InputError(`${p}.start`, r.start, `would put ${c.id} over ${over.label} (or inside the changeover gap around it), which stays on the night`);
+    if (over)
+      throw new InputError(
+        `${p}.start`,
+        r.start,
+        `would put ${c.id} over ${over.label} (or inside the changeover gap around it), which stays on the night`,
+      );
     return { candidate: c, start: s };
   });
   pins.sort((a, b) => a.start - b.start);
   for (let k = 1; k < pins.length; k++) {
-    const a = pins[k - 1]!, b = pins[k]!;
-    if (a.candidate === b.candidate) throw new InputError('pins', b.candidate.id, 'pins the same block twice');
-    if (a.start + a.candidate.slots > b.start) throw new InputError('pins', b.candidate.id, `overlaps the pinned block ${a.candidate.id}`);
+    const a = pins[k - 1]!,
+      b = pins[k]!;
+    if (a.candidate === b.candidate)
+      throw new InputError('pins', b.candidate.id, 'pins the same block twice');
+    if (a.start + a.candidate.slots > b.start)
+      throw new InputError('pins', b.candidate.id, `overlaps the pinned block ${a.candidate.id}`);
   }
   return pins;
 }
 
 function firstBroken(c: Candidate, s: number): (typeof REASON_CODES)[number] | null {
-  for (let j = s; j <= s + c.slots && j < c.grid.ok.length; j++) if (!c.grid.ok[j]) return REASON_CODES[c.grid.reason[j]! - 1]!;
+  for (let j = s; j <= s + c.slots && j < c.grid.ok.length; j++)
+    if (!c.grid.ok[j]) return REASON_CODES[c.grid.reason[j]! - 1]!;
   return null;
 }
 
-function whyLeftOut(c: Candidate, grid: NightGrid, removed: Set<string>, everFits: boolean, pins: Pin[], placed: { c: Candidate; start: number; pinned: boolean }[], anyKept: boolean): string {
+function whyLeftOut(
+  c: Candidate,
+  grid: NightGrid,
+  removed: Set<string>,
+  everFits: boolean,
+  pins: Pin[],
+  placed: { c: Candidate; start: number; pinned: boolean }[],
+  anyKept: boolean,
+): string {
   if (removed.has(c.id)) return 'removed by the user';
-  if (grid.edgeJd.length === 0) return `no darkness (${grid.constraints.darknessLabel}) at ${grid.site.name} on this night`;
+  if (grid.edgeJd.length === 0)
+    return `no darkness (${grid.constraints.darknessLabel}) at ${grid.site.name} on this night`;
   if (!everFits) {
     const r = dominantReason(c.grid, grid.constraints);
-    if (r !== null) return `${c.targetName} ${reasonWords(r, grid.constraints)}${r === 'sun-avoidance' ? ` (${c.grid.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''} on this night`;
+    if (r !== null)
+      return `${c.targetName} ${reasonWords(r, grid.constraints)}${r === 'sun-avoidance' ? ` (${c.grid.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''} on this night`;
     let longest = 0;
     for (let i = 0; i < c.grid.okRun.length; i++) longest = Math.max(longest, c.grid.okRun[i]!);
-    const hours = Math.max(0, longest - 1) * grid.slotMinutes / 60;
-    if (longest < c.slots + 1) return `its longest window tonight (${hours.toFixed(2)} h) is shorter than the block (${c.durationMinutes} min)`;
+    const hours = (Math.max(0, longest - 1) * grid.slotMinutes) / 60;
+    if (longest < c.slots + 1)
+      return `its longest window tonight (${hours.toFixed(2)} h) is shorter than the block (${c.durationMinutes} min)`;
     return `${c.targetName} never stays below the block's own airmass limit ${c.maxAirmass} for ${c.durationMinutes} min`;
   }
   const jd = grid.edgeJd;
-  let lo = Infinity, hi = -Infinity;
+  let lo = Infinity,
+    hi = -Infinity;
   for (let i = 0; i + c.slots < jd.length; i++) {
     if (fitsAt(c, i)) {
       lo = Math.min(lo, i);
@@ -292,8 +408,10 @@ function whyLeftOut(c: Candidate, grid: NightGrid, removed: Set<string>, everFit
   }
   const rivals = placed.filter((p) => p.start <= hi && p.start + p.c.slots >= lo);
   const pinnedRivals = rivals.filter((p) => p.pinned).map((p) => p.c.id);
-  if (rivals.length > 0 && pinnedRivals.length === rivals.length) return `its windows are taken by pinned blocks: ${pinnedRivals.join(', ')}`;
+  if (rivals.length > 0 && pinnedRivals.length === rivals.length)
+    return `its windows are taken by pinned blocks: ${pinnedRivals.join(', ')}`;
   void pins;
-  if (rivals.length === 0 && anyKept) return 'its windows are taken by blocks already stored on the night, which stay';
+  if (rivals.length === 0 && anyKept)
+    return 'its windows are taken by blocks already stored on the night, which stay';
   return `its windows are taken by blocks worth more in total: ${rivals.map((p) => p.c.id).join(', ')}`;
 }

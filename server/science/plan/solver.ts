@@ -55,7 +55,8 @@ export function solveExact(p: SolverProblem): Placement[] {
   // latest[a][b][s]: last edge t with edgeJd[t] ≤ edgeJd[s] − gap(a → b), or −1.
   const latestEdge = (s: number, gap: number): number => {
     const limit = p.edgeJd[s]! - gap + EPS;
-    let lo = -1, hi = s; // edgeJd[lo] ≤ limit < edgeJd[hi]
+    let lo = -1,
+      hi = s; // edgeJd[lo] ≤ limit < edgeJd[hi]
     while (hi - lo > 1) {
       const mid = (lo + hi) >> 1;
       if (p.edgeJd[mid]! <= limit) lo = mid;
@@ -76,7 +77,8 @@ export function solveExact(p: SolverProblem): Placement[] {
       const f = F[slot(mask, last)];
       if (!f) continue;
       const am = new Int32Array(E).fill(-1);
-      let best = -Infinity, at = -1;
+      let best = -Infinity,
+        at = -1;
       for (let t = 0; t < E; t++) {
         if (f[t]! > best + EPS) {
           best = f[t]!;
@@ -123,7 +125,9 @@ export function solveExact(p: SolverProblem): Placement[] {
     }
   }
   // The best final state; ties go to the first found (fewest blocks, lowest indices).
-  let best = 0, bestMask = 0, bestLast = -1;
+  let best = 0,
+    bestMask = 0,
+    bestLast = -1;
   for (let mask = 1; mask < size; mask++) {
     for (let last = 0; last < n; last++) {
       const f = F[slot(mask, last)];
@@ -135,7 +139,9 @@ export function solveExact(p: SolverProblem): Placement[] {
     }
   }
   const out: Placement[] = [];
-  let mask = bestMask, last = bestLast, end = bestLast >= 0 ? argmax[slot(bestMask, bestLast)]![E - 1]! : -1;
+  let mask = bestMask,
+    last = bestLast,
+    end = bestLast >= 0 ? argmax[slot(bestMask, bestLast)]![E - 1]! : -1;
   while (last >= 0) {
     const key = slot(mask, last);
     const j = startOf[key]![end]!;
@@ -156,7 +162,8 @@ class Timeline {
   constructor(private readonly p: SolverProblem) {}
   /** Index at which a block starting at edge s would be inserted. */
   private position(s: number): number {
-    let lo = 0, hi = this.list.length;
+    let lo = 0,
+      hi = this.list.length;
     while (lo < hi) {
       const mid = (lo + hi) >> 1;
       if (this.list[mid]!.start < s) lo = mid + 1;
@@ -167,10 +174,21 @@ class Timeline {
   fits(item: number, s: number): boolean {
     const e = s + this.p.items[item]!.slots;
     const k = this.position(s);
-    const prev = this.list[k - 1], next = this.list[k];
+    const prev = this.list[k - 1],
+      next = this.list[k];
     const jd = this.p.edgeJd;
-    if (prev && jd[prev.end]! + this.p.gapDays(this.p.items[prev.item]!.group, this.p.items[item]!.group) > jd[s]! + EPS) return false;
-    if (next && jd[e]! + this.p.gapDays(this.p.items[item]!.group, this.p.items[next.item]!.group) > jd[next.start]! + EPS) return false;
+    if (
+      prev &&
+      jd[prev.end]! + this.p.gapDays(this.p.items[prev.item]!.group, this.p.items[item]!.group) >
+        jd[s]! + EPS
+    )
+      return false;
+    if (
+      next &&
+      jd[e]! + this.p.gapDays(this.p.items[item]!.group, this.p.items[next.item]!.group) >
+        jd[next.start]! + EPS
+    )
+      return false;
     return true;
   }
   /** Best compatible start of an item, or null. */
@@ -178,7 +196,8 @@ class Timeline {
     const it = this.p.items[item]!;
     let best: { j: number; value: number } | null = null;
     for (let j = 0; j < it.starts.length; j++) {
-      if ((!best || it.values[j]! > best.value + EPS) && this.fits(item, it.starts[j]!)) best = { j, value: it.values[j]! };
+      if ((!best || it.values[j]! > best.value + EPS) && this.fits(item, it.starts[j]!))
+        best = { j, value: it.values[j]! };
     }
     return best;
   }
@@ -200,7 +219,11 @@ class Timeline {
 export function solveGreedy(p: SolverProblem, maxPasses = 6): Placement[] {
   const peak = p.items.map((it) => it.values.reduce((m, v) => Math.max(m, v), 0));
   const base = p.items.map((_, i) => i).filter((i) => p.items[i]!.starts.length > 0);
-  const keys: ((i: number) => number)[] = [(i) => -peak[i]!, (i) => -peak[i]! / p.items[i]!.slots, (i) => p.items[i]!.starts.length];
+  const keys: ((i: number) => number)[] = [
+    (i) => -peak[i]!,
+    (i) => -peak[i]! / p.items[i]!.slots,
+    (i) => p.items[i]!.starts.length,
+  ];
   let best: Placement[] = [];
   for (const key of keys) {
     const order = [...base].sort((a, b) => key(a) - key(b) || peak[b]! - peak[a]! || a - b);
@@ -210,7 +233,12 @@ export function solveGreedy(p: SolverProblem, maxPasses = 6): Placement[] {
   return best;
 }
 
-function improve(p: SolverProblem, order: number[], peak: number[], maxPasses: number): Placement[] {
+function improve(
+  p: SolverProblem,
+  order: number[],
+  peak: number[],
+  maxPasses: number,
+): Placement[] {
   const tl = new Timeline(p);
   const placed = new Map<number, Placement>();
   for (const i of order) {
@@ -237,7 +265,8 @@ function improve(p: SolverProblem, order: number[], peak: number[], maxPasses: n
         improved = true;
         continue;
       }
-      let bestGain = EPS, bestMove: { out: Placement; uj: number; back: number | null } | null = null;
+      let bestGain = EPS,
+        bestMove: { out: Placement; uj: number; back: number | null } | null = null;
       for (const out of [...tl.list]) {
         tl.remove(out);
         const b = tl.bestStart(u);
@@ -257,7 +286,8 @@ function improve(p: SolverProblem, order: number[], peak: number[], maxPasses: n
         tl.remove(bestMove.out);
         placed.delete(bestMove.out.item);
         placed.set(u, tl.insert(u, bestMove.uj));
-        if (bestMove.back !== null) placed.set(bestMove.out.item, tl.insert(bestMove.out.item, bestMove.back));
+        if (bestMove.back !== null)
+          placed.set(bestMove.out.item, tl.insert(bestMove.out.item, bestMove.back));
         improved = true;
       }
     }
@@ -267,7 +297,8 @@ function improve(p: SolverProblem, order: number[], peak: number[], maxPasses: n
 }
 
 function insertBack(tl: Timeline, pl: Placement): Placement {
-  let lo = 0, hi = tl.list.length;
+  let lo = 0,
+    hi = tl.list.length;
   while (lo < hi) {
     const mid = (lo + hi) >> 1;
     if (tl.list[mid]!.start < pl.start) lo = mid + 1;

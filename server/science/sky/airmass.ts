@@ -14,7 +14,11 @@ export type AirmassFormula = (typeof AIRMASS_FORMULAS)[number];
  * @param trueAltDeg true (unrefracted) altitude, degrees
  * @param apparentAltDeg refracted altitude, degrees
  */
-export function airmass(formula: AirmassFormula, trueAltDeg: number, apparentAltDeg: number): number {
+export function airmass(
+  formula: AirmassFormula,
+  trueAltDeg: number,
+  apparentAltDeg: number,
+): number {
   switch (formula) {
     case 'kasten-young': {
       // Kasten & Young, Applied Optics 28, 4735 (1989): z is the true zenith distance, degrees.
@@ -43,8 +47,13 @@ export function airmass(formula: AirmassFormula, trueAltDeg: number, apparentAlt
  * The apparent altitude (degrees) at which a formula reaches `maxAirmass` (> 1): the lowest usable
  * altitude for that airmass limit. Found by bisection on the true altitude (airmass falls as it rises).
  */
-export function altitudeForAirmass(formula: AirmassFormula, maxAirmass: number, refractionScale: number): number {
-  let lo = -1, hi = 90;
+export function altitudeForAirmass(
+  formula: AirmassFormula,
+  maxAirmass: number,
+  refractionScale: number,
+): number {
+  let lo = -1,
+    hi = 90;
   for (let i = 0; i < 60; i++) {
     const mid = (lo + hi) / 2;
     const x = airmass(formula, mid, apparentAltitudeDeg(mid, refractionScale));

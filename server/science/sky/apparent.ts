@@ -7,7 +7,16 @@
  * site's weather. Gravitational light deflection by the Sun (under 0.03″ beyond 15° from it) and
  * polar motion are left out.
  */
-import { AstroTime, BaryState, Body, Horizon, ObserverState, Rotation_EQJ_EQD, SiderealTime, type RotationMatrix } from 'astronomy-engine';
+import {
+  AstroTime,
+  BaryState,
+  Body,
+  Horizon,
+  ObserverState,
+  Rotation_EQJ_EQD,
+  SiderealTime,
+  type RotationMatrix,
+} from 'astronomy-engine';
 import { AU_M, C_M_PER_S, DEG, JD_J2000, SECONDS_PER_DAY } from '../constants.ts';
 import { apparentAltitudeDeg, refractionScale } from './refraction.ts';
 import type { Site } from './site.ts';
@@ -26,7 +35,11 @@ export function astroTime(jdUtc: number): AstroTime {
 /** Apply aberration for an observer velocity (units of c) to a unit vector: first order, renormalised. */
 export function aberrate(p: Vec3, beta: Vec3): Vec3 {
   const pb = p[0] * beta[0] + p[1] * beta[1] + p[2] * beta[2];
-  return normalize([p[0] + beta[0] - pb * p[0], p[1] + beta[1] - pb * p[1], p[2] + beta[2] - pb * p[2]]);
+  return normalize([
+    p[0] + beta[0] - pb * p[0],
+    p[1] + beta[1] - pb * p[1],
+    p[2] + beta[2] - pb * p[2],
+  ]);
 }
 
 /** Row-major 3×3 from astronomy-engine's rotation (which stores the transpose). */
@@ -38,7 +51,9 @@ export function rowMajor(r: RotationMatrix): number[][] {
 /** Observer velocity in units of c, J2000 equator: Earth's barycentric velocity, plus the site's rotation when given. */
 export function observerBeta(time: AstroTime, site?: Site): Vec3 {
   const e = BaryState(Body.Earth, time);
-  let vx = e.vx, vy = e.vy, vz = e.vz;
+  let vx = e.vx,
+    vy = e.vy,
+    vz = e.vz;
   if (site) {
     const o = ObserverState(time, site.observer, false);
     vx += o.vx;
@@ -83,7 +98,10 @@ export function localSiderealRad(time: AstroTime, longitudeDeg: number): number 
 
 /** Parallactic angle q (radians) for hour angle H, declination δ and latitude φ (radians). */
 export function parallacticAngleRad(haRad: number, decRad: number, latRad: number): number {
-  return Math.atan2(Math.sin(haRad), Math.tan(latRad) * Math.cos(decRad) - Math.sin(decRad) * Math.cos(haRad));
+  return Math.atan2(
+    Math.sin(haRad),
+    Math.tan(latRad) * Math.cos(decRad) - Math.sin(decRad) * Math.cos(haRad),
+  );
 }
 
 /** The exact topocentric place of an ICRS direction for a site at a UTC Julian Date. */
@@ -94,11 +112,19 @@ export function skyPlaceExact(icrs: Vec3, jdUtc: number, site: Site): SkyPlace {
 }
 
 /** The topocentric place of an apparent place of date (α, δ in radians) through astronomy-engine's Horizon. */
-export function skyPlaceOfDate(raRad: number, decRad: number, time: AstroTime, site: Site): SkyPlace {
+export function skyPlaceOfDate(
+  raRad: number,
+  decRad: number,
+  time: AstroTime,
+  site: Site,
+): SkyPlace {
   const hor = Horizon(time, site.observer, raRad / (15 * DEG), decRad / DEG);
   const ha = wrapPi(localSiderealRad(time, site.longitudeDeg) - raRad);
   return {
-    altitudeDeg: apparentAltitudeDeg(hor.altitude, refractionScale(site.pressureHpa, site.temperatureC)),
+    altitudeDeg: apparentAltitudeDeg(
+      hor.altitude,
+      refractionScale(site.pressureHpa, site.temperatureC),
+    ),
     trueAltitudeDeg: hor.altitude,
     azimuthDeg: hor.azimuth,
     hourAngleDeg: ha / DEG,

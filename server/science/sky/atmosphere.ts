@@ -15,7 +15,10 @@ const BAROMETRIC_EXPONENT = 5.25588;
  * Standard-atmosphere pressure (hPa) and temperature (°C) at an elevation in metres (valid in the
  * troposphere, −500 m to 11 km).
  */
-export function standardAtmosphere(elevationM: number): { pressureHpa: number; temperatureC: number } {
+export function standardAtmosphere(elevationM: number): {
+  pressureHpa: number;
+  temperatureC: number;
+} {
   const tK = 288.15 - LAPSE_RATE_K_PER_M * elevationM;
   return {
     pressureHpa: SEA_LEVEL_PRESSURE_HPA * (tK / 288.15) ** BAROMETRIC_EXPONENT,

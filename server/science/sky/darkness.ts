@@ -21,7 +21,13 @@ export interface Interval {
 const SECOND = 1 / 86_400;
 
 /** Find where `isIn` changes over [a, b] by sampling every `stepDays` and bisecting to `tolDays`. */
-export function intervalsWhere(isIn: (jd: number) => boolean, a: number, b: number, stepDays: number, tolDays = SECOND): Interval[] {
+export function intervalsWhere(
+  isIn: (jd: number) => boolean,
+  a: number,
+  b: number,
+  stepDays: number,
+  tolDays = SECOND,
+): Interval[] {
   const n = Math.max(1, Math.ceil((b - a) / stepDays));
   const out: Interval[] = [];
   let prevT = a;
@@ -31,7 +37,8 @@ export function intervalsWhere(isIn: (jd: number) => boolean, a: number, b: numb
     const t = i === n ? b : a + i * stepDays;
     const now = isIn(t);
     if (now !== prevIn) {
-      let lo = prevT, hi = t;
+      let lo = prevT,
+        hi = t;
       while (hi - lo > tolDays) {
         const mid = (lo + hi) / 2;
         if (isIn(mid) === prevIn) lo = mid;
@@ -54,7 +61,12 @@ export function intervalsWhere(isIn: (jd: number) => boolean, a: number, b: numb
 /** Fast darkness from the frame's Sun table: sampled every 10 min, edges bisected to 1 s. */
 export function darknessFast(frame: NightFrame, sunLimitDeg: number): Interval[] {
   const limit = sunLimitDeg * DEG;
-  return intervalsWhere((jd) => altitudeOfVectorRad(frame, sunAt(frame, jd), jd) <= limit, frame.span.startJd, frame.span.endJd, 10 / 1440);
+  return intervalsWhere(
+    (jd) => altitudeOfVectorRad(frame, sunAt(frame, jd), jd) <= limit,
+    frame.span.startJd,
+    frame.span.endJd,
+    10 / 1440,
+  );
 }
 
 /**
@@ -65,7 +77,14 @@ export function darknessFast(frame: NightFrame, sunLimitDeg: number): Interval[]
 export function darknessExact(site: Site, span: NightSpan, sunLimitDeg: number): Interval[] {
   const days = span.endJd - span.startJd;
   const find = (dir: 1 | -1) => {
-    const t = SearchAltitude(Body.Sun, site.observer, dir, astroTime(span.startJd), days, sunLimitDeg);
+    const t = SearchAltitude(
+      Body.Sun,
+      site.observer,
+      dir,
+      astroTime(span.startJd),
+      days,
+      sunLimitDeg,
+    );
     const jd = t === null ? null : t.ut + JD_J2000;
     return jd !== null && jd < span.endJd ? jd : null;
   };
@@ -75,7 +94,8 @@ export function darknessExact(site: Site, span: NightSpan, sunLimitDeg: number):
   const out: Interval[] = [];
   if (darkAtStart) {
     out.push({ startJd: span.startJd, endJd: dawn ?? span.endJd });
-    if (dusk !== null && dawn !== null && dusk > dawn) out.push({ startJd: dusk, endJd: span.endJd });
+    if (dusk !== null && dawn !== null && dusk > dawn)
+      out.push({ startJd: dusk, endJd: span.endJd });
   } else if (dusk !== null) {
     out.push({ startJd: dusk, endJd: dawn !== null && dawn > dusk ? dawn : span.endJd });
   }

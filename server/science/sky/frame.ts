@@ -75,7 +75,12 @@ export function nightFrame(site: Site, span: NightSpan, moonKnotHours = 1): Nigh
  * interpolation between knots errs by under 0.01° at 1 h and 0.04° at 2 h (the diurnal parallax
  * is the curved part).
  */
-export function withMoon(f: NightFrame, fromJd: number, toJd: number, knotHours: number): NightFrame {
+export function withMoon(
+  f: NightFrame,
+  fromJd: number,
+  toJd: number,
+  knotHours: number,
+): NightFrame {
   const n = Math.max(2, Math.ceil(((toJd - fromJd) * 24) / knotHours) + 1);
   const knotJd = new Float64Array(n);
   const moonKnots: Vec3[] = [];
@@ -91,13 +96,17 @@ export function withMoon(f: NightFrame, fromJd: number, toJd: number, knotHours:
 /** The Sun's interpolated direction of date at a JD. */
 export function sunAt(f: NightFrame, jd: number): Vec3 {
   const u = (jd - f.span.startJd) / (f.span.endJd - f.span.startJd);
-  const a = f.sunStart, b = f.sunEnd;
+  const a = f.sunStart,
+    b = f.sunEnd;
   return normalize([a[0] + (b[0] - a[0]) * u, a[1] + (b[1] - a[1]) * u, a[2] + (b[2] - a[2]) * u]);
 }
 
 /** The Moon's interpolated direction of date at a JD (clamped to the knot range). */
 export function moonAt(f: NightFrame, jd: number): Vec3 {
-  if (f.moonKnots.length < 2) throw new Error('nightFrame: the Moon table is empty (build the frame with moonKnotHours > 0 or call withMoon)');
+  if (f.moonKnots.length < 2)
+    throw new Error(
+      'nightFrame: the Moon table is empty (build the frame with moonKnotHours > 0 or call withMoon)',
+    );
   return interpolateKnots(f, f.moonKnots, jd);
 }
 
@@ -114,11 +123,13 @@ export function apparentInFrame(f: NightFrame, icrs: Vec3): { raRad: number; dec
 /** Interpolated unit vector from knots (clamped to the knot range). */
 export function interpolateKnots(f: NightFrame, knots: Vec3[], jd: number): Vec3 {
   const n = f.knotJd.length;
-  const k0 = f.knotJd[0]!, k1 = f.knotJd[n - 1]!;
+  const k0 = f.knotJd[0]!,
+    k1 = f.knotJd[n - 1]!;
   const x = Math.min(Math.max(((jd - k0) / (k1 - k0)) * (n - 1), 0), n - 1);
   const i = Math.min(Math.floor(x), n - 2);
   const u = x - i;
-  const a = knots[i]!, b = knots[i + 1]!;
+  const a = knots[i]!,
+    b = knots[i + 1]!;
   return normalize([a[0] + (b[0] - a[0]) * u, a[1] + (b[1] - a[1]) * u, a[2] + (b[2] - a[2]) * u]);
 }
 

@@ -4,20 +4,72 @@
  * and the benchmark all call these.
  */
 export { standardAtmosphere } from './atmosphere.ts';
-export { AIRMASS_FORMULAS, airmass, altitudeForAirmass, seeingAtAirmass, type AirmassFormula } from './airmass.ts';
-export { astroTime, parallacticAngleRad, skyPlaceExact, skyPlaceOfDate, type SkyPlace } from './apparent.ts';
-export { DEFAULT_MAX_AIRMASS, DEFAULT_MOON_SEPARATION_DEG, validateConstraints, type Constraints, type ConstraintsInput } from './constraints.ts';
+export {
+  AIRMASS_FORMULAS,
+  airmass,
+  altitudeForAirmass,
+  seeingAtAirmass,
+  type AirmassFormula,
+} from './airmass.ts';
+export {
+  astroTime,
+  parallacticAngleRad,
+  skyPlaceExact,
+  skyPlaceOfDate,
+  type SkyPlace,
+} from './apparent.ts';
+export {
+  DEFAULT_MAX_AIRMASS,
+  DEFAULT_MOON_SEPARATION_DEG,
+  validateConstraints,
+  type Constraints,
+  type ConstraintsInput,
+} from './constraints.ts';
 export { darknessExact, darknessFast, type Interval } from './darkness.ts';
 export { nightFrame, type NightFrame } from './frame.ts';
 export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from './night.ts';
-export { cautions, nightReport, type NightOptions, type NightReport, type ReportWindow, type TargetNight } from './night-report.ts';
-export { apparentAltitudeDeg, refractionDeg, refractionScale, trueAltitudeDeg } from './refraction.ts';
-export { altitudeGrid, exactSampler, fastSampler, frameTarget, type FrameTarget, type Sampler, type SkySample } from './samplers.ts';
+export {
+  cautions,
+  nightReport,
+  type NightOptions,
+  type NightReport,
+  type ReportWindow,
+  type TargetNight,
+} from './night-report.ts';
+export {
+  apparentAltitudeDeg,
+  refractionDeg,
+  refractionScale,
+  trueAltitudeDeg,
+} from './refraction.ts';
+export {
+  altitudeGrid,
+  exactSampler,
+  fastSampler,
+  frameTarget,
+  type FrameTarget,
+  type Sampler,
+  type SkySample,
+} from './samplers.ts';
 export { seasonMap, type SeasonMap, type SeasonOptions, type TargetSeason } from './season.ts';
 export { seasonReport } from './season-report.ts';
 export type { PeriapsisInSeason, SeasonSummary } from './season-summary.ts';
-export { DEFAULT_SUN_AVOIDANCE_DEG, maskAltitudeDeg, validateSite, type HorizonPoint, type Site, type SiteInput } from './site.ts';
+export {
+  DEFAULT_SUN_AVOIDANCE_DEG,
+  maskAltitudeDeg,
+  validateSite,
+  type HorizonPoint,
+  type Site,
+  type SiteInput,
+} from './site.ts';
 export { TWILIGHT_SUN_ALTITUDE_DEG, moonNight, sunNight, type TwilightKind } from './sun-moon.ts';
-export { icrsDirection, offsetPosition, targetPositionAt, validateTarget, type Target, type TargetInput } from './target.ts';
+export {
+  icrsDirection,
+  offsetPosition,
+  targetPositionAt,
+  validateTarget,
+  type Target,
+  type TargetInput,
+} from './target.ts';
 export { deltaTSeconds, taiMinusUtcS } from './time-scale.ts';
 export { LIMITS, findWindows, type Limit } from './windows.ts';

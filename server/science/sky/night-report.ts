@@ -70,17 +70,46 @@ export interface MoonCurve {
 }
 
 export interface NightReport {
-  site: { name: string; timeZone: string; latitudeDeg: number; longitudeDeg: number; elevationM: number; pressureHpa: number; temperatureC: number };
+  site: {
+    name: string;
+    timeZone: string;
+    latitudeDeg: number;
+    longitudeDeg: number;
+    elevationM: number;
+    pressureHpa: number;
+    temperatureC: number;
+  };
   night: { date: string; start: Instant; end: Instant; hours: number };
   sun: {
     set: Instant | null;
     rise: Instant | null;
     midnight: Instant;
-    twilights: Record<TwilightKind, { dusk: Instant | null; dawn: Instant | null; sunAltitudeDeg: number }>;
+    twilights: Record<
+      TwilightKind,
+      { dusk: Instant | null; dawn: Instant | null; sunAltitudeDeg: number }
+    >;
   };
-  darkness: { limit: string; intervals: { start: Instant; end: Instant; hours: number }[]; hours: number };
-  moon: { rise: Instant | null; set: Instant | null; transit: Instant | null; illuminatedFraction: number; phaseDeg: number; curve: MoonCurve | null };
-  constraints: { altitudeLimitDeg: number; maxAirmass: number | null; airmassFormula: string; minMoonSeparationDeg: number; sunAvoidanceDeg: number; horizonMask: boolean };
+  darkness: {
+    limit: string;
+    intervals: { start: Instant; end: Instant; hours: number }[];
+    hours: number;
+  };
+  moon: {
+    rise: Instant | null;
+    set: Instant | null;
+    transit: Instant | null;
+    illuminatedFraction: number;
+    phaseDeg: number;
+    curve: MoonCurve | null;
+  };
+  constraints: {
+    altitudeLimitDeg: number;
+    maxAirmass: number | null;
+    airmassFormula: string;
+    minMoonSeparationDeg: number;
+    sunAvoidanceDeg: number;
+    horizonMask: boolean;
+  };
   method: 'fast' | 'exact';
   targets: TargetNight[];
   cautions: string[];
@@ -88,7 +117,13 @@ export interface NightReport {
 
 const hoursOf = (i: Interval) => (i.endJd - i.startJd) * 24;
 
-export function nightReport(site: Site, date: string, targets: readonly Target[], c: Constraints, options: NightOptions = {}): NightReport {
+export function nightReport(
+  site: Site,
+  date: string,
+  targets: readonly Target[],
+  c: Constraints,
+  options: NightOptions = {},
+): NightReport {
   const method = options.method ?? 'fast';
   const stepDays = (options.stepMinutes ?? 5) / 1440;
   const curveStep = options.curveStepMinutes ?? 10;
@@ -96,25 +131,39 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
   const zone = site.timeZone;
   const at = (jd: number | null) => (jd === null ? null : instant(jd, zone));
   const frame = nightFrame(site, span);
-  const dark = method === 'exact' ? darknessExact(site, span, c.sunLimitDeg) : darknessFast(frame, c.sunLimitDeg);
+  const dark =
+    method === 'exact'
+      ? darknessExact(site, span, c.sunLimitDeg)
+      : darknessFast(frame, c.sunLimitDeg);
   const sun = sunNight(site, span);
   const moon = moonNight(site, span, sun.midnightJd);
   const edges: Interval = { startJd: span.startJd, endJd: span.endJd };
   // One set of curve instants for every target and the Moon.
   const curveJd: number[] = [];
   if (curveStep > 0) {
-    const n = Math.floor((span.endJd - span.startJd) * 1440 / curveStep);
+    const n = Math.floor(((span.endJd - span.startJd) * 1440) / curveStep);
     for (let i = 0; i <= n; i++) curveJd.push(span.startJd + (i * curveStep) / 1440);
   }
   const curveUtc = curveJd.map((jd) => instant(jd, zone).utc);
-  const point = (p: { jd: number; altitudeDeg: number; airmass: number }): ReportPoint => ({ ...instant(p.jd, zone), altitudeDeg: p.altitudeDeg, airmass: p.airmass });
+  const point = (p: { jd: number; altitudeDeg: number; airmass: number }): ReportPoint => ({
+    ...instant(p.jd, zone),
+    altitudeDeg: p.altitudeDeg,
+    airmass: p.airmass,
+  });
 
   const targetNights = targets.map((target): TargetNight => {
     const ft = frameTarget(frame, target);
     const fast = fastSampler(frame, ft);
     const sample = method === 'exact' ? exactSampler(site, target) : fast;
-    let transits = transitTimes(ft.raRad, frame.lastStartRad, frame.lastRateRadPerDay, span.startJd, span.endJd);
-    if (method === 'exact') transits = transits.map((t) => refineTransit(sample, t, frame.lastRateRadPerDay));
+    let transits = transitTimes(
+      ft.raRad,
+      frame.lastStartRad,
+      frame.lastRateRadPerDay,
+      span.startJd,
+      span.endJd,
+    );
+    if (method === 'exact')
+      transits = transits.map((t) => refineTransit(sample, t, frame.lastRateRadPerDay));
     const windows = findWindows(sample, c, dark, edges, stepDays, transits).map((w) => ({
       start: instant(w.startJd, zone),
       end: instant(w.endJd, zone),
@@ -122,12 +171,25 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
       opensBy: w.opensBy,
       closesBy: w.closesBy,
       transit: w.transit && point(w.transit),
-      best: { ...point(w.best), seeingArcsec: w.best.seeingArcsec, moonSeparationDeg: w.best.moonSeparationDeg },
+      best: {
+        ...point(w.best),
+        seeingArcsec: w.best.seeingArcsec,
+        moonSeparationDeg: w.best.moonSeparationDeg,
+      },
     }));
     let curve: TargetNight['curve'] = null;
     if (curveStep > 0) {
-      curve = { utc: curveUtc, altitudeDeg: [], azimuthDeg: [], airmass: [], hourAngleDeg: [], parallacticAngleDeg: [], moonSeparationDeg: [] };
-      const mask: number[] | undefined = c.mask.length > 0 ? (curve.horizonMaskDeg = []) : undefined;
+      curve = {
+        utc: curveUtc,
+        altitudeDeg: [],
+        azimuthDeg: [],
+        airmass: [],
+        hourAngleDeg: [],
+        parallacticAngleDeg: [],
+        moonSeparationDeg: [],
+      };
+      const mask: number[] | undefined =
+        c.mask.length > 0 ? (curve.horizonMaskDeg = []) : undefined;
       for (const jd of curveJd) {
         const s = fast(jd);
         const x = airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg);
@@ -135,7 +197,9 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
         curve.azimuthDeg.push(round(s.azimuthDeg, 3));
         curve.airmass.push(s.altitudeDeg > 0 && Number.isFinite(x) ? round(x, 4) : null);
         curve.hourAngleDeg.push(round(s.hourAngleRad / DEG, 3));
-        curve.parallacticAngleDeg.push(round(parallacticAngleRad(s.hourAngleRad, ft.decRad, site.latitudeDeg * DEG) / DEG, 2));
+        curve.parallacticAngleDeg.push(
+          round(parallacticAngleRad(s.hourAngleRad, ft.decRad, site.latitudeDeg * DEG) / DEG, 2),
+        );
         curve.moonSeparationDeg.push(round(s.moonSeparationDeg, 2));
         mask?.push(round(maskAltitudeDeg(c.mask, s.azimuthDeg), 3));
       }
@@ -154,15 +218,59 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
 
   const twilights = {} as NightReport['sun']['twilights'];
   for (const kind of Object.keys(TWILIGHT_SUN_ALTITUDE_DEG) as TwilightKind[]) {
-    twilights[kind] = { dusk: at(sun.dusk[kind]), dawn: at(sun.dawn[kind]), sunAltitudeDeg: TWILIGHT_SUN_ALTITUDE_DEG[kind] };
+    twilights[kind] = {
+      dusk: at(sun.dusk[kind]),
+      dawn: at(sun.dawn[kind]),
+      sunAltitudeDeg: TWILIGHT_SUN_ALTITUDE_DEG[kind],
+    };
   }
   return {
-    site: { name: site.name, timeZone: zone, latitudeDeg: site.latitudeDeg, longitudeDeg: site.longitudeDeg, elevationM: site.elevationM, pressureHpa: site.pressureHpa, temperatureC: site.temperatureC },
-    night: { date, start: instant(span.startJd, zone), end: instant(span.endJd, zone), hours: hoursOf(span) },
-    sun: { set: at(sun.setJd), rise: at(sun.riseJd), midnight: instant(sun.midnightJd, zone), twilights },
-    darkness: { limit: c.darknessLabel, intervals: dark.map((d) => ({ start: instant(d.startJd, zone), end: instant(d.endJd, zone), hours: hoursOf(d) })), hours: dark.reduce((h, d) => h + hoursOf(d), 0) },
-    moon: { rise: at(moon.riseJd), set: at(moon.setJd), transit: at(moon.transitJd), illuminatedFraction: moon.illuminatedFraction, phaseDeg: moon.phaseDeg, curve: curveStep > 0 ? moonCurve(frame, curveJd, curveUtc) : null },
-    constraints: { altitudeLimitDeg: c.altitudeLimitDeg, maxAirmass: c.maxAirmass, airmassFormula: c.airmassFormula, minMoonSeparationDeg: c.minMoonSeparationDeg, sunAvoidanceDeg: c.sunAvoidanceDeg, horizonMask: c.mask.length > 0 },
+    site: {
+      name: site.name,
+      timeZone: zone,
+      latitudeDeg: site.latitudeDeg,
+      longitudeDeg: site.longitudeDeg,
+      elevationM: site.elevationM,
+      pressureHpa: site.pressureHpa,
+      temperatureC: site.temperatureC,
+    },
+    night: {
+      date,
+      start: instant(span.startJd, zone),
+      end: instant(span.endJd, zone),
+      hours: hoursOf(span),
+    },
+    sun: {
+      set: at(sun.setJd),
+      rise: at(sun.riseJd),
+      midnight: instant(sun.midnightJd, zone),
+      twilights,
+    },
+    darkness: {
+      limit: c.darknessLabel,
+      intervals: dark.map((d) => ({
+        start: instant(d.startJd, zone),
+        end: instant(d.endJd, zone),
+        hours: hoursOf(d),
+      })),
+      hours: dark.reduce((h, d) => h + hoursOf(d), 0),
+    },
+    moon: {
+      rise: at(moon.riseJd),
+      set: at(moon.setJd),
+      transit: at(moon.transitJd),
+      illuminatedFraction: moon.illuminatedFraction,
+      phaseDeg: moon.phaseDeg,
+      curve: curveStep > 0 ? moonCurve(frame, curveJd, curveUtc) : null,
+    },
+    constraints: {
+      altitudeLimitDeg: c.altitudeLimitDeg,
+      maxAirmass: c.maxAirmass,
+      airmassFormula: c.airmassFormula,
+      minMoonSeparationDeg: c.minMoonSeparationDeg,
+      sunAvoidanceDeg: c.sunAvoidanceDeg,
+      horizonMask: c.mask.length > 0,
+    },
     method,
     targets: targetNights,
     cautions: cautions(c),
@@ -171,7 +279,10 @@ export function nightReport(site: Site, date: string, targets: readonly Target[]
 
 /** From the night's Moon table (knots every hour, under 0.01° of interpolation error; see frame.ts). */
 function moonCurve(frame: NightFrame, jds: readonly number[], utc: string[]): MoonCurve {
-  return { utc, altitudeDeg: jds.map((jd) => round(altitudeOfVectorRad(frame, moonAt(frame, jd), jd) / DEG, 3)) };
+  return {
+    utc,
+    altitudeDeg: jds.map((jd) => round(altitudeOfVectorRad(frame, moonAt(frame, jd), jd) / DEG, 3)),
+  };
 }
 
 function round(x: number, digits: number): number {
@@ -181,12 +292,18 @@ function round(x: number, digits: number): number {
 
 /** The usual cautions for pointing near the Sun; the site's rules always take precedence. */
 export function cautions(c: Constraints): string[] {
-  const out = ['Windows are advisory: the site\'s own pointing limits, Sun-avoidance interlocks and operating rules take precedence.'];
+  const out = [
+    "Windows are advisory: the site's own pointing limits, Sun-avoidance interlocks and operating rules take precedence.",
+  ];
   if (c.sunLimitDeg > TWILIGHT_SUN_ALTITUDE_DEG.nautical) {
-    out.push(`The darkness limit (${c.darknessLabel}) lets windows start in bright twilight: never point a telescope, finder or camera near the Sun; follow the site's Sun-avoidance rules.`);
+    out.push(
+      `The darkness limit (${c.darknessLabel}) lets windows start in bright twilight: never point a telescope, finder or camera near the Sun; follow the site's Sun-avoidance rules.`,
+    );
   }
   if (c.sunAvoidanceDeg < 30) {
-    out.push(`Sun avoidance is set to ${c.sunAvoidanceDeg}°, below the usual 30–45°: check it against the site's rules before observing.`);
+    out.push(
+      `Sun avoidance is set to ${c.sunAvoidanceDeg}°, below the usual 30–45°: check it against the site's rules before observing.`,
+    );
   }
   return out;
 }

@@ -18,13 +18,23 @@ export interface NightSpan {
 const DATE_RE = /^(\d{4})-(\d{2})-(\d{2})$/;
 
 /** Parse a local evening date. @throws InputError unless it is a real YYYY-MM-DD date in 1900–2100. */
-export function parseNightDate(value: unknown, field = 'date'): { year: number; month: number; day: number } {
+export function parseNightDate(
+  value: unknown,
+  field = 'date',
+): { year: number; month: number; day: number } {
   const m = typeof value === 'string' ? DATE_RE.exec(value) : null;
-  if (!m) throw new InputError(field, value, 'must be a local date YYYY-MM-DD (the date on which the evening falls)');
+  if (!m)
+    throw new InputError(
+      field,
+      value,
+      'must be a local date YYYY-MM-DD (the date on which the evening falls)',
+    );
   const [year, month, day] = [Number(m[1]), Number(m[2]), Number(m[3])];
   const dt = DateTime.fromObject({ year, month, day }, { zone: 'UTC' });
-  if (!dt.isValid || dt.month !== month || dt.day !== day) throw new InputError(field, value, 'is not a real calendar date');
-  if (year < 1900 || year > 2100) throw new InputError(field, value, 'must lie between the years 1900 and 2100');
+  if (!dt.isValid || dt.month !== month || dt.day !== day)
+    throw new InputError(field, value, 'is not a real calendar date');
+  if (year < 1900 || year > 2100)
+    throw new InputError(field, value, 'must lie between the years 1900 and 2100');
   return { year, month, day };
 }
 
@@ -39,7 +49,9 @@ export function nightSpan(site: Site, date: string, field = 'date'): NightSpan {
 /** The night whose evening follows `date` by `offsetDays` days, as YYYY-MM-DD. */
 export function addDays(date: string, offsetDays: number): string {
   const { year, month, day } = parseNightDate(date);
-  return DateTime.fromObject({ year, month, day }, { zone: 'UTC' }).plus({ days: offsetDays }).toISODate()!;
+  return DateTime.fromObject({ year, month, day }, { zone: 'UTC' })
+    .plus({ days: offsetDays })
+    .toISODate()!;
 }
 
 /** An instant shown both ways: ISO 8601 UTC and ISO 8601 in the site's zone with its offset. */

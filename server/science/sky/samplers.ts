@@ -6,7 +6,14 @@
 import { Body } from 'astronomy-engine';
 import { DEG } from '../constants.ts';
 import { skyPlaceExact } from './apparent.ts';
-import { altitudeOfVectorRad, apparentInFrame, lastAt, moonAt, sunAt, type NightFrame } from './frame.ts';
+import {
+  altitudeOfVectorRad,
+  apparentInFrame,
+  lastAt,
+  moonAt,
+  sunAt,
+  type NightFrame,
+} from './frame.ts';
 import { apparentAltitudeDeg } from './refraction.ts';
 import type { Site } from './site.ts';
 import { bodyPlace } from './sun-moon.ts';
@@ -59,16 +66,24 @@ export interface FrameTarget {
 
 export function frameTarget(frame: NightFrame, target: Target): FrameTarget {
   const { raRad, decRad } = apparentInFrame(frame, icrsDirection(target, frame.midJd));
-  return { raRad, decRad, sinDec: Math.sin(decRad), cosDec: Math.cos(decRad), dir: unitFromRaDec(raRad, decRad) };
+  return {
+    raRad,
+    decRad,
+    sinDec: Math.sin(decRad),
+    cosDec: Math.cos(decRad),
+    dir: unitFromRaDec(raRad, decRad),
+  };
 }
 
 /** Fast: closed-form altitude and azimuth from the night's tables. */
 export function fastSampler(frame: NightFrame, t: FrameTarget): Sampler {
   return (jd) => {
     const h = lastAt(frame, jd) - t.raRad;
-    const ch = Math.cos(h), sh = Math.sin(h);
+    const ch = Math.cos(h),
+      sh = Math.sin(h);
     const alt = Math.asin(frame.sinLat * t.sinDec + frame.cosLat * t.cosDec * ch) / DEG;
-    let az = Math.atan2(-t.cosDec * sh, frame.cosLat * t.sinDec - frame.sinLat * t.cosDec * ch) / DEG;
+    let az =
+      Math.atan2(-t.cosDec * sh, frame.cosLat * t.sinDec - frame.sinLat * t.cosDec * ch) / DEG;
     if (az < 0) az += 360;
     const sun = sunAt(frame, jd);
     const moon = moonAt(frame, jd);
@@ -89,13 +104,18 @@ export function fastSampler(frame: NightFrame, t: FrameTarget): Sampler {
  * Refracted altitudes (degrees) of many targets at many instants of one night, fast path, in one
  * Float64Array: row t (target), column k (instant), index t·n + k.
  */
-export function altitudeGrid(frame: NightFrame, targets: readonly FrameTarget[], jd: Float64Array): Float64Array {
+export function altitudeGrid(
+  frame: NightFrame,
+  targets: readonly FrameTarget[],
+  jd: Float64Array,
+): Float64Array {
   const n = jd.length;
   const out = new Float64Array(targets.length * n);
   const last = Float64Array.from(jd, (t) => lastAt(frame, t));
   for (let i = 0; i < targets.length; i++) {
     const t = targets[i]!;
-    const a = frame.sinLat * t.sinDec, b = frame.cosLat * t.cosDec;
+    const a = frame.sinLat * t.sinDec,
+      b = frame.cosLat * t.cosDec;
     for (let k = 0; k < n; k++) {
       const alt = Math.asin(a + b * Math.cos(last[k]! - t.raRad)) / DEG;
       out[i * n + k] = apparentAltitudeDeg(alt, frame.refractionScale);

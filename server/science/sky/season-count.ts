@@ -30,7 +30,13 @@ export function countUp(hsRad: number, dhRad: number, n: number, cosH0: number):
 }
 
 /** cos H₀ for a declination (sin, cos) and the geometric altitude limit's sine at a latitude (sin, cos). */
-export function cosLimitHourAngle(sinDec: number, cosDec: number, sinLat: number, cosLat: number, sinLimit: number): number {
+export function cosLimitHourAngle(
+  sinDec: number,
+  cosDec: number,
+  sinLat: number,
+  cosLat: number,
+  sinLimit: number,
+): number {
   const den = cosLat * cosDec;
   if (den <= 1e-12) {
     // At a pole or for a target at a pole the altitude does not change: up all the time or never.

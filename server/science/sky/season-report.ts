@@ -6,11 +6,25 @@ import type { Site } from './site.ts';
 
 export function seasonReport(site: Site, map: SeasonMap, constraints: Constraints) {
   return {
-    site: { name: site.name, timeZone: site.timeZone, latitudeDeg: site.latitudeDeg, longitudeDeg: site.longitudeDeg, elevationM: site.elevationM },
+    site: {
+      name: site.name,
+      timeZone: site.timeZone,
+      latitudeDeg: site.latitudeDeg,
+      longitudeDeg: site.longitudeDeg,
+      elevationM: site.elevationM,
+    },
     year: map.year,
     stepMinutes: map.stepMinutes,
-    nights: map.nights.map((n) => ({ date: n.date, darkHours: Math.round(n.darkHours * 1000) / 1000 })),
-    targets: map.targets.map((t) => ({ name: t.name, season: t.season, periapses: t.periapses, hoursPerNight: Array.from(t.hours, (h) => Math.round(h * 1000) / 1000) })),
+    nights: map.nights.map((n) => ({
+      date: n.date,
+      darkHours: Math.round(n.darkHours * 1000) / 1000,
+    })),
+    targets: map.targets.map((t) => ({
+      name: t.name,
+      season: t.season,
+      periapses: t.periapses,
+      hoursPerNight: Array.from(t.hours, (h) => Math.round(h * 1000) / 1000),
+    })),
     evaluations: map.evaluations,
     cautions: cautions(constraints),
   };

@@ -34,12 +34,31 @@ export interface PeriapsisInSeason {
 }
 
 /** The longest circular run of usable nights, bridging gaps of at most `maxGap` nights. */
-export function summarise(counts: Int32Array, minSamples: number, maxGap: number, dates: string[], bestNight: number, bestCount: number, stepMinutes: number): SeasonSummary {
+export function summarise(
+  counts: Int32Array,
+  minSamples: number,
+  maxGap: number,
+  dates: string[],
+  bestNight: number,
+  bestCount: number,
+  stepMinutes: number,
+): SeasonSummary {
   const n = counts.length;
   const usable: number[] = [];
   for (let i = 0; i < n; i++) if (counts[i]! >= Math.max(1, minSamples)) usable.push(i);
-  const best = { bestNight: bestNight >= 0 ? dates[bestNight]! : null, bestHours: bestCount > 0 ? (bestCount * stepMinutes) / 60 : 0 };
-  if (usable.length === 0) return { start: null, end: null, wrapsYearEnd: false, allYear: false, usableNights: 0, ...best };
+  const best = {
+    bestNight: bestNight >= 0 ? dates[bestNight]! : null,
+    bestHours: bestCount > 0 ? (bestCount * stepMinutes) / 60 : 0,
+  };
+  if (usable.length === 0)
+    return {
+      start: null,
+      end: null,
+      wrapsYearEnd: false,
+      allYear: false,
+      usableNights: 0,
+      ...best,
+    };
   // Segments of usable nights whose gaps are ≤ maxGap.
   const segs: { first: number; last: number; nights: number }[] = [];
   for (const i of usable) {
@@ -49,9 +68,22 @@ export function summarise(counts: Int32Array, minSamples: number, maxGap: number
       s.nights++;
     } else segs.push({ first: i, last: i, nights: 1 });
   }
-  const firstSeg = segs[0]!, lastSeg = segs[segs.length - 1]!;
-  if (segs.length === 1 && firstSeg.first <= maxGap && n - 1 - firstSeg.last <= maxGap && firstSeg.first + (n - 1 - firstSeg.last) <= maxGap) {
-    return { start: dates[0]!, end: dates[n - 1]!, wrapsYearEnd: false, allYear: true, usableNights: usable.length, ...best };
+  const firstSeg = segs[0]!,
+    lastSeg = segs[segs.length - 1]!;
+  if (
+    segs.length === 1 &&
+    firstSeg.first <= maxGap &&
+    n - 1 - firstSeg.last <= maxGap &&
+    firstSeg.first + (n - 1 - firstSeg.last) <= maxGap
+  ) {
+    return {
+      start: dates[0]!,
+      end: dates[n - 1]!,
+      wrapsYearEnd: false,
+      allYear: true,
+      usableNights: usable.length,
+      ...best,
+    };
   }
   let wraps = false;
   if (segs.length > 1 && firstSeg.first + (n - 1 - lastSeg.last) <= maxGap) {
@@ -75,18 +107,32 @@ export function summarise(counts: Int32Array, minSamples: number, maxGap: number
 export function nightInSeason(season: SeasonSummary, dates: readonly string[], i: number): boolean {
   if (season.allYear) return true;
   if (season.start === null || season.end === null) return false;
-  const s = dates.indexOf(season.start), e = dates.indexOf(season.end);
+  const s = dates.indexOf(season.start),
+    e = dates.indexOf(season.end);
   return s <= e ? i >= s && i <= e : i >= s || i <= e;
 }
 
 /** The periapsis passages of an orbiting target within the nights, each placed in its night. */
-export function periapses(target: Target, spans: readonly NightSpan[], hours: Float32Array, season: SeasonSummary): PeriapsisInSeason[] {
+export function periapses(
+  target: Target,
+  spans: readonly NightSpan[],
+  hours: Float32Array,
+  season: SeasonSummary,
+): PeriapsisInSeason[] {
   if (target.orbit === null) return [];
   const dates = spans.map((n) => n.date);
-  const first = spans[0]!.startJd, last = spans[spans.length - 1]!.endJd;
+  const first = spans[0]!.startJd,
+    last = spans[spans.length - 1]!.endJd;
   return findEvents(target.orbit, first, last, { kinds: ['periapsis'] }).flatMap((ev) => {
     const i = spans.findIndex((n) => ev.jd >= n.startJd && ev.jd < n.endJd);
     if (i < 0) return [];
-    return [{ epoch: jdToIso(ev.jd), night: dates[i]!, hours: hours[i]!, inSeason: nightInSeason(season, dates, i) }];
+    return [
+      {
+        epoch: jdToIso(ev.jd),
+        night: dates[i]!,
+        hours: hours[i]!,
+        inSeason: nightInSeason(season, dates, i),
+      },
+    ];
   });
 }

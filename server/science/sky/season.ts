@@ -17,7 +17,12 @@ import { maskAltitudeDeg, maskMaxAltitudeDeg, type Site } from './site.ts';
 import { cosLimitHourAngle, countUp } from './season-count.ts';
 import { icrsDirection, type Target } from './target.ts';
 import { type Vec3 } from './vectors.ts';
-import { periapses, summarise, type PeriapsisInSeason, type SeasonSummary } from './season-summary.ts';
+import {
+  periapses,
+  summarise,
+  type PeriapsisInSeason,
+  type SeasonSummary,
+} from './season-summary.ts';
 
 export interface SeasonOptions {
   /** Darkness sampling step, minutes, [1, 60]; default 5. */
@@ -72,7 +77,12 @@ interface PreparedNight {
 }
 
 /** The nights of a year at a site, prepared for counting. */
-function prepareNights(site: Site, year: number, c: Constraints, stepDays: number): { dates: string[]; nights: PreparedNight[] } {
+function prepareNights(
+  site: Site,
+  year: number,
+  c: Constraints,
+  stepDays: number,
+): { dates: string[]; nights: PreparedNight[] } {
   const dates: string[] = [];
   const nights: PreparedNight[] = [];
   const first = `${year}-01-01`;
@@ -84,17 +94,36 @@ function prepareNights(site: Site, year: number, c: Constraints, stepDays: numbe
     const dark = darknessFast(frame, c.sunLimitDeg);
     if (dark.length > 0) withMoon(frame, dark[0]!.startJd, dark[dark.length - 1]!.endJd, 2);
     const counts = dark.map((d) => Math.floor((d.endJd - d.startJd) / stepDays + 1e-9) + 1);
-    const midDarkJd = dark.length > 0 ? (dark[0]!.startJd + dark[dark.length - 1]!.endJd) / 2 : frame.midJd;
+    const midDarkJd =
+      dark.length > 0 ? (dark[0]!.startJd + dark[dark.length - 1]!.endJd) / 2 : frame.midJd;
     // One dot product per target-night instead of one per Moon knot: the knots lie within `radius` of their mean.
-    let cx = 0, cy = 0, cz = 0;
-    for (const m of frame.moonKnots) { cx += m[0]; cy += m[1]; cz += m[2]; }
+    let cx = 0,
+      cy = 0,
+      cz = 0;
+    for (const m of frame.moonKnots) {
+      cx += m[0];
+      cy += m[1];
+      cz += m[2];
+    }
     const cr = Math.sqrt(cx * cx + cy * cy + cz * cz) || 1;
     const moonCap: Vec3 = [cx / cr, cy / cr, cz / cr];
     let radius = 0;
-    for (const m of frame.moonKnots) radius = Math.max(radius, Math.acos(Math.min(1, m[0] * moonCap[0] + m[1] * moonCap[1] + m[2] * moonCap[2])));
+    for (const m of frame.moonKnots)
+      radius = Math.max(
+        radius,
+        Math.acos(Math.min(1, m[0] * moonCap[0] + m[1] * moonCap[1] + m[2] * moonCap[2])),
+      );
     const capDeg = c.minMoonSeparationDeg + 1 + radius / DEG;
     dates.push(date);
-    nights.push({ frame, dark, counts, total: counts.reduce((a, b) => a + b, 0), midDarkJd, moonCap, cosMoonCap: capDeg >= 180 ? -2 : Math.cos(capDeg * DEG) });
+    nights.push({
+      frame,
+      dark,
+      counts,
+      total: counts.reduce((a, b) => a + b, 0),
+      midDarkJd,
+      moonCap,
+      cosMoonCap: capDeg >= 180 ? -2 : Math.cos(capDeg * DEG),
+    });
   }
   return { dates, nights };
 }
@@ -112,12 +141,22 @@ function sampleBodies(n: PreparedNight, stepDays: number): void {
       n.sunAt.push(sunAt(n.frame, jd));
       n.moonAt.push(moon);
       const h = lastAt(n.frame, jd) - Math.atan2(moon[1], moon[0]);
-      n.moonUp.push(n.frame.sinLat * moon[2] + n.frame.cosLat * Math.sqrt(moon[0] * moon[0] + moon[1] * moon[1]) * Math.cos(h) > 0);
+      n.moonUp.push(
+        n.frame.sinLat * moon[2] +
+          n.frame.cosLat * Math.sqrt(moon[0] * moon[0] + moon[1] * moon[1]) * Math.cos(h) >
+          0,
+      );
     }
   }
 }
 
-export function seasonMap(site: Site, year: number, targets: readonly Target[], c: Constraints, options: SeasonOptions = {}): SeasonMap {
+export function seasonMap(
+  site: Site,
+  year: number,
+  targets: readonly Target[],
+  c: Constraints,
+  options: SeasonOptions = {},
+): SeasonMap {
   const stepMinutes = options.stepMinutes ?? 5;
   const stepDays = stepMinutes / 1440;
   const minSamples = Math.ceil(((options.minHoursPerNight ?? 1) * 60) / stepMinutes - 1e-9);
@@ -129,14 +168,17 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
   const maskTop = Math.max(c.altitudeLimitDeg, maskMaxAltitudeDeg(c.mask));
   const sinMaskTop = Math.sin(trueAltitudeDeg(maskTop, scale) * DEG);
   const cosSunMargin = Math.cos(Math.min(180, c.sunAvoidanceDeg + 1) * DEG);
-  const sinLat = nights[0]!.frame.sinLat, cosLat = nights[0]!.frame.cosLat;
+  const sinLat = nights[0]!.frame.sinLat,
+    cosLat = nights[0]!.frame.cosLat;
   let evaluations = 0;
   let perSample = 0;
 
   const out = targets.map((target): TargetSeason => {
     const hours = new Float32Array(nN);
     const counts = new Int32Array(nN);
-    let bestCount = -1, bestNight = -1, bestTie = Infinity;
+    let bestCount = -1,
+      bestNight = -1,
+      bestTie = Infinity;
     // Without an orbit a target moves linearly on the sky over a year: interpolate its ICRS vector.
     const a = icrsDirection(target, nights[0]!.frame.midJd);
     const b = icrsDirection(target, nights[nN - 1]!.frame.midJd);
@@ -150,22 +192,31 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
         [px, py, pz] = icrsDirection(target, f.midJd);
       } else {
         const u = nN > 1 ? i / (nN - 1) : 0;
-        px = a[0] + (b[0] - a[0]) * u; py = a[1] + (b[1] - a[1]) * u; pz = a[2] + (b[2] - a[2]) * u;
+        px = a[0] + (b[0] - a[0]) * u;
+        py = a[1] + (b[1] - a[1]) * u;
+        pz = a[2] + (b[2] - a[2]) * u;
       }
       // Annual aberration, then precession-nutation (inlined `apparentInFrame`; this loop runs millions of times).
       const be = f.beta;
       const pb = px * be[0] + py * be[1] + pz * be[2];
-      let qx = px + be[0] - pb * px, qy = py + be[1] - pb * py, qz = pz + be[2] - pb * pz;
+      let qx = px + be[0] - pb * px,
+        qy = py + be[1] - pb * py,
+        qz = pz + be[2] - pb * pz;
       const m = f.precNut;
-      const r0 = m[0]!, r1 = m[1]!, r2 = m[2]!;
+      const r0 = m[0]!,
+        r1 = m[1]!,
+        r2 = m[2]!;
       const x = r0[0]! * qx + r0[1]! * qy + r0[2]! * qz;
       const y = r1[0]! * qx + r1[1]! * qy + r1[2]! * qz;
       const z = r2[0]! * qx + r2[1]! * qy + r2[2]! * qz;
       const rxy = Math.sqrt(x * x + y * y);
       const rr = Math.sqrt(rxy * rxy + z * z);
       const ra = Math.atan2(y, x);
-      const sinDec = z / rr, cosDec = rxy / rr;
-      qx = x / rr; qy = y / rr; qz = z / rr;
+      const sinDec = z / rr,
+        cosDec = rxy / rr;
+      qx = x / rr;
+      qy = y / rr;
+      qz = z / rr;
       const dH = f.lastRateRadPerDay * stepDays;
       // Does anything but altitude matter tonight? Mask band, Moon or Sun within reach → test each sample.
       const cosLo = cosLimitHourAngle(sinDec, cosDec, sinLat, cosLat, sinLimit);
@@ -178,7 +229,8 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
         // The mask matters only if some sample above the limit is below the mask's top.
         const cosHi = cosLimitHourAngle(sinDec, cosDec, sinLat, cosLat, sinMaskTop);
         let above = 0;
-        for (let d = 0; d < n.dark.length; d++) above += countUp(lastAt(f, n.dark[d]!.startJd) - ra, dH, n.counts[d]!, cosHi);
+        for (let d = 0; d < n.dark.length; d++)
+          above += countUp(lastAt(f, n.dark[d]!.startJd) - ra, dH, n.counts[d]!, cosHi);
         needSamples = above !== count;
       }
       if (!needSamples && count > 0 && c.minMoonSeparationDeg > 0) {
@@ -205,7 +257,8 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
             if (sinAlt < sinLimit) continue;
             if (c.mask.length > 0) {
               const alt = apparentAltitudeDeg(Math.asin(sinAlt) / DEG, scale);
-              let az = Math.atan2(-cosDec * Math.sin(h), cosLat * sinDec - sinLat * cosDec * ch) / DEG;
+              let az =
+                Math.atan2(-cosDec * Math.sin(h), cosLat * sinDec - sinLat * cosDec * ch) / DEG;
               if (az < 0) az += 360;
               if (alt < maskAltitudeDeg(c.mask, az)) continue;
             }
@@ -231,13 +284,27 @@ export function seasonMap(site: Site, year: number, targets: readonly Target[], 
       }
     }
     const season = summarise(counts, minSamples, maxGap, dates, bestNight, bestCount, stepMinutes);
-    return { name: target.name, hours, season, periapses: periapses(target, nights.map((n) => n.frame.span), hours, season) };
+    return {
+      name: target.name,
+      hours,
+      season,
+      periapses: periapses(
+        target,
+        nights.map((n) => n.frame.span),
+        hours,
+        season,
+      ),
+    };
   });
 
   return {
     year,
     stepMinutes,
-    nights: nights.map((n, i) => ({ date: dates[i]!, darkHours: (n.total * stepMinutes) / 60, samples: n.total })),
+    nights: nights.map((n, i) => ({
+      date: dates[i]!,
+      darkHours: (n.total * stepMinutes) / 60,
+      samples: n.total,
+    })),
     targets: out,
     evaluations: evaluations,
     perSampleTargetNights: perSample,

@@ -67,14 +67,25 @@ function numberIn(field: string, value: unknown, lo: number, hi: number, hiOpen 
   return x;
 }
 
-function optional(field: string, value: unknown, lo: number, hi: number, fallback: number, hiOpen = false): number {
+function optional(
+  field: string,
+  value: unknown,
+  lo: number,
+  hi: number,
+  fallback: number,
+  hiOpen = false,
+): number {
   return value === undefined || value === null ? fallback : numberIn(field, value, lo, hi, hiOpen);
 }
 
 /** Check a site and fill its defaults. @throws InputError naming the first bad field. */
 export function validateSite(input: unknown, prefix = 'site'): Site {
   if (typeof input !== 'object' || input === null || Array.isArray(input)) {
-    throw new InputError(prefix, input, 'must be an object with latitudeDeg, longitudeDeg, elevationM and timeZone');
+    throw new InputError(
+      prefix,
+      input,
+      'must be an object with latitudeDeg, longitudeDeg, elevationM and timeZone',
+    );
   }
   const s = input as Record<string, unknown>;
   const f = (k: string) => `${prefix}.${k}`;
@@ -87,13 +98,24 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
   if (longitudeDeg > 180) longitudeDeg -= 360;
   const elevationM = numberIn(f('elevationM'), s.elevationM, -500, 6000);
   if (typeof s.timeZone !== 'string' || !IANAZone.isValidZone(s.timeZone)) {
-    throw new InputError(f('timeZone'), s.timeZone, 'must be an IANA time zone name such as "America/Santiago" or "UTC"');
+    throw new InputError(
+      f('timeZone'),
+      s.timeZone,
+      'must be an IANA time zone name such as "America/Santiago" or "UTC"',
+    );
   }
   const std = standardAtmosphere(elevationM);
   const pressureHpa = optional(f('pressureHpa'), s.pressureHpa, 0, 1100, std.pressureHpa);
   const temperatureC = optional(f('temperatureC'), s.temperatureC, -80, 60, std.temperatureC);
   const minAltitudeDeg = optional(f('minAltitudeDeg'), s.minAltitudeDeg, -5, 89, 0);
-  const sunAvoidanceDeg = optional(f('sunAvoidanceDeg'), s.sunAvoidanceDeg, 0, 180, DEFAULT_SUN_AVOIDANCE_DEG, true);
+  const sunAvoidanceDeg = optional(
+    f('sunAvoidanceDeg'),
+    s.sunAvoidanceDeg,
+    0,
+    180,
+    DEFAULT_SUN_AVOIDANCE_DEG,
+    true,
+  );
   const horizonMask = validateMask(f('horizonMask'), s.horizonMask);
   return {
     name: name.trim(),
@@ -113,10 +135,15 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
 function validateMask(field: string, value: unknown): HorizonPoint[] {
   if (value === undefined || value === null) return [];
   if (!Array.isArray(value) || value.length > 720) {
-    throw new InputError(field, value, 'must be an array of at most 720 { azimuthDeg, altitudeDeg } points');
+    throw new InputError(
+      field,
+      value,
+      'must be an array of at most 720 { azimuthDeg, altitudeDeg } points',
+    );
   }
   const points = value.map((p: unknown, i) => {
-    if (typeof p !== 'object' || p === null) throw new InputError(`${field}.${i}`, p, 'must be an object { azimuthDeg, altitudeDeg }');
+    if (typeof p !== 'object' || p === null)
+      throw new InputError(`${field}.${i}`, p, 'must be an object { azimuthDeg, altitudeDeg }');
     const q = p as Record<string, unknown>;
     return {
       azimuthDeg: numberIn(`${field}.${i}.azimuthDeg`, q.azimuthDeg, 0, 360, true),

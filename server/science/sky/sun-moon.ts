@@ -3,7 +3,17 @@
  * transit, the three twilights, the Moon's illumination and phase. This is the exact path; the fast
  * twilight of `frame.ts` is checked against it.
  */
-import { Body, Equator, Horizon, Illumination, MoonPhase, SearchAltitude, SearchHourAngle, SearchRiseSet, type AstroTime } from 'astronomy-engine';
+import {
+  Body,
+  Equator,
+  Horizon,
+  Illumination,
+  MoonPhase,
+  SearchAltitude,
+  SearchHourAngle,
+  SearchRiseSet,
+  type AstroTime,
+} from 'astronomy-engine';
 import { DEG, JD_J2000 } from '../constants.ts';
 import { astroTime } from './apparent.ts';
 import type { NightSpan } from './night.ts';
@@ -17,22 +27,37 @@ export type TwilightKind = keyof typeof TWILIGHT_SUN_ALTITUDE_DEG;
 const jdOf = (t: AstroTime | null): number | null => (t === null ? null : t.ut + JD_J2000);
 
 /** First crossing of a Sun/Moon altitude in the span, or null. `direction` −1 descending, +1 ascending. */
-function crossing(body: Body, site: Site, span: NightSpan, direction: 1 | -1, altitudeDeg: number | 'rise-set'): number | null {
+function crossing(
+  body: Body,
+  site: Site,
+  span: NightSpan,
+  direction: 1 | -1,
+  altitudeDeg: number | 'rise-set',
+): number | null {
   const start = astroTime(span.startJd);
   const limit = span.endJd - span.startJd;
-  const t = altitudeDeg === 'rise-set'
-    ? SearchRiseSet(body, site.observer, direction, start, limit)
-    : SearchAltitude(body, site.observer, direction, start, limit, altitudeDeg);
+  const t =
+    altitudeDeg === 'rise-set'
+      ? SearchRiseSet(body, site.observer, direction, start, limit)
+      : SearchAltitude(body, site.observer, direction, start, limit, altitudeDeg);
   const jd = jdOf(t);
   return jd !== null && jd <= span.endJd ? jd : null;
 }
 
 /** Topocentric apparent direction of date and geometric altitude (degrees) of the Sun or Moon. */
-export function bodyPlace(body: Body.Sun | Body.Moon, site: Site, jdUtc: number): { ofDate: Vec3; altitudeDeg: number; azimuthDeg: number } {
+export function bodyPlace(
+  body: Body.Sun | Body.Moon,
+  site: Site,
+  jdUtc: number,
+): { ofDate: Vec3; altitudeDeg: number; azimuthDeg: number } {
   const time = astroTime(jdUtc);
   const eq = Equator(body, time, site.observer, true, true);
   const hor = Horizon(time, site.observer, eq.ra, eq.dec);
-  return { ofDate: unitFromRaDec(eq.ra * 15 * DEG, eq.dec * DEG), altitudeDeg: hor.altitude, azimuthDeg: hor.azimuth };
+  return {
+    ofDate: unitFromRaDec(eq.ra * 15 * DEG, eq.dec * DEG),
+    altitudeDeg: hor.altitude,
+    azimuthDeg: hor.azimuth,
+  };
 }
 
 export interface SunNight {

@@ -43,16 +43,22 @@ export function validateTarget(input: unknown, prefix = 'target'): Target {
   }
   const t = input as Record<string, unknown>;
   if (typeof t.name !== 'string' || t.name.trim() === '' || t.name.length > 100) {
-    throw new InputError(`${prefix}.name`, t.name, 'must be a non-empty string of at most 100 characters');
+    throw new InputError(
+      `${prefix}.name`,
+      t.name,
+      'must be a non-empty string of at most 100 characters',
+    );
   }
   const ra = requireFinite(`${prefix}.raDeg`, t.raDeg);
   if (ra < 0 || ra >= 360) throw new InputError(`${prefix}.raDeg`, t.raDeg, 'must lie in [0, 360)');
   const dec = requireFinite(`${prefix}.decDeg`, t.decDeg);
-  if (dec < -90 || dec > 90) throw new InputError(`${prefix}.decDeg`, t.decDeg, 'must lie in [−90, 90]');
+  if (dec < -90 || dec > 90)
+    throw new InputError(`${prefix}.decDeg`, t.decDeg, 'must lie in [−90, 90]');
   const pm = (k: 'pmRaMasYr' | 'pmDecMasYr') => {
     if (t[k] === undefined) return 0;
     const x = requireFinite(`${prefix}.${k}`, t[k]);
-    if (Math.abs(x) > 20_000) throw new InputError(`${prefix}.${k}`, t[k], 'must be at most 20000 mas/yr in size');
+    if (Math.abs(x) > 20_000)
+      throw new InputError(`${prefix}.${k}`, t[k], 'must be at most 20000 mas/yr in size');
     return x / MAS_PER_RAD;
   };
   return {
@@ -68,7 +74,10 @@ export function validateTarget(input: unknown, prefix = 'target'): Target {
 
 /** East (α) and north (δ) unit vectors of the tangent plane at a direction. */
 function tangentBasis(raRad: number, decRad: number): { east: Vec3; north: Vec3 } {
-  const sa = Math.sin(raRad), ca = Math.cos(raRad), sd = Math.sin(decRad), cd = Math.cos(decRad);
+  const sa = Math.sin(raRad),
+    ca = Math.cos(raRad),
+    sd = Math.sin(decRad),
+    cd = Math.cos(decRad);
   return { east: [-sa, ca, 0], north: [-sd * ca, -sd * sa, cd] };
 }
 
@@ -90,8 +99,17 @@ export function offsetDirection(centre: Vec3, xiRad: number, etaRad: number): Ve
  * Absolute position of a star at offset (Δα* = Δα·cos δ, Δδ; mas) from its primary (degrees).
  * Returns ICRS right ascension in [0, 360) and declination, degrees.
  */
-export function offsetPosition(primaryRaDeg: number, primaryDecDeg: number, dRaMas: number, dDecMas: number): { raDeg: number; decDeg: number } {
-  const v = offsetDirection(unitFromRaDec(primaryRaDeg * DEG, primaryDecDeg * DEG), dRaMas / MAS_PER_RAD, dDecMas / MAS_PER_RAD);
+export function offsetPosition(
+  primaryRaDeg: number,
+  primaryDecDeg: number,
+  dRaMas: number,
+  dDecMas: number,
+): { raDeg: number; decDeg: number } {
+  const v = offsetDirection(
+    unitFromRaDec(primaryRaDeg * DEG, primaryDecDeg * DEG),
+    dRaMas / MAS_PER_RAD,
+    dDecMas / MAS_PER_RAD,
+  );
   const { raRad, decRad } = raDecFromVector(v);
   return { raDeg: raRad / DEG, decDeg: decRad / DEG };
 }

@@ -34,7 +34,9 @@ export function separationRad(a: Vec3, b: Vec3): number {
 
 /** 3×3 matrix (row-major rows) times vector. */
 export function rotate(m: readonly (readonly number[])[], v: Vec3): Vec3 {
-  const r0 = m[0]!, r1 = m[1]!, r2 = m[2]!;
+  const r0 = m[0]!,
+    r1 = m[1]!,
+    r2 = m[2]!;
   return [
     r0[0]! * v[0] + r0[1]! * v[1] + r0[2]! * v[2],
     r1[0]! * v[0] + r1[1]! * v[1] + r1[2]! * v[2],

@@ -10,13 +10,21 @@ import type { Sampler, SkySample } from './samplers.ts';
 import { maskAltitudeDeg } from './site.ts';
 
 /** What opens or closes a window. */
-export const LIMITS = ['darkness', 'altitude', 'horizon-mask', 'sun-avoidance', 'moon', 'night-edge'] as const;
+export const LIMITS = [
+  'darkness',
+  'altitude',
+  'horizon-mask',
+  'sun-avoidance',
+  'moon',
+  'night-edge',
+] as const;
 export type Limit = (typeof LIMITS)[number];
 
 /** The first constraint a sample breaks (darkness aside), or null when it meets them all. */
 export function brokenLimit(s: SkySample, c: Constraints): Limit | null {
   if (s.altitudeDeg < c.altitudeLimitDeg) return 'altitude';
-  if (c.mask.length > 0 && s.altitudeDeg < maskAltitudeDeg(c.mask, s.azimuthDeg)) return 'horizon-mask';
+  if (c.mask.length > 0 && s.altitudeDeg < maskAltitudeDeg(c.mask, s.azimuthDeg))
+    return 'horizon-mask';
   if (s.sunSeparationDeg < c.sunAvoidanceDeg) return 'sun-avoidance';
   if (s.moonAltitudeDeg > 0 && s.moonSeparationDeg < c.minMoonSeparationDeg) return 'moon';
   return null;
@@ -46,23 +54,42 @@ const SECOND = 1 / 86_400;
  * @param stepDays sampling step (windows shorter than a step may be missed); edges are bisected to 1 s
  * @param transitsIn candidate transit times (JD) of the target in the night
  */
-export function findWindows(sample: Sampler, c: Constraints, darkness: readonly Interval[], nightEdges: Interval, stepDays: number, transitsIn: readonly number[]): RawWindow[] {
+export function findWindows(
+  sample: Sampler,
+  c: Constraints,
+  darkness: readonly Interval[],
+  nightEdges: Interval,
+  stepDays: number,
+  transitsIn: readonly number[],
+): RawWindow[] {
   const ok = (jd: number) => brokenLimit(sample(jd), c) === null;
   const out: RawWindow[] = [];
   for (const dark of darkness) {
     for (const w of intervalsWhere(ok, dark.startJd, dark.endJd, stepDays)) {
       const edgeLimit = (jd: number, atDark: number, outside: number): Limit => {
         if (Math.abs(jd - atDark) < SECOND / 2) {
-          return Math.abs(jd - (atDark === dark.startJd ? nightEdges.startJd : nightEdges.endJd)) < SECOND / 2 ? 'night-edge' : 'darkness';
+          return Math.abs(jd - (atDark === dark.startJd ? nightEdges.startJd : nightEdges.endJd)) <
+            SECOND / 2
+            ? 'night-edge'
+            : 'darkness';
         }
         return brokenLimit(sample(outside), c) ?? 'altitude';
       };
       const point = (jd: number): WindowPoint & { s: SkySample } => {
         const s = sample(jd);
-        return { jd, altitudeDeg: s.altitudeDeg, airmass: airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg), s };
+        return {
+          jd,
+          altitudeDeg: s.altitudeDeg,
+          airmass: airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg),
+          s,
+        };
       };
       const transitJd = transitsIn.find((t) => t >= w.startJd && t <= w.endJd);
-      const candidates = [point(w.startJd), point(w.endJd), ...(transitJd === undefined ? [] : [point(transitJd)])];
+      const candidates = [
+        point(w.startJd),
+        point(w.endJd),
+        ...(transitJd === undefined ? [] : [point(transitJd)]),
+      ];
       const best = candidates.reduce((a, b) => (b.altitudeDeg > a.altitudeDeg ? b : a));
       const strip = ({ s: _s, ...p }: WindowPoint & { s: SkySample }): WindowPoint => p;
       out.push({
@@ -72,7 +99,10 @@ export function findWindows(sample: Sampler, c: Constraints, darkness: readonly 
         transit: transitJd === undefined ? null : strip(candidates[2]!),
         best: {
           ...strip(best),
-          seeingArcsec: c.zenithSeeingArcsec === null ? null : seeingAtAirmass(c.zenithSeeingArcsec, best.airmass),
+          seeingArcsec:
+            c.zenithSeeingArcsec === null
+              ? null
+              : seeingAtAirmass(c.zenithSeeingArcsec, best.airmass),
           moonSeparationDeg: best.s.moonSeparationDeg,
         },
       });
@@ -82,12 +112,22 @@ export function findWindows(sample: Sampler, c: Constraints, darkness: readonly 
 }
 
 /** Upper transits (hour angle 0) of an apparent right ascension in [startJd, endJd], from a linear sidereal clock. */
-export function transitTimes(raRad: number, lastStartRad: number, lastRateRadPerDay: number, startJd: number, endJd: number): number[] {
+export function transitTimes(
+  raRad: number,
+  lastStartRad: number,
+  lastRateRadPerDay: number,
+  startJd: number,
+  endJd: number,
+): number[] {
   const out: number[] = [];
   let h0 = (lastStartRad - raRad) % (2 * Math.PI);
   if (h0 < 0) h0 += 2 * Math.PI;
   // H grows with time; the next H = 0 (mod 2π) comes after (2π − h0)/rate.
-  for (let t = startJd + (2 * Math.PI - h0) / lastRateRadPerDay; t <= endJd; t += (2 * Math.PI) / lastRateRadPerDay) {
+  for (
+    let t = startJd + (2 * Math.PI - h0) / lastRateRadPerDay;
+    t <= endJd;
+    t += (2 * Math.PI) / lastRateRadPerDay
+  ) {
     if (t >= startJd) out.push(t);
   }
   if (h0 === 0) out.unshift(startJd);
@@ -100,4 +140,3 @@ export function refineTransit(sample: Sampler, jd: number, rateRadPerDay: number
   for (let i = 0; i < 3; i++) t -= sample(t).hourAngleRad / rateRadPerDay;
   return t;
 }
-

@@ -20,12 +20,14 @@ export function parseDurationDays(value: unknown, field = 'step'): number {
     days = value;
   } else if (typeof value === 'string') {
     const m = /^\s*([0-9]*\.?[0-9]+(?:e[+-]?\d+)?)\s*(s|min|h|d|yr)?\s*$/i.exec(value);
-    if (!m) throw new InputError(field, value, 'must be a duration such as 30d, 6h, 15min, 90s or 2.5yr');
+    if (!m)
+      throw new InputError(field, value, 'must be a duration such as 30d, 6h, 15min, 90s or 2.5yr');
     days = Number(m[1]) * UNITS_IN_DAYS[(m[2] ?? 'd').toLowerCase()]!;
   } else {
     throw new InputError(field, value, 'must be a duration such as 30d, 6h, 15min, 90s or 2.5yr');
   }
-  if (!Number.isFinite(days) || days <= 0) throw new InputError(field, value, 'must be a positive duration');
+  if (!Number.isFinite(days) || days <= 0)
+    throw new InputError(field, value, 'must be a positive duration');
   return days;
 }
 
@@ -39,7 +41,12 @@ export const MAX_EPOCHS = 200_000;
 export function epochRange(startJd: number, endJd: number, stepDays: number): Float64Array {
   if (endJd < startJd) throw new InputError('end', endJd, `must not be before start (${startJd})`);
   const count = Math.floor((endJd - startJd) / stepDays + 1e-9) + 1;
-  if (count > MAX_EPOCHS) throw new InputError('step', stepDays, `gives ${count} epochs; at most ${MAX_EPOCHS} per request`);
+  if (count > MAX_EPOCHS)
+    throw new InputError(
+      'step',
+      stepDays,
+      `gives ${count} epochs; at most ${MAX_EPOCHS} per request`,
+    );
   return Float64Array.from({ length: count }, (_, i) => startJd + i * stepDays);
 }
 
@@ -51,9 +58,11 @@ export type EpochsInput = string[] | { start: string; end: string; step: string 
  * @throws InputError naming `epochs.<i>`, `epochs.start`, `epochs.end` or `epochs.step`
  */
 export function resolveEpochs(epochs: EpochsInput): Float64Array {
-  if (Array.isArray(epochs)) return Float64Array.from(epochs, (e, i) => parseEpoch(e, `epochs.${i}`));
+  if (Array.isArray(epochs))
+    return Float64Array.from(epochs, (e, i) => parseEpoch(e, `epochs.${i}`));
   const start = parseEpoch(epochs.start, 'epochs.start');
   const end = parseEpoch(epochs.end, 'epochs.end');
-  if (end < start) throw new InputError('epochs.end', epochs.end, 'must not be before epochs.start');
+  if (end < start)
+    throw new InputError('epochs.end', epochs.end, 'must not be before epochs.start');
   return epochRange(start, end, parseDurationDays(epochs.step, 'epochs.step'));
 }

@@ -24,7 +24,8 @@ import {
 import { InputError } from '../errors.ts';
 
 const MS_PER_DAY = SECONDS_PER_DAY * 1000;
-const ISO_RE = /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d+))?)?(Z|[+-]\d{2}:?\d{2})?)?$/i;
+const ISO_RE =
+  /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d+))?)?(Z|[+-]\d{2}:?\d{2})?)?$/i;
 const NUMBER_RE = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?$/i;
 
 /** The forms an epoch can be written in. */
@@ -37,7 +38,11 @@ export type EpochFormat = 'iso' | 'jd' | 'mjd' | 'julian' | 'besselian';
  */
 export function parseEpoch(value: unknown, field = 'epoch'): number {
   if (typeof value !== 'string') {
-    throw new InputError(field, value, `must be an epoch string: ISO 8601, "JD …", "MJD …", "J2027.35" or "B1934.008"`);
+    throw new InputError(
+      field,
+      value,
+      `must be an epoch string: ISO 8601, "JD …", "MJD …", "J2027.35" or "B1934.008"`,
+    );
   }
   const s = value.trim();
   const prefixed = /^(mjd|jd|j|b)\s*(.*)$/i.exec(s);
@@ -61,15 +66,36 @@ export function parseEpoch(value: unknown, field = 'epoch'): number {
   }
   const m = ISO_RE.exec(s);
   if (!m) {
-    throw new InputError(field, value, `is not an epoch: use ISO 8601 with a zone (2027-03-01T04:30Z), "JD …", "MJD …", "J2027.35" or "B1934.008"`);
+    throw new InputError(
+      field,
+      value,
+      `is not an epoch: use ISO 8601 with a zone (2027-03-01T04:30Z), "JD …", "MJD …", "J2027.35" or "B1934.008"`,
+    );
   }
   const [, y, mo, d, hh, mm, ss, frac, zone] = m;
   if (hh !== undefined && zone === undefined) {
-    throw new InputError(field, value, 'must give its time zone (Z or ±hh:mm): times are never read in the machine zone');
+    throw new InputError(
+      field,
+      value,
+      'must give its time zone (Z or ±hh:mm): times are never read in the machine zone',
+    );
   }
-  const ms = Date.UTC(Number(y), Number(mo) - 1, Number(d), Number(hh ?? 0), Number(mm ?? 0), Number(ss ?? 0));
+  const ms = Date.UTC(
+    Number(y),
+    Number(mo) - 1,
+    Number(d),
+    Number(hh ?? 0),
+    Number(mm ?? 0),
+    Number(ss ?? 0),
+  );
   const check = new Date(ms);
-  if (check.getUTCMonth() !== Number(mo) - 1 || check.getUTCDate() !== Number(d) || Number(hh ?? 0) > 23 || Number(mm ?? 0) > 59 || Number(ss ?? 0) > 60) {
+  if (
+    check.getUTCMonth() !== Number(mo) - 1 ||
+    check.getUTCDate() !== Number(d) ||
+    Number(hh ?? 0) > 23 ||
+    Number(mm ?? 0) > 59 ||
+    Number(ss ?? 0) > 60
+  ) {
     throw new InputError(field, value, 'is not a real calendar date and time');
   }
   let offsetMin = 0;

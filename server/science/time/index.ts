@@ -11,4 +11,10 @@ export {
   jdToBesselianEpoch,
   type EpochFormat,
 } from './epoch.ts';
-export { parseDurationDays, epochRange, resolveEpochs, MAX_EPOCHS, type EpochsInput } from './duration.ts';
+export {
+  parseDurationDays,
+  epochRange,
+  resolveEpochs,
+  MAX_EPOCHS,
+  type EpochsInput,
+} from './duration.ts';

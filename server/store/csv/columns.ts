@@ -52,7 +52,11 @@ export const MEASUREMENT_COLUMNS = [
   'notes',
 ] as const;
 
-export const COLUMNS: Record<CsvKind, readonly string[]> = { targets: TARGET_COLUMNS, orbits: ORBIT_COLUMNS, measurements: MEASUREMENT_COLUMNS };
+export const COLUMNS: Record<CsvKind, readonly string[]> = {
+  targets: TARGET_COLUMNS,
+  orbits: ORBIT_COLUMNS,
+  measurements: MEASUREMENT_COLUMNS,
+};
 
 /** Which columns are required in the header (others may be left out entirely). */
 export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
@@ -62,7 +66,12 @@ export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
 };
 
 /** A column whose name ends in its unit holds a number, as do the dimensionless ones listed here. */
-const NUMBER_BY_NAME = /(Years|Arcsec|Deg|Pc|KmS|Mas)$|^(eccentricity|correlation|magnitude|blockId)$/;
+const NUMBER_BY_NAME =
+  /(Years|Arcsec|Deg|Pc|KmS|Mas)$|^(eccentricity|correlation|magnitude|blockId)$/;
 
 /** Columns read as numbers (a cell that is not a number is reported as it is). */
-export const NUMERIC: ReadonlySet<string> = new Set<string>([...TARGET_COLUMNS, ...ORBIT_COLUMNS, ...MEASUREMENT_COLUMNS].filter((c) => NUMBER_BY_NAME.test(c)));
+export const NUMERIC: ReadonlySet<string> = new Set<string>(
+  [...TARGET_COLUMNS, ...ORBIT_COLUMNS, ...MEASUREMENT_COLUMNS].filter((c) =>
+    NUMBER_BY_NAME.test(c),
+  ),
+);

@@ -27,15 +27,28 @@ export interface CalendarOptions {
   flagsAtJd?: number;
 }
 
-export async function campaignCalendar(db: DbOrTx, campaignId: number, options: CalendarOptions = {}): Promise<string> {
+export async function campaignCalendar(
+  db: DbOrTx,
+  campaignId: number,
+  options: CalendarOptions = {},
+): Promise<string> {
   const campaign = await getById(db, campaignEntity, campaignId);
   const { targetIds } = await campaignMembers(db, campaignId);
   const domain = options.domain ?? 'epochwright.invalid';
   const stamp = new Date(options.stampMs ?? Date.parse(campaign.updatedAt));
-  const cal = ical({ name: `epochwright: ${campaign.name}`, prodId: { company: 'epochwright', product: 'campaign feed', language: 'EN' } });
+  const cal = ical({
+    name: `epochwright: ${campaign.name}`,
+    prodId: { company: 'epochwright', product: 'campaign feed', language: 'EN' },
+  });
 
   const rows = await db
-    .select({ b: blocks, night: nights.date, site: sites.name, target: targets.name, system: systems.name })
+    .select({
+      b: blocks,
+      night: nights.date,
+      site: sites.name,
+      target: targets.name,
+      system: systems.name,
+    })
     .from(blocks)
     .innerJoin(nights, eq(nights.id, blocks.nightId))
     .innerJoin(sites, eq(sites.id, nights.siteId))
@@ -50,14 +63,24 @@ export async function campaignCalendar(db: DbOrTx, campaignId: number, options: 
       end: new Date(r.b.endUtc),
       stamp,
       summary: `${r.target} (${r.system}) ${r.b.kind} at ${r.site} [${r.b.status}]`,
-      description: [`Night ${r.night} at ${r.site}; block ${r.b.id}, version ${r.b.version}.`, r.b.notes, r.b.laserGuideStar ? LASER_GUIDE_STAR_CAUTION : ''].filter(Boolean).join('\n'),
+      description: [
+        `Night ${r.night} at ${r.site}; block ${r.b.id}, version ${r.b.version}.`,
+        r.b.notes,
+        r.b.laserGuideStar ? LASER_GUIDE_STAR_CAUTION : '',
+      ]
+        .filter(Boolean)
+        .join('\n'),
     });
   }
 
   const startJd = parseEpoch(`${campaign.startDate}T00:00Z`, 'startDate');
   const endJd = parseEpoch(`${campaign.endDate}T00:00Z`, 'endDate') + 1 + 365.25;
   if (targetIds.length) {
-    const named = await db.select({ id: targets.id, name: targets.name, system: systems.name }).from(targets).innerJoin(systems, eq(systems.id, targets.systemId)).where(inArray(targets.id, targetIds));
+    const named = await db
+      .select({ id: targets.id, name: targets.name, system: systems.name })
+      .from(targets)
+      .innerJoin(systems, eq(systems.id, targets.systemId))
+      .where(inArray(targets.id, targetIds));
     for (const t of named) {
       let found;
       try {
@@ -96,4 +119,3 @@ export async function campaignCalendar(db: DbOrTx, campaignId: number, options: 
   }
   return cal.toString();
 }
-

@@ -9,7 +9,10 @@ import type { MeasurementRow } from '../repos/measurements.ts';
 export type ExportedMeasurement = MeasurementRow & { system: string; target: string };
 
 /** Every measurement matching `where`, ordered by target and epoch (no paging: exports are whole). */
-export async function measurementsForExport(db: DbOrTx, where: (SQL | undefined)[]): Promise<ExportedMeasurement[]> {
+export async function measurementsForExport(
+  db: DbOrTx,
+  where: (SQL | undefined)[],
+): Promise<ExportedMeasurement[]> {
   const rows = await db
     .select({ m: measurements, system: systems.name, target: targets.name })
     .from(measurements)
@@ -22,9 +25,11 @@ export async function measurementsForExport(db: DbOrTx, where: (SQL | undefined)
 
 /** RFC 4180 CSV with the header of MEASUREMENT_COLUMNS; numbers as stored (full precision). */
 export function measurementsCsv(rows: readonly ExportedMeasurement[]): string {
-  const cells = rows.map((r) => MEASUREMENT_COLUMNS.map((c) => {
-    const v = (r as Record<string, unknown>)[c];
-    return v === null || v === undefined ? '' : String(v);
-  }));
+  const cells = rows.map((r) =>
+    MEASUREMENT_COLUMNS.map((c) => {
+      const v = (r as Record<string, unknown>)[c];
+      return v === null || v === undefined ? '' : String(v);
+    }),
+  );
   return stringify([[...MEASUREMENT_COLUMNS], ...cells]);
 }

@@ -11,16 +11,36 @@ import { siteEntity } from './sites.ts';
 export type CampaignRow = typeof campaigns.$inferSelect;
 export type CampaignView = CampaignRow & { targetIds: number[]; siteIds: number[] };
 
-export const campaignEntity = entity<CampaignRow>({ name: 'campaign', table: campaigns, hasUpdatedAt: true, versioned: false, orderBy: [campaigns.startDate] });
+export const campaignEntity = entity<CampaignRow>({
+  name: 'campaign',
+  table: campaigns,
+  hasUpdatedAt: true,
+  versioned: false,
+  orderBy: [campaigns.startDate],
+});
 
-export async function campaignMembers(db: DbOrTx, campaignId: number): Promise<{ targetIds: number[]; siteIds: number[] }> {
-  const t = await db.select({ id: campaignTargets.targetId }).from(campaignTargets).where(eq(campaignTargets.campaignId, campaignId));
-  const s = await db.select({ id: campaignSites.siteId }).from(campaignSites).where(eq(campaignSites.campaignId, campaignId));
-  return { targetIds: t.map((r) => r.id).sort((a, b) => a - b), siteIds: s.map((r) => r.id).sort((a, b) => a - b) };
+export async function campaignMembers(
+  db: DbOrTx,
+  campaignId: number,
+): Promise<{ targetIds: number[]; siteIds: number[] }> {
+  const t = await db
+    .select({ id: campaignTargets.targetId })
+    .from(campaignTargets)
+    .where(eq(campaignTargets.campaignId, campaignId));
+  const s = await db
+    .select({ id: campaignSites.siteId })
+    .from(campaignSites)
+    .where(eq(campaignSites.campaignId, campaignId));
+  return {
+    targetIds: t.map((r) => r.id).sort((a, b) => a - b),
+    siteIds: s.map((r) => r.id).sort((a, b) => a - b),
+  };
 }
 
 export function campaignRepository(db: Db) {
-  const keys = Object.keys(CampaignFields.shape).filter((k) => k !== 'targetIds' && k !== 'siteIds');
+  const keys = Object.keys(CampaignFields.shape).filter(
+    (k) => k !== 'targetIds' && k !== 'siteIds',
+  );
   return repository(db, {
     entity: campaignEntity,
     schema: CampaignInput,
@@ -29,12 +49,19 @@ export function campaignRepository(db: Db) {
     after: async (tx, _actor, row, input) => {
       const targetIds = [...new Set(input.targetIds)];
       const siteIds = [...new Set(input.siteIds)];
-      for (const [k, t] of targetIds.entries()) await requireRef(tx, targetEntity, `targetIds.${k}`, t);
+      for (const [k, t] of targetIds.entries())
+        await requireRef(tx, targetEntity, `targetIds.${k}`, t);
       for (const [k, s] of siteIds.entries()) await requireRef(tx, siteEntity, `siteIds.${k}`, s);
       await tx.delete(campaignTargets).where(eq(campaignTargets.campaignId, row.id));
       await tx.delete(campaignSites).where(eq(campaignSites.campaignId, row.id));
-      if (targetIds.length) await tx.insert(campaignTargets).values(targetIds.map((targetId) => ({ campaignId: row.id, targetId })));
-      if (siteIds.length) await tx.insert(campaignSites).values(siteIds.map((siteId) => ({ campaignId: row.id, siteId })));
+      if (targetIds.length)
+        await tx
+          .insert(campaignTargets)
+          .values(targetIds.map((targetId) => ({ campaignId: row.id, targetId })));
+      if (siteIds.length)
+        await tx
+          .insert(campaignSites)
+          .values(siteIds.map((siteId) => ({ campaignId: row.id, siteId })));
     },
   });
 }

@@ -12,8 +12,16 @@ export type SystemRow = typeof systems.$inferSelect;
 export type TargetRow = typeof targets.$inferSelect;
 
 /** A system's position as the sky engine's target input: ICRS at `positionEpoch`, carried by its proper motion. */
-export function systemSkyPosition(s: Pick<SystemRow, 'raDeg' | 'decDeg' | 'pmRaMasYr' | 'pmDecMasYr' | 'positionEpoch'>) {
-  return { raDeg: s.raDeg, decDeg: s.decDeg, pmRaMasYr: s.pmRaMasYr, pmDecMasYr: s.pmDecMasYr, epoch: s.positionEpoch };
+export function systemSkyPosition(
+  s: Pick<SystemRow, 'raDeg' | 'decDeg' | 'pmRaMasYr' | 'pmDecMasYr' | 'positionEpoch'>,
+) {
+  return {
+    raDeg: s.raDeg,
+    decDeg: s.decDeg,
+    pmRaMasYr: s.pmRaMasYr,
+    pmDecMasYr: s.pmDecMasYr,
+    epoch: s.positionEpoch,
+  };
 }
 
 export const systemEntity = entity<SystemRow>({
@@ -27,7 +35,12 @@ export const systemEntity = entity<SystemRow>({
     try {
       validateTarget({ name: next.name, ...systemSkyPosition(next as SystemRow) }, 'system');
     } catch (err) {
-      if (err instanceof InputError) throw new InputError(err.field.replace(/^system\./, '').replace(/^epoch$/, 'positionEpoch'), err.value, err.rule);
+      if (err instanceof InputError)
+        throw new InputError(
+          err.field.replace(/^system\./, '').replace(/^epoch$/, 'positionEpoch'),
+          err.value,
+          err.rule,
+        );
       throw err;
     }
   },
@@ -48,10 +61,17 @@ export function systemRepository(db: Db) {
     entity: systemEntity,
     schema: SystemInput,
     keys: Object.keys(SystemInput.shape),
-    toRow: (input) => ({ ...input, positionEpoch: normaliseEpoch(input.positionEpoch, 'positionEpoch').iso }),
+    toRow: (input) => ({
+      ...input,
+      positionEpoch: normaliseEpoch(input.positionEpoch, 'positionEpoch').iso,
+    }),
   });
 }
 
 export function targetRepository(db: Db) {
-  return repository(db, { entity: targetEntity, schema: TargetInput, keys: Object.keys(TargetInput.shape) });
+  return repository(db, {
+    entity: targetEntity,
+    schema: TargetInput,
+    keys: Object.keys(TargetInput.shape),
+  });
 }

@@ -21,13 +21,20 @@ export const measurementEntity = entity<MeasurementRow>({
     await requireRef(tx, targetEntity, 'targetId', next.targetId);
     if (next.blockId === null || next.blockId === undefined) return;
     const block = await requireRef(tx, blockEntity, 'blockId', next.blockId);
-    if (block.targetId !== next.targetId) throw new InputError('blockId', next.blockId, `observed target ${block.targetId}, not target ${String(next.targetId)}`);
+    if (block.targetId !== next.targetId)
+      throw new InputError(
+        'blockId',
+        next.blockId,
+        `observed target ${block.targetId}, not target ${String(next.targetId)}`,
+      );
   },
 });
 
 const keys = Object.keys(MeasurementFields.shape);
 
-export function measurementRow(m: ReturnType<typeof MeasurementInput.parse>): Record<string, unknown> {
+export function measurementRow(
+  m: ReturnType<typeof MeasurementInput.parse>,
+): Record<string, unknown> {
   const { iso, jd } = normaliseEpoch(m.epoch, 'epoch');
   const row: Record<string, unknown> = {};
   for (const k of keys) row[k] = (m as Record<string, unknown>)[k] ?? null;
@@ -35,5 +42,10 @@ export function measurementRow(m: ReturnType<typeof MeasurementInput.parse>): Re
 }
 
 export function measurementRepository(db: Db) {
-  return repository(db, { entity: measurementEntity, schema: MeasurementInput, keys, toRow: measurementRow });
+  return repository(db, {
+    entity: measurementEntity,
+    schema: MeasurementInput,
+    keys,
+    toRow: measurementRow,
+  });
 }

@@ -30,10 +30,27 @@ export const nightEntity = entity<NightRow>({
     const campaign = await requireRef(tx, campaignEntity, 'campaignId', next.campaignId);
     const date = next.date as string;
     if (date < campaign.startDate || date > campaign.endDate) {
-      throw new InputError('date', date, `must lie within the campaign's dates ${campaign.startDate} to ${campaign.endDate}`);
+      throw new InputError(
+        'date',
+        date,
+        `must lie within the campaign's dates ${campaign.startDate} to ${campaign.endDate}`,
+      );
     }
-    const member = await tx.select().from(campaignSites).where(and(eq(campaignSites.campaignId, campaign.id), eq(campaignSites.siteId, next.siteId as number)));
-    if (member.length === 0) throw new InputError('siteId', next.siteId, `is not one of the sites of campaign ${campaign.id}`);
+    const member = await tx
+      .select()
+      .from(campaignSites)
+      .where(
+        and(
+          eq(campaignSites.campaignId, campaign.id),
+          eq(campaignSites.siteId, next.siteId as number),
+        ),
+      );
+    if (member.length === 0)
+      throw new InputError(
+        'siteId',
+        next.siteId,
+        `is not one of the sites of campaign ${campaign.id}`,
+      );
   },
 });
 
@@ -58,13 +75,22 @@ export const blockEntity = entity<BlockRow>({
     const site = await requireRef(tx, siteEntity, 'siteId', night.siteId);
     const span = nightIntervalUtc(night.date, site.timeZone);
     if (start < Date.parse(span.start) || end > Date.parse(span.end)) {
-      throw new InputError('startUtc', next.startUtc, `with endUtc must lie within night ${night.date} at ${site.name} (${span.start} to ${span.end})`);
+      throw new InputError(
+        'startUtc',
+        next.startUtc,
+        `with endUtc must lie within night ${night.date} at ${site.name} (${span.start} to ${span.end})`,
+      );
     }
   },
 });
 
 export function nightRepository(db: Db) {
-  return repository(db, { entity: nightEntity, schema: NightInput, keys: Object.keys(NightInput.shape), fixedKeys: ['siteId', 'date'] });
+  return repository(db, {
+    entity: nightEntity,
+    schema: NightInput,
+    keys: Object.keys(NightInput.shape),
+    fixedKeys: ['siteId', 'date'],
+  });
 }
 
 export function blockRepository(db: Db) {
@@ -73,6 +99,10 @@ export function blockRepository(db: Db) {
     schema: BlockInput,
     keys: Object.keys(BlockInput.shape),
     fixedKeys: ['origin'],
-    toRow: (b) => ({ ...b, startUtc: normaliseEpoch(b.startUtc, 'startUtc').iso, endUtc: normaliseEpoch(b.endUtc, 'endUtc').iso }),
+    toRow: (b) => ({
+      ...b,
+      startUtc: normaliseEpoch(b.startUtc, 'startUtc').iso,
+      endUtc: normaliseEpoch(b.endUtc, 'endUtc').iso,
+    }),
   });
 }

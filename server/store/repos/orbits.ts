@@ -29,7 +29,10 @@ export const orbitSolutionEntity = entity<OrbitSolutionRow>({
 
 async function setCurrent(tx: DbOrTx, targetId: number, solutionId: number): Promise<void> {
   // Clear first: the partial unique index allows one current row per target at any moment.
-  await tx.update(orbitSolutions).set({ current: false }).where(and(eq(orbitSolutions.targetId, targetId), eq(orbitSolutions.current, true)));
+  await tx
+    .update(orbitSolutions)
+    .set({ current: false })
+    .where(and(eq(orbitSolutions.targetId, targetId), eq(orbitSolutions.current, true)));
   await tx.update(orbitSolutions).set({ current: true }).where(eq(orbitSolutions.id, solutionId));
 }
 
@@ -39,13 +42,25 @@ export function orbitSolutionRepository(db: Db) {
     validateOrbit(s.orbit as unknown as OrbitInput, 'orbit');
     await requireRef(tx, targetEntity, 'targetId', s.targetId);
     if (s.provenance === 'fitted' && !(s.fittedFrom && s.fittedFrom.length > 0)) {
-      throw new InputError('fittedFrom', s.fittedFrom, 'must list the measurements a fitted solution used');
+      throw new InputError(
+        'fittedFrom',
+        s.fittedFrom,
+        'must list the measurements a fitted solution used',
+      );
     }
     for (const [k, m] of (s.fittedFrom ?? []).entries()) {
       const row = await requireRef(tx, measurementEntity, `fittedFrom.${k}`, m);
-      if (row.targetId !== s.targetId) throw new InputError(`fittedFrom.${k}`, m, `is a measurement of target ${row.targetId}, not ${s.targetId}`);
+      if (row.targetId !== s.targetId)
+        throw new InputError(
+          `fittedFrom.${k}`,
+          m,
+          `is a measurement of target ${row.targetId}, not ${s.targetId}`,
+        );
     }
-    const [{ last }] = (await tx.select({ last: max(orbitSolutions.version) }).from(orbitSolutions).where(eq(orbitSolutions.targetId, s.targetId))) as [{ last: number | null }];
+    const [{ last }] = (await tx
+      .select({ last: max(orbitSolutions.version) })
+      .from(orbitSolutions)
+      .where(eq(orbitSolutions.targetId, s.targetId))) as [{ last: number | null }];
     const version = (last ?? 0) + 1;
     const makeCurrent = s.makeCurrent || last === null;
     const [row] = await tx
@@ -64,12 +79,20 @@ export function orbitSolutionRepository(db: Db) {
       })
       .returning();
     if (makeCurrent) await setCurrent(tx, s.targetId, row!.id);
-    await recordAudit(tx, actor, 'create', 'orbit solution', row!.id, { targetId: s.targetId, version, provenance: s.provenance });
+    await recordAudit(tx, actor, 'create', 'orbit solution', row!.id, {
+      targetId: s.targetId,
+      version,
+      provenance: s.provenance,
+    });
     return { ...row!, current: makeCurrent };
   };
   return {
     entity: orbitSolutionEntity,
-    list: (where: (SQL | undefined)[], page?: PageRequest, on: DbOrTx = db): Promise<Page<OrbitSolutionRow>> => list(on, orbitSolutionEntity, where, page),
+    list: (
+      where: (SQL | undefined)[],
+      page?: PageRequest,
+      on: DbOrTx = db,
+    ): Promise<Page<OrbitSolutionRow>> => list(on, orbitSolutionEntity, where, page),
     get: (id: number, on: DbOrTx = db) => getById(on, orbitSolutionEntity, id),
     createIn,
     create: (actor: Actor, input: unknown) => db.transaction((tx) => createIn(tx, actor, input)),
@@ -84,16 +107,28 @@ export function orbitSolutionRepository(db: Db) {
     /** Versions are history: only a version that is not current may be removed. */
     remove: async (actor: Actor, id: number) => {
       const row = await getById(db, orbitSolutionEntity, id);
-      if (row.current) throw new ConflictError('not_allowed', `orbit solution ${id} is the current one of target ${row.targetId}; make another version current first`);
+      if (row.current)
+        throw new ConflictError(
+          'not_allowed',
+          `orbit solution ${id} is the current one of target ${row.targetId}; make another version current first`,
+        );
       await remove(db, orbitSolutionEntity, actor, id);
     },
   };
 }
 
 /** The current solution of a target and its validated orbit. */
-export async function currentOrbit(db: DbOrTx, targetId: number): Promise<{ solution: OrbitSolutionRow; orbit: Orbit }> {
+export async function currentOrbit(
+  db: DbOrTx,
+  targetId: number,
+): Promise<{ solution: OrbitSolutionRow; orbit: Orbit }> {
   await getById(db, targetEntity, targetId);
-  const [solution] = await db.select().from(orbitSolutions).where(and(eq(orbitSolutions.targetId, targetId), eq(orbitSolutions.current, true))).orderBy(desc(orbitSolutions.version)).limit(1);
+  const [solution] = await db
+    .select()
+    .from(orbitSolutions)
+    .where(and(eq(orbitSolutions.targetId, targetId), eq(orbitSolutions.current, true)))
+    .orderBy(desc(orbitSolutions.version))
+    .limit(1);
   if (!solution) throw new NotFoundError('current orbit solution for target', targetId);
   return { solution, orbit: validateOrbit(solution.orbit, 'orbit') };
 }

@@ -30,22 +30,46 @@ export const nightReportEntity = entity<NightReportRow>({
 });
 
 export async function outcomesOf(db: DbOrTx, reportId: number): Promise<OutcomeRow[]> {
-  return db.select().from(blockOutcomes).where(eq(blockOutcomes.reportId, reportId)).orderBy(blockOutcomes.blockId);
+  return db
+    .select()
+    .from(blockOutcomes)
+    .where(eq(blockOutcomes.reportId, reportId))
+    .orderBy(blockOutcomes.blockId);
 }
 
-async function writeOutcomes(tx: DbOrTx, actor: Actor, report: NightReportRow, outcomes: z.output<typeof OutcomeInput>[]): Promise<void> {
+async function writeOutcomes(
+  tx: DbOrTx,
+  actor: Actor,
+  report: NightReportRow,
+  outcomes: z.output<typeof OutcomeInput>[],
+): Promise<void> {
   const seen = new Set<number>();
   for (const [k, o] of outcomes.entries()) {
     const block = await requireRef(tx, blockEntity, `outcomes.${k}.blockId`, o.blockId);
-    if (block.nightId !== report.nightId) throw new InputError(`outcomes.${k}.blockId`, o.blockId, `belongs to night ${block.nightId}, not to night ${report.nightId} of this report`);
-    if (seen.has(o.blockId)) throw new InputError(`outcomes.${k}.blockId`, o.blockId, 'appears twice in outcomes');
+    if (block.nightId !== report.nightId)
+      throw new InputError(
+        `outcomes.${k}.blockId`,
+        o.blockId,
+        `belongs to night ${block.nightId}, not to night ${report.nightId} of this report`,
+      );
+    if (seen.has(o.blockId))
+      throw new InputError(`outcomes.${k}.blockId`, o.blockId, 'appears twice in outcomes');
     seen.add(o.blockId);
   }
   await tx.delete(blockOutcomes).where(eq(blockOutcomes.reportId, report.id));
   for (const o of outcomes) {
-    await tx.insert(blockOutcomes).values({ reportId: report.id, blockId: o.blockId, status: o.status, exposureMinutes: o.exposureMinutes ?? null, notes: o.notes });
+    await tx
+      .insert(blockOutcomes)
+      .values({
+        reportId: report.id,
+        blockId: o.blockId,
+        status: o.status,
+        exposureMinutes: o.exposureMinutes ?? null,
+        notes: o.notes,
+      });
     const block = (await findById(tx, blockEntity, o.blockId))!;
-    if (block.status !== o.status) await updateIn(tx, blockEntity, actor, block.id, { status: o.status }, block.version);
+    if (block.status !== o.status)
+      await updateIn(tx, blockEntity, actor, block.id, { status: o.status }, block.version);
   }
 }
 
@@ -56,12 +80,24 @@ export function nightReportRepository(db: Db) {
     schema: NightReportInput,
     keys,
     fixedKeys: ['nightId'],
-    extraInput: async (tx, row) => ({ outcomes: (await outcomesOf(tx, row.id)).map(({ blockId, status, exposureMinutes, notes }) => ({ blockId, status, exposureMinutes, notes })) }),
+    extraInput: async (tx, row) => ({
+      outcomes: (await outcomesOf(tx, row.id)).map(
+        ({ blockId, status, exposureMinutes, notes }) => ({
+          blockId,
+          status,
+          exposureMinutes,
+          notes,
+        }),
+      ),
+    }),
     toRow: (input, actor) => {
       const row: Record<string, unknown> = { authorId: actor.userId };
       for (const k of keys) row[k] = (input as Record<string, unknown>)[k] ?? null;
       return row;
     },
-    after: (tx, actor, report, input, raw) => (raw.outcomes === undefined ? Promise.resolve() : writeOutcomes(tx, actor, report, input.outcomes)),
+    after: (tx, actor, report, input, raw) =>
+      raw.outcomes === undefined
+        ? Promise.resolve()
+        : writeOutcomes(tx, actor, report, input.outcomes),
   });
 }

@@ -14,7 +14,8 @@ function skySite(values: Record<string, unknown>): Site {
   try {
     return validateSite(values, 'site');
   } catch (err) {
-    if (err instanceof InputError) throw new InputError(err.field.replace(/^site\./, ''), err.value, err.rule);
+    if (err instanceof InputError)
+      throw new InputError(err.field.replace(/^site\./, ''), err.value, err.rule);
     throw err;
   }
 }

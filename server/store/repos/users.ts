@@ -16,7 +16,13 @@ import { UserInput, type Role } from '../schemas/entities.ts';
 export type UserRow = typeof users.$inferSelect;
 export type { Role };
 
-export const userEntity = entity<UserRow>({ name: 'user', table: users, hasUpdatedAt: false, versioned: false, orderBy: [users.name] });
+export const userEntity = entity<UserRow>({
+  name: 'user',
+  table: users,
+  hasUpdatedAt: false,
+  versioned: false,
+  orderBy: [users.name],
+});
 
 /** Token prefix makes a leaked secret easy to recognise in logs and scanners. */
 const TOKEN_PREFIX = 'ewt_';
@@ -41,12 +47,27 @@ export interface TokenListing {
   createdAt: string;
   revokedAt: string | null;
 }
-const listing = { id: tokens.id, userName: users.name, role: users.role, label: tokens.label, createdAt: tokens.createdAt, revokedAt: tokens.revokedAt };
+const listing = {
+  id: tokens.id,
+  userName: users.name,
+  role: users.role,
+  label: tokens.label,
+  createdAt: tokens.createdAt,
+  revokedAt: tokens.revokedAt,
+};
 
 export function userRepository(db: Db) {
-  const issue = async (tx: Parameters<Parameters<Db['transaction']>[0]>[0], actor: Actor, user: UserRow, label: string): Promise<IssuedToken> => {
+  const issue = async (
+    tx: Parameters<Parameters<Db['transaction']>[0]>[0],
+    actor: Actor,
+    user: UserRow,
+    label: string,
+  ): Promise<IssuedToken> => {
     const secret = TOKEN_PREFIX + randomBytes(32).toString('base64url');
-    const [row] = await tx.insert(tokens).values({ userId: user.id, hash: hashToken(secret), label, createdAt: nowIso() }).returning();
+    const [row] = await tx
+      .insert(tokens)
+      .values({ userId: user.id, hash: hashToken(secret), label, createdAt: nowIso() })
+      .returning();
     await recordAudit(tx, actor, 'create', 'token', row!.id, { userId: user.id, label });
     return { user, tokenId: row!.id, secret };
   };
@@ -72,18 +93,34 @@ export function userRepository(db: Db) {
     /** Revoke an active token; returns what was revoked (never the hash). */
     revokeToken: (actor: Actor, tokenId: number): Promise<TokenListing> =>
       db.transaction(async (tx) => {
-        const done = await tx.update(tokens).set({ revokedAt: nowIso() }).where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt))).returning({ id: tokens.id });
+        const done = await tx
+          .update(tokens)
+          .set({ revokedAt: nowIso() })
+          .where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt)))
+          .returning({ id: tokens.id });
         if (done.length === 0) throw new NotFoundError('active token', tokenId);
         await recordAudit(tx, actor, 'update', 'token', tokenId, { revoked: true });
-        const [row] = await tx.select(listing).from(tokens).innerJoin(users, eq(users.id, tokens.userId)).where(eq(tokens.id, tokenId));
+        const [row] = await tx
+          .select(listing)
+          .from(tokens)
+          .innerJoin(users, eq(users.id, tokens.userId))
+          .where(eq(tokens.id, tokenId));
         return row!;
       }),
     /** Every token (or one user's, by name), oldest first: id, owner, label and dates; never the hash. */
     listTokens: async (userName?: string): Promise<TokenListing[]> => {
-      if (userName !== undefined && (await db.select({ id: users.id }).from(users).where(eq(users.name, userName))).length === 0) {
+      if (
+        userName !== undefined &&
+        (await db.select({ id: users.id }).from(users).where(eq(users.name, userName))).length === 0
+      ) {
         throw new NotFoundError('user named', userName);
       }
-      return db.select(listing).from(tokens).innerJoin(users, eq(users.id, tokens.userId)).where(userName === undefined ? undefined : eq(users.name, userName)).orderBy(asc(tokens.id));
+      return db
+        .select(listing)
+        .from(tokens)
+        .innerJoin(users, eq(users.id, tokens.userId))
+        .where(userName === undefined ? undefined : eq(users.name, userName))
+        .orderBy(asc(tokens.id));
     },
     /** The user a bearer secret belongs to, or null when it is unknown or revoked. */
     authenticate: async (secret: string): Promise<UserRow | null> => {

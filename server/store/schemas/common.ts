@@ -20,13 +20,18 @@ export const epoch = z
     try {
       parseEpoch(v, 'epoch');
     } catch (err) {
-      ctx.addIssue({ code: 'custom', message: err instanceof InputError ? err.rule : 'is not an epoch' });
+      ctx.addIssue({
+        code: 'custom',
+        message: err instanceof InputError ? err.rule : 'is not an epoch',
+      });
     }
   });
 export const timeZone = z
   .string()
   .describe('IANA time zone, e.g. America/Santiago')
-  .refine((v) => IANAZone.isValidZone(v), { message: 'must be an IANA time zone name such as "America/Santiago"' });
+  .refine((v) => IANAZone.isValidZone(v), {
+    message: 'must be an IANA time zone name such as "America/Santiago"',
+  });
 
 /** Normalise an epoch string to ISO 8601 UTC (ms) and its JD. */
 export function normaliseEpoch(value: string, field: string): { iso: string; jd: number } {
@@ -42,7 +47,8 @@ export interface RowProblem {
 
 function valueAt(input: unknown, path: readonly PropertyKey[]): unknown {
   let v: unknown = input;
-  for (const k of path) v = v !== null && typeof v === 'object' ? (v as Record<PropertyKey, unknown>)[k] : undefined;
+  for (const k of path)
+    v = v !== null && typeof v === 'object' ? (v as Record<PropertyKey, unknown>)[k] : undefined;
   return v;
 }
 
@@ -56,7 +62,11 @@ export function problemsOf(error: z.ZodError, input: unknown, prefix = ''): RowP
 }
 
 /** Parse with a schema; on failure throw InputError for the first problem (all of them in `problems`). */
-export function parseInput<S extends z.ZodType>(schema: S, input: unknown, prefix = ''): z.output<S> {
+export function parseInput<S extends z.ZodType>(
+  schema: S,
+  input: unknown,
+  prefix = '',
+): z.output<S> {
   const r = schema.safeParse(input);
   if (r.success) return r.data;
   const problems = problemsOf(r.error, input, prefix);

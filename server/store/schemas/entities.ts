@@ -10,13 +10,23 @@ const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();
 
 export const SystemFields = z.object({
   name,
-  raDeg: z.number().min(0).lt(360).describe('ICRS right ascension of the primary, degrees [0, 360)'),
+  raDeg: z
+    .number()
+    .min(0)
+    .lt(360)
+    .describe('ICRS right ascension of the primary, degrees [0, 360)'),
   decDeg: z.number().min(-90).max(90).describe('ICRS declination of the primary, degrees'),
   pmRaMasYr: z.number().default(0).describe('proper motion μα* = μα·cos δ, mas/yr'),
   pmDecMasYr: z.number().default(0).describe('proper motion μδ, mas/yr'),
-  positionEpoch: epoch.default('J2000.0').describe('epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0'),
+  positionEpoch: epoch
+    .default('J2000.0')
+    .describe(
+      'epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0',
+    ),
   distancePc: optionalNumber(z.number().positive().describe('distance, parsec')),
-  massSolar: optionalNumber(z.number().positive().describe('mass estimate of the primary, solar masses')),
+  massSolar: optionalNumber(
+    z.number().positive().describe('mass estimate of the primary, solar masses'),
+  ),
   notes,
 });
 export const SystemInput = SystemFields;
@@ -33,11 +43,15 @@ export const TargetInput = TargetFields;
 /** The orbit is checked in depth by validateOrbit (422 naming the element); here only its shape. */
 export const OrbitShape = z
   .object({
-    elements: z.record(z.string(), z.unknown()).describe('Campbell elements or Thiele–Innes constants (see OrbitInput)'),
+    elements: z
+      .record(z.string(), z.unknown())
+      .describe('Campbell elements or Thiele–Innes constants (see OrbitInput)'),
     distancePc: z.number().positive().optional(),
     systemicVelocityKmS: z.number().optional(),
     relativity: z.record(z.string(), z.boolean()).optional(),
-    covariance: z.object({ parameters: z.array(z.string()), matrix: z.array(z.array(z.number())) }).optional(),
+    covariance: z
+      .object({ parameters: z.array(z.string()), matrix: z.array(z.array(z.number())) })
+      .optional(),
   })
   .strict();
 
@@ -58,15 +72,35 @@ export const SiteFields = z.object({
   elevationM: z.number().min(-500).max(6000).describe('elevation above the ellipsoid, metres'),
   timeZone,
   minAltitudeDeg: z.number().min(0).max(89).default(30).describe('lowest usable altitude, degrees'),
-  sunAvoidanceDeg: z.number().min(0).max(180).default(45).describe('closest allowed angle to the Sun, degrees'),
-  pressureHpa: optionalNumber(z.number().min(300).max(1100).describe('typical pressure for refraction, hPa')),
-  temperatureC: optionalNumber(z.number().min(-60).max(50).describe('typical night temperature, °C')),
+  sunAvoidanceDeg: z
+    .number()
+    .min(0)
+    .max(180)
+    .default(45)
+    .describe('closest allowed angle to the Sun, degrees'),
+  pressureHpa: optionalNumber(
+    z.number().min(300).max(1100).describe('typical pressure for refraction, hPa'),
+  ),
+  temperatureC: optionalNumber(
+    z.number().min(-60).max(50).describe('typical night temperature, °C'),
+  ),
   // Shape only here; ranges and repeated azimuths are the sky engine's validateSite rules (422).
   horizonMask: z
-    .array(z.object({ azimuthDeg: z.number().describe('degrees from north through east, [0, 360)'), altitudeDeg: z.number().describe('lowest usable refracted altitude there, degrees, [−5, 90)') }).strict())
+    .array(
+      z
+        .object({
+          azimuthDeg: z.number().describe('degrees from north through east, [0, 360)'),
+          altitudeDeg: z
+            .number()
+            .describe('lowest usable refracted altitude there, degrees, [−5, 90)'),
+        })
+        .strict(),
+    )
     .max(720)
     .default([])
-    .describe('azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon'),
+    .describe(
+      'azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon',
+    ),
   laserGuideStar: z.boolean().default(false).describe('the site runs a laser guide star'),
   notes,
 });
@@ -78,9 +112,20 @@ export const CampaignFields = z.object({
   endDate: localDate,
   goals: z
     .object({
-      cadenceDays: z.number().positive().describe('wanted interval between epochs of a target, days'),
-      densifiedCadenceDays: z.number().positive().optional().describe('interval near periapsis, days'),
-      densifyWithinDays: z.number().positive().optional().describe('how close to periapsis the dense cadence applies, days'),
+      cadenceDays: z
+        .number()
+        .positive()
+        .describe('wanted interval between epochs of a target, days'),
+      densifiedCadenceDays: z
+        .number()
+        .positive()
+        .optional()
+        .describe('interval near periapsis, days'),
+      densifyWithinDays: z
+        .number()
+        .positive()
+        .optional()
+        .describe('how close to periapsis the dense cadence applies, days'),
       kinds: z.array(z.enum(['astrometry', 'spectroscopy'])).min(1),
     })
     .strict(),
@@ -96,9 +141,17 @@ export const CampaignFields = z.object({
   siteIds: z.array(id).default([]),
   notes,
 });
-export const CampaignInput = CampaignFields.refine((c) => c.endDate >= c.startDate, { message: 'must not be before startDate', path: ['endDate'] });
+export const CampaignInput = CampaignFields.refine((c) => c.endDate >= c.startDate, {
+  message: 'must not be before startDate',
+  path: ['endDate'],
+});
 
-export const NightFields = z.object({ siteId: id, campaignId: id.nullable().optional(), date: localDate, notes });
+export const NightFields = z.object({
+  siteId: id,
+  campaignId: id.nullable().optional(),
+  date: localDate,
+  notes,
+});
 export const NightInput = NightFields;
 
 export const BlockFields = z.object({
@@ -109,7 +162,10 @@ export const BlockFields = z.object({
   endUtc: epoch.describe('end, ISO 8601 UTC'),
   status: z.enum(BLOCK_STATUSES).default('planned'),
   laserGuideStar: z.boolean().default(false),
-  pinned: z.boolean().default(false).describe('a person fixed this block where it is: no accepted plan replaces it'),
+  pinned: z
+    .boolean()
+    .default(false)
+    .describe('a person fixed this block where it is: no accepted plan replaces it'),
   notes,
 });
 /** The store's own input adds who made the block; over HTTP and the CLI that is always a person (`by-hand`). */
@@ -124,8 +180,12 @@ export const OutcomeInput = z.object({
 
 export const NightReportFields = z.object({
   nightId: id,
-  seeingArcsec: optionalNumber(z.number().positive().max(20).describe('seeing FWHM at zenith, arcsec')),
-  strehlRatio: optionalNumber(z.number().min(0).max(1).describe('adaptive-optics Strehl ratio, 0–1')),
+  seeingArcsec: optionalNumber(
+    z.number().positive().max(20).describe('seeing FWHM at zenith, arcsec'),
+  ),
+  strehlRatio: optionalNumber(
+    z.number().min(0).max(1).describe('adaptive-optics Strehl ratio, 0–1'),
+  ),
   cloudCoverPct: optionalNumber(z.number().min(0).max(100)),
   humidityPct: optionalNumber(z.number().min(0).max(100)),
   windMS: optionalNumber(z.number().min(0).max(100).describe('wind speed, m/s')),
@@ -146,18 +206,26 @@ const MEASUREMENT_FIELDS = {
 export const MeasurementFields = z.object({
   targetId: id,
   blockId: id.nullable().optional(),
-  kind: z.enum(['offsets', 'separation', 'radial-velocity']).describe('offsets Δα*, Δδ; separation and position angle; or radial velocity'),
+  kind: z
+    .enum(['offsets', 'separation', 'radial-velocity'])
+    .describe('offsets Δα*, Δδ; separation and position angle; or radial velocity'),
   epoch,
   dRaMas: optionalNumber(z.number().describe('Δα* = Δα·cos δ, east positive, mas')),
   dDecMas: optionalNumber(z.number().describe('Δδ, north positive, mas')),
   sigmaDRaMas: optionalNumber(z.number().positive()),
   sigmaDDecMas: optionalNumber(z.number().positive()),
   separationMas: optionalNumber(z.number().min(0)),
-  positionAngleDeg: optionalNumber(z.number().min(0).lt(360).describe('north through east, degrees')),
+  positionAngleDeg: optionalNumber(
+    z.number().min(0).lt(360).describe('north through east, degrees'),
+  ),
   sigmaSeparationMas: optionalNumber(z.number().positive()),
   sigmaPositionAngleDeg: optionalNumber(z.number().positive()),
-  correlation: optionalNumber(z.number().min(-1).max(1).describe('correlation of the two astrometric errors')),
-  radialVelocityKmS: optionalNumber(z.number().min(-30_000).max(30_000).describe('positive receding, km/s')),
+  correlation: optionalNumber(
+    z.number().min(-1).max(1).describe('correlation of the two astrometric errors'),
+  ),
+  radialVelocityKmS: optionalNumber(
+    z.number().min(-30_000).max(30_000).describe('positive receding, km/s'),
+  ),
   sigmaRadialVelocityKmS: optionalNumber(z.number().positive()),
   instrument: z.string().trim().min(1).max(120),
   notes,
@@ -166,14 +234,23 @@ export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
   for (const [kind, fields] of Object.entries(MEASUREMENT_FIELDS)) {
     for (const f of fields) {
       const present = m[f] !== undefined && m[f] !== null;
-      if (kind === m.kind && !present) ctx.addIssue({ code: 'custom', path: [f], message: `is required for kind "${m.kind}"` });
-      if (kind !== m.kind && present) ctx.addIssue({ code: 'custom', path: [f], message: `does not belong to kind "${m.kind}"` });
+      if (kind === m.kind && !present)
+        ctx.addIssue({ code: 'custom', path: [f], message: `is required for kind "${m.kind}"` });
+      if (kind !== m.kind && present)
+        ctx.addIssue({ code: 'custom', path: [f], message: `does not belong to kind "${m.kind}"` });
     }
   }
   if (m.kind === 'radial-velocity' && m.correlation !== undefined && m.correlation !== null) {
-    ctx.addIssue({ code: 'custom', path: ['correlation'], message: 'applies to astrometric kinds only' });
+    ctx.addIssue({
+      code: 'custom',
+      path: ['correlation'],
+      message: 'applies to astrometric kinds only',
+    });
   }
 });
 
-export const UserInput = z.object({ name: z.string().trim().min(1).max(80), role: z.enum(['lead', 'observer', 'viewer']) });
+export const UserInput = z.object({
+  name: z.string().trim().min(1).max(80),
+  role: z.enum(['lead', 'observer', 'viewer']),
+});
 export type Role = z.infer<typeof UserInput>['role'];

@@ -19,7 +19,14 @@
  */
 import { InputError } from '../../science/errors.ts';
 import { findEvents } from '../../science/orbit/index.ts';
-import { scheduleNight, type CandidateInput, type KeptBlock, type MeasurementKind, type NightSchedule, type ScheduleMethod } from '../../science/plan/index.ts';
+import {
+  scheduleNight,
+  type CandidateInput,
+  type KeptBlock,
+  type MeasurementKind,
+  type NightSchedule,
+  type ScheduleMethod,
+} from '../../science/plan/index.ts';
 import { jdToIso, unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import { getById, removeIn } from '../crud.ts';
@@ -27,7 +34,13 @@ import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { Store } from '../index.ts';
 import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
-import { asKeptBlock, nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
+import {
+  asKeptBlock,
+  nightStates,
+  planDigest,
+  plannerNames,
+  requireAcceptMoment,
+} from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
 import { nowMs } from '../../clock.ts';
 
@@ -67,10 +80,20 @@ const DEFAULT_MINUTES: Record<MeasurementKind, number> = { astrometry: 40, spect
 async function prepare(db: DbOrTx, nightId: number, request: NightScheduleRequest, atJd: number) {
   const at = jdToIso(atJd);
   const night = await getById(db, nightEntity, nightId);
-  if (night.campaignId === null) throw new InputError('nightId', nightId, 'is stored without a campaign: give the night a campaignId so its targets and constraints are known');
+  if (night.campaignId === null)
+    throw new InputError(
+      'nightId',
+      nightId,
+      'is stored without a campaign: give the night a campaignId so its targets and constraints are known',
+    );
   const input = await campaignPlanningInput(db, night.campaignId);
   const site = input.sites.find((s) => s.id === night.siteId);
-  if (!site) throw new InputError('nightId', nightId, `is at site ${night.siteId}, which is not one of the sites of campaign ${night.campaignId}`);
+  if (!site)
+    throw new InputError(
+      'nightId',
+      nightId,
+      `is at site ${night.siteId}, which is not one of the sites of campaign ${night.campaignId}`,
+    );
   const names = plannerNames(input.targets);
   const targets = input.targets.map((t) => ({ ...t.target, name: names.get(t.id)! }));
   const [state] = await nightStates(db, { nightIds: [nightId] }, at);
@@ -84,7 +107,9 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
     const midJd = unixMsToJd((Date.parse(span.start) + Date.parse(span.end)) / 2);
     const window = input.campaign.goals.densifyWithinDays ?? 30;
     candidates = targets.flatMap((t) => {
-      const near = t.orbit !== null && findEvents(t.orbit, midJd - window, midJd + window, { kinds: ['periapsis'] }).length > 0;
+      const near =
+        t.orbit !== null &&
+        findEvents(t.orbit, midJd - window, midJd + window, { kinds: ['periapsis'] }).length > 0;
       return input.campaign.goals.kinds.map((kind) => ({
         id: `${t.name}:${kind}`.replace(ID_UNSAFE, '_').slice(0, 80),
         target: t.name,
@@ -102,11 +127,16 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
     kept,
     ...(request.slotMinutes !== undefined ? { slotMinutes: request.slotMinutes } : {}),
     ...(request.slewMinutes !== undefined ? { slewMinutes: request.slewMinutes } : {}),
-    ...(request.sameTargetMinutes !== undefined ? { sameTargetMinutes: request.sameTargetMinutes } : {}),
+    ...(request.sameTargetMinutes !== undefined
+      ? { sameTargetMinutes: request.sameTargetMinutes }
+      : {}),
     ...(request.method !== undefined ? { method: request.method } : {}),
   });
   const replaces = state!.blocks.filter((b) => b.kept === null).map((b) => b.block.id);
-  const digest = planDigest({ blocks: schedule.blocks.map((b) => [b.id, b.target, b.kind, b.start.utc, b.end.utc]), replaces });
+  const digest = planDigest({
+    blocks: schedule.blocks.map((b) => [b.id, b.target, b.kind, b.start.utc, b.end.utc]),
+    replaces,
+  });
   const preview: NightSchedulePreview = {
     nightId,
     campaignId: night.campaignId,
@@ -118,42 +148,72 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
     kept: keptBlocks.map((b) => ({ id: b.block.id, reason: b.kept! })),
     digest,
   };
-  return { preview, reported: state!.reported, targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])) };
+  return {
+    preview,
+    reported: state!.reported,
+    targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
+  };
 }
 
 /** The schedule of a stored night, written nowhere. @throws InputError naming the field. */
-export async function previewNightSchedule(db: DbOrTx, nightId: number, request: NightScheduleRequest, atJd: number): Promise<NightSchedulePreview> {
+export async function previewNightSchedule(
+  db: DbOrTx,
+  nightId: number,
+  request: NightScheduleRequest,
+  atJd: number,
+): Promise<NightSchedulePreview> {
   return (await prepare(db, nightId, request, atJd)).preview;
 }
 
 /** Compute the schedule again inside one transaction and store it in place of the night's planned blocks. */
-export async function acceptNightSchedule(store: Store, actor: Actor, nightId: number, request: NightScheduleRequest, atJd: number, clockMs: number = nowMs()): Promise<NightSchedulePreview & { written: BlockRow[] }> {
+export async function acceptNightSchedule(
+  store: Store,
+  actor: Actor,
+  nightId: number,
+  request: NightScheduleRequest,
+  atJd: number,
+  clockMs: number = nowMs(),
+): Promise<NightSchedulePreview & { written: BlockRow[] }> {
   requireAcceptMoment(atJd, clockMs);
   return store.db.transaction(async (tx) => {
     const { preview, reported, targetIdByName } = await prepare(tx, nightId, request, atJd);
     if (request.digest !== undefined && request.digest !== preview.digest) {
-      throw new ConflictError('stale_version', `the schedule has changed since the preview (digest ${request.digest}, now ${preview.digest}); preview again`, { digest: preview.digest });
+      throw new ConflictError(
+        'stale_version',
+        `the schedule has changed since the preview (digest ${request.digest}, now ${preview.digest}); preview again`,
+        { digest: preview.digest },
+      );
     }
-    if (reported) throw new ConflictError('not_allowed', `night ${nightId} has a report: its blocks are a record now, not a plan`);
+    if (reported)
+      throw new ConflictError(
+        'not_allowed',
+        `night ${nightId} has a report: its blocks are a record now, not a plan`,
+      );
     for (const b of preview.schedule.blocks) {
       if (Date.parse(b.start.utc) <= Date.parse(preview.at)) {
-        throw new ConflictError('not_allowed', `block ${b.id} would start at ${b.start.utc}, not after ${preview.at}: pin it later or remove it`, { block: b.id });
+        throw new ConflictError(
+          'not_allowed',
+          `block ${b.id} would start at ${b.start.utc}, not after ${preview.at}: pin it later or remove it`,
+          { block: b.id },
+        );
       }
     }
     for (const id of preview.replaces) await removeIn(tx, blockEntity, actor, id);
     const written: BlockRow[] = [];
     for (const b of preview.schedule.blocks) {
-      written.push(await store.blocks.createIn(tx, actor, {
-        nightId,
-        targetId: targetIdByName.get(b.target)!,
-        kind: b.kind,
-        startUtc: b.start.utc,
-        endUtc: b.end.utc,
-        laserGuideStar: b.laserGuideStar,
-        origin: 'night-schedule',
-        pinned: b.pinned,
-        notes: `night schedule ${preview.digest}: ${b.id}${b.pinned ? ' (pinned)' : ''}`,
-      }));
+      written.push(
+        await store.blocks.createIn(tx, actor, {
+          nightId,
+          targetId: targetIdByName.get(b.target)!,
+          kind: b.kind,
+          startUtc: b.start.utc,
+          endUtc: b.end.utc,
+          laserGuideStar: b.laserGuideStar,
+          origin: 'night-schedule',
+          pinned: b.pinned,
+          notes: `night schedule ${preview.digest}: ${b.id}${b.pinned ? ' (pinned)' : ''}`,
+        }),
+      );
     }
     return { ...preview, written };
   });

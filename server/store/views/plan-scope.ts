@@ -32,13 +32,20 @@ export interface NightState {
 }
 
 /** Why a block stays, or null when it is still only a plan. */
-export function keptBecause(b: BlockRow, reported: boolean, hasOutcome: boolean, hasMeasurement: boolean, atIso: string): string | null {
+export function keptBecause(
+  b: BlockRow,
+  reported: boolean,
+  hasOutcome: boolean,
+  hasMeasurement: boolean,
+  atIso: string,
+): string | null {
   if (b.status !== 'planned') return `its status is ${b.status}`;
   if (reported || hasOutcome) return 'its night has a report';
   if (hasMeasurement) return 'a measurement is tied to it';
   if (b.pinned) return 'a person pinned it';
   if (b.origin === 'by-hand') return 'it was made by hand';
-  if (Date.parse(b.startUtc) <= Date.parse(atIso)) return `it started at ${b.startUtc}, not after ${atIso}`;
+  if (Date.parse(b.startUtc) <= Date.parse(atIso))
+    return `it started at ${b.startUtc}, not after ${atIso}`;
   return null;
 }
 
@@ -49,27 +56,80 @@ export const ACCEPT_AT_TOLERANCE_MINUTES = 2;
 export function requireAcceptMoment(atJd: number, clockMs: number = nowMs()): void {
   const earliest = clockMs - ACCEPT_AT_TOLERANCE_MINUTES * 60_000;
   if (jdToUnixMs(atJd) < earliest) {
-    throw new InputError('at', jdToIso(atJd), `must not be earlier than the server's clock less ${ACCEPT_AT_TOLERANCE_MINUTES} min (${new Date(earliest).toISOString()}) when accepting: a plan may not replace blocks that have begun; preview as of a past moment instead, or leave "at" out`);
+    throw new InputError(
+      'at',
+      jdToIso(atJd),
+      `must not be earlier than the server's clock less ${ACCEPT_AT_TOLERANCE_MINUTES} min (${new Date(earliest).toISOString()}) when accepting: a plan may not replace blocks that have begun; preview as of a past moment instead, or leave "at" out`,
+    );
   }
 }
 
 /** Stored nights at the given sites from `from` to `to` (any campaign), with their blocks judged at `atIso`. */
-export async function nightStates(db: DbOrTx, where: { siteIds: number[]; from: string; to: string } | { nightIds: number[] }, atIso: string): Promise<NightState[]> {
-  const cond = 'nightIds' in where
-    ? inArray(nights.id, where.nightIds)
-    : and(inArray(nights.siteId, where.siteIds), gte(nights.date, where.from), lte(nights.date, where.to));
+export async function nightStates(
+  db: DbOrTx,
+  where: { siteIds: number[]; from: string; to: string } | { nightIds: number[] },
+  atIso: string,
+): Promise<NightState[]> {
+  const cond =
+    'nightIds' in where
+      ? inArray(nights.id, where.nightIds)
+      : and(
+          inArray(nights.siteId, where.siteIds),
+          gte(nights.date, where.from),
+          lte(nights.date, where.to),
+        );
   const rows = await db.select().from(nights).where(cond).orderBy(nights.date, nights.siteId);
   if (rows.length === 0) return [];
   const ids = rows.map((n) => n.id);
-  const reported = new Set((await db.select({ id: nightReports.nightId }).from(nightReports).where(inArray(nightReports.nightId, ids))).map((r) => r.id));
-  const blockRows = await db.select().from(blocks).where(inArray(blocks.nightId, ids)).orderBy(blocks.startUtc);
+  const reported = new Set(
+    (
+      await db
+        .select({ id: nightReports.nightId })
+        .from(nightReports)
+        .where(inArray(nightReports.nightId, ids))
+    ).map((r) => r.id),
+  );
+  const blockRows = await db
+    .select()
+    .from(blocks)
+    .where(inArray(blocks.nightId, ids))
+    .orderBy(blocks.startUtc);
   const blockIds = blockRows.map((b) => b.id);
-  const withOutcome = new Set(blockIds.length ? (await db.select({ id: blockOutcomes.blockId }).from(blockOutcomes).where(inArray(blockOutcomes.blockId, blockIds))).map((r) => r.id) : []);
-  const measured = new Set(blockIds.length ? (await db.select({ id: measurements.blockId }).from(measurements).where(inArray(measurements.blockId, blockIds))).map((r) => r.id) : []);
+  const withOutcome = new Set(
+    blockIds.length
+      ? (
+          await db
+            .select({ id: blockOutcomes.blockId })
+            .from(blockOutcomes)
+            .where(inArray(blockOutcomes.blockId, blockIds))
+        ).map((r) => r.id)
+      : [],
+  );
+  const measured = new Set(
+    blockIds.length
+      ? (
+          await db
+            .select({ id: measurements.blockId })
+            .from(measurements)
+            .where(inArray(measurements.blockId, blockIds))
+        ).map((r) => r.id)
+      : [],
+  );
   return rows.map((night) => ({
     night,
     reported: reported.has(night.id),
-    blocks: blockRows.filter((b) => b.nightId === night.id).map((block) => ({ block, kept: keptBecause(block, reported.has(night.id), withOutcome.has(block.id), measured.has(block.id), atIso) })),
+    blocks: blockRows
+      .filter((b) => b.nightId === night.id)
+      .map((block) => ({
+        block,
+        kept: keptBecause(
+          block,
+          reported.has(night.id),
+          withOutcome.has(block.id),
+          measured.has(block.id),
+          atIso,
+        ),
+      })),
   }));
 }
 
@@ -85,13 +145,22 @@ export function asKeptBlock(b: BlockRow, names: ReadonlyMap<number, string>): Ke
   };
 }
 
-const KIND_OF: Record<string, MeasurementKind> = { offsets: 'astrometry', separation: 'astrometry', 'radial-velocity': 'spectroscopy' };
+const KIND_OF: Record<string, MeasurementKind> = {
+  offsets: 'astrometry',
+  separation: 'astrometry',
+  'radial-velocity': 'spectroscopy',
+};
 
 /**
  * The latest epoch of each kind per target before `beforeIso`: measurements, and blocks of the
  * campaign that were obtained or are still planned (a planned epoch counts as one to come).
  */
-export async function lastEpochs(db: DbOrTx, campaignId: number, targetIds: number[], beforeIso: string): Promise<Map<number, Partial<Record<MeasurementKind, number>>>> {
+export async function lastEpochs(
+  db: DbOrTx,
+  campaignId: number,
+  targetIds: number[],
+  beforeIso: string,
+): Promise<Map<number, Partial<Record<MeasurementKind, number>>>> {
   const out = new Map<number, Partial<Record<MeasurementKind, number>>>();
   const note = (target: number, kind: MeasurementKind, jd: number) => {
     const m = out.get(target) ?? {};
@@ -100,9 +169,28 @@ export async function lastEpochs(db: DbOrTx, campaignId: number, targetIds: numb
   };
   if (targetIds.length === 0) return out;
   const beforeJd = unixMsToJd(Date.parse(beforeIso));
-  const measured = await db.select({ target: measurements.targetId, kind: measurements.kind, jd: max(measurements.epochJd) }).from(measurements).where(inArray(measurements.targetId, targetIds)).groupBy(measurements.targetId, measurements.kind);
-  for (const m of measured) if (m.jd !== null && m.jd < beforeJd) note(m.target, KIND_OF[m.kind]!, m.jd);
-  const planned = await db.select({ b: blocks }).from(blocks).innerJoin(nights, eq(nights.id, blocks.nightId)).where(and(eq(nights.campaignId, campaignId), inArray(blocks.targetId, targetIds), inArray(blocks.status, ['planned', 'obtained', 'partial'])));
+  const measured = await db
+    .select({
+      target: measurements.targetId,
+      kind: measurements.kind,
+      jd: max(measurements.epochJd),
+    })
+    .from(measurements)
+    .where(inArray(measurements.targetId, targetIds))
+    .groupBy(measurements.targetId, measurements.kind);
+  for (const m of measured)
+    if (m.jd !== null && m.jd < beforeJd) note(m.target, KIND_OF[m.kind]!, m.jd);
+  const planned = await db
+    .select({ b: blocks })
+    .from(blocks)
+    .innerJoin(nights, eq(nights.id, blocks.nightId))
+    .where(
+      and(
+        eq(nights.campaignId, campaignId),
+        inArray(blocks.targetId, targetIds),
+        inArray(blocks.status, ['planned', 'obtained', 'partial']),
+      ),
+    );
   for (const { b } of planned) {
     if (b.endUtc >= beforeIso) continue;
     note(b.targetId, b.kind, unixMsToJd((Date.parse(b.startUtc) + Date.parse(b.endUtc)) / 2));
@@ -116,8 +204,15 @@ export function planDigest(value: unknown): string {
 }
 
 /** Target names as the planners see them: the stored name, with the system added where two systems share a name. */
-export function plannerNames(targets: readonly { id: number; system: string; target: { name: string } }[]): Map<number, string> {
+export function plannerNames(
+  targets: readonly { id: number; system: string; target: { name: string } }[],
+): Map<number, string> {
   const count = new Map<string, number>();
   for (const t of targets) count.set(t.target.name, (count.get(t.target.name) ?? 0) + 1);
-  return new Map(targets.map((t) => [t.id, count.get(t.target.name)! > 1 ? `${t.target.name} (${t.system})` : t.target.name]));
+  return new Map(
+    targets.map((t) => [
+      t.id,
+      count.get(t.target.name)! > 1 ? `${t.target.name} (${t.system})` : t.target.name,
+    ]),
+  );
 }

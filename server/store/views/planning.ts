@@ -4,9 +4,21 @@
  * campaign's flags. Systems are placed at their stored position epoch with their proper motions, as in visibility.ts.
  */
 import { eq, inArray, max } from 'drizzle-orm';
-import { measurements, sites as sitesTable, systems, targets as targetsTable } from '../../../db/schema.ts';
+import {
+  measurements,
+  sites as sitesTable,
+  systems,
+  targets as targetsTable,
+} from '../../../db/schema.ts';
 import { computeFlags, type Flag } from '../../science/plan/index.ts';
-import { validateConstraints, validateSite, validateTarget, type Constraints, type Site, type Target } from '../../science/sky/index.ts';
+import {
+  validateConstraints,
+  validateSite,
+  validateTarget,
+  type Constraints,
+  type Site,
+  type Target,
+} from '../../science/sky/index.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
@@ -20,18 +32,46 @@ export interface CampaignPlanningInput {
   targets: { id: number; system: string; target: Target; lastMeasuredJd: number | null }[];
 }
 
-export async function campaignPlanningInput(db: DbOrTx, campaignId: number): Promise<CampaignPlanningInput> {
+export async function campaignPlanningInput(
+  db: DbOrTx,
+  campaignId: number,
+): Promise<CampaignPlanningInput> {
   const campaign = await getById(db, campaignEntity, campaignId);
   const { targetIds, siteIds } = await campaignMembers(db, campaignId);
   const c = campaign.constraints ?? {};
-  const siteRows = siteIds.length ? await db.select().from(sitesTable).where(inArray(sitesTable.id, siteIds)) : [];
+  const siteRows = siteIds.length
+    ? await db.select().from(sitesTable).where(inArray(sitesTable.id, siteIds))
+    : [];
   const sites = siteRows.map((row) => {
     const site = validateSite(row, `sites.${row.id}`);
-    const constraints = validateConstraints({ ...(c.darkness ? { darkness: c.darkness } : {}), ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}), ...(c.minMoonSeparationDeg !== undefined ? { minMoonSeparationDeg: c.minMoonSeparationDeg } : {}), minAltitudeDeg: row.minAltitudeDeg }, site, 'constraints');
+    const constraints = validateConstraints(
+      {
+        ...(c.darkness ? { darkness: c.darkness } : {}),
+        ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}),
+        ...(c.minMoonSeparationDeg !== undefined
+          ? { minMoonSeparationDeg: c.minMoonSeparationDeg }
+          : {}),
+        minAltitudeDeg: row.minAltitudeDeg,
+      },
+      site,
+      'constraints',
+    );
     return { id: row.id, site, constraints, laserGuideStar: row.laserGuideStar };
   });
-  const rows = targetIds.length ? await db.select({ t: targetsTable, s: systems }).from(targetsTable).innerJoin(systems, eq(systems.id, targetsTable.systemId)).where(inArray(targetsTable.id, targetIds)) : [];
-  const last = targetIds.length ? await db.select({ id: measurements.targetId, jd: max(measurements.epochJd) }).from(measurements).where(inArray(measurements.targetId, targetIds)).groupBy(measurements.targetId) : [];
+  const rows = targetIds.length
+    ? await db
+        .select({ t: targetsTable, s: systems })
+        .from(targetsTable)
+        .innerJoin(systems, eq(systems.id, targetsTable.systemId))
+        .where(inArray(targetsTable.id, targetIds))
+    : [];
+  const last = targetIds.length
+    ? await db
+        .select({ id: measurements.targetId, jd: max(measurements.epochJd) })
+        .from(measurements)
+        .where(inArray(measurements.targetId, targetIds))
+        .groupBy(measurements.targetId)
+    : [];
   const targets = [];
   for (const { t, s } of rows) {
     let orbit;
@@ -40,19 +80,40 @@ export async function campaignPlanningInput(db: DbOrTx, campaignId: number): Pro
     } catch (err) {
       if (!(err instanceof NotFoundError)) throw err;
     }
-    const target = validateTarget({ name: t.name, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) }, `targets.${t.id}`);
-    targets.push({ id: t.id, system: s.name, target, lastMeasuredJd: last.find((l) => l.id === t.id)?.jd ?? null });
+    const target = validateTarget(
+      { name: t.name, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) },
+      `targets.${t.id}`,
+    );
+    targets.push({
+      id: t.id,
+      system: s.name,
+      target,
+      lastMeasuredJd: last.find((l) => l.id === t.id)?.jd ?? null,
+    });
   }
   return { campaign, sites, targets };
 }
 
 /** The campaign's flags now (or at `nowJd`). */
-export async function campaignFlags(db: DbOrTx, campaignId: number, options: { nowJd: number; resolutionMas?: number }): Promise<{ campaignId: number; flags: Flag[] }> {
+export async function campaignFlags(
+  db: DbOrTx,
+  campaignId: number,
+  options: { nowJd: number; resolutionMas?: number },
+): Promise<{ campaignId: number; flags: Flag[] }> {
   const input = await campaignPlanningInput(db, campaignId);
   const flags = computeFlags(
-    input.targets.map((t) => ({ target: t.target, system: t.system, cadenceDays: input.campaign.goals.cadenceDays, lastMeasuredJd: t.lastMeasuredJd })),
+    input.targets.map((t) => ({
+      target: t.target,
+      system: t.system,
+      cadenceDays: input.campaign.goals.cadenceDays,
+      lastMeasuredJd: t.lastMeasuredJd,
+    })),
     input.sites,
-    { nowJd: options.nowJd, leadDays: [30, 182, 365], ...(options.resolutionMas ? { resolutionMas: options.resolutionMas } : {}) },
+    {
+      nowJd: options.nowJd,
+      leadDays: [30, 182, 365],
+      ...(options.resolutionMas ? { resolutionMas: options.resolutionMas } : {}),
+    },
   );
   return { campaignId, flags };
 }

@@ -13,7 +13,15 @@
  */
 import { InputError } from '../../science/errors.ts';
 import { addDays } from '../../science/sky/night.ts';
-import { planSeason, type KeptBlock, type MeasurementKind, type SeasonOptions, type SeasonPlan, type SeasonSite, type SeasonTarget } from '../../science/plan/index.ts';
+import {
+  planSeason,
+  type KeptBlock,
+  type MeasurementKind,
+  type SeasonOptions,
+  type SeasonPlan,
+  type SeasonSite,
+  type SeasonTarget,
+} from '../../science/plan/index.ts';
 import { jdToIso, jdToUnixMs } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import { removeIn } from '../crud.ts';
@@ -21,7 +29,14 @@ import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { Store } from '../index.ts';
 import { blockEntity, nightIntervalUtc, type BlockRow, type NightRow } from '../repos/nights.ts';
-import { asKeptBlock, lastEpochs, nightStates, planDigest, plannerNames, requireAcceptMoment } from './plan-scope.ts';
+import {
+  asKeptBlock,
+  lastEpochs,
+  nightStates,
+  planDigest,
+  plannerNames,
+  requireAcceptMoment,
+} from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
 import { nowMs } from '../../clock.ts';
 
@@ -42,7 +57,13 @@ export interface SeasonPlanPreview {
   /** The moment the plan was made for: nights begun before it are not planned, blocks begun before it are kept. */
   at: string;
   nights: (typeof NIGHT_CHOICES)[number];
-  sites: { siteId: number; name: string; openNights: number; skipped: { date: string; reason: string }[]; plannedAround: { date: string; kept: { id: number; reason: string }[] }[] }[];
+  sites: {
+    siteId: number;
+    name: string;
+    openNights: number;
+    skipped: { date: string; reason: string }[];
+    plannedAround: { date: string; kept: { id: number; reason: string }[] }[];
+  }[];
   plan: SeasonPlan;
   /** Stored blocks accepting would delete (all still only plans). */
   replaces: number[];
@@ -56,26 +77,52 @@ interface Prepared {
   nightByKey: Map<string, NightRow>;
 }
 
-async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanRequest, atJd: number): Promise<Prepared> {
+async function prepare(
+  db: DbOrTx,
+  campaignId: number,
+  request: SeasonPlanRequest,
+  atJd: number,
+): Promise<Prepared> {
   const at = jdToIso(atJd);
   const input = await campaignPlanningInput(db, campaignId);
   const { campaign } = input;
   const mode = request.nights ?? 'allocated';
-  if (!(NIGHT_CHOICES as readonly string[]).includes(mode)) throw new InputError('nights', mode, 'must be "allocated" (the campaign’s stored nights) or "all" (every night of the range)');
+  if (!(NIGHT_CHOICES as readonly string[]).includes(mode))
+    throw new InputError(
+      'nights',
+      mode,
+      'must be "allocated" (the campaign’s stored nights) or "all" (every night of the range)',
+    );
   for (const field of ['startDate', 'endDate'] as const) {
     const d = request[field];
-    if (typeof d !== 'string' || d < campaign.startDate || d > campaign.endDate) throw new InputError(field, d, `must be a date within the campaign's dates ${campaign.startDate} to ${campaign.endDate}`);
+    if (typeof d !== 'string' || d < campaign.startDate || d > campaign.endDate)
+      throw new InputError(
+        field,
+        d,
+        `must be a date within the campaign's dates ${campaign.startDate} to ${campaign.endDate}`,
+      );
   }
   const ids = request.siteIds ?? input.sites.map((s) => s.id);
   ids.forEach((id, k) => {
-    if (!input.sites.some((s) => s.id === id)) throw new InputError(`siteIds.${k}`, id, `must be one of the campaign's sites (${input.sites.map((s) => s.id).join(', ')})`);
+    if (!input.sites.some((s) => s.id === id))
+      throw new InputError(
+        `siteIds.${k}`,
+        id,
+        `must be one of the campaign's sites (${input.sites.map((s) => s.id).join(', ')})`,
+      );
   });
   const chosen = input.sites.filter((s) => ids.includes(s.id));
-  if (chosen.length === 0) throw new InputError('siteIds', ids, 'must name at least one of the campaign’s sites');
-  if (input.targets.length === 0) throw new InputError('campaignId', campaignId, 'has no targets to plan');
+  if (chosen.length === 0)
+    throw new InputError('siteIds', ids, 'must name at least one of the campaign’s sites');
+  if (input.targets.length === 0)
+    throw new InputError('campaignId', campaignId, 'has no targets to plan');
 
   const names = plannerNames(input.targets);
-  const states = await nightStates(db, { siteIds: chosen.map((s) => s.id), from: request.startDate, to: request.endDate }, at);
+  const states = await nightStates(
+    db,
+    { siteIds: chosen.map((s) => s.id), from: request.startDate, to: request.endDate },
+    at,
+  );
   const nightByKey = new Map<string, NightRow>();
   const replaces: number[] = [];
   const seasonSites: SeasonSite[] = [];
@@ -85,7 +132,9 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
     const plannedAround: { date: string; kept: { id: number; reason: string }[] }[] = [];
     const keptByDate: Record<string, KeptBlock[]> = {};
     const open: string[] = [];
-    const stored = new Map(states.filter((n) => n.night.siteId === s.id).map((n) => [n.night.date, n]));
+    const stored = new Map(
+      states.filter((n) => n.night.siteId === s.id).map((n) => [n.night.date, n]),
+    );
     for (let d = request.startDate; d <= request.endDate; d = addDays(d, 1)) {
       const state = stored.get(d);
       const begun = Date.parse(nightIntervalUtc(d, s.site.timeZone).start) <= jdToUnixMs(atJd);
@@ -94,10 +143,15 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
         continue;
       }
       const reason =
-        state.night.campaignId !== campaignId ? (state.night.campaignId === null ? 'the night is stored without a campaign' : `the night belongs to campaign ${state.night.campaignId}`)
-        : state.reported ? 'the night has a report'
-        : begun ? `the night began before ${at}`
-        : null;
+        state.night.campaignId !== campaignId
+          ? state.night.campaignId === null
+            ? 'the night is stored without a campaign'
+            : `the night belongs to campaign ${state.night.campaignId}`
+          : state.reported
+            ? 'the night has a report'
+            : begun
+              ? `the night began before ${at}`
+              : null;
       if (reason) {
         skipped.push({ date: d, reason });
         continue;
@@ -107,28 +161,62 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
       const kept = state.blocks.filter((b) => b.kept !== null);
       if (kept.length > 0) {
         keptByDate[d] = kept.map((b) => asKeptBlock(b.block, names));
-        plannedAround.push({ date: d, kept: kept.map((b) => ({ id: b.block.id, reason: b.kept! })) });
+        plannedAround.push({
+          date: d,
+          kept: kept.map((b) => ({ id: b.block.id, reason: b.kept! })),
+        });
       }
       replaces.push(...state.blocks.filter((b) => b.kept === null).map((b) => b.block.id));
     }
-    seasonSites.push({ site: s.site, constraints: s.constraints, nights: open, laserGuideStar: s.laserGuideStar, kept: keptByDate });
-    sitesOut.push({ siteId: s.id, name: s.site.name, openNights: open.length, skipped, plannedAround });
+    seasonSites.push({
+      site: s.site,
+      constraints: s.constraints,
+      nights: open,
+      laserGuideStar: s.laserGuideStar,
+      kept: keptByDate,
+    });
+    sitesOut.push({
+      siteId: s.id,
+      name: s.site.name,
+      openNights: open.length,
+      skipped,
+      plannedAround,
+    });
   }
 
-  const last = await lastEpochs(db, campaignId, input.targets.map((t) => t.id), nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start);
+  const last = await lastEpochs(
+    db,
+    campaignId,
+    input.targets.map((t) => t.id),
+    nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start,
+  );
   const goals = campaign.goals;
   const targets: SeasonTarget[] = input.targets.map((t) => ({
     target: { ...t.target, name: names.get(t.id)! },
     kinds: goals.kinds as MeasurementKind[],
     cadenceDays: goals.cadenceDays,
-    ...(goals.densifiedCadenceDays !== undefined ? { densifiedCadenceDays: goals.densifiedCadenceDays } : {}),
-    ...(goals.densifyWithinDays !== undefined ? { densifyWithinDays: goals.densifyWithinDays } : {}),
+    ...(goals.densifiedCadenceDays !== undefined
+      ? { densifiedCadenceDays: goals.densifiedCadenceDays }
+      : {}),
+    ...(goals.densifyWithinDays !== undefined
+      ? { densifyWithinDays: goals.densifyWithinDays }
+      : {}),
     lastEpochJd: last.get(t.id) ?? {},
   }));
   const { startDate, endDate, siteIds: _s, nights: _n, digest: _d, ...options } = request;
   const plan = planSeason(startDate, endDate, seasonSites, targets, options);
   replaces.sort((a, b) => a - b);
-  const digest = planDigest({ epochs: plan.epochs.map((e) => [e.target, e.kind, e.site, e.date, e.block.start.utc, e.block.end.utc]), replaces });
+  const digest = planDigest({
+    epochs: plan.epochs.map((e) => [
+      e.target,
+      e.kind,
+      e.site,
+      e.date,
+      e.block.start.utc,
+      e.block.end.utc,
+    ]),
+    replaces,
+  });
   return {
     preview: { campaignId, at, nights: mode, sites: sitesOut, plan, replaces, digest },
     siteIdByName: new Map(chosen.map((s) => [s.site.name, s.id])),
@@ -138,7 +226,12 @@ async function prepare(db: DbOrTx, campaignId: number, request: SeasonPlanReques
 }
 
 /** The season plan for a stored campaign, written nowhere. @throws InputError naming the field. */
-export async function previewSeasonPlan(db: DbOrTx, campaignId: number, request: SeasonPlanRequest, atJd: number): Promise<SeasonPlanPreview> {
+export async function previewSeasonPlan(
+  db: DbOrTx,
+  campaignId: number,
+  request: SeasonPlanRequest,
+  atJd: number,
+): Promise<SeasonPlanPreview> {
   return (await prepare(db, campaignId, request, atJd)).preview;
 }
 
@@ -146,12 +239,28 @@ export async function previewSeasonPlan(db: DbOrTx, campaignId: number, request:
  * Compute the plan again inside one transaction and store it: delete the blocks it replaces,
  * create the nights it needs (`nights: "all"`), write its blocks. Any failure writes nothing.
  */
-export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: number, request: SeasonPlanRequest, atJd: number, clockMs: number = nowMs()): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
+export async function acceptSeasonPlan(
+  store: Store,
+  actor: Actor,
+  campaignId: number,
+  request: SeasonPlanRequest,
+  atJd: number,
+  clockMs: number = nowMs(),
+): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
   requireAcceptMoment(atJd, clockMs);
   return store.db.transaction(async (tx) => {
-    const { preview, siteIdByName, targetIdByName, nightByKey } = await prepare(tx, campaignId, request, atJd);
+    const { preview, siteIdByName, targetIdByName, nightByKey } = await prepare(
+      tx,
+      campaignId,
+      request,
+      atJd,
+    );
     if (request.digest !== undefined && request.digest !== preview.digest) {
-      throw new ConflictError('stale_version', `the plan has changed since the preview (digest ${request.digest}, now ${preview.digest}): the stored campaign, its nights or the moment moved on; preview again`, { digest: preview.digest });
+      throw new ConflictError(
+        'stale_version',
+        `the plan has changed since the preview (digest ${request.digest}, now ${preview.digest}): the stored campaign, its nights or the moment moved on; preview again`,
+        { digest: preview.digest },
+      );
     }
     for (const id of preview.replaces) await removeIn(tx, blockEntity, actor, id);
     const written: BlockRow[] = [];
@@ -160,20 +269,27 @@ export async function acceptSeasonPlan(store: Store, actor: Actor, campaignId: n
       const siteId = siteIdByName.get(e.site)!;
       let night = nightByKey.get(`${siteId}/${e.date}`);
       if (!night) {
-        night = await store.nights.createIn(tx, actor, { siteId, campaignId, date: e.date, notes: 'allocated by an accepted season plan' });
+        night = await store.nights.createIn(tx, actor, {
+          siteId,
+          campaignId,
+          date: e.date,
+          notes: 'allocated by an accepted season plan',
+        });
         nightByKey.set(`${siteId}/${e.date}`, night);
         nightsCreated.push(night);
       }
-      written.push(await store.blocks.createIn(tx, actor, {
-        nightId: night.id,
-        targetId: targetIdByName.get(e.target)!,
-        kind: e.kind,
-        startUtc: e.block.start.utc,
-        endUtc: e.block.end.utc,
-        laserGuideStar: e.block.laserGuideStar,
-        origin: 'season-plan',
-        notes: `season plan ${preview.digest} (${e.why}): ${e.reason}`,
-      }));
+      written.push(
+        await store.blocks.createIn(tx, actor, {
+          nightId: night.id,
+          targetId: targetIdByName.get(e.target)!,
+          kind: e.kind,
+          startUtc: e.block.start.utc,
+          endUtc: e.block.end.utc,
+          laserGuideStar: e.block.laserGuideStar,
+          origin: 'season-plan',
+          notes: `season plan ${preview.digest} (${e.why}): ${e.reason}`,
+        }),
+      );
     }
     return { ...preview, written, nightsCreated };
   });

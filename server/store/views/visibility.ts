@@ -7,7 +7,13 @@
 import { eq, inArray } from 'drizzle-orm';
 import { blocks, systems, targets } from '../../../db/schema.ts';
 import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
-import { nightReport, validateConstraints, validateSite, validateTarget, type NightReport } from '../../science/sky/index.ts';
+import {
+  nightReport,
+  validateConstraints,
+  validateSite,
+  validateTarget,
+  type NightReport,
+} from '../../science/sky/index.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
@@ -17,15 +23,33 @@ import { nightEntity } from '../repos/nights.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 import { siteEntity } from '../repos/sites.ts';
 
-export async function nightVisibility(db: DbOrTx, nightId: number, options: { curves?: boolean } = {}): Promise<NightReport & { nightId: number; campaignId: number | null }> {
+export async function nightVisibility(
+  db: DbOrTx,
+  nightId: number,
+  options: { curves?: boolean } = {},
+): Promise<NightReport & { nightId: number; campaignId: number | null }> {
   const night = await getById(db, nightEntity, nightId);
   const siteRow = await getById(db, siteEntity, night.siteId);
   const site = validateSite(siteRow, 'site');
-  const campaign = night.campaignId === null ? null : await getById(db, campaignEntity, night.campaignId);
+  const campaign =
+    night.campaignId === null ? null : await getById(db, campaignEntity, night.campaignId);
   const targetIds = campaign
     ? (await campaignMembers(db, campaign.id)).targetIds
-    : [...new Set((await db.select({ id: blocks.targetId }).from(blocks).where(eq(blocks.nightId, nightId))).map((r) => r.id))];
-  const rows = targetIds.length === 0 ? [] : await db.select({ t: targets, s: systems }).from(targets).innerJoin(systems, eq(systems.id, targets.systemId)).where(inArray(targets.id, targetIds));
+    : [
+        ...new Set(
+          (
+            await db.select({ id: blocks.targetId }).from(blocks).where(eq(blocks.nightId, nightId))
+          ).map((r) => r.id),
+        ),
+      ];
+  const rows =
+    targetIds.length === 0
+      ? []
+      : await db
+          .select({ t: targets, s: systems })
+          .from(targets)
+          .innerJoin(systems, eq(systems.id, targets.systemId))
+          .where(inArray(targets.id, targetIds));
   const skyTargets = [];
   for (const { t, s } of rows) {
     let orbit;
@@ -34,11 +58,29 @@ export async function nightVisibility(db: DbOrTx, nightId: number, options: { cu
     } catch (err) {
       if (!(err instanceof NotFoundError)) throw err; // a target without a solution is placed at its primary
     }
-    skyTargets.push(validateTarget({ name: `${t.name} (${s.name})`, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) }, `targets.${t.id}`));
+    skyTargets.push(
+      validateTarget(
+        { name: `${t.name} (${s.name})`, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) },
+        `targets.${t.id}`,
+      ),
+    );
   }
   const c = campaign?.constraints ?? {};
-  const constraints = validateConstraints({ ...(c.darkness ? { darkness: c.darkness } : {}), ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}), ...(c.minMoonSeparationDeg !== undefined ? { minMoonSeparationDeg: c.minMoonSeparationDeg } : {}), minAltitudeDeg: siteRow.minAltitudeDeg }, site, 'constraints');
-  const report = nightReport(site, night.date, skyTargets, constraints, { curveStepMinutes: options.curves ? 10 : 0 });
+  const constraints = validateConstraints(
+    {
+      ...(c.darkness ? { darkness: c.darkness } : {}),
+      ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}),
+      ...(c.minMoonSeparationDeg !== undefined
+        ? { minMoonSeparationDeg: c.minMoonSeparationDeg }
+        : {}),
+      minAltitudeDeg: siteRow.minAltitudeDeg,
+    },
+    site,
+    'constraints',
+  );
+  const report = nightReport(site, night.date, skyTargets, constraints, {
+    curveStepMinutes: options.curves ? 10 : 0,
+  });
   if (siteRow.laserGuideStar) report.cautions.push(LASER_GUIDE_STAR_CAUTION);
   return { nightId, campaignId: night.campaignId, ...report };
 }

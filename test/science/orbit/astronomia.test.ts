@@ -21,7 +21,15 @@ describe('positions of random visual-binary orbits against astronomia', () => {
       const node = rng.uniform() * 360;
       const w = rng.uniform() * 360;
       const orbit = validateOrbit({
-        elements: { periodYears: P, periapsis: `J${T}`, eccentricity: e, semiMajorAxisArcsec: a, inclinationDeg: i, ascendingNodeDeg: node, argPeriapsisDeg: w },
+        elements: {
+          periodYears: P,
+          periapsis: `J${T}`,
+          eccentricity: e,
+          semiMajorAxisArcsec: a,
+          inclinationDeg: i,
+          ascendingNodeDeg: node,
+          argPeriapsisDeg: w,
+        },
       });
       const jd = Float64Array.from({ length: 5 }, () => 2451545 + (rng.uniform() - 0.5) * 73_000);
       const ours = predictBatch(orbit, jd);
@@ -29,8 +37,15 @@ describe('positions of random visual-binary orbits against astronomia', () => {
         const year = jdToJulianEpoch(jd[k]!);
         const M = binary.meanAnomaly(year, T, P);
         const E = kepler.kepler3(e, M); // Meeus ch. 30 third method: bisection, robust for any e
-        const [theta, rho] = binary.position(a, e, (i * Math.PI) / 180, (node * Math.PI) / 180, (w * Math.PI) / 180, E);
-        const thetaDeg = (((theta * 180) / Math.PI) % 360 + 360) % 360;
+        const [theta, rho] = binary.position(
+          a,
+          e,
+          (i * Math.PI) / 180,
+          (node * Math.PI) / 180,
+          (w * Math.PI) / 180,
+          E,
+        );
+        const thetaDeg = ((((theta * 180) / Math.PI) % 360) + 360) % 360;
         const dTheta = Math.abs(((ours.positionAngleDeg[k]! - thetaDeg + 540) % 360) - 180);
         const dRho = Math.abs(ours.separationMas[k]! / 1000 - rho) / rho;
         worstTheta = Math.max(worstTheta, dTheta);
@@ -38,7 +53,9 @@ describe('positions of random visual-binary orbits against astronomia', () => {
         count++;
       }
     }
-    console.log(`vs astronomia over ${count} positions: worst |Δθ| ${worstTheta.toExponential(2)}°, worst |Δρ|/ρ ${worstRho.toExponential(2)}`);
+    console.log(
+      `vs astronomia over ${count} positions: worst |Δθ| ${worstTheta.toExponential(2)}°, worst |Δρ|/ρ ${worstRho.toExponential(2)}`,
+    );
     expect(worstRho).toBeLessThan(1e-6);
     expect(worstTheta).toBeLessThan(1e-6);
   });

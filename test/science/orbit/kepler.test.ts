@@ -17,7 +17,24 @@ describe("Kepler's equation", () => {
 
   it('leaves a residual |E − e sin E − M| ≤ 1e-14 rad for every e in [0, 1 − 1e-9] and M', () => {
     // Tolerance from the requirement of the orbit-engine issue; e up to 1 − 1e-9 covers e ≥ 0.99.
-    const es = [0, 1e-8, 0.01, 0.1, 0.3, 0.5, 0.7, 0.9, 0.95, 0.99, 0.995, 0.999, 0.9999, 0.99999, 1 - 1e-7, 1 - 1e-9];
+    const es = [
+      0,
+      1e-8,
+      0.01,
+      0.1,
+      0.3,
+      0.5,
+      0.7,
+      0.9,
+      0.95,
+      0.99,
+      0.995,
+      0.999,
+      0.9999,
+      0.99999,
+      1 - 1e-7,
+      1 - 1e-9,
+    ];
     let worst = 0;
     let sumSq = 0;
     let count = 0;
@@ -33,7 +50,9 @@ describe("Kepler's equation", () => {
         }
       }
     }
-    console.log(`Kepler residual: worst ${worst.toExponential(2)} rad, RMS ${Math.sqrt(sumSq / count).toExponential(2)} rad over ${count} solves`);
+    console.log(
+      `Kepler residual: worst ${worst.toExponential(2)} rad, RMS ${Math.sqrt(sumSq / count).toExponential(2)} rad over ${count} solves`,
+    );
     expect(worst).toBeLessThanOrEqual(1e-14);
   });
 
@@ -42,10 +61,13 @@ describe("Kepler's equation", () => {
     const rng = new SeededRandom(99);
     const n = 400_000;
     const M = Float64Array.from({ length: n }, () => (rng.uniform() * 2 - 1) * Math.PI);
-    const e = Float64Array.from({ length: n }, (_, i) => (i % 2 === 0 ? rng.uniform() : 1 - 0.1 * rng.uniform() ** 4));
+    const e = Float64Array.from({ length: n }, (_, i) =>
+      i % 2 === 0 ? rng.uniform() : 1 - 0.1 * rng.uniform() ** 4,
+    );
     const E = solveKeplerBatch(M, e);
     let worst = 0;
-    for (let i = 0; i < n; i++) worst = Math.max(worst, Math.abs(E[i]! - e[i]! * Math.sin(E[i]!) - M[i]!));
+    for (let i = 0; i < n; i++)
+      worst = Math.max(worst, Math.abs(E[i]! - e[i]! * Math.sin(E[i]!) - M[i]!));
     expect(worst).toBeLessThanOrEqual(1e-14);
   });
 
@@ -53,7 +75,9 @@ describe("Kepler's equation", () => {
     for (const M of [40, -40, 1000.5, 2 * Math.PI * 7 + 0.3]) {
       const E = solveKepler(M, 0.8);
       // Residual scales with |M| by floating point alone: 1e-14 relative, common practice, no source.
-      expect(Math.abs(E - 0.8 * Math.sin(E) - M)).toBeLessThanOrEqual(1e-14 * Math.max(1, Math.abs(M)));
+      expect(Math.abs(E - 0.8 * Math.sin(E) - M)).toBeLessThanOrEqual(
+        1e-14 * Math.max(1, Math.abs(M)),
+      );
     }
   });
 

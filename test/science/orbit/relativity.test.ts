@@ -1,5 +1,13 @@
 import { describe, expect, it } from 'vitest';
-import { AU_M, C_M_PER_S, GM_EARTH_M3_PER_S2, GM_SUN_M3_PER_S2, LIGHT_YEAR_M, PARSEC_M, R_SUN_M } from '../../../server/science/constants.ts';
+import {
+  AU_M,
+  C_M_PER_S,
+  GM_EARTH_M3_PER_S2,
+  GM_SUN_M3_PER_S2,
+  LIGHT_YEAR_M,
+  PARSEC_M,
+  R_SUN_M,
+} from '../../../server/science/constants.ts';
 import {
   gravitationalRedshiftKmS,
   massSolar,
@@ -64,7 +72,15 @@ describe('relativistic terms and constants', () => {
     // 4 million suns, about 26,000 light years away → a ≈ 1000 au ≈ 0.125″. Common practice, no source.
     const distancePc = (26_000 * LIGHT_YEAR_M) / PARSEC_M;
     const orbit = validateOrbit({
-      elements: { periodYears: 16, periapsis: '2030-01-01', eccentricity: 0.88, semiMajorAxisArcsec: 0.125, inclinationDeg: 130, ascendingNodeDeg: 230, argPeriapsisDeg: 65 },
+      elements: {
+        periodYears: 16,
+        periapsis: '2030-01-01',
+        eccentricity: 0.88,
+        semiMajorAxisArcsec: 0.125,
+        inclinationDeg: 130,
+        ascendingNodeDeg: 230,
+        argPeriapsisDeg: 65,
+      },
       distancePc,
     });
     const q = physicalQuantities(orbit);
@@ -75,9 +91,27 @@ describe('relativistic terms and constants', () => {
 });
 
 describe('relativistic terms in a prediction', () => {
-  const elements = { periodYears: 12, periapsis: '2031-03-01T00:00:00Z', eccentricity: 0.9, semiMajorAxisArcsec: 0.11, inclinationDeg: 120, ascendingNodeDeg: 200, argPeriapsisDeg: 70 };
+  const elements = {
+    periodYears: 12,
+    periapsis: '2031-03-01T00:00:00Z',
+    eccentricity: 0.9,
+    semiMajorAxisArcsec: 0.11,
+    inclinationDeg: 120,
+    ascendingNodeDeg: 200,
+    argPeriapsisDeg: 70,
+  };
   const off = validateOrbit({ elements, distancePc: 8100, systemicVelocityKmS: -12 });
-  const on = validateOrbit({ elements, distancePc: 8100, systemicVelocityKmS: -12, relativity: { gravitationalRedshift: true, transverseDoppler: true, romer: true, precession: true } });
+  const on = validateOrbit({
+    elements,
+    distancePc: 8100,
+    systemicVelocityKmS: -12,
+    relativity: {
+      gravitationalRedshift: true,
+      transverseDoppler: true,
+      romer: true,
+      precession: true,
+    },
+  });
   const T = off.periapsisJd;
 
   it('reports each term at periapsis with its textbook size, and adds only the switched-on ones', () => {
@@ -88,7 +122,10 @@ describe('relativistic terms in a prediction', () => {
     expect(p.transverseDopplerKmS!).toBeCloseTo(q.transverseDopplerAtPeriapsisKmS, 6);
     expect(p.radialVelocityKmS!).toBeCloseTo(-12 + p.keplerianRvKmS!, 9);
     const r = predict(on, T + 5);
-    expect(r.radialVelocityKmS!).toBeCloseTo(-12 + r.keplerianRvKmS! + r.gravitationalRedshiftKmS! + r.transverseDopplerKmS!, 9);
+    expect(r.radialVelocityKmS!).toBeCloseTo(
+      -12 + r.keplerianRvKmS! + r.gravitationalRedshiftKmS! + r.transverseDopplerKmS!,
+      9,
+    );
   });
 
   it('delays the observed periapsis by the light time z/c across the orbit', () => {
@@ -102,7 +139,11 @@ describe('relativistic terms in a prediction', () => {
   it('advances ω by 6πGM/(c²a(1−e²)) per orbit when precession is on', () => {
     const q = physicalQuantities(off);
     // Precession alone, so that the light time does not shift the emission instant.
-    const precessing = validateOrbit({ elements, distancePc: 8100, relativity: { precession: true } });
+    const precessing = validateOrbit({
+      elements,
+      distancePc: 8100,
+      relativity: { precession: true },
+    });
     const p = predict(precessing, T + off.periodDays);
     expect(p.precessionDeg! * 60).toBeCloseTo(q.precessionArcminPerOrbit, 3);
   });

@@ -39,7 +39,20 @@ describe('elements given as Thiele–Innes constants', () => {
 
   it('refuse an orbit of zero size and name the field', () => {
     expect(() =>
-      validateOrbit({ elements: { kind: 'thiele-innes', periodYears: 10, periapsis: 'J2000', eccentricity: 0.1, aArcsec: 0, bArcsec: 0, fArcsec: 0, gArcsec: 0 } }),
-    ).toThrow(/elements\.aArcsec: 0 with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size/);
+      validateOrbit({
+        elements: {
+          kind: 'thiele-innes',
+          periodYears: 10,
+          periapsis: 'J2000',
+          eccentricity: 0.1,
+          aArcsec: 0,
+          bArcsec: 0,
+          fArcsec: 0,
+          gArcsec: 0,
+        },
+      }),
+    ).toThrow(
+      /elements\.aArcsec: 0 with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size/,
+    );
   });
 });

@@ -1,12 +1,31 @@
 /** Shared inputs for the planning tests: an invented site and targets (demo values, no source needed). */
-import { validateConstraints, validateSite, validateTarget, exactSampler, TWILIGHT_SUN_ALTITUDE_DEG, type Site, type Constraints, type Target } from '../../../server/science/sky/index.ts';
+import {
+  validateConstraints,
+  validateSite,
+  validateTarget,
+  exactSampler,
+  TWILIGHT_SUN_ALTITUDE_DEG,
+  type Site,
+  type Constraints,
+  type Target,
+} from '../../../server/science/sky/index.ts';
 
-export const SITE: Site = validateSite({ name: 'Harrow Crest', latitudeDeg: -29.25, longitudeDeg: -70.73, elevationM: 2400, timeZone: 'America/Santiago', minAltitudeDeg: 25, sunAvoidanceDeg: 45 });
+export const SITE: Site = validateSite({
+  name: 'Harrow Crest',
+  latitudeDeg: -29.25,
+  longitudeDeg: -70.73,
+  elevationM: 2400,
+  timeZone: 'America/Santiago',
+  minAltitudeDeg: 25,
+  sunAvoidanceDeg: 45,
+});
 export const CONSTRAINTS: Constraints = validateConstraints({ maxAirmass: 2 }, SITE);
 
 /** Targets spread in right ascension along declination −30° (invented). */
 export function spreadTargets(n: number, decDeg = -30): Target[] {
-  return Array.from({ length: n }, (_, i) => validateTarget({ name: `F${i}`, raDeg: (i * 360) / n, decDeg }));
+  return Array.from({ length: n }, (_, i) =>
+    validateTarget({ name: `F${i}`, raDeg: (i * 360) / n, decDeg }),
+  );
 }
 
 /**
@@ -14,11 +33,20 @@ export function spreadTargets(n: number, decDeg = -30): Target[] {
  * the Sun below astronomical twilight (−18°, Explanatory Supplement to the Astronomical Almanac),
  * the target above the altitude limit and outside the Sun-avoidance angle.
  */
-export function safeAt(site: Site, c: Constraints, target: Target, jd: number, toleranceDeg = 0.05): string | null {
+export function safeAt(
+  site: Site,
+  c: Constraints,
+  target: Target,
+  jd: number,
+  toleranceDeg = 0.05,
+): string | null {
   const s = exactSampler(site, target)(jd);
-  if (s.sunAltitudeDeg > TWILIGHT_SUN_ALTITUDE_DEG.astronomical + 0.01) return `Sun at ${s.sunAltitudeDeg.toFixed(2)}°`;
-  if (s.altitudeDeg < c.altitudeLimitDeg - toleranceDeg) return `target at ${s.altitudeDeg.toFixed(2)}° below ${c.altitudeLimitDeg.toFixed(2)}°`;
-  if (s.sunSeparationDeg < c.sunAvoidanceDeg) return `target ${s.sunSeparationDeg.toFixed(1)}° from the Sun`;
+  if (s.sunAltitudeDeg > TWILIGHT_SUN_ALTITUDE_DEG.astronomical + 0.01)
+    return `Sun at ${s.sunAltitudeDeg.toFixed(2)}°`;
+  if (s.altitudeDeg < c.altitudeLimitDeg - toleranceDeg)
+    return `target at ${s.altitudeDeg.toFixed(2)}° below ${c.altitudeLimitDeg.toFixed(2)}°`;
+  if (s.sunSeparationDeg < c.sunAvoidanceDeg)
+    return `target ${s.sunSeparationDeg.toFixed(1)}° from the Sun`;
   return null;
 }
 

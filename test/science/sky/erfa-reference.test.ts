@@ -13,7 +13,13 @@ import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { icrsDirection, skyPlaceExact, taiMinusUtcS, validateSite, validateTarget } from '../../../server/science/sky/index.ts';
+import {
+  icrsDirection,
+  skyPlaceExact,
+  taiMinusUtcS,
+  validateSite,
+  validateTarget,
+} from '../../../server/science/sky/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
 
 const here = new URL('../../reference/', import.meta.url).pathname;
@@ -35,18 +41,31 @@ function loadFixture(): { path: string; doc: Fixture } {
   let path = committed;
   if (erfaHere) {
     path = join(mkdtempSync(join(tmpdir(), 'epochwright-erfa-')), 'erfa-topocentric.json');
-    execFileSync('/usr/bin/python3', [join(here, 'erfa_topocentric.py'), path], { stdio: 'ignore' });
+    execFileSync('/usr/bin/python3', [join(here, 'erfa_topocentric.py'), path], {
+      stdio: 'ignore',
+    });
   }
   return { path, doc: JSON.parse(readFileSync(path, 'utf8')) as Fixture };
 }
 
-interface Place { altDeg: number; azDeg: number; hourAngleDeg: number; decDeg: number }
+interface Place {
+  altDeg: number;
+  azDeg: number;
+  hourAngleDeg: number;
+  decDeg: number;
+}
 interface Fixture {
   source: string;
   leapSeconds: { date: string; taiMinusUtcS: number }[];
   cases: {
     utc: string;
-    site: { latitudeDeg: number; longitudeDeg: number; elevationM: number; pressureHpa: number; temperatureC: number };
+    site: {
+      latitudeDeg: number;
+      longitudeDeg: number;
+      elevationM: number;
+      pressureHpa: number;
+      temperatureC: number;
+    };
     star: { raDeg: number; decDeg: number; pmRaMasYr: number; pmDecMasYr: number; epoch: string };
     geometric: Place;
     refracted: Place;
@@ -57,7 +76,10 @@ const { path, doc } = loadFixture();
 const wrap180 = (d: number) => ((((d + 180) % 360) + 360) % 360) - 180;
 
 function stats(errs: number[]): { worst: number; rms: number } {
-  return { worst: Math.max(...errs.map(Math.abs)), rms: Math.sqrt(errs.reduce((s, e) => s + e * e, 0) / errs.length) };
+  return {
+    worst: Math.max(...errs.map(Math.abs)),
+    rms: Math.sqrt(errs.reduce((s, e) => s + e * e, 0) / errs.length),
+  };
 }
 
 describe(`exact topocentric place vs ${doc.source} (${path === committed ? 'committed fixture' : 'rebuilt fixture'})`, () => {
@@ -65,9 +87,17 @@ describe(`exact topocentric place vs ${doc.source} (${path === committed ? 'comm
     const jd = parseEpoch(c.utc);
     const target = validateTarget({ name: 'star', ...c.star });
     const dir = icrsDirection(target, jd);
-    const airless = skyPlaceExact(dir, jd, validateSite({ ...c.site, timeZone: 'UTC', pressureHpa: 0 }));
+    const airless = skyPlaceExact(
+      dir,
+      jd,
+      validateSite({ ...c.site, timeZone: 'UTC', pressureHpa: 0 }),
+    );
     const weather = skyPlaceExact(dir, jd, validateSite({ ...c.site, timeZone: 'UTC' }));
-    const seaLevelWeather = skyPlaceExact(dir, jd, validateSite({ ...c.site, timeZone: 'UTC', pressureHpa: 1013.25, temperatureC: 15 }));
+    const seaLevelWeather = skyPlaceExact(
+      dir,
+      jd,
+      validateSite({ ...c.site, timeZone: 'UTC', pressureHpa: 1013.25, temperatureC: 15 }),
+    );
     return { c, airless, weather, seaLevelWeather };
   });
 
@@ -83,18 +113,34 @@ describe(`exact topocentric place vs ${doc.source} (${path === committed ? 'comm
 
   it('geometric altitude within 1″ and azimuth within 1″ on the sky', () => {
     const dAlt = rows.map((r) => (r.airless.trueAltitudeDeg - r.c.geometric.altDeg) * 3600);
-    const dAz = rows.map((r) => wrap180(r.airless.azimuthDeg - r.c.geometric.azDeg) * 3600 * Math.cos(r.c.geometric.altDeg * Math.PI / 180));
-    const a = stats(dAlt), z = stats(dAz);
-    console.log(`geometric altitude vs ERFA: worst ${a.worst.toFixed(3)}″, RMS ${a.rms.toFixed(3)}″; azimuth·cos(alt): worst ${z.worst.toFixed(3)}″, RMS ${z.rms.toFixed(3)}″ (n=${rows.length})`);
+    const dAz = rows.map(
+      (r) =>
+        wrap180(r.airless.azimuthDeg - r.c.geometric.azDeg) *
+        3600 *
+        Math.cos((r.c.geometric.altDeg * Math.PI) / 180),
+    );
+    const a = stats(dAlt),
+      z = stats(dAz);
+    console.log(
+      `geometric altitude vs ERFA: worst ${a.worst.toFixed(3)}″, RMS ${a.rms.toFixed(3)}″; azimuth·cos(alt): worst ${z.worst.toFixed(3)}″, RMS ${z.rms.toFixed(3)}″ (n=${rows.length})`,
+    );
     expect(a.worst).toBeLessThan(1); // issue 3 tolerance, ERFA atco13 with pressure 0
     expect(z.worst).toBeLessThan(1); // issue 3 tolerance, ERFA atco13 with pressure 0
   });
 
   it('hour angle and declination of date within 1″ (declination) and 1″·sec δ (hour angle)', () => {
     const dDec = rows.map((r) => (r.airless.decOfDateDeg - r.c.geometric.decDeg) * 3600);
-    const dHa = rows.map((r) => wrap180(r.airless.hourAngleDeg - r.c.geometric.hourAngleDeg) * 3600 * Math.cos(r.c.geometric.decDeg * Math.PI / 180));
-    const d = stats(dDec), h = stats(dHa);
-    console.log(`declination vs ERFA: worst ${d.worst.toFixed(3)}″; hour angle·cos δ: worst ${h.worst.toFixed(3)}″`);
+    const dHa = rows.map(
+      (r) =>
+        wrap180(r.airless.hourAngleDeg - r.c.geometric.hourAngleDeg) *
+        3600 *
+        Math.cos((r.c.geometric.decDeg * Math.PI) / 180),
+    );
+    const d = stats(dDec),
+      h = stats(dHa);
+    console.log(
+      `declination vs ERFA: worst ${d.worst.toFixed(3)}″; hour angle·cos δ: worst ${h.worst.toFixed(3)}″`,
+    );
     expect(d.worst).toBeLessThan(1); // ERFA atco13 observed declination, pressure 0
     expect(h.worst).toBeLessThan(1); // ERFA atco13 observed hour angle, pressure 0
   });
@@ -102,15 +148,23 @@ describe(`exact topocentric place vs ${doc.source} (${path === committed ? 'comm
   it('refracted altitude within 10″ above 15° at the site pressure and temperature', () => {
     const high = rows.filter((r) => r.c.refracted.altDeg > 15);
     const d = stats(high.map((r) => (r.weather.altitudeDeg - r.c.refracted.altDeg) * 3600));
-    console.log(`refracted altitude vs ERFA above 15°: worst ${d.worst.toFixed(2)}″, RMS ${d.rms.toFixed(2)}″ (n=${high.length})`);
+    console.log(
+      `refracted altitude vs ERFA above 15°: worst ${d.worst.toFixed(2)}″, RMS ${d.rms.toFixed(2)}″ (n=${high.length})`,
+    );
     expect(high.length).toBeGreaterThan(100);
     expect(d.worst).toBeLessThan(10); // issue 3 tolerance, ERFA atco13 at the site's pressure
   });
 
   it('ignoring the site pressure is off by more than a minute of arc at a high site near 15°', () => {
-    const highSites = rows.filter((r) => r.c.site.elevationM > 2500 && r.c.refracted.altDeg > 15 && r.c.refracted.altDeg < 25);
-    const d = stats(highSites.map((r) => (r.seaLevelWeather.altitudeDeg - r.c.refracted.altDeg) * 3600));
-    console.log(`sea-level refraction at sites above 2.5 km, 15°–25°: worst ${d.worst.toFixed(1)}″ (n=${highSites.length})`);
+    const highSites = rows.filter(
+      (r) => r.c.site.elevationM > 2500 && r.c.refracted.altDeg > 15 && r.c.refracted.altDeg < 25,
+    );
+    const d = stats(
+      highSites.map((r) => (r.seaLevelWeather.altitudeDeg - r.c.refracted.altDeg) * 3600),
+    );
+    console.log(
+      `sea-level refraction at sites above 2.5 km, 15°–25°: worst ${d.worst.toFixed(1)}″ (n=${highSites.length})`,
+    );
     expect(highSites.length).toBeGreaterThan(5);
     expect(d.worst).toBeGreaterThan(60); // issue 3: "off by over a minute of arc at a high site"
   });

@@ -3,15 +3,54 @@ import { expect, it } from 'vitest';
 import * as sky from '../../../server/science/sky/index.ts';
 
 it('exports exactly these values', () => {
-  expect(Object.keys(sky).sort()).toEqual([
-    'AIRMASS_FORMULAS', 'DEFAULT_MAX_AIRMASS', 'altitudeGrid', 'DEFAULT_MOON_SEPARATION_DEG', 'DEFAULT_SUN_AVOIDANCE_DEG', 'LIMITS',
-    'TWILIGHT_SUN_ALTITUDE_DEG', 'airmass', 'cautions', 'altitudeForAirmass', 'apparentAltitudeDeg', 'astroTime', 'darknessExact',
-    'darknessFast', 'deltaTSeconds', 'exactSampler', 'fastSampler', 'findWindows', 'frameTarget', 'icrsDirection',
-    'instant', 'maskAltitudeDeg', 'moonNight', 'nightFrame', 'nightReport', 'nightSpan', 'offsetPosition',
-    'parallacticAngleRad', 'parseNightDate', 'refractionDeg', 'refractionScale', 'seasonMap', 'seasonReport', 'seeingAtAirmass',
-    'skyPlaceExact', 'skyPlaceOfDate', 'standardAtmosphere', 'sunNight', 'taiMinusUtcS', 'targetPositionAt',
-    'trueAltitudeDeg', 'validateConstraints', 'validateSite', 'validateTarget',
-  ].sort());
+  expect(Object.keys(sky).sort()).toEqual(
+    [
+      'AIRMASS_FORMULAS',
+      'DEFAULT_MAX_AIRMASS',
+      'altitudeGrid',
+      'DEFAULT_MOON_SEPARATION_DEG',
+      'DEFAULT_SUN_AVOIDANCE_DEG',
+      'LIMITS',
+      'TWILIGHT_SUN_ALTITUDE_DEG',
+      'airmass',
+      'cautions',
+      'altitudeForAirmass',
+      'apparentAltitudeDeg',
+      'astroTime',
+      'darknessExact',
+      'darknessFast',
+      'deltaTSeconds',
+      'exactSampler',
+      'fastSampler',
+      'findWindows',
+      'frameTarget',
+      'icrsDirection',
+      'instant',
+      'maskAltitudeDeg',
+      'moonNight',
+      'nightFrame',
+      'nightReport',
+      'nightSpan',
+      'offsetPosition',
+      'parallacticAngleRad',
+      'parseNightDate',
+      'refractionDeg',
+      'refractionScale',
+      'seasonMap',
+      'seasonReport',
+      'seeingAtAirmass',
+      'skyPlaceExact',
+      'skyPlaceOfDate',
+      'standardAtmosphere',
+      'sunNight',
+      'taiMinusUtcS',
+      'targetPositionAt',
+      'trueAltitudeDeg',
+      'validateConstraints',
+      'validateSite',
+      'validateTarget',
+    ].sort(),
+  );
 });
 
 it('keeps the science layer free of http, store and client imports', async () => {

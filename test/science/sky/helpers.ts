@@ -1,5 +1,10 @@
 /** Shared test helpers: a seeded random source and random sites, targets and nights. */
-import { validateSite, validateTarget, type Site, type Target } from '../../../server/science/sky/index.ts';
+import {
+  validateSite,
+  validateTarget,
+  type Site,
+  type Target,
+} from '../../../server/science/sky/index.ts';
 
 /** Park–Miller minimal standard generator: reproducible across runs. */
 export function seeded(seed: number): () => number {
@@ -7,7 +12,15 @@ export function seeded(seed: number): () => number {
   return () => (s = (s * 16807) % 2147483647) / 2147483647;
 }
 
-const ZONES = ['UTC', 'America/Santiago', 'Europe/Madrid', 'Pacific/Honolulu', 'Australia/Sydney', 'Asia/Kolkata', 'Africa/Johannesburg'];
+const ZONES = [
+  'UTC',
+  'America/Santiago',
+  'Europe/Madrid',
+  'Pacific/Honolulu',
+  'Australia/Sydney',
+  'Asia/Kolkata',
+  'Africa/Johannesburg',
+];
 
 export function randomSite(rnd: () => number, maxLat = 60): Site {
   return validateSite({
@@ -20,7 +33,13 @@ export function randomSite(rnd: () => number, maxLat = 60): Site {
 }
 
 export function randomTarget(rnd: () => number, name = 'random star'): Target {
-  return validateTarget({ name, raDeg: 360 * rnd(), decDeg: (Math.asin(2 * rnd() - 1) * 180) / Math.PI, pmRaMasYr: 400 * (rnd() - 0.5), pmDecMasYr: 400 * (rnd() - 0.5) });
+  return validateTarget({
+    name,
+    raDeg: 360 * rnd(),
+    decDeg: (Math.asin(2 * rnd() - 1) * 180) / Math.PI,
+    pmRaMasYr: 400 * (rnd() - 0.5),
+    pmDecMasYr: 400 * (rnd() - 0.5),
+  });
 }
 
 export function randomDate(rnd: () => number, year = 2027): string {
@@ -30,5 +49,8 @@ export function randomDate(rnd: () => number, year = 2027): string {
 
 export function stats(errs: number[]): { worst: number; rms: number } {
   if (errs.length === 0) return { worst: 0, rms: 0 };
-  return { worst: Math.max(...errs.map(Math.abs)), rms: Math.sqrt(errs.reduce((s, e) => s + e * e, 0) / errs.length) };
+  return {
+    worst: Math.max(...errs.map(Math.abs)),
+    rms: Math.sqrt(errs.reduce((s, e) => s + e * e, 0) / errs.length),
+  };
 }

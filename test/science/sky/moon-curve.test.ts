@@ -5,7 +5,12 @@
  */
 import { Body, Equator, Horizon, MakeTime } from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
-import { nightReport, validateConstraints, validateSite, validateTarget } from '../../../server/science/sky/index.ts';
+import {
+  nightReport,
+  validateConstraints,
+  validateSite,
+  validateTarget,
+} from '../../../server/science/sky/index.ts';
 import { randomDate, randomSite, seeded, stats } from './helpers.ts';
 
 const ARCMIN_DEG = 1 / 60;
@@ -23,55 +28,108 @@ describe('Moon altitude curve', () => {
     const errs: number[] = [];
     for (let k = 0; k < 12; k++) {
       const site = randomSite(rnd);
-      const r = nightReport(site, randomDate(rnd), [], validateConstraints({}, site), { curveStepMinutes: 20 });
+      const r = nightReport(site, randomDate(rnd), [], validateConstraints({}, site), {
+        curveStepMinutes: 20,
+      });
       const curve = r.moon.curve!;
       expect(curve.utc).toHaveLength(curve.altitudeDeg.length);
       expect(curve.utc.length).toBeGreaterThanOrEqual(69); // 23–25 h every 20 min, both ends (common practice, no source)
       curve.utc.forEach((u, i) => errs.push(curve.altitudeDeg[i]! - moonAltitudeDeg(site, u)));
     }
     const { worst, rms } = stats(errs);
-    console.log(`Moon altitude vs astronomy-engine: ${errs.length} samples, worst ${(worst * 3600).toFixed(1)}″, RMS ${(rms * 3600).toFixed(1)}″`);
+    console.log(
+      `Moon altitude vs astronomy-engine: ${errs.length} samples, worst ${(worst * 3600).toFixed(1)}″, RMS ${(rms * 3600).toFixed(1)}″`,
+    );
     // Tolerance 1′: the brief's requirement for a plotted curve; the Moon table's linear interpolation is the only approximation.
     expect(worst).toBeLessThan(ARCMIN_DEG);
   });
 
-  it('shares the targets\' instants, and is left out with the curves', () => {
-    const site = validateSite({ name: 'Carrow Fell', latitudeDeg: -31.3, longitudeDeg: 149.1, elevationM: 1160, timeZone: 'Australia/Sydney' });
+  it("shares the targets' instants, and is left out with the curves", () => {
+    const site = validateSite({
+      name: 'Carrow Fell',
+      latitudeDeg: -31.3,
+      longitudeDeg: 149.1,
+      elevationM: 1160,
+      timeZone: 'Australia/Sydney',
+    });
     const star = validateTarget({ name: 'Fell star', raDeg: 210, decDeg: -40 });
     const c = validateConstraints({}, site);
     const r = nightReport(site, '2027-04-20', [star], c, { curveStepMinutes: 10 });
     expect(r.moon.curve!.utc).toEqual(r.targets[0]!.curve!.utc);
-    expect(nightReport(site, '2027-04-20', [star], c, { curveStepMinutes: 0 }).moon.curve).toBeNull();
+    expect(
+      nightReport(site, '2027-04-20', [star], c, { curveStepMinutes: 0 }).moon.curve,
+    ).toBeNull();
   });
 
-  it('peaks within 15 minutes of astronomy-engine\'s Moon transit and dips below the horizon within the noon-to-noon night', () => {
+  it("peaks within 15 minutes of astronomy-engine's Moon transit and dips below the horizon within the noon-to-noon night", () => {
     // The Moon is highest near its meridian transit (common practice, no source); astronomy-engine gives the transit.
-    const site = validateSite({ name: 'Carrow Fell', latitudeDeg: -31.3, longitudeDeg: 149.1, elevationM: 1160, timeZone: 'Australia/Sydney' });
-    const r = nightReport(site, '2027-04-20', [], validateConstraints({}, site), { curveStepMinutes: 10 });
+    const site = validateSite({
+      name: 'Carrow Fell',
+      latitudeDeg: -31.3,
+      longitudeDeg: 149.1,
+      elevationM: 1160,
+      timeZone: 'Australia/Sydney',
+    });
+    const r = nightReport(site, '2027-04-20', [], validateConstraints({}, site), {
+      curveStepMinutes: 10,
+    });
     const curve = r.moon.curve!;
     const top = curve.altitudeDeg.indexOf(Math.max(...curve.altitudeDeg));
-    if (r.moon.transit) expect(Math.abs(Date.parse(curve.utc[top]!) - Date.parse(r.moon.transit.utc))).toBeLessThan(15 * 60_000);
+    if (r.moon.transit)
+      expect(Math.abs(Date.parse(curve.utc[top]!) - Date.parse(r.moon.transit.utc))).toBeLessThan(
+        15 * 60_000,
+      );
     expect(Math.min(...curve.altitudeDeg)).toBeLessThan(0);
   });
 });
 
-describe('horizon mask along a target\'s path', () => {
+describe("horizon mask along a target's path", () => {
   // An invented site whose southern ridge rises to 45°, above its 30° limit.
   const site = validateSite({
-    name: 'Brannock Shelf', latitudeDeg: -24.0, longitudeDeg: -70.0, elevationM: 2600, timeZone: 'America/Santiago', minAltitudeDeg: 30,
-    horizonMask: [{ azimuthDeg: 0, altitudeDeg: 5 }, { azimuthDeg: 150, altitudeDeg: 5 }, { azimuthDeg: 180, altitudeDeg: 45 }, { azimuthDeg: 210, altitudeDeg: 5 }],
+    name: 'Brannock Shelf',
+    latitudeDeg: -24.0,
+    longitudeDeg: -70.0,
+    elevationM: 2600,
+    timeZone: 'America/Santiago',
+    minAltitudeDeg: 30,
+    horizonMask: [
+      { azimuthDeg: 0, altitudeDeg: 5 },
+      { azimuthDeg: 150, altitudeDeg: 5 },
+      { azimuthDeg: 180, altitudeDeg: 45 },
+      { azimuthDeg: 210, altitudeDeg: 5 },
+    ],
   });
   const star = validateTarget({ name: 'south star', raDeg: 270, decDeg: -75 });
 
   it('is sampled only when a mask applies', () => {
-    const withMask = nightReport(site, '2027-07-10', [star], validateConstraints({ minMoonSeparationDeg: 0 }, site), { curveStepMinutes: 10 });
-    const without = nightReport(site, '2027-07-10', [star], validateConstraints({ minMoonSeparationDeg: 0, useHorizonMask: false }, site), { curveStepMinutes: 10 });
-    expect(withMask.targets[0]!.curve!.horizonMaskDeg).toHaveLength(withMask.targets[0]!.curve!.utc.length);
+    const withMask = nightReport(
+      site,
+      '2027-07-10',
+      [star],
+      validateConstraints({ minMoonSeparationDeg: 0 }, site),
+      { curveStepMinutes: 10 },
+    );
+    const without = nightReport(
+      site,
+      '2027-07-10',
+      [star],
+      validateConstraints({ minMoonSeparationDeg: 0, useHorizonMask: false }, site),
+      { curveStepMinutes: 10 },
+    );
+    expect(withMask.targets[0]!.curve!.horizonMaskDeg).toHaveLength(
+      withMask.targets[0]!.curve!.utc.length,
+    );
     expect(without.targets[0]!.curve!.horizonMaskDeg).toBeUndefined();
   });
 
   it('no window covers an instant where the target sits below the sampled mask, and the mask reaches 45° due south', () => {
-    const r = nightReport(site, '2027-07-10', [star], validateConstraints({ minMoonSeparationDeg: 0 }, site), { curveStepMinutes: 5 });
+    const r = nightReport(
+      site,
+      '2027-07-10',
+      [star],
+      validateConstraints({ minMoonSeparationDeg: 0 }, site),
+      { curveStepMinutes: 5 },
+    );
     const t = r.targets[0]!;
     const curve = t.curve!;
     const mask = curve.horizonMaskDeg!;
@@ -84,7 +142,11 @@ describe('horizon mask along a target\'s path', () => {
       if (curve.altitudeDeg[i]! >= mask[i]! - 0.05) return;
       blocked++;
       const ms = Date.parse(u);
-      expect(t.windows.some((w) => Date.parse(w.start.utc) < ms - 1000 && Date.parse(w.end.utc) > ms + 1000)).toBe(false);
+      expect(
+        t.windows.some(
+          (w) => Date.parse(w.start.utc) < ms - 1000 && Date.parse(w.end.utc) > ms + 1000,
+        ),
+      ).toBe(false);
     });
     expect(blocked).toBeGreaterThan(0);
   });

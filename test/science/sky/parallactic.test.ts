@@ -8,7 +8,9 @@ it('matches astronomia (Meeus eq. 14.1) to 1e-12 rad', () => {
   const rnd = seeded(314);
   let worst = 0;
   for (let i = 0; i < 2000; i++) {
-    const lat = (rnd() - 0.5) * 0.99 * Math.PI, dec = (rnd() - 0.5) * 0.99 * Math.PI, ha = (rnd() - 0.5) * 2 * Math.PI;
+    const lat = (rnd() - 0.5) * 0.99 * Math.PI,
+      dec = (rnd() - 0.5) * 0.99 * Math.PI,
+      ha = (rnd() - 0.5) * 2 * Math.PI;
     const d = parallacticAngleRad(ha, dec, lat) - parallactic.parallacticAngle(lat, dec, ha);
     worst = Math.max(worst, Math.abs(Math.atan2(Math.sin(d), Math.cos(d))));
   }

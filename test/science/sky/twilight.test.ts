@@ -5,11 +5,22 @@
 import { Body, SearchRiseSet } from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
 import { JD_J2000 } from '../../../server/science/constants.ts';
-import { astroTime, darknessExact, darknessFast, nightFrame, nightSpan, validateSite } from '../../../server/science/sky/index.ts';
+import {
+  astroTime,
+  darknessExact,
+  darknessFast,
+  nightFrame,
+  nightSpan,
+  validateSite,
+} from '../../../server/science/sky/index.ts';
 import { randomDate, randomSite, seeded, stats } from './helpers.ts';
 
 describe('twilights: fast darkness vs astronomy-engine SearchAltitude', () => {
-  it.each([['civil', -6], ['nautical', -12], ['astronomical', -18]] as const)('%s (Sun at %i°) within 1 minute', (_kind, limit) => {
+  it.each([
+    ['civil', -6],
+    ['nautical', -12],
+    ['astronomical', -18],
+  ] as const)('%s (Sun at %i°) within 1 minute', (_kind, limit) => {
     const rnd = seeded(limit === -6 ? 11 : limit === -12 ? 12 : 13);
     const errs: number[] = [];
     for (let i = 0; i < 40; i++) {
@@ -23,7 +34,9 @@ describe('twilights: fast darkness vs astronomy-engine SearchAltitude', () => {
       });
     }
     const s = stats(errs);
-    console.log(`${_kind} twilight, fast vs astronomy-engine: worst ${(s.worst * 60).toFixed(2)} s, RMS ${(s.rms * 60).toFixed(2)} s (n=${errs.length})`);
+    console.log(
+      `${_kind} twilight, fast vs astronomy-engine: worst ${(s.worst * 60).toFixed(2)} s, RMS ${(s.rms * 60).toFixed(2)} s (n=${errs.length})`,
+    );
     expect(s.worst).toBeLessThan(1); // issue 3 tolerance: 1 minute
   });
 });
@@ -34,20 +47,31 @@ describe('sunrise and sunset: fast Sun at −0°50′ vs astronomy-engine Search
     const errs: number[] = [];
     for (let i = 0; i < 40; i++) {
       const s0 = randomSite(rnd, 55);
-      const site = validateSite({ latitudeDeg: s0.latitudeDeg, longitudeDeg: s0.longitudeDeg, elevationM: 0, timeZone: s0.timeZone });
+      const site = validateSite({
+        latitudeDeg: s0.latitudeDeg,
+        longitudeDeg: s0.longitudeDeg,
+        elevationM: 0,
+        timeZone: s0.timeZone,
+      });
       // A noon-to-noon span by the Sun, whatever the zone: mean local noon from the longitude.
       const date = randomDate(rnd);
-      const noon = nightSpan(validateSite({ ...s0, timeZone: 'UTC' }), date).startJd - s0.longitudeDeg / 360;
+      const noon =
+        nightSpan(validateSite({ ...s0, timeZone: 'UTC' }), date).startJd - s0.longitudeDeg / 360;
       const span = { date, startJd: noon, endJd: noon + 1 };
       // Upper limb on the horizon with 34′ refraction and a 16′ semi-diameter: h₀ = −0°50′ (Meeus, ch. 15; common practice).
       const [night] = darknessFast(nightFrame(site, span, 0), -50 / 60);
       const set = SearchRiseSet(Body.Sun, site.observer, -1, astroTime(span.startJd), 1);
       const rise = SearchRiseSet(Body.Sun, site.observer, 1, astroTime(span.startJd), 1);
       expect(night).toBeDefined();
-      errs.push((night!.startJd - (set!.ut + JD_J2000)) * 1440, (night!.endJd - (rise!.ut + JD_J2000)) * 1440);
+      errs.push(
+        (night!.startJd - (set!.ut + JD_J2000)) * 1440,
+        (night!.endJd - (rise!.ut + JD_J2000)) * 1440,
+      );
     }
     const s = stats(errs);
-    console.log(`sunset/sunrise, fast vs astronomy-engine: worst ${(s.worst * 60).toFixed(1)} s, RMS ${(s.rms * 60).toFixed(1)} s`);
+    console.log(
+      `sunset/sunrise, fast vs astronomy-engine: worst ${(s.worst * 60).toFixed(1)} s, RMS ${(s.rms * 60).toFixed(1)} s`,
+    );
     expect(s.worst).toBeLessThan(1); // issue 3 tolerance: 1 minute
   });
 });

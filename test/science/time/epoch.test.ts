@@ -1,6 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../../server/science/errors.ts';
-import { epochRange, jdToIso, parseDurationDays, parseEpoch } from '../../../server/science/time/index.ts';
+import {
+  epochRange,
+  jdToIso,
+  parseDurationDays,
+  parseEpoch,
+} from '../../../server/science/time/index.ts';
 
 describe('epochs', () => {
   it('reads J2000.0 as JD 2451545.0', () => {

@@ -27,9 +27,14 @@ export function anomalyTable(e: number): AnomalyTable {
     const sq = Math.sqrt(1 - e * e);
     t = new Float64Array(4 * TABLE_SIZE);
     for (let k = 0; k < TABLE_SIZE; k++) {
-      const x0 = Math.cos(E[k]!) - e, x1 = Math.cos(E[k + 1]!) - e;
-      const y0 = sq * Math.sin(E[k]!), y1 = sq * Math.sin(E[k + 1]!);
-      t[4 * k] = x0; t[4 * k + 1] = x1 - x0; t[4 * k + 2] = y0; t[4 * k + 3] = y1 - y0;
+      const x0 = Math.cos(E[k]!) - e,
+        x1 = Math.cos(E[k + 1]!) - e;
+      const y0 = sq * Math.sin(E[k]!),
+        y1 = sq * Math.sin(E[k + 1]!);
+      t[4 * k] = x0;
+      t[4 * k + 1] = x1 - x0;
+      t[4 * k + 2] = y0;
+      t[4 * k + 3] = y1 - y0;
     }
     if (tables.size > 64) tables.clear();
     tables.set(e, t);
@@ -43,7 +48,8 @@ export function anomalyTable(e: number): AnomalyTable {
  */
 export function readTable(t: AnomalyTable, u: number, out: Float64Array): void {
   const x = (u - Math.floor(u)) * TABLE_SIZE;
-  const i = Math.min(x | 0, TABLE_SIZE - 1), f = x - i;
+  const i = Math.min(x | 0, TABLE_SIZE - 1),
+    f = x - i;
   out[0] = t[4 * i]! + f * t[4 * i + 1]!;
   out[1] = t[4 * i + 2]! + f * t[4 * i + 3]!;
 }

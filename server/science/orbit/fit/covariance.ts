@@ -18,7 +18,13 @@ export const MAX_CONDITION = 1e12;
  * @returns n×n covariance in the units of the parameters
  * @throws FitRefusal (singular) naming the parameters without constraint
  */
-export function covarianceFromJacobian(J: Float64Array, rows: number, n: number, weights: Float64Array | null, names: string[]): number[][] {
+export function covarianceFromJacobian(
+  J: Float64Array,
+  rows: number,
+  n: number,
+  weights: Float64Array | null,
+  names: string[],
+): number[][] {
   const N = new Float64Array(n * n);
   for (let i = 0; i < rows; i++) {
     const w = weights ? weights[i]! : 1;
@@ -32,7 +38,11 @@ export function covarianceFromJacobian(J: Float64Array, rows: number, n: number,
   for (let a = 0; a < n; a++) {
     const d = N[a * n + a]!;
     if (!(d > 0)) {
-      throw new FitRefusal('singular', `the data do not constrain ${names[a]}: no measurement depends on it (fix it or give it a prior)`, [names[a]!]);
+      throw new FitRefusal(
+        'singular',
+        `the data do not constrain ${names[a]}: no measurement depends on it (fix it or give it a prior)`,
+        [names[a]!],
+      );
     }
     scale[a] = 1 / Math.sqrt(d);
   }
@@ -46,10 +56,15 @@ export function covarianceFromJacobian(J: Float64Array, rows: number, n: number,
   }
   const svd = new SingularValueDecomposition(S, { autoTranspose: true });
   const sv = svd.diagonal;
-  const smax = sv[0]!, smin = sv[sv.length - 1]!;
+  const smax = sv[0]!,
+    smin = sv[sv.length - 1]!;
   if (!(smin > smax / MAX_CONDITION)) {
     const v = svd.rightSingularVectors.getColumn(sv.length - 1);
-    const involved = v.map((x, a) => [Math.abs(x), a] as const).filter(([x]) => x > 0.25).sort((p, q) => q[0] - p[0]).map(([, a]) => names[a]!);
+    const involved = v
+      .map((x, a) => [Math.abs(x), a] as const)
+      .filter(([x]) => x > 0.25)
+      .sort((p, q) => q[0] - p[0])
+      .map(([, a]) => names[a]!);
     throw new FitRefusal(
       'singular',
       `singular normal matrix (condition ${(smax / Math.max(smin, 1e-300)).toExponential(1)}): the data cannot separate ${involved.join(', ')}; add measurements that tell them apart, fix one, or give a prior`,

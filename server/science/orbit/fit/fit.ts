@@ -17,7 +17,11 @@ export function fitOrbits(request: FitRequest): FitResult {
   const req = checkRequest(request);
   const sol = solve(req);
   const rel = Object.values(req.relativity).some((v) => v);
-  const result = assemble(sol, req, rel ? 'analytic (Keplerian part); relativistic terms by central differences' : 'analytic');
+  const result = assemble(
+    sol,
+    req,
+    rel ? 'analytic (Keplerian part); relativistic terms by central differences' : 'analytic',
+  );
   if (req.sample) samplePosterior(sol, req, result);
   return result;
 }

@@ -37,7 +37,11 @@ export interface Astrometry {
 }
 
 /** Linear parameters and χ² of one node, filled by a kernel. */
-export interface NodeFit { chi2: number; sx: Float64Array; sy: Float64Array }
+export interface NodeFit {
+  chi2: number;
+  sx: Float64Array;
+  sy: Float64Array;
+}
 
 /**
  * One node: the epochs' table positions are start[q] + offset (start in [0, TABLE_SIZE), offset
@@ -53,26 +57,61 @@ export interface NodeKernel {
 
 /** Epoch q of n in check order: strided, so every prefix spans the whole time range. */
 function checkOrder(n: number): number[] {
-  const stride = 8, order: number[] = [];
+  const stride = 8,
+    order: number[] = [];
   for (let r = 0; r < stride; r++) for (let q = r; q < n; q += stride) order.push(q);
   return order;
 }
 
 export function astrometryColumns(obs: Observation[]): Astrometry {
-  const sorted = obs.filter((o) => o.kind !== 'radial-velocity').sort((a, b) => a.jd - b.jd).map((o) => {
-    if (o.kind === 'offsets') return { jd: o.jd, x: o.value[0], y: o.value[1], wx: 1 / o.sigma[0] ** 2, wy: 1 / o.sigma[1] ** 2 };
-    const [rho, th] = o.value;
-    const s = Math.max(o.sigma[0], rho * o.sigma[1]);
-    return { jd: o.jd, x: rho * Math.sin(th), y: rho * Math.cos(th), wx: 1 / (s * s), wy: 1 / (s * s) };
-  });
+  const sorted = obs
+    .filter((o) => o.kind !== 'radial-velocity')
+    .sort((a, b) => a.jd - b.jd)
+    .map((o) => {
+      if (o.kind === 'offsets')
+        return {
+          jd: o.jd,
+          x: o.value[0],
+          y: o.value[1],
+          wx: 1 / o.sigma[0] ** 2,
+          wy: 1 / o.sigma[1] ** 2,
+        };
+      const [rho, th] = o.value;
+      const s = Math.max(o.sigma[0], rho * o.sigma[1]);
+      return {
+        jd: o.jd,
+        x: rho * Math.sin(th),
+        y: rho * Math.cos(th),
+        wx: 1 / (s * s),
+        wy: 1 / (s * s),
+      };
+    });
   const rows = checkOrder(sorted.length).map((q) => sorted[q]!);
   const col = (f: (r: (typeof rows)[number]) => number) => Float64Array.from(rows, f);
   const n = rows.length;
   const prefixSumWxx = new Float64Array(n + 1);
-  rows.forEach((r, q) => (prefixSumWxx[q + 1] = prefixSumWxx[q]! + r.wx * r.x * r.x + r.wy * r.y * r.y));
+  rows.forEach(
+    (r, q) => (prefixSumWxx[q + 1] = prefixSumWxx[q]! + r.wx * r.x * r.x + r.wy * r.y * r.y),
+  );
   // A prefix of fewer than 8 epochs rarely bounds anything; the last stop is the full sum.
-  const stops = Int32Array.from(new Set([1, 2, 3, 4, 5, 6, 7].map((k) => Math.floor((k * n) / 8)).filter((k) => k >= 8).concat(n)));
-  return { n, jd: col((r) => r.jd), wx: col((r) => r.wx), wy: col((r) => r.wy), px: col((r) => r.wx * r.x), py: col((r) => r.wy * r.y), prefixSumWxx, stops };
+  const stops = Int32Array.from(
+    new Set(
+      [1, 2, 3, 4, 5, 6, 7]
+        .map((k) => Math.floor((k * n) / 8))
+        .filter((k) => k >= 8)
+        .concat(n),
+    ),
+  );
+  return {
+    n,
+    jd: col((r) => r.jd),
+    wx: col((r) => r.wx),
+    wy: col((r) => r.wy),
+    px: col((r) => r.wx * r.x),
+    py: col((r) => r.wy * r.y),
+    prefixSumWxx,
+    stops,
+  };
 }
 
 /**
@@ -82,22 +121,52 @@ export function astrometryColumns(obs: Observation[]): Astrometry {
 export function twoUnknowns(ast: Astrometry): NodeKernel {
   const { wx, wy, px, py, prefixSumWxx, stops } = ast;
   const fitNode: NodeKernel['fit'] = (table, start, offset, cut, fit) => {
-    let bx0 = 0, bx1 = 0, by0 = 0, by1 = 0;
-    let nx0 = 0, nx1 = 0, nx2 = 0, ny0 = 0, ny1 = 0, ny2 = 0;
-    let q = 0, chi2 = Infinity, sx0 = 0, sx1 = 0, sy0 = 0, sy1 = 0;
+    let bx0 = 0,
+      bx1 = 0,
+      by0 = 0,
+      by1 = 0;
+    let nx0 = 0,
+      nx1 = 0,
+      nx2 = 0,
+      ny0 = 0,
+      ny1 = 0,
+      ny2 = 0;
+    let q = 0,
+      chi2 = Infinity,
+      sx0 = 0,
+      sx1 = 0,
+      sy0 = 0,
+      sy1 = 0;
     for (let s = 0; s < stops.length; s++) {
       const end = stops[s]!;
       for (; q < end; q++) {
         let x = start[q]! + offset;
         if (x >= TABLE_SIZE) x -= TABLE_SIZE;
-        const i = x | 0, f = x - i, j = 4 * i;
-        const X = table[j]! + f * table[j + 1]!, Y = table[j + 2]! + f * table[j + 3]!;
-        const XX = X * X, XY = X * Y, YY = Y * Y, a = wx[q]!, b = wy[q]!, c = px[q]!, d = py[q]!;
-        bx0 += c * X; bx1 += c * Y; by0 += d * X; by1 += d * Y;
-        nx0 += a * XX; nx1 += a * XY; nx2 += a * YY;
-        ny0 += b * XX; ny1 += b * XY; ny2 += b * YY;
+        const i = x | 0,
+          f = x - i,
+          j = 4 * i;
+        const X = table[j]! + f * table[j + 1]!,
+          Y = table[j + 2]! + f * table[j + 3]!;
+        const XX = X * X,
+          XY = X * Y,
+          YY = Y * Y,
+          a = wx[q]!,
+          b = wy[q]!,
+          c = px[q]!,
+          d = py[q]!;
+        bx0 += c * X;
+        bx1 += c * Y;
+        by0 += d * X;
+        by1 += d * Y;
+        nx0 += a * XX;
+        nx1 += a * XY;
+        nx2 += a * YY;
+        ny0 += b * XX;
+        ny1 += b * XY;
+        ny2 += b * YY;
       }
-      const dx = nx0 * nx2 - nx1 * nx1, dy = ny0 * ny2 - ny1 * ny1;
+      const dx = nx0 * nx2 - nx1 * nx1,
+        dy = ny0 * ny2 - ny1 * ny1;
       // Positive definite, with the same relative floor on the second pivot as solveSmall.
       const definite = nx0 > 0 && dx > 1e-12 * nx0 * nx2 && ny0 > 0 && dy > 1e-12 * ny0 * ny2;
       if (!definite) {
@@ -107,8 +176,10 @@ export function twoUnknowns(ast: Astrometry): NodeKernel {
         }
         continue; // this prefix bounds nothing
       }
-      sx0 = (nx2 * bx0 - nx1 * bx1) / dx; sx1 = (nx0 * bx1 - nx1 * bx0) / dx;
-      sy0 = (ny2 * by0 - ny1 * by1) / dy; sy1 = (ny0 * by1 - ny1 * by0) / dy;
+      sx0 = (nx2 * bx0 - nx1 * bx1) / dx;
+      sx1 = (nx0 * bx1 - nx1 * bx0) / dx;
+      sy0 = (ny2 * by0 - ny1 * by1) / dy;
+      sy1 = (ny0 * by1 - ny1 * by0) / dy;
       chi2 = prefixSumWxx[end]! - (bx0 * sx0 + bx1 * sx1 + by0 * sy0 + by1 * sy1);
       // A prefix bound carries rounding of order 1e-16 of Σw·x²: lower it by far more than that.
       if (end < ast.n) chi2 -= 1e-9 * prefixSumWxx[end]!;
@@ -118,29 +189,48 @@ export function twoUnknowns(ast: Astrometry): NodeKernel {
       }
     }
     fit.chi2 = chi2;
-    fit.sx[0] = sx0; fit.sx[1] = sx1; fit.sy[0] = sy0; fit.sy[1] = sy1;
+    fit.sx[0] = sx0;
+    fit.sx[1] = sx1;
+    fit.sy[0] = sy0;
+    fit.sy[1] = sy1;
     return true;
   };
   return { bounds: stops.length > 1, fit: fitNode };
 }
 
 /** With a frame offset and/or drift: 3 or 4 unknowns per coordinate, solved by solveSmall (no early rejection). */
-export function withFrame(ast: Astrometry, nLin: number, frameOffset: boolean, frameDrift: boolean, frameEpochJd: number): NodeKernel {
+export function withFrame(
+  ast: Astrometry,
+  nLin: number,
+  frameOffset: boolean,
+  frameDrift: boolean,
+  frameEpochJd: number,
+): NodeKernel {
   const col = new Float64Array(nLin);
-  const Nx = new Float64Array(nLin * nLin), Ny = new Float64Array(nLin * nLin);
-  const bx = new Float64Array(nLin), by = new Float64Array(nLin);
+  const Nx = new Float64Array(nLin * nLin),
+    Ny = new Float64Array(nLin * nLin);
+  const bx = new Float64Array(nLin),
+    by = new Float64Array(nLin);
   const fitNode: NodeKernel['fit'] = (table, start, offset, cut, fit) => {
-    Nx.fill(0); Ny.fill(0); bx.fill(0); by.fill(0);
+    Nx.fill(0);
+    Ny.fill(0);
+    bx.fill(0);
+    by.fill(0);
     for (let q = 0; q < ast.n; q++) {
       let x = start[q]! + offset;
       if (x >= TABLE_SIZE) x -= TABLE_SIZE;
-      const i = x | 0, f = x - i, j = 4 * i;
+      const i = x | 0,
+        f = x - i,
+        j = 4 * i;
       col[0] = table[j]! + f * table[j + 1]!;
       col[1] = table[j + 2]! + f * table[j + 3]!;
       let k = 2;
       if (frameOffset) col[k++] = 1;
       if (frameDrift) col[k] = (ast.jd[q]! - frameEpochJd) / JULIAN_YEAR_DAYS;
-      const wx = ast.wx[q]!, wy = ast.wy[q]!, px = ast.px[q]!, py = ast.py[q]!;
+      const wx = ast.wx[q]!,
+        wy = ast.wy[q]!,
+        px = ast.px[q]!,
+        py = ast.py[q]!;
       for (let a = 0; a < nLin; a++) {
         const ca = col[a]!;
         bx[a] = bx[a]! + px * ca;
@@ -196,4 +286,3 @@ export function solveSmall(N: Float64Array, b: Float64Array, n: number): boolean
   }
   return true;
 }
-

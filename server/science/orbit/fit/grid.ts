@@ -8,7 +8,13 @@
 import { AU_KM, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
 import { thieleInnesToCampbell } from '../elements.ts';
 import { anomalyTable, readTable, TABLE_SIZE, type AnomalyTable } from './anomaly-table.ts';
-import { astrometryColumns, type NodeFit, solveSmall, twoUnknowns, withFrame } from './grid-kernels.ts';
+import {
+  astrometryColumns,
+  type NodeFit,
+  solveSmall,
+  twoUnknowns,
+  withFrame,
+} from './grid-kernels.ts';
 import type { Observation } from './measurements.ts';
 
 const KAPPA = AU_KM / SECONDS_PER_DAY / 1000;
@@ -46,33 +52,53 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const ast = astrometryColumns(obs);
   const rv = obs.filter((m) => m.kind === 'radial-velocity');
   const all = obs.map((m) => m.jd);
-  const t0 = Math.min(...all), t1 = Math.max(...all);
+  const t0 = Math.min(...all),
+    t1 = Math.max(...all);
   const span = Math.max(t1 - t0, 1e-3);
   const tRef = 0.5 * (t0 + t1);
   const nLin = 2 + (o.frameOffset ? 1 : 0) + (o.frameDrift ? 1 : 0);
   // Period nodes: the phase drifts by ≤ 0.03 cycle over the span between neighbours.
   const periods: number[] = [];
-  for (let P = o.periodDays.min; P <= o.periodDays.max * 1.0000001; P *= 1 + Math.min(0.03 * P / span, 0.2)) periods.push(P);
+  for (
+    let P = o.periodDays.min;
+    P <= o.periodDays.max * 1.0000001;
+    P *= 1 + Math.min((0.03 * P) / span, 0.2)
+  )
+    periods.push(P);
   if (periods.length === 0) periods.push(o.periodDays.min);
-  const eNodes = E_NODES.filter((e) => e >= o.eccentricity.min - 1e-12 && e <= o.eccentricity.max + 1e-12);
+  const eNodes = E_NODES.filter(
+    (e) => e >= o.eccentricity.min - 1e-12 && e <= o.eccentricity.max + 1e-12,
+  );
   if (eNodes.length === 0) eNodes.push(0.5 * (o.eccentricity.min + o.eccentricity.max));
   const nodes: GridNode[] = [];
   let cut = Infinity;
   const fit: NodeFit = { chi2: 0, sx: new Float64Array(nLin), sy: new Float64Array(nLin) };
-  const kernel = nLin === 2 ? twoUnknowns(ast) : withFrame(ast, nLin, o.frameOffset, o.frameDrift, o.frameEpochJd);
+  const kernel =
+    nLin === 2
+      ? twoUnknowns(ast)
+      : withFrame(ast, nLin, o.frameOffset, o.frameDrift, o.frameEpochJd);
   // Each epoch's table position at phase 0 of each period row, in table intervals, in [0, TABLE_SIZE).
-  const starts = periods.map((P) => Float64Array.from(ast.jd, (jd) => {
-    const u = (jd - tRef) / P, x = (u - Math.floor(u)) * TABLE_SIZE;
-    return x < TABLE_SIZE ? x : 0;
-  }));
+  const starts = periods.map((P) =>
+    Float64Array.from(ast.jd, (jd) => {
+      const u = (jd - tRef) / P,
+        x = (u - Math.floor(u)) * TABLE_SIZE;
+      return x < TABLE_SIZE ? x : 0;
+    }),
+  );
   // The nodes as (period row, eccentricity node, phase offset in table intervals).
   const perE = eNodes.map((e) => Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5))));
   const count = periods.length * perE.reduce((x, y) => x + y, 0);
-  const row = new Int32Array(count), ecc = new Int32Array(count), phase = new Float64Array(count);
+  const row = new Int32Array(count),
+    ecc = new Int32Array(count),
+    phase = new Float64Array(count);
   let c = 0;
   for (let r = 0; r < periods.length; r++) {
     for (let k = 0; k < eNodes.length; k++) {
-      for (let ph = 0; ph < perE[k]!; ph++, c++) { row[c] = r; ecc[c] = k; phase[c] = ph / perE[k]!; }
+      for (let ph = 0; ph < perE[k]!; ph++, c++) {
+        row[c] = r;
+        ecc[c] = k;
+        phase[c] = ph / perE[k]!;
+      }
     }
   }
   const tables = eNodes.map((e) => anomalyTable(e));
@@ -81,23 +107,47 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   // rest, each skipped at once when its bound exceeds the cut. The order changes no result; a full
   // sort of every node would cost more than it saves. (No bounds with frame terms.)
   const bound = new Float64Array(count);
-  if (kernel.bounds) for (let i = 0; i < count; i++) {
-    kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, -Infinity, fit);
-    bound[i] = fit.chi2;
-  }
+  if (kernel.bounds)
+    for (let i = 0; i < count; i++) {
+      kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, -Infinity, fit);
+      bound[i] = fit.chi2;
+    }
   const tau = Float64Array.from(bound).sort()[Math.min(4 * POOL, count) - 1]!;
   const first: number[] = [];
   for (let i = 0; i < count; i++) if (bound[i]! <= tau) first.push(i);
   if (kernel.bounds) first.sort((x, y) => bound[x]! - bound[y]!); // without bounds: every node, in grid order
   const visit = (i: number) => {
-    if (bound[i]! > cut || !kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, cut, fit)) return;
+    if (
+      bound[i]! > cut ||
+      !kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, cut, fit)
+    )
+      return;
     const { chi2, sx, sy } = fit;
     const frame: [number, number, number, number] = [0, 0, 0, 0];
     let k = 2;
-    if (o.frameOffset) { frame[0] = sx[k]!; frame[1] = sy[k]!; k++; }
-    if (o.frameDrift) { frame[2] = sx[k]!; frame[3] = sy[k]!; }
+    if (o.frameOffset) {
+      frame[0] = sx[k]!;
+      frame[1] = sy[k]!;
+      k++;
+    }
+    if (o.frameDrift) {
+      frame[2] = sx[k]!;
+      frame[3] = sy[k]!;
+    }
     const P = periods[row[i]!]!;
-    nodes.push({ chi2: Math.max(chi2, 0), periodDays: P, periapsisJd: tRef - phase[i]! * P, e: eNodes[ecc[i]!]!, A: sy[0]!, F: sy[1]!, B: sx[0]!, G: sx[1]!, frame, gamma: null, signedDistancePc: null });
+    nodes.push({
+      chi2: Math.max(chi2, 0),
+      periodDays: P,
+      periapsisJd: tRef - phase[i]! * P,
+      e: eNodes[ecc[i]!]!,
+      A: sy[0]!,
+      F: sy[1]!,
+      B: sx[0]!,
+      G: sx[1]!,
+      frame,
+      gamma: null,
+      signedDistancePc: null,
+    });
     // Prune often: a tight cut early lets more nodes stop early.
     if (nodes.length >= POOL + 100) cut = prune(nodes);
   };
@@ -112,16 +162,24 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
 /** v = γ + D·b(t), b the radial velocity per parsec of the astrometric orbit: linear in γ and D. */
 function velocityPart(node: GridNode, rv: Observation[], table: AnomalyTable): void {
   const c = thieleInnesToCampbell(node);
-  const e = node.e, sq = Math.sqrt(1 - e * e), n = TWO_PI / node.periodDays;
-  const C = c.a * Math.sin(c.iRad) * Math.sin(c.argRad), H = c.a * Math.sin(c.iRad) * Math.cos(c.argRad);
-  const N = new Float64Array(4), rhs = new Float64Array(2), cs = new Float64Array(2);
+  const e = node.e,
+    sq = Math.sqrt(1 - e * e),
+    n = TWO_PI / node.periodDays;
+  const C = c.a * Math.sin(c.iRad) * Math.sin(c.argRad),
+    H = c.a * Math.sin(c.iRad) * Math.cos(c.argRad);
+  const N = new Float64Array(4),
+    rhs = new Float64Array(2),
+    cs = new Float64Array(2);
   const basis = rv.map((m) => {
     // cs = (X, Y) = (cos E − e, √(1−e²)·sin E), so 1 − e·cos E = 1 − e² − e·X.
     readTable(table, (m.jd - node.periapsisJd) / node.periodDays, cs);
-    const b = (KAPPA * n * (-C * cs[1]! / sq + H * sq * (cs[0]! + e))) / (1 - e * e - e * cs[0]!);
+    const b = (KAPPA * n * ((-C * cs[1]!) / sq + H * sq * (cs[0]! + e))) / (1 - e * e - e * cs[0]!);
     const w = 1 / m.sigma[0] ** 2;
-    N[0] = N[0]! + w; N[2] = N[2]! + w * b; N[3] = N[3]! + w * b * b;
-    rhs[0] = rhs[0]! + w * m.value[0]; rhs[1] = rhs[1]! + w * b * m.value[0];
+    N[0] = N[0]! + w;
+    N[2] = N[2]! + w * b;
+    N[3] = N[3]! + w * b * b;
+    rhs[0] = rhs[0]! + w * m.value[0];
+    rhs[1] = rhs[1]! + w * b * m.value[0];
     return b;
   });
   if (!solveSmall(N, rhs, 2)) {
@@ -133,7 +191,9 @@ function velocityPart(node: GridNode, rv: Observation[], table: AnomalyTable): v
   }
   node.gamma = rhs[0]!;
   node.signedDistancePc = rhs[1]!;
-  rv.forEach((m, q) => (node.chi2 += (m.value[0] - rhs[0]! - rhs[1]! * basis[q]!) ** 2 / m.sigma[0] ** 2));
+  rv.forEach(
+    (m, q) => (node.chi2 += (m.value[0] - rhs[0]! - rhs[1]! * basis[q]!) ** 2 / m.sigma[0] ** 2),
+  );
 }
 
 /** Nodes kept from the astrometric pass for the velocity pass. */

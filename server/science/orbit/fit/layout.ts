@@ -15,11 +15,28 @@ import { thieleInnesToCampbell } from '../elements.ts';
 import type { Orbit, RelativitySwitches } from '../types.ts';
 import type { Observation } from './measurements.ts';
 
-export const SYSTEM_KEYS = ['distancePc', 'massSolar', 'systemicVelocityKmS', 'offsetRaMas', 'offsetDecMas', 'driftRaMasYr', 'driftDecMasYr'] as const;
+export const SYSTEM_KEYS = [
+  'distancePc',
+  'massSolar',
+  'systemicVelocityKmS',
+  'offsetRaMas',
+  'offsetDecMas',
+  'driftRaMasYr',
+  'driftDecMasYr',
+] as const;
 export type SystemKey = (typeof SYSTEM_KEYS)[number];
 export const STAR_KEYS = [
-  'periodYears', 'periapsisDays', 'eccentricity', 'semiMajorAxisArcsec',
-  'inclinationDeg', 'ascendingNodeDeg', 'argPeriapsisDeg', 'aArcsec', 'bArcsec', 'fArcsec', 'gArcsec',
+  'periodYears',
+  'periapsisDays',
+  'eccentricity',
+  'semiMajorAxisArcsec',
+  'inclinationDeg',
+  'ascendingNodeDeg',
+  'argPeriapsisDeg',
+  'aArcsec',
+  'bArcsec',
+  'fArcsec',
+  'gArcsec',
 ] as const;
 export type StarKey = (typeof STAR_KEYS)[number];
 
@@ -56,7 +73,10 @@ export interface ParamDesc {
 }
 
 /** Index of each of a star's parameters in the vector, −1 when the star does not have it. */
-export type StarSlots = Record<'P' | 'T' | 'e' | 'a' | 'i' | 'node' | 'arg' | 'A' | 'B' | 'F' | 'G', number>;
+export type StarSlots = Record<
+  'P' | 'T' | 'e' | 'a' | 'i' | 'node' | 'arg' | 'A' | 'B' | 'F' | 'G',
+  number
+>;
 
 export interface StarLayout {
   name: string;
@@ -99,7 +119,14 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
   const params: ParamDesc[] = [];
   const add = (key: SystemKey | StarKey, star: number | null, prefix: string): number => {
     const s = SCALE[key];
-    params.push({ name: prefix + key, key, star, scale: s.scale, unit: s.unit, angle: s.angle === true });
+    params.push({
+      name: prefix + key,
+      key,
+      star,
+      scale: s.scale,
+      unit: s.unit,
+      angle: s.angle === true,
+    });
     return params.length - 1;
   };
   const massMode = stars.length > 1;
@@ -136,30 +163,56 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
     };
     const components = s.obs.reduce((n, m) => n + (m.kind === 'radial-velocity' ? 1 : 2), 0);
     const out: StarLayout = {
-      name: s.name, obs: s.obs, jd: Float64Array.from(s.obs, (m) => m.jd), hasRv,
-      hasAstrometry: s.obs.some((m) => m.kind !== 'radial-velocity'), orientation, slots, firstComponent: first,
+      name: s.name,
+      obs: s.obs,
+      jd: Float64Array.from(s.obs, (m) => m.jd),
+      hasRv,
+      hasAstrometry: s.obs.some((m) => m.kind !== 'radial-velocity'),
+      orientation,
+      slots,
+      firstComponent: first,
     };
     first += components;
     return out;
   });
-  return { params, stars: starLayouts, sys, massMode, frameEpochJd: o.frameEpochJd, relativity: o.relativity, components: first };
+  return {
+    params,
+    stars: starLayouts,
+    sys,
+    massMode,
+    frameEpochJd: o.frameEpochJd,
+    relativity: o.relativity,
+    components: first,
+  };
 }
 
 /** Semi-major axis in mas of star k: its own parameter, or from M and d by Kepler's third law. */
 export function semiMajorAxisMas(L: Layout, theta: ArrayLike<number>, k: number): number {
   const s = L.stars[k]!.slots;
   if (s.a >= 0) return theta[s.a]!;
-  if (s.A >= 0) return thieleInnesToCampbell({ A: theta[s.A]!, B: theta[s.B]!, F: theta[s.F]!, G: theta[s.G]! }).a;
+  if (s.A >= 0)
+    return thieleInnesToCampbell({ A: theta[s.A]!, B: theta[s.B]!, F: theta[s.F]!, G: theta[s.G]! })
+      .a;
   const pYr = theta[s.P]! / JULIAN_YEAR_DAYS;
   return (1000 * Math.cbrt(theta[L.sys.M]! * pYr * pYr)) / theta[L.sys.d]!;
 }
 
 /** The Orbit (engine units) of star k at parameter vector theta. */
-export function starOrbit(L: Layout, theta: ArrayLike<number>, k: number, relativity: RelativitySwitches = L.relativity): Orbit {
+export function starOrbit(
+  L: Layout,
+  theta: ArrayLike<number>,
+  k: number,
+  relativity: RelativitySwitches = L.relativity,
+): Orbit {
   const s = L.stars[k]!.slots;
   let aMas: number, iRad: number, nodeRad: number, argRad: number;
   if (s.A >= 0) {
-    const c = thieleInnesToCampbell({ A: theta[s.A]!, B: theta[s.B]!, F: theta[s.F]!, G: theta[s.G]! });
+    const c = thieleInnesToCampbell({
+      A: theta[s.A]!,
+      B: theta[s.B]!,
+      F: theta[s.F]!,
+      G: theta[s.G]!,
+    });
     ({ a: aMas, iRad, nodeRad, argRad } = c);
   } else {
     aMas = semiMajorAxisMas(L, theta, k);
@@ -185,7 +238,13 @@ export function starOrbit(L: Layout, theta: ArrayLike<number>, k: number, relati
 /** Resolve a user's parameter name (single-star fits may leave out the star prefix). */
 export function findParameter(L: Layout, name: string, field: string): number {
   let idx = L.params.findIndex((p) => p.name === name);
-  if (idx < 0 && L.stars.length === 1) idx = L.params.findIndex((p) => p.name === `${L.stars[0]!.name}.${name}`);
-  if (idx < 0) throw new InputError(field, name, `is not a parameter of this fit; known: ${L.params.map((p) => p.name).join(', ')}`);
+  if (idx < 0 && L.stars.length === 1)
+    idx = L.params.findIndex((p) => p.name === `${L.stars[0]!.name}.${name}`);
+  if (idx < 0)
+    throw new InputError(
+      field,
+      name,
+      `is not a parameter of this fit; known: ${L.params.map((p) => p.name).join(', ')}`,
+    );
   return idx;
 }

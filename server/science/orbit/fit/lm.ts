@@ -53,7 +53,11 @@ export function costOf(r: Float64Array, loss: 'gaussian' | 'huber', k = 2): numb
   return s;
 }
 
-export function levenbergMarquardt(problem: LeastSquares, start: Float64Array, options: LmOptions = {}): LmResult {
+export function levenbergMarquardt(
+  problem: LeastSquares,
+  start: Float64Array,
+  options: LmOptions = {},
+): LmResult {
   const maxIter = options.maxIterations ?? 200;
   const tol = options.tolerance ?? 1e-10;
   const absTol = options.absoluteTolerance ?? 1e-4;
@@ -68,16 +72,20 @@ export function levenbergMarquardt(problem: LeastSquares, start: Float64Array, o
   let converged = false;
   let iter = 0;
   let weights = new Float64Array(ev.r.length).fill(1);
-  const JtJ = new Float64Array(n * n), g = new Float64Array(n);
+  const JtJ = new Float64Array(n * n),
+    g = new Float64Array(n);
   for (; iter < maxIter && !converged; iter++) {
     const { r, J } = ev;
     const rows = r.length;
     weights = new Float64Array(rows);
-    for (let i = 0; i < rows; i++) weights[i] = loss === 'huber' && Math.abs(r[i]!) > k ? k / Math.abs(r[i]!) : 1;
+    for (let i = 0; i < rows; i++)
+      weights[i] = loss === 'huber' && Math.abs(r[i]!) > k ? k / Math.abs(r[i]!) : 1;
     JtJ.fill(0);
     g.fill(0);
     for (let i = 0; i < rows; i++) {
-      const w = weights[i]!, ri = r[i]!, base = i * n;
+      const w = weights[i]!,
+        ri = r[i]!,
+        base = i * n;
       for (let a = 0; a < n; a++) {
         const ja = J![base + a]! * w;
         if (ja === 0) continue;

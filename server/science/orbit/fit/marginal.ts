@@ -11,7 +11,16 @@ import { CholeskyDecomposition, Matrix, solve } from 'ml-matrix';
 import type { SeededRandom } from '../../random.ts';
 import type { Problem } from './problem.ts';
 
-const LINEAR_KEYS = new Set(['aArcsec', 'bArcsec', 'fArcsec', 'gArcsec', 'offsetRaMas', 'offsetDecMas', 'driftRaMasYr', 'driftDecMasYr']);
+const LINEAR_KEYS = new Set([
+  'aArcsec',
+  'bArcsec',
+  'fArcsec',
+  'gArcsec',
+  'offsetRaMas',
+  'offsetDecMas',
+  'driftRaMasYr',
+  'driftDecMasYr',
+]);
 
 export interface Split {
   /** Positions in the free vector x of the linear and of the nonlinear parameters. */
@@ -24,8 +33,10 @@ export function linearSplit(problem: Problem, loss: 'gaussian' | 'huber'): Split
   const { L } = problem;
   if (loss !== 'gaussian' || L.stars.length !== 1) return null;
   const star = L.stars[0]!;
-  if (star.orientation !== 'thiele-innes' || star.obs.some((m) => m.kind !== 'offsets')) return null;
-  const lin: number[] = [], nl: number[] = [];
+  if (star.orientation !== 'thiele-innes' || star.obs.some((m) => m.kind !== 'offsets'))
+    return null;
+  const lin: number[] = [],
+    nl: number[] = [];
   problem.free.forEach((idx, j) => (LINEAR_KEYS.has(L.params[idx]!.key) ? lin : nl).push(j));
   return nl.length > 0 && lin.length > 0 ? { lin, nl } : null;
 }
@@ -43,7 +54,8 @@ export interface Conditional {
 /** The linear block solved exactly for the nonlinear values in `x` (null if it is not determined). */
 export function conditional(problem: Problem, split: Split, x: Float64Array): Conditional | null {
   const { r, J } = problem.evaluate(x, true);
-  const n = problem.n, k = split.lin.length;
+  const n = problem.n,
+    k = split.lin.length;
   const A = new Matrix(k, k);
   const g = new Array<number>(k).fill(0);
   for (let i = 0; i < r.length; i++) {

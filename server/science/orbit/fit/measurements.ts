@@ -47,31 +47,55 @@ export function readMeasurements(list: unknown, prefix: string): Observation[] {
     const kind = m.kind as MeasurementInput['kind'] | undefined;
     switch (kind) {
       case 'offsets': {
-        const rho = m.correlation === undefined ? 0 : requireFinite(`${p}.correlation`, m.correlation);
-        if (!(rho > -1 && rho < 1)) throw new InputError(`${p}.correlation`, rho, 'must satisfy −1 < ρ < 1');
+        const rho =
+          m.correlation === undefined ? 0 : requireFinite(`${p}.correlation`, m.correlation);
+        if (!(rho > -1 && rho < 1))
+          throw new InputError(`${p}.correlation`, rho, 'must satisfy −1 < ρ < 1');
         return {
-          kind, index: k, id, jd, rho,
+          kind,
+          index: k,
+          id,
+          jd,
+          rho,
           value: [requireFinite(`${p}.dRaMas`, m.dRaMas), requireFinite(`${p}.dDecMas`, m.dDecMas)],
-          sigma: [positive(`${p}.sigmaDRaMas`, m.sigmaDRaMas), positive(`${p}.sigmaDDecMas`, m.sigmaDDecMas)],
+          sigma: [
+            positive(`${p}.sigmaDRaMas`, m.sigmaDRaMas),
+            positive(`${p}.sigmaDDecMas`, m.sigmaDDecMas),
+          ],
         };
       }
       case 'separation': {
         const sep = requireFinite(`${p}.separationMas`, m.separationMas);
         if (!(sep >= 0)) throw new InputError(`${p}.separationMas`, sep, 'must be ≥ 0');
         return {
-          kind, index: k, id, jd, rho: 0,
+          kind,
+          index: k,
+          id,
+          jd,
+          rho: 0,
           value: [sep, requireFinite(`${p}.positionAngleDeg`, m.positionAngleDeg) * DEG],
-          sigma: [positive(`${p}.sigmaSeparationMas`, m.sigmaSeparationMas), positive(`${p}.sigmaPositionAngleDeg`, m.sigmaPositionAngleDeg) * DEG],
+          sigma: [
+            positive(`${p}.sigmaSeparationMas`, m.sigmaSeparationMas),
+            positive(`${p}.sigmaPositionAngleDeg`, m.sigmaPositionAngleDeg) * DEG,
+          ],
         };
       }
       case 'radial-velocity':
         return {
-          kind, index: k, id, jd, rho: 0,
+          kind,
+          index: k,
+          id,
+          jd,
+          rho: 0,
           value: [requireFinite(`${p}.radialVelocityKmS`, m.radialVelocityKmS), 0],
           sigma: [positive(`${p}.sigmaRadialVelocityKmS`, m.sigmaRadialVelocityKmS), 1],
         };
       default:
-        throw new InputError(`${p}.kind`, m.kind, 'must be "offsets", "separation" or "radial-velocity"');
+        throw new InputError(
+          `${p}.kind`,
+          m.kind,
+          'must be "offsets", "separation" or "radial-velocity"',
+        );
     }
   });
 }

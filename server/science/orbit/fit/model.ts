@@ -12,7 +12,12 @@ import { predictBatch } from '../predict.ts';
 import type { RelativitySwitches } from '../types.ts';
 import { type Layout, starOrbit } from './layout.ts';
 
-const NO_RELATIVITY: RelativitySwitches = { romer: false, gravitationalRedshift: false, transverseDoppler: false, precession: false };
+const NO_RELATIVITY: RelativitySwitches = {
+  romer: false,
+  gravitationalRedshift: false,
+  transverseDoppler: false,
+  precession: false,
+};
 /** km/s per (pc · mas/day): a[au] = a[mas]·d[pc]/1000. */
 const KAPPA = AU_KM / SECONDS_PER_DAY / 1000;
 
@@ -34,20 +39,28 @@ export function evaluateModel(L: Layout, theta: Float64Array, withDeriv: boolean
   if (!withDeriv) return { values, deriv: null };
   // Keplerian part analytic; J += ∂(full − Keplerian)/∂θ by central differences.
   const deriv = keplerianModel(L, theta, true, NO_RELATIVITY).deriv!;
-  const np = L.params.length, nc = L.components;
+  const np = L.params.length,
+    nc = L.components;
   const angles = angleComponents(L);
   const correction = (t: Float64Array) => {
-    const f = keplerianModel(L, t, false, L.relativity).values, k = keplerianModel(L, t, false, NO_RELATIVITY).values;
-    for (let c = 0; c < nc; c++) f[c] = angles[c] ? Math.atan2(Math.sin(f[c]! - k[c]!), Math.cos(f[c]! - k[c]!)) : f[c]! - k[c]!;
+    const f = keplerianModel(L, t, false, L.relativity).values,
+      k = keplerianModel(L, t, false, NO_RELATIVITY).values;
+    for (let c = 0; c < nc; c++)
+      f[c] = angles[c]
+        ? Math.atan2(Math.sin(f[c]! - k[c]!), Math.cos(f[c]! - k[c]!))
+        : f[c]! - k[c]!;
     return f;
   };
   for (let j = 0; j < np; j++) {
     const h = stepFor(L, theta, j);
-    const tp = Float64Array.from(theta), tm = Float64Array.from(theta);
+    const tp = Float64Array.from(theta),
+      tm = Float64Array.from(theta);
     tp[j] = theta[j]! + h;
     tm[j] = theta[j]! - h;
-    const dp = correction(tp), dm = correction(tm);
-    for (let c = 0; c < nc; c++) deriv[c * np + j] = deriv[c * np + j]! + (dp[c]! - dm[c]!) / (2 * h);
+    const dp = correction(tp),
+      dm = correction(tm);
+    for (let c = 0; c < nc; c++)
+      deriv[c * np + j] = deriv[c * np + j]! + (dp[c]! - dm[c]!) / (2 * h);
   }
   return { values, deriv };
 }
@@ -56,11 +69,18 @@ export function evaluateModel(L: Layout, theta: Float64Array, withDeriv: boolean
 export function stepFor(L: Layout, theta: ArrayLike<number>, j: number): number {
   const p = L.params[j]!;
   switch (p.key) {
-    case 'periodYears': return theta[j]! * 1e-7;
-    case 'periapsisDays': return theta[L.stars[p.star!]!.slots.P]! * 1e-7;
-    case 'eccentricity': return 1e-7;
-    case 'inclinationDeg': case 'ascendingNodeDeg': case 'argPeriapsisDeg': return 1e-7;
-    default: return Math.max(Math.abs(theta[j]!) * 1e-7, 1e-7);
+    case 'periodYears':
+      return theta[j]! * 1e-7;
+    case 'periapsisDays':
+      return theta[L.stars[p.star!]!.slots.P]! * 1e-7;
+    case 'eccentricity':
+      return 1e-7;
+    case 'inclinationDeg':
+    case 'ascendingNodeDeg':
+    case 'argPeriapsisDeg':
+      return 1e-7;
+    default:
+      return Math.max(Math.abs(theta[j]!) * 1e-7, 1e-7);
   }
 }
 
@@ -78,28 +98,47 @@ export function angleComponents(L: Layout): Uint8Array {
 }
 
 /** The model with the given relativity switches; Keplerian derivatives when asked. */
-export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolean, relativity: RelativitySwitches): ModelOutput {
+export function keplerianModel(
+  L: Layout,
+  theta: Float64Array,
+  withDeriv: boolean,
+  relativity: RelativitySwitches,
+): ModelOutput {
   const np = L.params.length;
   const values = new Float64Array(L.components);
   const deriv = withDeriv ? new Float64Array(L.components * np) : null;
   const { sys } = L;
-  const x0 = sys.x0 >= 0 ? theta[sys.x0]! : 0, y0 = sys.y0 >= 0 ? theta[sys.y0]! : 0;
-  const vx = sys.vx >= 0 ? theta[sys.vx]! : 0, vy = sys.vy >= 0 ? theta[sys.vy]! : 0;
-  const gx = new Float64Array(np), gy = new Float64Array(np), gv = new Float64Array(np);
+  const x0 = sys.x0 >= 0 ? theta[sys.x0]! : 0,
+    y0 = sys.y0 >= 0 ? theta[sys.y0]! : 0;
+  const vx = sys.vx >= 0 ? theta[sys.vx]! : 0,
+    vy = sys.vy >= 0 ? theta[sys.vy]! : 0;
+  const gx = new Float64Array(np),
+    gy = new Float64Array(np),
+    gv = new Float64Array(np);
   for (let k = 0; k < L.stars.length; k++) {
     const star = L.stars[k]!;
     const orbit = starOrbit(L, theta, k, relativity);
     const cols = predictBatch(orbit, star.jd);
     const s = star.slots;
-    const P = orbit.periodDays, T = orbit.periapsisJd, e = orbit.e, a = orbit.aMas;
-    const sq = Math.sqrt(1 - e * e), n = TWO_PI / P;
+    const P = orbit.periodDays,
+      T = orbit.periapsisJd,
+      e = orbit.e,
+      a = orbit.aMas;
+    const sq = Math.sqrt(1 - e * e),
+      n = TWO_PI / P;
     // Orientation constants (mas) and their partials for the Campbell form.
-    const ci = Math.cos(orbit.iRad), si = Math.sin(orbit.iRad);
-    const cn = Math.cos(orbit.nodeRad), sn = Math.sin(orbit.nodeRad);
-    const cw = Math.cos(orbit.argRad), sw = Math.sin(orbit.argRad);
-    const A = a * (cw * cn - sw * sn * ci), B = a * (cw * sn + sw * cn * ci);
-    const F = a * (-sw * cn - cw * sn * ci), G = a * (-sw * sn + cw * cn * ci);
-    const C = a * si * sw, H = a * si * cw;
+    const ci = Math.cos(orbit.iRad),
+      si = Math.sin(orbit.iRad);
+    const cn = Math.cos(orbit.nodeRad),
+      sn = Math.sin(orbit.nodeRad);
+    const cw = Math.cos(orbit.argRad),
+      sw = Math.sin(orbit.argRad);
+    const A = a * (cw * cn - sw * sn * ci),
+      B = a * (cw * sn + sw * cn * ci);
+    const F = a * (-sw * cn - cw * sn * ci),
+      G = a * (-sw * sn + cw * cn * ci);
+    const C = a * si * sw,
+      H = a * si * cw;
     const d = orbit.distancePc ?? 0;
     let row = star.firstComponent;
     for (let m = 0; m < star.obs.length; m++) {
@@ -108,7 +147,8 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
       if (ob.kind === 'radial-velocity') {
         values[row] = cols.radialVelocityKmS[m]!;
       } else {
-        const x = cols.dRaMas[m]! + x0 + vx * tau, y = cols.dDecMas[m]! + y0 + vy * tau;
+        const x = cols.dRaMas[m]! + x0 + vx * tau,
+          y = cols.dDecMas[m]! + y0 + vy * tau;
         if (ob.kind === 'offsets') {
           values[row] = x;
           values[row + 1] = y;
@@ -118,14 +158,23 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
         }
       }
       if (deriv) {
-        gx.fill(0); gy.fill(0); gv.fill(0);
+        gx.fill(0);
+        gy.fill(0);
+        gv.fill(0);
         const E = cols.eccentricAnomalyDeg[m]! * DEG;
-        const sE = Math.sin(E), cE = Math.cos(E), D = 1 - e * cE;
-        const Mfull = (n * (ob.jd - T));
+        const sE = Math.sin(E),
+          cE = Math.cos(E),
+          D = 1 - e * cE;
+        const Mfull = n * (ob.jd - T);
         // dE/dP, dE/dT, dE/de through Kepler's equation (M = 2π(t − T)/P).
-        const dEdP = -Mfull / P / D, dEdT = -n / D, dEde = sE / D;
-        const X = cE - e, Y = sq * sE;
-        const dXdE = -sE, dYdE = sq * cE, dYde = (-e / sq) * sE;
+        const dEdP = -Mfull / P / D,
+          dEdT = -n / D,
+          dEde = sE / D;
+        const X = cE - e,
+          Y = sq * sE;
+        const dXdE = -sE,
+          dYdE = sq * cE,
+          dYde = (-e / sq) * sE;
         if (ob.kind !== 'radial-velocity') {
           // Δδ = A X + F Y, Δα* = B X + G Y.
           gy[s.P] = (A * dXdE + F * dYdE) * dEdP;
@@ -135,9 +184,13 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
           gy[s.e] = (A * dXdE + F * dYdE) * dEde - A + F * dYde;
           gx[s.e] = (B * dXdE + G * dYdE) * dEde - B + G * dYde;
           if (s.A >= 0) {
-            gy[s.A] = X; gy[s.F] = Y; gx[s.B] = X; gx[s.G] = Y;
+            gy[s.A] = X;
+            gy[s.F] = Y;
+            gx[s.B] = X;
+            gx[s.G] = Y;
           } else {
-            const dyda = (A * X + F * Y) / a, dxda = (B * X + G * Y) / a;
+            const dyda = (A * X + F * Y) / a,
+              dxda = (B * X + G * Y) / a;
             // ∂(A,B,F,G)/∂i, ∂Ω, ∂ω (see elements.ts for the constants).
             gy[s.i] = a * si * (sw * sn * X + cw * sn * Y);
             gx[s.i] = -a * si * (sw * cn * X + cw * cn * Y);
@@ -148,15 +201,21 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
             addSize(L, theta, k, gy, dyda, a);
             addSize(L, theta, k, gx, dxda, a);
           }
-          if (sys.x0 >= 0) { gx[sys.x0] = 1; gy[sys.y0] = 1; }
-          if (sys.vx >= 0) { gx[sys.vx] = tau; gy[sys.vy] = tau; }
+          if (sys.x0 >= 0) {
+            gx[sys.x0] = 1;
+            gy[sys.y0] = 1;
+          }
+          if (sys.vx >= 0) {
+            gx[sys.vx] = tau;
+            gy[sys.vy] = tau;
+          }
         } else {
           // v = γ + κ d n (−C sin E + H √(1−e²) cos E)/D.
           const q = (KAPPA * d * n) / D;
           const U = -C * sE + H * sq * cE;
           const vk = q * U;
-          const dvdE = q * (-C * cE - H * sq * sE) - (q * e * sE / D) * U;
-          const dvdeExplicit = (q * cE / D) * U + q * H * (-e / sq) * cE;
+          const dvdE = q * (-C * cE - H * sq * sE) - ((q * e * sE) / D) * U;
+          const dvdeExplicit = ((q * cE) / D) * U + q * H * (-e / sq) * cE;
           gv[s.P] = -vk / P + dvdE * dEdP;
           gv[s.T] = dvdE * dEdT;
           gv[s.e] = dvdeExplicit + dvdE * dEde;
@@ -173,8 +232,10 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
           deriv.set(gx, base);
           deriv.set(gy, base + np);
         } else {
-          const x = cols.dRaMas[m]! + x0 + vx * tau, y = cols.dDecMas[m]! + y0 + vy * tau;
-          const r2 = x * x + y * y, r = Math.sqrt(r2);
+          const x = cols.dRaMas[m]! + x0 + vx * tau,
+            y = cols.dDecMas[m]! + y0 + vy * tau;
+          const r2 = x * x + y * y,
+            r = Math.sqrt(r2);
           for (let j = 0; j < np; j++) {
             deriv[base + j] = (x * gx[j]! + y * gy[j]!) / r;
             deriv[base + np + j] = (y * gx[j]! - x * gy[j]!) / r2;
@@ -188,7 +249,14 @@ export function keplerianModel(L: Layout, theta: Float64Array, withDeriv: boolea
 }
 
 /** Add ∂f/∂a through whatever sets a: the star's own parameter, or M, d and P (Kepler's third law). */
-function addSize(L: Layout, theta: Float64Array, k: number, g: Float64Array, dfda: number, a: number): void {
+function addSize(
+  L: Layout,
+  theta: Float64Array,
+  k: number,
+  g: Float64Array,
+  dfda: number,
+  a: number,
+): void {
   const s = L.stars[k]!.slots;
   if (s.a >= 0) {
     g[s.a] = g[s.a]! + dfda;

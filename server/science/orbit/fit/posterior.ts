@@ -23,7 +23,10 @@ import type { Solution } from './solve.ts';
 
 /** Unwrap angles (deg) to within ±180° of a reference, then take percentiles. */
 function anglePct(xs: number[], ref: number): number[] {
-  return percentiles(xs.map((x) => ref + (x - ref) - 360 * Math.round((x - ref) / 360)), PERCENTILES);
+  return percentiles(
+    xs.map((x) => ref + (x - ref) - 360 * Math.round((x - ref) / 360)),
+    PERCENTILES,
+  );
 }
 
 /** log prior of a full vector (see the module note); −Infinity outside the domain. */
@@ -43,17 +46,29 @@ function logPrior(sol: Solution, t: Float64Array): number {
 }
 
 /** Walkers in a ball of the covariance (rows/columns `keep`) around x0, each inside the domain. */
-function startingBall(sol: Solution, keep: number[], x0: Float64Array, walkers: number, rng: SeededRandom, logPost: (y: Float64Array) => number): Float64Array[] {
+function startingBall(
+  sol: Solution,
+  keep: number[],
+  x0: Float64Array,
+  walkers: number,
+  rng: SeededRandom,
+  logPost: (y: Float64Array) => number,
+): Float64Array[] {
   const sub = keep.map((a) => keep.map((b) => sol.covariance[a]![b]!));
   const chol = new CholeskyDecomposition(new Matrix(sub));
-  const Lc = chol.isPositiveDefinite() ? chol.lowerTriangularMatrix : Matrix.diag(sub.map((r, a) => Math.sqrt(Math.max(r[a]!, 0))));
+  const Lc = chol.isPositiveDefinite()
+    ? chol.lowerTriangularMatrix
+    : Matrix.diag(sub.map((r, a) => Math.sqrt(Math.max(r[a]!, 0))));
   const n = keep.length;
   const start: Float64Array[] = [];
   for (let w = 0; w < walkers; w++) {
     for (let tries = 0; ; tries++) {
       // Redraw at full width a few times before shrinking the ball towards the minimum.
       const z = Array.from({ length: n }, () => rng.normal() * 0.5 ** Math.max(0, tries - 10));
-      const y = Float64Array.from(x0, (v, a) => v + z.reduce((s, zb, b) => s + Lc.get(a, b) * zb, 0));
+      const y = Float64Array.from(
+        x0,
+        (v, a) => v + z.reduce((s, zb, b) => s + Lc.get(a, b) * zb, 0),
+      );
       const ok = Number.isFinite(logPost(y));
       if (ok || tries > 40) {
         start.push(ok ? y : Float64Array.from(x0));
@@ -65,14 +80,18 @@ function startingBall(sol: Solution, keep: number[], x0: Float64Array, walkers: 
 }
 
 /** Free-parameter vectors drawn from the posterior, and the sampler's acceptance and walkers. */
-function drawSamples(sol: Solution, req: CheckedRequest): { xs: Float64Array[]; acceptance: number; walkers: number } {
+function drawSamples(
+  sol: Solution,
+  req: CheckedRequest,
+): { xs: Float64Array[]; acceptance: number; walkers: number } {
   const opts = req.sample!;
   const { problem, theta } = sol;
   const rng = new SeededRandom(opts.seed ^ 0x5eed);
   const xBest = Float64Array.from(problem.free, (j) => theta[j]!);
   const split = linearSplit(problem, req.loss);
   const keep = split ? split.nl : problem.free.map((_, j) => j);
-  const walkers = opts.walkers > 0 ? Math.max(opts.walkers, 2 * keep.length + 2) : Math.max(16, 4 * keep.length);
+  const walkers =
+    opts.walkers > 0 ? Math.max(opts.walkers, 2 * keep.length + 2) : Math.max(16, 4 * keep.length);
   const expand = (y: Float64Array) => {
     const x = Float64Array.from(xBest);
     keep.forEach((p, a) => (x[p] = y[a]!));
@@ -88,7 +107,12 @@ function drawSamples(sol: Solution, req: CheckedRequest): { xs: Float64Array[]; 
   };
   const y0 = Float64Array.from(keep, (p) => xBest[p]!);
   const start = startingBall(sol, keep, y0, walkers, rng, logPost);
-  const { samples, acceptance } = ensembleSample(logPost, start, { walkers, steps: opts.steps, burn: opts.burn, seed: opts.seed });
+  const { samples, acceptance } = ensembleSample(logPost, start, {
+    walkers,
+    steps: opts.steps,
+    burn: opts.burn,
+    seed: opts.seed,
+  });
   const xs = samples.map((y) => {
     const x = expand(y);
     if (!split) return x;
@@ -117,8 +141,17 @@ export function samplePosterior(sol: Solution, req: CheckedRequest, result: FitR
       starQuantities(L, t, k, nextCycle(L, t, k, asOfJd)).forEach((v, i) => cols[i]!.push(v));
     }
     result.stars[k]!.quantities.forEach((qt, i) => {
-      qt.percentiles = desc[i]!.angle ? anglePct(cols[i]!, qt.value) : percentiles(cols[i]!, PERCENTILES);
+      qt.percentiles = desc[i]!.angle
+        ? anglePct(cols[i]!, qt.value)
+        : percentiles(cols[i]!, PERCENTILES);
     });
   });
-  result.sampler = { walkers, steps: opts.steps, burn: opts.burn, seed: opts.seed, acceptance, samples: xs.length };
+  result.sampler = {
+    walkers,
+    steps: opts.steps,
+    burn: opts.burn,
+    seed: opts.seed,
+    acceptance,
+    samples: xs.length,
+  };
 }

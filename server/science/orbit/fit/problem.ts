@@ -27,9 +27,16 @@ export interface Problem extends LeastSquares {
 }
 
 /** Whitened (model − observed)/σ for each component at the full vector theta, with ∂/∂(free) when asked. */
-export function whiten(L: Layout, theta: Float64Array, free: number[], priors: Prior[], withJ: boolean): { r: Float64Array; J: Float64Array | null } {
+export function whiten(
+  L: Layout,
+  theta: Float64Array,
+  free: number[],
+  priors: Prior[],
+  withJ: boolean,
+): { r: Float64Array; J: Float64Array | null } {
   const { values, deriv } = evaluateModel(L, theta, withJ);
-  const nf = free.length, np = L.params.length;
+  const nf = free.length,
+    np = L.params.length;
   const rows = L.components + priors.length;
   const r = new Float64Array(rows);
   const J = withJ ? new Float64Array(rows * nf) : null;
@@ -43,15 +50,18 @@ export function whiten(L: Layout, theta: Float64Array, free: number[], priors: P
         c += 1;
         continue;
       }
-      let d0 = values[c]! - m.value[0], d1 = values[c + 1]! - m.value[1];
+      let d0 = values[c]! - m.value[0],
+        d1 = values[c + 1]! - m.value[1];
       if (m.kind === 'separation') d1 = d1 - TWO_PI * Math.round(d1 / TWO_PI);
       const [s0, s1] = m.sigma;
-      const rho = m.rho, k = 1 / Math.sqrt(1 - rho * rho);
+      const rho = m.rho,
+        k = 1 / Math.sqrt(1 - rho * rho);
       r[c] = d0 / s0;
       r[c + 1] = (d1 / s1 - (rho * d0) / s0) * k;
       if (J) {
         for (let j = 0; j < nf; j++) {
-          const g0 = pick(c, j) / s0, g1 = pick(c + 1, j) / s1;
+          const g0 = pick(c, j) / s0,
+            g1 = pick(c + 1, j) / s1;
           J[c * nf + j] = g0;
           J[(c + 1) * nf + j] = (g1 - rho * g0) * k;
         }
@@ -71,10 +81,18 @@ export function whiten(L: Layout, theta: Float64Array, free: number[], priors: P
 /** Bounds of the parameter domain, checked on the full vector. */
 export function inDomain(L: Layout, theta: ArrayLike<number>): boolean {
   for (let j = 0; j < L.params.length; j++) {
-    const key = L.params[j]!.key, v = theta[j]!;
+    const key = L.params[j]!.key,
+      v = theta[j]!;
     if (!Number.isFinite(v)) return false;
     if (key === 'eccentricity' && !(v >= 0 && v < 0.999)) return false;
-    if ((key === 'periodYears' || key === 'semiMajorAxisArcsec' || key === 'distancePc' || key === 'massSolar') && !(v > 0)) return false;
+    if (
+      (key === 'periodYears' ||
+        key === 'semiMajorAxisArcsec' ||
+        key === 'distancePc' ||
+        key === 'massSolar') &&
+      !(v > 0)
+    )
+      return false;
   }
   return true;
 }
@@ -95,14 +113,23 @@ export function canonicalize(L: Layout, theta: Float64Array): void {
   }
 }
 
-export function makeProblem(L: Layout, base: Float64Array, free: number[], priors: Prior[]): Problem {
+export function makeProblem(
+  L: Layout,
+  base: Float64Array,
+  free: number[],
+  priors: Prior[],
+): Problem {
   const full = (x: ArrayLike<number>) => {
     const t = Float64Array.from(base);
     free.forEach((idx, j) => (t[idx] = x[j]!));
     return t;
   };
   return {
-    L, free, priors, base, full,
+    L,
+    free,
+    priors,
+    base,
+    full,
     n: free.length,
     rows: L.components + priors.length,
     evaluate: (x, withJ) => whiten(L, full(x), free, priors, withJ),
@@ -122,14 +149,17 @@ export function finiteDifferenceProblem(p: Problem): Problem {
     evaluate: (x, withJ) => {
       const base = p.evaluate(x, false);
       if (!withJ) return base;
-      const rows = base.r.length, n = p.n;
+      const rows = base.r.length,
+        n = p.n;
       const J = new Float64Array(rows * n);
       for (let j = 0; j < n; j++) {
         const h = stepFor(p.L, p.full(x), p.free[j]!);
-        const xp = Float64Array.from(x), xm = Float64Array.from(x);
+        const xp = Float64Array.from(x),
+          xm = Float64Array.from(x);
         xp[j] = x[j]! + h;
         xm[j] = x[j]! - h;
-        const rp = p.evaluate(xp, false).r, rm = p.evaluate(xm, false).r;
+        const rp = p.evaluate(xp, false).r,
+          rm = p.evaluate(xm, false).r;
         for (let i = 0; i < rows; i++) J[i * n + j] = (rp[i]! - rm[i]!) / (2 * h);
       }
       return { r: base.r, J };

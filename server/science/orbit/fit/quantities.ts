@@ -50,21 +50,44 @@ export function quantityNames(L: Layout): QuantityDesc[] {
  * The quantities of star k at theta.
  * @param cycle the periapsis passage counted as "next": T + cycle·P (held fixed for derivatives)
  */
-export function starQuantities(L: Layout, theta: ArrayLike<number>, k: number, cycle: number): Float64Array {
+export function starQuantities(
+  L: Layout,
+  theta: ArrayLike<number>,
+  k: number,
+  cycle: number,
+): Float64Array {
   const o = starOrbit(L, theta, k);
   const ti = campbellToThieleInnes(o.aMas / 1000, o.iRad, o.nodeRad, o.argRad);
   const tNext = o.periapsisJd + cycle * o.periodDays;
   const next = observedTime(prepare(o), tNext, 0);
   const out = [
-    o.periodDays / JULIAN_YEAR_DAYS, o.periapsisJd, o.e, o.aMas / 1000, o.iRad / DEG,
-    mod(o.nodeRad, 2 * Math.PI) / DEG, mod(o.argRad, 2 * Math.PI) / DEG, ti.A, ti.B, ti.F, ti.G, next,
+    o.periodDays / JULIAN_YEAR_DAYS,
+    o.periapsisJd,
+    o.e,
+    o.aMas / 1000,
+    o.iRad / DEG,
+    mod(o.nodeRad, 2 * Math.PI) / DEG,
+    mod(o.argRad, 2 * Math.PI) / DEG,
+    ti.A,
+    ti.B,
+    ti.F,
+    ti.G,
+    next,
   ];
   if (L.sys.d >= 0) {
     const d = o.distancePc!;
     const aAu = semiMajorAxisAu(o.aMas, d);
     const gm = massParameterM3S2(aAu, o.periodDays);
     const rsAu = (2 * gm) / (C_M_PER_S * C_M_PER_S) / AU_M;
-    out.push(d, o.gammaKmS, aAu, gm / GM_SUN_M3_PER_S2, aAu * (1 - o.e), (aAu * (1 - o.e)) / rsAu, semiAmplitudeKmS(aAu, o.periodDays, o.e, o.iRad));
+    out.push(
+      d,
+      o.gammaKmS,
+      aAu,
+      gm / GM_SUN_M3_PER_S2,
+      aAu * (1 - o.e),
+      (aAu * (1 - o.e)) / rsAu,
+      semiAmplitudeKmS(aAu, o.periodDays, o.e, o.iRad),
+    );
   }
   return Float64Array.from(out);
 }

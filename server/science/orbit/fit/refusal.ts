@@ -4,7 +4,12 @@
  */
 import { ComputationError } from '../../errors.ts';
 
-export type RefusalReason = 'too-few-measurements' | 'single-phase' | 'no-astrometry' | 'singular' | 'no-start';
+export type RefusalReason =
+  | 'too-few-measurements'
+  | 'single-phase'
+  | 'no-astrometry'
+  | 'singular'
+  | 'no-start';
 
 export class FitRefusal extends ComputationError {
   constructor(

@@ -38,9 +38,11 @@ function epoch(field: string, v: unknown): number {
 }
 
 function range(field: string, v: unknown, lo: number, hi: number): RangeHint {
-  if (typeof v !== 'object' || v === null) throw new InputError(field, v, 'must be an object { min, max }');
+  if (typeof v !== 'object' || v === null)
+    throw new InputError(field, v, 'must be an object { min, max }');
   const r = v as Record<string, unknown>;
-  const min = requireFinite(`${field}.min`, r.min), max = requireFinite(`${field}.max`, r.max);
+  const min = requireFinite(`${field}.min`, r.min),
+    max = requireFinite(`${field}.max`, r.max);
   if (!(min >= lo)) throw new InputError(`${field}.min`, min, `must be ≥ ${lo}`);
   if (!(max <= hi)) throw new InputError(`${field}.max`, max, `must be ≤ ${hi}`);
   if (!(max >= min)) throw new InputError(`${field}.max`, max, `must be ≥ min (${min})`);
@@ -54,47 +56,100 @@ function boolOf(field: string, v: unknown): boolean {
 }
 
 export function checkRequest(req: FitRequest): CheckedRequest {
-  if (typeof req !== 'object' || req === null) throw new InputError('request', req, 'must be an object');
-  if (!Array.isArray(req.stars) || req.stars.length === 0) throw new InputError('stars', req.stars, 'must be a non-empty list of stars with their measurements');
-  if (req.stars.length > 20) throw new InputError('stars', req.stars.length, 'must list at most 20 stars');
+  if (typeof req !== 'object' || req === null)
+    throw new InputError('request', req, 'must be an object');
+  if (!Array.isArray(req.stars) || req.stars.length === 0)
+    throw new InputError(
+      'stars',
+      req.stars,
+      'must be a non-empty list of stars with their measurements',
+    );
+  if (req.stars.length > 20)
+    throw new InputError('stars', req.stars.length, 'must list at most 20 stars');
   const names = new Set<string>();
   const stars = req.stars.map((s, k): CheckedStar => {
     const p = `stars.${k}`;
     if (typeof s !== 'object' || s === null) throw new InputError(p, s, 'must be an object');
-    if (typeof s.name !== 'string' || !NAME_RE.test(s.name)) throw new InputError(`${p}.name`, s.name, 'must be 1–80 characters without control characters, not starting with a space');
+    if (typeof s.name !== 'string' || !NAME_RE.test(s.name))
+      throw new InputError(
+        `${p}.name`,
+        s.name,
+        'must be 1–80 characters without control characters, not starting with a space',
+      );
     if (names.has(s.name)) throw new InputError(`${p}.name`, s.name, 'appears twice');
     names.add(s.name);
     const hints: StarHints = {};
     if (s.hints !== undefined) {
-      if (typeof s.hints !== 'object' || s.hints === null) throw new InputError(`${p}.hints`, s.hints, 'must be an object');
-      if (s.hints.periodYears !== undefined) hints.periodYears = range(`${p}.hints.periodYears`, s.hints.periodYears, 1e-6, 1e6);
-      if (s.hints.eccentricity !== undefined) hints.eccentricity = range(`${p}.hints.eccentricity`, s.hints.eccentricity, 0, 0.99);
+      if (typeof s.hints !== 'object' || s.hints === null)
+        throw new InputError(`${p}.hints`, s.hints, 'must be an object');
+      if (s.hints.periodYears !== undefined)
+        hints.periodYears = range(`${p}.hints.periodYears`, s.hints.periodYears, 1e-6, 1e6);
+      if (s.hints.eccentricity !== undefined)
+        hints.eccentricity = range(`${p}.hints.eccentricity`, s.hints.eccentricity, 0, 0.99);
     }
     const st = s.hints?.start;
-    const start = st === undefined ? null : validateOrbit({ elements: st.elements, ...(st.distancePc !== undefined ? { distancePc: st.distancePc } : {}), ...(st.systemicVelocityKmS !== undefined ? { systemicVelocityKmS: st.systemicVelocityKmS } : {}) }, `${p}.hints.start`);
-    return { name: s.name, obs: readMeasurements(s.measurements, `${p}.measurements`), hints, start };
+    const start =
+      st === undefined
+        ? null
+        : validateOrbit(
+            {
+              elements: st.elements,
+              ...(st.distancePc !== undefined ? { distancePc: st.distancePc } : {}),
+              ...(st.systemicVelocityKmS !== undefined
+                ? { systemicVelocityKmS: st.systemicVelocityKmS }
+                : {}),
+            },
+            `${p}.hints.start`,
+          );
+    return {
+      name: s.name,
+      obs: readMeasurements(s.measurements, `${p}.measurements`),
+      hints,
+      start,
+    };
   });
-  const relativity: RelativitySwitches = { romer: false, gravitationalRedshift: false, transverseDoppler: false, precession: false };
+  const relativity: RelativitySwitches = {
+    romer: false,
+    gravitationalRedshift: false,
+    transverseDoppler: false,
+    precession: false,
+  };
   if (req.relativity !== undefined) {
-    if (typeof req.relativity !== 'object' || req.relativity === null) throw new InputError('relativity', req.relativity, 'must be an object of switches');
+    if (typeof req.relativity !== 'object' || req.relativity === null)
+      throw new InputError('relativity', req.relativity, 'must be an object of switches');
     for (const [key, v] of Object.entries(req.relativity)) {
-      if (!(SWITCHES as readonly string[]).includes(key)) throw new InputError(`relativity.${key}`, v, `is not a switch; known: ${SWITCHES.join(', ')}`);
+      if (!(SWITCHES as readonly string[]).includes(key))
+        throw new InputError(
+          `relativity.${key}`,
+          v,
+          `is not a switch; known: ${SWITCHES.join(', ')}`,
+        );
       relativity[key as keyof RelativitySwitches] = boolOf(`relativity.${key}`, v);
     }
   }
   const frame = req.frame ?? {};
-  if (typeof frame !== 'object' || frame === null) throw new InputError('frame', frame, 'must be an object { offset, drift }');
-  const fixed = Object.entries(req.fixed ?? {}).map(([k, v]): [string, number] => [k, requireFinite(`fixed.${k}`, v)]);
+  if (typeof frame !== 'object' || frame === null)
+    throw new InputError('frame', frame, 'must be an object { offset, drift }');
+  const fixed = Object.entries(req.fixed ?? {}).map(([k, v]): [string, number] => [
+    k,
+    requireFinite(`fixed.${k}`, v),
+  ]);
   const priors = Object.entries(req.priors ?? {}).map(([k, v]): [string, PriorInput] => {
-    if (typeof v !== 'object' || v === null) throw new InputError(`priors.${k}`, v, 'must be an object { mean, sigma }');
+    if (typeof v !== 'object' || v === null)
+      throw new InputError(`priors.${k}`, v, 'must be an object { mean, sigma }');
     const sigma = requireFinite(`priors.${k}.sigma`, v.sigma);
     if (!(sigma > 0)) throw new InputError(`priors.${k}.sigma`, sigma, 'must be greater than 0');
     return [k, { mean: requireFinite(`priors.${k}.mean`, v.mean), sigma }];
   });
   const loss = req.loss ?? 'gaussian';
-  if (loss !== 'gaussian' && loss !== 'huber') throw new InputError('loss', loss, 'must be "gaussian" or "huber"');
+  if (loss !== 'gaussian' && loss !== 'huber')
+    throw new InputError('loss', loss, 'must be "gaussian" or "huber"');
   return {
-    stars, relativity, fixed, priors, loss,
+    stars,
+    relativity,
+    fixed,
+    priors,
+    loss,
     frameOffset: boolOf('frame.offset', frame.offset),
     frameDrift: boolOf('frame.drift', frame.drift),
     frameEpochJd: req.frameEpoch === undefined ? null : epoch('frameEpoch', req.frameEpoch),
@@ -104,14 +159,18 @@ export function checkRequest(req: FitRequest): CheckedRequest {
 }
 
 function checkSampler(s: SamplerOptions): Required<SamplerOptions> {
-  if (typeof s !== 'object' || s === null) throw new InputError('sample', s, 'must be an object { seed, walkers?, steps?, burn? }');
+  if (typeof s !== 'object' || s === null)
+    throw new InputError('sample', s, 'must be an object { seed, walkers?, steps?, burn? }');
   const seed = requireFinite('sample.seed', s.seed);
   if (!Number.isInteger(seed)) throw new InputError('sample.seed', seed, 'must be an integer');
   const steps = s.steps ?? 2000;
-  if (!Number.isInteger(steps) || steps < 100 || steps > 100_000) throw new InputError('sample.steps', steps, 'must be an integer from 100 to 100000');
+  if (!Number.isInteger(steps) || steps < 100 || steps > 100_000)
+    throw new InputError('sample.steps', steps, 'must be an integer from 100 to 100000');
   const burn = s.burn ?? Math.floor(steps / 2);
-  if (!Number.isInteger(burn) || burn < 0 || burn > 100_000) throw new InputError('sample.burn', burn, 'must be an integer from 0 to 100000');
+  if (!Number.isInteger(burn) || burn < 0 || burn > 100_000)
+    throw new InputError('sample.burn', burn, 'must be an integer from 0 to 100000');
   const walkers = s.walkers ?? 0; // 0: chosen from the number of free parameters
-  if (!Number.isInteger(walkers) || walkers < 0 || walkers > 1000 || walkers % 2 !== 0) throw new InputError('sample.walkers', walkers, 'must be an even integer up to 1000');
+  if (!Number.isInteger(walkers) || walkers < 0 || walkers > 1000 || walkers % 2 !== 0)
+    throw new InputError('sample.walkers', walkers, 'must be an even integer up to 1000');
   return { seed, steps, burn, walkers };
 }

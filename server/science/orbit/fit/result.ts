@@ -48,7 +48,14 @@ export interface FitResult {
   asOf: string;
   residuals: Residual[];
   outliers: number;
-  sampler?: { walkers: number; steps: number; burn: number; seed: number; acceptance: number; samples: number };
+  sampler?: {
+    walkers: number;
+    steps: number;
+    burn: number;
+    seed: number;
+    acceptance: number;
+    samples: number;
+  };
 }
 
 const wrap180 = (x: number) => x - 360 * Math.round(x / 360);
@@ -60,10 +67,12 @@ export function quantityGradients(sol: Solution, k: number, cycle: number): Floa
   const grads = desc.map(() => new Float64Array(problem.n));
   problem.free.forEach((idx, j) => {
     const h = stepFor(L, theta, idx);
-    const tp = Float64Array.from(theta), tm = Float64Array.from(theta);
+    const tp = Float64Array.from(theta),
+      tm = Float64Array.from(theta);
     tp[idx] = theta[idx]! + h;
     tm[idx] = theta[idx]! - h;
-    const qp = starQuantities(L, tp, k, cycle), qm = starQuantities(L, tm, k, cycle);
+    const qp = starQuantities(L, tp, k, cycle),
+      qm = starQuantities(L, tm, k, cycle);
     desc.forEach((d, q) => {
       const diff = qp[q]! - qm[q]!;
       grads[q]![j] = (d.angle ? wrap180(diff) : diff) / (2 * h);
@@ -94,7 +103,10 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
   });
   const names = problem.free.map((idx) => L.params[idx]!.name);
   const scales = problem.free.map((idx) => L.params[idx]!.scale);
-  const covariance = { parameters: names, matrix: C.map((row, a) => row.map((v, b) => v * scales[a]! * scales[b]!)) };
+  const covariance = {
+    parameters: names,
+    matrix: C.map((row, a) => row.map((v, b) => v * scales[a]! * scales[b]!)),
+  };
   const { r } = problem.evaluate(lm.x, false);
   const model = evaluateModel(L, theta, false).values;
   const residuals: Residual[] = [];
@@ -103,31 +115,51 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
     const desc = quantityNames(L);
     const values = starQuantities(L, theta, k, cycle);
     const grads = quantityGradients(sol, k, cycle);
-    const own = new Set(L.params.filter((p) => (p.star === k || p.star === null) && !parameters[L.params.indexOf(p)]!.fixed).map((p) => p.key as string));
-    const quantities = desc.map((d, q) => ({ name: d.name, value: values[q]!, sigma: Math.sqrt(propagate(C, grads[q]!)), unit: d.unit, fitted: own.has(d.name) }));
+    const own = new Set(
+      L.params
+        .filter((p) => (p.star === k || p.star === null) && !parameters[L.params.indexOf(p)]!.fixed)
+        .map((p) => p.key as string),
+    );
+    const quantities = desc.map((d, q) => ({
+      name: d.name,
+      value: values[q]!,
+      sigma: Math.sqrt(propagate(C, grads[q]!)),
+      unit: d.unit,
+      fitted: own.has(d.name),
+    }));
     const covNames = COVARIANCE_PARAMETERS.filter((n) => desc.some((d) => d.name === n));
     const gi = covNames.map((n) => grads[desc.findIndex((d) => d.name === n)]!);
     const matrix = gi.map(() => new Array<number>(gi.length).fill(0));
-    gi.forEach((ga, a) => gi.forEach((gb, b) => {
-      if (b >= a) matrix[a]![b] = matrix[b]![a] = bilinear(C, ga, gb); // exactly symmetric
-    }));
+    gi.forEach((ga, a) =>
+      gi.forEach((gb, b) => {
+        if (b >= a) matrix[a]![b] = matrix[b]![a] = bilinear(C, ga, gb); // exactly symmetric
+      }),
+    );
     const o = starOrbit(L, theta, k);
     const at = (n: string) => values[desc.findIndex((d) => d.name === n)]!;
     const orbit: OrbitInput = {
       elements: {
-        kind: 'campbell', periodYears: at('periodYears'), periapsis: `JD ${at('periapsisDays').toFixed(6)}`, eccentricity: at('eccentricity'),
-        semiMajorAxisArcsec: at('semiMajorAxisArcsec'), inclinationDeg: at('inclinationDeg'), ascendingNodeDeg: at('ascendingNodeDeg'), argPeriapsisDeg: at('argPeriapsisDeg'),
+        kind: 'campbell',
+        periodYears: at('periodYears'),
+        periapsis: `JD ${at('periapsisDays').toFixed(6)}`,
+        eccentricity: at('eccentricity'),
+        semiMajorAxisArcsec: at('semiMajorAxisArcsec'),
+        inclinationDeg: at('inclinationDeg'),
+        ascendingNodeDeg: at('ascendingNodeDeg'),
+        argPeriapsisDeg: at('argPeriapsisDeg'),
       },
       ...(o.distancePc !== null ? { distancePc: o.distancePc } : {}),
       ...(L.sys.gamma >= 0 ? { systemicVelocityKmS: o.gammaKmS } : {}),
       relativity: { ...L.relativity },
       covariance: { parameters: covNames as CovarianceParameter[], matrix },
     };
-    let chi2 = 0, comps = 0;
+    let chi2 = 0,
+      comps = 0;
     let c = s.firstComponent;
     for (const m of s.obs) {
       const n = m.kind === 'radial-velocity' ? 1 : 2;
-      const res: number[] = [], norm: number[] = [];
+      const res: number[] = [],
+        norm: number[] = [];
       let outlier = false;
       for (let q = 0; q < n; q++) {
         let d = m.value[q]! - model[c + q]!;
@@ -138,14 +170,32 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
         if (Math.abs(r[c + q]!) > OUTLIER_SIGMA) outlier = true;
       }
       comps += n;
-      residuals.push({ star: s.name, index: m.index, ...(m.id !== undefined ? { id: m.id } : {}), kind: m.kind, jd: m.jd, epoch: jdToIso(m.jd), residual: res, normalized: norm, outlier });
+      residuals.push({
+        star: s.name,
+        index: m.index,
+        ...(m.id !== undefined ? { id: m.id } : {}),
+        kind: m.kind,
+        jd: m.jd,
+        epoch: jdToIso(m.jd),
+        residual: res,
+        normalized: norm,
+        outlier,
+      });
       c += n;
     }
-    return { name: s.name, quantities, orbit, nextPeriapsis: jdToIso(at('nextPeriapsisJd')), chi2, components: comps };
+    return {
+      name: s.name,
+      quantities,
+      orbit,
+      nextPeriapsis: jdToIso(at('nextPeriapsisJd')),
+      chi2,
+      components: comps,
+    };
   });
   const dof = problem.rows - problem.n;
   return {
-    method: 'grid over P, e, T with linear Thiele–Innes and γ/distance solves; Levenberg–Marquardt on all parameters',
+    method:
+      'grid over P, e, T with linear Thiele–Innes and γ/distance solves; Levenberg–Marquardt on all parameters',
     derivatives,
     loss: req.loss,
     stars,
@@ -166,6 +216,7 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
 
 function bilinear(C: number[][], a: ArrayLike<number>, b: ArrayLike<number>): number {
   let s = 0;
-  for (let i = 0; i < C.length; i++) for (let j = 0; j < C.length; j++) s += a[i]! * C[i]![j]! * b[j]!;
+  for (let i = 0; i < C.length; i++)
+    for (let j = 0; j < C.length; j++) s += a[i]! * C[i]![j]! * b[j]!;
   return s;
 }

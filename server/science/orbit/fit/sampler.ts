@@ -29,16 +29,23 @@ export interface EnsembleResult {
  * @param logPost log posterior density up to a constant; −Infinity outside the domain
  * @param start one starting vector per walker (all with finite logPost)
  */
-export function ensembleSample(logPost: (x: Float64Array) => number, start: Float64Array[], o: EnsembleOptions): EnsembleResult {
+export function ensembleSample(
+  logPost: (x: Float64Array) => number,
+  start: Float64Array[],
+  o: EnsembleOptions,
+): EnsembleResult {
   const rng = new SeededRandom(o.seed);
   const a = o.a ?? 2;
-  const W = start.length, n = start[0]!.length;
+  const W = start.length,
+    n = start[0]!.length;
   const pos = start.map((x) => Float64Array.from(x));
   const lp = pos.map((x) => logPost(x));
   const keep = o.keep ?? 20_000;
   const thin = Math.max(1, Math.ceil((o.steps * W) / keep));
   const samples: Float64Array[] = [];
-  let accepted = 0, proposed = 0, counter = 0;
+  let accepted = 0,
+    proposed = 0,
+    counter = 0;
   const y = new Float64Array(n);
   for (let step = 0; step < o.burn + o.steps; step++) {
     for (let k = 0; k < W; k++) {
@@ -46,7 +53,8 @@ export function ensembleSample(logPost: (x: Float64Array) => number, start: Floa
       if (j >= k) j++;
       const u = rng.uniform();
       const z = ((a - 1) * u + 1) ** 2 / a;
-      const xk = pos[k]!, xj = pos[j]!;
+      const xk = pos[k]!,
+        xj = pos[j]!;
       for (let q = 0; q < n; q++) y[q] = xj[q]! + z * (xk[q]! - xj[q]!);
       const lpy = logPost(y);
       const logRatio = (n - 1) * Math.log(z) + lpy - lp[k]!;

@@ -10,7 +10,13 @@ import { covarianceFromJacobian } from './covariance.ts';
 import { gridSearch, type GridNode } from './grid.ts';
 import { buildLayout, findParameter, type Layout, starOrbit } from './layout.ts';
 import { levenbergMarquardt, type LmResult } from './lm.ts';
-import { canonicalize, finiteDifferenceProblem, makeProblem, type Prior, type Problem } from './problem.ts';
+import {
+  canonicalize,
+  finiteDifferenceProblem,
+  makeProblem,
+  type Prior,
+  type Problem,
+} from './problem.ts';
 import { FitRefusal } from './refusal.ts';
 import type { CheckedRequest, CheckedStar } from './request.ts';
 
@@ -36,10 +42,20 @@ interface Built {
 
 /** Layout, fixed values and priors for some of the request's stars. `strict`: unknown names are errors. */
 export function build(req: CheckedRequest, stars: CheckedStar[], strict: boolean): Built {
-  const ast = req.stars.flatMap((s) => s.obs.filter((m) => m.kind !== 'radial-velocity').map((m) => m.jd));
-  const frameEpochJd = req.frameEpochJd ?? (ast.length ? ast.reduce((a, b) => a + b, 0) / ast.length : 0);
-  const distanceWanted = req.fixed.some(([k]) => k === 'distancePc') || req.priors.some(([k]) => k === 'distancePc');
-  const L = buildLayout(stars, { relativity: req.relativity, frameOffset: req.frameOffset, frameDrift: req.frameDrift, frameEpochJd, distanceWanted });
+  const ast = req.stars.flatMap((s) =>
+    s.obs.filter((m) => m.kind !== 'radial-velocity').map((m) => m.jd),
+  );
+  const frameEpochJd =
+    req.frameEpochJd ?? (ast.length ? ast.reduce((a, b) => a + b, 0) / ast.length : 0);
+  const distanceWanted =
+    req.fixed.some(([k]) => k === 'distancePc') || req.priors.some(([k]) => k === 'distancePc');
+  const L = buildLayout(stars, {
+    relativity: req.relativity,
+    frameOffset: req.frameOffset,
+    frameDrift: req.frameDrift,
+    frameEpochJd,
+    distanceWanted,
+  });
   const base = new Float64Array(L.params.length);
   const fixedMask = L.params.map(() => false);
   const lookup = (name: string, field: string): number => {
@@ -59,7 +75,12 @@ export function build(req: CheckedRequest, stars: CheckedStar[], strict: boolean
   const priors: Prior[] = [];
   for (const [name, p] of req.priors) {
     const j = lookup(name, `priors.${name}`);
-    if (j >= 0) priors.push({ index: j, mean: p.mean / L.params[j]!.scale, sigma: p.sigma / L.params[j]!.scale });
+    if (j >= 0)
+      priors.push({
+        index: j,
+        mean: p.mean / L.params[j]!.scale,
+        sigma: p.sigma / L.params[j]!.scale,
+      });
   }
   const free = L.params.map((_, j) => j).filter((j) => !fixedMask[j]);
   return { L, base, free, fixedMask, priors };
@@ -73,22 +94,39 @@ function components(star: CheckedStar): number {
 function refuseEarly(star: CheckedStar, ownParams: number): void {
   const ast = star.obs.filter((m) => m.kind !== 'radial-velocity');
   if (ast.length === 0) {
-    throw new FitRefusal('no-astrometry', `star ${star.name}: no astrometric measurement; radial velocities alone give a·sin i, not the orbit on the sky — add offsets or separations`, [star.name]);
+    throw new FitRefusal(
+      'no-astrometry',
+      `star ${star.name}: no astrometric measurement; radial velocities alone give a·sin i, not the orbit on the sky — add offsets or separations`,
+      [star.name],
+    );
   }
   const n = components(star);
   if (n < ownParams) {
-    throw new FitRefusal('too-few-measurements', `star ${star.name}: ${n} measurement components (${ast.length} astrometric epoch${ast.length === 1 ? ' counts' : 's count'} twice) for ${ownParams} free parameters of its orbit — at least ${ownParams} are needed`, [star.name]);
+    throw new FitRefusal(
+      'too-few-measurements',
+      `star ${star.name}: ${n} measurement components (${ast.length} astrometric epoch${ast.length === 1 ? ' counts' : 's count'} twice) for ${ownParams} free parameters of its orbit — at least ${ownParams} are needed`,
+      [star.name],
+    );
   }
   const jd = ast.map((m) => m.jd);
   const span = Math.max(...jd) - Math.min(...jd);
   const pMin = star.hints.periodYears ? star.hints.periodYears.min * JULIAN_YEAR_DAYS : 1;
   if (!(span >= 1e-3 * pMin)) {
-    throw new FitRefusal('single-phase', `star ${star.name}: all ${ast.length} astrometric epochs fall at one orbital phase (they span ${span.toFixed(3)} d); an orbit needs epochs spread along it`, [star.name]);
+    throw new FitRefusal(
+      'single-phase',
+      `star ${star.name}: all ${ast.length} astrometric epochs fall at one orbital phase (they span ${span.toFixed(3)} d); an orbit needs epochs spread along it`,
+      [star.name],
+    );
   }
 }
 
 /** Refuse when every epoch of a star sits within 0.5% of the orbit's phase (e.g. epochs one period apart). */
-function refusePhases(name: string, jd: ArrayLike<number>, periodDays: number, periapsisJd: number): void {
+function refusePhases(
+  name: string,
+  jd: ArrayLike<number>,
+  periodDays: number,
+  periapsisJd: number,
+): void {
   const ph = Array.from(jd, (t) => {
     const f = (t - periapsisJd) / periodDays;
     return f - Math.floor(f);
@@ -96,7 +134,11 @@ function refusePhases(name: string, jd: ArrayLike<number>, periodDays: number, p
   let gap = 1 - ph[ph.length - 1]! + ph[0]!;
   for (let q = 1; q < ph.length; q++) gap = Math.max(gap, ph[q]! - ph[q - 1]!);
   if (1 - gap < 0.005) {
-    throw new FitRefusal('single-phase', `star ${name}: at a period of ${(periodDays / JULIAN_YEAR_DAYS).toPrecision(6)} yr all ${ph.length} epochs fall at one orbital phase (within ${((1 - gap) * 100).toFixed(2)}% of the orbit); add epochs at other phases`, [name]);
+    throw new FitRefusal(
+      'single-phase',
+      `star ${name}: at a period of ${(periodDays / JULIAN_YEAR_DAYS).toPrecision(6)} yr all ${ph.length} epochs fall at one orbital phase (within ${((1 - gap) * 100).toFixed(2)}% of the orbit); add epochs at other phases`,
+      [name],
+    );
   }
 }
 
@@ -110,19 +152,34 @@ function refuseSinglePhase(L: Layout, theta: Float64Array): void {
 /** How LM takes its derivatives: analytic (the default), or by central differences (the benchmark's baseline). */
 export type DerivativeMode = 'analytic' | 'finite-difference';
 
-export function lmOn(b: Built, theta0: Float64Array, req: CheckedRequest, mode: DerivativeMode): { problem: Problem; lm: LmResult; theta: Float64Array } {
+export function lmOn(
+  b: Built,
+  theta0: Float64Array,
+  req: CheckedRequest,
+  mode: DerivativeMode,
+): { problem: Problem; lm: LmResult; theta: Float64Array } {
   for (let j = 0; j < theta0.length; j++) if (b.fixedMask[j]) theta0[j] = b.base[j]!;
   canonicalize(b.L, theta0);
   const analytic = makeProblem(b.L, theta0, b.free, b.priors);
   const problem = mode === 'analytic' ? analytic : finiteDifferenceProblem(analytic);
-  const lm = levenbergMarquardt(problem, Float64Array.from(b.free, (j) => theta0[j]!), { loss: req.loss });
+  const lm = levenbergMarquardt(
+    problem,
+    Float64Array.from(b.free, (j) => theta0[j]!),
+    { loss: req.loss },
+  );
   return { problem, lm, theta: problem.full(lm.x) };
 }
 
 function covarianceOf(problem: Problem, lm: LmResult, req: CheckedRequest): number[][] {
   const { J } = problem.evaluate(lm.x, true);
   const names = problem.free.map((j) => problem.L.params[j]!.name);
-  return covarianceFromJacobian(J!, problem.rows, problem.n, req.loss === 'huber' ? lm.weights : null, names);
+  return covarianceFromJacobian(
+    J!,
+    problem.rows,
+    problem.n,
+    req.loss === 'huber' ? lm.weights : null,
+    names,
+  );
 }
 
 /** The start vector of a single-star layout from a grid node (exported for the benchmark). */
@@ -134,7 +191,10 @@ export function startFromNode(b: Built, node: GridNode): Float64Array {
   t[s.T] = node.periapsisJd;
   t[s.e] = node.e;
   if (s.A >= 0) {
-    t[s.A] = node.A; t[s.B] = node.B; t[s.F] = node.F; t[s.G] = node.G;
+    t[s.A] = node.A;
+    t[s.B] = node.B;
+    t[s.F] = node.F;
+    t[s.G] = node.G;
   } else {
     const c = thieleInnesToCampbell(node);
     const flip = (node.signedDistancePc ?? 1) < 0 ? Math.PI : 0;
@@ -144,19 +204,36 @@ export function startFromNode(b: Built, node: GridNode): Float64Array {
     t[s.arg] = c.argRad + flip;
   }
   const prior = (j: number) => b.priors.find((p) => p.index === j)?.mean;
-  if (L.sys.d >= 0) t[L.sys.d] = node.signedDistancePc !== null ? Math.abs(node.signedDistancePc) : (prior(L.sys.d) ?? 1000);
+  if (L.sys.d >= 0)
+    t[L.sys.d] =
+      node.signedDistancePc !== null ? Math.abs(node.signedDistancePc) : (prior(L.sys.d) ?? 1000);
   if (L.sys.gamma >= 0) t[L.sys.gamma] = node.gamma ?? 0;
-  if (L.sys.x0 >= 0) { t[L.sys.x0] = node.frame[0]; t[L.sys.y0] = node.frame[1]; }
-  if (L.sys.vx >= 0) { t[L.sys.vx] = node.frame[2]; t[L.sys.vy] = node.frame[3]; }
+  if (L.sys.x0 >= 0) {
+    t[L.sys.x0] = node.frame[0];
+    t[L.sys.y0] = node.frame[1];
+  }
+  if (L.sys.vx >= 0) {
+    t[L.sys.vx] = node.frame[2];
+    t[L.sys.vy] = node.frame[3];
+  }
   return t;
 }
 
 /** Grid + LM for one star alone (its own distance and γ when it has velocities). */
-export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolean, withCovariance = true, mode: DerivativeMode = 'analytic'): Solution {
+export function solveStar(
+  req: CheckedRequest,
+  star: CheckedStar,
+  strict: boolean,
+  withCovariance = true,
+  mode: DerivativeMode = 'analytic',
+): Solution {
   const b = build(req, [star], strict);
   refuseEarly(star, 7);
   if (b.free.length > b.L.components + b.priors.length) {
-    throw new FitRefusal('too-few-measurements', `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`);
+    throw new FitRefusal(
+      'too-few-measurements',
+      `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`,
+    );
   }
   const jd = star.obs.map((m) => m.jd);
   const span = Math.max(1, Math.max(...jd) - Math.min(...jd));
@@ -164,14 +241,38 @@ export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolea
     const j = b.L.params.findIndex((p) => p.key === key);
     return j >= 0 && b.fixedMask[j] ? b.base[j]! : null;
   };
-  const pFix = fixedVal('periodYears'), eFix = fixedVal('eccentricity');
-  if (pFix !== null) refusePhases(star.name, star.obs.map((m) => m.jd), pFix, 0);
+  const pFix = fixedVal('periodYears'),
+    eFix = fixedVal('eccentricity');
+  if (pFix !== null)
+    refusePhases(
+      star.name,
+      star.obs.map((m) => m.jd),
+      pFix,
+      0,
+    );
   const hp = star.hints.periodYears;
-  const periodDays = pFix !== null ? { min: pFix, max: pFix } : hp ? { min: hp.min * JULIAN_YEAR_DAYS, max: hp.max * JULIAN_YEAR_DAYS } : { min: span / 2, max: 20 * span };
-  const eccentricity = eFix !== null ? { min: eFix, max: eFix } : star.hints.eccentricity ?? { min: 0, max: 0.97 };
-  const nodes = gridSearch(star.obs, { periodDays, eccentricity, frameOffset: req.frameOffset, frameDrift: req.frameDrift, frameEpochJd: b.L.frameEpochJd, keep: 5 });
+  const periodDays =
+    pFix !== null
+      ? { min: pFix, max: pFix }
+      : hp
+        ? { min: hp.min * JULIAN_YEAR_DAYS, max: hp.max * JULIAN_YEAR_DAYS }
+        : { min: span / 2, max: 20 * span };
+  const eccentricity =
+    eFix !== null ? { min: eFix, max: eFix } : (star.hints.eccentricity ?? { min: 0, max: 0.97 });
+  const nodes = gridSearch(star.obs, {
+    periodDays,
+    eccentricity,
+    frameOffset: req.frameOffset,
+    frameDrift: req.frameDrift,
+    frameEpochJd: b.L.frameEpochJd,
+    keep: 5,
+  });
   if (nodes.length === 0) {
-    throw new FitRefusal('no-start', `star ${star.name}: no orbit in the search ranges fits the measurements by linear least squares (too few distinct epochs, or fewer than two radial velocities)`, [star.name]);
+    throw new FitRefusal(
+      'no-start',
+      `star ${star.name}: no orbit in the search ranges fits the measurements by linear least squares (too few distinct epochs, or fewer than two radial velocities)`,
+      [star.name],
+    );
   }
   const starts = nodes.map((node) => startFromNode(b, node));
   if (star.start) starts.push(withElements(b.L, 0, startFromNode(b, nodes[0]!), star.start));
@@ -182,7 +283,11 @@ export function solveStar(req: CheckedRequest, star: CheckedStar, strict: boolea
   }
   refuseSinglePhase(b.L, best!.theta);
   return {
-    L: b.L, problem: best!.problem, theta: best!.theta, lm: best!.lm, periodRanges: [periodDays],
+    L: b.L,
+    problem: best!.problem,
+    theta: best!.theta,
+    lm: best!.lm,
+    periodRanges: [periodDays],
     covariance: withCovariance ? covarianceOf(best!.problem, best!.lm, req) : [],
   };
 }
@@ -196,7 +301,10 @@ function withElements(L: Layout, k: number, theta: Float64Array, o: Orbit): Floa
   t[s.e] = o.e;
   if (s.A >= 0) {
     const ti = campbellToThieleInnes(o.aMas, o.iRad, o.nodeRad, o.argRad);
-    t[s.A] = ti.A; t[s.B] = ti.B; t[s.F] = ti.F; t[s.G] = ti.G;
+    t[s.A] = ti.A;
+    t[s.B] = ti.B;
+    t[s.F] = ti.F;
+    t[s.G] = ti.G;
     return t;
   }
   if (s.a >= 0) t[s.a] = o.aMas;
@@ -216,7 +324,10 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
   if (req.stars.length === 1) return solveStar(req, req.stars[0]!, true, true, mode);
   const b = build(req, req.stars, true);
   if (b.free.length > b.L.components + b.priors.length) {
-    throw new FitRefusal('too-few-measurements', `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`);
+    throw new FitRefusal(
+      'too-few-measurements',
+      `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`,
+    );
   }
   const singles = req.stars.map((s) => solveStar(req, s, false, false, mode));
   const { L } = b;
@@ -225,22 +336,32 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
   const dPrior = b.priors.find((p) => p.index === L.sys.d)?.mean;
   const d0 = b.fixedMask[L.sys.d] ? b.base[L.sys.d]! : ds.length ? median(ds) : dPrior;
   if (d0 === undefined) {
-    throw new FitRefusal('singular', 'the distance is not constrained: no star has radial velocities — add some, give distancePc a prior, or fix it', ['distancePc']);
+    throw new FitRefusal(
+      'singular',
+      'the distance is not constrained: no star has radial velocities — add some, give distancePc a prior, or fix it',
+      ['distancePc'],
+    );
   }
   t[L.sys.d] = d0;
   const masses: number[] = [];
   singles.forEach((s, k) => {
     const o = starOrbit(s.L, s.theta, 0);
     const slots = L.stars[k]!.slots;
-    t[slots.P] = o.periodDays; t[slots.T] = o.periapsisJd; t[slots.e] = o.e;
-    t[slots.i] = o.iRad; t[slots.node] = o.nodeRad; t[slots.arg] = o.argRad;
+    t[slots.P] = o.periodDays;
+    t[slots.T] = o.periapsisJd;
+    t[slots.e] = o.e;
+    t[slots.i] = o.iRad;
+    t[slots.node] = o.nodeRad;
+    t[slots.arg] = o.argRad;
     masses.push(((o.aMas / 1000) * d0) ** 3 / (o.periodDays / JULIAN_YEAR_DAYS) ** 2);
   });
   t[L.sys.M] = median(masses);
   const withRv = singles.filter((s) => s.L.sys.gamma >= 0);
-  if (L.sys.gamma >= 0) t[L.sys.gamma] = withRv.reduce((a, s) => a + s.theta[s.L.sys.gamma]!, 0) / withRv.length;
+  if (L.sys.gamma >= 0)
+    t[L.sys.gamma] = withRv.reduce((a, s) => a + s.theta[s.L.sys.gamma]!, 0) / withRv.length;
   for (const key of ['x0', 'y0', 'vx', 'vy'] as const) {
-    if (L.sys[key] >= 0) t[L.sys[key]] = singles.reduce((a, s) => a + s.theta[s.L.sys[key]]!, 0) / singles.length;
+    if (L.sys[key] >= 0)
+      t[L.sys[key]] = singles.reduce((a, s) => a + s.theta[s.L.sys[key]]!, 0) / singles.length;
   }
   // Starts: the single-star solutions, and (when given) the stars' starting orbits with the mass they imply.
   const starts: Float64Array[] = [t];
@@ -252,9 +373,15 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
     const given = req.stars.flatMap((s) => (s.start?.distancePc ? [s.start.distancePc] : []));
     const d2 = b.fixedMask[L.sys.d] ? d0 : given.length ? median(given) : d0;
     t2[L.sys.d] = d2;
-    const implied = req.stars.flatMap((s) => (s.start ? [((s.start.aMas / 1000) * d2) ** 3 / (s.start.periodDays / JULIAN_YEAR_DAYS) ** 2] : []));
+    const implied = req.stars.flatMap((s) =>
+      s.start
+        ? [((s.start.aMas / 1000) * d2) ** 3 / (s.start.periodDays / JULIAN_YEAR_DAYS) ** 2]
+        : [],
+    );
     t2[L.sys.M] = median(implied);
-    const gammas = req.stars.flatMap((s) => (s.start?.distancePc !== undefined ? [s.start.gammaKmS] : []));
+    const gammas = req.stars.flatMap((s) =>
+      s.start?.distancePc !== undefined ? [s.start.gammaKmS] : [],
+    );
     if (L.sys.gamma >= 0 && gammas.length) t2[L.sys.gamma] = median(gammas);
     starts.push(t2);
   }
@@ -264,7 +391,14 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
   for (const r of runs) {
     try {
       refuseSinglePhase(L, r.theta);
-      return { L, problem: r.problem, theta: r.theta, lm: r.lm, covariance: covarianceOf(r.problem, r.lm, req), periodRanges: singles.map((s) => s.periodRanges[0]!) };
+      return {
+        L,
+        problem: r.problem,
+        theta: r.theta,
+        lm: r.lm,
+        covariance: covarianceOf(r.problem, r.lm, req),
+        periodRanges: singles.map((s) => s.periodRanges[0]!),
+      };
     } catch (err) {
       firstError ??= err;
     }

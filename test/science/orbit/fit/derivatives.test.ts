@@ -6,18 +6,48 @@
 import { describe, expect, it } from 'vitest';
 import { checkRequest } from '../../../../server/science/orbit/fit/request.ts';
 import { build } from '../../../../server/science/orbit/fit/solve.ts';
-import { finiteDifferenceProblem, makeProblem } from '../../../../server/science/orbit/fit/problem.ts';
+import {
+  finiteDifferenceProblem,
+  makeProblem,
+} from '../../../../server/science/orbit/fit/problem.ts';
 import type { FitRequest } from '../../../../server/science/orbit/fit/index.ts';
 import { SeededRandom } from '../../../../server/science/random.ts';
 import { epochs, simulate } from './simulate.ts';
 
 const J2020 = 2458849.5;
 const rng = new SeededRandom(7);
-const star = (name: string, periodYears: number, e: number, iDeg: number, withRv: boolean, polar = false) => ({
+const star = (
+  name: string,
+  periodYears: number,
+  e: number,
+  iDeg: number,
+  withRv: boolean,
+  polar = false,
+) => ({
   name,
   measurements: simulate(
-    { elements: { periodYears, periapsis: 'J2021.3', eccentricity: e, semiMajorAxisArcsec: 0.1 * periodYears ** (2 / 3), inclinationDeg: iDeg, ascendingNodeDeg: 130, argPeriapsisDeg: 250 }, distancePc: 8100, systemicVelocityKmS: 12 },
-    { astrometryJd: epochs(J2020, 3000, 12, rng, 20), sigmaMas: 0.5, polar, correlation: polar ? 0 : 0.3, ...(withRv ? { velocityJd: epochs(J2020 + 100, 2500, 8, rng, 10), sigmaRadialVelocityKmS: 8 } : {}) },
+    {
+      elements: {
+        periodYears,
+        periapsis: 'J2021.3',
+        eccentricity: e,
+        semiMajorAxisArcsec: 0.1 * periodYears ** (2 / 3),
+        inclinationDeg: iDeg,
+        ascendingNodeDeg: 130,
+        argPeriapsisDeg: 250,
+      },
+      distancePc: 8100,
+      systemicVelocityKmS: 12,
+    },
+    {
+      astrometryJd: epochs(J2020, 3000, 12, rng, 20),
+      sigmaMas: 0.5,
+      polar,
+      correlation: polar ? 0 : 0.3,
+      ...(withRv
+        ? { velocityJd: epochs(J2020 + 100, 2500, 8, rng, 10), sigmaRadialVelocityKmS: 8 }
+        : {}),
+    },
     11,
   ),
 });
@@ -28,19 +58,37 @@ function worstRelativeError(request: FitRequest): number {
   // Evaluate away from the truth so no residual is special: every element moved a little.
   const theta = new Float64Array(b.L.params.length);
   const truthish: Record<string, number> = {
-    periodYears: 9.1 * 365.25, periapsisDays: 2459300, eccentricity: 0.62, semiMajorAxisArcsec: 450, inclinationDeg: 1.1,
-    ascendingNodeDeg: 2.2, argPeriapsisDeg: 4.5, aArcsec: -120, bArcsec: 300, fArcsec: 210, gArcsec: 90, distancePc: 8150,
-    massSolar: 4.1e6, systemicVelocityKmS: 10, offsetRaMas: 0.3, offsetDecMas: -0.2, driftRaMasYr: 0.05, driftDecMasYr: -0.04,
+    periodYears: 9.1 * 365.25,
+    periapsisDays: 2459300,
+    eccentricity: 0.62,
+    semiMajorAxisArcsec: 450,
+    inclinationDeg: 1.1,
+    ascendingNodeDeg: 2.2,
+    argPeriapsisDeg: 4.5,
+    aArcsec: -120,
+    bArcsec: 300,
+    fArcsec: 210,
+    gArcsec: 90,
+    distancePc: 8150,
+    massSolar: 4.1e6,
+    systemicVelocityKmS: 10,
+    offsetRaMas: 0.3,
+    offsetDecMas: -0.2,
+    driftRaMasYr: 0.05,
+    driftDecMasYr: -0.04,
   };
   b.L.params.forEach((p, j) => (theta[j] = truthish[p.key]! * (1 + 0.01 * (j % 3))));
   const analytic = makeProblem(b.L, theta, b.free, b.priors);
   const numeric = finiteDifferenceProblem(analytic);
   const x = Float64Array.from(b.free, (j) => theta[j]!);
-  const Ja = analytic.evaluate(x, true).J!, Jn = numeric.evaluate(x, true).J!;
-  const n = analytic.n, rows = analytic.rows;
+  const Ja = analytic.evaluate(x, true).J!,
+    Jn = numeric.evaluate(x, true).J!;
+  const n = analytic.n,
+    rows = analytic.rows;
   let worst = 0;
   for (let j = 0; j < n; j++) {
-    let colMax = 0, diffMax = 0;
+    let colMax = 0,
+      diffMax = 0;
     for (let i = 0; i < rows; i++) {
       colMax = Math.max(colMax, Math.abs(Jn[i * n + j]!));
       diffMax = Math.max(diffMax, Math.abs(Ja[i * n + j]! - Jn[i * n + j]!));
@@ -52,16 +100,44 @@ function worstRelativeError(request: FitRequest): number {
 
 describe('fit derivatives against central finite differences', () => {
   const cases: [string, FitRequest][] = [
-    ['Thiele–Innes form, correlated offsets, frame offset and drift', { stars: [star('A', 9, 0.6, 60, false)], frame: { offset: true, drift: true } }],
-    ['Campbell form with radial velocities (distance, γ)', { stars: [star('B', 9, 0.6, 60, true)] }],
+    [
+      'Thiele–Innes form, correlated offsets, frame offset and drift',
+      { stars: [star('A', 9, 0.6, 60, false)], frame: { offset: true, drift: true } },
+    ],
+    [
+      'Campbell form with radial velocities (distance, γ)',
+      { stars: [star('B', 9, 0.6, 60, true)] },
+    ],
     ['separation and position angle', { stars: [star('C', 9, 0.6, 60, true, true)] }],
-    ['joint fit: shared mass and distance, a from Kepler’s third law', { stars: [star('D', 9, 0.6, 60, true), star('E', 14, 0.3, 120, true), star('F', 6, 0.85, 40, false)] }],
-    ['relativistic terms switched on (Keplerian part analytic, correction by differences)', { stars: [star('G', 9, 0.6, 60, true)], relativity: { romer: true, gravitationalRedshift: true, transverseDoppler: true, precession: true } }],
+    [
+      'joint fit: shared mass and distance, a from Kepler’s third law',
+      {
+        stars: [
+          star('D', 9, 0.6, 60, true),
+          star('E', 14, 0.3, 120, true),
+          star('F', 6, 0.85, 40, false),
+        ],
+      },
+    ],
+    [
+      'relativistic terms switched on (Keplerian part analytic, correction by differences)',
+      {
+        stars: [star('G', 9, 0.6, 60, true)],
+        relativity: {
+          romer: true,
+          gravitationalRedshift: true,
+          transverseDoppler: true,
+          precession: true,
+        },
+      },
+    ],
   ];
   for (const [name, request] of cases) {
     it(name, () => {
       const worst = worstRelativeError(request);
-      console.log(`derivatives, ${name}: worst |analytic − numeric| / column max = ${worst.toExponential(2)}`);
+      console.log(
+        `derivatives, ${name}: worst |analytic − numeric| / column max = ${worst.toExponential(2)}`,
+      );
       expect(worst).toBeLessThan(1e-5);
     });
   }

@@ -7,30 +7,51 @@
 import { Matrix, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { anomalyTable, TABLE_SIZE } from '../../../../server/science/orbit/fit/anomaly-table.ts';
-import { astrometryColumns, twoUnknowns } from '../../../../server/science/orbit/fit/grid-kernels.ts';
+import {
+  astrometryColumns,
+  twoUnknowns,
+} from '../../../../server/science/orbit/fit/grid-kernels.ts';
 import { checkRequest } from '../../../../server/science/orbit/fit/request.ts';
 import { SeededRandom } from '../../../../server/science/random.ts';
 import { epochs, simulate } from './simulate.ts';
 
 // Invented demo orbit (not a check value): e = 0.9 around a compact object, 100 epochs over 14 yr.
-const truth = { elements: { periodYears: 15, periapsis: 'J2021.4', eccentricity: 0.9, semiMajorAxisArcsec: 0.12, inclinationDeg: 130, ascendingNodeDeg: 225, argPeriapsisDeg: 65 } };
-const measurements = simulate(truth, { astrometryJd: epochs(2455927.5, 14 * 365.25, 100, new SeededRandom(5), 10), sigmaMas: 0.4 }, 6);
+const truth = {
+  elements: {
+    periodYears: 15,
+    periapsis: 'J2021.4',
+    eccentricity: 0.9,
+    semiMajorAxisArcsec: 0.12,
+    inclinationDeg: 130,
+    ascendingNodeDeg: 225,
+    argPeriapsisDeg: 65,
+  },
+};
+const measurements = simulate(
+  truth,
+  { astrometryJd: epochs(2455927.5, 14 * 365.25, 100, new SeededRandom(5), 10), sigmaMas: 0.4 },
+  6,
+);
 const obs = checkRequest({ stars: [{ name: 'K', measurements }] }).stars[0]!.obs;
 
 /** χ² of Δα* = B·X + G·Y, Δδ = A·X + F·Y at table positions pos, by QR on the whitened rows. */
 function referenceChi2(pos: Float64Array, table: Float64Array): number {
   let chi2 = 0;
   for (const axis of [0, 1] as const) {
-    const rows: number[][] = [], rhs: number[][] = [];
+    const rows: number[][] = [],
+      rhs: number[][] = [];
     obs.forEach((m, q) => {
       if (m.kind !== 'offsets') return;
-      const i = Math.floor(pos[q]!), f = pos[q]! - i;
-      const X = table[4 * i]! + f * table[4 * i + 1]!, Y = table[4 * i + 2]! + f * table[4 * i + 3]!;
+      const i = Math.floor(pos[q]!),
+        f = pos[q]! - i;
+      const X = table[4 * i]! + f * table[4 * i + 1]!,
+        Y = table[4 * i + 2]! + f * table[4 * i + 3]!;
       const w = 1 / m.sigma[axis];
       rows.push([w * X, w * Y]);
       rhs.push([w * m.value[axis]]);
     });
-    const D = new Matrix(rows), b = new Matrix(rhs);
+    const D = new Matrix(rows),
+      b = new Matrix(rhs);
     const r = b.sub(D.mmul(solve(D, b)));
     chi2 += r.norm('frobenius') ** 2;
   }
@@ -45,7 +66,8 @@ describe('grid node kernel', () => {
     const rng = new SeededRandom(7);
     // The kernel takes the epochs in its own check order (ast.jd); the reference in input order.
     const byJd = new Map(obs.map((m, q) => [m.jd, q]));
-    let worstRel = 0, worstBound = 0;
+    let worstRel = 0,
+      worstBound = 0;
     const nodes = 300;
     for (let k = 0; k < nodes; k++) {
       const e = [0, 0.45, 0.8, 0.92, 0.97][k % 5]!;
@@ -77,6 +99,8 @@ describe('grid node kernel', () => {
       expect(fit.chi2).toBeLessThanOrEqual(ref);
       worstBound = Math.max(worstBound, fit.chi2 / ref);
     }
-    console.log(`grid kernel vs QR least squares over ${nodes} nodes: worst relative χ² difference ${worstRel.toExponential(2)}; first bound at most ${(100 * worstBound).toFixed(1)}% of the node's χ²`);
+    console.log(
+      `grid kernel vs QR least squares over ${nodes} nodes: worst relative χ² difference ${worstRel.toExponential(2)}; first bound at most ${(100 * worstBound).toFixed(1)}% of the node's χ²`,
+    );
   });
 });

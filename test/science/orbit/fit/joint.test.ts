@@ -13,12 +13,49 @@ const MASS = 4.1e6; // M☉, invented
 const DISTANCE = 8100; // pc, invented
 const J2015 = 2457023.5;
 
-function star(name: string, periodYears: number, periapsis: string, e: number, i: number, node: number, arg: number, seed: number): { input: StarInput; truth: OrbitInput } {
+function star(
+  name: string,
+  periodYears: number,
+  periapsis: string,
+  e: number,
+  i: number,
+  node: number,
+  arg: number,
+  seed: number,
+): { input: StarInput; truth: OrbitInput } {
   const aArcsec = Math.cbrt(MASS * periodYears ** 2) / DISTANCE; // Kepler's third law: a[au]³ = M P²
-  const truth: OrbitInput = { elements: { periodYears, periapsis, eccentricity: e, semiMajorAxisArcsec: aArcsec, inclinationDeg: i, ascendingNodeDeg: node, argPeriapsisDeg: arg }, distancePc: DISTANCE, systemicVelocityKmS: 0 };
+  const truth: OrbitInput = {
+    elements: {
+      periodYears,
+      periapsis,
+      eccentricity: e,
+      semiMajorAxisArcsec: aArcsec,
+      inclinationDeg: i,
+      ascendingNodeDeg: node,
+      argPeriapsisDeg: arg,
+    },
+    distancePc: DISTANCE,
+    systemicVelocityKmS: 0,
+  };
   const r = new SeededRandom(seed);
-  const measurements = simulate(truth, { astrometryJd: epochs(J2015, 12 * 365.25, 24, r, 20), sigmaMas: 0.4, velocityJd: epochs(J2015 + 50, 11.5 * 365.25, 12, r, 20), sigmaRadialVelocityKmS: 12 }, seed + 1);
-  return { input: { name, measurements, hints: { periodYears: { min: periodYears * 0.8, max: periodYears * 1.25 } } }, truth };
+  const measurements = simulate(
+    truth,
+    {
+      astrometryJd: epochs(J2015, 12 * 365.25, 24, r, 20),
+      sigmaMas: 0.4,
+      velocityJd: epochs(J2015 + 50, 11.5 * 365.25, 12, r, 20),
+      sigmaRadialVelocityKmS: 12,
+    },
+    seed + 1,
+  );
+  return {
+    input: {
+      name,
+      measurements,
+      hints: { periodYears: { min: periodYears * 0.8, max: periodYears * 1.25 } },
+    },
+    truth,
+  };
 }
 
 describe('joint fit of three stars around one primary', () => {
@@ -37,8 +74,13 @@ describe('joint fit of three stars around one primary', () => {
     const joint = fitOrbits({ stars: stars.map((s) => s.input) });
     const m = joint.parameters.find((p) => p.name === 'massSolar')!;
     const d = joint.parameters.find((p) => p.name === 'distancePc')!;
-    for (const s of singles) console.log(`single ${s.name}: M = ${(s.mass / 1e6).toFixed(3)} ± ${(s.sigma / 1e6).toFixed(3)} ×10⁶ M☉`);
-    console.log(`joint: M = ${(m.value / 1e6).toFixed(3)} ± ${(m.sigma / 1e6).toFixed(3)} ×10⁶ M☉, d = ${d.value.toFixed(0)} ± ${d.sigma.toFixed(0)} pc, χ²/dof = ${joint.reducedChi2!.toFixed(3)}`);
+    for (const s of singles)
+      console.log(
+        `single ${s.name}: M = ${(s.mass / 1e6).toFixed(3)} ± ${(s.sigma / 1e6).toFixed(3)} ×10⁶ M☉`,
+      );
+    console.log(
+      `joint: M = ${(m.value / 1e6).toFixed(3)} ± ${(m.sigma / 1e6).toFixed(3)} ×10⁶ M☉, d = ${d.value.toFixed(0)} ± ${d.sigma.toFixed(0)} pc, χ²/dof = ${joint.reducedChi2!.toFixed(3)}`,
+    );
     for (const s of singles) expect(m.sigma).toBeLessThan(s.sigma);
     expect(Math.abs(m.value - MASS)).toBeLessThan(3 * m.sigma);
     expect(Math.abs(d.value - DISTANCE)).toBeLessThan(3 * d.sigma);
@@ -47,7 +89,8 @@ describe('joint fit of three stars around one primary', () => {
     // Each star's semi-major axis now follows from the shared M and d, with its uncertainty propagated.
     for (const [k, s] of joint.stars.entries()) {
       const a = s.quantities.find((q) => q.name === 'semiMajorAxisArcsec')!;
-      const truthA = (stars[k]!.truth.elements as { semiMajorAxisArcsec: number }).semiMajorAxisArcsec;
+      const truthA = (stars[k]!.truth.elements as { semiMajorAxisArcsec: number })
+        .semiMajorAxisArcsec;
       expect(a.fitted).toBe(false);
       expect(Math.abs(a.value - truthA)).toBeLessThan(3 * a.sigma);
     }

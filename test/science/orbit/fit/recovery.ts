@@ -4,7 +4,11 @@
  */
 import { expect, it } from 'vitest';
 import { campbellToThieleInnes } from '../../../../server/science/orbit/index.ts';
-import { fitOrbits, type FitRequest, type MeasurementInput } from '../../../../server/science/orbit/fit/index.ts';
+import {
+  fitOrbits,
+  type FitRequest,
+  type MeasurementInput,
+} from '../../../../server/science/orbit/fit/index.ts';
 import { DEG, JULIAN_YEAR_DAYS } from '../../../../server/science/constants.ts';
 import { parseEpoch } from '../../../../server/science/time/index.ts';
 import type { CampbellInput, OrbitInput } from '../../../../server/science/orbit/index.ts';
@@ -15,7 +19,10 @@ export interface RecoveryStats {
    * Per parameter, z = (fitted − truth)/σ: the largest |z|, how many |z| > 3, the fraction with
    * |z| ≤ 1, and the mean z (a bias shows as |mean z| ≫ 1/√N).
    */
-  perParameter: Record<string, { worstSigma: number; beyond3: number; within1: number; meanZ: number }>;
+  perParameter: Record<
+    string,
+    { worstSigma: number; beyond3: number; within1: number; meanZ: number }
+  >;
   /** Fraction within 1σ pooled over all parameters and realizations. */
   pooledWithin1: number;
   meanReducedChi2: number;
@@ -24,28 +31,55 @@ export interface RecoveryStats {
 
 function truthOf(truth: OrbitInput, key: string, fitted: number): number {
   const el = truth.elements as Required<CampbellInput>;
-  const ti = campbellToThieleInnes(el.semiMajorAxisArcsec, el.inclinationDeg * DEG, el.ascendingNodeDeg * DEG, el.argPeriapsisDeg * DEG);
+  const ti = campbellToThieleInnes(
+    el.semiMajorAxisArcsec,
+    el.inclinationDeg * DEG,
+    el.ascendingNodeDeg * DEG,
+    el.argPeriapsisDeg * DEG,
+  );
   switch (key) {
     case 'periapsisDays': {
-      const T = parseEpoch(el.periapsis), P = el.periodYears * JULIAN_YEAR_DAYS;
+      const T = parseEpoch(el.periapsis),
+        P = el.periodYears * JULIAN_YEAR_DAYS;
       return T + Math.round((fitted - T) / P) * P; // the same passage as the fit's T
     }
-    case 'aArcsec': return ti.A;
-    case 'bArcsec': return ti.B;
-    case 'fArcsec': return ti.F;
-    case 'gArcsec': return ti.G;
-    case 'distancePc': return truth.distancePc!;
-    case 'systemicVelocityKmS': return truth.systemicVelocityKmS ?? 0;
-    default: return (el as unknown as Record<string, number>)[key]!;
+    case 'aArcsec':
+      return ti.A;
+    case 'bArcsec':
+      return ti.B;
+    case 'fArcsec':
+      return ti.F;
+    case 'gArcsec':
+      return ti.G;
+    case 'distancePc':
+      return truth.distancePc!;
+    case 'systemicVelocityKmS':
+      return truth.systemicVelocityKmS ?? 0;
+    default:
+      return (el as unknown as Record<string, number>)[key]!;
   }
 }
 
-export function recover(truth: OrbitInput, measurementsFor: (seed: number) => MeasurementInput[], request: Omit<FitRequest, 'stars'> & { hints?: FitRequest['stars'][number]['hints'] }, realizations: number, firstSeed = 1000): RecoveryStats {
-  const per: Record<string, { worstSigma: number; inside: number; beyond3: number; sumZ: number }> = {};
-  let chi = 0, inside = 0, total = 0;
+export function recover(
+  truth: OrbitInput,
+  measurementsFor: (seed: number) => MeasurementInput[],
+  request: Omit<FitRequest, 'stars'> & { hints?: FitRequest['stars'][number]['hints'] },
+  realizations: number,
+  firstSeed = 1000,
+): RecoveryStats {
+  const per: Record<string, { worstSigma: number; inside: number; beyond3: number; sumZ: number }> =
+    {};
+  let chi = 0,
+    inside = 0,
+    total = 0;
   for (let k = 0; k < realizations; k++) {
     const { hints, ...rest } = request;
-    const res = fitOrbits({ ...rest, stars: [{ name: 'X', measurements: measurementsFor(firstSeed + k), ...(hints ? { hints } : {}) }] });
+    const res = fitOrbits({
+      ...rest,
+      stars: [
+        { name: 'X', measurements: measurementsFor(firstSeed + k), ...(hints ? { hints } : {}) },
+      ],
+    });
     chi += res.reducedChi2!;
     for (const p of res.parameters) {
       if (p.fixed) continue;
@@ -57,11 +91,24 @@ export function recover(truth: OrbitInput, measurementsFor: (seed: number) => Me
       e.worstSigma = Math.max(e.worstSigma, z);
       e.sumZ += d / p.sigma;
       if (z > 3) e.beyond3++;
-      if (z <= 1) { e.inside++; inside++; }
+      if (z <= 1) {
+        e.inside++;
+        inside++;
+      }
       total++;
     }
   }
-  const perParameter = Object.fromEntries(Object.entries(per).map(([k, v]) => [k, { worstSigma: v.worstSigma, beyond3: v.beyond3, within1: v.inside / realizations, meanZ: v.sumZ / realizations }]));
+  const perParameter = Object.fromEntries(
+    Object.entries(per).map(([k, v]) => [
+      k,
+      {
+        worstSigma: v.worstSigma,
+        beyond3: v.beyond3,
+        within1: v.inside / realizations,
+        meanZ: v.sumZ / realizations,
+      },
+    ]),
+  );
   return {
     realizations,
     perParameter,
@@ -72,7 +119,10 @@ export function recover(truth: OrbitInput, measurementsFor: (seed: number) => Me
 }
 
 export function describeStats(name: string, s: RecoveryStats): string {
-  const rows = Object.entries(s.perParameter).map(([k, v]) => `  ${k.padEnd(22)} worst ${v.worstSigma.toFixed(2)}σ, beyond 3σ ${v.beyond3}, within 1σ ${(100 * v.within1).toFixed(0)}%, mean z ${v.meanZ >= 0 ? '+' : ''}${v.meanZ.toFixed(2)}`);
+  const rows = Object.entries(s.perParameter).map(
+    ([k, v]) =>
+      `  ${k.padEnd(22)} worst ${v.worstSigma.toFixed(2)}σ, beyond 3σ ${v.beyond3}, within 1σ ${(100 * v.within1).toFixed(0)}%, mean z ${v.meanZ >= 0 ? '+' : ''}${v.meanZ.toFixed(2)}`,
+  );
   return `${name}: ${s.realizations} realizations, pooled within 1σ ${(100 * s.pooledWithin1).toFixed(1)}%, mean χ²/dof ${s.meanReducedChi2.toFixed(3)}, worst ${s.worstSigma.toFixed(2)}σ\n${rows.join('\n')}`;
 }
 
@@ -90,7 +140,15 @@ export function describeStats(name: string, s: RecoveryStats): string {
  * - no bias: each parameter's mean z lies within 3/√N of zero (the 3σ band of a mean of N unit
  *   normals; common practice, no source).
  */
-export function recoveryCheck(c: { name: string; truth: OrbitInput; measurements: (seed: number) => MeasurementInput[]; hints: NonNullable<FitRequest['stars'][number]['hints']> }, realizations = 50): void {
+export function recoveryCheck(
+  c: {
+    name: string;
+    truth: OrbitInput;
+    measurements: (seed: number) => MeasurementInput[];
+    hints: NonNullable<FitRequest['stars'][number]['hints']>;
+  },
+  realizations = 50,
+): void {
   it(`recovers ${c.name} over ${realizations} seeded realizations`, () => {
     const s = recover(c.truth, c.measurements, { hints: c.hints }, realizations);
     console.log(describeStats(c.name, s));

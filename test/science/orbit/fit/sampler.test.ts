@@ -20,17 +20,24 @@ function shape(p: { sigma: number; percentiles?: number[] }) {
 }
 
 function report(name: string, r: FitResult): void {
-  const rows = r.parameters.filter((p) => !p.fixed).map((p) => {
-    const s = shape(p);
-    return `  ${p.name.padEnd(24)} σ ${p.sigma.toPrecision(3).padStart(9)}  half-width/σ ${s.ratio.toFixed(2)}  asymmetry ${s.asym.toFixed(2)}  (median − best)/σ ${((s.median - p.value) / p.sigma).toFixed(2)}`;
-  });
-  console.log(`${name}: acceptance ${r.sampler!.acceptance.toFixed(2)}, ${r.sampler!.samples} samples\n${rows.join('\n')}`);
+  const rows = r.parameters
+    .filter((p) => !p.fixed)
+    .map((p) => {
+      const s = shape(p);
+      return `  ${p.name.padEnd(24)} σ ${p.sigma.toPrecision(3).padStart(9)}  half-width/σ ${s.ratio.toFixed(2)}  asymmetry ${s.asym.toFixed(2)}  (median − best)/σ ${((s.median - p.value) / p.sigma).toFixed(2)}`;
+    });
+  console.log(
+    `${name}: acceptance ${r.sampler!.acceptance.toFixed(2)}, ${r.sampler!.samples} samples\n${rows.join('\n')}`,
+  );
 }
 
 describe('posterior sampling', () => {
   it('agrees with the covariance on a well-constrained orbit', () => {
     const c = CLASSES.eccentric!;
-    const r = fitOrbits({ stars: [{ name: 'X', measurements: c.measurements(77), hints: c.hints }], sample: { seed: 5, steps: 1000, burn: 600 } });
+    const r = fitOrbits({
+      stars: [{ name: 'X', measurements: c.measurements(77), hints: c.hints }],
+      sample: { seed: 5, steps: 1000, burn: 600 },
+    });
     report('well constrained', r);
     for (const p of r.parameters) {
       const s = shape(p);
@@ -43,9 +50,26 @@ describe('posterior sampling', () => {
 
   it('is wider than the covariance and lopsided on a poorly covered orbit, next periapsis included', () => {
     // A 25-year orbit seen for 8 years, astrometry only.
-    const truth = { elements: { periodYears: 25, periapsis: 'J2026.0', eccentricity: 0.5, semiMajorAxisArcsec: 0.3, inclinationDeg: 60, ascendingNodeDeg: 100, argPeriapsisDeg: 40 } };
-    const measurements = simulate(truth, { astrometryJd: epochs(2457023.5, 8 * 365.25, 20, new SeededRandom(9), 10), sigmaMas: 0.5 }, 10);
-    const r = fitOrbits({ stars: [{ name: 'Y', measurements, hints: { periodYears: { min: 10, max: 100 } } }], sample: { seed: 5, steps: 1000, burn: 1000 } });
+    const truth = {
+      elements: {
+        periodYears: 25,
+        periapsis: 'J2026.0',
+        eccentricity: 0.5,
+        semiMajorAxisArcsec: 0.3,
+        inclinationDeg: 60,
+        ascendingNodeDeg: 100,
+        argPeriapsisDeg: 40,
+      },
+    };
+    const measurements = simulate(
+      truth,
+      { astrometryJd: epochs(2457023.5, 8 * 365.25, 20, new SeededRandom(9), 10), sigmaMas: 0.5 },
+      10,
+    );
+    const r = fitOrbits({
+      stars: [{ name: 'Y', measurements, hints: { periodYears: { min: 10, max: 100 } } }],
+      sample: { seed: 5, steps: 1000, burn: 1000 },
+    });
     report('poorly covered', r);
     const P = shape(r.parameters.find((p) => p.name === 'Y.periodYears')!);
     expect(P.ratio).toBeGreaterThan(1.1);
@@ -55,15 +79,22 @@ describe('posterior sampling', () => {
     expect(lopsided).toBeGreaterThan(0.5);
     const next = r.stars[0]!.quantities.find((q) => q.name === 'nextPeriapsisJd')!;
     const [p2, , p50, , p97] = next.percentiles!;
-    const lower = p50! - p2!, upper = p97! - p50!;
-    console.log(`next periapsis: linear 1σ ${next.sigma.toFixed(1)} d; posterior 2.5/50/97.5% at ${(p2! - next.value).toFixed(1)}, ${(p50! - next.value).toFixed(1)}, ${(p97! - next.value).toFixed(1)} d from the best fit`);
+    const lower = p50! - p2!,
+      upper = p97! - p50!;
+    console.log(
+      `next periapsis: linear 1σ ${next.sigma.toFixed(1)} d; posterior 2.5/50/97.5% at ${(p2! - next.value).toFixed(1)}, ${(p50! - next.value).toFixed(1)}, ${(p97! - next.value).toFixed(1)} d from the best fit`,
+    );
     expect(p97! - p2!).toBeGreaterThan(1.2 * 3.92 * next.sigma); // wider than the Gaussian 95% interval
     expect(Math.max(lower / upper, upper / lower)).toBeGreaterThan(1.5);
   });
 
   it('is reproducible: the same seed gives the same percentiles', () => {
     const c = CLASSES.faceOn!;
-    const once = () => fitOrbits({ stars: [{ name: 'Z', measurements: c.measurements(3), hints: c.hints }], sample: { seed: 42, steps: 200, burn: 100 } }).parameters.map((p) => p.percentiles);
+    const once = () =>
+      fitOrbits({
+        stars: [{ name: 'Z', measurements: c.measurements(3), hints: c.hints }],
+        sample: { seed: 42, steps: 200, burn: 100 },
+      }).parameters.map((p) => p.percentiles);
     expect(once()).toEqual(once());
   });
 });

@@ -20,7 +20,9 @@ function fitFrom(sigmaMas: number, seed: number) {
   // Separations and position angles over 1935–1975 (about one period), as a visual observer would have them.
   const jd = epochs(parseEpoch('J1935.0'), 40 * 365.25, 40, new SeededRandom(seed), 30);
   const measurements = simulate(MEEUS_57A, { astrometryJd: jd, sigmaMas, polar: true }, seed + 1);
-  const result = fitOrbits({ stars: [{ name: 'B57', measurements, hints: { periodYears: { min: 30, max: 60 } } }] });
+  const result = fitOrbits({
+    stars: [{ name: 'B57', measurements, hints: { periodYears: { min: 30, max: 60 } } }],
+  });
   return { result, orbit: validateOrbit(result.stars[0]!.orbit) };
 }
 
@@ -28,7 +30,9 @@ describe('fitted visual binary reproduces Meeus Example 57.a', () => {
   it('with measurements of negligible error: θ and ρ at 1980.0 to the book’s last digit', () => {
     const { result, orbit } = fitFrom(0.01, 57);
     const p = predict(orbit, J1980);
-    console.log(`57.a from a fit (σ = 0.01 mas): θ = ${p.positionAngleDeg.toFixed(4)}°, ρ = ${p.separationMas.toFixed(3)} mas, χ²/dof = ${result.reducedChi2!.toFixed(3)}`);
+    console.log(
+      `57.a from a fit (σ = 0.01 mas): θ = ${p.positionAngleDeg.toFixed(4)}°, ρ = ${p.separationMas.toFixed(3)} mas, χ²/dof = ${result.reducedChi2!.toFixed(3)}`,
+    );
     expect(Math.abs(p.positionAngleDeg - THETA_DEG)).toBeLessThan(0.01);
     expect(Math.abs(p.separationMas - RHO_MAS)).toBeLessThan(0.1);
   });
@@ -36,11 +40,17 @@ describe('fitted visual binary reproduces Meeus Example 57.a', () => {
   it('with 5 mas errors: the book’s θ and ρ lie within 3σ of the fitted prediction', () => {
     const { result, orbit } = fitFrom(5, 1957);
     const p = predict(orbit, J1980);
-    const [sTheta, sRho] = linearSigma(orbit, (o) => {
-      const q = predict(o, J1980);
-      return [q.positionAngleDeg, q.separationMas];
-    }, new Set([0]));
-    console.log(`57.a from a fit (σ = 5 mas): θ = ${p.positionAngleDeg.toFixed(2)} ± ${sTheta!.toFixed(2)}°, ρ = ${p.separationMas.toFixed(1)} ± ${sRho!.toFixed(1)} mas, χ²/dof = ${result.reducedChi2!.toFixed(3)}`);
+    const [sTheta, sRho] = linearSigma(
+      orbit,
+      (o) => {
+        const q = predict(o, J1980);
+        return [q.positionAngleDeg, q.separationMas];
+      },
+      new Set([0]),
+    );
+    console.log(
+      `57.a from a fit (σ = 5 mas): θ = ${p.positionAngleDeg.toFixed(2)} ± ${sTheta!.toFixed(2)}°, ρ = ${p.separationMas.toFixed(1)} ± ${sRho!.toFixed(1)} mas, χ²/dof = ${result.reducedChi2!.toFixed(3)}`,
+    );
     expect(Math.abs(p.positionAngleDeg - THETA_DEG)).toBeLessThan(3 * sTheta!);
     expect(Math.abs(p.separationMas - RHO_MAS)).toBeLessThan(3 * sRho!);
     expect(sRho!).toBeLessThan(5); // the fit sharpens: 40 epochs beat one
