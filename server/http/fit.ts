@@ -68,13 +68,10 @@ const Options = {
     .optional()
     .openapi({ description: 'fit the primary’s offset (mas) and drift (mas/yr) on the sky' }),
   frameEpoch: Epoch.optional(),
-  fixed: z
-    .record(z.string(), z.number())
-    .optional()
-    .openapi({
-      description:
-        'parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units',
-    }),
+  fixed: z.record(z.string(), z.number()).optional().openapi({
+    description:
+      'parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units',
+  }),
   priors: z
     .record(z.string(), z.object({ mean: z.number(), sigma: z.number() }).strict())
     .optional()
@@ -101,12 +98,10 @@ const FitBody = z
         z
           .object({
             name: z.string(),
-            measurements: z
-              .array(Any)
-              .openapi({
-                description:
-                  'offsets, separation or radial-velocity measurements (fields as in /measurements)',
-              }),
+            measurements: z.array(Any).openapi({
+              description:
+                'offsets, separation or radial-velocity measurements (fields as in /measurements)',
+            }),
             hints: Hints.optional(),
           })
           .strict(),
@@ -127,12 +122,9 @@ const StoredBody = z
       .min(1)
       .optional()
       .openapi({ description: 'system fits: only these targets of the system' }),
-    hints: z
-      .record(z.string(), Hints)
-      .optional()
-      .openapi({
-        description: 'search ranges by target name (default: around the current solution’s period)',
-      }),
+    hints: z.record(z.string(), Hints).optional().openapi({
+      description: 'search ranges by target name (default: around the current solution’s period)',
+    }),
     notes: z
       .string()
       .max(2000)

@@ -35,13 +35,10 @@ export const SiteSchema = z
     longitudeDeg: z.number().openapi({ description: 'longitude, degrees east' }),
     elevationM: z.number().openapi({ description: 'height above sea level, m' }),
     timeZone: z.string().openapi({ description: 'IANA time zone', example: 'America/Santiago' }),
-    pressureHpa: z
-      .number()
-      .optional()
-      .openapi({
-        description:
-          'air pressure, hPa (default: standard atmosphere at the elevation; 0: no refraction)',
-      }),
+    pressureHpa: z.number().optional().openapi({
+      description:
+        'air pressure, hPa (default: standard atmosphere at the elevation; 0: no refraction)',
+    }),
     temperatureC: z
       .number()
       .optional()
@@ -68,12 +65,9 @@ export const SiteSchema = z
 export const SkyTargetSchema = z
   .object({
     name: z.string(),
-    raDeg: z
-      .number()
-      .openapi({
-        description:
-          "ICRS right ascension at epoch, degrees (the primary's when an orbit is given)",
-      }),
+    raDeg: z.number().openapi({
+      description: "ICRS right ascension at epoch, degrees (the primary's when an orbit is given)",
+    }),
     decDeg: z.number().openapi({ description: 'ICRS declination at epoch, degrees' }),
     pmRaMasYr: z
       .number()
@@ -111,13 +105,10 @@ export const ConstraintsSchema = z
       .openapi({ description: 'applies while the Moon is up; default 30' }),
     sunAvoidanceDeg: z.number().optional().openapi({ description: "overrides the site's" }),
     useHorizonMask: z.boolean().optional(),
-    zenithSeeingArcsec: z
-      .number()
-      .optional()
-      .openapi({
-        description:
-          "zenith seeing FWHM, arcsec: the seeing at each window's best airmass is reported",
-      }),
+    zenithSeeingArcsec: z.number().optional().openapi({
+      description:
+        "zenith seeing FWHM, arcsec: the seeing at each window's best airmass is reported",
+    }),
   })
   .strict()
   .openapi('Constraints');
@@ -125,20 +116,15 @@ export const ConstraintsSchema = z
 const NightRequest = z
   .object({
     site: SiteSchema,
-    date: z
-      .string()
-      .openapi({
-        description: 'local date on which the evening falls, YYYY-MM-DD',
-        example: '2027-06-15',
-      }),
+    date: z.string().openapi({
+      description: 'local date on which the evening falls, YYYY-MM-DD',
+      example: '2027-06-15',
+    }),
     targets: z.array(SkyTargetSchema).max(200),
     constraints: ConstraintsSchema.optional(),
-    method: z
-      .enum(['fast', 'exact'])
-      .optional()
-      .openapi({
-        description: 'fast (default) or exact (astronomy-engine per instant, at most 20 targets)',
-      }),
+    method: z.enum(['fast', 'exact']).optional().openapi({
+      description: 'fast (default) or exact (astronomy-engine per instant, at most 20 targets)',
+    }),
     stepMinutes: z
       .number()
       .optional()

@@ -19,14 +19,12 @@ export async function recordAudit(
   entityId: number | null,
   detail?: unknown,
 ): Promise<void> {
-  await tx
-    .insert(auditTrail)
-    .values({
-      at: nowIso(),
-      userId: actor.userId,
-      action,
-      entity,
-      entityId,
-      detail: detail ?? null,
-    });
+  await tx.insert(auditTrail).values({
+    at: nowIso(),
+    userId: actor.userId,
+    action,
+    entity,
+    entityId,
+    detail: detail ?? null,
+  });
 }

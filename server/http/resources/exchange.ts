@@ -30,13 +30,9 @@ const ImportQuery = z.object({
     .openapi({ description: 'check every row, write nothing' }),
 });
 const CalendarQuery = z.object({
-  at: z
-    .string()
-    .optional()
-    .openapi({
-      description:
-        'the moment the flags are computed for (ISO 8601 with zone, JD, MJD); default now',
-    }),
+  at: z.string().optional().openapi({
+    description: 'the moment the flags are computed for (ISO 8601 with zone, JD, MJD); default now',
+  }),
 });
 const KindParam = z.object({
   kind: z.enum(CSV_KINDS).openapi({ param: { name: 'kind', in: 'path' } }),

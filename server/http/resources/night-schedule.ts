@@ -20,31 +20,21 @@ import { momentJd } from '../../clock.ts';
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const NightScheduleBody = z
   .object({
-    candidates: z
-      .array(z.unknown())
-      .optional()
-      .openapi({
-        description:
-          'blocks to choose from: { id, target, kind, durationMinutes, priority, maxAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"',
-      }),
-    pins: z
-      .array(z.unknown())
-      .optional()
-      .openapi({
-        description:
-          'keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge)',
-      }),
+    candidates: z.array(z.unknown()).optional().openapi({
+      description:
+        'blocks to choose from: { id, target, kind, durationMinutes, priority, maxAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"',
+    }),
+    pins: z.array(z.unknown()).optional().openapi({
+      description:
+        'keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge)',
+    }),
     remove: z.array(z.unknown()).optional().openapi({ description: 'candidate ids to leave out' }),
     slotMinutes: num('slot length, minutes, [1, 30]; default 5'),
     slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
     sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),
-    method: z
-      .enum(SCHEDULE_METHODS)
-      .optional()
-      .openapi({
-        description:
-          '"auto" (default): exact up to 8 candidates, else greedy with local improvement',
-      }),
+    method: z.enum(SCHEDULE_METHODS).optional().openapi({
+      description: '"auto" (default): exact up to 8 candidates, else greedy with local improvement',
+    }),
     blockMinutes: z
       .object({ astrometry: num('default 40'), spectroscopy: num('default 60') })
       .strict()
@@ -56,12 +46,9 @@ export const NightScheduleBody = z
       .openapi({
         description: `the moment of scheduling (ISO 8601, JD, MJD); default now. Blocks begun before it are kept. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock`,
       }),
-    digest: z
-      .string()
-      .optional()
-      .openapi({
-        description: 'accept only: the preview’s digest; 409 if the schedule would now differ',
-      }),
+    digest: z.string().optional().openapi({
+      description: 'accept only: the preview’s digest; 409 if the schedule would now differ',
+    }),
   })
   .strict();
 

@@ -6,13 +6,10 @@ import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 
 const Query = z.object({
-  curves: z
-    .enum(['true', 'false'])
-    .default('false')
-    .openapi({
-      description:
-        'include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude',
-    }),
+  curves: z.enum(['true', 'false']).default('false').openapi({
+    description:
+      'include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude',
+  }),
 });
 
 export function nightVisibilityRoutes(store: Store) {

@@ -53,12 +53,10 @@ export function blockRoutes(store: Store) {
     patch: patchOf(BlockFields),
     row: rowOf(BlockFields, {
       version: z.number().int(),
-      origin: z
-        .enum(BLOCK_ORIGINS)
-        .openapi({
-          description:
-            'who made the block: an accepted season plan, night schedule, or a person; set once',
-        }),
+      origin: z.enum(BLOCK_ORIGINS).openapi({
+        description:
+          'who made the block: an accepted season plan, night schedule, or a person; set once',
+      }),
     }),
     filters: z.object({
       nightId: optionalId,

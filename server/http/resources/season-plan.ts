@@ -30,13 +30,10 @@ export const SeasonPlanBody = z
       .array(z.number().int().positive())
       .optional()
       .openapi({ description: 'sites of the campaign to plan; default all' }),
-    nights: z
-      .enum(NIGHT_CHOICES)
-      .optional()
-      .openapi({
-        description:
-          '"allocated" (default): the campaign’s stored nights; "all": every night of the range',
-      }),
+    nights: z.enum(NIGHT_CHOICES).optional().openapi({
+      description:
+        '"allocated" (default): the campaign’s stored nights; "all": every night of the range',
+    }),
     at: z
       .string()
       .optional()
@@ -61,12 +58,9 @@ export const SeasonPlanBody = z
     extraEpochsPerTarget: num(
       'epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0',
     ),
-    digest: z
-      .string()
-      .optional()
-      .openapi({
-        description: 'accept only: the preview’s digest; 409 if the plan would now differ',
-      }),
+    digest: z.string().optional().openapi({
+      description: 'accept only: the preview’s digest; 409 if the plan would now differ',
+    }),
   })
   .strict();
 

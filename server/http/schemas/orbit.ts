@@ -7,12 +7,10 @@ import { z } from '@hono/zod-openapi';
 import { COVARIANCE_PARAMETERS } from '../../science/orbit/index.ts';
 import { EVENT_KINDS } from '../../science/orbit/index.ts';
 
-const epoch = z
-  .string()
-  .openapi({
-    description: 'ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"',
-    example: '2027-03-01T00:00:00Z',
-  });
+const epoch = z.string().openapi({
+  description: 'ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"',
+  example: '2027-03-01T00:00:00Z',
+});
 
 const Campbell = z
   .object({

@@ -58,15 +58,13 @@ async function writeOutcomes(
   }
   await tx.delete(blockOutcomes).where(eq(blockOutcomes.reportId, report.id));
   for (const o of outcomes) {
-    await tx
-      .insert(blockOutcomes)
-      .values({
-        reportId: report.id,
-        blockId: o.blockId,
-        status: o.status,
-        exposureMinutes: o.exposureMinutes ?? null,
-        notes: o.notes,
-      });
+    await tx.insert(blockOutcomes).values({
+      reportId: report.id,
+      blockId: o.blockId,
+      status: o.status,
+      exposureMinutes: o.exposureMinutes ?? null,
+      notes: o.notes,
+    });
     const block = (await findById(tx, blockEntity, o.blockId))!;
     if (block.status !== o.status)
       await updateIn(tx, blockEntity, actor, block.id, { status: o.status }, block.version);
