@@ -6,7 +6,7 @@
 import { mkdirSync } from 'node:fs';
 import { dirname, isAbsolute, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { createClient, type Client } from '@libsql/client';
+import { createClient, type Client, type Transaction } from '@libsql/client';
 import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import * as schema from '../../db/schema.ts';
@@ -15,6 +15,16 @@ export type Db = LibSQLDatabase<typeof schema>;
 /** A transaction handle or the database itself: repositories accept either. */
 export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
 export type DbOrTx = Db | Tx;
+
+/**
+ * The libSQL transaction under a drizzle transaction (drizzle-orm 0.45 keeps it at `session.tx`),
+ * for bulk statements with plain bound parameters; null for the database itself or if drizzle
+ * moves it (callers then fall back to drizzle's builders).
+ */
+export function libsqlTransaction(tx: DbOrTx): Transaction | null {
+  const raw = (tx as unknown as { session?: { tx?: Transaction } }).session?.tx;
+  return raw && typeof raw.execute === 'function' ? raw : null;
+}
 
 const REPO_ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 export const MIGRATIONS_FOLDER = resolve(REPO_ROOT, 'db/migrations');

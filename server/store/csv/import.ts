@@ -4,42 +4,27 @@
  * file); any bad row rolls the whole file back, and the report lists every bad row with its line,
  * column, value and rule. A dry run does everything and then rolls back.
  */
-import { parse } from 'csv-parse/sync';
 import { and, eq } from 'drizzle-orm';
 import { systems, targets } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
-import type { DbOrTx } from '../database.ts';
+import type { DbOrTx, Tx } from '../database.ts';
 import type { Store } from '../index.ts';
 import type { RowProblem } from '../schemas/common.ts';
-import { COLUMNS, NUMERIC, REQUIRED_COLUMNS, type CsvKind } from './columns.ts';
+import type { CsvKind } from './columns.ts';
+import { writeMeasurementsIn } from './import-measurements.ts';
+import { prepareMeasurements, type PreparedMeasurements } from './measurement-rows.ts';
+import {
+  ImportRejected,
+  cellValue,
+  columnOf,
+  readCsv,
+  type ImportProblem,
+  type ImportReport,
+  type Record_,
+} from './read.ts';
 
-export interface ImportProblem {
-  /** Line in the file (1 = header). */
-  line: number;
-  column: string;
-  value: unknown;
-  rule: string;
-}
-
-export interface ImportReport {
-  kind: CsvKind;
-  dryRun: boolean;
-  rows: number;
-  /** Rows written (0 in a dry run or when anything failed). */
-  written: number;
-  problems: ImportProblem[];
-}
-
-/** Thrown when any row is bad: nothing was written; `report.problems` lists every bad row. */
-export class ImportRejected extends Error {
-  override readonly name = 'ImportRejected';
-  constructor(readonly report: ImportReport) {
-    super(
-      `${report.problems.length} problem(s) in ${report.kind} CSV; nothing was written (first: line ${report.problems[0]?.line}, ${report.problems[0]?.column}: ${report.problems[0]?.rule})`,
-    );
-  }
-}
+export { ImportRejected, type ImportProblem, type ImportReport } from './read.ts';
 
 export interface ImportOptions {
   dryRun?: boolean;
@@ -48,88 +33,6 @@ export interface ImportOptions {
 }
 
 class Rollback extends Error {}
-
-type Record_ = Record<string, string>;
-const MAX_ROWS = 200_000;
-
-function readCsv(
-  kind: CsvKind,
-  text: string,
-): { header: string[]; rows: { line: number; cells: Record_ }[] } {
-  let records: { record: string[]; info: { lines: number } }[];
-  try {
-    records = parse(text, {
-      info: true,
-      skip_empty_lines: true,
-      trim: true,
-      bom: true,
-      relax_column_count: false,
-    }) as never;
-  } catch (err) {
-    const e = err as Error & { lines?: number };
-    throw new ImportRejected({
-      kind,
-      dryRun: false,
-      rows: 0,
-      written: 0,
-      problems: [
-        {
-          line: e.lines ?? 0,
-          column: '(file)',
-          value: null,
-          rule: `is not valid CSV: ${e.message}`,
-        },
-      ],
-    });
-  }
-  const [head, ...body] = records;
-  const problems: ImportProblem[] = [];
-  if (!head)
-    problems.push({
-      line: 1,
-      column: '(header)',
-      value: null,
-      rule: 'the file is empty; the first line must name the columns',
-    });
-  const header = head?.record ?? [];
-  const known = COLUMNS[kind];
-  header.forEach((h) => {
-    if (!known.includes(h))
-      problems.push({
-        line: 1,
-        column: h,
-        value: h,
-        rule: `is not a column of ${kind} CSV; known: ${known.join(', ')}`,
-      });
-  });
-  for (const r of REQUIRED_COLUMNS[kind])
-    if (head && !header.includes(r))
-      problems.push({ line: 1, column: r, value: null, rule: 'is a required column' });
-  if (body.length > MAX_ROWS)
-    problems.push({
-      line: 1,
-      column: '(file)',
-      value: body.length,
-      rule: `has more than ${MAX_ROWS} rows; split it`,
-    });
-  if (problems.length)
-    throw new ImportRejected({ kind, dryRun: false, rows: body.length, written: 0, problems });
-  const rows = body.map(({ record, info }) => ({
-    line: info.lines,
-    cells: Object.fromEntries(header.map((h, j) => [h, record[j] ?? ''])),
-  }));
-  return { header, rows };
-}
-
-function cellValue(column: string, cell: string): unknown {
-  if (cell === '') return undefined;
-  if (NUMERIC.has(column)) {
-    const x = Number(cell);
-    return Number.isFinite(x) ? x : cell;
-  }
-  if (column === 'makeCurrent') return cell === 'true' ? true : cell === 'false' ? false : cell;
-  return cell;
-}
 
 /** Names already resolved in this import (a file usually repeats a few targets many times). */
 type NameCache = Map<string, number>;
@@ -188,8 +91,6 @@ async function toInput(
     return { ...rest, systemId: sys.id };
   }
   const targetId = await targetIdOf(tx, v.system, v.target, cache);
-  const { system: _s, target: _t, ...rest } = v;
-  if (kind === 'measurements') return { ...rest, targetId };
   const on = typeof v.relativity === 'string' ? v.relativity.split(/[\s;|]+/).filter(Boolean) : [];
   for (const s of on)
     if (!RELATIVITY.includes(s))
@@ -232,19 +133,6 @@ async function toInput(
   };
 }
 
-/** The CSV column a field path of the repository input refers to. */
-function columnOf(field: string): string {
-  const last =
-    field
-      .split('.')
-      .filter((p) => !/^\d+$/.test(p))
-      .pop() ?? field;
-  if (last === 'targetId') return 'target';
-  if (last === 'systemId') return 'system';
-  if (field.startsWith('orbit.relativity')) return 'relativity';
-  return last;
-}
-
 function problemsOf(err: unknown, line: number): ImportProblem[] {
   if (err instanceof InputError) {
     const list: RowProblem[] = (err as InputError & { problems?: RowProblem[] }).problems ?? [
@@ -257,6 +145,7 @@ function problemsOf(err: unknown, line: number): ImportProblem[] {
   throw err;
 }
 
+/** Import a CSV file of `kind`: all rows or none (ImportRejected lists every bad row). */
 export async function importCsv(
   store: Store,
   actor: Actor,
@@ -264,34 +153,68 @@ export async function importCsv(
   text: string,
   options: ImportOptions = {},
 ): Promise<ImportReport> {
+  if (kind === 'measurements')
+    return importPreparedMeasurements(store, actor, prepareMeasurements(text), options);
   const { rows } = readCsv(kind, text);
   const dryRun = options.dryRun ?? false;
-  const repo =
-    kind === 'targets'
-      ? store.targets
-      : kind === 'orbits'
-        ? store.orbitSolutions
-        : store.measurements;
+  const repo = kind === 'targets' ? store.targets : store.orbitSolutions;
   const problems: ImportProblem[] = [];
   const report: ImportReport = { kind, dryRun, rows: rows.length, written: 0, problems };
-  try {
-    await store.db.transaction(async (tx) => {
-      const cache: NameCache = new Map();
-      for (const [i, { line, cells }] of rows.entries()) {
-        try {
-          await repo.createIn(tx, actor, await toInput(tx, kind, cells, cache));
-        } catch (err) {
-          problems.push(...problemsOf(err, line));
-        }
-        await options.onRow?.(i);
+  await rollingBack(store, async (tx) => {
+    const cache: NameCache = new Map();
+    for (const [i, { line, cells }] of rows.entries()) {
+      try {
+        await repo.createIn(tx, actor, await toInput(tx, kind, cells, cache));
+      } catch (err) {
+        problems.push(...problemsOf(err, line));
       }
-      if (problems.length > 0 || dryRun) throw new Rollback();
-      await recordAudit(tx, actor, 'import', kind, null, { rows: rows.length });
+      await options.onRow?.(i);
+    }
+    if (problems.length > 0 || dryRun) throw new Rollback();
+    await recordAudit(tx, actor, 'import', kind, null, { rows: rows.length });
+  });
+  return finish(report);
+}
+
+/**
+ * Write a measurements file already parsed and checked by `prepareMeasurements` (the server runs
+ * that part in a worker thread): names and blocks resolved, then batched inserts, in one transaction.
+ */
+export async function importPreparedMeasurements(
+  store: Store,
+  actor: Actor,
+  prepared: PreparedMeasurements,
+  options: ImportOptions = {},
+): Promise<ImportReport> {
+  const dryRun = options.dryRun ?? false;
+  const report: ImportReport = {
+    kind: 'measurements',
+    dryRun,
+    rows: prepared.total,
+    written: 0,
+    problems: [],
+  };
+  await rollingBack(store, async (tx) => {
+    report.problems = await writeMeasurementsIn(tx, actor, prepared, {
+      dryRun,
+      ...(options.onRow ? { onRow: options.onRow } : {}),
     });
+    if (report.problems.length > 0 || dryRun) throw new Rollback();
+  });
+  return finish(report);
+}
+
+/** Run `write` in a transaction; a Rollback thrown inside undoes it quietly. */
+async function rollingBack(store: Store, write: (tx: Tx) => Promise<void>): Promise<void> {
+  try {
+    await store.db.transaction(write);
   } catch (err) {
     if (!(err instanceof Rollback)) throw err;
   }
-  if (problems.length > 0) throw new ImportRejected(report);
-  report.written = dryRun ? 0 : rows.length;
+}
+
+function finish(report: ImportReport): ImportReport {
+  if (report.problems.length > 0) throw new ImportRejected(report);
+  report.written = report.dryRun ? 0 : report.rows;
   return report;
 }

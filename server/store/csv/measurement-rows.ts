@@ -1,0 +1,50 @@
+/**
+ * A measurements CSV checked without the database: every row through the measurement schema and
+ * epoch normalisation, giving plain column values (structured-clonable, so a worker thread can do
+ * this part) and every problem with its line. Names (system, target) and block references are
+ * resolved afterwards, inside the import's transaction.
+ */
+import { measurementRow } from '../repos/measurement-rules.ts';
+import { MeasurementInput } from '../schemas/entities.ts';
+import { problemsOf } from '../schemas/common.ts';
+import { cellValue, columnOf, readCsv, type ImportProblem } from './read.ts';
+
+/** One checked row: the names to resolve and the measurement's column values (no targetId yet). */
+export interface PreparedMeasurement {
+  line: number;
+  system: unknown;
+  target: unknown;
+  row: Record<string, unknown>;
+}
+
+export interface PreparedMeasurements {
+  rows: PreparedMeasurement[];
+  /** Rows in the file (bad ones included). */
+  total: number;
+  problems: ImportProblem[];
+}
+
+/** Stand-in for the target id while the row's shape is checked; replaced once the name is resolved. */
+const UNRESOLVED_TARGET = 1;
+
+/** Parse and check a measurements CSV (throws ImportRejected for a broken file or header). */
+export function prepareMeasurements(text: string): PreparedMeasurements {
+  const { rows } = readCsv('measurements', text);
+  const out: PreparedMeasurement[] = [];
+  const problems: ImportProblem[] = [];
+  for (const { line, cells } of rows) {
+    const { system, target, ...rest } = Object.fromEntries(
+      Object.entries(cells).map(([k, c]) => [k, cellValue(k, c)]),
+    );
+    const input = { ...rest, targetId: UNRESOLVED_TARGET };
+    const r = MeasurementInput.safeParse(input);
+    if (!r.success) {
+      for (const p of problemsOf(r.error, input))
+        problems.push({ line, column: columnOf(p.field), value: p.value, rule: p.rule });
+      continue;
+    }
+    const { targetId: _t, ...row } = measurementRow(r.data);
+    out.push({ line, system, target, row });
+  }
+  return { rows: out, total: rows.length, problems };
+}
