@@ -13,6 +13,7 @@ import { storeRoutes } from './resources/index.ts';
 import { mountClient } from './client-static.ts';
 import type { Store } from '../store/index.ts';
 import { validationHook } from './validation.ts';
+import { responseCheck } from './response-check.ts';
 
 export const VERSION = '0.1.0';
 
@@ -23,12 +24,16 @@ export interface AppOptions {
   store?: Store;
   /** A built client folder (client/dist) to serve after the API, with index.html for client-side routes. */
   clientDir?: string;
+  /** Check every JSON answer against its route's declared schema (tests; default: EPOCHWRIGHT_CHECK_RESPONSES=1). */
+  checkResponses?: boolean;
 }
 
 export function createApp(options: AppOptions = {}) {
   const maxBodyBytes = options.maxBodyBytes ?? 2 * 1024 * 1024;
   const app = new OpenAPIHono({ defaultHook: validationHook });
   app.onError((err, c) => errorResponse(c, err));
+  if (options.checkResponses ?? process.env.EPOCHWRIGHT_CHECK_RESPONSES === '1')
+    app.use('/api/*', responseCheck(app));
   app.use(
     '/api/*',
     bodyLimit({

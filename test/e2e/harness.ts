@@ -50,6 +50,7 @@ export async function startServer(): Promise<RunningServer> {
       DATABASE_URL: `file:${join(dir, 'e2e.db')}`,
       EPOCHWRIGHT_DEMO: '1',
       EPOCHWRIGHT_NOW: TEST_NOW,
+      EPOCHWRIGHT_CHECK_RESPONSES: '1',
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
