@@ -17,13 +17,9 @@ import {
   MonteCarloSchema,
   OrbitSchema,
 } from './schemas/orbit.ts';
+import { EphemerisAnswer, EventsAnswer } from './schemas/orbit-output.ts';
+import { computeErrorResponses as errors, json } from './schemas/responses.ts';
 import { validationHook } from './validation.ts';
-
-const json = (schema: z.ZodType, description: string) => ({
-  content: { 'application/json': { schema } },
-  description,
-});
-const Any = z.record(z.string(), z.unknown());
 
 const EphemerisRequest = z
   .object({
@@ -45,11 +41,6 @@ const EventsRequest = z
   })
   .strict();
 
-const errors = {
-  400: json(Any, 'malformed request'),
-  422: json(Any, 'a value breaks a rule (field, value, rule in details)'),
-};
-
 const ephemerisRoute = createRoute({
   method: 'post',
   path: '/ephemeris',
@@ -58,7 +49,10 @@ const ephemerisRoute = createRoute({
     body: { content: { 'application/json': { schema: EphemerisRequest } }, required: true },
   },
   responses: {
-    200: json(Any, 'the orbit in both forms, its physical quantities, and one row per epoch'),
+    200: json(
+      EphemerisAnswer,
+      'the orbit in both forms, its physical quantities, and one row per epoch',
+    ),
     ...errors,
   },
 });
@@ -70,7 +64,7 @@ const eventsRoute = createRoute({
     'Periapsis, apoapsis, nodes, radial-velocity extrema and separation extrema in an interval',
   request: { body: { content: { 'application/json': { schema: EventsRequest } }, required: true } },
   responses: {
-    200: json(Any, 'events soonest first, each with its state and date uncertainty'),
+    200: json(EventsAnswer, 'events soonest first, each with its state and date uncertainty'),
     ...errors,
   },
 });

@@ -20,13 +20,9 @@ import {
   type Target,
 } from '../science/sky/index.ts';
 import { OrbitSchema } from './schemas/orbit.ts';
+import { computeErrorResponses as errors, json } from './schemas/responses.ts';
+import { NightReportSchema, SeasonReportSchema } from './schemas/sky-output.ts';
 import { validationHook } from './validation.ts';
-
-const json = (schema: z.ZodType, description: string) => ({
-  content: { 'application/json': { schema } },
-  description,
-});
-const Any = z.record(z.string(), z.unknown());
 
 export const SiteSchema = z
   .object({
@@ -158,18 +154,16 @@ const SeasonRequest = z
   })
   .strict();
 
-const errors = {
-  400: json(Any, 'malformed request'),
-  422: json(Any, 'a value breaks a rule (field, value, rule in details)'),
-};
-
 const nightRoute = createRoute({
   method: 'post',
   path: '/sky/night',
   summary:
     "One night at a site: Sun, twilights, darkness, Moon, and each target's windows and altitude curve",
   request: { body: { content: { 'application/json': { schema: NightRequest } }, required: true } },
-  responses: { 200: json(Any, "the night report; times in UTC and in the site's zone"), ...errors },
+  responses: {
+    200: json(NightReportSchema, "the night report; times in UTC and in the site's zone"),
+    ...errors,
+  },
 });
 
 const seasonRoute = createRoute({
@@ -178,7 +172,7 @@ const seasonRoute = createRoute({
   summary:
     "Observable hours per night across a year, with each target's season start, end and best night",
   request: { body: { content: { 'application/json': { schema: SeasonRequest } }, required: true } },
-  responses: { 200: json(Any, 'the season map'), ...errors },
+  responses: { 200: json(SeasonReportSchema, 'the season map'), ...errors },
 });
 
 function inRange(

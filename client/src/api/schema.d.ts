@@ -99,19 +99,18 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            orbit: components["schemas"]["OrbitDescription"];
+                            predictions: components["schemas"]["EphemerisRow"][];
                         };
                     };
                 };
-                /** @description malformed request */
+                /** @description malformed request (field-level issues in details) */
                 400: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -120,9 +119,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -181,19 +178,18 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            orbit: components["schemas"]["OrbitDescription"];
+                            events: components["schemas"]["OrbitEvent"][];
                         };
                     };
                 };
-                /** @description malformed request */
+                /** @description malformed request (field-level issues in details) */
                 400: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -202,9 +198,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -262,20 +256,16 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["NightReport"];
                     };
                 };
-                /** @description malformed request */
+                /** @description malformed request (field-level issues in details) */
                 400: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -284,9 +274,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -337,20 +325,16 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["SeasonReport"];
                     };
                 };
-                /** @description malformed request */
+                /** @description malformed request (field-level issues in details) */
                 400: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -359,9 +343,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1834,8 +1816,15 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            /** @description the orbit solution the answer was computed from */
+                            solution: {
+                                id: number;
+                                version: number;
+                            };
+                            orbit: components["schemas"]["OrbitDescription"];
+                            predictions: components["schemas"]["EphemerisRow"][];
                         };
+                        "text/csv": string;
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -1969,7 +1958,12 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            /** @description the orbit solution the answer was computed from */
+                            solution: {
+                                id: number;
+                                version: number;
+                            };
+                            events: components["schemas"]["OrbitEvent"][];
                         };
                     };
                 };
@@ -5222,9 +5216,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["NightVisibility"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -10576,40 +10568,136 @@ export interface paths {
 export type webhooks = Record<string, never>;
 export interface components {
     schemas: {
-        Orbit: {
-            elements: {
-                /** @enum {string} */
-                kind: "thiele-innes";
-                periodYears: number;
-                /**
-                 * @description ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"
-                 * @example 2027-03-01T00:00:00Z
-                 */
-                periapsis: string;
-                eccentricity: number;
-                aArcsec: number;
-                bArcsec: number;
-                fArcsec: number;
-                gArcsec: number;
-            } | {
-                /** @enum {string} */
-                kind?: "campbell";
-                /** @description period P, Julian years */
-                periodYears: number;
-                /**
-                 * @description epoch of periapsis T
-                 * @example 2027-03-01T00:00:00Z
-                 */
-                periapsis: string;
-                eccentricity: number;
-                /** @description angular semi-major axis a, arcsec */
-                semiMajorAxisArcsec: number;
-                inclinationDeg: number;
-                /** @description Ω, deg; the node where the star recedes */
-                ascendingNodeDeg: number;
-                /** @description ω, deg */
-                argPeriapsisDeg: number;
+        OrbitDescription: {
+            campbell: components["schemas"]["CampbellElements"];
+            thieleInnes: components["schemas"]["ThieleInnesElements"];
+            physical: components["schemas"]["PhysicalQuantities"];
+            relativity: components["schemas"]["RelativitySwitches"];
+        };
+        CampbellElements: {
+            /** @enum {string} */
+            kind?: "campbell";
+            /** @description period P, Julian years */
+            periodYears: number;
+            /**
+             * @description epoch of periapsis T
+             * @example 2027-03-01T00:00:00Z
+             */
+            periapsis: string;
+            eccentricity: number;
+            /** @description angular semi-major axis a, arcsec */
+            semiMajorAxisArcsec: number;
+            inclinationDeg: number;
+            /** @description Ω, deg; the node where the star recedes */
+            ascendingNodeDeg: number;
+            /** @description ω, deg */
+            argPeriapsisDeg: number;
+        };
+        ThieleInnesElements: {
+            /** @enum {string} */
+            kind: "thiele-innes";
+            periodYears: number;
+            /**
+             * @description ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"
+             * @example 2027-03-01T00:00:00Z
+             */
+            periapsis: string;
+            eccentricity: number;
+            aArcsec: number;
+            bArcsec: number;
+            fArcsec: number;
+            gArcsec: number;
+        };
+        /** @description null without a distance */
+        PhysicalQuantities: {
+            semiMajorAxisAu: number;
+            /** @description mass of the primary (Kepler’s third law), M☉ */
+            massSolar: number;
+            schwarzschildRadiusAu: number;
+            schwarzschildRadiusKm: number;
+            periapsisAu: number;
+            periapsisSchwarzschildRadii: number;
+            apoapsisAu: number;
+            periapsisSpeedKmS: number;
+            /** @description periapsis speed over c */
+            periapsisSpeedFractionC: number;
+            /** @description radial-velocity semi-amplitude K, km/s */
+            semiAmplitudeKmS: number;
+            /** @description Schwarzschild precession, arcmin per orbit */
+            precessionArcminPerOrbit: number;
+            gravitationalRedshiftAtPeriapsisKmS: number;
+            transverseDopplerAtPeriapsisKmS: number;
+            /** @description largest Rømer delay over the orbit, days */
+            romerDelayRangeDays: number;
+        } | null;
+        RelativitySwitches: {
+            romer: boolean;
+            gravitationalRedshift: boolean;
+            transverseDoppler: boolean;
+            precession: boolean;
+        };
+        EphemerisRow: {
+            /** @description ISO 8601 UTC */
+            epoch: string;
+            jd: number;
+            meanAnomalyDeg: number;
+            eccentricAnomalyDeg: number;
+            trueAnomalyDeg: number;
+            /** @description Δα* = Δα·cos δ, east positive, mas */
+            dRaMas: number;
+            /** @description Δδ, north positive, mas */
+            dDecMas: number;
+            separationMas: number;
+            /** @description north through east, [0, 360) deg */
+            positionAngleDeg: number;
+            vRaMasYr: number;
+            vDecMasYr: number;
+            /** @description null without a distance */
+            separation3dAu: number | null;
+            /** @description null without a distance */
+            speedKmS: number | null;
+            /** @description positive behind the primary, au */
+            lineOfSightAu: number | null;
+            /** @description with γ and every switched-on relativistic term, km/s */
+            radialVelocityKmS: number | null;
+            /** @description the Keplerian part alone, km/s */
+            keplerianRvKmS: number | null;
+            /** @description size of the term, included only when switched on */
+            romerDelayDays: number | null;
+            /** @description size of the term, included only when switched on */
+            gravitationalRedshiftKmS: number | null;
+            /** @description size of the term, included only when switched on */
+            transverseDopplerKmS: number | null;
+            /** @description precession of ω accumulated since T, deg */
+            precessionDeg: number | null;
+            /** @description linear 1σ per quantity (same unit); only with a covariance */
+            sigma?: {
+                dRaMas?: number;
+                dDecMas?: number;
+                separationMas?: number;
+                positionAngleDeg?: number;
+                radialVelocityKmS?: number;
             };
+            /** @description Monte Carlo percentiles 2.5, 16, 50, 84, 97.5; on request */
+            percentiles?: {
+                dRaMas?: number[];
+                dDecMas?: number[];
+                separationMas?: number[];
+                positionAngleDeg?: number[];
+                radialVelocityKmS?: number[];
+            };
+        };
+        Error: {
+            error: {
+                /** @description stable, machine-readable */
+                code: string;
+                message: string;
+                /** @description 400: issues (field, rule, code); 422: field, value, rule; 409: the current state */
+                details?: unknown;
+            };
+        };
+        Orbit: {
+            elements: components["schemas"]["ThieleInnesElements"] | components["schemas"]["CampbellElements"];
             /** @description distance, parsec */
             distancePc?: number;
             /** @description systemic velocity γ, km/s */
@@ -10626,6 +10714,198 @@ export interface components {
                 matrix: number[][];
             };
         };
+        OrbitEvent: {
+            /** @enum {string} */
+            kind: "periapsis" | "apoapsis" | "ascending-node" | "descending-node" | "rv-maximum" | "rv-minimum" | "closest-separation" | "widest-separation";
+            jd: number;
+            /** @description observed instant, ISO 8601 UTC */
+            epoch: string;
+            /** @description 0 is the orbit whose periapsis is the elements’ T */
+            orbitNumber: number;
+            state: components["schemas"]["Prediction"];
+            /** @description linear 1σ of the date, days; only with a covariance */
+            sigmaDays?: number;
+            /** @description Monte Carlo percentiles 2.5, 16, 50, 84, 97.5 of the date */
+            percentileEpochs?: string[];
+            /** @description draws in which the event had no counterpart */
+            missingDraws?: number;
+        };
+        Prediction: {
+            /** @description ISO 8601 UTC */
+            epoch: string;
+            jd: number;
+            meanAnomalyDeg: number;
+            eccentricAnomalyDeg: number;
+            trueAnomalyDeg: number;
+            /** @description Δα* = Δα·cos δ, east positive, mas */
+            dRaMas: number;
+            /** @description Δδ, north positive, mas */
+            dDecMas: number;
+            separationMas: number;
+            /** @description north through east, [0, 360) deg */
+            positionAngleDeg: number;
+            vRaMasYr: number;
+            vDecMasYr: number;
+            /** @description null without a distance */
+            separation3dAu: number | null;
+            /** @description null without a distance */
+            speedKmS: number | null;
+            /** @description positive behind the primary, au */
+            lineOfSightAu: number | null;
+            /** @description with γ and every switched-on relativistic term, km/s */
+            radialVelocityKmS: number | null;
+            /** @description the Keplerian part alone, km/s */
+            keplerianRvKmS: number | null;
+            /** @description size of the term, included only when switched on */
+            romerDelayDays: number | null;
+            /** @description size of the term, included only when switched on */
+            gravitationalRedshiftKmS: number | null;
+            /** @description size of the term, included only when switched on */
+            transverseDopplerKmS: number | null;
+            /** @description precession of ω accumulated since T, deg */
+            precessionDeg: number | null;
+        };
+        NightReport: {
+            site: {
+                name: string;
+                timeZone: string;
+                latitudeDeg: number;
+                longitudeDeg: number;
+                elevationM: number;
+                pressureHpa: number;
+                temperatureC: number;
+            };
+            night: {
+                /** @description local date of the evening, YYYY-MM-DD */
+                date: string;
+                start: components["schemas"]["Instant"];
+                end: components["schemas"]["Instant"];
+                hours: number;
+            };
+            sun: {
+                set: components["schemas"]["Instant"] & (Record<string, never> | null);
+                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
+                midnight: components["schemas"]["Instant"];
+                twilights: {
+                    civil: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                    nautical: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                    astronomical: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                };
+            };
+            darkness: {
+                limit: string;
+                intervals: components["schemas"]["Interval"][];
+                hours: number;
+            };
+            moon: {
+                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
+                set: components["schemas"]["Instant"] & (Record<string, never> | null);
+                transit: components["schemas"]["Instant"] & (Record<string, never> | null);
+                illuminatedFraction: number;
+                phaseDeg: number;
+                /** @description topocentric altitude of the centre, no refraction, deg */
+                curve: {
+                    utc: string[];
+                    altitudeDeg: number[];
+                } | null;
+            };
+            constraints: {
+                altitudeLimitDeg: number;
+                maxAirmass: number | null;
+                airmassFormula: string;
+                minMoonSeparationDeg: number;
+                sunAvoidanceDeg: number;
+                horizonMask: boolean;
+            };
+            /** @enum {string} */
+            method: "fast" | "exact";
+            targets: components["schemas"]["TargetNight"][];
+            /** @description safety notes; the site’s rules prevail */
+            cautions: string[];
+        };
+        Instant: {
+            /** @description ISO 8601 UTC */
+            utc: string;
+            /** @description ISO 8601 with the site’s offset */
+            local: string;
+        };
+        Interval: {
+            start: components["schemas"]["Instant"];
+            end: components["schemas"]["Instant"];
+            hours: number;
+        };
+        TargetNight: {
+            name: string;
+            /** @description apparent place of date at the night’s middle, deg */
+            raOfDateDeg: number;
+            decOfDateDeg: number;
+            observableHours: number;
+            windows: components["schemas"]["SkyWindow"][];
+            /** @description at local solar midnight, deg */
+            moonSeparationDeg: number;
+            /** @description at local solar midnight, deg */
+            sunSeparationDeg: number;
+            curve: components["schemas"]["TargetCurve"];
+        };
+        SkyWindow: {
+            start: components["schemas"]["Instant"];
+            end: components["schemas"]["Instant"];
+            hours: number;
+            /**
+             * @description the limit that opens or closes it
+             * @enum {string}
+             */
+            opensBy: "darkness" | "altitude" | "horizon-mask" | "sun-avoidance" | "moon" | "night-edge";
+            /**
+             * @description the limit that opens or closes it
+             * @enum {string}
+             */
+            closesBy: "darkness" | "altitude" | "horizon-mask" | "sun-avoidance" | "moon" | "night-edge";
+            transit: {
+                /** @description ISO 8601 UTC */
+                utc: string;
+                /** @description ISO 8601 with the site’s offset */
+                local: string;
+                altitudeDeg: number;
+                airmass: number;
+            } | null;
+            best: {
+                /** @description ISO 8601 UTC */
+                utc: string;
+                /** @description ISO 8601 with the site’s offset */
+                local: string;
+                altitudeDeg: number;
+                airmass: number;
+                /** @description with zenithSeeingArcsec only */
+                seeingArcsec: number | null;
+                moonSeparationDeg: number;
+            };
+        };
+        /** @description null when no curves were asked */
+        TargetCurve: {
+            utc: string[];
+            altitudeDeg: number[];
+            azimuthDeg: number[];
+            /** @description null below the horizon */
+            airmass: (number | null)[];
+            hourAngleDeg: number[];
+            parallacticAngleDeg: number[];
+            moonSeparationDeg: number[];
+            /** @description with a horizon mask: its altitude at the target’s azimuth, deg */
+            horizonMaskDeg?: number[];
+        } | null;
         Site: {
             name?: string;
             /** @description geodetic latitude, degrees, north positive */
@@ -10682,6 +10962,116 @@ export interface components {
             useHorizonMask?: boolean;
             /** @description zenith seeing FWHM, arcsec: the seeing at each window's best airmass is reported */
             zenithSeeingArcsec?: number;
+        };
+        SeasonReport: {
+            site: {
+                name: string;
+                timeZone: string;
+                latitudeDeg: number;
+                longitudeDeg: number;
+                elevationM: number;
+            };
+            year: number;
+            stepMinutes: number;
+            nights: {
+                date: string;
+                darkHours: number;
+            }[];
+            targets: {
+                name: string;
+                season: {
+                    start: string | null;
+                    end: string | null;
+                    wrapsYearEnd: boolean;
+                    allYear: boolean;
+                    usableNights: number;
+                    bestNight: string | null;
+                    bestHours: number;
+                };
+                periapses: {
+                    epoch: string;
+                    night: string;
+                    hours: number;
+                    inSeason: boolean;
+                }[];
+                /** @description observable hours, one per night of `nights` */
+                hoursPerNight: number[];
+            }[];
+            /** @description samples × targets evaluated */
+            evaluations: number;
+            cautions: string[];
+        };
+        NightVisibility: {
+            site: {
+                name: string;
+                timeZone: string;
+                latitudeDeg: number;
+                longitudeDeg: number;
+                elevationM: number;
+                pressureHpa: number;
+                temperatureC: number;
+            };
+            night: {
+                /** @description local date of the evening, YYYY-MM-DD */
+                date: string;
+                start: components["schemas"]["Instant"];
+                end: components["schemas"]["Instant"];
+                hours: number;
+            };
+            sun: {
+                set: components["schemas"]["Instant"] & (Record<string, never> | null);
+                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
+                midnight: components["schemas"]["Instant"];
+                twilights: {
+                    civil: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                    nautical: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                    astronomical: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                };
+            };
+            darkness: {
+                limit: string;
+                intervals: components["schemas"]["Interval"][];
+                hours: number;
+            };
+            moon: {
+                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
+                set: components["schemas"]["Instant"] & (Record<string, never> | null);
+                transit: components["schemas"]["Instant"] & (Record<string, never> | null);
+                illuminatedFraction: number;
+                phaseDeg: number;
+                /** @description topocentric altitude of the centre, no refraction, deg */
+                curve: {
+                    utc: string[];
+                    altitudeDeg: number[];
+                } | null;
+            };
+            constraints: {
+                altitudeLimitDeg: number;
+                maxAirmass: number | null;
+                airmassFormula: string;
+                minMoonSeparationDeg: number;
+                sunAvoidanceDeg: number;
+                horizonMask: boolean;
+            };
+            /** @enum {string} */
+            method: "fast" | "exact";
+            targets: components["schemas"]["TargetNight"][];
+            /** @description safety notes; the site’s rules prevail */
+            cautions: string[];
+            nightId: number;
+            campaignId: number | null;
         };
     };
     responses: never;

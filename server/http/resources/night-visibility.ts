@@ -3,6 +3,7 @@ import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
 import { nightVisibility } from '../../store/views/visibility.ts';
 import { requireRole } from '../auth.ts';
+import { NightVisibilitySchema } from '../schemas/sky-output.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 
 const Query = z.object({
@@ -23,7 +24,7 @@ export function nightVisibilityRoutes(store: Store) {
       summary: 'Darkness, Moon and each target’s windows on a stored night',
       request: { params: IdParam, query: Query },
       responses: {
-        200: json(z.record(z.string(), z.unknown()), 'the night report with cautions'),
+        200: json(NightVisibilitySchema, 'the night report with cautions'),
         ...errorResponses,
       },
     }),

@@ -12,10 +12,28 @@ import { currentOrbit } from '../../store/repos/orbits.ts';
 import { requireRole } from '../auth.ts';
 import { describeOrbit } from '../../science/orbit/index.ts';
 import { resolveEpochs } from '../../science/time/index.ts';
+import {
+  EphemerisRowSchema,
+  OrbitDescriptionSchema,
+  OrbitEventSchema,
+} from '../schemas/orbit-output.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
 
 const tags = ['targets'];
-const Any = z.record(z.string(), z.unknown());
+const SolutionRef = z
+  .object({ id: z.number().int(), version: z.number().int() })
+  .strict()
+  .openapi({ description: 'the orbit solution the answer was computed from' });
+const TargetEphemeris = z
+  .object({
+    solution: SolutionRef,
+    orbit: OrbitDescriptionSchema,
+    predictions: z.array(EphemerisRowSchema),
+  })
+  .strict();
+const TargetEvents = z
+  .object({ solution: SolutionRef, events: z.array(OrbitEventSchema) })
+  .strict();
 const EphemerisQuery = z.object({
   start: z.string().openapi({ description: 'first epoch (ISO 8601 with zone, JD, MJD, J…)' }),
   end: z.string(),
@@ -45,7 +63,13 @@ export function targetViewRoutes(store: Store) {
       summary: 'Ephemeris of a target from its current orbit solution',
       request: { params: IdParam, query: EphemerisQuery },
       responses: {
-        200: json(Any, 'solution, orbit and one row per epoch (CSV with format=csv)'),
+        200: {
+          content: {
+            'application/json': { schema: TargetEphemeris },
+            'text/csv': { schema: z.string() },
+          },
+          description: 'solution, orbit and one row per epoch (CSV with format=csv)',
+        },
         ...errorResponses,
       },
     }),
@@ -74,7 +98,7 @@ export function targetViewRoutes(store: Store) {
       security,
       summary: 'Periapsis and other events of a target from its current orbit solution',
       request: { params: IdParam, query: EventsQuery },
-      responses: { 200: json(Any, 'events soonest first'), ...errorResponses },
+      responses: { 200: json(TargetEvents, 'events soonest first'), ...errorResponses },
     }),
     h(async (c) => {
       requireRole(c, 'viewer');

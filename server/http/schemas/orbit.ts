@@ -12,7 +12,7 @@ const epoch = z.string().openapi({
   example: '2027-03-01T00:00:00Z',
 });
 
-const Campbell = z
+export const CampbellSchema = z
   .object({
     kind: z.literal('campbell').optional(),
     periodYears: z.number().openapi({ description: 'period P, Julian years' }),
@@ -25,9 +25,10 @@ const Campbell = z
       .openapi({ description: 'Ω, deg; the node where the star recedes' }),
     argPeriapsisDeg: z.number().openapi({ description: 'ω, deg' }),
   })
-  .strict();
+  .strict()
+  .openapi('CampbellElements');
 
-const ThieleInnes = z
+export const ThieleInnesSchema = z
   .object({
     kind: z.literal('thiele-innes'),
     periodYears: z.number(),
@@ -38,11 +39,12 @@ const ThieleInnes = z
     fArcsec: z.number(),
     gArcsec: z.number(),
   })
-  .strict();
+  .strict()
+  .openapi('ThieleInnesElements');
 
 export const OrbitSchema = z
   .object({
-    elements: z.union([ThieleInnes, Campbell]),
+    elements: z.union([ThieleInnesSchema, CampbellSchema]),
     distancePc: z.number().optional().openapi({ description: 'distance, parsec' }),
     systemicVelocityKmS: z
       .number()

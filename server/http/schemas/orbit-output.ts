@@ -1,0 +1,124 @@
+/**
+ * Response schemas of the orbit engine's answers: the orbit in both element forms with its
+ * physical quantities, ephemeris rows with their uncertainties, and events. Units as in
+ * server/science/orbit/ (JSON turns a NaN into null).
+ */
+import { z } from '@hono/zod-openapi';
+import { EVENT_KINDS, PERCENTILES } from '../../science/orbit/index.ts';
+import { CampbellSchema, ThieleInnesSchema } from './orbit.ts';
+
+const num = (description: string) => z.number().openapi({ description });
+const orNull = (description: string) => z.number().nullable().openapi({ description });
+
+export const PhysicalSchema = z
+  .object({
+    semiMajorAxisAu: z.number(),
+    massSolar: num('mass of the primary (Kepler’s third law), M☉'),
+    schwarzschildRadiusAu: z.number(),
+    schwarzschildRadiusKm: z.number(),
+    periapsisAu: z.number(),
+    periapsisSchwarzschildRadii: z.number(),
+    apoapsisAu: z.number(),
+    periapsisSpeedKmS: z.number(),
+    periapsisSpeedFractionC: num('periapsis speed over c'),
+    semiAmplitudeKmS: num('radial-velocity semi-amplitude K, km/s'),
+    precessionArcminPerOrbit: num('Schwarzschild precession, arcmin per orbit'),
+    gravitationalRedshiftAtPeriapsisKmS: z.number(),
+    transverseDopplerAtPeriapsisKmS: z.number(),
+    romerDelayRangeDays: num('largest Rømer delay over the orbit, days'),
+  })
+  .strict()
+  .openapi('PhysicalQuantities');
+
+export const RelativitySwitchesSchema = z
+  .object({
+    romer: z.boolean(),
+    gravitationalRedshift: z.boolean(),
+    transverseDoppler: z.boolean(),
+    precession: z.boolean(),
+  })
+  .strict()
+  .openapi('RelativitySwitches');
+
+export const OrbitDescriptionSchema = z
+  .object({
+    campbell: CampbellSchema,
+    thieleInnes: ThieleInnesSchema,
+    physical: PhysicalSchema.nullable().openapi({ description: 'null without a distance' }),
+    relativity: RelativitySwitchesSchema,
+  })
+  .strict()
+  .openapi('OrbitDescription');
+
+export const PredictionSchema = z
+  .object({
+    epoch: z.string().openapi({ description: 'ISO 8601 UTC' }),
+    jd: z.number(),
+    meanAnomalyDeg: z.number(),
+    eccentricAnomalyDeg: z.number(),
+    trueAnomalyDeg: z.number(),
+    dRaMas: num('Δα* = Δα·cos δ, east positive, mas'),
+    dDecMas: num('Δδ, north positive, mas'),
+    separationMas: z.number(),
+    positionAngleDeg: num('north through east, [0, 360) deg'),
+    vRaMasYr: z.number(),
+    vDecMasYr: z.number(),
+    separation3dAu: orNull('null without a distance'),
+    speedKmS: orNull('null without a distance'),
+    lineOfSightAu: orNull('positive behind the primary, au'),
+    radialVelocityKmS: orNull('with γ and every switched-on relativistic term, km/s'),
+    keplerianRvKmS: orNull('the Keplerian part alone, km/s'),
+    romerDelayDays: orNull('size of the term, included only when switched on'),
+    gravitationalRedshiftKmS: orNull('size of the term, included only when switched on'),
+    transverseDopplerKmS: orNull('size of the term, included only when switched on'),
+    precessionDeg: orNull('precession of ω accumulated since T, deg'),
+  })
+  .strict()
+  .openapi('Prediction');
+
+const uncertain = <S extends z.ZodType>(value: S) =>
+  z
+    .object({
+      dRaMas: value.optional(),
+      dDecMas: value.optional(),
+      separationMas: value.optional(),
+      positionAngleDeg: value.optional(),
+      radialVelocityKmS: value.optional(),
+    })
+    .strict();
+
+export const EphemerisRowSchema = PredictionSchema.extend({
+  sigma: uncertain(z.number())
+    .optional()
+    .openapi({ description: 'linear 1σ per quantity (same unit); only with a covariance' }),
+  percentiles: uncertain(z.array(z.number()))
+    .optional()
+    .openapi({ description: `Monte Carlo percentiles ${PERCENTILES.join(', ')}; on request` }),
+})
+  .strict()
+  .openapi('EphemerisRow');
+
+export const OrbitEventSchema = z
+  .object({
+    kind: z.enum(EVENT_KINDS),
+    jd: z.number(),
+    epoch: z.string().openapi({ description: 'observed instant, ISO 8601 UTC' }),
+    orbitNumber: num('0 is the orbit whose periapsis is the elements’ T'),
+    state: PredictionSchema,
+    sigmaDays: num('linear 1σ of the date, days; only with a covariance').optional(),
+    percentileEpochs: z
+      .array(z.string())
+      .optional()
+      .openapi({ description: `Monte Carlo percentiles ${PERCENTILES.join(', ')} of the date` }),
+    missingDraws: num('draws in which the event had no counterpart').optional(),
+  })
+  .strict()
+  .openapi('OrbitEvent');
+
+export const EphemerisAnswer = z
+  .object({ orbit: OrbitDescriptionSchema, predictions: z.array(EphemerisRowSchema) })
+  .strict();
+
+export const EventsAnswer = z
+  .object({ orbit: OrbitDescriptionSchema, events: z.array(OrbitEventSchema) })
+  .strict();
