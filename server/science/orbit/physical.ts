@@ -26,9 +26,36 @@ export function massParameterM3S2(aAu: number, periodDays: number): number {
   return (4 * Math.PI * Math.PI * aM * aM * aM) / (pS * pS);
 }
 
-/** Mass in solar masses (IAU 2015 nominal GM☉) from a (au) and P (days). */
+/**
+ * Mass in solar masses from a (au) and P (days): M = 4π²a³/(GM☉·P²) with the IAU 2015 nominal GM☉.
+ * This is the one mass convention of the project (a³/P² in au and Julian years differs by 4e-5).
+ */
 export function massSolar(aAu: number, periodDays: number): number {
   return massParameterM3S2(aAu, periodDays) / GM_SUN_M3_PER_S2;
+}
+
+/** The inverse of `massSolar`: a in au for a total mass (M☉) and a period (days). */
+export function semiMajorAxisAuFromMass(massSolarValue: number, periodDays: number): number {
+  const pS = periodDays * SECONDS_PER_DAY;
+  return Math.cbrt((massSolarValue * GM_SUN_M3_PER_S2 * pS * pS) / (4 * Math.PI * Math.PI)) / AU_M;
+}
+
+/**
+ * The extremes of the line-of-sight position z = r·sin i·sin(ν + ω) over an orbit, au (positive
+ * away from us). dz/dν = 0 where cos(ν + ω) = −e·cos ω, which gives
+ * z_max = a(1 − e²)·sin i / (s + e·sin ω) and z_min = −a(1 − e²)·sin i / (s − e·sin ω),
+ * s = √(1 − e²cos²ω); their difference is 2a·sin i·s.
+ */
+export function lineOfSightExtremesAu(
+  aAu: number,
+  e: number,
+  iRad: number,
+  argRad: number,
+): { nearestAu: number; farthestAu: number } {
+  const s = Math.sqrt(1 - e * e * Math.cos(argRad) ** 2);
+  const es = e * Math.sin(argRad);
+  const pSinI = aAu * (1 - e * e) * Math.sin(iRad);
+  return { nearestAu: -pSinI / (s - es), farthestAu: pSinI / (s + es) };
 }
 
 /** Velocity semi-amplitude K, km/s: 2π·a·sin i / (P·√(1−e²)). */
@@ -56,8 +83,10 @@ export interface PhysicalQuantities {
   precessionArcminPerOrbit: number;
   gravitationalRedshiftAtPeriapsisKmS: number;
   transverseDopplerAtPeriapsisKmS: number;
-  /** Largest Rømer delay over the orbit (light time across a·(1+e)·sin i on the far side), days. */
+  /** Range of the Rømer delay over the orbit (light time from the nearest to the farthest point), days. */
   romerDelayRangeDays: number;
+  /** Largest Rømer delay over the orbit (light time from the primary's plane of the sky to the farthest point), days. */
+  largestRomerDelayDays: number;
 }
 
 /** The physical quantities of an orbit with a distance. @throws InputError when the distance is missing. */
@@ -70,7 +99,7 @@ export function physicalQuantities(orbit: Orbit): PhysicalQuantities {
   const periAu = aAu * (1 - orbit.e);
   // Vis-viva at periapsis: v² = GM(2/r − 1/a).
   const vPeri = Math.sqrt(gm * (2 / (periAu * AU_M) - 1 / (aAu * AU_M))) / 1000;
-  const zRange = aAu * (1 + orbit.e) * Math.sin(orbit.iRad);
+  const z = lineOfSightExtremesAu(aAu, orbit.e, orbit.iRad, orbit.argRad);
   return {
     semiMajorAxisAu: aAu,
     massSolar: gm / GM_SUN_M3_PER_S2,
@@ -85,6 +114,7 @@ export function physicalQuantities(orbit: Orbit): PhysicalQuantities {
     precessionArcminPerOrbit: (precessionPerOrbitRad(gm, aAu * AU_M, orbit.e) * 180 * 60) / Math.PI,
     gravitationalRedshiftAtPeriapsisKmS: gravitationalRedshiftKmS(gm, periAu * AU_M),
     transverseDopplerAtPeriapsisKmS: transverseDopplerKmS(vPeri),
-    romerDelayRangeDays: romerDelayDays(zRange),
+    romerDelayRangeDays: romerDelayDays(z.farthestAu - z.nearestAu),
+    largestRomerDelayDays: romerDelayDays(z.farthestAu),
   };
 }

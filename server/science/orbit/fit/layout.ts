@@ -7,11 +7,13 @@
  * Orientation per star: an astrometric-only star in a single-star fit uses the Thiele–Innes
  * constants (linear, defined for face-on orbits too); a star with radial velocities, or in a joint
  * fit, uses Campbell i, Ω, ω (the radial velocity tells Ω from Ω + 180°). In a joint fit the
- * semi-major axes follow from the shared mass and distance by Kepler's third law.
+ * semi-major axes follow from the shared mass and distance by Kepler's third law, in the one mass
+ * convention of the project (`massSolar`: 4π²a³/(GM☉P²), IAU 2015 nominal GM☉).
  */
 import { DEG, JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { InputError } from '../../errors.ts';
 import { thieleInnesToCampbell } from '../elements.ts';
+import { semiMajorAxisAuFromMass } from '../physical.ts';
 import type { Orbit, RelativitySwitches } from '../types.ts';
 import type { Observation } from './measurements.ts';
 
@@ -193,8 +195,7 @@ export function semiMajorAxisMas(L: Layout, theta: ArrayLike<number>, k: number)
   if (s.A >= 0)
     return thieleInnesToCampbell({ A: theta[s.A]!, B: theta[s.B]!, F: theta[s.F]!, G: theta[s.G]! })
       .a;
-  const pYr = theta[s.P]! / JULIAN_YEAR_DAYS;
-  return (1000 * Math.cbrt(theta[L.sys.M]! * pYr * pYr)) / theta[L.sys.d]!;
+  return (1000 * semiMajorAxisAuFromMass(theta[L.sys.M]!, theta[s.P]!)) / theta[L.sys.d]!;
 }
 
 /** The Orbit (engine units) of star k at parameter vector theta. */

@@ -5,6 +5,7 @@
  */
 import { JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { campbellToThieleInnes, thieleInnesToCampbell } from '../elements.ts';
+import { massSolar, semiMajorAxisAu } from '../physical.ts';
 import type { Orbit } from '../types.ts';
 import { covarianceFromJacobian } from './covariance.ts';
 import { gridSearch, type GridNode } from './grid.ts';
@@ -353,7 +354,7 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
     t[slots.i] = o.iRad;
     t[slots.node] = o.nodeRad;
     t[slots.arg] = o.argRad;
-    masses.push(((o.aMas / 1000) * d0) ** 3 / (o.periodDays / JULIAN_YEAR_DAYS) ** 2);
+    masses.push(massSolar(semiMajorAxisAu(o.aMas, d0), o.periodDays));
   });
   t[L.sys.M] = median(masses);
   const withRv = singles.filter((s) => s.L.sys.gamma >= 0);
@@ -374,9 +375,7 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
     const d2 = b.fixedMask[L.sys.d] ? d0 : given.length ? median(given) : d0;
     t2[L.sys.d] = d2;
     const implied = req.stars.flatMap((s) =>
-      s.start
-        ? [((s.start.aMas / 1000) * d2) ** 3 / (s.start.periodDays / JULIAN_YEAR_DAYS) ** 2]
-        : [],
+      s.start ? [massSolar(semiMajorAxisAu(s.start.aMas, d2), s.start.periodDays)] : [],
     );
     t2[L.sys.M] = median(implied);
     const gammas = req.stars.flatMap((s) =>
