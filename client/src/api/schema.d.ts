@@ -10627,8 +10627,10 @@ export interface components {
             precessionArcminPerOrbit: number;
             gravitationalRedshiftAtPeriapsisKmS: number;
             transverseDopplerAtPeriapsisKmS: number;
-            /** @description largest Rømer delay over the orbit, days */
+            /** @description range of the Rømer delay over the orbit (nearest to farthest point on the line of sight), days */
             romerDelayRangeDays: number;
+            /** @description largest Rømer delay over the orbit (farthest point), days */
+            largestRomerDelayDays: number;
         } | null;
         RelativitySwitches: {
             romer: boolean;

@@ -25,7 +25,10 @@ export const PhysicalSchema = z
     precessionArcminPerOrbit: num('Schwarzschild precession, arcmin per orbit'),
     gravitationalRedshiftAtPeriapsisKmS: z.number(),
     transverseDopplerAtPeriapsisKmS: z.number(),
-    romerDelayRangeDays: num('largest Rømer delay over the orbit, days'),
+    romerDelayRangeDays: num(
+      'range of the Rømer delay over the orbit (nearest to farthest point on the line of sight), days',
+    ),
+    largestRomerDelayDays: num('largest Rømer delay over the orbit (farthest point), days'),
   })
   .strict()
   .openapi('PhysicalQuantities');
