@@ -7,7 +7,6 @@
  * A fit the data cannot support answers 422 `fit_refused` with the reason and the parameters.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import type { Context } from 'hono';
 import {
   FitRefusal,
   fitOrbits,
@@ -15,26 +14,17 @@ import {
   type FitResult,
 } from '../science/orbit/fit/index.ts';
 import type { Store } from '../store/index.ts';
-import {
-  acceptStoredFit,
-  prepareStoredFit,
-  systemTargetIds,
-  type StoredFitOptions,
-} from '../store/fits.ts';
-import { identify, requireRole, type AuthEnv } from './auth.ts';
+import { acceptStoredFit, prepareStoredFit, systemTargetIds } from '../store/fits.ts';
+import { identify, requireRole } from './auth.ts';
 import { HttpError } from './errors.ts';
-import {
-  IdParam,
-  errorResponses,
-  h,
-  json,
-  resourceApp,
-  security,
-  valid,
-} from './resources/common.ts';
+import { IdParam, resourceApp, security } from './resources/common.ts';
+import { OrbitSolutionRowSchema } from './resources/orbit-solutions.ts';
+import { FitResultSchema } from './schemas/fit-output.ts';
+import { RelativitySwitchesSchema } from './schemas/orbit-output.ts';
+import { CampbellSchema } from './schemas/orbit.ts';
+import { errorResponses, json } from './schemas/responses.ts';
 
 const tags = ['fits'];
-const Any = z.record(z.string(), z.unknown());
 const Epoch = z
   .union([z.string(), z.number()])
   .openapi({ description: 'ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number' });
@@ -45,23 +35,59 @@ const Hints = z
     eccentricity: Range.optional(),
     start: z
       .object({
-        elements: Any,
+        elements: CampbellSchema,
         distancePc: z.number().optional(),
         systemicVelocityKmS: z.number().optional(),
       })
       .strict()
       .optional()
       .openapi({
-        description:
-          'an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ',
+        description: 'an orbit to start from as well: Campbell elements, distance and γ',
       }),
   })
   .strict();
+/* Shapes and types here (400); ranges and rules in the fit's own checks (422 naming the field). */
+const measurement = {
+  epoch: Epoch,
+  id: z.string().optional().openapi({ description: 'your identifier, echoed in the residuals' }),
+};
+const MeasurementInput = z
+  .discriminatedUnion('kind', [
+    z
+      .object({
+        kind: z.literal('offsets'),
+        ...measurement,
+        dRaMas: z.number(),
+        dDecMas: z.number(),
+        sigmaDRaMas: z.number(),
+        sigmaDDecMas: z.number(),
+        correlation: z.number().optional(),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal('separation'),
+        ...measurement,
+        separationMas: z.number(),
+        positionAngleDeg: z.number(),
+        sigmaSeparationMas: z.number(),
+        sigmaPositionAngleDeg: z.number(),
+      })
+      .strict(),
+    z
+      .object({
+        kind: z.literal('radial-velocity'),
+        ...measurement,
+        radialVelocityKmS: z.number(),
+        sigmaRadialVelocityKmS: z.number(),
+      })
+      .strict(),
+  ])
+  .openapi('FitMeasurement');
 const Options = {
-  relativity: z
-    .record(z.string(), z.boolean())
+  relativity: RelativitySwitchesSchema.partial()
     .optional()
-    .openapi({ description: 'romer, gravitationalRedshift, transverseDoppler, precession' }),
+    .openapi({ description: 'relativistic terms in the model (all off by default)' }),
   frame: z
     .object({ offset: z.boolean().optional(), drift: z.boolean().optional() })
     .strict()
@@ -98,7 +124,7 @@ const FitBody = z
         z
           .object({
             name: z.string(),
-            measurements: z.array(Any).openapi({
+            measurements: z.array(MeasurementInput).openapi({
               description:
                 'offsets, separation or radial-velocity measurements (fields as in /measurements)',
             }),
@@ -132,13 +158,22 @@ const StoredBody = z
       .openapi({ description: 'stored with the accepted solutions' }),
   })
   .strict();
-const body = (schema: z.ZodType) => ({
+const body = <S extends z.ZodType>(schema: S) => ({
   body: { content: { 'application/json': { schema } }, required: true },
 });
 const fitted = json(
-  Any,
+  FitResultSchema,
   'the fit: parameters with 1σ, covariance, χ², residuals per measurement, per-star elements and derived quantities',
 );
+const FittedTargets = z.array(
+  z
+    .object({ id: z.number().int(), name: z.string(), measurementIds: z.array(z.number().int()) })
+    .strict(),
+);
+const StoredPreview = z.object({ targets: FittedTargets, result: FitResultSchema }).strict();
+const StoredAccept = z
+  .object({ solutions: z.array(OrbitSolutionRowSchema), result: FitResultSchema })
+  .strict();
 
 /** The fit, with a refusal turned into 422 naming what is missing. */
 function runFit(request: FitRequest): FitResult {
@@ -165,7 +200,7 @@ export function fitRoutes(store?: Store) {
       request: body(FitBody),
       responses: { 200: fitted, ...errorResponses },
     }),
-    h(async (c) => c.json(runFit(valid(c, 'json') as unknown as FitRequest), 200)),
+    (c) => c.json(runFit(c.req.valid('json')), 200),
   );
   if (!store) return app;
   for (const path of [
@@ -175,12 +210,7 @@ export function fitRoutes(store?: Store) {
     '/systems/:id/fit/accept',
   ])
     app.use(path, identify(store));
-  const targetsOf = async (
-    c: Context<AuthEnv>,
-    scope: 'target' | 'system',
-    only: number[] | undefined,
-  ) => {
-    const id = valid(c, 'param').id as number;
+  const targetsOf = async (id: number, scope: 'target' | 'system', only?: number[]) => {
     if (scope === 'target' && only)
       throw new HttpError(
         400,
@@ -203,22 +233,18 @@ export function fitRoutes(store?: Store) {
         security,
         summary: `Fit ${what} (preview, nothing stored)`,
         request: { params: IdParam, ...body(StoredBody) },
-        responses: { 200: fitted, ...errorResponses },
+        responses: {
+          200: json(StoredPreview, 'the targets and measurements fitted, and the fit'),
+          ...errorResponses,
+        },
       }),
-      h(async (c) => {
+      async (c) => {
         requireRole(c, 'viewer');
-        const {
-          notes: _notes,
-          targetIds,
-          ...options
-        } = valid(c, 'json') as StoredFitOptions & { notes?: string; targetIds?: number[] };
-        const prepared = await prepareStoredFit(
-          store,
-          await targetsOf(c, scope, targetIds),
-          options,
-        );
+        const { notes: _notes, targetIds, ...options } = c.req.valid('json');
+        const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
+        const prepared = await prepareStoredFit(store, ids, options);
         return c.json({ targets: prepared.targets, result: runFit(prepared.request) }, 200);
-      }),
+      },
     );
     app.openapi(
       createRoute({
@@ -228,19 +254,16 @@ export function fitRoutes(store?: Store) {
         security,
         summary: `Fit ${what} and store the result as new current orbit-solution versions (lead)`,
         request: { params: IdParam, ...body(StoredBody) },
-        responses: { 201: json(Any, 'the stored versions and the fit'), ...errorResponses },
+        responses: {
+          201: json(StoredAccept, 'the stored versions and the fit'),
+          ...errorResponses,
+        },
       }),
-      h(async (c) => {
+      async (c) => {
         const user = requireRole(c, 'lead');
-        const { notes, targetIds, ...options } = valid(c, 'json') as StoredFitOptions & {
-          notes?: string;
-          targetIds?: number[];
-        };
-        const prepared = await prepareStoredFit(
-          store,
-          await targetsOf(c, scope, targetIds),
-          options,
-        );
+        const { notes, targetIds, ...options } = c.req.valid('json');
+        const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
+        const prepared = await prepareStoredFit(store, ids, options);
         const result = runFit(prepared.request);
         const solutions = await acceptStoredFit(
           store,
@@ -250,7 +273,7 @@ export function fitRoutes(store?: Store) {
           notes ?? '',
         );
         return c.json({ solutions, result }, 201);
-      }),
+      },
     );
   }
   return app;

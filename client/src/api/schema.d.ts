@@ -2098,43 +2098,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                targetId: number;
-                                orbit: {
-                                    /** @description Campbell elements or Thiele–Innes constants (see OrbitInput) */
-                                    elements: {
-                                        [key: string]: unknown;
-                                    };
-                                    distancePc?: number;
-                                    systemicVelocityKmS?: number;
-                                    relativity?: {
-                                        [key: string]: boolean;
-                                    };
-                                    covariance?: {
-                                        parameters: string[];
-                                        matrix: number[][];
-                                    };
-                                };
-                                /**
-                                 * @default entered
-                                 * @enum {string}
-                                 */
-                                provenance: "entered" | "imported" | "fitted";
-                                /** @description measurement ids a fit used */
-                                fittedFrom?: number[] | null;
-                                /**
-                                 * @description where the solution comes from
-                                 * @default
-                                 */
-                                reference: string;
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                version: number;
-                                current: boolean;
-                                createdBy: number | null;
-                                createdAt: string;
-                            }[];
+                            items: components["schemas"]["OrbitSolution"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -2276,43 +2240,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            targetId: number;
-                            orbit: {
-                                /** @description Campbell elements or Thiele–Innes constants (see OrbitInput) */
-                                elements: {
-                                    [key: string]: unknown;
-                                };
-                                distancePc?: number;
-                                systemicVelocityKmS?: number;
-                                relativity?: {
-                                    [key: string]: boolean;
-                                };
-                                covariance?: {
-                                    parameters: string[];
-                                    matrix: number[][];
-                                };
-                            };
-                            /**
-                             * @default entered
-                             * @enum {string}
-                             */
-                            provenance: "entered" | "imported" | "fitted";
-                            /** @description measurement ids a fit used */
-                            fittedFrom?: number[] | null;
-                            /**
-                             * @description where the solution comes from
-                             * @default
-                             */
-                            reference: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            version: number;
-                            current: boolean;
-                            createdBy: number | null;
-                            createdAt: string;
-                        };
+                        "application/json": components["schemas"]["OrbitSolution"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -2438,43 +2366,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            targetId: number;
-                            orbit: {
-                                /** @description Campbell elements or Thiele–Innes constants (see OrbitInput) */
-                                elements: {
-                                    [key: string]: unknown;
-                                };
-                                distancePc?: number;
-                                systemicVelocityKmS?: number;
-                                relativity?: {
-                                    [key: string]: boolean;
-                                };
-                                covariance?: {
-                                    parameters: string[];
-                                    matrix: number[][];
-                                };
-                            };
-                            /**
-                             * @default entered
-                             * @enum {string}
-                             */
-                            provenance: "entered" | "imported" | "fitted";
-                            /** @description measurement ids a fit used */
-                            fittedFrom?: number[] | null;
-                            /**
-                             * @description where the solution comes from
-                             * @default
-                             */
-                            reference: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            version: number;
-                            current: boolean;
-                            createdBy: number | null;
-                            createdAt: string;
-                        };
+                        "application/json": components["schemas"]["OrbitSolution"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -2714,43 +2606,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            targetId: number;
-                            orbit: {
-                                /** @description Campbell elements or Thiele–Innes constants (see OrbitInput) */
-                                elements: {
-                                    [key: string]: unknown;
-                                };
-                                distancePc?: number;
-                                systemicVelocityKmS?: number;
-                                relativity?: {
-                                    [key: string]: boolean;
-                                };
-                                covariance?: {
-                                    parameters: string[];
-                                    matrix: number[][];
-                                };
-                            };
-                            /**
-                             * @default entered
-                             * @enum {string}
-                             */
-                            provenance: "entered" | "imported" | "fitted";
-                            /** @description measurement ids a fit used */
-                            fittedFrom?: number[] | null;
-                            /**
-                             * @description where the solution comes from
-                             * @default
-                             */
-                            reference: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            version: number;
-                            current: boolean;
-                            createdBy: number | null;
-                            createdAt: string;
-                        };
+                        "application/json": components["schemas"]["OrbitSolution"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -4548,20 +4404,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                siteId: number;
-                                campaignId?: number | null;
-                                /**
-                                 * Format: date
-                                 * @description local calendar date YYYY-MM-DD
-                                 */
-                                date: string;
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                            }[];
+                            items: components["schemas"]["Night"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -4691,20 +4534,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            siteId: number;
-                            campaignId?: number | null;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            date: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["Night"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -4830,20 +4660,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            siteId: number;
-                            campaignId?: number | null;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            date: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["Night"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5078,20 +4895,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            siteId: number;
-                            campaignId?: number | null;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            date: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["Night"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5355,39 +5159,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                nightId: number;
-                                targetId: number;
-                                /** @enum {string} */
-                                kind: "astrometry" | "spectroscopy";
-                                /** @description start, ISO 8601 UTC */
-                                startUtc: string;
-                                /** @description end, ISO 8601 UTC */
-                                endUtc: string;
-                                /**
-                                 * @default planned
-                                 * @enum {string}
-                                 */
-                                status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                                /** @default false */
-                                laserGuideStar: boolean;
-                                /**
-                                 * @description a person fixed this block where it is: no accepted plan replaces it
-                                 * @default false
-                                 */
-                                pinned: boolean;
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                                version: number;
-                                /**
-                                 * @description who made the block: an accepted season plan, night schedule, or a person; set once
-                                 * @enum {string}
-                                 */
-                                origin: "season-plan" | "night-schedule" | "by-hand";
-                            }[];
+                            items: components["schemas"]["Block"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -5530,39 +5302,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            nightId: number;
-                            targetId: number;
-                            /** @enum {string} */
-                            kind: "astrometry" | "spectroscopy";
-                            /** @description start, ISO 8601 UTC */
-                            startUtc: string;
-                            /** @description end, ISO 8601 UTC */
-                            endUtc: string;
-                            /**
-                             * @default planned
-                             * @enum {string}
-                             */
-                            status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                            /** @default false */
-                            laserGuideStar: boolean;
-                            /**
-                             * @description a person fixed this block where it is: no accepted plan replaces it
-                             * @default false
-                             */
-                            pinned: boolean;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            version: number;
-                            /**
-                             * @description who made the block: an accepted season plan, night schedule, or a person; set once
-                             * @enum {string}
-                             */
-                            origin: "season-plan" | "night-schedule" | "by-hand";
-                        };
+                        "application/json": components["schemas"]["Block"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5688,39 +5428,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            nightId: number;
-                            targetId: number;
-                            /** @enum {string} */
-                            kind: "astrometry" | "spectroscopy";
-                            /** @description start, ISO 8601 UTC */
-                            startUtc: string;
-                            /** @description end, ISO 8601 UTC */
-                            endUtc: string;
-                            /**
-                             * @default planned
-                             * @enum {string}
-                             */
-                            status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                            /** @default false */
-                            laserGuideStar: boolean;
-                            /**
-                             * @description a person fixed this block where it is: no accepted plan replaces it
-                             * @default false
-                             */
-                            pinned: boolean;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            version: number;
-                            /**
-                             * @description who made the block: an accepted season plan, night schedule, or a person; set once
-                             * @enum {string}
-                             */
-                            origin: "season-plan" | "night-schedule" | "by-hand";
-                        };
+                        "application/json": components["schemas"]["Block"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5968,39 +5676,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            nightId: number;
-                            targetId: number;
-                            /** @enum {string} */
-                            kind: "astrometry" | "spectroscopy";
-                            /** @description start, ISO 8601 UTC */
-                            startUtc: string;
-                            /** @description end, ISO 8601 UTC */
-                            endUtc: string;
-                            /**
-                             * @default planned
-                             * @enum {string}
-                             */
-                            status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                            /** @default false */
-                            laserGuideStar: boolean;
-                            /**
-                             * @description a person fixed this block where it is: no accepted plan replaces it
-                             * @default false
-                             */
-                            pinned: boolean;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            version: number;
-                            /**
-                             * @description who made the block: an accepted season plan, night schedule, or a person; set once
-                             * @enum {string}
-                             */
-                            origin: "season-plan" | "night-schedule" | "by-hand";
-                        };
+                        "application/json": components["schemas"]["Block"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -8802,7 +8478,8 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            campaignId: number;
+                            flags: components["schemas"]["Flag"][];
                         };
                     };
                 };
@@ -8981,9 +8658,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["SeasonPlanPreview"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -9160,7 +8835,31 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            campaignId: number;
+                            at: string;
+                            /** @enum {string} */
+                            nights: "allocated" | "all";
+                            sites: {
+                                siteId: number;
+                                name: string;
+                                openNights: number;
+                                skipped: {
+                                    date: string;
+                                    reason: string;
+                                }[];
+                                plannedAround: {
+                                    date: string;
+                                    kept: {
+                                        id: number;
+                                        reason: string;
+                                    }[];
+                                }[];
+                            }[];
+                            plan: components["schemas"]["SeasonPlan"];
+                            replaces: number[];
+                            digest: string;
+                            written: components["schemas"]["Block"][];
+                            nightsCreated: components["schemas"]["Night"][];
                         };
                     };
                 };
@@ -9322,9 +9021,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["NightSchedulePreview"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -9486,7 +9183,21 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            nightId: number;
+                            campaignId: number;
+                            at: string;
+                            /** @enum {string} */
+                            candidatesFrom: "campaign" | "request";
+                            candidates: components["schemas"]["Candidate"][];
+                            schedule: components["schemas"]["NightSchedule"];
+                            /** @description stored blocks accepting would delete (all still only plans) */
+                            replaces: number[];
+                            kept: {
+                                id: number;
+                                reason: string;
+                            }[];
+                            digest: string;
+                            written: components["schemas"]["Block"][];
                         };
                     };
                 };
@@ -9611,9 +9322,7 @@ export interface paths {
                         stars: {
                             name: string;
                             /** @description offsets, separation or radial-velocity measurements (fields as in /measurements) */
-                            measurements: {
-                                [key: string]: unknown;
-                            }[];
+                            measurements: components["schemas"]["FitMeasurement"][];
                             hints?: {
                                 /** @description period search range, years */
                                 periodYears?: {
@@ -9624,19 +9333,20 @@ export interface paths {
                                     min: number;
                                     max: number;
                                 };
-                                /** @description an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ */
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
                                 start?: {
-                                    elements: {
-                                        [key: string]: unknown;
-                                    };
+                                    elements: components["schemas"]["CampbellElements"];
                                     distancePc?: number;
                                     systemicVelocityKmS?: number;
                                 };
                             };
                         }[];
-                        /** @description romer, gravitationalRedshift, transverseDoppler, precession */
+                        /** @description relativistic terms in the model (all off by default) */
                         relativity?: {
-                            [key: string]: boolean;
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
                         };
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
@@ -9677,9 +9387,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            [key: string]: unknown;
-                        };
+                        "application/json": components["schemas"]["FitResult"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -9688,13 +9396,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -9703,13 +9405,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -9718,13 +9414,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -9733,13 +9423,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -9748,13 +9432,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -9763,13 +9441,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -9802,9 +9474,12 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description romer, gravitationalRedshift, transverseDoppler, precession */
+                        /** @description relativistic terms in the model (all off by default) */
                         relativity?: {
-                            [key: string]: boolean;
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
                         };
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
@@ -9851,11 +9526,9 @@ export interface paths {
                                     min: number;
                                     max: number;
                                 };
-                                /** @description an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ */
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
                                 start?: {
-                                    elements: {
-                                        [key: string]: unknown;
-                                    };
+                                    elements: components["schemas"]["CampbellElements"];
                                     distancePc?: number;
                                     systemicVelocityKmS?: number;
                                 };
@@ -9867,14 +9540,19 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description the fit: parameters with 1σ, covariance, χ², residuals per measurement, per-star elements and derived quantities */
+                /** @description the targets and measurements fitted, and the fit */
                 200: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            targets: {
+                                id: number;
+                                name: string;
+                                measurementIds: number[];
+                            }[];
+                            result: components["schemas"]["FitResult"];
                         };
                     };
                 };
@@ -9884,13 +9562,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -9899,13 +9571,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -9914,13 +9580,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -9929,13 +9589,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -9944,13 +9598,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -9959,13 +9607,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -9998,9 +9640,12 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description romer, gravitationalRedshift, transverseDoppler, precession */
+                        /** @description relativistic terms in the model (all off by default) */
                         relativity?: {
-                            [key: string]: boolean;
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
                         };
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
@@ -10047,11 +9692,9 @@ export interface paths {
                                     min: number;
                                     max: number;
                                 };
-                                /** @description an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ */
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
                                 start?: {
-                                    elements: {
-                                        [key: string]: unknown;
-                                    };
+                                    elements: components["schemas"]["CampbellElements"];
                                     distancePc?: number;
                                     systemicVelocityKmS?: number;
                                 };
@@ -10070,7 +9713,8 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            solutions: components["schemas"]["OrbitSolution"][];
+                            result: components["schemas"]["FitResult"];
                         };
                     };
                 };
@@ -10080,13 +9724,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -10095,13 +9733,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -10110,13 +9742,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -10125,13 +9751,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -10140,13 +9760,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -10155,13 +9769,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -10194,9 +9802,12 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description romer, gravitationalRedshift, transverseDoppler, precession */
+                        /** @description relativistic terms in the model (all off by default) */
                         relativity?: {
-                            [key: string]: boolean;
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
                         };
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
@@ -10243,11 +9854,9 @@ export interface paths {
                                     min: number;
                                     max: number;
                                 };
-                                /** @description an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ */
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
                                 start?: {
-                                    elements: {
-                                        [key: string]: unknown;
-                                    };
+                                    elements: components["schemas"]["CampbellElements"];
                                     distancePc?: number;
                                     systemicVelocityKmS?: number;
                                 };
@@ -10259,14 +9868,19 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description the fit: parameters with 1σ, covariance, χ², residuals per measurement, per-star elements and derived quantities */
+                /** @description the targets and measurements fitted, and the fit */
                 200: {
                     headers: {
                         [name: string]: unknown;
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            targets: {
+                                id: number;
+                                name: string;
+                                measurementIds: number[];
+                            }[];
+                            result: components["schemas"]["FitResult"];
                         };
                     };
                 };
@@ -10276,13 +9890,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -10291,13 +9899,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -10306,13 +9908,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -10321,13 +9917,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -10336,13 +9926,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -10351,13 +9935,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -10390,9 +9968,12 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description romer, gravitationalRedshift, transverseDoppler, precession */
+                        /** @description relativistic terms in the model (all off by default) */
                         relativity?: {
-                            [key: string]: boolean;
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
                         };
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
@@ -10439,11 +10020,9 @@ export interface paths {
                                     min: number;
                                     max: number;
                                 };
-                                /** @description an orbit to start from as well: Campbell elements (periodYears, periapsis, eccentricity, semiMajorAxisArcsec, inclinationDeg, ascendingNodeDeg, argPeriapsisDeg), distance and γ */
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
                                 start?: {
-                                    elements: {
-                                        [key: string]: unknown;
-                                    };
+                                    elements: components["schemas"]["CampbellElements"];
                                     distancePc?: number;
                                     systemicVelocityKmS?: number;
                                 };
@@ -10462,7 +10041,8 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            [key: string]: unknown;
+                            solutions: components["schemas"]["OrbitSolution"][];
+                            result: components["schemas"]["FitResult"];
                         };
                     };
                 };
@@ -10472,13 +10052,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -10487,13 +10061,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -10502,13 +10070,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -10517,13 +10079,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -10532,13 +10088,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -10547,13 +10097,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -11003,6 +10547,43 @@ export interface components {
             evaluations: number;
             cautions: string[];
         };
+        OrbitSolution: {
+            targetId: number;
+            orbit: components["schemas"]["Orbit"];
+            /**
+             * @default entered
+             * @enum {string}
+             */
+            provenance: "entered" | "imported" | "fitted";
+            /** @description measurement ids a fit used */
+            fittedFrom?: number[] | null;
+            /**
+             * @description where the solution comes from
+             * @default
+             */
+            reference: string;
+            /** @default  */
+            notes: string;
+            id: number;
+            version: number;
+            current: boolean;
+            createdBy: number | null;
+            createdAt: string;
+        };
+        Night: {
+            siteId: number;
+            campaignId?: number | null;
+            /**
+             * Format: date
+             * @description local calendar date YYYY-MM-DD
+             */
+            date: string;
+            /** @default  */
+            notes: string;
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+        };
         NightVisibility: {
             site: {
                 name: string;
@@ -11074,6 +10655,346 @@ export interface components {
             cautions: string[];
             nightId: number;
             campaignId: number | null;
+        };
+        Block: {
+            nightId: number;
+            targetId: number;
+            /** @enum {string} */
+            kind: "astrometry" | "spectroscopy";
+            /** @description start, ISO 8601 UTC */
+            startUtc: string;
+            /** @description end, ISO 8601 UTC */
+            endUtc: string;
+            /**
+             * @default planned
+             * @enum {string}
+             */
+            status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
+            /** @default false */
+            laserGuideStar: boolean;
+            /**
+             * @description a person fixed this block where it is: no accepted plan replaces it
+             * @default false
+             */
+            pinned: boolean;
+            /** @default  */
+            notes: string;
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+            version: number;
+            /**
+             * @description who made the block: an accepted season plan, night schedule, or a person; set once
+             * @enum {string}
+             */
+            origin: "season-plan" | "night-schedule" | "by-hand";
+        };
+        Flag: {
+            /** @enum {string} */
+            kind: "periapsis-ahead" | "periapsis-unobservable" | "blend-risk" | "stale-prediction";
+            target: string;
+            /** @description when it applies (periapsis, blend start, now), UTC */
+            date: string;
+            daysAhead: number;
+            reason: string;
+            periapsis?: {
+                sigmaDays: number | null;
+                band: string;
+                sites: {
+                    site: string;
+                    nights: {
+                        date: string;
+                        hours: number;
+                    }[];
+                    minHours: number;
+                    maxHours: number;
+                    /** @description why it cannot be observed on the night of periapsis, if it cannot */
+                    blocked: string | null;
+                }[];
+                radialVelocityRateKmSPerDay: number | null;
+                skyRateMasPerDay: number;
+                /** @description longest interval between epochs that still follows the change, days */
+                samplingDays: number | null;
+                relativity: {
+                    gravitationalRedshiftKmS: number;
+                    transverseDopplerKmS: number;
+                    precessionArcminPerOrbit: number;
+                } | null;
+            };
+            blend?: {
+                other: string;
+                start: string;
+                end: string;
+                closestMas: number;
+            };
+            stale?: {
+                sigmaMas: number | null;
+                daysSinceMeasured: number | null;
+            };
+        };
+        SeasonPlanPreview: {
+            campaignId: number;
+            at: string;
+            /** @enum {string} */
+            nights: "allocated" | "all";
+            sites: {
+                siteId: number;
+                name: string;
+                openNights: number;
+                skipped: {
+                    date: string;
+                    reason: string;
+                }[];
+                plannedAround: {
+                    date: string;
+                    kept: {
+                        id: number;
+                        reason: string;
+                    }[];
+                }[];
+            }[];
+            plan: components["schemas"]["SeasonPlan"];
+            replaces: number[];
+            digest: string;
+        };
+        SeasonPlan: {
+            startDate: string;
+            endDate: string;
+            sites: {
+                name: string;
+                nights: number;
+                nightsUsed: number;
+                darkHours: number;
+                plannedHours: number;
+            }[];
+            epochs: {
+                target: string;
+                /** @enum {string} */
+                kind: "astrometry" | "spectroscopy";
+                site: string;
+                date: string;
+                block: components["schemas"]["ScheduledBlock"];
+                /** @description fractional variance reduction of T plus that of the mass */
+                gain: number;
+                /** @enum {string} */
+                why: "cadence" | "information";
+                reason: string;
+            }[];
+            unmet: {
+                target: string;
+                /** @enum {string} */
+                kind: "astrometry" | "spectroscopy";
+                from: string;
+                to: string;
+                reason: string;
+            }[];
+            targets: {
+                target: string;
+                epochs: {
+                    astrometry: number;
+                    spectroscopy: number;
+                };
+                periapses: string[];
+                cadenceMet: boolean;
+                /** @description 1σ before and after the plan (linear, Fisher) */
+                shrinkage: {
+                    periapsisDays: {
+                        before: number | null;
+                        after: number | null;
+                    };
+                    massFraction: {
+                        before: number | null;
+                        after: number | null;
+                    };
+                    nominalPrior: boolean;
+                } | null;
+                nextBest: {
+                    date: string;
+                    site: string;
+                    /** @enum {string} */
+                    kind: "astrometry" | "spectroscopy";
+                    gain: number;
+                }[];
+            }[];
+            cautions: string[];
+        };
+        ScheduledBlock: {
+            id: string;
+            target: string;
+            /** @enum {string} */
+            kind: "astrometry" | "spectroscopy";
+            start: components["schemas"]["Instant"];
+            end: components["schemas"]["Instant"];
+            minutes: number;
+            priority: number;
+            /** @description priority × mean 1/airmass over the block */
+            value: number;
+            airmassStart: number;
+            airmassMiddle: number;
+            airmassEnd: number;
+            altitudeMiddleDeg: number;
+            pinned: boolean;
+            laserGuideStar: boolean;
+            cautions: string[];
+        };
+        NightSchedulePreview: {
+            nightId: number;
+            campaignId: number;
+            at: string;
+            /** @enum {string} */
+            candidatesFrom: "campaign" | "request";
+            candidates: components["schemas"]["Candidate"][];
+            schedule: components["schemas"]["NightSchedule"];
+            /** @description stored blocks accepting would delete (all still only plans) */
+            replaces: number[];
+            kept: {
+                id: number;
+                reason: string;
+            }[];
+            digest: string;
+        };
+        Candidate: {
+            /** @description your name for the block, unique in the request */
+            id: string;
+            target: string;
+            /** @enum {string} */
+            kind: "astrometry" | "spectroscopy";
+            /** @description time on target, minutes, (0, 720] */
+            durationMinutes: number;
+            /** @description weight in the night’s value, (0, 1000] */
+            priority: number;
+            maxAirmass?: number;
+            laserGuideStar?: boolean;
+        };
+        NightSchedule: {
+            site: string;
+            timeZone: string;
+            date: string;
+            slotMinutes: number;
+            slewMinutes: number;
+            sameTargetMinutes: number;
+            /** @enum {string} */
+            method: "exact" | "heuristic";
+            darkness: components["schemas"]["Interval"][];
+            darkHours: number;
+            /** @description hours inside blocks */
+            scheduledHours: number;
+            totalValue: number;
+            blocks: components["schemas"]["ScheduledBlock"][];
+            leftOut: {
+                id: string;
+                target: string;
+                /** @enum {string} */
+                kind: "astrometry" | "spectroscopy";
+                reason: string;
+            }[];
+            cautions: string[];
+        };
+        FitResult: {
+            method: string;
+            derivatives: string;
+            /** @enum {string} */
+            loss: "gaussian" | "huber";
+            stars: components["schemas"]["StarSolution"][];
+            parameters: components["schemas"]["FittedParameter"][];
+            /** @description of the free parameters, interface units */
+            covariance: {
+                parameters: string[];
+                matrix: number[][];
+            };
+            chi2: number;
+            dof: number;
+            reducedChi2: number | null;
+            components: number;
+            iterations: number;
+            converged: boolean;
+            frameEpoch: string | null;
+            asOf: string;
+            residuals: components["schemas"]["Residual"][];
+            outliers: number;
+            sampler?: {
+                walkers: number;
+                steps: number;
+                burn: number;
+                seed: number;
+                acceptance: number;
+                samples: number;
+            };
+        };
+        StarSolution: {
+            name: string;
+            quantities: {
+                name: string;
+                value: number;
+                sigma: number;
+                unit: string;
+                /** @description posterior percentiles 2.5, 16, 50, 84, 97.5 when sampled */
+                percentiles?: number[];
+                fitted: boolean;
+            }[];
+            orbit: components["schemas"]["Orbit"] & unknown;
+            /** @description ISO 8601 UTC, counted from asOf */
+            nextPeriapsis: string;
+            chi2: number;
+            components: number;
+        };
+        FittedParameter: {
+            name: string;
+            value: number;
+            /** @description 1σ from the covariance; 0 when held fixed */
+            sigma: number;
+            unit: string;
+            fixed: boolean;
+            /** @description posterior percentiles 2.5, 16, 50, 84, 97.5 when sampled */
+            percentiles?: number[];
+        };
+        Residual: {
+            star: string;
+            index: number;
+            /** @description the measurement’s id, as sent */
+            id?: string;
+            /** @enum {string} */
+            kind: "offsets" | "separation" | "radial-velocity";
+            jd: number;
+            epoch: string;
+            /** @description observed − model: [Δα*, Δδ] mas, [ρ mas, θ deg] or [v km/s] */
+            residual: number[];
+            /** @description residual / σ per component */
+            normalized: number[];
+            outlier: boolean;
+        };
+        FitMeasurement: {
+            /** @enum {string} */
+            kind: "offsets";
+            /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
+            epoch: string | number;
+            /** @description your identifier, echoed in the residuals */
+            id?: string;
+            dRaMas: number;
+            dDecMas: number;
+            sigmaDRaMas: number;
+            sigmaDDecMas: number;
+            correlation?: number;
+        } | {
+            /** @enum {string} */
+            kind: "separation";
+            /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
+            epoch: string | number;
+            /** @description your identifier, echoed in the residuals */
+            id?: string;
+            separationMas: number;
+            positionAngleDeg: number;
+            sigmaSeparationMas: number;
+            sigmaPositionAngleDeg: number;
+        } | {
+            /** @enum {string} */
+            kind: "radial-velocity";
+            /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
+            epoch: string | number;
+            /** @description your identifier, echoed in the residuals */
+            id?: string;
+            radialVelocityKmS: number;
+            sigmaRadialVelocityKmS: number;
         };
     };
     responses: never;

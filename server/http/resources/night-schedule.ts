@@ -14,7 +14,9 @@ import {
   type NightScheduleRequest,
 } from '../../store/views/night-plan.ts';
 import { requireRole } from '../auth.ts';
-import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { BlockRowSchema } from './nights.ts';
+import { CandidateSchema, NightSchedulePreviewSchema } from '../schemas/plan-output.ts';
 import { momentJd } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
@@ -52,17 +54,11 @@ export const NightScheduleBody = z
   })
   .strict();
 
-function request(c: Parameters<Parameters<typeof h>[0]>[0]): {
-  id: number;
-  body: NightScheduleRequest;
-  atJd: number;
-} {
-  const { at, ...body } = valid(c, 'json') as z.output<typeof NightScheduleBody>;
-  return {
-    id: valid(c, 'param').id as number,
-    body: body as NightScheduleRequest,
-    atJd: momentJd(at, 'at'),
-  };
+const Accepted = NightSchedulePreviewSchema.extend({ written: z.array(BlockRowSchema) }).strict();
+
+/** The body without `at`, and `at` as JD (default: the clock). */
+function split({ at, ...body }: z.output<typeof NightScheduleBody>) {
+  return { body: body satisfies NightScheduleRequest, atJd: momentJd(at, 'at') };
 }
 
 export function nightScheduleRoutes(store: Store) {
@@ -78,15 +74,15 @@ export function nightScheduleRoutes(store: Store) {
         'Preview the schedule of a stored night: blocks in darkness, every left-out block with its reason, laser and Sun cautions',
       request: { params: IdParam, body },
       responses: {
-        200: json(z.record(z.string(), z.unknown()), 'the schedule, written nowhere'),
+        200: json(NightSchedulePreviewSchema, 'the schedule, written nowhere'),
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const { id, body: b, atJd } = request(c);
-      return c.json(await previewNightSchedule(store.db, id, b, atJd), 200);
-    }),
+      const { body: b, atJd } = split(c.req.valid('json'));
+      return c.json(await previewNightSchedule(store.db, c.req.valid('param').id, b, atJd), 200);
+    },
   );
   app.openapi(
     createRoute({
@@ -97,15 +93,16 @@ export function nightScheduleRoutes(store: Store) {
       summary: 'Store the night’s schedule in place of its still-planned blocks (all or nothing)',
       request: { params: IdParam, body },
       responses: {
-        201: json(z.record(z.string(), z.unknown()), 'the schedule with the blocks written'),
+        201: json(Accepted, 'the schedule with the blocks written'),
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       const user = requireRole(c, 'observer');
-      const { id, body: b, atJd } = request(c);
+      const { body: b, atJd } = split(c.req.valid('json'));
+      const id = c.req.valid('param').id;
       return c.json(await acceptNightSchedule(store, { userId: user.id }, id, b, atJd), 201);
-    }),
+    },
   );
   return app;
 }

@@ -16,6 +16,15 @@ const instantQuery = z
 /** An epoch from the query string as ISO UTC (string comparison of ISO UTC is time order). */
 export const isoOf = (v: string, field: string) => jdToIso(parseEpoch(v, field));
 
+export const NightRowSchema = rowOf(NightFields).openapi('Night');
+export const BlockRowSchema = rowOf(BlockFields, {
+  version: z.number().int(),
+  origin: z.enum(BLOCK_ORIGINS).openapi({
+    description:
+      'who made the block: an accepted season plan, night schedule, or a person; set once',
+  }),
+}).openapi('Block');
+
 export function nightRoutes(store: Store) {
   return crudRoutes({
     store,
@@ -24,7 +33,7 @@ export function nightRoutes(store: Store) {
     repo: store.nights,
     create: NightFields.strict(),
     patch: patchOf(NightFields, ['siteId', 'date']),
-    row: rowOf(NightFields),
+    row: NightRowSchema,
     filters: z.object({
       siteId: optionalId,
       campaignId: optionalId,
@@ -51,13 +60,7 @@ export function blockRoutes(store: Store) {
     repo: store.blocks,
     create: BlockFields.strict(),
     patch: patchOf(BlockFields),
-    row: rowOf(BlockFields, {
-      version: z.number().int(),
-      origin: z.enum(BLOCK_ORIGINS).openapi({
-        description:
-          'who made the block: an accepted season plan, night schedule, or a person; set once',
-      }),
-    }),
+    row: BlockRowSchema,
     filters: z.object({
       nightId: optionalId,
       targetId: optionalId,

@@ -24,13 +24,18 @@ import {
 
 const tags = ['orbit solutions'];
 const Create = OrbitSolutionInput.extend({ orbit: OrbitSchema }).strict();
-const Row = OrbitSolutionInput.omit({ makeCurrent: true }).extend({
-  id: z.number().int(),
-  version: z.number().int(),
-  current: z.boolean(),
-  createdBy: z.number().int().nullable(),
-  createdAt: z.string(),
-});
+export const OrbitSolutionRowSchema = OrbitSolutionInput.omit({ makeCurrent: true })
+  .extend({
+    orbit: OrbitSchema,
+    id: z.number().int(),
+    version: z.number().int(),
+    current: z.boolean(),
+    createdBy: z.number().int().nullable(),
+    createdAt: z.string(),
+  })
+  .strict()
+  .openapi('OrbitSolution');
+const Row = OrbitSolutionRowSchema;
 const Filters = PageQuery.extend({
   targetId: optionalId,
   current: z

@@ -3,7 +3,8 @@ import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
 import { campaignFlags } from '../../store/views/planning.ts';
 import { requireRole } from '../auth.ts';
-import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { FlagsAnswer } from '../schemas/plan-output.ts';
 import { momentJd } from '../../clock.ts';
 
 const FlagsQuery = z.object({
@@ -28,20 +29,20 @@ export function planRoutes(store: Store) {
       security,
       summary: 'Periapsis, blend and stale-prediction flags of a campaign, soonest first',
       request: { params: IdParam, query: FlagsQuery },
-      responses: { 200: json(z.record(z.string(), z.unknown()), 'the flags'), ...errorResponses },
+      responses: { 200: json(FlagsAnswer, 'the flags'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const q = valid(c, 'query');
+      const q = c.req.valid('query');
       const nowJd = momentJd(q.at, 'at');
       return c.json(
-        await campaignFlags(store.db, valid(c, 'param').id as number, {
+        await campaignFlags(store.db, c.req.valid('param').id, {
           nowJd,
-          ...(q.resolutionMas ? { resolutionMas: q.resolutionMas as number } : {}),
+          ...(q.resolutionMas ? { resolutionMas: q.resolutionMas } : {}),
         }),
         200,
       );
-    }),
+    },
   );
   return app;
 }

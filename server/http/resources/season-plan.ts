@@ -14,7 +14,9 @@ import {
   type SeasonPlanRequest,
 } from '../../store/views/season-plan.ts';
 import { requireRole } from '../auth.ts';
-import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { BlockRowSchema, NightRowSchema } from './nights.ts';
+import { SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
 import { momentJd } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
@@ -64,17 +66,14 @@ export const SeasonPlanBody = z
   })
   .strict();
 
-function request(c: Parameters<Parameters<typeof h>[0]>[0]): {
-  id: number;
-  body: SeasonPlanRequest;
-  atJd: number;
-} {
-  const { at, ...body } = valid(c, 'json') as z.output<typeof SeasonPlanBody>;
-  return {
-    id: valid(c, 'param').id as number,
-    body: body as SeasonPlanRequest,
-    atJd: momentJd(at, 'at'),
-  };
+const Accepted = SeasonPlanPreviewSchema.extend({
+  written: z.array(BlockRowSchema),
+  nightsCreated: z.array(NightRowSchema),
+}).strict();
+
+/** The body without `at`, and `at` as JD (default: the clock). */
+function split({ at, ...body }: z.output<typeof SeasonPlanBody>) {
+  return { body: body satisfies SeasonPlanRequest, atJd: momentJd(at, 'at') };
 }
 
 export function seasonPlanRoutes(store: Store) {
@@ -90,15 +89,15 @@ export function seasonPlanRoutes(store: Store) {
         'Preview the season plan of a campaign: epochs per target, reasons, unmet goals, expected σ shrinkage, blocks it would replace',
       request: { params: IdParam, body },
       responses: {
-        200: json(z.record(z.string(), z.unknown()), 'the plan, written nowhere'),
+        200: json(SeasonPlanPreviewSchema, 'the plan, written nowhere'),
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const { id, body: b, atJd } = request(c);
-      return c.json(await previewSeasonPlan(store.db, id, b, atJd), 200);
-    }),
+      const { body: b, atJd } = split(c.req.valid('json'));
+      return c.json(await previewSeasonPlan(store.db, c.req.valid('param').id, b, atJd), 200);
+    },
   );
   app.openapi(
     createRoute({
@@ -110,15 +109,16 @@ export function seasonPlanRoutes(store: Store) {
         'Store the season plan as blocks, replacing the still-planned blocks of its open nights (all or nothing)',
       request: { params: IdParam, body },
       responses: {
-        201: json(z.record(z.string(), z.unknown()), 'the plan with the blocks and nights written'),
+        201: json(Accepted, 'the plan with the blocks and nights written'),
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       const user = requireRole(c, 'lead');
-      const { id, body: b, atJd } = request(c);
+      const { body: b, atJd } = split(c.req.valid('json'));
+      const id = c.req.valid('param').id;
       return c.json(await acceptSeasonPlan(store, { userId: user.id }, id, b, atJd), 201);
-    }),
+    },
   );
   return app;
 }

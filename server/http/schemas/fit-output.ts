@@ -1,0 +1,100 @@
+/**
+ * Response schemas of a fit: every parameter and derived quantity with 1σ, the covariance,
+ * residuals per measurement, and per star an orbit that can be stored as a new solution.
+ */
+import { z } from '@hono/zod-openapi';
+import { PERCENTILES } from '../../science/orbit/index.ts';
+import { OrbitSchema } from './orbit.ts';
+
+const percentiles = z
+  .array(z.number())
+  .optional()
+  .openapi({ description: `posterior percentiles ${PERCENTILES.join(', ')} when sampled` });
+
+export const FittedParameterSchema = z
+  .object({
+    name: z.string(),
+    value: z.number(),
+    sigma: z.number().openapi({ description: '1σ from the covariance; 0 when held fixed' }),
+    unit: z.string(),
+    fixed: z.boolean(),
+    percentiles,
+  })
+  .strict()
+  .openapi('FittedParameter');
+
+export const StarSolutionSchema = z
+  .object({
+    name: z.string(),
+    quantities: z.array(
+      z
+        .object({
+          name: z.string(),
+          value: z.number(),
+          sigma: z.number(),
+          unit: z.string(),
+          percentiles,
+          fitted: z.boolean(),
+        })
+        .strict(),
+    ),
+    orbit: OrbitSchema.openapi({ description: 'the solution with the covariance of its elements' }),
+    nextPeriapsis: z.string().openapi({ description: 'ISO 8601 UTC, counted from asOf' }),
+    chi2: z.number(),
+    components: z.number().int(),
+  })
+  .strict()
+  .openapi('StarSolution');
+
+export const ResidualSchema = z
+  .object({
+    star: z.string(),
+    index: z.number().int(),
+    id: z.string().optional().openapi({ description: 'the measurement’s id, as sent' }),
+    kind: z.enum(['offsets', 'separation', 'radial-velocity']),
+    jd: z.number(),
+    epoch: z.string(),
+    residual: z.array(z.number()).openapi({
+      description: 'observed − model: [Δα*, Δδ] mas, [ρ mas, θ deg] or [v km/s]',
+    }),
+    normalized: z.array(z.number()).openapi({ description: 'residual / σ per component' }),
+    outlier: z.boolean(),
+  })
+  .strict()
+  .openapi('Residual');
+
+export const FitResultSchema = z
+  .object({
+    method: z.string(),
+    derivatives: z.string(),
+    loss: z.enum(['gaussian', 'huber']),
+    stars: z.array(StarSolutionSchema),
+    parameters: z.array(FittedParameterSchema),
+    covariance: z
+      .object({ parameters: z.array(z.string()), matrix: z.array(z.array(z.number())) })
+      .strict()
+      .openapi({ description: 'of the free parameters, interface units' }),
+    chi2: z.number(),
+    dof: z.number().int(),
+    reducedChi2: z.number().nullable(),
+    components: z.number().int(),
+    iterations: z.number().int(),
+    converged: z.boolean(),
+    frameEpoch: z.string().nullable(),
+    asOf: z.string(),
+    residuals: z.array(ResidualSchema),
+    outliers: z.number().int(),
+    sampler: z
+      .object({
+        walkers: z.number().int(),
+        steps: z.number().int(),
+        burn: z.number().int(),
+        seed: z.number().int(),
+        acceptance: z.number(),
+        samples: z.number().int(),
+      })
+      .strict()
+      .optional(),
+  })
+  .strict()
+  .openapi('FitResult');

@@ -1,0 +1,236 @@
+/**
+ * Response schemas of the planners: a campaign's flags, the season plan and the night schedule
+ * previews (what accepting would write). Instants as in the sky answers (UTC and the site's zone).
+ */
+import { z } from '@hono/zod-openapi';
+import { FLAG_KINDS, MEASUREMENT_KINDS } from '../../science/plan/index.ts';
+import { NIGHT_CHOICES } from '../../store/views/season-plan.ts';
+import { InstantSchema, IntervalSchema } from './sky-output.ts';
+
+const BlockKind = z.enum(MEASUREMENT_KINDS);
+const Before = z.object({ before: z.number().nullable(), after: z.number().nullable() }).strict();
+
+export const FlagSchema = z
+  .object({
+    kind: z.enum(FLAG_KINDS),
+    target: z.string(),
+    date: z.string().openapi({ description: 'when it applies (periapsis, blend start, now), UTC' }),
+    daysAhead: z.number(),
+    reason: z.string(),
+    periapsis: z
+      .object({
+        sigmaDays: z.number().nullable(),
+        band: z.string(),
+        sites: z.array(
+          z
+            .object({
+              site: z.string(),
+              nights: z.array(z.object({ date: z.string(), hours: z.number() }).strict()),
+              minHours: z.number(),
+              maxHours: z.number(),
+              blocked: z.string().nullable().openapi({
+                description: 'why it cannot be observed on the night of periapsis, if it cannot',
+              }),
+            })
+            .strict(),
+        ),
+        radialVelocityRateKmSPerDay: z.number().nullable(),
+        skyRateMasPerDay: z.number(),
+        samplingDays: z.number().nullable().openapi({
+          description: 'longest interval between epochs that still follows the change, days',
+        }),
+        relativity: z
+          .object({
+            gravitationalRedshiftKmS: z.number(),
+            transverseDopplerKmS: z.number(),
+            precessionArcminPerOrbit: z.number(),
+          })
+          .strict()
+          .nullable(),
+      })
+      .strict()
+      .optional(),
+    blend: z
+      .object({ other: z.string(), start: z.string(), end: z.string(), closestMas: z.number() })
+      .strict()
+      .optional(),
+    stale: z
+      .object({ sigmaMas: z.number().nullable(), daysSinceMeasured: z.number().nullable() })
+      .strict()
+      .optional(),
+  })
+  .strict()
+  .openapi('Flag');
+
+export const FlagsAnswer = z
+  .object({ campaignId: z.number().int(), flags: z.array(FlagSchema) })
+  .strict();
+
+export const ScheduledBlockSchema = z
+  .object({
+    id: z.string(),
+    target: z.string(),
+    kind: BlockKind,
+    start: InstantSchema,
+    end: InstantSchema,
+    minutes: z.number(),
+    priority: z.number(),
+    value: z.number().openapi({ description: 'priority × mean 1/airmass over the block' }),
+    airmassStart: z.number(),
+    airmassMiddle: z.number(),
+    airmassEnd: z.number(),
+    altitudeMiddleDeg: z.number(),
+    pinned: z.boolean(),
+    laserGuideStar: z.boolean(),
+    cautions: z.array(z.string()),
+  })
+  .strict()
+  .openapi('ScheduledBlock');
+
+export const NightScheduleSchema = z
+  .object({
+    site: z.string(),
+    timeZone: z.string(),
+    date: z.string(),
+    slotMinutes: z.number(),
+    slewMinutes: z.number(),
+    sameTargetMinutes: z.number(),
+    method: z.enum(['exact', 'heuristic']),
+    darkness: z.array(IntervalSchema),
+    darkHours: z.number(),
+    scheduledHours: z.number().openapi({ description: 'hours inside blocks' }),
+    totalValue: z.number(),
+    blocks: z.array(ScheduledBlockSchema),
+    leftOut: z.array(
+      z
+        .object({ id: z.string(), target: z.string(), kind: BlockKind, reason: z.string() })
+        .strict(),
+    ),
+    cautions: z.array(z.string()),
+  })
+  .strict()
+  .openapi('NightSchedule');
+
+export const CandidateSchema = z
+  .object({
+    id: z.string().openapi({ description: 'your name for the block, unique in the request' }),
+    target: z.string(),
+    kind: BlockKind,
+    durationMinutes: z.number().openapi({ description: 'time on target, minutes, (0, 720]' }),
+    priority: z.number().openapi({ description: 'weight in the night’s value, (0, 1000]' }),
+    maxAirmass: z.number().optional(),
+    laserGuideStar: z.boolean().optional(),
+  })
+  .strict()
+  .openapi('Candidate');
+
+const Kept = z.object({ id: z.number().int(), reason: z.string() }).strict();
+
+export const NightSchedulePreviewSchema = z
+  .object({
+    nightId: z.number().int(),
+    campaignId: z.number().int(),
+    at: z.string(),
+    candidatesFrom: z.enum(['campaign', 'request']),
+    candidates: z.array(CandidateSchema),
+    schedule: NightScheduleSchema,
+    replaces: z
+      .array(z.number().int())
+      .openapi({ description: 'stored blocks accepting would delete (all still only plans)' }),
+    kept: z.array(Kept),
+    digest: z.string(),
+  })
+  .strict()
+  .openapi('NightSchedulePreview');
+
+export const SeasonPlanSchema = z
+  .object({
+    startDate: z.string(),
+    endDate: z.string(),
+    sites: z.array(
+      z
+        .object({
+          name: z.string(),
+          nights: z.number().int(),
+          nightsUsed: z.number().int(),
+          darkHours: z.number(),
+          plannedHours: z.number(),
+        })
+        .strict(),
+    ),
+    epochs: z.array(
+      z
+        .object({
+          target: z.string(),
+          kind: BlockKind,
+          site: z.string(),
+          date: z.string(),
+          block: ScheduledBlockSchema,
+          gain: z.number().openapi({
+            description: 'fractional variance reduction of T plus that of the mass',
+          }),
+          why: z.enum(['cadence', 'information']),
+          reason: z.string(),
+        })
+        .strict(),
+    ),
+    unmet: z.array(
+      z
+        .object({
+          target: z.string(),
+          kind: BlockKind,
+          from: z.string(),
+          to: z.string(),
+          reason: z.string(),
+        })
+        .strict(),
+    ),
+    targets: z.array(
+      z
+        .object({
+          target: z.string(),
+          epochs: z
+            .object({ astrometry: z.number().int(), spectroscopy: z.number().int() })
+            .strict(),
+          periapses: z.array(z.string()),
+          cadenceMet: z.boolean(),
+          shrinkage: z
+            .object({ periapsisDays: Before, massFraction: Before, nominalPrior: z.boolean() })
+            .strict()
+            .nullable()
+            .openapi({ description: '1σ before and after the plan (linear, Fisher)' }),
+          nextBest: z.array(
+            z
+              .object({ date: z.string(), site: z.string(), kind: BlockKind, gain: z.number() })
+              .strict(),
+          ),
+        })
+        .strict(),
+    ),
+    cautions: z.array(z.string()),
+  })
+  .strict()
+  .openapi('SeasonPlan');
+
+export const SeasonPlanPreviewSchema = z
+  .object({
+    campaignId: z.number().int(),
+    at: z.string(),
+    nights: z.enum(NIGHT_CHOICES),
+    sites: z.array(
+      z
+        .object({
+          siteId: z.number().int(),
+          name: z.string(),
+          openNights: z.number().int(),
+          skipped: z.array(z.object({ date: z.string(), reason: z.string() }).strict()),
+          plannedAround: z.array(z.object({ date: z.string(), kept: z.array(Kept) }).strict()),
+        })
+        .strict(),
+    ),
+    plan: SeasonPlanSchema,
+    replaces: z.array(z.number().int()),
+    digest: z.string(),
+  })
+  .strict()
+  .openapi('SeasonPlanPreview');
