@@ -106,8 +106,8 @@ export const sites = sqliteTable('sites', {
   longitudeDeg: real('longitude_deg').notNull(),
   elevationM: real('elevation_m').notNull(),
   timeZone: text('time_zone').notNull(),
-  minAltitudeDeg: real('min_altitude_deg').notNull().default(30),
-  sunAvoidanceDeg: real('sun_avoidance_deg').notNull().default(45),
+  lowestAltitudeDeg: real('lowest_altitude_deg').notNull().default(30),
+  leastSunDistanceDeg: real('least_sun_distance_deg').notNull().default(45),
   pressureHpa: real('pressure_hpa'),
   temperatureC: real('temperature_c'),
   /** Azimuth-dependent horizon (the sky engine's shape), sorted by azimuth; empty for a flat horizon. */
@@ -129,9 +129,9 @@ export interface CampaignGoals {
   densifyWithinDays?: number;
   kinds: ('astrometry' | 'spectroscopy')[];
 }
-export interface CampaignConstraints {
-  maxAirmass?: number;
-  minMoonSeparationDeg?: number;
+export interface CampaignLimits {
+  highestAirmass?: number;
+  leastMoonDistanceDeg?: number;
   darkness?: 'civil' | 'nautical' | 'astronomical';
 }
 
@@ -141,7 +141,7 @@ export const campaigns = sqliteTable('campaigns', {
   startDate: text('start_date').notNull(),
   endDate: text('end_date').notNull(),
   goals: text('goals', { mode: 'json' }).$type<CampaignGoals>().notNull(),
-  constraints: text('constraints', { mode: 'json' }).$type<CampaignConstraints>().notNull(),
+  limits: text('limits', { mode: 'json' }).$type<CampaignLimits>().notNull(),
   notes: text('notes').notNull().default(''),
   createdAt: created(),
   updatedAt: updated(),

@@ -106,12 +106,12 @@ const Options = {
   asOf: Epoch.optional().openapi({
     description: 'next periapsis counted from here (default: the latest epoch)',
   }),
-  sample: z
+  posterior: z
     .object({
       seed: z.number().int(),
-      walkers: z.number().int().optional(),
-      steps: z.number().int().optional(),
-      burn: z.number().int().optional(),
+      ensembleSize: z.number().int().optional(),
+      rounds: z.number().int().optional(),
+      discardRounds: z.number().int().optional(),
     })
     .strict()
     .optional()

@@ -12,10 +12,10 @@ import {
   parseNightDate,
   seasonMap,
   seasonReport,
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
-  type Constraints,
+  type Limits,
   type Site,
   type Target,
 } from '../science/sky/index.ts';
@@ -39,7 +39,7 @@ export const SiteSchema = z
       .number()
       .optional()
       .openapi({ description: 'air temperature, °C (default: standard atmosphere)' }),
-    minAltitudeDeg: z
+    lowestAltitudeDeg: z
       .number()
       .optional()
       .openapi({ description: 'lowest pointing altitude, degrees (default 0)' }),
@@ -50,7 +50,7 @@ export const SiteSchema = z
         description:
           'lowest usable altitude (degrees) by azimuth (degrees from north through east), interpolated',
       }),
-    sunAvoidanceDeg: z
+    leastSunDistanceDeg: z
       .number()
       .optional()
       .openapi({ description: 'closest approach to the Sun, degrees (default 45)' }),
@@ -81,7 +81,7 @@ export const SkyTargetSchema = z
   .strict()
   .openapi('SkyTarget');
 
-export const ConstraintsSchema = z
+export const LimitsSchema = z
   .object({
     darkness: z
       .union([z.enum(['civil', 'nautical', 'astronomical']), z.number()])
@@ -89,17 +89,17 @@ export const ConstraintsSchema = z
       .openapi({
         description: 'twilight kind, or highest solar altitude in degrees (default astronomical)',
       }),
-    minAltitudeDeg: z.number().optional(),
-    maxAirmass: z
+    lowestAltitudeDeg: z.number().optional(),
+    highestAirmass: z
       .number()
       .optional()
-      .openapi({ description: 'default 2 unless minAltitudeDeg is given' }),
+      .openapi({ description: 'default 2 unless lowestAltitudeDeg is given' }),
     airmassFormula: z.enum(AIRMASS_FORMULAS).optional(),
-    minMoonSeparationDeg: z
+    leastMoonDistanceDeg: z
       .number()
       .optional()
       .openapi({ description: 'applies while the Moon is up; default 30' }),
-    sunAvoidanceDeg: z.number().optional().openapi({ description: "overrides the site's" }),
+    leastSunDistanceDeg: z.number().optional().openapi({ description: "overrides the site's" }),
     useHorizonMask: z.boolean().optional(),
     zenithSeeingArcsec: z.number().optional().openapi({
       description:
@@ -107,7 +107,7 @@ export const ConstraintsSchema = z
     }),
   })
   .strict()
-  .openapi('Constraints');
+  .openapi('Limits');
 
 const NightRequest = z
   .object({
@@ -117,7 +117,7 @@ const NightRequest = z
       example: '2027-06-15',
     }),
     targets: z.array(SkyTargetSchema).max(200),
-    constraints: ConstraintsSchema.optional(),
+    limits: LimitsSchema.optional(),
     method: z.enum(['fast', 'exact']).optional().openapi({
       description: 'fast (default) or exact (astronomy-engine per instant, at most 20 targets)',
     }),
@@ -137,7 +137,7 @@ const SeasonRequest = z
     site: SiteSchema,
     year: z.number().int(),
     targets: z.array(SkyTargetSchema).max(500),
-    constraints: ConstraintsSchema.optional(),
+    limits: LimitsSchema.optional(),
     stepMinutes: z
       .number()
       .optional()
@@ -211,7 +211,7 @@ export function skyRoutes() {
     const body = c.req.valid('json');
     const { site, targets } = siteAndTargets(body);
     parseNightDate(body.date, 'date');
-    const constraints = validateConstraints(body.constraints ?? {}, site, 'constraints');
+    const limits = validateLimits(body.limits ?? {}, site, 'limits');
     const stepMinutes = inRange('stepMinutes', body.stepMinutes, 0, 30, true);
     const curveStepMinutes = inRange('curveStepMinutes', body.curveStepMinutes, 0, 60);
     if (body.method === 'exact' && targets.length > 20) {
@@ -221,7 +221,7 @@ export function skyRoutes() {
         'must number at most 20 with method "exact"',
       );
     }
-    const report = nightReport(site, body.date, targets, constraints, {
+    const report = nightReport(site, body.date, targets, limits, {
       ...(body.method ? { method: body.method } : {}),
       ...(stepMinutes === undefined ? {} : { stepMinutes }),
       ...(curveStepMinutes === undefined ? {} : { curveStepMinutes }),
@@ -233,16 +233,16 @@ export function skyRoutes() {
     const { site, targets } = siteAndTargets(body);
     if (body.year < 1900 || body.year > 2100)
       throw new InputError('year', body.year, 'must lie between 1900 and 2100');
-    const constraints = validateConstraints(body.constraints ?? {}, site, 'constraints');
+    const limits = validateLimits(body.limits ?? {}, site, 'limits');
     const stepMinutes = inRange('stepMinutes', body.stepMinutes, 1, 60);
     const minHoursPerNight = inRange('minHoursPerNight', body.minHoursPerNight, 0, 24);
     const maxGapNights = inRange('maxGapNights', body.maxGapNights, 0, 60);
-    const map = seasonMap(site, body.year, targets, constraints, {
+    const map = seasonMap(site, body.year, targets, limits, {
       ...(stepMinutes === undefined ? {} : { stepMinutes }),
       ...(minHoursPerNight === undefined ? {} : { minHoursPerNight }),
       ...(maxGapNights === undefined ? {} : { maxGapNights }),
     });
-    return c.json(seasonReport(site, map, constraints), 200);
+    return c.json(seasonReport(site, map, limits), 200);
   });
   return app;
 }

@@ -3,11 +3,7 @@
  * solver, the heuristic's time and value against the exact optimum), and a season of 200 targets,
  * 2 sites and 180 nights. Targets (issue 5): ≤ 200 ms for the night, ≤ 10 s for the season.
  */
-import {
-  validateConstraints,
-  validateSite,
-  validateTarget,
-} from '../../server/science/sky/index.ts';
+import { validateLimits, validateSite, validateTarget } from '../../server/science/sky/index.ts';
 import {
   planSeason,
   scheduleNight,
@@ -25,7 +21,7 @@ const site = validateSite({
   longitudeDeg: -70.2,
   elevationM: 2500,
   timeZone: 'America/Santiago',
-  minAltitudeDeg: 25,
+  lowestAltitudeDeg: 25,
 });
 const site2 = validateSite({
   name: 'Bench Mesa',
@@ -33,10 +29,10 @@ const site2 = validateSite({
   longitudeDeg: -17.9,
   elevationM: 2300,
   timeZone: 'Atlantic/Canary',
-  minAltitudeDeg: 25,
+  lowestAltitudeDeg: 25,
 });
-const constraints = validateConstraints({ maxAirmass: 2 }, site);
-const constraints2 = validateConstraints({ maxAirmass: 2 }, site2);
+const limits = validateLimits({ highestAirmass: 2 }, site);
+const constraints2 = validateLimits({ highestAirmass: 2 }, site2);
 
 function smallProblem(rng: SeededRandom): SolverProblem {
   const edges = 60;
@@ -72,7 +68,7 @@ export async function run(): Promise<string[]> {
   }));
   const night = bestOf(
     5,
-    () => void scheduleNight(site, constraints, '2027-05-20', targets, { candidates }),
+    () => void scheduleNight(site, limits, '2027-05-20', targets, { candidates }),
   );
 
   const rng = new SeededRandom(5);
@@ -116,8 +112,8 @@ export async function run(): Promise<string[]> {
     '2027-03-01',
     '2027-08-27',
     [
-      { site, constraints },
-      { site: site2, constraints: constraints2 },
+      { site, limits },
+      { site: site2, limits: constraints2 },
     ],
     seasonTargets,
   );

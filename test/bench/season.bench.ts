@@ -18,7 +18,7 @@ import {
   nightSpan,
   seasonMap,
   skyPlaceExact,
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
   type Target,
@@ -50,7 +50,7 @@ function randomTargets(n: number, rng: SeededRandom): Target[] {
 export async function run(): Promise<string[]> {
   const rng = new SeededRandom(2027);
   const targets = randomTargets(10_000, rng);
-  const c = validateConstraints({}, site);
+  const c = validateLimits({}, site);
   seasonMap(site, 2027, targets.slice(0, 300), c); // JIT warm-up on a small map
   // Exact per instant on a random subsample of (target, night, dark instant).
   const picks: { target: Target; jd: number }[] = [];

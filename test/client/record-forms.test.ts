@@ -17,7 +17,7 @@ import {
 import { CampaignInput, SiteInput, SystemInput } from '../../server/store/schemas/entities.ts';
 
 describe('request bodies', () => {
-  test('a campaign: nested goals and constraints, empty optional fields left out, the schema accepts it', () => {
+  test('a campaign: nested goals and limits, empty optional fields left out, the schema accepts it', () => {
     const r = bodyOf(CAMPAIGN_FIELDS, {
       name: 'Dusk run',
       startDate: '2028-03-01',
@@ -26,9 +26,9 @@ describe('request bodies', () => {
       'goals.kinds': 'both',
       'goals.densifiedCadenceDays': '',
       'goals.densifyWithinDays': '',
-      'constraints.maxAirmass': '1.8',
-      'constraints.minMoonSeparationDeg': '',
-      'constraints.darkness': '',
+      'limits.highestAirmass': '1.8',
+      'limits.leastMoonDistanceDeg': '',
+      'limits.darkness': '',
       targetIds: [2, 3],
       siteIds: [1],
       notes: '',
@@ -39,7 +39,7 @@ describe('request bodies', () => {
         startDate: '2028-03-01',
         endDate: '2028-09-30',
         goals: { cadenceDays: 14, kinds: ['astrometry', 'spectroscopy'] },
-        constraints: { maxAirmass: 1.8 },
+        limits: { highestAirmass: 1.8 },
         targetIds: [2, 3],
         siteIds: [1],
       },
@@ -54,8 +54,8 @@ describe('request bodies', () => {
       longitudeDeg: '-70.7',
       elevationM: '2350',
       timeZone: 'America/Santiago',
-      minAltitudeDeg: '',
-      sunAvoidanceDeg: '',
+      lowestAltitudeDeg: '',
+      leastSunDistanceDeg: '',
       pressureHpa: '',
       temperatureC: '',
       horizonMask: '0 8, 170 34; 260 7',

@@ -30,7 +30,7 @@ interface Vis {
   site: { name: string };
   sun: { set: { utc: string } | null; rise: { utc: string } | null };
   moon: { illuminatedFraction: number; curve: { utc: string[]; altitudeDeg: number[] } | null };
-  constraints: { altitudeLimitDeg: number; horizonMask: boolean };
+  limits: { altitudeLimitDeg: number; horizonMask: boolean };
   targets: {
     name: string;
     curve: { utc: string[]; altitudeDeg: number[]; horizonMaskDeg?: number[] } | null;
@@ -186,7 +186,7 @@ describe('adding records, and a horizon mask on the night chart', () => {
     await form.locator('[name=longitudeDeg]').fill('-69.517');
     await form.locator('[name=elevationM]').fill('2710');
     await form.locator('[name=timeZone]').fill('America/Santiago');
-    await form.locator('[name=minAltitudeDeg]').fill('30');
+    await form.locator('[name=lowestAltitudeDeg]').fill('30');
     await form.locator('[name=horizonMask]').fill('0 5, 60 5, 80 60, 130 95, 150 5');
     await form.getByRole('button', { name: 'Add' }).click();
     const maskMsg = form.locator('.field.invalid .field-msg');
@@ -246,7 +246,7 @@ describe('adding records, and a horizon mask on the night chart', () => {
     });
     made.push(`/nights/${night.id}`);
     const vis = await api<Vis>(`/nights/${night.id}/visibility?curves=true`);
-    expect(vis.constraints.horizonMask).toBe(true);
+    expect(vis.limits.horizonMask).toBe(true);
     const curve = vis.targets[0]!.curve!;
     expect(curve.horizonMaskDeg!.some((m, i) => m > 30 && curve.altitudeDeg[i]! > 0)).toBe(true);
     const n = await open(`/nights/${night.id}`);

@@ -6,7 +6,7 @@
  *
  * Demo scenario (server/store/demo/scenario.ts, invented): campaign 1 follows the Vesper Core stars
  * from Tolvane Ridge (site 1, laser guide star) and Ostrel Summit (site 2); VC s1 passes periapsis
- * on 2027-06-14. Constraints: airmass ≤ 1.8, Moon ≥ 30°, astronomical darkness; Sun avoidance 45°/40°.
+ * on 2027-06-14. Limits: airmass ≤ 1.8, Moon ≥ 30°, astronomical darkness; Sun avoidance 45°/40°.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from '../../server/science/plan/index.ts';
@@ -81,9 +81,9 @@ for (const backend of BACKENDS) {
       );
       expect(m.highestSunDeg).toBeLessThan(-18); // astronomical darkness (Explanatory Supplement to the Astronomical Almanac, via REFERENCES.md); Sun from astronomy-engine
       expect(m.highestAirmass).toBeLessThan(1.8 + 0.01); // the demo campaign's limit; Kasten & Young, Applied Optics 28, 4735 (1989), on astronomy-engine's altitude (0.01: its standard refraction vs the site's pressure)
-      expect(m.lowestAltitudeDeg).toBeGreaterThan(site.minAltitudeDeg - 0.05); // the site's altitude limit (demo, invented)
+      expect(m.lowestAltitudeDeg).toBeGreaterThan(site.lowestAltitudeDeg - 0.05); // the site's altitude limit (demo, invented)
       expect(m.closestMoonDeg).toBeGreaterThan(30 - 0.1); // the campaign's Moon limit (demo); 0.1°: the target is placed at its primary here
-      expect(m.closestSunDeg).toBeGreaterThan(site.sunAvoidanceDeg); // the site's Sun-avoidance angle (demo)
+      expect(m.closestSunDeg).toBeGreaterThan(site.leastSunDistanceDeg); // the site's Sun-avoidance angle (demo)
     };
 
     it('previews a season plan without writing, with reasons, unmet goals and shrinking σ', async () => {

@@ -50,7 +50,7 @@ describe('POST /api/sky/night', () => {
       site,
       date: '2027-06-15',
       targets,
-      constraints: { zenithSeeingArcsec: 0.7 },
+      limits: { zenithSeeingArcsec: 0.7 },
       curveStepMinutes: 30,
     });
     expect(res.status).toBe(200);
@@ -83,7 +83,7 @@ describe('POST /api/sky/night', () => {
     expect(r.cautions.length).toBeGreaterThan(0);
   });
 
-  it('answers 422 naming the field for a bad site, target, date or constraint, and 400 for a bad shape', async () => {
+  it('answers 422 naming the field for a bad site, target, date or limit, and 400 for a bad shape', async () => {
     const cases: [unknown, string, unknown][] = [
       [
         { site: { ...site, latitudeDeg: -95 }, date: '2027-06-15', targets },
@@ -103,8 +103,8 @@ describe('POST /api/sky/night', () => {
       ],
       [{ site, date: '2027-06-15', targets: [targets[0], targets[0]] }, 'targets.1.name', 'Tern-3'],
       [
-        { site, date: '2027-06-15', targets, constraints: { maxAirmass: 0.5 } },
-        'constraints.maxAirmass',
+        { site, date: '2027-06-15', targets, limits: { highestAirmass: 0.5 } },
+        'limits.highestAirmass',
         0.5,
       ],
       [{ site, date: '2027-06-15', targets, stepMinutes: 90 }, 'stepMinutes', 90],

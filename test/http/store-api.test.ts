@@ -90,8 +90,8 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
         elevationM: 2900,
         timeZone: 'America/Mazatlan',
       },
-      patch: { minAltitudeDeg: 25 },
-      field: 'minAltitudeDeg',
+      patch: { lowestAltitudeDeg: 25 },
+      field: 'lowestAltitudeDeg',
       value: 25,
     },
     {
@@ -252,7 +252,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
   it('stores a site’s horizon mask in azimuth order, and the night view obeys it', async () => {
     const path = `/api/nights/${f.ids.night}/visibility`;
     type Report = {
-      constraints: { horizonMask: boolean; altitudeLimitDeg: number };
+      limits: { horizonMask: boolean; altitudeLimitDeg: number };
       targets: {
         windows: {
           start: { utc: string };
@@ -264,7 +264,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       }[];
     };
     const flat = (await (await f.call('viewer', 'GET', path)).json()) as Report;
-    expect(flat.constraints.horizonMask).toBe(false); // the fixture site has no mask
+    expect(flat.limits.horizonMask).toBe(false); // the fixture site has no mask
     // A wall of 70° over the eastern half (azimuth 10°–170°), 20° (below the 30° limit) over the western half.
     const mask = [
       { azimuthDeg: 350, altitudeDeg: 20 },
@@ -282,7 +282,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       ),
     ).toEqual([10, 170, 190, 350]); // the points sent above, sorted
     const masked = (await (await f.call('viewer', 'GET', path)).json()) as Report;
-    expect(masked.constraints.horizonMask).toBe(true);
+    expect(masked.limits.horizonMask).toBe(true);
     const [w0, w1] = [flat.targets[0]!.windows[0]!, masked.targets[0]!.windows[0]!];
     expect(w1.opensBy).toBe('horizon-mask');
     expect(w1.hours).toBeLessThan(w0.hours);
@@ -303,7 +303,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     expect(Math.abs(open.altitude - 70)).toBeLessThan(0.05); // the mask altitude set above; astronomy-engine's sea-level refraction differs from the site's by < 0.01° at 70°
     expect(w1.closesBy).toBe('altitude'); // on this June night the star sinks to the site limit before dawn ends darkness
     expect(close.azimuth > 190 && close.azimuth < 350).toBe(true); // setting in the west, where the 20° mask is below the site limit
-    expect(Math.abs(close.altitude - masked.constraints.altitudeLimitDeg)).toBeLessThan(0.05); // the site's minimum altitude (fixture default 30°)
+    expect(Math.abs(close.altitude - masked.limits.altitudeLimitDeg)).toBeLessThan(0.05); // the site's minimum altitude (fixture default 30°)
   });
 
   it('keeps a system’s position epoch and proper motion, and the night view carries the position by them', async () => {

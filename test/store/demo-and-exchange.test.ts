@@ -266,9 +266,9 @@ describe('a stored night’s visibility', () => {
       darkness: { hours: number };
       targets: { name: string; observableHours: number }[];
       cautions: string[];
-      constraints: { horizonMask: boolean };
+      limits: { horizonMask: boolean };
     };
-    expect(report.constraints.horizonMask).toBe(true); // scenario.ts gives Tolvane Ridge a stored horizon mask, and the view uses it
+    expect(report.limits.horizonMask).toBe(true); // scenario.ts gives Tolvane Ridge a stored horizon mask, and the view uses it
     const site = await store.sites.get(night.siteId);
     const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
     const noon = new Date('2027-06-12T16:00:00Z'); // local noon in America/Santiago (UTC−4 in June)

@@ -143,3 +143,54 @@ it('upgrades a database made before migration 0002: blocks get their origin and 
     store.database.close();
   }
 });
+
+it('upgrades a database made before migration 0003: limits keep their values under the new names', async () => {
+  // The migrations folder as it stood before 0003: the first three journal entries.
+  const old = join(dir, 'migrations-0002');
+  cpSync(MIGRATIONS_FOLDER, old, { recursive: true });
+  const journal = JSON.parse(readFileSync(join(old, 'meta/_journal.json'), 'utf8')) as {
+    entries: { tag: string }[];
+  };
+  expect(journal.entries[3]?.tag).toMatch(/^0003_/); // the migration under test exists
+  writeFileSync(
+    join(old, 'meta/_journal.json'),
+    JSON.stringify({ ...journal, entries: journal.entries.slice(0, 3) }),
+  );
+  const url = `file:${join(dir, 'old-limits.db')}`;
+  const client = createClient({ url });
+  await migrate(drizzle(client), { migrationsFolder: old });
+  const now = '2026-01-01T00:00:00.000Z';
+  await client.execute({
+    sql: 'INSERT INTO sites (name, latitude_deg, longitude_deg, elevation_m, time_zone, min_altitude_deg, sun_avoidance_deg, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+    args: ['Old Ridge', -30, -70, 2400, 'America/Santiago', 25, 50, now, now],
+  });
+  const campaign = (name: string, limits: object) =>
+    client.execute({
+      sql: 'INSERT INTO campaigns (name, start_date, end_date, goals, constraints, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)',
+      args: [
+        name,
+        '2027-01-01',
+        '2027-12-31',
+        JSON.stringify({ cadenceDays: 30, kinds: ['astrometry'] }),
+        JSON.stringify(limits),
+        now,
+        now,
+      ],
+    });
+  await campaign('Full', { maxAirmass: 1.8, minMoonSeparationDeg: 40, darkness: 'nautical' });
+  await campaign('Empty', {});
+  client.close();
+
+  const store = createStore(await openDatabase({ url }));
+  try {
+    const [site] = (await store.sites.list([])).items;
+    expect(site).toMatchObject({ lowestAltitudeDeg: 25, leastSunDistanceDeg: 50 }); // the values inserted above
+    const limits = (await store.campaigns.list([])).items.map((c) => [c.name, c.limits]);
+    expect(limits).toEqual([
+      ['Full', { highestAirmass: 1.8, leastMoonDistanceDeg: 40, darkness: 'nautical' }],
+      ['Empty', {}],
+    ]); // the values inserted above, under the names of migration 0003
+  } finally {
+    store.database.close();
+  }
+});

@@ -236,7 +236,7 @@ export interface paths {
                          */
                         date: string;
                         targets: components["schemas"]["SkyTarget"][];
-                        constraints?: components["schemas"]["Constraints"];
+                        limits?: components["schemas"]["Limits"];
                         /**
                          * @description fast (default) or exact (astronomy-engine per instant, at most 20 targets)
                          * @enum {string}
@@ -308,7 +308,7 @@ export interface paths {
                         site: components["schemas"]["Site"];
                         year: number;
                         targets: components["schemas"]["SkyTarget"][];
-                        constraints?: components["schemas"]["Constraints"];
+                        limits?: components["schemas"]["Limits"];
                         /** @description darkness sampling step, minutes, [1, 60]; default 5 */
                         stepMinutes?: number;
                         /** @description hours that make a night usable; default 1 */
@@ -2749,12 +2749,12 @@ export interface paths {
                                  * @description lowest usable altitude, degrees
                                  * @default 30
                                  */
-                                minAltitudeDeg: number;
+                                lowestAltitudeDeg: number;
                                 /**
                                  * @description closest allowed angle to the Sun, degrees
                                  * @default 45
                                  */
-                                sunAvoidanceDeg: number;
+                                leastSunDistanceDeg: number;
                                 /** @description typical pressure for refraction, hPa */
                                 pressureHpa?: number | null;
                                 /** @description typical night temperature, °C */
@@ -2903,12 +2903,12 @@ export interface paths {
                          * @description lowest usable altitude, degrees
                          * @default 30
                          */
-                        minAltitudeDeg?: number;
+                        lowestAltitudeDeg?: number;
                         /**
                          * @description closest allowed angle to the Sun, degrees
                          * @default 45
                          */
-                        sunAvoidanceDeg?: number;
+                        leastSunDistanceDeg?: number;
                         /** @description typical pressure for refraction, hPa */
                         pressureHpa?: number | null;
                         /** @description typical night temperature, °C */
@@ -2954,12 +2954,12 @@ export interface paths {
                              * @description lowest usable altitude, degrees
                              * @default 30
                              */
-                            minAltitudeDeg: number;
+                            lowestAltitudeDeg: number;
                             /**
                              * @description closest allowed angle to the Sun, degrees
                              * @default 45
                              */
-                            sunAvoidanceDeg: number;
+                            leastSunDistanceDeg: number;
                             /** @description typical pressure for refraction, hPa */
                             pressureHpa?: number | null;
                             /** @description typical night temperature, °C */
@@ -3124,12 +3124,12 @@ export interface paths {
                              * @description lowest usable altitude, degrees
                              * @default 30
                              */
-                            minAltitudeDeg: number;
+                            lowestAltitudeDeg: number;
                             /**
                              * @description closest allowed angle to the Sun, degrees
                              * @default 45
                              */
-                            sunAvoidanceDeg: number;
+                            leastSunDistanceDeg: number;
                             /** @description typical pressure for refraction, hPa */
                             pressureHpa?: number | null;
                             /** @description typical night temperature, °C */
@@ -3386,8 +3386,8 @@ export interface paths {
                         elevationM?: number;
                         /** @description IANA time zone, e.g. America/Santiago */
                         timeZone?: string;
-                        minAltitudeDeg?: number;
-                        sunAvoidanceDeg?: number;
+                        lowestAltitudeDeg?: number;
+                        leastSunDistanceDeg?: number;
                         /** @description typical pressure for refraction, hPa */
                         pressureHpa?: number | null;
                         /** @description typical night temperature, °C */
@@ -3424,12 +3424,12 @@ export interface paths {
                              * @description lowest usable altitude, degrees
                              * @default 30
                              */
-                            minAltitudeDeg: number;
+                            lowestAltitudeDeg: number;
                             /**
                              * @description closest allowed angle to the Sun, degrees
                              * @default 45
                              */
-                            sunAvoidanceDeg: number;
+                            leastSunDistanceDeg: number;
                             /** @description typical pressure for refraction, hPa */
                             pressureHpa?: number | null;
                             /** @description typical night temperature, °C */
@@ -3606,9 +3606,9 @@ export interface paths {
                                     kinds: ("astrometry" | "spectroscopy")[];
                                 };
                                 /** @default {} */
-                                constraints: {
-                                    maxAirmass?: number;
-                                    minMoonSeparationDeg?: number;
+                                limits: {
+                                    highestAirmass?: number;
+                                    leastMoonDistanceDeg?: number;
                                     /** @enum {string} */
                                     darkness?: "civil" | "nautical" | "astronomical";
                                 };
@@ -3753,9 +3753,9 @@ export interface paths {
                             kinds: ("astrometry" | "spectroscopy")[];
                         };
                         /** @default {} */
-                        constraints?: {
-                            maxAirmass?: number;
-                            minMoonSeparationDeg?: number;
+                        limits?: {
+                            highestAirmass?: number;
+                            leastMoonDistanceDeg?: number;
                             /** @enum {string} */
                             darkness?: "civil" | "nautical" | "astronomical";
                         };
@@ -3797,9 +3797,9 @@ export interface paths {
                                 kinds: ("astrometry" | "spectroscopy")[];
                             };
                             /** @default {} */
-                            constraints: {
-                                maxAirmass?: number;
-                                minMoonSeparationDeg?: number;
+                            limits: {
+                                highestAirmass?: number;
+                                leastMoonDistanceDeg?: number;
                                 /** @enum {string} */
                                 darkness?: "civil" | "nautical" | "astronomical";
                             };
@@ -3960,9 +3960,9 @@ export interface paths {
                                 kinds: ("astrometry" | "spectroscopy")[];
                             };
                             /** @default {} */
-                            constraints: {
-                                maxAirmass?: number;
-                                minMoonSeparationDeg?: number;
+                            limits: {
+                                highestAirmass?: number;
+                                leastMoonDistanceDeg?: number;
                                 /** @enum {string} */
                                 darkness?: "civil" | "nautical" | "astronomical";
                             };
@@ -4218,9 +4218,9 @@ export interface paths {
                             densifyWithinDays?: number;
                             kinds: ("astrometry" | "spectroscopy")[];
                         };
-                        constraints?: {
-                            maxAirmass?: number;
-                            minMoonSeparationDeg?: number;
+                        limits?: {
+                            highestAirmass?: number;
+                            leastMoonDistanceDeg?: number;
                             /** @enum {string} */
                             darkness?: "civil" | "nautical" | "astronomical";
                         };
@@ -4259,9 +4259,9 @@ export interface paths {
                                 kinds: ("astrometry" | "spectroscopy")[];
                             };
                             /** @default {} */
-                            constraints: {
-                                maxAirmass?: number;
-                                minMoonSeparationDeg?: number;
+                            limits: {
+                                highestAirmass?: number;
+                                leastMoonDistanceDeg?: number;
                                 /** @enum {string} */
                                 darkness?: "civil" | "nautical" | "astronomical";
                             };
@@ -8983,7 +8983,7 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, maxAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
+                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
                         candidates?: unknown[];
                         /** @description keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge) */
                         pins?: unknown[];
@@ -9144,7 +9144,7 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, maxAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
+                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
                         candidates?: unknown[];
                         /** @description keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge) */
                         pins?: unknown[];
@@ -9371,11 +9371,11 @@ export interface paths {
                         /** @description next periapsis counted from here (default: the latest epoch) */
                         asOf?: string | number;
                         /** @description posterior sampling (affine-invariant ensemble), seeded */
-                        sample?: {
+                        posterior?: {
                             seed: number;
-                            walkers?: number;
-                            steps?: number;
-                            burn?: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
                         };
                     };
                 };
@@ -9504,11 +9504,11 @@ export interface paths {
                         /** @description next periapsis counted from here (default: the latest epoch) */
                         asOf?: string | number;
                         /** @description posterior sampling (affine-invariant ensemble), seeded */
-                        sample?: {
+                        posterior?: {
                             seed: number;
-                            walkers?: number;
-                            steps?: number;
-                            burn?: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
                         };
                         /** @description fit only these measurements */
                         measurementIds?: number[];
@@ -9670,11 +9670,11 @@ export interface paths {
                         /** @description next periapsis counted from here (default: the latest epoch) */
                         asOf?: string | number;
                         /** @description posterior sampling (affine-invariant ensemble), seeded */
-                        sample?: {
+                        posterior?: {
                             seed: number;
-                            walkers?: number;
-                            steps?: number;
-                            burn?: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
                         };
                         /** @description fit only these measurements */
                         measurementIds?: number[];
@@ -9832,11 +9832,11 @@ export interface paths {
                         /** @description next periapsis counted from here (default: the latest epoch) */
                         asOf?: string | number;
                         /** @description posterior sampling (affine-invariant ensemble), seeded */
-                        sample?: {
+                        posterior?: {
                             seed: number;
-                            walkers?: number;
-                            steps?: number;
-                            burn?: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
                         };
                         /** @description fit only these measurements */
                         measurementIds?: number[];
@@ -9998,11 +9998,11 @@ export interface paths {
                         /** @description next periapsis counted from here (default: the latest epoch) */
                         asOf?: string | number;
                         /** @description posterior sampling (affine-invariant ensemble), seeded */
-                        sample?: {
+                        posterior?: {
                             seed: number;
-                            walkers?: number;
-                            steps?: number;
-                            burn?: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
                         };
                         /** @description fit only these measurements */
                         measurementIds?: number[];
@@ -10367,12 +10367,12 @@ export interface components {
                     altitudeDeg: number[];
                 } | null;
             };
-            constraints: {
+            limits: {
                 altitudeLimitDeg: number;
-                maxAirmass: number | null;
+                highestAirmass: number | null;
                 airmassFormula: string;
-                minMoonSeparationDeg: number;
-                sunAvoidanceDeg: number;
+                leastMoonDistanceDeg: number;
+                leastSunDistanceDeg: number;
                 horizonMask: boolean;
             };
             /** @enum {string} */
@@ -10413,12 +10413,12 @@ export interface components {
              * @description the limit that opens or closes it
              * @enum {string}
              */
-            opensBy: "darkness" | "altitude" | "horizon-mask" | "sun-avoidance" | "moon" | "night-edge";
+            opensBy: "darkness" | "altitude" | "horizon-mask" | "sun-distance" | "moon" | "night-edge";
             /**
              * @description the limit that opens or closes it
              * @enum {string}
              */
-            closesBy: "darkness" | "altitude" | "horizon-mask" | "sun-avoidance" | "moon" | "night-edge";
+            closesBy: "darkness" | "altitude" | "horizon-mask" | "sun-distance" | "moon" | "night-edge";
             transit: {
                 /** @description ISO 8601 UTC */
                 utc: string;
@@ -10470,14 +10470,14 @@ export interface components {
             /** @description air temperature, °C (default: standard atmosphere) */
             temperatureC?: number;
             /** @description lowest pointing altitude, degrees (default 0) */
-            minAltitudeDeg?: number;
+            lowestAltitudeDeg?: number;
             /** @description lowest usable altitude (degrees) by azimuth (degrees from north through east), interpolated */
             horizonMask?: {
                 azimuthDeg: number;
                 altitudeDeg: number;
             }[];
             /** @description closest approach to the Sun, degrees (default 45) */
-            sunAvoidanceDeg?: number;
+            leastSunDistanceDeg?: number;
         };
         SkyTarget: {
             name: string;
@@ -10493,18 +10493,18 @@ export interface components {
             epoch?: string;
             orbit?: components["schemas"]["Orbit"] & unknown;
         };
-        Constraints: {
+        Limits: {
             /** @description twilight kind, or highest solar altitude in degrees (default astronomical) */
             darkness?: ("civil" | "nautical" | "astronomical") | number;
-            minAltitudeDeg?: number;
-            /** @description default 2 unless minAltitudeDeg is given */
-            maxAirmass?: number;
+            lowestAltitudeDeg?: number;
+            /** @description default 2 unless lowestAltitudeDeg is given */
+            highestAirmass?: number;
             /** @enum {string} */
             airmassFormula?: "kasten-young" | "secant" | "hardie" | "pickering";
             /** @description applies while the Moon is up; default 30 */
-            minMoonSeparationDeg?: number;
+            leastMoonDistanceDeg?: number;
             /** @description overrides the site's */
-            sunAvoidanceDeg?: number;
+            leastSunDistanceDeg?: number;
             useHorizonMask?: boolean;
             /** @description zenith seeing FWHM, arcsec: the seeing at each window's best airmass is reported */
             zenithSeeingArcsec?: number;
@@ -10640,12 +10640,12 @@ export interface components {
                     altitudeDeg: number[];
                 } | null;
             };
-            constraints: {
+            limits: {
                 altitudeLimitDeg: number;
-                maxAirmass: number | null;
+                highestAirmass: number | null;
                 airmassFormula: string;
-                minMoonSeparationDeg: number;
-                sunAvoidanceDeg: number;
+                leastMoonDistanceDeg: number;
+                leastSunDistanceDeg: number;
                 horizonMask: boolean;
             };
             /** @enum {string} */

@@ -36,8 +36,8 @@ export interface SiteRow {
   longitudeDeg: number;
   elevationM: number;
   timeZone: string;
-  minAltitudeDeg: number;
-  sunAvoidanceDeg: number;
+  lowestAltitudeDeg: number;
+  leastSunDistanceDeg: number;
   pressureHpa: number | null;
   temperatureC: number | null;
   horizonMask: HorizonPoint[];
@@ -53,7 +53,7 @@ export interface CampaignRow {
   siteIds: number[];
   notes: string;
   goals: { cadenceDays: number; kinds: string[] };
-  constraints: { maxAirmass?: number; minMoonSeparationDeg?: number; darkness?: string };
+  limits: { highestAirmass?: number; leastMoonDistanceDeg?: number; darkness?: string };
 }
 export interface NightRow {
   id: number;
@@ -216,10 +216,10 @@ export interface Visibility {
     illuminatedFraction: number;
     curve?: { utc: string[]; altitudeDeg: number[] } | null;
   };
-  constraints: {
+  limits: {
     altitudeLimitDeg: number;
-    maxAirmass?: number;
-    sunAvoidanceDeg: number;
+    highestAirmass?: number;
+    leastSunDistanceDeg: number;
     horizonMask?: boolean;
   };
   targets: VisTarget[];

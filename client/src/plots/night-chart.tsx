@@ -81,7 +81,7 @@ export function NightChart(props: NightChartProps) {
   const hours: number[] = [];
   for (let h = Math.ceil(t0 / 3600_000) * 3600_000; h <= t1; h += 3600_000) hours.push(h);
   const zone = vis.site.timeZone;
-  const limit = mode === 'altitude' ? vis.constraints.altitudeLimitDeg : vis.constraints.maxAirmass;
+  const limit = mode === 'altitude' ? vis.limits.altitudeLimitDeg : vis.limits.highestAirmass;
   const laneY = M.top + plotH + 8;
   return (
     <svg
@@ -159,13 +159,13 @@ export function NightChart(props: NightChartProps) {
                 t.curve.utc.map(ms),
                 t.curve.horizonMaskDeg,
                 t.curve.altitudeDeg,
-                vis.constraints.altitudeLimitDeg,
+                vis.limits.altitudeLimitDeg,
                 x,
                 y,
               ).map((d) => (
                 <path key={d} d={d} />
               ))}
-              <title>{`horizon mask along ${t.name}’s path, above the ${vis.constraints.altitudeLimitDeg.toFixed(0)}° limit`}</title>
+              <title>{`horizon mask along ${t.name}’s path, above the ${vis.limits.altitudeLimitDeg.toFixed(0)}° limit`}</title>
             </g>
           ) : null,
         )}

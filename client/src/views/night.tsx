@@ -29,12 +29,12 @@ export function blockProblem(
   b: BlockRow,
   vis: Visibility,
   targetName: string,
-  siteSunAvoidanceDeg: number,
+  siteLeastSunDistanceDeg: number,
 ): string | null {
   const t = vis.targets.find((v) => v.name === targetName || v.name.startsWith(`${targetName} (`));
   if (!t) return null;
-  if (t.sunSeparationDeg < siteSunAvoidanceDeg)
-    return `refused: ${t.sunSeparationDeg.toFixed(0)}° from the Sun, inside the site’s ${siteSunAvoidanceDeg}° Sun-avoidance angle`;
+  if (t.sunSeparationDeg < siteLeastSunDistanceDeg)
+    return `refused: ${t.sunSeparationDeg.toFixed(0)}° from the Sun, inside the site’s ${siteLeastSunDistanceDeg}° Sun-avoidance angle`;
   const s = ms(b.startUtc);
   const e = ms(b.endUtc);
   if (!t.windows.some((w) => ms(w.start.utc) <= s + 1000 && ms(w.end.utc) >= e - 1000))
@@ -47,7 +47,7 @@ function BlockTable({
   vis,
   names,
   zone,
-  sunAvoid,
+  leastSunDistance,
   canEdit,
   onChanged,
 }: {
@@ -55,7 +55,7 @@ function BlockTable({
   vis: Visibility;
   names: (id: number) => string;
   zone: string;
-  sunAvoid: number;
+  leastSunDistance: number;
   canEdit: boolean;
   onChanged: () => void;
 }) {
@@ -105,7 +105,7 @@ function BlockTable({
         </thead>
         <tbody>
           {blocks.map((b) => {
-            const problem = blockProblem(b, vis, names(b.targetId), sunAvoid);
+            const problem = blockProblem(b, vis, names(b.targetId), leastSunDistance);
             return (
               <tr
                 key={b.id}
@@ -295,7 +295,7 @@ export function NightView({ id }: { id: number }) {
             </li>
           )}
           {vis.targets.some((t) =>
-            t.curve?.horizonMaskDeg?.some((m) => m > vis.constraints.altitudeLimitDeg),
+            t.curve?.horizonMaskDeg?.some((m) => m > vis.limits.altitudeLimitDeg),
           ) && (
             <li class="mask-key">
               <svg width="28" height="10" aria-hidden="true">
@@ -347,7 +347,7 @@ export function NightView({ id }: { id: number }) {
           vis={vis}
           names={names}
           zone={zone}
-          sunAvoid={site.sunAvoidanceDeg}
+          leastSunDistance={site.leastSunDistanceDeg}
           canEdit={canEdit}
           onChanged={() => setTick(tick + 1)}
         />

@@ -36,8 +36,8 @@ const SITE_COLS: Column[] = [
   { key: 'longitudeDeg', label: 'longitude (°, E +)', editable: 'number' },
   { key: 'elevationM', label: 'elevation (m)', editable: 'number' },
   { key: 'timeZone', label: 'time zone (IANA)', editable: 'text' },
-  { key: 'minAltitudeDeg', label: 'lowest altitude (°)', editable: 'number' },
-  { key: 'sunAvoidanceDeg', label: 'Sun avoidance (°)', editable: 'number' },
+  { key: 'lowestAltitudeDeg', label: 'lowest altitude (°)', editable: 'number' },
+  { key: 'leastSunDistanceDeg', label: 'least Sun distance (°)', editable: 'number' },
   { key: 'laserGuideStar', label: 'laser guide star', editable: 'boolean' },
 ];
 

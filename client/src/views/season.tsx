@@ -11,12 +11,12 @@ import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { SeasonPlanPanel, type SeasonPlanPreview } from './season-plan.tsx';
 
-function constraintsOf(c: CampaignRow) {
-  const k = c.constraints;
+function limitsOf(c: CampaignRow) {
+  const k = c.limits;
   return {
-    ...(k.maxAirmass ? { maxAirmass: k.maxAirmass } : {}),
-    ...(k.minMoonSeparationDeg !== undefined
-      ? { minMoonSeparationDeg: k.minMoonSeparationDeg }
+    ...(k.highestAirmass ? { highestAirmass: k.highestAirmass } : {}),
+    ...(k.leastMoonDistanceDeg !== undefined
+      ? { leastMoonDistanceDeg: k.leastMoonDistanceDeg }
       : {}),
     ...(k.darkness ? { darkness: k.darkness } : {}),
   };
@@ -49,7 +49,7 @@ function SiteSeason({
         site: skySite(site),
         year,
         targets: targets.map((x) => x.t),
-        constraints: constraintsOf(campaign),
+        limits: limitsOf(campaign),
       }),
     [siteId, year, campaign.id],
   );
@@ -90,11 +90,11 @@ function SiteSeason({
     <Section title={`${site.name} (${site.timeZone})`} id={`season-site-${siteId}`}>
       <SeasonChart year={year} rows={rows} darkHours={data.nights.map((n) => n.darkHours)} />
       <p class="legend">
-        Bars: hours per night the target meets the campaign’s constraints (darkness{' '}
-        {campaign.constraints.darkness ?? 'astronomical'}, airmass ≤{' '}
-        {campaign.constraints.maxAirmass ?? 2}, Moon ≥{' '}
-        {campaign.constraints.minMoonSeparationDeg ?? 30}° away) · faint line: hours of darkness · ◆
-        periapsis · ticks under a strip: nights already planned
+        Bars: hours per night the target meets the campaign’s limits (darkness{' '}
+        {campaign.limits.darkness ?? 'astronomical'}, airmass ≤{' '}
+        {campaign.limits.highestAirmass ?? 2}, Moon ≥ {campaign.limits.leastMoonDistanceDeg ?? 30}°
+        away) · faint line: hours of darkness · ◆ periapsis · ticks under a strip: nights already
+        planned
         {proposal ? ' · hollow circles: the proposed season plan' : ''}.
       </p>
       {(data.cautions ?? []).map((c) => (

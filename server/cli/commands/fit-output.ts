@@ -81,9 +81,9 @@ export function summary(r: FitResult): string {
     `loss ${r.loss}; derivatives ${r.derivatives}; ${r.iterations} iterations${r.converged ? '' : ' (not converged)'}; next periapsis counted from ${r.asOf}`,
     ...r.stars.map((s) => `${s.name}: next periapsis ${s.nextPeriapsis}`),
   ];
-  if (r.sampler)
+  if (r.posterior)
     lines.push(
-      `posterior: ${r.sampler.samples} samples from ${r.sampler.walkers} walkers × ${r.sampler.steps} steps (seed ${r.sampler.seed}), acceptance ${r.sampler.acceptance.toFixed(2)}`,
+      `posterior: ${r.posterior.samples} draws from an ensemble of ${r.posterior.ensembleSize} × ${r.posterior.rounds} rounds (seed ${r.posterior.seed}), acceptance ${r.posterior.acceptance.toFixed(2)}`,
     );
   return lines.join('\n') + '\n';
 }
@@ -96,7 +96,7 @@ export function renderFit(
   extra = '',
 ): string {
   if (format === 'json') return JSON.stringify(r, null, 2) + '\n';
-  const cols = r.sampler ? [...QUANTITY_COLUMNS, ...PERCENTILE_COLUMNS] : QUANTITY_COLUMNS;
+  const cols = r.posterior ? [...QUANTITY_COLUMNS, ...PERCENTILE_COLUMNS] : QUANTITY_COLUMNS;
   if (format === 'csv')
     return residuals ? formatCsv(r.residuals, RESIDUAL_COLUMNS) : formatCsv(quantityRows(r), cols);
   return [

@@ -38,7 +38,8 @@ model:
   --relativity <terms>    romer,gravitationalRedshift,transverseDoppler,precession, all, or none
   --robust                Huber loss: residuals beyond 2σ weigh less
   --as-of <epoch>         count the next periapsis from here (default: the latest epoch)
-  --sample <seed[:steps]> posterior percentiles from an ensemble sampler (seeded)
+  --posterior <seed[:rounds]>
+                          posterior percentiles from an affine-invariant ensemble (seeded)
 output:
   --json | --csv          JSON (everything) or CSV (the quantities; with --residuals the residuals)
   --residuals             CSV of residuals per measurement
@@ -125,13 +126,13 @@ function modelOptions(
   }
   if (v.robust) out.loss = 'huber';
   if (v['as-of'] !== undefined) out.asOf = v['as-of'] as string;
-  if (v.sample !== undefined) {
-    const m = /^(-?\d+)(?::(\d+))?$/.exec((v.sample as string).trim());
+  if (v.posterior !== undefined) {
+    const m = /^(-?\d+)(?::(\d+))?$/.exec((v.posterior as string).trim());
     if (!m)
       throw new UsageError(
-        `--sample: ${JSON.stringify(v.sample)} must be <seed> or <seed>:<steps>`,
+        `--posterior: ${JSON.stringify(v.posterior)} must be <seed> or <seed>:<rounds>`,
       );
-    out.sample = { seed: Number(m[1]), ...(m[2] ? { steps: Number(m[2]) } : {}) };
+    out.posterior = { seed: Number(m[1]), ...(m[2] ? { rounds: Number(m[2]) } : {}) };
   }
   return out;
 }
@@ -167,7 +168,7 @@ export const fitCommand: Command = {
         relativity: { type: 'string' },
         robust: { type: 'boolean' },
         'as-of': { type: 'string' },
-        sample: { type: 'string' },
+        posterior: { type: 'string' },
         json: { type: 'boolean' },
         csv: { type: 'boolean' },
         residuals: { type: 'boolean' },

@@ -9,7 +9,7 @@ const help = `usage: epochwright night --site <json|file> --date <YYYY-MM-DD> --
 
 For the night whose evening falls on --date (local date at the site): sunset, the three twilights,
 darkness, the Moon (rise, set, illumination), and for each target the windows in which it meets
-every constraint, with what opens and closes each window, its transit and best airmass.
+every limit, with what opens and closes each window, its transit and best airmass.
 Times are shown in the site's time zone; --json gives UTC and local for each.
 
 options:
@@ -42,11 +42,11 @@ export const nightCommand: Command = {
     if (values.date === undefined)
       throw new UsageError('--date is required (the local evening date, YYYY-MM-DD)');
     parseNightDate(values.date, '--date');
-    const { site, targets, constraints } = readSky(values);
+    const { site, targets, limits } = readSky(values);
     const stepMinutes = values.step === undefined ? 5 : numberOption('step', values.step);
     if (!(stepMinutes > 0 && stepMinutes <= 30))
       throw new UsageError(`--step: ${values.step} must lie in (0, 30] minutes`);
-    const report = nightReport(site, values.date, targets, constraints, {
+    const report = nightReport(site, values.date, targets, limits, {
       method: values.exact ? 'exact' : 'fast',
       stepMinutes,
       curveStepMinutes: format === 'json' ? 10 : 0,
@@ -84,7 +84,7 @@ export const nightCommand: Command = {
       `astronomical ${t(tw.astronomical.dawn)}  nautical ${t(tw.nautical.dawn)}  civil ${t(tw.civil.dawn)}  sunrise ${t(report.sun.rise)}`,
       `darkness, ${report.darkness.limit}: ${report.darkness.hours.toFixed(2)} h`,
       `Moon: rises ${t(report.moon.rise)}, sets ${t(report.moon.set)}, ${(report.moon.illuminatedFraction * 100).toFixed(0)}% lit`,
-      `limits: altitude ≥ ${report.constraints.altitudeLimitDeg.toFixed(1)}°${report.constraints.maxAirmass ? ` (airmass ≤ ${report.constraints.maxAirmass})` : ''}, Moon ≥ ${report.constraints.minMoonSeparationDeg}°, Sun ≥ ${report.constraints.sunAvoidanceDeg}°`,
+      `limits: altitude ≥ ${report.limits.altitudeLimitDeg.toFixed(1)}°${report.limits.highestAirmass ? ` (airmass ≤ ${report.limits.highestAirmass})` : ''}, Moon ≥ ${report.limits.leastMoonDistanceDeg}°, Sun ≥ ${report.limits.leastSunDistanceDeg}°`,
       '',
     ];
     const none = report.targets.filter((x) => x.windows.length === 0).map((x) => x.name);

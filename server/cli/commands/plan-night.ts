@@ -27,11 +27,11 @@ planned around them, and a candidate of the same target and kind as a kept block
 Blocks pinned with --pin are stored as pinned, so later re-plans keep them.
 
 options:
-  --night <id>                 the stored night (its campaign gives targets and constraints)
+  --night <id>                 the stored night (its campaign gives targets and limits)
   --pin <id>@<start>           keep or move a block to a start (ISO 8601 UTC; snapped to a slot edge)
   --remove <id>                leave a candidate out (repeatable)
   --candidates <json|file>     your own candidates: [{ id, target, kind, durationMinutes, priority,
-                               maxAirmass?, laserGuideStar? }]
+                               highestAirmass?, laserGuideStar? }]
   --method <auto|exact|heuristic>
   --slot <minutes>             slot length, [1, 30]; default 5
   --at <epoch>                 the moment of scheduling (ISO 8601, JD, MJD); default now. With

@@ -8,7 +8,7 @@ import { SKY_OPTION_HELP, numberOption, readSky, skyOptions } from './sky-args.t
 
 const help = `usage: epochwright season --site <json|file> --year <yyyy> --targets <json|file> [options]
 
-For every night of the year, how many hours each target meets every constraint (darkness sampled
+For every night of the year, how many hours each target meets every limit (darkness sampled
 every --step minutes), and each target's season: the longest run of usable nights (short gaps
 bridged), its first and last night, and its best night.
 The table lists one line per target; --csv gives one line per night with a column per target.
@@ -40,13 +40,13 @@ export const seasonCommand: Command = {
     const year = numberOption('year', values.year);
     if (!Number.isInteger(year) || year < 1900 || year > 2100)
       throw new InputError('--year', values.year, 'must be a whole year from 1900 to 2100');
-    const { site, targets, constraints } = readSky(values);
+    const { site, targets, limits } = readSky(values);
     const stepMinutes = values.step === undefined ? 5 : numberOption('step', values.step);
     if (!(stepMinutes >= 1 && stepMinutes <= 60))
       throw new UsageError(`--step: ${values.step} must lie in [1, 60] minutes`);
     const minHoursPerNight =
       values['min-hours'] === undefined ? 1 : numberOption('min-hours', values['min-hours']);
-    const map = seasonMap(site, year, targets, constraints, { stepMinutes, minHoursPerNight });
+    const map = seasonMap(site, year, targets, limits, { stepMinutes, minHoursPerNight });
     if (format === 'csv') {
       const nights = map.nights.map((n, i) => ({ n, i }));
       const columns: Column<(typeof nights)[number]>[] = [
@@ -84,6 +84,6 @@ export const seasonCommand: Command = {
             .join('; '),
       },
     ];
-    return render(format, map.targets, columns, seasonReport(site, map, constraints));
+    return render(format, map.targets, columns, seasonReport(site, map, limits));
   },
 };

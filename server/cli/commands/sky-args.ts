@@ -1,34 +1,35 @@
-/** What the `night` and `season` commands share: reading a site, targets and constraints. */
+/** What the `night` and `season` commands share: reading a site, targets and limits. */
 import { InputError } from '../../science/errors.ts';
 import {
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
-  type Constraints,
+  type Limits,
   type Site,
   type Target,
 } from '../../science/sky/index.ts';
 import { readJsonArg } from '../io.ts';
 
 export const SKY_OPTION_HELP = `  --site <json|file>         the site: {"latitudeDeg", "longitudeDeg" (east), "elevationM", "timeZone",
-                             optional "pressureHpa", "temperatureC", "minAltitudeDeg", "horizonMask",
-                             "sunAvoidanceDeg"}
+                             optional "pressureHpa", "temperatureC", "lowestAltitudeDeg", "horizonMask",
+                             "leastSunDistanceDeg"}
   --targets <json|file>      an array of {"name", "raDeg", "decDeg", optional "pmRaMasYr", "pmDecMasYr",
                              "epoch", "orbit"} (ICRS; with an orbit, raDeg/decDeg are the primary's)
-  --constraints <json|file>  {"darkness", "minAltitudeDeg", "maxAirmass", "airmassFormula",
-                             "minMoonSeparationDeg", "sunAvoidanceDeg", "useHorizonMask", "zenithSeeingArcsec"}
+  --limits <json|file>       {"darkness", "lowestAltitudeDeg", "highestAirmass", "airmassFormula",
+                             "leastMoonDistanceDeg", "leastSunDistanceDeg", "useHorizonMask", "zenithSeeingArcsec"}
   --darkness <kind|deg>      civil, nautical, astronomical (default) or a solar altitude in degrees
-  --max-airmass <x>          highest airmass (default 2)
-  --moon-distance <deg>      least distance from the Moon while it is up (default 30)
+  --highest-airmass <x>      highest airmass (default 2)
+  --least-moon-distance <deg>
+                             least distance from the Moon while it is up (default 30)
   --json | --csv             machine-readable output instead of a table`;
 
 export const skyOptions = {
   site: { type: 'string' },
   targets: { type: 'string' },
-  constraints: { type: 'string' },
+  limits: { type: 'string' },
   darkness: { type: 'string' },
-  'max-airmass': { type: 'string' },
-  'moon-distance': { type: 'string' },
+  'highest-airmass': { type: 'string' },
+  'least-moon-distance': { type: 'string' },
   json: { type: 'boolean' },
   csv: { type: 'boolean' },
 } as const;
@@ -43,11 +44,11 @@ function numberOption(name: string, text: string): number {
 export function readSky(values: {
   site?: string;
   targets?: string;
-  constraints?: string;
+  limits?: string;
   darkness?: string;
-  'max-airmass'?: string;
-  'moon-distance'?: string;
-}): { site: Site; targets: Target[]; constraints: Constraints } {
+  'highest-airmass'?: string;
+  'least-moon-distance'?: string;
+}): { site: Site; targets: Target[]; limits: Limits } {
   const site = validateSite(readJsonArg('site', values.site), 'site');
   const raw = readJsonArg('targets', values.targets);
   const list = Array.isArray(raw) ? raw : (raw as { targets?: unknown }).targets;
@@ -59,18 +60,18 @@ export function readSky(values: {
     );
   const targets = list.map((t, i) => validateTarget(t, `targets.${i}`));
   const c =
-    values.constraints === undefined
+    values.limits === undefined
       ? {}
-      : (readJsonArg('constraints', values.constraints) as Record<string, unknown>);
+      : (readJsonArg('limits', values.limits) as Record<string, unknown>);
   if (values.darkness !== undefined)
     c.darkness = /^[a-z]+$/i.test(values.darkness)
       ? values.darkness
       : numberOption('darkness', values.darkness);
-  if (values['max-airmass'] !== undefined)
-    c.maxAirmass = numberOption('max-airmass', values['max-airmass']);
-  if (values['moon-distance'] !== undefined)
-    c.minMoonSeparationDeg = numberOption('moon-distance', values['moon-distance']);
-  return { site, targets, constraints: validateConstraints(c, site, 'constraints') };
+  if (values['highest-airmass'] !== undefined)
+    c.highestAirmass = numberOption('highest-airmass', values['highest-airmass']);
+  if (values['least-moon-distance'] !== undefined)
+    c.leastMoonDistanceDeg = numberOption('least-moon-distance', values['least-moon-distance']);
+  return { site, targets, limits: validateLimits(c, site, 'limits') };
 }
 
 export { numberOption };

@@ -1,4 +1,4 @@
-/** /campaigns: programmes over a date range with their targets, sites, goals and constraints (lead edits). */
+/** /campaigns: programmes over a date range with their targets, sites, goals and limits (lead edits). */
 import { z } from '@hono/zod-openapi';
 import { and, gte, inArray, lte } from 'drizzle-orm';
 import { campaignSites, campaignTargets, campaigns } from '../../../db/schema.ts';

@@ -24,7 +24,7 @@ export const NightScheduleBody = z
   .object({
     candidates: z.array(z.unknown()).optional().openapi({
       description:
-        'blocks to choose from: { id, target, kind, durationMinutes, priority, maxAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"',
+        'blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"',
     }),
     pins: z.array(z.unknown()).optional().openapi({
       description:

@@ -122,13 +122,13 @@ export const NightReportSchema = z
           .openapi({ description: 'topocentric altitude of the centre, no refraction, deg' }),
       })
       .strict(),
-    constraints: z
+    limits: z
       .object({
         altitudeLimitDeg: z.number(),
-        maxAirmass: z.number().nullable(),
+        highestAirmass: z.number().nullable(),
         airmassFormula: z.string(),
-        minMoonSeparationDeg: z.number(),
-        sunAvoidanceDeg: z.number(),
+        leastMoonDistanceDeg: z.number(),
+        leastSunDistanceDeg: z.number(),
         horizonMask: z.boolean(),
       })
       .strict(),

@@ -20,7 +20,7 @@ export interface CandidateInput {
   /** Weight of the block in the night's value, (0, 1000]. */
   priority: number;
   /** A stricter airmass limit for this block only, (1, 40]. */
-  maxAirmass?: number;
+  highestAirmass?: number;
   /** The block uses a laser guide star (it then carries the laser caution). */
   laserGuideStar?: boolean;
 }
@@ -34,7 +34,7 @@ export interface Candidate {
   kind: MeasurementKind;
   durationMinutes: number;
   priority: number;
-  maxAirmass: number | null;
+  highestAirmass: number | null;
   laserGuideStar: boolean;
   /** Slots the block spans (its last edge is start + slots). */
   slots: number;
@@ -82,11 +82,11 @@ export function checkCandidates(
     const priority = requireFinite(`${p}.priority`, c.priority);
     if (!(priority > 0 && priority <= 1000))
       throw new InputError(`${p}.priority`, priority, 'must lie in (0, 1000]');
-    let maxAirmass: number | null = null;
-    if (c.maxAirmass !== undefined && c.maxAirmass !== null) {
-      maxAirmass = requireFinite(`${p}.maxAirmass`, c.maxAirmass);
-      if (!(maxAirmass > 1 && maxAirmass <= 40))
-        throw new InputError(`${p}.maxAirmass`, maxAirmass, 'must lie in (1, 40]');
+    let highestAirmass: number | null = null;
+    if (c.highestAirmass !== undefined && c.highestAirmass !== null) {
+      highestAirmass = requireFinite(`${p}.highestAirmass`, c.highestAirmass);
+      if (!(highestAirmass > 1 && highestAirmass <= 40))
+        throw new InputError(`${p}.highestAirmass`, highestAirmass, 'must lie in (1, 40]');
     }
     if (c.laserGuideStar !== undefined && typeof c.laserGuideStar !== 'boolean')
       throw new InputError(`${p}.laserGuideStar`, c.laserGuideStar, 'must be true or false');
@@ -98,7 +98,7 @@ export function checkCandidates(
       kind: c.kind as MeasurementKind,
       durationMinutes,
       priority,
-      maxAirmass,
+      highestAirmass,
       laserGuideStar: c.laserGuideStar === true,
     };
   });
@@ -107,8 +107,8 @@ export function checkCandidates(
 /** Whether the block may start at edge i: every edge it covers is observable (and under its own airmass limit). */
 export function fitsAt(c: Candidate, i: number): boolean {
   if (c.grid.okRun[i]! < c.slots + 1) return false;
-  if (c.maxAirmass !== null) {
-    for (let j = i; j <= i + c.slots; j++) if (c.grid.airmass[j]! > c.maxAirmass) return false;
+  if (c.highestAirmass !== null) {
+    for (let j = i; j <= i + c.slots; j++) if (c.grid.airmass[j]! > c.highestAirmass) return false;
   }
   return true;
 }

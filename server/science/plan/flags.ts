@@ -16,7 +16,7 @@ import {
   type Orbit,
 } from '../orbit/index.ts';
 import { intervalsWhere } from '../sky/darkness.ts';
-import type { Constraints } from '../sky/constraints.ts';
+import type { Limits } from '../sky/limits.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
 import { jdToIso, jdToUnixMs } from '../time/index.ts';
@@ -102,7 +102,7 @@ function bandOf(days: number, lead: number[]): string {
 /** Observable hours per night around a date at one site (nights spaced to at most 31). */
 export function hoursAround(
   site: Site,
-  c: Constraints,
+  c: Limits,
   target: Target,
   centreJd: number,
   halfDays: number,
@@ -121,7 +121,7 @@ export function hoursAround(
       const r = g.edgeJd.length === 0 ? null : dominantReason(tg, c);
       if (g.edgeJd.length === 0) blocked = 'no darkness';
       else if (r !== null)
-        blocked = `${reasonWords(r, c)}${r === 'sun-avoidance' ? ` (${tg.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''}`;
+        blocked = `${reasonWords(r, c)}${r === 'sun-distance' ? ` (${tg.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''}`;
     }
   }
   const hs = nights.map((n) => n.hours);
@@ -130,7 +130,7 @@ export function hoursAround(
 
 export function computeFlags(
   targets: readonly FlagTarget[],
-  sites: readonly { site: Site; constraints: Constraints }[],
+  sites: readonly { site: Site; limits: Limits }[],
   options: FlagOptions,
 ): Flag[] {
   const now = options.nowJd;
@@ -209,7 +209,7 @@ export function computeFlags(
 function periapsisFlags(
   ft: FlagTarget,
   orbit: Orbit,
-  sites: readonly { site: Site; constraints: Constraints }[],
+  sites: readonly { site: Site; limits: Limits }[],
   now: number,
   horizon: number,
   lead: number[],
@@ -220,7 +220,7 @@ function periapsisFlags(
   if (!ev) return [];
   const sigmaDays = ev.sigmaDays ?? null;
   const half = Math.max(1, Math.min(60, Math.ceil(sigmaDays ?? 1)));
-  const siteHours = sites.map((s) => hoursAround(s.site, s.constraints, ft.target, ev.jd, half));
+  const siteHours = sites.map((s) => hoursAround(s.site, s.limits, ft.target, ev.jd, half));
   const rows = predictBatch(orbit, Float64Array.of(ev.jd - 0.5, ev.jd, ev.jd + 0.5));
   const rvRate =
     orbit.distancePc === null ? null : rows.radialVelocityKmS[2]! - rows.radialVelocityKmS[0]!;

@@ -1,6 +1,6 @@
 /**
  * A site's night cut into slots: the slot edges inside darkness, and for each target whether it
- * meets every constraint at each edge (altitude or airmass, horizon mask, Sun avoidance, Moon),
+ * meets every limit at each edge (altitude or airmass, horizon mask, Sun avoidance, Moon),
  * with the limit it breaks and its airmass. Both planners place blocks on these edges only, so a
  * block can never start or end outside darkness, and every edge it covers has been tested.
  *
@@ -8,7 +8,7 @@
  * mask); the Sun and darkness move far too slowly for that.
  */
 import { airmass } from '../sky/airmass.ts';
-import type { Constraints } from '../sky/constraints.ts';
+import type { Limits } from '../sky/limits.ts';
 import { darknessFast, type Interval } from '../sky/darkness.ts';
 import { DEG } from '../constants.ts';
 import { lastAt, moonAt, nightFrame, sunAt, type NightFrame } from '../sky/frame.ts';
@@ -23,7 +23,7 @@ import type { Limit } from '../sky/windows.ts';
 export const REASON_CODES = [
   'altitude',
   'horizon-mask',
-  'sun-avoidance',
+  'sun-distance',
   'moon',
 ] as const satisfies readonly Limit[];
 export type ReasonCode = (typeof REASON_CODES)[number];
@@ -31,7 +31,7 @@ const CODE: Record<string, number> = Object.fromEntries(REASON_CODES.map((r, i) 
 
 export interface NightGrid {
   site: Site;
-  constraints: Constraints;
+  limits: Limits;
   date: string;
   slotMinutes: number;
   frame: NightFrame;
@@ -52,7 +52,7 @@ export interface NightGrid {
 }
 
 export interface TargetGrid {
-  /** 1 where the target meets every constraint at the edge. */
+  /** 1 where the target meets every limit at the edge. */
   ok: Uint8Array;
   /** 0 where ok, else 1 + index into REASON_CODES of the first limit broken. */
   reason: Uint8Array;
@@ -74,13 +74,13 @@ export interface TargetGrid {
  */
 export function nightGrid(
   site: Site,
-  constraints: Constraints,
+  limits: Limits,
   date: string,
   slotMinutes: number,
 ): NightGrid {
   const span = nightSpan(site, date);
   const frame = nightFrame(site, span, 1);
-  const dark = darknessFast(frame, constraints.sunLimitDeg);
+  const dark = darknessFast(frame, limits.sunLimitDeg);
   const slot = slotMinutes / 1440;
   const edges: number[] = [];
   const run: number[] = [];
@@ -111,11 +111,11 @@ export function nightGrid(
       frame.sinLat * mv[2] + frame.cosLat * Math.hypot(mv[0], mv[1]) * Math.cos(h) > 0 ? 1 : 0;
   }
   const sinAltitudeLimit = Math.sin(
-    trueAltitudeDeg(constraints.altitudeLimitDeg, frame.refractionScale) * DEG,
+    trueAltitudeDeg(limits.altitudeLimitDeg, frame.refractionScale) * DEG,
   );
   return {
     site,
-    constraints,
+    limits,
     date,
     slotMinutes,
     frame,
@@ -138,12 +138,12 @@ export function nightGrid(
  */
 export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
   const n = grid.edgeJd.length;
-  const c = grid.constraints;
+  const c = grid.limits;
   const f = grid.frame;
   const ft = frameTarget(f, target);
   const [qx, qy, qz] = ft.dir;
-  const cosSun = Math.cos(c.sunAvoidanceDeg * DEG);
-  const cosMoon = Math.cos(c.minMoonSeparationDeg * DEG);
+  const cosSun = Math.cos(c.leastSunDistanceDeg * DEG);
+  const cosMoon = Math.cos(c.leastMoonDistanceDeg * DEG);
   const ok = new Uint8Array(n);
   const reason = new Uint8Array(n);
   const x = new Float64Array(n).fill(Infinity);
@@ -166,7 +166,7 @@ export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
       if (appAlt < maskAltitudeDeg(c.mask, az)) code = CODE['horizon-mask']!;
     }
     if (code === 0 && sun[3 * i]! * qx + sun[3 * i + 1]! * qy + sun[3 * i + 2]! * qz > cosSun)
-      code = CODE['sun-avoidance']!;
+      code = CODE['sun-distance']!;
     if (
       code === 0 &&
       moonUp[i] &&
@@ -203,26 +203,26 @@ export function blockQuality(t: TargetGrid, i: number, k: number): number {
  * target lies inside the Sun-avoidance angle at the night's middle (it is then also low at night, but
  * the Sun is the cause), else the limit broken at most edges (ties: the earlier in REASON_CODES).
  */
-export function dominantReason(t: TargetGrid, c?: Constraints): ReasonCode | null {
+export function dominantReason(t: TargetGrid, c?: Limits): ReasonCode | null {
   const counts = new Array<number>(REASON_CODES.length + 1).fill(0);
   for (let i = 0; i < t.reason.length; i++) counts[t.reason[i]!]!++;
   if (counts[0]! > 0 && t.ok.some((v) => v === 1)) return null;
-  if (c && t.sunSeparationDeg < c.sunAvoidanceDeg) return 'sun-avoidance';
+  if (c && t.sunSeparationDeg < c.leastSunDistanceDeg) return 'sun-distance';
   let best = 1;
   for (let r = 2; r < counts.length; r++) if (counts[r]! > counts[best]!) best = r;
   return counts[best]! > 0 ? REASON_CODES[best - 1]! : null;
 }
 
 /** Plain words for a reason code. */
-export function reasonWords(r: ReasonCode, c: Constraints): string {
+export function reasonWords(r: ReasonCode, c: Limits): string {
   switch (r) {
     case 'altitude':
-      return `stays below the altitude limit (${c.altitudeLimitDeg.toFixed(1)}°${c.maxAirmass ? `, airmass ${c.maxAirmass}` : ''}) while it is dark`;
+      return `stays below the altitude limit (${c.altitudeLimitDeg.toFixed(1)}°${c.highestAirmass ? `, airmass ${c.highestAirmass}` : ''}) while it is dark`;
     case 'horizon-mask':
       return 'is behind the horizon mask while it is dark';
-    case 'sun-avoidance':
-      return `is inside the Sun-avoidance angle (${c.sunAvoidanceDeg}°)`;
+    case 'sun-distance':
+      return `is inside the Sun-avoidance angle (${c.leastSunDistanceDeg}°)`;
     case 'moon':
-      return `is closer than ${c.minMoonSeparationDeg}° to the Moon while it is dark`;
+      return `is closer than ${c.leastMoonDistanceDeg}° to the Moon while it is dark`;
   }
 }

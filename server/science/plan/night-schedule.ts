@@ -6,7 +6,7 @@
  * always gives the same schedule.
  */
 import { InputError } from '../errors.ts';
-import type { Constraints } from '../sky/constraints.ts';
+import type { Limits } from '../sky/limits.ts';
 import { instant, type Instant } from '../sky/night.ts';
 import { cautions as skyCautions } from '../sky/night-report.ts';
 import type { Site } from '../sky/site.ts';
@@ -130,14 +130,14 @@ interface Pin {
 /** Schedule one night at a site. @throws InputError naming the first bad field. */
 export function scheduleNight(
   site: Site,
-  constraints: Constraints,
+  limits: Limits,
   date: string,
   targets: readonly Target[],
   request: ScheduleRequest,
 ): NightSchedule {
   const slotMinutes =
     request.slotMinutes === undefined ? 5 : numberIn('slotMinutes', request.slotMinutes, 1, 30);
-  const grid = nightGrid(site, constraints, date, slotMinutes);
+  const grid = nightGrid(site, limits, date, slotMinutes);
   return scheduleOnGrid(grid, targets, request, new Map());
 }
 
@@ -272,7 +272,7 @@ export function scheduleOnGrid(
         repeats.get(c) ??
         whyLeftOut(c, grid, removed, everFits.get(c) ?? false, pins, placed, kept.length > 0),
     }));
-  const notes = [PLAN_ADVISORY, ...skyCautions(grid.constraints).slice(1)];
+  const notes = [PLAN_ADVISORY, ...skyCautions(grid.limits).slice(1)];
   if (blocks.some((b) => b.laserGuideStar)) notes.push(LASER_GUIDE_STAR_CAUTION);
   return {
     site: grid.site.name,
@@ -344,7 +344,7 @@ function readPins(
       throw new InputError(
         `${p}.start`,
         r.start,
-        `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : reasonWords(bad, grid.constraints)}${c.maxAirmass !== null && bad === null ? ` or above its airmass limit ${c.maxAirmass}` : ''}`,
+        `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : reasonWords(bad, grid.limits)}${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
       );
     }
     const over = clash(c, s);
@@ -385,17 +385,17 @@ function whyLeftOut(
 ): string {
   if (removed.has(c.id)) return 'removed by the user';
   if (grid.edgeJd.length === 0)
-    return `no darkness (${grid.constraints.darknessLabel}) at ${grid.site.name} on this night`;
+    return `no darkness (${grid.limits.darknessLabel}) at ${grid.site.name} on this night`;
   if (!everFits) {
-    const r = dominantReason(c.grid, grid.constraints);
+    const r = dominantReason(c.grid, grid.limits);
     if (r !== null)
-      return `${c.targetName} ${reasonWords(r, grid.constraints)}${r === 'sun-avoidance' ? ` (${c.grid.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''} on this night`;
+      return `${c.targetName} ${reasonWords(r, grid.limits)}${r === 'sun-distance' ? ` (${c.grid.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''} on this night`;
     let longest = 0;
     for (let i = 0; i < c.grid.okRun.length; i++) longest = Math.max(longest, c.grid.okRun[i]!);
     const hours = (Math.max(0, longest - 1) * grid.slotMinutes) / 60;
     if (longest < c.slots + 1)
       return `its longest window tonight (${hours.toFixed(2)} h) is shorter than the block (${c.durationMinutes} min)`;
-    return `${c.targetName} never stays below the block's own airmass limit ${c.maxAirmass} for ${c.durationMinutes} min`;
+    return `${c.targetName} never stays below the block's own airmass limit ${c.highestAirmass} for ${c.durationMinutes} min`;
   }
   const jd = grid.edgeJd;
   let lo = Infinity,

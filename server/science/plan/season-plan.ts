@@ -13,7 +13,7 @@
  */
 import { InputError } from '../errors.ts';
 import { findEvents } from '../orbit/index.ts';
-import type { Constraints } from '../sky/constraints.ts';
+import type { Limits } from '../sky/limits.ts';
 import { addDays, nightSpan, parseNightDate } from '../sky/night.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
@@ -46,7 +46,7 @@ import { scheduleOnGrid, type KeptBlock, type ScheduledBlock } from './night-sch
 
 export interface SeasonSite {
   site: Site;
-  constraints: Constraints;
+  limits: Limits;
   /** Allocated nights (local evening dates); null or absent: every night of the range. */
   nights?: readonly string[] | null;
   /** Astrometry at this site uses a laser guide star. */
@@ -230,8 +230,7 @@ export function planSeason(
   sites.forEach((s, si) => {
     const allowed = s.nights ? new Set(s.nights) : null;
     dates.forEach((d, di) => {
-      const g =
-        allowed && !allowed.has(d) ? null : nightGrid(s.site, s.constraints, d, slotMinutes);
+      const g = allowed && !allowed.has(d) ? null : nightGrid(s.site, s.limits, d, slotMinutes);
       grids.push(g);
       const held = keptOf[si * nD + di]!.reduce(
         (m, k) => m + (k.endJd - k.startJd) * 1440 + slewMinutes,
@@ -280,11 +279,11 @@ export function planSeason(
               codes[ti]![(k * nS + si) * nD + di] = KEPT_FULL;
               continue;
             }
-            const r = dominantReason(tg, sites[si]!.constraints);
+            const r = dominantReason(tg, sites[si]!.limits);
             codes[ti]![(k * nS + si) * nD + di] =
               r === null
                 ? TOO_SHORT
-                : 1 + ['altitude', 'horizon-mask', 'sun-avoidance', 'moon'].indexOf(r);
+                : 1 + ['altitude', 'horizon-mask', 'sun-distance', 'moon'].indexOf(r);
             continue;
           }
           let first = best;
@@ -518,7 +517,7 @@ export function planSeason(
                 ? 'has no darkness'
                 : code === TOO_SHORT
                   ? `has no window as long as the ${blockMinutes[kind]}-min block`
-                  : `${t.target.name} ${reasonWords((['altitude', 'horizon-mask', 'sun-avoidance', 'moon'] as ReasonCode[])[code - 1]!, s.constraints)}`;
+                  : `${t.target.name} ${reasonWords((['altitude', 'horizon-mask', 'sun-distance', 'moon'] as ReasonCode[])[code - 1]!, s.limits)}`;
       return `at ${s.site.name} ${words} (${n} of ${to - from + 1} nights)`;
     });
     return `${peri ? `periapsis on ${jdToIso(peri).slice(0, 10)} falls in this window, but ` : ''}no ${kind} epoch fits from ${dates[from]} to ${dates[to]}: ${parts.join('; ')}`;

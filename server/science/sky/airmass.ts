@@ -44,12 +44,12 @@ export function airmass(
 }
 
 /**
- * The apparent altitude (degrees) at which a formula reaches `maxAirmass` (> 1): the lowest usable
+ * The apparent altitude (degrees) at which a formula reaches `highestAirmass` (> 1): the lowest usable
  * altitude for that airmass limit. Found by bisection on the true altitude (airmass falls as it rises).
  */
 export function altitudeForAirmass(
   formula: AirmassFormula,
-  maxAirmass: number,
+  highestAirmass: number,
   refractionScale: number,
 ): number {
   let lo = -1,
@@ -57,7 +57,7 @@ export function altitudeForAirmass(
   for (let i = 0; i < 60; i++) {
     const mid = (lo + hi) / 2;
     const x = airmass(formula, mid, apparentAltitudeDeg(mid, refractionScale));
-    if (x > maxAirmass) lo = mid;
+    if (x > highestAirmass) lo = mid;
     else hi = mid;
   }
   return apparentAltitudeDeg(hi, refractionScale);

@@ -19,12 +19,12 @@ export {
   type SkyPlace,
 } from './apparent.ts';
 export {
-  DEFAULT_MAX_AIRMASS,
-  DEFAULT_MOON_SEPARATION_DEG,
-  validateConstraints,
-  type Constraints,
-  type ConstraintsInput,
-} from './constraints.ts';
+  DEFAULT_HIGHEST_AIRMASS,
+  DEFAULT_LEAST_MOON_DISTANCE_DEG,
+  validateLimits,
+  type Limits,
+  type LimitsInput,
+} from './limits.ts';
 export { darknessExact, darknessFast, type Interval } from './darkness.ts';
 export { nightFrame, type NightFrame } from './frame.ts';
 export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from './night.ts';

@@ -5,7 +5,7 @@
 import { DEG } from '../constants.ts';
 import { airmass } from './airmass.ts';
 import { parallacticAngleRad } from './apparent.ts';
-import type { Constraints } from './constraints.ts';
+import type { Limits } from './limits.ts';
 import { darknessExact, darknessFast, type Interval } from './darkness.ts';
 import { altitudeOfVectorRad, moonAt, nightFrame, type NightFrame } from './frame.ts';
 import { instant, nightSpan, type Instant } from './night.ts';
@@ -102,12 +102,12 @@ export interface NightReport {
     phaseDeg: number;
     curve: MoonCurve | null;
   };
-  constraints: {
+  limits: {
     altitudeLimitDeg: number;
-    maxAirmass: number | null;
+    highestAirmass: number | null;
     airmassFormula: string;
-    minMoonSeparationDeg: number;
-    sunAvoidanceDeg: number;
+    leastMoonDistanceDeg: number;
+    leastSunDistanceDeg: number;
     horizonMask: boolean;
   };
   method: 'fast' | 'exact';
@@ -121,7 +121,7 @@ export function nightReport(
   site: Site,
   date: string,
   targets: readonly Target[],
-  c: Constraints,
+  c: Limits,
   options: NightOptions = {},
 ): NightReport {
   const method = options.method ?? 'fast';
@@ -263,12 +263,12 @@ export function nightReport(
       phaseDeg: moon.phaseDeg,
       curve: curveStep > 0 ? moonCurve(frame, curveJd, curveUtc) : null,
     },
-    constraints: {
+    limits: {
       altitudeLimitDeg: c.altitudeLimitDeg,
-      maxAirmass: c.maxAirmass,
+      highestAirmass: c.highestAirmass,
       airmassFormula: c.airmassFormula,
-      minMoonSeparationDeg: c.minMoonSeparationDeg,
-      sunAvoidanceDeg: c.sunAvoidanceDeg,
+      leastMoonDistanceDeg: c.leastMoonDistanceDeg,
+      leastSunDistanceDeg: c.leastSunDistanceDeg,
       horizonMask: c.mask.length > 0,
     },
     method,
@@ -291,7 +291,7 @@ function round(x: number, digits: number): number {
 }
 
 /** The usual cautions for pointing near the Sun; the site's rules always take precedence. */
-export function cautions(c: Constraints): string[] {
+export function cautions(c: Limits): string[] {
   const out = [
     "Windows are advisory: the site's own pointing limits, Sun-avoidance interlocks and operating rules take precedence.",
   ];
@@ -300,9 +300,9 @@ export function cautions(c: Constraints): string[] {
       `The darkness limit (${c.darknessLabel}) lets windows start in bright twilight: never point a telescope, finder or camera near the Sun; follow the site's Sun-avoidance rules.`,
     );
   }
-  if (c.sunAvoidanceDeg < 30) {
+  if (c.leastSunDistanceDeg < 30) {
     out.push(
-      `Sun avoidance is set to ${c.sunAvoidanceDeg}°, below the usual 30–45°: check it against the site's rules before observing.`,
+      `Sun avoidance is set to ${c.leastSunDistanceDeg}°, below the usual 30–45°: check it against the site's rules before observing.`,
     );
   }
   return out;

@@ -1,10 +1,10 @@
 /** The season map as a plain report (HTTP and CLI JSON): hours to 0.001 h, with the cautions. */
-import type { Constraints } from './constraints.ts';
+import type { Limits } from './limits.ts';
 import { cautions } from './night-report.ts';
 import type { SeasonMap } from './season.ts';
 import type { Site } from './site.ts';
 
-export function seasonReport(site: Site, map: SeasonMap, constraints: Constraints) {
+export function seasonReport(site: Site, map: SeasonMap, limits: Limits) {
   return {
     site: {
       name: site.name,
@@ -26,6 +26,6 @@ export function seasonReport(site: Site, map: SeasonMap, constraints: Constraint
       hoursPerNight: Array.from(t.hours, (h) => Math.round(h * 1000) / 1000),
     })),
     evaluations: map.evaluations,
-    cautions: cautions(constraints),
+    cautions: cautions(limits),
   };
 }

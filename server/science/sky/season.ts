@@ -8,7 +8,7 @@
  * Moon or the Sun may affect fall back to testing each sample.
  */
 import { DEG, TWO_PI } from '../constants.ts';
-import type { Constraints } from './constraints.ts';
+import type { Limits } from './limits.ts';
 import { darknessFast, type Interval } from './darkness.ts';
 import { lastAt, moonAt, nightFrame, sunAt, withMoon, type NightFrame } from './frame.ts';
 import { addDays, nightSpan } from './night.ts';
@@ -80,7 +80,7 @@ interface PreparedNight {
 function prepareNights(
   site: Site,
   year: number,
-  c: Constraints,
+  c: Limits,
   stepDays: number,
 ): { dates: string[]; nights: PreparedNight[] } {
   const dates: string[] = [];
@@ -113,7 +113,7 @@ function prepareNights(
         radius,
         Math.acos(Math.min(1, m[0] * moonCap[0] + m[1] * moonCap[1] + m[2] * moonCap[2])),
       );
-    const capDeg = c.minMoonSeparationDeg + 1 + radius / DEG;
+    const capDeg = c.leastMoonDistanceDeg + 1 + radius / DEG;
     dates.push(date);
     nights.push({
       frame,
@@ -154,7 +154,7 @@ export function seasonMap(
   site: Site,
   year: number,
   targets: readonly Target[],
-  c: Constraints,
+  c: Limits,
   options: SeasonOptions = {},
 ): SeasonMap {
   const stepMinutes = options.stepMinutes ?? 5;
@@ -167,7 +167,7 @@ export function seasonMap(
   const sinLimit = Math.sin(trueAltitudeDeg(c.altitudeLimitDeg, scale) * DEG);
   const maskTop = Math.max(c.altitudeLimitDeg, maskMaxAltitudeDeg(c.mask));
   const sinMaskTop = Math.sin(trueAltitudeDeg(maskTop, scale) * DEG);
-  const cosSunMargin = Math.cos(Math.min(180, c.sunAvoidanceDeg + 1) * DEG);
+  const cosSunMargin = Math.cos(Math.min(180, c.leastSunDistanceDeg + 1) * DEG);
   const sinLat = nights[0]!.frame.sinLat,
     cosLat = nights[0]!.frame.cosLat;
   let evaluations = 0;
@@ -233,11 +233,11 @@ export function seasonMap(
           above += countUp(lastAt(f, n.dark[d]!.startJd) - ra, dH, n.counts[d]!, cosHi);
         needSamples = above !== count;
       }
-      if (!needSamples && count > 0 && c.minMoonSeparationDeg > 0) {
+      if (!needSamples && count > 0 && c.leastMoonDistanceDeg > 0) {
         const mc = n.moonCap;
         needSamples = mc[0] * qx + mc[1] * qy + mc[2] * qz > n.cosMoonCap;
       }
-      if (!needSamples && count > 0 && c.sunAvoidanceDeg > 0) {
+      if (!needSamples && count > 0 && c.leastSunDistanceDeg > 0) {
         const s = sunAt(f, n.midDarkJd);
         if (s[0] * qx + s[1] * qy + s[2] * qz > cosSunMargin) needSamples = true;
       }
@@ -245,8 +245,8 @@ export function seasonMap(
         count = 0;
         perSample++;
         sampleBodies(n, stepDays);
-        const cosMoon = Math.cos(c.minMoonSeparationDeg * DEG);
-        const cosSun = Math.cos(c.sunAvoidanceDeg * DEG);
+        const cosMoon = Math.cos(c.leastMoonDistanceDeg * DEG);
+        const cosSun = Math.cos(c.leastSunDistanceDeg * DEG);
         let j = 0;
         for (let d = 0; d < n.dark.length; d++) {
           const hs = lastAt(f, n.dark[d]!.startJd) - ra;

@@ -32,11 +32,11 @@ export interface SiteInput {
   /** Air temperature, °C, [−80, 60]; default from the elevation by the standard atmosphere. */
   temperatureC?: number;
   /** Lowest altitude the telescope may point at, degrees, [−5, 89]; default 0. */
-  minAltitudeDeg?: number;
+  lowestAltitudeDeg?: number;
   /** Azimuth-dependent horizon, linearly interpolated (wrapping through north). */
   horizonMask?: HorizonPoint[];
   /** Closest the telescope may point to the Sun, degrees, [0, 180); default 45. */
-  sunAvoidanceDeg?: number;
+  leastSunDistanceDeg?: number;
 }
 
 /** A validated site: every default filled in. */
@@ -48,10 +48,10 @@ export interface Site {
   timeZone: string;
   pressureHpa: number;
   temperatureC: number;
-  minAltitudeDeg: number;
+  lowestAltitudeDeg: number;
   /** Sorted by azimuth, no duplicates; empty for a flat horizon. */
   horizonMask: HorizonPoint[];
-  sunAvoidanceDeg: number;
+  leastSunDistanceDeg: number;
   /** astronomy-engine's observer for the same place. */
   observer: Observer;
 }
@@ -107,10 +107,10 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
   const std = standardAtmosphere(elevationM);
   const pressureHpa = optional(f('pressureHpa'), s.pressureHpa, 0, 1100, std.pressureHpa);
   const temperatureC = optional(f('temperatureC'), s.temperatureC, -80, 60, std.temperatureC);
-  const minAltitudeDeg = optional(f('minAltitudeDeg'), s.minAltitudeDeg, -5, 89, 0);
-  const sunAvoidanceDeg = optional(
-    f('sunAvoidanceDeg'),
-    s.sunAvoidanceDeg,
+  const lowestAltitudeDeg = optional(f('lowestAltitudeDeg'), s.lowestAltitudeDeg, -5, 89, 0);
+  const leastSunDistanceDeg = optional(
+    f('leastSunDistanceDeg'),
+    s.leastSunDistanceDeg,
     0,
     180,
     DEFAULT_SUN_AVOIDANCE_DEG,
@@ -125,9 +125,9 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
     timeZone: s.timeZone,
     pressureHpa,
     temperatureC,
-    minAltitudeDeg,
+    lowestAltitudeDeg,
     horizonMask,
-    sunAvoidanceDeg,
+    leastSunDistanceDeg,
     observer: new Observer(latitudeDeg, longitudeDeg, elevationM),
   };
 }

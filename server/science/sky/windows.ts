@@ -1,10 +1,10 @@
 /**
- * Nightly windows: the intervals in which a target meets every constraint, with the limit that
+ * Nightly windows: the intervals in which a target meets every limit, with the limit that
  * opens and closes each one, its transit and its best airmass. The same search runs on the exact
  * and the fast sampler.
  */
 import { airmass, seeingAtAirmass } from './airmass.ts';
-import type { Constraints } from './constraints.ts';
+import type { Limits } from './limits.ts';
 import { intervalsWhere, type Interval } from './darkness.ts';
 import type { Sampler, SkySample } from './samplers.ts';
 import { maskAltitudeDeg } from './site.ts';
@@ -14,19 +14,19 @@ export const LIMITS = [
   'darkness',
   'altitude',
   'horizon-mask',
-  'sun-avoidance',
+  'sun-distance',
   'moon',
   'night-edge',
 ] as const;
 export type Limit = (typeof LIMITS)[number];
 
-/** The first constraint a sample breaks (darkness aside), or null when it meets them all. */
-export function brokenLimit(s: SkySample, c: Constraints): Limit | null {
+/** The first limit a sample breaks (darkness aside), or null when it meets them all. */
+export function brokenLimit(s: SkySample, c: Limits): Limit | null {
   if (s.altitudeDeg < c.altitudeLimitDeg) return 'altitude';
   if (c.mask.length > 0 && s.altitudeDeg < maskAltitudeDeg(c.mask, s.azimuthDeg))
     return 'horizon-mask';
-  if (s.sunSeparationDeg < c.sunAvoidanceDeg) return 'sun-avoidance';
-  if (s.moonAltitudeDeg > 0 && s.moonSeparationDeg < c.minMoonSeparationDeg) return 'moon';
+  if (s.sunSeparationDeg < c.leastSunDistanceDeg) return 'sun-distance';
+  if (s.moonAltitudeDeg > 0 && s.moonSeparationDeg < c.leastMoonDistanceDeg) return 'moon';
   return null;
 }
 
@@ -56,7 +56,7 @@ const SECOND = 1 / 86_400;
  */
 export function findWindows(
   sample: Sampler,
-  c: Constraints,
+  c: Limits,
   darkness: readonly Interval[],
   nightEdges: Interval,
   stepDays: number,

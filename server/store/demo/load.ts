@@ -136,7 +136,7 @@ export async function loadDemo(
         densifyWithinDays: 30,
         kinds: ['astrometry', 'spectroscopy'],
       },
-      constraints: { maxAirmass: 1.8, minMoonSeparationDeg: 30, darkness: 'astronomical' },
+      limits: { highestAirmass: 1.8, leastMoonDistanceDeg: 30, darkness: 'astronomical' },
       targetIds: stars.map((s) => s.target.id),
       siteIds: sites.map((s) => s.id),
       notes:
@@ -147,7 +147,7 @@ export async function loadDemo(
       startDate: '2026-10-01',
       endDate: '2027-04-30',
       goals: { cadenceDays: 21, kinds: ['astrometry'] },
-      constraints: { maxAirmass: 2, darkness: 'nautical' },
+      limits: { highestAirmass: 2, darkness: 'nautical' },
       targetIds: [lanternB.id],
       siteIds: [sites[1]!.id],
     });

@@ -71,8 +71,13 @@ export const SiteFields = z.object({
   longitudeDeg: z.number().min(-180).max(180).describe('longitude, degrees, east positive'),
   elevationM: z.number().min(-500).max(6000).describe('elevation above the ellipsoid, metres'),
   timeZone,
-  minAltitudeDeg: z.number().min(0).max(89).default(30).describe('lowest usable altitude, degrees'),
-  sunAvoidanceDeg: z
+  lowestAltitudeDeg: z
+    .number()
+    .min(0)
+    .max(89)
+    .default(30)
+    .describe('lowest usable altitude, degrees'),
+  leastSunDistanceDeg: z
     .number()
     .min(0)
     .max(180)
@@ -129,10 +134,10 @@ export const CampaignFields = z.object({
       kinds: z.array(z.enum(['astrometry', 'spectroscopy'])).min(1),
     })
     .strict(),
-  constraints: z
+  limits: z
     .object({
-      maxAirmass: z.number().min(1).max(10).optional(),
-      minMoonSeparationDeg: z.number().min(0).max(180).optional(),
+      highestAirmass: z.number().min(1).max(10).optional(),
+      leastMoonDistanceDeg: z.number().min(0).max(180).optional(),
       darkness: z.enum(['civil', 'nautical', 'astronomical']).optional(),
     })
     .strict()

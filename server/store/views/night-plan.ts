@@ -1,6 +1,6 @@
 /**
  * A stored night's schedule: the night scheduler over the night's campaign (its targets, goal kinds
- * and constraints at the night's site), previewed, edited (pin or move a block with `pins`, drop
+ * and limits at the night's site), previewed, edited (pin or move a block with `pins`, drop
  * one with `remove`, bring your own `candidates`), then accepted into stored blocks.
  *
  * The campaign's candidates, unless the request brings its own: one block per target and goal kind,
@@ -84,7 +84,7 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
     throw new InputError(
       'nightId',
       nightId,
-      'is stored without a campaign: give the night a campaignId so its targets and constraints are known',
+      'is stored without a campaign: give the night a campaignId so its targets and limits are known',
     );
   const input = await campaignPlanningInput(db, night.campaignId);
   const site = input.sites.find((s) => s.id === night.siteId);
@@ -120,7 +120,7 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
       }));
     });
   }
-  const schedule = scheduleNight(site.site, site.constraints, night.date, targets, {
+  const schedule = scheduleNight(site.site, site.limits, night.date, targets, {
     candidates,
     pins: request.pins,
     remove: request.remove,

@@ -1,5 +1,5 @@
 /**
- * A stored campaign turned into the planners' inputs: its sites (with the campaign's constraints),
+ * A stored campaign turned into the planners' inputs: its sites (with the campaign's limits),
  * its targets placed by their system and current orbit, with their last measurement. Then the
  * campaign's flags. Systems are placed at their stored position epoch with their proper motions, as in visibility.ts.
  */
@@ -12,10 +12,10 @@ import {
 } from '../../../db/schema.ts';
 import { computeFlags, type Flag } from '../../science/plan/index.ts';
 import {
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
-  type Constraints,
+  type Limits,
   type Site,
   type Target,
 } from '../../science/sky/index.ts';
@@ -28,7 +28,7 @@ import { currentOrbit } from '../repos/orbits.ts';
 
 export interface CampaignPlanningInput {
   campaign: CampaignRow;
-  sites: { id: number; site: Site; constraints: Constraints; laserGuideStar: boolean }[];
+  sites: { id: number; site: Site; limits: Limits; laserGuideStar: boolean }[];
   targets: { id: number; system: string; target: Target; lastMeasuredJd: number | null }[];
 }
 
@@ -38,25 +38,25 @@ export async function campaignPlanningInput(
 ): Promise<CampaignPlanningInput> {
   const campaign = await getById(db, campaignEntity, campaignId);
   const { targetIds, siteIds } = await campaignMembers(db, campaignId);
-  const c = campaign.constraints ?? {};
+  const c = campaign.limits ?? {};
   const siteRows = siteIds.length
     ? await db.select().from(sitesTable).where(inArray(sitesTable.id, siteIds))
     : [];
   const sites = siteRows.map((row) => {
     const site = validateSite(row, `sites.${row.id}`);
-    const constraints = validateConstraints(
+    const limits = validateLimits(
       {
         ...(c.darkness ? { darkness: c.darkness } : {}),
-        ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}),
-        ...(c.minMoonSeparationDeg !== undefined
-          ? { minMoonSeparationDeg: c.minMoonSeparationDeg }
+        ...(c.highestAirmass ? { highestAirmass: c.highestAirmass } : {}),
+        ...(c.leastMoonDistanceDeg !== undefined
+          ? { leastMoonDistanceDeg: c.leastMoonDistanceDeg }
           : {}),
-        minAltitudeDeg: row.minAltitudeDeg,
+        lowestAltitudeDeg: row.lowestAltitudeDeg,
       },
       site,
-      'constraints',
+      'limits',
     );
-    return { id: row.id, site, constraints, laserGuideStar: row.laserGuideStar };
+    return { id: row.id, site, limits, laserGuideStar: row.laserGuideStar };
   });
   const rows = targetIds.length
     ? await db

@@ -170,7 +170,7 @@ async function prepare(
     }
     seasonSites.push({
       site: s.site,
-      constraints: s.constraints,
+      limits: s.limits,
       nights: open,
       laserGuideStar: s.laserGuideStar,
       kept: keptByDate,

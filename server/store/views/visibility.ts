@@ -2,14 +2,14 @@
  * A stored night's visibility: the sky engine's night report for the night's site, for the
  * campaign's targets (or, without a campaign, the targets of the night's blocks), each placed by
  * its system's position (ICRS at the system's position epoch, carried by its proper motion) plus its
- * current orbit, under the campaign's constraints and the site's stored horizon mask.
+ * current orbit, under the campaign's limits and the site's stored horizon mask.
  */
 import { eq, inArray } from 'drizzle-orm';
 import { blocks, systems, targets } from '../../../db/schema.ts';
 import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
 import {
   nightReport,
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
   type NightReport,
@@ -65,20 +65,20 @@ export async function nightVisibility(
       ),
     );
   }
-  const c = campaign?.constraints ?? {};
-  const constraints = validateConstraints(
+  const c = campaign?.limits ?? {};
+  const limits = validateLimits(
     {
       ...(c.darkness ? { darkness: c.darkness } : {}),
-      ...(c.maxAirmass ? { maxAirmass: c.maxAirmass } : {}),
-      ...(c.minMoonSeparationDeg !== undefined
-        ? { minMoonSeparationDeg: c.minMoonSeparationDeg }
+      ...(c.highestAirmass ? { highestAirmass: c.highestAirmass } : {}),
+      ...(c.leastMoonDistanceDeg !== undefined
+        ? { leastMoonDistanceDeg: c.leastMoonDistanceDeg }
         : {}),
-      minAltitudeDeg: siteRow.minAltitudeDeg,
+      lowestAltitudeDeg: siteRow.lowestAltitudeDeg,
     },
     site,
-    'constraints',
+    'limits',
   );
-  const report = nightReport(site, night.date, skyTargets, constraints, {
+  const report = nightReport(site, night.date, skyTargets, limits, {
     curveStepMinutes: options.curves ? 10 : 0,
   });
   if (siteRow.laserGuideStar) report.cautions.push(LASER_GUIDE_STAR_CAUTION);

@@ -8,7 +8,7 @@ import { validateTarget } from '../../../server/science/sky/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
 import { CONSTRAINTS, SITE } from './helpers.ts';
 
-const SITES = [{ site: SITE, constraints: CONSTRAINTS }];
+const SITES = [{ site: SITE, limits: CONSTRAINTS }];
 
 describe('periapsis flags', () => {
   it('dates a periapsis and its 1σ as a Monte Carlo over the covariance does', () => {

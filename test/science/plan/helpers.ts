@@ -1,12 +1,12 @@
 /** Shared inputs for the planning tests: an invented site and targets (demo values, no source needed). */
 import {
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
   exactSampler,
   TWILIGHT_SUN_ALTITUDE_DEG,
   type Site,
-  type Constraints,
+  type Limits,
   type Target,
 } from '../../../server/science/sky/index.ts';
 
@@ -16,10 +16,10 @@ export const SITE: Site = validateSite({
   longitudeDeg: -70.73,
   elevationM: 2400,
   timeZone: 'America/Santiago',
-  minAltitudeDeg: 25,
-  sunAvoidanceDeg: 45,
+  lowestAltitudeDeg: 25,
+  leastSunDistanceDeg: 45,
 });
-export const CONSTRAINTS: Constraints = validateConstraints({ maxAirmass: 2 }, SITE);
+export const CONSTRAINTS: Limits = validateLimits({ highestAirmass: 2 }, SITE);
 
 /** Targets spread in right ascension along declination −30° (invented). */
 export function spreadTargets(n: number, decDeg = -30): Target[] {
@@ -35,7 +35,7 @@ export function spreadTargets(n: number, decDeg = -30): Target[] {
  */
 export function safeAt(
   site: Site,
-  c: Constraints,
+  c: Limits,
   target: Target,
   jd: number,
   toleranceDeg = 0.05,
@@ -45,7 +45,7 @@ export function safeAt(
     return `Sun at ${s.sunAltitudeDeg.toFixed(2)}°`;
   if (s.altitudeDeg < c.altitudeLimitDeg - toleranceDeg)
     return `target at ${s.altitudeDeg.toFixed(2)}° below ${c.altitudeLimitDeg.toFixed(2)}°`;
-  if (s.sunSeparationDeg < c.sunAvoidanceDeg)
+  if (s.sunSeparationDeg < c.leastSunDistanceDeg)
     return `target ${s.sunSeparationDeg.toFixed(1)}° from the Sun`;
   return null;
 }

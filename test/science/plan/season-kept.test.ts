@@ -6,11 +6,11 @@
  */
 import { describe, expect, it } from 'vitest';
 import { planSeason, type KeptBlock, type SeasonSite } from '../../../server/science/plan/index.ts';
-import { validateConstraints, validateTarget } from '../../../server/science/sky/index.ts';
+import { validateLimits, validateTarget } from '../../../server/science/sky/index.ts';
 import { InputError } from '../../../server/science/errors.ts';
 import { SITE, isoToJd, safeAt } from './helpers.ts';
 
-const CONSTRAINTS = validateConstraints({ maxAirmass: 2, minMoonSeparationDeg: 5 }, SITE);
+const CONSTRAINTS = validateLimits({ highestAirmass: 2, leastMoonDistanceDeg: 5 }, SITE);
 // Few allocated nights, so each one must hold several epochs (invented, demo values).
 const NIGHTS = ['2027-06-03', '2027-06-08', '2027-06-13', '2027-06-18'];
 const RANGE = ['2027-06-01', '2027-06-20'] as const;
@@ -24,7 +24,7 @@ const targets = [0, 1, 2].map((k) => ({
 const gapMinutes = (a: string | null, b: string) => (a === b ? 3 : 8);
 
 describe('season plan around kept blocks', () => {
-  const site: SeasonSite = { site: SITE, constraints: CONSTRAINTS, nights: NIGHTS };
+  const site: SeasonSite = { site: SITE, limits: CONSTRAINTS, nights: NIGHTS };
   const before = planSeason(RANGE[0], RANGE[1], [site], targets);
   // The busiest night that holds a K0 astrometry epoch: that block is made "by hand" there, and a block of a star outside the plan takes another's time.
   const night = NIGHTS.map((d) => ({ d, on: before.epochs.filter((e) => e.date === d) }))

@@ -20,12 +20,12 @@ import {
 import { validateTarget } from '../../../server/science/sky/index.ts';
 import { SeededRandom } from '../../../server/science/random.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
-import { validateConstraints } from '../../../server/science/sky/index.ts';
+import { validateLimits } from '../../../server/science/sky/index.ts';
 import { InputError } from '../../../server/science/errors.ts';
 import { SITE, isoToJd, safeAt } from './helpers.ts';
 
 // A loose Moon limit so that every cadence goal below is feasible; the Moon's effect is checked apart.
-const CONSTRAINTS = validateConstraints({ maxAirmass: 2, minMoonSeparationDeg: 5 }, SITE);
+const CONSTRAINTS = validateLimits({ highestAirmass: 2, leastMoonDistanceDeg: 5 }, SITE);
 
 /** The fitting engine's name for an astrometric offset (it is being renamed from "offset" to "offsets"). */
 function offsetKind(): string {
@@ -97,7 +97,7 @@ describe('season plan', () => {
   const plan = planSeason(
     '2027-05-01',
     '2027-07-31',
-    [{ site: SITE, constraints: CONSTRAINTS }],
+    [{ site: SITE, limits: CONSTRAINTS }],
     targets,
     { precision: PRECISION },
   );
@@ -110,7 +110,7 @@ describe('season plan', () => {
       [
         {
           site: SITE,
-          constraints: validateConstraints({ maxAirmass: 2, minMoonSeparationDeg: 30 }, SITE),
+          limits: validateLimits({ highestAirmass: 2, leastMoonDistanceDeg: 30 }, SITE),
         },
       ],
       targets.slice(0, 1),

@@ -10,7 +10,7 @@ import {
   nightFrame,
   nightReport,
   nightSpan,
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
   type Site,
@@ -41,7 +41,7 @@ const boreal = validateSite({
   timeZone: 'Europe/Helsinki',
 });
 const noMoon = (site: Site, extra: object = {}) =>
-  validateConstraints({ minMoonSeparationDeg: 0, ...extra }, site);
+  validateLimits({ leastMoonDistanceDeg: 0, ...extra }, site);
 const star = (name: string, raDeg: number, decDeg: number) =>
   validateTarget({ name, raDeg, decDeg });
 const ms = (s: string) => Date.parse(s);
@@ -60,7 +60,7 @@ describe('polar day and polar night', () => {
 
   it('polar night: dark from night edge to night edge; a circumpolar star is observable throughout', () => {
     // In December the Sun's highest altitude there is 90 − 78.2 − 23.4 = −11.6°, below the civil limit of −6° (common practice, no source)
-    const c = validateConstraints({ darkness: 'civil', minMoonSeparationDeg: 0 }, arctic);
+    const c = validateLimits({ darkness: 'civil', leastMoonDistanceDeg: 0 }, arctic);
     const r = nightReport(arctic, '2027-12-21', [star('high north', 40, 60)], c, {
       curveStepMinutes: 0,
     });
@@ -135,7 +135,7 @@ describe('a target that sets and rises again within one night', () => {
       boreal,
       '2027-12-20',
       [star('dips low', raDeg, 40)],
-      noMoon(boreal, { minAltitudeDeg: 20 }),
+      noMoon(boreal, { lowestAltitudeDeg: 20 }),
       { curveStepMinutes: 0 },
     );
     const ws = r.targets[0]!.windows;
@@ -177,7 +177,7 @@ describe('horizon mask, Moon and Sun avoidance', () => {
       masked,
       '2027-01-15',
       [star('behind the ridge', raDeg, 5)],
-      noMoon(masked, { minAltitudeDeg: 10 }),
+      noMoon(masked, { lowestAltitudeDeg: 10 }),
       { curveStepMinutes: 0 },
     );
     const [w] = r.targets[0]!.windows;
@@ -198,7 +198,7 @@ describe('horizon mask, Moon and Sun avoidance', () => {
       alpine,
       '2027-01-15',
       [star('behind the ridge', raDeg, 5)],
-      noMoon(alpine, { minAltitudeDeg: 10 }),
+      noMoon(alpine, { lowestAltitudeDeg: 10 }),
       { curveStepMinutes: 0 },
     );
     expect(open.targets[0]!.windows[0]!.opensBy).toBe('altitude');
@@ -215,14 +215,14 @@ describe('horizon mask, Moon and Sun avoidance', () => {
       alpine,
       '2027-01-22',
       [target],
-      validateConstraints({ minMoonSeparationDeg: 30, minAltitudeDeg: 15 }, alpine),
+      validateLimits({ leastMoonDistanceDeg: 30, lowestAltitudeDeg: 15 }, alpine),
       { curveStepMinutes: 0 },
     );
     const without = nightReport(
       alpine,
       '2027-01-22',
       [target],
-      noMoon(alpine, { minAltitudeDeg: 15 }),
+      noMoon(alpine, { lowestAltitudeDeg: 15 }),
       { curveStepMinutes: 0 },
     );
     expect(without.targets[0]!.observableHours).toBeGreaterThan(4); // a winter night at 47.5°N with a target near the full Moon, high in the sky (common practice, no source)
@@ -240,8 +240,13 @@ describe('horizon mask, Moon and Sun avoidance', () => {
       alpine,
       '2027-05-01',
       [target],
-      validateConstraints(
-        { darkness: 'civil', minAltitudeDeg: 5, minMoonSeparationDeg: 0, sunAvoidanceDeg: 45 },
+      validateLimits(
+        {
+          darkness: 'civil',
+          lowestAltitudeDeg: 5,
+          leastMoonDistanceDeg: 0,
+          leastSunDistanceDeg: 45,
+        },
         alpine,
       ),
       { curveStepMinutes: 0 },
@@ -250,8 +255,13 @@ describe('horizon mask, Moon and Sun avoidance', () => {
       alpine,
       '2027-05-01',
       [target],
-      validateConstraints(
-        { darkness: 'civil', minAltitudeDeg: 5, minMoonSeparationDeg: 0, sunAvoidanceDeg: 0 },
+      validateLimits(
+        {
+          darkness: 'civil',
+          lowestAltitudeDeg: 5,
+          leastMoonDistanceDeg: 0,
+          leastSunDistanceDeg: 0,
+        },
         alpine,
       ),
       { curveStepMinutes: 0 },

@@ -6,9 +6,9 @@ it('exports exactly these values', () => {
   expect(Object.keys(sky).sort()).toEqual(
     [
       'AIRMASS_FORMULAS',
-      'DEFAULT_MAX_AIRMASS',
+      'DEFAULT_HIGHEST_AIRMASS',
       'altitudeGrid',
-      'DEFAULT_MOON_SEPARATION_DEG',
+      'DEFAULT_LEAST_MOON_DISTANCE_DEG',
       'DEFAULT_SUN_AVOIDANCE_DEG',
       'LIMITS',
       'TWILIGHT_SUN_ALTITUDE_DEG',
@@ -46,7 +46,7 @@ it('exports exactly these values', () => {
       'taiMinusUtcS',
       'targetPositionAt',
       'trueAltitudeDeg',
-      'validateConstraints',
+      'validateLimits',
       'validateSite',
       'validateTarget',
     ].sort(),

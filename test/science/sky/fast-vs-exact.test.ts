@@ -12,7 +12,7 @@ import {
   nightReport,
   nightSpan,
   skyPlaceExact,
-  validateConstraints,
+  validateLimits,
 } from '../../../server/science/sky/index.ts';
 import { randomDate, randomSite, randomTarget, seeded, stats } from './helpers.ts';
 
@@ -98,11 +98,11 @@ describe('fast vs exact: window edges', () => {
       const site = randomSite(rnd, 65);
       const date = randomDate(rnd);
       const targets = [randomTarget(rnd, 'a'), randomTarget(rnd, 'b'), randomTarget(rnd, 'c')];
-      const c = validateConstraints(
+      const c = validateLimits(
         {
           darkness: (['civil', 'nautical', 'astronomical'] as const)[n % 3],
-          maxAirmass: 1.5 + rnd() * 1.5,
-          minMoonSeparationDeg: 20 + 30 * rnd(),
+          highestAirmass: 1.5 + rnd() * 1.5,
+          leastMoonDistanceDeg: 20 + 30 * rnd(),
         },
         site,
       );

@@ -1,5 +1,5 @@
 /**
- * Sites, targets and constraints: validation names the field, the value and the rule; defaults come
+ * Sites, targets and limits: validation names the field, the value and the rule; defaults come
  * from the standard atmosphere; orbiting stars sit at their primary plus the predicted offset.
  */
 import { describe, expect, it } from 'vitest';
@@ -12,7 +12,7 @@ import {
   offsetPosition,
   standardAtmosphere,
   targetPositionAt,
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
 } from '../../../server/science/sky/index.ts';
@@ -100,7 +100,7 @@ describe('validateSite', () => {
   });
 });
 
-describe('validateTarget and validateConstraints', () => {
+describe('validateTarget and validateLimits', () => {
   it('names the field', () => {
     expect(inputError(() => validateTarget({ name: 'x', raDeg: 360, decDeg: 0 })).field).toBe(
       'target.raDeg',
@@ -122,22 +122,22 @@ describe('validateTarget and validateConstraints', () => {
       ).field,
     ).toMatch(/^target\.orbit/);
     const site = validateSite(good);
-    expect(inputError(() => validateConstraints({ darkness: 'dusky' }, site)).field).toBe(
-      'constraints.darkness',
+    expect(inputError(() => validateLimits({ darkness: 'dusky' }, site)).field).toBe(
+      'limits.darkness',
     );
-    expect(inputError(() => validateConstraints({ maxAirmass: 1 }, site)).rule).toBe(
+    expect(inputError(() => validateLimits({ highestAirmass: 1 }, site)).rule).toBe(
       'must lie in (1, 40]',
     );
-    expect(inputError(() => validateConstraints({ airmassFormula: 'guess' }, site)).field).toBe(
-      'constraints.airmassFormula',
+    expect(inputError(() => validateLimits({ airmassFormula: 'guess' }, site)).field).toBe(
+      'limits.airmassFormula',
     );
   });
 
   it('takes the strictest altitude limit', () => {
-    const site = validateSite({ ...good, minAltitudeDeg: 25 });
-    expect(validateConstraints({ minAltitudeDeg: 10 }, site).altitudeLimitDeg).toBe(25);
-    const c = validateConstraints({}, validateSite(good));
-    expect(c.maxAirmass).toBe(2); // default airmass limit (common practice, no source)
+    const site = validateSite({ ...good, lowestAltitudeDeg: 25 });
+    expect(validateLimits({ lowestAltitudeDeg: 10 }, site).altitudeLimitDeg).toBe(25);
+    const c = validateLimits({}, validateSite(good));
+    expect(c.highestAirmass).toBe(2); // default airmass limit (common practice, no source)
     expect(c.altitudeLimitDeg).toBeGreaterThan(29.9); // airmass 2 ≈ 30° (Kasten & Young 1989 at z = 60°: 1.9943)
     expect(c.altitudeLimitDeg).toBeLessThan(30.2);
   });

@@ -7,7 +7,7 @@ import { Body, Equator, Horizon, MakeTime } from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
 import {
   nightReport,
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
 } from '../../../server/science/sky/index.ts';
@@ -28,7 +28,7 @@ describe('Moon altitude curve', () => {
     const errs: number[] = [];
     for (let k = 0; k < 12; k++) {
       const site = randomSite(rnd);
-      const r = nightReport(site, randomDate(rnd), [], validateConstraints({}, site), {
+      const r = nightReport(site, randomDate(rnd), [], validateLimits({}, site), {
         curveStepMinutes: 20,
       });
       const curve = r.moon.curve!;
@@ -53,7 +53,7 @@ describe('Moon altitude curve', () => {
       timeZone: 'Australia/Sydney',
     });
     const star = validateTarget({ name: 'Fell star', raDeg: 210, decDeg: -40 });
-    const c = validateConstraints({}, site);
+    const c = validateLimits({}, site);
     const r = nightReport(site, '2027-04-20', [star], c, { curveStepMinutes: 10 });
     expect(r.moon.curve!.utc).toEqual(r.targets[0]!.curve!.utc);
     expect(
@@ -70,7 +70,7 @@ describe('Moon altitude curve', () => {
       elevationM: 1160,
       timeZone: 'Australia/Sydney',
     });
-    const r = nightReport(site, '2027-04-20', [], validateConstraints({}, site), {
+    const r = nightReport(site, '2027-04-20', [], validateLimits({}, site), {
       curveStepMinutes: 10,
     });
     const curve = r.moon.curve!;
@@ -91,7 +91,7 @@ describe("horizon mask along a target's path", () => {
     longitudeDeg: -70.0,
     elevationM: 2600,
     timeZone: 'America/Santiago',
-    minAltitudeDeg: 30,
+    lowestAltitudeDeg: 30,
     horizonMask: [
       { azimuthDeg: 0, altitudeDeg: 5 },
       { azimuthDeg: 150, altitudeDeg: 5 },
@@ -106,14 +106,14 @@ describe("horizon mask along a target's path", () => {
       site,
       '2027-07-10',
       [star],
-      validateConstraints({ minMoonSeparationDeg: 0 }, site),
+      validateLimits({ leastMoonDistanceDeg: 0 }, site),
       { curveStepMinutes: 10 },
     );
     const without = nightReport(
       site,
       '2027-07-10',
       [star],
-      validateConstraints({ minMoonSeparationDeg: 0, useHorizonMask: false }, site),
+      validateLimits({ leastMoonDistanceDeg: 0, useHorizonMask: false }, site),
       { curveStepMinutes: 10 },
     );
     expect(withMask.targets[0]!.curve!.horizonMaskDeg).toHaveLength(
@@ -127,7 +127,7 @@ describe("horizon mask along a target's path", () => {
       site,
       '2027-07-10',
       [star],
-      validateConstraints({ minMoonSeparationDeg: 0 }, site),
+      validateLimits({ leastMoonDistanceDeg: 0 }, site),
       { curveStepMinutes: 5 },
     );
     const t = r.targets[0]!;

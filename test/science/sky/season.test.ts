@@ -9,7 +9,7 @@ import {
   nightFrame,
   nightSpan,
   seasonMap,
-  validateConstraints,
+  validateLimits,
   validateSite,
   validateTarget,
   fastSampler,
@@ -62,8 +62,8 @@ describe('season map against the per-sample fast evaluator', () => {
   it('the same observable samples on every tested night, mask, Moon and Sun included', () => {
     const rnd = seeded(5);
     const targets = Array.from({ length: 12 }, (_, i) => randomTarget(rnd, `t${i}`));
-    const c = validateConstraints(
-      { maxAirmass: 2.5, minMoonSeparationDeg: 40, sunAvoidanceDeg: 60 },
+    const c = validateLimits(
+      { highestAirmass: 2.5, leastMoonDistanceDeg: 40, leastSunDistanceDeg: 60 },
       site,
     );
     const map = seasonMap(site, 2027, targets, c, { stepMinutes: 5 });
@@ -172,7 +172,7 @@ describe('best night', () => {
       plain,
       2027,
       [validateTarget({ name: 'opposite the Sun', raDeg: 90, decDeg: -25 })],
-      validateConstraints({ minMoonSeparationDeg: 0 }, plain),
+      validateLimits({ leastMoonDistanceDeg: 0 }, plain),
     );
     const best = Date.parse(map.targets[0]!.season.bestNight!);
     // The Sun reaches α = 18h at the December solstice (common practice, no source): ±12 days allows for the tie-break on transit time.

@@ -22,6 +22,6 @@ export function fitOrbits(request: FitRequest): FitResult {
     req,
     rel ? 'analytic (Keplerian part); relativistic terms by central differences' : 'analytic',
   );
-  if (req.sample) samplePosterior(sol, req, result);
+  if (req.posterior) samplePosterior(sol, req, result);
   return result;
 }

@@ -84,14 +84,16 @@ function drawSamples(
   sol: Solution,
   req: CheckedRequest,
 ): { xs: Float64Array[]; acceptance: number; walkers: number } {
-  const opts = req.sample!;
+  const opts = req.posterior!;
   const { problem, theta } = sol;
   const rng = new SeededRandom(opts.seed ^ 0x5eed);
   const xBest = Float64Array.from(problem.free, (j) => theta[j]!);
   const split = linearSplit(problem, req.loss);
   const keep = split ? split.nl : problem.free.map((_, j) => j);
   const walkers =
-    opts.walkers > 0 ? Math.max(opts.walkers, 2 * keep.length + 2) : Math.max(16, 4 * keep.length);
+    opts.ensembleSize > 0
+      ? Math.max(opts.ensembleSize, 2 * keep.length + 2)
+      : Math.max(16, 4 * keep.length);
   const expand = (y: Float64Array) => {
     const x = Float64Array.from(xBest);
     keep.forEach((p, a) => (x[p] = y[a]!));
@@ -108,9 +110,9 @@ function drawSamples(
   const y0 = Float64Array.from(keep, (p) => xBest[p]!);
   const start = startingBall(sol, keep, y0, walkers, rng, logPost);
   const { samples, acceptance } = ensembleSample(logPost, start, {
-    walkers,
-    steps: opts.steps,
-    burn: opts.burn,
+    ensembleSize: walkers,
+    rounds: opts.rounds,
+    discardRounds: opts.discardRounds,
     seed: opts.seed,
   });
   const xs = samples.map((y) => {
@@ -123,7 +125,7 @@ function drawSamples(
 }
 
 export function samplePosterior(sol: Solution, req: CheckedRequest, result: FitResult): void {
-  const opts = req.sample!;
+  const opts = req.posterior!;
   const { L, problem } = sol;
   const asOfJd = asOfJdOf(sol, req);
   const { xs, acceptance, walkers } = drawSamples(sol, req);
@@ -146,10 +148,10 @@ export function samplePosterior(sol: Solution, req: CheckedRequest, result: FitR
         : percentiles(cols[i]!, PERCENTILES);
     });
   });
-  result.sampler = {
-    walkers,
-    steps: opts.steps,
-    burn: opts.burn,
+  result.posterior = {
+    ensembleSize: walkers,
+    rounds: opts.rounds,
+    discardRounds: opts.discardRounds,
     seed: opts.seed,
     acceptance,
     samples: xs.length,

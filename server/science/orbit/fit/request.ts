@@ -27,7 +27,7 @@ export interface CheckedRequest {
   priors: [string, PriorInput][];
   loss: 'gaussian' | 'huber';
   asOfJd: number | null;
-  sample: Required<SamplerOptions> | null;
+  posterior: Required<SamplerOptions> | null;
 }
 
 const NAME_RE = /^[^\s\p{Cc}][^\p{Cc}]{0,79}$/u;
@@ -154,23 +154,40 @@ export function checkRequest(req: FitRequest): CheckedRequest {
     frameDrift: boolOf('frame.drift', frame.drift),
     frameEpochJd: req.frameEpoch === undefined ? null : epoch('frameEpoch', req.frameEpoch),
     asOfJd: req.asOf === undefined ? null : epoch('asOf', req.asOf),
-    sample: req.sample === undefined ? null : checkSampler(req.sample),
+    posterior: req.posterior === undefined ? null : checkSampler(req.posterior),
   };
 }
 
 function checkSampler(s: SamplerOptions): Required<SamplerOptions> {
   if (typeof s !== 'object' || s === null)
-    throw new InputError('sample', s, 'must be an object { seed, walkers?, steps?, burn? }');
-  const seed = requireFinite('sample.seed', s.seed);
-  if (!Number.isInteger(seed)) throw new InputError('sample.seed', seed, 'must be an integer');
-  const steps = s.steps ?? 2000;
-  if (!Number.isInteger(steps) || steps < 100 || steps > 100_000)
-    throw new InputError('sample.steps', steps, 'must be an integer from 100 to 100000');
-  const burn = s.burn ?? Math.floor(steps / 2);
-  if (!Number.isInteger(burn) || burn < 0 || burn > 100_000)
-    throw new InputError('sample.burn', burn, 'must be an integer from 0 to 100000');
-  const walkers = s.walkers ?? 0; // 0: chosen from the number of free parameters
-  if (!Number.isInteger(walkers) || walkers < 0 || walkers > 1000 || walkers % 2 !== 0)
-    throw new InputError('sample.walkers', walkers, 'must be an even integer up to 1000');
-  return { seed, steps, burn, walkers };
+    throw new InputError(
+      'posterior',
+      s,
+      'must be an object { seed, ensembleSize?, rounds?, discardRounds? }',
+    );
+  const seed = requireFinite('posterior.seed', s.seed);
+  if (!Number.isInteger(seed)) throw new InputError('posterior.seed', seed, 'must be an integer');
+  const rounds = s.rounds ?? 2000;
+  if (!Number.isInteger(rounds) || rounds < 100 || rounds > 100_000)
+    throw new InputError('posterior.rounds', rounds, 'must be an integer from 100 to 100000');
+  const discardRounds = s.discardRounds ?? Math.floor(rounds / 2);
+  if (!Number.isInteger(discardRounds) || discardRounds < 0 || discardRounds > 100_000)
+    throw new InputError(
+      'posterior.discardRounds',
+      discardRounds,
+      'must be an integer from 0 to 100000',
+    );
+  const ensembleSize = s.ensembleSize ?? 0; // 0: chosen from the number of free parameters
+  if (
+    !Number.isInteger(ensembleSize) ||
+    ensembleSize < 0 ||
+    ensembleSize > 1000 ||
+    ensembleSize % 2 !== 0
+  )
+    throw new InputError(
+      'posterior.ensembleSize',
+      ensembleSize,
+      'must be an even integer up to 1000',
+    );
+  return { seed, rounds, discardRounds, ensembleSize };
 }

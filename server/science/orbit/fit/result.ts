@@ -48,10 +48,10 @@ export interface FitResult {
   asOf: string;
   residuals: Residual[];
   outliers: number;
-  sampler?: {
-    walkers: number;
-    steps: number;
-    burn: number;
+  posterior?: {
+    ensembleSize: number;
+    rounds: number;
+    discardRounds: number;
     seed: number;
     acceptance: number;
     samples: number;

@@ -8,9 +8,12 @@
 import { SeededRandom } from '../../random.ts';
 
 export interface EnsembleOptions {
-  walkers: number;
-  steps: number;
-  burn: number;
+  /** Members of the ensemble (Goodman & Weare's walkers). */
+  ensembleSize: number;
+  /** Rounds kept, each moving every member once. */
+  rounds: number;
+  /** Rounds run first and thrown away. */
+  discardRounds: number;
   seed: number;
   /** Stretch scale a; 2 as recommended by Goodman & Weare. */
   a?: number;
@@ -41,13 +44,13 @@ export function ensembleSample(
   const pos = start.map((x) => Float64Array.from(x));
   const lp = pos.map((x) => logPost(x));
   const keep = o.keep ?? 20_000;
-  const thin = Math.max(1, Math.ceil((o.steps * W) / keep));
+  const thin = Math.max(1, Math.ceil((o.rounds * W) / keep));
   const samples: Float64Array[] = [];
   let accepted = 0,
     proposed = 0,
     counter = 0;
   const y = new Float64Array(n);
-  for (let step = 0; step < o.burn + o.steps; step++) {
+  for (let step = 0; step < o.discardRounds + o.rounds; step++) {
     for (let k = 0; k < W; k++) {
       let j = Math.floor(rng.uniform() * (W - 1));
       if (j >= k) j++;
@@ -63,7 +66,7 @@ export function ensembleSample(
         xk.set(y);
         lp[k] = lpy;
       }
-      if (step >= o.burn) {
+      if (step >= o.discardRounds) {
         proposed++;
         if (take) accepted++;
         if (counter++ % thin === 0) samples.push(Float64Array.from(xk));

@@ -81,12 +81,12 @@ export interface PriorInput {
 }
 
 export interface SamplerOptions {
-  /** Walkers, even, ≥ 2 × free parameters. Default: 4 × free parameters. */
-  walkers?: number;
-  /** Steps per walker after burn-in, 100 … 100000. Default 2000. */
-  steps?: number;
-  /** Steps thrown away first. Default: steps / 2. */
-  burn?: number;
+  /** Members of the ensemble, even, ≥ 2 × free parameters. Default: 4 × free parameters. */
+  ensembleSize?: number;
+  /** Rounds kept (each moves every member once), 100 … 100000. Default 2000. */
+  rounds?: number;
+  /** Rounds run and thrown away first. Default: rounds / 2. */
+  discardRounds?: number;
   /** Seed of the random source; the same seed gives the same percentiles. */
   seed: number;
 }
@@ -108,7 +108,7 @@ export interface FitRequest {
   /** Derived dates (next periapsis) are counted from here. Default: the latest epoch. */
   asOf?: string | number;
   /** Posterior sampling by an affine-invariant ensemble (Goodman & Weare 2010). */
-  sample?: SamplerOptions;
+  posterior?: SamplerOptions;
 }
 
 /** One fitted parameter in its interface unit. */

@@ -27,7 +27,7 @@ function report(name: string, r: FitResult): void {
       return `  ${p.name.padEnd(24)} σ ${p.sigma.toPrecision(3).padStart(9)}  half-width/σ ${s.ratio.toFixed(2)}  asymmetry ${s.asym.toFixed(2)}  (median − best)/σ ${((s.median - p.value) / p.sigma).toFixed(2)}`;
     });
   console.log(
-    `${name}: acceptance ${r.sampler!.acceptance.toFixed(2)}, ${r.sampler!.samples} samples\n${rows.join('\n')}`,
+    `${name}: acceptance ${r.posterior!.acceptance.toFixed(2)}, ${r.posterior!.samples} samples\n${rows.join('\n')}`,
   );
 }
 
@@ -36,7 +36,7 @@ describe('posterior sampling', () => {
     const c = CLASSES.eccentric!;
     const r = fitOrbits({
       stars: [{ name: 'X', measurements: c.measurements(77), hints: c.hints }],
-      sample: { seed: 5, steps: 1000, burn: 600 },
+      posterior: { seed: 5, rounds: 1000, discardRounds: 600 },
     });
     report('well constrained', r);
     for (const p of r.parameters) {
@@ -68,7 +68,7 @@ describe('posterior sampling', () => {
     );
     const r = fitOrbits({
       stars: [{ name: 'Y', measurements, hints: { periodYears: { min: 10, max: 100 } } }],
-      sample: { seed: 5, steps: 1000, burn: 1000 },
+      posterior: { seed: 5, rounds: 1000, discardRounds: 1000 },
     });
     report('poorly covered', r);
     const P = shape(r.parameters.find((p) => p.name === 'Y.periodYears')!);
@@ -93,7 +93,7 @@ describe('posterior sampling', () => {
     const once = () =>
       fitOrbits({
         stars: [{ name: 'Z', measurements: c.measurements(3), hints: c.hints }],
-        sample: { seed: 42, steps: 200, burn: 100 },
+        posterior: { seed: 42, rounds: 200, discardRounds: 100 },
       }).parameters.map((p) => p.percentiles);
     expect(once()).toEqual(once());
   });

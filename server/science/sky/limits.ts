@@ -8,43 +8,43 @@ import { refractionScale } from './refraction.ts';
 import type { HorizonPoint, Site } from './site.ts';
 import { TWILIGHT_SUN_ALTITUDE_DEG, type TwilightKind } from './sun-moon.ts';
 
-export interface ConstraintsInput {
+export interface LimitsInput {
   /** Darkness limit: a twilight kind, or the highest solar altitude in degrees, [−30, 0]. Default "astronomical". */
   darkness?: TwilightKind | number;
   /** Lowest refracted altitude, degrees, [−5, 89]. */
-  minAltitudeDeg?: number;
-  /** Highest airmass, (1, 40]. Default 2 when no minAltitudeDeg is given. */
-  maxAirmass?: number;
+  lowestAltitudeDeg?: number;
+  /** Highest airmass, (1, 40]. Default 2 when no lowestAltitudeDeg is given. */
+  highestAirmass?: number;
   /** Airmass formula; default "kasten-young". */
   airmassFormula?: AirmassFormula;
   /** Least distance from the Moon while it is above the horizon, degrees, [0, 180). Default 30. */
-  minMoonSeparationDeg?: number;
+  leastMoonDistanceDeg?: number;
   /** Overrides the site's Sun-avoidance angle, degrees, [0, 180). */
-  sunAvoidanceDeg?: number;
+  leastSunDistanceDeg?: number;
   /** Apply the site's horizon mask; default true. */
   useHorizonMask?: boolean;
   /** Seeing FWHM at the zenith, arcsec, (0, 10]: reported at the best airmass when given. */
   zenithSeeingArcsec?: number;
 }
 
-export interface Constraints {
+export interface Limits {
   /** Highest geometric solar altitude counted as dark, degrees. */
   sunLimitDeg: number;
   darknessLabel: string;
-  /** Lowest refracted altitude, degrees: the strictest of the site's, the constraint's and the airmass limit. */
+  /** Lowest refracted altitude, degrees: the strictest of the site's, the requested one and the airmass limit. */
   altitudeLimitDeg: number;
-  maxAirmass: number | null;
+  highestAirmass: number | null;
   airmassFormula: AirmassFormula;
-  minMoonSeparationDeg: number;
-  sunAvoidanceDeg: number;
+  leastMoonDistanceDeg: number;
+  leastSunDistanceDeg: number;
   mask: HorizonPoint[];
   zenithSeeingArcsec: number | null;
 }
 
 /** Default airmass limit (common practice, no source). */
-export const DEFAULT_MAX_AIRMASS = 2;
+export const DEFAULT_HIGHEST_AIRMASS = 2;
 /** Default Moon distance, degrees (common practice, no source). */
-export const DEFAULT_MOON_SEPARATION_DEG = 30;
+export const DEFAULT_LEAST_MOON_DISTANCE_DEG = 30;
 
 function bounded(
   field: string,
@@ -64,12 +64,8 @@ function bounded(
   return x;
 }
 
-/** Check constraints against a site and fill the defaults. @throws InputError naming the field. */
-export function validateConstraints(
-  input: unknown,
-  site: Site,
-  prefix = 'constraints',
-): Constraints {
+/** Check limits against a site and fill the defaults. @throws InputError naming the field. */
+export function validateLimits(input: unknown, site: Site, prefix = 'limits'): Limits {
   const c = (input ?? {}) as Record<string, unknown>;
   if (typeof c !== 'object' || Array.isArray(c))
     throw new InputError(prefix, input, 'must be an object');
@@ -99,35 +95,37 @@ export function validateConstraints(
     );
   }
   const minAlt =
-    c.minAltitudeDeg === undefined
+    c.lowestAltitudeDeg === undefined
       ? null
-      : bounded(f('minAltitudeDeg'), c.minAltitudeDeg, -5, 89, 'none');
-  const maxAirmass =
-    c.maxAirmass !== undefined
-      ? bounded(f('maxAirmass'), c.maxAirmass, 1, 40, 'lo')
+      : bounded(f('lowestAltitudeDeg'), c.lowestAltitudeDeg, -5, 89, 'none');
+  const highestAirmass =
+    c.highestAirmass !== undefined
+      ? bounded(f('highestAirmass'), c.highestAirmass, 1, 40, 'lo')
       : minAlt === null
-        ? DEFAULT_MAX_AIRMASS
+        ? DEFAULT_HIGHEST_AIRMASS
         : null;
   const scale = refractionScale(site.pressureHpa, site.temperatureC);
   const airmassAlt =
-    maxAirmass === null ? -90 : altitudeForAirmass(formula as AirmassFormula, maxAirmass, scale);
+    highestAirmass === null
+      ? -90
+      : altitudeForAirmass(formula as AirmassFormula, highestAirmass, scale);
   const useMask = c.useHorizonMask ?? true;
   if (typeof useMask !== 'boolean')
     throw new InputError(f('useHorizonMask'), useMask, 'must be true or false');
   return {
     sunLimitDeg,
     darknessLabel,
-    altitudeLimitDeg: Math.max(site.minAltitudeDeg, minAlt ?? -90, airmassAlt),
-    maxAirmass,
+    altitudeLimitDeg: Math.max(site.lowestAltitudeDeg, minAlt ?? -90, airmassAlt),
+    highestAirmass,
     airmassFormula: formula as AirmassFormula,
-    minMoonSeparationDeg:
-      c.minMoonSeparationDeg === undefined
-        ? DEFAULT_MOON_SEPARATION_DEG
-        : bounded(f('minMoonSeparationDeg'), c.minMoonSeparationDeg, 0, 180, 'hi'),
-    sunAvoidanceDeg:
-      c.sunAvoidanceDeg === undefined
-        ? site.sunAvoidanceDeg
-        : bounded(f('sunAvoidanceDeg'), c.sunAvoidanceDeg, 0, 180, 'hi'),
+    leastMoonDistanceDeg:
+      c.leastMoonDistanceDeg === undefined
+        ? DEFAULT_LEAST_MOON_DISTANCE_DEG
+        : bounded(f('leastMoonDistanceDeg'), c.leastMoonDistanceDeg, 0, 180, 'hi'),
+    leastSunDistanceDeg:
+      c.leastSunDistanceDeg === undefined
+        ? site.leastSunDistanceDeg
+        : bounded(f('leastSunDistanceDeg'), c.leastSunDistanceDeg, 0, 180, 'hi'),
     mask: useMask ? site.horizonMask : [],
     zenithSeeingArcsec:
       c.zenithSeeingArcsec === undefined
