@@ -10863,7 +10863,7 @@ export interface components {
             durationMinutes: number;
             /** @description weight in the night’s value, (0, 1000] */
             priority: number;
-            maxAirmass?: number;
+            highestAirmass?: number;
             laserGuideStar?: boolean;
         };
         NightSchedule: {
@@ -10912,10 +10912,10 @@ export interface components {
             asOf: string;
             residuals: components["schemas"]["Residual"][];
             outliers: number;
-            sampler?: {
-                walkers: number;
-                steps: number;
-                burn: number;
+            posterior?: {
+                ensembleSize: number;
+                rounds: number;
+                discardRounds: number;
                 seed: number;
                 acceptance: number;
                 samples: number;

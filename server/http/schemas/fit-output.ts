@@ -84,11 +84,11 @@ export const FitResultSchema = z
     asOf: z.string(),
     residuals: z.array(ResidualSchema),
     outliers: z.number().int(),
-    sampler: z
+    posterior: z
       .object({
-        walkers: z.number().int(),
-        steps: z.number().int(),
-        burn: z.number().int(),
+        ensembleSize: z.number().int(),
+        rounds: z.number().int(),
+        discardRounds: z.number().int(),
         seed: z.number().int(),
         acceptance: z.number(),
         samples: z.number().int(),

@@ -118,7 +118,7 @@ export const CandidateSchema = z
     kind: BlockKind,
     durationMinutes: z.number().openapi({ description: 'time on target, minutes, (0, 720]' }),
     priority: z.number().openapi({ description: 'weight in the night’s value, (0, 1000]' }),
-    maxAirmass: z.number().optional(),
+    highestAirmass: z.number().optional(),
     laserGuideStar: z.boolean().optional(),
   })
   .strict()
