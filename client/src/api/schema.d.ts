@@ -10117,6 +10117,11 @@ export interface components {
             thieleInnes: components["schemas"]["ThieleInnesElements"];
             physical: components["schemas"]["PhysicalQuantities"];
             relativity: components["schemas"]["RelativitySwitches"];
+            /** @description scale factors of the switched-on terms (1: general relativity) */
+            relativityFactors: {
+                redshiftFactor: number;
+                precessionFactor: number;
+            };
         };
         CampbellElements: {
             /** @enum {string} */
@@ -10214,7 +10219,7 @@ export interface components {
             gravitationalRedshiftKmS: number | null;
             /** @description size of the term, included only when switched on */
             transverseDopplerKmS: number | null;
-            /** @description precession of ω accumulated since T, deg */
+            /** @description precession of ω accumulated since T by the angle swept, deg */
             precessionDeg: number | null;
             /** @description linear 1σ per quantity (same unit); only with a covariance */
             sigma?: {
@@ -10253,6 +10258,11 @@ export interface components {
                 gravitationalRedshift?: boolean;
                 transverseDoppler?: boolean;
                 precession?: boolean;
+            };
+            /** @description scale factors of the switched-on terms: 0 Newtonian, 1 general relativity (default) */
+            relativityFactors?: {
+                redshiftFactor?: number;
+                precessionFactor?: number;
             };
             /** @description covariance of the Campbell elements in the units of the parameter names (periapsisDays: T in days) */
             covariance?: {
@@ -10308,7 +10318,7 @@ export interface components {
             gravitationalRedshiftKmS: number | null;
             /** @description size of the term, included only when switched on */
             transverseDopplerKmS: number | null;
-            /** @description precession of ω accumulated since T, deg */
+            /** @description precession of ω accumulated since T by the angle swept, deg */
             precessionDeg: number | null;
         };
         NightReport: {

@@ -49,6 +49,10 @@ export const OrbitDescriptionSchema = z
     thieleInnes: ThieleInnesSchema,
     physical: PhysicalSchema.nullable().openapi({ description: 'null without a distance' }),
     relativity: RelativitySwitchesSchema,
+    relativityFactors: z
+      .object({ redshiftFactor: z.number(), precessionFactor: z.number() })
+      .strict()
+      .openapi({ description: 'scale factors of the switched-on terms (1: general relativity)' }),
   })
   .strict()
   .openapi('OrbitDescription');
@@ -74,7 +78,7 @@ export const PredictionSchema = z
     romerDelayDays: orNull('size of the term, included only when switched on'),
     gravitationalRedshiftKmS: orNull('size of the term, included only when switched on'),
     transverseDopplerKmS: orNull('size of the term, included only when switched on'),
-    precessionDeg: orNull('precession of ω accumulated since T, deg'),
+    precessionDeg: orNull('precession of ω accumulated since T by the angle swept, deg'),
   })
   .strict()
   .openapi('Prediction');

@@ -59,6 +59,17 @@ export const OrbitSchema = z
       })
       .strict()
       .optional(),
+    relativityFactors: z
+      .object({
+        redshiftFactor: z.number().optional(),
+        precessionFactor: z.number().optional(),
+      })
+      .strict()
+      .optional()
+      .openapi({
+        description:
+          'scale factors of the switched-on terms: 0 Newtonian, 1 general relativity (default)',
+      }),
     covariance: z
       .object({
         parameters: z.array(z.enum(COVARIANCE_PARAMETERS)),

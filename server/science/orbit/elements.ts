@@ -13,6 +13,7 @@ import {
   type CovarianceParameter,
   type Orbit,
   type OrbitInput,
+  type RelativityFactors,
   type RelativitySwitches,
   type ThieleInnesInput,
 } from './types.ts';
@@ -190,6 +191,7 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
         'needs the distance (distancePc) to know the orbit in au',
       );
   }
+  const factors = validateFactors(input.relativityFactors, `${prefix}.relativityFactors`);
   const covariance =
     input.covariance === undefined
       ? null
@@ -205,8 +207,31 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
     distancePc,
     gammaKmS,
     relativity,
+    factors,
     covariance,
   };
+}
+
+export const GENERAL_RELATIVITY: RelativityFactors = { redshiftFactor: 1, precessionFactor: 1 };
+
+function validateFactors(input: unknown, field: string): RelativityFactors {
+  const out = { ...GENERAL_RELATIVITY };
+  if (input === undefined) return out;
+  if (typeof input !== 'object' || input === null)
+    throw new InputError(field, input, 'must be an object of scale factors');
+  for (const [key, value] of Object.entries(input)) {
+    if (!(key in GENERAL_RELATIVITY))
+      throw new InputError(
+        `${field}.${key}`,
+        value,
+        `is not a factor; known: ${Object.keys(GENERAL_RELATIVITY).join(', ')}`,
+      );
+    const x = requireFinite(`${field}.${key}`, value);
+    if (Math.abs(x) > 100)
+      throw new InputError(`${field}.${key}`, x, 'must lie within ±100 (1 is general relativity)');
+    out[key as keyof RelativityFactors] = x;
+  }
+  return out;
 }
 
 function validateCovariance(input: CovarianceInput, field: string): Covariance {

@@ -71,7 +71,7 @@ export interface Prediction {
   romerDelayDays: number | null;
   gravitationalRedshiftKmS: number | null;
   transverseDopplerKmS: number | null;
-  /** Schwarzschild precession of ω accumulated since the periapsis epoch T, deg. */
+  /** Schwarzschild precession of ω accumulated since the periapsis epoch T (by the angle swept), deg. */
   precessionDeg: number | null;
 }
 
@@ -86,7 +86,8 @@ export interface Prepared {
   si: number;
   aAu: number; // NaN without a distance
   gm: number; // m³/s², NaN without a distance
-  precessionRadPerDay: number; // 0 when unknown
+  /** Δω per orbit × the precession factor, rad; 0 without a distance. */
+  precessionPerOrbitRad: number;
 }
 
 export function prepare(orbit: Orbit): Prepared {
@@ -103,8 +104,8 @@ export function prepare(orbit: Orbit): Prepared {
     si: Math.sin(orbit.iRad),
     aAu,
     gm,
-    precessionRadPerDay: hasD
-      ? precessionPerOrbitRad(gm, aAu * AU_M, orbit.e) / orbit.periodDays
+    precessionPerOrbitRad: hasD
+      ? orbit.factors.precessionFactor * precessionPerOrbitRad(gm, aAu * AU_M, orbit.e)
       : 0,
   };
 }
@@ -115,16 +116,38 @@ export function allocateColumns(n: number): PredictionColumns {
   return out;
 }
 
+/**
+ * The true anomaly counted on across orbits from the passage T (rad): 2π·k + ν in orbit k. E may be
+ * reduced to one turn or not; the turn is read from the emission time tEm.
+ */
+export function continuousTrueAnomaly(p: Prepared, tEm: number, E: number): number {
+  const o = p.orbit;
+  const turnsOfE = Math.round((p.n * (tEm - o.periapsisJd) - (E - o.e * Math.sin(E))) / TWO_PI);
+  const Etotal = E + turnsOfE * TWO_PI;
+  const k = Math.round(Etotal / TWO_PI);
+  return k * TWO_PI + trueAnomalyFromEccentric(Etotal - k * TWO_PI, o.e);
+}
+
+/**
+ * Schwarzschild advance of ω accumulated since T (rad): Δω·ν_total/2π, the angle swept, so that it
+ * happens where the orbit turns fastest (near periapsis), as in the first post-Newtonian motion.
+ */
+function precessionSinceT(p: Prepared, tEm: number, E: number): number {
+  return p.precessionPerOrbitRad === 0
+    ? 0
+    : (p.precessionPerOrbitRad * continuousTrueAnomaly(p, tEm, E)) / TWO_PI;
+}
+
 /** Argument of periapsis at emission time tEm (rad), with precession when switched on. */
-function argAt(p: Prepared, tEm: number): number {
+function argAt(p: Prepared, tEm: number, E: number): number {
   return p.orbit.relativity.precession
-    ? p.orbit.argRad + p.precessionRadPerDay * (tEm - p.orbit.periapsisJd)
+    ? p.orbit.argRad + precessionSinceT(p, tEm, E)
     : p.orbit.argRad;
 }
 
 /** Line-of-sight position (au) at emission time tEm with eccentric anomaly E. */
 function lineOfSightAu(p: Prepared, tEm: number, E: number): number {
-  const w = argAt(p, tEm);
+  const w = argAt(p, tEm, E);
   return (
     p.aAu * p.si * ((Math.cos(E) - p.orbit.e) * Math.sin(w) + p.sq * Math.sin(E) * Math.cos(w))
   );
@@ -169,7 +192,7 @@ export function writeState(
   const Edot = p.n / (1 - e * cosE); // rad/day
   const Xd = -sinE * Edot,
     Yd = p.sq * cosE * Edot; // per day
-  const dOmega = p.precessionRadPerDay * (tEm - o.periapsisJd);
+  const dOmega = precessionSinceT(p, tEm, E);
   const w = o.relativity.precession ? o.argRad + dOmega : o.argRad;
   const cw = Math.cos(w),
     sw = Math.sin(w);
@@ -197,12 +220,19 @@ export function writeState(
   c.separationMas[i] = Math.hypot(dRa, dDec);
   c.positionAngleDeg[i] = pa;
   const aAu = p.aAu;
+  // ω turns with ν when precession is on: ω̇ = (Δω/2π)·ν̇, ν̇ = n√(1−e²)/(1 − e cos E)². In the
+  // orbital plane the velocity is then R(ω)·(Ẋ − ω̇Y, Ẏ + ω̇X): ∂A/∂ω = F, ∂F/∂ω = −A (B, G alike).
+  const wd = o.relativity.precession
+    ? ((p.precessionPerOrbitRad / TWO_PI) * p.n * p.sq) / ((1 - e * cosE) * (1 - e * cosE))
+    : 0;
+  const Xp = Xd - wd * Y,
+    Yp = Yd + wd * X;
   // Light-time compresses the observed clock: dt_em/dt_obs = 1/(1 + v_z/c).
-  const zdotAuDay = aAu * p.si * (Xd * sw + Yd * cw);
+  const zdotAuDay = aAu * p.si * (Xp * sw + Yp * cw);
   const vzKmS = (zdotAuDay * AU_KM) / SECONDS_PER_DAY;
   const clock = o.relativity.romer ? 1 / (1 + vzKmS / C_KM_PER_S) : 1;
-  c.vRaMasYr[i] = (B * Xd + G * Yd) * JULIAN_YEAR_DAYS * clock;
-  c.vDecMasYr[i] = (A * Xd + F * Yd) * JULIAN_YEAR_DAYS * clock;
+  c.vRaMasYr[i] = (B * Xp + G * Yp) * JULIAN_YEAR_DAYS * clock;
+  c.vDecMasYr[i] = (A * Xp + F * Yp) * JULIAN_YEAR_DAYS * clock;
   if (o.distancePc === null) {
     c.separation3dAu[i] = c.speedKmS[i] = c.lineOfSightAu[i] = c.radialVelocityKmS[i] = Number.NaN;
     c.keplerianRvKmS[i] = c.romerDelayDays[i] = c.gravitationalRedshiftKmS[i] = Number.NaN;
@@ -211,9 +241,9 @@ export function writeState(
   }
   const rAu = aAu * (1 - e * cosE);
   const zAu = aAu * p.si * (X * sw + Y * cw);
-  const speed = (aAu * Math.hypot(Xd, Yd) * AU_KM) / SECONDS_PER_DAY;
-  const gr = gravitationalRedshiftKmS(p.gm, rAu * AU_M);
-  const td = transverseDopplerKmS(speed);
+  const speed = (aAu * Math.hypot(Xp, Yp) * AU_KM) / SECONDS_PER_DAY;
+  const gr = o.factors.redshiftFactor * gravitationalRedshiftKmS(p.gm, rAu * AU_M);
+  const td = o.factors.redshiftFactor * transverseDopplerKmS(speed);
   c.separation3dAu[i] = rAu;
   c.speedKmS[i] = speed;
   c.lineOfSightAu[i] = zAu;

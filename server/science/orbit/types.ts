@@ -44,8 +44,22 @@ export interface RelativitySwitches {
   gravitationalRedshift: boolean;
   /** Transverse (second-order) Doppler shift v²/(2c) added to the radial velocity. */
   transverseDoppler: boolean;
-  /** Schwarzschild precession of ω, Δω = 6πGM/(c²a(1−e²)) per orbit, applied at its secular rate. */
+  /**
+   * Schwarzschild precession of ω, Δω = 6πGM/(c²a(1−e²)) per orbit, applied with the angle swept:
+   * ω = ω₀ + Δω·ν_total/2π, ν_total the true anomaly counted on across orbits from the passage T.
+   */
   precession: boolean;
+}
+
+/**
+ * Scale factors of the relativistic terms (DESIGN.md): 0 Newtonian, 1 general relativity. They act
+ * only on terms that are switched on. Default 1.
+ */
+export interface RelativityFactors {
+  /** Scales the gravitational redshift and the transverse Doppler shift together. */
+  redshiftFactor: number;
+  /** Scales the Schwarzschild periapsis advance Δω. */
+  precessionFactor: number;
 }
 
 /** Parameters a covariance matrix may cover, in these units. */
@@ -76,6 +90,8 @@ export interface OrbitInput {
   /** Systemic (primary's) radial velocity γ, km/s. Default 0. */
   systemicVelocityKmS?: number;
   relativity?: Partial<RelativitySwitches>;
+  /** Scale factors of the switched-on terms; default 1 (general relativity). */
+  relativityFactors?: Partial<RelativityFactors>;
   covariance?: CovarianceInput;
 }
 
@@ -97,5 +113,6 @@ export interface Orbit {
   distancePc: number | null;
   gammaKmS: number;
   relativity: RelativitySwitches;
+  factors: RelativityFactors;
   covariance: Covariance | null;
 }

@@ -49,6 +49,7 @@ export const OrbitShape = z
     distancePc: z.number().positive().optional(),
     systemicVelocityKmS: z.number().optional(),
     relativity: z.record(z.string(), z.boolean()).optional(),
+    relativityFactors: z.record(z.string(), z.number()).optional(),
     covariance: z
       .object({ parameters: z.array(z.string()), matrix: z.array(z.array(z.number())) })
       .optional(),

@@ -12,7 +12,7 @@
  */
 import { DEG, JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { InputError } from '../../errors.ts';
-import { thieleInnesToCampbell } from '../elements.ts';
+import { GENERAL_RELATIVITY, thieleInnesToCampbell } from '../elements.ts';
 import { semiMajorAxisAuFromMass } from '../physical.ts';
 import type { Orbit, RelativitySwitches } from '../types.ts';
 import type { Observation } from './measurements.ts';
@@ -232,6 +232,7 @@ export function starOrbit(
     distancePc: L.sys.d >= 0 ? theta[L.sys.d]! : null,
     gammaKmS: L.sys.gamma >= 0 ? theta[L.sys.gamma]! : 0,
     relativity,
+    factors: GENERAL_RELATIVITY,
     covariance: null,
   };
 }
