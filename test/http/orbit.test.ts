@@ -125,6 +125,38 @@ describe('POST /api/events', () => {
     }
   });
 
+  it('takes a covariance asymmetric by one ulp through the Monte Carlo path (events and ephemeris)', async () => {
+    // Off-diagonal terms that differ in the last bit, as a matrix read back from JSON or an
+    // inverse often does; it passes validation (asymmetry below 1e-9), so it must not give a 500.
+    const c = 0.05;
+    const orbit = {
+      ...MEEUS_57A,
+      covariance: {
+        parameters: ['periodYears', 'periapsisDays', 'eccentricity'],
+        matrix: [
+          [0.01, c, 1e-5],
+          [c * (1 + Number.EPSILON), 4, 2e-4],
+          [1e-5 * (1 + Number.EPSILON), 2e-4 * (1 - Number.EPSILON), 1e-6],
+        ],
+      },
+    };
+    expect(orbit.covariance.matrix[1]![0]).not.toBe(orbit.covariance.matrix[0]![1]); // really asymmetric
+    const events = await post('/api/events', {
+      orbit,
+      start: '1900-01-01',
+      end: '2100-01-01',
+      kinds: ['periapsis'],
+      monteCarlo: { draws: 200, seed: 7 },
+    });
+    expect(events.status).toBe(200);
+    const ephemeris = await post('/api/ephemeris', {
+      orbit,
+      epochs: ['J2030.0'],
+      monteCarlo: { draws: 200, seed: 7 },
+    });
+    expect(ephemeris.status).toBe(200);
+  });
+
   it('refuses a reversed interval and an unknown kind', async () => {
     const r1 = await post('/api/events', {
       orbit: MEEUS_57A,

@@ -3,6 +3,7 @@
  * (σ² = J·C·Jᵀ with a central-difference Jacobian), and Monte Carlo percentiles from seeded draws.
  */
 import { CholeskyDecomposition, EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { symmetricMatrix } from '../matrix.ts';
 import { ComputationError, InputError } from '../errors.ts';
 import { SeededRandom } from '../random.ts';
 import { getParameter, withParameter } from './elements.ts';
@@ -93,7 +94,7 @@ export function linearSigma(
 
 /** A lower-triangular L with L·Lᵀ = C; for a singular C, from its eigen-decomposition. */
 function covarianceRoot(cov: Covariance): Matrix {
-  const C = new Matrix(cov.matrix);
+  const C = symmetricMatrix(cov.matrix);
   const chol = new CholeskyDecomposition(C);
   if (chol.isPositiveDefinite()) return chol.lowerTriangularMatrix;
   const eig = new EigenvalueDecomposition(C, { assumeSymmetric: true });

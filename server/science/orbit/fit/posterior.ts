@@ -10,6 +10,7 @@
  * the next periapsis included (counted per sample from the sample's own P and T).
  */
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
+import { symmetricMatrix } from '../../matrix.ts';
 import { SeededRandom } from '../../random.ts';
 import { PERCENTILES, percentiles } from '../uncertainty.ts';
 import { costOf } from './lm.ts';
@@ -55,7 +56,7 @@ function startingBall(
   logPost: (y: Float64Array) => number,
 ): Float64Array[] {
   const sub = keep.map((a) => keep.map((b) => sol.covariance[a]![b]!));
-  const chol = new CholeskyDecomposition(new Matrix(sub));
+  const chol = new CholeskyDecomposition(symmetricMatrix(sub));
   const Lc = chol.isPositiveDefinite()
     ? chol.lowerTriangularMatrix
     : Matrix.diag(sub.map((r, a) => Math.sqrt(Math.max(r[a]!, 0))));
