@@ -18,8 +18,10 @@ import { responseCheck } from './response-check.ts';
 export const VERSION = '0.1.0';
 
 export interface AppOptions {
-  /** Largest accepted request body, bytes. */
+  /** Largest accepted request body, bytes (default 2 MiB). */
   maxBodyBytes?: number;
+  /** Largest accepted CSV import (POST /api/imports/…), bytes (default 64 MiB: 100,000 measurement rows take ~10 MB). */
+  maxImportBytes?: number;
   /** The campaign store; without it only the stateless routes (health, ephemeris, events, sky) exist. */
   store?: Store;
   /** A built client folder (client/dist) to serve after the API, with index.html for client-side routes. */
@@ -29,23 +31,13 @@ export interface AppOptions {
 }
 
 export function createApp(options: AppOptions = {}) {
-  const maxBodyBytes = options.maxBodyBytes ?? 2 * 1024 * 1024;
   const app = new OpenAPIHono({ defaultHook: validationHook });
   app.onError((err, c) => errorResponse(c, err));
   if (options.checkResponses ?? process.env.EPOCHWRIGHT_CHECK_RESPONSES === '1')
     app.use('/api/*', responseCheck(app));
-  app.use(
-    '/api/*',
-    bodyLimit({
-      maxSize: maxBodyBytes,
-      onError: () => {
-        throw new HttpError(
-          413,
-          'body_too_large',
-          `the request body exceeds ${maxBodyBytes} bytes`,
-        );
-      },
-    }),
+  const bodyLimits = bodyLimitsFor(options);
+  app.use('/api/*', (c, next) =>
+    (c.req.path.startsWith('/api/imports/') ? bodyLimits.imports : bodyLimits.other)(c, next),
   );
   const api = new OpenAPIHono({ defaultHook: validationHook });
   api.route('/', healthRoutes(VERSION));
@@ -73,3 +65,30 @@ export function createApp(options: AppOptions = {}) {
 }
 
 export type App = ReturnType<typeof createApp>;
+
+export const DEFAULT_MAX_BODY_BYTES = 2 * 1024 * 1024;
+export const DEFAULT_MAX_IMPORT_BYTES = 64 * 1024 * 1024;
+
+/**
+ * The body limits. A 413 says `connection: close`: the rest of the body is never read, so the
+ * connection cannot carry another request (Node closes it after the reply).
+ */
+function bodyLimitsFor(options: AppOptions) {
+  const limit = (maxSize: number, what: string) =>
+    bodyLimit({
+      maxSize,
+      onError: () => {
+        throw new HttpError(
+          413,
+          'body_too_large',
+          `the request body exceeds ${maxSize} bytes, the limit for ${what}`,
+          { limitBytes: maxSize },
+          { connection: 'close' },
+        );
+      },
+    });
+  return {
+    imports: limit(options.maxImportBytes ?? DEFAULT_MAX_IMPORT_BYTES, 'a CSV import'),
+    other: limit(options.maxBodyBytes ?? DEFAULT_MAX_BODY_BYTES, 'a request body'),
+  };
+}

@@ -6,7 +6,7 @@ import type { Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { ComputationError, InputError } from '../science/errors.ts';
 
-export type ErrorStatus = 400 | 401 | 403 | 404 | 405 | 409 | 413 | 415 | 422 | 500;
+export type ErrorStatus = 400 | 401 | 403 | 404 | 405 | 409 | 413 | 415 | 422 | 500 | 503;
 
 export class HttpError extends Error {
   override readonly name = 'HttpError';
@@ -15,6 +15,8 @@ export class HttpError extends Error {
     readonly code: string,
     message: string,
     readonly details?: unknown,
+    /** Response headers the error needs (Retry-After, Connection). */
+    readonly headers?: Record<string, string>,
   ) {
     super(message);
   }
@@ -42,6 +44,8 @@ export function toHttpError(err: unknown): HttpError {
         413,
         'body_too_large',
         'the request body is larger than the server accepts',
+        undefined,
+        { connection: 'close' },
       );
     if (status === 415)
       return new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
@@ -76,5 +80,5 @@ export function errorResponse(c: Context, err: unknown): Response {
       ...(e.details === undefined ? {} : { details: e.details }),
     },
   };
-  return c.json(body, e.status);
+  return c.json(body, e.status, e.headers);
 }
