@@ -11,6 +11,7 @@ import { join } from 'node:path';
 import { Body, Equator, Horizon, MakeTime, Observer } from 'astronomy-engine';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
+import { DETAIL_BOX, nightLayout } from '../../client/src/plots/night-layout.ts';
 import { SCREENSHOTS, launchBrowser, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
@@ -70,8 +71,11 @@ async function open(
 const shot = (page: Page, name: string) =>
   page.screenshot({ path: join(SCREENSHOTS, `${name}.png`), fullPage: true });
 
-/** The night chart's vertical scale in the altitude view (client/src/plots/night-chart.tsx: top 14, plot 250 high, 0–90°). */
-const altOfY = (y: number) => ((264 - y) * 90) / 250;
+/** The Moon lane's height scale (client/src/plots/night-layout.ts: 0–90° over the lane's height). */
+const LAYOUT = nightLayout([0, 1], 1, false);
+const moonAltOfY = (y: number) => ((LAYOUT.moon.y + LAYOUT.moon.h - y) * 90) / LAYOUT.moon.h;
+/** The altitude detail's scale (client/src/plots/night-layout.ts DETAIL_BOX: 0–90° upwards). */
+const altOfY = (y: number) => ((DETAIL_BOX.top + DETAIL_BOX.plotH - y) * 90) / DETAIL_BOX.plotH;
 const pathYs = (d: string) => [...d.matchAll(/[ML]([-\d.]+),([-\d.]+)/g)].map((m) => Number(m[2]));
 
 beforeAll(async () => {
@@ -123,19 +127,26 @@ describe('the Moon on the night chart', () => {
     expect(Math.max(...errs)).toBeLessThan(1 / 60); // 1′: the brief's tolerance for a plotted curve
 
     const { page, errors } = await open(`/nights/${id}`);
-    const path = page.locator('svg.night-chart .moon-curve path');
+    const path = page.locator('svg.night-chart .moon-lane .moon-up path').first();
     await path.waitFor();
     const ys = pathYs((await path.getAttribute('d'))!);
     expect(ys.length).toBeGreaterThan(3);
-    // The drawn peak is the reported peak (0.1 px rounding is 0.04°).
-    expect(altOfY(Math.min(...ys))).toBeCloseTo(Math.max(...c.altitudeDeg), 1);
-    // Nothing drawn below the horizon.
-    expect(Math.max(...ys)).toBeLessThanOrEqual(264.05);
-    const key = page.locator('.series-legend .moon-key');
-    await expect(key.textContent()).resolves.toContain(
-      `${Math.round(vis.moon.illuminatedFraction * 100)}%`,
+    // The drawn peak is the highest sample inside the chart's span (sunset − 30 min to sunrise + 30 min);
+    // 0.1 px rounding on a 26 px lane is 0.35°.
+    const [s0, s1] = [
+      Date.parse(vis.sun.set!.utc) - 1_800_000,
+      Date.parse(vis.sun.rise!.utc) + 1_800_000,
+    ];
+    const inSpan = c.altitudeDeg.filter(
+      (_, i) => Date.parse(c.utc[i]!) >= s0 && Date.parse(c.utc[i]!) <= s1,
     );
-    await expect(key.textContent()).resolves.toContain('illuminated');
+    expect(Math.abs(moonAltOfY(Math.min(...ys)) - Math.max(...inSpan))).toBeLessThan(0.5);
+    // Nothing drawn below the horizon.
+    expect(Math.max(...ys)).toBeLessThanOrEqual(LAYOUT.moon.y + LAYOUT.moon.h + 0.05);
+    const key = page.locator('svg.night-chart .moon-lane');
+    await expect(key.textContent()).resolves.toContain(
+      `${Math.round(vis.moon.illuminatedFraction * 100)}% lit`,
+    );
     await page
       .locator('svg.night-chart')
       .screenshot({ path: join(SCREENSHOTS, 'night-moon-curve.png') });
@@ -250,13 +261,14 @@ describe('adding records, and a horizon mask on the night chart', () => {
     const curve = vis.targets[0]!.curve!;
     expect(curve.horizonMaskDeg!.some((m, i) => m > 30 && curve.altitudeDeg[i]! > 0)).toBe(true);
     const n = await open(`/nights/${night.id}`);
-    const band = n.page.locator('svg.night-chart .mask-band path').first();
+    const band = n.page.locator('svg.night-detail .mask-ground').first();
     await band.waitFor();
-    // The band's top is the ridge: 60° (the mask typed above).
+    // The ground's top in the altitude detail is the ridge: 60° (the mask typed above); 0.1 px is 0.06°.
     expect(altOfY(Math.min(...pathYs((await band.getAttribute('d'))!)))).toBeCloseTo(60, 1);
-    await n.page.locator('.series-legend .mask-key').waitFor();
+    // The lane is closed by the mask where the target stands behind it, and says so.
+    await n.page.locator('svg.night-chart .closed-span[data-limit=horizon-mask]').first().waitFor();
     await n.page
-      .locator('svg.night-chart')
+      .locator('#night-chart')
       .screenshot({ path: join(SCREENSHOTS, 'night-horizon-mask.png') });
     expect(n.errors).toEqual([]);
     await n.page.close();

@@ -80,14 +80,14 @@ describe('views', () => {
     await page.close();
   });
 
-  test('night: chart with twilight bands and blocks, cautions, times in UTC and local', async () => {
+  test('night: lane chart with darkness and blocks, cautions, times in UTC and local', async () => {
     const nights = await api<{ items: { id: number; date: string; siteId: number }[] }>(
       '/nights?siteId=1&limit=500',
     );
     const night = nights.items.find((n) => n.date >= '2027-03-01')!;
     const { page, errors } = await open(ctx, `/nights/${night.id}`);
-    await page.locator('svg.night-chart .series').first().waitFor();
-    expect(await page.locator('svg.night-chart .band.dark').count()).toBeGreaterThan(0);
+    await page.locator('svg.night-chart .target-lane').first().waitFor();
+    expect(await page.locator('svg.night-chart .dark-span').count()).toBeGreaterThan(0);
     expect(await page.locator('svg.night-chart .block-bar').count()).toBeGreaterThan(0);
     // Tolvane Ridge runs a laser guide star (demo scenario): its caution is on the page.
     await expect(page.locator('.caution').allTextContents()).resolves.toEqual(

@@ -174,9 +174,17 @@ export interface Interval {
   end: Stamp;
   hours: number;
 }
+/** What opens or closes a target's window (the sky engine's names). */
+export type Limit =
+  | 'darkness'
+  | 'altitude'
+  | 'horizon-mask'
+  | 'sun-distance'
+  | 'moon'
+  | 'night-edge';
 export interface Window extends Interval {
-  opensBy: string;
-  closesBy: string;
+  opensBy: Limit;
+  closesBy: Limit;
   best?: { utc: string; altitudeDeg: number; airmass: number };
 }
 /** Sampled every few minutes; `horizonMaskDeg` (the mask's altitude at the target's azimuth, °) only with a horizon mask. */
@@ -187,9 +195,14 @@ export interface Curve {
   airmass: (number | null)[];
   moonSeparationDeg: number[];
   horizonMaskDeg?: number[];
+  /** The limit that closes the target at each sample (the windows' rule); null where it is open. */
+  closedBy: (Limit | null)[];
 }
 export interface VisTarget {
   name: string;
+  /** Apparent place of date at the night's middle, degrees. */
+  raOfDateDeg: number;
+  decOfDateDeg: number;
   observableHours: number;
   moonSeparationDeg: number;
   sunSeparationDeg: number;
@@ -218,7 +231,9 @@ export interface Visibility {
   };
   limits: {
     altitudeLimitDeg: number;
-    highestAirmass?: number;
+    highestAirmass?: number | null;
+    airmassFormula?: string;
+    leastMoonDistanceDeg?: number;
     leastSunDistanceDeg: number;
     horizonMask?: boolean;
   };

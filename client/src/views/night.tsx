@@ -1,6 +1,7 @@
 /**
- * One night at one site: altitude or airmass of the campaign's targets against time with the
- * twilight bands, the Moon and a line for now; the night's blocks on the same axis and in a table
+ * One night at one site: the lane chart (darkness, the Moon, each sky position's airmass and
+ * closing limits, the blocks in their lanes, now) with its text twin and one lane's altitude in
+ * detail; the night's blocks in a table
  * (UTC and the site’s clock side by side, where each came from and whether it is pinned) where
  * observers move, pin and remove them; the scheduler panel; the site's cautions; and a printable
  * night sheet.
@@ -9,7 +10,12 @@ import { useState } from 'preact/hooks';
 import { ApiError, get, getAll, send } from '../api/client.ts';
 import { loadCatalogue } from '../api/catalogue.ts';
 import type { BlockOrigin, BlockRow, NightRow, Visibility } from '../api/types.ts';
-import { MOON_DASH, NightChart, SERIES_DASH, type NightMode } from '../plots/night-chart.tsx';
+import { NightChart } from '../plots/night-chart.tsx';
+import { NightDetail } from '../plots/night-detail.tsx';
+import type { ChartClock } from '../plots/night-frame.tsx';
+import { chartSpan } from '../plots/night-layout.ts';
+import { airmassBins, fillCeiling, laneModels, visTargetOf } from '../plots/night-lanes.ts';
+import { laneSentence, shortName } from '../plots/night-text.ts';
 import { isoOf, ms, utcClock, zoneAbbrev, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -31,7 +37,7 @@ export function blockProblem(
   targetName: string,
   siteLeastSunDistanceDeg: number,
 ): string | null {
-  const t = vis.targets.find((v) => v.name === targetName || v.name.startsWith(`${targetName} (`));
+  const t = visTargetOf(vis.targets, targetName);
   if (!t) return null;
   if (t.sunSeparationDeg < siteLeastSunDistanceDeg)
     return `refused: ${t.sunSeparationDeg.toFixed(0)}° from the Sun, inside the site’s ${siteLeastSunDistanceDeg}° Sun-avoidance angle`;
@@ -202,7 +208,8 @@ function BlockTable({
 
 export function NightView({ id }: { id: number }) {
   const canEdit = useCan('observer');
-  const [mode, setMode] = useState<NightMode>('altitude');
+  const [clock, setClock] = useState<ChartClock>('site');
+  const [detail, setDetail] = useState(0);
   const [tick, setTick] = useState(0);
   const [proposal, setProposal] = useState<ScheduledBlock[] | null>(null);
   const { data, error } = useLoad(async () => {
@@ -247,10 +254,14 @@ export function NightView({ id }: { id: number }) {
             Print night sheet
           </button>
           <label class="inline">
-            plot{' '}
-            <select value={mode} onChange={(e) => setMode(e.currentTarget.value as NightMode)}>
-              <option value="altitude">altitude (°)</option>
-              <option value="airmass">airmass</option>
+            clock{' '}
+            <select
+              name="clock"
+              value={clock}
+              onChange={(e) => setClock(e.currentTarget.value as ChartClock)}
+            >
+              <option value="site">site ({zone})</option>
+              <option value="utc">UTC</option>
             </select>
           </label>
         </div>
@@ -271,45 +282,10 @@ export function NightView({ id }: { id: number }) {
           blocks={blocks}
           targetName={names}
           nowMs={Date.now()}
-          mode={mode}
+          clock={clock}
           proposed={proposal ?? undefined}
         />
-        <ul class="legend series-legend">
-          {vis.targets.map((t, i) => (
-            <li key={t.name} class={`s${i % 6}`}>
-              <svg width="28" height="8" aria-hidden="true">
-                <line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={SERIES_DASH[i % 6]} />
-              </svg>{' '}
-              {t.name}: <Qty v={t.observableHours} unit="h" /> observable, Moon{' '}
-              <Qty v={t.moonSeparationDeg} unit="°" digits={0} /> away, Sun{' '}
-              <Qty v={t.sunSeparationDeg} unit="°" digits={0} /> away
-            </li>
-          ))}
-          {vis.moon.curve && (
-            <li class="moon-key">
-              <svg width="28" height="8" aria-hidden="true">
-                <line x1="0" y1="4" x2="28" y2="4" stroke-dasharray={MOON_DASH} />
-              </svg>{' '}
-              Moon altitude{mode === 'airmass' ? ' (altitude view)' : ''}:{' '}
-              <Qty v={vis.moon.illuminatedFraction * 100} unit="%" digits={0} /> illuminated
-            </li>
-          )}
-          {vis.targets.some((t) =>
-            t.curve?.horizonMaskDeg?.some((m) => m > vis.limits.altitudeLimitDeg),
-          ) && (
-            <li class="mask-key">
-              <svg width="28" height="10" aria-hidden="true">
-                <rect width="28" height="10" />
-              </svg>{' '}
-              hatched: the site’s horizon mask along a target’s path where it rises above the
-              altitude limit (altitude view)
-            </li>
-          )}
-          <li class="band-key">
-            bands, lightest to darkest: Sun above 0°, civil, nautical, astronomical twilight,
-            darkness · top strip: Moon up · dashed line: altitude limit · vertical line: now
-          </li>
-        </ul>
+        <NightWords vis={vis} detail={detail} onDetail={setDetail} clock={clock} />
       </Section>
       <Section title="Sun, twilight and Moon" id="sun-moon">
         <table class="data times">
@@ -361,5 +337,52 @@ export function NightView({ id }: { id: number }) {
         onProposal={setProposal}
       />
     </div>
+  );
+}
+
+/** The chart's text twin and the altitude detail of one lane. */
+function NightWords(p: {
+  vis: Visibility;
+  detail: number;
+  onDetail: (i: number) => void;
+  clock: ChartClock;
+}) {
+  const { vis } = p;
+  const lanes = laneModels(vis, chartSpan(vis), airmassBins(fillCeiling(vis)));
+  const lane = lanes[Math.min(p.detail, lanes.length - 1)];
+  return (
+    <>
+      <details class="chart-text" id="night-chart-text">
+        <summary>The night in words</summary>
+        <ul>
+          {lanes.map((l) => (
+            <li key={l.members[0]!.name}>{laneSentence(l, vis)}</li>
+          ))}
+        </ul>
+      </details>
+      {lane && (
+        <div class="night-detail-panel">
+          <label class="inline">
+            altitude of{' '}
+            <select
+              name="detail"
+              value={lanes.indexOf(lane)}
+              onChange={(e) => p.onDetail(Number(e.currentTarget.value))}
+            >
+              {lanes.map((l, i) => (
+                <option key={l.members[0]!.name} value={i}>
+                  {l.members.map(shortName).join(', ')}
+                </option>
+              ))}
+            </select>
+          </label>
+          <NightDetail
+            vis={vis}
+            target={lane.members[0]!}
+            zone={p.clock === 'utc' ? 'UTC' : vis.site.timeZone}
+          />
+        </div>
+      )}
+    </>
   );
 }

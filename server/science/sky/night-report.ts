@@ -13,7 +13,7 @@ import { exactSampler, fastSampler, frameTarget } from './samplers.ts';
 import { maskAltitudeDeg, type Site } from './site.ts';
 import { moonNight, sunNight, TWILIGHT_SUN_ALTITUDE_DEG, type TwilightKind } from './sun-moon.ts';
 import type { Target } from './target.ts';
-import { findWindows, refineTransit, transitTimes, type Limit } from './windows.ts';
+import { brokenLimit, findWindows, refineTransit, transitTimes, type Limit } from './windows.ts';
 
 export interface NightOptions {
   /** "fast" (the night's tables; default) or "exact" (astronomy-engine per instant, slower). */
@@ -60,6 +60,8 @@ export interface TargetNight {
     moonSeparationDeg: number[];
     /** With a horizon mask only: the mask's altitude at the target's azimuth at each sample, degrees. */
     horizonMaskDeg?: number[];
+    /** The limit that closes the target at each sample (the windows' own rule), null where it is open. */
+    closedBy: (Limit | null)[];
   } | null;
 }
 
@@ -187,6 +189,7 @@ export function nightReport(
         hourAngleDeg: [],
         parallacticAngleDeg: [],
         moonSeparationDeg: [],
+        closedBy: [],
       };
       const mask: number[] | undefined =
         c.mask.length > 0 ? (curve.horizonMaskDeg = []) : undefined;
@@ -202,6 +205,8 @@ export function nightReport(
         );
         curve.moonSeparationDeg.push(round(s.moonSeparationDeg, 2));
         mask?.push(round(maskAltitudeDeg(c.mask, s.azimuthDeg), 3));
+        const inDark = dark.some((d) => jd >= d.startJd && jd <= d.endJd);
+        curve.closedBy.push(inDark ? brokenLimit(s, c) : 'darkness');
       }
     }
     return {

@@ -1,0 +1,250 @@
+/**
+ * The night chart in chromium against the real server and the demo campaign: every lane, limit,
+ * block, darkness span and window drawn where the visibility API the view reads says, each edge
+ * within one screen pixel of its computed time at the test's width; one lane for the four stars
+ * of one system; the now mark; the UTC clock; the text twin; the altitude detail. Screenshots go
+ * to test-output/e2e/ for review.
+ */
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
+import type { BlockRow, Visibility } from '../../client/src/api/types.ts';
+import { NIGHT_MARGIN } from '../../client/src/plots/night-layout.ts';
+import { SCREENSHOTS, TEST_NOW, apiCaller, launchBrowser, newContext } from './harness.ts';
+
+const base = inject('baseUrl');
+const lead = inject('leadToken');
+const api = apiCaller(base, lead);
+const WIDTH = 1100; // the chart's viewBox width (client/src/plots/night-chart.tsx default)
+const LIMITS = ['darkness', 'altitude', 'horizon-mask', 'sun-distance', 'moon', 'night-edge'];
+let browser: Browser;
+let ctx: BrowserContext;
+
+beforeAll(async () => {
+  mkdirSync(SCREENSHOTS, { recursive: true });
+  browser = await launchBrowser();
+  ctx = await newContext(browser, { viewport: { width: 1280, height: 1000 } });
+});
+afterAll(async () => {
+  await ctx?.close();
+  await browser?.close();
+});
+
+async function open(path: string): Promise<{ page: Page; errors: string[] }> {
+  const page = await ctx.newPage();
+  const errors: string[] = [];
+  page.on('console', (m) => m.type() === 'error' && errors.push(m.text()));
+  page.on('pageerror', (e) => errors.push(e.message));
+  await page.goto(`${base}${path}?token=${lead}`);
+  return { page, errors };
+}
+
+/**
+ * Screen x of an instant, computed here from the API's times: the chart spans sunset − 30 min to
+ * sunrise + 30 min between its left and right margins, scaled to the drawn width.
+ */
+async function screenX(page: Page, vis: Visibility) {
+  const box = (await page.locator('svg.night-chart').boundingBox())!;
+  const t0 = Date.parse(vis.sun.set!.utc) - 1_800_000;
+  const t1 = Date.parse(vis.sun.rise!.utc) + 1_800_000;
+  const k = box.width / WIDTH;
+  const left = NIGHT_MARGIN.left;
+  const right = WIDTH - NIGHT_MARGIN.right;
+  return (ms: number) => box.x + k * (left + ((ms - t0) / (t1 - t0)) * (right - left));
+}
+
+/** Left and right screen edges of an element's first rect, by its geometry (a stroke left out). */
+async function edges(el: Locator): Promise<[number, number]> {
+  const rect = (await el.evaluate((e) => e.tagName)) === 'rect' ? el : el.locator('rect').first();
+  return rect.evaluate((r) => {
+    const g = r as SVGGraphicsElement;
+    const b = g.getBBox();
+    const m = g.getScreenCTM()!;
+    return [m.a * b.x + m.e, m.a * (b.x + b.width) + m.e] as [number, number];
+  });
+}
+
+/** A demo night at the first site with at least one window and one block. */
+async function nightWithWindows(): Promise<{ id: number; vis: Visibility; blocks: BlockRow[] }> {
+  const nights = (
+    await api<{ items: { id: number; siteId: number; date: string }[] }>(
+      '/nights?siteId=1&limit=500',
+    )
+  ).items;
+  for (const n of nights.filter((x) => x.date >= '2027-03-01')) {
+    const vis = await api<Visibility>(`/nights/${n.id}/visibility?curves=true`);
+    const blocks = (await api<{ items: BlockRow[] }>(`/blocks?nightId=${n.id}`)).items;
+    if (blocks.length && vis.targets.some((t) => t.windows.length))
+      return { id: n.id, vis, blocks };
+  }
+  throw new Error('no demo night with a window and a block');
+}
+
+describe('the night chart', () => {
+  test('windows, closed stretches, darkness and blocks sit within 1 px of the computed times', async () => {
+    const { id, vis, blocks } = await nightWithWindows();
+    const { page, errors } = await open(`/nights/${id}`);
+    await page.locator('svg.night-chart .target-lane').first().waitFor();
+    const x = await screenX(page, vis);
+    const px = (await page.locator('svg.night-chart').boundingBox())!.width / WIDTH;
+    let checked = 0;
+
+    // The demo's four Vesper Core stars sit within 1″ of each other: one lane for all of them (invented demo).
+    const lanes = page.locator('svg.night-chart .target-lane');
+    const laneTargets = await lanes.evaluateAll((ls) =>
+      ls.map((l) => l.getAttribute('data-targets')!.split('|')),
+    );
+    expect(laneTargets.flat().sort()).toEqual(vis.targets.map((t) => t.name).sort());
+    const vesper = laneTargets.find((l) => l.some((n) => n.includes('Vesper Core')))!;
+    expect(vesper.length).toBe(vis.targets.filter((t) => t.name.includes('Vesper Core')).length);
+    expect(vesper.length).toBeGreaterThan(1);
+
+    for (const [i, names] of laneTargets.entries()) {
+      const lane = lanes.nth(i);
+      const t = vis.targets.find((v) => v.name === names[0])!;
+      const open = lane.locator('.open-span');
+      expect(await open.count()).toBe(t.windows.length);
+      for (const [k, w] of t.windows.entries()) {
+        const [l, r] = await edges(open.nth(k));
+        expect(Math.abs(l - x(Date.parse(w.start.utc)))).toBeLessThanOrEqual(1);
+        expect(Math.abs(r - x(Date.parse(w.end.utc)))).toBeLessThanOrEqual(1);
+        checked += 2;
+      }
+      // Closed and open stretches tile the plot; each closed one names a limit the API knows.
+      const spans = await lane.locator('.open-span, .closed-span .hit').evaluateAll((els) =>
+        els.map((e) => {
+          const g = e as SVGGraphicsElement;
+          const b = g.getBBox();
+          const m = g.getScreenCTM()!;
+          return [m.a * b.x + m.e, m.a * (b.x + b.width) + m.e] as [number, number];
+        }),
+      );
+      spans.sort((a, b) => a[0] - b[0]);
+      const plotLeft = x(Date.parse(vis.sun.set!.utc) - 1_800_000);
+      const plotRight = x(Date.parse(vis.sun.rise!.utc) + 1_800_000);
+      expect(Math.abs(spans[0]![0] - plotLeft)).toBeLessThanOrEqual(1);
+      expect(Math.abs(spans[spans.length - 1]![1] - plotRight)).toBeLessThanOrEqual(1);
+      for (let k = 1; k < spans.length; k++)
+        expect(Math.abs(spans[k]![0] - spans[k - 1]![1])).toBeLessThanOrEqual(1);
+      const limits = await lane
+        .locator('.closed-span')
+        .evaluateAll((els) => els.map((e) => e.getAttribute('data-limit')!));
+      for (const l of limits) expect(LIMITS).toContain(l);
+      // Where a window opens, the stretch before it is closed by the limit the API names.
+      for (const w of t.windows) {
+        const before = await lane
+          .locator('.closed-span')
+          .evaluateAll(
+            (els, at) =>
+              els
+                .filter((e) => Math.abs(Number(e.getAttribute('data-end-ms')) - at) < 1)
+                .map((e) => e.getAttribute('data-limit')),
+            Date.parse(w.start.utc),
+          );
+        if (Date.parse(w.start.utc) > Date.parse(vis.sun.set!.utc))
+          expect(before).toEqual([w.opensBy]);
+      }
+    }
+
+    // The altitude limit is named with its value on hover.
+    const low = page.locator('svg.night-chart .closed-span[data-limit=altitude] title').first();
+    await expect(low.textContent()).resolves.toContain(
+      `${vis.limits.altitudeLimitDeg.toFixed(1)}°`,
+    );
+
+    // Darkness: each interval's span.
+    const dark = page.locator('svg.night-chart .dark-span');
+    expect(await dark.count()).toBe(vis.darkness.intervals.length);
+    for (const [k, d] of vis.darkness.intervals.entries()) {
+      const [l, r] = await edges(dark.nth(k));
+      expect(Math.abs(l - x(Date.parse(d.start.utc)))).toBeLessThanOrEqual(1);
+      expect(Math.abs(r - x(Date.parse(d.end.utc)))).toBeLessThanOrEqual(1);
+      checked += 2;
+    }
+
+    // Blocks: in their target's lane, edge to edge.
+    const names = new Map(
+      (await api<{ items: { id: number; name: string }[] }>('/targets?limit=500')).items.map(
+        (t) => [t.id, t.name],
+      ),
+    );
+    for (const b of blocks) {
+      const laneIndex = laneTargets.findIndex((l) =>
+        l.some((n) => n.startsWith(`${names.get(b.targetId)} (`)),
+      );
+      const bar = lanes.nth(laneIndex).locator(`.block-bar[data-block="${b.id}"]`);
+      const [l, r] = await edges(bar);
+      expect(Math.abs(l - x(Date.parse(b.startUtc)))).toBeLessThanOrEqual(1);
+      expect(Math.abs(r - x(Date.parse(b.endUtc)))).toBeLessThanOrEqual(1);
+      checked += 2;
+    }
+    console.log(`night ${id}: ${checked} edges within 1 px at ${(px * WIDTH).toFixed(0)} px wide`);
+
+    // The Moon lane carries its illumination.
+    await expect(page.locator('svg.night-chart .moon-lane').textContent()).resolves.toContain(
+      `${Math.round(vis.moon.illuminatedFraction * 100)}% lit`,
+    );
+    // The text twin has a sentence per lane, with the first window's opening on both clocks.
+    await expect(page.locator('#night-chart-text li').count()).resolves.toBe(laneTargets.length);
+    await page
+      .locator('svg.night-chart')
+      .screenshot({ path: join(SCREENSHOTS, 'night-chart.png') });
+
+    // The altitude detail: the selected lane's windows, within 1 px on the same clock.
+    const withWindow = laneTargets.findIndex(
+      (l) => vis.targets.find((v) => v.name === l[0])!.windows.length > 0,
+    );
+    await page.locator('select[name=detail]').selectOption(String(withWindow));
+    const t = vis.targets.find((v) => v.name === laneTargets[withWindow]![0])!;
+    const col = page.locator('svg.night-detail .window-column');
+    await col.first().waitFor();
+    const [l] = await edges(col.first());
+    expect(Math.abs(l - x(Date.parse(t.windows[0]!.start.utc)))).toBeLessThanOrEqual(1);
+    await page
+      .locator('#night-chart')
+      .screenshot({ path: join(SCREENSHOTS, 'night-chart-detail.png') });
+
+    // The UTC clock: hour labels on whole UTC hours.
+    await page.locator('select[name=clock]').selectOption('utc');
+    await page.locator('svg.night-chart .time-axis[data-zone=UTC]').waitFor();
+    const tick = page.locator('svg.night-chart .time-axis text[data-ms]').first();
+    const ms = Number(await tick.getAttribute('data-ms'));
+    expect(new Date(ms).getUTCMinutes()).toBe(0);
+    await expect(tick.textContent()).resolves.toBe(
+      `${String(new Date(ms).getUTCHours()).padStart(2, '0')}h`,
+    );
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  test('the now mark stands at the clock’s instant on tonight’s chart', async () => {
+    // TEST_NOW is 05:00 at Ostrel Summit (UTC−7), before its sunrise: the night of the day before (invented demo site).
+    const site = (
+      await api<{ items: { id: number; name: string }[] }>('/sites?limit=500')
+    ).items.find((s) => s.name === 'Ostrel Summit')!;
+    const date = new Date(Date.parse(TEST_NOW) - 86_400_000).toISOString().slice(0, 10);
+    const night = await api<{ id: number }>('/nights', {
+      method: 'POST',
+      body: { siteId: site.id, date },
+    });
+    try {
+      const vis = await api<Visibility>(`/nights/${night.id}/visibility?curves=true`);
+      const { page, errors } = await open(`/nights/${night.id}`);
+      const mark = page.locator('svg.night-chart .now-mark');
+      await mark.waitFor();
+      const at = Number(await mark.getAttribute('data-ms'));
+      expect(Math.abs(at - Date.parse(TEST_NOW))).toBeLessThan(120_000); // the browser's clock runs on from TEST_NOW
+      const x = await screenX(page, vis);
+      const lineX = await mark.locator('line').evaluate((e) => {
+        const m = (e as SVGGraphicsElement).getScreenCTM()!;
+        return m.a * Number(e.getAttribute('x1')) + m.e;
+      });
+      expect(Math.abs(lineX - x(at))).toBeLessThanOrEqual(1);
+      expect(errors).toEqual([]);
+      await page.close();
+    } finally {
+      await api(`/nights/${night.id}`, { method: 'DELETE' });
+    }
+  });
+});
