@@ -10461,6 +10461,8 @@ export interface components {
             moonSeparationDeg: number[];
             /** @description with a horizon mask: its altitude at the target’s azimuth, deg */
             horizonMaskDeg?: number[];
+            /** @description the limit that closes the target at each sample (the windows’ rule), null where open */
+            closedBy: ("darkness" | "altitude" | "horizon-mask" | "sun-avoidance" | "moon" | "night-edge" | null)[];
         } | null;
         Site: {
             name?: string;

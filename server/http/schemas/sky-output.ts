@@ -48,6 +48,10 @@ export const TargetCurveSchema = z
       .array(z.number())
       .optional()
       .openapi({ description: 'with a horizon mask: its altitude at the target’s azimuth, deg' }),
+    closedBy: z.array(LimitSchema.nullable()).openapi({
+      description:
+        'the limit that closes the target at each sample (the windows’ rule), null where open',
+    }),
   })
   .strict()
   .openapi('TargetCurve');
