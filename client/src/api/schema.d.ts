@@ -10462,7 +10462,7 @@ export interface components {
             /** @description with a horizon mask: its altitude at the target’s azimuth, deg */
             horizonMaskDeg?: number[];
             /** @description the limit that closes the target at each sample (the windows’ rule), null where open */
-            closedBy: ("darkness" | "altitude" | "horizon-mask" | "sun-avoidance" | "moon" | "night-edge" | null)[];
+            closedBy: ("darkness" | "altitude" | "horizon-mask" | "sun-distance" | "moon" | "night-edge" | null)[];
         } | null;
         Site: {
             name?: string;
