@@ -426,13 +426,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -441,13 +435,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -456,13 +444,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -471,13 +453,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -486,13 +462,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -501,13 +471,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -599,13 +563,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -614,13 +572,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -629,13 +581,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -644,13 +590,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -659,13 +599,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -674,13 +608,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -755,13 +683,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -770,13 +692,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -785,13 +701,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -800,13 +710,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -815,13 +719,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -830,13 +728,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -868,13 +760,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -883,13 +769,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -898,13 +778,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -913,13 +787,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -928,13 +796,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -943,13 +805,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1032,13 +888,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1047,13 +897,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -1062,13 +906,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -1077,13 +915,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -1092,13 +924,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -1107,13 +933,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1173,13 +993,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1188,13 +1002,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -1203,13 +1011,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -1218,13 +1020,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -1233,13 +1029,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -1248,13 +1038,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1308,13 +1092,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1323,13 +1101,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -1338,13 +1110,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -1353,13 +1119,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -1368,13 +1128,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -1383,13 +1137,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1445,13 +1193,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1460,13 +1202,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -1475,13 +1211,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -1490,13 +1220,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -1505,13 +1229,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -1520,13 +1238,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1558,13 +1270,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1573,13 +1279,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -1588,13 +1288,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -1603,13 +1297,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -1618,13 +1306,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -1633,13 +1315,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1695,13 +1371,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1710,13 +1380,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -1725,13 +1389,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -1740,13 +1398,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -1755,13 +1407,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -1770,13 +1416,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1833,13 +1473,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1848,13 +1482,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -1863,13 +1491,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -1878,13 +1500,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -1893,13 +1509,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -1908,13 +1518,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -1973,13 +1577,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -1988,13 +1586,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -2003,13 +1595,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -2018,13 +1604,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -2033,13 +1613,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -2048,13 +1622,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -2111,13 +1679,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -2126,13 +1688,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -2141,13 +1697,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -2156,13 +1706,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -2171,13 +1715,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -2186,13 +1724,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -2249,13 +1781,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -2264,13 +1790,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -2279,13 +1799,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -2294,13 +1808,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -2309,13 +1817,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -2324,13 +1826,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -2375,13 +1871,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -2390,13 +1880,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -2405,13 +1889,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -2420,13 +1898,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -2435,13 +1907,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -2450,13 +1916,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -2488,13 +1948,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -2503,13 +1957,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -2518,13 +1966,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -2533,13 +1975,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -2548,13 +1984,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -2563,13 +1993,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -2615,13 +2039,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -2630,13 +2048,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -2645,13 +2057,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -2660,13 +2066,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -2675,13 +2075,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -2690,13 +2084,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -2792,13 +2180,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -2807,13 +2189,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -2822,13 +2198,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -2837,13 +2207,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -2852,13 +2216,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -2867,13 +2225,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -2993,13 +2345,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -3008,13 +2354,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -3023,13 +2363,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -3038,13 +2372,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -3053,13 +2381,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -3068,13 +2390,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -3163,13 +2479,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -3178,13 +2488,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -3193,13 +2497,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -3208,13 +2506,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -3223,13 +2515,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -3238,13 +2524,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -3276,13 +2556,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -3291,13 +2565,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -3306,13 +2574,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -3321,13 +2583,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -3336,13 +2592,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -3351,13 +2601,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -3463,13 +2707,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -3478,13 +2716,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -3493,13 +2725,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -3508,13 +2734,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -3523,13 +2743,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -3538,13 +2752,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -3634,13 +2842,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -3649,13 +2851,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -3664,13 +2860,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -3679,13 +2869,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -3694,13 +2878,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -3709,13 +2887,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -3821,13 +2993,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -3836,13 +3002,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -3851,13 +3011,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -3866,13 +3020,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -3881,13 +3029,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -3896,13 +3038,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -3984,13 +3120,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -3999,13 +3129,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4014,13 +3138,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4029,13 +3147,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4044,13 +3156,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4059,13 +3165,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -4097,13 +3197,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -4112,13 +3206,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4127,13 +3215,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4142,13 +3224,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4157,13 +3233,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4172,13 +3242,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -4283,13 +3347,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -4298,13 +3356,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4313,13 +3365,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4328,13 +3374,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4343,13 +3383,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4358,13 +3392,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -4417,13 +3445,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -4432,13 +3454,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4447,13 +3463,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4462,13 +3472,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4477,13 +3481,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4492,13 +3490,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -4543,13 +3535,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -4558,13 +3544,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4573,13 +3553,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4588,13 +3562,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4603,13 +3571,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4618,13 +3580,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -4669,13 +3625,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -4684,13 +3634,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4699,13 +3643,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4714,13 +3652,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4729,13 +3661,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4744,13 +3670,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -4782,13 +3702,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -4797,13 +3711,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4812,13 +3720,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4827,13 +3729,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4842,13 +3738,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4857,13 +3747,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -4904,13 +3788,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -4919,13 +3797,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -4934,13 +3806,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -4949,13 +3815,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -4964,13 +3824,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -4979,13 +3833,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -5029,13 +3877,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -5044,13 +3886,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -5059,13 +3895,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -5074,13 +3904,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -5089,13 +3913,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -5104,13 +3922,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -5172,13 +3984,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -5187,13 +3993,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -5202,13 +4002,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -5217,13 +4011,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -5232,13 +4020,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -5247,13 +4029,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -5311,13 +4087,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -5326,13 +4096,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -5341,13 +4105,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -5356,13 +4114,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -5371,13 +4123,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -5386,13 +4132,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -5437,13 +4177,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -5452,13 +4186,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -5467,13 +4195,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -5482,13 +4204,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -5497,13 +4213,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -5512,13 +4222,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -5550,13 +4254,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -5565,13 +4263,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -5580,13 +4272,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -5595,13 +4281,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -5610,13 +4290,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -5625,13 +4299,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -5685,13 +4353,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -5700,13 +4362,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -5715,13 +4371,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -5730,13 +4380,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -5745,13 +4389,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -5760,13 +4398,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -5849,13 +4481,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -5864,13 +4490,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -5879,13 +4499,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -5894,13 +4508,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -5909,13 +4517,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -5924,13 +4526,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -6021,13 +4617,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -6036,13 +4626,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -6051,13 +4635,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -6066,13 +4644,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -6081,13 +4653,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -6096,13 +4662,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -6177,13 +4737,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -6192,13 +4746,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -6207,13 +4755,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -6222,13 +4764,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -6237,13 +4773,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -6252,13 +4782,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -6290,13 +4814,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -6305,13 +4823,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -6320,13 +4832,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -6335,13 +4841,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -6350,13 +4850,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -6365,13 +4859,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -6462,13 +4950,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -6477,13 +4959,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -6492,13 +4968,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -6507,13 +4977,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -6522,13 +4986,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -6537,13 +4995,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -6631,13 +5083,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -6646,13 +5092,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -6661,13 +5101,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -6676,13 +5110,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -6691,13 +5119,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -6706,13 +5128,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -6809,13 +5225,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -6824,13 +5234,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -6839,13 +5243,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -6854,13 +5252,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -6869,13 +5261,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -6884,13 +5270,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -6968,13 +5348,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -6983,13 +5357,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -6998,13 +5366,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7013,13 +5375,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -7028,13 +5384,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -7043,13 +5393,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -7081,13 +5425,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -7096,13 +5434,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -7111,13 +5443,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7126,13 +5452,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -7141,13 +5461,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -7156,13 +5470,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -7261,13 +5569,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -7276,13 +5578,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -7291,13 +5587,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7306,13 +5596,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -7321,13 +5605,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -7336,13 +5614,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -7404,13 +5676,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -7419,13 +5685,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -7434,13 +5694,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7449,13 +5703,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -7464,13 +5712,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description bad rows: every one listed, nothing written */
@@ -7549,13 +5791,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -7564,13 +5800,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -7579,13 +5809,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7594,13 +5818,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -7609,13 +5827,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -7624,13 +5836,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -7680,13 +5886,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -7695,13 +5895,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -7710,13 +5904,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7725,13 +5913,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -7740,13 +5922,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -7755,13 +5931,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -7812,13 +5982,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -7827,13 +5991,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -7842,13 +6000,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7857,13 +6009,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -7872,13 +6018,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -7887,13 +6027,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -7953,13 +6087,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -7968,13 +6096,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -7983,13 +6105,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -7998,13 +6114,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -8013,13 +6123,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -8028,13 +6132,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -8084,13 +6182,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -8099,13 +6191,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -8114,13 +6200,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -8129,13 +6209,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -8144,13 +6218,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -8159,13 +6227,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -8211,13 +6273,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -8226,13 +6282,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -8241,13 +6291,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -8256,13 +6300,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -8271,13 +6309,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -8286,13 +6318,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -8353,13 +6379,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -8368,13 +6388,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -8383,13 +6397,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -8398,13 +6406,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -8413,13 +6415,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -8428,13 +6424,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -8489,13 +6479,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -8504,13 +6488,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -8519,13 +6497,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -8534,13 +6506,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -8549,13 +6515,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -8564,13 +6524,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -8667,13 +6621,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -8682,13 +6630,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -8697,13 +6639,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -8712,13 +6648,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -8727,13 +6657,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -8742,13 +6666,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -8869,13 +6787,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -8884,13 +6796,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -8899,13 +6805,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -8914,13 +6814,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -8929,13 +6823,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -8944,13 +6832,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -8984,11 +6866,14 @@ export interface paths {
                 content: {
                     "application/json": {
                         /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
-                        candidates?: unknown[];
+                        candidates?: components["schemas"]["Candidate"][];
                         /** @description keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge) */
-                        pins?: unknown[];
+                        pins?: {
+                            id: string;
+                            start: string;
+                        }[];
                         /** @description candidate ids to leave out */
-                        remove?: unknown[];
+                        remove?: string[];
                         /** @description slot length, minutes, [1, 30]; default 5 */
                         slotMinutes?: number;
                         /** @description gap between targets, minutes, [0, 120]; default 8 */
@@ -9030,13 +6915,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -9045,13 +6924,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -9060,13 +6933,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -9075,13 +6942,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -9090,13 +6951,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -9105,13 +6960,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -9145,11 +6994,14 @@ export interface paths {
                 content: {
                     "application/json": {
                         /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
-                        candidates?: unknown[];
+                        candidates?: components["schemas"]["Candidate"][];
                         /** @description keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge) */
-                        pins?: unknown[];
+                        pins?: {
+                            id: string;
+                            start: string;
+                        }[];
                         /** @description candidate ids to leave out */
-                        remove?: unknown[];
+                        remove?: string[];
                         /** @description slot length, minutes, [1, 30]; default 5 */
                         slotMinutes?: number;
                         /** @description gap between targets, minutes, [0, 120]; default 8 */
@@ -9207,13 +7059,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no valid bearer token */
@@ -9222,13 +7068,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description the token’s role may not do this */
@@ -9237,13 +7077,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description no such record */
@@ -9252,13 +7086,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description clashes with the stored state (stale version, duplicate, still in use) */
@@ -9267,13 +7095,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
@@ -9282,13 +7104,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            error: {
-                                code: string;
-                                message: string;
-                                details?: unknown;
-                            };
-                        };
+                        "application/json": components["schemas"]["Error"];
                     };
                 };
             };
@@ -10243,9 +8059,32 @@ export interface components {
                 /** @description stable, machine-readable */
                 code: string;
                 message: string;
-                /** @description 400: issues (field, rule, code); 422: field, value, rule; 409: the current state */
-                details?: unknown;
+                details?: components["schemas"]["ErrorDetails"];
             };
+        };
+        ErrorDetails: {
+            /** @description 400: one per malformed field (dotted path) */
+            issues?: {
+                field: string;
+                rule: string;
+                code: string;
+            }[];
+            /** @description 422: the dotted field that breaks a rule */
+            field?: string;
+            /** @description 422: the value as sent (any JSON) */
+            value?: unknown;
+            /** @description 422: the rule, in words */
+            rule?: string;
+            /** @description 422 on a batch: every row’s problem */
+            problems?: {
+                [key: string]: unknown;
+            }[];
+            /** @description 404: the kind of record */
+            entity?: string;
+            /** @description 404: its id */
+            id?: number | string;
+        } & {
+            [key: string]: unknown;
         };
         Orbit: {
             elements: components["schemas"]["ThieleInnesElements"] | components["schemas"]["CampbellElements"];

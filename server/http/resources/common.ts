@@ -11,6 +11,7 @@ import type { Repository } from '../../store/repository.ts';
 import type { Role } from '../../store/repos/users.ts';
 import { requireRole, type AuthEnv } from '../auth.ts';
 import { HttpError, errorResponse } from '../errors.ts';
+import { errorResponses, json } from '../schemas/responses.ts';
 import { validationHook } from '../validation.ts';
 
 /** Store errors to HTTP: 404 missing row, 409 clash with stored state, 422 a value breaks a rule. */
@@ -37,26 +38,7 @@ export function resourceApp() {
 }
 
 export const security = [{ bearer: [] }];
-const Any = z.record(z.string(), z.unknown());
-export const json = (schema: z.ZodType, description: string) => ({
-  content: { 'application/json': { schema } },
-  description,
-});
-const err = (d: string) =>
-  json(
-    z.object({
-      error: z.object({ code: z.string(), message: z.string(), details: z.unknown().optional() }),
-    }),
-    d,
-  );
-export const errorResponses = {
-  400: err('malformed request (field-level issues in details)'),
-  401: err('no valid bearer token'),
-  403: err('the token’s role may not do this'),
-  404: err('no such record'),
-  409: err('clashes with the stored state (stale version, duplicate, still in use)'),
-  422: err('a value breaks a rule (field, value, rule in details)'),
-};
+export { errorResponses, json };
 export const IdParam = z.object({
   id: z.coerce
     .number()
@@ -82,7 +64,6 @@ export const pageOf = (item: z.ZodType) =>
     limit: z.number().int(),
     offset: z.number().int(),
   });
-export const RowSchema = Any;
 
 export interface ResourceSpec<T, Q extends z.ZodObject> {
   store: Store;

@@ -22,15 +22,18 @@ import { momentJd } from '../../clock.ts';
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const NightScheduleBody = z
   .object({
-    candidates: z.array(z.unknown()).optional().openapi({
+    candidates: z.array(CandidateSchema).optional().openapi({
       description:
         'blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"',
     }),
-    pins: z.array(z.unknown()).optional().openapi({
-      description:
-        'keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge)',
-    }),
-    remove: z.array(z.unknown()).optional().openapi({ description: 'candidate ids to leave out' }),
+    pins: z
+      .array(z.object({ id: z.string(), start: z.string() }).strict())
+      .optional()
+      .openapi({
+        description:
+          'keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge)',
+      }),
+    remove: z.array(z.string()).optional().openapi({ description: 'candidate ids to leave out' }),
     slotMinutes: num('slot length, minutes, [1, 30]; default 5'),
     slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
     sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),

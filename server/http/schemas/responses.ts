@@ -9,16 +9,36 @@ export const json = <S extends z.ZodType>(schema: S, description: string) => ({
   description,
 });
 
+/** What an error names; codes add their own fields (a 409's current version, a refusal's reason). */
+export const ErrorDetailsSchema = z
+  .object({
+    issues: z
+      .array(z.object({ field: z.string(), rule: z.string(), code: z.string() }).strict())
+      .optional()
+      .openapi({ description: '400: one per malformed field (dotted path)' }),
+    field: z
+      .string()
+      .optional()
+      .openapi({ description: '422: the dotted field that breaks a rule' }),
+    value: z.unknown().optional().openapi({ description: '422: the value as sent (any JSON)' }),
+    rule: z.string().optional().openapi({ description: '422: the rule, in words' }),
+    problems: z
+      .array(z.record(z.string(), z.unknown()))
+      .optional()
+      .openapi({ description: '422 on a batch: every row’s problem' }),
+    entity: z.string().optional().openapi({ description: '404: the kind of record' }),
+    id: z.union([z.number(), z.string()]).optional().openapi({ description: '404: its id' }),
+  })
+  .catchall(z.unknown())
+  .openapi('ErrorDetails');
+
 export const ErrorSchema = z
   .object({
     error: z
       .object({
         code: z.string().openapi({ description: 'stable, machine-readable' }),
         message: z.string(),
-        details: z.unknown().optional().openapi({
-          description:
-            '400: issues (field, rule, code); 422: field, value, rule; 409: the current state',
-        }),
+        details: ErrorDetailsSchema.optional(),
       })
       .strict(),
   })

@@ -1,6 +1,11 @@
 /** Planning: flags, the season plan and the night schedule. Pure functions over the orbit and sky engines. */
 export { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
-export { MEASUREMENT_KINDS, type CandidateInput, type MeasurementKind } from './candidates.ts';
+export {
+  MEASUREMENT_KINDS,
+  checkCandidates,
+  type CandidateInput,
+  type MeasurementKind,
+} from './candidates.ts';
 export {
   FLAG_KINDS,
   computeFlags,

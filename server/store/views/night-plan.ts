@@ -20,6 +20,7 @@
 import { InputError } from '../../science/errors.ts';
 import { findEvents } from '../../science/orbit/index.ts';
 import {
+  checkCandidates,
   scheduleNight,
   type CandidateInput,
   type KeptBlock,
@@ -66,7 +67,7 @@ export interface NightSchedulePreview {
   campaignId: number;
   at: string;
   candidatesFrom: 'campaign' | 'request';
-  candidates: CandidateInput[] | unknown;
+  candidates: CandidateInput[];
   schedule: NightSchedule;
   /** Stored blocks accepting would delete (all still only plans), and those it keeps with the reason. */
   replaces: number[];
@@ -99,8 +100,19 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
   const [state] = await nightStates(db, { nightIds: [nightId] }, at);
   const keptBlocks = state!.blocks.filter((b) => b.kept !== null);
   const kept: KeptBlock[] = keptBlocks.map(({ block }) => asKeptBlock(block, names));
-  let candidates: unknown = request.candidates;
-  const fromCampaign = candidates === undefined;
+  const fromCampaign = request.candidates === undefined;
+  // The request's candidates as the scheduler reads them (it checks them again: the same errors).
+  let candidates: CandidateInput[] = fromCampaign
+    ? []
+    : checkCandidates(request.candidates, targets).map((c) => ({
+        id: c.id,
+        target: c.targetName,
+        kind: c.kind,
+        durationMinutes: c.durationMinutes,
+        priority: c.priority,
+        ...(c.maxAirmass === null ? {} : { maxAirmass: c.maxAirmass }),
+        laserGuideStar: c.laserGuideStar,
+      }));
   if (fromCampaign) {
     const minutes = { ...DEFAULT_MINUTES, ...(request.blockMinutes ?? {}) };
     const span = nightIntervalUtc(night.date, site.site.timeZone);
