@@ -110,7 +110,7 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
         kind: c.kind,
         durationMinutes: c.durationMinutes,
         priority: c.priority,
-        ...(c.maxAirmass === null ? {} : { maxAirmass: c.maxAirmass }),
+        ...(c.highestAirmass === null ? {} : { highestAirmass: c.highestAirmass }),
         laserGuideStar: c.laserGuideStar,
       }));
   if (fromCampaign) {
