@@ -6,7 +6,7 @@
 import { serve } from '@hono/node-server';
 import { createApp } from './http/app.ts';
 import { DEFAULT_CLIENT_DIR, hasBuiltClient } from './http/client-static.ts';
-import { startStore } from './store/startup.ts';
+import { startStore } from './store/index.ts';
 
 const port = Number(process.env.PORT ?? 8417);
 const hostname = process.env.HOST ?? '127.0.0.1';
@@ -35,7 +35,7 @@ const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
       ? `light client: open ${base} in a browser`
       : 'no built client in client/dist: run `npm run build` for the browser views',
   );
-  console.log(`database: ${store.database.url.replace(/\/\/[^@/]*@/, '//…@')}`);
+  console.log(`database: ${store.url.replace(/\/\/[^@/]*@/, '//…@')}`);
   if (demo)
     console.log(
       `demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty store)`,
@@ -51,7 +51,7 @@ const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
 for (const sig of ['SIGINT', 'SIGTERM'] as const) {
   process.on(sig, () => {
     server.close();
-    store.database.close();
+    store.close();
     process.exit(0);
   });
 }

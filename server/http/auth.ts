@@ -4,8 +4,7 @@
  * campaigns and sites. No token → 401; a token whose role is too low → 403.
  */
 import type { Context, MiddlewareHandler } from 'hono';
-import type { Store } from '../store/index.ts';
-import type { Role, UserRow } from '../store/repos/users.ts';
+import type { Role, Store, UserRow } from '../store/index.ts';
 import { HttpError } from './errors.ts';
 
 export type AuthEnv = { Variables: { user: UserRow | null } };

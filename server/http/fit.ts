@@ -14,7 +14,6 @@ import {
   type FitResult,
 } from '../science/orbit/fit/index.ts';
 import type { Store } from '../store/index.ts';
-import { acceptStoredFit, prepareStoredFit, systemTargetIds } from '../store/fits.ts';
 import { identify, requireRole } from './auth.ts';
 import { HttpError } from './errors.ts';
 import { IdParam, resourceApp, security } from './resources/common.ts';
@@ -217,7 +216,7 @@ export function fitRoutes(store?: Store) {
         'invalid_request',
         'targetIds: belongs to system fits; a target fit fits its own target',
       );
-    return scope === 'target' ? [id] : systemTargetIds(store, id, only);
+    return scope === 'target' ? [id] : store.fits.systemTargetIds(id, only);
   };
   for (const scope of ['target', 'system'] as const) {
     const base = scope === 'target' ? '/targets/{id}/fit' : '/systems/{id}/fit';
@@ -242,7 +241,7 @@ export function fitRoutes(store?: Store) {
         requireRole(c, 'viewer');
         const { notes: _notes, targetIds, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
-        const prepared = await prepareStoredFit(store, ids, options);
+        const prepared = await store.fits.prepare(ids, options);
         return c.json({ targets: prepared.targets, result: runFit(prepared.request) }, 200);
       },
     );
@@ -263,10 +262,9 @@ export function fitRoutes(store?: Store) {
         const user = requireRole(c, 'lead');
         const { notes, targetIds, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
-        const prepared = await prepareStoredFit(store, ids, options);
+        const prepared = await store.fits.prepare(ids, options);
         const result = runFit(prepared.request);
-        const solutions = await acceptStoredFit(
-          store,
+        const solutions = await store.fits.accept(
           { userId: user.id },
           prepared,
           result,

@@ -16,7 +16,7 @@ import type {
 } from '../science/orbit/fit/index.ts';
 import type { Actor } from './audit.ts';
 import { getById } from './crud.ts';
-import type { Store } from './index.ts';
+import type { StoreContext } from './context.ts';
 import type { MeasurementRow } from './repos/measurements.ts';
 import type { OrbitSolutionRow } from './repos/orbits.ts';
 import { systemEntity, targetEntity } from './repos/catalogue.ts';
@@ -72,7 +72,7 @@ function toInput(m: MeasurementRow): MeasurementInput {
  * @throws NotFoundError for an unknown system; InputError for a target outside the system
  */
 export async function systemTargetIds(
-  store: Store,
+  store: StoreContext,
   systemId: number,
   only?: number[],
 ): Promise<number[]> {
@@ -98,7 +98,7 @@ export async function systemTargetIds(
 
 /** Build the fit request of the given targets from their stored measurements. */
 export async function prepareStoredFit(
-  store: Store,
+  store: StoreContext,
   targetIds: number[],
   options: StoredFitOptions,
 ): Promise<PreparedFit> {
@@ -161,7 +161,7 @@ export async function prepareStoredFit(
  * the measurements used, method and χ² in the reference), made current; all or none.
  */
 export async function acceptStoredFit(
-  store: Store,
+  store: StoreContext,
   actor: Actor,
   prepared: PreparedFit,
   result: FitResult,

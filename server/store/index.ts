@@ -1,34 +1,50 @@
-/** The campaign store: one repository per entity over one libSQL database. */
-import type { Database } from './database.ts';
-import { campaignRepository } from './repos/campaigns.ts';
-import { systemRepository, targetRepository } from './repos/catalogue.ts';
-import { measurementRepository } from './repos/measurements.ts';
-import { blockRepository, nightRepository } from './repos/nights.ts';
-import { orbitSolutionRepository } from './repos/orbits.ts';
-import { nightReportRepository } from './repos/reports.ts';
-import { siteRepository } from './repos/sites.ts';
-import { userRepository } from './repos/users.ts';
-
-export function createStore(database: Database) {
-  const { db } = database;
-  return {
-    database,
-    db,
-    systems: systemRepository(db),
-    targets: targetRepository(db),
-    orbitSolutions: orbitSolutionRepository(db),
-    sites: siteRepository(db),
-    campaigns: campaignRepository(db),
-    nights: nightRepository(db),
-    blocks: blockRepository(db),
-    nightReports: nightReportRepository(db),
-    measurements: measurementRepository(db),
-    users: userRepository(db),
-  };
-}
-export type Store = ReturnType<typeof createStore>;
-
+/**
+ * The campaign store: one repository per entity over one libSQL database, and the views and
+ * exports built on them. This module is the store's only door: http, cli and client code import
+ * from here and never see the database handle, drizzle or db/schema.ts.
+ */
+export { createStore, type Store } from './store.ts';
 export { openDatabase, resolveDatabaseUrl, type Database, type OpenOptions } from './database.ts';
+export { startStore, type StartOptions, type Started } from './startup.ts';
 export { LOCAL_OPERATOR, type Actor } from './audit.ts';
+export type { AuditFilter, AuditRow } from './repos/audit.ts';
 export { ConflictError, NotFoundError } from './errors.ts';
 export type { Page, PageRequest } from './crud.ts';
+export type { Repository } from './repository.ts';
+export { BLOCK_ORIGINS, BLOCK_STATUSES } from '../../db/schema.ts';
+export {
+  BlockFields,
+  CampaignFields,
+  MeasurementFields,
+  NightFields,
+  NightReportFields,
+  OrbitSolutionInput,
+  SiteFields,
+  SystemFields,
+  TargetFields,
+  UserInput,
+  type Role,
+} from './schemas/entities.ts';
+export type { CampaignFilter, CampaignRow, CampaignView } from './repos/campaigns.ts';
+export type { SystemFilter, SystemRow, TargetFilter, TargetRow } from './repos/catalogue.ts';
+export type { MeasurementFilter, MeasurementRow } from './repos/measurements.ts';
+export type { BlockFilter, BlockRow, NightFilter, NightRow } from './repos/nights.ts';
+export type { OrbitSolutionFilter, OrbitSolutionRow } from './repos/orbits.ts';
+export type { NightReportFilter, NightReportRow, NightReportView } from './repos/reports.ts';
+export type { SiteRow } from './repos/sites.ts';
+export type { IssuedToken, TokenListing, UserRow } from './repos/users.ts';
+export { ACCEPT_AT_TOLERANCE_MINUTES } from './views/plan-scope.ts';
+export { NIGHT_CHOICES, type SeasonPlanRequest } from './views/season-plan.ts';
+export type { NightScheduleRequest } from './views/night-plan.ts';
+export type { StoredFitOptions } from './fits.ts';
+export {
+  COLUMNS,
+  CSV_KINDS,
+  MEASUREMENT_COLUMNS,
+  NUMERIC,
+  REQUIRED_COLUMNS,
+  type CsvKind,
+} from './csv/columns.ts';
+export { ImportRejected, type ImportReport } from './csv/import.ts';
+export { ephemerisCsv } from './exports/ephemeris.ts';
+export { measurementsCsv, type ExportedMeasurement } from './exports/measurements.ts';

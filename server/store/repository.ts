@@ -13,8 +13,10 @@ import { parseInput } from './schemas/common.ts';
 
 type Row = Record<string, unknown>;
 
-export interface RepositorySpec<T, S extends z.ZodType> {
+export interface RepositorySpec<T, S extends z.ZodType, F> {
   entity: crud.Entity<T>;
+  /** The SQL conditions of a typed filter (all of them must hold); none when omitted. */
+  where?: (filter: F, db: DbOrTx) => (SQL | undefined)[];
   schema: S;
   /** Keys of the schema that are stored as columns of the same name. */
   keys: readonly string[];
@@ -28,10 +30,11 @@ export interface RepositorySpec<T, S extends z.ZodType> {
   extraInput?: (tx: DbOrTx, row: T) => Promise<Row>;
 }
 
-export interface Repository<T> {
+export interface Repository<T, F = Record<never, never>> {
   entity: crud.Entity<T>;
-  list(where: (SQL | undefined)[], page?: crud.PageRequest, db?: DbOrTx): Promise<crud.Page<T>>;
-  get(id: number, db?: DbOrTx): Promise<T>;
+  /** One page of the rows that match every field of `filter` (an empty filter matches all). */
+  list(filter?: F, page?: crud.PageRequest): Promise<crud.Page<T>>;
+  get(id: number): Promise<T>;
   create(actor: Actor, input: unknown): Promise<T>;
   createIn(tx: DbOrTx, actor: Actor, input: unknown): Promise<T>;
   update(actor: Actor, id: number, patch: Row, version?: number): Promise<T>;
@@ -44,10 +47,10 @@ function pick(row: Row, keys: readonly string[]): Row {
   return out;
 }
 
-export function repository<T, S extends z.ZodType>(
+export function repository<T, S extends z.ZodType, F = Record<never, never>>(
   db: Db,
-  spec: RepositorySpec<T, S>,
-): Repository<T> {
+  spec: RepositorySpec<T, S, F>,
+): Repository<T, F> {
   const { entity, schema, keys } = spec;
   const toRow = spec.toRow ?? ((input: z.output<S>) => pick(input as Row, keys));
   const createIn = async (tx: DbOrTx, actor: Actor, input: unknown) => {
@@ -58,8 +61,9 @@ export function repository<T, S extends z.ZodType>(
   };
   return {
     entity,
-    list: (where, page, on = db) => crud.list(on, entity, where, page),
-    get: (id, on = db) => crud.getById(on, entity, id),
+    list: (filter, page) =>
+      crud.list(db, entity, filter && spec.where ? spec.where(filter, db) : [], page),
+    get: (id) => crud.getById(db, entity, id),
     createIn,
     create: (actor, input) => db.transaction((tx) => createIn(tx, actor, input)),
     update: (actor, id, patch, version) =>

@@ -7,8 +7,9 @@ import { count } from 'drizzle-orm';
 import { auditTrail } from '../../db/schema.ts';
 import { LOCAL_OPERATOR } from './audit.ts';
 import { openDatabase, type OpenOptions } from './database.ts';
-import { loadDemo } from './demo/load.ts';
-import { createStore, type Store } from './index.ts';
+import type { loadDemo } from './demo/load.ts';
+import { contextOf } from './context.ts';
+import { createStore, type Store } from './store.ts';
 import type { IssuedToken } from './repos/users.ts';
 
 export interface Started {
@@ -31,12 +32,13 @@ export interface StartOptions extends OpenOptions {
 export async function startStore(options: StartOptions = {}): Promise<Started> {
   const database = await openDatabase(options);
   const store = createStore(database);
-  const [{ n }] = (await store.db.select({ n: count() }).from(auditTrail)) as [{ n: number }];
+  const { db } = contextOf(store);
+  const [{ n }] = (await db.select({ n: count() }).from(auditTrail)) as [{ n: number }];
   const neverWritten = n === 0;
   const wantDemo = options.demo ?? process.env.EPOCHWRIGHT_DEMO !== '0';
   const demo =
     neverWritten && wantDemo
-      ? await loadDemo(store, LOCAL_OPERATOR, options.today ? { today: options.today } : {})
+      ? await store.loadDemo(LOCAL_OPERATOR, options.today ? { today: options.today } : {})
       : null;
   const firstLead =
     (await store.users.count()) === 0

@@ -6,10 +6,10 @@
  */
 import { measurements } from '../../db/schema.ts';
 import { createApp } from '../../server/http/app.ts';
-import { importCsv } from '../../server/store/csv/import.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { startStore } from '../../server/store/startup.ts';
 import { benchLine, isMain } from './timing.ts';
+import { databaseOf } from '../../server/store/testing.ts';
 
 async function freshStore(): Promise<{ store: Store; targetId: number }> {
   const store = createStore(await openDatabase({ url: ':memory:' }));
@@ -44,9 +44,9 @@ export async function run(): Promise<string[]> {
     const a = await freshStore();
     ours = Math.min(
       ours,
-      await seconds(() => importCsv(a.store, LOCAL_OPERATOR, 'measurements', csv)),
+      await seconds(() => a.store.importCsv(LOCAL_OPERATOR, 'measurements', csv)),
     );
-    a.store.database.close();
+    a.store.close();
     const b = await freshStore();
     const now = new Date().toISOString();
     const rows = Array.from({ length: n }, (_, i) => ({
@@ -63,13 +63,13 @@ export async function run(): Promise<string[]> {
     base = Math.min(
       base,
       await seconds(() =>
-        b.store.db.transaction(async (tx) => {
+        databaseOf(b.store).db.transaction(async (tx) => {
           for (let i = 0; i < rows.length; i += 500)
             await tx.insert(measurements).values(rows.slice(i, i + 500));
         }),
       ),
     );
-    b.store.database.close();
+    b.store.close();
   }
   const lines = [
     benchLine('store-import-measurements', n / ours, 'rows/s', base / ours, 'plain-drizzle-insert'),
@@ -96,7 +96,7 @@ export async function run(): Promise<string[]> {
     direct = Math.min(
       direct,
       await seconds(async () => {
-        for (let i = 0; i < reps; i++) await store.blocks.list([], { limit: 50 });
+        for (let i = 0; i < reps; i++) await store.blocks.list({}, { limit: 50 });
       }),
     );
   }
@@ -109,7 +109,7 @@ export async function run(): Promise<string[]> {
       'repository-call',
     ),
   );
-  store.database.close();
+  store.close();
   return lines;
 }
 

@@ -9,7 +9,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../server/cli/main.ts';
 import type { Store } from '../../server/store/index.ts';
 import { startStore } from '../../server/store/startup.ts';
-import { measurementsCsv, measurementsForExport } from '../../server/store/exports/measurements.ts';
+import { measurementsCsv } from '../../server/store/exports/measurements.ts';
 
 let dir: string;
 let store: Store;
@@ -18,10 +18,10 @@ beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-fit-cli-'));
   url = `file:${join(dir, 'demo.db')}`;
   store = (await startStore({ url, demo: true, today: '2026-12-01' })).store;
-  writeFileSync(join(dir, 'm.csv'), measurementsCsv(await measurementsForExport(store.db, [])));
+  writeFileSync(join(dir, 'm.csv'), measurementsCsv(await store.exports.measurements()));
 });
 afterAll(() => {
-  store.database.close();
+  store.close();
   rmSync(dir, { recursive: true, force: true });
 });
 
@@ -84,7 +84,7 @@ describe('epochwright fit', () => {
   });
 
   it('fits stored measurements and --accept stores a new current version', async () => {
-    const targets = (await store.targets.list([])).items as { id: number; name: string }[];
+    const targets = (await store.targets.list({})).items as { id: number; name: string }[];
     const s2 = targets.find((t) => t.name === 'VC s2')!.id;
     const res = await run([
       'fit',
@@ -100,7 +100,7 @@ describe('epochwright fit', () => {
     expect(res.out).toMatch(
       /stored VC s2 \(target \d+\) as orbit solution \d+, version 2, now current/,
     );
-    const versions = (await store.orbitSolutions.list([])).items.filter((v) => v.targetId === s2);
+    const versions = (await store.orbitSolutions.list({})).items.filter((v) => v.targetId === s2);
     expect(versions.map((v) => [v.version, v.current, v.provenance])).toEqual([
       [1, false, 'entered'],
       [2, true, 'fitted'],

@@ -8,7 +8,6 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
-import { loadDemo } from '../../server/store/demo/load.ts';
 import { tableCounts } from '../store/backends.ts';
 import { cli } from './run-cli.ts';
 
@@ -21,10 +20,10 @@ beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-plan-cli-'));
   url = `file:${join(dir, 'plan.db')}`;
   store = createStore(await openDatabase({ url }));
-  await loadDemo(store, LOCAL_OPERATOR, { today: '2026-12-01' });
+  await store.loadDemo(LOCAL_OPERATOR, { today: '2026-12-01' });
 });
 afterAll(() => {
-  store.database.close();
+  store.close();
   rmSync(dir, { recursive: true, force: true });
 });
 
@@ -43,7 +42,7 @@ const season = (...args: string[]) =>
     ...args,
   ]);
 const nightId = async (date: string) =>
-  (await store.nights.list([], { limit: 500 })).items.find(
+  (await store.nights.list({}, { limit: 500 })).items.find(
     (n) => n.date === date && n.siteId === 1 && n.campaignId === 1,
   )!.id;
 
@@ -198,7 +197,7 @@ describe('epochwright plan-night', () => {
     ]);
     expect(res.code, res.stderr).toBe(0);
     const body = JSON.parse(res.stdout);
-    const stored = (await store.blocks.list([], { limit: 500 })).items.filter(
+    const stored = (await store.blocks.list({}, { limit: 500 })).items.filter(
       (b) => b.nightId === id,
     );
     expect(stored.length).toBe(body.schedule.blocks.length);

@@ -44,7 +44,7 @@ beforeAll(async () => {
     targetIds: [target.id],
     siteIds: [site.id],
   });
-  store.database.close();
+  store.close();
 });
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
@@ -54,7 +54,7 @@ describe('store commands', () => {
     const token = /token \(shown once\): (\S+)/.exec(out)![1]!;
     const store = createStore(await openDatabase({ url }));
     expect((await store.users.authenticate(token))?.role).toBe('lead'); // the role given above
-    store.database.close();
+    store.close();
     await expect(run('account', 'add', '--name', 'x', '--role', 'admin')).rejects.toBeInstanceOf(
       InputError,
     );
@@ -80,7 +80,7 @@ describe('store commands', () => {
     );
     const store = createStore(await openDatabase({ url }));
     expect(await store.users.authenticate(secret!)).toBeNull(); // revoked: no longer signs in
-    store.database.close();
+    store.close();
     expect(await run('account', 'tokens')).toMatch(
       new RegExp(`\\n\\s*${id}\\s+night lead\\s+lead\\s+laptop\\s+\\S+Z\\s+\\S+Z`),
     ); // table row with both dates

@@ -118,13 +118,13 @@ describe('fits of stored measurements (demo campaign)', () => {
     ).secret;
   });
   afterAll(() => {
-    store.database.close();
+    store.close();
     rmSync(dir, { recursive: true, force: true });
   });
 
   it('previews a target fit, refuses accept to a viewer, stores it for a lead and keeps the old version', async () => {
     const app = createApp({ store });
-    const targets = (await store.targets.list([])).items as { id: number; name: string }[];
+    const targets = (await store.targets.list({})).items as { id: number; name: string }[];
     const s2 = targets.find((t) => t.name === 'VC s2')!;
     const preview = await post(app, `/api/targets/${s2.id}/fit`, {}, viewer);
     expect(preview.status, await preview.clone().text()).toBe(200);
@@ -173,7 +173,7 @@ describe('fits of stored measurements (demo campaign)', () => {
       '/systems/{id}/fit/accept',
     ])
       expect(Object.keys(doc.paths)).toContain(path);
-    const versions = (await store.orbitSolutions.list([])).items.filter(
+    const versions = (await store.orbitSolutions.list({})).items.filter(
       (v) => v.targetId === s2.id,
     );
     expect(versions.length).toBe(2);
@@ -190,8 +190,8 @@ describe('fits of stored measurements (demo campaign)', () => {
 
   it('fits a system jointly (some or all of its targets) and names a measurement that is not the target’s', async () => {
     const app = createApp({ store });
-    const systems = (await store.systems.list([])).items as { id: number; name: string }[];
-    const targets = (await store.targets.list([])).items as { id: number; name: string }[];
+    const systems = (await store.systems.list({})).items as { id: number; name: string }[];
+    const targets = (await store.targets.list({})).items as { id: number; name: string }[];
     const vesper = systems.find((s) => s.name === 'Vesper Core')!;
     const [s1, s2] = ['VC s1', 'VC s2'].map((n) => targets.find((t) => t.name === n)!.id);
     const res = await post(

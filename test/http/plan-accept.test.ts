@@ -11,7 +11,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from '../../server/science/plan/index.ts';
 import { LOCAL_OPERATOR } from '../../server/store/index.ts';
-import { loadDemo } from '../../server/store/demo/load.ts';
 import { SITES, VESPER } from '../../server/store/demo/scenario.ts';
 import { createApp } from '../../server/http/app.ts';
 import { BACKENDS, tableCounts } from '../store/backends.ts';
@@ -36,7 +35,7 @@ for (const backend of BACKENDS) {
     ) => Promise<Response>;
     beforeAll(async () => {
       env = await backend.open();
-      await loadDemo(env.store, LOCAL_OPERATOR, { today: '2026-12-01' });
+      await env.store.loadDemo(LOCAL_OPERATOR, { today: '2026-12-01' });
       const tokens = {
         lead: (
           await env.store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan lead', role: 'lead' })
@@ -65,10 +64,10 @@ for (const backend of BACKENDS) {
     afterAll(() => env.cleanup());
 
     const campaignBlocks = async (from: string, to: string) => {
-      const nights = (await env.store.nights.list([], { limit: 500 })).items.filter(
+      const nights = (await env.store.nights.list({}, { limit: 500 })).items.filter(
         (n) => n.campaignId === 1 && n.date >= from && n.date <= to,
       );
-      const blocks = (await env.store.blocks.list([], { limit: 500 })).items.filter((b) =>
+      const blocks = (await env.store.blocks.list({}, { limit: 500 })).items.filter((b) =>
         nights.some((n) => n.id === b.nightId),
       );
       return { nights, blocks };
@@ -137,7 +136,7 @@ for (const backend of BACKENDS) {
         true,
       );
       for (const siteId of [1, 2]) {
-        const nights = (await env.store.nights.list([], { limit: 500 })).items
+        const nights = (await env.store.nights.list({}, { limit: 500 })).items
           .filter((n) => n.siteId === siteId)
           .map((n) => n.id);
         checkSky(
@@ -174,7 +173,7 @@ for (const backend of BACKENDS) {
         digest: preview.digest,
       });
       expect(res.status, await res.clone().text()).toBe(201);
-      const after = (await env.store.blocks.list([], { limit: 500 })).items.filter(
+      const after = (await env.store.blocks.list({}, { limit: 500 })).items.filter(
         (b) => b.nightId === night.id,
       );
       expect(after.map((b) => [b.id, b.status])).toEqual(mine.map((b) => [b.id, 'obtained'])); // the logged night is kept as it was
@@ -261,7 +260,7 @@ for (const backend of BACKENDS) {
         digest: preview.digest,
       });
       expect(res.status, await res.clone().text()).toBe(201);
-      const stored = (await env.store.blocks.list([], { limit: 500 })).items.filter(
+      const stored = (await env.store.blocks.list({}, { limit: 500 })).items.filter(
         (b) => b.nightId === id,
       );
       expect(stored.map((b) => b.startUtc).sort()).toEqual(
@@ -274,7 +273,7 @@ for (const backend of BACKENDS) {
       await env.store.blocks.update(LOCAL_OPERATOR, w.id, { status: 'withdrawn' }, w.version);
       const again = await call('observer', 'POST', `/api/nights/${id}/schedule/accept`, {});
       expect(again.status, await again.clone().text()).toBe(201);
-      const kept = (await env.store.blocks.list([], { limit: 500 })).items.filter(
+      const kept = (await env.store.blocks.list({}, { limit: 500 })).items.filter(
         (b) => b.nightId === id,
       );
       expect(kept.find((b) => b.id === w.id)?.status).toBe('withdrawn');
@@ -293,7 +292,7 @@ for (const backend of BACKENDS) {
     });
 
     const targetId = async (name: string) =>
-      (await env.store.targets.list([], { limit: 50 })).items.find((t) => t.name === name)!.id;
+      (await env.store.targets.list({}, { limit: 50 })).items.find((t) => t.name === name)!.id;
     const nightOf = async (date: string, siteId: number) =>
       (await campaignBlocks(date, date)).nights.find((n) => n.siteId === siteId)!;
 
@@ -365,7 +364,7 @@ for (const backend of BACKENDS) {
       expect(out.written.every((b: Json) => b.origin === 'season-plan' && b.pinned === false)).toBe(
         true,
       ); // a plan's blocks, nobody pinned them
-      const after = (await env.store.blocks.list([], { limit: 500 })).items;
+      const after = (await env.store.blocks.list({}, { limit: 500 })).items;
       expect(after.find((b) => b.id === hand.id)).toMatchObject({
         origin: 'by-hand',
         version: hand.version,

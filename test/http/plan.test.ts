@@ -9,7 +9,6 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../server/cli/main.ts';
 import { createApp } from '../../server/http/app.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
-import { loadDemo } from '../../server/store/demo/load.ts';
 
 let store: Store;
 let dir: string;
@@ -17,13 +16,13 @@ let token: string;
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-plan-'));
   store = createStore(await openDatabase({ url: `file:${join(dir, 'plan.db')}` }));
-  await loadDemo(store, LOCAL_OPERATOR, { today: '2026-12-01' });
+  await store.loadDemo(LOCAL_OPERATOR, { today: '2026-12-01' });
   token = (
     await store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan viewer', role: 'viewer' })
   ).secret;
 });
 afterAll(() => {
-  store.database.close();
+  store.close();
   rmSync(dir, { recursive: true, force: true });
 });
 

@@ -10,6 +10,7 @@ import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import { MIGRATIONS_FOLDER } from '../../server/store/database.ts';
 import { BACKENDS, ORBIT_S1, fixture, tableCounts, type Fixture } from '../store/backends.ts';
+import { databaseOf } from '../../server/store/testing.ts';
 
 interface Journal {
   entries: { tag: string }[];
@@ -30,7 +31,9 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       readFileSync(`${MIGRATIONS_FOLDER}/meta/_journal.json`, 'utf8'),
     ) as Journal;
     const tables = (
-      await f.store.database.client.execute("SELECT name FROM sqlite_master WHERE type = 'table'")
+      await databaseOf(f.store).client.execute(
+        "SELECT name FROM sqlite_master WHERE type = 'table'",
+      )
     ).rows.map((r) => r.name);
     for (const t of [
       'users',
@@ -53,13 +56,13 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     }
     const applied = async () =>
       Number(
-        (await f.store.database.client.execute('SELECT count(*) AS n FROM __drizzle_migrations'))
+        (await databaseOf(f.store).client.execute('SELECT count(*) AS n FROM __drizzle_migrations'))
           .rows[0]!.n,
       );
     expect(await applied()).toBe(journal.entries.length); // db/migrations/meta/_journal.json, written by drizzle-kit
-    await migrate(f.store.db, { migrationsFolder: MIGRATIONS_FOLDER });
+    await migrate(databaseOf(f.store).db, { migrationsFolder: MIGRATIONS_FOLDER });
     expect(await applied()).toBe(journal.entries.length); // a second migrate applies nothing (drizzle migrator: pending = newer than last applied)
-    const fk = await f.store.database.client.execute('PRAGMA foreign_keys');
+    const fk = await databaseOf(f.store).client.execute('PRAGMA foreign_keys');
     expect(Number(fk.rows[0]![0])).toBe(1); // foreign keys on, as the issue requires
   });
 
@@ -415,7 +418,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     ).toBe(401);
     expect((await f.call('observer', 'GET', '/api/users')).status).toBe(403);
     // Tokens are stored hashed: the secret appears nowhere in the database.
-    const stored = (await f.store.database.client.execute('SELECT hash FROM tokens')).rows.map(
+    const stored = (await databaseOf(f.store).client.execute('SELECT hash FROM tokens')).rows.map(
       (r) => String(r.hash),
     );
     expect(stored).not.toContain(issued.token);

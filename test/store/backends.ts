@@ -9,6 +9,7 @@ import { count } from 'drizzle-orm';
 import * as schema from '../../db/schema.ts';
 import { createApp } from '../../server/http/app.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
+import { databaseOf } from '../../server/store/testing.ts';
 
 export interface Backend {
   name: string;
@@ -24,7 +25,7 @@ export const BACKENDS: Backend[] = [
       return {
         store,
         cleanup: () => {
-          store.database.close();
+          store.close();
           rmSync(dir, { recursive: true, force: true });
         },
       };
@@ -34,7 +35,7 @@ export const BACKENDS: Backend[] = [
     name: 'libSQL in memory',
     async open() {
       const store = createStore(await openDatabase({ url: ':memory:' }));
-      return { store, cleanup: () => store.database.close() };
+      return { store, cleanup: () => store.close() };
     },
   },
 ];
@@ -44,9 +45,9 @@ export async function tableCounts(store: Store): Promise<Record<string, number>>
   const out: Record<string, number> = {};
   for (const [name, table] of Object.entries(schema)) {
     if (typeof table !== 'object' || table === null || !('getSQL' in table)) continue;
-    const [{ n }] = (await store.db.select({ n: count() }).from(table as typeof schema.users)) as [
-      { n: number },
-    ];
+    const [{ n }] = (await databaseOf(store)
+      .db.select({ n: count() })
+      .from(table as typeof schema.users)) as [{ n: number }];
     out[name] = n;
   }
   return out;

@@ -4,7 +4,6 @@
  * Usage: tsx test/store/crash-child.ts <db file> <rows>
  */
 import { LOCAL_OPERATOR, createStore, openDatabase } from '../../server/store/index.ts';
-import { importCsv } from '../../server/store/csv/import.ts';
 
 const [path, rowsArg] = process.argv.slice(2);
 const n = Number(rowsArg);
@@ -15,10 +14,10 @@ for (let i = 0; i < n; i++)
     `Crash Deep,C s1,radial-velocity,JD ${2461000 + i * 0.01},${(i % 400) - 200},5,crash spectrograph`,
   );
 process.stdout.write('started\n');
-await importCsv(store, LOCAL_OPERATOR, 'measurements', lines.join('\n'), {
+await store.importCsv(LOCAL_OPERATOR, 'measurements', lines.join('\n'), {
   onRow: (i) => {
     if (i % 500 === 0) process.stdout.write(`row ${i}\n`);
   },
 });
 process.stdout.write('done\n');
-store.database.close();
+store.close();

@@ -11,6 +11,7 @@ import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOCAL_OPERATOR, createStore, openDatabase } from '../../server/store/index.ts';
+import { databaseOf } from '../../server/store/testing.ts';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'crash-child.ts');
@@ -19,12 +20,12 @@ const ROWS = 6000;
 async function countMeasurements(path: string): Promise<{ n: number; integrity: string }> {
   const store = createStore(await openDatabase({ url: `file:${path}` }));
   const n = Number(
-    (await store.database.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n,
+    (await databaseOf(store).client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n,
   );
   const integrity = String(
-    (await store.database.client.execute('PRAGMA integrity_check')).rows[0]![0],
+    (await databaseOf(store).client.execute('PRAGMA integrity_check')).rows[0]![0],
   );
-  store.database.close();
+  store.close();
   return { n, integrity };
 }
 
@@ -67,7 +68,7 @@ describe('an import killed mid-way', () => {
         decDeg: 1,
       });
       await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'C s1' });
-      store.database.close();
+      store.close();
     }
   });
   afterAll(() => rmSync(dir, { recursive: true, force: true }));

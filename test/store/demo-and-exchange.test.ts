@@ -13,11 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/http/app.ts';
 import { findEvents, physicalQuantities, validateOrbit } from '../../server/science/orbit/index.ts';
 import { parseEpoch } from '../../server/science/time/index.ts';
-import { backupDatabase } from '../../server/store/backup.ts';
-import { importCsv } from '../../server/store/csv/import.ts';
-import { campaignCalendar } from '../../server/store/exports/calendar.ts';
-import { measurementsCsv, measurementsForExport } from '../../server/store/exports/measurements.ts';
-import { campaignFlags } from '../../server/store/views/planning.ts';
+import { measurementsCsv } from '../../server/store/exports/measurements.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { startStore } from '../../server/store/startup.ts';
 import { LANTERN, VESPER } from '../../server/store/demo/scenario.ts';
@@ -36,21 +32,21 @@ beforeAll(async () => {
   leadToken = started.firstLead!.secret;
 });
 afterAll(() => {
-  store.database.close();
+  store.close();
   rmSync(dir, { recursive: true, force: true });
 });
 
 describe('the demo campaign', () => {
   it('loads once, with a lead created on first start', async () => {
-    expect((await store.systems.list([])).total).toBe(2); // scenario.ts: Vesper Core and the Lantern Pair
-    const again = await startStore({ url: store.database.url, demo: true });
+    expect((await store.systems.list({})).total).toBe(2); // scenario.ts: Vesper Core and the Lantern Pair
+    const again = await startStore({ url: store.url, demo: true });
     expect([again.demo, again.firstLead]).toEqual([null, null]); // a second start neither reloads nor makes another lead
-    again.store.database.close();
-    expect((await store.systems.list([])).total).toBe(2);
+    again.store.close();
+    expect((await store.systems.list({})).total).toBe(2);
   });
 
   it('has orbits that agree with the stated masses by Kepler’s third law, M = a³/P²', async () => {
-    const solutions = await store.orbitSolutions.list([]);
+    const solutions = await store.orbitSolutions.list({});
     let worst = 0;
     for (const s of solutions.items) {
       const m = physicalQuantities(validateOrbit(s.orbit)).massSolar;
@@ -65,7 +61,7 @@ describe('the demo campaign', () => {
   it('has one star reaching periapsis within a year of 2026-12-01', async () => {
     const start = parseEpoch('2026-12-01T00:00Z');
     const passages = [];
-    for (const s of (await store.orbitSolutions.list([])).items)
+    for (const s of (await store.orbitSolutions.list({})).items)
       passages.push(
         ...findEvents(validateOrbit(s.orbit), start, start + 365.25, { kinds: ['periapsis'] }),
       );
@@ -73,9 +69,9 @@ describe('the demo campaign', () => {
   });
 
   it('plans blocks only in darkness, with the Sun below −18° (astronomical twilight)', async () => {
-    const sites = (await store.sites.list([])).items;
-    const nights = (await store.nights.list([], { limit: 500 })).items;
-    const blocks = (await store.blocks.list([], { limit: 500 })).items;
+    const sites = (await store.sites.list({})).items;
+    const nights = (await store.nights.list({}, { limit: 500 })).items;
+    const blocks = (await store.blocks.list({}, { limit: 500 })).items;
     let highest = -90;
     for (const b of blocks) {
       const night = nights.find((n) => n.id === b.nightId)!;
@@ -110,8 +106,8 @@ describe('the campaign iCalendar feed', () => {
     ) as ical.VEvent[];
     const uids = parsed.map((e) => e.uid);
     expect(new Set(uids).size).toBe(uids.length); // RFC 5545 §3.8.4.7: UID unique
-    const blocks = await store.blocks.list([], { limit: 500 });
-    const campaignBlocks = (await store.nights.list([], { limit: 500 })).items
+    const blocks = await store.blocks.list({}, { limit: 500 });
+    const campaignBlocks = (await store.nights.list({}, { limit: 500 })).items
       .filter((n) => n.campaignId === 1)
       .map((n) => n.id);
     const expectedBlocks = blocks.items.filter((b) => campaignBlocks.includes(b.nightId)).length;
@@ -120,7 +116,7 @@ describe('the campaign iCalendar feed', () => {
     expect(parsed.length - periapsis.length - flagEvents.length).toBe(expectedBlocks); // every block of the campaign, from the store
     const s1 = periapsis.find((e) => String(e.summary).includes('VC s1'))!;
     const engine = findEvents(
-      validateOrbit((await store.orbitSolutions.list([])).items[0]!.orbit),
+      validateOrbit((await store.orbitSolutions.list({})).items[0]!.orbit),
       parseEpoch('2027-01-01T00:00Z'),
       parseEpoch('2028-01-01T00:00Z'),
       { kinds: ['periapsis'] },
@@ -130,7 +126,7 @@ describe('the campaign iCalendar feed', () => {
 
   it('carries the campaign’s flags at a given moment, as node-ical reads them back', async () => {
     const atJd = parseEpoch('2026-12-01T00:00:00Z');
-    const text = await campaignCalendar(store.db, 1, {
+    const text = await store.exports.calendar(1, {
       flagsAtJd: atJd,
       stampMs: Date.parse('2026-12-01T00:00:00Z'),
     });
@@ -138,7 +134,7 @@ describe('the campaign iCalendar feed', () => {
       (c) => c?.type === 'VEVENT',
     ) as ical.VEvent[];
     const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
-    const { flags } = await campaignFlags(store.db, 1, { nowJd: atJd });
+    const { flags } = await store.plans.flags(1, { nowJd: atJd });
     expect(flagEvents.length).toBe(flags.length); // one event per flag of the planning engine (flags endpoint)
     expect(new Set(parsed.map((e) => e.uid)).size).toBe(parsed.length); // RFC 5545 §3.8.4.7: UID unique
     const ahead = flagEvents.find((e) => String(e.summary) === 'Flag, periapsis ahead: VC s1')!;
@@ -166,7 +162,7 @@ describe('the feed’s flags at a chosen moment', () => {
         .sort();
     };
     for (const at of ['2026-12-01T00:00:00Z', '2027-07-01T00:00:00Z']) {
-      const { flags } = await campaignFlags(store.db, 1, { nowJd: parseEpoch(at) });
+      const { flags } = await store.plans.flags(1, { nowJd: parseEpoch(at) });
       expect(await flagsOf(at)).toEqual(
         flags.map((f) => `Flag, ${f.kind.replace(/-/g, ' ')}: ${f.target}`).sort(),
       ); // the planning engine's flags at that moment (flags endpoint)
@@ -183,21 +179,21 @@ describe('the feed’s flags at a chosen moment', () => {
 
 describe('exports and imports', () => {
   it('reads back an exported measurements CSV unchanged into a second store', async () => {
-    const rows = await measurementsForExport(store.db, []);
+    const rows = await store.exports.measurements();
     const csv = measurementsCsv(rows.map((r) => ({ ...r, blockId: null })));
     const copy = createStore(await openDatabase({ url: ':memory:' }));
-    for (const sys of (await store.systems.list([])).items) {
+    for (const sys of (await store.systems.list({})).items) {
       const { id: _id, createdAt: _c, updatedAt: _u, ...input } = sys;
       const made = await copy.systems.create(LOCAL_OPERATOR, input);
-      for (const t of (await store.targets.list([])).items.filter((x) => x.systemId === sys.id))
+      for (const t of (await store.targets.list({})).items.filter((x) => x.systemId === sys.id))
         await copy.targets.create(LOCAL_OPERATOR, { systemId: made.id, name: t.name });
     }
-    const dry = await importCsv(copy, LOCAL_OPERATOR, 'measurements', csv, { dryRun: true });
+    const dry = await copy.importCsv(LOCAL_OPERATOR, 'measurements', csv, { dryRun: true });
     expect([dry.rows, dry.written]).toEqual([rows.length, 0]); // a dry run writes nothing
-    expect((await copy.measurements.list([])).total).toBe(0);
-    const report = await importCsv(copy, LOCAL_OPERATOR, 'measurements', csv);
+    expect((await copy.measurements.list({})).total).toBe(0);
+    const report = await copy.importCsv(LOCAL_OPERATOR, 'measurements', csv);
     expect(report.written).toBe(rows.length);
-    const back = await measurementsForExport(copy.db, []);
+    const back = await copy.exports.measurements();
     const strip = (r: (typeof rows)[number]) => ({
       ...r,
       id: 0,
@@ -207,7 +203,7 @@ describe('exports and imports', () => {
       updatedAt: '',
     });
     expect(back.map(strip)).toEqual(rows.map(strip)); // every value as exported
-    copy.database.close();
+    copy.close();
   });
 
   it('imports orbit solutions from CSV as new current versions', async () => {
@@ -215,9 +211,9 @@ describe('exports and imports', () => {
       'system,target,periodYears,periapsis,eccentricity,semiMajorAxisArcsec,inclinationDeg,ascendingNodeDeg,argPeriapsisDeg,distancePc,relativity,reference',
       'Vesper Core,VC s2,9.61,J2024.21,0.62,0.0839,42,110,300,7400,gravitationalRedshift;transverseDoppler,CSV test',
     ].join('\n');
-    const report = await importCsv(store, LOCAL_OPERATOR, 'orbits', csv);
+    const report = await store.importCsv(LOCAL_OPERATOR, 'orbits', csv);
     expect(report.written).toBe(1);
-    const current = (await store.orbitSolutions.list([])).items.filter(
+    const current = (await store.orbitSolutions.list({})).items.filter(
       (s) => s.current && s.reference === 'CSV test',
     );
     expect(current.map((s) => [s.version, s.provenance, s.orbit.relativity])).toEqual([
@@ -234,7 +230,7 @@ describe('exports and imports', () => {
           decDeg: 0,
         });
     })();
-    const path = await backupDatabase(store.database, join(dir, 'copy.db'));
+    const path = await store.backup(join(dir, 'copy.db'));
     await writes;
     const copy = await openDatabase({ url: `file:${path}` });
     expect(String((await copy.client.execute('PRAGMA integrity_check')).rows[0]![0])).toBe('ok'); // sqlite.org PRAGMA integrity_check (from memory)
@@ -248,14 +244,14 @@ describe('exports and imports', () => {
     );
     expect(n).toBe(audited); // one instant: every system in the copy has its audit entry, and no more
     copy.close();
-    await expect(backupDatabase(store.database, path)).rejects.toThrow(/already exists/);
+    await expect(store.backup(path)).rejects.toThrow(/already exists/);
   });
 });
 
 describe('a stored night’s visibility', () => {
   it('reports darkness as astronomy-engine finds it, the campaign’s targets, and the laser caution', async () => {
     const app = createApp({ store });
-    const night = (await store.nights.list([], { limit: 500 })).items.find(
+    const night = (await store.nights.list({}, { limit: 500 })).items.find(
       (n) => n.date === '2027-06-12' && n.siteId === 1,
     )!;
     const res = await app.request(`/api/nights/${night.id}/visibility`, {

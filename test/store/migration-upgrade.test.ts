@@ -48,8 +48,8 @@ it('upgrades a database made by migration 0000 alone, keeping its rows', async (
 
   const store = createStore(await openDatabase({ url }));
   try {
-    const [system] = (await store.systems.list([])).items;
-    const [site] = (await store.sites.list([])).items;
+    const [system] = (await store.systems.list({})).items;
+    const [site] = (await store.sites.list({})).items;
     expect(system).toMatchObject({
       name: 'Old Deep',
       pmRaMasYr: 5,
@@ -64,7 +64,7 @@ it('upgrades a database made by migration 0000 alone, keeping its rows', async (
       (await store.systems.update(LOCAL_OPERATOR, system!.id, { notes: 'kept' })).positionEpoch,
     ).toBe('2000-01-01T12:00:00.000Z'); // unchanged by an unrelated patch
   } finally {
-    store.database.close();
+    store.close();
   }
 });
 
@@ -124,14 +124,14 @@ it('upgrades a database made before migration 0002: blocks get their origin and 
 
   const store = createStore(await openDatabase({ url }));
   try {
-    const rows = (await store.blocks.list([])).items.map((b) => [b.origin, b.pinned]);
+    const rows = (await store.blocks.list({})).items.map((b) => [b.origin, b.pinned]);
     expect(rows).toEqual([
       ['season-plan', false],
       ['night-schedule', false],
       ['night-schedule', true],
       ['by-hand', false],
     ]); // the rule of migration 0002: plan-written notes name their origin; anything else is kept as made by hand
-    const [first] = (await store.blocks.list([])).items;
+    const [first] = (await store.blocks.list({})).items;
     const patched = await store.blocks.update(
       LOCAL_OPERATOR,
       first!.id,
@@ -140,7 +140,7 @@ it('upgrades a database made before migration 0002: blocks get their origin and 
     );
     expect([patched.origin, patched.pinned]).toEqual(['season-plan', true]); // a pin changes the pin, not who made the block
   } finally {
-    store.database.close();
+    store.close();
   }
 });
 

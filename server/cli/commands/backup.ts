@@ -1,6 +1,5 @@
 /** `epochwright backup`: a consistent copy of the database file, safe while the server runs. */
 import { parseArgs } from 'node:util';
-import { backupDatabase } from '../../store/backup.ts';
 import { UsageError, type Command } from '../io.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
@@ -26,7 +25,7 @@ export const backupCommand: Command = {
     });
     if (values.to === undefined) throw new UsageError('--to is required');
     const to = values.to;
-    const path = await withStore(values.database, (store) => backupDatabase(store.database, to));
+    const path = await withStore(values.database, (store) => store.backup(to));
     return `backup written to ${path}\n`;
   },
 };

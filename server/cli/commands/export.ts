@@ -1,14 +1,9 @@
 /** `epochwright export`: measurements (CSV in the import layout, or JSON), or a stored target's ephemeris. */
 import { parseArgs } from 'node:util';
-import { eq } from 'drizzle-orm';
-import { measurements } from '../../../db/schema.ts';
 import { ephemeris } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
-import { ephemerisCsv } from '../../store/exports/ephemeris.ts';
 import { resolveEpochs } from '../../science/time/index.ts';
-import { measurementsCsv, measurementsForExport } from '../../store/exports/measurements.ts';
-import { campaignCalendar } from '../../store/exports/calendar.ts';
-import { currentOrbit } from '../../store/repos/orbits.ts';
+import { ephemerisCsv, measurementsCsv } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
@@ -57,15 +52,13 @@ export const exportCommand: Command = {
     return withStore(values.database, async (store) => {
       switch (what) {
         case 'measurements': {
-          const rows = await measurementsForExport(store.db, [
-            targetId ? eq(measurements.targetId, targetId) : undefined,
-          ]);
+          const rows = await store.exports.measurements({ targetId });
           return values.json ? JSON.stringify(rows, null, 2) + '\n' : measurementsCsv(rows);
         }
         case 'ephemeris': {
           if (targetId === undefined || values.from === undefined || values.to === undefined)
             throw new UsageError('export ephemeris needs --target-id, --from and --to');
-          const { orbit } = await currentOrbit(store.db, targetId);
+          const { orbit } = await store.orbitSolutions.current(targetId);
           const rows = ephemeris(
             orbit,
             resolveEpochs({ start: values.from, end: values.to, step: values.step ?? '30d' }),
@@ -75,8 +68,7 @@ export const exportCommand: Command = {
         case 'calendar': {
           const campaignId = id('campaign-id', values['campaign-id']);
           if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
-          return campaignCalendar(
-            store.db,
+          return store.exports.calendar(
             campaignId,
             values.at === undefined ? {} : { flagsAtJd: parseEpoch(values.at, '--at') },
           );

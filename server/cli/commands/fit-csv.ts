@@ -6,7 +6,7 @@
 import { readFileSync } from 'node:fs';
 import { parse } from 'csv-parse/sync';
 import type { MeasurementInput, StarInput } from '../../science/orbit/fit/index.ts';
-import { MEASUREMENT_COLUMNS, NUMERIC } from '../../store/csv/columns.ts';
+import { MEASUREMENT_COLUMNS, NUMERIC } from '../../store/index.ts';
 import { UsageError } from '../io.ts';
 
 const REQUIRED = ['target', 'kind', 'epoch'];

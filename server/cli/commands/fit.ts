@@ -1,13 +1,7 @@
 /** `epochwright fit`: orbits from measurements in a CSV file or in the store; optionally accepted as new solutions. */
 import { parseArgs } from 'node:util';
 import { fitOrbits, type FitRequest, type StarHints } from '../../science/orbit/fit/index.ts';
-import { LOCAL_OPERATOR } from '../../store/index.ts';
-import {
-  acceptStoredFit,
-  prepareStoredFit,
-  systemTargetIds,
-  type StoredFitOptions,
-} from '../../store/fits.ts';
+import { LOCAL_OPERATOR, type StoredFitOptions } from '../../store/index.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { readStarsFile } from './fit-csv.ts';
 import { renderFit } from './fit-output.ts';
@@ -208,8 +202,11 @@ export const fitCommand: Command = {
       const ids =
         systemId === undefined
           ? targetIds
-          : await systemTargetIds(store, systemId, targetIds.length > 0 ? targetIds : undefined);
-      let prepared = await prepareStoredFit(store, ids, model);
+          : await store.fits.systemTargetIds(
+              systemId,
+              targetIds.length > 0 ? targetIds : undefined,
+            );
+      let prepared = await store.fits.prepare(ids, model);
       if (hintsAll || Object.keys(hintsBy).length > 0) {
         // Named hints first, then the one for every star, then the default from the current solution.
         const first = prepared;
@@ -222,7 +219,7 @@ export const fitCommand: Command = {
               {},
           ]),
         );
-        prepared = await prepareStoredFit(store, ids, {
+        prepared = await store.fits.prepare(ids, {
           ...model,
           hints,
         } satisfies StoredFitOptions);
@@ -230,13 +227,7 @@ export const fitCommand: Command = {
       const result = fitOrbits(prepared.request);
       let note = '';
       if (values.accept) {
-        const rows = await acceptStoredFit(
-          store,
-          LOCAL_OPERATOR,
-          prepared,
-          result,
-          values.notes ?? '',
-        );
+        const rows = await store.fits.accept(LOCAL_OPERATOR, prepared, result, values.notes ?? '');
         note = rows
           .map(
             (r, k) =>

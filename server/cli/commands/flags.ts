@@ -1,7 +1,6 @@
 /** `epochwright flags`: a stored campaign's planning flags, soonest first. */
 import { parseArgs } from 'node:util';
 import type { Flag } from '../../science/plan/index.ts';
-import { campaignFlags } from '../../store/views/planning.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -49,7 +48,7 @@ export const flagsCommand: Command = {
     if (resolution !== undefined && !(resolution > 0))
       throw new UsageError(`--resolution: ${values.resolution} must be a positive number of mas`);
     const result = await withStore(values.database, (store) =>
-      campaignFlags(store.db, id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
+      store.plans.flags(id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
     );
     const columns: Column<Flag>[] = [
       { header: 'date', value: (f) => f.date.slice(0, 10) },

@@ -1,9 +1,14 @@
 /** `epochwright import`: a CSV of targets, orbit solutions or measurements, all rows or none. */
 import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { CSV_KINDS, COLUMNS, REQUIRED_COLUMNS, type CsvKind } from '../../store/csv/columns.ts';
-import { ImportRejected, importCsv } from '../../store/csv/import.ts';
-import { LOCAL_OPERATOR } from '../../store/index.ts';
+import {
+  COLUMNS,
+  CSV_KINDS,
+  ImportRejected,
+  LOCAL_OPERATOR,
+  REQUIRED_COLUMNS,
+  type CsvKind,
+} from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -52,7 +57,7 @@ export const importCommand: Command = {
     const dryRun = values['check-only'] ?? false;
     try {
       const report = await withStore(values.database, (store) =>
-        importCsv(store, LOCAL_OPERATOR, kind, text, { dryRun }),
+        store.importCsv(LOCAL_OPERATOR, kind, text, { dryRun }),
       );
       return dryRun
         ? `checked ${report.rows} ${kind} rows: all good, nothing written\n`

@@ -1,13 +1,12 @@
 /** `epochwright plan-night`: the schedule of a stored night; `--accept` stores it as blocks. */
 import { parseArgs } from 'node:util';
 import type { ScheduledBlock } from '../../science/plan/index.ts';
-import { LOCAL_OPERATOR } from '../../store/index.ts';
 import {
-  acceptNightSchedule,
-  previewNightSchedule,
+  ACCEPT_AT_TOLERANCE_MINUTES,
+  LOCAL_OPERATOR,
   type NightScheduleRequest,
-} from '../../store/views/night-plan.ts';
-import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
+  type Store,
+} from '../../store/index.ts';
 import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { asOptions, positiveId } from './plan-season.ts';
@@ -106,8 +105,8 @@ export const planNightCommand: Command = {
     const result = await withStore(values.database, (store) =>
       asOptions(OPTIONS, () =>
         values.accept
-          ? acceptNightSchedule(store, LOCAL_OPERATOR, id, request, atJd)
-          : previewNightSchedule(store.db, id, request, atJd),
+          ? store.plans.acceptNight(LOCAL_OPERATOR, id, request, atJd)
+          : store.plans.previewNight(id, request, atJd),
       ),
     );
     const s = result.schedule;
@@ -128,7 +127,7 @@ export const planNightCommand: Command = {
       { header: 'laser', value: (b) => (b.laserGuideStar ? 'yes' : '') },
     ];
     if (format !== 'table') return render(format, s.blocks, columns, result);
-    const stored = result as Partial<Awaited<ReturnType<typeof acceptNightSchedule>>>;
+    const stored = result as Partial<Awaited<ReturnType<Store['plans']['acceptNight']>>>;
     const written = stored.written
       ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced\n`
       : `preview only (digest ${result.digest}): accepting would replace stored blocks [${result.replaces.join(', ')}]; run again with --accept to store it\n`;

@@ -2,13 +2,12 @@
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
 import type { PlannedEpoch } from '../../science/plan/index.ts';
-import { LOCAL_OPERATOR } from '../../store/index.ts';
 import {
-  acceptSeasonPlan,
-  previewSeasonPlan,
+  ACCEPT_AT_TOLERANCE_MINUTES,
+  LOCAL_OPERATOR,
   type SeasonPlanRequest,
-} from '../../store/views/season-plan.ts';
-import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
+  type Store,
+} from '../../store/index.ts';
 import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -138,8 +137,8 @@ export const planSeasonCommand: Command = {
     const result = await withStore(values.database, (store) =>
       asOptions(OPTIONS, () =>
         values.accept
-          ? acceptSeasonPlan(store, LOCAL_OPERATOR, id, request, atJd)
-          : previewSeasonPlan(store.db, id, request, atJd),
+          ? store.plans.acceptSeason(LOCAL_OPERATOR, id, request, atJd)
+          : store.plans.previewSeason(id, request, atJd),
       ),
     );
     const columns: Column<PlannedEpoch>[] = [
@@ -162,7 +161,7 @@ export const planSeasonCommand: Command = {
     ];
     const plan = result.plan;
     if (format !== 'table') return render(format, plan.epochs, columns, result);
-    const stored = result as Partial<Awaited<ReturnType<typeof acceptSeasonPlan>>>;
+    const stored = result as Partial<Awaited<ReturnType<Store['plans']['acceptSeason']>>>;
     const written =
       stored.written && stored.nightsCreated
         ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced, ${stored.nightsCreated.length} nights created\n`

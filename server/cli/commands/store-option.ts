@@ -13,6 +13,6 @@ export async function withStore<T>(
   try {
     return await f(store);
   } finally {
-    store.database.close();
+    store.close();
   }
 }

@@ -1,10 +1,6 @@
 /** /campaigns: programmes over a date range with their targets, sites, goals and limits (lead edits). */
 import { z } from '@hono/zod-openapi';
-import { and, gte, inArray, lte } from 'drizzle-orm';
-import { campaignSites, campaignTargets, campaigns } from '../../../db/schema.ts';
-import type { Store } from '../../store/index.ts';
-import { campaignMembers, type CampaignRow } from '../../store/repos/campaigns.ts';
-import { CampaignFields } from '../../store/schemas/entities.ts';
+import { CampaignFields, type Store } from '../../store/index.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 
 const dateQuery = z.iso.date().optional();
@@ -24,29 +20,7 @@ export function campaignRoutes(store: Store) {
       from: dateQuery.openapi({ description: 'campaigns running on or after this date' }),
       to: dateQuery,
     }),
-    where: (q) => [
-      q.targetId
-        ? inArray(
-            campaigns.id,
-            store.db
-              .select({ id: campaignTargets.campaignId })
-              .from(campaignTargets)
-              .where(and(inArray(campaignTargets.targetId, [q.targetId]))),
-          )
-        : undefined,
-      q.siteId
-        ? inArray(
-            campaigns.id,
-            store.db
-              .select({ id: campaignSites.campaignId })
-              .from(campaignSites)
-              .where(inArray(campaignSites.siteId, [q.siteId])),
-          )
-        : undefined,
-      q.from ? gte(campaigns.endDate, q.from) : undefined,
-      q.to ? lte(campaigns.startDate, q.to) : undefined,
-    ],
     writeRole: 'lead',
-    view: async (row: CampaignRow) => ({ ...row, ...(await campaignMembers(store.db, row.id)) }),
+    view: store.campaigns.withMembers,
   });
 }

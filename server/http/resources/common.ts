@@ -4,11 +4,14 @@
  */
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import type { Context } from 'hono';
-import type { SQL } from 'drizzle-orm';
 import { InputError } from '../../science/errors.ts';
-import { ConflictError, NotFoundError, type Store } from '../../store/index.ts';
-import type { Repository } from '../../store/repository.ts';
-import type { Role } from '../../store/repos/users.ts';
+import {
+  ConflictError,
+  NotFoundError,
+  type Repository,
+  type Role,
+  type Store,
+} from '../../store/index.ts';
 import { requireRole, type AuthEnv } from '../auth.ts';
 import { HttpError, errorResponse } from '../errors.ts';
 import { errorResponses, json } from '../schemas/responses.ts';
@@ -69,12 +72,12 @@ export interface ResourceSpec<T, Q extends z.ZodObject> {
   store: Store;
   path: string;
   tag: string;
-  repo: Repository<T>;
+  /** The store's repository; its typed filter is what `filters` parses from the query string. */
+  repo: Repository<T, z.output<Q>>;
   create: z.ZodType;
   patch: z.ZodObject;
   row: z.ZodType;
   filters: Q;
-  where: (query: z.output<Q>) => (SQL | undefined)[];
   writeRole: Role;
   /** Enrich a row for output (join tables, outcomes). */
   view?: (row: T) => Promise<unknown>;
@@ -110,7 +113,7 @@ export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
     h(async (c) => {
       requireRole(c, 'viewer');
       const { limit, offset, ...filters } = valid(c, 'query');
-      const page = await repo.list(spec.where(filters as z.output<Q>), {
+      const page = await repo.list(filters as z.output<Q>, {
         limit: limit as number,
         offset: offset as number,
       });

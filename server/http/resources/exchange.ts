@@ -3,16 +3,18 @@
  * `dryRun=true` to check only), measurements as CSV or JSON, and each campaign's iCalendar feed.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import { CSV_KINDS, type CsvKind } from '../../store/csv/columns.ts';
-import { ImportRejected, importCsv } from '../../store/csv/import.ts';
-import { campaignCalendar } from '../../store/exports/calendar.ts';
-import { measurementsCsv, measurementsForExport } from '../../store/exports/measurements.ts';
-import type { Store } from '../../store/index.ts';
+import {
+  CSV_KINDS,
+  ImportRejected,
+  measurementsCsv,
+  type CsvKind,
+  type Store,
+} from '../../store/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { requireRole } from '../auth.ts';
 import { HttpError } from '../errors.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
-import { MeasurementFilters, measurementWhere } from './measurements.ts';
+import { MeasurementFilters } from './measurements.ts';
 
 const Report = z.object({
   kind: z.enum(CSV_KINDS),
@@ -71,7 +73,7 @@ export function exchangeRoutes(store: Store) {
       if (!/^text\/csv\b/i.test(type))
         throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
       try {
-        const report = await importCsv(store, { userId: user.id }, kind, await c.req.text(), {
+        const report = await store.importCsv({ userId: user.id }, kind, await c.req.text(), {
           dryRun: valid(c, 'query').dryRun === 'true',
         });
         return c.json(report, 200);
@@ -100,10 +102,7 @@ export function exchangeRoutes(store: Store) {
     h(async (c) => {
       requireRole(c, 'viewer');
       const { format, ...filters } = valid(c, 'query');
-      const rows = await measurementsForExport(
-        store.db,
-        measurementWhere(store, filters as z.output<typeof MeasurementFilters>),
-      );
+      const rows = await store.exports.measurements(filters as z.output<typeof MeasurementFilters>);
       if (format === 'json') return c.json({ measurements: rows }, 200);
       return c.body(measurementsCsv(rows), 200, {
         'content-type': 'text/csv; charset=utf-8',
@@ -127,7 +126,7 @@ export function exchangeRoutes(store: Store) {
     h(async (c) => {
       requireRole(c, 'viewer');
       const { at } = valid(c, 'query');
-      const text = await campaignCalendar(store.db, valid(c, 'param').id as number, {
+      const text = await store.exports.calendar(valid(c, 'param').id as number, {
         domain: new URL(c.req.url).hostname || undefined,
         ...(at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') }),
       });

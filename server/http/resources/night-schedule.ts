@@ -6,13 +6,11 @@
  */
 import { createRoute, z } from '@hono/zod-openapi';
 import { SCHEDULE_METHODS } from '../../science/plan/index.ts';
-import type { Store } from '../../store/index.ts';
-import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import {
-  acceptNightSchedule,
-  previewNightSchedule,
+  ACCEPT_AT_TOLERANCE_MINUTES,
   type NightScheduleRequest,
-} from '../../store/views/night-plan.ts';
+  type Store,
+} from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema } from './nights.ts';
@@ -84,7 +82,7 @@ export function nightScheduleRoutes(store: Store) {
     async (c) => {
       requireRole(c, 'viewer');
       const { body: b, atJd } = split(c.req.valid('json'));
-      return c.json(await previewNightSchedule(store.db, c.req.valid('param').id, b, atJd), 200);
+      return c.json(await store.plans.previewNight(c.req.valid('param').id, b, atJd), 200);
     },
   );
   app.openapi(
@@ -104,7 +102,7 @@ export function nightScheduleRoutes(store: Store) {
       const user = requireRole(c, 'observer');
       const { body: b, atJd } = split(c.req.valid('json'));
       const id = c.req.valid('param').id;
-      return c.json(await acceptNightSchedule(store, { userId: user.id }, id, b, atJd), 201);
+      return c.json(await store.plans.acceptNight({ userId: user.id }, id, b, atJd), 201);
     },
   );
   return app;

@@ -1,7 +1,6 @@
 /** GET /nights/{id}/visibility: the sky engine's report for a stored night and its campaign's targets. */
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
-import { nightVisibility } from '../../store/views/visibility.ts';
 import { requireRole } from '../auth.ts';
 import { NightVisibilitySchema } from '../schemas/sky-output.ts';
 import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
@@ -31,7 +30,7 @@ export function nightVisibilityRoutes(store: Store) {
     h(async (c) => {
       requireRole(c, 'viewer');
       return c.json(
-        await nightVisibility(store.db, valid(c, 'param').id as number, {
+        await store.nightVisibility(valid(c, 'param').id as number, {
           curves: valid(c, 'query').curves === 'true',
         }),
         200,

@@ -3,10 +3,7 @@
  * becomes current unless told otherwise; an older one can be made current again.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import { eq } from 'drizzle-orm';
-import { orbitSolutions } from '../../../db/schema.ts';
-import type { Store } from '../../store/index.ts';
-import { OrbitSolutionInput } from '../../store/schemas/entities.ts';
+import { OrbitSolutionInput, type Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { OrbitSchema } from '../schemas/orbit.ts';
 import {
@@ -58,12 +55,9 @@ export function orbitSolutionRoutes(store: Store) {
     }),
     h(async (c) => {
       requireRole(c, 'viewer');
-      const q = valid(c, 'query') as z.output<typeof Filters>;
-      const where = [
-        q.targetId ? eq(orbitSolutions.targetId, q.targetId) : undefined,
-        q.current ? eq(orbitSolutions.current, q.current === 'true') : undefined,
-      ];
-      return c.json(await store.orbitSolutions.list(where, q), 200);
+      const { current, targetId, ...page } = valid(c, 'query') as z.output<typeof Filters>;
+      const filter = { targetId, current: current === undefined ? undefined : current === 'true' };
+      return c.json(await store.orbitSolutions.list(filter, page), 200);
     }),
   );
   app.openapi(

@@ -1,7 +1,6 @@
 /** GET /campaigns/{id}/flags: the planning flags of a stored campaign, soonest first. */
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
-import { campaignFlags } from '../../store/views/planning.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { FlagsAnswer } from '../schemas/plan-output.ts';
@@ -36,7 +35,7 @@ export function planRoutes(store: Store) {
       const q = c.req.valid('query');
       const nowJd = momentJd(q.at, 'at');
       return c.json(
-        await campaignFlags(store.db, c.req.valid('param').id, {
+        await store.plans.flags(c.req.valid('param').id, {
           nowJd,
           ...(q.resolutionMas ? { resolutionMas: q.resolutionMas } : {}),
         }),

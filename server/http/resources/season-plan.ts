@@ -5,14 +5,12 @@
  * server/store/views/plan-scope.ts.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import type { Store } from '../../store/index.ts';
-import { ACCEPT_AT_TOLERANCE_MINUTES } from '../../store/views/plan-scope.ts';
 import {
+  ACCEPT_AT_TOLERANCE_MINUTES,
   NIGHT_CHOICES,
-  acceptSeasonPlan,
-  previewSeasonPlan,
   type SeasonPlanRequest,
-} from '../../store/views/season-plan.ts';
+  type Store,
+} from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema, NightRowSchema } from './nights.ts';
@@ -96,7 +94,7 @@ export function seasonPlanRoutes(store: Store) {
     async (c) => {
       requireRole(c, 'viewer');
       const { body: b, atJd } = split(c.req.valid('json'));
-      return c.json(await previewSeasonPlan(store.db, c.req.valid('param').id, b, atJd), 200);
+      return c.json(await store.plans.previewSeason(c.req.valid('param').id, b, atJd), 200);
     },
   );
   app.openapi(
@@ -117,7 +115,7 @@ export function seasonPlanRoutes(store: Store) {
       const user = requireRole(c, 'lead');
       const { body: b, atJd } = split(c.req.valid('json'));
       const id = c.req.valid('param').id;
-      return c.json(await acceptSeasonPlan(store, { userId: user.id }, id, b, atJd), 201);
+      return c.json(await store.plans.acceptSeason({ userId: user.id }, id, b, atJd), 201);
     },
   );
   return app;

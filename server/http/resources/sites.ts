@@ -1,7 +1,6 @@
 /** /sites: observing locations with their pointing limits (lead edits). */
 import { z } from '@hono/zod-openapi';
-import type { Store } from '../../store/index.ts';
-import { SiteFields } from '../../store/schemas/entities.ts';
+import { SiteFields, type Store } from '../../store/index.ts';
 import { crudRoutes, patchOf, rowOf } from './common.ts';
 
 export function siteRoutes(store: Store) {
@@ -14,7 +13,6 @@ export function siteRoutes(store: Store) {
     patch: patchOf(SiteFields),
     row: rowOf(SiteFields),
     filters: z.object({}),
-    where: () => [],
     writeRole: 'lead',
   });
 }

@@ -1,9 +1,6 @@
 /** /systems and /targets: the catalogue of primaries and the stars that orbit them (lead edits). */
 import { z } from '@hono/zod-openapi';
-import { eq } from 'drizzle-orm';
-import { systems, targets } from '../../../db/schema.ts';
-import type { Store } from '../../store/index.ts';
-import { SystemFields, TargetFields } from '../../store/schemas/entities.ts';
+import { SystemFields, TargetFields, type Store } from '../../store/index.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 
 export function systemRoutes(store: Store) {
@@ -16,7 +13,6 @@ export function systemRoutes(store: Store) {
     patch: patchOf(SystemFields),
     row: rowOf(SystemFields),
     filters: z.object({ name: z.string().optional() }),
-    where: (q) => [q.name ? eq(systems.name, q.name) : undefined],
     writeRole: 'lead',
   });
 }
@@ -31,7 +27,6 @@ export function targetRoutes(store: Store) {
     patch: patchOf(TargetFields),
     row: rowOf(TargetFields),
     filters: z.object({ systemId: optionalId }),
-    where: (q) => [q.systemId ? eq(targets.systemId, q.systemId) : undefined],
     writeRole: 'lead',
   });
 }

@@ -6,9 +6,7 @@ import { createRoute, z } from '@hono/zod-openapi';
 import { EVENT_KINDS, ephemeris, eventsWithUncertainty } from '../../science/orbit/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { parseEpoch } from '../../science/time/index.ts';
-import type { Store } from '../../store/index.ts';
-import { ephemerisCsv } from '../../store/exports/ephemeris.ts';
-import { currentOrbit } from '../../store/repos/orbits.ts';
+import { ephemerisCsv, type Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { describeOrbit } from '../../science/orbit/index.ts';
 import { resolveEpochs } from '../../science/time/index.ts';
@@ -76,7 +74,9 @@ export function targetViewRoutes(store: Store) {
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query') as z.output<typeof EphemerisQuery>;
-      const { solution, orbit } = await currentOrbit(store.db, valid(c, 'param').id as number);
+      const { solution, orbit } = await store.orbitSolutions.current(
+        valid(c, 'param').id as number,
+      );
       const rows = ephemeris(orbit, resolveEpochs({ start: q.start, end: q.end, step: q.step }));
       if (q.format === 'csv')
         return c.body(ephemerisCsv(rows), 200, { 'content-type': 'text/csv; charset=utf-8' });
@@ -103,7 +103,9 @@ export function targetViewRoutes(store: Store) {
     h(async (c) => {
       requireRole(c, 'viewer');
       const q = valid(c, 'query') as z.output<typeof EventsQuery>;
-      const { solution, orbit } = await currentOrbit(store.db, valid(c, 'param').id as number);
+      const { solution, orbit } = await store.orbitSolutions.current(
+        valid(c, 'param').id as number,
+      );
       const kinds = q.kinds?.split(',').map((k) => k.trim());
       const unknown = kinds?.find((k) => !(EVENT_KINDS as readonly string[]).includes(k));
       if (unknown !== undefined)

@@ -1,9 +1,6 @@
 /** /users and /audit: accounts with their roles, tokens, and the trail of changes (lead only). */
 import { createRoute, z } from '@hono/zod-openapi';
-import { and, desc, eq, type SQL } from 'drizzle-orm';
-import { auditTrail } from '../../../db/schema.ts';
-import type { Store } from '../../store/index.ts';
-import { UserInput } from '../../store/schemas/entities.ts';
+import { UserInput, type Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import {
   IdParam,
@@ -115,22 +112,8 @@ export function userRoutes(store: Store) {
     }),
     h(async (c) => {
       requireRole(c, 'lead');
-      const q = valid(c, 'query') as z.output<typeof AuditQuery>;
-      const cond = and(
-        ...[
-          q.entity ? eq(auditTrail.entity, q.entity) : undefined,
-          q.entityId ? eq(auditTrail.entityId, q.entityId) : undefined,
-        ].filter((w): w is SQL => !!w),
-      );
-      const items = await store.db
-        .select()
-        .from(auditTrail)
-        .where(cond)
-        .orderBy(desc(auditTrail.id))
-        .limit(q.limit)
-        .offset(q.offset);
-      const total = await store.db.$count(auditTrail, cond);
-      return c.json({ items, total, limit: q.limit, offset: q.offset }, 200);
+      const { entity, entityId, ...page } = valid(c, 'query') as z.output<typeof AuditQuery>;
+      return c.json(await store.audit.list({ entity, entityId }, page), 200);
     }),
   );
   return app;

@@ -4,7 +4,7 @@
  */
 import { z } from '@hono/zod-openapi';
 import { FLAG_KINDS, MEASUREMENT_KINDS } from '../../science/plan/index.ts';
-import { NIGHT_CHOICES } from '../../store/views/season-plan.ts';
+import { NIGHT_CHOICES } from '../../store/index.ts';
 import { InstantSchema, IntervalSchema } from './sky-output.ts';
 
 const BlockKind = z.enum(MEASUREMENT_KINDS);

@@ -9,7 +9,7 @@ import { systems, targets } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
 import type { DbOrTx, Tx } from '../database.ts';
-import type { Store } from '../index.ts';
+import type { StoreContext } from '../context.ts';
 import type { RowProblem } from '../schemas/common.ts';
 import type { CsvKind } from './columns.ts';
 import { writeMeasurementsIn } from './import-measurements.ts';
@@ -147,7 +147,7 @@ function problemsOf(err: unknown, line: number): ImportProblem[] {
 
 /** Import a CSV file of `kind`: all rows or none (ImportRejected lists every bad row). */
 export async function importCsv(
-  store: Store,
+  store: StoreContext,
   actor: Actor,
   kind: CsvKind,
   text: string,
@@ -181,7 +181,7 @@ export async function importCsv(
  * that part in a worker thread): names and blocks resolved, then batched inserts, in one transaction.
  */
 export async function importPreparedMeasurements(
-  store: Store,
+  store: StoreContext,
   actor: Actor,
   prepared: PreparedMeasurements,
   options: ImportOptions = {},
@@ -205,7 +205,7 @@ export async function importPreparedMeasurements(
 }
 
 /** Run `write` in a transaction; a Rollback thrown inside undoes it quietly. */
-async function rollingBack(store: Store, write: (tx: Tx) => Promise<void>): Promise<void> {
+async function rollingBack(store: StoreContext, write: (tx: Tx) => Promise<void>): Promise<void> {
   try {
     await store.db.transaction(write);
   } catch (err) {

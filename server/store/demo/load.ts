@@ -15,7 +15,7 @@ import {
 import { jdToIso, jdToUnixMs, parseEpoch, unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import type { DbOrTx } from '../database.ts';
-import type { Store } from '../index.ts';
+import type { StoreContext } from '../context.ts';
 import type { SiteRow } from '../repos/sites.ts';
 import {
   INSTRUMENTS,
@@ -84,7 +84,7 @@ export interface DemoOptions {
 }
 
 export async function loadDemo(
-  store: Store,
+  store: StoreContext,
   actor: Actor,
   options: DemoOptions = {},
 ): Promise<{ nights: number; blocks: number; reports: number; measurements: number }> {
@@ -301,7 +301,7 @@ export async function loadDemo(
 }
 
 async function addMeasurement(
-  store: Store,
+  store: StoreContext,
   tx: DbOrTx,
   actor: Actor,
   targetId: number,

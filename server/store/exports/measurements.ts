@@ -1,24 +1,28 @@
 /** Measurements for export, with their system and target names, as JSON rows or CSV (the import layout). */
 import { stringify } from 'csv-stringify/sync';
-import { and, asc, eq, type SQL } from 'drizzle-orm';
+import { and, asc, eq } from 'drizzle-orm';
 import { measurements, systems, targets } from '../../../db/schema.ts';
 import type { DbOrTx } from '../database.ts';
 import { MEASUREMENT_COLUMNS } from '../csv/columns.ts';
-import type { MeasurementRow } from '../repos/measurements.ts';
+import {
+  measurementWhere,
+  type MeasurementFilter,
+  type MeasurementRow,
+} from '../repos/measurements.ts';
 
 export type ExportedMeasurement = MeasurementRow & { system: string; target: string };
 
-/** Every measurement matching `where`, ordered by target and epoch (no paging: exports are whole). */
+/** Every measurement matching `filter`, ordered by target and epoch (no paging: exports are whole). */
 export async function measurementsForExport(
   db: DbOrTx,
-  where: (SQL | undefined)[],
+  filter: MeasurementFilter = {},
 ): Promise<ExportedMeasurement[]> {
   const rows = await db
     .select({ m: measurements, system: systems.name, target: targets.name })
     .from(measurements)
     .innerJoin(targets, eq(targets.id, measurements.targetId))
     .innerJoin(systems, eq(systems.id, targets.systemId))
-    .where(and(...where.filter((w): w is SQL => w !== undefined)))
+    .where(and(...measurementWhere(filter, db)))
     .orderBy(asc(systems.name), asc(targets.name), asc(measurements.epochJd), asc(measurements.id));
   return rows.map((r) => ({ ...r.m, system: r.system, target: r.target }));
 }

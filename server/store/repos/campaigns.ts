@@ -1,5 +1,5 @@
 /** Campaigns with their targets and sites (join tables rewritten whole with the campaign). */
-import { eq } from 'drizzle-orm';
+import { eq, gte, inArray, lte } from 'drizzle-orm';
 import { campaignSites, campaignTargets, campaigns } from '../../../db/schema.ts';
 import { entity, requireRef } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
@@ -37,12 +37,42 @@ export async function campaignMembers(
   };
 }
 
+/** Which campaigns to list: with a target, with a site, running on some day of [from, to]. */
+export interface CampaignFilter {
+  targetId?: number | undefined;
+  siteId?: number | undefined;
+  /** YYYY-MM-DD: campaigns ending on or after it. */
+  from?: string | undefined;
+  /** YYYY-MM-DD: campaigns starting on or before it. */
+  to?: string | undefined;
+}
+
+function campaignWhere(f: CampaignFilter, db: DbOrTx) {
+  const withMember = (
+    col: typeof campaignTargets.targetId | typeof campaignSites.siteId,
+    id: number,
+  ) =>
+    inArray(
+      campaigns.id,
+      col === campaignTargets.targetId
+        ? db.select({ id: campaignTargets.campaignId }).from(campaignTargets).where(eq(col, id))
+        : db.select({ id: campaignSites.campaignId }).from(campaignSites).where(eq(col, id)),
+    );
+  return [
+    f.targetId ? withMember(campaignTargets.targetId, f.targetId) : undefined,
+    f.siteId ? withMember(campaignSites.siteId, f.siteId) : undefined,
+    f.from ? gte(campaigns.endDate, f.from) : undefined,
+    f.to ? lte(campaigns.startDate, f.to) : undefined,
+  ];
+}
+
 export function campaignRepository(db: Db) {
   const keys = Object.keys(CampaignFields.shape).filter(
     (k) => k !== 'targetIds' && k !== 'siteIds',
   );
-  return repository(db, {
+  const repo = repository(db, {
     entity: campaignEntity,
+    where: campaignWhere,
     schema: CampaignInput,
     keys,
     extraInput: (tx, row) => campaignMembers(tx, row.id),
@@ -64,4 +94,12 @@ export function campaignRepository(db: Db) {
           .values(siteIds.map((siteId) => ({ campaignId: row.id, siteId })));
     },
   });
+  return {
+    ...repo,
+    /** The row with its target and site ids, as the API shows a campaign. */
+    withMembers: async (row: CampaignRow): Promise<CampaignView> => ({
+      ...row,
+      ...(await campaignMembers(db, row.id)),
+    }),
+  };
 }

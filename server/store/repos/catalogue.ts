@@ -1,4 +1,5 @@
 /** Systems (a primary with its position) and targets (the stars that orbit it). */
+import { eq } from 'drizzle-orm';
 import { systems, targets } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import { validateTarget } from '../../science/sky/index.ts';
@@ -56,9 +57,19 @@ export const targetEntity = entity<TargetRow>({
   },
 });
 
+/** Which systems to list: by exact name. */
+export interface SystemFilter {
+  name?: string | undefined;
+}
+/** Which targets to list: those of one system. */
+export interface TargetFilter {
+  systemId?: number | undefined;
+}
+
 export function systemRepository(db: Db) {
   return repository(db, {
     entity: systemEntity,
+    where: (f: SystemFilter) => [f.name ? eq(systems.name, f.name) : undefined],
     schema: SystemInput,
     keys: Object.keys(SystemInput.shape),
     toRow: (input) => ({
@@ -71,6 +82,7 @@ export function systemRepository(db: Db) {
 export function targetRepository(db: Db) {
   return repository(db, {
     entity: targetEntity,
+    where: (f: TargetFilter) => [f.systemId ? eq(targets.systemId, f.systemId) : undefined],
     schema: TargetInput,
     keys: Object.keys(TargetInput.shape),
   });

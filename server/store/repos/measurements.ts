@@ -1,7 +1,9 @@
 /** Measurements: astrometric offsets, separation and position angle, or radial velocity, at an epoch. */
-import { measurements } from '../../../db/schema.ts';
+import { eq, gte, inArray, lte } from 'drizzle-orm';
+import { measurements, targets } from '../../../db/schema.ts';
+import { parseEpoch } from '../../science/time/index.ts';
 import { entity, requireRef } from '../crud.ts';
-import type { Db } from '../database.ts';
+import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
 import { checkMeasurementBlock, measurementRow } from './measurement-rules.ts';
 import { MeasurementFields, MeasurementInput } from '../schemas/entities.ts';
@@ -25,9 +27,36 @@ export const measurementEntity = entity<MeasurementRow>({
 
 const keys = Object.keys(MeasurementFields.shape);
 
+/** Which measurements to list; `from`/`to` are epochs (ISO 8601 with zone, JD, MJD, J…), inclusive. */
+export interface MeasurementFilter {
+  targetId?: number | undefined;
+  systemId?: number | undefined;
+  blockId?: number | undefined;
+  kind?: MeasurementRow['kind'] | undefined;
+  from?: string | undefined;
+  to?: string | undefined;
+}
+
+export function measurementWhere(f: MeasurementFilter, db: DbOrTx) {
+  return [
+    f.targetId ? eq(measurements.targetId, f.targetId) : undefined,
+    f.systemId
+      ? inArray(
+          measurements.targetId,
+          db.select({ id: targets.id }).from(targets).where(eq(targets.systemId, f.systemId)),
+        )
+      : undefined,
+    f.blockId ? eq(measurements.blockId, f.blockId) : undefined,
+    f.kind ? eq(measurements.kind, f.kind) : undefined,
+    f.from ? gte(measurements.epochJd, parseEpoch(f.from, 'from')) : undefined,
+    f.to ? lte(measurements.epochJd, parseEpoch(f.to, 'to')) : undefined,
+  ];
+}
+
 export function measurementRepository(db: Db) {
   return repository(db, {
     entity: measurementEntity,
+    where: measurementWhere,
     schema: MeasurementInput,
     keys,
     toRow: measurementRow,

@@ -2,12 +2,13 @@
  * Nights and their blocks. A night is a site and the local date on which its evening falls; a
  * block must lie within that night (local noon to the next local noon at the site).
  */
-import { and, eq } from 'drizzle-orm';
+import { and, eq, gte, inArray, lt, lte } from 'drizzle-orm';
 import { DateTime } from 'luxon';
 import { blocks, campaignSites, nights } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
+import { jdToIso, parseEpoch } from '../../science/time/index.ts';
 import { entity, requireRef } from '../crud.ts';
-import type { Db } from '../database.ts';
+import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
 import { normaliseEpoch } from '../schemas/common.ts';
 import { BlockInput, NightInput } from '../schemas/entities.ts';
@@ -84,9 +85,48 @@ export const blockEntity = entity<BlockRow>({
   },
 });
 
+/** Which nights to list: at a site, of a campaign, with dates (YYYY-MM-DD) in [from, to]. */
+export interface NightFilter {
+  siteId?: number | undefined;
+  campaignId?: number | undefined;
+  from?: string | undefined;
+  to?: string | undefined;
+}
+/** Which blocks to list; `from`/`to` are epochs (ISO 8601 with zone, JD, MJD, J…) the block overlaps. */
+export interface BlockFilter {
+  nightId?: number | undefined;
+  targetId?: number | undefined;
+  siteId?: number | undefined;
+  campaignId?: number | undefined;
+  from?: string | undefined;
+  to?: string | undefined;
+}
+
+/** An epoch as ISO UTC (string comparison of ISO UTC is time order). */
+const isoOf = (v: string, field: string) => jdToIso(parseEpoch(v, field));
+
+function blockWhere(f: BlockFilter, db: DbOrTx) {
+  const ofNights = (col: typeof nights.siteId | typeof nights.campaignId, id: number) =>
+    inArray(blocks.nightId, db.select({ id: nights.id }).from(nights).where(eq(col, id)));
+  return [
+    f.nightId ? eq(blocks.nightId, f.nightId) : undefined,
+    f.targetId ? eq(blocks.targetId, f.targetId) : undefined,
+    f.siteId ? ofNights(nights.siteId, f.siteId) : undefined,
+    f.campaignId ? ofNights(nights.campaignId, f.campaignId) : undefined,
+    f.from ? gte(blocks.endUtc, isoOf(f.from, 'from')) : undefined,
+    f.to ? lt(blocks.startUtc, isoOf(f.to, 'to')) : undefined,
+  ];
+}
+
 export function nightRepository(db: Db) {
   return repository(db, {
     entity: nightEntity,
+    where: (f: NightFilter) => [
+      f.siteId ? eq(nights.siteId, f.siteId) : undefined,
+      f.campaignId ? eq(nights.campaignId, f.campaignId) : undefined,
+      f.from ? gte(nights.date, f.from) : undefined,
+      f.to ? lte(nights.date, f.to) : undefined,
+    ],
     schema: NightInput,
     keys: Object.keys(NightInput.shape),
     fixedKeys: ['siteId', 'date'],
@@ -96,6 +136,7 @@ export function nightRepository(db: Db) {
 export function blockRepository(db: Db) {
   return repository(db, {
     entity: blockEntity,
+    where: blockWhere,
     schema: BlockInput,
     keys: Object.keys(BlockInput.shape),
     fixedKeys: ['origin'],

@@ -15,9 +15,14 @@ import { parseInput } from '../schemas/common.ts';
 import { OrbitSolutionInput } from '../schemas/entities.ts';
 import { targetEntity } from './catalogue.ts';
 import { measurementEntity } from './measurements.ts';
-import type { SQL } from 'drizzle-orm';
 
 export type OrbitSolutionRow = typeof orbitSolutions.$inferSelect;
+
+/** Which versions to list: of one target, only the current one (true) or only earlier ones (false). */
+export interface OrbitSolutionFilter {
+  targetId?: number | undefined;
+  current?: boolean | undefined;
+}
 
 export const orbitSolutionEntity = entity<OrbitSolutionRow>({
   name: 'orbit solution',
@@ -88,12 +93,19 @@ export function orbitSolutionRepository(db: Db) {
   };
   return {
     entity: orbitSolutionEntity,
-    list: (
-      where: (SQL | undefined)[],
-      page?: PageRequest,
-      on: DbOrTx = db,
-    ): Promise<Page<OrbitSolutionRow>> => list(on, orbitSolutionEntity, where, page),
-    get: (id: number, on: DbOrTx = db) => getById(on, orbitSolutionEntity, id),
+    list: (filter: OrbitSolutionFilter = {}, page?: PageRequest): Promise<Page<OrbitSolutionRow>> =>
+      list(
+        db,
+        orbitSolutionEntity,
+        [
+          filter.targetId ? eq(orbitSolutions.targetId, filter.targetId) : undefined,
+          filter.current === undefined ? undefined : eq(orbitSolutions.current, filter.current),
+        ],
+        page,
+      ),
+    get: (id: number) => getById(db, orbitSolutionEntity, id),
+    /** The target's current solution and its validated orbit (404 when it has none). */
+    current: (targetId: number) => currentOrbit(db, targetId),
     createIn,
     create: (actor: Actor, input: unknown) => db.transaction((tx) => createIn(tx, actor, input)),
     /** Make an earlier (or later) version the target's current one. */

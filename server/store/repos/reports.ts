@@ -3,8 +3,8 @@
  * together. Writing an outcome sets the block's status (and bumps its version) in the same
  * transaction, so a block never disagrees with the report that says what became of it.
  */
-import { eq } from 'drizzle-orm';
-import { blockOutcomes, nightReports } from '../../../db/schema.ts';
+import { eq, gte, inArray, lte, type SQL } from 'drizzle-orm';
+import { blockOutcomes, nightReports, nights } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import type { Actor } from '../audit.ts';
 import { entity, findById, requireRef, updateIn } from '../crud.ts';
@@ -71,10 +71,32 @@ async function writeOutcomes(
   }
 }
 
+/** Which night reports to list: of a night, at a site, of a campaign, nights (YYYY-MM-DD) in [from, to]. */
+export interface NightReportFilter {
+  nightId?: number | undefined;
+  siteId?: number | undefined;
+  campaignId?: number | undefined;
+  from?: string | undefined;
+  to?: string | undefined;
+}
+
+function nightReportWhere(f: NightReportFilter, db: DbOrTx) {
+  const ofNights = (cond: SQL) =>
+    inArray(nightReports.nightId, db.select({ id: nights.id }).from(nights).where(cond));
+  return [
+    f.nightId ? eq(nightReports.nightId, f.nightId) : undefined,
+    f.siteId ? ofNights(eq(nights.siteId, f.siteId)) : undefined,
+    f.campaignId ? ofNights(eq(nights.campaignId, f.campaignId)) : undefined,
+    f.from ? ofNights(gte(nights.date, f.from)) : undefined,
+    f.to ? ofNights(lte(nights.date, f.to)) : undefined,
+  ];
+}
+
 export function nightReportRepository(db: Db) {
   const keys = Object.keys(NightReportInput.shape).filter((k) => k !== 'outcomes');
-  return repository(db, {
+  const repo = repository(db, {
     entity: nightReportEntity,
+    where: nightReportWhere,
     schema: NightReportInput,
     keys,
     fixedKeys: ['nightId'],
@@ -98,4 +120,12 @@ export function nightReportRepository(db: Db) {
         ? Promise.resolve()
         : writeOutcomes(tx, actor, report, input.outcomes),
   });
+  return {
+    ...repo,
+    /** The report with the outcome of each of its blocks, as the API shows it. */
+    withOutcomes: async (row: NightReportRow): Promise<NightReportView> => ({
+      ...row,
+      outcomes: await outcomesOf(db, row.id),
+    }),
+  };
 }

@@ -33,7 +33,7 @@ import type { Actor } from '../audit.ts';
 import { getById, removeIn } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
-import type { Store } from '../index.ts';
+import type { StoreContext } from '../context.ts';
 import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
 import {
   asKeptBlock,
@@ -179,7 +179,7 @@ export async function previewNightSchedule(
 
 /** Compute the schedule again inside one transaction and store it in place of the night's planned blocks. */
 export async function acceptNightSchedule(
-  store: Store,
+  store: StoreContext,
   actor: Actor,
   nightId: number,
   request: NightScheduleRequest,

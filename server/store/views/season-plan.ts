@@ -27,7 +27,7 @@ import type { Actor } from '../audit.ts';
 import { removeIn } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
-import type { Store } from '../index.ts';
+import type { StoreContext } from '../context.ts';
 import { blockEntity, nightIntervalUtc, type BlockRow, type NightRow } from '../repos/nights.ts';
 import {
   asKeptBlock,
@@ -240,7 +240,7 @@ export async function previewSeasonPlan(
  * create the nights it needs (`nights: "all"`), write its blocks. Any failure writes nothing.
  */
 export async function acceptSeasonPlan(
-  store: Store,
+  store: StoreContext,
   actor: Actor,
   campaignId: number,
   request: SeasonPlanRequest,

@@ -1,0 +1,68 @@
+/**
+ * The store's public surface: the entity repositories, and the views, plans, fits, imports and
+ * exports over them, each with the database handle already supplied, so no caller holds it.
+ */
+import { backupDatabase } from './backup.ts';
+import { registerContext, storeContext } from './context.ts';
+import { importCsv } from './csv/import.ts';
+import type { Database } from './database.ts';
+import { loadDemo } from './demo/load.ts';
+import { campaignCalendar } from './exports/calendar.ts';
+import { measurementsForExport } from './exports/measurements.ts';
+import { acceptStoredFit, prepareStoredFit, systemTargetIds } from './fits.ts';
+import { auditLog } from './repos/audit.ts';
+import { acceptNightSchedule, previewNightSchedule } from './views/night-plan.ts';
+import { campaignFlags } from './views/planning.ts';
+import { acceptSeasonPlan, previewSeasonPlan } from './views/season-plan.ts';
+import { nightVisibility } from './views/visibility.ts';
+
+// biome-ignore lint/suspicious/noExplicitAny: the first parameter is dropped, whatever its type
+type WithoutFirst<F> = F extends (first: any, ...rest: infer R) => infer O
+  ? (...rest: R) => O
+  : never;
+/** `f` with its first argument (the database or the store's context) supplied. */
+function bind<C, F extends (first: C, ...rest: never[]) => unknown>(
+  first: C,
+  f: F,
+): WithoutFirst<F> {
+  return ((...rest: never[]) => f(first, ...rest)) as WithoutFirst<F>;
+}
+
+export function createStore(database: Database) {
+  const context = storeContext(database);
+  const { db, database: _database, ...repositories } = context;
+  const store = {
+    ...repositories,
+    audit: auditLog(db),
+    plans: {
+      /** Periapsis, blend and stale-prediction flags of a campaign's targets. */
+      flags: bind(db, campaignFlags),
+      previewSeason: bind(db, previewSeasonPlan),
+      acceptSeason: bind(context, acceptSeasonPlan),
+      previewNight: bind(db, previewNightSchedule),
+      acceptNight: bind(context, acceptNightSchedule),
+    },
+    /** The sky engine's night report for a stored night and its campaign's targets. */
+    nightVisibility: bind(db, nightVisibility),
+    fits: {
+      /** The targets of a system that have measurements (some of them with `only`). */
+      systemTargetIds: bind(context, systemTargetIds),
+      prepare: bind(context, prepareStoredFit),
+      accept: bind(context, acceptStoredFit),
+    },
+    /** A CSV file of targets, orbit solutions or measurements: all rows or none. */
+    importCsv: bind(context, importCsv),
+    exports: {
+      measurements: bind(db, measurementsForExport),
+      calendar: bind(db, campaignCalendar),
+    },
+    loadDemo: bind(context, loadDemo),
+    /** A consistent copy of a local database file (VACUUM INTO). */
+    backup: (path: string) => backupDatabase(database, path),
+    url: database.url,
+    close: () => database.close(),
+  };
+  registerContext(store, context);
+  return store;
+}
+export type Store = ReturnType<typeof createStore>;
