@@ -183,14 +183,14 @@ it('upgrades a database made before migration 0003: limits keep their values und
 
   const store = createStore(await openDatabase({ url }));
   try {
-    const [site] = (await store.sites.list([])).items;
+    const [site] = (await store.sites.list({})).items;
     expect(site).toMatchObject({ lowestAltitudeDeg: 25, leastSunDistanceDeg: 50 }); // the values inserted above
-    const limits = (await store.campaigns.list([])).items.map((c) => [c.name, c.limits]);
+    const limits = (await store.campaigns.list({})).items.map((c) => [c.name, c.limits]);
     expect(limits).toEqual([
       ['Full', { highestAirmass: 1.8, leastMoonDistanceDeg: 40, darkness: 'nautical' }],
       ['Empty', {}],
     ]); // the values inserted above, under the names of migration 0003
   } finally {
-    store.database.close();
+    store.close();
   }
 });
