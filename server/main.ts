@@ -15,7 +15,7 @@ if (!Number.isInteger(port) || port < 0 || port > 65535) {
   process.exit(2);
 }
 
-let started;
+let started: Awaited<ReturnType<typeof startStore>>;
 try {
   started = await startStore();
 } catch (err) {

@@ -2,8 +2,8 @@ import { readFileSync, readdirSync, statSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { describe, expect, it } from 'vitest';
 
-// Data flows one way (DESIGN.md, Architecture): store → science → http/cli → client. Each layer may
-// import only what sits below it.
+// Imports point one way, down (docs/DESIGN.md, Architecture): client → (HTTP only) → http/ and
+// cli/ → store/ → science/. Each layer may import only what sits below it.
 const REPO = resolve(import.meta.dirname, '..');
 
 function sources(dir: string): string[] {

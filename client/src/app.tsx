@@ -15,10 +15,12 @@ import { RecordsView } from './views/records.tsx';
 type Theme = 'night' | 'day';
 
 function route(path: string) {
-  let m;
-  if ((m = match('/targets/:id', path))) return <TargetView id={Number(m.id)} />;
-  if ((m = match('/nights/:id/report', path))) return <ReportView nightId={Number(m.id)} />;
-  if ((m = match('/nights/:id', path))) return <NightView id={Number(m.id)} />;
+  const target = match('/targets/:id', path);
+  if (target) return <TargetView id={Number(target.id)} />;
+  const report = match('/nights/:id/report', path);
+  if (report) return <ReportView nightId={Number(report.id)} />;
+  const night = match('/nights/:id', path);
+  if (night) return <NightView id={Number(night.id)} />;
   if (match('/season', path)) return <SeasonView />;
   if (match('/records', path)) return <RecordsView />;
   if (match('/', path)) return <OverviewView />;
@@ -32,7 +34,13 @@ function route(path: string) {
 function SignIn({ error, onToken }: { error: unknown; onToken: (t: string) => void }) {
   const [value, setValue] = useState('');
   return (
-    <form class="panel sign-in" onSubmit={(e) => (e.preventDefault(), onToken(value))}>
+    <form
+      class="panel sign-in"
+      onSubmit={(e) => {
+        e.preventDefault();
+        onToken(value);
+      }}
+    >
       <h1>Sign in</h1>
       <p>
         Open the sign-in link that <code>npm start</code> printed on first start, or paste a token
@@ -62,6 +70,11 @@ export function App() {
   const [me, setMe] = useState<Me | null>(null);
   const [authError, setAuthError] = useState<unknown>(null);
   const [tokenTick, setTokenTick] = useState(0);
+  // Same-origin links navigate in place: one listener for the whole page.
+  useEffect(() => {
+    document.addEventListener('click', interceptLinks);
+    return () => document.removeEventListener('click', interceptLinks);
+  }, []);
   useEffect(() => {
     document.documentElement.dataset.theme = theme;
     localStorage.setItem('ew.theme', theme);
@@ -81,7 +94,7 @@ export function App() {
   ] as const;
   return (
     <MeContext.Provider value={me}>
-      <div class="shell" onClick={interceptLinks}>
+      <div class="shell">
         <a class="skip" href="#main">
           Skip to content
         </a>
@@ -122,7 +135,14 @@ export function App() {
               {theme === 'night' ? 'Day theme' : 'Night theme'}
             </button>
             {me && (
-              <button type="button" class="ghost" onClick={() => (signOut(), setMe(null))}>
+              <button
+                type="button"
+                class="ghost"
+                onClick={() => {
+                  signOut();
+                  setMe(null);
+                }}
+              >
                 Sign out
               </button>
             )}
@@ -136,7 +156,11 @@ export function App() {
           ) : (
             <SignIn
               error={authError}
-              onToken={(t) => (setSessionToken(t), setAuthError(null), setTokenTick(tokenTick + 1))}
+              onToken={(t) => {
+                setSessionToken(t);
+                setAuthError(null);
+                setTokenTick(tokenTick + 1);
+              }}
             />
           )}
         </main>

@@ -51,7 +51,7 @@ export function formatTable<Row>(rows: readonly Row[], columns: readonly Column<
         .join('  ')
         .trimEnd(),
     );
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }
 
 export function formatCsv<Row>(rows: readonly Row[], columns: readonly Column<Row>[]): string {
@@ -70,7 +70,7 @@ export function render<Row>(
 ): string {
   switch (format) {
     case 'json':
-      return JSON.stringify(jsonValue, null, 2) + '\n';
+      return `${JSON.stringify(jsonValue, null, 2)}\n`;
     case 'csv':
       return formatCsv(rows, columns);
     case 'table':

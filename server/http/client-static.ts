@@ -16,7 +16,7 @@ export const DEFAULT_CLIENT_DIR = fileURLToPath(new URL('../../client/dist', imp
 export const hasBuiltClient = (dir: string) => existsSync(join(dir, 'index.html'));
 
 // The generic Hono type keeps this usable from the OpenAPIHono app without importing its env.
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
+// biome-ignore lint/suspicious/noExplicitAny: any app, whatever its env, variables and schema
 export function mountClient(app: Hono<any, any, any>, dir: string): void {
   app.use(
     '/assets/*',

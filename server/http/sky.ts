@@ -7,7 +7,6 @@ import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import { InputError, requireFinite } from '../science/errors.ts';
 import {
   AIRMASS_FORMULAS,
-  cautions,
   nightReport,
   parseNightDate,
   seasonMap,
@@ -15,7 +14,6 @@ import {
   validateLimits,
   validateSite,
   validateTarget,
-  type Limits,
   type Site,
   type Target,
 } from '../science/sky/index.ts';

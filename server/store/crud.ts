@@ -45,7 +45,7 @@ export function entity<T>(spec: Omit<Entity<T>, '_row'>): Entity<T> {
   return spec;
 }
 
-/* eslint-disable @typescript-eslint/no-explicit-any */
+// biome-ignore lint/suspicious/noExplicitAny: one generic path over every entity's table; each entity's row type is checked at its spec
 const q = (db: DbOrTx) => db as any;
 
 export async function list<T>(
@@ -137,7 +137,8 @@ export async function updateIn<T>(
   if (e.versioned) set.version = (prev.version as number) + 1;
   if (e.check) await e.check(tx, { ...prev, ...set }, previous);
   const where = e.versioned
-    ? and(eq(e.table.id, id), eq((e.table as any).version, prev.version))
+    ? // biome-ignore lint/suspicious/noExplicitAny: versioned entities have a version column (checked by the spec's flag)
+      and(eq(e.table.id, id), eq((e.table as any).version, prev.version))
     : eq(e.table.id, id);
   let rows: T[];
   try {

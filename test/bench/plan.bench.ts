@@ -82,8 +82,12 @@ export async function run(): Promise<string[]> {
   }
   const pair = bestOfPair(
     3,
-    () => problems.forEach((p) => solveGreedy(p)),
-    () => problems.forEach((p) => solveExact(p)),
+    () => {
+      for (const p of problems) solveGreedy(p);
+    },
+    () => {
+      for (const p of problems) solveExact(p);
+    },
   );
 
   const seasonTargets = Array.from({ length: 200 }, (_, i) => ({

@@ -1,6 +1,6 @@
 /**
  * `npm run bench`: runs every test/bench/*.bench.ts module's run() in turn and prints its BENCH lines
- * (format in DESIGN.md: value, unit, and the ratio against a baseline run in the same process).
+ * (format in docs/DESIGN.md: value, unit, and the ratio against a baseline run in the same process).
  */
 import { readdirSync } from 'node:fs';
 import { join } from 'node:path';

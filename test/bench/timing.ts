@@ -27,7 +27,7 @@ export function bestOfPair(
   return { ours: a, baseline: b };
 }
 
-/** A line in the format of DESIGN.md: BENCH <name> <value> <unit> ratio=<x> vs <baseline>. */
+/** A line in the format of docs/DESIGN.md: BENCH <name> <value> <unit> ratio=<x> vs <baseline>. */
 export function benchLine(
   name: string,
   value: number,

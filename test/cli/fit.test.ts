@@ -32,8 +32,14 @@ async function run(args: string[]): Promise<{ code: number; out: string; err: st
     process.stdout.write.bind(process.stdout),
     process.stderr.write.bind(process.stderr),
   ];
-  process.stdout.write = ((s: string) => (out.push(s), true)) as typeof process.stdout.write;
-  process.stderr.write = ((s: string) => (err.push(s), true)) as typeof process.stderr.write;
+  process.stdout.write = ((s: string) => {
+    out.push(s);
+    return true;
+  }) as typeof process.stdout.write;
+  process.stderr.write = ((s: string) => {
+    err.push(s);
+    return true;
+  }) as typeof process.stderr.write;
   try {
     const code = await main(args);
     return { code, out: out.join(''), err: err.join('') };

@@ -115,7 +115,7 @@ describe('laneSegments', () => {
     for (let k = 1; k < first.length; k++) expect(first[k]!.startMs).toBe(first[k - 1]!.endMs);
     // The sample at +200 min has airmass 1: the best bin.
     expect(cells.find((c) => c.startMs <= T0 + 200 * MIN && c.endMs > T0 + 200 * MIN)!.bin).toBe(0);
-    cells.forEach((c) => expect(binOf(c.lo, edges)).toBe(c.bin));
+    for (const c of cells) expect(binOf(c.lo, edges)).toBe(c.bin);
   });
 });
 

@@ -180,7 +180,7 @@ describe('error ellipses', () => {
   });
 
   test('a separation and position angle give the same offsets as the orbit engine (Meeus, Example 57.a, from memory)', () => {
-    // θ = 318.42°, ρ = 0.4110″ at epoch 1980.0 for the orbit of Meeus Example 57.a (REFERENCES.md).
+    // θ = 318.42°, ρ = 0.4110″ at epoch 1980.0 for the orbit of Meeus Example 57.a (docs/REFERENCES.md).
     const s = separationToOffsets(411.0, 318.42, 1, 0.1);
     const p = predict(validateOrbit(MEEUS_57A), parseEpoch('J1980.0', 'epoch'));
     // Tolerance: ρ is given to 0.1 mas and θ to 0.01° (0.07 mas across at 411 mas).

@@ -64,14 +64,17 @@ export async function startServer(): Promise<RunningServer> {
       out += chunk.toString();
       const url = /listening on (http:\/\/\S+?)\/? /.exec(out)?.[1];
       const token = /^\s*token: (\S+)$/m.exec(out)?.[1];
-      if (url && token) clearTimeout(timer), ok({ url, token });
+      if (url && token) {
+        clearTimeout(timer);
+        ok({ url, token });
+      }
     };
     child.stdout!.on('data', look);
     child.stderr!.on('data', look);
-    child.on(
-      'exit',
-      (code) => (clearTimeout(timer), fail(new Error(`server exited with ${code}:\n${out}`))),
-    );
+    child.on('exit', (code) => {
+      clearTimeout(timer);
+      fail(new Error(`server exited with ${code}:\n${out}`));
+    });
   });
   const { url, token } = await ready;
   return {

@@ -22,7 +22,8 @@ const AT = '2026-12-01T00:00:00Z';
 const RANGE = { startDate: '2027-06-01', endDate: '2027-06-30', at: AT };
 const ACCEPT = { startDate: RANGE.startDate, endDate: RANGE.endDate };
 
-type Json = Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any
+// biome-ignore lint/suspicious/noExplicitAny: loose JSON answers read field by field in this test
+type Json = Record<string, any>;
 
 for (const backend of BACKENDS) {
   describe(`planning writes (${backend.name})`, () => {
@@ -78,7 +79,7 @@ for (const backend of BACKENDS) {
       console.log(
         `${site.name}: ${m.edges} block edges; Sun ≤ ${m.highestSunDeg.toFixed(1)}°, altitude ≥ ${m.lowestAltitudeDeg.toFixed(2)}°, airmass ≤ ${m.highestAirmass.toFixed(3)}, Moon ≥ ${m.closestMoonDeg.toFixed(1)}°, Sun ≥ ${m.closestSunDeg.toFixed(1)}° away`,
       );
-      expect(m.highestSunDeg).toBeLessThan(-18); // astronomical darkness (Explanatory Supplement to the Astronomical Almanac, via REFERENCES.md); Sun from astronomy-engine
+      expect(m.highestSunDeg).toBeLessThan(-18); // astronomical darkness (Explanatory Supplement to the Astronomical Almanac, via docs/REFERENCES.md); Sun from astronomy-engine
       expect(m.highestAirmass).toBeLessThan(1.8 + 0.01); // the demo campaign's limit; Kasten & Young, Applied Optics 28, 4735 (1989), on astronomy-engine's altitude (0.01: its standard refraction vs the site's pressure)
       expect(m.lowestAltitudeDeg).toBeGreaterThan(site.lowestAltitudeDeg - 0.05); // the site's altitude limit (demo, invented)
       expect(m.closestMoonDeg).toBeGreaterThan(30 - 0.1); // the campaign's Moon limit (demo); 0.1°: the target is placed at its primary here
@@ -204,7 +205,7 @@ for (const backend of BACKENDS) {
       for (const [body, status, field] of cases) {
         const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', body);
         const err = ((await res.json()) as Json).error;
-        expect(res.status, JSON.stringify(err)).toBe(status); // 422 a value breaks a rule, 400 malformed (DESIGN.md errors)
+        expect(res.status, JSON.stringify(err)).toBe(status); // 422 a value breaks a rule, 400 malformed (docs/DESIGN.md errors)
         expect(err.details.field ?? err.details.issues[0].field).toBe(field);
       }
       expect(
@@ -313,7 +314,7 @@ for (const backend of BACKENDS) {
       const before = await tableCounts(env.store);
       expect(
         (await call('observer', 'POST', '/api/blocks', { ...body, origin: 'season-plan' })).status,
-      ).toBe(400); // the origin is the server's to set: an unknown key (DESIGN.md errors)
+      ).toBe(400); // the origin is the server's to set: an unknown key (docs/DESIGN.md errors)
       expect(await tableCounts(env.store)).toEqual(before);
       const made = await call('observer', 'POST', '/api/blocks', body);
       expect(made.status, await made.clone().text()).toBe(201);

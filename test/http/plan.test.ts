@@ -45,7 +45,10 @@ describe('GET /api/campaigns/{id}/flags', () => {
   it('shows the same flags through the CLI', async () => {
     const out: string[] = [];
     const write = process.stdout.write.bind(process.stdout);
-    process.stdout.write = ((s: string) => (out.push(s), true)) as typeof process.stdout.write;
+    process.stdout.write = ((s: string) => {
+      out.push(s);
+      return true;
+    }) as typeof process.stdout.write;
     let code: number;
     try {
       code = await main([

@@ -2,7 +2,7 @@
  * The store's HTTP API against each backend (a real libSQL file in a temporary folder, and
  * in-memory libSQL): migrations from empty, create/read/update/delete of every resource, roles,
  * the 409 on a stale version, paging and filters. Requests go through app.request(), no server.
- * Status codes are those of RFC 9110 §15 (from memory) as DESIGN.md assigns them.
+ * Status codes are those of RFC 9110 §15 (from memory) as docs/DESIGN.md assigns them.
  */
 import { readFileSync } from 'node:fs';
 import { Body, DefineStar, Equator, Horizon, Observer } from 'astronomy-engine';
@@ -219,7 +219,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       const err = (await res.json()) as {
         error: { code: string; message: string; details: { allow: string[] } };
       };
-      expect(err.error.code).toBe('method_not_allowed'); // DESIGN.md error shape { error: { code, message, details } }
+      expect(err.error.code).toBe('method_not_allowed'); // docs/DESIGN.md error shape { error: { code, message, details } }
       expect(err.error.details.allow).toEqual(['DELETE', 'GET', 'HEAD']);
     }
     expect(await tableCounts(f.store)).toEqual(before);

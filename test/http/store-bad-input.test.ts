@@ -3,7 +3,7 @@
  * and not one row changed anywhere, checked by counting every table before and after.
  * Statuses: 400 malformed or wrong shape, 404 unknown record in the path, 409 clash with stored
  * state, 413 body too large, 415 not JSON, 422 a well-formed value that breaks a rule
- * (RFC 9110 §15.5 and RFC 4918 §11.2 for 422, from memory; the split is DESIGN.md's).
+ * (RFC 9110 §15.5 and RFC 4918 §11.2 for 422, from memory; the split is docs/DESIGN.md's).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BACKENDS, ORBIT_S1, fixture, tableCounts, type Fixture } from '../store/backends.ts';

@@ -1,5 +1,5 @@
 /**
- * The backends every store test runs against (one shared suite, STYLE.md item 5): a real libSQL
+ * The backends every store test runs against (one shared suite, docs/STYLE.md item 5): a real libSQL
  * file in a fresh temporary folder, and an in-memory libSQL database.
  */
 import { mkdtempSync, rmSync } from 'node:fs';

@@ -85,7 +85,7 @@ describe('the demo campaign', () => {
     console.log(
       `demo blocks: ${blocks.length}, highest Sun altitude at a block edge ${highest.toFixed(1)}°`,
     );
-    expect(highest).toBeLessThan(-18); // astronomical twilight limit (Explanatory Supplement to the Astronomical Almanac, via REFERENCES.md); Sun from astronomy-engine
+    expect(highest).toBeLessThan(-18); // astronomical twilight limit (Explanatory Supplement to the Astronomical Almanac, via docs/REFERENCES.md); Sun from astronomy-engine
   });
 });
 
@@ -170,7 +170,7 @@ describe('the feed’s flags at a chosen moment', () => {
     expect(await flagsOf('2026-12-01T00:00:00Z')).toContain('Flag, periapsis ahead: VC s1'); // demo periapsis of VC s1 on 2027-06-14 (invented), within the flags' year ahead
     expect(await flagsOf('2027-07-01T00:00:00Z')).not.toContain('Flag, periapsis ahead: VC s1'); // passed by then; the next is 14.2 yr later (demo period, invented)
     const bad = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}&at=someday`);
-    expect(bad.status).toBe(422); // a value that breaks a rule (DESIGN.md errors)
+    expect(bad.status).toBe(422); // a value that breaks a rule (docs/DESIGN.md errors)
     expect(
       ((await bad.json()) as { error: { details: { field: string } } }).error.details.field,
     ).toBe('at');

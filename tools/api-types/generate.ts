@@ -26,7 +26,7 @@ export async function openApiDocument(): Promise<OpenAPI3> {
   try {
     const res = await createApp({ store: createStore(database) }).request('/api/openapi.json');
     if (!res.ok) throw new Error(`/api/openapi.json answered ${res.status}`);
-    return await res.json();
+    return (await res.json()) as OpenAPI3;
   } finally {
     database.close();
   }

@@ -43,7 +43,9 @@ export function loadCatalogue(): Promise<Catalogue> {
   return cached;
 }
 
-export const invalidateCatalogue = () => void (cached = null);
+export const invalidateCatalogue = () => {
+  cached = null;
+};
 
 /** The sky engine's target shape for a stored target: its system's place at its position epoch plus its current orbit. */
 export function skyTarget(cat: Catalogue, targetId: number) {

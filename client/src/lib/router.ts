@@ -2,7 +2,10 @@
 import { useEffect, useState } from 'preact/hooks';
 
 const listeners = new Set<() => void>();
-const notify = () => listeners.forEach((f) => f());
+const notify = () =>
+  listeners.forEach((f) => {
+    f();
+  });
 addEventListener('popstate', notify);
 
 export function navigate(path: string): void {
@@ -30,8 +33,7 @@ export function interceptLinks(e: MouseEvent): void {
   const href = a?.getAttribute('href');
   if (
     !a ||
-    !href ||
-    !href.startsWith('/') ||
+    !href?.startsWith('/') ||
     href.startsWith('/api') ||
     a.hasAttribute('download') ||
     a.target

@@ -23,7 +23,7 @@ export function useLoad<T>(load: () => Promise<T>, deps: unknown[]): Loaded<T> {
       (error: unknown) =>
         mine === seq.current && setState({ data: undefined, error, loading: false }),
     );
-    // eslint-disable-next-line react-hooks/exhaustive-deps
+    // The caller's deps decide when to reload, not the loader's identity.
   }, deps);
   useEffect(run, [run]);
   return { ...state, reload: run };

@@ -55,7 +55,10 @@ export function runs(n: number, keep: (k: number) => boolean): [number, number][
   for (let k = 0; k <= n; k++) {
     const on = k < n && keep(k);
     if (on && start < 0) start = k;
-    if (!on && start >= 0) out.push([start, k - 1]), (start = -1);
+    if (!on && start >= 0) {
+      out.push([start, k - 1]);
+      start = -1;
+    }
   }
   return out;
 }
@@ -228,7 +231,10 @@ export function moonUpSpans(
   for (let k = 0; k < n; k++) {
     const up = altDeg[k]! >= 0;
     if (up && start === null) start = k === 0 ? sampleMs[0]! : cross(k - 1);
-    if (!up && start !== null) out.push([start, cross(k - 1)]), (start = null);
+    if (!up && start !== null) {
+      out.push([start, cross(k - 1)]);
+      start = null;
+    }
   }
   if (start !== null) out.push([start, sampleMs[n - 1]!]);
   return out;

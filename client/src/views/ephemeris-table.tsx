@@ -40,7 +40,13 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
   };
   return (
     <>
-      <form class="row-form" onSubmit={(e) => (e.preventDefault(), setQuery(form))}>
+      <form
+        class="row-form"
+        onSubmit={(e) => {
+          e.preventDefault();
+          setQuery(form);
+        }}
+      >
         <label>
           from (UTC date){' '}
           <input

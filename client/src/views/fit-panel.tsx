@@ -89,7 +89,14 @@ export function FitPanel({
           </button>
         )}
         {fit && (
-          <button type="button" disabled={busy} onClick={() => (setFit(null), onFittedTrack(null))}>
+          <button
+            type="button"
+            disabled={busy}
+            onClick={() => {
+              setFit(null);
+              onFittedTrack(null);
+            }}
+          >
             Discard fit
           </button>
         )}

@@ -44,7 +44,10 @@ export function parseMask(text: string): { points: HorizonPoint[] } | { rule: st
 function setPath(body: Record<string, unknown>, path: string, v: unknown): void {
   const keys = path.split('.');
   let o = body;
-  for (const k of keys.slice(0, -1)) o = (o[k] ??= {}) as Record<string, unknown>;
+  for (const k of keys.slice(0, -1)) {
+    o[k] ??= {};
+    o = o[k] as Record<string, unknown>;
+  }
   o[keys[keys.length - 1]!] = v;
 }
 
@@ -181,6 +184,7 @@ export function CreateForm({
       case 'ids': {
         const chosen = v as number[];
         return (
+          // biome-ignore lint/a11y/useSemanticElements: an inline group inside the form's grid row; a fieldset would break the row
           <span class="id-choices" role="group" aria-label={f.label}>
             {(ids?.[f.key] ?? []).map((o) => (
               <label key={o.id} class="inline">

@@ -189,7 +189,10 @@ function CsvImport({ onDone }: { onDone: () => void }) {
       setReport(
         await send<ImportReport>('POST', `/imports/${kind}?dryRun=${dryRun}`, text, 'text/csv'),
       );
-      if (!dryRun) invalidateCatalogue(), onDone();
+      if (!dryRun) {
+        invalidateCatalogue();
+        onDone();
+      }
     } catch (e) {
       if (e instanceof ApiError && (e.details as ImportReport | undefined)?.problems)
         setReport(e.details as ImportReport);

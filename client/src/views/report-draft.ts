@@ -134,7 +134,7 @@ export function differences(
     const a = mine.outcomes[Number(id)];
     const b = theirs.outcomes[Number(id)];
     const show = (o: typeof a) =>
-      o && o.status
+      o?.status
         ? `${o.status}${o.exposureMinutes ? `, ${o.exposureMinutes} min` : ''}${o.notes ? `, “${o.notes}”` : ''}`
         : '(none)';
     if (show(a) !== show(b))

@@ -126,7 +126,11 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
         disabled={!canWrite}
         aria-invalid={!!messages[k.key]}
         aria-describedby={messages[k.key] ? `${k.key}-msg` : undefined}
-        onInput={(e) => edit((d) => void (d.conditions[k.key] = e.currentTarget.value))}
+        onInput={(e) =>
+          edit((d) => {
+            d.conditions[k.key] = e.currentTarget.value;
+          })
+        }
       />
       {messages[k.key] && (
         <span class="field-msg" id={`${k.key}-msg`}>
@@ -171,7 +175,14 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
           }}
         />
       )}
-      <form class="report-form" onSubmit={(e) => (e.preventDefault(), save(form, base))} noValidate>
+      <form
+        class="report-form"
+        onSubmit={(e) => {
+          e.preventDefault();
+          save(form, base);
+        }}
+        noValidate
+      >
         <fieldset>
           <legend>Conditions</legend>
           <div class="field-grid">{CONDITION_FIELDS.map(num)}</div>
@@ -181,7 +192,11 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
               name="timeLostReason"
               value={form.timeLostReason}
               disabled={!canWrite}
-              onInput={(e) => edit((d) => void (d.timeLostReason = e.currentTarget.value))}
+              onInput={(e) =>
+                edit((d) => {
+                  d.timeLostReason = e.currentTarget.value;
+                })
+              }
             />
             {messages.timeLostReason && <span class="field-msg">{messages.timeLostReason}</span>}
           </label>
@@ -192,7 +207,11 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
               rows={3}
               value={form.notes}
               disabled={!canWrite}
-              onInput={(e) => edit((d) => void (d.notes = e.currentTarget.value))}
+              onInput={(e) =>
+                edit((d) => {
+                  d.notes = e.currentTarget.value;
+                })
+              }
             />
           </label>
         </fieldset>
@@ -239,7 +258,11 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
                         aria-label={`outcome of block ${b.id}`}
                         value={o.status}
                         disabled={!canWrite}
-                        onChange={(e) => set((x) => void (x.status = e.currentTarget.value))}
+                        onChange={(e) =>
+                          set((x) => {
+                            x.status = e.currentTarget.value;
+                          })
+                        }
                       >
                         <option value="">(not reported)</option>
                         {STATUSES.map((s) => (
@@ -258,7 +281,9 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
                         value={o.exposureMinutes}
                         disabled={!canWrite}
                         onInput={(e) =>
-                          set((x) => void (x.exposureMinutes = e.currentTarget.value))
+                          set((x) => {
+                            x.exposureMinutes = e.currentTarget.value;
+                          })
                         }
                       />
                       {msg && <span class="field-msg">{msg}</span>}
@@ -268,7 +293,11 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
                         aria-label={`notes on block ${b.id}`}
                         value={o.notes}
                         disabled={!canWrite}
-                        onInput={(e) => set((x) => void (x.notes = e.currentTarget.value))}
+                        onInput={(e) =>
+                          set((x) => {
+                            x.notes = e.currentTarget.value;
+                          })
+                        }
                       />
                     </td>
                   </tr>

@@ -133,9 +133,11 @@ export function SchedulePanel({
           <button
             type="button"
             disabled={busy}
-            onClick={() => (
-              setPreview(null), onProposal?.(null), setEdits({ pins: {}, remove: [] })
-            )}
+            onClick={() => {
+              setPreview(null);
+              onProposal?.(null);
+              setEdits({ pins: {}, remove: [] });
+            }}
           >
             Discard proposal
           </button>

@@ -112,7 +112,13 @@ export function SeasonPlanPanel({
   const p = preview?.plan;
   return (
     <Section title="Season plan" id="season-plan">
-      <form class="row-form" onSubmit={(e) => (e.preventDefault(), propose())}>
+      <form
+        class="row-form"
+        onSubmit={(e) => {
+          e.preventDefault();
+          propose();
+        }}
+      >
         <label>
           first night (local date){' '}
           <input
@@ -155,7 +161,10 @@ export function SeasonPlanPanel({
           <button
             type="button"
             disabled={busy}
-            onClick={() => (setPreview(null), onProposal(null))}
+            onClick={() => {
+              setPreview(null);
+              onProposal(null);
+            }}
           >
             Discard
           </button>

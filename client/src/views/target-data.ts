@@ -94,7 +94,10 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
   ]);
   const p = main.predictions;
   let k = 0;
-  const take = (n: number) => p.slice(k, (k += n));
+  const take = (n: number) => {
+    k += n;
+    return p.slice(k - n, k);
+  };
   const trackP = take(track.length);
   const tickP = take(ticks.length);
   const mP = take(mEpochs.length);

@@ -53,7 +53,7 @@ export const exportCommand: Command = {
       switch (what) {
         case 'measurements': {
           const rows = await store.exports.measurements({ targetId });
-          return values.json ? JSON.stringify(rows, null, 2) + '\n' : measurementsCsv(rows);
+          return values.json ? `${JSON.stringify(rows, null, 2)}\n` : measurementsCsv(rows);
         }
         case 'ephemeris': {
           if (targetId === undefined || values.from === undefined || values.to === undefined)
@@ -63,7 +63,7 @@ export const exportCommand: Command = {
             orbit,
             resolveEpochs({ start: values.from, end: values.to, step: values.step ?? '30d' }),
           );
-          return values.json ? JSON.stringify(rows, null, 2) + '\n' : ephemerisCsv(rows);
+          return values.json ? `${JSON.stringify(rows, null, 2)}\n` : ephemerisCsv(rows);
         }
         case 'calendar': {
           const campaignId = id('campaign-id', values['campaign-id']);

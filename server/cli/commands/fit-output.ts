@@ -85,7 +85,7 @@ export function summary(r: FitResult): string {
     lines.push(
       `posterior: ${r.posterior.samples} draws from an ensemble of ${r.posterior.ensembleSize} × ${r.posterior.rounds} rounds (seed ${r.posterior.seed}), acceptance ${r.posterior.acceptance.toFixed(2)}`,
     );
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }
 
 /** Table output: everything. CSV: the quantities, or the residuals with `residuals`. */
@@ -95,7 +95,7 @@ export function renderFit(
   residuals: boolean,
   extra = '',
 ): string {
-  if (format === 'json') return JSON.stringify(r, null, 2) + '\n';
+  if (format === 'json') return `${JSON.stringify(r, null, 2)}\n`;
   const cols = r.posterior ? [...QUANTITY_COLUMNS, ...PERCENTILE_COLUMNS] : QUANTITY_COLUMNS;
   if (format === 'csv')
     return residuals ? formatCsv(r.residuals, RESIDUAL_COLUMNS) : formatCsv(quantityRows(r), cols);

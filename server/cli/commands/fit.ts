@@ -234,7 +234,7 @@ export const fitCommand: Command = {
               `stored ${prepared.targets[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`,
           )
           .join('');
-        if (format === 'json') return JSON.stringify({ solutions: rows, result }, null, 2) + '\n';
+        if (format === 'json') return `${JSON.stringify({ solutions: rows, result }, null, 2)}\n`;
       }
       return renderFit(result, format, values.residuals === true, note);
     });

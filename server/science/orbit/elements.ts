@@ -1,6 +1,6 @@
 /**
  * Validating orbits and converting between Campbell elements and Thiele–Innes constants.
- * Conventions (DESIGN.md): Δδ = A·X + F·Y, Δα* = B·X + G·Y with X = cos E − e, Y = √(1−e²)·sin E.
+ * Conventions (docs/DESIGN.md): Δδ = A·X + F·Y, Δα* = B·X + G·Y with X = cos E − e, Y = √(1−e²)·sin E.
  */
 import { DEG, JULIAN_YEAR_DAYS } from '../constants.ts';
 import { InputError, requireFinite } from '../errors.ts';
@@ -260,7 +260,9 @@ function validateCovariance(input: CovarianceInput, field: string): Covariance {
   matrix.forEach((row, r) => {
     if (!Array.isArray(row) || row.length !== n)
       throw new InputError(`${field}.matrix.${r}`, row, `must have ${n} columns`);
-    row.forEach((v, c) => requireFinite(`${field}.matrix.${r}.${c}`, v));
+    row.forEach((v, c) => {
+      requireFinite(`${field}.matrix.${r}.${c}`, v);
+    });
   });
   for (let r = 0; r < n; r++) {
     if (matrix[r]![r]! < 0)

@@ -71,7 +71,9 @@ export function ephemeris(
   for (let i = 0; i < n; i++) angle.add(pa * n + i);
   const flatten = (c: PredictionColumns) => {
     const v = new Float64Array(fields.length * n);
-    fields.forEach((f, k) => v.set(c[f], k * n));
+    fields.forEach((f, k) => {
+      v.set(c[f], k * n);
+    });
     return v;
   };
   const sigma = linearSigma(orbit, (o) => flatten(predictBatch(o, jd)), angle);

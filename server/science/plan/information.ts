@@ -65,8 +65,14 @@ export function informationModel(orbit: Orbit): InformationModel {
   let any = false;
   parameters.forEach((p, i) => {
     const v = getParameter(orbit, p);
-    if (p === 'periodYears') (g[i] = -2 / v), (any = true);
-    if (p === 'semiMajorAxisArcsec' || p === 'distancePc') (g[i] = 3 / v), (any = true);
+    if (p === 'periodYears') {
+      g[i] = -2 / v;
+      any = true;
+    }
+    if (p === 'semiMajorAxisArcsec' || p === 'distancePc') {
+      g[i] = 3 / v;
+      any = true;
+    }
   });
   return { orbit, parameters, prior, nominalPrior, lnMassGradient: any ? g : null };
 }

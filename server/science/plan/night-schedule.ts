@@ -159,7 +159,10 @@ export function scheduleOnGrid(
     throw new InputError('method', method, `must be one of ${SCHEDULE_METHODS.join(', ')}`);
   const gridOf = (i: number) => {
     let g = cache.get(i);
-    if (!g) cache.set(i, (g = targetGrid(grid, targets[i]!)));
+    if (!g) {
+      g = targetGrid(grid, targets[i]!);
+      cache.set(i, g);
+    }
     return g;
   };
   const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => ({

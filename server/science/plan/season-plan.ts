@@ -271,7 +271,10 @@ export function planSeason(
           for (let i = 0; i + slots < g.edgeJd.length; i++) {
             if (okRun[i]! >= slots + 1) {
               const q = blockQuality(tg, i, slots);
-              if (q > bq) (bq = q), (best = i);
+              if (q > bq) {
+                bq = q;
+                best = i;
+              }
             }
           }
           if (best < 0) {
@@ -317,7 +320,9 @@ export function planSeason(
       m,
       Float64Array.from(opts, (o) => o.jd),
     );
-    opts.forEach((o, k) => (o.jac = jac[k]!));
+    opts.forEach((o, k) => {
+      o.jac = jac[k]!;
+    });
   });
   const planned = models.map((m) => (m ? new Float64Array(m.parameters.length ** 2) : null));
   // Kept blocks that count are epochs of the season: their information is in before anything is chosen.
@@ -334,9 +339,9 @@ export function planSeason(
         m,
         Float64Array.from(list, ({ k }) => (k.startJd + k.endJd) / 2),
       );
-      list.forEach(({ k }, j) =>
-        addInformation(info[ti]!, jac[j]!, m.parameters.length, k.kind, precision),
-      );
+      list.forEach(({ k }, j) => {
+        addInformation(info[ti]!, jac[j]!, m.parameters.length, k.kind, precision);
+      });
     });
   addKept(planned);
   const gradients = models.map((m) => {
@@ -464,8 +469,10 @@ export function planSeason(
             if (
               sc > bestScore + 1e-12 ||
               (Math.abs(sc - bestScore) <= 1e-12 && best && o.quality > best.quality + 1e-12)
-            )
-              (best = o), (bestScore = sc);
+            ) {
+              best = o;
+              bestScore = sc;
+            }
           }
           if (best) break;
         }
@@ -532,7 +539,10 @@ export function planSeason(
       for (const o of optionsOf[ti]!) {
         if (o.used || !fitsNight(ti, o)) continue;
         const sc = score(ti, cov, o);
-        if (sc > bestScore) (best = o), (bestScore = sc);
+        if (sc > bestScore) {
+          best = o;
+          bestScore = sc;
+        }
       }
       if (best)
         take(

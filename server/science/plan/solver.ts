@@ -236,7 +236,7 @@ export function solveGreedy(p: SolverProblem, maxPasses = 6): Placement[] {
 function improve(
   p: SolverProblem,
   order: number[],
-  peak: number[],
+  _peak: number[],
   maxPasses: number,
 ): Placement[] {
   const tl = new Timeline(p);

@@ -15,7 +15,7 @@ import { bodyPlace } from './sun-moon.ts';
 import { normalize, raDecFromVector, rotate, type Vec3 } from './vectors.ts';
 
 /** Sidereal days per solar day (rate of Greenwich sidereal time; IERS Conventions 2010, from memory). */
-const SIDEREAL_PER_SOLAR = 1.00273781191135448;
+const SIDEREAL_PER_SOLAR = 1.0027378119113546;
 
 export interface NightFrame {
   site: Site;

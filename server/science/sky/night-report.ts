@@ -191,8 +191,8 @@ export function nightReport(
         moonSeparationDeg: [],
         closedBy: [],
       };
-      const mask: number[] | undefined =
-        c.mask.length > 0 ? (curve.horizonMaskDeg = []) : undefined;
+      const mask: number[] | undefined = c.mask.length > 0 ? [] : undefined;
+      if (mask) curve.horizonMaskDeg = mask;
       for (const jd of curveJd) {
         const s = fast(jd);
         const x = airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg);

@@ -16,7 +16,7 @@ import { apparentAltitudeDeg, trueAltitudeDeg } from './refraction.ts';
 import { maskAltitudeDeg, maskMaxAltitudeDeg, type Site } from './site.ts';
 import { cosLimitHourAngle, countUp } from './season-count.ts';
 import { icrsDirection, type Target } from './target.ts';
-import { type Vec3 } from './vectors.ts';
+import type { Vec3 } from './vectors.ts';
 import {
   periapses,
   summarise,

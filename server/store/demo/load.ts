@@ -31,7 +31,10 @@ import { nowIso } from '../../clock.ts';
 /** A small deterministic generator (LCG) so the demo is the same on every start. */
 function noise(seed: number) {
   let s = seed >>> 0;
-  const uniform = () => (s = (Math.imul(s, 1_664_525) + 1_013_904_223) >>> 0) / 2 ** 32;
+  const uniform = () => {
+    s = (Math.imul(s, 1_664_525) + 1_013_904_223) >>> 0;
+    return s / 2 ** 32;
+  };
   return {
     uniform,
     gauss: () => Math.sqrt(-2 * Math.log(uniform() + 1e-12)) * Math.cos(2 * Math.PI * uniform()),

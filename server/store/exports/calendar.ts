@@ -82,7 +82,7 @@ export async function campaignCalendar(
       .innerJoin(systems, eq(systems.id, targets.systemId))
       .where(inArray(targets.id, targetIds));
     for (const t of named) {
-      let found;
+      let found: Awaited<ReturnType<typeof currentOrbit>>;
       try {
         found = await currentOrbit(db, t.id);
       } catch (err) {

@@ -74,7 +74,7 @@ export async function campaignPlanningInput(
     : [];
   const targets = [];
   for (const { t, s } of rows) {
-    let orbit;
+    let orbit: Awaited<ReturnType<typeof currentOrbit>>['solution']['orbit'] | undefined;
     try {
       orbit = (await currentOrbit(db, t.id)).solution.orbit;
     } catch (err) {

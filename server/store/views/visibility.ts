@@ -52,7 +52,7 @@ export async function nightVisibility(
           .where(inArray(targets.id, targetIds));
   const skyTargets = [];
   for (const { t, s } of rows) {
-    let orbit;
+    let orbit: Awaited<ReturnType<typeof currentOrbit>>['solution']['orbit'] | undefined;
     try {
       orbit = (await currentOrbit(db, t.id)).solution.orbit;
     } catch (err) {

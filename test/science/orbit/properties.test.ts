@@ -205,7 +205,7 @@ describe('orbit properties (fast-check)', () => {
   });
 
   it('puts the Keplerian radial-velocity extrema at the nodes (v_r = K[cos(ν+ω) + e cos ω])', () => {
-    // DESIGN.md's sign convention: the ascending node is where the star recedes fastest.
+    // docs/DESIGN.md's sign convention: the ascending node is where the star recedes fastest.
     fc.assert(
       fc.property(elementsArb, (d) => {
         const o = orbitOf({
@@ -244,6 +244,8 @@ describe('orbit properties (fast-check)', () => {
     });
     const jd = Float64Array.from({ length: 50 }, (_, i) => o.periapsisJd + i * 37.3);
     const batch = predictBatch(o, jd);
-    jd.forEach((t, i) => expect(predict(o, t).radialVelocityKmS).toBe(batch.radialVelocityKmS[i]));
+    jd.forEach((t, i) => {
+      expect(predict(o, t).radialVelocityKmS).toBe(batch.radialVelocityKmS[i]);
+    });
   });
 });

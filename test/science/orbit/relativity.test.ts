@@ -22,12 +22,12 @@ import {
 
 describe('relativistic terms and constants', () => {
   it('gives the Sun a Schwarzschild radius of 2953.25 m', () => {
-    // IAU 2015 Resolution B3 nominal GM☉ = 1.3271244e20 m³/s² → 2GM/c² = 2953.25 m (REFERENCES.md)
+    // IAU 2015 Resolution B3 nominal GM☉ = 1.3271244e20 m³/s² → 2GM/c² = 2953.25 m (docs/REFERENCES.md)
     expect(schwarzschildRadiusM(GM_SUN_M3_PER_S2)).toBeCloseTo(2953.25, 2);
   });
 
   it('gives the Earth a Schwarzschild radius of 8.870 mm, a few millimetres', () => {
-    // GM⊕ = 3.986004418e14 m³/s², IERS Conventions 2010 → 8.870 mm (REFERENCES.md);
+    // GM⊕ = 3.986004418e14 m³/s², IERS Conventions 2010 → 8.870 mm (docs/REFERENCES.md);
     // "a few millimetres": common practice, no source.
     const rs = schwarzschildRadiusM(GM_EARTH_M3_PER_S2);
     expect(rs * 1000).toBeCloseTo(8.87, 3);
@@ -37,14 +37,14 @@ describe('relativistic terms and constants', () => {
 
   it("gives Mercury's perihelion advance as 42.98″ per century", () => {
     // Will, Living Reviews in Relativity (2014) (from memory): 42.98″/century with a = 0.387098 au,
-    // e = 0.205630, P = 87.9691 d (REFERENCES.md).
+    // e = 0.205630, P = 87.9691 d (docs/REFERENCES.md).
     const perOrbit = precessionPerOrbitRad(GM_SUN_M3_PER_S2, 0.387098 * AU_M, 0.20563);
     const arcsecPerCentury = ((perOrbit * 180 * 3600) / Math.PI) * (36525 / 87.9691);
     expect(Math.abs(arcsecPerCentury - 42.98)).toBeLessThan(0.01);
   });
 
   it('gives a gravitational redshift of 636 m/s at the solar surface', () => {
-    // GM☉/(R☉c) with IAU 2015 B3 nominal R☉ = 695 700 km: 636 m/s (REFERENCES.md); measured 638 ± 6 m/s,
+    // GM☉/(R☉c) with IAU 2015 B3 nominal R☉ = 695 700 km: 636 m/s (docs/REFERENCES.md); measured 638 ± 6 m/s,
     // González Hernández et al., A&A (2020) (from memory).
     expect(gravitationalRedshiftKmS(GM_SUN_M3_PER_S2, R_SUN_M) * 1000).toBeCloseTo(636, 0);
   });
@@ -117,7 +117,7 @@ describe('relativistic terms in a prediction', () => {
   it('reports each term at periapsis with its textbook size, and adds only the switched-on ones', () => {
     const q = physicalQuantities(off);
     const p = predict(off, T);
-    // Size at periapsis: GM/(r c) with r = a(1−e), and v²/(2c) with the vis-viva speed (formulas of DESIGN.md).
+    // Size at periapsis: GM/(r c) with r = a(1−e), and v²/(2c) with the vis-viva speed (formulas of docs/DESIGN.md).
     expect(p.gravitationalRedshiftKmS!).toBeCloseTo(q.gravitationalRedshiftAtPeriapsisKmS, 6);
     expect(p.transverseDopplerKmS!).toBeCloseTo(q.transverseDopplerAtPeriapsisKmS, 6);
     expect(p.radialVelocityKmS!).toBeCloseTo(-12 + p.keplerianRvKmS!, 9);

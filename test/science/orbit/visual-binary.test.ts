@@ -20,7 +20,7 @@ describe('visual binary, Meeus Example 57.a', () => {
   });
 
   it('puts the offsets in the quadrant of θ: north-west (Δα* < 0, Δδ > 0)', () => {
-    // θ = 318° is 42° west of north: the position-angle convention of DESIGN.md (north through east).
+    // θ = 318° is 42° west of north: the position-angle convention of docs/DESIGN.md (north through east).
     expect(p.dRaMas).toBeLessThan(0);
     expect(p.dDecMas).toBeGreaterThan(0);
     expect(Math.hypot(p.dRaMas, p.dDecMas)).toBeCloseTo(p.separationMas, 9);

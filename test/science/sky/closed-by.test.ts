@@ -30,8 +30,14 @@ describe('closedBy on the curves', () => {
           const outside = t.windows.every(
             (w) => ms < Date.parse(w.start.utc) - 2000 || ms > Date.parse(w.end.utc) + 2000,
           );
-          if (inside) expect(curve.closedBy[i]).toBeNull(), open++;
-          if (outside) expect(curve.closedBy[i]).not.toBeNull(), closed++;
+          if (inside) {
+            expect(curve.closedBy[i]).toBeNull();
+            open++;
+          }
+          if (outside) {
+            expect(curve.closedBy[i]).not.toBeNull();
+            closed++;
+          }
         });
       }
     }

@@ -74,7 +74,7 @@ describe('batch altitudes', () => {
       jd,
     );
     let worst = 0;
-    targets.forEach((t, i) =>
+    targets.forEach((t, i) => {
       jd.forEach((j, k) => {
         worst = Math.max(
           worst,
@@ -82,8 +82,8 @@ describe('batch altitudes', () => {
             grid[i * jd.length + k]! - skyPlaceExact(icrsDirection(t, j), j, site).altitudeDeg,
           ) * 3600,
         );
-      }),
-    );
+      });
+    });
     expect(grid).toHaveLength(200);
     expect(worst).toBeLessThan(1); // issue 3 tolerance, exact path as reference
   });

@@ -9,7 +9,10 @@ import {
 /** Park–Miller minimal standard generator: reproducible across runs. */
 export function seeded(seed: number): () => number {
   let s = seed;
-  return () => (s = (s * 16807) % 2147483647) / 2147483647;
+  return () => {
+    s = (s * 16807) % 2147483647;
+    return s / 2147483647;
+  };
 }
 
 const ZONES = [

@@ -34,7 +34,9 @@ describe('Moon altitude curve', () => {
       const curve = r.moon.curve!;
       expect(curve.utc).toHaveLength(curve.altitudeDeg.length);
       expect(curve.utc.length).toBeGreaterThanOrEqual(69); // 23–25 h every 20 min, both ends (common practice, no source)
-      curve.utc.forEach((u, i) => errs.push(curve.altitudeDeg[i]! - moonAltitudeDeg(site, u)));
+      curve.utc.forEach((u, i) => {
+        errs.push(curve.altitudeDeg[i]! - moonAltitudeDeg(site, u));
+      });
     }
     const { worst, rms } = stats(errs);
     console.log(

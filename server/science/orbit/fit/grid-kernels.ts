@@ -90,9 +90,9 @@ export function astrometryColumns(obs: Observation[]): Astrometry {
   const col = (f: (r: (typeof rows)[number]) => number) => Float64Array.from(rows, f);
   const n = rows.length;
   const prefixSumWxx = new Float64Array(n + 1);
-  rows.forEach(
-    (r, q) => (prefixSumWxx[q + 1] = prefixSumWxx[q]! + r.wx * r.x * r.x + r.wy * r.y * r.y),
-  );
+  rows.forEach((r, q) => {
+    prefixSumWxx[q + 1] = prefixSumWxx[q]! + r.wx * r.x * r.x + r.wy * r.y * r.y;
+  });
   // A prefix of fewer than 8 epochs rarely bounds anything; the last stop is the full sum.
   const stops = Int32Array.from(
     new Set(

@@ -191,9 +191,9 @@ function velocityPart(node: GridNode, rv: Observation[], table: AnomalyTable): v
   }
   node.gamma = rhs[0]!;
   node.signedDistancePc = rhs[1]!;
-  rv.forEach(
-    (m, q) => (node.chi2 += (m.value[0] - rhs[0]! - rhs[1]! * basis[q]!) ** 2 / m.sigma[0] ** 2),
-  );
+  rv.forEach((m, q) => {
+    node.chi2 += (m.value[0] - rhs[0]! - rhs[1]! * basis[q]!) ** 2 / m.sigma[0] ** 2;
+  });
 }
 
 /** Nodes kept from the astrometric pass for the velocity pass. */

@@ -37,7 +37,9 @@ export function linearSplit(problem: Problem, loss: 'gaussian' | 'huber'): Split
     return null;
   const lin: number[] = [],
     nl: number[] = [];
-  problem.free.forEach((idx, j) => (LINEAR_KEYS.has(L.params[idx]!.key) ? lin : nl).push(j));
+  problem.free.forEach((idx, j) => {
+    (LINEAR_KEYS.has(L.params[idx]!.key) ? lin : nl).push(j);
+  });
   return nl.length > 0 && lin.length > 0 ? { lin, nl } : null;
 }
 
@@ -71,10 +73,14 @@ export function conditional(problem: Problem, split: Split, x: Float64Array): Co
   if (!chol.isPositiveDefinite()) return null;
   const delta = chol.solve(Matrix.columnVector(g.map((v) => -v))).getColumn(0);
   const out = Float64Array.from(x);
-  split.lin.forEach((p, a) => (out[p] = x[p]! + delta[a]!));
+  split.lin.forEach((p, a) => {
+    out[p] = x[p]! + delta[a]!;
+  });
   let chi2 = 0;
   for (const v of r) chi2 += v * v;
-  delta.forEach((d, a) => (chi2 += g[a]! * d)); // |r + Jδ|² = |r|² + gᵀδ when JᵀJδ = −g
+  delta.forEach((d, a) => {
+    chi2 += g[a]! * d;
+  }); // |r + Jδ|² = |r|² + gᵀδ when JᵀJδ = −g
   const factor = chol.lowerTriangularMatrix;
   let logDet = 0;
   for (let a = 0; a < k; a++) logDet += 2 * Math.log(factor.get(a, a));
@@ -86,6 +92,8 @@ export function drawLinear(c: Conditional, split: Split, rng: SeededRandom): Flo
   const z = Matrix.columnVector(split.lin.map(() => rng.normal()));
   const y = solve(c.factor.transpose(), z).getColumn(0); // Lᵀy = z  ⇒  cov(y) = (LLᵀ)⁻¹
   const out = Float64Array.from(c.x);
-  split.lin.forEach((p, a) => (out[p] = c.x[p]! + y[a]!));
+  split.lin.forEach((p, a) => {
+    out[p] = c.x[p]! + y[a]!;
+  });
   return out;
 }

@@ -97,7 +97,9 @@ function drawSamples(
       : Math.max(16, 4 * keep.length);
   const expand = (y: Float64Array) => {
     const x = Float64Array.from(xBest);
-    keep.forEach((p, a) => (x[p] = y[a]!));
+    keep.forEach((p, a) => {
+      x[p] = y[a]!;
+    });
     return x;
   };
   const logPost = (y: Float64Array) => {
@@ -141,7 +143,9 @@ export function samplePosterior(sol: Solution, req: CheckedRequest, result: FitR
     const cols = desc.map(() => [] as number[]);
     for (const s of xs) {
       const t = problem.full(s);
-      starQuantities(L, t, k, nextCycle(L, t, k, asOfJd)).forEach((v, i) => cols[i]!.push(v));
+      starQuantities(L, t, k, nextCycle(L, t, k, asOfJd)).forEach((v, i) => {
+        cols[i]!.push(v);
+      });
     }
     result.stars[k]!.quantities.forEach((qt, i) => {
       qt.percentiles = desc[i]!.angle

@@ -4,7 +4,7 @@
  */
 import { TWO_PI } from '../../constants.ts';
 import type { LeastSquares } from './lm.ts';
-import { type Layout } from './layout.ts';
+import type { Layout } from './layout.ts';
 import { evaluateModel, stepFor } from './model.ts';
 
 export interface Prior {
@@ -121,7 +121,9 @@ export function makeProblem(
 ): Problem {
   const full = (x: ArrayLike<number>) => {
     const t = Float64Array.from(base);
-    free.forEach((idx, j) => (t[idx] = x[j]!));
+    free.forEach((idx, j) => {
+      t[idx] = x[j]!;
+    });
     return t;
   };
   return {
@@ -137,7 +139,9 @@ export function makeProblem(
     normalize: (x) => {
       const t = full(x);
       canonicalize(L, t);
-      free.forEach((idx, j) => (x[j] = t[idx]!));
+      free.forEach((idx, j) => {
+        x[j] = t[idx]!;
+      });
     },
   };
 }

@@ -130,11 +130,11 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
     const covNames = COVARIANCE_PARAMETERS.filter((n) => desc.some((d) => d.name === n));
     const gi = covNames.map((n) => grads[desc.findIndex((d) => d.name === n)]!);
     const matrix = gi.map(() => new Array<number>(gi.length).fill(0));
-    gi.forEach((ga, a) =>
+    gi.forEach((ga, a) => {
       gi.forEach((gb, b) => {
         if (b >= a) matrix[a]![b] = matrix[b]![a] = bilinear(C, ga, gb); // exactly symmetric
-      }),
-    );
+      });
+    });
     const o = starOrbit(L, theta, k);
     const at = (n: string) => values[desc.findIndex((d) => d.name === n)]!;
     const orbit: OrbitInput = {

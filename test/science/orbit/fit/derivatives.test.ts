@@ -77,7 +77,9 @@ function worstRelativeError(request: FitRequest): number {
     driftRaMasYr: 0.05,
     driftDecMasYr: -0.04,
   };
-  b.L.params.forEach((p, j) => (theta[j] = truthish[p.key]! * (1 + 0.01 * (j % 3))));
+  b.L.params.forEach((p, j) => {
+    theta[j] = truthish[p.key]! * (1 + 0.01 * (j % 3));
+  });
   const analytic = makeProblem(b.L, theta, b.free, b.priors);
   const numeric = finiteDifferenceProblem(analytic);
   const x = Float64Array.from(b.free, (j) => theta[j]!);

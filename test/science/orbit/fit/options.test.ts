@@ -103,7 +103,7 @@ describe('fit options', () => {
 
   it('needs the relativistic terms to fit velocities of a star that dives deep', () => {
     // Around 4 × 10⁶ M☉ at 8 kpc with e = 0.95, the gravitational redshift GM/(rc) at periapsis is a few hundred
-    // km/s against 5 km/s errors (relativity.ts, whose formula REFERENCES.md's solar-redshift value checks).
+    // km/s against 5 km/s errors (relativity.ts, whose formula docs/REFERENCES.md's solar-redshift value checks).
     // Thresholds: χ²/dof below 1.3 with the right model, above 2 without it (common practice, no source).
     const rel = {
       romer: true,

@@ -87,7 +87,8 @@ export function recover(
       let d = p.value - truthOf(truth, key, p.value);
       if (key === 'ascendingNodeDeg' || key === 'argPeriapsisDeg') d -= 360 * Math.round(d / 360);
       const z = Math.abs(d) / p.sigma;
-      const e = (per[key] ??= { worstSigma: 0, inside: 0, beyond3: 0, sumZ: 0 });
+      per[key] ??= { worstSigma: 0, inside: 0, beyond3: 0, sumZ: 0 };
+      const e = per[key];
       e.worstSigma = Math.max(e.worstSigma, z);
       e.sumZ += d / p.sigma;
       if (z > 3) e.beyond3++;

@@ -62,14 +62,14 @@ export function simulate(
   });
   if (plan.velocityJd) {
     const v = predictBatch(orbit, Float64Array.from(plan.velocityJd));
-    plan.velocityJd.forEach((jd, k) =>
+    plan.velocityJd.forEach((jd, k) => {
       out.push({
         kind: 'radial-velocity',
         epoch: jd,
         radialVelocityKmS: v.radialVelocityKmS[k]! + rng.normal() * plan.sigmaRadialVelocityKmS!,
         sigmaRadialVelocityKmS: plan.sigmaRadialVelocityKmS!,
-      }),
-    );
+      });
+    });
   }
   return out;
 }
