@@ -131,6 +131,10 @@ describe('scheduleNight', () => {
 
   it('keeps pinned blocks where they were put and re-schedules the rest; removed blocks say so', () => {
     const moved = schedule.leftOut.find((l) => /worth more/.test(l.reason));
+    expect(
+      moved,
+      'this night has more candidates than time: one is left out as worth less',
+    ).toBeDefined();
     const first = schedule.blocks[0]!;
     const pinStart = new Date(Date.parse(first.start.utc) + 5 * 60_000)
       .toISOString()
@@ -138,13 +142,12 @@ describe('scheduleNight', () => {
     const pinned = scheduleNight(SITE, CONSTRAINTS, DATE, targets, {
       candidates,
       pins: [{ id: first.id, start: pinStart }],
-      remove: moved ? [moved.id] : [],
+      remove: [moved!.id],
     });
     const p = pinned.blocks.find((b) => b.id === first.id)!;
     expect(p.pinned).toBe(true);
     expect(p.start.utc).toBe(pinStart); // the pin's start, on a slot edge
-    if (moved)
-      expect(pinned.leftOut.find((l) => l.id === moved.id)!.reason).toBe('removed by the user');
+    expect(pinned.leftOut.find((l) => l.id === moved!.id)!.reason).toBe('removed by the user');
     for (let k = 1; k < pinned.blocks.length; k++)
       expect(Date.parse(pinned.blocks[k]!.start.utc)).toBeGreaterThanOrEqual(
         Date.parse(pinned.blocks[k - 1]!.end.utc),

@@ -58,6 +58,7 @@ describe('season plan around kept blocks', () => {
       `${night.d}: ${night.on.length} epochs before, ${tonight.length} new around 2 kept blocks`,
     );
     expect(tonight.length).toBeGreaterThan(0); // the night is planned, not skipped (the rule under test)
+    expect(kept.length).toBeGreaterThan(0);
     let closest = Infinity;
     for (const e of tonight) {
       const s = isoToJd(e.block.start.utc),

@@ -21,41 +21,10 @@ import { validateTarget } from '../../../server/science/sky/index.ts';
 import { SeededRandom } from '../../../server/science/random.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
 import { validateLimits } from '../../../server/science/sky/index.ts';
-import { InputError } from '../../../server/science/errors.ts';
 import { SITE, isoToJd, safeAt } from './helpers.ts';
 
 // A loose Moon limit so that every cadence goal below is feasible; the Moon's effect is checked apart.
 const CONSTRAINTS = validateLimits({ highestAirmass: 2, leastMoonDistanceDeg: 5 }, SITE);
-
-/** The fitting engine's name for an astrometric offset (it is being renamed from "offset" to "offsets"). */
-function offsetKind(): string {
-  const probe = (kind: string) =>
-    fitOrbits({
-      stars: [
-        {
-          name: 'p',
-          measurements: [
-            {
-              kind,
-              epoch: 2461000,
-              dRaMas: 1,
-              dDecMas: 1,
-              sigmaRaMas: 1,
-              sigmaDecMas: 1,
-              sigmaDRaMas: 1,
-              sigmaDDecMas: 1,
-            } as never,
-          ],
-        },
-      ],
-    });
-  try {
-    probe('offset');
-  } catch (err) {
-    if (err instanceof InputError && err.field.endsWith('.kind')) return 'offsets';
-  }
-  return 'offset';
-}
 
 const ORBIT: OrbitInput = {
   elements: {
@@ -168,7 +137,7 @@ describe('expected shrinkage against a refit', () => {
     const sigma = 1.5;
     const simulate = (jds: number[]) => {
       const p = predictBatch(truth, Float64Array.from(jds));
-      const kind = offsetKind() as 'offset';
+      const kind = 'offsets' as const;
       return jds.map((jd, k) => ({
         kind,
         epoch: jd,
