@@ -1,10 +1,12 @@
 /**
- * The one HTTP error type and the one error handler. Every error leaves the server as
- * `{ "error": { "code", "message", "details" } }` with the status that fits it.
+ * The one HTTP error type, the one table from error classes to statuses, and the one error handler.
+ * Every error leaves the server as `{ "error": { "code", "message", "details" } }`.
  */
 import type { Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
 import { ComputationError, InputError } from '../science/errors.ts';
+import { FitRefusal } from '../science/orbit/fit/index.ts';
+import { ConflictError, ImportRejected, NotFoundError } from '../store/index.ts';
 
 export type ErrorStatus = 400 | 401 | 403 | 404 | 405 | 409 | 413 | 415 | 422 | 500 | 503;
 
@@ -26,48 +28,78 @@ export interface ErrorBody {
   error: { code: string; message: string; details?: unknown };
 }
 
+/** How one class of error leaves the server: its status, code and details. */
+interface ErrorRule<E extends Error> {
+  type: abstract new (...args: never[]) => E;
+  toHttp: (err: E) => HttpError;
+}
+const rule = <E extends Error>(
+  type: ErrorRule<E>['type'],
+  toHttp: (err: E) => HttpError,
+): ErrorRule<Error> => ({ type, toHttp: toHttp as (err: Error) => HttpError });
+
+/** The statuses hono's own exceptions carry, in our codes and words. */
+function fromHonoException(err: HTTPException): HttpError {
+  const status = err.status as number;
+  if (status === 413)
+    return new HttpError(
+      413,
+      'body_too_large',
+      'the request body is larger than the server accepts',
+    );
+  if (status === 415)
+    return new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
+  if (status === 400)
+    return new HttpError(
+      400,
+      'malformed_body',
+      err.message || 'the request body is not valid JSON',
+    );
+  if (status === 401)
+    return new HttpError(401, 'unauthenticated', err.message || 'a valid bearer token is required');
+  const known = status >= 400 && status < 600;
+  return new HttpError(known ? (status as ErrorStatus) : 500, 'http_error', err.message);
+}
+
+/**
+ * Every error class that may reach HTTP, most specific first (a subclass before its parent):
+ * the one place an error becomes a status. Anything else is a 500 `internal`, logged.
+ */
+export const ERROR_TABLE: readonly ErrorRule<Error>[] = [
+  rule(HttpError, (e: HttpError) => e),
+  rule(
+    NotFoundError,
+    (e: NotFoundError) =>
+      new HttpError(404, 'not_found', e.message, { entity: e.entity, id: e.id }),
+  ),
+  rule(ConflictError, (e: ConflictError) => new HttpError(409, e.code, e.message, e.details)),
+  rule(
+    ImportRejected,
+    (e: ImportRejected) => new HttpError(422, 'import_rejected', e.message, e.report),
+  ),
+  rule(
+    InputError,
+    (e: InputError) =>
+      new HttpError(422, 'invalid_value', e.message, {
+        field: e.field,
+        value: e.value,
+        rule: e.rule,
+        ...(e.problems.length > 0 ? { problems: e.problems } : {}),
+      }),
+  ),
+  rule(
+    FitRefusal,
+    (e: FitRefusal) =>
+      new HttpError(422, 'fit_refused', e.message, { reason: e.reason, parameters: e.parameters }),
+  ),
+  rule(ComputationError, (e: ComputationError) => new HttpError(422, 'no_solution', e.message)),
+  rule(HTTPException, fromHonoException),
+];
+
 /** Map anything thrown into our status and JSON body. */
 export function toHttpError(err: unknown): HttpError {
-  if (err instanceof HttpError) return err;
-  if (err instanceof InputError) {
-    return new HttpError(422, 'invalid_value', err.message, {
-      field: err.field,
-      value: err.value,
-      rule: err.rule,
-    });
-  }
-  if (err instanceof ComputationError) return new HttpError(422, 'no_solution', err.message);
-  if (err instanceof HTTPException) {
-    const status = err.status as number;
-    if (status === 413)
-      return new HttpError(
-        413,
-        'body_too_large',
-        'the request body is larger than the server accepts',
-        undefined,
-        { connection: 'close' },
-      );
-    if (status === 415)
-      return new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
-    if (status === 400)
-      return new HttpError(
-        400,
-        'malformed_body',
-        err.message || 'the request body is not valid JSON',
-      );
-    if (status === 401)
-      return new HttpError(
-        401,
-        'unauthenticated',
-        err.message || 'a valid bearer token is required',
-      );
-    return new HttpError(
-      status >= 400 && status < 600 ? (status as ErrorStatus) : 500,
-      'http_error',
-      err.message,
-    );
-  }
-  return new HttpError(500, 'internal', 'internal error');
+  const found = ERROR_TABLE.find((r) => err instanceof r.type);
+  return found ? found.toHttp(err as Error) : new HttpError(500, 'internal', 'internal error');
 }
 
 export function errorResponse(c: Context, err: unknown): Response {

@@ -4,15 +4,11 @@
  * - With the store: POST /targets/{id}/fit and /systems/{id}/fit fit stored measurements (preview,
  *   viewer role); POST …/fit/accept runs the same fit and stores each star's solution as a new
  *   orbit-solution version, made current (lead role; earlier versions stay).
- * A fit the data cannot support answers 422 `fit_refused` with the reason and the parameters.
+ * A fit the data cannot support answers 422 `fit_refused` with the reason and the parameters
+ * (errors.ts maps FitRefusal).
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import {
-  FitRefusal,
-  fitOrbits,
-  type FitRequest,
-  type FitResult,
-} from '../science/orbit/fit/index.ts';
+import { fitOrbits } from '../science/orbit/fit/index.ts';
 import type { Store } from '../store/index.ts';
 import { identify, requireRole } from './auth.ts';
 import { HttpError } from './errors.ts';
@@ -174,20 +170,6 @@ const StoredAccept = z
   .object({ solutions: z.array(OrbitSolutionRowSchema), result: FitResultSchema })
   .strict();
 
-/** The fit, with a refusal turned into 422 naming what is missing. */
-function runFit(request: FitRequest): FitResult {
-  try {
-    return fitOrbits(request);
-  } catch (err) {
-    if (err instanceof FitRefusal)
-      throw new HttpError(422, 'fit_refused', err.message, {
-        reason: err.reason,
-        parameters: err.parameters,
-      });
-    throw err;
-  }
-}
-
 export function fitRoutes(store?: Store) {
   const app = resourceApp();
   app.openapi(
@@ -199,7 +181,7 @@ export function fitRoutes(store?: Store) {
       request: body(FitBody),
       responses: { 200: fitted, ...errorResponses },
     }),
-    (c) => c.json(runFit(c.req.valid('json')), 200),
+    (c) => c.json(fitOrbits(c.req.valid('json')), 200),
   );
   if (!store) return app;
   for (const path of [
@@ -242,7 +224,7 @@ export function fitRoutes(store?: Store) {
         const { notes: _notes, targetIds, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
         const prepared = await store.fits.prepare(ids, options);
-        return c.json({ targets: prepared.targets, result: runFit(prepared.request) }, 200);
+        return c.json({ targets: prepared.targets, result: fitOrbits(prepared.request) }, 200);
       },
     );
     app.openapi(
@@ -263,7 +245,7 @@ export function fitRoutes(store?: Store) {
         const { notes, targetIds, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
         const prepared = await store.fits.prepare(ids, options);
-        const result = runFit(prepared.request);
+        const result = fitOrbits(prepared.request);
         const solutions = await store.fits.accept(
           { userId: user.id },
           prepared,

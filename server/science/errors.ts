@@ -1,3 +1,10 @@
+/** One broken rule: the dotted field, the value as given, the rule in words. */
+export interface FieldProblem {
+  field: string;
+  value: unknown;
+  rule: string;
+}
+
 /**
  * The one error type the science layer throws for bad input. It names the field, the value and the
  * rule that was broken, so every interface (HTTP, CLI) can show it as it is.
@@ -11,6 +18,8 @@ export class InputError extends Error {
     readonly value: unknown,
     /** The rule it broke, in words (e.g. `must satisfy 0 ≤ e < 1`). */
     readonly rule: string,
+    /** Every problem found when a whole record was checked at once (the first is the one above). */
+    readonly problems: readonly FieldProblem[] = [],
   ) {
     super(`${field}: ${describeValue(value)} ${rule}`);
   }

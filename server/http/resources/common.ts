@@ -1,42 +1,18 @@
 /**
- * What every store resource shares: error mapping, paging, the bearer security note for the
+ * What every store resource shares: the error handler, paging, the bearer security note for the
  * OpenAPI document, and the five routes of a plain resource (list, read, create, update, delete).
  */
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import type { Context } from 'hono';
-import { InputError } from '../../science/errors.ts';
-import {
-  ConflictError,
-  NotFoundError,
-  type Repository,
-  type Role,
-  type Store,
-} from '../../store/index.ts';
+import type { Repository, Role, Store } from '../../store/index.ts';
 import { requireRole, type AuthEnv } from '../auth.ts';
-import { HttpError, errorResponse } from '../errors.ts';
+import { errorResponse } from '../errors.ts';
 import { errorResponses, json } from '../schemas/responses.ts';
 import { validationHook } from '../validation.ts';
 
-/** Store errors to HTTP: 404 missing row, 409 clash with stored state, 422 a value breaks a rule. */
-export function storeErrorToHttp(err: unknown): unknown {
-  if (err instanceof NotFoundError)
-    return new HttpError(404, 'not_found', err.message, { entity: err.entity, id: err.id });
-  if (err instanceof ConflictError) return new HttpError(409, err.code, err.message, err.details);
-  if (err instanceof InputError) {
-    const problems = (err as InputError & { problems?: unknown }).problems;
-    return new HttpError(422, 'invalid_value', err.message, {
-      field: err.field,
-      value: err.value,
-      rule: err.rule,
-      ...(problems ? { problems } : {}),
-    });
-  }
-  return err;
-}
-
 export function resourceApp() {
   const app = new OpenAPIHono<AuthEnv>({ defaultHook: validationHook });
-  app.onError((err, c) => errorResponse(c, storeErrorToHttp(err)));
+  app.onError((err, c) => errorResponse(c, err));
   return app;
 }
 

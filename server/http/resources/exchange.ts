@@ -3,13 +3,7 @@
  * `dryRun=true` to check only), measurements as CSV or JSON, and each campaign's iCalendar feed.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import {
-  CSV_KINDS,
-  ImportRejected,
-  measurementsCsv,
-  type CsvKind,
-  type Store,
-} from '../../store/index.ts';
+import { CSV_KINDS, measurementsCsv, type CsvKind, type Store } from '../../store/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { requireRole } from '../auth.ts';
 import { HttpError } from '../errors.ts';
@@ -72,16 +66,10 @@ export function exchangeRoutes(store: Store) {
       const type = c.req.header('content-type') ?? '';
       if (!/^text\/csv\b/i.test(type))
         throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
-      try {
-        const report = await store.importCsv({ userId: user.id }, kind, await c.req.text(), {
-          dryRun: valid(c, 'query').dryRun === 'true',
-        });
-        return c.json(report, 200);
-      } catch (err) {
-        if (err instanceof ImportRejected)
-          throw new HttpError(422, 'import_rejected', err.message, err.report);
-        throw err;
-      }
+      const report = await store.importCsv({ userId: user.id }, kind, await c.req.text(), {
+        dryRun: valid(c, 'query').dryRun === 'true',
+      });
+      return c.json(report, 200);
     }),
   );
   app.openapi(

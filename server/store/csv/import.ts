@@ -135,9 +135,10 @@ async function toInput(
 
 function problemsOf(err: unknown, line: number): ImportProblem[] {
   if (err instanceof InputError) {
-    const list: RowProblem[] = (err as InputError & { problems?: RowProblem[] }).problems ?? [
-      { field: err.field, value: err.value, rule: err.rule },
-    ];
+    const list: readonly RowProblem[] =
+      err.problems.length > 0
+        ? err.problems
+        : [{ field: err.field, value: err.value, rule: err.rule }];
     return list.map((p) => ({ line, column: columnOf(p.field), value: p.value, rule: p.rule }));
   }
   if (err instanceof Error && ['ConflictError', 'NotFoundError'].includes(err.name))

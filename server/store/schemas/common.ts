@@ -4,7 +4,7 @@
  */
 import { IANAZone } from 'luxon';
 import { z } from 'zod';
-import { InputError } from '../../science/errors.ts';
+import { InputError, type FieldProblem } from '../../science/errors.ts';
 import { parseEpoch, jdToIso } from '../../science/time/index.ts';
 
 export const id = z.number().int().positive();
@@ -39,11 +39,7 @@ export function normaliseEpoch(value: string, field: string): { iso: string; jd:
   return { iso: jdToIso(jd), jd };
 }
 
-export interface RowProblem {
-  field: string;
-  value: unknown;
-  rule: string;
-}
+export type RowProblem = FieldProblem;
 
 function valueAt(input: unknown, path: readonly PropertyKey[]): unknown {
   let v: unknown = input;
@@ -71,7 +67,5 @@ export function parseInput<S extends z.ZodType>(
   if (r.success) return r.data;
   const problems = problemsOf(r.error, input, prefix);
   const first = problems[0]!;
-  const err = new InputError(first.field, first.value, first.rule);
-  (err as InputError & { problems?: RowProblem[] }).problems = problems;
-  throw err;
+  throw new InputError(first.field, first.value, first.rule, problems);
 }

@@ -1,6 +1,6 @@
 /**
  * A fit that cannot be made says so, and says what is missing, instead of returning a number.
- * It is a ComputationError, so the HTTP layer answers 422 `no_solution` and the CLI exits non-zero.
+ * It is a ComputationError: the HTTP layer answers 422 `fit_refused` and the CLI exits non-zero.
  */
 import { ComputationError } from '../../errors.ts';
 
