@@ -83,6 +83,13 @@ const Options = {
   relativity: RelativitySwitchesSchema.partial()
     .optional()
     .openapi({ description: 'relativistic terms in the model (all off by default)' }),
+  freeFactors: z
+    .array(z.enum(['redshiftFactor', 'precessionFactor']))
+    .optional()
+    .openapi({
+      description:
+        'relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on',
+    }),
   frame: z
     .object({ offset: z.boolean().optional(), drift: z.boolean().optional() })
     .strict()
@@ -124,6 +131,9 @@ const FitBody = z
                 'offsets, separation or radial-velocity measurements (fields as in /measurements)',
             }),
             hints: Hints.optional(),
+            relativity: RelativitySwitchesSchema.partial()
+              .optional()
+              .openapi({ description: 'this star’s terms, over the request’s relativity' }),
           })
           .strict(),
       )

@@ -123,7 +123,6 @@ export async function prepareStoredFit(
     .select()
     .from(orbitSolutions)
     .where(and(inArray(orbitSolutions.targetId, targetIds), eq(orbitSolutions.current, true)));
-  const relativity: Partial<RelativitySwitches> = { ...(rest.relativity ?? {}) };
   const out: PreparedFit['targets'] = [];
   const stars: FitRequest['stars'] = [];
   for (const id of targetIds) {
@@ -142,18 +141,23 @@ export async function prepareStoredFit(
         ...(orbit.distancePc !== null ? { distancePc: orbit.distancePc } : {}),
         systemicVelocityKmS: orbit.gammaKmS,
       };
-      if (rest.relativity === undefined)
-        for (const [k, v] of Object.entries(orbit.relativity))
-          if (v) relativity[k as keyof RelativitySwitches] = true;
     }
+    // Each star keeps its stored solution's switches unless the request sets them for all.
+    const own: Partial<RelativitySwitches> | undefined =
+      sol && rest.relativity === undefined
+        ? validateOrbit(sol.orbit, 'orbit').relativity
+        : undefined;
     stars.push({
       name: target.name,
       measurements: mine.map(toInput),
       ...(starHints ? { hints: starHints } : {}),
+      ...(own ? { relativity: own } : {}),
     });
     out.push({ id, name: target.name, measurementIds: mine.map((r) => r.id) });
   }
-  return { request: { ...rest, relativity, stars }, targets: out };
+  const relativityOrigin =
+    rest.relativity === undefined ? "the stored solution's switches" : 'the request';
+  return { request: { ...rest, relativityOrigin, stars }, targets: out };
 }
 
 /**

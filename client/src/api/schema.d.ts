@@ -7156,6 +7156,13 @@ export interface paths {
                                     systemicVelocityKmS?: number;
                                 };
                             };
+                            /** @description this star’s terms, over the request’s relativity */
+                            relativity?: {
+                                romer?: boolean;
+                                gravitationalRedshift?: boolean;
+                                transverseDoppler?: boolean;
+                                precession?: boolean;
+                            };
                         }[];
                         /** @description relativistic terms in the model (all off by default) */
                         relativity?: {
@@ -7164,6 +7171,8 @@ export interface paths {
                             transverseDoppler?: boolean;
                             precession?: boolean;
                         };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
                             offset?: boolean;
@@ -7297,6 +7306,8 @@ export interface paths {
                             transverseDoppler?: boolean;
                             precession?: boolean;
                         };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
                             offset?: boolean;
@@ -7463,6 +7474,8 @@ export interface paths {
                             transverseDoppler?: boolean;
                             precession?: boolean;
                         };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
                             offset?: boolean;
@@ -7625,6 +7638,8 @@ export interface paths {
                             transverseDoppler?: boolean;
                             precession?: boolean;
                         };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
                             offset?: boolean;
@@ -7791,6 +7806,8 @@ export interface paths {
                             transverseDoppler?: boolean;
                             precession?: boolean;
                         };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
                         /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
                         frame?: {
                             offset?: boolean;
@@ -8763,6 +8780,9 @@ export interface components {
             asOf: string;
             residuals: components["schemas"]["Residual"][];
             outliers: number;
+            relativity: components["schemas"]["RelativitySettings"];
+            /** @description e.g. relativistic terms left off that the data can see */
+            warnings: string[];
             posterior?: {
                 ensembleSize: number;
                 rounds: number;
@@ -8813,6 +8833,48 @@ export interface components {
             /** @description residual / σ per component */
             normalized: number[];
             outlier: boolean;
+        };
+        RelativitySettings: {
+            terms: {
+                romer?: boolean;
+                gravitationalRedshift?: boolean;
+                transverseDoppler?: boolean;
+                precession?: boolean;
+            };
+            /** @description "on"/"off" and why, per term */
+            reasons: {
+                romer?: string;
+                gravitationalRedshift?: string;
+                transverseDoppler?: string;
+                precession?: string;
+            };
+            stars: {
+                name: string;
+                terms: {
+                    romer?: boolean;
+                    gravitationalRedshift?: boolean;
+                    transverseDoppler?: boolean;
+                    precession?: boolean;
+                };
+                reasons: {
+                    romer?: string;
+                    gravitationalRedshift?: string;
+                    transverseDoppler?: string;
+                    precession?: string;
+                };
+            }[];
+            factors: {
+                /** @enum {string} */
+                name: "redshiftFactor" | "precessionFactor";
+                value: number;
+                /** @description 1σ; 0 when fixed */
+                sigma: number;
+                fitted: boolean;
+                /** @description |value|/σ: departure from Newtonian 0 (0 when fixed) */
+                detectionSigma: number;
+                /** @description |value − 1|/σ: departure from general relativity */
+                departureFromGrSigma: number;
+            }[];
         };
         FitMeasurement: {
             /** @enum {string} */

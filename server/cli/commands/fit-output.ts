@@ -81,11 +81,35 @@ export function summary(r: FitResult): string {
     `loss ${r.loss}; derivatives ${r.derivatives}; ${r.iterations} iterations${r.converged ? '' : ' (not converged)'}; next periapsis counted from ${r.asOf}`,
     ...r.stars.map((s) => `${s.name}: next periapsis ${s.nextPeriapsis}`),
   ];
+  lines.push(...relativityLines(r));
   if (r.posterior)
     lines.push(
       `posterior: ${r.posterior.samples} draws from an ensemble of ${r.posterior.ensembleSize} × ${r.posterior.rounds} rounds (seed ${r.posterior.seed}), acceptance ${r.posterior.acceptance.toFixed(2)}`,
     );
   return `${lines.join('\n')}\n`;
+}
+
+/** Which terms were on and why (per star when they differ), the fitted factors, the warnings. */
+function relativityLines(r: FitResult): string[] {
+  const lines: string[] = [];
+  const byStar = r.relativity.stars;
+  const same = byStar.every(
+    (s) => JSON.stringify(s.reasons) === JSON.stringify(byStar[0]!.reasons),
+  );
+  for (const s of same ? byStar.slice(0, 1) : byStar) {
+    const who = same ? 'relativity' : `relativity of ${s.name}`;
+    lines.push(
+      `${who}: ${Object.entries(s.reasons)
+        .map(([term, why]) => `${term} ${why}`)
+        .join('; ')}`,
+    );
+  }
+  for (const f of r.relativity.factors.filter((x) => x.fitted))
+    lines.push(
+      `${f.name} = ${f.value.toFixed(3)} ± ${f.sigma.toFixed(3)}: ${f.detectionSigma.toFixed(1)}σ from 0 (Newtonian), ${f.departureFromGrSigma.toFixed(1)}σ from 1 (general relativity)`,
+    );
+  for (const w of r.warnings) lines.push(`warning: ${w}`);
+  return lines;
 }
 
 /** Table output: everything. CSV: the quantities, or the residuals with `residuals`. */

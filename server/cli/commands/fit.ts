@@ -30,6 +30,9 @@ model:
   --prior <name=mean,σ>   Gaussian prior, e.g. --prior distancePc=8100,150 (repeatable)
   --frame <what>          also fit the primary's offset and/or drift: offset, drift or offset,drift
   --relativity <terms>    romer,gravitationalRedshift,transverseDoppler,precession, all, or none
+                          (default: a file is fitted Newtonian; a stored target keeps its solution's terms)
+  --free-factors <names>  fit redshiftFactor and/or precessionFactor (0 Newtonian, 1 general relativity),
+                          comma-separated; each switches its terms on
   --robust                Huber loss: residuals beyond 2σ weigh less
   --as-of <epoch>         count the next periapsis from here (default: the latest epoch)
   --posterior <seed[:rounds]>
@@ -118,6 +121,15 @@ function modelOptions(
         );
     out.relativity = Object.fromEntries(SWITCHES.map((s) => [s, on.includes(s)]));
   }
+  if (v['free-factors'] !== undefined) {
+    const names = (v['free-factors'] as string).split(',').map((s) => s.trim());
+    for (const n of names)
+      if (n !== 'redshiftFactor' && n !== 'precessionFactor')
+        throw new UsageError(
+          `--free-factors: ${JSON.stringify(n)} is not one of redshiftFactor, precessionFactor`,
+        );
+    out.freeFactors = names as ('redshiftFactor' | 'precessionFactor')[];
+  }
   if (v.robust) out.loss = 'huber';
   if (v['as-of'] !== undefined) out.asOf = v['as-of'] as string;
   if (v.posterior !== undefined) {
@@ -160,6 +172,7 @@ export const fitCommand: Command = {
         prior: { type: 'string', multiple: true },
         frame: { type: 'string' },
         relativity: { type: 'string' },
+        'free-factors': { type: 'string' },
         robust: { type: 'boolean' },
         'as-of': { type: 'string' },
         posterior: { type: 'string' },

@@ -63,6 +63,41 @@ export const ResidualSchema = z
   .strict()
   .openapi('Residual');
 
+const Term = z.enum(['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession']);
+
+export const RelativitySettingsSchema = z
+  .object({
+    terms: z.record(Term, z.boolean()),
+    reasons: z.record(Term, z.string()).openapi({ description: '"on"/"off" and why, per term' }),
+    stars: z.array(
+      z
+        .object({
+          name: z.string(),
+          terms: z.record(Term, z.boolean()),
+          reasons: z.record(Term, z.string()),
+        })
+        .strict(),
+    ),
+    factors: z.array(
+      z
+        .object({
+          name: z.enum(['redshiftFactor', 'precessionFactor']),
+          value: z.number(),
+          sigma: z.number().openapi({ description: '1σ; 0 when fixed' }),
+          fitted: z.boolean(),
+          detectionSigma: z
+            .number()
+            .openapi({ description: '|value|/σ: departure from Newtonian 0 (0 when fixed)' }),
+          departureFromGrSigma: z
+            .number()
+            .openapi({ description: '|value − 1|/σ: departure from general relativity' }),
+        })
+        .strict(),
+    ),
+  })
+  .strict()
+  .openapi('RelativitySettings');
+
 export const FitResultSchema = z
   .object({
     method: z.string(),
@@ -84,6 +119,10 @@ export const FitResultSchema = z
     asOf: z.string(),
     residuals: z.array(ResidualSchema),
     outliers: z.number().int(),
+    relativity: RelativitySettingsSchema,
+    warnings: z
+      .array(z.string())
+      .openapi({ description: 'e.g. relativistic terms left off that the data can see' }),
     posterior: z
       .object({
         ensembleSize: z.number().int(),

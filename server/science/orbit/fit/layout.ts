@@ -25,6 +25,8 @@ export const SYSTEM_KEYS = [
   'offsetDecMas',
   'driftRaMasYr',
   'driftDecMasYr',
+  'redshiftFactor',
+  'precessionFactor',
 ] as const;
 export type SystemKey = (typeof SYSTEM_KEYS)[number];
 export const STAR_KEYS = [
@@ -50,6 +52,8 @@ const SCALE: Record<SystemKey | StarKey, { scale: number; unit: string; angle?: 
   offsetDecMas: { scale: 1, unit: 'mas' },
   driftRaMasYr: { scale: 1, unit: 'mas/yr' },
   driftDecMasYr: { scale: 1, unit: 'mas/yr' },
+  redshiftFactor: { scale: 1, unit: '' },
+  precessionFactor: { scale: 1, unit: '' },
   periodYears: { scale: 1 / JULIAN_YEAR_DAYS, unit: 'yr' },
   periapsisDays: { scale: 1, unit: 'JD (σ in days)' },
   eccentricity: { scale: 1, unit: '' },
@@ -86,6 +90,7 @@ export interface StarLayout {
   jd: Float64Array;
   hasRv: boolean;
   hasAstrometry: boolean;
+  relativity: RelativitySwitches;
   orientation: 'thiele-innes' | 'campbell';
   slots: StarSlots;
   /** First residual component of this star in the component vector. */
@@ -95,7 +100,7 @@ export interface StarLayout {
 export interface Layout {
   params: ParamDesc[];
   stars: StarLayout[];
-  sys: Record<'d' | 'M' | 'gamma' | 'x0' | 'y0' | 'vx' | 'vy', number>;
+  sys: Record<'d' | 'M' | 'gamma' | 'x0' | 'y0' | 'vx' | 'vy' | 'fz' | 'fw', number>;
   /** Joint fit: a shared mass, and each a from Kepler's third law. */
   massMode: boolean;
   frameEpochJd: number;
@@ -106,6 +111,8 @@ export interface Layout {
 export interface LayoutStar {
   name: string;
   obs: Observation[];
+  /** The star's own relativistic terms. */
+  relativity: RelativitySwitches;
 }
 
 export interface LayoutOptions {
@@ -115,6 +122,8 @@ export interface LayoutOptions {
   frameEpochJd: number;
   /** A distance fixed or given a prior by the user: keep it in the vector even without velocities. */
   distanceWanted: boolean;
+  /** Relativity factors that are parameters (shared by all stars: they belong to the primary). */
+  freeFactors: { redshiftFactor: boolean; precessionFactor: boolean };
 }
 
 export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
@@ -143,6 +152,8 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
     y0: o.frameOffset ? add('offsetDecMas', null, '') : -1,
     vx: o.frameDrift ? add('driftRaMasYr', null, '') : -1,
     vy: o.frameDrift ? add('driftDecMasYr', null, '') : -1,
+    fz: o.freeFactors.redshiftFactor ? add('redshiftFactor', null, '') : -1,
+    fw: o.freeFactors.precessionFactor ? add('precessionFactor', null, '') : -1,
   };
   let first = 0;
   const starLayouts = stars.map((s, k): StarLayout => {
@@ -170,6 +181,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
       jd: Float64Array.from(s.obs, (m) => m.jd),
       hasRv,
       hasAstrometry: s.obs.some((m) => m.kind !== 'radial-velocity'),
+      relativity: s.relativity,
       orientation,
       slots,
       firstComponent: first,
@@ -203,7 +215,7 @@ export function starOrbit(
   L: Layout,
   theta: ArrayLike<number>,
   k: number,
-  relativity: RelativitySwitches = L.relativity,
+  relativity: RelativitySwitches = L.stars[k]!.relativity,
 ): Orbit {
   const s = L.stars[k]!.slots;
   let aMas: number, iRad: number, nodeRad: number, argRad: number;
@@ -232,7 +244,10 @@ export function starOrbit(
     distancePc: L.sys.d >= 0 ? theta[L.sys.d]! : null,
     gammaKmS: L.sys.gamma >= 0 ? theta[L.sys.gamma]! : 0,
     relativity,
-    factors: GENERAL_RELATIVITY,
+    factors: {
+      redshiftFactor: L.sys.fz >= 0 ? theta[L.sys.fz]! : GENERAL_RELATIVITY.redshiftFactor,
+      precessionFactor: L.sys.fw >= 0 ? theta[L.sys.fw]! : GENERAL_RELATIVITY.precessionFactor,
+    },
     covariance: null,
   };
 }

@@ -34,17 +34,17 @@ function anyOn(r: RelativitySwitches): boolean {
 
 /** The model at theta (internal units), with the Jacobian when `withDeriv`. */
 export function evaluateModel(L: Layout, theta: Float64Array, withDeriv: boolean): ModelOutput {
-  if (!anyOn(L.relativity)) return keplerianModel(L, theta, withDeriv, L.relativity);
-  const values = keplerianModel(L, theta, false, L.relativity).values;
+  if (!anyOn(L.relativity)) return keplerianModel(L, theta, withDeriv, 'own');
+  const values = keplerianModel(L, theta, false, 'own').values;
   if (!withDeriv) return { values, deriv: null };
   // Keplerian part analytic; J += ∂(full − Keplerian)/∂θ by central differences.
-  const deriv = keplerianModel(L, theta, true, NO_RELATIVITY).deriv!;
+  const deriv = keplerianModel(L, theta, true, 'none').deriv!;
   const np = L.params.length,
     nc = L.components;
   const angles = angleComponents(L);
   const correction = (t: Float64Array) => {
-    const f = keplerianModel(L, t, false, L.relativity).values,
-      k = keplerianModel(L, t, false, NO_RELATIVITY).values;
+    const f = keplerianModel(L, t, false, 'own').values,
+      k = keplerianModel(L, t, false, 'none').values;
     for (let c = 0; c < nc; c++)
       f[c] = angles[c]
         ? Math.atan2(Math.sin(f[c]! - k[c]!), Math.cos(f[c]! - k[c]!))
@@ -97,12 +97,15 @@ export function angleComponents(L: Layout): Uint8Array {
   return mask;
 }
 
-/** The model with the given relativity switches; Keplerian derivatives when asked. */
+/**
+ * The model with each star's own relativistic terms ('own') or none; Keplerian derivatives when
+ * asked.
+ */
 export function keplerianModel(
   L: Layout,
   theta: Float64Array,
   withDeriv: boolean,
-  relativity: RelativitySwitches,
+  relativity: 'own' | 'none',
 ): ModelOutput {
   const np = L.params.length;
   const values = new Float64Array(L.components);
@@ -117,7 +120,7 @@ export function keplerianModel(
     gv = new Float64Array(np);
   for (let k = 0; k < L.stars.length; k++) {
     const star = L.stars[k]!;
-    const orbit = starOrbit(L, theta, k, relativity);
+    const orbit = starOrbit(L, theta, k, relativity === 'own' ? star.relativity : NO_RELATIVITY);
     const cols = predictBatch(orbit, star.jd);
     const s = star.slots;
     const P = orbit.periodDays,

@@ -7,7 +7,14 @@ import { parseEpoch } from '../../time/index.ts';
 import { validateOrbit } from '../elements.ts';
 import type { Orbit, RelativitySwitches } from '../types.ts';
 import { readMeasurements, type Observation } from './measurements.ts';
-import type { FitRequest, PriorInput, RangeHint, SamplerOptions, StarHints } from './types.ts';
+import type {
+  FitRequest,
+  PriorInput,
+  RangeHint,
+  RelativityFactorName,
+  SamplerOptions,
+  StarHints,
+} from './types.ts';
 
 export interface CheckedStar {
   name: string;
@@ -15,11 +22,19 @@ export interface CheckedStar {
   hints: StarHints;
   /** The validated starting orbit of hints.start, or null. */
   start: Orbit | null;
+  /** The star's relativistic terms (the request's, then the star's own, then the free factors'). */
+  relativity: RelativitySwitches;
+  relativityReasons: Record<keyof RelativitySwitches, string>;
 }
 
 export interface CheckedRequest {
   stars: CheckedStar[];
+  /** Every term that any star has on. */
   relativity: RelativitySwitches;
+  /** Which relativity factors are free parameters. */
+  freeFactors: Record<RelativityFactorName, boolean>;
+  /** Per term, why it is on or off for the request as a whole (stated in the fit's output). */
+  relativityReasons: Record<keyof RelativitySwitches, string>;
   frameOffset: boolean;
   frameDrift: boolean;
   frameEpochJd: number | null;
@@ -32,6 +47,58 @@ export interface CheckedRequest {
 
 const NAME_RE = /^[^\s\p{Cc}][^\p{Cc}]{0,79}$/u;
 const SWITCHES = ['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession'] as const;
+
+const NEWTONIAN: RelativitySwitches = {
+  romer: false,
+  gravitationalRedshift: false,
+  transverseDoppler: false,
+  precession: false,
+};
+
+/** The switches given at `field` (all optional), checked. */
+function checkSwitches(field: string, v: unknown): Partial<RelativitySwitches> {
+  if (v === undefined) return {};
+  if (typeof v !== 'object' || v === null)
+    throw new InputError(field, v, 'must be an object of switches');
+  const out: Partial<RelativitySwitches> = {};
+  for (const [key, x] of Object.entries(v)) {
+    if (!(SWITCHES as readonly string[]).includes(key))
+      throw new InputError(`${field}.${key}`, x, `is not a switch; known: ${SWITCHES.join(', ')}`);
+    out[key as keyof RelativitySwitches] = boolOf(`${field}.${key}`, x);
+  }
+  return out;
+}
+
+/** A star's switches and why each is on or off: its own, else the request's, else off; free factors force theirs on. */
+function starRelativity(
+  req: FitRequest,
+  own: unknown,
+  field: string,
+  free: Record<RelativityFactorName, boolean>,
+): Pick<CheckedStar, 'relativity' | 'relativityReasons'> {
+  const mine = checkSwitches(field, own);
+  const shared = checkSwitches('relativity', req.relativity);
+  const origin = req.relativityOrigin ?? 'the request';
+  const relativity = { ...NEWTONIAN };
+  const reasons = {} as Record<keyof RelativitySwitches, string>;
+  for (const k of SWITCHES) {
+    const v = mine[k] ?? shared[k];
+    relativity[k] = v ?? false;
+    reasons[k] =
+      v === undefined
+        ? 'off: not asked for (a fit is Newtonian unless told otherwise)'
+        : `${v ? 'on' : 'off'}: ${mine[k] !== undefined ? `the star's own switches (${origin})` : origin}`;
+  }
+  if (free.redshiftFactor) {
+    relativity.gravitationalRedshift = relativity.transverseDoppler = true;
+    reasons.gravitationalRedshift = reasons.transverseDoppler = 'on: the redshift factor is fitted';
+  }
+  if (free.precessionFactor) {
+    relativity.precession = true;
+    reasons.precession = 'on: the precession factor is fitted';
+  }
+  return { relativity, relativityReasons: reasons };
+}
 
 function epoch(field: string, v: unknown): number {
   return typeof v === 'number' ? requireFinite(field, v) : parseEpoch(v, field);
@@ -66,6 +133,8 @@ export function checkRequest(req: FitRequest): CheckedRequest {
     );
   if (req.stars.length > 20)
     throw new InputError('stars', req.stars.length, 'must list at most 20 stars');
+  const freeFactors = checkFreeFactors(req.freeFactors);
+  checkSwitches('relativity', req.relativity);
   const names = new Set<string>();
   const stars = req.stars.map((s, k): CheckedStar => {
     const p = `stars.${k}`;
@@ -106,27 +175,13 @@ export function checkRequest(req: FitRequest): CheckedRequest {
       obs: readMeasurements(s.measurements, `${p}.measurements`),
       hints,
       start,
+      ...starRelativity(req, s.relativity, `${p}.relativity`, freeFactors),
     };
   });
-  const relativity: RelativitySwitches = {
-    romer: false,
-    gravitationalRedshift: false,
-    transverseDoppler: false,
-    precession: false,
-  };
-  if (req.relativity !== undefined) {
-    if (typeof req.relativity !== 'object' || req.relativity === null)
-      throw new InputError('relativity', req.relativity, 'must be an object of switches');
-    for (const [key, v] of Object.entries(req.relativity)) {
-      if (!(SWITCHES as readonly string[]).includes(key))
-        throw new InputError(
-          `relativity.${key}`,
-          v,
-          `is not a switch; known: ${SWITCHES.join(', ')}`,
-        );
-      relativity[key as keyof RelativitySwitches] = boolOf(`relativity.${key}`, v);
-    }
-  }
+  const relativity = { ...NEWTONIAN };
+  for (const st of stars)
+    for (const k of SWITCHES) relativity[k] = relativity[k] || st.relativity[k];
+  const reasons = starRelativity(req, undefined, 'relativity', freeFactors).relativityReasons;
   const frame = req.frame ?? {};
   if (typeof frame !== 'object' || frame === null)
     throw new InputError('frame', frame, 'must be an object { offset, drift }');
@@ -147,6 +202,8 @@ export function checkRequest(req: FitRequest): CheckedRequest {
   return {
     stars,
     relativity,
+    freeFactors,
+    relativityReasons: reasons,
     fixed,
     priors,
     loss,
@@ -156,6 +213,21 @@ export function checkRequest(req: FitRequest): CheckedRequest {
     asOfJd: req.asOf === undefined ? null : epoch('asOf', req.asOf),
     posterior: req.posterior === undefined ? null : checkSampler(req.posterior),
   };
+}
+
+const FACTORS: readonly RelativityFactorName[] = ['redshiftFactor', 'precessionFactor'];
+
+function checkFreeFactors(v: unknown): Record<RelativityFactorName, boolean> {
+  const out = { redshiftFactor: false, precessionFactor: false };
+  if (v === undefined) return out;
+  if (!Array.isArray(v))
+    throw new InputError('freeFactors', v, `must be a list of ${FACTORS.join(', ')}`);
+  v.forEach((name, k) => {
+    if (!(FACTORS as readonly unknown[]).includes(name))
+      throw new InputError(`freeFactors.${k}`, name, `must be one of ${FACTORS.join(', ')}`);
+    out[name as RelativityFactorName] = true;
+  });
+  return out;
 }
 
 function checkSampler(s: SamplerOptions): Required<SamplerOptions> {

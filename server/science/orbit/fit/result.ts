@@ -8,12 +8,19 @@ import { DEG } from '../../constants.ts';
 import { jdToIso } from '../../time/index.ts';
 import { COVARIANCE_PARAMETERS, type CovarianceParameter, type OrbitInput } from '../types.ts';
 import { propagate } from './covariance.ts';
+import { physicalQuantities } from '../physical.ts';
 import { starOrbit } from './layout.ts';
 import { evaluateModel, stepFor } from './model.ts';
 import { nextCycle, quantityNames, starQuantities } from './quantities.ts';
 import type { CheckedRequest } from './request.ts';
 import type { Solution } from './solve.ts';
-import type { DerivedQuantity, FittedParameter, Residual } from './types.ts';
+import type {
+  DerivedQuantity,
+  FittedParameter,
+  RelativityFactorName,
+  RelativitySettings,
+  Residual,
+} from './types.ts';
 
 /** |whitened residual| above this flags the measurement as an outlier. */
 export const OUTLIER_SIGMA = 5;
@@ -48,6 +55,10 @@ export interface FitResult {
   asOf: string;
   residuals: Residual[];
   outliers: number;
+  /** Which relativistic terms were on and why; the relativity factors and their tests. */
+  relativity: RelativitySettings;
+  /** Things a user should know about the model chosen (e.g. terms left off that the data can see). */
+  warnings: string[];
   posterior?: {
     ensembleSize: number;
     rounds: number;
@@ -150,7 +161,8 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
       },
       ...(o.distancePc !== null ? { distancePc: o.distancePc } : {}),
       ...(L.sys.gamma >= 0 ? { systemicVelocityKmS: o.gammaKmS } : {}),
-      relativity: { ...L.relativity },
+      relativity: { ...L.stars[k]!.relativity },
+      ...(L.sys.fz >= 0 || L.sys.fw >= 0 ? { relativityFactors: { ...o.factors } } : {}),
       covariance: { parameters: covNames as CovarianceParameter[], matrix },
     };
     let chi2 = 0,
@@ -211,6 +223,68 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
     asOf: jdToIso(asOfJd),
     residuals,
     outliers: residuals.filter((x) => x.outlier).length,
+    relativity: relativitySettings(sol, req, parameters),
+    warnings: L.stars.flatMap((_, k) => newtonianWarnings(sol, k)),
+  };
+}
+
+/**
+ * A star fitted without the redshift terms or the precession whose fitted orbit makes them larger
+ * than the measurements' precision (median σ): the fit is biased, and the user should know.
+ */
+function newtonianWarnings(sol: Solution, k: number): string[] {
+  const s = sol.L.stars[k]!;
+  const o = starOrbit(sol.L, sol.theta, k);
+  if (o.distancePc === null) return [];
+  const q = physicalQuantities(o);
+  const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+  const out: string[] = [];
+  const rvSigma = median(s.obs.filter((m) => m.kind === 'radial-velocity').map((m) => m.sigma[0]));
+  const redshift = q.gravitationalRedshiftAtPeriapsisKmS + q.transverseDopplerAtPeriapsisKmS;
+  if (!s.relativity.gravitationalRedshift && rvSigma !== undefined && redshift > rvSigma)
+    out.push(
+      `star ${s.name}: fitted without the gravitational redshift and transverse Doppler shift, which reach ${redshift.toFixed(1)} km/s at periapsis, above the velocities' median σ of ${rvSigma.toFixed(1)} km/s; switch them on (relativity) or fit the redshift factor`,
+    );
+  const astSigma = median(s.obs.filter((m) => m.kind === 'offsets').map((m) => m.sigma[0]));
+  // The advance moves the apoapsis side of the orbit by Δω·a(1 + e) per orbit on the sky.
+  const shiftMas = ((q.precessionArcminPerOrbit * Math.PI) / (180 * 60)) * o.aMas * (1 + o.e);
+  if (!s.relativity.precession && astSigma !== undefined && shiftMas > astSigma)
+    out.push(
+      `star ${s.name}: fitted without the Schwarzschild precession, which moves the orbit by up to ${shiftMas.toFixed(2)} mas per orbit, above the offsets' median σ of ${astSigma.toFixed(2)} mas; switch it on (relativity) or fit the precession factor`,
+    );
+  return out;
+}
+
+/** The relativity block of a result: terms, reasons, and each factor with its significances. */
+function relativitySettings(
+  sol: Solution,
+  req: CheckedRequest,
+  parameters: FittedParameter[],
+): RelativitySettings {
+  const names: RelativityFactorName[] = ['redshiftFactor', 'precessionFactor'];
+  const factors = names.map((name) => {
+    const p = parameters.find((q) => q.name === name);
+    const value = p?.value ?? 1,
+      sigma = p?.sigma ?? 0;
+    const fitted = p !== undefined && !p.fixed;
+    return {
+      name,
+      value,
+      sigma,
+      fitted,
+      detectionSigma: fitted && sigma > 0 ? Math.abs(value) / sigma : 0,
+      departureFromGrSigma: fitted && sigma > 0 ? Math.abs(value - 1) / sigma : 0,
+    };
+  });
+  return {
+    terms: { ...sol.L.relativity },
+    reasons: { ...req.relativityReasons },
+    stars: req.stars.map((s) => ({
+      name: s.name,
+      terms: { ...s.relativity },
+      reasons: { ...s.relativityReasons },
+    })),
+    factors,
   };
 }
 

@@ -56,8 +56,10 @@ export function build(req: CheckedRequest, stars: CheckedStar[], strict: boolean
     frameDrift: req.frameDrift,
     frameEpochJd,
     distanceWanted,
+    freeFactors: req.freeFactors,
   });
   const base = new Float64Array(L.params.length);
+  for (const j of [L.sys.fz, L.sys.fw]) if (j >= 0) base[j] = 1;
   const fixedMask = L.params.map(() => false);
   const lookup = (name: string, field: string): number => {
     try {
@@ -160,6 +162,8 @@ export function lmOn(
   mode: DerivativeMode,
 ): { problem: Problem; lm: LmResult; theta: Float64Array } {
   for (let j = 0; j < theta0.length; j++) if (b.fixedMask[j]) theta0[j] = b.base[j]!;
+  // Relativity factors start at general relativity's 1 (a grid node knows nothing of them).
+  for (const j of [b.L.sys.fz, b.L.sys.fw]) if (j >= 0 && !b.fixedMask[j]) theta0[j] = 1;
   canonicalize(b.L, theta0);
   const analytic = makeProblem(b.L, theta0, b.free, b.priors);
   const problem = mode === 'analytic' ? analytic : finiteDifferenceProblem(analytic);

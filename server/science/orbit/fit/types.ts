@@ -2,7 +2,9 @@
  * What a fit takes and what it returns. Interface units (mas, km/s, degrees, years, epochs as
  * strings or JD) in the inputs and the reported values; internal units live in layout.ts.
  */
-import type { CampbellInput, RelativitySwitches } from '../types.ts';
+import type { CampbellInput, RelativityFactors, RelativitySwitches } from '../types.ts';
+
+export type RelativityFactorName = keyof RelativityFactors;
 
 /** A starting orbit: Campbell elements, with the distance and γ when known. */
 export interface StartInput {
@@ -72,6 +74,8 @@ export interface StarInput {
   name: string;
   measurements: MeasurementInput[];
   hints?: StarHints;
+  /** This star's relativistic terms, over the request's `relativity` (e.g. its stored solution's). */
+  relativity?: Partial<RelativitySwitches>;
 }
 
 /** A Gaussian prior on one parameter, in the parameter's interface unit. */
@@ -95,6 +99,14 @@ export interface FitRequest {
   stars: StarInput[];
   /** Relativistic terms in the model (all off by default). They need the distance. */
   relativity?: Partial<RelativitySwitches>;
+  /**
+   * Relativity factors fitted as parameters (fixed at 1 otherwise): `redshiftFactor` scales the
+   * gravitational redshift and transverse Doppler shift together (and switches both on),
+   * `precessionFactor` the Schwarzschild precession (and switches it on). 0 Newtonian, 1 GR.
+   */
+  freeFactors?: RelativityFactorName[];
+  /** Where `relativity` came from, said in the output (e.g. "the stored solution's switches"). Default "the request". */
+  relativityOrigin?: string;
   /** Fit the primary's offset (x0, y0) and drift (vx, vy) on the sky. Default: neither. */
   frame?: { offset?: boolean; drift?: boolean };
   /** Reference epoch of the frame drift. Default: the mean astrometric epoch. */
@@ -145,4 +157,30 @@ export interface DerivedQuantity {
   sigma: number;
   unit: string;
   percentiles?: number[];
+}
+
+/** A fitted relativity factor: its value, σ, and how far it departs from 0 and from 1 in σ. */
+export interface FactorTest {
+  name: RelativityFactorName;
+  value: number;
+  sigma: number;
+  /** |value|/σ: the significance of the effect's detection (departure from Newtonian 0). */
+  detectionSigma: number;
+  /** |value − 1|/σ: the departure from general relativity. */
+  departureFromGrSigma: number;
+}
+
+/** Which relativistic terms a fit had on, why, and the factors (fitted ones with their tests). */
+export interface RelativitySettings {
+  terms: RelativitySwitches;
+  /** Per term: "on" or "off", and why (for the request as a whole). */
+  reasons: Record<keyof RelativitySwitches, string>;
+  /** Each star's own terms and reasons (a joint fit respects each star's switches). */
+  stars: {
+    name: string;
+    terms: RelativitySwitches;
+    reasons: Record<keyof RelativitySwitches, string>;
+  }[];
+  /** Every factor: fitted (with σ and significances) or fixed at 1. */
+  factors: (FactorTest & { fitted: boolean })[];
 }
