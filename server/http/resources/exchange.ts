@@ -3,11 +3,11 @@
  * `dryRun=true` to check only), measurements as CSV or JSON, and each campaign's iCalendar feed.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import { CSV_KINDS, measurementsCsv, type CsvKind, type Store } from '../../store/index.ts';
+import { CSV_KINDS, measurementsCsv, type Store } from '../../store/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { requireRole } from '../auth.ts';
 import { HttpError } from '../errors.ts';
-import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { MeasurementFilters } from './measurements.ts';
 
 const Report = z.object({
@@ -60,17 +60,17 @@ export function exchangeRoutes(store: Store) {
         ),
       },
     }),
-    h(async (c) => {
-      const kind = valid(c, 'param').kind as CsvKind;
+    async (c) => {
+      const kind = c.req.valid('param').kind;
       const user = requireRole(c, IMPORT_ROLE[kind]);
       const type = c.req.header('content-type') ?? '';
       if (!/^text\/csv\b/i.test(type))
         throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
       const report = await store.importCsv({ userId: user.id }, kind, await c.req.text(), {
-        dryRun: valid(c, 'query').dryRun === 'true',
+        dryRun: c.req.valid('query').dryRun === 'true',
       });
       return c.json(report, 200);
-    }),
+    },
   );
   app.openapi(
     createRoute({
@@ -87,16 +87,16 @@ export function exchangeRoutes(store: Store) {
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const { format, ...filters } = valid(c, 'query');
+      const { format, ...filters } = c.req.valid('query');
       const rows = await store.exports.measurements(filters as z.output<typeof MeasurementFilters>);
       if (format === 'json') return c.json({ measurements: rows }, 200);
       return c.body(measurementsCsv(rows), 200, {
         'content-type': 'text/csv; charset=utf-8',
         'content-disposition': 'attachment; filename="measurements.csv"',
       });
-    }),
+    },
   );
   app.openapi(
     createRoute({
@@ -111,15 +111,15 @@ export function exchangeRoutes(store: Store) {
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const { at } = valid(c, 'query');
-      const text = await store.exports.calendar(valid(c, 'param').id as number, {
+      const { at } = c.req.valid('query');
+      const text = await store.exports.calendar(c.req.valid('param').id, {
         domain: new URL(c.req.url).hostname || undefined,
         ...(at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') }),
       });
       return c.body(text, 200, { 'content-type': 'text/calendar; charset=utf-8' });
-    }),
+    },
   );
   return app;
 }

@@ -3,7 +3,7 @@ import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { NightVisibilitySchema } from '../schemas/sky-output.ts';
-import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 
 const Query = z.object({
   curves: z.enum(['true', 'false']).default('false').openapi({
@@ -27,15 +27,15 @@ export function nightVisibilityRoutes(store: Store) {
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
       return c.json(
-        await store.nightVisibility(valid(c, 'param').id as number, {
-          curves: valid(c, 'query').curves === 'true',
+        await store.nightVisibility(c.req.valid('param').id, {
+          curves: c.req.valid('query').curves === 'true',
         }),
         200,
       );
-    }),
+    },
   );
   return app;
 }

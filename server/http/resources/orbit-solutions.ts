@@ -10,13 +10,11 @@ import {
   IdParam,
   PageQuery,
   errorResponses,
-  h,
   json,
   optionalId,
   pageOf,
   resourceApp,
   security,
-  valid,
 } from './common.ts';
 
 const tags = ['orbit solutions'];
@@ -53,12 +51,12 @@ export function orbitSolutionRoutes(store: Store) {
       request: { query: Filters },
       responses: { 200: json(pageOf(Row), 'one page'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const { current, targetId, ...page } = valid(c, 'query') as z.output<typeof Filters>;
+      const { current, targetId, ...page } = c.req.valid('query');
       const filter = { targetId, current: current === undefined ? undefined : current === 'true' };
       return c.json(await store.orbitSolutions.list(filter, page), 200);
-    }),
+    },
   );
   app.openapi(
     createRoute({
@@ -70,10 +68,10 @@ export function orbitSolutionRoutes(store: Store) {
       request: { params: IdParam },
       responses: { 200: json(Row, 'the solution'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      return c.json(await store.orbitSolutions.get(valid(c, 'param').id as number), 200);
-    }),
+      return c.json(await store.orbitSolutions.get(c.req.valid('param').id), 200);
+    },
   );
   app.openapi(
     createRoute({
@@ -85,10 +83,13 @@ export function orbitSolutionRoutes(store: Store) {
       request: { body: { content: { 'application/json': { schema: Create } }, required: true } },
       responses: { 201: json(Row, 'stored'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       const user = requireRole(c, 'lead');
-      return c.json(await store.orbitSolutions.create({ userId: user.id }, valid(c, 'json')), 201);
-    }),
+      return c.json(
+        await store.orbitSolutions.create({ userId: user.id }, c.req.valid('json')),
+        201,
+      );
+    },
   );
   app.openapi(
     createRoute({
@@ -100,13 +101,13 @@ export function orbitSolutionRoutes(store: Store) {
       request: { params: IdParam },
       responses: { 200: json(Row, 'now current'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       const user = requireRole(c, 'lead');
       return c.json(
-        await store.orbitSolutions.makeCurrent({ userId: user.id }, valid(c, 'param').id as number),
+        await store.orbitSolutions.makeCurrent({ userId: user.id }, c.req.valid('param').id),
         200,
       );
-    }),
+    },
   );
   app.openapi(
     createRoute({
@@ -118,11 +119,11 @@ export function orbitSolutionRoutes(store: Store) {
       request: { params: IdParam },
       responses: { 204: { description: 'deleted' }, ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       const user = requireRole(c, 'lead');
-      await store.orbitSolutions.remove({ userId: user.id }, valid(c, 'param').id as number);
+      await store.orbitSolutions.remove({ userId: user.id }, c.req.valid('param').id);
       return c.body(null, 204);
-    }),
+    },
   );
   return app;
 }

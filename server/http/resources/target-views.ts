@@ -15,7 +15,7 @@ import {
   OrbitDescriptionSchema,
   OrbitEventSchema,
 } from '../schemas/orbit-output.ts';
-import { IdParam, errorResponses, h, json, resourceApp, security, valid } from './common.ts';
+import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 
 const tags = ['targets'];
 const SolutionRef = z
@@ -71,12 +71,10 @@ export function targetViewRoutes(store: Store) {
         ...errorResponses,
       },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const q = valid(c, 'query') as z.output<typeof EphemerisQuery>;
-      const { solution, orbit } = await store.orbitSolutions.current(
-        valid(c, 'param').id as number,
-      );
+      const q = c.req.valid('query');
+      const { solution, orbit } = await store.orbitSolutions.current(c.req.valid('param').id);
       const rows = ephemeris(orbit, resolveEpochs({ start: q.start, end: q.end, step: q.step }));
       if (q.format === 'csv')
         return c.body(ephemerisCsv(rows), 200, { 'content-type': 'text/csv; charset=utf-8' });
@@ -88,7 +86,7 @@ export function targetViewRoutes(store: Store) {
         },
         200,
       );
-    }),
+    },
   );
   app.openapi(
     createRoute({
@@ -100,28 +98,24 @@ export function targetViewRoutes(store: Store) {
       request: { params: IdParam, query: EventsQuery },
       responses: { 200: json(TargetEvents, 'events soonest first'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'viewer');
-      const q = valid(c, 'query') as z.output<typeof EventsQuery>;
-      const { solution, orbit } = await store.orbitSolutions.current(
-        valid(c, 'param').id as number,
-      );
-      const kinds = q.kinds?.split(',').map((k) => k.trim());
-      const unknown = kinds?.find((k) => !(EVENT_KINDS as readonly string[]).includes(k));
-      if (unknown !== undefined)
-        throw new InputError(
-          'kinds',
-          unknown,
-          `is not an event kind; use ${EVENT_KINDS.join(', ')}`,
-        );
+      const q = c.req.valid('query');
+      const { solution, orbit } = await store.orbitSolutions.current(c.req.valid('param').id);
+      const kinds = q.kinds?.split(',').map((k) => {
+        const kind = EVENT_KINDS.find((e) => e === k.trim());
+        if (kind === undefined)
+          throw new InputError('kinds', k, `is not an event kind; use ${EVENT_KINDS.join(', ')}`);
+        return kind;
+      });
       const events = eventsWithUncertainty(
         orbit,
         parseEpoch(q.start, 'start'),
         parseEpoch(q.end, 'end'),
-        kinds ? { kinds: kinds as never } : {},
+        kinds ? { kinds } : {},
       );
       return c.json({ solution: { id: solution.id, version: solution.version }, events }, 200);
-    }),
+    },
   );
   return app;
 }

@@ -6,13 +6,11 @@ import {
   IdParam,
   PageQuery,
   errorResponses,
-  h,
   json,
   optionalId,
   pageOf,
   resourceApp,
   security,
-  valid,
 } from './common.ts';
 
 const User = UserInput.extend({ id: z.number().int(), createdAt: z.string() });
@@ -42,7 +40,7 @@ export function userRoutes(store: Store) {
       summary: 'Who the token belongs to',
       responses: { 200: json(User, 'the signed-in user'), ...errorResponses },
     }),
-    h(async (c) => c.json(requireRole(c, 'viewer'), 200)),
+    async (c) => c.json(requireRole(c, 'viewer'), 200),
   );
   app.openapi(
     createRoute({
@@ -54,13 +52,10 @@ export function userRoutes(store: Store) {
       request: { query: PageQuery },
       responses: { 200: json(pageOf(User), 'one page'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'lead');
-      return c.json(
-        await store.users.list(valid(c, 'query') as { limit: number; offset: number }),
-        200,
-      );
-    }),
+      return c.json(await store.users.list(c.req.valid('query')), 200);
+    },
   );
   app.openapi(
     createRoute({
@@ -74,14 +69,14 @@ export function userRoutes(store: Store) {
       },
       responses: { 201: json(Issued, 'created'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       const lead = requireRole(c, 'lead');
       const { user, tokenId, secret } = await store.users.createWithToken(
         { userId: lead.id },
-        valid(c, 'json'),
+        c.req.valid('json'),
       );
       return c.json({ user, tokenId, token: secret }, 201);
-    }),
+    },
   );
   app.openapi(
     createRoute({
@@ -93,11 +88,11 @@ export function userRoutes(store: Store) {
       request: { params: IdParam },
       responses: { 204: { description: 'revoked' }, ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       const lead = requireRole(c, 'lead');
-      await store.users.revokeToken({ userId: lead.id }, valid(c, 'param').id as number);
+      await store.users.revokeToken({ userId: lead.id }, c.req.valid('param').id);
       return c.body(null, 204);
-    }),
+    },
   );
   const AuditQuery = PageQuery.extend({ entity: z.string().optional(), entityId: optionalId });
   app.openapi(
@@ -110,11 +105,11 @@ export function userRoutes(store: Store) {
       request: { query: AuditQuery },
       responses: { 200: json(pageOf(Audit), 'one page'), ...errorResponses },
     }),
-    h(async (c) => {
+    async (c) => {
       requireRole(c, 'lead');
-      const { entity, entityId, ...page } = valid(c, 'query') as z.output<typeof AuditQuery>;
+      const { entity, entityId, ...page } = c.req.valid('query');
       return c.json(await store.audit.list({ entity, entityId }, page), 200);
-    }),
+    },
   );
   return app;
 }
