@@ -21,9 +21,24 @@ const OLD_KEYS = [
   'walkers',
   'steps',
   'burn',
+  // item 5: ranges are start/end with an ISO 8601 step
+  'from',
+  'to',
+  'every',
+  'stepMinutes',
+  'curveStepMinutes',
 ];
 /** Replaced CLI options. */
-const OLD_OPTIONS = ['--constraints', '--max-airmass', '--moon-distance', '--sample'];
+const OLD_OPTIONS = [
+  '--constraints',
+  '--max-airmass',
+  '--moon-distance',
+  '--sample',
+  '--from',
+  '--every',
+];
+/** Durations in the short forms of earlier versions (30d, 6h, 15min, 1yr) instead of ISO 8601. */
+const SHORT_DURATION = /(?<![\w.])\d+(?:\.\d+)?(?:d|h|min|yr)\b/;
 /** Replaced words, searched as whole words in every text (enum values included). */
 const OLD_WORDS =
   /\b(constraints|minAltitudeDeg|maxAirmass|minMoonSeparationDeg|sunAvoidanceDeg|walkers|sun-avoidance)\b/;
@@ -60,7 +75,10 @@ describe('no replaced name survives at an interface', () => {
     const keys = keysOf(doc);
     expect(keys.has('highestAirmass') && keys.has('ensembleSize')).toBe(true); // the search sees keys
     expect(OLD_KEYS.filter((k) => keys.has(k))).toEqual([]);
-    expect(firstOldWord(JSON.stringify(doc))).toBeNull();
+    const text = JSON.stringify(doc);
+    expect(firstOldWord(text)).toBeNull();
+    expect(text).toContain('P30D'); // durations are documented in ISO 8601
+    expect(SHORT_DURATION.exec(text)?.[0] ?? null).toBeNull();
   });
 
   it('in the CLI help', () => {
@@ -70,6 +88,8 @@ describe('no replaced name survives at an interface', () => {
     expect(help).toContain('--highest-airmass'); // the search sees options
     expect(OLD_OPTIONS.filter((o) => new RegExp(`${o}(?![\\w-])`).test(help))).toEqual([]);
     expect(firstOldWord(help)).toBeNull();
+    expect(help).toContain('PT5M');
+    expect(SHORT_DURATION.exec(help)?.[0] ?? null).toBeNull();
   });
 
   it("in the client's source", () => {

@@ -5,8 +5,12 @@
  */
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import { InputError, requireFinite } from '../science/errors.ts';
+import { parseDurationMinutes } from '../science/time/index.ts';
 import {
   AIRMASS_FORMULAS,
+  NIGHT_CURVE_STEP,
+  NIGHT_STEP,
+  SEASON_STEP,
   nightReport,
   parseNightDate,
   seasonMap,
@@ -119,14 +123,15 @@ const NightRequest = z
     method: z.enum(['fast', 'exact']).optional().openapi({
       description: 'fast (default) or exact (astronomy-engine per instant, at most 20 targets)',
     }),
-    stepMinutes: z
-      .number()
-      .optional()
-      .openapi({ description: 'window search step, minutes, (0, 30]; default 5' }),
-    curveStepMinutes: z
-      .number()
-      .optional()
-      .openapi({ description: 'curve step, minutes, [0, 60]; 0 for no curves; default 10' }),
+    step: z.string().optional().openapi({
+      description:
+        'window search step, ISO 8601 duration up to PT30M; default PT5M (edges refined to 1 s)',
+      example: 'PT5M',
+    }),
+    curveStep: z.string().optional().openapi({
+      description: 'curve step, ISO 8601 duration up to PT1H; PT0S for no curves; default PT10M',
+      example: 'PT10M',
+    }),
   })
   .strict();
 
@@ -136,10 +141,10 @@ const SeasonRequest = z
     year: z.number().int(),
     targets: z.array(SkyTargetSchema).max(500),
     limits: LimitsSchema.optional(),
-    stepMinutes: z
-      .number()
-      .optional()
-      .openapi({ description: 'darkness sampling step, minutes, [1, 60]; default 5' }),
+    step: z.string().optional().openapi({
+      description: 'darkness sampling step, ISO 8601 duration from PT1M to PT1H; default PT5M',
+      example: 'PT5M',
+    }),
     minHoursPerNight: z
       .number()
       .optional()
@@ -210,8 +215,16 @@ export function skyRoutes() {
     const { site, targets } = siteAndTargets(body);
     parseNightDate(body.date, 'date');
     const limits = validateLimits(body.limits ?? {}, site, 'limits');
-    const stepMinutes = inRange('stepMinutes', body.stepMinutes, 0, 30, true);
-    const curveStepMinutes = inRange('curveStepMinutes', body.curveStepMinutes, 0, 60);
+    const stepMinutes = parseDurationMinutes(
+      body.step ?? NIGHT_STEP.default,
+      'step',
+      NIGHT_STEP.rule,
+    );
+    const curveStepMinutes = parseDurationMinutes(
+      body.curveStep ?? NIGHT_CURVE_STEP.default,
+      'curveStep',
+      NIGHT_CURVE_STEP.rule,
+    );
     if (body.method === 'exact' && targets.length > 20) {
       throw new InputError(
         'targets',
@@ -221,8 +234,8 @@ export function skyRoutes() {
     }
     const report = nightReport(site, body.date, targets, limits, {
       ...(body.method ? { method: body.method } : {}),
-      ...(stepMinutes === undefined ? {} : { stepMinutes }),
-      ...(curveStepMinutes === undefined ? {} : { curveStepMinutes }),
+      stepMinutes,
+      curveStepMinutes,
     });
     return c.json(report, 200);
   });
@@ -232,11 +245,15 @@ export function skyRoutes() {
     if (body.year < 1900 || body.year > 2100)
       throw new InputError('year', body.year, 'must lie between 1900 and 2100');
     const limits = validateLimits(body.limits ?? {}, site, 'limits');
-    const stepMinutes = inRange('stepMinutes', body.stepMinutes, 1, 60);
+    const stepMinutes = parseDurationMinutes(
+      body.step ?? SEASON_STEP.default,
+      'step',
+      SEASON_STEP.rule,
+    );
     const minHoursPerNight = inRange('minHoursPerNight', body.minHoursPerNight, 0, 24);
     const maxGapNights = inRange('maxGapNights', body.maxGapNights, 0, 60);
     const map = seasonMap(site, body.year, targets, limits, {
-      ...(stepMinutes === undefined ? {} : { stepMinutes }),
+      stepMinutes,
       ...(minHoursPerNight === undefined ? {} : { minHoursPerNight }),
       ...(maxGapNights === undefined ? {} : { maxGapNights }),
     });

@@ -114,7 +114,7 @@ describe('epochwright season', () => {
       '--year',
       '2027',
       '--step',
-      '10',
+      'PT10M',
     ]);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/^Tern-3 +2027-\d\d-\d\d +2027-\d\d-\d\d/m);
@@ -128,7 +128,7 @@ describe('epochwright season', () => {
       '--year',
       '2027',
       '--step',
-      '10',
+      'PT10M',
       '--csv',
     ]);
     const lines = c.stdout.trim().split('\n');

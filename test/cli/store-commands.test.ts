@@ -131,12 +131,12 @@ describe('store commands', () => {
       'ephemeris',
       '--target-id',
       '1',
-      '--from',
+      '--start',
       '2027-06-01T00:00Z',
-      '--to',
+      '--end',
       '2027-06-03T00:00Z',
       '--step',
-      '1d',
+      'P1D',
     );
     expect(eph.trim().split('\n').length).toBe(4); // header + 3 daily rows, both ends included
     const cal = ical.sync.parseICS(await run('export', 'calendar', '--campaign-id', '1'));

@@ -38,7 +38,7 @@ afterAll(async () => browser?.close());
 
 describe('pinning stored blocks', () => {
   test('pin a block, reload and see it pinned; a stale unpin is refused and reloads; unpin it', async () => {
-    const all = (await api<{ items: Block[] }>(`/blocks?from=${TEST_NOW}&limit=500`)).items;
+    const all = (await api<{ items: Block[] }>(`/blocks?start=${TEST_NOW}&limit=500`)).items;
     // Keep clear of the night other browser tests move blocks on (the first with two or more blocks).
     const counts = new Map<number, number>();
     for (const b of all) counts.set(b.nightId, (counts.get(b.nightId) ?? 0) + 1);

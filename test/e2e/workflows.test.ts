@@ -171,7 +171,7 @@ describe('night report', () => {
 describe('night blocks', () => {
   test('move a block 15 minutes later and remove another', async () => {
     const ctx = await newContext(browser);
-    const blocks = await api<{ items: Block[] }>(`/blocks?from=${TEST_NOW}&limit=500`);
+    const blocks = await api<{ items: Block[] }>(`/blocks?start=${TEST_NOW}&limit=500`);
     const byNight = new Map<number, Block[]>();
     for (const b of blocks.items) byNight.set(b.nightId, [...(byNight.get(b.nightId) ?? []), b]);
     const [nightId, bs] = [...byNight].find(([, v]) => v.length >= 2)!;
@@ -201,7 +201,7 @@ describe('night scheduler', () => {
     const today = TEST_NOW.slice(0, 10);
     const nights = await api<{
       items: { id: number; date: string; siteId: number; campaignId: number | null }[];
-    }>(`/nights?siteId=1&campaignId=1&from=${today}&limit=500`);
+    }>(`/nights?siteId=1&campaignId=1&start=${today}&limit=500`);
     const night = nights.items.sort((a, b) => a.date.localeCompare(b.date)).at(-1)!;
     const { page, errors } = await open(ctx, `/nights/${night.id}`);
     await page.getByRole('button', { name: 'Propose a schedule' }).click();

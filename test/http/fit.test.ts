@@ -180,7 +180,7 @@ describe('fits of stored measurements (demo campaign)', () => {
     expect(versions.filter((v) => v.current).map((v) => v.id)).toEqual([acc.solutions[0]!.id]);
     // The target's ephemeris now comes from the fitted solution, with its covariance.
     const eph = await app.request(
-      `/api/targets/${s2.id}/ephemeris?start=2027-01-01T00:00:00Z&end=2027-02-01T00:00:00Z&step=10d`,
+      `/api/targets/${s2.id}/ephemeris?start=2027-01-01T00:00:00Z&end=2027-02-01T00:00:00Z&step=P10D`,
       { headers: { authorization: `Bearer ${viewer}` } },
     );
     expect(eph.status, await eph.clone().text()).toBe(200);

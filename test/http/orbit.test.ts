@@ -36,7 +36,7 @@ describe('POST /api/ephemeris', () => {
   it('accepts a range with a step and gives one row per epoch', async () => {
     const res = await post('/api/ephemeris', {
       orbit: { ...MEEUS_57A, distancePc: 20 },
-      epochs: { start: '2030-01-01', end: '2031-01-01', step: '30d' },
+      epochs: { start: '2030-01-01', end: '2031-01-01', step: 'P30D' },
     });
     const body = (await res.json()) as {
       predictions: { epoch: string; radialVelocityKmS: number }[];

@@ -51,7 +51,7 @@ describe('POST /api/sky/night', () => {
       date: '2027-06-15',
       targets,
       limits: { zenithSeeingArcsec: 0.7 },
-      curveStepMinutes: 30,
+      curveStep: 'PT30M',
     });
     expect(res.status).toBe(200);
     const r = (await res.json()) as {
@@ -107,7 +107,7 @@ describe('POST /api/sky/night', () => {
         'limits.highestAirmass',
         0.5,
       ],
-      [{ site, date: '2027-06-15', targets, stepMinutes: 90 }, 'stepMinutes', 90],
+      [{ site, date: '2027-06-15', targets, step: 'PT90M' }, 'step', 'PT90M'],
     ];
     for (const [body, field, value] of cases) {
       const res = await post('/api/sky/night', body);
@@ -131,7 +131,7 @@ describe('POST /api/sky/night', () => {
 
 describe('POST /api/sky/season', () => {
   it('gives hours per night for each target and its season', async () => {
-    const res = await post('/api/sky/season', { site, year: 2027, targets, stepMinutes: 10 });
+    const res = await post('/api/sky/season', { site, year: 2027, targets, step: 'PT10M' });
     expect(res.status).toBe(200);
     const r = (await res.json()) as {
       nights: { date: string; darkHours: number }[];
@@ -174,7 +174,7 @@ describe('POST /api/sky/season', () => {
       site,
       year: 2027,
       targets: [plover],
-      stepMinutes: 10,
+      step: 'PT10M',
     });
     const r = (await res.json()) as {
       nights: { date: string }[];

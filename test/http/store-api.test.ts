@@ -522,7 +522,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     expect(seen.length).toBe(8);
     expect(new Set(seen).size).toBe(8); // every night once across the pages
     const range = (await (
-      await f.call('viewer', 'GET', '/api/nights?from=2027-06-14&to=2027-06-16')
+      await f.call('viewer', 'GET', '/api/nights?start=2027-06-14&end=2027-06-16')
     ).json()) as { items: { date: string }[] };
     expect(range.items.map((n) => n.date)).toEqual(['2027-06-14', '2027-06-15', '2027-06-16']); // inclusive range, dates made here
     const bySite = (await (
@@ -537,7 +537,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       await f.call(
         'viewer',
         'GET',
-        `/api/targets/${f.ids.target}/ephemeris?start=2027-06-01T00:00Z&end=2027-07-01T00:00Z&step=5d`,
+        `/api/targets/${f.ids.target}/ephemeris?start=2027-06-01T00:00Z&end=2027-07-01T00:00Z&step=P5D`,
       )
     ).json()) as { predictions: { dRaMas: number; epoch: string }[] };
     const direct = (await (
@@ -546,7 +546,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
         headers: { 'content-type': 'application/json' },
         body: JSON.stringify({
           orbit: ORBIT_S1,
-          epochs: { start: '2027-06-01T00:00Z', end: '2027-07-01T00:00Z', step: '5d' },
+          epochs: { start: '2027-06-01T00:00Z', end: '2027-07-01T00:00Z', step: 'P5D' },
         }),
       })
     ).json()) as { predictions: { dRaMas: number }[] };
@@ -558,7 +558,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       await f.call(
         'viewer',
         'GET',
-        `/api/targets/${f.ids.target}/ephemeris?start=2027-06-01T00:00Z&end=2027-07-01T00:00Z&step=5d&format=csv`,
+        `/api/targets/${f.ids.target}/ephemeris?start=2027-06-01T00:00Z&end=2027-07-01T00:00Z&step=P5D&format=csv`,
       )
     ).text();
     expect(csv.trim().split('\n').length).toBe(8); // header + 7 rows

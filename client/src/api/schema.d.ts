@@ -80,8 +80,11 @@ export interface paths {
                              * @example 2027-03-01T00:00:00Z
                              */
                             end: string;
-                            /** @description e.g. "30d", "6h", "1yr"; a number is days */
-                            step: string | number;
+                            /**
+                             * @description ISO 8601 duration between epochs, e.g. "P30D", "PT6H", "P1DT12H"
+                             * @example P30D
+                             */
+                            step: string;
                         };
                         /** @description Monte Carlo percentiles from seeded draws of the covariance */
                         monteCarlo?: {
@@ -242,10 +245,16 @@ export interface paths {
                          * @enum {string}
                          */
                         method?: "fast" | "exact";
-                        /** @description window search step, minutes, (0, 30]; default 5 */
-                        stepMinutes?: number;
-                        /** @description curve step, minutes, [0, 60]; 0 for no curves; default 10 */
-                        curveStepMinutes?: number;
+                        /**
+                         * @description window search step, ISO 8601 duration up to PT30M; default PT5M (edges refined to 1 s)
+                         * @example PT5M
+                         */
+                        step?: string;
+                        /**
+                         * @description curve step, ISO 8601 duration up to PT1H; PT0S for no curves; default PT10M
+                         * @example PT10M
+                         */
+                        curveStep?: string;
                     };
                 };
             };
@@ -309,8 +318,11 @@ export interface paths {
                         year: number;
                         targets: components["schemas"]["SkyTarget"][];
                         limits?: components["schemas"]["Limits"];
-                        /** @description darkness sampling step, minutes, [1, 60]; default 5 */
-                        stepMinutes?: number;
+                        /**
+                         * @description darkness sampling step, ISO 8601 duration from PT1M to PT1H; default PT5M
+                         * @example PT5M
+                         */
+                        step?: string;
                         /** @description hours that make a night usable; default 1 */
                         minHoursPerNight?: number;
                         /** @description unusable nights bridged inside a season; default 7 */
@@ -1437,7 +1449,7 @@ export interface paths {
                     /** @description first epoch (ISO 8601 with zone, JD, MJD, J…) */
                     start: string;
                     end: string;
-                    /** @description interval, e.g. "1d", "12h", or days as a number */
+                    /** @description ISO 8601 duration between epochs, e.g. "P1D", "PT12H"; default P30D */
                     step?: string;
                     format?: "json" | "csv";
                 };
@@ -2776,8 +2788,9 @@ export interface paths {
                     targetId?: number;
                     siteId?: number;
                     /** @description campaigns running on or after this date */
-                    from?: string;
-                    to?: string;
+                    start?: string;
+                    /** @description campaigns running on or before this date */
+                    end?: string;
                 };
                 header?: never;
                 path?: never;
@@ -3416,8 +3429,9 @@ export interface paths {
                     siteId?: number;
                     campaignId?: number;
                     /** @description first night date, YYYY-MM-DD */
-                    from?: string;
-                    to?: string;
+                    start?: string;
+                    /** @description last night date, YYYY-MM-DD */
+                    end?: string;
                 };
                 header?: never;
                 path?: never;
@@ -3954,9 +3968,9 @@ export interface paths {
                     siteId?: number;
                     campaignId?: number;
                     /** @description epoch (ISO 8601 with zone, JD, MJD, J…) */
-                    from?: string;
+                    start?: string;
                     /** @description epoch (ISO 8601 with zone, JD, MJD, J…) */
-                    to?: string;
+                    end?: string;
                 };
                 header?: never;
                 path?: never;
@@ -4422,8 +4436,10 @@ export interface paths {
                     nightId?: number;
                     siteId?: number;
                     campaignId?: number;
-                    from?: string;
-                    to?: string;
+                    /** @description first night (local evening date) */
+                    start?: string;
+                    /** @description last night (local evening date) */
+                    end?: string;
                 };
                 header?: never;
                 path?: never;
@@ -5020,9 +5036,10 @@ export interface paths {
                     systemId?: number;
                     blockId?: number;
                     kind?: "offsets" | "separation" | "radial-velocity";
-                    /** @description earliest epoch (ISO 8601 with zone, JD, MJD, J…) */
-                    from?: string;
-                    to?: string;
+                    /** @description earliest epoch (ISO 8601 with zone, JD, MJD, J…), inclusive */
+                    start?: string;
+                    /** @description latest epoch, inclusive */
+                    end?: string;
                 };
                 header?: never;
                 path?: never;
@@ -5765,9 +5782,10 @@ export interface paths {
                     systemId?: number;
                     blockId?: number;
                     kind?: "offsets" | "separation" | "radial-velocity";
-                    /** @description earliest epoch (ISO 8601 with zone, JD, MJD, J…) */
-                    from?: string;
-                    to?: string;
+                    /** @description earliest epoch (ISO 8601 with zone, JD, MJD, J…), inclusive */
+                    start?: string;
+                    /** @description latest epoch, inclusive */
+                    end?: string;
                     format?: "csv" | "json";
                 };
                 header?: never;
@@ -8386,7 +8404,8 @@ export interface components {
                 elevationM: number;
             };
             year: number;
-            stepMinutes: number;
+            /** @description the darkness sampling step, ISO 8601 duration */
+            step: string;
             nights: {
                 date: string;
                 darkHours: number;
@@ -8652,8 +8671,8 @@ export interface components {
                 target: string;
                 /** @enum {string} */
                 kind: "astrometry" | "spectroscopy";
-                from: string;
-                to: string;
+                start: string;
+                end: string;
                 reason: string;
             }[];
             targets: {

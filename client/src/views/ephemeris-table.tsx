@@ -10,7 +10,7 @@ import { useLoad } from '../lib/use-load.ts';
 export function EphemerisTable({ targetId, name }: { targetId: number; name: string }) {
   const today = new Date().toISOString().slice(0, 10);
   const nextYear = new Date(Date.now() + 365.25 * 86_400_000).toISOString().slice(0, 10);
-  const [form, setForm] = useState({ start: today, end: nextYear, step: '30d' });
+  const [form, setForm] = useState({ start: today, end: nextYear, step: 'P30D' });
   const [query, setQuery] = useState(form);
   const [csvError, setCsvError] = useState<unknown>(null);
   const q = { start: `${query.start}T00:00:00Z`, end: `${query.end}T00:00:00Z`, step: query.step };
@@ -64,7 +64,7 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
           />
         </label>
         <label>
-          step (e.g. 30d, 12h){' '}
+          step (ISO 8601, e.g. P30D, PT12H){' '}
           <input
             value={form.step}
             size={6}

@@ -117,7 +117,7 @@ function NextNights({ cat, campaignId }: { cat: Catalogue; campaignId: number })
     const nights = await getAll<NightRow>('/nights', { campaignId });
     const blocks = await getAll<BlockRow>('/blocks', {
       campaignId,
-      from: new Date().toISOString(),
+      start: new Date().toISOString(),
     });
     return { nights, blocks };
   }, [campaignId]);

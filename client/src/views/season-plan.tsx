@@ -36,7 +36,7 @@ export interface SeasonPlanPreview {
       plannedHours: number;
     }[];
     epochs: PlannedEpoch[];
-    unmet: { target: string; kind: string; from: string; to: string; reason: string }[];
+    unmet: { target: string; kind: string; start: string; end: string; reason: string }[];
     targets: {
       target: string;
       epochs: Record<string, number>;
@@ -318,7 +318,7 @@ export function SeasonPlanPanel({
                     <strong>
                       {u.target} {u.kind}
                     </strong>
-                    , {u.from} to {u.to}: {u.reason}
+                    , {u.start} to {u.end}: {u.reason}
                   </li>
                 ))}
               </ul>

@@ -36,7 +36,7 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
   const solution = cat.currentSolution(targetId);
   const [measurements, blocks] = await Promise.all([
     getAll<MeasurementRow>('/measurements', { targetId }),
-    getAll<BlockRow>('/blocks', { targetId, from: new Date().toISOString() }),
+    getAll<BlockRow>('/blocks', { targetId, start: new Date().toISOString() }),
   ]);
   const planned = blocks.filter((b) => b.status === 'planned');
   const empty = {

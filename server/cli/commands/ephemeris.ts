@@ -13,17 +13,17 @@ import {
   readOrbit,
 } from './orbit-args.ts';
 
-const help = `usage: epochwright ephemeris --orbit <json|file> (--from <epoch> --to <epoch> --every <step> | --at <epoch>[,<epoch>…]) [options]
+const help = `usage: epochwright ephemeris --orbit <json|file> (--start <epoch> --end <epoch> --step <duration> | --at <epoch>[,<epoch>…]) [options]
 
 Predicts, for each epoch: separation ρ (mas), position angle θ (deg, north through east), offsets
 Δα* (east) and Δδ (north) in mas, and with a distance the radial velocity (km/s, receding positive).
 With a covariance, each comes with its 1σ; with --mc, with Monte Carlo percentiles (JSON/CSV).
 
 Epochs: ISO 8601 with zone (2027-03-01T00:00Z, 2027-03-01), "JD 2461466.5", "MJD 61466",
-"J2027.35", "B1934.008". Steps: 30d, 6h, 15min, 1yr.
+"J2027.35", "B1934.008". Steps: ISO 8601 durations (P30D, PT6H, PT15M, P1DT12H).
 
 options:
-  --from, --to, --every  a range of epochs (both ends included when on the step)
+  --start, --end, --step a range of epochs (both ends included when on the step)
   --at                   a comma-separated list of epochs
 ${ORBIT_OPTION_HELP}
 `;
@@ -36,9 +36,9 @@ export const ephemerisCommand: Command = {
       args: argv,
       options: {
         ...orbitOptions,
-        from: { type: 'string' },
-        to: { type: 'string' },
-        every: { type: 'string' },
+        start: { type: 'string' },
+        end: { type: 'string' },
+        step: { type: 'string' },
         at: { type: 'string' },
       },
       strict: true,
@@ -48,14 +48,14 @@ export const ephemerisCommand: Command = {
     const orbit = readOrbit(values.orbit);
     let epochs: EpochsInput;
     if (values.at !== undefined) {
-      if (values.from ?? values.to ?? values.every)
-        throw new UsageError('give either --at or --from/--to/--every');
+      if (values.start ?? values.end ?? values.step)
+        throw new UsageError('give either --at or --start/--end/--step');
       epochs = values.at.split(',').map((s) => s.trim());
     } else {
-      if (values.from === undefined || values.to === undefined || values.every === undefined) {
-        throw new UsageError('give --at <epochs>, or all of --from, --to and --every');
+      if (values.start === undefined || values.end === undefined || values.step === undefined) {
+        throw new UsageError('give --at <epochs>, or all of --start, --end and --step');
       }
-      epochs = { start: values.from, end: values.to, step: values.every };
+      epochs = { start: values.start, end: values.end, step: values.step };
     }
     const mc = readMonteCarlo(values);
     const rows = ephemeris(orbit, resolveEpochs(epochs), mc ? { monteCarlo: mc } : {});

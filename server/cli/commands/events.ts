@@ -18,7 +18,7 @@ import {
   readOrbit,
 } from './orbit-args.ts';
 
-const help = `usage: epochwright events --orbit <json|file> --from <epoch> --to <epoch> [--kinds <k,k,…>] [options]
+const help = `usage: epochwright events --orbit <json|file> --start <epoch> --end <epoch> [--kinds <k,k,…>] [options]
 
 Lists, soonest first, the orbit's events between two epochs with the state at each: separation,
 position angle, radial velocity. With a covariance, each date comes with its 1σ in days; with --mc,
@@ -27,7 +27,7 @@ with the 2.5/16/50/84/97.5 percentiles of the date.
 kinds: ${EVENT_KINDS.join(', ')} (default: all)
 
 options:
-  --from, --to           the interval (epochs as for 'ephemeris')
+  --start, --end         the interval (epochs as for 'ephemeris')
   --kinds                a comma-separated subset of the kinds above
 ${ORBIT_OPTION_HELP}
 `;
@@ -40,8 +40,8 @@ export const eventsCommand: Command = {
       args: argv,
       options: {
         ...orbitOptions,
-        from: { type: 'string' },
-        to: { type: 'string' },
+        start: { type: 'string' },
+        end: { type: 'string' },
         kinds: { type: 'string' },
       },
       strict: true,
@@ -49,8 +49,8 @@ export const eventsCommand: Command = {
     });
     const format = outputFormat(values);
     const orbit = readOrbit(values.orbit);
-    if (values.from === undefined || values.to === undefined)
-      throw new UsageError('--from and --to are required');
+    if (values.start === undefined || values.end === undefined)
+      throw new UsageError('--start and --end are required');
     const kinds = values.kinds?.split(',').map((k) => k.trim());
     for (const k of kinds ?? []) {
       if (!(EVENT_KINDS as readonly string[]).includes(k))
@@ -61,8 +61,8 @@ export const eventsCommand: Command = {
     const mc = readMonteCarlo(values);
     const events = eventsWithUncertainty(
       orbit,
-      parseEpoch(values.from, 'from'),
-      parseEpoch(values.to, 'to'),
+      parseEpoch(values.start, '--start'),
+      parseEpoch(values.end, '--end'),
       {
         ...(kinds ? { kinds: kinds as EventKind[] } : {}),
         ...(mc ? { monteCarlo: mc } : {}),

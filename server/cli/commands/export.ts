@@ -8,7 +8,7 @@ import { UsageError, type Command } from '../io.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 const help = `usage: epochwright export measurements [--target-id <id>] [--json]
-       epochwright export ephemeris --target-id <id> --from <epoch> --to <epoch> [--step <interval>] [--json]
+       epochwright export ephemeris --target-id <id> --start <epoch> --end <epoch> [--step <duration>] [--json]
        epochwright export calendar --campaign-id <id> [--at <epoch>]
 
 measurements  CSV in the layout 'epochwright import --kind measurements' reads (or JSON)
@@ -38,8 +38,8 @@ export const exportCommand: Command = {
         ...databaseOption,
         'target-id': { type: 'string' },
         'campaign-id': { type: 'string' },
-        from: { type: 'string' },
-        to: { type: 'string' },
+        start: { type: 'string' },
+        end: { type: 'string' },
         step: { type: 'string' },
         at: { type: 'string' },
         json: { type: 'boolean' },
@@ -56,12 +56,12 @@ export const exportCommand: Command = {
           return values.json ? `${JSON.stringify(rows, null, 2)}\n` : measurementsCsv(rows);
         }
         case 'ephemeris': {
-          if (targetId === undefined || values.from === undefined || values.to === undefined)
-            throw new UsageError('export ephemeris needs --target-id, --from and --to');
+          if (targetId === undefined || values.start === undefined || values.end === undefined)
+            throw new UsageError('export ephemeris needs --target-id, --start and --end');
           const { orbit } = await store.orbitSolutions.current(targetId);
           const rows = ephemeris(
             orbit,
-            resolveEpochs({ start: values.from, end: values.to, step: values.step ?? '30d' }),
+            resolveEpochs({ start: values.start, end: values.end, step: values.step ?? 'P30D' }),
           );
           return values.json ? `${JSON.stringify(rows, null, 2)}\n` : ephemerisCsv(rows);
         }

@@ -1,9 +1,15 @@
 /** `epochwright night`: one night at a site — twilights, the Moon, and when each target can be observed. */
 import { parseArgs } from 'node:util';
-import { nightReport, parseNightDate, type ReportWindow } from '../../science/sky/index.ts';
+import {
+  NIGHT_STEP,
+  nightReport,
+  parseNightDate,
+  type ReportWindow,
+} from '../../science/sky/index.ts';
+import { parseDurationMinutes } from '../../science/time/index.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
-import { SKY_OPTION_HELP, numberOption, readSky, skyOptions } from './sky-args.ts';
+import { SKY_OPTION_HELP, readSky, skyOptions } from './sky-args.ts';
 
 const help = `usage: epochwright night --site <json|file> --date <YYYY-MM-DD> --targets <json|file> [options]
 
@@ -16,7 +22,8 @@ options:
 ${SKY_OPTION_HELP}
   --date <YYYY-MM-DD>        the local evening date
   --exact                    compute every instant with astronomy-engine (slower; the reference)
-  --step <minutes>           window search step (default 5; edges are refined to 1 s)
+  --step <duration>          window search step, ISO 8601, up to PT30M (default PT5M; edges
+                             are refined to 1 s)
 `;
 
 type Row = ReportWindow & { target: string };
@@ -43,9 +50,11 @@ export const nightCommand: Command = {
       throw new UsageError('--date is required (the local evening date, YYYY-MM-DD)');
     parseNightDate(values.date, '--date');
     const { site, targets, limits } = readSky(values);
-    const stepMinutes = values.step === undefined ? 5 : numberOption('step', values.step);
-    if (!(stepMinutes > 0 && stepMinutes <= 30))
-      throw new UsageError(`--step: ${values.step} must lie in (0, 30] minutes`);
+    const stepMinutes = parseDurationMinutes(
+      values.step ?? NIGHT_STEP.default,
+      '--step',
+      NIGHT_STEP.rule,
+    );
     const report = nightReport(site, values.date, targets, limits, {
       method: values.exact ? 'exact' : 'fast',
       stepMinutes,

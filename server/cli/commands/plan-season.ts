@@ -203,7 +203,7 @@ export const planSeasonCommand: Command = {
       '\n',
       targets,
       plan.unmet.length
-        ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.from} to ${u.to}: ${u.reason}\n`).join('')}`
+        ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.start} to ${u.end}: ${u.reason}\n`).join('')}`
         : '',
       skipped.length ? `\nnights left out:\n${skipped.join('')}` : '',
       around.length ? `\nnights planned around blocks that stay:\n${around.join('')}` : '',

@@ -1,6 +1,12 @@
 /** `epochwright season`: each target's observable hours per night across a year at a site, and its season. */
 import { parseArgs } from 'node:util';
-import { seasonMap, seasonReport, type TargetSeason } from '../../science/sky/index.ts';
+import {
+  SEASON_STEP,
+  seasonMap,
+  seasonReport,
+  type TargetSeason,
+} from '../../science/sky/index.ts';
+import { parseDurationMinutes } from '../../science/time/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { UsageError, outputFormat, type Command } from '../io.ts';
 import { formatCsv, render, type Column } from '../output.ts';
@@ -9,14 +15,14 @@ import { SKY_OPTION_HELP, numberOption, readSky, skyOptions } from './sky-args.t
 const help = `usage: epochwright season --site <json|file> --year <yyyy> --targets <json|file> [options]
 
 For every night of the year, how many hours each target meets every limit (darkness sampled
-every --step minutes), and each target's season: the longest run of usable nights (short gaps
+every --step), and each target's season: the longest run of usable nights (short gaps
 bridged), its first and last night, and its best night.
 The table lists one line per target; --csv gives one line per night with a column per target.
 
 options:
 ${SKY_OPTION_HELP}
   --year <yyyy>              the year of the map (nights named by their local evening date)
-  --step <minutes>           darkness sampling step (default 5)
+  --step <duration>          darkness sampling step, ISO 8601, PT1M to PT1H (default PT5M)
   --min-hours <h>            hours that make a night usable (default 1)
 `;
 
@@ -41,9 +47,11 @@ export const seasonCommand: Command = {
     if (!Number.isInteger(year) || year < 1900 || year > 2100)
       throw new InputError('--year', values.year, 'must be a whole year from 1900 to 2100');
     const { site, targets, limits } = readSky(values);
-    const stepMinutes = values.step === undefined ? 5 : numberOption('step', values.step);
-    if (!(stepMinutes >= 1 && stepMinutes <= 60))
-      throw new UsageError(`--step: ${values.step} must lie in [1, 60] minutes`);
+    const stepMinutes = parseDurationMinutes(
+      values.step ?? SEASON_STEP.default,
+      '--step',
+      SEASON_STEP.rule,
+    );
     const minHoursPerNight =
       values['min-hours'] === undefined ? 1 : numberOption('min-hours', values['min-hours']);
     const map = seasonMap(site, year, targets, limits, { stepMinutes, minHoursPerNight });

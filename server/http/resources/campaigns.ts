@@ -17,8 +17,8 @@ export function campaignRoutes(store: Store) {
     filters: z.object({
       targetId: optionalId,
       siteId: optionalId,
-      from: dateQuery.openapi({ description: 'campaigns running on or after this date' }),
-      to: dateQuery,
+      start: dateQuery.openapi({ description: 'campaigns running on or after this date' }),
+      end: dateQuery.openapi({ description: 'campaigns running on or before this date' }),
     }),
     writeRole: 'lead',
     view: store.campaigns.withMembers,

@@ -8,11 +8,11 @@ export const MeasurementFilters = z.object({
   systemId: optionalId,
   blockId: optionalId,
   kind: z.enum(['offsets', 'separation', 'radial-velocity']).optional(),
-  from: z
+  start: z
     .string()
     .optional()
-    .openapi({ description: 'earliest epoch (ISO 8601 with zone, JD, MJD, J…)' }),
-  to: z.string().optional(),
+    .openapi({ description: 'earliest epoch (ISO 8601 with zone, JD, MJD, J…), inclusive' }),
+  end: z.string().optional().openapi({ description: 'latest epoch, inclusive' }),
 });
 
 export function measurementRoutes(store: Store) {

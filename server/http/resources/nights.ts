@@ -30,8 +30,8 @@ export function nightRoutes(store: Store) {
     filters: z.object({
       siteId: optionalId,
       campaignId: optionalId,
-      from: dateQuery.openapi({ description: 'first night date, YYYY-MM-DD' }),
-      to: dateQuery,
+      start: dateQuery.openapi({ description: 'first night date, YYYY-MM-DD' }),
+      end: dateQuery.openapi({ description: 'last night date, YYYY-MM-DD' }),
     }),
     writeRole: 'observer',
   });
@@ -51,8 +51,8 @@ export function blockRoutes(store: Store) {
       targetId: optionalId,
       siteId: optionalId,
       campaignId: optionalId,
-      from: instantQuery,
-      to: instantQuery,
+      start: instantQuery,
+      end: instantQuery,
     }),
     writeRole: 'observer',
   });

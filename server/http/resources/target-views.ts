@@ -35,10 +35,9 @@ const TargetEvents = z
 const EphemerisQuery = z.object({
   start: z.string().openapi({ description: 'first epoch (ISO 8601 with zone, JD, MJD, J…)' }),
   end: z.string(),
-  step: z
-    .string()
-    .default('30d')
-    .openapi({ description: 'interval, e.g. "1d", "12h", or days as a number' }),
+  step: z.string().default('P30D').openapi({
+    description: 'ISO 8601 duration between epochs, e.g. "P1D", "PT12H"; default P30D',
+  }),
   format: z.enum(['json', 'csv']).default('json'),
 });
 const EventsQuery = z.object({

@@ -89,9 +89,10 @@ export const EpochRangeSchema = z
   .object({
     start: epoch,
     end: epoch,
-    step: z
-      .union([z.string(), z.number()])
-      .openapi({ description: 'e.g. "30d", "6h", "1yr"; a number is days' }),
+    step: z.string().openapi({
+      description: 'ISO 8601 duration between epochs, e.g. "P30D", "PT6H", "P1DT12H"',
+      example: 'P30D',
+    }),
   })
   .strict();
 

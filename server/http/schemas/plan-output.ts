@@ -179,8 +179,8 @@ export const SeasonPlanSchema = z
         .object({
           target: z.string(),
           kind: BlockKind,
-          from: z.string(),
-          to: z.string(),
+          start: z.string(),
+          end: z.string(),
           reason: z.string(),
         })
         .strict(),

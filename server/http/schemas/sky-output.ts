@@ -157,7 +157,7 @@ export const SeasonReportSchema = z
       })
       .strict(),
     year: z.number().int(),
-    stepMinutes: z.number(),
+    step: z.string().openapi({ description: 'the darkness sampling step, ISO 8601 duration' }),
     nights: z.array(z.object({ date: z.string(), darkHours: z.number() }).strict()),
     targets: z.array(
       z

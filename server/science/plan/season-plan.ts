@@ -99,8 +99,9 @@ export interface PlannedEpoch {
 export interface UnmetGoal {
   target: string;
   kind: MeasurementKind;
-  from: string;
-  to: string;
+  /** First and last night of the cadence window (local evening dates). */
+  start: string;
+  end: string;
   reason: string;
 }
 
@@ -493,8 +494,8 @@ export function planSeason(
           unmet.push({
             target: t.target.name,
             kind,
-            from: dates[from]!,
-            to: dates[to]!,
+            start: dates[from]!,
+            end: dates[to]!,
             reason: whyNone(ti, kind, from, to),
           });
           lastIdx = to;
@@ -622,8 +623,8 @@ export function planSeason(
       unmet.push({
         target: l.target,
         kind: l.kind,
-        from: dates[di]!,
-        to: dates[di]!,
+        start: dates[di]!,
+        end: dates[di]!,
         reason: `chosen for ${sites[si]!.site.name} but did not fit in the night's schedule: ${l.reason}`,
       });
     }

@@ -30,6 +30,8 @@ export { nightFrame, type NightFrame } from './frame.ts';
 export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from './night.ts';
 export {
   cautions,
+  NIGHT_CURVE_STEP,
+  NIGHT_STEP,
   nightReport,
   type NightOptions,
   type NightReport,
@@ -51,7 +53,13 @@ export {
   type Sampler,
   type SkySample,
 } from './samplers.ts';
-export { seasonMap, type SeasonMap, type SeasonOptions, type TargetSeason } from './season.ts';
+export {
+  SEASON_STEP,
+  seasonMap,
+  type SeasonMap,
+  type SeasonOptions,
+  type TargetSeason,
+} from './season.ts';
 export { seasonReport } from './season-report.ts';
 export type { PeriapsisInSeason, SeasonSummary } from './season-summary.ts';
 export {

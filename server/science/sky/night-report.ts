@@ -15,6 +15,13 @@ import { moonNight, sunNight, TWILIGHT_SUN_ALTITUDE_DEG, type TwilightKind } fro
 import type { Target } from './target.ts';
 import { brokenLimit, findWindows, refineTransit, transitTimes, type Limit } from './windows.ts';
 
+/** The steps a night report accepts at an interface (ISO 8601 durations, read by the time module). */
+export const NIGHT_STEP = { default: 'PT5M', rule: { atMost: 'PT30M' } } as const;
+export const NIGHT_CURVE_STEP = {
+  default: 'PT10M',
+  rule: { allowZero: true, atMost: 'PT1H' },
+} as const;
+
 export interface NightOptions {
   /** "fast" (the night's tables; default) or "exact" (astronomy-engine per instant, slower). */
   method?: 'fast' | 'exact';

@@ -1,4 +1,5 @@
 /** The season map as a plain report (HTTP and CLI JSON): hours to 0.001 h, with the cautions. */
+import { formatDuration } from '../time/duration.ts';
 import type { Limits } from './limits.ts';
 import { cautions } from './night-report.ts';
 import type { SeasonMap } from './season.ts';
@@ -14,7 +15,7 @@ export function seasonReport(site: Site, map: SeasonMap, limits: Limits) {
       elevationM: site.elevationM,
     },
     year: map.year,
-    stepMinutes: map.stepMinutes,
+    step: formatDuration(map.stepMinutes / 1440),
     nights: map.nights.map((n) => ({
       date: n.date,
       darkHours: Math.round(n.darkHours * 1000) / 1000,

@@ -24,6 +24,9 @@ import {
   type SeasonSummary,
 } from './season-summary.ts';
 
+/** The darkness sampling step a season map accepts at an interface (ISO 8601 duration). */
+export const SEASON_STEP = { default: 'PT5M', rule: { atLeast: 'PT1M', atMost: 'PT1H' } } as const;
+
 export interface SeasonOptions {
   /** Darkness sampling step, minutes, [1, 60]; default 5. */
   stepMinutes?: number;

@@ -13,6 +13,9 @@ export {
 } from './epoch.ts';
 export {
   parseDurationDays,
+  parseDurationMinutes,
+  formatDuration,
+  type DurationRule,
   epochRange,
   resolveEpochs,
   MAX_EPOCHS,

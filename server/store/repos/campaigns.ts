@@ -37,14 +37,14 @@ export async function campaignMembers(
   };
 }
 
-/** Which campaigns to list: with a target, with a site, running on some day of [from, to]. */
+/** Which campaigns to list: with a target, with a site, running on some day of [start, end]. */
 export interface CampaignFilter {
   targetId?: number | undefined;
   siteId?: number | undefined;
   /** YYYY-MM-DD: campaigns ending on or after it. */
-  from?: string | undefined;
+  start?: string | undefined;
   /** YYYY-MM-DD: campaigns starting on or before it. */
-  to?: string | undefined;
+  end?: string | undefined;
 }
 
 function campaignWhere(f: CampaignFilter, db: DbOrTx) {
@@ -61,8 +61,8 @@ function campaignWhere(f: CampaignFilter, db: DbOrTx) {
   return [
     f.targetId ? withMember(campaignTargets.targetId, f.targetId) : undefined,
     f.siteId ? withMember(campaignSites.siteId, f.siteId) : undefined,
-    f.from ? gte(campaigns.endDate, f.from) : undefined,
-    f.to ? lte(campaigns.startDate, f.to) : undefined,
+    f.start ? gte(campaigns.endDate, f.start) : undefined,
+    f.end ? lte(campaigns.startDate, f.end) : undefined,
   ];
 }
 

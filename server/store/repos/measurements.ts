@@ -27,14 +27,14 @@ export const measurementEntity = entity<MeasurementRow>({
 
 const keys = Object.keys(MeasurementFields.shape);
 
-/** Which measurements to list; `from`/`to` are epochs (ISO 8601 with zone, JD, MJD, J…), inclusive. */
+/** Which measurements to list; `start`/`end` are epochs (ISO 8601 with zone, JD, MJD, J…), inclusive. */
 export interface MeasurementFilter {
   targetId?: number | undefined;
   systemId?: number | undefined;
   blockId?: number | undefined;
   kind?: MeasurementRow['kind'] | undefined;
-  from?: string | undefined;
-  to?: string | undefined;
+  start?: string | undefined;
+  end?: string | undefined;
 }
 
 export function measurementWhere(f: MeasurementFilter, db: DbOrTx) {
@@ -48,8 +48,8 @@ export function measurementWhere(f: MeasurementFilter, db: DbOrTx) {
       : undefined,
     f.blockId ? eq(measurements.blockId, f.blockId) : undefined,
     f.kind ? eq(measurements.kind, f.kind) : undefined,
-    f.from ? gte(measurements.epochJd, parseEpoch(f.from, 'from')) : undefined,
-    f.to ? lte(measurements.epochJd, parseEpoch(f.to, 'to')) : undefined,
+    f.start ? gte(measurements.epochJd, parseEpoch(f.start, 'start')) : undefined,
+    f.end ? lte(measurements.epochJd, parseEpoch(f.end, 'end')) : undefined,
   ];
 }
 

@@ -85,21 +85,21 @@ export const blockEntity = entity<BlockRow>({
   },
 });
 
-/** Which nights to list: at a site, of a campaign, with dates (YYYY-MM-DD) in [from, to]. */
+/** Which nights to list: at a site, of a campaign, with dates (YYYY-MM-DD) in [start, end]. */
 export interface NightFilter {
   siteId?: number | undefined;
   campaignId?: number | undefined;
-  from?: string | undefined;
-  to?: string | undefined;
+  start?: string | undefined;
+  end?: string | undefined;
 }
-/** Which blocks to list; `from`/`to` are epochs (ISO 8601 with zone, JD, MJD, J…) the block overlaps. */
+/** Which blocks to list; `start`/`end` are epochs (ISO 8601 with zone, JD, MJD, J…) the block overlaps. */
 export interface BlockFilter {
   nightId?: number | undefined;
   targetId?: number | undefined;
   siteId?: number | undefined;
   campaignId?: number | undefined;
-  from?: string | undefined;
-  to?: string | undefined;
+  start?: string | undefined;
+  end?: string | undefined;
 }
 
 /** An epoch as ISO UTC (string comparison of ISO UTC is time order). */
@@ -113,8 +113,8 @@ function blockWhere(f: BlockFilter, db: DbOrTx) {
     f.targetId ? eq(blocks.targetId, f.targetId) : undefined,
     f.siteId ? ofNights(nights.siteId, f.siteId) : undefined,
     f.campaignId ? ofNights(nights.campaignId, f.campaignId) : undefined,
-    f.from ? gte(blocks.endUtc, isoOf(f.from, 'from')) : undefined,
-    f.to ? lt(blocks.startUtc, isoOf(f.to, 'to')) : undefined,
+    f.start ? gte(blocks.endUtc, isoOf(f.start, 'start')) : undefined,
+    f.end ? lt(blocks.startUtc, isoOf(f.end, 'end')) : undefined,
   ];
 }
 
@@ -124,8 +124,8 @@ export function nightRepository(db: Db) {
     where: (f: NightFilter) => [
       f.siteId ? eq(nights.siteId, f.siteId) : undefined,
       f.campaignId ? eq(nights.campaignId, f.campaignId) : undefined,
-      f.from ? gte(nights.date, f.from) : undefined,
-      f.to ? lte(nights.date, f.to) : undefined,
+      f.start ? gte(nights.date, f.start) : undefined,
+      f.end ? lte(nights.date, f.end) : undefined,
     ],
     schema: NightInput,
     keys: Object.keys(NightInput.shape),

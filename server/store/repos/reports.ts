@@ -71,13 +71,13 @@ async function writeOutcomes(
   }
 }
 
-/** Which night reports to list: of a night, at a site, of a campaign, nights (YYYY-MM-DD) in [from, to]. */
+/** Which night reports to list: of a night, at a site, of a campaign, nights (YYYY-MM-DD) in [start, end]. */
 export interface NightReportFilter {
   nightId?: number | undefined;
   siteId?: number | undefined;
   campaignId?: number | undefined;
-  from?: string | undefined;
-  to?: string | undefined;
+  start?: string | undefined;
+  end?: string | undefined;
 }
 
 function nightReportWhere(f: NightReportFilter, db: DbOrTx) {
@@ -87,8 +87,8 @@ function nightReportWhere(f: NightReportFilter, db: DbOrTx) {
     f.nightId ? eq(nightReports.nightId, f.nightId) : undefined,
     f.siteId ? ofNights(eq(nights.siteId, f.siteId)) : undefined,
     f.campaignId ? ofNights(eq(nights.campaignId, f.campaignId)) : undefined,
-    f.from ? ofNights(gte(nights.date, f.from)) : undefined,
-    f.to ? ofNights(lte(nights.date, f.to)) : undefined,
+    f.start ? ofNights(gte(nights.date, f.start)) : undefined,
+    f.end ? ofNights(lte(nights.date, f.end)) : undefined,
   ];
 }
 
