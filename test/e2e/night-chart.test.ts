@@ -5,40 +5,19 @@
  * of one system; the now mark; the UTC clock; the text twin; the altitude detail. Screenshots go
  * to test-output/e2e/ for review.
  */
-import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
-import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
+import type { Page } from 'playwright-core';
+import { describe, expect, inject, test } from 'vitest';
 import type { BlockRow, Visibility } from '../../client/src/api/types.ts';
 import { NIGHT_MARGIN } from '../../client/src/plots/night-layout.ts';
-import { SCREENSHOTS, TEST_NOW, apiCaller, launchBrowser, newContext } from './harness.ts';
+import { svgEdges, svgLineX } from './svg-geometry.ts';
+import { chartPages } from './chart-page.ts';
+import { SCREENSHOTS, TEST_NOW, apiCaller } from './harness.ts';
 
-const base = inject('baseUrl');
-const lead = inject('leadToken');
-const api = apiCaller(base, lead);
+const api = apiCaller(inject('baseUrl'), inject('leadToken'));
 const WIDTH = 1100; // the chart's viewBox width (client/src/plots/night-chart.tsx default)
 const LIMITS = ['darkness', 'altitude', 'horizon-mask', 'sun-distance', 'moon', 'night-edge'];
-let browser: Browser;
-let ctx: BrowserContext;
-
-beforeAll(async () => {
-  mkdirSync(SCREENSHOTS, { recursive: true });
-  browser = await launchBrowser();
-  ctx = await newContext(browser, { viewport: { width: 1280, height: 1000 } });
-});
-afterAll(async () => {
-  await ctx?.close();
-  await browser?.close();
-});
-
-async function open(path: string): Promise<{ page: Page; errors: string[] }> {
-  const page = await ctx.newPage();
-  const errors: string[] = [];
-  page.on('console', (m) => m.type() === 'error' && errors.push(m.text()));
-  page.on('pageerror', (e) => errors.push(e.message));
-  await page.goto(`${base}${path}?token=${lead}`);
-  return { page, errors };
-}
+const open = chartPages();
 
 /**
  * Screen x of an instant, computed here from the API's times: the chart spans sunset − 30 min to
@@ -52,17 +31,6 @@ async function screenX(page: Page, vis: Visibility) {
   const left = NIGHT_MARGIN.left;
   const right = WIDTH - NIGHT_MARGIN.right;
   return (ms: number) => box.x + k * (left + ((ms - t0) / (t1 - t0)) * (right - left));
-}
-
-/** Left and right screen edges of an element's first rect, by its geometry (a stroke left out). */
-async function edges(el: Locator): Promise<[number, number]> {
-  const rect = (await el.evaluate((e) => e.tagName)) === 'rect' ? el : el.locator('rect').first();
-  return rect.evaluate((r) => {
-    const g = r as SVGGraphicsElement;
-    const b = g.getBBox();
-    const m = g.getScreenCTM()!;
-    return [m.a * b.x + m.e, m.a * (b.x + b.width) + m.e] as [number, number];
-  });
 }
 
 /** A demo night at the first site with at least one window and one block. */
@@ -106,7 +74,7 @@ describe('the night chart', () => {
       const open = lane.locator('.open-span');
       expect(await open.count()).toBe(t.windows.length);
       for (const [k, w] of t.windows.entries()) {
-        const [l, r] = await edges(open.nth(k));
+        const [l, r] = await svgEdges(open.nth(k));
         expect(Math.abs(l - x(Date.parse(w.start.utc)))).toBeLessThanOrEqual(1);
         expect(Math.abs(r - x(Date.parse(w.end.utc)))).toBeLessThanOrEqual(1);
         checked += 2;
@@ -157,7 +125,7 @@ describe('the night chart', () => {
     const dark = page.locator('svg.night-chart .dark-span');
     expect(await dark.count()).toBe(vis.darkness.intervals.length);
     for (const [k, d] of vis.darkness.intervals.entries()) {
-      const [l, r] = await edges(dark.nth(k));
+      const [l, r] = await svgEdges(dark.nth(k));
       expect(Math.abs(l - x(Date.parse(d.start.utc)))).toBeLessThanOrEqual(1);
       expect(Math.abs(r - x(Date.parse(d.end.utc)))).toBeLessThanOrEqual(1);
       checked += 2;
@@ -174,7 +142,7 @@ describe('the night chart', () => {
         l.some((n) => n.startsWith(`${names.get(b.targetId)} (`)),
       );
       const bar = lanes.nth(laneIndex).locator(`.block-bar[data-block="${b.id}"]`);
-      const [l, r] = await edges(bar);
+      const [l, r] = await svgEdges(bar);
       expect(Math.abs(l - x(Date.parse(b.startUtc)))).toBeLessThanOrEqual(1);
       expect(Math.abs(r - x(Date.parse(b.endUtc)))).toBeLessThanOrEqual(1);
       checked += 2;
@@ -199,7 +167,7 @@ describe('the night chart', () => {
     const t = vis.targets.find((v) => v.name === laneTargets[withWindow]![0])!;
     const col = page.locator('svg.night-detail .window-column');
     await col.first().waitFor();
-    const [l] = await edges(col.first());
+    const [l] = await svgEdges(col.first());
     expect(Math.abs(l - x(Date.parse(t.windows[0]!.start.utc)))).toBeLessThanOrEqual(1);
     await page
       .locator('#night-chart')
@@ -236,10 +204,7 @@ describe('the night chart', () => {
       const at = Number(await mark.getAttribute('data-ms'));
       expect(Math.abs(at - Date.parse(TEST_NOW))).toBeLessThan(120_000); // the browser's clock runs on from TEST_NOW
       const x = await screenX(page, vis);
-      const lineX = await mark.locator('line').evaluate((e) => {
-        const m = (e as SVGGraphicsElement).getScreenCTM()!;
-        return m.a * Number(e.getAttribute('x1')) + m.e;
-      });
+      const lineX = await svgLineX(mark.locator('line'));
       expect(Math.abs(lineX - x(at))).toBeLessThanOrEqual(1);
       expect(errors).toEqual([]);
       await page.close();

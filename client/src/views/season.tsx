@@ -1,15 +1,20 @@
 /**
- * The season at each of the campaign's sites: observable hours per night for every target across
- * a year, with periapsis dates and the nights already planned on the same chart.
+ * The season at each of the campaign's sites: observable hours per night for every sky position
+ * across a year as heat strips, each star's periapsis ± 1σ (from its current solution's events)
+ * and the nights already planned or proposed on the same axis.
  */
+import { DateTime } from 'luxon';
 import { useState } from 'preact/hooks';
-import { getAll, send } from '../api/client.ts';
+import { ApiError, get, getAll, send } from '../api/client.ts';
 import { loadCatalogue, skySite, skyTarget, type Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, CampaignRow, NightRow, Season } from '../api/types.ts';
+import type { BlockRow, CampaignRow, NightRow, OrbitEvent, Season } from '../api/types.ts';
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
 import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { SeasonPlanPanel, type SeasonPlanPreview } from './season-plan.tsx';
+
+/** "Feb 18" for a YYYY-MM-DD date. */
+const monthDay = (date: string) => DateTime.fromISO(date, { zone: 'utc' }).toFormat('LLL dd');
 
 function limitsOf(c: CampaignRow) {
   const k = c.limits;
@@ -45,18 +50,22 @@ function SiteSeason({
     .filter((x) => x.t !== null);
   const { data, error } = useLoad(
     () =>
-      send<Season>('POST', '/sky/season', {
-        site: skySite(site),
-        year,
-        targets: targets.map((x) => x.t),
-        limits: limitsOf(campaign),
-      }),
+      Promise.all([
+        send<Season>('POST', '/sky/season', {
+          site: skySite(site),
+          year,
+          targets: targets.map((x) => x.t),
+          limits: limitsOf(campaign),
+        }),
+        Promise.all(targets.map((x) => periapsesAround(x.id, year))),
+      ]),
     [siteId, year, campaign.id],
   );
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what={`the season at ${site.name}`} />;
+  const [season, events] = data;
   const nightDate = new Map(nights.filter((n) => n.siteId === siteId).map((n) => [n.id, n.date]));
-  const rows: SeasonRow[] = data.targets.map((t, i) => {
+  const rows: SeasonRow[] = season.targets.map((t, i) => {
     const tid = targets[i]!.id;
     const planned = [
       ...new Set(
@@ -65,12 +74,21 @@ function SiteSeason({
           .map((b) => nightDate.get(b.nightId)!),
       ),
     ].filter((d) => d.startsWith(String(year)));
+    const system = cat.system(cat.target(tid)?.systemId ?? -1)?.name;
     return {
       name: t.name,
+      ...(system ? { system } : {}),
       hoursPerNight: t.hoursPerNight,
-      periapsisDates: t.periapses
-        .map((p) => (p.epoch ?? p.date ?? '').slice(0, 10))
-        .filter(Boolean),
+      periapses: events[i]!.map((e) => {
+        const inSeason = t.periapses.find(
+          (p) => p.epoch && Math.abs(Date.parse(p.epoch) - Date.parse(e.epoch)) < 86_400_000,
+        )?.inSeason;
+        return {
+          epoch: e.epoch,
+          ...(e.sigmaDays !== undefined ? { sigmaDays: e.sigmaDays } : {}),
+          ...(inSeason !== undefined ? { inSeason } : {}),
+        };
+      }),
       plannedDates: planned,
       proposedDates: [
         ...new Set(
@@ -82,25 +100,30 @@ function SiteSeason({
         ),
       ],
       seasonText: t.season
-        ? `${t.season.start.slice(5)} → ${t.season.end.slice(5)} · ${t.season.usableNights} nights`
+        ? `${monthDay(t.season.start)} → ${monthDay(t.season.end)} · ${t.season.usableNights} nights`
         : 'not observable',
     };
   });
   return (
     <Section title={`${site.name} (${site.timeZone})`} id={`season-site-${siteId}`}>
-      <SeasonChart year={year} rows={rows} darkHours={data.nights.map((n) => n.darkHours)} />
+      <SeasonChart
+        year={year}
+        zone={site.timeZone}
+        rows={rows}
+        darkHours={season.nights.map((n) => n.darkHours)}
+        nowMs={Date.now()}
+      />
       <p class="legend">
-        Bars: hours per night the target meets the campaign’s limits (darkness{' '}
+        Cells: hours per night a star meets the campaign’s limits (darkness{' '}
         {campaign.limits.darkness ?? 'astronomical'}, airmass ≤{' '}
         {campaign.limits.highestAirmass ?? 2}, Moon ≥ {campaign.limits.leastMoonDistanceDeg ?? 30}°
-        away) · faint line: hours of darkness · ◆ periapsis · ticks under a strip: nights already
-        planned
-        {proposal ? ' · hollow circles: the proposed season plan' : ''}.
+        away); the top strip is the hours of darkness on the same scale. Stars at one sky position
+        share a strip and keep a track each.
       </p>
-      {(data.cautions ?? []).map((c) => (
+      {(season.cautions ?? []).map((c) => (
         <Caution key={c}>{c}</Caution>
       ))}
-      {data.targets.flatMap((t) =>
+      {season.targets.flatMap((t) =>
         t.periapses
           .filter((p) => p.inSeason === false)
           .map((p) => (
@@ -190,4 +213,22 @@ export function SeasonView() {
       />
     </div>
   );
+}
+
+/**
+ * A target's periapsis passages from half a year before to half a year after `year`, with their
+ * 1σ (so a span reaching into the year is drawn); none without an orbit solution.
+ */
+async function periapsesAround(targetId: number, year: number): Promise<OrbitEvent[]> {
+  try {
+    const r = await get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, {
+      kinds: 'periapsis',
+      start: `${year - 1}-07-01`,
+      end: `${year + 1}-07-01`,
+    });
+    return r.events;
+  } catch (e) {
+    if (e instanceof ApiError && e.status === 404) return [];
+    throw e;
+  }
 }
