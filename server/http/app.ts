@@ -5,7 +5,7 @@ import { OpenAPIHono } from '@hono/zod-openapi';
 import { bodyLimit } from 'hono/body-limit';
 import { HttpError, errorResponse } from './errors.ts';
 import { healthRoutes } from './health.ts';
-import { methodNotAllowed } from './method-not-allowed.ts';
+import { methodNotAllowed } from 'hono/method-not-allowed';
 import { orbitRoutes } from './orbit.ts';
 import { skyRoutes } from './sky.ts';
 import { fitRoutes } from './fit.ts';
@@ -33,6 +33,28 @@ export interface AppOptions {
 export function createApp(options: AppOptions = {}) {
   const app = new OpenAPIHono({ defaultHook: validationHook });
   app.onError((err, c) => errorResponse(c, err));
+  // 405 (RFC 9110 §15.5.6) with `Allow` for a path served under other methods: a PATCH on an
+  // immutable orbit solution is refused as such, not reported missing. Hono's middleware finds the
+  // methods after the 404 fallback has answered; we give the answer our error shape.
+  app.use(
+    '/api/*',
+    methodNotAllowed({
+      app,
+      onMethodNotAllowed: (c, methods) => {
+        const allow = [...methods].sort();
+        c.header('Allow', allow.join(', '));
+        return errorResponse(
+          c,
+          new HttpError(
+            405,
+            'method_not_allowed',
+            `${c.req.method} is not allowed on ${c.req.path}; allowed: ${allow.join(', ')}`,
+            { method: c.req.method, allow },
+          ),
+        );
+      },
+    }),
+  );
   if (options.checkResponses ?? process.env.EPOCHWRIGHT_CHECK_RESPONSES === '1')
     app.use('/api/*', responseCheck(app));
   const bodyLimits = bodyLimitsFor(options);
@@ -50,7 +72,6 @@ export function createApp(options: AppOptions = {}) {
     info: { title: 'epochwright API', version: VERSION },
   });
   app.route('/api', api);
-  app.all('/api/*', methodNotAllowed(app));
   app.all('/api/*', (c) =>
     errorResponse(
       c,
