@@ -35,7 +35,8 @@ export interface PreparedFit {
   targets: { id: number; name: string; measurementIds: number[] }[];
 }
 
-function toInput(m: MeasurementRow): MeasurementInput {
+/** A stored measurement as the fit takes it. */
+export function toInput(m: MeasurementRow): MeasurementInput {
   const common = { epoch: m.epoch, id: String(m.id) };
   switch (m.kind) {
     case 'offsets':

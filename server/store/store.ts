@@ -12,6 +12,7 @@ import { measurementsForExport } from './exports/measurements.ts';
 import { acceptStoredFit, prepareStoredFit, systemTargetIds } from './fits.ts';
 import { auditLog } from './repos/audit.ts';
 import { acceptNightSchedule, previewNightSchedule } from './views/night-plan.ts';
+import { targetForecast } from './views/forecast.ts';
 import { campaignFlags } from './views/planning.ts';
 import { acceptSeasonPlan, previewSeasonPlan } from './views/season-plan.ts';
 import { nightVisibility } from './views/visibility.ts';
@@ -41,6 +42,8 @@ export function createStore(database: Database) {
       acceptSeason: bind(context, acceptSeasonPlan),
       previewNight: bind(db, previewNightSchedule),
       acceptNight: bind(context, acceptNightSchedule),
+      /** When the relativistic terms of a target become detectable with its planned blocks. */
+      forecast: bind(db, targetForecast),
     },
     /** The sky engine's night report for a stored night and its campaign's targets. */
     nightVisibility: bind(db, nightVisibility),

@@ -1647,6 +1647,105 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/targets/{id}/forecast": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** When the redshift and precession factors become detectable with the planned blocks */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description count planned blocks from here (ISO 8601, JD, MJD); default now */
+                    at?: string;
+                    /** @description 1σ per offset component of a planned epoch, mas */
+                    astrometryMas?: number;
+                    /** @description 1σ of a planned radial velocity, km/s */
+                    spectroscopyKmS?: number;
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Fisher σ of each factor now and after the plan, dates of 3σ and 5σ, top epochs */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["TargetForecast"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/orbit-solutions": {
         parameters: {
             query?: never;
@@ -8433,6 +8532,50 @@ export interface components {
             /** @description samples × targets evaluated */
             evaluations: number;
             cautions: string[];
+        };
+        TargetForecast: {
+            factors: components["schemas"]["FactorForecast"][];
+            plannedEpochs: number;
+            summary: string[];
+            assumptions: string;
+            solution: {
+                id: number;
+                version: number;
+            };
+            at: string;
+            precision: {
+                astrometryMas: number;
+                spectroscopyKmS: number;
+                source: string;
+            };
+            blockIds: number[];
+        };
+        FactorForecast: {
+            /** @enum {string} */
+            name: "redshiftFactor" | "precessionFactor";
+            /** @description the value assumed true (1: general relativity) */
+            assumedValue: number;
+            /** @description Fisher 1σ from the measurements; null: not determined yet */
+            sigmaNow: number | null;
+            /** @description Fisher 1σ with the planned epochs */
+            sigmaAfter: number | null;
+            /** @description expected |value|/σ now */
+            significanceNow: number;
+            /** @description expected |value|/σ after the plan */
+            significanceAfter: number;
+            reaches: {
+                sigma: number;
+                already: boolean;
+                /** @description the planned epoch (observed time, ISO 8601 UTC) after which the threshold is reached; null if never */
+                epoch: string | null;
+            }[];
+            topEpochs: {
+                epoch: string;
+                /** @enum {string} */
+                kind: "astrometry" | "spectroscopy";
+                /** @description fraction of the information after the plan that this epoch adds */
+                share: number;
+            }[];
         };
         OrbitSolution: {
             targetId: number;

@@ -12,6 +12,7 @@ import { flagsCommand } from './flags.ts';
 import { planNightCommand } from './plan-night.ts';
 import { planSeasonCommand } from './plan-season.ts';
 import { fitCommand } from './fit.ts';
+import { forecastCommand } from './forecast.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
@@ -26,4 +27,5 @@ export const commands: Record<string, Command> = {
   'plan-season': planSeasonCommand,
   'plan-night': planNightCommand,
   fit: fitCommand,
+  forecast: forecastCommand,
 };

@@ -15,6 +15,8 @@ import {
   OrbitDescriptionSchema,
   OrbitEventSchema,
 } from '../schemas/orbit-output.ts';
+import { TargetForecastSchema } from '../schemas/forecast-output.ts';
+import { momentJd } from '../../clock.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 
 const tags = ['targets'];
@@ -39,6 +41,22 @@ const EphemerisQuery = z.object({
     description: 'ISO 8601 duration between epochs, e.g. "P1D", "PT12H"; default P30D',
   }),
   format: z.enum(['json', 'csv']).default('json'),
+});
+const ForecastQuery = z.object({
+  at: z
+    .string()
+    .optional()
+    .openapi({ description: 'count planned blocks from here (ISO 8601, JD, MJD); default now' }),
+  astrometryMas: z.coerce
+    .number()
+    .positive()
+    .optional()
+    .openapi({ description: '1σ per offset component of a planned epoch, mas' }),
+  spectroscopyKmS: z.coerce
+    .number()
+    .positive()
+    .optional()
+    .openapi({ description: '1σ of a planned radial velocity, km/s' }),
 });
 const EventsQuery = z.object({
   start: z.string(),
@@ -114,6 +132,36 @@ export function targetViewRoutes(store: Store) {
         kinds ? { kinds } : {},
       );
       return c.json({ solution: { id: solution.id, version: solution.version }, events }, 200);
+    },
+  );
+  app.openapi(
+    createRoute({
+      method: 'get',
+      path: '/targets/{id}/forecast',
+      tags,
+      security,
+      summary: 'When the redshift and precession factors become detectable with the planned blocks',
+      request: { params: IdParam, query: ForecastQuery },
+      responses: {
+        200: json(
+          TargetForecastSchema,
+          'Fisher σ of each factor now and after the plan, dates of 3σ and 5σ, top epochs',
+        ),
+        ...errorResponses,
+      },
+    }),
+    async (c) => {
+      requireRole(c, 'viewer');
+      const q = c.req.valid('query');
+      const precision = {
+        ...(q.astrometryMas !== undefined ? { astrometryMas: q.astrometryMas } : {}),
+        ...(q.spectroscopyKmS !== undefined ? { spectroscopyKmS: q.spectroscopyKmS } : {}),
+      };
+      const forecast = await store.plans.forecast(c.req.valid('param').id, {
+        atJd: momentJd(q.at, 'at'),
+        precision,
+      });
+      return c.json(forecast, 200);
     },
   );
   return app;

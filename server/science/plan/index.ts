@@ -42,6 +42,15 @@ export {
   type KeptBlock,
 } from './night-schedule.ts';
 export {
+  DETECTION_THRESHOLDS,
+  FORECAST_FACTORS,
+  forecastDetection,
+  type DetectionForecast,
+  type FactorForecast,
+  type ForecastEpoch,
+  type ForecastRequest,
+} from './forecast.ts';
+export {
   planSeason,
   type PlannedEpoch,
   type SeasonOptions,

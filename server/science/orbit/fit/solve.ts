@@ -297,6 +297,19 @@ export function solveStar(
   };
 }
 
+/**
+ * The full vector of a one-star layout at a known orbit: its elements, distance, γ and relativity
+ * factors (the frame terms at 0). For forecasts, where the orbit is given rather than fitted.
+ */
+export function thetaFromOrbit(L: Layout, orbit: Orbit): Float64Array {
+  const t = withElements(L, 0, new Float64Array(L.params.length), orbit);
+  if (L.sys.d >= 0 && orbit.distancePc !== null) t[L.sys.d] = orbit.distancePc;
+  if (L.sys.gamma >= 0) t[L.sys.gamma] = orbit.gammaKmS;
+  if (L.sys.fz >= 0) t[L.sys.fz] = orbit.factors.redshiftFactor;
+  if (L.sys.fw >= 0) t[L.sys.fw] = orbit.factors.precessionFactor;
+  return t;
+}
+
 /** theta with star k's orbital elements taken from an orbit (the distance, γ and frame stay). */
 function withElements(L: Layout, k: number, theta: Float64Array, o: Orbit): Float64Array {
   const t = Float64Array.from(theta);

@@ -1,0 +1,102 @@
+/** `epochwright forecast`: when a stored target's redshift and precession become detectable. */
+import { parseArgs } from 'node:util';
+import { momentJd } from '../../clock.ts';
+import type { FactorForecast } from '../../science/plan/index.ts';
+import { UsageError, outputFormat, type Command } from '../io.ts';
+import { render, type Column } from '../output.ts';
+import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+
+const help = `usage: epochwright forecast --target-id <id> [--at <epoch>] [--astrometry-mas <σ>] [--spectroscopy-kms <σ>] [--json | --csv]
+
+The detection forecast of a stored target's relativistic terms: the Fisher 1σ of the redshift
+factor (gravitational redshift with transverse Doppler) and of the precession factor, from its
+measurements now and with its blocks still planned after --at; the planned epoch after which each
+reaches 3σ and 5σ if general relativity holds; the epochs that add most. Linear, at the current
+orbit solution (which needs a distance).
+
+options:
+  --target-id <id>          the target
+  --at <epoch>              count planned blocks from here (ISO 8601, JD, MJD); default now
+  --astrometry-mas <σ>      1σ per offset component of a planned epoch (default: the median of the
+                            target's offsets, else 1 mas)
+  --spectroscopy-kms <σ>    1σ of a planned velocity (default: the median of its velocities, else 5 km/s)
+${DATABASE_HELP}
+  --json | --csv            machine-readable output instead of a table
+`;
+
+function positive(option: string, text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  const x = Number(text);
+  if (!(x > 0) || !Number.isFinite(x))
+    throw new UsageError(`--${option}: ${JSON.stringify(text)} must be a positive number`);
+  return x;
+}
+
+const day = (iso: string | null) => (iso === null ? null : iso.slice(0, 10));
+
+export const forecastCommand: Command = {
+  summary: 'when the redshift and precession of a stored target become detectable',
+  help,
+  async run(argv) {
+    const { values } = parseArgs({
+      args: argv,
+      options: {
+        ...databaseOption,
+        'target-id': { type: 'string' },
+        at: { type: 'string' },
+        'astrometry-mas': { type: 'string' },
+        'spectroscopy-kms': { type: 'string' },
+        json: { type: 'boolean' },
+        csv: { type: 'boolean' },
+      },
+      strict: true,
+      allowPositionals: false,
+    });
+    const format = outputFormat(values);
+    const id = Number(values['target-id']);
+    if (!Number.isInteger(id) || id <= 0)
+      throw new UsageError(
+        `--target-id: ${JSON.stringify(values['target-id'] ?? null)} must be a target id (a positive integer)`,
+      );
+    const atJd = momentJd(values.at, '--at');
+    const ast = positive('astrometry-mas', values['astrometry-mas']);
+    const rv = positive('spectroscopy-kms', values['spectroscopy-kms']);
+    const result = await withStore(values.database, (store) =>
+      store.plans.forecast(id, {
+        atJd,
+        precision: {
+          ...(ast !== undefined ? { astrometryMas: ast } : {}),
+          ...(rv !== undefined ? { spectroscopyKmS: rv } : {}),
+        },
+      }),
+    );
+    const sig = (x: number | null) => (x === null ? null : Number(x.toPrecision(3)));
+    const columns: Column<FactorForecast>[] = [
+      { header: 'factor', value: (f) => f.name },
+      { header: 'sigma_now', value: (f) => sig(f.sigmaNow) },
+      { header: 'sigma_after', value: (f) => sig(f.sigmaAfter) },
+      { header: 'signif_now', value: (f) => f.significanceNow, digits: 1 },
+      { header: 'signif_after', value: (f) => f.significanceAfter, digits: 1 },
+      {
+        header: '3sigma_after',
+        value: (f) => (f.reaches[0]!.already ? 'already' : day(f.reaches[0]!.epoch)),
+      },
+      {
+        header: '5sigma_after',
+        value: (f) => (f.reaches[1]!.already ? 'already' : day(f.reaches[1]!.epoch)),
+      },
+      { header: 'best_epoch', value: (f) => day(f.topEpochs[0]?.epoch ?? null) },
+    ];
+    const table = render(format, result.factors, columns, result);
+    if (format !== 'table') return table;
+    return [
+      `solution ${result.solution.id} (version ${result.solution.version}); ${result.plannedEpochs} planned epochs after ${result.at}`,
+      `precision ${result.precision.astrometryMas} mas, ${result.precision.spectroscopyKmS} km/s (${result.precision.source})`,
+      ...result.summary,
+      '',
+      table,
+      `${result.assumptions}; epochs are observed times (light-time included when the Rømer delay is on)`,
+      '',
+    ].join('\n');
+  },
+};
