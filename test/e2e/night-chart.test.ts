@@ -155,6 +155,13 @@ describe('the night chart', () => {
     );
     // The text twin has a sentence per lane, with the first window's opening on both clocks.
     await expect(page.locator('#night-chart-text li').count()).resolves.toBe(laneTargets.length);
+    const words = (await page.locator('#night-chart-text').textContent())!;
+    expect(words).toContain(
+      `below ${vis.limits.altitudeLimitDeg.toFixed(1)}°, the lowest altitude`,
+    );
+    const w0 = vis.targets.flatMap((t) => t.windows)[0]!;
+    const utc = (iso: string) => iso.slice(11, 16);
+    expect(words).toContain(`(${utc(w0.start.utc)} UTC)`);
     await page
       .locator('svg.night-chart')
       .screenshot({ path: join(SCREENSHOTS, 'night-chart.png') });

@@ -103,7 +103,7 @@ export function DarknessLane({ L, vis }: { L: NightLayout; vis: Visibility }) {
       })}
       {marks.map((m, k) => (
         <g key={m.name} class="sun-notch" data-ms={m.ms}>
-          <line x1={x(m.ms)} x2={x(m.ms)} y1={d.y + d.h + 1} y2={d.notchY - 8 + rows[k]! * 9} />
+          <line x1={x(m.ms)} x2={x(m.ms)} y1={d.y + d.h + 1} y2={d.y + d.h + 5} />
           <text x={x(m.ms)} y={d.notchY + rows[k]! * 9} text-anchor="middle">
             {m.label}
           </text>

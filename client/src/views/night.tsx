@@ -208,8 +208,6 @@ function BlockTable({
 
 export function NightView({ id }: { id: number }) {
   const canEdit = useCan('observer');
-  const [clock, setClock] = useState<ChartClock>('site');
-  const [detail, setDetail] = useState(0);
   const [tick, setTick] = useState(0);
   const [proposal, setProposal] = useState<ScheduledBlock[] | null>(null);
   const { data, error } = useLoad(async () => {
@@ -227,15 +225,6 @@ export function NightView({ id }: { id: number }) {
   const site = cat.site(night.siteId)!;
   const names = (tid: number) => cat.target(tid)?.name ?? `#${tid}`;
   const zone = site.timeZone;
-  const dark = vis.darkness.intervals;
-  const both = (iso: string | null | undefined) =>
-    iso ? (
-      <>
-        {utcClock(iso)} UTC · {zoneClock(iso, zone)} local
-      </>
-    ) : (
-      '–'
-    );
   return (
     <div class="view night">
       <div class="view-head">
@@ -253,17 +242,6 @@ export function NightView({ id }: { id: number }) {
           <button type="button" onClick={() => print()}>
             Print night sheet
           </button>
-          <label class="inline">
-            clock{' '}
-            <select
-              name="clock"
-              value={clock}
-              onChange={(e) => setClock(e.currentTarget.value as ChartClock)}
-            >
-              <option value="site">site ({zone})</option>
-              <option value="utc">UTC</option>
-            </select>
-          </label>
         </div>
       </div>
       {vis.cautions.map((c) => (
@@ -276,47 +254,8 @@ export function NightView({ id }: { id: number }) {
           so.
         </Caution>
       )}
-      <Section title="The night" id="night-chart">
-        <NightChart
-          vis={vis}
-          blocks={blocks}
-          targetName={names}
-          nowMs={Date.now()}
-          clock={clock}
-          proposed={proposal ?? undefined}
-        />
-        <NightWords vis={vis} detail={detail} onDetail={setDetail} clock={clock} />
-      </Section>
-      <Section title="Sun, twilight and Moon" id="sun-moon">
-        <table class="data times">
-          <tbody>
-            <tr>
-              <th>sunset</th>
-              <td>{both(vis.sun.set?.utc)}</td>
-              <th>sunrise</th>
-              <td>{both(vis.sun.rise?.utc)}</td>
-            </tr>
-            <tr>
-              <th>astronomical dusk (−18°)</th>
-              <td>{both(vis.sun.twilights.astronomical.dusk?.utc)}</td>
-              <th>astronomical dawn</th>
-              <td>{both(vis.sun.twilights.astronomical.dawn?.utc)}</td>
-            </tr>
-            <tr>
-              <th>darkness starts</th>
-              <td>{both(dark[0]?.start.utc)}</td>
-              <th>darkness ends</th>
-              <td>{both(dark[dark.length - 1]?.end.utc)}</td>
-            </tr>
-            <tr>
-              <th>moonrise</th>
-              <td>{both(vis.moon.rise?.utc)}</td>
-              <th>moonset</th>
-              <td>{both(vis.moon.set?.utc)}</td>
-            </tr>
-          </tbody>
-        </table>
-      </Section>
+      <NightChartSection vis={vis} blocks={blocks} names={names} proposal={proposal} />
+      <SunMoonTimes vis={vis} zone={zone} />
       <Section title="Blocks" id="blocks">
         <BlockTable
           blocks={blocks}
@@ -384,5 +323,85 @@ function NightWords(p: {
         </div>
       )}
     </>
+  );
+}
+
+/** Sunset, twilight, darkness and Moon times on both clocks. */
+function SunMoonTimes({ vis, zone }: { vis: Visibility; zone: string }) {
+  const dark = vis.darkness.intervals;
+  const both = (iso: string | null | undefined) =>
+    iso ? (
+      <>
+        {utcClock(iso)} UTC · {zoneClock(iso, zone)} local
+      </>
+    ) : (
+      '–'
+    );
+  return (
+    <Section title="Sun, twilight and Moon" id="sun-moon">
+      <table class="data times">
+        <tbody>
+          <tr>
+            <th>sunset</th>
+            <td>{both(vis.sun.set?.utc)}</td>
+            <th>sunrise</th>
+            <td>{both(vis.sun.rise?.utc)}</td>
+          </tr>
+          <tr>
+            <th>astronomical dusk (−18°)</th>
+            <td>{both(vis.sun.twilights.astronomical.dusk?.utc)}</td>
+            <th>astronomical dawn</th>
+            <td>{both(vis.sun.twilights.astronomical.dawn?.utc)}</td>
+          </tr>
+          <tr>
+            <th>darkness starts</th>
+            <td>{both(dark[0]?.start.utc)}</td>
+            <th>darkness ends</th>
+            <td>{both(dark[dark.length - 1]?.end.utc)}</td>
+          </tr>
+          <tr>
+            <th>moonrise</th>
+            <td>{both(vis.moon.rise?.utc)}</td>
+            <th>moonset</th>
+            <td>{both(vis.moon.set?.utc)}</td>
+          </tr>
+        </tbody>
+      </table>
+    </Section>
+  );
+}
+
+/** The lane chart with its clock switch, its text twin and one lane's altitude. */
+function NightChartSection(p: {
+  vis: Visibility;
+  blocks: BlockRow[];
+  names: (id: number) => string;
+  proposal: ScheduledBlock[] | null;
+}) {
+  const [clock, setClock] = useState<ChartClock>('site');
+  const [detail, setDetail] = useState(0);
+  return (
+    <Section title="The night" id="night-chart">
+      <label class="inline no-print">
+        clock{' '}
+        <select
+          name="clock"
+          value={clock}
+          onChange={(e) => setClock(e.currentTarget.value as ChartClock)}
+        >
+          <option value="site">site ({p.vis.site.timeZone})</option>
+          <option value="utc">UTC</option>
+        </select>
+      </label>
+      <NightChart
+        vis={p.vis}
+        blocks={p.blocks}
+        targetName={p.names}
+        nowMs={Date.now()}
+        clock={clock}
+        proposed={p.proposal ?? undefined}
+      />
+      <NightWords vis={p.vis} detail={detail} onDetail={setDetail} clock={clock} />
+    </Section>
   );
 }
