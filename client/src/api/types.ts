@@ -262,3 +262,25 @@ export interface Page<T> {
   items: T[];
   total: number;
 }
+
+/** GET /targets/{id}/forecast: when the relativity factors become detectable with the planned blocks. */
+export interface FactorForecast {
+  name: 'redshiftFactor' | 'precessionFactor';
+  assumedValue: number;
+  sigmaNow: number | null;
+  sigmaAfter: number | null;
+  significanceNow: number;
+  significanceAfter: number;
+  reaches: { sigma: number; already: boolean; epoch: string | null }[];
+  topEpochs: { epoch: string; kind: 'astrometry' | 'spectroscopy'; share: number }[];
+}
+export interface TargetForecast {
+  factors: FactorForecast[];
+  plannedEpochs: number;
+  summary: string[];
+  assumptions: string;
+  solution: { id: number; version: number };
+  at: string;
+  precision: { astrometryMas: number; spectroscopyKmS: number; source: string };
+  blockIds: number[];
+}

@@ -15,6 +15,7 @@ import { useLoad } from '../lib/use-load.ts';
 import { EphemerisTable } from './ephemeris-table.tsx';
 import { astrometricResidual, loadTargetData, rvSeries, type TargetData } from './target-data.ts';
 import { FitPanel } from './fit-panel.tsx';
+import { ForecastPanel } from './forecast-panel.tsx';
 import type { Prediction } from '../api/types.ts';
 
 function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null }) {
@@ -290,6 +291,11 @@ export function TargetView({ id }: { id: number }) {
             <RvPanel d={d} />
           </Section>
         </div>
+      )}
+      {d.solution?.orbit.distancePc !== undefined && (
+        <Section title="Relativity forecast" id="forecast">
+          <ForecastPanel targetId={id} />
+        </Section>
       )}
       <Section title="Events" id="events">
         <Events targetId={id} periodYears={d.periodYears} />

@@ -1,0 +1,91 @@
+/**
+ * The detection forecast of a target's relativistic terms: for the redshift and the precession
+ * factor, the expected significance now and after the planned blocks, the date each reaches 3σ and
+ * 5σ, and the planned epochs that add most (server: GET /targets/{id}/forecast).
+ */
+import { get } from '../api/client.ts';
+import type { FactorForecast, TargetForecast } from '../api/types.ts';
+import { dateText } from '../lib/time.ts';
+import { ErrorLine, Loading, Qty } from '../lib/ui.tsx';
+import { useLoad } from '../lib/use-load.ts';
+
+const LABEL: Record<FactorForecast['name'], string> = {
+  redshiftFactor: 'redshift factor (gravitational redshift + transverse Doppler)',
+  precessionFactor: 'precession factor (Schwarzschild)',
+};
+
+function reached(f: FactorForecast, sigma: number): string {
+  const r = f.reaches.find((x) => x.sigma === sigma);
+  if (!r) return '–';
+  if (r.already) return 'already';
+  return r.epoch ? `after ${dateText(r.epoch)}` : 'not with this plan';
+}
+
+export function ForecastPanel({ targetId }: { targetId: number }) {
+  const { data, error } = useLoad(
+    () => get<TargetForecast>(`/targets/${targetId}/forecast`),
+    [targetId],
+  );
+  if (error) return <ErrorLine error={error} />;
+  if (!data) return <Loading what="the forecast" />;
+  return (
+    <div class="forecast">
+      <ul class="forecast-summary">
+        {data.summary.map((s) => (
+          <li key={s}>{s}</li>
+        ))}
+      </ul>
+      <table class="data forecast-table">
+        <caption>
+          {data.plannedEpochs} planned epochs from now; precision {data.precision.astrometryMas} mas
+          and {data.precision.spectroscopyKmS} km/s ({data.precision.source}). Significance is the
+          factor over its 1σ, assuming general relativity (factor 1).
+        </caption>
+        <thead>
+          <tr>
+            <th>factor</th>
+            <th>1σ now</th>
+            <th>1σ after the plan</th>
+            <th>significance now</th>
+            <th>after the plan</th>
+            <th>3σ</th>
+            <th>5σ</th>
+            <th>epochs that add most (share of the information)</th>
+          </tr>
+        </thead>
+        <tbody>
+          {data.factors.map((f) => (
+            <tr key={f.name}>
+              <td>{LABEL[f.name]}</td>
+              <td>
+                {f.sigmaNow === null ? 'not determined' : <Qty v={f.sigmaNow} unit="" digits={3} />}
+              </td>
+              <td>
+                {f.sigmaAfter === null ? (
+                  'not determined'
+                ) : (
+                  <Qty v={f.sigmaAfter} unit="" digits={3} />
+                )}
+              </td>
+              <td>
+                <Qty v={f.significanceNow} unit="σ" />
+              </td>
+              <td>
+                <Qty v={f.significanceAfter} unit="σ" />
+              </td>
+              <td>{reached(f, 3)}</td>
+              <td>{reached(f, 5)}</td>
+              <td>
+                {f.topEpochs
+                  .slice(0, 3)
+                  .map((e) => `${dateText(e.epoch)} ${e.kind} ${(100 * e.share).toFixed(0)} %`)
+                  .join(' · ')}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <p class="muted">{data.assumptions}. Dates are observed times (light-time included).</p>
+    </div>
+  );
+}
