@@ -6,6 +6,7 @@
  * to test-output/e2e/ for review.
  */
 import { join } from 'node:path';
+import { DateTime } from 'luxon';
 import type { Page } from 'playwright-core';
 import { describe, expect, inject, test } from 'vitest';
 import type { BlockRow, Visibility } from '../../client/src/api/types.ts';
@@ -33,14 +34,12 @@ async function screenX(page: Page, vis: Visibility) {
   return (ms: number) => box.x + k * (left + ((ms - t0) / (t1 - t0)) * (right - left));
 }
 
-/** A demo night at the first site with at least one window and one block. */
+/** A demo night with at least one window and one block. */
 async function nightWithWindows(): Promise<{ id: number; vis: Visibility; blocks: BlockRow[] }> {
   const nights = (
-    await api<{ items: { id: number; siteId: number; date: string }[] }>(
-      '/nights?siteId=1&limit=500',
-    )
+    await api<{ items: { id: number; siteId: number; date: string }[] }>('/nights?limit=500')
   ).items;
-  for (const n of nights.filter((x) => x.date >= '2027-03-01')) {
+  for (const n of nights.slice(0, 60)) {
     const vis = await api<Visibility>(`/nights/${n.id}/visibility?curves=true`);
     const blocks = (await api<{ items: BlockRow[] }>(`/blocks?nightId=${n.id}`)).items;
     if (blocks.length && vis.targets.some((t) => t.windows.length))
@@ -147,6 +146,25 @@ describe('the night chart', () => {
       expect(Math.abs(r - x(Date.parse(b.endUtc)))).toBeLessThanOrEqual(1);
       checked += 2;
     }
+    // A proposed schedule: each bar where the schedule answer the view received puts it.
+    const [answer] = await Promise.all([
+      page.waitForResponse(
+        (r) => r.request().method() === 'POST' && r.url().endsWith(`/api/nights/${id}/schedule`),
+      ),
+      page.getByRole('button', { name: 'Propose a schedule' }).click(),
+    ]);
+    const proposal = (await answer.json()) as {
+      schedule: { blocks: { id: string; start: { utc: string }; end: { utc: string } }[] };
+    };
+    await page.locator('svg.night-chart .proposed-track .block-bar').first().waitFor();
+    for (const p of proposal.schedule.blocks) {
+      const [l, r] = await svgEdges(
+        page.locator(`svg.night-chart .block-bar[data-proposed="${p.id}"]`),
+      );
+      expect(Math.abs(l - x(Date.parse(p.start.utc)))).toBeLessThanOrEqual(1);
+      expect(Math.abs(r - x(Date.parse(p.end.utc)))).toBeLessThanOrEqual(1);
+      checked += 2;
+    }
     console.log(`night ${id}: ${checked} edges within 1 px at ${(px * WIDTH).toFixed(0)} px wide`);
 
     // The Moon lane carries its illumination.
@@ -193,16 +211,72 @@ describe('the night chart', () => {
     await page.close();
   });
 
-  test('the now mark stands at the clock’s instant on tonight’s chart', async () => {
-    // TEST_NOW is 05:00 at Ostrel Summit (UTC−7), before its sunrise: the night of the day before (invented demo site).
-    const site = (
-      await api<{ items: { id: number; name: string }[] }>('/sites?limit=500')
-    ).items.find((s) => s.name === 'Ostrel Summit')!;
-    const date = new Date(Date.parse(TEST_NOW) - 86_400_000).toISOString().slice(0, 10);
+  test('a block of a target outside the night’s campaign gets a lane of its own', async () => {
+    const campaigns = (
+      await api<{ items: { id: number; siteIds: number[]; targetIds: number[] }[] }>(
+        '/campaigns?limit=500',
+      )
+    ).items;
+    const host = campaigns.find((c) =>
+      campaigns.some((o) => o.targetIds.some((t) => !c.targetIds.includes(t))),
+    )!;
+    const outsider = campaigns
+      .flatMap((c) => c.targetIds)
+      .find((t) => !host.targetIds.includes(t))!;
+    const taken = new Set(
+      (await api<{ items: { siteId: number; date: string }[] }>('/nights?limit=500')).items
+        .filter((n) => n.siteId === host.siteIds[0])
+        .map((n) => n.date),
+    );
+    let date = '2027-01-10';
+    while (taken.has(date))
+      date = new Date(Date.parse(date) + 86_400_000).toISOString().slice(0, 10);
     const night = await api<{ id: number }>('/nights', {
       method: 'POST',
-      body: { siteId: site.id, date },
+      body: { siteId: host.siteIds[0], campaignId: host.id, date },
     });
+    try {
+      const vis = await api<Visibility>(`/nights/${night.id}/visibility?curves=true`);
+      const start = Date.parse(vis.darkness.intervals[0]!.start.utc) + 3_600_000;
+      const block = await api<BlockRow>('/blocks', {
+        method: 'POST',
+        body: {
+          nightId: night.id,
+          targetId: outsider,
+          kind: 'astrometry',
+          startUtc: new Date(start).toISOString(),
+          endUtc: new Date(start + 2_400_000).toISOString(),
+        },
+      });
+      const { page, errors } = await open(`/nights/${night.id}`);
+      const bar = page.locator(`svg.night-chart .stray-lane .block-bar[data-block="${block.id}"]`);
+      await bar.waitFor();
+      const x = await screenX(page, vis);
+      const [l, r] = await svgEdges(bar);
+      expect(Math.abs(l - x(start))).toBeLessThanOrEqual(1);
+      expect(Math.abs(r - x(start + 2_400_000))).toBeLessThanOrEqual(1);
+      expect(errors).toEqual([]);
+      await page.close();
+      await api(`/blocks/${block.id}`, { method: 'DELETE' });
+    } finally {
+      await api(`/nights/${night.id}`, { method: 'DELETE' });
+    }
+  });
+
+  test('the now mark stands at the clock’s instant on tonight’s chart', async () => {
+    // A site where TEST_NOW falls before dawn (local hour under 6): the night of the local day before.
+    const sites = (await api<{ items: { id: number; timeZone: string }[] }>('/sites?limit=500'))
+      .items;
+    const local = (zone: string) => DateTime.fromISO(TEST_NOW, { zone });
+    const site = sites.find((s) => local(s.timeZone).hour < 6)!;
+    expect(site).toBeDefined(); // the demo's Ostrel Summit keeps UTC−7: 05:00 there (invented demo site)
+    const date = local(site.timeZone).minus({ days: 1 }).toISODate()!;
+    const existing = (
+      await api<{ items: { id: number; siteId: number; date: string }[] }>('/nights?limit=500')
+    ).items.find((n) => n.siteId === site.id && n.date === date);
+    const night =
+      existing ??
+      (await api<{ id: number }>('/nights', { method: 'POST', body: { siteId: site.id, date } }));
     try {
       const vis = await api<Visibility>(`/nights/${night.id}/visibility?curves=true`);
       const { page, errors } = await open(`/nights/${night.id}`);
@@ -216,7 +290,7 @@ describe('the night chart', () => {
       expect(errors).toEqual([]);
       await page.close();
     } finally {
-      await api(`/nights/${night.id}`, { method: 'DELETE' });
+      if (!existing) await api(`/nights/${night.id}`, { method: 'DELETE' });
     }
   });
 });

@@ -7,8 +7,8 @@
  */
 import type { BlockRow, Visibility } from '../api/types.ts';
 import { DarknessLane, MoonLane, TimeAxis, NowMark, type ChartClock } from './night-frame.tsx';
-import { chartSpan, nightLayout } from './night-layout.ts';
-import { AirmassKey } from './night-blocks.tsx';
+import { chartSpan, nightLayout, type NightLayout } from './night-layout.ts';
+import { AirmassKey, BlockTrack, ProposedTrack } from './night-blocks.tsx';
 import { airmassBins, fillCeiling, laneModels, visTargetOf } from './night-lanes.ts';
 import { TargetLane } from './night-lane.tsx';
 
@@ -37,12 +37,16 @@ export function NightChart(props: NightChartProps) {
   const span = chartSpan(vis);
   const edges = airmassBins(fillCeiling(vis));
   const lanes = laneModels(vis, span, edges);
-  const L = nightLayout(span, lanes.length, !!props.proposed, props.width ?? 1100);
-  const zone = props.clock === 'utc' ? 'UTC' : vis.site.timeZone;
   const laneOf = (name: string) => {
     const t = visTargetOf(vis.targets, name);
     return lanes.findIndex((l) => t !== undefined && l.members.includes(t));
   };
+  // Blocks of a target the night does not report on (not in its campaign) still get a lane.
+  const strays = props.blocks.filter((b) => laneOf(props.targetName(b.targetId)) < 0);
+  const strayProposed = props.proposed?.filter((b) => laneOf(b.target) < 0) ?? [];
+  const extra = strays.length + strayProposed.length > 0 ? 1 : 0;
+  const L = nightLayout(span, lanes.length + extra, !!props.proposed, props.width ?? 1100);
+  const zone = props.clock === 'utc' ? 'UTC' : vis.site.timeZone;
   return (
     <svg
       class="plot night-chart"
@@ -69,10 +73,53 @@ export function NightChart(props: NightChartProps) {
           proposed={props.proposed?.filter((b) => laneOf(b.target) === i)}
         />
       ))}
+      {extra > 0 && (
+        <StrayLane
+          L={L}
+          index={lanes.length}
+          vis={vis}
+          blocks={strays}
+          proposed={strayProposed}
+          targetName={props.targetName}
+        />
+      )}
       <AirmassKey L={L} edges={edges} />
       {props.nowMs !== undefined && (
         <NowMark L={L} span={span} nowMs={props.nowMs} siteZone={vis.site.timeZone} />
       )}
     </svg>
+  );
+}
+
+/** A lane without fill for blocks of targets the night's report does not cover. */
+function StrayLane(p: {
+  L: NightLayout;
+  index: number;
+  vis: Visibility;
+  blocks: BlockRow[];
+  proposed: ProposedBlock[];
+  targetName: (id: number) => string;
+}) {
+  const box = p.L.lanes[p.index]!;
+  return (
+    <g class="lane stray-lane" data-lane={p.index}>
+      <text class="lane-name" x={p.L.left - 8} y={box.y + 12} text-anchor="end">
+        other targets
+      </text>
+      <text class="lane-members" x={p.L.left - 8} y={box.y + 25} text-anchor="end">
+        not in this night’s list
+      </text>
+      <BlockTrack
+        L={p.L}
+        y={box.blockY}
+        h={box.blockH}
+        vis={p.vis}
+        blocks={p.blocks}
+        targetName={p.targetName}
+      />
+      {box.proposedY !== null && (
+        <ProposedTrack L={p.L} y={box.proposedY} vis={p.vis} blocks={p.proposed} />
+      )}
+    </g>
   );
 }
