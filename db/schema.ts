@@ -128,7 +128,31 @@ export interface CampaignGoals {
   densifiedCadenceDays?: number;
   densifyWithinDays?: number;
   kinds: ('astrometry' | 'spectroscopy')[];
+  /** Block length per kind, minutes. */
+  blockMinutes?: PerKindGoal<number>;
+  /** Laser guide star use per kind where a site has one (absent: none). */
+  laserGuideStar?: PerKindGoal<boolean>;
+  /** Epochs per night inside a periapsis window. */
+  periapsisRepeat?: 'single' | 'fill' | { everyHours: number };
+  /** Half-width of the periapsis window in σ of the passage date (default 2). */
+  periapsisWindowSigma?: number;
+  /** An epoch within this many days of the passage date covers it (default 1). */
+  coverageWithinDays?: number;
+  /** The campaign's precision model (zenith values; overrides each site's). */
+  precision?: { astrometryMas?: number; spectroscopyKmS?: number; referenceSeeingArcsec?: number };
+  /** Per-target settings by target id (each defaults to the campaign's). */
+  targets?: Record<
+    string,
+    {
+      priority?: number;
+      cadenceDays?: number;
+      blockMinutes?: PerKindGoal<number>;
+      laserGuideStar?: PerKindGoal<boolean>;
+      periapsisRepeat?: 'single' | 'fill' | { everyHours: number };
+    }
+  >;
 }
+export type PerKindGoal<T> = { astrometry?: T; spectroscopy?: T };
 export interface CampaignLimits {
   highestAirmass?: number;
   leastMoonDistanceDeg?: number;

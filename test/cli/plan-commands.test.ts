@@ -52,14 +52,18 @@ describe('epochwright plan-season', () => {
     const table = await season();
     expect(table.code, table.stderr).toBe(0);
     expect(table.stdout).toMatch(
-      /^night\s+site\s+start_local\s+minutes\s+target\s+kind\s+airmass\s+gain\s+why/m,
+      /^night\s+site\s+start_local\s+minutes\s+target\s+kind\s+airmass\s+sigma\s+why\s+gain/m,
     );
-    expect(table.stdout).toMatch(/VC s1\s+\d+\s+\d+\s+(yes|no)\s+[\d.]+ → [\d.]+.*2027-06-14/); // demo periapsis of VC s1 (invented)
+    expect(table.stdout).toMatch(
+      /VC s1\s+\d+\s+\d+\s+\d+\s+\d+\s+(yes|no)\s+2027-06-14\s+[\d.]+ → [\d.]+/,
+    ); // demo periapsis of VC s1 (invented)
     expect(table.stdout).toMatch(/preview only \(digest [0-9a-f]{16}\)/);
     expect(table.stdout).toMatch(/note: Laser guide star/);
     const json = JSON.parse((await season('--json')).stdout);
     const csv = (await season('--csv')).stdout.trim().split('\n');
-    expect(csv[0]).toBe('night,site,start_utc,minutes,target,kind,airmass,gain,why,reason');
+    expect(csv[0]).toBe(
+      'night,site,start_utc,minutes,target,kind,airmass,sigma,sigma_unit,why,gain,reason',
+    );
     expect(csv.length - 1).toBe(json.plan.epochs.length); // one CSV row per planned epoch
     expect(await tableCounts(store)).toEqual(before); // previews write nothing
   });

@@ -1,7 +1,7 @@
 /** `epochwright plan-season`: a stored campaign's season plan; `--accept` stores it as blocks. */
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
-import type { PlannedEpoch } from '../../science/plan/index.ts';
+import { SEASON_SETTINGS, type PlannedEpoch } from '../../science/plan/index.ts';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
   LOCAL_OPERATOR,
@@ -15,10 +15,13 @@ import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright plan-season --campaign <id> --start <YYYY-MM-DD> --end <YYYY-MM-DD> [options]
 
-The epochs a stored campaign should observe from --start to --end: for each target and goal kind,
-one site-night in every cadence window (denser near periapsis), the one that most tightens the
-orbit; each timed by the night scheduler. Shows why each epoch was chosen, the goals that cannot be
-met and why, and how much the plan should shrink the 1σ of each periapsis date and mass.
+The epochs a stored campaign should observe from --start to --end. First every observable
+allocated site-night in the window of each coming periapsis passage (± k σ of its date), then one
+site-night in every cadence window (per-target cadence and priority), the one that most tightens
+the orbit at the precision it would have there (σ ∝ seeing ∝ airmass^0.6); each timed by the night
+scheduler. Shows the expected σ and the gain of each epoch, the coverage of each passage, every
+unused night of a periapsis window and every unmet goal with the limit that closed each night, and
+the 1σ of the coming passage's date and of the mass before → after.
 
 Nothing is written unless --accept is given. Accepting replaces the blocks of the open nights that
 are still only plans; obtained, logged, measured, begun, hand-made or pinned blocks, and their
@@ -31,24 +34,19 @@ options:
   --all-nights           plan every night of the range, not only the campaign's stored nights
   --at <epoch>           the moment of planning (ISO 8601, JD, MJD); default now. With --accept
                          it may not lie more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the clock
-  --settings <json|file> more planner settings: { blockMinutes: { astrometry, spectroscopy },
-                         precision: { astrometryMas, spectroscopyKmS }, slotMinutes, slewMinutes,
-                         sameTargetMinutes, fillFraction, extraEpochsPerTarget }
+  --settings <json|file> planner settings over the campaign's: { blockMinutes: { astrometry,
+                         spectroscopy }, precision: { astrometryMas, spectroscopyKmS,
+                         referenceSeeingArcsec }, slotMinutes, slewMinutes, sameTargetMinutes,
+                         fillFraction, extraEpochsPerTarget, periapsisWindowSigma,
+                         coverageWithinDays, laserGuideStar: { astrometry, spectroscopy },
+                         periapsisRepeat: "single" | "fill" | { everyHours } }
   --accept               store the plan (as the local operator)
   --digest <hex>         with --accept: refuse if the plan differs from the preview with this digest
 ${DATABASE_HELP}
   --json | --csv         machine-readable output instead of a table
 `;
 
-const SETTINGS = [
-  'blockMinutes',
-  'precision',
-  'slotMinutes',
-  'slewMinutes',
-  'sameTargetMinutes',
-  'fillFraction',
-  'extraEpochsPerTarget',
-];
+const SETTINGS: readonly string[] = SEASON_SETTINGS;
 /** Re-raise an InputError under the option the user typed (`options`: request field → option), so the message names it. */
 export async function asOptions<T>(
   options: Record<string, string>,
@@ -155,8 +153,18 @@ export const planSeasonCommand: Command = {
       { header: 'target', value: (e) => e.target },
       { header: 'kind', value: (e) => e.kind },
       { header: 'airmass', value: (e) => e.block.airmassMiddle, digits: 2 },
-      { header: 'gain', value: (e) => e.gain, digits: 3 },
+      {
+        header: 'sigma',
+        value: (e) =>
+          format === 'table'
+            ? `${e.precision.sigma.toFixed(e.precision.unit === 'mas' ? 2 : 1)} ${e.precision.unit}`
+            : e.precision.sigma,
+      },
+      ...(format === 'table'
+        ? []
+        : [{ header: 'sigma_unit', value: (e: PlannedEpoch) => e.precision.unit }]),
       { header: 'why', value: (e) => e.why },
+      { header: 'gain', value: (e) => e.gain.text },
       ...(format === 'table' ? [] : [{ header: 'reason', value: (e: PlannedEpoch) => e.reason }]),
     ];
     const plan = result.plan;
@@ -167,16 +175,30 @@ export const planSeasonCommand: Command = {
         ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced, ${stored.nightsCreated.length} nights created\n`
         : `preview only (digest ${result.digest}): accepting would replace ${result.replaces.length} stored blocks; run again with --accept to store it\n`;
     const sigma = (x: number | null, d: number) => (x === null ? '—' : x.toFixed(d));
+    const pct = (x: number) => `${(100 * x).toFixed(0)} %`;
     const targets = formatTable(plan.targets, [
       { header: 'target', value: (t) => t.target },
+      { header: 'priority', value: (t) => t.priority },
+      { header: 'cadence_d', value: (t) => t.cadenceDays },
       { header: 'astrometry', value: (t) => t.epochs.astrometry, digits: 0 },
       { header: 'spectroscopy', value: (t) => t.epochs.spectroscopy, digits: 0 },
       { header: 'cadence_met', value: (t) => (t.cadenceMet ? 'yes' : 'no') },
       {
-        header: 'sigma_T_days',
+        header: 'passage',
+        value: (t) => t.shrinkage?.passage?.slice(0, 10) ?? '—',
+      },
+      {
+        header: 'sigma_passage_d',
         value: (t) =>
-          t.shrinkage
-            ? `${sigma(t.shrinkage.periapsisDays.before, 2)} → ${sigma(t.shrinkage.periapsisDays.after, 2)}`
+          t.shrinkage?.passage
+            ? `${sigma(t.shrinkage.periapsisDays.before, 2)} → ${sigma(t.shrinkage.periapsisDays.after, 2)}${t.shrinkage.nominalPrior ? ' (nominal prior)' : ''}`
+            : '—',
+      },
+      {
+        header: 'coverage',
+        value: (t) =>
+          t.passage
+            ? `${pct(t.passage.coverage.before)} → ${pct(t.passage.coverage.after)} within ${t.passage.coverage.withinDays} d`
             : '—',
       },
       {
@@ -186,8 +208,17 @@ export const planSeasonCommand: Command = {
             ? `${sigma(t.shrinkage.massFraction.before && t.shrinkage.massFraction.before * 100, 2)} → ${sigma(t.shrinkage.massFraction.after && t.shrinkage.massFraction.after * 100, 2)}`
             : '—',
       },
-      { header: 'periapses', value: (t) => t.periapses.map((p) => p.slice(0, 10)).join(' ') },
     ]);
+    const windows = plan.targets.flatMap((t) =>
+      t.passage
+        ? [
+            `  ${t.target} passes periapsis ${t.passage.date.slice(0, 16).replace('T', ' ')} UTC; window ± ${t.passage.windowSigma} σ ${t.passage.windowStart.slice(0, 10)} to ${t.passage.windowEnd.slice(0, 10)}, ${t.passage.epochs} epochs in it\n`,
+            ...t.passage.unused.map(
+              (n) => `    unused: ${n.site} ${n.date} ${n.kind}: ${n.words}\n`,
+            ),
+          ]
+        : [],
+    );
     const skipped = result.sites.flatMap((s) =>
       s.skipped.map((k) => `  ${s.name} ${k.date}: ${k.reason}\n`),
     );
@@ -202,6 +233,7 @@ export const planSeasonCommand: Command = {
       formatTable(plan.epochs, columns),
       '\n',
       targets,
+      windows.length ? `\nperiapsis windows:\n${windows.join('')}` : '',
       plan.unmet.length
         ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.start} to ${u.end}: ${u.reason}\n`).join('')}`
         : '',

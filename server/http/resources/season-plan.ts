@@ -46,11 +46,39 @@ export const SeasonPlanBody = z
       .optional(),
     precision: z
       .object({
-        astrometryMas: num('expected 1σ per offset, mas; default 1'),
-        spectroscopyKmS: num('expected 1σ, km/s; default 5'),
+        astrometryMas: num('expected 1σ per offset at the zenith, mas; default 1'),
+        spectroscopyKmS: num('expected 1σ at the zenith, km/s; default 5'),
+        referenceSeeingArcsec: num(
+          'seeing the zenith values hold for, arcsec; default the site’s own (σ then scales only with airmass)',
+        ),
       })
       .strict()
-      .optional(),
+      .optional()
+      .openapi({
+        description:
+          'overrides the campaign’s and each site’s precision model; σ scales with FWHM ∝ X^0.6 (Roddier 1981)',
+      }),
+    periapsisWindowSigma: num(
+      'half-width of the periapsis window in σ of the coming passage’s date, [0.1, 10]; default 2',
+    ),
+    coverageWithinDays: num(
+      'an epoch this close (days) to the passage date covers it, [0.01, 30]; default 1',
+    ),
+    laserGuideStar: z
+      .object({ astrometry: z.boolean().optional(), spectroscopy: z.boolean().optional() })
+      .strict()
+      .optional()
+      .openapi({ description: 'laser guide star use per kind where a site has one; default none' }),
+    periapsisRepeat: z
+      .union([
+        z.enum(['single', 'fill']),
+        z.object({ everyHours: z.number().min(0.5).max(12) }).strict(),
+      ])
+      .optional()
+      .openapi({
+        description:
+          'epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours }',
+      }),
     slotMinutes: num('slot length, minutes, [1, 30]; default 10'),
     slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
     sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),

@@ -35,6 +35,8 @@ export {
 } from './predict.ts';
 export {
   findEvents,
+  findEventLoci,
+  relocateEvent,
   nextPeriapsis,
   EVENT_KINDS,
   type EventKind,
@@ -57,6 +59,7 @@ export {
 } from './relativity.ts';
 export {
   linearSigma,
+  parameterJacobian,
   drawOrbits,
   percentiles,
   PERCENTILES,

@@ -51,34 +51,13 @@ export function linearSigma(
 ): Float64Array {
   const cov = requireCovariance(orbit);
   const n = cov.parameters.length;
-  const m = f(orbit).length;
-  const J: Float64Array[] = [];
-  for (let j = 0; j < n; j++) {
-    const name = cov.parameters[j]!;
-    const sigma = Math.sqrt(cov.matrix[j]![j]!);
-    const row = new Float64Array(m);
-    J.push(row);
-    if (sigma === 0) continue;
-    const x = getParameter(orbit, name);
-    let h = 1e-4 * sigma;
-    // Keep e inside [0, 1) and sizes positive: step one-sided near a bound.
-    let lo = x - h,
-      hi = x + h;
-    if (name === 'eccentricity') {
-      if (lo < 0) lo = x;
-      if (hi >= 1) hi = x;
-    }
-    if (
-      (name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc') &&
-      lo <= 0
-    )
-      lo = x;
-    h = hi - lo;
-    if (h === 0) continue;
-    const fp = f(withParameter(orbit, name, hi));
-    const fm = f(withParameter(orbit, name, lo));
-    for (let i = 0; i < m; i++) row[i] = diff(fp[i]!, fm[i]!, angleOutputs.has(i)) / h;
-  }
+  const J = parameterJacobian(
+    orbit,
+    cov.parameters.map((name, j) => ({ name, sigma: Math.sqrt(cov.matrix[j]![j]!) })),
+    f,
+    angleOutputs,
+  );
+  const m = J[0]?.length ?? f(orbit).length;
   const out = new Float64Array(m);
   for (let i = 0; i < m; i++) {
     let s = 0;
@@ -90,6 +69,43 @@ export function linearSigma(
     out[i] = Math.sqrt(Math.max(0, s));
   }
   return out;
+}
+
+/**
+ * Derivatives of each output of f over the given parameters, by differences of step 1e-4 σ
+ * (one-sided at a bound: e in [0, 1), sizes positive). J[j][i] = ∂f_i/∂θ_j; a row of zeros where σ is 0.
+ */
+export function parameterJacobian(
+  orbit: Orbit,
+  parameters: readonly { name: CovarianceParameter; sigma: number }[],
+  f: (o: Orbit) => ArrayLike<number>,
+  angleOutputs: ReadonlySet<number> = new Set(),
+): Float64Array[] {
+  const m = f(orbit).length;
+  return parameters.map(({ name, sigma }) => {
+    const row = new Float64Array(m);
+    if (!(sigma > 0)) return row;
+    const x = getParameter(orbit, name);
+    const h0 = 1e-4 * sigma;
+    // Keep e inside [0, 1) and sizes positive: step one-sided near a bound.
+    let lo = x - h0,
+      hi = x + h0;
+    if (name === 'eccentricity') {
+      if (lo < 0) lo = x;
+      if (hi >= 1) hi = x;
+    }
+    if (
+      (name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc') &&
+      lo <= 0
+    )
+      lo = x;
+    const h = hi - lo;
+    if (h === 0) return row;
+    const fp = f(withParameter(orbit, name, hi));
+    const fm = f(withParameter(orbit, name, lo));
+    for (let i = 0; i < m; i++) row[i] = diff(fp[i]!, fm[i]!, angleOutputs.has(i)) / h;
+    return row;
+  });
 }
 
 /** A lower-triangular L with L·Lᵀ = C; for a singular C, from its eigen-decomposition. */

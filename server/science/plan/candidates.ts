@@ -3,6 +3,7 @@
  * field by field, and turned into placements on the night's grid.
  */
 import { InputError, requireFinite } from '../errors.ts';
+import { parseEpoch } from '../time/index.ts';
 import type { Target } from '../sky/target.ts';
 import { blockQuality, type NightGrid, type TargetGrid } from './grid.ts';
 
@@ -23,6 +24,9 @@ export interface CandidateInput {
   highestAirmass?: number;
   /** The block uses a laser guide star (it then carries the laser caution). */
   laserGuideStar?: boolean;
+  /** Timing window: the block starts no earlier and ends no later than these, ISO 8601 UTC. */
+  earliestStart?: string;
+  latestEnd?: string;
 }
 
 /** A candidate checked and tied to its target's grid. */
@@ -36,9 +40,15 @@ export interface Candidate {
   priority: number;
   highestAirmass: number | null;
   laserGuideStar: boolean;
+  /** Timing window, UTC JD (−∞, +∞ when open). */
+  earliestJd: number;
+  latestJd: number;
   /** Slots the block spans (its last edge is start + slots). */
   slots: number;
   grid: TargetGrid;
+  /** First start edge and last end edge the timing window allows. */
+  firstEdge: number;
+  lastEdge: number;
 }
 
 const ID_RE = /^[\w.:@ -]{1,80}$/;
@@ -47,7 +57,7 @@ export function checkCandidates(
   input: unknown,
   targets: readonly Target[],
   field = 'candidates',
-): Omit<Candidate, 'slots' | 'grid'>[] {
+): Omit<Candidate, 'slots' | 'grid' | 'firstEdge' | 'lastEdge'>[] {
   if (!Array.isArray(input))
     throw new InputError(field, input, 'must be an array of candidate blocks');
   if (input.length > 2000)
@@ -90,6 +100,16 @@ export function checkCandidates(
     }
     if (c.laserGuideStar !== undefined && typeof c.laserGuideStar !== 'boolean')
       throw new InputError(`${p}.laserGuideStar`, c.laserGuideStar, 'must be true or false');
+    const earliestJd =
+      c.earliestStart === undefined ? -Infinity : parseEpoch(c.earliestStart, `${p}.earliestStart`);
+    const latestJd =
+      c.latestEnd === undefined ? Infinity : parseEpoch(c.latestEnd, `${p}.latestEnd`);
+    if (!(latestJd > earliestJd))
+      throw new InputError(
+        `${p}.latestEnd`,
+        c.latestEnd,
+        `must be after earliestStart ${String(c.earliestStart)}`,
+      );
     return {
       index: k,
       id: c.id,
@@ -100,12 +120,15 @@ export function checkCandidates(
       priority,
       highestAirmass,
       laserGuideStar: c.laserGuideStar === true,
+      earliestJd,
+      latestJd,
     };
   });
 }
 
 /** Whether the block may start at edge i: every edge it covers is observable (and under its own airmass limit). */
 export function fitsAt(c: Candidate, i: number): boolean {
+  if (i < c.firstEdge || i + c.slots > c.lastEdge) return false;
   if (c.grid.okRun[i]! < c.slots + 1) return false;
   if (c.highestAirmass !== null) {
     for (let j = i; j <= i + c.slots; j++) if (c.grid.airmass[j]! > c.highestAirmass) return false;
@@ -116,6 +139,20 @@ export function fitsAt(c: Candidate, i: number): boolean {
 /** The block's value at edge i: priority × mean 1/airmass over the block (1 at the zenith). */
 export function valueAt(c: Candidate, i: number): number {
   return c.priority * blockQuality(c.grid, i, c.slots);
+}
+
+/** The edge range [first start, last end] a timing window allows on the grid. */
+export function timingEdges(
+  grid: NightGrid,
+  earliestJd: number,
+  latestJd: number,
+): [number, number] {
+  const jd = grid.edgeJd;
+  let lo = 0,
+    hi = jd.length - 1;
+  while (lo < jd.length && jd[lo]! < earliestJd - 1e-9) lo++;
+  while (hi >= 0 && jd[hi]! > latestJd + 1e-9) hi--;
+  return [lo, hi];
 }
 
 /** Slots covered by a duration. */

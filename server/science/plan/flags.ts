@@ -20,8 +20,9 @@ import type { Limits } from '../sky/limits.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
 import { jdToIso, jdToUnixMs } from '../time/index.ts';
-import { positive } from './checks.ts';
-import { dominantReason, nightGrid, reasonWords, targetGrid } from './grid.ts';
+import { numberIn, positive } from './checks.ts';
+import { nightGrid, targetGrid } from './grid.ts';
+import { closingLimit, nightReasonWords, type NightReason } from './night-reasons.ts';
 import type { Precision } from './information.ts';
 import { InputError } from '../errors.ts';
 
@@ -57,8 +58,8 @@ export interface FlagOptions {
 
 export interface SiteHours {
   site: string;
-  /** Observable hours per night over the ± window (nights in order). */
-  nights: { date: string; hours: number }[];
+  /** Observable hours per night over the ± window (nights in order); a night with 0 h names the limit that closed it. */
+  nights: { date: string; hours: number; reason: NightReason | null; words: string | null }[];
   minHours: number;
   maxHours: number;
   /** Why it cannot be observed on the night of periapsis, if it cannot. */
@@ -108,7 +109,7 @@ export function hoursAround(
   halfDays: number,
 ): SiteHours {
   const step = Math.max(1, Math.ceil((2 * halfDays + 1) / 31));
-  const nights: { date: string; hours: number }[] = [];
+  const nights: SiteHours['nights'] = [];
   let blocked: string | null = null;
   for (let d = -halfDays; d <= halfDays; d += step) {
     const date = localNight(centreJd + d, site.timeZone);
@@ -116,13 +117,11 @@ export function hoursAround(
     const tg = targetGrid(g, target);
     const hours =
       g.edgeJd.length === 0 ? 0 : Math.max(0, tg.ok.reduce((n, v) => n + v, 0) - 1) * (10 / 60);
-    nights.push({ date, hours });
-    if (Math.abs(d) < step / 2 + 1e-9 || (d <= 0 && d + step > 0)) {
-      const r = g.edgeJd.length === 0 ? null : dominantReason(tg, c);
-      if (g.edgeJd.length === 0) blocked = 'no darkness';
-      else if (r !== null)
-        blocked = `${reasonWords(r, c)}${r === 'sun-distance' ? ` (${tg.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''}`;
-    }
+    // A night with no observable time names the limit that closed it (one slot: any window at all).
+    const why = hours > 0 ? null : closingLimit(g, tg, 1, 10);
+    const words = why ? nightReasonWords(why, c) : null;
+    nights.push({ date, hours, reason: why?.reason ?? null, words });
+    if (Math.abs(d) < step / 2 + 1e-9 || (d <= 0 && d + step > 0)) blocked = words;
   }
   const hs = nights.map((n) => n.hours);
   return { site: site.name, nights, minHours: Math.min(...hs), maxHours: Math.max(...hs), blocked };
@@ -249,12 +248,7 @@ function periapsisFlags(
   const rel = relativity
     ? `; gravitational redshift ${relativity.gravitationalRedshiftKmS.toFixed(3)} km/s, transverse Doppler ${relativity.transverseDopplerKmS.toFixed(3)} km/s, precession ${relativity.precessionArcminPerOrbit.toFixed(2)}′ per orbit`
     : '';
-  const where = siteHours
-    .map(
-      (s) =>
-        `${s.site} ${s.minHours.toFixed(1)}–${s.maxHours.toFixed(1)} h per night${s.blocked ? ` (on the night itself it ${s.blocked})` : ''}`,
-    )
-    .join('; ');
+  const where = siteHours.map(siteHoursWords).join('; ');
   const details = {
     sigmaDays,
     band,
@@ -266,7 +260,7 @@ function periapsisFlags(
   };
   const out: Flag[] = [];
   if (seen.length === 0) {
-    const why = siteHours.map((s) => `at ${s.site} it ${s.blocked ?? 'has no window'}`).join('; ');
+    const why = siteHours.map((s) => `at ${s.site}: ${s.blocked ?? 'no window'}`).join('; ');
     out.push({
       kind: 'periapsis-unobservable',
       target: name,
@@ -285,6 +279,15 @@ function periapsisFlags(
     periapsis: details,
   });
   return out;
+}
+
+/** "Tolvane 0.0–6.5 h per night (0 h on 08-05, 08-06: the Moon (12° away, limit 25°) …)". */
+function siteHoursWords(s: SiteHours): string {
+  const zero = new Map<string, string[]>();
+  for (const n of s.nights)
+    if (n.words) zero.set(n.words, [...(zero.get(n.words) ?? []), n.date.slice(5)]);
+  const zeros = [...zero.entries()].map(([w, ds]) => `0 h on ${ds.join(', ')}: ${w}`).join('; ');
+  return `${s.site} ${s.minHours.toFixed(1)}–${s.maxHours.toFixed(1)} h per night${zeros ? ` (${zeros})` : ''}`;
 }
 
 function blendFlags(

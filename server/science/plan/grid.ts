@@ -1,6 +1,6 @@
 /**
  * A site's night cut into slots: the slot edges inside darkness, and for each target whether it
- * meets every limit at each edge (altitude or airmass, horizon mask, Sun avoidance, Moon),
+ * meets every constraint at each edge (altitude or airmass, horizon mask, Sun avoidance, Moon),
  * with the limit it breaks and its airmass. Both planners place blocks on these edges only, so a
  * block can never start or end outside darkness, and every edge it covers has been tested.
  *
@@ -52,7 +52,7 @@ export interface NightGrid {
 }
 
 export interface TargetGrid {
-  /** 1 where the target meets every limit at the edge. */
+  /** 1 where the target meets every constraint at the edge. */
   ok: Uint8Array;
   /** 0 where ok, else 1 + index into REASON_CODES of the first limit broken. */
   reason: Uint8Array;
@@ -62,6 +62,8 @@ export interface TargetGrid {
   altitudeDeg: Float64Array;
   /** Distance from the Sun at the night's middle, degrees. */
   sunSeparationDeg: number;
+  /** Closest distance from the Moon while the Moon is up in darkness, degrees (undefined: never up). */
+  moonDistanceDeg: number | undefined;
   /** okRun[i]: how many consecutive ok edges start at edge i (inside one dark interval). */
   okRun: Int32Array;
   /** Prefix sums of 1/airmass over edges (0 where not ok), for block quality in O(1). */
@@ -149,6 +151,7 @@ export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
   const x = new Float64Array(n).fill(Infinity);
   const alt = new Float64Array(n);
   const { sun, moon, moonUp, lastRad } = grid;
+  let moonDot = -2;
   for (let i = 0; i < n; i++) {
     const h = lastRad[i]! - ft.raRad;
     const ch = Math.cos(h);
@@ -167,12 +170,9 @@ export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
     }
     if (code === 0 && sun[3 * i]! * qx + sun[3 * i + 1]! * qy + sun[3 * i + 2]! * qz > cosSun)
       code = CODE['sun-distance']!;
-    if (
-      code === 0 &&
-      moonUp[i] &&
-      moon[3 * i]! * qx + moon[3 * i + 1]! * qy + moon[3 * i + 2]! * qz > cosMoon
-    )
-      code = CODE.moon!;
+    const md = moonUp[i] ? moon[3 * i]! * qx + moon[3 * i + 1]! * qy + moon[3 * i + 2]! * qz : -2;
+    if (md > moonDot) moonDot = md;
+    if (code === 0 && md > cosMoon) code = CODE.moon!;
     if (code === 0) {
       x[i] = airmass(c.airmassFormula, trueAlt, appAlt);
       if (!Number.isFinite(x[i])) code = CODE.altitude!;
@@ -190,39 +190,20 @@ export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
   const sm = sunAt(f, f.midJd);
   const sunSeparationDeg =
     Math.acos(Math.max(-1, Math.min(1, sm[0] * qx + sm[1] * qy + sm[2] * qz))) / DEG;
-  return { ok, reason, airmass: x, altitudeDeg: alt, sunSeparationDeg, okRun, inverseAirmassSum };
+  const moonDistanceDeg = moonDot < -1.5 ? undefined : Math.acos(Math.min(1, moonDot)) / DEG;
+  return {
+    ok,
+    reason,
+    airmass: x,
+    altitudeDeg: alt,
+    sunSeparationDeg,
+    moonDistanceDeg,
+    okRun,
+    inverseAirmassSum,
+  };
 }
 
 /** Mean 1/airmass over edges i … i+k (a block of k slots starting at edge i). */
 export function blockQuality(t: TargetGrid, i: number, k: number): number {
   return (t.inverseAirmassSum[i + k + 1]! - t.inverseAirmassSum[i]!) / (k + 1);
-}
-
-/**
- * Why a target cannot be observed on the night, or null when some edge is ok: the Sun when the
- * target lies inside the Sun-avoidance angle at the night's middle (it is then also low at night, but
- * the Sun is the cause), else the limit broken at most edges (ties: the earlier in REASON_CODES).
- */
-export function dominantReason(t: TargetGrid, c?: Limits): ReasonCode | null {
-  const counts = new Array<number>(REASON_CODES.length + 1).fill(0);
-  for (let i = 0; i < t.reason.length; i++) counts[t.reason[i]!]!++;
-  if (counts[0]! > 0 && t.ok.some((v) => v === 1)) return null;
-  if (c && t.sunSeparationDeg < c.leastSunDistanceDeg) return 'sun-distance';
-  let best = 1;
-  for (let r = 2; r < counts.length; r++) if (counts[r]! > counts[best]!) best = r;
-  return counts[best]! > 0 ? REASON_CODES[best - 1]! : null;
-}
-
-/** Plain words for a reason code. */
-export function reasonWords(r: ReasonCode, c: Limits): string {
-  switch (r) {
-    case 'altitude':
-      return `stays below the altitude limit (${c.altitudeLimitDeg.toFixed(1)}°${c.highestAirmass ? `, airmass ${c.highestAirmass}` : ''}) while it is dark`;
-    case 'horizon-mask':
-      return 'is behind the horizon mask while it is dark';
-    case 'sun-distance':
-      return `is inside the Sun-avoidance angle (${c.leastSunDistanceDeg}°)`;
-    case 'moon':
-      return `is closer than ${c.leastMoonDistanceDeg}° to the Moon while it is dark`;
-  }
 }

@@ -41,6 +41,7 @@ export {
   type ScheduledBlock,
   type KeptBlock,
 } from './night-schedule.ts';
+export { SEASON_SETTINGS } from './season-types.ts';
 export {
   DETECTION_THRESHOLDS,
   FORECAST_FACTORS,
@@ -52,6 +53,10 @@ export {
 } from './forecast.ts';
 export {
   planSeason,
+  type EpochGain,
+  type NightNote,
+  type PassagePlan,
+  type PeriapsisRepeat,
   type PlannedEpoch,
   type SeasonOptions,
   type SeasonPlan,
@@ -60,6 +65,21 @@ export {
   type TargetPlan,
   type UnmetGoal,
 } from './season-plan.ts';
+export {
+  NIGHT_REASONS,
+  closingLimit,
+  nightReasonWords,
+  type NightReason,
+  type NightReasonDetail,
+} from './night-reasons.ts';
+export { coverageProbability, passagesIn, type Passage } from './passage.ts';
+export {
+  DEFAULT_PRECISION,
+  SEEING_AIRMASS_EXPONENT,
+  precisionAt,
+  precisionModel,
+  type PrecisionModel,
+} from './precision.ts';
 export {
   EXACT_MAX_ITEMS,
   solveExact,

@@ -11,25 +11,19 @@ import { instant, type Instant } from '../sky/night.ts';
 import { cautions as skyCautions } from '../sky/night-report.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
-import { parseEpoch } from '../time/index.ts';
+import { jdToIso, parseEpoch } from '../time/index.ts';
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
 import {
   checkCandidates,
   fitsAt,
   slotsFor,
+  timingEdges,
   valueAt,
   type Candidate,
   type MeasurementKind,
 } from './candidates.ts';
-import {
-  dominantReason,
-  nightGrid,
-  reasonWords,
-  REASON_CODES,
-  targetGrid,
-  type NightGrid,
-  type TargetGrid,
-} from './grid.ts';
+import { nightGrid, REASON_CODES, targetGrid, type NightGrid, type TargetGrid } from './grid.ts';
+import { closingLimit, edgeReason, nightReasonWords } from './night-reasons.ts';
 import { numberIn } from './checks.ts';
 import {
   EXACT_MAX_ITEMS,
@@ -159,17 +153,19 @@ export function scheduleOnGrid(
     throw new InputError('method', method, `must be one of ${SCHEDULE_METHODS.join(', ')}`);
   const gridOf = (i: number) => {
     let g = cache.get(i);
-    if (!g) {
-      g = targetGrid(grid, targets[i]!);
-      cache.set(i, g);
-    }
+    if (!g) cache.set(i, (g = targetGrid(grid, targets[i]!)));
     return g;
   };
-  const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => ({
-    ...c,
-    slots: slotsFor(c.durationMinutes, grid),
-    grid: gridOf(c.targetIndex),
-  }));
+  const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => {
+    const [firstEdge, lastEdge] = timingEdges(grid, c.earliestJd, c.latestJd);
+    return {
+      ...c,
+      slots: slotsFor(c.durationMinutes, grid),
+      grid: gridOf(c.targetIndex),
+      firstEdge,
+      lastEdge,
+    };
+  });
   const byId = new Map(candidates.map((c) => [c.id, c]));
   const removed = readRemoved(request.remove, byId);
   const gapDays = (a: number, b: number) => (a === b ? sameTargetMinutes : slewMinutes) / 1440;
@@ -347,7 +343,7 @@ function readPins(
       throw new InputError(
         `${p}.start`,
         r.start,
-        `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : reasonWords(bad, grid.limits)}${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
+        `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : `is closed by ${nightReasonWords(edgeReason(bad, grid, c.grid), grid.limits)}`}${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
       );
     }
     const over = clash(c, s);
@@ -390,14 +386,11 @@ function whyLeftOut(
   if (grid.edgeJd.length === 0)
     return `no darkness (${grid.limits.darknessLabel}) at ${grid.site.name} on this night`;
   if (!everFits) {
-    const r = dominantReason(c.grid, grid.limits);
+    const r = closingLimit(grid, c.grid, c.slots, c.durationMinutes);
     if (r !== null)
-      return `${c.targetName} ${reasonWords(r, grid.limits)}${r === 'sun-distance' ? ` (${c.grid.sunSeparationDeg.toFixed(0)}° from the Sun)` : ''} on this night`;
-    let longest = 0;
-    for (let i = 0; i < c.grid.okRun.length; i++) longest = Math.max(longest, c.grid.okRun[i]!);
-    const hours = (Math.max(0, longest - 1) * grid.slotMinutes) / 60;
-    if (longest < c.slots + 1)
-      return `its longest window tonight (${hours.toFixed(2)} h) is shorter than the block (${c.durationMinutes} min)`;
+      return `${c.targetName} on this night: ${nightReasonWords(r, grid.limits)}`;
+    if (Number.isFinite(c.earliestJd) || Number.isFinite(c.latestJd))
+      return `its timing window (${Number.isFinite(c.earliestJd) ? jdToIso(c.earliestJd) : 'dusk'} to ${Number.isFinite(c.latestJd) ? jdToIso(c.latestJd) : 'dawn'}) holds no ${c.durationMinutes}-min window`;
     return `${c.targetName} never stays below the block's own airmass limit ${c.highestAirmass} for ${c.durationMinutes} min`;
   }
   const jd = grid.edgeJd;

@@ -1,161 +1,109 @@
 /**
  * The season planner: for a date range, sites with their allocated nights and targets with their
- * cadence goals, the epochs to observe. Each cadence window (the nights in which the next epoch must
- * fall so that no gap exceeds the cadence, densified near periapsis) gets the site-night that most
- * tightens the orbit (Fisher information, `information.ts`), among those where a block fits in
- * darkness and still has room. Extra epochs, when asked for, go where the information is largest.
- * Each site-night's epochs are then timed by the night scheduler. Every choice and every unmet goal
- * carries its reason.
+ * goals, the epochs to observe, in three passes.
+ *
+ * 1. The periapsis window first: for each target whose coming passage (± k σ of its date, from the
+ *    events engine) meets the range, highest priority first, every allocated site-night in the
+ *    window where the target is observable gets an epoch (several per night where asked), the
+ *    most informative first, before any cadence goal is considered.
+ * 2. Cadence: each cadence window of each target (per-target cadence, densified near periapsis)
+ *    gets the open site-night that most tightens the orbit, highest priority first.
+ * 3. Extra epochs, when asked for, where the information is largest.
+ *
+ * Information is Fisher information at the precision the epoch would have at that site and airmass
+ * (precision.ts). Each site-night's epochs are then timed by the night scheduler
+ * (season-timing.ts), and the report (season-report.ts) gives every choice, every unmet goal and
+ * every unused night of a periapsis window with the limit that closed it on that night.
  *
  * Blocks already stored that stay (`SeasonSite.kept`, by night) are planned around: new blocks go in
  * the time they leave free, with the changeover gap, and a kept block that counts stands for its
- * night's epoch of that target and kind (the cadence counts it; no repeat is added that night).
+ * night's epoch of that target and kind.
  */
 import { InputError } from '../errors.ts';
-import { findEvents } from '../orbit/index.ts';
-import type { Limits } from '../sky/limits.ts';
-import { addDays, nightSpan, parseNightDate } from '../sky/night.ts';
-import type { Site } from '../sky/site.ts';
-import type { Target } from '../sky/target.ts';
-import { jdToIso } from '../time/index.ts';
-import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
-import { MEASUREMENT_KINDS, slotsFor, type MeasurementKind } from './candidates.ts';
-import { numberIn, positive } from './checks.ts';
+import type { MeasurementKind } from './candidates.ts';
+import { numberIn } from './checks.ts';
+import { targetGrid } from './grid.ts';
+import { jacobians } from './information.ts';
+import { nightReasonWords, type NightReasonDetail } from './night-reasons.ts';
+import { precisionAt, precisionModel, type PrecisionModel } from './precision.ts';
 import {
-  blockQuality,
-  dominantReason,
-  nightGrid,
-  reasonWords,
-  targetGrid,
-  type NightGrid,
-  type ReasonCode,
-  type TargetGrid,
-} from './grid.ts';
+  kindIndex,
+  seasonNights,
+  targetOptions,
+  type Option,
+  type SeasonNights,
+} from './season-nights.ts';
+import { seasonReport } from './season-report.ts';
 import {
-  addInformation,
-  informationModel,
-  jacobians,
-  posteriorCovariance,
-  uncertainties,
-  varianceReduction,
-  type InformationModel,
-  type Precision,
-  type Uncertainties,
-} from './information.ts';
-import { scheduleOnGrid, type KeptBlock, type ScheduledBlock } from './night-schedule.ts';
+  addEpoch,
+  addKept,
+  covarianceOf,
+  fitsNight,
+  gainOf,
+  score,
+  targetState,
+  type Accepted,
+  type TargetState,
+} from './season-state.ts';
+import { timeNights } from './season-timing.ts';
+import {
+  resolveTargets,
+  seasonDates,
+  type EpochGain,
+  type NightNote,
+  type PlannedEpoch,
+  type SeasonOptions,
+  type SeasonPlan,
+  type SeasonSite,
+  type SeasonTarget,
+  type UnmetGoal,
+} from './season-types.ts';
 
-export interface SeasonSite {
-  site: Site;
-  limits: Limits;
-  /** Allocated nights (local evening dates); null or absent: every night of the range. */
-  nights?: readonly string[] | null;
-  /** Astrometry at this site uses a laser guide star. */
-  laserGuideStar?: boolean;
-  /** Stored blocks that stay, by night (local evening date, one of `nights`): planned around, never moved. */
-  kept?: Readonly<Record<string, readonly KeptBlock[]>>;
-}
+export type {
+  EpochGain,
+  NightNote,
+  PeriapsisRepeat,
+  PassagePlan,
+  PlannedEpoch,
+  SeasonOptions,
+  SeasonPlan,
+  SeasonSite,
+  SeasonTarget,
+  TargetPlan,
+  UnmetGoal,
+} from './season-types.ts';
 
-export interface SeasonTarget {
-  target: Target;
-  kinds: readonly MeasurementKind[];
-  /** Longest wanted gap between epochs of each kind, days, [1, 3650]. */
-  cadenceDays: number;
-  /** Gap wanted within `densifyWithinDays` of a periapsis, days. */
-  densifiedCadenceDays?: number;
-  densifyWithinDays?: number;
-  /** Last epoch already obtained per kind, JD (the first window counts from it). */
-  lastEpochJd?: Partial<Record<MeasurementKind, number>>;
-  /** Weight when epochs compete for a night, (0, 1000]; default 1. */
-  priority?: number;
-}
-
-export interface SeasonOptions {
-  /** Block length per kind, minutes; default astrometry 40, spectroscopy 60. */
-  blockMinutes?: Partial<Record<MeasurementKind, number>>;
-  /** Expected 1σ per kind; default 1 mas and 5 km/s. */
-  precision?: Partial<Precision>;
-  /** Slot length for the nights' grids, minutes, [1, 30]; default 10. */
-  slotMinutes?: number;
-  slewMinutes?: number;
-  sameTargetMinutes?: number;
-  /** Share of each night's darkness the plan may fill, (0, 1]; default 0.9. */
-  fillFraction?: number;
-  /** Epochs per target and kind beyond the cadence, placed by information, [0, 20]; default 0. */
-  extraEpochsPerTarget?: number;
-}
-
-export interface PlannedEpoch {
-  target: string;
-  kind: MeasurementKind;
-  site: string;
-  date: string;
-  block: ScheduledBlock;
-  /** Fractional variance reduction of T plus that of the mass when this epoch was chosen. */
-  gain: number;
-  why: 'cadence' | 'information';
+/** One chosen epoch before timing. */
+export interface Choice {
+  ti: number;
+  o: Option;
+  gain: EpochGain;
+  rank: number;
+  why: PlannedEpoch['why'];
   reason: string;
 }
 
-export interface UnmetGoal {
-  target: string;
-  kind: MeasurementKind;
-  /** First and last night of the cadence window (local evening dates). */
-  start: string;
-  end: string;
-  reason: string;
-}
-
-export interface TargetPlan {
-  target: string;
-  epochs: Record<MeasurementKind, number>;
-  periapses: string[];
-  cadenceMet: boolean;
-  /** 1σ before and after the plan (linear, Fisher); nominalPrior: the orbit had no covariance. */
-  shrinkage: {
-    periapsisDays: { before: number | null; after: number | null };
-    massFraction: { before: number | null; after: number | null };
-    nominalPrior: boolean;
-  } | null;
-  /** The best epochs not in the plan, by information given the plan. */
-  nextBest: { date: string; site: string; kind: MeasurementKind; gain: number }[];
-}
-
-export interface SeasonPlan {
-  startDate: string;
-  endDate: string;
-  sites: {
-    name: string;
-    nights: number;
-    nightsUsed: number;
-    darkHours: number;
-    plannedHours: number;
-  }[];
-  epochs: PlannedEpoch[];
+/** Everything the passes share. */
+export interface Planner {
+  sites: readonly SeasonSite[];
+  nights: SeasonNights;
+  states: TargetState[];
+  /** Per target: the closing limit of each (kind, site, night) without an option. */
+  closed: (NightReasonDetail | null)[][];
+  precision: PrecisionModel[];
+  accepted: Map<number, Accepted[]>;
+  chosen: Choice[];
   unmet: UnmetGoal[];
-  targets: TargetPlan[];
-  cautions: string[];
+  cadenceMet: boolean[];
+  /** Target indices, highest priority first (ties: input order). */
+  order: number[];
+  slotMinutes: number;
+  slewMinutes: number;
+  sameTargetMinutes: number;
+  windowSigma: number;
+  coverageWithinDays: number;
+  extra: number;
 }
-
-/** One place and night a target's block could go. */
-interface Option {
-  s: number;
-  d: number;
-  kind: MeasurementKind;
-  /** The ok edges (first, last) around the best start, and the block's length in slots. */
-  first: number;
-  last: number;
-  slots: number;
-  jd: number;
-  quality: number;
-  jac: Float64Array | null;
-  used: boolean;
-}
-
-const NOT_ALLOCATED = 5,
-  NO_DARKNESS = 6,
-  TOO_SHORT = 7,
-  KEPT_FULL = 8;
-const MAX_NIGHTS = 400;
 
 export function planSeason(
   startDate: string,
@@ -164,594 +112,384 @@ export function planSeason(
   targets: readonly SeasonTarget[],
   options: SeasonOptions = {},
 ): SeasonPlan {
-  parseNightDate(startDate, 'startDate');
-  parseNightDate(endDate, 'endDate');
-  if (endDate < startDate)
-    throw new InputError('endDate', endDate, `must not be before startDate ${startDate}`);
-  const dates: string[] = [];
-  for (let d = startDate; d <= endDate; d = addDays(d, 1)) {
-    dates.push(d);
-    if (dates.length > MAX_NIGHTS)
-      throw new InputError('endDate', endDate, `must be within ${MAX_NIGHTS} nights of startDate`);
-  }
+  const p = preparePlanner(startDate, endDate, sites, targets, options);
+  periapsisPass(p);
+  cadencePass(p);
+  extraPass(p);
+  const timed = timeNights(p);
+  return seasonReport(p, timed);
+}
+
+/** Check the inputs, build the nights, the targets' states and options, and add kept blocks' information. */
+function preparePlanner(
+  startDate: string,
+  endDate: string,
+  sites: readonly SeasonSite[],
+  targets: readonly SeasonTarget[],
+  options: SeasonOptions,
+): Planner {
+  const dates = seasonDates(startDate, endDate);
   if (sites.length === 0 || sites.length > 10)
     throw new InputError('sites', sites.length, 'must list 1 to 10 sites');
-  if (targets.length === 0 || targets.length > 1000)
-    throw new InputError('targets', targets.length, 'must list 1 to 1000 targets');
-  const names = new Set<string>();
-  targets.forEach((t, i) => {
-    if (names.has(t.target.name))
-      throw new InputError(`targets.${i}.name`, t.target.name, 'is used by an earlier target');
-    names.add(t.target.name);
-    positive(`targets.${i}.cadenceDays`, t.cadenceDays, 3650);
-    if (t.densifiedCadenceDays !== undefined)
-      positive(`targets.${i}.densifiedCadenceDays`, t.densifiedCadenceDays, 3650);
-    if (t.densifyWithinDays !== undefined)
-      numberIn(`targets.${i}.densifyWithinDays`, t.densifyWithinDays, 0, 3650);
-    if (t.priority !== undefined) positive(`targets.${i}.priority`, t.priority, 1000);
-    if (t.kinds.length === 0 || t.kinds.some((k) => !MEASUREMENT_KINDS.includes(k)))
-      throw new InputError(
-        `targets.${i}.kinds`,
-        t.kinds,
-        'must list "astrometry" and/or "spectroscopy"',
-      );
-  });
-  const blockMinutes: Record<MeasurementKind, number> = {
-    astrometry: positive('blockMinutes.astrometry', options.blockMinutes?.astrometry ?? 40, 720),
-    spectroscopy: positive(
-      'blockMinutes.spectroscopy',
-      options.blockMinutes?.spectroscopy ?? 60,
-      720,
-    ),
-  };
-  const precision: Precision = {
-    astrometryMas: positive('precision.astrometryMas', options.precision?.astrometryMas ?? 1, 1e6),
-    spectroscopyKmS: positive(
-      'precision.spectroscopyKmS',
-      options.precision?.spectroscopyKmS ?? 5,
-      1e6,
-    ),
-  };
+  const resolved = resolveTargets(targets, options);
   const slotMinutes = numberIn('slotMinutes', options.slotMinutes ?? 10, 1, 30);
   const slewMinutes = numberIn('slewMinutes', options.slewMinutes ?? 8, 0, 120);
+  const sameTargetMinutes = numberIn('sameTargetMinutes', options.sameTargetMinutes ?? 3, 0, 120);
   const fill = options.fillFraction ?? 0.9;
   if (!(fill > 0 && fill <= 1)) throw new InputError('fillFraction', fill, 'must lie in (0, 1]');
   const extra = numberIn('extraEpochsPerTarget', options.extraEpochsPerTarget ?? 0, 0, 20);
-  const sameTargetMinutes = options.sameTargetMinutes ?? 3;
-  const nS = sites.length,
-    nD = dates.length;
-  const keptOf = keptByNight(sites, dates, names);
-  // The changeover gap a new block of target `name` keeps from a kept block (the night scheduler's rule).
-  const keptGapDays = (name: string, k: KeptBlock) =>
-    (k.target === name ? sameTargetMinutes : slewMinutes) / 1440;
-
-  // Nights: grids and room left (minutes).
-  const grids: (NightGrid | null)[] = [];
-  const room = new Float64Array(nS * nD);
-  sites.forEach((s, si) => {
-    const allowed = s.nights ? new Set(s.nights) : null;
-    dates.forEach((d, di) => {
-      const g = allowed && !allowed.has(d) ? null : nightGrid(s.site, s.limits, d, slotMinutes);
-      grids.push(g);
-      const held = keptOf[si * nD + di]!.reduce(
-        (m, k) => m + (k.endJd - k.startJd) * 1440 + slewMinutes,
-        0,
+  const windowSigma = numberIn('periapsisWindowSigma', options.periapsisWindowSigma ?? 2, 0.1, 10);
+  const within = numberIn('coverageWithinDays', options.coverageWithinDays ?? 1, 0.01, 30);
+  const precision = sites.map((s, si) =>
+    precisionModel([options.precision, s.precision], `sites.${si}.precision`),
+  );
+  const names = new Set(resolved.map((t) => t.name));
+  const nights = seasonNights(sites, dates, names, slotMinutes, fill, slewMinutes);
+  const { nD } = nights;
+  const startJd = Math.min(...nights.darkStartJd),
+    endJd = Math.max(...nights.darkEndJd);
+  const states = resolved.map((t) => targetState(t, startJd, endJd, windowSigma));
+  const closed = states.map((ts) => {
+    const inWindow = (s: number, d: number) =>
+      ts.passages.some(
+        (q) =>
+          nights.darkEndJd[s * nD + d]! >= q.windowStartJd &&
+          nights.darkStartJd[s * nD + d]! <= q.windowEndJd,
       );
-      room[si * nD + di] = g ? Math.max(0, fill * g.darkHours * 60 - held) : 0;
-    });
+    const built = targetOptions(
+      { nights, sites, precision, slewMinutes, sameTargetMinutes, inWindow },
+      ts.t,
+    );
+    ts.options = built.options;
+    if (ts.model) {
+      const jac = jacobians(
+        ts.model,
+        Float64Array.from(ts.options, (o) => o.jd),
+      );
+      ts.options.forEach((o, k) => (o.jac = jac[k]!));
+    }
+    addKept(ts, keptOf(nights, sites, precision, ts));
+    return built.closed;
   });
-  const nightJd = dates.map((d) => nightSpan(sites[0]!.site, d).startJd + 0.5);
+  const order = resolved
+    .map((_, i) => i)
+    .sort((a, b) => resolved[b]!.priority - resolved[a]!.priority || a - b);
+  return {
+    sites,
+    nights,
+    states,
+    closed,
+    precision,
+    accepted: new Map(),
+    chosen: [],
+    unmet: [],
+    cadenceMet: states.map(() => true),
+    order,
+    slotMinutes,
+    slewMinutes,
+    sameTargetMinutes,
+    windowSigma,
+    coverageWithinDays: within,
+    extra,
+  };
+}
 
-  // Per target: every feasible option, and why each site-night is not.
-  const codes = targets.map(() => new Uint8Array(2 * nS * nD));
-  const optionsOf: Option[][] = targets.map((t, ti) => {
-    const out: Option[] = [];
-    for (let si = 0; si < nS; si++) {
-      for (let di = 0; di < nD; di++) {
-        const g = grids[si * nD + di]!;
-        if (!g || g.edgeJd.length === 0) {
-          for (let k = 0; k < 2; k++)
-            codes[ti]![(k * nS + si) * nD + di] = g ? NO_DARKNESS : NOT_ALLOCATED;
-          continue;
-        }
-        const tg = targetGrid(g, t.target);
-        const kept = keptOf[si * nD + di]!;
-        const okRun =
-          kept.length > 0
-            ? runAroundKept(g, tg, kept, (k) => keptGapDays(t.target.name, k))
-            : tg.okRun;
-        for (const kind of t.kinds) {
-          const k = kind === 'astrometry' ? 0 : 1;
-          if (kept.some((b) => b.counts && b.target === t.target.name && b.kind === kind)) {
-            codes[ti]![(k * nS + si) * nD + di] = KEPT_FULL; // a kept block is this night's epoch: no repeat
-            continue;
-          }
-          const slots = slotsFor(blockMinutes[kind], g);
-          let best = -1,
-            bq = 0;
-          for (let i = 0; i + slots < g.edgeJd.length; i++) {
-            if (okRun[i]! >= slots + 1) {
-              const q = blockQuality(tg, i, slots);
-              if (q > bq) {
-                bq = q;
-                best = i;
-              }
-            }
-          }
-          if (best < 0) {
-            if (okRun !== tg.okRun && tg.okRun.some((n) => n >= slots + 1)) {
-              codes[ti]![(k * nS + si) * nD + di] = KEPT_FULL;
-              continue;
-            }
-            const r = dominantReason(tg, sites[si]!.limits);
-            codes[ti]![(k * nS + si) * nD + di] =
-              r === null
-                ? TOO_SHORT
-                : 1 + ['altitude', 'horizon-mask', 'sun-distance', 'moon'].indexOf(r);
-            continue;
-          }
-          let first = best;
-          while (first > 0 && okRun[first - 1] === okRun[first]! + 1) first--;
-          out.push({
-            s: si,
-            d: di,
-            kind,
-            first,
-            last: first + okRun[first]! - 1,
-            slots,
-            jd: (g.edgeJd[best]! + g.edgeJd[best + slots]!) / 2,
-            quality: bq,
-            jac: null,
-            used: false,
-          });
-        }
+/** The target's kept blocks that count, each with the precision it has at its middle airmass. */
+function keptOf(
+  nights: SeasonNights,
+  sites: readonly SeasonSite[],
+  precision: PrecisionModel[],
+  ts: TargetState,
+) {
+  const out: { k: (typeof nights.kept)[number][number]; precision: Option['precision'] }[] = [];
+  nights.kept.forEach((list, key) => {
+    const mine = list.filter((k) => k.counts && k.target === ts.t.name);
+    if (mine.length === 0) return;
+    const s = Math.floor(key / nights.nD);
+    const g = nights.grids[key]!;
+    const tg = targetGrid(g, ts.t.input.target);
+    for (const k of mine) {
+      const mid = (k.startJd + k.endJd) / 2;
+      let i = 0;
+      while (i + 1 < g.edgeJd.length && g.edgeJd[i + 1]! <= mid) i++;
+      const x = Number.isFinite(tg.airmass[i]!) ? tg.airmass[i]! : 2;
+      out.push({
+        k,
+        precision: precisionAt(precision[s]!, x, sites[s]!.limits.zenithSeeingArcsec),
+      });
+    }
+  });
+  return out;
+}
+
+const gapSlotsOf = (p: Planner) => (a: number, b: number) =>
+  Math.ceil((a === b ? p.sameTargetMinutes : p.slewMinutes) / p.slotMinutes - 1e-9);
+const costOf = (p: Planner, ti: number, kind: MeasurementKind) =>
+  p.states[ti]!.t.blockMinutes[kind] + p.slewMinutes;
+
+export function fits(p: Planner, ti: number, o: Option): boolean {
+  return !o.used && fitsNight(p.nights, p.accepted, o, ti, costOf(p, ti, o.kind), gapSlotsOf(p));
+}
+
+function take(
+  p: Planner,
+  ti: number,
+  o: Option,
+  why: Choice['why'],
+  reason: (g: EpochGain) => string,
+): void {
+  const ts = p.states[ti]!;
+  const cov = covarianceOf(ts);
+  const gain = gainOf(ts, cov, o);
+  const rank = score(ts, cov, o, p.nights);
+  o.used = true;
+  const key = o.s * p.nights.nD + o.d;
+  p.nights.room[key] = p.nights.room[key]! - costOf(p, ti, o.kind);
+  if (!p.accepted.has(key)) p.accepted.set(key, []);
+  p.accepted.get(key)!.push({
+    first: o.first,
+    last: o.last,
+    slots: o.slots,
+    ti,
+    label: `${ts.t.name} ${o.kind} (priority ${ts.t.priority}, ${why})`,
+  });
+  if (o.jac) addEpoch(ts, o.jac, o.kind, o.precision);
+  p.chosen.push({ ti, o, gain, rank, why, reason: reason(gain) });
+}
+
+/** The best option among those given that fits (by score, ties by lower airmass), or null. */
+function bestOf(p: Planner, ti: number, list: readonly Option[]): Option | null {
+  const ts = p.states[ti]!;
+  const cov = covarianceOf(ts);
+  let best: Option | null = null,
+    bestScore = -1;
+  for (const o of list) {
+    if (!fits(p, ti, o)) continue;
+    const sc = score(ts, cov, o, p.nights);
+    if (
+      sc > bestScore + 1e-12 ||
+      (Math.abs(sc - bestScore) <= 1e-12 && best && o.airmass < best.airmass - 1e-12)
+    )
+      (best = o), (bestScore = sc);
+  }
+  return best;
+}
+
+/** Whether the option's site-night meets the passage window [startJd, endJd]. */
+export function inPassageWindow(
+  n: SeasonNights,
+  s: number,
+  d: number,
+  startJd: number,
+  endJd: number,
+): boolean {
+  const key = s * n.nD + d;
+  return n.darkEndJd[key]! >= startJd && n.darkStartJd[key]! <= endJd;
+}
+
+/** Pass 1: every observable allocated site-night of each periapsis window, highest priority first. */
+function periapsisPass(p: Planner): void {
+  const byPassage = p.order.flatMap((ti) => p.states[ti]!.passages.map((q) => ({ ti, q })));
+  byPassage.sort(
+    (a, b) => p.states[b.ti]!.t.priority - p.states[a.ti]!.t.priority || a.q.jd - b.q.jd,
+  );
+  for (const { ti, q } of byPassage) {
+    const ts = p.states[ti]!;
+    const sigma =
+      q.sigmaDays === null
+        ? 'no covariance: ± ½ day'
+        : `± ${p.windowSigma} σ = ± ${(p.windowSigma * q.sigmaDays).toFixed(1)} d`;
+    for (const kind of ts.t.input.kinds) {
+      const list = ts.options.filter(
+        (o) =>
+          o.kind === kind && inPassageWindow(p.nights, o.s, o.d, q.windowStartJd, q.windowEndJd),
+      );
+      // Take the most informative open placement, update the information, and repeat until none fits.
+      for (let o = bestOf(p, ti, list); o; o = bestOf(p, ti, list)) {
+        const chosen = o;
+        const prec =
+          kind === 'astrometry'
+            ? `${chosen.precision.astrometryMas.toFixed(2)} mas`
+            : `${chosen.precision.spectroscopyKmS.toFixed(1)} km/s`;
+        take(
+          p,
+          ti,
+          chosen,
+          'periapsis',
+          (g) =>
+            `periapsis window of ${q.date.slice(0, 10)} (${sigma}): ${g.text}; expected σ ${prec} at airmass ${chosen.airmass.toFixed(2)}`,
+        );
       }
     }
-    return out;
-  });
+  }
+}
 
-  // Information models and Jacobians (one batch per target).
-  const models: (InformationModel | null)[] = targets.map((t) =>
-    t.target.orbit ? informationModel(t.target.orbit) : null,
-  );
-  models.forEach((m, ti) => {
-    if (!m) return;
-    const opts = optionsOf[ti]!;
-    const jac = jacobians(
-      m,
-      Float64Array.from(opts, (o) => o.jd),
-    );
-    opts.forEach((o, k) => {
-      o.jac = jac[k]!;
-    });
-  });
-  const planned = models.map((m) => (m ? new Float64Array(m.parameters.length ** 2) : null));
-  // Kept blocks that count are epochs of the season: their information is in before anything is chosen.
-  const keptEpochs = targets.map((t) =>
-    keptOf.flatMap((list, key) =>
-      list.filter((k) => k.counts && k.target === t.target.name).map((k) => ({ k, d: key % nD })),
-    ),
-  );
-  const addKept = (info: (Float64Array | null)[]) =>
-    keptEpochs.forEach((list, ti) => {
-      const m = models[ti];
-      if (!m || list.length === 0) return;
-      const jac = jacobians(
-        m,
-        Float64Array.from(list, ({ k }) => (k.startJd + k.endJd) / 2),
-      );
-      list.forEach(({ k }, j) => {
-        addInformation(info[ti]!, jac[j]!, m.parameters.length, k.kind, precision);
-      });
-    });
-  addKept(planned);
-  const gradients = models.map((m) => {
-    if (!m) return null;
-    const n = m.parameters.length;
-    const t = m.parameters.indexOf('periapsisDays');
-    const gT = new Float64Array(n);
-    if (t >= 0) gT[t] = 1;
-    return { gT: t >= 0 ? gT : null, gM: m.lnMassGradient };
-  });
-  const score = (ti: number, cov: Float64Array | null, o: Option): number => {
-    const m = models[ti],
-      g = gradients[ti];
-    if (!m || !g || !cov || !o.jac) return 0;
-    const n = m.parameters.length;
-    let s = 0;
-    for (const v of [g.gT, g.gM]) {
-      if (!v) continue;
-      let base = 0;
-      for (let a = 0; a < n; a++)
-        for (let b = 0; b < n; b++) base += v[a]! * cov[a * n + b]! * v[b]!;
-      if (base > 0) s += varianceReduction(cov, n, o.jac, o.kind, precision, v) / base;
-    }
-    return s;
-  };
-  const covOf = (ti: number) =>
-    models[ti] ? posteriorCovariance(models[ti]!, planned[ti]!) : null;
+/** The cadence a target asks for on night d (densified near a periapsis). */
+function cadenceOn(p: Planner, ti: number, d: number): number {
+  const t = p.states[ti]!.t.input;
+  const jd = p.nights.darkStartJd[d]!;
+  const near =
+    t.densifiedCadenceDays !== undefined &&
+    p.states[ti]!.periapsesJd.some((q) => Math.abs(q - jd) <= (t.densifyWithinDays ?? 0));
+  return Math.max(1, Math.round(near ? t.densifiedCadenceDays! : t.cadenceDays));
+}
 
-  const chosen: {
-    ti: number;
-    o: Option;
-    gain: number;
-    why: 'cadence' | 'information';
-    reason: string;
-  }[] = [];
-  const unmet: UnmetGoal[] = [];
-  const cost = (kind: MeasurementKind) => blockMinutes[kind] + slewMinutes;
-  // Blocks accepted per site-night, checked by earliest-latest-start packing (never accepts what cannot fit).
-  const accepted = new Map<number, { first: number; last: number; slots: number; ti: number }[]>();
-  const gapSlots = (a: number, b: number) =>
-    Math.ceil((a === b ? (options.sameTargetMinutes ?? 3) : slewMinutes) / slotMinutes - 1e-9);
-  const fitsNight = (ti: number, o: Option): boolean => {
-    if (room[o.s * nD + o.d]! < cost(o.kind)) return false;
-    const list = [
-      ...(accepted.get(o.s * nD + o.d) ?? []),
-      { first: o.first, last: o.last, slots: o.slots, ti },
-    ];
-    list.sort((a, b) => a.last - a.slots - (b.last - b.slots) || a.first - b.first);
-    let t = -Infinity,
-      prev = -1;
-    for (const b of list) {
-      const start = Math.max(b.first, prev < 0 ? b.first : t + gapSlots(prev, b.ti));
-      if (start + b.slots > b.last) return false;
-      t = start + b.slots;
-      prev = b.ti;
-    }
-    return true;
-  };
-  const take = (
-    ti: number,
-    o: Option,
-    gain: number,
-    why: 'cadence' | 'information',
-    reason: string,
-  ) => {
-    o.used = true;
-    room[o.s * nD + o.d] = room[o.s * nD + o.d]! - cost(o.kind);
-    const key = o.s * nD + o.d;
-    if (!accepted.has(key)) accepted.set(key, []);
-    accepted.get(key)!.push({ first: o.first, last: o.last, slots: o.slots, ti });
-    if (models[ti] && o.jac)
-      addInformation(planned[ti]!, o.jac, models[ti]!.parameters.length, o.kind, precision);
-    chosen.push({ ti, o, gain, why, reason });
-  };
-  const periapsesOf = targets.map((t) =>
-    t.target.orbit
-      ? findEvents(t.target.orbit, nightJd[0]! - 400, nightJd[nD - 1]! + 400, {
-          kinds: ['periapsis'],
-        }).map((e) => e.jd)
-      : [],
-  );
-  const cadenceMet = targets.map(() => true);
+/** Nights (index) that already hold an epoch of the target and kind: kept blocks that count, and chosen epochs. */
+function heldNights(p: Planner, ti: number, kind: MeasurementKind): Set<number> {
+  const name = p.states[ti]!.t.name;
+  const held = new Set<number>();
+  p.nights.kept.forEach((list, key) => {
+    if (list.some((k) => k.counts && k.target === name && k.kind === kind))
+      held.add(key % p.nights.nD);
+  });
+  for (const c of p.chosen) if (c.ti === ti && c.o.kind === kind) held.add(c.o.d);
+  return held;
+}
 
-  // Cadence, highest priority first (ties: input order).
-  const order = targets
-    .map((_, i) => i)
-    .sort((a, b) => (targets[b]!.priority ?? 1) - (targets[a]!.priority ?? 1) || a - b);
-  for (const ti of order) {
-    const t = targets[ti]!;
-    const near = (di: number) => {
-      const w = t.densifyWithinDays ?? 0;
-      return (
-        t.densifiedCadenceDays !== undefined &&
-        periapsesOf[ti]!.some((p) => Math.abs(p - nightJd[di]!) <= w)
-      );
-    };
-    const cad = (di: number) =>
-      Math.max(1, Math.round(near(di) ? t.densifiedCadenceDays! : t.cadenceDays));
-    for (const kind of t.kinds) {
-      const last = t.lastEpochJd?.[kind];
-      let lastIdx = last === undefined ? -1 : Math.floor(last - nightJd[0]!);
-      if (lastIdx + cad(0) < 0) lastIdx = -1; // overdue: the first window starts now
+/** Pass 2: one epoch in each cadence window, highest priority first (ties: input order). */
+function cadencePass(p: Planner): void {
+  const { nD, dates } = p.nights;
+  for (const ti of p.order) {
+    const ts = p.states[ti]!;
+    for (const kind of ts.t.input.kinds) {
+      const last = ts.t.input.lastEpochJd?.[kind];
+      let lastIdx = last === undefined ? -1 : Math.floor(last - p.nights.darkStartJd[0]! + 0.5);
+      if (lastIdx + cadenceOn(p, ti, 0) < 0) lastIdx = -1; // overdue: the first window starts now
+      const held = heldNights(p, ti, kind);
       for (;;) {
+        // The window: the nights after the last epoch until the gap would exceed the cadence.
         let end = lastIdx + 1;
-        while (end < nD && end - lastIdx <= cad(end)) end++;
+        while (end < nD && end - lastIdx <= cadenceOn(p, ti, end)) end++;
         if (end >= nD && (lastIdx >= 0 || last !== undefined)) break; // the rest of the gap runs past the range
         const from = Math.max(0, lastIdx + 1),
           to = end - 1;
         if (from > to || from >= nD) break;
-        const held = keptEpochs[ti]!.filter(({ k, d }) => k.kind === kind && d >= from && d <= to);
-        if (held.length > 0) {
-          lastIdx = Math.max(...held.map(({ d }) => d)); // a kept block already meets this window
+        const inside = [...held].filter((d) => d >= from && d <= to);
+        if (inside.length > 0) {
+          lastIdx = Math.max(...inside); // an epoch already meets this window
           continue;
         }
-        const cov = covOf(ti);
         // Look in the second half of the window first, so the epochs come about one cadence apart, not closer.
-        let best: Option | null = null,
-          bestScore = -1,
-          count = 0;
-        for (const half of [Math.max(from, Math.min(to, lastIdx + Math.ceil(cad(to) / 2))), from]) {
-          for (const o of optionsOf[ti]!) {
-            if (o.kind !== kind || o.used || o.d < half || o.d > to || !fitsNight(ti, o)) continue;
-            count++;
-            const sc = score(ti, cov, o);
-            if (
-              sc > bestScore + 1e-12 ||
-              (Math.abs(sc - bestScore) <= 1e-12 && best && o.quality > best.quality + 1e-12)
-            ) {
-              best = o;
-              bestScore = sc;
-            }
-          }
-          if (best) break;
-        }
+        const half = Math.max(from, Math.min(to, lastIdx + Math.ceil(cadenceOn(p, ti, to) / 2)));
+        const pick = (lo: number) =>
+          bestOf(
+            p,
+            ti,
+            ts.options.filter((o) => o.kind === kind && o.d >= lo && o.d <= to),
+          );
+        const best = pick(half) ?? pick(from);
         if (best) {
-          const dens = near(best.d)
-            ? ` (densified to ${t.densifiedCadenceDays} d near periapsis)`
-            : '';
+          const count = ts.options.filter(
+            (o) => o.kind === kind && o.d >= from && o.d <= to && fits(p, ti, o),
+          ).length;
+          const cad = cadenceOn(p, ti, best.d);
+          const dens =
+            cad !== Math.round(ts.t.input.cadenceDays) ? ' (densified near periapsis)' : '';
           take(
+            p,
             ti,
             best,
-            bestScore,
             'cadence',
-            `keeps every gap within ${cad(best.d)} d${dens}: the most informative of ${count} open site-nights in the window ${dates[from]} to ${dates[to]} (gain ${bestScore.toFixed(3)}, airmass ${(1 / best.quality).toFixed(2)})`,
+            (g) =>
+              `keeps every gap within ${cad} d${dens}: the most informative of ${count} open site-nights from ${dates[from]} to ${dates[to]} (${g.text}; airmass ${best.airmass.toFixed(2)})`,
           );
+          held.add(best.d);
           lastIdx = best.d;
         } else {
-          cadenceMet[ti] = false;
-          unmet.push({
-            target: t.target.name,
-            kind,
-            start: dates[from]!,
-            end: dates[to]!,
-            reason: whyNone(ti, kind, from, to),
-          });
+          p.cadenceMet[ti] = false;
+          p.unmet.push(unmetGoal(p, ti, kind, from, to));
           lastIdx = to;
         }
       }
     }
   }
-  function whyNone(ti: number, kind: MeasurementKind, from: number, to: number): string {
-    const t = targets[ti]!;
-    const k = kind === 'astrometry' ? 0 : 1;
-    const peri = periapsesOf[ti]!.find((p) => p >= nightJd[from]! - 0.5 && p <= nightJd[to]! + 0.5);
-    const parts = sites.map((s, si) => {
-      const counts = new Map<number, number>();
-      for (let d = from; d <= to; d++) {
-        const c = codes[ti]![(k * nS + si) * nD + d]!;
-        counts.set(c, (counts.get(c) ?? 0) + 1);
-      }
-      const [code, n] = [...counts.entries()].sort((a, b) => b[1] - a[1] || a[0] - b[0])[0]!;
-      const words =
-        code === 0
-          ? 'its windows are already full'
-          : code === KEPT_FULL
-            ? 'its windows are taken by blocks that stay on the night'
-            : code === NOT_ALLOCATED
-              ? 'has no allocated night'
-              : code === NO_DARKNESS
-                ? 'has no darkness'
-                : code === TOO_SHORT
-                  ? `has no window as long as the ${blockMinutes[kind]}-min block`
-                  : `${t.target.name} ${reasonWords((['altitude', 'horizon-mask', 'sun-distance', 'moon'] as ReasonCode[])[code - 1]!, s.limits)}`;
-      return `at ${s.site.name} ${words} (${n} of ${to - from + 1} nights)`;
-    });
-    return `${peri ? `periapsis on ${jdToIso(peri).slice(0, 10)} falls in this window, but ` : ''}no ${kind} epoch fits from ${dates[from]} to ${dates[to]}: ${parts.join('; ')}`;
-  }
+}
 
-  // Extra epochs where they tighten the orbit most.
-  for (let round = 0; round < extra; round++) {
-    for (const ti of order) {
-      const cov = covOf(ti);
-      let best: Option | null = null,
-        bestScore = 1e-9;
-      for (const o of optionsOf[ti]!) {
-        if (o.used || !fitsNight(ti, o)) continue;
-        const sc = score(ti, cov, o);
-        if (sc > bestScore) {
-          best = o;
-          bestScore = sc;
-        }
-      }
-      if (best)
-        take(
-          ti,
-          best,
-          bestScore,
-          'information',
-          `beyond the cadence: the site-night of the range that most tightens the orbit (gain ${bestScore.toFixed(3)})`,
-        );
-    }
-  }
-
-  // Time each site-night's blocks with the night scheduler.
-  const epochs: PlannedEpoch[] = [];
-  const byNight = new Map<number, typeof chosen>();
-  for (const c of chosen) {
-    const key = c.o.s * nD + c.o.d;
-    if (!byNight.has(key)) byNight.set(key, []);
-    byNight.get(key)!.push(c);
-  }
-  const skyTargets = targets.map((t) => t.target);
-  const finalInfo = models.map((m) => (m ? new Float64Array(m.parameters.length ** 2) : null));
-  addKept(finalInfo);
-  for (const [key, list] of [...byNight.entries()].sort((a, b) => a[0] - b[0])) {
-    const si = Math.floor(key / nD),
-      di = key % nD;
-    const lgs = sites[si]!.laserGuideStar === true;
-    const schedule = scheduleOnGrid(
-      grids[key]!,
-      skyTargets,
-      {
-        candidates: list.map((c, k) => ({
-          id: `${k}`,
-          target: targets[c.ti]!.target.name,
-          kind: c.o.kind,
-          durationMinutes: blockMinutes[c.o.kind],
-          priority: (targets[c.ti]!.priority ?? 1) * (1 + c.gain),
-          laserGuideStar: lgs && c.o.kind === 'astrometry',
-        })),
-        slewMinutes,
-        sameTargetMinutes: options.sameTargetMinutes,
-        kept: keptOf[key]!,
-      },
-      new Map(),
-    );
-    for (const b of schedule.blocks) {
-      const c = list[Number(b.id)]!;
-      const ti = c.ti;
-      epochs.push({
-        target: targets[ti]!.target.name,
-        kind: c.o.kind,
-        site: sites[si]!.site.name,
-        date: dates[di]!,
-        block: {
-          ...b,
-          id: `${targets[ti]!.target.name}/${c.o.kind}/${dates[di]}/${sites[si]!.site.name}`,
-        },
-        gain: c.gain,
-        why: c.why,
-        reason: c.reason,
-      });
-      const m = models[ti];
-      if (m) {
-        const jd = (Date.parse(b.start.utc) + Date.parse(b.end.utc)) / 2 / 86_400_000 + 2_440_587.5;
-        addInformation(
-          finalInfo[ti]!,
-          jacobians(m, Float64Array.of(jd))[0]!,
-          m.parameters.length,
-          c.o.kind,
-          precision,
-        );
-      }
-    }
-    for (const l of schedule.leftOut) {
-      const c = list[Number(l.id)]!;
-      cadenceMet[c.ti] = false;
-      unmet.push({
-        target: l.target,
-        kind: l.kind,
-        start: dates[di]!,
-        end: dates[di]!,
-        reason: `chosen for ${sites[si]!.site.name} but did not fit in the night's schedule: ${l.reason}`,
-      });
-    }
-  }
-  epochs.sort(
-    (a, b) =>
-      a.block.start.utc.localeCompare(b.block.start.utc) || a.target.localeCompare(b.target),
-  );
-
-  const targetPlans: TargetPlan[] = targets.map((t, ti) => {
-    const m = models[ti];
-    let shrinkage: TargetPlan['shrinkage'] = null;
-    if (m) {
-      const before: Uncertainties = uncertainties(m, null);
-      const after = uncertainties(m, finalInfo[ti]!);
-      shrinkage = {
-        periapsisDays: { before: before.periapsisDays, after: after.periapsisDays },
-        massFraction: { before: before.massFraction, after: after.massFraction },
-        nominalPrior: m.nominalPrior,
-      };
-    }
-    const cov = covOf(ti);
-    const nextBest = optionsOf[ti]!.filter((o) => !o.used)
-      .map((o) => ({ o, g: score(ti, cov, o) }))
-      .sort((a, b) => b.g - a.g || a.o.d - b.o.d)
-      .slice(0, 3)
-      .map(({ o, g }) => ({
-        date: dates[o.d]!,
-        site: sites[o.s]!.site.name,
-        kind: o.kind,
-        gain: g,
-      }));
-    const mine = epochs.filter((e) => e.target === t.target.name);
-    return {
-      target: t.target.name,
-      epochs: {
-        astrometry: mine.filter((e) => e.kind === 'astrometry').length,
-        spectroscopy: mine.filter((e) => e.kind === 'spectroscopy').length,
-      },
-      periapses: periapsesOf[ti]!.filter(
-        (p) => p >= nightJd[0]! - 0.5 && p <= nightJd[nD - 1]! + 0.5,
-      ).map(jdToIso),
-      cadenceMet: cadenceMet[ti]!,
-      shrinkage,
-      nextBest,
-    };
-  });
-  const cautions = [PLAN_ADVISORY];
-  if (epochs.some((e) => e.block.laserGuideStar)) cautions.push(LASER_GUIDE_STAR_CAUTION);
+/** Why a site-night has no epoch of the target and kind: its closing limit, or the epochs that took its time. */
+export function nightNote(
+  p: Planner,
+  ti: number,
+  kind: MeasurementKind,
+  s: number,
+  d: number,
+): NightNote {
+  const { nS, nD, dates } = p.nights;
+  const key = s * nD + d;
+  const taken = (p.accepted.get(key) ?? []).map((a) => a.label);
+  const minutes = p.states[ti]!.t.blockMinutes[kind];
+  const detail: NightReasonDetail =
+    p.closed[ti]![(kindIndex(kind) * nS + s) * nD + d] ??
+    (taken.length > 0
+      ? { reason: 'taken', takenBy: taken }
+      : { reason: 'no-room', roomMinutes: p.nights.room[key]!, blockMinutes: minutes });
+  const c = p.nights.grids[key]?.limits ?? p.sites[s]!.limits;
   return {
-    startDate,
-    endDate,
-    sites: sites.map((s, si) => {
-      const gs = grids.slice(si * nD, si * nD + nD);
-      const mine = epochs.filter((e) => e.site === s.site.name);
-      return {
-        name: s.site.name,
-        nights: gs.filter((g) => g !== null).length,
-        nightsUsed: new Set(mine.map((e) => e.date)).size,
-        darkHours: gs.reduce((h, g) => h + (g?.darkHours ?? 0), 0),
-        plannedHours: mine.reduce((h, e) => h + e.block.minutes / 60, 0),
-      };
-    }),
-    epochs,
-    unmet,
-    targets: targetPlans,
-    cautions,
+    site: p.sites[s]!.site.name,
+    date: dates[d]!,
+    kind,
+    reason: detail.reason,
+    words: nightReasonWords(detail, c),
   };
 }
 
-/** Each site-night's kept blocks (index site × nights + night), checked against the sites' nights and the targets. */
-function keptByNight(
-  sites: readonly SeasonSite[],
-  dates: readonly string[],
-  names: ReadonlySet<string>,
-): (readonly KeptBlock[])[] {
-  const out: (readonly KeptBlock[])[] = [];
-  sites.forEach((s, si) => {
-    const byDate = s.kept ?? {};
-    for (const [date, list] of Object.entries(byDate)) {
-      if (!dates.includes(date) || (s.nights && !s.nights.includes(date)))
-        throw new InputError(
-          `sites.${si}.kept.${date}`,
-          date,
-          "must be one of the site's nights in the range",
-        );
-      list.forEach((k, j) => {
-        const f = `sites.${si}.kept.${date}.${j}`;
-        if (k.target !== null && !names.has(k.target))
-          throw new InputError(
-            `${f}.target`,
-            k.target,
-            'must name one of the targets, or be null for a target outside the plan',
-          );
-        if (!MEASUREMENT_KINDS.includes(k.kind))
-          throw new InputError(`${f}.kind`, k.kind, 'must be "astrometry" or "spectroscopy"');
-        if (!(Number.isFinite(k.startJd) && Number.isFinite(k.endJd) && k.endJd > k.startJd))
-          throw new InputError(
-            `${f}.endJd`,
-            k.endJd,
-            `must be a finite JD after startJd ${k.startJd}`,
-          );
-      });
-    }
-    for (const d of dates) out.push(byDate[d] ?? []);
-  });
-  return out;
+/** An unmet cadence goal, with every site-night of its window and the limit that closed it. */
+function unmetGoal(
+  p: Planner,
+  ti: number,
+  kind: MeasurementKind,
+  from: number,
+  to: number,
+): UnmetGoal {
+  const { dates } = p.nights;
+  const ts = p.states[ti]!;
+  const notes: NightNote[] = [];
+  for (let s = 0; s < p.nights.nS; s++)
+    for (let d = from; d <= to; d++) notes.push(nightNote(p, ti, kind, s, d));
+  const peri = ts.periapsesJd.find(
+    (q) => q >= p.nights.darkStartJd[from]! - 0.5 && q <= p.nights.darkEndJd[to]! + 0.5,
+  );
+  return {
+    target: ts.t.name,
+    kind,
+    start: dates[from]!,
+    end: dates[to]!,
+    reason: `${peri ? 'a periapsis falls in this window, but ' : ''}no ${kind} epoch fits from ${dates[from]} to ${dates[to]}: ${summariseNotes(notes)}`,
+    nights: notes,
+  };
 }
 
-/** The target's ok runs (edges from each one) with the time of kept blocks, widened by the changeover gap, cut out. */
-function runAroundKept(
-  g: NightGrid,
-  tg: TargetGrid,
-  kept: readonly KeptBlock[],
-  gapDays: (k: KeptBlock) => number,
-): Int32Array {
-  const jd = g.edgeJd,
-    n = jd.length;
-  const run = new Int32Array(n);
-  for (let i = n - 1; i >= 0; i--) {
-    if (!tg.ok[i]) continue;
-    const on =
-      tg.okRun[i]! > 1 &&
-      !kept.some(
-        (k) => jd[i]! < k.endJd + gapDays(k) - 1e-9 && jd[i + 1]! > k.startJd - gapDays(k) + 1e-9,
-      );
-    run[i] = 1 + (on ? run[i + 1]! : 0);
+/** Notes grouped by site and by runs of nights with the same words: "at A 06-01 to 06-04 …; 06-05 …". */
+export function summariseNotes(notes: readonly NightNote[]): string {
+  const bySite = new Map<string, NightNote[]>();
+  for (const n of notes) bySite.set(n.site, [...(bySite.get(n.site) ?? []), n]);
+  return [...bySite.entries()]
+    .map(([site, list]) => {
+      const runs: { a: string; b: string; words: string }[] = [];
+      for (const n of list) {
+        const last = runs[runs.length - 1];
+        if (last && last.words === n.words) last.b = n.date;
+        else runs.push({ a: n.date, b: n.date, words: n.words });
+      }
+      return `at ${site} ${runs.map((r) => `${r.a.slice(5)}${r.b !== r.a ? ` to ${r.b.slice(5)}` : ''} ${r.words}`).join('; ')}`;
+    })
+    .join('; ');
+}
+
+/** Pass 3: extra epochs where they tighten the orbit most. */
+function extraPass(p: Planner): void {
+  for (let round = 0; round < p.extra; round++) {
+    for (const ti of p.order) {
+      const ts = p.states[ti]!;
+      const best = bestOf(p, ti, ts.options);
+      if (best && score(ts, covarianceOf(ts), best, p.nights) > 1e-9)
+        take(
+          p,
+          ti,
+          best,
+          'information',
+          (g) =>
+            `beyond the cadence: the site-night of the range that most tightens the orbit (${g.text})`,
+        );
+    }
   }
-  return run;
 }

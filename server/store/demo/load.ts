@@ -138,6 +138,7 @@ export async function loadDemo(
         densifiedCadenceDays: 7,
         densifyWithinDays: 30,
         kinds: ['astrometry', 'spectroscopy'],
+        laserGuideStar: { astrometry: true },
       },
       limits: { highestAirmass: 1.8, leastMoonDistanceDeg: 30, darkness: 'astronomical' },
       targetIds: stars.map((s) => s.target.id),

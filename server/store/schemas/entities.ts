@@ -112,6 +112,16 @@ export const SiteFields = z.object({
 });
 export const SiteInput = SiteFields;
 
+const minutesPerBlock = z.number().positive().max(720);
+const perKind = <T extends z.ZodType>(v: T) =>
+  z.object({ astrometry: v.optional(), spectroscopy: v.optional() }).strict();
+const repeat = z
+  .union([
+    z.enum(['single', 'fill']),
+    z.object({ everyHours: z.number().min(0.5).max(12) }).strict(),
+  ])
+  .describe('epochs per night in a periapsis window: one, as many as fit, or one every N hours');
+
 export const CampaignFields = z.object({
   name,
   startDate: localDate,
@@ -133,6 +143,47 @@ export const CampaignFields = z.object({
         .optional()
         .describe('how close to periapsis the dense cadence applies, days'),
       kinds: z.array(z.enum(['astrometry', 'spectroscopy'])).min(1),
+      blockMinutes: perKind(minutesPerBlock).optional().describe('block length per kind, minutes'),
+      laserGuideStar: perKind(z.boolean())
+        .optional()
+        .describe('laser guide star use per kind where a site has one; absent: none'),
+      periapsisRepeat: repeat.optional(),
+      periapsisWindowSigma: z
+        .number()
+        .min(0.1)
+        .max(10)
+        .optional()
+        .describe('half-width of the periapsis window in σ of the passage date; default 2'),
+      coverageWithinDays: z
+        .number()
+        .min(0.01)
+        .max(30)
+        .optional()
+        .describe('an epoch this close to the passage date (days) covers it; default 1'),
+      precision: z
+        .object({
+          astrometryMas: z.number().positive().max(1e6).optional(),
+          spectroscopyKmS: z.number().positive().max(1e6).optional(),
+          referenceSeeingArcsec: z.number().positive().max(10).optional(),
+        })
+        .strict()
+        .optional()
+        .describe('expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec)'),
+      targets: z
+        .record(
+          z.string().regex(/^[1-9]\d*$/, 'must be a target id'),
+          z
+            .object({
+              priority: z.number().positive().max(1000).optional(),
+              cadenceDays: z.number().positive().max(3650).optional(),
+              blockMinutes: perKind(minutesPerBlock).optional(),
+              laserGuideStar: perKind(z.boolean()).optional(),
+              periapsisRepeat: repeat.optional(),
+            })
+            .strict(),
+        )
+        .optional()
+        .describe('per-target settings by target id; each defaults to the campaign’s'),
     })
     .strict(),
   limits: z

@@ -39,6 +39,7 @@ import {
 } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
 import { nowMs } from '../../clock.ts';
+import type { CampaignGoals } from '../../../db/schema.ts';
 
 export const NIGHT_CHOICES = ['allocated', 'all'] as const;
 
@@ -190,20 +191,9 @@ async function prepare(
     input.targets.map((t) => t.id),
     nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start,
   );
-  const goals = campaign.goals;
-  const targets: SeasonTarget[] = input.targets.map((t) => ({
-    target: { ...t.target, name: names.get(t.id)! },
-    kinds: goals.kinds as MeasurementKind[],
-    cadenceDays: goals.cadenceDays,
-    ...(goals.densifiedCadenceDays !== undefined
-      ? { densifiedCadenceDays: goals.densifiedCadenceDays }
-      : {}),
-    ...(goals.densifyWithinDays !== undefined
-      ? { densifyWithinDays: goals.densifyWithinDays }
-      : {}),
-    lastEpochJd: last.get(t.id) ?? {},
-  }));
-  const { startDate, endDate, siteIds: _s, nights: _n, digest: _d, ...options } = request;
+  const targets = seasonTargets(input.targets, campaign.goals, names, last);
+  const { startDate, endDate, siteIds: _s, nights: _n, digest: _d, ...asked } = request;
+  const options = { ...campaignOptions(campaign.goals), ...asked };
   const plan = planSeason(startDate, endDate, seasonSites, targets, options);
   replaces.sort((a, b) => a - b);
   const digest = planDigest({
@@ -223,6 +213,53 @@ async function prepare(
     targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
     nightByKey,
   };
+}
+
+/** The campaign's goals as the planner's settings (the request's own settings override them). */
+function campaignOptions(goals: CampaignGoals): SeasonOptions {
+  return {
+    ...(goals.blockMinutes ? { blockMinutes: goals.blockMinutes } : {}),
+    ...(goals.laserGuideStar ? { laserGuideStar: goals.laserGuideStar } : {}),
+    ...(goals.periapsisRepeat ? { periapsisRepeat: goals.periapsisRepeat } : {}),
+    ...(goals.periapsisWindowSigma ? { periapsisWindowSigma: goals.periapsisWindowSigma } : {}),
+    ...(goals.coverageWithinDays ? { coverageWithinDays: goals.coverageWithinDays } : {}),
+    ...(goals.precision ? { precision: goals.precision } : {}),
+  };
+}
+
+/** Each target with its own settings, defaulting to the campaign's. @throws InputError for a setting of a target outside the campaign. */
+function seasonTargets(
+  rows: readonly { id: number; target: SeasonTarget['target'] }[],
+  goals: CampaignGoals,
+  names: Map<number, string>,
+  last: Map<number, Partial<Record<MeasurementKind, number>>>,
+): SeasonTarget[] {
+  for (const key of Object.keys(goals.targets ?? {}))
+    if (!rows.some((t) => String(t.id) === key))
+      throw new InputError(
+        `goals.targets.${key}`,
+        key,
+        `must be one of the campaign's targets (${rows.map((t) => t.id).join(', ')})`,
+      );
+  return rows.map((t) => {
+    const own = goals.targets?.[String(t.id)] ?? {};
+    return {
+      target: { ...t.target, name: names.get(t.id)! },
+      kinds: goals.kinds as MeasurementKind[],
+      cadenceDays: own.cadenceDays ?? goals.cadenceDays,
+      ...(goals.densifiedCadenceDays !== undefined
+        ? { densifiedCadenceDays: goals.densifiedCadenceDays }
+        : {}),
+      ...(goals.densifyWithinDays !== undefined
+        ? { densifyWithinDays: goals.densifyWithinDays }
+        : {}),
+      ...(own.priority !== undefined ? { priority: own.priority } : {}),
+      ...(own.blockMinutes ? { blockMinutes: own.blockMinutes } : {}),
+      ...(own.laserGuideStar ? { laserGuideStar: own.laserGuideStar } : {}),
+      ...(own.periapsisRepeat ? { periapsisRepeat: own.periapsisRepeat } : {}),
+      lastEpochJd: last.get(t.id) ?? {},
+    };
+  });
 }
 
 /** The season plan for a stored campaign, written nowhere. @throws InputError naming the field. */
