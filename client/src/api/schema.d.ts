@@ -2924,6 +2924,49 @@ export interface paths {
                                     /** @description how close to periapsis the dense cadence applies, days */
                                     densifyWithinDays?: number;
                                     kinds: ("astrometry" | "spectroscopy")[];
+                                    /** @description block length per kind, minutes */
+                                    blockMinutes?: {
+                                        astrometry?: number;
+                                        spectroscopy?: number;
+                                    };
+                                    /** @description laser guide star use per kind where a site has one; absent: none */
+                                    laserGuideStar?: {
+                                        astrometry?: boolean;
+                                        spectroscopy?: boolean;
+                                    };
+                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                    periapsisRepeat?: ("single" | "fill") | {
+                                        everyHours: number;
+                                    };
+                                    /** @description half-width of the periapsis window in σ of the passage date; default 2 */
+                                    periapsisWindowSigma?: number;
+                                    /** @description an epoch this close to the passage date (days) covers it; default 1 */
+                                    coverageWithinDays?: number;
+                                    /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
+                                    precision?: {
+                                        astrometryMas?: number;
+                                        spectroscopyKmS?: number;
+                                        referenceSeeingArcsec?: number;
+                                    };
+                                    /** @description per-target settings by target id; each defaults to the campaign’s */
+                                    targets?: {
+                                        [key: string]: {
+                                            priority?: number;
+                                            cadenceDays?: number;
+                                            blockMinutes?: {
+                                                astrometry?: number;
+                                                spectroscopy?: number;
+                                            };
+                                            laserGuideStar?: {
+                                                astrometry?: boolean;
+                                                spectroscopy?: boolean;
+                                            };
+                                            /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                            periapsisRepeat?: ("single" | "fill") | {
+                                                everyHours: number;
+                                            };
+                                        };
+                                    };
                                 };
                                 /** @default {} */
                                 limits: {
@@ -3035,6 +3078,49 @@ export interface paths {
                             /** @description how close to periapsis the dense cadence applies, days */
                             densifyWithinDays?: number;
                             kinds: ("astrometry" | "spectroscopy")[];
+                            /** @description block length per kind, minutes */
+                            blockMinutes?: {
+                                astrometry?: number;
+                                spectroscopy?: number;
+                            };
+                            /** @description laser guide star use per kind where a site has one; absent: none */
+                            laserGuideStar?: {
+                                astrometry?: boolean;
+                                spectroscopy?: boolean;
+                            };
+                            /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                            periapsisRepeat?: ("single" | "fill") | {
+                                everyHours: number;
+                            };
+                            /** @description half-width of the periapsis window in σ of the passage date; default 2 */
+                            periapsisWindowSigma?: number;
+                            /** @description an epoch this close to the passage date (days) covers it; default 1 */
+                            coverageWithinDays?: number;
+                            /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
+                            precision?: {
+                                astrometryMas?: number;
+                                spectroscopyKmS?: number;
+                                referenceSeeingArcsec?: number;
+                            };
+                            /** @description per-target settings by target id; each defaults to the campaign’s */
+                            targets?: {
+                                [key: string]: {
+                                    priority?: number;
+                                    cadenceDays?: number;
+                                    blockMinutes?: {
+                                        astrometry?: number;
+                                        spectroscopy?: number;
+                                    };
+                                    laserGuideStar?: {
+                                        astrometry?: boolean;
+                                        spectroscopy?: boolean;
+                                    };
+                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                    periapsisRepeat?: ("single" | "fill") | {
+                                        everyHours: number;
+                                    };
+                                };
+                            };
                         };
                         /** @default {} */
                         limits?: {
@@ -3079,6 +3165,49 @@ export interface paths {
                                 /** @description how close to periapsis the dense cadence applies, days */
                                 densifyWithinDays?: number;
                                 kinds: ("astrometry" | "spectroscopy")[];
+                                /** @description block length per kind, minutes */
+                                blockMinutes?: {
+                                    astrometry?: number;
+                                    spectroscopy?: number;
+                                };
+                                /** @description laser guide star use per kind where a site has one; absent: none */
+                                laserGuideStar?: {
+                                    astrometry?: boolean;
+                                    spectroscopy?: boolean;
+                                };
+                                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                periapsisRepeat?: ("single" | "fill") | {
+                                    everyHours: number;
+                                };
+                                /** @description half-width of the periapsis window in σ of the passage date; default 2 */
+                                periapsisWindowSigma?: number;
+                                /** @description an epoch this close to the passage date (days) covers it; default 1 */
+                                coverageWithinDays?: number;
+                                /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
+                                precision?: {
+                                    astrometryMas?: number;
+                                    spectroscopyKmS?: number;
+                                    referenceSeeingArcsec?: number;
+                                };
+                                /** @description per-target settings by target id; each defaults to the campaign’s */
+                                targets?: {
+                                    [key: string]: {
+                                        priority?: number;
+                                        cadenceDays?: number;
+                                        blockMinutes?: {
+                                            astrometry?: number;
+                                            spectroscopy?: number;
+                                        };
+                                        laserGuideStar?: {
+                                            astrometry?: boolean;
+                                            spectroscopy?: boolean;
+                                        };
+                                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                        periapsisRepeat?: ("single" | "fill") | {
+                                            everyHours: number;
+                                        };
+                                    };
+                                };
                             };
                             /** @default {} */
                             limits: {
@@ -3206,6 +3335,49 @@ export interface paths {
                                 /** @description how close to periapsis the dense cadence applies, days */
                                 densifyWithinDays?: number;
                                 kinds: ("astrometry" | "spectroscopy")[];
+                                /** @description block length per kind, minutes */
+                                blockMinutes?: {
+                                    astrometry?: number;
+                                    spectroscopy?: number;
+                                };
+                                /** @description laser guide star use per kind where a site has one; absent: none */
+                                laserGuideStar?: {
+                                    astrometry?: boolean;
+                                    spectroscopy?: boolean;
+                                };
+                                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                periapsisRepeat?: ("single" | "fill") | {
+                                    everyHours: number;
+                                };
+                                /** @description half-width of the periapsis window in σ of the passage date; default 2 */
+                                periapsisWindowSigma?: number;
+                                /** @description an epoch this close to the passage date (days) covers it; default 1 */
+                                coverageWithinDays?: number;
+                                /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
+                                precision?: {
+                                    astrometryMas?: number;
+                                    spectroscopyKmS?: number;
+                                    referenceSeeingArcsec?: number;
+                                };
+                                /** @description per-target settings by target id; each defaults to the campaign’s */
+                                targets?: {
+                                    [key: string]: {
+                                        priority?: number;
+                                        cadenceDays?: number;
+                                        blockMinutes?: {
+                                            astrometry?: number;
+                                            spectroscopy?: number;
+                                        };
+                                        laserGuideStar?: {
+                                            astrometry?: boolean;
+                                            spectroscopy?: boolean;
+                                        };
+                                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                        periapsisRepeat?: ("single" | "fill") | {
+                                            everyHours: number;
+                                        };
+                                    };
+                                };
                             };
                             /** @default {} */
                             limits: {
@@ -3393,6 +3565,49 @@ export interface paths {
                             /** @description how close to periapsis the dense cadence applies, days */
                             densifyWithinDays?: number;
                             kinds: ("astrometry" | "spectroscopy")[];
+                            /** @description block length per kind, minutes */
+                            blockMinutes?: {
+                                astrometry?: number;
+                                spectroscopy?: number;
+                            };
+                            /** @description laser guide star use per kind where a site has one; absent: none */
+                            laserGuideStar?: {
+                                astrometry?: boolean;
+                                spectroscopy?: boolean;
+                            };
+                            /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                            periapsisRepeat?: ("single" | "fill") | {
+                                everyHours: number;
+                            };
+                            /** @description half-width of the periapsis window in σ of the passage date; default 2 */
+                            periapsisWindowSigma?: number;
+                            /** @description an epoch this close to the passage date (days) covers it; default 1 */
+                            coverageWithinDays?: number;
+                            /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
+                            precision?: {
+                                astrometryMas?: number;
+                                spectroscopyKmS?: number;
+                                referenceSeeingArcsec?: number;
+                            };
+                            /** @description per-target settings by target id; each defaults to the campaign’s */
+                            targets?: {
+                                [key: string]: {
+                                    priority?: number;
+                                    cadenceDays?: number;
+                                    blockMinutes?: {
+                                        astrometry?: number;
+                                        spectroscopy?: number;
+                                    };
+                                    laserGuideStar?: {
+                                        astrometry?: boolean;
+                                        spectroscopy?: boolean;
+                                    };
+                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                    periapsisRepeat?: ("single" | "fill") | {
+                                        everyHours: number;
+                                    };
+                                };
+                            };
                         };
                         limits?: {
                             highestAirmass?: number;
@@ -3433,6 +3648,49 @@ export interface paths {
                                 /** @description how close to periapsis the dense cadence applies, days */
                                 densifyWithinDays?: number;
                                 kinds: ("astrometry" | "spectroscopy")[];
+                                /** @description block length per kind, minutes */
+                                blockMinutes?: {
+                                    astrometry?: number;
+                                    spectroscopy?: number;
+                                };
+                                /** @description laser guide star use per kind where a site has one; absent: none */
+                                laserGuideStar?: {
+                                    astrometry?: boolean;
+                                    spectroscopy?: boolean;
+                                };
+                                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                periapsisRepeat?: ("single" | "fill") | {
+                                    everyHours: number;
+                                };
+                                /** @description half-width of the periapsis window in σ of the passage date; default 2 */
+                                periapsisWindowSigma?: number;
+                                /** @description an epoch this close to the passage date (days) covers it; default 1 */
+                                coverageWithinDays?: number;
+                                /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
+                                precision?: {
+                                    astrometryMas?: number;
+                                    spectroscopyKmS?: number;
+                                    referenceSeeingArcsec?: number;
+                                };
+                                /** @description per-target settings by target id; each defaults to the campaign’s */
+                                targets?: {
+                                    [key: string]: {
+                                        priority?: number;
+                                        cadenceDays?: number;
+                                        blockMinutes?: {
+                                            astrometry?: number;
+                                            spectroscopy?: number;
+                                        };
+                                        laserGuideStar?: {
+                                            astrometry?: boolean;
+                                            spectroscopy?: boolean;
+                                        };
+                                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                        periapsisRepeat?: ("single" | "fill") | {
+                                            everyHours: number;
+                                        };
+                                    };
+                                };
                             };
                             /** @default {} */
                             limits: {
@@ -6701,11 +6959,27 @@ export interface paths {
                             /** @description minutes, default 60 */
                             spectroscopy?: number;
                         };
+                        /** @description overrides the campaign’s and each site’s precision model; σ scales with FWHM ∝ X^0.6 (Roddier 1981) */
                         precision?: {
-                            /** @description expected 1σ per offset, mas; default 1 */
+                            /** @description expected 1σ per offset at the zenith, mas; default 1 */
                             astrometryMas?: number;
-                            /** @description expected 1σ, km/s; default 5 */
+                            /** @description expected 1σ at the zenith, km/s; default 5 */
                             spectroscopyKmS?: number;
+                            /** @description seeing the zenith values hold for, arcsec; default the site’s own (σ then scales only with airmass) */
+                            referenceSeeingArcsec?: number;
+                        };
+                        /** @description half-width of the periapsis window in σ of the coming passage’s date, [0.1, 10]; default 2 */
+                        periapsisWindowSigma?: number;
+                        /** @description an epoch this close (days) to the passage date covers it, [0.01, 30]; default 1 */
+                        coverageWithinDays?: number;
+                        /** @description laser guide star use per kind where a site has one; default none */
+                        laserGuideStar?: {
+                            astrometry?: boolean;
+                            spectroscopy?: boolean;
+                        };
+                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours } */
+                        periapsisRepeat?: ("single" | "fill") | {
+                            everyHours: number;
                         };
                         /** @description slot length, minutes, [1, 30]; default 10 */
                         slotMinutes?: number;
@@ -6841,11 +7115,27 @@ export interface paths {
                             /** @description minutes, default 60 */
                             spectroscopy?: number;
                         };
+                        /** @description overrides the campaign’s and each site’s precision model; σ scales with FWHM ∝ X^0.6 (Roddier 1981) */
                         precision?: {
-                            /** @description expected 1σ per offset, mas; default 1 */
+                            /** @description expected 1σ per offset at the zenith, mas; default 1 */
                             astrometryMas?: number;
-                            /** @description expected 1σ, km/s; default 5 */
+                            /** @description expected 1σ at the zenith, km/s; default 5 */
                             spectroscopyKmS?: number;
+                            /** @description seeing the zenith values hold for, arcsec; default the site’s own (σ then scales only with airmass) */
+                            referenceSeeingArcsec?: number;
+                        };
+                        /** @description half-width of the periapsis window in σ of the coming passage’s date, [0.1, 10]; default 2 */
+                        periapsisWindowSigma?: number;
+                        /** @description an epoch this close (days) to the passage date covers it, [0.01, 30]; default 1 */
+                        coverageWithinDays?: number;
+                        /** @description laser guide star use per kind where a site has one; default none */
+                        laserGuideStar?: {
+                            astrometry?: boolean;
+                            spectroscopy?: boolean;
+                        };
+                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours } */
+                        periapsisRepeat?: ("single" | "fill") | {
+                            everyHours: number;
                         };
                         /** @description slot length, minutes, [1, 30]; default 10 */
                         slotMinutes?: number;
@@ -8735,6 +9025,12 @@ export interface components {
                     nights: {
                         date: string;
                         hours: number;
+                        /**
+                         * @description the limit that closed the night (the words say it in full, with its numbers)
+                         * @enum {string|null}
+                         */
+                        reason: "not-allocated" | "no-darkness" | "altitude" | "airmass" | "horizon-mask" | "moon" | "sun-distance" | "too-short" | "kept-epoch" | "kept-full" | "taken" | "no-room" | null;
+                        words: string | null;
                     }[];
                     minHours: number;
                     maxHours: number;
@@ -8804,10 +9100,17 @@ export interface components {
                 site: string;
                 date: string;
                 block: components["schemas"]["ScheduledBlock"];
-                /** @description fractional variance reduction of T plus that of the mass */
-                gain: number;
+                /** @description the 1σ expected there and then (FWHM ∝ X^0.6) */
+                precision: {
+                    sigma: number;
+                    /** @enum {string} */
+                    unit: "mas" | "km/s";
+                    airmass: number;
+                    seeingArcsec: number | null;
+                };
+                gain: components["schemas"]["EpochGain"];
                 /** @enum {string} */
-                why: "cadence" | "information";
+                why: "periapsis" | "cadence" | "information";
                 reason: string;
             }[];
             unmet: {
@@ -8817,21 +9120,46 @@ export interface components {
                 start: string;
                 end: string;
                 reason: string;
+                nights: components["schemas"]["NightNote"][];
             }[];
             targets: {
                 target: string;
+                priority: number;
+                cadenceDays: number;
                 epochs: {
                     astrometry: number;
                     spectroscopy: number;
                 };
                 periapses: string[];
                 cadenceMet: boolean;
+                passage: {
+                    /** @description the coming passage these numbers are about */
+                    date: string;
+                    sigmaDays: {
+                        before: number | null;
+                        after: number | null;
+                    };
+                    windowSigma: number;
+                    windowStart: string;
+                    windowEnd: string;
+                    /** @description probability that the passage date lies within withinDays of an epoch, before (kept blocks) and after the plan */
+                    coverage: {
+                        withinDays: number;
+                        before: number;
+                        after: number;
+                    };
+                    epochs: number;
+                    /** @description allocated site-nights of the window left without an epoch, with why */
+                    unused: components["schemas"]["NightNote"][];
+                } | null;
                 /** @description 1σ before and after the plan (linear, Fisher) */
                 shrinkage: {
                     periapsisDays: {
                         before: number | null;
                         after: number | null;
                     };
+                    /** @description the passage whose date σ periapsisDays gives (not the element T) */
+                    passage: string | null;
                     massFraction: {
                         before: number | null;
                         after: number | null;
@@ -8843,7 +9171,7 @@ export interface components {
                     site: string;
                     /** @enum {string} */
                     kind: "astrometry" | "spectroscopy";
-                    gain: number;
+                    gain: components["schemas"]["EpochGain"];
                 }[];
             }[];
             cautions: string[];
@@ -8866,6 +9194,26 @@ export interface components {
             pinned: boolean;
             laserGuideStar: boolean;
             cautions: string[];
+        };
+        EpochGain: {
+            /** @description hours of σ removed from the date of the coming passage (the plan’s shrinkage.passage) */
+            periapsisSigmaHoursRemoved: number | null;
+            /** @description % of the mass variance removed */
+            massVariancePercentRemoved: number | null;
+            /** @description the same in words, as the CLI and client show it */
+            text: string;
+        };
+        NightNote: {
+            site: string;
+            date: string;
+            /** @enum {string} */
+            kind: "astrometry" | "spectroscopy";
+            /**
+             * @description the limit that closed the night (the words say it in full, with its numbers)
+             * @enum {string}
+             */
+            reason: "not-allocated" | "no-darkness" | "altitude" | "airmass" | "horizon-mask" | "moon" | "sun-distance" | "too-short" | "kept-epoch" | "kept-full" | "taken" | "no-room";
+            words: string;
         };
         NightSchedulePreview: {
             nightId: number;

@@ -3,12 +3,39 @@
  * previews (what accepting would write). Instants as in the sky answers (UTC and the site's zone).
  */
 import { z } from '@hono/zod-openapi';
-import { FLAG_KINDS, MEASUREMENT_KINDS } from '../../science/plan/index.ts';
+import { FLAG_KINDS, MEASUREMENT_KINDS, NIGHT_REASONS } from '../../science/plan/index.ts';
 import { NIGHT_CHOICES } from '../../store/index.ts';
 import { InstantSchema, IntervalSchema } from './sky-output.ts';
 
 const BlockKind = z.enum(MEASUREMENT_KINDS);
 const Before = z.object({ before: z.number().nullable(), after: z.number().nullable() }).strict();
+const NightReason = z.enum(NIGHT_REASONS).openapi({
+  description: 'the limit that closed the night (the words say it in full, with its numbers)',
+});
+const NightNote = z
+  .object({
+    site: z.string(),
+    date: z.string(),
+    kind: BlockKind,
+    reason: NightReason,
+    words: z.string(),
+  })
+  .strict()
+  .openapi('NightNote');
+const Gain = z
+  .object({
+    periapsisSigmaHoursRemoved: z.number().nullable().openapi({
+      description:
+        'hours of σ removed from the date of the coming passage (the plan’s shrinkage.passage)',
+    }),
+    massVariancePercentRemoved: z
+      .number()
+      .nullable()
+      .openapi({ description: '% of the mass variance removed' }),
+    text: z.string().openapi({ description: 'the same in words, as the CLI and client show it' }),
+  })
+  .strict()
+  .openapi('EpochGain');
 
 export const FlagSchema = z
   .object({
@@ -25,7 +52,16 @@ export const FlagSchema = z
           z
             .object({
               site: z.string(),
-              nights: z.array(z.object({ date: z.string(), hours: z.number() }).strict()),
+              nights: z.array(
+                z
+                  .object({
+                    date: z.string(),
+                    hours: z.number(),
+                    reason: NightReason.nullable(),
+                    words: z.string().nullable(),
+                  })
+                  .strict(),
+              ),
               minHours: z.number(),
               maxHours: z.number(),
               blocked: z.string().nullable().openapi({
@@ -166,10 +202,17 @@ export const SeasonPlanSchema = z
           site: z.string(),
           date: z.string(),
           block: ScheduledBlockSchema,
-          gain: z.number().openapi({
-            description: 'fractional variance reduction of T plus that of the mass',
-          }),
-          why: z.enum(['cadence', 'information']),
+          precision: z
+            .object({
+              sigma: z.number(),
+              unit: z.enum(['mas', 'km/s']),
+              airmass: z.number(),
+              seeingArcsec: z.number().nullable(),
+            })
+            .strict()
+            .openapi({ description: 'the 1σ expected there and then (FWHM ∝ X^0.6)' }),
+          gain: Gain,
+          why: z.enum(['periapsis', 'cadence', 'information']),
           reason: z.string(),
         })
         .strict(),
@@ -182,6 +225,7 @@ export const SeasonPlanSchema = z
           start: z.string(),
           end: z.string(),
           reason: z.string(),
+          nights: z.array(NightNote),
         })
         .strict(),
     ),
@@ -189,20 +233,50 @@ export const SeasonPlanSchema = z
       z
         .object({
           target: z.string(),
+          priority: z.number(),
+          cadenceDays: z.number(),
           epochs: z
             .object({ astrometry: z.number().int(), spectroscopy: z.number().int() })
             .strict(),
           periapses: z.array(z.string()),
           cadenceMet: z.boolean(),
+          passage: z
+            .object({
+              date: z
+                .string()
+                .openapi({ description: 'the coming passage these numbers are about' }),
+              sigmaDays: Before,
+              windowSigma: z.number(),
+              windowStart: z.string(),
+              windowEnd: z.string(),
+              coverage: z
+                .object({ withinDays: z.number(), before: z.number(), after: z.number() })
+                .strict()
+                .openapi({
+                  description:
+                    'probability that the passage date lies within withinDays of an epoch, before (kept blocks) and after the plan',
+                }),
+              epochs: z.number().int(),
+              unused: z.array(NightNote).openapi({
+                description: 'allocated site-nights of the window left without an epoch, with why',
+              }),
+            })
+            .strict()
+            .nullable(),
           shrinkage: z
-            .object({ periapsisDays: Before, massFraction: Before, nominalPrior: z.boolean() })
+            .object({
+              periapsisDays: Before,
+              passage: z.string().nullable().openapi({
+                description: 'the passage whose date σ periapsisDays gives (not the element T)',
+              }),
+              massFraction: Before,
+              nominalPrior: z.boolean(),
+            })
             .strict()
             .nullable()
             .openapi({ description: '1σ before and after the plan (linear, Fisher)' }),
           nextBest: z.array(
-            z
-              .object({ date: z.string(), site: z.string(), kind: BlockKind, gain: z.number() })
-              .strict(),
+            z.object({ date: z.string(), site: z.string(), kind: BlockKind, gain: Gain }).strict(),
           ),
         })
         .strict(),

@@ -20,7 +20,7 @@ import type { Limits } from '../sky/limits.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
 import { jdToIso, jdToUnixMs } from '../time/index.ts';
-import { numberIn, positive } from './checks.ts';
+import { positive } from './checks.ts';
 import { nightGrid, targetGrid } from './grid.ts';
 import { closingLimit, nightReasonWords, type NightReason } from './night-reasons.ts';
 import type { Precision } from './information.ts';

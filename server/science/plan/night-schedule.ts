@@ -153,7 +153,10 @@ export function scheduleOnGrid(
     throw new InputError('method', method, `must be one of ${SCHEDULE_METHODS.join(', ')}`);
   const gridOf = (i: number) => {
     let g = cache.get(i);
-    if (!g) cache.set(i, (g = targetGrid(grid, targets[i]!)));
+    if (!g) {
+      g = targetGrid(grid, targets[i]!);
+      cache.set(i, g);
+    }
     return g;
   };
   const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => {
@@ -387,8 +390,7 @@ function whyLeftOut(
     return `no darkness (${grid.limits.darknessLabel}) at ${grid.site.name} on this night`;
   if (!everFits) {
     const r = closingLimit(grid, c.grid, c.slots, c.durationMinutes);
-    if (r !== null)
-      return `${c.targetName} on this night: ${nightReasonWords(r, grid.limits)}`;
+    if (r !== null) return `${c.targetName} on this night: ${nightReasonWords(r, grid.limits)}`;
     if (Number.isFinite(c.earliestJd) || Number.isFinite(c.latestJd))
       return `its timing window (${Number.isFinite(c.earliestJd) ? jdToIso(c.earliestJd) : 'dusk'} to ${Number.isFinite(c.latestJd) ? jdToIso(c.latestJd) : 'dawn'}) holds no ${c.durationMinutes}-min window`;
     return `${c.targetName} never stays below the block's own airmass limit ${c.highestAirmass} for ${c.durationMinutes} min`;

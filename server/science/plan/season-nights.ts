@@ -69,8 +69,7 @@ export function seasonNights(
     const allowed = s.nights ? new Set(s.nights) : null;
     dates.forEach((d, di) => {
       const key = si * nD + di;
-      const g =
-        allowed && !allowed.has(d) ? null : nightGrid(s.site, s.limits, d, slotMinutes);
+      const g = allowed && !allowed.has(d) ? null : nightGrid(s.site, s.limits, d, slotMinutes);
       grids.push(g);
       const held = kept[key]!.reduce((m, k) => m + (k.endJd - k.startJd) * 1440 + slewMinutes, 0);
       room[key] = g ? Math.max(0, fill * g.darkHours * 60 - held) : 0;
@@ -257,7 +256,10 @@ function bestIn(
   for (let i = a; i + slots <= b && i + slots < g.edgeJd.length; i++) {
     if (okRun[i]! >= slots + 1) {
       const q = blockQuality(tg, i, slots);
-      if (q > bq) (bq = q), (best = i);
+      if (q > bq) {
+        bq = q;
+        best = i;
+      }
     }
   }
   if (best < 0) return null;

@@ -166,7 +166,9 @@ function preparePlanner(
         ts.model,
         Float64Array.from(ts.options, (o) => o.jd),
       );
-      ts.options.forEach((o, k) => (o.jac = jac[k]!));
+      ts.options.forEach((o, k) => {
+        o.jac = jac[k]!;
+      });
     }
     addKept(ts, keptOf(nights, sites, precision, ts));
     return built.closed;
@@ -269,8 +271,10 @@ function bestOf(p: Planner, ti: number, list: readonly Option[]): Option | null 
     if (
       sc > bestScore + 1e-12 ||
       (Math.abs(sc - bestScore) <= 1e-12 && best && o.airmass < best.airmass - 1e-12)
-    )
-      (best = o), (bestScore = sc);
+    ) {
+      best = o;
+      bestScore = sc;
+    }
   }
   return best;
 }

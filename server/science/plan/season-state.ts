@@ -88,7 +88,9 @@ export function addKept(
     ts.model,
     Float64Array.from(kept, ({ k }) => (k.startJd + k.endJd) / 2),
   );
-  kept.forEach(({ k, precision }, j) => addEpoch(ts, jac[j]!, k.kind, precision));
+  kept.forEach(({ k, precision }, j) => {
+    addEpoch(ts, jac[j]!, k.kind, precision);
+  });
   ts.keptInfo = Float64Array.from(ts.planned!);
 }
 

@@ -69,11 +69,7 @@ export function timeNights(p: Planner): TimedPlan {
     for (const b of schedule.blocks) {
       const c = list[Number(b.id)]!;
       const ts = p.states[c.ti]!;
-      const prec = precisionAt(
-        p.precision[s]!,
-        b.airmassMiddle,
-        site.limits.zenithSeeingArcsec,
-      );
+      const prec = precisionAt(p.precision[s]!, b.airmassMiddle, site.limits.zenithSeeingArcsec);
       const astro = c.o.kind === 'astrometry';
       epochs.push({
         target: ts.t.name,

@@ -7,11 +7,7 @@ import * as Astronomy from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
 import { nightGrid, targetGrid } from '../../../server/science/plan/grid.ts';
 import { closingLimit, nightReasonWords } from '../../../server/science/plan/night-reasons.ts';
-import {
-  validateLimits,
-  validateSite,
-  validateTarget,
-} from '../../../server/science/sky/index.ts';
+import { validateLimits, validateSite, validateTarget } from '../../../server/science/sky/index.ts';
 import { SITE } from './helpers.ts';
 
 const DATE = '2027-06-19'; // a full Moon falls on 2027-06-19 (astronomy-engine SearchMoonPhase, checked below)

@@ -21,11 +21,7 @@ import {
   validateOrbit,
   type OrbitInput,
 } from '../../../server/science/orbit/index.ts';
-import {
-  validateLimits,
-  validateSite,
-  validateTarget,
-} from '../../../server/science/sky/index.ts';
+import { validateLimits, validateSite, validateTarget } from '../../../server/science/sky/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
 import { SITE, isoToJd } from './helpers.ts';
 
@@ -157,12 +153,12 @@ describe('σ of the coming passage, not of the element T', () => {
     const n = m.parameters.length;
     const info = new Float64Array(n * n);
     const jds = plan.epochs.map((e) => (isoToJd(e.block.start.utc) + isoToJd(e.block.end.utc)) / 2);
-    jacobians(m, Float64Array.from(jds)).forEach((j, k) =>
+    jacobians(m, Float64Array.from(jds)).forEach((j, k) => {
       addInformation(info, j, n, 'astrometry', {
         astrometryMas: plan.epochs[k]!.precision.sigma,
         spectroscopyKmS: 1,
-      }),
-    );
+      });
+    });
     const cov = posteriorCovariance(m, info);
     const updated = validateOrbit({
       ...orbit,
