@@ -2,6 +2,7 @@
  * Output for people (aligned tables), programs (JSON) and spreadsheets (CSV, RFC 4180 via csv-stringify).
  */
 import { stringify } from 'csv-stringify/sync';
+import { escapeFormulaCell } from '../store/csv/cells.ts';
 
 export type OutputFormat = 'table' | 'json' | 'csv';
 
@@ -57,7 +58,12 @@ export function formatTable<Row>(rows: readonly Row[], columns: readonly Column<
 export function formatCsv<Row>(rows: readonly Row[], columns: readonly Column<Row>[]): string {
   return stringify([
     columns.map((c) => c.header),
-    ...rows.map((r) => columns.map((c) => cell(c, r))),
+    // Text cells escaped against spreadsheet formulas (see store/csv/cells.ts); numbers as they are.
+    ...rows.map((r) =>
+      columns.map((c) =>
+        typeof c.value(r) === 'string' ? escapeFormulaCell(cell(c, r)) : cell(c, r),
+      ),
+    ),
   ]);
 }
 

@@ -3,10 +3,10 @@
  * copy is the database as of one instant even while the server keeps writing (WAL lets the
  * writer go on meanwhile). A libSQL server is backed up by its own tooling, not from here.
  */
-import { existsSync, mkdirSync } from 'node:fs';
-import { dirname, resolve } from 'node:path';
+import { existsSync } from 'node:fs';
+import { resolve } from 'node:path';
 import { InputError } from '../science/errors.ts';
-import type { Database } from './database.ts';
+import { createPrivateFile, type Database } from './database.ts';
 
 /** Write a copy of the database to `path` (a new file). Returns its absolute path. */
 export async function backupDatabase(database: Database, path: string): Promise<string> {
@@ -24,7 +24,8 @@ export async function backupDatabase(database: Database, path: string): Promise<
       path,
       'already exists; choose a new file name so no backup is overwritten',
     );
-  mkdirSync(dirname(target), { recursive: true });
+  // VACUUM INTO fills an empty file: created first, readable by its owner only, like the database.
+  createPrivateFile(target);
   await database.client.execute({ sql: 'VACUUM INTO ?', args: [target] });
   return target;
 }

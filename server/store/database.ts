@@ -3,7 +3,7 @@
  * a libSQL server when DATABASE_URL says so, or an embedded replica that syncs with one.
  * Migrations under db/migrations are applied on every open (a no-op when none is pending).
  */
-import { mkdirSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync } from 'node:fs';
 import { dirname, isAbsolute, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createClient, type Client, type Transaction } from '@libsql/client';
@@ -67,23 +67,40 @@ function filePath(url: string): string | null {
   return isAbsolute(p) ? p : resolve(process.cwd(), p);
 }
 
+/** How long a write waits for another connection's write before SQLITE_BUSY, ms. */
+export const BUSY_TIMEOUT_MS = 10_000;
+
+/**
+ * Create the data folder and an empty database file readable by its owner only (0600; SQLite
+ * gives its -wal and -shm files the same mode). An existing file keeps the mode it has.
+ */
+export function createPrivateFile(path: string): void {
+  mkdirSync(dirname(path), { recursive: true, mode: 0o700 });
+  try {
+    closeSync(openSync(path, 'wx', 0o600));
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
+  }
+}
+
 /** Open, create the parent folder of a file database, turn on WAL, and migrate. */
 export async function openDatabase(options: OpenOptions = {}): Promise<Database> {
   const url = resolveDatabaseUrl(options);
   const path = filePath(url);
-  if (path) mkdirSync(dirname(path), { recursive: true });
+  if (path) createPrivateFile(path);
   const syncUrl = options.syncUrl ?? process.env.DATABASE_SYNC_URL;
   const client = createClient({
     url,
     authToken: options.authToken ?? process.env.DATABASE_AUTH_TOKEN,
+    // The client pools connections: a PRAGMA reaches one of them, this option every one, so a
+    // write waits for another process's write (the CLI's, the server's) instead of failing.
+    timeout: BUSY_TIMEOUT_MS,
     ...(syncUrl && path ? { syncUrl, syncInterval: options.syncIntervalS ?? 60 } : {}),
   });
   const isLocalFile = path !== null && !syncUrl;
-  if (isLocalFile) {
-    // WAL persists in the file; readers (a backup, the CLI) then never block the server's writer.
-    await client.execute('PRAGMA journal_mode = WAL');
-    await client.execute('PRAGMA busy_timeout = 5000');
-  }
+  // WAL persists in the file; readers (a backup, the CLI) then never block the server's writer.
+  if (isLocalFile) await client.execute('PRAGMA journal_mode = WAL');
+  // Already on in libSQL's connections; said once more for a build where it is not.
   await client.execute('PRAGMA foreign_keys = ON');
   const db = drizzle(client, { schema });
   await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });

@@ -379,7 +379,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     name?: string;
                 };
                 header?: never;
@@ -965,7 +965,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     systemId?: number;
                 };
                 header?: never;
@@ -1759,7 +1759,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     targetId?: number;
                     /** @description only the current (true) or only earlier versions (false) */
                     current?: "true" | "false";
@@ -2219,7 +2219,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                 };
                 header?: never;
                 path?: never;
@@ -2883,7 +2883,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     targetId?: number;
                     siteId?: number;
                     /** @description campaigns running on or after this date */
@@ -3782,7 +3782,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     siteId?: number;
                     campaignId?: number;
                     /** @description first night date, YYYY-MM-DD */
@@ -4319,7 +4319,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     nightId?: number;
                     targetId?: number;
                     siteId?: number;
@@ -4789,7 +4789,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     nightId?: number;
                     siteId?: number;
                     campaignId?: number;
@@ -5388,7 +5388,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     targetId?: number;
                     systemId?: number;
                     blockId?: number;
@@ -6428,7 +6428,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                 };
                 header?: never;
                 path?: never;
@@ -6716,7 +6716,7 @@ export interface paths {
                 query?: {
                     /** @description page size, 1–500 */
                     limit?: number;
-                    offset?: number | null;
+                    offset?: number;
                     entity?: string;
                     entityId?: number;
                 };

@@ -17,27 +17,32 @@ export function resourceApp() {
 
 export const security = [{ bearer: [] }];
 export { errorResponses, json };
+/**
+ * Ids and counts in paths and queries are written in plain decimal: `0x2`, `2.0`, `1e0` or ` 2`
+ * would otherwise be read as a number (and change the wrong row), so they are refused as they are.
+ */
+const decimalInteger = (min: 0 | 1, description: string) =>
+  z
+    .string()
+    .regex(min === 1 ? /^[1-9][0-9]{0,14}$/ : /^(0|[1-9][0-9]{0,14})$/, {
+      message: `must be a ${min === 1 ? 'positive' : 'non-negative'} whole number in plain decimal digits (${description})`,
+    })
+    .transform(Number);
+const pathId = decimalInteger(1, 'an id such as 12');
 export const IdParam = z.object({
-  id: z.coerce
-    .number()
-    .int()
-    .positive()
-    .openapi({ param: { name: 'id', in: 'path' } }),
+  id: pathId.openapi({ param: { name: 'id', in: 'path' }, type: 'integer' }),
 });
 export const PageQuery = z.object({
-  limit: z.coerce
-    .number()
-    .int()
-    .min(1)
-    .max(500)
+  limit: decimalInteger(1, 'a page size 1–500')
+    .pipe(z.number().max(500))
     .default(50)
-    .openapi({ description: 'page size, 1–500' }),
-  offset: z.coerce.number().int().min(0).default(0),
+    .openapi({ description: 'page size, 1–500', type: 'integer' }),
+  offset: decimalInteger(0, 'rows to skip').default(0).openapi({ type: 'integer' }),
 });
 const VersionField = z.object({
   version: z.number().int().positive().openapi({ description: 'the version you last read' }),
 });
-export const optionalId = z.coerce.number().int().positive().optional();
+export const optionalId = pathId.optional().openapi({ type: 'integer' });
 export const pageOf = (item: z.ZodType) =>
   z.object({
     items: z.array(item),

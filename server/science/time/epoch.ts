@@ -80,6 +80,8 @@ export function parseEpoch(value: unknown, field = 'epoch'): number {
       'must give its time zone (Z or ±hh:mm): times are never read in the machine zone',
     );
   }
+  // Date.UTC reads years 0–99 as 1900–1999: refuse them here, by the same range as every form.
+  if (Number(y) < 1000) checkRange(field, value, Number.NaN);
   const ms = Date.UTC(
     Number(y),
     Number(mo) - 1,
@@ -104,10 +106,13 @@ export function parseEpoch(value: unknown, field = 'epoch'): number {
     offsetMin = (z[1] === '-' ? -1 : 1) * (Number(z[2]) * 60 + Number(z[3]));
   }
   const fracMs = frac ? Number(`0.${frac}`) * 1000 : 0;
-  return unixMsToJd(ms + fracMs - offsetMin * 60_000);
+  return checkRange(field, value, unixMsToJd(ms + fracMs - offsetMin * 60_000));
 }
 
-/** Years 1000–3000 cover every epoch an orbit or an observing plan needs; outside is a typo. */
+/**
+ * Years 1000–3000 cover every epoch an orbit or an observing plan needs; outside is a typo. One
+ * range for every form (ISO 8601 included), so `9999-01-01` and `JD 0` are refused alike.
+ */
 function checkRange(field: string, value: unknown, jd: number): number {
   if (!Number.isFinite(jd) || jd < 2_086_302.5 || jd > 2_816_787.5) {
     throw new InputError(field, value, 'must lie between the years 1000 and 3000');

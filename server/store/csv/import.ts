@@ -10,15 +10,14 @@ import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
 import type { DbOrTx, Tx } from '../database.ts';
 import type { StoreContext } from '../context.ts';
-import type { RowProblem } from '../schemas/common.ts';
 import type { CsvKind } from './columns.ts';
 import { writeMeasurementsIn } from './import-measurements.ts';
 import { prepareMeasurements, type PreparedMeasurements } from './measurement-rows.ts';
 import {
   ImportRejected,
-  cellValue,
-  columnOf,
+  cellValues,
   readCsv,
+  rowProblems,
   type ImportProblem,
   type ImportReport,
   type Record_,
@@ -76,9 +75,7 @@ async function toInput(
   cells: Record_,
   cache: NameCache,
 ): Promise<Record<string, unknown>> {
-  const v: Record<string, unknown> = Object.fromEntries(
-    Object.entries(cells).map(([k, c]) => [k, cellValue(k, c)]),
-  );
+  const v = cellValues(cells);
   if (kind === 'targets') {
     if (typeof v.system !== 'string')
       throw new InputError('system', v.system, 'is required: the name of a stored system');
@@ -133,19 +130,6 @@ async function toInput(
   };
 }
 
-function problemsOf(err: unknown, line: number): ImportProblem[] {
-  if (err instanceof InputError) {
-    const list: readonly RowProblem[] =
-      err.problems.length > 0
-        ? err.problems
-        : [{ field: err.field, value: err.value, rule: err.rule }];
-    return list.map((p) => ({ line, column: columnOf(p.field), value: p.value, rule: p.rule }));
-  }
-  if (err instanceof Error && ['ConflictError', 'NotFoundError'].includes(err.name))
-    return [{ line, column: '(row)', value: null, rule: err.message }];
-  throw err;
-}
-
 /** Import a CSV file of `kind`: all rows or none (ImportRejected lists every bad row). */
 export async function importCsv(
   store: StoreContext,
@@ -167,7 +151,7 @@ export async function importCsv(
       try {
         await repo.createIn(tx, actor, await toInput(tx, kind, cells, cache));
       } catch (err) {
-        problems.push(...problemsOf(err, line));
+        problems.push(...rowProblems(err, line));
       }
       await options.onRow?.(i);
     }

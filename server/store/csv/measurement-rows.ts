@@ -7,7 +7,7 @@
 import { measurementRow } from '../repos/measurement-rules.ts';
 import { MeasurementInput } from '../schemas/entities.ts';
 import { problemsOf } from '../schemas/common.ts';
-import { cellValue, columnOf, readCsv, type ImportProblem } from './read.ts';
+import { cellValues, columnOf, readCsv, rowProblems, type ImportProblem } from './read.ts';
 
 /** One checked row: the names to resolve and the measurement's column values (no targetId yet). */
 export interface PreparedMeasurement {
@@ -33,9 +33,14 @@ export function prepareMeasurements(text: string): PreparedMeasurements {
   const out: PreparedMeasurement[] = [];
   const problems: ImportProblem[] = [];
   for (const { line, cells } of rows) {
-    const { system, target, ...rest } = Object.fromEntries(
-      Object.entries(cells).map(([k, c]) => [k, cellValue(k, c)]),
-    );
+    let values: Record<string, unknown>;
+    try {
+      values = cellValues(cells);
+    } catch (err) {
+      problems.push(...rowProblems(err, line));
+      continue;
+    }
+    const { system, target, ...rest } = values;
     const input = { ...rest, targetId: UNRESOLVED_TARGET };
     const r = MeasurementInput.safeParse(input);
     if (!r.success) {

@@ -3,7 +3,9 @@
  * report and rejection every import gives. No database here, so a worker thread can run it.
  */
 import { parse } from 'csv-parse/sync';
+import { InputError, type FieldProblem } from '../../science/errors.ts';
 import { COLUMNS, NUMERIC, REQUIRED_COLUMNS, type CsvKind } from './columns.ts';
+import { isDecimal, unescapeFormulaCell } from './cells.ts';
 
 export interface ImportProblem {
   /** Line in the file (1 = header). */
@@ -104,14 +106,53 @@ export function readCsv(
   return { header, rows };
 }
 
+/** A cell as the value the schemas check (cells.ts: numbers plain decimals, formulas unescaped). */
 export function cellValue(column: string, cell: string): unknown {
   if (cell === '') return undefined;
   if (NUMERIC.has(column)) {
-    const x = Number(cell);
-    return Number.isFinite(x) ? x : cell;
+    if (!isDecimal(cell))
+      throw new InputError(
+        column,
+        cell,
+        'must be a decimal number such as 12.5, -0.25 or 3e-4 (no spaces, hexadecimal or words)',
+      );
+    return Number(cell);
   }
   if (column === 'makeCurrent') return cell === 'true' ? true : cell === 'false' ? false : cell;
-  return cell;
+  return unescapeFormulaCell(cell);
+}
+
+/**
+ * Every cell of a row as a value; InputError for the first bad cell, with every bad cell in
+ * `problems` (as `parseInput` reports a schema's).
+ */
+export function cellValues(cells: Record_): Record<string, unknown> {
+  const values: Record<string, unknown> = {};
+  const problems: FieldProblem[] = [];
+  for (const [k, c] of Object.entries(cells)) {
+    try {
+      values[k] = cellValue(k, c);
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      problems.push({ field: err.field, value: err.value, rule: err.rule });
+    }
+  }
+  const first = problems[0];
+  if (first) throw new InputError(first.field, first.value, first.rule, problems);
+  return values;
+}
+
+/** The problems of one row from what its checks threw (anything else is rethrown). */
+export function rowProblems(err: unknown, line: number): ImportProblem[] {
+  if (err instanceof InputError) {
+    const list = (
+      err as InputError & { problems?: { field: string; value: unknown; rule: string }[] }
+    ).problems ?? [{ field: err.field, value: err.value, rule: err.rule }];
+    return list.map((p) => ({ line, column: columnOf(p.field), value: p.value, rule: p.rule }));
+  }
+  if (err instanceof Error && ['ConflictError', 'NotFoundError'].includes(err.name))
+    return [{ line, column: '(row)', value: null, rule: err.message }];
+  throw err;
 }
 
 /** The CSV column a field path of the repository input refers to. */

@@ -3,7 +3,8 @@ import { stringify } from 'csv-stringify/sync';
 import { and, asc, eq } from 'drizzle-orm';
 import { measurements, systems, targets } from '../../../db/schema.ts';
 import type { DbOrTx } from '../database.ts';
-import { MEASUREMENT_COLUMNS } from '../csv/columns.ts';
+import { MEASUREMENT_COLUMNS, NUMERIC } from '../csv/columns.ts';
+import { escapeFormulaCell } from '../csv/cells.ts';
 import {
   measurementWhere,
   type MeasurementFilter,
@@ -27,12 +28,16 @@ export async function measurementsForExport(
   return rows.map((r) => ({ ...r.m, system: r.system, target: r.target }));
 }
 
-/** RFC 4180 CSV with the header of MEASUREMENT_COLUMNS; numbers as stored (full precision). */
+/**
+ * RFC 4180 CSV with the header of MEASUREMENT_COLUMNS; numbers as stored (full precision), text
+ * cells safe to open in a spreadsheet (csv/cells.ts; the import reads them back unchanged).
+ */
 export function measurementsCsv(rows: readonly ExportedMeasurement[]): string {
   const cells = rows.map((r) =>
     MEASUREMENT_COLUMNS.map((c) => {
       const v = (r as Record<string, unknown>)[c];
-      return v === null || v === undefined ? '' : String(v);
+      if (v === null || v === undefined) return '';
+      return NUMERIC.has(c) ? String(v) : escapeFormulaCell(String(v));
     }),
   );
   return stringify([[...MEASUREMENT_COLUMNS], ...cells]);

@@ -10,7 +10,7 @@ import { nowIso } from '../../clock.ts';
 import { entity, getById, insertIn, list } from '../crud.ts';
 import type { Db } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
-import { parseInput } from '../schemas/common.ts';
+import { lineText, parseInput } from '../schemas/common.ts';
 import { UserInput, type Role } from '../schemas/entities.ts';
 
 export type UserRow = typeof users.$inferSelect;
@@ -23,6 +23,8 @@ export const userEntity = entity<UserRow>({
   versioned: false,
   orderBy: [users.name],
 });
+
+const TokenLabel = lineText(200);
 
 /** Token prefix makes a leaked secret easy to recognise in logs and scanners. */
 const TOKEN_PREFIX = 'ewt_';
@@ -61,8 +63,9 @@ export function userRepository(db: Db) {
     tx: Parameters<Parameters<Db['transaction']>[0]>[0],
     actor: Actor,
     user: UserRow,
-    label: string,
+    rawLabel: string,
   ): Promise<IssuedToken> => {
+    const label = parseInput(TokenLabel, rawLabel, 'label');
     const secret = TOKEN_PREFIX + randomBytes(32).toString('base64url');
     const [row] = await tx
       .insert(tokens)

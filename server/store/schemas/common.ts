@@ -8,8 +8,36 @@ import { InputError, type FieldProblem } from '../../science/errors.ts';
 import { parseEpoch, jdToIso } from '../../science/time/index.ts';
 
 export const id = z.number().int().positive();
-export const name = z.string().trim().min(1).max(100);
-export const notes = z.string().max(20_000).default('');
+
+/*
+ * Control characters (U+0000–U+001F and U+007F) are refused in stored text: a NUL cuts the text
+ * short in every reader and export, the others corrupt tables and terminals. Free text (notes,
+ * reasons) keeps tab and line breaks; one-line text (names, labels) keeps none.
+ */
+// eslint-disable-next-line no-control-regex
+const CONTROL_ONE_LINE = /[\u0000-\u001f\u007f]/;
+// eslint-disable-next-line no-control-regex
+const CONTROL_FREE_TEXT = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/;
+const controlMessage = (where: string) =>
+  `must not contain control characters (U+0000–U+001F, U+007F${where})`;
+
+/** One line of text (a name, a label): no control characters at all. */
+export const lineText = (max: number) =>
+  z
+    .string()
+    .max(max)
+    .refine((v) => !CONTROL_ONE_LINE.test(v), { message: controlMessage('') });
+/** Free text (notes, reasons): tab, LF and CR allowed, no other control character. */
+export const freeText = (max: number) =>
+  z
+    .string()
+    .max(max)
+    .refine((v) => !CONTROL_FREE_TEXT.test(v), {
+      message: controlMessage('; tab and line breaks are allowed'),
+    });
+
+export const name = lineText(100).trim().min(1);
+export const notes = freeText(20_000).default('');
 /** A local calendar date, `YYYY-MM-DD`. */
 export const localDate = z.iso.date().describe('local calendar date YYYY-MM-DD');
 /** An instant given as ISO 8601 with a zone, JD, MJD, Julian or Besselian epoch; stored as ISO UTC. */

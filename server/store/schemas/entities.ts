@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import { BLOCK_ORIGINS, BLOCK_STATUSES } from '../../../db/schema.ts';
-import { epoch, id, localDate, name, notes, timeZone } from './common.ts';
+import { epoch, freeText, id, lineText, localDate, name, notes, timeZone } from './common.ts';
 
 const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();
 
@@ -35,7 +35,7 @@ export const TargetFields = z.object({
   systemId: id,
   name,
   magnitude: optionalNumber(z.number().min(-5).max(35).describe('apparent magnitude in `band`')),
-  band: z.string().max(20).nullable().optional(),
+  band: lineText(20).nullable().optional(),
   notes,
 });
 export const TargetInput = TargetFields;
@@ -61,7 +61,7 @@ export const OrbitSolutionInput = z.object({
   orbit: OrbitShape,
   provenance: z.enum(['entered', 'imported', 'fitted']).default('entered'),
   fittedFrom: z.array(id).nullable().optional().describe('measurement ids a fit used'),
-  reference: z.string().max(500).default('').describe('where the solution comes from'),
+  reference: freeText(500).default('').describe('where the solution comes from'),
   notes,
   makeCurrent: z.boolean().default(true).describe('become the target’s current solution'),
 });
@@ -248,7 +248,7 @@ export const NightReportFields = z.object({
   windMS: optionalNumber(z.number().min(0).max(100).describe('wind speed, m/s')),
   temperatureC: optionalNumber(z.number().min(-60).max(50)),
   timeLostHours: z.number().min(0).max(24).default(0),
-  timeLostReason: z.string().max(2000).default(''),
+  timeLostReason: freeText(2000).default(''),
   notes,
   outcomes: z.array(OutcomeInput).default([]),
 });
@@ -284,7 +284,7 @@ export const MeasurementFields = z.object({
     z.number().min(-30_000).max(30_000).describe('positive receding, km/s'),
   ),
   sigmaRadialVelocityKmS: optionalNumber(z.number().positive()),
-  instrument: z.string().trim().min(1).max(120),
+  instrument: lineText(120).trim().min(1),
   notes,
 });
 export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
@@ -307,7 +307,7 @@ export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
 });
 
 export const UserInput = z.object({
-  name: z.string().trim().min(1).max(80),
+  name: lineText(80).trim().min(1),
   role: z.enum(['lead', 'observer', 'viewer']),
 });
 export type Role = z.infer<typeof UserInput>['role'];

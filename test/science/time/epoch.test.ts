@@ -43,6 +43,22 @@ describe('epochs', () => {
     expect(() => parseEpoch(2451545 as unknown, 'at')).toThrow(/epoch string/);
   });
 
+  it('holds every form to the one range, years 1000–3000 (the ISO form included)', () => {
+    // the range is ours (documented in README); JD 0 is 4713 BC (Meeus, Astronomical Algorithms, ch. 7)
+    const outside = [
+      '9999-01-01T00:00:00Z',
+      '0999-12-31',
+      '0050-01-01',
+      'JD 0',
+      'MJD -1e6',
+      'J3001',
+      'B999',
+    ];
+    for (const b of outside) expect(() => parseEpoch(b, 'epoch'), b).toThrow(/years 1000 and 3000/);
+    expect(jdToIso(parseEpoch('1000-01-01T00:00:00Z'))).toBe('1000-01-01T00:00:00.000Z');
+    expect(jdToIso(parseEpoch('2999-12-31T00:00:00Z'))).toBe('2999-12-31T00:00:00.000Z');
+  });
+
   it('builds ranges', () => {
     expect(parseDurationDays('PT6H')).toBe(0.25); // 6 h = 1/4 d (definition of the hour)
     expect(Array.from(epochRange(10, 12, 1))).toEqual([10, 11, 12]);
