@@ -10,6 +10,7 @@ import { createClient, type Client, type Transaction } from '@libsql/client';
 import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import * as schema from '../../db/schema.ts';
+import { CONNECTION_BUSY_MS, gatedTransaction } from './write-gate.ts';
 
 export type Db = LibSQLDatabase<typeof schema>;
 /** A transaction handle or the database itself: repositories accept either. */
@@ -67,9 +68,6 @@ function filePath(url: string): string | null {
   return isAbsolute(p) ? p : resolve(process.cwd(), p);
 }
 
-/** How long a write waits for another connection's write before SQLITE_BUSY, ms. */
-export const BUSY_TIMEOUT_MS = 10_000;
-
 /**
  * Create the data folder and an empty database file readable by its owner only (0600; SQLite
  * gives its -wal and -shm files the same mode). An existing file keeps the mode it has.
@@ -92,9 +90,8 @@ export async function openDatabase(options: OpenOptions = {}): Promise<Database>
   const client = createClient({
     url,
     authToken: options.authToken ?? process.env.DATABASE_AUTH_TOKEN,
-    // The client pools connections: a PRAGMA reaches one of them, this option every one, so a
-    // write waits for another process's write (the CLI's, the server's) instead of failing.
-    timeout: BUSY_TIMEOUT_MS,
+    // The client pools connections: a PRAGMA reaches one of them, this option every one.
+    timeout: CONNECTION_BUSY_MS,
     ...(syncUrl && path ? { syncUrl, syncInterval: options.syncIntervalS ?? 60 } : {}),
   });
   const isLocalFile = path !== null && !syncUrl;
@@ -103,6 +100,10 @@ export async function openDatabase(options: OpenOptions = {}): Promise<Database>
   // Already on in libSQL's connections; said once more for a build where it is not.
   await client.execute('PRAGMA foreign_keys = ON');
   const db = drizzle(client, { schema });
+  // Every write transaction of this process through one gate (write-gate.ts).
+  db.transaction = gatedTransaction(db.transaction.bind(db), async () => {
+    await client.reconnect();
+  }) as Db['transaction'];
   await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
   return { db, client, url, isLocalFile, close: () => client.close() };
 }
