@@ -45,7 +45,7 @@ beforeAll(async () => {
   f = await fixture(createStore(await openDatabase({ url: `file:${path}` })));
 });
 afterAll(() => {
-  f.store.database.close();
+  f.store.close();
   rmSync(dir, { recursive: true, force: true });
 });
 

@@ -23,10 +23,13 @@ export { errorResponses, json };
  */
 const decimalInteger = (min: 0 | 1, description: string) =>
   z
-    .string()
-    .regex(min === 1 ? /^[1-9][0-9]{0,14}$/ : /^(0|[1-9][0-9]{0,14})$/, {
-      message: `must be a ${min === 1 ? 'positive' : 'non-negative'} whole number in plain decimal digits (${description})`,
-    })
+    // A number here is one this schema already read (handlers parse a checked query again).
+    .preprocess((v) => (typeof v === 'number' ? String(v) : v), z.string())
+    .pipe(
+      z.string().regex(min === 1 ? /^[1-9][0-9]{0,14}$/ : /^(0|[1-9][0-9]{0,14})$/, {
+        message: `must be a ${min === 1 ? 'positive' : 'non-negative'} whole number in plain decimal digits (${description})`,
+      }),
+    )
     .transform(Number);
 const pathId = decimalInteger(1, 'an id such as 12');
 export const IdParam = z.object({

@@ -14,9 +14,9 @@ export const id = z.number().int().positive();
  * short in every reader and export, the others corrupt tables and terminals. Free text (notes,
  * reasons) keeps tab and line breaks; one-line text (names, labels) keeps none.
  */
-// eslint-disable-next-line no-control-regex
+// biome-ignore lint/suspicious/noControlCharactersInRegex: finding control characters is the point
 const CONTROL_ONE_LINE = /[\u0000-\u001f\u007f]/;
-// eslint-disable-next-line no-control-regex
+// biome-ignore lint/suspicious/noControlCharactersInRegex: finding control characters is the point
 const CONTROL_FREE_TEXT = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/;
 const controlMessage = (where: string) =>
   `must not contain control characters (U+0000–U+001F, U+007F${where})`;
