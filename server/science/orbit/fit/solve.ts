@@ -6,6 +6,7 @@
 import { JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { campbellToThieleInnes, thieleInnesToCampbell } from '../elements.ts';
 import { massSolar, semiMajorAxisAu } from '../physical.ts';
+import { prepare } from '../predict.ts';
 import type { Orbit } from '../types.ts';
 import { covarianceFromJacobian } from './covariance.ts';
 import { gridSearch, type GridNode } from './grid.ts';
@@ -175,6 +176,45 @@ export function lmOn(
   return { problem, lm, theta: problem.full(lm.x) };
 }
 
+/**
+ * Move each star's T to the periapsis passage nearest the information-weighted centre of its
+ * measurements (weights: each measurement's whitened ∂r/∂T², the information it carries on T), so
+ * that T and its σ describe a passage the data cover. Exact: the model is unchanged, because T moves
+ * by whole periods and ω₀ (referred to T) by as many precession steps.
+ */
+function nearDataPassages(r: ReturnType<typeof lmOn>): ReturnType<typeof lmOn> {
+  const { problem, lm } = r;
+  const { L, free } = problem;
+  const { J } = problem.evaluate(lm.x, true);
+  const nf = free.length;
+  const theta = problem.full(lm.x);
+  L.stars.forEach((s, k) => {
+    const jT = free.indexOf(s.slots.T);
+    if (jT < 0) return;
+    let sw = 0,
+      swt = 0,
+      c = s.firstComponent;
+    for (const m of s.obs) {
+      const n = m.kind === 'radial-velocity' ? 1 : 2;
+      let w = 0;
+      for (let q = 0; q < n; q++) w += J![(c + q) * nf + jT]! ** 2;
+      sw += w;
+      swt += w * m.jd;
+      c += n;
+    }
+    if (!(sw > 0)) return;
+    const P = theta[s.slots.P]!;
+    const turns = Math.round((swt / sw - theta[s.slots.T]!) / P);
+    if (turns === 0) return;
+    const o = starOrbit(L, theta, k);
+    const step = o.relativity.precession ? prepare(o).precessionPerOrbitRad : 0;
+    theta[s.slots.T] = theta[s.slots.T]! + turns * P;
+    if (s.slots.arg >= 0) theta[s.slots.arg] = theta[s.slots.arg]! + turns * step;
+  });
+  const x = Float64Array.from(free, (j) => theta[j]!);
+  return { problem, lm: { ...lm, x }, theta: problem.full(x) };
+}
+
 function covarianceOf(problem: Problem, lm: LmResult, req: CheckedRequest): number[][] {
   const { J } = problem.evaluate(lm.x, true);
   const names = problem.free.map((j) => problem.L.params[j]!.name);
@@ -287,6 +327,7 @@ export function solveStar(
     if (!best || r.lm.cost < best.lm.cost) best = r;
   }
   refuseSinglePhase(b.L, best!.theta);
+  best = nearDataPassages(best!);
   return {
     L: b.L,
     problem: best!.problem,
@@ -404,9 +445,10 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
   // The lowest χ² whose covariance exists; if none has one, the lowest χ²'s refusal.
   const runs = starts.map((t0) => lmOn(b, t0, req, mode)).sort((x, y) => x.lm.cost - y.lm.cost);
   let firstError: unknown = null;
-  for (const r of runs) {
+  for (const run of runs) {
     try {
-      refuseSinglePhase(L, r.theta);
+      refuseSinglePhase(L, run.theta);
+      const r = nearDataPassages(run);
       return {
         L,
         problem: r.problem,

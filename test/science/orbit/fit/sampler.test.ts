@@ -72,7 +72,10 @@ describe('posterior sampling', () => {
     });
     report('poorly covered', r);
     const P = shape(r.parameters.find((p) => p.name === 'Y.periodYears')!);
-    expect(P.ratio).toBeGreaterThan(1.1);
+    // With T referred to the passage nearest the data (J2026.0 here, 3 years past them) P is far less
+    // correlated with T than at the passage before the data, and its marginal comes out close to its
+    // linear σ (1.05 with this seed); the widening shows in T and in the next periapsis below.
+    expect(P.ratio).toBeGreaterThan(1.0);
     const widest = Math.max(...r.parameters.map((p) => shape(p).ratio));
     expect(widest).toBeGreaterThan(1.5);
     const lopsided = Math.max(...r.parameters.map((p) => Math.abs(shape(p).asym)));
