@@ -395,37 +395,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                name: string;
-                                /** @description ICRS right ascension of the primary, degrees [0, 360) */
-                                raDeg: number;
-                                /** @description ICRS declination of the primary, degrees */
-                                decDeg: number;
-                                /**
-                                 * @description proper motion μα* = μα·cos δ, mas/yr
-                                 * @default 0
-                                 */
-                                pmRaMasYr: number;
-                                /**
-                                 * @description proper motion μδ, mas/yr
-                                 * @default 0
-                                 */
-                                pmDecMasYr: number;
-                                /**
-                                 * @description epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0
-                                 * @default J2000.0
-                                 */
-                                positionEpoch: string;
-                                /** @description distance, parsec */
-                                distancePc?: number | null;
-                                /** @description mass estimate of the primary, solar masses */
-                                massSolar?: number | null;
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                            }[];
+                            items: components["schemas"]["SystemRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -536,37 +506,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /** @description ICRS right ascension of the primary, degrees [0, 360) */
-                            raDeg: number;
-                            /** @description ICRS declination of the primary, degrees */
-                            decDeg: number;
-                            /**
-                             * @description proper motion μα* = μα·cos δ, mas/yr
-                             * @default 0
-                             */
-                            pmRaMasYr: number;
-                            /**
-                             * @description proper motion μδ, mas/yr
-                             * @default 0
-                             */
-                            pmDecMasYr: number;
-                            /**
-                             * @description epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0
-                             * @default J2000.0
-                             */
-                            positionEpoch: string;
-                            /** @description distance, parsec */
-                            distancePc?: number | null;
-                            /** @description mass estimate of the primary, solar masses */
-                            massSolar?: number | null;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["SystemRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -656,37 +596,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /** @description ICRS right ascension of the primary, degrees [0, 360) */
-                            raDeg: number;
-                            /** @description ICRS declination of the primary, degrees */
-                            decDeg: number;
-                            /**
-                             * @description proper motion μα* = μα·cos δ, mas/yr
-                             * @default 0
-                             */
-                            pmRaMasYr: number;
-                            /**
-                             * @description proper motion μδ, mas/yr
-                             * @default 0
-                             */
-                            pmDecMasYr: number;
-                            /**
-                             * @description epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0
-                             * @default J2000.0
-                             */
-                            positionEpoch: string;
-                            /** @description distance, parsec */
-                            distancePc?: number | null;
-                            /** @description mass estimate of the primary, solar masses */
-                            massSolar?: number | null;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["SystemRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -861,37 +771,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /** @description ICRS right ascension of the primary, degrees [0, 360) */
-                            raDeg: number;
-                            /** @description ICRS declination of the primary, degrees */
-                            decDeg: number;
-                            /**
-                             * @description proper motion μα* = μα·cos δ, mas/yr
-                             * @default 0
-                             */
-                            pmRaMasYr: number;
-                            /**
-                             * @description proper motion μδ, mas/yr
-                             * @default 0
-                             */
-                            pmDecMasYr: number;
-                            /**
-                             * @description epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0
-                             * @default J2000.0
-                             */
-                            positionEpoch: string;
-                            /** @description distance, parsec */
-                            distancePc?: number | null;
-                            /** @description mass estimate of the primary, solar masses */
-                            massSolar?: number | null;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["SystemRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -981,18 +861,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                systemId: number;
-                                name: string;
-                                /** @description apparent magnitude in `band` */
-                                magnitude?: number | null;
-                                band?: string | null;
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                            }[];
+                            items: components["schemas"]["TargetRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -1084,18 +953,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            systemId: number;
-                            name: string;
-                            /** @description apparent magnitude in `band` */
-                            magnitude?: number | null;
-                            band?: string | null;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["TargetRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -1185,18 +1043,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            systemId: number;
-                            name: string;
-                            /** @description apparent magnitude in `band` */
-                            magnitude?: number | null;
-                            band?: string | null;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["TargetRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -1363,18 +1210,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            systemId: number;
-                            name: string;
-                            /** @description apparent magnitude in `band` */
-                            magnitude?: number | null;
-                            band?: string | null;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["TargetRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -1777,7 +1613,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: components["schemas"]["OrbitSolution"][];
+                            items: components["schemas"]["OrbitSolutionRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -1883,7 +1719,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["OrbitSolution"];
+                        "application/json": components["schemas"]["OrbitSolutionRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -1973,7 +1809,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["OrbitSolution"];
+                        "application/json": components["schemas"]["OrbitSolutionRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -2141,7 +1977,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["OrbitSolution"];
+                        "application/json": components["schemas"]["OrbitSolutionRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -2234,51 +2070,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                name: string;
-                                /** @description geodetic latitude, degrees, north positive */
-                                latitudeDeg: number;
-                                /** @description longitude, degrees, east positive */
-                                longitudeDeg: number;
-                                /** @description elevation above the ellipsoid, metres */
-                                elevationM: number;
-                                /** @description IANA time zone, e.g. America/Santiago */
-                                timeZone: string;
-                                /**
-                                 * @description lowest usable altitude, degrees
-                                 * @default 30
-                                 */
-                                lowestAltitudeDeg: number;
-                                /**
-                                 * @description closest allowed angle to the Sun, degrees
-                                 * @default 45
-                                 */
-                                leastSunDistanceDeg: number;
-                                /** @description typical pressure for refraction, hPa */
-                                pressureHpa?: number | null;
-                                /** @description typical night temperature, °C */
-                                temperatureC?: number | null;
-                                /**
-                                 * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
-                                 * @default []
-                                 */
-                                horizonMask: {
-                                    /** @description degrees from north through east, [0, 360) */
-                                    azimuthDeg: number;
-                                    /** @description lowest usable refracted altitude there, degrees, [−5, 90) */
-                                    altitudeDeg: number;
-                                }[];
-                                /**
-                                 * @description the site runs a laser guide star
-                                 * @default false
-                                 */
-                                laserGuideStar: boolean;
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                            }[];
+                            items: components["schemas"]["SiteRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -2403,51 +2195,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /** @description geodetic latitude, degrees, north positive */
-                            latitudeDeg: number;
-                            /** @description longitude, degrees, east positive */
-                            longitudeDeg: number;
-                            /** @description elevation above the ellipsoid, metres */
-                            elevationM: number;
-                            /** @description IANA time zone, e.g. America/Santiago */
-                            timeZone: string;
-                            /**
-                             * @description lowest usable altitude, degrees
-                             * @default 30
-                             */
-                            lowestAltitudeDeg: number;
-                            /**
-                             * @description closest allowed angle to the Sun, degrees
-                             * @default 45
-                             */
-                            leastSunDistanceDeg: number;
-                            /** @description typical pressure for refraction, hPa */
-                            pressureHpa?: number | null;
-                            /** @description typical night temperature, °C */
-                            temperatureC?: number | null;
-                            /**
-                             * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
-                             * @default []
-                             */
-                            horizonMask: {
-                                /** @description degrees from north through east, [0, 360) */
-                                azimuthDeg: number;
-                                /** @description lowest usable refracted altitude there, degrees, [−5, 90) */
-                                altitudeDeg: number;
-                            }[];
-                            /**
-                             * @description the site runs a laser guide star
-                             * @default false
-                             */
-                            laserGuideStar: boolean;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["SiteRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -2537,51 +2285,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /** @description geodetic latitude, degrees, north positive */
-                            latitudeDeg: number;
-                            /** @description longitude, degrees, east positive */
-                            longitudeDeg: number;
-                            /** @description elevation above the ellipsoid, metres */
-                            elevationM: number;
-                            /** @description IANA time zone, e.g. America/Santiago */
-                            timeZone: string;
-                            /**
-                             * @description lowest usable altitude, degrees
-                             * @default 30
-                             */
-                            lowestAltitudeDeg: number;
-                            /**
-                             * @description closest allowed angle to the Sun, degrees
-                             * @default 45
-                             */
-                            leastSunDistanceDeg: number;
-                            /** @description typical pressure for refraction, hPa */
-                            pressureHpa?: number | null;
-                            /** @description typical night temperature, °C */
-                            temperatureC?: number | null;
-                            /**
-                             * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
-                             * @default []
-                             */
-                            horizonMask: {
-                                /** @description degrees from north through east, [0, 360) */
-                                azimuthDeg: number;
-                                /** @description lowest usable refracted altitude there, degrees, [−5, 90) */
-                                altitudeDeg: number;
-                            }[];
-                            /**
-                             * @description the site runs a laser guide star
-                             * @default false
-                             */
-                            laserGuideStar: boolean;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["SiteRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -2765,51 +2469,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /** @description geodetic latitude, degrees, north positive */
-                            latitudeDeg: number;
-                            /** @description longitude, degrees, east positive */
-                            longitudeDeg: number;
-                            /** @description elevation above the ellipsoid, metres */
-                            elevationM: number;
-                            /** @description IANA time zone, e.g. America/Santiago */
-                            timeZone: string;
-                            /**
-                             * @description lowest usable altitude, degrees
-                             * @default 30
-                             */
-                            lowestAltitudeDeg: number;
-                            /**
-                             * @description closest allowed angle to the Sun, degrees
-                             * @default 45
-                             */
-                            leastSunDistanceDeg: number;
-                            /** @description typical pressure for refraction, hPa */
-                            pressureHpa?: number | null;
-                            /** @description typical night temperature, °C */
-                            temperatureC?: number | null;
-                            /**
-                             * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
-                             * @default []
-                             */
-                            horizonMask: {
-                                /** @description degrees from north through east, [0, 360) */
-                                azimuthDeg: number;
-                                /** @description lowest usable refracted altitude there, degrees, [−5, 90) */
-                                altitudeDeg: number;
-                            }[];
-                            /**
-                             * @description the site runs a laser guide star
-                             * @default false
-                             */
-                            laserGuideStar: boolean;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["SiteRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -2904,87 +2564,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                name: string;
-                                /**
-                                 * Format: date
-                                 * @description local calendar date YYYY-MM-DD
-                                 */
-                                startDate: string;
-                                /**
-                                 * Format: date
-                                 * @description local calendar date YYYY-MM-DD
-                                 */
-                                endDate: string;
-                                goals: {
-                                    /** @description wanted interval between epochs of a target, days */
-                                    cadenceDays: number;
-                                    /** @description interval near periapsis, days */
-                                    densifiedCadenceDays?: number;
-                                    /** @description how close to periapsis the dense cadence applies, days */
-                                    densifyWithinDays?: number;
-                                    kinds: ("astrometry" | "spectroscopy")[];
-                                    /** @description block length per kind, minutes */
-                                    blockMinutes?: {
-                                        astrometry?: number;
-                                        spectroscopy?: number;
-                                    };
-                                    /** @description laser guide star use per kind where a site has one; absent: none */
-                                    laserGuideStar?: {
-                                        astrometry?: boolean;
-                                        spectroscopy?: boolean;
-                                    };
-                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                    periapsisRepeat?: ("single" | "fill") | {
-                                        everyHours: number;
-                                    };
-                                    /** @description half-width of the periapsis window in σ of the passage date; default 2 */
-                                    periapsisWindowSigma?: number;
-                                    /** @description an epoch this close to the passage date (days) covers it; default 1 */
-                                    coverageWithinDays?: number;
-                                    /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
-                                    precision?: {
-                                        astrometryMas?: number;
-                                        spectroscopyKmS?: number;
-                                        referenceSeeingArcsec?: number;
-                                    };
-                                    /** @description per-target settings by target id; each defaults to the campaign’s */
-                                    targets?: {
-                                        [key: string]: {
-                                            priority?: number;
-                                            cadenceDays?: number;
-                                            blockMinutes?: {
-                                                astrometry?: number;
-                                                spectroscopy?: number;
-                                            };
-                                            laserGuideStar?: {
-                                                astrometry?: boolean;
-                                                spectroscopy?: boolean;
-                                            };
-                                            /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                            periapsisRepeat?: ("single" | "fill") | {
-                                                everyHours: number;
-                                            };
-                                        };
-                                    };
-                                };
-                                /** @default {} */
-                                limits: {
-                                    highestAirmass?: number;
-                                    leastMoonDistanceDeg?: number;
-                                    /** @enum {string} */
-                                    darkness?: "civil" | "nautical" | "astronomical";
-                                };
-                                /** @default [] */
-                                targetIds: number[];
-                                /** @default [] */
-                                siteIds: number[];
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                            }[];
+                            items: components["schemas"]["CampaignRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -3145,87 +2725,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            startDate: string;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            endDate: string;
-                            goals: {
-                                /** @description wanted interval between epochs of a target, days */
-                                cadenceDays: number;
-                                /** @description interval near periapsis, days */
-                                densifiedCadenceDays?: number;
-                                /** @description how close to periapsis the dense cadence applies, days */
-                                densifyWithinDays?: number;
-                                kinds: ("astrometry" | "spectroscopy")[];
-                                /** @description block length per kind, minutes */
-                                blockMinutes?: {
-                                    astrometry?: number;
-                                    spectroscopy?: number;
-                                };
-                                /** @description laser guide star use per kind where a site has one; absent: none */
-                                laserGuideStar?: {
-                                    astrometry?: boolean;
-                                    spectroscopy?: boolean;
-                                };
-                                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                periapsisRepeat?: ("single" | "fill") | {
-                                    everyHours: number;
-                                };
-                                /** @description half-width of the periapsis window in σ of the passage date; default 2 */
-                                periapsisWindowSigma?: number;
-                                /** @description an epoch this close to the passage date (days) covers it; default 1 */
-                                coverageWithinDays?: number;
-                                /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
-                                precision?: {
-                                    astrometryMas?: number;
-                                    spectroscopyKmS?: number;
-                                    referenceSeeingArcsec?: number;
-                                };
-                                /** @description per-target settings by target id; each defaults to the campaign’s */
-                                targets?: {
-                                    [key: string]: {
-                                        priority?: number;
-                                        cadenceDays?: number;
-                                        blockMinutes?: {
-                                            astrometry?: number;
-                                            spectroscopy?: number;
-                                        };
-                                        laserGuideStar?: {
-                                            astrometry?: boolean;
-                                            spectroscopy?: boolean;
-                                        };
-                                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                        periapsisRepeat?: ("single" | "fill") | {
-                                            everyHours: number;
-                                        };
-                                    };
-                                };
-                            };
-                            /** @default {} */
-                            limits: {
-                                highestAirmass?: number;
-                                leastMoonDistanceDeg?: number;
-                                /** @enum {string} */
-                                darkness?: "civil" | "nautical" | "astronomical";
-                            };
-                            /** @default [] */
-                            targetIds: number[];
-                            /** @default [] */
-                            siteIds: number[];
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["CampaignRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -3315,87 +2815,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            startDate: string;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            endDate: string;
-                            goals: {
-                                /** @description wanted interval between epochs of a target, days */
-                                cadenceDays: number;
-                                /** @description interval near periapsis, days */
-                                densifiedCadenceDays?: number;
-                                /** @description how close to periapsis the dense cadence applies, days */
-                                densifyWithinDays?: number;
-                                kinds: ("astrometry" | "spectroscopy")[];
-                                /** @description block length per kind, minutes */
-                                blockMinutes?: {
-                                    astrometry?: number;
-                                    spectroscopy?: number;
-                                };
-                                /** @description laser guide star use per kind where a site has one; absent: none */
-                                laserGuideStar?: {
-                                    astrometry?: boolean;
-                                    spectroscopy?: boolean;
-                                };
-                                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                periapsisRepeat?: ("single" | "fill") | {
-                                    everyHours: number;
-                                };
-                                /** @description half-width of the periapsis window in σ of the passage date; default 2 */
-                                periapsisWindowSigma?: number;
-                                /** @description an epoch this close to the passage date (days) covers it; default 1 */
-                                coverageWithinDays?: number;
-                                /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
-                                precision?: {
-                                    astrometryMas?: number;
-                                    spectroscopyKmS?: number;
-                                    referenceSeeingArcsec?: number;
-                                };
-                                /** @description per-target settings by target id; each defaults to the campaign’s */
-                                targets?: {
-                                    [key: string]: {
-                                        priority?: number;
-                                        cadenceDays?: number;
-                                        blockMinutes?: {
-                                            astrometry?: number;
-                                            spectroscopy?: number;
-                                        };
-                                        laserGuideStar?: {
-                                            astrometry?: boolean;
-                                            spectroscopy?: boolean;
-                                        };
-                                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                        periapsisRepeat?: ("single" | "fill") | {
-                                            everyHours: number;
-                                        };
-                                    };
-                                };
-                            };
-                            /** @default {} */
-                            limits: {
-                                highestAirmass?: number;
-                                leastMoonDistanceDeg?: number;
-                                /** @enum {string} */
-                                darkness?: "civil" | "nautical" | "astronomical";
-                            };
-                            /** @default [] */
-                            targetIds: number[];
-                            /** @default [] */
-                            siteIds: number[];
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["CampaignRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -3628,87 +3048,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            name: string;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            startDate: string;
-                            /**
-                             * Format: date
-                             * @description local calendar date YYYY-MM-DD
-                             */
-                            endDate: string;
-                            goals: {
-                                /** @description wanted interval between epochs of a target, days */
-                                cadenceDays: number;
-                                /** @description interval near periapsis, days */
-                                densifiedCadenceDays?: number;
-                                /** @description how close to periapsis the dense cadence applies, days */
-                                densifyWithinDays?: number;
-                                kinds: ("astrometry" | "spectroscopy")[];
-                                /** @description block length per kind, minutes */
-                                blockMinutes?: {
-                                    astrometry?: number;
-                                    spectroscopy?: number;
-                                };
-                                /** @description laser guide star use per kind where a site has one; absent: none */
-                                laserGuideStar?: {
-                                    astrometry?: boolean;
-                                    spectroscopy?: boolean;
-                                };
-                                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                periapsisRepeat?: ("single" | "fill") | {
-                                    everyHours: number;
-                                };
-                                /** @description half-width of the periapsis window in σ of the passage date; default 2 */
-                                periapsisWindowSigma?: number;
-                                /** @description an epoch this close to the passage date (days) covers it; default 1 */
-                                coverageWithinDays?: number;
-                                /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
-                                precision?: {
-                                    astrometryMas?: number;
-                                    spectroscopyKmS?: number;
-                                    referenceSeeingArcsec?: number;
-                                };
-                                /** @description per-target settings by target id; each defaults to the campaign’s */
-                                targets?: {
-                                    [key: string]: {
-                                        priority?: number;
-                                        cadenceDays?: number;
-                                        blockMinutes?: {
-                                            astrometry?: number;
-                                            spectroscopy?: number;
-                                        };
-                                        laserGuideStar?: {
-                                            astrometry?: boolean;
-                                            spectroscopy?: boolean;
-                                        };
-                                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
-                                        periapsisRepeat?: ("single" | "fill") | {
-                                            everyHours: number;
-                                        };
-                                    };
-                                };
-                            };
-                            /** @default {} */
-                            limits: {
-                                highestAirmass?: number;
-                                leastMoonDistanceDeg?: number;
-                                /** @enum {string} */
-                                darkness?: "civil" | "nautical" | "astronomical";
-                            };
-                            /** @default [] */
-                            targetIds: number[];
-                            /** @default [] */
-                            siteIds: number[];
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                        };
+                        "application/json": components["schemas"]["CampaignRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -3803,7 +3143,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: components["schemas"]["Night"][];
+                            items: components["schemas"]["NightRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -3897,7 +3237,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["Night"];
+                        "application/json": components["schemas"]["NightRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -3987,7 +3327,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["Night"];
+                        "application/json": components["schemas"]["NightRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -4150,7 +3490,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["Night"];
+                        "application/json": components["schemas"]["NightRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -4342,7 +3682,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: components["schemas"]["Block"][];
+                            items: components["schemas"]["BlockRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -4449,7 +3789,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["Block"];
+                        "application/json": components["schemas"]["BlockRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -4539,7 +3879,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["Block"];
+                        "application/json": components["schemas"]["BlockRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -4715,7 +4055,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": components["schemas"]["Block"];
+                        "application/json": components["schemas"]["BlockRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -4811,37 +4151,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                nightId: number;
-                                /** @description seeing FWHM at zenith, arcsec */
-                                seeingArcsec?: number | null;
-                                /** @description adaptive-optics Strehl ratio, 0–1 */
-                                strehlRatio?: number | null;
-                                cloudCoverPct?: number | null;
-                                humidityPct?: number | null;
-                                /** @description wind speed, m/s */
-                                windMS?: number | null;
-                                temperatureC?: number | null;
-                                /** @default 0 */
-                                timeLostHours: number;
-                                /** @default  */
-                                timeLostReason: string;
-                                /** @default  */
-                                notes: string;
-                                /** @default [] */
-                                outcomes: {
-                                    blockId: number;
-                                    /** @enum {string} */
-                                    status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                                    exposureMinutes?: number | null;
-                                    /** @default  */
-                                    notes: string;
-                                }[];
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                                version: number;
-                            }[];
+                            items: components["schemas"]["NightReportRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -4951,37 +4261,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            nightId: number;
-                            /** @description seeing FWHM at zenith, arcsec */
-                            seeingArcsec?: number | null;
-                            /** @description adaptive-optics Strehl ratio, 0–1 */
-                            strehlRatio?: number | null;
-                            cloudCoverPct?: number | null;
-                            humidityPct?: number | null;
-                            /** @description wind speed, m/s */
-                            windMS?: number | null;
-                            temperatureC?: number | null;
-                            /** @default 0 */
-                            timeLostHours: number;
-                            /** @default  */
-                            timeLostReason: string;
-                            /** @default  */
-                            notes: string;
-                            /** @default [] */
-                            outcomes: {
-                                blockId: number;
-                                /** @enum {string} */
-                                status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                                exposureMinutes?: number | null;
-                                /** @default  */
-                                notes: string;
-                            }[];
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            version: number;
-                        };
+                        "application/json": components["schemas"]["NightReportRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5071,37 +4351,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            nightId: number;
-                            /** @description seeing FWHM at zenith, arcsec */
-                            seeingArcsec?: number | null;
-                            /** @description adaptive-optics Strehl ratio, 0–1 */
-                            strehlRatio?: number | null;
-                            cloudCoverPct?: number | null;
-                            humidityPct?: number | null;
-                            /** @description wind speed, m/s */
-                            windMS?: number | null;
-                            temperatureC?: number | null;
-                            /** @default 0 */
-                            timeLostHours: number;
-                            /** @default  */
-                            timeLostReason: string;
-                            /** @default  */
-                            notes: string;
-                            /** @default [] */
-                            outcomes: {
-                                blockId: number;
-                                /** @enum {string} */
-                                status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                                exposureMinutes?: number | null;
-                                /** @default  */
-                                notes: string;
-                            }[];
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            version: number;
-                        };
+                        "application/json": components["schemas"]["NightReportRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5284,37 +4534,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            nightId: number;
-                            /** @description seeing FWHM at zenith, arcsec */
-                            seeingArcsec?: number | null;
-                            /** @description adaptive-optics Strehl ratio, 0–1 */
-                            strehlRatio?: number | null;
-                            cloudCoverPct?: number | null;
-                            humidityPct?: number | null;
-                            /** @description wind speed, m/s */
-                            windMS?: number | null;
-                            temperatureC?: number | null;
-                            /** @default 0 */
-                            timeLostHours: number;
-                            /** @default  */
-                            timeLostReason: string;
-                            /** @default  */
-                            notes: string;
-                            /** @default [] */
-                            outcomes: {
-                                blockId: number;
-                                /** @enum {string} */
-                                status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
-                                exposureMinutes?: number | null;
-                                /** @default  */
-                                notes: string;
-                            }[];
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            version: number;
-                        };
+                        "application/json": components["schemas"]["NightReportRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5411,40 +4631,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            items: {
-                                targetId: number;
-                                blockId?: number | null;
-                                /**
-                                 * @description offsets Δα*, Δδ; separation and position angle; or radial velocity
-                                 * @enum {string}
-                                 */
-                                kind: "offsets" | "separation" | "radial-velocity";
-                                /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
-                                epoch: string;
-                                /** @description Δα* = Δα·cos δ, east positive, mas */
-                                dRaMas?: number | null;
-                                /** @description Δδ, north positive, mas */
-                                dDecMas?: number | null;
-                                sigmaDRaMas?: number | null;
-                                sigmaDDecMas?: number | null;
-                                separationMas?: number | null;
-                                /** @description north through east, degrees */
-                                positionAngleDeg?: number | null;
-                                sigmaSeparationMas?: number | null;
-                                sigmaPositionAngleDeg?: number | null;
-                                /** @description correlation of the two astrometric errors */
-                                correlation?: number | null;
-                                /** @description positive receding, km/s */
-                                radialVelocityKmS?: number | null;
-                                sigmaRadialVelocityKmS?: number | null;
-                                instrument: string;
-                                /** @default  */
-                                notes: string;
-                                id: number;
-                                createdAt: string;
-                                updatedAt?: string;
-                                epochJd: number;
-                            }[];
+                            items: components["schemas"]["MeasurementRow"][];
                             total: number;
                             limit: number;
                             offset: number;
@@ -5557,40 +4744,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            targetId: number;
-                            blockId?: number | null;
-                            /**
-                             * @description offsets Δα*, Δδ; separation and position angle; or radial velocity
-                             * @enum {string}
-                             */
-                            kind: "offsets" | "separation" | "radial-velocity";
-                            /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
-                            epoch: string;
-                            /** @description Δα* = Δα·cos δ, east positive, mas */
-                            dRaMas?: number | null;
-                            /** @description Δδ, north positive, mas */
-                            dDecMas?: number | null;
-                            sigmaDRaMas?: number | null;
-                            sigmaDDecMas?: number | null;
-                            separationMas?: number | null;
-                            /** @description north through east, degrees */
-                            positionAngleDeg?: number | null;
-                            sigmaSeparationMas?: number | null;
-                            sigmaPositionAngleDeg?: number | null;
-                            /** @description correlation of the two astrometric errors */
-                            correlation?: number | null;
-                            /** @description positive receding, km/s */
-                            radialVelocityKmS?: number | null;
-                            sigmaRadialVelocityKmS?: number | null;
-                            instrument: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            epochJd: number;
-                        };
+                        "application/json": components["schemas"]["MeasurementRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5680,40 +4834,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            targetId: number;
-                            blockId?: number | null;
-                            /**
-                             * @description offsets Δα*, Δδ; separation and position angle; or radial velocity
-                             * @enum {string}
-                             */
-                            kind: "offsets" | "separation" | "radial-velocity";
-                            /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
-                            epoch: string;
-                            /** @description Δα* = Δα·cos δ, east positive, mas */
-                            dRaMas?: number | null;
-                            /** @description Δδ, north positive, mas */
-                            dDecMas?: number | null;
-                            sigmaDRaMas?: number | null;
-                            sigmaDDecMas?: number | null;
-                            separationMas?: number | null;
-                            /** @description north through east, degrees */
-                            positionAngleDeg?: number | null;
-                            sigmaSeparationMas?: number | null;
-                            sigmaPositionAngleDeg?: number | null;
-                            /** @description correlation of the two astrometric errors */
-                            correlation?: number | null;
-                            /** @description positive receding, km/s */
-                            radialVelocityKmS?: number | null;
-                            sigmaRadialVelocityKmS?: number | null;
-                            instrument: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            epochJd: number;
-                        };
+                        "application/json": components["schemas"]["MeasurementRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -5901,40 +5022,7 @@ export interface paths {
                         [name: string]: unknown;
                     };
                     content: {
-                        "application/json": {
-                            targetId: number;
-                            blockId?: number | null;
-                            /**
-                             * @description offsets Δα*, Δδ; separation and position angle; or radial velocity
-                             * @enum {string}
-                             */
-                            kind: "offsets" | "separation" | "radial-velocity";
-                            /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
-                            epoch: string;
-                            /** @description Δα* = Δα·cos δ, east positive, mas */
-                            dRaMas?: number | null;
-                            /** @description Δδ, north positive, mas */
-                            dDecMas?: number | null;
-                            sigmaDRaMas?: number | null;
-                            sigmaDDecMas?: number | null;
-                            separationMas?: number | null;
-                            /** @description north through east, degrees */
-                            positionAngleDeg?: number | null;
-                            sigmaSeparationMas?: number | null;
-                            sigmaPositionAngleDeg?: number | null;
-                            /** @description correlation of the two astrometric errors */
-                            correlation?: number | null;
-                            /** @description positive receding, km/s */
-                            radialVelocityKmS?: number | null;
-                            sigmaRadialVelocityKmS?: number | null;
-                            instrument: string;
-                            /** @default  */
-                            notes: string;
-                            id: number;
-                            createdAt: string;
-                            updatedAt?: string;
-                            epochJd: number;
-                        };
+                        "application/json": components["schemas"]["MeasurementRow"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -7183,8 +6271,8 @@ export interface paths {
                             plan: components["schemas"]["SeasonPlan"];
                             replaces: number[];
                             digest: string;
-                            written: components["schemas"]["Block"][];
-                            nightsCreated: components["schemas"]["Night"][];
+                            written: components["schemas"]["BlockRow"][];
+                            nightsCreated: components["schemas"]["NightRow"][];
                         };
                     };
                 };
@@ -7456,7 +6544,7 @@ export interface paths {
                                 reason: string;
                             }[];
                             digest: string;
-                            written: components["schemas"]["Block"][];
+                            written: components["schemas"]["BlockRow"][];
                         };
                     };
                 };
@@ -7949,7 +7037,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            solutions: components["schemas"]["OrbitSolution"][];
+                            solutions: components["schemas"]["OrbitSolutionRow"][];
                             result: components["schemas"]["FitResult"];
                         };
                     };
@@ -8281,7 +7369,7 @@ export interface paths {
                     };
                     content: {
                         "application/json": {
-                            solutions: components["schemas"]["OrbitSolution"][];
+                            solutions: components["schemas"]["OrbitSolutionRow"][];
                             result: components["schemas"]["FitResult"];
                         };
                     };
@@ -8823,6 +7911,49 @@ export interface components {
             evaluations: number;
             cautions: string[];
         };
+        SystemRow: {
+            name: string;
+            /** @description ICRS right ascension of the primary, degrees [0, 360) */
+            raDeg: number;
+            /** @description ICRS declination of the primary, degrees */
+            decDeg: number;
+            /**
+             * @description proper motion μα* = μα·cos δ, mas/yr
+             * @default 0
+             */
+            pmRaMasYr: number;
+            /**
+             * @description proper motion μδ, mas/yr
+             * @default 0
+             */
+            pmDecMasYr: number;
+            /**
+             * @description epoch of raDeg/decDeg (ISO 8601 with zone, JD, MJD, J…, B…); stored as ISO 8601 UTC; default J2000.0
+             * @default J2000.0
+             */
+            positionEpoch: string;
+            /** @description distance, parsec */
+            distancePc?: number | null;
+            /** @description mass estimate of the primary, solar masses */
+            massSolar?: number | null;
+            /** @default  */
+            notes: string;
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+        };
+        TargetRow: {
+            systemId: number;
+            name: string;
+            /** @description apparent magnitude in `band` */
+            magnitude?: number | null;
+            band?: string | null;
+            /** @default  */
+            notes: string;
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+        };
         TargetForecast: {
             factors: components["schemas"]["FactorForecast"][];
             plannedEpochs: number;
@@ -8867,7 +7998,7 @@ export interface components {
                 share: number;
             }[];
         };
-        OrbitSolution: {
+        OrbitSolutionRow: {
             targetId: number;
             orbit: components["schemas"]["Orbit"];
             /**
@@ -8890,7 +8021,133 @@ export interface components {
             createdBy: number | null;
             createdAt: string;
         };
-        Night: {
+        SiteRow: {
+            name: string;
+            /** @description geodetic latitude, degrees, north positive */
+            latitudeDeg: number;
+            /** @description longitude, degrees, east positive */
+            longitudeDeg: number;
+            /** @description elevation above the ellipsoid, metres */
+            elevationM: number;
+            /** @description IANA time zone, e.g. America/Santiago */
+            timeZone: string;
+            /**
+             * @description lowest usable altitude, degrees
+             * @default 30
+             */
+            lowestAltitudeDeg: number;
+            /**
+             * @description closest allowed angle to the Sun, degrees
+             * @default 45
+             */
+            leastSunDistanceDeg: number;
+            /** @description typical pressure for refraction, hPa */
+            pressureHpa?: number | null;
+            /** @description typical night temperature, °C */
+            temperatureC?: number | null;
+            /**
+             * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
+             * @default []
+             */
+            horizonMask: {
+                /** @description degrees from north through east, [0, 360) */
+                azimuthDeg: number;
+                /** @description lowest usable refracted altitude there, degrees, [−5, 90) */
+                altitudeDeg: number;
+            }[];
+            /**
+             * @description the site runs a laser guide star
+             * @default false
+             */
+            laserGuideStar: boolean;
+            /** @default  */
+            notes: string;
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+        };
+        CampaignRow: {
+            name: string;
+            /**
+             * Format: date
+             * @description local calendar date YYYY-MM-DD
+             */
+            startDate: string;
+            /**
+             * Format: date
+             * @description local calendar date YYYY-MM-DD
+             */
+            endDate: string;
+            goals: {
+                /** @description wanted interval between epochs of a target, days */
+                cadenceDays: number;
+                /** @description interval near periapsis, days */
+                densifiedCadenceDays?: number;
+                /** @description how close to periapsis the dense cadence applies, days */
+                densifyWithinDays?: number;
+                kinds: ("astrometry" | "spectroscopy")[];
+                /** @description block length per kind, minutes */
+                blockMinutes?: {
+                    astrometry?: number;
+                    spectroscopy?: number;
+                };
+                /** @description laser guide star use per kind where a site has one; absent: none */
+                laserGuideStar?: {
+                    astrometry?: boolean;
+                    spectroscopy?: boolean;
+                };
+                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                periapsisRepeat?: ("single" | "fill") | {
+                    everyHours: number;
+                };
+                /** @description half-width of the periapsis window in σ of the passage date; default 2 */
+                periapsisWindowSigma?: number;
+                /** @description an epoch this close to the passage date (days) covers it; default 1 */
+                coverageWithinDays?: number;
+                /** @description expected 1σ at the zenith (mas, km/s) for a reference seeing (arcsec) */
+                precision?: {
+                    astrometryMas?: number;
+                    spectroscopyKmS?: number;
+                    referenceSeeingArcsec?: number;
+                };
+                /** @description per-target settings by target id; each defaults to the campaign’s */
+                targets?: {
+                    [key: string]: {
+                        priority?: number;
+                        cadenceDays?: number;
+                        blockMinutes?: {
+                            astrometry?: number;
+                            spectroscopy?: number;
+                        };
+                        laserGuideStar?: {
+                            astrometry?: boolean;
+                            spectroscopy?: boolean;
+                        };
+                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                        periapsisRepeat?: ("single" | "fill") | {
+                            everyHours: number;
+                        };
+                    };
+                };
+            };
+            /** @default {} */
+            limits: {
+                highestAirmass?: number;
+                leastMoonDistanceDeg?: number;
+                /** @enum {string} */
+                darkness?: "civil" | "nautical" | "astronomical";
+            };
+            /** @default [] */
+            targetIds: number[];
+            /** @default [] */
+            siteIds: number[];
+            /** @default  */
+            notes: string;
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+        };
+        NightRow: {
             siteId: number;
             campaignId?: number | null;
             /**
@@ -8976,7 +8233,7 @@ export interface components {
             nightId: number;
             campaignId: number | null;
         };
-        Block: {
+        BlockRow: {
             nightId: number;
             targetId: number;
             /** @enum {string} */
@@ -9008,6 +8265,75 @@ export interface components {
              * @enum {string}
              */
             origin: "season-plan" | "night-schedule" | "by-hand";
+        };
+        NightReportRow: {
+            nightId: number;
+            /** @description seeing FWHM at zenith, arcsec */
+            seeingArcsec?: number | null;
+            /** @description adaptive-optics Strehl ratio, 0–1 */
+            strehlRatio?: number | null;
+            cloudCoverPct?: number | null;
+            humidityPct?: number | null;
+            /** @description wind speed, m/s */
+            windMS?: number | null;
+            temperatureC?: number | null;
+            /** @default 0 */
+            timeLostHours: number;
+            /** @default  */
+            timeLostReason: string;
+            /** @default  */
+            notes: string;
+            outcomes: components["schemas"]["OutcomeRow"][];
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+            version: number;
+            /** @description the user who wrote it first */
+            authorId: number | null;
+        };
+        OutcomeRow: {
+            blockId: number;
+            /** @enum {string} */
+            status: "planned" | "obtained" | "partial" | "lost" | "withdrawn";
+            exposureMinutes?: number | null;
+            /** @default  */
+            notes: string;
+            id: number;
+            reportId: number;
+        };
+        MeasurementRow: {
+            targetId: number;
+            blockId?: number | null;
+            /**
+             * @description offsets Δα*, Δδ; separation and position angle; or radial velocity
+             * @enum {string}
+             */
+            kind: "offsets" | "separation" | "radial-velocity";
+            /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
+            epoch: string;
+            /** @description Δα* = Δα·cos δ, east positive, mas */
+            dRaMas?: number | null;
+            /** @description Δδ, north positive, mas */
+            dDecMas?: number | null;
+            sigmaDRaMas?: number | null;
+            sigmaDDecMas?: number | null;
+            separationMas?: number | null;
+            /** @description north through east, degrees */
+            positionAngleDeg?: number | null;
+            sigmaSeparationMas?: number | null;
+            sigmaPositionAngleDeg?: number | null;
+            /** @description correlation of the two astrometric errors */
+            correlation?: number | null;
+            /** @description positive receding, km/s */
+            radialVelocityKmS?: number | null;
+            sigmaRadialVelocityKmS?: number | null;
+            instrument: string;
+            /** @default  */
+            notes: string;
+            id: number;
+            createdAt: string;
+            updatedAt?: string;
+            epochJd: number;
         };
         Flag: {
             /** @enum {string} */

@@ -13,7 +13,7 @@ export function campaignRoutes(store: Store) {
     repo: store.campaigns,
     create: CampaignFields.strict(),
     patch: patchOf(CampaignFields),
-    row: rowOf(CampaignFields),
+    row: rowOf('CampaignRow', CampaignFields),
     filters: z.object({
       targetId: optionalId,
       siteId: optionalId,

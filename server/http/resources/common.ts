@@ -183,12 +183,22 @@ export function patchOf(fields: z.ZodObject, fixed: readonly string[] = []): z.Z
   return z.object(shape).strict();
 }
 
-/** The stored row as documented: the input fields plus id and timestamps. */
-export function rowOf(fields: z.ZodObject, extra: Record<string, z.ZodType> = {}): z.ZodObject {
-  return fields.extend({
-    id: z.number().int(),
-    createdAt: z.string(),
-    updatedAt: z.string().optional(),
-    ...extra,
-  });
+/**
+ * The stored row as documented, under its component name: the input fields plus id and
+ * timestamps. Strict, so the test-time response check fails on a field the document leaves out.
+ */
+export function rowOf(
+  name: string,
+  fields: z.ZodObject,
+  extra: Record<string, z.ZodType> = {},
+): z.ZodObject {
+  return fields
+    .extend({
+      id: z.number().int(),
+      createdAt: z.string(),
+      updatedAt: z.string().optional(),
+      ...extra,
+    })
+    .strict()
+    .openapi(name);
 }

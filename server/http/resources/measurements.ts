@@ -23,7 +23,7 @@ export function measurementRoutes(store: Store) {
     repo: store.measurements,
     create: MeasurementFields.strict(),
     patch: patchOf(MeasurementFields),
-    row: rowOf(MeasurementFields, { epochJd: z.number() }),
+    row: rowOf('MeasurementRow', MeasurementFields, { epochJd: z.number() }),
     filters: MeasurementFilters,
     writeRole: 'observer',
   });

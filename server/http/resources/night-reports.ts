@@ -3,6 +3,12 @@ import { z } from '@hono/zod-openapi';
 import { NightReportFields, type Store } from '../../store/index.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 
+const OutcomeRow = NightReportFields.shape.outcomes
+  .unwrap()
+  .element.extend({ id: z.number().int(), reportId: z.number().int() })
+  .strict()
+  .openapi('OutcomeRow');
+
 export function nightReportRoutes(store: Store) {
   return crudRoutes({
     store,
@@ -11,7 +17,11 @@ export function nightReportRoutes(store: Store) {
     repo: store.nightReports,
     create: NightReportFields.strict(),
     patch: patchOf(NightReportFields, ['nightId']),
-    row: rowOf(NightReportFields, { version: z.number().int() }),
+    row: rowOf('NightReportRow', NightReportFields, {
+      version: z.number().int(),
+      authorId: z.number().int().nullable().openapi({ description: 'the user who wrote it first' }),
+      outcomes: z.array(OutcomeRow),
+    }),
     filters: z.object({
       nightId: optionalId,
       siteId: optionalId,

@@ -9,14 +9,14 @@ const instantQuery = z
   .optional()
   .openapi({ description: 'epoch (ISO 8601 with zone, JD, MJD, J…)' });
 
-export const NightRowSchema = rowOf(NightFields).openapi('Night');
-export const BlockRowSchema = rowOf(BlockFields, {
+export const NightRowSchema = rowOf('NightRow', NightFields);
+export const BlockRowSchema = rowOf('BlockRow', BlockFields, {
   version: z.number().int(),
   origin: z.enum(BLOCK_ORIGINS).openapi({
     description:
       'who made the block: an accepted season plan, night schedule, or a person; set once',
   }),
-}).openapi('Block');
+});
 
 export function nightRoutes(store: Store) {
   return crudRoutes({

@@ -29,7 +29,7 @@ export const OrbitSolutionRowSchema = OrbitSolutionInput.omit({ makeCurrent: tru
     createdAt: z.string(),
   })
   .strict()
-  .openapi('OrbitSolution');
+  .openapi('OrbitSolutionRow');
 const Row = OrbitSolutionRowSchema;
 const Filters = PageQuery.extend({
   targetId: optionalId,

@@ -11,7 +11,7 @@ export function siteRoutes(store: Store) {
     repo: store.sites,
     create: SiteFields.strict(),
     patch: patchOf(SiteFields),
-    row: rowOf(SiteFields),
+    row: rowOf('SiteRow', SiteFields),
     filters: z.object({}),
     writeRole: 'lead',
   });

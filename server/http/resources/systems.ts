@@ -11,7 +11,7 @@ export function systemRoutes(store: Store) {
     repo: store.systems,
     create: SystemFields.strict(),
     patch: patchOf(SystemFields),
-    row: rowOf(SystemFields),
+    row: rowOf('SystemRow', SystemFields),
     filters: z.object({ name: z.string().optional() }),
     writeRole: 'lead',
   });
@@ -25,7 +25,7 @@ export function targetRoutes(store: Store) {
     repo: store.targets,
     create: TargetFields.strict(),
     patch: patchOf(TargetFields),
-    row: rowOf(TargetFields),
+    row: rowOf('TargetRow', TargetFields),
     filters: z.object({ systemId: optionalId }),
     writeRole: 'lead',
   });
