@@ -10,25 +10,23 @@ import {
   physicalQuantities,
   predictBatch,
   validateOrbit,
+  type CampbellInput,
   type OrbitInput,
 } from '../../../../server/science/orbit/index.ts';
 import { parseEpoch } from '../../../../server/science/time/index.ts';
 import { SeededRandom } from '../../../../server/science/random.ts';
 import { epochs, simulate } from './simulate.ts';
 
-const TRUTH: OrbitInput = {
-  elements: {
-    periodYears: 24,
-    periapsis: 'J2026.6',
-    eccentricity: 0.8,
-    semiMajorAxisArcsec: 0.2,
-    inclinationDeg: 50,
-    ascendingNodeDeg: 80,
-    argPeriapsisDeg: 140,
-  },
-  distancePc: 10_000,
-  systemicVelocityKmS: 0,
+const ELEMENTS: CampbellInput = {
+  periodYears: 24,
+  periapsis: 'J2026.6',
+  eccentricity: 0.8,
+  semiMajorAxisArcsec: 0.2,
+  inclinationDeg: 50,
+  ascendingNodeDeg: 80,
+  argPeriapsisDeg: 140,
 };
+const TRUTH: OrbitInput = { elements: ELEMENTS, distancePc: 10_000, systemicVelocityKmS: 0 };
 
 describe('T at the passage the data cover', () => {
   it('reports the 2026.6 passage for eight years of data around it (centre 2026.0), with the next passage and its σ', () => {
@@ -61,7 +59,7 @@ describe('T at the passage the data cover', () => {
     const rel: OrbitInput = {
       ...TRUTH,
       elements: {
-        ...TRUTH.elements,
+        ...ELEMENTS,
         periodYears: 10,
         eccentricity: 0.9,
         semiMajorAxisArcsec: 0.0843,
@@ -70,7 +68,7 @@ describe('T at the passage the data cover', () => {
     };
     const a = validateOrbit(rel);
     const stepDeg = (physicalQuantities(a).precessionArcminPerOrbit / 60) * 3;
-    const el = rel.elements as Required<typeof TRUTH.elements>;
+    const el = rel.elements as CampbellInput;
     const b = validateOrbit({
       ...rel,
       elements: {
