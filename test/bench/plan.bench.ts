@@ -175,7 +175,7 @@ function periapsisCase() {
       orbit: {
         elements: {
           periodYears: 12 + i,
-          periapsis: addDays('2027-04-05', 6 * i) + 'T00:00:00Z',
+          periapsis: `${addDays('2027-04-05', 6 * i)}T00:00:00Z`,
           eccentricity: 0.85,
           semiMajorAxisArcsec: 0.1,
           inclinationDeg: 40 + i * 10,

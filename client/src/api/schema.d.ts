@@ -6360,7 +6360,7 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
+                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar?, earliestStart?, latestEnd? }; default the campaign’s, one per target and goal kind (id "<target>:<kind>"), repeated inside a periapsis window as the campaign asks (":<n>") */
                         candidates?: components["schemas"]["Candidate"][];
                         /** @description keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge) */
                         pins?: {
@@ -6488,7 +6488,7 @@ export interface paths {
             requestBody: {
                 content: {
                     "application/json": {
-                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>" */
+                        /** @description blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar?, earliestStart?, latestEnd? }; default the campaign’s, one per target and goal kind (id "<target>:<kind>"), repeated inside a periapsis window as the campaign asks (":<n>") */
                         candidates?: components["schemas"]["Candidate"][];
                         /** @description keep or move blocks: { id, start } (ISO 8601 UTC, snapped to the nearest slot edge) */
                         pins?: {
@@ -8569,6 +8569,10 @@ export interface components {
             priority: number;
             highestAirmass?: number;
             laserGuideStar?: boolean;
+            /** @description timing window: start no earlier than this (ISO 8601 UTC) */
+            earliestStart?: string;
+            /** @description timing window: end no later than this (ISO 8601 UTC) */
+            latestEnd?: string;
         };
         NightSchedule: {
             site: string;

@@ -22,7 +22,7 @@ export const NightScheduleBody = z
   .object({
     candidates: z.array(CandidateSchema).optional().openapi({
       description:
-        'blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar? }; default the campaign’s, one per target and goal kind, id "<target>:<kind>"',
+        'blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar?, earliestStart?, latestEnd? }; default the campaign’s, one per target and goal kind (id "<target>:<kind>"), repeated inside a periapsis window as the campaign asks (":<n>")',
     }),
     pins: z
       .array(z.object({ id: z.string(), start: z.string() }).strict())

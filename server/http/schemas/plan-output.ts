@@ -156,6 +156,14 @@ export const CandidateSchema = z
     priority: z.number().openapi({ description: 'weight in the night’s value, (0, 1000]' }),
     highestAirmass: z.number().optional(),
     laserGuideStar: z.boolean().optional(),
+    earliestStart: z
+      .string()
+      .optional()
+      .openapi({ description: 'timing window: start no earlier than this (ISO 8601 UTC)' }),
+    latestEnd: z
+      .string()
+      .optional()
+      .openapi({ description: 'timing window: end no later than this (ISO 8601 UTC)' }),
   })
   .strict()
   .openapi('Candidate');

@@ -42,6 +42,7 @@ export {
   type KeptBlock,
 } from './night-schedule.ts';
 export { SEASON_SETTINGS } from './season-types.ts';
+export { nightCandidates } from './night-candidates.ts';
 export {
   DETECTION_THRESHOLDS,
   FORECAST_FACTORS,

@@ -3,10 +3,9 @@
  * and limits at the night's site), previewed, edited (pin or move a block with `pins`, drop
  * one with `remove`, bring your own `candidates`), then accepted into stored blocks.
  *
- * The campaign's candidates, unless the request brings its own: one block per target and goal kind,
- * `id` "<target>:<kind>", astrometry 40 min and spectroscopy 60 min (as the season planner), priority
- * 1, or 2 within the campaign's densification window of a periapsis (30 d when it sets none); laser
- * guide star on astrometry at a site that uses one.
+ * The campaign's candidates, unless the request brings its own: the science's `nightCandidates`
+ * over the campaign's per-target settings (block length, priority, laser guide star use per kind,
+ * repeated epochs inside a periapsis window), the same settings the season plan reads.
  *
  * The night's stored blocks that stay (plan-scope.ts: logged, measured, made by hand, pinned, begun…)
  * are planned around: no new block overlaps one, and a candidate of the same target and kind as a
@@ -18,9 +17,9 @@
  * whether the user pinned them (a pinned block then stays through later re-plans).
  */
 import { InputError } from '../../science/errors.ts';
-import { findEvents } from '../../science/orbit/index.ts';
 import {
   checkCandidates,
+  nightCandidates,
   scheduleNight,
   type CandidateInput,
   type KeptBlock,
@@ -28,13 +27,13 @@ import {
   type NightSchedule,
   type ScheduleMethod,
 } from '../../science/plan/index.ts';
-import { jdToIso, unixMsToJd } from '../../science/time/index.ts';
+import { jdToIso } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import { getById, removeIn } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { StoreContext } from '../context.ts';
-import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
+import { blockEntity, nightEntity, type BlockRow } from '../repos/nights.ts';
 import {
   asKeptBlock,
   nightStates,
@@ -43,6 +42,7 @@ import {
   requireAcceptMoment,
 } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
+import { campaignOptions, seasonTargets } from './season-plan.ts';
 import { nowMs } from '../../clock.ts';
 
 export interface NightScheduleRequest {
@@ -74,9 +74,6 @@ export interface NightSchedulePreview {
   kept: { id: number; reason: string }[];
   digest: string;
 }
-
-const ID_UNSAFE = /[^\w.:@ -]/g;
-const DEFAULT_MINUTES: Record<MeasurementKind, number> = { astrometry: 40, spectroscopy: 60 };
 
 async function prepare(db: DbOrTx, nightId: number, request: NightScheduleRequest, atJd: number) {
   const at = jdToIso(atJd);
@@ -112,25 +109,27 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
         priority: c.priority,
         ...(c.highestAirmass === null ? {} : { highestAirmass: c.highestAirmass }),
         laserGuideStar: c.laserGuideStar,
+        ...(Number.isFinite(c.earliestJd) ? { earliestStart: jdToIso(c.earliestJd) } : {}),
+        ...(Number.isFinite(c.latestJd) ? { latestEnd: jdToIso(c.latestJd) } : {}),
       }));
   if (fromCampaign) {
-    const minutes = { ...DEFAULT_MINUTES, ...(request.blockMinutes ?? {}) };
-    const span = nightIntervalUtc(night.date, site.site.timeZone);
-    const midJd = unixMsToJd((Date.parse(span.start) + Date.parse(span.end)) / 2);
-    const window = input.campaign.goals.densifyWithinDays ?? 30;
-    candidates = targets.flatMap((t) => {
-      const near =
-        t.orbit !== null &&
-        findEvents(t.orbit, midJd - window, midJd + window, { kinds: ['periapsis'] }).length > 0;
-      return input.campaign.goals.kinds.map((kind) => ({
-        id: `${t.name}:${kind}`.replace(ID_UNSAFE, '_').slice(0, 80),
-        target: t.name,
-        kind,
-        durationMinutes: minutes[kind],
-        priority: near ? 2 : 1,
-        laserGuideStar: site.laserGuideStar && kind === 'astrometry',
-      }));
-    });
+    const last = new Map<number, Partial<Record<MeasurementKind, number>>>();
+    const seasonal = seasonTargets(input.targets, input.campaign.goals, names, last);
+    const options = {
+      ...campaignOptions(input.campaign.goals),
+      ...(request.blockMinutes ? { blockMinutes: request.blockMinutes } : {}),
+      ...(request.sameTargetMinutes !== undefined
+        ? { sameTargetMinutes: request.sameTargetMinutes }
+        : {}),
+    };
+    candidates = nightCandidates(
+      site.site,
+      site.limits,
+      site.laserGuideStar,
+      night.date,
+      seasonal,
+      options,
+    );
   }
   const schedule = scheduleNight(site.site, site.limits, night.date, targets, {
     candidates,

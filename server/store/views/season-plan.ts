@@ -216,7 +216,7 @@ async function prepare(
 }
 
 /** The campaign's goals as the planner's settings (the request's own settings override them). */
-function campaignOptions(goals: CampaignGoals): SeasonOptions {
+export function campaignOptions(goals: CampaignGoals): SeasonOptions {
   return {
     ...(goals.blockMinutes ? { blockMinutes: goals.blockMinutes } : {}),
     ...(goals.laserGuideStar ? { laserGuideStar: goals.laserGuideStar } : {}),
@@ -228,7 +228,7 @@ function campaignOptions(goals: CampaignGoals): SeasonOptions {
 }
 
 /** Each target with its own settings, defaulting to the campaign's. @throws InputError for a setting of a target outside the campaign. */
-function seasonTargets(
+export function seasonTargets(
   rows: readonly { id: number; target: SeasonTarget['target'] }[],
   goals: CampaignGoals,
   names: Map<number, string>,
