@@ -5,7 +5,7 @@
  * Inputs are made-up samples; expected values follow from the rules stated beside them.
  */
 import { describe, expect, test } from 'vitest';
-import type { Limit, Window } from '../../client/src/api/types.ts';
+import type { Limit, Visibility, Window } from '../../client/src/api/types.ts';
 import { labelRows, nightLayout } from '../../client/src/plots/night-layout.ts';
 import {
   airmassBins,
@@ -18,7 +18,9 @@ import {
   qualityCells,
   runs,
   visTargetOf,
+  type LaneModel,
 } from '../../client/src/plots/night-lanes.ts';
+import { laneSentence } from '../../client/src/plots/night-text.ts';
 import { clockAt, hourTicks, labelStep, offsetLabel } from '../../client/src/plots/time-axis.ts';
 
 const MIN = 60_000;
@@ -208,5 +210,31 @@ describe('layout', () => {
   test('labels closer than the gap move to the next row', () => {
     expect(labelRows([0, 20, 40, 60, 100], 30)).toEqual([0, 1, 0, 1, 0]);
     expect(labelRows([100, 0], 30)).toEqual([0, 0]);
+  });
+});
+
+describe('the text twin', () => {
+  test('reads each stretch on the site clock, an open one with UTC too, and names the limit', () => {
+    const vis = {
+      site: { name: 'Test', timeZone: 'America/Santiago' },
+      darkness: { limit: 'astronomical (Sun below -18°)', intervals: [], hours: 0 },
+      limits: { altitudeLimitDeg: 33.68, highestAirmass: 1.8, leastSunDistanceDeg: 45 },
+    } as unknown as Visibility;
+    const lane = {
+      members: [{ name: 'Star A (Made-up)' }, { name: 'Star B (Made-up)' }],
+      segments: [
+        { startMs: T0, endMs: T0 + 60 * MIN, limit: 'altitude' },
+        { startMs: T0 + 60 * MIN, endMs: T0 + 120 * MIN, limit: null },
+      ],
+      cells: [],
+      moonLeastDeg: 48.4,
+      bestAirmass: 1.234,
+    } as unknown as LaneModel;
+    // T0 is 18:00 at the site (UTC−4, see the clock tests) and 22:00 UTC.
+    expect(laneSentence(lane, vis)).toBe(
+      'Star A, Star B: best airmass 1.23; the Moon stays at least 48° away; ' +
+        'closed 18:00–19:00 site — below 33.7°, the lowest altitude, with airmass at most 1.8; ' +
+        'open 19:00 site (23:00 UTC) to 20:00 site (00:00 UTC).',
+    );
   });
 });

@@ -261,9 +261,10 @@ export function limitWords(
   vis: Pick<Visibility, 'limits' | 'darkness'>,
 ): Record<Limit, { short: string; long: string }> {
   const c = vis.limits;
-  const airmass = c.highestAirmass ? ` (highest airmass ${c.highestAirmass})` : '';
+  // The lowest altitude is the strictest of the site's, the campaign's and the airmass ceiling's.
+  const airmass = c.highestAirmass ? `, with airmass at most ${c.highestAirmass}` : '';
   return {
-    darkness: { short: 'not dark', long: `not dark: the Sun is above ${vis.darkness.limit}` },
+    darkness: { short: 'not dark', long: `not dark: darkness is ${vis.darkness.limit}` },
     altitude: {
       short: 'too low',
       long: `below ${c.altitudeLimitDeg.toFixed(1)}°, the lowest altitude${airmass}`,

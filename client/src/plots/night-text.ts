@@ -32,13 +32,13 @@ export function laneSentence(lane: LaneModel, vis: Visibility): string {
   const parts = lane.segments.map((s) =>
     s.limit === null
       ? `open ${bothClocks(s.startMs, zone)} to ${bothClocks(s.endMs, zone)}`
-      : `closed ${clockAt(s.startMs, zone)}–${clockAt(s.endMs, zone)} (${words[s.limit].long})`,
+      : `closed ${clockAt(s.startMs, zone)}–${clockAt(s.endMs, zone)} site — ${words[s.limit].long}`,
   );
   const best =
     lane.bestAirmass === null ? 'no window' : `best airmass ${lane.bestAirmass.toFixed(2)}`;
   const moon =
     lane.moonLeastDeg === null
       ? 'the Moon is down in darkness'
-      : `the Moon comes within ${lane.moonLeastDeg.toFixed(0)}°`;
+      : `the Moon stays at least ${lane.moonLeastDeg.toFixed(0)}° away`;
   return `${lane.members.map(shortName).join(', ')}: ${best}; ${moon}; ${parts.join('; ')}.`;
 }
