@@ -5098,6 +5098,8 @@ export interface paths {
                 query?: {
                     /** @description check every row, write nothing */
                     dryRun?: "true" | "false";
+                    /** @description import a file imported before (same SHA-256 digest) and measurements equal to stored ones (same target, kind, epoch to the second, values); refused by default */
+                    allowDuplicates?: "true" | "false";
                 };
                 header?: never;
                 path: {

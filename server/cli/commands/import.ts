@@ -14,10 +14,14 @@ import { formatTable } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 const help = `usage: epochwright import --kind targets|orbits|measurements --file <csv> [--check-only]
+                         [--allow-duplicates]
 
 Reads a CSV whose first line names the columns and writes every row in one transaction. If any
 row is bad, nothing is written and every bad row is listed (line, column, value, rule).
 --check-only does all the checks and writes nothing.
+A file imported before (same SHA-256 digest) is refused, and so is every measurement equal to a
+stored one or to an earlier line (same target, kind, epoch to the second and values);
+--allow-duplicates imports them anyway.
 
 columns (required ones marked *):
 ${CSV_KINDS.map((k) => `  ${k}: ${COLUMNS[k].map((c) => (REQUIRED_COLUMNS[k].includes(c) ? `${c}*` : c)).join(', ')}`).join('\n')}
@@ -38,6 +42,7 @@ export const importCommand: Command = {
         kind: { type: 'string' },
         file: { type: 'string' },
         'check-only': { type: 'boolean' },
+        'allow-duplicates': { type: 'boolean' },
       },
       strict: true,
       allowPositionals: false,
@@ -57,7 +62,10 @@ export const importCommand: Command = {
     const dryRun = values['check-only'] ?? false;
     try {
       const report = await withStore(values.database, (store) =>
-        store.importCsv(LOCAL_OPERATOR, kind, text, { dryRun }),
+        store.importCsv(LOCAL_OPERATOR, kind, text, {
+          dryRun,
+          allowDuplicates: values['allow-duplicates'] ?? false,
+        }),
       );
       return dryRun
         ? `checked ${report.rows} ${kind} rows: all good, nothing written\n`

@@ -24,6 +24,10 @@ const ImportQuery = z.object({
     .enum(['true', 'false'])
     .default('false')
     .openapi({ description: 'check every row, write nothing' }),
+  allowDuplicates: z.enum(['true', 'false']).default('false').openapi({
+    description:
+      'import a file imported before (same SHA-256 digest) and measurements equal to stored ones (same target, kind, epoch to the second, values); refused by default',
+  }),
 });
 const CalendarQuery = z.object({
   at: z.string().optional().openapi({
@@ -68,6 +72,7 @@ export function exchangeRoutes(store: Store) {
         throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
       const report = await store.importCsv({ userId: user.id }, kind, await c.req.text(), {
         dryRun: c.req.valid('query').dryRun === 'true',
+        allowDuplicates: c.req.valid('query').allowDuplicates === 'true',
       });
       return c.json(report, 200);
     },

@@ -11,6 +11,8 @@ import { recordAudit, type Actor } from '../audit.ts';
 import { nowIso } from '../../clock.ts';
 import { libsqlTransaction, type DbOrTx } from '../database.ts';
 import { checkMeasurementBlock, type BlockRef } from '../repos/measurement-rules.ts';
+import { TWIN_RULE, storedTwins, twinKey } from '../repos/measurement-twins.ts';
+import { repeatedFileProblem } from './repeated-file.ts';
 import type { PreparedMeasurement, PreparedMeasurements } from './measurement-rows.ts';
 import type { ImportProblem } from './read.ts';
 
@@ -77,6 +79,9 @@ function nameProblem(r: PreparedMeasurement, known: Set<unknown>): ImportProblem
 }
 
 /** Each row with its target id and block checked; problems for those that fail. */
+/** The file line of a resolved row (a symbol key: not a column, never inserted). */
+const LINE = Symbol('line');
+
 async function resolveRows(
   tx: DbOrTx,
   prepared: PreparedMeasurements,
@@ -102,7 +107,13 @@ async function resolveRows(
       problems.push(nameProblem(r, knownSystems));
       continue;
     }
-    const next: Record<string, unknown> = { ...r.row, targetId, createdAt: now, updatedAt: now };
+    const next: Record<string, unknown> = {
+      ...r.row,
+      targetId,
+      createdAt: now,
+      updatedAt: now,
+      [LINE]: r.line,
+    };
     try {
       if (next.blockId !== null && next.blockId !== undefined) {
         const block = blockById.get(next.blockId);
@@ -117,6 +128,38 @@ async function resolveRows(
     }
   }
   return { values, problems };
+}
+
+/** A problem for each row that repeats a stored measurement or an earlier line of the file. */
+async function twinProblems(
+  tx: DbOrTx,
+  values: Record<string, unknown>[],
+): Promise<ImportProblem[]> {
+  const stored = await storedTwins(tx, values);
+  const seen = new Map<string, number>();
+  const problems: ImportProblem[] = [];
+  for (const v of values) {
+    const key = twinKey(v);
+    const line = (v as Record<symbol, unknown>)[LINE] as number;
+    const id = stored.get(key);
+    const earlier = seen.get(key);
+    if (id !== undefined)
+      problems.push({
+        line,
+        column: '(row)',
+        value: null,
+        rule: `${TWIN_RULE} as stored measurement ${id}`,
+      });
+    else if (earlier !== undefined)
+      problems.push({
+        line,
+        column: '(row)',
+        value: null,
+        rule: `${TWIN_RULE} as line ${earlier}`,
+      });
+    else seen.set(key, line);
+  }
+  return problems;
 }
 
 /** Stored columns in insert order: the table's columns but its generated id. */
@@ -141,6 +184,8 @@ async function insertBatch(tx: DbOrTx, batch: Record<string, unknown>[]): Promis
 
 export interface MeasurementWriteOptions {
   dryRun: boolean;
+  /** Store rows that repeat a stored measurement or an earlier line (default: each one refused). */
+  allowDuplicates?: boolean;
   /** Called for every row once its batch is written (progress; tests crash the writer mid-way). */
   onRow?: (index: number) => void | Promise<void>;
 }
@@ -156,6 +201,12 @@ export async function writeMeasurementsIn(
   options: MeasurementWriteOptions,
 ): Promise<ImportProblem[]> {
   const { values, problems } = await resolveRows(tx, prepared);
+  if (!options.allowDuplicates) {
+    const repeated = await repeatedFileProblem(tx, 'measurements', prepared.digest);
+    // A repeated file is one problem, not one per row.
+    if (repeated) problems.push(repeated);
+    else problems.push(...(await twinProblems(tx, values)));
+  }
   problems.push(...prepared.problems);
   problems.sort((a, b) => a.line - b.line);
   if (problems.length > 0 || options.dryRun) return problems;
@@ -164,6 +215,9 @@ export async function writeMeasurementsIn(
     await insertBatch(tx, batch);
     if (options.onRow) for (let j = 0; j < batch.length; j++) await options.onRow(i + j);
   }
-  await recordAudit(tx, actor, 'import', 'measurements', null, { rows: values.length });
+  await recordAudit(tx, actor, 'import', 'measurements', null, {
+    rows: values.length,
+    digest: prepared.digest,
+  });
   return problems;
 }

@@ -12,6 +12,7 @@ import type { DbOrTx, Tx } from '../database.ts';
 import type { StoreContext } from '../context.ts';
 import type { CsvKind } from './columns.ts';
 import { writeMeasurementsIn } from './import-measurements.ts';
+import { fileDigest, repeatedFileProblem } from './repeated-file.ts';
 import { prepareMeasurements, type PreparedMeasurements } from './measurement-rows.ts';
 import {
   ImportRejected,
@@ -27,6 +28,8 @@ export { ImportRejected, type ImportProblem, type ImportReport } from './read.ts
 
 export interface ImportOptions {
   dryRun?: boolean;
+  /** Import a file already imported, and rows that repeat stored measurements (default: refused). */
+  allowDuplicates?: boolean;
   /** Called after each row is written inside the transaction (progress; tests use it to crash mid-way). */
   onRow?: (index: number) => void | Promise<void>;
 }
@@ -141,11 +144,14 @@ export async function importCsv(
   if (kind === 'measurements')
     return importPreparedMeasurements(store, actor, prepareMeasurements(text), options);
   const { rows } = readCsv(kind, text);
+  const digest = fileDigest(text);
   const dryRun = options.dryRun ?? false;
   const repo = kind === 'targets' ? store.targets : store.orbitSolutions;
   const problems: ImportProblem[] = [];
   const report: ImportReport = { kind, dryRun, rows: rows.length, written: 0, problems };
   await rollingBack(store, async (tx) => {
+    const repeated = options.allowDuplicates ? null : await repeatedFileProblem(tx, kind, digest);
+    if (repeated) problems.push(repeated);
     const cache: NameCache = new Map();
     for (const [i, { line, cells }] of rows.entries()) {
       try {
@@ -156,7 +162,7 @@ export async function importCsv(
       await options.onRow?.(i);
     }
     if (problems.length > 0 || dryRun) throw new Rollback();
-    await recordAudit(tx, actor, 'import', kind, null, { rows: rows.length });
+    await recordAudit(tx, actor, 'import', kind, null, { rows: rows.length, digest });
   });
   return finish(report);
 }
@@ -182,6 +188,7 @@ export async function importPreparedMeasurements(
   await rollingBack(store, async (tx) => {
     report.problems = await writeMeasurementsIn(tx, actor, prepared, {
       dryRun,
+      allowDuplicates: options.allowDuplicates ?? false,
       ...(options.onRow ? { onRow: options.onRow } : {}),
     });
     if (report.problems.length > 0 || dryRun) throw new Rollback();

@@ -5,6 +5,7 @@
  * resolved afterwards, inside the import's transaction.
  */
 import { measurementRow } from '../repos/measurement-rules.ts';
+import { fileDigest } from './repeated-file.ts';
 import { MeasurementInput } from '../schemas/entities.ts';
 import { problemsOf } from '../schemas/common.ts';
 import { cellValues, columnOf, readCsv, rowProblems, type ImportProblem } from './read.ts';
@@ -21,6 +22,8 @@ export interface PreparedMeasurements {
   rows: PreparedMeasurement[];
   /** Rows in the file (bad ones included). */
   total: number;
+  /** The file's digest (repeated-file.ts), recorded by the import. */
+  digest: string;
   problems: ImportProblem[];
 }
 
@@ -51,5 +54,5 @@ export function prepareMeasurements(text: string): PreparedMeasurements {
     const { targetId: _t, ...row } = measurementRow(r.data);
     out.push({ line, system, target, row });
   }
-  return { rows: out, total: rows.length, problems };
+  return { rows: out, total: rows.length, problems, digest: fileDigest(text) };
 }

@@ -6,6 +6,7 @@ import { entity, requireRef } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
 import { checkMeasurementBlock, measurementRow } from './measurement-rules.ts';
+import { refuseStoredTwin } from './measurement-twins.ts';
 import { MeasurementFields, MeasurementInput } from '../schemas/entities.ts';
 import { targetEntity } from './catalogue.ts';
 import { blockEntity } from './nights.ts';
@@ -18,10 +19,11 @@ export const measurementEntity = entity<MeasurementRow>({
   hasUpdatedAt: true,
   versioned: false,
   orderBy: [measurements.targetId, measurements.epochJd],
-  check: async (tx, next) => {
+  check: async (tx, next, previous) => {
     await requireRef(tx, targetEntity, 'targetId', next.targetId);
-    if (next.blockId === null || next.blockId === undefined) return;
-    checkMeasurementBlock(next, await requireRef(tx, blockEntity, 'blockId', next.blockId));
+    if (next.blockId !== null && next.blockId !== undefined)
+      checkMeasurementBlock(next, await requireRef(tx, blockEntity, 'blockId', next.blockId));
+    await refuseStoredTwin(tx, next, previous?.id);
   },
 });
 
