@@ -9,6 +9,7 @@ export default defineConfig({
       include: ['server/**/*.ts', 'client/src/**/*.{ts,tsx}', 'db/**/*.ts'],
       reporter: ['text-summary', 'json-summary'],
       reportsDirectory: 'test-output/coverage',
+      reportOnFailure: true,
     },
     projects: [
       {
