@@ -16,7 +16,7 @@ export default defineConfig({
         test: {
           name: 'unit',
           // One frozen clock for the server, the CLI and the demo (server/clock.ts), so the suite gives
-          // the same answer on any day; the demo campaign runs from 2026-03 to 2027-10.
+          // the same answer on any day; the demo is built around this clock (server/store/demo/scenario.ts).
           env: { EPOCHWRIGHT_NOW: '2026-12-01T12:00:00Z', EPOCHWRIGHT_CHECK_RESPONSES: '1' },
           include: ['test/**/*.test.ts', 'test/**/*.test.tsx'],
           exclude: ['test/e2e/**', 'node_modules/**'],

@@ -98,7 +98,7 @@ const Options = {
   frameEpoch: Epoch.optional(),
   fixed: z.record(z.string(), z.number()).optional().openapi({
     description:
-      'parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units',
+      'parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units',
   }),
   priors: z
     .record(z.string(), z.object({ mean: z.number(), sigma: z.number() }).strict())

@@ -25,8 +25,8 @@ export interface StartOptions extends OpenOptions {
   demo?: boolean;
   /** Name of the first lead. */
   leadName?: string;
-  /** "Today" for the demo (nights before it get reports). */
-  today?: string;
+  /** The moment the demo is built around (ISO 8601); default the clock. */
+  now?: string;
 }
 
 export async function startStore(options: StartOptions = {}): Promise<Started> {
@@ -38,7 +38,7 @@ export async function startStore(options: StartOptions = {}): Promise<Started> {
   const wantDemo = options.demo ?? process.env.EPOCHWRIGHT_DEMO !== '0';
   const demo =
     neverWritten && wantDemo
-      ? await store.loadDemo(LOCAL_OPERATOR, options.today ? { today: options.today } : {})
+      ? await store.loadDemo(LOCAL_OPERATOR, options.now ? { now: options.now } : {})
       : null;
   const firstLead =
     (await store.users.count()) === 0

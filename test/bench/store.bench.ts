@@ -78,7 +78,6 @@ export async function run(): Promise<string[]> {
   const { store, firstLead } = await startStore({
     url: ':memory:',
     demo: true,
-    today: '2026-12-01',
   });
   const app = createApp({ store });
   const headers = { authorization: `Bearer ${firstLead!.secret}` };

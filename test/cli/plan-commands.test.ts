@@ -1,6 +1,6 @@
 /**
- * `plan-season` and `plan-night` through the real CLI on the demo campaign (invented; VC s1 passes
- * periapsis on 2027-06-14, server/store/demo/scenario.ts): tables, JSON and CSV; --accept stores
+ * `plan-season` and `plan-night` through the real CLI on the demo campaign (invented; its headline
+ * star passes periapsis months after the clock, server/store/demo/scenario.ts): tables, JSON and CSV; --accept stores
  * what the preview showed; bad input exits 2 naming the option and writes nothing.
  */
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -9,18 +9,24 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { tableCounts } from '../store/backends.ts';
+import { nowIso } from '../../server/clock.ts';
+import { DEMO_DAYS, HEADLINE, demoAnchor } from '../../server/store/demo/scenario.ts';
 import { cli } from './run-cli.ts';
 
 let dir: string;
 let url: string;
 let store: Store;
 // Previews are made as of the demo's day; accepts run at the clock (an accept may not reach back in time).
-const AT = ['--at', '2026-12-01T00:00:00Z'];
+// Every date comes from the demo, which is built around the clock.
+const demo = demoAnchor(nowIso());
+const AT = ['--at', `${demo.today}T00:00:00Z`];
+const MONTH = [demo.day(DEMO_DAYS.periapsis - 13), demo.day(DEMO_DAYS.periapsis + 16)]; // the passage's month
+const DENSE = [demo.day(DEMO_DAYS.densified.start + 21), demo.day(DEMO_DAYS.densified.start + 35)]; // two nights of the densified run
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-plan-cli-'));
   url = `file:${join(dir, 'plan.db')}`;
   store = createStore(await openDatabase({ url }));
-  await store.loadDemo(LOCAL_OPERATOR, { today: '2026-12-01' });
+  await store.loadDemo(LOCAL_OPERATOR, {});
 });
 afterAll(() => {
   store.close();
@@ -33,9 +39,9 @@ const season = (...args: string[]) =>
     '--campaign',
     '1',
     '--start',
-    '2027-06-01',
+    MONTH[0]!,
     '--end',
-    '2027-06-30',
+    MONTH[1]!,
     ...(args.includes('--accept') ? [] : AT),
     '--database',
     url,
@@ -55,8 +61,10 @@ describe('epochwright plan-season', () => {
       /^night\s+site\s+start_local\s+minutes\s+target\s+kind\s+airmass\s+sigma\s+why\s+gain/m,
     );
     expect(table.stdout).toMatch(
-      /VC s1\s+\d+\s+\d+\s+\d+\s+\d+\s+(yes|no)\s+2027-06-14\s+[\d.]+ → [\d.]+/,
-    ); // demo periapsis of VC s1 (invented)
+      new RegExp(
+        `${HEADLINE}\s+\d+\s+\d+\s+\d+\s+\d+\s+(yes|no)\s+\d{4}-\d\d-\d\d\s+[\d.]+ → [\d.]+`,
+      ),
+    ); // the headline star's row: epochs, periapsis date, σ of T before → after
     expect(table.stdout).toMatch(/preview only \(digest [0-9a-f]{16}\)/);
     expect(table.stdout).toMatch(/note: Laser guide star/);
     const json = JSON.parse((await season('--json')).stdout);
@@ -95,7 +103,9 @@ describe('epochwright plan-season', () => {
       [['--settings', '{"colour": 1}'], /unknown setting "colour"/],
       [
         AT,
-        /--at: "2026-12-01T00:00:00.000Z" must not be earlier than the server's clock less 2 min/,
+        new RegExp(
+          `--at: "${demo.today}T00:00:00.000Z" must not be earlier than the server's clock less 2 min`,
+        ),
       ], // a past moment: accepting may not replace blocks begun since
     ];
     for (const [args, message] of cases) {
@@ -104,9 +114,9 @@ describe('epochwright plan-season', () => {
         '--campaign',
         '1',
         '--start',
-        '2027-06-01',
+        MONTH[0]!,
         '--end',
-        '2027-06-30',
+        MONTH[1]!,
         '--database',
         url,
         ...args,
@@ -121,22 +131,22 @@ describe('epochwright plan-season', () => {
 
 describe('epochwright plan-night', () => {
   it('schedules a stored night with pins and removals, listing what is left out and why', async () => {
-    const id = await nightId('2027-06-05');
+    const id = await nightId(DENSE[0]!);
     const res = await cli([
       'plan-night',
       '--night',
       String(id),
       ...AT,
       '--remove',
-      'VC s4:spectroscopy',
+      'Sorrel:spectroscopy',
       '--database',
       url,
     ]);
     expect(res.code, res.stderr).toBe(0);
     expect(res.stdout).toMatch(
-      /^Tolvane Ridge, night of 2027-06-05 \(America\/Santiago; local times\)/,
+      new RegExp(`^Tolvane Ridge, night of ${DENSE[0]} \\(America/Santiago; local times\\)`, 'm'),
     );
-    expect(res.stdout).toMatch(/left out:\n {2}VC s4:spectroscopy: removed by the user/);
+    expect(res.stdout).toMatch(/left out:\n {2}Sorrel:spectroscopy: removed by the user/);
     const json = JSON.parse(
       (await cli(['plan-night', '--night', String(id), ...AT, '--json', '--database', url])).stdout,
     );
@@ -163,20 +173,21 @@ describe('epochwright plan-night', () => {
   });
 
   it('stores the schedule with --accept; a pin outside darkness exits 2 and writes nothing', async () => {
-    const id = await nightId('2027-06-19');
+    const id = await nightId(DENSE[1]!);
+    const noonAfter = `${demo.day(DEMO_DAYS.densified.start + 36)}T16:00Z`; // local noon after the night (UTC−4 in the southern winter)
     const before = await tableCounts(store);
     const bad = await cli([
       'plan-night',
       '--night',
       String(id),
       '--pin',
-      'VC s1:astrometry@2027-06-20T16:00Z',
+      `${HEADLINE}:astrometry@${noonAfter}`,
       '--accept',
       '--database',
       url,
     ]);
     expect(bad.code).toBe(2);
-    expect(bad.stderr).toMatch(/--pin\.0\.start: "2027-06-20T16:00Z" is not inside darkness/);
+    expect(bad.stderr).toContain(`--pin.0.start: "${noonAfter}" is not inside darkness`);
     expect(await tableCounts(store)).toEqual(before);
     const past = await cli([
       'plan-night',

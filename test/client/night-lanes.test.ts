@@ -46,10 +46,10 @@ describe('laneGroups', () => {
   });
 
   test('a stored target finds its report entry, named "name (system)"', () => {
-    const vis = [{ name: 'VC s1 (Vesper Core)' }, { name: 'VC s10 (Vesper Core)' }];
-    expect(visTargetOf(vis, 'VC s1')).toBe(vis[0]);
-    expect(visTargetOf(vis, 'VC s10')).toBe(vis[1]);
-    expect(visTargetOf(vis, 'VC s')).toBeUndefined();
+    const vis = [{ name: 'Tern 1 (Vesper Core)' }, { name: 'Tern 10 (Vesper Core)' }];
+    expect(visTargetOf(vis, 'Tern 1')).toBe(vis[0]);
+    expect(visTargetOf(vis, 'Tern 10')).toBe(vis[1]);
+    expect(visTargetOf(vis, 'Tern')).toBeUndefined();
   });
 });
 

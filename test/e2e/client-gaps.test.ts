@@ -12,7 +12,7 @@ import { Body, Equator, Horizon, MakeTime, Observer } from 'astronomy-engine';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { DETAIL_BOX, nightLayout } from '../../client/src/plots/night-layout.ts';
-import { SCREENSHOTS, launchBrowser, newContext } from './harness.ts';
+import { HEADLINE, SCREENSHOTS, launchBrowser, nearPeriapsis, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -221,11 +221,11 @@ describe('adding records, and a horizon mask on the night chart', () => {
     // Campaign: last night before the first (400, the store's cross-field rule).
     const camp = page.locator('form[aria-label="New campaign"]');
     await camp.locator('[name=name]').fill('Zephyr shelf trial');
-    await camp.locator('[name=startDate]').fill('2027-06-01');
-    await camp.locator('[name=endDate]').fill('2027-05-01');
+    await camp.locator('[name=startDate]').fill(nearPeriapsis(-13));
+    await camp.locator('[name=endDate]').fill(nearPeriapsis(-44));
     await camp.locator('[name="goals.cadenceDays"]').fill('7');
     await camp
-      .locator('[role=group][aria-label=targets] label', { hasText: 'VC s1' })
+      .locator('[role=group][aria-label=targets] label', { hasText: HEADLINE })
       .locator('input')
       .check();
     await camp
@@ -235,7 +235,7 @@ describe('adding records, and a horizon mask on the night chart', () => {
     await camp.getByRole('button', { name: 'Add' }).click();
     await camp.locator('.field.invalid [name=endDate]').waitFor();
     expect(await count('/campaigns')).toBe(before.campaigns);
-    await camp.locator('[name=endDate]').fill('2027-09-30');
+    await camp.locator('[name=endDate]').fill(nearPeriapsis(108));
     await camp.getByRole('button', { name: 'Add' }).click();
     await camp.locator('.created').waitFor();
     const campaign = (
@@ -253,7 +253,7 @@ describe('adding records, and a horizon mask on the night chart', () => {
     // A night of the new campaign at the new site: the mask stands above the 30° limit where the target rises.
     const night = await api<{ id: number }>('/nights', {
       method: 'POST',
-      body: { siteId: site.id, campaignId: campaign.id, date: '2027-06-14' },
+      body: { siteId: site.id, campaignId: campaign.id, date: nearPeriapsis(0) },
     });
     made.push(`/nights/${night.id}`);
     const vis = await api<Vis>(`/nights/${night.id}/visibility?curves=true`);

@@ -1,10 +1,10 @@
 /**
- * The target view shows the relativity forecast of the demo's deepest star (VC s1, invented): the
+ * The target view shows the relativity forecast of the demo's deepest star (its headline star, invented): the
  * same summary lines the API gives, and a row per factor. Waits on state, never on time.
  */
 import type { Browser, BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { apiCaller, launchBrowser, newContext } from './harness.ts';
+import { HEADLINE, apiCaller, launchBrowser, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -25,7 +25,7 @@ describe('the relativity forecast in the target view', () => {
   test("shows the deepest star's redshift and precession forecast as the API gives it", async () => {
     const targets = (await api<{ items: { id: number; name: string }[] }>('/targets?limit=500'))
       .items;
-    const deepest = targets.find((t) => t.name === 'VC s1')!;
+    const deepest = targets.find((t) => t.name === HEADLINE)!;
     const forecast = await api<{ summary: string[] }>(`/targets/${deepest.id}/forecast`);
     const page = await ctx.newPage();
     const errors: string[] = [];

@@ -13,6 +13,7 @@ import {
   type BrowserContext,
   type BrowserContextOptions,
 } from 'playwright-core';
+import { DEMO_DAYS, HEADLINE, demoAnchor } from '../../server/store/demo/scenario.ts';
 import { build } from 'vite';
 
 export const REPO = resolve(import.meta.dirname, '../..');
@@ -21,10 +22,15 @@ export const SCREENSHOTS = join(REPO, 'test-output/e2e');
 export const CHROMIUM = process.env.CHROMIUM_PATH ?? '/usr/bin/chromium';
 /**
  * The instant the browser tests run at: the server's clock is frozen there (EPOCHWRIGHT_NOW) and each
- * browser context's clock starts there, so the demo campaign (2026-03 … 2027-10) looks the same on
- * any day the suite runs. The same instant as the unit suite's (vitest.config.ts).
+ * browser context's clock starts there, so the demo campaign, built around the clock, looks the same
+ * on any day the suite runs. The same instant as the unit suite's (vitest.config.ts). Tests read the
+ * demo's dates from its calendar (DEMO, nearPeriapsis), never as literals.
  */
 export const TEST_NOW = '2026-12-01T12:00:00Z';
+export const DEMO = demoAnchor(TEST_NOW);
+/** The demo day `n` days from its headline star's periapsis. */
+export const nearPeriapsis = (n: number) => DEMO.day(DEMO_DAYS.periapsis + n);
+export { HEADLINE };
 
 /** Build client/dist exactly as `npm run build` does. */
 export async function buildClient(): Promise<void> {

@@ -8,7 +8,7 @@ import { mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { SCREENSHOTS, TEST_NOW, apiCaller, launchBrowser, newContext } from './harness.ts';
+import { DEMO, SCREENSHOTS, TEST_NOW, apiCaller, launchBrowser, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -252,7 +252,7 @@ describe('safety', () => {
     // (the Sun crosses RA 264° near 16 December at Dec ≈ −23°; common practice, no source).
     const night = await api<{ id: number }>('/nights', {
       method: 'POST',
-      body: { siteId: 1, campaignId: 1, date: '2026-12-16' },
+      body: { siteId: 1, campaignId: 1, date: DEMO.day(15) },
     });
     await api('/blocks', {
       method: 'POST',
@@ -260,8 +260,8 @@ describe('safety', () => {
         nightId: night.id,
         targetId: 1,
         kind: 'astrometry',
-        startUtc: '2026-12-17T04:00:00Z',
-        endUtc: '2026-12-17T04:30:00Z',
+        startUtc: `${DEMO.day(16)}T04:00:00Z`,
+        endUtc: `${DEMO.day(16)}T04:30:00Z`,
       },
     });
     const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
@@ -451,7 +451,7 @@ describe('sky-plane plot as drawn in the browser', () => {
 describe('fitting from the target page', () => {
   test('fit the stored measurements, see the fitted track, store it as the new current version', async () => {
     const ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
-    // VC s3 (demo): other tests rely on VC s1's stored solution, so fit another star.
+    // Quill (demo): other tests rely on the headline star's stored solution, so fit another star.
     const { page, errors } = await open(ctx, '/targets/3');
     await page.getByRole('button', { name: 'Fit the stored measurements' }).click();
     await page.locator('table.fit-parameters tbody tr').first().waitFor();
@@ -461,12 +461,12 @@ describe('fitting from the target page', () => {
     );
     await shot(page, 'target-fit-preview');
     await page.getByRole('button', { name: 'Store as the current solution' }).click();
-    await page.getByText('Stored as version 2, now current.').waitFor();
-    await expect.poll(() => page.locator('#solutions tr.current').textContent()).toContain('v2');
+    await page.getByText('Stored as version 3, now current.').waitFor();
+    await expect.poll(() => page.locator('#solutions tr.current').textContent()).toContain('v3');
     const sols = await api<{ items: { version: number; current: boolean; provenance: string }[] }>(
       '/orbit-solutions?targetId=3',
     );
-    expect(sols.items.find((x) => x.current)).toMatchObject({ version: 2, provenance: 'fitted' });
+    expect(sols.items.find((x) => x.current)).toMatchObject({ version: 3, provenance: 'fitted' });
     expect(errors).toEqual([]);
     await ctx.close();
   });

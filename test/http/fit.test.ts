@@ -109,7 +109,6 @@ describe('fits of stored measurements (demo campaign)', () => {
     const started = await startStore({
       url: `file:${join(dir, 'fit.db')}`,
       demo: true,
-      today: '2026-12-01',
     });
     store = started.store;
     lead = started.firstLead!.secret;
@@ -125,7 +124,7 @@ describe('fits of stored measurements (demo campaign)', () => {
   it('previews a target fit, refuses accept to a viewer, stores it for a lead and keeps the old version', async () => {
     const app = createApp({ store });
     const targets = (await store.targets.list({})).items as { id: number; name: string }[];
-    const s2 = targets.find((t) => t.name === 'VC s2')!;
+    const s2 = targets.find((t) => t.name === 'Morrow')!;
     const preview = await post(app, `/api/targets/${s2.id}/fit`, {}, viewer);
     expect(preview.status, await preview.clone().text()).toBe(200);
     const pv = (await preview.json()) as {
@@ -136,7 +135,7 @@ describe('fits of stored measurements (demo campaign)', () => {
       };
     };
     expect(pv.targets[0]!.measurementIds.length).toBeGreaterThan(7);
-    // The demo's VC s2 has P = 9.6 yr (server/store/demo/scenario.ts, invented).
+    // The demo's Morrow has P = 9.6 yr (server/store/demo/scenario.ts, invented).
     const p = pv.result.stars[0]!.quantities.find((q) => q.name === 'periodYears')!;
     expect(Math.abs(p.value - 9.6)).toBeLessThan(3 * p.sigma);
     expect((await post(app, `/api/targets/${s2.id}/fit/accept`, {}, viewer)).status).toBe(403);
@@ -176,7 +175,7 @@ describe('fits of stored measurements (demo campaign)', () => {
     const versions = (await store.orbitSolutions.list({})).items.filter(
       (v) => v.targetId === s2.id,
     );
-    expect(versions.length).toBe(2);
+    expect(versions.length).toBe(3); // the demo's entered and fitted versions, and this one
     expect(versions.filter((v) => v.current).map((v) => v.id)).toEqual([acc.solutions[0]!.id]);
     // The target's ephemeris now comes from the fitted solution, with its covariance.
     const eph = await app.request(
@@ -193,7 +192,7 @@ describe('fits of stored measurements (demo campaign)', () => {
     const systems = (await store.systems.list({})).items as { id: number; name: string }[];
     const targets = (await store.targets.list({})).items as { id: number; name: string }[];
     const vesper = systems.find((s) => s.name === 'Vesper Core')!;
-    const [s1, s2] = ['VC s1', 'VC s2'].map((n) => targets.find((t) => t.name === n)!.id);
+    const [s1, s2] = ['Ilex', 'Morrow'].map((n) => targets.find((t) => t.name === n)!.id);
     const res = await post(
       app,
       `/api/systems/${vesper.id}/fit`,
@@ -207,7 +206,7 @@ describe('fits of stored measurements (demo campaign)', () => {
     };
     expect(body.targets.length).toBe(2);
     const m = body.result.parameters.find((q) => q.name === 'massSolar')!;
-    expect(Math.abs(m.value - 2.6e6)).toBeLessThan(3 * m.sigma); // scenario.ts: Vesper Core, 2.6 × 10⁶ M☉ (invented)
+    expect(Math.abs(m.value - 2e7)).toBeLessThan(3 * m.sigma); // scenario.ts: Vesper Core, 2 × 10⁷ M☉ (invented)
     // All four stars, started from their current solutions as well as from the search: the two on 30–50-year
     // orbits seen for seven years add little, but the shared mass and distance still come out.
     const all = await post(app, `/api/systems/${vesper.id}/fit`, { relativity: {} }, viewer);
@@ -219,8 +218,8 @@ describe('fits of stored measurements (demo campaign)', () => {
     expect(allBody.targets.length).toBe(4);
     const m4 = allBody.result.parameters.find((q) => q.name === 'massSolar')!;
     const d4 = allBody.result.parameters.find((q) => q.name === 'distancePc')!;
-    expect(Math.abs(m4.value - 2.6e6)).toBeLessThan(3 * m4.sigma); // scenario.ts (invented)
-    expect(Math.abs(d4.value - 7400)).toBeLessThan(3 * d4.sigma); // scenario.ts: 7400 pc (invented)
+    expect(Math.abs(m4.value - 2e7)).toBeLessThan(3 * m4.sigma); // scenario.ts (invented)
+    expect(Math.abs(d4.value - 15_000)).toBeLessThan(3 * d4.sigma); // scenario.ts: 15 000 pc (invented)
     const wrong = await post(app, `/api/targets/${s1}/fit`, { measurementIds: [999999] }, viewer);
     expect(wrong.status).toBe(422);
     expect(

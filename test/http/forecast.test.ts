@@ -1,6 +1,6 @@
 /**
- * The detection forecast of the demo's deepest star (VC s1, invented; periapsis 2027-06-14 in the
- * demo scenario) through the API and the CLI: the same numbers from the same store function, and
+ * The detection forecast of the demo's deepest star (its headline star, invented; periapsis months
+ * after the clock in the demo scenario) through the API and the CLI: the same numbers from the same store function, and
  * errors that name the field. The forecast's numbers are checked against refits in
  * test/science/plan/forecast.test.ts.
  */
@@ -12,6 +12,10 @@ import { main } from '../../server/cli/main.ts';
 import { createApp } from '../../server/http/app.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import type { TargetForecast } from '../../server/store/views/forecast.ts';
+import { nowIso } from '../../server/clock.ts';
+import { HEADLINE } from '../../server/store/demo/scenario.ts';
+
+const AT = `${nowIso().slice(0, 10)}T00:00:00Z`;
 
 let store: Store;
 let dir: string;
@@ -20,10 +24,10 @@ let deepest: number;
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-forecast-'));
   store = createStore(await openDatabase({ url: `file:${join(dir, 'f.db')}` }));
-  await store.loadDemo(LOCAL_OPERATOR, { today: '2026-12-01' });
+  await store.loadDemo(LOCAL_OPERATOR, {});
   token = (await store.users.createWithToken(LOCAL_OPERATOR, { name: 'viewer', role: 'viewer' }))
     .secret;
-  deepest = (await store.targets.list({})).items.find((t) => t.name === 'VC s1')!.id;
+  deepest = (await store.targets.list({})).items.find((t) => t.name === HEADLINE)!.id;
 });
 afterAll(() => {
   store.close();
@@ -48,7 +52,7 @@ async function cli(args: string[]): Promise<{ code: number; out: string }> {
 describe('GET /api/targets/{id}/forecast', () => {
   it("forecasts the deepest star's redshift and precession from its planned blocks", async () => {
     const app = createApp({ store });
-    const res = await app.request(`/api/targets/${deepest}/forecast?at=2026-12-01T00:00:00Z`, {
+    const res = await app.request(`/api/targets/${deepest}/forecast?at=${AT}`, {
       headers: { authorization: `Bearer ${token}` },
     });
     expect(res.status, await res.clone().text()).toBe(200);
@@ -62,13 +66,7 @@ describe('GET /api/targets/{id}/forecast', () => {
     expect(body.summary[0]).toMatch(/^redshift /);
     console.log(body.summary.join('\n'));
 
-    const { code, out } = await cli([
-      'forecast',
-      '--target-id',
-      String(deepest),
-      '--at',
-      '2026-12-01T00:00:00Z',
-    ]);
+    const { code, out } = await cli(['forecast', '--target-id', String(deepest), '--at', AT]);
     expect(code).toBe(0);
     expect(out).toContain(body.summary[0]!);
     expect(out).toMatch(/redshiftFactor\s/);

@@ -5,21 +5,35 @@
  * and Sun; bad input and stale previews leave the database as it was.
  *
  * Demo scenario (server/store/demo/scenario.ts, invented): campaign 1 follows the Vesper Core stars
- * from Tolvane Ridge (site 1, laser guide star) and Ostrel Summit (site 2); VC s1 passes periapsis
- * on 2027-06-14. Limits: airmass ≤ 1.8, Moon ≥ 30°, astronomical darkness; Sun avoidance 45°/40°.
+ * from Tolvane Ridge (site 1, laser guide star) and Ostrel Summit (site 2); its headline star passes
+ * periapsis about six and a half months after the clock; every date below is read from the demo
+ * (server/store/demo/scenario.ts). Limits: airmass ≤ 1.8, Moon ≥ 30°, astronomical darkness; Sun avoidance 45°/40°.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from '../../server/science/plan/index.ts';
 import { LOCAL_OPERATOR } from '../../server/store/index.ts';
-import { SITES, VESPER } from '../../server/store/demo/scenario.ts';
+import { nowIso } from '../../server/clock.ts';
+import { findEvents, validateOrbit } from '../../server/science/orbit/index.ts';
+import { parseEpoch } from '../../server/science/time/index.ts';
+import {
+  DEMO_DAYS,
+  HEADLINE,
+  SITES,
+  demoAnchor,
+  vesperSystem,
+} from '../../server/store/demo/scenario.ts';
 import { createApp } from '../../server/http/app.ts';
 import { BACKENDS, tableCounts } from '../store/backends.ts';
 import { skyMargins } from './block-sky.ts';
 import { nowMs } from '../../server/clock.ts';
 
 // Previews are made as of the demo's day; an accept may not reach back in time, so it runs at the server's clock (no `at`).
-const AT = '2026-12-01T00:00:00Z';
-const RANGE = { startDate: '2027-06-01', endDate: '2027-06-30', at: AT };
+const demo = demoAnchor(nowIso());
+/** A day `n` days from the headline periapsis (the demo's calendar). */
+const near = (n: number) => demo.day(DEMO_DAYS.periapsis + n);
+const VESPER = vesperSystem(demo);
+const AT = `${demo.today}T00:00:00Z`;
+const RANGE = { startDate: near(-13), endDate: near(16), at: AT };
 const ACCEPT = { startDate: RANGE.startDate, endDate: RANGE.endDate };
 
 // biome-ignore lint/suspicious/noExplicitAny: loose JSON answers read field by field in this test
@@ -36,7 +50,7 @@ for (const backend of BACKENDS) {
     ) => Promise<Response>;
     beforeAll(async () => {
       env = await backend.open();
-      await env.store.loadDemo(LOCAL_OPERATOR, { today: '2026-12-01' });
+      await env.store.loadDemo(LOCAL_OPERATOR, {});
       const tokens = {
         lead: (
           await env.store.users.createWithToken(LOCAL_OPERATOR, { name: 'plan lead', role: 'lead' })
@@ -95,8 +109,14 @@ for (const backend of BACKENDS) {
       expect(body.plan.epochs.length).toBeGreaterThan(0);
       for (const e of body.plan.epochs) expect(e.reason).toMatch(/gap|tightens|periapsis window/);
       for (const u of body.plan.unmet) expect(u.reason.length).toBeGreaterThan(20);
-      const s1 = body.plan.targets.find((t: Json) => t.target === 'VC s1');
-      expect(s1.periapses[0].slice(0, 10)).toBe('2027-06-14'); // demo periapsis of VC s1 (invented), Rømer delay within a day
+      const s1 = body.plan.targets.find((t: Json) => t.target === HEADLINE);
+      const fitted = (await env.store.orbitSolutions.list({})).items.find(
+        (x) => x.current && x.targetId === 1,
+      )!; // the headline star's current (fitted) solution
+      const [next] = findEvents(validateOrbit(fitted.orbit), parseEpoch(AT), parseEpoch(AT) + 365, {
+        kinds: ['periapsis'],
+      });
+      expect(Math.abs(parseEpoch(s1.periapses[0]) - parseEpoch(next!.epoch))).toBeLessThan(1); // the orbit engine's passage of the stored solution, Rømer delay within a day
       expect(s1.shrinkage.periapsisDays.after).toBeLessThan(s1.shrinkage.periapsisDays.before); // epochs add information, so σ can only shrink (Fisher information is additive; common practice, no source)
       expect(body.plan.cautions).toEqual([PLAN_ADVISORY, LASER_GUIDE_STAR_CAUTION]);
       const { blocks } = await campaignBlocks(RANGE.startDate, RANGE.endDate);
@@ -117,7 +137,7 @@ for (const backend of BACKENDS) {
         ).status,
       ).toBe(403); // a season plan is the lead's (store roles)
       expect(await tableCounts(env.store)).toEqual(before);
-      const outside = await campaignBlocks('2027-07-01', '2027-10-31');
+      const outside = await campaignBlocks(near(17), near(139));
       const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', {
         ...ACCEPT,
         digest: preview.digest,
@@ -132,7 +152,7 @@ for (const backend of BACKENDS) {
           .sort(),
       ); // the preview, block for block
       expect(blocks.some((b) => preview.replaces.includes(b.id))).toBe(false);
-      expect((await campaignBlocks('2027-07-01', '2027-10-31')).blocks).toEqual(outside.blocks); // nights outside the range untouched
+      expect((await campaignBlocks(near(17), near(139))).blocks).toEqual(outside.blocks); // nights outside the range untouched
       expect(blocks.filter((b) => b.laserGuideStar).every((b) => b.kind === 'astrometry')).toBe(
         true,
       );
@@ -149,7 +169,7 @@ for (const backend of BACKENDS) {
     });
 
     it('re-plans after a logged night: keeps its blocks, replaces the other plans; a stale digest writes nothing', async () => {
-      const { nights, blocks } = await campaignBlocks('2027-06-05', '2027-06-05');
+      const { nights, blocks } = await campaignBlocks(near(-9), near(-9));
       const night = nights[0]!;
       const mine = blocks.filter((b) => b.nightId === night.id);
       await env.store.nightReports.create(LOCAL_OPERATOR, {
@@ -166,7 +186,7 @@ for (const backend of BACKENDS) {
         await call('viewer', 'POST', '/api/campaigns/1/season-plan', RANGE)
       ).json()) as Json;
       expect(preview.sites[0].skipped).toContainEqual({
-        date: '2027-06-05',
+        date: near(-9),
         reason: 'the night has a report',
       });
       const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', {
@@ -181,7 +201,7 @@ for (const backend of BACKENDS) {
     });
 
     it('plans every night of a range with nights: "all", creating the nights it uses', async () => {
-      const body = { startDate: '2027-07-01', endDate: '2027-07-10', siteIds: [2], nights: 'all' };
+      const body = { startDate: near(17), endDate: near(26), siteIds: [2], nights: 'all' };
       const res = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', body);
       expect(res.status, await res.clone().text()).toBe(201);
       const out = (await res.json()) as Json;
@@ -193,7 +213,7 @@ for (const backend of BACKENDS) {
     it('refuses bad season input naming the field, writing nothing', async () => {
       const before = await tableCounts(env.store);
       const cases: [unknown, number, string][] = [
-        [{ ...ACCEPT, startDate: '2026-01-01' }, 422, 'startDate'],
+        [{ ...ACCEPT, startDate: demo.day(-334) }, 422, 'startDate'],
         [{ ...ACCEPT, siteIds: [1, 99] }, 422, 'siteIds.1'],
         [{ ...ACCEPT, fillFraction: 2 }, 422, 'fillFraction'],
         [{ ...ACCEPT, blockMinutes: { astrometry: -5 } }, 422, 'blockMinutes.astrometry'],
@@ -215,7 +235,7 @@ for (const backend of BACKENDS) {
     });
 
     it('schedules a stored night: every block placed or left out with its reason, laser caution, pins and removals', async () => {
-      const { nights } = await campaignBlocks('2027-06-12', '2027-06-12');
+      const { nights } = await campaignBlocks(near(-2), near(-2));
       const id = nights.find((n) => n.siteId === 1)!.id;
       const before = await tableCounts(env.store);
       const res = await call('viewer', 'POST', `/api/nights/${id}/schedule`, { at: AT });
@@ -235,21 +255,21 @@ for (const backend of BACKENDS) {
         await call('viewer', 'POST', `/api/nights/${id}/schedule`, {
           at: AT,
           pins: [{ id: first.id, start: pinAt }],
-          remove: ['VC s4:spectroscopy'],
+          remove: ['Sorrel:spectroscopy'],
         })
       ).json()) as Json;
       const moved = edited.schedule.blocks.find((b: Json) => b.id === first.id);
       expect([moved.start.utc, moved.pinned]).toEqual([pinAt.replace('.000Z', 'Z'), true]); // moved to the pinned start (a slot edge)
       expect(edited.schedule.leftOut).toContainEqual({
-        id: 'VC s4:spectroscopy',
-        target: 'VC s4',
+        id: 'Sorrel:spectroscopy',
+        target: 'Sorrel',
         kind: 'spectroscopy',
         reason: 'removed by the user',
       });
     });
 
     it('accepts a night schedule (observer) in place of its planned blocks, planning around kept blocks', async () => {
-      const { nights } = await campaignBlocks('2027-06-26', '2027-06-26');
+      const { nights } = await campaignBlocks(near(12), near(12));
       const id = nights.find((n) => n.siteId === 1)!.id;
       const preview = (await (
         await call('viewer', 'POST', `/api/nights/${id}/schedule`, { at: AT })
@@ -285,7 +305,7 @@ for (const backend of BACKENDS) {
         ).toBe(true); // no new block overlaps the kept one
       const before = await tableCounts(env.store);
       const bad = await call('observer', 'POST', `/api/nights/${id}/schedule/accept`, {
-        pins: [{ id: 'VC s1:astrometry', start: '2027-06-27T18:00:00Z' }],
+        pins: [{ id: `${HEADLINE}:astrometry`, start: `${near(13)}T18:00:00Z` }],
       });
       expect(bad.status).toBe(422);
       expect(((await bad.json()) as Json).error.details.field).toBe('pins.0.start');
@@ -299,14 +319,14 @@ for (const backend of BACKENDS) {
 
     it('keeps hand-made and pinned blocks through a season re-plan, planning new blocks around them on their nights', async () => {
       // July at Tolvane Ridge still holds the demo's own blocks (written as an earlier season plan, scenario.ts).
-      const JULY = { startDate: '2027-07-01', endDate: '2027-07-31', siteIds: [1] };
+      const JULY = { startDate: near(17), endDate: near(47), siteIds: [1] };
       const { nights, blocks } = await campaignBlocks(JULY.startDate, JULY.endDate);
-      const n03 = nights.find((n) => n.date === '2027-07-03' && n.siteId === 1)!;
-      const n10 = nights.find((n) => n.date === '2027-07-10' && n.siteId === 1)!;
+      const n03 = nights.find((n) => n.date === near(19) && n.siteId === 1)!;
+      const n10 = nights.find((n) => n.date === near(26) && n.siteId === 1)!;
       const slot = blocks.find((b) => b.nightId === n03.id)!;
       const body = {
         nightId: n03.id,
-        targetId: await targetId('VC s1'),
+        targetId: await targetId(HEADLINE),
         kind: 'astrometry',
         startUtc: slot.startUtc,
         endUtc: slot.endUtc,
@@ -342,15 +362,15 @@ for (const backend of BACKENDS) {
         await call('viewer', 'POST', '/api/campaigns/1/season-plan', { ...JULY, at: AT })
       ).json()) as Json;
       expect(preview.sites.flatMap((s: Json) => s.skipped).map((k: Json) => k.date)).not.toContain(
-        '2027-07-03',
+        near(19),
       ); // planned around, no longer left out
       const around = preview.sites.flatMap((s: Json) => s.plannedAround);
       expect(around).toContainEqual({
-        date: '2027-07-03',
+        date: near(19),
         kept: [{ id: hand.id, reason: 'it was made by hand' }],
       });
       expect(around).toContainEqual({
-        date: '2027-07-10',
+        date: near(26),
         kept: [{ id: target.id, reason: 'a person pinned it' }],
       });
       expect(preview.replaces).not.toContain(hand.id);
@@ -377,7 +397,7 @@ for (const backend of BACKENDS) {
       // The hand-made block's night gets new blocks in the time it leaves free: none over it or inside the changeover gap, none repeating its target and kind.
       const added = out.written.filter((b: Json) => b.nightId === n03.id) as Json[];
       console.log(
-        `2027-07-03: ${added.length} new blocks around hand-made block ${hand.id} (${hand.startUtc}–${hand.endUtc})`,
+        `${near(19)}: ${added.length} new blocks around hand-made block ${hand.id} (${hand.startUtc}–${hand.endUtc})`,
       );
       expect(added.length).toBeGreaterThan(0);
       for (const [kept, nightId] of [
@@ -413,7 +433,7 @@ for (const backend of BACKENDS) {
     });
 
     it('schedules a night around a hand-made block, leaving out a second block of its target and kind; pins are stored and kept', async () => {
-      const night = await nightOf('2027-06-12', 1); // clear of the Moon (06-19 is not: the Moon limit leaves every block out)
+      const night = await nightOf(near(-2), 1); // clear of the Moon (06-19 is not: the Moon limit leaves every block out)
       const first = (
         (await (
           await call('viewer', 'POST', `/api/nights/${night.id}/schedule`, { at: AT })
@@ -421,7 +441,7 @@ for (const backend of BACKENDS) {
       ).schedule.blocks[0];
       const hand = await env.store.blocks.create(LOCAL_OPERATOR, {
         nightId: night.id,
-        targetId: await targetId('VC s1'),
+        targetId: await targetId(HEADLINE),
         kind: 'astrometry',
         startUtc: first.start.utc,
         endUtc: first.end.utc,
@@ -431,14 +451,14 @@ for (const backend of BACKENDS) {
       ).json()) as Json;
       expect(preview.kept).toContainEqual({ id: hand.id, reason: 'it was made by hand' });
       expect(preview.schedule.leftOut).toContainEqual({
-        id: 'VC s1:astrometry',
-        target: 'VC s1',
+        id: `${HEADLINE}:astrometry`,
+        target: HEADLINE,
         kind: 'astrometry',
         reason: `already has a kept block of this kind tonight (block ${hand.id})`,
       });
       const [hs, he] = [Date.parse(hand.startUtc), Date.parse(hand.endUtc)];
       for (const b of preview.schedule.blocks) {
-        const gap = (b.target === 'VC s1' ? 3 : 8) * 60_000; // the scheduler's default changeover gaps (night-schedule.ts; common practice, no source)
+        const gap = (b.target === HEADLINE ? 3 : 8) * 60_000; // the scheduler's default changeover gaps (night-schedule.ts; common practice, no source)
         expect(
           Date.parse(b.end.utc) + gap <= hs || he + gap <= Date.parse(b.start.utc),
           `${b.id} ${b.start.utc}–${b.end.utc}`,
@@ -447,12 +467,12 @@ for (const backend of BACKENDS) {
       const before = await tableCounts(env.store);
       const cases: [unknown, string, RegExp][] = [
         [
-          { pins: [{ id: 'VC s1:astrometry', start: first.start.utc }] },
+          { pins: [{ id: `${HEADLINE}:astrometry`, start: first.start.utc }] },
           'pins.0.id',
           /already has a kept block of this kind tonight/,
         ],
         [
-          { pins: [{ id: 'VC s2:astrometry', start: first.start.utc }] },
+          { pins: [{ id: 'Morrow:astrometry', start: first.start.utc }] },
           'pins.0.start',
           new RegExp(`over block ${hand.id}`),
         ],
@@ -515,7 +535,7 @@ for (const backend of BACKENDS) {
       const night = await env.store.nights.create(LOCAL_OPERATOR, {
         siteId: 1,
         campaignId: 1,
-        date: '2026-12-10',
+        date: demo.day(9),
       });
       const s = (
         (await (
@@ -526,7 +546,7 @@ for (const backend of BACKENDS) {
       for (const l of s.leftOut)
         expect(l.reason).toMatch(/inside the Sun-avoidance angle \(\d+° from the Sun, limit 45°\)/); // Tolvane Ridge's 45° (demo)
       const res = await call('observer', 'POST', `/api/nights/${night.id}/schedule/accept`, {
-        pins: [{ id: 'VC s1:astrometry', start: '2026-12-11T04:00:00Z' }],
+        pins: [{ id: `${HEADLINE}:astrometry`, start: `${demo.day(10)}T04:00:00Z` }],
       });
       expect(res.status).toBe(422);
       expect(((await res.json()) as Json).error.message).toMatch(/Sun|dark/);

@@ -1,6 +1,6 @@
 /**
  * The demo campaign and what leaves the store: the demo's orbits obey Kepler's third law and one
- * star passes periapsis within a year of 2026-12-01; its blocks fall in darkness; the iCalendar
+ * star passes periapsis within a year of the clock; its blocks fall in darkness; the iCalendar
  * feed parses with node-ical and keeps RFC 5545's rules; measurements survive an export and
  * re-import unchanged; a backup taken while writes go on is a sound database.
  */
@@ -9,6 +9,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Body, Equator, Horizon, Observer, SearchAltitude } from 'astronomy-engine';
 import ical from 'node-ical';
+import { DateTime } from 'luxon';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/http/app.ts';
 import { findEvents, physicalQuantities, validateOrbit } from '../../server/science/orbit/index.ts';
@@ -16,18 +17,27 @@ import { parseEpoch } from '../../server/science/time/index.ts';
 import { measurementsCsv } from '../../server/store/exports/measurements.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { startStore } from '../../server/store/startup.ts';
-import { LANTERN, VESPER } from '../../server/store/demo/scenario.ts';
+import {
+  DEMO_DAYS,
+  HEADLINE,
+  demoAnchor,
+  lanternSystem,
+  vesperSystem,
+} from '../../server/store/demo/scenario.ts';
+import { nowIso } from '../../server/clock.ts';
+
+// The demo is built around the clock (EPOCHWRIGHT_NOW in the suite): every date below comes from it.
+const demo = demoAnchor(nowIso());
+const MIDNIGHT = `${demo.today}T00:00:00Z`;
+const VESPER = vesperSystem(demo);
+const LANTERN = lanternSystem(demo);
 
 let dir: string;
 let store: Store;
 let leadToken: string;
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-demo-'));
-  const started = await startStore({
-    url: `file:${join(dir, 'demo.db')}`,
-    demo: true,
-    today: '2026-12-01',
-  });
+  const started = await startStore({ url: `file:${join(dir, 'demo.db')}`, demo: true });
   store = started.store;
   leadToken = started.firstLead!.secret;
 });
@@ -48,7 +58,7 @@ describe('the demo campaign', () => {
   it('has orbits that agree with the stated masses by Kepler’s third law, M = a³/P²', async () => {
     const solutions = await store.orbitSolutions.list({});
     let worst = 0;
-    for (const s of solutions.items) {
+    for (const s of solutions.items.filter((x) => x.provenance === 'entered')) {
       const m = physicalQuantities(validateOrbit(s.orbit)).massSolar;
       const stated =
         s.orbit.distancePc === LANTERN.distancePc ? LANTERN.massSolar : VESPER.massSolar;
@@ -58,10 +68,10 @@ describe('the demo campaign', () => {
     expect(worst).toBeLessThan(1e-4); // Kepler's third law in solar units (common practice, no source); a rounded to 6 digits
   });
 
-  it('has one star reaching periapsis within a year of 2026-12-01', async () => {
-    const start = parseEpoch('2026-12-01T00:00Z');
+  it('has one star reaching periapsis within a year of the clock', async () => {
+    const start = parseEpoch(MIDNIGHT);
     const passages = [];
-    for (const s of (await store.orbitSolutions.list({})).items)
+    for (const s of (await store.orbitSolutions.list({})).items.filter((x) => x.current))
       passages.push(
         ...findEvents(validateOrbit(s.orbit), start, start + 365.25, { kinds: ['periapsis'] }),
       );
@@ -114,21 +124,21 @@ describe('the campaign iCalendar feed', () => {
     const periapsis = parsed.filter((e) => String(e.summary).startsWith('Periapsis'));
     const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
     expect(parsed.length - periapsis.length - flagEvents.length).toBe(expectedBlocks); // every block of the campaign, from the store
-    const s1 = periapsis.find((e) => String(e.summary).includes('VC s1'))!;
+    const s1 = periapsis.find((e) => String(e.summary).includes(HEADLINE))!;
     const engine = findEvents(
-      validateOrbit((await store.orbitSolutions.list({})).items[0]!.orbit),
-      parseEpoch('2027-01-01T00:00Z'),
-      parseEpoch('2028-01-01T00:00Z'),
+      validateOrbit((await store.orbitSolutions.list({})).items.find((x) => x.current)!.orbit),
+      parseEpoch(MIDNIGHT),
+      parseEpoch(MIDNIGHT) + 365.25,
       { kinds: ['periapsis'] },
     )[0]!;
     expect(Math.abs(new Date(s1.start).getTime() - Date.parse(engine.epoch))).toBeLessThan(1000); // the orbit engine's passage, as node-ical reads it back (1 s: iCalendar has whole seconds)
   });
 
   it('carries the campaign’s flags at a given moment, as node-ical reads them back', async () => {
-    const atJd = parseEpoch('2026-12-01T00:00:00Z');
+    const atJd = parseEpoch(MIDNIGHT);
     const text = await store.exports.calendar(1, {
       flagsAtJd: atJd,
-      stampMs: Date.parse('2026-12-01T00:00:00Z'),
+      stampMs: Date.parse(MIDNIGHT),
     });
     const parsed = Object.values(ical.sync.parseICS(text)).filter(
       (c) => c?.type === 'VEVENT',
@@ -137,9 +147,11 @@ describe('the campaign iCalendar feed', () => {
     const { flags } = await store.plans.flags(1, { nowJd: atJd });
     expect(flagEvents.length).toBe(flags.length); // one event per flag of the planning engine (flags endpoint)
     expect(new Set(parsed.map((e) => e.uid)).size).toBe(parsed.length); // RFC 5545 §3.8.4.7: UID unique
-    const ahead = flagEvents.find((e) => String(e.summary) === 'Flag, periapsis ahead: VC s1')!;
-    const flag = flags.find((f) => f.kind === 'periapsis-ahead' && f.target === 'VC s1')!;
-    expect(Math.abs(new Date(ahead.start).getTime() - Date.parse(flag.date))).toBeLessThan(1000); // the flag's date (demo periapsis of VC s1, 2027-06-14, invented), whole seconds in iCalendar
+    const ahead = flagEvents.find(
+      (e) => String(e.summary) === `Flag, periapsis ahead: ${HEADLINE}`,
+    )!;
+    const flag = flags.find((f) => f.kind === 'periapsis-ahead' && f.target === HEADLINE)!;
+    expect(Math.abs(new Date(ahead.start).getTime() - Date.parse(flag.date))).toBeLessThan(1000); // the flag's date (the demo's fitted periapsis, invented), whole seconds in iCalendar
     expect(String(ahead.description)).toBe(flag.reason); // the reason survives RFC 5545 folding and escaping
   });
 });
@@ -161,14 +173,15 @@ describe('the feed’s flags at a chosen moment', () => {
         .map((e) => String(e.summary))
         .sort();
     };
-    for (const at of ['2026-12-01T00:00:00Z', '2027-07-01T00:00:00Z']) {
+    const afterPassage = `${demo.day(DEMO_DAYS.periapsis + 17)}T00:00:00Z`;
+    for (const at of [MIDNIGHT, afterPassage]) {
       const { flags } = await store.plans.flags(1, { nowJd: parseEpoch(at) });
       expect(await flagsOf(at)).toEqual(
         flags.map((f) => `Flag, ${f.kind.replace(/-/g, ' ')}: ${f.target}`).sort(),
       ); // the planning engine's flags at that moment (flags endpoint)
     }
-    expect(await flagsOf('2026-12-01T00:00:00Z')).toContain('Flag, periapsis ahead: VC s1'); // demo periapsis of VC s1 on 2027-06-14 (invented), within the flags' year ahead
-    expect(await flagsOf('2027-07-01T00:00:00Z')).not.toContain('Flag, periapsis ahead: VC s1'); // passed by then; the next is 14.2 yr later (demo period, invented)
+    expect(await flagsOf(MIDNIGHT)).toContain(`Flag, periapsis ahead: ${HEADLINE}`); // demo periapsis (scenario.ts, invented) within the flags' year ahead
+    expect(await flagsOf(afterPassage)).not.toContain(`Flag, periapsis ahead: ${HEADLINE}`); // passed by then; the next is 14.2 yr later (demo period, invented)
     const bad = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}&at=someday`);
     expect(bad.status).toBe(422); // a value that breaks a rule (docs/DESIGN.md errors)
     expect(
@@ -209,7 +222,7 @@ describe('exports and imports', () => {
   it('imports orbit solutions from CSV as new current versions', async () => {
     const csv = [
       'system,target,periodYears,periapsis,eccentricity,semiMajorAxisArcsec,inclinationDeg,ascendingNodeDeg,argPeriapsisDeg,distancePc,relativity,reference',
-      'Vesper Core,VC s2,9.61,J2024.21,0.62,0.0839,42,110,300,7400,gravitationalRedshift;transverseDoppler,CSV test',
+      'Vesper Core,Morrow,9.61,J2024.21,0.62,0.0839,42,110,300,15000,gravitationalRedshift;transverseDoppler,CSV test',
     ].join('\n');
     const report = await store.importCsv(LOCAL_OPERATOR, 'orbits', csv);
     expect(report.written).toBe(1);
@@ -217,8 +230,8 @@ describe('exports and imports', () => {
       (s) => s.current && s.reference === 'CSV test',
     );
     expect(current.map((s) => [s.version, s.provenance, s.orbit.relativity])).toEqual([
-      [2, 'imported', { gravitationalRedshift: true, transverseDoppler: true }],
-    ]); // values of the CSV row above
+      [3, 'imported', { gravitationalRedshift: true, transverseDoppler: true }],
+    ]); // values of the CSV row above; versions 1 and 2 are the demo's entered and fitted solutions
   });
 
   it('backs up a consistent copy while writes go on', async () => {
@@ -252,7 +265,7 @@ describe('a stored night’s visibility', () => {
   it('reports darkness as astronomy-engine finds it, the campaign’s targets, and the laser caution', async () => {
     const app = createApp({ store });
     const night = (await store.nights.list({}, { limit: 500 })).items.find(
-      (n) => n.date === '2027-06-12' && n.siteId === 1,
+      (n) => n.date === demo.day(DEMO_DAYS.periapsis - 2) && n.siteId === 1, // a night of the densified run
     )!;
     const res = await app.request(`/api/nights/${night.id}/visibility`, {
       headers: { authorization: `Bearer ${leadToken}` },
@@ -267,7 +280,7 @@ describe('a stored night’s visibility', () => {
     expect(report.limits.horizonMask).toBe(true); // scenario.ts gives Tolvane Ridge a stored horizon mask, and the view uses it
     const site = await store.sites.get(night.siteId);
     const observer = new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
-    const noon = new Date('2027-06-12T16:00:00Z'); // local noon in America/Santiago (UTC−4 in June)
+    const noon = DateTime.fromISO(`${night.date}T12:00`, { zone: site.timeZone }).toJSDate(); // local noon
     const dusk = SearchAltitude(Body.Sun, observer, -1, noon, 1, -18)!;
     const dawn = SearchAltitude(Body.Sun, observer, +1, dusk, 1, -18)!;
     const hours = (dawn.date.getTime() - dusk.date.getTime()) / 3_600_000;
@@ -276,12 +289,12 @@ describe('a stored night’s visibility', () => {
     );
     expect(Math.abs(report.darkness.hours - hours)).toBeLessThan(0.02); // astronomy-engine SearchAltitude at −18° (astronomical twilight); ~1 min
     expect(report.targets.map((t) => t.name)).toEqual([
-      'VC s1 (Vesper Core)',
-      'VC s2 (Vesper Core)',
-      'VC s3 (Vesper Core)',
-      'VC s4 (Vesper Core)',
+      'Ilex (Vesper Core)',
+      'Morrow (Vesper Core)',
+      'Quill (Vesper Core)',
+      'Sorrel (Vesper Core)',
     ]); // the campaign's targets (scenario.ts)
-    expect(report.targets[0]!.observableHours).toBeGreaterThan(4); // declination −22° at latitude −25° in June culminates near the zenith at night (common practice, no source)
+    expect(report.targets[0]!.observableHours).toBeGreaterThan(4); // declination −22° at latitude −25° near opposition culminates near the zenith at night (common practice, no source)
     expect(report.cautions.some((c) => c.includes('laser'))).toBe(true); // the site runs a laser guide star
   });
 });

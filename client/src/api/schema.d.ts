@@ -6677,7 +6677,7 @@ export interface paths {
                         };
                         /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
                         frameEpoch?: string | number;
-                        /** @description parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units */
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
                         fixed?: {
                             [key: string]: number;
                         };
@@ -6812,7 +6812,7 @@ export interface paths {
                         };
                         /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
                         frameEpoch?: string | number;
-                        /** @description parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units */
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
                         fixed?: {
                             [key: string]: number;
                         };
@@ -6980,7 +6980,7 @@ export interface paths {
                         };
                         /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
                         frameEpoch?: string | number;
-                        /** @description parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units */
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
                         fixed?: {
                             [key: string]: number;
                         };
@@ -7144,7 +7144,7 @@ export interface paths {
                         };
                         /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
                         frameEpoch?: string | number;
-                        /** @description parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units */
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
                         fixed?: {
                             [key: string]: number;
                         };
@@ -7312,7 +7312,7 @@ export interface paths {
                         };
                         /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
                         frameEpoch?: string | number;
-                        /** @description parameters held at a value, by name (e.g. "distancePc", "S1.eccentricity"), interface units */
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
                         fixed?: {
                             [key: string]: number;
                         };

@@ -26,8 +26,8 @@ ${DATABASE_HELP}
 model:
   --period <min:max>      period search range in years, for every star, or <target>=<min:max> (repeatable)
   --eccentricity <min:max> eccentricity search range (default 0:0.97)
-  --fix <name=value>      hold a parameter, e.g. --fix distancePc=8100 or --fix "S1.eccentricity=0" (repeatable)
-  --prior <name=mean,σ>   Gaussian prior, e.g. --prior distancePc=8100,150 (repeatable)
+  --fix <name=value>      hold a parameter, e.g. --fix distancePc=15000 or --fix "Ilex.eccentricity=0" (repeatable)
+  --prior <name=mean,σ>   Gaussian prior, e.g. --prior distancePc=15000,500 (repeatable)
   --frame <what>          also fit the primary's offset and/or drift: offset, drift or offset,drift
   --relativity <terms>    romer,gravitationalRedshift,transverseDoppler,precession, all, or none
                           (default: a file is fitted Newtonian; a stored target keeps its solution's terms)

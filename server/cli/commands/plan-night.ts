@@ -82,7 +82,7 @@ export const planNightCommand: Command = {
       const at = p.lastIndexOf('@');
       if (at <= 0)
         throw new UsageError(
-          `--pin: ${JSON.stringify(p)} must be <block id>@<start>, e.g. "VC s1:astrometry@2027-06-06T05:00Z"`,
+          `--pin: ${JSON.stringify(p)} must be <block id>@<start>, e.g. "Ilex:astrometry@2027-06-06T05:00Z"`,
         );
       return { id: p.slice(0, at), start: p.slice(at + 1) };
     });

@@ -1,30 +1,44 @@
 /**
- * Loads the invented demo campaign (see scenario.ts) in one transaction: systems, targets, orbit
- * solutions, sites, two campaigns, a season of nights with blocks, night reports for the nights
- * already past, and measurements made from the demo orbits with small invented errors.
+ * Loads the invented demo campaign (see scenario.ts) in one transaction, relative to the clock:
+ * systems, targets, sites, two campaigns, seasons of nights with blocks, night reports for the
+ * nights already past (some lost, some cut short), measurements made from the scenario's orbits
+ * with invented errors, and for every star two orbit-solution versions: the scenario's orbit as
+ * entered, and the orbit engine's own fit to the demo measurements (current, with covariance).
  */
 import { SiderealTime } from 'astronomy-engine';
 import { DateTime } from 'luxon';
-import { predict, validateOrbit, type OrbitInput } from '../../science/orbit/index.ts';
+import {
+  predict,
+  toCampbellInput,
+  validateOrbit,
+  type OrbitInput,
+} from '../../science/orbit/index.ts';
+import { fitOrbits, type FitRequest } from '../../science/orbit/fit/index.ts';
 import {
   TWILIGHT_SUN_ALTITUDE_DEG,
   darknessExact,
   nightSpan,
   validateSite,
 } from '../../science/sky/index.ts';
-import { jdToIso, jdToUnixMs, parseEpoch, unixMsToJd } from '../../science/time/index.ts';
+import { jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import type { DbOrTx } from '../database.ts';
 import type { StoreContext } from '../context.ts';
 import type { SiteRow } from '../repos/sites.ts';
+import type { MeasurementRow } from '../repos/measurements.ts';
+import { toInput } from '../fits.ts';
 import {
+  DEMO_DAYS,
+  HEADLINE,
   INSTRUMENTS,
-  LANTERN,
-  LANTERN_B_ORBIT,
   SITES,
-  VESPER,
   VESPER_STARS,
+  demoAnchor,
+  lanternOrbit,
+  lanternSystem,
   vesperOrbit,
+  vesperSystem,
+  type DemoAnchor,
 } from './scenario.ts';
 import { nowIso } from '../../clock.ts';
 
@@ -39,10 +53,6 @@ function noise(seed: number) {
     uniform,
     gauss: () => Math.sqrt(-2 * Math.log(uniform() + 1e-12)) * Math.cos(2 * Math.PI * uniform()),
   };
-}
-
-function addDays(date: string, n: number): string {
-  return DateTime.fromISO(date, { zone: 'UTC' }).plus({ days: n }).toISODate()!;
 }
 
 /**
@@ -69,284 +79,391 @@ export function runStart(site: SiteRow, date: string, raDeg: number, minutes: nu
   return start;
 }
 
+interface PlanTarget {
+  id: number;
+  raDeg: number;
+  orbit: OrbitInput;
+  kinds: ('astrometry' | 'spectroscopy')[];
+  /** Measured as separation and position angle (a visual binary) rather than offsets. */
+  speckle?: boolean;
+}
+
 interface Plan {
   campaignId: number;
   siteIndex: number;
   dates: string[];
-  targets: {
-    id: number;
-    raDeg: number;
-    orbit: OrbitInput;
-    kinds: ('astrometry' | 'spectroscopy')[];
-  }[];
+  targets: PlanTarget[];
 }
 
 export interface DemoOptions {
-  /** Nights before this date get reports and measurements; later ones stay planned. Default: today. */
-  today?: string;
+  /** The moment the scenario is built around (ISO 8601); nights before its day get reports. Default: the clock. */
+  now?: string;
 }
+
+/** Every night of a range given in days from the anchor. */
+function nightsOf(anchor: DemoAnchor, r: { start: number; end: number; step: number }): string[] {
+  const out: string[] = [];
+  for (let d = r.start; d <= r.end; d += r.step) out.push(anchor.day(d));
+  return out;
+}
+
+type Counts = { nights: number; blocks: number; reports: number; measurements: number };
+type Star = { target: { id: number; name: string }; orbit: OrbitInput; raDeg: number };
+type Made = Map<number, MeasurementRow[]>;
 
 export async function loadDemo(
   store: StoreContext,
   actor: Actor,
   options: DemoOptions = {},
-): Promise<{ nights: number; blocks: number; reports: number; measurements: number }> {
-  const today = options.today ?? nowIso().slice(0, 10);
-  const counts = { nights: 0, blocks: 0, reports: 0, measurements: 0 };
+): Promise<Counts> {
+  const anchor = demoAnchor(options.now ?? nowIso());
+  const counts: Counts = { nights: 0, blocks: 0, reports: 0, measurements: 0 };
   await store.db.transaction(async (tx) => {
     const rnd = noise(20261201);
-    const vesper = await store.systems.createIn(tx, actor, VESPER);
-    const lantern = await store.systems.createIn(tx, actor, LANTERN);
-    const stars = [];
+    const made: Made = new Map();
+    const vesper = await store.systems.createIn(tx, actor, vesperSystem(anchor));
+    const lantern = await store.systems.createIn(tx, actor, lanternSystem(anchor));
+    const stars: Star[] = [];
     for (const s of VESPER_STARS) {
-      const t = await store.targets.createIn(tx, actor, {
+      const target = await store.targets.createIn(tx, actor, {
         systemId: vesper.id,
         name: s.name,
         magnitude: s.magnitude,
         band: s.band,
       });
-      const orbit = vesperOrbit(s);
+      stars.push({ target, orbit: vesperOrbit(s, anchor), raDeg: vesper.raDeg });
+    }
+    const lanternB = {
+      target: await store.targets.createIn(tx, actor, {
+        systemId: lantern.id,
+        name: 'Lantern B',
+        magnitude: 7.9,
+        band: 'V',
+      }),
+      orbit: lanternOrbit(anchor),
+      raDeg: lantern.raDeg,
+    };
+    for (const { target, orbit } of [...stars, lanternB])
       await store.orbitSolutions.createIn(tx, actor, {
-        targetId: t.id,
+        targetId: target.id,
         orbit,
         provenance: 'entered',
-        reference: 'demo scenario (invented)',
+        reference: 'demo scenario (invented): the orbit the measurements were drawn from',
       });
-      stars.push({ target: t, orbit });
-    }
-    const lanternB = await store.targets.createIn(tx, actor, {
-      systemId: lantern.id,
-      name: 'Lantern B',
-      magnitude: 7.9,
-      band: 'V',
-    });
-    await store.orbitSolutions.createIn(tx, actor, {
-      targetId: lanternB.id,
-      orbit: LANTERN_B_ORBIT,
-      provenance: 'entered',
-      reference: 'demo scenario (invented)',
-    });
     const sites = [];
     for (const s of SITES) sites.push(await store.sites.createIn(tx, actor, s));
-
-    const passage = await store.campaigns.createIn(tx, actor, {
-      name: 'Vesper Core passage 2026–2027',
-      startDate: '2026-03-01',
-      endDate: '2027-10-31',
-      goals: {
-        cadenceDays: 14,
-        densifiedCadenceDays: 7,
-        densifyWithinDays: 30,
-        kinds: ['astrometry', 'spectroscopy'],
-        laserGuideStar: { astrometry: true },
-      },
-      limits: { highestAirmass: 1.8, leastMoonDistanceDeg: 30, darkness: 'astronomical' },
-      targetIds: stars.map((s) => s.target.id),
-      siteIds: sites.map((s) => s.id),
-      notes:
-        'Follow VC s1 through its periapsis in June 2027; keep the other stars on a yearly cadence.',
-    });
-    const binary = await store.campaigns.createIn(tx, actor, {
-      name: 'Lantern Pair orbit 2026–2027',
-      startDate: '2026-10-01',
-      endDate: '2027-04-30',
-      goals: { cadenceDays: 21, kinds: ['astrometry'] },
-      limits: { highestAirmass: 2, darkness: 'nautical' },
-      targetIds: [lanternB.id],
-      siteIds: [sites[1]!.id],
-    });
-
-    const every = (from: string, to: string, step: number) => {
-      const out: string[] = [];
-      for (let d = from; d <= to; d = addDays(d, step)) out.push(d);
-      return out;
-    };
-    const s1 = stars[0]!,
-      s2 = stars[1]!;
-    const dense = every('2027-05-15', '2027-07-15', 7);
-    const plans: Plan[] = [
-      {
-        campaignId: passage.id,
-        siteIndex: 0,
-        dates: every('2026-04-04', '2026-09-26', 14),
-        targets: [
-          {
-            id: s1.target.id,
-            raDeg: VESPER.raDeg,
-            orbit: s1.orbit,
-            kinds: ['astrometry', 'spectroscopy'],
-          },
-          { id: s2.target.id, raDeg: VESPER.raDeg, orbit: s2.orbit, kinds: ['astrometry'] },
-        ],
-      },
-      {
-        campaignId: passage.id,
-        siteIndex: 0,
-        dates: [...new Set([...every('2027-03-06', '2027-09-25', 14), ...dense])].sort(),
-        targets: [
-          {
-            id: s1.target.id,
-            raDeg: VESPER.raDeg,
-            orbit: s1.orbit,
-            kinds: ['astrometry', 'spectroscopy'],
-          },
-        ],
-      },
-      {
-        campaignId: passage.id,
-        siteIndex: 1,
-        dates: every('2027-04-03', '2027-08-28', 28),
-        targets: [
-          { id: s1.target.id, raDeg: VESPER.raDeg, orbit: s1.orbit, kinds: ['spectroscopy'] },
-        ],
-      },
-      {
-        campaignId: binary.id,
-        siteIndex: 1,
-        dates: every('2026-10-10', '2027-04-24', 21),
-        targets: [
-          { id: lanternB.id, raDeg: LANTERN.raDeg, orbit: LANTERN_B_ORBIT, kinds: ['astrometry'] },
-        ],
-      },
-    ];
-    for (const plan of plans) {
-      const site = sites[plan.siteIndex]!;
-      for (const date of plan.dates) {
-        const night = await store.nights.createIn(tx, actor, {
-          siteId: site.id,
-          campaignId: plan.campaignId,
-          date,
-        });
-        counts.nights++;
-        const past = date < today;
-        const lost = past && rnd.uniform() < 0.2;
-        const outcomes = [];
-        const blockCount = plan.targets.reduce((n, t) => n + t.kinds.length, 0);
-        const first = runStart(site, date, plan.targets[0]!.raDeg, blockCount * 50);
-        let offset = 0;
-        for (const t of plan.targets) {
-          for (const kind of t.kinds) {
-            const start = first.plus({ minutes: offset });
-            offset += 50;
-            const block = await store.blocks.createIn(tx, actor, {
-              nightId: night.id,
-              targetId: t.id,
-              kind,
-              startUtc: start.toUTC().toISO()!,
-              endUtc: start.plus({ minutes: 45 }).toUTC().toISO()!,
-              laserGuideStar:
-                site.laserGuideStar && kind === 'astrometry' && t.raDeg === VESPER.raDeg,
-              origin: 'season-plan', // the demo's nights stand for an earlier accepted plan, so a re-plan may replace their future blocks
-            });
-            counts.blocks++;
-            if (!past) continue;
-            outcomes.push({
-              blockId: block.id,
-              status: lost ? 'lost' : 'obtained',
-              exposureMinutes: lost ? 0 : 40,
-            });
-            if (!lost) {
-              await addMeasurement(
-                store,
-                tx,
-                actor,
-                t.id,
-                t.orbit,
-                block.id,
-                kind,
-                start.plus({ minutes: 22 }).toUTC().toISO()!,
-                rnd,
-                t.raDeg === LANTERN.raDeg,
-              );
-              counts.measurements++;
-            }
-          }
-        }
-        if (past) {
-          await store.nightReports.createIn(tx, actor, {
-            nightId: night.id,
-            seeingArcsec: Number((0.45 + 0.5 * rnd.uniform()).toFixed(2)),
-            strehlRatio: site.laserGuideStar
-              ? Number((0.25 + 0.35 * rnd.uniform()).toFixed(2))
-              : null,
-            cloudCoverPct: lost ? 90 : Math.round(20 * rnd.uniform()),
-            humidityPct: lost ? 88 : Math.round(8 + 30 * rnd.uniform()),
-            windMS: Number((2 + 9 * rnd.uniform()).toFixed(1)),
-            temperatureC: Number(((site.temperatureC ?? 5) - 3 + 4 * rnd.uniform()).toFixed(1)),
-            timeLostHours: lost ? 9.5 : 0,
-            timeLostReason: lost ? 'dome closed: humidity above the limit' : '',
-            notes: lost ? 'Fog from the valley all night.' : 'Stable night.',
-            outcomes,
-          });
-          counts.reports++;
-        }
-      }
-    }
-    // Earlier seasons: one astrometric epoch a year per star, made before this campaign began.
-    for (const { target, orbit } of stars) {
-      for (let year = 2018; year <= 2025; year++) {
-        await addMeasurement(
-          store,
-          tx,
-          actor,
-          target.id,
-          orbit,
-          null,
-          'astrometry',
-          jdToIso(parseEpoch(`J${year}.45`)),
-          rnd,
-          false,
-        );
-        counts.measurements++;
-      }
-    }
+    const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
+    const ctx = { store, tx, actor, rnd, made, counts, anchor };
+    for (const plan of demoPlans(anchor, campaigns, stars, lanternB))
+      await loadPlan(ctx, sites[plan.siteIndex]!, plan);
+    await earlierEpochs(ctx, stars, lanternB);
+    await storeFits(ctx, stars, lanternB);
   });
   return counts;
 }
 
-async function addMeasurement(
+interface LoadContext {
+  store: StoreContext;
+  tx: DbOrTx;
+  actor: Actor;
+  rnd: ReturnType<typeof noise>;
+  made: Made;
+  counts: Counts;
+  anchor: DemoAnchor;
+}
+
+async function demoCampaigns(
   store: StoreContext,
   tx: DbOrTx,
   actor: Actor,
-  targetId: number,
-  orbitInput: OrbitInput,
+  anchor: DemoAnchor,
+  stars: Star[],
+  lanternB: Star,
+  sites: SiteRow[],
+) {
+  const passageYear = anchor.day(DEMO_DAYS.periapsis).slice(0, 4);
+  const passage = await store.campaigns.createIn(tx, actor, {
+    name: `Vesper Core passage ${passageYear}`,
+    startDate: anchor.day(DEMO_DAYS.passageCampaign.start),
+    endDate: anchor.day(DEMO_DAYS.passageCampaign.end),
+    goals: {
+      cadenceDays: 14,
+      densifiedCadenceDays: 7,
+      densifyWithinDays: 30,
+      kinds: ['astrometry', 'spectroscopy'],
+      laserGuideStar: { astrometry: true },
+    },
+    limits: { highestAirmass: 1.8, leastMoonDistanceDeg: 30, darkness: 'astronomical' },
+    targetIds: stars.map((s) => s.target.id),
+    siteIds: sites.map((s) => s.id),
+    notes: `Follow ${HEADLINE} through its periapsis; keep the other stars on a yearly cadence.`,
+  });
+  const binary = await store.campaigns.createIn(tx, actor, {
+    name: 'Lantern Pair orbit',
+    startDate: anchor.day(DEMO_DAYS.binaryCampaign.start),
+    endDate: anchor.day(DEMO_DAYS.binaryCampaign.end),
+    goals: { cadenceDays: 21, kinds: ['astrometry'] },
+    limits: { highestAirmass: 2, darkness: 'nautical' },
+    targetIds: [lanternB.target.id],
+    siteIds: [sites[1]!.id],
+  });
+  return { passage: passage.id, binary: binary.id };
+}
+
+function demoPlans(
+  anchor: DemoAnchor,
+  campaigns: { passage: number; binary: number },
+  stars: Star[],
+  lanternB: Star,
+): Plan[] {
+  const [headline, second] = [stars[0]!, stars[1]!];
+  const of = (s: Star, kinds: Plan['targets'][number]['kinds']) => ({
+    id: s.target.id,
+    raDeg: s.raDeg,
+    orbit: s.orbit,
+    kinds,
+  });
+  const coming = [
+    ...new Set([
+      ...nightsOf(anchor, DEMO_DAYS.comingSeason),
+      ...nightsOf(anchor, DEMO_DAYS.densified),
+    ]),
+  ].sort();
+  return [
+    {
+      campaignId: campaigns.passage,
+      siteIndex: 0,
+      dates: nightsOf(anchor, DEMO_DAYS.pastSeason),
+      targets: [of(headline, ['astrometry', 'spectroscopy']), of(second, ['astrometry'])],
+    },
+    {
+      campaignId: campaigns.passage,
+      siteIndex: 0,
+      dates: coming,
+      targets: [of(headline, ['astrometry', 'spectroscopy'])],
+    },
+    {
+      campaignId: campaigns.passage,
+      siteIndex: 1,
+      dates: nightsOf(anchor, DEMO_DAYS.secondSite),
+      targets: [of(headline, ['spectroscopy'])],
+    },
+    {
+      campaignId: campaigns.binary,
+      siteIndex: 1,
+      dates: nightsOf(anchor, DEMO_DAYS.binarySeason),
+      targets: [{ ...of(lanternB, ['astrometry']), speckle: true }],
+    },
+  ];
+}
+
+/** How a past night went: clear, cut short (the later blocks lost), or lost whole. */
+function weather(ctx: LoadContext, date: string): { lostHours: number; cutAfter: number | null } {
+  const bad =
+    date >= ctx.anchor.day(DEMO_DAYS.badMonth.start) &&
+    date <= ctx.anchor.day(DEMO_DAYS.badMonth.end);
+  const u = ctx.rnd.uniform();
+  if (u < (bad ? 0.8 : 0.15)) return { lostHours: 9.5, cutAfter: 0 };
+  if (u < (bad ? 0.85 : 0.3))
+    return { lostHours: Number((1 + 3 * ctx.rnd.uniform()).toFixed(1)), cutAfter: 1 };
+  return { lostHours: 0, cutAfter: null };
+}
+
+async function loadPlan(ctx: LoadContext, site: SiteRow, plan: Plan): Promise<void> {
+  const { store, tx, actor, counts, anchor } = ctx;
+  for (const date of plan.dates) {
+    const night = await store.nights.createIn(tx, actor, {
+      siteId: site.id,
+      campaignId: plan.campaignId,
+      date,
+    });
+    counts.nights++;
+    const past = date < anchor.today;
+    const w = past ? weather(ctx, date) : { lostHours: 0, cutAfter: null };
+    const outcomes = [];
+    const blockCount = plan.targets.reduce((n, t) => n + t.kinds.length, 0);
+    const first = runStart(site, date, plan.targets[0]!.raDeg, blockCount * 50);
+    let k = 0;
+    for (const t of plan.targets) {
+      for (const kind of t.kinds) {
+        const start = first.plus({ minutes: 50 * k });
+        const lost = w.cutAfter !== null && k >= w.cutAfter;
+        k++;
+        const block = await store.blocks.createIn(tx, actor, {
+          nightId: night.id,
+          targetId: t.id,
+          kind,
+          startUtc: start.toUTC().toISO()!,
+          endUtc: start.plus({ minutes: 45 }).toUTC().toISO()!,
+          laserGuideStar: site.laserGuideStar && kind === 'astrometry',
+          origin: 'season-plan', // the demo's nights stand for an earlier accepted plan, so a re-plan may replace their future blocks
+        });
+        counts.blocks++;
+        if (!past) continue;
+        outcomes.push({
+          blockId: block.id,
+          status: lost ? 'lost' : 'obtained',
+          exposureMinutes: lost ? 0 : 40,
+        });
+        if (!lost)
+          await addMeasurement(
+            ctx,
+            t,
+            block.id,
+            kind,
+            start.plus({ minutes: 22 }).toUTC().toISO()!,
+          );
+      }
+    }
+    if (past) await addReport(ctx, site, night.id, w, outcomes);
+  }
+}
+async function addReport(
+  ctx: LoadContext,
+  site: SiteRow,
+  nightId: number,
+  w: { lostHours: number; cutAfter: number | null },
+  outcomes: { blockId: number; status: string; exposureMinutes: number }[],
+): Promise<void> {
+  const { rnd } = ctx;
+  const whole = w.cutAfter === 0;
+  await ctx.store.nightReports.createIn(ctx.tx, ctx.actor, {
+    nightId,
+    seeingArcsec: Number((0.45 + 0.5 * rnd.uniform()).toFixed(2)),
+    strehlRatio: site.laserGuideStar ? Number((0.25 + 0.35 * rnd.uniform()).toFixed(2)) : null,
+    cloudCoverPct: whole ? 90 : w.lostHours > 0 ? 60 : Math.round(20 * rnd.uniform()),
+    humidityPct: whole ? 88 : Math.round(8 + 30 * rnd.uniform()),
+    windMS: Number((w.lostHours > 0 && !whole ? 14 : 2 + 9 * rnd.uniform()).toFixed(1)),
+    temperatureC: Number(((site.temperatureC ?? 5) - 3 + 4 * rnd.uniform()).toFixed(1)),
+    timeLostHours: w.lostHours,
+    timeLostReason: whole
+      ? 'dome closed: humidity above the limit'
+      : w.lostHours > 0
+        ? 'dome closed early: wind above the limit'
+        : '',
+    notes: whole
+      ? 'Fog from the valley all night.'
+      : w.lostHours > 0
+        ? 'Clear at first; wind rose after the first block.'
+        : 'Stable night.',
+    outcomes,
+  });
+  ctx.counts.reports++;
+}
+
+/** Epochs from earlier seasons, made before the campaign began: one a year near opposition. */
+async function earlierEpochs(ctx: LoadContext, stars: Star[], lanternB: Star): Promise<void> {
+  for (const s of stars)
+    for (let k = 1; k <= 12; k++)
+      await addMeasurement(
+        ctx,
+        { id: s.target.id, orbit: s.orbit },
+        null,
+        'astrometry',
+        ctx.anchor.yearsFrom(-(k + 0.467)),
+      );
+  for (let k = 1; k <= 14; k++)
+    await addMeasurement(
+      ctx,
+      { id: lanternB.target.id, orbit: lanternB.orbit, speckle: true },
+      null,
+      'astrometry',
+      ctx.anchor.yearsFrom(-(k - 0.05)),
+    );
+}
+
+/**
+ * The orbit engine's fits to the demo measurements, stored as each target's current solution
+ * (provenance "fitted", with covariance): the Vesper Core stars jointly (shared mass, distance and
+ * γ), the Lantern Pair alone at its stated distance. Started from the entered orbits, as a stored
+ * fit is.
+ */
+async function storeFits(ctx: LoadContext, stars: Star[], lanternB: Star): Promise<void> {
+  const star = (s: Star) => ({
+    name: s.target.name,
+    measurements: (ctx.made.get(s.target.id) ?? []).map(toInput),
+    // Search near the entered orbit only (as a stored fit's defaults do, but narrower, for a quick load).
+    hints: {
+      periodYears: {
+        min: 0.97 * s.orbit.elements.periodYears!,
+        max: 1.03 * s.orbit.elements.periodYears!,
+      },
+      eccentricity: {
+        min: Math.max(0, s.orbit.elements.eccentricity! - 0.05),
+        max: Math.min(0.97, s.orbit.elements.eccentricity! + 0.05),
+      },
+      start: {
+        elements: toCampbellInput(validateOrbit(s.orbit)),
+        ...(s.orbit.distancePc ? { distancePc: s.orbit.distancePc } : {}),
+        systemicVelocityKmS: s.orbit.systemicVelocityKmS ?? 0,
+      },
+    },
+  });
+  const [headline, ...others] = stars;
+  const fits: [Star[], FitRequest][] = [
+    [[headline!], { stars: [star(headline!)], relativity: { ...headline!.orbit.relativity } }],
+    ...others.map((s): [Star[], FitRequest] => [
+      [s],
+      { stars: [star(s)], fixed: { distancePc: s.orbit.distancePc! } },
+    ]),
+    [[lanternB], { stars: [star(lanternB)], fixed: { distancePc: lanternB.orbit.distancePc! } }],
+  ];
+  for (const [group, request] of fits) {
+    const result = fitOrbits(request);
+    const reference = `demo fit at load: χ² = ${result.chi2.toFixed(1)} for ${result.dof} degrees of freedom`;
+    for (const [k, s] of group.entries())
+      await ctx.store.orbitSolutions.createIn(ctx.tx, ctx.actor, {
+        targetId: s.target.id,
+        orbit: result.stars[k]!.orbit,
+        provenance: 'fitted',
+        fittedFrom: (ctx.made.get(s.target.id) ?? []).map((m) => m.id),
+        reference,
+        makeCurrent: true,
+      });
+  }
+}
+
+async function addMeasurement(
+  ctx: LoadContext,
+  t: Pick<PlanTarget, 'id' | 'orbit' | 'speckle'>,
   blockId: number | null,
   kind: 'astrometry' | 'spectroscopy',
   epoch: string,
-  rnd: ReturnType<typeof noise>,
-  speckle: boolean,
-) {
-  const p = predict(validateOrbit(orbitInput), unixMsToJd(Date.parse(epoch)));
+): Promise<void> {
+  const { rnd } = ctx;
+  const p = predict(validateOrbit(t.orbit), unixMsToJd(Date.parse(epoch)));
   const round = (x: number, d: number) => Number(x.toFixed(d));
-  const base = { targetId, blockId, epoch };
-  if (kind === 'spectroscopy') {
-    await store.measurements.createIn(tx, actor, {
-      ...base,
-      kind: 'radial-velocity',
-      radialVelocityKmS: round(p.radialVelocityKmS! + 12 * rnd.gauss(), 1),
-      sigmaRadialVelocityKmS: 12,
-      instrument: INSTRUMENTS.spectrograph,
-    });
-  } else if (speckle) {
-    await store.measurements.createIn(tx, actor, {
-      ...base,
-      kind: 'separation',
-      separationMas: round(p.separationMas + 2 * rnd.gauss(), 1),
-      positionAngleDeg: round((p.positionAngleDeg + 0.3 * rnd.gauss() + 360) % 360, 2),
-      sigmaSeparationMas: 2,
-      sigmaPositionAngleDeg: 0.3,
-      instrument: INSTRUMENTS.speckle,
-    });
-  } else {
-    await store.measurements.createIn(tx, actor, {
-      ...base,
-      kind: 'offsets',
-      dRaMas: round(p.dRaMas + 0.4 * rnd.gauss(), 2),
-      dDecMas: round(p.dDecMas + 0.4 * rnd.gauss(), 2),
-      sigmaDRaMas: 0.4,
-      sigmaDDecMas: 0.4,
-      correlation: 0.1,
-      instrument: INSTRUMENTS.imager,
-    });
-  }
+  const base = { targetId: t.id, blockId, epoch };
+  const input =
+    kind === 'spectroscopy'
+      ? {
+          ...base,
+          kind: 'radial-velocity',
+          radialVelocityKmS: round(p.radialVelocityKmS! + 12 * rnd.gauss(), 1),
+          sigmaRadialVelocityKmS: 12,
+          instrument: INSTRUMENTS.spectrograph,
+        }
+      : t.speckle
+        ? {
+            ...base,
+            kind: 'separation',
+            separationMas: round(p.separationMas + 2 * rnd.gauss(), 1),
+            positionAngleDeg: round((p.positionAngleDeg + 0.3 * rnd.gauss() + 360) % 360, 2),
+            sigmaSeparationMas: 2,
+            sigmaPositionAngleDeg: 0.3,
+            instrument: INSTRUMENTS.speckle,
+          }
+        : {
+            ...base,
+            kind: 'offsets',
+            dRaMas: round(p.dRaMas + 0.4 * rnd.gauss(), 2),
+            dDecMas: round(p.dDecMas + 0.4 * rnd.gauss(), 2),
+            sigmaDRaMas: 0.4,
+            sigmaDDecMas: 0.4,
+            correlation: 0.1,
+            instrument: INSTRUMENTS.imager,
+          };
+  const row = await ctx.store.measurements.createIn(ctx.tx, ctx.actor, input);
+  ctx.made.set(t.id, [...(ctx.made.get(t.id) ?? []), row]);
+  ctx.counts.measurements++;
 }

@@ -2,34 +2,102 @@
  * The demo campaign: an invented scenario. Every name, position and number here is made up for
  * the demo; none describes a real object, site, person or instrument.
  *
- * Vesper Core is an invented compact object of 2.6 million solar masses at 7.4 kpc with four
- * stars on eccentric orbits (s1 passes periapsis in June 2027); the Lantern Pair is an invented
- * visual binary at 18.6 pc. Semi-major axes follow from Kepler's third law, M = a³/P², so the
- * stored orbits agree with the stated masses.
+ * Vesper Core is an invented compact object of 2 × 10⁷ solar masses at 15 kpc with four stars on
+ * eccentric orbits; the Lantern Pair is an invented visual binary at 18.6 pc. Semi-major axes
+ * follow from Kepler's third law, M = a³/P², so the stored orbits agree with the stated masses.
+ *
+ * The scenario is built relative to the moment it is loaded (the server's clock at first start),
+ * so it is alive on any date: Ilex, the headline star, passes periapsis DEMO_DAYS.periapsis days
+ * after that day, with a past season of nights behind it and allocated nights ahead at both sites.
+ * Right ascensions turn with the anchor's day of the year, so each season falls at the same time
+ * of year relative to the Sun as on the day the scenario was drawn up (DESIGNED_ON).
  */
+import { DateTime } from 'luxon';
+import { JULIAN_YEAR_DAYS } from '../../science/constants.ts';
 import type { OrbitInput } from '../../science/orbit/index.ts';
+import { jdToIso, parseEpoch } from '../../science/time/index.ts';
 
-export const VESPER = {
-  name: 'Vesper Core',
-  raDeg: 263.842,
-  decDeg: -21.716,
-  pmRaMasYr: -2.9,
-  pmDecMasYr: -5.1,
-  distancePc: 7400,
-  massSolar: 2.6e6,
-  notes: 'Invented compact object for the demo campaign.',
-};
-export const LANTERN = {
-  name: 'Lantern Pair',
-  raDeg: 96.318,
-  decDeg: 12.407,
-  pmRaMasYr: 143.2,
-  pmDecMasYr: -61.8,
-  positionEpoch: 'J2016.0',
-  distancePc: 18.6,
-  massSolar: 1.9,
-  notes: 'Invented visual binary for the demo campaign; position at J2016.0, moving 1.7″ by 2027.',
-};
+/** The day the scenario's offsets were drawn up for; any other anchor shifts it as a whole. */
+const DESIGNED_ON = '2026-12-01';
+
+/** The demo's calendar, in days from the anchor day (negative: before). */
+export const DEMO_DAYS = {
+  /** Ilex's periapsis (at 06:00 UTC), about six and a half months ahead. */
+  periapsis: 195,
+  passageCampaign: { start: -275, end: 334 },
+  binaryCampaign: { start: -61, end: 150 },
+  /** The past season at Tolvane Ridge, every 14 nights. */
+  pastSeason: { start: -241, end: -66, step: 14 },
+  /** The coming season at Tolvane Ridge, every 14 nights, and every 7 within a month of periapsis. */
+  comingSeason: { start: 95, end: 298, step: 14 },
+  densified: { start: 165, end: 226, step: 7 },
+  /** Spectroscopy of Ilex at Ostrel Summit, every 28 nights. */
+  secondSite: { start: 123, end: 270, step: 28 },
+  /** The Lantern Pair at Ostrel Summit, every 21 nights, around the anchor. */
+  binarySeason: { start: -52, end: 144, step: 21 },
+  /** Seven weeks of bad weather in the past season: most of its nights are lost. */
+  badMonth: { start: -200, end: -150 },
+} as const;
+
+/** The anchor's calendar: dates from day offsets, and how far the sky has turned since DESIGNED_ON. */
+export interface DemoAnchor {
+  /** The anchor day, YYYY-MM-DD (UTC). */
+  today: string;
+  day: (offset: number) => string;
+  /** An ISO 8601 instant `years` Julian years from the anchor day's noon UTC. */
+  yearsFrom: (years: number) => string;
+  /** Right-ascension shift, degrees, that keeps each season at its time of year. */
+  raShiftDeg: number;
+}
+
+export function demoAnchor(nowIso: string): DemoAnchor {
+  const today = nowIso.slice(0, 10);
+  const base = DateTime.fromISO(today, { zone: 'UTC' });
+  const days = base.diff(DateTime.fromISO(DESIGNED_ON, { zone: 'UTC' }), 'days').days;
+  const noonJd = parseEpoch(`${today}T12:00:00Z`);
+  return {
+    today,
+    day: (offset) => base.plus({ days: offset }).toISODate()!,
+    yearsFrom: (years) => jdToIso(noonJd + years * JULIAN_YEAR_DAYS),
+    raShiftDeg: ((((days / JULIAN_YEAR_DAYS) % 1) + 1) % 1) * 360,
+  };
+}
+
+/** Ilex's periapsis for a given anchor: what the demo's tests and screens look for. */
+export function demoPeriapsis(nowIso: string): string {
+  return `${demoAnchor(nowIso).day(DEMO_DAYS.periapsis)}T06:00:00.000Z`;
+}
+
+function turned(raDeg: number, anchor: DemoAnchor): number {
+  return Number((((raDeg + anchor.raShiftDeg) % 360) + 360).toFixed(3)) % 360;
+}
+
+export function vesperSystem(anchor: DemoAnchor) {
+  return {
+    name: 'Vesper Core',
+    raDeg: turned(263.842, anchor),
+    decDeg: -21.716,
+    pmRaMasYr: -2.9,
+    pmDecMasYr: -5.1,
+    distancePc: 15_000,
+    massSolar: 2e7,
+    notes: 'Invented compact object for the demo campaign.',
+  };
+}
+export function lanternSystem(anchor: DemoAnchor) {
+  return {
+    name: 'Lantern Pair',
+    raDeg: turned(96.318, anchor),
+    decDeg: 12.407,
+    pmRaMasYr: 143.2,
+    pmDecMasYr: -61.8,
+    positionEpoch: 'J2016.0',
+    distancePc: 18.6,
+    massSolar: 1.9,
+    notes:
+      'Invented visual binary for the demo campaign; catalogue position at J2016.0, moving 156 mas a year.',
+  };
+}
 
 /** Angular semi-major axis, arcsec, from mass (M☉), period (yr) and distance (pc): a[au] = (M·P²)^(1/3). */
 export function keplerAxisArcsec(
@@ -45,53 +113,57 @@ interface DemoStar {
   magnitude: number;
   band: string;
   periodYears: number;
-  periapsis: string;
+  /** Periapsis, Julian years from the anchor day (Ilex's is set by DEMO_DAYS.periapsis). */
+  periapsisYears: number | null;
   eccentricity: number;
   inclinationDeg: number;
   ascendingNodeDeg: number;
   argPeriapsisDeg: number;
 }
 
+/** The headline star, followed through its periapsis. */
+export const HEADLINE = 'Ilex';
+
 export const VESPER_STARS: DemoStar[] = [
   {
-    name: 'VC s1',
+    name: HEADLINE,
     magnitude: 14.2,
     band: 'K',
     periodYears: 14.2,
-    periapsis: '2027-06-14T06:00:00Z',
-    eccentricity: 0.87,
-    inclinationDeg: 128,
-    ascendingNodeDeg: 231,
-    argPeriapsisDeg: 64,
+    periapsisYears: null,
+    eccentricity: 0.85,
+    inclinationDeg: 52,
+    ascendingNodeDeg: 147,
+    argPeriapsisDeg: 238,
   },
   {
-    name: 'VC s2',
+    name: 'Morrow',
     magnitude: 15.1,
     band: 'K',
     periodYears: 9.6,
-    periapsis: 'J2024.2',
+    periapsisYears: -2.717,
     eccentricity: 0.62,
     inclinationDeg: 42,
     ascendingNodeDeg: 110,
     argPeriapsisDeg: 300,
   },
   {
-    name: 'VC s3',
+    name: 'Quill',
     magnitude: 13.8,
     band: 'K',
     periodYears: 31.0,
-    periapsis: 'J2041.7',
+    periapsisYears: 14.783,
     eccentricity: 0.93,
     inclinationDeg: 75,
     ascendingNodeDeg: 12,
     argPeriapsisDeg: 190,
   },
   {
-    name: 'VC s4',
+    name: 'Sorrel',
     magnitude: 15.9,
     band: 'K',
     periodYears: 48.0,
-    periapsis: 'J2012.4',
+    periapsisYears: -14.517,
     eccentricity: 0.41,
     inclinationDeg: 150,
     ascendingNodeDeg: 300,
@@ -99,53 +171,51 @@ export const VESPER_STARS: DemoStar[] = [
   },
 ];
 
-export function vesperOrbit(s: DemoStar): OrbitInput {
+export function vesperOrbit(s: DemoStar, anchor: DemoAnchor): OrbitInput {
+  const vesper = vesperSystem(anchor);
   return {
     elements: {
       periodYears: s.periodYears,
-      periapsis: s.periapsis,
+      periapsis:
+        s.periapsisYears === null
+          ? `${anchor.day(DEMO_DAYS.periapsis)}T06:00:00Z`
+          : anchor.yearsFrom(s.periapsisYears),
       eccentricity: s.eccentricity,
       semiMajorAxisArcsec: Number(
-        keplerAxisArcsec(VESPER.massSolar, s.periodYears, VESPER.distancePc).toFixed(6),
+        keplerAxisArcsec(vesper.massSolar, s.periodYears, vesper.distancePc).toFixed(6),
       ),
       inclinationDeg: s.inclinationDeg,
       ascendingNodeDeg: s.ascendingNodeDeg,
       argPeriapsisDeg: s.argPeriapsisDeg,
     },
-    distancePc: VESPER.distancePc,
+    distancePc: vesper.distancePc,
     systemicVelocityKmS: 4.0,
     // Relativistic terms matter only for the star that dives deepest.
     relativity:
-      s.name === 'VC s1'
+      s.name === HEADLINE
         ? { romer: true, gravitationalRedshift: true, transverseDoppler: true, precession: true }
         : {},
   };
 }
 
-export const LANTERN_B_ORBIT: OrbitInput = {
-  elements: {
-    periodYears: 27.3,
-    periapsis: 'J2019.7',
-    eccentricity: 0.47,
-    semiMajorAxisArcsec: Number(
-      keplerAxisArcsec(LANTERN.massSolar, 27.3, LANTERN.distancePc).toFixed(5),
-    ),
-    inclinationDeg: 61,
-    ascendingNodeDeg: 145,
-    argPeriapsisDeg: 233,
-  },
-  distancePc: LANTERN.distancePc,
-  systemicVelocityKmS: -11.3,
-  covariance: {
-    parameters: ['periodYears', 'periapsisDays', 'eccentricity', 'semiMajorAxisArcsec'],
-    matrix: [
-      [0.04, 2.0, 0.0006, 0.0001],
-      [2.0, 400, 0.02, 0.004],
-      [0.0006, 0.02, 0.0001, 0.000002],
-      [0.0001, 0.004, 0.000002, 0.000009],
-    ],
-  },
-};
+export function lanternOrbit(anchor: DemoAnchor): OrbitInput {
+  const lantern = lanternSystem(anchor);
+  return {
+    elements: {
+      periodYears: 27.3,
+      periapsis: anchor.yearsFrom(-7.217),
+      eccentricity: 0.47,
+      semiMajorAxisArcsec: Number(
+        keplerAxisArcsec(lantern.massSolar, 27.3, lantern.distancePc).toFixed(5),
+      ),
+      inclinationDeg: 61,
+      ascendingNodeDeg: 145,
+      argPeriapsisDeg: 233,
+    },
+    distancePc: lantern.distancePc,
+    systemicVelocityKmS: -11.3,
+  };
+}
 
 export const SITES = [
   {

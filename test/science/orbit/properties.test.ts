@@ -239,7 +239,7 @@ describe('orbit properties (fast-check)', () => {
         ascendingNodeDeg: 10,
         argPeriapsisDeg: 300,
       },
-      distancePc: 8000,
+      distancePc: 16_000,
       relativity: { romer: true, precession: true },
     });
     const jd = Float64Array.from({ length: 50 }, (_, i) => o.periapsisJd + i * 37.3);

@@ -67,26 +67,26 @@ describe('relativistic terms and constants', () => {
     expect(massSolar(1, 365.25636)).toBeCloseTo(1, 4);
   });
 
-  it('puts a 16-year orbit around 4 million suns at 26,000 light years near 1000 au and 0.125″', () => {
-    // Facts of the trade for a star around a galactic-nucleus black hole: orbit under 16 years, mass over
-    // 4 million suns, about 26,000 light years away → a ≈ 1000 au ≈ 0.125″. Common practice, no source.
-    const distancePc = (26_000 * LIGHT_YEAR_M) / PARSEC_M;
+  it('puts a 20-year orbit around 20 million suns at 50,000 light years near 2000 au and 0.13″', () => {
+    // Kepler's third law in solar units, a[au]³ = M P², with invented round values: 20 million suns and
+    // 20 years give a = (2·10⁷·400)^(1/3) = 2000 au; at 50,000 light years (15,330 pc) that is 0.1305″.
+    // Common practice, no source.
+    const distancePc = (50_000 * LIGHT_YEAR_M) / PARSEC_M;
     const orbit = validateOrbit({
       elements: {
-        periodYears: 16,
+        periodYears: 20,
         periapsis: '2030-01-01',
-        eccentricity: 0.88,
-        semiMajorAxisArcsec: 0.125,
-        inclinationDeg: 130,
-        ascendingNodeDeg: 230,
-        argPeriapsisDeg: 65,
+        eccentricity: 0.7,
+        semiMajorAxisArcsec: 0.1305,
+        inclinationDeg: 40,
+        ascendingNodeDeg: 100,
+        argPeriapsisDeg: 150,
       },
       distancePc,
     });
     const q = physicalQuantities(orbit);
-    expect(Math.abs(q.semiMajorAxisAu - 1000) / 1000).toBeLessThan(0.02);
-    expect(q.massSolar).toBeGreaterThan(3.7e6);
-    expect(q.massSolar).toBeLessThan(4.3e6);
+    expect(Math.abs(q.semiMajorAxisAu - 2000) / 2000).toBeLessThan(0.002);
+    expect(Math.abs(q.massSolar - 2e7) / 2e7).toBeLessThan(0.006); // 3 × the axis's relative error
   });
 });
 
@@ -100,10 +100,10 @@ describe('relativistic terms in a prediction', () => {
     ascendingNodeDeg: 200,
     argPeriapsisDeg: 70,
   };
-  const off = validateOrbit({ elements, distancePc: 8100, systemicVelocityKmS: -12 });
+  const off = validateOrbit({ elements, distancePc: 16_000, systemicVelocityKmS: -12 });
   const on = validateOrbit({
     elements,
-    distancePc: 8100,
+    distancePc: 16_000,
     systemicVelocityKmS: -12,
     relativity: {
       gravitationalRedshift: true,
@@ -141,7 +141,7 @@ describe('relativistic terms in a prediction', () => {
     // Precession alone, so that the light time does not shift the emission instant.
     const precessing = validateOrbit({
       elements,
-      distancePc: 8100,
+      distancePc: 16_000,
       relativity: { precession: true },
     });
     const p = predict(precessing, T + off.periodDays);

@@ -21,7 +21,7 @@ const orbitInput = {
     ascendingNodeDeg: 221,
     argPeriapsisDeg: 63,
   },
-  distancePc: 8100,
+  distancePc: 16_000,
   covariance: {
     parameters: ['periodYears', 'periapsisDays', 'eccentricity'] as (
       | 'periodYears'

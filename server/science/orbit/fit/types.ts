@@ -111,7 +111,7 @@ export interface FitRequest {
   frame?: { offset?: boolean; drift?: boolean };
   /** Reference epoch of the frame drift. Default: the mean astrometric epoch. */
   frameEpoch?: string | number;
-  /** Parameters held at a value, by reported name (e.g. "distancePc", "S1.eccentricity"). */
+  /** Parameters held at a value, by reported name (e.g. "distancePc", "Ilex.eccentricity"). */
   fixed?: Record<string, number>;
   /** Gaussian priors, by reported name. */
   priors?: Record<string, PriorInput>;

@@ -51,16 +51,16 @@ const edgeOnTruth: OrbitInput = {
 };
 /** Face-on: i, Ω and ω are not separately defined; the fit's Thiele–Innes constants are. */
 const faceOnTruth: OrbitInput = { elements: elements(9, 'J2020.3', 0.45, 0.18, 0, 0, 130) };
-/** A star around a compact object of ~4 million M☉ at 8 kpc, periapsis inside the data. */
+/** A star around an invented compact object (~3 × 10⁷ M☉ at 16 kpc), periapsis inside the data. */
 const coveredTruth: OrbitInput = {
-  elements: elements(15, 'J2021.4', 0.92, 0.12, 130, 225, 65),
-  distancePc: 8000,
+  elements: elements(15, 'J2021.4', 0.92, 0.12, 50, 140, 250),
+  distancePc: 16_000,
   systemicVelocityKmS: 0,
 };
 /** The same kind of star observed only on the far side of its orbit, periapsis not reached. */
 const uncoveredTruth: OrbitInput = {
   elements: elements(18, 'J2034.0', 0.91, 0.14, 70, 40, 300),
-  distancePc: 8000,
+  distancePc: 16_000,
   systemicVelocityKmS: 0,
 };
 

@@ -36,7 +36,7 @@ const star = (
         ascendingNodeDeg: 130,
         argPeriapsisDeg: 250,
       },
-      distancePc: 8100,
+      distancePc: 16_000,
       systemicVelocityKmS: 12,
     },
     {
@@ -69,7 +69,7 @@ function worstRelativeError(request: FitRequest): number {
     bArcsec: 300,
     fArcsec: 210,
     gArcsec: 90,
-    distancePc: 8150,
+    distancePc: 16_050,
     massSolar: 4.1e6,
     systemicVelocityKmS: 10,
     offsetRaMas: 0.3,

@@ -9,8 +9,8 @@ import type { OrbitInput } from '../../../../server/science/orbit/index.ts';
 import { SeededRandom } from '../../../../server/science/random.ts';
 import { epochs, simulate } from './simulate.ts';
 
-const MASS = 4.1e6; // M☉, invented
-const DISTANCE = 8100; // pc, invented
+const MASS = 3.2e7; // M☉, invented
+const DISTANCE = 16_000; // pc, invented
 const J2015 = 2457023.5;
 
 function star(

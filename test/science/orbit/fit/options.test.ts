@@ -102,7 +102,7 @@ describe('fit options', () => {
   });
 
   it('needs the relativistic terms to fit velocities of a star that dives deep', () => {
-    // Around 4 × 10⁶ M☉ at 8 kpc with e = 0.95, the gravitational redshift GM/(rc) at periapsis is a few hundred
+    // Around 3.2 × 10⁷ M☉ at 16 kpc (invented) with e = 0.95, the gravitational redshift GM/(rc) at periapsis is a few hundred
     // km/s against 5 km/s errors (relativity.ts, whose formula docs/REFERENCES.md's solar-redshift value checks).
     // Thresholds: χ²/dof below 1.3 with the right model, above 2 without it (common practice, no source).
     const rel = {
@@ -111,7 +111,7 @@ describe('fit options', () => {
       transverseDoppler: true,
       precession: true,
     };
-    const aArcsec = Math.cbrt(4e6 * 16 ** 2) / 8000;
+    const aArcsec = Math.cbrt(3.2e7 * 16 ** 2) / 16_000;
     const truth = {
       elements: {
         periodYears: 16,
@@ -122,7 +122,7 @@ describe('fit options', () => {
         ascendingNodeDeg: 230,
         argPeriapsisDeg: 65,
       },
-      distancePc: 8000,
+      distancePc: 16_000,
       systemicVelocityKmS: 0,
       relativity: rel,
     };

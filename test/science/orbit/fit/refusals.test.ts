@@ -47,14 +47,14 @@ function refusal(request: FitRequest): FitRefusal {
 
 describe('fit refusals', () => {
   it('refuses fewer measurements than free parameters', () => {
-    const r = refusal({ stars: [{ name: 'S7', measurements: good.slice(0, 3) }] });
+    const r = refusal({ stars: [{ name: 'Wren', measurements: good.slice(0, 3) }] });
     expect(r.reason).toBe('too-few-measurements');
     expect(r.message).toMatch(/6 measurement components .* for 7 free parameters/);
   });
 
   it('refuses epochs that all fall on one night', () => {
     const oneNight = good.slice(0, 10).map((m) => ({ ...m, epoch: J2015 + 0.0001 }));
-    const r = refusal({ stars: [{ name: 'S7', measurements: oneNight }] });
+    const r = refusal({ stars: [{ name: 'Wren', measurements: oneNight }] });
     expect(r.reason).toBe('single-phase');
     expect(r.message).toMatch(/one orbital phase/);
   });
@@ -67,7 +67,7 @@ describe('fit refusals', () => {
       6,
     );
     const r = refusal({
-      stars: [{ name: 'S7', measurements: samePhase }],
+      stars: [{ name: 'Wren', measurements: samePhase }],
       fixed: { periodYears: 10 },
     });
     expect(r.reason).toBe('single-phase');
@@ -85,7 +85,7 @@ describe('fit refusals', () => {
     const r = refusal({
       stars: [
         {
-          name: 'S7',
+          name: 'Wren',
           measurements: [...good, ...rvNight],
           hints: { periodYears: { min: 8, max: 12 } },
         },
@@ -103,14 +103,16 @@ describe('fit refusals', () => {
       radialVelocityKmS: 20,
       sigmaRadialVelocityKmS: 1,
     }));
-    expect(refusal({ stars: [{ name: 'S7', measurements: rvOnly }] }).reason).toBe('no-astrometry');
+    expect(refusal({ stars: [{ name: 'Wren', measurements: rvOnly }] }).reason).toBe(
+      'no-astrometry',
+    );
   });
 
   it('refuses a joint fit whose distance nothing constrains', () => {
     const r = refusal({
       stars: [
-        { name: 'S7', measurements: good, hints: { periodYears: { min: 8, max: 12 } } },
-        { name: 'S8', measurements: good, hints: { periodYears: { min: 8, max: 12 } } },
+        { name: 'Wren', measurements: good, hints: { periodYears: { min: 8, max: 12 } } },
+        { name: 'Heron', measurements: good, hints: { periodYears: { min: 8, max: 12 } } },
       ],
     });
     expect(r.reason).toBe('singular');
@@ -119,25 +121,25 @@ describe('fit refusals', () => {
 
   it('rejects bad input naming the field, the value and the rule', () => {
     const bad = good.map((m, k) => (k === 2 ? { ...m, sigmaDRaMas: 0 } : m));
-    expect(() => fitOrbits({ stars: [{ name: 'S7', measurements: bad }] })).toThrow(InputError);
+    expect(() => fitOrbits({ stars: [{ name: 'Wren', measurements: bad }] })).toThrow(InputError);
     try {
-      fitOrbits({ stars: [{ name: 'S7', measurements: bad }] });
+      fitOrbits({ stars: [{ name: 'Wren', measurements: bad }] });
     } catch (err) {
       expect((err as InputError).field).toBe('stars.0.measurements.2.sigmaDRaMas');
       expect((err as InputError).message).toMatch(/must be greater than 0/);
     }
     expect(() =>
-      fitOrbits({ stars: [{ name: 'S7', measurements: good }], fixed: { massSolar: 2 } }),
+      fitOrbits({ stars: [{ name: 'Wren', measurements: good }], fixed: { massSolar: 2 } }),
     ).toThrow(/fixed.massSolar: "massSolar" is not a parameter of this fit/);
     expect(() =>
       fitOrbits({
-        stars: [{ name: 'S7', measurements: good }],
-        priors: { 'S7.eccentricity': { mean: 0.4, sigma: -1 } },
+        stars: [{ name: 'Wren', measurements: good }],
+        priors: { 'Wren.eccentricity': { mean: 0.4, sigma: -1 } },
       }),
-    ).toThrow(/priors.S7.eccentricity.sigma/);
+    ).toThrow(/priors.Wren.eccentricity.sigma/);
     const start = { elements: { ...truth.elements, eccentricity: 1.2 } };
     expect(() =>
-      fitOrbits({ stars: [{ name: 'S7', measurements: good, hints: { start } }] }),
+      fitOrbits({ stars: [{ name: 'Wren', measurements: good, hints: { start } }] }),
     ).toThrow(/stars.0.hints.start.elements.eccentricity: 1.2 must satisfy 0 ≤ e < 1/);
   });
 });
