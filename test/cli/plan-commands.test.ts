@@ -62,7 +62,7 @@ describe('epochwright plan-season', () => {
     );
     expect(table.stdout).toMatch(
       new RegExp(
-        `${HEADLINE}\s+\d+\s+\d+\s+\d+\s+\d+\s+(yes|no)\s+\d{4}-\d\d-\d\d\s+[\d.]+ → [\d.]+`,
+        `${HEADLINE}\\s+\\d+\\s+\\d+\\s+\\d+\\s+\\d+\\s+(yes|no)\\s+\\d{4}-\\d\\d-\\d\\d\\s+[\\d.]+ → [\\d.]+`,
       ),
     ); // the headline star's row: epochs, periapsis date, σ of T before → after
     expect(table.stdout).toMatch(/preview only \(digest [0-9a-f]{16}\)/);
