@@ -222,6 +222,53 @@ describe.each(BACKENDS)('text, ids and epochs on $name', (backend) => {
     expect(await tableCounts(f.store)).toEqual(before);
   });
 
+  it('bounds measured values and orbit periods by physical ranges', async () => {
+    const offsets = {
+      targetId: f.ids.target,
+      kind: 'offsets',
+      epoch: '2026-06-01T04:00:00Z',
+      dRaMas: 1,
+      dDecMas: 2,
+      sigmaDRaMas: 0.3,
+      sigmaDDecMas: 0.3,
+      instrument: 'imager',
+    };
+    // the values of the issue's probe; the ranges are ours, documented on each field
+    await refused('POST', '/api/measurements', { ...offsets, dRaMas: 1e308 }, 'dRaMas', /1000000/);
+    await refused(
+      'POST',
+      '/api/measurements',
+      { ...offsets, sigmaDDecMas: 1e-300 },
+      'sigmaDDecMas',
+      /0.0001/,
+    );
+    const { ORBIT_S1 } = await import('../store/backends.ts');
+    await refused(
+      'POST',
+      '/api/orbit-solutions',
+      {
+        targetId: f.ids.target,
+        orbit: { ...ORBIT_S1, elements: { ...ORBIT_S1.elements, periodYears: 1e308 } },
+      },
+      'orbit.elements.periodYears',
+      /at most 1e\+7/,
+    );
+  });
+
+  it('refuses to revoke the last active token of any lead, and allows it once another exists', async () => {
+    const [own] = await f.store.users.listTokens('lead one');
+    const before = await tableCounts(f.store);
+    const refusedRevoke = await f.call('lead', 'DELETE', `/api/tokens/${own!.id}`);
+    const text = await refusedRevoke.text();
+    expect(refusedRevoke.status, text).toBe(409);
+    expect(text).toMatch(/last active token of any lead/);
+    expect(await tableCounts(f.store)).toEqual(before);
+    expect(await f.store.users.authenticate(f.tokens.lead)).not.toBeNull(); // still signs in
+    const spare = await f.store.users.issueToken({ userId: null }, 'lead one', 'spare');
+    expect((await f.call('lead', 'DELETE', `/api/tokens/${own!.id}`)).status).toBe(204);
+    f.tokens.lead = spare.secret; // the later tests sign in with the spare
+  });
+
   it('sends the usual security headers', async () => {
     const res = await f.call(null, 'GET', '/api/health');
     const csp = res.headers.get('content-security-policy') ?? '';

@@ -4715,21 +4715,26 @@ export interface paths {
                         kind: "offsets" | "separation" | "radial-velocity";
                         /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
                         epoch: string;
-                        /** @description Δα* = Δα·cos δ, east positive, mas */
+                        /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
                         dRaMas?: number | null;
-                        /** @description Δδ, north positive, mas */
+                        /** @description Δδ, north positive, mas, |x| ≤ 1e7 */
                         dDecMas?: number | null;
+                        /** @description mas, 1e-4 to 1e7 */
                         sigmaDRaMas?: number | null;
+                        /** @description mas, 1e-4 to 1e7 */
                         sigmaDDecMas?: number | null;
                         separationMas?: number | null;
                         /** @description north through east, degrees */
                         positionAngleDeg?: number | null;
+                        /** @description mas, 1e-4 to 1e7 */
                         sigmaSeparationMas?: number | null;
+                        /** @description degrees, 1e-7–180 */
                         sigmaPositionAngleDeg?: number | null;
                         /** @description correlation of the two astrometric errors */
                         correlation?: number | null;
                         /** @description positive receding, km/s */
                         radialVelocityKmS?: number | null;
+                        /** @description km/s, 1e-6 (1 mm/s) to 30,000 */
                         sigmaRadialVelocityKmS?: number | null;
                         instrument: string;
                         /** @default  */
@@ -4994,21 +4999,26 @@ export interface paths {
                         kind?: "offsets" | "separation" | "radial-velocity";
                         /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
                         epoch?: string;
-                        /** @description Δα* = Δα·cos δ, east positive, mas */
+                        /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
                         dRaMas?: number | null;
-                        /** @description Δδ, north positive, mas */
+                        /** @description Δδ, north positive, mas, |x| ≤ 1e7 */
                         dDecMas?: number | null;
+                        /** @description mas, 1e-4 to 1e7 */
                         sigmaDRaMas?: number | null;
+                        /** @description mas, 1e-4 to 1e7 */
                         sigmaDDecMas?: number | null;
                         separationMas?: number | null;
                         /** @description north through east, degrees */
                         positionAngleDeg?: number | null;
+                        /** @description mas, 1e-4 to 1e7 */
                         sigmaSeparationMas?: number | null;
+                        /** @description degrees, 1e-7–180 */
                         sigmaPositionAngleDeg?: number | null;
                         /** @description correlation of the two astrometric errors */
                         correlation?: number | null;
                         /** @description positive receding, km/s */
                         radialVelocityKmS?: number | null;
+                        /** @description km/s, 1e-6 (1 mm/s) to 30,000 */
                         sigmaRadialVelocityKmS?: number | null;
                         instrument?: string;
                         notes?: string;
@@ -8313,21 +8323,26 @@ export interface components {
             kind: "offsets" | "separation" | "radial-velocity";
             /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
             epoch: string;
-            /** @description Δα* = Δα·cos δ, east positive, mas */
+            /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
             dRaMas?: number | null;
-            /** @description Δδ, north positive, mas */
+            /** @description Δδ, north positive, mas, |x| ≤ 1e7 */
             dDecMas?: number | null;
+            /** @description mas, 1e-4 to 1e7 */
             sigmaDRaMas?: number | null;
+            /** @description mas, 1e-4 to 1e7 */
             sigmaDDecMas?: number | null;
             separationMas?: number | null;
             /** @description north through east, degrees */
             positionAngleDeg?: number | null;
+            /** @description mas, 1e-4 to 1e7 */
             sigmaSeparationMas?: number | null;
+            /** @description degrees, 1e-7–180 */
             sigmaPositionAngleDeg?: number | null;
             /** @description correlation of the two astrometric errors */
             correlation?: number | null;
             /** @description positive receding, km/s */
             radialVelocityKmS?: number | null;
+            /** @description km/s, 1e-6 (1 mm/s) to 30,000 */
             sigmaRadialVelocityKmS?: number | null;
             instrument: string;
             /** @default  */

@@ -101,6 +101,19 @@ function positive(field: string, v: unknown): number {
   return x;
 }
 
+/**
+ * Longest period taken, years: the widest bound binaries have periods of order 10⁶ years (from
+ * memory); beyond, an orbit cannot be told from a straight line in any campaign and the planning
+ * numerics lose all precision (a period of 1e308 years made season plans fail).
+ */
+export const MAX_PERIOD_YEARS = 1e7;
+
+function bounded(field: string, v: unknown, max: number): number {
+  const x = positive(field, v);
+  if (x > max) throw new InputError(field, v, `must be at most ${max.toExponential(0)}`);
+  return x;
+}
+
 function eccentricity(field: string, v: unknown): number {
   const x = requireFinite(field, v);
   if (!(x >= 0 && x < 1))
@@ -123,7 +136,8 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
   if (kind !== 'campbell' && kind !== 'thiele-innes') {
     throw new InputError(`${p}.kind`, kind, 'must be "campbell" or "thiele-innes"');
   }
-  const periodDays = positive(`${p}.periodYears`, el.periodYears) * JULIAN_YEAR_DAYS;
+  const periodDays =
+    bounded(`${p}.periodYears`, el.periodYears, MAX_PERIOD_YEARS) * JULIAN_YEAR_DAYS;
   const periapsisJd = parseEpoch(el.periapsis, `${p}.periapsis`);
   const e = eccentricity(`${p}.eccentricity`, el.eccentricity);
   let aMas: number, iRad: number, nodeRad: number, argRad: number;

@@ -3,13 +3,13 @@
  * is stored, so a copy of the database does not hand out access.
  */
 import { createHash, randomBytes } from 'node:crypto';
-import { and, asc, eq, isNull } from 'drizzle-orm';
+import { and, asc, count, eq, isNull } from 'drizzle-orm';
 import { tokens, users } from '../../../db/schema.ts';
 import { recordAudit, type Actor } from '../audit.ts';
 import { nowIso } from '../../clock.ts';
 import { entity, getById, insertIn, list } from '../crud.ts';
-import type { Db } from '../database.ts';
-import { NotFoundError } from '../errors.ts';
+import type { Db, Tx } from '../database.ts';
+import { ConflictError, NotFoundError } from '../errors.ts';
 import { lineText, parseInput } from '../schemas/common.ts';
 import { UserInput, type Role } from '../schemas/entities.ts';
 
@@ -58,6 +58,30 @@ const listing = {
   revokedAt: tokens.revokedAt,
 };
 
+/**
+ * The team keeps a way in: revoking the last active token any lead holds is refused (inside the
+ * revoking transaction, so the revocation rolls back), since only a lead can issue tokens over HTTP.
+ */
+async function keepOneLeadToken(tx: Tx, revokedId: number): Promise<void> {
+  const [owner] = await tx
+    .select({ role: users.role })
+    .from(tokens)
+    .innerJoin(users, eq(users.id, tokens.userId))
+    .where(eq(tokens.id, revokedId));
+  if (owner?.role !== 'lead') return;
+  const [left] = await tx
+    .select({ n: count() })
+    .from(tokens)
+    .innerJoin(users, eq(users.id, tokens.userId))
+    .where(and(eq(users.role, 'lead'), isNull(tokens.revokedAt)));
+  if ((left?.n ?? 0) === 0)
+    throw new ConflictError(
+      'not_allowed',
+      `token ${revokedId} is the last active token of any lead; issue a lead another token first, or nobody could manage the team`,
+      { tokenId: revokedId },
+    );
+}
+
 export function userRepository(db: Db) {
   const issue = async (
     tx: Parameters<Parameters<Db['transaction']>[0]>[0],
@@ -102,6 +126,7 @@ export function userRepository(db: Db) {
           .where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt)))
           .returning({ id: tokens.id });
         if (done.length === 0) throw new NotFoundError('active token', tokenId);
+        await keepOneLeadToken(tx, tokenId);
         await recordAudit(tx, actor, 'update', 'token', tokenId, { revoked: true });
         const [row] = await tx
           .select(listing)

@@ -260,6 +260,16 @@ const MEASUREMENT_FIELDS = {
   'radial-velocity': ['radialVelocityKmS', 'sigmaRadialVelocityKmS'],
 } as const;
 
+/*
+ * Physical ranges of measured values, so a typo cannot store a number that breaks every later fit
+ * (an offset of 1e308 did). Offsets and separations up to 1e7 mas (2.8°): far beyond any bound
+ * companion followed here. Astrometric σ from 1e-4 mas (0.1 µas, a hundred times finer than the best
+ * astrometry, from memory) to 1e7 mas; radial-velocity σ from 1 mm/s.
+ */
+const MAX_OFFSET_MAS = 1e7;
+const offsetMas = z.number().min(-MAX_OFFSET_MAS).max(MAX_OFFSET_MAS);
+const sigmaMas = z.number().min(1e-4).max(MAX_OFFSET_MAS).describe('mas, 1e-4 to 1e7');
+
 export const MeasurementFields = z.object({
   targetId: id,
   blockId: id.nullable().optional(),
@@ -267,23 +277,27 @@ export const MeasurementFields = z.object({
     .enum(['offsets', 'separation', 'radial-velocity'])
     .describe('offsets Δα*, Δδ; separation and position angle; or radial velocity'),
   epoch,
-  dRaMas: optionalNumber(z.number().describe('Δα* = Δα·cos δ, east positive, mas')),
-  dDecMas: optionalNumber(z.number().describe('Δδ, north positive, mas')),
-  sigmaDRaMas: optionalNumber(z.number().positive()),
-  sigmaDDecMas: optionalNumber(z.number().positive()),
-  separationMas: optionalNumber(z.number().min(0)),
+  dRaMas: optionalNumber(offsetMas.describe('Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7')),
+  dDecMas: optionalNumber(offsetMas.describe('Δδ, north positive, mas, |x| ≤ 1e7')),
+  sigmaDRaMas: optionalNumber(sigmaMas),
+  sigmaDDecMas: optionalNumber(sigmaMas),
+  separationMas: optionalNumber(z.number().min(0).max(MAX_OFFSET_MAS)),
   positionAngleDeg: optionalNumber(
     z.number().min(0).lt(360).describe('north through east, degrees'),
   ),
-  sigmaSeparationMas: optionalNumber(z.number().positive()),
-  sigmaPositionAngleDeg: optionalNumber(z.number().positive()),
+  sigmaSeparationMas: optionalNumber(sigmaMas),
+  sigmaPositionAngleDeg: optionalNumber(
+    z.number().min(1e-7).max(180).describe('degrees, 1e-7–180'),
+  ),
   correlation: optionalNumber(
     z.number().min(-1).max(1).describe('correlation of the two astrometric errors'),
   ),
   radialVelocityKmS: optionalNumber(
     z.number().min(-30_000).max(30_000).describe('positive receding, km/s'),
   ),
-  sigmaRadialVelocityKmS: optionalNumber(z.number().positive()),
+  sigmaRadialVelocityKmS: optionalNumber(
+    z.number().min(1e-6).max(30_000).describe('km/s, 1e-6 (1 mm/s) to 30,000'),
+  ),
   instrument: lineText(120).trim().min(1),
   notes,
 });
