@@ -1,7 +1,6 @@
 /** The shell: sign-in, the signed-in user's role, theme, navigation, and the view for the address. */
 import { useEffect, useState } from 'preact/hooks';
-import { get } from './api/client.ts';
-import type { Me } from './api/types.ts';
+import { api, type Me } from './api/client.ts';
 import { interceptLinks, match, usePath } from './lib/router.ts';
 import { sessionToken, setSessionToken, signOut } from './lib/session.ts';
 import { ErrorLine, MeContext } from './lib/ui.tsx';
@@ -81,7 +80,7 @@ export function App() {
   }, [theme]);
   useEffect(() => {
     if (!sessionToken()) return;
-    get<Me>('/me').then(setMe, (e: unknown) => {
+    api.GET('/me').then(setMe, (e: unknown) => {
       setAuthError(e);
       signOut();
       setMe(null);

@@ -5,7 +5,7 @@
  * Inputs are made-up samples; expected values follow from the rules stated beside them.
  */
 import { describe, expect, test } from 'vitest';
-import type { Limit, Visibility, Window } from '../../client/src/api/types.ts';
+import type { Limit, Visibility, Window } from '../../client/src/api/client.ts';
 import { labelRows, nightLayout } from '../../client/src/plots/night-layout.ts';
 import {
   airmassBins,

@@ -1,7 +1,7 @@
 /** Night-report drafts: the form round trip, the field-by-field differences and the merge after a conflict. */
 import { describe, expect, test } from 'vitest';
 import { bodyOf, differences, formOf, merge } from '../../client/src/views/report-draft.ts';
-import type { ReportRow } from '../../client/src/api/types.ts';
+import type { ReportRow } from '../../client/src/api/client.ts';
 
 // Invented report values (demo only).
 const stored: ReportRow = {
@@ -17,7 +17,11 @@ const stored: ReportRow = {
   timeLostReason: '',
   notes: 'steady',
   version: 2,
-  outcomes: [{ blockId: 11, status: 'obtained', exposureMinutes: 40, notes: '' }],
+  authorId: null,
+  createdAt: '2027-06-02T10:00:00Z',
+  outcomes: [
+    { id: 5, reportId: 1, blockId: 11, status: 'obtained', exposureMinutes: 40, notes: '' },
+  ],
 };
 
 describe('report drafts', () => {
@@ -48,7 +52,16 @@ describe('report drafts', () => {
         ...stored,
         strehlRatio: 0.2,
         notes: 'theirs',
-        outcomes: [{ blockId: 11, status: 'lost', exposureMinutes: null, notes: 'clouds' }],
+        outcomes: [
+          {
+            id: 5,
+            reportId: 1,
+            blockId: 11,
+            status: 'lost',
+            exposureMinutes: null,
+            notes: 'clouds',
+          },
+        ],
       },
       [11],
     );

@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { DateTime } from 'luxon';
 import type { Page } from 'playwright-core';
 import { describe, expect, inject, test } from 'vitest';
-import type { BlockRow, Visibility } from '../../client/src/api/types.ts';
+import type { BlockRow, Visibility } from '../../client/src/api/client.ts';
 import { NIGHT_MARGIN } from '../../client/src/plots/night-layout.ts';
 import { svgEdges, svgLineX } from './svg-geometry.ts';
 import { chartPages } from './chart-page.ts';

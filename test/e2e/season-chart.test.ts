@@ -10,7 +10,7 @@ import { join } from 'node:path';
 import { DateTime } from 'luxon';
 import type { Locator, Page } from 'playwright-core';
 import { describe, expect, inject, test } from 'vitest';
-import type { OrbitEvent, SolutionRow } from '../../client/src/api/types.ts';
+import type { OrbitEvent, SolutionRow } from '../../client/src/api/client.ts';
 import { SEASON_MARGIN } from '../../client/src/plots/season-grid.ts';
 import { svgEdges, svgLineX } from './svg-geometry.ts';
 import { chartPages } from './chart-page.ts';

@@ -1,6 +1,6 @@
 /** The campaign's slowly changing records, loaded once per page and refreshed after an edit. */
 import { getAll } from './client.ts';
-import type { CampaignRow, SiteRow, SolutionRow, SystemRow, TargetRow } from './types.ts';
+import type { CampaignRow, SiteRow, SolutionRow, SystemRow, TargetRow } from './client.ts';
 
 export interface Catalogue {
   systems: SystemRow[];
@@ -19,11 +19,11 @@ let cached: Promise<Catalogue> | null = null;
 export function loadCatalogue(): Promise<Catalogue> {
   cached ??= (async () => {
     const [systems, targets, sites, campaigns, solutions] = await Promise.all([
-      getAll<SystemRow>('/systems'),
-      getAll<TargetRow>('/targets'),
-      getAll<SiteRow>('/sites'),
-      getAll<CampaignRow>('/campaigns'),
-      getAll<SolutionRow>('/orbit-solutions'),
+      getAll('/systems'),
+      getAll('/targets'),
+      getAll('/sites'),
+      getAll('/campaigns'),
+      getAll('/orbit-solutions'),
     ]);
     const byId = <T extends { id: number }>(rows: T[]) => new Map(rows.map((r) => [r.id, r]));
     const [sy, ta, si] = [byId(systems), byId(targets), byId(sites)];
@@ -78,4 +78,10 @@ export function skySite(site: SiteRow) {
     ...(site.pressureHpa !== null ? { pressureHpa: site.pressureHpa } : {}),
     ...(site.temperatureC !== null ? { temperatureC: site.temperatureC } : {}),
   };
+}
+
+/** a of a Campbell solution, arcsec; Thiele–Innes solutions carry A, B, F, G instead. */
+export function semiMajorAxisText(s: SolutionRow): string {
+  const el = s.orbit.elements;
+  return 'semiMajorAxisArcsec' in el ? String(el.semiMajorAxisArcsec) : '–';
 }

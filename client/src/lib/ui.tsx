@@ -3,7 +3,7 @@ import type { ComponentChildren } from 'preact';
 import { createContext } from 'preact';
 import { useContext } from 'preact/hooks';
 import { ApiError } from '../api/client.ts';
-import type { Me, Role } from '../api/types.ts';
+import type { Me, Role } from '../api/client.ts';
 
 export const MeContext = createContext<Me | null>(null);
 const RANK: Record<Role, number> = { viewer: 0, observer: 1, lead: 2 };

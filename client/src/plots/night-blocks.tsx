@@ -1,5 +1,5 @@
 /** The night chart's block tracks (stored and proposed) and its airmass key. */
-import type { BlockRow, Visibility } from '../api/types.ts';
+import type { BlockRow, Visibility } from '../api/client.ts';
 import { ms } from '../lib/time.ts';
 import type { ProposedBlock } from './night-chart.tsx';
 import type { NightLayout } from './night-layout.ts';

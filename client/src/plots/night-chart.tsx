@@ -5,7 +5,7 @@
  * night's blocks (and a proposal's) in the lane of their target, and a mark for now.
  * Geometry lives in night-lanes.ts and night-layout.ts; the text twin in night-text.ts.
  */
-import type { BlockRow, Visibility } from '../api/types.ts';
+import type { BlockRow, Visibility } from '../api/client.ts';
 import { DarknessLane, MoonLane, TimeAxis, NowMark, type ChartClock } from './night-frame.tsx';
 import { chartSpan, nightLayout, type NightLayout } from './night-layout.ts';
 import { AirmassKey, BlockTrack, ProposedTrack } from './night-blocks.tsx';

@@ -3,7 +3,7 @@
  * solid floor for the altitude it must clear, with the site's horizon mask at the target's
  * azimuth drawn as the ground it stands behind, and its windows filled.
  */
-import type { Visibility, VisTarget } from '../api/types.ts';
+import type { Visibility, VisTarget } from '../api/client.ts';
 import { ms } from '../lib/time.ts';
 import { chartSpan, DETAIL_BOX, NIGHT_MARGIN } from './night-layout.ts';
 import { runs } from './night-lanes.ts';

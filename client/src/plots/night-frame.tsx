@@ -3,7 +3,7 @@
  * offset), the darkness lane with the Sun's altitude at each twilight, the Moon lane with its
  * height and phase, and the mark for now.
  */
-import type { Visibility } from '../api/types.ts';
+import type { Visibility } from '../api/client.ts';
 import { ms } from '../lib/time.ts';
 import { labelRows, type NightLayout } from './night-layout.ts';
 import { moonUpSpans } from './night-lanes.ts';

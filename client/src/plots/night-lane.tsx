@@ -1,5 +1,5 @@
 /** One target lane of the night chart: its airmass fill, its named closures, its numbers and blocks. */
-import type { BlockRow, Visibility } from '../api/types.ts';
+import type { BlockRow, Visibility } from '../api/client.ts';
 import { BlockTrack, ProposedTrack } from './night-blocks.tsx';
 import type { ProposedBlock } from './night-chart.tsx';
 import type { LaneBox, NightLayout } from './night-layout.ts';

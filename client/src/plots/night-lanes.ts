@@ -3,7 +3,7 @@
  * where each lane is open (the sky engine's windows, to the second) and which limit closes it
  * elsewhere, the airmass bins that fill the open parts, and the Moon's time above the horizon.
  */
-import type { Limit, Visibility, VisTarget, Window } from '../api/types.ts';
+import type { Limit, Visibility, VisTarget, Window } from '../api/client.ts';
 import { ms } from '../lib/time.ts';
 
 /** A stretch of a lane: open (limit null) or closed by one named limit. Times in ms (UTC). */

@@ -3,7 +3,7 @@
  * darkness lane with the Sun's altitude marks under it, the Moon lane, one lane per sky position
  * (its airmass fill, its stored blocks, and a proposal's blocks when there is one), the key.
  */
-import type { Visibility } from '../api/types.ts';
+import type { Visibility } from '../api/client.ts';
 import { ms } from '../lib/time.ts';
 import { linear, type Scale } from './scale.ts';
 

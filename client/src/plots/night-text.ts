@@ -3,7 +3,7 @@
  * readers, for a printed sheet and for anyone who prefers a list, every time on the site's clock
  * with UTC beside it.
  */
-import type { Visibility, VisTarget } from '../api/types.ts';
+import type { Visibility, VisTarget } from '../api/client.ts';
 import { limitWords, type LaneModel } from './night-lanes.ts';
 import { clockAt } from './time-axis.ts';
 

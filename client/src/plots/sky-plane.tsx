@@ -62,17 +62,17 @@ export function measurementPoint(m: {
   id: number;
   epoch: string;
   kind: string;
-  dRaMas: number | null;
-  dDecMas: number | null;
-  sigmaDRaMas: number | null;
-  sigmaDDecMas: number | null;
-  correlation: number | null;
-  separationMas: number | null;
-  positionAngleDeg: number | null;
-  sigmaSeparationMas: number | null;
-  sigmaPositionAngleDeg: number | null;
+  dRaMas?: number | null;
+  dDecMas?: number | null;
+  sigmaDRaMas?: number | null;
+  sigmaDDecMas?: number | null;
+  correlation?: number | null;
+  separationMas?: number | null;
+  positionAngleDeg?: number | null;
+  sigmaSeparationMas?: number | null;
+  sigmaPositionAngleDeg?: number | null;
 }): SkyMeasurement | null {
-  if (m.kind === 'offsets' && m.dRaMas !== null && m.dDecMas !== null) {
+  if (m.kind === 'offsets' && m.dRaMas != null && m.dDecMas != null) {
     return {
       id: m.id,
       epoch: m.epoch,
@@ -81,7 +81,7 @@ export function measurementPoint(m: {
       ellipse: offsetsEllipse(m.sigmaDRaMas ?? 0, m.sigmaDDecMas ?? 0, m.correlation ?? 0),
     };
   }
-  if (m.kind === 'separation' && m.separationMas !== null && m.positionAngleDeg !== null) {
+  if (m.kind === 'separation' && m.separationMas != null && m.positionAngleDeg != null) {
     const s = separationToOffsets(
       m.separationMas,
       m.positionAngleDeg,

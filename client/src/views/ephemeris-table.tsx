@@ -1,8 +1,7 @@
 /** The ephemeris of a target as a table, and the same rows as a CSV file from the server. */
 import { useState } from 'preact/hooks';
-import { get } from '../api/client.ts';
+import { api } from '../api/client.ts';
 import { sessionToken } from '../lib/session.ts';
-import type { Ephemeris } from '../api/types.ts';
 import { utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -15,7 +14,7 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
   const [csvError, setCsvError] = useState<unknown>(null);
   const q = { start: `${query.start}T00:00:00Z`, end: `${query.end}T00:00:00Z`, step: query.step };
   const { data, error } = useLoad(
-    () => get<Ephemeris>(`/targets/${targetId}/ephemeris`, q),
+    () => api.GET('/targets/{id}/ephemeris', { params: { path: { id: targetId }, query: q } }),
     [targetId, query.start, query.end, query.step],
   );
   const download = async () => {

@@ -4,33 +4,14 @@
  * store the fit as the target's new current solution version (earlier versions stay).
  */
 import { useState } from 'preact/hooks';
-import { send } from '../api/client.ts';
+import { api, type Answer } from '../api/client.ts';
 import { invalidateCatalogue } from '../api/catalogue.ts';
-import type { Prediction } from '../api/types.ts';
+import type { Prediction } from '../api/client.ts';
 import { utcText } from '../lib/time.ts';
 import { ErrorLine, Qty, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
-interface FitParameter {
-  name: string;
-  value: number;
-  sigma: number;
-  unit: string;
-}
-interface FitPreview {
-  targets: { id: number; name: string; measurementIds: number[] }[];
-  result: {
-    method: string;
-    parameters: FitParameter[];
-    chi2: number;
-    dof: number;
-    reducedChi2: number;
-    converged: boolean;
-    iterations: number;
-    outliers: number;
-    stars: { name: string; orbit: unknown; nextPeriapsis: string | null }[];
-  };
-}
+type FitPreview = Answer<'/targets/{id}/fit', 'post'>;
 
 export function FitPanel({
   targetId,
@@ -50,26 +31,23 @@ export function FitPanel({
   const preview = () =>
     run(async () => {
       setStatus('');
-      const f = await send<FitPreview>('POST', `/targets/${targetId}/fit`, {});
+      const f = await api.POST('/targets/{id}/fit', {
+        params: { path: { id: targetId } },
+        body: {},
+      });
       setFit(f);
       const orbit = f.result.stars[0]?.orbit;
       if (orbit && trackEpochs.length)
         onFittedTrack(
-          (
-            await send<{ predictions: Prediction[] }>('POST', '/ephemeris', {
-              orbit,
-              epochs: trackEpochs,
-            })
-          ).predictions,
+          (await api.POST('/ephemeris', { body: { orbit, epochs: trackEpochs } })).predictions,
         );
     });
   const accept = () =>
     run(async () => {
-      const r = await send<{ solutions: { version: number }[] }>(
-        'POST',
-        `/targets/${targetId}/fit/accept`,
-        { notes: 'fitted from the light client' },
-      );
+      const r = await api.POST('/targets/{id}/fit/accept', {
+        params: { path: { id: targetId } },
+        body: { notes: 'fitted from the light client' },
+      });
       setStatus(`Stored as version ${r.solutions.map((s) => s.version).join(', ')}, now current.`);
       setFit(null);
       onFittedTrack(null);

@@ -3,8 +3,8 @@
  * factor, the expected significance now and after the planned blocks, the date each reaches 3σ and
  * 5σ, and the planned epochs that add most (server: GET /targets/{id}/forecast).
  */
-import { get } from '../api/client.ts';
-import type { FactorForecast, TargetForecast } from '../api/types.ts';
+import { api } from '../api/client.ts';
+import type { FactorForecast } from '../api/client.ts';
 import { dateText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -23,7 +23,7 @@ function reached(f: FactorForecast, sigma: number): string {
 
 export function ForecastPanel({ targetId }: { targetId: number }) {
   const { data, error } = useLoad(
-    () => get<TargetForecast>(`/targets/${targetId}/forecast`),
+    () => api.GET('/targets/{id}/forecast', { params: { path: { id: targetId } } }),
     [targetId],
   );
   if (error) return <ErrorLine error={error} />;

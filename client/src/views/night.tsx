@@ -7,9 +7,9 @@
  * night sheet.
  */
 import { useState } from 'preact/hooks';
-import { ApiError, get, getAll, send } from '../api/client.ts';
+import { ApiError, getAll, api } from '../api/client.ts';
 import { loadCatalogue } from '../api/catalogue.ts';
-import type { BlockOrigin, BlockRow, NightRow, Visibility } from '../api/types.ts';
+import type { BlockOrigin, BlockRow, Visibility } from '../api/client.ts';
 import { NightChart } from '../plots/night-chart.tsx';
 import { NightDetail } from '../plots/night-detail.tsx';
 import type { ChartClock } from '../plots/night-frame.tsx';
@@ -76,13 +76,21 @@ function BlockTable({
     onChanged();
   };
   const setPinned = (b: BlockRow, pinned: boolean) =>
-    act(() => send('PATCH', `/blocks/${b.id}`, { pinned, version: b.version }));
+    act(() =>
+      api.PATCH('/blocks/{id}', {
+        params: { path: { id: b.id } },
+        body: { pinned, version: b.version },
+      }),
+    );
   const shift = (b: BlockRow, minutes: number) =>
     act(() =>
-      send('PATCH', `/blocks/${b.id}`, {
-        startUtc: isoOf(ms(b.startUtc) + minutes * 60_000),
-        endUtc: isoOf(ms(b.endUtc) + minutes * 60_000),
-        version: b.version,
+      api.PATCH('/blocks/{id}', {
+        params: { path: { id: b.id } },
+        body: {
+          startUtc: isoOf(ms(b.startUtc) + minutes * 60_000),
+          endUtc: isoOf(ms(b.endUtc) + minutes * 60_000),
+          version: b.version,
+        },
       }),
     );
   if (!blocks.length) return <p class="muted">No blocks on this night yet.</p>;
@@ -185,7 +193,9 @@ function BlockTable({
                       type="button"
                       class="danger"
                       aria-label={`remove ${names(b.targetId)} ${b.kind}`}
-                      onClick={() => act(() => send('DELETE', `/blocks/${b.id}`))}
+                      onClick={() =>
+                        act(() => api.DELETE('/blocks/{id}', { params: { path: { id: b.id } } }))
+                      }
                     >
                       Remove
                     </button>
@@ -212,10 +222,12 @@ export function NightView({ id }: { id: number }) {
   const [proposal, setProposal] = useState<ScheduledBlock[] | null>(null);
   const { data, error } = useLoad(async () => {
     const cat = await loadCatalogue();
-    const night = await get<NightRow>(`/nights/${id}`);
+    const night = await api.GET('/nights/{id}', { params: { path: { id } } });
     const [vis, blocks] = await Promise.all([
-      get<Visibility>(`/nights/${id}/visibility`, { curves: 'true' }),
-      getAll<BlockRow>('/blocks', { nightId: id }),
+      api.GET('/nights/{id}/visibility', {
+        params: { path: { id }, query: { curves: 'true' } },
+      }),
+      getAll('/blocks', { nightId: id }),
     ]);
     return { cat, night, vis, blocks: blocks.sort((a, b) => a.startUtc.localeCompare(b.startUtc)) };
   }, [id, tick]);

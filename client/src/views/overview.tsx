@@ -4,28 +4,13 @@
  * predictions), the next nights at each site, and the latest night reports.
  */
 import { useState } from 'preact/hooks';
-import { get, getAll } from '../api/client.ts';
+import { getAll, api, type Schemas } from '../api/client.ts';
 import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, NightRow, ReportRow } from '../api/types.ts';
 import { dateText, todayIn, utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 
-export interface Flag {
-  kind: 'periapsis-ahead' | 'periapsis-unobservable' | 'blend-risk' | 'stale-prediction' | string;
-  target: string;
-  date: string;
-  daysAhead: number;
-  reason: string;
-  periapsis?: {
-    sigmaDays: number | null;
-    band: string;
-    sites: { site: string; minHours: number; maxHours: number; blocked: string | null }[];
-    samplingDays: number | null;
-  };
-  blend?: { other: string; start: string; end: string; closestMas: number };
-  stale?: { sigmaMas: number | null; daysSinceMeasured: number | null };
-}
+export type Flag = Schemas['Flag'];
 
 const KIND_WORDS: Record<string, string> = {
   'periapsis-ahead': 'periapsis ahead',
@@ -95,7 +80,7 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
 
 function Flags({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
   const { data, error } = useLoad(
-    () => get<{ flags: Flag[] }>(`/campaigns/${campaignId}/flags`),
+    () => api.GET('/campaigns/{id}/flags', { params: { path: { id: campaignId } } }),
     [campaignId],
   );
   if (error) return <ErrorLine error={error} />;
@@ -114,8 +99,8 @@ function Flags({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
 function NextNights({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
   const c = cat.campaigns.find((x) => x.id === campaignId)!;
   const { data, error } = useLoad(async () => {
-    const nights = await getAll<NightRow>('/nights', { campaignId });
-    const blocks = await getAll<BlockRow>('/blocks', {
+    const nights = await getAll('/nights', { campaignId });
+    const blocks = await getAll('/blocks', {
       campaignId,
       start: new Date().toISOString(),
     });
@@ -168,8 +153,8 @@ function NextNights({ cat, campaignId }: { cat: Catalogue; campaignId: number })
 function LatestReports({ cat, campaignId }: { cat: Catalogue; campaignId: number }) {
   const { data, error } = useLoad(async () => {
     const [reports, nights] = await Promise.all([
-      getAll<ReportRow>('/night-reports', { campaignId }),
-      getAll<NightRow>('/nights', { campaignId }),
+      getAll('/night-reports', { campaignId }),
+      getAll('/nights', { campaignId }),
     ]);
     const night = new Map(nights.map((n) => [n.id, n]));
     return reports

@@ -4,9 +4,9 @@
  * is stored unless the whole record is accepted.
  */
 import { useState } from 'preact/hooks';
-import { fieldMessages, send } from '../api/client.ts';
+import { fieldMessages, sendRecord } from '../api/client.ts';
 import { invalidateCatalogue, type Catalogue } from '../api/catalogue.ts';
-import type { HorizonPoint } from '../api/types.ts';
+import type { HorizonPoint } from '../api/client.ts';
 import { ErrorLine } from '../lib/ui.tsx';
 
 /** One input. `key` is the dotted path in the request body, so server messages land beside it. */
@@ -133,7 +133,7 @@ export function CreateForm({
     if ('field' in b) return setLocal(b);
     setBusy(true);
     try {
-      const row = await send<{ id: number; name: string }>('POST', path, b.body);
+      const row = await sendRecord('POST', path, b.body);
       setValues(initialOf(fields));
       setCreated(`${row.name} added (#${row.id}).`);
       invalidateCatalogue();

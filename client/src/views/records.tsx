@@ -4,8 +4,8 @@
  * nothing written when any row fails.
  */
 import { useState } from 'preact/hooks';
-import { ApiError, fieldMessages, send } from '../api/client.ts';
-import { invalidateCatalogue, loadCatalogue } from '../api/catalogue.ts';
+import { ApiError, fieldMessages, api, sendRecord, type Answer } from '../api/client.ts';
+import { invalidateCatalogue, loadCatalogue, semiMajorAxisText } from '../api/catalogue.ts';
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
@@ -83,7 +83,7 @@ function RecordTable({
       if (next !== r[c.key]) patch[c.key] = next;
     }
     try {
-      if (Object.keys(patch).length) await send('PATCH', `${path}/${r.id}`, patch);
+      if (Object.keys(patch).length) await sendRecord('PATCH', `${path}/${r.id}`, patch);
       setEditing(null);
       invalidateCatalogue();
       onSaved();
@@ -169,16 +169,10 @@ function RecordTable({
   );
 }
 
-interface ImportReport {
-  kind: string;
-  dryRun: boolean;
-  rows: number;
-  written: number;
-  problems: { line: number; column: string; value: unknown; rule: string }[];
-}
+type ImportReport = Answer<'/imports/{kind}', 'post'>;
 
 function CsvImport({ onDone }: { onDone: () => void }) {
-  const [kind, setKind] = useState('measurements');
+  const [kind, setKind] = useState<ImportReport['kind']>('measurements');
   const [text, setText] = useState('');
   const [report, setReport] = useState<ImportReport | null>(null);
   const [error, setError] = useState<unknown>(null);
@@ -187,7 +181,11 @@ function CsvImport({ onDone }: { onDone: () => void }) {
     setReport(null);
     try {
       setReport(
-        await send<ImportReport>('POST', `/imports/${kind}?dryRun=${dryRun}`, text, 'text/csv'),
+        await api.POST('/imports/{kind}', {
+          params: { path: { kind }, query: { dryRun: dryRun ? 'true' : 'false' } },
+          body: text,
+          contentType: 'text/csv',
+        }),
       );
       if (!dryRun) {
         invalidateCatalogue();
@@ -205,7 +203,10 @@ function CsvImport({ onDone }: { onDone: () => void }) {
       <div class="toolbar">
         <label class="inline">
           kind{' '}
-          <select value={kind} onChange={(e) => setKind(e.currentTarget.value)}>
+          <select
+            value={kind}
+            onChange={(e) => setKind(e.currentTarget.value as ImportReport['kind'])}
+          >
             <option value="targets">targets</option>
             <option value="orbit-solutions">orbit solutions</option>
             <option value="measurements">measurements</option>
@@ -287,10 +288,10 @@ export function RecordsView() {
   if (error) return <ErrorLine error={error} />;
   if (!cat) return <Loading what="the records" />;
   const reload = () => setTick(tick + 1);
-  const targets = cat.targets.map((t) => ({
+  const targets: Row[] = cat.targets.map((t) => ({
     ...t,
     systemName: cat.system(t.systemId)?.name,
-  })) as unknown as Row[];
+  }));
   return (
     <div class="view records">
       <div class="view-head">
@@ -302,12 +303,7 @@ export function RecordsView() {
         </p>
       </div>
       <Section title="Systems" id="systems">
-        <RecordTable
-          path="/systems"
-          rows={cat.systems as unknown as Row[]}
-          cols={SYSTEM_COLS}
-          onSaved={reload}
-        />
+        <RecordTable path="/systems" rows={cat.systems} cols={SYSTEM_COLS} onSaved={reload} />
       </Section>
       <Section title="Targets" id="targets">
         <RecordTable path="/targets" rows={targets} cols={TARGET_COLS} onSaved={reload} />
@@ -347,7 +343,7 @@ export function RecordsView() {
                 <td>{s.reference}</td>
                 <td>{String(s.orbit.elements.periodYears ?? '–')}</td>
                 <td>{String(s.orbit.elements.eccentricity ?? '–')}</td>
-                <td>{String(s.orbit.elements.semiMajorAxisArcsec ?? '–')}</td>
+                <td>{semiMajorAxisText(s)}</td>
                 <td>
                   {Object.entries(s.orbit.relativity ?? {})
                     .filter(([, v]) => v)
@@ -364,12 +360,7 @@ export function RecordsView() {
         </p>
       </Section>
       <Section title="Sites" id="sites">
-        <RecordTable
-          path="/sites"
-          rows={cat.sites as unknown as Row[]}
-          cols={SITE_COLS}
-          onSaved={reload}
-        />
+        <RecordTable path="/sites" rows={cat.sites} cols={SITE_COLS} onSaved={reload} />
         {cat.sites.some((s) => s.laserGuideStar) && (
           <Caution>
             Sites marked “laser guide star”: aircraft and satellite avoidance follow the site’s

@@ -4,7 +4,17 @@
  * stored version it was started from; that version goes with the save, so an edit made meanwhile
  * by someone else is detected (409) instead of silently overwritten.
  */
-import type { Outcome, ReportRow } from '../api/types.ts';
+import type { Outcome, ReportRow } from '../api/client.ts';
+
+/** What a report sends per block (the stored outcome without its ids). */
+type OutcomeBody = Pick<Outcome, 'blockId' | 'status' | 'exposureMinutes' | 'notes'>;
+const STATUSES: readonly Outcome['status'][] = [
+  'obtained',
+  'partial',
+  'lost',
+  'withdrawn',
+  'planned',
+];
 
 export const CONDITION_FIELDS = [
   {
@@ -90,14 +100,19 @@ export function bodyOf(form: ReportForm) {
   const conditions = Object.fromEntries(
     CONDITION_FIELDS.map((f) => [f.key, num(form.conditions[f.key])]),
   ) as Record<ConditionKey, number | null>;
-  const outcomes: Outcome[] = Object.entries(form.outcomes)
-    .filter(([, o]) => o.status)
-    .map(([id, o]) => ({
-      blockId: Number(id),
-      status: o.status,
-      exposureMinutes: num(o.exposureMinutes),
-      notes: o.notes,
-    }));
+  const outcomes: OutcomeBody[] = Object.entries(form.outcomes).flatMap(([id, o]) => {
+    const status = STATUSES.find((s) => s === o.status);
+    return status === undefined
+      ? []
+      : [
+          {
+            blockId: Number(id),
+            status,
+            exposureMinutes: num(o.exposureMinutes),
+            notes: o.notes,
+          },
+        ];
+  });
   return {
     ...conditions,
     timeLostHours: num(form.conditions.timeLostHours) ?? 0,

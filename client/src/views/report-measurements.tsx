@@ -1,8 +1,8 @@
 /** Measurements tied to the night's blocks, and a form to add one (field-level messages from the server). */
 import { useState } from 'preact/hooks';
-import { fieldMessages, getAll, send } from '../api/client.ts';
+import { fieldMessages, getAll, sendRecord } from '../api/client.ts';
 import type { Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, MeasurementRow } from '../api/types.ts';
+import type { BlockRow, MeasurementRow } from '../api/client.ts';
 import { utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -56,7 +56,7 @@ function AddMeasurement({
         .map((f) => [f.key, Number(values[f.key])]),
     );
     try {
-      await send('POST', '/measurements', {
+      await sendRecord('POST', '/measurements', {
         targetId: block.targetId,
         blockId: block.id,
         kind,
@@ -128,11 +128,7 @@ export function ReportMeasurements({
   const [added, setAdded] = useState(0);
   const { data, error } = useLoad(
     async () =>
-      (
-        await Promise.all(
-          blocks.map((b) => getAll<MeasurementRow>('/measurements', { blockId: b.id })),
-        )
-      ).flat(),
+      (await Promise.all(blocks.map((b) => getAll('/measurements', { blockId: b.id })))).flat(),
     [blocks.map((b) => b.id).join(), tick, added],
   );
   if (error) return <ErrorLine error={error} />;

@@ -4,9 +4,9 @@
  * save that meets a newer stored version shows both and lets the writer choose field by field.
  */
 import { useEffect, useState } from 'preact/hooks';
-import { ApiError, fieldMessages, get, getAll, send } from '../api/client.ts';
+import { ApiError, fieldMessages, getAll, api } from '../api/client.ts';
 import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, NightRow, ReportRow } from '../api/types.ts';
+import type { BlockRow, NightRow, ReportRow } from '../api/client.ts';
 import { utcClock, utcText, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -33,10 +33,10 @@ interface Loaded {
 
 async function load(nightId: number): Promise<Loaded> {
   const cat = await loadCatalogue();
-  const night = await get<NightRow>(`/nights/${nightId}`);
+  const night = await api.GET('/nights/{id}', { params: { path: { id: nightId } } });
   const [blocks, reports] = await Promise.all([
-    getAll<BlockRow>('/blocks', { nightId }),
-    getAll<ReportRow>('/night-reports', { nightId }),
+    getAll('/blocks', { nightId }),
+    getAll('/night-reports', { nightId }),
   ]);
   return {
     cat,
@@ -87,8 +87,11 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
     try {
       const body = bodyOf(f);
       const saved = b
-        ? await send<ReportRow>('PATCH', `/night-reports/${b.id}`, { ...body, version: b.version })
-        : await send<ReportRow>('POST', '/night-reports', { nightId: night.id, ...body });
+        ? await api.PATCH('/night-reports/{id}', {
+            params: { path: { id: b.id } },
+            body: { ...body, version: b.version },
+          })
+        : await api.POST('/night-reports', { body: { nightId: night.id, ...body } });
       dropDraft(night.id);
       setDirty(false);
       setTheirs(null);
@@ -104,7 +107,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
     } catch (e) {
       setStatus('Not saved: your draft is still kept in this browser.');
       if (e instanceof ApiError && e.status === 409) {
-        const now = (await getAll<ReportRow>('/night-reports', { nightId: night.id }))[0] ?? null;
+        const now = (await getAll('/night-reports', { nightId: night.id }))[0] ?? null;
         if (now) return setTheirs(now);
       }
       setError(e);

@@ -4,40 +4,15 @@
  * Storing it replaces the night's blocks that are still only plans (the server says which it keeps).
  */
 import { useState } from 'preact/hooks';
-import { ApiError, send } from '../api/client.ts';
+import { ApiError, api, type Schemas } from '../api/client.ts';
 import type { Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, NightRow, Stamp } from '../api/types.ts';
+import type { BlockRow, NightRow } from '../api/client.ts';
 import { isoOf, ms, utcClock, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
-export interface ScheduledBlock {
-  id: string;
-  target: string;
-  kind: string;
-  start: Stamp;
-  end: Stamp;
-  minutes: number;
-  airmassMiddle: number;
-  altitudeMiddleDeg: number;
-  pinned: boolean;
-  laserGuideStar: boolean;
-  cautions: string[];
-}
-export interface SchedulePreview {
-  schedule: {
-    blocks: ScheduledBlock[];
-    leftOut: { id: string; target: string; kind: string; reason: string }[];
-    cautions: string[];
-    darkHours: number;
-    scheduledHours: number;
-    method: string;
-    timeZone: string;
-  };
-  replaces: number[];
-  kept: { id: number; reason: string }[];
-  digest: string;
-}
+export type ScheduledBlock = Schemas['ScheduledBlock'];
+export type SchedulePreview = Schemas['NightSchedulePreview'];
 interface Edits {
   pins: Record<string, string>;
   remove: string[];
@@ -72,7 +47,10 @@ export function SchedulePanel({
   const propose = (e: Edits) =>
     run(async () => {
       setEdits(e);
-      const p = await send<SchedulePreview>('POST', `/nights/${night.id}/schedule`, body(e));
+      const p = await api.POST('/nights/{id}/schedule', {
+        params: { path: { id: night.id } },
+        body: body(e),
+      });
       setPreview(p);
       onProposal?.(p.schedule.blocks);
     });
@@ -80,13 +58,12 @@ export function SchedulePanel({
     if (!preview) return;
     await run(
       async () => {
-        const r = await send<{ written?: unknown[] }>(
-          'POST',
-          `/nights/${night.id}/schedule/accept`,
-          { ...body(edits), digest: preview.digest },
-        );
+        const r = await api.POST('/nights/{id}/schedule/accept', {
+          params: { path: { id: night.id } },
+          body: { ...body(edits), digest: preview.digest },
+        });
         setStored(
-          `Stored: ${r.written?.length ?? preview.schedule.blocks.length} blocks written, ${preview.replaces.length} planned blocks replaced.`,
+          `Stored: ${r.written.length} blocks written, ${preview.replaces.length} planned blocks replaced.`,
         );
         setPreview(null);
         onProposal?.(null);

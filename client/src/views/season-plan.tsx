@@ -4,53 +4,14 @@
  * into stored blocks. The proposal is drawn on the season charts above.
  */
 import { useState } from 'preact/hooks';
-import { ApiError, fieldMessages, send } from '../api/client.ts';
-import type { CampaignRow, Stamp } from '../api/types.ts';
+import { ApiError, fieldMessages, api, type Schemas } from '../api/client.ts';
+import type { CampaignRow } from '../api/client.ts';
 import { utcClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
-export interface PlannedEpoch {
-  target: string;
-  kind: string;
-  site: string;
-  date: string;
-  block: { start: Stamp; end: Stamp; laserGuideStar: boolean };
-  why: string;
-  reason: string;
-}
-export interface SeasonPlanPreview {
-  sites: {
-    siteId: number;
-    name: string;
-    openNights: number;
-    skipped: { date: string; reason: string }[];
-    plannedAround: { date: string; kept: { id: number; reason: string }[] }[];
-  }[];
-  plan: {
-    sites: {
-      name: string;
-      nights: number;
-      nightsUsed: number;
-      darkHours: number;
-      plannedHours: number;
-    }[];
-    epochs: PlannedEpoch[];
-    unmet: { target: string; kind: string; start: string; end: string; reason: string }[];
-    targets: {
-      target: string;
-      epochs: Record<string, number>;
-      cadenceMet: boolean;
-      shrinkage: {
-        periapsisDays?: { before: number; after: number } | null;
-        massFraction?: { before: number; after: number } | null;
-      };
-    }[];
-    cautions: string[];
-  };
-  replaces: number[];
-  digest: string;
-}
+export type PlannedEpoch = Schemas['SeasonPlan']['epochs'][number];
+export type SeasonPlanPreview = Schemas['SeasonPlanPreview'];
 
 export function SeasonPlanPanel({
   campaign,
@@ -70,7 +31,7 @@ export function SeasonPlanPanel({
   const [form, setForm] = useState({
     startDate: clamp(today > `${year}-01-01` ? today : `${year}-01-01`),
     endDate: clamp(`${year}-12-31`),
-    nights: 'allocated',
+    nights: 'allocated' as 'allocated' | 'all',
   });
   const [preview, setPreview] = useState<SeasonPlanPreview | null>(null);
   const { busy, error, run } = useAction();
@@ -79,11 +40,10 @@ export function SeasonPlanPanel({
   const propose = () =>
     run(async () => {
       setStatus('');
-      const p = await send<SeasonPlanPreview>(
-        'POST',
-        `/campaigns/${campaign.id}/season-plan`,
-        form,
-      );
+      const p = await api.POST('/campaigns/{id}/season-plan', {
+        params: { path: { id: campaign.id } },
+        body: form,
+      });
       setPreview(p);
       onProposal(p);
     });
@@ -91,11 +51,10 @@ export function SeasonPlanPanel({
     if (!preview) return;
     await run(
       async () => {
-        const r = await send<{ written: unknown[]; nightsCreated: unknown[] }>(
-          'POST',
-          `/campaigns/${campaign.id}/season-plan/accept`,
-          { ...form, digest: preview.digest },
-        );
+        const r = await api.POST('/campaigns/{id}/season-plan/accept', {
+          params: { path: { id: campaign.id } },
+          body: { ...form, digest: preview.digest },
+        });
         setStatus(
           `Accepted: ${r.written.length} blocks stored, ${r.nightsCreated.length} nights created, ${preview.replaces.length} planned blocks replaced.`,
         );
@@ -143,7 +102,9 @@ export function SeasonPlanPanel({
           nights{' '}
           <select
             value={form.nights}
-            onChange={(e) => setForm({ ...form, nights: e.currentTarget.value })}
+            onChange={(e) =>
+              setForm({ ...form, nights: e.currentTarget.value === 'all' ? 'all' : 'allocated' })
+            }
           >
             <option value="allocated">the campaign’s allocated nights</option>
             <option value="all">every night of the range</option>
@@ -247,7 +208,7 @@ export function SeasonPlanPanel({
                   </td>
                   <td>{t.cadenceMet ? 'yes' : 'no'}</td>
                   <td>
-                    {t.shrinkage.periapsisDays ? (
+                    {t.shrinkage?.periapsisDays ? (
                       <>
                         <Qty v={t.shrinkage.periapsisDays.before} unit="" digits={2} /> →{' '}
                         <Qty v={t.shrinkage.periapsisDays.after} unit="" digits={2} />
@@ -257,7 +218,7 @@ export function SeasonPlanPanel({
                     )}
                   </td>
                   <td>
-                    {t.shrinkage.massFraction ? (
+                    {t.shrinkage?.massFraction ? (
                       <>
                         <Qty v={t.shrinkage.massFraction.before} unit="" digits={3} /> →{' '}
                         <Qty v={t.shrinkage.massFraction.after} unit="" digits={3} />

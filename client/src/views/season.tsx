@@ -5,9 +5,9 @@
  */
 import { DateTime } from 'luxon';
 import { useState } from 'preact/hooks';
-import { ApiError, get, getAll, send } from '../api/client.ts';
+import { ApiError, getAll, api } from '../api/client.ts';
 import { loadCatalogue, skySite, skyTarget, type Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, CampaignRow, NightRow, OrbitEvent, Season } from '../api/types.ts';
+import type { BlockRow, CampaignRow, NightRow, OrbitEvent } from '../api/client.ts';
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
 import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -51,11 +51,13 @@ function SiteSeason({
   const { data, error } = useLoad(
     () =>
       Promise.all([
-        send<Season>('POST', '/sky/season', {
-          site: skySite(site),
-          year,
-          targets: targets.map((x) => x.t),
-          limits: limitsOf(campaign),
+        api.POST('/sky/season', {
+          body: {
+            site: skySite(site),
+            year,
+            targets: targets.flatMap((x) => (x.t ? [x.t] : [])),
+            limits: limitsOf(campaign),
+          },
         }),
         Promise.all(targets.map((x) => periapsesAround(x.id, year))),
       ]),
@@ -99,9 +101,10 @@ function SiteSeason({
             .map((e) => e.date),
         ),
       ],
-      seasonText: t.season
-        ? `${monthDay(t.season.start)} → ${monthDay(t.season.end)} · ${t.season.usableNights} nights`
-        : 'not observable',
+      seasonText:
+        t.season.start !== null && t.season.end !== null
+          ? `${monthDay(t.season.start)} → ${monthDay(t.season.end)} · ${t.season.usableNights} nights`
+          : 'not observable',
     };
   });
   return (
@@ -141,10 +144,7 @@ export function SeasonView() {
   const [tick, setTick] = useState(0);
   const { data, error } = useLoad(async () => {
     const cat = await loadCatalogue();
-    const [nights, blocks] = await Promise.all([
-      getAll<NightRow>('/nights'),
-      getAll<BlockRow>('/blocks'),
-    ]);
+    const [nights, blocks] = await Promise.all([getAll('/nights'), getAll('/blocks')]);
     return { cat, nights, blocks };
   }, [tick]);
   const [campaignId, setCampaignId] = useState<number | null>(null);
@@ -221,10 +221,11 @@ export function SeasonView() {
  */
 async function periapsesAround(targetId: number, year: number): Promise<OrbitEvent[]> {
   try {
-    const r = await get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, {
-      kinds: 'periapsis',
-      start: `${year - 1}-07-01`,
-      end: `${year + 1}-07-01`,
+    const r = await api.GET('/targets/{id}/events', {
+      params: {
+        path: { id: targetId },
+        query: { kinds: 'periapsis', start: `${year - 1}-07-01`, end: `${year + 1}-07-01` },
+      },
     });
     return r.events;
   } catch (e) {

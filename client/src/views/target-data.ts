@@ -3,16 +3,9 @@
  * ticks, the predictions at each measurement's epoch (for residuals) and at each planned block,
  * and the radial velocity with and without the relativistic terms.
  */
-import { getAll, send } from '../api/client.ts';
+import { getAll, api } from '../api/client.ts';
 import type { Catalogue } from '../api/catalogue.ts';
-import type {
-  BlockRow,
-  MeasurementRow,
-  OrbitEvent,
-  Prediction,
-  SolutionRow,
-} from '../api/types.ts';
-import { get } from '../api/client.ts';
+import type { BlockRow, MeasurementRow, Prediction, SolutionRow } from '../api/client.ts';
 import { yearOf } from '../plots/rv-curve.tsx';
 
 const DAY = 86_400_000;
@@ -35,8 +28,8 @@ export interface TargetData {
 export async function loadTargetData(cat: Catalogue, targetId: number): Promise<TargetData> {
   const solution = cat.currentSolution(targetId);
   const [measurements, blocks] = await Promise.all([
-    getAll<MeasurementRow>('/measurements', { targetId }),
-    getAll<BlockRow>('/blocks', { targetId, start: new Date().toISOString() }),
+    getAll('/measurements', { targetId }),
+    getAll('/blocks', { targetId, start: new Date().toISOString() }),
   ]);
   const planned = blocks.filter((b) => b.status === 'planned');
   const empty = {
@@ -75,20 +68,24 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
   const pEpochs = planned.map((b) =>
     new Date((Date.parse(b.startUtc) + Date.parse(b.endUtc)) / 2).toISOString(),
   );
-  const events = await get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, {
-    start: new Date(t0).toISOString(),
-    end: new Date(t1).toISOString(),
-    kinds: 'periapsis',
+  const events = await api.GET('/targets/{id}/events', {
+    params: {
+      path: { id: targetId },
+      query: {
+        start: new Date(t0).toISOString(),
+        end: new Date(t1).toISOString(),
+        kinds: 'periapsis',
+      },
+    },
   });
   const periEpochs = events.events.map((e) => e.epoch);
   const epochs = [...track, ...ticks, ...mEpochs, ...pEpochs, ...periEpochs];
   const hasRelativity = Object.values(solution.orbit.relativity ?? {}).some(Boolean);
   const [main, plain] = await Promise.all([
-    send<{ predictions: Prediction[] }>('POST', '/ephemeris', { orbit: solution.orbit, epochs }),
+    api.POST('/ephemeris', { body: { orbit: solution.orbit, epochs } }),
     hasRelativity
-      ? send<{ predictions: Prediction[] }>('POST', '/ephemeris', {
-          orbit: { ...solution.orbit, relativity: {} },
-          epochs: track,
+      ? api.POST('/ephemeris', {
+          body: { orbit: { ...solution.orbit, relativity: {} }, epochs: track },
         })
       : Promise.resolve(null),
   ]);
@@ -123,9 +120,9 @@ export function astrometricResidual(
   p: Prediction | undefined,
 ): { dRa: number; dDec: number } | null {
   if (!p) return null;
-  if (m.kind === 'offsets' && m.dRaMas !== null && m.dDecMas !== null)
+  if (m.kind === 'offsets' && m.dRaMas != null && m.dDecMas != null)
     return { dRa: m.dRaMas - p.dRaMas, dDec: m.dDecMas - p.dDecMas };
-  if (m.kind === 'separation' && m.separationMas !== null && m.positionAngleDeg !== null) {
+  if (m.kind === 'separation' && m.separationMas != null && m.positionAngleDeg != null) {
     const t = (m.positionAngleDeg * Math.PI) / 180;
     return {
       dRa: m.separationMas * Math.sin(t) - p.dRaMas,
@@ -136,6 +133,8 @@ export function astrometricResidual(
 }
 
 export const rvSeries = (ps: Prediction[]) =>
-  ps
-    .filter((p) => Number.isFinite(p.radialVelocityKmS))
-    .map((p) => ({ t: yearOf(p.epoch), v: p.radialVelocityKmS }));
+  ps.flatMap((p) =>
+    p.radialVelocityKmS !== null && Number.isFinite(p.radialVelocityKmS)
+      ? [{ t: yearOf(p.epoch), v: p.radialVelocityKmS }]
+      : [],
+  );

@@ -4,9 +4,13 @@
  * solution versions with their provenance; and the ephemeris table with its CSV.
  */
 import { useState } from 'preact/hooks';
-import { get, send } from '../api/client.ts';
-import { invalidateCatalogue, loadCatalogue, type Catalogue } from '../api/catalogue.ts';
-import type { OrbitEvent } from '../api/types.ts';
+import { api } from '../api/client.ts';
+import {
+  invalidateCatalogue,
+  loadCatalogue,
+  semiMajorAxisText,
+  type Catalogue,
+} from '../api/catalogue.ts';
 import { measurementPoint, SkyPlanePlot, type SkyMeasurement } from '../plots/sky-plane.tsx';
 import { RvCurvePlot, yearOf } from '../plots/rv-curve.tsx';
 import { utcText } from '../lib/time.ts';
@@ -16,7 +20,7 @@ import { EphemerisTable } from './ephemeris-table.tsx';
 import { astrometricResidual, loadTargetData, rvSeries, type TargetData } from './target-data.ts';
 import { FitPanel } from './fit-panel.tsx';
 import { ForecastPanel } from './forecast-panel.tsx';
-import type { Prediction } from '../api/types.ts';
+import type { Prediction } from '../api/client.ts';
 
 function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null }) {
   const ms: SkyMeasurement[] = [];
@@ -93,7 +97,9 @@ function RvPanel({ d }: { d: TargetData }) {
         t: yearOf(m.epoch),
         v: m.radialVelocityKmS!,
         sigma: m.sigmaRadialVelocityKmS ?? 0,
-        ...(p ? { residual: m.radialVelocityKmS! - p.radialVelocityKmS } : {}),
+        ...(p && p.radialVelocityKmS !== null
+          ? { residual: m.radialVelocityKmS! - p.radialVelocityKmS }
+          : {}),
       };
     });
   return (
@@ -140,7 +146,10 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
   const start = new Date(Date.now() - 365.25 * 86_400_000).toISOString();
   const end = new Date(Date.now() + span * 365.25 * 86_400_000).toISOString();
   const { data, error } = useLoad(
-    () => get<{ events: OrbitEvent[] }>(`/targets/${targetId}/events`, { start, end }),
+    () =>
+      api.GET('/targets/{id}/events', {
+        params: { path: { id: targetId }, query: { start, end } },
+      }),
     [targetId],
   );
   if (error) return <ErrorLine error={error} />;
@@ -201,7 +210,7 @@ function Solutions({
     .sort((a, b) => b.version - a.version);
   const makeCurrent = async (id: number) => {
     try {
-      await send('POST', `/orbit-solutions/${id}/current`);
+      await api.POST('/orbit-solutions/{id}/current', { params: { path: { id } } });
       invalidateCatalogue();
       onChange();
     } catch (e) {
@@ -237,7 +246,7 @@ function Solutions({
               <td>{s.reference || <span class="muted">–</span>}</td>
               <td>{String(s.orbit.elements.periodYears ?? '–')}</td>
               <td>{String(s.orbit.elements.eccentricity ?? '–')}</td>
-              <td>{String(s.orbit.elements.semiMajorAxisArcsec ?? '–')}</td>
+              <td>{semiMajorAxisText(s)}</td>
               <td>{utcText(s.createdAt)}</td>
               <td>
                 {lead && !s.current && (
