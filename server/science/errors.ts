@@ -48,3 +48,13 @@ export function requireFinite(field: string, value: unknown): number {
   }
   return value;
 }
+
+/**
+ * A decimal comma is refused, never dropped: `1,5` must not become 15. The rule names the value
+ * with a decimal point, as the fix.
+ */
+export function refuseDecimalComma(s: string, field: string, value: unknown): void {
+  if (!s.includes(',')) return;
+  const fix = /^[^,]*\d,\d[^,]*$/.test(s) ? s.replace(',', '.') : '1.5';
+  throw new InputError(field, value, `has a comma: use a decimal point: ${fix}`);
+}

@@ -25,6 +25,12 @@ export {
   type Limits,
   type LimitsInput,
 } from './limits.ts';
+export {
+  formatDecDms,
+  formatRaHms,
+  parseDeclination,
+  parseRightAscension,
+} from './coordinates.ts';
 export { darknessExact, darknessFast, type Interval } from './darkness.ts';
 export { nightFrame, type NightFrame } from './frame.ts';
 export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from './night.ts';

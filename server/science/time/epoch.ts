@@ -2,11 +2,17 @@
  * Epochs: every form a user may type, turned into a Julian Date, and back.
  *
  * Accepted strings (case-insensitive prefixes, optional space after the prefix):
- * - ISO 8601 with a time zone designator (`2027-03-01T04:30:00Z`, `2027-03-01T06:30+02:00`) or a
- *   plain date (`2027-03-01`, read as 00:00 UTC);
+ * - ISO 8601 with any zone designator: `Z`, `±hh`, `±hh:mm` or `±hhmm` (`2027-03-01T04:30:00Z`,
+ *   `2027-08-06T02:00-03`, `2027-03-01T10:00+05:30`); seconds optional, their fraction after `.` or
+ *   `,` (both are ISO 8601); or a plain date (`2027-03-01`, read as 00:00 UTC). A time with no zone
+ *   (`2027-03-01T04:30`) is refused, never read in some zone: add `Z` or an offset;
  * - `JD 2461466.5`, `MJD 61466`;
- * - Julian epoch `J2027.35` (J = 2000 + (JD − 2451545)/365.25);
+ * - a bare number ≥ 1e6 is a Julian Date (`2461466.5`); MJD always needs its prefix;
+ * - Julian epoch `J2027.35` (J = 2000 + (JD − 2451545)/365.25), and a bare decimal year from 1000
+ *   to 3000 (`2027.6`) is read as this Julian epoch;
  * - Besselian epoch `B1934.008` (Lieske 1979), still used for older binary-star orbits.
+ *
+ * A decimal comma outside ISO seconds (`2027,6`, `JD 2461466,5`) is refused with the fix named.
  *
  * The JD carries the time scale of its input (UTC for ISO strings). Julian and Besselian epochs are
  * formally TT; the ~69 s between TT and UTC is far below what an orbit's epoch resolves, and the sky
@@ -21,11 +27,11 @@ import {
   SECONDS_PER_DAY,
   TROPICAL_YEAR_DAYS,
 } from '../constants.ts';
-import { InputError } from '../errors.ts';
+import { InputError, refuseDecimalComma } from '../errors.ts';
 
 const MS_PER_DAY = SECONDS_PER_DAY * 1000;
 const ISO_RE =
-  /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.(\d+))?)?(Z|[+-]\d{2}:?\d{2})?)?$/i;
+  /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d+))?)?(Z|[+-]\d{2}(?::?\d{2})?)?)?$/i;
 const NUMBER_RE = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?$/i;
 
 /** The forms an epoch can be written in. */
@@ -44,7 +50,9 @@ export function parseEpoch(value: unknown, field = 'epoch'): number {
       `must be an epoch string: ISO 8601, "JD …", "MJD …", "J2027.35" or "B1934.008"`,
     );
   }
-  const s = value.trim();
+  const s = value.trim().replace(/\u2212/g, '-');
+  if (!ISO_RE.test(s)) refuseDecimalComma(s, field, value);
+  if (NUMBER_RE.test(s)) return bareNumber(Number(s), field, value);
   const prefixed = /^(mjd|jd|j|b)\s*(.*)$/i.exec(s);
   if (prefixed) {
     const prefix = prefixed[1]!.toLowerCase();
@@ -77,7 +85,7 @@ export function parseEpoch(value: unknown, field = 'epoch'): number {
     throw new InputError(
       field,
       value,
-      'must give its time zone (Z or ±hh:mm): times are never read in the machine zone',
+      'must give its time zone: add Z (UTC) or an offset such as -03 or +05:30; times are never read in the machine zone',
     );
   }
   // Date.UTC reads years 0–99 as 1900–1999: refuse them here, by the same range as every form.
@@ -100,13 +108,32 @@ export function parseEpoch(value: unknown, field = 'epoch'): number {
   ) {
     throw new InputError(field, value, 'is not a real calendar date and time');
   }
-  let offsetMin = 0;
-  if (zone && zone.toUpperCase() !== 'Z') {
-    const z = /^([+-])(\d{2}):?(\d{2})$/.exec(zone)!;
-    offsetMin = (z[1] === '-' ? -1 : 1) * (Number(z[2]) * 60 + Number(z[3]));
-  }
+  const offsetMin = zoneOffsetMinutes(zone, field, value);
   const fracMs = frac ? Number(`0.${frac}`) * 1000 : 0;
   return checkRange(field, value, unixMsToJd(ms + fracMs - offsetMin * 60_000));
+}
+
+/** A zone designator in minutes east of UTC (0 for `Z` or none); hours ≤ 23, minutes ≤ 59 (ISO 8601). */
+function zoneOffsetMinutes(zone: string | undefined, field: string, value: unknown): number {
+  if (!zone || zone.toUpperCase() === 'Z') return 0;
+  const z = /^([+-])(\d{2}):?(\d{2})?$/.exec(zone)!;
+  const hours = Number(z[2]);
+  const minutes = Number(z[3] ?? 0);
+  if (hours > 23 || minutes > 59) {
+    throw new InputError(field, value, 'must have a zone offset of at most ±23:59');
+  }
+  return (z[1] === '-' ? -1 : 1) * (hours * 60 + minutes);
+}
+
+/** A number with no prefix: a Julian Date when ≥ 1e6, a decimal (Julian) year from 1000 to 3000. */
+function bareNumber(x: number, field: string, value: unknown): number {
+  if (x >= 1e6) return checkRange(field, value, x);
+  if (x >= 1000 && x <= 3000) return checkRange(field, value, julianEpochToJd(x));
+  throw new InputError(
+    field,
+    value,
+    'is neither a Julian Date (≥ 1e6) nor a year from 1000 to 3000: write "MJD …", "JD …" or "J…" before it',
+  );
 }
 
 /**
