@@ -255,6 +255,32 @@ describe.each(BACKENDS)('text, ids and epochs on $name', (backend) => {
     );
   });
 
+  it('names the member field when orbit elements match neither form', async () => {
+    const { ORBIT_S1 } = await import('../store/backends.ts');
+    const campbell = { ...ORBIT_S1.elements, periodYears: 'ten' };
+    const thieleInnes = {
+      kind: 'thiele-innes',
+      periodYears: 10,
+      periapsis: '2027-01-01T00:00:00Z',
+      eccentricity: 0.5,
+      aArcsec: 0.1,
+      bArcsec: 0.1,
+      fArcsec: 0.1,
+    };
+    for (const [elements, field] of [
+      [campbell, 'orbit.elements.periodYears'],
+      [thieleInnes, 'orbit.elements.gArcsec'],
+    ] as const) {
+      const res = await f.call('viewer', 'POST', '/api/ephemeris', {
+        orbit: { elements },
+        epochs: ['2027-01-01T00:00:00Z'],
+      });
+      const text = await res.text();
+      expect(res.status, text).toBe(400);
+      expect(namedFields(JSON.parse(text) as ErrorBody), text).toEqual([field]);
+    }
+  });
+
   it('refuses to revoke the last active token of any lead, and allows it once another exists', async () => {
     const [own] = await f.store.users.listTokens('lead one');
     const before = await tableCounts(f.store);
