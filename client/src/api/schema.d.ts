@@ -8384,6 +8384,19 @@ export interface components {
                 skyRateMasPerDay: number;
                 /** @description longest interval between epochs that still follows the change, days */
                 samplingDays: number | null;
+                /** @description nights of the ± window holding a planned epoch or an allocated observable night, and whether the most likely night is covered */
+                coverage: {
+                    planned: {
+                        site: string;
+                        date: string;
+                    }[];
+                    allocated: {
+                        site: string;
+                        date: string;
+                    }[];
+                    mostLikelyCovered: boolean;
+                    text: string;
+                };
                 relativity: {
                     gravitationalRedshiftKmS: number;
                     transverseDopplerKmS: number;
@@ -8399,6 +8412,7 @@ export interface components {
             stale?: {
                 sigmaMas: number | null;
                 daysSinceMeasured: number | null;
+                nextPlanned: string | null;
             };
         };
         SeasonPlanPreview: {

@@ -75,6 +75,18 @@ export const FlagSchema = z
         samplingDays: z.number().nullable().openapi({
           description: 'longest interval between epochs that still follows the change, days',
         }),
+        coverage: z
+          .object({
+            planned: z.array(z.object({ site: z.string(), date: z.string() }).strict()),
+            allocated: z.array(z.object({ site: z.string(), date: z.string() }).strict()),
+            mostLikelyCovered: z.boolean(),
+            text: z.string(),
+          })
+          .strict()
+          .openapi({
+            description:
+              'nights of the ± window holding a planned epoch or an allocated observable night, and whether the most likely night is covered',
+          }),
         relativity: z
           .object({
             gravitationalRedshiftKmS: z.number(),
@@ -91,7 +103,11 @@ export const FlagSchema = z
       .strict()
       .optional(),
     stale: z
-      .object({ sigmaMas: z.number().nullable(), daysSinceMeasured: z.number().nullable() })
+      .object({
+        sigmaMas: z.number().nullable(),
+        daysSinceMeasured: z.number().nullable(),
+        nextPlanned: z.string().nullable(),
+      })
       .strict()
       .optional(),
   })

@@ -42,6 +42,15 @@ export interface FlagTarget {
   lastMeasuredJd?: number | null;
   /** The primary itself shows in the images (a star, not a dark compact object). */
   primaryVisible?: boolean;
+  /** Middles of accepted planned blocks of the target still to come, JD. */
+  plannedEpochsJd?: readonly number[];
+}
+
+export interface FlagSite {
+  site: Site;
+  limits: Limits;
+  /** The campaign's allocated nights at the site (local evening dates); absent: unknown. */
+  nights?: readonly string[];
 }
 
 export interface FlagOptions {
@@ -81,6 +90,13 @@ export interface Flag {
     skyRateMasPerDay: number;
     /** Longest interval between epochs that still follows the change at the expected precision, days. */
     samplingDays: number | null;
+    /** Which nights of the ± window hold a planned epoch or an allocated night (with hours), and whether the most likely night does. */
+    coverage: {
+      planned: { site: string; date: string }[];
+      allocated: { site: string; date: string }[];
+      mostLikelyCovered: boolean;
+      text: string;
+    };
     relativity: {
       gravitationalRedshiftKmS: number;
       transverseDopplerKmS: number;
@@ -88,7 +104,12 @@ export interface Flag {
     } | null;
   };
   blend?: { other: string; start: string; end: string; closestMas: number };
-  stale?: { sigmaMas: number | null; daysSinceMeasured: number | null };
+  stale?: {
+    sigmaMas: number | null;
+    daysSinceMeasured: number | null;
+    /** The next planned epoch, ISO 8601 UTC, if any. */
+    nextPlanned: string | null;
+  };
 }
 
 function localNight(jd: number, zone: string): string {
@@ -129,7 +150,7 @@ export function hoursAround(
 
 export function computeFlags(
   targets: readonly FlagTarget[],
-  sites: readonly { site: Site; limits: Limits }[],
+  sites: readonly FlagSite[],
   options: FlagOptions,
 ): Flag[] {
   const now = options.nowJd;
@@ -149,39 +170,9 @@ export function computeFlags(
 
   for (const ft of targets) {
     const orbit = ft.target.orbit;
-    const name = ft.target.name;
     if (orbit) flags.push(...periapsisFlags(ft, orbit, sites, now, horizon, lead, precision));
-    // Stale: uncertainty now, and time since the last measurement.
-    const sigma = orbit?.covariance
-      ? (() => {
-          const r = ephemeris(orbit, Float64Array.of(now))[0]!;
-          return Math.hypot(r.sigma?.dRaMas ?? 0, r.sigma?.dDecMas ?? 0);
-        })()
-      : null;
-    const since =
-      ft.lastMeasuredJd === undefined || ft.lastMeasuredJd === null
-        ? null
-        : now - ft.lastMeasuredJd;
-    const reasons: string[] = [];
-    if (sigma !== null && sigma > staleSigma)
-      reasons.push(
-        `its predicted position is uncertain by ${sigma.toFixed(1)} mas (1σ), beyond the ${staleSigma} mas limit`,
-      );
-    if (since !== null && ft.cadenceDays !== undefined && since > ft.cadenceDays)
-      reasons.push(
-        `it has not been measured for ${Math.floor(since)} days, longer than its ${ft.cadenceDays}-day cadence`,
-      );
-    if (ft.cadenceDays !== undefined && ft.lastMeasuredJd === null)
-      reasons.push('it has never been measured');
-    if (reasons.length > 0)
-      flags.push({
-        kind: 'stale-prediction',
-        target: name,
-        date: jdToIso(now),
-        daysAhead: 0,
-        reason: `${name}: ${reasons.join('; ')}.`,
-        stale: { sigmaMas: sigma, daysSinceMeasured: since },
-      });
+    const stale = staleFlag(ft, sites, now, staleSigma);
+    if (stale) flags.push(stale);
   }
 
   if (resolution !== null) {
@@ -197,8 +188,11 @@ export function computeFlags(
       }
     }
   }
+  // Stale predictions rank below every periapsis and blend flag; the rest soonest first.
+  const staleLast = (f: Flag) => (f.kind === 'stale-prediction' ? 1 : 0);
   return flags.sort(
     (x, y) =>
+      staleLast(x) - staleLast(y) ||
       x.date.localeCompare(y.date) ||
       FLAG_KINDS.indexOf(x.kind) - FLAG_KINDS.indexOf(y.kind) ||
       x.target.localeCompare(y.target),
@@ -208,7 +202,7 @@ export function computeFlags(
 function periapsisFlags(
   ft: FlagTarget,
   orbit: Orbit,
-  sites: readonly { site: Site; limits: Limits }[],
+  sites: readonly FlagSite[],
   now: number,
   horizon: number,
   lead: number[],
@@ -249,7 +243,9 @@ function periapsisFlags(
     ? `; gravitational redshift ${relativity.gravitationalRedshiftKmS.toFixed(3)} km/s, transverse Doppler ${relativity.transverseDopplerKmS.toFixed(3)} km/s, precession ${relativity.precessionArcminPerOrbit.toFixed(2)}′ per orbit`
     : '';
   const where = siteHours.map(siteHoursWords).join('; ');
+  const coverage = passageCoverage(ft, sites, siteHours, ev.jd);
   const details = {
+    coverage,
     sigmaDays,
     band,
     sites: siteHours,
@@ -275,7 +271,7 @@ function periapsisFlags(
     target: name,
     date,
     daysAhead,
-    reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} days ahead (${band}). Observable: ${where}. Its ${rates}${rel}.`,
+    reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} days ahead (${band}). Observable: ${where}. ${coverage.text ? `${coverage.text} ` : ''}Its ${rates}${rel}.`,
     periapsis: details,
   });
   return out;
@@ -337,4 +333,115 @@ function blendFlags(
       blend: { other, start, end, closestMas: min },
     };
   });
+}
+
+/**
+ * Stale prediction: position uncertainty now beyond the limit, or no measurement for longer than the
+ * cadence. A planned epoch within the cadence answers the second; a target no site can observe in
+ * the coming nights is not flagged now, and the reason says when it becomes observable instead.
+ */
+function staleFlag(
+  ft: FlagTarget,
+  sites: readonly FlagSite[],
+  now: number,
+  staleSigma: number,
+): Flag | null {
+  const orbit = ft.target.orbit;
+  const sigma = orbit?.covariance
+    ? (() => {
+        const r = ephemeris(orbit, Float64Array.of(now))[0]!;
+        return Math.hypot(r.sigma?.dRaMas ?? 0, r.sigma?.dDecMas ?? 0);
+      })()
+    : null;
+  const since =
+    ft.lastMeasuredJd === undefined || ft.lastMeasuredJd === null ? null : now - ft.lastMeasuredJd;
+  const next = (ft.plannedEpochsJd ?? []).filter((j) => j >= now).sort((a, b) => a - b)[0] ?? null;
+  const plannedInTime =
+    next !== null && ft.cadenceDays !== undefined && next - now <= ft.cadenceDays;
+  const reasons: string[] = [];
+  if (sigma !== null && sigma > staleSigma)
+    reasons.push(
+      `its predicted position is uncertain by ${sigma.toFixed(1)} mas (1σ), beyond the ${staleSigma} mas limit`,
+    );
+  if (!plannedInTime && since !== null && ft.cadenceDays !== undefined && since > ft.cadenceDays)
+    reasons.push(
+      `it has not been measured for ${Math.floor(since)} days, longer than its ${ft.cadenceDays}-day cadence`,
+    );
+  if (!plannedInTime && ft.cadenceDays !== undefined && ft.lastMeasuredJd === null)
+    reasons.push('it has never been measured');
+  if (reasons.length === 0) return null;
+  // Not raised while no site can observe it: dated when it becomes observable, and saying so.
+  const opens = firstObservable(ft.target, sites, now);
+  const when = opens === undefined ? now : opens;
+  const seen =
+    opens === undefined
+      ? '; no campaign site can observe it within the coming year'
+      : opens > now + 0.5
+        ? `; no campaign site can observe it until the night of ${localNight(opens, sites[0]!.site.timeZone)}, when this applies`
+        : '';
+  const plan =
+    next === null
+      ? 'no epoch is planned'
+      : `the next planned epoch is ${jdToIso(next).slice(0, 10)}`;
+  return {
+    kind: 'stale-prediction',
+    target: ft.target.name,
+    date: jdToIso(when),
+    daysAhead: when - now,
+    reason: `${ft.target.name}: ${reasons.join('; ')}; ${plan}${seen}.`,
+    stale: {
+      sigmaMas: sigma,
+      daysSinceMeasured: since,
+      nextPlanned: next === null ? null : jdToIso(next),
+    },
+  };
+}
+
+/** The JD of the first night (weekly steps over a year) on which some site sees the target, or undefined. */
+export function firstObservable(
+  target: Target,
+  sites: readonly FlagSite[],
+  now: number,
+): number | undefined {
+  for (let d = 0; d <= 365; d += 7) {
+    for (const s of sites) {
+      const g = nightGrid(s.site, s.limits, localNight(now + d + 0.5, s.site.timeZone), 30);
+      if (targetGrid(g, target).ok.some((v) => v === 1)) return now + d;
+    }
+  }
+  return undefined;
+}
+
+/**
+ * Whether planned epochs or allocated observable nights cover the ± window: "covered: Tolvane
+ * 06-13 (planned), 06-15; not covered: the most likely night 06-14".
+ */
+function passageCoverage(
+  ft: FlagTarget,
+  sites: readonly FlagSite[],
+  hours: readonly SiteHours[],
+  jd: number,
+): NonNullable<Flag['periapsis']>['coverage'] {
+  const planned: { site: string; date: string }[] = [];
+  const allocated: { site: string; date: string }[] = [];
+  const epochs = ft.plannedEpochsJd ?? [];
+  sites.forEach((s, i) => {
+    const zone = s.site.timeZone;
+    for (const n of hours[i]!.nights) {
+      if (epochs.some((e) => localNight(e, zone) === n.date))
+        planned.push({ site: s.site.name, date: n.date });
+      else if (s.nights?.includes(n.date) && n.hours > 0)
+        allocated.push({ site: s.site.name, date: n.date });
+    }
+  });
+  const likely = sites.map((s) => localNight(jd, s.site.timeZone));
+  const mostLikelyCovered = epochs.some((e) => Math.abs(e - jd) <= 1);
+  const list = (xs: { site: string; date: string }[], tag: string) =>
+    xs.map((x) => `${x.site} ${x.date.slice(5)}${tag}`);
+  const covered = [...list(planned, ' (planned)'), ...list(allocated, ' (allocated)')];
+  const known = sites.some((s) => s.nights !== undefined) || epochs.length > 0;
+  const text = !known
+    ? ''
+    : `Covered: ${covered.length ? covered.join(', ') : 'no planned epoch or allocated observable night in the window'}${mostLikelyCovered ? '.' : `; not covered: the most likely night ${[...new Set(likely)].map((d) => d.slice(5)).join('/')} (no planned epoch within 1 d of the date).`}`;
+  return { planned, allocated, mostLikelyCovered, text };
 }

@@ -3,9 +3,12 @@
  * its targets placed by their system and current orbit, with their last measurement. Then the
  * campaign's flags. Systems are placed at their stored position epoch with their proper motions, as in visibility.ts.
  */
-import { eq, inArray, max } from 'drizzle-orm';
+import { and, eq, gte, inArray, max } from 'drizzle-orm';
+import { jdToIso, parseEpoch } from '../../science/time/index.ts';
 import {
+  blocks,
   measurements,
+  nights,
   sites as sitesTable,
   systems,
   targets as targetsTable,
@@ -101,14 +104,41 @@ export async function campaignFlags(
   options: { nowJd: number; resolutionMas?: number },
 ): Promise<{ campaignId: number; flags: Flag[] }> {
   const input = await campaignPlanningInput(db, campaignId);
+  const nightRows = await db
+    .select({ id: nights.id, siteId: nights.siteId, date: nights.date })
+    .from(nights)
+    .where(eq(nights.campaignId, campaignId));
+  const nowIso = jdToIso(options.nowJd);
+  const planned = nightRows.length
+    ? await db
+        .select({ targetId: blocks.targetId, start: blocks.startUtc, end: blocks.endUtc })
+        .from(blocks)
+        .where(
+          and(
+            inArray(
+              blocks.nightId,
+              nightRows.map((n) => n.id),
+            ),
+            eq(blocks.status, 'planned'),
+            gte(blocks.endUtc, nowIso),
+          ),
+        )
+    : [];
+  const goals = input.campaign.goals;
   const flags = computeFlags(
     input.targets.map((t) => ({
       target: t.target,
       system: t.system,
-      cadenceDays: input.campaign.goals.cadenceDays,
+      cadenceDays: goals.targets?.[String(t.id)]?.cadenceDays ?? goals.cadenceDays,
       lastMeasuredJd: t.lastMeasuredJd,
+      plannedEpochsJd: planned
+        .filter((b) => b.targetId === t.id)
+        .map((b) => (parseEpoch(b.start) + parseEpoch(b.end)) / 2),
     })),
-    input.sites,
+    input.sites.map((s) => ({
+      ...s,
+      nights: nightRows.filter((n) => n.siteId === s.id).map((n) => n.date),
+    })),
     {
       nowJd: options.nowJd,
       leadDays: [30, 182, 365],
