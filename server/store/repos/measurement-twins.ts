@@ -9,20 +9,10 @@ import { measurements } from '../../../db/schema.ts';
 import { SECONDS_PER_DAY } from '../../science/constants.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
+import { MEASUREMENT_FIELDS } from '../schemas/entities.ts';
 
-const VALUE_FIELDS = [
-  'dRaMas',
-  'dDecMas',
-  'sigmaDRaMas',
-  'sigmaDDecMas',
-  'separationMas',
-  'positionAngleDeg',
-  'sigmaSeparationMas',
-  'sigmaPositionAngleDeg',
-  'correlation',
-  'radialVelocityKmS',
-  'sigmaRadialVelocityKmS',
-] as const;
+/** Every value a measurement can carry: each kind's quantities and σ, and the correlation. */
+const VALUE_FIELDS = [...Object.values(MEASUREMENT_FIELDS).flat(), 'correlation'];
 
 type Row = Record<string, unknown>;
 

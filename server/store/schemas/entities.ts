@@ -254,7 +254,8 @@ export const NightReportFields = z.object({
 });
 export const NightReportInput = NightReportFields;
 
-const MEASUREMENT_FIELDS = {
+/** The quantities (with their σ) each kind of measurement carries. */
+export const MEASUREMENT_FIELDS = {
   offsets: ['dRaMas', 'dDecMas', 'sigmaDRaMas', 'sigmaDDecMas'],
   separation: ['separationMas', 'positionAngleDeg', 'sigmaSeparationMas', 'sigmaPositionAngleDeg'],
   'radial-velocity': ['radialVelocityKmS', 'sigmaRadialVelocityKmS'],
