@@ -13,6 +13,9 @@ import { useAction } from '../lib/use-action.ts';
 export type PlannedEpoch = Schemas['SeasonPlan']['epochs'][number];
 export type SeasonPlanPreview = Schemas['SeasonPlanPreview'];
 
+const pct = (x: number) => `${Math.round(100 * x)} %`;
+const utcDay = (iso: string) => iso.slice(0, 10);
+
 export function SeasonPlanPanel({
   campaign,
   year,
@@ -191,37 +194,52 @@ export function SeasonPlanPanel({
             <thead>
               <tr>
                 <th>target</th>
+                <th>priority</th>
+                <th>cadence (d)</th>
                 <th>epochs</th>
                 <th>cadence met</th>
-                <th>periapsis date σ (d), before → after</th>
-                <th>mass σ (fraction), before → after</th>
+                <th>coming periapsis</th>
+                <th>its date σ (d), before → after</th>
+                <th>coverage, before → after</th>
+                <th>mass σ (%), before → after</th>
               </tr>
             </thead>
             <tbody>
               {p.targets.map((t) => (
                 <tr key={t.target}>
                   <td>{t.target}</td>
+                  <td>{t.priority}</td>
+                  <td>{t.cadenceDays}</td>
                   <td>
                     {Object.entries(t.epochs)
                       .map(([k, n]) => `${n} ${k}`)
                       .join(', ')}
                   </td>
                   <td>{t.cadenceMet ? 'yes' : 'no'}</td>
+                  <td>{t.shrinkage?.passage ? utcDay(t.shrinkage.passage) : '–'}</td>
                   <td>
-                    {t.shrinkage?.periapsisDays ? (
+                    {t.shrinkage?.passage ? (
                       <>
                         <Qty v={t.shrinkage.periapsisDays.before} unit="" digits={2} /> →{' '}
                         <Qty v={t.shrinkage.periapsisDays.after} unit="" digits={2} />
+                        {t.shrinkage.nominalPrior && (
+                          <span class="muted"> (no covariance: nominal prior)</span>
+                        )}
                       </>
                     ) : (
                       '–'
                     )}
                   </td>
                   <td>
-                    {t.shrinkage?.massFraction ? (
+                    {t.passage
+                      ? `${pct(t.passage.coverage.before)} → ${pct(t.passage.coverage.after)} within ${t.passage.coverage.withinDays} d`
+                      : '–'}
+                  </td>
+                  <td>
+                    {t.shrinkage?.massFraction.before != null ? (
                       <>
-                        <Qty v={t.shrinkage.massFraction.before} unit="" digits={3} /> →{' '}
-                        <Qty v={t.shrinkage.massFraction.after} unit="" digits={3} />
+                        <Qty v={t.shrinkage.massFraction.before * 100} unit="" digits={2} /> →{' '}
+                        <Qty v={(t.shrinkage.massFraction.after ?? 0) * 100} unit="" digits={2} />
                       </>
                     ) : (
                       '–'
@@ -231,6 +249,33 @@ export function SeasonPlanPanel({
               ))}
             </tbody>
           </table>
+          {p.targets.some((t) => t.passage) && (
+            <details class="periapsis-windows">
+              <summary>
+                Periapsis windows: epochs in each, and every allocated night left unused with why
+              </summary>
+              <ul>
+                {p.targets.map((t) =>
+                  t.passage ? (
+                    <li key={t.target}>
+                      <strong>{t.target}</strong> passes periapsis {utcDay(t.passage.date)} (window
+                      ± {t.passage.windowSigma} σ: {utcDay(t.passage.windowStart)} to{' '}
+                      {utcDay(t.passage.windowEnd)}), {t.passage.epochs} epochs in it
+                      {t.passage.unused.length > 0 && (
+                        <ul>
+                          {t.passage.unused.map((n) => (
+                            <li key={`${n.site}${n.date}${n.kind}`}>
+                              unused: {n.site} {n.date} {n.kind}: {n.words}
+                            </li>
+                          ))}
+                        </ul>
+                      )}
+                    </li>
+                  ) : null,
+                )}
+              </ul>
+            </details>
+          )}
           <details>
             <summary>{p.epochs.length} proposed epochs, with the reason for each</summary>
             <div class="scroll">
@@ -242,12 +287,14 @@ export function SeasonPlanPanel({
                     <th>target</th>
                     <th>kind</th>
                     <th>UTC</th>
+                    <th>expected σ</th>
+                    <th>gain</th>
                     <th>why</th>
                   </tr>
                 </thead>
                 <tbody>
                   {p.epochs.map((e) => (
-                    <tr key={`${e.target}${e.kind}${e.date}${e.site}`}>
+                    <tr key={e.block.id}>
                       <td>{e.date}</td>
                       <td>{e.site}</td>
                       <td>{e.target}</td>
@@ -258,6 +305,11 @@ export function SeasonPlanPanel({
                       <td>
                         {utcClock(e.block.start.utc)}–{utcClock(e.block.end.utc)}
                       </td>
+                      <td>
+                        {e.precision.sigma.toFixed(e.precision.unit === 'mas' ? 2 : 1)}{' '}
+                        {e.precision.unit} at airmass {e.precision.airmass.toFixed(2)}
+                      </td>
+                      <td>{e.gain.text}</td>
                       <td>{e.reason}</td>
                     </tr>
                   ))}
