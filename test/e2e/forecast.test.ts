@@ -4,7 +4,9 @@
  */
 import type { Browser, BrowserContext } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
-import { HEADLINE, apiCaller, launchBrowser, newContext } from './harness.ts';
+import { mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { HEADLINE, SCREENSHOTS, apiCaller, launchBrowser, newContext } from './harness.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -13,6 +15,7 @@ let browser: Browser;
 let ctx: BrowserContext;
 
 beforeAll(async () => {
+  mkdirSync(SCREENSHOTS, { recursive: true });
   browser = await launchBrowser();
   ctx = await newContext(browser, { viewport: { width: 1280, height: 900 } });
 });
@@ -21,7 +24,7 @@ afterAll(async () => {
   await browser?.close();
 });
 
-describe('the relativity forecast in the target view', () => {
+describe('the relativity forecast and light-time in the target view', () => {
   test("shows the deepest star's redshift and precession forecast as the API gives it", async () => {
     const targets = (await api<{ items: { id: number; name: string }[] }>('/targets?limit=500'))
       .items;
@@ -38,6 +41,12 @@ describe('the relativity forecast in the target view', () => {
     expect(await rows.count()).toBe(2);
     expect(await rows.nth(0).textContent()).toMatch(/redshift factor/);
     expect(await page.locator('.forecast-table').textContent()).not.toMatch(/NaN|undefined/);
+    // Its solution has the Rømer delay on: the events table shows observed and emitted times.
+    await page.locator('#events tbody tr').first().waitFor();
+    const head = await page.locator('#events thead').textContent();
+    expect(head).toMatch(/observed \(UTC, light-time included\)/);
+    expect(head).toMatch(/emitted at the star/);
+    await page.locator('#forecast').screenshot({ path: join(SCREENSHOTS, 'forecast.png') });
     expect(errors).toEqual([]);
     await page.close();
   });

@@ -7528,9 +7528,14 @@ export interface components {
             precession: boolean;
         };
         EphemerisRow: {
-            /** @description ISO 8601 UTC */
+            /** @description observed instant, ISO 8601 UTC */
             epoch: string;
             jd: number;
+            /** @description true: epoch is an observed time, light-time across the orbit (Rømer delay) included */
+            lightTimeIncluded: boolean;
+            /** @description when the light left the star, ISO 8601 UTC (= epoch without Rømer delay) */
+            emissionEpoch: string;
+            emissionJd: number;
             meanAnomalyDeg: number;
             eccentricAnomalyDeg: number;
             trueAnomalyDeg: number;
@@ -7639,6 +7644,10 @@ export interface components {
             jd: number;
             /** @description observed instant, ISO 8601 UTC */
             epoch: string;
+            /** @description whether epoch includes the Rømer delay */
+            lightTimeIncluded: boolean;
+            /** @description when the light left the star, ISO 8601 UTC */
+            emissionEpoch: string;
             /** @description 0 is the orbit whose periapsis is the elements’ T */
             orbitNumber: number;
             state: components["schemas"]["Prediction"];
@@ -7650,9 +7659,14 @@ export interface components {
             missingDraws?: number;
         };
         Prediction: {
-            /** @description ISO 8601 UTC */
+            /** @description observed instant, ISO 8601 UTC */
             epoch: string;
             jd: number;
+            /** @description true: epoch is an observed time, light-time across the orbit (Rømer delay) included */
+            lightTimeIncluded: boolean;
+            /** @description when the light left the star, ISO 8601 UTC (= epoch without Rømer delay) */
+            emissionEpoch: string;
+            emissionJd: number;
             meanAnomalyDeg: number;
             eccentricAnomalyDeg: number;
             trueAnomalyDeg: number;

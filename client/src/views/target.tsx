@@ -154,16 +154,21 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
   );
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="events" />;
+  const lightTime = data.events.some((e) => e.lightTimeIncluded);
   return (
     <table class="data events">
       <caption>
         From one year ago to {span.toFixed(0)} years ahead; uncertainty from the solution’s
         covariance where it has one.
+        {lightTime
+          ? ' Observed times include the light-time across the orbit (Rømer delay); emitted times are when the light left the star.'
+          : ' This solution has the Rømer delay off: observed and emitted times are one clock.'}
       </caption>
       <thead>
         <tr>
           <th>event</th>
-          <th>epoch (UTC)</th>
+          <th>{lightTime ? 'observed (UTC, light-time included)' : 'epoch (UTC)'}</th>
+          {lightTime && <th>emitted at the star (UTC)</th>}
           <th>± (d)</th>
           <th>separation (mas)</th>
           <th>PA (°)</th>
@@ -175,6 +180,7 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
           <tr key={`${e.kind}${e.jd}`} class={e.kind === 'periapsis' ? 'row-periapsis' : ''}>
             <td>{e.kind}</td>
             <td>{utcText(e.epoch)}</td>
+            {lightTime && <td>{utcText(e.emissionEpoch)}</td>}
             <td>
               <Qty v={e.sigmaDays} unit="" />
             </td>

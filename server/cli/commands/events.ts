@@ -22,7 +22,9 @@ const help = `usage: epochwright events --orbit <json|file> --start <epoch> --en
 
 Lists, soonest first, the orbit's events between two epochs with the state at each: separation,
 position angle, radial velocity. With a covariance, each date comes with its 1σ in days; with --mc,
-with the 2.5/16/50/84/97.5 percentiles of the date.
+with the 2.5/16/50/84/97.5 percentiles of the date. With the Rømer delay on, each event shows its
+observed time (light-time across the orbit included) and its emitted time (when the light left the
+star); without it the two are one clock and one column.
 
 kinds: ${EVENT_KINDS.join(', ')} (default: all)
 
@@ -69,10 +71,18 @@ export const eventsCommand: Command = {
       },
     );
     const show = epochPrinter(values.time);
-    const columns: Column<EventWithUncertainty>[] = [
-      { header: 'event', value: (e) => e.kind },
-      { header: 'epoch', value: (e) => show(e.jd) },
-    ];
+    // With the Rømer delay on, an event has an observed time (light-time included) and an emitted
+    // one; both are shown. Without it the two are one clock.
+    const columns: Column<EventWithUncertainty>[] = orbit.relativity.romer
+      ? [
+          { header: 'event', value: (e) => e.kind },
+          { header: 'observed', value: (e) => show(e.jd) },
+          { header: 'emitted', value: (e) => show(e.state.emissionJd) },
+        ]
+      : [
+          { header: 'event', value: (e) => e.kind },
+          { header: 'epoch', value: (e) => show(e.jd) },
+        ];
     if (orbit.covariance)
       columns.push({ header: 'sigma_days', value: (e) => e.sigmaDays, digits: 2 });
     if (mc) {

@@ -59,8 +59,16 @@ export const OrbitDescriptionSchema = z
 
 export const PredictionSchema = z
   .object({
-    epoch: z.string().openapi({ description: 'ISO 8601 UTC' }),
+    epoch: z.string().openapi({ description: 'observed instant, ISO 8601 UTC' }),
     jd: z.number(),
+    lightTimeIncluded: z.boolean().openapi({
+      description:
+        'true: epoch is an observed time, light-time across the orbit (Rømer delay) included',
+    }),
+    emissionEpoch: z.string().openapi({
+      description: 'when the light left the star, ISO 8601 UTC (= epoch without Rømer delay)',
+    }),
+    emissionJd: z.number(),
     meanAnomalyDeg: z.number(),
     eccentricAnomalyDeg: z.number(),
     trueAnomalyDeg: z.number(),
@@ -110,6 +118,12 @@ export const OrbitEventSchema = z
     kind: z.enum(EVENT_KINDS),
     jd: z.number(),
     epoch: z.string().openapi({ description: 'observed instant, ISO 8601 UTC' }),
+    lightTimeIncluded: z
+      .boolean()
+      .openapi({ description: 'whether epoch includes the Rømer delay' }),
+    emissionEpoch: z
+      .string()
+      .openapi({ description: 'when the light left the star, ISO 8601 UTC' }),
     orbitNumber: num('0 is the orbit whose periapsis is the elements’ T'),
     state: PredictionSchema,
     sigmaDays: num('linear 1σ of the date, days; only with a covariance').optional(),

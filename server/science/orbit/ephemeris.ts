@@ -58,7 +58,9 @@ export function ephemeris(
   options: UncertaintyOptions = {},
 ): EphemerisRow[] {
   const cols = predictBatch(orbit, jd);
-  const rows: EphemerisRow[] = Array.from({ length: jd.length }, (_, i) => rowOf(cols, i));
+  const rows: EphemerisRow[] = Array.from({ length: jd.length }, (_, i) =>
+    rowOf(cols, i, orbit.relativity.romer),
+  );
   if (!orbit.covariance) {
     if (options.monteCarlo)
       throw new InputError('orbit.covariance', null, 'is needed for Monte Carlo percentiles');

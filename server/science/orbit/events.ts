@@ -40,6 +40,10 @@ export interface OrbitEvent {
   /** Observed instant, JD (UTC) and ISO 8601. */
   jd: number;
   epoch: string;
+  /** Whether `epoch` includes the light-time across the orbit (the Rømer delay is on). */
+  lightTimeIncluded: boolean;
+  /** When the light left the star (equal to `epoch` without the Rømer delay), ISO 8601 UTC. */
+  emissionEpoch: string;
   /** Orbit count: 0 is the orbit whose periapsis is the elements' T. */
   orbitNumber: number;
   state: Prediction;
@@ -77,7 +81,7 @@ export class OrbitSampler {
     return observedTime(this.p, this.emissionTime(k, E), E);
   }
   state(k: number, E: number): Prediction {
-    return rowOf(this.at(k, E), 0);
+    return rowOf(this.at(k, E), 0, this.p.orbit.relativity.romer);
   }
 }
 
@@ -264,7 +268,15 @@ export function findEvents(
 
 export function eventFromLocus(s: OrbitSampler, l: EventLocus): OrbitEvent {
   const state = s.state(l.k, l.E);
-  return { kind: l.kind, jd: state.jd, epoch: jdToIso(state.jd), orbitNumber: l.k, state };
+  return {
+    kind: l.kind,
+    jd: state.jd,
+    epoch: jdToIso(state.jd),
+    lightTimeIncluded: state.lightTimeIncluded,
+    emissionEpoch: state.emissionEpoch,
+    orbitNumber: l.k,
+    state,
+  };
 }
 
 /**

@@ -21,6 +21,7 @@ import { AU_M } from '../constants.ts';
 /** Columns of a batch prediction. 3-D and velocity columns are NaN when the orbit has no distance. */
 export const PREDICTION_FIELDS = [
   'jd',
+  'emissionJd',
   'meanAnomalyDeg',
   'eccentricAnomalyDeg',
   'trueAnomalyDeg',
@@ -45,8 +46,18 @@ export type PredictionColumns = Record<PredictionField, Float64Array>;
 
 /** One prediction. Units are in the names; fields that need a distance are null without one. */
 export interface Prediction {
+  /** Observed instant (light reaching us), ISO 8601 UTC and JD. */
   epoch: string;
   jd: number;
+  /**
+   * True when `epoch` is an observed time with the light-time across the orbit (Rømer delay)
+   * included; false when the orbit has the Rømer delay off, so that observed and emitted times are
+   * the same clock.
+   */
+  lightTimeIncluded: boolean;
+  /** When the light left the star (emission time), ISO 8601 UTC and JD: `epoch` minus the Rømer delay when it is on. */
+  emissionEpoch: string;
+  emissionJd: number;
   meanAnomalyDeg: number;
   eccentricAnomalyDeg: number;
   trueAnomalyDeg: number;
@@ -212,6 +223,7 @@ export function writeState(
   let pa = Math.atan2(dRa, dDec) / DEG;
   if (pa < 0) pa += 360;
   c.jd[i] = tObs;
+  c.emissionJd[i] = tEm;
   c.meanAnomalyDeg[i] = M / DEG;
   c.eccentricAnomalyDeg[i] = Ered / DEG;
   c.trueAnomalyDeg[i] = nu / DEG;
@@ -287,12 +299,15 @@ export function predictBatch(
   return out;
 }
 
-/** Row i of a batch as a Prediction object. */
-export function rowOf(c: PredictionColumns, i: number): Prediction {
+/** Row i of a batch as a Prediction object; `lightTime`: whether the orbit has the Rømer delay on. */
+export function rowOf(c: PredictionColumns, i: number, lightTime: boolean): Prediction {
   const opt = (x: number) => (Number.isNaN(x) ? null : x);
   return {
     epoch: jdToIso(c.jd[i]!),
     jd: c.jd[i]!,
+    lightTimeIncluded: lightTime,
+    emissionEpoch: jdToIso(c.emissionJd[i]!),
+    emissionJd: c.emissionJd[i]!,
     meanAnomalyDeg: c.meanAnomalyDeg[i]!,
     eccentricAnomalyDeg: c.eccentricAnomalyDeg[i]!,
     trueAnomalyDeg: c.trueAnomalyDeg[i]!,
@@ -316,5 +331,5 @@ export function rowOf(c: PredictionColumns, i: number): Prediction {
 
 /** Scalar wrapper: the prediction at one observed epoch (JD). */
 export function predict(orbit: Orbit, jd: number): Prediction {
-  return rowOf(predictBatch(orbit, Float64Array.of(jd)), 0);
+  return rowOf(predictBatch(orbit, Float64Array.of(jd)), 0, orbit.relativity.romer);
 }
