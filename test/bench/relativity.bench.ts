@@ -7,27 +7,15 @@
  * The orbit is invented demo values.
  */
 import { fitOrbits, type FitRequest } from '../../server/science/orbit/fit/index.ts';
-import { validateOrbit, type OrbitInput } from '../../server/science/orbit/index.ts';
+import { validateOrbit } from '../../server/science/orbit/index.ts';
 import { forecastDetection, type ForecastEpoch } from '../../server/science/plan/index.ts';
 import { SeededRandom } from '../../server/science/random.ts';
+import { DEEP_PERIAPSIS_JD, deepStar } from '../science/orbit/fit/deep-star.ts';
 import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
 import { benchLine, bestOfPair, isMain } from './timing.ts';
 
-const PERIAPSIS_JD = 2461771.5;
-const TRUTH: OrbitInput = {
-  elements: {
-    periodYears: 10,
-    periapsis: `JD ${PERIAPSIS_JD}`,
-    eccentricity: 0.9,
-    semiMajorAxisArcsec: 0.0843,
-    inclinationDeg: 60,
-    ascendingNodeDeg: 100,
-    argPeriapsisDeg: 30,
-  },
-  distancePc: 10_000,
-  systemicVelocityKmS: 0,
-  relativity: { gravitationalRedshift: true, transverseDoppler: true, precession: true },
-};
+const PERIAPSIS_JD = DEEP_PERIAPSIS_JD;
+const TRUTH = deepStar();
 
 export async function run(): Promise<string[]> {
   const r = new SeededRandom(5);

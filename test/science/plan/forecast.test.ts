@@ -7,26 +7,14 @@
  */
 import { describe, expect, it } from 'vitest';
 import { fitOrbits, type MeasurementInput } from '../../../server/science/orbit/fit/index.ts';
-import { validateOrbit, type OrbitInput } from '../../../server/science/orbit/index.ts';
+import { validateOrbit } from '../../../server/science/orbit/index.ts';
 import { forecastDetection, type ForecastEpoch } from '../../../server/science/plan/index.ts';
 import { SeededRandom } from '../../../server/science/random.ts';
+import { DEEP_PERIAPSIS_JD, deepStar } from '../orbit/fit/deep-star.ts';
 import { epochs, simulate } from '../orbit/fit/simulate.ts';
 
-const PERIAPSIS_JD = 2461771.5;
-const TRUTH: OrbitInput = {
-  elements: {
-    periodYears: 10,
-    periapsis: `JD ${PERIAPSIS_JD}`,
-    eccentricity: 0.9,
-    semiMajorAxisArcsec: 0.0843,
-    inclinationDeg: 60,
-    ascendingNodeDeg: 100,
-    argPeriapsisDeg: 30,
-  },
-  distancePc: 10_000,
-  systemicVelocityKmS: 0,
-  relativity: { gravitationalRedshift: true, transverseDoppler: true, precession: true },
-};
+const PERIAPSIS_JD = DEEP_PERIAPSIS_JD;
+const TRUTH = deepStar();
 const SIGMA_MAS = 0.1,
   SIGMA_KMS = 15;
 const EXISTING_AST = epochs(PERIAPSIS_JD - 8 * 365.25, 7.5 * 365.25, 24, new SeededRandom(1), 20);

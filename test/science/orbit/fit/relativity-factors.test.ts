@@ -7,30 +7,13 @@
  */
 import { describe, expect, it } from 'vitest';
 import { fitOrbits, type FitResult } from '../../../../server/science/orbit/fit/index.ts';
-import type { OrbitInput } from '../../../../server/science/orbit/index.ts';
 import { SeededRandom } from '../../../../server/science/random.ts';
+import { DEEP_PERIAPSIS_JD, deepStar } from './deep-star.ts';
 import { epochs, simulate } from './simulate.ts';
 
 const J2022 = 2459580.5;
-const PERIAPSIS_JD = 2461771.5; // J2028.0 area, invented
-
-function truth(factor: number): OrbitInput {
-  return {
-    elements: {
-      periodYears: 10,
-      periapsis: `JD ${PERIAPSIS_JD}`,
-      eccentricity: 0.9,
-      semiMajorAxisArcsec: 0.0843,
-      inclinationDeg: 60,
-      ascendingNodeDeg: 100,
-      argPeriapsisDeg: 30,
-    },
-    distancePc: 10_000,
-    systemicVelocityKmS: 0,
-    relativity: { gravitationalRedshift: true, transverseDoppler: true, precession: true },
-    relativityFactors: { redshiftFactor: factor, precessionFactor: factor },
-  };
-}
+const PERIAPSIS_JD = DEEP_PERIAPSIS_JD;
+const truth = deepStar;
 
 function fitOnce(factor: number, seed: number): FitResult {
   const r = new SeededRandom(seed);
