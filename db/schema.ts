@@ -13,6 +13,12 @@ import {
   text,
   uniqueIndex,
 } from 'drizzle-orm/sqlite-core';
+import {
+  BLOCK_KINDS,
+  MEASUREMENT_KIND_NAMES,
+  type BlockKind,
+} from '../shared/measurement-kinds.ts';
+import { ROLE_NAMES } from '../shared/roles.ts';
 import type { OrbitInput } from '../server/science/orbit/types.ts';
 import type { HorizonPoint } from '../server/science/sky/site.ts';
 
@@ -25,7 +31,7 @@ const updated = () => text('updated_at').notNull();
 export const users = sqliteTable('users', {
   id: integer('id').primaryKey({ autoIncrement: true }),
   name: text('name').notNull().unique(),
-  role: text('role', { enum: ['lead', 'observer', 'viewer'] }).notNull(),
+  role: text('role', { enum: ROLE_NAMES }).notNull(),
   createdAt: created(),
 });
 
@@ -127,7 +133,7 @@ export interface CampaignGoals {
   /** Interval near periapsis, days, used within `densifyWithinDays` of a passage. */
   densifiedCadenceDays?: number;
   densifyWithinDays?: number;
-  kinds: ('astrometry' | 'spectroscopy')[];
+  kinds: BlockKind[];
   /** Block length per kind, minutes. */
   blockMinutes?: PerKindGoal<number>;
   /** Laser guide star use per kind where a site has one (absent: none). */
@@ -230,7 +236,7 @@ export const blocks = sqliteTable(
     targetId: integer('target_id')
       .notNull()
       .references(() => targets.id, { onDelete: 'restrict' }),
-    kind: text('kind', { enum: ['astrometry', 'spectroscopy'] }).notNull(),
+    kind: text('kind', { enum: BLOCK_KINDS }).notNull(),
     startUtc: text('start_utc').notNull(),
     endUtc: text('end_utc').notNull(),
     status: text('status', { enum: BLOCK_STATUSES }).notNull().default('planned'),
@@ -291,7 +297,7 @@ export const measurements = sqliteTable(
       .notNull()
       .references(() => targets.id, { onDelete: 'restrict' }),
     blockId: integer('block_id').references(() => blocks.id, { onDelete: 'set null' }),
-    kind: text('kind', { enum: ['offsets', 'separation', 'radial-velocity'] }).notNull(),
+    kind: text('kind', { enum: MEASUREMENT_KIND_NAMES }).notNull(),
     epoch: text('epoch').notNull(),
     epochJd: real('epoch_jd').notNull(),
     dRaMas: real('d_ra_mas'),

@@ -4,12 +4,11 @@
  * campaigns and sites. No token → 401; a token whose role is too low → 403.
  */
 import type { Context, MiddlewareHandler } from 'hono';
+import { roleAtLeast } from '../../shared/roles.ts';
 import type { Role, Store, UserRow } from '../store/index.ts';
 import { HttpError } from './errors.ts';
 
 export type AuthEnv = { Variables: { user: UserRow | null } };
-
-const RANK: Record<Role, number> = { viewer: 0, observer: 1, lead: 2 };
 
 /** Read the bearer token (or `?token=` for calendar subscriptions, which cannot send headers). */
 export function identify(
@@ -47,7 +46,7 @@ export function requireRole(c: Context<AuthEnv>, role: Role): UserRow {
   const user = c.get('user');
   if (!user)
     throw new HttpError(401, 'unauthenticated', 'sign in: send "Authorization: Bearer <token>"');
-  if (RANK[user.role] < RANK[role]) {
+  if (!roleAtLeast(user.role, role)) {
     throw new HttpError(
       403,
       'forbidden',

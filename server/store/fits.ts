@@ -21,6 +21,7 @@ import type { MeasurementRow } from './repos/measurements.ts';
 import type { OrbitSolutionRow } from './repos/orbits.ts';
 import { systemEntity, targetEntity } from './repos/catalogue.ts';
 import { nowIso } from '../clock.ts';
+import { describeKind, fieldsOfKind } from '../../shared/measurement-kinds.ts';
 
 /** What a stored fit may set; everything else comes from the stored measurements. */
 export type StoredFitOptions = Omit<FitRequest, 'stars'> & {
@@ -35,37 +36,18 @@ export interface PreparedFit {
   targets: { id: number; name: string; measurementIds: number[] }[];
 }
 
-/** A stored measurement as the fit takes it. */
+/** A stored measurement as the fit reads it: its kind's fields, and the correlation when stored. */
 export function toInput(m: MeasurementRow): MeasurementInput {
-  const common = { epoch: m.epoch, id: String(m.id) };
-  switch (m.kind) {
-    case 'offsets':
-      return {
-        kind: 'offsets',
-        ...common,
-        dRaMas: m.dRaMas!,
-        dDecMas: m.dDecMas!,
-        sigmaDRaMas: m.sigmaDRaMas!,
-        sigmaDDecMas: m.sigmaDDecMas!,
-        ...(m.correlation !== null ? { correlation: m.correlation } : {}),
-      };
-    case 'separation':
-      return {
-        kind: 'separation',
-        ...common,
-        separationMas: m.separationMas!,
-        positionAngleDeg: m.positionAngleDeg!,
-        sigmaSeparationMas: m.sigmaSeparationMas!,
-        sigmaPositionAngleDeg: m.sigmaPositionAngleDeg!,
-      };
-    case 'radial-velocity':
-      return {
-        kind: 'radial-velocity',
-        ...common,
-        radialVelocityKmS: m.radialVelocityKmS!,
-        sigmaRadialVelocityKmS: m.sigmaRadialVelocityKmS!,
-      };
-  }
+  const fields = Object.fromEntries(fieldsOfKind(m.kind).map((f) => [f, m[f]]));
+  const correlation =
+    describeKind(m.kind).correlated && m.correlation !== null ? { correlation: m.correlation } : {};
+  return {
+    kind: m.kind,
+    epoch: m.epoch,
+    id: String(m.id),
+    ...fields,
+    ...correlation,
+  } as MeasurementInput;
 }
 
 /**

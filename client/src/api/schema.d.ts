@@ -5445,7 +5445,7 @@ export interface paths {
                         "application/json": {
                             name: string;
                             /** @enum {string} */
-                            role: "lead" | "observer" | "viewer";
+                            role: "viewer" | "observer" | "lead";
                             id: number;
                             createdAt: string;
                         };
@@ -5546,7 +5546,7 @@ export interface paths {
                             items: {
                                 name: string;
                                 /** @enum {string} */
-                                role: "lead" | "observer" | "viewer";
+                                role: "viewer" | "observer" | "lead";
                                 id: number;
                                 createdAt: string;
                             }[];
@@ -5626,7 +5626,7 @@ export interface paths {
                     "application/json": {
                         name: string;
                         /** @enum {string} */
-                        role: "lead" | "observer" | "viewer";
+                        role: "viewer" | "observer" | "lead";
                     };
                 };
             };
@@ -5641,7 +5641,7 @@ export interface paths {
                             user: {
                                 name: string;
                                 /** @enum {string} */
-                                role: "lead" | "observer" | "viewer";
+                                role: "viewer" | "observer" | "lead";
                                 id: number;
                                 createdAt: string;
                             };

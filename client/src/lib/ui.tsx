@@ -1,4 +1,5 @@
 /** Small shared pieces of the views: status lines, errors, numbers with units, the role gate. */
+import { roleAtLeast } from '../../../shared/roles.ts';
 import type { ComponentChildren } from 'preact';
 import { createContext } from 'preact';
 import { useContext } from 'preact/hooks';
@@ -6,12 +7,11 @@ import { ApiError } from '../api/client.ts';
 import type { Me, Role } from '../api/client.ts';
 
 export const MeContext = createContext<Me | null>(null);
-const RANK: Record<Role, number> = { viewer: 0, observer: 1, lead: 2 };
 
 /** True when the signed-in user has at least this role (the server checks again on every write). */
 export function useCan(role: Role): boolean {
   const me = useContext(MeContext);
-  return !!me && RANK[me.role] >= RANK[role];
+  return !!me && roleAtLeast(me.role, role);
 }
 
 export function ErrorLine({ error }: { error: unknown }) {

@@ -4,6 +4,7 @@
  * is stored unless the whole record is accepted.
  */
 import { useState } from 'preact/hooks';
+import { BLOCK_KINDS } from '../../../shared/measurement-kinds.ts';
 import { fieldMessages, sendRecord } from '../api/client.ts';
 import { invalidateCatalogue, type Catalogue } from '../api/catalogue.ts';
 import type { HorizonPoint } from '../api/client.ts';
@@ -352,11 +353,10 @@ export const CAMPAIGN_FIELDS: FieldSpec[] = [
     kind: 'select',
     initial: 'astrometry',
     options: [
-      { value: 'astrometry', label: 'astrometry' },
-      { value: 'spectroscopy', label: 'spectroscopy' },
-      { value: 'both', label: 'astrometry and spectroscopy' },
+      ...BLOCK_KINDS.map((k) => ({ value: k, label: k })),
+      { value: 'both', label: BLOCK_KINDS.join(' and ') },
     ],
-    toValue: (s) => (s === 'both' ? ['astrometry', 'spectroscopy'] : [s]),
+    toValue: (s) => (s === 'both' ? [...BLOCK_KINDS] : [s]),
   },
   {
     key: 'goals.densifiedCadenceDays',

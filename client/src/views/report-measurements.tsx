@@ -1,5 +1,11 @@
 /** Measurements tied to the night's blocks, and a form to add one (field-level messages from the server). */
 import { useState } from 'preact/hooks';
+import {
+  CORRELATION_FIELD,
+  MEASUREMENT_KIND_NAMES,
+  UNIT_TEXT,
+  describeKind,
+} from '../../../shared/measurement-kinds.ts';
 import { fieldMessages, getAll, sendRecord } from '../api/client.ts';
 import type { Catalogue } from '../api/catalogue.ts';
 import type { BlockRow, MeasurementRow } from '../api/client.ts';
@@ -8,25 +14,15 @@ import { ErrorLine, Loading, Qty, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 
 type Kind = MeasurementRow['kind'];
-const KIND_FIELDS: Record<Kind, { key: string; label: string }[]> = {
-  offsets: [
-    { key: 'dRaMas', label: 'Δα* (mas, east +)' },
-    { key: 'dDecMas', label: 'Δδ (mas, north +)' },
-    { key: 'sigmaDRaMas', label: 'σ Δα* (mas)' },
-    { key: 'sigmaDDecMas', label: 'σ Δδ (mas)' },
-    { key: 'correlation', label: 'correlation (−1–1)' },
-  ],
-  separation: [
-    { key: 'separationMas', label: 'separation (mas)' },
-    { key: 'positionAngleDeg', label: 'position angle (°, N through E)' },
-    { key: 'sigmaSeparationMas', label: 'σ separation (mas)' },
-    { key: 'sigmaPositionAngleDeg', label: 'σ position angle (°)' },
-  ],
-  'radial-velocity': [
-    { key: 'radialVelocityKmS', label: 'v_r (km/s, receding +)' },
-    { key: 'sigmaRadialVelocityKmS', label: 'σ v_r (km/s)' },
-  ],
-};
+/** The form's inputs for a kind: its values, their uncertainties, and the correlation where it has one. */
+function kindInputs(kind: Kind): { key: string; label: string }[] {
+  const d = describeKind(kind);
+  return [
+    ...d.values.map((v) => ({ key: v.field, label: v.label })),
+    ...d.values.map((v) => ({ key: v.sigma, label: `σ ${v.symbol} (${UNIT_TEXT[v.unit]})` })),
+    ...(d.correlated ? [{ key: CORRELATION_FIELD, label: 'correlation (−1–1)' }] : []),
+  ];
+}
 
 function AddMeasurement({
   blocks,
@@ -40,7 +36,7 @@ function AddMeasurement({
   const first = blocks[0]!;
   const [blockId, setBlockId] = useState(first.id);
   const [kind, setKind] = useState<Kind>(
-    first.kind === 'spectroscopy' ? 'radial-velocity' : 'offsets',
+    MEASUREMENT_KIND_NAMES.find((k) => describeKind(k).blockKind === first.kind) ?? 'offsets',
   );
   const [values, setValues] = useState<Record<string, string>>({ instrument: '' });
   const [error, setError] = useState<unknown>(null);
@@ -51,7 +47,7 @@ function AddMeasurement({
     e.preventDefault();
     setError(null);
     const nums = Object.fromEntries(
-      KIND_FIELDS[kind]
+      kindInputs(kind)
         .filter((f) => (values[f.key] ?? '') !== '')
         .map((f) => [f.key, Number(values[f.key])]),
     );
@@ -100,13 +96,15 @@ function AddMeasurement({
         <label class="field">
           <span>kind</span>
           <select value={kind} onChange={(e) => setKind(e.currentTarget.value as Kind)}>
-            <option value="offsets">offsets Δα*, Δδ</option>
-            <option value="separation">separation and position angle</option>
-            <option value="radial-velocity">radial velocity</option>
+            {MEASUREMENT_KIND_NAMES.map((k) => (
+              <option key={k} value={k}>
+                {describeKind(k).label}
+              </option>
+            ))}
           </select>
         </label>
         {field('epoch', `epoch (ISO 8601 UTC; empty: block middle ${mid.slice(11, 16)})`, 'text')}
-        {KIND_FIELDS[kind].map((f) => field(f.key, f.label))}
+        {kindInputs(kind).map((f) => field(f.key, f.label))}
         {field('instrument', 'instrument', 'text')}
       </div>
       <button type="submit">Add measurement</button>
@@ -133,24 +131,25 @@ export function ReportMeasurements({
   );
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="measurements" />;
+  // Each quantity with its 1σ, in the kind's own units.
   const value = (m: MeasurementRow) =>
-    m.kind === 'offsets' ? (
-      <>
-        Δα* <Qty v={m.dRaMas} unit="mas" digits={2} />, Δδ{' '}
-        <Qty v={m.dDecMas} unit="mas" digits={2} /> (σ <Qty v={m.sigmaDRaMas} unit="" digits={2} />,{' '}
-        <Qty v={m.sigmaDDecMas} unit="mas" digits={2} />)
-      </>
-    ) : m.kind === 'separation' ? (
-      <>
-        <Qty v={m.separationMas} unit="mas" digits={2} /> at{' '}
-        <Qty v={m.positionAngleDeg} unit="°" digits={2} />
-      </>
-    ) : (
-      <>
-        <Qty v={m.radialVelocityKmS} unit="km/s" digits={1} /> ±{' '}
-        <Qty v={m.sigmaRadialVelocityKmS} unit="km/s" digits={1} />
-      </>
-    );
+    describeKind(m.kind).values.map((v, i) => (
+      <span key={v.field}>
+        {i > 0 && ', '}
+        {v.symbol}{' '}
+        <Qty
+          v={m[v.field as keyof MeasurementRow] as number | null}
+          unit={UNIT_TEXT[v.unit]}
+          digits={2}
+        />{' '}
+        ±{' '}
+        <Qty
+          v={m[v.sigma as keyof MeasurementRow] as number | null}
+          unit={UNIT_TEXT[v.unit]}
+          digits={2}
+        />
+      </span>
+    ));
   return (
     <>
       {data.length === 0 ? (

@@ -1,5 +1,6 @@
 /** /measurements: astrometry and radial velocities with their uncertainties (observers write). */
 import { z } from '@hono/zod-openapi';
+import { MEASUREMENT_KIND_NAMES } from '../../../shared/measurement-kinds.ts';
 import { MeasurementFields, type Store } from '../../store/index.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 
@@ -7,7 +8,7 @@ export const MeasurementFilters = z.object({
   targetId: optionalId,
   systemId: optionalId,
   blockId: optionalId,
-  kind: z.enum(['offsets', 'separation', 'radial-velocity']).optional(),
+  kind: z.enum(MEASUREMENT_KIND_NAMES).optional(),
   start: z
     .string()
     .optional()

@@ -3,6 +3,7 @@
  * residuals per measurement, and per star an orbit that can be stored as a new solution.
  */
 import { z } from '@hono/zod-openapi';
+import { MEASUREMENT_KIND_NAMES } from '../../../shared/measurement-kinds.ts';
 import { PERCENTILES } from '../../science/orbit/index.ts';
 import { OrbitSchema } from './orbit.ts';
 
@@ -51,7 +52,7 @@ export const ResidualSchema = z
     star: z.string(),
     index: z.number().int(),
     id: z.string().optional().openapi({ description: 'the measurement’s id, as sent' }),
-    kind: z.enum(['offsets', 'separation', 'radial-velocity']),
+    kind: z.enum(MEASUREMENT_KIND_NAMES),
     jd: z.number(),
     epoch: z.string(),
     residual: z.array(z.number()).openapi({

@@ -3,11 +3,11 @@
  * previews (what accepting would write). Instants as in the sky answers (UTC and the site's zone).
  */
 import { z } from '@hono/zod-openapi';
-import { FLAG_KINDS, MEASUREMENT_KINDS, NIGHT_REASONS } from '../../science/plan/index.ts';
+import { FLAG_KINDS, BLOCK_KINDS, NIGHT_REASONS } from '../../science/plan/index.ts';
 import { NIGHT_CHOICES } from '../../store/index.ts';
 import { InstantSchema, IntervalSchema } from './sky-output.ts';
 
-const BlockKind = z.enum(MEASUREMENT_KINDS);
+const BlockKind = z.enum(BLOCK_KINDS);
 const Before = z.object({ before: z.number().nullable(), after: z.number().nullable() }).strict();
 const NightReason = z.enum(NIGHT_REASONS).openapi({
   description: 'the limit that closed the night (the words say it in full, with its numbers)',

@@ -7,15 +7,16 @@ import { parseEpoch } from '../time/index.ts';
 import type { Target } from '../sky/target.ts';
 import { blockQuality, type NightGrid, type TargetGrid } from './grid.ts';
 
-export const MEASUREMENT_KINDS = ['astrometry', 'spectroscopy'] as const;
-export type MeasurementKind = (typeof MEASUREMENT_KINDS)[number];
+import { BLOCK_KINDS, type BlockKind } from '../../../shared/measurement-kinds.ts';
+
+export { BLOCK_KINDS, type BlockKind };
 
 export interface CandidateInput {
   /** The caller's name for the block, unique in the request. */
   id: string;
   /** Name of one of the request's targets. */
   target: string;
-  kind: MeasurementKind;
+  kind: BlockKind;
   /** Time on target, minutes, (0, 720]. Rounded up to whole slots. */
   durationMinutes: number;
   /** Weight of the block in the night's value, (0, 1000]. */
@@ -35,7 +36,7 @@ export interface Candidate {
   id: string;
   targetIndex: number;
   targetName: string;
-  kind: MeasurementKind;
+  kind: BlockKind;
   durationMinutes: number;
   priority: number;
   highestAirmass: number | null;
@@ -84,7 +85,7 @@ export function checkCandidates(
         c.target,
         `must name one of the targets (${[...byName.keys()].slice(0, 5).join(', ')}${byName.size > 5 ? ', …' : ''})`,
       );
-    if (!(MEASUREMENT_KINDS as readonly unknown[]).includes(c.kind))
+    if (!(BLOCK_KINDS as readonly unknown[]).includes(c.kind))
       throw new InputError(`${p}.kind`, c.kind, 'must be "astrometry" or "spectroscopy"');
     const durationMinutes = requireFinite(`${p}.durationMinutes`, c.durationMinutes);
     if (!(durationMinutes > 0 && durationMinutes <= 720))
@@ -115,7 +116,7 @@ export function checkCandidates(
       id: c.id,
       targetIndex,
       targetName: targets[targetIndex]!.name,
-      kind: c.kind as MeasurementKind,
+      kind: c.kind as BlockKind,
       durationMinutes,
       priority,
       highestAirmass,

@@ -10,7 +10,7 @@ import { fisherRows } from '../orbit/fit/fisher.ts';
 import type { MeasurementInput, RelativityFactorName } from '../orbit/fit/types.ts';
 import type { Orbit } from '../orbit/index.ts';
 import { jdToIso } from '../time/index.ts';
-import type { MeasurementKind } from './candidates.ts';
+import type { BlockKind } from './candidates.ts';
 import type { Precision } from './information.ts';
 
 export const FORECAST_FACTORS: readonly RelativityFactorName[] = [
@@ -23,7 +23,7 @@ const TOP_EPOCHS = 5;
 /** One planned measurement: when (JD), which kind, and its 1σ (default: the request's precision). */
 export interface ForecastEpoch {
   jd: number;
-  kind: MeasurementKind;
+  kind: BlockKind;
   /** mas per offset component (astrometry) or km/s (spectroscopy). */
   sigma?: number;
 }
@@ -50,7 +50,7 @@ export interface FactorForecast {
   /** For 3σ and 5σ: reached already, or after the planned epoch given (observed time, ISO 8601), or not. */
   reaches: { sigma: number; already: boolean; epoch: string | null }[];
   /** The planned epochs that add most to the factor's information, largest first. */
-  topEpochs: { epoch: string; kind: MeasurementKind; share: number }[];
+  topEpochs: { epoch: string; kind: BlockKind; share: number }[];
 }
 
 export interface DetectionForecast {

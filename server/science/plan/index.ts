@@ -1,10 +1,10 @@
 /** Planning: flags, the season plan and the night schedule. Pure functions over the orbit and sky engines. */
 export { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
 export {
-  MEASUREMENT_KINDS,
+  BLOCK_KINDS,
   checkCandidates,
   type CandidateInput,
-  type MeasurementKind,
+  type BlockKind,
 } from './candidates.ts';
 export {
   FLAG_KINDS,

@@ -13,7 +13,7 @@ import {
   type CovarianceParameter,
   type Orbit,
 } from '../orbit/index.ts';
-import type { MeasurementKind } from './candidates.ts';
+import type { BlockKind } from './candidates.ts';
 
 export interface Precision {
   /** 1σ of each astrometric offset component, mas, > 0. */
@@ -110,7 +110,7 @@ export function addInformation(
   info: Float64Array,
   jac: Float64Array,
   n: number,
-  kind: MeasurementKind,
+  kind: BlockKind,
   precision: Precision,
 ): void {
   const rows = kind === 'astrometry' ? [0, 1] : [2];
@@ -158,7 +158,7 @@ export function gain(
   model: InformationModel,
   planned: Float64Array,
   jac: Float64Array,
-  kind: MeasurementKind,
+  kind: BlockKind,
   precision: Precision,
   before: Uncertainties,
 ): number {
@@ -194,7 +194,7 @@ export function varianceReduction(
   cov: Float64Array,
   n: number,
   jac: Float64Array,
-  kind: MeasurementKind,
+  kind: BlockKind,
   precision: Precision,
   g: Float64Array,
 ): number {

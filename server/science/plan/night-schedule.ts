@@ -20,7 +20,7 @@ import {
   timingEdges,
   valueAt,
   type Candidate,
-  type MeasurementKind,
+  type BlockKind,
 } from './candidates.ts';
 import { nightGrid, REASON_CODES, targetGrid, type NightGrid, type TargetGrid } from './grid.ts';
 import { closingLimit, edgeReason, nightReasonWords } from './night-reasons.ts';
@@ -65,7 +65,7 @@ export interface KeptBlock {
   label: string;
   /** Name of one of the targets, or null for a target outside the request (the slew gap then applies). */
   target: string | null;
-  kind: MeasurementKind;
+  kind: BlockKind;
   startJd: number;
   endJd: number;
   /** It stands for the night's epoch of its target and kind (planned or obtained, not lost or withdrawn): a candidate of the same target and kind is left out. */
@@ -75,7 +75,7 @@ export interface KeptBlock {
 export interface ScheduledBlock {
   id: string;
   target: string;
-  kind: MeasurementKind;
+  kind: BlockKind;
   start: Instant;
   end: Instant;
   minutes: number;
@@ -94,7 +94,7 @@ export interface ScheduledBlock {
 export interface LeftOutBlock {
   id: string;
   target: string;
-  kind: MeasurementKind;
+  kind: BlockKind;
   reason: string;
 }
 

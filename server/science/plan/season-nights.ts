@@ -7,7 +7,7 @@
  */
 import { InputError } from '../errors.ts';
 import { nightSpan } from '../sky/night.ts';
-import { MEASUREMENT_KINDS, slotsFor, type MeasurementKind } from './candidates.ts';
+import { BLOCK_KINDS, slotsFor, type BlockKind } from './candidates.ts';
 import { blockQuality, nightGrid, targetGrid, type NightGrid, type TargetGrid } from './grid.ts';
 import type { Precision } from './information.ts';
 import { closingLimit, type NightReasonDetail } from './night-reasons.ts';
@@ -19,7 +19,7 @@ import type { PeriapsisRepeat, ResolvedTarget, SeasonSite } from './season-types
 export interface Option {
   s: number;
   d: number;
-  kind: MeasurementKind;
+  kind: BlockKind;
   /** The ok edges (first, last) around the best start, the block's length in slots, and whether a timing window holds it there. */
   first: number;
   last: number;
@@ -46,7 +46,7 @@ export interface SeasonNights {
   weight: Float64Array;
 }
 
-export const kindIndex = (k: MeasurementKind) => (k === 'astrometry' ? 0 : 1);
+export const kindIndex = (k: BlockKind) => (k === 'astrometry' ? 0 : 1);
 
 /** Grids, room and kept blocks of every site-night (index s·nD + d). */
 export function seasonNights(
@@ -109,7 +109,7 @@ function keptByNight(
             k.target,
             'must name one of the targets, or be null for a target outside the plan',
           );
-        if (!MEASUREMENT_KINDS.includes(k.kind))
+        if (!BLOCK_KINDS.includes(k.kind))
           throw new InputError(`${f}.kind`, k.kind, 'must be "astrometry" or "spectroscopy"');
         if (!(Number.isFinite(k.startJd) && Number.isFinite(k.endJd) && k.endJd > k.startJd))
           throw new InputError(
@@ -189,7 +189,7 @@ export function targetOptions(
     for (let di = 0; di < nD; di++) {
       const key = si * nD + di;
       const g = nights.grids[key]!;
-      const at = (kind: MeasurementKind) => (kindIndex(kind) * nS + si) * nD + di;
+      const at = (kind: BlockKind) => (kindIndex(kind) * nS + si) * nD + di;
       if (!g || g.edgeJd.length === 0) {
         for (const kind of t.input.kinds)
           closed[at(kind)] = { reason: g ? 'no-darkness' : 'not-allocated' };

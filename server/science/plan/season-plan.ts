@@ -20,7 +20,7 @@
  * night's epoch of that target and kind.
  */
 import { InputError } from '../errors.ts';
-import type { MeasurementKind } from './candidates.ts';
+import type { BlockKind } from './candidates.ts';
 import { numberIn } from './checks.ts';
 import { targetGrid } from './grid.ts';
 import { jacobians } from './information.ts';
@@ -226,7 +226,7 @@ function keptOf(
 
 const gapSlotsOf = (p: Planner) => (a: number, b: number) =>
   Math.ceil((a === b ? p.sameTargetMinutes : p.slewMinutes) / p.slotMinutes - 1e-9);
-const costOf = (p: Planner, ti: number, kind: MeasurementKind) =>
+const costOf = (p: Planner, ti: number, kind: BlockKind) =>
   p.states[ti]!.t.blockMinutes[kind] + p.slewMinutes;
 
 export function fits(p: Planner, ti: number, o: Option): boolean {
@@ -339,7 +339,7 @@ function cadenceOn(p: Planner, ti: number, d: number): number {
 }
 
 /** Nights (index) that already hold an epoch of the target and kind: kept blocks that count, and chosen epochs. */
-function heldNights(p: Planner, ti: number, kind: MeasurementKind): Set<number> {
+function heldNights(p: Planner, ti: number, kind: BlockKind): Set<number> {
   const name = p.states[ti]!.t.name;
   const held = new Set<number>();
   p.nights.kept.forEach((list, key) => {
@@ -413,7 +413,7 @@ function cadencePass(p: Planner): void {
 export function nightNote(
   p: Planner,
   ti: number,
-  kind: MeasurementKind,
+  kind: BlockKind,
   s: number,
   d: number,
 ): NightNote {
@@ -437,13 +437,7 @@ export function nightNote(
 }
 
 /** An unmet cadence goal, with every site-night of its window and the limit that closed it. */
-function unmetGoal(
-  p: Planner,
-  ti: number,
-  kind: MeasurementKind,
-  from: number,
-  to: number,
-): UnmetGoal {
+function unmetGoal(p: Planner, ti: number, kind: BlockKind, from: number, to: number): UnmetGoal {
   const { dates } = p.nights;
   const ts = p.states[ti]!;
   const notes: NightNote[] = [];

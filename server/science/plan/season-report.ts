@@ -5,7 +5,7 @@
  * best epochs; per site, the nights used and hours planned; the cautions.
  */
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
-import { MEASUREMENT_KINDS } from './candidates.ts';
+import { BLOCK_KINDS } from './candidates.ts';
 import { uncertainties } from './information.ts';
 import { coverageProbability, quadratic, type Passage } from './passage.ts';
 import { inPassageWindow, nightNote, fits, type Planner } from './season-plan.ts';
@@ -121,7 +121,7 @@ function passagePlan(
         !inPassageWindow(p.nights, s, d, q.windowStartJd, q.windowEndJd)
       )
         continue;
-      for (const kind of MEASUREMENT_KINDS) {
+      for (const kind of BLOCK_KINDS) {
         if (!ts.t.input.kinds.includes(kind)) continue;
         const site = p.sites[s]!.site.name;
         const date = p.nights.dates[d];

@@ -5,7 +5,7 @@
  * option is the fractional variance it removes from the dates of the target's passages in range
  * and from its mass, times the site-night's weight; `gainOf` says the same in named units.
  */
-import type { MeasurementKind } from './candidates.ts';
+import type { BlockKind } from './candidates.ts';
 import {
   addInformation,
   informationModel,
@@ -69,7 +69,7 @@ export function targetState(
 export function addEpoch(
   ts: TargetState,
   jac: Float64Array,
-  kind: MeasurementKind,
+  kind: BlockKind,
   precision: Option['precision'],
 ): void {
   if (ts.model && ts.planned)

@@ -4,7 +4,7 @@ import type { Limits } from '../sky/limits.ts';
 import { addDays, parseNightDate } from '../sky/night.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
-import { MEASUREMENT_KINDS, type MeasurementKind } from './candidates.ts';
+import { BLOCK_KINDS, type BlockKind } from './candidates.ts';
 import { numberIn, positive } from './checks.ts';
 import type { NightReason } from './night-reasons.ts';
 import type { KeptBlock, ScheduledBlock } from './night-schedule.ts';
@@ -12,7 +12,7 @@ import type { PrecisionModel } from './precision.ts';
 
 /** Epochs per night inside a periapsis window: one, one every N hours while observable, or as many as fit. */
 export type PeriapsisRepeat = 'single' | 'fill' | { everyHours: number };
-export type PerKind<T> = Partial<Record<MeasurementKind, T>>;
+export type PerKind<T> = Partial<Record<BlockKind, T>>;
 
 export interface SeasonSite {
   site: Site;
@@ -31,7 +31,7 @@ export interface SeasonSite {
 
 export interface SeasonTarget {
   target: Target;
-  kinds: readonly MeasurementKind[];
+  kinds: readonly BlockKind[];
   /** Longest wanted gap between epochs of each kind, days, [1, 3650]. */
   cadenceDays: number;
   /** Gap wanted within `densifyWithinDays` of a periapsis, days. */
@@ -98,7 +98,7 @@ export interface EpochGain {
 
 export interface PlannedEpoch {
   target: string;
-  kind: MeasurementKind;
+  kind: BlockKind;
   site: string;
   date: string;
   block: ScheduledBlock;
@@ -113,14 +113,14 @@ export interface PlannedEpoch {
 export interface NightNote {
   site: string;
   date: string;
-  kind: MeasurementKind;
+  kind: BlockKind;
   reason: NightReason;
   words: string;
 }
 
 export interface UnmetGoal {
   target: string;
-  kind: MeasurementKind;
+  kind: BlockKind;
   /** First and last night of the cadence window (local evening dates). */
   start: string;
   end: string;
@@ -147,7 +147,7 @@ export interface TargetPlan {
   target: string;
   priority: number;
   cadenceDays: number;
-  epochs: Record<MeasurementKind, number>;
+  epochs: Record<BlockKind, number>;
   periapses: string[];
   cadenceMet: boolean;
   passage: PassagePlan | null;
@@ -160,7 +160,7 @@ export interface TargetPlan {
     nominalPrior: boolean;
   } | null;
   /** The best epochs not in the plan, by information given the plan. */
-  nextBest: { date: string; site: string; kind: MeasurementKind; gain: EpochGain }[];
+  nextBest: { date: string; site: string; kind: BlockKind; gain: EpochGain }[];
 }
 
 export interface SeasonPlan {
@@ -184,8 +184,8 @@ export interface ResolvedTarget {
   input: SeasonTarget;
   name: string;
   priority: number;
-  blockMinutes: Record<MeasurementKind, number>;
-  laserGuideStar: Record<MeasurementKind, boolean>;
+  blockMinutes: Record<BlockKind, number>;
+  laserGuideStar: Record<BlockKind, boolean>;
   repeat: PeriapsisRepeat;
 }
 
@@ -228,8 +228,8 @@ function perKind<T>(
   field: string,
   v: PerKind<T> | undefined,
   check: (f: string, x: unknown) => T,
-  fallback: Record<MeasurementKind, T>,
-): Record<MeasurementKind, T> {
+  fallback: Record<BlockKind, T>,
+): Record<BlockKind, T> {
   return {
     astrometry:
       v?.astrometry === undefined
@@ -277,7 +277,7 @@ export function resolveTargets(
       positive(`${f}.densifiedCadenceDays`, t.densifiedCadenceDays, 3650);
     if (t.densifyWithinDays !== undefined)
       numberIn(`${f}.densifyWithinDays`, t.densifyWithinDays, 0, 3650);
-    if (t.kinds.length === 0 || t.kinds.some((k) => !MEASUREMENT_KINDS.includes(k)))
+    if (t.kinds.length === 0 || t.kinds.some((k) => !BLOCK_KINDS.includes(k)))
       throw new InputError(`${f}.kinds`, t.kinds, 'must list "astrometry" and/or "spectroscopy"');
     return {
       input: t,

@@ -3,6 +3,8 @@
  * the exports and read by the imports, so an export can be edited in a spreadsheet and read back.
  * Header names are the JSON field names; `system` and `target` are names, not ids.
  */
+import { MEASUREMENT_VALUE_FIELDS } from '../../../shared/measurement-kinds.ts';
+
 export const CSV_KINDS = ['targets', 'orbits', 'measurements'] as const;
 export type CsvKind = (typeof CSV_KINDS)[number];
 
@@ -31,26 +33,17 @@ export const ORBIT_COLUMNS = [
   'makeCurrent',
 ] as const;
 
-export const MEASUREMENT_COLUMNS = [
+/** The measurement layout: identity, then every kind's value fields (the descriptors' order), then the rest. */
+export const MEASUREMENT_COLUMNS: readonly string[] = [
   'system',
   'target',
   'kind',
   'epoch',
-  'dRaMas',
-  'dDecMas',
-  'sigmaDRaMas',
-  'sigmaDDecMas',
-  'separationMas',
-  'positionAngleDeg',
-  'sigmaSeparationMas',
-  'sigmaPositionAngleDeg',
-  'correlation',
-  'radialVelocityKmS',
-  'sigmaRadialVelocityKmS',
+  ...MEASUREMENT_VALUE_FIELDS,
   'instrument',
   'blockId',
   'notes',
-] as const;
+];
 
 export const COLUMNS: Record<CsvKind, readonly string[]> = {
   targets: TARGET_COLUMNS,

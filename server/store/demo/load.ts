@@ -5,6 +5,7 @@
  * with invented errors, and for every star two orbit-solution versions: the scenario's orbit as
  * entered, and the orbit engine's own fit to the demo measurements (current, with covariance).
  */
+import type { BlockKind } from '../../../shared/measurement-kinds.ts';
 import { SiderealTime } from 'astronomy-engine';
 import { DateTime } from 'luxon';
 import {
@@ -83,7 +84,7 @@ interface PlanTarget {
   id: number;
   raDeg: number;
   orbit: OrbitInput;
-  kinds: ('astrometry' | 'spectroscopy')[];
+  kinds: BlockKind[];
   /** Measured as separation and position angle (a visual binary) rather than offsets. */
   speckle?: boolean;
 }
@@ -427,7 +428,7 @@ async function addMeasurement(
   ctx: LoadContext,
   t: Pick<PlanTarget, 'id' | 'orbit' | 'speckle'>,
   blockId: number | null,
-  kind: 'astrometry' | 'spectroscopy',
+  kind: BlockKind,
   epoch: string,
 ): Promise<void> {
   const { rnd } = ctx;

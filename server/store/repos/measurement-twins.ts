@@ -9,10 +9,7 @@ import { measurements } from '../../../db/schema.ts';
 import { SECONDS_PER_DAY } from '../../science/constants.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
-import { MEASUREMENT_FIELDS } from '../schemas/entities.ts';
-
-/** Every value a measurement can carry: each kind's quantities and σ, and the correlation. */
-const VALUE_FIELDS = [...Object.values(MEASUREMENT_FIELDS).flat(), 'correlation'];
+import { MEASUREMENT_VALUE_FIELDS as VALUE_FIELDS } from '../../../shared/measurement-kinds.ts';
 
 type Row = Record<string, unknown>;
 

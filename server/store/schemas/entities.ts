@@ -4,6 +4,16 @@
  */
 import { z } from 'zod';
 import { BLOCK_ORIGINS, BLOCK_STATUSES } from '../../../db/schema.ts';
+import {
+  BLOCK_KINDS,
+  CORRELATION_FIELD,
+  MEASUREMENT_KIND_NAMES,
+  MEASUREMENT_VALUE_FIELDS,
+  describeKind,
+  fieldsOfKind,
+  type MeasuredField,
+} from '../../../shared/measurement-kinds.ts';
+import { ROLE_NAMES } from '../../../shared/roles.ts';
 import { epoch, freeText, id, lineText, localDate, name, notes, timeZone } from './common.ts';
 
 const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();
@@ -142,7 +152,7 @@ export const CampaignFields = z.object({
         .positive()
         .optional()
         .describe('how close to periapsis the dense cadence applies, days'),
-      kinds: z.array(z.enum(['astrometry', 'spectroscopy'])).min(1),
+      kinds: z.array(z.enum(BLOCK_KINDS)).min(1),
       blockMinutes: perKind(minutesPerBlock).optional().describe('block length per kind, minutes'),
       laserGuideStar: perKind(z.boolean())
         .optional()
@@ -214,7 +224,7 @@ export const NightInput = NightFields;
 export const BlockFields = z.object({
   nightId: id,
   targetId: id,
-  kind: z.enum(['astrometry', 'spectroscopy']),
+  kind: z.enum(BLOCK_KINDS),
   startUtc: epoch.describe('start, ISO 8601 UTC'),
   endUtc: epoch.describe('end, ISO 8601 UTC'),
   status: z.enum(BLOCK_STATUSES).default('planned'),
@@ -254,68 +264,56 @@ export const NightReportFields = z.object({
 });
 export const NightReportInput = NightReportFields;
 
-/** The quantities (with their σ) each kind of measurement carries. */
-export const MEASUREMENT_FIELDS = {
-  offsets: ['dRaMas', 'dDecMas', 'sigmaDRaMas', 'sigmaDDecMas'],
-  separation: ['separationMas', 'positionAngleDeg', 'sigmaSeparationMas', 'sigmaPositionAngleDeg'],
-  'radial-velocity': ['radialVelocityKmS', 'sigmaRadialVelocityKmS'],
-} as const;
-
-/*
- * Physical ranges of measured values, so a typo cannot store a number that breaks every later fit
- * (an offset of 1e308 did). Offsets and separations up to 1e7 mas (2.8°): far beyond any bound
- * companion followed here. Astrometric σ from 1e-4 mas (0.1 µas, a hundred times finer than the best
- * astrometry, from memory) to 1e7 mas; radial-velocity σ from 1 mm/s.
- */
-const MAX_OFFSET_MAS = 1e7;
-const offsetMas = z.number().min(-MAX_OFFSET_MAS).max(MAX_OFFSET_MAS);
-const sigmaMas = z.number().min(1e-4).max(MAX_OFFSET_MAS).describe('mas, 1e-4 to 1e7');
+/** The value, uncertainty and correlation fields of every measurement kind, from its descriptor. */
+function measuredFields(): Record<string, z.ZodType> {
+  const shape: Record<string, z.ZodType> = {};
+  const kinds = MEASUREMENT_KIND_NAMES.map(describeKind);
+  for (const v of kinds.flatMap((d) => d.values)) {
+    let n = z.number();
+    if (v.min !== undefined) n = n.min(v.min);
+    if (v.below !== undefined) n = n.lt(v.below);
+    if (v.max !== undefined) n = n.max(v.max);
+    shape[v.field] = optionalNumber(v.description ? n.describe(v.description) : n);
+    const r = v.sigmaRange;
+    shape[v.sigma] = optionalNumber(z.number().min(r.min).max(r.max).describe(r.description));
+  }
+  shape[CORRELATION_FIELD] = optionalNumber(
+    z.number().min(-1).max(1).describe('correlation of the two astrometric errors'),
+  );
+  // Table order (db/schema.ts, the CSV layout): the descriptor's, not the loop's.
+  return Object.fromEntries(MEASUREMENT_VALUE_FIELDS.map((f) => [f, shape[f]!]));
+}
 
 export const MeasurementFields = z.object({
   targetId: id,
   blockId: id.nullable().optional(),
   kind: z
-    .enum(['offsets', 'separation', 'radial-velocity'])
+    .enum(MEASUREMENT_KIND_NAMES)
     .describe('offsets Δα*, Δδ; separation and position angle; or radial velocity'),
   epoch,
-  dRaMas: optionalNumber(offsetMas.describe('Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7')),
-  dDecMas: optionalNumber(offsetMas.describe('Δδ, north positive, mas, |x| ≤ 1e7')),
-  sigmaDRaMas: optionalNumber(sigmaMas),
-  sigmaDDecMas: optionalNumber(sigmaMas),
-  separationMas: optionalNumber(z.number().min(0).max(MAX_OFFSET_MAS)),
-  positionAngleDeg: optionalNumber(
-    z.number().min(0).lt(360).describe('north through east, degrees'),
-  ),
-  sigmaSeparationMas: optionalNumber(sigmaMas),
-  sigmaPositionAngleDeg: optionalNumber(
-    z.number().min(1e-7).max(180).describe('degrees, 1e-7–180'),
-  ),
-  correlation: optionalNumber(
-    z.number().min(-1).max(1).describe('correlation of the two astrometric errors'),
-  ),
-  radialVelocityKmS: optionalNumber(
-    z.number().min(-30_000).max(30_000).describe('positive receding, km/s'),
-  ),
-  sigmaRadialVelocityKmS: optionalNumber(
-    z.number().min(1e-6).max(30_000).describe('km/s, 1e-6 (1 mm/s) to 30,000'),
-  ),
+  ...(measuredFields() as Record<MeasuredField, z.ZodOptional<z.ZodNullable<z.ZodNumber>>>),
   instrument: lineText(120).trim().min(1),
   notes,
 });
+
+/** A kind's own fields are required, other kinds' fields refused; `correlation` only where the kind has it. */
 export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
-  for (const [kind, fields] of Object.entries(MEASUREMENT_FIELDS)) {
-    for (const f of fields) {
-      const present = m[f] !== undefined && m[f] !== null;
-      if (kind === m.kind && !present)
-        ctx.addIssue({ code: 'custom', path: [f], message: `is required for kind "${m.kind}"` });
-      if (kind !== m.kind && present)
+  const values = m as Record<string, unknown>;
+  const present = (f: string) => values[f] !== undefined && values[f] !== null;
+  const own = new Set(fieldsOfKind(m.kind));
+  for (const kind of MEASUREMENT_KIND_NAMES) {
+    for (const f of kind === m.kind ? [] : fieldsOfKind(kind)) {
+      if (!own.has(f) && present(f))
         ctx.addIssue({ code: 'custom', path: [f], message: `does not belong to kind "${m.kind}"` });
     }
   }
-  if (m.kind === 'radial-velocity' && m.correlation !== undefined && m.correlation !== null) {
+  for (const f of own)
+    if (!present(f))
+      ctx.addIssue({ code: 'custom', path: [f], message: `is required for kind "${m.kind}"` });
+  if (!describeKind(m.kind).correlated && present(CORRELATION_FIELD)) {
     ctx.addIssue({
       code: 'custom',
-      path: ['correlation'],
+      path: [CORRELATION_FIELD],
       message: 'applies to astrometric kinds only',
     });
   }
@@ -323,6 +321,6 @@ export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
 
 export const UserInput = z.object({
   name: lineText(80).trim().min(1),
-  role: z.enum(['lead', 'observer', 'viewer']),
+  role: z.enum(ROLE_NAMES),
 });
 export type Role = z.infer<typeof UserInput>['role'];

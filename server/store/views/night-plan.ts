@@ -23,7 +23,7 @@ import {
   scheduleNight,
   type CandidateInput,
   type KeptBlock,
-  type MeasurementKind,
+  type BlockKind,
   type NightSchedule,
   type ScheduleMethod,
 } from '../../science/plan/index.ts';
@@ -57,7 +57,7 @@ export interface NightScheduleRequest {
   sameTargetMinutes?: number;
   method?: ScheduleMethod;
   /** Length of the campaign's default candidates per kind, minutes. */
-  blockMinutes?: Partial<Record<MeasurementKind, number>>;
+  blockMinutes?: Partial<Record<BlockKind, number>>;
   /** The preview's digest: accept refuses (409) when the schedule would now come out differently. */
   digest?: string;
 }
@@ -113,7 +113,7 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
         ...(Number.isFinite(c.latestJd) ? { latestEnd: jdToIso(c.latestJd) } : {}),
       }));
   if (fromCampaign) {
-    const last = new Map<number, Partial<Record<MeasurementKind, number>>>();
+    const last = new Map<number, Partial<Record<BlockKind, number>>>();
     const seasonal = seasonTargets(input.targets, input.campaign.goals, names, last);
     const options = {
       ...campaignOptions(input.campaign.goals),

@@ -12,7 +12,8 @@
 import { createHash } from 'node:crypto';
 import { and, eq, gte, inArray, lte, max } from 'drizzle-orm';
 import { blockOutcomes, blocks, measurements, nightReports, nights } from '../../../db/schema.ts';
-import type { KeptBlock, MeasurementKind } from '../../science/plan/index.ts';
+import { describeKind } from '../../../shared/measurement-kinds.ts';
+import type { KeptBlock, BlockKind } from '../../science/plan/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { jdToIso, jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import type { DbOrTx } from '../database.ts';
@@ -145,12 +146,6 @@ export function asKeptBlock(b: BlockRow, names: ReadonlyMap<number, string>): Ke
   };
 }
 
-const KIND_OF: Record<string, MeasurementKind> = {
-  offsets: 'astrometry',
-  separation: 'astrometry',
-  'radial-velocity': 'spectroscopy',
-};
-
 /**
  * The latest epoch of each kind per target before `beforeIso`: measurements, and blocks of the
  * campaign that were obtained or are still planned (a planned epoch counts as one to come).
@@ -160,9 +155,9 @@ export async function lastEpochs(
   campaignId: number,
   targetIds: number[],
   beforeIso: string,
-): Promise<Map<number, Partial<Record<MeasurementKind, number>>>> {
-  const out = new Map<number, Partial<Record<MeasurementKind, number>>>();
-  const note = (target: number, kind: MeasurementKind, jd: number) => {
+): Promise<Map<number, Partial<Record<BlockKind, number>>>> {
+  const out = new Map<number, Partial<Record<BlockKind, number>>>();
+  const note = (target: number, kind: BlockKind, jd: number) => {
     const m = out.get(target) ?? {};
     if (m[kind] === undefined || jd > m[kind]!) m[kind] = jd;
     out.set(target, m);
@@ -179,7 +174,7 @@ export async function lastEpochs(
     .where(inArray(measurements.targetId, targetIds))
     .groupBy(measurements.targetId, measurements.kind);
   for (const m of measured)
-    if (m.jd !== null && m.jd < beforeJd) note(m.target, KIND_OF[m.kind]!, m.jd);
+    if (m.jd !== null && m.jd < beforeJd) note(m.target, describeKind(m.kind).blockKind, m.jd);
   const planned = await db
     .select({ b: blocks })
     .from(blocks)

@@ -16,7 +16,7 @@ import { addDays } from '../../science/sky/night.ts';
 import {
   planSeason,
   type KeptBlock,
-  type MeasurementKind,
+  type BlockKind,
   type SeasonOptions,
   type SeasonPlan,
   type SeasonSite,
@@ -232,7 +232,7 @@ export function seasonTargets(
   rows: readonly { id: number; target: SeasonTarget['target'] }[],
   goals: CampaignGoals,
   names: Map<number, string>,
-  last: Map<number, Partial<Record<MeasurementKind, number>>>,
+  last: Map<number, Partial<Record<BlockKind, number>>>,
 ): SeasonTarget[] {
   for (const key of Object.keys(goals.targets ?? {}))
     if (!rows.some((t) => String(t.id) === key))
@@ -245,7 +245,7 @@ export function seasonTargets(
     const own = goals.targets?.[String(t.id)] ?? {};
     return {
       target: { ...t.target, name: names.get(t.id)! },
-      kinds: goals.kinds as MeasurementKind[],
+      kinds: goals.kinds as BlockKind[],
       cadenceDays: own.cadenceDays ?? goals.cadenceDays,
       ...(goals.densifiedCadenceDays !== undefined
         ? { densifiedCadenceDays: goals.densifiedCadenceDays }

@@ -15,7 +15,7 @@ import { InputError } from '../../errors.ts';
 import { GENERAL_RELATIVITY, thieleInnesToCampbell } from '../elements.ts';
 import { semiMajorAxisAuFromMass } from '../physical.ts';
 import type { Orbit, RelativitySwitches } from '../types.ts';
-import type { Observation } from './measurements.ts';
+import { componentCount, type Observation } from './measurements.ts';
 
 export const SYSTEM_KEYS = [
   'distancePc',
@@ -174,7 +174,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
       F: ti ? add('fArcsec', k, prefix) : -1,
       G: ti ? add('gArcsec', k, prefix) : -1,
     };
-    const components = s.obs.reduce((n, m) => n + (m.kind === 'radial-velocity' ? 1 : 2), 0);
+    const components = s.obs.reduce((n, m) => n + componentCount(m), 0);
     const out: StarLayout = {
       name: s.name,
       obs: s.obs,

@@ -5,19 +5,24 @@
 import { DEG } from '../../constants.ts';
 import { InputError, requireFinite } from '../../errors.ts';
 import { parseEpoch } from '../../time/index.ts';
-import type { MeasurementInput } from './types.ts';
-
-export type ObsKind = 'offsets' | 'separation' | 'radial-velocity';
+import {
+  MEASUREMENT_KIND_NAMES,
+  componentCount as kindComponents,
+  describeKind,
+  type MeasuredValue,
+  type MeasurementKind,
+} from '../../../../shared/measurement-kinds.ts';
 
 /** One measurement in internal units. Components: offset [Δα*, Δδ] mas; separation [ρ mas, θ rad]; rv [v km/s]. */
 export interface Observation {
-  kind: ObsKind;
+  kind: MeasurementKind;
   index: number;
   id: string | undefined;
   jd: number;
+  /** The kind's values in its descriptor's order; a one-value kind is padded with 0 (σ 1). */
   value: [number, number];
   sigma: [number, number];
-  /** Correlation of the two components (offsets only). */
+  /** Correlation of the two components' errors (0 for a kind without one). */
   rho: number;
 }
 
@@ -35,6 +40,31 @@ function epochOf(field: string, v: unknown): number {
   return parseEpoch(v, field);
 }
 
+/** A value in internal units (degrees to radians), within its descriptor's bounds. */
+function readValue(p: string, m: Record<string, unknown>, v: MeasuredValue): [number, number] {
+  const x = requireFinite(`${p}.${v.field}`, m[v.field]);
+  if (v.min !== undefined && !(x >= v.min))
+    throw new InputError(`${p}.${v.field}`, x, `must be ≥ ${v.min}`);
+  if (v.below !== undefined && !(x < v.below))
+    throw new InputError(`${p}.${v.field}`, x, `must be < ${v.below}`);
+  if (v.max !== undefined && !(x <= v.max))
+    throw new InputError(`${p}.${v.field}`, x, `must be ≤ ${v.max}`);
+  const scale = v.unit === 'deg' ? DEG : 1;
+  return [x * scale, positive(`${p}.${v.sigma}`, m[v.sigma]) * scale];
+}
+
+function correlationOf(p: string, m: Record<string, unknown>, kind: MeasurementKind): number {
+  if (!describeKind(kind).correlated || m.correlation === undefined) return 0;
+  const rho = requireFinite(`${p}.correlation`, m.correlation);
+  if (!(rho > -1 && rho < 1))
+    throw new InputError(`${p}.correlation`, rho, 'must satisfy −1 < ρ < 1');
+  return rho;
+}
+
+const KIND_RULE = `must be ${MEASUREMENT_KIND_NAMES.map((k) => JSON.stringify(k))
+  .join(', ')
+  .replace(/, ([^,]*)$/, ' or $1')}`;
+
 /** Check one star's measurements. @throws InputError naming `${prefix}.<k>.<field>` */
 export function readMeasurements(list: unknown, prefix: string): Observation[] {
   if (!Array.isArray(list)) throw new InputError(prefix, list, 'must be a list of measurements');
@@ -44,63 +74,18 @@ export function readMeasurements(list: unknown, prefix: string): Observation[] {
     const m = raw as Record<string, unknown>;
     const id = m.id === undefined ? undefined : String(m.id);
     const jd = epochOf(`${p}.epoch`, m.epoch);
-    const kind = m.kind as MeasurementInput['kind'] | undefined;
-    switch (kind) {
-      case 'offsets': {
-        const rho =
-          m.correlation === undefined ? 0 : requireFinite(`${p}.correlation`, m.correlation);
-        if (!(rho > -1 && rho < 1))
-          throw new InputError(`${p}.correlation`, rho, 'must satisfy −1 < ρ < 1');
-        return {
-          kind,
-          index: k,
-          id,
-          jd,
-          rho,
-          value: [requireFinite(`${p}.dRaMas`, m.dRaMas), requireFinite(`${p}.dDecMas`, m.dDecMas)],
-          sigma: [
-            positive(`${p}.sigmaDRaMas`, m.sigmaDRaMas),
-            positive(`${p}.sigmaDDecMas`, m.sigmaDDecMas),
-          ],
-        };
-      }
-      case 'separation': {
-        const sep = requireFinite(`${p}.separationMas`, m.separationMas);
-        if (!(sep >= 0)) throw new InputError(`${p}.separationMas`, sep, 'must be ≥ 0');
-        return {
-          kind,
-          index: k,
-          id,
-          jd,
-          rho: 0,
-          value: [sep, requireFinite(`${p}.positionAngleDeg`, m.positionAngleDeg) * DEG],
-          sigma: [
-            positive(`${p}.sigmaSeparationMas`, m.sigmaSeparationMas),
-            positive(`${p}.sigmaPositionAngleDeg`, m.sigmaPositionAngleDeg) * DEG,
-          ],
-        };
-      }
-      case 'radial-velocity':
-        return {
-          kind,
-          index: k,
-          id,
-          jd,
-          rho: 0,
-          value: [requireFinite(`${p}.radialVelocityKmS`, m.radialVelocityKmS), 0],
-          sigma: [positive(`${p}.sigmaRadialVelocityKmS`, m.sigmaRadialVelocityKmS), 1],
-        };
-      default:
-        throw new InputError(
-          `${p}.kind`,
-          m.kind,
-          'must be "offsets", "separation" or "radial-velocity"',
-        );
-    }
+    const kind = m.kind as MeasurementKind;
+    if (!(MEASUREMENT_KIND_NAMES as readonly unknown[]).includes(kind))
+      throw new InputError(`${p}.kind`, m.kind, KIND_RULE);
+    const rho = correlationOf(p, m, kind);
+    const [first, second] = describeKind(kind).values.map((v) => readValue(p, m, v));
+    const [v1, s1] = first!;
+    const [v2, s2] = second ?? [0, 1];
+    return { kind, index: k, id, jd, rho, value: [v1, v2], sigma: [s1, s2] };
   });
 }
 
 /** Number of residual components a measurement contributes. */
 export function componentCount(o: Observation): number {
-  return o.kind === 'radial-velocity' ? 1 : 2;
+  return kindComponents(o.kind);
 }

@@ -7,6 +7,7 @@
  * Thiele–Innes constants. Switched-on relativistic terms are a small correction
  * (full − Keplerian model) whose derivatives are taken by central differences.
  */
+import { componentCount } from './measurements.ts';
 import { AU_KM, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
 import { predictBatch } from '../predict.ts';
 import type { RelativitySwitches } from '../types.ts';
@@ -91,7 +92,7 @@ export function angleComponents(L: Layout): Uint8Array {
     let c = s.firstComponent;
     for (const m of s.obs) {
       if (m.kind === 'separation') mask[c + 1] = 1;
-      c += m.kind === 'radial-velocity' ? 1 : 2;
+      c += componentCount(m);
     }
   }
   return mask;
@@ -245,7 +246,7 @@ export function keplerianModel(
           }
         }
       }
-      row += ob.kind === 'radial-velocity' ? 1 : 2;
+      row += componentCount(ob);
     }
   }
   return { values, deriv };

@@ -4,6 +4,7 @@
  * residuals per measurement with outliers flagged, and per star an OrbitInput with its covariance
  * that can be stored as a new orbit-solution version.
  */
+import { componentCount } from './measurements.ts';
 import { DEG } from '../../constants.ts';
 import { jdToIso } from '../../time/index.ts';
 import { COVARIANCE_PARAMETERS, type CovarianceParameter, type OrbitInput } from '../types.ts';
@@ -169,7 +170,7 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
       comps = 0;
     let c = s.firstComponent;
     for (const m of s.obs) {
-      const n = m.kind === 'radial-velocity' ? 1 : 2;
+      const n = componentCount(m);
       const res: number[] = [],
         norm: number[] = [];
       let outlier = false;

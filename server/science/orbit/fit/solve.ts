@@ -3,6 +3,7 @@
  * several stars) the joint fit that shares the mass, the distance, γ and the frame, started from
  * the single-star solutions. Returns the minimum and its covariance; result.ts dresses it up.
  */
+import { componentCount } from './measurements.ts';
 import { JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { campbellToThieleInnes, thieleInnesToCampbell } from '../elements.ts';
 import { massSolar, semiMajorAxisAu } from '../physical.ts';
@@ -91,7 +92,7 @@ export function build(req: CheckedRequest, stars: CheckedStar[], strict: boolean
 }
 
 function components(star: CheckedStar): number {
-  return star.obs.reduce((n, m) => n + (m.kind === 'radial-velocity' ? 1 : 2), 0);
+  return star.obs.reduce((n, m) => n + componentCount(m), 0);
 }
 
 /** The refusals that need no fit: no astrometry, too few measurements, one epoch. */

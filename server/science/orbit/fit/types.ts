@@ -39,6 +39,8 @@ export interface SeparationInput {
   positionAngleDeg: number;
   sigmaSeparationMas: number;
   sigmaPositionAngleDeg: number;
+  /** Correlation of the ρ and θ errors, −1 < ρ < 1. Default 0. */
+  correlation?: number;
   id?: string;
 }
 

@@ -1,0 +1,80 @@
+/**
+ * Reading a command's options: ids, numbers, JSON given inline or as a file, the output format, and
+ * errors of the layers below renamed after the option the user typed. Every rule names the option
+ * and the value, and fails as a UsageError (exit code 2).
+ */
+import { readFileSync } from 'node:fs';
+import { InputError } from '../science/errors.ts';
+import { UsageError } from './io.ts';
+import type { OutputFormat } from './output.ts';
+
+/** `--<option> <id>`: a positive whole number. */
+export function positiveId(option: string, text: string | undefined): number {
+  const id = Number(text);
+  if (text === undefined || !Number.isInteger(id) || id <= 0)
+    throw new UsageError(
+      `--${option}: ${JSON.stringify(text ?? null)} must be an id (a positive whole number)`,
+    );
+  return id;
+}
+
+/** An optional `--<option> <id>`: undefined when left out. */
+export function optionalId(option: string, text: string | undefined): number | undefined {
+  return text === undefined ? undefined : positiveId(option, text);
+}
+
+/** An optional `--<option> <x>` with x > 0 (finite). */
+export function optionalPositive(option: string, text: string | undefined): number | undefined {
+  if (text === undefined) return undefined;
+  const x = Number(text);
+  if (!(x > 0) || !Number.isFinite(x))
+    throw new UsageError(`--${option}: ${JSON.stringify(text)} must be a positive number`);
+  return x;
+}
+
+/** Read a JSON value from inline text (starts with `{` or `[`) or from a file path. */
+export function readJsonArg(option: string, text: string | undefined): unknown {
+  if (text === undefined) throw new UsageError(`--${option} is required`);
+  const trimmed = text.trim();
+  let source = trimmed;
+  if (!trimmed.startsWith('{') && !trimmed.startsWith('[')) {
+    try {
+      source = readFileSync(trimmed, 'utf8');
+    } catch (err) {
+      throw new UsageError(
+        `--${option}: cannot read file ${JSON.stringify(trimmed)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
+      );
+    }
+  }
+  try {
+    return JSON.parse(source);
+  } catch (err) {
+    throw new UsageError(`--${option}: not valid JSON (${(err as Error).message})`);
+  }
+}
+
+/** `--json` / `--csv` flags to a format; both at once is a usage error. */
+export function outputFormat(values: { json?: boolean; csv?: boolean }): OutputFormat {
+  if (values.json && values.csv) throw new UsageError('choose one of --json and --csv');
+  return values.json ? 'json' : values.csv ? 'csv' : 'table';
+}
+
+/** Re-raise an InputError under the option the user typed (`options`: request field → option), so the message names it. */
+export async function asOptions<T>(
+  options: Record<string, string>,
+  f: () => Promise<T>,
+): Promise<T> {
+  try {
+    return await f();
+  } catch (err) {
+    if (!(err instanceof InputError)) throw err;
+    const [head, ...rest] = err.field.split('.');
+    const option = options[head!] ?? options['*'];
+    if (option === undefined) throw err;
+    throw new InputError(
+      options[head!] ? [option, ...rest].join('.') : `${option} ${err.field}`,
+      err.value,
+      err.rule,
+    );
+  }
+}
