@@ -2,7 +2,7 @@
  * Output for people (aligned tables), programs (JSON) and spreadsheets (CSV, RFC 4180 via csv-stringify).
  */
 import { stringify } from 'csv-stringify/sync';
-import { escapeFormulaCell } from '../store/csv/cells.ts';
+import { escapeFormulaCell } from '../store/index.ts';
 
 export type OutputFormat = 'table' | 'json' | 'csv';
 

@@ -46,5 +46,6 @@ export {
   type CsvKind,
 } from './csv/columns.ts';
 export { ImportRejected, type ImportReport } from './csv/import.ts';
+export { escapeFormulaCell } from './csv/cells.ts';
 export { ephemerisCsv } from './exports/ephemeris.ts';
 export { measurementsCsv, type ExportedMeasurement } from './exports/measurements.ts';

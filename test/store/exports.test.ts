@@ -29,6 +29,7 @@ it('exports exactly the store entry points', () => {
     'UserInput',
     'createStore',
     'ephemerisCsv',
+    'escapeFormulaCell',
     'measurementsCsv',
     'openDatabase',
     'resolveDatabaseUrl',
