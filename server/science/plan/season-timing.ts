@@ -50,7 +50,8 @@ export function timeNights(p: Planner): TimedPlan {
             target: t.name,
             kind: c.o.kind,
             durationMinutes: t.blockMinutes[c.o.kind],
-            priority: Math.min(1000, t.priority * (1 + c.rank)),
+            // A periapsis-window epoch's priority doubles, as in the night's own candidates (night-candidates.ts).
+            priority: Math.min(1000, t.priority * (c.why === 'periapsis' ? 2 : 1) * (1 + c.rank)),
             laserGuideStar: site.laserGuideStar === true && t.laserGuideStar[c.o.kind],
             ...(c.o.timed
               ? {
