@@ -3,7 +3,7 @@
  * report and rejection every import gives. No database here, so a worker thread can run it.
  */
 import { parse } from 'csv-parse/sync';
-import { InputError, type FieldProblem } from '../../science/errors.ts';
+import { InputError, refuseDecimalComma, type FieldProblem } from '../../science/errors.ts';
 import { COLUMNS, NUMERIC, REQUIRED_COLUMNS, type CsvKind } from './columns.ts';
 import { isDecimal, unescapeFormulaCell } from './cells.ts';
 
@@ -110,6 +110,7 @@ export function readCsv(
 export function cellValue(column: string, cell: string): unknown {
   if (cell === '') return undefined;
   if (NUMERIC.has(column)) {
+    refuseDecimalComma(cell, column, cell); // `1,5` is refused with the fix named, never read as 15
     if (!isDecimal(cell))
       throw new InputError(
         column,
