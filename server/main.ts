@@ -7,6 +7,7 @@ import { serve } from '@hono/node-server';
 import { createApp } from './http/app.ts';
 import { DEFAULT_CLIENT_DIR, hasBuiltClient } from './http/client-static.ts';
 import { startStore } from './store/index.ts';
+import { createJobPool, poolOptionsFromEnv, type JobPool } from './jobs/pool.ts';
 
 const port = Number(process.env.PORT ?? 8417);
 const hostname = process.env.HOST ?? '127.0.0.1';
@@ -26,7 +27,18 @@ try {
 }
 const { store, demo, firstLead } = started;
 const withClient = hasBuiltClient(DEFAULT_CLIENT_DIR);
-const app = createApp({ store, ...(withClient ? { clientDir: DEFAULT_CLIENT_DIR } : {}) });
+let pool: JobPool;
+try {
+  pool = createJobPool(poolOptionsFromEnv());
+} catch (err) {
+  console.error(`epochwright: ${err instanceof Error ? err.message : String(err)}`);
+  process.exit(2);
+}
+const app = createApp({
+  store,
+  run: pool.run,
+  ...(withClient ? { clientDir: DEFAULT_CLIENT_DIR } : {}),
+});
 const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
   const base = `http://${hostname}:${info.port}/`;
   console.log(`epochwright listening on ${base} (API at /api, OpenAPI at /api/openapi.json)`);
@@ -36,6 +48,10 @@ const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
       : 'no built client in client/dist: run `npm run build` for the browser views',
   );
   console.log(`database: ${store.url.replace(/\/\/[^@/]*@/, '//…@')}`);
+  const p = pool.options;
+  console.log(
+    `computations: ${p.threads} worker thread(s), ${p.maxQueue} waiting at most, ${p.timeLimitS} s per job`,
+  );
   if (demo)
     console.log(
       `demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty store)`,
@@ -53,5 +69,6 @@ for (const sig of ['SIGINT', 'SIGTERM'] as const) {
     server.close();
     store.close();
     process.exit(0);
+    void pool.close().finally(() => process.exit(0));
   });
 }

@@ -1,9 +1,12 @@
 /**
  * The Hono application: every resource module mounted under /api, one error handler, a body limit.
  */
+import { costed } from '../jobs/cost.ts';
+import { inProcess, type Runner } from '../jobs/tasks.ts';
 import { OpenAPIHono } from '@hono/zod-openapi';
 import { bodyLimit } from 'hono/body-limit';
 import { secureHeaders } from 'hono/secure-headers';
+import { signedIn } from './auth.ts';
 import { HttpError, errorResponse } from './errors.ts';
 import { healthRoutes } from './health.ts';
 import { methodNotAllowed } from 'hono/method-not-allowed';
@@ -25,6 +28,8 @@ export interface AppOptions {
   maxImportBytes?: number;
   /** The campaign store; without it only the stateless routes (health, ephemeris, events, sky) exist. */
   store?: Store;
+  /** Where heavy computations run: the server passes its worker pool's `run`; default this thread. */
+  run?: Runner;
   /** A built client folder (client/dist) to serve after the API, with index.html for client-side routes. */
   clientDir?: string;
   /** Check every JSON answer against its route's declared schema (tests; default: EPOCHWRIGHT_CHECK_RESPONSES=1). */
@@ -86,10 +91,16 @@ export function createApp(options: AppOptions = {}) {
   );
   const api = new OpenAPIHono({ defaultHook: validationHook });
   api.route('/', healthRoutes(VERSION));
-  api.route('/', orbitRoutes());
-  api.route('/', skyRoutes());
-  if (options.store) api.route('/', storeRoutes(options.store));
-  api.route('/', fitRoutes(options.store));
+  // Every job is costed before it runs (server/jobs/cost.ts): beyond a bound is a 422.
+  const run = costed(options.run ?? inProcess);
+  // With a store there are users: every computation needs at least a viewer's token (health and
+  // the OpenAPI document stay open). Without one (tests, embedding) there is no one to sign in.
+  if (options.store)
+    for (const path of COMPUTE_PATHS) api.use(path, signedIn(options.store, 'viewer'));
+  api.route('/', orbitRoutes(run));
+  api.route('/', skyRoutes(run));
+  if (options.store) api.route('/', storeRoutes(options.store, run));
+  api.route('/', fitRoutes(run, options.store));
   api.doc31('/openapi.json', {
     openapi: '3.1.0',
     info: { title: 'epochwright API', version: VERSION },
@@ -109,6 +120,9 @@ export function createApp(options: AppOptions = {}) {
 }
 
 export type App = ReturnType<typeof createApp>;
+
+/** The stateless computations, open only to signed-in users when the app has a store. */
+export const COMPUTE_PATHS = ['/ephemeris', '/events', '/sky/night', '/sky/season', '/fit'];
 
 export const DEFAULT_MAX_BODY_BYTES = 2 * 1024 * 1024;
 export const DEFAULT_MAX_IMPORT_BYTES = 64 * 1024 * 1024;

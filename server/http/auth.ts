@@ -56,3 +56,16 @@ export function requireRole(c: Context<AuthEnv>, role: Role): UserRow {
   }
   return user;
 }
+
+/**
+ * Sign-in required at `role` or above on a route outside the store's resources (the stateless
+ * computations: ephemeris, events, sky, fits), so that no anonymous caller can spend the server.
+ */
+export function signedIn(store: Store, role: Role): MiddlewareHandler<AuthEnv> {
+  const who = identify(store);
+  return (c, next) =>
+    who(c, async () => {
+      requireRole(c, role);
+      await next();
+    });
+}

@@ -4,6 +4,7 @@
  */
 import type { Context } from 'hono';
 import { HTTPException } from 'hono/http-exception';
+import { JobRefused } from '../jobs/pool.ts';
 import { ComputationError, InputError } from '../science/errors.ts';
 import { FitRefusal } from '../science/orbit/fit/index.ts';
 import { ConflictError, ImportRejected, NotFoundError } from '../store/index.ts';
@@ -46,6 +47,8 @@ function fromHonoException(err: HTTPException): HttpError {
       413,
       'body_too_large',
       'the request body is larger than the server accepts',
+      undefined,
+      { connection: 'close' },
     );
   if (status === 415)
     return new HttpError(415, 'unsupported_media_type', 'send the body as application/json');
@@ -93,6 +96,17 @@ export const ERROR_TABLE: readonly ErrorRule<Error>[] = [
       new HttpError(422, 'fit_refused', e.message, { reason: e.reason, parameters: e.parameters }),
   ),
   rule(ComputationError, (e: ComputationError) => new HttpError(422, 'no_solution', e.message)),
+  rule(
+    JobRefused,
+    (e: JobRefused) =>
+      new HttpError(
+        503,
+        e.code,
+        e.message,
+        e.details,
+        e.retryAfterS === undefined ? undefined : { 'retry-after': String(e.retryAfterS) },
+      ),
+  ),
   rule(HTTPException, fromHonoException),
 ];
 

@@ -7,8 +7,9 @@
  * A fit the data cannot support answers 422 `fit_refused` with the reason and the parameters
  * (errors.ts maps FitRefusal).
  */
+import type { Runner } from '../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
-import { fitOrbits } from '../science/orbit/fit/index.ts';
+import type { FitRequest } from '../science/orbit/fit/index.ts';
 import type { Store } from '../store/index.ts';
 import { identify, requireRole } from './auth.ts';
 import { HttpError } from './errors.ts';
@@ -180,7 +181,7 @@ const StoredAccept = z
   .object({ solutions: z.array(OrbitSolutionRowSchema), result: FitResultSchema })
   .strict();
 
-export function fitRoutes(store?: Store) {
+export function fitRoutes(run: Runner, store?: Store) {
   const app = resourceApp();
   app.openapi(
     createRoute({
@@ -191,7 +192,7 @@ export function fitRoutes(store?: Store) {
       request: body(FitBody),
       responses: { 200: fitted, ...errorResponses },
     }),
-    (c) => c.json(fitOrbits(c.req.valid('json')), 200),
+    async (c) => c.json(await run('fitOrbits', c.req.valid('json') as FitRequest), 200),
   );
   if (!store) return app;
   for (const path of [
@@ -234,7 +235,10 @@ export function fitRoutes(store?: Store) {
         const { notes: _notes, targetIds, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
         const prepared = await store.fits.prepare(ids, options);
-        return c.json({ targets: prepared.targets, result: fitOrbits(prepared.request) }, 200);
+        return c.json(
+          { targets: prepared.targets, result: await run('fitOrbits', prepared.request) },
+          200,
+        );
       },
     );
     app.openapi(
@@ -255,7 +259,7 @@ export function fitRoutes(store?: Store) {
         const { notes, targetIds, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
         const prepared = await store.fits.prepare(ids, options);
-        const result = fitOrbits(prepared.request);
+        const result = await run('fitOrbits', prepared.request);
         const solutions = await store.fits.accept(
           { userId: user.id },
           prepared,

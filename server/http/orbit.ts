@@ -1,14 +1,9 @@
 /**
  * Stateless orbit endpoints: POST /ephemeris and POST /events take an orbit in the body.
  */
+import type { Runner } from '../jobs/tasks.ts';
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
-import {
-  describeOrbit,
-  ephemeris,
-  eventsWithUncertainty,
-  validateOrbit,
-  type OrbitInput,
-} from '../science/orbit/index.ts';
+import { describeOrbit, validateOrbit, type OrbitInput } from '../science/orbit/index.ts';
 import { parseEpoch, resolveEpochs } from '../science/time/index.ts';
 import {
   EpochRangeSchema,
@@ -69,21 +64,26 @@ const eventsRoute = createRoute({
   },
 });
 
-export function orbitRoutes() {
+export function orbitRoutes(run: Runner) {
   const app = new OpenAPIHono({ defaultHook: validationHook });
-  app.openapi(ephemerisRoute, (c) => {
+  app.openapi(ephemerisRoute, async (c) => {
     const body = c.req.valid('json');
     const orbit = validateOrbit(body.orbit as OrbitInput);
     const jd = resolveEpochs(body.epochs);
-    const rows = ephemeris(orbit, jd, body.monteCarlo ? { monteCarlo: body.monteCarlo } : {});
+    const rows = await run(
+      'ephemeris',
+      orbit,
+      jd,
+      body.monteCarlo ? { monteCarlo: body.monteCarlo } : {},
+    );
     return c.json({ orbit: describeOrbit(orbit), predictions: rows }, 200);
   });
-  app.openapi(eventsRoute, (c) => {
+  app.openapi(eventsRoute, async (c) => {
     const body = c.req.valid('json');
     const orbit = validateOrbit(body.orbit as OrbitInput);
     const start = parseEpoch(body.start, 'start');
     const end = parseEpoch(body.end, 'end');
-    const events = eventsWithUncertainty(orbit, start, end, {
+    const events = await run('eventsWithUncertainty', orbit, start, end, {
       ...(body.kinds ? { kinds: body.kinds } : {}),
       ...(body.monteCarlo ? { monteCarlo: body.monteCarlo } : {}),
     });

@@ -3,6 +3,7 @@
  * curves) and POST /sky/season (observable hours per night across a year). Sites come inline; zod
  * checks shapes (400), the sky engine checks ranges and rules (422 naming field, value and rule).
  */
+import type { Runner } from '../jobs/tasks.ts';
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import { InputError, requireFinite } from '../science/errors.ts';
 import { parseDurationMinutes } from '../science/time/index.ts';
@@ -11,10 +12,7 @@ import {
   NIGHT_CURVE_STEP,
   NIGHT_STEP,
   SEASON_STEP,
-  nightReport,
   parseNightDate,
-  seasonMap,
-  seasonReport,
   validateLimits,
   validateSite,
   validateTarget,
@@ -208,9 +206,9 @@ function siteAndTargets(body: { site: unknown; targets: unknown[] }): {
   return { site, targets };
 }
 
-export function skyRoutes() {
+export function skyRoutes(run: Runner) {
   const app = new OpenAPIHono({ defaultHook: validationHook });
-  app.openapi(nightRoute, (c) => {
+  app.openapi(nightRoute, async (c) => {
     const body = c.req.valid('json');
     const { site, targets } = siteAndTargets(body);
     parseNightDate(body.date, 'date');
@@ -232,14 +230,14 @@ export function skyRoutes() {
         'must number at most 20 with method "exact"',
       );
     }
-    const report = nightReport(site, body.date, targets, limits, {
+    const report = await run('nightReport', site, body.date, targets, limits, {
       ...(body.method ? { method: body.method } : {}),
       stepMinutes,
       curveStepMinutes,
     });
     return c.json(report, 200);
   });
-  app.openapi(seasonRoute, (c) => {
+  app.openapi(seasonRoute, async (c) => {
     const body = c.req.valid('json');
     const { site, targets } = siteAndTargets(body);
     if (body.year < 1900 || body.year > 2100)
@@ -252,12 +250,12 @@ export function skyRoutes() {
     );
     const minHoursPerNight = inRange('minHoursPerNight', body.minHoursPerNight, 0, 24);
     const maxGapNights = inRange('maxGapNights', body.maxGapNights, 0, 60);
-    const map = seasonMap(site, body.year, targets, limits, {
+    const report = await run('seasonReport', site, body.year, targets, limits, {
       stepMinutes,
       ...(minHoursPerNight === undefined ? {} : { minHoursPerNight }),
       ...(maxGapNights === undefined ? {} : { maxGapNights }),
     });
-    return c.json(seasonReport(site, map, limits), 200);
+    return c.json(report, 200);
   });
   return app;
 }

@@ -47,5 +47,6 @@ export {
 } from './csv/columns.ts';
 export { ImportRejected, type ImportReport } from './csv/import.ts';
 export { escapeFormulaCell } from './csv/cells.ts';
+export type { PreparedMeasurements } from './csv/measurement-rows.ts';
 export { ephemerisCsv } from './exports/ephemeris.ts';
 export { measurementsCsv, type ExportedMeasurement } from './exports/measurements.ts';

@@ -4,7 +4,7 @@
  */
 import { backupDatabase } from './backup.ts';
 import { registerContext, storeContext } from './context.ts';
-import { importCsv } from './csv/import.ts';
+import { importCsv, importPreparedMeasurements } from './csv/import.ts';
 import type { Database } from './database.ts';
 import { loadDemo } from './demo/load.ts';
 import { campaignCalendar } from './exports/calendar.ts';
@@ -55,6 +55,8 @@ export function createStore(database: Database) {
     },
     /** A CSV file of targets, orbit solutions or measurements: all rows or none. */
     importCsv: bind(context, importCsv),
+    /** A measurements file already parsed and checked (`prepareMeasurements`, on a worker): the writes. */
+    importPreparedMeasurements: bind(context, importPreparedMeasurements),
     exports: {
       measurements: bind(db, measurementsForExport),
       calendar: bind(db, campaignCalendar),

@@ -2,6 +2,7 @@
  * The one error → HTTP table (server/http/errors.ts) is pinned: every error class the server
  * defines is in it, in an order where no class is shadowed by its parent, and maps as listed.
  */
+import { JobRefused } from '../../server/jobs/pool.ts';
 import { readFileSync, readdirSync, statSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { HTTPException } from 'hono/http-exception';
@@ -42,6 +43,7 @@ describe('the error table', () => {
       'InputError',
       'FitRefusal',
       'ComputationError',
+      'JobRefused',
       'HTTPException',
     ]); // server/http/errors.ts as designed
     const declared = declaredErrorClasses().filter((d) => !NOT_HTTP.includes(d));
@@ -108,6 +110,13 @@ describe('the error table', () => {
       { reason: 'too-few-measurements', parameters: ['distancePc'] },
     ],
     ['ComputationError', new ComputationError('no periapsis'), 422, 'no_solution', undefined],
+    [
+      'JobRefused',
+      new JobRefused('time_limit', 'stopped', { task: 'fitOrbits', timeLimitS: 120 }),
+      503,
+      'time_limit',
+      { task: 'fitOrbits', timeLimitS: 120 },
+    ],
     ['HTTPException 413', new HTTPException(413), 413, 'body_too_large', undefined],
     ['anything else', new TypeError('boom'), 500, 'internal', undefined],
   ];

@@ -11,6 +11,7 @@ import { migrate } from 'drizzle-orm/libsql/migrator';
 import { MIGRATIONS_FOLDER } from '../../server/store/database.ts';
 import { BACKENDS, ORBIT_S1, fixture, tableCounts, type Fixture } from '../store/backends.ts';
 import { databaseOf } from '../../server/store/testing.ts';
+import { COMPUTE_PATHS } from '../../server/http/app.ts';
 
 interface Journal {
   entries: { tag: string }[];
@@ -532,6 +533,17 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     expect((await f.call('viewer', 'GET', '/api/nights?limit=501')).status).toBe(400); // page size limit 500 (this API's rule)
   });
 
+  it('asks for a token on every computation, but not on health or the OpenAPI document', async () => {
+    for (const path of COMPUTE_PATHS) {
+      const anonymous = await f.call(null, 'POST', `/api${path}`, {});
+      expect([path, anonymous.status]).toEqual([path, 401]); // sign-in before any work (this API's rule, README)
+      const viewer = await f.call('viewer', 'POST', `/api${path}`, {});
+      expect([path, viewer.status]).toEqual([path, 400]); // signed in: the empty body is then the problem
+    }
+    expect((await f.call(null, 'GET', '/api/health')).status).toBe(200);
+    expect((await f.call(null, 'GET', '/api/openapi.json')).status).toBe(200);
+  });
+
   it('serves a stored target’s ephemeris and events from its current solution, as the stateless endpoint does', async () => {
     const stored = (await (
       await f.call(
@@ -541,13 +553,9 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       )
     ).json()) as { predictions: { dRaMas: number; epoch: string }[] };
     const direct = (await (
-      await f.app.request('/api/ephemeris', {
-        method: 'POST',
-        headers: { 'content-type': 'application/json' },
-        body: JSON.stringify({
-          orbit: ORBIT_S1,
-          epochs: { start: '2027-06-01T00:00Z', end: '2027-07-01T00:00Z', step: 'P5D' },
-        }),
+      await f.call('viewer', 'POST', '/api/ephemeris', {
+        orbit: ORBIT_S1,
+        epochs: { start: '2027-06-01T00:00Z', end: '2027-07-01T00:00Z', step: 'P5D' },
       })
     ).json()) as { predictions: { dRaMas: number }[] };
     expect(stored.predictions.length).toBe(7); // 30 days in steps of 5, both ends included

@@ -49,6 +49,7 @@ it('a store hands out repositories and views, never the database handle', async 
       'exports',
       'fits',
       'importCsv',
+      'importPreparedMeasurements',
       'loadDemo',
       'measurements',
       'nightReports',

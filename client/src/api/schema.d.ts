@@ -116,8 +116,35 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -195,8 +222,35 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -277,8 +331,35 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -349,8 +430,35 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -449,6 +557,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -563,6 +680,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -653,6 +779,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -723,6 +858,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -828,6 +972,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         trace?: never;
@@ -922,6 +1075,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -1003,6 +1165,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1100,6 +1271,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -1170,6 +1350,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1260,6 +1449,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1362,6 +1560,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1473,6 +1680,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -1565,6 +1781,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -1674,6 +1899,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -1776,6 +2010,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -1866,6 +2109,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -1936,6 +2188,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -2034,6 +2295,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -2124,6 +2394,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -2252,6 +2531,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -2342,6 +2630,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -2412,6 +2709,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -2526,6 +2832,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         trace?: never;
@@ -2618,6 +2933,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -2782,6 +3106,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -2872,6 +3205,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -2942,6 +3284,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -3105,6 +3456,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         trace?: never;
@@ -3204,6 +3564,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -3287,6 +3656,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -3384,6 +3762,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -3454,6 +3841,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -3547,6 +3943,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         trace?: never;
@@ -3629,6 +4034,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -3743,6 +4157,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -3846,6 +4269,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -3936,6 +4368,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -4006,6 +4447,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -4112,6 +4562,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         trace?: never;
@@ -4205,6 +4664,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -4318,6 +4786,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -4408,6 +4885,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -4478,6 +4964,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -4591,6 +5086,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         trace?: never;
@@ -4685,6 +5189,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -4806,6 +5319,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -4896,6 +5418,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         put?: never;
@@ -4966,6 +5497,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -5089,8 +5629,664 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
+        trace?: never;
+    };
+    "/me": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Who the token belongs to */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description the signed-in user */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            name: string;
+                            /** @enum {string} */
+                            role: "viewer" | "observer" | "lead";
+                            id: number;
+                            createdAt: string;
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/users": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** List users */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description page size, 1–500 */
+                    limit?: number;
+                    offset?: number;
+                };
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description one page */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            items: {
+                                name: string;
+                                /** @enum {string} */
+                                role: "viewer" | "observer" | "lead";
+                                id: number;
+                                createdAt: string;
+                            }[];
+                            total: number;
+                            limit: number;
+                            offset: number;
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        /** Create a user and its first token (shown once) */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        name: string;
+                        /** @enum {string} */
+                        role: "viewer" | "observer" | "lead";
+                    };
+                };
+            };
+            responses: {
+                /** @description created */
+                201: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            user: {
+                                name: string;
+                                /** @enum {string} */
+                                role: "viewer" | "observer" | "lead";
+                                id: number;
+                                createdAt: string;
+                            };
+                            tokenId: number;
+                            /** @description the bearer secret, shown this once only */
+                            token: string;
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/tokens/{id}": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        post?: never;
+        /** Revoke a token */
+        delete: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description revoked */
+                204: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content?: never;
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/audit": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Who changed what and when, newest first */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description page size, 1–500 */
+                    limit?: number;
+                    offset?: number;
+                    entity?: string;
+                    entityId?: number;
+                };
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description one page */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            items: {
+                                id: number;
+                                at: string;
+                                userId: number | null;
+                                action: string;
+                                entity: string;
+                                entityId: number | null;
+                                detail?: unknown;
+                            }[];
+                            total: number;
+                            limit: number;
+                            offset: number;
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/campaigns/{id}/flags": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Periapsis, blend and stale-prediction flags of a campaign, soonest first */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description the moment to compute flags for (ISO 8601, JD, MJD); default now */
+                    at?: string;
+                    /** @description resolution limit for blend flags, mas */
+                    resolutionMas?: number;
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description the flags */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            campaignId: number;
+                            flags: components["schemas"]["Flag"][];
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
         trace?: never;
     };
     "/imports/{kind}": {
@@ -5216,6 +6412,15 @@ export interface paths {
                         };
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -5307,6 +6512,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -5409,592 +6623,8 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
-    "/me": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** Who the token belongs to */
-        get: {
-            parameters: {
-                query?: never;
-                header?: never;
-                path?: never;
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description the signed-in user */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            name: string;
-                            /** @enum {string} */
-                            role: "viewer" | "observer" | "lead";
-                            id: number;
-                            createdAt: string;
-                        };
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
-    "/users": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** List users */
-        get: {
-            parameters: {
-                query?: {
-                    /** @description page size, 1–500 */
-                    limit?: number;
-                    offset?: number;
-                };
-                header?: never;
-                path?: never;
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description one page */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            items: {
-                                name: string;
-                                /** @enum {string} */
-                                role: "viewer" | "observer" | "lead";
-                                id: number;
-                                createdAt: string;
-                            }[];
-                            total: number;
-                            limit: number;
-                            offset: number;
-                        };
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        /** Create a user and its first token (shown once) */
-        post: {
-            parameters: {
-                query?: never;
-                header?: never;
-                path?: never;
-                cookie?: never;
-            };
-            requestBody: {
-                content: {
-                    "application/json": {
-                        name: string;
-                        /** @enum {string} */
-                        role: "viewer" | "observer" | "lead";
-                    };
-                };
-            };
-            responses: {
-                /** @description created */
-                201: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            user: {
-                                name: string;
-                                /** @enum {string} */
-                                role: "viewer" | "observer" | "lead";
-                                id: number;
-                                createdAt: string;
-                            };
-                            tokenId: number;
-                            /** @description the bearer secret, shown this once only */
-                            token: string;
-                        };
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
-    "/tokens/{id}": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        get?: never;
-        put?: never;
-        post?: never;
-        /** Revoke a token */
-        delete: {
-            parameters: {
-                query?: never;
-                header?: never;
-                path: {
-                    id: number;
-                };
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description revoked */
-                204: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content?: never;
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
-    "/audit": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** Who changed what and when, newest first */
-        get: {
-            parameters: {
-                query?: {
-                    /** @description page size, 1–500 */
-                    limit?: number;
-                    offset?: number;
-                    entity?: string;
-                    entityId?: number;
-                };
-                header?: never;
-                path?: never;
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description one page */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            items: {
-                                id: number;
-                                at: string;
-                                userId: number | null;
-                                action: string;
-                                entity: string;
-                                entityId: number | null;
-                                detail?: unknown;
-                            }[];
-                            total: number;
-                            limit: number;
-                            offset: number;
-                        };
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
-    "/campaigns/{id}/flags": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** Periapsis, blend and stale-prediction flags of a campaign, soonest first */
-        get: {
-            parameters: {
-                query?: {
-                    /** @description the moment to compute flags for (ISO 8601, JD, MJD); default now */
-                    at?: string;
-                    /** @description resolution limit for blend flags, mas */
-                    resolutionMas?: number;
-                };
-                header?: never;
-                path: {
-                    id: number;
-                };
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description the flags */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            campaignId: number;
-                            flags: components["schemas"]["Flag"][];
-                        };
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -6153,6 +6783,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -6342,6 +6981,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -6463,6 +7111,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -6607,6 +7264,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -6769,6 +7435,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -6944,6 +7619,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -7101,6 +7785,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };
@@ -7276,6 +7969,15 @@ export interface paths {
                         "application/json": components["schemas"]["Error"];
                     };
                 };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
             };
         };
         delete?: never;
@@ -7433,6 +8135,15 @@ export interface paths {
                 };
                 /** @description a value breaks a rule (field, value, rule in details) */
                 422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
                     headers: {
                         [name: string]: unknown;
                     };

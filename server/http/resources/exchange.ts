@@ -2,6 +2,7 @@
  * Imports and exports: CSV imports of targets, orbit solutions and measurements (all or nothing,
  * `dryRun=true` to check only), measurements as CSV or JSON, and each campaign's iCalendar feed.
  */
+import type { Runner } from '../../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
 import { CSV_KINDS, measurementsCsv, type Store } from '../../store/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
@@ -41,7 +42,7 @@ const KindParam = z.object({
 /** Who may import what: orbit solutions and targets are the lead's, measurements the observers'. */
 const IMPORT_ROLE = { targets: 'lead', orbits: 'lead', measurements: 'observer' } as const;
 
-export function exchangeRoutes(store: Store) {
+export function exchangeRoutes(store: Store, run: Runner) {
   const app = resourceApp();
   app.openapi(
     createRoute({
@@ -70,10 +71,21 @@ export function exchangeRoutes(store: Store) {
       const type = c.req.header('content-type') ?? '';
       if (!/^text\/csv\b/i.test(type))
         throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
-      const report = await store.importCsv({ userId: user.id }, kind, await c.req.text(), {
+      const text = await c.req.text();
+      const actor = { userId: user.id };
+      const options = {
         dryRun: c.req.valid('query').dryRun === 'true',
         allowDuplicates: c.req.valid('query').allowDuplicates === 'true',
-      });
+      };
+      // A measurements file is parsed and checked on a worker thread; only the writes stay here.
+      const report =
+        kind === 'measurements'
+          ? await store.importPreparedMeasurements(
+              actor,
+              await run('prepareMeasurements', text),
+              options,
+            )
+          : await store.importCsv(actor, kind, text, options);
       return c.json(report, 200);
     },
   );

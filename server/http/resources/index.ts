@@ -1,4 +1,5 @@
 /** Every store resource under one sub-application, with bearer sign-in. */
+import type { Runner } from '../../jobs/tasks.ts';
 import type { Store } from '../../store/index.ts';
 import { identify } from '../auth.ts';
 import { campaignRoutes } from './campaigns.ts';
@@ -17,7 +18,7 @@ import { systemRoutes, targetRoutes } from './systems.ts';
 import { targetViewRoutes } from './target-views.ts';
 import { userRoutes } from './users.ts';
 
-export function storeRoutes(store: Store) {
+export function storeRoutes(store: Store, run: Runner) {
   const app = resourceApp();
   app.use('*', identify(store, { queryTokenPaths: /\/calendar\.ics$/ }));
   app.openAPIRegistry.registerComponent('securitySchemes', 'bearer', {
@@ -37,13 +38,12 @@ export function storeRoutes(store: Store) {
     blockRoutes,
     nightReportRoutes,
     measurementRoutes,
-    exchangeRoutes,
     userRoutes,
     planRoutes,
-    seasonPlanRoutes,
-    nightScheduleRoutes,
   ]) {
     app.route('/', routes(store));
   }
+  for (const routes of [exchangeRoutes, seasonPlanRoutes, nightScheduleRoutes])
+    app.route('/', routes(store, run));
   return app;
 }

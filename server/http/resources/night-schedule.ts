@@ -4,6 +4,7 @@
  * the same schedule computed again and stored in place of the night's still-planned blocks
  * (observer, as for blocks). Which stored blocks it replaces: server/store/views/plan-scope.ts.
  */
+import type { Runner } from '../../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
 import { SCHEDULE_METHODS } from '../../science/plan/index.ts';
 import {
@@ -15,7 +16,7 @@ import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema } from './nights.ts';
 import { CandidateSchema, NightSchedulePreviewSchema } from '../schemas/plan-output.ts';
-import { momentJd } from '../../clock.ts';
+import { momentJd, nowMs } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const NightScheduleBody = z
@@ -62,7 +63,7 @@ function split({ at, ...body }: z.output<typeof NightScheduleBody>) {
   return { body: body satisfies NightScheduleRequest, atJd: momentJd(at, 'at') };
 }
 
-export function nightScheduleRoutes(store: Store) {
+export function nightScheduleRoutes(store: Store, run: Runner) {
   const app = resourceApp();
   const body = { content: { 'application/json': { schema: NightScheduleBody } }, required: true };
   app.openapi(
@@ -82,7 +83,7 @@ export function nightScheduleRoutes(store: Store) {
     async (c) => {
       requireRole(c, 'viewer');
       const { body: b, atJd } = split(c.req.valid('json'));
-      return c.json(await store.plans.previewNight(c.req.valid('param').id, b, atJd), 200);
+      return c.json(await store.plans.previewNight(c.req.valid('param').id, b, atJd, run), 200);
     },
   );
   app.openapi(
@@ -102,7 +103,10 @@ export function nightScheduleRoutes(store: Store) {
       const user = requireRole(c, 'observer');
       const { body: b, atJd } = split(c.req.valid('json'));
       const id = c.req.valid('param').id;
-      return c.json(await store.plans.acceptNight({ userId: user.id }, id, b, atJd), 201);
+      return c.json(
+        await store.plans.acceptNight({ userId: user.id }, id, b, atJd, nowMs(), run),
+        201,
+      );
     },
   );
   return app;

@@ -4,6 +4,7 @@
  * transaction (lead: it reshapes the campaign's nights). Which stored blocks a plan replaces:
  * server/store/views/plan-scope.ts.
  */
+import type { Runner } from '../../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
@@ -15,7 +16,7 @@ import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema, NightRowSchema } from './nights.ts';
 import { SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
-import { momentJd } from '../../clock.ts';
+import { momentJd, nowMs } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const SeasonPlanBody = z
@@ -102,7 +103,7 @@ function split({ at, ...body }: z.output<typeof SeasonPlanBody>) {
   return { body: body satisfies SeasonPlanRequest, atJd: momentJd(at, 'at') };
 }
 
-export function seasonPlanRoutes(store: Store) {
+export function seasonPlanRoutes(store: Store, run: Runner) {
   const app = resourceApp();
   const body = { content: { 'application/json': { schema: SeasonPlanBody } }, required: true };
   app.openapi(
@@ -122,7 +123,7 @@ export function seasonPlanRoutes(store: Store) {
     async (c) => {
       requireRole(c, 'viewer');
       const { body: b, atJd } = split(c.req.valid('json'));
-      return c.json(await store.plans.previewSeason(c.req.valid('param').id, b, atJd), 200);
+      return c.json(await store.plans.previewSeason(c.req.valid('param').id, b, atJd, run), 200);
     },
   );
   app.openapi(
@@ -143,7 +144,10 @@ export function seasonPlanRoutes(store: Store) {
       const user = requireRole(c, 'lead');
       const { body: b, atJd } = split(c.req.valid('json'));
       const id = c.req.valid('param').id;
-      return c.json(await store.plans.acceptSeason({ userId: user.id }, id, b, atJd), 201);
+      return c.json(
+        await store.plans.acceptSeason({ userId: user.id }, id, b, atJd, nowMs(), run),
+        201,
+      );
     },
   );
   return app;

@@ -53,10 +53,16 @@ export const errorResponses = {
   404: err('no such record'),
   409: err('clashes with the stored state (stale version, duplicate, still in use)'),
   422: err('a value breaks a rule (field, value, rule in details)'),
+  503: err(
+    'computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS)',
+  ),
 };
 
-/** The errors of a route that reads no store and needs no token. */
+/** The errors of a stateless computation (a token is needed when the server has a store). */
 export const computeErrorResponses = {
   400: errorResponses[400],
+  401: errorResponses[401],
+  403: errorResponses[403],
   422: errorResponses[422],
+  503: errorResponses[503],
 };

@@ -71,6 +71,7 @@ export type { PeriapsisInSeason, SeasonSummary } from './season-summary.ts';
 export {
   DEFAULT_SUN_AVOIDANCE_DEG,
   maskAltitudeDeg,
+  reviveSite,
   validateSite,
   type HorizonPoint,
   type Site,

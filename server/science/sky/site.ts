@@ -56,6 +56,16 @@ export interface Site {
   observer: Observer;
 }
 
+/**
+ * The same site with its astronomy-engine observer made again: a site that crossed a thread
+ * boundary (structured clone) keeps its fields but loses the Observer's class.
+ */
+export function reviveSite(site: Site): Site {
+  return site.observer instanceof Observer
+    ? site
+    : { ...site, observer: new Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM) };
+}
+
 /** Sun-avoidance default, degrees (common practice, no source: a typical telescope interlock). */
 export const DEFAULT_SUN_AVOIDANCE_DEG = 45;
 

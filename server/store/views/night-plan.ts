@@ -16,11 +16,11 @@
  * lies in the past, or when the night has a report. Blocks it writes record their origin and
  * whether the user pinned them (a pinned block then stays through later re-plans).
  */
+import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { InputError } from '../../science/errors.ts';
 import {
   checkCandidates,
   nightCandidates,
-  scheduleNight,
   type CandidateInput,
   type KeptBlock,
   type BlockKind,
@@ -75,7 +75,13 @@ export interface NightSchedulePreview {
   digest: string;
 }
 
-async function prepare(db: DbOrTx, nightId: number, request: NightScheduleRequest, atJd: number) {
+async function prepare(
+  db: DbOrTx,
+  nightId: number,
+  request: NightScheduleRequest,
+  atJd: number,
+  run: Runner,
+) {
   const at = jdToIso(atJd);
   const night = await getById(db, nightEntity, nightId);
   if (night.campaignId === null)
@@ -131,7 +137,7 @@ async function prepare(db: DbOrTx, nightId: number, request: NightScheduleReques
       options,
     );
   }
-  const schedule = scheduleNight(site.site, site.limits, night.date, targets, {
+  const schedule = await run('scheduleNight', site.site, site.limits, night.date, targets, {
     candidates,
     pins: request.pins,
     remove: request.remove,
@@ -172,8 +178,9 @@ export async function previewNightSchedule(
   nightId: number,
   request: NightScheduleRequest,
   atJd: number,
+  run: Runner = inProcess,
 ): Promise<NightSchedulePreview> {
-  return (await prepare(db, nightId, request, atJd)).preview;
+  return (await prepare(db, nightId, request, atJd, run)).preview;
 }
 
 /** Compute the schedule again inside one transaction and store it in place of the night's planned blocks. */
@@ -184,10 +191,11 @@ export async function acceptNightSchedule(
   request: NightScheduleRequest,
   atJd: number,
   clockMs: number = nowMs(),
+  run: Runner = inProcess,
 ): Promise<NightSchedulePreview & { written: BlockRow[] }> {
   requireAcceptMoment(atJd, clockMs);
   return store.db.transaction(async (tx) => {
-    const { preview, reported, targetIdByName } = await prepare(tx, nightId, request, atJd);
+    const { preview, reported, targetIdByName } = await prepare(tx, nightId, request, atJd, run);
     if (request.digest !== undefined && request.digest !== preview.digest) {
       throw new ConflictError(
         'stale_version',

@@ -11,10 +11,10 @@
  * in one transaction; nothing else is touched, so a re-plan keeps what was made by hand, pinned,
  * observed and logged. An accept's moment may not lie in the past (plan-scope.ts).
  */
+import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { InputError } from '../../science/errors.ts';
 import { addDays } from '../../science/sky/night.ts';
 import {
-  planSeason,
   type KeptBlock,
   type BlockKind,
   type SeasonOptions,
@@ -83,6 +83,7 @@ async function prepare(
   campaignId: number,
   request: SeasonPlanRequest,
   atJd: number,
+  run: Runner,
 ): Promise<Prepared> {
   const at = jdToIso(atJd);
   const input = await campaignPlanningInput(db, campaignId);
@@ -194,7 +195,7 @@ async function prepare(
   const targets = seasonTargets(input.targets, campaign.goals, names, last);
   const { startDate, endDate, siteIds: _s, nights: _n, digest: _d, ...asked } = request;
   const options = { ...campaignOptions(campaign.goals), ...asked };
-  const plan = planSeason(startDate, endDate, seasonSites, targets, options);
+  const plan = await run('planSeason', startDate, endDate, seasonSites, targets, options);
   replaces.sort((a, b) => a - b);
   const digest = planDigest({
     epochs: plan.epochs.map((e) => [
@@ -268,8 +269,9 @@ export async function previewSeasonPlan(
   campaignId: number,
   request: SeasonPlanRequest,
   atJd: number,
+  run: Runner = inProcess,
 ): Promise<SeasonPlanPreview> {
-  return (await prepare(db, campaignId, request, atJd)).preview;
+  return (await prepare(db, campaignId, request, atJd, run)).preview;
 }
 
 /**
@@ -283,6 +285,7 @@ export async function acceptSeasonPlan(
   request: SeasonPlanRequest,
   atJd: number,
   clockMs: number = nowMs(),
+  run: Runner = inProcess,
 ): Promise<SeasonPlanPreview & { written: BlockRow[]; nightsCreated: NightRow[] }> {
   requireAcceptMoment(atJd, clockMs);
   return store.db.transaction(async (tx) => {
@@ -291,6 +294,7 @@ export async function acceptSeasonPlan(
       campaignId,
       request,
       atJd,
+      run,
     );
     if (request.digest !== undefined && request.digest !== preview.digest) {
       throw new ConflictError(

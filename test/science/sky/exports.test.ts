@@ -40,6 +40,7 @@ it('exports exactly these values', () => {
       'refractionDeg',
       'refractionScale',
       'seasonMap',
+      'reviveSite',
       'seasonReport',
       'seeingAtAirmass',
       'skyPlaceExact',
