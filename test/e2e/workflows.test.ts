@@ -114,8 +114,7 @@ describe('night report', () => {
       (n) => localStorage.getItem(`ew.draft.report.${n}`)?.includes('wind gusts'),
       r.nightId,
     );
-    // Crash the renderer half a second after the last keystroke: no unload handlers, no chance to save.
-    await first.page.waitForTimeout(500);
+    // Crash the renderer once the draft is stored: no unload handlers, no chance to save.
     const cdp = await ctx.newCDPSession(first.page);
     const crashed = first.page.waitForEvent('crash', { timeout: 15_000 });
     void cdp.send('Page.crash').catch(() => undefined);
@@ -478,9 +477,11 @@ describe('themes', () => {
     const { page, errors } = await open(ctx, '/targets/5');
     await page.locator('svg.sky-plane').waitFor();
     await page.getByRole('button', { name: /day theme/i }).click();
-    await expect(page.evaluate(() => document.documentElement.dataset.theme)).resolves.toBe('day');
+    // Wait on the state itself: the click's re-render may land after the click resolves.
+    await page.waitForFunction(() => document.documentElement.dataset.theme === 'day');
     await page.reload();
-    await expect(page.evaluate(() => document.documentElement.dataset.theme)).resolves.toBe('day');
+    await page.locator('svg.sky-plane').waitFor();
+    await page.waitForFunction(() => document.documentElement.dataset.theme === 'day');
     await page.locator('svg.sky-plane .measurement').first().waitFor();
     await shot(page, 'target-day-theme');
     expect(errors).toEqual([]);

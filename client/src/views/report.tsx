@@ -3,7 +3,7 @@
  * measurements obtained. The draft is kept in the browser until the server confirms a save; a
  * save that meets a newer stored version shows both and lets the writer choose field by field.
  */
-import { useEffect, useState } from 'preact/hooks';
+import { useState } from 'preact/hooks';
 import { ApiError, fieldMessages, getAll, api } from '../api/client.ts';
 import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
 import type { BlockRow, NightRow, ReportRow } from '../api/client.ts';
@@ -71,12 +71,14 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
   const [error, setError] = useState<unknown>(null);
   const [theirs, setTheirs] = useState<ReportRow | null>(null);
   const messages = fieldMessages(error);
-  useEffect(() => {
-    if (dirty) writeDraft({ nightId: night.id, base, form, savedAt: new Date().toISOString() });
-  }, [form, base, dirty]);
+  // The draft is written by the edit itself, never by an effect: an effect scheduled before a save
+  // could run after the save had dropped the draft and leave a stale one behind.
+  const keepDraft = (f: ReportForm, b: typeof base) =>
+    writeDraft({ nightId: night.id, base: b, form: f, savedAt: new Date().toISOString() });
   const edit = (f: (d: ReportForm) => void) => {
     const next = structuredClone(form);
     f(next);
+    keepDraft(next, base);
     setForm(next);
     setDirty(true);
     setStatus('Draft kept in this browser; not saved yet.');
@@ -105,6 +107,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
       setStatus(`Saved as version ${saved.version} at ${utcClock(new Date().toISOString())} UTC.`);
       onSaved();
     } catch (e) {
+      keepDraft(f, b);
       setStatus('Not saved: your draft is still kept in this browser.');
       if (e instanceof ApiError && e.status === 409) {
         const now = (await getAll('/night-reports', { nightId: night.id }))[0] ?? null;
