@@ -12,8 +12,5 @@ export const dateText = (iso: string) => utc(iso).toFormat('yyyy-LL-dd');
 export const ms = (iso: string) => Date.parse(iso);
 export const isoOf = (msUtc: number) => new Date(msUtc).toISOString();
 
-/** Days from now to an instant (negative in the past). */
-export const daysFromNow = (iso: string, nowMs = Date.now()) => (ms(iso) - nowMs) / 86_400_000;
-
 /** Today's date in a zone, YYYY-MM-DD. */
 export const todayIn = (zone: string) => DateTime.now().setZone(zone).toISODate() ?? '';

@@ -2,7 +2,8 @@
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
 import { LOCAL_OPERATOR, NotFoundError } from '../../store/index.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { outputFormat } from '../args.ts';
 import { render } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
@@ -112,6 +113,7 @@ export const accountCommand: Command = {
           if (values.id === undefined)
             throw new UsageError('account revoke needs --id <token id> (see `account tokens`)');
           const id = Number(values.id);
+          // An InputError like the unknown-token path below, so both name --id the same way.
           if (!Number.isInteger(id) || id <= 0)
             throw new InputError(
               '--id',

@@ -3,7 +3,8 @@ import { parseArgs } from 'node:util';
 import { ephemeris, type EphemerisRow } from '../../science/orbit/index.ts';
 import { describeOrbit } from '../../science/orbit/index.ts';
 import { resolveEpochs, type EpochsInput } from '../../science/time/index.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { outputFormat } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import {
   ORBIT_OPTION_HELP,

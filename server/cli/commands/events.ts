@@ -8,7 +8,8 @@ import {
 } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { describeOrbit } from '../../science/orbit/index.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { outputFormat } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import {
   ORBIT_OPTION_HELP,

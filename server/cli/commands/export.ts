@@ -4,6 +4,7 @@ import { ephemeris } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { resolveEpochs } from '../../science/time/index.ts';
 import { ephemerisCsv, measurementsCsv } from '../../store/index.ts';
+import { optionalId } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
@@ -19,14 +20,6 @@ calendar      the campaign's planned blocks and periapsis passages as iCalendar 
 options:
 ${DATABASE_HELP}
 `;
-
-function id(name: string, v: string | undefined): number | undefined {
-  if (v === undefined) return undefined;
-  const n = Number(v);
-  if (!Number.isInteger(n) || n <= 0)
-    throw new UsageError(`--${name}: ${JSON.stringify(v)} must be a positive whole number`);
-  return n;
-}
 
 export const exportCommand: Command = {
   summary: 'export measurements, a stored target’s ephemeris, or a campaign calendar',
@@ -48,7 +41,7 @@ export const exportCommand: Command = {
       allowPositionals: true,
     });
     const [what] = positionals;
-    const targetId = id('target-id', values['target-id']);
+    const targetId = optionalId('target-id', values['target-id']);
     return withStore(values.database, async (store) => {
       switch (what) {
         case 'measurements': {
@@ -66,7 +59,7 @@ export const exportCommand: Command = {
           return values.json ? `${JSON.stringify(rows, null, 2)}\n` : ephemerisCsv(rows);
         }
         case 'calendar': {
-          const campaignId = id('campaign-id', values['campaign-id']);
+          const campaignId = optionalId('campaign-id', values['campaign-id']);
           if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
           return store.exports.calendar(
             campaignId,

@@ -2,7 +2,8 @@
 import { parseArgs } from 'node:util';
 import { fitOrbits, type FitRequest, type StarHints } from '../../science/orbit/fit/index.ts';
 import { LOCAL_OPERATOR, type StoredFitOptions } from '../../store/index.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { optionalId, outputFormat, positiveId } from '../args.ts';
 import { readStarsFile } from './fit-csv.ts';
 import { renderFit } from './fit-output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -143,14 +144,6 @@ function modelOptions(
   return out;
 }
 
-function positiveId(option: string, text: unknown): number | undefined {
-  if (text === undefined) return undefined;
-  const n = Number(text);
-  if (!Number.isInteger(n) || n <= 0)
-    throw new UsageError(`--${option}: ${JSON.stringify(text)} must be a positive whole number`);
-  return n;
-}
-
 export const fitCommand: Command = {
   summary:
     'fit orbits to measurements (CSV file or stored), optionally accepting them as new solutions',
@@ -188,8 +181,8 @@ export const fitCommand: Command = {
       throw new UsageError(
         '--residuals goes with --csv (the table and JSON always include residuals)',
       );
-    const targetIds = (values['target-id'] ?? []).map((t) => positiveId('target-id', t)!);
-    const systemId = positiveId('system-id', values['system-id']);
+    const targetIds = (values['target-id'] ?? []).map((t) => positiveId('target-id', t));
+    const systemId = optionalId('system-id', values['system-id']);
     if (
       [values.file !== undefined, targetIds.length > 0 || systemId !== undefined].filter(Boolean)
         .length !== 1

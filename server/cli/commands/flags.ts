@@ -1,7 +1,8 @@
 /** `epochwright flags`: a stored campaign's planning flags, soonest first. */
 import { parseArgs } from 'node:util';
 import type { Flag } from '../../science/plan/index.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import type { Command } from '../io.ts';
+import { optionalPositive, outputFormat, positiveId } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
@@ -38,15 +39,9 @@ export const flagsCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const id = Number(values.campaign);
-    if (values.campaign === undefined || !Number.isInteger(id) || id <= 0)
-      throw new UsageError(
-        `--campaign: ${JSON.stringify(values.campaign ?? null)} must be a campaign id (a positive integer)`,
-      );
+    const id = positiveId('campaign', values.campaign);
     const nowJd = momentJd(values.at, '--at');
-    const resolution = values.resolution === undefined ? undefined : Number(values.resolution);
-    if (resolution !== undefined && !(resolution > 0))
-      throw new UsageError(`--resolution: ${values.resolution} must be a positive number of mas`);
+    const resolution = optionalPositive('resolution', values.resolution);
     const result = await withStore(values.database, (store) =>
       store.plans.flags(id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
     );

@@ -2,7 +2,8 @@
 import { parseArgs } from 'node:util';
 import { momentJd } from '../../clock.ts';
 import type { FactorForecast } from '../../science/plan/index.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import type { Command } from '../io.ts';
+import { optionalPositive, outputFormat, positiveId } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
@@ -23,14 +24,6 @@ options:
 ${DATABASE_HELP}
   --json | --csv            machine-readable output instead of a table
 `;
-
-function positive(option: string, text: string | undefined): number | undefined {
-  if (text === undefined) return undefined;
-  const x = Number(text);
-  if (!(x > 0) || !Number.isFinite(x))
-    throw new UsageError(`--${option}: ${JSON.stringify(text)} must be a positive number`);
-  return x;
-}
 
 const day = (iso: string | null) => (iso === null ? null : iso.slice(0, 10));
 
@@ -53,14 +46,10 @@ export const forecastCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const id = Number(values['target-id']);
-    if (!Number.isInteger(id) || id <= 0)
-      throw new UsageError(
-        `--target-id: ${JSON.stringify(values['target-id'] ?? null)} must be a target id (a positive integer)`,
-      );
+    const id = positiveId('target-id', values['target-id']);
     const atJd = momentJd(values.at, '--at');
-    const ast = positive('astrometry-mas', values['astrometry-mas']);
-    const rv = positive('spectroscopy-kms', values['spectroscopy-kms']);
+    const ast = optionalPositive('astrometry-mas', values['astrometry-mas']);
+    const rv = optionalPositive('spectroscopy-kms', values['spectroscopy-kms']);
     const result = await withStore(values.database, (store) =>
       store.plans.forecast(id, {
         atJd,

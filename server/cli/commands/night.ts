@@ -7,7 +7,8 @@ import {
   type ReportWindow,
 } from '../../science/sky/index.ts';
 import { parseDurationMinutes } from '../../science/time/index.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { outputFormat } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import { SKY_OPTION_HELP, readSky, skyOptions } from './sky-args.ts';
 

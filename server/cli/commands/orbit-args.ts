@@ -2,7 +2,8 @@
 import { InputError } from '../../science/errors.ts';
 import { validateOrbit, type Orbit, type OrbitInput } from '../../science/orbit/index.ts';
 import { formatEpoch, type EpochFormat } from '../../science/time/index.ts';
-import { UsageError, readJsonArg } from '../io.ts';
+import { UsageError } from '../io.ts';
+import { readJsonArg } from '../args.ts';
 
 export const ORBIT_OPTION_HELP = `  --orbit <json|file>   the orbit: inline JSON or a JSON file, as in POST /api/ephemeris
                         ({ "elements": {...}, "distancePc"?, "systemicVelocityKmS"?, "relativity"?, "covariance"? })

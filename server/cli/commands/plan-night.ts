@@ -7,9 +7,9 @@ import {
   type NightScheduleRequest,
   type Store,
 } from '../../store/index.ts';
-import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { asOptions, outputFormat, positiveId, readJsonArg } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
-import { asOptions, positiveId } from './plan-season.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 

@@ -1,6 +1,5 @@
 /** `epochwright plan-season`: a stored campaign's season plan; `--accept` stores it as blocks. */
 import { parseArgs } from 'node:util';
-import { InputError } from '../../science/errors.ts';
 import { SEASON_SETTINGS, type PlannedEpoch } from '../../science/plan/index.ts';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
@@ -8,7 +7,8 @@ import {
   type SeasonPlanRequest,
   type Store,
 } from '../../store/index.ts';
-import { UsageError, outputFormat, readJsonArg, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { asOptions, outputFormat, positiveId, readJsonArg } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
@@ -47,26 +47,6 @@ ${DATABASE_HELP}
 `;
 
 const SETTINGS: readonly string[] = SEASON_SETTINGS;
-/** Re-raise an InputError under the option the user typed (`options`: request field → option), so the message names it. */
-export async function asOptions<T>(
-  options: Record<string, string>,
-  f: () => Promise<T>,
-): Promise<T> {
-  try {
-    return await f();
-  } catch (err) {
-    if (!(err instanceof InputError)) throw err;
-    const [head, ...rest] = err.field.split('.');
-    const option = options[head!] ?? options['*'];
-    if (option === undefined) throw err;
-    throw new InputError(
-      options[head!] ? [option, ...rest].join('.') : `${option} ${err.field}`,
-      err.value,
-      err.rule,
-    );
-  }
-}
-
 const OPTIONS = {
   startDate: '--start',
   endDate: '--end',
@@ -76,15 +56,6 @@ const OPTIONS = {
   at: '--at',
   '*': '--settings',
 };
-
-export function positiveId(option: string, text: string | undefined): number {
-  const id = Number(text);
-  if (text === undefined || !Number.isInteger(id) || id <= 0)
-    throw new UsageError(
-      `--${option}: ${JSON.stringify(text ?? null)} must be an id (a positive integer)`,
-    );
-  return id;
-}
 
 export const planSeasonCommand: Command = {
   summary: 'season plan of a stored campaign: epochs, reasons, unmet goals (--accept stores it)',

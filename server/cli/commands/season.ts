@@ -8,7 +8,8 @@ import {
 } from '../../science/sky/index.ts';
 import { parseDurationMinutes } from '../../science/time/index.ts';
 import { InputError } from '../../science/errors.ts';
-import { UsageError, outputFormat, type Command } from '../io.ts';
+import { UsageError, type Command } from '../io.ts';
+import { outputFormat } from '../args.ts';
 import { formatCsv, render, type Column } from '../output.ts';
 import { SKY_OPTION_HELP, numberOption, readSky, skyOptions } from './sky-args.ts';
 

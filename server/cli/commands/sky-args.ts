@@ -8,7 +8,7 @@ import {
   type Site,
   type Target,
 } from '../../science/sky/index.ts';
-import { readJsonArg } from '../io.ts';
+import { readJsonArg } from '../args.ts';
 
 export const SKY_OPTION_HELP = `  --site <json|file>         the site: {"latitudeDeg", "longitudeDeg" (east), "elevationM", "timeZone",
                              optional "pressureHpa", "temperatureC", "lowestAltitudeDeg", "horizonMask",

@@ -3,9 +3,8 @@
  * over temperature, so a site at 2.6 km refracts about a quarter less than one at sea level.
  */
 
-/** Sea-level pressure, hPa, and temperature, °C, of the ICAO / U.S. Standard Atmosphere (1976). */
+/** Sea-level pressure, hPa, of the ICAO / U.S. Standard Atmosphere (1976); its 15 °C is the 288.15 K below. */
 export const SEA_LEVEL_PRESSURE_HPA = 1013.25;
-export const SEA_LEVEL_TEMPERATURE_C = 15;
 /** Tropospheric lapse rate, K/m, same source. */
 export const LAPSE_RATE_K_PER_M = 0.0065;
 /** Barometric exponent g·M/(R·L) for the troposphere, same source. */

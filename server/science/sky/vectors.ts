@@ -51,9 +51,3 @@ export function wrapPi(x: number): number {
   else if (y > Math.PI) y -= TWO_PI;
   return y;
 }
-
-/** Angle wrapped to [0, 2π). */
-export function wrapTwoPi(x: number): number {
-  const y = x % TWO_PI;
-  return y < 0 ? y + TWO_PI : y;
-}
