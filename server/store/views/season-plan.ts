@@ -14,13 +14,13 @@
 import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { InputError } from '../../science/errors.ts';
 import { addDays } from '../../science/sky/night.ts';
-import {
-  type KeptBlock,
-  type BlockKind,
-  type SeasonOptions,
-  type SeasonPlan,
-  type SeasonSite,
-  type SeasonTarget,
+import type {
+  KeptBlock,
+  BlockKind,
+  SeasonOptions,
+  SeasonPlan,
+  SeasonSite,
+  SeasonTarget,
 } from '../../science/plan/index.ts';
 import { jdToIso, jdToUnixMs } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
