@@ -6,7 +6,7 @@ export default defineConfig({
     // client is listed, so a module no test reaches shows as 0 %.
     coverage: {
       provider: 'v8',
-      include: ['server/**/*.ts', 'client/src/**/*.{ts,tsx}', 'db/**/*.ts'],
+      include: ['server/**/*.ts', 'client/src/**/*.{ts,tsx}', 'db/**/*.ts', 'descriptors/**/*.ts'],
       reporter: ['text-summary', 'json-summary'],
       reportsDirectory: 'test-output/coverage',
       reportOnFailure: true,

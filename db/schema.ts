@@ -17,8 +17,8 @@ import {
   BLOCK_KINDS,
   MEASUREMENT_KIND_NAMES,
   type BlockKind,
-} from '../shared/measurement-kinds.ts';
-import { ROLE_NAMES } from '../shared/roles.ts';
+} from '../descriptors/measurement-kinds.ts';
+import { ROLE_NAMES } from '../descriptors/roles.ts';
 import type { OrbitInput } from '../server/science/orbit/types.ts';
 import type { HorizonPoint } from '../server/science/sky/site.ts';
 

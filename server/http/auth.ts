@@ -4,7 +4,7 @@
  * campaigns and sites. No token → 401; a token whose role is too low → 403.
  */
 import type { Context, MiddlewareHandler } from 'hono';
-import { roleAtLeast } from '../../shared/roles.ts';
+import { roleAtLeast } from '../../descriptors/roles.ts';
 import type { Role, Store, UserRow } from '../store/index.ts';
 import { HttpError } from './errors.ts';
 

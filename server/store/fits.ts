@@ -21,7 +21,7 @@ import type { MeasurementRow } from './repos/measurements.ts';
 import type { OrbitSolutionRow } from './repos/orbits.ts';
 import { systemEntity, targetEntity } from './repos/catalogue.ts';
 import { nowIso } from '../clock.ts';
-import { describeKind, fieldsOfKind } from '../../shared/measurement-kinds.ts';
+import { describeKind, fieldsOfKind } from '../../descriptors/measurement-kinds.ts';
 
 /** What a stored fit may set; everything else comes from the stored measurements. */
 export type StoredFitOptions = Omit<FitRequest, 'stars'> & {

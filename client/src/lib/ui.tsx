@@ -1,5 +1,5 @@
 /** Small shared pieces of the views: status lines, errors, numbers with units, the role gate. */
-import { roleAtLeast } from '../../../shared/roles.ts';
+import { roleAtLeast } from '../../../descriptors/roles.ts';
 import type { ComponentChildren } from 'preact';
 import { createContext } from 'preact';
 import { useContext } from 'preact/hooks';

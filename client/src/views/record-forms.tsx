@@ -4,7 +4,7 @@
  * is stored unless the whole record is accepted.
  */
 import { useState } from 'preact/hooks';
-import { BLOCK_KINDS } from '../../../shared/measurement-kinds.ts';
+import { BLOCK_KINDS } from '../../../descriptors/measurement-kinds.ts';
 import { fieldMessages, sendRecord } from '../api/client.ts';
 import { invalidateCatalogue, type Catalogue } from '../api/catalogue.ts';
 import type { HorizonPoint } from '../api/client.ts';

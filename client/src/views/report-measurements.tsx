@@ -5,7 +5,7 @@ import {
   MEASUREMENT_KIND_NAMES,
   UNIT_TEXT,
   describeKind,
-} from '../../../shared/measurement-kinds.ts';
+} from '../../../descriptors/measurement-kinds.ts';
 import { fieldMessages, getAll, sendRecord } from '../api/client.ts';
 import type { Catalogue } from '../api/catalogue.ts';
 import type { BlockRow, MeasurementRow } from '../api/client.ts';

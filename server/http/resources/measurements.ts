@@ -1,6 +1,6 @@
 /** /measurements: astrometry and radial velocities with their uncertainties (observers write). */
 import { z } from '@hono/zod-openapi';
-import { MEASUREMENT_KIND_NAMES } from '../../../shared/measurement-kinds.ts';
+import { MEASUREMENT_KIND_NAMES } from '../../../descriptors/measurement-kinds.ts';
 import { MeasurementFields, type Store } from '../../store/index.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 

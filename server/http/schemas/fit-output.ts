@@ -3,7 +3,7 @@
  * residuals per measurement, and per star an orbit that can be stored as a new solution.
  */
 import { z } from '@hono/zod-openapi';
-import { MEASUREMENT_KIND_NAMES } from '../../../shared/measurement-kinds.ts';
+import { MEASUREMENT_KIND_NAMES } from '../../../descriptors/measurement-kinds.ts';
 import { PERCENTILES } from '../../science/orbit/index.ts';
 import { OrbitSchema } from './orbit.ts';
 

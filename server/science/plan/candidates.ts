@@ -7,7 +7,7 @@ import { parseEpoch } from '../time/index.ts';
 import type { Target } from '../sky/target.ts';
 import { blockQuality, type NightGrid, type TargetGrid } from './grid.ts';
 
-import { BLOCK_KINDS, type BlockKind } from '../../../shared/measurement-kinds.ts';
+import { BLOCK_KINDS, type BlockKind } from '../../../descriptors/measurement-kinds.ts';
 
 export { BLOCK_KINDS, type BlockKind };
 

@@ -3,7 +3,7 @@
  * the exports and read by the imports, so an export can be edited in a spreadsheet and read back.
  * Header names are the JSON field names; `system` and `target` are names, not ids.
  */
-import { MEASUREMENT_VALUE_FIELDS } from '../../../shared/measurement-kinds.ts';
+import { MEASUREMENT_VALUE_FIELDS } from '../../../descriptors/measurement-kinds.ts';
 
 export const CSV_KINDS = ['targets', 'orbits', 'measurements'] as const;
 export type CsvKind = (typeof CSV_KINDS)[number];

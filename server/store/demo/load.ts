@@ -5,7 +5,7 @@
  * with invented errors, and for every star two orbit-solution versions: the scenario's orbit as
  * entered, and the orbit engine's own fit to the demo measurements (current, with covariance).
  */
-import type { BlockKind } from '../../../shared/measurement-kinds.ts';
+import type { BlockKind } from '../../../descriptors/measurement-kinds.ts';
 import { SiderealTime } from 'astronomy-engine';
 import { DateTime } from 'luxon';
 import {

@@ -9,7 +9,7 @@ import { measurements } from '../../../db/schema.ts';
 import { SECONDS_PER_DAY } from '../../science/constants.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
-import { MEASUREMENT_VALUE_FIELDS as VALUE_FIELDS } from '../../../shared/measurement-kinds.ts';
+import { MEASUREMENT_VALUE_FIELDS as VALUE_FIELDS } from '../../../descriptors/measurement-kinds.ts';
 
 type Row = Record<string, unknown>;
 

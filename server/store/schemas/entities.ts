@@ -12,8 +12,8 @@ import {
   describeKind,
   fieldsOfKind,
   type MeasuredField,
-} from '../../../shared/measurement-kinds.ts';
-import { ROLE_NAMES } from '../../../shared/roles.ts';
+} from '../../../descriptors/measurement-kinds.ts';
+import { ROLE_NAMES } from '../../../descriptors/roles.ts';
 import { epoch, freeText, id, lineText, localDate, name, notes, timeZone } from './common.ts';
 
 const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();

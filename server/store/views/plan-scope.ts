@@ -12,7 +12,7 @@
 import { createHash } from 'node:crypto';
 import { and, eq, gte, inArray, lte, max } from 'drizzle-orm';
 import { blockOutcomes, blocks, measurements, nightReports, nights } from '../../../db/schema.ts';
-import { describeKind } from '../../../shared/measurement-kinds.ts';
+import { describeKind } from '../../../descriptors/measurement-kinds.ts';
 import type { KeptBlock, BlockKind } from '../../science/plan/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { jdToIso, jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';

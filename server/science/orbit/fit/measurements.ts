@@ -11,7 +11,7 @@ import {
   describeKind,
   type MeasuredValue,
   type MeasurementKind,
-} from '../../../../shared/measurement-kinds.ts';
+} from '../../../../descriptors/measurement-kinds.ts';
 
 /** One measurement in internal units. Components: offset [Δα*, Δδ] mas; separation [ρ mas, θ rad]; rv [v km/s]. */
 export interface Observation {

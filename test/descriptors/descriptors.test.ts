@@ -1,5 +1,5 @@
 /**
- * The measurement-kind and role descriptors (shared/) are the one list: the database table, the
+ * The measurement-kind and role descriptors (descriptors/) are the one list: the database table, the
  * store's schema, the CSV layout, the fit and the user schema all follow them. A kind added to the
  * descriptor without its column (a migration) fails here.
  */
@@ -16,8 +16,8 @@ import {
   componentCount,
   fieldsOfKind,
   type MeasurementKind,
-} from '../../shared/measurement-kinds.ts';
-import { ROLE_NAMES, roleAtLeast } from '../../shared/roles.ts';
+} from '../../descriptors/measurement-kinds.ts';
+import { ROLE_NAMES, roleAtLeast } from '../../descriptors/roles.ts';
 
 // The fit's typed inputs name exactly the descriptor's kinds (a compile-time check both ways).
 type Same<A, B> = [A] extends [B] ? ([B] extends [A] ? true : false) : false;
