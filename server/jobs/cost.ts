@@ -1,6 +1,6 @@
 /**
  * What a computation may cost, checked before any work: each job's size from its inputs
- * (measurements × walkers × rounds, targets × samples, nights × targets …) against a bound, and
+ * (measurements × ensembleSize × rounds, targets × samples, nights × targets …) against a bound, and
  * a refusal naming the field, the value and the bound when it is beyond. One place for every
  * bound; README's "Bounds on work" table lists them. The bounds keep a job well inside the pool's time
  * limit on a small server (about 100 s at the bound on a busy 2-core machine; measured with
@@ -12,7 +12,7 @@ import type { Runner, TaskArgs, TaskName } from './tasks.ts';
 export const COST_BOUNDS = {
   /** Measurements in one fit, over all its stars. */
   fitMeasurements: 200_000,
-  /** Posterior sampling: measurements × walkers × rounds (model evaluations of one row). */
+  /** Posterior sampling: measurements × ensembleSize × rounds (model evaluations of one row). */
   posteriorEvaluations: 10_000_000,
   /** One night's sky: targets × samples per night (window search plus altitude curve). */
   nightSamples: 500_000,
@@ -46,7 +46,7 @@ const num = (x: unknown, fallback: number): number =>
   typeof x === 'number' && Number.isFinite(x) && x > 0 ? x : fallback;
 const MINUTES_PER_DAY = 1440;
 /** The sampler's ensemble when the request leaves it to the fit: 4 per free parameter, ≥ 16 (posterior.ts). */
-const TYPICAL_WALKERS = 40;
+const TYPICAL_ENSEMBLE_SIZE = 40;
 
 /** The cost check of each task; tasks missing here are cheap by construction. */
 const CHECKS: { [K in TaskName]?: (...args: TaskArgs<K>) => void } = {
@@ -55,13 +55,13 @@ const CHECKS: { [K in TaskName]?: (...args: TaskArgs<K>) => void } = {
     within('stars.measurements', m, m, 'fitMeasurements', 'the measurements');
     if (!req.posterior) return;
     const rounds = num(req.posterior.rounds, 2000);
-    const walkers = num(req.posterior.ensembleSize, TYPICAL_WALKERS);
+    const members = num(req.posterior.ensembleSize, TYPICAL_ENSEMBLE_SIZE);
     within(
       'posterior.rounds',
       req.posterior.rounds ?? rounds,
-      m * walkers * rounds,
+      m * members * rounds,
       'posteriorEvaluations',
-      `measurements × walkers × rounds = ${m} × ${walkers} × ${rounds} =`,
+      `measurements × ensembleSize × rounds = ${m} × ${members} × ${rounds} =`,
     );
   },
   nightReport(_site, _date, targets, _limits, options = {}) {
