@@ -152,7 +152,9 @@ describe('error ellipses', () => {
           }
         },
       ),
-      { numRuns: 500 },
+      // The first case is a counterexample fast-check found: an uncorrelated 4:1 ellipse that the
+      // old eigenvector formula put 6.3° off east.
+      { numRuns: 500, examples: [[0.6881002591903475, 0.1665517811458118, 4.373495222435902e-15]] },
     );
     console.log(
       `error-ellipse position angle vs ml-matrix: worst ${worst.toExponential(2)}° over 500 covariances`,
