@@ -80,7 +80,7 @@ const sites = (nights?: string[]): SeasonSite[] => [
 
 describe('the periapsis window first (constructed campaign)', () => {
   const fast = star('P1', fastOrbit(PERI, 16, 1.5, 0.001));
-  const slow = star('S52', fastOrbit('2050-01-01T00:00:00Z', 52, 30, 0.5), {
+  const slow = star('Tamsin', fastOrbit('2050-01-01T00:00:00Z', 52, 30, 0.5), {
     priority: 5,
     cadenceDays: 3,
   });
@@ -108,7 +108,7 @@ describe('the periapsis window first (constructed campaign)', () => {
 
   it('names the higher-priority epoch when its cadence night is taken', () => {
     const slowTaken = plan.unmet
-      .filter((u) => u.target === 'S52')
+      .filter((u) => u.target === 'Tamsin')
       .flatMap((u) => u.nights)
       .filter((n) => n.reason === 'taken');
     expect(slowTaken.length).toBeGreaterThan(0); // constructed: one block a night, P1's window first

@@ -55,7 +55,7 @@ describe('season plan', () => {
   // Invented targets near the meridian at local midnight in May–July at a southern site.
   const targets = [0, 1, 2].map((k) => ({
     target: validateTarget({
-      name: `S${k}`,
+      name: `Brindle-${k}`,
       raDeg: 250 + 10 * k,
       decDeg: -35 + 5 * k,
       orbit: ORBIT,
