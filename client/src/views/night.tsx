@@ -19,6 +19,7 @@ import { laneSentence, shortName } from '../plots/night-text.ts';
 import { isoOf, ms, utcClock, zoneAbbrev, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
+import { AddBlockForm, BlockEditor, nightEnded } from './block-log.tsx';
 import { SchedulePanel, type ScheduledBlock } from './schedule-panel.tsx';
 
 const STEP_MIN = 15;
@@ -55,6 +56,7 @@ function BlockTable({
   zone,
   leastSunDistance,
   canEdit,
+  ended,
   onChanged,
 }: {
   blocks: BlockRow[];
@@ -63,9 +65,11 @@ function BlockTable({
   zone: string;
   leastSunDistance: number;
   canEdit: boolean;
+  ended: boolean;
   onChanged: () => void;
 }) {
   const [error, setError] = useState<unknown>(null);
+  const [editing, setEditing] = useState<number | null>(null);
   const act = async (f: () => Promise<unknown>) => {
     setError(null);
     try {
@@ -93,10 +97,18 @@ function BlockTable({
         },
       }),
     );
-  if (!blocks.length) return <p class="muted">No blocks on this night yet.</p>;
+  if (!blocks.length)
+    return (
+      <p class="muted">
+        {ended
+          ? 'No blocks were stored for this night: record below what ran.'
+          : 'No blocks on this night yet.'}
+      </p>
+    );
+  const columns = canEdit ? 9 : 8;
   return (
     <>
-      <p class="muted pin-note">
+      <p class="muted pin-note" hidden={ended}>
         A stored night schedule or season plan never replaces a pinned block or one made by hand,
         nor one already begun, reported or measured. Pin a block to keep it where it is through the
         next re-plan.
@@ -120,7 +132,8 @@ function BlockTable({
         <tbody>
           {blocks.map((b) => {
             const problem = blockProblem(b, vis, names(b.targetId), leastSunDistance);
-            return (
+            const label = `${names(b.targetId)} ${b.kind} ${utcClock(b.startUtc)} UTC`;
+            return [
               <tr
                 key={b.id}
                 data-block={b.id}
@@ -158,6 +171,14 @@ function BlockTable({
                 </td>
                 {canEdit && (
                   <td class="actions">
+                    <button
+                      type="button"
+                      aria-label={`edit ${label}`}
+                      aria-expanded={editing === b.id}
+                      onClick={() => setEditing(editing === b.id ? null : b.id)}
+                    >
+                      {ended ? 'Log times and outcome' : 'Edit'}
+                    </button>
                     {b.pinned ? (
                       <button
                         type="button"
@@ -201,8 +222,24 @@ function BlockTable({
                     </button>
                   </td>
                 )}
-              </tr>
-            );
+              </tr>,
+              editing === b.id && (
+                <tr key={`${b.id}-edit`} class="edit-row">
+                  <td colSpan={columns}>
+                    <BlockEditor
+                      block={b}
+                      vis={vis}
+                      ended={ended}
+                      label={label}
+                      onDone={(changed) => {
+                        setEditing(null);
+                        if (changed) onChanged();
+                      }}
+                    />
+                  </td>
+                </tr>
+              ),
+            ];
           })}
         </tbody>
       </table>
@@ -237,6 +274,7 @@ export function NightView({ id }: { id: number }) {
   const site = cat.site(night.siteId)!;
   const names = (tid: number) => cat.target(tid)?.name ?? `#${tid}`;
   const zone = site.timeZone;
+  const ended = nightEnded(vis, Date.now());
   return (
     <div class="view night">
       <div class="view-head">
@@ -276,17 +314,48 @@ export function NightView({ id }: { id: number }) {
           zone={zone}
           leastSunDistance={site.leastSunDistanceDeg}
           canEdit={canEdit}
+          ended={ended}
           onChanged={() => setTick(tick + 1)}
         />
       </Section>
-      <SchedulePanel
-        night={night}
-        blocks={blocks}
-        cat={cat}
-        canEdit={canEdit}
-        onChanged={() => setTick(tick + 1)}
-        onProposal={setProposal}
-      />
+      {canEdit && (
+        <Section title={ended ? 'Record what ran' : 'Add a block by hand'} id="add-block">
+          <p class="muted">
+            {ended
+              ? 'This night has ended. Record each block as it ran, with its real start and end; then write the night report and add the measurements.'
+              : 'A block made by hand is kept by every re-plan, like a pinned one.'}
+          </p>
+          <AddBlockForm
+            night={night}
+            vis={vis}
+            cat={cat}
+            ended={ended}
+            onAdded={() => setTick(tick + 1)}
+          />
+          {ended && (
+            <p>
+              <a href={`/nights/${id}/report`}>Write the night report →</a>
+            </p>
+          )}
+        </Section>
+      )}
+      {ended ? (
+        <Section title="Scheduler" id="scheduler">
+          <p class="muted">
+            The scheduler plans nights ahead only; this one has ended. Its blocks are recorded above
+            as they ran.
+          </p>
+        </Section>
+      ) : (
+        <SchedulePanel
+          night={night}
+          blocks={blocks}
+          cat={cat}
+          canEdit={canEdit}
+          onChanged={() => setTick(tick + 1)}
+          onProposal={setProposal}
+        />
+      )}
     </div>
   );
 }

@@ -72,8 +72,15 @@ export const dropDraft = (nightId: number) => localStorage.removeItem(key(nightI
 
 const str = (v: number | null | undefined) => (v === null || v === undefined ? '' : String(v));
 
-/** The form for a stored report (or an empty one), with an outcome row for every block of the night. */
-export function formOf(report: ReportRow | null, blockIds: number[]): ReportForm {
+/**
+ * The form for a stored report (or an empty one), with an outcome row for every block of the night.
+ * A block the report does not mention yet starts from the status it was logged with, if not a plan.
+ */
+export function formOf(
+  report: ReportRow | null,
+  blockIds: number[],
+  loggedStatus: Record<number, string> = {},
+): ReportForm {
   const conditions = Object.fromEntries(
     CONDITION_FIELDS.map((f) => [f.key, str(report?.[f.key])]),
   ) as Record<ConditionKey, string>;
@@ -81,7 +88,7 @@ export function formOf(report: ReportRow | null, blockIds: number[]): ReportForm
   for (const id of blockIds) {
     const o = report?.outcomes.find((x) => x.blockId === id);
     outcomes[id] = {
-      status: o?.status ?? '',
+      status: o?.status ?? (loggedStatus[id] === 'planned' ? '' : (loggedStatus[id] ?? '')),
       exposureMinutes: str(o?.exposureMinutes),
       notes: o?.notes ?? '',
     };

@@ -48,6 +48,13 @@ async function load(nightId: number): Promise<Loaded> {
 
 function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
   const { night, blocks, cat } = data;
+  const logged = Object.fromEntries(blocks.map((b) => [b.id, b.status]));
+  const formFor = (r: ReportRow | null) =>
+    formOf(
+      r,
+      blocks.map((b) => b.id),
+      logged,
+    );
   const canWrite = useCan('observer');
   const zone = cat.site(night.siteId)?.timeZone ?? 'UTC';
   const stored = readDraft(night.id);
@@ -59,13 +66,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
         ? { id: data.report.id, version: data.report.version }
         : null,
   );
-  const [form, setForm] = useState<ReportForm>(
-    stored?.form ??
-      formOf(
-        data.report,
-        blocks.map((b) => b.id),
-      ),
-  );
+  const [form, setForm] = useState<ReportForm>(stored?.form ?? formFor(data.report));
   const [dirty, setDirty] = useState(!!stored);
   const [status, setStatus] = useState<string>('');
   const [error, setError] = useState<unknown>(null);
@@ -98,12 +99,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
       setDirty(false);
       setTheirs(null);
       setBase({ id: saved.id, version: saved.version });
-      setForm(
-        formOf(
-          saved,
-          blocks.map((x) => x.id),
-        ),
-      );
+      setForm(formFor(saved));
       setStatus(`Saved as version ${saved.version} at ${utcClock(new Date().toISOString())} UTC.`);
       onSaved();
     } catch (e) {
@@ -157,10 +153,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
       {theirs && (
         <ReportConflict
           mine={form}
-          theirs={formOf(
-            theirs,
-            blocks.map((b) => b.id),
-          )}
+          theirs={formFor(theirs)}
           theirsVersion={theirs.version}
           onResolve={(merged) => {
             setForm(merged);
@@ -171,12 +164,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
             setDirty(false);
             setTheirs(null);
             setBase({ id: theirs.id, version: theirs.version });
-            setForm(
-              formOf(
-                theirs,
-                blocks.map((b) => b.id),
-              ),
-            );
+            setForm(formFor(theirs));
             setStatus(`Took version ${theirs.version} from the server; your draft was discarded.`);
           }}
         />
@@ -223,7 +211,13 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
         </fieldset>
         <fieldset>
           <legend>Outcome of each block</legend>
-          {blocks.length === 0 && <p class="muted">No blocks were planned on this night.</p>}
+          {blocks.length === 0 && (
+            <p class="muted">
+              No blocks are stored for this night.{' '}
+              <a href={`/nights/${night.id}#add-block`}>Record the blocks that ran</a> on the
+              night’s page first.
+            </p>
+          )}
           <table class="data outcomes">
             <thead>
               <tr>
@@ -324,12 +318,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
                   dropDraft(night.id);
                   setDirty(false);
                   setBase({ id: data.report!.id, version: data.report!.version });
-                  setForm(
-                    formOf(
-                      data.report,
-                      blocks.map((b) => b.id),
-                    ),
-                  );
+                  setForm(formFor(data.report));
                   setStatus('Draft discarded; showing the stored version.');
                 }}
               >
