@@ -122,6 +122,12 @@ export const sites = sqliteTable('sites', {
     .notNull()
     .default(sql`'[]'`),
   laserGuideStar: integer('laser_guide_star', { mode: 'boolean' }).notNull().default(false),
+  /** Expected 1σ of each astrometric offset at the zenith, mas; null: the planner's default. */
+  astrometrySigmaMas: real('astrometry_sigma_mas'),
+  /** Expected 1σ of a radial velocity at the zenith, km/s; null: the planner's default. */
+  spectroscopySigmaKmS: real('spectroscopy_sigma_km_s'),
+  /** Seeing FWHM the two zenith values hold for, arcsec; null: the night's own seeing. */
+  referenceSeeingArcsec: real('reference_seeing_arcsec'),
   notes: text('notes').notNull().default(''),
   createdAt: created(),
   updatedAt: updated(),

@@ -10,6 +10,16 @@
 export const BLOCK_KINDS = ['astrometry', 'spectroscopy'] as const;
 export type BlockKind = (typeof BLOCK_KINDS)[number];
 
+/**
+ * The planner's expected 1σ at the zenith of one epoch of each block kind, where neither the site
+ * nor the campaign gives one: an AO-assisted astrometric epoch (per offset) and a near-infrared
+ * integral-field radial velocity of a faint star (common practice, no source).
+ */
+export const DEFAULT_ZENITH_SIGMA = {
+  astrometry: { value: 1, unit: 'mas' },
+  spectroscopy: { value: 5, unit: 'km/s' },
+} as const satisfies Record<BlockKind, { value: number; unit: 'mas' | 'km/s' }>;
+
 /*
  * Physical ranges of measured values, so a typo cannot store a number that breaks every later fit
  * (an offset of 1e308 did). Offsets and separations up to 1e7 mas (2.8°): far beyond any bound

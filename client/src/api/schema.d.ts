@@ -2462,6 +2462,12 @@ export interface paths {
                          * @default false
                          */
                         laserGuideStar?: boolean;
+                        /** @description expected 1σ of each astrometric offset at the zenith, mas; null: the default 1 mas (a campaign’s precision overrides it) */
+                        astrometrySigmaMas?: number | null;
+                        /** @description expected 1σ of a radial velocity at the zenith, km/s; null: the default 5 km/s (a campaign’s precision overrides it) */
+                        spectroscopySigmaKmS?: number | null;
+                        /** @description seeing FWHM the two zenith values hold for, arcsec; null: they hold for whatever seeing the night has */
+                        referenceSeeingArcsec?: number | null;
                         /** @default  */
                         notes?: string;
                     };
@@ -2764,6 +2770,12 @@ export interface paths {
                             altitudeDeg: number;
                         }[];
                         laserGuideStar?: boolean;
+                        /** @description expected 1σ of each astrometric offset at the zenith, mas; null: the default 1 mas (a campaign’s precision overrides it) */
+                        astrometrySigmaMas?: number | null;
+                        /** @description expected 1σ of a radial velocity at the zenith, km/s; null: the default 5 km/s (a campaign’s precision overrides it) */
+                        spectroscopySigmaKmS?: number | null;
+                        /** @description seeing FWHM the two zenith values hold for, arcsec; null: they hold for whatever seeing the night has */
+                        referenceSeeingArcsec?: number | null;
                         notes?: string;
                     };
                 };
@@ -8797,6 +8809,12 @@ export interface components {
              * @default false
              */
             laserGuideStar: boolean;
+            /** @description expected 1σ of each astrometric offset at the zenith, mas; null: the default 1 mas (a campaign’s precision overrides it) */
+            astrometrySigmaMas?: number | null;
+            /** @description expected 1σ of a radial velocity at the zenith, km/s; null: the default 5 km/s (a campaign’s precision overrides it) */
+            spectroscopySigmaKmS?: number | null;
+            /** @description seeing FWHM the two zenith values hold for, arcsec; null: they hold for whatever seeing the night has */
+            referenceSeeingArcsec?: number | null;
             /** @default  */
             notes: string;
             id: number;

@@ -4,6 +4,7 @@
  * nothing written when any row fails.
  */
 import { useState } from 'preact/hooks';
+import { DEFAULT_ZENITH_SIGMA } from '../../../descriptors/measurement-kinds.ts';
 import { ApiError, fieldMessages, api, sendRecord, type Answer } from '../api/client.ts';
 import { invalidateCatalogue, loadCatalogue, semiMajorAxisText } from '../api/catalogue.ts';
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
@@ -15,6 +16,8 @@ interface Column {
   key: string;
   label: string;
   editable?: 'number' | 'text' | 'boolean';
+  /** Shown when the value is null (the default it stands for). */
+  empty?: string;
 }
 
 const SYSTEM_COLS: Column[] = [
@@ -39,6 +42,25 @@ const SITE_COLS: Column[] = [
   { key: 'lowestAltitudeDeg', label: 'lowest altitude (°)', editable: 'number' },
   { key: 'leastSunDistanceDeg', label: 'least Sun distance (°)', editable: 'number' },
   { key: 'laserGuideStar', label: 'laser guide star', editable: 'boolean' },
+  // The planner's precision model for the site; empty fields take its defaults.
+  {
+    key: 'astrometrySigmaMas',
+    label: 'astrometry σ at zenith (mas)',
+    editable: 'number',
+    empty: `${DEFAULT_ZENITH_SIGMA.astrometry.value} (default)`,
+  },
+  {
+    key: 'spectroscopySigmaKmS',
+    label: 'RV σ at zenith (km/s)',
+    editable: 'number',
+    empty: `${DEFAULT_ZENITH_SIGMA.spectroscopy.value} (default)`,
+  },
+  {
+    key: 'referenceSeeingArcsec',
+    label: 'σ holds for seeing (″)',
+    editable: 'number',
+    empty: 'any (default)',
+  },
 ];
 
 function RecordTable({
@@ -135,7 +157,7 @@ function RecordTable({
                     'no'
                   )
                 ) : (
-                  String(r[c.key] ?? '–')
+                  String(r[c.key] ?? c.empty ?? '–')
                 )}
               </td>
             ))}

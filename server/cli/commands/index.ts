@@ -13,6 +13,7 @@ import { planNightCommand } from './plan-night.ts';
 import { planSeasonCommand } from './plan-season.ts';
 import { fitCommand } from './fit.ts';
 import { forecastCommand } from './forecast.ts';
+import { sitePrecisionCommand } from './site-precision.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
@@ -28,4 +29,5 @@ export const commands: Record<string, Command> = {
   'plan-night': planNightCommand,
   fit: fitCommand,
   forecast: forecastCommand,
+  'site-precision': sitePrecisionCommand,
 };

@@ -7,6 +7,7 @@
  * slit or fibre loses grows with it; common practice, no source). The model is stated in every
  * plan line through the σ it gives.
  */
+import { DEFAULT_ZENITH_SIGMA } from '../../../descriptors/measurement-kinds.ts';
 import { InputError } from '../errors.ts';
 import { positive } from './checks.ts';
 import type { Precision } from './information.ts';
@@ -23,9 +24,10 @@ export interface PrecisionModel {
   referenceSeeingArcsec: number | null;
 }
 
+/** Where neither the campaign nor the site gives a field (the values are the kinds' descriptor's). */
 export const DEFAULT_PRECISION: PrecisionModel = {
-  astrometryMas: 1, // an AO-assisted astrometric epoch (common practice, no source)
-  spectroscopyKmS: 5, // a near-infrared integral-field radial velocity of a faint star (common practice, no source)
+  astrometryMas: DEFAULT_ZENITH_SIGMA.astrometry.value,
+  spectroscopyKmS: DEFAULT_ZENITH_SIGMA.spectroscopy.value,
   referenceSeeingArcsec: null,
 };
 

@@ -229,6 +229,10 @@ export const SITES = [
     pressureHpa: 742,
     temperatureC: 9,
     laserGuideStar: true,
+    // Invented precision: laser-assisted adaptive optics sharpens astrometry; a smaller spectrograph.
+    astrometrySigmaMas: 0.4,
+    spectroscopySigmaKmS: 8,
+    referenceSeeingArcsec: 0.7,
     // An invented neighbouring summit rises above the 30° limit to the south; low ridges elsewhere.
     horizonMask: [
       { azimuthDeg: 0, altitudeDeg: 8 },
@@ -255,6 +259,10 @@ export const SITES = [
     pressureHpa: 718,
     temperatureC: 4,
     laserGuideStar: false,
+    // Invented precision: natural-guide-star correction only, and a larger spectrograph.
+    astrometrySigmaMas: 1.5,
+    spectroscopySigmaKmS: 4,
+    referenceSeeingArcsec: 0.9,
     notes: 'Invented site.',
   },
 ];

@@ -1,6 +1,7 @@
 /** Observing sites: where, how high, which zone, and the limits that protect people and equipment. */
 import { sites } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
+import type { PrecisionModel } from '../../science/plan/index.ts';
 import { validateSite, type Site } from '../../science/sky/index.ts';
 import { entity } from '../crud.ts';
 import type { Db } from '../database.ts';
@@ -18,6 +19,19 @@ function skySite(values: Record<string, unknown>): Site {
       throw new InputError(err.field.replace(/^site\./, ''), err.value, err.rule);
     throw err;
   }
+}
+
+/** The site's stored precision model, as the planner layers it (an absent field takes the default). */
+export function sitePrecision(
+  row: Pick<SiteRow, 'astrometrySigmaMas' | 'spectroscopySigmaKmS' | 'referenceSeeingArcsec'>,
+): Partial<PrecisionModel> {
+  return {
+    ...(row.astrometrySigmaMas !== null ? { astrometryMas: row.astrometrySigmaMas } : {}),
+    ...(row.spectroscopySigmaKmS !== null ? { spectroscopyKmS: row.spectroscopySigmaKmS } : {}),
+    ...(row.referenceSeeingArcsec !== null
+      ? { referenceSeeingArcsec: row.referenceSeeingArcsec }
+      : {}),
+  };
 }
 
 export const siteEntity = entity<SiteRow>({

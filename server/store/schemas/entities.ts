@@ -118,6 +118,34 @@ export const SiteFields = z.object({
       'azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon',
     ),
   laserGuideStar: z.boolean().default(false).describe('the site runs a laser guide star'),
+  // The site's precision model (plan/precision.ts): σ = zenith σ × (seeing / reference) × X^0.6.
+  astrometrySigmaMas: optionalNumber(
+    z
+      .number()
+      .positive()
+      .max(1e6)
+      .describe(
+        'expected 1σ of each astrometric offset at the zenith, mas; null: the default 1 mas (a campaign’s precision overrides it)',
+      ),
+  ),
+  spectroscopySigmaKmS: optionalNumber(
+    z
+      .number()
+      .positive()
+      .max(1e6)
+      .describe(
+        'expected 1σ of a radial velocity at the zenith, km/s; null: the default 5 km/s (a campaign’s precision overrides it)',
+      ),
+  ),
+  referenceSeeingArcsec: optionalNumber(
+    z
+      .number()
+      .positive()
+      .max(10)
+      .describe(
+        'seeing FWHM the two zenith values hold for, arcsec; null: they hold for whatever seeing the night has',
+      ),
+  ),
   notes,
 });
 export const SiteInput = SiteFields;

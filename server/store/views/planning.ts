@@ -13,7 +13,7 @@ import {
   systems,
   targets as targetsTable,
 } from '../../../db/schema.ts';
-import { computeFlags, type Flag } from '../../science/plan/index.ts';
+import { computeFlags, type Flag, type PrecisionModel } from '../../science/plan/index.ts';
 import {
   validateLimits,
   validateSite,
@@ -28,10 +28,18 @@ import { NotFoundError } from '../errors.ts';
 import { campaignEntity, campaignMembers, type CampaignRow } from '../repos/campaigns.ts';
 import { systemSkyPosition } from '../repos/catalogue.ts';
 import { currentOrbit } from '../repos/orbits.ts';
+import { sitePrecision } from '../repos/sites.ts';
 
 export interface CampaignPlanningInput {
   campaign: CampaignRow;
-  sites: { id: number; site: Site; limits: Limits; laserGuideStar: boolean }[];
+  sites: {
+    id: number;
+    site: Site;
+    limits: Limits;
+    laserGuideStar: boolean;
+    /** The site's stored precision model (fields left out take the default). */
+    precision: Partial<PrecisionModel>;
+  }[];
   targets: { id: number; system: string; target: Target; lastMeasuredJd: number | null }[];
 }
 
@@ -59,7 +67,13 @@ export async function campaignPlanningInput(
       site,
       'limits',
     );
-    return { id: row.id, site, limits, laserGuideStar: row.laserGuideStar };
+    return {
+      id: row.id,
+      site,
+      limits,
+      laserGuideStar: row.laserGuideStar,
+      precision: sitePrecision(row),
+    };
   });
   const rows = targetIds.length
     ? await db

@@ -176,6 +176,7 @@ async function prepare(
       nights: open,
       laserGuideStar: s.laserGuideStar,
       kept: keptByDate,
+      precision: s.precision,
     });
     sitesOut.push({
       siteId: s.id,
