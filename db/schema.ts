@@ -218,6 +218,8 @@ export const nights = sqliteTable(
       .references(() => sites.id, { onDelete: 'restrict' }),
     campaignId: integer('campaign_id').references(() => campaigns.id, { onDelete: 'restrict' }),
     date: text('date').notNull(),
+    /** The label of the allocation the night came with (a semester, a run), '' when none. */
+    semester: text('semester').notNull().default(''),
     notes: text('notes').notNull().default(''),
     createdAt: created(),
     updatedAt: updated(),

@@ -36,6 +36,12 @@ export type { IssuedToken, TokenListing, UserRow } from './repos/users.ts';
 export { ACCEPT_AT_TOLERANCE_MINUTES } from './views/plan-scope.ts';
 export { NIGHT_CHOICES, type SeasonPlanRequest } from './views/season-plan.ts';
 export type { NightScheduleRequest } from './views/night-plan.ts';
+export type {
+  AllocationNight,
+  AllocationPreview,
+  AllocationRequest,
+} from './allocations/allocate.ts';
+export { MOST_NIGHTS_PER_REQUEST } from './allocations/sources.ts';
 export type { StoredFitOptions } from './fits.ts';
 export {
   COLUMNS,

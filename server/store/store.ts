@@ -2,6 +2,7 @@
  * The store's public surface: the entity repositories, and the views, plans, fits, imports and
  * exports over them, each with the database handle already supplied, so no caller holds it.
  */
+import { acceptAllocations, previewAllocations } from './allocations/allocate.ts';
 import { backupDatabase } from './backup.ts';
 import { registerContext, storeContext } from './context.ts';
 import { importCsv, importPreparedMeasurements } from './csv/import.ts';
@@ -44,6 +45,11 @@ export function createStore(database: Database) {
       acceptNight: bind(context, acceptNightSchedule),
       /** When the relativistic terms of a target become detectable with its planned blocks. */
       forecast: bind(db, targetForecast),
+    },
+    /** A campaign's allocated nights in bulk (a pattern, a CSV file, a telescope's calendar): preview, then all or none. */
+    allocations: {
+      preview: bind(context, previewAllocations),
+      accept: bind(context, acceptAllocations),
     },
     /** The sky engine's night report for a stored night and its campaign's targets. */
     nightVisibility: bind(db, nightVisibility),

@@ -15,6 +15,7 @@ it('exports exactly the store entry points', () => {
     'ImportRejected',
     'LOCAL_OPERATOR',
     'MEASUREMENT_COLUMNS',
+    'MOST_NIGHTS_PER_REQUEST',
     'MeasurementFields',
     'NIGHT_CHOICES',
     'NUMERIC',
@@ -41,6 +42,7 @@ it('a store hands out repositories and views, never the database handle', async 
   const s = store.createStore(await store.openDatabase({ url: ':memory:' }));
   try {
     expect(Object.keys(s).sort()).toEqual([
+      'allocations',
       'audit',
       'backup',
       'blocks',

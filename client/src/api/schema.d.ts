@@ -3481,6 +3481,216 @@ export interface paths {
         };
         trace?: never;
     };
+    "/campaigns/{id}/allocations/preview": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Preview allocated nights from a pattern, a CSV file or an iCalendar schedule */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["AllocationRequest"];
+                };
+            };
+            responses: {
+                /** @description each night: new, already allocated, or refused and why */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["AllocationPreview"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/campaigns/{id}/allocations": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Store allocated nights, all or none (422 naming each refused night) */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": components["schemas"]["AllocationRequest"];
+                };
+            };
+            responses: {
+                /** @description the nights stored */
+                201: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["AllocationStored"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/nights": {
         parameters: {
             query?: never;
@@ -3606,6 +3816,11 @@ export interface paths {
                          * @description local calendar date YYYY-MM-DD
                          */
                         date: string;
+                        /**
+                         * @description label of the allocation the night came with (a semester, a run); empty when none
+                         * @default
+                         */
+                        semester?: string;
                         /** @default  */
                         notes?: string;
                     };
@@ -3887,6 +4102,7 @@ export interface paths {
                 content: {
                     "application/json": {
                         campaignId?: number | null;
+                        semester?: string;
                         notes?: string;
                     };
                 };
@@ -8902,6 +9118,75 @@ export interface components {
             createdAt: string;
             updatedAt?: string;
         };
+        AllocationPreview: {
+            campaignId: number;
+            nights: components["schemas"]["AllocationNight"][];
+            counts: {
+                new: number;
+                allocated: number;
+                refused: number;
+            };
+        };
+        AllocationNight: {
+            siteId: number;
+            site: string;
+            /** @description the evening’s local date, YYYY-MM-DD */
+            date: string;
+            semester: string;
+            /** @description where in the request the night came from */
+            from: string;
+            /** @enum {string} */
+            state: "new" | "allocated" | "refused";
+            reason: string | null;
+            nightId: number | null;
+        };
+        /** @description at most 2000 nights in one request */
+        AllocationRequest: {
+            /** @enum {string} */
+            source: "pattern";
+            siteId: number;
+            /**
+             * Format: date
+             * @description first night (evening’s local date), YYYY-MM-DD
+             */
+            start: string;
+            /**
+             * Format: date
+             * @description last night, included; within three years of start
+             */
+            end: string;
+            /** @description ISO 8601 weekdays of the evening, 1 Monday … 7 Sunday; default every day */
+            weekdays?: number[];
+            /** @description every Nth night from start (1: every night); default 1 */
+            everyNights?: number;
+            /** @description label given to every night (a semester, a run), at most 40 characters */
+            semester?: string;
+        } | {
+            /** @enum {string} */
+            source: "csv";
+            /** @description CSV with a header row: site (a stored site’s name or id), date (YYYY-MM-DD, the evening’s local date), semester (optional) */
+            text: string;
+        } | {
+            /** @enum {string} */
+            source: "calendar";
+            siteId: number;
+            /** @description an iCalendar file (RFC 5545) of the telescope’s schedule; each event covers the nights of the local evenings it overlaps (an all-day event: its dates, DTEND excluded); recurring events are expanded to the campaign’s end */
+            text: string;
+            /** @description keep only events whose summary or description contains this text */
+            match?: string;
+            /** @description label given to every night (a semester, a run), at most 40 characters */
+            semester?: string;
+        };
+        AllocationStored: {
+            campaignId: number;
+            nights: components["schemas"]["AllocationNight"][];
+            counts: {
+                new: number;
+                allocated: number;
+                refused: number;
+            };
+            created: components["schemas"]["NightRow"][];
+        };
         NightRow: {
             siteId: number;
             campaignId?: number | null;
@@ -8910,6 +9195,11 @@ export interface components {
              * @description local calendar date YYYY-MM-DD
              */
             date: string;
+            /**
+             * @description label of the allocation the night came with (a semester, a run); empty when none
+             * @default
+             */
+            semester: string;
             /** @default  */
             notes: string;
             id: number;

@@ -2,6 +2,7 @@
 import type { Runner } from '../../jobs/tasks.ts';
 import type { Store } from '../../store/index.ts';
 import { identify } from '../auth.ts';
+import { allocationRoutes } from './allocations.ts';
 import { campaignRoutes } from './campaigns.ts';
 import { resourceApp } from './common.ts';
 import { exchangeRoutes } from './exchange.ts';
@@ -33,6 +34,7 @@ export function storeRoutes(store: Store, run: Runner) {
     orbitSolutionRoutes,
     siteRoutes,
     campaignRoutes,
+    allocationRoutes,
     nightRoutes,
     nightVisibilityRoutes,
     blockRoutes,

@@ -245,6 +245,10 @@ export const NightFields = z.object({
   siteId: id,
   campaignId: id.nullable().optional(),
   date: localDate,
+  semester: lineText(40)
+    .trim()
+    .default('')
+    .describe('label of the allocation the night came with (a semester, a run); empty when none'),
   notes,
 });
 export const NightInput = NightFields;
