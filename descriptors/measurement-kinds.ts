@@ -59,7 +59,25 @@ export interface MeasurementKindDescriptor {
   values: readonly MeasuredValue[];
   /** Whether it may carry `correlation`, the correlation of its two quantities' errors. */
   correlated: boolean;
+  /** The bodies a measurement of this kind may be of; the first is the default. */
+  components: readonly MeasuredComponent[];
 }
+
+/**
+ * Which body a measurement is of. `relative`: the secondary (the target) relative to the primary;
+ * for a radial velocity, the star's velocity with the primary at rest (right around a compact
+ * object, q → 0). `primary`, `secondary`: the velocity of that body about the barycentre, fitted
+ * with the mass ratio q = M₂/M₁ (RV₁ = γ − q/(1+q)·v_rel, RV₂ = γ + v_rel/(1+q)).
+ */
+export const MEASURED_COMPONENTS = ['relative', 'primary', 'secondary'] as const;
+export type MeasuredComponent = (typeof MEASURED_COMPONENTS)[number];
+
+/** What each component means, for forms and the API document. */
+export const COMPONENT_TEXT: Record<MeasuredComponent, string> = {
+  relative: 'secondary relative to the primary (a velocity: primary at rest)',
+  primary: 'the primary about the barycentre',
+  secondary: 'the secondary about the barycentre',
+};
 
 export const MEASUREMENT_KINDS = {
   offsets: {
@@ -90,6 +108,7 @@ export const MEASUREMENT_KINDS = {
       },
     ],
     correlated: true,
+    components: ['relative'],
   },
   separation: {
     label: 'separation and position angle',
@@ -118,6 +137,7 @@ export const MEASUREMENT_KINDS = {
       },
     ],
     correlated: true,
+    components: ['relative'],
   },
   'radial-velocity': {
     label: 'radial velocity',
@@ -136,6 +156,7 @@ export const MEASUREMENT_KINDS = {
       },
     ],
     correlated: false,
+    components: ['relative', 'primary', 'secondary'],
   },
 } as const satisfies Record<string, MeasurementKindDescriptor>;
 
@@ -187,4 +208,9 @@ export const MEASUREMENT_VALUE_FIELDS: readonly MeasuredField[] = MEASUREMENT_KI
 export function fieldsOfKind(kind: MeasurementKind): MeasuredField[] {
   const d: { values: readonly Values[] } = MEASUREMENT_KINDS[kind];
   return [...d.values.map((v) => v.field), ...d.values.map((v) => v.sigma)];
+}
+
+/** The component a measurement of `kind` is of when none is given. */
+export function defaultComponent(kind: MeasurementKind): MeasuredComponent {
+  return MEASUREMENT_KINDS[kind].components[0];
 }

@@ -18,6 +18,7 @@ import { OrbitSolutionRowSchema } from './resources/orbit-solutions.ts';
 import { FitResultSchema } from './schemas/fit-output.ts';
 import { RelativitySwitchesSchema } from './schemas/orbit-output.ts';
 import { CampbellSchema } from './schemas/orbit.ts';
+import { MEASURED_COMPONENTS } from '../../descriptors/measurement-kinds.ts';
 import { errorResponses, json } from './schemas/responses.ts';
 
 const tags = ['fits'];
@@ -45,6 +46,10 @@ const Hints = z
 /* Shapes and types here (400); ranges and rules in the fit's own checks (422 naming the field). */
 const measurement = {
   epoch: Epoch,
+  component: z.enum(MEASURED_COMPONENTS).optional().openapi({
+    description:
+      'which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁',
+  }),
   id: z.string().optional().openapi({ description: 'your identifier, echoed in the residuals' }),
 };
 const MeasurementInput = z

@@ -67,6 +67,28 @@ export function semiAmplitudeKmS(aAu: number, periodDays: number, e: number, iRa
   );
 }
 
+/**
+ * A binary's total mass and relative semi-amplitude shared between its bodies by the mass ratio
+ * q = M₂/M₁ (q ≥ 0): M₁ = M/(1+q), M₂ = qM/(1+q); K₁ = K·q/(1+q), K₂ = K/(1+q), so K₁/K₂ = q.
+ */
+export function binaryShares(
+  massSolar: number,
+  relativeKmS: number,
+  q: number,
+): {
+  primaryMassSolar: number;
+  secondaryMassSolar: number;
+  primaryKmS: number;
+  secondaryKmS: number;
+} {
+  return {
+    primaryMassSolar: massSolar / (1 + q),
+    secondaryMassSolar: (massSolar * q) / (1 + q),
+    primaryKmS: (relativeKmS * q) / (1 + q),
+    secondaryKmS: relativeKmS / (1 + q),
+  };
+}
+
 export interface PhysicalQuantities {
   semiMajorAxisAu: number;
   massSolar: number;

@@ -44,6 +44,8 @@ export interface GridNode {
   /** From the velocities: γ (km/s) and the signed distance (pc; negative means Ω + 180°); null without them. */
   gamma: number | null;
   signedDistancePc: number | null;
+  /** From velocities about the barycentre: the mass ratio q = M₂/M₁ to start from; null otherwise. */
+  massRatio: number | null;
 }
 
 const E_NODES = [0, 0.15, 0.3, 0.45, 0.6, 0.7, 0.8, 0.87, 0.92, 0.95, 0.97];
@@ -147,6 +149,7 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
       frame,
       gamma: null,
       signedDistancePc: null,
+      massRatio: null,
     });
     // Prune often: a tight cut early lets more nodes stop early.
     if (nodes.length >= POOL + 100) cut = prune(nodes);
@@ -159,7 +162,16 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   return pickDistinct(nodes, o.keep);
 }
 
-/** v = γ + D·b(t), b the radial velocity per parsec of the astrometric orbit: linear in γ and D. */
+/** The velocity coefficients of a node: one column per body whose velocities were measured. */
+const COLUMN: Record<Observation['component'], number> = { relative: 1, secondary: 1, primary: 2 };
+
+/**
+ * v = γ + c·b(t), b the radial velocity per parsec of the astrometric orbit: linear in γ and c, with
+ * one c per body. For `relative` velocities c = D (the signed distance); about the barycentre the
+ * secondary's c₂ = D/(1+q) and the primary's c₁ = −D·q/(1+q), so both give D = c₂ − c₁ and
+ * q = −c₁/c₂; one of them alone starts from q = 1 (the distance and q are then told apart only by a
+ * prior or a fixed value).
+ */
 function velocityPart(node: GridNode, rv: Observation[], table: AnomalyTable): void {
   const c = thieleInnesToCampbell(node);
   const e = node.e,
@@ -167,32 +179,49 @@ function velocityPart(node: GridNode, rv: Observation[], table: AnomalyTable): v
     n = TWO_PI / node.periodDays;
   const C = c.a * Math.sin(c.iRad) * Math.sin(c.argRad),
     H = c.a * Math.sin(c.iRad) * Math.cos(c.argRad);
-  const N = new Float64Array(4),
-    rhs = new Float64Array(2),
-    cs = new Float64Array(2);
+  const hasPrimary = rv.some((m) => m.component === 'primary');
+  const hasSecondary = rv.some((m) => m.component !== 'primary');
+  // Unknowns: γ, then c for the secondary (or relative) velocities, then c for the primary's.
+  const slot = [0, hasSecondary ? 1 : -1, hasPrimary ? (hasSecondary ? 2 : 1) : -1];
+  const nu = 1 + (hasPrimary ? 1 : 0) + (hasSecondary ? 1 : 0);
+  const N = new Float64Array(nu * nu),
+    rhs = new Float64Array(nu),
+    cs = new Float64Array(2),
+    row = new Float64Array(nu);
   const basis = rv.map((m) => {
     // cs = (X, Y) = (cos E − e, √(1−e²)·sin E), so 1 − e·cos E = 1 − e² − e·X.
     readTable(table, (m.jd - node.periapsisJd) / node.periodDays, cs);
     const b = (KAPPA * n * ((-C * cs[1]!) / sq + H * sq * (cs[0]! + e))) / (1 - e * e - e * cs[0]!);
     const w = 1 / m.sigma[0] ** 2;
-    N[0] = N[0]! + w;
-    N[2] = N[2]! + w * b;
-    N[3] = N[3]! + w * b * b;
-    rhs[0] = rhs[0]! + w * m.value[0];
-    rhs[1] = rhs[1]! + w * b * m.value[0];
+    row.fill(0);
+    row[0] = 1;
+    row[slot[COLUMN[m.component]]!] = b;
+    for (let i = 0; i < nu; i++) {
+      rhs[i] = rhs[i]! + w * row[i]! * m.value[0];
+      for (let j = 0; j < nu; j++) N[i * nu + j] = N[i * nu + j]! + w * row[i]! * row[j]!;
+    }
     return b;
   });
-  if (!solveSmall(N, rhs, 2)) {
+  if (!solveSmall(N, rhs, nu)) {
     // The velocities cannot separate γ from the distance (e.g. all on one night): start from their
     // mean and let the covariance step name what is undetermined.
     const w = rv.reduce((s, m) => s + m.sigma[0] ** -2, 0);
     node.gamma = rv.reduce((s, m) => s + m.value[0] * m.sigma[0] ** -2, 0) / w;
     return;
   }
+  const c2 = hasSecondary ? rhs[1]! : null,
+    c1 = hasPrimary ? rhs[nu - 1]! : null;
   node.gamma = rhs[0]!;
-  node.signedDistancePc = rhs[1]!;
-  rv.forEach((m, q) => {
-    node.chi2 += (m.value[0] - rhs[0]! - rhs[1]! * basis[q]!) ** 2 / m.sigma[0] ** 2;
+  if (!rv.some((m) => m.component !== 'relative')) node.signedDistancePc = c2;
+  else {
+    const q = c1 !== null && c2 !== null && -c1 / c2 > 0 ? -c1 / c2 : 1;
+    node.massRatio = q;
+    node.signedDistancePc =
+      c2 !== null && c1 !== null ? c2 - c1 : c2 !== null ? c2 * (1 + q) : (-c1! * (1 + q)) / q;
+  }
+  rv.forEach((m, k) => {
+    node.chi2 +=
+      (m.value[0] - rhs[0]! - rhs[slot[COLUMN[m.component]]!]! * basis[k]!) ** 2 / m.sigma[0] ** 2;
   });
 }
 

@@ -41,6 +41,7 @@ export const STAR_KEYS = [
   'bArcsec',
   'fArcsec',
   'gArcsec',
+  'massRatio',
 ] as const;
 export type StarKey = (typeof STAR_KEYS)[number];
 
@@ -65,6 +66,7 @@ const SCALE: Record<SystemKey | StarKey, { scale: number; unit: string; angle?: 
   bArcsec: { scale: 1e-3, unit: 'arcsec' },
   fArcsec: { scale: 1e-3, unit: 'arcsec' },
   gArcsec: { scale: 1e-3, unit: 'arcsec' },
+  massRatio: { scale: 1, unit: 'M₂/M₁' },
 };
 
 export interface ParamDesc {
@@ -80,7 +82,7 @@ export interface ParamDesc {
 
 /** Index of each of a star's parameters in the vector, −1 when the star does not have it. */
 export type StarSlots = Record<
-  'P' | 'T' | 'e' | 'a' | 'i' | 'node' | 'arg' | 'A' | 'B' | 'F' | 'G',
+  'P' | 'T' | 'e' | 'a' | 'i' | 'node' | 'arg' | 'A' | 'B' | 'F' | 'G' | 'q',
   number
 >;
 
@@ -89,6 +91,8 @@ export interface StarLayout {
   obs: Observation[];
   jd: Float64Array;
   hasRv: boolean;
+  /** Velocities of the primary or the secondary about the barycentre: the mass ratio is a parameter. */
+  barycentric: boolean;
   hasAstrometry: boolean;
   relativity: RelativitySwitches;
   orientation: 'thiele-innes' | 'campbell';
@@ -159,6 +163,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
   const starLayouts = stars.map((s, k): StarLayout => {
     const prefix = `${s.name}.`;
     const hasRv = s.obs.some((m) => m.kind === 'radial-velocity');
+    const barycentric = s.obs.some((m) => m.component !== 'relative');
     const orientation = !massMode && !hasRv && !anyRel ? 'thiele-innes' : 'campbell';
     const ti = orientation === 'thiele-innes';
     const slots: StarSlots = {
@@ -173,6 +178,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
       B: ti ? add('bArcsec', k, prefix) : -1,
       F: ti ? add('fArcsec', k, prefix) : -1,
       G: ti ? add('gArcsec', k, prefix) : -1,
+      q: barycentric ? add('massRatio', k, prefix) : -1,
     };
     const components = s.obs.reduce((n, m) => n + componentCount(m), 0);
     const out: StarLayout = {
@@ -180,6 +186,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
       obs: s.obs,
       jd: Float64Array.from(s.obs, (m) => m.jd),
       hasRv,
+      barycentric,
       hasAstrometry: s.obs.some((m) => m.kind !== 'radial-velocity'),
       relativity: s.relativity,
       orientation,
@@ -264,4 +271,14 @@ export function findParameter(L: Layout, name: string, field: string): number {
       `is not a parameter of this fit; known: ${L.params.map((p) => p.name).join(', ')}`,
     );
   return idx;
+}
+
+/**
+ * What multiplies the relative orbit's velocity in a radial velocity of `component`, and its
+ * derivative by q: 1 for `relative`, 1/(1+q) for the secondary, −q/(1+q) for the primary.
+ */
+export function velocityShare(component: Observation['component'], q: number): [number, number] {
+  if (component === 'relative') return [1, 0];
+  const dq = -1 / ((1 + q) * (1 + q));
+  return component === 'secondary' ? [1 / (1 + q), dq] : [-q / (1 + q), dq];
 }

@@ -8,7 +8,9 @@ import { parseEpoch } from '../../time/index.ts';
 import {
   MEASUREMENT_KIND_NAMES,
   componentCount as kindComponents,
+  defaultComponent,
   describeKind,
+  type MeasuredComponent,
   type MeasuredValue,
   type MeasurementKind,
 } from '../../../../descriptors/measurement-kinds.ts';
@@ -16,6 +18,8 @@ import {
 /** One measurement in internal units. Components: offset [Δα*, Δδ] mas; separation [ρ mas, θ rad]; rv [v km/s]. */
 export interface Observation {
   kind: MeasurementKind;
+  /** Which body it is of (descriptors/measurement-kinds.ts). */
+  component: MeasuredComponent;
   index: number;
   id: string | undefined;
   jd: number;
@@ -61,6 +65,24 @@ function correlationOf(p: string, m: Record<string, unknown>, kind: MeasurementK
   return rho;
 }
 
+function componentOf(
+  p: string,
+  m: Record<string, unknown>,
+  kind: MeasurementKind,
+): MeasuredComponent {
+  if (m.component === undefined) return defaultComponent(kind);
+  const allowed: readonly unknown[] = describeKind(kind).components;
+  if (!allowed.includes(m.component))
+    throw new InputError(
+      `${p}.component`,
+      m.component,
+      `must be ${allowed.map((c) => JSON.stringify(c)).join(', ')} for kind "${kind}"${
+        allowed.length === 1 ? ' (positions are of the secondary relative to the primary)' : ''
+      }`,
+    );
+  return m.component as MeasuredComponent;
+}
+
 const KIND_RULE = `must be ${MEASUREMENT_KIND_NAMES.map((k) => JSON.stringify(k))
   .join(', ')
   .replace(/, ([^,]*)$/, ' or $1')}`;
@@ -77,11 +99,12 @@ export function readMeasurements(list: unknown, prefix: string): Observation[] {
     const kind = m.kind as MeasurementKind;
     if (!(MEASUREMENT_KIND_NAMES as readonly unknown[]).includes(kind))
       throw new InputError(`${p}.kind`, m.kind, KIND_RULE);
+    const component = componentOf(p, m, kind);
     const rho = correlationOf(p, m, kind);
     const [first, second] = describeKind(kind).values.map((v) => readValue(p, m, v));
     const [v1, s1] = first!;
     const [v2, s2] = second ?? [0, 1];
-    return { kind, index: k, id, jd, rho, value: [v1, v2], sigma: [s1, s2] };
+    return { kind, component, index: k, id, jd, rho, value: [v1, v2], sigma: [s1, s2] };
   });
 }
 

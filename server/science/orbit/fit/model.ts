@@ -11,7 +11,7 @@ import { componentCount } from './measurements.ts';
 import { AU_KM, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
 import { predictBatch } from '../predict.ts';
 import type { RelativitySwitches } from '../types.ts';
-import { type Layout, starOrbit } from './layout.ts';
+import { type Layout, starOrbit, velocityShare } from './layout.ts';
 
 const NO_RELATIVITY: RelativitySwitches = {
   romer: false,
@@ -144,12 +144,15 @@ export function keplerianModel(
     const C = a * si * sw,
       H = a * si * cw;
     const d = orbit.distancePc ?? 0;
+    const massRatio = s.q >= 0 ? theta[s.q]! : 0;
+    const gamma = orbit.gammaKmS;
     let row = star.firstComponent;
     for (let m = 0; m < star.obs.length; m++) {
       const ob = star.obs[m]!;
       const tau = (ob.jd - L.frameEpochJd) / JULIAN_YEAR_DAYS;
+      const [share, dShare] = velocityShare(ob.component, massRatio);
       if (ob.kind === 'radial-velocity') {
-        values[row] = cols.radialVelocityKmS[m]!;
+        values[row] = gamma + share * (cols.radialVelocityKmS[m]! - gamma);
       } else {
         const x = cols.dRaMas[m]! + x0 + vx * tau,
           y = cols.dDecMas[m]! + y0 + vy * tau;
@@ -225,9 +228,12 @@ export function keplerianModel(
           gv[s.e] = dvdeExplicit + dvdE * dEde;
           gv[s.i] = q * a * ci * (-sw * sE + cw * sq * cE);
           gv[s.arg] = q * (-H * sE - C * sq * cE);
-          if (sys.gamma >= 0) gv[sys.gamma] = 1;
           if (sys.d >= 0) gv[sys.d] = gv[sys.d]! + vk / d;
           addSize(L, theta, k, gv, vk / a, a);
+          // The body's share of the relative velocity (1 for a relative one), and ∂/∂q.
+          if (share !== 1) for (let j = 0; j < np; j++) gv[j] = gv[j]! * share;
+          if (s.q >= 0) gv[s.q] = dShare * vk;
+          if (sys.gamma >= 0) gv[sys.gamma] = 1;
         }
         const base = row * np;
         if (ob.kind === 'radial-velocity') {

@@ -89,7 +89,8 @@ export function inDomain(L: Layout, theta: ArrayLike<number>): boolean {
       (key === 'periodYears' ||
         key === 'semiMajorAxisArcsec' ||
         key === 'distancePc' ||
-        key === 'massSolar') &&
+        key === 'massSolar' ||
+        key === 'massRatio') &&
       !(v > 0)
     )
       return false;

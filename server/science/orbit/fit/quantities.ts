@@ -7,7 +7,7 @@
  */
 import { C_M_PER_S, DEG, GM_SUN_M3_PER_S2, JULIAN_YEAR_DAYS, AU_M } from '../../constants.ts';
 import { campbellToThieleInnes, mod } from '../elements.ts';
-import { massParameterM3S2, semiAmplitudeKmS, semiMajorAxisAu } from '../physical.ts';
+import { binaryShares, massParameterM3S2, semiAmplitudeKmS, semiMajorAxisAu } from '../physical.ts';
 import { observedTime, prepare } from '../predict.ts';
 import { type Layout, starOrbit } from './layout.ts';
 
@@ -41,9 +41,21 @@ const PHYSICAL: QuantityDesc[] = [
   { name: 'semiAmplitudeKmS', unit: 'km/s', angle: false },
 ];
 
-/** The names (in order) of the quantities `starQuantities` returns for star k. */
+/** A binary of comparable masses (velocities about the barycentre): each body's mass and K. */
+const BINARY: QuantityDesc[] = [
+  { name: 'massRatio', unit: 'M₂/M₁', angle: false },
+  { name: 'primaryMassSolar', unit: 'M☉', angle: false },
+  { name: 'secondaryMassSolar', unit: 'M☉', angle: false },
+  { name: 'primarySemiAmplitudeKmS', unit: 'km/s', angle: false },
+  { name: 'secondarySemiAmplitudeKmS', unit: 'km/s', angle: false },
+];
+
+/** The names (in order) of the quantities `starQuantities` returns (the same for every star of a fit). */
 export function quantityNames(L: Layout): QuantityDesc[] {
-  return L.sys.d >= 0 ? [...ELEMENTS, ...PHYSICAL] : ELEMENTS;
+  if (L.sys.d < 0) return ELEMENTS;
+  return L.stars.some((s) => s.slots.q >= 0)
+    ? [...ELEMENTS, ...PHYSICAL, ...BINARY]
+    : [...ELEMENTS, ...PHYSICAL];
 }
 
 /**
@@ -79,6 +91,7 @@ export function starQuantities(
     const aAu = semiMajorAxisAu(o.aMas, d);
     const gm = massParameterM3S2(aAu, o.periodDays);
     const rsAu = (2 * gm) / (C_M_PER_S * C_M_PER_S) / AU_M;
+    const kRel = semiAmplitudeKmS(aAu, o.periodDays, o.e, o.iRad);
     out.push(
       d,
       o.gammaKmS,
@@ -86,8 +99,13 @@ export function starQuantities(
       gm / GM_SUN_M3_PER_S2,
       aAu * (1 - o.e),
       (aAu * (1 - o.e)) / rsAu,
-      semiAmplitudeKmS(aAu, o.periodDays, o.e, o.iRad),
+      kRel,
     );
+    const jq = L.stars[k]!.slots.q;
+    if (jq >= 0) {
+      const b = binaryShares(gm / GM_SUN_M3_PER_S2, kRel, theta[jq]!);
+      out.push(theta[jq]!, b.primaryMassSolar, b.secondaryMassSolar, b.primaryKmS, b.secondaryKmS);
+    }
   }
   return Float64Array.from(out);
 }

@@ -178,6 +178,7 @@ export function checkRequest(req: FitRequest): CheckedRequest {
       ...starRelativity(req, s.relativity, `${p}.relativity`, freeFactors),
     };
   });
+  for (const [k, st] of stars.entries()) checkComponents(st, k, stars.length);
   const relativity = { ...NEWTONIAN };
   for (const st of stars)
     for (const k of SWITCHES) relativity[k] = relativity[k] || st.relativity[k];
@@ -213,6 +214,39 @@ export function checkRequest(req: FitRequest): CheckedRequest {
     asOfJd: req.asOf === undefined ? null : epoch('asOf', req.asOf),
     posterior: req.posterior === undefined ? null : checkSampler(req.posterior),
   };
+}
+
+/**
+ * A star's radial velocities are all `relative` (the primary at rest) or all about the barycentre
+ * (`primary`, `secondary`, with the mass ratio fitted): the two models cannot share one orbit. The
+ * barycentric model is for one binary at a time, Newtonian (the relativistic terms are written for
+ * a star around a compact object).
+ */
+function checkComponents(star: CheckedStar, k: number, starCount: number): void {
+  const rv = star.obs.filter((m) => m.kind === 'radial-velocity');
+  const bary = rv.find((m) => m.component !== 'relative');
+  if (!bary) return;
+  const field = `stars.${k}.measurements.${bary.index}.component`;
+  const relative = rv.find((m) => m.component === 'relative');
+  if (relative)
+    throw new InputError(
+      `stars.${k}.measurements.${relative.index}.component`,
+      'relative',
+      `cannot be mixed with "${bary.component}" velocities of the same star: a velocity with the primary at rest and one about the barycentre belong to different models — mark every velocity "primary" or "secondary"`,
+    );
+  if (starCount > 1)
+    throw new InputError(
+      field,
+      bary.component,
+      'a joint fit models stars around one primary at rest: velocities must be "relative" there — fit a binary of comparable masses on its own',
+    );
+  const on = SWITCHES.filter((s) => star.relativity[s]);
+  if (on.length > 0)
+    throw new InputError(
+      field,
+      bary.component,
+      `velocities about the barycentre are modelled without relativistic terms, and ${on.join(', ')} ${on.length === 1 ? 'is' : 'are'} on — switch ${on.length === 1 ? 'it' : 'them'} off for a binary of comparable masses`,
+    );
 }
 
 const FACTORS: readonly RelativityFactorName[] = ['redshiftFactor', 'precessionFactor'];

@@ -225,7 +225,10 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
     residuals,
     outliers: residuals.filter((x) => x.outlier).length,
     relativity: relativitySettings(sol, req, parameters),
-    warnings: L.stars.flatMap((_, k) => newtonianWarnings(sol, k)),
+    warnings: L.stars.flatMap((_, k) => [
+      ...newtonianWarnings(sol, k),
+      ...restingPrimaryWarnings(sol, k),
+    ]),
   };
 }
 
@@ -254,6 +257,30 @@ function newtonianWarnings(sol: Solution, k: number): string[] {
       `star ${s.name}: fitted without the Schwarzschild precession, which moves the orbit by up to ${shiftMas.toFixed(2)} mas per orbit, above the offsets' median σ of ${astSigma.toFixed(2)} mas; switch it on (relativity) or fit the precession factor`,
     );
   return out;
+}
+
+/**
+ * Above this total mass (M☉) a primary at rest is a fair model: no star weighs more than a few
+ * hundred M☉, so the star's share q/(1+q) of the motion stays below a percent or so (common
+ * practice, no source). Below it the primary is itself a star (or a light compact one).
+ */
+export const RESTING_PRIMARY_MIN_MASS_SOLAR = 1000;
+
+/**
+ * `relative` velocities (primary at rest) fitted to a system whose mass is that of stars: the
+ * primary's reflex motion is ignored, and velocities of the primary taken for the star's turn Ω and
+ * ω by 180° and shrink the distance. Say so rather than hand back a tidy χ².
+ */
+function restingPrimaryWarnings(sol: Solution, k: number): string[] {
+  const s = sol.L.stars[k]!;
+  if (!s.obs.some((m) => m.kind === 'radial-velocity' && m.component === 'relative')) return [];
+  const o = starOrbit(sol.L, sol.theta, k);
+  if (o.distancePc === null) return [];
+  const mass = physicalQuantities(o).massSolar;
+  if (!(mass < RESTING_PRIMARY_MIN_MASS_SOLAR)) return [];
+  return [
+    `star ${s.name}: the fitted total mass is ${mass.toPrecision(3)} M☉, that of stars, but its radial velocities are "relative" (modelled with the primary at rest); if they are velocities of either star about the barycentre, mark each "primary" or "secondary" so that the mass ratio is fitted — velocities of the primary fitted as the star's turn Ω and ω by 180° and give a wrong distance and mass`,
+  ];
 }
 
 /** The relativity block of a result: terms, reasons, and each factor with its significances. */

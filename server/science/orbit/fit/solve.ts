@@ -125,6 +125,36 @@ function refuseEarly(star: CheckedStar, ownParams: number): void {
   }
 }
 
+/**
+ * Velocities about the barycentre of one body only fix d/(1+q) (the secondary's) or d·q/(1+q) (the
+ * primary's), not the distance and the mass ratio apart; a parallax (a prior or a fixed distance)
+ * or a known q separates them, as do the other body's velocities. A primary that moves cannot have
+ * q = 0.
+ */
+function refuseOneBody(b: Built, star: CheckedStar): void {
+  const { L } = b;
+  const jq = L.stars[0]!.slots.q;
+  if (jq < 0) return;
+  const bodies = new Set(
+    star.obs.filter((m) => m.kind === 'radial-velocity').map((m) => m.component),
+  );
+  const held = (j: number) => b.fixedMask[j] || b.priors.some((p) => p.index === j);
+  const q = L.params[jq]!.name;
+  if (bodies.has('primary') && b.fixedMask[jq] && !(b.base[jq]! > 0))
+    throw new FitRefusal(
+      'singular',
+      `star ${star.name}: ${q} is fixed at ${b.base[jq]}, but the primary's velocities say it moves (q = M₂/M₁ > 0) — free ${q}, or mark the velocities "relative" if the primary is a compact object at rest`,
+      [q],
+    );
+  if (bodies.size === 2 || held(jq) || held(L.sys.d)) return;
+  const body = [...bodies][0]!;
+  throw new FitRefusal(
+    'singular',
+    `star ${star.name}: velocities of the ${body} alone fix ${body === 'primary' ? 'd·q/(1+q)' : 'd/(1+q)'}, not the distance and the mass ratio apart — add the other body's velocities (a double-lined binary), a prior on distancePc (a parallax), or fix or give a prior to ${q}`,
+    [q, 'distancePc'],
+  );
+}
+
 /** Refuse when every epoch of a star sits within 0.5% of the orbit's phase (e.g. epochs one period apart). */
 function refusePhases(
   name: string,
@@ -254,6 +284,7 @@ export function startFromNode(b: Built, node: GridNode): Float64Array {
     t[L.sys.d] =
       node.signedDistancePc !== null ? Math.abs(node.signedDistancePc) : (prior(L.sys.d) ?? 1000);
   if (L.sys.gamma >= 0) t[L.sys.gamma] = node.gamma ?? 0;
+  if (s.q >= 0) t[s.q] = node.massRatio ?? 1;
   if (L.sys.x0 >= 0) {
     t[L.sys.x0] = node.frame[0];
     t[L.sys.y0] = node.frame[1];
@@ -275,6 +306,7 @@ export function solveStar(
 ): Solution {
   const b = build(req, [star], strict);
   refuseEarly(star, 7);
+  refuseOneBody(b, star);
   if (b.free.length > b.L.components + b.priors.length) {
     throw new FitRefusal(
       'too-few-measurements',

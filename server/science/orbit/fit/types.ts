@@ -2,6 +2,7 @@
  * What a fit takes and what it returns. Interface units (mas, km/s, degrees, years, epochs as
  * strings or JD) in the inputs and the reported values; internal units live in layout.ts.
  */
+import type { MeasuredComponent } from '../../../../descriptors/measurement-kinds.ts';
 import type { CampbellInput, RelativityFactors, RelativitySwitches } from '../types.ts';
 
 export type RelativityFactorName = keyof RelativityFactors;
@@ -26,6 +27,8 @@ export interface OffsetInput {
   sigmaDDecMas: number;
   /** Correlation of the Δα* and Δδ errors, −1 < ρ < 1. Default 0. */
   correlation?: number;
+  /** Positions are of the secondary relative to the primary (the only component they may be of). */
+  component?: 'relative';
   /** The caller's identifier, echoed in the residuals. */
   id?: string;
 }
@@ -41,6 +44,7 @@ export interface SeparationInput {
   sigmaPositionAngleDeg: number;
   /** Correlation of the ρ and θ errors, −1 < ρ < 1. Default 0. */
   correlation?: number;
+  component?: 'relative';
   id?: string;
 }
 
@@ -50,6 +54,11 @@ export interface VelocityInput {
   epoch: string | number;
   radialVelocityKmS: number;
   sigmaRadialVelocityKmS: number;
+  /**
+   * Whose velocity: `relative` (default; the star with the primary at rest, as around a compact
+   * object), or `primary` / `secondary` about the barycentre, fitted with the mass ratio q.
+   */
+  component?: MeasuredComponent;
   id?: string;
 }
 

@@ -76,6 +76,7 @@ function worstRelativeError(request: FitRequest): number {
     offsetDecMas: -0.2,
     driftRaMasYr: 0.05,
     driftDecMasYr: -0.04,
+    massRatio: 0.6,
   };
   b.L.params.forEach((p, j) => {
     theta[j] = truthish[p.key]! * (1 + 0.01 * (j % 3));
@@ -109,6 +110,21 @@ describe('fit derivatives against central finite differences', () => {
     [
       'Campbell form with radial velocities (distance, γ)',
       { stars: [star('B', 9, 0.6, 60, true)] },
+    ],
+    [
+      'velocities of both bodies about the barycentre (mass ratio q)',
+      {
+        stars: [
+          {
+            name: 'H',
+            measurements: star('H', 9, 0.6, 60, true).measurements.map((m, k) =>
+              m.kind === 'radial-velocity'
+                ? { ...m, component: k % 2 ? 'primary' : 'secondary' }
+                : m,
+            ),
+          },
+        ],
+      },
     ],
     ['separation and position angle', { stars: [star('C', 9, 0.6, 60, true, true)] }],
     [
