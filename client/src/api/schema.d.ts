@@ -9785,6 +9785,11 @@ export interface components {
             kind: "offsets";
             /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
             epoch: string | number;
+            /**
+             * @description which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁
+             * @enum {string}
+             */
+            component?: "relative" | "primary" | "secondary";
             /** @description your identifier, echoed in the residuals */
             id?: string;
             dRaMas: number;
@@ -9797,6 +9802,11 @@ export interface components {
             kind: "separation";
             /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
             epoch: string | number;
+            /**
+             * @description which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁
+             * @enum {string}
+             */
+            component?: "relative" | "primary" | "secondary";
             /** @description your identifier, echoed in the residuals */
             id?: string;
             separationMas: number;
@@ -9808,6 +9818,11 @@ export interface components {
             kind: "radial-velocity";
             /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
             epoch: string | number;
+            /**
+             * @description which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁
+             * @enum {string}
+             */
+            component?: "relative" | "primary" | "secondary";
             /** @description your identifier, echoed in the residuals */
             id?: string;
             radialVelocityKmS: number;
