@@ -94,8 +94,9 @@ export async function prepareStoredFit(
     .where(inArray(measurements.targetId, targetIds))
     .orderBy(measurements.epochJd, measurements.id);
   const chosen = measurementIds ? new Set(measurementIds) : null;
+  const stored = new Set(rows.map((r) => r.id));
   measurementIds?.forEach((id, k) => {
-    if (!rows.some((r) => r.id === id))
+    if (!stored.has(id))
       throw new InputError(
         `measurementIds.${k}`,
         id,

@@ -3,7 +3,7 @@
  * several stars) the joint fit that shares the mass, the distance, γ and the frame, started from
  * the single-star solutions. Returns the minimum and its covariance; result.ts dresses it up.
  */
-import { componentCount } from './measurements.ts';
+import { componentCount, type Observation } from './measurements.ts';
 import { JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { campbellToThieleInnes, thieleInnesToCampbell } from '../elements.ts';
 import { massSolar, semiMajorAxisAu } from '../physical.ts';
@@ -296,6 +296,29 @@ export function startFromNode(b: Built, node: GridNode): Float64Array {
   return t;
 }
 
+/**
+ * Above this many measurements a star's grid search and multi-start LM use an even subset of this
+ * size (`thinned`), and the best minimum found there is refined on all of them. Below it nothing
+ * changes, so every reference check of the fit runs the full path.
+ */
+export const COARSE_EPOCHS = 1500;
+
+/**
+ * About `size` measurements spread evenly in time, each kind (astrometry, radial velocity) in
+ * proportion to its share and with at least a few of each, so the subset has the full set's layout.
+ */
+export function thinned(obs: Observation[], size: number): Observation[] {
+  const byTime = (xs: Observation[]) => [...xs].sort((a, b) => a.jd - b.jd);
+  const groups = [
+    byTime(obs.filter((m) => m.kind !== 'radial-velocity')),
+    byTime(obs.filter((m) => m.kind === 'radial-velocity')),
+  ];
+  return groups.flatMap((g) => {
+    const k = Math.min(g.length, Math.max(Math.round((size * g.length) / obs.length), 20));
+    return Array.from({ length: k }, (_, q) => g[Math.floor(((q + 0.5) * g.length) / k)]!);
+  });
+}
+
 /** Grid + LM for one star alone (its own distance and γ when it has velocities). */
 export function solveStar(
   req: CheckedRequest,
@@ -303,6 +326,7 @@ export function solveStar(
   strict: boolean,
   withCovariance = true,
   mode: DerivativeMode = 'analytic',
+  coarseEpochs = COARSE_EPOCHS,
 ): Solution {
   const b = build(req, [star], strict);
   refuseEarly(star, 7);
@@ -337,7 +361,11 @@ export function solveStar(
         : { min: span / 2, max: 20 * span };
   const eccentricity =
     eFix !== null ? { min: eFix, max: eFix } : (star.hints.eccentricity ?? { min: 0, max: 0.97 });
-  const nodes = gridSearch(star.obs, {
+  // Many epochs: the search and the starts' LM run on an even subset, and only the best minimum
+  // is refined on every measurement (the basin is the same; the grid's cost stops growing with n).
+  const coarse =
+    star.obs.length > coarseEpochs ? { ...star, obs: thinned(star.obs, coarseEpochs) } : null;
+  const nodes = gridSearch((coarse ?? star).obs, {
     periodDays,
     eccentricity,
     frameOffset: req.frameOffset,
@@ -354,11 +382,13 @@ export function solveStar(
   }
   const starts = nodes.map((node) => startFromNode(b, node));
   if (star.start) starts.push(withElements(b.L, 0, startFromNode(b, nodes[0]!), star.start));
+  const bc = coarse ? build(req, [coarse], strict) : b;
   let best: ReturnType<typeof lmOn> | null = null;
   for (const t0 of starts) {
-    const r = lmOn(b, t0, req, mode);
+    const r = lmOn(bc, t0, req, mode);
     if (!best || r.lm.cost < best.lm.cost) best = r;
   }
+  if (coarse) best = lmOn(b, Float64Array.from(best!.theta), req, mode);
   refuseSinglePhase(b.L, best!.theta);
   best = nearDataPassages(best!);
   return {
