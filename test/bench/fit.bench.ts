@@ -3,12 +3,23 @@
  * fit of five stars; the baseline is the same fit whose Levenberg–Marquardt takes its derivatives
  * by central differences, run in this process on the same measurements. `fit` is the whole fit
  * (grid start, LM, covariance); `fit-lm` the LM stage alone from the grid's best start.
+ * `fit-10k` and `fit-100k` are one star with that many measurements (two thirds astrometric) fitted
+ * whole; their baseline is the same fit without the coarse start (every measurement in the grid
+ * search and in every start's LM, solve.ts COARSE_EPOCHS), as fits ran before it.
  * The orbits are invented demo values.
  */
 import { fitOrbits, type StarInput } from '../../server/science/orbit/fit/index.ts';
 import { gridSearch } from '../../server/science/orbit/fit/grid.ts';
 import { checkRequest } from '../../server/science/orbit/fit/request.ts';
-import { build, lmOn, solve, startFromNode } from '../../server/science/orbit/fit/solve.ts';
+import { assemble } from '../../server/science/orbit/fit/result.ts';
+import {
+  build,
+  COARSE_EPOCHS,
+  lmOn,
+  solve,
+  solveStar,
+  startFromNode,
+} from '../../server/science/orbit/fit/solve.ts';
 import { SeededRandom } from '../../server/science/random.ts';
 import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
 import { benchLine, bestOfPair, isMain } from './timing.ts';
@@ -28,6 +39,7 @@ function star(
   nAst: number,
   nRv: number,
   seed: number,
+  jitterDays = 10,
 ): StarInput {
   const semiMajorAxisArcsec = Math.cbrt(MASS * periodYears ** 2) / DISTANCE;
   const truth = {
@@ -47,9 +59,9 @@ function star(
   const measurements = simulate(
     truth,
     {
-      astrometryJd: epochs(J2012, 14 * 365.25, nAst, r, 10),
+      astrometryJd: epochs(J2012, 14 * 365.25, nAst, r, jitterDays),
       sigmaMas: 0.4,
-      velocityJd: epochs(J2012 + 30, 13.5 * 365.25, nRv, r, 10),
+      velocityJd: epochs(J2012 + 30, 13.5 * 365.25, nRv, r, jitterDays),
       sigmaRadialVelocityKmS: 12,
     },
     seed + 1,
@@ -59,6 +71,24 @@ function star(
     measurements,
     hints: { periodYears: { min: periodYears * 0.85, max: periodYears * 1.2 } },
   };
+}
+
+/**
+ * One star of n measurements, the whole fit as `fitOrbits` runs it (request check, solve, result
+ * with every residual), with and without the coarse start (seconds, best of `runs`).
+ */
+function large(n: number, runs: number): { ours: number; baseline: number } {
+  const nAst = Math.round((2 * n) / 3);
+  const one = star('Brisa-9', 15, 'J2021.4', 0.9, 130, 225, 65, nAst, n - nAst, 31, 0.5);
+  const whole = (coarseEpochs: number) => {
+    const req = checkRequest({ stars: [one] });
+    assemble(solveStar(req, req.stars[0]!, true, true, 'analytic', coarseEpochs), req, 'analytic');
+  };
+  return bestOfPair(
+    runs,
+    () => whole(COARSE_EPOCHS),
+    () => whole(Infinity),
+  );
 }
 
 export async function run(): Promise<string[]> {
@@ -101,7 +131,11 @@ export async function run(): Promise<string[]> {
     () => solve(reqJoint, 'analytic'),
     () => solve(reqJoint, 'finite-difference'),
   );
+  const tenK = large(10_000, 2);
+  const hundredK = large(100_000, 1);
   return [
+    benchLine('fit-10k', tenK.ours, 's', tenK.baseline / tenK.ours, 'full-search'),
+    benchLine('fit-100k', hundredK.ours, 's', hundredK.baseline / hundredK.ours, 'full-search'),
     benchLine('fit', whole.ours * 1e3, 'ms', whole.baseline / whole.ours, 'finite-difference-lm'),
     benchLine('fit-lm', lm.ours * 1e3, 'ms', lm.baseline / lm.ours, 'finite-difference-lm'),
     benchLine(
