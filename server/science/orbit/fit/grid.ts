@@ -15,7 +15,7 @@ import {
   twoUnknowns,
   withFrame,
 } from './grid-kernels.ts';
-import type { Observation } from './measurements.ts';
+import { epochExtent, type Observation } from './measurements.ts';
 
 const KAPPA = AU_KM / SECONDS_PER_DAY / 1000;
 
@@ -53,9 +53,7 @@ const E_NODES = [0, 0.15, 0.3, 0.45, 0.6, 0.7, 0.8, 0.87, 0.92, 0.95, 0.97];
 export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const ast = astrometryColumns(obs);
   const rv = obs.filter((m) => m.kind === 'radial-velocity');
-  const all = obs.map((m) => m.jd);
-  const t0 = Math.min(...all),
-    t1 = Math.max(...all);
+  const { first: t0, last: t1 } = epochExtent(obs.map((m) => m.jd));
   const span = Math.max(t1 - t0, 1e-3);
   const tRef = 0.5 * (t0 + t1);
   const nLin = 2 + (o.frameOffset ? 1 : 0) + (o.frameDrift ? 1 : 0);

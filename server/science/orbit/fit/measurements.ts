@@ -112,3 +112,17 @@ export function readMeasurements(list: unknown, prefix: string): Observation[] {
 export function componentCount(o: Observation): number {
   return kindComponents(o.kind);
 }
+
+/**
+ * The first and last of some epochs (JD), by a loop: spreading 10⁵ values into Math.min/max
+ * overflows the call stack, and fits take up to 200,000 measurements.
+ */
+export function epochExtent(jd: Iterable<number>): { first: number; last: number } {
+  let first = Infinity,
+    last = -Infinity;
+  for (const t of jd) {
+    if (t < first) first = t;
+    if (t > last) last = t;
+  }
+  return { first, last };
+}

@@ -4,7 +4,7 @@
  * residuals per measurement with outliers flagged, and per star an OrbitInput with its covariance
  * that can be stored as a new orbit-solution version.
  */
-import { componentCount } from './measurements.ts';
+import { componentCount, epochExtent } from './measurements.ts';
 import { DEG } from '../../constants.ts';
 import { jdToIso } from '../../time/index.ts';
 import { COVARIANCE_PARAMETERS, type CovarianceParameter, type OrbitInput } from '../types.ts';
@@ -95,7 +95,7 @@ export function quantityGradients(sol: Solution, k: number, cycle: number): Floa
 
 /** Derived dates count from the request's asOf, or from the latest epoch. */
 export function asOfJdOf(sol: Solution, req: CheckedRequest): number {
-  return req.asOfJd ?? Math.max(...sol.L.stars.flatMap((s) => Array.from(s.jd)));
+  return req.asOfJd ?? epochExtent(sol.L.stars.flatMap((s) => Array.from(s.jd))).last;
 }
 
 export function assemble(sol: Solution, req: CheckedRequest, derivatives: string): FitResult {

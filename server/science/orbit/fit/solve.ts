@@ -3,7 +3,7 @@
  * several stars) the joint fit that shares the mass, the distance, γ and the frame, started from
  * the single-star solutions. Returns the minimum and its covariance; result.ts dresses it up.
  */
-import { componentCount, type Observation } from './measurements.ts';
+import { componentCount, epochExtent, type Observation } from './measurements.ts';
 import { JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { campbellToThieleInnes, thieleInnesToCampbell } from '../elements.ts';
 import { massSolar, semiMajorAxisAu } from '../physical.ts';
@@ -113,8 +113,8 @@ function refuseEarly(star: CheckedStar, ownParams: number): void {
       [star.name],
     );
   }
-  const jd = ast.map((m) => m.jd);
-  const span = Math.max(...jd) - Math.min(...jd);
+  const { first, last } = epochExtent(ast.map((m) => m.jd));
+  const span = last - first;
   const pMin = star.hints.periodYears ? star.hints.periodYears.min * JULIAN_YEAR_DAYS : 1;
   if (!(span >= 1e-3 * pMin)) {
     throw new FitRefusal(
@@ -304,16 +304,20 @@ export function startFromNode(b: Built, node: GridNode): Float64Array {
 export const COARSE_EPOCHS = 1500;
 
 /**
- * About `size` measurements spread evenly in time, each kind (astrometry, radial velocity) in
- * proportion to its share and with at least a few of each, so the subset has the full set's layout.
+ * About `size` measurements spread evenly in time, each kind of each body (astrometry, velocities
+ * of the relative orbit, the primary, the secondary) in proportion to its share and with at least
+ * a few of each, so the subset has the full set's layout.
  */
 export function thinned(obs: Observation[], size: number): Observation[] {
-  const byTime = (xs: Observation[]) => [...xs].sort((a, b) => a.jd - b.jd);
-  const groups = [
-    byTime(obs.filter((m) => m.kind !== 'radial-velocity')),
-    byTime(obs.filter((m) => m.kind === 'radial-velocity')),
-  ];
-  return groups.flatMap((g) => {
+  const groups = new Map<string, Observation[]>();
+  for (const m of obs) {
+    const key = m.kind === 'radial-velocity' ? `rv ${m.component}` : 'astrometry';
+    const g = groups.get(key);
+    if (g) g.push(m);
+    else groups.set(key, [m]);
+  }
+  return [...groups.values()].flatMap((g) => {
+    g.sort((a, b) => a.jd - b.jd);
     const k = Math.min(g.length, Math.max(Math.round((size * g.length) / obs.length), 20));
     return Array.from({ length: k }, (_, q) => g[Math.floor(((q + 0.5) * g.length) / k)]!);
   });
@@ -337,8 +341,8 @@ export function solveStar(
       `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`,
     );
   }
-  const jd = star.obs.map((m) => m.jd);
-  const span = Math.max(1, Math.max(...jd) - Math.min(...jd));
+  const { first, last } = epochExtent(star.obs.map((m) => m.jd));
+  const span = Math.max(1, last - first);
   const fixedVal = (key: string) => {
     const j = b.L.params.findIndex((p) => p.key === key);
     return j >= 0 && b.fixedMask[j] ? b.base[j]! : null;

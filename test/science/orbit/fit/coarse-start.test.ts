@@ -6,7 +6,12 @@
 import { describe, expect, it } from 'vitest';
 import { checkRequest } from '../../../../server/science/orbit/fit/request.ts';
 import { COARSE_EPOCHS, solveStar, thinned } from '../../../../server/science/orbit/fit/solve.ts';
-import { readMeasurements } from '../../../../server/science/orbit/fit/measurements.ts';
+import { COST_BOUNDS } from '../../../../server/jobs/cost.ts';
+import { FitRefusal, fitOrbits } from '../../../../server/science/orbit/fit/index.ts';
+import {
+  epochExtent,
+  readMeasurements,
+} from '../../../../server/science/orbit/fit/measurements.ts';
 import { SeededRandom } from '../../../../server/science/random.ts';
 import { epochs, simulate } from './simulate.ts';
 
@@ -42,6 +47,27 @@ function request(nAst: number, nRv: number) {
 }
 
 describe('the coarse start of a large fit', () => {
+  it('reads 200,000 epochs (the cost bound) without overflowing the stack', () => {
+    // All on one night: refused as single-phase, after the span of every epoch was taken.
+    const one = {
+      kind: 'offsets',
+      dRaMas: 1,
+      dDecMas: 2,
+      sigmaDRaMas: 1,
+      sigmaDDecMas: 1,
+    } as const;
+    const measurements = Array.from({ length: 200_000 }, (_, k) => ({
+      ...one,
+      epoch: 2460000.5 + k * 1e-9,
+    }));
+    expect(COST_BOUNDS.fitMeasurements).toBe(200_000);
+    expect(epochExtent(measurements.map((m) => m.epoch))).toEqual({
+      first: 2460000.5,
+      last: 2460000.5 + 199_999e-9,
+    });
+    expect(() => fitOrbits({ stars: [{ name: 'Vela-9', measurements }] })).toThrow(FitRefusal);
+  });
+
   it('keeps every kind and the whole time span in the subset', () => {
     const obs = readMeasurements(
       simulate(
