@@ -133,6 +133,26 @@ export const sites = sqliteTable('sites', {
   updatedAt: updated(),
 });
 
+/**
+ * A site's prior for each calendar month: the share of night time the user expects to be clear and
+ * how many nights of log that belief is worth (science/plan/site-statistics.ts combines it with the
+ * log). Replaced whole, one row per month that has one.
+ */
+export const siteClearPriors = sqliteTable(
+  'site_clear_priors',
+  {
+    siteId: integer('site_id')
+      .notNull()
+      .references(() => sites.id, { onDelete: 'cascade' }),
+    /** Calendar month, 1–12. */
+    month: integer('month').notNull(),
+    clearFraction: real('clear_fraction').notNull(),
+    strengthNights: real('strength_nights').notNull(),
+    updatedAt: updated(),
+  },
+  (t) => [primaryKey({ columns: [t.siteId, t.month] })],
+);
+
 export interface CampaignGoals {
   /** Wanted interval between epochs of a target, days. */
   cadenceDays: number;

@@ -10,6 +10,7 @@ import { NightView } from './views/night.tsx';
 import { ReportView } from './views/report.tsx';
 import { SeasonView } from './views/season.tsx';
 import { RecordsView } from './views/records.tsx';
+import { SiteView, SitesView } from './views/site.tsx';
 
 type Theme = 'night' | 'day';
 
@@ -20,6 +21,9 @@ function route(path: string) {
   if (report) return <ReportView nightId={Number(report.id)} />;
   const night = match('/nights/:id', path);
   if (night) return <NightView id={Number(night.id)} />;
+  const site = match('/sites/:id', path);
+  if (site) return <SiteView id={Number(site.id)} />;
+  if (match('/sites', path)) return <SitesView />;
   if (match('/season', path)) return <SeasonView />;
   if (match('/records', path)) return <RecordsView />;
   if (match('/', path)) return <OverviewView />;
@@ -89,6 +93,7 @@ export function App() {
   const nav = [
     ['/', 'Campaign'],
     ['/season', 'Season'],
+    ['/sites', 'Sites'],
     ['/records', 'Records'],
   ] as const;
   return (

@@ -32,20 +32,23 @@ export function optionalPositive(option: string, text: string | undefined): numb
   return x;
 }
 
+/** The text of the file an option names. @throws UsageError naming the option, the path and the system's code. */
+export function readTextFile(option: string, path: string): string {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (err) {
+    throw new UsageError(
+      `--${option}: cannot read file ${JSON.stringify(path)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
+    );
+  }
+}
+
 /** Read a JSON value from inline text (starts with `{` or `[`) or from a file path. */
 export function readJsonArg(option: string, text: string | undefined): unknown {
   if (text === undefined) throw new UsageError(`--${option} is required`);
   const trimmed = text.trim();
   let source = trimmed;
-  if (!trimmed.startsWith('{') && !trimmed.startsWith('[')) {
-    try {
-      source = readFileSync(trimmed, 'utf8');
-    } catch (err) {
-      throw new UsageError(
-        `--${option}: cannot read file ${JSON.stringify(trimmed)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
-      );
-    }
-  }
+  if (!trimmed.startsWith('{') && !trimmed.startsWith('[')) source = readTextFile(option, trimmed);
   try {
     return JSON.parse(source);
   } catch (err) {

@@ -32,6 +32,8 @@ export type { BlockFilter, BlockRow, NightFilter, NightRow } from './repos/night
 export type { OrbitSolutionFilter, OrbitSolutionRow } from './repos/orbits.ts';
 export type { NightReportFilter, NightReportRow, NightReportView } from './repos/reports.ts';
 export type { SiteRow } from './repos/sites.ts';
+export type { ClearPriorView, MonthPrior } from './repos/clear-priors.ts';
+export type { SiteStatisticsView } from './views/site-statistics.ts';
 export type { IssuedToken, TokenListing, UserRow } from './repos/users.ts';
 export { ACCEPT_AT_TOLERANCE_MINUTES } from './views/plan-scope.ts';
 export { NIGHT_CHOICES, type SeasonPlanRequest } from './views/season-plan.ts';
@@ -53,6 +55,7 @@ export {
 } from './csv/columns.ts';
 export { ImportRejected, type ImportReport } from './csv/import.ts';
 export { escapeFormulaCell } from './csv/cells.ts';
+export { CLEAR_PRIOR_COLUMNS, readClearPriorCsv } from './csv/clear-prior.ts';
 export type { PreparedMeasurements } from './csv/measurement-rows.ts';
 export { ephemerisCsv } from './exports/ephemeris.ts';
 export { measurementsCsv, type ExportedMeasurement } from './exports/measurements.ts';

@@ -17,6 +17,8 @@ import { targetForecast } from './views/forecast.ts';
 import { campaignFlags } from './views/planning.ts';
 import { acceptSeasonPlan, previewSeasonPlan } from './views/season-plan.ts';
 import { nightVisibility } from './views/visibility.ts';
+import { clearPriorOf, replaceClearPrior } from './repos/clear-priors.ts';
+import { siteStatisticsView } from './views/site-statistics.ts';
 
 // biome-ignore lint/suspicious/noExplicitAny: the first parameter is dropped, whatever its type
 type WithoutFirst<F> = F extends (first: any, ...rest: infer R) => infer O
@@ -50,6 +52,12 @@ export function createStore(database: Database) {
     allocations: {
       preview: bind(context, previewAllocations),
       accept: bind(context, acceptAllocations),
+    },
+    /** What a site's log has learned (loss per month by the Beta-prior rule, seeing, precision) and its priors. */
+    siteWeather: {
+      statistics: bind(db, siteStatisticsView),
+      prior: bind(db, clearPriorOf),
+      replacePrior: bind(db, replaceClearPrior),
     },
     /** The sky engine's night report for a stored night and its campaign's targets. */
     nightVisibility: bind(db, nightVisibility),

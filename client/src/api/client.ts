@@ -22,7 +22,7 @@ export class ApiError extends Error {
   }
 }
 
-type Method = 'get' | 'post' | 'patch' | 'delete';
+type Method = 'get' | 'post' | 'put' | 'patch' | 'delete';
 /** Paths that have an operation for the method. */
 type PathsWith<M extends Method> = {
   [P in keyof paths]: paths[P][M] extends undefined ? never : P;
@@ -96,6 +96,7 @@ const call =
 export const api = {
   GET: call('get'),
   POST: call('post'),
+  PUT: call('put'),
   PATCH: call('patch'),
   DELETE: call('delete'),
 };

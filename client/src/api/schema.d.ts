@@ -2857,6 +2857,305 @@ export interface paths {
         };
         trace?: never;
     };
+    "/sites/{id}/statistics": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Loss per month (Beta prior and log), seeing, Strehl ratio and achieved precision */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description first night (local evening date) */
+                    start?: string;
+                    /** @description last night */
+                    end?: string;
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description the statistics */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["SiteStatistics"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/sites/{id}/clear-prior": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** The site’s clear-night prior per calendar month */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description twelve months */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["ClearPrior"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        /** Replace the site’s clear-night prior (all months at once) */
+        put: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        /** @description the months that have a prior, each at most once; the rest are cleared */
+                        months: components["schemas"]["MonthPrior"][];
+                    };
+                };
+            };
+            responses: {
+                /** @description the stored prior */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["ClearPrior"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/campaigns": {
         parameters: {
             query?: never;
@@ -9036,6 +9335,112 @@ export interface components {
             id: number;
             createdAt: string;
             updatedAt?: string;
+        };
+        SiteStatistics: {
+            siteId: number;
+            site: string;
+            start: string | null;
+            end: string | null;
+            priors: components["schemas"]["MonthPrior"][];
+            months: components["schemas"]["MonthStatistics"][];
+            year: {
+                /** @description night reports it rests on */
+                nights: number;
+                /** @description allocated time: astronomical darkness, h */
+                darkHours: number;
+                lostHours: number;
+                /** @description Σ lost / Σ dark of the log alone; null without darkness */
+                loggedLossFraction: number | null;
+                loss: components["schemas"]["LossEstimate"];
+                /** @description 1 − the posterior loss: the weight a plan gives such a night */
+                clearProbability: number;
+                reasons: {
+                    reason: string;
+                    nights: number;
+                    hours: number;
+                }[];
+                seeingArcsec: components["schemas"]["Spread"];
+                strehlRatio: components["schemas"]["Spread"];
+            };
+            precision: components["schemas"]["AchievedPrecision"][];
+            /** @description the Beta-prior rule, in words */
+            rule: string;
+        };
+        MonthPrior: {
+            /** @description calendar month, 1–12 */
+            month: number;
+            /** @description expected share of clear night time, [0, 1] */
+            clearFraction: number;
+            /** @description how many nights of log the prior is worth, (0, 1000] */
+            strengthNights: number;
+        } | null;
+        MonthStatistics: {
+            month: number;
+            /** @description night reports it rests on */
+            nights: number;
+            /** @description allocated time: astronomical darkness, h */
+            darkHours: number;
+            lostHours: number;
+            /** @description Σ lost / Σ dark of the log alone; null without darkness */
+            loggedLossFraction: number | null;
+            loss: components["schemas"]["LossEstimate"];
+            /** @description 1 − the posterior loss: the weight a plan gives such a night */
+            clearProbability: number;
+            reasons: {
+                reason: string;
+                nights: number;
+                hours: number;
+            }[];
+            seeingArcsec: components["schemas"]["Spread"];
+            strehlRatio: components["schemas"]["Spread"];
+        };
+        LossEstimate: {
+            /** @description posterior mean share of allocated time lost */
+            mean: number;
+            /** @description posterior 1σ of that share */
+            sigma: number;
+            alpha: number;
+            beta: number;
+            /** @enum {string} */
+            prior: "user" | "flat";
+            /** @description nights of log it rests on */
+            nights: number;
+        };
+        /** @description median and quartiles, with the count they rest on */
+        Spread: {
+            n: number;
+            median: number;
+            q25: number;
+            q75: number;
+        } | null;
+        AchievedPrecision: {
+            instrument: string;
+            /** @enum {string} */
+            kind: "astrometry" | "spectroscopy";
+            /** @enum {string} */
+            unit: "mas" | "km/s";
+            n: number;
+            medianSigma: number;
+            /** @description bins of the night’s seeing, arcsec */
+            bySeeing: components["schemas"]["PrecisionBin"][];
+            byAirmass: components["schemas"]["PrecisionBin"][];
+            /** @description the zenith σ at the median seeing that σ ∝ seeing · X^0.6 implies (the planner’s precision model) */
+            zenith: {
+                sigma: number;
+                referenceSeeingArcsec: number;
+                n: number;
+            } | null;
+        };
+        PrecisionBin: {
+            low: number;
+            high: number | null;
+            n: number;
+            medianSigma: number | null;
+        };
+        ClearPrior: {
+            siteId: number;
+            /** @description twelve entries, January first; null where the site has none */
+            months: components["schemas"]["MonthPrior"][];
         };
         CampaignRow: {
             name: string;

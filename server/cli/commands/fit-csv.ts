@@ -3,10 +3,10 @@
  * writes and `epochwright import --kind measurements` reads (column names carry the units:
  * dRaMas, sigmaDRaMas, positionAngleDeg, radialVelocityKmS, …). One star per target name.
  */
-import { readFileSync } from 'node:fs';
 import { parse } from 'csv-parse/sync';
 import type { MeasurementInput, StarInput } from '../../science/orbit/fit/index.ts';
 import { MEASUREMENT_COLUMNS, NUMERIC } from '../../store/index.ts';
+import { readTextFile } from '../args.ts';
 import { UsageError } from '../io.ts';
 
 const REQUIRED = ['target', 'kind', 'epoch'];
@@ -64,13 +64,5 @@ export function starsFromCsv(text: string, source: string, only: string[] = []):
 }
 
 export function readStarsFile(path: string, only: string[]): StarInput[] {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (err) {
-    throw new UsageError(
-      `--file: cannot read ${JSON.stringify(path)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
-    );
-  }
-  return starsFromCsv(text, path, only);
+  return starsFromCsv(readTextFile('file', path), path, only);
 }

@@ -1,5 +1,4 @@
 /** `epochwright import`: a CSV of targets, orbit solutions or measurements, all rows or none. */
-import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import {
   COLUMNS,
@@ -9,6 +8,7 @@ import {
   REQUIRED_COLUMNS,
   type CsvKind,
 } from '../../store/index.ts';
+import { readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -51,14 +51,7 @@ export const importCommand: Command = {
     if (kind === undefined || !CSV_KINDS.includes(kind))
       throw new UsageError(`--kind must be one of ${CSV_KINDS.join(', ')}`);
     if (values.file === undefined) throw new UsageError('--file is required');
-    let text: string;
-    try {
-      text = readFileSync(values.file, 'utf8');
-    } catch (err) {
-      throw new UsageError(
-        `--file: cannot read ${JSON.stringify(values.file)} (${(err as NodeJS.ErrnoException).code ?? 'error'})`,
-      );
-    }
+    const text = readTextFile('file', values.file);
     const dryRun = values['check-only'] ?? false;
     try {
       const report = await withStore(values.database, (store) =>

@@ -14,6 +14,7 @@ import { planSeasonCommand } from './plan-season.ts';
 import { fitCommand } from './fit.ts';
 import { forecastCommand } from './forecast.ts';
 import { sitePrecisionCommand } from './site-precision.ts';
+import { siteStatisticsCommand } from './site-statistics.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
@@ -30,4 +31,5 @@ export const commands: Record<string, Command> = {
   fit: fitCommand,
   forecast: forecastCommand,
   'site-precision': sitePrecisionCommand,
+  'site-statistics': siteStatisticsCommand,
 };

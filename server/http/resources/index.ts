@@ -15,6 +15,7 @@ import { nightScheduleRoutes } from './night-schedule.ts';
 import { planRoutes } from './plan.ts';
 import { seasonPlanRoutes } from './season-plan.ts';
 import { siteRoutes } from './sites.ts';
+import { siteStatisticsRoutes } from './site-statistics.ts';
 import { systemRoutes, targetRoutes } from './systems.ts';
 import { targetViewRoutes } from './target-views.ts';
 import { userRoutes } from './users.ts';
@@ -33,6 +34,7 @@ export function storeRoutes(store: Store, run: Runner) {
     targetViewRoutes,
     orbitSolutionRoutes,
     siteRoutes,
+    siteStatisticsRoutes,
     campaignRoutes,
     allocationRoutes,
     nightRoutes,

@@ -28,11 +28,14 @@ import type { StoreContext } from '../context.ts';
 import type { SiteRow } from '../repos/sites.ts';
 import type { MeasurementRow } from '../repos/measurements.ts';
 import { toInput } from '../fits.ts';
+import { replaceClearPriorIn } from '../repos/clear-priors.ts';
 import {
   DEMO_DAYS,
   HEADLINE,
   INSTRUMENTS,
   SITES,
+  DEMO_CLEAR_PRIORS,
+  DEMO_PRIOR_STRENGTH,
   VESPER_STARS,
   demoAnchor,
   lanternOrbit,
@@ -153,6 +156,17 @@ export async function loadDemo(
       });
     const sites = [];
     for (const s of SITES) sites.push(await store.sites.createIn(tx, actor, s));
+    for (const [i, site] of sites.entries())
+      await replaceClearPriorIn(
+        tx,
+        actor,
+        site.id,
+        DEMO_CLEAR_PRIORS[i]!.map((clearFraction, m) => ({
+          month: m + 1,
+          clearFraction,
+          strengthNights: DEMO_PRIOR_STRENGTH,
+        })),
+      );
     const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
     const ctx = { store, tx, actor, rnd, made, counts, anchor };
     for (const plan of demoPlans(anchor, campaigns, stars, lanternB))

@@ -267,6 +267,17 @@ export const SITES = [
   },
 ];
 
+/**
+ * Invented clear-night priors per calendar month (January first), one list per site of SITES, each
+ * month worth DEMO_PRIOR_STRENGTH nights: a drier southern summer at Tolvane Ridge, a summer rainy
+ * season at Ostrel Summit.
+ */
+export const DEMO_CLEAR_PRIORS = [
+  [0.85, 0.8, 0.8, 0.75, 0.65, 0.6, 0.6, 0.65, 0.75, 0.8, 0.85, 0.85],
+  [0.8, 0.8, 0.85, 0.9, 0.85, 0.6, 0.45, 0.45, 0.55, 0.75, 0.8, 0.8],
+] as const;
+export const DEMO_PRIOR_STRENGTH = 8;
+
 /** Invented instrument labels. */
 export const INSTRUMENTS = {
   imager: 'AO imager (demo)',

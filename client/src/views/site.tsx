@@ -1,0 +1,326 @@
+/**
+ * A site's page: what its log has learned per calendar month (share of time lost, the clear chance a
+ * plan uses, seeing, Strehl ratio, reasons, each with the nights it rests on), a month ribbon
+ * drawing the same, the precision its measurements reached, and the clear-night prior (a lead
+ * edits it). Server: GET /sites/{id}/statistics, GET and PUT /sites/{id}/clear-prior.
+ */
+import { useState } from 'preact/hooks';
+import { api, fieldMessages, type Schemas } from '../api/client.ts';
+import { ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
+import { useAction } from '../lib/use-action.ts';
+import { useLoad } from '../lib/use-load.ts';
+
+type Stats = Schemas['SiteStatistics'];
+type Month = Stats['months'][number];
+const MONTHS = 'Jan Feb Mar Apr May Jun Jul Aug Sep Oct Nov Dec'.split(' ');
+const pct = (x: number | null | undefined) =>
+  x === null || x === undefined ? '–' : `${(100 * x).toFixed(0)} %`;
+
+/**
+ * Twelve month tiles: the tile's lower part filled to the clear chance, a tick at the log's own
+ * clear share where there is one, the ±1σ of the estimate as a bracket, and the nights below.
+ */
+function MonthRibbon({ months }: { months: Month[] }) {
+  const w = 44,
+    h = 90,
+    gap = 6;
+  const y = (clear: number) => 8 + (1 - clear) * (h - 16);
+  return (
+    <svg
+      class="month-ribbon"
+      viewBox={`0 0 ${12 * (w + gap)} ${h + 34}`}
+      role="img"
+      aria-labelledby="month-ribbon-title"
+    >
+      <title id="month-ribbon-title">
+        Chance a night is clear per month, with its ±1σ and the nights logged
+      </title>
+      {months.map((m, i) => {
+        const x = i * (w + gap);
+        const c = m.clearProbability;
+        const lo = Math.max(0, c - m.loss.sigma),
+          hi = Math.min(1, c + m.loss.sigma);
+        const logged = m.loggedLossFraction === null ? null : 1 - m.loggedLossFraction;
+        return (
+          <g key={m.month} data-month={m.month}>
+            <rect class="tile" x={x} y={8} width={w} height={h - 16} rx={3} />
+            <rect
+              class={`clear ${m.loss.nights === 0 ? 'prior-only' : ''}`}
+              x={x}
+              y={y(c)}
+              width={w}
+              height={h - 8 - y(c)}
+              rx={3}
+            />
+            <path class="sigma" d={`M${x + w - 8} ${y(hi)}h6V${y(lo)}h-6`} />
+            {logged !== null && <path class="logged" d={`M${x + 4} ${y(logged)}h${w - 14}`} />}
+            <text class="pct" x={x + w / 2} y={y(c) - 2 < 16 ? 20 : y(c) - 3}>
+              {(100 * c).toFixed(0)}
+            </text>
+            <text class="month" x={x + w / 2} y={h + 8}>
+              {MONTHS[m.month - 1]}
+            </text>
+            <text class="n" x={x + w / 2} y={h + 24}>
+              {m.nights} n
+            </text>
+          </g>
+        );
+      })}
+    </svg>
+  );
+}
+
+function PriorForm({
+  siteId,
+  stats,
+  onSaved,
+}: {
+  siteId: number;
+  stats: Stats;
+  onSaved: () => void;
+}) {
+  const [values, setValues] = useState(() =>
+    stats.priors.map((p) => (p ? String(p.clearFraction) : '')),
+  );
+  const [strength, setStrength] = useState(
+    String(stats.priors.find((p) => p !== null)?.strengthNights ?? 10),
+  );
+  const { busy, error, run } = useAction();
+  const messages = fieldMessages(error);
+  return (
+    <form
+      class="prior-form"
+      onSubmit={(e) => {
+        e.preventDefault();
+        void run(async () => {
+          const months = values.flatMap((v, i) =>
+            v.trim() === ''
+              ? []
+              : [{ month: i + 1, clearFraction: Number(v), strengthNights: Number(strength) }],
+          );
+          await api.PUT('/sites/{id}/clear-prior', {
+            params: { path: { id: siteId } },
+            body: { months },
+          });
+          onSaved();
+        });
+      }}
+    >
+      <p class="muted">
+        The share of night time you expect to be clear in each month (0 to 1; leave a month empty
+        for none), and how many nights of log that belief is worth.
+      </p>
+      <div class="prior-months">
+        {values.map((v, i) => (
+          <label key={MONTHS[i]}>
+            {MONTHS[i]}
+            <input
+              name={`clear-${i + 1}`}
+              inputMode="decimal"
+              size={4}
+              value={v}
+              onInput={(e) => {
+                const next = [...values];
+                next[i] = e.currentTarget.value;
+                setValues(next);
+              }}
+            />
+          </label>
+        ))}
+      </div>
+      <label>
+        worth (nights){' '}
+        <input
+          name="strength"
+          inputMode="decimal"
+          size={4}
+          value={strength}
+          onInput={(e) => setStrength(e.currentTarget.value)}
+        />
+      </label>{' '}
+      <button type="submit" disabled={busy}>
+        Save the prior
+      </button>
+      {Object.entries(messages).map(([field, text]) => (
+        <p class="error-line" key={field}>
+          {field}: {text}
+        </p>
+      ))}
+      {Object.keys(messages).length === 0 && <ErrorLine error={error} />}
+    </form>
+  );
+}
+
+export function SiteView({ id }: { id: number }) {
+  const { data, error, reload } = useLoad(
+    () => api.GET('/sites/{id}/statistics', { params: { path: { id } } }),
+    [id],
+  );
+  const lead = useCan('lead');
+  if (error) return <ErrorLine error={error} />;
+  if (!data) return <Loading what="the site’s statistics" />;
+  const y = data.year;
+  return (
+    <div class="site-view">
+      <h1>{data.site}</h1>
+      <p class="site-summary">
+        {y.nights} night reports: {y.lostHours.toFixed(1)} of {y.darkHours.toFixed(1)} dark hours
+        lost ({pct(y.loggedLossFraction)}); over the year a night is clear with chance{' '}
+        {pct(y.clearProbability)} ± {pct(y.loss.sigma)}.
+      </p>
+      <Section title="Clear nights by month" id="site-months">
+        <MonthRibbon months={data.months} />
+        <p class="muted legend">
+          Filled: the chance a night is clear (what a weather-aware plan weighs each night by); bar:
+          the log’s own clear share; bracket: ±1σ; hollow tiles rest on the prior alone. Rule:{' '}
+          {data.rule}.
+        </p>
+        <table class="data site-months">
+          <thead>
+            <tr>
+              <th>month</th>
+              <th>nights</th>
+              <th>dark</th>
+              <th>lost</th>
+              <th>lost (log)</th>
+              <th>loss (estimate ± 1σ)</th>
+              <th>prior</th>
+              <th>seeing (median, quartiles)</th>
+              <th>Strehl ratio</th>
+              <th>time lost to</th>
+            </tr>
+          </thead>
+          <tbody>
+            {data.months.map((m) => (
+              <tr key={m.month}>
+                <td>{MONTHS[m.month - 1]}</td>
+                <td>{m.nights}</td>
+                <td>
+                  <Qty v={m.darkHours} unit="h" />
+                </td>
+                <td>
+                  <Qty v={m.lostHours} unit="h" />
+                </td>
+                <td>{pct(m.loggedLossFraction)}</td>
+                <td>
+                  {pct(m.loss.mean)} ± {pct(m.loss.sigma)}
+                </td>
+                <td>
+                  {m.loss.prior === 'user'
+                    ? `clear ${pct(data.priors[m.month - 1]?.clearFraction)}, worth ${data.priors[m.month - 1]?.strengthNights} n`
+                    : 'flat'}
+                </td>
+                <td>
+                  {m.seeingArcsec
+                    ? `${m.seeingArcsec.median.toFixed(2)}″ (${m.seeingArcsec.q25.toFixed(2)}–${m.seeingArcsec.q75.toFixed(2)}, ${m.seeingArcsec.n} n)`
+                    : '–'}
+                </td>
+                <td>
+                  {m.strehlRatio
+                    ? `${m.strehlRatio.median.toFixed(2)} (${m.strehlRatio.n} n)`
+                    : '–'}
+                </td>
+                <td>
+                  {m.reasons
+                    .map((r) => `${r.reason}: ${r.hours.toFixed(1)} h, ${r.nights} n`)
+                    .join('; ') || '–'}
+                </td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+      </Section>
+      <Section title="Precision reached" id="site-precision">
+        {data.precision.length === 0 ? (
+          <p class="muted">No measurement is linked to a block at this site yet.</p>
+        ) : (
+          <table class="data site-precision">
+            <thead>
+              <tr>
+                <th>instrument</th>
+                <th>kind</th>
+                <th>measurements</th>
+                <th>median σ</th>
+                <th>by seeing</th>
+                <th>by airmass</th>
+                <th>implied zenith σ</th>
+              </tr>
+            </thead>
+            <tbody>
+              {data.precision.map((p) => (
+                <tr key={`${p.kind} ${p.instrument}`}>
+                  <td>{p.instrument}</td>
+                  <td>{p.kind}</td>
+                  <td>{p.n}</td>
+                  <td>
+                    <Qty v={p.medianSigma} unit={p.unit} digits={2} />
+                  </td>
+                  <td>
+                    {p.bySeeing
+                      .filter((b) => b.n > 0)
+                      .map(
+                        (b) => `${b.low}–${b.high ?? ''}″: ${b.medianSigma?.toFixed(2)} (${b.n})`,
+                      )
+                      .join('; ')}
+                  </td>
+                  <td>
+                    {p.byAirmass
+                      .filter((b) => b.n > 0)
+                      .map((b) => `${b.low}–${b.high ?? ''}: ${b.medianSigma?.toFixed(2)} (${b.n})`)
+                      .join('; ')}
+                  </td>
+                  <td>
+                    {p.zenith
+                      ? `${p.zenith.sigma.toFixed(2)} ${p.unit} at ${p.zenith.referenceSeeingArcsec.toFixed(2)}″ seeing (${p.zenith.n})`
+                      : 'needs seeing in the night reports'}
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        )}
+        <p class="muted">
+          Implied zenith σ: the median of σ scaled to the zenith (X^0.6) and to the median seeing —
+          the planner’s precision model, read back from what was reached.
+        </p>
+      </Section>
+      <Section title="Clear-night prior" id="site-prior">
+        {lead ? (
+          <PriorForm siteId={id} stats={data} onSaved={reload} />
+        ) : (
+          <p class="muted">
+            {data.priors.some((p) => p !== null)
+              ? data.priors
+                  .map((p, i) => (p ? `${MONTHS[i]} ${pct(p.clearFraction)}` : null))
+                  .filter(Boolean)
+                  .join(' · ')
+              : 'No prior: each month starts from a flat one.'}{' '}
+            A lead can change it.
+          </p>
+        )}
+      </Section>
+    </div>
+  );
+}
+
+/** Every site, each linking to its page. */
+export function SitesView() {
+  const { data, error } = useLoad(() => api.GET('/sites', { params: { query: {} } }), []);
+  if (error) return <ErrorLine error={error} />;
+  if (!data) return <Loading what="the sites" />;
+  return (
+    <Section title="Sites" id="sites">
+      <ul class="site-list">
+        {data.items.map((s) => (
+          <li key={s.id}>
+            <a href={`/sites/${s.id}`}>{s.name}</a>{' '}
+            <span class="muted">
+              {s.latitudeDeg.toFixed(2)}°, {s.longitudeDeg.toFixed(2)}°, {s.elevationM} m ·{' '}
+              {s.timeZone}
+            </span>
+          </li>
+        ))}
+      </ul>
+    </Section>
+  );
+}

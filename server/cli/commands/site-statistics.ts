@@ -1,0 +1,111 @@
+/** `epochwright site-statistics`: what a site's log has learned per month, and setting its clear-night prior. */
+import { parseArgs } from 'node:util';
+import { LOCAL_OPERATOR, readClearPriorCsv, type SiteStatisticsView } from '../../store/index.ts';
+import { optionalPositive, outputFormat, positiveId, readTextFile } from '../args.ts';
+import { UsageError, type Command } from '../io.ts';
+import { formatTable, render, type Column } from '../output.ts';
+import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+
+const help = `usage: epochwright site-statistics --site <id> [--start <date>] [--end <date>]
+                                  [--set-prior <file.csv> [--strength <nights>]] [--json | --csv]
+
+Per calendar month, from the site's night reports (every campaign): nights logged, dark hours,
+hours lost and the share lost, the loss estimated by the Beta-prior rule (the month's clear-night
+prior worth s nights, or a flat prior, updated by each night's lost share), the chance a night is
+clear (the weight a weather-aware plan gives it), the median seeing and Strehl ratio, and the main
+reason for lost time. Then the precision the site's measurements reached, per instrument and kind,
+with the zenith value the planner's precision model implies. Every figure says how many nights or
+measurements it rests on.
+
+options:
+  --site <id>              the site
+  --start, --end <date>    nights (local evening dates, YYYY-MM-DD) to read; default all
+  --set-prior <file.csv>   first replace the site's clear-night prior: columns month, clear_fraction
+                           and optionally strength_nights (months left out have none)
+  --strength <nights>      weight of rows without strength_nights; default 10
+${DATABASE_HELP}
+  --json | --csv           machine-readable output instead of tables
+`;
+
+type Month = SiteStatisticsView['months'][number];
+const pct = (x: number | null) => (x === null ? null : 100 * x);
+const MONTHS = 'Jan Feb Mar Apr May Jun Jul Aug Sep Oct Nov Dec'.split(' ');
+
+const monthColumns: Column<Month>[] = [
+  { header: 'month', value: (m) => MONTHS[m.month - 1] },
+  { header: 'nights', value: (m) => m.nights, digits: 0 },
+  { header: 'dark_h', value: (m) => m.darkHours, digits: 1 },
+  { header: 'lost_h', value: (m) => m.lostHours, digits: 1 },
+  { header: 'lost_log_%', value: (m) => pct(m.loggedLossFraction), digits: 0 },
+  { header: 'loss_%', value: (m) => pct(m.loss.mean), digits: 0 },
+  { header: 'loss_sigma_%', value: (m) => pct(m.loss.sigma), digits: 0 },
+  { header: 'prior', value: (m) => m.loss.prior },
+  { header: 'clear_%', value: (m) => pct(m.clearProbability), digits: 0 },
+  { header: 'seeing_arcsec', value: (m) => m.seeingArcsec?.median ?? null, digits: 2 },
+  { header: 'strehl', value: (m) => m.strehlRatio?.median ?? null, digits: 2 },
+  {
+    header: 'main_loss_reason',
+    value: (m) => (m.reasons[0] ? `${m.reasons[0].reason} (${m.reasons[0].nights} n)` : ''),
+  },
+];
+
+type Achieved = SiteStatisticsView['precision'][number];
+const precisionColumns: Column<Achieved>[] = [
+  { header: 'instrument', value: (p) => p.instrument },
+  { header: 'kind', value: (p) => p.kind },
+  { header: 'n', value: (p) => p.n, digits: 0 },
+  { header: 'median_sigma', value: (p) => `${p.medianSigma.toFixed(3)} ${p.unit}` },
+  {
+    header: 'zenith_sigma',
+    value: (p) =>
+      p.zenith
+        ? `${p.zenith.sigma.toFixed(3)} ${p.unit} at ${p.zenith.referenceSeeingArcsec.toFixed(2)}″ (${p.zenith.n})`
+        : 'no seeing logged',
+  },
+];
+
+export const siteStatisticsCommand: Command = {
+  summary: 'what a site’s log has learned: time lost per month, seeing, precision reached',
+  help,
+  async run(argv) {
+    const { values } = parseArgs({
+      args: argv,
+      options: {
+        ...databaseOption,
+        site: { type: 'string' },
+        start: { type: 'string' },
+        end: { type: 'string' },
+        'set-prior': { type: 'string' },
+        strength: { type: 'string' },
+        json: { type: 'boolean' },
+        csv: { type: 'boolean' },
+      },
+      strict: true,
+      allowPositionals: false,
+    });
+    const format = outputFormat(values);
+    const id = positiveId('site', values.site);
+    const strength = optionalPositive('strength', values.strength) ?? 10;
+    if (values.strength !== undefined && values['set-prior'] === undefined)
+      throw new UsageError('--strength goes with --set-prior');
+    const prior =
+      values['set-prior'] === undefined
+        ? null
+        : readClearPriorCsv(readTextFile('set-prior', values['set-prior']), strength);
+    const stats = await withStore(values.database, async (store) => {
+      if (prior) await store.siteWeather.replacePrior(LOCAL_OPERATOR, id, prior);
+      return store.siteWeather.statistics(id, { start: values.start, end: values.end });
+    });
+    if (format !== 'table') return render(format, stats.months, monthColumns, stats);
+    const year = stats.year;
+    return [
+      `${stats.site}: ${year.nights} night reports, ${year.lostHours.toFixed(1)} of ${year.darkHours.toFixed(1)} dark hours lost; loss over the year ${(100 * year.loss.mean).toFixed(0)} % ± ${(100 * year.loss.sigma).toFixed(0)} %`,
+      `rule: ${stats.rule}`,
+      '',
+      formatTable(stats.months, monthColumns),
+      stats.precision.length
+        ? formatTable(stats.precision, precisionColumns)
+        : 'no measurements linked to this site’s blocks\n',
+    ].join('\n');
+  },
+};
