@@ -45,6 +45,8 @@ export const tokens = sqliteTable('tokens', {
   label: text('label').notNull(),
   createdAt: created(),
   revokedAt: text('revoked_at'),
+  /** A read-only token that opens one campaign's calendar feed and nothing else (null: a user's token). */
+  feedCampaignId: integer('feed_campaign_id').references(() => campaigns.id),
 });
 
 export const systems = sqliteTable('systems', {
@@ -112,6 +114,10 @@ export const sites = sqliteTable('sites', {
   longitudeDeg: real('longitude_deg').notNull(),
   elevationM: real('elevation_m').notNull(),
   timeZone: text('time_zone').notNull(),
+  /** The longitude and the zone disagree by more than a few hours, and a lead confirmed it is meant. */
+  longitudeZoneConfirmed: integer('longitude_zone_confirmed', { mode: 'boolean' })
+    .notNull()
+    .default(false),
   lowestAltitudeDeg: real('lowest_altitude_deg').notNull().default(30),
   leastSunDistanceDeg: real('least_sun_distance_deg').notNull().default(45),
   pressureHpa: real('pressure_hpa'),

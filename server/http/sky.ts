@@ -24,13 +24,24 @@ import { computeErrorResponses as errors, json } from './schemas/responses.ts';
 import { NightReportSchema, SeasonReportSchema } from './schemas/sky-output.ts';
 import { validationHook } from './validation.ts';
 
+/** A coordinate: degrees as a JSON number, or text in a form of README's "Input forms" (read by the sky engine). */
+const numberOrText = z.union([z.number(), z.string()]);
+
 export const SiteSchema = z
   .object({
     name: z.string().optional(),
-    latitudeDeg: z.number().openapi({ description: 'geodetic latitude, degrees, north positive' }),
-    longitudeDeg: z.number().openapi({ description: 'longitude, degrees east' }),
+    latitudeDeg: numberOrText.openapi({
+      description: 'geodetic latitude, degrees, north positive; a number or text (-24:37:38)',
+    }),
+    longitudeDeg: numberOrText.openapi({
+      description: 'longitude, degrees east; a number or text (-70°24′10″)',
+    }),
     elevationM: z.number().openapi({ description: 'height above sea level, m' }),
     timeZone: z.string().openapi({ description: 'IANA time zone', example: 'America/Santiago' }),
+    longitudeZoneConfirmed: z.boolean().optional().openapi({
+      description:
+        'the longitude and the zone disagree by more than 3 h, and that is meant (otherwise refused with the likely correction)',
+    }),
     pressureHpa: z.number().optional().openapi({
       description:
         'air pressure, hPa (default: standard atmosphere at the elevation; 0: no refraction)',
@@ -61,10 +72,13 @@ export const SiteSchema = z
 export const SkyTargetSchema = z
   .object({
     name: z.string(),
-    raDeg: z.number().openapi({
-      description: "ICRS right ascension at epoch, degrees (the primary's when an orbit is given)",
+    raDeg: numberOrText.openapi({
+      description:
+        "ICRS right ascension at epoch (the primary's when an orbit is given): degrees as a number, or text (250.3, 16.69 h, 16:41:12.5 in hours)",
     }),
-    decDeg: z.number().openapi({ description: 'ICRS declination at epoch, degrees' }),
+    decDeg: numberOrText.openapi({
+      description: 'ICRS declination at epoch: degrees as a number, or text (-26.69, -26:41:12)',
+    }),
     pmRaMasYr: z
       .number()
       .optional()

@@ -118,7 +118,7 @@ describe('POST /api/sky/night', () => {
       expect(e.error.details.rule.length).toBeGreaterThan(5);
     }
     const bad = await post('/api/sky/night', {
-      site: { ...site, latitudeDeg: 'south' },
+      site: { ...site, latitudeDeg: true },
       date: '2027-06-15',
       targets,
     });

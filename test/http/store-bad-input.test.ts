@@ -42,11 +42,11 @@ function cases(f: Fixture): Case[] {
       field: 'name',
     },
     {
-      name: 'system with a text right ascension',
+      name: 'system with a right ascension past 24 h',
       role: 'lead',
       method: 'POST',
       path: '/api/systems',
-      body: { name: 'A', raDeg: '17h', decDeg: 2 },
+      body: { name: 'A', raDeg: '25:00:00', decDeg: 2 },
       status: 400,
       field: 'raDeg',
     },

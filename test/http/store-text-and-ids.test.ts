@@ -281,6 +281,79 @@ describe.each(BACKENDS)('text, ids and epochs on $name', (backend) => {
     }
   });
 
+  it('reads coordinates as typed in stored systems and sites, and in the sky endpoints', async () => {
+    // (16 + 41/60 + 12.5/3600) × 15 = 250.3020833…°, −(26 + 41/60 + 12/3600) = −26.6866…°
+    // (sexagesimal arithmetic, common practice, no source)
+    const res = await f.call('lead', 'POST', '/api/systems', {
+      name: 'Typed Core',
+      raDeg: '16:41:12.5',
+      decDeg: '-26°41′12″',
+    });
+    const sys = (await res.json()) as { id: number; raDeg: number; decDeg: number };
+    expect(res.status).toBe(201);
+    expect(sys.raDeg).toBeCloseTo(250.3020833333, 9);
+    expect(sys.decDeg).toBeCloseTo(-26.6866666667, 9);
+    const patched = await f.call('lead', 'PATCH', `/api/systems/${sys.id}`, { raDeg: '16.69h' });
+    expect(((await patched.json()) as { raDeg: number }).raDeg).toBeCloseTo(250.35, 10);
+    await refused(
+      'POST',
+      '/api/systems',
+      { name: 'Comma', raDeg: '250,3', decDeg: 1 },
+      'raDeg',
+      /use a decimal point: 250\.3/,
+    );
+
+    const site = { name: 'Sign Slip', latitudeDeg: '-31:30:00', elevationM: 2400 };
+    // +68.93° in America/Argentina/San_Juan (UTC−3): the report's wrong-signed longitude
+    await refused(
+      'POST',
+      '/api/sites',
+      { ...site, longitudeDeg: 68.93, timeZone: 'America/Argentina/San_Juan' },
+      'longitudeDeg',
+      /likely correction: longitude -68\.9300°/,
+    );
+    await refused(
+      'POST',
+      '/api/sites',
+      { ...site, longitudeDeg: -68.93, timeZone: 'America/Argentina/SanJuan' },
+      'timeZone',
+      /nearest valid names: \W{1,3}America\/Argentina\/San_Juan/,
+    );
+    const kept = await f.call('lead', 'POST', '/api/sites', {
+      ...site,
+      longitudeDeg: '-68d55m48s',
+      timeZone: 'America/Argentina/San_Juan',
+    });
+    const row = (await kept.json()) as { id: number; latitudeDeg: number; longitudeDeg: number };
+    expect(kept.status).toBe(201);
+    expect([row.latitudeDeg, row.longitudeDeg]).toEqual([-31.5, -(68 + 55 / 60 + 48 / 3600)]);
+    // a confirmed mismatch is stored as such, and a later patch of another field keeps it
+    const confirmed = await f.call('lead', 'POST', '/api/sites', {
+      ...site,
+      name: 'Far Clock',
+      longitudeDeg: 68.93,
+      timeZone: 'America/Argentina/San_Juan',
+      longitudeZoneConfirmed: true,
+    });
+    expect(confirmed.status).toBe(201);
+    const later = await f.call(
+      'lead',
+      'PATCH',
+      `/api/sites/${((await confirmed.json()) as { id: number }).id}`,
+      {
+        notes: 'keeps the capital’s clock',
+      },
+    );
+    expect(later.status).toBe(200);
+
+    const night = await f.call('viewer', 'POST', '/api/sky/night', {
+      site: { ...site, longitudeDeg: '-68:55:48', timeZone: 'America/Argentina/San_Juan' },
+      date: '2027-06-15',
+      targets: [{ name: 'typed', raDeg: '17:45:40', decDeg: '-29:00:28' }],
+    });
+    expect(night.status, await night.clone().text()).toBe(200);
+  });
+
   it('refuses to revoke the last active token of any lead, and allows it once another exists', async () => {
     const [own] = await f.store.users.listTokens('lead one');
     const before = await tableCounts(f.store);

@@ -588,10 +588,10 @@ export interface paths {
                 content: {
                     "application/json": {
                         name: string;
-                        /** @description ICRS right ascension of the primary, degrees [0, 360) */
-                        raDeg: number;
-                        /** @description ICRS declination of the primary, degrees */
-                        decDeg: number;
+                        /** @description ICRS right ascension of the primary: degrees [0, 360) as a number, or text (250.3, 16h41m12.5s, 16:41:12.5 in hours, 16.69 h) */
+                        raDeg: number | string;
+                        /** @description ICRS declination of the primary: degrees as a number, or text (-26.69, -26:41:12, -26°41′12″) */
+                        decDeg: number | string;
                         /**
                          * @description proper motion μα* = μα·cos δ, mas/yr
                          * @default 0
@@ -892,10 +892,10 @@ export interface paths {
                 content: {
                     "application/json": {
                         name?: string;
-                        /** @description ICRS right ascension of the primary, degrees [0, 360) */
-                        raDeg?: number;
-                        /** @description ICRS declination of the primary, degrees */
-                        decDeg?: number;
+                        /** @description ICRS right ascension of the primary: degrees [0, 360) as a number, or text (250.3, 16h41m12.5s, 16:41:12.5 in hours, 16.69 h) */
+                        raDeg?: number | string;
+                        /** @description ICRS declination of the primary: degrees as a number, or text (-26.69, -26:41:12, -26°41′12″) */
+                        decDeg?: number | string;
                         pmRaMasYr?: number;
                         pmDecMasYr?: number;
                         /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
@@ -2425,14 +2425,19 @@ export interface paths {
                 content: {
                     "application/json": {
                         name: string;
-                        /** @description geodetic latitude, degrees, north positive */
-                        latitudeDeg: number;
-                        /** @description longitude, degrees, east positive */
-                        longitudeDeg: number;
+                        /** @description geodetic latitude, degrees, north positive: a number, or text (-24.6, -24:37:38, -24°37′38″) */
+                        latitudeDeg: number | string;
+                        /** @description longitude, degrees, east positive: a number, or text (-70.4, -70:24:10, -70°24′10″) */
+                        longitudeDeg: number | string;
                         /** @description elevation above the ellipsoid, metres */
                         elevationM: number;
                         /** @description IANA time zone, e.g. America/Santiago */
                         timeZone: string;
+                        /**
+                         * @description the longitude and the time zone disagree by more than 3 h, and that is meant; otherwise such a site is refused with the likely correction
+                         * @default false
+                         */
+                        longitudeZoneConfirmed?: boolean;
                         /**
                          * @description lowest usable altitude, degrees
                          * @default 30
@@ -2749,14 +2754,15 @@ export interface paths {
                 content: {
                     "application/json": {
                         name?: string;
-                        /** @description geodetic latitude, degrees, north positive */
-                        latitudeDeg?: number;
-                        /** @description longitude, degrees, east positive */
-                        longitudeDeg?: number;
+                        /** @description geodetic latitude, degrees, north positive: a number, or text (-24.6, -24:37:38, -24°37′38″) */
+                        latitudeDeg?: number | string;
+                        /** @description longitude, degrees, east positive: a number, or text (-70.4, -70:24:10, -70°24′10″) */
+                        longitudeDeg?: number | string;
                         /** @description elevation above the ellipsoid, metres */
                         elevationM?: number;
                         /** @description IANA time zone, e.g. America/Santiago */
                         timeZone?: string;
+                        longitudeZoneConfirmed?: boolean;
                         lowestAltitudeDeg?: number;
                         leastSunDistanceDeg?: number;
                         /** @description typical pressure for refraction, hPa */
@@ -9081,10 +9087,10 @@ export interface components {
         } | null;
         Site: {
             name?: string;
-            /** @description geodetic latitude, degrees, north positive */
-            latitudeDeg: number;
-            /** @description longitude, degrees east */
-            longitudeDeg: number;
+            /** @description geodetic latitude, degrees, north positive; a number or text (-24:37:38) */
+            latitudeDeg: number | string;
+            /** @description longitude, degrees east; a number or text (-70°24′10″) */
+            longitudeDeg: number | string;
             /** @description height above sea level, m */
             elevationM: number;
             /**
@@ -9092,6 +9098,8 @@ export interface components {
              * @example America/Santiago
              */
             timeZone: string;
+            /** @description the longitude and the zone disagree by more than 3 h, and that is meant (otherwise refused with the likely correction) */
+            longitudeZoneConfirmed?: boolean;
             /** @description air pressure, hPa (default: standard atmosphere at the elevation; 0: no refraction) */
             pressureHpa?: number;
             /** @description air temperature, °C (default: standard atmosphere) */
@@ -9108,10 +9116,10 @@ export interface components {
         };
         SkyTarget: {
             name: string;
-            /** @description ICRS right ascension at epoch, degrees (the primary's when an orbit is given) */
-            raDeg: number;
-            /** @description ICRS declination at epoch, degrees */
-            decDeg: number;
+            /** @description ICRS right ascension at epoch (the primary's when an orbit is given): degrees as a number, or text (250.3, 16.69 h, 16:41:12.5 in hours) */
+            raDeg: number | string;
+            /** @description ICRS declination at epoch: degrees as a number, or text (-26.69, -26:41:12) */
+            decDeg: number | string;
             /** @description proper motion μα* = μα·cos δ, mas/yr */
             pmRaMasYr?: number;
             /** @description proper motion μδ, mas/yr */
@@ -9177,9 +9185,7 @@ export interface components {
         };
         SystemRow: {
             name: string;
-            /** @description ICRS right ascension of the primary, degrees [0, 360) */
             raDeg: number;
-            /** @description ICRS declination of the primary, degrees */
             decDeg: number;
             /**
              * @description proper motion μα* = μα·cos δ, mas/yr
@@ -9287,14 +9293,17 @@ export interface components {
         };
         SiteRow: {
             name: string;
-            /** @description geodetic latitude, degrees, north positive */
             latitudeDeg: number;
-            /** @description longitude, degrees, east positive */
             longitudeDeg: number;
             /** @description elevation above the ellipsoid, metres */
             elevationM: number;
             /** @description IANA time zone, e.g. America/Santiago */
             timeZone: string;
+            /**
+             * @description the longitude and the time zone disagree by more than 3 h, and that is meant; otherwise such a site is refused with the likely correction
+             * @default false
+             */
+            longitudeZoneConfirmed: boolean;
             /**
              * @description lowest usable altitude, degrees
              * @default 30

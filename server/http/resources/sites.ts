@@ -11,7 +11,7 @@ export function siteRoutes(store: Store) {
     repo: store.sites,
     create: SiteFields.strict(),
     patch: patchOf(SiteFields),
-    row: rowOf('SiteRow', SiteFields),
+    row: rowOf('SiteRow', SiteFields, { latitudeDeg: z.number(), longitudeDeg: z.number() }),
     filters: z.object({}),
     writeRole: 'lead',
   });

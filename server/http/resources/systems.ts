@@ -11,7 +11,7 @@ export function systemRoutes(store: Store) {
     repo: store.systems,
     create: SystemFields.strict(),
     patch: patchOf(SystemFields),
-    row: rowOf('SystemRow', SystemFields),
+    row: rowOf('SystemRow', SystemFields, { raDeg: z.number(), decDeg: z.number() }),
     filters: z.object({ name: z.string().optional() }),
     writeRole: 'lead',
   });

@@ -39,6 +39,9 @@ const RA_FORMS =
   'use degrees (250.3, 250.3d), hours with h (16.69h) or hours h:m:s (16:41:12.5, 16 41 12.5, 16h41m12.5s)';
 const DEC_FORMS = 'use degrees (-26.69, -26.69d) or d:m:s (-26:41:12, -26°41′12″, -26d41m12s)';
 
+const LAT_FORMS = 'use degrees (-24.6, -24.6d) or d:m:s (-24:37:38, -24°37′38″, -24d37m38s)';
+const LON_FORMS = 'use degrees east (-70.4, -70.4d) or d:m:s (-70:24:10, -70°24′10″, -70d24m10s)';
+
 /** A value read from text: sign, up to three components, and the unit of the first. */
 interface Parsed {
   negative: boolean;
@@ -73,7 +76,40 @@ export function parseDeclination(value: unknown, field = 'dec'): number {
   return p.negative ? -x : x;
 }
 
-function read(value: unknown, field: string, forms: string, kind: 'ra' | 'dec'): Parsed {
+/**
+ * Read a geodetic latitude in degrees, [−90, 90], north positive; the same forms as a declination.
+ * @throws InputError naming the field, the value and the rule
+ */
+export function parseLatitude(value: unknown, field = 'latitudeDeg'): number {
+  const p = read(value, field, LAT_FORMS, 'latitude');
+  const x = combine(p, value, field);
+  if (x > 90) throw new InputError(field, value, 'must lie in [-90, 90]°');
+  return p.negative ? -x : x;
+}
+
+/**
+ * Read a longitude in degrees east, [−180, 360) (a value past 180 is returned as it is; callers
+ * fold it); the same forms as a declination.
+ * @throws InputError naming the field, the value and the rule
+ */
+export function parseLongitude(value: unknown, field = 'longitudeDeg'): number {
+  const p = read(value, field, LON_FORMS, 'longitude');
+  const x = combine(p, value, field);
+  const signed = p.negative ? -x : x;
+  if (signed < -180 || signed >= 360)
+    throw new InputError(field, value, 'must lie in [-180, 360)°');
+  return signed;
+}
+
+type Quantity = 'ra' | 'dec' | 'latitude' | 'longitude';
+const QUANTITY_WORDS: Record<Quantity, string> = {
+  ra: 'right ascension',
+  dec: 'declination',
+  latitude: 'latitude',
+  longitude: 'longitude',
+};
+
+function read(value: unknown, field: string, forms: string, kind: Quantity): Parsed {
   if (typeof value === 'number') {
     if (!Number.isFinite(value)) throw new InputError(field, value, 'must be a finite number');
     return { negative: value < 0, parts: [String(Math.abs(value))], unit: 'deg' };
@@ -92,11 +128,7 @@ function read(value: unknown, field: string, forms: string, kind: 'ra' | 'dec'):
   }
   m = SEXAGESIMAL_RE.exec(s);
   if (m) return parsed(m, kind === 'ra' ? 'hour' : 'deg');
-  throw new InputError(
-    field,
-    value,
-    `is not a ${kind === 'ra' ? 'right ascension' : 'declination'}: ${forms}`,
-  );
+  throw new InputError(field, value, `is not a ${QUANTITY_WORDS[kind]}: ${forms}`);
 }
 
 function parsed(m: RegExpExecArray, unit: Parsed['unit']): Parsed {

@@ -29,6 +29,8 @@ export {
   formatDecDms,
   formatRaHms,
   parseDeclination,
+  parseLatitude,
+  parseLongitude,
   parseRightAscension,
 } from './coordinates.ts';
 export { darknessExact, darknessFast, type Interval } from './darkness.ts';
@@ -88,3 +90,10 @@ export {
 } from './target.ts';
 export { deltaTSeconds, taiMinusUtcS } from './time-scale.ts';
 export { LIMITS, findWindows, type Limit } from './windows.ts';
+export {
+  ZONE_LONGITUDE_TOLERANCE_HOURS,
+  checkTimeZone,
+  longitudeZoneMismatch,
+  nearestZones,
+  type ZoneMismatch,
+} from './zones.ts';

@@ -4,9 +4,10 @@
  * angle). `validateSite` is the one gate every caller (HTTP, CLI, store) passes a site through.
  */
 import { Observer } from 'astronomy-engine';
-import { IANAZone } from 'luxon';
 import { InputError, requireFinite } from '../errors.ts';
 import { standardAtmosphere } from './atmosphere.ts';
+import { parseLatitude, parseLongitude } from './coordinates.ts';
+import { checkTimeZone, describeMismatch, longitudeZoneMismatch } from './zones.ts';
 
 /** One point of a horizon mask: below `altitudeDeg` at `azimuthDeg` the view is blocked. */
 export interface HorizonPoint {
@@ -19,14 +20,19 @@ export interface HorizonPoint {
 /** A site as callers give it. Units are in the names. */
 export interface SiteInput {
   name?: string;
-  /** Geodetic latitude, degrees, [−90, 90], north positive. */
-  latitudeDeg: number;
-  /** Longitude, degrees east of Greenwich, [−180, 360). */
-  longitudeDeg: number;
+  /** Geodetic latitude, degrees, [−90, 90], north positive; a number or text (`-24:37:38`). */
+  latitudeDeg: number | string;
+  /** Longitude, degrees east of Greenwich, [−180, 360); a number or text (`-70°24′10″`). */
+  longitudeDeg: number | string;
   /** Height above sea level, metres, [−500, 6000]. */
   elevationM: number;
   /** IANA time zone for local times, e.g. "America/Santiago". */
   timeZone: string;
+  /**
+   * The longitude and the zone disagree by more than a few hours and that is meant (a station
+   * keeping another country's time): without it such a site is refused with the likely correction.
+   */
+  longitudeZoneConfirmed?: boolean;
   /** Air pressure, hPa, [0, 1100]; default from the elevation by the standard atmosphere; 0 turns refraction off. */
   pressureHpa?: number;
   /** Air temperature, °C, [−80, 60]; default from the elevation by the standard atmosphere. */
@@ -103,15 +109,24 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
   if (typeof name !== 'string' || name.trim() === '' || name.length > 100) {
     throw new InputError(f('name'), s.name, 'must be a non-empty string of at most 100 characters');
   }
-  const latitudeDeg = numberIn(f('latitudeDeg'), s.latitudeDeg, -90, 90);
-  let longitudeDeg = numberIn(f('longitudeDeg'), s.longitudeDeg, -180, 360, true);
+  const latitudeDeg = parseLatitude(s.latitudeDeg, f('latitudeDeg'));
+  let longitudeDeg = parseLongitude(s.longitudeDeg, f('longitudeDeg'));
   if (longitudeDeg > 180) longitudeDeg -= 360;
   const elevationM = numberIn(f('elevationM'), s.elevationM, -500, 6000);
-  if (typeof s.timeZone !== 'string' || !IANAZone.isValidZone(s.timeZone)) {
+  const timeZone = checkTimeZone(s.timeZone, f('timeZone'));
+  if (s.longitudeZoneConfirmed !== undefined && typeof s.longitudeZoneConfirmed !== 'boolean') {
     throw new InputError(
-      f('timeZone'),
-      s.timeZone,
-      'must be an IANA time zone name such as "America/Santiago" or "UTC"',
+      f('longitudeZoneConfirmed'),
+      s.longitudeZoneConfirmed,
+      'must be a boolean',
+    );
+  }
+  const mismatch = longitudeZoneMismatch(latitudeDeg, longitudeDeg, timeZone);
+  if (mismatch && s.longitudeZoneConfirmed !== true) {
+    throw new InputError(
+      f('longitudeDeg'),
+      s.longitudeDeg,
+      describeMismatch(mismatch, longitudeDeg, timeZone),
     );
   }
   const std = standardAtmosphere(elevationM);
@@ -132,7 +147,7 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
     latitudeDeg,
     longitudeDeg,
     elevationM,
-    timeZone: s.timeZone,
+    timeZone,
     pressureHpa,
     temperatureC,
     lowestAltitudeDeg,

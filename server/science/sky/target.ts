@@ -8,14 +8,18 @@ import { validateOrbit } from '../orbit/elements.ts';
 import { predict } from '../orbit/predict.ts';
 import type { Orbit, OrbitInput } from '../orbit/types.ts';
 import { parseEpoch } from '../time/index.ts';
+import { parseDeclination, parseRightAscension } from './coordinates.ts';
 import { normalize, raDecFromVector, unitFromRaDec, type Vec3 } from './vectors.ts';
 
 export interface TargetInput {
   name: string;
-  /** ICRS right ascension at `epoch`, degrees, [0, 360). For an orbiting star: its primary's. */
-  raDeg: number;
-  /** ICRS declination at `epoch`, degrees, [−90, 90]. */
-  decDeg: number;
+  /**
+   * ICRS right ascension at `epoch`, degrees, [0, 360), or text in any form of README's "Input
+   * forms" (`16:41:12.5` is hours). For an orbiting star: its primary's.
+   */
+  raDeg: number | string;
+  /** ICRS declination at `epoch`, degrees, [−90, 90], or text (`-26:41:12`). */
+  decDeg: number | string;
   /** Proper motion μα* = μα·cos δ, mas/yr, east positive; default 0. */
   pmRaMasYr?: number;
   /** Proper motion μδ, mas/yr, north positive; default 0. */
@@ -49,11 +53,8 @@ export function validateTarget(input: unknown, prefix = 'target'): Target {
       'must be a non-empty string of at most 100 characters',
     );
   }
-  const ra = requireFinite(`${prefix}.raDeg`, t.raDeg);
-  if (ra < 0 || ra >= 360) throw new InputError(`${prefix}.raDeg`, t.raDeg, 'must lie in [0, 360)');
-  const dec = requireFinite(`${prefix}.decDeg`, t.decDeg);
-  if (dec < -90 || dec > 90)
-    throw new InputError(`${prefix}.decDeg`, t.decDeg, 'must lie in [−90, 90]');
+  const ra = parseRightAscension(t.raDeg, `${prefix}.raDeg`);
+  const dec = parseDeclination(t.decDeg, `${prefix}.decDeg`);
   const pm = (k: 'pmRaMasYr' | 'pmDecMasYr') => {
     if (t[k] === undefined) return 0;
     const x = requireFinite(`${prefix}.${k}`, t[k]);

@@ -7,7 +7,9 @@
  *   `,` (both are ISO 8601); or a plain date (`2027-03-01`, read as 00:00 UTC). A time with no zone
  *   (`2027-03-01T04:30`) is refused, never read in some zone: add `Z` or an offset;
  * - `JD 2461466.5`, `MJD 61466`;
- * - a bare number ≥ 1e6 is a Julian Date (`2461466.5`); MJD always needs its prefix;
+ * - a bare number ≥ 1e6 is a Julian Date (`2461466.5`), one from 10000 up to 1e6 a Modified Julian
+ *   Date (`61466`, 1886 onwards); 3000–10000 is refused (a year mistyped, or an MJD before 1886
+ *   that needs its prefix);
  * - Julian epoch `J2027.35` (J = 2000 + (JD − 2451545)/365.25), and a bare decimal year from 1000
  *   to 3000 (`2027.6`) is read as this Julian epoch;
  * - Besselian epoch `B1934.008` (Lieske 1979), still used for older binary-star orbits.
@@ -125,14 +127,19 @@ function zoneOffsetMinutes(zone: string | undefined, field: string, value: unkno
   return (z[1] === '-' ? -1 : 1) * (hours * 60 + minutes);
 }
 
-/** A number with no prefix: a Julian Date when ≥ 1e6, a decimal (Julian) year from 1000 to 3000. */
+/**
+ * A number with no prefix: a Julian Date when ≥ 1e6, a decimal (Julian) year from 1000 to 3000,
+ * a Modified Julian Date from 10000 (1886) up to 1e6. Between 3000 and 10000 it is refused: more
+ * likely a year with a slip of the finger than an MJD of the 1860s.
+ */
 function bareNumber(x: number, field: string, value: unknown): number {
   if (x >= 1e6) return checkRange(field, value, x);
   if (x >= 1000 && x <= 3000) return checkRange(field, value, julianEpochToJd(x));
+  if (x >= 10_000) return checkRange(field, value, x + MJD_OFFSET);
   throw new InputError(
     field,
     value,
-    'is neither a Julian Date (≥ 1e6) nor a year from 1000 to 3000: write "MJD …", "JD …" or "J…" before it',
+    'is not a Julian Date (≥ 1e6), a Modified Julian Date (10000 to 1e6) or a year from 1000 to 3000: write "MJD …", "JD …" or "J…" before it',
   );
 }
 

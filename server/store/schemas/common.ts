@@ -2,9 +2,15 @@
  * Shared pieces of the input schemas, and the bridge from a zod verdict to our InputError.
  * The same schemas check HTTP bodies, CLI input and CSV rows, and document the API.
  */
-import { IANAZone } from 'luxon';
 import { z } from 'zod';
 import { InputError, type FieldProblem } from '../../science/errors.ts';
+import {
+  checkTimeZone,
+  parseDeclination,
+  parseLatitude,
+  parseLongitude,
+  parseRightAscension,
+} from '../../science/sky/index.ts';
 import { parseEpoch, jdToIso } from '../../science/time/index.ts';
 
 export const id = z.number().int().positive();
@@ -38,28 +44,54 @@ export const freeText = (max: number) =>
 
 export const name = lineText(100).trim().min(1);
 export const notes = freeText(20_000).default('');
+const ruleText = (err: unknown) => (err instanceof InputError ? err.rule : String(err));
+
+/** The rule of a science-layer check, as a zod issue (the field is named by zod's path). */
+function ruleOf(check: (v: unknown) => unknown) {
+  return (v: unknown, ctx: z.RefinementCtx) => {
+    try {
+      check(v);
+    } catch (err) {
+      ctx.addIssue({ code: 'custom', message: ruleText(err) });
+    }
+  };
+}
+
 /** A local calendar date, `YYYY-MM-DD`. */
 export const localDate = z.iso.date().describe('local calendar date YYYY-MM-DD');
 /** An instant given as ISO 8601 with a zone, JD, MJD, Julian or Besselian epoch; stored as ISO UTC. */
 export const epoch = z
   .string()
   .describe('epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"')
-  .superRefine((v, ctx) => {
-    try {
-      parseEpoch(v, 'epoch');
-    } catch (err) {
-      ctx.addIssue({
-        code: 'custom',
-        message: err instanceof InputError ? err.rule : 'is not an epoch',
-      });
-    }
-  });
+  .superRefine(ruleOf((v) => parseEpoch(v, 'epoch')));
+/** An IANA zone; a misspelled one is refused with the nearest valid names. */
 export const timeZone = z
   .string()
   .describe('IANA time zone, e.g. America/Santiago')
-  .refine((v) => IANAZone.isValidZone(v), {
-    message: 'must be an IANA time zone name such as "America/Santiago"',
-  });
+  .superRefine(ruleOf((v) => checkTimeZone(v)));
+
+/**
+ * A coordinate as astronomers type it, read into degrees by the one parser of its kind (README
+ * "Input forms"): a JSON number is degrees; text may be sexagesimal, and RA text with `h` or
+ * colons is hours.
+ */
+function angle(parse: (v: unknown, field: string) => number, description: string) {
+  return z
+    .union([z.number(), z.string()])
+    .describe(description)
+    .transform((v, ctx) => {
+      try {
+        return parse(v, 'value');
+      } catch (err) {
+        ctx.addIssue({ code: 'custom', message: ruleText(err) });
+        return z.NEVER;
+      }
+    });
+}
+export const rightAscension = (description: string) => angle(parseRightAscension, description);
+export const declination = (description: string) => angle(parseDeclination, description);
+export const latitude = (description: string) => angle(parseLatitude, description);
+export const longitude = (description: string) => angle(parseLongitude, description);
 
 /** Normalise an epoch string to ISO 8601 UTC (ms) and its JD. */
 export function normaliseEpoch(value: string, field: string): { iso: string; jd: number } {

@@ -14,18 +14,31 @@ import {
   type MeasuredField,
 } from '../../../descriptors/measurement-kinds.ts';
 import { ROLE_NAMES } from '../../../descriptors/roles.ts';
-import { epoch, freeText, id, lineText, localDate, name, notes, timeZone } from './common.ts';
+import {
+  declination,
+  epoch,
+  freeText,
+  id,
+  latitude,
+  lineText,
+  localDate,
+  longitude,
+  name,
+  notes,
+  rightAscension,
+  timeZone,
+} from './common.ts';
 
 const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();
 
 export const SystemFields = z.object({
   name,
-  raDeg: z
-    .number()
-    .min(0)
-    .lt(360)
-    .describe('ICRS right ascension of the primary, degrees [0, 360)'),
-  decDeg: z.number().min(-90).max(90).describe('ICRS declination of the primary, degrees'),
+  raDeg: rightAscension(
+    'ICRS right ascension of the primary: degrees [0, 360) as a number, or text (250.3, 16h41m12.5s, 16:41:12.5 in hours, 16.69 h)',
+  ),
+  decDeg: declination(
+    'ICRS declination of the primary: degrees as a number, or text (-26.69, -26:41:12, -26°41′12″)',
+  ),
   pmRaMasYr: z.number().default(0).describe('proper motion μα* = μα·cos δ, mas/yr'),
   pmDecMasYr: z.number().default(0).describe('proper motion μδ, mas/yr'),
   positionEpoch: epoch
@@ -78,10 +91,20 @@ export const OrbitSolutionInput = z.object({
 
 export const SiteFields = z.object({
   name,
-  latitudeDeg: z.number().min(-90).max(90).describe('geodetic latitude, degrees, north positive'),
-  longitudeDeg: z.number().min(-180).max(180).describe('longitude, degrees, east positive'),
+  latitudeDeg: latitude(
+    'geodetic latitude, degrees, north positive: a number, or text (-24.6, -24:37:38, -24°37′38″)',
+  ),
+  longitudeDeg: longitude(
+    'longitude, degrees, east positive: a number, or text (-70.4, -70:24:10, -70°24′10″)',
+  ).pipe(z.number().max(180, 'must lie in [-180, 180]°, east positive (x − 360 for x past 180)')),
   elevationM: z.number().min(-500).max(6000).describe('elevation above the ellipsoid, metres'),
   timeZone,
+  longitudeZoneConfirmed: z
+    .boolean()
+    .default(false)
+    .describe(
+      'the longitude and the time zone disagree by more than 3 h, and that is meant; otherwise such a site is refused with the likely correction',
+    ),
   lowestAltitudeDeg: z
     .number()
     .min(0)

@@ -5,6 +5,8 @@ import {
   formatDecDms,
   formatRaHms,
   parseDeclination,
+  parseLatitude,
+  parseLongitude,
   parseRightAscension,
 } from '../../../server/science/sky/index.ts';
 
@@ -79,9 +81,13 @@ describe('right ascension and declination as typed', () => {
   });
 
   it('round-trips every right ascension and declination form within 1e-9°', () => {
+    // Site latitude and longitude take the declination's forms (constructed case: own round trip).
+    const lon = fc.double({ min: -180, max: 180, noNaN: true });
     const cases = [
       [raForms, ra, parseRightAscension],
       [decForms, dec, parseDeclination],
+      [decForms, dec, parseLatitude],
+      [decForms, lon, parseLongitude],
     ] as const;
     for (const [forms, values, parse] of cases) {
       for (const [name, form] of forms) {

@@ -32,6 +32,8 @@ export function randomSite(rnd: () => number, maxLat = 60): Site {
     longitudeDeg: 360 * rnd() - 180,
     elevationM: 4500 * rnd(),
     timeZone: ZONES[Math.floor(rnd() * ZONES.length)]!,
+    // constructed case: any longitude with any zone, on purpose (the zone only names local times)
+    longitudeZoneConfirmed: true,
   });
 }
 

@@ -52,6 +52,7 @@ describe('sunrise and sunset: fast Sun at −0°50′ vs astronomy-engine Search
         longitudeDeg: s0.longitudeDeg,
         elevationM: 0,
         timeZone: s0.timeZone,
+        longitudeZoneConfirmed: true, // constructed case: a random zone only names local times
       });
       // A noon-to-noon span by the Sun, whatever the zone: mean local noon from the longitude.
       const date = randomDate(rnd);

@@ -31,6 +31,9 @@ describe('epochs as astronomers type them', () => {
     expect(parseEpoch('2027.6')).toBeCloseTo(2461625.9, 9);
     expect(parseEpoch('2461234.5')).toBe(2461234.5);
     expect(parseEpoch('MJD 61234')).toBe(2461234.5); // MJD = JD − 2400000.5 (IAU 1973)
+    // a bare number from 10000 up to 1e6 is an MJD (our rule, README "Input forms")
+    expect(parseEpoch('61234')).toBe(2461234.5);
+    expect(parseEpoch('10000')).toBe(2410000.5);
   });
 
   it('refuses zoneless times, decimal commas and bare numbers that are neither', () => {
@@ -38,11 +41,11 @@ describe('epochs as astronomers type them', () => {
       ['2027-03-01T04:30', /add Z \(UTC\) or an offset/],
       ['2027,6', /use a decimal point: 2027\.6/],
       ['JD 2461234,5', /use a decimal point: JD 2461234\.5/],
-      ['61234', /neither a Julian Date/],
-      ['-2027', /neither a Julian Date/],
+      ['-2027', /is not a Julian Date/],
+      ['9999.5', /is not a Julian Date/],
       ['2027-03-01T04:30+24:00', /at most ±23:59/],
       ['2027-03-01T04:30+05:60', /at most ±23:59/],
-      ['3000.5', /neither a Julian Date/],
+      ['3000.5', /is not a Julian Date/],
       ['99999999', /years 1000 and 3000/],
     ];
     for (const [v, rule] of refused) {
@@ -73,6 +76,13 @@ describe('epochs as astronomers type them', () => {
         }),
       );
     }
+    // a bare MJD from 10000 (JD 2410000.5, 1886) on: constructed case, MJD = JD − 2400000.5
+    fc.assert(
+      fc.property(jd, (x) => {
+        const mjd = Math.max(jdToMjd(x), 10_000);
+        expect(Math.abs(jdToMjd(parseEpoch(String(mjd))) - mjd), String(mjd)).toBeLessThan(1e-9);
+      }),
+    );
     // ISO to the millisecond (its written precision): 1 ms = 1.16e-8 d
     const offsets = ['Z', '-03', '+05:30', '-0930', '+14:00'];
     fc.assert(
