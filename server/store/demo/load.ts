@@ -19,8 +19,11 @@ import {
   TWILIGHT_SUN_ALTITUDE_DEG,
   darknessExact,
   nightSpan,
+  validateLimits,
   validateSite,
+  validateTarget,
 } from '../../science/sky/index.ts';
+import { nightMoments } from '../../science/plan/index.ts';
 import { jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import type { DbOrTx } from '../database.ts';
@@ -86,6 +89,7 @@ export function runStart(site: SiteRow, date: string, raDeg: number, minutes: nu
 interface PlanTarget {
   id: number;
   raDeg: number;
+  decDeg: number;
   orbit: OrbitInput;
   kinds: BlockKind[];
   /** Measured as separation and position angle (a visual binary) rather than offsets. */
@@ -94,6 +98,7 @@ interface PlanTarget {
 
 interface Plan {
   campaignId: number;
+  limits: (typeof DEMO_LIMITS)[keyof typeof DEMO_LIMITS];
   siteIndex: number;
   dates: string[];
   targets: PlanTarget[];
@@ -112,7 +117,18 @@ function nightsOf(anchor: DemoAnchor, r: { start: number; end: number; step: num
 }
 
 type Counts = { nights: number; blocks: number; reports: number; measurements: number };
-type Star = { target: { id: number; name: string }; orbit: OrbitInput; raDeg: number };
+type Star = {
+  target: { id: number; name: string };
+  orbit: OrbitInput;
+  raDeg: number;
+  decDeg: number;
+};
+
+/** The two campaigns' limits: stored with each campaign, and obeyed by the demo's own blocks. */
+const DEMO_LIMITS = {
+  passage: { highestAirmass: 1.8, leastMoonDistanceDeg: 30, darkness: 'astronomical' },
+  binary: { highestAirmass: 2, darkness: 'nautical' },
+} as const;
 type Made = Map<number, MeasurementRow[]>;
 
 export async function loadDemo(
@@ -135,7 +151,12 @@ export async function loadDemo(
         magnitude: s.magnitude,
         band: s.band,
       });
-      stars.push({ target, orbit: vesperOrbit(s, anchor), raDeg: vesper.raDeg });
+      stars.push({
+        target,
+        orbit: vesperOrbit(s, anchor),
+        raDeg: vesper.raDeg,
+        decDeg: vesper.decDeg,
+      });
     }
     const lanternB = {
       target: await store.targets.createIn(tx, actor, {
@@ -146,6 +167,7 @@ export async function loadDemo(
       }),
       orbit: lanternOrbit(anchor),
       raDeg: lantern.raDeg,
+      decDeg: lantern.decDeg,
     };
     for (const { target, orbit } of [...stars, lanternB])
       await store.orbitSolutions.createIn(tx, actor, {
@@ -207,8 +229,14 @@ async function demoCampaigns(
       densifyWithinDays: 30,
       kinds: ['astrometry', 'spectroscopy'],
       laserGuideStar: { astrometry: true },
+      // The slower stars are followed yearly (as their measurements are), at a lower priority.
+      targets: Object.fromEntries(
+        stars
+          .filter((s) => s.target.name !== HEADLINE)
+          .map((s) => [String(s.target.id), { cadenceDays: 365, priority: 0.5 }]),
+      ),
     },
-    limits: { highestAirmass: 1.8, leastMoonDistanceDeg: 30, darkness: 'astronomical' },
+    limits: DEMO_LIMITS.passage,
     targetIds: stars.map((s) => s.target.id),
     siteIds: sites.map((s) => s.id),
     notes: `Follow ${HEADLINE} through its periapsis; keep the other stars on a yearly cadence.`,
@@ -218,7 +246,7 @@ async function demoCampaigns(
     startDate: anchor.day(DEMO_DAYS.binaryCampaign.start),
     endDate: anchor.day(DEMO_DAYS.binaryCampaign.end),
     goals: { cadenceDays: 21, kinds: ['astrometry'] },
-    limits: { highestAirmass: 2, darkness: 'nautical' },
+    limits: DEMO_LIMITS.binary,
     targetIds: [lanternB.target.id],
     siteIds: [sites[1]!.id],
   });
@@ -235,6 +263,7 @@ function demoPlans(
   const of = (s: Star, kinds: Plan['targets'][number]['kinds']) => ({
     id: s.target.id,
     raDeg: s.raDeg,
+    decDeg: s.decDeg,
     orbit: s.orbit,
     kinds,
   });
@@ -247,24 +276,28 @@ function demoPlans(
   return [
     {
       campaignId: campaigns.passage,
+      limits: DEMO_LIMITS.passage,
       siteIndex: 0,
       dates: nightsOf(anchor, DEMO_DAYS.pastSeason),
       targets: [of(headline, ['astrometry', 'spectroscopy']), of(second, ['astrometry'])],
     },
     {
       campaignId: campaigns.passage,
+      limits: DEMO_LIMITS.passage,
       siteIndex: 0,
       dates: coming,
       targets: [of(headline, ['astrometry', 'spectroscopy'])],
     },
     {
       campaignId: campaigns.passage,
+      limits: DEMO_LIMITS.passage,
       siteIndex: 1,
       dates: nightsOf(anchor, DEMO_DAYS.secondSite),
       targets: [of(headline, ['spectroscopy'])],
     },
     {
       campaignId: campaigns.binary,
+      limits: DEMO_LIMITS.binary,
       siteIndex: 1,
       dates: nightsOf(anchor, DEMO_DAYS.binarySeason),
       targets: [{ ...of(lanternB, ['astrometry']), speckle: true }],
@@ -286,7 +319,17 @@ function weather(ctx: LoadContext, date: string): { lostHours: number; cutAfter:
 
 async function loadPlan(ctx: LoadContext, site: SiteRow, plan: Plan): Promise<void> {
   const { store, tx, actor, counts, anchor } = ctx;
+  const sky = validateSite(site);
+  const limits = validateLimits({ ...plan.limits, lowestAltitudeDeg: site.lowestAltitudeDeg }, sky);
+  // Blocks obey the campaign's limits as a planner's would: none where the Moon (or another limit) closes the target.
+  const places = new Map(
+    plan.targets.map((t) => [
+      t.id,
+      validateTarget({ name: 'demo', raDeg: t.raDeg, decDeg: t.decDeg }),
+    ]),
+  );
   for (const date of plan.dates) {
+    const moment = nightMoments(sky, limits, date);
     const night = await store.nights.createIn(tx, actor, {
       siteId: site.id,
       campaignId: plan.campaignId,
@@ -304,6 +347,9 @@ async function loadPlan(ctx: LoadContext, site: SiteRow, plan: Plan): Promise<vo
         const start = first.plus({ minutes: 50 * k });
         const lost = w.cutAfter !== null && k >= w.cutAfter;
         k++;
+        const place = places.get(t.id)!;
+        const ends = [start, start.plus({ minutes: 45 })].map((x) => unixMsToJd(x.toMillis()));
+        if (!ends.every((jd) => moment(place, jd).open)) continue;
         const block = await store.blocks.createIn(tx, actor, {
           nightId: night.id,
           targetId: t.id,
@@ -369,13 +415,13 @@ async function addReport(
 /** Epochs from earlier seasons, made before the campaign began: one a year near opposition. */
 async function earlierEpochs(ctx: LoadContext, stars: Star[], lanternB: Star): Promise<void> {
   for (const s of stars)
-    for (let k = 1; k <= 12; k++)
+    for (let k = 0; k <= 12; k++)
       await addMeasurement(
         ctx,
         { id: s.target.id, orbit: s.orbit },
         null,
         'astrometry',
-        ctx.anchor.yearsFrom(-(k + 0.467)),
+        ctx.anchor.yearsFrom(-(k + 0.467)), // yearly, the last (k = 0) in the past season
       );
   for (let k = 1; k <= 14; k++)
     await addMeasurement(
