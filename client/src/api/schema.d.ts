@@ -9803,7 +9803,7 @@ export interface components {
             /** @enum {string} */
             kind: "periapsis-ahead" | "periapsis-unobservable" | "blend-risk" | "stale-prediction";
             target: string;
-            /** @description when it applies (periapsis, blend start, now), UTC */
+            /** @description when it applies, ISO 8601 UTC: the periapsis, the blend’s start, or for a stale prediction the first moment a site can observe the target (now if it can) */
             date: string;
             daysAhead: number;
             reason: string;
@@ -9831,11 +9831,17 @@ export interface components {
                 skyRateMasPerDay: number;
                 /** @description longest interval between epochs that still follows the change, days */
                 samplingDays: number | null;
-                /** @description nights of the ± window holding a planned epoch or an allocated observable night, and whether the most likely night is covered */
+                /** @description nights (site, local evening date) of the ± window holding a planned epoch at an observable moment or an allocated observable night, and whether the most likely date is covered */
                 coverage: {
                     planned: {
                         site: string;
                         date: string;
+                    }[];
+                    /** @description planned epochs of the window at a moment the target cannot be observed (the Moon, …): they do not cover it */
+                    closed: {
+                        site: string;
+                        date: string;
+                        words: string;
                     }[];
                     allocated: {
                         site: string;
@@ -9857,9 +9863,17 @@ export interface components {
                 closestMas: number;
             };
             stale?: {
+                /** @description position 1σ at the flag’s date, mas */
                 sigmaMas: number | null;
+                /** @description days from the last measurement to the flag’s date */
                 daysSinceMeasured: number | null;
                 nextPlanned: string | null;
+                /** @description when a site can next observe the target, if not now: first open moment (UTC; the flag’s date), site, night (local evening date) */
+                observableFrom: {
+                    utc: string;
+                    site: string;
+                    night: string;
+                } | null;
             };
         };
         SeasonPlanPreview: {

@@ -11,7 +11,9 @@ const help = `usage: epochwright flags --campaign <id> [--at <epoch>] [--resolut
 
 Warnings for every target of a stored campaign, soonest first: a periapsis ahead (date ± 1σ, lead
 time, observable hours per night at each site, rates of change, relativistic terms), a periapsis no
-site can observe, a blend with another star of the system (with --resolution), a stale prediction.
+site can observe, a blend with another star of the system (with --resolution), a stale prediction
+(judged when a site can next observe the target). Dates are UTC; nights in the words are named by
+their site and local evening date.
 
 options:
   --campaign <id>        the campaign
@@ -46,7 +48,7 @@ export const flagsCommand: Command = {
       store.plans.flags(id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
     );
     const columns: Column<Flag>[] = [
-      { header: 'date', value: (f) => f.date.slice(0, 10) },
+      { header: 'date_utc', value: (f) => f.date.slice(0, 16).replace('T', ' ') },
       { header: 'days_ahead', value: (f) => f.daysAhead, digits: 0 },
       { header: 'kind', value: (f) => f.kind },
       { header: 'target', value: (f) => f.target },

@@ -41,7 +41,10 @@ export const FlagSchema = z
   .object({
     kind: z.enum(FLAG_KINDS),
     target: z.string(),
-    date: z.string().openapi({ description: 'when it applies (periapsis, blend start, now), UTC' }),
+    date: z.string().openapi({
+      description:
+        'when it applies, ISO 8601 UTC: the periapsis, the blend’s start, or for a stale prediction the first moment a site can observe the target (now if it can)',
+    }),
     daysAhead: z.number(),
     reason: z.string(),
     periapsis: z
@@ -78,6 +81,12 @@ export const FlagSchema = z
         coverage: z
           .object({
             planned: z.array(z.object({ site: z.string(), date: z.string() }).strict()),
+            closed: z
+              .array(z.object({ site: z.string(), date: z.string(), words: z.string() }).strict())
+              .openapi({
+                description:
+                  'planned epochs of the window at a moment the target cannot be observed (the Moon, …): they do not cover it',
+              }),
             allocated: z.array(z.object({ site: z.string(), date: z.string() }).strict()),
             mostLikelyCovered: z.boolean(),
             text: z.string(),
@@ -85,7 +94,7 @@ export const FlagSchema = z
           .strict()
           .openapi({
             description:
-              'nights of the ± window holding a planned epoch or an allocated observable night, and whether the most likely night is covered',
+              'nights (site, local evening date) of the ± window holding a planned epoch at an observable moment or an allocated observable night, and whether the most likely date is covered',
           }),
         relativity: z
           .object({
@@ -104,9 +113,23 @@ export const FlagSchema = z
       .optional(),
     stale: z
       .object({
-        sigmaMas: z.number().nullable(),
-        daysSinceMeasured: z.number().nullable(),
+        sigmaMas: z
+          .number()
+          .nullable()
+          .openapi({ description: 'position 1σ at the flag’s date, mas' }),
+        daysSinceMeasured: z
+          .number()
+          .nullable()
+          .openapi({ description: 'days from the last measurement to the flag’s date' }),
         nextPlanned: z.string().nullable(),
+        observableFrom: z
+          .object({ utc: z.string(), site: z.string(), night: z.string() })
+          .strict()
+          .nullable()
+          .openapi({
+            description:
+              'when a site can next observe the target, if not now: first open moment (UTC; the flag’s date), site, night (local evening date)',
+          }),
       })
       .strict()
       .optional(),

@@ -5,9 +5,12 @@
  *   sizes of the relativistic terms; "periapsis unobservable" when no site sees it;
  * - blend risk: intervals when two stars of a system (or a star and a visible primary) are closer on
  *   the sky than the resolution limit;
- * - stale prediction: position uncertainty now beyond a limit, or no measurement for longer than the cadence.
+ * - stale prediction: position uncertainty beyond a limit, or no measurement for longer than the
+ *   cadence, when the target can next be observed.
+ * Dates: a flag's `date` is an instant in UTC (ISO 8601 `Z`); a night in its words is named by its
+ * site and local evening date ("the night of 2027-02-15 at Tolvane Ridge", "Tolvane Ridge 06-03").
+ * Numbers in the words are rounded to what they are known to, and carry their units.
  */
-import { DateTime } from 'luxon';
 import {
   eventsWithUncertainty,
   ephemeris,
@@ -17,14 +20,17 @@ import {
 } from '../orbit/index.ts';
 import { intervalsWhere } from '../sky/darkness.ts';
 import type { Limits } from '../sky/limits.ts';
+import { nightOf } from '../sky/night.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
-import { jdToIso, jdToUnixMs } from '../time/index.ts';
+import { jdToIso } from '../time/index.ts';
 import { positive } from './checks.ts';
 import { nightGrid, targetGrid } from './grid.ts';
 import { closingLimit, nightReasonWords, type NightReason } from './night-reasons.ts';
-import type { Precision } from './information.ts';
 import { InputError } from '../errors.ts';
+import { skyAtMoment } from './moment.ts';
+import { precisionAt, precisionModel, type PrecisionModel } from './precision.ts';
+import { rounded } from './words.ts';
 
 export const FLAG_KINDS = [
   'periapsis-ahead',
@@ -42,8 +48,8 @@ export interface FlagTarget {
   lastMeasuredJd?: number | null;
   /** The primary itself shows in the images (a star, not a dark compact object). */
   primaryVisible?: boolean;
-  /** Middles of accepted planned blocks of the target still to come, JD. */
-  plannedEpochsJd?: readonly number[];
+  /** Accepted planned blocks of the target still to come: each one's middle (JD) and site name. */
+  planned?: readonly { jd: number; site: string }[];
 }
 
 export interface FlagSite {
@@ -51,6 +57,8 @@ export interface FlagSite {
   limits: Limits;
   /** The campaign's allocated nights at the site (local evening dates); absent: unknown. */
   nights?: readonly string[];
+  /** The site's precision model (the options' `precision` overrides it field by field). */
+  precision?: Partial<PrecisionModel>;
 }
 
 export interface FlagOptions {
@@ -62,7 +70,8 @@ export interface FlagOptions {
   resolutionMas?: number;
   /** Position uncertainty beyond which a prediction is stale, mas; default 10. */
   staleSigmaMas?: number;
-  precision?: Precision;
+  /** The campaign's precision model, over each site's (plan/precision.ts). */
+  precision?: Partial<PrecisionModel>;
 }
 
 export interface SiteHours {
@@ -90,9 +99,14 @@ export interface Flag {
     skyRateMasPerDay: number;
     /** Longest interval between epochs that still follows the change at the expected precision, days. */
     samplingDays: number | null;
-    /** Which nights of the ± window hold a planned epoch or an allocated night (with hours), and whether the most likely night does. */
+    /**
+     * Which nights of the ± window hold a planned epoch at a moment the target is observable, or
+     * an allocated night with observable hours; planned epochs at a closed moment (the Moon, …) do
+     * not cover it and are listed apart with what closes them; whether the most likely date is covered.
+     */
     coverage: {
       planned: { site: string; date: string }[];
+      closed: { site: string; date: string; words: string }[];
       allocated: { site: string; date: string }[];
       mostLikelyCovered: boolean;
       text: string;
@@ -105,15 +119,15 @@ export interface Flag {
   };
   blend?: { other: string; start: string; end: string; closestMas: number };
   stale?: {
+    /** Position uncertainty (1σ) at the flag's date, mas. */
     sigmaMas: number | null;
+    /** Days from the last measurement to the flag's date. */
     daysSinceMeasured: number | null;
     /** The next planned epoch, ISO 8601 UTC, if any. */
     nextPlanned: string | null;
+    /** When a site can next observe the target, if not now: its first open moment (UTC), site and night. */
+    observableFrom: { utc: string; site: string; night: string } | null;
   };
-}
-
-function localNight(jd: number, zone: string): string {
-  return DateTime.fromMillis(jdToUnixMs(jd - 0.5), { zone }).toISODate()!;
 }
 
 function bandOf(days: number, lead: number[]): string {
@@ -133,7 +147,7 @@ export function hoursAround(
   const nights: SiteHours['nights'] = [];
   let blocked: string | null = null;
   for (let d = -halfDays; d <= halfDays; d += step) {
-    const date = localNight(centreJd + d, site.timeZone);
+    const date = nightOf(centreJd + d, site.timeZone);
     const g = nightGrid(site, c, date, 10);
     const tg = targetGrid(g, target);
     const hours =
@@ -165,7 +179,14 @@ export function computeFlags(
     options.resolutionMas === undefined
       ? null
       : positive('resolutionMas', options.resolutionMas, 1e6);
-  const precision = options.precision ?? { astrometryMas: 1, spectroscopyKmS: 5 };
+  // The best zenith σ per kind over the sites: what the sampling advice assumes.
+  const zenith = sites.map((s, i) =>
+    precisionAt(precisionModel([options.precision, s.precision], `sites.${i}.precision`), 1, null),
+  );
+  const precision = {
+    astrometryMas: Math.min(...zenith.map((z) => z.astrometryMas)),
+    spectroscopyKmS: Math.min(...zenith.map((z) => z.spectroscopyKmS)),
+  };
   const flags: Flag[] = [];
 
   for (const ft of targets) {
@@ -206,7 +227,7 @@ function periapsisFlags(
   now: number,
   horizon: number,
   lead: number[],
-  precision: Precision,
+  precision: { astrometryMas: number; spectroscopyKmS: number },
 ): Flag[] {
   const name = ft.target.name;
   const ev = eventsWithUncertainty(orbit, now, now + horizon, { kinds: ['periapsis'] })[0];
@@ -238,12 +259,16 @@ function periapsisFlags(
   const date = ev.epoch;
   const pm =
     sigmaDays === null ? '(no covariance: uncertainty unknown)' : `± ${sigmaDays.toFixed(1)} d`;
-  const rates = `radial velocity changes by ${rvRate === null ? '? (no distance)' : `${Math.abs(rvRate).toFixed(2)} km/s`} and position by ${skyRate.toFixed(3)} mas per day there${samplingDays !== null ? `, so sample at least every ${samplingDays < 1 ? `${(samplingDays * 24).toFixed(1)} h` : `${samplingDays.toFixed(1)} d`}` : ''}`;
+  const sampling =
+    samplingDays === null
+      ? ''
+      : `, so sample at least every ${samplingDays < 1 ? `${rounded(samplingDays * 24, 2)} h` : `${rounded(samplingDays, 2)} d`}`;
+  const rates = `radial velocity changes by ${rvRate === null ? '? (no distance)' : `${rounded(Math.abs(rvRate))} km/s`} and position by ${rounded(skyRate)} mas per day there${sampling}`;
   const rel = relativity
-    ? `; gravitational redshift ${relativity.gravitationalRedshiftKmS.toFixed(3)} km/s, transverse Doppler ${relativity.transverseDopplerKmS.toFixed(3)} km/s, precession ${relativity.precessionArcminPerOrbit.toFixed(2)}′ per orbit`
+    ? `; gravitational redshift ${rounded(relativity.gravitationalRedshiftKmS)} km/s, transverse Doppler ${rounded(relativity.transverseDopplerKmS)} km/s, precession ${rounded(relativity.precessionArcminPerOrbit)}′ per orbit`
     : '';
   const where = siteHours.map(siteHoursWords).join('; ');
-  const coverage = passageCoverage(ft, sites, siteHours, ev.jd);
+  const coverage = passageCoverage(ft, sites, siteHours, ev.jd, half);
   const details = {
     coverage,
     sigmaDays,
@@ -336,9 +361,10 @@ function blendFlags(
 }
 
 /**
- * Stale prediction: position uncertainty now beyond the limit, or no measurement for longer than the
- * cadence. A planned epoch within the cadence answers the second; a target no site can observe in
- * the coming nights is not flagged now, and the reason says when it becomes observable instead.
+ * Stale prediction: position uncertainty beyond the limit, or no measurement for longer than the
+ * cadence — judged when a site can next observe the target (now, if it can tonight), since nothing
+ * can be done before. A planned epoch within one cadence of that moment answers the second; the
+ * flag is dated at that moment and its words name the night and site.
  */
 function staleFlag(
   ft: FlagTarget,
@@ -347,42 +373,44 @@ function staleFlag(
   staleSigma: number,
 ): Flag | null {
   const orbit = ft.target.orbit;
+  const opens = firstObservable(ft.target, sites, now);
+  const when = opens === undefined ? now : Math.max(now, opens.jd);
+  const later = opens !== undefined && opens.jd > now + 1;
   const sigma = orbit?.covariance
     ? (() => {
-        const r = ephemeris(orbit, Float64Array.of(now))[0]!;
+        const r = ephemeris(orbit, Float64Array.of(when))[0]!;
         return Math.hypot(r.sigma?.dRaMas ?? 0, r.sigma?.dDecMas ?? 0);
       })()
     : null;
-  const since =
-    ft.lastMeasuredJd === undefined || ft.lastMeasuredJd === null ? null : now - ft.lastMeasuredJd;
-  const next = (ft.plannedEpochsJd ?? []).filter((j) => j >= now).sort((a, b) => a - b)[0] ?? null;
-  const plannedInTime =
-    next !== null && ft.cadenceDays !== undefined && next - now <= ft.cadenceDays;
+  const last = ft.lastMeasuredJd ?? null;
+  const since = last === null ? null : when - last;
+  const next = (ft.planned ?? [])
+    .map((p) => p.jd)
+    .filter((j) => j >= now)
+    .sort((a, b) => a - b)[0];
+  const cadence = ft.cadenceDays;
+  const plannedInTime = next !== undefined && cadence !== undefined && next - when <= cadence;
+  const at = later
+    ? ` by the night of ${opens.date} at ${opens.site}, when it can next be observed`
+    : '';
   const reasons: string[] = [];
   if (sigma !== null && sigma > staleSigma)
     reasons.push(
-      `its predicted position is uncertain by ${sigma.toFixed(1)} mas (1σ), beyond the ${staleSigma} mas limit`,
+      `its predicted position${later ? ' then' : ''} is uncertain by ${rounded(sigma, 2)} mas (1σ), beyond the ${staleSigma} mas limit`,
     );
-  if (!plannedInTime && since !== null && ft.cadenceDays !== undefined && since > ft.cadenceDays)
+  if (!plannedInTime && since !== null && cadence !== undefined && since > cadence)
     reasons.push(
-      `it has not been measured for ${Math.floor(since)} days, longer than its ${ft.cadenceDays}-day cadence`,
+      `its last measurement (${jdToIso(last!).slice(0, 10)}) is ${Math.floor(since)} days old${at}, longer than its ${cadence}-day cadence`,
     );
-  if (!plannedInTime && ft.cadenceDays !== undefined && ft.lastMeasuredJd === null)
+  if (!plannedInTime && cadence !== undefined && last === null)
     reasons.push('it has never been measured');
   if (reasons.length === 0) return null;
-  // Not raised while no site can observe it: dated when it becomes observable, and saying so.
-  const opens = firstObservable(ft.target, sites, now);
-  const when = opens === undefined ? now : opens;
   const seen =
-    opens === undefined
-      ? '; no campaign site can observe it within the coming year'
-      : opens > now + 0.5
-        ? `; no campaign site can observe it until the night of ${localNight(opens, sites[0]!.site.timeZone)}, when this applies`
-        : '';
+    opens === undefined ? '; no campaign site can observe it within the coming year' : '';
   const plan =
-    next === null
+    next === undefined
       ? 'no epoch is planned'
-      : `the next planned epoch is ${jdToIso(next).slice(0, 10)}`;
+      : `the next planned epoch is ${jdToIso(next).slice(0, 10)}${later || next - now > 1 ? ` (${Math.round(next - when)} days after ${later ? 'that night' : 'today'})` : ''}`;
   return {
     kind: 'stale-prediction',
     target: ft.target.name,
@@ -392,56 +420,99 @@ function staleFlag(
     stale: {
       sigmaMas: sigma,
       daysSinceMeasured: since,
-      nextPlanned: next === null ? null : jdToIso(next),
+      nextPlanned: next === undefined ? null : jdToIso(next),
+      observableFrom: later
+        ? { utc: jdToIso(opens.jd), site: opens.site, night: opens.date }
+        : null,
     },
   };
 }
 
-/** The JD of the first night (weekly steps over a year) on which some site sees the target, or undefined. */
+/**
+ * The first moment (within a year) a site can observe the target: the first open edge of the first
+ * night with one, found in weekly steps and then night by night within the week. Undefined: none.
+ */
 export function firstObservable(
   target: Target,
   sites: readonly FlagSite[],
   now: number,
-): number | undefined {
-  for (let d = 0; d <= 365; d += 7) {
+): { jd: number; site: string; date: string } | undefined {
+  const openOn = (d: number) => {
+    let best: { jd: number; site: string; date: string } | undefined;
     for (const s of sites) {
-      const g = nightGrid(s.site, s.limits, localNight(now + d + 0.5, s.site.timeZone), 30);
-      if (targetGrid(g, target).ok.some((v) => v === 1)) return now + d;
+      const date = nightOf(now + d, s.site.timeZone);
+      const g = nightGrid(s.site, s.limits, date, 10);
+      const ok = targetGrid(g, target).ok;
+      for (let i = 0; i < ok.length; i++)
+        if (ok[i] && g.edgeJd[i]! >= now) {
+          if (!best || g.edgeJd[i]! < best.jd) best = { jd: g.edgeJd[i]!, site: s.site.name, date };
+          break;
+        }
     }
+    return best;
+  };
+  // Weekly steps, then the nights of the week before the first open one; all on the planners'
+  // 10-minute grid (a coarser one misses the first short windows as a star leaves the Sun).
+  const tonight = openOn(0);
+  if (tonight) return tonight;
+  for (let d = 1; d <= 366; d += 7) {
+    const found = openOn(d);
+    if (!found) continue;
+    for (let k = Math.max(1, d - 6); k < d; k++) {
+      const early = openOn(k);
+      if (early) return early;
+    }
+    return found;
   }
   return undefined;
 }
 
 /**
  * Whether planned epochs or allocated observable nights cover the ± window: "covered: Tolvane
- * 06-13 (planned), 06-15; not covered: the most likely night 06-14".
+ * 06-13 (planned), 06-15 (allocated); planned but closed: Tolvane 06-14 (the Moon …); not covered:
+ * the most likely night 06-14". A planned epoch counts only where the target is observable at its
+ * moment (the planners' grid): a block on a night the Moon closes covers nothing.
  */
 function passageCoverage(
   ft: FlagTarget,
   sites: readonly FlagSite[],
   hours: readonly SiteHours[],
   jd: number,
+  halfDays: number,
 ): NonNullable<Flag['periapsis']>['coverage'] {
   const planned: { site: string; date: string }[] = [];
+  const closed: { site: string; date: string; words: string }[] = [];
   const allocated: { site: string; date: string }[] = [];
-  const epochs = ft.plannedEpochsJd ?? [];
+  const openEpochs: number[] = [];
+  for (const e of ft.planned ?? []) {
+    const s = sites.find((x) => x.site.name === e.site);
+    if (!s || Math.abs(e.jd - jd) > halfDays + 1) continue;
+    const m = skyAtMoment(s.site, s.limits, ft.target, e.jd);
+    const same = (x: { site: string; date: string }) => x.site === e.site && x.date === m.date;
+    if (m.open) {
+      openEpochs.push(e.jd);
+      if (!planned.some(same)) planned.push({ site: e.site, date: m.date });
+    } else if (!closed.some(same))
+      closed.push({ site: e.site, date: m.date, words: m.words ?? 'closed' });
+  }
   sites.forEach((s, i) => {
-    const zone = s.site.timeZone;
-    for (const n of hours[i]!.nights) {
-      if (epochs.some((e) => localNight(e, zone) === n.date))
-        planned.push({ site: s.site.name, date: n.date });
-      else if (s.nights?.includes(n.date) && n.hours > 0)
+    for (const n of hours[i]!.nights)
+      if (
+        s.nights?.includes(n.date) &&
+        n.hours > 0 &&
+        !planned.some((p) => p.site === s.site.name && p.date === n.date)
+      )
         allocated.push({ site: s.site.name, date: n.date });
-    }
   });
-  const likely = sites.map((s) => localNight(jd, s.site.timeZone));
-  const mostLikelyCovered = epochs.some((e) => Math.abs(e - jd) <= 1);
+  const likely = sites.map((s) => nightOf(jd, s.site.timeZone));
+  const mostLikelyCovered = openEpochs.some((e) => Math.abs(e - jd) <= 1);
   const list = (xs: { site: string; date: string }[], tag: string) =>
     xs.map((x) => `${x.site} ${x.date.slice(5)}${tag}`);
   const covered = [...list(planned, ' (planned)'), ...list(allocated, ' (allocated)')];
-  const known = sites.some((s) => s.nights !== undefined) || epochs.length > 0;
+  const shut = closed.map((c) => `${c.site} ${c.date.slice(5)} (${c.words})`);
+  const known = sites.some((s) => s.nights !== undefined) || (ft.planned ?? []).length > 0;
   const text = !known
     ? ''
-    : `Covered: ${covered.length ? covered.join(', ') : 'no planned epoch or allocated observable night in the window'}${mostLikelyCovered ? '.' : `; not covered: the most likely night ${[...new Set(likely)].map((d) => d.slice(5)).join('/')} (no planned epoch within 1 d of the date).`}`;
-  return { planned, allocated, mostLikelyCovered, text };
+    : `Covered: ${covered.length ? covered.join(', ') : 'no planned epoch or allocated observable night in the window'}${shut.length ? `; planned but closed, so not covering: ${shut.join(', ')}` : ''}${mostLikelyCovered ? '.' : `; not covered: the most likely night ${[...new Set(likely)].map((d) => d.slice(5)).join('/')} (no observable planned epoch within 1 d of the date).`}`;
+  return { planned, closed, allocated, mostLikelyCovered, text };
 }

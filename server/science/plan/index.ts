@@ -17,6 +17,7 @@ export {
   type SiteHours,
 } from './flags.ts';
 export { nightGrid, targetGrid, REASON_CODES, type NightGrid, type TargetGrid } from './grid.ts';
+export { nightMoments, skyAtMoment, type MomentSky } from './moment.ts';
 export {
   addInformation,
   informationModel,

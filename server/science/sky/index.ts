@@ -35,7 +35,14 @@ export {
 } from './coordinates.ts';
 export { darknessExact, darknessFast, type Interval } from './darkness.ts';
 export { nightFrame, type NightFrame } from './frame.ts';
-export { instant, nightSpan, parseNightDate, type Instant, type NightSpan } from './night.ts';
+export {
+  instant,
+  nightOf,
+  nightSpan,
+  parseNightDate,
+  type Instant,
+  type NightSpan,
+} from './night.ts';
 export {
   cautions,
   NIGHT_CURVE_STEP,

@@ -46,6 +46,11 @@ export function nightSpan(site: Site, date: string, field = 'date'): NightSpan {
   return { date, startJd: unixMsToJd(noon.toMillis()), endJd: unixMsToJd(next.toMillis()) };
 }
 
+/** The night (local evening date, YYYY-MM-DD) an instant falls in: nights run from local noon to local noon. */
+export function nightOf(jd: number, timeZone: string): string {
+  return DateTime.fromMillis(jdToUnixMs(jd - 0.5), { zone: timeZone }).toISODate()!;
+}
+
 /** The night whose evening follows `date` by `offsetDays` days, as YYYY-MM-DD. */
 export function addDays(date: string, offsetDays: number): string {
   const { year, month, day } = parseNightDate(date);

@@ -125,7 +125,12 @@ export async function campaignFlags(
   const nowIso = jdToIso(options.nowJd);
   const planned = nightRows.length
     ? await db
-        .select({ targetId: blocks.targetId, start: blocks.startUtc, end: blocks.endUtc })
+        .select({
+          targetId: blocks.targetId,
+          nightId: blocks.nightId,
+          start: blocks.startUtc,
+          end: blocks.endUtc,
+        })
         .from(blocks)
         .where(
           and(
@@ -139,15 +144,20 @@ export async function campaignFlags(
         )
     : [];
   const goals = input.campaign.goals;
+  const nightSite = new Map(nightRows.map((n) => [n.id, n.siteId]));
+  const siteName = new Map(input.sites.map((s) => [s.id, s.site.name]));
   const flags = computeFlags(
     input.targets.map((t) => ({
       target: t.target,
       system: t.system,
       cadenceDays: goals.targets?.[String(t.id)]?.cadenceDays ?? goals.cadenceDays,
       lastMeasuredJd: t.lastMeasuredJd,
-      plannedEpochsJd: planned
+      planned: planned
         .filter((b) => b.targetId === t.id)
-        .map((b) => (parseEpoch(b.start) + parseEpoch(b.end)) / 2),
+        .map((b) => ({
+          jd: (parseEpoch(b.start) + parseEpoch(b.end)) / 2,
+          site: siteName.get(nightSite.get(b.nightId)!) ?? '',
+        })),
     })),
     input.sites.map((s) => ({
       ...s,
@@ -156,6 +166,7 @@ export async function campaignFlags(
     {
       nowJd: options.nowJd,
       leadDays: [30, 182, 365],
+      ...(goals.precision ? { precision: goals.precision } : {}),
       ...(options.resolutionMas ? { resolutionMas: options.resolutionMas } : {}),
     },
   );

@@ -7,8 +7,9 @@ import * as Astronomy from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
 import { computeFlags } from '../../../server/science/plan/index.ts';
 import { validateTarget } from '../../../server/science/sky/index.ts';
-import { parseEpoch } from '../../../server/science/time/index.ts';
-import { CONSTRAINTS, SITE } from './helpers.ts';
+import { nightOf, nightSpan } from '../../../server/science/sky/index.ts';
+import { jdToUnixMs, parseEpoch, unixMsToJd } from '../../../server/science/time/index.ts';
+import { CONSTRAINTS, SITE, safeAt } from './helpers.ts';
 
 const NOW = parseEpoch('2027-03-01T12:00:00Z');
 const orbit = (periapsis: string) => ({
@@ -40,7 +41,8 @@ describe('flags that read the plans', () => {
     false,
     true,
   );
-  const hidden = validateTarget({ name: 'Hid', raDeg: sun.ra * 15 + 5, decDeg: sun.dec });
+  const hid = { raDeg: sun.ra * 15 + 5, decDeg: sun.dec };
+  const hidden = validateTarget({ name: 'Hid', ...hid });
   const seen = validateTarget({
     name: 'Seen',
     raDeg: 266,
@@ -56,7 +58,7 @@ describe('flags that read the plans', () => {
         system: 'S',
         cadenceDays: 30,
         lastMeasuredJd: NOW - 100,
-        plannedEpochsJd: [parseEpoch('2027-06-09T06:00:00Z')],
+        planned: [{ jd: parseEpoch('2027-06-09T06:00:00Z'), site: SITE.name }],
       },
     ],
     [{ site: SITE, limits: CONSTRAINTS, nights }],
@@ -67,7 +69,31 @@ describe('flags that read the plans', () => {
     const st = flags.find((f) => f.kind === 'stale-prediction' && f.target === 'Hid')!;
     console.log(st.reason);
     expect(st.daysAhead).toBeGreaterThan(14); // constructed: 5° from the Sun, which moves ~1°/day; 45° avoidance
-    expect(st.reason).toMatch(/no campaign site can observe it until the night of 2027-/);
+    // One convention for dates: the flag's date is the first open moment (UTC); its words name that night and site.
+    const from = st.stale!.observableFrom!;
+    expect(st.date).toBe(from.utc);
+    expect(nightOf(parseEpoch(st.date), SITE.timeZone)).toBe(from.night);
+    expect(st.reason).toContain(
+      `by the night of ${from.night} at ${SITE.name}, when it can next be observed`,
+    );
+    // Independent route (astronomy-engine per instant, helpers.ts): at that moment the star is
+    // observable, and three nights before at no moment of darkness (it rises ~4 min earlier each
+    // night, so a 10-minute grid finds its first night within three).
+    // The Moon counts too, while it is above the horizon.
+    const obs = new Astronomy.Observer(SITE.latitudeDeg, SITE.longitudeDeg, SITE.elevationM);
+    const moonClose = (jd: number) => {
+      const t = Astronomy.MakeTime(new Date(jdToUnixMs(jd)));
+      const m = Astronomy.Equator(Astronomy.Body.Moon, t, obs, true, true);
+      const up = Astronomy.Horizon(t, obs, m.ra, m.dec).altitude > 0;
+      const star = Astronomy.VectorFromSphere(new Astronomy.Spherical(hid.decDeg, hid.raDeg, 1), t);
+      return up && Astronomy.AngleBetween(m.vec, star) < CONSTRAINTS.leastMoonDistanceDeg;
+    };
+    const jd = parseEpoch(st.date);
+    expect(safeAt(SITE, CONSTRAINTS, hidden, jd, 0.3)).toBeNull();
+    expect(moonClose(jd)).toBe(false);
+    const before = nightSpan(SITE, nightOf(jd - 3, SITE.timeZone));
+    for (let t = before.startJd; t < before.endJd; t += 5 / 1440)
+      expect(safeAt(SITE, CONSTRAINTS, hidden, t) !== null || moonClose(t)).toBe(true);
     expect(flags[flags.length - 1]!.kind).toBe('stale-prediction');
     expect(flags.findIndex((f) => f.kind === 'periapsis-ahead')).toBeLessThan(
       flags.findIndex((f) => f.kind === 'stale-prediction'),
@@ -82,7 +108,7 @@ describe('flags that read the plans', () => {
           system: 'S',
           cadenceDays: 30,
           lastMeasuredJd: NOW - 100,
-          plannedEpochsJd: [NOW + 10],
+          planned: [{ jd: NOW + 10, site: SITE.name }],
         },
       ],
       [{ site: SITE, limits: CONSTRAINTS }],
@@ -98,5 +124,49 @@ describe('flags that read the plans', () => {
     expect(p.periapsis!.coverage.mostLikelyCovered).toBe(true); // the planned epoch lies 0.75 d before the date
     for (const s of p.periapsis!.sites)
       for (const n of s.nights) expect(n.hours > 0 || (n.words ?? '').length > 5).toBe(true); // every 0-h night names its limit
+  });
+
+  it('does not count a planned epoch on a night the Moon closes as covering the passage', () => {
+    // Constructed case: a star on the Moon's place at the full Moon of June 2027 (astronomy-engine),
+    // passing periapsis then, with one planned epoch at local midnight of that night.
+    const full = Astronomy.SearchMoonPhase(180, Astronomy.MakeTime(new Date('2027-06-01')), 40)!;
+    const fullJd = unixMsToJd(full.date.getTime());
+    const obs = new Astronomy.Observer(SITE.latitudeDeg, SITE.longitudeDeg, SITE.elevationM);
+    const moonAt = (jd: number) =>
+      Astronomy.Equator(
+        Astronomy.Body.Moon,
+        Astronomy.MakeTime(new Date(jdToUnixMs(jd))),
+        obs,
+        false,
+        true,
+      );
+    const m = moonAt(fullJd);
+    const lune = validateTarget({
+      name: 'Lune',
+      raDeg: m.ra * 15,
+      decDeg: m.dec,
+      orbit: orbit(full.date.toISOString()),
+    });
+    const night = nightOf(fullJd, SITE.timeZone);
+    const epoch = nightSpan(SITE, night).startJd + 0.5; // local midnight
+    const q = moonAt(epoch);
+    const sep = Astronomy.AngleBetween(
+      Astronomy.VectorFromSphere(new Astronomy.Spherical(q.dec, q.ra * 15, 1), q.vec.t),
+      Astronomy.VectorFromSphere(new Astronomy.Spherical(m.dec, m.ra * 15, 1), q.vec.t),
+    );
+    expect(sep).toBeLessThan(CONSTRAINTS.leastMoonDistanceDeg); // the premise: the Moon closes that moment
+    const [flag] = computeFlags(
+      [{ target: lune, system: 'L', planned: [{ jd: epoch, site: SITE.name }] }],
+      [{ site: SITE, limits: CONSTRAINTS, nights: [night] }],
+      { nowJd: fullJd - 100, leadDays: [182] },
+    ).filter((f) => f.kind.startsWith('periapsis'));
+    const c = flag!.periapsis!.coverage;
+    console.log(c.text);
+    expect(c.planned).toEqual([]);
+    expect(c.closed).toHaveLength(1);
+    expect(c.closed[0]!.date).toBe(night);
+    expect(c.closed[0]!.words).toMatch(/the Moon \(\d+° away, limit \d+°\)/);
+    expect(c.mostLikelyCovered).toBe(false); // the one epoch is within 1 d of the date but closed
+    expect(c.text).toContain('planned but closed');
   });
 });

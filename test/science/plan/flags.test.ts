@@ -145,6 +145,6 @@ describe('stale flags', () => {
       { nowJd: now },
     );
     expect(f).toHaveLength(1);
-    expect(f[0]!.reason).toMatch(/45 days, longer than its 30-day cadence/);
+    expect(f[0]!.reason).toMatch(/is 45 days old, longer than its 30-day cadence/); // constructed: measured 45 d before now, no site to wait for
   });
 });

@@ -40,6 +40,7 @@ it('exports exactly these values', () => {
       'maskAltitudeDeg',
       'moonNight',
       'nightFrame',
+      'nightOf',
       'nightReport',
       'nightSpan',
       'offsetPosition',
