@@ -44,6 +44,12 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
             )}{' '}
             · in {Math.round(f.daysAhead)} days · {p.band}
           </span>
+        ) : f.stale ? (
+          <span class="flag-when">
+            {f.stale.observableFrom
+              ? `from the night of ${f.stale.observableFrom.night} at ${f.stale.observableFrom.site} (${utcText(f.date)} UTC)`
+              : 'now'}
+          </span>
         ) : f.blend ? (
           <span class="flag-when">
             {dateText(f.blend.start)} to {dateText(f.blend.end)} with {f.blend.other}, closest{' '}
@@ -54,15 +60,16 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
       {p && (
         <div class="flag-body">
           {p.sites.map((s) => (
-            <span key={s.site} class={`site-chip ${s.blocked ? 'unseen' : 'seen'}`}>
+            <span key={s.site} class={`site-chip ${s.maxHours > 0 ? 'seen' : 'unseen'}`}>
               {s.site}:{' '}
-              {s.blocked ? (
-                <>not observable ({s.blocked})</>
-              ) : (
+              {s.maxHours > 0 ? (
                 <>
                   observable <Qty v={s.minHours} unit="" />–<Qty v={s.maxHours} unit="h" /> per
-                  night
+                  night of the ± window
+                  {s.blocked && <> (not on the periapsis night: {s.blocked})</>}
                 </>
+              ) : (
+                <>not observable in the ± window ({s.blocked ?? 'no window'})</>
               )}
             </span>
           ))}
