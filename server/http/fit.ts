@@ -1,6 +1,8 @@
 /**
  * Orbit fitting over HTTP.
- * - POST /fit: measurements and options in the body, the fit back (nothing stored).
+ * - POST /fit: measurements and options in the body, the fit back (nothing stored), with one page
+ *   of residuals (`residualPage`) and a summary of all; POST …/fit/residuals answers every
+ *   residual as CSV instead (the fit runs again: it is deterministic).
  * - With the store: POST /targets/{id}/fit and /systems/{id}/fit fit stored measurements (preview,
  *   viewer role); POST …/fit/accept runs the same fit and stores each star's solution as a new
  *   orbit-solution version, made current (lead role; earlier versions stay).
@@ -9,8 +11,10 @@
  */
 import type { Runner } from '../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
+import type { Context } from 'hono';
 import type { FitRequest } from '../science/orbit/fit/index.ts';
-import type { Store } from '../store/index.ts';
+import { RESIDUAL_PAGE } from '../science/orbit/fit/residual-page.ts';
+import { RESIDUAL_CSV_COLUMNS, type Store } from '../store/index.ts';
 import { identify, requireRole } from './auth.ts';
 import { HttpError } from './errors.ts';
 import { IdParam, resourceApp, security } from './resources/common.ts';
@@ -125,6 +129,23 @@ const Options = {
     .optional()
     .openapi({ description: 'posterior sampling (affine-invariant ensemble), seeded' }),
 };
+const ResidualPage = z
+  .object({
+    offset: z
+      .number()
+      .int()
+      .optional()
+      .openapi({ description: 'first residual, 0-based (default 0)' }),
+    limit: z
+      .number()
+      .int()
+      .optional()
+      .openapi({
+        description: `residuals in the answer, 1 to ${RESIDUAL_PAGE.maxLimit} (default ${RESIDUAL_PAGE.defaultLimit}); every residual: …/fit/residuals as CSV`,
+      }),
+  })
+  .strict()
+  .optional();
 const FitBody = z
   .object({
     stars: z
@@ -145,6 +166,7 @@ const FitBody = z
       )
       .min(1),
     ...Options,
+    residualPage: ResidualPage,
   })
   .strict();
 const StoredBody = z
@@ -167,6 +189,7 @@ const StoredBody = z
       .max(2000)
       .optional()
       .openapi({ description: 'stored with the accepted solutions' }),
+    residualPage: ResidualPage,
   })
   .strict();
 const body = <S extends z.ZodType>(schema: S) => ({
@@ -181,6 +204,12 @@ const FittedTargets = z.array(
     .object({ id: z.number().int(), name: z.string(), measurementIds: z.array(z.number().int()) })
     .strict(),
 );
+const residualCsv = {
+  content: { 'text/csv': { schema: z.string() } },
+  description: `every residual, RFC 4180: ${RESIDUAL_CSV_COLUMNS.join(', ')} (observed − model, each component's unit beside it)`,
+};
+const csvAnswer = (c: Context, text: string) =>
+  c.body(text, 200, { 'content-type': 'text/csv; charset=utf-8' });
 const StoredPreview = z.object({ targets: FittedTargets, result: FitResultSchema }).strict();
 const StoredAccept = z
   .object({ solutions: z.array(OrbitSolutionRowSchema), result: FitResultSchema })
@@ -197,14 +226,33 @@ export function fitRoutes(run: Runner, store?: Store) {
       request: body(FitBody),
       responses: { 200: fitted, ...errorResponses },
     }),
-    async (c) => c.json(await run('fitOrbits', c.req.valid('json') as FitRequest), 200),
+    async (c) => {
+      const { residualPage, ...request } = c.req.valid('json');
+      return c.json(await run('fitPage', request as FitRequest, residualPage), 200);
+    },
+  );
+  app.openapi(
+    createRoute({
+      method: 'post',
+      path: '/fit/residuals',
+      tags,
+      summary: 'Fit as POST /fit does and answer every residual as CSV (one line per measurement)',
+      request: body(FitBody),
+      responses: { 200: residualCsv, ...errorResponses },
+    }),
+    async (c) => {
+      const { residualPage: _page, ...request } = c.req.valid('json');
+      return csvAnswer(c, await run('fitResidualsCsv', request as FitRequest));
+    },
   );
   if (!store) return app;
   for (const path of [
     '/targets/:id/fit',
     '/targets/:id/fit/accept',
+    '/targets/:id/fit/residuals',
     '/systems/:id/fit',
     '/systems/:id/fit/accept',
+    '/systems/:id/fit/residuals',
   ])
     app.use(path, identify(store));
   const targetsOf = async (id: number, scope: 'target' | 'system', only?: number[]) => {
@@ -237,13 +285,34 @@ export function fitRoutes(run: Runner, store?: Store) {
       }),
       async (c) => {
         requireRole(c, 'viewer');
-        const { notes: _notes, targetIds, ...options } = c.req.valid('json');
+        const { notes: _notes, targetIds, residualPage, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
         const prepared = await store.fits.prepare(ids, options);
         return c.json(
-          { targets: prepared.targets, result: await run('fitOrbits', prepared.request) },
+          {
+            targets: prepared.targets,
+            result: await run('fitPage', prepared.request, residualPage),
+          },
           200,
         );
+      },
+    );
+    app.openapi(
+      createRoute({
+        method: 'post',
+        path: `${base}/residuals`,
+        tags,
+        security,
+        summary: `Fit ${what} and answer every residual as CSV (preview, nothing stored)`,
+        request: { params: IdParam, ...body(StoredBody) },
+        responses: { 200: residualCsv, ...errorResponses },
+      }),
+      async (c) => {
+        requireRole(c, 'viewer');
+        const { notes: _notes, targetIds, residualPage: _page, ...options } = c.req.valid('json');
+        const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
+        const prepared = await store.fits.prepare(ids, options);
+        return csvAnswer(c, await run('fitResidualsCsv', prepared.request));
       },
     );
     app.openapi(
@@ -261,10 +330,10 @@ export function fitRoutes(run: Runner, store?: Store) {
       }),
       async (c) => {
         const user = requireRole(c, 'lead');
-        const { notes, targetIds, ...options } = c.req.valid('json');
+        const { notes, targetIds, residualPage, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
         const prepared = await store.fits.prepare(ids, options);
-        const result = await run('fitOrbits', prepared.request);
+        const result = await run('fitPage', prepared.request, residualPage);
         const solutions = await store.fits.accept(
           { userId: user.id },
           prepared,

@@ -49,21 +49,25 @@ const MINUTES_PER_DAY = 1440;
 const TYPICAL_ENSEMBLE_SIZE = 40;
 
 /** The cost check of each task; tasks missing here are cheap by construction. */
+function costOfFit(req: TaskArgs<'fitOrbits'>[0]): void {
+  const m = (req.stars ?? []).reduce((s, st) => s + (st.measurements?.length ?? 0), 0);
+  within('stars.measurements', m, m, 'fitMeasurements', 'the measurements');
+  if (!req.posterior) return;
+  const rounds = num(req.posterior.rounds, 2000);
+  const members = num(req.posterior.ensembleSize, TYPICAL_ENSEMBLE_SIZE);
+  within(
+    'posterior.rounds',
+    req.posterior.rounds ?? rounds,
+    m * members * rounds,
+    'posteriorEvaluations',
+    `measurements × ensembleSize × rounds = ${m} × ${members} × ${rounds} =`,
+  );
+}
+
 const CHECKS: { [K in TaskName]?: (...args: TaskArgs<K>) => void } = {
-  fitOrbits(req) {
-    const m = (req.stars ?? []).reduce((s, st) => s + (st.measurements?.length ?? 0), 0);
-    within('stars.measurements', m, m, 'fitMeasurements', 'the measurements');
-    if (!req.posterior) return;
-    const rounds = num(req.posterior.rounds, 2000);
-    const members = num(req.posterior.ensembleSize, TYPICAL_ENSEMBLE_SIZE);
-    within(
-      'posterior.rounds',
-      req.posterior.rounds ?? rounds,
-      m * members * rounds,
-      'posteriorEvaluations',
-      `measurements × ensembleSize × rounds = ${m} × ${members} × ${rounds} =`,
-    );
-  },
+  fitOrbits: costOfFit,
+  fitPage: costOfFit,
+  fitResidualsCsv: costOfFit,
   nightReport(_site, _date, targets, _limits, options = {}) {
     const step = num(options.stepMinutes, 5);
     const curve = num(options.curveStepMinutes, 10);

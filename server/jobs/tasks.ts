@@ -6,7 +6,9 @@
  */
 import { prepareMeasurements } from '../store/csv/measurement-rows.ts';
 import { ComputationError, InputError } from '../science/errors.ts';
-import { fitOrbits, FitRefusal } from '../science/orbit/fit/index.ts';
+import { fitOrbits, FitRefusal, type FitRequest } from '../science/orbit/fit/index.ts';
+import { pageResiduals, type ResidualPageRequest } from '../science/orbit/fit/residual-page.ts';
+import { residualsCsv } from '../store/exports/residuals.ts';
 import { ephemeris, eventsWithUncertainty } from '../science/orbit/ephemeris.ts';
 import { planSeason, scheduleNight } from '../science/plan/index.ts';
 import {
@@ -24,6 +26,11 @@ type Rest<F extends (...a: never[]) => unknown> =
 
 export const TASKS = {
   fitOrbits,
+  /** A fit answered with one page of residuals and their summary (HTTP: a bounded answer). */
+  fitPage: (request: FitRequest, page?: ResidualPageRequest) =>
+    pageResiduals(fitOrbits(request), page),
+  /** Every residual of a fit as CSV, written on the worker (a large fit's text never blocks the server). */
+  fitResidualsCsv: (request: FitRequest) => residualsCsv(fitOrbits(request).residuals),
   planSeason: (...[start, end, sites, ...rest]: Parameters<typeof planSeason>) =>
     planSeason(
       start,

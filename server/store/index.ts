@@ -58,4 +58,5 @@ export { escapeFormulaCell } from './csv/cells.ts';
 export { CLEAR_PRIOR_COLUMNS, readClearPriorCsv } from './csv/clear-prior.ts';
 export type { PreparedMeasurements } from './csv/measurement-rows.ts';
 export { ephemerisCsv } from './exports/ephemeris.ts';
+export { RESIDUAL_CSV_COLUMNS, residualsCsv } from './exports/residuals.ts';
 export { measurementsCsv, type ExportedMeasurement } from './exports/measurements.ts';

@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { main } from '../../server/cli/main.ts';
-import type { Store } from '../../server/store/index.ts';
+import { RESIDUAL_CSV_COLUMNS, type Store } from '../../server/store/index.ts';
 import { startStore } from '../../server/store/startup.ts';
 import { measurementsCsv } from '../../server/store/exports/measurements.ts';
 
@@ -80,7 +80,7 @@ describe('epochwright fit', () => {
     ).out
       .trim()
       .split('\n');
-    expect(csv[0]).toBe('star,row,kind,epoch,o−c 1,o−c 2,(o−c)/σ 1,(o−c)/σ 2,outlier');
+    expect(csv[0]).toBe(RESIDUAL_CSV_COLUMNS.join(',')); // the same CSV as the HTTP fit's
     expect(csv.length).toBe(1 + (await store.measurements.list({ targetId: morrow.id })).total); // a header and one line per measurement
   });
 

@@ -91,6 +91,56 @@ describe('POST /api/fit (stateless)', () => {
     expect((await post(app, '/api/fit', { stars: [], lossy: 1 })).status).toBe(400); // unknown key and empty list: schema errors
   });
 
+  it('answers one page of residuals with a summary of all, and every residual as CSV', async () => {
+    const stars = [{ name: 'Tarn', measurements, hints: { periodYears: { min: 8, max: 12 } } }];
+    const page = await post(app, '/api/fit', { stars, residualPage: { offset: 5, limit: 10 } });
+    expect(page.status, await page.clone().text()).toBe(200);
+    const body = (await page.json()) as {
+      residuals: { index: number; residual: number[]; normalized: number[] }[];
+      residualPage: { offset: number; limit: number; total: number };
+      residualSummary: {
+        total: number;
+        groups: { kind: string; count: number; rmsNormalized: number }[];
+      };
+    };
+    expect(body.residualPage).toEqual({ offset: 5, limit: 10, total: measurements.length });
+    expect(body.residuals.map((x) => x.index)).toEqual([5, 6, 7, 8, 9, 10, 11, 12, 13, 14]);
+    expect(body.residualSummary.total).toBe(measurements.length);
+    // 20 offsets and 10 velocities, simulated at their σ: RMS of (o−c)/σ near 1 (constructed case)
+    expect(body.residualSummary.groups.map((g) => [g.kind, g.count])).toEqual([
+      ['offsets', 20],
+      ['radial-velocity', 10],
+    ]);
+    for (const g of body.residualSummary.groups) {
+      expect(g.rmsNormalized).toBeGreaterThan(0.4);
+      expect(g.rmsNormalized).toBeLessThan(1.6);
+    }
+    for (const [limit, offset] of [
+      [0, 0],
+      [10_001, 0],
+      [5, -1],
+    ] as const) {
+      const bad = await post(app, '/api/fit', { stars, residualPage: { offset, limit } });
+      expect(bad.status).toBe(422);
+      const field = ((await bad.json()) as { error: { details: { field: string } } }).error.details
+        .field;
+      expect(field).toBe(offset < 0 ? 'residualPage.offset' : 'residualPage.limit');
+    }
+    const csv = await post(app, '/api/fit/residuals', { stars });
+    expect(csv.status, await csv.clone().text()).toBe(200);
+    expect(csv.headers.get('content-type')).toMatch(/^text\/csv/);
+    const lines = (await csv.text()).trim().split('\n');
+    expect(lines[0]).toBe(
+      'star,index,id,kind,epoch,jd,residual_1,unit_1,residual_2,unit_2,normalized_1,normalized_2,outlier',
+    );
+    expect(lines.length).toBe(1 + measurements.length);
+    // Line 1 + k is residual k, at full precision: the page's numbers exactly.
+    const cells = lines[1 + 7]!.split(',');
+    const seventh = body.residuals.find((x) => x.index === 7)!;
+    expect(Number(cells[6])).toBe(seventh.residual[0]);
+    expect(Number(cells[10])).toBe(seventh.normalized[0]);
+  });
+
   it('documents the fit endpoints in the OpenAPI document', async () => {
     const doc = (await (
       await createApp({ store: undefined }).request('/api/openapi.json')
@@ -168,10 +218,19 @@ describe('fits of stored measurements (demo campaign)', () => {
     for (const path of [
       '/targets/{id}/fit',
       '/targets/{id}/fit/accept',
+      '/targets/{id}/fit/residuals',
       '/systems/{id}/fit',
       '/systems/{id}/fit/accept',
+      '/systems/{id}/fit/residuals',
     ])
       expect(Object.keys(doc.paths)).toContain(path);
+    // Every stored residual as CSV, for a viewer; refused without a token.
+    const csv = await post(app, `/api/targets/${s2.id}/fit/residuals`, {}, viewer);
+    expect(csv.status, await csv.clone().text()).toBe(200);
+    expect((await csv.text()).trim().split('\n').length).toBe(
+      1 + pv.targets[0]!.measurementIds.length,
+    );
+    expect((await post(app, `/api/targets/${s2.id}/fit/residuals`, {})).status).toBe(401);
     const versions = (await store.orbitSolutions.list({})).items.filter(
       (v) => v.targetId === s2.id,
     );

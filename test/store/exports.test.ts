@@ -24,6 +24,7 @@ it('exports exactly the store entry points', () => {
     'NotFoundError',
     'OrbitSolutionInput',
     'REQUIRED_COLUMNS',
+    'RESIDUAL_CSV_COLUMNS',
     'SiteFields',
     'SystemFields',
     'TargetFields',
@@ -33,6 +34,7 @@ it('exports exactly the store entry points', () => {
     'escapeFormulaCell',
     'measurementsCsv',
     'openDatabase',
+    'residualsCsv',
     'resolveDatabaseUrl',
     'startStore',
   ]); // server/store/index.ts as designed

@@ -7908,6 +7908,12 @@ export interface paths {
                             rounds?: number;
                             discardRounds?: number;
                         };
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
                     };
                 };
             };
@@ -7919,6 +7925,183 @@ export interface paths {
                     };
                     content: {
                         "application/json": components["schemas"]["FitResult"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/fit/residuals": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Fit as POST /fit does and answer every residual as CSV (one line per measurement) */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        stars: {
+                            name: string;
+                            /** @description offsets, separation or radial-velocity measurements (fields as in /measurements) */
+                            measurements: components["schemas"]["FitMeasurement"][];
+                            hints?: {
+                                /** @description period search range, years */
+                                periodYears?: {
+                                    min: number;
+                                    max: number;
+                                };
+                                eccentricity?: {
+                                    min: number;
+                                    max: number;
+                                };
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
+                                start?: {
+                                    elements: components["schemas"]["CampbellElements"];
+                                    distancePc?: number;
+                                    systemicVelocityKmS?: number;
+                                };
+                            };
+                            /** @description this star’s terms, over the request’s relativity */
+                            relativity?: {
+                                romer?: boolean;
+                                gravitationalRedshift?: boolean;
+                                transverseDoppler?: boolean;
+                                precession?: boolean;
+                            };
+                        }[];
+                        /** @description relativistic terms in the model (all off by default) */
+                        relativity?: {
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
+                        };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
+                        /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
+                        frame?: {
+                            offset?: boolean;
+                            drift?: boolean;
+                        };
+                        /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
+                        frameEpoch?: string | number;
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
+                        fixed?: {
+                            [key: string]: number;
+                        };
+                        /** @description Gaussian priors by parameter name */
+                        priors?: {
+                            [key: string]: {
+                                mean: number;
+                                sigma: number;
+                            };
+                        };
+                        /** @enum {string} */
+                        loss?: "gaussian" | "huber";
+                        /** @description next periapsis counted from here (default: the latest epoch) */
+                        asOf?: string | number;
+                        /** @description posterior sampling (affine-invariant ensemble), seeded */
+                        posterior?: {
+                            seed: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
+                        };
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
+                    };
+                };
+            };
+            responses: {
+                /** @description every residual, RFC 4180: star, index, id, kind, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "text/csv": string;
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -8078,6 +8261,12 @@ export interface paths {
                         };
                         /** @description stored with the accepted solutions */
                         notes?: string;
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
                     };
                 };
             };
@@ -8096,6 +8285,182 @@ export interface paths {
                             }[];
                             result: components["schemas"]["FitResult"];
                         };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/targets/{id}/fit/residuals": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Fit a target’s stored measurements and answer every residual as CSV (preview, nothing stored) */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        /** @description relativistic terms in the model (all off by default) */
+                        relativity?: {
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
+                        };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
+                        /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
+                        frame?: {
+                            offset?: boolean;
+                            drift?: boolean;
+                        };
+                        /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
+                        frameEpoch?: string | number;
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
+                        fixed?: {
+                            [key: string]: number;
+                        };
+                        /** @description Gaussian priors by parameter name */
+                        priors?: {
+                            [key: string]: {
+                                mean: number;
+                                sigma: number;
+                            };
+                        };
+                        /** @enum {string} */
+                        loss?: "gaussian" | "huber";
+                        /** @description next periapsis counted from here (default: the latest epoch) */
+                        asOf?: string | number;
+                        /** @description posterior sampling (affine-invariant ensemble), seeded */
+                        posterior?: {
+                            seed: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
+                        };
+                        /** @description fit only these measurements */
+                        measurementIds?: number[];
+                        /** @description system fits: only these targets of the system */
+                        targetIds?: number[];
+                        /** @description search ranges by target name (default: around the current solution’s period) */
+                        hints?: {
+                            [key: string]: {
+                                /** @description period search range, years */
+                                periodYears?: {
+                                    min: number;
+                                    max: number;
+                                };
+                                eccentricity?: {
+                                    min: number;
+                                    max: number;
+                                };
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
+                                start?: {
+                                    elements: components["schemas"]["CampbellElements"];
+                                    distancePc?: number;
+                                    systemicVelocityKmS?: number;
+                                };
+                            };
+                        };
+                        /** @description stored with the accepted solutions */
+                        notes?: string;
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
+                    };
+                };
+            };
+            responses: {
+                /** @description every residual, RFC 4180: star, index, id, kind, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "text/csv": string;
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -8255,6 +8620,12 @@ export interface paths {
                         };
                         /** @description stored with the accepted solutions */
                         notes?: string;
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
                     };
                 };
             };
@@ -8428,6 +8799,12 @@ export interface paths {
                         };
                         /** @description stored with the accepted solutions */
                         notes?: string;
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
                     };
                 };
             };
@@ -8446,6 +8823,182 @@ export interface paths {
                             }[];
                             result: components["schemas"]["FitResult"];
                         };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/systems/{id}/fit/residuals": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Fit the stored measurements of a system’s targets jointly (shared mass, distance, γ) and answer every residual as CSV (preview, nothing stored) */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        /** @description relativistic terms in the model (all off by default) */
+                        relativity?: {
+                            romer?: boolean;
+                            gravitationalRedshift?: boolean;
+                            transverseDoppler?: boolean;
+                            precession?: boolean;
+                        };
+                        /** @description relativity factors fitted as parameters (0 Newtonian, 1 general relativity); each switches its terms on */
+                        freeFactors?: ("redshiftFactor" | "precessionFactor")[];
+                        /** @description fit the primary’s offset (mas) and drift (mas/yr) on the sky */
+                        frame?: {
+                            offset?: boolean;
+                            drift?: boolean;
+                        };
+                        /** @description ISO 8601, "JD …", "MJD …", "J2027.35", "B1934.008", or a JD number */
+                        frameEpoch?: string | number;
+                        /** @description parameters held at a value, by name (e.g. "distancePc", "Ilex.eccentricity"), interface units */
+                        fixed?: {
+                            [key: string]: number;
+                        };
+                        /** @description Gaussian priors by parameter name */
+                        priors?: {
+                            [key: string]: {
+                                mean: number;
+                                sigma: number;
+                            };
+                        };
+                        /** @enum {string} */
+                        loss?: "gaussian" | "huber";
+                        /** @description next periapsis counted from here (default: the latest epoch) */
+                        asOf?: string | number;
+                        /** @description posterior sampling (affine-invariant ensemble), seeded */
+                        posterior?: {
+                            seed: number;
+                            ensembleSize?: number;
+                            rounds?: number;
+                            discardRounds?: number;
+                        };
+                        /** @description fit only these measurements */
+                        measurementIds?: number[];
+                        /** @description system fits: only these targets of the system */
+                        targetIds?: number[];
+                        /** @description search ranges by target name (default: around the current solution’s period) */
+                        hints?: {
+                            [key: string]: {
+                                /** @description period search range, years */
+                                periodYears?: {
+                                    min: number;
+                                    max: number;
+                                };
+                                eccentricity?: {
+                                    min: number;
+                                    max: number;
+                                };
+                                /** @description an orbit to start from as well: Campbell elements, distance and γ */
+                                start?: {
+                                    elements: components["schemas"]["CampbellElements"];
+                                    distancePc?: number;
+                                    systemicVelocityKmS?: number;
+                                };
+                            };
+                        };
+                        /** @description stored with the accepted solutions */
+                        notes?: string;
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
+                    };
+                };
+            };
+            responses: {
+                /** @description every residual, RFC 4180: star, index, id, kind, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "text/csv": string;
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -8605,6 +9158,12 @@ export interface paths {
                         };
                         /** @description stored with the accepted solutions */
                         notes?: string;
+                        residualPage?: {
+                            /** @description first residual, 0-based (default 0) */
+                            offset?: number;
+                            /** @description residuals in the answer, 1 to 10000 (default 1000); every residual: …/fit/residuals as CSV */
+                            limit?: number;
+                        };
                     };
                 };
             };
@@ -10110,7 +10669,15 @@ export interface components {
             converged: boolean;
             frameEpoch: string | null;
             asOf: string;
+            /** @description one page of the residuals, in measurement order (residualPage says which) */
             residuals: components["schemas"]["Residual"][];
+            residualPage: {
+                offset: number;
+                limit: number;
+                /** @description residuals in the fit */
+                total: number;
+            };
+            residualSummary: components["schemas"]["ResidualSummary"];
             outliers: number;
             relativity: components["schemas"]["RelativitySettings"];
             /** @description e.g. relativistic terms left off that the data can see */
@@ -10165,6 +10732,25 @@ export interface components {
             /** @description residual / σ per component */
             normalized: number[];
             outlier: boolean;
+        };
+        /** @description every residual summarised, by star and kind */
+        ResidualSummary: {
+            total: number;
+            outliers: number;
+            groups: {
+                star: string;
+                /** @enum {string} */
+                kind: "offsets" | "separation" | "radial-velocity";
+                count: number;
+                /** @description RMS of (o−c)/σ over the components: about 1 for a good fit */
+                rmsNormalized: number;
+                /** @description largest |(o−c)/σ| */
+                worstNormalized: number;
+                /** @description the measurement it belongs to */
+                worstIndex: number;
+                worstId?: string;
+                outliers: number;
+            }[];
         };
         RelativitySettings: {
             terms: {

@@ -1,5 +1,6 @@
 /** How `epochwright fit` shows a fit: a summary, the parameters, each star's quantities, the residuals. */
 import type { FitResult, Residual } from '../../science/orbit/fit/index.ts';
+import { residualsCsv } from '../../store/index.ts';
 import { formatCsv, formatTable, type Column } from '../output.ts';
 
 interface QuantityRow {
@@ -122,7 +123,7 @@ export function renderFit(
   if (format === 'json') return `${JSON.stringify(r, null, 2)}\n`;
   const cols = r.posterior ? [...QUANTITY_COLUMNS, ...PERCENTILE_COLUMNS] : QUANTITY_COLUMNS;
   if (format === 'csv')
-    return residuals ? formatCsv(r.residuals, RESIDUAL_COLUMNS) : formatCsv(quantityRows(r), cols);
+    return residuals ? residualsCsv(r.residuals) : formatCsv(quantityRows(r), cols);
   return [
     extra + summary(r),
     formatTable(quantityRows(r), cols),

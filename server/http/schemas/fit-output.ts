@@ -64,6 +64,30 @@ export const ResidualSchema = z
   .strict()
   .openapi('Residual');
 
+export const ResidualSummarySchema = z
+  .object({
+    total: z.number().int(),
+    outliers: z.number().int(),
+    groups: z.array(
+      z
+        .object({
+          star: z.string(),
+          kind: z.enum(MEASUREMENT_KIND_NAMES),
+          count: z.number().int(),
+          rmsNormalized: z
+            .number()
+            .openapi({ description: 'RMS of (o−c)/σ over the components: about 1 for a good fit' }),
+          worstNormalized: z.number().openapi({ description: 'largest |(o−c)/σ|' }),
+          worstIndex: z.number().int().openapi({ description: 'the measurement it belongs to' }),
+          worstId: z.string().optional(),
+          outliers: z.number().int(),
+        })
+        .strict(),
+    ),
+  })
+  .strict()
+  .openapi('ResidualSummary', { description: 'every residual summarised, by star and kind' });
+
 const Term = z.enum(['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession']);
 
 export const RelativitySettingsSchema = z
@@ -118,7 +142,17 @@ export const FitResultSchema = z
     converged: z.boolean(),
     frameEpoch: z.string().nullable(),
     asOf: z.string(),
-    residuals: z.array(ResidualSchema),
+    residuals: z.array(ResidualSchema).openapi({
+      description: 'one page of the residuals, in measurement order (residualPage says which)',
+    }),
+    residualPage: z
+      .object({
+        offset: z.number().int(),
+        limit: z.number().int(),
+        total: z.number().int().openapi({ description: 'residuals in the fit' }),
+      })
+      .strict(),
+    residualSummary: ResidualSummarySchema,
     outliers: z.number().int(),
     relativity: RelativitySettingsSchema,
     warnings: z
