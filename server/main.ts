@@ -6,7 +6,7 @@
 import { serve } from '@hono/node-server';
 import { createApp } from './http/app.ts';
 import { DEFAULT_CLIENT_DIR, hasBuiltClient } from './http/client-static.ts';
-import { startStore } from './store/index.ts';
+import { displayUrl, locateDatabase, startStore } from './store/index.ts';
 import { createJobPool, poolOptionsFromEnv, type JobPool } from './jobs/pool.ts';
 
 const port = Number(process.env.PORT ?? 8417);
@@ -47,7 +47,7 @@ const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
       ? `light client: open ${base} in a browser`
       : 'no built client in client/dist: run `npm run build` for the browser views',
   );
-  console.log(`database: ${store.url.replace(/\/\/[^@/]*@/, '//…@')}`);
+  console.log(`database: ${displayUrl(store.url)} (from ${locateDatabase().source})`);
   const p = pool.options;
   console.log(
     `computations: ${p.threads} worker thread(s), ${p.maxQueue} waiting at most, ${p.timeLimitS} s per job`,

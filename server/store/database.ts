@@ -3,13 +3,14 @@
  * a libSQL server when DATABASE_URL says so, or an embedded replica that syncs with one.
  * Migrations under db/migrations are applied on every open (a no-op when none is pending).
  */
-import { closeSync, mkdirSync, openSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync } from 'node:fs';
 import { dirname, isAbsolute, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createClient, type Client, type Transaction } from '@libsql/client';
 import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import * as schema from '../../db/schema.ts';
+import { InputError } from '../science/errors.ts';
 import { CONNECTION_BUSY_MS, gatedTransaction } from './write-gate.ts';
 
 export type Db = LibSQLDatabase<typeof schema>;
@@ -41,6 +42,8 @@ export interface OpenOptions {
   syncIntervalS?: number;
   /** Data folder for the default file url. */
   dataDir?: string;
+  /** Refuse (InputError on `database`) rather than create a local file that is not there (the CLI). */
+  mustExist?: boolean;
 }
 
 export interface Database {
@@ -52,14 +55,42 @@ export interface Database {
   close(): void;
 }
 
+/** Where a database url came from, in the words the help and the CLI print. */
+export type DatabaseSource =
+  | 'given'
+  | 'DATABASE_URL'
+  | 'EPOCHWRIGHT_DATA_DIR'
+  | 'the default data folder';
+
+/**
+ * The one resolution of the database, shared by the server and the CLI: the url given, then
+ * DATABASE_URL, then `file:<EPOCHWRIGHT_DATA_DIR or the repository's data/>/epochwright.db`
+ * (absolute, so the working directory does not matter).
+ */
+export function locateDatabase(
+  options: OpenOptions = {},
+  env: NodeJS.ProcessEnv = process.env,
+): { url: string; source: DatabaseSource } {
+  if (options.url) return { url: options.url, source: 'given' };
+  if (env.DATABASE_URL) return { url: env.DATABASE_URL, source: 'DATABASE_URL' };
+  const dir = options.dataDir ?? env.EPOCHWRIGHT_DATA_DIR;
+  return {
+    url: `file:${resolve(dir ?? DEFAULT_DATA_DIR, 'epochwright.db')}`,
+    source: dir === undefined ? 'the default data folder' : 'EPOCHWRIGHT_DATA_DIR',
+  };
+}
+
 /** The url from options, then DATABASE_URL, then `file:<dataDir>/epochwright.db`. */
 export function resolveDatabaseUrl(
   options: OpenOptions = {},
   env: NodeJS.ProcessEnv = process.env,
 ): string {
-  if (options.url) return options.url;
-  if (env.DATABASE_URL) return env.DATABASE_URL;
-  return `file:${resolve(options.dataDir ?? env.EPOCHWRIGHT_DATA_DIR ?? DEFAULT_DATA_DIR, 'epochwright.db')}`;
+  return locateDatabase(options, env).url;
+}
+
+/** A url for people: a libSQL server's credentials in the url are hidden. */
+export function displayUrl(url: string): string {
+  return url.replace(/\/\/[^@/]*@/, '//…@');
 }
 
 function filePath(url: string): string | null {
@@ -83,8 +114,15 @@ export function createPrivateFile(path: string): void {
 
 /** Open, create the parent folder of a file database, turn on WAL, and migrate. */
 export async function openDatabase(options: OpenOptions = {}): Promise<Database> {
-  const url = resolveDatabaseUrl(options);
+  const { url, source } = locateDatabase(options);
   const path = filePath(url);
+  if (path && options.mustExist && !existsSync(path)) {
+    throw new InputError(
+      'database',
+      url,
+      `names no database (from ${source}): the server creates its database on its first start; point DATABASE_URL or EPOCHWRIGHT_DATA_DIR (or --database) at the server's, or start the server once`,
+    );
+  }
   if (path) createPrivateFile(path);
   const syncUrl = options.syncUrl ?? process.env.DATABASE_SYNC_URL;
   const client = createClient({

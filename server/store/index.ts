@@ -4,7 +4,15 @@
  * from here and never see the database handle, drizzle or db/schema.ts.
  */
 export { createStore, type Store } from './store.ts';
-export { openDatabase, resolveDatabaseUrl, type Database, type OpenOptions } from './database.ts';
+export {
+  displayUrl,
+  locateDatabase,
+  openDatabase,
+  resolveDatabaseUrl,
+  type Database,
+  type DatabaseSource,
+  type OpenOptions,
+} from './database.ts';
 export { startStore, type StartOptions, type Started } from './startup.ts';
 export { LOCAL_OPERATOR, type Actor } from './audit.ts';
 export type { AuditFilter, AuditRow } from './repos/audit.ts';

@@ -16,7 +16,7 @@ import { acceptNightSchedule, previewNightSchedule } from './views/night-plan.ts
 import { targetForecast } from './views/forecast.ts';
 import { campaignFlags } from './views/planning.ts';
 import { acceptSeasonPlan, previewSeasonPlan } from './views/season-plan.ts';
-import { nightVisibility } from './views/visibility.ts';
+import { nightVisibility, storedSky } from './views/visibility.ts';
 import { clearPriorOf, replaceClearPrior } from './repos/clear-priors.ts';
 import { siteStatisticsView } from './views/site-statistics.ts';
 
@@ -61,6 +61,7 @@ export function createStore(database: Database) {
     },
     /** The sky engine's night report for a stored night and its campaign's targets. */
     nightVisibility: bind(db, nightVisibility),
+    storedSky: bind(db, storedSky),
     fits: {
       /** The targets of a system that have measurements (some of them with `only`). */
       systemTargetIds: bind(context, systemTargetIds),

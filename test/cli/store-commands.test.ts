@@ -2,7 +2,7 @@
  * The store's CLI commands against a libSQL file in a temporary folder: account, import, export,
  * backup. Commands are called as main() calls them (run(argv) → stdout text, or a thrown error).
  */
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -10,7 +10,12 @@ import ical from 'node-ical';
 import { commands } from '../../server/cli/commands/index.ts';
 import { UsageError } from '../../server/cli/io.ts';
 import { InputError } from '../../server/science/errors.ts';
-import { LOCAL_OPERATOR, createStore, openDatabase } from '../../server/store/index.ts';
+import {
+  LOCAL_OPERATOR,
+  createStore,
+  locateDatabase,
+  openDatabase,
+} from '../../server/store/index.ts';
 import { ORBIT_S1 } from '../store/backends.ts';
 
 let dir: string;
@@ -164,5 +169,32 @@ describe('store commands', () => {
       Number((await copy.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n),
     ).toBe(2); // the two imported above
     copy.close();
+  });
+
+  it('finds the database as the server does, refuses a missing one, and reads stored sites', async () => {
+    // the one resolution, server and CLI alike (README "Configuration")
+    expect(locateDatabase({}, { EPOCHWRIGHT_DATA_DIR: dir })).toEqual({
+      url: `file:${join(dir, 'epochwright.db')}`,
+      source: 'EPOCHWRIGHT_DATA_DIR',
+    });
+    expect(locateDatabase({}, { DATABASE_URL: url, EPOCHWRIGHT_DATA_DIR: dir }).source).toBe(
+      'DATABASE_URL',
+    );
+    const missing = `file:${join(dir, 'nowhere', 'epochwright.db')}`;
+    const refused = await Promise.resolve(
+      commands.flags!.run(['--campaign', '1', '--database', missing]),
+    ).catch((e: unknown) => e);
+    expect(refused).toBeInstanceOf(InputError);
+    expect((refused as InputError).rule).toMatch(/names no database/);
+    expect(existsSync(join(dir, 'nowhere'))).toBe(false); // nothing created
+    // a stored site and campaign instead of retyped JSON
+    const night = JSON.parse(
+      await run('night', '--site-id', '1', '--campaign-id', '1', '--date', '2027-06-15', '--json'),
+    ) as { site: { name: string }; targets: { name: string }[] };
+    expect(night.site.name).toBe('Cli Ridge');
+    expect(night.targets.map((t) => t.name)).toEqual(['K s1 (Cli Deep)']);
+    await expect(run('night', '--campaign-id', '1', '--date', '2027-06-15')).rejects.toBeInstanceOf(
+      UsageError,
+    );
   });
 });

@@ -54,88 +54,92 @@ export const accountCommand: Command = {
     });
     const [action, ...extra] = positionals;
     if (extra.length) throw new UsageError(`unexpected ${JSON.stringify(extra[0])}`);
-    return withStore(values.database, async (store) => {
-      switch (action) {
-        case 'add': {
-          if (values.name === undefined || values.role === undefined)
-            throw new UsageError('account add needs --name and --role');
-          const issued = await store.users.createWithToken(
-            LOCAL_OPERATOR,
-            { name: values.name, role: values.role },
-            values.label ?? 'created at the command line',
-          );
-          return `created ${issued.user.role} ${JSON.stringify(issued.user.name)} (id ${issued.user.id}).\ntoken (shown once): ${issued.secret}\n`;
-        }
-        case 'token': {
-          if (values.name === undefined) throw new UsageError('account token needs --name');
-          const issued = await store.users.issueToken(
-            LOCAL_OPERATOR,
-            values.name,
-            values.label ?? 'issued at the command line',
-          );
-          return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
-        }
-        case 'list': {
-          const page = await store.users.list({ limit: 500 });
-          return render(
-            outputFormat(values),
-            page.items,
-            [
-              { header: 'id', value: (u) => u.id },
-              { header: 'name', value: (u) => u.name },
-              { header: 'role', value: (u) => u.role },
-              { header: 'created (UTC)', value: (u) => u.createdAt },
-            ],
-            page.items,
-          );
-        }
-        case 'tokens': {
-          const rows = await store.users
-            .listTokens(values.name)
-            .catch(
-              asInputError('--name', values.name, 'does not name a user (see `account list`)'),
+    return withStore(
+      values.database,
+      async (store) => {
+        switch (action) {
+          case 'add': {
+            if (values.name === undefined || values.role === undefined)
+              throw new UsageError('account add needs --name and --role');
+            const issued = await store.users.createWithToken(
+              LOCAL_OPERATOR,
+              { name: values.name, role: values.role },
+              values.label ?? 'created at the command line',
             );
-          return render(
-            outputFormat(values),
-            rows,
-            [
-              { header: 'id', value: (t) => t.id },
-              { header: 'user', value: (t) => t.userName },
-              { header: 'role', value: (t) => t.role },
-              { header: 'label', value: (t) => t.label },
-              { header: 'issued (UTC)', value: (t) => t.createdAt },
-              { header: 'revoked (UTC)', value: (t) => t.revokedAt ?? '' },
-            ],
-            rows,
-          );
-        }
-        case 'revoke': {
-          if (values.id === undefined)
-            throw new UsageError('account revoke needs --id <token id> (see `account tokens`)');
-          const id = Number(values.id);
-          // An InputError like the unknown-token path below, so both name --id the same way.
-          if (!Number.isInteger(id) || id <= 0)
-            throw new InputError(
-              '--id',
-              values.id,
-              'must be a positive whole number, a token id from `account tokens`',
+            return `created ${issued.user.role} ${JSON.stringify(issued.user.name)} (id ${issued.user.id}).\ntoken (shown once): ${issued.secret}\n`;
+          }
+          case 'token': {
+            if (values.name === undefined) throw new UsageError('account token needs --name');
+            const issued = await store.users.issueToken(
+              LOCAL_OPERATOR,
+              values.name,
+              values.label ?? 'issued at the command line',
             );
-          const t = await store.users
-            .revokeToken(LOCAL_OPERATOR, id)
-            .catch(
-              asInputError(
+            return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
+          }
+          case 'list': {
+            const page = await store.users.list({ limit: 500 });
+            return render(
+              outputFormat(values),
+              page.items,
+              [
+                { header: 'id', value: (u) => u.id },
+                { header: 'name', value: (u) => u.name },
+                { header: 'role', value: (u) => u.role },
+                { header: 'created (UTC)', value: (u) => u.createdAt },
+              ],
+              page.items,
+            );
+          }
+          case 'tokens': {
+            const rows = await store.users
+              .listTokens(values.name)
+              .catch(
+                asInputError('--name', values.name, 'does not name a user (see `account list`)'),
+              );
+            return render(
+              outputFormat(values),
+              rows,
+              [
+                { header: 'id', value: (t) => t.id },
+                { header: 'user', value: (t) => t.userName },
+                { header: 'role', value: (t) => t.role },
+                { header: 'label', value: (t) => t.label },
+                { header: 'issued (UTC)', value: (t) => t.createdAt },
+                { header: 'revoked (UTC)', value: (t) => t.revokedAt ?? '' },
+              ],
+              rows,
+            );
+          }
+          case 'revoke': {
+            if (values.id === undefined)
+              throw new UsageError('account revoke needs --id <token id> (see `account tokens`)');
+            const id = Number(values.id);
+            // An InputError like the unknown-token path below, so both name --id the same way.
+            if (!Number.isInteger(id) || id <= 0)
+              throw new InputError(
                 '--id',
                 values.id,
-                'does not name an active token (see `account tokens`)',
-              ),
+                'must be a positive whole number, a token id from `account tokens`',
+              );
+            const t = await store.users
+              .revokeToken(LOCAL_OPERATOR, id)
+              .catch(
+                asInputError(
+                  '--id',
+                  values.id,
+                  'does not name an active token (see `account tokens`)',
+                ),
+              );
+            return `revoked token ${t.id} (${JSON.stringify(t.label)}) of ${JSON.stringify(t.userName)} at ${t.revokedAt ?? ''}; it no longer signs in.\n`;
+          }
+          default:
+            throw new UsageError(
+              `account: say add, token, list, tokens or revoke${action ? ` (not ${JSON.stringify(action)})` : ''}`,
             );
-          return `revoked token ${t.id} (${JSON.stringify(t.label)}) of ${JSON.stringify(t.userName)} at ${t.revokedAt ?? ''}; it no longer signs in.\n`;
         }
-        default:
-          throw new UsageError(
-            `account: say add, token, list, tokens or revoke${action ? ` (not ${JSON.stringify(action)})` : ''}`,
-          );
-      }
-    });
+      },
+      { writes: ['add', 'token', 'revoke'].includes(action ?? '') },
+    );
   },
 };

@@ -204,45 +204,54 @@ export const fitCommand: Command = {
       });
       return renderFit(fitOrbits({ ...model, stars }), format, values.residuals === true);
     }
-    return withStore(values.database, async (store) => {
-      const ids =
-        systemId === undefined
-          ? targetIds
-          : await store.fits.systemTargetIds(
-              systemId,
-              targetIds.length > 0 ? targetIds : undefined,
-            );
-      let prepared = await store.fits.prepare(ids, model);
-      if (hintsAll || Object.keys(hintsBy).length > 0) {
-        // Named hints first, then the one for every star, then the default from the current solution.
-        const first = prepared;
-        const hints = Object.fromEntries(
-          first.targets.map((t) => [
-            t.name,
-            hintsBy[t.name] ??
-              hintsAll ??
-              first.request.stars.find((s) => s.name === t.name)?.hints ??
-              {},
-          ]),
-        );
-        prepared = await store.fits.prepare(ids, {
-          ...model,
-          hints,
-        } satisfies StoredFitOptions);
-      }
-      const result = fitOrbits(prepared.request);
-      let note = '';
-      if (values.accept) {
-        const rows = await store.fits.accept(LOCAL_OPERATOR, prepared, result, values.notes ?? '');
-        note = rows
-          .map(
-            (r, k) =>
-              `stored ${prepared.targets[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`,
-          )
-          .join('');
-        if (format === 'json') return `${JSON.stringify({ solutions: rows, result }, null, 2)}\n`;
-      }
-      return renderFit(result, format, values.residuals === true, note);
-    });
+    return withStore(
+      values.database,
+      async (store) => {
+        const ids =
+          systemId === undefined
+            ? targetIds
+            : await store.fits.systemTargetIds(
+                systemId,
+                targetIds.length > 0 ? targetIds : undefined,
+              );
+        let prepared = await store.fits.prepare(ids, model);
+        if (hintsAll || Object.keys(hintsBy).length > 0) {
+          // Named hints first, then the one for every star, then the default from the current solution.
+          const first = prepared;
+          const hints = Object.fromEntries(
+            first.targets.map((t) => [
+              t.name,
+              hintsBy[t.name] ??
+                hintsAll ??
+                first.request.stars.find((s) => s.name === t.name)?.hints ??
+                {},
+            ]),
+          );
+          prepared = await store.fits.prepare(ids, {
+            ...model,
+            hints,
+          } satisfies StoredFitOptions);
+        }
+        const result = fitOrbits(prepared.request);
+        let note = '';
+        if (values.accept) {
+          const rows = await store.fits.accept(
+            LOCAL_OPERATOR,
+            prepared,
+            result,
+            values.notes ?? '',
+          );
+          note = rows
+            .map(
+              (r, k) =>
+                `stored ${prepared.targets[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`,
+            )
+            .join('');
+          if (format === 'json') return `${JSON.stringify({ solutions: rows, result }, null, 2)}\n`;
+        }
+        return renderFit(result, format, values.residuals === true, note);
+      },
+      { writes: values.accept === true },
+    );
   },
 };

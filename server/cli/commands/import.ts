@@ -54,11 +54,14 @@ export const importCommand: Command = {
     const text = readTextFile('file', values.file);
     const dryRun = values['check-only'] ?? false;
     try {
-      const report = await withStore(values.database, (store) =>
-        store.importCsv(LOCAL_OPERATOR, kind, text, {
-          dryRun,
-          allowDuplicates: values['allow-duplicates'] ?? false,
-        }),
+      const report = await withStore(
+        values.database,
+        (store) =>
+          store.importCsv(LOCAL_OPERATOR, kind, text, {
+            dryRun,
+            allowDuplicates: values['allow-duplicates'] ?? false,
+          }),
+        { writes: !dryRun },
       );
       return dryRun
         ? `checked ${report.rows} ${kind} rows: all good, nothing written\n`

@@ -13,6 +13,7 @@ import { render, type Column } from '../output.ts';
 import { SKY_OPTION_HELP, readSky, skyOptions } from './sky-args.ts';
 
 const help = `usage: epochwright night --site <json|file> --date <YYYY-MM-DD> --targets <json|file> [options]
+       epochwright night --site-id <id> --campaign-id <id> --date <YYYY-MM-DD> [options]
 
 For the night whose evening falls on --date (local date at the site): sunset, the three twilights,
 darkness, the Moon (rise, set, illumination), and for each target the windows in which it meets
@@ -34,7 +35,7 @@ const hhmm = (local: string) => local.slice(5, 16).replace('T', ' ');
 export const nightCommand: Command = {
   summary: 'twilights, Moon and observing windows of targets for one night at a site',
   help,
-  run(argv) {
+  async run(argv) {
     const { values } = parseArgs({
       args: argv,
       options: {
@@ -50,7 +51,7 @@ export const nightCommand: Command = {
     if (values.date === undefined)
       throw new UsageError('--date is required (the local evening date, YYYY-MM-DD)');
     parseNightDate(values.date, '--date');
-    const { site, targets, limits } = readSky(values);
+    const { site, targets, limits, cautions } = await readSky(values);
     const stepMinutes = parseDurationMinutes(
       values.step ?? NIGHT_STEP.default,
       '--step',
@@ -61,6 +62,7 @@ export const nightCommand: Command = {
       stepMinutes,
       curveStepMinutes: format === 'json' ? 10 : 0,
     });
+    for (const c of cautions) if (!report.cautions.includes(c)) report.cautions.push(c);
     const rows: Row[] = report.targets.flatMap((t) =>
       t.windows.map((w) => ({ ...w, target: t.name })),
     );

@@ -102,12 +102,15 @@ export const planNightCommand: Command = {
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
     const atJd = momentJd(values.at, '--at');
-    const result = await withStore(values.database, (store) =>
-      asOptions(OPTIONS, () =>
-        values.accept
-          ? store.plans.acceptNight(LOCAL_OPERATOR, id, request, atJd)
-          : store.plans.previewNight(id, request, atJd),
-      ),
+    const result = await withStore(
+      values.database,
+      (store) =>
+        asOptions(OPTIONS, () =>
+          values.accept
+            ? store.plans.acceptNight(LOCAL_OPERATOR, id, request, atJd)
+            : store.plans.previewNight(id, request, atJd),
+        ),
+      { writes: values.accept === true },
     );
     const s = result.schedule;
     const local = (i: { local: string; utc: string }) =>

@@ -103,12 +103,15 @@ export const planSeasonCommand: Command = {
       nights: values['all-nights'] ? 'all' : 'allocated',
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
-    const result = await withStore(values.database, (store) =>
-      asOptions(OPTIONS, () =>
-        values.accept
-          ? store.plans.acceptSeason(LOCAL_OPERATOR, id, request, atJd)
-          : store.plans.previewSeason(id, request, atJd),
-      ),
+    const result = await withStore(
+      values.database,
+      (store) =>
+        asOptions(OPTIONS, () =>
+          values.accept
+            ? store.plans.acceptSeason(LOCAL_OPERATOR, id, request, atJd)
+            : store.plans.previewSeason(id, request, atJd),
+        ),
+      { writes: values.accept === true },
     );
     const columns: Column<PlannedEpoch>[] = [
       { header: 'night', value: (e) => e.date },

@@ -14,6 +14,7 @@ import { formatCsv, render, type Column } from '../output.ts';
 import { SKY_OPTION_HELP, numberOption, readSky, skyOptions } from './sky-args.ts';
 
 const help = `usage: epochwright season --site <json|file> --year <yyyy> --targets <json|file> [options]
+       epochwright season --site-id <id> --campaign-id <id> --year <yyyy> [options]
 
 For every night of the year, how many hours each target meets every limit (darkness sampled
 every --step), and each target's season: the longest run of usable nights (short gaps
@@ -30,7 +31,7 @@ ${SKY_OPTION_HELP}
 export const seasonCommand: Command = {
   summary: "observable hours per night across a year, and each target's season at a site",
   help,
-  run(argv) {
+  async run(argv) {
     const { values } = parseArgs({
       args: argv,
       options: {
@@ -47,7 +48,7 @@ export const seasonCommand: Command = {
     const year = numberOption('year', values.year);
     if (!Number.isInteger(year) || year < 1900 || year > 2100)
       throw new InputError('--year', values.year, 'must be a whole year from 1900 to 2100');
-    const { site, targets, limits } = readSky(values);
+    const { site, targets, limits } = await readSky(values);
     const stepMinutes = parseDurationMinutes(
       values.step ?? SEASON_STEP.default,
       '--step',

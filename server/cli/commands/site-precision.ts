@@ -87,12 +87,16 @@ export const sitePrecisionCommand: Command = {
     }
     if (Object.keys(patch).length > 0 && siteId === undefined)
       throw new UsageError('--site is required to change a precision model');
-    const rows = await withStore(values.database, async (store) => {
-      if (siteId !== undefined && Object.keys(patch).length > 0)
-        return [await store.sites.update(LOCAL_OPERATOR, siteId, patch)];
-      if (siteId !== undefined) return [await store.sites.get(siteId)];
-      return (await store.sites.list({}, { limit: 500 })).items;
-    });
+    const rows = await withStore(
+      values.database,
+      async (store) => {
+        if (siteId !== undefined && Object.keys(patch).length > 0)
+          return [await store.sites.update(LOCAL_OPERATOR, siteId, patch)];
+        if (siteId !== undefined) return [await store.sites.get(siteId)];
+        return (await store.sites.list({}, { limit: 500 })).items;
+      },
+      { writes: siteId !== undefined && Object.keys(patch).length > 0 },
+    );
     return render(format, rows, columns, { sites: rows });
   },
 };

@@ -92,10 +92,14 @@ export const siteStatisticsCommand: Command = {
       values['set-prior'] === undefined
         ? null
         : readClearPriorCsv(readTextFile('set-prior', values['set-prior']), strength);
-    const stats = await withStore(values.database, async (store) => {
-      if (prior) await store.siteWeather.replacePrior(LOCAL_OPERATOR, id, prior);
-      return store.siteWeather.statistics(id, { start: values.start, end: values.end });
-    });
+    const stats = await withStore(
+      values.database,
+      async (store) => {
+        if (prior) await store.siteWeather.replacePrior(LOCAL_OPERATOR, id, prior);
+        return store.siteWeather.statistics(id, { start: values.start, end: values.end });
+      },
+      { writes: prior !== null },
+    );
     if (format !== 'table') return render(format, stats.months, monthColumns, stats);
     const year = stats.year;
     return [

@@ -1,5 +1,6 @@
 /** What the `night` and `season` commands share: reading a site, targets and limits. */
 import { InputError } from '../../science/errors.ts';
+import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
 import {
   validateLimits,
   validateSite,
@@ -9,22 +10,33 @@ import {
   type Target,
 } from '../../science/sky/index.ts';
 import { readJsonArg } from '../args.ts';
+import { UsageError } from '../io.ts';
+import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 export const SKY_OPTION_HELP = `  --site <json|file>         the site: {"latitudeDeg", "longitudeDeg" (east), "elevationM", "timeZone",
                              optional "pressureHpa", "temperatureC", "lowestAltitudeDeg", "horizonMask",
-                             "leastSunDistanceDeg"}
+                             "leastSunDistanceDeg", "longitudeZoneConfirmed"}; angles as numbers
+                             (degrees) or text (-24:37:38)
+  --site-id <id>             a stored site instead (its horizon mask and lowest altitude included)
+  --campaign-id <id>         with --site-id: the campaign's targets (system position plus current
+                             orbit) and limits, unless --targets / --limits are given
   --targets <json|file>      an array of {"name", "raDeg", "decDeg", optional "pmRaMasYr", "pmDecMasYr",
-                             "epoch", "orbit"} (ICRS; with an orbit, raDeg/decDeg are the primary's)
+                             "epoch", "orbit"} (ICRS; with an orbit, raDeg/decDeg are the primary's;
+                             RA as 250.3 degrees, 16.69h or 16:41:12.5 hours)
   --limits <json|file>       {"darkness", "lowestAltitudeDeg", "highestAirmass", "airmassFormula",
                              "leastMoonDistanceDeg", "leastSunDistanceDeg", "useHorizonMask", "zenithSeeingArcsec"}
   --darkness <kind|deg>      civil, nautical, astronomical (default) or a solar altitude in degrees
   --highest-airmass <x>      highest airmass (default 2)
   --least-moon-distance <deg>
                              least distance from the Moon while it is up (default 30)
-  --json | --csv             machine-readable output instead of a table`;
+  --json | --csv             machine-readable output instead of a table
+${DATABASE_HELP}`;
 
 export const skyOptions = {
+  ...databaseOption,
   site: { type: 'string' },
+  'site-id': { type: 'string' },
+  'campaign-id': { type: 'string' },
   targets: { type: 'string' },
   limits: { type: 'string' },
   darkness: { type: 'string' },
@@ -41,16 +53,60 @@ function numberOption(name: string, text: string): number {
   return x;
 }
 
-export function readSky(values: {
+interface SkyValues {
+  database?: string;
   site?: string;
+  'site-id'?: string;
+  'campaign-id'?: string;
   targets?: string;
   limits?: string;
   darkness?: string;
   'highest-airmass'?: string;
   'least-moon-distance'?: string;
-}): { site: Site; targets: Target[]; limits: Limits } {
-  const site = validateSite(readJsonArg('site', values.site), 'site');
-  const raw = readJsonArg('targets', values.targets);
+}
+
+const storedId = (option: string, text: string) => {
+  if (!/^[1-9]\d{0,14}$/.test(text))
+    throw new InputError(`--${option}`, text, 'must be a stored id in plain decimal digits');
+  return Number(text);
+};
+
+export interface Sky {
+  site: Site;
+  targets: Target[];
+  limits: Limits;
+  /** Cautions of a stored site (its laser guide star). */
+  cautions: string[];
+}
+
+/** The site, targets and limits of `night` and `season`: typed in, or read from the store. */
+export async function readSky(values: SkyValues): Promise<Sky> {
+  if (values['site-id'] === undefined) {
+    if (values['campaign-id'] !== undefined)
+      throw new UsageError('--campaign-id goes with --site-id');
+    return { ...readTypedSky(values), cautions: [] };
+  }
+  if (values.site !== undefined) throw new UsageError('give --site or --site-id, not both');
+  const siteId = storedId('site-id', values['site-id']);
+  const campaignId =
+    values['campaign-id'] === undefined ? null : storedId('campaign-id', values['campaign-id']);
+  if (campaignId === null && values.targets === undefined)
+    throw new UsageError('--targets (or --campaign-id) is required');
+  const stored = await withStore(values.database, (store) =>
+    store.storedSky({ siteId, campaignId }),
+  );
+  const targets = values.targets === undefined ? stored.targets : readTargets(values.targets);
+  const typed = values.limits !== undefined || values.darkness !== undefined;
+  const limits =
+    typed || values['highest-airmass'] !== undefined || values['least-moon-distance'] !== undefined
+      ? readLimits(values, stored.site)
+      : stored.limits;
+  const cautions = stored.laserGuideStar ? [LASER_GUIDE_STAR_CAUTION] : [];
+  return { site: stored.site, targets, limits, cautions };
+}
+
+function readTargets(text: string | undefined): Target[] {
+  const raw = readJsonArg('targets', text);
   const list = Array.isArray(raw) ? raw : (raw as { targets?: unknown }).targets;
   if (!Array.isArray(list))
     throw new InputError(
@@ -58,7 +114,15 @@ export function readSky(values: {
       raw,
       'must be an array of targets (or an object with a "targets" array)',
     );
-  const targets = list.map((t, i) => validateTarget(t, `targets.${i}`));
+  return list.map((t, i) => validateTarget(t, `targets.${i}`));
+}
+
+function readTypedSky(values: SkyValues): { site: Site; targets: Target[]; limits: Limits } {
+  const site = validateSite(readJsonArg('site', values.site), 'site');
+  return { site, targets: readTargets(values.targets), limits: readLimits(values, site) };
+}
+
+function readLimits(values: SkyValues, site: Site): Limits {
   const c =
     values.limits === undefined
       ? {}
@@ -71,7 +135,7 @@ export function readSky(values: {
     c.highestAirmass = numberOption('highest-airmass', values['highest-airmass']);
   if (values['least-moon-distance'] !== undefined)
     c.leastMoonDistanceDeg = numberOption('least-moon-distance', values['least-moon-distance']);
-  return { site, targets, limits: validateLimits(c, site, 'limits') };
+  return validateLimits(c, site, 'limits');
 }
 
 export { numberOption };

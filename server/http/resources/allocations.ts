@@ -11,13 +11,9 @@ import { IdParam, errorResponses, json, resourceApp, security } from './common.t
 import { NightRowSchema } from './nights.ts';
 
 const date = (d: string) => z.iso.date().openapi({ description: d });
-const semester = z
-  .string()
-  .max(40)
-  .optional()
-  .openapi({
-    description: 'label given to every night (a semester, a run), at most 40 characters',
-  });
+const semester = z.string().max(40).optional().openapi({
+  description: 'label given to every night (a semester, a run), at most 40 characters',
+});
 const text = z.string().min(1).max(2_000_000).openapi({ description: 'the file’s text, as read' });
 
 export const AllocationBody = z

@@ -12,7 +12,10 @@ import {
   validateLimits,
   validateSite,
   validateTarget,
+  type Limits,
   type NightReport,
+  type Site,
+  type Target,
 } from '../../science/sky/index.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
@@ -23,25 +26,30 @@ import { nightEntity } from '../repos/nights.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 import { siteEntity } from '../repos/sites.ts';
 
-export async function nightVisibility(
+/** What the sky engine needs to show a stored site's sky: the site, the targets and the limits. */
+export interface StoredSky {
+  site: Site;
+  targets: Target[];
+  limits: Limits;
+  /** The site runs a laser guide star: its caution goes with every night shown there. */
+  laserGuideStar: boolean;
+}
+
+/**
+ * A stored site with a campaign's targets (or the given targets) placed by their systems'
+ * positions plus current orbits, under the campaign's limits and the site's lowest altitude.
+ */
+export async function storedSky(
   db: DbOrTx,
-  nightId: number,
-  options: { curves?: boolean } = {},
-): Promise<NightReport & { nightId: number; campaignId: number | null }> {
-  const night = await getById(db, nightEntity, nightId);
-  const siteRow = await getById(db, siteEntity, night.siteId);
+  scope: { siteId: number; campaignId?: number | null; targetIds?: number[] },
+): Promise<StoredSky> {
+  const siteRow = await getById(db, siteEntity, scope.siteId);
   const site = validateSite(siteRow, 'site');
   const campaign =
-    night.campaignId === null ? null : await getById(db, campaignEntity, night.campaignId);
+    scope.campaignId == null ? null : await getById(db, campaignEntity, scope.campaignId);
   const targetIds = campaign
     ? (await campaignMembers(db, campaign.id)).targetIds
-    : [
-        ...new Set(
-          (
-            await db.select({ id: blocks.targetId }).from(blocks).where(eq(blocks.nightId, nightId))
-          ).map((r) => r.id),
-        ),
-      ];
+    : (scope.targetIds ?? []);
   const rows =
     targetIds.length === 0
       ? []
@@ -50,7 +58,7 @@ export async function nightVisibility(
           .from(targets)
           .innerJoin(systems, eq(systems.id, targets.systemId))
           .where(inArray(targets.id, targetIds));
-  const skyTargets = [];
+  const skyTargets: Target[] = [];
   for (const { t, s } of rows) {
     let orbit: Awaited<ReturnType<typeof currentOrbit>>['solution']['orbit'] | undefined;
     try {
@@ -78,9 +86,36 @@ export async function nightVisibility(
     site,
     'limits',
   );
-  const report = nightReport(site, night.date, skyTargets, limits, {
+  return { site, targets: skyTargets, limits, laserGuideStar: siteRow.laserGuideStar };
+}
+
+export async function nightVisibility(
+  db: DbOrTx,
+  nightId: number,
+  options: { curves?: boolean } = {},
+): Promise<NightReport & { nightId: number; campaignId: number | null }> {
+  const night = await getById(db, nightEntity, nightId);
+  const blockTargets =
+    night.campaignId === null
+      ? [
+          ...new Set(
+            (
+              await db
+                .select({ id: blocks.targetId })
+                .from(blocks)
+                .where(eq(blocks.nightId, nightId))
+            ).map((r) => r.id),
+          ),
+        ]
+      : [];
+  const sky = await storedSky(db, {
+    siteId: night.siteId,
+    campaignId: night.campaignId,
+    targetIds: blockTargets,
+  });
+  const report = nightReport(sky.site, night.date, sky.targets, sky.limits, {
     curveStepMinutes: options.curves ? 10 : 0,
   });
-  if (siteRow.laserGuideStar) report.cautions.push(LASER_GUIDE_STAR_CAUTION);
+  if (sky.laserGuideStar) report.cautions.push(LASER_GUIDE_STAR_CAUTION);
   return { nightId, campaignId: night.campaignId, ...report };
 }
