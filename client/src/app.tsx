@@ -11,6 +11,7 @@ import { ReportView } from './views/report.tsx';
 import { SeasonView } from './views/season.tsx';
 import { RecordsView } from './views/records.tsx';
 import { SiteView, SitesView } from './views/site.tsx';
+import { NightsView } from './views/nights.tsx';
 
 type Theme = 'night' | 'day';
 
@@ -24,6 +25,7 @@ function route(path: string) {
   const site = match('/sites/:id', path);
   if (site) return <SiteView id={Number(site.id)} />;
   if (match('/sites', path)) return <SitesView />;
+  if (match('/nights', path)) return <NightsView />;
   if (match('/season', path)) return <SeasonView />;
   if (match('/records', path)) return <RecordsView />;
   if (match('/', path)) return <OverviewView />;
@@ -92,6 +94,7 @@ export function App() {
   }, [tokenTick]);
   const nav = [
     ['/', 'Campaign'],
+    ['/nights', 'Nights'],
     ['/season', 'Season'],
     ['/sites', 'Sites'],
     ['/records', 'Records'],

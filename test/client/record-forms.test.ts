@@ -120,13 +120,14 @@ describe('server messages beside their fields', () => {
   test('400 issues on nested paths and a 422 on a mask point land on the form field holding them', () => {
     const bad400 = new ApiError(400, 'invalid_request', 'goals.cadenceDays: too small', {
       issues: [
-        { field: 'goals.cadenceDays', rule: 'Too small: expected number to be >0' },
+        { field: 'goals.cadenceDays', rule: 'must be above 0' },
         { field: 'endDate', rule: 'must not be before startDate' },
       ],
     });
     expect(messagesByField(CAMPAIGN_FIELDS, fieldMessages(bad400))).toEqual({
-      'goals.cadenceDays': 'Too small: expected number to be >0',
-      endDate: 'must not be before startDate',
+      'goals.cadenceDays': 'must be above 0',
+      // The request's field names read as the form's labels (client/src/lib/field-words.ts).
+      endDate: 'must not be before first night',
     });
     const bad422 = new ApiError(422, 'invalid_value', 'horizonMask.1.altitudeDeg', {
       field: 'horizonMask.1.altitudeDeg',
@@ -134,7 +135,7 @@ describe('server messages beside their fields', () => {
       rule: 'must lie in [-5, 90)',
     });
     expect(messagesByField(SITE_FIELDS, fieldMessages(bad422))).toEqual({
-      horizonMask: '1.altitudeDeg: 95 must lie in [-5, 90)',
+      horizonMask: 'item 2, altitude: 95 must lie in [-5, 90)',
     });
   });
 

@@ -83,7 +83,10 @@ describe('pinning stored blocks', () => {
       body: { notes: pinned.notes, version: pinned.version },
     });
     await row.getByRole('button', { name: /^unpin / }).click();
-    await page.getByRole('alert').filter({ hasText: /409/ }).waitFor();
+    await page
+      .getByRole('alert')
+      .filter({ hasText: /changed by someone else/ })
+      .waitFor();
     await page
       .getByText('Someone changed this block first; the table now shows it as stored.')
       .waitFor();

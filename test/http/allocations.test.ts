@@ -141,7 +141,7 @@ for (const backend of BACKENDS) {
         date: '2028-01-02',
         state: 'refused',
         reason: expect.stringMatching(/outside the campaign’s dates 2027-01-01 to 2027-12-31/),
-        from: 'CSV line 3',
+        foundIn: 'CSV line 3',
       });
       const s = await post('/allocations', body);
       expect(s.status).toBe(422);

@@ -4,6 +4,7 @@
  * and its answer are the server's own. Errors keep the server's shape ({ code, message, details })
  * so forms can show field messages.
  */
+import { ruleWords } from '../lib/field-words.ts';
 import { sessionToken } from '../lib/session.ts';
 import type { components, paths } from './schema.d.ts';
 
@@ -140,9 +141,11 @@ export function fieldMessages(err: unknown): Record<string, string> {
   const d = (err.details ?? {}) as Schemas['ErrorDetails'];
   const out: Record<string, string> = {};
   if (typeof d.field === 'string')
-    out[d.field] = `${JSON.stringify(d.value)} ${String(d.rule ?? '')}`.trim();
-  for (const i of d.issues ?? [])
-    out[i.field] = out[i.field] ? `${out[i.field]}; ${i.rule}` : i.rule;
+    out[d.field] = `${JSON.stringify(d.value)} ${ruleWords(String(d.rule ?? ''))}`.trim();
+  for (const i of d.issues ?? []) {
+    const rule = ruleWords(i.rule);
+    out[i.field] = out[i.field] ? `${out[i.field]}; ${rule}` : rule;
+  }
   return out;
 }
 

@@ -10106,8 +10106,8 @@ export interface components {
             /** @description the evening’s local date, YYYY-MM-DD */
             date: string;
             semester: string;
-            /** @description where in the request the night came from */
-            from: string;
+            /** @description where in the request the night was found */
+            foundIn: string;
             /** @enum {string} */
             state: "new" | "allocated" | "refused";
             reason: string | null;

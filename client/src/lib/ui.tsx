@@ -3,7 +3,7 @@ import { roleAtLeast } from '../../../descriptors/roles.ts';
 import type { ComponentChildren } from 'preact';
 import { createContext } from 'preact';
 import { useContext } from 'preact/hooks';
-import { ApiError } from '../api/client.ts';
+import { problemLines } from './problems.ts';
 import type { Me, Role } from '../api/client.ts';
 
 export const MeContext = createContext<Me | null>(null);
@@ -16,16 +16,13 @@ export function useCan(role: Role): boolean {
 
 export function ErrorLine({ error }: { error: unknown }) {
   if (!error) return null;
-  const text =
-    error instanceof ApiError
-      ? `${error.message} (${error.status} ${error.code})`
-      : error instanceof Error
-        ? error.message
-        : String(error);
+  const lines = problemLines(error);
   return (
-    <p class="error-line" role="alert">
-      {text}
-    </p>
+    <div class="error-line" role="alert">
+      {lines.map((l) => (
+        <p key={l}>{l}</p>
+      ))}
+    </div>
   );
 }
 

@@ -3,12 +3,12 @@
  * lead-time band and each site's hours around it; periapsis while unobservable; blend risks; stale
  * predictions), the next nights at each site, and the latest night reports.
  */
-import { useState } from 'preact/hooks';
 import { getAll, api, type Schemas } from '../api/client.ts';
 import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
 import { dateText, todayIn, utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
+import { useChosenCampaign } from '../lib/campaign.ts';
 
 export type Flag = Schemas['Flag'];
 
@@ -218,7 +218,7 @@ function LatestReports({ cat, campaignId }: { cat: Catalogue; campaignId: number
 
 export function OverviewView() {
   const { data: cat, error } = useLoad(loadCatalogue, []);
-  const [campaignId, setCampaignId] = useState<number | null>(null);
+  const [chosen, setCampaignId] = useChosenCampaign(cat?.campaigns);
   if (error) return <ErrorLine error={error} />;
   if (!cat) return <Loading what="the campaign" />;
   if (!cat.campaigns.length)
@@ -228,8 +228,8 @@ export function OverviewView() {
         <a href="/records">Records</a>.
       </p>
     );
-  const id = campaignId ?? cat.campaigns[0]!.id;
-  const c = cat.campaigns.find((x) => x.id === id)!;
+  const c = chosen!;
+  const id = c.id;
   return (
     <div class="view overview">
       <div class="view-head">

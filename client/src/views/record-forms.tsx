@@ -9,6 +9,7 @@ import { fieldMessages, sendRecord } from '../api/client.ts';
 import { invalidateCatalogue, type Catalogue } from '../api/catalogue.ts';
 import type { HorizonPoint } from '../api/client.ts';
 import { ErrorLine } from '../lib/ui.tsx';
+import { fieldWords } from '../lib/field-words.ts';
 
 /** One input. `key` is the dotted path in the request body, so server messages land beside it. */
 export interface FieldSpec {
@@ -88,7 +89,7 @@ export function messagesByField(
   for (const [path, msg] of Object.entries(raw)) {
     const f = fields.find((x) => path === x.key || path.startsWith(`${x.key}.`));
     const key = f?.key ?? '(form)';
-    const text = f && path !== f.key ? `${path.slice(f.key.length + 1)}: ${msg}` : msg;
+    const text = f && path !== f.key ? `${fieldWords(path.slice(f.key.length + 1))}: ${msg}` : msg;
     out[key] = out[key] ? `${out[key]}; ${text}` : text;
   }
   return out;

@@ -11,6 +11,7 @@ import type { BlockRow, CampaignRow, NightRow, OrbitEvent } from '../api/client.
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
 import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
+import { useChosenCampaign } from '../lib/campaign.ts';
 import { SeasonPlanPanel, type SeasonPlanPreview } from './season-plan.tsx';
 
 /** "Feb 18" for a YYYY-MM-DD date. */
@@ -147,13 +148,13 @@ export function SeasonView() {
     const [nights, blocks] = await Promise.all([getAll('/nights'), getAll('/blocks')]);
     return { cat, nights, blocks };
   }, [tick]);
-  const [campaignId, setCampaignId] = useState<number | null>(null);
+  const [chosen, setCampaignId] = useChosenCampaign(data?.cat.campaigns);
   const [year, setYear] = useState<number | null>(null);
   const [proposal, setProposal] = useState<SeasonPlanPreview | null>(null);
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="the season" />;
   const { cat } = data;
-  const campaign = cat.campaigns.find((c) => c.id === campaignId) ?? cat.campaigns[0];
+  const campaign = chosen;
   if (!campaign) return <p class="panel">No campaign yet.</p>;
   const y =
     year ??

@@ -71,7 +71,7 @@ const AllocationNightSchema = z
     site: z.string(),
     date: z.string().openapi({ description: 'the evening’s local date, YYYY-MM-DD' }),
     semester: z.string(),
-    from: z.string().openapi({ description: 'where in the request the night came from' }),
+    foundIn: z.string().openapi({ description: 'where in the request the night was found' }),
     state: z.enum(['new', 'allocated', 'refused']),
     reason: z.string().nullable(),
     nightId: z.number().int().nullable(),

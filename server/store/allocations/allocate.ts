@@ -40,7 +40,7 @@ export interface AllocationNight {
   site: string;
   date: string;
   semester: string;
-  from: string;
+  foundIn: string;
   state: AllocationState;
   /** Why a night is refused, or which stored night it already is; null for a new night. */
   reason: string | null;
@@ -97,7 +97,7 @@ async function prepare(
     if (twin) {
       if (twin.semester !== l.semester && twin.state !== 'refused') {
         twin.state = 'refused';
-        twin.reason = `asked for twice with different semester labels (“${twin.semester}” from ${twin.from}, “${l.semester}” from ${l.from})`;
+        twin.reason = `asked for twice with different semester labels (“${twin.semester}” from ${twin.foundIn}, “${l.semester}” from ${l.foundIn})`;
       }
       continue;
     }
@@ -106,7 +106,7 @@ async function prepare(
       site: siteName.get(l.siteId) ?? `site ${l.siteId}`,
       date: l.date,
       semester: l.semester,
-      from: l.from,
+      foundIn: l.foundIn,
       state: 'new',
       reason: null,
       nightId: null,
@@ -164,7 +164,7 @@ export function acceptAllocations(
       const problems = refused.map((n) => ({
         field: `nights.${n.site}.${n.date}`,
         value: n.date,
-        rule: `${n.site}, night of ${n.date} (${n.from}): ${n.reason}`,
+        rule: `${n.site}, night of ${n.date} (${n.foundIn}): ${n.reason}`,
       }));
       const [p] = problems;
       throw new InputError(

@@ -18,7 +18,7 @@ export interface AllocationLine {
   siteId: number;
   date: string;
   semester: string;
-  from: string;
+  foundIn: string;
 }
 
 /** More nights than this in one request is refused before any work (about three years at two sites). */
@@ -69,7 +69,7 @@ export function patternNights(p: NightPattern): AllocationLine[] {
         siteId: p.siteId,
         date: d.toISODate()!,
         semester: p.semester ?? '',
-        from: 'pattern',
+        foundIn: 'pattern',
       });
   }
   return bounded(out, 'end');
@@ -132,7 +132,7 @@ export function csvNights(
         rule: 'must be a calendar date YYYY-MM-DD (the evening’s local date)',
       });
     if (siteId !== undefined && !problems.some((p) => p.field.startsWith(`line ${line},`)))
-      out.push({ siteId, date, semester: r.semester ?? '', from: `CSV line ${line}` });
+      out.push({ siteId, date, semester: r.semester ?? '', foundIn: `CSV line ${line}` });
   });
   if (problems.length) {
     const [p] = problems;
@@ -237,7 +237,7 @@ export function calendarNights(text: string, o: CalendarOptions): AllocationLine
     const add = (start: ICAL.Time, end: ICAL.Time) => {
       for (const date of occurrenceNights(start, end, tzids, o.timeZone)) {
         if (++occurrences > MOST_NIGHTS_PER_REQUEST) bounded(new Array(occurrences), 'text');
-        out.push({ siteId: o.siteId, date, semester: o.semester ?? '', from: label });
+        out.push({ siteId: o.siteId, date, semester: o.semester ?? '', foundIn: label });
       }
     };
     if (!ev.isRecurring()) {

@@ -12,6 +12,7 @@ import {
   parseRightAscension,
 } from '../../science/sky/index.ts';
 import { parseEpoch, jdToIso } from '../../science/time/index.ts';
+import './issue-words.ts';
 
 export const id = z.number().int().positive();
 
