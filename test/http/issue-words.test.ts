@@ -50,7 +50,14 @@ describe('refusals in our words', () => {
     });
     expect(Object.values(r.rules).join(' ')).toMatch(/does not take: mood/);
     expect(Object.values(r.rules).join(' ')).not.toMatch(/Too big|Too small|Invalid|expected/);
-    const site = await rulesOf('POST', '/api/systems', { name: '', raDeg: 360, decDeg: -20 });
-    expect(site.rules).toMatchObject({ name: 'must not be empty', raDeg: 'must be below 360' });
+    const sys = await rulesOf('POST', '/api/systems', {
+      name: '',
+      raDeg: 250,
+      decDeg: -20,
+      pmRaMasYr: 'fast',
+    });
+    expect(sys.rules).toMatchObject({ name: 'must not be empty', pmRaMasYr: 'must be a number' });
+    const night = await rulesOf('POST', '/api/nights', { siteId: f.ids.site, date: '2027-13-01' });
+    expect(night.rules).toMatchObject({ date: 'must be a calendar date YYYY-MM-DD' });
   });
 });
