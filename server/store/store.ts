@@ -14,7 +14,7 @@ import { acceptStoredFit, prepareStoredFit, systemTargetIds } from './fits.ts';
 import { auditLog } from './repos/audit.ts';
 import { acceptNightSchedule, previewNightSchedule } from './views/night-plan.ts';
 import { targetForecast } from './views/forecast.ts';
-import { campaignFlags } from './views/planning.ts';
+import { cachedCampaignFlags } from './views/flags-cache.ts';
 import { acceptSeasonPlan, previewSeasonPlan } from './views/season-plan.ts';
 import { nightVisibility, storedSky } from './views/visibility.ts';
 import { clearPriorOf, replaceClearPrior } from './repos/clear-priors.ts';
@@ -39,8 +39,8 @@ export function createStore(database: Database) {
     ...repositories,
     audit: auditLog(db),
     plans: {
-      /** Periapsis, blend and stale-prediction flags of a campaign's targets. */
-      flags: bind(db, campaignFlags),
+      /** Periapsis, blend and stale-prediction flags of a campaign's targets (kept until a write). */
+      flags: cachedCampaignFlags(db),
       previewSeason: bind(db, previewSeasonPlan),
       acceptSeason: bind(context, acceptSeasonPlan),
       previewNight: bind(db, previewNightSchedule),

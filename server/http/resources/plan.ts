@@ -4,13 +4,13 @@ import type { Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { FlagsAnswer } from '../schemas/plan-output.ts';
-import { momentJd } from '../../clock.ts';
+import { momentJd, nowMs } from '../../clock.ts';
+import { unixMsToJd } from '../../science/time/index.ts';
 
 const FlagsQuery = z.object({
-  at: z
-    .string()
-    .optional()
-    .openapi({ description: 'the moment to compute flags for (ISO 8601, JD, MJD); default now' }),
+  at: z.string().optional().openapi({
+    description: 'the moment to compute flags for (ISO 8601, JD, MJD); default the current minute',
+  }),
   resolutionMas: z.coerce
     .number()
     .positive()
@@ -33,7 +33,12 @@ export function planRoutes(store: Store) {
     async (c) => {
       requireRole(c, 'viewer');
       const q = c.req.valid('query');
-      const nowJd = momentJd(q.at, 'at');
+      // "Now" is the current minute: the answers of one minute are one (the store keeps them
+      // until a write), and no flag's words change within a minute.
+      const nowJd =
+        q.at === undefined
+          ? unixMsToJd(Math.floor(nowMs() / 60_000) * 60_000)
+          : momentJd(q.at, 'at');
       return c.json(
         await store.plans.flags(c.req.valid('param').id, {
           nowJd,
