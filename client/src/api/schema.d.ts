@@ -6724,7 +6724,7 @@ export interface paths {
         get: {
             parameters: {
                 query?: {
-                    /** @description the moment to compute flags for (ISO 8601, JD, MJD); default now */
+                    /** @description the moment to compute flags for (ISO 8601, JD, MJD); default the current minute */
                     at?: string;
                     /** @description resolution limit for blend flags, mas */
                     resolutionMas?: number;
