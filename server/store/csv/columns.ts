@@ -3,6 +3,7 @@
  * the exports and read by the imports, so an export can be edited in a spreadsheet and read back.
  * Header names are the JSON field names; `system` and `target` are names, not ids.
  */
+import { CORRELATIONS_COLUMN, SIGMA_COLUMNS } from '../../../descriptors/covariance.ts';
 import { MEASUREMENT_VALUE_FIELDS } from '../../../descriptors/measurement-kinds.ts';
 
 export const CSV_KINDS = ['targets', 'orbits', 'measurements'] as const;
@@ -27,6 +28,8 @@ export const ORBIT_COLUMNS = [
   'gArcsec',
   'distancePc',
   'systemicVelocityKmS',
+  ...SIGMA_COLUMNS,
+  CORRELATIONS_COLUMN,
   'relativity',
   'reference',
   'notes',
@@ -60,7 +63,7 @@ export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
 
 /** A column whose name ends in its unit holds a number, as do the dimensionless ones listed here. */
 const NUMBER_BY_NAME =
-  /(Years|Arcsec|Deg|Pc|KmS|Mas)$|^(eccentricity|correlation|magnitude|blockId)$/;
+  /(Years|Arcsec|Deg|Pc|KmS|Mas|Days)$|^(eccentricity|sigmaEccentricity|correlation|magnitude|blockId)$/;
 
 /** Columns read as numbers (a cell that is not a number is reported as it is). */
 export const NUMERIC: ReadonlySet<string> = new Set<string>(

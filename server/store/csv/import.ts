@@ -6,6 +6,14 @@
  */
 import { and, eq } from 'drizzle-orm';
 import { systems, targets } from '../../../db/schema.ts';
+import {
+  CORRELATIONS_COLUMN,
+  COVARIANCE_TERMS,
+  covarianceOf,
+  parseCorrelations,
+  sigmaColumn,
+  type CovarianceTerm,
+} from '../../../descriptors/covariance.ts';
 import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
 import type { DbOrTx, Tx } from '../database.ts';
@@ -116,6 +124,7 @@ async function toInput(
   const elements = Object.fromEntries(
     elementKeys.filter((k) => v[k] !== undefined).map((k) => [k, v[k]]),
   );
+  const covariance = covarianceCells(v);
   return {
     targetId,
     orbit: {
@@ -125,12 +134,30 @@ async function toInput(
         ? { systemicVelocityKmS: v.systemicVelocityKmS }
         : {}),
       ...(on.length ? { relativity: Object.fromEntries(on.map((s) => [s, true])) } : {}),
+      ...(covariance ? { covariance } : {}),
     },
     provenance: 'imported',
     reference: v.reference,
     notes: v.notes,
     makeCurrent: v.makeCurrent,
   };
+}
+
+/** The σ columns and the correlations cell of an orbit row as a covariance, or none when no σ is given. */
+function covarianceCells(v: Record<string, unknown>) {
+  const sigmas = Object.fromEntries(
+    COVARIANCE_TERMS.flatMap((t) => {
+      const x = v[sigmaColumn(t.parameter)];
+      return x === undefined ? [] : [[t.parameter, x]];
+    }),
+  ) as Partial<Record<CovarianceTerm, number>>;
+  const text = v[CORRELATIONS_COLUMN];
+  const correlations = typeof text === 'string' ? parseCorrelations(text) : [];
+  if (!Array.isArray(correlations))
+    throw new InputError(CORRELATIONS_COLUMN, correlations.value, correlations.rule);
+  const cov = covarianceOf(sigmas, correlations);
+  if (cov && 'rule' in cov) throw new InputError(cov.field, cov.value, cov.rule);
+  return cov;
 }
 
 /** Import a CSV file of `kind`: all rows or none (ImportRejected lists every bad row). */

@@ -146,9 +146,10 @@ export function cellValues(cells: Record_): Record<string, unknown> {
 /** The problems of one row from what its checks threw (anything else is rethrown). */
 export function rowProblems(err: unknown, line: number): ImportProblem[] {
   if (err instanceof InputError) {
-    const list = (
-      err as InputError & { problems?: { field: string; value: unknown; rule: string }[] }
-    ).problems ?? [{ field: err.field, value: err.value, rule: err.rule }];
+    // An InputError thrown for one field carries an empty list: it is then the row's one problem.
+    const list = err.problems.length
+      ? err.problems
+      : [{ field: err.field, value: err.value, rule: err.rule }];
     return list.map((p) => ({ line, column: columnOf(p.field), value: p.value, rule: p.rule }));
   }
   if (err instanceof Error && ['ConflictError', 'NotFoundError'].includes(err.name))
