@@ -16,6 +16,7 @@ import {
 import {
   BLOCK_KINDS,
   MEASUREMENT_KIND_NAMES,
+  MEASURED_COMPONENTS,
   type BlockKind,
 } from '../descriptors/measurement-kinds.ts';
 import { ROLE_NAMES } from '../descriptors/roles.ts';
@@ -122,6 +123,10 @@ export const sites = sqliteTable('sites', {
   leastSunDistanceDeg: real('least_sun_distance_deg').notNull().default(45),
   pressureHpa: real('pressure_hpa'),
   temperatureC: real('temperature_c'),
+  /** Relative humidity for refraction, %; null: 50 %. */
+  humidityPct: real('humidity_pct'),
+  /** Wavelength refraction is computed at, µm (the band observed); null: 2.2 µm. */
+  wavelengthUm: real('wavelength_um'),
   /** Azimuth-dependent horizon (the sky engine's shape), sorted by azimuth; empty for a flat horizon. */
   horizonMask: text('horizon_mask', { mode: 'json' })
     .$type<HorizonPoint[]>()
@@ -332,6 +337,8 @@ export const measurements = sqliteTable(
       .references(() => targets.id, { onDelete: 'restrict' }),
     blockId: integer('block_id').references(() => blocks.id, { onDelete: 'set null' }),
     kind: text('kind', { enum: MEASUREMENT_KIND_NAMES }).notNull(),
+    /** Which body: the secondary relative to the primary (the default), the primary or the secondary. */
+    component: text('component', { enum: MEASURED_COMPONENTS }).notNull().default('relative'),
     epoch: text('epoch').notNull(),
     epochJd: real('epoch_jd').notNull(),
     dRaMas: real('d_ra_mas'),

@@ -43,6 +43,7 @@ export function toInput(m: MeasurementRow): MeasurementInput {
     describeKind(m.kind).correlated && m.correlation !== null ? { correlation: m.correlation } : {};
   return {
     kind: m.kind,
+    component: m.component,
     epoch: m.epoch,
     id: String(m.id),
     ...fields,

@@ -2452,6 +2452,10 @@ export interface paths {
                         pressureHpa?: number | null;
                         /** @description typical night temperature, °C */
                         temperatureC?: number | null;
+                        /** @description typical relative humidity for refraction, %; null: 50 */
+                        humidityPct?: number | null;
+                        /** @description wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2 */
+                        wavelengthUm?: number | null;
                         /**
                          * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
                          * @default []
@@ -2769,6 +2773,10 @@ export interface paths {
                         pressureHpa?: number | null;
                         /** @description typical night temperature, °C */
                         temperatureC?: number | null;
+                        /** @description typical relative humidity for refraction, %; null: 50 */
+                        humidityPct?: number | null;
+                        /** @description wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2 */
+                        wavelengthUm?: number | null;
                         horizonMask?: {
                             /** @description degrees from north through east, [0, 360) */
                             azimuthDeg: number;
@@ -5759,6 +5767,12 @@ export interface paths {
                          * @enum {string}
                          */
                         kind: "offsets" | "separation" | "radial-velocity";
+                        /**
+                         * @description which body: "relative" (the secondary relative to the primary; a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre
+                         * @default relative
+                         * @enum {string}
+                         */
+                        component?: "relative" | "primary" | "secondary";
                         /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
                         epoch: string;
                         /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
@@ -6070,6 +6084,8 @@ export interface paths {
                          * @enum {string}
                          */
                         kind?: "offsets" | "separation" | "radial-velocity";
+                        /** @enum {string} */
+                        component?: "relative" | "primary" | "secondary";
                         /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
                         epoch?: string;
                         /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
@@ -9510,6 +9526,10 @@ export interface components {
                 elevationM: number;
                 pressureHpa: number;
                 temperatureC: number;
+                /** @description relative humidity for refraction, % */
+                humidityPct: number;
+                /** @description wavelength refraction is computed at, µm */
+                wavelengthUm: number;
             };
             night: {
                 /** @description local date of the evening, YYYY-MM-DD */
@@ -9663,6 +9683,10 @@ export interface components {
             pressureHpa?: number;
             /** @description air temperature, °C (default: standard atmosphere) */
             temperatureC?: number;
+            /** @description relative humidity for refraction, % (default 50) */
+            humidityPct?: number;
+            /** @description wavelength observed, for refraction, µm (default 2.2, the K band) */
+            wavelengthUm?: number;
             /** @description lowest pointing altitude, degrees (default 0) */
             lowestAltitudeDeg?: number;
             /** @description lowest usable altitude (degrees) by azimuth (degrees from north through east), interpolated */
@@ -9877,6 +9901,10 @@ export interface components {
             pressureHpa?: number | null;
             /** @description typical night temperature, °C */
             temperatureC?: number | null;
+            /** @description typical relative humidity for refraction, %; null: 50 */
+            humidityPct?: number | null;
+            /** @description wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2 */
+            wavelengthUm?: number | null;
             /**
              * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
              * @default []
@@ -10188,6 +10216,10 @@ export interface components {
                 elevationM: number;
                 pressureHpa: number;
                 temperatureC: number;
+                /** @description relative humidity for refraction, % */
+                humidityPct: number;
+                /** @description wavelength refraction is computed at, µm */
+                wavelengthUm: number;
             };
             night: {
                 /** @description local date of the evening, YYYY-MM-DD */
@@ -10327,6 +10359,12 @@ export interface components {
              * @enum {string}
              */
             kind: "offsets" | "separation" | "radial-velocity";
+            /**
+             * @description which body: "relative" (the secondary relative to the primary; a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre
+             * @default relative
+             * @enum {string}
+             */
+            component: "relative" | "primary" | "secondary";
             /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
             epoch: string;
             /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */

@@ -41,6 +41,7 @@ export const MEASUREMENT_COLUMNS: readonly string[] = [
   'system',
   'target',
   'kind',
+  'component',
   'epoch',
   ...MEASUREMENT_VALUE_FIELDS,
   'instrument',

@@ -1,6 +1,6 @@
 /**
  * Duplicate measurements. Two measurements are the same when they have the same target, kind,
- * epoch to the second and values (the kind's quantities, their σ and correlation): storing one
+ * component (the two stars of a binary may share a velocity at one epoch), epoch to the second and values (the kind's quantities, their σ and correlation): storing one
  * twice would count it twice in every fit and shrink every σ. The one-row write refuses a twin of
  * a stored row; the import reports each twin row (of a stored row or of an earlier line).
  */
@@ -19,12 +19,13 @@ export function twinKey(row: Row): string {
   return JSON.stringify([
     row.targetId,
     row.kind,
+    row.component ?? 'relative',
     second,
     ...VALUE_FIELDS.map((f) => row[f] ?? null),
   ]);
 }
 
-export const TWIN_RULE = 'has the same target, kind, epoch (to the second) and values';
+export const TWIN_RULE = 'has the same target, kind, component, epoch (to the second) and values';
 
 /** Stored measurements that are twins of `rows`, by key (the lowest id of each). */
 export async function storedTwins(tx: DbOrTx, rows: readonly Row[]): Promise<Map<string, number>> {

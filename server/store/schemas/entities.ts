@@ -8,6 +8,7 @@ import {
   BLOCK_KINDS,
   CORRELATION_FIELD,
   MEASUREMENT_KIND_NAMES,
+  MEASURED_COMPONENTS,
   MEASUREMENT_VALUE_FIELDS,
   describeKind,
   fieldsOfKind,
@@ -122,6 +123,16 @@ export const SiteFields = z.object({
   ),
   temperatureC: optionalNumber(
     z.number().min(-60).max(50).describe('typical night temperature, °C'),
+  ),
+  humidityPct: optionalNumber(
+    z.number().min(0).max(100).describe('typical relative humidity for refraction, %; null: 50'),
+  ),
+  wavelengthUm: optionalNumber(
+    z
+      .number()
+      .min(0.3)
+      .max(100)
+      .describe('wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2'),
   ),
   // Shape only here; ranges and repeated azimuths are the sky engine's validateSite rules (422).
   horizonMask: z
@@ -345,6 +356,12 @@ export const MeasurementFields = z.object({
   kind: z
     .enum(MEASUREMENT_KIND_NAMES)
     .describe('offsets Δα*, Δδ; separation and position angle; or radial velocity'),
+  component: z
+    .enum(MEASURED_COMPONENTS)
+    .default('relative')
+    .describe(
+      'which body: "relative" (the secondary relative to the primary; a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre',
+    ),
   epoch,
   ...(measuredFields() as Record<MeasuredField, z.ZodOptional<z.ZodNullable<z.ZodNumber>>>),
   instrument: lineText(120).trim().min(1),
@@ -365,6 +382,13 @@ export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
   for (const f of own)
     if (!present(f))
       ctx.addIssue({ code: 'custom', path: [f], message: `is required for kind "${m.kind}"` });
+  const components: readonly string[] = describeKind(m.kind).components;
+  if (!components.includes(m.component))
+    ctx.addIssue({
+      code: 'custom',
+      path: ['component'],
+      message: `must be ${components.map((c) => JSON.stringify(c)).join(', ')} for kind "${m.kind}" (positions are of the secondary relative to the primary)`,
+    });
   if (!describeKind(m.kind).correlated && present(CORRELATION_FIELD)) {
     ctx.addIssue({
       code: 'custom',
