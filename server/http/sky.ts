@@ -50,6 +50,13 @@ export const SiteSchema = z
       .number()
       .optional()
       .openapi({ description: 'air temperature, °C (default: standard atmosphere)' }),
+    humidityPct: z
+      .number()
+      .optional()
+      .openapi({ description: 'relative humidity for refraction, % (default 50)' }),
+    wavelengthUm: z.number().optional().openapi({
+      description: 'wavelength observed, for refraction, µm (default 2.2, the K band)',
+    }),
     lowestAltitudeDeg: z
       .number()
       .optional()

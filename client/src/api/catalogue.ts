@@ -77,6 +77,8 @@ export function skySite(site: SiteRow) {
     horizonMask: site.horizonMask,
     ...(site.pressureHpa !== null ? { pressureHpa: site.pressureHpa } : {}),
     ...(site.temperatureC !== null ? { temperatureC: site.temperatureC } : {}),
+    ...(site.humidityPct !== null ? { humidityPct: site.humidityPct } : {}),
+    ...(site.wavelengthUm !== null ? { wavelengthUm: site.wavelengthUm } : {}),
   };
 }
 

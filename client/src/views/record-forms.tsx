@@ -333,6 +333,20 @@ export const SITE_FIELDS: FieldSpec[] = [
   { key: 'pressureHpa', label: 'pressure (hPa)', kind: 'number', optional: true },
   { key: 'temperatureC', label: 'temperature (°C)', kind: 'number', optional: true },
   {
+    key: 'humidityPct',
+    label: 'humidity (%)',
+    kind: 'number',
+    optional: true,
+    hint: 'for refraction; default 50 %',
+  },
+  {
+    key: 'wavelengthUm',
+    label: 'wavelength (µm)',
+    kind: 'number',
+    optional: true,
+    hint: 'band observed, for refraction: K 2.2, H 1.65, J 1.25, V 0.55; default 2.2',
+  },
+  {
     key: 'horizonMask',
     label: 'horizon mask',
     kind: 'mask',

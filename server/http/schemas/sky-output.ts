@@ -89,6 +89,10 @@ export const NightReportSchema = z
         elevationM: z.number(),
         pressureHpa: z.number(),
         temperatureC: z.number(),
+        humidityPct: z.number().openapi({ description: 'relative humidity for refraction, %' }),
+        wavelengthUm: z
+          .number()
+          .openapi({ description: 'wavelength refraction is computed at, µm' }),
       })
       .strict(),
     night: z

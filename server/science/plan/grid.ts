@@ -113,7 +113,7 @@ export function nightGrid(
       frame.sinLat * mv[2] + frame.cosLat * Math.hypot(mv[0], mv[1]) * Math.cos(h) > 0 ? 1 : 0;
   }
   const sinAltitudeLimit = Math.sin(
-    trueAltitudeDeg(limits.altitudeLimitDeg, frame.refractionScale) * DEG,
+    trueAltitudeDeg(limits.altitudeLimitDeg, frame.refraction) * DEG,
   );
   return {
     site,
@@ -157,7 +157,7 @@ export function targetGrid(grid: NightGrid, target: Target): TargetGrid {
     const ch = Math.cos(h);
     const sinAlt = f.sinLat * ft.sinDec + f.cosLat * ft.cosDec * ch;
     const trueAlt = Math.asin(sinAlt) / DEG;
-    const appAlt = apparentAltitudeDeg(trueAlt, f.refractionScale);
+    const appAlt = apparentAltitudeDeg(trueAlt, f.refraction);
     alt[i] = appAlt;
     let code = 0;
     if (sinAlt < grid.sinAltitudeLimit) code = CODE.altitude!;

@@ -82,7 +82,7 @@ export function nightReasonWords(d: NightReasonDetail, c: Limits | null): string
 /** Whether the altitude limit is set by the airmass limit rather than by a fixed altitude. */
 function airmassBinds(c: Limits, grid: NightGrid): boolean {
   if (c.highestAirmass === null) return false;
-  const alt = altitudeForAirmass(c.airmassFormula, c.highestAirmass, grid.frame.refractionScale);
+  const alt = altitudeForAirmass(c.airmassFormula, c.highestAirmass, grid.frame.refraction);
   return Math.abs(alt - c.altitudeLimitDeg) < 1e-9;
 }
 

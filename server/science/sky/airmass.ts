@@ -4,7 +4,7 @@
  * published for, so callers pass both the true and the apparent altitude.
  */
 import { DEG } from '../constants.ts';
-import { apparentAltitudeDeg } from './refraction.ts';
+import { apparentAltitudeDeg, type RefractionModel } from './refraction.ts';
 
 export const AIRMASS_FORMULAS = ['kasten-young', 'secant', 'hardie', 'pickering'] as const;
 export type AirmassFormula = (typeof AIRMASS_FORMULAS)[number];
@@ -50,17 +50,17 @@ export function airmass(
 export function altitudeForAirmass(
   formula: AirmassFormula,
   highestAirmass: number,
-  refractionScale: number,
+  refraction: RefractionModel,
 ): number {
   let lo = -1,
     hi = 90;
   for (let i = 0; i < 60; i++) {
     const mid = (lo + hi) / 2;
-    const x = airmass(formula, mid, apparentAltitudeDeg(mid, refractionScale));
+    const x = airmass(formula, mid, apparentAltitudeDeg(mid, refraction));
     if (x > highestAirmass) lo = mid;
     else hi = mid;
   }
-  return apparentAltitudeDeg(hi, refractionScale);
+  return apparentAltitudeDeg(hi, refraction);
 }
 
 /** Seeing FWHM at an airmass from the zenith FWHM (any angular unit): FWHM ∝ X^0.6 (Roddier 1981). */

@@ -18,7 +18,7 @@ import {
   type RotationMatrix,
 } from 'astronomy-engine';
 import { AU_M, C_M_PER_S, DEG, JD_J2000, SECONDS_PER_DAY } from '../constants.ts';
-import { apparentAltitudeDeg, refractionScale } from './refraction.ts';
+import { apparentAltitudeDeg, siteRefraction } from './refraction.ts';
 import type { Site } from './site.ts';
 import { useLeapSecondTimeScale } from './time-scale.ts';
 import { normalize, raDecFromVector, wrapPi, type Vec3 } from './vectors.ts';
@@ -121,10 +121,7 @@ export function skyPlaceOfDate(
   const hor = Horizon(time, site.observer, raRad / (15 * DEG), decRad / DEG);
   const ha = wrapPi(localSiderealRad(time, site.longitudeDeg) - raRad);
   return {
-    altitudeDeg: apparentAltitudeDeg(
-      hor.altitude,
-      refractionScale(site.pressureHpa, site.temperatureC),
-    ),
+    altitudeDeg: apparentAltitudeDeg(hor.altitude, siteRefraction(site)),
     trueAltitudeDeg: hor.altitude,
     azimuthDeg: hor.azimuth,
     hourAngleDeg: ha / DEG,

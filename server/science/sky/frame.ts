@@ -9,7 +9,7 @@ import { Body, Rotation_EQJ_EQD, SiderealTime } from 'astronomy-engine';
 import { DEG, TWO_PI } from '../constants.ts';
 import { aberrate, astroTime, observerBeta, rowMajor } from './apparent.ts';
 import type { NightSpan } from './night.ts';
-import { refractionScale } from './refraction.ts';
+import { siteRefraction, type RefractionModel } from './refraction.ts';
 import type { Site } from './site.ts';
 import { bodyPlace } from './sun-moon.ts';
 import { normalize, raDecFromVector, rotate, type Vec3 } from './vectors.ts';
@@ -30,7 +30,7 @@ export interface NightFrame {
   precNut: number[][];
   /** Earth's barycentric velocity / c at mid-night, J2000 axes. */
   beta: Vec3;
-  refractionScale: number;
+  refraction: RefractionModel;
   /** Topocentric apparent direction of date of the Sun at span start and end (it moves ~1°/day, nearly uniformly). */
   sunStart: Vec3;
   sunEnd: Vec3;
@@ -61,7 +61,7 @@ export function nightFrame(site: Site, span: NightSpan, moonKnotHours = 1): Nigh
     midJd,
     precNut: rowMajor(Rotation_EQJ_EQD(mid)),
     beta: observerBeta(mid),
-    refractionScale: refractionScale(site.pressureHpa, site.temperatureC),
+    refraction: siteRefraction(site),
     sunStart: bodyPlace(Body.Sun, site, span.startJd).ofDate,
     sunEnd: bodyPlace(Body.Sun, site, span.endJd).ofDate,
     knotJd: new Float64Array(0),

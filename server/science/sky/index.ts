@@ -55,9 +55,13 @@ export {
 } from './night-report.ts';
 export {
   apparentAltitudeDeg,
+  refractionConstants,
   refractionDeg,
-  refractionScale,
+  refractionModel,
+  siteRefraction,
   trueAltitudeDeg,
+  type RefractionConditions,
+  type RefractionModel,
 } from './refraction.ts';
 export {
   altitudeGrid,

@@ -4,7 +4,7 @@
  */
 import { InputError, requireFinite } from '../errors.ts';
 import { AIRMASS_FORMULAS, altitudeForAirmass, type AirmassFormula } from './airmass.ts';
-import { refractionScale } from './refraction.ts';
+import { siteRefraction } from './refraction.ts';
 import type { HorizonPoint, Site } from './site.ts';
 import { TWILIGHT_SUN_ALTITUDE_DEG, type TwilightKind } from './sun-moon.ts';
 
@@ -104,11 +104,11 @@ export function validateLimits(input: unknown, site: Site, prefix = 'limits'): L
       : minAlt === null
         ? DEFAULT_HIGHEST_AIRMASS
         : null;
-  const scale = refractionScale(site.pressureHpa, site.temperatureC);
+  const refraction = siteRefraction(site);
   const airmassAlt =
     highestAirmass === null
       ? -90
-      : altitudeForAirmass(formula as AirmassFormula, highestAirmass, scale);
+      : altitudeForAirmass(formula as AirmassFormula, highestAirmass, refraction);
   const useMask = c.useHorizonMask ?? true;
   if (typeof useMask !== 'boolean')
     throw new InputError(f('useHorizonMask'), useMask, 'must be true or false');

@@ -87,6 +87,9 @@ export interface NightReport {
     elevationM: number;
     pressureHpa: number;
     temperatureC: number;
+    /** Relative humidity and wavelength the refraction was computed for, % and µm. */
+    humidityPct: number;
+    wavelengthUm: number;
   };
   night: { date: string; start: Instant; end: Instant; hours: number };
   sun: {
@@ -245,6 +248,8 @@ export function nightReport(
       elevationM: site.elevationM,
       pressureHpa: site.pressureHpa,
       temperatureC: site.temperatureC,
+      humidityPct: site.humidityPct,
+      wavelengthUm: site.wavelengthUm,
     },
     night: {
       date,

@@ -88,7 +88,7 @@ export function fastSampler(frame: NightFrame, t: FrameTarget): Sampler {
     const sun = sunAt(frame, jd);
     const moon = moonAt(frame, jd);
     return {
-      altitudeDeg: apparentAltitudeDeg(alt, frame.refractionScale),
+      altitudeDeg: apparentAltitudeDeg(alt, frame.refraction),
       trueAltitudeDeg: alt,
       azimuthDeg: az,
       hourAngleRad: wrapPi(h),
@@ -118,7 +118,7 @@ export function altitudeGrid(
       b = frame.cosLat * t.cosDec;
     for (let k = 0; k < n; k++) {
       const alt = Math.asin(a + b * Math.cos(last[k]! - t.raRad)) / DEG;
-      out[i * n + k] = apparentAltitudeDeg(alt, frame.refractionScale);
+      out[i * n + k] = apparentAltitudeDeg(alt, frame.refraction);
     }
   }
   return out;

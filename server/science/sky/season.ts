@@ -166,10 +166,10 @@ export function seasonMap(
   const maxGap = options.maxGapNights ?? 7;
   const { dates, nights } = prepareNights(site, year, c, stepDays);
   const nN = nights.length;
-  const scale = nights[0]!.frame.refractionScale;
-  const sinLimit = Math.sin(trueAltitudeDeg(c.altitudeLimitDeg, scale) * DEG);
+  const refraction = nights[0]!.frame.refraction;
+  const sinLimit = Math.sin(trueAltitudeDeg(c.altitudeLimitDeg, refraction) * DEG);
   const maskTop = Math.max(c.altitudeLimitDeg, maskMaxAltitudeDeg(c.mask));
-  const sinMaskTop = Math.sin(trueAltitudeDeg(maskTop, scale) * DEG);
+  const sinMaskTop = Math.sin(trueAltitudeDeg(maskTop, refraction) * DEG);
   const cosSunMargin = Math.cos(Math.min(180, c.leastSunDistanceDeg + 1) * DEG);
   const sinLat = nights[0]!.frame.sinLat,
     cosLat = nights[0]!.frame.cosLat;
@@ -259,7 +259,7 @@ export function seasonMap(
             const sinAlt = sinLat * sinDec + cosLat * cosDec * ch;
             if (sinAlt < sinLimit) continue;
             if (c.mask.length > 0) {
-              const alt = apparentAltitudeDeg(Math.asin(sinAlt) / DEG, scale);
+              const alt = apparentAltitudeDeg(Math.asin(sinAlt) / DEG, refraction);
               let az =
                 Math.atan2(-cosDec * Math.sin(h), cosLat * sinDec - sinLat * cosDec * ch) / DEG;
               if (az < 0) az += 360;

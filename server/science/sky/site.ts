@@ -7,6 +7,7 @@ import { Observer } from 'astronomy-engine';
 import { InputError, requireFinite } from '../errors.ts';
 import { standardAtmosphere } from './atmosphere.ts';
 import { parseLatitude, parseLongitude } from './coordinates.ts';
+import { DEFAULT_HUMIDITY, DEFAULT_WAVELENGTH_UM } from './refraction.ts';
 import { checkTimeZone, describeMismatch, longitudeZoneMismatch } from './zones.ts';
 
 /** One point of a horizon mask: below `altitudeDeg` at `azimuthDeg` the view is blocked. */
@@ -37,6 +38,10 @@ export interface SiteInput {
   pressureHpa?: number;
   /** Air temperature, °C, [−80, 60]; default from the elevation by the standard atmosphere. */
   temperatureC?: number;
+  /** Relative humidity for refraction, %, [0, 100]; default 50. */
+  humidityPct?: number;
+  /** Wavelength observed, for refraction, µm, [0.3, 100]; default 2.2 (K band). */
+  wavelengthUm?: number;
   /** Lowest altitude the telescope may point at, degrees, [−5, 89]; default 0. */
   lowestAltitudeDeg?: number;
   /** Azimuth-dependent horizon, linearly interpolated (wrapping through north). */
@@ -54,6 +59,8 @@ export interface Site {
   timeZone: string;
   pressureHpa: number;
   temperatureC: number;
+  humidityPct: number;
+  wavelengthUm: number;
   lowestAltitudeDeg: number;
   /** Sorted by azimuth, no duplicates; empty for a flat horizon. */
   horizonMask: HorizonPoint[];
@@ -132,6 +139,8 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
   const std = standardAtmosphere(elevationM);
   const pressureHpa = optional(f('pressureHpa'), s.pressureHpa, 0, 1100, std.pressureHpa);
   const temperatureC = optional(f('temperatureC'), s.temperatureC, -80, 60, std.temperatureC);
+  const humidityPct = optional(f('humidityPct'), s.humidityPct, 0, 100, DEFAULT_HUMIDITY * 100);
+  const wavelengthUm = optional(f('wavelengthUm'), s.wavelengthUm, 0.3, 100, DEFAULT_WAVELENGTH_UM);
   const lowestAltitudeDeg = optional(f('lowestAltitudeDeg'), s.lowestAltitudeDeg, -5, 89, 0);
   const leastSunDistanceDeg = optional(
     f('leastSunDistanceDeg'),
@@ -150,6 +159,8 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
     timeZone,
     pressureHpa,
     temperatureC,
+    humidityPct,
+    wavelengthUm,
     lowestAltitudeDeg,
     horizonMask,
     leastSunDistanceDeg,
