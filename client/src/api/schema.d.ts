@@ -10763,6 +10763,11 @@ export interface components {
             id?: string;
             /** @enum {string} */
             kind: "offsets" | "separation" | "radial-velocity";
+            /**
+             * @description which body the measurement is of
+             * @enum {string}
+             */
+            component: "relative" | "primary" | "secondary";
             jd: number;
             epoch: string;
             /** @description observed − model: [Δα*, Δδ] mas, [ρ mas, θ deg] or [v km/s] */

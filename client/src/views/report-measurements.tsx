@@ -1,10 +1,12 @@
 /** Measurements tied to the night's blocks, and a form to add one (field-level messages from the server). */
 import { useState } from 'preact/hooks';
 import {
+  COMPONENT_TEXT,
   CORRELATION_FIELD,
   MEASUREMENT_KIND_NAMES,
   UNIT_TEXT,
   describeKind,
+  type MeasuredComponent,
 } from '../../../descriptors/measurement-kinds.ts';
 import { fieldMessages, getAll, sendRecord } from '../api/client.ts';
 import type { Catalogue } from '../api/catalogue.ts';
@@ -38,7 +40,9 @@ function AddMeasurement({
   const [kind, setKind] = useState<Kind>(
     MEASUREMENT_KIND_NAMES.find((k) => describeKind(k).blockKind === first.kind) ?? 'offsets',
   );
+  const [component, setComponent] = useState<MeasuredComponent>('relative');
   const [values, setValues] = useState<Record<string, string>>({ instrument: '' });
+  const components = describeKind(kind).components;
   const [error, setError] = useState<unknown>(null);
   const msgs = fieldMessages(error);
   const block = blocks.find((b) => b.id === blockId) ?? first;
@@ -56,6 +60,7 @@ function AddMeasurement({
         targetId: block.targetId,
         blockId: block.id,
         kind,
+        component: components.includes(component) ? component : components[0]!,
         epoch: values.epoch || mid,
         instrument: values.instrument ?? '',
         ...nums,
@@ -103,6 +108,23 @@ function AddMeasurement({
             ))}
           </select>
         </label>
+        {components.length > 1 && (
+          <label class={msgs.component ? 'field invalid' : 'field'}>
+            <span>of which body</span>
+            <select
+              name="component"
+              value={component}
+              onChange={(e) => setComponent(e.currentTarget.value as MeasuredComponent)}
+            >
+              {components.map((c) => (
+                <option key={c} value={c}>
+                  {COMPONENT_TEXT[c]}
+                </option>
+              ))}
+            </select>
+            {msgs.component && <span class="field-msg">{msgs.component}</span>}
+          </label>
+        )}
         {field('epoch', `epoch (ISO 8601 UTC; empty: block middle ${mid.slice(11, 16)})`, 'text')}
         {kindInputs(kind).map((f) => field(f.key, f.label))}
         {field('instrument', 'instrument', 'text')}
@@ -161,6 +183,7 @@ export function ReportMeasurements({
               <th>target</th>
               <th>epoch (UTC)</th>
               <th>kind</th>
+              <th>of</th>
               <th>value</th>
               <th>instrument</th>
             </tr>
@@ -173,6 +196,7 @@ export function ReportMeasurements({
                 </td>
                 <td>{utcText(m.epoch)}</td>
                 <td>{m.kind}</td>
+                <td>{m.component}</td>
                 <td>{value(m)}</td>
                 <td>{m.instrument}</td>
               </tr>

@@ -88,8 +88,13 @@ function RvPanel({ d }: { d: TargetData }) {
       </p>
     );
   const plain = d.rvPlain ? rvSeries(d.rvPlain) : null;
-  const meas = d.measurements
-    .filter((m) => m.kind === 'radial-velocity' && m.radialVelocityKmS !== null)
+  const velocities = d.measurements.filter(
+    (m) => m.kind === 'radial-velocity' && m.radialVelocityKmS !== null,
+  );
+  // The curve is the relative orbit's velocity: a body's velocity about the barycentre is not on it.
+  const ofBodies = velocities.filter((m) => m.component !== 'relative').length;
+  const meas = velocities
+    .filter((m) => m.component === 'relative')
     .map((m) => {
       const p = d.atMeasurement.get(m.id);
       return {
@@ -136,6 +141,8 @@ function RvPanel({ d }: { d: TargetData }) {
         )}{' '}
         · measurements with 1σ bars
         {!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}
+        {ofBodies > 0 &&
+          ` · ${ofBodies} velocit${ofBodies === 1 ? 'y' : 'ies'} of the primary or the secondary about the barycentre not drawn: the curve is the velocity relative to the primary (a fit gives each body's share with the mass ratio)`}
       </p>
     </>
   );

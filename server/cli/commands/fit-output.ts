@@ -67,6 +67,7 @@ const RESIDUAL_COLUMNS: Column<Residual>[] = [
   { header: 'star', value: (x) => x.star },
   { header: 'row', value: (x) => x.id ?? String(x.index) },
   { header: 'kind', value: (x) => x.kind },
+  { header: 'of', value: (x) => x.component },
   { header: 'epoch', value: (x) => x.epoch },
   { header: 'o−c 1', value: (x) => x.residual[0] ?? null, digits: 4 },
   { header: 'o−c 2', value: (x) => x.residual[1] ?? null, digits: 4 },

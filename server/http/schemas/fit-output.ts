@@ -3,7 +3,10 @@
  * residuals per measurement, and per star an orbit that can be stored as a new solution.
  */
 import { z } from '@hono/zod-openapi';
-import { MEASUREMENT_KIND_NAMES } from '../../../descriptors/measurement-kinds.ts';
+import {
+  MEASURED_COMPONENTS,
+  MEASUREMENT_KIND_NAMES,
+} from '../../../descriptors/measurement-kinds.ts';
 import { PERCENTILES } from '../../science/orbit/index.ts';
 import { OrbitSchema } from './orbit.ts';
 
@@ -53,6 +56,9 @@ export const ResidualSchema = z
     index: z.number().int(),
     id: z.string().optional().openapi({ description: 'the measurement’s id, as sent' }),
     kind: z.enum(MEASUREMENT_KIND_NAMES),
+    component: z
+      .enum(MEASURED_COMPONENTS)
+      .openapi({ description: 'which body the measurement is of' }),
     jd: z.number(),
     epoch: z.string(),
     residual: z.array(z.number()).openapi({

@@ -188,6 +188,7 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
         index: m.index,
         ...(m.id !== undefined ? { id: m.id } : {}),
         kind: m.kind,
+        component: m.component,
         jd: m.jd,
         epoch: jdToIso(m.jd),
         residual: res,

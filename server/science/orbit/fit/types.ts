@@ -152,6 +152,8 @@ export interface Residual {
   index: number;
   id?: string;
   kind: MeasurementInput['kind'];
+  /** Which body the measurement is of. */
+  component: MeasuredComponent;
   jd: number;
   epoch: string;
   /** Observed − model per component: [Δα*, Δδ] mas, [ρ mas, θ deg], or [v km/s]. */
