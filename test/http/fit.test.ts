@@ -131,14 +131,14 @@ describe('POST /api/fit (stateless)', () => {
     expect(csv.headers.get('content-type')).toMatch(/^text\/csv/);
     const lines = (await csv.text()).trim().split('\n');
     expect(lines[0]).toBe(
-      'star,index,id,kind,epoch,jd,residual_1,unit_1,residual_2,unit_2,normalized_1,normalized_2,outlier',
+      'star,index,id,kind,component,epoch,jd,residual_1,unit_1,residual_2,unit_2,normalized_1,normalized_2,outlier',
     );
     expect(lines.length).toBe(1 + measurements.length);
     // Line 1 + k is residual k, at full precision: the page's numbers exactly.
     const cells = lines[1 + 7]!.split(',');
     const seventh = body.residuals.find((x) => x.index === 7)!;
-    expect(Number(cells[6])).toBe(seventh.residual[0]);
-    expect(Number(cells[10])).toBe(seventh.normalized[0]);
+    expect(Number(cells[7])).toBe(seventh.residual[0]);
+    expect(Number(cells[11])).toBe(seventh.normalized[0]);
   });
 
   it('documents the fit endpoints in the OpenAPI document', async () => {

@@ -8111,7 +8111,7 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description every residual, RFC 4180: star, index, id, kind, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
+                /** @description every residual, RFC 4180: star, index, id, kind, component, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -8470,7 +8470,7 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description every residual, RFC 4180: star, index, id, kind, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
+                /** @description every residual, RFC 4180: star, index, id, kind, component, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
                 200: {
                     headers: {
                         [name: string]: unknown;
@@ -9008,7 +9008,7 @@ export interface paths {
                 };
             };
             responses: {
-                /** @description every residual, RFC 4180: star, index, id, kind, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
+                /** @description every residual, RFC 4180: star, index, id, kind, component, epoch, jd, residual_1, unit_1, residual_2, unit_2, normalized_1, normalized_2, outlier (observed − model, each component's unit beside it) */
                 200: {
                     headers: {
                         [name: string]: unknown;
