@@ -13,7 +13,10 @@ import { createApp } from '../../server/http/app.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import type { TargetForecast } from '../../server/store/views/forecast.ts';
 import { nowIso } from '../../server/clock.ts';
-import { HEADLINE } from '../../server/store/demo/scenario.ts';
+import { HEADLINE, SITES, demoAnchor, vesperSystem } from '../../server/store/demo/scenario.ts';
+import { SEEING_AIRMASS_EXPONENT } from '../../server/science/plan/index.ts';
+import { parseEpoch } from '../../server/science/time/index.ts';
+import * as Astronomy from 'astronomy-engine';
 
 const AT = `${nowIso().slice(0, 10)}T00:00:00Z`;
 
@@ -82,5 +85,37 @@ describe('GET /api/targets/{id}/forecast', () => {
     expect((await app.request(`/api/targets/${deepest}/forecast`)).status).toBe(401);
     const { code } = await cli(['forecast', '--target-id', 'x']);
     expect(code).toBe(2);
+  });
+});
+
+describe('the precision a planned block is counted at', () => {
+  it("is the season planner's: its site's stored model at the block's airmass", async () => {
+    const f = await store.plans.forecast(deepest, { atJd: parseEpoch(AT) });
+    expect(f.precision.epochs.length).toBeGreaterThan(0);
+    const anchor = demoAnchor(nowIso());
+    const vesper = vesperSystem(anchor);
+    let worst = 0;
+    for (const e of f.precision.epochs) {
+      const site = SITES.find((s) => s.name === e.site)!;
+      const zenith = e.unit === 'mas' ? site.astrometrySigmaMas : site.spectroscopySigmaKmS;
+      // The demo's stored zenith σ (invented) × X^0.6 (Roddier 1981, from memory; no night seeing, so the ratio is 1).
+      expect(e.sigma).toBeCloseTo(zenith * e.airmass ** SEEING_AIRMASS_EXPONENT, 9);
+      // The airmass against astronomy-engine's refracted altitude of the primary at the block's
+      // middle, by Kasten & Young, Applied Optics 28, 4735 (1989): X = 1/(sin h + 0.50572 (h + 6.07995°)^−1.6364).
+      const t = Astronomy.MakeTime(new Date(e.epoch));
+      const obs = new Astronomy.Observer(site.latitudeDeg, site.longitudeDeg, site.elevationM);
+      const h = Astronomy.Horizon(t, obs, vesper.raDeg / 15, vesper.decDeg, 'normal').altitude;
+      const x = 1 / (Math.sin((h * Math.PI) / 180) + 0.50572 * (h + 6.07995) ** -1.6364);
+      worst = Math.max(worst, Math.abs(x - e.airmass));
+    }
+    console.log(
+      `forecast epochs: worst airmass difference ${worst.toFixed(4)}; ${f.precision.text}`,
+    );
+    // 0.03: the nearest 10-minute edge of the planners' grid (≤ 5 min away), J2000 vs of-date place, refraction at the site's pressure.
+    expect(worst).toBeLessThan(0.03);
+    const planned = (await store.blocks.list({}, { limit: 500 })).items.filter(
+      (b) => b.targetId === deepest && b.status === 'planned' && b.startUtc >= AT,
+    );
+    expect(f.precision.epochs.length + f.precision.notCounted.length).toBe(planned.length);
   });
 });

@@ -9817,10 +9817,36 @@ export interface components {
                 version: number;
             };
             at: string;
+            /** @description the σ each planned block is counted at (the season planner’s precision model at its airmass), and blocks the limits close */
             precision: {
-                astrometryMas: number;
-                spectroscopyKmS: number;
                 source: string;
+                /** @description σ range per kind and blocks not counted, in words */
+                text: string;
+                epochs: {
+                    blockId: number;
+                    /** @description the block’s middle, ISO 8601 UTC */
+                    epoch: string;
+                    /** @enum {string} */
+                    kind: "astrometry" | "spectroscopy";
+                    site: string;
+                    /** @description local evening date */
+                    night: string;
+                    airmass: number;
+                    /** @description expected 1σ there and then, in `unit` */
+                    sigma: number;
+                    /** @enum {string} */
+                    unit: "mas" | "km/s";
+                }[];
+                notCounted: {
+                    blockId: number;
+                    epoch: string;
+                    /** @enum {string} */
+                    kind: "astrometry" | "spectroscopy";
+                    site: string;
+                    night: string;
+                    /** @description the limit that closes the block’s middle */
+                    reason: string;
+                }[];
             };
             blockIds: number[];
         };

@@ -37,9 +37,9 @@ export function ForecastPanel({ targetId }: { targetId: number }) {
       </ul>
       <table class="data forecast-table">
         <caption>
-          {data.plannedEpochs} planned epochs from now; precision {data.precision.astrometryMas} mas
-          and {data.precision.spectroscopyKmS} km/s ({data.precision.source}). Significance is the
-          factor over its 1σ, assuming general relativity (factor 1).
+          {data.plannedEpochs} planned epochs from now; {data.precision.text} (
+          {data.precision.source}
+          ). Significance is the factor over its 1σ, assuming general relativity (factor 1).
         </caption>
         <thead>
           <tr>

@@ -80,7 +80,8 @@ export const forecastCommand: Command = {
     if (format !== 'table') return table;
     return [
       `solution ${result.solution.id} (version ${result.solution.version}); ${result.plannedEpochs} planned epochs after ${result.at}`,
-      `precision ${result.precision.astrometryMas} mas, ${result.precision.spectroscopyKmS} km/s (${result.precision.source})`,
+      `precision: ${result.precision.text}`,
+      `  (${result.precision.source})`,
       ...result.summary,
       '',
       table,

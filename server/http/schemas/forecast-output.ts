@@ -1,5 +1,6 @@
 /** Response schema of a detection forecast of the relativity factors (server/science/plan/forecast.ts). */
 import { z } from '@hono/zod-openapi';
+import { BLOCK_KINDS } from '../../science/plan/index.ts';
 
 const FactorForecastSchema = z
   .object({
@@ -50,8 +51,45 @@ export const TargetForecastSchema = z
     solution: z.object({ id: z.number().int(), version: z.number().int() }).strict(),
     at: z.string(),
     precision: z
-      .object({ astrometryMas: z.number(), spectroscopyKmS: z.number(), source: z.string() })
-      .strict(),
+      .object({
+        source: z.string(),
+        text: z
+          .string()
+          .openapi({ description: 'σ range per kind and blocks not counted, in words' }),
+        epochs: z.array(
+          z
+            .object({
+              blockId: z.number().int(),
+              epoch: z.string().openapi({ description: 'the block’s middle, ISO 8601 UTC' }),
+              kind: z.enum(BLOCK_KINDS),
+              site: z.string(),
+              night: z.string().openapi({ description: 'local evening date' }),
+              airmass: z.number(),
+              sigma: z.number().openapi({ description: 'expected 1σ there and then, in `unit`' }),
+              unit: z.enum(['mas', 'km/s']),
+            })
+            .strict(),
+        ),
+        notCounted: z.array(
+          z
+            .object({
+              blockId: z.number().int(),
+              epoch: z.string(),
+              kind: z.enum(BLOCK_KINDS),
+              site: z.string(),
+              night: z.string(),
+              reason: z
+                .string()
+                .openapi({ description: 'the limit that closes the block’s middle' }),
+            })
+            .strict(),
+        ),
+      })
+      .strict()
+      .openapi({
+        description:
+          'the σ each planned block is counted at (the season planner’s precision model at its airmass), and blocks the limits close',
+      }),
     blockIds: z.array(z.number().int()),
   })
   .strict()

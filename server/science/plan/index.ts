@@ -18,6 +18,7 @@ export {
 } from './flags.ts';
 export { nightGrid, targetGrid, REASON_CODES, type NightGrid, type TargetGrid } from './grid.ts';
 export { nightMoments, skyAtMoment, type MomentSky } from './moment.ts';
+export { rounded } from './words.ts';
 export {
   addInformation,
   informationModel,

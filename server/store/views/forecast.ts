@@ -1,44 +1,68 @@
 /**
  * The detection forecast of a stored target: its current orbit solution, its measurements, and its
- * blocks still planned after `at` (each at its midpoint, of its kind), at the precision given or,
- * by default, the median σ of the target's own measurements of each kind (the planner's defaults
- * when it has none). The forecast itself is the planning science's.
+ * blocks still planned after `at`, each at the precision the season planner would give it — the
+ * precision model of its site (under its campaign's, and the request's, zenith values) at the
+ * block's middle airmass (plan/precision.ts: precisionModel, precisionAt). A block whose middle the
+ * limits close (the Moon, …) is listed as not counted. The forecast itself is the planning science's.
  */
 import { and, eq, gte } from 'drizzle-orm';
-import { blocks, measurements } from '../../../db/schema.ts';
+import {
+  blocks,
+  campaigns,
+  measurements,
+  nights,
+  sites,
+  systems,
+  targets,
+} from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import {
   forecastDetection,
+  precisionAt,
+  rounded,
+  precisionModel,
+  skyAtMoment,
+  type BlockKind,
   type DetectionForecast,
+  type ForecastEpoch,
   type Precision,
 } from '../../science/plan/index.ts';
 import { parseEpoch, jdToIso } from '../../science/time/index.ts';
 import type { DbOrTx } from '../database.ts';
 import { toInput } from '../fits.ts';
 import { currentOrbit } from '../repos/orbits.ts';
+import { placedTarget, planningSite } from './planning.ts';
 
 export interface TargetForecastOptions {
   /** The moment the plan counts from, JD. */
   atJd: number;
+  /** Zenith values over every site's and campaign's model, field by field. */
   precision?: Partial<Precision>;
+}
+
+export interface ForecastBlock {
+  blockId: number;
+  /** The block's middle, ISO 8601 UTC. */
+  epoch: string;
+  kind: BlockKind;
+  site: string;
+  /** The night (local evening date). */
+  night: string;
 }
 
 export interface TargetForecast extends DetectionForecast {
   solution: { id: number; version: number };
   at: string;
-  /** The precision used and where it came from. */
-  precision: Precision & { source: string };
+  /** How each planned epoch's σ was set, each counted epoch with it, and the blocks not counted. */
+  precision: {
+    source: string;
+    /** The range of σ per kind and the blocks not counted, in words (the CLI and the client show it). */
+    text: string;
+    epochs: (ForecastBlock & { airmass: number; sigma: number; unit: 'mas' | 'km/s' })[];
+    notCounted: (ForecastBlock & { reason: string })[];
+  };
   /** The planned blocks counted (ids), soonest first. */
   blockIds: number[];
-}
-
-/** Planner defaults when neither the request nor the target's measurements give a precision. */
-const DEFAULT_PRECISION: Precision = { astrometryMas: 1, spectroscopyKmS: 5 };
-
-function median(xs: number[]): number | null {
-  if (xs.length === 0) return null;
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)]!;
 }
 
 /** @throws NotFoundError without a current solution; InputError when it has no distance */
@@ -56,8 +80,11 @@ export async function targetForecast(
     );
   const rows = await db.select().from(measurements).where(eq(measurements.targetId, targetId));
   const planned = await db
-    .select()
+    .select({ b: blocks, n: nights, s: sites, c: campaigns })
     .from(blocks)
+    .innerJoin(nights, eq(nights.id, blocks.nightId))
+    .innerJoin(sites, eq(sites.id, nights.siteId))
+    .leftJoin(campaigns, eq(campaigns.id, nights.campaignId))
     .where(
       and(
         eq(blocks.targetId, targetId),
@@ -66,35 +93,71 @@ export async function targetForecast(
       ),
     )
     .orderBy(blocks.startUtc);
-  const ast = median(
-    rows.flatMap((r) => (r.kind === 'offsets' ? [r.sigmaDRaMas!, r.sigmaDDecMas!] : [])),
-  );
-  const rv = median(
-    rows.flatMap((r) => (r.kind === 'radial-velocity' ? [r.sigmaRadialVelocityKmS!] : [])),
-  );
+  const [placed] = await db
+    .select({ t: targets, s: systems })
+    .from(targets)
+    .innerJoin(systems, eq(systems.id, targets.systemId))
+    .where(eq(targets.id, targetId));
+  const target = await placedTarget(db, placed!.t, placed!.s);
   const given = options.precision ?? {};
-  const precision = {
-    astrometryMas: given.astrometryMas ?? ast ?? DEFAULT_PRECISION.astrometryMas,
-    spectroscopyKmS: given.spectroscopyKmS ?? rv ?? DEFAULT_PRECISION.spectroscopyKmS,
-    source:
-      given.astrometryMas !== undefined && given.spectroscopyKmS !== undefined
-        ? 'the request'
-        : "the request where given, else the median σ of the target's measurements of each kind, else the planner's defaults (1 mas, 5 km/s)",
-  };
+  const counted: TargetForecast['precision']['epochs'] = [];
+  const notCounted: TargetForecast['precision']['notCounted'] = [];
+  const plan: ForecastEpoch[] = [];
+  for (const { b, n, s, c } of planned) {
+    const jd = (parseEpoch(b.startUtc) + parseEpoch(b.endUtc)) / 2;
+    const where = planningSite(s, c?.limits ?? {});
+    const base = {
+      blockId: b.id,
+      epoch: jdToIso(jd),
+      kind: b.kind,
+      site: s.name,
+      night: n.date,
+    };
+    const moment = skyAtMoment(where.site, where.limits, target, jd);
+    if (!moment.open) {
+      notCounted.push({ ...base, reason: moment.words ?? 'closed' });
+      continue;
+    }
+    const model = precisionModel([given, c?.goals.precision, where.precision]);
+    const p = precisionAt(model, moment.airmass!, where.limits.zenithSeeingArcsec);
+    const sigma = b.kind === 'astrometry' ? p.astrometryMas : p.spectroscopyKmS;
+    counted.push({
+      ...base,
+      airmass: moment.airmass!,
+      sigma,
+      unit: b.kind === 'astrometry' ? 'mas' : 'km/s',
+    });
+    plan.push({ jd, kind: b.kind, sigma });
+  }
+  const zenith = precisionModel([given]);
   const forecast = forecastDetection({
     orbit,
     measurements: rows.map(toInput),
-    plan: planned.map((b) => ({
-      jd: (parseEpoch(b.startUtc) + parseEpoch(b.endUtc)) / 2,
-      kind: b.kind,
-    })),
-    precision,
+    plan,
+    precision: { astrometryMas: zenith.astrometryMas, spectroscopyKmS: zenith.spectroscopyKmS },
   });
+  const range = (unit: 'mas' | 'km/s', what: string) => {
+    const xs = counted.filter((e) => e.unit === unit).map((e) => e.sigma);
+    if (xs.length === 0) return null;
+    const [lo, hi] = [Math.min(...xs), Math.max(...xs)];
+    const span =
+      rounded(lo, 2) === rounded(hi, 2) ? rounded(lo, 2) : `${rounded(lo, 2)}–${rounded(hi, 2)}`;
+    return `${what} σ ${span} ${unit} (${xs.length} epoch${xs.length === 1 ? '' : 's'})`;
+  };
+  const ranges = [range('mas', 'astrometry'), range('km/s', 'radial velocity')].filter(Boolean);
+  const left = notCounted.map((e) => `${e.site} ${e.night} ${e.kind}: ${e.reason}`);
+  const text = `${ranges.length ? ranges.join(', ') : 'no planned epoch counted'}${left.length ? `; not counted (closed at the block's middle): ${left.join('; ')}` : ''}`;
   return {
     ...forecast,
     solution: { id: solution.id, version: solution.version },
     at: jdToIso(options.atJd),
-    precision,
-    blockIds: planned.map((b) => b.id),
+    precision: {
+      source:
+        "each planned block at the season planner's precision: its site's model (under the request's, then its campaign's zenith values) × airmass^0.6 at the block's middle",
+      text,
+      epochs: counted,
+      notCounted,
+    },
+    blockIds: counted.map((e) => e.blockId),
   };
 }

@@ -43,38 +43,61 @@ export interface CampaignPlanningInput {
   targets: { id: number; system: string; target: Target; lastMeasuredJd: number | null }[];
 }
 
+/** A stored site as the planners read it, under a campaign's limits (none: the site's own). */
+export function planningSite(
+  row: typeof sitesTable.$inferSelect,
+  c: NonNullable<CampaignRow['limits']>,
+): CampaignPlanningInput['sites'][number] {
+  const site = validateSite(row, `sites.${row.id}`);
+  const limits = validateLimits(
+    {
+      ...(c.darkness ? { darkness: c.darkness } : {}),
+      ...(c.highestAirmass ? { highestAirmass: c.highestAirmass } : {}),
+      ...(c.leastMoonDistanceDeg !== undefined
+        ? { leastMoonDistanceDeg: c.leastMoonDistanceDeg }
+        : {}),
+      lowestAltitudeDeg: row.lowestAltitudeDeg,
+    },
+    site,
+    'limits',
+  );
+  return {
+    id: row.id,
+    site,
+    limits,
+    laserGuideStar: row.laserGuideStar,
+    precision: sitePrecision(row),
+  };
+}
+
+/** A stored target placed on the sky: its system's position (carried by proper motion) and its current orbit, if any. */
+export async function placedTarget(
+  db: DbOrTx,
+  t: typeof targetsTable.$inferSelect,
+  s: typeof systems.$inferSelect,
+): Promise<Target> {
+  let orbit: Awaited<ReturnType<typeof currentOrbit>>['solution']['orbit'] | undefined;
+  try {
+    orbit = (await currentOrbit(db, t.id)).solution.orbit;
+  } catch (err) {
+    if (!(err instanceof NotFoundError)) throw err;
+  }
+  return validateTarget(
+    { name: t.name, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) },
+    `targets.${t.id}`,
+  );
+}
+
 export async function campaignPlanningInput(
   db: DbOrTx,
   campaignId: number,
 ): Promise<CampaignPlanningInput> {
   const campaign = await getById(db, campaignEntity, campaignId);
   const { targetIds, siteIds } = await campaignMembers(db, campaignId);
-  const c = campaign.limits ?? {};
   const siteRows = siteIds.length
     ? await db.select().from(sitesTable).where(inArray(sitesTable.id, siteIds))
     : [];
-  const sites = siteRows.map((row) => {
-    const site = validateSite(row, `sites.${row.id}`);
-    const limits = validateLimits(
-      {
-        ...(c.darkness ? { darkness: c.darkness } : {}),
-        ...(c.highestAirmass ? { highestAirmass: c.highestAirmass } : {}),
-        ...(c.leastMoonDistanceDeg !== undefined
-          ? { leastMoonDistanceDeg: c.leastMoonDistanceDeg }
-          : {}),
-        lowestAltitudeDeg: row.lowestAltitudeDeg,
-      },
-      site,
-      'limits',
-    );
-    return {
-      id: row.id,
-      site,
-      limits,
-      laserGuideStar: row.laserGuideStar,
-      precision: sitePrecision(row),
-    };
-  });
+  const sites = siteRows.map((row) => planningSite(row, campaign.limits ?? {}));
   const rows = targetIds.length
     ? await db
         .select({ t: targetsTable, s: systems })
@@ -91,20 +114,10 @@ export async function campaignPlanningInput(
     : [];
   const targets = [];
   for (const { t, s } of rows) {
-    let orbit: Awaited<ReturnType<typeof currentOrbit>>['solution']['orbit'] | undefined;
-    try {
-      orbit = (await currentOrbit(db, t.id)).solution.orbit;
-    } catch (err) {
-      if (!(err instanceof NotFoundError)) throw err;
-    }
-    const target = validateTarget(
-      { name: t.name, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) },
-      `targets.${t.id}`,
-    );
     targets.push({
       id: t.id,
       system: s.name,
-      target,
+      target: await placedTarget(db, t, s),
       lastMeasuredJd: last.find((l) => l.id === t.id)?.jd ?? null,
     });
   }
