@@ -119,3 +119,20 @@ describe('the precision a planned block is counted at', () => {
     expect(f.precision.epochs.length + f.precision.notCounted.length).toBe(planned.length);
   });
 });
+
+describe('the forecast in the flags', () => {
+  it('flags the coming epochs the forecast depends on, the same ones the forecast names', async () => {
+    const f = await store.plans.forecast(deepest, { atJd: parseEpoch(AT) });
+    const { flags } = await store.plans.flags(1, { nowJd: parseEpoch(AT) });
+    const flag = flags.find((x) => x.kind === 'relativity-epoch' && x.target === HEADLINE)!;
+    expect(flag).toBeDefined();
+    const critical = new Set([
+      ...f.factors.flatMap((x) => x.topEpochs.filter((t) => t.share >= 0.1).map((t) => t.epoch)),
+      ...f.factors.flatMap((x) =>
+        x.reaches.filter((r) => !r.already && r.epoch).map((r) => r.epoch!),
+      ),
+    ]);
+    expect(flag.relativity!.epochs.map((e) => e.epoch).sort()).toEqual([...critical].sort());
+    expect(flag.relativity!.summary).toEqual(f.summary);
+  });
+});

@@ -10424,7 +10424,7 @@ export interface components {
         };
         Flag: {
             /** @enum {string} */
-            kind: "periapsis-ahead" | "periapsis-unobservable" | "blend-risk" | "stale-prediction";
+            kind: "periapsis-ahead" | "periapsis-unobservable" | "relativity-epoch" | "blend-risk" | "stale-prediction";
             target: string;
             /** @description when it applies, ISO 8601 UTC: the periapsis, the blend’s start, or for a stale prediction the first moment a site can observe the target (now if it can) */
             date: string;
@@ -10484,6 +10484,20 @@ export interface components {
                 start: string;
                 end: string;
                 closestMas: number;
+            };
+            /** @description coming planned epochs the relativity forecast depends on */
+            relativity?: {
+                epochs: {
+                    /** @description the planned epoch (block middle), UTC */
+                    epoch: string;
+                    shares: {
+                        factor: string;
+                        share: number;
+                    }[];
+                    /** @description detections reached with it, e.g. "redshift 5σ" */
+                    reaches: string[];
+                }[];
+                summary: string[];
             };
             stale?: {
                 /** @description position 1σ at the flag’s date, mas */

@@ -1,7 +1,8 @@
 /**
  * The campaign at a glance: the planning flags soonest first (periapsis ahead with its ± days,
- * lead-time band and each site's hours around it; periapsis while unobservable; blend risks; stale
- * predictions), the next nights at each site, and the latest night reports.
+ * lead-time band and each site's hours around it; periapsis while unobservable; planned epochs the
+ * relativity forecast depends on; blend risks; stale predictions), the next nights at each site,
+ * and the latest night reports.
  */
 import { getAll, api, type Schemas } from '../api/client.ts';
 import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
@@ -15,6 +16,7 @@ export type Flag = Schemas['Flag'];
 const KIND_WORDS: Record<string, string> = {
   'periapsis-ahead': 'periapsis ahead',
   'periapsis-unobservable': 'periapsis unobservable',
+  'relativity-epoch': 'relativity epoch coming',
   'blend-risk': 'blend risk',
   'stale-prediction': 'prediction stale',
 };
@@ -49,6 +51,10 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
             {f.stale.observableFrom
               ? `from the night of ${f.stale.observableFrom.night} at ${f.stale.observableFrom.site} (${utcText(f.date)} UTC)`
               : 'now'}
+          </span>
+        ) : f.relativity ? (
+          <span class="flag-when">
+            {utcText(f.date)} UTC · in {Math.round(f.daysAhead)} days
           </span>
         ) : f.blend ? (
           <span class="flag-when">

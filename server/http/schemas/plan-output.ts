@@ -111,6 +111,29 @@ export const FlagSchema = z
       .object({ other: z.string(), start: z.string(), end: z.string(), closestMas: z.number() })
       .strict()
       .optional(),
+    relativity: z
+      .object({
+        epochs: z.array(
+          z
+            .object({
+              epoch: z.string().openapi({ description: 'the planned epoch (block middle), UTC' }),
+              shares: z.array(
+                z.object({ factor: z.string(), share: z.number() }).strict().openapi({
+                  description:
+                    'share (0–1) of the factor’s information after the plan the epoch carries',
+                }),
+              ),
+              reaches: z
+                .array(z.string())
+                .openapi({ description: 'detections reached with it, e.g. "redshift 5σ"' }),
+            })
+            .strict(),
+        ),
+        summary: z.array(z.string()),
+      })
+      .strict()
+      .optional()
+      .openapi({ description: 'coming planned epochs the relativity forecast depends on' }),
     stale: z
       .object({
         sigmaMas: z

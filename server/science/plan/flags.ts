@@ -23,11 +23,12 @@ import type { Limits } from '../sky/limits.ts';
 import { nightOf } from '../sky/night.ts';
 import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
-import { jdToIso } from '../time/index.ts';
+import { jdToIso, parseEpoch } from '../time/index.ts';
 import { positive } from './checks.ts';
 import { nightGrid, targetGrid } from './grid.ts';
 import { closingLimit, nightReasonWords, type NightReason } from './night-reasons.ts';
 import { InputError } from '../errors.ts';
+import type { DetectionForecast } from './forecast.ts';
 import { skyAtMoment } from './moment.ts';
 import { precisionAt, precisionModel, type PrecisionModel } from './precision.ts';
 import { rounded } from './words.ts';
@@ -35,6 +36,7 @@ import { rounded } from './words.ts';
 export const FLAG_KINDS = [
   'periapsis-ahead',
   'periapsis-unobservable',
+  'relativity-epoch',
   'blend-risk',
   'stale-prediction',
 ] as const;
@@ -50,6 +52,8 @@ export interface FlagTarget {
   primaryVisible?: boolean;
   /** Accepted planned blocks of the target still to come: each one's middle (JD) and site name. */
   planned?: readonly { jd: number; site: string }[];
+  /** The detection forecast of its relativity factors over those blocks (forecast.ts), if it has one. */
+  forecast?: DetectionForecast;
 }
 
 export interface FlagSite {
@@ -118,6 +122,17 @@ export interface Flag {
     } | null;
   };
   blend?: { other: string; start: string; end: string; closestMas: number };
+  /** The coming planned epochs the relativity forecast depends on (relativity-epoch). */
+  relativity?: {
+    epochs: {
+      epoch: string;
+      /** Share of each factor's information after the plan that the epoch carries, 0–1. */
+      shares: { factor: string; share: number }[];
+      /** Detections (e.g. "redshift 5σ") reached with this epoch. */
+      reaches: string[];
+    }[];
+    summary: string[];
+  };
   stale?: {
     /** Position uncertainty (1σ) at the flag's date, mas. */
     sigmaMas: number | null;
@@ -194,6 +209,8 @@ export function computeFlags(
     if (orbit) flags.push(...periapsisFlags(ft, orbit, sites, now, horizon, lead, precision));
     const stale = staleFlag(ft, sites, now, staleSigma);
     if (stale) flags.push(stale);
+    const rel = ft.forecast ? relativityFlag(ft.target.name, ft.forecast, now, horizon) : null;
+    if (rel) flags.push(rel);
   }
 
   if (resolution !== null) {
@@ -309,6 +326,69 @@ function siteHoursWords(s: SiteHours): string {
     if (n.words) zero.set(n.words, [...(zero.get(n.words) ?? []), n.date.slice(5)]);
   const zeros = [...zero.entries()].map(([w, ds]) => `0 h on ${ds.join(', ')}: ${w}`).join('; ');
   return `${s.site} ${s.minHours.toFixed(1)}–${s.maxHours.toFixed(1)} h per night${zeros ? ` (${zeros})` : ''}`;
+}
+
+/** An epoch the forecast depends on: it carries this share of a factor's information, or a detection is reached with it. */
+export const CRITICAL_SHARE = 0.1;
+const FACTOR_WORDS: Record<string, string> = {
+  redshiftFactor: 'redshift',
+  precessionFactor: 'precession',
+};
+
+/**
+ * The coming planned epochs a relativity forecast depends on: those carrying at least
+ * CRITICAL_SHARE of a factor's information after the plan, and those with which a factor reaches
+ * 3σ or 5σ. Dated at the soonest (within the horizon); null when there is none.
+ */
+function relativityFlag(
+  name: string,
+  f: DetectionForecast,
+  now: number,
+  horizon: number,
+): Flag | null {
+  const byEpoch = new Map<
+    string,
+    { shares: { factor: string; share: number }[]; reaches: string[] }
+  >();
+  const entry = (epoch: string) => {
+    const e = byEpoch.get(epoch) ?? { shares: [], reaches: [] };
+    byEpoch.set(epoch, e);
+    return e;
+  };
+  for (const factor of f.factors) {
+    for (const t of factor.topEpochs)
+      if (t.share >= CRITICAL_SHARE)
+        entry(t.epoch).shares.push({ factor: factor.name, share: t.share });
+    for (const r of factor.reaches)
+      if (!r.already && r.epoch)
+        entry(r.epoch).reaches.push(`${FACTOR_WORDS[factor.name]} ${r.sigma}σ`);
+  }
+  const epochs = [...byEpoch.entries()]
+    .map(([epoch, e]) => ({ epoch, ...e, jd: parseEpoch(epoch) }))
+    .filter((e) => e.jd >= now && e.jd <= now + horizon)
+    .sort((a, b) => a.jd - b.jd);
+  const first = epochs[0];
+  if (!first) return null;
+  const words = epochs.map((e) => {
+    const parts = [
+      ...e.shares.map(
+        (x) => `${Math.round(100 * x.share)} % of the ${FACTOR_WORDS[x.factor]} information`,
+      ),
+      ...e.reaches.map((r) => `reaches ${r}`),
+    ];
+    return `${e.epoch.slice(0, 16).replace('T', ' ')} UTC (${parts.join(', ')})`;
+  });
+  return {
+    kind: 'relativity-epoch',
+    target: name,
+    date: first.epoch,
+    daysAhead: first.jd - now,
+    reason: `${name}: the relativity forecast depends on coming planned epochs: ${words.join('; ')}. ${f.summary.join('; ')}.`,
+    relativity: {
+      epochs: epochs.map(({ epoch, shares, reaches }) => ({ epoch, shares, reaches })),
+      summary: f.summary,
+    },
+  };
 }
 
 function blendFlags(

@@ -13,7 +13,13 @@ import {
   systems,
   targets as targetsTable,
 } from '../../../db/schema.ts';
-import { computeFlags, type Flag, type PrecisionModel } from '../../science/plan/index.ts';
+import {
+  computeFlags,
+  type DetectionForecast,
+  type Flag,
+  type PrecisionModel,
+} from '../../science/plan/index.ts';
+import { targetForecast } from './forecast.ts';
 import {
   validateLimits,
   validateSite,
@@ -159,8 +165,16 @@ export async function campaignFlags(
   const goals = input.campaign.goals;
   const nightSite = new Map(nightRows.map((n) => [n.id, n.siteId]));
   const siteName = new Map(input.sites.map((s) => [s.id, s.site.name]));
+  // The relativity forecast of each target whose orbit has the terms on (the forecast's own rules).
+  const forecasts = new Map<number, DetectionForecast>();
+  for (const t of input.targets) {
+    const o = t.target.orbit;
+    if (o?.distancePc && (o.relativity.gravitationalRedshift || o.relativity.precession))
+      forecasts.set(t.id, await targetForecast(db, t.id, { atJd: options.nowJd }));
+  }
   const flags = computeFlags(
     input.targets.map((t) => ({
+      ...(forecasts.has(t.id) ? { forecast: forecasts.get(t.id)! } : {}),
       target: t.target,
       system: t.system,
       cadenceDays: goals.targets?.[String(t.id)]?.cadenceDays ?? goals.cadenceDays,

@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { computeFlags } from '../../../server/science/plan/index.ts';
 import { validateTarget } from '../../../server/science/sky/index.ts';
 import { nightOf, nightSpan } from '../../../server/science/sky/index.ts';
-import { jdToUnixMs, parseEpoch, unixMsToJd } from '../../../server/science/time/index.ts';
+import { jdToIso, jdToUnixMs, parseEpoch, unixMsToJd } from '../../../server/science/time/index.ts';
 import { CONSTRAINTS, SITE, safeAt } from './helpers.ts';
 
 const NOW = parseEpoch('2027-03-01T12:00:00Z');
@@ -168,5 +168,43 @@ describe('flags that read the plans', () => {
     expect(c.closed[0]!.words).toMatch(/the Moon \(\d+° away, limit \d+°\)/);
     expect(c.mostLikelyCovered).toBe(false); // the one epoch is within 1 d of the date but closed
     expect(c.text).toContain('planned but closed');
+  });
+
+  it('flags the coming planned epochs a relativity forecast depends on, soonest first', () => {
+    // Constructed forecast: shares and detection epochs chosen by hand, one epoch in the past.
+    const at = (d: number) => jdToIso(NOW + d);
+    const forecast = {
+      factors: [
+        {
+          name: 'redshiftFactor' as const,
+          assumedValue: 1,
+          sigmaNow: 0.5,
+          sigmaAfter: 0.15,
+          significanceNow: 2,
+          significanceAfter: 6.7,
+          reaches: [
+            { sigma: 3, already: false, epoch: at(40) },
+            { sigma: 5, already: false, epoch: at(60) },
+          ],
+          topEpochs: [
+            { epoch: at(-3), kind: 'spectroscopy' as const, share: 0.5 },
+            { epoch: at(20), kind: 'spectroscopy' as const, share: 0.3 },
+            { epoch: at(30), kind: 'spectroscopy' as const, share: 0.05 },
+          ],
+        },
+      ],
+      plannedEpochs: 3,
+      summary: ['redshift detectable at 5σ after the … epochs (2.0σ now)'],
+      assumptions: '',
+    };
+    const [flag] = computeFlags([{ target: seen, system: 'S', forecast }], [], {
+      nowJd: NOW,
+      leadDays: [365],
+    }).filter((f) => f.kind === 'relativity-epoch');
+    console.log(flag!.reason);
+    expect(flag!.date).toBe(at(20)); // the soonest coming epoch with ≥ 10 % of the information
+    expect(flag!.relativity!.epochs.map((e) => e.epoch)).toEqual([at(20), at(40), at(60)]); // 5 % is below the threshold; the past epoch is left out
+    expect(flag!.relativity!.epochs[1]!.reaches).toEqual(['redshift 3σ']);
+    expect(flag!.reason).toMatch(/30 % of the redshift information/);
   });
 });
