@@ -26,6 +26,8 @@ export const COST_BOUNDS = {
   ephemerisEvaluations: 20_000_000,
   /** Events: orbits in the interval × Monte Carlo draws (1 without). */
   eventOrbitDraws: 2_000_000,
+  /** A season's Monte Carlo: draws × (planned epochs + targets). */
+  seasonDrawEpochs: 10_000_000,
 } as const;
 
 type Bound = keyof typeof COST_BOUNDS;
@@ -90,6 +92,17 @@ const CHECKS: { [K in TaskName]?: (...args: TaskArgs<K>) => void } = {
       cost,
       'seasonSamples',
       `targets × nights × samples per night = ${targets.length} × 366 × ${Math.round(MINUTES_PER_DAY / step)} =`,
+    );
+  },
+  seasonMonteCarlo(plan, _sites, targets, options) {
+    const draws = num(options.draws, 1);
+    const size = plan.epochs.length + targets.length;
+    within(
+      'draws',
+      options.draws,
+      draws * size,
+      'seasonDrawEpochs',
+      `draws × (planned epochs + targets) = ${draws} × ${size} =`,
     );
   },
   planSeason(startDate, endDate, sites, targets) {

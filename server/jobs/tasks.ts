@@ -11,6 +11,7 @@ import { pageResiduals, type ResidualPageRequest } from '../science/orbit/fit/re
 import { residualsCsv } from '../store/exports/residuals.ts';
 import { ephemeris, eventsWithUncertainty } from '../science/orbit/ephemeris.ts';
 import { planSeason, scheduleNight } from '../science/plan/index.ts';
+import { seasonMonteCarlo } from '../science/plan/season-monte-carlo.ts';
 import {
   nightReport,
   reviveSite,
@@ -45,6 +46,8 @@ export const TASKS = {
   /** The season map and its report in one job (the report reads the map). */
   seasonReport: (site: Site, ...rest: Rest<typeof seasonMap>) =>
     seasonReport(reviveSite(site), seasonMap(reviveSite(site), ...rest), rest[2] as SeasonArgs[3]),
+  /** Draws of a planned season (the sites are read for their names and night weights only). */
+  seasonMonteCarlo,
   ephemeris,
   eventsWithUncertainty,
   prepareMeasurements,

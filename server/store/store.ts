@@ -19,6 +19,7 @@ import { acceptSeasonPlan, previewSeasonPlan } from './views/season-plan.ts';
 import { nightVisibility, storedSky } from './views/visibility.ts';
 import { clearPriorOf, replaceClearPrior } from './repos/clear-priors.ts';
 import { siteStatisticsView } from './views/site-statistics.ts';
+import { seasonPlanDraws } from './views/season-draws.ts';
 
 // biome-ignore lint/suspicious/noExplicitAny: the first parameter is dropped, whatever its type
 type WithoutFirst<F> = F extends (first: any, ...rest: infer R) => infer O
@@ -45,6 +46,8 @@ export function createStore(database: Database) {
       acceptSeason: bind(context, acceptSeasonPlan),
       previewNight: bind(db, previewNightSchedule),
       acceptNight: bind(context, acceptNightSchedule),
+      /** The season plan drawn N times under the learned weather: σ percentiles, coverage. */
+      seasonDraws: bind(db, seasonPlanDraws),
       /** When the relativistic terms of a target become detectable with its planned blocks. */
       forecast: bind(db, targetForecast),
     },

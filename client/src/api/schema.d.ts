@@ -7270,6 +7270,13 @@ export interface paths {
                         fillFraction?: number;
                         /** @description epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0 */
                         extraEpochsPerTarget?: number;
+                        /**
+                         * @description "aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1
+                         * @enum {string}
+                         */
+                        weather?: "blind" | "aware";
+                        /** @description a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
+                        backupLossAbove?: number;
                         /** @description accept only: the preview’s digest; 409 if the plan would now differ */
                         digest?: string;
                     };
@@ -7283,6 +7290,182 @@ export interface paths {
                     };
                     content: {
                         "application/json": components["schemas"]["SeasonPlanPreview"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/campaigns/{id}/season-plan/draws": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Draw the season plan many times under the learned weather: percentiles of the final σ of the passage date, the mass and the relativity factors, and the passage’s coverage */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        /**
+                         * Format: date
+                         * @description first night (local evening date), within the campaign
+                         */
+                        startDate: string;
+                        /**
+                         * Format: date
+                         * @description last night, within the campaign and 400 nights of startDate
+                         */
+                        endDate: string;
+                        /** @description sites of the campaign to plan; default all */
+                        siteIds?: number[];
+                        /**
+                         * @description "allocated" (default): the campaign’s stored nights; "all": every night of the range
+                         * @enum {string}
+                         */
+                        nights?: "allocated" | "all";
+                        /** @description the moment of planning (ISO 8601, JD, MJD); default now. Nights begun before it are not planned. Accept refuses (422) a moment more than 2 min before the server clock */
+                        at?: string;
+                        blockMinutes?: {
+                            /** @description minutes, default 40 */
+                            astrometry?: number;
+                            /** @description minutes, default 60 */
+                            spectroscopy?: number;
+                        };
+                        /** @description overrides the campaign’s and each site’s precision model; σ scales with FWHM ∝ X^0.6 (Roddier 1981) */
+                        precision?: {
+                            /** @description expected 1σ per offset at the zenith, mas; default 1 */
+                            astrometryMas?: number;
+                            /** @description expected 1σ at the zenith, km/s; default 5 */
+                            spectroscopyKmS?: number;
+                            /** @description seeing the zenith values hold for, arcsec; default the site’s own (σ then scales only with airmass) */
+                            referenceSeeingArcsec?: number;
+                        };
+                        /** @description half-width of the periapsis window in σ of the coming passage’s date, [0.1, 10]; default 2 */
+                        periapsisWindowSigma?: number;
+                        /** @description an epoch this close (days) to the passage date covers it, [0.01, 30]; default 1 */
+                        coverageWithinDays?: number;
+                        /** @description laser guide star use per kind where a site has one; default none */
+                        laserGuideStar?: {
+                            astrometry?: boolean;
+                            spectroscopy?: boolean;
+                        };
+                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours } */
+                        periapsisRepeat?: ("single" | "fill") | {
+                            everyHours: number;
+                        };
+                        /** @description slot length, minutes, [1, 30]; default 10 */
+                        slotMinutes?: number;
+                        /** @description gap between targets, minutes, [0, 120]; default 8 */
+                        slewMinutes?: number;
+                        /** @description gap between blocks of one target, minutes, [0, 120]; default 3 */
+                        sameTargetMinutes?: number;
+                        /** @description share of each night’s darkness the plan may fill, (0, 1]; default 0.9 */
+                        fillFraction?: number;
+                        /** @description epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0 */
+                        extraEpochsPerTarget?: number;
+                        /**
+                         * @description "aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1
+                         * @enum {string}
+                         */
+                        weather?: "blind" | "aware";
+                        /** @description a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
+                        backupLossAbove?: number;
+                        /** @description seasons drawn, [1, 20000] */
+                        draws: number;
+                        /** @description seed of the draws, [0, 2³² − 1] */
+                        seed: number;
+                        /** @description s of each night’s precision factor exp(s·z), z ~ N(0, 1), [0, 2]; default 0.25 */
+                        precisionScatter?: number;
+                    };
+                };
+            };
+            responses: {
+                /** @description the distribution */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["SeasonDraws"];
                     };
                 };
                 /** @description malformed request (field-level issues in details) */
@@ -7435,6 +7618,13 @@ export interface paths {
                         fillFraction?: number;
                         /** @description epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0 */
                         extraEpochsPerTarget?: number;
+                        /**
+                         * @description "aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1
+                         * @enum {string}
+                         */
+                        weather?: "blind" | "aware";
+                        /** @description a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
+                        backupLossAbove?: number;
                         /** @description accept only: the preview’s digest; 409 if the plan would now differ */
                         digest?: string;
                     };
@@ -7452,10 +7642,18 @@ export interface paths {
                             at: string;
                             /** @enum {string} */
                             nights: "allocated" | "all";
+                            /** @enum {string} */
+                            weather: "blind" | "aware";
                             sites: {
                                 siteId: number;
                                 name: string;
                                 openNights: number;
+                                clearChance: {
+                                    /** @description mean chance an open night is clear, from the site’s statistics */
+                                    mean: number | null;
+                                    /** @description night reports it rests on */
+                                    nightsLogged: number;
+                                };
                                 skipped: {
                                     date: string;
                                     reason: string;
@@ -10518,10 +10716,18 @@ export interface components {
             at: string;
             /** @enum {string} */
             nights: "allocated" | "all";
+            /** @enum {string} */
+            weather: "blind" | "aware";
             sites: {
                 siteId: number;
                 name: string;
                 openNights: number;
+                clearChance: {
+                    /** @description mean chance an open night is clear, from the site’s statistics */
+                    mean: number | null;
+                    /** @description night reports it rests on */
+                    nightsLogged: number;
+                };
                 skipped: {
                     date: string;
                     reason: string;
@@ -10565,7 +10771,7 @@ export interface components {
                 };
                 gain: components["schemas"]["EpochGain"];
                 /** @enum {string} */
-                why: "periapsis" | "cadence" | "information";
+                why: "periapsis" | "cadence" | "information" | "backup";
                 reason: string;
             }[];
             unmet: {
@@ -10670,6 +10876,80 @@ export interface components {
             reason: "not-allocated" | "no-darkness" | "altitude" | "airmass" | "horizon-mask" | "moon" | "sun-distance" | "too-short" | "kept-epoch" | "kept-full" | "taken" | "no-room";
             words: string;
         };
+        SeasonDraws: {
+            campaignId: number;
+            at: string;
+            /** @enum {string} */
+            weather: "blind" | "aware";
+            sites: {
+                siteId: number;
+                name: string;
+                openNights: number;
+                clearChance: {
+                    /** @description mean chance an open night is clear, from the site’s statistics */
+                    mean: number | null;
+                    /** @description night reports it rests on */
+                    nightsLogged: number;
+                };
+                skipped: {
+                    date: string;
+                    reason: string;
+                }[];
+                plannedAround: {
+                    date: string;
+                    kept: {
+                        id: number;
+                        reason: string;
+                    }[];
+                }[];
+            }[];
+            planned: {
+                epochs: number;
+                digest: string;
+            };
+            draws: {
+                draws: number;
+                seed: number;
+                precisionScatter: number;
+                targets: components["schemas"]["TargetDraws"][];
+                assumptions: string;
+            };
+        };
+        TargetDraws: {
+            target: string;
+            epochs: number;
+            passage: {
+                date: string;
+                sigmaDaysNow: number | null;
+            } | null;
+            periapsisSigmaDays: components["schemas"]["DrawDistribution"];
+            massFraction: components["schemas"]["DrawDistribution"] & unknown;
+            factors: {
+                /** @enum {string} */
+                name: "redshiftFactor" | "precessionFactor";
+                sigma: components["schemas"]["DrawDistribution"];
+            }[];
+            coverage: {
+                withinDays: number;
+                distribution: components["schemas"]["DrawDistribution"];
+            } | null;
+            /** @description share of seasons with at least one epoch in the passage’s window */
+            windowCovered: number | null;
+            /** @description mean epochs lost per season */
+            epochsLost: number;
+        };
+        /** @description 1σ of the coming passage’s date after the season, days */
+        DrawDistribution: {
+            /** @description percentiles 5, 16, 50, 84, 95; low–high: the values at the ranks N·p ∓ 2√(N p (1 − p)), the sampling error */
+            percentiles: {
+                p: number;
+                value: number;
+                low: number;
+                high: number;
+            }[];
+            mean: number;
+            n: number;
+        } | null;
         NightSchedulePreview: {
             nightId: number;
             campaignId: number;

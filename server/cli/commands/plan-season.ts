@@ -2,6 +2,7 @@
 import { parseArgs } from 'node:util';
 import { SEASON_SETTINGS, type PlannedEpoch } from '../../science/plan/index.ts';
 import {
+  WEATHER_CHOICES,
   ACCEPT_AT_TOLERANCE_MINUTES,
   LOCAL_OPERATOR,
   type SeasonPlanRequest,
@@ -10,6 +11,7 @@ import {
 import { UsageError, type Command } from '../io.ts';
 import { asOptions, outputFormat, positiveId, readJsonArg } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
+import { renderDraws } from './season-draws-output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
@@ -39,7 +41,15 @@ options:
                          referenceSeeingArcsec }, slotMinutes, slewMinutes, sameTargetMinutes,
                          fillFraction, extraEpochsPerTarget, periapsisWindowSigma,
                          coverageWithinDays, laserGuideStar: { astrometry, spectroscopy },
-                         periapsisRepeat: "single" | "fill" | { everyHours } }
+                         periapsisRepeat: "single" | "fill" | { everyHours },
+                         backupLossAbove }
+  --weather aware|blind  aware: weigh each night by its site's learned chance of being clear
+                         (site-statistics) and back up periapsis epochs on likely-lost nights;
+                         default blind (every night weighs 1)
+  --draws <n> [--seed <s>]  instead of the plan, draw its season n times (each night lost at its
+                         site's learned chance, precision scattered per night): percentiles of the
+                         final σ of the passage date, the mass and the relativity factors, and of
+                         the passage's coverage; seed default 1
   --accept               store the plan (as the local operator)
   --digest <hex>         with --accept: refuse if the plan differs from the preview with this digest
 ${DATABASE_HELP}
@@ -74,6 +84,9 @@ export const planSeasonCommand: Command = {
         settings: { type: 'string' },
         accept: { type: 'boolean' },
         digest: { type: 'string' },
+        weather: { type: 'string' },
+        draws: { type: 'string' },
+        seed: { type: 'string' },
         json: { type: 'boolean' },
         csv: { type: 'boolean' },
       },
@@ -94,6 +107,13 @@ export const planSeasonCommand: Command = {
         throw new UsageError(
           `--settings: unknown setting ${JSON.stringify(k)} (known: ${SETTINGS.join(', ')})`,
         );
+    const weather = values.weather ?? 'blind';
+    if (!(WEATHER_CHOICES as readonly string[]).includes(weather))
+      throw new UsageError(`--weather: ${JSON.stringify(weather)} must be "aware" or "blind"`);
+    if ((values.draws !== undefined || values.seed !== undefined) && values.accept)
+      throw new UsageError('--draws and --seed preview only: leave out --accept');
+    if (values.seed !== undefined && values.draws === undefined)
+      throw new UsageError('--seed goes with --draws');
     const atJd = momentJd(values.at, '--at');
     const request: SeasonPlanRequest = {
       ...(settings as object),
@@ -101,8 +121,21 @@ export const planSeasonCommand: Command = {
       endDate: values.end,
       ...(values.site ? { siteIds: values.site.map((s) => positiveId('site', s)) } : {}),
       nights: values['all-nights'] ? 'all' : 'allocated',
+      weather: weather as NonNullable<SeasonPlanRequest['weather']>,
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
+    if (values.draws !== undefined) {
+      const draws = positiveId('draws', values.draws);
+      const seed = values.seed === undefined ? 1 : Number(values.seed);
+      if (!Number.isInteger(seed) || seed < 0)
+        throw new UsageError(`--seed: ${JSON.stringify(values.seed)} must be a whole number ≥ 0`);
+      const view = await withStore(values.database, (store) =>
+        asOptions({ ...OPTIONS, draws: '--draws', seed: '--seed' }, () =>
+          store.plans.seasonDraws(id, { ...request, draws, seed }, atJd),
+        ),
+      );
+      return renderDraws(view, format);
+    }
     const result = await withStore(
       values.database,
       (store) =>

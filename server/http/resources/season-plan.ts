@@ -9,13 +9,14 @@ import { createRoute, z } from '@hono/zod-openapi';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
   NIGHT_CHOICES,
+  WEATHER_CHOICES,
   type SeasonPlanRequest,
   type Store,
 } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema, NightRowSchema } from './nights.ts';
-import { SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
+import { SeasonDrawsSchema, SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
 import { momentJd, nowMs } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
@@ -87,9 +88,26 @@ export const SeasonPlanBody = z
     extraEpochsPerTarget: num(
       'epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0',
     ),
+    weather: z.enum(WEATHER_CHOICES).optional().openapi({
+      description:
+        '"aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1',
+    }),
+    backupLossAbove: num(
+      'a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2',
+    ),
     digest: z.string().optional().openapi({
       description: 'accept only: the preview’s digest; 409 if the plan would now differ',
     }),
+  })
+  .strict();
+
+const DrawsBody = SeasonPlanBody.omit({ digest: true })
+  .extend({
+    draws: z.number().int().openapi({ description: 'seasons drawn, [1, 20000]' }),
+    seed: z.number().int().openapi({ description: 'seed of the draws, [0, 2³² − 1]' }),
+    precisionScatter: num(
+      's of each night’s precision factor exp(s·z), z ~ N(0, 1), [0, 2]; default 0.25',
+    ),
   })
   .strict();
 
@@ -124,6 +142,29 @@ export function seasonPlanRoutes(store: Store, run: Runner) {
       requireRole(c, 'viewer');
       const { body: b, atJd } = split(c.req.valid('json'));
       return c.json(await store.plans.previewSeason(c.req.valid('param').id, b, atJd, run), 200);
+    },
+  );
+  app.openapi(
+    createRoute({
+      method: 'post',
+      path: '/campaigns/{id}/season-plan/draws',
+      tags: ['planning'],
+      security,
+      summary:
+        'Draw the season plan many times under the learned weather: percentiles of the final σ of the passage date, the mass and the relativity factors, and the passage’s coverage',
+      request: {
+        params: IdParam,
+        body: { content: { 'application/json': { schema: DrawsBody } }, required: true },
+      },
+      responses: { 200: json(SeasonDrawsSchema, 'the distribution'), ...errorResponses },
+    }),
+    async (c) => {
+      requireRole(c, 'viewer');
+      const { at, ...b } = c.req.valid('json');
+      return c.json(
+        await store.plans.seasonDraws(c.req.valid('param').id, b, momentJd(at, 'at'), run),
+        200,
+      );
     },
   );
   app.openapi(

@@ -4,7 +4,7 @@
  */
 import { z } from '@hono/zod-openapi';
 import { FLAG_KINDS, BLOCK_KINDS, NIGHT_REASONS } from '../../science/plan/index.ts';
-import { NIGHT_CHOICES } from '../../store/index.ts';
+import { NIGHT_CHOICES, WEATHER_CHOICES } from '../../store/index.ts';
 import { InstantSchema, IntervalSchema } from './sky-output.ts';
 
 const BlockKind = z.enum(BLOCK_KINDS);
@@ -282,7 +282,7 @@ export const SeasonPlanSchema = z
             .strict()
             .openapi({ description: 'the 1σ expected there and then (FWHM ∝ X^0.6)' }),
           gain: Gain,
-          why: z.enum(['periapsis', 'cadence', 'information']),
+          why: z.enum(['periapsis', 'cadence', 'information', 'backup']),
           reason: z.string(),
         })
         .strict(),
@@ -356,17 +356,28 @@ export const SeasonPlanSchema = z
   .strict()
   .openapi('SeasonPlan');
 
+const ClearChance = z
+  .object({
+    mean: z.number().nullable().openapi({
+      description: 'mean chance an open night is clear, from the site’s statistics',
+    }),
+    nightsLogged: z.number().int().openapi({ description: 'night reports it rests on' }),
+  })
+  .strict();
+
 export const SeasonPlanPreviewSchema = z
   .object({
     campaignId: z.number().int(),
     at: z.string(),
     nights: z.enum(NIGHT_CHOICES),
+    weather: z.enum(WEATHER_CHOICES),
     sites: z.array(
       z
         .object({
           siteId: z.number().int(),
           name: z.string(),
           openNights: z.number().int(),
+          clearChance: ClearChance,
           skipped: z.array(z.object({ date: z.string(), reason: z.string() }).strict()),
           plannedAround: z.array(z.object({ date: z.string(), kept: z.array(Kept) }).strict()),
         })
@@ -378,3 +389,80 @@ export const SeasonPlanPreviewSchema = z
   })
   .strict()
   .openapi('SeasonPlanPreview');
+
+const DistributionSchema = z
+  .object({
+    percentiles: z
+      .array(
+        z
+          .object({
+            p: z.number(),
+            value: z.number(),
+            low: z.number(),
+            high: z.number(),
+          })
+          .strict(),
+      )
+      .openapi({
+        description:
+          'percentiles 5, 16, 50, 84, 95; low–high: the values at the ranks N·p ∓ 2√(N p (1 − p)), the sampling error',
+      }),
+    mean: z.number(),
+    n: z.number().int(),
+  })
+  .strict()
+  .openapi('DrawDistribution');
+
+export const SeasonDrawsSchema = z
+  .object({
+    campaignId: z.number().int(),
+    at: z.string(),
+    weather: z.enum(WEATHER_CHOICES),
+    sites: SeasonPlanPreviewSchema.shape.sites,
+    planned: z.object({ epochs: z.number().int(), digest: z.string() }).strict(),
+    draws: z
+      .object({
+        draws: z.number().int(),
+        seed: z.number().int(),
+        precisionScatter: z.number(),
+        targets: z.array(
+          z
+            .object({
+              target: z.string(),
+              epochs: z.number().int(),
+              passage: z
+                .object({ date: z.string(), sigmaDaysNow: z.number().nullable() })
+                .strict()
+                .nullable(),
+              periapsisSigmaDays: DistributionSchema.nullable().openapi({
+                description: '1σ of the coming passage’s date after the season, days',
+              }),
+              massFraction: DistributionSchema.nullable().openapi({
+                description: '1σ of the mass after the season, as a fraction of the mass',
+              }),
+              factors: z.array(
+                z
+                  .object({
+                    name: z.enum(['redshiftFactor', 'precessionFactor']),
+                    sigma: DistributionSchema.nullable(),
+                  })
+                  .strict(),
+              ),
+              coverage: z
+                .object({ withinDays: z.number(), distribution: DistributionSchema })
+                .strict()
+                .nullable(),
+              windowCovered: z.number().nullable().openapi({
+                description: 'share of seasons with at least one epoch in the passage’s window',
+              }),
+              epochsLost: z.number().openapi({ description: 'mean epochs lost per season' }),
+            })
+            .strict()
+            .openapi('TargetDraws'),
+        ),
+        assumptions: z.string(),
+      })
+      .strict(),
+  })
+  .strict()
+  .openapi('SeasonDraws');

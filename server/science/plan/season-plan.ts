@@ -33,6 +33,7 @@ import {
   type Option,
   type SeasonNights,
 } from './season-nights.ts';
+import { backupPass, DEFAULT_BACKUP_LOSS_ABOVE } from './season-backups.ts';
 import { seasonReport } from './season-report.ts';
 import {
   addEpoch,
@@ -112,10 +113,17 @@ export function planSeason(
   targets: readonly SeasonTarget[],
   options: SeasonOptions = {},
 ): SeasonPlan {
+  const lossAbove = numberIn(
+    'backupLossAbove',
+    options.backupLossAbove ?? DEFAULT_BACKUP_LOSS_ABOVE,
+    0.01,
+    1,
+  );
   const p = preparePlanner(startDate, endDate, sites, targets, options);
   periapsisPass(p);
   cadencePass(p);
   extraPass(p);
+  backupPass(p, lossAbove);
   const timed = timeNights(p);
   return seasonReport(p, timed);
 }
@@ -233,7 +241,7 @@ export function fits(p: Planner, ti: number, o: Option): boolean {
   return !o.used && fitsNight(p.nights, p.accepted, o, ti, costOf(p, ti, o.kind), gapSlotsOf(p));
 }
 
-function take(
+export function take(
   p: Planner,
   ti: number,
   o: Option,

@@ -70,6 +70,8 @@ export interface SeasonOptions {
   laserGuideStar?: PerKind<boolean>;
   /** Epochs per night in a periapsis window; default 'single'. */
   periapsisRepeat?: PeriapsisRepeat;
+  /** A periapsis epoch whose night is lost with at least this chance (1 − its night weight) gets a backup, (0, 1]; default 0.2 (1: only certain losses). */
+  backupLossAbove?: number;
 }
 
 /** The settings a request may give (the CLI's --settings keys, the HTTP body's). */
@@ -85,6 +87,7 @@ export const SEASON_SETTINGS = [
   'coverageWithinDays',
   'laserGuideStar',
   'periapsisRepeat',
+  'backupLossAbove',
 ] as const satisfies readonly (keyof SeasonOptions)[];
 
 /** What one epoch buys, in named units (the same words in the CLI, the JSON and the client). */
@@ -105,7 +108,7 @@ export interface PlannedEpoch {
   /** The 1σ expected there and then (precision model at the block's middle airmass). */
   precision: { sigma: number; unit: 'mas' | 'km/s'; airmass: number; seeingArcsec: number | null };
   gain: EpochGain;
-  why: 'periapsis' | 'cadence' | 'information';
+  why: 'periapsis' | 'cadence' | 'information' | 'backup';
   reason: string;
 }
 

@@ -38,10 +38,14 @@ import {
   requireAcceptMoment,
 } from './plan-scope.ts';
 import { campaignPlanningInput } from './planning.ts';
+import { siteStatisticsView } from './site-statistics.ts';
+import { clearNightWeights } from '../../science/plan/site-statistics.ts';
 import { nowMs } from '../../clock.ts';
 import type { CampaignGoals } from '../../../db/schema.ts';
 
 export const NIGHT_CHOICES = ['allocated', 'all'] as const;
+/** "aware": each night weighs by its site's learned chance of being clear (site statistics); "blind": every night weighs 1. */
+export const WEATHER_CHOICES = ['blind', 'aware'] as const;
 
 export interface SeasonPlanRequest extends SeasonOptions {
   startDate: string;
@@ -49,6 +53,8 @@ export interface SeasonPlanRequest extends SeasonOptions {
   /** Sites of the campaign to plan for; default all of them. */
   siteIds?: number[];
   nights?: (typeof NIGHT_CHOICES)[number];
+  /** Whether the plan weighs each night by its chance of being clear; default "blind". */
+  weather?: (typeof WEATHER_CHOICES)[number];
   /** The preview's digest: accept refuses (409) when the plan would now come out differently. */
   digest?: string;
 }
@@ -58,10 +64,13 @@ export interface SeasonPlanPreview {
   /** The moment the plan was made for: nights begun before it are not planned, blocks begun before it are kept. */
   at: string;
   nights: (typeof NIGHT_CHOICES)[number];
+  weather: (typeof WEATHER_CHOICES)[number];
   sites: {
     siteId: number;
     name: string;
     openNights: number;
+    /** The mean chance an open night is clear (site statistics) and the night reports it rests on. */
+    clearChance: { mean: number | null; nightsLogged: number };
     skipped: { date: string; reason: string }[];
     plannedAround: { date: string; kept: { id: number; reason: string }[] }[];
   }[];
@@ -73,12 +82,15 @@ export interface SeasonPlanPreview {
 
 interface Prepared {
   preview: SeasonPlanPreview;
+  /** The sites with their learned night weights, whatever the plan's mode (what a Monte Carlo draws from). */
+  weatherSites: SeasonSite[];
+  targets: SeasonTarget[];
   siteIdByName: Map<string, number>;
   targetIdByName: Map<string, number>;
   nightByKey: Map<string, NightRow>;
 }
 
-async function prepare(
+export async function prepare(
   db: DbOrTx,
   campaignId: number,
   request: SeasonPlanRequest,
@@ -94,6 +106,13 @@ async function prepare(
       'nights',
       mode,
       'must be "allocated" (the campaign’s stored nights) or "all" (every night of the range)',
+    );
+  const weather = request.weather ?? 'blind';
+  if (!(WEATHER_CHOICES as readonly string[]).includes(weather))
+    throw new InputError(
+      'weather',
+      weather,
+      'must be "aware" (nights weighed by their chance of being clear) or "blind"',
     );
   for (const field of ['startDate', 'endDate'] as const) {
     const d = request[field];
@@ -128,6 +147,7 @@ async function prepare(
   const nightByKey = new Map<string, NightRow>();
   const replaces: number[] = [];
   const seasonSites: SeasonSite[] = [];
+  const weatherSites: SeasonSite[] = [];
   const sitesOut: SeasonPlanPreview['sites'] = [];
   for (const s of chosen) {
     const skipped: { date: string; reason: string }[] = [];
@@ -170,18 +190,27 @@ async function prepare(
       }
       replaces.push(...state.blocks.filter((b) => b.kept === null).map((b) => b.block.id));
     }
-    seasonSites.push({
+    const stats = await siteStatisticsView(db, s.id);
+    const nightWeights = clearNightWeights(stats, open);
+    const site: SeasonSite = {
       site: s.site,
       limits: s.limits,
       nights: open,
       laserGuideStar: s.laserGuideStar,
       kept: keptByDate,
       precision: s.precision,
-    });
+    };
+    seasonSites.push(weather === 'aware' ? { ...site, nightWeights } : site);
+    weatherSites.push({ ...site, nightWeights });
+    const chances = Object.values(nightWeights);
     sitesOut.push({
       siteId: s.id,
       name: s.site.name,
       openNights: open.length,
+      clearChance: {
+        mean: chances.length ? chances.reduce((a, x) => a + x, 0) / chances.length : null,
+        nightsLogged: stats.year.nights,
+      },
       skipped,
       plannedAround,
     });
@@ -194,7 +223,15 @@ async function prepare(
     nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start,
   );
   const targets = seasonTargets(input.targets, campaign.goals, names, last);
-  const { startDate, endDate, siteIds: _s, nights: _n, digest: _d, ...asked } = request;
+  const {
+    startDate,
+    endDate,
+    siteIds: _s,
+    nights: _n,
+    digest: _d,
+    weather: _w,
+    ...asked
+  } = request;
   const options = { ...campaignOptions(campaign.goals), ...asked };
   const plan = await run('planSeason', startDate, endDate, seasonSites, targets, options);
   replaces.sort((a, b) => a - b);
@@ -210,7 +247,9 @@ async function prepare(
     replaces,
   });
   return {
-    preview: { campaignId, at, nights: mode, sites: sitesOut, plan, replaces, digest },
+    preview: { campaignId, at, nights: mode, weather, sites: sitesOut, plan, replaces, digest },
+    weatherSites,
+    targets,
     siteIdByName: new Map(chosen.map((s) => [s.site.name, s.id])),
     targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
     nightByKey,
