@@ -30,6 +30,7 @@ it('exports exactly the store entry points', () => {
     'SystemFields',
     'TargetFields',
     'UserInput',
+    'WEATHER_CHOICES',
     'createStore',
     'ephemerisCsv',
     'escapeFormulaCell',
