@@ -3,8 +3,9 @@
  * to Gaussian, so its 16–84% half-width must match the linear 1σ and its median the best fit; on
  * a poorly covered arc the posterior is not Gaussian, and the sampler must show it: wider than the
  * covariance says, and lopsided. Tolerances: ±20% on widths, 0.3σ on medians, 0.25 on the
- * asymmetry (Monte Carlo error with ~16 000 correlated samples is a few per cent; common practice,
- * no source). Orbits are invented demo values.
+ * asymmetry (Monte Carlo error with ~16 000 correlated samples is a few per cent on the good orbit;
+ * common practice, no source; on the poorly covered arc one chain's width scatters by ~10%, measured
+ * below). Orbits are invented demo values.
  */
 import { describe, expect, it } from 'vitest';
 import { fitOrbits, type FitResult } from '../../../../server/science/orbit/fit/index.ts';
@@ -72,10 +73,15 @@ describe('posterior sampling', () => {
     });
     report('poorly covered', r);
     const P = shape(r.parameters.find((p) => p.name === 'Y.periodYears')!);
-    // With T referred to the passage nearest the data (J2026.0 here, 3 years past them) P is far less
-    // correlated with T than at the passage before the data, and its marginal comes out close to its
-    // linear σ (1.05 with this seed); the widening shows in T and in the next periapsis below.
-    expect(P.ratio).toBeGreaterThan(1.0);
+    // P's own widening is smaller than one chain's Monte Carlo error, so it is not asserted; what is
+    // asserted is that the sampler does not collapse P below its linear σ. Measured on this data set
+    // (seeds 1–5, 4000 rounds after 2000 discarded): P half-width/σ 1.25, 1.00, 1.12, 1.21, 1.13
+    // (mean 1.14, sd 0.10 between chains); this chain (seed 5, 1000 rounds) gives 1.05. The threshold
+    // was > 1.1 until T moved to the passage nearest the data; that move cannot change P's marginal
+    // nor its linear σ (T → T + kP is linear with unit Jacobian and the stretch move is
+    // affine-invariant; only the prior's ±P/2 window on T moves), so the drop to 1.05 is this chain's
+    // Monte Carlo error, not a property of the posterior. 0.85 is 2 sd of one chain below the mean.
+    expect(P.ratio).toBeGreaterThan(0.85);
     const widest = Math.max(...r.parameters.map((p) => shape(p).ratio));
     expect(widest).toBeGreaterThan(1.5);
     const lopsided = Math.max(...r.parameters.map((p) => Math.abs(shape(p).asym)));
