@@ -9,6 +9,7 @@ import type { CampaignRow } from '../api/client.ts';
 import { utcClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
+import { SeasonDrawsPanel } from './season-draws.tsx';
 
 export type PlannedEpoch = Schemas['SeasonPlan']['epochs'][number];
 export type SeasonPlanPreview = Schemas['SeasonPlanPreview'];
@@ -35,6 +36,7 @@ export function SeasonPlanPanel({
     startDate: clamp(today > `${year}-01-01` ? today : `${year}-01-01`),
     endDate: clamp(`${year}-12-31`),
     nights: 'allocated' as 'allocated' | 'all',
+    weather: 'blind' as 'aware' | 'blind',
   });
   const [preview, setPreview] = useState<SeasonPlanPreview | null>(null);
   const { busy, error, run } = useAction();
@@ -113,6 +115,21 @@ export function SeasonPlanPanel({
             <option value="all">every night of the range</option>
           </select>
         </label>
+        <label>
+          weather{' '}
+          <select
+            name="weather"
+            value={form.weather}
+            onChange={(e) =>
+              setForm({ ...form, weather: e.currentTarget.value === 'aware' ? 'aware' : 'blind' })
+            }
+          >
+            <option value="blind">every night counts as clear</option>
+            <option value="aware">
+              weigh nights by their chance of being clear, back up periapsis epochs
+            </option>
+          </select>
+        </label>
         <button type="submit" class="primary" disabled={busy}>
           Propose a season plan
         </button>
@@ -150,6 +167,7 @@ export function SeasonPlanPanel({
             {p.epochs.length} epochs proposed; accepting replaces {preview.replaces.length} blocks
             that are still only plans{lead ? '' : ' (accepting needs the lead role)'}.
           </p>
+          <SeasonDrawsPanel campaignId={campaign.id} request={form} />
           <table class="data">
             <thead>
               <tr>

@@ -1,0 +1,54 @@
+/**
+ * The season draws in the season view against the real server and the demo (invented log and
+ * priors): a weather-aware proposal drawn 200 times shows, per target, the bands and percentiles
+ * that POST /campaigns/{id}/season-plan/draws gives for the same request. Waits on state, never on time.
+ */
+import { join } from 'node:path';
+import { describe, expect, inject, test } from 'vitest';
+import { chartPages } from './chart-page.ts';
+import { SCREENSHOTS, apiCaller } from './harness.ts';
+
+const api = apiCaller(inject('baseUrl'), inject('leadToken'));
+const open = chartPages();
+
+interface Draws {
+  draws: {
+    targets: {
+      target: string;
+      periapsisSigmaDays: { percentiles: { value: number }[] } | null;
+    }[];
+  };
+}
+
+describe('season draws in the season view', () => {
+  test('a weather-aware plan drawn 200 times shows the API’s percentiles', async () => {
+    const { page, errors } = await open('/season');
+    await page.locator('#season-plan select[name="weather"]').selectOption('aware');
+    await page.getByRole('button', { name: 'Propose a season plan' }).click();
+    await page.locator('.season-draws form').waitFor();
+    const startDate = await page.locator('#season-plan input[name="startDate"]').inputValue();
+    const endDate = await page.locator('#season-plan input[name="endDate"]').inputValue();
+    await page.locator('.season-draws input[name="draws"]').fill('200');
+    await page.getByRole('button', { name: 'Draw this season under the learned weather' }).click();
+    await page.locator('.draws-table tbody[data-target]').first().waitFor();
+    const campaign = (await api<{ items: { id: number }[] }>('/campaigns?limit=500')).items[0]!;
+    const answer = await api<Draws>(`/campaigns/${campaign.id}/season-plan/draws`, {
+      method: 'POST',
+      body: { startDate, endDate, nights: 'allocated', weather: 'aware', draws: 200, seed: 1 },
+    });
+    const withPassage = answer.draws.targets.filter((t) => t.periapsisSigmaDays);
+    expect(withPassage.length).toBeGreaterThan(0);
+    for (const t of withPassage) {
+      const row = page.locator(`.draws-table tbody[data-target="${t.target}"] tr.draw-row`).first();
+      const cells = await row.locator('td.num').allTextContents();
+      const median = t.periapsisSigmaDays!.percentiles[2]!.value * 24; // hours, as the view shows it
+      expect(Math.abs(Number(cells[2]) - median)).toBeLessThanOrEqual(
+        Math.max(0.01, median * 0.01),
+      );
+    }
+    expect(await page.locator('.season-draws').textContent()).not.toMatch(/NaN|undefined|null/);
+    await page.locator('.season-draws').screenshot({ path: join(SCREENSHOTS, 'season-draws.png') });
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+});
