@@ -135,7 +135,7 @@ describe('server messages beside their fields', () => {
       rule: 'must lie in [-5, 90)',
     });
     expect(messagesByField(SITE_FIELDS, fieldMessages(bad422))).toEqual({
-      horizonMask: 'item 2, altitude: 95 must lie in [-5, 90)',
+      horizonMask: 'horizon mask point 2, altitude: 95 must lie in [-5, 90)',
     });
   });
 

@@ -202,7 +202,7 @@ describe('adding records, and a horizon mask on the night chart', () => {
     await form.getByRole('button', { name: 'Add' }).click();
     const maskMsg = form.locator('.field.invalid .field-msg');
     await maskMsg.waitFor();
-    await expect(maskMsg.textContent()).resolves.toMatch(/^3\.altitudeDeg: 95 /);
+    await expect(maskMsg.textContent()).resolves.toMatch(/^horizon mask point 4, altitude: 95 /);
     await expect(form.locator('.field.invalid textarea').getAttribute('name')).resolves.toBe(
       'horizonMask',
     );

@@ -1,4 +1,6 @@
 /** The campaign's slowly changing records, loaded once per page and refreshed after an edit. */
+import { sigmasOf } from '../../../descriptors/covariance.ts';
+import { valueText } from '../lib/numbers.ts';
 import { getAll } from './client.ts';
 import type { CampaignRow, SiteRow, SolutionRow, SystemRow, TargetRow } from './client.ts';
 
@@ -85,5 +87,9 @@ export function skySite(site: SiteRow) {
 /** a of a Campbell solution, arcsec; Thiele–Innes solutions carry A, B, F, G instead. */
 export function semiMajorAxisText(s: SolutionRow): string {
   const el = s.orbit.elements;
-  return 'semiMajorAxisArcsec' in el ? String(el.semiMajorAxisArcsec) : '–';
+  if (!('semiMajorAxisArcsec' in el)) return 'Thiele–Innes solution: no a';
+  const sigma = s.orbit.covariance
+    ? sigmasOf(s.orbit.covariance).sigmas.semiMajorAxisArcsec
+    : undefined;
+  return valueText(el.semiMajorAxisArcsec, sigma);
 }

@@ -20,6 +20,7 @@ export const FIELD_WORDS: Record<string, string> = {
   massSolar: 'mass',
   latitudeDeg: 'latitude',
   altitudeDeg: 'altitude',
+  horizonMask: 'horizon mask point',
   azimuthDeg: 'azimuth',
   longitudeDeg: 'longitude',
   elevationM: 'elevation',

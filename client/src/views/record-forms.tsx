@@ -9,6 +9,7 @@ import { fieldMessages, sendRecord } from '../api/client.ts';
 import { invalidateCatalogue, type Catalogue } from '../api/catalogue.ts';
 import type { HorizonPoint } from '../api/client.ts';
 import { ErrorLine } from '../lib/ui.tsx';
+import { SolutionForm } from './solution-form.tsx';
 import { fieldWords } from '../lib/field-words.ts';
 
 /** One input. `key` is the dotted path in the request body, so server messages land beside it. */
@@ -89,7 +90,7 @@ export function messagesByField(
   for (const [path, msg] of Object.entries(raw)) {
     const f = fields.find((x) => path === x.key || path.startsWith(`${x.key}.`));
     const key = f?.key ?? '(form)';
-    const text = f && path !== f.key ? `${fieldWords(path.slice(f.key.length + 1))}: ${msg}` : msg;
+    const text = f && path !== f.key ? `${fieldWords(path)}: ${msg}` : msg;
     out[key] = out[key] ? `${out[key]}; ${text}` : text;
   }
   return out;
@@ -405,11 +406,39 @@ export const CAMPAIGN_FIELDS: FieldSpec[] = [
   { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
 ];
 
-/** The three forms, for the records page (leads only). */
+/** A target's fields; its system is chosen among the stored ones. */
+export function targetFields(cat: Catalogue): FieldSpec[] {
+  return [
+    {
+      key: 'systemId',
+      label: 'system',
+      kind: 'select',
+      initial: String(cat.systems[0]?.id ?? ''),
+      options: cat.systems.map((s) => ({ value: String(s.id), label: s.name })),
+      toValue: Number,
+    },
+    { key: 'name', label: 'name', kind: 'text' },
+    { key: 'magnitude', label: 'magnitude', kind: 'number', optional: true },
+    { key: 'band', label: 'band', kind: 'text', optional: true, hint: 'e.g. K, H, V' },
+    { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
+  ];
+}
+
+/** The forms of the records page (leads only): systems, targets, orbit solutions, sites, campaigns. */
 export function CreateRecords({ cat, onCreated }: { cat: Catalogue; onCreated: () => void }) {
   return (
     <div class="create-records">
       <CreateForm title="New system" path="/systems" fields={SYSTEM_FIELDS} onCreated={onCreated} />
+      {cat.systems.length > 0 && (
+        <CreateForm
+          key={cat.systems.length}
+          title="New target"
+          path="/targets"
+          fields={targetFields(cat)}
+          onCreated={onCreated}
+        />
+      )}
+      {cat.targets.length > 0 && <SolutionForm cat={cat} onCreated={onCreated} />}
       <CreateForm title="New site" path="/sites" fields={SITE_FIELDS} onCreated={onCreated} />
       <CreateForm
         title="New campaign"

@@ -10,6 +10,17 @@ import { invalidateCatalogue, loadCatalogue, semiMajorAxisText } from '../api/ca
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
+import { sigmasOf, type CovarianceTerm } from '../../../descriptors/covariance.ts';
+import { RELATIVITY_WORDS, valueText } from '../lib/numbers.ts';
+import type { SolutionRow } from '../api/client.ts';
+
+/** One element of a solution with the σ its covariance gives, rounded to it; a dash when absent. */
+function elementText(s: SolutionRow, key: CovarianceTerm): string {
+  const v = (s.orbit.elements as Record<string, unknown>)[key];
+  if (typeof v !== 'number') return '–';
+  const sigma = s.orbit.covariance ? sigmasOf(s.orbit.covariance).sigmas[key] : undefined;
+  return valueText(v, sigma);
+}
 
 type Row = Record<string, unknown> & { id: number };
 interface Column {
@@ -18,14 +29,19 @@ interface Column {
   editable?: 'number' | 'text' | 'boolean';
   /** Shown when the value is null (the default it stands for). */
   empty?: string;
+  /** How a number shows (default: float noise cut, 8 significant digits). */
+  format?: (v: number) => string;
 }
+const plainNumber = (v: number) => String(Number(v.toPrecision(8)));
+/** Degrees to 1e-5° (0.04″ at most), the precision of a catalogue position. */
+const degrees = (v: number) => v.toFixed(5);
 
 const SYSTEM_COLS: Column[] = [
   { key: 'name', label: 'name', editable: 'text' },
-  { key: 'raDeg', label: 'RA (°, ICRS)', editable: 'number' },
-  { key: 'decDeg', label: 'Dec (°, ICRS)', editable: 'number' },
+  { key: 'raDeg', label: 'RA (°, ICRS)', editable: 'number', format: degrees },
+  { key: 'decDeg', label: 'Dec (°, ICRS)', editable: 'number', format: degrees },
   { key: 'distancePc', label: 'distance (pc)', editable: 'number' },
-  { key: 'massSolar', label: 'mass (M☉)', editable: 'number' },
+  { key: 'massSolar', label: 'mass (M☉)', editable: 'number', format: (v) => v.toPrecision(3) },
 ];
 const TARGET_COLS: Column[] = [
   { key: 'name', label: 'name', editable: 'text' },
@@ -156,8 +172,10 @@ function RecordTable({
                   ) : (
                     'no'
                   )
+                ) : typeof r[c.key] === 'number' ? (
+                  (c.format ?? plainNumber)(r[c.key] as number)
                 ) : (
-                  String(r[c.key] ?? c.empty ?? '–')
+                  String(r[c.key] ?? c.empty ?? 'not given')
                 )}
               </td>
             ))}
@@ -230,7 +248,7 @@ function CsvImport({ onDone }: { onDone: () => void }) {
             onChange={(e) => setKind(e.currentTarget.value as ImportReport['kind'])}
           >
             <option value="targets">targets</option>
-            <option value="orbit-solutions">orbit solutions</option>
+            <option value="orbits">orbit solutions</option>
             <option value="measurements">measurements</option>
           </select>
         </label>
@@ -363,13 +381,13 @@ export function RecordsView() {
                 </td>
                 <td>{s.provenance}</td>
                 <td>{s.reference}</td>
-                <td>{String(s.orbit.elements.periodYears ?? '–')}</td>
-                <td>{String(s.orbit.elements.eccentricity ?? '–')}</td>
+                <td>{elementText(s, 'periodYears')}</td>
+                <td>{elementText(s, 'eccentricity')}</td>
                 <td>{semiMajorAxisText(s)}</td>
                 <td>
                   {Object.entries(s.orbit.relativity ?? {})
                     .filter(([, v]) => v)
-                    .map(([k]) => k)
+                    .map(([k]) => RELATIVITY_WORDS[k] ?? k)
                     .join(', ') || 'none'}
                 </td>
               </tr>
@@ -377,8 +395,8 @@ export function RecordsView() {
           </tbody>
         </table>
         <p class="muted">
-          New versions come from a fit, an import below, or POST /api/orbit-solutions; a target’s
-          page switches the current one.
+          New versions come from a fit on a target’s page, the form below or a CSV import (σ columns
+          and a correlations cell carry the covariance); a target’s page switches the current one.
         </p>
       </Section>
       <Section title="Sites" id="sites">
@@ -391,7 +409,7 @@ export function RecordsView() {
         )}
       </Section>
       {lead && (
-        <Section title="Add a system, site or campaign" id="create">
+        <Section title="Add a record" id="create">
           <CreateRecords cat={cat} onCreated={reload} />
         </Section>
       )}
