@@ -121,7 +121,7 @@ describe('store commands', () => {
       /checked 2 .* nothing written/,
     );
     expect(await run('export', 'measurements')).toBe(
-      'system,target,kind,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,separationMas,positionAngleDeg,sigmaSeparationMas,sigmaPositionAngleDeg,correlation,radialVelocityKmS,sigmaRadialVelocityKmS,instrument,blockId,notes\n',
+      'system,target,kind,component,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,separationMas,positionAngleDeg,sigmaSeparationMas,sigmaPositionAngleDeg,correlation,radialVelocityKmS,sigmaRadialVelocityKmS,instrument,blockId,notes\n',
     ); // header only: nothing written so far
     expect(await run('import', '--kind', 'measurements', '--file', good)).toBe(
       'imported 2 measurements rows\n',
