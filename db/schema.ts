@@ -167,6 +167,8 @@ export const siteClearPriors = sqliteTable(
 export interface CampaignGoals {
   /** Wanted interval between epochs of a target, days. */
   cadenceDays: number;
+  /** Wavelength the campaign observes at, µm, for refraction; absent: each site's own. */
+  wavelengthUm?: number;
   /** Interval near periapsis, days, used within `densifyWithinDays` of a passage. */
   densifiedCadenceDays?: number;
   densifyWithinDays?: number;

@@ -3302,6 +3302,8 @@ export interface paths {
                         goals: {
                             /** @description wanted interval between epochs of a target, days */
                             cadenceDays: number;
+                            /** @description wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own */
+                            wavelengthUm?: number;
                             /** @description interval near periapsis, days */
                             densifiedCadenceDays?: number;
                             /** @description how close to periapsis the dense cadence applies, days */
@@ -3656,6 +3658,8 @@ export interface paths {
                         goals?: {
                             /** @description wanted interval between epochs of a target, days */
                             cadenceDays: number;
+                            /** @description wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own */
+                            wavelengthUm?: number;
                             /** @description interval near periapsis, days */
                             densifiedCadenceDays?: number;
                             /** @description how close to periapsis the dense cadence applies, days */
@@ -10277,6 +10281,8 @@ export interface components {
             goals: {
                 /** @description wanted interval between epochs of a target, days */
                 cadenceDays: number;
+                /** @description wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own */
+                wavelengthUm?: number;
                 /** @description interval near periapsis, days */
                 densifiedCadenceDays?: number;
                 /** @description how close to periapsis the dense cadence applies, days */

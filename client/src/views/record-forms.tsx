@@ -386,6 +386,13 @@ export const CAMPAIGN_FIELDS: FieldSpec[] = [
     kind: 'number',
     optional: true,
   },
+  {
+    key: 'goals.wavelengthUm',
+    label: 'wavelength (µm)',
+    kind: 'number',
+    optional: true,
+    hint: 'band observed, for refraction: K 2.2, J 1.25, V 0.55; empty: each site’s own',
+  },
   { key: 'limits.highestAirmass', label: 'highest airmass', kind: 'number', optional: true },
   {
     key: 'limits.leastMoonDistanceDeg',

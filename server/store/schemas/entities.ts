@@ -204,6 +204,14 @@ export const CampaignFields = z.object({
         .number()
         .positive()
         .describe('wanted interval between epochs of a target, days'),
+      wavelengthUm: z
+        .number()
+        .min(0.3)
+        .max(100)
+        .optional()
+        .describe(
+          'wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own',
+        ),
       densifiedCadenceDays: z
         .number()
         .positive()

@@ -105,7 +105,7 @@ export async function targetForecast(
   const plan: ForecastEpoch[] = [];
   for (const { b, n, s, c } of planned) {
     const jd = (parseEpoch(b.startUtc) + parseEpoch(b.endUtc)) / 2;
-    const where = planningSite(s, c?.limits ?? {});
+    const where = planningSite(s, c?.limits ?? {}, c?.goals.wavelengthUm);
     const base = {
       blockId: b.id,
       epoch: jdToIso(jd),

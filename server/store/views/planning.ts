@@ -49,12 +49,21 @@ export interface CampaignPlanningInput {
   targets: { id: number; system: string; target: Target; lastMeasuredJd: number | null }[];
 }
 
+/** A stored site seen in a campaign's band: its refraction at the campaign's wavelength, when set. */
+export function campaignSite(row: typeof sitesTable.$inferSelect, wavelengthUm?: number) {
+  return validateSite(
+    wavelengthUm === undefined ? row : { ...row, wavelengthUm },
+    `sites.${row.id}`,
+  );
+}
+
 /** A stored site as the planners read it, under a campaign's limits (none: the site's own). */
 export function planningSite(
   row: typeof sitesTable.$inferSelect,
   c: NonNullable<CampaignRow['limits']>,
+  wavelengthUm?: number,
 ): CampaignPlanningInput['sites'][number] {
-  const site = validateSite(row, `sites.${row.id}`);
+  const site = campaignSite(row, wavelengthUm);
   const limits = validateLimits(
     {
       ...(c.darkness ? { darkness: c.darkness } : {}),
@@ -103,7 +112,9 @@ export async function campaignPlanningInput(
   const siteRows = siteIds.length
     ? await db.select().from(sitesTable).where(inArray(sitesTable.id, siteIds))
     : [];
-  const sites = siteRows.map((row) => planningSite(row, campaign.limits ?? {}));
+  const sites = siteRows.map((row) =>
+    planningSite(row, campaign.limits ?? {}, campaign.goals.wavelengthUm),
+  );
   const rows = targetIds.length
     ? await db
         .select({ t: targetsTable, s: systems })

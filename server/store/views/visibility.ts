@@ -10,7 +10,6 @@ import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
 import {
   nightReport,
   validateLimits,
-  validateSite,
   validateTarget,
   type Limits,
   type NightReport,
@@ -25,6 +24,7 @@ import { systemSkyPosition } from '../repos/catalogue.ts';
 import { nightEntity } from '../repos/nights.ts';
 import { currentOrbit } from '../repos/orbits.ts';
 import { siteEntity } from '../repos/sites.ts';
+import { campaignSite } from './planning.ts';
 
 /** What the sky engine needs to show a stored site's sky: the site, the targets and the limits. */
 export interface StoredSky {
@@ -44,9 +44,9 @@ export async function storedSky(
   scope: { siteId: number; campaignId?: number | null; targetIds?: number[] },
 ): Promise<StoredSky> {
   const siteRow = await getById(db, siteEntity, scope.siteId);
-  const site = validateSite(siteRow, 'site');
   const campaign =
     scope.campaignId == null ? null : await getById(db, campaignEntity, scope.campaignId);
+  const site = campaignSite(siteRow, campaign?.goals.wavelengthUm);
   const targetIds = campaign
     ? (await campaignMembers(db, campaign.id)).targetIds
     : (scope.targetIds ?? []);
