@@ -16,7 +16,7 @@ beforeAll(async () => {
 afterAll(() => store.close());
 
 it('a campaign observing at 0.55 µm refracts as ERFA’s formulas say there, not at the site’s 2.2 µm', async () => {
-  const nights = (await store.nights.list({ limit: 200 })).items.filter(
+  const nights = (await store.nights.list({}, { limit: 200 })).items.filter(
     (n) => n.campaignId !== null,
   );
   const night = nights[0]!;
