@@ -179,6 +179,8 @@ export interface CampaignGoals {
   laserGuideStar?: PerKindGoal<boolean>;
   /** Epochs per night inside a periapsis window. */
   periapsisRepeat?: 'single' | 'fill' | { everyHours: number };
+  /** Also maximise the relativity forecast of targets with the terms on (default false). */
+  relativityGoal?: boolean;
   /** Half-width of the periapsis window in σ of the passage date (default 2). */
   periapsisWindowSigma?: number;
   /** An epoch within this many days of the passage date covers it (default 1). */

@@ -13,7 +13,13 @@ import { createApp } from '../../server/http/app.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import type { TargetForecast } from '../../server/store/views/forecast.ts';
 import { nowIso } from '../../server/clock.ts';
-import { HEADLINE, SITES, demoAnchor, vesperSystem } from '../../server/store/demo/scenario.ts';
+import {
+  DEMO_DAYS,
+  HEADLINE,
+  SITES,
+  demoAnchor,
+  vesperSystem,
+} from '../../server/store/demo/scenario.ts';
 import { SEEING_AIRMASS_EXPONENT } from '../../server/science/plan/index.ts';
 import { parseEpoch } from '../../server/science/time/index.ts';
 import * as Astronomy from 'astronomy-engine';
@@ -134,5 +140,34 @@ describe('the forecast in the flags', () => {
     ]);
     expect(flag.relativity!.epochs.map((e) => e.epoch).sort()).toEqual([...critical].sort());
     expect(flag.relativity!.summary).toEqual(f.summary);
+  });
+});
+
+describe('the forecast as a season-plan goal', () => {
+  it('is asked for by relativityGoal (a boolean, named when wrong)', async () => {
+    const app = createApp({ store });
+    const lead = (
+      await store.users.createWithToken(LOCAL_OPERATOR, { name: 'goal lead', role: 'lead' })
+    ).secret;
+    const post = (body: unknown) =>
+      app.request('/api/campaigns/1/season-plan', {
+        method: 'POST',
+        headers: { authorization: `Bearer ${lead}`, 'content-type': 'application/json' },
+        body: JSON.stringify(body),
+      });
+    const anchor = demoAnchor(nowIso());
+    const range = {
+      startDate: anchor.day(DEMO_DAYS.periapsis - 20),
+      endDate: anchor.day(DEMO_DAYS.periapsis + 20),
+      at: AT,
+    };
+    const bad = await post({ ...range, relativityGoal: 'yes' });
+    expect(bad.status).toBe(400);
+    expect(await bad.text()).toMatch(/relativityGoal/);
+    const good = await post({ ...range, relativityGoal: true });
+    expect(good.status, await good.clone().text()).toBe(200);
+    expect(
+      ((await good.json()) as { plan: { epochs: unknown[] } }).plan.epochs.length,
+    ).toBeGreaterThan(0);
   });
 });

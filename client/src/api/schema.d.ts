@@ -3323,6 +3323,8 @@ export interface paths {
                             periapsisRepeat?: ("single" | "fill") | {
                                 everyHours: number;
                             };
+                            /** @description also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false */
+                            relativityGoal?: boolean;
                             /** @description half-width of the periapsis window in σ of the passage date; default 2 */
                             periapsisWindowSigma?: number;
                             /** @description an epoch this close to the passage date (days) covers it; default 1 */
@@ -3679,6 +3681,8 @@ export interface paths {
                             periapsisRepeat?: ("single" | "fill") | {
                                 everyHours: number;
                             };
+                            /** @description also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false */
+                            relativityGoal?: boolean;
                             /** @description half-width of the periapsis window in σ of the passage date; default 2 */
                             periapsisWindowSigma?: number;
                             /** @description an epoch this close to the passage date (days) covers it; default 1 */
@@ -7264,6 +7268,8 @@ export interface paths {
                         periapsisRepeat?: ("single" | "fill") | {
                             everyHours: number;
                         };
+                        /** @description also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false) */
+                        relativityGoal?: boolean;
                         /** @description slot length, minutes, [1, 30]; default 10 */
                         slotMinutes?: number;
                         /** @description gap between targets, minutes, [0, 120]; default 8 */
@@ -7612,6 +7618,8 @@ export interface paths {
                         periapsisRepeat?: ("single" | "fill") | {
                             everyHours: number;
                         };
+                        /** @description also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false) */
+                        relativityGoal?: boolean;
                         /** @description slot length, minutes, [1, 30]; default 10 */
                         slotMinutes?: number;
                         /** @description gap between targets, minutes, [0, 120]; default 8 */
@@ -10302,6 +10310,8 @@ export interface components {
                 periapsisRepeat?: ("single" | "fill") | {
                     everyHours: number;
                 };
+                /** @description also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false */
+                relativityGoal?: boolean;
                 /** @description half-width of the periapsis window in σ of the passage date; default 2 */
                 periapsisWindowSigma?: number;
                 /** @description an epoch this close to the passage date (days) covers it; default 1 */

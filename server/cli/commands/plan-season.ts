@@ -42,7 +42,7 @@ options:
                          fillFraction, extraEpochsPerTarget, periapsisWindowSigma,
                          coverageWithinDays, laserGuideStar: { astrometry, spectroscopy },
                          periapsisRepeat: "single" | "fill" | { everyHours },
-                         backupLossAbove }
+                         backupLossAbove, relativityGoal: true | false }
   --weather aware|blind  aware: weigh each night by its site's learned chance of being clear
                          (site-statistics) and back up periapsis epochs on likely-lost nights;
                          default blind (every night weighs 1)

@@ -81,6 +81,10 @@ export const SeasonPlanBody = z
         description:
           'epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours }',
       }),
+    relativityGoal: z.boolean().optional().openapi({
+      description:
+        'also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false)',
+    }),
     slotMinutes: num('slot length, minutes, [1, 30]; default 10'),
     slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
     sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),

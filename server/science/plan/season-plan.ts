@@ -11,7 +11,8 @@
  * 3. Extra epochs, when asked for, where the information is largest.
  *
  * Information is Fisher information at the precision the epoch would have at that site and airmass
- * (precision.ts). Each site-night's epochs are then timed by the night scheduler
+ * (precision.ts); with the relativity goal, the forecast's information on the relativity factors
+ * counts too (season-relativity.ts). Each site-night's epochs are then timed by the night scheduler
  * (season-timing.ts), and the report (season-report.ts) gives every choice, every unmet goal and
  * every unused night of a periapsis window with the limit that closed it on that night.
  *
@@ -47,6 +48,7 @@ import {
   type TargetState,
 } from './season-state.ts';
 import { timeNights } from './season-timing.ts';
+import { addRelativityEpoch, relativityState } from './season-relativity.ts';
 import {
   resolveTargets,
   seasonDates,
@@ -146,6 +148,8 @@ function preparePlanner(
   const fill = options.fillFraction ?? 0.9;
   if (!(fill > 0 && fill <= 1)) throw new InputError('fillFraction', fill, 'must lie in (0, 1]');
   const extra = numberIn('extraEpochsPerTarget', options.extraEpochsPerTarget ?? 0, 0, 20);
+  if (options.relativityGoal !== undefined && typeof options.relativityGoal !== 'boolean')
+    throw new InputError('relativityGoal', options.relativityGoal, 'must be true or false');
   const windowSigma = numberIn('periapsisWindowSigma', options.periapsisWindowSigma ?? 2, 0.1, 10);
   const within = numberIn('coverageWithinDays', options.coverageWithinDays ?? 1, 0.01, 30);
   const precision = sites.map((s, si) =>
@@ -178,6 +182,9 @@ function preparePlanner(
         o.jac = jac[k]!;
       });
     }
+    const orbit = ts.t.input.target.orbit;
+    if (options.relativityGoal === true && orbit)
+      ts.rel = relativityState(orbit, ts.t.input.measurements ?? [], ts.options);
     addKept(ts, keptOf(nights, sites, precision, ts));
     return built.closed;
   });
@@ -264,6 +271,7 @@ export function take(
     label: `${ts.t.name} ${o.kind} (priority ${ts.t.priority}, ${why})`,
   });
   if (o.jac) addEpoch(ts, o.jac, o.kind, o.precision);
+  if (ts.rel) addRelativityEpoch(ts.rel, o);
   p.chosen.push({ ti, o, gain, rank, why, reason: reason(gain) });
 }
 

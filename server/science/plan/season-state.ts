@@ -3,7 +3,8 @@
  * information its chosen epochs add, and each site-night's accepted blocks (checked by
  * earliest-latest-start packing, so nothing is accepted that cannot be timed). The score of an
  * option is the fractional variance it removes from the dates of the target's passages in range
- * and from its mass, times the site-night's weight; `gainOf` says the same in named units.
+ * and from its mass (and, with the relativity goal, from its relativity factors), times the
+ * site-night's weight; `gainOf` says the first two in named units.
  */
 import type { BlockKind } from './candidates.ts';
 import {
@@ -17,6 +18,7 @@ import {
 import type { KeptBlock } from './night-schedule.ts';
 import { passagesIn, quadratic, type Passage } from './passage.ts';
 import type { Option, SeasonNights } from './season-nights.ts';
+import { relativityReduction, type RelativityState } from './season-relativity.ts';
 import type { EpochGain, ResolvedTarget } from './season-types.ts';
 
 export interface Accepted {
@@ -40,6 +42,8 @@ export interface TargetState {
   keptInfo: Float64Array | null;
   keptJd: number[];
   options: Option[];
+  /** The relativity goal's information (season-relativity.ts), when asked for and the orbit has the terms. */
+  rel: RelativityState | null;
 }
 
 export function targetState(
@@ -62,6 +66,7 @@ export function targetState(
     keptInfo: null,
     keptJd: [],
     options: [],
+    rel: null,
   };
 }
 
@@ -125,7 +130,8 @@ export function score(
 ): number {
   if (!ts.model || !cov) return 0;
   const s = reductions(ts, cov, o).reduce((a, r) => a + (r.base > 0 ? r.removed / r.base : 0), 0);
-  return s * nights.weight[o.s * nights.nD + o.d]!;
+  const rel = ts.rel ? relativityReduction(ts.rel, o) : 0;
+  return (s + rel) * nights.weight[o.s * nights.nD + o.d]!;
 }
 
 /** What the option buys in named units: hours of σ off the coming passage's date, % of the mass variance. */

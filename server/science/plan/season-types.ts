@@ -8,6 +8,7 @@ import { BLOCK_KINDS, type BlockKind } from './candidates.ts';
 import { numberIn, positive } from './checks.ts';
 import type { NightReason } from './night-reasons.ts';
 import type { KeptBlock, ScheduledBlock } from './night-schedule.ts';
+import type { MeasurementInput } from '../orbit/fit/types.ts';
 import type { PrecisionModel } from './precision.ts';
 
 /** Epochs per night inside a periapsis window: one, one every N hours while observable, or as many as fit. */
@@ -47,6 +48,8 @@ export interface SeasonTarget {
   laserGuideStar?: PerKind<boolean>;
   /** Epochs per night in the periapsis window (the campaign's `periapsisRepeat` otherwise). */
   periapsisRepeat?: PeriapsisRepeat;
+  /** The measurements that exist (epochs, kinds, σ): the relativity goal's starting information. */
+  measurements?: MeasurementInput[];
 }
 
 export interface SeasonOptions {
@@ -72,6 +75,11 @@ export interface SeasonOptions {
   periapsisRepeat?: PeriapsisRepeat;
   /** A periapsis epoch whose night is lost with at least this chance (1 − its night weight) gets a backup, (0, 1]; default 0.2 (1: only certain losses). */
   backupLossAbove?: number;
+  /**
+   * Also maximise the relativity forecast: an epoch's score adds the fractional variance it removes
+   * from the redshift and precession factors of targets whose orbits have those terms on; default false.
+   */
+  relativityGoal?: boolean;
 }
 
 /** The settings a request may give (the CLI's --settings keys, the HTTP body's). */
@@ -88,6 +96,7 @@ export const SEASON_SETTINGS = [
   'laserGuideStar',
   'periapsisRepeat',
   'backupLossAbove',
+  'relativityGoal',
 ] as const satisfies readonly (keyof SeasonOptions)[];
 
 /** What one epoch buys, in named units (the same words in the CLI, the JSON and the client). */

@@ -228,6 +228,12 @@ export const CampaignFields = z.object({
         .optional()
         .describe('laser guide star use per kind where a site has one; absent: none'),
       periapsisRepeat: repeat.optional(),
+      relativityGoal: z
+        .boolean()
+        .optional()
+        .describe(
+          'also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false',
+        ),
       periapsisWindowSigma: z
         .number()
         .min(0.1)

@@ -40,8 +40,24 @@ import {
 import { campaignPlanningInput } from './planning.ts';
 import { siteStatisticsView } from './site-statistics.ts';
 import { clearNightWeights } from '../../science/plan/site-statistics.ts';
+import { inArray } from 'drizzle-orm';
+import { measurements } from '../../../db/schema.ts';
+import type { MeasurementInput } from '../../science/orbit/fit/types.ts';
+import { toInput } from '../fits.ts';
 import { nowMs } from '../../clock.ts';
 import type { CampaignGoals } from '../../../db/schema.ts';
+
+/** Each target's measurements as the fit reads them (epochs, kinds, σ). */
+async function targetMeasurements(
+  db: DbOrTx,
+  ids: number[],
+): Promise<Map<number, MeasurementInput[]>> {
+  const out = new Map<number, MeasurementInput[]>();
+  if (ids.length === 0) return out;
+  for (const r of await db.select().from(measurements).where(inArray(measurements.targetId, ids)))
+    out.set(r.targetId, [...(out.get(r.targetId) ?? []), toInput(r)]);
+  return out;
+}
 
 export const NIGHT_CHOICES = ['allocated', 'all'] as const;
 /** "aware": each night weighs by its site's learned chance of being clear (site statistics); "blind": every night weighs 1. */
@@ -222,7 +238,6 @@ export async function prepare(
     input.targets.map((t) => t.id),
     nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start,
   );
-  const targets = seasonTargets(input.targets, campaign.goals, names, last);
   const {
     startDate,
     endDate,
@@ -233,6 +248,17 @@ export async function prepare(
     ...asked
   } = request;
   const options = { ...campaignOptions(campaign.goals), ...asked };
+  // The relativity goal starts from the targets' measurements, as the forecast does.
+  const measured = options.relativityGoal
+    ? await targetMeasurements(
+        db,
+        input.targets.map((t) => t.id),
+      )
+    : new Map<number, MeasurementInput[]>();
+  const targets = seasonTargets(input.targets, campaign.goals, names, last).map((t, i) => {
+    const m = measured.get(input.targets[i]!.id);
+    return m ? { ...t, measurements: m } : t;
+  });
   const plan = await run('planSeason', startDate, endDate, seasonSites, targets, options);
   replaces.sort((a, b) => a - b);
   const digest = planDigest({
@@ -265,6 +291,7 @@ export function campaignOptions(goals: CampaignGoals): SeasonOptions {
     ...(goals.periapsisWindowSigma ? { periapsisWindowSigma: goals.periapsisWindowSigma } : {}),
     ...(goals.coverageWithinDays ? { coverageWithinDays: goals.coverageWithinDays } : {}),
     ...(goals.precision ? { precision: goals.precision } : {}),
+    ...(goals.relativityGoal !== undefined ? { relativityGoal: goals.relativityGoal } : {}),
   };
 }
 
