@@ -7442,6 +7442,8 @@ export interface paths {
                         periapsisRepeat?: ("single" | "fill") | {
                             everyHours: number;
                         };
+                        /** @description also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false) */
+                        relativityGoal?: boolean;
                         /** @description slot length, minutes, [1, 30]; default 10 */
                         slotMinutes?: number;
                         /** @description gap between targets, minutes, [0, 120]; default 8 */
