@@ -3,7 +3,7 @@ import { useEffect, useState } from 'preact/hooks';
 import { api, type Me } from './api/client.ts';
 import { interceptLinks, match, usePath } from './lib/router.ts';
 import { sessionToken, setSessionToken, signOut } from './lib/session.ts';
-import { ErrorLine, MeContext } from './lib/ui.tsx';
+import { CautionScope, ErrorLine, MeContext } from './lib/ui.tsx';
 import { OverviewView } from './views/overview.tsx';
 import { TargetView } from './views/target.tsx';
 import { NightView } from './views/night.tsx';
@@ -157,7 +157,7 @@ export function App() {
         </header>
         <main id="main" tabIndex={-1}>
           {me ? (
-            route(path)
+            <CautionScope key={path}>{route(path)}</CautionScope>
           ) : sessionToken() && !authError ? (
             <p class="loading">Signing in…</p>
           ) : (

@@ -42,6 +42,15 @@ function causeMessage(err: unknown): string {
   return e instanceof Error ? e.message : String(e);
 }
 
+/** "nights.site_id, nights.date" → "site and date": the columns of a constraint in words. */
+function columnWords(cols: string): string {
+  const words = cols
+    .split(',')
+    .map((c) => c.trim().replace(/^\w+\./, '').replace(/_id$/, '').replaceAll('_', ' '))
+    .filter(Boolean);
+  return words.length ? words.join(' and ') : 'key';
+}
+
 /** Turn a constraint failure into a ConflictError that says what clashed; rethrow anything else. */
 export function translateConstraint(err: unknown, entity: string): never {
   const code = sqliteCode(err);
@@ -51,7 +60,7 @@ export function translateConstraint(err: unknown, entity: string): never {
       const cols = /UNIQUE constraint failed: (.*)$/i.exec(msg)?.[1] ?? '';
       throw new ConflictError(
         'duplicate',
-        `a ${entity} with the same ${cols.replace(/\w+\./g, '') || 'key'} already exists`,
+        `a ${entity} with the same ${columnWords(cols)} already exists`,
         { columns: cols },
       );
     }

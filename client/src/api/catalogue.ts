@@ -1,5 +1,5 @@
 /** The campaign's slowly changing records, loaded once per page and refreshed after an edit. */
-import { sigmasOf } from '../../../descriptors/covariance.ts';
+import { sigmasOf, type CovarianceTerm } from '../../../descriptors/covariance.ts';
 import { valueText } from '../lib/numbers.ts';
 import { getAll } from './client.ts';
 import type { CampaignRow, SiteRow, SolutionRow, SystemRow, TargetRow } from './client.ts';
@@ -92,4 +92,12 @@ export function semiMajorAxisText(s: SolutionRow): string {
     ? sigmasOf(s.orbit.covariance).sigmas.semiMajorAxisArcsec
     : undefined;
   return valueText(el.semiMajorAxisArcsec, sigma);
+}
+
+/** One element of a solution with the σ its covariance gives, rounded to it; a dash when absent. */
+export function elementText(s: SolutionRow, key: CovarianceTerm): string {
+  const v = (s.orbit.elements as Record<string, unknown>)[key];
+  if (typeof v !== 'number') return '–';
+  const sigma = s.orbit.covariance ? sigmasOf(s.orbit.covariance).sigmas[key] : undefined;
+  return valueText(v, sigma);
 }

@@ -33,3 +33,15 @@ export const RELATIVITY_WORDS: Record<string, string> = {
   transverseDoppler: 'transverse Doppler shift',
   precession: 'Schwarzschild precession',
 };
+
+/** Orbit events in words (the API's event kinds). */
+export const EVENT_WORDS: Record<string, string> = {
+  periapsis: 'periapsis',
+  apoapsis: 'apoapsis',
+  'ascending-node': 'ascending node (receding)',
+  'descending-node': 'descending node',
+  'rv-maximum': 'largest radial velocity',
+  'rv-minimum': 'smallest radial velocity',
+  'closest-separation': 'closest on the sky',
+  'widest-separation': 'widest on the sky',
+};

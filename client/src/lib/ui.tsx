@@ -2,7 +2,7 @@
 import { roleAtLeast } from '../../../descriptors/roles.ts';
 import type { ComponentChildren } from 'preact';
 import { createContext } from 'preact';
-import { useContext } from 'preact/hooks';
+import { useContext, useEffect, useRef, useState } from 'preact/hooks';
 import { problemLines } from './problems.ts';
 import type { Me, Role } from '../api/client.ts';
 
@@ -73,8 +73,41 @@ export function Section({
   );
 }
 
-/** Safety notes are shown verbatim and never hidden behind a toggle. */
+/** The cautions a page has shown, by kind: each kind once per page (the view keys a scope by address). */
+const CautionRegistry = createContext<Map<string, object> | null>(null);
+
+export function CautionScope({ children }: { children: ComponentChildren }) {
+  const [shown] = useState(() => new Map<string, object>());
+  return <CautionRegistry.Provider value={shown}>{children}</CautionRegistry.Provider>;
+}
+
+const textOf = (c: ComponentChildren): string =>
+  Array.isArray(c)
+    ? c.map(textOf).join('')
+    : typeof c === 'string' || typeof c === 'number'
+      ? String(c)
+      : '';
+
+/**
+ * Safety notes are shown verbatim and never hidden behind a toggle, once per page: every
+ * laser-guide-star caution is one kind, any other caution is its own text.
+ */
 export function Caution({ children }: { children: ComponentChildren }) {
+  const shown = useContext(CautionRegistry);
+  const me = useRef({}).current;
+  const text = textOf(children);
+  const kind = /laser/i.test(text) ? 'laser guide star' : text;
+  useEffect(
+    () => () => {
+      if (shown?.get(kind) === me) shown.delete(kind);
+    },
+    [kind],
+  );
+  if (shown) {
+    const owner = shown.get(kind);
+    if (!owner) shown.set(kind, me);
+    else if (owner !== me) return null;
+  }
   return (
     <p class="caution" role="note">
       <span class="caution-mark" aria-hidden="true">

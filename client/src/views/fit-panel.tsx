@@ -8,6 +8,8 @@ import { api, type Answer } from '../api/client.ts';
 import { invalidateCatalogue } from '../api/catalogue.ts';
 import type { Prediction } from '../api/client.ts';
 import { utcText } from '../lib/time.ts';
+import { fieldWords } from '../lib/field-words.ts';
+import { valueText } from '../lib/numbers.ts';
 import { ErrorLine, Qty, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
@@ -111,9 +113,10 @@ export function FitPanel({
             <tbody>
               {r.parameters.map((p) => (
                 <tr key={p.name}>
-                  <td>{p.name}</td>
-                  <td>{Number(p.value.toPrecision(8))}</td>
-                  <td>{Number(p.sigma.toPrecision(3))}</td>
+                  <td>{fieldWords(p.name)}</td>
+                  {/* The value to the digits its σ supports (T as a JD keeps its fraction of a day). */}
+                  <td>{valueText(p.value, p.sigma).split(' ± ')[0]}</td>
+                  <td>{valueText(p.sigma, null, 2)}</td>
                   <td>{p.unit}</td>
                 </tr>
               ))}

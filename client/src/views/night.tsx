@@ -410,13 +410,14 @@ function NightWords(p: {
 /** Sunset, twilight, darkness and Moon times on both clocks. */
 function SunMoonTimes({ vis, zone }: { vis: Visibility; zone: string }) {
   const dark = vis.darkness.intervals;
-  const both = (iso: string | null | undefined) =>
+  // A time the night does not have says so: the Sun or Moon stays above or below all night.
+  const both = (iso: string | null | undefined, none = 'does not occur this night') =>
     iso ? (
       <>
         {utcClock(iso)} UTC · {zoneClock(iso, zone)} local
       </>
     ) : (
-      '–'
+      <span class="muted">{none}</span>
     );
   return (
     <Section title="Sun, twilight and Moon" id="sun-moon">
@@ -430,21 +431,36 @@ function SunMoonTimes({ vis, zone }: { vis: Visibility; zone: string }) {
           </tr>
           <tr>
             <th>astronomical dusk (−18°)</th>
-            <td>{both(vis.sun.twilights.astronomical.dusk?.utc)}</td>
+            <td>
+              {both(vis.sun.twilights.astronomical.dusk?.utc, 'none: the Sun stays above −18°')}
+            </td>
             <th>astronomical dawn</th>
-            <td>{both(vis.sun.twilights.astronomical.dawn?.utc)}</td>
+            <td>
+              {both(vis.sun.twilights.astronomical.dawn?.utc, 'none: the Sun stays above −18°')}
+            </td>
           </tr>
           <tr>
             <th>darkness starts</th>
-            <td>{both(dark[0]?.start.utc)}</td>
+            <td>{both(dark[0]?.start.utc, 'no darkness this night')}</td>
             <th>darkness ends</th>
-            <td>{both(dark[dark.length - 1]?.end.utc)}</td>
+            <td>{both(dark[dark.length - 1]?.end.utc, 'no darkness this night')}</td>
           </tr>
           <tr>
             <th>moonrise</th>
-            <td>{both(vis.moon.rise?.utc)}</td>
+            <td>{both(vis.moon.rise?.utc, 'the Moon does not rise between noon and noon')}</td>
             <th>moonset</th>
-            <td>{both(vis.moon.set?.utc)}</td>
+            <td>{both(vis.moon.set?.utc, 'the Moon does not set between noon and noon')}</td>
+          </tr>
+          <tr>
+            <th>Moon crosses the meridian</th>
+            <td>
+              {both(
+                vis.moon.transit?.utc,
+                'not between noon and noon (the Moon’s day is about 24.8 h)',
+              )}
+            </td>
+            <th>Moon lit</th>
+            <td>{Math.round(vis.moon.illuminatedFraction * 100)} %</td>
           </tr>
         </tbody>
       </table>

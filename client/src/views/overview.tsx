@@ -10,6 +10,7 @@ import { dateText, todayIn, utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { useChosenCampaign } from '../lib/campaign.ts';
+import { plural } from '../lib/words.ts';
 
 export type Flag = Schemas['Flag'];
 
@@ -44,7 +45,7 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
             ) : (
               <span class="muted">(no covariance: uncertainty unknown)</span>
             )}{' '}
-            · in {Math.round(f.daysAhead)} days · {p.band}
+            · in {plural(Math.round(f.daysAhead), 'day')} · {p.band}
           </span>
         ) : f.stale ? (
           <span class="flag-when">
@@ -54,7 +55,7 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
           </span>
         ) : f.relativity ? (
           <span class="flag-when">
-            {utcText(f.date)} UTC · in {Math.round(f.daysAhead)} days
+            {utcText(f.date)} UTC · in {plural(Math.round(f.daysAhead), 'day')}
           </span>
         ) : f.blend ? (
           <span class="flag-when">

@@ -6,21 +6,16 @@
 import { useState } from 'preact/hooks';
 import { DEFAULT_ZENITH_SIGMA } from '../../../descriptors/measurement-kinds.ts';
 import { ApiError, fieldMessages, api, sendRecord, type Answer } from '../api/client.ts';
-import { invalidateCatalogue, loadCatalogue, semiMajorAxisText } from '../api/catalogue.ts';
+import {
+  elementText,
+  invalidateCatalogue,
+  loadCatalogue,
+  semiMajorAxisText,
+} from '../api/catalogue.ts';
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
-import { sigmasOf, type CovarianceTerm } from '../../../descriptors/covariance.ts';
-import { RELATIVITY_WORDS, valueText } from '../lib/numbers.ts';
-import type { SolutionRow } from '../api/client.ts';
-
-/** One element of a solution with the σ its covariance gives, rounded to it; a dash when absent. */
-function elementText(s: SolutionRow, key: CovarianceTerm): string {
-  const v = (s.orbit.elements as Record<string, unknown>)[key];
-  if (typeof v !== 'number') return '–';
-  const sigma = s.orbit.covariance ? sigmasOf(s.orbit.covariance).sigmas[key] : undefined;
-  return valueText(v, sigma);
-}
+import { RELATIVITY_WORDS } from '../lib/numbers.ts';
 
 type Row = Record<string, unknown> & { id: number };
 interface Column {

@@ -10,6 +10,7 @@ import type { BlockRow, NightRow } from '../api/client.ts';
 import { isoOf, ms, utcClock, zoneClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
+import { plural } from '../lib/words.ts';
 
 export type ScheduledBlock = Schemas['ScheduledBlock'];
 export type SchedulePreview = Schemas['NightSchedulePreview'];
@@ -63,7 +64,7 @@ export function SchedulePanel({
           body: { ...body(edits), digest: preview.digest },
         });
         setStored(
-          `Stored: ${r.written.length} blocks written, ${preview.replaces.length} planned blocks replaced.`,
+          `Stored: ${plural(r.written.length, 'block')} written, ${plural(preview.replaces.length, 'planned block')} replaced.`,
         );
         setPreview(null);
         onProposal?.(null);
@@ -133,9 +134,9 @@ export function SchedulePanel({
             <Caution key={c}>{c}</Caution>
           ))}
           <p>
-            {s.blocks.length} blocks, <Qty v={s.scheduledHours} unit="h" /> of{' '}
+            {plural(s.blocks.length, 'block')}, <Qty v={s.scheduledHours} unit="h" /> of{' '}
             <Qty v={s.darkHours} unit="h" /> darkness ({s.method} solution). Storing replaces{' '}
-            {preview.replaces.length} planned block{preview.replaces.length === 1 ? '' : 's'}
+            {plural(preview.replaces.length, 'planned block')}
             {preview.kept.length
               ? `; keeps ${preview.kept.length}: ${preview.kept.map((k) => `#${k.id} (${k.reason})`).join(', ')}`
               : ''}
@@ -242,8 +243,8 @@ export function SchedulePanel({
       )}
       {blocks.length > 0 && !preview && (
         <p class="muted">
-          The night already has {blocks.length} stored block{blocks.length === 1 ? '' : 's'}; a
-          stored schedule replaces those still only planned.
+          The night already has {plural(blocks.length, 'stored block')}; a stored schedule replaces
+          those still only planned.
         </p>
       )}
     </Section>

@@ -9,6 +9,7 @@ import type { CampaignRow } from '../api/client.ts';
 import { utcClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
+import { plural } from '../lib/words.ts';
 import { SeasonDrawsPanel } from './season-draws.tsx';
 
 export type PlannedEpoch = Schemas['SeasonPlan']['epochs'][number];
@@ -61,7 +62,7 @@ export function SeasonPlanPanel({
           body: { ...form, digest: preview.digest },
         });
         setStatus(
-          `Accepted: ${r.written.length} blocks stored, ${r.nightsCreated.length} nights created, ${preview.replaces.length} planned blocks replaced.`,
+          `Accepted: ${plural(r.written.length, 'block')} stored, ${plural(r.nightsCreated.length, 'night')} created, ${plural(preview.replaces.length, 'planned block')} replaced.`,
         );
         setPreview(null);
         onProposal(null);
@@ -164,7 +165,8 @@ export function SeasonPlanPanel({
             <Caution key={c}>{c}</Caution>
           ))}
           <p>
-            {p.epochs.length} epochs proposed; accepting replaces {preview.replaces.length} blocks
+            {plural(p.epochs.length, 'epoch')} proposed; accepting replaces{' '}
+            {plural(preview.replaces.length, 'block')}
             that are still only plans{lead ? '' : ' (accepting needs the lead role)'}.
           </p>
           <SeasonDrawsPanel campaignId={campaign.id} request={form} />

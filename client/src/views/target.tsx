@@ -8,6 +8,7 @@ import { api } from '../api/client.ts';
 import {
   invalidateCatalogue,
   loadCatalogue,
+  elementText,
   semiMajorAxisText,
   type Catalogue,
 } from '../api/catalogue.ts';
@@ -16,6 +17,7 @@ import { RvCurvePlot, yearOf } from '../plots/rv-curve.tsx';
 import { utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
+import { EVENT_WORDS } from '../lib/numbers.ts';
 import { EphemerisTable } from './ephemeris-table.tsx';
 import { astrometricResidual, loadTargetData, rvSeries, type TargetData } from './target-data.ts';
 import { FitPanel } from './fit-panel.tsx';
@@ -185,11 +187,15 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
       <tbody>
         {data.events.map((e) => (
           <tr key={`${e.kind}${e.jd}`} class={e.kind === 'periapsis' ? 'row-periapsis' : ''}>
-            <td>{e.kind}</td>
+            <td>{EVENT_WORDS[e.kind] ?? e.kind.replaceAll('-', ' ')}</td>
             <td>{utcText(e.epoch)}</td>
             {lightTime && <td>{utcText(e.emissionEpoch)}</td>}
             <td>
-              <Qty v={e.sigmaDays} unit="" />
+              {e.sigmaDays === null || e.sigmaDays === undefined ? (
+                <span class="muted">no covariance</span>
+              ) : (
+                <Qty v={e.sigmaDays} unit="" />
+              )}
             </td>
             <td>
               <Qty v={e.state?.separationMas} unit="" digits={2} />
@@ -256,9 +262,9 @@ function Solutions({
                 {s.provenance}
                 {s.fittedFrom ? ` from ${s.fittedFrom.length} measurements` : ''}
               </td>
-              <td>{s.reference || <span class="muted">–</span>}</td>
-              <td>{String(s.orbit.elements.periodYears ?? '–')}</td>
-              <td>{String(s.orbit.elements.eccentricity ?? '–')}</td>
+              <td>{s.reference || <span class="muted">none given</span>}</td>
+              <td>{elementText(s, 'periodYears')}</td>
+              <td>{elementText(s, 'eccentricity')}</td>
               <td>{semiMajorAxisText(s)}</td>
               <td>{utcText(s.createdAt)}</td>
               <td>
@@ -316,11 +322,11 @@ export function TargetView({ id }: { id: number }) {
       )}
       {d.solution?.orbit.distancePc !== undefined && (
         <Section title="Relativity forecast" id="forecast">
-          <ForecastPanel targetId={id} />
+          <ForecastPanel key={d.solution?.id} targetId={id} />
         </Section>
       )}
       <Section title="Events" id="events">
-        <Events targetId={id} periodYears={d.periodYears} />
+        <Events key={d.solution?.id} targetId={id} periodYears={d.periodYears} />
       </Section>
       <Section title="Orbit solutions" id="solutions">
         <Solutions cat={cat} targetId={id} onChange={() => setTick(tick + 1)} />
@@ -335,7 +341,7 @@ export function TargetView({ id }: { id: number }) {
       </Section>
       {d.solution && (
         <Section title="Ephemeris" id="ephemeris">
-          <EphemerisTable targetId={id} name={t.name} />
+          <EphemerisTable key={d.solution.id} targetId={id} name={t.name} />
         </Section>
       )}
     </div>
