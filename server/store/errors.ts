@@ -46,7 +46,13 @@ function causeMessage(err: unknown): string {
 function columnWords(cols: string): string {
   const words = cols
     .split(',')
-    .map((c) => c.trim().replace(/^\w+\./, '').replace(/_id$/, '').replaceAll('_', ' '))
+    .map((c) =>
+      c
+        .trim()
+        .replace(/^\w+\./, '')
+        .replace(/_id$/, '')
+        .replaceAll('_', ' '),
+    )
     .filter(Boolean);
   return words.length ? words.join(' and ') : 'key';
 }
