@@ -46,6 +46,7 @@ export type { IssuedToken, TokenListing, UserRow } from './repos/users.ts';
 export { ACCEPT_AT_TOLERANCE_MINUTES } from './views/plan-scope.ts';
 export { NIGHT_CHOICES, WEATHER_CHOICES, type SeasonPlanRequest } from './views/season-plan.ts';
 export type { SeasonDrawsRequest, SeasonDrawsView } from './views/season-draws.ts';
+export type { ReplanPreview, ReplanRequest } from './views/replan.ts';
 export type { NightScheduleRequest } from './views/night-plan.ts';
 export type {
   AllocationNight,

@@ -20,6 +20,7 @@ import { nightVisibility, storedSky } from './views/visibility.ts';
 import { clearPriorOf, replaceClearPrior } from './repos/clear-priors.ts';
 import { siteStatisticsView } from './views/site-statistics.ts';
 import { seasonPlanDraws } from './views/season-draws.ts';
+import { acceptReplan, previewReplan } from './views/replan.ts';
 
 // biome-ignore lint/suspicious/noExplicitAny: the first parameter is dropped, whatever its type
 type WithoutFirst<F> = F extends (first: any, ...rest: infer R) => infer O
@@ -46,6 +47,9 @@ export function createStore(database: Database) {
       acceptSeason: bind(context, acceptSeasonPlan),
       previewNight: bind(db, previewNightSchedule),
       acceptNight: bind(context, acceptNightSchedule),
+      /** The rest of a season planned again after a night that lost time: preview, then accept. */
+      previewReplan: bind(db, previewReplan),
+      acceptReplan: bind(context, acceptReplan),
       /** The season plan drawn N times under the learned weather: σ percentiles, coverage. */
       seasonDraws: bind(db, seasonPlanDraws),
       /** When the relativistic terms of a target become detectable with its planned blocks. */

@@ -8049,6 +8049,269 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/nights/{id}/replan": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Preview the rest of the season planned again after this night lost time */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        /** @description the moment of planning (ISO 8601, JD, MJD); default now */
+                        at?: string;
+                        /**
+                         * Format: date
+                         * @description last night to plan; default the campaign’s last (at most 400 nights on)
+                         */
+                        endDate?: string;
+                        /**
+                         * @description default "aware": nights weigh by their site’s learned chance of being clear
+                         * @enum {string}
+                         */
+                        weather?: "blind" | "aware";
+                        /** @description accept only: the preview’s digest; 409 if the plan would now differ */
+                        digest?: string;
+                    };
+                };
+            };
+            responses: {
+                /** @description the re-plan, written nowhere */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Replan"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/nights/{id}/replan/accept": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** Store the re-plan after a lost night (all or nothing; only blocks still planned are replaced) */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        /** @description the moment of planning (ISO 8601, JD, MJD); default now */
+                        at?: string;
+                        /**
+                         * Format: date
+                         * @description last night to plan; default the campaign’s last (at most 400 nights on)
+                         */
+                        endDate?: string;
+                        /**
+                         * @description default "aware": nights weigh by their site’s learned chance of being clear
+                         * @enum {string}
+                         */
+                        weather?: "blind" | "aware";
+                        /** @description accept only: the preview’s digest; 409 if the plan would now differ */
+                        digest?: string;
+                    };
+                };
+            };
+            responses: {
+                /** @description the re-plan with the blocks written */
+                201: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            night: {
+                                id: number;
+                                date: string;
+                                siteId: number;
+                                timeLostHours: number;
+                                reason: string;
+                            };
+                            lost: {
+                                blockId: number;
+                                target: string;
+                                kind: string;
+                                status: string;
+                            }[];
+                            request: {
+                                startDate: string;
+                                endDate: string;
+                                /** @enum {string} */
+                                weather: "blind" | "aware";
+                            };
+                            preview: components["schemas"]["SeasonPlanPreview"];
+                            written: components["schemas"]["BlockRow"][];
+                            nightsCreated: components["schemas"]["NightRow"][];
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/fit": {
         parameters: {
             query?: never;
@@ -11024,6 +11287,28 @@ export interface components {
                 reason: string;
             }[];
             cautions: string[];
+        };
+        Replan: {
+            night: {
+                id: number;
+                date: string;
+                siteId: number;
+                timeLostHours: number;
+                reason: string;
+            };
+            lost: {
+                blockId: number;
+                target: string;
+                kind: string;
+                status: string;
+            }[];
+            request: {
+                startDate: string;
+                endDate: string;
+                /** @enum {string} */
+                weather: "blind" | "aware";
+            };
+            preview: components["schemas"]["SeasonPlanPreview"];
         };
         FitResult: {
             method: string;

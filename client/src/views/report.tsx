@@ -21,6 +21,7 @@ import {
   type ReportForm,
 } from './report-draft.ts';
 import { ReportMeasurements } from './report-measurements.tsx';
+import { ReplanPanel } from './replan-panel.tsx';
 
 const STATUSES = ['obtained', 'partial', 'lost', 'withdrawn', 'planned'];
 
@@ -361,6 +362,9 @@ export function ReportView({ nightId }: { nightId: number }) {
       )}
       <Section title="Report" id="report">
         <Editor data={data} onSaved={() => setTick(tick + 1)} />
+      </Section>
+      <Section title="Re-plan after lost time" id="replan">
+        <ReplanPanel nightId={nightId} tick={tick} />
       </Section>
       <Section title="Measurements obtained" id="measurements">
         <ReportMeasurements blocks={data.blocks} cat={data.cat} tick={tick} />

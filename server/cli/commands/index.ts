@@ -15,6 +15,7 @@ import { fitCommand } from './fit.ts';
 import { forecastCommand } from './forecast.ts';
 import { sitePrecisionCommand } from './site-precision.ts';
 import { siteStatisticsCommand } from './site-statistics.ts';
+import { replanCommand } from './replan.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
@@ -32,4 +33,5 @@ export const commands: Record<string, Command> = {
   forecast: forecastCommand,
   'site-precision': sitePrecisionCommand,
   'site-statistics': siteStatisticsCommand,
+  replan: replanCommand,
 };

@@ -14,6 +14,7 @@ import { orbitSolutionRoutes } from './orbit-solutions.ts';
 import { nightScheduleRoutes } from './night-schedule.ts';
 import { planRoutes } from './plan.ts';
 import { seasonPlanRoutes } from './season-plan.ts';
+import { replanRoutes } from './replan.ts';
 import { siteRoutes } from './sites.ts';
 import { siteStatisticsRoutes } from './site-statistics.ts';
 import { systemRoutes, targetRoutes } from './systems.ts';
@@ -47,7 +48,7 @@ export function storeRoutes(store: Store, run: Runner) {
   ]) {
     app.route('/', routes(store));
   }
-  for (const routes of [exchangeRoutes, seasonPlanRoutes, nightScheduleRoutes])
+  for (const routes of [exchangeRoutes, seasonPlanRoutes, nightScheduleRoutes, replanRoutes])
     app.route('/', routes(store, run));
   return app;
 }
