@@ -33,12 +33,31 @@ export function identify(
     let user: UserRow | null = null;
     if (secret !== undefined) {
       user = await store.users.authenticate(secret);
+      if (!user) user = await feedViewer(store, secret, c.req.path);
       if (!user)
         throw new HttpError(401, 'unauthenticated', 'the token is unknown or has been revoked');
     }
     c.set('user', user);
     await next();
   };
+}
+
+/**
+ * A feed token (README "Calendar feed") reads its one campaign's calendar as a viewer, whatever
+ * the role of the lead who issued it; on any other path it is refused (403) naming what it opens.
+ */
+async function feedViewer(store: Store, secret: string, path: string): Promise<UserRow | null> {
+  const campaignId = await store.users.feedCampaignOf(secret);
+  if (campaignId === null) return null;
+  const m = /\/campaigns\/(\d+)\/calendar\.ics$/.exec(path);
+  if (!m || Number(m[1]) !== campaignId)
+    throw new HttpError(
+      403,
+      'forbidden',
+      `this is a feed token: it opens only /api/campaigns/${campaignId}/calendar.ics`,
+      { feedCampaignId: campaignId },
+    );
+  return { id: 0, name: `feed of campaign ${campaignId}`, role: 'viewer', createdAt: '' };
 }
 
 /** The signed-in user if their role is at least `role`; otherwise 401 or 403. */

@@ -8,7 +8,6 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Body, Equator, Horizon, Observer, SearchAltitude } from 'astronomy-engine';
-import ical from 'node-ical';
 import { DateTime } from 'luxon';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/http/app.ts';
@@ -19,7 +18,6 @@ import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../ser
 import { startStore } from '../../server/store/startup.ts';
 import {
   DEMO_DAYS,
-  HEADLINE,
   demoAnchor,
   lanternSystem,
   vesperSystem,
@@ -96,97 +94,6 @@ describe('the demo campaign', () => {
       `demo blocks: ${blocks.length}, highest Sun altitude at a block edge ${highest.toFixed(1)}°`,
     );
     expect(highest).toBeLessThan(-18); // astronomical twilight limit (Explanatory Supplement to the Astronomical Almanac, via docs/REFERENCES.md); Sun from astronomy-engine
-  });
-});
-
-describe('the campaign iCalendar feed', () => {
-  it('parses with node-ical and follows RFC 5545: CRLF, folded lines, UTC times, unique UIDs', async () => {
-    const app = createApp({ store });
-    expect((await app.request('/api/campaigns/1/calendar.ics')).status).toBe(401);
-    const res = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}`);
-    expect(res.headers.get('content-type')).toMatch(/^text\/calendar/); // RFC 5545 §8.1 media type
-    const text = await res.text();
-    const lines = text.split('\r\n');
-    expect(text.replace(/\r\n/g, '')).not.toMatch(/[\r\n]/); // RFC 5545 §3.1: lines end in CRLF
-    expect(Math.max(...lines.map((l) => Buffer.byteLength(l, 'utf8')))).toBeLessThanOrEqual(75); // RFC 5545 §3.1: at most 75 octets a line
-    for (const l of lines.filter((x) => /^DT(START|END|STAMP)/.test(x)))
-      expect(l).toMatch(/:\d{8}T\d{6}Z$/); // RFC 5545 §3.3.5 form 2, UTC time
-    const parsed = Object.values(ical.sync.parseICS(text)).filter(
-      (c) => c?.type === 'VEVENT',
-    ) as ical.VEvent[];
-    const uids = parsed.map((e) => e.uid);
-    expect(new Set(uids).size).toBe(uids.length); // RFC 5545 §3.8.4.7: UID unique
-    const blocks = await store.blocks.list({}, { limit: 500 });
-    const campaignBlocks = (await store.nights.list({}, { limit: 500 })).items
-      .filter((n) => n.campaignId === 1)
-      .map((n) => n.id);
-    const expectedBlocks = blocks.items.filter((b) => campaignBlocks.includes(b.nightId)).length;
-    const periapsis = parsed.filter((e) => String(e.summary).startsWith('Periapsis'));
-    const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
-    expect(parsed.length - periapsis.length - flagEvents.length).toBe(expectedBlocks); // every block of the campaign, from the store
-    const s1 = periapsis.find((e) => String(e.summary).includes(HEADLINE))!;
-    const engine = findEvents(
-      validateOrbit((await store.orbitSolutions.list({})).items.find((x) => x.current)!.orbit),
-      parseEpoch(MIDNIGHT),
-      parseEpoch(MIDNIGHT) + 365.25,
-      { kinds: ['periapsis'] },
-    )[0]!;
-    expect(Math.abs(new Date(s1.start).getTime() - Date.parse(engine.epoch))).toBeLessThan(1000); // the orbit engine's passage, as node-ical reads it back (1 s: iCalendar has whole seconds)
-  });
-
-  it('carries the campaign’s flags at a given moment, as node-ical reads them back', async () => {
-    const atJd = parseEpoch(MIDNIGHT);
-    const text = await store.exports.calendar(1, {
-      flagsAtJd: atJd,
-      stampMs: Date.parse(MIDNIGHT),
-    });
-    const parsed = Object.values(ical.sync.parseICS(text)).filter(
-      (c) => c?.type === 'VEVENT',
-    ) as ical.VEvent[];
-    const flagEvents = parsed.filter((e) => String(e.summary).startsWith('Flag'));
-    const { flags } = await store.plans.flags(1, { nowJd: atJd });
-    expect(flagEvents.length).toBe(flags.length); // one event per flag of the planning engine (flags endpoint)
-    expect(new Set(parsed.map((e) => e.uid)).size).toBe(parsed.length); // RFC 5545 §3.8.4.7: UID unique
-    const ahead = flagEvents.find(
-      (e) => String(e.summary) === `Flag, periapsis ahead: ${HEADLINE}`,
-    )!;
-    const flag = flags.find((f) => f.kind === 'periapsis-ahead' && f.target === HEADLINE)!;
-    expect(Math.abs(new Date(ahead.start).getTime() - Date.parse(flag.date))).toBeLessThan(1000); // the flag's date (the demo's fitted periapsis, invented), whole seconds in iCalendar
-    expect(String(ahead.description)).toBe(flag.reason); // the reason survives RFC 5545 folding and escaping
-  });
-});
-
-describe('the feed’s flags at a chosen moment', () => {
-  it('computes the flags for ?at=, and refuses a bad at naming it', async () => {
-    const app = createApp({ store });
-    const flagsOf = async (at: string) => {
-      const res = await app.request(
-        `/api/campaigns/1/calendar.ics?token=${leadToken}&at=${encodeURIComponent(at)}`,
-      );
-      expect(res.status).toBe(200);
-      return (
-        Object.values(ical.sync.parseICS(await res.text())).filter(
-          (c) => c?.type === 'VEVENT',
-        ) as ical.VEvent[]
-      )
-        .filter((e) => String(e.summary).startsWith('Flag'))
-        .map((e) => String(e.summary))
-        .sort();
-    };
-    const afterPassage = `${demo.day(DEMO_DAYS.periapsis + 17)}T00:00:00Z`;
-    for (const at of [MIDNIGHT, afterPassage]) {
-      const { flags } = await store.plans.flags(1, { nowJd: parseEpoch(at) });
-      expect(await flagsOf(at)).toEqual(
-        flags.map((f) => `Flag, ${f.kind.replace(/-/g, ' ')}: ${f.target}`).sort(),
-      ); // the planning engine's flags at that moment (flags endpoint)
-    }
-    expect(await flagsOf(MIDNIGHT)).toContain(`Flag, periapsis ahead: ${HEADLINE}`); // demo periapsis (scenario.ts, invented) within the flags' year ahead
-    expect(await flagsOf(afterPassage)).not.toContain(`Flag, periapsis ahead: ${HEADLINE}`); // passed by then; the next is 14.2 yr later (demo period, invented)
-    const bad = await app.request(`/api/campaigns/1/calendar.ics?token=${leadToken}&at=someday`);
-    expect(bad.status).toBe(422); // a value that breaks a rule (docs/DESIGN.md errors)
-    expect(
-      ((await bad.json()) as { error: { details: { field: string } } }).error.details.field,
-    ).toBe('at');
   });
 });
 

@@ -9,12 +9,16 @@ import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 const help = `usage: epochwright account add --name <name> --role lead|observer|viewer
        epochwright account token --name <name> [--label <text>]
+       epochwright account feed-token --name <lead> --campaign-id <id> [--label <text>]
        epochwright account list [--json|--csv]
        epochwright account tokens [--name <name>] [--json|--csv]
        epochwright account revoke --id <token id>
 
 add     creates a user and prints its first bearer token (shown this once; only a hash is kept)
 token   issues a further token for an existing user
+feed-token
+        issues a read-only token that opens one campaign's calendar feed and nothing else, held
+        by the named user; subscribe to /api/campaigns/<id>/calendar.ics?token=<it>
 list    shows the users and their roles
 tokens  shows every token (or one user's): id, holder, label, when issued and when revoked;
         secrets cannot be shown again, only the id names a token
@@ -46,6 +50,7 @@ export const accountCommand: Command = {
         role: { type: 'string' },
         label: { type: 'string' },
         id: { type: 'string' },
+        'campaign-id': { type: 'string' },
         json: { type: 'boolean' },
         csv: { type: 'boolean' },
       },
@@ -76,6 +81,20 @@ export const accountCommand: Command = {
               values.label ?? 'issued at the command line',
             );
             return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
+          }
+          case 'feed-token': {
+            if (values.name === undefined || values['campaign-id'] === undefined)
+              throw new UsageError('account feed-token needs --name and --campaign-id');
+            const campaignId = Number(values['campaign-id']);
+            if (!/^[1-9]\d{0,14}$/.test(values['campaign-id']))
+              throw new InputError('--campaign-id', values['campaign-id'], 'must be a stored id');
+            const issued = await store.users.issueFeedToken(
+              LOCAL_OPERATOR,
+              values.name,
+              campaignId,
+              values.label ?? 'calendar feed',
+            );
+            return `feed token for campaign ${campaignId} (token id ${issued.tokenId}), shown once: ${issued.secret}\nsubscribe to /api/campaigns/${campaignId}/calendar.ics?token=${issued.secret}\n`;
           }
           case 'list': {
             const page = await store.users.list({ limit: 500 });
@@ -139,7 +158,7 @@ export const accountCommand: Command = {
             );
         }
       },
-      { writes: ['add', 'token', 'revoke'].includes(action ?? '') },
+      { writes: ['add', 'token', 'feed-token', 'revoke'].includes(action ?? '') },
     );
   },
 };

@@ -22,7 +22,7 @@ export const SKY_OPTION_HELP = `  --site <json|file>         the site: {"latitud
                              orbit) and limits, unless --targets / --limits are given
   --targets <json|file>      an array of {"name", "raDeg", "decDeg", optional "pmRaMasYr", "pmDecMasYr",
                              "epoch", "orbit"} (ICRS; with an orbit, raDeg/decDeg are the primary's;
-                             RA as 250.3 degrees, 16.69h or 16:41:12.5 hours)
+                             RA as 250.3 degrees, 16.69 h or 16:41:12.5 hours)
   --limits <json|file>       {"darkness", "lowestAltitudeDeg", "highestAirmass", "airmassFormula",
                              "leastMoonDistanceDeg", "leastSunDistanceDeg", "useHorizonMask", "zenithSeeingArcsec"}
   --darkness <kind|deg>      civil, nautical, astronomical (default) or a solar altitude in degrees

@@ -131,11 +131,63 @@ export function exchangeRoutes(store: Store, run: Runner) {
     async (c) => {
       requireRole(c, 'viewer');
       const { at } = c.req.valid('query');
-      const text = await store.exports.calendar(c.req.valid('param').id, {
-        domain: new URL(c.req.url).hostname || undefined,
-        ...(at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') }),
-      });
+      const text = await store.exports.calendar(
+        c.req.valid('param').id,
+        at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') },
+      );
       return c.body(text, 200, { 'content-type': 'text/calendar; charset=utf-8' });
+    },
+  );
+  app.openapi(
+    createRoute({
+      method: 'post',
+      path: '/campaigns/{id}/feed-tokens',
+      tags: ['exports'],
+      security,
+      summary:
+        'Issue a read-only token for this campaign’s calendar feed only (shown once; revoke with DELETE /tokens/{id})',
+      request: {
+        params: IdParam,
+        body: {
+          content: {
+            'application/json': {
+              schema: z.object({ label: z.string().optional() }).strict(),
+            },
+          },
+          required: true,
+        },
+      },
+      responses: {
+        201: json(
+          z.object({
+            tokenId: z.number().int(),
+            token: z.string().openapi({ description: 'the secret, shown this once only' }),
+            feedPath: z
+              .string()
+              .openapi({ description: 'the path to subscribe to, token included' }),
+          }),
+          'issued',
+        ),
+        ...errorResponses,
+      },
+    }),
+    async (c) => {
+      const lead = requireRole(c, 'lead');
+      const id = c.req.valid('param').id;
+      const issued = await store.users.issueFeedToken(
+        { userId: lead.id },
+        lead.name,
+        id,
+        c.req.valid('json').label ?? 'calendar feed',
+      );
+      return c.json(
+        {
+          tokenId: issued.tokenId,
+          token: issued.secret,
+          feedPath: `/api/campaigns/${id}/calendar.ics?token=${issued.secret}`,
+        },
+        201,
+      );
     },
   );
   return app;

@@ -12,6 +12,7 @@ import type { Db, Tx } from '../database.ts';
 import { ConflictError, NotFoundError } from '../errors.ts';
 import { lineText, parseInput } from '../schemas/common.ts';
 import { UserInput, type Role } from '../schemas/entities.ts';
+import { campaignEntity } from './campaigns.ts';
 
 export type UserRow = typeof users.$inferSelect;
 export type { Role };
@@ -48,9 +49,12 @@ export interface TokenListing {
   label: string;
   createdAt: string;
   revokedAt: string | null;
+  /** A feed token's campaign (it opens that campaign's calendar feed and nothing else); null otherwise. */
+  feedCampaignId: number | null;
 }
 const listing = {
   id: tokens.id,
+  feedCampaignId: tokens.feedCampaignId,
   userName: users.name,
   role: users.role,
   label: tokens.label,
@@ -73,7 +77,8 @@ async function keepOneLeadToken(tx: Tx, revokedId: number): Promise<void> {
     .select({ n: count() })
     .from(tokens)
     .innerJoin(users, eq(users.id, tokens.userId))
-    .where(and(eq(users.role, 'lead'), isNull(tokens.revokedAt)));
+    // A feed token opens one calendar and no door to manage the team: it does not count.
+    .where(and(eq(users.role, 'lead'), isNull(tokens.revokedAt), isNull(tokens.feedCampaignId)));
   if ((left?.n ?? 0) === 0)
     throw new ConflictError(
       'not_allowed',
@@ -88,14 +93,25 @@ export function userRepository(db: Db) {
     actor: Actor,
     user: UserRow,
     rawLabel: string,
+    feedCampaignId: number | null = null,
   ): Promise<IssuedToken> => {
     const label = parseInput(TokenLabel, rawLabel, 'label');
     const secret = TOKEN_PREFIX + randomBytes(32).toString('base64url');
     const [row] = await tx
       .insert(tokens)
-      .values({ userId: user.id, hash: hashToken(secret), label, createdAt: nowIso() })
+      .values({
+        userId: user.id,
+        hash: hashToken(secret),
+        label,
+        createdAt: nowIso(),
+        feedCampaignId,
+      })
       .returning();
-    await recordAudit(tx, actor, 'create', 'token', row!.id, { userId: user.id, label });
+    await recordAudit(tx, actor, 'create', 'token', row!.id, {
+      userId: user.id,
+      label,
+      ...(feedCampaignId === null ? {} : { feedCampaignId }),
+    });
     return { user, tokenId: row!.id, secret };
   };
   return {
@@ -116,6 +132,17 @@ export function userRepository(db: Db) {
         const [user] = await tx.select().from(users).where(eq(users.name, userName));
         if (!user) throw new NotFoundError('user named', userName);
         return issue(tx, actor, user, label);
+      }),
+    /**
+     * A read-only token for one campaign's calendar feed, held by `userName` (who issued it): it
+     * opens `/campaigns/{id}/calendar.ics` and nothing else, and is revoked like any token.
+     */
+    issueFeedToken: (actor: Actor, userName: string, campaignId: number, label: string) =>
+      db.transaction(async (tx) => {
+        const [user] = await tx.select().from(users).where(eq(users.name, userName));
+        if (!user) throw new NotFoundError('user named', userName);
+        await getById(tx, campaignEntity, campaignId);
+        return issue(tx, actor, user, label, campaignId);
       }),
     /** Revoke an active token; returns what was revoked (never the hash). */
     revokeToken: (actor: Actor, tokenId: number): Promise<TokenListing> =>
@@ -150,15 +177,30 @@ export function userRepository(db: Db) {
         .where(userName === undefined ? undefined : eq(users.name, userName))
         .orderBy(asc(tokens.id));
     },
-    /** The user a bearer secret belongs to, or null when it is unknown or revoked. */
+    /** The user a bearer secret belongs to, or null when it is unknown, revoked or a feed token. */
     authenticate: async (secret: string): Promise<UserRow | null> => {
       const rows = await db
         .select({ user: users })
         .from(tokens)
         .innerJoin(users, eq(users.id, tokens.userId))
-        .where(and(eq(tokens.hash, hashToken(secret)), isNull(tokens.revokedAt)))
+        .where(
+          and(
+            eq(tokens.hash, hashToken(secret)),
+            isNull(tokens.revokedAt),
+            isNull(tokens.feedCampaignId),
+          ),
+        )
         .limit(1);
       return rows[0]?.user ?? null;
+    },
+    /** The campaign an active feed token opens, or null when the secret is no active feed token. */
+    feedCampaignOf: async (secret: string): Promise<number | null> => {
+      const [row] = await db
+        .select({ campaignId: tokens.feedCampaignId })
+        .from(tokens)
+        .where(and(eq(tokens.hash, hashToken(secret)), isNull(tokens.revokedAt)))
+        .limit(1);
+      return row?.campaignId ?? null;
     },
   };
 }
