@@ -1,6 +1,12 @@
 /** Night-report drafts: the form round trip, the field-by-field differences and the merge after a conflict. */
 import { describe, expect, test } from 'vitest';
-import { bodyOf, differences, formOf, merge } from '../../client/src/views/report-draft.ts';
+import {
+  bodyOf,
+  differences,
+  formOf,
+  merge,
+  numberProblems,
+} from '../../client/src/views/report-draft.ts';
 import type { ReportRow } from '../../client/src/api/client.ts';
 
 // Invented report values (demo only).
@@ -93,5 +99,19 @@ describe('report drafts', () => {
         }),
       ),
     ).toEqual([]);
+  });
+});
+
+describe('numbers the form cannot read', () => {
+  test('a decimal comma names its fix; other text is named as not a number (constructed cases)', () => {
+    const f = formOf(null, []);
+    f.conditions.timeLostHours = '1,5';
+    f.conditions.seeingArcsec = 'good';
+    f.conditions.windMS = '12.5';
+    f.conditions.temperatureC = '-3';
+    expect(numberProblems(f)).toEqual({
+      timeLostHours: '“1,5” has a comma: use a decimal point: 1.5',
+      seeingArcsec: '“good” is not a number',
+    });
   });
 });

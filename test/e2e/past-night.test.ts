@@ -148,6 +148,13 @@ describe('logging a night that has ended', () => {
       page.locator(`select[name="outcome-${stored[1]!.id}"]`).inputValue(),
     ).resolves.toBe('lost');
     await seeing.fill('0.82');
+    // A decimal comma is named beside its field and nothing is sent (it used to vanish).
+    await page.locator('input[name=timeLostHours]').fill('0,6');
+    await page.getByRole('button', { name: 'Save report' }).click();
+    await page.getByText('“0,6” has a comma: use a decimal point: 0.6').waitFor();
+    expect((await api<{ items: unknown[] }>(`/night-reports?nightId=${night.id}`)).items).toEqual(
+      [],
+    );
     await page.locator('input[name=timeLostHours]').fill('0.6');
     await page.locator('input[name=timeLostReason]').fill('cirrus after the first block');
     await page.getByRole('button', { name: 'Save report' }).click();

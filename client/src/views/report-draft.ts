@@ -101,6 +101,19 @@ export function formOf(
   };
 }
 
+/** Condition fields whose text is not a plain number, with the rule in words (a decimal comma names its fix). */
+export function numberProblems(form: ReportForm): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const f of CONDITION_FIELDS) {
+    const t = form.conditions[f.key].trim();
+    if (t === '' || /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t)) continue;
+    out[f.key] = /^[+-]?\d*,\d+$/.test(t)
+      ? `“${t}” has a comma: use a decimal point: ${t.replace(',', '.')}`
+      : `“${t}” is not a number`;
+  }
+  return out;
+}
+
 /** The request body for a form: empty number fields become null; blocks without a status are not reported. */
 export function bodyOf(form: ReportForm) {
   const num = (s: string) => (s.trim() === '' ? null : Number(s));

@@ -125,7 +125,11 @@ function AddMeasurement({
             {msgs.component && <span class="field-msg">{msgs.component}</span>}
           </label>
         )}
-        {field('epoch', `epoch (ISO 8601 UTC; empty: block middle ${mid.slice(11, 16)})`, 'text')}
+        {field(
+          'epoch',
+          `epoch (ISO 8601 with its zone or offset, JD, MJD, or a decimal year; empty: the block’s middle, ${mid.slice(11, 16)} UTC)`,
+          'text',
+        )}
         {kindInputs(kind).map((f) => field(f.key, f.label))}
         {field('instrument', 'instrument', 'text')}
       </div>

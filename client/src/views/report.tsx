@@ -13,6 +13,7 @@ import { useLoad } from '../lib/use-load.ts';
 import { ReportConflict } from './report-conflict.tsx';
 import {
   bodyOf,
+  numberProblems,
   CONDITION_FIELDS,
   dropDraft,
   formOf,
@@ -72,7 +73,8 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
   const [status, setStatus] = useState<string>('');
   const [error, setError] = useState<unknown>(null);
   const [theirs, setTheirs] = useState<ReportRow | null>(null);
-  const messages = fieldMessages(error);
+  const [unread, setUnread] = useState<Record<string, string>>({});
+  const messages = { ...fieldMessages(error), ...unread };
   // The draft is written by the edit itself, never by an effect: an effect scheduled before a save
   // could run after the save had dropped the draft and leave a stale one behind.
   const keepDraft = (f: ReportForm, b: typeof base) =>
@@ -87,6 +89,14 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
   };
   const save = async (f: ReportForm, b: typeof base) => {
     setError(null);
+    // A number the client cannot read is named here, never sent as empty: "1,5" must not vanish.
+    const bad = numberProblems(f);
+    setUnread(bad);
+    if (Object.keys(bad).length) {
+      keepDraft(f, b);
+      setStatus('Not saved: correct the marked field; your draft is kept in this browser.');
+      return;
+    }
     setStatus('Saving…');
     try {
       const body = bodyOf(f);
@@ -120,7 +130,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
       </span>
       <input
         name={k.key}
-        type="number"
+        type="text"
         inputMode="decimal"
         min={k.min}
         max={k.max}
