@@ -24,6 +24,7 @@ import {
   validateTarget,
 } from '../../science/sky/index.ts';
 import { nightMoments } from '../../science/plan/index.ts';
+import { addDays } from '../../science/sky/night.ts';
 import { jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import type { DbOrTx } from '../database.ts';
@@ -190,7 +191,7 @@ export async function loadDemo(
         })),
       );
     const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
-    const ctx = { store, tx, actor, rnd, made, counts, anchor };
+    const ctx = { store, tx, actor, rnd, made, counts, anchor, usedNights: new Set<string>() };
     for (const plan of demoPlans(anchor, campaigns, stars, lanternB))
       await loadPlan(ctx, sites[plan.siteIndex]!, plan);
     await earlierEpochs(ctx, stars, lanternB);
@@ -207,6 +208,8 @@ interface LoadContext {
   made: Made;
   counts: Counts;
   anchor: DemoAnchor;
+  /** Site-nights already made (`siteId/date`). */
+  usedNights: Set<string>;
 }
 
 async function demoCampaigns(
@@ -328,8 +331,39 @@ async function loadPlan(ctx: LoadContext, site: SiteRow, plan: Plan): Promise<vo
       validateTarget({ name: 'demo', raDeg: t.raDeg, decDeg: t.decDeg }),
     ]),
   );
-  for (const date of plan.dates) {
+  const blockCount = plan.targets.reduce((n, t) => n + t.kinds.length, 0);
+  /** The night's blocks as the demo lays them out, each with whether the limits leave it open. */
+  const layouts = new Map<string, ReturnType<typeof layOut>>();
+  const layout = (date: string) => {
+    const known = layouts.get(date) ?? layOut(date);
+    layouts.set(date, known);
+    return known;
+  };
+  function layOut(date: string) {
     const moment = nightMoments(sky, limits, date);
+    const first = runStart(site, date, plan.targets[0]!.raDeg, blockCount * 50);
+    return plan.targets
+      .flatMap((t) => t.kinds.map((kind) => ({ t, kind })))
+      .map((b, k) => {
+        const start = first.plus({ minutes: 50 * k });
+        const ends = [start, start.plus({ minutes: 45 })].map((x) => unixMsToJd(x.toMillis()));
+        return { ...b, start, open: ends.every((jd) => moment(places.get(b.t.id)!, jd).open) };
+      });
+  }
+  // A 14-night pattern meets the Moon every other time (the sidereal month is 27.3 days): as a team
+  // would, take the nearest night (up to 4 away, same side of today, not taken) where every block is open.
+  const openDate = (asked: string): string => {
+    for (const shift of [0, 1, -1, 2, -2, 3, -3, 4, -4]) {
+      const d = addDays(asked, shift);
+      if (ctx.usedNights.has(`${site.id}/${d}`) || d < anchor.today !== asked < anchor.today)
+        continue;
+      if (layout(d).every((b) => b.open)) return d;
+    }
+    return asked;
+  };
+  for (const asked of plan.dates) {
+    const date = openDate(asked);
+    ctx.usedNights.add(`${site.id}/${date}`);
     const night = await store.nights.createIn(tx, actor, {
       siteId: site.id,
       campaignId: plan.campaignId,
@@ -339,42 +373,29 @@ async function loadPlan(ctx: LoadContext, site: SiteRow, plan: Plan): Promise<vo
     const past = date < anchor.today;
     const w = past ? weather(ctx, date) : { lostHours: 0, cutAfter: null };
     const outcomes = [];
-    const blockCount = plan.targets.reduce((n, t) => n + t.kinds.length, 0);
-    const first = runStart(site, date, plan.targets[0]!.raDeg, blockCount * 50);
     let k = 0;
-    for (const t of plan.targets) {
-      for (const kind of t.kinds) {
-        const start = first.plus({ minutes: 50 * k });
-        const lost = w.cutAfter !== null && k >= w.cutAfter;
-        k++;
-        const place = places.get(t.id)!;
-        const ends = [start, start.plus({ minutes: 45 })].map((x) => unixMsToJd(x.toMillis()));
-        if (!ends.every((jd) => moment(place, jd).open)) continue;
-        const block = await store.blocks.createIn(tx, actor, {
-          nightId: night.id,
-          targetId: t.id,
-          kind,
-          startUtc: start.toUTC().toISO()!,
-          endUtc: start.plus({ minutes: 45 }).toUTC().toISO()!,
-          laserGuideStar: site.laserGuideStar && kind === 'astrometry',
-          origin: 'season-plan', // the demo's nights stand for an earlier accepted plan, so a re-plan may replace their future blocks
-        });
-        counts.blocks++;
-        if (!past) continue;
-        outcomes.push({
-          blockId: block.id,
-          status: lost ? 'lost' : 'obtained',
-          exposureMinutes: lost ? 0 : 40,
-        });
-        if (!lost)
-          await addMeasurement(
-            ctx,
-            t,
-            block.id,
-            kind,
-            start.plus({ minutes: 22 }).toUTC().toISO()!,
-          );
-      }
+    for (const { t, kind, start, open } of layout(date)) {
+      const lost = w.cutAfter !== null && k >= w.cutAfter;
+      k++;
+      if (!open) continue;
+      const block = await store.blocks.createIn(tx, actor, {
+        nightId: night.id,
+        targetId: t.id,
+        kind,
+        startUtc: start.toUTC().toISO()!,
+        endUtc: start.plus({ minutes: 45 }).toUTC().toISO()!,
+        laserGuideStar: site.laserGuideStar && kind === 'astrometry',
+        origin: 'season-plan', // the demo's nights stand for an earlier accepted plan, so a re-plan may replace their future blocks
+      });
+      counts.blocks++;
+      if (!past) continue;
+      outcomes.push({
+        blockId: block.id,
+        status: lost ? 'lost' : 'obtained',
+        exposureMinutes: lost ? 0 : 40,
+      });
+      if (!lost)
+        await addMeasurement(ctx, t, block.id, kind, start.plus({ minutes: 22 }).toUTC().toISO()!);
     }
     if (past) await addReport(ctx, site, night.id, w, outcomes);
   }
