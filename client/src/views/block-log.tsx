@@ -88,6 +88,32 @@ function TimeField(p: {
   );
 }
 
+function StatusField(p: {
+  ended: boolean;
+  statuses: Status[];
+  value: Status;
+  msg: string | undefined;
+  onChange: (s: Status) => void;
+}) {
+  return (
+    <label class={p.msg ? 'field invalid' : 'field'}>
+      <span>{p.ended ? 'what came of it' : 'status'}</span>
+      <select
+        name="status"
+        value={p.value}
+        onChange={(e) => p.onChange(e.currentTarget.value as Status)}
+      >
+        {p.statuses.map((s) => (
+          <option key={s} value={s}>
+            {s}
+          </option>
+        ))}
+      </select>
+      {p.msg && <span class="field-msg">{p.msg}</span>}
+    </label>
+  );
+}
+
 /** Add one block to the night: what ran, once the night has ended; a block by hand, before. */
 export function AddBlockForm({
   night,
@@ -194,21 +220,13 @@ export function AddBlockForm({
           msg={msgs.endUtc}
           onInput={(x) => set('end', x)}
         />
-        <label class={msgs.status ? 'field invalid' : 'field'}>
-          <span>{ended ? 'what came of it' : 'status'}</span>
-          <select
-            name="status"
-            value={v.status}
-            onChange={(e) => set('status', e.currentTarget.value)}
-          >
-            {statuses.map((s) => (
-              <option key={s} value={s}>
-                {s}
-              </option>
-            ))}
-          </select>
-          {msgs.status && <span class="field-msg">{msgs.status}</span>}
-        </label>
+        <StatusField
+          ended={ended}
+          statuses={statuses}
+          value={v.status}
+          msg={msgs.status}
+          onChange={(x) => set('status', x)}
+        />
         {site?.laserGuideStar && (
           <label class="field">
             <span>laser guide star</span>
@@ -317,21 +335,13 @@ export function BlockEditor({
           msg={msgs.endUtc}
           onInput={(x) => setV({ ...v, end: x })}
         />
-        <label class={msgs.status ? 'field invalid' : 'field'}>
-          <span>{ended ? 'what came of it' : 'status'}</span>
-          <select
-            name="status"
-            value={v.status}
-            onChange={(e) => setV({ ...v, status: e.currentTarget.value as Status })}
-          >
-            {statuses.map((s) => (
-              <option key={s} value={s}>
-                {s}
-              </option>
-            ))}
-          </select>
-          {msgs.status && <span class="field-msg">{msgs.status}</span>}
-        </label>
+        <StatusField
+          ended={ended}
+          statuses={statuses}
+          value={v.status}
+          msg={msgs.status}
+          onChange={(x) => setV({ ...v, status: x })}
+        />
       </div>
       <div class="toolbar">
         <button type="submit" class="primary" disabled={busy}>

@@ -8,7 +8,7 @@ import { useState } from 'preact/hooks';
 import { DateTime } from 'luxon';
 import { api, getAll, type CampaignRow, type NightRow, type Schemas } from '../api/client.ts';
 import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
-import { useChosenCampaign } from '../lib/campaign.ts';
+import { CampaignChoice, useChosenCampaign } from '../lib/campaign.tsx';
 import { plural } from '../lib/words.ts';
 import { ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
@@ -253,23 +253,15 @@ export function NightsView() {
     <div class="view nights">
       <div class="view-head">
         <h1>Nights of {campaign.name}</h1>
-        <label class="inline">
-          Campaign{' '}
-          <select
-            value={campaign.id}
-            onChange={(e) => {
-              setPreview(null);
-              setSelected(null);
-              choose(Number(e.currentTarget.value));
-            }}
-          >
-            {cat.campaigns.map((c) => (
-              <option key={c.id} value={c.id}>
-                {c.name}
-              </option>
-            ))}
-          </select>
-        </label>
+        <CampaignChoice
+          campaigns={cat.campaigns}
+          value={campaign.id}
+          onChoose={(id) => {
+            setPreview(null);
+            setSelected(null);
+            choose(id);
+          }}
+        />
         <p class="muted">
           {campaign.startDate} to {campaign.endDate}. A night is named by the local date of its
           evening. Choose a day to see or change it.

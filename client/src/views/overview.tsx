@@ -9,7 +9,7 @@ import { loadCatalogue, type Catalogue } from '../api/catalogue.ts';
 import { dateText, todayIn, utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
-import { useChosenCampaign } from '../lib/campaign.ts';
+import { CampaignChoice, useChosenCampaign } from '../lib/campaign.tsx';
 import { plural } from '../lib/words.ts';
 
 export type Flag = Schemas['Flag'];
@@ -241,16 +241,7 @@ export function OverviewView() {
     <div class="view overview">
       <div class="view-head">
         <h1>{c.name}</h1>
-        <label class="inline">
-          Campaign{' '}
-          <select value={id} onChange={(e) => setCampaignId(Number(e.currentTarget.value))}>
-            {cat.campaigns.map((x) => (
-              <option key={x.id} value={x.id}>
-                {x.name}
-              </option>
-            ))}
-          </select>
-        </label>
+        <CampaignChoice campaigns={cat.campaigns} value={id} onChoose={setCampaignId} />
         <p class="muted">
           {c.startDate} to {c.endDate} · targets:{' '}
           {c.targetIds.map((t) => cat.target(t)?.name).join(', ')} · {c.notes}

@@ -11,7 +11,7 @@ import type { BlockRow, CampaignRow, NightRow, OrbitEvent } from '../api/client.
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
 import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
-import { useChosenCampaign } from '../lib/campaign.ts';
+import { CampaignChoice, useChosenCampaign } from '../lib/campaign.tsx';
 import { SeasonPlanPanel, type SeasonPlanPreview } from './season-plan.tsx';
 
 /** "Feb 18" for a YYYY-MM-DD date. */
@@ -167,19 +167,7 @@ export function SeasonView() {
       <div class="view-head">
         <h1>Season {y}</h1>
         <div class="toolbar">
-          <label class="inline">
-            Campaign{' '}
-            <select
-              value={campaign.id}
-              onChange={(e) => setCampaignId(Number(e.currentTarget.value))}
-            >
-              {cat.campaigns.map((c) => (
-                <option key={c.id} value={c.id}>
-                  {c.name}
-                </option>
-              ))}
-            </select>
-          </label>
+          <CampaignChoice campaigns={cat.campaigns} value={campaign.id} onChoose={setCampaignId} />
           <label class="inline">
             Year{' '}
             <input

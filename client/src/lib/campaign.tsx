@@ -28,3 +28,27 @@ export function useChosenCampaign(
   };
   return [campaigns?.find((c) => c.id === id) ?? campaigns?.[0], choose];
 }
+
+/** The campaign chooser every campaign view shows (its choice carries to the others). */
+export function CampaignChoice(p: {
+  campaigns: readonly CampaignRow[];
+  value: number;
+  onChoose: (id: number) => void;
+}) {
+  return (
+    <label class="inline">
+      Campaign{' '}
+      <select
+        name="campaign"
+        value={p.value}
+        onChange={(e) => p.onChoose(Number(e.currentTarget.value))}
+      >
+        {p.campaigns.map((c) => (
+          <option key={c.id} value={c.id}>
+            {c.name}
+          </option>
+        ))}
+      </select>
+    </label>
+  );
+}
