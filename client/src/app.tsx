@@ -11,6 +11,7 @@ import { ReportView } from './views/report.tsx';
 import { SeasonView } from './views/season.tsx';
 import { RecordsView } from './views/records.tsx';
 import { SiteView, SitesView } from './views/site.tsx';
+import { TimeRequestView } from './views/time-request.tsx';
 import { NightsView } from './views/nights.tsx';
 
 type Theme = 'night' | 'day';
@@ -25,6 +26,7 @@ function route(path: string) {
   const site = match('/sites/:id', path);
   if (site) return <SiteView id={Number(site.id)} />;
   if (match('/sites', path)) return <SitesView />;
+  if (match('/time-request', path)) return <TimeRequestView />;
   if (match('/nights', path)) return <NightsView />;
   if (match('/season', path)) return <SeasonView />;
   if (match('/records', path)) return <RecordsView />;
@@ -97,6 +99,7 @@ export function App() {
     ['/nights', 'Nights'],
     ['/season', 'Season'],
     ['/sites', 'Sites'],
+    ['/time-request', 'Time request'],
     ['/records', 'Records'],
   ] as const;
   return (

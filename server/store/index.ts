@@ -47,6 +47,7 @@ export { ACCEPT_AT_TOLERANCE_MINUTES } from './views/plan-scope.ts';
 export { NIGHT_CHOICES, WEATHER_CHOICES, type SeasonPlanRequest } from './views/season-plan.ts';
 export type { SeasonDrawsRequest, SeasonDrawsView } from './views/season-draws.ts';
 export type { ReplanPreview, ReplanRequest } from './views/replan.ts';
+export type { TimeRequestInput } from './views/time-request.ts';
 export type { NightScheduleRequest } from './views/night-plan.ts';
 export type {
   AllocationNight,

@@ -21,6 +21,7 @@ import { clearPriorOf, replaceClearPrior } from './repos/clear-priors.ts';
 import { siteStatisticsView } from './views/site-statistics.ts';
 import { seasonPlanDraws } from './views/season-draws.ts';
 import { acceptReplan, previewReplan } from './views/replan.ts';
+import { timeRequestView } from './views/time-request.ts';
 
 // biome-ignore lint/suspicious/noExplicitAny: the first parameter is dropped, whatever its type
 type WithoutFirst<F> = F extends (first: any, ...rest: infer R) => infer O
@@ -50,6 +51,8 @@ export function createStore(database: Database) {
       /** The rest of a season planned again after a night that lost time: preview, then accept. */
       previewReplan: bind(db, previewReplan),
       acceptReplan: bind(context, acceptReplan),
+      /** A semester's time request: hours per site, target and kind, weather allowance, expected results. */
+      timeRequest: bind(db, timeRequestView),
       /** The season plan drawn N times under the learned weather: σ percentiles, coverage. */
       seasonDraws: bind(db, seasonPlanDraws),
       /** When the relativistic terms of a target become detectable with its planned blocks. */

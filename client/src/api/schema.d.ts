@@ -8425,6 +8425,131 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/campaigns/{id}/time-request": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        get?: never;
+        put?: never;
+        /** A semester’s time request: hours per site, target and kind, the weather allowance, and the expected result with and without the time */
+        post: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody: {
+                content: {
+                    "application/json": {
+                        /** @description the semester’s name, 1–40 characters (e.g. 2027A) */
+                        name: string;
+                        /**
+                         * Format: date
+                         * @description first night of the semester
+                         */
+                        startDate: string;
+                        /**
+                         * Format: date
+                         * @description last night of the semester
+                         */
+                        endDate: string;
+                        /**
+                         * @description default "aware"
+                         * @enum {string}
+                         */
+                        weather?: "blind" | "aware";
+                        /** @description the moment of planning; default now */
+                        at?: string;
+                    };
+                };
+            };
+            responses: {
+                /** @description the request, written nowhere */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["TimeRequest"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/fit": {
         parameters: {
             query?: never;
@@ -11422,6 +11547,67 @@ export interface components {
                 weather: "blind" | "aware";
             };
             preview: components["schemas"]["SeasonPlanPreview"];
+        };
+        TimeRequest: {
+            campaignId: number;
+            /** @enum {string} */
+            weather: "blind" | "aware";
+            semester: {
+                name: string;
+                startDate: string;
+                endDate: string;
+            };
+            sites: {
+                site: string;
+                nights: number;
+                hours: number;
+                allowanceHours: number;
+                requestHours: number;
+                clearChance: number;
+                byTarget: {
+                    target: string;
+                    /** @enum {string} */
+                    kind: "astrometry" | "spectroscopy";
+                    blocks: number;
+                    hours: number;
+                    allowanceHours: number;
+                }[];
+            }[];
+            targets: {
+                target: string;
+                hours: number;
+                allowanceHours: number;
+                passage: string | null;
+                periapsisSigmaDays: {
+                    without: number | null;
+                    with: number | null;
+                };
+                massFraction: {
+                    without: number | null;
+                    with: number | null;
+                };
+                coverage: {
+                    withinDays: number;
+                    without: number;
+                    with: number;
+                } | null;
+                factors: {
+                    /** @enum {string} */
+                    name: "redshiftFactor" | "precessionFactor";
+                    without: number | null;
+                    with: number | null;
+                }[];
+                reason: string;
+            }[];
+            totals: {
+                hours: number;
+                allowanceHours: number;
+                requestHours: number;
+                nights: number;
+            };
+            rule: string;
+            /** @description the same, ready to paste into a proposal */
+            markdown: string;
         };
         FitResult: {
             method: string;

@@ -16,6 +16,7 @@ import { forecastCommand } from './forecast.ts';
 import { sitePrecisionCommand } from './site-precision.ts';
 import { siteStatisticsCommand } from './site-statistics.ts';
 import { replanCommand } from './replan.ts';
+import { timeRequestCommand } from './time-request.ts';
 
 export const commands: Record<string, Command> = {
   ephemeris: ephemerisCommand,
@@ -34,4 +35,5 @@ export const commands: Record<string, Command> = {
   'site-precision': sitePrecisionCommand,
   'site-statistics': siteStatisticsCommand,
   replan: replanCommand,
+  'time-request': timeRequestCommand,
 };

@@ -15,6 +15,7 @@ import { nightScheduleRoutes } from './night-schedule.ts';
 import { planRoutes } from './plan.ts';
 import { seasonPlanRoutes } from './season-plan.ts';
 import { replanRoutes } from './replan.ts';
+import { timeRequestRoutes } from './time-request.ts';
 import { siteRoutes } from './sites.ts';
 import { siteStatisticsRoutes } from './site-statistics.ts';
 import { systemRoutes, targetRoutes } from './systems.ts';
@@ -48,7 +49,13 @@ export function storeRoutes(store: Store, run: Runner) {
   ]) {
     app.route('/', routes(store));
   }
-  for (const routes of [exchangeRoutes, seasonPlanRoutes, nightScheduleRoutes, replanRoutes])
+  for (const routes of [
+    exchangeRoutes,
+    seasonPlanRoutes,
+    nightScheduleRoutes,
+    replanRoutes,
+    timeRequestRoutes,
+  ])
     app.route('/', routes(store, run));
   return app;
 }

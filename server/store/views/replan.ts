@@ -69,7 +69,7 @@ async function replanRequest(
   const campaign = await getById(db, campaignEntity, night.campaignId);
   const dayBefore = addDays(jdToIso(atJd).slice(0, 10), -1);
   const after = addDays(night.date, 1);
-  const startDate = after > dayBefore ? after : dayBefore;
+  const startDate = [after, dayBefore].sort()[1]!; // the later of the two dates
   if (startDate > campaign.endDate)
     throw new InputError(
       'nightId',
@@ -77,7 +77,7 @@ async function replanRequest(
       `is the campaign's last night or later (${campaign.endDate}): no nights are left to plan`,
     );
   const last = addDays(startDate, 399);
-  const endDate = request.endDate ?? (campaign.endDate < last ? campaign.endDate : last);
+  const endDate = request.endDate ?? [campaign.endDate, last].sort()[0]!; // the earlier
   return {
     campaignId: night.campaignId,
     night: {
