@@ -4,6 +4,7 @@
  */
 import { acceptAllocations, previewAllocations } from './allocations/allocate.ts';
 import { backupDatabase } from './backup.ts';
+import { readArchive, writeArchive } from './archive.ts';
 import { registerContext, storeContext } from './context.ts';
 import { importCsv, importPreparedMeasurements } from './csv/import.ts';
 import type { Database } from './database.ts';
@@ -89,6 +90,10 @@ export function createStore(database: Database) {
     loadDemo: bind(context, loadDemo),
     /** A consistent copy of a local database file (VACUUM INTO). */
     backup: (path: string) => backupDatabase(database, path),
+    /** Every stored table but the tokens, as JSON rows with their ids (a campaign archive). */
+    archive: () => writeArchive(database),
+    /** An archive written into this database, which must be empty: all of it or nothing. */
+    restoreArchive: (archive: unknown) => readArchive(database, archive),
     url: database.url,
     close: () => database.close(),
   };

@@ -11,11 +11,15 @@ import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 const help = `usage: epochwright export measurements [--target-id <id>] [--json]
        epochwright export ephemeris --target-id <id> --start <epoch> --end <epoch> [--step <duration>] [--json]
        epochwright export calendar --campaign-id <id> [--at <epoch>]
+       epochwright export archive > campaign-archive.json
 
 measurements  CSV in the layout 'epochwright import --kind measurements' reads (or JSON)
 ephemeris     predictions from the target's current orbit solution, CSV (or JSON)
 calendar      the campaign's planned blocks and periapsis passages as iCalendar (RFC 5545), with
               its flags as of --at (ISO 8601, JD, MJD; default now)
+archive       every stored record (systems, targets, orbit solutions with covariance and provenance,
+              sites, campaigns, nights, blocks, night reports, measurements, users, audit trail;
+              no tokens) as JSON, for 'epochwright restore --archive' into an empty database
 
 options:
 ${DATABASE_HELP}
@@ -66,9 +70,11 @@ export const exportCommand: Command = {
             values.at === undefined ? {} : { flagsAtJd: parseEpoch(values.at, '--at') },
           );
         }
+        case 'archive':
+          return `${JSON.stringify(await store.archive())}\n`;
         default:
           throw new UsageError(
-            `export: say measurements, ephemeris or calendar${what ? ` (not ${JSON.stringify(what)})` : ''}`,
+            `export: say measurements, ephemeris, calendar or archive${what ? ` (not ${JSON.stringify(what)})` : ''}`,
           );
       }
     });

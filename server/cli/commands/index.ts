@@ -6,6 +6,7 @@ import { nightCommand } from './night.ts';
 import { seasonCommand } from './season.ts';
 import { accountCommand } from './account.ts';
 import { backupCommand } from './backup.ts';
+import { restoreCommand } from './restore.ts';
 import { importCommand } from './import.ts';
 import { exportCommand } from './export.ts';
 import { flagsCommand } from './flags.ts';
@@ -25,6 +26,7 @@ export const commands: Record<string, Command> = {
   season: seasonCommand,
   account: accountCommand,
   backup: backupCommand,
+  restore: restoreCommand,
   import: importCommand,
   export: exportCommand,
   flags: flagsCommand,
