@@ -50,6 +50,7 @@ it('a store hands out repositories and views, never the database handle', async 
   try {
     expect(Object.keys(s).sort()).toEqual([
       'allocations',
+      'archive',
       'audit',
       'backup',
       'blocks',
@@ -66,6 +67,7 @@ it('a store hands out repositories and views, never the database handle', async 
       'nights',
       'orbitSolutions',
       'plans',
+      'restoreArchive',
       'siteWeather',
       'sites',
       'storedSky',
