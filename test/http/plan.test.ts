@@ -1,6 +1,6 @@
 /**
  * The planning endpoint and CLI on the demo campaign: its headline star (invented) passes periapsis
- * about six and a half months after the clock (server/store/demo/scenario.ts), so it is flagged now.
+ * about seven months after the clock (server/store/demo/scenario.ts), so it is flagged now.
  */
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';

@@ -1,6 +1,6 @@
 /**
  * The demo is alive on any date: loaded at three different moments (the suite's frozen clock, a year
- * and five years later), it shows its headline star's periapsis ahead, about six and a half months
+ * and five years later), it shows its headline star's periapsis ahead, about seven months
  * out, with a finite ± from the solution fitted to the demo's own measurements, a past season of
  * nights with reports (some time lost) behind the moment and allocated nights ahead at both sites.
  */

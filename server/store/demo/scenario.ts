@@ -18,21 +18,21 @@ import type { OrbitInput } from '../../science/orbit/index.ts';
 import { jdToIso, parseEpoch } from '../../science/time/index.ts';
 
 /** The day the scenario's offsets were drawn up for; any other anchor shifts it as a whole. */
-const DESIGNED_ON = '2026-12-01';
+export const DESIGNED_ON = '2026-12-01';
 
 /** The demo's calendar, in days from the anchor day (negative: before). */
 export const DEMO_DAYS = {
-  /** Ilex's periapsis (at 06:00 UTC), about six and a half months ahead. */
-  periapsis: 195,
+  /** Ilex's periapsis (at 06:00 UTC), about seven months ahead. */
+  periapsis: 213,
   passageCampaign: { start: -275, end: 334 },
   binaryCampaign: { start: -61, end: 150 },
   /** The past season at Tolvane Ridge, every 14 nights. */
   pastSeason: { start: -241, end: -66, step: 14 },
   /** The coming season at Tolvane Ridge, every 14 nights, and every 7 within a month of periapsis. */
-  comingSeason: { start: 95, end: 298, step: 14 },
-  densified: { start: 165, end: 226, step: 7 },
+  comingSeason: { start: 109, end: 298, step: 14 },
+  densified: { start: 183, end: 244, step: 7 },
   /** Spectroscopy of Ilex at Ostrel Summit, every 28 nights. */
-  secondSite: { start: 123, end: 270, step: 28 },
+  secondSite: { start: 141, end: 288, step: 28 },
   /** The Lantern Pair at Ostrel Summit, every 21 nights, around the anchor. */
   binarySeason: { start: -52, end: 144, step: 21 },
   /** Seven weeks of bad weather in the past season: most of its nights are lost. */
@@ -43,6 +43,8 @@ export const DEMO_DAYS = {
 export interface DemoAnchor {
   /** The anchor day, YYYY-MM-DD (UTC). */
   today: string;
+  /** Julian Date of the anchor day's 0h UTC: what the kept demo fits count their periapsis from. */
+  dayJd: number;
   day: (offset: number) => string;
   /** An ISO 8601 instant `years` Julian years from the anchor day's noon UTC. */
   yearsFrom: (years: number) => string;
@@ -57,6 +59,7 @@ export function demoAnchor(nowIso: string): DemoAnchor {
   const noonJd = parseEpoch(`${today}T12:00:00Z`);
   return {
     today,
+    dayJd: noonJd - 0.5,
     day: (offset) => base.plus({ days: offset }).toISODate()!,
     yearsFrom: (years) => jdToIso(noonJd + years * JULIAN_YEAR_DAYS),
     raShiftDeg: ((((days / JULIAN_YEAR_DAYS) % 1) + 1) % 1) * 360,
