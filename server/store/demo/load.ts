@@ -3,18 +3,13 @@
  * systems, targets, sites, two campaigns, seasons of nights with blocks, night reports for the
  * nights already past (some lost, some cut short), measurements made from the scenario's orbits
  * with invented errors, and for every star two orbit-solution versions: the scenario's orbit as
- * entered, and the orbit engine's own fit to the demo measurements (current, with covariance).
+ * entered, and the orbit engine's own fit to the demo measurements (current, with covariance;
+ * kept in the repository relative to the anchor, see fits.ts).
  */
 import type { BlockKind } from '../../../descriptors/measurement-kinds.ts';
 import { SiderealTime } from 'astronomy-engine';
 import { DateTime } from 'luxon';
-import {
-  predict,
-  toCampbellInput,
-  validateOrbit,
-  type OrbitInput,
-} from '../../science/orbit/index.ts';
-import { fitOrbits, type FitRequest } from '../../science/orbit/fit/index.ts';
+import { predict, validateOrbit, type OrbitInput } from '../../science/orbit/index.ts';
 import {
   TWILIGHT_SUN_ALTITUDE_DEG,
   darknessExact,
@@ -31,8 +26,8 @@ import type { DbOrTx } from '../database.ts';
 import type { StoreContext } from '../context.ts';
 import type { SiteRow } from '../repos/sites.ts';
 import type { MeasurementRow } from '../repos/measurements.ts';
-import { toInput } from '../fits.ts';
 import { replaceClearPriorIn } from '../repos/clear-priors.ts';
+import { demoSolutions } from './fits.ts';
 import {
   DEMO_DAYS,
   HEADLINE,
@@ -67,7 +62,7 @@ function noise(seed: number) {
  * Where to start a night's run of blocks lasting `minutes`: centred on the transit of `raDeg`
  * nearest local midnight, then moved inside astronomical darkness (the sky engine's Sun search).
  */
-export function runStart(site: SiteRow, date: string, raDeg: number, minutes: number): DateTime {
+function runStart(site: SiteRow, date: string, raDeg: number, minutes: number): DateTime {
   const midnight = DateTime.fromISO(`${date}T00:00`, { zone: site.timeZone }).plus({ days: 1 });
   const lstHours = SiderealTime(midnight.toJSDate()) + site.longitudeDeg / 15;
   const ha = (((((lstHours - raDeg / 15) % 24) + 36) % 24) - 12) * 0.99727; // hours, sidereal to solar
@@ -108,6 +103,8 @@ interface Plan {
 export interface DemoOptions {
   /** The moment the scenario is built around (ISO 8601); nights before its day get reports. Default: the clock. */
   now?: string;
+  /** Run the fits now instead of shifting the kept ones (fits.ts) to the anchor: what `npm run demo-fits` keeps. */
+  fitNow?: boolean;
 }
 
 /** Every night of a range given in days from the anchor. */
@@ -195,7 +192,7 @@ export async function loadDemo(
     for (const plan of demoPlans(anchor, campaigns, stars, lanternB))
       await loadPlan(ctx, sites[plan.siteIndex]!, plan);
     await earlierEpochs(ctx, stars, lanternB);
-    await storeFits(ctx, stars, lanternB);
+    await storeFits(ctx, stars, lanternB, options.fitNow ?? false);
   });
   return counts;
 }
@@ -454,55 +451,28 @@ async function earlierEpochs(ctx: LoadContext, stars: Star[], lanternB: Star): P
     );
 }
 
-/**
- * The orbit engine's fits to the demo measurements, stored as each target's current solution
- * (provenance "fitted", with covariance): the Vesper Core stars jointly (shared mass, distance and
- * γ), the Lantern Pair alone at its stated distance. Started from the entered orbits, as a stored
- * fit is.
- */
-async function storeFits(ctx: LoadContext, stars: Star[], lanternB: Star): Promise<void> {
-  const star = (s: Star) => ({
-    name: s.target.name,
-    measurements: (ctx.made.get(s.target.id) ?? []).map(toInput),
-    // Search near the entered orbit only (as a stored fit's defaults do, but narrower, for a quick load).
-    hints: {
-      periodYears: {
-        min: 0.97 * s.orbit.elements.periodYears!,
-        max: 1.03 * s.orbit.elements.periodYears!,
-      },
-      eccentricity: {
-        min: Math.max(0, s.orbit.elements.eccentricity! - 0.05),
-        max: Math.min(0.97, s.orbit.elements.eccentricity! + 0.05),
-      },
-      start: {
-        elements: toCampbellInput(validateOrbit(s.orbit)),
-        ...(s.orbit.distancePc ? { distancePc: s.orbit.distancePc } : {}),
-        systemicVelocityKmS: s.orbit.systemicVelocityKmS ?? 0,
-      },
-    },
-  });
-  const [headline, ...others] = stars;
-  const fits: [Star[], FitRequest][] = [
-    [[headline!], { stars: [star(headline!)], relativity: { ...headline!.orbit.relativity } }],
-    ...others.map((s): [Star[], FitRequest] => [
-      [s],
-      { stars: [star(s)], fixed: { distancePc: s.orbit.distancePc! } },
-    ]),
-    [[lanternB], { stars: [star(lanternB)], fixed: { distancePc: lanternB.orbit.distancePc! } }],
-  ];
-  for (const [group, request] of fits) {
-    const result = fitOrbits(request);
-    const reference = `demo fit at load: χ² = ${result.chi2.toFixed(1)} for ${result.dof} degrees of freedom`;
-    for (const [k, s] of group.entries())
+/** Each star's fitted solution (fits.ts), stored as its current one. */
+async function storeFits(
+  ctx: LoadContext,
+  stars: Star[],
+  lanternB: Star,
+  fitNow: boolean,
+): Promise<void> {
+  const all = [...stars, lanternB];
+  const made = (s: Star) => ctx.made.get(s.target.id) ?? [];
+  const fitStars = all.map((s) => ({ name: s.target.name, orbit: s.orbit, measurements: made(s) }));
+  for (const { reference, solutions } of demoSolutions(fitStars, ctx.anchor, fitNow))
+    for (const { name, orbit } of solutions) {
+      const s = all.find((t) => t.target.name === name)!;
       await ctx.store.orbitSolutions.createIn(ctx.tx, ctx.actor, {
         targetId: s.target.id,
-        orbit: result.stars[k]!.orbit,
+        orbit,
         provenance: 'fitted',
-        fittedFrom: (ctx.made.get(s.target.id) ?? []).map((m) => m.id),
+        fittedFrom: made(s).map((m) => m.id),
         reference,
         makeCurrent: true,
       });
-  }
+    }
 }
 
 async function addMeasurement(
