@@ -16,7 +16,7 @@ import { fitRoutes } from './fit.ts';
 import { storeRoutes } from './resources/index.ts';
 import { mountClient } from './client-static.ts';
 import type { Store } from '../store/index.ts';
-import { validationHook } from './validation.ts';
+import { unknownQueryCheck, validationHook } from './validation.ts';
 import { responseCheck } from './response-check.ts';
 
 export const VERSION = '0.1.0';
@@ -85,6 +85,7 @@ export function createApp(options: AppOptions = {}) {
   );
   if (options.checkResponses ?? process.env.EPOCHWRIGHT_CHECK_RESPONSES === '1')
     app.use('/api/*', responseCheck(app));
+  app.use('/api/*', unknownQueryCheck(app));
   const bodyLimits = bodyLimitsFor(options);
   app.use('/api/*', (c, next) =>
     (c.req.path.startsWith('/api/imports/') ? bodyLimits.imports : bodyLimits.other)(c, next),

@@ -9,25 +9,15 @@ import type { OpenAPIHono, z } from '@hono/zod-openapi';
 import type { Env, MiddlewareHandler } from 'hono';
 import { matchedRoutes } from 'hono/route';
 import { HttpError, errorResponse } from './errors.ts';
+import { routeKey, routeTable, type RouteTable } from './route-table.ts';
 
 type Responses = Record<string, { content?: Record<string, { schema?: unknown }> }>;
-
-/** `POST /api/targets/:id/fit` → the route's responses, from the registry of the mounted app. */
-function routeTable<E extends Env>(app: OpenAPIHono<E>): Map<string, Responses> {
-  const table = new Map<string, Responses>();
-  for (const def of app.openAPIRegistry.definitions) {
-    if (def.type !== 'route') continue;
-    const path = def.route.path.replaceAll(/\{([^}]+)\}/g, ':$1');
-    table.set(`${def.route.method.toUpperCase()} ${path}`, def.route.responses as Responses);
-  }
-  return table;
-}
 
 const isZod = (s: unknown): s is z.ZodType =>
   typeof s === 'object' && s !== null && 'safeParse' in s;
 
 export function responseCheck<E extends Env>(app: OpenAPIHono<E>): MiddlewareHandler {
-  let table: Map<string, Responses> | undefined;
+  let table: RouteTable | undefined;
   return async (c, next) => {
     await next();
     const type = c.res.headers.get('content-type') ?? '';
@@ -35,7 +25,8 @@ export function responseCheck<E extends Env>(app: OpenAPIHono<E>): MiddlewareHan
     const route = matchedRoutes(c)[c.req.routeIndex];
     if (!route) return;
     table ??= routeTable(app);
-    const declared = table.get(`${route.method} ${route.path}`)?.[String(c.res.status)];
+    const responses = table.get(routeKey(route))?.responses as Responses | undefined;
+    const declared = responses?.[String(c.res.status)];
     const schema = declared?.content?.['application/json']?.schema;
     if (!isZod(schema)) return;
     const result = schema.safeParse(await c.res.clone().json());

@@ -1,9 +1,11 @@
 /**
- * Turns zod's verdict on a request into our 400 error with field-level details.
+ * A request's shape is checked here: zod's verdict on its parts becomes our 400 with field-level
+ * details, and a query parameter its route does not declare is refused the same way.
  */
-import type { Context } from 'hono';
-import type { z } from '@hono/zod-openapi';
+import type { Context, Env, MiddlewareHandler } from 'hono';
+import type { OpenAPIHono, RouteConfig, z } from '@hono/zod-openapi';
 import { HttpError } from './errors.ts';
+import { declaredRoute, routeTable, type RouteTable } from './route-table.ts';
 
 interface Issue {
   path: PropertyKey[];
@@ -47,4 +49,51 @@ export function validationHook(
     const more = issues.length > 1 ? ` (and ${issues.length - 1} more)` : '';
     throw new HttpError(400, 'invalid_request', `${first.field}: ${first.rule}${more}`, { issues });
   }
+}
+
+/** Query parameters renamed in our own words: the old name is refused with the new one named. */
+const RENAMED_PARAMETERS: Record<string, string> = { from: 'start', to: 'end', every: 'step' };
+
+/** The query parameters a route declares (none when it declares no query). */
+function acceptedParameters(route: RouteConfig): string[] {
+  const query = route.request?.query as { shape?: Record<string, unknown> } | undefined;
+  return Object.keys(query?.shape ?? {}).sort();
+}
+
+/**
+ * Refuses, with a 400 naming it and the accepted ones, a query parameter the matched route does not
+ * declare: `?campaignId=3` on an export, or an old name such as `from`, would otherwise be ignored
+ * and the answer would cover more than was asked. Runs before sign-in and before any work.
+ */
+export function unknownQueryCheck<E extends Env>(app: OpenAPIHono<E>): MiddlewareHandler {
+  let table: RouteTable | undefined;
+  return async (c, next) => {
+    table ??= routeTable(app);
+    const route = declaredRoute(c, table);
+    const names = route ? [...new URL(c.req.url).searchParams.keys()] : [];
+    if (route && names.length > 0) {
+      const accepted = acceptedParameters(route);
+      const unknown = [...new Set(names)].filter((n) => !accepted.includes(n));
+      if (unknown.length > 0) {
+        const where = `${route.method.toUpperCase()} ${route.path}`;
+        const list = accepted.length > 0 ? `accepted: ${accepted.join(', ')}` : 'it takes none';
+        const issues = unknown.map((n) => ({
+          field: n,
+          rule: `is not a query parameter of ${where}${RENAMED_PARAMETERS[n] && accepted.includes(RENAMED_PARAMETERS[n]) ? ` (renamed: use ${RENAMED_PARAMETERS[n]})` : ''}; ${list}`,
+          code: 'unknown_parameter',
+        }));
+        const more = issues.length > 1 ? ` (and ${issues.length - 1} more)` : '';
+        throw new HttpError(
+          400,
+          'invalid_request',
+          `${issues[0]!.field}: ${issues[0]!.rule}${more}`,
+          {
+            issues,
+            accepted,
+          },
+        );
+      }
+    }
+    await next();
+  };
 }

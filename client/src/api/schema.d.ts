@@ -7108,6 +7108,8 @@ export interface paths {
                 query?: {
                     /** @description the moment the flags are computed for (ISO 8601 with zone, JD, MJD); default now */
                     at?: string;
+                    /** @description a token, for calendar programs that cannot send an Authorization header */
+                    token?: string;
                 };
                 header?: never;
                 path: {
@@ -10140,6 +10142,8 @@ export interface components {
             problems?: {
                 [key: string]: unknown;
             }[];
+            /** @description 400 on an unknown query parameter: the ones the route takes */
+            accepted?: string[];
             /** @description 404: the kind of record */
             entity?: string;
             /** @description 404: its id */

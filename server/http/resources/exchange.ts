@@ -34,6 +34,11 @@ const CalendarQuery = z.object({
   at: z.string().optional().openapi({
     description: 'the moment the flags are computed for (ISO 8601 with zone, JD, MJD); default now',
   }),
+  // Read by sign-in (auth.ts) for calendar programs, which cannot send a header; declared here so
+  // the query check accepts it and the document shows it.
+  token: z.string().optional().openapi({
+    description: 'a token, for calendar programs that cannot send an Authorization header',
+  }),
 });
 const KindParam = z.object({
   kind: z.enum(CSV_KINDS).openapi({ param: { name: 'kind', in: 'path' } }),

@@ -26,6 +26,10 @@ export const ErrorDetailsSchema = z
       .array(z.record(z.string(), z.unknown()))
       .optional()
       .openapi({ description: '422 on a batch: every row’s problem' }),
+    accepted: z
+      .array(z.string())
+      .optional()
+      .openapi({ description: '400 on an unknown query parameter: the ones the route takes' }),
     entity: z.string().optional().openapi({ description: '404: the kind of record' }),
     id: z.union([z.number(), z.string()]).optional().openapi({ description: '404: its id' }),
   })
