@@ -14,6 +14,7 @@ import type { CampbellInput, OrbitInput } from '../../science/orbit/index.ts';
 import { toCampbellInput, validateOrbit } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import type { MeasurementRow } from '../repos/measurements.ts';
+import { describeKind } from '../../../descriptors/measurement-kinds.ts';
 import { toInput } from '../fits.ts';
 import type { DemoAnchor } from './scenario.ts';
 import { KEPT_FITS } from './kept-fits.ts';
@@ -25,9 +26,17 @@ export interface FitStar {
   measurements: MeasurementRow[];
 }
 
+/**
+ * A measurement as a kept fit saw it: its kind, its epoch in days from the anchor day's 0h UTC,
+ * and its values in their kind's units (descriptors/measurement-kinds.ts order).
+ */
+export type KeptPoint = [kind: MeasurementRow['kind'], days: number, ...values: number[]];
+
 /** A fitted solution with its periapsis counted in days from the anchor day's 0h UTC. */
 export interface KeptSolution {
   name: string;
+  /** The measurements it was fitted to, so a load can tell whether it still fits its own. */
+  data: KeptPoint[];
   periapsisDaysFromAnchor: number;
   orbit: Omit<OrbitInput, 'elements'> & { elements: Omit<CampbellInput, 'periapsis'> };
 }
@@ -90,6 +99,7 @@ export function fitDemo(stars: FitStar[], anchor: DemoAnchor): KeptFits {
         const { periapsis, ...elements } = s.orbit.elements as CampbellInput;
         return {
           name: s.name,
+          data: stars.find((t) => t.name === s.name)!.measurements.map((m) => keptPoint(m, anchor)),
           periapsisDaysFromAnchor: parseEpoch(periapsis) - anchor.dayJd,
           orbit: { ...s.orbit, elements },
         };
@@ -97,6 +107,37 @@ export function fitDemo(stars: FitStar[], anchor: DemoAnchor): KeptFits {
     };
   });
   return { anchorDay: anchor.today, fits };
+}
+
+/** A stored measurement as a kept fit records it. */
+function keptPoint(m: MeasurementRow, anchor: DemoAnchor): KeptPoint {
+  const row = m as unknown as Record<string, number>;
+  const values = describeKind(m.kind).values.map((v) => row[v.field]!);
+  return [m.kind, m.epochJd - anchor.dayJd, ...values];
+}
+
+/** Epochs within this of the kept ones: the blocks follow each night's darkness, by minutes. */
+const SAME_EPOCH_DAYS = 0.05;
+/** Values within this fraction of their σ of the kept ones. */
+const SAME_VALUE_SIGMA = 0.05;
+
+/**
+ * Whether a star's measurements at this anchor are, to the tolerances above, the ones its kept fit
+ * was made from. They are not when a limit closes different blocks (the Moon keeps its own
+ * calendar, not the anchor's), and then the star is fitted at load instead.
+ */
+function sameData(kept: KeptPoint[], rows: MeasurementRow[], anchor: DemoAnchor): boolean {
+  if (kept.length !== rows.length) return false;
+  return rows.every((m, i) => {
+    const [kind, days, ...values] = kept[i]!;
+    const [, nowDays, ...nowValues] = keptPoint(m, anchor);
+    if (kind !== m.kind || Math.abs(days - nowDays) > SAME_EPOCH_DAYS) return false;
+    return describeKind(m.kind).values.every((v, k) => {
+      let d = nowValues[k]! - values[k]!;
+      if (v.field === 'positionAngleDeg') d -= 360 * Math.round(d / 360);
+      return Math.abs(d) <= SAME_VALUE_SIGMA * (m as unknown as Record<string, number>)[v.sigma]!;
+    });
+  });
 }
 
 /** A kept fit's solutions as orbit inputs at this anchor, with the reference to store beside them. */
@@ -116,23 +157,31 @@ export function keptSolutions(kept: KeptFits, anchor: DemoAnchor, origin: string
   }));
 }
 
+const KEPT_ORIGIN = 'demo fit, kept relative to the anchor day (npm run demo-fits)';
+const AT_LOAD = 'demo fit at load';
+
 /**
- * The solutions to store as current: the kept fits shifted to the anchor (default), or fits run now.
+ * The solutions to store as current, fit by fit: the kept one shifted to the anchor where its stars'
+ * measurements are the ones it was made from, otherwise the fit run now; `fitNow` runs them all.
  * @throws Error when the kept fits do not cover the scenario's stars (run `npm run demo-fits`)
  */
 export function demoSolutions(stars: FitStar[], anchor: DemoAnchor, fitNow: boolean) {
-  const out = fitNow
-    ? keptSolutions(fitDemo(stars, anchor), anchor, 'demo fit at load')
-    : keptSolutions(
-        KEPT_FITS,
-        anchor,
-        'demo fit, kept relative to the anchor day (npm run demo-fits)',
-      );
-  const names = out.flatMap((f) => f.solutions.map((s) => s.name)).sort();
+  const keptNames = KEPT_FITS.fits.flatMap((f) => f.stars.map((s) => s.name)).sort();
   const wanted = stars.map((s) => s.name).sort();
-  if (names.join() !== wanted.join())
+  if (!fitNow && keptNames.join() !== wanted.join())
     throw new Error(
-      `the kept demo fits cover ${names.join(', ')} but the scenario has ${wanted.join(', ')}: run npm run demo-fits`,
+      `the kept demo fits cover ${keptNames.join(', ')} but the scenario has ${wanted.join(', ')}: run npm run demo-fits`,
     );
-  return out;
+  const fits = fitNow ? [] : KEPT_FITS.fits;
+  const still = fits.filter((f) =>
+    f.stars.every((k) =>
+      sameData(k.data, stars.find((s) => s.name === k.name)!.measurements, anchor),
+    ),
+  );
+  const keptStars = new Set(still.flatMap((f) => f.stars.map((s) => s.name)));
+  const fresh = stars.filter((s) => !keptStars.has(s.name));
+  return [
+    ...keptSolutions({ anchorDay: KEPT_FITS.anchorDay, fits: still }, anchor, KEPT_ORIGIN),
+    ...(fresh.length > 0 ? keptSolutions(fitDemo(fresh, anchor), anchor, AT_LOAD) : []),
+  ];
 }

@@ -188,7 +188,22 @@ export async function loadDemo(
         })),
       );
     const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
-    const ctx = { store, tx, actor, rnd, made, counts, anchor, usedNights: new Set<string>() };
+    const perTarget = new Map<number, ReturnType<typeof noise>>();
+    const errors = (id: number) => {
+      if (!perTarget.has(id)) perTarget.set(id, noise(20261201 + 7919 * id));
+      return perTarget.get(id)!;
+    };
+    const ctx = {
+      store,
+      tx,
+      actor,
+      rnd,
+      errors,
+      made,
+      counts,
+      anchor,
+      usedNights: new Set<string>(),
+    };
     for (const plan of demoPlans(anchor, campaigns, stars, lanternB))
       await loadPlan(ctx, sites[plan.siteIndex]!, plan);
     await earlierEpochs(ctx, stars, lanternB);
@@ -202,6 +217,11 @@ interface LoadContext {
   tx: DbOrTx;
   actor: Actor;
   rnd: ReturnType<typeof noise>;
+  /**
+   * Each target's own measurement errors: a block the limits close at one anchor and not at another
+   * changes that target's later errors only, so the other stars keep their kept fits (fits.ts).
+   */
+  errors: (targetId: number) => ReturnType<typeof noise>;
   made: Made;
   counts: Counts;
   anchor: DemoAnchor;
@@ -482,7 +502,7 @@ async function addMeasurement(
   kind: BlockKind,
   epoch: string,
 ): Promise<void> {
-  const { rnd } = ctx;
+  const rnd = ctx.errors(t.id);
   const p = predict(validateOrbit(t.orbit), unixMsToJd(Date.parse(epoch)));
   const round = (x: number, d: number) => Number(x.toFixed(d));
   const base = { targetId: t.id, blockId, epoch };
