@@ -55,7 +55,7 @@ export interface KeptFits {
 }
 
 /** The demo's fits: one per star, the headline star with its relativistic terms. */
-export function demoFitRequests(stars: FitStar[]): { names: string[]; request: FitRequest }[] {
+function demoFitRequests(stars: FitStar[]): { names: string[]; request: FitRequest }[] {
   const star = (s: FitStar) => ({
     name: s.name,
     measurements: s.measurements.map(toInput),
@@ -141,7 +141,7 @@ function sameData(kept: KeptPoint[], rows: MeasurementRow[], anchor: DemoAnchor)
 }
 
 /** A kept fit's solutions as orbit inputs at this anchor, with the reference to store beside them. */
-export function keptSolutions(kept: KeptFits, anchor: DemoAnchor, origin: string) {
+function keptSolutions(kept: KeptFits, anchor: DemoAnchor, origin: string) {
   return kept.fits.map((fit) => ({
     reference: `${origin}: χ² = ${fit.chi2.toFixed(1)} for ${fit.dof} degrees of freedom`,
     solutions: fit.stars.map((s) => ({
