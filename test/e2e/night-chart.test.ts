@@ -34,15 +34,21 @@ async function screenX(page: Page, vis: Visibility) {
   return (ms: number) => box.x + k * (left + ((ms - t0) / (t1 - t0)) * (right - left));
 }
 
-/** A demo night with at least one window and one block. */
+/**
+ * A demo night ahead with the Vesper Core stars, one window and one block: ahead, because only a night that has
+ * not ended can be scheduled (a night that has ended is recorded instead).
+ */
 async function nightWithWindows(): Promise<{ id: number; vis: Visibility; blocks: BlockRow[] }> {
   const nights = (
-    await api<{ items: { id: number; siteId: number; date: string }[] }>('/nights?limit=500')
+    await api<{ items: { id: number; siteId: number; date: string }[] }>(
+      `/nights?start=${TEST_NOW.slice(0, 10)}&limit=500`,
+    )
   ).items;
   for (const n of nights.slice(0, 60)) {
     const vis = await api<Visibility>(`/nights/${n.id}/visibility?curves=true`);
     const blocks = (await api<{ items: BlockRow[] }>(`/blocks?nightId=${n.id}`)).items;
-    if (blocks.length && vis.targets.some((t) => t.windows.length))
+    const vesper = vis.targets.filter((t) => t.name.includes('Vesper Core'));
+    if (blocks.length && vesper.length > 1 && vesper.some((t) => t.windows.length))
       return { id: n.id, vis, blocks };
   }
   throw new Error('no demo night with a window and a block');
@@ -199,7 +205,7 @@ describe('the night chart', () => {
       .screenshot({ path: join(SCREENSHOTS, 'night-chart-detail.png') });
 
     // The UTC clock: hour labels on whole UTC hours.
-    await page.locator('select[name=clock]').selectOption('utc');
+    await page.locator('#night-chart select[name=clock]').selectOption('utc');
     await page.locator('svg.night-chart .time-axis[data-zone=UTC]').waitFor();
     const tick = page.locator('svg.night-chart .time-axis text[data-ms]').first();
     const ms = Number(await tick.getAttribute('data-ms'));

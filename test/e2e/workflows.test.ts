@@ -216,8 +216,10 @@ describe('night scheduler', () => {
     await expect
       .poll(() => page.locator(`tr[data-proposed="${ids[0]}"]`).textContent())
       .toContain('pinned');
-    // Move the last one 15 minutes later (which pins it there); the rest is re-scheduled around both.
-    const last = ids[ids.length - 1]!;
+    // Move the second one 15 minutes later (which pins it there); the rest is re-scheduled around
+    // both. Not the last: on this demo night the last one sets past the campaign's airmass limit
+    // (1.8) within 15 minutes, and that move is refused.
+    const last = ids[Math.min(1, ids.length - 1)]!;
     const before = await page.locator(`tr[data-proposed="${last}"] td`).nth(1).textContent();
     await page.getByRole('button', { name: `move ${last} 15 minutes later and pin it` }).click();
     await expect

@@ -46,16 +46,26 @@ export interface NightReasonDetail {
 const f1 = (x: number | undefined) => (x === undefined ? '?' : x.toFixed(1));
 const f0 = (x: number | undefined) => (x === undefined ? '?' : x.toFixed(0));
 
+/** Whether the words speak of a whole night (why it has no epoch) or of one block's span (a pin). */
+export type ReasonSpan = 'night' | 'block';
+const WHEN: Record<ReasonSpan, { all: string; high: string }> = {
+  night: { all: 'all through darkness', high: 'whenever it is high enough' },
+  block: { all: 'during the block', high: 'during the block' },
+};
+
 /** The one wording table. `c` gives the limits' values; it is null for a night with no grid. */
-const WORDS: Record<NightReason, (d: NightReasonDetail, c: Limits | null) => string> = {
+const WORDS: Record<
+  NightReason,
+  (d: NightReasonDetail, c: Limits | null, span: ReasonSpan) => string
+> = {
   'not-allocated': () => 'no allocated night',
   'no-darkness': (_, c) => `no darkness (${c?.darknessLabel ?? 'Sun never below the limit'})`,
-  altitude: (_, c) =>
-    `below the altitude limit (${c ? c.altitudeLimitDeg.toFixed(1) : '?'}°) all through darkness`,
-  airmass: (_, c) => `above the airmass limit (${c?.highestAirmass ?? '?'}) all through darkness`,
-  'horizon-mask': () => 'behind the horizon mask whenever it is high enough',
-  moon: (d, c) =>
-    `the Moon (${f0(d.moonDistanceDeg)}° away, limit ${c?.leastMoonDistanceDeg ?? '?'}°) whenever it is high enough`,
+  altitude: (_, c, w) =>
+    `below the altitude limit (${c ? c.altitudeLimitDeg.toFixed(1) : '?'}°) ${WHEN[w].all}`,
+  airmass: (_, c, w) => `above the airmass limit (${c?.highestAirmass ?? '?'}) ${WHEN[w].all}`,
+  'horizon-mask': (_, _c, w) => `behind the horizon mask ${WHEN[w].high}`,
+  moon: (d, c, w) =>
+    `the Moon (${f0(d.moonDistanceDeg)}° away, limit ${c?.leastMoonDistanceDeg ?? '?'}°) ${WHEN[w].high}`,
   'sun-distance': (d, c) =>
     `inside the Sun-avoidance angle (${f0(d.sunDistanceDeg)}° from the Sun, limit ${c?.leastSunDistanceDeg ?? '?'}°)`,
   'too-short': (d) =>
@@ -75,8 +85,12 @@ const CUT_WORDS = {
 };
 
 /** Plain words for a reason. */
-export function nightReasonWords(d: NightReasonDetail, c: Limits | null): string {
-  return WORDS[d.reason](d, c);
+export function nightReasonWords(
+  d: NightReasonDetail,
+  c: Limits | null,
+  span: ReasonSpan = 'night',
+): string {
+  return WORDS[d.reason](d, c, span);
 }
 
 /** Whether the altitude limit is set by the airmass limit rather than by a fixed altitude. */

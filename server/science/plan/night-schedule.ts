@@ -346,7 +346,7 @@ function readPins(
       throw new InputError(
         `${p}.start`,
         r.start,
-        `would put ${c.id} where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : `is closed by ${nightReasonWords(edgeReason(bad, grid, c.grid), grid.limits)}`}${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
+        `would put the ${c.targetName} ${c.kind} block where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : `is closed by ${nightReasonWords(edgeReason(bad, grid, c.grid), grid.limits, 'block')}`}${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
       );
     }
     const over = clash(c, s);
@@ -354,7 +354,7 @@ function readPins(
       throw new InputError(
         `${p}.start`,
         r.start,
-        `would put ${c.id} over ${over.label} (or inside the changeover gap around it), which stays on the night`,
+        `would put the ${c.targetName} ${c.kind} block over ${over.label} (or inside the changeover gap around it), which stays on the night`,
       );
     return { candidate: c, start: s };
   });
