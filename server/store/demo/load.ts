@@ -143,56 +143,8 @@ export async function loadDemo(
   const anchor = demoAnchor(options.now ?? nowIso());
   const counts: Counts = { nights: 0, blocks: 0, reports: 0, measurements: 0 };
   await store.db.transaction(async (tx) => {
-    const rnd = noise(20261201);
-    const made: Made = new Map();
-    const vesper = await store.systems.createIn(tx, actor, vesperSystem(anchor));
-    const lantern = await store.systems.createIn(tx, actor, lanternSystem(anchor));
-    const stars: Star[] = [];
-    for (const s of VESPER_STARS) {
-      const target = await store.targets.createIn(tx, actor, {
-        systemId: vesper.id,
-        name: s.name,
-        magnitude: s.magnitude,
-        band: s.band,
-      });
-      stars.push({
-        target,
-        orbit: vesperOrbit(s, anchor),
-        raDeg: vesper.raDeg,
-        decDeg: vesper.decDeg,
-      });
-    }
-    const lanternB = {
-      target: await store.targets.createIn(tx, actor, {
-        systemId: lantern.id,
-        name: 'Lantern B',
-        magnitude: 7.9,
-        band: 'V',
-      }),
-      orbit: lanternOrbit(anchor),
-      raDeg: lantern.raDeg,
-      decDeg: lantern.decDeg,
-    };
-    for (const { target, orbit } of [...stars, lanternB])
-      await store.orbitSolutions.createIn(tx, actor, {
-        targetId: target.id,
-        orbit,
-        provenance: 'entered',
-        reference: 'demo scenario (invented): the orbit the measurements were drawn from',
-      });
-    const sites = [];
-    for (const s of SITES) sites.push(await store.sites.createIn(tx, actor, s));
-    for (const [i, site] of sites.entries())
-      await replaceClearPriorIn(
-        tx,
-        actor,
-        site.id,
-        DEMO_CLEAR_PRIORS[i]!.map((clearFraction, m) => ({
-          month: m + 1,
-          clearFraction,
-          strengthNights: DEMO_PRIOR_STRENGTH,
-        })),
-      );
+    const { stars, lanternB } = await demoCatalogue(store, tx, actor, anchor);
+    const sites = await demoSites(store, tx, actor);
     const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
     const perTarget = new Map<number, ReturnType<typeof noise>>();
     const errors = (id: number) => {
@@ -203,9 +155,9 @@ export async function loadDemo(
       store,
       tx,
       actor,
-      rnd,
+      rnd: noise(20261201),
       errors,
-      made,
+      made: new Map() as Made,
       counts,
       anchor,
       usedNights: new Set<string>(),
@@ -216,6 +168,64 @@ export async function loadDemo(
     await storeFits(ctx, stars, lanternB, options.fitNow ?? false);
   });
   return counts;
+}
+
+/** The two systems, their targets, and each target's scenario orbit as version 1 (`entered`). */
+async function demoCatalogue(store: StoreContext, tx: DbOrTx, actor: Actor, anchor: DemoAnchor) {
+  const vesper = await store.systems.createIn(tx, actor, vesperSystem(anchor));
+  const lantern = await store.systems.createIn(tx, actor, lanternSystem(anchor));
+  const stars: Star[] = [];
+  for (const s of VESPER_STARS) {
+    const target = await store.targets.createIn(tx, actor, {
+      systemId: vesper.id,
+      name: s.name,
+      magnitude: s.magnitude,
+      band: s.band,
+    });
+    stars.push({
+      target,
+      orbit: vesperOrbit(s, anchor),
+      raDeg: vesper.raDeg,
+      decDeg: vesper.decDeg,
+    });
+  }
+  const lanternB: Star = {
+    target: await store.targets.createIn(tx, actor, {
+      systemId: lantern.id,
+      name: 'Lantern B',
+      magnitude: 7.9,
+      band: 'V',
+    }),
+    orbit: lanternOrbit(anchor),
+    raDeg: lantern.raDeg,
+    decDeg: lantern.decDeg,
+  };
+  for (const { target, orbit } of [...stars, lanternB])
+    await store.orbitSolutions.createIn(tx, actor, {
+      targetId: target.id,
+      orbit,
+      provenance: 'entered',
+      reference: 'demo scenario (invented): the orbit the measurements were drawn from',
+    });
+  return { stars, lanternB };
+}
+
+/** The two sites, each with its monthly clear-night prior. */
+async function demoSites(store: StoreContext, tx: DbOrTx, actor: Actor): Promise<SiteRow[]> {
+  const sites: SiteRow[] = [];
+  for (const s of SITES) sites.push(await store.sites.createIn(tx, actor, s));
+  for (const [i, site] of sites.entries())
+    await replaceClearPriorIn(
+      tx,
+      actor,
+      site.id,
+      DEMO_CLEAR_PRIORS[i]!.map((clearFraction, m) => ({
+        month: m + 1,
+        clearFraction,
+        strengthNights: DEMO_PRIOR_STRENGTH,
+      })),
+    );
+  return sites;
 }
 
 interface LoadContext {
