@@ -7,6 +7,7 @@ import { readFileSync } from 'node:fs';
 import { InputError } from '../science/errors.ts';
 import { UsageError } from './io.ts';
 import type { OutputFormat } from './output.ts';
+import { WEATHER_CHOICES } from '../store/index.ts';
 
 /** `--<option> <id>`: a positive whole number. */
 export function positiveId(option: string, text: string | undefined): number {
@@ -54,6 +55,17 @@ export function readJsonArg(option: string, text: string | undefined): unknown {
   } catch (err) {
     throw new UsageError(`--${option}: not valid JSON (${(err as Error).message})`);
   }
+}
+
+/** `--weather aware|blind`, or the command's default when left out. */
+export function weatherOption(
+  text: string | undefined,
+  fallback: (typeof WEATHER_CHOICES)[number],
+): (typeof WEATHER_CHOICES)[number] {
+  if (text === undefined) return fallback;
+  const found = WEATHER_CHOICES.find((w) => w === text);
+  if (!found) throw new UsageError(`--weather: ${JSON.stringify(text)} must be "aware" or "blind"`);
+  return found;
 }
 
 /** `--json` / `--csv` flags to a format; both at once is a usage error. */

@@ -2,14 +2,13 @@
 import { parseArgs } from 'node:util';
 import { SEASON_SETTINGS, type PlannedEpoch } from '../../science/plan/index.ts';
 import {
-  WEATHER_CHOICES,
   ACCEPT_AT_TOLERANCE_MINUTES,
   LOCAL_OPERATOR,
   type SeasonPlanRequest,
   type Store,
 } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
-import { asOptions, outputFormat, positiveId, readJsonArg } from '../args.ts';
+import { asOptions, outputFormat, positiveId, readJsonArg, weatherOption } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { renderDraws } from './season-draws-output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -107,9 +106,7 @@ export const planSeasonCommand: Command = {
         throw new UsageError(
           `--settings: unknown setting ${JSON.stringify(k)} (known: ${SETTINGS.join(', ')})`,
         );
-    const weather = values.weather ?? 'blind';
-    if (!(WEATHER_CHOICES as readonly string[]).includes(weather))
-      throw new UsageError(`--weather: ${JSON.stringify(weather)} must be "aware" or "blind"`);
+    const weather = weatherOption(values.weather, 'blind');
     if ((values.draws !== undefined || values.seed !== undefined) && values.accept)
       throw new UsageError('--draws and --seed preview only: leave out --accept');
     if (values.seed !== undefined && values.draws === undefined)
@@ -121,7 +118,7 @@ export const planSeasonCommand: Command = {
       endDate: values.end,
       ...(values.site ? { siteIds: values.site.map((s) => positiveId('site', s)) } : {}),
       nights: values['all-nights'] ? 'all' : 'allocated',
-      weather: weather as NonNullable<SeasonPlanRequest['weather']>,
+      weather,
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
     if (values.draws !== undefined) {

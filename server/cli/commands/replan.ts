@@ -1,7 +1,7 @@
 /** `epochwright replan`: after a night that lost time, the rest of its campaign's season planned again. */
 import { parseArgs } from 'node:util';
-import { LOCAL_OPERATOR, WEATHER_CHOICES, type ReplanRequest } from '../../store/index.ts';
-import { asOptions, outputFormat, positiveId } from '../args.ts';
+import { LOCAL_OPERATOR, type ReplanRequest } from '../../store/index.ts';
+import { asOptions, outputFormat, positiveId, weatherOption } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -52,11 +52,9 @@ export const replanCommand: Command = {
     const id = positiveId('night', values.night);
     if (values.digest !== undefined && !values.accept)
       throw new UsageError('--digest goes with --accept');
-    const weather = values.weather ?? 'aware';
-    if (!(WEATHER_CHOICES as readonly string[]).includes(weather))
-      throw new UsageError(`--weather: ${JSON.stringify(weather)} must be "aware" or "blind"`);
+    const weather = weatherOption(values.weather, 'aware');
     const request: ReplanRequest = {
-      weather: weather as NonNullable<ReplanRequest['weather']>,
+      weather,
       ...(values.end !== undefined ? { endDate: values.end } : {}),
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };

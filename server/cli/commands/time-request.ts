@@ -1,8 +1,8 @@
 /** `epochwright time-request`: a semester's request for telescope time, from the campaign's plan and its log. */
 import { parseArgs } from 'node:util';
 import { timeRequestMarkdown } from '../../science/plan/time-request.ts';
-import { WEATHER_CHOICES, type TimeRequestInput } from '../../store/index.ts';
-import { asOptions, outputFormat, positiveId } from '../args.ts';
+import type { TimeRequestInput } from '../../store/index.ts';
+import { asOptions, outputFormat, positiveId, weatherOption } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -66,14 +66,12 @@ export const timeRequestCommand: Command = {
     const id = positiveId('campaign', values.campaign);
     if (values.name === undefined || values.start === undefined || values.end === undefined)
       throw new UsageError('--name, --start and --end are required');
-    const weather = values.weather ?? 'aware';
-    if (!(WEATHER_CHOICES as readonly string[]).includes(weather))
-      throw new UsageError(`--weather: ${JSON.stringify(weather)} must be "aware" or "blind"`);
+    const weather = weatherOption(values.weather, 'aware');
     const input: TimeRequestInput = {
       name: values.name,
       startDate: values.start,
       endDate: values.end,
-      weather: weather as NonNullable<TimeRequestInput['weather']>,
+      weather,
     };
     const atJd = momentJd(values.at, '--at');
     const r = await withStore(values.database, (store) =>

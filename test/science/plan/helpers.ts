@@ -19,6 +19,16 @@ export const SITE: Site = validateSite({
   lowestAltitudeDeg: 25,
   leastSunDistanceDeg: 45,
 });
+/** A second southern site six time zones east of SITE (invented). */
+export const EAST_SITE: Site = validateSite({
+  name: 'Quill Downs',
+  latitudeDeg: -23.3,
+  longitudeDeg: 16.5,
+  elevationM: 1800,
+  timeZone: 'Africa/Windhoek',
+  lowestAltitudeDeg: 25,
+  leastSunDistanceDeg: 45,
+});
 export const CONSTRAINTS: Limits = validateLimits({ highestAirmass: 2 }, SITE);
 
 /** Targets spread in right ascension along declination −30° (invented). */

@@ -16,20 +16,11 @@ import {
 } from '../../../server/science/plan/index.ts';
 import { seasonMonteCarlo } from '../../../server/science/plan/season-monte-carlo.ts';
 import { addDays } from '../../../server/science/sky/night.ts';
-import { validateLimits, validateSite, validateTarget } from '../../../server/science/sky/index.ts';
+import { validateLimits, validateTarget } from '../../../server/science/sky/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
-import { SITE } from './helpers.ts';
+import { EAST_SITE, SITE } from './helpers.ts';
 
-// Invented: a second southern site six time zones east of the first.
-const EAST = validateSite({
-  name: 'Quill Downs',
-  latitudeDeg: -23.3,
-  longitudeDeg: 16.5,
-  elevationM: 1800,
-  timeZone: 'Africa/Windhoek',
-  lowestAltitudeDeg: 25,
-  leastSunDistanceDeg: 45,
-});
+const EAST = EAST_SITE;
 const C = (s: typeof SITE) => validateLimits({ highestAirmass: 2.2, leastMoonDistanceDeg: 5 }, s);
 const PERI = '2027-06-10T00:00:00Z';
 const ORBIT: OrbitInput = {

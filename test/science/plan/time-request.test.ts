@@ -7,18 +7,10 @@ import { describe, expect, it } from 'vitest';
 import { planSeason, type SeasonSite } from '../../../server/science/plan/index.ts';
 import { timeRequest, timeRequestMarkdown } from '../../../server/science/plan/time-request.ts';
 import { addDays } from '../../../server/science/sky/night.ts';
-import { validateLimits, validateSite, validateTarget } from '../../../server/science/sky/index.ts';
-import { SITE } from './helpers.ts';
+import { validateLimits, validateTarget } from '../../../server/science/sky/index.ts';
+import { EAST_SITE, SITE } from './helpers.ts';
 
-const EAST = validateSite({
-  name: 'Quill Downs',
-  latitudeDeg: -23.3,
-  longitudeDeg: 16.5,
-  elevationM: 1800,
-  timeZone: 'Africa/Windhoek',
-  lowestAltitudeDeg: 25,
-  leastSunDistanceDeg: 45,
-});
+const EAST = EAST_SITE;
 const dates = Array.from({ length: 30 }, (_, d) => addDays('2027-06-01', d));
 // constructed case: each night's clear chance varies, 0.3 to 0.93
 const clearOf = (k: number, s: number) => 0.3 + ((k * 7 + s * 3) % 10) * 0.07;
