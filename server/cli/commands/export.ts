@@ -6,6 +6,7 @@ import { resolveEpochs } from '../../science/time/index.ts';
 import { ephemerisCsv, measurementsCsv } from '../../store/index.ts';
 import { optionalId } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
+import { SERVER_HELP, remoteOf, send, serverOptions } from '../remote.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 const help = `usage: epochwright export measurements [--target-id <id>] [--json]
@@ -23,6 +24,7 @@ archive       every stored record (systems, targets, orbit solutions with covari
 
 options:
 ${DATABASE_HELP}
+${SERVER_HELP} (measurements and calendar)
 `;
 
 export const exportCommand: Command = {
@@ -33,6 +35,7 @@ export const exportCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
+        ...serverOptions,
         'target-id': { type: 'string' },
         'campaign-id': { type: 'string' },
         start: { type: 'string' },
@@ -46,6 +49,26 @@ export const exportCommand: Command = {
     });
     const [what] = positionals;
     const targetId = optionalId('target-id', values['target-id']);
+    const remote = remoteOf(values);
+    if (remote) {
+      if (what === 'measurements') {
+        const q = new URLSearchParams({ format: values.json ? 'json' : 'csv' });
+        if (targetId !== undefined) q.set('targetId', String(targetId));
+        const res = await send(remote, 'GET', `/exports/measurements?${q}`);
+        return values.json
+          ? `${JSON.stringify(((await res.json()) as { measurements: unknown }).measurements, null, 2)}\n`
+          : res.text();
+      }
+      if (what === 'calendar') {
+        const campaignId = optionalId('campaign-id', values['campaign-id']);
+        if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
+        const q = values.at === undefined ? '' : `?at=${encodeURIComponent(values.at)}`;
+        return (await send(remote, 'GET', `/campaigns/${campaignId}/calendar.ics${q}`)).text();
+      }
+      throw new UsageError(
+        `export ${what ?? ''} reads the database itself: run it where the database is (--server takes measurements and calendar)`,
+      );
+    }
     return withStore(values.database, async (store) => {
       switch (what) {
         case 'measurements': {

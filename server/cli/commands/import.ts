@@ -5,12 +5,14 @@ import {
   CSV_KINDS,
   ImportRejected,
   LOCAL_OPERATOR,
+  type ImportReport,
   REQUIRED_COLUMNS,
   type CsvKind,
 } from '../../store/index.ts';
 import { readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable } from '../output.ts';
+import { SERVER_HELP, remoteOf, send, serverOptions } from '../remote.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
 const help = `usage: epochwright import --kind targets|orbits|measurements --file <csv> [--check-only]
@@ -29,6 +31,7 @@ ${CSV_KINDS.map((k) => `  ${k}: ${COLUMNS[k].map((c) => (REQUIRED_COLUMNS[k].inc
 
 options:
 ${DATABASE_HELP}
+${SERVER_HELP}
 `;
 
 export const importCommand: Command = {
@@ -39,6 +42,7 @@ export const importCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
+        ...serverOptions,
         kind: { type: 'string' },
         file: { type: 'string' },
         'check-only': { type: 'boolean' },
@@ -53,16 +57,29 @@ export const importCommand: Command = {
     if (values.file === undefined) throw new UsageError('--file is required');
     const text = readTextFile('file', values.file);
     const dryRun = values['check-only'] ?? false;
+    const remote = remoteOf(values);
+    const allowDuplicates = values['allow-duplicates'] ?? false;
     try {
-      const report = await withStore(
-        values.database,
-        (store) =>
-          store.importCsv(LOCAL_OPERATOR, kind, text, {
-            dryRun,
-            allowDuplicates: values['allow-duplicates'] ?? false,
-          }),
-        { writes: !dryRun },
-      );
+      const report = remote
+        ? ((await (
+            await send(
+              remote,
+              'POST',
+              `/imports/${kind}?dryRun=${dryRun}&allowDuplicates=${allowDuplicates}`,
+              { text, type: 'text/csv' },
+              (e) => {
+                // The server's row report, shown as a local import shows it.
+                const details = e.details as ImportReport | undefined;
+                if (e.status === 422 && details?.problems) throw new ImportRejected(details);
+                return undefined;
+              },
+            )
+          ).json()) as ImportReport)
+        : await withStore(
+            values.database,
+            (store) => store.importCsv(LOCAL_OPERATOR, kind, text, { dryRun, allowDuplicates }),
+            { writes: !dryRun },
+          );
       return dryRun
         ? `checked ${report.rows} ${kind} rows: all good, nothing written\n`
         : `imported ${report.written} ${kind} rows\n`;

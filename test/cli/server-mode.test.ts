@@ -1,0 +1,90 @@
+/**
+ * `--server URL --token T`: the CLI sends import and export to a running server over HTTP, so
+ * the server's roles apply and the audit trail names the token's user (not the local operator).
+ */
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import type { AddressInfo } from 'node:net';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { serve, type ServerType } from '@hono/node-server';
+import { afterAll, beforeAll, expect, it } from 'vitest';
+import { commands } from '../../server/cli/commands/index.ts';
+import { UsageError } from '../../server/cli/io.ts';
+import { createApp } from '../../server/http/app.ts';
+import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
+import { ORBIT_S1 } from '../store/backends.ts';
+
+let dir: string;
+let store: Store;
+let server: ServerType;
+let base: string;
+let lead: { id: number; secret: string };
+let viewer: string;
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'epochwright-remote-'));
+  store = createStore(await openDatabase({ url: `file:${join(dir, 'server.db')}` }));
+  const l = await store.users.createWithToken(LOCAL_OPERATOR, {
+    name: 'remote lead',
+    role: 'lead',
+  });
+  lead = { id: l.user.id, secret: l.secret };
+  viewer = (await store.users.createWithToken(LOCAL_OPERATOR, { name: 'watcher', role: 'viewer' }))
+    .secret;
+  const system = await store.systems.create(LOCAL_OPERATOR, {
+    name: 'Far Deep',
+    raDeg: '17:35:12',
+    decDeg: '-21:42',
+  });
+  const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'R s1' });
+  await store.orbitSolutions.create(LOCAL_OPERATOR, { targetId: target.id, orbit: ORBIT_S1 });
+  server = serve({ fetch: createApp({ store }).fetch, port: 0, hostname: '127.0.0.1' });
+  await new Promise((r) => server.once('listening', r));
+  base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+});
+afterAll(async () => {
+  await new Promise((r) => server.close(r));
+  store.close();
+  rmSync(dir, { recursive: true, force: true });
+});
+
+it('imports through a running server, audited under the token’s user, and exports back', async () => {
+  const file = join(dir, 'm.csv');
+  writeFileSync(
+    file,
+    'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\n' +
+      'Far Deep,R s1,radial-velocity,2026-06-01T04:00:00Z,812.5,10,spectrograph A\n',
+  );
+  const run = (name: string, ...argv: string[]) => Promise.resolve(commands[name]!.run(argv));
+  expect(
+    await run(
+      'import',
+      '--kind',
+      'measurements',
+      '--file',
+      file,
+      '--server',
+      base,
+      '--token',
+      lead.secret,
+    ),
+  ).toBe('imported 1 measurements rows\n');
+  const audit = await store.audit.list({ entity: 'measurements' }, { limit: 10, offset: 0 });
+  expect(audit.items.map((a) => a.userId)).toEqual([lead.id]); // the token's user, not null
+  // a viewer's token may not import: the server's role rule, exit 2
+  const refused = await run(
+    'import',
+    '--kind',
+    'measurements',
+    '--file',
+    file,
+    '--server',
+    base,
+    '--token',
+    viewer,
+  ).catch((e: unknown) => e);
+  expect(refused).toBeInstanceOf(UsageError);
+  expect((refused as Error).message).toMatch(/403 forbidden/);
+  const csv = await run('export', 'measurements', '--server', base, '--token', viewer);
+  expect(csv).toMatch(/Far Deep,R s1,radial-velocity,[^,]*,2026-06-01T04:00:00\.000Z/);
+  await expect(run('export', 'measurements', '--server', base)).rejects.toBeInstanceOf(UsageError);
+});
