@@ -7,6 +7,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { addDays } from '../../server/science/sky/night.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { tableCounts } from '../store/backends.ts';
 import { nowIso } from '../../server/clock.ts';
@@ -21,12 +22,25 @@ let store: Store;
 const demo = demoAnchor(nowIso());
 const AT = ['--at', `${demo.today}T00:00:00Z`];
 const MONTH = [demo.day(DEMO_DAYS.periapsis - 13), demo.day(DEMO_DAYS.periapsis + 16)]; // the passage's month
-const DENSE = [demo.day(DEMO_DAYS.densified.start + 21), demo.day(DEMO_DAYS.densified.start + 35)]; // two nights of the densified run
+// Two nights of the densified run: the stored ones nearest the pattern's dates (the demo moves a
+// night up to 4 days off the Moon).
+const DENSE: string[] = [];
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'epochwright-plan-cli-'));
   url = `file:${join(dir, 'plan.db')}`;
   store = createStore(await openDatabase({ url }));
   await store.loadDemo(LOCAL_OPERATOR, {});
+  const stored = (await store.nights.list({}, { limit: 500 })).items
+    .filter((n) => n.siteId === 1 && n.campaignId === 1)
+    .map((n) => n.date);
+  for (const k of [21, 35]) {
+    const want = Date.parse(demo.day(DEMO_DAYS.densified.start + k));
+    DENSE.push(
+      stored.reduce((a, b) =>
+        Math.abs(Date.parse(b) - want) < Math.abs(Date.parse(a) - want) ? b : a,
+      ),
+    );
+  }
 });
 afterAll(() => {
   store.close();
@@ -174,7 +188,7 @@ describe('epochwright plan-night', () => {
 
   it('stores the schedule with --accept; a pin outside darkness exits 2 and writes nothing', async () => {
     const id = await nightId(DENSE[1]!);
-    const noonAfter = `${demo.day(DEMO_DAYS.densified.start + 36)}T16:00Z`; // local noon after the night (UTC−4 in the southern winter)
+    const noonAfter = `${addDays(DENSE[1]!, 1)}T16:00Z`; // local noon after the night (UTC−4 in the southern winter)
     const before = await tableCounts(store);
     const bad = await cli([
       'plan-night',
