@@ -3,7 +3,7 @@ import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
 import { LOCAL_OPERATOR, NotFoundError } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
-import { outputFormat } from '../args.ts';
+import { outputFormat, positiveId } from '../args.ts';
 import { render } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
@@ -85,9 +85,7 @@ export const accountCommand: Command = {
           case 'feed-token': {
             if (values.name === undefined || values['campaign-id'] === undefined)
               throw new UsageError('account feed-token needs --name and --campaign-id');
-            const campaignId = Number(values['campaign-id']);
-            if (!/^[1-9]\d{0,14}$/.test(values['campaign-id']))
-              throw new InputError('--campaign-id', values['campaign-id'], 'must be a stored id');
+            const campaignId = positiveId('campaign-id', values['campaign-id']);
             const issued = await store.users.issueFeedToken(
               LOCAL_OPERATOR,
               values.name,

@@ -9,7 +9,7 @@ import {
   type Site,
   type Target,
 } from '../../science/sky/index.ts';
-import { readJsonArg } from '../args.ts';
+import { positiveId, readJsonArg } from '../args.ts';
 import { UsageError } from '../io.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
@@ -65,12 +65,6 @@ interface SkyValues {
   'least-moon-distance'?: string;
 }
 
-const storedId = (option: string, text: string) => {
-  if (!/^[1-9]\d{0,14}$/.test(text))
-    throw new InputError(`--${option}`, text, 'must be a stored id in plain decimal digits');
-  return Number(text);
-};
-
 export interface Sky {
   site: Site;
   targets: Target[];
@@ -87,9 +81,9 @@ export async function readSky(values: SkyValues): Promise<Sky> {
     return { ...readTypedSky(values), cautions: [] };
   }
   if (values.site !== undefined) throw new UsageError('give --site or --site-id, not both');
-  const siteId = storedId('site-id', values['site-id']);
+  const siteId = positiveId('site-id', values['site-id']);
   const campaignId =
-    values['campaign-id'] === undefined ? null : storedId('campaign-id', values['campaign-id']);
+    values['campaign-id'] === undefined ? null : positiveId('campaign-id', values['campaign-id']);
   if (campaignId === null && values.targets === undefined)
     throw new UsageError('--targets (or --campaign-id) is required');
   const stored = await withStore(values.database, (store) =>

@@ -1,4 +1,5 @@
 /** Shared test helpers: a seeded random source and random sites, targets and nights. */
+import { InputError } from '../../../server/science/errors.ts';
 import {
   validateSite,
   validateTarget,
@@ -58,4 +59,15 @@ export function stats(errs: number[]): { worst: number; rms: number } {
     worst: Math.max(...errs.map(Math.abs)),
     rms: Math.sqrt(errs.reduce((s, e) => s + e * e, 0) / errs.length),
   };
+}
+
+/** The InputError a call throws (the test fails when it throws none, or another error). */
+export function inputError(f: () => unknown): InputError {
+  try {
+    f();
+  } catch (err) {
+    if (err instanceof InputError) return err;
+    throw err;
+  }
+  throw new Error('no InputError thrown');
 }

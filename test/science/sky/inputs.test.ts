@@ -4,7 +4,6 @@
  */
 import { describe, expect, it } from 'vitest';
 import { DEG } from '../../../server/science/constants.ts';
-import { InputError } from '../../../server/science/errors.ts';
 import { validateOrbit } from '../../../server/science/orbit/elements.ts';
 import { predict } from '../../../server/science/orbit/predict.ts';
 import {
@@ -16,6 +15,7 @@ import {
   validateSite,
   validateTarget,
 } from '../../../server/science/sky/index.ts';
+import { inputError } from './helpers.ts';
 import { besselianEpochToJd } from '../../../server/science/time/index.ts';
 
 const good = {
@@ -25,16 +25,6 @@ const good = {
   elevationM: 2600,
   timeZone: 'America/Santiago',
 };
-
-function inputError(f: () => unknown): InputError {
-  try {
-    f();
-  } catch (err) {
-    if (err instanceof InputError) return err;
-    throw err;
-  }
-  throw new Error('no InputError thrown');
-}
 
 describe('validateSite', () => {
   it.each([

@@ -4,23 +4,13 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../../server/science/errors.ts';
 import {
   checkTimeZone,
   longitudeZoneMismatch,
   nearestZones,
   validateSite,
 } from '../../../server/science/sky/index.ts';
-
-function refusal(f: () => unknown): InputError {
-  try {
-    f();
-  } catch (err) {
-    if (err instanceof InputError) return err;
-    throw err;
-  }
-  throw new Error('no InputError thrown');
-}
+import { inputError } from './helpers.ts';
 
 describe('time zone names', () => {
   it('offers the intended zone first for slips of case, spelling and region', () => {
@@ -30,7 +20,7 @@ describe('time zone names', () => {
     expect(nearestZones('Pacific/Honululu')[0]).toBe('Pacific/Honolulu');
     expect(nearestZones('America/Argentina/SanJuan')[0]).toBe('America/Argentina/San_Juan');
     expect(nearestZones('Europe/Santiago')[0]).toBe('America/Santiago');
-    const e = refusal(() => checkTimeZone('America/Santigo', 'site.timeZone'));
+    const e = inputError(() => checkTimeZone('America/Santigo', 'site.timeZone'));
     expect(e.field).toBe('site.timeZone');
     expect(e.rule).toMatch(/nearest valid names: "America\/Santiago"/);
   });
@@ -46,7 +36,7 @@ describe('longitude against time zone', () => {
       [68.93, 'America/Argentina/San_Juan', '-68.9300'],
       [155.31, 'Pacific/Honolulu', '-155.3100'],
     ] as const) {
-      const e = refusal(() => validateSite({ ...site, longitudeDeg: lon, timeZone: zone }));
+      const e = inputError(() => validateSite({ ...site, longitudeDeg: lon, timeZone: zone }));
       expect(e.field).toBe('site.longitudeDeg');
       expect(e.value).toBe(lon);
       expect(e.rule).toContain(`longitude ${fixed}°`);
