@@ -66,6 +66,17 @@ function costOfFit(req: TaskArgs<'fitOrbits'>[0]): void {
   );
 }
 
+function costOfEphemeris(...[, jd, options = {}]: TaskArgs<'ephemeris'>): void {
+  const draws = options.monteCarlo?.draws ?? 1;
+  within(
+    'monteCarlo.draws',
+    draws,
+    jd.length * draws,
+    'ephemerisEvaluations',
+    `epochs × draws = ${jd.length} × ${draws} =`,
+  );
+}
+
 const CHECKS: { [K in TaskName]?: (...args: TaskArgs<K>) => void } = {
   fitOrbits: costOfFit,
   fitPage: costOfFit,
@@ -127,16 +138,8 @@ const CHECKS: { [K in TaskName]?: (...args: TaskArgs<K>) => void } = {
       `candidates × slots = ${candidates} × ${Math.round(slots)} =`,
     );
   },
-  ephemeris(_orbit, jd, options = {}) {
-    const draws = options.monteCarlo?.draws ?? 1;
-    within(
-      'monteCarlo.draws',
-      draws,
-      jd.length * draws,
-      'ephemerisEvaluations',
-      `epochs × draws = ${jd.length} × ${draws} =`,
-    );
-  },
+  ephemeris: costOfEphemeris,
+  ephemerisCsv: costOfEphemeris,
   eventsWithUncertainty(orbit, startJd, endJd, options = {}) {
     const orbits = Math.max(1, (endJd - startJd) / orbit.periodDays);
     const draws = options.monteCarlo?.draws ?? 1;

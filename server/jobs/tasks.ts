@@ -8,9 +8,11 @@ import { prepareMeasurements } from '../store/csv/measurement-rows.ts';
 import { ComputationError, InputError } from '../science/errors.ts';
 import { fitOrbits, FitRefusal, type FitRequest } from '../science/orbit/fit/index.ts';
 import { pageResiduals, type ResidualPageRequest } from '../science/orbit/fit/residual-page.ts';
+import { ephemerisCsv } from '../store/exports/ephemeris.ts';
+import { measurementsCsv } from '../store/exports/measurements.ts';
 import { residualsCsv } from '../store/exports/residuals.ts';
 import { ephemeris, eventsWithUncertainty } from '../science/orbit/ephemeris.ts';
-import { planSeason, scheduleNight } from '../science/plan/index.ts';
+import { computeFlags, planSeason, scheduleNight } from '../science/plan/index.ts';
 import { seasonMonteCarlo } from '../science/plan/season-monte-carlo.ts';
 import {
   nightReport,
@@ -49,8 +51,21 @@ export const TASKS = {
   /** Draws of a planned season (the sites are read for their names and night weights only). */
   seasonMonteCarlo,
   ephemeris,
+  /** An ephemeris written as CSV where it is computed (large tables never block the server). */
+  ephemerisCsv: (...args: Parameters<typeof ephemeris>) => ephemerisCsv(ephemeris(...args)),
   eventsWithUncertainty,
+  computeFlags: (
+    targets: Parameters<typeof computeFlags>[0],
+    sites: Parameters<typeof computeFlags>[1],
+    options: Parameters<typeof computeFlags>[2],
+  ) =>
+    computeFlags(
+      targets,
+      sites.map((s) => ({ ...s, site: reviveSite(s.site) })),
+      options,
+    ),
   prepareMeasurements,
+  measurementsCsv,
 };
 
 export type Tasks = typeof TASKS;

@@ -4,7 +4,7 @@
  */
 import type { Runner } from '../../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
-import { CSV_KINDS, measurementsCsv, type Store } from '../../store/index.ts';
+import { CSV_KINDS, type Store } from '../../store/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { requireRole } from '../auth.ts';
 import { HttpError } from '../errors.ts';
@@ -114,7 +114,7 @@ export function exchangeRoutes(store: Store, run: Runner) {
       const { format, ...filters } = c.req.valid('query');
       const rows = await store.exports.measurements(filters as z.output<typeof MeasurementFilters>);
       if (format === 'json') return c.json({ measurements: rows }, 200);
-      return c.body(measurementsCsv(rows), 200, {
+      return c.body(await run('measurementsCsv', rows), 200, {
         'content-type': 'text/csv; charset=utf-8',
         'content-disposition': 'attachment; filename="measurements.csv"',
       });
@@ -139,6 +139,7 @@ export function exchangeRoutes(store: Store, run: Runner) {
       const text = await store.exports.calendar(
         c.req.valid('param').id,
         at === undefined ? {} : { flagsAtJd: parseEpoch(at, 'at') },
+        run,
       );
       return c.body(text, 200, { 'content-type': 'text/calendar; charset=utf-8' });
     },

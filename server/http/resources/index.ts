@@ -33,28 +33,29 @@ export function storeRoutes(store: Store, run: Runner) {
   for (const routes of [
     systemRoutes,
     targetRoutes,
-    targetViewRoutes,
     orbitSolutionRoutes,
     siteRoutes,
     siteStatisticsRoutes,
     campaignRoutes,
     allocationRoutes,
     nightRoutes,
-    nightVisibilityRoutes,
     blockRoutes,
     nightReportRoutes,
     measurementRoutes,
     userRoutes,
-    planRoutes,
   ]) {
     app.route('/', routes(store));
   }
+  // Routes whose computations run where `run` says (the server's worker pool).
   for (const routes of [
     exchangeRoutes,
     seasonPlanRoutes,
     nightScheduleRoutes,
     replanRoutes,
     timeRequestRoutes,
+    planRoutes,
+    nightVisibilityRoutes,
+    targetViewRoutes,
   ])
     app.route('/', routes(store, run));
   return app;

@@ -1,5 +1,6 @@
 /** GET /nights/{id}/visibility: the sky engine's report for a stored night and its campaign's targets. */
 import { createRoute, z } from '@hono/zod-openapi';
+import type { Runner } from '../../jobs/tasks.ts';
 import type { Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { NightVisibilitySchema } from '../schemas/sky-output.ts';
@@ -12,7 +13,7 @@ const Query = z.object({
   }),
 });
 
-export function nightVisibilityRoutes(store: Store) {
+export function nightVisibilityRoutes(store: Store, run: Runner) {
   const app = resourceApp();
   app.openapi(
     createRoute({
@@ -30,9 +31,13 @@ export function nightVisibilityRoutes(store: Store) {
     async (c) => {
       requireRole(c, 'viewer');
       return c.json(
-        await store.nightVisibility(c.req.valid('param').id, {
-          curves: c.req.valid('query').curves === 'true',
-        }),
+        await store.nightVisibility(
+          c.req.valid('param').id,
+          {
+            curves: c.req.valid('query').curves === 'true',
+          },
+          run,
+        ),
         200,
       );
     },

@@ -1,5 +1,6 @@
 /** GET /campaigns/{id}/flags: the planning flags of a stored campaign, soonest first. */
 import { createRoute, z } from '@hono/zod-openapi';
+import type { Runner } from '../../jobs/tasks.ts';
 import type { Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
@@ -18,7 +19,7 @@ const FlagsQuery = z.object({
     .openapi({ description: 'resolution limit for blend flags, mas' }),
 });
 
-export function planRoutes(store: Store) {
+export function planRoutes(store: Store, run: Runner) {
   const app = resourceApp();
   app.openapi(
     createRoute({
@@ -40,10 +41,14 @@ export function planRoutes(store: Store) {
           ? unixMsToJd(Math.floor(nowMs() / 60_000) * 60_000)
           : momentJd(q.at, 'at');
       return c.json(
-        await store.plans.flags(c.req.valid('param').id, {
-          nowJd,
-          ...(q.resolutionMas ? { resolutionMas: q.resolutionMas } : {}),
-        }),
+        await store.plans.flags(
+          c.req.valid('param').id,
+          {
+            nowJd,
+            ...(q.resolutionMas ? { resolutionMas: q.resolutionMas } : {}),
+          },
+          run,
+        ),
         200,
       );
     },

@@ -3,10 +3,11 @@
  * and events, through the same orbit engine functions as the stateless endpoints.
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import { EVENT_KINDS, ephemeris, eventsWithUncertainty } from '../../science/orbit/index.ts';
+import { EVENT_KINDS } from '../../science/orbit/index.ts';
 import { InputError } from '../../science/errors.ts';
 import { parseEpoch } from '../../science/time/index.ts';
-import { ephemerisCsv, type Store } from '../../store/index.ts';
+import type { Runner } from '../../jobs/tasks.ts';
+import type { Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { describeOrbit } from '../../science/orbit/index.ts';
 import { resolveEpochs } from '../../science/time/index.ts';
@@ -67,7 +68,7 @@ const EventsQuery = z.object({
     .openapi({ description: `comma-separated: ${EVENT_KINDS.join(', ')}` }),
 });
 
-export function targetViewRoutes(store: Store) {
+export function targetViewRoutes(store: Store, run: Runner) {
   const app = resourceApp();
   app.openapi(
     createRoute({
@@ -92,9 +93,12 @@ export function targetViewRoutes(store: Store) {
       requireRole(c, 'viewer');
       const q = c.req.valid('query');
       const { solution, orbit } = await store.orbitSolutions.current(c.req.valid('param').id);
-      const rows = ephemeris(orbit, resolveEpochs({ start: q.start, end: q.end, step: q.step }));
+      const jd = resolveEpochs({ start: q.start, end: q.end, step: q.step });
       if (q.format === 'csv')
-        return c.body(ephemerisCsv(rows), 200, { 'content-type': 'text/csv; charset=utf-8' });
+        return c.body(await run('ephemerisCsv', orbit, jd), 200, {
+          'content-type': 'text/csv; charset=utf-8',
+        });
+      const rows = await run('ephemeris', orbit, jd);
       return c.json(
         {
           solution: { id: solution.id, version: solution.version },
@@ -125,7 +129,8 @@ export function targetViewRoutes(store: Store) {
           throw new InputError('kinds', k, `is not an event kind; use ${EVENT_KINDS.join(', ')}`);
         return kind;
       });
-      const events = eventsWithUncertainty(
+      const events = await run(
+        'eventsWithUncertainty',
         orbit,
         parseEpoch(q.start, 'start'),
         parseEpoch(q.end, 'end'),

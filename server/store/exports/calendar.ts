@@ -28,6 +28,7 @@ import { currentOrbit } from '../repos/orbits.ts';
 import type { SiteRow } from '../repos/sites.ts';
 import { campaignFlags } from '../views/planning.ts';
 import { vtimezone } from './vtimezone.ts';
+import type { Runner } from '../../jobs/tasks.ts';
 
 export interface CalendarOptions {
   /** The moment flags are computed for, JD (UTC); default now. */
@@ -85,6 +86,7 @@ export async function campaignCalendar(
   db: DbOrTx,
   campaignId: number,
   options: CalendarOptions = {},
+  run?: Runner,
 ): Promise<string> {
   const campaign = await getById(db, campaignEntity, campaignId);
   const { targetIds } = await campaignMembers(db, campaignId);
@@ -221,7 +223,12 @@ export async function campaignCalendar(
 
   // Flags with a date of their own: blend risk spans. Periapsis flags repeat the passages above,
   // stale predictions date from the moment they are computed: neither is an event.
-  const { flags } = await campaignFlags(db, campaignId, { nowJd: options.flagsAtJd ?? nowJd() });
+  const { flags } = await campaignFlags(
+    db,
+    campaignId,
+    { nowJd: options.flagsAtJd ?? nowJd() },
+    run,
+  );
   for (const f of flags) {
     if (!f.blend) continue;
     const pair = [f.target, f.blend.other]

@@ -8,6 +8,7 @@
  */
 import { max } from 'drizzle-orm';
 import { auditTrail } from '../../../db/schema.ts';
+import type { Runner } from '../../jobs/tasks.ts';
 import type { DbOrTx } from '../database.ts';
 import { campaignFlags } from './planning.ts';
 
@@ -29,7 +30,7 @@ export async function writeMark(db: DbOrTx): Promise<number> {
  */
 export function cachedCampaignFlags(db: DbOrTx) {
   const answers = new Map<string, Promise<Answer>>();
-  return async (campaignId: number, options: Options): Promise<Answer> => {
+  return async (campaignId: number, options: Options, run?: Runner): Promise<Answer> => {
     const key = [campaignId, options.nowJd, options.resolutionMas ?? '', await writeMark(db)].join(
       ' ',
     );
@@ -37,7 +38,7 @@ export function cachedCampaignFlags(db: DbOrTx) {
     if (answer) {
       answers.delete(key); // re-inserted below: the map's order is the order of last use
     } else {
-      answer = campaignFlags(db, campaignId, options);
+      answer = campaignFlags(db, campaignId, options, run);
       answer.catch(() => answers.delete(key));
     }
     answers.set(key, answer);

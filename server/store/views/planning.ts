@@ -13,12 +13,7 @@ import {
   systems,
   targets as targetsTable,
 } from '../../../db/schema.ts';
-import {
-  computeFlags,
-  type DetectionForecast,
-  type Flag,
-  type PrecisionModel,
-} from '../../science/plan/index.ts';
+import type { DetectionForecast, Flag, PrecisionModel } from '../../science/plan/index.ts';
 import { targetForecast } from './forecast.ts';
 import {
   validateLimits,
@@ -28,6 +23,7 @@ import {
   type Site,
   type Target,
 } from '../../science/sky/index.ts';
+import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
@@ -146,6 +142,7 @@ export async function campaignFlags(
   db: DbOrTx,
   campaignId: number,
   options: { nowJd: number; resolutionMas?: number },
+  run: Runner = inProcess,
 ): Promise<{ campaignId: number; flags: Flag[] }> {
   const input = await campaignPlanningInput(db, campaignId);
   const nightRows = await db
@@ -183,7 +180,8 @@ export async function campaignFlags(
     if (o?.distancePc && (o.relativity.gravitationalRedshift || o.relativity.precession))
       forecasts.set(t.id, await targetForecast(db, t.id, { atJd: options.nowJd }));
   }
-  const flags = computeFlags(
+  const flags = await run(
+    'computeFlags',
     input.targets.map((t) => ({
       ...(forecasts.has(t.id) ? { forecast: forecasts.get(t.id)! } : {}),
       target: t.target,

@@ -8,7 +8,6 @@ import { eq, inArray } from 'drizzle-orm';
 import { blocks, systems, targets } from '../../../db/schema.ts';
 import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
 import {
-  nightReport,
   validateLimits,
   validateTarget,
   type Limits,
@@ -16,6 +15,7 @@ import {
   type Site,
   type Target,
 } from '../../science/sky/index.ts';
+import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
@@ -93,6 +93,7 @@ export async function nightVisibility(
   db: DbOrTx,
   nightId: number,
   options: { curves?: boolean } = {},
+  run: Runner = inProcess,
 ): Promise<NightReport & { nightId: number; campaignId: number | null }> {
   const night = await getById(db, nightEntity, nightId);
   const blockTargets =
@@ -113,7 +114,7 @@ export async function nightVisibility(
     campaignId: night.campaignId,
     targetIds: blockTargets,
   });
-  const report = nightReport(sky.site, night.date, sky.targets, sky.limits, {
+  const report = await run('nightReport', sky.site, night.date, sky.targets, sky.limits, {
     curveStepMinutes: options.curves ? 10 : 0,
   });
   if (sky.laserGuideStar) report.cautions.push(LASER_GUIDE_STAR_CAUTION);
