@@ -1,0 +1,111 @@
+/**
+ * `BENCH health-under-load`: the 99th percentile of `GET /api/health`, due every 5 ms and
+ * counted from when it was due, while two sampled fits (a few seconds each) run on the job pool's
+ * two threads.
+ * Baseline, in this process: the same two fits and health requests with the fits on the server's
+ * own thread (what every request did before the pool). The orbit is an invented demo value.
+ */
+import { createApp } from '../../server/http/app.ts';
+import { createJobPool } from '../../server/jobs/pool.ts';
+import { inProcess, type Runner } from '../../server/jobs/tasks.ts';
+import { SeededRandom } from '../../server/science/random.ts';
+import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
+import { isMain } from './timing.ts';
+
+const truth = {
+  elements: {
+    periodYears: 10,
+    periapsis: 'J2018.1',
+    eccentricity: 0.4,
+    semiMajorAxisArcsec: 0.15,
+    inclinationDeg: 60,
+    ascendingNodeDeg: 160,
+    argPeriapsisDeg: 45,
+  },
+  distancePc: 40,
+  systemicVelocityKmS: 21,
+};
+const r = new SeededRandom(4);
+const measurements = simulate(
+  truth,
+  {
+    astrometryJd: epochs(2457023.5, 12 * 365.25, 20, r, 20),
+    sigmaMas: 0.8,
+    velocityJd: epochs(2457123.5, 11 * 365.25, 10, r, 20),
+    sigmaRadialVelocityKmS: 0.4,
+  },
+  5,
+);
+const HEAVY = JSON.stringify({
+  stars: [{ name: 'Tarn', measurements, hints: { periodYears: { min: 8, max: 12 } } }],
+  posterior: { seed: 3, rounds: 300 },
+});
+
+/** Health latencies (ms) while two heavy fits run through `run`. */
+async function healthWhileBusy(run: Runner): Promise<number[]> {
+  const app = createApp({ run });
+  let busy = 2;
+  // The fits arrive a few milliseconds after health is first asked, as requests from two clients
+  // would (on the server's thread a fit then holds every health request behind it).
+  const fits = [0, 1].map(
+    (k) =>
+      new Promise<void>((resolve, reject) =>
+        setTimeout(
+          () => {
+            Promise.resolve(
+              app.request('/api/fit', {
+                method: 'POST',
+                headers: { 'content-type': 'application/json' },
+                body: HEAVY,
+              }),
+            )
+              .then(async (res) => {
+                if (res.status !== 200)
+                  throw new Error(`fit answered ${res.status}: ${await res.text()}`);
+                busy--;
+              })
+              .then(resolve, reject);
+          },
+          5 * (k + 1),
+        ),
+      ),
+  );
+  // Health is due every 5 ms; each latency counts from when it was due, not from when it could be
+  // sent, so time the server spends blocked counts against it.
+  const latencies: number[] = [];
+  const start = performance.now();
+  let i = 0;
+  do {
+    const due = start + 5 * i++;
+    const wait = due - performance.now();
+    await new Promise((next) => (wait > 0 ? setTimeout(next, wait) : setImmediate(next)));
+    const res = await app.request('/api/health');
+    await res.text();
+    latencies.push(performance.now() - due);
+  } while (busy > 0);
+  await Promise.all(fits);
+  return latencies;
+}
+
+const p99 = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.ceil(0.99 * s.length) - 1)]!;
+};
+
+export async function run(): Promise<string[]> {
+  const pool = createJobPool({ threads: 2, maxQueue: 8, timeLimitS: 300 });
+  let pooled: number[];
+  try {
+    await healthWhileBusy(pool.run); // the threads start and load their modules
+    pooled = await healthWhileBusy(pool.run);
+  } finally {
+    await pool.close();
+  }
+  const here = await healthWhileBusy(inProcess);
+  const ours = p99(pooled);
+  return [
+    `BENCH health-under-load p99=${ours.toFixed(1)} ms ratio=${(p99(here) / ours).toFixed(1)} vs fits-on-the-server-thread (${pooled.length} health requests during two fits)`,
+  ];
+}
+
+if (isMain(import.meta.url)) for (const line of await run()) console.log(line);
