@@ -8,36 +8,13 @@
 import { createApp } from '../../server/http/app.ts';
 import { createJobPool } from '../../server/jobs/pool.ts';
 import { inProcess, type Runner } from '../../server/jobs/tasks.ts';
-import { SeededRandom } from '../../server/science/random.ts';
-import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
+import { TARN_MEASUREMENTS } from '../jobs/tarn.ts';
 import { isMain } from './timing.ts';
 
-const truth = {
-  elements: {
-    periodYears: 10,
-    periapsis: 'J2018.1',
-    eccentricity: 0.4,
-    semiMajorAxisArcsec: 0.15,
-    inclinationDeg: 60,
-    ascendingNodeDeg: 160,
-    argPeriapsisDeg: 45,
-  },
-  distancePc: 40,
-  systemicVelocityKmS: 21,
-};
-const r = new SeededRandom(4);
-const measurements = simulate(
-  truth,
-  {
-    astrometryJd: epochs(2457023.5, 12 * 365.25, 20, r, 20),
-    sigmaMas: 0.8,
-    velocityJd: epochs(2457123.5, 11 * 365.25, 10, r, 20),
-    sigmaRadialVelocityKmS: 0.4,
-  },
-  5,
-);
 const HEAVY = JSON.stringify({
-  stars: [{ name: 'Tarn', measurements, hints: { periodYears: { min: 8, max: 12 } } }],
+  stars: [
+    { name: 'Tarn', measurements: TARN_MEASUREMENTS, hints: { periodYears: { min: 8, max: 12 } } },
+  ],
   posterior: { seed: 3, rounds: 300 },
 });
 

@@ -7,33 +7,10 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/http/app.ts';
 import { createJobPool, type JobPool } from '../../server/jobs/pool.ts';
-import { SeededRandom } from '../../server/science/random.ts';
-import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
+import { TARN_MEASUREMENTS, TARN_TRUTH } from './tarn.ts';
 
-const truth = {
-  elements: {
-    periodYears: 10,
-    periapsis: 'J2018.1',
-    eccentricity: 0.4,
-    semiMajorAxisArcsec: 0.15,
-    inclinationDeg: 60,
-    ascendingNodeDeg: 160,
-    argPeriapsisDeg: 45,
-  },
-  distancePc: 40,
-  systemicVelocityKmS: 21,
-};
-const r = new SeededRandom(4);
-const measurements = simulate(
-  truth,
-  {
-    astrometryJd: epochs(2457023.5, 12 * 365.25, 20, r, 20),
-    sigmaMas: 0.8,
-    velocityJd: epochs(2457123.5, 11 * 365.25, 10, r, 20),
-    sigmaRadialVelocityKmS: 0.4,
-  },
-  5,
-);
+const truth = TARN_TRUTH;
+const measurements = TARN_MEASUREMENTS;
 const fitBody = (posterior?: { seed: number; rounds: number }) => ({
   stars: [{ name: 'Tarn', measurements, hints: { periodYears: { min: 8, max: 12 } } }],
   ...(posterior ? { posterior } : {}),
