@@ -288,6 +288,8 @@ export const blocks = sqliteTable(
     origin: text('origin', { enum: BLOCK_ORIGINS }).notNull().default('by-hand'),
     /** A person fixed this block where it is: no accepted plan replaces it. */
     pinned: integer('pinned', { mode: 'boolean' }).notNull().default(false),
+    /** Why this block may overlap another block of its site (null: it may not). Migration 0005. */
+    overlapReason: text('overlap_reason'),
     notes: text('notes').notNull().default(''),
     version: integer('version').notNull().default(1),
     createdAt: created(),
@@ -328,6 +330,8 @@ export const blockOutcomes = sqliteTable('block_outcomes', {
     .unique()
     .references(() => blocks.id, { onDelete: 'restrict' }),
   status: text('status', { enum: BLOCK_STATUSES }).notNull(),
+  /** The block's status before the report set it; deleting the report restores it (null: `planned`). */
+  previousStatus: text('previous_status', { enum: BLOCK_STATUSES }),
   exposureMinutes: real('exposure_minutes'),
   notes: text('notes').notNull().default(''),
 });
@@ -367,12 +371,21 @@ export const measurements = sqliteTable(
   ],
 );
 
+/** How a change reached the store. */
+export const AUDIT_VIA = ['http', 'cli', 'store'] as const;
+
 export const auditTrail = sqliteTable(
   'audit_trail',
   {
     id: integer('id').primaryKey({ autoIncrement: true }),
     at: text('at').notNull(),
     userId: integer('user_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The writer's name when it wrote: the user's, or the operating-system account at the command line. */
+    actorName: text('actor_name'),
+    /** How the change came: the HTTP API, the command line, or the store itself (demo, start-up). */
+    via: text('via', { enum: AUDIT_VIA }),
+    /** The bearer token of an HTTP write (or of a command line acting through a server). */
+    tokenId: integer('token_id').references(() => tokens.id, { onDelete: 'set null' }),
     action: text('action', { enum: ['create', 'update', 'delete', 'import'] }).notNull(),
     entity: text('entity').notNull(),
     entityId: integer('entity_id'),

@@ -8,6 +8,7 @@ import { JobRefused } from '../jobs/pool.ts';
 import { ComputationError, InputError } from '../science/errors.ts';
 import { FitRefusal } from '../science/orbit/fit/index.ts';
 import { ConflictError, ImportRejected, NotFoundError } from '../store/index.ts';
+import { RequestInvalid } from './request-invalid.ts';
 
 export type ErrorStatus = 400 | 401 | 403 | 404 | 405 | 409 | 413 | 415 | 422 | 500 | 503;
 
@@ -80,6 +81,17 @@ export const ERROR_TABLE: readonly ErrorRule<Error>[] = [
     ImportRejected,
     (e: ImportRejected) => new HttpError(422, 'import_rejected', e.message, e.report),
   ),
+  rule(RequestInvalid, (e: RequestInvalid) => {
+    if (!e.breaksRule)
+      return new HttpError(400, 'invalid_request', e.message, { issues: e.issues });
+    const first = e.issues[0]!;
+    return new HttpError(422, 'invalid_value', e.message, {
+      field: first.field,
+      value: first.value ?? null,
+      rule: first.rule,
+      issues: e.issues,
+    });
+  }),
   rule(
     InputError,
     (e: InputError) =>

@@ -1,6 +1,7 @@
 /**
  * What the store throws besides InputError (bad values, 422): a missing row (404), a write that
- * clashes with the stored state (409: stale version, duplicate name, row still in use).
+ * clashes with the stored state (409: stale version, duplicate name, row still in use, blocks
+ * overlapping, an edit that would break the rows depending on it).
  */
 export class NotFoundError extends Error {
   override readonly name = 'NotFoundError';
@@ -15,7 +16,15 @@ export class NotFoundError extends Error {
 export class ConflictError extends Error {
   override readonly name = 'ConflictError';
   constructor(
-    readonly code: 'stale_version' | 'duplicate' | 'in_use' | 'not_allowed',
+    readonly code:
+      | 'stale_version'
+      | 'duplicate'
+      | 'in_use'
+      | 'not_allowed'
+      /** A block over another block of its site, with no reason given. */
+      | 'overlap'
+      /** An edit that would break stored rows depending on the edited one (named in details.dependents). */
+      | 'dependent_rows',
     message: string,
     readonly details?: Record<string, unknown>,
   ) {

@@ -103,7 +103,7 @@ describe('store commands', () => {
     const bad = join(dir, 'bad.csv');
     writeFileSync(
       bad,
-      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2027.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2027.5,fast,5,spec\nNowhere,K s1,radial-velocity,J2027.6,1,5,spec\n',
+      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2026.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2026.5,fast,5,spec\nNowhere,K s1,radial-velocity,J2026.6,1,5,spec\n',
     );
     const err = await run('import', '--kind', 'measurements', '--file', bad).catch(
       (e: unknown) => e,
@@ -115,7 +115,7 @@ describe('store commands', () => {
     const good = join(dir, 'good.csv');
     writeFileSync(
       good,
-      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2027.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2027.5,130,5,spec\n',
+      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2026.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2026.5,130,5,spec\n',
     );
     expect(await run('import', '--kind', 'measurements', '--file', good, '--check-only')).toMatch(
       /checked 2 .* nothing written/,

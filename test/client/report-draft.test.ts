@@ -26,7 +26,15 @@ const stored: ReportRow = {
   authorId: null,
   createdAt: '2027-06-02T10:00:00Z',
   outcomes: [
-    { id: 5, reportId: 1, blockId: 11, status: 'obtained', exposureMinutes: 40, notes: '' },
+    {
+      id: 5,
+      reportId: 1,
+      blockId: 11,
+      status: 'obtained',
+      previousStatus: 'planned',
+      exposureMinutes: 40,
+      notes: '',
+    },
   ],
 };
 
@@ -64,6 +72,7 @@ describe('report drafts', () => {
             reportId: 1,
             blockId: 11,
             status: 'lost',
+            previousStatus: 'planned',
             exposureMinutes: null,
             notes: 'clouds',
           },

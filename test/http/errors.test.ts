@@ -8,13 +8,18 @@ import { join, relative, resolve } from 'node:path';
 import { HTTPException } from 'hono/http-exception';
 import { describe, expect, it } from 'vitest';
 import { ERROR_TABLE, HttpError, toHttpError } from '../../server/http/errors.ts';
+import { RequestInvalid } from '../../server/http/request-invalid.ts';
 import { ComputationError, InputError } from '../../server/science/errors.ts';
 import { FitRefusal } from '../../server/science/orbit/fit/index.ts';
 import { ConflictError, ImportRejected, NotFoundError } from '../../server/store/index.ts';
 
 const REPO = resolve(import.meta.dirname, '../..');
-/** Error classes that never reach HTTP: the CLI's usage error and the importer's private rollback signal. */
-const NOT_HTTP = ['server/cli/io.ts UsageError', 'server/store/csv/import.ts Rollback'];
+/** Error classes that never reach HTTP as a status of their own: the CLI's usage error, the importer's private rollback signal, and a nested transaction (a programming error: a 500). */
+const NOT_HTTP = [
+  'server/cli/io.ts UsageError',
+  'server/store/csv/import.ts Rollback',
+  'server/store/write-gate.ts NestedTransaction',
+];
 
 function sources(dir: string): string[] {
   return readdirSync(dir).flatMap((f) => {
@@ -40,6 +45,7 @@ describe('the error table', () => {
       'NotFoundError',
       'ConflictError',
       'ImportRejected',
+      'RequestInvalid',
       'InputError',
       'FitRefusal',
       'ComputationError',
@@ -77,6 +83,39 @@ describe('the error table', () => {
       { currentVersion: 3 },
     ],
     ['ImportRejected', new ImportRejected(report), 422, 'import_rejected', report],
+    [
+      'RequestInvalid, a wrong shape among the issues',
+      new RequestInvalid([
+        { field: 'raDeg', rule: 'Too big', code: 'too_big', value: 400 },
+        { field: 'name', rule: 'expected string', code: 'invalid_type' },
+      ]),
+      400,
+      'invalid_request',
+      {
+        issues: [
+          { field: 'raDeg', rule: 'Too big', code: 'too_big', value: 400 },
+          { field: 'name', rule: 'expected string', code: 'invalid_type' },
+        ],
+      },
+    ], // a malformed request: README "HTTP API" (400 malformed)
+    [
+      'RequestInvalid, every issue a broken rule',
+      new RequestInvalid([
+        { field: 'raDeg', rule: 'Too big', code: 'too_big', value: 400 },
+        { field: 'date', rule: 'Invalid ISO date', code: 'invalid_format', value: '2027-02-30' },
+      ]),
+      422,
+      'invalid_value',
+      {
+        field: 'raDeg',
+        value: 400,
+        rule: 'Too big',
+        issues: [
+          { field: 'raDeg', rule: 'Too big', code: 'too_big', value: 400 },
+          { field: 'date', rule: 'Invalid ISO date', code: 'invalid_format', value: '2027-02-30' },
+        ],
+      },
+    ], // a value that breaks a rule: README "HTTP API" (422)
     [
       'InputError',
       new InputError('eccentricity', 1.2, 'must be below 1'),

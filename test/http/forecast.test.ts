@@ -85,7 +85,7 @@ describe('GET /api/targets/{id}/forecast', () => {
     const app = createApp({ store });
     const auth = { headers: { authorization: `Bearer ${token}` } };
     const bad = await app.request(`/api/targets/${deepest}/forecast?astrometryMas=-1`, auth);
-    expect(bad.status).toBe(400);
+    expect(bad.status).toBe(422); // a negative σ breaks a range: README "HTTP API" (422)
     expect(await bad.text()).toMatch(/astrometryMas/);
     expect((await app.request(`/api/targets/9999/forecast`, auth)).status).toBe(404);
     expect((await app.request(`/api/targets/${deepest}/forecast`)).status).toBe(401);

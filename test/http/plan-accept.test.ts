@@ -12,7 +12,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from '../../server/science/plan/index.ts';
 import { LOCAL_OPERATOR } from '../../server/store/index.ts';
-import { nowIso } from '../../server/clock.ts';
+import { asOf, nowIso } from '../../server/clock.ts';
 import { findEvents, validateOrbit } from '../../server/science/orbit/index.ts';
 import { parseEpoch } from '../../server/science/time/index.ts';
 import {
@@ -172,11 +172,14 @@ for (const backend of BACKENDS) {
       const { nights, blocks } = await campaignBlocks(near(-9), near(-9));
       const night = nights[0]!;
       const mine = blocks.filter((b) => b.nightId === night.id);
-      await env.store.nightReports.create(LOCAL_OPERATOR, {
-        nightId: night.id,
-        seeingArcsec: 0.6,
-        outcomes: mine.map((b) => ({ blockId: b.id, status: 'obtained', exposureMinutes: 30 })),
-      });
+      // A report waits for its night to end: written on a clock moved to the day after it.
+      await asOf(Date.parse(`${near(-7)}T00:00:00Z`), () =>
+        env.store.nightReports.create(LOCAL_OPERATOR, {
+          nightId: night.id,
+          seeingArcsec: 0.6,
+          outcomes: mine.map((b) => ({ blockId: b.id, status: 'obtained', exposureMinutes: 30 })),
+        }),
+      );
       const stale = await call('lead', 'POST', '/api/campaigns/1/season-plan/accept', {
         ...ACCEPT,
         digest: '0000000000000000',
@@ -217,7 +220,7 @@ for (const backend of BACKENDS) {
         [{ ...ACCEPT, siteIds: [1, 99] }, 422, 'siteIds.1'],
         [{ ...ACCEPT, fillFraction: 2 }, 422, 'fillFraction'],
         [{ ...ACCEPT, blockMinutes: { astrometry: -5 } }, 422, 'blockMinutes.astrometry'],
-        [{ ...ACCEPT, nights: 'some' }, 400, 'nights'],
+        [{ ...ACCEPT, nights: 'some' }, 422, 'nights'], // a choice outside its list: a value that breaks a rule
         [{ ...ACCEPT, colour: 'red' }, 400, '(body)'],
         [{ ...ACCEPT, at: 'soon' }, 422, 'at'],
         [RANGE, 422, 'at'], // a past moment: accepting may not replace blocks begun since then
@@ -330,6 +333,8 @@ for (const backend of BACKENDS) {
         kind: 'astrometry',
         startUtc: slot.startUtc,
         endUtc: slot.endUtc,
+        // It takes the plan block's slot until the re-plan replaces that one.
+        overlapReason: 'stands in for the planned block of this slot',
       };
       const before = await tableCounts(env.store);
       expect(
@@ -445,6 +450,7 @@ for (const backend of BACKENDS) {
         kind: 'astrometry',
         startUtc: first.start.utc,
         endUtc: first.end.utc,
+        overlapReason: 'stands in for the planned block of this slot',
       });
       const preview = (await (
         await call('viewer', 'POST', `/api/nights/${night.id}/schedule`, { at: AT })

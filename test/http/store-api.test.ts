@@ -115,7 +115,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     {
       path: '/api/nights',
       role: 'observer' as const,
-      create: { siteId: f.ids.site, campaignId: f.ids.campaign, date: '2027-06-11' },
+      create: { siteId: f.ids.site, campaignId: f.ids.campaign, date: '2026-06-11' },
       patch: { notes: 'windy' },
       field: 'notes',
       value: 'windy',
@@ -127,8 +127,8 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
         nightId: f.ids.night,
         targetId: f.ids.target,
         kind: 'spectroscopy',
-        startUtc: '2027-06-11T05:00:00Z',
-        endUtc: '2027-06-11T06:00:00Z',
+        startUtc: '2026-06-11T05:00:00Z',
+        endUtc: '2026-06-11T06:00:00Z',
       },
       patch: { notes: 'moved', version: 1 },
       field: 'notes',
@@ -155,7 +155,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
         targetId: f.ids.target,
         blockId: f.ids.block,
         kind: 'offsets',
-        epoch: '2027-06-11T04:30:00Z',
+        epoch: '2026-06-11T04:30:00Z',
         dRaMas: 1.2,
         dDecMas: -9.9,
         sigmaDRaMas: 0.3,
@@ -388,11 +388,11 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
         .status,
     ).toBe(403);
     expect(
-      (await f.call('viewer', 'POST', '/api/nights', { siteId: f.ids.site, date: '2027-06-12' }))
+      (await f.call('viewer', 'POST', '/api/nights', { siteId: f.ids.site, date: '2026-06-12' }))
         .status,
     ).toBe(403);
     expect(
-      (await f.call('observer', 'POST', '/api/nights', { siteId: f.ids.site, date: '2027-06-12' }))
+      (await f.call('observer', 'POST', '/api/nights', { siteId: f.ids.site, date: '2026-06-12' }))
         .status,
     ).toBe(201);
     expect((await f.call('lead', 'POST', '/api/sites', site)).status).toBe(201);
@@ -508,7 +508,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
           await f.call('observer', 'POST', '/api/nights', {
             siteId: f.ids.site,
             campaignId: f.ids.campaign,
-            date: `2027-06-${d}`,
+            date: `2026-06-${d}`,
           })
         ).status,
       ).toBe(201);
@@ -523,14 +523,14 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     expect(seen.length).toBe(8);
     expect(new Set(seen).size).toBe(8); // every night once across the pages
     const range = (await (
-      await f.call('viewer', 'GET', '/api/nights?start=2027-06-14&end=2027-06-16')
+      await f.call('viewer', 'GET', '/api/nights?start=2026-06-14&end=2026-06-16')
     ).json()) as { items: { date: string }[] };
-    expect(range.items.map((n) => n.date)).toEqual(['2027-06-14', '2027-06-15', '2027-06-16']); // inclusive range, dates made here
+    expect(range.items.map((n) => n.date)).toEqual(['2026-06-14', '2026-06-15', '2026-06-16']); // inclusive range, dates made here
     const bySite = (await (
       await f.call('viewer', 'GET', `/api/blocks?siteId=${f.ids.site}&campaignId=${f.ids.campaign}`)
     ).json()) as { total: number };
     expect(bySite.total).toBe(1); // the fixture's one block
-    expect((await f.call('viewer', 'GET', '/api/nights?limit=501')).status).toBe(400); // page size limit 500 (this API's rule)
+    expect((await f.call('viewer', 'GET', '/api/nights?limit=501')).status).toBe(422); // page size limit 500 (this API's rule): a range, so a broken rule
   });
 
   it('asks for a token on every computation, but not on health or the OpenAPI document', async () => {

@@ -1,9 +1,10 @@
 /**
  * Bad input for every write endpoint of the store: a clear error (status, code, the field named)
  * and not one row changed anywhere, checked by counting every table before and after.
- * Statuses: 400 malformed or wrong shape, 404 unknown record in the path, 409 clash with stored
- * state, 413 body too large, 415 not JSON, 422 a well-formed value that breaks a rule
- * (RFC 9110 §15.5 and RFC 4918 §11.2 for 422, from memory; the split is docs/DESIGN.md's).
+ * Statuses: 400 malformed or wrong shape (a missing field, a wrong type, an unknown key), 404
+ * unknown record in the path, 409 clash with stored state, 413 body too large, 415 not JSON, 422 a
+ * well-formed value that breaks a rule (a range, a format, a choice, a refinement)
+ * (RFC 9110 §15.5 and RFC 4918 §11.2 for 422, from memory; the split is README's "HTTP API").
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { BACKENDS, ORBIT_S1, fixture, tableCounts, type Fixture } from '../store/backends.ts';
@@ -24,7 +25,7 @@ function cases(f: Fixture): Case[] {
   const offsets = {
     targetId: ids.target,
     kind: 'offsets',
-    epoch: '2027-06-11T04:30:00Z',
+    epoch: '2026-06-11T04:30:00Z',
     dRaMas: 1,
     dDecMas: 2,
     sigmaDRaMas: 0.3,
@@ -56,7 +57,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/systems',
       body: { name: 'A', raDeg: 1, decDeg: 95 },
-      status: 400,
+      status: 422,
       field: 'decDeg',
     },
     {
@@ -89,7 +90,7 @@ function cases(f: Fixture): Case[] {
       method: 'PATCH',
       path: `/api/systems/${ids.system}`,
       body: { decDeg: -91 },
-      status: 400,
+      status: 422,
       field: 'decDeg',
     },
     {
@@ -115,7 +116,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/systems',
       body: { name: 'A', raDeg: 1, decDeg: 2, positionEpoch: 'last spring' },
-      status: 400,
+      status: 422,
       field: 'positionEpoch',
     },
     {
@@ -124,7 +125,7 @@ function cases(f: Fixture): Case[] {
       method: 'PATCH',
       path: `/api/systems/${ids.system}`,
       body: { positionEpoch: '2016-01-01T12:00' },
-      status: 400,
+      status: 422,
       field: 'positionEpoch',
     },
     {
@@ -198,7 +199,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/sites',
       body: { name: 'P', latitudeDeg: 1, longitudeDeg: 1, elevationM: 1, timeZone: 'Mars/Olympus' },
-      status: 400,
+      status: 422,
       field: 'timeZone',
     },
     {
@@ -207,7 +208,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/sites',
       body: { name: 'P', latitudeDeg: 91, longitudeDeg: 1, elevationM: 1, timeZone: 'UTC' },
-      status: 400,
+      status: 422,
       field: 'latitudeDeg',
     },
     {
@@ -336,7 +337,7 @@ function cases(f: Fixture): Case[] {
         endDate: '2027-04-01',
         goals: { cadenceDays: 7, kinds: [] },
       },
-      status: 400,
+      status: 422,
       field: 'goals.kinds',
     },
     {
@@ -345,7 +346,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/nights',
       body: { siteId: ids.site, date: '2027-02-30' },
-      status: 400,
+      status: 422,
       field: 'date',
     },
     {
@@ -362,7 +363,7 @@ function cases(f: Fixture): Case[] {
       role: 'observer',
       method: 'POST',
       path: '/api/nights',
-      body: { siteId: ids.site, date: '2027-06-10' },
+      body: { siteId: ids.site, date: '2026-06-10' },
       status: 409,
     },
     {
@@ -374,8 +375,8 @@ function cases(f: Fixture): Case[] {
         nightId: ids.night,
         targetId: ids.target,
         kind: 'astrometry',
-        startUtc: '2027-06-11T05:00:00Z',
-        endUtc: '2027-06-11T04:00:00Z',
+        startUtc: '2026-06-11T05:00:00Z',
+        endUtc: '2026-06-11T04:00:00Z',
       },
       status: 422,
       field: 'endUtc',
@@ -389,8 +390,8 @@ function cases(f: Fixture): Case[] {
         nightId: ids.night,
         targetId: ids.target,
         kind: 'astrometry',
-        startUtc: '2027-06-12T05:00:00Z',
-        endUtc: '2027-06-12T06:00:00Z',
+        startUtc: '2026-06-12T05:00:00Z',
+        endUtc: '2026-06-12T06:00:00Z',
       },
       status: 422,
       field: 'startUtc',
@@ -404,10 +405,10 @@ function cases(f: Fixture): Case[] {
         nightId: ids.night,
         targetId: ids.target,
         kind: 'imaging',
-        startUtc: '2027-06-11T05:00:00Z',
-        endUtc: '2027-06-11T06:00:00Z',
+        startUtc: '2026-06-11T05:00:00Z',
+        endUtc: '2026-06-11T06:00:00Z',
       },
-      status: 400,
+      status: 422,
       field: 'kind',
     },
     {
@@ -419,10 +420,10 @@ function cases(f: Fixture): Case[] {
         nightId: ids.night,
         targetId: ids.target,
         kind: 'astrometry',
-        startUtc: '2027-06-11T05:00:00',
-        endUtc: '2027-06-11T06:00:00Z',
+        startUtc: '2026-06-11T05:00:00',
+        endUtc: '2026-06-11T06:00:00Z',
       },
-      status: 400,
+      status: 422,
       field: 'startUtc',
     },
     {
@@ -434,8 +435,8 @@ function cases(f: Fixture): Case[] {
         nightId: 9999,
         targetId: ids.target,
         kind: 'astrometry',
-        startUtc: '2027-06-11T05:00:00Z',
-        endUtc: '2027-06-11T06:00:00Z',
+        startUtc: '2026-06-11T05:00:00Z',
+        endUtc: '2026-06-11T06:00:00Z',
       },
       status: 422,
       field: 'nightId',
@@ -454,7 +455,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/night-reports',
       body: { nightId: ids.night, strehlRatio: 1.5 },
-      status: 400,
+      status: 422,
       field: 'strehlRatio',
     },
     {
@@ -500,7 +501,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/measurements',
       body: { ...offsets, epoch: 'yesterday' },
-      status: 400,
+      status: 422,
       field: 'epoch',
     },
     {
@@ -509,7 +510,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/measurements',
       body: { ...offsets, correlation: 2 },
-      status: 400,
+      status: 422,
       field: 'correlation',
     },
     {
@@ -527,7 +528,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/users',
       body: { name: 'x', role: 'admin' },
-      status: 400,
+      status: 422,
       field: 'role',
     },
     {
@@ -629,10 +630,10 @@ describe.each(BACKENDS)('bad input on $name', (backend) => {
     expect(broken.status).toBe(422);
     const rows = [
       'system,target,kind,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,instrument',
-      'Test Deep,T s1,offsets,2027-06-11T04:00:00Z,1,2,0.3,0.3,imager',
-      'Test Deep,T s1,offsets,2027-06-11T04:10:00Z,abc,2,0.3,0.3,imager',
-      'Test Deep,T s1,offsets,2027-06-11T04:20:00Z,1,2,0.3,0.3,imager',
-      'Test Deep,T s9,offsets,2027-06-11T04:30:00Z,1,2,0.3,0.3,imager',
+      'Test Deep,T s1,offsets,2026-06-11T04:00:00Z,1,2,0.3,0.3,imager',
+      'Test Deep,T s1,offsets,2026-06-11T04:10:00Z,abc,2,0.3,0.3,imager',
+      'Test Deep,T s1,offsets,2026-06-11T04:20:00Z,1,2,0.3,0.3,imager',
+      'Test Deep,T s9,offsets,2026-06-11T04:30:00Z,1,2,0.3,0.3,imager',
       'Test Deep,T s1,offsets,someday,1,2,-0.3,0.3,imager',
     ].join('\n');
     const bad = await post('measurements', rows);

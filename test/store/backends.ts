@@ -116,8 +116,9 @@ export async function fixture(
   });
   const campaign = await store.campaigns.create(a, {
     name: 'Test campaign',
-    startDate: '2027-01-01',
-    endDate: '2027-12-31',
+    // Before the tests' clock (2026-12-01, vitest.config.ts), so its night is over and may be logged.
+    startDate: '2026-01-01',
+    endDate: '2026-12-31',
     goals: { cadenceDays: 14, kinds: ['astrometry'] },
     targetIds: [target.id],
     siteIds: [site.id],
@@ -125,14 +126,14 @@ export async function fixture(
   const night = await store.nights.create(a, {
     siteId: site.id,
     campaignId: campaign.id,
-    date: '2027-06-10',
+    date: '2026-06-10',
   });
   const block = await store.blocks.create(a, {
     nightId: night.id,
     targetId: target.id,
     kind: 'astrometry',
-    startUtc: '2027-06-11T04:00:00Z',
-    endUtc: '2027-06-11T05:00:00Z',
+    startUtc: '2026-06-11T04:00:00Z',
+    endUtc: '2026-06-11T05:00:00Z',
   });
   const app = createApp({
     store,

@@ -135,7 +135,7 @@ export async function getAll<P extends ListPath>(
   }
 }
 
-/** Field-level messages from a 400 (issues: field, rule) or 422 (field, value, rule) error, keyed by dotted field path. */
+/** Field-level messages from a 400 (issues: field, rule) or 422 (field, value, rule, and issues when a schema refused it) error, keyed by dotted field path. */
 export function fieldMessages(err: unknown): Record<string, string> {
   if (!(err instanceof ApiError)) return {};
   const d = (err.details ?? {}) as Schemas['ErrorDetails'];
@@ -143,6 +143,7 @@ export function fieldMessages(err: unknown): Record<string, string> {
   if (typeof d.field === 'string')
     out[d.field] = `${JSON.stringify(d.value)} ${ruleWords(String(d.rule ?? ''))}`.trim();
   for (const i of d.issues ?? []) {
+    if (i.field === d.field && i.rule === d.rule) continue; // a 422 from the schema repeats its first issue
     const rule = ruleWords(i.rule);
     out[i.field] = out[i.field] ? `${out[i.field]}; ${rule}` : rule;
   }

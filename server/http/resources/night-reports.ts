@@ -1,11 +1,17 @@
 /** /night-reports: conditions and block outcomes of a night, versioned against lost updates (observers write). */
 import { z } from '@hono/zod-openapi';
-import { NightReportFields, type Store } from '../../store/index.ts';
+import { BLOCK_STATUSES, NightReportFields, type Store } from '../../store/index.ts';
 import { crudRoutes, optionalId, patchOf, rowOf } from './common.ts';
 
 const OutcomeRow = NightReportFields.shape.outcomes
   .unwrap()
-  .element.extend({ id: z.number().int(), reportId: z.number().int() })
+  .element.extend({
+    id: z.number().int(),
+    reportId: z.number().int(),
+    previousStatus: z.enum(BLOCK_STATUSES).nullable().openapi({
+      description: 'the block’s status before the report; deleting the report restores it',
+    }),
+  })
   .strict()
   .openapi('OutcomeRow');
 

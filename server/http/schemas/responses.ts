@@ -13,9 +13,21 @@ export const json = <S extends z.ZodType>(schema: S, description: string) => ({
 export const ErrorDetailsSchema = z
   .object({
     issues: z
-      .array(z.object({ field: z.string(), rule: z.string(), code: z.string() }).strict())
+      .array(
+        z
+          .object({
+            field: z.string(),
+            rule: z.string(),
+            code: z.string(),
+            value: z.unknown().optional(),
+          })
+          .strict(),
+      )
       .optional()
-      .openapi({ description: '400: one per malformed field (dotted path)' }),
+      .openapi({
+        description:
+          'a request that failed its schema: one per field (dotted path), with the value sent; 400 when any is a wrong shape, 422 when every one is a broken rule',
+      }),
     field: z
       .string()
       .optional()

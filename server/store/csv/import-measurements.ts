@@ -5,12 +5,17 @@
  */
 import type { InValue } from '@libsql/client';
 import { and, getTableColumns, inArray } from 'drizzle-orm';
-import { blocks, measurements, systems, targets } from '../../../db/schema.ts';
+import { measurements, systems, targets } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
-import { nowIso } from '../../clock.ts';
+import { nowMs } from '../../clock.ts';
 import { libsqlTransaction, type DbOrTx } from '../database.ts';
-import { checkMeasurementBlock, type BlockRef } from '../repos/measurement-rules.ts';
+import { blockRefs } from '../repos/block-rules.ts';
+import {
+  checkMeasurementBlock,
+  checkMeasurementTime,
+  type BlockRef,
+} from '../repos/measurement-rules.ts';
 import { TWIN_RULE, storedTwins, twinKey } from '../repos/measurement-twins.ts';
 import { repeatedFileProblem } from './repeated-file.ts';
 import type { PreparedMeasurement, PreparedMeasurements } from './measurement-rows.ts';
@@ -91,16 +96,11 @@ async function resolveRows(
   const blockIds = [
     ...new Set(prepared.rows.map((r) => r.row.blockId).filter((b) => typeof b === 'number')),
   ];
-  const found = await inSlices(blockIds, (s) =>
-    tx
-      .select({ id: blocks.id, targetId: blocks.targetId })
-      .from(blocks)
-      .where(inArray(blocks.id, s)),
-  );
-  const blockById = new Map<unknown, BlockRef>(found.map((b) => [b.id, b]));
+  const blockById: Map<unknown, BlockRef> = await blockRefs(tx, blockIds as number[]);
   const problems: ImportProblem[] = [];
   const values: Record<string, unknown>[] = [];
-  const now = nowIso();
+  const clock = nowMs();
+  const now = new Date(clock).toISOString();
   for (const r of prepared.rows) {
     const targetId = ids.get(nameKey(r.system, r.target));
     if (targetId === undefined) {
@@ -115,11 +115,12 @@ async function resolveRows(
       [LINE]: r.line,
     };
     try {
+      checkMeasurementTime(next, clock);
       if (next.blockId !== null && next.blockId !== undefined) {
         const block = blockById.get(next.blockId);
         if (!block)
           throw new InputError('blockId', next.blockId, 'does not name an existing block');
-        checkMeasurementBlock(next, block);
+        checkMeasurementBlock(next, block, clock);
       }
       values.push(next);
     } catch (err) {

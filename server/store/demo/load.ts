@@ -43,7 +43,7 @@ import {
   vesperSystem,
   type DemoAnchor,
 } from './scenario.ts';
-import { nowIso } from '../../clock.ts';
+import { asOf, nowIso } from '../../clock.ts';
 
 /**
  * Seed of the targets' measurement errors. Chosen among a few so that the headline star's fitted
@@ -140,33 +140,37 @@ export async function loadDemo(
   actor: Actor,
   options: DemoOptions = {},
 ): Promise<Counts> {
-  const anchor = demoAnchor(options.now ?? nowIso());
+  const now = options.now ?? nowIso();
+  const anchor = demoAnchor(now);
   const counts: Counts = { nights: 0, blocks: 0, reports: 0, measurements: 0 };
-  await store.db.transaction(async (tx) => {
-    const { stars, lanternB } = await demoCatalogue(store, tx, actor, anchor);
-    const sites = await demoSites(store, tx, actor);
-    const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
-    const perTarget = new Map<number, ReturnType<typeof noise>>();
-    const errors = (id: number) => {
-      if (!perTarget.has(id)) perTarget.set(id, noise(DEMO_ERROR_SEED + 7919 * id));
-      return perTarget.get(id)!;
-    };
-    const ctx = {
-      store,
-      tx,
-      actor,
-      rnd: noise(20261201),
-      errors,
-      made: new Map() as Made,
-      counts,
-      anchor,
-      usedNights: new Set<string>(),
-    };
-    for (const plan of demoPlans(anchor, campaigns, stars, lanternB))
-      await loadPlan(ctx, sites[plan.siteIndex]!, plan);
-    await earlierEpochs(ctx, stars, lanternB);
-    await storeFits(ctx, stars, lanternB, options.fitNow ?? false);
-  });
+  // Written as of its own moment: the store's rules (nights over, measurements made) read that clock.
+  await asOf(Date.parse(now), () =>
+    store.db.transaction(async (tx) => {
+      const { stars, lanternB } = await demoCatalogue(store, tx, actor, anchor);
+      const sites = await demoSites(store, tx, actor);
+      const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
+      const perTarget = new Map<number, ReturnType<typeof noise>>();
+      const errors = (id: number) => {
+        if (!perTarget.has(id)) perTarget.set(id, noise(DEMO_ERROR_SEED + 7919 * id));
+        return perTarget.get(id)!;
+      };
+      const ctx = {
+        store,
+        tx,
+        actor,
+        rnd: noise(20261201),
+        errors,
+        made: new Map() as Made,
+        counts,
+        anchor,
+        usedNights: new Set<string>(),
+      };
+      for (const plan of demoPlans(anchor, campaigns, stars, lanternB))
+        await loadPlan(ctx, sites[plan.siteIndex]!, plan);
+      await earlierEpochs(ctx, stars, lanternB);
+      await storeFits(ctx, stars, lanternB, options.fitNow ?? false);
+    }),
+  );
   return counts;
 }
 

@@ -1,10 +1,15 @@
-/** Campaigns with their targets and sites (join tables rewritten whole with the campaign). */
+/**
+ * Campaigns with their targets and sites (join tables rewritten whole with the campaign). An edit
+ * cannot leave the campaign's nights and blocks behind: dates, sites, targets and darkness are
+ * checked against them (409 naming the rows).
+ */
 import { eq, gte, inArray, lte } from 'drizzle-orm';
-import { campaignSites, campaignTargets, campaigns } from '../../../db/schema.ts';
+import { blocks, campaignSites, campaignTargets, campaigns, nights } from '../../../db/schema.ts';
 import { entity, requireRef } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
 import { CampaignFields, CampaignInput } from '../schemas/entities.ts';
+import { checkBlocksUnder, dependentsError } from './block-rules.ts';
 import { targetEntity } from './catalogue.ts';
 import { siteEntity } from './sites.ts';
 
@@ -17,7 +22,78 @@ export const campaignEntity = entity<CampaignRow>({
   hasUpdatedAt: true,
   versioned: false,
   orderBy: [campaigns.startDate],
+  check: async (tx, next, previous) => {
+    if (!previous) return;
+    const own = await tx.select().from(nights).where(eq(nights.campaignId, previous.id));
+    // The dates cannot leave a night of the campaign outside them.
+    for (const field of ['startDate', 'endDate'] as const) {
+      const value = next[field] as string;
+      const outside = own.filter((n) => (field === 'startDate' ? n.date < value : n.date > value));
+      if (outside.length > 0)
+        throw dependentsError(
+          field,
+          value,
+          `cannot move past the campaign's nights: ${outside.length} of them (${outside
+            .slice(0, 5)
+            .map((n) => n.date)
+            .join(
+              ', ',
+            )}${outside.length > 5 ? ', …' : ''}) lie ${field === 'startDate' ? 'before' : 'after'} it`,
+          outside.map((n) => ({ entity: 'night', id: n.id })),
+        );
+    }
+    // Another darkness judges the campaign's blocks again.
+    const darkness = (next.limits as CampaignRow['limits'] | undefined)?.darkness;
+    if (darkness !== previous.limits?.darkness)
+      await checkBlocksUnder(
+        tx,
+        own,
+        { campaign: next as CampaignRow },
+        'limits.darkness',
+        darkness,
+      );
+  },
 });
+
+/** The campaign's sites and targets cannot drop one that its nights or their blocks use. */
+async function checkMembersInUse(
+  tx: DbOrTx,
+  campaignId: number,
+  siteIds: readonly number[],
+  targetIds: readonly number[],
+): Promise<void> {
+  const own = await tx.select().from(nights).where(eq(nights.campaignId, campaignId));
+  const atDropped = own.filter((n) => !siteIds.includes(n.siteId));
+  if (atDropped.length > 0)
+    throw dependentsError(
+      'siteIds',
+      siteIds,
+      `must keep site${atDropped.length > 1 ? 's' : ''} ${[...new Set(atDropped.map((n) => n.siteId))].join(', ')}: ${atDropped.length} of the campaign's nights are there`,
+      atDropped.map((n) => ({ entity: 'night', id: n.id })),
+    );
+  const used = own.length
+    ? await tx
+        .select({ id: blocks.id, targetId: blocks.targetId })
+        .from(blocks)
+        .where(
+          inArray(
+            blocks.nightId,
+            own.map((n) => n.id),
+          ),
+        )
+    : [];
+  const ofDropped = used.filter((b) => !targetIds.includes(b.targetId));
+  if (ofDropped.length > 0)
+    throw dependentsError(
+      'targetIds',
+      targetIds,
+      `must keep target${ofDropped.length > 1 ? 's' : ''} ${[...new Set(ofDropped.map((b) => b.targetId))].join(', ')}: blocks ${ofDropped
+        .slice(0, 10)
+        .map((b) => b.id)
+        .join(', ')}${ofDropped.length > 10 ? ', …' : ''} of the campaign's nights observe them`,
+      ofDropped.map((b) => ({ entity: 'block', id: b.id })),
+    );
+}
 
 export async function campaignMembers(
   db: DbOrTx,
@@ -82,6 +158,7 @@ export function campaignRepository(db: Db) {
       for (const [k, t] of targetIds.entries())
         await requireRef(tx, targetEntity, `targetIds.${k}`, t);
       for (const [k, s] of siteIds.entries()) await requireRef(tx, siteEntity, `siteIds.${k}`, s);
+      await checkMembersInUse(tx, row.id, siteIds, targetIds);
       await tx.delete(campaignTargets).where(eq(campaignTargets.campaignId, row.id));
       await tx.delete(campaignSites).where(eq(campaignSites.campaignId, row.id));
       if (targetIds.length)

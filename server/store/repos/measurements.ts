@@ -5,7 +5,13 @@ import { parseEpoch } from '../../science/time/index.ts';
 import { entity, requireRef } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
-import { checkMeasurementBlock, measurementRow } from './measurement-rules.ts';
+import { nowMs } from '../../clock.ts';
+import { blockRefs } from './block-rules.ts';
+import {
+  checkMeasurementBlock,
+  checkMeasurementTime,
+  measurementRow,
+} from './measurement-rules.ts';
 import { refuseStoredTwin } from './measurement-twins.ts';
 import { MeasurementFields, MeasurementInput } from '../schemas/entities.ts';
 import { targetEntity } from './catalogue.ts';
@@ -21,8 +27,13 @@ export const measurementEntity = entity<MeasurementRow>({
   orderBy: [measurements.targetId, measurements.epochJd],
   check: async (tx, next, previous) => {
     await requireRef(tx, targetEntity, 'targetId', next.targetId);
-    if (next.blockId !== null && next.blockId !== undefined)
-      checkMeasurementBlock(next, await requireRef(tx, blockEntity, 'blockId', next.blockId));
+    const now = nowMs();
+    checkMeasurementTime(next, now);
+    if (next.blockId !== null && next.blockId !== undefined) {
+      await requireRef(tx, blockEntity, 'blockId', next.blockId);
+      const ref = (await blockRefs(tx, [next.blockId as number])).get(next.blockId as number)!;
+      checkMeasurementBlock(next, ref, now);
+    }
     await refuseStoredTwin(tx, next, previous?.id);
   },
 });

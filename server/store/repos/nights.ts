@@ -1,9 +1,9 @@
 /**
  * Nights and their blocks. A night is a site and the local date on which its evening falls; a
- * block must lie within that night (local noon to the next local noon at the site).
+ * block lies within that night (local noon to the next local noon at the site), in its darkness,
+ * with the other rules of block-rules.ts.
  */
 import { and, eq, gte, inArray, lt, lte } from 'drizzle-orm';
-import { DateTime } from 'luxon';
 import { blocks, campaignSites, nights } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import { jdToIso, parseEpoch } from '../../science/time/index.ts';
@@ -12,6 +12,7 @@ import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
 import { normaliseEpoch } from '../schemas/common.ts';
 import { BlockInput, NightInput } from '../schemas/entities.ts';
+import { checkBlock, checkBlocksUnder } from './block-rules.ts';
 import { campaignEntity } from './campaigns.ts';
 import { targetEntity } from './catalogue.ts';
 import { siteEntity } from './sites.ts';
@@ -25,10 +26,17 @@ export const nightEntity = entity<NightRow>({
   hasUpdatedAt: true,
   versioned: false,
   orderBy: [nights.date, nights.siteId],
-  check: async (tx, next) => {
+  check: async (tx, next, previous) => {
     await requireRef(tx, siteEntity, 'siteId', next.siteId);
-    if (next.campaignId === null || next.campaignId === undefined) return;
-    const campaign = await requireRef(tx, campaignEntity, 'campaignId', next.campaignId);
+    const campaignId = next.campaignId ?? null;
+    if (previous && campaignId !== previous.campaignId) {
+      // The night's blocks are judged again under the campaign it moves to (its targets, its darkness).
+      const campaign =
+        campaignId === null ? null : await requireRef(tx, campaignEntity, 'campaignId', campaignId);
+      await checkBlocksUnder(tx, [previous], { campaign }, 'campaignId', campaignId);
+    }
+    if (campaignId === null) return;
+    const campaign = await requireRef(tx, campaignEntity, 'campaignId', campaignId);
     const date = next.date as string;
     if (date < campaign.startDate || date > campaign.endDate) {
       throw new InputError(
@@ -55,11 +63,7 @@ export const nightEntity = entity<NightRow>({
   },
 });
 
-/** The UTC interval of a night: local noon of its date to local noon of the next day, in the site's zone. */
-export function nightIntervalUtc(date: string, timeZone: string): { start: string; end: string } {
-  const noon = DateTime.fromISO(`${date}T12:00`, { zone: timeZone });
-  return { start: noon.toUTC().toISO()!, end: noon.plus({ days: 1 }).toUTC().toISO()! };
-}
+export { nightIntervalUtc } from './night-times.ts';
 
 export const blockEntity = entity<BlockRow>({
   name: 'block',
@@ -67,21 +71,11 @@ export const blockEntity = entity<BlockRow>({
   hasUpdatedAt: true,
   versioned: true,
   orderBy: [blocks.startUtc],
-  check: async (tx, next) => {
+  // The rules with its night and the rows around it: block-rules.ts.
+  check: async (tx, next, previous) => {
     const night = await requireRef(tx, nightEntity, 'nightId', next.nightId);
     await requireRef(tx, targetEntity, 'targetId', next.targetId);
-    const start = Date.parse(next.startUtc as string);
-    const end = Date.parse(next.endUtc as string);
-    if (!(end > start)) throw new InputError('endUtc', next.endUtc, 'must be after startUtc');
-    const site = await requireRef(tx, siteEntity, 'siteId', night.siteId);
-    const span = nightIntervalUtc(night.date, site.timeZone);
-    if (start < Date.parse(span.start) || end > Date.parse(span.end)) {
-      throw new InputError(
-        'startUtc',
-        next.startUtc,
-        `with endUtc must lie within night ${night.date} at ${site.name} (${span.start} to ${span.end})`,
-      );
-    }
+    await checkBlock(tx, next, previous, night);
   },
 });
 

@@ -1,16 +1,21 @@
 /**
  * Night reports: the conditions of a night and the outcome of each of its blocks, written
- * together. Writing an outcome sets the block's status (and bumps its version) in the same
- * transaction, so a block never disagrees with the report that says what became of it.
+ * together, once the night is over. Writing an outcome sets the block's status (and bumps its
+ * version) in the same transaction, so a block never disagrees with the report that says what
+ * became of it; the status it had before is kept with the outcome, and dropping the outcome or
+ * deleting the report gives it back.
  */
 import { eq, gte, inArray, lte, type SQL } from 'drizzle-orm';
 import { blockOutcomes, nightReports, nights } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import type { Actor } from '../audit.ts';
-import { entity, findById, requireRef, updateIn } from '../crud.ts';
+import { nowMs } from '../../clock.ts';
+import { entity, findById, removeIn, requireRef, updateIn } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
 import { NightReportInput, type OutcomeInput } from '../schemas/entities.ts';
+import { nightPlace, timesOf } from './block-rules.ts';
+import { isoSecond } from './night-times.ts';
 import { blockEntity, nightEntity } from './nights.ts';
 import type { z } from 'zod';
 
@@ -24,8 +29,17 @@ export const nightReportEntity = entity<NightReportRow>({
   hasUpdatedAt: true,
   versioned: true,
   orderBy: [nightReports.nightId],
-  check: async (tx, next) => {
-    await requireRef(tx, nightEntity, 'nightId', next.nightId);
+  check: async (tx, next, previous) => {
+    const night = await requireRef(tx, nightEntity, 'nightId', next.nightId);
+    if (previous) return;
+    const place = await nightPlace(tx, night);
+    const over = timesOf(place).overMs;
+    if (over > nowMs())
+      throw new InputError(
+        'nightId',
+        next.nightId,
+        `night ${night.date} at ${place.site.name} is not over until sunrise (${isoSecond(over)}); write its report after that`,
+      );
   },
 });
 
@@ -56,18 +70,37 @@ async function writeOutcomes(
       throw new InputError(`outcomes.${k}.blockId`, o.blockId, 'appears twice in outcomes');
     seen.add(o.blockId);
   }
+  const before = new Map((await outcomesOf(tx, report.id)).map((o) => [o.blockId, o]));
   await tx.delete(blockOutcomes).where(eq(blockOutcomes.reportId, report.id));
   for (const o of outcomes) {
+    const block = (await findById(tx, blockEntity, o.blockId))!;
     await tx.insert(blockOutcomes).values({
       reportId: report.id,
       blockId: o.blockId,
       status: o.status,
+      // The status before the first report of it, kept across rewrites of the report.
+      previousStatus: before.has(o.blockId) ? before.get(o.blockId)!.previousStatus : block.status,
       exposureMinutes: o.exposureMinutes ?? null,
       notes: o.notes,
     });
-    const block = (await findById(tx, blockEntity, o.blockId))!;
     if (block.status !== o.status)
       await updateIn(tx, blockEntity, actor, block.id, { status: o.status }, block.version);
+  }
+  // Blocks whose outcome the report no longer holds get their earlier status back.
+  await restoreStatuses(
+    tx,
+    actor,
+    [...before.values()].filter((o) => !seen.has(o.blockId)),
+  );
+}
+
+/** Give each block the status it had before the report set it (`planned` for outcomes older than that record). */
+async function restoreStatuses(tx: DbOrTx, actor: Actor, dropped: OutcomeRow[]): Promise<void> {
+  for (const o of dropped) {
+    const block = await findById(tx, blockEntity, o.blockId);
+    const status = o.previousStatus ?? 'planned';
+    if (block && block.status !== status)
+      await updateIn(tx, blockEntity, actor, block.id, { status }, block.version);
   }
 }
 
@@ -122,6 +155,13 @@ export function nightReportRepository(db: Db) {
   });
   return {
     ...repo,
+    /** Delete the report; its blocks get back the status they had before it. */
+    remove: (actor: Actor, id: number) =>
+      db.transaction(async (tx) => {
+        const outcomes = await outcomesOf(tx, id);
+        await removeIn(tx, nightReportEntity, actor, id);
+        await restoreStatuses(tx, actor, outcomes);
+      }),
     /** The report with the outcome of each of its blocks, as the API shows it. */
     withOutcomes: async (row: NightReportRow): Promise<NightReportView> => ({
       ...row,

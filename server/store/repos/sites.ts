@@ -1,5 +1,6 @@
 /** Observing sites: where, how high, which zone, and the limits that protect people and equipment. */
-import { sites } from '../../../db/schema.ts';
+import { eq } from 'drizzle-orm';
+import { nights, sites } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import type { PrecisionModel } from '../../science/plan/index.ts';
 import { validateSite, type Site } from '../../science/sky/index.ts';
@@ -7,6 +8,7 @@ import { entity } from '../crud.ts';
 import type { Db } from '../database.ts';
 import { repository } from '../repository.ts';
 import { SiteInput } from '../schemas/entities.ts';
+import { checkBlocksUnder } from './block-rules.ts';
 
 export type SiteRow = typeof sites.$inferSelect;
 
@@ -40,8 +42,21 @@ export const siteEntity = entity<SiteRow>({
   hasUpdatedAt: true,
   versioned: false,
   orderBy: [sites.name],
-  check: async (_tx, next) => {
+  check: async (tx, next, previous) => {
     skySite(next);
+    // A site moved or put in another zone moves its nights: its blocks are judged again there.
+    const moved = (['timeZone', 'latitudeDeg', 'longitudeDeg', 'elevationM'] as const).find(
+      (k) => previous && next[k] !== previous[k],
+    );
+    if (!previous || !moved) return;
+    const ofSite = await tx.select().from(nights).where(eq(nights.siteId, previous.id));
+    await checkBlocksUnder(
+      tx,
+      ofSite,
+      { site: { ...(next as SiteRow), id: previous.id } },
+      moved,
+      next[moved],
+    );
   },
 });
 

@@ -313,6 +313,14 @@ export const BlockFields = z.object({
     .boolean()
     .default(false)
     .describe('a person fixed this block where it is: no accepted plan replaces it'),
+  overlapReason: freeText(500)
+    .trim()
+    .min(1)
+    .nullable()
+    .optional()
+    .describe(
+      'why this block may overlap another block of its site (two instruments, a shared field); without it an overlap is refused',
+    ),
   notes,
 });
 /** The store's own input adds who made the block; over HTTP and the CLI that is always a person (`by-hand`). */
