@@ -10,7 +10,22 @@
  * asynchronous pause, up to a deadline. (SQLite: one writer per database file, sqlite.org "File
  * Locking And Concurrency", from memory.)
  */
+import { AsyncLocalStorage } from 'node:async_hooks';
 import { sqliteCode } from './errors.ts';
+
+/**
+ * A transaction begun inside another of the same database. It would wait in the queue behind the
+ * one that holds it, forever; so it fails at once, naming the fix. An internal error (a 500): no
+ * request can cause it, only code that calls `db.transaction` where it was handed a `tx`.
+ */
+export class NestedTransaction extends Error {
+  override readonly name = 'NestedTransaction';
+  constructor() {
+    super(
+      'db.transaction was called inside a transaction of the same database: it would wait behind itself forever; use the tx you were given',
+    );
+  }
+}
 
 /** Busy timeout of each connection, ms: short, since the thread sleeps through it. */
 export const CONNECTION_BUSY_MS = 50;
@@ -25,7 +40,8 @@ const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
 type Transaction<Tx, C> = <R>(fn: (tx: Tx) => Promise<R>, config?: C) => Promise<R>;
 
 /**
- * Wrap a transaction method: queued in this process, BEGIN retried while another process writes.
+ * Wrap a transaction method: queued in this process, BEGIN retried while another process writes,
+ * a nested call refused at once (NestedTransaction).
  * A transaction that failed busy after it began (a statement left half-run, which would otherwise
  * keep its connection on an old snapshot and fail every later commit) makes `reset` drop the
  * pool's connections (none is in use: this is the only open transaction) and runs it again (a few times, within the deadline).
@@ -36,6 +52,8 @@ export function gatedTransaction<Tx, C>(
   waitMs: number = WRITE_WAIT_MS,
 ): Transaction<Tx, C> {
   let tail: Promise<unknown> = Promise.resolve();
+  // Set for everything a transaction of this gate runs and awaits, so a nested call is seen.
+  const inside = new AsyncLocalStorage<true>();
   const begin = async <R>(fn: (tx: Tx) => Promise<R>, config?: C): Promise<R> => {
     const deadline = Date.now() + waitMs;
     let resets = 0;
@@ -44,7 +62,7 @@ export function gatedTransaction<Tx, C>(
       try {
         return await original((tx) => {
           begun = true;
-          return fn(tx);
+          return inside.run(true, () => fn(tx));
         }, config);
       } catch (err) {
         if (!BUSY.has(sqliteCode(err) ?? '') || Date.now() > deadline) throw err;
@@ -56,6 +74,7 @@ export function gatedTransaction<Tx, C>(
     }
   };
   return (fn, config) => {
+    if (inside.getStore()) return Promise.reject(new NestedTransaction());
     const run = tail.then(() => begin(fn, config));
     tail = run.catch(() => undefined);
     return run;
