@@ -5,10 +5,10 @@
  */
 import type { Context, MiddlewareHandler } from 'hono';
 import { roleAtLeast } from '../../descriptors/roles.ts';
-import type { Role, Store, UserRow } from '../store/index.ts';
+import { tokenActor, type Actor, type Role, type Store, type UserRow } from '../store/index.ts';
 import { HttpError } from './errors.ts';
 
-export type AuthEnv = { Variables: { user: UserRow | null } };
+export type AuthEnv = { Variables: { user: UserRow | null; tokenId: number | null } };
 
 /** Read the bearer token (or `?token=` for calendar subscriptions, which cannot send headers). */
 export function identify(
@@ -30,14 +30,19 @@ export function identify(
     } else if (options.queryTokenPaths?.test(c.req.path)) {
       secret = c.req.query('token');
     }
-    let user: UserRow | null = null;
+    let signed: { user: UserRow; tokenId: number } | null = null;
     if (secret !== undefined) {
-      user = await store.users.authenticate(secret);
-      if (!user) user = await feedViewer(store, secret, c.req.path);
-      if (!user)
+      signed = await store.users.authenticate(secret);
+      if (!signed) {
+        // A feed token reads as a viewer with no user row and no token of a person.
+        const viewer = await feedViewer(store, secret, c.req.path);
+        if (viewer) signed = { user: viewer, tokenId: 0 };
+      }
+      if (!signed)
         throw new HttpError(401, 'unauthenticated', 'the token is unknown or has been revoked');
     }
-    c.set('user', user);
+    c.set('user', signed?.user ?? null);
+    c.set('tokenId', signed?.tokenId || null); // a feed token (0) is no token of a person
     await next();
   };
 }
@@ -74,6 +79,12 @@ export function requireRole(c: Context<AuthEnv>, role: Role): UserRow {
     );
   }
   return user;
+}
+
+/** The signed-in user at `role` or above as the store's writer: the audit trail names them and their token. */
+export function writer(c: Context<AuthEnv>, role: Role): Actor {
+  const user = requireRole(c, role);
+  return tokenActor(user, c.get('tokenId')!);
 }
 
 /**

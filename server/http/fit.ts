@@ -15,7 +15,7 @@ import type { Context } from 'hono';
 import type { FitRequest } from '../science/orbit/fit/index.ts';
 import { RESIDUAL_PAGE } from '../science/orbit/fit/residual-page.ts';
 import { RESIDUAL_CSV_COLUMNS, type Store } from '../store/index.ts';
-import { identify, requireRole } from './auth.ts';
+import { identify, requireRole, writer } from './auth.ts';
 import { HttpError } from './errors.ts';
 import { IdParam, resourceApp, security } from './resources/common.ts';
 import { OrbitSolutionRowSchema } from './resources/orbit-solutions.ts';
@@ -329,17 +329,12 @@ export function fitRoutes(run: Runner, store?: Store) {
         },
       }),
       async (c) => {
-        const user = requireRole(c, 'lead');
+        const actor = writer(c, 'lead');
         const { notes, targetIds, residualPage, ...options } = c.req.valid('json');
         const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
         const prepared = await store.fits.prepare(ids, options);
         const result = await run('fitPage', prepared.request, residualPage);
-        const solutions = await store.fits.accept(
-          { userId: user.id },
-          prepared,
-          result,
-          notes ?? '',
-        );
+        const solutions = await store.fits.accept(actor, prepared, result, notes ?? '');
         return c.json({ solutions, result }, 201);
       },
     );

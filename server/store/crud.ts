@@ -6,7 +6,7 @@
 import { and, asc, count, eq, type SQL } from 'drizzle-orm';
 import type { SQLiteColumn, SQLiteTable } from 'drizzle-orm/sqlite-core';
 import { InputError } from '../science/errors.ts';
-import { recordAudit, type Actor } from './audit.ts';
+import { changedFields, recordAudit, type Actor } from './audit.ts';
 import { nowIso } from '../clock.ts';
 import type { Db, DbOrTx } from './database.ts';
 import { ConflictError, NotFoundError, translateConstraint } from './errors.ts';
@@ -111,6 +111,8 @@ export async function updateIn<T>(
   id: number,
   patch: Row,
   expectedVersion?: number,
+  /** Changes the update makes outside the table's columns (join tables), for the audit entry. */
+  alsoChanged: Record<string, { old: unknown; new: unknown }> = {},
 ): Promise<T> {
   const previous = await getById(tx, e, id);
   const prev = previous as Row;
@@ -151,7 +153,9 @@ export async function updateIn<T>(
       'stale_version',
       `the ${e.name} changed while it was being updated; reload and try again`,
     );
-  await recordAudit(tx, actor, 'update', e.name, id, patch);
+  await recordAudit(tx, actor, 'update', e.name, id, {
+    changed: { ...changedFields(prev, patch), ...alsoChanged },
+  });
   return rows[0]!;
 }
 

@@ -14,12 +14,18 @@ export {
   type OpenOptions,
 } from './database.ts';
 export { startStore, type StartOptions, type Started } from './startup.ts';
-export { LOCAL_OPERATOR, type Actor } from './audit.ts';
+export {
+  LOCAL_OPERATOR,
+  commandLineActor,
+  tokenActor,
+  type Actor,
+  type AuditVia,
+} from './audit.ts';
 export type { AuditFilter, AuditRow } from './repos/audit.ts';
 export { ConflictError, NotFoundError } from './errors.ts';
 export type { Page, PageRequest } from './crud.ts';
 export type { Repository } from './repository.ts';
-export { BLOCK_ORIGINS, BLOCK_STATUSES } from '../../db/schema.ts';
+export { AUDIT_VIA, BLOCK_ORIGINS, BLOCK_STATUSES } from '../../db/schema.ts';
 export {
   BlockFields,
   CampaignFields,

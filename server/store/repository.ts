@@ -6,7 +6,7 @@
 import type { SQL } from 'drizzle-orm';
 import type { z } from 'zod';
 import { InputError } from '../science/errors.ts';
-import type { Actor } from './audit.ts';
+import { changedFields, type Actor } from './audit.ts';
 import * as crud from './crud.ts';
 import type { Db, DbOrTx } from './database.ts';
 import { parseInput } from './schemas/common.ts';
@@ -77,7 +77,16 @@ export function repository<T, S extends z.ZodType, F = Record<never, never>>(
         const extra = spec.extraInput ? await spec.extraInput(tx, previous as T) : {};
         const merged = { ...pick(previous, keys), ...extra, ...patch };
         const checked = parseInput(schema, merged);
-        const row = await crud.updateIn(tx, entity, actor, id, toRow(checked, actor), version);
+        const joined = changedFields(extra, pick(checked as Row, Object.keys(extra)));
+        const row = await crud.updateIn(
+          tx,
+          entity,
+          actor,
+          id,
+          toRow(checked, actor),
+          version,
+          joined,
+        );
         if (spec.after) await spec.after(tx, actor, row, checked, patch);
         return row;
       }),

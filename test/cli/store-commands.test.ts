@@ -58,7 +58,7 @@ describe('store commands', () => {
     const out = await run('account', 'add', '--name', 'night lead', '--role', 'lead');
     const token = /token \(shown once\): (\S+)/.exec(out)![1]!;
     const store = createStore(await openDatabase({ url }));
-    expect((await store.users.authenticate(token))?.role).toBe('lead'); // the role given above
+    expect((await store.users.authenticate(token))?.user.role).toBe('lead'); // the role given above
     store.close();
     await expect(run('account', 'add', '--name', 'x', '--role', 'admin')).rejects.toBeInstanceOf(
       InputError,

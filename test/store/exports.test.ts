@@ -5,6 +5,7 @@ import * as store from '../../server/store/index.ts';
 it('exports exactly the store entry points', () => {
   expect(Object.keys(store).sort()).toEqual([
     'ACCEPT_AT_TOLERANCE_MINUTES',
+    'AUDIT_VIA',
     'BLOCK_ORIGINS',
     'BLOCK_STATUSES',
     'BlockFields',
@@ -31,6 +32,7 @@ it('exports exactly the store entry points', () => {
     'TargetFields',
     'UserInput',
     'WEATHER_CHOICES',
+    'commandLineActor',
     'createStore',
     'displayUrl',
     'ephemerisCsv',
@@ -42,6 +44,7 @@ it('exports exactly the store entry points', () => {
     'residualsCsv',
     'resolveDatabaseUrl',
     'startStore',
+    'tokenActor',
   ]); // server/store/index.ts as designed
 });
 

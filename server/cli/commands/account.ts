@@ -1,7 +1,8 @@
 /** `epochwright account`: create users with a role, issue, list and revoke tokens (secrets shown once). */
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
-import { LOCAL_OPERATOR, NotFoundError } from '../../store/index.ts';
+import { NotFoundError } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
 import { outputFormat, positiveId } from '../args.ts';
 import { render } from '../output.ts';
@@ -67,7 +68,7 @@ export const accountCommand: Command = {
             if (values.name === undefined || values.role === undefined)
               throw new UsageError('account add needs --name and --role');
             const issued = await store.users.createWithToken(
-              LOCAL_OPERATOR,
+              localActor(),
               { name: values.name, role: values.role },
               values.label ?? 'created at the command line',
             );
@@ -76,7 +77,7 @@ export const accountCommand: Command = {
           case 'token': {
             if (values.name === undefined) throw new UsageError('account token needs --name');
             const issued = await store.users.issueToken(
-              LOCAL_OPERATOR,
+              localActor(),
               values.name,
               values.label ?? 'issued at the command line',
             );
@@ -140,7 +141,7 @@ export const accountCommand: Command = {
                 'must be a positive whole number, a token id from `account tokens`',
               );
             const t = await store.users
-              .revokeToken(LOCAL_OPERATOR, id)
+              .revokeToken(localActor(), id)
               .catch(
                 asInputError(
                   '--id',

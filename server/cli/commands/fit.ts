@@ -1,7 +1,8 @@
 /** `epochwright fit`: orbits from measurements in a CSV file or in the store; optionally accepted as new solutions. */
 import { parseArgs } from 'node:util';
 import { fitOrbits, type FitRequest, type StarHints } from '../../science/orbit/fit/index.ts';
-import { LOCAL_OPERATOR, type StoredFitOptions } from '../../store/index.ts';
+import { type StoredFitOptions } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
 import { optionalId, outputFormat, positiveId } from '../args.ts';
 import { readStarsFile } from './fit-csv.ts';
@@ -235,12 +236,7 @@ export const fitCommand: Command = {
         const result = fitOrbits(prepared.request);
         let note = '';
         if (values.accept) {
-          const rows = await store.fits.accept(
-            LOCAL_OPERATOR,
-            prepared,
-            result,
-            values.notes ?? '',
-          );
+          const rows = await store.fits.accept(localActor(), prepared, result, values.notes ?? '');
           note = rows
             .map(
               (r, k) =>

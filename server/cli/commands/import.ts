@@ -4,11 +4,11 @@ import {
   COLUMNS,
   CSV_KINDS,
   ImportRejected,
-  LOCAL_OPERATOR,
   type ImportReport,
   REQUIRED_COLUMNS,
   type CsvKind,
 } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable } from '../output.ts';
@@ -77,7 +77,7 @@ export const importCommand: Command = {
           ).json()) as ImportReport)
         : await withStore(
             values.database,
-            (store) => store.importCsv(LOCAL_OPERATOR, kind, text, { dryRun, allowDuplicates }),
+            (store) => store.importCsv(localActor(), kind, text, { dryRun, allowDuplicates }),
             { writes: !dryRun },
           );
       return dryRun

@@ -3,10 +3,10 @@ import { parseArgs } from 'node:util';
 import type { ScheduledBlock } from '../../science/plan/index.ts';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
-  LOCAL_OPERATOR,
   type NightScheduleRequest,
   type Store,
 } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
 import { asOptions, outputFormat, positiveId, readJsonArg } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
@@ -107,7 +107,7 @@ export const planNightCommand: Command = {
       (store) =>
         asOptions(OPTIONS, () =>
           values.accept
-            ? store.plans.acceptNight(LOCAL_OPERATOR, id, request, atJd)
+            ? store.plans.acceptNight(localActor(), id, request, atJd)
             : store.plans.previewNight(id, request, atJd),
         ),
       { writes: values.accept === true },

@@ -3,10 +3,10 @@ import { parseArgs } from 'node:util';
 import { SEASON_SETTINGS, type PlannedEpoch } from '../../science/plan/index.ts';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
-  LOCAL_OPERATOR,
   type SeasonPlanRequest,
   type Store,
 } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
 import { asOptions, outputFormat, positiveId, readJsonArg, weatherOption } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
@@ -138,7 +138,7 @@ export const planSeasonCommand: Command = {
       (store) =>
         asOptions(OPTIONS, () =>
           values.accept
-            ? store.plans.acceptSeason(LOCAL_OPERATOR, id, request, atJd)
+            ? store.plans.acceptSeason(localActor(), id, request, atJd)
             : store.plans.previewSeason(id, request, atJd),
         ),
       { writes: values.accept === true },

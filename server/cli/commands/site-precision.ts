@@ -1,7 +1,8 @@
 /** `epochwright site-precision`: each site's expected measurement precision, shown or changed. */
 import { parseArgs } from 'node:util';
 import { DEFAULT_PRECISION } from '../../science/plan/index.ts';
-import { LOCAL_OPERATOR, type SiteRow } from '../../store/index.ts';
+import { type SiteRow } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { optionalId, outputFormat } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
@@ -91,7 +92,7 @@ export const sitePrecisionCommand: Command = {
       values.database,
       async (store) => {
         if (siteId !== undefined && Object.keys(patch).length > 0)
-          return [await store.sites.update(LOCAL_OPERATOR, siteId, patch)];
+          return [await store.sites.update(localActor(), siteId, patch)];
         if (siteId !== undefined) return [await store.sites.get(siteId)];
         return (await store.sites.list({}, { limit: 500 })).items;
       },

@@ -1,6 +1,7 @@
 /** `epochwright site-statistics`: what a site's log has learned per month, and setting its clear-night prior. */
 import { parseArgs } from 'node:util';
-import { LOCAL_OPERATOR, readClearPriorCsv, type SiteStatisticsView } from '../../store/index.ts';
+import { readClearPriorCsv, type SiteStatisticsView } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { optionalPositive, outputFormat, positiveId, readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
@@ -95,7 +96,7 @@ export const siteStatisticsCommand: Command = {
     const stats = await withStore(
       values.database,
       async (store) => {
-        if (prior) await store.siteWeather.replacePrior(LOCAL_OPERATOR, id, prior);
+        if (prior) await store.siteWeather.replacePrior(localActor(), id, prior);
         return store.siteWeather.statistics(id, { start: values.start, end: values.end });
       },
       { writes: prior !== null },

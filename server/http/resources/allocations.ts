@@ -6,7 +6,7 @@
  */
 import { createRoute, z } from '@hono/zod-openapi';
 import { MOST_NIGHTS_PER_REQUEST, type Store } from '../../store/index.ts';
-import { requireRole } from '../auth.ts';
+import { requireRole, writer } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { NightRowSchema } from './nights.ts';
 
@@ -132,13 +132,9 @@ export function allocationRoutes(store: Store) {
       },
     }),
     async (c) => {
-      const user = requireRole(c, 'lead');
+      const actor = writer(c, 'lead');
       return c.json(
-        await store.allocations.accept(
-          { userId: user.id },
-          c.req.valid('param').id,
-          c.req.valid('json'),
-        ),
+        await store.allocations.accept(actor, c.req.valid('param').id, c.req.valid('json')),
         201,
       );
     },

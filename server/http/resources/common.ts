@@ -4,7 +4,7 @@
  */
 import { OpenAPIHono, createRoute, z } from '@hono/zod-openapi';
 import type { Repository, Role, Store } from '../../store/index.ts';
-import { requireRole, type AuthEnv } from '../auth.ts';
+import { requireRole, writer, type AuthEnv } from '../auth.ts';
 import { errorResponse } from '../errors.ts';
 import { errorResponses, json } from '../schemas/responses.ts';
 import { validationHook } from '../validation.ts';
@@ -124,8 +124,8 @@ export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
       responses: { 201: json(spec.row, 'created'), ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, writeRole);
-      return c.json(await view(await repo.create({ userId: user.id }, c.req.valid('json'))), 201);
+      const actor = writer(c, writeRole);
+      return c.json(await view(await repo.create(actor, c.req.valid('json'))), 201);
     },
   );
   app.openapi(
@@ -142,11 +142,11 @@ export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
       responses: { 200: json(spec.row, 'the changed record'), ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, writeRole);
+      const actor = writer(c, writeRole);
       const { version, ...patch } = c.req.valid('json');
       const checked = versioned ? VersionField.parse({ version }).version : undefined;
       return c.json(
-        await view(await repo.update({ userId: user.id }, c.req.valid('param').id, patch, checked)),
+        await view(await repo.update(actor, c.req.valid('param').id, patch, checked)),
         200,
       );
     },
@@ -162,8 +162,8 @@ export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
       responses: { 204: { description: 'deleted' }, ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, writeRole);
-      await repo.remove({ userId: user.id }, c.req.valid('param').id);
+      const actor = writer(c, writeRole);
+      await repo.remove(actor, c.req.valid('param').id);
       return c.body(null, 204);
     },
   );

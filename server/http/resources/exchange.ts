@@ -6,7 +6,7 @@ import type { Runner } from '../../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
 import { CSV_KINDS, type Store } from '../../store/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
-import { requireRole } from '../auth.ts';
+import { requireRole, writer } from '../auth.ts';
 import { HttpError } from '../errors.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { MeasurementFilters } from './measurements.ts';
@@ -72,12 +72,11 @@ export function exchangeRoutes(store: Store, run: Runner) {
     }),
     async (c) => {
       const kind = c.req.valid('param').kind;
-      const user = requireRole(c, IMPORT_ROLE[kind]);
+      const actor = writer(c, IMPORT_ROLE[kind]);
       const type = c.req.header('content-type') ?? '';
       if (!/^text\/csv\b/i.test(type))
         throw new HttpError(415, 'unsupported_media_type', 'send the file as text/csv');
       const text = await c.req.text();
-      const actor = { userId: user.id };
       const options = {
         dryRun: c.req.valid('query').dryRun === 'true',
         allowDuplicates: c.req.valid('query').allowDuplicates === 'true',

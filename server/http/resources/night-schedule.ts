@@ -12,7 +12,7 @@ import {
   type NightScheduleRequest,
   type Store,
 } from '../../store/index.ts';
-import { requireRole } from '../auth.ts';
+import { requireRole, writer } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema } from './nights.ts';
 import { CandidateSchema, NightSchedulePreviewSchema } from '../schemas/plan-output.ts';
@@ -100,13 +100,10 @@ export function nightScheduleRoutes(store: Store, run: Runner) {
       },
     }),
     async (c) => {
-      const user = requireRole(c, 'observer');
+      const actor = writer(c, 'observer');
       const { body: b, atJd } = split(c.req.valid('json'));
       const id = c.req.valid('param').id;
-      return c.json(
-        await store.plans.acceptNight({ userId: user.id }, id, b, atJd, nowMs(), run),
-        201,
-      );
+      return c.json(await store.plans.acceptNight(actor, id, b, atJd, nowMs(), run), 201);
     },
   );
   return app;

@@ -4,7 +4,7 @@
  */
 import { createRoute, z } from '@hono/zod-openapi';
 import { OrbitSolutionInput, type Store } from '../../store/index.ts';
-import { requireRole } from '../auth.ts';
+import { requireRole, writer } from '../auth.ts';
 import { OrbitSchema } from '../schemas/orbit.ts';
 import {
   IdParam,
@@ -84,11 +84,8 @@ export function orbitSolutionRoutes(store: Store) {
       responses: { 201: json(Row, 'stored'), ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, 'lead');
-      return c.json(
-        await store.orbitSolutions.create({ userId: user.id }, c.req.valid('json')),
-        201,
-      );
+      const actor = writer(c, 'lead');
+      return c.json(await store.orbitSolutions.create(actor, c.req.valid('json')), 201);
     },
   );
   app.openapi(
@@ -102,11 +99,8 @@ export function orbitSolutionRoutes(store: Store) {
       responses: { 200: json(Row, 'now current'), ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, 'lead');
-      return c.json(
-        await store.orbitSolutions.makeCurrent({ userId: user.id }, c.req.valid('param').id),
-        200,
-      );
+      const actor = writer(c, 'lead');
+      return c.json(await store.orbitSolutions.makeCurrent(actor, c.req.valid('param').id), 200);
     },
   );
   app.openapi(
@@ -120,8 +114,8 @@ export function orbitSolutionRoutes(store: Store) {
       responses: { 204: { description: 'deleted' }, ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, 'lead');
-      await store.orbitSolutions.remove({ userId: user.id }, c.req.valid('param').id);
+      const actor = writer(c, 'lead');
+      await store.orbitSolutions.remove(actor, c.req.valid('param').id);
       return c.body(null, 204);
     },
   );

@@ -13,7 +13,7 @@ import {
   type SeasonPlanRequest,
   type Store,
 } from '../../store/index.ts';
-import { requireRole } from '../auth.ts';
+import { requireRole, writer } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema, NightRowSchema } from './nights.ts';
 import { SeasonDrawsSchema, SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
@@ -186,13 +186,10 @@ export function seasonPlanRoutes(store: Store, run: Runner) {
       },
     }),
     async (c) => {
-      const user = requireRole(c, 'lead');
+      const actor = writer(c, 'lead');
       const { body: b, atJd } = split(c.req.valid('json'));
       const id = c.req.valid('param').id;
-      return c.json(
-        await store.plans.acceptSeason({ userId: user.id }, id, b, atJd, nowMs(), run),
-        201,
-      );
+      return c.json(await store.plans.acceptSeason(actor, id, b, atJd, nowMs(), run), 201);
     },
   );
   return app;

@@ -5,7 +5,7 @@
  */
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Store } from '../../store/index.ts';
-import { requireRole } from '../auth.ts';
+import { requireRole, writer } from '../auth.ts';
 import {
   ClearPriorSchema,
   MonthPriorSchema,
@@ -79,10 +79,10 @@ export function siteStatisticsRoutes(store: Store) {
       responses: { 200: json(ClearPriorSchema, 'the stored prior'), ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, 'lead');
+      const actor = writer(c, 'lead');
       return c.json(
         await store.siteWeather.replacePrior(
-          { userId: user.id },
+          actor,
           c.req.valid('param').id,
           c.req.valid('json').months,
         ),

@@ -1,7 +1,7 @@
 /** /users and /audit: accounts with their roles, tokens, and the trail of changes (lead only). */
 import { createRoute, z } from '@hono/zod-openapi';
-import { UserInput, type Store } from '../../store/index.ts';
-import { requireRole } from '../auth.ts';
+import { AUDIT_VIA, UserInput, type Store } from '../../store/index.ts';
+import { requireRole, writer } from '../auth.ts';
 import {
   IdParam,
   PageQuery,
@@ -19,15 +19,38 @@ const Issued = z.object({
   tokenId: z.number().int(),
   token: z.string().openapi({ description: 'the bearer secret, shown this once only' }),
 });
-const Audit = z.object({
-  id: z.number().int(),
-  at: z.string(),
-  userId: z.number().int().nullable(),
-  action: z.string(),
-  entity: z.string(),
-  entityId: z.number().int().nullable(),
-  detail: z.unknown(),
-});
+const Audit = z
+  .object({
+    id: z.number().int(),
+    at: z.string(),
+    userId: z
+      .number()
+      .int()
+      .nullable()
+      .openapi({ description: 'the signed-in user; null for a local command line' }),
+    actorName: z.string().nullable().openapi({
+      description:
+        'the writer’s name when it wrote: the user’s, or the operating-system account running the command line',
+    }),
+    via: z
+      .enum(AUDIT_VIA)
+      .nullable()
+      .openapi({ description: 'how the change came: http, cli, or store (demo, start-up)' }),
+    tokenId: z
+      .number()
+      .int()
+      .nullable()
+      .openapi({ description: 'the bearer token the write came with' }),
+    action: z.string(),
+    entity: z.string(),
+    entityId: z.number().int().nullable(),
+    detail: z.unknown().openapi({
+      description:
+        'create: the values written; update: { changed: { field: { old, new } } }; delete: the row as it was; import: rows and file digest',
+    }),
+  })
+  .strict()
+  .openapi('AuditEntry');
 
 export function userRoutes(store: Store) {
   const app = resourceApp();
@@ -70,9 +93,9 @@ export function userRoutes(store: Store) {
       responses: { 201: json(Issued, 'created'), ...errorResponses },
     }),
     async (c) => {
-      const lead = requireRole(c, 'lead');
+      const lead = writer(c, 'lead');
       const { user, tokenId, secret } = await store.users.createWithToken(
-        { userId: lead.id },
+        lead,
         c.req.valid('json'),
       );
       return c.json({ user, tokenId, token: secret }, 201);
@@ -89,8 +112,8 @@ export function userRoutes(store: Store) {
       responses: { 204: { description: 'revoked' }, ...errorResponses },
     }),
     async (c) => {
-      const lead = requireRole(c, 'lead');
-      await store.users.revokeToken({ userId: lead.id }, c.req.valid('param').id);
+      const lead = writer(c, 'lead');
+      await store.users.revokeToken(lead, c.req.valid('param').id);
       return c.body(null, 204);
     },
   );

@@ -177,10 +177,10 @@ export function userRepository(db: Db) {
         .where(userName === undefined ? undefined : eq(users.name, userName))
         .orderBy(asc(tokens.id));
     },
-    /** The user a bearer secret belongs to, or null when it is unknown, revoked or a feed token. */
-    authenticate: async (secret: string): Promise<UserRow | null> => {
+    /** The user a bearer secret belongs to and the token's id, or null when it is unknown, revoked or a feed token. */
+    authenticate: async (secret: string): Promise<{ user: UserRow; tokenId: number } | null> => {
       const rows = await db
-        .select({ user: users })
+        .select({ user: users, tokenId: tokens.id })
         .from(tokens)
         .innerJoin(users, eq(users.id, tokens.userId))
         .where(
@@ -191,7 +191,7 @@ export function userRepository(db: Db) {
           ),
         )
         .limit(1);
-      return rows[0]?.user ?? null;
+      return rows[0] ?? null;
     },
     /** The campaign an active feed token opens, or null when the secret is no active feed token. */
     feedCampaignOf: async (secret: string): Promise<number | null> => {
