@@ -1,7 +1,7 @@
 /** `epochwright fit`: orbits from measurements in a CSV file or in the store; optionally accepted as new solutions. */
 import { parseArgs } from 'node:util';
 import { fitOrbits, type FitRequest, type StarHints } from '../../science/orbit/fit/index.ts';
-import { type StoredFitOptions } from '../../store/index.ts';
+import type { StoredFitOptions } from '../../store/index.ts';
 import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
 import { optionalId, outputFormat, positiveId } from '../args.ts';

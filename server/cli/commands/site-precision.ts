@@ -1,7 +1,7 @@
 /** `epochwright site-precision`: each site's expected measurement precision, shown or changed. */
 import { parseArgs } from 'node:util';
 import { DEFAULT_PRECISION } from '../../science/plan/index.ts';
-import { type SiteRow } from '../../store/index.ts';
+import type { SiteRow } from '../../store/index.ts';
 import { localActor } from '../actor.ts';
 import { optionalId, outputFormat } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
