@@ -140,7 +140,7 @@ for (const backend of BACKENDS) {
       expect(p.body.nights[1]).toMatchObject({
         date: '2028-01-02',
         state: 'refused',
-        reason: expect.stringMatching(/outside the campaign’s dates 2027-01-01 to 2027-12-31/),
+        reason: expect.stringMatching(/outside the campaign’s dates 2026-01-01 to 2027-12-31/),
         foundIn: 'CSV line 3',
       });
       const s = await post('/allocations', body);

@@ -48,7 +48,7 @@ function cases(f: Fixture): Case[] {
       method: 'POST',
       path: '/api/systems',
       body: { name: 'A', raDeg: '25:00:00', decDeg: 2 },
-      status: 400,
+      status: 422,
       field: 'raDeg',
     },
     {

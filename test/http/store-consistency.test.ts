@@ -245,7 +245,8 @@ describe.each(BACKENDS)('consistency rules on $name', (backend) => {
     const e = await refused(
       'PATCH',
       `/api/sites/${f.ids.site}`,
-      { timeZone: 'Asia/Tokyo' },
+      // Confirmed, so the longitude–zone check lets it through to the rule under test.
+      { timeZone: 'Asia/Tokyo', longitudeZoneConfirmed: true },
       409,
       'dependent_rows',
       'timeZone',

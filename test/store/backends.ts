@@ -116,9 +116,10 @@ export async function fixture(
   });
   const campaign = await store.campaigns.create(a, {
     name: 'Test campaign',
-    // Before the tests' clock (2026-12-01, vitest.config.ts), so its night is over and may be logged.
+    // From before the tests' clock (2026-12-01, vitest.config.ts), so its night is over and may be
+    // logged, through next year, where allocations are planned.
     startDate: '2026-01-01',
-    endDate: '2026-12-31',
+    endDate: '2027-12-31',
     goals: { cadenceDays: 14, kinds: ['astrometry'] },
     targetIds: [target.id],
     siteIds: [site.id],

@@ -135,7 +135,7 @@ describe('measurement component', () => {
     const base = {
       targetId,
       kind: 'radial-velocity',
-      epoch: '2030-01-01T00:00:00Z',
+      epoch: '2026-01-01T00:00:00Z', // before the tests' clock: no measurement is from the future
       radialVelocityKmS: 5,
       sigmaRadialVelocityKmS: 0.5,
       instrument: 'spectrograph',
@@ -154,7 +154,7 @@ describe('measurement component', () => {
       targetId,
       kind: 'offsets',
       component: 'primary',
-      epoch: '2030-02-01T00:00:00Z',
+      epoch: '2026-02-01T00:00:00Z',
       dRaMas: 1,
       dDecMas: 2,
       sigmaDRaMas: 0.5,
@@ -167,7 +167,7 @@ describe('measurement component', () => {
     expect(text).toContain('positions are of the secondary relative to the primary');
     const csv = [
       'system,target,kind,component,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,instrument',
-      'Quill Pair,Quill B,offsets,secondary,JD 2462000,1,2,0.5,0.5,imager',
+      'Quill Pair,Quill B,offsets,secondary,JD 2461000,1,2,0.5,0.5,imager',
     ].join('\n');
     await expect(env.store.importCsv(LOCAL_OPERATOR, 'measurements', csv)).rejects.toThrow(
       /component/,

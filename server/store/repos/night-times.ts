@@ -52,7 +52,11 @@ const memo = new Map<string, NightTimes>();
 
 function skySite(place: SitePlace): Site {
   const { name, latitudeDeg, longitudeDeg, elevationM, timeZone } = place;
-  return validateSite({ name, latitudeDeg, longitudeDeg, elevationM, timeZone }, 'site');
+  // Its own checks ran when the site was written; here only its geometry and zone are read.
+  return validateSite(
+    { name, latitudeDeg, longitudeDeg, elevationM, timeZone, longitudeZoneConfirmed: true },
+    'site',
+  );
 }
 
 /**
