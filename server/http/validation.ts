@@ -59,3 +59,50 @@ export function validationHook(
   if (!result.success && result.error)
     throw new RequestInvalid(describeIssues(result.error, result.data), result.target);
 }
+
+/** Query parameters renamed in our own words: the old name is refused with the new one named. */
+const RENAMED_PARAMETERS: Record<string, string> = { from: 'start', to: 'end', every: 'step' };
+
+/** The query parameters a route declares (none when it declares no query). */
+function acceptedParameters(route: RouteConfig): string[] {
+  const query = route.request?.query as { shape?: Record<string, unknown> } | undefined;
+  return Object.keys(query?.shape ?? {}).sort();
+}
+
+/**
+ * Refuses, with a 400 naming it and the accepted ones, a query parameter the matched route does not
+ * declare: `?campaignId=3` on an export, or an old name such as `from`, would otherwise be ignored
+ * and the answer would cover more than was asked. Runs before sign-in and before any work.
+ */
+export function unknownQueryCheck<E extends Env>(app: OpenAPIHono<E>): MiddlewareHandler {
+  let table: RouteTable | undefined;
+  return async (c, next) => {
+    table ??= routeTable(app);
+    const route = declaredRoute(c, table);
+    const names = route ? [...new URL(c.req.url).searchParams.keys()] : [];
+    if (route && names.length > 0) {
+      const accepted = acceptedParameters(route);
+      const unknown = [...new Set(names)].filter((n) => !accepted.includes(n));
+      if (unknown.length > 0) {
+        const where = `${route.method.toUpperCase()} ${route.path}`;
+        const list = accepted.length > 0 ? `accepted: ${accepted.join(', ')}` : 'it takes none';
+        const issues = unknown.map((n) => ({
+          field: n,
+          rule: `is not a query parameter of ${where}${RENAMED_PARAMETERS[n] && accepted.includes(RENAMED_PARAMETERS[n]) ? ` (renamed: use ${RENAMED_PARAMETERS[n]})` : ''}; ${list}`,
+          code: 'unknown_parameter',
+        }));
+        const more = issues.length > 1 ? ` (and ${issues.length - 1} more)` : '';
+        throw new HttpError(
+          400,
+          'invalid_request',
+          `${issues[0]!.field}: ${issues[0]!.rule}${more}`,
+          {
+            issues,
+            accepted,
+          },
+        );
+      }
+    }
+    await next();
+  };
+}

@@ -88,7 +88,7 @@ export const accountCommand: Command = {
               throw new UsageError('account feed-token needs --name and --campaign-id');
             const campaignId = positiveId('campaign-id', values['campaign-id']);
             const issued = await store.users.issueFeedToken(
-              LOCAL_OPERATOR,
+              localActor(),
               values.name,
               campaignId,
               values.label ?? 'calendar feed',

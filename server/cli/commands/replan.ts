@@ -1,6 +1,7 @@
 /** `epochwright replan`: after a night that lost time, the rest of its campaign's season planned again. */
 import { parseArgs } from 'node:util';
-import { LOCAL_OPERATOR, type ReplanRequest } from '../../store/index.ts';
+import { type ReplanRequest } from '../../store/index.ts';
+import { localActor } from '../actor.ts';
 import { asOptions, outputFormat, positiveId, weatherOption } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
@@ -65,7 +66,7 @@ export const replanCommand: Command = {
       (store) =>
         asOptions(options, async () =>
           values.accept
-            ? store.plans.acceptReplan(LOCAL_OPERATOR, id, request, atJd)
+            ? store.plans.acceptReplan(localActor(), id, request, atJd)
             : store.plans.previewReplan(id, request, atJd),
         ),
       { writes: values.accept === true },

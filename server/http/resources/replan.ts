@@ -7,7 +7,7 @@
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Runner } from '../../jobs/tasks.ts';
 import { WEATHER_CHOICES, type Store } from '../../store/index.ts';
-import { requireRole } from '../auth.ts';
+import { requireRole, writer } from '../auth.ts';
 import { SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { BlockRowSchema, NightRowSchema } from './nights.ts';
@@ -98,11 +98,11 @@ export function replanRoutes(store: Store, run: Runner) {
       responses: { 201: json(Accepted, 'the re-plan with the blocks written'), ...errorResponses },
     }),
     async (c) => {
-      const user = requireRole(c, 'lead');
+      const actor = writer(c, 'lead');
       const { at, ...b } = c.req.valid('json');
       return c.json(
         await store.plans.acceptReplan(
-          { userId: user.id },
+          actor,
           c.req.valid('param').id,
           b,
           momentJd(at, 'at'),
