@@ -84,7 +84,7 @@ describe('re-plan after a lost night (demo campaign)', () => {
     const stale = await post(`/nights/${lost}/replan/accept`, { digest: 'not-the-digest' });
     expect(stale.status).toBe(409);
     expect((await post('/nights/99999/replan', {})).status).toBe(404);
-    expect((await post(`/nights/${lost}/replan`, { weather: 'foggy' })).status).toBe(400);
+    expect((await post(`/nights/${lost}/replan`, { weather: 'foggy' })).status).toBe(422); // an unknown choice breaks a rule (README "HTTP API")
     expect(await tableCounts(store)).toEqual(before);
   });
 
