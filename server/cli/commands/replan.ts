@@ -1,6 +1,6 @@
 /** `epochwright replan`: after a night that lost time, the rest of its campaign's season planned again. */
 import { parseArgs } from 'node:util';
-import { type ReplanRequest } from '../../store/index.ts';
+import type { ReplanRequest } from '../../store/index.ts';
 import { localActor } from '../actor.ts';
 import { asOptions, outputFormat, positiveId, weatherOption } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
