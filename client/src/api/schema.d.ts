@@ -1469,344 +1469,6 @@ export interface paths {
         };
         trace?: never;
     };
-    "/targets/{id}/ephemeris": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** Ephemeris of a target from its current orbit solution */
-        get: {
-            parameters: {
-                query: {
-                    /** @description first epoch (ISO 8601 with zone, JD, MJD, J…) */
-                    start: string;
-                    end: string;
-                    /** @description ISO 8601 duration between epochs, e.g. "P1D", "PT12H"; default P30D */
-                    step?: string;
-                    format?: "json" | "csv";
-                };
-                header?: never;
-                path: {
-                    id: number;
-                };
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description solution, orbit and one row per epoch (CSV with format=csv) */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            /** @description the orbit solution the answer was computed from */
-                            solution: {
-                                id: number;
-                                version: number;
-                            };
-                            orbit: components["schemas"]["OrbitDescription"];
-                            predictions: components["schemas"]["EphemerisRow"][];
-                        };
-                        "text/csv": string;
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
-                503: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
-    "/targets/{id}/events": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** Periapsis and other events of a target from its current orbit solution */
-        get: {
-            parameters: {
-                query: {
-                    start: string;
-                    end: string;
-                    /** @description comma-separated: periapsis, apoapsis, ascending-node, descending-node, rv-maximum, rv-minimum, closest-separation, widest-separation */
-                    kinds?: string;
-                };
-                header?: never;
-                path: {
-                    id: number;
-                };
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description events soonest first */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            /** @description the orbit solution the answer was computed from */
-                            solution: {
-                                id: number;
-                                version: number;
-                            };
-                            events: components["schemas"]["OrbitEvent"][];
-                        };
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
-                503: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
-    "/targets/{id}/forecast": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** When the redshift and precession factors become detectable with the planned blocks */
-        get: {
-            parameters: {
-                query?: {
-                    /** @description count planned blocks from here (ISO 8601, JD, MJD); default now */
-                    at?: string;
-                    /** @description 1σ per offset component of a planned epoch, mas */
-                    astrometryMas?: number;
-                    /** @description 1σ of a planned radial velocity, km/s */
-                    spectroscopyKmS?: number;
-                };
-                header?: never;
-                path: {
-                    id: number;
-                };
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description Fisher σ of each factor now and after the plan, dates of 3σ and 5σ, top epochs */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["TargetForecast"];
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
-                503: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
     "/orbit-solutions": {
         parameters: {
             query?: never;
@@ -4505,110 +4167,6 @@ export interface paths {
         };
         trace?: never;
     };
-    "/nights/{id}/visibility": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** Darkness, Moon and each target’s windows on a stored night */
-        get: {
-            parameters: {
-                query?: {
-                    /** @description include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude */
-                    curves?: "true" | "false";
-                };
-                header?: never;
-                path: {
-                    id: number;
-                };
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description the night report with cautions */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["NightVisibility"];
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
-                503: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
     "/blocks": {
         parameters: {
             query?: never;
@@ -6733,115 +6291,6 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
-    "/campaigns/{id}/flags": {
-        parameters: {
-            query?: never;
-            header?: never;
-            path?: never;
-            cookie?: never;
-        };
-        /** Periapsis, blend and stale-prediction flags of a campaign, soonest first */
-        get: {
-            parameters: {
-                query?: {
-                    /** @description the moment to compute flags for (ISO 8601, JD, MJD); default the current minute */
-                    at?: string;
-                    /** @description resolution limit for blend flags, mas */
-                    resolutionMas?: number;
-                };
-                header?: never;
-                path: {
-                    id: number;
-                };
-                cookie?: never;
-            };
-            requestBody?: never;
-            responses: {
-                /** @description the flags */
-                200: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": {
-                            campaignId: number;
-                            flags: components["schemas"]["Flag"][];
-                        };
-                    };
-                };
-                /** @description malformed request (field-level issues in details) */
-                400: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no valid bearer token */
-                401: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description the token’s role may not do this */
-                403: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description no such record */
-                404: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description clashes with the stored state (stale version, duplicate, still in use) */
-                409: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description a value breaks a rule (field, value, rule in details) */
-                422: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
-                503: {
-                    headers: {
-                        [name: string]: unknown;
-                    };
-                    content: {
-                        "application/json": components["schemas"]["Error"];
-                    };
-                };
-            };
-        };
-        put?: never;
-        post?: never;
-        delete?: never;
-        options?: never;
-        head?: never;
-        patch?: never;
-        trace?: never;
-    };
     "/imports/{kind}": {
         parameters: {
             query?: never;
@@ -8542,6 +7991,557 @@ export interface paths {
                 };
             };
         };
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/campaigns/{id}/flags": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Periapsis, blend and stale-prediction flags of a campaign, soonest first */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description the moment to compute flags for (ISO 8601, JD, MJD); default the current minute */
+                    at?: string;
+                    /** @description resolution limit for blend flags, mas */
+                    resolutionMas?: number;
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description the flags */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            campaignId: number;
+                            flags: components["schemas"]["Flag"][];
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/nights/{id}/visibility": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Darkness, Moon and each target’s windows on a stored night */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude */
+                    curves?: "true" | "false";
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description the night report with cautions */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["NightVisibility"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/targets/{id}/ephemeris": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Ephemeris of a target from its current orbit solution */
+        get: {
+            parameters: {
+                query: {
+                    /** @description first epoch (ISO 8601 with zone, JD, MJD, J…) */
+                    start: string;
+                    end: string;
+                    /** @description ISO 8601 duration between epochs, e.g. "P1D", "PT12H"; default P30D */
+                    step?: string;
+                    format?: "json" | "csv";
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description solution, orbit and one row per epoch (CSV with format=csv) */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            /** @description the orbit solution the answer was computed from */
+                            solution: {
+                                id: number;
+                                version: number;
+                            };
+                            orbit: components["schemas"]["OrbitDescription"];
+                            predictions: components["schemas"]["EphemerisRow"][];
+                        };
+                        "text/csv": string;
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/targets/{id}/events": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Periapsis and other events of a target from its current orbit solution */
+        get: {
+            parameters: {
+                query: {
+                    start: string;
+                    end: string;
+                    /** @description comma-separated: periapsis, apoapsis, ascending-node, descending-node, rv-maximum, rv-minimum, closest-separation, widest-separation */
+                    kinds?: string;
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description events soonest first */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": {
+                            /** @description the orbit solution the answer was computed from */
+                            solution: {
+                                id: number;
+                                version: number;
+                            };
+                            events: components["schemas"]["OrbitEvent"][];
+                        };
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
+    "/targets/{id}/forecast": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** When the redshift and precession factors become detectable with the planned blocks */
+        get: {
+            parameters: {
+                query?: {
+                    /** @description count planned blocks from here (ISO 8601, JD, MJD); default now */
+                    at?: string;
+                    /** @description 1σ per offset component of a planned epoch, mas */
+                    astrometryMas?: number;
+                    /** @description 1σ of a planned radial velocity, km/s */
+                    spectroscopyKmS?: number;
+                };
+                header?: never;
+                path: {
+                    id: number;
+                };
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description Fisher σ of each factor now and after the plan, dates of 3σ and 5σ, top epochs */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["TargetForecast"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
         delete?: never;
         options?: never;
         head?: never;
@@ -10521,76 +10521,6 @@ export interface components {
             createdAt: string;
             updatedAt?: string;
         };
-        TargetForecast: {
-            factors: components["schemas"]["FactorForecast"][];
-            plannedEpochs: number;
-            summary: string[];
-            assumptions: string;
-            solution: {
-                id: number;
-                version: number;
-            };
-            at: string;
-            /** @description the σ each planned block is counted at (the season planner’s precision model at its airmass), and blocks the limits close */
-            precision: {
-                source: string;
-                /** @description σ range per kind and blocks not counted, in words */
-                text: string;
-                epochs: {
-                    blockId: number;
-                    /** @description the block’s middle, ISO 8601 UTC */
-                    epoch: string;
-                    /** @enum {string} */
-                    kind: "astrometry" | "spectroscopy";
-                    site: string;
-                    /** @description local evening date */
-                    night: string;
-                    airmass: number;
-                    /** @description expected 1σ there and then, in `unit` */
-                    sigma: number;
-                    /** @enum {string} */
-                    unit: "mas" | "km/s";
-                }[];
-                notCounted: {
-                    blockId: number;
-                    epoch: string;
-                    /** @enum {string} */
-                    kind: "astrometry" | "spectroscopy";
-                    site: string;
-                    night: string;
-                    /** @description the limit that closes the block’s middle */
-                    reason: string;
-                }[];
-            };
-            blockIds: number[];
-        };
-        FactorForecast: {
-            /** @enum {string} */
-            name: "redshiftFactor" | "precessionFactor";
-            /** @description the value assumed true (1: general relativity) */
-            assumedValue: number;
-            /** @description Fisher 1σ from the measurements; null: not determined yet */
-            sigmaNow: number | null;
-            /** @description Fisher 1σ with the planned epochs */
-            sigmaAfter: number | null;
-            /** @description expected |value|/σ now */
-            significanceNow: number;
-            /** @description expected |value|/σ after the plan */
-            significanceAfter: number;
-            reaches: {
-                sigma: number;
-                already: boolean;
-                /** @description the planned epoch (observed time, ISO 8601 UTC) after which the threshold is reached; null if never */
-                epoch: string | null;
-            }[];
-            topEpochs: {
-                epoch: string;
-                /** @enum {string} */
-                kind: "astrometry" | "spectroscopy";
-                /** @description fraction of the information after the plan that this epoch adds */
-                share: number;
-            }[];
-        };
         OrbitSolutionRow: {
             targetId: number;
             orbit: components["schemas"]["Orbit"];
@@ -10951,82 +10881,6 @@ export interface components {
             createdAt: string;
             updatedAt?: string;
         };
-        NightVisibility: {
-            site: {
-                name: string;
-                timeZone: string;
-                latitudeDeg: number;
-                longitudeDeg: number;
-                elevationM: number;
-                pressureHpa: number;
-                temperatureC: number;
-                /** @description relative humidity for refraction, % */
-                humidityPct: number;
-                /** @description wavelength refraction is computed at, µm */
-                wavelengthUm: number;
-            };
-            night: {
-                /** @description local date of the evening, YYYY-MM-DD */
-                date: string;
-                start: components["schemas"]["Instant"];
-                end: components["schemas"]["Instant"];
-                hours: number;
-            };
-            sun: {
-                set: components["schemas"]["Instant"] & (Record<string, never> | null);
-                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
-                midnight: components["schemas"]["Instant"];
-                twilights: {
-                    civil: {
-                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
-                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
-                        sunAltitudeDeg: number;
-                    };
-                    nautical: {
-                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
-                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
-                        sunAltitudeDeg: number;
-                    };
-                    astronomical: {
-                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
-                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
-                        sunAltitudeDeg: number;
-                    };
-                };
-            };
-            darkness: {
-                limit: string;
-                intervals: components["schemas"]["Interval"][];
-                hours: number;
-            };
-            moon: {
-                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
-                set: components["schemas"]["Instant"] & (Record<string, never> | null);
-                transit: components["schemas"]["Instant"] & (Record<string, never> | null);
-                illuminatedFraction: number;
-                phaseDeg: number;
-                /** @description topocentric altitude of the centre, no refraction, deg */
-                curve: {
-                    utc: string[];
-                    altitudeDeg: number[];
-                } | null;
-            };
-            limits: {
-                altitudeLimitDeg: number;
-                highestAirmass: number | null;
-                airmassFormula: string;
-                leastMoonDistanceDeg: number;
-                leastSunDistanceDeg: number;
-                horizonMask: boolean;
-            };
-            /** @enum {string} */
-            method: "fast" | "exact";
-            targets: components["schemas"]["TargetNight"][];
-            /** @description safety notes; the site’s rules prevail */
-            cautions: string[];
-            nightId: number;
-            campaignId: number | null;
-        };
         BlockRow: {
             nightId: number;
             targetId: number;
@@ -11166,97 +11020,6 @@ export interface components {
             entityId: number | null;
             /** @description create: the values written; update: { changed: { field: { old, new } } }; delete: the row as it was; import: rows and file digest */
             detail?: unknown;
-        };
-        Flag: {
-            /** @enum {string} */
-            kind: "periapsis-ahead" | "periapsis-unobservable" | "relativity-epoch" | "blend-risk" | "stale-prediction";
-            target: string;
-            /** @description when it applies, ISO 8601 UTC: the periapsis, the blend’s start, or for a stale prediction the first moment a site can observe the target (now if it can) */
-            date: string;
-            daysAhead: number;
-            reason: string;
-            periapsis?: {
-                sigmaDays: number | null;
-                band: string;
-                sites: {
-                    site: string;
-                    nights: {
-                        date: string;
-                        hours: number;
-                        /**
-                         * @description the limit that closed the night (the words say it in full, with its numbers)
-                         * @enum {string|null}
-                         */
-                        reason: "not-allocated" | "no-darkness" | "altitude" | "airmass" | "horizon-mask" | "moon" | "sun-distance" | "too-short" | "kept-epoch" | "kept-full" | "taken" | "no-room" | null;
-                        words: string | null;
-                    }[];
-                    minHours: number;
-                    maxHours: number;
-                    /** @description why it cannot be observed on the night of periapsis, if it cannot */
-                    blocked: string | null;
-                }[];
-                radialVelocityRateKmSPerDay: number | null;
-                skyRateMasPerDay: number;
-                /** @description longest interval between epochs that still follows the change, days */
-                samplingDays: number | null;
-                /** @description nights (site, local evening date) of the ± window holding a planned epoch at an observable moment or an allocated observable night, and whether the most likely date is covered */
-                coverage: {
-                    planned: {
-                        site: string;
-                        date: string;
-                    }[];
-                    /** @description planned epochs of the window at a moment the target cannot be observed (the Moon, …): they do not cover it */
-                    closed: {
-                        site: string;
-                        date: string;
-                        words: string;
-                    }[];
-                    allocated: {
-                        site: string;
-                        date: string;
-                    }[];
-                    mostLikelyCovered: boolean;
-                    text: string;
-                };
-                relativity: {
-                    gravitationalRedshiftKmS: number;
-                    transverseDopplerKmS: number;
-                    precessionArcminPerOrbit: number;
-                } | null;
-            };
-            blend?: {
-                other: string;
-                start: string;
-                end: string;
-                closestMas: number;
-            };
-            /** @description coming planned epochs the relativity forecast depends on */
-            relativity?: {
-                epochs: {
-                    /** @description the planned epoch (block middle), UTC */
-                    epoch: string;
-                    shares: {
-                        factor: string;
-                        share: number;
-                    }[];
-                    /** @description detections reached with it, e.g. "redshift 5σ" */
-                    reaches: string[];
-                }[];
-                summary: string[];
-            };
-            stale?: {
-                /** @description position 1σ at the flag’s date, mas */
-                sigmaMas: number | null;
-                /** @description days from the last measurement to the flag’s date */
-                daysSinceMeasured: number | null;
-                nextPlanned: string | null;
-                /** @description when a site can next observe the target, if not now: first open moment (UTC; the flag’s date), site, night (local evening date) */
-                observableFrom: {
-                    utc: string;
-                    site: string;
-                    night: string;
-                } | null;
-            };
         };
         SeasonPlanPreview: {
             campaignId: number;
@@ -11636,6 +11399,243 @@ export interface components {
             rule: string;
             /** @description the same, ready to paste into a proposal */
             markdown: string;
+        };
+        Flag: {
+            /** @enum {string} */
+            kind: "periapsis-ahead" | "periapsis-unobservable" | "relativity-epoch" | "blend-risk" | "stale-prediction";
+            target: string;
+            /** @description when it applies, ISO 8601 UTC: the periapsis, the blend’s start, or for a stale prediction the first moment a site can observe the target (now if it can) */
+            date: string;
+            daysAhead: number;
+            reason: string;
+            periapsis?: {
+                sigmaDays: number | null;
+                band: string;
+                sites: {
+                    site: string;
+                    nights: {
+                        date: string;
+                        hours: number;
+                        /**
+                         * @description the limit that closed the night (the words say it in full, with its numbers)
+                         * @enum {string|null}
+                         */
+                        reason: "not-allocated" | "no-darkness" | "altitude" | "airmass" | "horizon-mask" | "moon" | "sun-distance" | "too-short" | "kept-epoch" | "kept-full" | "taken" | "no-room" | null;
+                        words: string | null;
+                    }[];
+                    minHours: number;
+                    maxHours: number;
+                    /** @description why it cannot be observed on the night of periapsis, if it cannot */
+                    blocked: string | null;
+                }[];
+                radialVelocityRateKmSPerDay: number | null;
+                skyRateMasPerDay: number;
+                /** @description longest interval between epochs that still follows the change, days */
+                samplingDays: number | null;
+                /** @description nights (site, local evening date) of the ± window holding a planned epoch at an observable moment or an allocated observable night, and whether the most likely date is covered */
+                coverage: {
+                    planned: {
+                        site: string;
+                        date: string;
+                    }[];
+                    /** @description planned epochs of the window at a moment the target cannot be observed (the Moon, …): they do not cover it */
+                    closed: {
+                        site: string;
+                        date: string;
+                        words: string;
+                    }[];
+                    allocated: {
+                        site: string;
+                        date: string;
+                    }[];
+                    mostLikelyCovered: boolean;
+                    text: string;
+                };
+                relativity: {
+                    gravitationalRedshiftKmS: number;
+                    transverseDopplerKmS: number;
+                    precessionArcminPerOrbit: number;
+                } | null;
+            };
+            blend?: {
+                other: string;
+                start: string;
+                end: string;
+                closestMas: number;
+            };
+            /** @description coming planned epochs the relativity forecast depends on */
+            relativity?: {
+                epochs: {
+                    /** @description the planned epoch (block middle), UTC */
+                    epoch: string;
+                    shares: {
+                        factor: string;
+                        share: number;
+                    }[];
+                    /** @description detections reached with it, e.g. "redshift 5σ" */
+                    reaches: string[];
+                }[];
+                summary: string[];
+            };
+            stale?: {
+                /** @description position 1σ at the flag’s date, mas */
+                sigmaMas: number | null;
+                /** @description days from the last measurement to the flag’s date */
+                daysSinceMeasured: number | null;
+                nextPlanned: string | null;
+                /** @description when a site can next observe the target, if not now: first open moment (UTC; the flag’s date), site, night (local evening date) */
+                observableFrom: {
+                    utc: string;
+                    site: string;
+                    night: string;
+                } | null;
+            };
+        };
+        NightVisibility: {
+            site: {
+                name: string;
+                timeZone: string;
+                latitudeDeg: number;
+                longitudeDeg: number;
+                elevationM: number;
+                pressureHpa: number;
+                temperatureC: number;
+                /** @description relative humidity for refraction, % */
+                humidityPct: number;
+                /** @description wavelength refraction is computed at, µm */
+                wavelengthUm: number;
+            };
+            night: {
+                /** @description local date of the evening, YYYY-MM-DD */
+                date: string;
+                start: components["schemas"]["Instant"];
+                end: components["schemas"]["Instant"];
+                hours: number;
+            };
+            sun: {
+                set: components["schemas"]["Instant"] & (Record<string, never> | null);
+                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
+                midnight: components["schemas"]["Instant"];
+                twilights: {
+                    civil: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                    nautical: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                    astronomical: {
+                        dusk: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        dawn: components["schemas"]["Instant"] & (Record<string, never> | null);
+                        sunAltitudeDeg: number;
+                    };
+                };
+            };
+            darkness: {
+                limit: string;
+                intervals: components["schemas"]["Interval"][];
+                hours: number;
+            };
+            moon: {
+                rise: components["schemas"]["Instant"] & (Record<string, never> | null);
+                set: components["schemas"]["Instant"] & (Record<string, never> | null);
+                transit: components["schemas"]["Instant"] & (Record<string, never> | null);
+                illuminatedFraction: number;
+                phaseDeg: number;
+                /** @description topocentric altitude of the centre, no refraction, deg */
+                curve: {
+                    utc: string[];
+                    altitudeDeg: number[];
+                } | null;
+            };
+            limits: {
+                altitudeLimitDeg: number;
+                highestAirmass: number | null;
+                airmassFormula: string;
+                leastMoonDistanceDeg: number;
+                leastSunDistanceDeg: number;
+                horizonMask: boolean;
+            };
+            /** @enum {string} */
+            method: "fast" | "exact";
+            targets: components["schemas"]["TargetNight"][];
+            /** @description safety notes; the site’s rules prevail */
+            cautions: string[];
+            nightId: number;
+            campaignId: number | null;
+        };
+        TargetForecast: {
+            factors: components["schemas"]["FactorForecast"][];
+            plannedEpochs: number;
+            summary: string[];
+            assumptions: string;
+            solution: {
+                id: number;
+                version: number;
+            };
+            at: string;
+            /** @description the σ each planned block is counted at (the season planner’s precision model at its airmass), and blocks the limits close */
+            precision: {
+                source: string;
+                /** @description σ range per kind and blocks not counted, in words */
+                text: string;
+                epochs: {
+                    blockId: number;
+                    /** @description the block’s middle, ISO 8601 UTC */
+                    epoch: string;
+                    /** @enum {string} */
+                    kind: "astrometry" | "spectroscopy";
+                    site: string;
+                    /** @description local evening date */
+                    night: string;
+                    airmass: number;
+                    /** @description expected 1σ there and then, in `unit` */
+                    sigma: number;
+                    /** @enum {string} */
+                    unit: "mas" | "km/s";
+                }[];
+                notCounted: {
+                    blockId: number;
+                    epoch: string;
+                    /** @enum {string} */
+                    kind: "astrometry" | "spectroscopy";
+                    site: string;
+                    night: string;
+                    /** @description the limit that closes the block’s middle */
+                    reason: string;
+                }[];
+            };
+            blockIds: number[];
+        };
+        FactorForecast: {
+            /** @enum {string} */
+            name: "redshiftFactor" | "precessionFactor";
+            /** @description the value assumed true (1: general relativity) */
+            assumedValue: number;
+            /** @description Fisher 1σ from the measurements; null: not determined yet */
+            sigmaNow: number | null;
+            /** @description Fisher 1σ with the planned epochs */
+            sigmaAfter: number | null;
+            /** @description expected |value|/σ now */
+            significanceNow: number;
+            /** @description expected |value|/σ after the plan */
+            significanceAfter: number;
+            reaches: {
+                sigma: number;
+                already: boolean;
+                /** @description the planned epoch (observed time, ISO 8601 UTC) after which the threshold is reached; null if never */
+                epoch: string | null;
+            }[];
+            topEpochs: {
+                epoch: string;
+                /** @enum {string} */
+                kind: "astrometry" | "spectroscopy";
+                /** @description fraction of the information after the plan that this epoch adds */
+                share: number;
+            }[];
         };
         FitResult: {
             method: string;
