@@ -12,7 +12,7 @@ import { commands } from '../../server/cli/commands/index.ts';
 import { UsageError } from '../../server/cli/io.ts';
 import { createApp } from '../../server/http/app.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
-import { ORBIT_S1 } from '../store/backends.ts';
+import { ORBIT_WREN } from '../store/backends.ts';
 
 let dir: string;
 let store: Store;
@@ -36,7 +36,7 @@ beforeAll(async () => {
     decDeg: '-21:42',
   });
   const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'R s1' });
-  await store.orbitSolutions.create(LOCAL_OPERATOR, { targetId: target.id, orbit: ORBIT_S1 });
+  await store.orbitSolutions.create(LOCAL_OPERATOR, { targetId: target.id, orbit: ORBIT_WREN });
   server = serve({ fetch: createApp({ store }).fetch, port: 0, hostname: '127.0.0.1' });
   await new Promise((r) => server.once('listening', r));
   base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;

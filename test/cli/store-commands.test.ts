@@ -16,7 +16,7 @@ import {
   locateDatabase,
   openDatabase,
 } from '../../server/store/index.ts';
-import { ORBIT_S1 } from '../store/backends.ts';
+import { ORBIT_WREN } from '../store/backends.ts';
 
 let dir: string;
 let url: string;
@@ -32,8 +32,8 @@ beforeAll(async () => {
     raDeg: 263.8,
     decDeg: -21.7,
   });
-  const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'K s1' });
-  await store.orbitSolutions.create(LOCAL_OPERATOR, { targetId: target.id, orbit: ORBIT_S1 });
+  const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'Kite' });
+  await store.orbitSolutions.create(LOCAL_OPERATOR, { targetId: target.id, orbit: ORBIT_WREN });
   const site = await store.sites.create(LOCAL_OPERATOR, {
     name: 'Cli Ridge',
     latitudeDeg: -24.9,
@@ -103,7 +103,7 @@ describe('store commands', () => {
     const bad = join(dir, 'bad.csv');
     writeFileSync(
       bad,
-      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2026.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2026.5,fast,5,spec\nNowhere,K s1,radial-velocity,J2026.6,1,5,spec\n',
+      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,Kite,radial-velocity,J2026.4,120,5,spec\nCli Deep,Kite,radial-velocity,J2026.5,fast,5,spec\nNowhere,Kite,radial-velocity,J2026.6,1,5,spec\n',
     );
     const err = await run('import', '--kind', 'measurements', '--file', bad).catch(
       (e: unknown) => e,
@@ -115,7 +115,7 @@ describe('store commands', () => {
     const good = join(dir, 'good.csv');
     writeFileSync(
       good,
-      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,K s1,radial-velocity,J2026.4,120,5,spec\nCli Deep,K s1,radial-velocity,J2026.5,130,5,spec\n',
+      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nCli Deep,Kite,radial-velocity,J2026.4,120,5,spec\nCli Deep,Kite,radial-velocity,J2026.5,130,5,spec\n',
     );
     expect(await run('import', '--kind', 'measurements', '--file', good, '--check-only')).toMatch(
       /checked 2 .* nothing written/,
@@ -146,7 +146,7 @@ describe('store commands', () => {
     expect(eph.trim().split('\n').length).toBe(4); // header + 3 daily rows, both ends included
     const cal = ical.sync.parseICS(await run('export', 'calendar', '--campaign-id', '1'));
     const vevents = Object.values(cal).filter((c) => c?.type === 'VEVENT') as ical.VEvent[];
-    expect(vevents.map((e) => String(e.summary))).toEqual(['Periapsis of K s1 (Cli Deep)']); // one periapsis of K s1 (P = 14.2 yr, ORBIT_S1 invented) in the window (no covariance: no σ, so a one-minute event), no nights, no blocks; its flag is not repeated
+    expect(vevents.map((e) => String(e.summary))).toEqual(['Periapsis of Kite (Cli Deep)']); // one periapsis of Kite (P = 14.2 yr, ORBIT_WREN invented) in the window (no covariance: no σ, so a one-minute event), no nights, no blocks; its flag is not repeated
     const bad = await run('export', 'calendar', '--campaign-id', '1', '--at', 'someday').catch(
       (e: unknown) => e,
     );
@@ -181,7 +181,7 @@ describe('store commands', () => {
       await run('night', '--site-id', '1', '--campaign-id', '1', '--date', '2027-06-15', '--json'),
     ) as { site: { name: string }; targets: { name: string }[] };
     expect(night.site.name).toBe('Cli Ridge');
-    expect(night.targets.map((t) => t.name)).toEqual(['K s1 (Cli Deep)']);
+    expect(night.targets.map((t) => t.name)).toEqual(['Kite (Cli Deep)']);
     await expect(run('night', '--campaign-id', '1', '--date', '2027-06-15')).rejects.toBeInstanceOf(
       UsageError,
     );

@@ -54,7 +54,7 @@ describe('the audit trail', () => {
     const me = (await (await f.call('lead', 'GET', '/api/me')).json()) as { id: number };
     const tokens = await store.users.listTokens('lead one');
     const patched = await f.call('lead', 'PATCH', `/api/systems/${f.ids.system}`, {
-      distancePc: 7500,
+      distancePc: 11600,
       notes: 'distance revised',
     });
     expect(patched.status, await patched.clone().text()).toBe(200);
@@ -69,10 +69,10 @@ describe('the audit trail', () => {
     expect(tokens.map((t) => t.id)).toContain(entry!.tokenId); // the lead's own token
     expect(entry!.detail).toEqual({
       changed: {
-        distancePc: { old: 7400, new: 7500 },
+        distancePc: { old: 11500, new: 11600 },
         notes: { old: '', new: 'distance revised' },
       },
-    }); // constructed case: the fixture's system has 7400 pc and no notes
+    }); // constructed case: the fixture's system has 11500 pc and no notes
   });
 
   it('records a changed join table (a campaign’s targets) with its old and new ids', async () => {
@@ -103,7 +103,7 @@ describe('the audit trail', () => {
     const file = join(dir, 'rv.csv');
     writeFileSync(
       file,
-      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nTest Deep,T s1,radial-velocity,2026-04-01T04:00:00Z,120,5,spec\nTest Deep,T s1,radial-velocity,2026-04-02T04:00:00Z,121,5,spec\n',
+      'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\nTest Deep,Wren,radial-velocity,2026-04-01T04:00:00Z,120,5,spec\nTest Deep,Wren,radial-velocity,2026-04-02T04:00:00Z,121,5,spec\n',
     );
     // The command line opens the same file as the server (one store, many writers).
     await commands.import!.run(['--kind', 'measurements', '--file', file, '--database', url]);

@@ -9,7 +9,7 @@ import { Body, DefineStar, Equator, Horizon, Observer } from 'astronomy-engine';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import { MIGRATIONS_FOLDER } from '../../server/store/database.ts';
-import { BACKENDS, ORBIT_S1, fixture, tableCounts, type Fixture } from '../store/backends.ts';
+import { BACKENDS, ORBIT_WREN, fixture, tableCounts, type Fixture } from '../store/backends.ts';
 import { databaseOf } from '../../server/store/testing.ts';
 import { COMPUTE_PATHS } from '../../server/http/app.ts';
 
@@ -191,7 +191,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
   it('keeps orbit solutions as immutable versions with one current', async () => {
     const v2 = await f.call('lead', 'POST', '/api/orbit-solutions', {
       targetId: f.ids.target,
-      orbit: { ...ORBIT_S1, elements: { ...ORBIT_S1.elements, eccentricity: 0.88 } },
+      orbit: { ...ORBIT_WREN, elements: { ...ORBIT_WREN.elements, eccentricity: 0.88 } },
       reference: 'refit',
     });
     expect(v2.status).toBe(201);
@@ -379,7 +379,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
       (
         await f.call('observer', 'POST', '/api/orbit-solutions', {
           targetId: f.ids.target,
-          orbit: ORBIT_S1,
+          orbit: ORBIT_WREN,
         })
       ).status,
     ).toBe(403);
@@ -554,7 +554,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     ).json()) as { predictions: { dRaMas: number; epoch: string }[] };
     const direct = (await (
       await f.call('viewer', 'POST', '/api/ephemeris', {
-        orbit: ORBIT_S1,
+        orbit: ORBIT_WREN,
         epochs: { start: '2027-06-01T00:00Z', end: '2027-07-01T00:00Z', step: 'P5D' },
       })
     ).json()) as { predictions: { dRaMas: number }[] };

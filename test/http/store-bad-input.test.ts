@@ -7,7 +7,7 @@
  * (RFC 9110 §15.5 and RFC 4918 §11.2 for 422, from memory; the split is README's "HTTP API").
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { BACKENDS, ORBIT_S1, fixture, tableCounts, type Fixture } from '../store/backends.ts';
+import { BACKENDS, ORBIT_WREN, fixture, tableCounts, type Fixture } from '../store/backends.ts';
 
 type Role = 'lead' | 'observer' | 'viewer';
 interface Case {
@@ -162,7 +162,7 @@ function cases(f: Fixture): Case[] {
       path: '/api/orbit-solutions',
       body: {
         targetId: ids.target,
-        orbit: { ...ORBIT_S1, elements: { ...ORBIT_S1.elements, eccentricity: 1.2 } },
+        orbit: { ...ORBIT_WREN, elements: { ...ORBIT_WREN.elements, eccentricity: 1.2 } },
       },
       status: 422,
       field: 'orbit.elements.eccentricity',
@@ -180,7 +180,7 @@ function cases(f: Fixture): Case[] {
       role: 'lead',
       method: 'POST',
       path: '/api/orbit-solutions',
-      body: { targetId: 9999, orbit: ORBIT_S1 },
+      body: { targetId: 9999, orbit: ORBIT_WREN },
       status: 422,
       field: 'targetId',
     },
@@ -189,7 +189,7 @@ function cases(f: Fixture): Case[] {
       role: 'lead',
       method: 'POST',
       path: '/api/orbit-solutions',
-      body: { targetId: ids.target, orbit: ORBIT_S1, provenance: 'fitted' },
+      body: { targetId: ids.target, orbit: ORBIT_WREN, provenance: 'fitted' },
       status: 422,
       field: 'fittedFrom',
     },
@@ -625,16 +625,16 @@ describe.each(BACKENDS)('bad input on $name', (backend) => {
       });
     const broken = await post(
       'measurements',
-      'system,target,kind,epoch,instrument\n"Test Deep,T s1,offsets\n',
+      'system,target,kind,epoch,instrument\n"Test Deep,Wren,offsets\n',
     );
     expect(broken.status).toBe(422);
     const rows = [
       'system,target,kind,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,instrument',
-      'Test Deep,T s1,offsets,2026-06-11T04:00:00Z,1,2,0.3,0.3,imager',
-      'Test Deep,T s1,offsets,2026-06-11T04:10:00Z,abc,2,0.3,0.3,imager',
-      'Test Deep,T s1,offsets,2026-06-11T04:20:00Z,1,2,0.3,0.3,imager',
+      'Test Deep,Wren,offsets,2026-06-11T04:00:00Z,1,2,0.3,0.3,imager',
+      'Test Deep,Wren,offsets,2026-06-11T04:10:00Z,abc,2,0.3,0.3,imager',
+      'Test Deep,Wren,offsets,2026-06-11T04:20:00Z,1,2,0.3,0.3,imager',
       'Test Deep,T s9,offsets,2026-06-11T04:30:00Z,1,2,0.3,0.3,imager',
-      'Test Deep,T s1,offsets,someday,1,2,-0.3,0.3,imager',
+      'Test Deep,Wren,offsets,someday,1,2,-0.3,0.3,imager',
     ].join('\n');
     const bad = await post('measurements', rows);
     expect(bad.status).toBe(422);

@@ -404,9 +404,9 @@ describe.each(BACKENDS)('consistency rules on $name', (backend) => {
     const before = await tableCounts(f.store);
     const csv = [
       'system,target,kind,epoch,blockId,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,instrument',
-      `Test Deep,T s1,offsets,2026-06-11T04:40:00Z,${f.ids.block},5,6,0.3,0.3,imp`,
-      `Test Deep,T s1,offsets,2026-06-15T04:40:00Z,${f.ids.block},5,6,0.3,0.3,imp`,
-      'Test Deep,T s1,offsets,2027-01-01T04:40:00Z,,5,6,0.3,0.3,imp',
+      `Test Deep,Wren,offsets,2026-06-11T04:40:00Z,${f.ids.block},5,6,0.3,0.3,imp`,
+      `Test Deep,Wren,offsets,2026-06-15T04:40:00Z,${f.ids.block},5,6,0.3,0.3,imp`,
+      'Test Deep,Wren,offsets,2027-01-01T04:40:00Z,,5,6,0.3,0.3,imp',
     ].join('\n');
     const res = await f.app.request('/api/imports/measurements', {
       method: 'POST',

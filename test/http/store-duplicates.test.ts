@@ -78,9 +78,9 @@ describe.each(BACKENDS)('duplicates on $name', (backend) => {
   it('reports each repeated row of an import, check-only too, and writes nothing', async () => {
     const csv = [
       HEAD,
-      `Test Deep,T s1,radial-velocity,2026-03-01T04:00:00Z,120.5,2,twin spectrograph`,
-      `Test Deep,T s1,radial-velocity,2026-03-02T04:00:00Z,99,2,twin spectrograph`,
-      `Test Deep,T s1,radial-velocity,2026-03-02T04:00:00Z,99,2,twin spectrograph`,
+      `Test Deep,Wren,radial-velocity,2026-03-01T04:00:00Z,120.5,2,twin spectrograph`,
+      `Test Deep,Wren,radial-velocity,2026-03-02T04:00:00Z,99,2,twin spectrograph`,
+      `Test Deep,Wren,radial-velocity,2026-03-02T04:00:00Z,99,2,twin spectrograph`,
     ].join('\n');
     const before = await tableCounts(f.store);
     for (const query of ['?dryRun=true', '']) {
@@ -97,7 +97,7 @@ describe.each(BACKENDS)('duplicates on $name', (backend) => {
   it('refuses a file imported before unless allowDuplicates', async () => {
     const csv = [
       HEAD,
-      `Test Deep,T s1,radial-velocity,2026-04-01T04:00:00Z,55,2,file spectrograph`,
+      `Test Deep,Wren,radial-velocity,2026-04-01T04:00:00Z,55,2,file spectrograph`,
     ].join('\n');
     expect((await importCsv(csv)).status).toBe(200);
     const before = await tableCounts(f.store);
@@ -120,7 +120,7 @@ describe.each(BACKENDS)('duplicates on $name', (backend) => {
       HEAD,
       ...Array.from(
         { length: 50 },
-        (_, i) => `Test Deep,T s1,radial-velocity,JD ${2461000 + i},${i},2,audit spectrograph`,
+        (_, i) => `Test Deep,Wren,radial-velocity,JD ${2461000 + i},${i},2,audit spectrograph`,
       ),
     ].join('\n');
     const before = await tableCounts(f.store);

@@ -164,10 +164,10 @@ describe.each(BACKENDS)('text, ids and epochs on $name', (backend) => {
     const head = 'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument';
     const csv = [
       head,
-      'Test Deep,T s1,radial-velocity,2026-06-01T04:00:00Z,0x10,1,spec',
-      'Test Deep,T s1,radial-velocity,2026-06-01T05:00:00Z," 1 ",1,spec',
-      'Test Deep,T s1,radial-velocity,2026-06-01T06:00:00Z,Infinity,1,spec',
-      'Test Deep,T s1,radial-velocity,2026-06-01T07:00:00Z,-12.5e0,1,spec',
+      'Test Deep,Wren,radial-velocity,2026-06-01T04:00:00Z,0x10,1,spec',
+      'Test Deep,Wren,radial-velocity,2026-06-01T05:00:00Z," 1 ",1,spec',
+      'Test Deep,Wren,radial-velocity,2026-06-01T06:00:00Z,Infinity,1,spec',
+      'Test Deep,Wren,radial-velocity,2026-06-01T07:00:00Z,-12.5e0,1,spec',
     ].join('\n');
     const res = await f.app.request('/api/imports/measurements?dryRun=true', {
       method: 'POST',
@@ -243,13 +243,13 @@ describe.each(BACKENDS)('text, ids and epochs on $name', (backend) => {
       'sigmaDDecMas',
       /0.0001/,
     );
-    const { ORBIT_S1 } = await import('../store/backends.ts');
+    const { ORBIT_WREN } = await import('../store/backends.ts');
     await refused(
       'POST',
       '/api/orbit-solutions',
       {
         targetId: f.ids.target,
-        orbit: { ...ORBIT_S1, elements: { ...ORBIT_S1.elements, periodYears: 1e308 } },
+        orbit: { ...ORBIT_WREN, elements: { ...ORBIT_WREN.elements, periodYears: 1e308 } },
       },
       'orbit.elements.periodYears',
       /at most 1e\+7/,
@@ -257,8 +257,8 @@ describe.each(BACKENDS)('text, ids and epochs on $name', (backend) => {
   });
 
   it('names the member field when orbit elements match neither form', async () => {
-    const { ORBIT_S1 } = await import('../store/backends.ts');
-    const campbell = { ...ORBIT_S1.elements, periodYears: 'ten' };
+    const { ORBIT_WREN } = await import('../store/backends.ts');
+    const campbell = { ...ORBIT_WREN.elements, periodYears: 'ten' };
     const thieleInnes = {
       kind: 'thiele-innes',
       periodYears: 10,

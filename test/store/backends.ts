@@ -74,17 +74,18 @@ export interface Fixture {
   ): Promise<Response>;
 }
 
-export const ORBIT_S1 = {
+/** An invented orbit for the shared fixture (round values of our own; no real star). */
+export const ORBIT_WREN = {
   elements: {
     periodYears: 14.2,
     periapsis: '2027-06-14T06:00:00Z',
-    eccentricity: 0.87,
-    semiMajorAxisArcsec: 0.109,
-    inclinationDeg: 128,
-    ascendingNodeDeg: 231,
-    argPeriapsisDeg: 64,
+    eccentricity: 0.74,
+    semiMajorAxisArcsec: 0.094,
+    inclinationDeg: 71,
+    ascendingNodeDeg: 143,
+    argPeriapsisDeg: 298,
   },
-  distancePc: 7400,
+  distancePc: 11500,
 };
 
 /** Users of each role and one of every entity, made through the store. */
@@ -103,10 +104,10 @@ export async function fixture(
     name: 'Test Deep',
     raDeg: 263.8,
     decDeg: -21.7,
-    distancePc: 7400,
+    distancePc: 11500,
   });
-  const target = await store.targets.create(a, { systemId: system.id, name: 'T s1' });
-  await store.orbitSolutions.create(a, { targetId: target.id, orbit: ORBIT_S1 });
+  const target = await store.targets.create(a, { systemId: system.id, name: 'Wren' });
+  await store.orbitSolutions.create(a, { targetId: target.id, orbit: ORBIT_WREN });
   const site = await store.sites.create(a, {
     name: 'Test Ridge',
     latitudeDeg: -24.9,

@@ -3,12 +3,12 @@ import { parse } from 'csv-parse/sync';
 import { expect, it } from 'vitest';
 import { ephemeris, validateOrbit } from '../../server/science/orbit/index.ts';
 import { ephemerisCsv } from '../../server/store/index.ts';
-import { ORBIT_S1 } from './backends.ts';
+import { ORBIT_WREN } from './backends.ts';
 
 it('writes sigma columns equal to the ephemeris σ, and none without a covariance', () => {
-  // constructed case: ORBIT_S1 (invented) with a diagonal covariance of its own choosing
+  // constructed case: ORBIT_WREN (invented) with a diagonal covariance of its own choosing
   const withCov = validateOrbit({
-    ...ORBIT_S1,
+    ...ORBIT_WREN,
     covariance: {
       parameters: ['periodYears', 'eccentricity', 'semiMajorAxisArcsec'],
       matrix: [
@@ -34,6 +34,6 @@ it('writes sigma columns equal to the ephemeris σ, and none without a covarianc
     expect(Number(table[i]!.sigmaPositionAngleDeg)).toBe(r.sigma!.positionAngleDeg);
     expect(r.sigma!.dRaMas).toBeGreaterThan(0);
   });
-  const bare = ephemerisCsv(ephemeris(validateOrbit(ORBIT_S1), jd));
+  const bare = ephemerisCsv(ephemeris(validateOrbit(ORBIT_WREN), jd));
   expect(bare.split('\n')[0]).not.toMatch(/sigma/);
 });

@@ -23,7 +23,7 @@ function csvFile(startJd: number, rows: number): string {
   const lines = [HEAD];
   for (let i = 0; i < rows; i++)
     lines.push(
-      `Test Deep,T s1,radial-velocity,JD ${(startJd + i * 0.004).toFixed(6)},${(i % 300) - 150},4,wedge spectrograph`,
+      `Test Deep,Wren,radial-velocity,JD ${(startJd + i * 0.004).toFixed(6)},${(i % 300) - 150},4,wedge spectrograph`,
     );
   return lines.join('\n');
 }

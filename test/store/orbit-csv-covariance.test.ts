@@ -40,7 +40,7 @@ describe('orbit CSV with covariance columns', () => {
     try {
       await fixture(env.store);
       const row = (extra: string) =>
-        `${HEADER}\nTest Deep,T s1,14.2,2027-06-14T06:00:00Z,0.87,0.109,128,231,64,7400,${extra}\n`;
+        `${HEADER}\nTest Deep,Wren,14.2,2027-06-14T06:00:00Z,0.74,0.094,71,143,298,11500,${extra}\n`;
       const ok = await env.store.importCsv(
         LOCAL_OPERATOR,
         'orbits',
