@@ -24,6 +24,8 @@ function cell<Row>(col: Column<Row>, row: Row): string {
   return v;
 }
 
+const RULE_MAX = 60;
+
 /** An aligned text table: numbers right-aligned, text left-aligned. */
 export function formatTable<Row>(rows: readonly Row[], columns: readonly Column<Row>[]): string {
   const cells = rows.map((r) => columns.map((c) => cell(c, r)));
@@ -41,9 +43,17 @@ export function formatTable<Row>(rows: readonly Row[], columns: readonly Column<
   );
   const pad = (s: string, j: number) =>
     numeric[j] ? s.padStart(widths[j]!) : s.padEnd(widths[j]!);
+  // A long text column at the end (reasons, notes) wraps in the terminal anyway: its rule stops at
+  // RULE_MAX characters instead of running for the length of its longest cell.
+  const last = columns.length - 1;
+  const rule = (w: number, j: number) =>
+    j === last && !numeric[j] ? Math.min(w, Math.max(columns[j]!.header.length, RULE_MAX)) : w;
   const lines = [
-    columns.map((c, j) => pad(c.header, j)).join('  '),
-    widths.map((w) => '-'.repeat(w)).join('  '),
+    columns
+      .map((c, j) => pad(c.header, j))
+      .join('  ')
+      .trimEnd(),
+    widths.map((w, j) => '-'.repeat(rule(w, j))).join('  '),
   ];
   for (const row of cells)
     lines.push(
