@@ -217,7 +217,7 @@ describe('the night chart', () => {
     await page.close();
   });
 
-  test('a block of a target outside the night’s campaign gets a lane of its own', async () => {
+  test('a block of a target outside the night’s campaign is refused, naming both; nothing is stored', async () => {
     const campaigns = (
       await api<{ items: { id: number; siteIds: number[]; targetIds: number[] }[] }>(
         '/campaigns?limit=500',
@@ -242,9 +242,12 @@ describe('the night chart', () => {
       body: { siteId: host.siteIds[0], campaignId: host.id, date },
     });
     try {
+      // The store refuses such a block (server/store/repos/block-rules.ts); the chart's separate
+      // lane for one is left for rows stored before that rule.
       const vis = await api<Visibility>(`/nights/${night.id}/visibility?curves=true`);
       const start = Date.parse(vis.darkness.intervals[0]!.start.utc) + 3_600_000;
-      const block = await api<BlockRow>('/blocks', {
+      const before = (await api<{ items: BlockRow[] }>(`/blocks?nightId=${night.id}`)).items;
+      const refused = await api<BlockRow>('/blocks', {
         method: 'POST',
         body: {
           nightId: night.id,
@@ -253,17 +256,11 @@ describe('the night chart', () => {
           startUtc: new Date(start).toISOString(),
           endUtc: new Date(start + 2_400_000).toISOString(),
         },
-      });
-      const { page, errors } = await open(`/nights/${night.id}`);
-      const bar = page.locator(`svg.night-chart .stray-lane .block-bar[data-block="${block.id}"]`);
-      await bar.waitFor();
-      const x = await screenX(page, vis);
-      const [l, r] = await svgEdges(bar);
-      expect(Math.abs(l - x(start))).toBeLessThanOrEqual(1);
-      expect(Math.abs(r - x(start + 2_400_000))).toBeLessThanOrEqual(1);
-      expect(errors).toEqual([]);
-      await page.close();
-      await api(`/blocks/${block.id}`, { method: 'DELETE' });
+      }).catch((e: unknown) => e);
+      expect(String(refused)).toMatch(/422 .*"field":"targetId".*is not a target of campaign/);
+      expect((await api<{ items: BlockRow[] }>(`/blocks?nightId=${night.id}`)).items).toEqual(
+        before,
+      );
     } finally {
       await api(`/nights/${night.id}`, { method: 'DELETE' });
     }
