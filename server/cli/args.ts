@@ -68,6 +68,12 @@ export function weatherOption(
   return found;
 }
 
+/** The preview/accept pair every planning command shares: `--digest` only with `--accept`. */
+export function checkAcceptDigest(values: { accept?: boolean; digest?: string }): void {
+  if (values.digest !== undefined && !values.accept)
+    throw new UsageError('--digest goes with --accept');
+}
+
 /** `--json` / `--csv` flags to a format; both at once is a usage error. */
 export function outputFormat(values: { json?: boolean; csv?: boolean }): OutputFormat {
   if (values.json && values.csv) throw new UsageError('choose one of --json and --csv');

@@ -8,7 +8,7 @@ import {
 } from '../../store/index.ts';
 import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
-import { asOptions, outputFormat, positiveId, readJsonArg } from '../args.ts';
+import { asOptions, checkAcceptDigest, outputFormat, positiveId, readJsonArg } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
@@ -76,8 +76,7 @@ export const planNightCommand: Command = {
     });
     const format = outputFormat(values);
     const id = positiveId('night', values.night);
-    if (values.digest !== undefined && !values.accept)
-      throw new UsageError('--digest goes with --accept');
+    checkAcceptDigest(values);
     const pins = values.pin?.map((p) => {
       const at = p.lastIndexOf('@');
       if (at <= 0)

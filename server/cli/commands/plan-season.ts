@@ -8,7 +8,14 @@ import {
 } from '../../store/index.ts';
 import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
-import { asOptions, outputFormat, positiveId, readJsonArg, weatherOption } from '../args.ts';
+import {
+  asOptions,
+  checkAcceptDigest,
+  outputFormat,
+  positiveId,
+  readJsonArg,
+  weatherOption,
+} from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { renderDraws } from './season-draws-output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
@@ -96,8 +103,7 @@ export const planSeasonCommand: Command = {
     const id = positiveId('campaign', values.campaign);
     if (values.start === undefined || values.end === undefined)
       throw new UsageError('--start and --end are required (local evening dates, YYYY-MM-DD)');
-    if (values.digest !== undefined && !values.accept)
-      throw new UsageError('--digest goes with --accept');
+    checkAcceptDigest(values);
     const settings = values.settings === undefined ? {} : readJsonArg('settings', values.settings);
     if (typeof settings !== 'object' || settings === null || Array.isArray(settings))
       throw new UsageError('--settings must be a JSON object');

@@ -2,8 +2,8 @@
 import { parseArgs } from 'node:util';
 import type { ReplanRequest } from '../../store/index.ts';
 import { localActor } from '../actor.ts';
-import { asOptions, outputFormat, positiveId, weatherOption } from '../args.ts';
-import { UsageError, type Command } from '../io.ts';
+import { asOptions, checkAcceptDigest, outputFormat, positiveId, weatherOption } from '../args.ts';
+import type { Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
@@ -51,8 +51,7 @@ export const replanCommand: Command = {
     });
     const format = outputFormat(values);
     const id = positiveId('night', values.night);
-    if (values.digest !== undefined && !values.accept)
-      throw new UsageError('--digest goes with --accept');
+    checkAcceptDigest(values);
     const weather = weatherOption(values.weather, 'aware');
     const request: ReplanRequest = {
       weather,
