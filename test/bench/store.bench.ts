@@ -19,7 +19,10 @@ async function freshStore(): Promise<{ store: Store; targetId: number }> {
     raDeg: 1,
     decDeg: 1,
   });
-  const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'B s1' });
+  const target = await store.targets.create(LOCAL_OPERATOR, {
+    systemId: system.id,
+    name: 'Bramble',
+  });
   return { store, targetId: target.id };
 }
 
@@ -37,7 +40,7 @@ export async function run(): Promise<string[]> {
     ...Array.from(
       { length: n },
       (_, i) =>
-        `Bench Deep,B s1,radial-velocity,JD ${2461000 + i * 0.01},${i % 300},5,bench spectrograph`,
+        `Bench Deep,Bramble,radial-velocity,JD ${2461000 + i * 0.01},${i % 300},5,bench spectrograph`,
     ),
   ].join('\n');
   let ours = Infinity;

@@ -35,7 +35,7 @@ beforeAll(async () => {
     raDeg: '17:35:12',
     decDeg: '-21:42',
   });
-  const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'R s1' });
+  const target = await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'Rook' });
   await store.orbitSolutions.create(LOCAL_OPERATOR, { targetId: target.id, orbit: ORBIT_WREN });
   server = serve({ fetch: createApp({ store }).fetch, port: 0, hostname: '127.0.0.1' });
   await new Promise((r) => server.once('listening', r));
@@ -52,7 +52,7 @@ it('imports through a running server, audited under the token’s user, and expo
   writeFileSync(
     file,
     'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\n' +
-      'Far Deep,R s1,radial-velocity,2026-06-01T04:00:00Z,812.5,10,spectrograph A\n',
+      'Far Deep,Rook,radial-velocity,2026-06-01T04:00:00Z,812.5,10,spectrograph A\n',
   );
   const run = (name: string, ...argv: string[]) => Promise.resolve(commands[name]!.run(argv));
   expect(
@@ -85,6 +85,6 @@ it('imports through a running server, audited under the token’s user, and expo
   expect(refused).toBeInstanceOf(UsageError);
   expect((refused as Error).message).toMatch(/403 forbidden/);
   const csv = await run('export', 'measurements', '--server', base, '--token', viewer);
-  expect(csv).toMatch(/Far Deep,R s1,radial-velocity,[^,]*,2026-06-01T04:00:00\.000Z/);
+  expect(csv).toMatch(/Far Deep,Rook,radial-velocity,[^,]*,2026-06-01T04:00:00\.000Z/);
   await expect(run('export', 'measurements', '--server', base)).rejects.toBeInstanceOf(UsageError);
 });

@@ -79,7 +79,7 @@ describe.each(BACKENDS)('store API on $name', (backend) => {
     {
       path: '/api/targets',
       role: 'lead' as const,
-      create: { systemId: f.ids.system, name: 'T s9', magnitude: 15 },
+      create: { systemId: f.ids.system, name: 'Tarn', magnitude: 15 },
       patch: { magnitude: 15.5 },
       field: 'magnitude',
       value: 15.5,

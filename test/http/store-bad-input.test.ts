@@ -633,7 +633,7 @@ describe.each(BACKENDS)('bad input on $name', (backend) => {
       'Test Deep,Wren,offsets,2026-06-11T04:00:00Z,1,2,0.3,0.3,imager',
       'Test Deep,Wren,offsets,2026-06-11T04:10:00Z,abc,2,0.3,0.3,imager',
       'Test Deep,Wren,offsets,2026-06-11T04:20:00Z,1,2,0.3,0.3,imager',
-      'Test Deep,T s9,offsets,2026-06-11T04:30:00Z,1,2,0.3,0.3,imager',
+      'Test Deep,Tarn,offsets,2026-06-11T04:30:00Z,1,2,0.3,0.3,imager',
       'Test Deep,Wren,offsets,someday,1,2,-0.3,0.3,imager',
     ].join('\n');
     const bad = await post('measurements', rows);

@@ -41,7 +41,7 @@ describe.each(BACKENDS)('consistency rules on $name', (backend) => {
     f = await fixture(opened.store);
     otherTarget = (
       (await (
-        await f.call('lead', 'POST', '/api/targets', { systemId: f.ids.system, name: 'T s2' })
+        await f.call('lead', 'POST', '/api/targets', { systemId: f.ids.system, name: 'Wren b' })
       ).json()) as { id: number }
     ).id;
   });

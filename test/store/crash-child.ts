@@ -11,7 +11,7 @@ const store = createStore(await openDatabase({ url: `file:${path}` }));
 const lines = ['system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument'];
 for (let i = 0; i < n; i++)
   lines.push(
-    `Crash Deep,C s1,radial-velocity,JD ${2461000 + i * 0.01},${(i % 400) - 200},5,crash spectrograph`,
+    `Crash Deep,Cobble,radial-velocity,JD ${2461000 + i * 0.01},${(i % 400) - 200},5,crash spectrograph`,
   );
 process.stdout.write('started\n');
 await store.importCsv(LOCAL_OPERATOR, 'measurements', lines.join('\n'), {

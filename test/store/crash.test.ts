@@ -67,7 +67,7 @@ describe('an import killed mid-way', () => {
         raDeg: 1,
         decDeg: 1,
       });
-      await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'C s1' });
+      await store.targets.create(LOCAL_OPERATOR, { systemId: system.id, name: 'Cobble' });
       store.close();
     }
   });

@@ -90,7 +90,7 @@ it('upgrades a database made before migration 0002: blocks get their origin and 
   });
   await client.execute({
     sql: 'INSERT INTO targets (system_id, name, created_at, updated_at) VALUES (1, ?, ?, ?)',
-    args: ['O s1', now, now],
+    args: ['Oriel', now, now],
   });
   await client.execute({
     sql: 'INSERT INTO sites (name, latitude_deg, longitude_deg, elevation_m, time_zone, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)',
@@ -103,8 +103,8 @@ it('upgrades a database made before migration 0002: blocks get their origin and 
   // The notes the accepts wrote before 0002 (season-plan.ts, night-plan.ts), and a block a person made.
   const notes = [
     'season plan 0123456789abcdef (cadence): keeps every gap within 14 d',
-    'night schedule 0123456789abcdef: O s1:astrometry',
-    'night schedule 0123456789abcdef: O s1:spectroscopy (pinned)',
+    'night schedule 0123456789abcdef: Oriel:astrometry',
+    'night schedule 0123456789abcdef: Oriel:spectroscopy (pinned)',
     'moved by hand after the season plan',
   ];
   for (const [k, n] of notes.entries()) {
