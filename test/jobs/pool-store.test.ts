@@ -45,13 +45,56 @@ beforeAll(async () => {
       `INSERT INTO measurements (target_id,kind,epoch,epoch_jd,radial_velocity_km_s,sigma_radial_velocity_km_s,instrument,created_at,updated_at) VALUES ${rows.join(',')}`,
     );
   }
+  const heavyNight = await crowdedNight(client, night.siteId);
   paths = [
-    `/api/nights/${night.id}/visibility?curves=true`,
+    `/api/nights/${heavyNight}/visibility?curves=true`,
     '/api/campaigns/1/flags?at=', // completed with a fresh moment per request
     `/api/targets/${target.id}/ephemeris?start=2027-01-01T00:00:00Z&end=2029-01-01T00:00:00Z&step=PT6H&format=csv`,
     '/api/exports/measurements',
   ];
 });
+/**
+ * A night whose campaign follows 150 stars in 30 systems spread over the sky (invented), so that
+ * its report keeps a warm worker busy for long enough to count health replies against: the demo's
+ * own night takes a warm worker ~40 ms, too short to order against on a busy machine.
+ */
+async function crowdedNight(
+  client: ReturnType<typeof databaseOf>['client'],
+  siteId: number,
+): Promise<number> {
+  const at = "'2026-01-01T00:00:00Z','2026-01-01T00:00:00Z'";
+  const systems = Array.from(
+    { length: 30 },
+    (_, i) => `('crowd ${i}',${(i * 12.3) % 360},${-60 + ((i * 7.7) % 90)},${at})`,
+  );
+  await client.execute(
+    `INSERT INTO systems (name,ra_deg,dec_deg,created_at,updated_at) VALUES ${systems.join(',')}`,
+  );
+  await client.execute(
+    `INSERT INTO targets (system_id,name,created_at,updated_at)
+     SELECT s.id, 'star ' || k.n, ${at} FROM systems s,
+       (SELECT 1 n UNION SELECT 2 UNION SELECT 3 UNION SELECT 4 UNION SELECT 5) k
+     WHERE s.name LIKE 'crowd %'`,
+  );
+  const campaign = await client.execute(
+    `INSERT INTO campaigns (name,start_date,end_date,goals,limits,created_at,updated_at)
+     VALUES ('crowd','2035-01-01','2035-12-31','{}','{}',${at}) RETURNING id`,
+  );
+  const campaignId = Number(campaign.rows[0]!.id);
+  await client.execute(
+    `INSERT INTO campaign_targets (campaign_id,target_id)
+     SELECT ${campaignId}, t.id FROM targets t JOIN systems s ON s.id = t.system_id WHERE s.name LIKE 'crowd %'`,
+  );
+  await client.execute(
+    `INSERT INTO campaign_sites (campaign_id,site_id) VALUES (${campaignId},${siteId})`,
+  );
+  const night = await client.execute(
+    `INSERT INTO nights (site_id,campaign_id,date,created_at,updated_at)
+     VALUES (${siteId},${campaignId},'2035-06-15',${at}) RETURNING id`,
+  );
+  return Number(night.rows[0]!.id);
+}
+
 afterAll(async () => {
   await pool.close();
   store.close();
