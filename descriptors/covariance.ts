@@ -16,6 +16,8 @@ export const COVARIANCE_TERMS = [
   { parameter: 'argPeriapsisDeg', symbol: 'ω', unit: '°' },
   { parameter: 'distancePc', symbol: 'd', unit: 'pc' },
   { parameter: 'systemicVelocityKmS', symbol: 'γ', unit: 'km/s' },
+  { parameter: 'massRatio', symbol: 'q', unit: '' },
+  { parameter: 'lightFraction', symbol: 'β', unit: '' },
 ] as const;
 export type CovarianceTerm = (typeof COVARIANCE_TERMS)[number]['parameter'];
 

@@ -9992,6 +9992,7 @@ export interface components {
                 redshiftFactor: number;
                 precessionFactor: number;
             };
+            binary: components["schemas"]["BinaryQuantities"];
         };
         CampbellElements: {
             /** @enum {string} */
@@ -10030,7 +10031,7 @@ export interface components {
         /** @description null without a distance */
         PhysicalQuantities: {
             semiMajorAxisAu: number;
-            /** @description mass of the primary (Kepler’s third law), M☉ */
+            /** @description mass by Kepler’s third law, M☉: the primary’s, or a binary’s total (M₁ + M₂) when the orbit has a mass ratio */
             massSolar: number;
             schwarzschildRadiusAu: number;
             schwarzschildRadiusKm: number;
@@ -10057,6 +10058,21 @@ export interface components {
             transverseDoppler: boolean;
             precession: boolean;
         };
+        /** @description a binary of comparable masses (the orbit has a mass ratio); null otherwise */
+        BinaryQuantities: {
+            /** @description q = M₂/M₁ */
+            massRatio: number;
+            /** @description β = L₂/(L₁+L₂), the secondary’s share of the light; null if not known */
+            lightFraction: number | null;
+            /** @description M₁ = M/(1+q), M☉; null without a distance */
+            primaryMassSolar: number | null;
+            /** @description M₂ = qM/(1+q), M☉; null without a distance */
+            secondaryMassSolar: number | null;
+            /** @description K₁ = K·q/(1+q), km/s; null without a distance */
+            primarySemiAmplitudeKmS: number | null;
+            /** @description K₂ = K/(1+q), km/s; null without a distance */
+            secondarySemiAmplitudeKmS: number | null;
+        } | null;
         EphemerisRow: {
             /** @description observed instant, ISO 8601 UTC */
             epoch: string;
@@ -10088,6 +10104,14 @@ export interface components {
             radialVelocityKmS: number | null;
             /** @description the Keplerian part alone, km/s */
             keplerianRvKmS: number | null;
+            /** @description the primary about the barycentre, γ − q/(1+q)·v (Newtonian), km/s; null without a mass ratio or distance */
+            primaryRadialVelocityKmS: number | null;
+            /** @description the secondary about the barycentre, γ + v/(1+q) (Newtonian), km/s; null without a mass ratio or distance */
+            secondaryRadialVelocityKmS: number | null;
+            /** @description Δα* of the unresolved pair’s photocentre from the barycentre, (β − q/(1+q))·Δα*, mas; null without q and β */
+            photocentreDRaMas: number | null;
+            /** @description Δδ of the photocentre from the barycentre, mas; null without q and β */
+            photocentreDDecMas: number | null;
             /** @description size of the term, included only when switched on */
             romerDelayDays: number | null;
             /** @description size of the term, included only when switched on */
@@ -10103,6 +10127,10 @@ export interface components {
                 separationMas?: number;
                 positionAngleDeg?: number;
                 radialVelocityKmS?: number;
+                primaryRadialVelocityKmS?: number;
+                secondaryRadialVelocityKmS?: number;
+                photocentreDRaMas?: number;
+                photocentreDDecMas?: number;
             };
             /** @description Monte Carlo percentiles 2.5, 16, 50, 84, 97.5; on request */
             percentiles?: {
@@ -10111,6 +10139,10 @@ export interface components {
                 separationMas?: number[];
                 positionAngleDeg?: number[];
                 radialVelocityKmS?: number[];
+                primaryRadialVelocityKmS?: number[];
+                secondaryRadialVelocityKmS?: number[];
+                photocentreDRaMas?: number[];
+                photocentreDDecMas?: number[];
             };
         };
         Error: {
@@ -10165,9 +10197,13 @@ export interface components {
                 redshiftFactor?: number;
                 precessionFactor?: number;
             };
+            /** @description q = M₂/M₁ of a binary of comparable masses, 0 ≤ q ≤ 1000: predictions give each body’s velocity */
+            massRatio?: number;
+            /** @description β = L₂/(L₁+L₂), the secondary’s share of the light, 0 ≤ β ≤ 1: with q, the photocentre */
+            lightFraction?: number;
             /** @description covariance of the Campbell elements in the units of the parameter names (periapsisDays: T in days) */
             covariance?: {
-                parameters: ("periodYears" | "periapsisDays" | "eccentricity" | "semiMajorAxisArcsec" | "inclinationDeg" | "ascendingNodeDeg" | "argPeriapsisDeg" | "distancePc" | "systemicVelocityKmS")[];
+                parameters: ("periodYears" | "periapsisDays" | "eccentricity" | "semiMajorAxisArcsec" | "inclinationDeg" | "ascendingNodeDeg" | "argPeriapsisDeg" | "distancePc" | "systemicVelocityKmS" | "massRatio" | "lightFraction")[];
                 matrix: number[][];
             };
         };
@@ -10222,6 +10258,14 @@ export interface components {
             radialVelocityKmS: number | null;
             /** @description the Keplerian part alone, km/s */
             keplerianRvKmS: number | null;
+            /** @description the primary about the barycentre, γ − q/(1+q)·v (Newtonian), km/s; null without a mass ratio or distance */
+            primaryRadialVelocityKmS: number | null;
+            /** @description the secondary about the barycentre, γ + v/(1+q) (Newtonian), km/s; null without a mass ratio or distance */
+            secondaryRadialVelocityKmS: number | null;
+            /** @description Δα* of the unresolved pair’s photocentre from the barycentre, (β − q/(1+q))·Δα*, mas; null without q and β */
+            photocentreDRaMas: number | null;
+            /** @description Δδ of the photocentre from the barycentre, mas; null without q and β */
+            photocentreDDecMas: number | null;
             /** @description size of the term, included only when switched on */
             romerDelayDays: number | null;
             /** @description size of the term, included only when switched on */

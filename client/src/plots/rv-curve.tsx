@@ -9,6 +9,8 @@ export interface RvMeasurement extends RvPoint {
   id: number;
   sigma: number;
   residual?: number;
+  /** Said before the value in the tooltip (e.g. "primary "). */
+  label?: string;
 }
 export interface RvCurveProps {
   /** t in decimal years, v in km/s. */
@@ -96,7 +98,7 @@ export function RvCurvePlot(props: RvCurveProps) {
         <g class="rv-measurement" key={m.id}>
           <line x1={x(m.t)} x2={x(m.t)} y1={y(m.v - m.sigma)} y2={y(m.v + m.sigma)} />
           <circle cx={x(m.t)} cy={y(m.v)} r="2.6" />
-          <title>{`${tickLabel(m.t)}: ${m.v.toFixed(1)} ± ${m.sigma.toFixed(1)} km/s${m.residual === undefined ? '' : `, residual ${m.residual.toFixed(1)} km/s`}`}</title>
+          <title>{`${tickLabel(m.t)}: ${m.label ?? ''}${m.v.toFixed(1)} ± ${m.sigma.toFixed(1)} km/s${m.residual === undefined ? '' : `, residual ${m.residual.toFixed(1)} km/s`}`}</title>
         </g>
       ))}
     </svg>

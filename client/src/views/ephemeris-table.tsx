@@ -89,6 +89,18 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
                 <th>separation (mas)</th>
                 <th>PA (°)</th>
                 <th>v_r (km/s)</th>
+                {data.orbit.binary && (
+                  <>
+                    <th>v₁ primary (km/s)</th>
+                    <th>v₂ secondary (km/s)</th>
+                  </>
+                )}
+                {data.orbit.binary?.lightFraction != null && (
+                  <>
+                    <th>photocentre Δα* (mas)</th>
+                    <th>photocentre Δδ (mas)</th>
+                  </>
+                )}
               </tr>
             </thead>
             <tbody>
@@ -110,6 +122,26 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
                   <td>
                     <Qty v={p.radialVelocityKmS} unit="" digits={2} />
                   </td>
+                  {data.orbit.binary && (
+                    <>
+                      <td class="rv-primary">
+                        <Qty v={p.primaryRadialVelocityKmS} unit="" digits={2} />
+                      </td>
+                      <td class="rv-secondary">
+                        <Qty v={p.secondaryRadialVelocityKmS} unit="" digits={2} />
+                      </td>
+                    </>
+                  )}
+                  {data.orbit.binary?.lightFraction != null && (
+                    <>
+                      <td>
+                        <Qty v={p.photocentreDRaMas} unit="" digits={3} />
+                      </td>
+                      <td>
+                        <Qty v={p.photocentreDDecMas} unit="" digits={3} />
+                      </td>
+                    </>
+                  )}
                 </tr>
               ))}
             </tbody>

@@ -43,8 +43,20 @@ const ELEMENTS: { key: string; label: string; sigma: CovarianceTerm | null; hint
     label: 'γ, systemic velocity (km/s, optional)',
     sigma: 'systemicVelocityKmS',
   },
+  {
+    key: 'massRatio',
+    label: 'q = M₂/M₁, mass ratio (optional)',
+    sigma: 'massRatio',
+    hint: 'a binary of comparable masses: gives each body’s velocity',
+  },
+  {
+    key: 'lightFraction',
+    label: 'β = L₂/(L₁+L₂), light fraction (optional)',
+    sigma: 'lightFraction',
+    hint: 'the secondary’s share of the light: with q, the photocentre',
+  },
 ];
-const OPTIONAL = new Set(['distancePc', 'systemicVelocityKmS']);
+const OPTIONAL = new Set(['distancePc', 'systemicVelocityKmS', 'massRatio', 'lightFraction']);
 const symbol = (p: CovarianceTerm) => COVARIANCE_TERMS.find((t) => t.parameter === p)!.symbol;
 
 /** A pasted covariance: a first row of parameter names, then one row of numbers per parameter. */

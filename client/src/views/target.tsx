@@ -22,7 +22,7 @@ import { EphemerisTable } from './ephemeris-table.tsx';
 import { astrometricResidual, loadTargetData, rvSeries, type TargetData } from './target-data.ts';
 import { FitPanel } from './fit-panel.tsx';
 import { ForecastPanel } from './forecast-panel.tsx';
-import type { Prediction } from '../api/client.ts';
+import type { MeasurementRow, Prediction } from '../api/client.ts';
 
 function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null }) {
   const ms: SkyMeasurement[] = [];
@@ -80,8 +80,26 @@ function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null })
   );
 }
 
+/** Whose velocity the curve shows: a binary of comparable masses has three. */
+type RvBody = 'both' | 'primary' | 'secondary' | 'relative';
+const RV_BODY_TEXT: Record<RvBody, string> = {
+  both: 'both bodies about the barycentre',
+  primary: 'the primary about the barycentre',
+  secondary: 'the secondary about the barycentre',
+  relative: 'the secondary relative to the primary',
+};
+
+/** The predicted velocity of `component` in a prediction (null where the solution cannot say). */
+function bodyVelocity(p: Prediction, component: MeasurementRow['component']): number | null {
+  if (component === 'primary') return p.primaryRadialVelocityKmS;
+  if (component === 'secondary') return p.secondaryRadialVelocityKmS;
+  return p.radialVelocityKmS;
+}
+
 function RvPanel({ d }: { d: TargetData }) {
   const [withRel, setWithRel] = useState(true);
+  const binary = d.solution?.orbit.massRatio !== undefined;
+  const [body, setBody] = useState<RvBody>(binary ? 'both' : 'relative');
   const rel = rvSeries(d.track);
   if (!rel.length)
     return (
@@ -89,28 +107,55 @@ function RvPanel({ d }: { d: TargetData }) {
         No radial velocity: the current solution has no distance or systemic velocity.
       </p>
     );
-  const plain = d.rvPlain ? rvSeries(d.rvPlain) : null;
+  const shown: readonly MeasurementRow['component'][] =
+    body === 'both' ? ['primary', 'secondary'] : [body];
   const velocities = d.measurements.filter(
     (m) => m.kind === 'radial-velocity' && m.radialVelocityKmS !== null,
   );
-  // The curve is the relative orbit's velocity: a body's velocity about the barycentre is not on it.
-  const ofBodies = velocities.filter((m) => m.component !== 'relative').length;
+  const hidden = velocities.filter((m) => !shown.includes(m.component)).length;
   const meas = velocities
-    .filter((m) => m.component === 'relative')
+    .filter((m) => shown.includes(m.component))
     .map((m) => {
       const p = d.atMeasurement.get(m.id);
+      const predicted = p ? bodyVelocity(p, m.component) : null;
       return {
         id: m.id,
         t: yearOf(m.epoch),
         v: m.radialVelocityKmS!,
         sigma: m.sigmaRadialVelocityKmS ?? 0,
-        ...(p && p.radialVelocityKmS !== null
-          ? { residual: m.radialVelocityKmS! - p.radialVelocityKmS }
-          : {}),
+        label: m.component === 'relative' ? '' : `${m.component} `,
+        ...(predicted !== null ? { residual: m.radialVelocityKmS! - predicted } : {}),
       };
     });
+  const plain = d.rvPlain && body === 'relative' ? rvSeries(d.rvPlain) : null;
+  const ofBody = (c: MeasurementRow['component']) =>
+    rvSeries(d.track.map((p) => ({ ...p, radialVelocityKmS: bodyVelocity(p, c) })));
+  const curve =
+    body === 'relative'
+      ? withRel || !plain
+        ? rel
+        : plain
+      : ofBody(body === 'secondary' ? 'secondary' : 'primary');
+  const compare =
+    body === 'both' ? ofBody('secondary') : plain ? (withRel ? plain : rel) : undefined;
   return (
     <>
+      {binary && (
+        <label class="field">
+          velocity of{' '}
+          <select
+            name="rv-body"
+            value={body}
+            onChange={(e) => setBody(e.currentTarget.value as RvBody)}
+          >
+            {(Object.keys(RV_BODY_TEXT) as RvBody[]).map((b) => (
+              <option key={b} value={b}>
+                {RV_BODY_TEXT[b]}
+              </option>
+            ))}
+          </select>
+        </label>
+      )}
       {plain && (
         <label class="switch">
           <input
@@ -123,18 +168,29 @@ function RvPanel({ d }: { d: TargetData }) {
         </label>
       )}
       <RvCurvePlot
-        curve={withRel || !plain ? rel : plain}
-        compare={plain ? (withRel ? plain : rel) : undefined}
+        curve={curve}
+        compare={compare}
         measurements={meas}
         nowYear={yearOf(new Date().toISOString())}
       />
       <p class="legend">
         <span class="key key-track" />{' '}
-        {!plain
-          ? 'predicted (this solution has no relativistic terms switched on)'
-          : withRel
-            ? 'with relativistic terms'
-            : 'without relativistic terms'}
+        {body === 'both'
+          ? 'the primary'
+          : body !== 'relative'
+            ? RV_BODY_TEXT[body]
+            : !plain
+              ? 'predicted (this solution has no relativistic terms switched on)'
+              : withRel
+                ? 'with relativistic terms'
+                : 'without relativistic terms'}
+        {body === 'both' && (
+          <>
+            {' '}
+            · <span class="key key-compare" /> the secondary (mass ratio q ={' '}
+            <Qty v={d.solution!.orbit.massRatio!} unit="" digits={3} />)
+          </>
+        )}
         {plain && (
           <>
             {' '}
@@ -143,8 +199,10 @@ function RvPanel({ d }: { d: TargetData }) {
         )}{' '}
         · measurements with 1σ bars
         {!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}
-        {ofBodies > 0 &&
-          ` · ${ofBodies} velocit${ofBodies === 1 ? 'y' : 'ies'} of the primary or the secondary about the barycentre not drawn: the curve is the velocity relative to the primary (a fit gives each body's share with the mass ratio)`}
+        {hidden > 0 &&
+          (binary
+            ? ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of another body not drawn (choose it above)`
+            : ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of the primary or the secondary about the barycentre not drawn: this solution has no mass ratio (a fit of them stores one)`)}
       </p>
     </>
   );

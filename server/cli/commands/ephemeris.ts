@@ -18,6 +18,9 @@ const help = `usage: epochwright ephemeris --orbit <json|file> (--start <epoch> 
 
 Predicts, for each epoch: separation ρ (mas), position angle θ (deg, north through east), offsets
 Δα* (east) and Δδ (north) in mas, and with a distance the radial velocity (km/s, receding positive).
+A binary of comparable masses (the orbit has "massRatio" q = M₂/M₁) adds each body's velocity about
+the barycentre (rv1 primary, rv2 secondary; Newtonian); with "lightFraction" β as well, the
+photocentre's offsets from the barycentre (photo_dra, photo_ddec, mas).
 With a covariance, each comes with its 1σ; with --mc, with Monte Carlo percentiles (JSON/CSV).
 
 Epochs: ISO 8601 with zone (2027-03-01T00:00Z, 2027-03-01), "JD 2461466.5", "MJD 61466",
@@ -79,7 +82,29 @@ export const ephemerisCommand: Command = {
       columns.push({ header: 'rv_kms', value: (r) => r.radialVelocityKmS, digits: 2 });
       if (orbit.covariance)
         columns.push({ header: 'rv_sigma_kms', value: sig('radialVelocityKmS'), digits: 2 });
+      if (orbit.massRatio !== null) {
+        columns.push({ header: 'rv1_kms', value: (r) => r.primaryRadialVelocityKmS, digits: 2 });
+        if (orbit.covariance)
+          columns.push({
+            header: 'rv1_sigma_kms',
+            value: sig('primaryRadialVelocityKmS'),
+            digits: 2,
+          });
+        columns.push({ header: 'rv2_kms', value: (r) => r.secondaryRadialVelocityKmS, digits: 2 });
+        if (orbit.covariance)
+          columns.push({
+            header: 'rv2_sigma_kms',
+            value: sig('secondaryRadialVelocityKmS'),
+            digits: 2,
+          });
+      }
       columns.push({ header: 'r3d_au', value: (r) => r.separation3dAu, digits: 2 });
+    }
+    if (orbit.massRatio !== null && orbit.lightFraction !== null) {
+      columns.push(
+        { header: 'photo_dra_mas', value: (r) => r.photocentreDRaMas, digits: 3 },
+        { header: 'photo_ddec_mas', value: (r) => r.photocentreDDecMas, digits: 3 },
+      );
     }
     columns.push({ header: 'nu_deg', value: (r) => r.trueAnomalyDeg, digits: 3 });
     if (mc && format === 'csv') {

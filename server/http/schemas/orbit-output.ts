@@ -13,7 +13,9 @@ const orNull = (description: string) => z.number().nullable().openapi({ descript
 export const PhysicalSchema = z
   .object({
     semiMajorAxisAu: z.number(),
-    massSolar: num('mass of the primary (Kepler’s third law), M☉'),
+    massSolar: num(
+      'mass by Kepler’s third law, M☉: the primary’s, or a binary’s total (M₁ + M₂) when the orbit has a mass ratio',
+    ),
     schwarzschildRadiusAu: z.number(),
     schwarzschildRadiusKm: z.number(),
     periapsisAu: z.number(),
@@ -43,6 +45,18 @@ export const RelativitySwitchesSchema = z
   .strict()
   .openapi('RelativitySwitches');
 
+export const BinarySchema = z
+  .object({
+    massRatio: num('q = M₂/M₁'),
+    lightFraction: orNull('β = L₂/(L₁+L₂), the secondary’s share of the light; null if not known'),
+    primaryMassSolar: orNull('M₁ = M/(1+q), M☉; null without a distance'),
+    secondaryMassSolar: orNull('M₂ = qM/(1+q), M☉; null without a distance'),
+    primarySemiAmplitudeKmS: orNull('K₁ = K·q/(1+q), km/s; null without a distance'),
+    secondarySemiAmplitudeKmS: orNull('K₂ = K/(1+q), km/s; null without a distance'),
+  })
+  .strict()
+  .openapi('BinaryQuantities');
+
 export const OrbitDescriptionSchema = z
   .object({
     campbell: CampbellSchema,
@@ -53,6 +67,9 @@ export const OrbitDescriptionSchema = z
       .object({ redshiftFactor: z.number(), precessionFactor: z.number() })
       .strict()
       .openapi({ description: 'scale factors of the switched-on terms (1: general relativity)' }),
+    binary: BinarySchema.nullable().openapi({
+      description: 'a binary of comparable masses (the orbit has a mass ratio); null otherwise',
+    }),
   })
   .strict()
   .openapi('OrbitDescription');
@@ -83,6 +100,18 @@ export const PredictionSchema = z
     lineOfSightAu: orNull('positive behind the primary, au'),
     radialVelocityKmS: orNull('with γ and every switched-on relativistic term, km/s'),
     keplerianRvKmS: orNull('the Keplerian part alone, km/s'),
+    primaryRadialVelocityKmS: orNull(
+      'the primary about the barycentre, γ − q/(1+q)·v (Newtonian), km/s; null without a mass ratio or distance',
+    ),
+    secondaryRadialVelocityKmS: orNull(
+      'the secondary about the barycentre, γ + v/(1+q) (Newtonian), km/s; null without a mass ratio or distance',
+    ),
+    photocentreDRaMas: orNull(
+      'Δα* of the unresolved pair’s photocentre from the barycentre, (β − q/(1+q))·Δα*, mas; null without q and β',
+    ),
+    photocentreDDecMas: orNull(
+      'Δδ of the photocentre from the barycentre, mas; null without q and β',
+    ),
     romerDelayDays: orNull('size of the term, included only when switched on'),
     gravitationalRedshiftKmS: orNull('size of the term, included only when switched on'),
     transverseDopplerKmS: orNull('size of the term, included only when switched on'),
@@ -99,6 +128,10 @@ const uncertain = <S extends z.ZodType>(value: S) =>
       separationMas: value.optional(),
       positionAngleDeg: value.optional(),
       radialVelocityKmS: value.optional(),
+      primaryRadialVelocityKmS: value.optional(),
+      secondaryRadialVelocityKmS: value.optional(),
+      photocentreDRaMas: value.optional(),
+      photocentreDDecMas: value.optional(),
     })
     .strict();
 

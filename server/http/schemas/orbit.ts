@@ -70,6 +70,14 @@ export const OrbitSchema = z
         description:
           'scale factors of the switched-on terms: 0 Newtonian, 1 general relativity (default)',
       }),
+    massRatio: z.number().optional().openapi({
+      description:
+        'q = M₂/M₁ of a binary of comparable masses, 0 ≤ q ≤ 1000: predictions give each body’s velocity',
+    }),
+    lightFraction: z.number().optional().openapi({
+      description:
+        'β = L₂/(L₁+L₂), the secondary’s share of the light, 0 ≤ β ≤ 1: with q, the photocentre',
+    }),
     covariance: z
       .object({
         parameters: z.array(z.enum(COVARIANCE_PARAMETERS)),

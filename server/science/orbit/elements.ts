@@ -114,6 +114,17 @@ function bounded(field: string, v: unknown, max: number): number {
   return x;
 }
 
+/** Largest mass ratio M₂/M₁ taken: beyond, the "secondary" is the primary (common practice, no source). */
+export const MAX_MASS_RATIO = 1000;
+
+/** An optional number in [0, max], or null when absent. */
+function optionalFraction(field: string, v: unknown, max: number, what: string): number | null {
+  if (v === undefined || v === null) return null;
+  const x = requireFinite(field, v);
+  if (!(x >= 0 && x <= max)) throw new InputError(field, v, `must satisfy 0 ≤ ${what} ≤ ${max}`);
+  return x;
+}
+
 function eccentricity(field: string, v: unknown): number {
   const x = requireFinite(field, v);
   if (!(x >= 0 && x < 1))
@@ -206,10 +217,19 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
       );
   }
   const factors = validateFactors(input.relativityFactors, `${prefix}.relativityFactors`);
+  const massRatio = optionalFraction(`${prefix}.massRatio`, input.massRatio, MAX_MASS_RATIO, 'q');
+  const lightFraction = optionalFraction(`${prefix}.lightFraction`, input.lightFraction, 1, 'β');
   const covariance =
     input.covariance === undefined
       ? null
       : validateCovariance(input.covariance, `${prefix}.covariance`);
+  const absent = covariance?.parameters.find(
+    (n) =>
+      (n === 'massRatio' && massRatio === null) ||
+      (n === 'lightFraction' && lightFraction === null),
+  );
+  if (absent)
+    throw new InputError(`${prefix}.${absent}`, null, `is needed: the covariance names ${absent}`);
   return {
     periodDays,
     periapsisJd,
@@ -222,6 +242,8 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
     gammaKmS,
     relativity,
     factors,
+    massRatio,
+    lightFraction,
     covariance,
   };
 }
@@ -328,6 +350,10 @@ export function getParameter(orbit: Orbit, name: CovarianceParameter): number {
       return orbit.distancePc ?? Number.NaN;
     case 'systemicVelocityKmS':
       return orbit.gammaKmS;
+    case 'massRatio':
+      return orbit.massRatio ?? Number.NaN;
+    case 'lightFraction':
+      return orbit.lightFraction ?? Number.NaN;
   }
 }
 
@@ -361,6 +387,12 @@ export function withParameter(orbit: Orbit, name: CovarianceParameter, value: nu
       break;
     case 'systemicVelocityKmS':
       o.gammaKmS = value;
+      break;
+    case 'massRatio':
+      o.massRatio = value;
+      break;
+    case 'lightFraction':
+      o.lightFraction = value;
       break;
   }
   return o;

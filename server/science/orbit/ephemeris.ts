@@ -30,6 +30,10 @@ export const UNCERTAIN_FIELDS = [
   'separationMas',
   'positionAngleDeg',
   'radialVelocityKmS',
+  'primaryRadialVelocityKmS',
+  'secondaryRadialVelocityKmS',
+  'photocentreDRaMas',
+  'photocentreDDecMas',
 ] as const;
 export type UncertainField = (typeof UNCERTAIN_FIELDS)[number];
 
@@ -47,8 +51,17 @@ export interface EphemerisRow extends Prediction {
 /** Most draws × epochs per request (memory bound). */
 const MAX_MC_WORK = 4_000_000;
 
+/** The uncertain quantities this orbit predicts (velocities need a distance; bodies need q; the photocentre q and β). */
 function fieldsFor(orbit: Orbit): UncertainField[] {
-  return UNCERTAIN_FIELDS.filter((f) => f !== 'radialVelocityKmS' || orbit.distancePc !== null);
+  const hasD = orbit.distancePc !== null,
+    hasQ = orbit.massRatio !== null;
+  return UNCERTAIN_FIELDS.filter((f) => {
+    if (f === 'radialVelocityKmS') return hasD;
+    if (f === 'primaryRadialVelocityKmS' || f === 'secondaryRadialVelocityKmS') return hasD && hasQ;
+    if (f === 'photocentreDRaMas' || f === 'photocentreDDecMas')
+      return hasQ && orbit.lightFraction !== null;
+    return true;
+  });
 }
 
 /** Predictions at the epochs (JD), with uncertainties as the orbit and options allow. */

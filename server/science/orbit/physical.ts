@@ -89,6 +89,33 @@ export function binaryShares(
   };
 }
 
+/**
+ * What multiplies the relative orbit's velocity in the radial velocity of a body, and its
+ * derivative by q: 1 for `relative` (the primary at rest), 1/(1+q) for the secondary, −q/(1+q) for
+ * the primary about the barycentre (q = M₂/M₁).
+ */
+export function velocityShare(
+  component: 'relative' | 'primary' | 'secondary',
+  q: number,
+): [number, number] {
+  if (component === 'relative') return [1, 0];
+  const dq = -1 / ((1 + q) * (1 + q));
+  return component === 'secondary' ? [1 / (1 + q), dq] : [-q / (1 + q), dq];
+}
+
+/**
+ * What multiplies the relative orbit (secondary from primary) in the photocentre's offset from the
+ * barycentre, and its derivatives by q and β: β − B, with B = q/(1+q) the secondary's fraction of
+ * the mass and β = L₂/(L₁+L₂) its fraction of the light. The photocentre orbit's semi-major axis is
+ * α = a·|B − β| (van de Kamp, Principles of Astrometry (1967), photocentric orbit, from memory).
+ */
+export function photocentreShare(
+  q: number,
+  beta: number,
+): { share: number; dq: number; dBeta: number } {
+  return { share: beta - q / (1 + q), dq: -1 / ((1 + q) * (1 + q)), dBeta: 1 };
+}
+
 export interface PhysicalQuantities {
   semiMajorAxisAu: number;
   massSolar: number;

@@ -8,7 +8,7 @@
 import { AU_KM, C_KM_PER_S, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../constants.ts';
 import { jdToIso } from '../time/index.ts';
 import { solveKepler, solveKeplerBatch, trueAnomalyFromEccentric } from './kepler.ts';
-import { massParameterM3S2, semiMajorAxisAu } from './physical.ts';
+import { massParameterM3S2, photocentreShare, semiMajorAxisAu, velocityShare } from './physical.ts';
 import {
   gravitationalRedshiftKmS,
   precessionPerOrbitRad,
@@ -36,6 +36,10 @@ export const PREDICTION_FIELDS = [
   'lineOfSightAu',
   'radialVelocityKmS',
   'keplerianRvKmS',
+  'primaryRadialVelocityKmS',
+  'secondaryRadialVelocityKmS',
+  'photocentreDRaMas',
+  'photocentreDDecMas',
   'romerDelayDays',
   'gravitationalRedshiftKmS',
   'transverseDopplerKmS',
@@ -78,6 +82,20 @@ export interface Prediction {
   radialVelocityKmS: number | null;
   /** The Keplerian part alone (without γ), km/s. */
   keplerianRvKmS: number | null;
+  /**
+   * A binary of comparable masses (the orbit has a mass ratio q): the primary's velocity about the
+   * barycentre, γ − q/(1+q)·v, with v the relative orbit's Keplerian velocity, km/s. Null without q
+   * or a distance. No relativistic term: the barycentric model is Newtonian.
+   */
+  primaryRadialVelocityKmS: number | null;
+  /** The secondary's velocity about the barycentre, γ + v/(1+q), km/s; null without q or a distance. */
+  secondaryRadialVelocityKmS: number | null;
+  /**
+   * The photocentre of the unresolved pair from the barycentre, (β − B)·(Δα*, Δδ) with B = q/(1+q)
+   * and β the light fraction, mas; null without both q and β.
+   */
+  photocentreDRaMas: number | null;
+  photocentreDDecMas: number | null;
   /** Size of each relativistic term (included in the totals only when switched on). */
   romerDelayDays: number | null;
   gravitationalRedshiftKmS: number | null;
@@ -245,10 +263,15 @@ export function writeState(
   const clock = o.relativity.romer ? 1 / (1 + vzKmS / C_KM_PER_S) : 1;
   c.vRaMasYr[i] = (B * Xp + G * Yp) * JULIAN_YEAR_DAYS * clock;
   c.vDecMasYr[i] = (A * Xp + F * Yp) * JULIAN_YEAR_DAYS * clock;
+  const q = o.massRatio ?? Number.NaN;
+  const light = photocentreShare(q, o.lightFraction ?? Number.NaN).share;
+  c.photocentreDRaMas[i] = light * dRa;
+  c.photocentreDDecMas[i] = light * dDec;
   if (o.distancePc === null) {
     c.separation3dAu[i] = c.speedKmS[i] = c.lineOfSightAu[i] = c.radialVelocityKmS[i] = Number.NaN;
     c.keplerianRvKmS[i] = c.romerDelayDays[i] = c.gravitationalRedshiftKmS[i] = Number.NaN;
     c.transverseDopplerKmS[i] = c.precessionDeg[i] = Number.NaN;
+    c.primaryRadialVelocityKmS[i] = c.secondaryRadialVelocityKmS[i] = Number.NaN;
     return;
   }
   const rAu = aAu * (1 - e * cosE);
@@ -260,6 +283,8 @@ export function writeState(
   c.speedKmS[i] = speed;
   c.lineOfSightAu[i] = zAu;
   c.keplerianRvKmS[i] = vzKmS;
+  c.primaryRadialVelocityKmS[i] = o.gammaKmS + velocityShare('primary', q)[0] * vzKmS;
+  c.secondaryRadialVelocityKmS[i] = o.gammaKmS + velocityShare('secondary', q)[0] * vzKmS;
   c.radialVelocityKmS[i] =
     o.gammaKmS +
     vzKmS +
@@ -322,6 +347,10 @@ export function rowOf(c: PredictionColumns, i: number, lightTime: boolean): Pred
     lineOfSightAu: opt(c.lineOfSightAu[i]!),
     radialVelocityKmS: opt(c.radialVelocityKmS[i]!),
     keplerianRvKmS: opt(c.keplerianRvKmS[i]!),
+    primaryRadialVelocityKmS: opt(c.primaryRadialVelocityKmS[i]!),
+    secondaryRadialVelocityKmS: opt(c.secondaryRadialVelocityKmS[i]!),
+    photocentreDRaMas: opt(c.photocentreDRaMas[i]!),
+    photocentreDDecMas: opt(c.photocentreDDecMas[i]!),
     romerDelayDays: opt(c.romerDelayDays[i]!),
     gravitationalRedshiftKmS: opt(c.gravitationalRedshiftKmS[i]!),
     transverseDopplerKmS: opt(c.transverseDopplerKmS[i]!),

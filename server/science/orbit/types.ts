@@ -73,6 +73,8 @@ export const COVARIANCE_PARAMETERS = [
   'argPeriapsisDeg',
   'distancePc',
   'systemicVelocityKmS',
+  'massRatio',
+  'lightFraction',
 ] as const;
 export type CovarianceParameter = (typeof COVARIANCE_PARAMETERS)[number];
 
@@ -92,6 +94,16 @@ export interface OrbitInput {
   relativity?: Partial<RelativitySwitches>;
   /** Scale factors of the switched-on terms; default 1 (general relativity). */
   relativityFactors?: Partial<RelativityFactors>;
+  /**
+   * Mass ratio q = M₂/M₁ of a binary of comparable masses, 0 ≤ q ≤ 1000. With it (and a distance)
+   * each body's velocity about the barycentre is predicted; absent: the primary is taken at rest.
+   */
+  massRatio?: number;
+  /**
+   * Fraction of the pair's light from the secondary, β = L₂/(L₁+L₂), 0 ≤ β ≤ 1, in the band of the
+   * astrometry. With the mass ratio it places the photocentre of an unresolved pair.
+   */
+  lightFraction?: number;
   covariance?: CovarianceInput;
 }
 
@@ -114,5 +126,9 @@ export interface Orbit {
   gammaKmS: number;
   relativity: RelativitySwitches;
   factors: RelativityFactors;
+  /** q = M₂/M₁, or null when the primary is taken at rest (no mass ratio known). */
+  massRatio: number | null;
+  /** β = L₂/(L₁+L₂), or null when not known. */
+  lightFraction: number | null;
   covariance: Covariance | null;
 }

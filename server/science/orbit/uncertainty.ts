@@ -90,12 +90,15 @@ export function parameterJacobian(
     // Keep e inside [0, 1) and sizes positive: step one-sided near a bound.
     let lo = x - h0,
       hi = x + h0;
-    if (name === 'eccentricity') {
+    if (name === 'eccentricity' || name === 'lightFraction') {
       if (lo < 0) lo = x;
       if (hi >= 1) hi = x;
     }
     if (
-      (name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc') &&
+      (name === 'periodYears' ||
+        name === 'semiMajorAxisArcsec' ||
+        name === 'distancePc' ||
+        name === 'massRatio') &&
       lo <= 0
     )
       lo = x;
@@ -166,6 +169,8 @@ export function drawOrbits(orbit: Orbit, mc: MonteCarloOptions): Orbit[] {
 
 function inDomain(name: CovarianceParameter, v: number): boolean {
   if (name === 'eccentricity') return v >= 0 && v < 1;
+  if (name === 'lightFraction') return v >= 0 && v <= 1;
+  if (name === 'massRatio') return v >= 0;
   if (name === 'periodYears' || name === 'semiMajorAxisArcsec' || name === 'distancePc')
     return v > 0;
   return true;

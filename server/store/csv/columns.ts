@@ -28,6 +28,8 @@ export const ORBIT_COLUMNS = [
   'gArcsec',
   'distancePc',
   'systemicVelocityKmS',
+  'massRatio',
+  'lightFraction',
   ...SIGMA_COLUMNS,
   CORRELATIONS_COLUMN,
   'relativity',
@@ -64,7 +66,7 @@ export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
 
 /** A column whose name ends in its unit holds a number, as do the dimensionless ones listed here. */
 const NUMBER_BY_NAME =
-  /(Years|Arcsec|Deg|Pc|KmS|Mas|Days)$|^(eccentricity|sigmaEccentricity|correlation|magnitude|blockId)$/;
+  /(Years|Arcsec|Deg|Pc|KmS|Mas|Days)$|^(eccentricity|massRatio|lightFraction|correlation|magnitude|blockId)$|^sigma(Eccentricity|MassRatio|LightFraction)$/;
 
 /** Columns read as numbers (a cell that is not a number is reported as it is). */
 export const NUMERIC: ReadonlySet<string> = new Set<string>(

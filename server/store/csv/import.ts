@@ -133,6 +133,8 @@ async function toInput(
       ...(v.systemicVelocityKmS !== undefined
         ? { systemicVelocityKmS: v.systemicVelocityKmS }
         : {}),
+      ...(v.massRatio !== undefined ? { massRatio: v.massRatio } : {}),
+      ...(v.lightFraction !== undefined ? { lightFraction: v.lightFraction } : {}),
       ...(on.length ? { relativity: Object.fromEntries(on.map((s) => [s, true])) } : {}),
       ...(covariance ? { covariance } : {}),
     },

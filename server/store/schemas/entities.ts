@@ -74,6 +74,16 @@ export const OrbitShape = z
     systemicVelocityKmS: z.number().optional(),
     relativity: z.record(z.string(), z.boolean()).optional(),
     relativityFactors: z.record(z.string(), z.number()).optional(),
+    massRatio: z
+      .number()
+      .optional()
+      .describe(
+        'q = M₂/M₁ of a binary of comparable masses (0 ≤ q ≤ 1000): both bodies’ velocities',
+      ),
+    lightFraction: z
+      .number()
+      .optional()
+      .describe('β = L₂/(L₁+L₂), the secondary’s share of the light (0 ≤ β ≤ 1): the photocentre'),
     covariance: z
       .object({ parameters: z.array(z.string()), matrix: z.array(z.array(z.number())) })
       .optional(),

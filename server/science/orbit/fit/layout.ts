@@ -255,6 +255,8 @@ export function starOrbit(
       redshiftFactor: L.sys.fz >= 0 ? theta[L.sys.fz]! : GENERAL_RELATIVITY.redshiftFactor,
       precessionFactor: L.sys.fw >= 0 ? theta[L.sys.fw]! : GENERAL_RELATIVITY.precessionFactor,
     },
+    massRatio: s.q >= 0 ? theta[s.q]! : null,
+    lightFraction: null,
     covariance: null,
   };
 }
@@ -271,14 +273,4 @@ export function findParameter(L: Layout, name: string, field: string): number {
       `is not a parameter of this fit; known: ${L.params.map((p) => p.name).join(', ')}`,
     );
   return idx;
-}
-
-/**
- * What multiplies the relative orbit's velocity in a radial velocity of `component`, and its
- * derivative by q: 1 for `relative`, 1/(1+q) for the secondary, −q/(1+q) for the primary.
- */
-export function velocityShare(component: Observation['component'], q: number): [number, number] {
-  if (component === 'relative') return [1, 0];
-  const dq = -1 / ((1 + q) * (1 + q));
-  return component === 'secondary' ? [1 / (1 + q), dq] : [-q / (1 + q), dq];
 }

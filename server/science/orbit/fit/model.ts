@@ -11,7 +11,8 @@ import { componentCount } from './measurements.ts';
 import { AU_KM, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
 import { predictBatch } from '../predict.ts';
 import type { RelativitySwitches } from '../types.ts';
-import { type Layout, starOrbit, velocityShare } from './layout.ts';
+import { velocityShare } from '../physical.ts';
+import { type Layout, starOrbit } from './layout.ts';
 
 const NO_RELATIVITY: RelativitySwitches = {
   romer: false,

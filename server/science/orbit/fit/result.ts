@@ -164,6 +164,7 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
       ...(L.sys.gamma >= 0 ? { systemicVelocityKmS: o.gammaKmS } : {}),
       relativity: { ...L.stars[k]!.relativity },
       ...(L.sys.fz >= 0 || L.sys.fw >= 0 ? { relativityFactors: { ...o.factors } } : {}),
+      ...(o.massRatio !== null ? { massRatio: o.massRatio } : {}),
       covariance: { parameters: covNames as CovarianceParameter[], matrix },
     };
     let chi2 = 0,
