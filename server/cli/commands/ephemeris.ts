@@ -82,22 +82,15 @@ export const ephemerisCommand: Command = {
       columns.push({ header: 'rv_kms', value: (r) => r.radialVelocityKmS, digits: 2 });
       if (orbit.covariance)
         columns.push({ header: 'rv_sigma_kms', value: sig('radialVelocityKmS'), digits: 2 });
-      if (orbit.massRatio !== null) {
-        columns.push({ header: 'rv1_kms', value: (r) => r.primaryRadialVelocityKmS, digits: 2 });
-        if (orbit.covariance)
-          columns.push({
-            header: 'rv1_sigma_kms',
-            value: sig('primaryRadialVelocityKmS'),
-            digits: 2,
-          });
-        columns.push({ header: 'rv2_kms', value: (r) => r.secondaryRadialVelocityKmS, digits: 2 });
-        if (orbit.covariance)
-          columns.push({
-            header: 'rv2_sigma_kms',
-            value: sig('secondaryRadialVelocityKmS'),
-            digits: 2,
-          });
-      }
+      if (orbit.massRatio !== null)
+        for (const [n, f] of [
+          ['rv1', 'primaryRadialVelocityKmS'],
+          ['rv2', 'secondaryRadialVelocityKmS'],
+        ] as const) {
+          columns.push({ header: `${n}_kms`, value: (r) => r[f], digits: 2 });
+          if (orbit.covariance)
+            columns.push({ header: `${n}_sigma_kms`, value: sig(f), digits: 2 });
+        }
       columns.push({ header: 'r3d_au', value: (r) => r.separation3dAu, digits: 2 });
     }
     if (orbit.massRatio !== null && orbit.lightFraction !== null) {
