@@ -336,6 +336,33 @@ export const blockOutcomes = sqliteTable('block_outcomes', {
   notes: text('notes').notNull().default(''),
 });
 
+/**
+ * The columns of a measurement after its target and block: one list for the table and for the
+ * staging table an import fills before it swaps its rows in.
+ */
+const measurementColumns = () => ({
+  kind: text('kind', { enum: MEASUREMENT_KIND_NAMES }).notNull(),
+  /** Which body: the secondary relative to the primary (the default), the primary or the secondary. */
+  component: text('component', { enum: MEASURED_COMPONENTS }).notNull().default('relative'),
+  epoch: text('epoch').notNull(),
+  epochJd: real('epoch_jd').notNull(),
+  dRaMas: real('d_ra_mas'),
+  dDecMas: real('d_dec_mas'),
+  sigmaDRaMas: real('sigma_d_ra_mas'),
+  sigmaDDecMas: real('sigma_d_dec_mas'),
+  separationMas: real('separation_mas'),
+  positionAngleDeg: real('position_angle_deg'),
+  sigmaSeparationMas: real('sigma_separation_mas'),
+  sigmaPositionAngleDeg: real('sigma_position_angle_deg'),
+  correlation: real('correlation'),
+  radialVelocityKmS: real('radial_velocity_km_s'),
+  sigmaRadialVelocityKmS: real('sigma_radial_velocity_km_s'),
+  instrument: text('instrument').notNull(),
+  notes: text('notes').notNull().default(''),
+  createdAt: created(),
+  updatedAt: updated(),
+});
+
 export const measurements = sqliteTable(
   'measurements',
   {
@@ -344,32 +371,41 @@ export const measurements = sqliteTable(
       .notNull()
       .references(() => targets.id, { onDelete: 'restrict' }),
     blockId: integer('block_id').references(() => blocks.id, { onDelete: 'set null' }),
-    kind: text('kind', { enum: MEASUREMENT_KIND_NAMES }).notNull(),
-    /** Which body: the secondary relative to the primary (the default), the primary or the secondary. */
-    component: text('component', { enum: MEASURED_COMPONENTS }).notNull().default('relative'),
-    epoch: text('epoch').notNull(),
-    epochJd: real('epoch_jd').notNull(),
-    dRaMas: real('d_ra_mas'),
-    dDecMas: real('d_dec_mas'),
-    sigmaDRaMas: real('sigma_d_ra_mas'),
-    sigmaDDecMas: real('sigma_d_dec_mas'),
-    separationMas: real('separation_mas'),
-    positionAngleDeg: real('position_angle_deg'),
-    sigmaSeparationMas: real('sigma_separation_mas'),
-    sigmaPositionAngleDeg: real('sigma_position_angle_deg'),
-    correlation: real('correlation'),
-    radialVelocityKmS: real('radial_velocity_km_s'),
-    sigmaRadialVelocityKmS: real('sigma_radial_velocity_km_s'),
-    instrument: text('instrument').notNull(),
-    notes: text('notes').notNull().default(''),
-    createdAt: created(),
-    updatedAt: updated(),
+    ...measurementColumns(),
   },
   (t) => [
     index('measurements_target_epoch').on(t.targetId, t.epochJd),
     index('measurements_block').on(t.blockId),
   ],
 );
+
+/**
+ * A measurements import under way: its rows are staged in batches (short write transactions) and
+ * moved into `measurements` in one last transaction, so no reader sees part of a file. A run whose
+ * process has ended (same host, pid gone or a new process under its pid) or whose heartbeat is
+ * older than the lease is abandoned, and its staged rows are deleted (csv/staging.ts).
+ */
+export const importRuns = sqliteTable('import_runs', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  host: text('host').notNull(),
+  pid: integer('pid').notNull(),
+  /** A random id of the writing process, told apart from a later process under the same pid. */
+  owner: text('owner').notNull(),
+  startedAt: text('started_at').notNull(),
+  heartbeatAt: text('heartbeat_at').notNull(),
+  /** Set when the rows were moved in: the staged copies are then only left to delete. */
+  finishedAt: text('finished_at'),
+});
+
+/** Staged rows of an import run, in file order (rowid); no references, checked again at the swap. */
+export const measurementStaging = sqliteTable('measurement_staging', {
+  runId: integer('run_id')
+    .notNull()
+    .references(() => importRuns.id, { onDelete: 'cascade' }),
+  targetId: integer('target_id').notNull(),
+  blockId: integer('block_id'),
+  ...measurementColumns(),
+});
 
 /** How a change reached the store. */
 export const AUDIT_VIA = ['http', 'cli', 'store'] as const;

@@ -12,6 +12,7 @@ import { migrate } from 'drizzle-orm/libsql/migrator';
 import * as schema from '../../db/schema.ts';
 import { InputError } from '../science/errors.ts';
 import { CONNECTION_BUSY_MS, gatedTransaction } from './write-gate.ts';
+import { clearAbandonedImports } from './csv/staging.ts';
 
 export type Db = LibSQLDatabase<typeof schema>;
 /** A transaction handle or the database itself: repositories accept either. */
@@ -143,5 +144,7 @@ export async function openDatabase(options: OpenOptions = {}): Promise<Database>
     await client.reconnect();
   }) as Db['transaction'];
   await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
+  // Staged rows of an import whose process died (staging.ts): never measurements, only clutter.
+  await clearAbandonedImports(db);
   return { db, client, url, isLocalFile, close: () => client.close() };
 }

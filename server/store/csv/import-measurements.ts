@@ -1,15 +1,25 @@
 /**
- * The write half of a measurements import: names and block references resolved with a few
- * queries, then the rows inserted in batches, all inside one transaction with one audit entry.
- * The rows come checked from `prepareMeasurements` (possibly run in a worker thread).
+ * The write half of a measurements import, all or nothing for the user but never one long write:
+ * names, blocks, duplicates and the clock are checked with reads (no write lock), the rows are
+ * staged in short batches (staging.ts), and one last transaction checks again whatever another
+ * writer may have changed meanwhile (targets, blocks, new twins, the same file) and moves the
+ * rows in, with the import's one audit entry. The rows come checked from `prepareMeasurements`
+ * (possibly run in a worker thread).
  */
 import type { InValue } from '@libsql/client';
-import { and, getTableColumns, inArray } from 'drizzle-orm';
+import { and, gt, inArray, max } from 'drizzle-orm';
 import { measurements, systems, targets } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
 import { nowMs } from '../../clock.ts';
-import { libsqlTransaction, type DbOrTx } from '../database.ts';
+import type { Db, DbOrTx } from '../database.ts';
+import {
+  MEASUREMENT_COLUMNS,
+  clearAbandonedImports,
+  dropRun,
+  moveStagedRows,
+  stageRows,
+} from './staging.ts';
 import { blockRefs } from '../repos/block-rules.ts';
 import {
   checkMeasurementBlock,
@@ -83,65 +93,89 @@ function nameProblem(r: PreparedMeasurement, known: Set<unknown>): ImportProblem
   };
 }
 
-/** Each row with its target id and block checked; problems for those that fail. */
-/** The file line of a resolved row (a symbol key: not a column, never inserted). */
-const LINE = Symbol('line');
+/** Rows of the file resolved against the store as it was read: what the swap checks again. */
+interface ResolvedRows {
+  /** Column values in MEASUREMENT_COLUMNS order, in file order. */
+  values: InValue[][];
+  /** The twin key and file line of each row of `values`. */
+  keys: string[];
+  lines: number[];
+  /** Rows on a block, with the block as it was read. */
+  onBlocks: { next: Record<string, unknown>; line: number }[];
+  blocks: Map<number, BlockRef>;
+  targetIds: Set<number>;
+  /** The newest measurement id when the file was checked: later rows may be new twins. */
+  lastMeasurementId: number;
+  problems: ImportProblem[];
+}
 
-async function resolveRows(
-  tx: DbOrTx,
-  prepared: PreparedMeasurements,
-): Promise<{ values: Record<string, unknown>[]; problems: ImportProblem[] }> {
-  const ids = await targetIdsByName(tx, prepared.rows);
+/** Let other requests run between slices of a long loop on the server's thread. */
+const SLICE = 2000;
+const yieldToOthers = () => new Promise((r) => setImmediate(r));
+
+/** Each row with its target id, the clock and its block checked; problems for those that fail. */
+async function resolveRows(db: DbOrTx, prepared: PreparedMeasurements): Promise<ResolvedRows> {
+  const [newest] = await db.select({ id: max(measurements.id) }).from(measurements);
+  const ids = await targetIdsByName(db, prepared.rows);
   const knownSystems = new Set([...ids.keys()].map((k) => (JSON.parse(k) as unknown[])[0]));
   const blockIds = [
     ...new Set(prepared.rows.map((r) => r.row.blockId).filter((b) => typeof b === 'number')),
   ];
-  const blockById: Map<unknown, BlockRef> = await blockRefs(tx, blockIds as number[]);
-  const problems: ImportProblem[] = [];
-  const values: Record<string, unknown>[] = [];
+  const out: ResolvedRows = {
+    values: [],
+    keys: [],
+    lines: [],
+    onBlocks: [],
+    blocks: await blockRefs(db, blockIds as number[]),
+    targetIds: new Set(),
+    lastMeasurementId: newest?.id ?? 0,
+    problems: [],
+  };
   const clock = nowMs();
   const now = new Date(clock).toISOString();
-  for (const r of prepared.rows) {
+  for (const [i, r] of prepared.rows.entries()) {
+    if (i % SLICE === SLICE - 1) await yieldToOthers();
     const targetId = ids.get(nameKey(r.system, r.target));
     if (targetId === undefined) {
-      problems.push(nameProblem(r, knownSystems));
+      out.problems.push(nameProblem(r, knownSystems));
       continue;
     }
-    const next: Record<string, unknown> = {
-      ...r.row,
-      targetId,
-      createdAt: now,
-      updatedAt: now,
-      [LINE]: r.line,
-    };
+    // The prepared row is this import's own copy: completed in place rather than copied.
+    const next = r.row;
+    next.targetId = targetId;
+    next.createdAt = now;
+    next.updatedAt = now;
     try {
       checkMeasurementTime(next, clock);
       if (next.blockId !== null && next.blockId !== undefined) {
-        const block = blockById.get(next.blockId);
-        if (!block)
-          throw new InputError('blockId', next.blockId, 'does not name an existing block');
-        checkMeasurementBlock(next, block, clock);
+        checkOnBlock(next, out.blocks, clock);
+        out.onBlocks.push({ next, line: r.line });
       }
-      values.push(next);
     } catch (err) {
       if (!(err instanceof InputError)) throw err;
-      problems.push({ line: r.line, column: err.field, value: err.value, rule: err.rule });
+      out.problems.push({ line: r.line, column: err.field, value: err.value, rule: err.rule });
+      continue;
     }
+    out.targetIds.add(targetId);
+    out.values.push(MEASUREMENT_COLUMNS.map(({ key }) => (next[key] ?? null) as InValue));
+    out.keys.push(twinKey(next));
+    out.lines.push(r.line);
   }
-  return { values, problems };
+  return out;
 }
 
-/** A problem for each row that repeats a stored measurement or an earlier line of the file. */
-async function twinProblems(
-  tx: DbOrTx,
-  values: Record<string, unknown>[],
-): Promise<ImportProblem[]> {
-  const stored = await storedTwins(tx, values);
+function checkOnBlock(next: Record<string, unknown>, blocks: Map<number, BlockRef>, clock: number) {
+  const block = blocks.get(next.blockId as number);
+  if (!block) throw new InputError('blockId', next.blockId, 'does not name an existing block');
+  checkMeasurementBlock(next, block, clock);
+}
+
+/** A problem for each row that repeats a stored measurement (`stored`: key → id) or an earlier line. */
+function twinProblems(rows: ResolvedRows, stored: Map<string, number>): ImportProblem[] {
   const seen = new Map<string, number>();
   const problems: ImportProblem[] = [];
-  for (const v of values) {
-    const key = twinKey(v);
-    const line = (v as Record<symbol, unknown>)[LINE] as number;
+  rows.keys.forEach((key, i) => {
+    const line = rows.lines[i]!;
     const id = stored.get(key);
     const earlier = seen.get(key);
     if (id !== undefined)
@@ -159,66 +193,140 @@ async function twinProblems(
         rule: `${TWIN_RULE} as line ${earlier}`,
       });
     else seen.set(key, line);
-  }
+  });
   return problems;
 }
 
-/** Stored columns in insert order: the table's columns but its generated id. */
-const COLUMNS = Object.entries(getTableColumns(measurements)).filter(([k]) => k !== 'id');
-const INSERT_HEAD = `insert into measurements (${COLUMNS.map(([, c]) => `"${c.name}"`).join(', ')}) values `;
-const TUPLE = `(${COLUMNS.map(() => '?').join(', ')})`;
+/** Stored twins among the measurements written after `afterId` (by another writer, mid-import). */
+async function twinsSince(tx: DbOrTx, rows: ResolvedRows): Promise<Map<string, number>> {
+  const out = new Map<string, number>();
+  const recent = await tx
+    .select()
+    .from(measurements)
+    .where(
+      and(
+        gt(measurements.id, rows.lastMeasurementId),
+        inArray(measurements.targetId, [...rows.targetIds]),
+      ),
+    );
+  for (const m of recent) {
+    const key = twinKey(m as Record<string, unknown>);
+    if (!out.has(key)) out.set(key, m.id);
+  }
+  return out;
+}
 
 /**
- * One multi-row INSERT with bound parameters on the transaction's libSQL handle. drizzle's insert
- * builder (and its sql template) map each cell through column objects, which cost four to six times
- * the statement itself at 20,000 rows (measured with the import bench); the values here are already
- * checked and in column form.
+ * At the swap, what may have changed since the rows were checked: a target deleted, a block
+ * edited or deleted, a twin stored, the same file imported by another writer.
  */
-async function insertBatch(tx: DbOrTx, batch: Record<string, unknown>[]): Promise<void> {
-  const args: InValue[] = [];
-  for (const r of batch) for (const [k] of COLUMNS) args.push((r[k] ?? null) as InValue);
-  const sql = INSERT_HEAD + batch.map(() => TUPLE).join(', ');
-  const raw = libsqlTransaction(tx);
-  if (raw) await raw.execute({ sql, args });
-  else await tx.insert(measurements).values(batch as (typeof measurements.$inferInsert)[]);
+async function problemsSinceChecked(
+  tx: DbOrTx,
+  rows: ResolvedRows,
+  prepared: PreparedMeasurements,
+  allowDuplicates: boolean,
+): Promise<ImportProblem[]> {
+  const problems: ImportProblem[] = [];
+  if (!allowDuplicates) {
+    const repeated = await repeatedFileProblem(tx, 'measurements', prepared.digest);
+    if (repeated) return [repeated];
+  }
+  const present = new Set(
+    (
+      await tx
+        .select({ id: targets.id })
+        .from(targets)
+        .where(inArray(targets.id, [...rows.targetIds]))
+    ).map((t) => t.id),
+  );
+  const gone = [...rows.targetIds].filter((id) => !present.has(id));
+  for (const id of gone)
+    problems.push({
+      line: rows.lines[rows.values.findIndex((v) => v[TARGET_INDEX] === id)] ?? 1,
+      column: 'target',
+      value: id,
+      rule: `target ${id} was deleted while the file was imported; nothing was written`,
+    });
+  const fresh = await blockRefs(tx, [...rows.blocks.keys()]);
+  const clock = nowMs();
+  for (const { next, line } of rows.onBlocks) {
+    const id = next.blockId as number;
+    if (JSON.stringify(fresh.get(id)) === JSON.stringify(rows.blocks.get(id))) continue;
+    try {
+      checkOnBlock(next, fresh, clock);
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      problems.push({
+        line,
+        column: err.field,
+        value: err.value,
+        rule: `${err.rule} (block ${id} changed while the file was imported)`,
+      });
+    }
+  }
+  if (!allowDuplicates) problems.push(...twinProblems(rows, await twinsSince(tx, rows)));
+  return problems;
 }
+
+const TARGET_INDEX = MEASUREMENT_COLUMNS.findIndex((c) => c.key === 'targetId');
 
 export interface MeasurementWriteOptions {
   dryRun: boolean;
   /** Store rows that repeat a stored measurement or an earlier line (default: each one refused). */
   allowDuplicates?: boolean;
-  /** Called for every row once its batch is written (progress; tests crash the writer mid-way). */
+  /** Called for every row once its batch is staged (progress; tests kill the writer mid-way). */
   onRow?: (index: number) => void | Promise<void>;
 }
 
+/** Thrown inside the swap to roll it back with the problems found there. */
+class SwapRefused extends Error {
+  constructor(readonly problems: ImportProblem[]) {
+    super('the import was refused at the swap');
+  }
+}
+
 /**
- * Resolve and write checked rows inside `tx`. Returns every problem (file and references, sorted
- * by line); writes only when there is none and it is not a dry run.
+ * Check and write prepared rows. Returns every problem (file, references, duplicates; sorted by
+ * line); writes only when there is none and it is not a dry run, and then all rows at once.
  */
-export async function writeMeasurementsIn(
-  tx: DbOrTx,
+export async function writeMeasurements(
+  db: Db,
   actor: Actor,
   prepared: PreparedMeasurements,
   options: MeasurementWriteOptions,
 ): Promise<ImportProblem[]> {
-  const { values, problems } = await resolveRows(tx, prepared);
+  const rows = await resolveRows(db, prepared);
+  const problems = [...rows.problems, ...prepared.problems];
   if (!options.allowDuplicates) {
-    const repeated = await repeatedFileProblem(tx, 'measurements', prepared.digest);
+    const repeated = await repeatedFileProblem(db, 'measurements', prepared.digest);
     // A repeated file is one problem, not one per row.
     if (repeated) problems.push(repeated);
-    else problems.push(...(await twinProblems(tx, values)));
+    else problems.push(...twinProblems(rows, await storedTwins(db, rowsForTwins(prepared))));
   }
-  problems.push(...prepared.problems);
   problems.sort((a, b) => a.line - b.line);
   if (problems.length > 0 || options.dryRun) return problems;
-  for (let i = 0; i < values.length; i += INSERT_BATCH) {
-    const batch = values.slice(i, i + INSERT_BATCH);
-    await insertBatch(tx, batch);
-    if (options.onRow) for (let j = 0; j < batch.length; j++) await options.onRow(i + j);
+  await clearAbandonedImports(db);
+  const runId = await stageRows(db, rows.values, options.onRow);
+  try {
+    await db.transaction(async (tx) => {
+      const late = await problemsSinceChecked(tx, rows, prepared, options.allowDuplicates ?? false);
+      if (late.length > 0) throw new SwapRefused(late.sort((a, b) => a.line - b.line));
+      await moveStagedRows(tx, runId);
+      await recordAudit(tx, actor, 'import', 'measurements', null, {
+        rows: rows.values.length,
+        digest: prepared.digest,
+      });
+    });
+  } catch (err) {
+    if (err instanceof SwapRefused) return err.problems;
+    throw err;
+  } finally {
+    await dropRun(db, runId);
   }
-  await recordAudit(tx, actor, 'import', 'measurements', null, {
-    rows: values.length,
-    digest: prepared.digest,
-  });
-  return problems;
+  return [];
+}
+
+/** The resolved rows of the file (those with a target), as the twin search reads them. */
+function rowsForTwins(prepared: PreparedMeasurements): Record<string, unknown>[] {
+  return prepared.rows.map((r) => r.row).filter((row) => row.targetId !== undefined);
 }

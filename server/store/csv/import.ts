@@ -1,8 +1,10 @@
 /**
- * All-or-nothing CSV imports. Every row is written inside one transaction through the same
- * repositories as the API (so every rule applies, including references to rows earlier in the
- * file); any bad row rolls the whole file back, and the report lists every bad row with its line,
- * column, value and rule. A dry run does everything and then rolls back.
+ * All-or-nothing CSV imports; the report lists every bad row with its line, column, value and
+ * rule. Targets and orbit solutions (small files) are written inside one transaction through the
+ * same repositories as the API (so every rule applies, including references to rows earlier in the
+ * file); any bad row rolls the whole file back, and a dry run does everything and then rolls back.
+ * Measurements (files of 100,000 rows) are checked first and staged in short batches, then moved in
+ * at once (import-measurements.ts), so a long import never holds the write lock for its length.
  */
 import { and, eq } from 'drizzle-orm';
 import { systems, targets } from '../../../db/schema.ts';
@@ -19,7 +21,7 @@ import { recordAudit, type Actor } from '../audit.ts';
 import type { DbOrTx, Tx } from '../database.ts';
 import type { StoreContext } from '../context.ts';
 import type { CsvKind } from './columns.ts';
-import { writeMeasurementsIn } from './import-measurements.ts';
+import { writeMeasurements } from './import-measurements.ts';
 import { fileDigest, repeatedFileProblem } from './repeated-file.ts';
 import { prepareMeasurements, type PreparedMeasurements } from './measurement-rows.ts';
 import {
@@ -198,7 +200,8 @@ export async function importCsv(
 
 /**
  * Write a measurements file already parsed and checked by `prepareMeasurements` (the server runs
- * that part in a worker thread): names and blocks resolved, then batched inserts, in one transaction.
+ * that part in a worker thread): checked against the store, staged in short batches, then moved
+ * in at once (import-measurements.ts).
  */
 export async function importPreparedMeasurements(
   store: StoreContext,
@@ -207,22 +210,12 @@ export async function importPreparedMeasurements(
   options: ImportOptions = {},
 ): Promise<ImportReport> {
   const dryRun = options.dryRun ?? false;
-  const report: ImportReport = {
-    kind: 'measurements',
+  const problems = await writeMeasurements(store.db, actor, prepared, {
     dryRun,
-    rows: prepared.total,
-    written: 0,
-    problems: [],
-  };
-  await rollingBack(store, async (tx) => {
-    report.problems = await writeMeasurementsIn(tx, actor, prepared, {
-      dryRun,
-      allowDuplicates: options.allowDuplicates ?? false,
-      ...(options.onRow ? { onRow: options.onRow } : {}),
-    });
-    if (report.problems.length > 0 || dryRun) throw new Rollback();
+    allowDuplicates: options.allowDuplicates ?? false,
+    ...(options.onRow ? { onRow: options.onRow } : {}),
   });
-  return finish(report);
+  return finish({ kind: 'measurements', dryRun, rows: prepared.total, written: 0, problems });
 }
 
 /** Run `write` in a transaction; a Rollback thrown inside undoes it quietly. */
