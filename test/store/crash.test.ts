@@ -1,7 +1,7 @@
 /**
- * Crash safety: a child process importing a large CSV is killed with SIGKILL in the middle of the
- * transaction; the file database then holds none of the import, and a run left to finish holds
- * all of it. (SQLite's atomic commit through the write-ahead log, from memory: sqlite.org "Atomic
+ * Crash safety: a child process importing a large CSV is killed with SIGKILL after some of its
+ * batches are staged; the file database then holds none of the import (staged rows only, which
+ * the next open deletes), and a run left to finish holds all of it. (SQLite's atomic commit through the write-ahead log, from memory: sqlite.org "Atomic
  * Commit In SQLite" and "Write-Ahead Logging".)
  */
 import { spawn } from 'node:child_process';
@@ -9,13 +9,24 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { createClient } from '@libsql/client';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOCAL_OPERATOR, createStore, openDatabase } from '../../server/store/index.ts';
 import { databaseOf } from '../../server/store/testing.ts';
 
 const here = dirname(fileURLToPath(import.meta.url));
 const child = join(here, 'crash-child.ts');
-const ROWS = 6000;
+const ROWS = 12_000;
+
+/** Staged rows, read without the store (whose open clears those of dead processes). */
+async function countStaged(path: string): Promise<number> {
+  const client = createClient({ url: `file:${path}` });
+  const n = Number(
+    (await client.execute('SELECT count(*) AS n FROM measurement_staging')).rows[0]!.n,
+  );
+  client.close();
+  return n;
+}
 
 async function countMeasurements(path: string): Promise<{ n: number; integrity: string }> {
   const store = createStore(await openDatabase({ url: `file:${path}` }));
@@ -74,13 +85,17 @@ describe('an import killed mid-way', () => {
   afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
   it('leaves none of it when killed, all of it when finished', async () => {
-    const killed = await runChild(db('killed.db'), 3000);
+    // Rows 0–4,999 are reported once the first batch of 5,000 is staged, 5,000 after the second.
+    const killed = await runChild(db('killed.db'), 5000);
     expect(killed.signal).toBe('SIGKILL'); // the child really was killed…
     expect(killed.out).not.toContain('done'); // …before the import finished
+    expect(await countStaged(db('killed.db'))).toBeGreaterThanOrEqual(10_000); // two batches staged and committed (constructed case)
     expect(await countMeasurements(db('killed.db'))).toEqual({ n: 0, integrity: 'ok' }); // none of the rows; PRAGMA integrity_check says "ok" for a sound file (sqlite.org pragma docs, from memory)
+    expect(await countStaged(db('killed.db'))).toBe(0); // the open cleared the dead run's staged rows
 
     const finished = await runChild(db('finished.db'));
     expect(finished.out).toContain('done');
     expect(await countMeasurements(db('finished.db'))).toEqual({ n: ROWS, integrity: 'ok' }); // every row of the file made by the child
+    expect(await countStaged(db('finished.db'))).toBe(0); // nothing left staged after the swap
   }, 180_000);
 });
