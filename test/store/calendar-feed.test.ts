@@ -14,7 +14,8 @@ import { createApp } from '../../server/http/app.ts';
 import { eventsWithUncertainty, validateOrbit } from '../../server/science/orbit/index.ts';
 import { nightSpan, sunNight, validateSite } from '../../server/science/sky/index.ts';
 import { jdToUnixMs, parseEpoch } from '../../server/science/time/index.ts';
-import { nowIso } from '../../server/clock.ts';
+import { asOf, nowIso } from '../../server/clock.ts';
+import { revision } from '../../server/store/exports/calendar.ts';
 import { HEADLINE, demoAnchor } from '../../server/store/demo/scenario.ts';
 import { LOCAL_OPERATOR, type Store } from '../../server/store/index.ts';
 import { startStore } from '../../server/store/startup.ts';
@@ -115,7 +116,11 @@ describe('the campaign calendar feed', () => {
     expect(Math.abs(mid - jdToUnixMs(passage!.jd))).toBeLessThan(1000); // the orbit engine's passage
     expect(Math.abs(half - passage!.sigmaDays! * 86_400_000)).toBeLessThan(1000); // its linear 1σ
     expect(String(ev.description)).toMatch(/Most likely at \d{4}-\d\d-\d\d \d\d:\d\d UTC, 1σ/);
-    expect(Number(ev.sequence)).toBe(solution.version - 1);
+    // SEQUENCE: whole seconds from the event's creation (its target's) to its last change
+    const created = Math.floor(Date.parse(target.createdAt) / 1000);
+    expect(Number(ev.sequence)).toBeGreaterThanOrEqual(
+      Math.floor(Date.parse(solution.createdAt) / 1000) - created,
+    );
     expect(parsed.filter((e) => /^Flag|periapsis ahead|stale/i.test(String(e.summary)))).toEqual(
       [],
     );
@@ -154,12 +159,50 @@ describe('the campaign calendar feed', () => {
     const was = uidOf(before, moved!.id);
     const now = uidOf(events(await feed('127.0.0.1')), moved!.id);
     expect(now.uid).toBe(was.uid); // the same event, updated in place
-    expect(Number(now.sequence)).toBe(Number(was.sequence) + 1); // RFC 5545 §3.8.7.4
+    expect(Number(now.sequence)).toBeGreaterThan(Number(was.sequence)); // RFC 5545 §3.8.7.4
     expect(new Date(now.dtstamp).getTime()).toBe(
       Math.floor(Date.parse(moved!.updatedAt) / 1000) * 1000,
     );
     expect(new Date(now.start!).getTime() - new Date(was.start!).getTime()).toBe(600_000);
     expect(String(now.location)).not.toBe('');
+  });
+});
+
+describe('a rename of what an event shows', () => {
+  it('keeps the UID and raises SEQUENCE and DTSTAMP of its blocks and passages', async () => {
+    const target = (await store.targets.list({}, { limit: 50 })).items.find(
+      (t) => t.name === HEADLINE,
+    )!;
+    const before = events(await feed('127.0.0.1'));
+    const shows = (list: ical.VEvent[]) =>
+      list.filter(
+        (e) =>
+          e.uid.startsWith(`periapsis-t${target.id}-`) ||
+          String(e.summary).startsWith(`${target.name} (`),
+      );
+    expect(shows(before).length).toBeGreaterThan(1); // a passage and at least one block
+    // Two minutes after the clock, so the change lies in a later second than any other (constructed case).
+    const at = Math.ceil(Date.now() / 1000) * 1000 + 120_000;
+    await asOf(at, () => store.targets.update(LOCAL_OPERATOR, target.id, { name: 'Renamed Kite' }));
+    const after = events(await feed('127.0.0.1'));
+    for (const was of shows(before)) {
+      const now = after.find((e) => e.uid === was.uid)!;
+      expect(now, was.uid).toBeDefined(); // the same event, updated in place
+      expect(String(now.summary)).toContain('Renamed Kite');
+      expect(Number(now.sequence), was.uid).toBeGreaterThan(Number(was.sequence)); // RFC 5545 §3.8.7.4
+      expect(new Date(now.dtstamp).getTime()).toBe(at); // RFC 5545 §3.8.7.2: the last revision
+    }
+    await store.targets.update(LOCAL_OPERATOR, target.id, { name: target.name });
+  });
+
+  it('never lowers SEQUENCE when a row moves under another with fewer changes', () => {
+    // constructed case: a block moved from a much-edited night to a fresh one
+    const created = '2027-01-01T00:00:00.000Z';
+    const before = revision(created, ['2027-03-01T00:00:00.000Z', '2027-02-01T00:00:00.000Z'], 2);
+    const after = revision(created, ['2027-03-02T00:00:00.000Z', '2027-01-01T00:00:00.000Z'], 3);
+    expect(after.sequence).toBeGreaterThan(before.sequence);
+    expect(after.stamp.getTime()).toBeGreaterThan(before.stamp.getTime());
+    expect(revision(created, [created]).sequence).toBe(0); // RFC 5545 §3.8.7.4: 0 when created
   });
 });
 

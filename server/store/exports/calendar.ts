@@ -6,14 +6,25 @@
  * highest SEQUENCE, so:
  * - UIDs depend only on the stored rows: the row id (or the target and passage number) and a key
  *   of the campaign (its id and creation instant), never on the host the feed was fetched through;
- * - SEQUENCE and DTSTAMP come from the stored changes: a block's version, a night's and its site's
- *   updates in the audit trail, an orbit solution's version, with the instant of the last change.
+ * - DTSTAMP is the instant of the last change of any row the event shows (`revision`), and
+ *   SEQUENCE the whole seconds from the event's creation to that change: it rises with every
+ *   change (RFC 5545 §3.8.7.4, "monotonically incremented"), a rename of its target, system or
+ *   site included, and never falls, even when a row is moved under another night, target or
+ *   site (a count of changes summed over the rows shown would fall then).
  */
 import { createHash } from 'node:crypto';
 import ical from 'ical-generator';
 import { DateTime } from 'luxon';
-import { and, count, eq, inArray, max } from 'drizzle-orm';
-import { auditTrail, blocks, nights, sites, systems, targets } from '../../../db/schema.ts';
+import { and, eq, inArray, max } from 'drizzle-orm';
+import {
+  auditTrail,
+  blocks,
+  nights,
+  orbitSolutions,
+  sites,
+  systems,
+  targets,
+} from '../../../db/schema.ts';
 import { JD_J2000 } from '../../science/constants.ts';
 import { eventsWithUncertainty } from '../../science/orbit/index.ts';
 import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
@@ -57,30 +68,45 @@ const location = (s: SiteRow) => ({
   geo: { lat: s.latitudeDeg, lon: s.longitudeDeg },
 });
 
-/** Updates recorded in the audit trail per id of one entity: how many, and the last one's instant. */
-async function updatesOf(db: DbOrTx, entity: string, ids: number[]) {
-  const out = new Map<number, { n: number; last: string | null }>();
+/** The last update of each orbit solution in the audit trail (becoming current again is one). */
+async function solutionUpdates(db: DbOrTx, ids: number[]): Promise<Map<number, string>> {
+  const out = new Map<number, string>();
   if (ids.length === 0) return out;
   const rows = await db
-    .select({ id: auditTrail.entityId, n: count(), last: max(auditTrail.at) })
+    .select({ id: auditTrail.entityId, last: max(auditTrail.at) })
     .from(auditTrail)
     .where(
       and(
-        eq(auditTrail.entity, entity),
+        eq(auditTrail.entity, 'orbit solution'),
         eq(auditTrail.action, 'update'),
         inArray(auditTrail.entityId, ids),
       ),
     )
     .groupBy(auditTrail.entityId);
-  for (const r of rows) if (r.id !== null) out.set(r.id, { n: r.n, last: r.last });
+  for (const r of rows) if (r.id !== null && r.last !== null) out.set(r.id, r.last);
   return out;
 }
 
-const later = (...isos: (string | null | undefined)[]) =>
-  isos
-    .filter((x): x is string => typeof x === 'string')
-    .sort()
-    .at(-1)!;
+/**
+ * An event's DTSTAMP and SEQUENCE: `created` is the instant the event came to be (a fixed row's
+ * creation), `changes` the last-change instants (ISO 8601 UTC) of every row the event shows.
+ */
+export function revision(
+  created: string,
+  changes: (string | null | undefined)[],
+  ownChanges = 0,
+): { stamp: Date; sequence: number } {
+  const last = Math.max(
+    Date.parse(created),
+    ...changes.filter((x): x is string => typeof x === 'string').map(Date.parse),
+  );
+  return {
+    stamp: new Date(last),
+    // A versioned row's own changes count too, so a frozen clock (EPOCHWRIGHT_NOW) still raises it.
+    sequence:
+      Math.max(0, Math.floor(last / 1000) - Math.floor(Date.parse(created) / 1000)) + ownChanges,
+  };
+}
 
 export async function campaignCalendar(
   db: DbOrTx,
@@ -113,12 +139,6 @@ export async function campaignCalendar(
     .innerJoin(sites, eq(sites.id, nights.siteId))
     .where(eq(nights.campaignId, campaignId))
     .orderBy(nights.date, sites.name);
-  const nightUpdates = await updatesOf(
-    db,
-    'night',
-    nightRows.map((r) => r.n.id),
-  );
-  const siteUpdates = await updatesOf(db, 'site', [...new Set(nightRows.map((r) => r.s.id))]);
   const skySites = new Map<number, Site>();
   for (const { n, s } of nightRows) {
     let site = skySites.get(s.id);
@@ -128,12 +148,9 @@ export async function campaignCalendar(
     }
     const dark = darkSpan(site, n.date);
     if (!dark) continue; // no sunset at all (polar summer): no night to show
-    const nu = nightUpdates.get(n.id);
-    const su = siteUpdates.get(s.id);
     cal.createEvent({
       id: uid(`night-${n.id}`),
-      sequence: (nu?.n ?? 0) + (su?.n ?? 0),
-      stamp: new Date(later(n.createdAt, nu?.last, su?.last)),
+      ...revision(n.createdAt, [n.updatedAt, s.updatedAt]),
       start: DateTime.fromMillis(dark.start, { zone: s.timeZone }),
       end: DateTime.fromMillis(dark.end, { zone: s.timeZone }),
       timezone: s.timeZone,
@@ -150,7 +167,7 @@ export async function campaignCalendar(
   }
 
   const blockRows = await db
-    .select({ b: blocks, night: nights.date, s: sites, target: targets.name, system: systems.name })
+    .select({ b: blocks, n: nights, s: sites, t: targets, y: systems })
     .from(blocks)
     .innerJoin(nights, eq(nights.id, blocks.nightId))
     .innerJoin(sites, eq(sites.id, nights.siteId))
@@ -161,15 +178,17 @@ export async function campaignCalendar(
   for (const r of blockRows) {
     cal.createEvent({
       id: uid(`block-${r.b.id}`),
-      // Every change of a block raises its version (from 1): SEQUENCE counts the changes.
-      sequence: r.b.version - 1,
-      stamp: new Date(r.b.updatedAt),
+      ...revision(
+        r.b.createdAt,
+        [r.b.updatedAt, r.n.updatedAt, r.s.updatedAt, r.t.updatedAt, r.y.updatedAt],
+        r.b.version - 1,
+      ),
       start: new Date(r.b.startUtc),
       end: new Date(r.b.endUtc),
-      summary: `${r.target} (${r.system}) ${r.b.kind} at ${r.s.name} [${r.b.status}]`,
+      summary: `${r.t.name} (${r.y.name}) ${r.b.kind} at ${r.s.name} [${r.b.status}]`,
       location: location(r.s),
       description: [
-        `Night ${r.night} at ${r.s.name}; block ${r.b.id}, version ${r.b.version}.`,
+        `Night ${r.n.date} at ${r.s.name}; block ${r.b.id}, version ${r.b.version}.`,
         r.b.notes,
         r.b.laserGuideStar ? LASER_GUIDE_STAR_CAUTION : '',
       ]
@@ -179,14 +198,24 @@ export async function campaignCalendar(
   }
 
   // Periapsis passages as their ± 1σ span; the most likely instant in the description.
-  const stampOfTarget = new Map<string, string>();
+  // What a target's events show: its name, its system's, its current solution.
+  const shownOf = new Map<string, { key: string; created: string; changes: string[] }>();
   if (targetIds.length) {
     const named = await db
-      .select({ id: targets.id, name: targets.name, system: systems.name })
+      .select({ t: targets, y: systems })
       .from(targets)
       .innerJoin(systems, eq(systems.id, targets.systemId))
       .where(inArray(targets.id, targetIds));
-    for (const t of named) {
+    const solutionIds = await db
+      .select({ id: orbitSolutions.id })
+      .from(orbitSolutions)
+      .where(inArray(orbitSolutions.targetId, targetIds));
+    const flips = await solutionUpdates(
+      db,
+      solutionIds.map((r) => r.id),
+    );
+    for (const { t: row, y } of named) {
+      const t = { id: row.id, name: row.name, system: y.name };
       let found: Awaited<ReturnType<typeof currentOrbit>>;
       try {
         found = await currentOrbit(db, t.id);
@@ -195,7 +224,17 @@ export async function campaignCalendar(
         throw err;
       }
       const { solution, orbit } = found;
-      stampOfTarget.set(t.name, solution.createdAt);
+      const shown = {
+        key: `t${t.id}`,
+        created: row.createdAt,
+        changes: [
+          row.updatedAt,
+          y.updatedAt,
+          solution.createdAt,
+          flips.get(solution.id) ?? null,
+        ].filter((x): x is string => x !== null),
+      };
+      shownOf.set(t.name, shown);
       for (const ev of eventsWithUncertainty(orbit, startJd, endJd, { kinds: ['periapsis'] })) {
         const sigma = ev.sigmaDays;
         const half = sigma !== undefined && sigma > 0 ? sigma : 1 / 1440;
@@ -204,8 +243,7 @@ export async function campaignCalendar(
         const when = jdToIso(ev.jd).slice(0, 16).replace('T', ' ');
         cal.createEvent({
           id: uid(`periapsis-t${t.id}-p${passage}`),
-          sequence: solution.version - 1,
-          stamp: new Date(solution.createdAt),
+          ...revision(shown.created, shown.changes),
           start: new Date(jdToUnixMs(ev.jd - half)),
           end: new Date(jdToUnixMs(ev.jd + half)),
           summary:
@@ -231,15 +269,17 @@ export async function campaignCalendar(
   );
   for (const f of flags) {
     if (!f.blend) continue;
-    const pair = [f.target, f.blend.other]
-      .map((n) => createHash('sha256').update(n).digest('hex').slice(0, 8))
-      .join('-');
+    // Keyed by the targets' ids (a rename keeps the event); the other may be the primary.
+    const a = shownOf.get(f.target);
+    const b = shownOf.get(f.blend.other);
+    const pair = [a?.key ?? hashed(f.target), b?.key ?? hashed(f.blend.other)].join('-');
     cal.createEvent({
       id: uid(`blend-${pair}-${f.blend.start.slice(0, 10).replace(/-/g, '')}`),
-      sequence: 0,
-      stamp: new Date(
-        later(stampOfTarget.get(f.target), campaign.createdAt, stampOfTarget.get(f.blend.other)),
-      ),
+      ...revision(campaign.createdAt, [
+        campaign.updatedAt,
+        ...(a?.changes ?? []),
+        ...(b?.changes ?? []),
+      ]),
       start: new Date(f.blend.start),
       end: new Date(f.blend.end),
       summary: `Blend risk: ${f.target} and ${f.blend.other}`,
@@ -248,6 +288,8 @@ export async function campaignCalendar(
   }
   return cal.toString();
 }
+
+const hashed = (name: string) => createHash('sha256').update(name).digest('hex').slice(0, 8);
 
 /** A σ in days, or hours below a day. */
 function formatDays(d: number): string {
