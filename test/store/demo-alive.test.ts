@@ -26,7 +26,7 @@ describe.each([
     try {
       const solutions = (await store.orbitSolutions.list({}, { limit: 100 })).items;
       const current = solutions.filter((s) => s.current);
-      expect(current.length).toBe(5); // every demo star
+      expect(current.length).toBe(6); // every demo star
       for (const s of current) {
         expect(s.provenance).toBe('fitted');
         expect(s.orbit.covariance).toBeDefined();

@@ -19,6 +19,7 @@ import { startStore } from '../../server/store/startup.ts';
 import {
   DEMO_DAYS,
   demoAnchor,
+  brindleSystem,
   lanternSystem,
   vesperSystem,
 } from '../../server/store/demo/scenario.ts';
@@ -29,6 +30,7 @@ const demo = demoAnchor(nowIso());
 const MIDNIGHT = `${demo.today}T00:00:00Z`;
 const VESPER = vesperSystem(demo);
 const LANTERN = lanternSystem(demo);
+const BRINDLE = brindleSystem(demo);
 
 let dir: string;
 let store: Store;
@@ -46,11 +48,11 @@ afterAll(() => {
 
 describe('the demo campaign', () => {
   it('loads once, with a lead created on first start', async () => {
-    expect((await store.systems.list({})).total).toBe(2); // scenario.ts: Vesper Core and the Lantern Pair
+    expect((await store.systems.list({})).total).toBe(3); // scenario.ts: Vesper Core, the Lantern Pair and the Brindle Pair
     const again = await startStore({ url: store.url, demo: true });
     expect([again.demo, again.firstLead]).toEqual([null, null]); // a second start neither reloads nor makes another lead
     again.store.close();
-    expect((await store.systems.list({})).total).toBe(2);
+    expect((await store.systems.list({})).total).toBe(3);
   });
 
   it('has orbits that agree with the stated masses by Kepler’s third law, M = a³/P²', async () => {
@@ -58,8 +60,9 @@ describe('the demo campaign', () => {
     let worst = 0;
     for (const s of solutions.items.filter((x) => x.provenance === 'entered')) {
       const m = physicalQuantities(validateOrbit(s.orbit)).massSolar;
-      const stated =
-        s.orbit.distancePc === LANTERN.distancePc ? LANTERN.massSolar : VESPER.massSolar;
+      const stated = [LANTERN, BRINDLE, VESPER].find(
+        (x) => x.distancePc === s.orbit.distancePc,
+      )!.massSolar;
       worst = Math.max(worst, Math.abs(m / stated - 1));
     }
     console.log(`demo orbits: worst relative mass difference ${worst.toExponential(2)}`);

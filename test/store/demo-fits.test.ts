@@ -45,6 +45,7 @@ function parameterValue(orbit: OrbitInput, p: string): number {
   if (p === 'periapsisDays') return parseEpoch(orbit.elements.periapsis);
   if (p === 'distancePc') return orbit.distancePc!;
   if (p === 'systemicVelocityKmS') return orbit.systemicVelocityKmS ?? 0; // absent: γ held at 0
+  if (p === 'massRatio') return orbit.massRatio!;
 
   return (orbit.elements as unknown as Record<string, number>)[p]!;
 }
@@ -66,7 +67,7 @@ function compare(kept: Map<string, OrbitInput>, fresh: Map<string, OrbitInput>) 
       rows.push({ star, p, inSigma, sigmaRatio: sigma > 0 ? freshSigma / sigma : 1 });
     });
   }
-  expect(rows.length).toBeGreaterThan(30); // 5 stars, 7 to 9 parameters each
+  expect(rows.length).toBeGreaterThan(30); // 6 stars, 7 to 10 parameters each
   return rows;
 }
 
@@ -81,7 +82,7 @@ describe('the kept demo fits', () => {
   it('equal a fit run now at that anchor', async () => {
     const now = `${KEPT_FITS.anchorDay}T12:00:00Z`;
     const kept = await currentOrbits(now, false);
-    expect(keptAtLastLoad.length).toBe(5); // every star's kept fit is used: no fit at load
+    expect(keptAtLastLoad.length).toBe(6); // every star's kept fit is used: no fit at load
     const rows = compare(kept, await currentOrbits(now, true));
     expect(keptAtLastLoad).toEqual([]);
     const w = worst(rows);

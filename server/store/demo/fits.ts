@@ -1,7 +1,8 @@
 /**
  * The demo's current solutions: the orbit engine's fits to the demo measurements (provenance
  * "fitted", with covariance). The Vesper Core stars are fitted one by one at the system's stated
- * distance (Ilex with its relativistic terms on), the Lantern Pair alone at its distance, each
+ * distance (Ilex with its relativistic terms on), the Lantern Pair alone at its distance, the
+ * Brindle Pair (double-lined) with its distance and mass ratio free, each
  * started from its entered orbit, as a stored fit is.
  *
  * The scenario is built relative to its anchor day, so a fit with its periapsis counted from that
@@ -79,11 +80,15 @@ function demoFitRequests(stars: FitStar[]): { names: string[]; request: FitReque
   return stars.map((s) => {
     const relativity = s.orbit.relativity ?? {};
     const on = Object.values(relativity).some(Boolean);
+    // A double-lined visual binary gives its own distance (the orbital parallax): left free.
+    const doubleLined = s.measurements.some((m) => m.component !== 'relative');
     return {
       names: [s.name],
       request: on
         ? { stars: [star(s)], relativity: { ...relativity } }
-        : { stars: [star(s)], fixed: { distancePc: s.orbit.distancePc! } },
+        : doubleLined
+          ? { stars: [star(s)] }
+          : { stars: [star(s)], fixed: { distancePc: s.orbit.distancePc! } },
     };
   });
 }

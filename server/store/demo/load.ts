@@ -37,6 +37,8 @@ import {
   DEMO_PRIOR_STRENGTH,
   VESPER_STARS,
   demoAnchor,
+  brindleOrbit,
+  brindleSystem,
   lanternOrbit,
   lanternSystem,
   vesperOrbit,
@@ -146,7 +148,7 @@ export async function loadDemo(
   // Written as of its own moment: the store's rules (nights over, measurements made) read that clock.
   await asOf(Date.parse(now), () =>
     store.db.transaction(async (tx) => {
-      const { stars, lanternB } = await demoCatalogue(store, tx, actor, anchor);
+      const { stars, lanternB, brindleB } = await demoCatalogue(store, tx, actor, anchor);
       const sites = await demoSites(store, tx, actor);
       const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);
       const perTarget = new Map<number, ReturnType<typeof noise>>();
@@ -168,7 +170,8 @@ export async function loadDemo(
       for (const plan of demoPlans(anchor, campaigns, stars, lanternB))
         await loadPlan(ctx, sites[plan.siteIndex]!, plan);
       await earlierEpochs(ctx, stars, lanternB);
-      await storeFits(ctx, stars, lanternB, options.fitNow ?? false);
+      await doubleLinedEpochs(ctx, brindleB);
+      await storeFits(ctx, [...stars, brindleB], lanternB, options.fitNow ?? false);
     }),
   );
   return counts;
@@ -204,14 +207,26 @@ async function demoCatalogue(store: StoreContext, tx: DbOrTx, actor: Actor, anch
     raDeg: lantern.raDeg,
     decDeg: lantern.decDeg,
   };
-  for (const { target, orbit } of [...stars, lanternB])
+  const brindle = await store.systems.createIn(tx, actor, brindleSystem(anchor));
+  const brindleB: Star = {
+    target: await store.targets.createIn(tx, actor, {
+      systemId: brindle.id,
+      name: 'Brindle B',
+      magnitude: 8.6,
+      band: 'V',
+    }),
+    orbit: brindleOrbit(anchor),
+    raDeg: brindle.raDeg,
+    decDeg: brindle.decDeg,
+  };
+  for (const { target, orbit } of [...stars, lanternB, brindleB])
     await store.orbitSolutions.createIn(tx, actor, {
       targetId: target.id,
       orbit,
       provenance: 'entered',
       reference: 'demo scenario (invented): the orbit the measurements were drawn from',
     });
-  return { stars, lanternB };
+  return { stars, lanternB, brindleB };
 }
 
 /** The two sites, each with its monthly clear-night prior. */
@@ -491,6 +506,26 @@ async function earlierEpochs(ctx: LoadContext, stars: Star[], lanternB: Star): P
     );
 }
 
+/**
+ * The Brindle Pair, measured before the demo's campaigns: speckle positions every half year and,
+ * every 0.37 year, one spectrum that gives the velocities of both stars (double-lined).
+ */
+async function doubleLinedEpochs(ctx: LoadContext, b: Star): Promise<void> {
+  const t = { id: b.target.id, orbit: b.orbit, speckle: true };
+  for (let k = 0; k < 14; k++)
+    await addMeasurement(ctx, t, null, 'astrometry', ctx.anchor.yearsFrom(-(0.5 * k + 0.1)));
+  for (let k = 0; k < 16; k++)
+    for (const body of ['primary', 'secondary'] as const)
+      await addMeasurement(
+        ctx,
+        t,
+        null,
+        'spectroscopy',
+        ctx.anchor.yearsFrom(-(0.37 * k + 0.2)),
+        body,
+      );
+}
+
 /** Each star's fitted solution (fits.ts), stored as its current one. */
 async function storeFits(
   ctx: LoadContext,
@@ -521,13 +556,26 @@ async function addMeasurement(
   blockId: number | null,
   kind: BlockKind,
   epoch: string,
+  body?: 'primary' | 'secondary',
 ): Promise<void> {
   const rnd = ctx.errors(t.id);
   const p = predict(validateOrbit(t.orbit), unixMsToJd(Date.parse(epoch)));
   const round = (x: number, d: number) => Number(x.toFixed(d));
   const base = { targetId: t.id, blockId, epoch };
-  const input =
-    kind === 'spectroscopy'
+  const input = body
+    ? {
+        ...base,
+        kind: 'radial-velocity',
+        component: body,
+        radialVelocityKmS: round(
+          (body === 'primary' ? p.primaryRadialVelocityKmS! : p.secondaryRadialVelocityKmS!) +
+            0.6 * rnd.gauss(),
+          2,
+        ),
+        sigmaRadialVelocityKmS: 0.6,
+        instrument: INSTRUMENTS.echelle,
+      }
+    : kind === 'spectroscopy'
       ? {
           ...base,
           kind: 'radial-velocity',

@@ -3,7 +3,8 @@
  * the demo; none describes a real object, site, person or instrument.
  *
  * Vesper Core is an invented compact object of 2 × 10⁷ solar masses at 15 kpc with four stars on
- * eccentric orbits; the Lantern Pair is an invented visual binary at 18.6 pc. Semi-major axes
+ * eccentric orbits; the Lantern Pair is an invented visual binary at 18.6 pc; the Brindle Pair an
+ * invented double-lined visual binary at 24.7 pc (mass ratio 0.81). Semi-major axes
  * follow from Kepler's third law, M = a³/P², so the stored orbits agree with the stated masses.
  *
  * The scenario is built relative to the moment it is loaded (the server's clock at first start),
@@ -99,6 +100,44 @@ export function lanternSystem(anchor: DemoAnchor) {
     massSolar: 1.9,
     notes:
       'Invented visual binary for the demo campaign; catalogue position at J2016.0, moving 156 mas a year.',
+  };
+}
+
+/** An invented double-lined visual binary: speckle positions and the velocities of both stars. */
+export function brindleSystem(anchor: DemoAnchor) {
+  return {
+    name: 'Brindle Pair',
+    raDeg: turned(41.775, anchor),
+    decDeg: 4.318,
+    pmRaMasYr: -38.4,
+    pmDecMasYr: 22.9,
+    distancePc: 24.7,
+    massSolar: 2.3,
+    notes:
+      'Invented double-lined visual binary for the demo: both stars’ lines are measured, so the fit gives the orbital parallax and each mass.',
+  };
+}
+
+/** The Brindle Pair's mass ratio M₂/M₁ (invented). */
+export const BRINDLE_MASS_RATIO = 0.81;
+
+export function brindleOrbit(anchor: DemoAnchor): OrbitInput {
+  const brindle = brindleSystem(anchor);
+  return {
+    elements: {
+      periodYears: 3.84,
+      periapsis: anchor.yearsFrom(-1.37),
+      eccentricity: 0.36,
+      semiMajorAxisArcsec: Number(
+        keplerAxisArcsec(brindle.massSolar, 3.84, brindle.distancePc).toFixed(5),
+      ),
+      inclinationDeg: 72,
+      ascendingNodeDeg: 204,
+      argPeriapsisDeg: 118,
+    },
+    distancePc: brindle.distancePc,
+    systemicVelocityKmS: 6.2,
+    massRatio: BRINDLE_MASS_RATIO,
   };
 }
 
@@ -286,4 +325,5 @@ export const INSTRUMENTS = {
   imager: 'AO imager (demo)',
   spectrograph: 'IFU spectrograph (demo)',
   speckle: 'speckle camera (demo)',
+  echelle: 'echelle spectrograph (demo)',
 };
