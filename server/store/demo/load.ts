@@ -196,29 +196,25 @@ async function demoCatalogue(store: StoreContext, tx: DbOrTx, actor: Actor, anch
       decDeg: vesper.decDeg,
     });
   }
-  const lanternB: Star = {
+  const pair = async (
+    system: { id: number; raDeg: number; decDeg: number },
+    name: string,
+    magnitude: number,
+    orbit: OrbitInput,
+  ): Promise<Star> => ({
     target: await store.targets.createIn(tx, actor, {
-      systemId: lantern.id,
-      name: 'Lantern B',
-      magnitude: 7.9,
+      systemId: system.id,
+      name,
+      magnitude,
       band: 'V',
     }),
-    orbit: lanternOrbit(anchor),
-    raDeg: lantern.raDeg,
-    decDeg: lantern.decDeg,
-  };
+    orbit,
+    raDeg: system.raDeg,
+    decDeg: system.decDeg,
+  });
+  const lanternB = await pair(lantern, 'Lantern B', 7.9, lanternOrbit(anchor));
   const brindle = await store.systems.createIn(tx, actor, brindleSystem(anchor));
-  const brindleB: Star = {
-    target: await store.targets.createIn(tx, actor, {
-      systemId: brindle.id,
-      name: 'Brindle B',
-      magnitude: 8.6,
-      band: 'V',
-    }),
-    orbit: brindleOrbit(anchor),
-    raDeg: brindle.raDeg,
-    decDeg: brindle.decDeg,
-  };
+  const brindleB = await pair(brindle, 'Brindle B', 8.6, brindleOrbit(anchor));
   for (const { target, orbit } of [...stars, lanternB, brindleB])
     await store.orbitSolutions.createIn(tx, actor, {
       targetId: target.id,

@@ -15,7 +15,7 @@
  */
 import { DateTime } from 'luxon';
 import { JULIAN_YEAR_DAYS } from '../../science/constants.ts';
-import type { OrbitInput } from '../../science/orbit/index.ts';
+import type { CampbellInput, OrbitInput } from '../../science/orbit/index.ts';
 import { jdToIso, parseEpoch } from '../../science/time/index.ts';
 
 /** The day the scenario's offsets were drawn up for; any other anchor shifts it as a whole. */
@@ -121,26 +121,6 @@ export function brindleSystem(anchor: DemoAnchor) {
 /** The Brindle Pair's mass ratio M₂/M₁ (invented). */
 export const BRINDLE_MASS_RATIO = 0.81;
 
-export function brindleOrbit(anchor: DemoAnchor): OrbitInput {
-  const brindle = brindleSystem(anchor);
-  return {
-    elements: {
-      periodYears: 3.84,
-      periapsis: anchor.yearsFrom(-1.37),
-      eccentricity: 0.36,
-      semiMajorAxisArcsec: Number(
-        keplerAxisArcsec(brindle.massSolar, 3.84, brindle.distancePc).toFixed(5),
-      ),
-      inclinationDeg: 72,
-      ascendingNodeDeg: 204,
-      argPeriapsisDeg: 118,
-    },
-    distancePc: brindle.distancePc,
-    systemicVelocityKmS: 6.2,
-    massRatio: BRINDLE_MASS_RATIO,
-  };
-}
-
 /** Angular semi-major axis, arcsec, from mass (M☉), period (yr) and distance (pc): a[au] = (M·P²)^(1/3). */
 export function keplerAxisArcsec(
   massSolar: number,
@@ -240,23 +220,49 @@ export function vesperOrbit(s: DemoStar, anchor: DemoAnchor): OrbitInput {
   };
 }
 
-export function lanternOrbit(anchor: DemoAnchor): OrbitInput {
-  const lantern = lanternSystem(anchor);
+/** A binary's orbit: its system's distance and mass set a by Kepler's third law (5 digits). */
+function binaryOrbit(
+  system: { distancePc: number; massSolar: number },
+  el: Omit<CampbellInput, 'periapsis' | 'semiMajorAxisArcsec' | 'kind'>,
+  periapsis: string,
+  extra: Pick<OrbitInput, 'systemicVelocityKmS' | 'massRatio'>,
+): OrbitInput {
+  const a = keplerAxisArcsec(system.massSolar, el.periodYears, system.distancePc);
   return {
-    elements: {
+    elements: { ...el, periapsis, semiMajorAxisArcsec: Number(a.toFixed(5)) },
+    distancePc: system.distancePc,
+    ...extra,
+  };
+}
+
+export function lanternOrbit(anchor: DemoAnchor): OrbitInput {
+  return binaryOrbit(
+    lanternSystem(anchor),
+    {
       periodYears: 27.3,
-      periapsis: anchor.yearsFrom(-7.217),
       eccentricity: 0.47,
-      semiMajorAxisArcsec: Number(
-        keplerAxisArcsec(lantern.massSolar, 27.3, lantern.distancePc).toFixed(5),
-      ),
       inclinationDeg: 61,
       ascendingNodeDeg: 145,
       argPeriapsisDeg: 233,
     },
-    distancePc: lantern.distancePc,
-    systemicVelocityKmS: -11.3,
-  };
+    anchor.yearsFrom(-7.217),
+    { systemicVelocityKmS: -11.3 },
+  );
+}
+
+export function brindleOrbit(anchor: DemoAnchor): OrbitInput {
+  return binaryOrbit(
+    brindleSystem(anchor),
+    {
+      periodYears: 3.84,
+      eccentricity: 0.36,
+      inclinationDeg: 72,
+      ascendingNodeDeg: 204,
+      argPeriapsisDeg: 118,
+    },
+    anchor.yearsFrom(-1.37),
+    { systemicVelocityKmS: 6.2, massRatio: BRINDLE_MASS_RATIO },
+  );
 }
 
 export const SITES = [
