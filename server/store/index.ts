@@ -77,3 +77,4 @@ export type { PreparedMeasurements } from './csv/measurement-rows.ts';
 export { ephemerisCsv } from './exports/ephemeris.ts';
 export { RESIDUAL_CSV_COLUMNS, residualsCsv } from './exports/residuals.ts';
 export { measurementsCsv, type ExportedMeasurement } from './exports/measurements.ts';
+export { orbitsCsv, type ExportedOrbit } from './exports/orbits.ts';

@@ -11,6 +11,7 @@ import type { Database } from './database.ts';
 import { loadDemo } from './demo/load.ts';
 import { campaignCalendar } from './exports/calendar.ts';
 import { measurementsForExport } from './exports/measurements.ts';
+import { orbitsForExport } from './exports/orbits.ts';
 import { acceptStoredFit, prepareStoredFit, systemTargetIds } from './fits.ts';
 import { auditLog } from './repos/audit.ts';
 import { acceptNightSchedule, previewNightSchedule } from './views/night-plan.ts';
@@ -85,6 +86,7 @@ export function createStore(database: Database) {
     importPreparedMeasurements: bind(context, importPreparedMeasurements),
     exports: {
       measurements: bind(db, measurementsForExport),
+      orbits: bind(db, orbitsForExport),
       calendar: bind(db, campaignCalendar),
     },
     loadDemo: bind(context, loadDemo),

@@ -40,6 +40,7 @@ it('exports exactly the store entry points', () => {
     'locateDatabase',
     'measurementsCsv',
     'openDatabase',
+    'orbitsCsv',
     'readClearPriorCsv',
     'residualsCsv',
     'resolveDatabaseUrl',

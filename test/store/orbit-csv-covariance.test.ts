@@ -4,9 +4,14 @@
  * engine's covariance parameters are the layout's, and bad σ or ρ cells are named by column.
  */
 import { describe, expect, it } from 'vitest';
-import { COVARIANCE_TERMS, covarianceOf, sigmasOf } from '../../descriptors/covariance.ts';
+import {
+  COVARIANCE_TERMS,
+  covarianceOf,
+  sigmasOf,
+  type CovarianceTerm,
+} from '../../descriptors/covariance.ts';
 import { COVARIANCE_PARAMETERS } from '../../server/science/orbit/types.ts';
-import { LOCAL_OPERATOR } from '../../server/store/index.ts';
+import { COLUMNS, LOCAL_OPERATOR, orbitsCsv } from '../../server/store/index.ts';
 import { BACKENDS, fixture } from './backends.ts';
 
 const HEADER =
@@ -85,6 +90,98 @@ describe('orbit CSV with covariance columns', () => {
       expect(r).toMatchObject({ written: 0, problems: [{ line: 2, column: 'system' }] });
     } finally {
       env.cleanup();
+    }
+  });
+});
+
+describe('orbit CSV export', () => {
+  it('round-trips elements, σ, correlations and relativity through the import', async () => {
+    // Constructed case: a Campbell solution with four correlated σ, a Thiele–Innes one with
+    // relativity switched on and scaled; exported, then imported into a second store.
+    const cov = covarianceOf(
+      { periodYears: 0.03, periapsisDays: 4.5, eccentricity: 0.002, semiMajorAxisArcsec: 0.0007 },
+      [
+        { a: 'periodYears', b: 'periapsisDays', rho: 0.41 },
+        { a: 'eccentricity', b: 'semiMajorAxisArcsec', rho: -0.27 },
+      ],
+    ) as { parameters: CovarianceTerm[]; matrix: number[][] };
+    const solutions = [
+      {
+        elements: {
+          periodYears: 14.2,
+          periapsis: '2027-06-14T06:00:00Z',
+          eccentricity: 0.74,
+          semiMajorAxisArcsec: 0.094,
+          inclinationDeg: 71,
+          ascendingNodeDeg: 143,
+          argPeriapsisDeg: 298,
+        },
+        distancePc: 11500,
+        covariance: cov,
+      },
+      {
+        elements: {
+          kind: 'thiele-innes' as const,
+          periodYears: 9.5,
+          periapsis: '2028-02-01T00:00:00Z',
+          eccentricity: 0.6,
+          aArcsec: 0.05,
+          bArcsec: -0.02,
+          fArcsec: 0.03,
+          gArcsec: 0.04,
+        },
+        distancePc: 11500,
+        relativity: { gravitationalRedshift: true, precession: true },
+        relativityFactors: { redshiftFactor: 0.8, precessionFactor: 1.25 },
+      },
+    ];
+    const [from, into] = [await BACKENDS[1]!.open(), await BACKENDS[1]!.open()];
+    try {
+      await fixture(from.store);
+      await fixture(into.store);
+      const wren = (await from.store.targets.list({}, { limit: 5 })).items[0]!;
+      for (const orbit of solutions)
+        await from.store.orbitSolutions.create(LOCAL_OPERATOR, {
+          targetId: wren.id,
+          orbit,
+          reference: '=constructed',
+        });
+      const csv = orbitsCsv(await from.store.exports.orbits({ targetId: wren.id }));
+      expect(csv.split('\n')[0]).toBe(COLUMNS.orbits.join(','));
+      expect(csv).toContain("'=constructed"); // a formula-like cell stays text in a spreadsheet
+      const before = await into.store.orbitSolutions.list({}, { limit: 50 });
+      const report = await into.store.importCsv(LOCAL_OPERATOR, 'orbits', csv);
+      expect(report.problems).toEqual([]);
+      const after = (await into.store.orbitSolutions.list({}, { limit: 50 })).items.slice(
+        before.items.length,
+      );
+      expect(after.map((s) => s.reference)).toEqual(['', '=constructed', '=constructed']);
+      const [campbell, thiele] = [after[1]!.orbit, after[2]!.orbit];
+      expect(campbell.elements).toEqual({ kind: 'campbell', ...solutions[0]!.elements });
+      expect(campbell.covariance!.parameters).toEqual(cov.parameters);
+      const worst = Math.max(
+        ...cov.matrix.flatMap((row, i) =>
+          row.map((x, j) => Math.abs(campbell.covariance!.matrix[i]![j]! - x) / (Math.abs(x) || 1)),
+        ),
+      );
+      expect(worst).toBeLessThan(1e-11); // ρ written to 12 digits
+      const { sigmas, correlations } = sigmasOf(campbell.covariance!);
+      expect(sigmas.periapsisDays).toBeCloseTo(4.5, 12);
+      expect(correlations.map((c) => [c.a, c.b, Number(c.rho.toFixed(12))])).toEqual([
+        ['periodYears', 'periapsisDays', 0.41],
+        ['eccentricity', 'semiMajorAxisArcsec', -0.27],
+      ]);
+      expect(thiele).toMatchObject({
+        elements: solutions[1]!.elements,
+        relativity: solutions[1]!.relativity,
+        relativityFactors: solutions[1]!.relativityFactors,
+      });
+      expect(thiele.covariance).toBeUndefined();
+      // The current version stays the current one.
+      expect(after.map((s) => s.current)).toEqual([false, false, true]);
+    } finally {
+      from.cleanup();
+      into.cleanup();
     }
   });
 });

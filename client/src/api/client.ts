@@ -102,6 +102,22 @@ export const api = {
   DELETE: call('delete'),
 };
 
+/**
+ * Save a file the server writes (a CSV export): fetched with the session's token like any other
+ * call (errors thrown as ApiError), then handed to the browser as a download named `filename`.
+ */
+export async function downloadFile<P extends PathsWith<'get'>>(
+  path: P,
+  init: Init<Op<P, 'get'>>,
+  filename: string,
+  type = 'text/csv',
+): Promise<void> {
+  const text = String(await request('GET', path, init));
+  const url = URL.createObjectURL(new Blob([text], { type }));
+  Object.assign(document.createElement('a'), { href: url, download: filename }).click();
+  setTimeout(() => URL.revokeObjectURL(url), 1000);
+}
+
 /** Paths whose GET answers one page ({ items, total, … }). */
 type ListPath = {
   [P in keyof paths]: paths[P]['get'] extends {

@@ -1,7 +1,6 @@
 /** The ephemeris of a target as a table, and the same rows as a CSV file from the server. */
 import { useState } from 'preact/hooks';
-import { api } from '../api/client.ts';
-import { sessionToken } from '../lib/session.ts';
+import { api, downloadFile } from '../api/client.ts';
 import { utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -20,19 +19,11 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
   const download = async () => {
     setCsvError(null);
     try {
-      const token = sessionToken();
-      const res = await fetch(
-        `/api/targets/${targetId}/ephemeris?${new URLSearchParams({ ...q, format: 'csv' })}`,
-        { headers: token ? { authorization: `Bearer ${token}` } : {} },
+      await downloadFile(
+        '/targets/{id}/ephemeris',
+        { params: { path: { id: targetId }, query: { ...q, format: 'csv' } } },
+        `${name.replace(/\W+/g, '-')}-ephemeris.csv`,
       );
-      if (!res.ok) throw new Error(`CSV download failed: HTTP ${res.status}`);
-      const url = URL.createObjectURL(new Blob([await res.text()], { type: 'text/csv' }));
-      const a = Object.assign(document.createElement('a'), {
-        href: url,
-        download: `${name.replace(/\W+/g, '-')}-ephemeris.csv`,
-      });
-      a.click();
-      setTimeout(() => URL.revokeObjectURL(url), 1000);
     } catch (e) {
       setCsvError(e);
     }

@@ -15,6 +15,7 @@ import {
 import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
+import { OrbitExport } from './orbit-export.tsx';
 import { RELATIVITY_WORDS } from '../lib/numbers.ts';
 
 type Row = Record<string, unknown> & { id: number };
@@ -393,6 +394,7 @@ export function RecordsView() {
           New versions come from a fit on a target’s page, the form below or a CSV import (σ columns
           and a correlations cell carry the covariance); a target’s page switches the current one.
         </p>
+        <OrbitExport />
       </Section>
       <Section title="Sites" id="sites">
         <RecordTable path="/sites" rows={cat.sites} cols={SITE_COLS} onSaved={reload} />

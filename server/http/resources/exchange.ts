@@ -4,11 +4,11 @@
  */
 import type { Runner } from '../../jobs/tasks.ts';
 import { createRoute, z } from '@hono/zod-openapi';
-import { CSV_KINDS, type Store } from '../../store/index.ts';
+import { CSV_KINDS, orbitsCsv, type Store } from '../../store/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { requireRole, writer } from '../auth.ts';
 import { HttpError } from '../errors.ts';
-import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { IdParam, errorResponses, json, optionalId, resourceApp, security } from './common.ts';
 import { MeasurementFilters } from './measurements.ts';
 
 const Report = z.object({
@@ -39,6 +39,14 @@ const CalendarQuery = z.object({
   token: z.string().optional().openapi({
     description: 'a token, for calendar programs that cannot send an Authorization header',
   }),
+});
+const OrbitExportQuery = z.object({
+  targetId: optionalId,
+  systemId: optionalId,
+  current: z
+    .enum(['true', 'false'])
+    .default('false')
+    .openapi({ description: 'only each target’s current solution (default: every version)' }),
 });
 const KindParam = z.object({
   kind: z.enum(CSV_KINDS).openapi({ param: { name: 'kind', in: 'path' } }),
@@ -116,6 +124,30 @@ export function exchangeRoutes(store: Store, run: Runner) {
       return c.body(await run('measurementsCsv', rows), 200, {
         'content-type': 'text/csv; charset=utf-8',
         'content-disposition': 'attachment; filename="measurements.csv"',
+      });
+    },
+  );
+  app.openapi(
+    createRoute({
+      method: 'get',
+      path: '/exports/orbits',
+      tags: ['exports'],
+      security,
+      summary:
+        'Orbit solutions as CSV in the import layout, σ and correlations from each stored covariance',
+      request: { query: OrbitExportQuery },
+      responses: {
+        200: { content: { 'text/csv': { schema: z.string() } }, description: 'the solutions' },
+        ...errorResponses,
+      },
+    }),
+    async (c) => {
+      requireRole(c, 'viewer');
+      const { current, ...filter } = c.req.valid('query');
+      const rows = await store.exports.orbits({ ...filter, currentOnly: current === 'true' });
+      return c.body(orbitsCsv(rows), 200, {
+        'content-type': 'text/csv; charset=utf-8',
+        'content-disposition': 'attachment; filename="orbit-solutions.csv"',
       });
     },
   );

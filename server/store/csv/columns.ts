@@ -33,6 +33,8 @@ export const ORBIT_COLUMNS = [
   ...SIGMA_COLUMNS,
   CORRELATIONS_COLUMN,
   'relativity',
+  'redshiftFactor',
+  'precessionFactor',
   'reference',
   'notes',
   'makeCurrent',
@@ -66,7 +68,7 @@ export const REQUIRED_COLUMNS: Record<CsvKind, readonly string[]> = {
 
 /** A column whose name ends in its unit holds a number, as do the dimensionless ones listed here. */
 const NUMBER_BY_NAME =
-  /(Years|Arcsec|Deg|Pc|KmS|Mas|Days)$|^(eccentricity|massRatio|lightFraction|correlation|magnitude|blockId)$|^sigma(Eccentricity|MassRatio|LightFraction)$/;
+  /(Years|Arcsec|Deg|Pc|KmS|Mas|Days)$|^(eccentricity|massRatio|lightFraction|correlation|magnitude|blockId|redshiftFactor|precessionFactor)$|^sigma(Eccentricity|MassRatio|LightFraction)$/;
 
 /** Columns read as numbers (a cell that is not a number is reported as it is). */
 export const NUMERIC: ReadonlySet<string> = new Set<string>(

@@ -80,6 +80,7 @@ async function lookupTarget(tx: DbOrTx, system: unknown, target: unknown): Promi
 }
 
 const RELATIVITY = ['romer', 'gravitationalRedshift', 'transverseDoppler', 'precession'];
+const FACTOR_COLUMNS = ['redshiftFactor', 'precessionFactor'];
 
 /** One CSV row to the JSON input of the repository. */
 async function toInput(
@@ -127,6 +128,9 @@ async function toInput(
     elementKeys.filter((k) => v[k] !== undefined).map((k) => [k, v[k]]),
   );
   const covariance = covarianceCells(v);
+  const factors = Object.fromEntries(
+    FACTOR_COLUMNS.filter((k) => v[k] !== undefined).map((k) => [k, v[k]]),
+  );
   return {
     targetId,
     orbit: {
@@ -138,6 +142,7 @@ async function toInput(
       ...(v.massRatio !== undefined ? { massRatio: v.massRatio } : {}),
       ...(v.lightFraction !== undefined ? { lightFraction: v.lightFraction } : {}),
       ...(on.length ? { relativity: Object.fromEntries(on.map((s) => [s, true])) } : {}),
+      ...(Object.keys(factors).length ? { relativityFactors: factors } : {}),
       ...(covariance ? { covariance } : {}),
     },
     provenance: 'imported',
