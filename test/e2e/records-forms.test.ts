@@ -132,6 +132,92 @@ describe('every record from the client', () => {
     await ctx.close();
   });
 
+  test('a Thiele–Innes solution and one with relativity settings, checked through the API', async () => {
+    const ctx = await newContext(browser, { viewport: { width: 1280, height: 1100 } });
+    const page = await ctx.newPage();
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(e.message));
+    const t = (await api<{ items: Target[] }>('/targets?limit=500')).items[0]!;
+    const before = (await solutionsOf(t.id)).length;
+    await page.goto(`${base}/records?token=${lead}`);
+    const form = page.locator('form.solution-form');
+    await form.waitFor();
+    await form.locator('select[name=targetId]').selectOption(String(t.id));
+
+    // Thiele–Innes constants (constructed case) with σ of P and T and their correlation.
+    await form.getByLabel('Thiele–Innes constants').check();
+    await expect(form.locator('input[name="elements.inclinationDeg"]').count()).resolves.toBe(0);
+    const ti = { aArcsec: '0.041', bArcsec: '-0.018', fArcsec: '0.027', gArcsec: '0.035' };
+    // A time without its zone is refused beside T, in words (never read in the machine's zone).
+    await fillElements(page, {
+      periodYears: '11.5',
+      periapsis: '2030-02-01T00:00',
+      eccentricity: '0.55',
+      ...ti,
+    });
+    await form.getByRole('button', { name: 'Store solution' }).click();
+    const tMsg = form.locator('tr.invalid .field-msg');
+    await tMsg.waitFor();
+    expect(await tMsg.textContent()).toMatch(/time zone/);
+    expect((await solutionsOf(t.id)).length).toBe(before);
+    await fillElements(page, { periapsis: '2030-02-01T00:00-03' });
+    await form.locator('input[name=sigma-periodYears]').fill('0.2');
+    await form.locator('input[name=sigma-periapsisDays]').fill('6');
+    await form.locator('input[name=rho-periodYears-periapsisDays]').fill('-0.3');
+    await form.locator('input[name=makeCurrent]').uncheck();
+    await form.getByRole('button', { name: 'Store solution' }).click();
+    await form.getByText(/Stored as solution #\d+\./).waitFor();
+    const stored = (await solutionsOf(t.id)).slice(before);
+    expect(stored).toHaveLength(1);
+    expect(stored[0]!.current).toBe(false);
+    expect(stored[0]!.orbit.elements).toEqual({
+      kind: 'thiele-innes',
+      periodYears: 11.5,
+      periapsis: '2030-02-01T00:00-03', // kept as typed; ISO 8601 with an offset
+      eccentricity: 0.55,
+      aArcsec: 0.041,
+      bArcsec: -0.018,
+      fArcsec: 0.027,
+      gArcsec: 0.035,
+    });
+    // C_ij = ρ σ_i σ_j (constructed case): −0.3 × 0.2 yr × 6 d.
+    expect(stored[0]!.orbit.covariance!.parameters).toEqual(['periodYears', 'periapsisDays']);
+    expect(stored[0]!.orbit.covariance!.matrix[0]![1]).toBeCloseTo(-0.3 * 0.2 * 6, 12);
+
+    // Campbell elements with two relativistic terms and their factors; a bad factor first.
+    await form.getByLabel('Campbell elements').check();
+    await fillElements(page, ELEMENTS);
+    await form.locator('input[name="distancePc"]').fill('9200');
+    await form.getByLabel('gravitational redshift').check();
+    await form.getByLabel('Schwarzschild precession').check();
+    await form.locator('input[name=factor-redshiftFactor]').fill('250');
+    await form.getByRole('button', { name: 'Store solution' }).click();
+    const factorMsg = form.locator('.relativity-input .field-msg').first();
+    await factorMsg.waitFor();
+    expect(await factorMsg.textContent()).not.toMatch(/relativityFactors|redshiftFactor/);
+    expect((await solutionsOf(t.id)).length).toBe(before + 1);
+    await form.locator('input[name=factor-redshiftFactor]').fill('0.9');
+    await form.locator('input[name=factor-precessionFactor]').fill('1.1');
+    await form.getByRole('button', { name: 'Store solution' }).click();
+    await expect.poll(async () => (await solutionsOf(t.id)).length).toBe(before + 2);
+    const rel = (await solutionsOf(t.id)).slice(before + 1)[0]!.orbit as Solution['orbit'] & {
+      relativity?: Record<string, boolean>;
+      relativityFactors?: Record<string, number>;
+      distancePc?: number;
+    };
+    expect(rel.relativity).toEqual({ gravitationalRedshift: true, precession: true });
+    expect(rel.relativityFactors).toEqual({ redshiftFactor: 0.9, precessionFactor: 1.1 });
+    expect(rel.distancePc).toBe(9200);
+    await page
+      .locator('#orbit-solutions')
+      .getByText(/gravitational redshift, Schwarzschild precession/)
+      .first()
+      .waitFor();
+    await form.screenshot({ path: join(SCREENSHOTS, 'solution-form-relativity.png') });
+    expect(errors.filter((e) => !/422|400/.test(e))).toEqual([]);
+    await ctx.close();
+  });
+
   test('an orbit CSV with σ columns through the import form', async () => {
     const ctx = await newContext(browser);
     const page = await ctx.newPage();

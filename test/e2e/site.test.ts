@@ -55,13 +55,15 @@ describe('the site page', () => {
       })
       .waitFor();
     expect(after.priors[0]!.clearFraction).toBe(0.95);
-    // A bad value is refused with its field named, and nothing changes.
-    await jan.fill('1.5');
+    // A bad value is refused in words tied to its month, and nothing changes. With January left
+    // empty, March is the second month sent ("months.1" to the server).
+    await jan.fill('');
+    await page.locator('input[name="clear-3"]').fill('1.5');
     await page.locator('.prior-form button[type=submit]').click();
     await page.locator('.prior-form .error-line').first().waitFor();
-    expect(await page.locator('.prior-form .error-line').first().textContent()).toMatch(
-      /months\.0\.clearFraction/,
-    );
+    const refusal = await page.locator('.prior-form .error-line').first().textContent();
+    expect(refusal).toMatch(/^March, clear fraction: 1\.5 must be at most 1/);
+    expect(refusal).not.toMatch(/months|clearFraction|\.\d\./);
     expect((await api<Stats>(`/sites/${site.id}/statistics`)).priors[0]!.clearFraction).toBe(0.95);
     expect(errors.filter((e) => !/422|400/.test(e))).toEqual([]);
     await page.close();

@@ -2,6 +2,8 @@
  * Request field names (startUtc, targetId, outcomes.0.exposureMinutes) read as the labels people
  * see on screen, for the server's refusals: no code name reaches the screen.
  */
+import { RELATIVITY_WORDS } from './numbers.ts';
+
 /** Labels of the request fields that reach the screen in a refusal. */
 export const FIELD_WORDS: Record<string, string> = {
   startUtc: 'start',
@@ -49,6 +51,23 @@ export const FIELD_WORDS: Record<string, string> = {
   ascendingNodeDeg: 'Ω',
   argPeriapsisDeg: 'ω',
   covariance: 'covariance',
+  aArcsec: 'A',
+  bArcsec: 'B',
+  fArcsec: 'F',
+  gArcsec: 'G',
+  systemicVelocityKmS: 'γ',
+  massRatio: 'q',
+  lightFraction: 'β',
+  relativity: 'relativity',
+  relativityFactors: 'relativity factors',
+  redshiftFactor: 'redshift factor',
+  precessionFactor: 'precession factor',
+  ...RELATIVITY_WORDS,
+  makeCurrent: 'make current',
+  clearFraction: 'clear fraction',
+  strengthNights: 'worth (nights)',
+  months: 'month',
+  month: 'month',
   startDate: 'first night',
   endDate: 'last night',
   cadenceDays: 'cadence',
@@ -60,17 +79,27 @@ export const FIELD_WORDS: Record<string, string> = {
   '(body)': 'the request',
 };
 
-/** A dotted request path in words: "outcomes.0.exposureMinutes" → "outcome 1, exposure". */
-export function fieldWords(path: string): string {
+/**
+ * A dotted request path in words: "outcomes.0.exposureMinutes" → "outcome 1, exposure". `items`
+ * names the entries of a list the form sent ("months.0" → "January" when the first month sent was
+ * January), so a refusal reads as the field the person typed into.
+ */
+export function fieldWords(
+  path: string,
+  items: Record<string, (index: number) => string | undefined> = {},
+): string {
   const parts = path.split('.');
   const out: string[] = [];
-  for (const p of parts) {
+  parts.forEach((p, k) => {
+    const list = parts[k - 1];
     if (/^\d+$/.test(p)) {
+      const named = list === undefined ? undefined : items[list]?.(Number(p));
       const n = Number(p) + 1;
-      if (out.length) out[out.length - 1] = `${out[out.length - 1]} ${n}`;
+      if (named !== undefined && out.length) out[out.length - 1] = named;
+      else if (out.length) out[out.length - 1] = `${out[out.length - 1]} ${n}`;
       else out.push(`item ${n}`);
     } else out.push(FIELD_WORDS[p] ?? p);
-  }
+  });
   return out.join(', ');
 }
 

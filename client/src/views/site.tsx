@@ -4,15 +4,18 @@
  * drawing the same, the precision its measurements reached, and the clear-night prior (a lead
  * edits it). Server: GET /sites/{id}/statistics, GET and PUT /sites/{id}/clear-prior.
  */
+import { Info } from 'luxon';
 import { useState } from 'preact/hooks';
 import { api, fieldMessages, type Schemas } from '../api/client.ts';
 import { ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
+import { fieldWords } from '../lib/field-words.ts';
 import { useAction } from '../lib/use-action.ts';
 import { useLoad } from '../lib/use-load.ts';
 
 type Stats = Schemas['SiteStatistics'];
 type Month = Stats['months'][number];
 const MONTHS = 'Jan Feb Mar Apr May Jun Jul Aug Sep Oct Nov Dec'.split(' ');
+const MONTH_NAMES = Info.months('long', { locale: 'en' });
 const pct = (x: number | null | undefined) =>
   x === null || x === undefined ? '–' : `${(100 * x).toFixed(0)} %`;
 
@@ -87,6 +90,8 @@ function PriorForm({
   );
   const { busy, error, run } = useAction();
   const messages = fieldMessages(error);
+  // What was sent: a refusal's "months.0" is the first month sent, not January.
+  const [sent, setSent] = useState<{ month: number }[]>([]);
   return (
     <form
       class="prior-form"
@@ -98,6 +103,7 @@ function PriorForm({
               ? []
               : [{ month: i + 1, clearFraction: Number(v), strengthNights: Number(strength) }],
           );
+          setSent(months);
           await api.PUT('/sites/{id}/clear-prior', {
             params: { path: { id: siteId } },
             body: { months },
@@ -143,7 +149,7 @@ function PriorForm({
       </button>
       {Object.entries(messages).map(([field, text]) => (
         <p class="error-line" key={field}>
-          {field}: {text}
+          {fieldWords(field, { months: (i) => MONTH_NAMES[(sent[i]?.month ?? 0) - 1] })}: {text}
         </p>
       ))}
       {Object.keys(messages).length === 0 && <ErrorLine error={error} />}
