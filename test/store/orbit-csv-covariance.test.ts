@@ -117,6 +117,8 @@ describe('orbit CSV export', () => {
           argPeriapsisDeg: 298,
         },
         distancePc: 11500,
+        massRatio: 0.35,
+        lightFraction: 0.2,
         covariance: cov,
       },
       {
@@ -158,6 +160,7 @@ describe('orbit CSV export', () => {
       expect(after.map((s) => s.reference)).toEqual(['', '=constructed', '=constructed']);
       const [campbell, thiele] = [after[1]!.orbit, after[2]!.orbit];
       expect(campbell.elements).toEqual({ kind: 'campbell', ...solutions[0]!.elements });
+      expect([campbell.massRatio, campbell.lightFraction]).toEqual([0.35, 0.2]);
       expect(campbell.covariance!.parameters).toEqual(cov.parameters);
       const worst = Math.max(
         ...cov.matrix.flatMap((row, i) =>
