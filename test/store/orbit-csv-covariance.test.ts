@@ -12,7 +12,7 @@ import {
 } from '../../descriptors/covariance.ts';
 import { COVARIANCE_PARAMETERS } from '../../server/science/orbit/types.ts';
 import { COLUMNS, LOCAL_OPERATOR, orbitsCsv } from '../../server/store/index.ts';
-import { BACKENDS, fixture } from './backends.ts';
+import { BACKENDS, ORBIT_WREN, fixture } from './backends.ts';
 
 const HEADER =
   'system,target,periodYears,periapsis,eccentricity,semiMajorAxisArcsec,inclinationDeg,ascendingNodeDeg,argPeriapsisDeg,distancePc,sigmaPeriodYears,sigmaPeriapsisDays,sigmaEccentricity,correlations';
@@ -107,16 +107,7 @@ describe('orbit CSV export', () => {
     ) as { parameters: CovarianceTerm[]; matrix: number[][] };
     const solutions = [
       {
-        elements: {
-          periodYears: 14.2,
-          periapsis: '2027-06-14T06:00:00Z',
-          eccentricity: 0.74,
-          semiMajorAxisArcsec: 0.094,
-          inclinationDeg: 71,
-          ascendingNodeDeg: 143,
-          argPeriapsisDeg: 298,
-        },
-        distancePc: 11500,
+        ...ORBIT_WREN,
         massRatio: 0.35,
         lightFraction: 0.2,
         covariance: cov,
