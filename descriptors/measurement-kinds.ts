@@ -67,9 +67,11 @@ export interface MeasurementKindDescriptor {
  * Which body a measurement is of. `relative`: the secondary (the target) relative to the primary;
  * for a radial velocity, the star's velocity with the primary at rest (right around a compact
  * object, q → 0). `primary`, `secondary`: the velocity of that body about the barycentre, fitted
- * with the mass ratio q = M₂/M₁ (RV₁ = γ − q/(1+q)·v_rel, RV₂ = γ + v_rel/(1+q)).
+ * with the mass ratio q = M₂/M₁ (RV₁ = γ − q/(1+q)·v_rel, RV₂ = γ + v_rel/(1+q)). `photocentre`:
+ * offsets of the unresolved pair's light centre from the barycentre, (β − B)·r with B = q/(1+q)
+ * and β = L₂/(L₁+L₂) the light fraction, fitted with q and β.
  */
-export const MEASURED_COMPONENTS = ['relative', 'primary', 'secondary'] as const;
+export const MEASURED_COMPONENTS = ['relative', 'primary', 'secondary', 'photocentre'] as const;
 export type MeasuredComponent = (typeof MEASURED_COMPONENTS)[number];
 
 /** What each component means, for forms and the API document. */
@@ -77,6 +79,7 @@ export const COMPONENT_TEXT: Record<MeasuredComponent, string> = {
   relative: 'secondary relative to the primary (a velocity: primary at rest)',
   primary: 'the primary about the barycentre',
   secondary: 'the secondary about the barycentre',
+  photocentre: 'the light centre of the unresolved pair from the barycentre (offsets only)',
 };
 
 export const MEASUREMENT_KINDS = {
@@ -108,7 +111,7 @@ export const MEASUREMENT_KINDS = {
       },
     ],
     correlated: true,
-    components: ['relative'],
+    components: ['relative', 'photocentre'],
   },
   separation: {
     label: 'separation and position angle',

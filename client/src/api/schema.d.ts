@@ -5342,7 +5342,7 @@ export interface paths {
                          * @default relative
                          * @enum {string}
                          */
-                        component?: "relative" | "primary" | "secondary";
+                        component?: "relative" | "primary" | "secondary" | "photocentre";
                         /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
                         epoch: string;
                         /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
@@ -5655,7 +5655,7 @@ export interface paths {
                          */
                         kind?: "offsets" | "separation" | "radial-velocity";
                         /** @enum {string} */
-                        component?: "relative" | "primary" | "secondary";
+                        component?: "relative" | "primary" | "secondary" | "photocentre";
                         /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
                         epoch?: string;
                         /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
@@ -11117,7 +11117,7 @@ export interface components {
              * @default relative
              * @enum {string}
              */
-            component: "relative" | "primary" | "secondary";
+            component: "relative" | "primary" | "secondary" | "photocentre";
             /** @description epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008" */
             epoch: string;
             /** @description Δα* = Δα·cos δ, east positive, mas, |x| ≤ 1e7 */
@@ -11865,7 +11865,7 @@ export interface components {
              * @description which body the measurement is of
              * @enum {string}
              */
-            component: "relative" | "primary" | "secondary";
+            component: "relative" | "primary" | "secondary" | "photocentre";
             jd: number;
             epoch: string;
             /** @description observed − model: [Δα*, Δδ] mas, [ρ mas, θ deg] or [v km/s] */
@@ -11944,7 +11944,7 @@ export interface components {
              * @description which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁
              * @enum {string}
              */
-            component?: "relative" | "primary" | "secondary";
+            component?: "relative" | "primary" | "secondary" | "photocentre";
             /** @description your identifier, echoed in the residuals */
             id?: string;
             dRaMas: number;
@@ -11961,7 +11961,7 @@ export interface components {
              * @description which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁
              * @enum {string}
              */
-            component?: "relative" | "primary" | "secondary";
+            component?: "relative" | "primary" | "secondary" | "photocentre";
             /** @description your identifier, echoed in the residuals */
             id?: string;
             separationMas: number;
@@ -11977,7 +11977,7 @@ export interface components {
              * @description which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁
              * @enum {string}
              */
-            component?: "relative" | "primary" | "secondary";
+            component?: "relative" | "primary" | "secondary" | "photocentre";
             /** @description your identifier, echoed in the residuals */
             id?: string;
             radialVelocityKmS: number;

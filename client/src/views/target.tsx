@@ -26,7 +26,10 @@ import type { MeasurementRow, Prediction } from '../api/client.ts';
 
 function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null }) {
   const ms: SkyMeasurement[] = [];
-  for (const m of d.measurements) {
+  // The plot is the relative orbit: the photocentre's positions (about the barycentre) are not on it.
+  const relative = d.measurements.filter((m) => m.component !== 'photocentre');
+  const photocentre = d.measurements.length - relative.length;
+  for (const m of relative) {
     const p = measurementPoint(m);
     const pred = d.atMeasurement.get(m.id);
     if (p)
@@ -40,7 +43,7 @@ function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null })
     (a, b) =>
       Math.abs(Date.parse(a.epoch) - Date.now()) - Math.abs(Date.parse(b.epoch) - Date.now()),
   )[0];
-  const astro = d.measurements
+  const astro = relative
     .map((m) => ({ m, r: astrometricResidual(m, d.atMeasurement.get(m.id)) }))
     .filter((x) => x.r);
   const rms = astro.length
@@ -75,6 +78,8 @@ function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null })
             measurements
           </>
         )}
+        {photocentre > 0 &&
+          ` · ${photocentre} photocentre position${photocentre === 1 ? '' : 's'} not drawn: they lie on the light centre's orbit about the barycentre, not on the relative orbit`}
       </p>
     </>
   );

@@ -95,10 +95,10 @@ export function binaryShares(
  * the primary about the barycentre (q = M₂/M₁).
  */
 export function velocityShare(
-  component: 'relative' | 'primary' | 'secondary',
+  component: 'relative' | 'primary' | 'secondary' | 'photocentre',
   q: number,
 ): [number, number] {
-  if (component === 'relative') return [1, 0];
+  if (component !== 'primary' && component !== 'secondary') return [1, 0];
   const dq = -1 / ((1 + q) * (1 + q));
   return component === 'secondary' ? [1 / (1 + q), dq] : [-q / (1 + q), dq];
 }

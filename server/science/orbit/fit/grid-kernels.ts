@@ -65,7 +65,8 @@ function checkOrder(n: number): number[] {
 
 export function astrometryColumns(obs: Observation[]): Astrometry {
   const sorted = obs
-    .filter((o) => o.kind !== 'radial-velocity')
+    // The start is searched on the relative positions; the photocentre's scale (β − B) comes after.
+    .filter((o) => o.kind !== 'radial-velocity' && o.component === 'relative')
     .sort((a, b) => a.jd - b.jd)
     .map((o) => {
       if (o.kind === 'offsets')

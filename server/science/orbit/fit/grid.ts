@@ -161,7 +161,12 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
 }
 
 /** The velocity coefficients of a node: one column per body whose velocities were measured. */
-const COLUMN: Record<Observation['component'], number> = { relative: 1, secondary: 1, primary: 2 };
+const COLUMN: Record<Observation['component'], number> = {
+  relative: 1,
+  secondary: 1,
+  primary: 2,
+  photocentre: 1, // positions only: never a velocity's column
+};
 
 /**
  * v = γ + c·b(t), b the radial velocity per parsec of the astrometric orbit: linear in γ and c, with

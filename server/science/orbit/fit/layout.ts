@@ -42,6 +42,7 @@ export const STAR_KEYS = [
   'fArcsec',
   'gArcsec',
   'massRatio',
+  'lightFraction',
 ] as const;
 export type StarKey = (typeof STAR_KEYS)[number];
 
@@ -67,6 +68,7 @@ const SCALE: Record<SystemKey | StarKey, { scale: number; unit: string; angle?: 
   fArcsec: { scale: 1e-3, unit: 'arcsec' },
   gArcsec: { scale: 1e-3, unit: 'arcsec' },
   massRatio: { scale: 1, unit: 'M₂/M₁' },
+  lightFraction: { scale: 1, unit: 'L₂/(L₁+L₂)' },
 };
 
 export interface ParamDesc {
@@ -82,7 +84,7 @@ export interface ParamDesc {
 
 /** Index of each of a star's parameters in the vector, −1 when the star does not have it. */
 export type StarSlots = Record<
-  'P' | 'T' | 'e' | 'a' | 'i' | 'node' | 'arg' | 'A' | 'B' | 'F' | 'G' | 'q',
+  'P' | 'T' | 'e' | 'a' | 'i' | 'node' | 'arg' | 'A' | 'B' | 'F' | 'G' | 'q' | 'beta',
   number
 >;
 
@@ -91,7 +93,7 @@ export interface StarLayout {
   obs: Observation[];
   jd: Float64Array;
   hasRv: boolean;
-  /** Velocities of the primary or the secondary about the barycentre: the mass ratio is a parameter. */
+  /** Velocities of a body about the barycentre, or photocentre positions: the mass ratio is a parameter. */
   barycentric: boolean;
   hasAstrometry: boolean;
   relativity: RelativitySwitches;
@@ -179,6 +181,7 @@ export function buildLayout(stars: LayoutStar[], o: LayoutOptions): Layout {
       F: ti ? add('fArcsec', k, prefix) : -1,
       G: ti ? add('gArcsec', k, prefix) : -1,
       q: barycentric ? add('massRatio', k, prefix) : -1,
+      beta: s.obs.some((m) => m.component === 'photocentre') ? add('lightFraction', k, prefix) : -1,
     };
     const components = s.obs.reduce((n, m) => n + componentCount(m), 0);
     const out: StarLayout = {
@@ -256,7 +259,7 @@ export function starOrbit(
       precessionFactor: L.sys.fw >= 0 ? theta[L.sys.fw]! : GENERAL_RELATIVITY.precessionFactor,
     },
     massRatio: s.q >= 0 ? theta[s.q]! : null,
-    lightFraction: null,
+    lightFraction: s.beta >= 0 ? theta[s.beta]! : null,
     covariance: null,
   };
 }

@@ -77,7 +77,9 @@ function componentOf(
       `${p}.component`,
       m.component,
       `must be ${allowed.map((c) => JSON.stringify(c)).join(', ')} for kind "${kind}"${
-        allowed.length === 1 ? ' (positions are of the secondary relative to the primary)' : ''
+        describeKind(kind).blockKind === 'astrometry'
+          ? ' (a position is of the secondary relative to the primary, or offsets of the unresolved pair’s photocentre)'
+          : ''
       }`,
     );
   return m.component as MeasuredComponent;

@@ -11,7 +11,7 @@ import { componentCount } from './measurements.ts';
 import { AU_KM, DEG, JULIAN_YEAR_DAYS, SECONDS_PER_DAY, TWO_PI } from '../../constants.ts';
 import { predictBatch } from '../predict.ts';
 import type { RelativitySwitches } from '../types.ts';
-import { velocityShare } from '../physical.ts';
+import { photocentreShare, velocityShare } from '../physical.ts';
 import { type Layout, starOrbit } from './layout.ts';
 
 const NO_RELATIVITY: RelativitySwitches = {
@@ -146,6 +146,7 @@ export function keplerianModel(
       H = a * si * cw;
     const d = orbit.distancePc ?? 0;
     const massRatio = s.q >= 0 ? theta[s.q]! : 0;
+    const light = photocentreShare(massRatio, s.beta >= 0 ? theta[s.beta]! : 0);
     const gamma = orbit.gammaKmS;
     let row = star.firstComponent;
     for (let m = 0; m < star.obs.length; m++) {
@@ -155,8 +156,10 @@ export function keplerianModel(
       if (ob.kind === 'radial-velocity') {
         values[row] = gamma + share * (cols.radialVelocityKmS[m]! - gamma);
       } else {
-        const x = cols.dRaMas[m]! + x0 + vx * tau,
-          y = cols.dDecMas[m]! + y0 + vy * tau;
+        // The photocentre moves as (β − B) times the relative orbit.
+        const scale = ob.component === 'photocentre' ? light.share : 1;
+        const x = scale * cols.dRaMas[m]! + x0 + vx * tau,
+          y = scale * cols.dDecMas[m]! + y0 + vy * tau;
         if (ob.kind === 'offsets') {
           values[row] = x;
           values[row + 1] = y;
@@ -208,6 +211,18 @@ export function keplerianModel(
             gx[s.arg] = G * X - B * Y;
             addSize(L, theta, k, gy, dyda, a);
             addSize(L, theta, k, gx, dxda, a);
+          }
+          if (ob.component === 'photocentre') {
+            for (let j = 0; j < np; j++) {
+              gx[j] = gx[j]! * light.share;
+              gy[j] = gy[j]! * light.share;
+            }
+            const rx = cols.dRaMas[m]!,
+              ry = cols.dDecMas[m]!;
+            gx[s.q] = light.dq * rx;
+            gy[s.q] = light.dq * ry;
+            gx[s.beta] = light.dBeta * rx;
+            gy[s.beta] = light.dBeta * ry;
           }
           if (sys.x0 >= 0) {
             gx[sys.x0] = 1;

@@ -85,6 +85,7 @@ export function inDomain(L: Layout, theta: ArrayLike<number>): boolean {
       v = theta[j]!;
     if (!Number.isFinite(v)) return false;
     if (key === 'eccentricity' && !(v >= 0 && v < 0.999)) return false;
+    if (key === 'lightFraction' && !(v >= 0 && v <= 1)) return false;
     if (
       (key === 'periodYears' ||
         key === 'semiMajorAxisArcsec' ||

@@ -41,21 +41,28 @@ const PHYSICAL: QuantityDesc[] = [
   { name: 'semiAmplitudeKmS', unit: 'km/s', angle: false },
 ];
 
-/** A binary of comparable masses (velocities about the barycentre): each body's mass and K. */
+/** A binary of comparable masses: its mass ratio, and with a distance each body's mass and K. */
+const MASS_RATIO: QuantityDesc = { name: 'massRatio', unit: 'M₂/M₁', angle: false };
 const BINARY: QuantityDesc[] = [
-  { name: 'massRatio', unit: 'M₂/M₁', angle: false },
   { name: 'primaryMassSolar', unit: 'M☉', angle: false },
   { name: 'secondaryMassSolar', unit: 'M☉', angle: false },
   { name: 'primarySemiAmplitudeKmS', unit: 'km/s', angle: false },
   { name: 'secondarySemiAmplitudeKmS', unit: 'km/s', angle: false },
 ];
 
+/** The photocentre's light fraction. */
+const LIGHT: QuantityDesc = { name: 'lightFraction', unit: 'L₂/(L₁+L₂)', angle: false };
+
 /** The names (in order) of the quantities `starQuantities` returns (the same for every star of a fit). */
 export function quantityNames(L: Layout): QuantityDesc[] {
-  if (L.sys.d < 0) return ELEMENTS;
-  return L.stars.some((s) => s.slots.q >= 0)
-    ? [...ELEMENTS, ...PHYSICAL, ...BINARY]
-    : [...ELEMENTS, ...PHYSICAL];
+  const d = L.sys.d >= 0;
+  const q = L.stars.some((s) => s.slots.q >= 0);
+  return [
+    ...ELEMENTS,
+    ...(d ? PHYSICAL : []),
+    ...(q ? [MASS_RATIO, ...(d ? BINARY : [])] : []),
+    ...(L.stars.some((s) => s.slots.beta >= 0) ? [LIGHT] : []),
+  ];
 }
 
 /**
@@ -106,7 +113,8 @@ export function starQuantities(
       const b = binaryShares(gm / GM_SUN_M3_PER_S2, kRel, theta[jq]!);
       out.push(theta[jq]!, b.primaryMassSolar, b.secondaryMassSolar, b.primaryKmS, b.secondaryKmS);
     }
-  }
+  } else if (L.stars[k]!.slots.q >= 0) out.push(theta[L.stars[k]!.slots.q]!);
+  if (L.stars[k]!.slots.beta >= 0) out.push(theta[L.stars[k]!.slots.beta]!);
   return Float64Array.from(out);
 }
 

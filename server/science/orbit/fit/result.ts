@@ -165,6 +165,7 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
       relativity: { ...L.stars[k]!.relativity },
       ...(L.sys.fz >= 0 || L.sys.fw >= 0 ? { relativityFactors: { ...o.factors } } : {}),
       ...(o.massRatio !== null ? { massRatio: o.massRatio } : {}),
+      ...(o.lightFraction !== null ? { lightFraction: o.lightFraction } : {}),
       covariance: { parameters: covNames as CovarianceParameter[], matrix },
     };
     let chi2 = 0,

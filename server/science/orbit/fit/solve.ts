@@ -7,7 +7,7 @@ import { componentCount, epochExtent, type Observation } from './measurements.ts
 import { JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { campbellToThieleInnes, thieleInnesToCampbell } from '../elements.ts';
 import { massSolar, semiMajorAxisAu } from '../physical.ts';
-import { prepare } from '../predict.ts';
+import { predictBatch, prepare } from '../predict.ts';
 import type { Orbit } from '../types.ts';
 import { covarianceFromJacobian } from './covariance.ts';
 import { gridSearch, type GridNode } from './grid.ts';
@@ -146,13 +146,61 @@ function refuseOneBody(b: Built, star: CheckedStar): void {
       `star ${star.name}: ${q} is fixed at ${b.base[jq]}, but the primary's velocities say it moves (q = M₂/M₁ > 0) — free ${q}, or mark the velocities "relative" if the primary is a compact object at rest`,
       [q],
     );
-  if (bodies.size === 2 || held(jq) || held(L.sys.d)) return;
+  // No body's velocities (photocentre positions alone): refusePhotocentre speaks for q.
+  if (bodies.size !== 1 || held(jq) || held(L.sys.d)) return;
   const body = [...bodies][0]!;
   throw new FitRefusal(
     'singular',
     `star ${star.name}: velocities of the ${body} alone fix ${body === 'primary' ? 'd·q/(1+q)' : 'd/(1+q)'}, not the distance and the mass ratio apart — add the other body's velocities (a double-lined binary), a prior on distancePc (a parallax), or fix or give a prior to ${q}`,
     [q, 'distancePc'],
   );
+}
+
+/**
+ * Photocentre positions scale the relative orbit by β − B (B = q/(1+q)): they need relative
+ * positions to fix the orbit's size, and q from the velocities of a body, or q or β held, to tell
+ * β from B.
+ */
+function refusePhotocentre(b: Built, star: CheckedStar): void {
+  const { L } = b;
+  const s = L.stars[0]!.slots;
+  if (s.beta < 0) return;
+  const beta = L.params[s.beta]!.name,
+    q = L.params[s.q]!.name;
+  if (!star.obs.some((m) => m.kind !== 'radial-velocity' && m.component === 'relative'))
+    throw new FitRefusal(
+      'singular',
+      `star ${star.name}: photocentre positions give only a·(β − B), not the size of the orbit — add positions of the secondary relative to the primary (a resolved epoch)`,
+      [beta],
+    );
+  const held = (j: number) => b.fixedMask[j] || b.priors.some((p) => p.index === j);
+  const bodies = star.obs.some(
+    (m) =>
+      m.kind === 'radial-velocity' && (m.component === 'primary' || m.component === 'secondary'),
+  );
+  if (!bodies && !held(s.q) && !held(s.beta))
+    throw new FitRefusal(
+      'singular',
+      `star ${star.name}: photocentre positions give β − q/(1+q), not ${beta} and ${q} apart — add velocities of a body, or fix or give a prior to one of them`,
+      [beta, q],
+    );
+}
+
+/** The light fraction that best scales the start's relative orbit onto the photocentre positions. */
+function photocentreStart(L: Layout, t: Float64Array): number {
+  const obs = L.stars[0]!.obs.filter((m) => m.component === 'photocentre');
+  const c = predictBatch(
+    starOrbit(L, t, 0),
+    Float64Array.from(obs, (m) => m.jd),
+  );
+  let num = 0,
+    den = 0;
+  obs.forEach((m, i) => {
+    num += m.value[0] * c.dRaMas[i]! + m.value[1] * c.dDecMas[i]!;
+    den += c.dRaMas[i]! ** 2 + c.dDecMas[i]! ** 2;
+  });
+  const q = t[L.stars[0]!.slots.q]!;
+  return Math.min(1, Math.max(0, (den > 0 ? num / den : 0) + q / (1 + q)));
 }
 
 /** Refuse when every epoch of a star sits within 0.5% of the orbit's phase (e.g. epochs one period apart). */
@@ -285,6 +333,7 @@ export function startFromNode(b: Built, node: GridNode): Float64Array {
       node.signedDistancePc !== null ? Math.abs(node.signedDistancePc) : (prior(L.sys.d) ?? 1000);
   if (L.sys.gamma >= 0) t[L.sys.gamma] = node.gamma ?? 0;
   if (s.q >= 0) t[s.q] = node.massRatio ?? 1;
+  if (s.beta >= 0) t[s.beta] = photocentreStart(L, t);
   if (L.sys.x0 >= 0) {
     t[L.sys.x0] = node.frame[0];
     t[L.sys.y0] = node.frame[1];
@@ -335,6 +384,7 @@ export function solveStar(
   const b = build(req, [star], strict);
   refuseEarly(star, 7);
   refuseOneBody(b, star);
+  refusePhotocentre(b, star);
   if (b.free.length > b.L.components + b.priors.length) {
     throw new FitRefusal(
       'too-few-measurements',

@@ -27,8 +27,11 @@ export interface OffsetInput {
   sigmaDDecMas: number;
   /** Correlation of the Δα* and Δδ errors, −1 < ρ < 1. Default 0. */
   correlation?: number;
-  /** Positions are of the secondary relative to the primary (the only component they may be of). */
-  component?: 'relative';
+  /**
+   * `relative` (default): the secondary from the primary. `photocentre`: the unresolved pair's light
+   * centre from the barycentre, (β − B)·r with B = q/(1+q), fitted with q and the light fraction β.
+   */
+  component?: 'relative' | 'photocentre';
   /** The caller's identifier, echoed in the residuals. */
   id?: string;
 }

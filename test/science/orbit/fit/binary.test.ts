@@ -280,7 +280,7 @@ describe('a primary-velocity set that is not marked as such', () => {
         ],
       }),
     ).toThrow(
-      /stars\.0\.measurements\.0\.component.*positions are of the secondary relative to the primary/,
+      /stars\.0\.measurements\.0\.component.*a position is of the secondary relative to the primary/,
     );
   });
 });

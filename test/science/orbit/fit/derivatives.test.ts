@@ -77,6 +77,7 @@ function worstRelativeError(request: FitRequest): number {
     driftRaMasYr: 0.05,
     driftDecMasYr: -0.04,
     massRatio: 0.6,
+    lightFraction: 0.2,
   };
   b.L.params.forEach((p, j) => {
     theta[j] = truthish[p.key]! * (1 + 0.01 * (j % 3));
@@ -124,6 +125,24 @@ describe('fit derivatives against central finite differences', () => {
             ),
           },
         ],
+      },
+    ],
+    [
+      'photocentre offsets with both bodies (mass ratio q, light fraction β), frame offset',
+      {
+        stars: [
+          {
+            name: 'J',
+            measurements: star('J', 9, 0.6, 60, true).measurements.map((m, k) =>
+              m.kind === 'radial-velocity'
+                ? { ...m, component: k % 2 ? 'primary' : 'secondary' }
+                : m.kind === 'offsets' && k % 3 === 0
+                  ? { ...m, component: 'photocentre' }
+                  : m,
+            ),
+          },
+        ],
+        frame: { offset: true },
       },
     ],
     ['separation and position angle', { stars: [star('C', 9, 0.6, 60, true, true)] }],
