@@ -99,6 +99,11 @@ describe('a double-lined binary in the client', () => {
       '32 velocities of another body not drawn',
     );
 
+    // No relativity forecast for a Newtonian binary: a plain sentence, not a refusal.
+    await expect(page.locator('#forecast').textContent()).resolves.toContain(
+      'No forecast: this solution is a binary of comparable masses',
+    );
+
     // The ephemeris table's two bodies, as the stored target's ephemeris gives them.
     const start = await page.locator('#ephemeris input[type="date"]').first().inputValue();
     const end = await page.locator('#ephemeris input[type="date"]').nth(1).inputValue();

@@ -385,7 +385,15 @@ export function TargetView({ id }: { id: number }) {
       )}
       {d.solution?.orbit.distancePc !== undefined && (
         <Section title="Relativity forecast" id="forecast">
-          <ForecastPanel key={d.solution?.id} targetId={id} />
+          {d.solution.orbit.massRatio === undefined ? (
+            <ForecastPanel key={d.solution.id} targetId={id} />
+          ) : (
+            // A binary of comparable masses is fitted Newtonian: nothing relativistic to forecast.
+            <p class="muted">
+              No forecast: this solution is a binary of comparable masses (it has a mass ratio),
+              whose orbit is fitted without relativistic terms.
+            </p>
+          )}
         </Section>
       )}
       <Section title="Events" id="events">
