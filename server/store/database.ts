@@ -11,6 +11,7 @@ import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql';
 import { migrate } from 'drizzle-orm/libsql/migrator';
 import * as schema from '../../db/schema.ts';
 import { InputError } from '../science/errors.ts';
+import { fillMigrationGaps, journalMigrations } from './migration-gaps.ts';
 import { CONNECTION_BUSY_MS, gatedTransaction } from './write-gate.ts';
 import { clearAbandonedImports } from './csv/staging.ts';
 
@@ -143,6 +144,8 @@ export async function openDatabase(options: OpenOptions = {}): Promise<Database>
   db.transaction = gatedTransaction(db.transaction.bind(db), async () => {
     await client.reconnect();
   }) as Db['transaction'];
+  // drizzle skips a migration older than the newest applied one: fill such gaps first, or refuse.
+  await fillMigrationGaps(client, journalMigrations(MIGRATIONS_FOLDER));
   await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
   // Staged rows of an import whose process died (staging.ts): never measurements, only clutter.
   await clearAbandonedImports(db);
