@@ -183,9 +183,19 @@ function preparePlanner(
       });
     }
     const orbit = ts.t.input.target.orbit;
+    const kept = keptOf(nights, sites, precision, ts);
     if (options.relativityGoal === true && orbit)
-      ts.rel = relativityState(orbit, ts.t.input.measurements ?? [], ts.options);
-    addKept(ts, keptOf(nights, sites, precision, ts));
+      ts.rel = relativityState(
+        orbit,
+        ts.t.input.measurements ?? [],
+        ts.options,
+        kept.map(({ k, precision }) => ({
+          jd: (k.startJd + k.endJd) / 2,
+          kind: k.kind,
+          precision,
+        })),
+      );
+    addKept(ts, kept);
     return built.closed;
   });
   const order = resolved

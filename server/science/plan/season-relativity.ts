@@ -5,6 +5,7 @@
  * measurements, every element, the distance and γ free), at the precision the epoch would have
  * there (precision.ts). A weak prior (σ = PRIOR_SIGMA on each factor) keeps the information
  * invertible before the data determine a factor; it is far wider than any factor's plausible range.
+ * Kept blocks (blocks that stay in place) add their information before any epoch is chosen.
  */
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { fisherRows } from '../orbit/fit/fisher.ts';
@@ -14,6 +15,9 @@ import { FORECAST_FACTORS } from './forecast.ts';
 import type { Option } from './season-nights.ts';
 
 const PRIOR_SIGMA = 100;
+
+const sigmaOf = (o: Pick<Option, 'kind' | 'precision'>) =>
+  o.kind === 'astrometry' ? o.precision.astrometryMas : o.precision.spectroscopyKmS;
 
 export interface RelativityState {
   n: number;
@@ -32,10 +36,11 @@ export function relativityState(
   orbit: Orbit,
   measurements: readonly MeasurementInput[],
   options: readonly Option[],
+  kept: readonly Pick<Option, 'jd' | 'kind' | 'precision'>[] = [],
 ): RelativityState | null {
   if (orbit.distancePc === null) return null;
   if (!orbit.relativity.gravitationalRedshift && !orbit.relativity.precession) return null;
-  const unit: MeasurementInput[] = options.map((o) =>
+  const unit: MeasurementInput[] = [...kept, ...options].map((o) =>
     o.kind === 'spectroscopy'
       ? { kind: 'radial-velocity', epoch: o.jd, radialVelocityKmS: 0, sigmaRadialVelocityKmS: 1 }
       : { kind: 'offsets', epoch: o.jd, dRaMas: 0, dDecMas: 0, sigmaDRaMas: 1, sigmaDDecMas: 1 },
@@ -45,10 +50,15 @@ export function relativityState(
   const factors = FORECAST_FACTORS.map((x) => f.parameters.indexOf(x)).filter((i) => i >= 0);
   const info = new Matrix(n, n);
   for (let k = 0; k < measurements.length; k++) addRows(info, f.rows[k]!, 1);
+  // Blocks that stay in place are information the season starts with, at their own σ.
+  kept.forEach((o, k) => {
+    addRows(info, f.rows[measurements.length + k]!, 1 / sigmaOf(o) ** 2);
+  });
   for (const q of factors) info.set(q, q, info.get(q, q) + 1 / PRIOR_SIGMA ** 2);
   const rows = new Map<Option, Float64Array[]>();
+  const first = measurements.length + kept.length;
   options.forEach((o, k) => {
-    rows.set(o, f.rows[measurements.length + k]!);
+    rows.set(o, f.rows[first + k]!);
   });
   const state = { n, factors, info, cov: info, rows };
   state.cov = inverseOf(info);
@@ -75,9 +85,6 @@ function inverseOf(info: Matrix): Matrix {
     for (let j = 0; j < n; j++) inv.set(i, j, inv.get(i, j) / (d[i]! * d[j]!));
   return inv;
 }
-
-const sigmaOf = (o: Option) =>
-  o.kind === 'astrometry' ? o.precision.astrometryMas : o.precision.spectroscopyKmS;
 
 /**
  * Σ over the factors of the fractional variance the option removes: for rows R at its σ,

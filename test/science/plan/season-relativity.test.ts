@@ -8,6 +8,7 @@
 import { describe, expect, it } from 'vitest';
 import { validateOrbit, type CovarianceParameter } from '../../../server/science/orbit/index.ts';
 import { forecastDetection, planSeason } from '../../../server/science/plan/index.ts';
+import { relativityState } from '../../../server/science/plan/season-relativity.ts';
 import { validateTarget } from '../../../server/science/sky/index.ts';
 import { SeededRandom } from '../../../server/science/random.ts';
 import { DEEP_PERIAPSIS_JD, deepStar } from '../orbit/fit/deep-star.ts';
@@ -78,6 +79,37 @@ describe('the relativity goal of the season planner', () => {
     );
     expect(goal.epochs.length).toBeLessThanOrEqual(plain.epochs.length); // not by buying more epochs
     expect(b[0]!).toBeLessThan(a[0]!);
+  });
+
+  it('starts from the information of the blocks that stay in place', () => {
+    // Constructed case: kept spectroscopy and astrometry around the passage, at 5 km/s and 1 mas.
+    const orbit = validateOrbit(ORBIT as never);
+    const precision = { astrometryMas: 1, spectroscopyKmS: 5 };
+    const kept = [-20, -5, 0, 3, 10].flatMap((d) =>
+      (['spectroscopy', 'astrometry'] as const).map((kind) => ({
+        jd: DEEP_PERIAPSIS_JD + d,
+        kind,
+        precision,
+      })),
+    );
+    const without = relativityState(orbit, MEASURED, [])!;
+    const withKept = relativityState(orbit, MEASURED, [], kept)!;
+    const sigma = (rs: typeof without, q: number) =>
+      Math.sqrt(rs.cov.get(rs.factors[q]!, rs.factors[q]!));
+    // The forecast's own sum over the same epochs as a plan (forecast.ts, a separate code path).
+    const forecast = forecastDetection({
+      orbit,
+      measurements: MEASURED,
+      plan: kept.map((k) => ({ jd: k.jd, kind: k.kind, sigma: k.kind === 'astrometry' ? 1 : 5 })),
+      precision,
+    }).factors.map((f) => f.sigmaAfter!);
+    console.log(
+      `redshift factor σ at the season's start: ${sigma(without, 0).toFixed(4)} without the kept blocks, ${sigma(withKept, 0).toFixed(4)} with them (forecast after them ${forecast[0]!.toFixed(4)})`,
+    );
+    expect(sigma(withKept, 0)).toBeLessThan(0.8 * sigma(without, 0)); // blocks at the passage carry the redshift
+    // Equal to the forecast's σ after the same epochs; the planner's weak prior (σ 100) aside.
+    expect(Math.abs(sigma(withKept, 0) / forecast[0]! - 1)).toBeLessThan(1e-3);
+    expect(Math.abs(sigma(withKept, 1) / forecast[1]! - 1)).toBeLessThan(1e-3);
   });
 
   it('refuses a goal that is not true or false, naming the field', () => {
