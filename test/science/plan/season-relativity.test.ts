@@ -84,7 +84,7 @@ describe('the relativity goal of the season planner', () => {
   it('starts from the information of the blocks that stay in place', () => {
     // Constructed case: kept spectroscopy and astrometry around the passage, at 5 km/s and 1 mas.
     const orbit = validateOrbit(ORBIT as never);
-    const precision = { astrometryMas: 1, spectroscopyKmS: 5 };
+    const precision = { astrometryMas: 1, spectroscopyKmS: 5, seeingArcsec: null };
     const kept = [-20, -5, 0, 3, 10].flatMap((d) =>
       (['spectroscopy', 'astrometry'] as const).map((kind) => ({
         jd: DEEP_PERIAPSIS_JD + d,
