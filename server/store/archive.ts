@@ -8,7 +8,7 @@
 import { readFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import type { Database } from './database.ts';
-import { MIGRATIONS_FOLDER } from './database.ts';
+import { MIGRATIONS_FOLDER, libsqlTransaction } from './database.ts';
 import { InputError } from '../science/errors.ts';
 
 export const ARCHIVE_FORMAT = 'epochwright-archive';
@@ -85,35 +85,32 @@ export async function readArchive(
   for (const t of Object.keys(a.tables!))
     if (!names.has(t))
       throw new InputError(`archive.tables.${t}`, t, 'is not a table of this database');
-  for (const t of names) {
-    const rs = await database.client.execute(`SELECT count(*) AS n FROM ${quote(t)}`);
-    if (Number(rs.rows[0]!.n) > 0)
-      throw new InputError(
-        'database',
-        database.url,
-        `must be empty to take an archive (table ${t} has rows); restore into a new file`,
-      );
-  }
-  const tx = await database.client.transaction('write');
-  const counts: Record<string, number> = {};
-  try {
-    await tx.execute('PRAGMA defer_foreign_keys = ON');
+  // Through the write gate (write-gate.ts) like every write of this process: the emptiness check
+  // and the rows in one transaction, so a writer in between cannot slip rows under the archive.
+  return database.db.transaction(async (tx) => {
+    const raw = libsqlTransaction(tx);
+    if (!raw) throw new Error('readArchive: no libSQL transaction under drizzle’s');
+    for (const t of names) {
+      const rs = await raw.execute(`SELECT count(*) AS n FROM ${quote(t)}`);
+      if (Number(rs.rows[0]!.n) > 0)
+        throw new InputError(
+          'database',
+          database.url,
+          `must be empty to take an archive (table ${t} has rows); restore into a new file`,
+        );
+    }
+    const counts: Record<string, number> = {};
+    await raw.execute('PRAGMA defer_foreign_keys = ON');
     for (const [t, rows] of Object.entries(a.tables!)) {
       counts[t] = rows.length;
       for (const row of rows) {
         const cols = Object.keys(row);
-        await tx.execute({
+        await raw.execute({
           sql: `INSERT INTO ${quote(t)} (${cols.map(quote).join(', ')}) VALUES (${cols.map(() => '?').join(', ')})`,
           args: cols.map((c) => row[c] as string | number | null),
         });
       }
     }
-    await tx.commit();
-  } catch (err) {
-    await tx.rollback();
-    throw err;
-  } finally {
-    tx.close();
-  }
-  return counts;
+    return counts;
+  });
 }

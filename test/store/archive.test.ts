@@ -75,3 +75,31 @@ it('round-trips the demo campaign into an empty database with equal content', as
   expect((await restored.archive()).tables.measurements).toEqual(first.tables.measurements);
   restored.close();
 });
+
+it('restores a backup over a file this process just had open (no SQLITE_BUSY)', async () => {
+  const backup = await store.backup(join(dir, 'backup-2.db'));
+  const url = `file:${join(dir, 'was-open.db')}`;
+  const before = createStore(await openDatabase({ url }));
+  await before.archive(); // reads through a transaction, as a request would
+  before.close(); // its connections may outlive close() until garbage collection
+  expect(await commands.restore!.run(['--backup', backup, '--database', url, '--replace'])).toMatch(
+    /^restored/,
+  );
+  const after = createStore(await openDatabase({ url }));
+  const [a, b] = [await after.archive(), await store.archive()];
+  expect(a.tables.measurements).toEqual(b.tables.measurements); // constructed case: the backup's rows
+  after.close();
+});
+
+it('writes an archive through the write gate: inside another transaction it is refused at once', async () => {
+  const archive = await store.archive();
+  const url = `file:${join(dir, 'gate.db')}`;
+  const empty = await openDatabase({ url });
+  const target = createStore(empty);
+  const refused = await empty.db
+    .transaction(() => target.restoreArchive(archive))
+    .catch((e: unknown) => e);
+  expect((refused as Error).name).toBe('NestedTransaction'); // the gate saw it (write-gate.ts)
+  expect(Object.values(await target.restoreArchive(archive)).some((n) => n > 0)).toBe(true);
+  target.close();
+});

@@ -2,7 +2,7 @@
  * `epochwright restore`: a backup file back in place of the database, or an archive into an empty
  * one. Neither overwrites a database that holds records unless --replace is given (for a backup).
  */
-import { copyFileSync, existsSync, rmSync } from 'node:fs';
+import { copyFileSync, existsSync, renameSync, rmSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
 import { createStore, displayUrl, locateDatabase, openDatabase } from '../../store/index.ts';
@@ -64,8 +64,16 @@ export const restoreCommand: Command = {
           where.url,
           'holds a database already: give --replace to overwrite it with the backup (stop the server first)',
         );
+      // Copied beside the database and renamed over it: a new file (inode), never the old one
+      // overwritten in place. A connection this process had open on the old file may outlive its
+      // close() until garbage collection (libSQL frees a connection with its last statement
+      // handle), and SQLite's locks are per file, so switching the copy to WAL in place failed
+      // SQLITE_BUSY. The rename also means a half-written copy never stands in for the database.
+      const incoming = `${path}.restoring`;
+      for (const extra of ['', '-wal', '-shm']) rmSync(`${incoming}${extra}`, { force: true });
+      copyFileSync(values.backup, incoming);
       for (const extra of ['-wal', '-shm']) rmSync(`${path}${extra}`, { force: true });
-      copyFileSync(values.backup, path);
+      renameSync(incoming, path);
       const check = await openDatabase({ url: where.url }); // migrates a backup of an older version
       check.close();
       return `restored ${values.backup} to ${path}\n`;
