@@ -47,6 +47,8 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true });
 });
 
+const run = (name: string, ...argv: string[]) => Promise.resolve(commands[name]!.run(argv));
+
 it('imports through a running server, audited under the token’s user, and exports back', async () => {
   const file = join(dir, 'm.csv');
   writeFileSync(
@@ -54,7 +56,6 @@ it('imports through a running server, audited under the token’s user, and expo
     'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument\n' +
       'Far Deep,Rook,radial-velocity,2026-06-01T04:00:00Z,812.5,10,spectrograph A\n',
   );
-  const run = (name: string, ...argv: string[]) => Promise.resolve(commands[name]!.run(argv));
   expect(
     await run(
       'import',
@@ -87,4 +88,22 @@ it('imports through a running server, audited under the token’s user, and expo
   const csv = await run('export', 'measurements', '--server', base, '--token', viewer);
   expect(csv).toMatch(/Far Deep,Rook,radial-velocity,[^,]*,2026-06-01T04:00:00\.000Z/);
   await expect(run('export', 'measurements', '--server', base)).rejects.toBeInstanceOf(UsageError);
+});
+
+it('exports the archive through a running server with a lead’s token only, equal to the store’s', async () => {
+  const text = await run('export', 'archive', '--server', base, '--token', lead.secret);
+  const archive = JSON.parse(text) as { format: string; tables: Record<string, unknown[]> };
+  const local = await store.archive();
+  expect(archive.format).toBe('epochwright-archive');
+  expect(archive.tables.systems).toEqual(local.tables.systems); // constructed case: the same rows
+  expect(archive.tables.tokens).toBeUndefined(); // no way in travels with an archive
+  const refused = await run('export', 'archive', '--server', base, '--token', viewer).catch(
+    (e: unknown) => e,
+  );
+  expect(refused).toBeInstanceOf(UsageError);
+  expect((refused as Error).message).toMatch(/403/);
+  const res = await fetch(`${base}/api/exports/archive`, {
+    headers: { authorization: `Bearer ${lead.secret}` },
+  });
+  expect(res.headers.get('content-disposition')).toMatch(/attachment; filename=/);
 });

@@ -6644,6 +6644,105 @@ export interface paths {
         patch?: never;
         trace?: never;
     };
+    "/exports/archive": {
+        parameters: {
+            query?: never;
+            header?: never;
+            path?: never;
+            cookie?: never;
+        };
+        /** Every stored record but the tokens (systems, targets, solutions with covariance and provenance, sites, campaigns, nights, blocks, reports, measurements, users, audit trail) as one JSON file, for `epochwright restore --archive` into an empty database (lead only: it holds the users and the audit trail) */
+        get: {
+            parameters: {
+                query?: never;
+                header?: never;
+                path?: never;
+                cookie?: never;
+            };
+            requestBody?: never;
+            responses: {
+                /** @description the archive, as a download */
+                200: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Archive"];
+                    };
+                };
+                /** @description malformed request (field-level issues in details) */
+                400: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no valid bearer token */
+                401: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description the token’s role may not do this */
+                403: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description no such record */
+                404: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description clashes with the stored state (stale version, duplicate, still in use) */
+                409: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description a value breaks a rule (field, value, rule in details) */
+                422: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+                /** @description computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS) */
+                503: {
+                    headers: {
+                        [name: string]: unknown;
+                    };
+                    content: {
+                        "application/json": components["schemas"]["Error"];
+                    };
+                };
+            };
+        };
+        put?: never;
+        post?: never;
+        delete?: never;
+        options?: never;
+        head?: never;
+        patch?: never;
+        trace?: never;
+    };
     "/campaigns/{id}/calendar.ics": {
         parameters: {
             query?: never;
@@ -11168,6 +11267,18 @@ export interface components {
             entityId: number | null;
             /** @description create: the values written; update: { changed: { field: { old, new } } }; delete: the row as it was; import: rows and file digest */
             detail?: unknown;
+        };
+        Archive: {
+            /** @enum {string} */
+            format: "epochwright-archive";
+            /** @description the last migration the rows follow */
+            schema: string;
+            /** @description rows per table, in id order, columns by SQL name */
+            tables: {
+                [key: string]: {
+                    [key: string]: unknown;
+                }[];
+            };
         };
         SeasonPlanPreview: {
             campaignId: number;

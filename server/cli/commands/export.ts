@@ -24,7 +24,7 @@ archive       every stored record (systems, targets, orbit solutions with covari
 
 options:
 ${DATABASE_HELP}
-${SERVER_HELP} (measurements and calendar)
+${SERVER_HELP} (measurements, calendar and archive; the archive needs a lead's token)
 `;
 
 export const exportCommand: Command = {
@@ -65,8 +65,10 @@ export const exportCommand: Command = {
         const q = values.at === undefined ? '' : `?at=${encodeURIComponent(values.at)}`;
         return (await send(remote, 'GET', `/campaigns/${campaignId}/calendar.ics${q}`)).text();
       }
+      if (what === 'archive')
+        return `${JSON.stringify(await (await send(remote, 'GET', '/exports/archive')).json())}\n`;
       throw new UsageError(
-        `export ${what ?? ''} reads the database itself: run it where the database is (--server takes measurements and calendar)`,
+        `export ${what ?? ''} reads the database itself: run it where the database is (--server takes measurements, calendar and archive)`,
       );
     }
     return withStore(values.database, async (store) => {

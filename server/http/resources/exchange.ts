@@ -154,6 +154,38 @@ export function exchangeRoutes(store: Store, run: Runner) {
   app.openapi(
     createRoute({
       method: 'get',
+      path: '/exports/archive',
+      tags: ['exports'],
+      security,
+      summary:
+        'Every stored record but the tokens (systems, targets, solutions with covariance and provenance, sites, campaigns, nights, blocks, reports, measurements, users, audit trail) as one JSON file, for `epochwright restore --archive` into an empty database (lead only: it holds the users and the audit trail)',
+      responses: {
+        200: json(
+          z
+            .object({
+              format: z.literal('epochwright-archive'),
+              schema: z.string().openapi({ description: 'the last migration the rows follow' }),
+              tables: z
+                .record(z.string(), z.array(z.record(z.string(), z.unknown())))
+                .openapi({ description: 'rows per table, in id order, columns by SQL name' }),
+            })
+            .strict()
+            .openapi('Archive'),
+          'the archive, as a download',
+        ),
+        ...errorResponses,
+      },
+    }),
+    async (c) => {
+      requireRole(c, 'lead');
+      const archive = await store.archive();
+      c.header('content-disposition', 'attachment; filename="epochwright-archive.json"');
+      return c.json(archive, 200);
+    },
+  );
+  app.openapi(
+    createRoute({
+      method: 'get',
       path: '/campaigns/{id}/calendar.ics',
       tags: ['exports'],
       security,
