@@ -28,6 +28,10 @@ export const COST_BOUNDS = {
   eventOrbitDraws: 2_000_000,
   /** A season's Monte Carlo: draws × (planned epochs + targets). */
   seasonDrawEpochs: 10_000_000,
+  /** A relativity forecast: measurements + planned epochs (a Fisher matrix over each, like a fit step). */
+  forecastRows: 200_000,
+  /** A campaign's flags: targets × sites × days ahead (visibility sampled about monthly, periapsis windows). */
+  flagTargetSiteDays: 20_000_000,
 } as const;
 
 type Bound = keyof typeof COST_BOUNDS;
@@ -78,6 +82,27 @@ function costOfEphemeris(...[, jd, options = {}]: TaskArgs<'ephemeris'>): void {
 }
 
 const CHECKS: { [K in TaskName]?: (...args: TaskArgs<K>) => void } = {
+  forecastDetection(req) {
+    const rows = req.measurements.length + req.plan.length;
+    within(
+      'measurements',
+      req.measurements.length,
+      rows,
+      'forecastRows',
+      `measurements + planned epochs = ${req.measurements.length} + ${req.plan.length} =`,
+    );
+  },
+  computeFlags(targets, sites, options) {
+    const lead = options?.leadDays ?? [];
+    const days = num(lead[lead.length - 1], 365);
+    within(
+      'leadDays',
+      days,
+      targets.length * Math.max(1, sites.length) * days,
+      'flagTargetSiteDays',
+      `targets × sites × days ahead = ${targets.length} × ${sites.length} × ${Math.round(days)} =`,
+    );
+  },
   fitOrbits: costOfFit,
   fitPage: costOfFit,
   fitResidualsCsv: costOfFit,

@@ -12,7 +12,12 @@ import { ephemerisCsv } from '../store/exports/ephemeris.ts';
 import { measurementsCsv } from '../store/exports/measurements.ts';
 import { residualsCsv } from '../store/exports/residuals.ts';
 import { ephemeris, eventsWithUncertainty } from '../science/orbit/ephemeris.ts';
-import { computeFlags, planSeason, scheduleNight } from '../science/plan/index.ts';
+import {
+  computeFlags,
+  forecastDetection,
+  planSeason,
+  scheduleNight,
+} from '../science/plan/index.ts';
 import { seasonMonteCarlo } from '../science/plan/season-monte-carlo.ts';
 import {
   nightReport,
@@ -64,6 +69,8 @@ export const TASKS = {
       sites.map((s) => ({ ...s, site: reviveSite(s.site) })),
       options,
     ),
+  /** When the relativistic terms become detectable: a Fisher matrix over every measurement. */
+  forecastDetection,
   prepareMeasurements,
   measurementsCsv,
 };

@@ -5,7 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { createApp } from '../../server/http/app.ts';
-import { COST_BOUNDS } from '../../server/jobs/cost.ts';
+import { COST_BOUNDS, checkCost } from '../../server/jobs/cost.ts';
+import { InputError } from '../../server/science/errors.ts';
 import { inProcess, type Runner } from '../../server/jobs/tasks.ts';
 
 const ran: string[] = [];
@@ -105,5 +106,40 @@ describe('cost bounds', () => {
     const { error } = (await res.json()) as Refusal;
     expect(error.details.field).toBe('monteCarlo.draws');
     expect(error.details.rule).toContain(COST_BOUNDS.ephemerisEvaluations.toLocaleString('en'));
+  });
+
+  it('refuses a relativity forecast and a campaign’s flags beyond their bounds, before any work', () => {
+    const refusal = (f: () => void) => {
+      try {
+        f();
+      } catch (err) {
+        return err as InputError;
+      }
+      throw new Error('not refused');
+    };
+    // Constructed case: one row past forecastRows; the rows are never looked at, only counted.
+    const rows = Array.from({ length: COST_BOUNDS.forecastRows + 1 }, () => ({}));
+    const forecast = refusal(() =>
+      checkCost('forecastDetection', { measurements: rows, plan: [] } as never),
+    );
+    expect(forecast).toBeInstanceOf(InputError);
+    expect(forecast.field).toBe('measurements');
+    expect(forecast.rule).toContain('forecastRows');
+    expect(() =>
+      checkCost('forecastDetection', { measurements: rows.slice(2), plan: [{}] } as never),
+    ).not.toThrow();
+    // 200 targets × 2 sites × 100,000 days ahead = 40,000,000 > flagTargetSiteDays (constructed case).
+    const many = Array.from({ length: 200 }, () => ({}));
+    const flags = refusal(() =>
+      checkCost('computeFlags', many as never, [{}, {}] as never, {
+        nowJd: 2461000,
+        leadDays: [30, 100_000],
+      }),
+    );
+    expect(flags.field).toBe('leadDays');
+    expect(flags.rule).toContain('flagTargetSiteDays');
+    expect(() =>
+      checkCost('computeFlags', many as never, [{}, {}] as never, { nowJd: 2461000 }),
+    ).not.toThrow();
   });
 });

@@ -1,6 +1,6 @@
 /**
  * The stored views that compute run on the job pool too: a night's visibility, a campaign's flags,
- * a target's ephemeris as CSV and the measurements export. Each gives the answer it gives on this
+ * a target’s ephemeris as CSV, its relativity forecast and the measurements export. Each gives the answer it gives on this
  * thread, and health is answered while it runs: once each heavy request's job is handed on, health
  * is asked one request after another, and several replies must arrive before the heavy one (an
  * ordering, not a timing; on this thread none can). The demo's data are invented.
@@ -51,6 +51,8 @@ beforeAll(async () => {
     '/api/campaigns/1/flags?at=', // completed with a fresh moment per request
     `/api/targets/${target.id}/ephemeris?start=2027-01-01T00:00:00Z&end=2029-01-01T00:00:00Z&step=PT6H&format=csv`,
     '/api/exports/measurements',
+    // The relativity forecast: a Fisher matrix over the 20,000 measurements and the planned blocks.
+    `/api/targets/${target.id}/forecast?at=2027-01-01T00:00:00Z`,
   ];
 });
 /**

@@ -162,10 +162,11 @@ export function targetViewRoutes(store: Store, run: Runner) {
         ...(q.astrometryMas !== undefined ? { astrometryMas: q.astrometryMas } : {}),
         ...(q.spectroscopyKmS !== undefined ? { spectroscopyKmS: q.spectroscopyKmS } : {}),
       };
-      const forecast = await store.plans.forecast(c.req.valid('param').id, {
-        atJd: momentJd(q.at, 'at'),
-        precision,
-      });
+      const forecast = await store.plans.forecast(
+        c.req.valid('param').id,
+        { atJd: momentJd(q.at, 'at'), precision },
+        run,
+      );
       return c.json(forecast, 200);
     },
   );

@@ -16,8 +16,8 @@ import {
   targets,
 } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
+import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import {
-  forecastDetection,
   precisionAt,
   rounded,
   precisionModel,
@@ -70,6 +70,7 @@ export async function targetForecast(
   db: DbOrTx,
   targetId: number,
   options: TargetForecastOptions,
+  run: Runner = inProcess,
 ): Promise<TargetForecast> {
   const { solution, orbit } = await currentOrbit(db, targetId);
   if (orbit.distancePc === null)
@@ -130,7 +131,8 @@ export async function targetForecast(
     plan.push({ jd, kind: b.kind, sigma });
   }
   const zenith = precisionModel([given]);
-  const forecast = forecastDetection({
+  // The Fisher matrix over every measurement runs where `run` puts it (the server: the pool).
+  const forecast = await run('forecastDetection', {
     orbit,
     measurements: rows.map(toInput),
     plan,

@@ -178,7 +178,7 @@ export async function campaignFlags(
   for (const t of input.targets) {
     const o = t.target.orbit;
     if (o?.distancePc && (o.relativity.gravitationalRedshift || o.relativity.precession))
-      forecasts.set(t.id, await targetForecast(db, t.id, { atJd: options.nowJd }));
+      forecasts.set(t.id, await targetForecast(db, t.id, { atJd: options.nowJd }, run));
   }
   const flags = await run(
     'computeFlags',
