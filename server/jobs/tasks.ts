@@ -8,6 +8,7 @@ import { prepareMeasurements } from '../store/csv/measurement-rows.ts';
 import { ComputationError, InputError } from '../science/errors.ts';
 import { fitOrbits, FitRefusal, type FitRequest } from '../science/orbit/fit/index.ts';
 import { pageResiduals, type ResidualPageRequest } from '../science/orbit/fit/residual-page.ts';
+import { calendarText } from '../store/exports/calendar-text.ts';
 import { ephemerisCsv } from '../store/exports/ephemeris.ts';
 import { measurementsCsv } from '../store/exports/measurements.ts';
 import { residualsCsv } from '../store/exports/residuals.ts';
@@ -73,6 +74,8 @@ export const TASKS = {
   forecastDetection,
   prepareMeasurements,
   measurementsCsv,
+  /** A campaign's iCalendar feed from its gathered rows: darkness, passages and the text. */
+  calendarText,
 };
 
 export type Tasks = typeof TASKS;

@@ -163,7 +163,10 @@ describe('stored views on the job pool', () => {
     const pooledFlags = await campaignFlags(db, 1, moment, pool.run);
     expect(pooledFlags.flags.length).toBeGreaterThan(0);
     expect(pooledFlags).toEqual(await campaignFlags(db, 1, moment));
-    for (const path of paths.filter((p) => !p.endsWith('at='))) {
+    // The calendar feed (flags, darkness, passages and text on the pool) as well; its answer is
+    // too quick on the demo to order health replies against, so it is compared only.
+    const calendar = '/api/campaigns/1/calendar.ics?at=2027-01-01T00:00:00Z';
+    for (const path of [...paths.filter((p) => !p.endsWith('at=')), calendar]) {
       const a = await here.request(path, { headers });
       const b = await pooled.request(path, { headers });
       expect([path, b.status]).toEqual([path, 200]);

@@ -13,8 +13,6 @@
  *   site (a count of changes summed over the rows shown would fall then).
  */
 import { createHash } from 'node:crypto';
-import ical from 'ical-generator';
-import { DateTime } from 'luxon';
 import { and, eq, inArray, max } from 'drizzle-orm';
 import {
   auditTrail,
@@ -25,21 +23,17 @@ import {
   systems,
   targets,
 } from '../../../db/schema.ts';
-import { JD_J2000 } from '../../science/constants.ts';
-import { eventsWithUncertainty } from '../../science/orbit/index.ts';
 import { LASER_GUIDE_STAR_CAUTION } from '../../science/plan/index.ts';
-import { nightSpan, sunNight, validateSite, type Site } from '../../science/sky/index.ts';
-import { jdToIso, jdToUnixMs, parseEpoch } from '../../science/time/index.ts';
+import { parseEpoch } from '../../science/time/index.ts';
 import { nowJd } from '../../clock.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
 import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
 import { currentOrbit } from '../repos/orbits.ts';
-import type { SiteRow } from '../repos/sites.ts';
 import { campaignFlags } from '../views/planning.ts';
-import { vtimezone } from './vtimezone.ts';
-import type { Runner } from '../../jobs/tasks.ts';
+import type { CalendarFeed } from './calendar-text.ts';
+import { inProcess, type Runner } from '../../jobs/tasks.ts';
 
 export interface CalendarOptions {
   /** The moment flags are computed for, JD (UTC); default now. */
@@ -48,25 +42,6 @@ export interface CalendarOptions {
 
 /** The UIDs' domain: reserved, so it can never clash with a real host (RFC 2606). */
 const UID_DOMAIN = 'epochwright.invalid';
-
-/** Darkness of a site-night in ms since 1970: astronomical, else nautical, else sunset to sunrise. */
-function darkSpan(site: Site, date: string): { start: number; end: number; what: string } | null {
-  const sun = sunNight(site, nightSpan(site, date));
-  for (const kind of ['astronomical', 'nautical'] as const) {
-    const dusk = sun.dusk[kind];
-    const dawn = sun.dawn[kind];
-    if (dusk !== null && dawn !== null)
-      return { start: jdToUnixMs(dusk), end: jdToUnixMs(dawn), what: `${kind} darkness` };
-  }
-  if (sun.setJd !== null && sun.riseJd !== null)
-    return { start: jdToUnixMs(sun.setJd), end: jdToUnixMs(sun.riseJd), what: 'sunset to sunrise' };
-  return null;
-}
-
-const location = (s: SiteRow) => ({
-  title: s.name,
-  geo: { lat: s.latitudeDeg, lon: s.longitudeDeg },
-});
 
 /** The last update of each orbit solution in the audit trail (becoming current again is one). */
 async function solutionUpdates(db: DbOrTx, ids: number[]): Promise<Map<number, string>> {
@@ -112,7 +87,7 @@ export async function campaignCalendar(
   db: DbOrTx,
   campaignId: number,
   options: CalendarOptions = {},
-  run?: Runner,
+  run: Runner = inProcess,
 ): Promise<string> {
   const campaign = await getById(db, campaignEntity, campaignId);
   const { targetIds } = await campaignMembers(db, campaignId);
@@ -120,17 +95,16 @@ export async function campaignCalendar(
     .update(`${campaign.id}|${campaign.createdAt}`)
     .digest('hex')
     .slice(0, 12);
-  const uid = (what: string) => `${what}-c${campaign.id}-${key}@${UID_DOMAIN}`;
-  const startJd = parseEpoch(`${campaign.startDate}T00:00Z`, 'startDate');
-  const endJd = parseEpoch(`${campaign.endDate}T00:00Z`, 'endDate') + 1 + 365.25;
-  const cal = ical({
+  const feed: CalendarFeed = {
     name: `epochwright: ${campaign.name}`,
-    prodId: { company: 'epochwright', product: 'campaign feed', language: 'EN' },
-    timezone: {
-      name: null,
-      generator: (zone) => vtimezone(zone, jdToUnixMs(startJd), jdToUnixMs(endJd)),
-    },
-  });
+    startJd: parseEpoch(`${campaign.startDate}T00:00Z`, 'startDate'),
+    endJd: parseEpoch(`${campaign.endDate}T00:00Z`, 'endDate') + 1 + 365.25,
+    uidSuffix: `-c${campaign.id}-${key}@${UID_DOMAIN}`,
+    nights: [],
+    blocks: [],
+    passages: [],
+    blends: [],
+  };
 
   // One event per allocated site-night, in the site's zone.
   const nightRows = await db
@@ -139,32 +113,14 @@ export async function campaignCalendar(
     .innerJoin(sites, eq(sites.id, nights.siteId))
     .where(eq(nights.campaignId, campaignId))
     .orderBy(nights.date, sites.name);
-  const skySites = new Map<number, Site>();
-  for (const { n, s } of nightRows) {
-    let site = skySites.get(s.id);
-    if (!site) {
-      site = validateSite(s, 'site');
-      skySites.set(s.id, site);
-    }
-    const dark = darkSpan(site, n.date);
-    if (!dark) continue; // no sunset at all (polar summer): no night to show
-    cal.createEvent({
-      id: uid(`night-${n.id}`),
+  for (const { n, s } of nightRows)
+    feed.nights.push({
+      id: `night-${n.id}`,
       ...revision(n.createdAt, [n.updatedAt, s.updatedAt]),
-      start: DateTime.fromMillis(dark.start, { zone: s.timeZone }),
-      end: DateTime.fromMillis(dark.end, { zone: s.timeZone }),
-      timezone: s.timeZone,
-      summary: `Night at ${s.name} (${n.date})`,
-      location: location(s),
-      description: [
-        `Allocated night of ${n.date} at ${s.name}: ${dark.what}, local times (${s.timeZone}).`,
-        n.notes,
-        s.laserGuideStar ? LASER_GUIDE_STAR_CAUTION : '',
-      ]
-        .filter(Boolean)
-        .join('\n'),
+      date: n.date,
+      site: s,
+      notes: n.notes,
     });
-  }
 
   const blockRows = await db
     .select({ b: blocks, n: nights, s: sites, t: targets, y: systems })
@@ -175,18 +131,18 @@ export async function campaignCalendar(
     .innerJoin(systems, eq(systems.id, targets.systemId))
     .where(eq(nights.campaignId, campaignId))
     .orderBy(blocks.startUtc);
-  for (const r of blockRows) {
-    cal.createEvent({
-      id: uid(`block-${r.b.id}`),
+  for (const r of blockRows)
+    feed.blocks.push({
+      id: `block-${r.b.id}`,
       ...revision(
         r.b.createdAt,
         [r.b.updatedAt, r.n.updatedAt, r.s.updatedAt, r.t.updatedAt, r.y.updatedAt],
         r.b.version - 1,
       ),
-      start: new Date(r.b.startUtc),
-      end: new Date(r.b.endUtc),
+      startMs: Date.parse(r.b.startUtc),
+      endMs: Date.parse(r.b.endUtc),
       summary: `${r.t.name} (${r.y.name}) ${r.b.kind} at ${r.s.name} [${r.b.status}]`,
-      location: location(r.s),
+      site: r.s,
       description: [
         `Night ${r.n.date} at ${r.s.name}; block ${r.b.id}, version ${r.b.version}.`,
         r.b.notes,
@@ -195,9 +151,8 @@ export async function campaignCalendar(
         .filter(Boolean)
         .join('\n'),
     });
-  }
 
-  // Periapsis passages as their ± 1σ span; the most likely instant in the description.
+  // Periapsis passages of each current orbit (computed with the text, calendar-text.ts).
   // What a target's events show: its name, its system's, its current solution.
   const shownOf = new Map<string, { key: string; created: string; changes: string[] }>();
   if (targetIds.length) {
@@ -235,27 +190,14 @@ export async function campaignCalendar(
         ].filter((x): x is string => x !== null),
       };
       shownOf.set(t.name, shown);
-      for (const ev of eventsWithUncertainty(orbit, startJd, endJd, { kinds: ['periapsis'] })) {
-        const sigma = ev.sigmaDays;
-        const half = sigma !== undefined && sigma > 0 ? sigma : 1 / 1440;
-        // The passage's number counted from J2000: the same passage keeps it across refits.
-        const passage = Math.round((ev.jd - JD_J2000) / orbit.periodDays);
-        const when = jdToIso(ev.jd).slice(0, 16).replace('T', ' ');
-        cal.createEvent({
-          id: uid(`periapsis-t${t.id}-p${passage}`),
-          ...revision(shown.created, shown.changes),
-          start: new Date(jdToUnixMs(ev.jd - half)),
-          end: new Date(jdToUnixMs(ev.jd + half)),
-          summary:
-            sigma === undefined
-              ? `Periapsis of ${t.name} (${t.system})`
-              : `Periapsis of ${t.name} (${t.system}), ± 1σ`,
-          description: [
-            `Most likely at ${when} UTC${sigma === undefined ? '' : `, 1σ ${formatDays(sigma)}`}; the event spans ${sigma === undefined ? 'one minute (the solution has no covariance, so no σ)' : '± 1σ'}.`,
-            `Predicted from orbit solution version ${solution.version} (id ${solution.id}).`,
-          ].join('\n'),
-        });
-      }
+      feed.passages.push({
+        uidPrefix: `periapsis-t${t.id}-p`,
+        name: t.name,
+        system: t.system,
+        orbit,
+        solution: { id: solution.id, version: solution.version },
+        ...revision(shown.created, shown.changes),
+      });
     }
   }
 
@@ -273,25 +215,21 @@ export async function campaignCalendar(
     const a = shownOf.get(f.target);
     const b = shownOf.get(f.blend.other);
     const pair = [a?.key ?? hashed(f.target), b?.key ?? hashed(f.blend.other)].join('-');
-    cal.createEvent({
-      id: uid(`blend-${pair}-${f.blend.start.slice(0, 10).replace(/-/g, '')}`),
+    feed.blends.push({
+      id: `blend-${pair}-${f.blend.start.slice(0, 10).replace(/-/g, '')}`,
       ...revision(campaign.createdAt, [
         campaign.updatedAt,
         ...(a?.changes ?? []),
         ...(b?.changes ?? []),
       ]),
-      start: new Date(f.blend.start),
-      end: new Date(f.blend.end),
+      startMs: Date.parse(f.blend.start),
+      endMs: Date.parse(f.blend.end),
       summary: `Blend risk: ${f.target} and ${f.blend.other}`,
       description: f.reason,
     });
   }
-  return cal.toString();
+  // The darkness, the passages and the text where `run` puts them (the server: the pool).
+  return run('calendarText', feed);
 }
 
 const hashed = (name: string) => createHash('sha256').update(name).digest('hex').slice(0, 8);
-
-/** A σ in days, or hours below a day. */
-function formatDays(d: number): string {
-  return d >= 1 ? `${d.toFixed(2)} d` : `${(d * 24).toFixed(2)} h`;
-}
