@@ -152,7 +152,8 @@ async function healthRepliesMeanwhile(run: Runner, path: string): Promise<number
   return replies;
 }
 
-describe('stored views on the job pool', () => {
+// Generous: each heavy view runs several times, on a 2-core machine other work shares.
+describe('stored views on the job pool', { timeout: 300_000 }, () => {
   it('answer as they do on this thread', async () => {
     const headers = { authorization: `Bearer ${token}` };
     const here = createApp({ store });
