@@ -120,8 +120,6 @@ export function createApp(options: AppOptions = {}) {
   return app;
 }
 
-export type App = ReturnType<typeof createApp>;
-
 /** The stateless computations, open only to signed-in users when the app has a store. */
 export const COMPUTE_PATHS = ['/ephemeris', '/events', '/sky/night', '/sky/season', '/fit'];
 

@@ -96,10 +96,6 @@ export async function insertIn<T>(tx: DbOrTx, e: Entity<T>, actor: Actor, values
   return inserted;
 }
 
-export async function create<T>(db: Db, e: Entity<T>, actor: Actor, values: Row): Promise<T> {
-  return db.transaction((tx) => insertIn(tx, e, actor, values));
-}
-
 /**
  * Apply a partial update inside an open transaction. For versioned tables `expectedVersion` must
  * equal the stored version; the stored version then goes up by one.
@@ -157,17 +153,6 @@ export async function updateIn<T>(
     changed: { ...changedFields(prev, patch), ...alsoChanged },
   });
   return rows[0]!;
-}
-
-export async function update<T>(
-  db: Db,
-  e: Entity<T>,
-  actor: Actor,
-  id: number,
-  patch: Row,
-  expectedVersion?: number,
-): Promise<T> {
-  return db.transaction((tx) => updateIn(tx, e, actor, id, patch, expectedVersion));
 }
 
 export async function removeIn<T>(

@@ -14,7 +14,7 @@ import {
   messagesByField,
   parseMask,
 } from '../../client/src/views/record-forms.tsx';
-import { CampaignInput, SiteInput, SystemInput } from '../../server/store/schemas/entities.ts';
+import { CampaignInput, SiteFields, SystemFields } from '../../server/store/schemas/entities.ts';
 
 describe('request bodies', () => {
   test('a campaign: nested goals and limits, empty optional fields left out, the schema accepts it', () => {
@@ -77,7 +77,7 @@ describe('request bodies', () => {
         laserGuideStar: false,
       },
     });
-    expect(SiteInput.safeParse((r as { body: unknown }).body).success).toBe(true);
+    expect(SiteFields.safeParse((r as { body: unknown }).body).success).toBe(true);
   });
 
   test('a system with its position epoch; the schema accepts it', () => {
@@ -102,7 +102,7 @@ describe('request bodies', () => {
         distancePc: 31,
       },
     });
-    expect(SystemInput.safeParse((r as { body: unknown }).body).success).toBe(true);
+    expect(SystemFields.safeParse((r as { body: unknown }).body).success).toBe(true);
   });
 
   test('a required number left empty, and a mask pair that is not two numbers, are named before anything is sent', () => {

@@ -191,16 +191,12 @@ export type Outcome = Schemas['OutcomeRow'];
 export type MeasurementRow = Schemas['MeasurementRow'];
 export type SolutionRow = Schemas['OrbitSolutionRow'];
 export type Prediction = Schemas['EphemerisRow'];
-export type Ephemeris = Answer<'/targets/{id}/ephemeris', 'get'>;
 export type OrbitEvent = Schemas['OrbitEvent'];
-export type Stamp = Schemas['Instant'];
 export type Window = Schemas['SkyWindow'];
 export type Limit = Window['opensBy'];
 export type VisTarget = Schemas['TargetNight'];
 export type Visibility = Schemas['NightVisibility'];
-export type Season = Schemas['SeasonReport'];
 export type FactorForecast = Schemas['FactorForecast'];
-export type TargetForecast = Schemas['TargetForecast'];
 
 /**
  * The generic record table and form (records.tsx, record-forms.tsx) build a body field by field

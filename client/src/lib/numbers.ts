@@ -20,12 +20,6 @@ export function valueText(v: number, sigma?: number | null, significant = 5): st
   return Number(v.toPrecision(significant)).toString();
 }
 
-/** A relative uncertainty as a percentage, the one way the client shows it ("0.81 %"). */
-export function percentText(fraction: number): string {
-  const pct = fraction * 100;
-  return `${pct.toFixed(placesFor(pct / 10))} %`;
-}
-
 /** The relativistic terms in words. */
 export const RELATIVITY_WORDS: Record<string, string> = {
   romer: 'light-travel time',

@@ -12,7 +12,6 @@ import { useAction } from '../lib/use-action.ts';
 import { plural } from '../lib/words.ts';
 import { SeasonDrawsPanel } from './season-draws.tsx';
 
-export type PlannedEpoch = Schemas['SeasonPlan']['epochs'][number];
 export type SeasonPlanPreview = Schemas['SeasonPlanPreview'];
 
 const pct = (x: number) => `${Math.round(100 * x)} %`;

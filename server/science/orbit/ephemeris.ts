@@ -14,7 +14,6 @@ import {
 import { predictBatch, rowOf, type Prediction, type PredictionColumns } from './predict.ts';
 import type { Orbit } from './types.ts';
 import {
-  PERCENTILES,
   anglePercentiles,
   drawOrbits,
   linearSigma,
@@ -174,5 +173,3 @@ export function eventsWithUncertainty(
   }
   return events;
 }
-
-export { PERCENTILES };

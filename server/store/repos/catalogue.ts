@@ -7,7 +7,7 @@ import { entity, requireRef } from '../crud.ts';
 import type { Db } from '../database.ts';
 import { repository } from '../repository.ts';
 import { normaliseEpoch } from '../schemas/common.ts';
-import { SystemInput, TargetInput } from '../schemas/entities.ts';
+import { SystemFields, TargetFields } from '../schemas/entities.ts';
 
 export type SystemRow = typeof systems.$inferSelect;
 export type TargetRow = typeof targets.$inferSelect;
@@ -70,8 +70,8 @@ export function systemRepository(db: Db) {
   return repository(db, {
     entity: systemEntity,
     where: (f: SystemFilter) => [f.name ? eq(systems.name, f.name) : undefined],
-    schema: SystemInput,
-    keys: Object.keys(SystemInput.shape),
+    schema: SystemFields,
+    keys: Object.keys(SystemFields.shape),
     toRow: (input) => ({
       ...input,
       positionEpoch: normaliseEpoch(input.positionEpoch, 'positionEpoch').iso,
@@ -83,7 +83,7 @@ export function targetRepository(db: Db) {
   return repository(db, {
     entity: targetEntity,
     where: (f: TargetFilter) => [f.systemId ? eq(targets.systemId, f.systemId) : undefined],
-    schema: TargetInput,
-    keys: Object.keys(TargetInput.shape),
+    schema: TargetFields,
+    keys: Object.keys(TargetFields.shape),
   });
 }

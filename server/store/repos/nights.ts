@@ -11,7 +11,7 @@ import { entity, requireRef } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
 import { normaliseEpoch } from '../schemas/common.ts';
-import { BlockInput, NightInput } from '../schemas/entities.ts';
+import { BlockInput, NightFields } from '../schemas/entities.ts';
 import { checkBlock, checkBlocksUnder } from './block-rules.ts';
 import { campaignEntity } from './campaigns.ts';
 import { targetEntity } from './catalogue.ts';
@@ -121,8 +121,8 @@ export function nightRepository(db: Db) {
       f.start ? gte(nights.date, f.start) : undefined,
       f.end ? lte(nights.date, f.end) : undefined,
     ],
-    schema: NightInput,
-    keys: Object.keys(NightInput.shape),
+    schema: NightFields,
+    keys: Object.keys(NightFields.shape),
     fixedKeys: ['siteId', 'date'],
   });
 }

@@ -13,7 +13,7 @@ import { nowMs } from '../../clock.ts';
 import { entity, findById, removeIn, requireRef, updateIn } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
-import { NightReportInput, type OutcomeInput } from '../schemas/entities.ts';
+import { NightReportFields, type OutcomeInput } from '../schemas/entities.ts';
 import { nightPlace, timesOf } from './block-rules.ts';
 import { isoSecond } from './night-times.ts';
 import { blockEntity, nightEntity } from './nights.ts';
@@ -126,11 +126,11 @@ function nightReportWhere(f: NightReportFilter, db: DbOrTx) {
 }
 
 export function nightReportRepository(db: Db) {
-  const keys = Object.keys(NightReportInput.shape).filter((k) => k !== 'outcomes');
+  const keys = Object.keys(NightReportFields.shape).filter((k) => k !== 'outcomes');
   const repo = repository(db, {
     entity: nightReportEntity,
     where: nightReportWhere,
-    schema: NightReportInput,
+    schema: NightReportFields,
     keys,
     fixedKeys: ['nightId'],
     extraInput: async (tx, row) => ({

@@ -7,7 +7,7 @@ import { validateSite, type Site } from '../../science/sky/index.ts';
 import { entity } from '../crud.ts';
 import type { Db } from '../database.ts';
 import { repository } from '../repository.ts';
-import { SiteInput } from '../schemas/entities.ts';
+import { SiteFields } from '../schemas/entities.ts';
 import { checkBlocksUnder } from './block-rules.ts';
 
 export type SiteRow = typeof sites.$inferSelect;
@@ -63,8 +63,8 @@ export const siteEntity = entity<SiteRow>({
 export function siteRepository(db: Db) {
   return repository(db, {
     entity: siteEntity,
-    schema: SiteInput,
-    keys: Object.keys(SiteInput.shape),
+    schema: SiteFields,
+    keys: Object.keys(SiteFields.shape),
     // The mask is stored as the sky engine reads it: checked point by point (indices as sent), then in azimuth order.
     toRow: (input) => ({ ...input, horizonMask: skySite(input).horizonMask }),
   });

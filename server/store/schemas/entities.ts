@@ -53,7 +53,6 @@ export const SystemFields = z.object({
   ),
   notes,
 });
-export const SystemInput = SystemFields;
 
 export const TargetFields = z.object({
   systemId: id,
@@ -62,7 +61,6 @@ export const TargetFields = z.object({
   band: lineText(20).nullable().optional(),
   notes,
 });
-export const TargetInput = TargetFields;
 
 /** The orbit is checked in depth by validateOrbit (422 naming the element); here only its shape. */
 export const OrbitShape = z
@@ -192,7 +190,6 @@ export const SiteFields = z.object({
   ),
   notes,
 });
-export const SiteInput = SiteFields;
 
 const minutesPerBlock = z.number().positive().max(720);
 const perKind = <T extends z.ZodType>(v: T) =>
@@ -309,7 +306,6 @@ export const NightFields = z.object({
     .describe('label of the allocation the night came with (a semester, a run); empty when none'),
   notes,
 });
-export const NightInput = NightFields;
 
 export const BlockFields = z.object({
   nightId: id,
@@ -360,7 +356,6 @@ export const NightReportFields = z.object({
   notes,
   outcomes: z.array(OutcomeInput).default([]),
 });
-export const NightReportInput = NightReportFields;
 
 /** The value, uncertainty and correlation fields of every measurement kind, from its descriptor. */
 function measuredFields(): Record<string, z.ZodType> {

@@ -1,0 +1,52 @@
+/** The planning layer's public surface is pinned: a change to it is a decision, not an accident. */
+import { expect, it } from 'vitest';
+import * as plan from '../../../server/science/plan/index.ts';
+
+it('exports exactly these values', () => {
+  expect(Object.keys(plan).sort()).toEqual(
+    [
+      'AUTO_EXACT_ITEMS',
+      'BLOCK_KINDS',
+      'DEFAULT_PRECISION',
+      'DETECTION_THRESHOLDS',
+      'EXACT_MAX_ITEMS',
+      'FLAG_KINDS',
+      'FORECAST_FACTORS',
+      'LASER_GUIDE_STAR_CAUTION',
+      'NIGHT_REASONS',
+      'PLAN_ADVISORY',
+      'REASON_CODES',
+      'SCHEDULE_METHODS',
+      'SEASON_SETTINGS',
+      'SEEING_AIRMASS_EXPONENT',
+      'addInformation',
+      'checkCandidates',
+      'closingLimit',
+      'computeFlags',
+      'coverageProbability',
+      'forecastDetection',
+      'hoursAround',
+      'informationModel',
+      'jacobians',
+      'nightCandidates',
+      'nightGrid',
+      'nightMoments',
+      'nightReasonWords',
+      'passagesIn',
+      'planSeason',
+      'posteriorCovariance',
+      'precisionAt',
+      'precisionModel',
+      'rounded',
+      'scheduleNight',
+      'scheduleOnGrid',
+      'skyAtMoment',
+      'solveExact',
+      'solveGreedy',
+      'targetGrid',
+      'totalValue',
+      'uncertainties',
+      'varianceReduction',
+    ].sort(),
+  );
+});
