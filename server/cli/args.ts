@@ -7,7 +7,7 @@ import { readFileSync } from 'node:fs';
 import { InputError } from '../science/errors.ts';
 import { UsageError } from './io.ts';
 import type { OutputFormat } from './output.ts';
-import { WEATHER_CHOICES } from '../store/index.ts';
+import { DEFAULT_WEATHER, WEATHER_CHOICES, type WeatherChoice } from '../store/index.ts';
 
 /** `--<option> <id>`: a positive whole number. */
 export function positiveId(option: string, text: string | undefined): number {
@@ -57,12 +57,9 @@ export function readJsonArg(option: string, text: string | undefined): unknown {
   }
 }
 
-/** `--weather aware|blind`, or the command's default when left out. */
-export function weatherOption(
-  text: string | undefined,
-  fallback: (typeof WEATHER_CHOICES)[number],
-): (typeof WEATHER_CHOICES)[number] {
-  if (text === undefined) return fallback;
+/** `--weather aware|blind`; left out, weather-aware (the store's default, as for every request). */
+export function weatherOption(text: string | undefined): WeatherChoice {
+  if (text === undefined) return DEFAULT_WEATHER;
   const found = WEATHER_CHOICES.find((w) => w === text);
   if (!found) throw new UsageError(`--weather: ${JSON.stringify(text)} must be "aware" or "blind"`);
   return found;

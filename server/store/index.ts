@@ -50,7 +50,13 @@ export type { ClearPriorView, MonthPrior } from './repos/clear-priors.ts';
 export type { SiteStatisticsView } from './views/site-statistics.ts';
 export type { IssuedToken, TokenListing, UserRow } from './repos/users.ts';
 export { ACCEPT_AT_TOLERANCE_MINUTES } from './views/plan-scope.ts';
-export { NIGHT_CHOICES, WEATHER_CHOICES, type SeasonPlanRequest } from './views/season-plan.ts';
+export {
+  DEFAULT_WEATHER,
+  NIGHT_CHOICES,
+  WEATHER_CHOICES,
+  type SeasonPlanRequest,
+  type WeatherChoice,
+} from './views/season-plan.ts';
 export type { SeasonDrawsRequest, SeasonDrawsView } from './views/season-draws.ts';
 export type { ReplanPreview, ReplanRequest } from './views/replan.ts';
 export type { TimeRequestInput } from './views/time-request.ts';

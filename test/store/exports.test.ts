@@ -14,6 +14,7 @@ it('exports exactly the store entry points', () => {
     'CSV_KINDS',
     'CampaignFields',
     'ConflictError',
+    'DEFAULT_WEATHER',
     'ImportRejected',
     'LOCAL_OPERATOR',
     'MEASUREMENT_COLUMNS',

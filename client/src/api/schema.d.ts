@@ -7044,11 +7044,11 @@ export interface paths {
                         /** @description epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0 */
                         extraEpochsPerTarget?: number;
                         /**
-                         * @description "aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1
+                         * @description "aware" (default): each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and critical epochs on likely-lost nights get backups; "blind": every night weighs 1
                          * @enum {string}
                          */
                         weather?: "blind" | "aware";
-                        /** @description a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
+                        /** @description a critical epoch (periapsis window, or one the relativity forecast rests on) whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
                         backupLossAbove?: number;
                         /** @description accept only: the preview’s digest; 409 if the plan would now differ */
                         digest?: string;
@@ -7218,11 +7218,11 @@ export interface paths {
                         /** @description epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0 */
                         extraEpochsPerTarget?: number;
                         /**
-                         * @description "aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1
+                         * @description "aware" (default): each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and critical epochs on likely-lost nights get backups; "blind": every night weighs 1
                          * @enum {string}
                          */
                         weather?: "blind" | "aware";
-                        /** @description a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
+                        /** @description a critical epoch (periapsis window, or one the relativity forecast rests on) whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
                         backupLossAbove?: number;
                         /** @description seasons drawn, [1, 20000] */
                         draws: number;
@@ -7396,11 +7396,11 @@ export interface paths {
                         /** @description epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0 */
                         extraEpochsPerTarget?: number;
                         /**
-                         * @description "aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1
+                         * @description "aware" (default): each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and critical epochs on likely-lost nights get backups; "blind": every night weighs 1
                          * @enum {string}
                          */
                         weather?: "blind" | "aware";
-                        /** @description a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
+                        /** @description a critical epoch (periapsis window, or one the relativity forecast rests on) whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2 */
                         backupLossAbove?: number;
                         /** @description accept only: the preview’s digest; 409 if the plan would now differ */
                         digest?: string;

@@ -36,7 +36,7 @@ export function SeasonPlanPanel({
     startDate: clamp(today > `${year}-01-01` ? today : `${year}-01-01`),
     endDate: clamp(`${year}-12-31`),
     nights: 'allocated' as 'allocated' | 'all',
-    weather: 'blind' as 'aware' | 'blind',
+    weather: 'aware' as 'aware' | 'blind',
   });
   const [preview, setPreview] = useState<SeasonPlanPreview | null>(null);
   const { busy, error, run } = useAction();
@@ -124,10 +124,10 @@ export function SeasonPlanPanel({
               setForm({ ...form, weather: e.currentTarget.value === 'aware' ? 'aware' : 'blind' })
             }
           >
-            <option value="blind">every night counts as clear</option>
             <option value="aware">
-              weigh nights by their chance of being clear, back up periapsis epochs
+              weigh nights by their chance of being clear, back up critical epochs
             </option>
+            <option value="blind">every night counts as clear</option>
           </select>
         </label>
         <button type="submit" class="primary" disabled={busy}>

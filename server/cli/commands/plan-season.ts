@@ -49,9 +49,9 @@ options:
                          coverageWithinDays, laserGuideStar: { astrometry, spectroscopy },
                          periapsisRepeat: "single" | "fill" | { everyHours },
                          backupLossAbove, relativityGoal: true | false }
-  --weather aware|blind  aware: weigh each night by its site's learned chance of being clear
-                         (site-statistics) and back up periapsis epochs on likely-lost nights;
-                         default blind (every night weighs 1)
+  --weather aware|blind  aware (default): weigh each night by its site's learned chance of being
+                         clear (site-statistics) and back up critical epochs on likely-lost
+                         nights; blind: every night weighs 1
   --draws <n> [--seed <s>]  instead of the plan, draw its season n times (each night lost at its
                          site's learned chance, precision scattered per night): percentiles of the
                          final σ of the passage date, the mass and the relativity factors, and of
@@ -112,7 +112,7 @@ export const planSeasonCommand: Command = {
         throw new UsageError(
           `--settings: unknown setting ${JSON.stringify(k)} (known: ${SETTINGS.join(', ')})`,
         );
-    const weather = weatherOption(values.weather, 'blind');
+    const weather = weatherOption(values.weather);
     if ((values.draws !== undefined || values.seed !== undefined) && values.accept)
       throw new UsageError('--draws and --seed preview only: leave out --accept');
     if (values.seed !== undefined && values.draws === undefined)

@@ -52,7 +52,7 @@ export const replanCommand: Command = {
     const format = outputFormat(values);
     const id = positiveId('night', values.night);
     checkAcceptDigest(values);
-    const weather = weatherOption(values.weather, 'aware');
+    const weather = weatherOption(values.weather);
     const request: ReplanRequest = {
       weather,
       ...(values.end !== undefined ? { endDate: values.end } : {}),

@@ -66,7 +66,7 @@ export const timeRequestCommand: Command = {
     const id = positiveId('campaign', values.campaign);
     if (values.name === undefined || values.start === undefined || values.end === undefined)
       throw new UsageError('--name, --start and --end are required');
-    const weather = weatherOption(values.weather, 'aware');
+    const weather = weatherOption(values.weather);
     const input: TimeRequestInput = {
       name: values.name,
       startDate: values.start,

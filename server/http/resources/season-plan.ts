@@ -94,10 +94,10 @@ export const SeasonPlanBody = z
     ),
     weather: z.enum(WEATHER_CHOICES).optional().openapi({
       description:
-        '"aware": each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and likely-lost periapsis epochs get backups; "blind" (default): every night weighs 1',
+        '"aware" (default): each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and critical epochs on likely-lost nights get backups; "blind": every night weighs 1',
     }),
     backupLossAbove: num(
-      'a periapsis epoch whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2',
+      'a critical epoch (periapsis window, or one the relativity forecast rests on) whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2',
     ),
     digest: z.string().optional().openapi({
       description: 'accept only: the preview’s digest; 409 if the plan would now differ',

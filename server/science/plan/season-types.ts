@@ -73,7 +73,7 @@ export interface SeasonOptions {
   laserGuideStar?: PerKind<boolean>;
   /** Epochs per night in a periapsis window; default 'single'. */
   periapsisRepeat?: PeriapsisRepeat;
-  /** A periapsis epoch whose night is lost with at least this chance (1 − its night weight) gets a backup, (0, 1]; default 0.2 (1: only certain losses). */
+  /** A critical epoch (season-backups.ts) whose night is lost with at least this chance (1 − its night weight) gets a backup, (0, 1]; default 0.2 (1: only certain losses). */
   backupLossAbove?: number;
   /**
    * Also maximise the relativity forecast: an epoch's score adds the fractional variance it removes

@@ -22,9 +22,11 @@ import { nightEntity } from '../repos/nights.ts';
 import { nowMs } from '../../clock.ts';
 import {
   acceptSeasonPlan,
+  DEFAULT_WEATHER,
   previewSeasonPlan,
   type SeasonPlanPreview,
   type SeasonPlanRequest,
+  type WeatherChoice,
 } from './season-plan.ts';
 
 export interface ReplanRequest {
@@ -39,7 +41,7 @@ export interface ReplanPreview {
   /** The night's blocks that were lost or only partly obtained. */
   lost: { blockId: number; target: string; kind: string; status: string }[];
   /** The season plan request the re-plan makes. */
-  request: { startDate: string; endDate: string; weather: 'aware' | 'blind' };
+  request: { startDate: string; endDate: string; weather: WeatherChoice };
   preview: SeasonPlanPreview;
 }
 
@@ -88,7 +90,7 @@ async function replanRequest(
       reason: report.timeLostReason,
     },
     lost: rows.map((r) => ({ blockId: r.id, target: r.target, kind: r.kind, status: r.status })),
-    request: { startDate, endDate, weather: request.weather ?? 'aware' },
+    request: { startDate, endDate, weather: request.weather ?? DEFAULT_WEATHER },
     ...(request.digest !== undefined ? { digest: request.digest } : {}),
   };
 }

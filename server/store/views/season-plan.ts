@@ -62,6 +62,9 @@ async function targetMeasurements(
 export const NIGHT_CHOICES = ['allocated', 'all'] as const;
 /** "aware": each night weighs by its site's learned chance of being clear (site statistics); "blind": every night weighs 1. */
 export const WEATHER_CHOICES = ['blind', 'aware'] as const;
+export type WeatherChoice = (typeof WEATHER_CHOICES)[number];
+/** Every planning request (season plan, its draws, re-plan, time request) is weather-aware unless it asks for "blind". */
+export const DEFAULT_WEATHER: WeatherChoice = 'aware';
 
 export interface SeasonPlanRequest extends SeasonOptions {
   startDate: string;
@@ -69,7 +72,7 @@ export interface SeasonPlanRequest extends SeasonOptions {
   /** Sites of the campaign to plan for; default all of them. */
   siteIds?: number[];
   nights?: (typeof NIGHT_CHOICES)[number];
-  /** Whether the plan weighs each night by its chance of being clear; default "blind". */
+  /** Whether the plan weighs each night by its chance of being clear; default "aware" (DEFAULT_WEATHER). */
   weather?: (typeof WEATHER_CHOICES)[number];
   /** The preview's digest: accept refuses (409) when the plan would now come out differently. */
   digest?: string;
@@ -123,7 +126,7 @@ export async function prepare(
       mode,
       'must be "allocated" (the campaign’s stored nights) or "all" (every night of the range)',
     );
-  const weather = request.weather ?? 'blind';
+  const weather = request.weather ?? DEFAULT_WEATHER;
   if (!(WEATHER_CHOICES as readonly string[]).includes(weather))
     throw new InputError(
       'weather',
@@ -248,13 +251,15 @@ export async function prepare(
     ...asked
   } = request;
   const options = { ...campaignOptions(campaign.goals), ...asked };
-  // The relativity goal starts from the targets' measurements, as the forecast does.
-  const measured = options.relativityGoal
-    ? await targetMeasurements(
-        db,
-        input.targets.map((t) => t.id),
-      )
-    : new Map<number, MeasurementInput[]>();
+  // The relativity goal starts from the targets' measurements, as the forecast does; a weather-aware
+  // plan reads the same forecast to find the epochs it rests on (season-backups.ts).
+  const measured =
+    options.relativityGoal || weather === 'aware'
+      ? await targetMeasurements(
+          db,
+          input.targets.map((t) => t.id),
+        )
+      : new Map<number, MeasurementInput[]>();
   const targets = seasonTargets(input.targets, campaign.goals, names, last).map((t, i) => {
     const m = measured.get(input.targets[i]!.id);
     return m ? { ...t, measurements: m } : t;

@@ -17,7 +17,12 @@ import {
 import { parseEpoch } from '../../science/time/index.ts';
 import type { DbOrTx } from '../database.ts';
 import { toInput } from '../fits.ts';
-import { prepare, type SeasonPlanRequest } from './season-plan.ts';
+import {
+  DEFAULT_WEATHER,
+  prepare,
+  type SeasonPlanRequest,
+  type WeatherChoice,
+} from './season-plan.ts';
 
 export interface TimeRequestInput {
   /** The semester's name, 1–40 characters. */
@@ -33,10 +38,10 @@ export async function timeRequestView(
   input: TimeRequestInput,
   atJd: number,
   run: Runner = inProcess,
-): Promise<TimeRequest & { campaignId: number; weather: 'aware' | 'blind' }> {
+): Promise<TimeRequest & { campaignId: number; weather: WeatherChoice }> {
   if (typeof input.name !== 'string' || input.name.trim() === '' || input.name.length > 40)
     throw new InputError('name', input.name, 'must name the semester in 1 to 40 characters');
-  const weather = input.weather ?? 'aware';
+  const weather = input.weather ?? DEFAULT_WEATHER;
   const p = await prepare(
     db,
     campaignId,
