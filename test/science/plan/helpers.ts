@@ -1,4 +1,5 @@
 /** Shared inputs for the planning tests: an invented site and targets (demo values, no source needed). */
+import type { CovarianceInput } from '../../../server/science/orbit/index.ts';
 import {
   validateLimits,
   validateSite,
@@ -30,6 +31,19 @@ export const EAST_SITE: Site = validateSite({
   leastSunDistanceDeg: 45,
 });
 export const CONSTRAINTS: Limits = validateLimits({ highestAirmass: 2 }, SITE);
+/** Loose limits of the weather tests (constructed case): airmass to 2.2, the Moon no closer than 5°. */
+export const weatherLimits = (s: Site): Limits =>
+  validateLimits({ highestAirmass: 2.2, leastMoonDistanceDeg: 5 }, s);
+/** A covariance that knows the passage date to 0.3 d and the other elements well (constructed case). */
+export const PASSAGE_KNOWN_TO_0_3_DAYS: CovarianceInput = {
+  parameters: ['periodYears', 'periapsisDays', 'eccentricity', 'semiMajorAxisArcsec'],
+  matrix: [
+    [1e-6, 0, 0, 0],
+    [0, 0.3 ** 2, 0, 0],
+    [0, 0, 1e-6, 0],
+    [0, 0, 0, 1e-8],
+  ],
+};
 
 /** Targets spread in right ascension along declination −30° (invented). */
 export function spreadTargets(n: number, decDeg = -30): Target[] {

@@ -16,11 +16,10 @@ import {
 } from '../../../server/science/plan/index.ts';
 import { RELATIVITY_CRITICAL_SHARE } from '../../../server/science/plan/season-backups.ts';
 import { addDays } from '../../../server/science/sky/night.ts';
-import { validateLimits, validateTarget } from '../../../server/science/sky/index.ts';
+import { validateTarget } from '../../../server/science/sky/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
-import { EAST_SITE, SITE } from './helpers.ts';
+import { EAST_SITE, PASSAGE_KNOWN_TO_0_3_DAYS, SITE, weatherLimits as C } from './helpers.ts';
 
-const C = (s: typeof SITE) => validateLimits({ highestAirmass: 2.2, leastMoonDistanceDeg: 5 }, s);
 const PERI = '2027-06-10T00:00:00Z';
 // Constructed case: an invented eccentric orbit with the redshift terms on and a narrow passage window.
 const ORBIT: OrbitInput = {
@@ -35,15 +34,7 @@ const ORBIT: OrbitInput = {
   },
   distancePc: 9000,
   relativity: { romer: true, gravitationalRedshift: true, transverseDoppler: true },
-  covariance: {
-    parameters: ['periodYears', 'periapsisDays', 'eccentricity', 'semiMajorAxisArcsec'],
-    matrix: [
-      [1e-6, 0, 0, 0],
-      [0, 0.3 ** 2, 0, 0],
-      [0, 0, 1e-6, 0],
-      [0, 0, 0, 1e-8],
-    ],
-  },
+  covariance: PASSAGE_KNOWN_TO_0_3_DAYS,
 };
 // Constructed case: one astrometric and one velocity epoch a year over the last decade.
 const PAST: MeasurementInput[] = Array.from({ length: 10 }, (_, k) => {

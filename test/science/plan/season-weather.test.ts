@@ -16,12 +16,11 @@ import {
 } from '../../../server/science/plan/index.ts';
 import { seasonMonteCarlo } from '../../../server/science/plan/season-monte-carlo.ts';
 import { addDays } from '../../../server/science/sky/night.ts';
-import { validateLimits, validateTarget } from '../../../server/science/sky/index.ts';
+import { validateTarget } from '../../../server/science/sky/index.ts';
 import { parseEpoch } from '../../../server/science/time/index.ts';
-import { EAST_SITE, SITE } from './helpers.ts';
+import { EAST_SITE, PASSAGE_KNOWN_TO_0_3_DAYS, SITE, weatherLimits as C } from './helpers.ts';
 
 const EAST = EAST_SITE;
-const C = (s: typeof SITE) => validateLimits({ highestAirmass: 2.2, leastMoonDistanceDeg: 5 }, s);
 const PERI = '2027-06-10T00:00:00Z';
 const ORBIT: OrbitInput = {
   elements: {
@@ -34,15 +33,7 @@ const ORBIT: OrbitInput = {
     argPeriapsisDeg: 65,
   },
   distancePc: 8000,
-  covariance: {
-    parameters: ['periodYears', 'periapsisDays', 'eccentricity', 'semiMajorAxisArcsec'],
-    matrix: [
-      [1e-6, 0, 0, 0],
-      [0, 0.3 ** 2, 0, 0],
-      [0, 0, 1e-6, 0],
-      [0, 0, 0, 1e-8],
-    ],
-  },
+  covariance: PASSAGE_KNOWN_TO_0_3_DAYS,
 };
 const STAR: SeasonTarget = {
   target: validateTarget({ name: 'P1', raDeg: 266, decDeg: -29.5, orbit: ORBIT }),
