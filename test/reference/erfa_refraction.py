@@ -7,7 +7,8 @@ Two parts, both from ERFA (the open IAU SOFA library) through Debian's python3-e
   - "refraction": for random stars, sites and instants, erfa.atco13's observed altitude without
     refraction (pressure 0, the true altitude) and with it, at the site's standard-atmosphere
     pressure, a random temperature and humidity, and a wavelength of 0.55, 1.25 or 2.2 um. Their
-    difference is ERFA's refraction at that true altitude. Only true altitudes above 15 degrees.
+    difference is ERFA's refraction at that true altitude. Only true altitudes above 15 degrees;
+  - "lowRefraction": the same at true altitudes from 5 to 15 degrees (its own seed).
 Conventions as in erfa_topocentric.py: UT1 - UTC = 0, no polar motion, parallax or radial velocity.
 
 Usage: /usr/bin/python3 test/reference/erfa_refraction.py [output.json]
@@ -25,6 +26,8 @@ warnings.filterwarnings("ignore", category=erfa.ErfaWarning)
 
 SEED = 20261203
 CASES = 300
+LOW_CASES = 240
+LOW_ALTITUDE_DEG = 5.0
 WAVELENGTHS_UM = [0.55, 1.25, 2.2]
 OUT = sys.argv[1] if len(sys.argv) > 1 else __file__.replace("erfa_refraction.py", "erfa-refraction.json")
 
@@ -70,12 +73,35 @@ def main():
         observed_alt = altitude(utc1, utc2, ra, dec, lon, lat, h, phpa, tc, rh, wl)
         cases.append({"pressureHpa": phpa, "temperatureC": tc, "humidity": rh, "wavelengthUm": wl,
                       "trueAltDeg": true_alt, "observedAltDeg": observed_alt})
+    # Low altitudes, 5 to 15 degrees true: the same draw, from its own seed, kept only there. Below
+    # about 5 degrees ERFA's own series is no reference: atioq clamps tan Z near 20 (SELMIN = 0.05).
+    low_rng = random.Random(SEED + 1)
+    low = []
+    while len(low) < LOW_CASES:
+        lat = math.asin(low_rng.uniform(-math.sin(math.radians(75)), math.sin(math.radians(75))))
+        lon = math.radians(low_rng.uniform(-180, 180))
+        h = low_rng.uniform(0, 5000)
+        phpa, tstd = standard_atmosphere(h)
+        tc = tstd + low_rng.uniform(-8, 8)
+        rh = low_rng.uniform(0, 1)
+        wl = WAVELENGTHS_UM[len(low) % len(WAVELENGTHS_UM)]
+        ra = low_rng.uniform(0, 2 * math.pi)
+        dec = math.asin(low_rng.uniform(-1, 1))
+        utc1, utc2 = erfa.dtf2d("UTC", low_rng.randint(2020, 2034), low_rng.randint(1, 12),
+                                low_rng.randint(1, 28), low_rng.randint(0, 23), low_rng.randint(0, 59), 0.0)
+        true_alt = altitude(utc1, utc2, ra, dec, lon, lat, h, 0.0, tc, rh, wl)
+        if not (LOW_ALTITUDE_DEG <= true_alt <= 15):
+            continue
+        observed_alt = altitude(utc1, utc2, ra, dec, lon, lat, h, phpa, tc, rh, wl)
+        low.append({"pressureHpa": phpa, "temperatureC": tc, "humidity": rh, "wavelengthUm": wl,
+                    "trueAltDeg": true_alt, "observedAltDeg": observed_alt})
     doc = {
         "source": "ERFA %s via python3-erfa %s, erfa.refco and erfa.atco13" % (erfa.version.erfa_version, erfa.__version__),
         "generator": "test/reference/erfa_refraction.py",
         "seed": SEED,
         "constants": constants,
         "refraction": cases,
+        "lowRefraction": low,
     }
     with open(OUT, "w") as f:
         json.dump(doc, f, indent=1)

@@ -55,6 +55,7 @@ export {
 } from './night-report.ts';
 export {
   apparentAltitudeDeg,
+  LOWEST_CHECKED_ALTITUDE_DEG,
   refractionConstants,
   refractionDeg,
   refractionModel,

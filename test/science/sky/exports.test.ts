@@ -48,6 +48,7 @@ it('exports exactly these values', () => {
       'parseDeclination',
       'parseNightDate',
       'parseRightAscension',
+      'LOWEST_CHECKED_ALTITUDE_DEG',
       'refractionConstants',
       'refractionDeg',
       'refractionModel',
