@@ -44,18 +44,10 @@ def altitude(utc1, utc2, ra, dec, lon, lat, h, phpa, tc, rh, wl):
     return 90 - math.degrees(zob)
 
 
-def main():
-    constants = []
-    for phpa in [550.0, 620.0, 700.0, 780.0, 1010.0]:
-        for tc in [-5.0, 2.0, 10.0, 20.0]:
-            for rh in [0.0, 0.2, 0.5, 0.9]:
-                for wl in [0.55, 1.25, 1.65, 2.2]:
-                    a, b = erfa.refco(phpa, tc, rh, wl)
-                    constants.append({"pressureHpa": phpa, "temperatureC": tc, "humidity": rh,
-                                      "wavelengthUm": wl, "aRad": a, "bRad": b})
-    rng = random.Random(SEED)
+def draw_cases(rng, count, keep):
+    """Random sites, stars and instants, kept where the true altitude passes `keep`."""
     cases = []
-    while len(cases) < CASES:
+    while len(cases) < count:
         lat = math.asin(rng.uniform(-math.sin(math.radians(75)), math.sin(math.radians(75))))
         lon = math.radians(rng.uniform(-180, 180))
         h = rng.uniform(0, 5000)
@@ -68,33 +60,27 @@ def main():
         utc1, utc2 = erfa.dtf2d("UTC", rng.randint(2020, 2034), rng.randint(1, 12), rng.randint(1, 28),
                                 rng.randint(0, 23), rng.randint(0, 59), 0.0)
         true_alt = altitude(utc1, utc2, ra, dec, lon, lat, h, 0.0, tc, rh, wl)
-        if true_alt <= 15:
+        if not keep(true_alt):
             continue
         observed_alt = altitude(utc1, utc2, ra, dec, lon, lat, h, phpa, tc, rh, wl)
         cases.append({"pressureHpa": phpa, "temperatureC": tc, "humidity": rh, "wavelengthUm": wl,
                       "trueAltDeg": true_alt, "observedAltDeg": observed_alt})
-    # Low altitudes, 5 to 15 degrees true: the same draw, from its own seed, kept only there. Below
-    # about 5 degrees ERFA's own series is no reference: atioq clamps tan Z near 20 (SELMIN = 0.05).
-    low_rng = random.Random(SEED + 1)
-    low = []
-    while len(low) < LOW_CASES:
-        lat = math.asin(low_rng.uniform(-math.sin(math.radians(75)), math.sin(math.radians(75))))
-        lon = math.radians(low_rng.uniform(-180, 180))
-        h = low_rng.uniform(0, 5000)
-        phpa, tstd = standard_atmosphere(h)
-        tc = tstd + low_rng.uniform(-8, 8)
-        rh = low_rng.uniform(0, 1)
-        wl = WAVELENGTHS_UM[len(low) % len(WAVELENGTHS_UM)]
-        ra = low_rng.uniform(0, 2 * math.pi)
-        dec = math.asin(low_rng.uniform(-1, 1))
-        utc1, utc2 = erfa.dtf2d("UTC", low_rng.randint(2020, 2034), low_rng.randint(1, 12),
-                                low_rng.randint(1, 28), low_rng.randint(0, 23), low_rng.randint(0, 59), 0.0)
-        true_alt = altitude(utc1, utc2, ra, dec, lon, lat, h, 0.0, tc, rh, wl)
-        if not (LOW_ALTITUDE_DEG <= true_alt <= 15):
-            continue
-        observed_alt = altitude(utc1, utc2, ra, dec, lon, lat, h, phpa, tc, rh, wl)
-        low.append({"pressureHpa": phpa, "temperatureC": tc, "humidity": rh, "wavelengthUm": wl,
-                    "trueAltDeg": true_alt, "observedAltDeg": observed_alt})
+    return cases
+
+
+def main():
+    constants = []
+    for phpa in [550.0, 620.0, 700.0, 780.0, 1010.0]:
+        for tc in [-5.0, 2.0, 10.0, 20.0]:
+            for rh in [0.0, 0.2, 0.5, 0.9]:
+                for wl in [0.55, 1.25, 1.65, 2.2]:
+                    a, b = erfa.refco(phpa, tc, rh, wl)
+                    constants.append({"pressureHpa": phpa, "temperatureC": tc, "humidity": rh,
+                                      "wavelengthUm": wl, "aRad": a, "bRad": b})
+    # Above 15 degrees; then 5 to 15 degrees from its own seed. Below about 5 degrees ERFA's own
+    # series is no reference: atioq clamps tan Z near 20 (SELMIN = 0.05).
+    cases = draw_cases(random.Random(SEED), CASES, lambda alt: alt > 15)
+    low = draw_cases(random.Random(SEED + 1), LOW_CASES, lambda alt: LOW_ALTITUDE_DEG <= alt <= 15)
     doc = {
         "source": "ERFA %s via python3-erfa %s, erfa.refco and erfa.atco13" % (erfa.version.erfa_version, erfa.__version__),
         "generator": "test/reference/erfa_refraction.py",
