@@ -14,10 +14,11 @@ import { FitRefusal } from '../../server/science/orbit/fit/index.ts';
 import { ConflictError, ImportRejected, NotFoundError } from '../../server/store/index.ts';
 
 const REPO = resolve(import.meta.dirname, '../..');
-/** Error classes that never reach HTTP as a status of their own: the CLI's usage error, the importer's private rollback signal, a nested transaction (a programming error: a 500), and a database start-up cannot migrate (the server does not start). */
+/** Error classes that never reach HTTP as a status of their own: the CLI's usage error, the importer's private rollback signals, a nested transaction (a programming error: a 500), and a database start-up cannot migrate (the server does not start). */
 const NOT_HTTP = [
   'server/cli/io.ts UsageError',
   'server/store/csv/import.ts Rollback',
+  'server/store/csv/import-measurements.ts SwapRefused',
   'server/store/write-gate.ts NestedTransaction',
   'server/store/migration-gaps.ts MigrationGap',
 ];
