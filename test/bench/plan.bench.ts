@@ -180,13 +180,13 @@ function periapsisCase() {
         elements: {
           periodYears: 12 + i,
           periapsis: `${addDays('2027-04-05', 6 * i)}T00:00:00Z`,
-          eccentricity: 0.85,
+          eccentricity: 0.8,
           semiMajorAxisArcsec: 0.1,
           inclinationDeg: 40 + i * 10,
           ascendingNodeDeg: 30 * i,
           argPeriapsisDeg: 20 * i,
         },
-        distancePc: 8000,
+        distancePc: 11_500,
         covariance: {
           parameters: ['periodYears', 'periapsisDays', 'eccentricity'],
           matrix: [

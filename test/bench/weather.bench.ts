@@ -43,19 +43,19 @@ function campaign() {
   const targets = Array.from({ length: 10 }, (_, i) => ({
     target: validateTarget({
       name: `W${i}`,
-      raDeg: 230 + i * 9,
-      decDeg: -35 + i * 2,
+      raDeg: 150 + i * 9,
+      decDeg: -48 + i * 2,
       orbit: {
         elements: {
           periodYears: 12 + i,
           periapsis: `J${2027.3 + i * 0.04}`,
-          eccentricity: 0.85,
+          eccentricity: 0.8,
           semiMajorAxisArcsec: 0.1 + i * 0.005,
           inclinationDeg: 40 + i * 10,
           ascendingNodeDeg: (i * 41) % 360,
           argPeriapsisDeg: (i * 67) % 360,
         },
-        distancePc: 8000,
+        distancePc: 11_500,
         relativity: {
           romer: true,
           gravitationalRedshift: true,

@@ -24,7 +24,7 @@ writeFileSync(
 writeFileSync(
   targetsFile,
   JSON.stringify([
-    { name: 'Tern-3', raDeg: 266.41, decDeg: -29.0 },
+    { name: 'Tern-3', raDeg: 271.3, decDeg: -25.1 },
     { name: 'Vireo A', raDeg: 30, decDeg: 80 },
   ]),
 );

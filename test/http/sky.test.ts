@@ -32,7 +32,7 @@ const orbit = {
   },
 };
 const targets = [
-  { name: 'Tern-3', raDeg: 266.41, decDeg: -29.0, orbit },
+  { name: 'Tern-3', raDeg: 271.3, decDeg: -25.1, orbit },
   { name: 'Vireo A', raDeg: 30, decDeg: 80 },
 ];
 
@@ -156,8 +156,8 @@ describe('POST /api/sky/season', () => {
     // Invented demo orbit: periapsis at 2027-07-10T00:00Z, which is the evening of 9 July in Chile (UTC−4).
     const plover = {
       name: 'Plover',
-      raDeg: 266.41,
-      decDeg: -29.0,
+      raDeg: 271.3,
+      decDeg: -25.1,
       orbit: {
         elements: {
           periodYears: 0.9,

@@ -30,7 +30,7 @@ const nightBody = {
   site,
   date: '2027-06-15',
   targets: [
-    { name: 'Tern-3', raDeg: 266.41, decDeg: -29.0 },
+    { name: 'Tern-3', raDeg: 271.3, decDeg: -25.1 },
     { name: 'Kite B', raDeg: 200, decDeg: -60 },
   ],
 };

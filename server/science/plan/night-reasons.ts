@@ -37,7 +37,7 @@ export interface NightReasonDetail {
   blockMinutes?: number;
   /** The limit that cut the longest run short ('too-short'), when one other than altitude did. */
   cutBy?: 'horizon-mask' | 'moon' | 'sun-distance';
-  /** The epochs that hold the night's time ('taken', 'kept-full'), e.g. "S2 astrometry (priority 3)". */
+  /** The epochs that hold the night's time ('taken', 'kept-full'), e.g. "Ilex astrometry (priority 3)". */
   takenBy?: string[];
   /** Minutes of the plan's share of the night still free, and what the block needs ('no-room'). */
   roomMinutes?: number;

@@ -13,13 +13,13 @@ const sigT = 3; // days
 const rhoPT = 0.4;
 const orbitInput = {
   elements: {
-    periodYears: 14.2,
+    periodYears: 11.3,
     periapsis: '2019-06-01T00:00:00Z',
-    eccentricity: 0.86,
+    eccentricity: 0.81,
     semiMajorAxisArcsec: 0.12,
-    inclinationDeg: 128,
-    ascendingNodeDeg: 221,
-    argPeriapsisDeg: 63,
+    inclinationDeg: 47,
+    ascendingNodeDeg: 318,
+    argPeriapsisDeg: 152,
   },
   distancePc: 16_000,
   covariance: {

@@ -14,15 +14,15 @@ import { CONSTRAINTS, SITE, safeAt } from './helpers.ts';
 const NOW = parseEpoch('2027-03-01T12:00:00Z');
 const orbit = (periapsis: string) => ({
   elements: {
-    periodYears: 16,
+    periodYears: 12.5,
     periapsis,
     eccentricity: 0.9,
     semiMajorAxisArcsec: 0.12,
-    inclinationDeg: 130,
-    ascendingNodeDeg: 230,
-    argPeriapsisDeg: 65,
+    inclinationDeg: 47,
+    ascendingNodeDeg: 318,
+    argPeriapsisDeg: 152,
   },
-  distancePc: 8000,
+  distancePc: 11_500,
   covariance: {
     parameters: ['periodYears', 'periapsisDays'] as const,
     matrix: [
@@ -45,8 +45,8 @@ describe('flags that read the plans', () => {
   const hidden = validateTarget({ name: 'Hid', ...hid });
   const seen = validateTarget({
     name: 'Seen',
-    raDeg: 266,
-    decDeg: -29.5,
+    raDeg: 258.7,
+    decDeg: -33.2,
     orbit: orbit('2027-06-10T00:00:00Z'),
   });
   const nights = ['2027-06-08', '2027-06-09', '2027-06-11'];

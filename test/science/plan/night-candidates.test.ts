@@ -15,15 +15,15 @@ import { SITE, isoToJd } from './helpers.ts';
 const LIMITS = validateLimits({ highestAirmass: 2.2, leastMoonDistanceDeg: 5 }, SITE);
 const orbit = (periapsis: string) => ({
   elements: {
-    periodYears: 16,
+    periodYears: 12.5,
     periapsis,
     eccentricity: 0.9,
     semiMajorAxisArcsec: 0.12,
-    inclinationDeg: 130,
-    ascendingNodeDeg: 230,
-    argPeriapsisDeg: 65,
+    inclinationDeg: 47,
+    ascendingNodeDeg: 318,
+    argPeriapsisDeg: 152,
   },
-  distancePc: 8000,
+  distancePc: 11_500,
   covariance: {
     parameters: ['periodYears', 'periapsisDays'] as const,
     matrix: [
@@ -36,8 +36,8 @@ const targets: SeasonTarget[] = [
   {
     target: validateTarget({
       name: 'Near',
-      raDeg: 266,
-      decDeg: -29.5,
+      raDeg: 258.7,
+      decDeg: -33.2,
       orbit: orbit('2027-06-10T05:00:00Z'),
     }),
     kinds: ['astrometry', 'spectroscopy'],

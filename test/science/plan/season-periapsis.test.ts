@@ -48,11 +48,11 @@ const fastOrbit = (
     periapsis,
     eccentricity: 0.9,
     semiMajorAxisArcsec: 0.12,
-    inclinationDeg: 130,
-    ascendingNodeDeg: 230,
-    argPeriapsisDeg: 65,
+    inclinationDeg: 47,
+    ascendingNodeDeg: 318,
+    argPeriapsisDeg: 152,
   },
-  distancePc: 8000,
+  distancePc: 11_500,
   covariance: {
     parameters: ['periodYears', 'periapsisDays', 'eccentricity', 'semiMajorAxisArcsec'],
     matrix: [
@@ -68,7 +68,7 @@ const star = (
   orbit: OrbitInput,
   extra: Partial<SeasonTarget> = {},
 ): SeasonTarget => ({
-  target: validateTarget({ name, raDeg: 266, decDeg: -29.5, orbit }),
+  target: validateTarget({ name, raDeg: 258.7, decDeg: -33.2, orbit }),
   kinds: ['astrometry'],
   cadenceDays: 30,
   ...extra,

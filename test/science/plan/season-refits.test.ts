@@ -67,7 +67,7 @@ const SITES: SeasonSite[] = [
   },
 ];
 const TARGET = {
-  target: validateTarget({ name: 'Wren', raDeg: 266, decDeg: -29, orbit: TRUTH }),
+  target: validateTarget({ name: 'Wren', raDeg: 258.7, decDeg: -33.2, orbit: TRUTH }),
   kinds: ['astrometry', 'spectroscopy'] as const,
   cadenceDays: 30,
   measurements: EXISTING,

@@ -24,19 +24,19 @@ const EAST = EAST_SITE;
 const PERI = '2027-06-10T00:00:00Z';
 const ORBIT: OrbitInput = {
   elements: {
-    periodYears: 16,
+    periodYears: 12.5,
     periapsis: PERI,
     eccentricity: 0.9,
     semiMajorAxisArcsec: 0.12,
-    inclinationDeg: 130,
-    ascendingNodeDeg: 230,
-    argPeriapsisDeg: 65,
+    inclinationDeg: 47,
+    ascendingNodeDeg: 318,
+    argPeriapsisDeg: 152,
   },
-  distancePc: 8000,
+  distancePc: 11_500,
   covariance: PASSAGE_KNOWN_TO_0_3_DAYS,
 };
 const STAR: SeasonTarget = {
-  target: validateTarget({ name: 'P1', raDeg: 266, decDeg: -29.5, orbit: ORBIT }),
+  target: validateTarget({ name: 'P1', raDeg: 258.7, decDeg: -33.2, orbit: ORBIT }),
   kinds: ['astrometry'],
   cadenceDays: 4,
 };

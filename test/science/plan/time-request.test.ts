@@ -24,18 +24,18 @@ const star = (name: string, ra: number) =>
   validateTarget({
     name,
     raDeg: ra,
-    decDeg: -29.5,
+    decDeg: -33.2,
     orbit: {
       elements: {
-        periodYears: 16,
+        periodYears: 12.5,
         periapsis: '2027-06-15T00:00:00Z',
         eccentricity: 0.9,
         semiMajorAxisArcsec: 0.12,
-        inclinationDeg: 130,
-        ascendingNodeDeg: 230,
-        argPeriapsisDeg: 65,
+        inclinationDeg: 47,
+        ascendingNodeDeg: 318,
+        argPeriapsisDeg: 152,
       },
-      distancePc: 8000,
+      distancePc: 11_500,
       covariance: {
         parameters: ['periodYears', 'periapsisDays', 'semiMajorAxisArcsec'],
         matrix: [

@@ -223,7 +223,7 @@ describe('a primary-velocity set that is not marked as such', () => {
   it('is not flagged around a compact object (no warning for a mass of millions of M☉)', () => {
     const heavy: OrbitInput = {
       ...truth,
-      distancePc: 8000,
+      distancePc: 11_500,
       elements: { ...elements, semiMajorAxisArcsec: 0.12 },
     };
     const r = new SeededRandom(4);

@@ -22,9 +22,9 @@ const truth = {
     periapsis: 'J2021.4',
     eccentricity: 0.9,
     semiMajorAxisArcsec: 0.12,
-    inclinationDeg: 130,
-    ascendingNodeDeg: 225,
-    argPeriapsisDeg: 65,
+    inclinationDeg: 47,
+    ascendingNodeDeg: 318,
+    argPeriapsisDeg: 152,
   },
 };
 const measurements = simulate(
