@@ -6,6 +6,7 @@ declare module 'vitest' {
   export interface ProvidedContext {
     baseUrl: string;
     leadToken: string;
+    databaseUrl: string;
   }
 }
 
@@ -14,5 +15,6 @@ export default async function setup(project: TestProject) {
   const server = await startServer();
   project.provide('baseUrl', server.url);
   project.provide('leadToken', server.token);
+  project.provide('databaseUrl', server.databaseUrl);
   return () => server.stop();
 }

@@ -40,6 +40,8 @@ export async function buildClient(): Promise<void> {
 export interface RunningServer {
   url: string;
   token: string;
+  /** The server's database, for tests that store a row as an older version would have. */
+  databaseUrl: string;
   stop(): Promise<void>;
 }
 
@@ -47,13 +49,14 @@ export interface RunningServer {
 export async function startServer(): Promise<RunningServer> {
   const dir = mkdtempSync(join(tmpdir(), 'epochwright-e2e-'));
   const tsx = join(REPO, 'node_modules/tsx/dist/cli.mjs');
+  const databaseUrl = `file:${join(dir, 'e2e.db')}`;
   const child: ChildProcess = spawn(process.execPath, [tsx, 'server/main.ts'], {
     cwd: REPO,
     env: {
       ...process.env,
       PORT: '0',
       HOST: '127.0.0.1',
-      DATABASE_URL: `file:${join(dir, 'e2e.db')}`,
+      DATABASE_URL: databaseUrl,
       EPOCHWRIGHT_DEMO: '1',
       EPOCHWRIGHT_NOW: TEST_NOW,
       EPOCHWRIGHT_CHECK_RESPONSES: '1',
@@ -86,6 +89,7 @@ export async function startServer(): Promise<RunningServer> {
   return {
     url,
     token,
+    databaseUrl,
     async stop() {
       if (child.exitCode === null) {
         const exited = new Promise((r) => child.once('exit', r));

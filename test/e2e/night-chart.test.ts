@@ -6,6 +6,7 @@
  * to test-output/e2e/ for review.
  */
 import { join } from 'node:path';
+import { createClient } from '@libsql/client';
 import { DateTime } from 'luxon';
 import type { Page } from 'playwright-core';
 import { describe, expect, inject, test } from 'vitest';
@@ -52,6 +53,31 @@ async function nightWithWindows(): Promise<{ id: number; vis: Visibility; blocks
       return { id: n.id, vis, blocks };
   }
   throw new Error('no demo night with a window and a block');
+}
+
+/** A new night of a campaign, on a free date of its first site, and a demo target outside that campaign. */
+async function strayNight(): Promise<{ night: { id: number }; outsider: number }> {
+  const campaigns = (
+    await api<{ items: { id: number; siteIds: number[]; targetIds: number[] }[] }>(
+      '/campaigns?limit=500',
+    )
+  ).items;
+  const host = campaigns.find((c) =>
+    campaigns.some((o) => o.targetIds.some((t) => !c.targetIds.includes(t))),
+  )!;
+  const outsider = campaigns.flatMap((c) => c.targetIds).find((t) => !host.targetIds.includes(t))!;
+  const taken = new Set(
+    (await api<{ items: { siteId: number; date: string }[] }>('/nights?limit=500')).items
+      .filter((n) => n.siteId === host.siteIds[0])
+      .map((n) => n.date),
+  );
+  let date = '2027-01-10';
+  while (taken.has(date)) date = new Date(Date.parse(date) + 86_400_000).toISOString().slice(0, 10);
+  const night = await api<{ id: number }>('/nights', {
+    method: 'POST',
+    body: { siteId: host.siteIds[0], campaignId: host.id, date },
+  });
+  return { night, outsider };
 }
 
 describe('the night chart', () => {
@@ -218,32 +244,10 @@ describe('the night chart', () => {
   });
 
   test('a block of a target outside the night’s campaign is refused, naming both; nothing is stored', async () => {
-    const campaigns = (
-      await api<{ items: { id: number; siteIds: number[]; targetIds: number[] }[] }>(
-        '/campaigns?limit=500',
-      )
-    ).items;
-    const host = campaigns.find((c) =>
-      campaigns.some((o) => o.targetIds.some((t) => !c.targetIds.includes(t))),
-    )!;
-    const outsider = campaigns
-      .flatMap((c) => c.targetIds)
-      .find((t) => !host.targetIds.includes(t))!;
-    const taken = new Set(
-      (await api<{ items: { siteId: number; date: string }[] }>('/nights?limit=500')).items
-        .filter((n) => n.siteId === host.siteIds[0])
-        .map((n) => n.date),
-    );
-    let date = '2027-01-10';
-    while (taken.has(date))
-      date = new Date(Date.parse(date) + 86_400_000).toISOString().slice(0, 10);
-    const night = await api<{ id: number }>('/nights', {
-      method: 'POST',
-      body: { siteId: host.siteIds[0], campaignId: host.id, date },
-    });
+    const { night, outsider } = await strayNight();
     try {
       // The store refuses such a block (server/store/repos/block-rules.ts); the chart's separate
-      // lane for one is left for rows stored before that rule.
+      // lane for one is left for rows stored before that rule (the next test).
       const vis = await api<Visibility>(`/nights/${night.id}/visibility?curves=true`);
       const start = Date.parse(vis.darkness.intervals[0]!.start.utc) + 3_600_000;
       const before = (await api<{ items: BlockRow[] }>(`/blocks?nightId=${night.id}`)).items;
@@ -262,6 +266,58 @@ describe('the night chart', () => {
         before,
       );
     } finally {
+      await api(`/nights/${night.id}`, { method: 'DELETE' });
+    }
+  });
+
+  test('a stored block of a target outside the night’s campaign (an older database’s row) is drawn in a lane of its own', async () => {
+    const { night, outsider } = await strayNight();
+    // Written straight into the table, as a database from before the campaign-target rule holds it.
+    const db = createClient({ url: inject('databaseUrl') });
+    let blockId: number | undefined;
+    try {
+      const vis = await api<Visibility>(`/nights/${night.id}/visibility?curves=true`);
+      const start = Date.parse(vis.darkness.intervals[0]!.start.utc) + 3_600_000;
+      const end = start + 2_400_000;
+      const at = new Date().toISOString();
+      const row = await db.execute({
+        sql: `INSERT INTO blocks (night_id, target_id, kind, start_utc, end_utc, created_at, updated_at)
+              VALUES (?, ?, 'astrometry', ?, ?, ?, ?) RETURNING id`,
+        args: [
+          night.id,
+          outsider,
+          new Date(start).toISOString(),
+          new Date(end).toISOString(),
+          at,
+          at,
+        ],
+      });
+      blockId = Number(row.rows[0]!.id);
+      const { page, errors } = await open(`/nights/${night.id}`);
+      const bar = page.locator(`svg.night-chart .stray-lane .block-bar[data-block="${blockId}"]`);
+      await bar.waitFor();
+      // Its own lane, below the night's target lanes, named as such; not in any target's lane.
+      await expect(
+        page.locator('svg.night-chart .stray-lane .lane-name').textContent(),
+      ).resolves.toBe('other targets');
+      expect(
+        await page
+          .locator(`svg.night-chart .target-lane .block-bar[data-block="${blockId}"]`)
+          .count(),
+      ).toBe(0);
+      const x = await screenX(page, vis);
+      const [l, r] = await svgEdges(bar);
+      expect(Math.abs(l - x(start))).toBeLessThanOrEqual(1);
+      expect(Math.abs(r - x(end))).toBeLessThanOrEqual(1);
+      await page
+        .locator('svg.night-chart')
+        .screenshot({ path: join(SCREENSHOTS, 'night-stray-lane.png') });
+      expect(errors).toEqual([]);
+      await page.close();
+    } finally {
+      if (blockId !== undefined)
+        await db.execute({ sql: 'DELETE FROM blocks WHERE id = ?', args: [blockId] });
+      db.close();
       await api(`/nights/${night.id}`, { method: 'DELETE' });
     }
   });
