@@ -45,7 +45,7 @@ const PAST: MeasurementInput[] = Array.from({ length: 10 }, (_, k) => {
   ] as MeasurementInput[];
 }).flat();
 const STAR: SeasonTarget = {
-  target: validateTarget({ name: 'Tamsin', raDeg: 266, decDeg: -29.5, orbit: ORBIT }),
+  target: validateTarget({ name: 'Tamsin', raDeg: 258.7, decDeg: -33.2, orbit: ORBIT }),
   kinds: ['astrometry', 'spectroscopy'],
   cadenceDays: 20,
   measurements: PAST,
