@@ -42,7 +42,7 @@ const rule = <E extends Error>(
 
 /** The statuses hono's own exceptions carry, in our codes and words. */
 function fromHonoException(err: HTTPException): HttpError {
-  const status = err.status as number;
+  const status: number = err.status;
   if (status === 413)
     return new HttpError(
       413,
