@@ -236,7 +236,7 @@ describe('every record from the client', () => {
         `system,target,periodYears,periapsis,eccentricity,semiMajorAxisArcsec,inclinationDeg,ascendingNodeDeg,argPeriapsisDeg,sigmaPeriodYears,sigmaEccentricity,correlations\n${system.name},${t.name},21.5,2031.3,0.61,0.085,71,140,310,0.2,0.02,periodYears/eccentricity=-0.25\n`,
       );
     await imp.getByRole('button', { name: 'Import all rows' }).click();
-    await imp.getByText(/1 rows imported/).waitFor();
+    await imp.getByText(/^1 row imported/).waitFor();
     const latest = (await solutionsOf(t.id)).find((s) => s.current)!;
     expect(latest.orbit.covariance!.matrix[0]![1]).toBeCloseTo(-0.25 * 0.2 * 0.02, 12);
     await ctx.close();

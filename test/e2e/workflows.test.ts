@@ -459,6 +459,12 @@ describe('fitting from the target page', () => {
     await page.getByRole('button', { name: 'Fit the stored measurements' }).click();
     await page.locator('table.fit-parameters tbody tr').first().waitFor();
     await page.locator('svg.sky-plane path.track-compare').waitFor();
+    // Parameters in words; T as its UTC date with the JD to a hundredth, never a whole JD.
+    const rows = await page.locator('table.fit-parameters tbody tr').allInnerTexts();
+    expect(rows.join('\n')).not.toMatch(/\b[a-z]+[A-Z]\w*\b/);
+    expect(rows.find((r) => /, T\b/.test(r))).toMatch(
+      /\d{4}-\d\d-\d\d \d\d:\d\d UTC \(JD \d+\.\d\d\)/,
+    );
     await expect(page.locator('#solutions').textContent()).resolves.toMatch(
       /χ² [\d.]+ for \d+ degrees of freedom/,
     );

@@ -11,6 +11,8 @@ export const zoneAbbrev = (iso: string, zone: string) => utc(iso).setZone(zone).
 export const dateText = (iso: string) => utc(iso).toFormat('yyyy-LL-dd');
 export const ms = (iso: string) => Date.parse(iso);
 export const isoOf = (msUtc: number) => new Date(msUtc).toISOString();
+/** A Julian Date (UTC) as the instant it names, ISO 8601. */
+export const isoOfJd = (jd: number) => isoOf((jd - 2440587.5) * 86_400_000);
 
 /** Today's date in a zone, YYYY-MM-DD. */
 export const todayIn = (zone: string) => DateTime.now().setZone(zone).toISODate() ?? '';

@@ -3,11 +3,12 @@
  * nothing stored), compare the fitted track with the current one on the sky plane, and as a lead
  * store the fit as the target's new current solution version (earlier versions stay).
  */
+import { plural } from '../lib/words.ts';
 import { useState } from 'preact/hooks';
 import { api, type Answer } from '../api/client.ts';
 import { invalidateCatalogue } from '../api/catalogue.ts';
 import type { Prediction } from '../api/client.ts';
-import { utcText } from '../lib/time.ts';
+import { isoOfJd, utcText } from '../lib/time.ts';
 import { fieldWords } from '../lib/field-words.ts';
 import { valueText } from '../lib/numbers.ts';
 import { ErrorLine, Qty, useCan } from '../lib/ui.tsx';
@@ -91,11 +92,11 @@ export function FitPanel({
       {r && (
         <>
           <p>
-            {fit!.targets[0]?.measurementIds.length} measurements · χ²{' '}
+            {plural(fit!.targets[0]?.measurementIds.length ?? 0, 'measurement')} · χ²{' '}
             <Qty v={r.chi2} unit="" digits={2} /> for {r.dof} degrees of freedom (reduced{' '}
             <Qty v={r.reducedChi2} unit="" digits={2} />) ·{' '}
-            {r.converged ? `converged in ${r.iterations} iterations` : 'did not converge'} ·{' '}
-            {r.outliers} outliers
+            {r.converged ? `converged in ${plural(r.iterations, 'iteration')}` : 'did not converge'}{' '}
+            · {plural(r.outliers, 'outlier')}
             {r.stars[0]?.nextPeriapsis && (
               <> · next periapsis {utcText(r.stars[0].nextPeriapsis)} UTC</>
             )}
@@ -114,10 +115,14 @@ export function FitPanel({
               {r.parameters.map((p) => (
                 <tr key={p.name}>
                   <td>{fieldWords(p.name)}</td>
-                  {/* The value to the digits its σ supports (T as a JD keeps its fraction of a day). */}
-                  <td>{valueText(p.value, p.sigma).split(' ± ')[0]}</td>
+                  {/* The value to the digits its σ supports; an epoch as its UTC date, σ in days. */}
+                  <td>
+                    {p.unit.startsWith('JD')
+                      ? `${utcText(isoOfJd(p.value))} UTC (JD ${p.value.toFixed(2)})`
+                      : valueText(p.value, p.sigma).split(' ± ')[0]}
+                  </td>
                   <td>{valueText(p.sigma, null, 2)}</td>
-                  <td>{p.unit}</td>
+                  <td>{p.unit.startsWith('JD') ? 'date; σ in days' : p.unit}</td>
                 </tr>
               ))}
             </tbody>

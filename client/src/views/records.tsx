@@ -17,6 +17,7 @@ import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
 import { OrbitExport } from './orbit-export.tsx';
 import { RELATIVITY_WORDS } from '../lib/numbers.ts';
+import { plural } from '../lib/words.ts';
 
 type Row = Record<string, unknown> & { id: number };
 interface Column {
@@ -277,12 +278,12 @@ function CsvImport({ onDone }: { onDone: () => void }) {
         >
           {report.problems.length ? (
             <p>
-              {report.problems.length} problem{report.problems.length === 1 ? '' : 's'} in{' '}
-              {report.rows} rows; nothing was written.
+              {plural(report.problems.length, 'problem')} in {plural(report.rows, 'row')}; nothing
+              was written.
             </p>
           ) : (
             <p>
-              {report.rows} rows{' '}
+              {plural(report.rows, 'row')}{' '}
               {report.dryRun
                 ? 'checked, all good; nothing written yet'
                 : `imported (${report.written} written)`}
