@@ -10937,6 +10937,12 @@ export interface components {
             /** @description bins of the night’s seeing, arcsec */
             bySeeing: components["schemas"]["PrecisionBin"][];
             byAirmass: components["schemas"]["PrecisionBin"][];
+            /** @description seeing (rows, arcsec) and airmass (cells) together: measurements and median σ per cell */
+            bySeeingAndAirmass: {
+                seeingLow: number;
+                seeingHigh: number | null;
+                byAirmass: components["schemas"]["PrecisionBin"][];
+            }[];
             /** @description the zenith σ at the median seeing that σ ∝ seeing · X^0.6 implies (the planner’s precision model) */
             zenith: {
                 sigma: number;

@@ -285,6 +285,42 @@ export function SiteView({ id }: { id: number }) {
             </tbody>
           </table>
         )}
+        {data.precision
+          .filter((p) => p.bySeeingAndAirmass.some((r) => r.byAirmass.some((c) => c.n > 0)))
+          .map((p) => (
+            <table key={`joint ${p.kind} ${p.instrument}`} class="joint-precision">
+              <caption>
+                {p.instrument}, {p.kind}: median σ ({p.unit}) and measurements, by seeing and
+                airmass together
+              </caption>
+              <thead>
+                <tr>
+                  <th>seeing \ airmass</th>
+                  {p.bySeeingAndAirmass[0]!.byAirmass.map((c) => (
+                    <th key={c.low}>{c.high === null ? `≥ ${c.low}` : `${c.low}–${c.high}`}</th>
+                  ))}
+                </tr>
+              </thead>
+              <tbody>
+                {p.bySeeingAndAirmass.map((r) => (
+                  <tr key={r.seeingLow}>
+                    <th>
+                      {r.seeingHigh === null
+                        ? `≥ ${r.seeingLow}″`
+                        : `${r.seeingLow}–${r.seeingHigh}″`}
+                    </th>
+                    {r.byAirmass.map((c) => (
+                      <td key={c.low}>
+                        {c.n > 0 && c.medianSigma !== null
+                          ? `${c.medianSigma.toFixed(2)} (${c.n})`
+                          : '—'}
+                      </td>
+                    ))}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          ))}
         <p class="muted">
           Implied zenith σ: the median of σ scaled to the zenith (X^0.6) and to the median seeing —
           the planner’s precision model, read back from what was reached.

@@ -65,6 +65,28 @@ const precisionColumns: Column<Achieved>[] = [
   },
 ];
 
+const range = (low: number, high: number | null, unit = '') =>
+  high === null ? `≥ ${low}${unit}` : `${low}–${high}${unit}`;
+
+/** Median σ (and count) by seeing (rows) and airmass (columns) together. */
+function jointTable(p: Achieved): string {
+  const heads = p.bySeeingAndAirmass[0]?.byAirmass ?? [];
+  const rows = p.bySeeingAndAirmass.map((r) => ({
+    seeing: range(r.seeingLow, r.seeingHigh, '″'),
+    cells: r.byAirmass.map((c) =>
+      c.n > 0 && c.medianSigma !== null ? `${c.medianSigma.toFixed(2)} (${c.n})` : '—',
+    ),
+  }));
+  const columns: Column<(typeof rows)[number]>[] = [
+    { header: 'seeing', value: (r) => r.seeing },
+    ...heads.map((c, k) => ({
+      header: `X ${range(c.low, c.high)}`,
+      value: (r: (typeof rows)[number]) => r.cells[k]!,
+    })),
+  ];
+  return `${p.instrument}, ${p.kind}: median σ (${p.unit}) and measurements by seeing and airmass together\n${formatTable(rows, columns)}`;
+}
+
 export const siteStatisticsCommand: Command = {
   summary: 'what a site’s log has learned: time lost per month, seeing, precision reached',
   help,
@@ -111,6 +133,7 @@ export const siteStatisticsCommand: Command = {
       stats.precision.length
         ? formatTable(stats.precision, precisionColumns)
         : 'no measurements linked to this site’s blocks\n',
+      ...stats.precision.map(jointTable),
     ].join('\n');
   },
 };

@@ -102,6 +102,20 @@ export const SiteStatisticsSchema = z
             .array(BinSchema)
             .openapi({ description: 'bins of the night’s seeing, arcsec' }),
           byAirmass: z.array(BinSchema),
+          bySeeingAndAirmass: z
+            .array(
+              z
+                .object({
+                  seeingLow: z.number(),
+                  seeingHigh: z.number().nullable(),
+                  byAirmass: z.array(BinSchema),
+                })
+                .strict(),
+            )
+            .openapi({
+              description:
+                'seeing (rows, arcsec) and airmass (cells) together: measurements and median σ per cell',
+            }),
           zenith: z
             .object({
               sigma: z.number(),

@@ -108,6 +108,8 @@ export interface AchievedPrecision {
   medianSigma: number;
   bySeeing: PrecisionBin[];
   byAirmass: PrecisionBin[];
+  /** Seeing and airmass together: a row per seeing bin (SEEING_BINS), its cells the airmass bins (AIRMASS_BINS). */
+  bySeeingAndAirmass: { seeingLow: number; seeingHigh: number | null; byAirmass: PrecisionBin[] }[];
   /**
    * The zenith σ at the reference seeing that the planner's model (σ ∝ seeing · X^0.6) implies:
    * the median of σ · (reference / seeing) · X^−0.6 over measurements with both known; null with none.
@@ -278,6 +280,23 @@ export function achievedPrecision(
           AIRMASS_BINS,
           list.map((m) => ({ x: m.airmass, sigma: m.sigma })),
         ),
+        bySeeingAndAirmass: SEEING_BINS.map((seeingLow, i) => {
+          const seeingHigh = SEEING_BINS[i + 1] ?? null;
+          const row = list.filter(
+            (m) =>
+              m.seeingArcsec !== null &&
+              m.seeingArcsec >= seeingLow &&
+              (seeingHigh === null || m.seeingArcsec < seeingHigh),
+          );
+          return {
+            seeingLow,
+            seeingHigh,
+            byAirmass: bins(
+              AIRMASS_BINS,
+              row.map((m) => ({ x: m.airmass, sigma: m.sigma })),
+            ),
+          };
+        }),
         zenith,
       };
     })

@@ -158,5 +158,14 @@ describe('spreads and achieved precision', () => {
     expect(p!.zenith!.sigma).toBeCloseTo(0.8, 10);
     expect(p!.bySeeing.map((b) => b.n)).toEqual([1, 3, 1, 0]);
     expect(p!.byAirmass.map((b) => b.n)).toEqual([2, 1, 1, 1]);
+    // constructed case, seeing rows × airmass cells: (0.5, 1.0) | (0.6, 1.3), (0.7, 1.6), (0.6, 1.1) | (1.0, 2.1)
+    expect(p!.bySeeingAndAirmass.map((r) => r.byAirmass.map((b) => b.n))).toEqual([
+      [1, 0, 0, 0],
+      [1, 1, 1, 0],
+      [0, 0, 0, 1],
+      [0, 0, 0, 0],
+    ]);
+    const cell = p!.bySeeingAndAirmass[1]!.byAirmass[1]!;
+    expect(cell.medianSigma).toBeCloseTo(0.8 * (0.6 / 0.6) * 1.3 ** 0.6, 12);
   });
 });
