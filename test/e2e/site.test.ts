@@ -16,6 +16,9 @@ interface Stats {
   year: { nights: number };
   months: { month: number; nights: number; clearProbability: number }[];
   priors: ({ clearFraction: number; strengthNights: number } | null)[];
+  precision: {
+    bySeeingAndAirmass: { byAirmass: { n: number; medianSigma: number | null }[] }[];
+  }[];
 }
 
 describe('the site page', () => {
@@ -34,6 +37,21 @@ describe('the site page', () => {
     }
     expect(await page.locator('.site-months tbody tr').count()).toBe(12);
     expect(await page.locator('.site-view').textContent()).not.toMatch(/NaN|undefined|null/);
+    // The joint seeing × airmass table shows the API's cells, an instrument per table.
+    const joint = stats.precision.filter((p) =>
+      p.bySeeingAndAirmass.some((r) => r.byAirmass.some((c) => c.n > 0)),
+    );
+    expect(joint.length).toBeGreaterThan(0); // the demo's site has measurements with seeing logged
+    expect(await page.locator('.joint-precision').count()).toBe(joint.length);
+    expect(
+      await page.locator('.joint-precision').first().locator('tbody td').allTextContents(),
+    ).toEqual(
+      joint[0]!.bySeeingAndAirmass.flatMap((r) =>
+        r.byAirmass.map((c) =>
+          c.n > 0 && c.medianSigma !== null ? `${c.medianSigma.toFixed(2)} (${c.n})` : '—',
+        ),
+      ),
+    );
     expect(await page.locator('.site-summary').textContent()).toContain(
       `${stats.year.nights} night reports`,
     );
