@@ -20,7 +20,10 @@ import type { NightSpan } from './night.ts';
 import type { Site } from './site.ts';
 import { unitFromRaDec, type Vec3 } from './vectors.ts';
 
-/** Solar altitudes (degrees, centre, no refraction) that end each twilight. Explanatory Supplement to the Astronomical Almanac. */
+/**
+ * Solar altitudes (degrees, centre, no refraction) that end each twilight. Explanatory Supplement to
+ * the Astronomical Almanac.
+ */
 export const TWILIGHT_SUN_ALTITUDE_DEG = { civil: -6, nautical: -12, astronomical: -18 } as const;
 export type TwilightKind = keyof typeof TWILIGHT_SUN_ALTITUDE_DEG;
 
@@ -95,7 +98,10 @@ export interface MoonNight {
   transitJd: number | null;
   /** Illuminated fraction of the disc at local solar midnight, [0, 1]. */
   illuminatedFraction: number;
-  /** Moon − Sun ecliptic longitude at local solar midnight, degrees: 0 new, 90 first quarter, 180 full, 270 last quarter. */
+  /**
+   * Moon − Sun ecliptic longitude at local solar midnight, degrees: 0 new, 90 first quarter, 180 full,
+   * 270 last quarter.
+   */
   phaseDeg: number;
 }
 

@@ -50,10 +50,16 @@ export function keptBecause(
   return null;
 }
 
-/** How far before the server's clock an accept's `at` may lie: clock skew between a client and the server, not more (common practice, no source). */
+/**
+ * How far before the server's clock an accept's `at` may lie: clock skew between a client and the
+ * server, not more (common practice, no source).
+ */
 export const ACCEPT_AT_TOLERANCE_MINUTES = 2;
 
-/** Refuse an accept whose moment lies before the server's clock (less the tolerance): blocks begun since then would be replaced. */
+/**
+ * Refuse an accept whose moment lies before the server's clock (less the tolerance): blocks begun
+ * since then would be replaced.
+ */
 export function requireAcceptMoment(atJd: number, clockMs: number = nowMs()): void {
   const earliest = clockMs - ACCEPT_AT_TOLERANCE_MINUTES * 60_000;
   if (jdToUnixMs(atJd) < earliest) {
@@ -193,7 +199,10 @@ export async function lastEpochs(
   return out;
 }
 
-/** A short fingerprint of what a plan would write and replace: accept with it to be sure nothing changed since the preview. */
+/**
+ * A short fingerprint of what a plan would write and replace: accept with it to be sure nothing
+ * changed since the preview.
+ */
 export function planDigest(value: unknown): string {
   return createHash('sha256').update(JSON.stringify(value)).digest('hex').slice(0, 16);
 }
