@@ -96,3 +96,23 @@ export async function asOptions<T>(
     );
   }
 }
+
+/**
+ * Every stored record is named by `--<record>-id` in every command (`--campaign-id`, `--site-id`,
+ * `--night-id`, `--target-id`, `--system-id`, `--token-id`). The spellings used before are
+ * refused by name, with the one to use; `--site` stays where it means a site given as JSON
+ * (`night`, `season`), where it is a known option and never reaches this rule.
+ */
+export const RETIRED_ID_OPTIONS: Readonly<Record<string, string>> = {
+  campaign: 'campaign-id',
+  site: 'site-id',
+  night: 'night-id',
+  id: 'token-id',
+};
+
+/** The message for an unknown option that is a retired id spelling, or null for any other. */
+export function retiredIdOption(message: string): string | null {
+  const m = /Unknown option '--([a-z-]+)'/.exec(message);
+  const now = m ? RETIRED_ID_OPTIONS[m[1]!] : undefined;
+  return now ? `--${m![1]} is now --${now} (every id option is --<record>-id)` : null;
+}

@@ -3,6 +3,7 @@
  * and store functions as the server. Exit codes: 0 success, 2 bad usage or input, 1 anything else.
  */
 import { InputError } from '../science/errors.ts';
+import { retiredIdOption } from './args.ts';
 import { UsageError, type Command } from './io.ts';
 import { commands } from './commands/index.ts';
 
@@ -41,7 +42,7 @@ export async function main(argv: string[]): Promise<number> {
       err instanceof TypeError &&
       (err as NodeJS.ErrnoException).code?.startsWith('ERR_PARSE_ARGS')
     ) {
-      process.stderr.write(`epochwright ${name}: ${err.message}\n`);
+      process.stderr.write(`epochwright ${name}: ${retiredIdOption(err.message) ?? err.message}\n`);
       return 2;
     }
     process.stderr.write(

@@ -50,7 +50,7 @@ afterAll(() => {
 const season = (...args: string[]) =>
   cli([
     'plan-season',
-    '--campaign',
+    '--campaign-id',
     '1',
     '--start',
     MONTH[0]!,
@@ -112,7 +112,7 @@ describe('epochwright plan-season', () => {
         ['--start', '2025-01-01'],
         /--start: "2025-01-01" must be a date within the campaign's dates/,
       ],
-      [['--site', '9'], /--site\.0: 9 must be one of the campaign's sites/],
+      [['--site-id', '9'], /--site-id\.0: 9 must be one of the campaign's sites/],
       [['--settings', '{"fillFraction": 3}'], /--settings fillFraction: 3 must lie in \(0, 1\]/],
       [['--settings', '{"colour": 1}'], /unknown setting "colour"/],
       [
@@ -125,7 +125,7 @@ describe('epochwright plan-season', () => {
     for (const [args, message] of cases) {
       const res = await cli([
         'plan-season',
-        '--campaign',
+        '--campaign-id',
         '1',
         '--start',
         MONTH[0]!,
@@ -148,7 +148,7 @@ describe('epochwright plan-night', () => {
     const id = await nightId(DENSE[0]!);
     const res = await cli([
       'plan-night',
-      '--night',
+      '--night-id',
       String(id),
       ...AT,
       '--remove',
@@ -162,14 +162,15 @@ describe('epochwright plan-night', () => {
     );
     expect(res.stdout).toMatch(/left out:\n {2}Sorrel:spectroscopy: removed by the user/);
     const json = JSON.parse(
-      (await cli(['plan-night', '--night', String(id), ...AT, '--json', '--database', url])).stdout,
+      (await cli(['plan-night', '--night-id', String(id), ...AT, '--json', '--database', url]))
+        .stdout,
     );
     const last = json.schedule.blocks.at(-1);
     const pinned = JSON.parse(
       (
         await cli([
           'plan-night',
-          '--night',
+          '--night-id',
           String(id),
           ...AT,
           '--pin',
@@ -192,7 +193,7 @@ describe('epochwright plan-night', () => {
     const before = await tableCounts(store);
     const bad = await cli([
       'plan-night',
-      '--night',
+      '--night-id',
       String(id),
       '--pin',
       `${HEADLINE}:astrometry@${noonAfter}`,
@@ -205,7 +206,7 @@ describe('epochwright plan-night', () => {
     expect(await tableCounts(store)).toEqual(before);
     const past = await cli([
       'plan-night',
-      '--night',
+      '--night-id',
       String(id),
       ...AT,
       '--accept',
@@ -217,7 +218,7 @@ describe('epochwright plan-night', () => {
     expect(await tableCounts(store)).toEqual(before);
     const res = await cli([
       'plan-night',
-      '--night',
+      '--night-id',
       String(id),
       '--accept',
       '--json',

@@ -27,12 +27,12 @@ afterAll(() => {
 
 describe('epochwright site-statistics', () => {
   it('prints every month with the nights it rests on, and JSON with the rule', async () => {
-    const table = await cli(['site-statistics', '--site', '1', '--database', url]);
+    const table = await cli(['site-statistics', '--site-id', '1', '--database', url]);
     expect(table.code, table.stderr).toBe(0);
     expect(table.stdout).toMatch(/^Tolvane Ridge: \d+ night reports/);
     for (const m of ['Jan', 'Jun', 'Dec']) expect(table.stdout).toContain(`\n${m} `);
     expect(table.stdout).toContain('AO imager (demo)');
-    const json = await cli(['site-statistics', '--site', '1', '--json', '--database', url]);
+    const json = await cli(['site-statistics', '--site-id', '1', '--json', '--database', url]);
     const s = JSON.parse(json.stdout) as {
       months: { nights: number; loss: { prior: string } }[];
       year: { nights: number };
@@ -50,7 +50,7 @@ describe('epochwright site-statistics', () => {
     writeFileSync(good, 'month,clear_fraction,strength_nights\n3,0.9,20\n4,0.8\n');
     const r = await cli([
       'site-statistics',
-      '--site',
+      '--site-id',
       '2',
       '--set-prior',
       good,
@@ -68,12 +68,28 @@ describe('epochwright site-statistics', () => {
     const before = await tableCounts(store);
     const bad = join(dir, 'bad.csv');
     writeFileSync(bad, 'month,clear_fraction\n3,0.9\n4,0,8\n');
-    const b = await cli(['site-statistics', '--site', '2', '--set-prior', bad, '--database', url]);
+    const b = await cli([
+      'site-statistics',
+      '--site-id',
+      '2',
+      '--set-prior',
+      bad,
+      '--database',
+      url,
+    ]);
     expect(b.code).toBe(2);
     expect(b.stdout).toBe('');
     expect(b.stderr).toMatch(/CSV|line 3/);
     writeFileSync(bad, 'month,clear_fraction\n3,0.9\n4,1.8\n');
-    const c = await cli(['site-statistics', '--site', '2', '--set-prior', bad, '--database', url]);
+    const c = await cli([
+      'site-statistics',
+      '--site-id',
+      '2',
+      '--set-prior',
+      bad,
+      '--database',
+      url,
+    ]);
     expect(c.code).toBe(2);
     expect(c.stderr).toContain('line 3 clearFraction');
     expect(await tableCounts(store)).toEqual(before);

@@ -80,7 +80,7 @@ describe('store commands', () => {
       [Number(id), 'laptop', null],
     ]); // the two tokens made for this user in these tests
     expect(JSON.stringify(listed)).not.toContain(secret!); // secrets are shown once, never listed
-    expect(await run('account', 'revoke', '--id', id!)).toMatch(
+    expect(await run('account', 'revoke', '--token-id', id!)).toMatch(
       new RegExp(`revoked token ${id} \\("laptop"\\) of "night lead" at \\d{4}-\\d\\d-\\d\\dT`),
     );
     const store = createStore(await openDatabase({ url }));
@@ -89,10 +89,12 @@ describe('store commands', () => {
     expect(await run('account', 'tokens')).toMatch(
       new RegExp(`\\n\\s*${id}\\s+night lead\\s+lead\\s+laptop\\s+\\S+Z\\s+\\S+Z`),
     ); // table row with both dates
-    const again = await run('account', 'revoke', '--id', id!).catch((e: unknown) => e);
+    const again = await run('account', 'revoke', '--token-id', id!).catch((e: unknown) => e);
     expect(again).toBeInstanceOf(InputError); // exit 2: bad input, not a failure
-    expect((again as InputError).field).toBe('--id');
-    await expect(run('account', 'revoke', '--id', 'first')).rejects.toBeInstanceOf(InputError);
+    expect((again as InputError).field).toBe('--token-id');
+    await expect(run('account', 'revoke', '--token-id', 'first')).rejects.toBeInstanceOf(
+      InputError,
+    );
     await expect(run('account', 'revoke')).rejects.toBeInstanceOf(UsageError);
     await expect(run('account', 'tokens', '--name', 'nobody here')).rejects.toBeInstanceOf(
       InputError,
@@ -171,7 +173,7 @@ describe('store commands', () => {
     );
     const missing = `file:${join(dir, 'nowhere', 'epochwright.db')}`;
     const refused = await Promise.resolve(
-      commands.flags!.run(['--campaign', '1', '--database', missing]),
+      commands.flags!.run(['--campaign-id', '1', '--database', missing]),
     ).catch((e: unknown) => e);
     expect(refused).toBeInstanceOf(InputError);
     expect((refused as InputError).rule).toMatch(/names no database/);

@@ -60,7 +60,7 @@ describe('GET /api/campaigns/{id}/flags', () => {
     try {
       code = await main([
         'flags',
-        '--campaign',
+        '--campaign-id',
         '1',
         '--at',
         AT,

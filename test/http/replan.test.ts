@@ -90,11 +90,11 @@ describe('re-plan after a lost night (demo campaign)', () => {
 
   it('works from the CLI: preview, then --accept', async () => {
     const { lost } = await reportedNights();
-    const r = await cli(['replan', '--night', String(lost), '--database', url]);
+    const r = await cli(['replan', '--night-id', String(lost), '--database', url]);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toMatch(/lost .* h/);
     expect(r.stdout).toMatch(/preview only/);
-    const bad = await cli(['replan', '--night', 'x', '--database', url]);
+    const bad = await cli(['replan', '--night-id', 'x', '--database', url]);
     expect(bad.code).toBe(2);
   });
 });

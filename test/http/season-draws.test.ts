@@ -123,7 +123,7 @@ describe('weather-aware season plans and draws (demo campaign)', () => {
   it('prints percentiles in the CLI', async () => {
     const r = await cli([
       'plan-season',
-      '--campaign',
+      '--campaign-id',
       '1',
       '--start',
       RANGE.startDate,
@@ -146,7 +146,7 @@ describe('weather-aware season plans and draws (demo campaign)', () => {
     expect(r.stdout).toMatch(/σ of the \d{4}-\d{2}-\d{2} periapsis date/);
     const bad = await cli([
       'plan-season',
-      '--campaign',
+      '--campaign-id',
       '1',
       '--start',
       RANGE.startDate,

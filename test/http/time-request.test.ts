@@ -79,7 +79,7 @@ describe('the semester time request (demo campaign)', () => {
   }, async () => {
     const args = [
       'time-request',
-      '--campaign',
+      '--campaign-id',
       '1',
       '--name',
       'D1',

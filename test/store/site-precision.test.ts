@@ -126,11 +126,11 @@ describe('stored precision model per site', () => {
     expect(shown.code).toBe(0);
     expect(shown.stdout).toMatch(/Ostrel Summit\s+1\.5\s+4\s+0\.9/); // the demo's stored values (invented)
     expect(shown.stdout).toContain(`${DEFAULT_PRECISION.spectroscopyKmS} (default)`); // site 1's RV σ was set back to null above
-    const bad = await run(['--site', '2', '--astrometry-mas=-1']);
+    const bad = await run(['--site-id', '2', '--astrometry-mas=-1']);
     expect(bad.code).toBe(2);
     expect(bad.stderr).toMatch(/astrometrySigmaMas.*-1/);
     expect((await env.store.sites.get(2)).astrometrySigmaMas).toBe(1.5);
-    const changed = await run(['--site', '2', '--spectroscopy-km-s', 'default', '--json']);
+    const changed = await run(['--site-id', '2', '--spectroscopy-km-s', 'default', '--json']);
     expect(changed.code).toBe(0);
     expect(JSON.parse(changed.stdout).sites[0].spectroscopySigmaKmS).toBeNull();
     expect((await env.store.sites.get(2)).spectroscopySigmaKmS).toBeNull();

@@ -13,7 +13,7 @@ const help = `usage: epochwright account add --name <name> --role lead|observer|
        epochwright account feed-token --name <lead> --campaign-id <id> [--label <text>]
        epochwright account list [--json|--csv]
        epochwright account tokens [--name <name>] [--json|--csv]
-       epochwright account revoke --id <token id>
+       epochwright account revoke --token-id <id>
 
 add     creates a user and prints its first bearer token (shown this once; only a hash is kept)
 token   issues a further token for an existing user
@@ -50,7 +50,7 @@ export const accountCommand: Command = {
         name: { type: 'string' },
         role: { type: 'string' },
         label: { type: 'string' },
-        id: { type: 'string' },
+        'token-id': { type: 'string' },
         'campaign-id': { type: 'string' },
         json: { type: 'boolean' },
         csv: { type: 'boolean' },
@@ -130,22 +130,22 @@ export const accountCommand: Command = {
             );
           }
           case 'revoke': {
-            if (values.id === undefined)
-              throw new UsageError('account revoke needs --id <token id> (see `account tokens`)');
-            const id = Number(values.id);
-            // An InputError like the unknown-token path below, so both name --id the same way.
+            if (values['token-id'] === undefined)
+              throw new UsageError('account revoke needs --token-id <id> (see `account tokens`)');
+            const id = Number(values['token-id']);
+            // An InputError like the unknown-token path below, so both name --token-id the same way.
             if (!Number.isInteger(id) || id <= 0)
               throw new InputError(
-                '--id',
-                values.id,
+                '--token-id',
+                values['token-id'],
                 'must be a positive whole number, a token id from `account tokens`',
               );
             const t = await store.users
               .revokeToken(localActor(), id)
               .catch(
                 asInputError(
-                  '--id',
-                  values.id,
+                  '--token-id',
+                  values['token-id'],
                   'does not name an active token (see `account tokens`)',
                 ),
               );

@@ -7,7 +7,7 @@ import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
-const help = `usage: epochwright flags --campaign <id> [--at <epoch>] [--resolution <mas>] [--json | --csv]
+const help = `usage: epochwright flags --campaign-id <id> [--at <epoch>] [--resolution <mas>] [--json | --csv]
 
 Warnings for every target of a stored campaign, soonest first: a periapsis ahead (date ± 1σ, lead
 time, observable hours per night at each site, rates of change, relativistic terms), a periapsis no
@@ -16,7 +16,7 @@ site can observe, a blend with another star of the system (with --resolution), a
 their site and local evening date.
 
 options:
-  --campaign <id>        the campaign
+  --campaign-id <id>     the campaign
   --at <epoch>           compute for this moment (ISO 8601, JD, MJD); default now
   --resolution <mas>     resolution limit for blend flags
 ${DATABASE_HELP}
@@ -31,7 +31,7 @@ export const flagsCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        campaign: { type: 'string' },
+        'campaign-id': { type: 'string' },
         at: { type: 'string' },
         resolution: { type: 'string' },
         json: { type: 'boolean' },
@@ -41,7 +41,7 @@ export const flagsCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const id = positiveId('campaign', values.campaign);
+    const id = positiveId('campaign-id', values['campaign-id']);
     const nowJd = momentJd(values.at, '--at');
     const resolution = optionalPositive('resolution', values.resolution);
     const result = await withStore(values.database, (store) =>

@@ -13,7 +13,7 @@ import { formatTable, render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
-const help = `usage: epochwright plan-night --night <id> [options]
+const help = `usage: epochwright plan-night --night-id <id> [options]
 
 Blocks for one stored night of a campaign, in darkness, inside each target's window, with a gap for
 each change of target: the campaign's candidates (one per target and goal kind, "<target>:<kind>",
@@ -26,7 +26,7 @@ planned around them, and a candidate of the same target and kind as a kept block
 Blocks pinned with --pin are stored as pinned, so later re-plans keep them.
 
 options:
-  --night <id>                 the stored night (its campaign gives targets and limits)
+  --night-id <id>              the stored night (its campaign gives targets and limits)
   --pin <id>@<start>           keep or move a block to a start (ISO 8601 UTC; snapped to a slot edge)
   --remove <id>                leave a candidate out (repeatable)
   --candidates <json|file>     your own candidates: [{ id, target, kind, durationMinutes, priority,
@@ -47,7 +47,7 @@ const OPTIONS = {
   candidates: '--candidates',
   slotMinutes: '--slot',
   method: '--method',
-  nightId: '--night',
+  nightId: '--night-id',
   at: '--at',
 };
 
@@ -59,7 +59,7 @@ export const planNightCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        night: { type: 'string' },
+        'night-id': { type: 'string' },
         pin: { type: 'string', multiple: true },
         remove: { type: 'string', multiple: true },
         candidates: { type: 'string' },
@@ -75,7 +75,7 @@ export const planNightCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const id = positiveId('night', values.night);
+    const id = positiveId('night-id', values['night-id']);
     checkAcceptDigest(values);
     const pins = values.pin?.map((p) => {
       const at = p.lastIndexOf('@');

@@ -21,7 +21,7 @@ import { renderDraws } from './season-draws-output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
-const help = `usage: epochwright plan-season --campaign <id> --start <YYYY-MM-DD> --end <YYYY-MM-DD> [options]
+const help = `usage: epochwright plan-season --campaign-id <id> --start <YYYY-MM-DD> --end <YYYY-MM-DD> [options]
 
 The epochs a stored campaign should observe from --start to --end. First every observable
 allocated site-night in the window of each coming periapsis passage (± k σ of its date), then one
@@ -36,9 +36,9 @@ are still only plans; obtained, logged, measured, begun, hand-made or pinned blo
 nights, are kept.
 
 options:
-  --campaign <id>        the campaign
+  --campaign-id <id>     the campaign
   --start, --end <date>  first and last night (local evening dates) within the campaign
-  --site <id>            plan for this site of the campaign only (repeatable); default all
+  --site-id <id>         plan for this site of the campaign only (repeatable); default all
   --all-nights           plan every night of the range, not only the campaign's stored nights
   --at <epoch>           the moment of planning (ISO 8601, JD, MJD); default now. With --accept
                          it may not lie more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the clock
@@ -66,9 +66,9 @@ const SETTINGS: readonly string[] = SEASON_SETTINGS;
 const OPTIONS = {
   startDate: '--start',
   endDate: '--end',
-  siteIds: '--site',
+  siteIds: '--site-id',
   nights: '--all-nights',
-  campaignId: '--campaign',
+  campaignId: '--campaign-id',
   at: '--at',
   '*': '--settings',
 };
@@ -81,10 +81,10 @@ export const planSeasonCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        campaign: { type: 'string' },
+        'campaign-id': { type: 'string' },
         start: { type: 'string' },
         end: { type: 'string' },
-        site: { type: 'string', multiple: true },
+        'site-id': { type: 'string', multiple: true },
         'all-nights': { type: 'boolean' },
         at: { type: 'string' },
         settings: { type: 'string' },
@@ -100,7 +100,7 @@ export const planSeasonCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const id = positiveId('campaign', values.campaign);
+    const id = positiveId('campaign-id', values['campaign-id']);
     if (values.start === undefined || values.end === undefined)
       throw new UsageError('--start and --end are required (local evening dates, YYYY-MM-DD)');
     checkAcceptDigest(values);
@@ -122,7 +122,9 @@ export const planSeasonCommand: Command = {
       ...(settings as object),
       startDate: values.start,
       endDate: values.end,
-      ...(values.site ? { siteIds: values.site.map((s) => positiveId('site', s)) } : {}),
+      ...(values['site-id']
+        ? { siteIds: values['site-id'].map((s) => positiveId('site-id', s)) }
+        : {}),
       nights: values['all-nights'] ? 'all' : 'allocated',
       weather,
       ...(values.digest !== undefined ? { digest: values.digest } : {}),

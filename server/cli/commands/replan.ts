@@ -8,7 +8,7 @@ import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
-const help = `usage: epochwright replan --night <id> [--end <date>] [--weather aware|blind] [--at <epoch>]
+const help = `usage: epochwright replan --night-id <id> [--end <date>] [--weather aware|blind] [--at <epoch>]
                         [--accept [--digest <hex>]] [--json | --csv]
 
 After a night whose report records lost time, plans the rest of its campaign's season again: the
@@ -18,7 +18,7 @@ new epochs. As with plan-season, only blocks that are still plans are replaced: 
 measured, begun, hand-made and pinned blocks stay. Nothing is written unless --accept is given.
 
 options:
-  --night <id>           the night that lost time
+  --night-id <id>        the night that lost time
   --end <date>           last night to plan; default the campaign's last (at most 400 nights on)
   --weather aware|blind  default aware
   --at <epoch>           the moment of planning; default now (with --accept, not in the past)
@@ -37,7 +37,7 @@ export const replanCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        night: { type: 'string' },
+        'night-id': { type: 'string' },
         end: { type: 'string' },
         weather: { type: 'string' },
         at: { type: 'string' },
@@ -50,7 +50,7 @@ export const replanCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const id = positiveId('night', values.night);
+    const id = positiveId('night-id', values['night-id']);
     checkAcceptDigest(values);
     const weather = weatherOption(values.weather);
     const request: ReplanRequest = {
@@ -59,7 +59,7 @@ export const replanCommand: Command = {
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
     const atJd = momentJd(values.at, '--at');
-    const options = { nightId: '--night', endDate: '--end', '*': '--weather' };
+    const options = { nightId: '--night-id', endDate: '--end', '*': '--weather' };
     const result = await withStore(
       values.database,
       (store) =>

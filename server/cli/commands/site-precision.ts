@@ -8,7 +8,7 @@ import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
-const help = `usage: epochwright site-precision [--site <id>] [--astrometry-mas <x|default>]
+const help = `usage: epochwright site-precision [--site-id <id>] [--astrometry-mas <x|default>]
                          [--spectroscopy-km-s <x|default>] [--reference-seeing <arcsec|default>]
                          [--json | --csv]
 
@@ -20,7 +20,7 @@ ${DEFAULT_PRECISION.astrometryMas} mas per offset, ${DEFAULT_PRECISION.spectrosc
 A campaign's goals.precision overrides every site's, field by field.
 
 options:
-  --site <id>                   the site (required to change one)
+  --site-id <id>                the site (required to change one)
   --astrometry-mas <x>          1σ of each astrometric offset at the zenith, mas, (0, 1e6]
   --spectroscopy-km-s <x>       1σ of a radial velocity at the zenith, km/s, (0, 1e6]
   --reference-seeing <arcsec>   seeing FWHM the two zenith values hold for, arcsec, (0, 10]
@@ -69,7 +69,7 @@ export const sitePrecisionCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        site: { type: 'string' },
+        'site-id': { type: 'string' },
         'astrometry-mas': { type: 'string' },
         'spectroscopy-km-s': { type: 'string' },
         'reference-seeing': { type: 'string' },
@@ -80,14 +80,14 @@ export const sitePrecisionCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const siteId = optionalId('site', values.site);
+    const siteId = optionalId('site-id', values['site-id']);
     const patch: Record<string, number | null> = {};
     for (const [option, key] of Object.entries(FIELDS)) {
       const text = values[option as keyof typeof FIELDS];
       if (text !== undefined) patch[key] = numberOrDefault(option, text);
     }
     if (Object.keys(patch).length > 0 && siteId === undefined)
-      throw new UsageError('--site is required to change a precision model');
+      throw new UsageError('--site-id is required to change a precision model');
     const rows = await withStore(
       values.database,
       async (store) => {

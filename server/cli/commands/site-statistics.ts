@@ -7,7 +7,7 @@ import { UsageError, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
-const help = `usage: epochwright site-statistics --site <id> [--start <date>] [--end <date>]
+const help = `usage: epochwright site-statistics --site-id <id> [--start <date>] [--end <date>]
                                   [--set-prior <file.csv> [--strength <nights>]] [--json | --csv]
 
 Per calendar month, from the site's night reports (every campaign): nights logged, dark hours,
@@ -19,7 +19,7 @@ with the zenith value the planner's precision model implies. Every figure says h
 measurements it rests on.
 
 options:
-  --site <id>              the site
+  --site-id <id>           the site
   --start, --end <date>    nights (local evening dates, YYYY-MM-DD) to read; default all
   --set-prior <file.csv>   first replace the site's clear-night prior: columns month, clear_fraction
                            and optionally strength_nights (months left out have none)
@@ -95,7 +95,7 @@ export const siteStatisticsCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        site: { type: 'string' },
+        'site-id': { type: 'string' },
         start: { type: 'string' },
         end: { type: 'string' },
         'set-prior': { type: 'string' },
@@ -107,7 +107,7 @@ export const siteStatisticsCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const id = positiveId('site', values.site);
+    const id = positiveId('site-id', values['site-id']);
     const strength = optionalPositive('strength', values.strength) ?? 10;
     if (values.strength !== undefined && values['set-prior'] === undefined)
       throw new UsageError('--strength goes with --set-prior');

@@ -8,7 +8,7 @@ import { render, type Column } from '../output.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
-const help = `usage: epochwright time-request --campaign <id> --name <semester> --start <date> --end <date>
+const help = `usage: epochwright time-request --campaign-id <id> --name <semester> --start <date> --end <date>
                               [--weather aware|blind] [--at <epoch>] [--markdown | --csv | --json]
 
 The time to ask for in a semester: the campaign's season plan over its allocated nights from
@@ -20,7 +20,7 @@ paragraph saying why. --markdown prints it ready to paste into a proposal; --csv
 site, target and kind (and a total row per site).
 
 options:
-  --campaign <id>        the campaign
+  --campaign-id <id>     the campaign
   --name <semester>      the semester's name as the proposal gives it (e.g. 2027A)
   --start, --end <date>  first and last night of the semester (local evening dates)
   --weather aware|blind  default aware
@@ -47,7 +47,7 @@ export const timeRequestCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
-        campaign: { type: 'string' },
+        'campaign-id': { type: 'string' },
         name: { type: 'string' },
         start: { type: 'string' },
         end: { type: 'string' },
@@ -63,7 +63,7 @@ export const timeRequestCommand: Command = {
     if (values.markdown && (values.json || values.csv))
       throw new UsageError('choose one of --markdown, --json and --csv');
     const format = outputFormat(values);
-    const id = positiveId('campaign', values.campaign);
+    const id = positiveId('campaign-id', values['campaign-id']);
     if (values.name === undefined || values.start === undefined || values.end === undefined)
       throw new UsageError('--name, --start and --end are required');
     const weather = weatherOption(values.weather);
@@ -75,8 +75,9 @@ export const timeRequestCommand: Command = {
     };
     const atJd = momentJd(values.at, '--at');
     const r = await withStore(values.database, (store) =>
-      asOptions({ startDate: '--start', endDate: '--end', name: '--name', '*': '--campaign' }, () =>
-        store.plans.timeRequest(id, input, atJd),
+      asOptions(
+        { startDate: '--start', endDate: '--end', name: '--name', '*': '--campaign-id' },
+        () => store.plans.timeRequest(id, input, atJd),
       ),
     );
     if (values.markdown) return timeRequestMarkdown(r);
