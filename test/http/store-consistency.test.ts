@@ -254,6 +254,45 @@ describe.each(BACKENDS)('consistency rules on $name', (backend) => {
     expect(e.details.dependents).toContainEqual({ entity: 'block', id: f.ids.block });
   });
 
+  it('refuses moving a site where its blocks’ nights have no darkness; a move that keeps them dark passes', async () => {
+    // Constructed case: at 69° N the June nights have no astronomical darkness (the Sun stays
+    // above −18° all night north of 48.6° at the solstice: 90° − 23.4° − 18°, from memory).
+    const e = await refused(
+      'PATCH',
+      `/api/sites/${f.ids.site}`,
+      { latitudeDeg: 69 },
+      409,
+      'dependent_rows',
+      'latitudeDeg',
+    );
+    expect(e.details.value).toBe(69);
+    expect(e.details.dependents).toContainEqual({ entity: 'block', id: f.ids.block });
+    // Half a degree south the same block stays in darkness: the edit passes, and is undone.
+    const site = (await (await f.call('lead', 'GET', `/api/sites/${f.ids.site}`)).json()) as {
+      latitudeDeg: number;
+    };
+    const moved = await f.call('lead', 'PATCH', `/api/sites/${f.ids.site}`, {
+      latitudeDeg: site.latitudeDeg - 0.5,
+    });
+    expect(moved.status, await moved.clone().text()).toBe(200);
+    const back = await f.call('lead', 'PATCH', `/api/sites/${f.ids.site}`, {
+      latitudeDeg: site.latitudeDeg,
+    });
+    expect(back.status).toBe(200);
+  });
+
+  it('lets a horizon mask change under blocks: darkness is the Sun’s, not the horizon’s', async () => {
+    const res = await f.call('lead', 'PATCH', `/api/sites/${f.ids.site}`, {
+      horizonMask: [
+        { azimuthDeg: 0, altitudeDeg: 20 },
+        { azimuthDeg: 180, altitudeDeg: 25 },
+      ],
+    });
+    expect(res.status, await res.clone().text()).toBe(200);
+    const b = await f.call('lead', 'GET', `/api/blocks/${f.ids.block}`);
+    expect(b.status).toBe(200);
+  });
+
   it('keeps a block’s measurements and outcome: no other target, night or status under them', async () => {
     // Both targets in the campaign, so the target rule of the block itself holds.
     const both = await f.call('lead', 'PATCH', `/api/campaigns/${f.ids.campaign}`, {
