@@ -4,6 +4,7 @@
  * (503 naming the limit; the thread is replaced and the next job runs) and refuses jobs beyond
  * the queue (503 with Retry-After). Orbits and sites here are invented demo values.
  */
+import { existsSync, readFileSync, readdirSync } from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/http/app.ts';
 import { createJobPool, type JobPool } from '../../server/jobs/pool.ts';
@@ -67,6 +68,22 @@ describe('the job pool', () => {
       expect(await b.json()).toEqual(await a.json()); // structured clone there and back changes nothing
     }
   });
+
+  it.runIf(existsSync('/proc/self/task'))(
+    'runs its threads at a lower priority than the server’s (EPOCHWRIGHT_WORKER_NICENESS, default 5)',
+    async () => {
+      await post(pooled, '/ephemeris', { orbit: truth, epochs: ['J2027.5'] }); // the threads are up
+      // Field 19 of /proc/<pid>/task/<tid>/stat is the nice value (proc(5), from memory); the
+      // command name in parentheses comes first and may hold spaces, so count after its ')'.
+      const niceOf = (tid: string) => {
+        const stat = readFileSync(`/proc/self/task/${tid}/stat`, 'utf8');
+        return Number(stat.slice(stat.lastIndexOf(')') + 2).split(' ')[16]);
+      };
+      const nice = readdirSync('/proc/self/task').map(niceOf);
+      expect(niceOf(String(process.pid))).toBe(0); // this thread: as started
+      expect(nice.filter((n) => n === 5).length).toBeGreaterThanOrEqual(2); // the pool's two threads
+    },
+  );
 
   it('carries a bad value’s 422 back from the worker, naming the field', async () => {
     const res = await post(pooled, '/ephemeris', {
