@@ -128,6 +128,15 @@ describe('orbit CSV export', () => {
         relativityFactors: { redshiftFactor: 0.8, precessionFactor: 1.25 },
       },
     ];
+    // A fit's covariance with a parameter held fixed (variance 0, as stored fits keep it).
+    const held = {
+      parameters: ['periodYears', 'distancePc'] as CovarianceTerm[],
+      matrix: [
+        [0.01, 0],
+        [0, 0],
+      ],
+    };
+    solutions.push({ ...ORBIT_WREN, covariance: held } as (typeof solutions)[number]);
     const [from, into] = [await BACKENDS[1]!.open(), await BACKENDS[1]!.open()];
     try {
       await fixture(from.store);
@@ -148,8 +157,16 @@ describe('orbit CSV export', () => {
       const after = (await into.store.orbitSolutions.list({}, { limit: 50 })).items.slice(
         before.items.length,
       );
-      expect(after.map((s) => s.reference)).toEqual(['', '=constructed', '=constructed']);
+      expect(after.map((s) => s.reference)).toEqual([
+        '',
+        '=constructed',
+        '=constructed',
+        '=constructed',
+      ]);
       const [campbell, thiele] = [after[1]!.orbit, after[2]!.orbit];
+      // The held parameter comes back without a σ: the same orbit, no uncertainty on d.
+      expect(after[3]!.orbit.covariance!.parameters).toEqual(['periodYears']);
+      expect(after[3]!.orbit.covariance!.matrix[0]![0]).toBeCloseTo(0.01, 15);
       expect(campbell.elements).toEqual({ kind: 'campbell', ...solutions[0]!.elements });
       expect([campbell.massRatio, campbell.lightFraction]).toEqual([0.35, 0.2]);
       expect(campbell.covariance!.parameters).toEqual(cov.parameters);
@@ -172,7 +189,7 @@ describe('orbit CSV export', () => {
       });
       expect(thiele.covariance).toBeUndefined();
       // The current version stays the current one.
-      expect(after.map((s) => s.current)).toEqual([false, false, true]);
+      expect(after.map((s) => s.current)).toEqual([false, false, false, true]);
     } finally {
       from.cleanup();
       into.cleanup();

@@ -72,7 +72,10 @@ function orbitCells(r: ExportedOrbit): Record<string, unknown> {
   };
   if (orbit.covariance) {
     const { sigmas, correlations } = sigmasOf(orbit.covariance);
-    for (const [p, s] of Object.entries(sigmas)) cells[sigmaColumn(p as keyof typeof sigmas)] = s;
+    // A parameter a fit held fixed has variance 0: its σ cell stays empty, as the import reads it
+    // (a σ must be positive there), and it has no correlations.
+    for (const [p, s] of Object.entries(sigmas))
+      if (s > 0) cells[sigmaColumn(p as keyof typeof sigmas)] = s;
     cells[CORRELATIONS_COLUMN] = correlationsText(correlations);
   }
   return cells;
