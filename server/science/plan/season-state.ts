@@ -7,6 +7,7 @@
  * site-night's weight; `gainOf` says the first two in named units.
  */
 import type { BlockKind } from './candidates.ts';
+import { rounded } from './words.ts';
 import {
   addInformation,
   informationModel,
@@ -158,9 +159,7 @@ export function gainWords(
   if (hours !== null && passage)
     parts.push(`${fmtHours(hours)} of σ off the ${passage} periapsis date`);
   if (pct !== null)
-    parts.push(
-      `${pct < 0.1 && pct > 0 ? pct.toExponential(1) : pct.toFixed(1)} % of the mass variance`,
-    );
+    parts.push(`${pct < 0.1 && pct > 0 ? rounded(pct, 2) : pct.toFixed(1)} % of the mass variance`);
   return {
     periapsisSigmaHoursRemoved: hours,
     massVariancePercentRemoved: pct,
@@ -173,7 +172,9 @@ function fmtHours(h: number): string {
     ? `${h.toFixed(0)} h`
     : h >= 0.1
       ? `${h.toFixed(1)} h`
-      : `${(h * 60).toFixed(1)} min`;
+      : h * 60 >= 1
+        ? `${(h * 60).toFixed(1)} min`
+        : `${rounded(h * 3600, 2)} s`;
 }
 
 /** Whether one more block fits on its site-night beside those accepted (room, then packing by latest start). */
