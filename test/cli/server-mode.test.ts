@@ -107,3 +107,20 @@ it('exports the archive through a running server with a lead’s token only, equ
   });
   expect(res.headers.get('content-disposition')).toMatch(/attachment; filename=/);
 });
+
+it('gives a campaign’s flags through a running server as the store gives them', async () => {
+  const campaign = await store.campaigns.create(LOCAL_OPERATOR, {
+    name: 'Remote season',
+    startDate: '2027-01-01',
+    endDate: '2027-12-31',
+    goals: { cadenceDays: 14, kinds: ['astrometry'] },
+    targetIds: [(await store.targets.list({}, { limit: 5 })).items[0]!.id],
+  });
+  const args = ['--campaign-id', String(campaign.id), '--at', '2027-02-01T00:00Z', '--json'];
+  const remote = JSON.parse(await run('flags', ...args, '--server', base, '--token', viewer));
+  const local = JSON.parse(
+    await run('flags', ...args, '--database', `file:${join(dir, 'server.db')}`),
+  );
+  expect(remote).toEqual(local); // constructed case: one store, two ways in
+  expect(remote.flags.length).toBeGreaterThan(0);
+});

@@ -4,6 +4,8 @@ import type { Flag } from '../../science/plan/index.ts';
 import type { Command } from '../io.ts';
 import { optionalPositive, outputFormat, positiveId } from '../args.ts';
 import { render, type Column } from '../output.ts';
+import type { Store } from '../../store/index.ts';
+import { SERVER_HELP, remoteOf, send, serverOptions } from '../remote.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
@@ -20,6 +22,7 @@ options:
   --at <epoch>           compute for this moment (ISO 8601, JD, MJD); default now
   --resolution <mas>     resolution limit for blend flags
 ${DATABASE_HELP}
+${SERVER_HELP}
   --json | --csv         machine-readable output instead of a table
 `;
 
@@ -31,6 +34,7 @@ export const flagsCommand: Command = {
       args: argv,
       options: {
         ...databaseOption,
+        ...serverOptions,
         'campaign-id': { type: 'string' },
         at: { type: 'string' },
         resolution: { type: 'string' },
@@ -44,9 +48,18 @@ export const flagsCommand: Command = {
     const id = positiveId('campaign-id', values['campaign-id']);
     const nowJd = momentJd(values.at, '--at');
     const resolution = optionalPositive('resolution', values.resolution);
-    const result = await withStore(values.database, (store) =>
-      store.plans.flags(id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
-    );
+    const remote = remoteOf(values);
+    type Flags = Awaited<ReturnType<Store['plans']['flags']>>;
+    // Through a server: its flags for the same moment (the epoch as typed, read by its parser).
+    const query = new URLSearchParams({
+      ...(values.at === undefined ? {} : { at: values.at }),
+      ...(resolution ? { resolutionMas: String(resolution) } : {}),
+    });
+    const result: Flags = remote
+      ? ((await (await send(remote, 'GET', `/campaigns/${id}/flags?${query}`)).json()) as Flags)
+      : await withStore(values.database, (store) =>
+          store.plans.flags(id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
+        );
     const columns: Column<Flag>[] = [
       { header: 'date_utc', value: (f) => f.date.slice(0, 16).replace('T', ' ') },
       { header: 'days_ahead', value: (f) => f.daysAhead, digits: 0 },
