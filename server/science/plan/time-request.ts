@@ -74,6 +74,10 @@ const h1 = (x: number) => x.toFixed(1);
 const sig = (x: number | null, unit: string, digits = 2) =>
   x === null ? 'undetermined' : `± ${x.toFixed(digits)}${unit}`;
 
+/** σ of a date: in hours up to two days, in days beyond. */
+const dateSigma = (days: number | null) =>
+  days === null ? 'undetermined' : days * 24 < 48 ? sig(days * 24, ' h', 1) : sig(days, ' d', 1);
+
 function paragraph(t: Omit<TargetResult, 'reason'>, sites: SiteRequest[]): string {
   const where = sites
     .flatMap((s) => s.byTarget.filter((b) => b.target === t.target).map((b) => ({ s: s.site, b })))
@@ -85,7 +89,7 @@ function paragraph(t: Omit<TargetResult, 'reason'>, sites: SiteRequest[]): strin
   ];
   if (t.passage)
     parts.push(
-      `It passes periapsis on ${t.passage.slice(0, 10)}; with this time the date would be known to ${sig(t.periapsisSigmaDays.with && t.periapsisSigmaDays.with * 24, ' h', 1)}, against ${sig(t.periapsisSigmaDays.without && t.periapsisSigmaDays.without * 24, ' h', 1)} without it${t.coverage ? `, and ${(100 * t.coverage.with).toFixed(0)} % of the date’s distribution would lie within ${t.coverage.withinDays} d of an epoch (${(100 * t.coverage.without).toFixed(0)} % without)` : ''}.`,
+      `It passes periapsis on ${t.passage.slice(0, 10)}; with this time the date would be known to ${dateSigma(t.periapsisSigmaDays.with)}, against ${dateSigma(t.periapsisSigmaDays.without)} without it${t.coverage ? `, and ${(100 * t.coverage.with).toFixed(0)} % of the date’s distribution would lie within ${t.coverage.withinDays} d of an epoch (${(100 * t.coverage.without).toFixed(0)} % without)` : ''}.`,
     );
   if (t.massFraction.with !== null)
     parts.push(
