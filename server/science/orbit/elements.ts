@@ -151,34 +151,7 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
     bounded(`${p}.periodYears`, el.periodYears, MAX_PERIOD_YEARS) * JULIAN_YEAR_DAYS;
   const periapsisJd = parseEpoch(el.periapsis, `${p}.periapsis`);
   const e = eccentricity(`${p}.eccentricity`, el.eccentricity);
-  let aMas: number, iRad: number, nodeRad: number, argRad: number;
-  if (kind === 'campbell') {
-    aMas = positive(`${p}.semiMajorAxisArcsec`, el.semiMajorAxisArcsec) * 1000;
-    const iDeg = requireFinite(`${p}.inclinationDeg`, el.inclinationDeg);
-    if (!(iDeg >= 0 && iDeg <= 180))
-      throw new InputError(`${p}.inclinationDeg`, iDeg, 'must satisfy 0 ≤ i ≤ 180');
-    iRad = iDeg * DEG;
-    nodeRad = mod(requireFinite(`${p}.ascendingNodeDeg`, el.ascendingNodeDeg), 360) * DEG;
-    argRad = mod(requireFinite(`${p}.argPeriapsisDeg`, el.argPeriapsisDeg), 360) * DEG;
-  } else {
-    const ti = {
-      A: requireFinite(`${p}.aArcsec`, el.aArcsec),
-      B: requireFinite(`${p}.bArcsec`, el.bArcsec),
-      F: requireFinite(`${p}.fArcsec`, el.fArcsec),
-      G: requireFinite(`${p}.gArcsec`, el.gArcsec),
-    };
-    const c = thieleInnesToCampbell(ti);
-    aMas = c.a * 1000;
-    if (!(aMas > 0))
-      throw new InputError(
-        `${p}.aArcsec`,
-        ti.A,
-        'with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size',
-      );
-    iRad = c.iRad;
-    nodeRad = c.nodeRad;
-    argRad = c.argRad;
-  }
+  const { aMas, iRad, nodeRad, argRad } = orbitGeometry(el, kind, p);
   const distancePc =
     input.distancePc === undefined || input.distancePc === null
       ? null
@@ -187,35 +160,7 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
     input.systemicVelocityKmS === undefined
       ? 0
       : requireFinite(`${prefix}.systemicVelocityKmS`, input.systemicVelocityKmS);
-  const relativity = { ...DEFAULT_RELATIVITY };
-  if (input.relativity !== undefined) {
-    if (typeof input.relativity !== 'object' || input.relativity === null)
-      throw new InputError(
-        `${prefix}.relativity`,
-        input.relativity,
-        'must be an object of switches',
-      );
-    for (const [key, value] of Object.entries(input.relativity)) {
-      if (!(key in DEFAULT_RELATIVITY))
-        throw new InputError(
-          `${prefix}.relativity.${key}`,
-          value,
-          `is not a switch; known: ${Object.keys(DEFAULT_RELATIVITY).join(', ')}`,
-        );
-      if (typeof value !== 'boolean')
-        throw new InputError(`${prefix}.relativity.${key}`, value, 'must be true or false');
-      relativity[key as keyof RelativitySwitches] = value;
-    }
-  }
-  if (distancePc === null) {
-    const on = Object.entries(relativity).find(([, v]) => v);
-    if (on)
-      throw new InputError(
-        `${prefix}.relativity.${on[0]}`,
-        true,
-        'needs the distance (distancePc) to know the orbit in au',
-      );
-  }
+  const relativity = relativitySwitches(input.relativity, distancePc, prefix);
   const factors = validateFactors(input.relativityFactors, `${prefix}.relativityFactors`);
   const massRatio = optionalFraction(`${prefix}.massRatio`, input.massRatio, MAX_MASS_RATIO, 'q');
   const lightFraction = optionalFraction(`${prefix}.lightFraction`, input.lightFraction, 1, 'β');
@@ -246,6 +191,75 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
     lightFraction,
     covariance,
   };
+}
+
+/** The orbit's size and orientation from either element set: a in mas, angles in radians. */
+function orbitGeometry(
+  el: Record<string, unknown>,
+  kind: 'campbell' | 'thiele-innes',
+  p: string,
+): { aMas: number; iRad: number; nodeRad: number; argRad: number } {
+  if (kind === 'campbell') {
+    const aMas = positive(`${p}.semiMajorAxisArcsec`, el.semiMajorAxisArcsec) * 1000;
+    const iDeg = requireFinite(`${p}.inclinationDeg`, el.inclinationDeg);
+    if (!(iDeg >= 0 && iDeg <= 180))
+      throw new InputError(`${p}.inclinationDeg`, iDeg, 'must satisfy 0 ≤ i ≤ 180');
+    return {
+      aMas,
+      iRad: iDeg * DEG,
+      nodeRad: mod(requireFinite(`${p}.ascendingNodeDeg`, el.ascendingNodeDeg), 360) * DEG,
+      argRad: mod(requireFinite(`${p}.argPeriapsisDeg`, el.argPeriapsisDeg), 360) * DEG,
+    };
+  }
+  const ti = {
+    A: requireFinite(`${p}.aArcsec`, el.aArcsec),
+    B: requireFinite(`${p}.bArcsec`, el.bArcsec),
+    F: requireFinite(`${p}.fArcsec`, el.fArcsec),
+    G: requireFinite(`${p}.gArcsec`, el.gArcsec),
+  };
+  const c = thieleInnesToCampbell(ti);
+  const aMas = c.a * 1000;
+  if (!(aMas > 0))
+    throw new InputError(
+      `${p}.aArcsec`,
+      ti.A,
+      'with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size',
+    );
+  return { aMas, iRad: c.iRad, nodeRad: c.nodeRad, argRad: c.argRad };
+}
+
+/** The relativistic switches, each a known name with a boolean; any one on needs the distance. */
+function relativitySwitches(
+  input: unknown,
+  distancePc: number | null,
+  prefix: string,
+): RelativitySwitches {
+  const relativity = { ...DEFAULT_RELATIVITY };
+  if (input !== undefined) {
+    if (typeof input !== 'object' || input === null)
+      throw new InputError(`${prefix}.relativity`, input, 'must be an object of switches');
+    for (const [key, value] of Object.entries(input)) {
+      if (!(key in DEFAULT_RELATIVITY))
+        throw new InputError(
+          `${prefix}.relativity.${key}`,
+          value,
+          `is not a switch; known: ${Object.keys(DEFAULT_RELATIVITY).join(', ')}`,
+        );
+      if (typeof value !== 'boolean')
+        throw new InputError(`${prefix}.relativity.${key}`, value, 'must be true or false');
+      relativity[key as keyof RelativitySwitches] = value;
+    }
+  }
+  if (distancePc === null) {
+    const on = Object.entries(relativity).find(([, v]) => v);
+    if (on)
+      throw new InputError(
+        `${prefix}.relativity.${on[0]}`,
+        true,
+        'needs the distance (distancePc) to know the orbit in au',
+      );
+  }
+  return relativity;
 }
 
 export const GENERAL_RELATIVITY: RelativityFactors = { redshiftFactor: 1, precessionFactor: 1 };
