@@ -14,6 +14,7 @@ import type {
   RelativityFactorName,
   SamplerOptions,
   StarHints,
+  StarInput,
 } from './types.ts';
 
 export interface CheckedStar {
@@ -136,48 +137,7 @@ export function checkRequest(req: FitRequest): CheckedRequest {
   const freeFactors = checkFreeFactors(req.freeFactors);
   checkSwitches('relativity', req.relativity);
   const names = new Set<string>();
-  const stars = req.stars.map((s, k): CheckedStar => {
-    const p = `stars.${k}`;
-    if (typeof s !== 'object' || s === null) throw new InputError(p, s, 'must be an object');
-    if (typeof s.name !== 'string' || !NAME_RE.test(s.name))
-      throw new InputError(
-        `${p}.name`,
-        s.name,
-        'must be 1–80 characters without control characters, not starting with a space',
-      );
-    if (names.has(s.name)) throw new InputError(`${p}.name`, s.name, 'appears twice');
-    names.add(s.name);
-    const hints: StarHints = {};
-    if (s.hints !== undefined) {
-      if (typeof s.hints !== 'object' || s.hints === null)
-        throw new InputError(`${p}.hints`, s.hints, 'must be an object');
-      if (s.hints.periodYears !== undefined)
-        hints.periodYears = range(`${p}.hints.periodYears`, s.hints.periodYears, 1e-6, 1e6);
-      if (s.hints.eccentricity !== undefined)
-        hints.eccentricity = range(`${p}.hints.eccentricity`, s.hints.eccentricity, 0, 0.99);
-    }
-    const st = s.hints?.start;
-    const start =
-      st === undefined
-        ? null
-        : validateOrbit(
-            {
-              elements: st.elements,
-              ...(st.distancePc !== undefined ? { distancePc: st.distancePc } : {}),
-              ...(st.systemicVelocityKmS !== undefined
-                ? { systemicVelocityKmS: st.systemicVelocityKmS }
-                : {}),
-            },
-            `${p}.hints.start`,
-          );
-    return {
-      name: s.name,
-      obs: readMeasurements(s.measurements, `${p}.measurements`),
-      hints,
-      start,
-      ...starRelativity(req, s.relativity, `${p}.relativity`, freeFactors),
-    };
-  });
+  const stars = req.stars.map((s, k) => checkStar(req, s, k, names, freeFactors));
   for (const [k, st] of stars.entries()) checkComponents(st, k, stars.length);
   const relativity = { ...NEWTONIAN };
   for (const st of stars)
@@ -190,13 +150,7 @@ export function checkRequest(req: FitRequest): CheckedRequest {
     k,
     requireFinite(`fixed.${k}`, v),
   ]);
-  const priors = Object.entries(req.priors ?? {}).map(([k, v]): [string, PriorInput] => {
-    if (typeof v !== 'object' || v === null)
-      throw new InputError(`priors.${k}`, v, 'must be an object { mean, sigma }');
-    const sigma = requireFinite(`priors.${k}.sigma`, v.sigma);
-    if (!(sigma > 0)) throw new InputError(`priors.${k}.sigma`, sigma, 'must be greater than 0');
-    return [k, { mean: requireFinite(`priors.${k}.mean`, v.mean), sigma }];
-  });
+  const priors = checkPriors(req.priors);
   const loss = req.loss ?? 'gaussian';
   if (loss !== 'gaussian' && loss !== 'huber')
     throw new InputError('loss', loss, 'must be "gaussian" or "huber"');
@@ -214,6 +168,72 @@ export function checkRequest(req: FitRequest): CheckedRequest {
     asOfJd: req.asOf === undefined ? null : epoch('asOf', req.asOf),
     posterior: req.posterior === undefined ? null : checkSampler(req.posterior),
   };
+}
+
+/** One star of the request: a name of its own, its hints, its starting orbit and measurements. */
+function checkStar(
+  req: FitRequest,
+  s: StarInput,
+  k: number,
+  names: Set<string>,
+  freeFactors: CheckedRequest['freeFactors'],
+): CheckedStar {
+  const p = `stars.${k}`;
+  if (typeof s !== 'object' || s === null) throw new InputError(p, s, 'must be an object');
+  if (typeof s.name !== 'string' || !NAME_RE.test(s.name))
+    throw new InputError(
+      `${p}.name`,
+      s.name,
+      'must be 1–80 characters without control characters, not starting with a space',
+    );
+  if (names.has(s.name)) throw new InputError(`${p}.name`, s.name, 'appears twice');
+  names.add(s.name);
+  const hints = starHints(s.hints, p);
+  const st = s.hints?.start;
+  const start =
+    st === undefined
+      ? null
+      : validateOrbit(
+          {
+            elements: st.elements,
+            ...(st.distancePc !== undefined ? { distancePc: st.distancePc } : {}),
+            ...(st.systemicVelocityKmS !== undefined
+              ? { systemicVelocityKmS: st.systemicVelocityKmS }
+              : {}),
+          },
+          `${p}.hints.start`,
+        );
+  return {
+    name: s.name,
+    obs: readMeasurements(s.measurements, `${p}.measurements`),
+    hints,
+    start,
+    ...starRelativity(req, s.relativity, `${p}.relativity`, freeFactors),
+  };
+}
+
+/** The ranges a star's grid search is held to, each checked against its physical bounds. */
+function starHints(input: StarInput['hints'], p: string): StarHints {
+  const hints: StarHints = {};
+  if (input === undefined) return hints;
+  if (typeof input !== 'object' || input === null)
+    throw new InputError(`${p}.hints`, input, 'must be an object');
+  if (input.periodYears !== undefined)
+    hints.periodYears = range(`${p}.hints.periodYears`, input.periodYears, 1e-6, 1e6);
+  if (input.eccentricity !== undefined)
+    hints.eccentricity = range(`${p}.hints.eccentricity`, input.eccentricity, 0, 0.99);
+  return hints;
+}
+
+/** Gaussian priors by parameter name: a finite mean and a positive σ. */
+function checkPriors(input: FitRequest['priors']): [string, PriorInput][] {
+  return Object.entries(input ?? {}).map(([k, v]): [string, PriorInput] => {
+    if (typeof v !== 'object' || v === null)
+      throw new InputError(`priors.${k}`, v, 'must be an object { mean, sigma }');
+    const sigma = requireFinite(`priors.${k}.sigma`, v.sigma);
+    if (!(sigma > 0)) throw new InputError(`priors.${k}.sigma`, sigma, 'must be greater than 0');
+    return [k, { mean: requireFinite(`priors.${k}.mean`, v.mean), sigma }];
+  });
 }
 
 /**
