@@ -99,115 +99,15 @@ export function asOfJdOf(sol: Solution, req: CheckedRequest): number {
 }
 
 export function assemble(sol: Solution, req: CheckedRequest, derivatives: string): FitResult {
-  const { L, problem, theta, lm, covariance: C } = sol;
+  const { L, problem, lm } = sol;
   const asOfJd = asOfJdOf(sol, req);
-  const freePos = new Map(problem.free.map((idx, j) => [idx, j]));
-  const parameters: FittedParameter[] = L.params.map((p, idx) => {
-    const j = freePos.get(idx);
-    const raw = theta[idx]! * p.scale;
-    return {
-      name: p.name,
-      value: p.angle && p.key !== 'inclinationDeg' ? ((raw % 360) + 360) % 360 : raw,
-      sigma: j === undefined ? 0 : Math.sqrt(Math.max(C[j]![j]!, 0)) * Math.abs(p.scale),
-      unit: p.unit,
-      fixed: j === undefined,
-    };
-  });
-  const names = problem.free.map((idx) => L.params[idx]!.name);
-  const scales = problem.free.map((idx) => L.params[idx]!.scale);
-  const covariance = {
-    parameters: names,
-    matrix: C.map((row, a) => row.map((v, b) => v * scales[a]! * scales[b]!)),
+  const parameters = fittedParameters(sol);
+  const fit = {
+    r: problem.evaluate(lm.x, false).r,
+    model: evaluateModel(L, sol.theta, false).values,
   };
-  const { r } = problem.evaluate(lm.x, false);
-  const model = evaluateModel(L, theta, false).values;
   const residuals: Residual[] = [];
-  const stars = L.stars.map((s, k): StarSolution => {
-    const cycle = nextCycle(L, theta, k, asOfJd);
-    const desc = quantityNames(L);
-    const values = starQuantities(L, theta, k, cycle);
-    const grads = quantityGradients(sol, k, cycle);
-    const own = new Set(
-      L.params
-        .filter((p) => (p.star === k || p.star === null) && !parameters[L.params.indexOf(p)]!.fixed)
-        .map((p) => p.key as string),
-    );
-    const quantities = desc.map((d, q) => ({
-      name: d.name,
-      value: values[q]!,
-      sigma: Math.sqrt(propagate(C, grads[q]!)),
-      unit: d.unit,
-      fitted: own.has(d.name),
-    }));
-    const covNames = COVARIANCE_PARAMETERS.filter((n) => desc.some((d) => d.name === n));
-    const gi = covNames.map((n) => grads[desc.findIndex((d) => d.name === n)]!);
-    const matrix = gi.map(() => new Array<number>(gi.length).fill(0));
-    gi.forEach((ga, a) => {
-      gi.forEach((gb, b) => {
-        if (b >= a) matrix[a]![b] = matrix[b]![a] = bilinear(C, ga, gb); // exactly symmetric
-      });
-    });
-    const o = starOrbit(L, theta, k);
-    const at = (n: string) => values[desc.findIndex((d) => d.name === n)]!;
-    const orbit: OrbitInput = {
-      elements: {
-        kind: 'campbell',
-        periodYears: at('periodYears'),
-        periapsis: `JD ${at('periapsisDays').toFixed(6)}`,
-        eccentricity: at('eccentricity'),
-        semiMajorAxisArcsec: at('semiMajorAxisArcsec'),
-        inclinationDeg: at('inclinationDeg'),
-        ascendingNodeDeg: at('ascendingNodeDeg'),
-        argPeriapsisDeg: at('argPeriapsisDeg'),
-      },
-      ...(o.distancePc !== null ? { distancePc: o.distancePc } : {}),
-      ...(L.sys.gamma >= 0 ? { systemicVelocityKmS: o.gammaKmS } : {}),
-      relativity: { ...L.stars[k]!.relativity },
-      ...(L.sys.fz >= 0 || L.sys.fw >= 0 ? { relativityFactors: { ...o.factors } } : {}),
-      ...(o.massRatio !== null ? { massRatio: o.massRatio } : {}),
-      ...(o.lightFraction !== null ? { lightFraction: o.lightFraction } : {}),
-      covariance: { parameters: covNames as CovarianceParameter[], matrix },
-    };
-    let chi2 = 0,
-      comps = 0;
-    let c = s.firstComponent;
-    for (const m of s.obs) {
-      const n = componentCount(m);
-      const res: number[] = [],
-        norm: number[] = [];
-      let outlier = false;
-      for (let q = 0; q < n; q++) {
-        let d = m.value[q]! - model[c + q]!;
-        if (m.kind === 'separation' && q === 1) d = Math.atan2(Math.sin(d), Math.cos(d));
-        res.push(m.kind === 'separation' && q === 1 ? d / DEG : d);
-        norm.push(d / m.sigma[q]!);
-        chi2 += r[c + q]! ** 2;
-        if (Math.abs(r[c + q]!) > OUTLIER_SIGMA) outlier = true;
-      }
-      comps += n;
-      residuals.push({
-        star: s.name,
-        index: m.index,
-        ...(m.id !== undefined ? { id: m.id } : {}),
-        kind: m.kind,
-        component: m.component,
-        jd: m.jd,
-        epoch: jdToIso(m.jd),
-        residual: res,
-        normalized: norm,
-        outlier,
-      });
-      c += n;
-    }
-    return {
-      name: s.name,
-      quantities,
-      orbit,
-      nextPeriapsis: jdToIso(at('nextPeriapsisJd')),
-      chi2,
-      components: comps,
-    };
-  });
+  const stars = L.stars.map((_, k) => starSolution(sol, k, parameters, asOfJd, fit, residuals));
   const dof = problem.rows - problem.n;
   return {
     method:
@@ -216,7 +116,7 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
     loss: req.loss,
     stars,
     parameters,
-    covariance,
+    covariance: freeCovariance(sol),
     chi2: lm.chi2,
     dof,
     reducedChi2: dof > 0 ? lm.chi2 / dof : null,
@@ -233,6 +133,166 @@ export function assemble(sol: Solution, req: CheckedRequest, derivatives: string
       ...restingPrimaryWarnings(sol, k),
     ]),
   };
+}
+
+/** The fitted vector in interface units; angles other than i in [0, 360), fixed ones with σ = 0. */
+function fittedParameters(sol: Solution): FittedParameter[] {
+  const { L, problem, theta, covariance: C } = sol;
+  const freePos = new Map(problem.free.map((idx, j) => [idx, j]));
+  return L.params.map((p, idx) => {
+    const j = freePos.get(idx);
+    const raw = theta[idx]! * p.scale;
+    return {
+      name: p.name,
+      value: p.angle && p.key !== 'inclinationDeg' ? ((raw % 360) + 360) % 360 : raw,
+      sigma: j === undefined ? 0 : Math.sqrt(Math.max(C[j]![j]!, 0)) * Math.abs(p.scale),
+      unit: p.unit,
+      fixed: j === undefined,
+    };
+  });
+}
+
+/** The covariance of the free parameters, scaled from the solver's units to interface units. */
+function freeCovariance(sol: Solution): FitResult['covariance'] {
+  const { L, problem, covariance: C } = sol;
+  const scales = problem.free.map((idx) => L.params[idx]!.scale);
+  return {
+    parameters: problem.free.map((idx) => L.params[idx]!.name),
+    matrix: C.map((row, a) => row.map((v, b) => v * scales[a]! * scales[b]!)),
+  };
+}
+
+/**
+ * One star's part of the result: its quantities with 1σ, its solution as a storable orbit, its χ²;
+ * its residuals are appended to `residuals`.
+ */
+function starSolution(
+  sol: Solution,
+  k: number,
+  parameters: FittedParameter[],
+  asOfJd: number,
+  fit: { r: ArrayLike<number>; model: ArrayLike<number> },
+  residuals: Residual[],
+): StarSolution {
+  const { L, theta, covariance: C } = sol;
+  const cycle = nextCycle(L, theta, k, asOfJd);
+  const desc = quantityNames(L);
+  const values = starQuantities(L, theta, k, cycle);
+  const grads = quantityGradients(sol, k, cycle);
+  const own = new Set(
+    L.params
+      .filter((p) => (p.star === k || p.star === null) && !parameters[L.params.indexOf(p)]!.fixed)
+      .map((p) => p.key as string),
+  );
+  const quantities = desc.map((d, q) => ({
+    name: d.name,
+    value: values[q]!,
+    sigma: Math.sqrt(propagate(C, grads[q]!)),
+    unit: d.unit,
+    fitted: own.has(d.name),
+  }));
+  const at = (n: string) => values[desc.findIndex((d) => d.name === n)]!;
+  const star = L.stars[k]!;
+  const { chi2, components } = starResiduals(star, fit, residuals);
+  return {
+    name: star.name,
+    quantities,
+    orbit: storableOrbit(sol, k, at, elementCovariance(C, desc, grads)),
+    nextPeriapsis: jdToIso(at('nextPeriapsisJd')),
+    chi2,
+    components,
+  };
+}
+
+/** The covariance of the stored elements, distance and γ, from their gradients (exactly symmetric). */
+function elementCovariance(
+  C: number[][],
+  desc: ReturnType<typeof quantityNames>,
+  grads: Float64Array[],
+): NonNullable<OrbitInput['covariance']> {
+  const names = COVARIANCE_PARAMETERS.filter((n) => desc.some((d) => d.name === n));
+  const gi = names.map((n) => grads[desc.findIndex((d) => d.name === n)]!);
+  const matrix = gi.map(() => new Array<number>(gi.length).fill(0));
+  gi.forEach((ga, a) => {
+    gi.forEach((gb, b) => {
+      if (b >= a) matrix[a]![b] = matrix[b]![a] = bilinear(C, ga, gb);
+    });
+  });
+  return { parameters: names as CovarianceParameter[], matrix };
+}
+
+/** Star k's solution as Campbell elements that can be stored as a new orbit-solution version. */
+function storableOrbit(
+  sol: Solution,
+  k: number,
+  at: (name: string) => number,
+  covariance: NonNullable<OrbitInput['covariance']>,
+): OrbitInput {
+  const { L, theta } = sol;
+  const o = starOrbit(L, theta, k);
+  return {
+    elements: {
+      kind: 'campbell',
+      periodYears: at('periodYears'),
+      periapsis: `JD ${at('periapsisDays').toFixed(6)}`,
+      eccentricity: at('eccentricity'),
+      semiMajorAxisArcsec: at('semiMajorAxisArcsec'),
+      inclinationDeg: at('inclinationDeg'),
+      ascendingNodeDeg: at('ascendingNodeDeg'),
+      argPeriapsisDeg: at('argPeriapsisDeg'),
+    },
+    ...(o.distancePc !== null ? { distancePc: o.distancePc } : {}),
+    ...(L.sys.gamma >= 0 ? { systemicVelocityKmS: o.gammaKmS } : {}),
+    relativity: { ...L.stars[k]!.relativity },
+    ...(L.sys.fz >= 0 || L.sys.fw >= 0 ? { relativityFactors: { ...o.factors } } : {}),
+    ...(o.massRatio !== null ? { massRatio: o.massRatio } : {}),
+    ...(o.lightFraction !== null ? { lightFraction: o.lightFraction } : {}),
+    covariance,
+  };
+}
+
+/**
+ * A star's residuals, raw (position angles in degrees, wrapped to ±180°) and whitened, appended to
+ * `residuals` with outliers flagged; returns the star's χ² and its number of components.
+ */
+function starResiduals(
+  s: Solution['L']['stars'][number],
+  fit: { r: ArrayLike<number>; model: ArrayLike<number> },
+  residuals: Residual[],
+): { chi2: number; components: number } {
+  const { r, model } = fit;
+  let chi2 = 0,
+    comps = 0;
+  let c = s.firstComponent;
+  for (const m of s.obs) {
+    const n = componentCount(m);
+    const res: number[] = [],
+      norm: number[] = [];
+    let outlier = false;
+    for (let q = 0; q < n; q++) {
+      let d = m.value[q]! - model[c + q]!;
+      if (m.kind === 'separation' && q === 1) d = Math.atan2(Math.sin(d), Math.cos(d));
+      res.push(m.kind === 'separation' && q === 1 ? d / DEG : d);
+      norm.push(d / m.sigma[q]!);
+      chi2 += r[c + q]! ** 2;
+      if (Math.abs(r[c + q]!) > OUTLIER_SIGMA) outlier = true;
+    }
+    comps += n;
+    residuals.push({
+      star: s.name,
+      index: m.index,
+      ...(m.id !== undefined ? { id: m.id } : {}),
+      kind: m.kind,
+      component: m.component,
+      jd: m.jd,
+      epoch: jdToIso(m.jd),
+      residual: res,
+      normalized: norm,
+      outlier,
+    });
+    c += n;
+  }
+  return { chi2, components: comps };
 }
 
 /**
