@@ -22,6 +22,7 @@ import {
 } from './problem.ts';
 import { FitRefusal } from './refusal.ts';
 import type { CheckedRequest, CheckedStar } from './request.ts';
+import type { RangeHint } from './types.ts';
 
 export interface Solution {
   L: Layout;
@@ -385,36 +386,8 @@ export function solveStar(
   refuseEarly(star, 7);
   refuseOneBody(b, star);
   refusePhotocentre(b, star);
-  if (b.free.length > b.L.components + b.priors.length) {
-    throw new FitRefusal(
-      'too-few-measurements',
-      `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`,
-    );
-  }
-  const { first, last } = epochExtent(star.obs.map((m) => m.jd));
-  const span = Math.max(1, last - first);
-  const fixedVal = (key: string) => {
-    const j = b.L.params.findIndex((p) => p.key === key);
-    return j >= 0 && b.fixedMask[j] ? b.base[j]! : null;
-  };
-  const pFix = fixedVal('periodYears'),
-    eFix = fixedVal('eccentricity');
-  if (pFix !== null)
-    refusePhases(
-      star.name,
-      star.obs.map((m) => m.jd),
-      pFix,
-      0,
-    );
-  const hp = star.hints.periodYears;
-  const periodDays =
-    pFix !== null
-      ? { min: pFix, max: pFix }
-      : hp
-        ? { min: hp.min * JULIAN_YEAR_DAYS, max: hp.max * JULIAN_YEAR_DAYS }
-        : { min: span / 2, max: 20 * span };
-  const eccentricity =
-    eFix !== null ? { min: eFix, max: eFix } : (star.hints.eccentricity ?? { min: 0, max: 0.97 });
+  refuseTooFew(b);
+  const { periodDays, eccentricity } = searchRanges(b, star);
   // Many epochs: the search and the starts' LM run on an even subset, and only the best minimum
   // is refined on every measurement (the basin is the same; the grid's cost stops growing with n).
   const coarse =
@@ -453,6 +426,42 @@ export function solveStar(
     periodRanges: [periodDays],
     covariance: withCovariance ? covarianceOf(best!.problem, best!.lm, req) : [],
   };
+}
+
+/**
+ * The grid's period and eccentricity ranges: a fixed value alone (a fixed period is first checked
+ * for phase coverage), else the star's hints, else half the epochs' span to twenty spans and
+ * e ≤ 0.97.
+ */
+function searchRanges(
+  b: Built,
+  star: CheckedStar,
+): { periodDays: RangeHint; eccentricity: RangeHint } {
+  const { first, last } = epochExtent(star.obs.map((m) => m.jd));
+  const span = Math.max(1, last - first);
+  const fixedVal = (key: string) => {
+    const j = b.L.params.findIndex((p) => p.key === key);
+    return j >= 0 && b.fixedMask[j] ? b.base[j]! : null;
+  };
+  const pFix = fixedVal('periodYears'),
+    eFix = fixedVal('eccentricity');
+  if (pFix !== null)
+    refusePhases(
+      star.name,
+      star.obs.map((m) => m.jd),
+      pFix,
+      0,
+    );
+  const hp = star.hints.periodYears;
+  const periodDays =
+    pFix !== null
+      ? { min: pFix, max: pFix }
+      : hp
+        ? { min: hp.min * JULIAN_YEAR_DAYS, max: hp.max * JULIAN_YEAR_DAYS }
+        : { min: span / 2, max: 20 * span };
+  const eccentricity =
+    eFix !== null ? { min: eFix, max: eFix } : (star.hints.eccentricity ?? { min: 0, max: 0.97 });
+  return { periodDays, eccentricity };
 }
 
 /**
@@ -498,14 +507,51 @@ function median(xs: number[]): number {
 /** The fit of a request: one star alone, or all stars jointly around one primary. */
 export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): Solution {
   if (req.stars.length === 1) return solveStar(req, req.stars[0]!, true, true, mode);
+  // 1. The joint layout, refused at once when it has more free parameters than data.
   const b = build(req, req.stars, true);
+  refuseTooFew(b);
+  // 2. Each star alone, then a joint start from their medians (and one from the given orbits).
+  const singles = req.stars.map((s) => solveStar(req, s, false, false, mode));
+  const t = startFromSingles(b, singles);
+  const starts: Float64Array[] = [t];
+  if (req.stars.some((s) => s.start)) starts.push(startFromGiven(b, req, t));
+  // 3. LM from each start; the lowest χ² whose covariance exists, else the lowest χ²'s refusal.
+  const runs = starts.map((t0) => lmOn(b, t0, req, mode)).sort((x, y) => x.lm.cost - y.lm.cost);
+  let firstError: unknown = null;
+  for (const run of runs) {
+    try {
+      refuseSinglePhase(b.L, run.theta);
+      const r = nearDataPassages(run);
+      return {
+        L: b.L,
+        problem: r.problem,
+        theta: r.theta,
+        lm: r.lm,
+        covariance: covarianceOf(r.problem, r.lm, req),
+        periodRanges: singles.map((s) => s.periodRanges[0]!),
+      };
+    } catch (err) {
+      firstError ??= err;
+    }
+  }
+  throw firstError;
+}
+
+function refuseTooFew(b: Built): void {
   if (b.free.length > b.L.components + b.priors.length) {
     throw new FitRefusal(
       'too-few-measurements',
       `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`,
     );
   }
-  const singles = req.stars.map((s) => solveStar(req, s, false, false, mode));
+}
+
+/**
+ * A joint start from the single-star solutions: the distance (fixed, else the median of the
+ * stars with velocities, else its prior's mean), each star's elements, the median of the masses
+ * they imply at that distance, and the mean γ and frame terms.
+ */
+function startFromSingles(b: Built, singles: Solution[]): Float64Array {
   const { L } = b;
   const t = new Float64Array(L.params.length);
   const ds = singles.filter((s) => s.L.stars[0]!.hasRv).map((s) => s.theta[s.L.sys.d]!);
@@ -539,44 +585,27 @@ export function solve(req: CheckedRequest, mode: DerivativeMode = 'analytic'): S
     if (L.sys[key] >= 0)
       t[L.sys[key]] = singles.reduce((a, s) => a + s.theta[s.L.sys[key]]!, 0) / singles.length;
   }
-  // Starts: the single-star solutions, and (when given) the stars' starting orbits with the mass they imply.
-  const starts: Float64Array[] = [t];
-  if (req.stars.some((s) => s.start)) {
-    let t2: Float64Array = Float64Array.from(t);
-    req.stars.forEach((s, k) => {
-      if (s.start) t2 = withElements(L, k, t2, s.start);
-    });
-    const given = req.stars.flatMap((s) => (s.start?.distancePc ? [s.start.distancePc] : []));
-    const d2 = b.fixedMask[L.sys.d] ? d0 : given.length ? median(given) : d0;
-    t2[L.sys.d] = d2;
-    const implied = req.stars.flatMap((s) =>
-      s.start ? [massSolar(semiMajorAxisAu(s.start.aMas, d2), s.start.periodDays)] : [],
-    );
-    t2[L.sys.M] = median(implied);
-    const gammas = req.stars.flatMap((s) =>
-      s.start?.distancePc !== undefined ? [s.start.gammaKmS] : [],
-    );
-    if (L.sys.gamma >= 0 && gammas.length) t2[L.sys.gamma] = median(gammas);
-    starts.push(t2);
-  }
-  // The lowest χ² whose covariance exists; if none has one, the lowest χ²'s refusal.
-  const runs = starts.map((t0) => lmOn(b, t0, req, mode)).sort((x, y) => x.lm.cost - y.lm.cost);
-  let firstError: unknown = null;
-  for (const run of runs) {
-    try {
-      refuseSinglePhase(L, run.theta);
-      const r = nearDataPassages(run);
-      return {
-        L,
-        problem: r.problem,
-        theta: r.theta,
-        lm: r.lm,
-        covariance: covarianceOf(r.problem, r.lm, req),
-        periodRanges: singles.map((s) => s.periodRanges[0]!),
-      };
-    } catch (err) {
-      firstError ??= err;
-    }
-  }
-  throw firstError;
+  return t;
+}
+
+/** A joint start from the stars' starting orbits, with the distance, mass and γ they imply. */
+function startFromGiven(b: Built, req: CheckedRequest, t: Float64Array): Float64Array {
+  const { L } = b;
+  const d0 = t[L.sys.d]!;
+  let t2: Float64Array = Float64Array.from(t);
+  req.stars.forEach((s, k) => {
+    if (s.start) t2 = withElements(L, k, t2, s.start);
+  });
+  const given = req.stars.flatMap((s) => (s.start?.distancePc ? [s.start.distancePc] : []));
+  const d2 = b.fixedMask[L.sys.d] ? d0 : given.length ? median(given) : d0;
+  t2[L.sys.d] = d2;
+  const implied = req.stars.flatMap((s) =>
+    s.start ? [massSolar(semiMajorAxisAu(s.start.aMas, d2), s.start.periodDays)] : [],
+  );
+  t2[L.sys.M] = median(implied);
+  const gammas = req.stars.flatMap((s) =>
+    s.start?.distancePc !== undefined ? [s.start.gammaKmS] : [],
+  );
+  if (L.sys.gamma >= 0 && gammas.length) t2[L.sys.gamma] = median(gammas);
+  return t2;
 }
