@@ -53,6 +53,42 @@ export function costOf(r: Float64Array, loss: 'gaussian' | 'huber', k = 2): numb
   return s;
 }
 
+/** Iteratively reweighted rows: 1 for the Gaussian loss, min(1, k/|r|) for Huber's. */
+function rowWeights(
+  r: Float64Array,
+  loss: LmOptions['loss'],
+  k: number,
+): Float64Array<ArrayBuffer> {
+  const weights = new Float64Array(r.length);
+  for (let i = 0; i < r.length; i++)
+    weights[i] = loss === 'huber' && Math.abs(r[i]!) > k ? k / Math.abs(r[i]!) : 1;
+  return weights;
+}
+
+/** JᵀWJ (upper triangle, row-major n×n) and JᵀWr into `JtJ` and `g`, skipping zero entries of J. */
+function normalEquations(
+  r: Float64Array,
+  J: Float64Array,
+  weights: Float64Array,
+  n: number,
+  JtJ: Float64Array,
+  g: Float64Array,
+): void {
+  JtJ.fill(0);
+  g.fill(0);
+  for (let i = 0; i < r.length; i++) {
+    const w = weights[i]!,
+      ri = r[i]!,
+      base = i * n;
+    for (let a = 0; a < n; a++) {
+      const ja = J[base + a]! * w;
+      if (ja === 0) continue;
+      g[a] = g[a]! + ja * ri;
+      for (let b = a; b < n; b++) JtJ[a * n + b] = JtJ[a * n + b]! + ja * J[base + b]!;
+    }
+  }
+}
+
 export function levenbergMarquardt(
   problem: LeastSquares,
   start: Float64Array,
@@ -75,24 +111,10 @@ export function levenbergMarquardt(
   const JtJ = new Float64Array(n * n),
     g = new Float64Array(n);
   for (; iter < maxIter && !converged; iter++) {
-    const { r, J } = ev;
-    const rows = r.length;
-    weights = new Float64Array(rows);
-    for (let i = 0; i < rows; i++)
-      weights[i] = loss === 'huber' && Math.abs(r[i]!) > k ? k / Math.abs(r[i]!) : 1;
-    JtJ.fill(0);
-    g.fill(0);
-    for (let i = 0; i < rows; i++) {
-      const w = weights[i]!,
-        ri = r[i]!,
-        base = i * n;
-      for (let a = 0; a < n; a++) {
-        const ja = J![base + a]! * w;
-        if (ja === 0) continue;
-        g[a] = g[a]! + ja * ri;
-        for (let b = a; b < n; b++) JtJ[a * n + b] = JtJ[a * n + b]! + ja * J![base + b]!;
-      }
-    }
+    // 1. Row weights (Huber: k/|r| beyond k), then the weighted normal equations JᵀWJ and JᵀWr.
+    weights = rowWeights(ev.r, loss, k);
+    normalEquations(ev.r, ev.J!, weights, n, JtJ, g);
+    // 2. Damped steps (Marquardt's diagonal scaling) until one lowers the cost: λ down on success.
     let maxDiag = 0;
     for (let a = 0; a < n; a++) maxDiag = Math.max(maxDiag, JtJ[a * n + a]!);
     let accepted = false;
