@@ -50,6 +50,48 @@ export interface GridNode {
 
 const E_NODES = [0, 0.15, 0.3, 0.45, 0.6, 0.7, 0.8, 0.87, 0.92, 0.95, 0.97];
 
+/** Period nodes: the phase drifts by ≤ 0.03 cycle over the span between neighbours (≤ 20 % steps). */
+function periodNodes(range: GridOptions['periodDays'], span: number): number[] {
+  const periods: number[] = [];
+  for (let P = range.min; P <= range.max * 1.0000001; P *= 1 + Math.min((0.03 * P) / span, 0.2))
+    periods.push(P);
+  if (periods.length === 0) periods.push(range.min);
+  return periods;
+}
+
+/** The eccentricity nodes inside the range, or its middle when none falls inside. */
+function eccentricityNodes(range: GridOptions['eccentricity']): number[] {
+  const eNodes = E_NODES.filter((e) => e >= range.min - 1e-12 && e <= range.max + 1e-12);
+  if (eNodes.length === 0) eNodes.push(0.5 * (range.min + range.max));
+  return eNodes;
+}
+
+/**
+ * Every node as (period row, eccentricity node, phase in cycles), phases finer at high e: from 24
+ * to 600 per orbit, 4/(1 − e)^1.5.
+ */
+function enumerateNodes(
+  periodCount: number,
+  eNodes: number[],
+): { count: number; row: Int32Array; ecc: Int32Array; phase: Float64Array } {
+  const perE = eNodes.map((e) => Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5))));
+  const count = periodCount * perE.reduce((x, y) => x + y, 0);
+  const row = new Int32Array(count),
+    ecc = new Int32Array(count),
+    phase = new Float64Array(count);
+  let c = 0;
+  for (let r = 0; r < periodCount; r++) {
+    for (let k = 0; k < eNodes.length; k++) {
+      for (let ph = 0; ph < perE[k]!; ph++, c++) {
+        row[c] = r;
+        ecc[c] = k;
+        phase[c] = ph / perE[k]!;
+      }
+    }
+  }
+  return { count, row, ecc, phase };
+}
+
 export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const ast = astrometryColumns(obs);
   const rv = obs.filter((m) => m.kind === 'radial-velocity');
@@ -57,19 +99,8 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const span = Math.max(t1 - t0, 1e-3);
   const tRef = 0.5 * (t0 + t1);
   const nLin = 2 + (o.frameOffset ? 1 : 0) + (o.frameDrift ? 1 : 0);
-  // Period nodes: the phase drifts by ≤ 0.03 cycle over the span between neighbours.
-  const periods: number[] = [];
-  for (
-    let P = o.periodDays.min;
-    P <= o.periodDays.max * 1.0000001;
-    P *= 1 + Math.min((0.03 * P) / span, 0.2)
-  )
-    periods.push(P);
-  if (periods.length === 0) periods.push(o.periodDays.min);
-  const eNodes = E_NODES.filter(
-    (e) => e >= o.eccentricity.min - 1e-12 && e <= o.eccentricity.max + 1e-12,
-  );
-  if (eNodes.length === 0) eNodes.push(0.5 * (o.eccentricity.min + o.eccentricity.max));
+  const periods = periodNodes(o.periodDays, span);
+  const eNodes = eccentricityNodes(o.eccentricity);
   const nodes: GridNode[] = [];
   let cut = Infinity;
   const fit: NodeFit = { chi2: 0, sx: new Float64Array(nLin), sy: new Float64Array(nLin) };
@@ -85,22 +116,7 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
       return x < TABLE_SIZE ? x : 0;
     }),
   );
-  // The nodes as (period row, eccentricity node, phase offset in table intervals).
-  const perE = eNodes.map((e) => Math.min(600, Math.max(24, Math.ceil(4 / (1 - e) ** 1.5))));
-  const count = periods.length * perE.reduce((x, y) => x + y, 0);
-  const row = new Int32Array(count),
-    ecc = new Int32Array(count),
-    phase = new Float64Array(count);
-  let c = 0;
-  for (let r = 0; r < periods.length; r++) {
-    for (let k = 0; k < eNodes.length; k++) {
-      for (let ph = 0; ph < perE[k]!; ph++, c++) {
-        row[c] = r;
-        ecc[c] = k;
-        phase[c] = ph / perE[k]!;
-      }
-    }
-  }
+  const { count, row, ecc, phase } = enumerateNodes(periods.length, eNodes);
   const tables = eNodes.map((e) => anomalyTable(e));
   // Most promising first: each node's bound from its first eighth of the epochs (cheap), then the
   // nodes with the 4·POOL lowest bounds in order of bound, so the pool's cut is tight early, then the
