@@ -129,6 +129,21 @@ export interface NightReport {
 
 const hoursOf = (i: Interval) => (i.endJd - i.startJd) * 24;
 
+/** What every target of one night is computed against. */
+interface NightSetting {
+  site: Site;
+  limits: Limits;
+  method: 'fast' | 'exact';
+  frame: NightFrame;
+  dark: Interval[];
+  edges: Interval;
+  stepDays: number;
+  midnightJd: number;
+  /** One set of curve instants for every target and the Moon (empty for no curves). */
+  curveJd: number[];
+  curveUtc: string[];
+}
+
 export function nightReport(
   site: Site,
   date: string,
@@ -137,7 +152,6 @@ export function nightReport(
   options: NightOptions = {},
 ): NightReport {
   const method = options.method ?? 'fast';
-  const stepDays = (options.stepMinutes ?? 5) / 1440;
   const curveStep = options.curveStepMinutes ?? 10;
   const span = nightSpan(site, date);
   const zone = site.timeZone;
@@ -149,96 +163,23 @@ export function nightReport(
       : darknessFast(frame, c.sunLimitDeg);
   const sun = sunNight(site, span);
   const moon = moonNight(site, span, sun.midnightJd);
-  const edges: Interval = { startJd: span.startJd, endJd: span.endJd };
-  // One set of curve instants for every target and the Moon.
   const curveJd: number[] = [];
   if (curveStep > 0) {
     const n = Math.floor(((span.endJd - span.startJd) * 1440) / curveStep);
     for (let i = 0; i <= n; i++) curveJd.push(span.startJd + (i * curveStep) / 1440);
   }
-  const curveUtc = curveJd.map((jd) => instant(jd, zone).utc);
-  const point = (p: { jd: number; altitudeDeg: number; airmass: number }): ReportPoint => ({
-    ...instant(p.jd, zone),
-    altitudeDeg: p.altitudeDeg,
-    airmass: p.airmass,
-  });
-
-  const targetNights = targets.map((target): TargetNight => {
-    const ft = frameTarget(frame, target);
-    const fast = fastSampler(frame, ft);
-    const sample = method === 'exact' ? exactSampler(site, target) : fast;
-    let transits = transitTimes(
-      ft.raRad,
-      frame.lastStartRad,
-      frame.lastRateRadPerDay,
-      span.startJd,
-      span.endJd,
-    );
-    if (method === 'exact')
-      transits = transits.map((t) => refineTransit(sample, t, frame.lastRateRadPerDay));
-    const windows = findWindows(sample, c, dark, edges, stepDays, transits).map((w) => ({
-      start: instant(w.startJd, zone),
-      end: instant(w.endJd, zone),
-      hours: hoursOf(w),
-      opensBy: w.opensBy,
-      closesBy: w.closesBy,
-      transit: w.transit && point(w.transit),
-      best: {
-        ...point(w.best),
-        seeingArcsec: w.best.seeingArcsec,
-        moonSeparationDeg: w.best.moonSeparationDeg,
-      },
-    }));
-    let curve: TargetNight['curve'] = null;
-    if (curveStep > 0) {
-      curve = {
-        utc: curveUtc,
-        altitudeDeg: [],
-        azimuthDeg: [],
-        airmass: [],
-        hourAngleDeg: [],
-        parallacticAngleDeg: [],
-        moonSeparationDeg: [],
-        closedBy: [],
-      };
-      const mask: number[] | undefined = c.mask.length > 0 ? [] : undefined;
-      if (mask) curve.horizonMaskDeg = mask;
-      for (const jd of curveJd) {
-        const s = fast(jd);
-        const x = airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg);
-        curve.altitudeDeg.push(round(s.altitudeDeg, 3));
-        curve.azimuthDeg.push(round(s.azimuthDeg, 3));
-        curve.airmass.push(s.altitudeDeg > 0 && Number.isFinite(x) ? round(x, 4) : null);
-        curve.hourAngleDeg.push(round(s.hourAngleRad / DEG, 3));
-        curve.parallacticAngleDeg.push(
-          round(parallacticAngleRad(s.hourAngleRad, ft.decRad, site.latitudeDeg * DEG) / DEG, 2),
-        );
-        curve.moonSeparationDeg.push(round(s.moonSeparationDeg, 2));
-        mask?.push(round(maskAltitudeDeg(c.mask, s.azimuthDeg), 3));
-        const inDark = dark.some((d) => jd >= d.startJd && jd <= d.endJd);
-        curve.closedBy.push(inDark ? brokenLimit(s, c) : 'darkness');
-      }
-    }
-    return {
-      name: target.name,
-      raOfDateDeg: ft.raRad / DEG,
-      decOfDateDeg: ft.decRad / DEG,
-      observableHours: windows.reduce((h, w) => h + w.hours, 0),
-      moonSeparationDeg: fast(sun.midnightJd).moonSeparationDeg,
-      sunSeparationDeg: fast(sun.midnightJd).sunSeparationDeg,
-      windows,
-      curve,
-    };
-  });
-
-  const twilights = {} as NightReport['sun']['twilights'];
-  for (const kind of Object.keys(TWILIGHT_SUN_ALTITUDE_DEG) as TwilightKind[]) {
-    twilights[kind] = {
-      dusk: at(sun.dusk[kind]),
-      dawn: at(sun.dawn[kind]),
-      sunAltitudeDeg: TWILIGHT_SUN_ALTITUDE_DEG[kind],
-    };
-  }
+  const setting: NightSetting = {
+    site,
+    limits: c,
+    method,
+    frame,
+    dark,
+    edges: { startJd: span.startJd, endJd: span.endJd },
+    stepDays: (options.stepMinutes ?? 5) / 1440,
+    midnightJd: sun.midnightJd,
+    curveJd,
+    curveUtc: curveJd.map((jd) => instant(jd, zone).utc),
+  };
   return {
     site: {
       name: site.name,
@@ -261,7 +202,7 @@ export function nightReport(
       set: at(sun.setJd),
       rise: at(sun.riseJd),
       midnight: instant(sun.midnightJd, zone),
-      twilights,
+      twilights: twilightTable(sun, zone),
     },
     darkness: {
       limit: c.darknessLabel,
@@ -278,7 +219,7 @@ export function nightReport(
       transit: at(moon.transitJd),
       illuminatedFraction: moon.illuminatedFraction,
       phaseDeg: moon.phaseDeg,
-      curve: curveStep > 0 ? moonCurve(frame, curveJd, curveUtc) : null,
+      curve: curveStep > 0 ? moonCurve(frame, curveJd, setting.curveUtc) : null,
     },
     limits: {
       altitudeLimitDeg: c.altitudeLimitDeg,
@@ -289,9 +230,110 @@ export function nightReport(
       horizonMask: c.mask.length > 0,
     },
     method,
-    targets: targetNights,
+    targets: targets.map((target) => targetNight(setting, target)),
     cautions: cautions(c),
   };
+}
+
+/** Each twilight's dusk and dawn in the site's zone, with the Sun's altitude that defines it. */
+function twilightTable(
+  sun: ReturnType<typeof sunNight>,
+  zone: string,
+): NightReport['sun']['twilights'] {
+  const twilights = {} as NightReport['sun']['twilights'];
+  for (const kind of Object.keys(TWILIGHT_SUN_ALTITUDE_DEG) as TwilightKind[]) {
+    const dusk = sun.dusk[kind],
+      dawn = sun.dawn[kind];
+    twilights[kind] = {
+      dusk: dusk === null ? null : instant(dusk, zone),
+      dawn: dawn === null ? null : instant(dawn, zone),
+      sunAltitudeDeg: TWILIGHT_SUN_ALTITUDE_DEG[kind],
+    };
+  }
+  return twilights;
+}
+
+/** One target's night: its place of date, its windows (transits refined on the exact path), its curve. */
+function targetNight(n: NightSetting, target: Target): TargetNight {
+  const { site, limits: c, frame } = n;
+  const zone = site.timeZone;
+  const point = (p: { jd: number; altitudeDeg: number; airmass: number }): ReportPoint => ({
+    ...instant(p.jd, zone),
+    altitudeDeg: p.altitudeDeg,
+    airmass: p.airmass,
+  });
+  const ft = frameTarget(frame, target);
+  const fast = fastSampler(frame, ft);
+  const sample = n.method === 'exact' ? exactSampler(site, target) : fast;
+  let transits = transitTimes(
+    ft.raRad,
+    frame.lastStartRad,
+    frame.lastRateRadPerDay,
+    n.edges.startJd,
+    n.edges.endJd,
+  );
+  if (n.method === 'exact')
+    transits = transits.map((t) => refineTransit(sample, t, frame.lastRateRadPerDay));
+  const windows = findWindows(sample, c, n.dark, n.edges, n.stepDays, transits).map((w) => ({
+    start: instant(w.startJd, zone),
+    end: instant(w.endJd, zone),
+    hours: hoursOf(w),
+    opensBy: w.opensBy,
+    closesBy: w.closesBy,
+    transit: w.transit && point(w.transit),
+    best: {
+      ...point(w.best),
+      seeingArcsec: w.best.seeingArcsec,
+      moonSeparationDeg: w.best.moonSeparationDeg,
+    },
+  }));
+  return {
+    name: target.name,
+    raOfDateDeg: ft.raRad / DEG,
+    decOfDateDeg: ft.decRad / DEG,
+    observableHours: windows.reduce((h, w) => h + w.hours, 0),
+    moonSeparationDeg: fast(n.midnightJd).moonSeparationDeg,
+    sunSeparationDeg: fast(n.midnightJd).sunSeparationDeg,
+    windows,
+    curve: n.curveJd.length > 0 ? targetCurve(n, fast, ft.decRad) : null,
+  };
+}
+
+/** A target's curve at the night's curve instants, each sample with the limit that closes it. */
+function targetCurve(
+  n: NightSetting,
+  fast: ReturnType<typeof fastSampler>,
+  decRad: number,
+): NonNullable<TargetNight['curve']> {
+  const c = n.limits;
+  const curve: NonNullable<TargetNight['curve']> = {
+    utc: n.curveUtc,
+    altitudeDeg: [],
+    azimuthDeg: [],
+    airmass: [],
+    hourAngleDeg: [],
+    parallacticAngleDeg: [],
+    moonSeparationDeg: [],
+    closedBy: [],
+  };
+  const mask: number[] | undefined = c.mask.length > 0 ? [] : undefined;
+  if (mask) curve.horizonMaskDeg = mask;
+  for (const jd of n.curveJd) {
+    const s = fast(jd);
+    const x = airmass(c.airmassFormula, s.trueAltitudeDeg, s.altitudeDeg);
+    curve.altitudeDeg.push(round(s.altitudeDeg, 3));
+    curve.azimuthDeg.push(round(s.azimuthDeg, 3));
+    curve.airmass.push(s.altitudeDeg > 0 && Number.isFinite(x) ? round(x, 4) : null);
+    curve.hourAngleDeg.push(round(s.hourAngleRad / DEG, 3));
+    curve.parallacticAngleDeg.push(
+      round(parallacticAngleRad(s.hourAngleRad, decRad, n.site.latitudeDeg * DEG) / DEG, 2),
+    );
+    curve.moonSeparationDeg.push(round(s.moonSeparationDeg, 2));
+    mask?.push(round(maskAltitudeDeg(c.mask, s.azimuthDeg), 3));
+    const inDark = n.dark.some((d) => jd >= d.startJd && jd <= d.endJd);
+    curve.closedBy.push(inDark ? brokenLimit(s, c) : 'darkness');
+  }
+  return curve;
 }
 
 /** From the night's Moon table (knots every hour, under 0.01° of interpolation error; see frame.ts). */
