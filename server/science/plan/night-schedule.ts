@@ -142,33 +142,8 @@ export function scheduleOnGrid(
   request: ScheduleRequest,
   cache: Map<number, TargetGrid>,
 ): NightSchedule {
-  const slewMinutes =
-    request.slewMinutes === undefined ? 8 : numberIn('slewMinutes', request.slewMinutes, 0, 120);
-  const sameTargetMinutes =
-    request.sameTargetMinutes === undefined
-      ? 3
-      : numberIn('sameTargetMinutes', request.sameTargetMinutes, 0, 120);
-  const method = request.method ?? 'auto';
-  if (!(SCHEDULE_METHODS as readonly string[]).includes(method))
-    throw new InputError('method', method, `must be one of ${SCHEDULE_METHODS.join(', ')}`);
-  const gridOf = (i: number) => {
-    let g = cache.get(i);
-    if (!g) {
-      g = targetGrid(grid, targets[i]!);
-      cache.set(i, g);
-    }
-    return g;
-  };
-  const candidates: Candidate[] = checkCandidates(request.candidates, targets).map((c) => {
-    const [firstEdge, lastEdge] = timingEdges(grid, c.earliestJd, c.latestJd);
-    return {
-      ...c,
-      slots: slotsFor(c.durationMinutes, grid),
-      grid: gridOf(c.targetIndex),
-      firstEdge,
-      lastEdge,
-    };
-  });
+  const { slewMinutes, sameTargetMinutes, method } = scheduleOptions(request);
+  const candidates = gridCandidates(grid, targets, request.candidates, cache);
   const byId = new Map(candidates.map((c) => [c.id, c]));
   const removed = readRemoved(request.remove, byId);
   const gapDays = (a: number, b: number) => (a === b ? sameTargetMinutes : slewMinutes) / 1440;
@@ -176,11 +151,7 @@ export function scheduleOnGrid(
     ...k,
     targetIndex: k.target === null ? -1 : targets.findIndex((t) => t.name === k.target),
   }));
-  const repeats = new Map<Candidate, string>();
-  for (const c of candidates) {
-    const same = kept.find((k) => k.counts && k.targetIndex === c.targetIndex && k.kind === c.kind);
-    if (same) repeats.set(c, `already has a kept block of this kind tonight (${same.label})`);
-  }
+  const repeats = keptRepeats(candidates, kept);
   // Clear of a kept block: the changeover gap on both sides (a target outside the request always needs a slew).
   const clearOfKept = (c: Candidate, startJd: number, endJd: number) =>
     kept.find((k) => {
@@ -204,37 +175,13 @@ export function scheduleOnGrid(
   const free = candidates.filter(
     (c) => !removed.has(c.id) && !repeats.has(c) && !pins.some((p) => p.candidate === c),
   );
-  const everFits = new Map<Candidate, boolean>();
-  const items: SolverItem[] = free.map((c) => {
-    const starts: number[] = [];
-    const values: number[] = [];
-    let fits = false;
-    for (let i = 0; i + c.slots < jd.length; i++) {
-      if (!fitsAt(c, i)) continue;
-      fits = true;
-      if (!clearOfPins(c, i) || clearOfKept(c, jd[i]!, jd[i + c.slots]!) !== null) continue;
-      starts.push(i);
-      values.push(valueAt(c, i));
-    }
-    everFits.set(c, fits);
-    return {
-      slots: c.slots,
-      group: c.targetIndex,
-      starts: Int32Array.from(starts),
-      values: Float64Array.from(values),
-    };
-  });
+  const { items, everFits } = solverItems(
+    free,
+    jd.length,
+    (c, i) => clearOfPins(c, i) && clearOfKept(c, jd[i]!, jd[i + c.slots]!) === null,
+  );
   const schedulable = items.filter((it) => it.starts.length > 0).length;
-  let used: 'exact' | 'heuristic';
-  if (method === 'exact') {
-    if (schedulable > EXACT_MAX_ITEMS)
-      throw new InputError(
-        'method',
-        method,
-        `solves at most ${EXACT_MAX_ITEMS} schedulable candidates (this night has ${schedulable}); use "auto" or "heuristic"`,
-      );
-    used = 'exact';
-  } else used = method === 'heuristic' || schedulable > AUTO_EXACT_ITEMS ? 'heuristic' : 'exact';
+  const used = methodFor(method, schedulable);
   const problem = { edgeJd: jd, items, gapDays };
   const chosen: Placement[] = used === 'exact' ? solveExact(problem) : solveGreedy(problem);
 
@@ -243,27 +190,7 @@ export function scheduleOnGrid(
     ...chosen.map((pl) => ({ c: free[pl.item]!, start: pl.start, pinned: false })),
   ].sort((a, b) => a.start - b.start || a.c.index - b.c.index);
   const zone = grid.site.timeZone;
-  const blocks: ScheduledBlock[] = placed.map(({ c, start, pinned }) => {
-    const end = start + c.slots;
-    const mid = Math.round((start + end) / 2);
-    return {
-      id: c.id,
-      target: c.targetName,
-      kind: c.kind,
-      start: instant(jd[start]!, zone),
-      end: instant(jd[end]!, zone),
-      minutes: Math.round((jd[end]! - jd[start]!) * 1440),
-      priority: c.priority,
-      value: valueAt(c, start),
-      airmassStart: c.grid.airmass[start]!,
-      airmassMiddle: c.grid.airmass[mid]!,
-      airmassEnd: c.grid.airmass[end]!,
-      altitudeMiddleDeg: c.grid.altitudeDeg[mid]!,
-      pinned,
-      laserGuideStar: c.laserGuideStar,
-      cautions: c.laserGuideStar ? [LASER_GUIDE_STAR_CAUTION] : [],
-    };
-  });
+  const blocks = placed.map(({ c, start, pinned }) => scheduledBlock(c, start, pinned, jd, zone));
   const leftOut = candidates
     .filter((c) => !placed.some((p) => p.c === c))
     .map((c) => ({
@@ -295,6 +222,139 @@ export function scheduleOnGrid(
     blocks,
     leftOut,
     cautions: notes,
+  };
+}
+
+/** The request's candidates, checked, with their slots, timing edges and the target's grid (cached). */
+function gridCandidates(
+  grid: NightGrid,
+  targets: readonly Target[],
+  input: ScheduleRequest['candidates'],
+  cache: Map<number, TargetGrid>,
+): Candidate[] {
+  const gridOf = (i: number) => {
+    let g = cache.get(i);
+    if (!g) {
+      g = targetGrid(grid, targets[i]!);
+      cache.set(i, g);
+    }
+    return g;
+  };
+  return checkCandidates(input, targets).map((c) => {
+    const [firstEdge, lastEdge] = timingEdges(grid, c.earliestJd, c.latestJd);
+    return {
+      ...c,
+      slots: slotsFor(c.durationMinutes, grid),
+      grid: gridOf(c.targetIndex),
+      firstEdge,
+      lastEdge,
+    };
+  });
+}
+
+/** Candidates that would repeat a kept block's target and kind tonight, with the words saying so. */
+function keptRepeats(
+  candidates: Candidate[],
+  kept: readonly (KeptBlock & { targetIndex: number })[],
+): Map<Candidate, string> {
+  const repeats = new Map<Candidate, string>();
+  for (const c of candidates) {
+    const same = kept.find((k) => k.counts && k.targetIndex === c.targetIndex && k.kind === c.kind);
+    if (same) repeats.set(c, `already has a kept block of this kind tonight (${same.label})`);
+  }
+  return repeats;
+}
+
+/** The changeover gaps and the solver asked for, each checked. */
+function scheduleOptions(request: ScheduleRequest): {
+  slewMinutes: number;
+  sameTargetMinutes: number;
+  method: ScheduleMethod;
+} {
+  const slewMinutes =
+    request.slewMinutes === undefined ? 8 : numberIn('slewMinutes', request.slewMinutes, 0, 120);
+  const sameTargetMinutes =
+    request.sameTargetMinutes === undefined
+      ? 3
+      : numberIn('sameTargetMinutes', request.sameTargetMinutes, 0, 120);
+  const method = request.method ?? 'auto';
+  if (!(SCHEDULE_METHODS as readonly string[]).includes(method))
+    throw new InputError('method', method, `must be one of ${SCHEDULE_METHODS.join(', ')}`);
+  return { slewMinutes, sameTargetMinutes, method };
+}
+
+/**
+ * Each free candidate's possible starts with their values: the slots where it fits the night's
+ * limits (`everFits` remembers whether any did) and `clear` allows (pins and kept blocks).
+ */
+function solverItems(
+  free: Candidate[],
+  edgeCount: number,
+  clear: (c: Candidate, start: number) => boolean,
+): { items: SolverItem[]; everFits: Map<Candidate, boolean> } {
+  const everFits = new Map<Candidate, boolean>();
+  const items = free.map((c): SolverItem => {
+    const starts: number[] = [];
+    const values: number[] = [];
+    let fits = false;
+    for (let i = 0; i + c.slots < edgeCount; i++) {
+      if (!fitsAt(c, i)) continue;
+      fits = true;
+      if (!clear(c, i)) continue;
+      starts.push(i);
+      values.push(valueAt(c, i));
+    }
+    everFits.set(c, fits);
+    return {
+      slots: c.slots,
+      group: c.targetIndex,
+      starts: Int32Array.from(starts),
+      values: Float64Array.from(values),
+    };
+  });
+  return { items, everFits };
+}
+
+/** "auto" solves exactly up to AUTO_EXACT_ITEMS schedulable candidates; "exact" refuses beyond its limit. */
+function methodFor(method: ScheduleMethod, schedulable: number): 'exact' | 'heuristic' {
+  if (method === 'exact') {
+    if (schedulable > EXACT_MAX_ITEMS)
+      throw new InputError(
+        'method',
+        method,
+        `solves at most ${EXACT_MAX_ITEMS} schedulable candidates (this night has ${schedulable}); use "auto" or "heuristic"`,
+      );
+    return 'exact';
+  }
+  return method === 'heuristic' || schedulable > AUTO_EXACT_ITEMS ? 'heuristic' : 'exact';
+}
+
+/** A placed candidate as the schedule shows it: its times, airmass at start, middle and end. */
+function scheduledBlock(
+  c: Candidate,
+  start: number,
+  pinned: boolean,
+  jd: Float64Array,
+  zone: string,
+): ScheduledBlock {
+  const end = start + c.slots;
+  const mid = Math.round((start + end) / 2);
+  return {
+    id: c.id,
+    target: c.targetName,
+    kind: c.kind,
+    start: instant(jd[start]!, zone),
+    end: instant(jd[end]!, zone),
+    minutes: Math.round((jd[end]! - jd[start]!) * 1440),
+    priority: c.priority,
+    value: valueAt(c, start),
+    airmassStart: c.grid.airmass[start]!,
+    airmassMiddle: c.grid.airmass[mid]!,
+    airmassEnd: c.grid.airmass[end]!,
+    altitudeMiddleDeg: c.grid.altitudeDeg[mid]!,
+    pinned,
+    laserGuideStar: c.laserGuideStar,
+    cautions: c.laserGuideStar ? [LASER_GUIDE_STAR_CAUTION] : [],
   };
 }
 
