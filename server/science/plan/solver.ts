@@ -52,43 +52,22 @@ export function solveExact(p: SolverProblem): Placement[] {
   if (n > EXACT_MAX_ITEMS) throw new RangeError(`solveExact: ${n} items exceed ${EXACT_MAX_ITEMS}`);
   const E = p.edgeJd.length;
   if (n === 0 || E === 0) return [];
-  // latest[a][b][s]: last edge t with edgeJd[t] ≤ edgeJd[s] − gap(a → b), or −1.
-  const latestEdge = (s: number, gap: number): number => {
-    const limit = p.edgeJd[s]! - gap + EPS;
-    let lo = -1,
-      hi = s; // edgeJd[lo] ≤ limit < edgeJd[hi]
-    while (hi - lo > 1) {
-      const mid = (lo + hi) >> 1;
-      if (p.edgeJd[mid]! <= limit) lo = mid;
-      else hi = mid;
-    }
-    return lo;
-  };
   const size = 1 << n;
-  // best[mask][last] = prefix-max over end edges of the best value of schedules using `mask` that end with `last`.
+  // F[mask][last] = prefix-max over end edges of the best value of schedules using `mask` that
+  // end with `last`; from[…] packs the previous state as prevLast * E + prevEnd (−1 for none),
+  // startOf[…] the start index chosen.
   const F: (Float64Array | null)[] = new Array(size * n).fill(null);
-  const from: (Int32Array | null)[] = new Array(size * n).fill(null); // packed: prevLast * E + prevEnd, −1 for none; start stored apart
+  const from: (Int32Array | null)[] = new Array(size * n).fill(null);
   const startOf: (Int32Array | null)[] = new Array(size * n).fill(null);
   const argmax: (Int32Array | null)[] = new Array(size * n).fill(null);
   const slot = (mask: number, last: number) => mask * n + last;
   for (let mask = 0; mask < size; mask++) {
-    // Turn F[mask][last] into prefix maxima (with the end edge where the maximum is reached).
+    // 1. Turn F[mask][last] into prefix maxima (with the end edge where the maximum is reached).
     for (let last = 0; last < n; last++) {
       const f = F[slot(mask, last)];
-      if (!f) continue;
-      const am = new Int32Array(E).fill(-1);
-      let best = -Infinity,
-        at = -1;
-      for (let t = 0; t < E; t++) {
-        if (f[t]! > best + EPS) {
-          best = f[t]!;
-          at = t;
-        }
-        f[t] = best;
-        am[t] = at;
-      }
-      argmax[slot(mask, last)] = am;
+      if (f) argmax[slot(mask, last)] = prefixMaxima(f);
     }
+    // 2. Extend every state of `mask` by each item b not in it, at each of b's starts.
     for (let b = 0; b < n; b++) {
       if (mask & (1 << b)) continue;
       const it = items[b]!;
@@ -100,7 +79,7 @@ export function solveExact(p: SolverProblem): Placement[] {
         for (let last = 0; last < n && mask !== 0; last++) {
           const f = F[slot(mask, last)];
           if (!f) continue;
-          const t = latestEdge(s, p.gapDays(items[last]!.group, it.group));
+          const t = latestEdge(p.edgeJd, s, p.gapDays(items[last]!.group, it.group));
           if (t < 0 || f[t] === -Infinity) continue;
           if (f[t]! > base + EPS) {
             base = f[t]!;
@@ -124,7 +103,7 @@ export function solveExact(p: SolverProblem): Placement[] {
       }
     }
   }
-  // The best final state; ties go to the first found (fewest blocks, lowest indices).
+  // 3. The best final state; ties go to the first found (fewest blocks, lowest indices).
   let best = 0,
     bestMask = 0,
     bestLast = -1;
@@ -138,10 +117,59 @@ export function solveExact(p: SolverProblem): Placement[] {
       }
     }
   }
+  // 4. Walk the back-pointers from the best final state.
+  if (bestLast < 0) return [];
+  return backtrack(items, { from, startOf, argmax }, n, E, bestMask, bestLast);
+}
+
+/** The last edge t with edgeJd[t] ≤ edgeJd[s] − gap, or −1 (binary search). */
+function latestEdge(edgeJd: Float64Array, s: number, gap: number): number {
+  const limit = edgeJd[s]! - gap + EPS;
+  let lo = -1,
+    hi = s; // edgeJd[lo] ≤ limit < edgeJd[hi]
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (edgeJd[mid]! <= limit) lo = mid;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** f becomes its running maximum over end edges; returns, per edge, where that maximum is reached. */
+function prefixMaxima(f: Float64Array): Int32Array {
+  const am = new Int32Array(f.length).fill(-1);
+  let best = -Infinity,
+    at = -1;
+  for (let t = 0; t < f.length; t++) {
+    if (f[t]! > best + EPS) {
+      best = f[t]!;
+      at = t;
+    }
+    f[t] = best;
+    am[t] = at;
+  }
+  return am;
+}
+
+/** The placements of the best schedule, in order, read back through the DP's pointers. */
+function backtrack(
+  items: readonly (SolverItem & { idx: number })[],
+  dp: {
+    from: (Int32Array | null)[];
+    startOf: (Int32Array | null)[];
+    argmax: (Int32Array | null)[];
+  },
+  n: number,
+  E: number,
+  bestMask: number,
+  bestLast: number,
+): Placement[] {
+  const { from, startOf, argmax } = dp;
+  const slot = (mask: number, last: number) => mask * n + last;
   const out: Placement[] = [];
   let mask = bestMask,
     last = bestLast,
-    end = bestLast >= 0 ? argmax[slot(bestMask, bestLast)]![E - 1]! : -1;
+    end = argmax[slot(bestMask, bestLast)]![E - 1]!;
   while (last >= 0) {
     const key = slot(mask, last);
     const j = startOf[key]![end]!;
