@@ -11492,7 +11492,13 @@ export interface components {
         };
         TargetDraws: {
             target: string;
+            /** @description the plan’s epochs of the target and its kept blocks that count */
             epochs: number;
+            /** @description kept blocks among the epochs: still planned (drawn with their night) and obtained (certain) */
+            kept: {
+                planned: number;
+                obtained: number;
+            };
             passage: {
                 date: string;
                 sigmaDaysNow: number | null;

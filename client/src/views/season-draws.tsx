@@ -152,7 +152,10 @@ export function SeasonDrawsPanel({
               <tbody key={t.target} data-target={t.target}>
                 <tr class="draw-target">
                   <th colSpan={8}>
-                    {t.target}: {t.epochs} epochs, {t.epochsLost.toFixed(1)} lost on average
+                    {t.target}: {t.epochs} epochs
+                    {t.kept.obtained + t.kept.planned > 0 &&
+                      ` (${t.kept.obtained} already obtained, certain; ${t.kept.planned} kept as planned)`}
+                    , {t.epochsLost.toFixed(1)} lost on average
                     {t.windowCovered !== null &&
                       `; an epoch survives in the passage’s window in ${(100 * t.windowCovered).toFixed(1)} % of seasons`}
                   </th>

@@ -65,7 +65,7 @@ export function renderDraws(view: SeasonDrawsView, format: OutputFormat): string
       .filter((t) => t.windowCovered !== null)
       .map(
         (t) =>
-          `  ${t.target}: at least one epoch survives in the passage's window in ${(100 * t.windowCovered!).toFixed(1)} % of seasons; ${t.epochsLost.toFixed(1)} of ${t.epochs} epochs lost on average`,
+          `  ${t.target}: at least one epoch survives in the passage's window in ${(100 * t.windowCovered!).toFixed(1)} % of seasons; ${t.epochsLost.toFixed(1)} of ${t.epochs} epochs lost on average${t.kept.obtained + t.kept.planned > 0 ? ` (${t.kept.obtained} already obtained, certain; ${t.kept.planned} kept as planned)` : ''}`,
       ),
     '',
   ];

@@ -429,7 +429,16 @@ export const SeasonDrawsSchema = z
           z
             .object({
               target: z.string(),
-              epochs: z.number().int(),
+              epochs: z.number().int().openapi({
+                description: 'the plan’s epochs of the target and its kept blocks that count',
+              }),
+              kept: z
+                .object({ planned: z.number().int(), obtained: z.number().int() })
+                .strict()
+                .openapi({
+                  description:
+                    'kept blocks among the epochs: still planned (drawn with their night) and obtained (certain)',
+                }),
               passage: z
                 .object({ date: z.string(), sigmaDaysNow: z.number().nullable() })
                 .strict()

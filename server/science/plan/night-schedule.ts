@@ -70,6 +70,8 @@ export interface KeptBlock {
   endJd: number;
   /** It stands for the night's epoch of its target and kind (planned or obtained, not lost or withdrawn): a candidate of the same target and kind is left out. */
   counts: boolean;
+  /** It was already obtained (in whole or in part): a season's draws take it as certain, not subject to the weather. */
+  obtained?: boolean;
 }
 
 export interface ScheduledBlock {

@@ -10,8 +10,10 @@
  * rank interval that states each percentile's sampling error, and the share of draws in which at
  * least one epoch survives in the passage's window.
  *
- * Blocks kept on the nights (SeasonSite.kept) are not drawn: the distribution is that of the
- * plan's own epochs on top of the current solution.
+ * Blocks kept on the plan's nights (SeasonSite.kept, those that count for a target) join the
+ * draws: one already obtained is certain (never lost, its σ as expected), one still only planned
+ * (pinned, made by hand) is lost with its night like the plan's own epochs. Its σ is the site's
+ * precision model at its middle airmass, as the planner reckons it.
  */
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { InputError } from '../errors.ts';
@@ -20,6 +22,9 @@ import type { MeasurementInput, RelativityFactorName } from '../orbit/fit/types.
 import { SeededRandom } from '../random.ts';
 import { parseEpoch } from '../time/index.ts';
 import { numberIn } from './checks.ts';
+import type { BlockKind } from './candidates.ts';
+import { precisionAt, precisionModel, type PrecisionModel } from './precision.ts';
+import { airmassAt } from './site-log.ts';
 import { FORECAST_FACTORS } from './forecast.ts';
 import { addInformation, informationModel, jacobians, posteriorCovariance } from './information.ts';
 import { coverageProbability, passagesIn, quadratic } from './passage.ts';
@@ -41,6 +46,8 @@ export interface DrawOptions {
   coverageWithinDays?: number;
   /** Keep each draw's values (for checks against refits); default false. */
   keepSamples?: boolean;
+  /** The campaign's precision model (over each site's), for kept blocks' σ, as the plan used it. */
+  precision?: Partial<PrecisionModel>;
 }
 
 /** A distribution over draws: percentiles (DRAW_PERCENTILES), mean, and how many draws gave a value. */
@@ -53,7 +60,9 @@ export interface Distribution {
 
 export interface TargetDraws {
   target: string;
+  /** The plan's epochs of the target and its kept blocks that count (obtained ones among them). */
   epochs: number;
+  kept: { planned: number; obtained: number };
   /** The passage drawn for (the coming one in the plan's range), or null. */
   passage: { date: string; sigmaDaysNow: number | null } | null;
   periapsisSigmaDays: Distribution | null;
@@ -129,6 +138,7 @@ interface Night {
 
 /** One planned epoch as the draws see it. */
 interface DrawEpoch {
+  /** Index of its site-night, or -1: obtained already, never lost. */
   night: number;
   jd: number;
   /** Information at the nominal σ (n×n) for the orbit model, and rows for the relativity model. */
@@ -183,15 +193,30 @@ export function seasonMonteCarlo(
   const endJd = parseEpoch(`${plan.endDate}T12:00:00Z`) + 1;
 
   const prepared = targets.map((t) => {
-    const mine = plan.epochs.filter((e) => e.target === t.target.name);
+    const mine = [
+      ...plan.epochs
+        .filter((e) => e.target === t.target.name)
+        .map((e) => ({
+          night: nightOf(e.site, e.date),
+          jd: (parseEpoch(e.block.start.utc) + parseEpoch(e.block.end.utc)) / 2,
+          kind: e.kind,
+          sigma: e.precision.sigma,
+          kept: false,
+        })),
+      ...keptEpochs(sites, t, options.precision, nightOf),
+    ];
+    const kept = {
+      planned: mine.filter((e) => e.kept && e.night >= 0).length,
+      obtained: mine.filter((e) => e.night < 0).length,
+    };
     const epochs: DrawEpoch[] = mine.map((e) => ({
-      night: nightOf(e.site, e.date),
-      jd: (parseEpoch(e.block.start.utc) + parseEpoch(e.block.end.utc)) / 2,
+      night: e.night,
+      jd: e.jd,
       info: null,
       factorRows: null,
     }));
     const orbit = t.target.orbit;
-    if (!orbit) return { t, epochs, model: null, passage: null, factors: null, mine };
+    if (!orbit) return { t, epochs, kept, model: null, passage: null, factors: null };
     const model = informationModel(orbit);
     const n = model.parameters.length;
     const passage =
@@ -202,10 +227,10 @@ export function seasonMonteCarlo(
     );
     epochs.forEach((e, k) => {
       const info = new Float64Array(n * n);
-      const p = mine[k]!.precision;
+      const sigma = mine[k]!.sigma;
       addInformation(info, jac[k]!, n, mine[k]!.kind, {
-        astrometryMas: p.sigma,
-        spectroscopyKmS: p.sigma,
+        astrometryMas: sigma,
+        spectroscopyKmS: sigma,
       });
       e.info = info;
     });
@@ -217,15 +242,15 @@ export function seasonMonteCarlo(
               kind: 'radial-velocity',
               epoch: epochs[k]!.jd,
               radialVelocityKmS: 0,
-              sigmaRadialVelocityKmS: e.precision.sigma,
+              sigmaRadialVelocityKmS: e.sigma,
             }
           : {
               kind: 'offsets',
               epoch: epochs[k]!.jd,
               dRaMas: 0,
               dDecMas: 0,
-              sigmaDRaMas: e.precision.sigma,
-              sigmaDDecMas: e.precision.sigma,
+              sigmaDRaMas: e.sigma,
+              sigmaDDecMas: e.sigma,
             },
       );
       const fisher = fisherRows(orbit, [...t.measurements, ...planned], [...FORECAST_FACTORS]);
@@ -237,7 +262,7 @@ export function seasonMonteCarlo(
       });
       factors = { n: nf, now, which: FORECAST_FACTORS.map((f) => fisher.parameters.indexOf(f)) };
     }
-    return { t, epochs, model, passage, factors, mine };
+    return { t, epochs, kept, model, passage, factors };
   });
 
   const rnd = new SeededRandom(o.seed);
@@ -258,13 +283,14 @@ export function seasonMonteCarlo(
     }
     prepared.forEach((pt, ti) => {
       const acc = out[ti]!;
-      const alive = pt.epochs.filter((e) => !lost[e.night]);
+      const alive = pt.epochs.filter((e) => e.night < 0 || !lost[e.night]);
       acc.lost += pt.epochs.length - alive.length;
+      const weightOf = (e: DrawEpoch) => (e.night < 0 ? 1 : 1 / factor[e.night]! ** 2);
       if (pt.model) {
         const n = pt.model.parameters.length;
         const added = new Float64Array(n * n);
         for (const e of alive) {
-          const w = 1 / factor[e.night]! ** 2;
+          const w = weightOf(e);
           for (let i = 0; i < n * n; i++) added[i] = added[i]! + w * e.info![i]!;
         }
         const cov = posteriorCovariance(pt.model, added);
@@ -275,7 +301,7 @@ export function seasonMonteCarlo(
       if (pt.factors) {
         const { n, now, which } = pt.factors;
         const F = Float64Array.from(now);
-        for (const e of alive) addRows(F, e.factorRows!, n, 1 / factor[e.night]! ** 2);
+        for (const e of alive) addRows(F, e.factorRows!, n, weightOf(e));
         sigmasFrom(F, n, which).forEach((s, q) => {
           acc.factors[q]!.push(s);
         });
@@ -298,6 +324,7 @@ export function seasonMonteCarlo(
       return {
         target: pt.t.target.name,
         epochs: pt.epochs.length,
+        kept: pt.kept,
         passage: pt.passage ? { date: pt.passage.date, sigmaDaysNow: pt.passage.sigmaDays } : null,
         periapsisSigmaDays: pt.passage ? distribution(acc.sigmaT, keep) : null,
         massFraction: pt.model?.lnMassGradient ? distribution(acc.mass, keep) : null,
@@ -312,8 +339,43 @@ export function seasonMonteCarlo(
         epochsLost: acc.lost / o.draws,
       };
     }),
-    assumptions: `each planned site-night lost with its chance (1 − its site's clear chance for that night), its epochs' σ times exp(${o.scatter}·z) per night; linear (Fisher) σ after the season, as a refit would report; kept blocks not drawn`,
+    assumptions: `each planned site-night lost with its chance (1 − its site's clear chance for that night), its epochs' σ times exp(${o.scatter}·z) per night; linear (Fisher) σ after the season, as a refit would report; kept blocks join the draws (obtained ones certain, planned ones lost with their night)`,
   };
+}
+
+/**
+ * The kept blocks of a target that count, by site-night: obtained ones at night −1 (certain), the
+ * rest on their night; σ from the site's precision model at the block's middle airmass (2 where the
+ * target is below the horizon there, as the planner takes it).
+ */
+function keptEpochs(
+  sites: readonly SeasonSite[],
+  t: DrawTarget,
+  campaign: Partial<PrecisionModel> | undefined,
+  nightOf: (site: string, date: string) => number,
+): { night: number; jd: number; kind: BlockKind; sigma: number; kept: boolean }[] {
+  return sites.flatMap((s, si) => {
+    const list = Object.entries(s.kept ?? {}).flatMap(([date, blocks]) =>
+      blocks.filter((k) => k.counts && k.target === t.target.name).map((k) => ({ date, k })),
+    );
+    if (list.length === 0) return [];
+    const model = precisionModel([campaign, s.precision], `sites.${si}.precision`);
+    return list.map(({ date, k }) => {
+      const jd = (k.startJd + k.endJd) / 2;
+      const p = precisionAt(
+        model,
+        airmassAt(s.site, t.target, jd) ?? 2,
+        s.limits?.zenithSeeingArcsec ?? null,
+      );
+      return {
+        night: k.obtained ? -1 : nightOf(s.site.name, date),
+        jd,
+        kind: k.kind,
+        sigma: k.kind === 'astrometry' ? p.astrometryMas : p.spectroscopyKmS,
+        kept: true,
+      };
+    });
+  });
 }
 
 function addRows(F: Float64Array, rows: readonly Float64Array[], n: number, w: number): void {

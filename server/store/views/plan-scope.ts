@@ -149,6 +149,7 @@ export function asKeptBlock(b: BlockRow, names: ReadonlyMap<number, string>): Ke
     startJd: unixMsToJd(Date.parse(b.startUtc)),
     endJd: unixMsToJd(Date.parse(b.endUtc)),
     counts: b.status === 'planned' || b.status === 'obtained' || b.status === 'partial',
+    obtained: b.status === 'obtained' || b.status === 'partial',
   };
 }
 

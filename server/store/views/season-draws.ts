@@ -46,6 +46,7 @@ export async function seasonPlanDraws(
     draws,
     seed,
     ...(precisionScatter !== undefined ? { precisionScatter } : {}),
+    ...(p.options.precision ? { precision: p.options.precision } : {}),
     ...(planRequest.periapsisWindowSigma !== undefined
       ? { periapsisWindowSigma: planRequest.periapsisWindowSigma }
       : {}),

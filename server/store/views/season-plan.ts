@@ -104,6 +104,8 @@ interface Prepared {
   /** The sites with their learned night weights, whatever the plan's mode (what a Monte Carlo draws from). */
   weatherSites: SeasonSite[];
   targets: SeasonTarget[];
+  /** The planner's settings: the campaign's goals with the request's own over them. */
+  options: SeasonOptions;
   siteIdByName: Map<string, number>;
   targetIdByName: Map<string, number>;
   nightByKey: Map<string, NightRow>;
@@ -281,6 +283,7 @@ export async function prepare(
     preview: { campaignId, at, nights: mode, weather, sites: sitesOut, plan, replaces, digest },
     weatherSites,
     targets,
+    options,
     siteIdByName: new Map(chosen.map((s) => [s.site.name, s.id])),
     targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
     nightByKey,

@@ -145,6 +145,58 @@ describe('a weather-aware season plan (constructed case: 60 % and 10 % of nights
     for (const q of p) expect(q.low <= q.value && q.value <= q.high).toBe(true);
   });
 
+  it('draws kept blocks: an obtained one is certain, a planned one is lost with its night', () => {
+    // constructed case: one kept block of P1 at the lossy site on the passage's night (clear with
+    // chance 0.4), 20 min either side of the passage date.
+    const peri = parseEpoch(PERI);
+    const keptOn = (obtained: boolean): SeasonSite[] => [
+      {
+        ...awareSites[0]!,
+        kept: {
+          '2027-06-09': [
+            {
+              label: 'block 1',
+              target: 'P1',
+              kind: 'astrometry',
+              startJd: peri - 20 / 1440,
+              endJd: peri + 20 / 1440,
+              counts: true,
+              obtained,
+            },
+          ],
+        },
+      },
+      awareSites[1]!,
+    ];
+    const draws = 4000;
+    for (const obtained of [true, false]) {
+      const sites = keptOn(obtained);
+      const p = plan(sites);
+      const d = seasonMonteCarlo(p, sites, [STAR], { draws, seed: 11 }).targets[0]!;
+      const own = p.epochs.filter((e) => e.target === 'P1');
+      const lossOf = (site: string) => (site === SITE.name ? 1 - LOSSY : 1 - RELIABLE);
+      // Expected epochs lost per season: each drawn epoch's loss chance (constructed case), the
+      // kept block's too when it is only planned.
+      const expected = own.reduce((a, e) => a + lossOf(e.site), 0) + (obtained ? 0 : 1 - LOSSY);
+      const sd = Math.sqrt(own.length + 1) * 0.5; // at most ½ per epoch
+      console.log(
+        `kept block ${obtained ? 'obtained' : 'planned'}: ${d.epochs} epochs, ${d.epochsLost.toFixed(3)} lost on average (expected ${expected.toFixed(3)}); window covered in ${(100 * d.windowCovered!).toFixed(1)} % of seasons`,
+      );
+      expect(d.epochs).toBe(own.length + 1);
+      expect(d.kept).toEqual({ obtained: obtained ? 1 : 0, planned: obtained ? 0 : 1 });
+      expect(Math.abs(d.epochsLost - expected)).toBeLessThan((4 * sd) / Math.sqrt(draws));
+      if (obtained) {
+        // The obtained block lies inside the passage's window: every season covers it.
+        expect(d.windowCovered).toBe(1);
+        // and in every season the date (σ 0.3 d) lies within 1 d of it with chance
+        // erf(1 / (0.3 √2)) = 0.9991 (constructed case): even the 5th percentile of coverage is there.
+        expect(d.coverage!.distribution.percentiles[0]!.value).toBeGreaterThan(0.99);
+      } else {
+        expect(d.windowCovered!).toBeLessThan(1);
+      }
+    }
+  });
+
   it('refuses bad draw settings, naming the field', () => {
     expect(() => seasonMonteCarlo(aware, awareSites, [STAR], { draws: 0, seed: 1 })).toThrow(
       /draws/,
