@@ -61,6 +61,7 @@ export type { SeasonDrawsRequest, SeasonDrawsView } from './views/season-draws.t
 export type { ReplanPreview, ReplanRequest } from './views/replan.ts';
 export type { TimeRequestInput } from './views/time-request.ts';
 export type { NightScheduleRequest } from './views/night-plan.ts';
+export { skyOfRows, type SkyMember, type StoredSky } from './views/visibility.ts';
 export type {
   AllocationNight,
   AllocationPreview,

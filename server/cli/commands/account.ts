@@ -1,12 +1,11 @@
 /** `epochwright account`: create users with a role, issue, list and revoke tokens (secrets shown once). */
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
-import { NotFoundError } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
+import { NotFoundError, type Store, type UserRow } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
 import { outputFormat, positiveId } from '../args.ts';
 import { render } from '../output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions, type Api } from './store-option.ts';
 
 const help = `usage: epochwright account add --name <name> --role lead|observer|viewer
        epochwright account token --name <name> [--label <text>]
@@ -29,7 +28,8 @@ roles: lead edits orbits, campaigns and sites; observer writes nights, blocks, r
 measurements; viewer reads.
 
 options:
-${DATABASE_HELP}
+${STORE_HELP}
+                         (add, list, feed-token and revoke; token and tokens open the database)
 `;
 
 /** A missing row named on the command line is bad input (exit 2), not a failure. */
@@ -46,7 +46,7 @@ export const accountCommand: Command = {
     const { values, positionals } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         name: { type: 'string' },
         role: { type: 'string' },
         label: { type: 'string' },
@@ -60,104 +60,142 @@ export const accountCommand: Command = {
     });
     const [action, ...extra] = positionals;
     if (extra.length) throw new UsageError(`unexpected ${JSON.stringify(extra[0])}`);
-    return withStore(
-      values.database,
-      async (store) => {
-        switch (action) {
-          case 'add': {
-            if (values.name === undefined || values.role === undefined)
-              throw new UsageError('account add needs --name and --role');
-            const issued = await store.users.createWithToken(
-              localActor(),
-              { name: values.name, role: values.role },
-              values.label ?? 'created at the command line',
-            );
-            return `created ${issued.user.role} ${JSON.stringify(issued.user.name)} (id ${issued.user.id}).\ntoken (shown once): ${issued.secret}\n`;
-          }
-          case 'token': {
-            if (values.name === undefined) throw new UsageError('account token needs --name');
-            const issued = await store.users.issueToken(
-              localActor(),
-              values.name,
-              values.label ?? 'issued at the command line',
-            );
-            return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
-          }
-          case 'feed-token': {
-            if (values.name === undefined || values['campaign-id'] === undefined)
-              throw new UsageError('account feed-token needs --name and --campaign-id');
-            const campaignId = positiveId('campaign-id', values['campaign-id']);
-            const issued = await store.users.issueFeedToken(
-              localActor(),
-              values.name,
-              campaignId,
-              values.label ?? 'calendar feed',
-            );
-            return `feed token for campaign ${campaignId} (token id ${issued.tokenId}), shown once: ${issued.secret}\nsubscribe to /api/campaigns/${campaignId}/calendar.ics?token=${issued.secret}\n`;
-          }
-          case 'list': {
-            const page = await store.users.list({ limit: 500 });
-            return render(
-              outputFormat(values),
-              page.items,
-              [
-                { header: 'id', value: (u) => u.id },
-                { header: 'name', value: (u) => u.name },
-                { header: 'role', value: (u) => u.role },
-                { header: 'created (UTC)', value: (u) => u.createdAt },
-              ],
-              page.items,
-            );
-          }
-          case 'tokens': {
-            const rows = await store.users
+    const writes = ['add', 'token', 'feed-token', 'revoke'].includes(action ?? '');
+    const onlyLocal = (what: string) => async (): Promise<never> => {
+      throw new UsageError(
+        `account ${what} opens the database (a server issues tokens only as account add and feed-token do): run it where the database is`,
+      );
+    };
+    const users = {
+      local: (store: Store) => store.users.list({ limit: 500 }).then((p) => p.items),
+      remote: async (api: Api) =>
+        (await api<{ items: UserRow[] }>({ method: 'GET', path: '/users', query: { limit: 500 } }))
+          .items,
+    };
+    switch (action) {
+      case 'add': {
+        if (values.name === undefined || values.role === undefined)
+          throw new UsageError('account add needs --name and --role');
+        const user = { name: values.name, role: values.role };
+        const issued = await storeAction(values, {
+          local: (store, actor) =>
+            store.users.createWithToken(actor, user, values.label ?? 'created at the command line'),
+          remote: async (api) => {
+            const r = await api<{ user: UserRow; tokenId: number; token: string }>({
+              method: 'POST',
+              path: '/users',
+              body: user,
+            });
+            return { user: r.user, tokenId: r.tokenId, secret: r.token };
+          },
+          writes,
+        });
+        return `created ${issued.user.role} ${JSON.stringify(issued.user.name)} (id ${issued.user.id}).\ntoken (shown once): ${issued.secret}\n`;
+      }
+      case 'token': {
+        if (values.name === undefined) throw new UsageError('account token needs --name');
+        const name = values.name;
+        const issued = await storeAction(values, {
+          local: (store, actor) =>
+            store.users.issueToken(actor, name, values.label ?? 'issued at the command line'),
+          remote: onlyLocal('token'),
+          writes,
+        });
+        return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
+      }
+      case 'feed-token': {
+        const remote = values.server !== undefined;
+        if ((values.name === undefined && !remote) || values['campaign-id'] === undefined)
+          throw new UsageError(
+            'account feed-token needs --name and --campaign-id (with --server: the token’s user holds it)',
+          );
+        const campaignId = positiveId('campaign-id', values['campaign-id']);
+        const label = values.label ?? 'calendar feed';
+        const issued = await storeAction(values, {
+          local: (store, actor) =>
+            store.users.issueFeedToken(actor, values.name!, campaignId, label),
+          remote: async (api) => {
+            const r = await api<{ tokenId: number; token: string }>({
+              method: 'POST',
+              path: `/campaigns/${campaignId}/feed-tokens`,
+              body: { label },
+            });
+            return { tokenId: r.tokenId, secret: r.token };
+          },
+          writes,
+        });
+        return `feed token for campaign ${campaignId} (token id ${issued.tokenId}), shown once: ${issued.secret}\nsubscribe to /api/campaigns/${campaignId}/calendar.ics?token=${issued.secret}\n`;
+      }
+      case 'list': {
+        const rows = await storeAction(values, users);
+        return render(
+          outputFormat(values),
+          rows,
+          [
+            { header: 'id', value: (u) => u.id },
+            { header: 'name', value: (u) => u.name },
+            { header: 'role', value: (u) => u.role },
+            { header: 'created (UTC)', value: (u) => u.createdAt },
+          ],
+          rows,
+        );
+      }
+      case 'tokens': {
+        const rows = await storeAction(values, {
+          local: (store) =>
+            store.users
               .listTokens(values.name)
               .catch(
                 asInputError('--name', values.name, 'does not name a user (see `account list`)'),
-              );
-            return render(
-              outputFormat(values),
-              rows,
-              [
-                { header: 'id', value: (t) => t.id },
-                { header: 'user', value: (t) => t.userName },
-                { header: 'role', value: (t) => t.role },
-                { header: 'label', value: (t) => t.label },
-                { header: 'issued (UTC)', value: (t) => t.createdAt },
-                { header: 'revoked (UTC)', value: (t) => t.revokedAt ?? '' },
-              ],
-              rows,
-            );
-          }
-          case 'revoke': {
-            if (values['token-id'] === undefined)
-              throw new UsageError('account revoke needs --token-id <id> (see `account tokens`)');
-            const id = Number(values['token-id']);
-            // An InputError like the unknown-token path below, so both name --token-id the same way.
-            if (!Number.isInteger(id) || id <= 0)
-              throw new InputError(
-                '--token-id',
-                values['token-id'],
-                'must be a positive whole number, a token id from `account tokens`',
-              );
-            const t = await store.users
-              .revokeToken(localActor(), id)
-              .catch(
-                asInputError(
-                  '--token-id',
-                  values['token-id'],
-                  'does not name an active token (see `account tokens`)',
-                ),
-              );
+              ),
+          remote: onlyLocal('tokens'),
+        });
+        return render(
+          outputFormat(values),
+          rows,
+          [
+            { header: 'id', value: (t) => t.id },
+            { header: 'user', value: (t) => t.userName },
+            { header: 'role', value: (t) => t.role },
+            { header: 'label', value: (t) => t.label },
+            { header: 'issued (UTC)', value: (t) => t.createdAt },
+            { header: 'revoked (UTC)', value: (t) => t.revokedAt ?? '' },
+          ],
+          rows,
+        );
+      }
+      case 'revoke': {
+        if (values['token-id'] === undefined)
+          throw new UsageError('account revoke needs --token-id <id> (see `account tokens`)');
+        const id = Number(values['token-id']);
+        // An InputError like the unknown-token path below, so both name --token-id the same way.
+        if (!Number.isInteger(id) || id <= 0)
+          throw new InputError(
+            '--token-id',
+            values['token-id'],
+            'must be a positive whole number, a token id from `account tokens`',
+          );
+        const unknown = asInputError(
+          '--token-id',
+          values['token-id'],
+          'does not name an active token (see `account tokens`)',
+        );
+        return storeAction(values, {
+          local: async (store, actor) => {
+            const t = await store.users.revokeToken(actor, id).catch(unknown);
             return `revoked token ${t.id} (${JSON.stringify(t.label)}) of ${JSON.stringify(t.userName)} at ${t.revokedAt ?? ''}; it no longer signs in.\n`;
-          }
-          default:
-            throw new UsageError(
-              `account: say add, token, list, tokens or revoke${action ? ` (not ${JSON.stringify(action)})` : ''}`,
-            );
-        }
-      },
-      { writes: ['add', 'token', 'feed-token', 'revoke'].includes(action ?? '') },
-    );
+          },
+          remote: async (api) => {
+            await api({ method: 'DELETE', path: `/tokens/${id}` }).catch(unknown);
+            return `revoked token ${id}; it no longer signs in.\n`;
+          },
+          writes,
+        });
+      }
+      default:
+        throw new UsageError(
+          `account: say add, token, feed-token, list, tokens or revoke${action ? ` (not ${JSON.stringify(action)})` : ''}`,
+        );
+    }
   },
 };

@@ -6,8 +6,7 @@ import { resolveEpochs } from '../../science/time/index.ts';
 import { ephemerisCsv, measurementsCsv } from '../../store/index.ts';
 import { optionalId } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
-import { SERVER_HELP, remoteOf, send, serverOptions } from '../remote.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright export measurements [--target-id <id>] [--json]
        epochwright export ephemeris --target-id <id> --start <epoch> --end <epoch> [--step <duration>] [--json]
@@ -23,19 +22,23 @@ archive       every stored record (systems, targets, orbit solutions with covari
               no tokens) as JSON, for 'epochwright restore --archive' into an empty database
 
 options:
-${DATABASE_HELP}
-${SERVER_HELP} (measurements, calendar and archive; the archive needs a lead's token)
+  --target-id <id>       measurements: only this target's; ephemeris: the target
+  --start, --end <epoch> ephemeris: first and last epoch (ISO 8601, JD, MJD, J…)
+  --step <duration>      ephemeris: ISO 8601 duration between epochs (default P30D)
+  --campaign-id <id>     calendar: the campaign
+  --at <epoch>           calendar: the moment its flags are computed for
+  --json                 measurements and ephemeris as JSON
+${STORE_HELP} (the archive needs a lead's token)
 `;
 
 export const exportCommand: Command = {
-  summary: 'export measurements, a stored target’s ephemeris, or a campaign calendar',
+  summary: 'export measurements, a stored target’s ephemeris, a campaign calendar, or everything',
   help,
   async run(argv) {
     const { values, positionals } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
-        ...serverOptions,
+        ...storeOptions,
         'target-id': { type: 'string' },
         'campaign-id': { type: 'string' },
         start: { type: 'string' },
@@ -49,59 +52,74 @@ export const exportCommand: Command = {
     });
     const [what] = positionals;
     const targetId = optionalId('target-id', values['target-id']);
-    const remote = remoteOf(values);
-    if (remote) {
-      if (what === 'measurements') {
-        const q = new URLSearchParams({ format: values.json ? 'json' : 'csv' });
-        if (targetId !== undefined) q.set('targetId', String(targetId));
-        const res = await send(remote, 'GET', `/exports/measurements?${q}`);
-        return values.json
-          ? `${JSON.stringify(((await res.json()) as { measurements: unknown }).measurements, null, 2)}\n`
-          : res.text();
+    const json = (x: unknown) => `${JSON.stringify(x, null, 2)}\n`;
+    switch (what) {
+      case 'measurements':
+        return storeAction(values, {
+          local: async (store) => {
+            const rows = await store.exports.measurements({ targetId });
+            return values.json ? json(rows) : measurementsCsv(rows);
+          },
+          remote: async (api) => {
+            const request = {
+              method: 'GET',
+              path: '/exports/measurements',
+              query: { format: values.json ? 'json' : 'csv', targetId },
+            } as const;
+            return values.json
+              ? json((await api<{ measurements: unknown }>(request)).measurements)
+              : api<string>(request);
+          },
+        });
+      case 'ephemeris': {
+        if (targetId === undefined || values.start === undefined || values.end === undefined)
+          throw new UsageError('export ephemeris needs --target-id, --start and --end');
+        const range = { start: values.start, end: values.end, step: values.step ?? 'P30D' };
+        return storeAction(values, {
+          local: async (store) => {
+            const { orbit } = await store.orbitSolutions.current(targetId);
+            const rows = ephemeris(orbit, resolveEpochs(range));
+            return values.json ? json(rows) : ephemerisCsv(rows);
+          },
+          remote: async (api) => {
+            const request = {
+              method: 'GET',
+              path: `/targets/${targetId}/ephemeris`,
+              query: { ...range, format: values.json ? 'json' : 'csv' },
+            } as const;
+            return values.json
+              ? json((await api<{ predictions: unknown }>(request)).predictions)
+              : api<string>(request);
+          },
+        });
       }
-      if (what === 'calendar') {
+      case 'calendar': {
         const campaignId = optionalId('campaign-id', values['campaign-id']);
         if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
-        const q = values.at === undefined ? '' : `?at=${encodeURIComponent(values.at)}`;
-        return (await send(remote, 'GET', `/campaigns/${campaignId}/calendar.ics${q}`)).text();
+        return storeAction(values, {
+          local: (store) =>
+            store.exports.calendar(
+              campaignId,
+              values.at === undefined ? {} : { flagsAtJd: parseEpoch(values.at, '--at') },
+            ),
+          remote: {
+            method: 'GET',
+            path: `/campaigns/${campaignId}/calendar.ics`,
+            query: { at: values.at },
+          },
+        });
       }
-      if (what === 'archive')
-        return `${JSON.stringify(await (await send(remote, 'GET', '/exports/archive')).json())}\n`;
-      throw new UsageError(
-        `export ${what ?? ''} reads the database itself: run it where the database is (--server takes measurements, calendar and archive)`,
-      );
+      case 'archive':
+        return `${JSON.stringify(
+          await storeAction(values, {
+            local: (store) => store.archive(),
+            remote: { method: 'GET', path: '/exports/archive' },
+          }),
+        )}\n`;
+      default:
+        throw new UsageError(
+          `export: say measurements, ephemeris, calendar or archive${what ? ` (not ${JSON.stringify(what)})` : ''}`,
+        );
     }
-    return withStore(values.database, async (store) => {
-      switch (what) {
-        case 'measurements': {
-          const rows = await store.exports.measurements({ targetId });
-          return values.json ? `${JSON.stringify(rows, null, 2)}\n` : measurementsCsv(rows);
-        }
-        case 'ephemeris': {
-          if (targetId === undefined || values.start === undefined || values.end === undefined)
-            throw new UsageError('export ephemeris needs --target-id, --start and --end');
-          const { orbit } = await store.orbitSolutions.current(targetId);
-          const rows = ephemeris(
-            orbit,
-            resolveEpochs({ start: values.start, end: values.end, step: values.step ?? 'P30D' }),
-          );
-          return values.json ? `${JSON.stringify(rows, null, 2)}\n` : ephemerisCsv(rows);
-        }
-        case 'calendar': {
-          const campaignId = optionalId('campaign-id', values['campaign-id']);
-          if (campaignId === undefined) throw new UsageError('export calendar needs --campaign-id');
-          return store.exports.calendar(
-            campaignId,
-            values.at === undefined ? {} : { flagsAtJd: parseEpoch(values.at, '--at') },
-          );
-        }
-        case 'archive':
-          return `${JSON.stringify(await store.archive())}\n`;
-        default:
-          throw new UsageError(
-            `export: say measurements, ephemeris, calendar or archive${what ? ` (not ${JSON.stringify(what)})` : ''}`,
-          );
-      }
-    });
   },
 };

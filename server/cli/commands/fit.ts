@@ -1,13 +1,18 @@
 /** `epochwright fit`: orbits from measurements in a CSV file or in the store; optionally accepted as new solutions. */
 import { parseArgs } from 'node:util';
-import { fitOrbits, type FitRequest, type StarHints } from '../../science/orbit/fit/index.ts';
-import type { StoredFitOptions } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
+import { RESIDUAL_PAGE } from '../../science/orbit/fit/residual-page.ts';
+import {
+  fitOrbits,
+  type FitRequest,
+  type FitResult,
+  type StarHints,
+} from '../../science/orbit/fit/index.ts';
+import type { OrbitSolutionRow, StoredFitOptions } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
 import { optionalId, outputFormat, positiveId } from '../args.ts';
 import { readStarsFile } from './fit-csv.ts';
 import { renderFit } from './fit-output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright fit --file <measurements.csv> [--target <name>]... [model options] [--json | --csv]
        epochwright fit --target-id <id> | --system-id <id> [--target-id <id>]... [--accept [--notes <text>]] [model options]
@@ -24,7 +29,7 @@ source:
   --system-id <id>        the stored measurements of a system's targets, jointly
   --accept                store the fit as new current orbit-solution versions (the old ones stay)
   --notes <text>          notes stored with accepted solutions
-${DATABASE_HELP}
+${STORE_HELP}
 model:
   --period <min:max>      period search range in years, for every star, or <target>=<min:max> (repeatable)
   --eccentricity <min:max> eccentricity search range (default 0:0.97)
@@ -153,7 +158,7 @@ export const fitCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         file: { type: 'string' },
         target: { type: 'string', multiple: true },
         'target-id': { type: 'string', multiple: true },
@@ -205,9 +210,16 @@ export const fitCommand: Command = {
       });
       return renderFit(fitOrbits({ ...model, stars }), format, values.residuals === true);
     }
-    return withStore(
-      values.database,
-      async (store) => {
+    const named = (names: string[]) =>
+      Object.fromEntries(
+        names.flatMap((n) => ((hintsBy[n] ?? hintsAll) ? [[n, hintsBy[n] ?? hintsAll!]] : [])),
+      );
+    const hinted = hintsAll !== undefined || Object.keys(hintsBy).length > 0;
+    const { result, solutions } = await storeAction<{
+      result: FitResult;
+      solutions: OrbitSolutionRow[];
+    }>(values, {
+      local: async (store, actor) => {
         const ids =
           systemId === undefined
             ? targetIds
@@ -216,7 +228,7 @@ export const fitCommand: Command = {
                 targetIds.length > 0 ? targetIds : undefined,
               );
         let prepared = await store.fits.prepare(ids, model);
-        if (hintsAll || Object.keys(hintsBy).length > 0) {
+        if (hinted) {
           // Named hints first, then the one for every star, then the default from the current solution.
           const first = prepared;
           const hints = Object.fromEntries(
@@ -234,20 +246,58 @@ export const fitCommand: Command = {
           } satisfies StoredFitOptions);
         }
         const result = fitOrbits(prepared.request);
-        let note = '';
-        if (values.accept) {
-          const rows = await store.fits.accept(localActor(), prepared, result, values.notes ?? '');
-          note = rows
-            .map(
-              (r, k) =>
-                `stored ${prepared.targets[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`,
-            )
-            .join('');
-          if (format === 'json') return `${JSON.stringify({ solutions: rows, result }, null, 2)}\n`;
-        }
-        return renderFit(result, format, values.residuals === true, note);
+        const solutions = values.accept
+          ? await store.fits.accept(actor, prepared, result, values.notes ?? '')
+          : [];
+        return { result, solutions };
       },
-      { writes: values.accept === true },
-    );
+      remote: async (api) => {
+        // The hint for every star needs the stars' names: the targets' (the server keys hints by name).
+        let hints: Record<string, StarHints> | undefined;
+        if (hinted) {
+          const names =
+            systemId === undefined
+              ? [
+                  (await api<{ name: string }>({ method: 'GET', path: `/targets/${targetIds[0]}` }))
+                    .name,
+                ]
+              : (
+                  await api<{ items: { name: string }[] }>({
+                    method: 'GET',
+                    path: '/targets',
+                    query: { systemId, limit: 500 },
+                  })
+                ).items.map((t) => t.name);
+          hints = named(names);
+        }
+        const answer = await api<{
+          result: FitResult & { residualPage?: unknown; residualSummary?: unknown };
+          solutions?: OrbitSolutionRow[];
+        }>({
+          method: 'POST',
+          path: `${systemId === undefined ? `/targets/${targetIds[0]}` : `/systems/${systemId}`}/fit${values.accept ? '/accept' : ''}`,
+          body: {
+            ...model,
+            ...(hints ? { hints } : {}),
+            ...(systemId !== undefined && targetIds.length > 0 ? { targetIds } : {}),
+            ...(values.accept && values.notes !== undefined ? { notes: values.notes } : {}),
+            residualPage: { limit: RESIDUAL_PAGE.maxLimit },
+          },
+        });
+        // Every residual, as a fit in the process gives them (the page is the whole of them).
+        const { residualPage: _page, residualSummary: _summary, ...result } = answer.result;
+        return { result, solutions: answer.solutions ?? [] };
+      },
+      writes: values.accept === true,
+    });
+    if (values.accept && format === 'json')
+      return `${JSON.stringify({ solutions, result }, null, 2)}\n`;
+    const note = solutions
+      .map(
+        (r, k) =>
+          `stored ${result.stars[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`,
+      )
+      .join('');
+    return renderFit(result, format, values.residuals === true, note);
   },
 };

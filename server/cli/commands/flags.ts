@@ -5,8 +5,7 @@ import type { Command } from '../io.ts';
 import { optionalPositive, outputFormat, positiveId } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import type { Store } from '../../store/index.ts';
-import { SERVER_HELP, remoteOf, send, serverOptions } from '../remote.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright flags --campaign-id <id> [--at <epoch>] [--resolution <mas>] [--json | --csv]
@@ -21,8 +20,7 @@ options:
   --campaign-id <id>     the campaign
   --at <epoch>           compute for this moment (ISO 8601, JD, MJD); default now
   --resolution <mas>     resolution limit for blend flags
-${DATABASE_HELP}
-${SERVER_HELP}
+${STORE_HELP}
   --json | --csv         machine-readable output instead of a table
 `;
 
@@ -33,8 +31,7 @@ export const flagsCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
-        ...serverOptions,
+        ...storeOptions,
         'campaign-id': { type: 'string' },
         at: { type: 'string' },
         resolution: { type: 'string' },
@@ -48,18 +45,17 @@ export const flagsCommand: Command = {
     const id = positiveId('campaign-id', values['campaign-id']);
     const nowJd = momentJd(values.at, '--at');
     const resolution = optionalPositive('resolution', values.resolution);
-    const remote = remoteOf(values);
     type Flags = Awaited<ReturnType<Store['plans']['flags']>>;
-    // Through a server: its flags for the same moment (the epoch as typed, read by its parser).
-    const query = new URLSearchParams({
-      ...(values.at === undefined ? {} : { at: values.at }),
-      ...(resolution ? { resolutionMas: String(resolution) } : {}),
+    const result = await storeAction<Flags>(values, {
+      local: (store) =>
+        store.plans.flags(id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
+      // The server's flags for the same moment (the epoch as typed, read by its parser).
+      remote: {
+        method: 'GET',
+        path: `/campaigns/${id}/flags`,
+        query: { at: values.at, resolutionMas: resolution },
+      },
     });
-    const result: Flags = remote
-      ? ((await (await send(remote, 'GET', `/campaigns/${id}/flags?${query}`)).json()) as Flags)
-      : await withStore(values.database, (store) =>
-          store.plans.flags(id, { nowJd, ...(resolution ? { resolutionMas: resolution } : {}) }),
-        );
     const columns: Column<Flag>[] = [
       { header: 'date_utc', value: (f) => f.date.slice(0, 16).replace('T', ' ') },
       { header: 'days_ahead', value: (f) => f.daysAhead, digits: 0 },

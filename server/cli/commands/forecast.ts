@@ -5,7 +5,7 @@ import type { FactorForecast } from '../../science/plan/index.ts';
 import type { Command } from '../io.ts';
 import { optionalPositive, outputFormat, positiveId } from '../args.ts';
 import { render, type Column } from '../output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright forecast --target-id <id> [--at <epoch>] [--astrometry-mas <σ>] [--spectroscopy-kms <σ>] [--json | --csv]
 
@@ -21,7 +21,7 @@ options:
   --astrometry-mas <σ>      1σ per offset component of a planned epoch (default: the median of the
                             target's offsets, else 1 mas)
   --spectroscopy-kms <σ>    1σ of a planned velocity (default: the median of its velocities, else 5 km/s)
-${DATABASE_HELP}
+${STORE_HELP}
   --json | --csv            machine-readable output instead of a table
 `;
 
@@ -34,7 +34,7 @@ export const forecastCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         'target-id': { type: 'string' },
         at: { type: 'string' },
         'astrometry-mas': { type: 'string' },
@@ -50,15 +50,18 @@ export const forecastCommand: Command = {
     const atJd = momentJd(values.at, '--at');
     const ast = optionalPositive('astrometry-mas', values['astrometry-mas']);
     const rv = optionalPositive('spectroscopy-kms', values['spectroscopy-kms']);
-    const result = await withStore(values.database, (store) =>
-      store.plans.forecast(id, {
-        atJd,
-        precision: {
-          ...(ast !== undefined ? { astrometryMas: ast } : {}),
-          ...(rv !== undefined ? { spectroscopyKmS: rv } : {}),
-        },
-      }),
-    );
+    const precision = {
+      ...(ast !== undefined ? { astrometryMas: ast } : {}),
+      ...(rv !== undefined ? { spectroscopyKmS: rv } : {}),
+    };
+    const result = await storeAction(values, {
+      local: (store) => store.plans.forecast(id, { atJd, precision }),
+      remote: {
+        method: 'GET',
+        path: `/targets/${id}/forecast`,
+        query: { at: values.at, ...precision },
+      },
+    });
     const sig = (x: number | null) => (x === null ? null : Number(x.toPrecision(3)));
     const columns: Column<FactorForecast>[] = [
       { header: 'factor', value: (f) => f.name },

@@ -8,12 +8,10 @@ import {
   REQUIRED_COLUMNS,
   type CsvKind,
 } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
 import { readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable } from '../output.ts';
-import { SERVER_HELP, remoteOf, send, serverOptions } from '../remote.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright import --kind targets|orbits|measurements --file <csv> [--check-only]
                          [--allow-duplicates]
@@ -30,8 +28,7 @@ ${CSV_KINDS.map((k) => `  ${k}: ${COLUMNS[k].map((c) => (REQUIRED_COLUMNS[k].inc
   system and target are names; relativity lists switches separated by ";".
 
 options:
-${DATABASE_HELP}
-${SERVER_HELP}
+${STORE_HELP}
 `;
 
 export const importCommand: Command = {
@@ -41,8 +38,7 @@ export const importCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
-        ...serverOptions,
+        ...storeOptions,
         kind: { type: 'string' },
         file: { type: 'string' },
         'check-only': { type: 'boolean' },
@@ -57,29 +53,18 @@ export const importCommand: Command = {
     if (values.file === undefined) throw new UsageError('--file is required');
     const text = readTextFile('file', values.file);
     const dryRun = values['check-only'] ?? false;
-    const remote = remoteOf(values);
     const allowDuplicates = values['allow-duplicates'] ?? false;
     try {
-      const report = remote
-        ? ((await (
-            await send(
-              remote,
-              'POST',
-              `/imports/${kind}?dryRun=${dryRun}&allowDuplicates=${allowDuplicates}`,
-              { text, type: 'text/csv' },
-              (e) => {
-                // The server's row report, shown as a local import shows it.
-                const details = e.details as ImportReport | undefined;
-                if (e.status === 422 && details?.problems) throw new ImportRejected(details);
-                return undefined;
-              },
-            )
-          ).json()) as ImportReport)
-        : await withStore(
-            values.database,
-            (store) => store.importCsv(localActor(), kind, text, { dryRun, allowDuplicates }),
-            { writes: !dryRun },
-          );
+      const report = await storeAction<ImportReport>(values, {
+        local: (store, actor) => store.importCsv(actor, kind, text, { dryRun, allowDuplicates }),
+        remote: {
+          method: 'POST',
+          path: `/imports/${kind}`,
+          query: { dryRun, allowDuplicates },
+          text: { text, type: 'text/csv' },
+        },
+        writes: !dryRun,
+      });
       return dryRun
         ? `checked ${report.rows} ${kind} rows: all good, nothing written\n`
         : `imported ${report.written} ${kind} rows\n`;

@@ -6,11 +6,10 @@ import {
   type NightScheduleRequest,
   type Store,
 } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
 import { asOptions, checkAcceptDigest, outputFormat, positiveId, readJsonArg } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright plan-night --night-id <id> [options]
@@ -37,7 +36,7 @@ options:
                                --accept it may not lie more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the clock
   --accept                     store the schedule (as the local operator)
   --digest <hex>               with --accept: refuse if the schedule differs from that preview
-${DATABASE_HELP}
+${STORE_HELP}
   --json | --csv               machine-readable output instead of a table
 `;
 
@@ -58,7 +57,7 @@ export const planNightCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         'night-id': { type: 'string' },
         pin: { type: 'string', multiple: true },
         remove: { type: 'string', multiple: true },
@@ -101,16 +100,22 @@ export const planNightCommand: Command = {
       ...(values.digest !== undefined ? { digest: values.digest } : {}),
     };
     const atJd = momentJd(values.at, '--at');
-    const result = await withStore(
-      values.database,
-      (store) =>
-        asOptions(OPTIONS, () =>
-          values.accept
-            ? store.plans.acceptNight(localActor(), id, request, atJd)
-            : store.plans.previewNight(id, request, atJd),
-        ),
-      { writes: values.accept === true },
-    );
+    type Accepted = Awaited<ReturnType<Store['plans']['acceptNight']>>;
+    const result: Awaited<ReturnType<Store['plans']['previewNight']>> & Partial<Accepted> =
+      await asOptions(OPTIONS, () =>
+        storeAction(values, {
+          local: (store, actor) =>
+            values.accept
+              ? store.plans.acceptNight(actor, id, request, atJd)
+              : store.plans.previewNight(id, request, atJd),
+          remote: {
+            method: 'POST',
+            path: `/nights/${id}/schedule${values.accept ? '/accept' : ''}`,
+            body: { ...request, at: values.at },
+          },
+          writes: values.accept === true,
+        }),
+      );
     const s = result.schedule;
     const local = (i: { local: string; utc: string }) =>
       format === 'table' ? i.local.slice(11, 16) : i.utc;
@@ -129,9 +134,8 @@ export const planNightCommand: Command = {
       { header: 'laser', value: (b) => (b.laserGuideStar ? 'yes' : '') },
     ];
     if (format !== 'table') return render(format, s.blocks, columns, result);
-    const stored = result as Partial<Awaited<ReturnType<Store['plans']['acceptNight']>>>;
-    const written = stored.written
-      ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced\n`
+    const written = result.written
+      ? `accepted: ${result.written.length} blocks written, ${result.replaces.length} replaced\n`
       : `preview only (digest ${result.digest}): accepting would replace stored blocks [${result.replaces.join(', ')}]; run again with --accept to store it\n`;
     return [
       `${s.site}, night of ${s.date} (${s.timeZone}; local times), ${s.method} schedule: ${s.scheduledHours.toFixed(2)} h of ${s.darkHours.toFixed(2)} h dark\n\n`,

@@ -6,7 +6,6 @@ import {
   type SeasonPlanRequest,
   type Store,
 } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
 import { UsageError, type Command } from '../io.ts';
 import {
   asOptions,
@@ -18,7 +17,7 @@ import {
 } from '../args.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { renderDraws } from './season-draws-output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright plan-season --campaign-id <id> --start <YYYY-MM-DD> --end <YYYY-MM-DD> [options]
@@ -56,9 +55,9 @@ options:
                          site's learned chance, precision scattered per night): percentiles of the
                          final σ of the passage date, the mass and the relativity factors, and of
                          the passage's coverage; seed default 1
-  --accept               store the plan (as the local operator)
+  --accept               store the plan (as the local operator, or the token's user with --server)
   --digest <hex>         with --accept: refuse if the plan differs from the preview with this digest
-${DATABASE_HELP}
+${STORE_HELP}
   --json | --csv         machine-readable output instead of a table
 `;
 
@@ -80,7 +79,7 @@ export const planSeasonCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         'campaign-id': { type: 'string' },
         start: { type: 'string' },
         end: { type: 'string' },
@@ -134,23 +133,35 @@ export const planSeasonCommand: Command = {
       const seed = values.seed === undefined ? 1 : Number(values.seed);
       if (!Number.isInteger(seed) || seed < 0)
         throw new UsageError(`--seed: ${JSON.stringify(values.seed)} must be a whole number ≥ 0`);
-      const view = await withStore(values.database, (store) =>
-        asOptions({ ...OPTIONS, draws: '--draws', seed: '--seed' }, () =>
-          store.plans.seasonDraws(id, { ...request, draws, seed }, atJd),
-        ),
+      const drawn = { ...request, draws, seed };
+      const view = await asOptions({ ...OPTIONS, draws: '--draws', seed: '--seed' }, () =>
+        storeAction(values, {
+          local: (store) => store.plans.seasonDraws(id, drawn, atJd),
+          remote: {
+            method: 'POST',
+            path: `/campaigns/${id}/season-plan/draws`,
+            body: { ...drawn, at: values.at },
+          },
+        }),
       );
       return renderDraws(view, format);
     }
-    const result = await withStore(
-      values.database,
-      (store) =>
-        asOptions(OPTIONS, () =>
-          values.accept
-            ? store.plans.acceptSeason(localActor(), id, request, atJd)
-            : store.plans.previewSeason(id, request, atJd),
-        ),
-      { writes: values.accept === true },
-    );
+    type Accepted = Awaited<ReturnType<Store['plans']['acceptSeason']>>;
+    const result: Awaited<ReturnType<Store['plans']['previewSeason']>> & Partial<Accepted> =
+      await asOptions(OPTIONS, () =>
+        storeAction(values, {
+          local: (store, actor) =>
+            values.accept
+              ? store.plans.acceptSeason(actor, id, request, atJd)
+              : store.plans.previewSeason(id, request, atJd),
+          remote: {
+            method: 'POST',
+            path: `/campaigns/${id}/season-plan${values.accept ? '/accept' : ''}`,
+            body: { ...request, at: values.at },
+          },
+          writes: values.accept === true,
+        }),
+      );
     const columns: Column<PlannedEpoch>[] = [
       { header: 'night', value: (e) => e.date },
       { header: 'site', value: (e) => e.site },
@@ -181,7 +192,7 @@ export const planSeasonCommand: Command = {
     ];
     const plan = result.plan;
     if (format !== 'table') return render(format, plan.epochs, columns, result);
-    const stored = result as Partial<Awaited<ReturnType<Store['plans']['acceptSeason']>>>;
+    const stored = result;
     const written =
       stored.written && stored.nightsCreated
         ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced, ${stored.nightsCreated.length} nights created\n`

@@ -1,11 +1,10 @@
 /** `epochwright replan`: after a night that lost time, the rest of its campaign's season planned again. */
 import { parseArgs } from 'node:util';
-import type { ReplanRequest } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
+import type { ReplanRequest, Store } from '../../store/index.ts';
 import { asOptions, checkAcceptDigest, outputFormat, positiveId, weatherOption } from '../args.ts';
 import type { Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright replan --night-id <id> [--end <date>] [--weather aware|blind] [--at <epoch>]
@@ -24,7 +23,7 @@ options:
   --at <epoch>           the moment of planning; default now (with --accept, not in the past)
   --accept               store the re-plan (as the local operator)
   --digest <hex>         with --accept: refuse if the plan differs from the preview with this digest
-${DATABASE_HELP}
+${STORE_HELP}
   --json | --csv         machine-readable output instead of a table
 `;
 
@@ -36,7 +35,7 @@ export const replanCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         'night-id': { type: 'string' },
         end: { type: 'string' },
         weather: { type: 'string' },
@@ -60,15 +59,20 @@ export const replanCommand: Command = {
     };
     const atJd = momentJd(values.at, '--at');
     const options = { nightId: '--night-id', endDate: '--end', '*': '--weather' };
-    const result = await withStore(
-      values.database,
-      (store) =>
-        asOptions(options, async () =>
+    type Preview = Awaited<ReturnType<Store['plans']['previewReplan']>>;
+    const result = await asOptions(options, () =>
+      storeAction<Preview & { written?: unknown[] }>(values, {
+        local: (store, actor) =>
           values.accept
-            ? store.plans.acceptReplan(localActor(), id, request, atJd)
+            ? store.plans.acceptReplan(actor, id, request, atJd)
             : store.plans.previewReplan(id, request, atJd),
-        ),
-      { writes: values.accept === true },
+        remote: {
+          method: 'POST',
+          path: `/nights/${id}/replan${values.accept ? '/accept' : ''}`,
+          body: { ...request, at: values.at },
+        },
+        writes: values.accept === true,
+      }),
     );
     type Epoch = (typeof result.preview.plan.epochs)[number];
     const columns: Column<Epoch>[] = [
@@ -81,7 +85,7 @@ export const replanCommand: Command = {
     ];
     if (format !== 'table') return render(format, result.preview.plan.epochs, columns, result);
     const n = result.night;
-    const stored = 'written' in result ? (result as { written: unknown[] }) : null;
+    const stored = result.written ? { written: result.written } : null;
     return [
       `night ${n.id} (${n.date}) lost ${n.timeLostHours.toFixed(1)} h${n.reason ? ` (${n.reason})` : ''}; lost blocks: ${result.lost.map((b) => `${b.blockId} ${b.target} ${b.kind} (${b.status})`).join(', ') || 'none'}`,
       `re-planned ${result.request.startDate} to ${result.request.endDate}, weather-${result.request.weather}: ${result.preview.plan.epochs.length} epochs`,

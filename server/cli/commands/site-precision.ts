@@ -2,11 +2,10 @@
 import { parseArgs } from 'node:util';
 import { DEFAULT_PRECISION } from '../../science/plan/index.ts';
 import type { SiteRow } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
 import { optionalId, outputFormat } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright site-precision [--site-id <id>] [--astrometry-mas <x|default>]
                          [--spectroscopy-km-s <x|default>] [--reference-seeing <arcsec|default>]
@@ -25,7 +24,7 @@ options:
   --spectroscopy-km-s <x>       1σ of a radial velocity at the zenith, km/s, (0, 1e6]
   --reference-seeing <arcsec>   seeing FWHM the two zenith values hold for, arcsec, (0, 10]
                                 "default" returns any of the three to its default
-${DATABASE_HELP}
+${STORE_HELP}
   --json | --csv                machine-readable output instead of a table
 `;
 
@@ -68,7 +67,7 @@ export const sitePrecisionCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         'site-id': { type: 'string' },
         'astrometry-mas': { type: 'string' },
         'spectroscopy-km-s': { type: 'string' },
@@ -88,16 +87,29 @@ export const sitePrecisionCommand: Command = {
     }
     if (Object.keys(patch).length > 0 && siteId === undefined)
       throw new UsageError('--site-id is required to change a precision model');
-    const rows = await withStore(
-      values.database,
-      async (store) => {
-        if (siteId !== undefined && Object.keys(patch).length > 0)
-          return [await store.sites.update(localActor(), siteId, patch)];
+    const changes = siteId !== undefined && Object.keys(patch).length > 0;
+    const rows = await storeAction<SiteRow[]>(values, {
+      local: async (store, actor) => {
+        if (siteId !== undefined && changes)
+          return [await store.sites.update(actor, siteId, patch)];
         if (siteId !== undefined) return [await store.sites.get(siteId)];
         return (await store.sites.list({}, { limit: 500 })).items;
       },
-      { writes: siteId !== undefined && Object.keys(patch).length > 0 },
-    );
+      remote: async (api) => {
+        if (siteId !== undefined)
+          return [
+            await api<SiteRow>(
+              changes
+                ? { method: 'PATCH', path: `/sites/${siteId}`, body: patch }
+                : { method: 'GET', path: `/sites/${siteId}` },
+            ),
+          ];
+        return (
+          await api<{ items: SiteRow[] }>({ method: 'GET', path: '/sites', query: { limit: 500 } })
+        ).items;
+      },
+      writes: changes,
+    });
     return render(format, rows, columns, { sites: rows });
   },
 };

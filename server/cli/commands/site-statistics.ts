@@ -1,11 +1,10 @@
 /** `epochwright site-statistics`: what a site's log has learned per month, and setting its clear-night prior. */
 import { parseArgs } from 'node:util';
 import { readClearPriorCsv, type SiteStatisticsView } from '../../store/index.ts';
-import { localActor } from '../actor.ts';
 import { optionalPositive, outputFormat, positiveId, readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright site-statistics --site-id <id> [--start <date>] [--end <date>]
                                   [--set-prior <file.csv> [--strength <nights>]] [--json | --csv]
@@ -24,7 +23,7 @@ options:
   --set-prior <file.csv>   first replace the site's clear-night prior: columns month, clear_fraction
                            and optionally strength_nights (months left out have none)
   --strength <nights>      weight of rows without strength_nights; default 10
-${DATABASE_HELP}
+${STORE_HELP}
   --json | --csv           machine-readable output instead of tables
 `;
 
@@ -94,7 +93,7 @@ export const siteStatisticsCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         'site-id': { type: 'string' },
         start: { type: 'string' },
         end: { type: 'string' },
@@ -115,14 +114,23 @@ export const siteStatisticsCommand: Command = {
       values['set-prior'] === undefined
         ? null
         : readClearPriorCsv(readTextFile('set-prior', values['set-prior']), strength);
-    const stats = await withStore(
-      values.database,
-      async (store) => {
-        if (prior) await store.siteWeather.replacePrior(localActor(), id, prior);
-        return store.siteWeather.statistics(id, { start: values.start, end: values.end });
+    const range = { start: values.start, end: values.end };
+    const stats = await storeAction(values, {
+      local: async (store, actor) => {
+        if (prior) await store.siteWeather.replacePrior(actor, id, prior);
+        return store.siteWeather.statistics(id, range);
       },
-      { writes: prior !== null },
-    );
+      remote: async (api) => {
+        if (prior)
+          await api({ method: 'PUT', path: `/sites/${id}/clear-prior`, body: { months: prior } });
+        return api<SiteStatisticsView>({
+          method: 'GET',
+          path: `/sites/${id}/statistics`,
+          query: range,
+        });
+      },
+      writes: prior !== null,
+    });
     if (format !== 'table') return render(format, stats.months, monthColumns, stats);
     const year = stats.year;
     return [

@@ -11,7 +11,16 @@ import {
 } from '../../science/sky/index.ts';
 import { positiveId, readJsonArg } from '../args.ts';
 import { UsageError } from '../io.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import {
+  skyOfRows,
+  type CampaignView,
+  type OrbitSolutionRow,
+  type SiteRow,
+  type SkyMember,
+  type SystemRow,
+  type TargetRow,
+} from '../../store/index.ts';
+import { STORE_HELP, storeAction, storeOptions, type Api } from './store-option.ts';
 
 export const SKY_OPTION_HELP = `  --site <json|file>         the site: {"latitudeDeg", "longitudeDeg" (east), "elevationM", "timeZone",
                              optional "pressureHpa", "temperatureC", "lowestAltitudeDeg", "horizonMask",
@@ -30,10 +39,10 @@ export const SKY_OPTION_HELP = `  --site <json|file>         the site: {"latitud
   --least-moon-distance <deg>
                              least distance from the Moon while it is up (default 30)
   --json | --csv             machine-readable output instead of a table
-${DATABASE_HELP}`;
+${STORE_HELP} (with --site-id)`;
 
 export const skyOptions = {
-  ...databaseOption,
+  ...storeOptions,
   site: { type: 'string' },
   'site-id': { type: 'string' },
   'campaign-id': { type: 'string' },
@@ -55,6 +64,8 @@ function numberOption(name: string, text: string): number {
 
 interface SkyValues {
   database?: string;
+  server?: string;
+  token?: string;
   site?: string;
   'site-id'?: string;
   'campaign-id'?: string;
@@ -86,9 +97,10 @@ export async function readSky(values: SkyValues): Promise<Sky> {
     values['campaign-id'] === undefined ? null : positiveId('campaign-id', values['campaign-id']);
   if (campaignId === null && values.targets === undefined)
     throw new UsageError('--targets (or --campaign-id) is required');
-  const stored = await withStore(values.database, (store) =>
-    store.storedSky({ siteId, campaignId }),
-  );
+  const stored = await storeAction(values, {
+    local: (store) => store.storedSky({ siteId, campaignId }),
+    remote: (api) => remoteSky(api, siteId, campaignId),
+  });
   const targets = values.targets === undefined ? stored.targets : readTargets(values.targets);
   const typed = values.limits !== undefined || values.darkness !== undefined;
   const limits =
@@ -97,6 +109,27 @@ export async function readSky(values: SkyValues): Promise<Sky> {
       : stored.limits;
   const cautions = stored.laserGuideStar ? [LASER_GUIDE_STAR_CAUTION] : [];
   return { site: stored.site, targets, limits, cautions };
+}
+
+/** The stored sky from a server's records: the site, the campaign and each target's system and current orbit. */
+async function remoteSky(api: Api, siteId: number, campaignId: number | null) {
+  const site = await api<SiteRow>({ method: 'GET', path: `/sites/${siteId}` });
+  const campaign =
+    campaignId === null
+      ? null
+      : await api<CampaignView>({ method: 'GET', path: `/campaigns/${campaignId}` });
+  const members: SkyMember[] = [];
+  for (const id of campaign?.targetIds ?? []) {
+    const target = await api<TargetRow>({ method: 'GET', path: `/targets/${id}` });
+    const system = await api<SystemRow>({ method: 'GET', path: `/systems/${target.systemId}` });
+    const current = await api<{ items: OrbitSolutionRow[] }>({
+      method: 'GET',
+      path: '/orbit-solutions',
+      query: { targetId: id, current: true },
+    });
+    members.push({ target, system, orbit: current.items[0]?.orbit });
+  }
+  return skyOfRows(site, campaign, members);
 }
 
 function readTargets(text: string | undefined): Target[] {

@@ -1,11 +1,11 @@
 /** `epochwright time-request`: a semester's request for telescope time, from the campaign's plan and its log. */
 import { parseArgs } from 'node:util';
 import { timeRequestMarkdown } from '../../science/plan/time-request.ts';
-import type { TimeRequestInput } from '../../store/index.ts';
+import type { Store, TimeRequestInput } from '../../store/index.ts';
 import { asOptions, outputFormat, positiveId, weatherOption } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
-import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
 const help = `usage: epochwright time-request --campaign-id <id> --name <semester> --start <date> --end <date>
@@ -25,7 +25,7 @@ options:
   --start, --end <date>  first and last night of the semester (local evening dates)
   --weather aware|blind  default aware
   --at <epoch>           the moment of planning; default now
-${DATABASE_HELP}
+${STORE_HELP}
   --markdown | --csv | --json   instead of the table
 `;
 
@@ -46,7 +46,7 @@ export const timeRequestCommand: Command = {
     const { values } = parseArgs({
       args: argv,
       options: {
-        ...databaseOption,
+        ...storeOptions,
         'campaign-id': { type: 'string' },
         name: { type: 'string' },
         start: { type: 'string' },
@@ -74,11 +74,21 @@ export const timeRequestCommand: Command = {
       weather,
     };
     const atJd = momentJd(values.at, '--at');
-    const r = await withStore(values.database, (store) =>
-      asOptions(
-        { startDate: '--start', endDate: '--end', name: '--name', '*': '--campaign-id' },
-        () => store.plans.timeRequest(id, input, atJd),
-      ),
+    const r = await asOptions(
+      { startDate: '--start', endDate: '--end', name: '--name', '*': '--campaign-id' },
+      () =>
+        storeAction(values, {
+          local: (store) => store.plans.timeRequest(id, input, atJd),
+          remote: async (api) => {
+            type Answer = Awaited<ReturnType<Store['plans']['timeRequest']>> & { markdown: string };
+            const { markdown: _markdown, ...request } = await api<Answer>({
+              method: 'POST',
+              path: `/campaigns/${id}/time-request`,
+              body: { ...input, at: values.at },
+            });
+            return request;
+          },
+        }),
     );
     if (values.markdown) return timeRequestMarkdown(r);
     const rows: Row[] = r.sites.flatMap((s) => [

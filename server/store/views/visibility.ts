@@ -19,11 +19,11 @@ import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { getById } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { NotFoundError } from '../errors.ts';
-import { campaignEntity, campaignMembers } from '../repos/campaigns.ts';
-import { systemSkyPosition } from '../repos/catalogue.ts';
+import { campaignEntity, campaignMembers, type CampaignRow } from '../repos/campaigns.ts';
+import { systemSkyPosition, type SystemRow, type TargetRow } from '../repos/catalogue.ts';
 import { nightEntity } from '../repos/nights.ts';
-import { currentOrbit } from '../repos/orbits.ts';
-import { siteEntity } from '../repos/sites.ts';
+import { currentOrbit, type OrbitSolutionRow } from '../repos/orbits.ts';
+import { siteEntity, type SiteRow } from '../repos/sites.ts';
 import { campaignSite } from './planning.ts';
 
 /** What the sky engine needs to show a stored site's sky: the site, the targets and the limits. */
@@ -35,44 +35,33 @@ export interface StoredSky {
   laserGuideStar: boolean;
 }
 
+/** A member of a stored sky: a target, its system, and its current orbit (none: placed at its primary). */
+export interface SkyMember {
+  target: TargetRow;
+  system: SystemRow;
+  orbit?: OrbitSolutionRow['orbit'] | undefined;
+}
+
 /**
- * A stored site with a campaign's targets (or the given targets) placed by their systems'
- * positions plus current orbits, under the campaign's limits and the site's lowest altitude.
+ * The sky of stored rows, however they were read (here from the database, or by the command line
+ * from a server's answers): the site with the campaign's wavelength, the targets placed by their
+ * systems' positions plus current orbits (by target id), under the campaign's limits and the
+ * site's lowest altitude.
  */
-export async function storedSky(
-  db: DbOrTx,
-  scope: { siteId: number; campaignId?: number | null; targetIds?: number[] },
-): Promise<StoredSky> {
-  const siteRow = await getById(db, siteEntity, scope.siteId);
-  const campaign =
-    scope.campaignId == null ? null : await getById(db, campaignEntity, scope.campaignId);
+export function skyOfRows(
+  siteRow: SiteRow,
+  campaign: Pick<CampaignRow, 'goals' | 'limits'> | null,
+  members: readonly SkyMember[],
+): StoredSky {
   const site = campaignSite(siteRow, campaign?.goals.wavelengthUm);
-  const targetIds = campaign
-    ? (await campaignMembers(db, campaign.id)).targetIds
-    : (scope.targetIds ?? []);
-  const rows =
-    targetIds.length === 0
-      ? []
-      : await db
-          .select({ t: targets, s: systems })
-          .from(targets)
-          .innerJoin(systems, eq(systems.id, targets.systemId))
-          .where(inArray(targets.id, targetIds));
-  const skyTargets: Target[] = [];
-  for (const { t, s } of rows) {
-    let orbit: Awaited<ReturnType<typeof currentOrbit>>['solution']['orbit'] | undefined;
-    try {
-      orbit = (await currentOrbit(db, t.id)).solution.orbit;
-    } catch (err) {
-      if (!(err instanceof NotFoundError)) throw err; // a target without a solution is placed at its primary
-    }
-    skyTargets.push(
+  const skyTargets = [...members]
+    .sort((a, b) => a.target.id - b.target.id)
+    .map(({ target: t, system: s, orbit }) =>
       validateTarget(
         { name: `${t.name} (${s.name})`, ...systemSkyPosition(s), ...(orbit ? { orbit } : {}) },
         `targets.${t.id}`,
       ),
     );
-  }
   const c = campaign?.limits ?? {};
   const limits = validateLimits(
     {
@@ -87,6 +76,38 @@ export async function storedSky(
     'limits',
   );
   return { site, targets: skyTargets, limits, laserGuideStar: siteRow.laserGuideStar };
+}
+
+/** A stored site with a campaign's targets (or the given targets): skyOfRows over the database. */
+export async function storedSky(
+  db: DbOrTx,
+  scope: { siteId: number; campaignId?: number | null; targetIds?: number[] },
+): Promise<StoredSky> {
+  const siteRow = await getById(db, siteEntity, scope.siteId);
+  const campaign =
+    scope.campaignId == null ? null : await getById(db, campaignEntity, scope.campaignId);
+  const targetIds = campaign
+    ? (await campaignMembers(db, campaign.id)).targetIds
+    : (scope.targetIds ?? []);
+  const rows =
+    targetIds.length === 0
+      ? []
+      : await db
+          .select({ t: targets, s: systems })
+          .from(targets)
+          .innerJoin(systems, eq(systems.id, targets.systemId))
+          .where(inArray(targets.id, targetIds));
+  const members: SkyMember[] = [];
+  for (const { t, s } of rows) {
+    let orbit: OrbitSolutionRow['orbit'] | undefined;
+    try {
+      orbit = (await currentOrbit(db, t.id)).solution.orbit;
+    } catch (err) {
+      if (!(err instanceof NotFoundError)) throw err; // a target without a solution is placed at its primary
+    }
+    members.push({ target: t, system: s, orbit });
+  }
+  return skyOfRows(siteRow, campaign, members);
 }
 
 export async function nightVisibility(
