@@ -91,13 +91,19 @@ export async function send(remote: Remote, r: ApiRequest): Promise<Response> {
       method: r.method,
       headers: {
         authorization: `Bearer ${remote.token}`,
+        // One connection per request: a kept-alive socket that the server closes as idle just as
+        // the next request goes out fails as "fetch failed"; a command sends only a few requests.
+        connection: 'close',
         ...(body ? { 'content-type': body.type } : {}),
       },
       ...(body ? { body: body.text } : {}),
     });
   } catch (err) {
+    // fetch says only "fetch failed"; the reason (refused, reset, timed out) is its cause.
+    const cause = (err as { cause?: { code?: string; message?: string } }).cause;
+    const why = cause ? ` (${[cause.code, cause.message].filter(Boolean).join(': ')})` : '';
     throw new Error(
-      `no answer from ${remote.base}: ${err instanceof Error ? err.message : String(err)}`,
+      `no answer from ${remote.base}: ${err instanceof Error ? err.message : String(err)}${why}`,
     );
   }
   if (res.ok) return res;

@@ -13,7 +13,7 @@
  */
 import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { InputError } from '../../science/errors.ts';
-import { addDays } from '../../science/sky/night.ts';
+import { addDays, parseNightDate } from '../../science/sky/night.ts';
 import type {
   KeptBlock,
   BlockKind,
@@ -137,6 +137,7 @@ export async function prepare(
     );
   for (const field of ['startDate', 'endDate'] as const) {
     const d = request[field];
+    parseNightDate(d, field); // a real date first: 2027-02-30 is named as such, under its own field
     if (typeof d !== 'string' || d < campaign.startDate || d > campaign.endDate)
       throw new InputError(
         field,
