@@ -164,10 +164,27 @@ describe('the forecast as a season-plan goal', () => {
     const bad = await post({ ...range, relativityGoal: 'yes' });
     expect(bad.status).toBe(400);
     expect(await bad.text()).toMatch(/relativityGoal/);
+    type Preview = {
+      plan: {
+        epochs: unknown[];
+        targets: { target: string; relativity: TargetForecast | null }[];
+      };
+    };
     const good = await post({ ...range, relativityGoal: true });
     expect(good.status, await good.clone().text()).toBe(200);
-    expect(
-      ((await good.json()) as { plan: { epochs: unknown[] } }).plan.epochs.length,
-    ).toBeGreaterThan(0);
+    const goal = (await good.json()) as Preview;
+    expect(goal.plan.epochs.length).toBeGreaterThan(0);
+    const plain = (await (await post({ ...range, relativityGoal: false })).json()) as Preview;
+    // Each plan reports the forecast after its own epochs (its sum is checked against the forecast's
+    // own in test/science/plan/season-relativity.test.ts, where the goal's effect is measured too).
+    const star = (p: Preview) => p.plan.targets.find((t) => t.target === HEADLINE)!.relativity!;
+    console.log(
+      `deepest star's σ after the plan (redshift, precession): ${star(plain).factors.map((f) => f.sigmaAfter)} without the goal, ${star(goal).factors.map((f) => f.sigmaAfter)} with it`,
+    );
+    for (const p of [plain, goal]) {
+      expect(star(p).factors.map((f) => f.name)).toEqual(['redshiftFactor', 'precessionFactor']);
+      expect(star(p).summary[0]).toMatch(/^redshift /);
+    }
+    expect(star(goal).factors).not.toEqual(star(plain).factors);
   });
 });

@@ -197,6 +197,7 @@ export type Limit = Window['opensBy'];
 export type VisTarget = Schemas['TargetNight'];
 export type Visibility = Schemas['NightVisibility'];
 export type FactorForecast = Schemas['FactorForecast'];
+export type DetectionForecast = Schemas['DetectionForecast'];
 
 /**
  * The generic record table and form (records.tsx, record-forms.tsx) build a body field by field

@@ -11409,6 +11409,8 @@ export interface components {
                     kind: "astrometry" | "spectroscopy";
                     gain: components["schemas"]["EpochGain"];
                 }[];
+                /** @description the relativity detection forecast after the plan: the measurements, then the blocks that stay and the plan’s epochs at their σ; null when the orbit has no distance or no relativistic term */
+                relativity: components["schemas"]["DetectionForecast"] | null;
             }[];
             cautions: string[];
         };
@@ -11450,6 +11452,39 @@ export interface components {
              */
             reason: "not-allocated" | "no-darkness" | "altitude" | "airmass" | "horizon-mask" | "moon" | "sun-distance" | "too-short" | "kept-epoch" | "kept-full" | "taken" | "no-room";
             words: string;
+        };
+        DetectionForecast: {
+            factors: components["schemas"]["FactorForecast"][];
+            plannedEpochs: number;
+            summary: string[];
+            assumptions: string;
+        };
+        FactorForecast: {
+            /** @enum {string} */
+            name: "redshiftFactor" | "precessionFactor";
+            /** @description the value assumed true (1: general relativity) */
+            assumedValue: number;
+            /** @description Fisher 1σ from the measurements; null: not determined yet */
+            sigmaNow: number | null;
+            /** @description Fisher 1σ with the planned epochs */
+            sigmaAfter: number | null;
+            /** @description expected |value|/σ now */
+            significanceNow: number;
+            /** @description expected |value|/σ after the plan */
+            significanceAfter: number;
+            reaches: {
+                sigma: number;
+                already: boolean;
+                /** @description the planned epoch (observed time, ISO 8601 UTC) after which the threshold is reached; null if never */
+                epoch: string | null;
+            }[];
+            topEpochs: {
+                epoch: string;
+                /** @enum {string} */
+                kind: "astrometry" | "spectroscopy";
+                /** @description fraction of the information after the plan that this epoch adds */
+                share: number;
+            }[];
         };
         SeasonDraws: {
             campaignId: number;
@@ -11880,33 +11915,6 @@ export interface components {
                 }[];
             };
             blockIds: number[];
-        };
-        FactorForecast: {
-            /** @enum {string} */
-            name: "redshiftFactor" | "precessionFactor";
-            /** @description the value assumed true (1: general relativity) */
-            assumedValue: number;
-            /** @description Fisher 1σ from the measurements; null: not determined yet */
-            sigmaNow: number | null;
-            /** @description Fisher 1σ with the planned epochs */
-            sigmaAfter: number | null;
-            /** @description expected |value|/σ now */
-            significanceNow: number;
-            /** @description expected |value|/σ after the plan */
-            significanceAfter: number;
-            reaches: {
-                sigma: number;
-                already: boolean;
-                /** @description the planned epoch (observed time, ISO 8601 UTC) after which the threshold is reached; null if never */
-                epoch: string | null;
-            }[];
-            topEpochs: {
-                epoch: string;
-                /** @enum {string} */
-                kind: "astrometry" | "spectroscopy";
-                /** @description fraction of the information after the plan that this epoch adds */
-                share: number;
-            }[];
         };
         FitResult: {
             method: string;

@@ -4,7 +4,7 @@
  * 5σ, and the planned epochs that add most (server: GET /targets/{id}/forecast).
  */
 import { api } from '../api/client.ts';
-import type { FactorForecast } from '../api/client.ts';
+import type { DetectionForecast, FactorForecast } from '../api/client.ts';
 import { dateText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
@@ -30,62 +30,83 @@ export function ForecastPanel({ targetId }: { targetId: number }) {
   if (!data) return <Loading what="the forecast" />;
   return (
     <div class="forecast">
-      <ul class="forecast-summary">
-        {data.summary.map((s) => (
-          <li key={s}>{s}</li>
-        ))}
-      </ul>
-      <table class="data forecast-table">
-        <caption>
-          {data.plannedEpochs} planned epochs from now; {data.precision.text} (
-          {data.precision.source}
-          ). Significance is the factor over its 1σ, assuming general relativity (factor 1).
-        </caption>
-        <thead>
-          <tr>
-            <th>factor</th>
-            <th>1σ now</th>
-            <th>1σ after the plan</th>
-            <th>significance now</th>
-            <th>after the plan</th>
-            <th>3σ</th>
-            <th>5σ</th>
-            <th>epochs that add most (share of the information)</th>
-          </tr>
-        </thead>
-        <tbody>
-          {data.factors.map((f) => (
-            <tr key={f.name}>
-              <td>{LABEL[f.name]}</td>
-              <td>
-                {f.sigmaNow === null ? 'not determined' : <Qty v={f.sigmaNow} unit="" digits={3} />}
-              </td>
-              <td>
-                {f.sigmaAfter === null ? (
-                  'not determined'
-                ) : (
-                  <Qty v={f.sigmaAfter} unit="" digits={3} />
-                )}
-              </td>
-              <td>
-                <Qty v={f.significanceNow} unit="σ" />
-              </td>
-              <td>
-                <Qty v={f.significanceAfter} unit="σ" />
-              </td>
-              <td>{reached(f, 3)}</td>
-              <td>{reached(f, 5)}</td>
-              <td>
-                {f.topEpochs
-                  .slice(0, 3)
-                  .map((e) => `${dateText(e.epoch)} ${e.kind} ${(100 * e.share).toFixed(0)} %`)
-                  .join(' · ')}
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
+      <ForecastSummary forecast={data} />
+      <ForecastTable
+        forecast={data}
+        caption={`${data.plannedEpochs} planned epochs from now; ${data.precision.text} (${data.precision.source}).`}
+      />
       <p class="muted">{data.assumptions}. Dates are observed times (light-time included).</p>
     </div>
+  );
+}
+
+/** The forecast's one line per factor. */
+export function ForecastSummary({ forecast }: { forecast: DetectionForecast }) {
+  return (
+    <ul class="forecast-summary">
+      {forecast.summary.map((s) => (
+        <li key={s}>{s}</li>
+      ))}
+    </ul>
+  );
+}
+
+/** A row per factor: 1σ and significance now and after the plan, 3σ and 5σ dates, the epochs that add most. */
+export function ForecastTable({
+  forecast,
+  caption,
+}: {
+  forecast: DetectionForecast;
+  caption: string;
+}) {
+  return (
+    <table class="data forecast-table">
+      <caption>
+        {caption} Significance is the factor over its 1σ, assuming general relativity (factor 1).
+      </caption>
+      <thead>
+        <tr>
+          <th>factor</th>
+          <th>1σ now</th>
+          <th>1σ after the plan</th>
+          <th>significance now</th>
+          <th>after the plan</th>
+          <th>3σ</th>
+          <th>5σ</th>
+          <th>epochs that add most (share of the information)</th>
+        </tr>
+      </thead>
+      <tbody>
+        {forecast.factors.map((f) => (
+          <tr key={f.name} data-factor={f.name}>
+            <td>{LABEL[f.name]}</td>
+            <td>
+              {f.sigmaNow === null ? 'not determined' : <Qty v={f.sigmaNow} unit="" digits={3} />}
+            </td>
+            <td class="sigma-after">
+              {f.sigmaAfter === null ? (
+                'not determined'
+              ) : (
+                <Qty v={f.sigmaAfter} unit="" digits={3} />
+              )}
+            </td>
+            <td>
+              <Qty v={f.significanceNow} unit="σ" />
+            </td>
+            <td>
+              <Qty v={f.significanceAfter} unit="σ" />
+            </td>
+            <td>{reached(f, 3)}</td>
+            <td>{reached(f, 5)}</td>
+            <td>
+              {f.topEpochs
+                .slice(0, 3)
+                .map((e) => `${dateText(e.epoch)} ${e.kind} ${(100 * e.share).toFixed(0)} %`)
+                .join(' · ')}
+            </td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
   );
 }

@@ -10,6 +10,7 @@ import { utcClock } from '../lib/time.ts';
 import { Caution, ErrorLine, Qty, Section, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 import { plural } from '../lib/words.ts';
+import { ForecastSummary, ForecastTable } from './forecast-panel.tsx';
 import { SeasonDrawsPanel } from './season-draws.tsx';
 
 export type SeasonPlanPreview = Schemas['SeasonPlanPreview'];
@@ -37,8 +38,11 @@ export function SeasonPlanPanel({
     endDate: clamp(`${year}-12-31`),
     nights: 'allocated' as 'allocated' | 'all',
     weather: 'aware' as 'aware' | 'blind',
+    relativityGoal: campaign.goals.relativityGoal ?? false,
   });
   const [preview, setPreview] = useState<SeasonPlanPreview | null>(null);
+  /** Whether the preview shown was asked with the relativity goal (the form may have changed since). */
+  const [proposedGoal, setProposedGoal] = useState(false);
   const { busy, error, run } = useAction();
   const [status, setStatus] = useState('');
   const msgs = fieldMessages(error);
@@ -50,6 +54,7 @@ export function SeasonPlanPanel({
         body: form,
       });
       setPreview(p);
+      setProposedGoal(form.relativityGoal);
       onProposal(p);
     });
   const accept = async () => {
@@ -106,6 +111,7 @@ export function SeasonPlanPanel({
         <label>
           nights{' '}
           <select
+            name="nights"
             value={form.nights}
             onChange={(e) =>
               setForm({ ...form, nights: e.currentTarget.value === 'all' ? 'all' : 'allocated' })
@@ -129,6 +135,15 @@ export function SeasonPlanPanel({
             </option>
             <option value="blind">every night counts as clear</option>
           </select>
+        </label>
+        <label>
+          <input
+            type="checkbox"
+            name="relativityGoal"
+            checked={form.relativityGoal}
+            onChange={(e) => setForm({ ...form, relativityGoal: e.currentTarget.checked })}
+          />{' '}
+          also pick the epochs that most sharpen the redshift and precession factors
         </label>
         <button type="submit" class="primary" disabled={busy}>
           Propose a season plan
@@ -268,6 +283,26 @@ export function SeasonPlanPanel({
               ))}
             </tbody>
           </table>
+          {p.targets.some((t) => t.relativity) && (
+            <div class="plan-relativity" data-goal={String(proposedGoal)}>
+              <h3>
+                Relativity forecast after this plan
+                {proposedGoal ? ', its epochs chosen for it too' : ''}
+              </h3>
+              {p.targets.map((t) =>
+                t.relativity ? (
+                  <div key={t.target} data-target={t.target}>
+                    <h4>{t.target}</h4>
+                    <ForecastSummary forecast={t.relativity} />
+                    <ForecastTable
+                      forecast={t.relativity}
+                      caption={`Its measurements, then ${plural(t.relativity.plannedEpochs, 'epoch')}: the blocks that stay and this plan's, each at its expected σ.`}
+                    />
+                  </div>
+                ) : null,
+              )}
+            </div>
+          )}
           {p.targets.some((t) => t.passage) && (
             <details class="periapsis-windows">
               <summary>

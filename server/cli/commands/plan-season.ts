@@ -242,6 +242,9 @@ export const planSeasonCommand: Command = {
           ]
         : [],
     );
+    const relativity = plan.targets.flatMap((t) =>
+      t.relativity ? t.relativity.summary.map((line) => `  ${t.target}: ${line}\n`) : [],
+    );
     const skipped = result.sites.flatMap((s) =>
       s.skipped.map((k) => `  ${s.name} ${k.date}: ${k.reason}\n`),
     );
@@ -257,6 +260,7 @@ export const planSeasonCommand: Command = {
       '\n',
       targets,
       windows.length ? `\nperiapsis windows:\n${windows.join('')}` : '',
+      relativity.length ? `\nrelativity forecast after the plan:\n${relativity.join('')}` : '',
       plan.unmet.length
         ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.start} to ${u.end}: ${u.reason}\n`).join('')}`
         : '',

@@ -42,12 +42,19 @@ const FactorForecastSchema = z
   .strict()
   .openapi('FactorForecast');
 
+const detection = {
+  factors: z.array(FactorForecastSchema),
+  plannedEpochs: z.number().int(),
+  summary: z.array(z.string()),
+  assumptions: z.string(),
+};
+
+/** The forecast of a plan's epochs alone (a proposed season plan's, per target). */
+export const DetectionForecastSchema = z.object(detection).strict().openapi('DetectionForecast');
+
 export const TargetForecastSchema = z
   .object({
-    factors: z.array(FactorForecastSchema),
-    plannedEpochs: z.number().int(),
-    summary: z.array(z.string()),
-    assumptions: z.string(),
+    ...detection,
     solution: z.object({ id: z.number().int(), version: z.number().int() }).strict(),
     at: z.string(),
     precision: z

@@ -5,6 +5,7 @@
 import { z } from '@hono/zod-openapi';
 import { FLAG_KINDS, BLOCK_KINDS, NIGHT_REASONS } from '../../science/plan/index.ts';
 import { NIGHT_CHOICES, WEATHER_CHOICES } from '../../store/index.ts';
+import { DetectionForecastSchema } from './forecast-output.ts';
 import { InstantSchema, IntervalSchema } from './sky-output.ts';
 
 const BlockKind = z.enum(BLOCK_KINDS);
@@ -348,6 +349,10 @@ export const SeasonPlanSchema = z
           nextBest: z.array(
             z.object({ date: z.string(), site: z.string(), kind: BlockKind, gain: Gain }).strict(),
           ),
+          relativity: z.union([DetectionForecastSchema, z.null()]).openapi({
+            description:
+              'the relativity detection forecast after the plan: the measurements, then the blocks that stay and the plan’s epochs at their σ; null when the orbit has no distance or no relativistic term',
+          }),
         })
         .strict(),
     ),

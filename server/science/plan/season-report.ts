@@ -6,7 +6,9 @@
  */
 import { LASER_GUIDE_STAR_CAUTION, PLAN_ADVISORY } from './cautions.ts';
 import { BLOCK_KINDS } from './candidates.ts';
+import { forecastDetection, type DetectionForecast } from './forecast.ts';
 import { uncertainties } from './information.ts';
+import { DEFAULT_PRECISION } from './precision.ts';
 import { coverageProbability, quadratic, type Passage } from './passage.ts';
 import { inPassageWindow, nightNote, fits, type Planner } from './season-plan.ts';
 import { covarianceOf, gainOf, score, type TargetState } from './season-state.ts';
@@ -96,7 +98,30 @@ function targetPlan(p: Planner, timed: TimedPlan, ts: TargetState, ti: number): 
     shrinkage,
     passage,
     nextBest,
+    relativity: relativityAfter(ts, mine),
   };
+}
+
+/** The detection forecast after the plan: measurements, then kept blocks and the plan's epochs at their σ. */
+function relativityAfter(ts: TargetState, mine: readonly PlannedEpoch[]): DetectionForecast | null {
+  const orbit = ts.t.input.target.orbit;
+  if (!orbit || orbit.distancePc === null) return null;
+  if (!orbit.relativity.gravitationalRedshift && !orbit.relativity.precession) return null;
+  const plan = [
+    ...ts.keptEpochs,
+    ...mine.map((e) => ({
+      jd: (parseEpoch(e.block.start.utc) + parseEpoch(e.block.end.utc)) / 2,
+      kind: e.kind,
+      sigma: e.precision.sigma,
+    })),
+  ];
+  // Every epoch carries its own σ: the default precision is only the fallback the request asks for.
+  return forecastDetection({
+    orbit,
+    measurements: ts.t.input.measurements ?? [],
+    plan,
+    precision: DEFAULT_PRECISION,
+  });
 }
 
 function passagePlan(

@@ -7,6 +7,7 @@
  * site-night's weight; `gainOf` says the first two in named units.
  */
 import type { BlockKind } from './candidates.ts';
+import type { ForecastEpoch } from './forecast.ts';
 import { rounded } from './words.ts';
 import {
   addInformation,
@@ -42,6 +43,8 @@ export interface TargetState {
   /** The information of kept blocks alone, and their middles (JD). */
   keptInfo: Float64Array | null;
   keptJd: number[];
+  /** The kept blocks as forecast epochs (middle, kind, σ at their airmass), for the report's relativity forecast. */
+  keptEpochs: ForecastEpoch[];
   options: Option[];
   /** The relativity goal's information (season-relativity.ts), when asked for and the orbit has the terms. */
   rel: RelativityState | null;
@@ -66,6 +69,7 @@ export function targetState(
     planned: model ? new Float64Array(model.parameters.length ** 2) : null,
     keptInfo: null,
     keptJd: [],
+    keptEpochs: [],
     options: [],
     rel: null,
   };
@@ -88,6 +92,11 @@ export function addKept(
   kept: readonly { k: KeptBlock; precision: Option['precision'] }[],
 ): void {
   ts.keptJd = kept.map(({ k }) => (k.startJd + k.endJd) / 2);
+  ts.keptEpochs = kept.map(({ k, precision }, j) => ({
+    jd: ts.keptJd[j]!,
+    kind: k.kind,
+    sigma: k.kind === 'astrometry' ? precision.astrometryMas : precision.spectroscopyKmS,
+  }));
   if (ts.model && kept.length === 0) ts.keptInfo = Float64Array.from(ts.planned!);
   if (!ts.model || kept.length === 0) return;
   const jac = jacobians(

@@ -9,6 +9,7 @@ import { numberIn, positive } from './checks.ts';
 import type { NightReason } from './night-reasons.ts';
 import type { KeptBlock, ScheduledBlock } from './night-schedule.ts';
 import type { MeasurementInput } from '../orbit/fit/types.ts';
+import type { DetectionForecast } from './forecast.ts';
 import type { PrecisionModel } from './precision.ts';
 
 /** Epochs per night inside a periapsis window: one, one every N hours while observable, or as many as fit. */
@@ -173,6 +174,12 @@ export interface TargetPlan {
   } | null;
   /** The best epochs not in the plan, by information given the plan. */
   nextBest: { date: string; site: string; kind: BlockKind; gain: EpochGain }[];
+  /**
+   * The relativity detection forecast after the plan (forecast.ts: the target's measurements, then
+   * its kept blocks and the plan's epochs at their own σ); null when the orbit has no distance or no
+   * relativistic term to scale. The same whether or not the relativity goal chose the epochs.
+   */
+  relativity: DetectionForecast | null;
 }
 
 export interface SeasonPlan {

@@ -254,15 +254,17 @@ export async function prepare(
     ...asked
   } = request;
   const options = { ...campaignOptions(campaign.goals), ...asked };
-  // The relativity goal starts from the targets' measurements, as the forecast does; a weather-aware
-  // plan reads the same forecast to find the epochs it rests on (season-backups.ts).
-  const measured =
-    options.relativityGoal || weather === 'aware'
-      ? await targetMeasurements(
-          db,
-          input.targets.map((t) => t.id),
-        )
-      : new Map<number, MeasurementInput[]>();
+  // The relativity forecast starts from the targets' measurements: the plan's report gives it for
+  // every target with a relativistic term, the relativity goal and a weather-aware plan's backups
+  // (season-backups.ts) read it too.
+  const relativistic = (o: (typeof input.targets)[number]['target']['orbit']) =>
+    !!o && (o.relativity.gravitationalRedshift || o.relativity.precession);
+  const measured = await targetMeasurements(
+    db,
+    input.targets
+      .filter((t) => options.relativityGoal || weather === 'aware' || relativistic(t.target.orbit))
+      .map((t) => t.id),
+  );
   const targets = seasonTargets(input.targets, campaign.goals, names, last).map((t, i) => {
     const m = measured.get(input.targets[i]!.id);
     return m ? { ...t, measurements: m } : t;

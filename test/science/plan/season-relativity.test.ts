@@ -79,6 +79,18 @@ describe('the relativity goal of the season planner', () => {
     );
     expect(goal.epochs.length).toBeLessThanOrEqual(plain.epochs.length); // not by buying more epochs
     expect(b[0]!).toBeLessThan(a[0]!);
+    // The plan's own report gives the same forecast (no blocks stay here, so the plan is its epochs).
+    for (const [plan, sigma] of [
+      [plain, a],
+      [goal, b],
+    ] as const) {
+      const reported = plan.targets[0]!.relativity!;
+      expect(reported.plannedEpochs).toBe(plan.epochs.length);
+      // Equal but for the epochs' JD (the test's from milliseconds, the report's from the ISO text).
+      reported.factors.forEach((f, q) => {
+        expect(Math.abs(f.sigmaAfter! / sigma[q]! - 1)).toBeLessThan(1e-6);
+      });
+    }
   });
 
   it('starts from the information of the blocks that stay in place', () => {
