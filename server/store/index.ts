@@ -79,7 +79,11 @@ export {
 } from './csv/columns.ts';
 export { ImportRejected, type ImportReport } from './csv/import.ts';
 export { escapeFormulaCell } from './csv/cells.ts';
-export { CLEAR_PRIOR_COLUMNS, readClearPriorCsv } from './csv/clear-prior.ts';
+export {
+  CLEAR_PRIOR_COLUMNS,
+  DEFAULT_PRIOR_STRENGTH_NIGHTS,
+  readClearPriorCsv,
+} from './csv/clear-prior.ts';
 export type { PreparedMeasurements } from './csv/measurement-rows.ts';
 export { ephemerisCsv } from './exports/ephemeris.ts';
 export { RESIDUAL_CSV_COLUMNS, residualsCsv } from './exports/residuals.ts';

@@ -91,7 +91,7 @@ describe('epochwright site-statistics', () => {
       url,
     ]);
     expect(c.code).toBe(2);
-    expect(c.stderr).toContain('line 3 clearFraction');
+    expect(c.stderr).toContain('line 3 clear_fraction');
     expect(await tableCounts(store)).toEqual(before);
   });
 });

@@ -1,6 +1,7 @@
 /**
  * The site page against the real server and the demo (invented log and priors): the month tiles
- * and table say what GET /sites/{id}/statistics says, and a lead's new prior is stored and drawn.
+ * and table say what GET /sites/{id}/statistics says, and a lead's new prior, typed or from a CSV
+ * file, is stored and drawn.
  * Waits on state, never on time.
  */
 import { join } from 'node:path';
@@ -83,6 +84,44 @@ describe('the site page', () => {
     expect(refusal).toMatch(/^March, clear fraction: 1\.5 must be at most 1/);
     expect(refusal).not.toMatch(/months|clearFraction|\.\d\./);
     expect((await api<Stats>(`/sites/${site.id}/statistics`)).priors[0]!.clearFraction).toBe(0.95);
+
+    // A prior from a CSV file replaces the whole prior; the month fields and tiles follow.
+    await page.locator('.prior-csv-form input[name="prior-file"]').setInputFiles({
+      name: 'prior.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from('month,clear_fraction,strength_nights\n6,0.35,12\n7,0.45\n'),
+    });
+    await page.waitForFunction(() =>
+      document
+        .querySelector<HTMLTextAreaElement>('.prior-csv-form textarea')
+        ?.value.includes('6,0.35,12'),
+    );
+    await page.locator('.prior-csv-form input[name="prior-csv-strength"]').fill('5');
+    await page.locator('.prior-csv-form button[type=submit]').click();
+    await page.waitForFunction(
+      () =>
+        (document.querySelector('input[name="clear-6"]') as HTMLInputElement | null)?.value ===
+        '0.35',
+    );
+    const fromCsv = await api<Stats>(`/sites/${site.id}/statistics`);
+    expect(fromCsv.priors[5]).toEqual({ month: 6, clearFraction: 0.35, strengthNights: 12 });
+    expect(fromCsv.priors[6]).toEqual({ month: 7, clearFraction: 0.45, strengthNights: 5 });
+    expect(fromCsv.priors.filter((p) => p !== null)).toHaveLength(2); // January's 0.95 is gone
+    expect(await page.locator('input[name="clear-1"]').inputValue()).toBe('');
+    await page
+      .locator('.month-ribbon [data-month="6"] .pct', {
+        hasText: (100 * fromCsv.months[5]!.clearProbability).toFixed(0),
+      })
+      .waitFor();
+    // A bad row is refused by its line and column in the file's own words; nothing changes.
+    await page.locator('.prior-csv-form textarea').fill('month,clear_fraction\n6,0.3\n8,1.4\n');
+    await page.locator('.prior-csv-form button[type=submit]').click();
+    const csvRefusal = page.locator('.prior-csv-form .error-line');
+    await csvRefusal.waitFor();
+    expect(await csvRefusal.textContent()).toMatch(
+      /line 3 clear_fraction: 1\.4 must lie in \[0, 1\]/,
+    );
+    expect((await api<Stats>(`/sites/${site.id}/statistics`)).priors).toEqual(fromCsv.priors);
     expect(errors.filter((e) => !/422|400/.test(e))).toEqual([]);
     await page.close();
   });

@@ -121,6 +121,33 @@ describe.each(BACKENDS)('site statistics on $name', (backend) => {
     expect(june.loss.prior).toBe('user');
   });
 
+  it('stores a prior sent as CSV, and refuses a bad row naming its line and column', async () => {
+    const path = `/api/sites/${f.ids.site}/clear-prior`;
+    const put = await f.call('lead', 'PUT', path, {
+      csv: 'month,clear_fraction,strength_nights\n5,0.55,6\n7,0.4\n',
+      strengthNights: 4,
+    });
+    expect(put.status, await put.clone().text()).toBe(200);
+    const prior = (await put.json()) as { months: unknown[] };
+    expect(prior.months[4]).toEqual({ month: 5, clearFraction: 0.55, strengthNights: 6 });
+    expect(prior.months[6]).toEqual({ month: 7, clearFraction: 0.4, strengthNights: 4 });
+    expect(prior.months.filter((m) => m !== null)).toHaveLength(2); // the rest are cleared
+    const before = await tableCounts(f.store);
+    const bad = await f.call('lead', 'PUT', path, {
+      csv: 'month,clear_fraction\n5,0.55\n8,1.4\n',
+    });
+    expect(bad.status).toBe(422);
+    const text = await bad.text();
+    expect(text).toContain('line 3 clear_fraction'); // the row of month 8, header on line 1
+    const weak = await f.call('lead', 'PUT', path, {
+      csv: 'month,clear_fraction\n5,0.5\n',
+      strengthNights: 0,
+    });
+    expect(weak.status).toBe(422);
+    expect(await weak.text()).toContain('strengthNights');
+    expect(await tableCounts(f.store)).toEqual(before);
+  });
+
   it('refuses bad priors and roles, naming the field, and writes nothing', async () => {
     const before = await tableCounts(f.store);
     const path = `/api/sites/${f.ids.site}/clear-prior`;

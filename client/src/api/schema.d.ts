@@ -2732,7 +2732,7 @@ export interface paths {
                 };
             };
         };
-        /** Replace the site’s clear-night prior (all months at once) */
+        /** Replace the site’s clear-night prior (all months at once, as values or CSV) */
         put: {
             parameters: {
                 query?: never;
@@ -2747,6 +2747,11 @@ export interface paths {
                     "application/json": {
                         /** @description the months that have a prior, each at most once; the rest are cleared */
                         months: components["schemas"]["MonthPrior"][];
+                    } | {
+                        /** @description CSV text: a header with month and clear_fraction (and optionally strength_nights), one row per month that has a prior; the rest are cleared */
+                        csv: string;
+                        /** @description weight of rows without strength_nights, nights, (0, 1000]; default 10 */
+                        strengthNights?: number;
                     };
                 };
             };

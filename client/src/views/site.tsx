@@ -2,7 +2,7 @@
  * A site's page: what its log has learned per calendar month (share of time lost, the clear chance a
  * plan uses, seeing, Strehl ratio, reasons, each with the nights it rests on), a month ribbon
  * drawing the same, the precision its measurements reached, and the clear-night prior (a lead
- * edits it). Server: GET /sites/{id}/statistics, GET and PUT /sites/{id}/clear-prior.
+ * edits it, typed or from CSV). Server: GET /sites/{id}/statistics, GET and PUT /sites/{id}/clear-prior.
  */
 import { Info } from 'luxon';
 import { useState } from 'preact/hooks';
@@ -153,6 +153,71 @@ function PriorForm({
         </p>
       ))}
       {Object.keys(messages).length === 0 && <ErrorLine error={error} />}
+    </form>
+  );
+}
+
+/**
+ * The prior from a CSV file or pasted text (columns month, clear_fraction, optional
+ * strength_nights), sent as it is: the server reads it by the same rule as the CLI's --set-prior and
+ * refuses a bad row by its line and column, storing nothing.
+ */
+function PriorCsvForm({ siteId, onSaved }: { siteId: number; onSaved: () => void }) {
+  const [text, setText] = useState('');
+  const [strength, setStrength] = useState('10');
+  const { busy, error, run } = useAction();
+  const readFile = async (f: File | undefined) => f && setText(await f.text());
+  return (
+    <form
+      class="prior-csv-form"
+      onSubmit={(e) => {
+        e.preventDefault();
+        void run(async () => {
+          await api.PUT('/sites/{id}/clear-prior', {
+            params: { path: { id: siteId } },
+            body: { csv: text, strengthNights: Number(strength) },
+          });
+          onSaved();
+        });
+      }}
+    >
+      <p class="muted">
+        Or from a CSV file: a header <code>month,clear_fraction</code> (and optionally{' '}
+        <code>strength_nights</code>), one row per month (1–12) that has a prior; months left out
+        have none. It replaces the whole prior.
+      </p>
+      <label class="field">
+        <span>file</span>
+        <input
+          type="file"
+          name="prior-file"
+          accept=".csv,text/csv"
+          onChange={(e) => readFile(e.currentTarget.files?.[0])}
+        />
+      </label>
+      <label class="field wide">
+        <span>or paste its text</span>
+        <textarea
+          name="prior-csv"
+          rows={4}
+          value={text}
+          onInput={(e) => setText(e.currentTarget.value)}
+        />
+      </label>
+      <label>
+        rows without strength_nights are worth (nights){' '}
+        <input
+          name="prior-csv-strength"
+          inputMode="decimal"
+          size={4}
+          value={strength}
+          onInput={(e) => setStrength(e.currentTarget.value)}
+        />
+      </label>{' '}
+      <button type="submit" disabled={busy || text.trim() === ''}>
+        Replace the prior from the CSV
+      </button>
+      <ErrorLine error={error} />
     </form>
   );
 }
@@ -328,7 +393,16 @@ export function SiteView({ id }: { id: number }) {
       </Section>
       <Section title="Clear-night prior" id="site-prior">
         {lead ? (
-          <PriorForm siteId={id} stats={data} onSaved={reload} />
+          <>
+            {/* Keyed by the stored prior: a prior saved from CSV refills the month fields. */}
+            <PriorForm
+              key={JSON.stringify(data.priors)}
+              siteId={id}
+              stats={data}
+              onSaved={reload}
+            />
+            <PriorCsvForm siteId={id} onSaved={reload} />
+          </>
         ) : (
           <p class="muted">
             {data.priors.some((p) => p !== null)

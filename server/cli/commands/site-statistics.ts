@@ -1,6 +1,10 @@
 /** `epochwright site-statistics`: what a site's log has learned per month, and setting its clear-night prior. */
 import { parseArgs } from 'node:util';
-import { readClearPriorCsv, type SiteStatisticsView } from '../../store/index.ts';
+import {
+  DEFAULT_PRIOR_STRENGTH_NIGHTS,
+  readClearPriorCsv,
+  type SiteStatisticsView,
+} from '../../store/index.ts';
 import { optionalPositive, outputFormat, positiveId, readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
@@ -22,7 +26,7 @@ options:
   --start, --end <date>    nights (local evening dates, YYYY-MM-DD) to read; default all
   --set-prior <file.csv>   first replace the site's clear-night prior: columns month, clear_fraction
                            and optionally strength_nights (months left out have none)
-  --strength <nights>      weight of rows without strength_nights; default 10
+  --strength <nights>      weight of rows without strength_nights; default ${DEFAULT_PRIOR_STRENGTH_NIGHTS}
 ${STORE_HELP}
   --json | --csv           machine-readable output instead of tables
 `;
@@ -107,7 +111,7 @@ export const siteStatisticsCommand: Command = {
     });
     const format = outputFormat(values);
     const id = positiveId('site-id', values['site-id']);
-    const strength = optionalPositive('strength', values.strength) ?? 10;
+    const strength = optionalPositive('strength', values.strength) ?? DEFAULT_PRIOR_STRENGTH_NIGHTS;
     if (values.strength !== undefined && values['set-prior'] === undefined)
       throw new UsageError('--strength goes with --set-prior');
     const prior =

@@ -4,7 +4,13 @@
  * GET and PUT /sites/{id}/clear-prior: the site's clear-night prior per month (lead writes).
  */
 import { createRoute, z } from '@hono/zod-openapi';
-import type { Store } from '../../store/index.ts';
+import {
+  CLEAR_PRIOR_COLUMNS,
+  DEFAULT_PRIOR_STRENGTH_NIGHTS,
+  readClearPriorCsv,
+  type Store,
+} from '../../store/index.ts';
+import { InputError } from '../../science/errors.ts';
 import { requireRole, writer } from '../auth.ts';
 import {
   ClearPriorSchema,
@@ -18,13 +24,37 @@ const RangeQuery = z.object({
   end: z.iso.date().optional().openapi({ description: 'last night' }),
 });
 
-const PriorBody = z
+const MonthsBody = z
   .object({
     months: z.array(MonthPriorSchema).max(12).openapi({
       description: 'the months that have a prior, each at most once; the rest are cleared',
     }),
   })
   .strict();
+const CsvBody = z
+  .object({
+    csv: z
+      .string()
+      .max(20_000)
+      .openapi({
+        description: `CSV text: a header with ${CLEAR_PRIOR_COLUMNS.slice(0, 2).join(' and ')} (and optionally ${CLEAR_PRIOR_COLUMNS[2]}), one row per month that has a prior; the rest are cleared`,
+      }),
+    strengthNights: z
+      .number()
+      .optional()
+      .openapi({
+        description: `weight of rows without strength_nights, nights, (0, 1000]; default ${DEFAULT_PRIOR_STRENGTH_NIGHTS}`,
+      }),
+  })
+  .strict();
+const PriorBody = z.union([MonthsBody, CsvBody]).openapi({
+  description: 'the months as values, or as the CSV the CLI’s --set-prior reads',
+});
+
+function positiveStrength(x: number): number {
+  if (!(x > 0 && x <= 1000)) throw new InputError('strengthNights', x, 'must lie in (0, 1000]');
+  return x;
+}
 
 export function siteStatisticsRoutes(store: Store) {
   const app = resourceApp();
@@ -71,7 +101,7 @@ export function siteStatisticsRoutes(store: Store) {
       path: '/sites/{id}/clear-prior',
       tags: ['sites'],
       security,
-      summary: 'Replace the site’s clear-night prior (all months at once)',
+      summary: 'Replace the site’s clear-night prior (all months at once, as values or CSV)',
       request: {
         params: IdParam,
         body: { content: { 'application/json': { schema: PriorBody } }, required: true },
@@ -80,12 +110,18 @@ export function siteStatisticsRoutes(store: Store) {
     }),
     async (c) => {
       const actor = writer(c, 'lead');
+      const body = c.req.valid('json');
+      const months =
+        'csv' in body
+          ? readClearPriorCsv(
+              body.csv,
+              body.strengthNights === undefined
+                ? DEFAULT_PRIOR_STRENGTH_NIGHTS
+                : positiveStrength(body.strengthNights),
+            )
+          : body.months;
       return c.json(
-        await store.siteWeather.replacePrior(
-          actor,
-          c.req.valid('param').id,
-          c.req.valid('json').months,
-        ),
+        await store.siteWeather.replacePrior(actor, c.req.valid('param').id, months),
         200,
       );
     },

@@ -9,6 +9,14 @@ import { checkMonthPriors, type MonthPrior } from '../repos/clear-priors.ts';
 import { isDecimal } from './cells.ts';
 
 export const CLEAR_PRIOR_COLUMNS = ['month', 'clear_fraction', 'strength_nights'] as const;
+const CSV_COLUMN_OF: Record<string, string> = {
+  month: 'month',
+  clearFraction: 'clear_fraction',
+  strengthNights: 'strength_nights',
+};
+
+/** Weight of a CSV row without `strength_nights`, nights, unless the request gives one. */
+export const DEFAULT_PRIOR_STRENGTH_NIGHTS = 10;
 
 /**
  * @param defaultStrengthNights weight of rows without `strength_nights`, (0, 1000]
@@ -66,8 +74,11 @@ export function readClearPriorCsv(text: string, defaultStrengthNights: number): 
     return checkMonthPriors(months);
   } catch (err) {
     if (!(err instanceof InputError)) throw err;
-    // months.3.clearFraction → line 5 clearFraction
+    // months.3.clearFraction → line 5 clear_fraction: the file's own words
     const m = /^months\.(\d+)\.?(.*)$/.exec(err.field);
-    throw m ? new InputError(`line ${Number(m[1]) + 2} ${m[2]}`, err.value, err.rule) : err;
+    const column = m?.[2] ? (CSV_COLUMN_OF[m[2]] ?? m[2]) : '';
+    throw m
+      ? new InputError(`line ${Number(m[1]) + 2}${column ? ` ${column}` : ''}`, err.value, err.rule)
+      : err;
   }
 }
