@@ -2116,7 +2116,7 @@ export interface paths {
                         temperatureC?: number | null;
                         /** @description typical relative humidity for refraction, %; null: 50 */
                         humidityPct?: number | null;
-                        /** @description wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2 */
+                        /** @description wavelength observed, for refraction, µm (V band 0.55, J 1.25, H 1.65, K 2.2); null: 2.2, the K band */
                         wavelengthUm?: number | null;
                         /**
                          * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
@@ -2437,7 +2437,7 @@ export interface paths {
                         temperatureC?: number | null;
                         /** @description typical relative humidity for refraction, %; null: 50 */
                         humidityPct?: number | null;
-                        /** @description wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2 */
+                        /** @description wavelength observed, for refraction, µm (V band 0.55, J 1.25, H 1.65, K 2.2); null: 2.2, the K band */
                         wavelengthUm?: number | null;
                         horizonMask?: {
                             /** @description degrees from north through east, [0, 360) */
@@ -2969,7 +2969,7 @@ export interface paths {
                         goals: {
                             /** @description wanted interval between epochs of a target, days */
                             cadenceDays: number;
-                            /** @description wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own */
+                            /** @description wavelength the campaign observes at, µm, for refraction (V 0.55, J 1.25, H 1.65, K 2.2); absent: each site’s own; it overrides theirs */
                             wavelengthUm?: number;
                             /** @description interval near periapsis, days */
                             densifiedCadenceDays?: number;
@@ -3327,7 +3327,7 @@ export interface paths {
                         goals?: {
                             /** @description wanted interval between epochs of a target, days */
                             cadenceDays: number;
-                            /** @description wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own */
+                            /** @description wavelength the campaign observes at, µm, for refraction (V 0.55, J 1.25, H 1.65, K 2.2); absent: each site’s own; it overrides theirs */
                             wavelengthUm?: number;
                             /** @description interval near periapsis, days */
                             densifiedCadenceDays?: number;
@@ -10496,6 +10496,13 @@ export interface components {
                 humidityPct: number;
                 /** @description wavelength refraction is computed at, µm */
                 wavelengthUm: number;
+                /**
+                 * @description where the wavelength came from: "campaign" (its goals.wavelengthUm, over the site’s), "site" (the site’s own), "default" (2.2 µm, the K band)
+                 * @enum {string}
+                 */
+                wavelengthFrom: "campaign" | "site" | "default";
+                /** @description wavelength, humidity, pressure and temperature, in words */
+                refraction: string;
             };
             night: {
                 /** @description local date of the evening, YYYY-MM-DD */
@@ -10825,7 +10832,7 @@ export interface components {
             temperatureC?: number | null;
             /** @description typical relative humidity for refraction, %; null: 50 */
             humidityPct?: number | null;
-            /** @description wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2 */
+            /** @description wavelength observed, for refraction, µm (V band 0.55, J 1.25, H 1.65, K 2.2); null: 2.2, the K band */
             wavelengthUm?: number | null;
             /**
              * @description azimuth-dependent horizon, interpolated linearly and wrapping through north; empty for a flat horizon
@@ -10981,7 +10988,7 @@ export interface components {
             goals: {
                 /** @description wanted interval between epochs of a target, days */
                 cadenceDays: number;
-                /** @description wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own */
+                /** @description wavelength the campaign observes at, µm, for refraction (V 0.55, J 1.25, H 1.65, K 2.2); absent: each site’s own; it overrides theirs */
                 wavelengthUm?: number;
                 /** @description interval near periapsis, days */
                 densifiedCadenceDays?: number;
@@ -11815,6 +11822,13 @@ export interface components {
                 humidityPct: number;
                 /** @description wavelength refraction is computed at, µm */
                 wavelengthUm: number;
+                /**
+                 * @description where the wavelength came from: "campaign" (its goals.wavelengthUm, over the site’s), "site" (the site’s own), "default" (2.2 µm, the K band)
+                 * @enum {string}
+                 */
+                wavelengthFrom: "campaign" | "site" | "default";
+                /** @description wavelength, humidity, pressure and temperature, in words */
+                refraction: string;
             };
             night: {
                 /** @description local date of the evening, YYYY-MM-DD */

@@ -464,6 +464,7 @@ function SunMoonTimes({ vis, zone }: { vis: Visibility; zone: string }) {
           </tr>
         </tbody>
       </table>
+      <p class="muted refraction">Altitudes and airmasses include {vis.site.refraction}.</p>
     </Section>
   );
 }

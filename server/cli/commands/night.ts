@@ -96,6 +96,7 @@ export const nightCommand: Command = {
       `astronomical ${t(tw.astronomical.dawn)}  nautical ${t(tw.nautical.dawn)}  civil ${t(tw.civil.dawn)}  sunrise ${t(report.sun.rise)}`,
       `darkness, ${report.darkness.limit}: ${report.darkness.hours.toFixed(2)} h`,
       `Moon: rises ${t(report.moon.rise)}, sets ${t(report.moon.set)}, ${(report.moon.illuminatedFraction * 100).toFixed(0)}% lit`,
+      `altitudes and airmasses include ${report.site.refraction}`,
       `limits: altitude ≥ ${report.limits.altitudeLimitDeg.toFixed(1)}°${report.limits.highestAirmass ? ` (airmass ≤ ${report.limits.highestAirmass})` : ''}, Moon ≥ ${report.limits.leastMoonDistanceDeg}°, Sun ≥ ${report.limits.leastSunDistanceDeg}°`,
       '',
     ];

@@ -3,7 +3,7 @@
  * each target's windows and curve) and the season map. Instants come in UTC and in the site's zone.
  */
 import { z } from '@hono/zod-openapi';
-import { LIMITS } from '../../science/sky/index.ts';
+import { LIMITS, WAVELENGTH_SOURCES } from '../../science/sky/index.ts';
 
 const num = (description: string) => z.number().openapi({ description });
 
@@ -93,6 +93,13 @@ export const NightReportSchema = z
         wavelengthUm: z
           .number()
           .openapi({ description: 'wavelength refraction is computed at, µm' }),
+        wavelengthFrom: z.enum(WAVELENGTH_SOURCES).openapi({
+          description:
+            'where the wavelength came from: "campaign" (its goals.wavelengthUm, over the site’s), "site" (the site’s own), "default" (2.2 µm, the K band)',
+        }),
+        refraction: z
+          .string()
+          .openapi({ description: 'wavelength, humidity, pressure and temperature, in words' }),
       })
       .strict(),
     night: z

@@ -85,10 +85,13 @@ export type { PeriapsisInSeason, SeasonSummary } from './season-summary.ts';
 export {
   DEFAULT_SUN_AVOIDANCE_DEG,
   maskAltitudeDeg,
+  refractionWords,
   reviveSite,
   validateSite,
+  WAVELENGTH_SOURCES,
   type HorizonPoint,
   type Site,
+  type WavelengthSource,
   type SiteInput,
 } from './site.ts';
 export { TWILIGHT_SUN_ALTITUDE_DEG, moonNight, sunNight, type TwilightKind } from './sun-moon.ts';

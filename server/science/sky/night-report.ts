@@ -10,7 +10,8 @@ import { darknessExact, darknessFast, type Interval } from './darkness.ts';
 import { altitudeOfVectorRad, moonAt, nightFrame, type NightFrame } from './frame.ts';
 import { instant, nightSpan, type Instant } from './night.ts';
 import { exactSampler, fastSampler, frameTarget } from './samplers.ts';
-import { maskAltitudeDeg, type Site } from './site.ts';
+import { LOWEST_CHECKED_ALTITUDE_DEG } from './refraction.ts';
+import { maskAltitudeDeg, refractionWords, type Site, type WavelengthSource } from './site.ts';
 import { moonNight, sunNight, TWILIGHT_SUN_ALTITUDE_DEG, type TwilightKind } from './sun-moon.ts';
 import type { Target } from './target.ts';
 import { brokenLimit, findWindows, refineTransit, transitTimes, type Limit } from './windows.ts';
@@ -90,6 +91,9 @@ export interface NightReport {
     /** Relative humidity and wavelength the refraction was computed for, % and µm. */
     humidityPct: number;
     wavelengthUm: number;
+    wavelengthFrom: WavelengthSource;
+    /** The same conditions in words (refractionWords). */
+    refraction: string;
   };
   night: { date: string; start: Instant; end: Instant; hours: number };
   sun: {
@@ -191,6 +195,8 @@ export function nightReport(
       temperatureC: site.temperatureC,
       humidityPct: site.humidityPct,
       wavelengthUm: site.wavelengthUm,
+      wavelengthFrom: site.wavelengthFrom,
+      refraction: refractionWords(site),
     },
     night: {
       date,
@@ -357,6 +363,14 @@ export function cautions(c: Limits): string[] {
   if (c.sunLimitDeg > TWILIGHT_SUN_ALTITUDE_DEG.nautical) {
     out.push(
       `The darkness limit (${c.darknessLabel}) lets windows start in bright twilight: never point a telescope, finder or camera near the Sun; follow the site's Sun-avoidance rules.`,
+    );
+  }
+  // Refused would be wrong: 0° is the sites' default and right for rise and set times. But below
+  // LOWEST_CHECKED_ALTITUDE_DEG nothing outside checks the refraction, and the real atmosphere
+  // there departs from any model by more than the model's own error.
+  if (c.altitudeLimitDeg < LOWEST_CHECKED_ALTITUDE_DEG) {
+    out.push(
+      `These limits allow altitudes down to ${round(c.altitudeLimitDeg, 1)}°, below ${LOWEST_CHECKED_ALTITUDE_DEG}°: there refraction is not checked against an outside model and varies with the air near the horizon, so times and altitudes that low may be off by minutes and arcminutes. Set a lowest altitude or highest airmass if the telescope does not observe that low.`,
     );
   }
   if (c.leastSunDistanceDeg < 30) {

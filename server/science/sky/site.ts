@@ -50,6 +50,30 @@ export interface SiteInput {
   leastSunDistanceDeg?: number;
 }
 
+/** Where a site's refraction wavelength came from; a campaign's band overrides the site's own. */
+export const WAVELENGTH_SOURCES = ['campaign', 'site', 'default'] as const;
+export type WavelengthSource = (typeof WAVELENGTH_SOURCES)[number];
+
+const SOURCE_WORDS: Record<WavelengthSource, string> = {
+  campaign: "the campaign's band",
+  site: "the site's setting",
+  default: 'no band set, the default',
+};
+/** Photometric bands by their usual effective wavelengths, µm (common practice, no source). */
+const BANDS = [
+  ['V', 0.55],
+  ['J', 1.25],
+  ['H', 1.65],
+  ['K', 2.2],
+] as const;
+
+/** The weather and light a site's refraction is computed for, in words ("2.2 µm (K band; …), 50 % humidity, …"). */
+export function refractionWords(site: Site): string {
+  const band = BANDS.find(([, um]) => Math.abs(site.wavelengthUm / um - 1) < 0.02)?.[0];
+  if (site.pressureHpa === 0) return 'no refraction (pressure 0 hPa)';
+  return `refraction at ${site.wavelengthUm} µm (${band ? `${band} band; ` : ''}${SOURCE_WORDS[site.wavelengthFrom]}), ${site.humidityPct.toFixed(0)} % humidity, ${site.pressureHpa.toFixed(0)} hPa, ${site.temperatureC.toFixed(1)} °C`;
+}
+
 /** A validated site: every default filled in. */
 export interface Site {
   name: string;
@@ -61,6 +85,8 @@ export interface Site {
   temperatureC: number;
   humidityPct: number;
   wavelengthUm: number;
+  /** Where the wavelength came from: a campaign's band, the site's own setting, or the default (K band). */
+  wavelengthFrom: WavelengthSource;
   lowestAltitudeDeg: number;
   /** Sorted by azimuth, no duplicates; empty for a flat horizon. */
   horizonMask: HorizonPoint[];
@@ -161,6 +187,7 @@ export function validateSite(input: unknown, prefix = 'site'): Site {
     temperatureC,
     humidityPct,
     wavelengthUm,
+    wavelengthFrom: s.wavelengthUm === undefined || s.wavelengthUm === null ? 'default' : 'site',
     lowestAltitudeDeg,
     horizonMask,
     leastSunDistanceDeg,

@@ -140,7 +140,9 @@ export const SiteFields = z.object({
       .number()
       .min(0.3)
       .max(100)
-      .describe('wavelength observed, for refraction, µm (K band 2.2, J 1.25, V 0.55); null: 2.2'),
+      .describe(
+        'wavelength observed, for refraction, µm (V band 0.55, J 1.25, H 1.65, K 2.2); null: 2.2, the K band',
+      ),
   ),
   // Shape only here; ranges and repeated azimuths are the sky engine's validateSite rules (422).
   horizonMask: z
@@ -217,7 +219,7 @@ export const CampaignFields = z.object({
         .max(100)
         .optional()
         .describe(
-          'wavelength the campaign observes at, µm, for refraction (K 2.2, J 1.25, V 0.55); absent: each site’s own',
+          'wavelength the campaign observes at, µm, for refraction (V 0.55, J 1.25, H 1.65, K 2.2); absent: each site’s own; it overrides theirs',
         ),
       densifiedCadenceDays: z
         .number()

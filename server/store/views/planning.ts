@@ -46,11 +46,12 @@ export interface CampaignPlanningInput {
 }
 
 /** A stored site seen in a campaign's band: its refraction at the campaign's wavelength, when set. */
-export function campaignSite(row: typeof sitesTable.$inferSelect, wavelengthUm?: number) {
-  return validateSite(
-    wavelengthUm === undefined ? row : { ...row, wavelengthUm },
-    `sites.${row.id}`,
-  );
+export function campaignSite(row: typeof sitesTable.$inferSelect, wavelengthUm?: number): Site {
+  if (wavelengthUm === undefined) return validateSite(row, `sites.${row.id}`);
+  return {
+    ...validateSite({ ...row, wavelengthUm }, `sites.${row.id}`),
+    wavelengthFrom: 'campaign',
+  };
 }
 
 /** A stored site as the planners read it, under a campaign's limits (none: the site's own). */

@@ -7,6 +7,8 @@ import { Body } from 'astronomy-engine';
 import { describe, expect, it } from 'vitest';
 import { DEG } from '../../../server/science/constants.ts';
 import {
+  cautions,
+  LOWEST_CHECKED_ALTITUDE_DEG,
   nightFrame,
   nightReport,
   nightSpan,
@@ -270,5 +272,22 @@ describe('horizon mask, Moon and Sun avoidance', () => {
     expect(strict.targets[0]!.observableHours).toBeLessThan(loose.targets[0]!.observableHours);
     expect(strict.cautions.some((s) => s.includes('never point'))).toBe(true);
     expect(loose.cautions.some((s) => s.includes('Sun avoidance is set to 0°'))).toBe(true);
+  });
+});
+
+describe('limits that reach below the lowest altitude where refraction is checked', () => {
+  it('carry one plain caution; limits at or above it carry none', () => {
+    // LOWEST_CHECKED_ALTITUDE_DEG: the lowest altitude the refraction is checked against ERFA
+    // (test/science/sky/refraction-band.test.ts); below it only the caution stands.
+    const low = cautions(validateLimits({ lowestAltitudeDeg: 2 }, alpine));
+    const high = cautions(
+      validateLimits({ lowestAltitudeDeg: LOWEST_CHECKED_ALTITUDE_DEG }, alpine),
+    );
+    const byAirmass = cautions(validateLimits({ lowestAltitudeDeg: 0, highestAirmass: 3 }, alpine));
+    const said = (list: string[]) => list.filter((s) => s.includes('refraction is not checked'));
+    expect(said(low)).toHaveLength(1);
+    expect(said(low)[0]).toMatch(/down to 2°, below 5°/);
+    expect(said(high)).toHaveLength(0);
+    expect(said(byAirmass)).toHaveLength(0); // airmass 3 keeps every window above 19°
   });
 });

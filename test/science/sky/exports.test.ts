@@ -52,6 +52,7 @@ it('exports exactly these values', () => {
       'refractionConstants',
       'refractionDeg',
       'refractionModel',
+      'refractionWords',
       'siteRefraction',
       'seasonMap',
       'reviveSite',
@@ -66,6 +67,7 @@ it('exports exactly these values', () => {
       'trueAltitudeDeg',
       'validateLimits',
       'validateSite',
+      'WAVELENGTH_SOURCES',
       'validateTarget',
     ].sort(),
   );
