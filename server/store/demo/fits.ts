@@ -10,7 +10,12 @@
  * `npm run demo-fits`) and only shifted to the anchor at load, which keeps the first start quick.
  * test/store/demo-fits.test.ts re-fits and holds the kept values to the fresh ones.
  */
-import { fitOrbits, type FitRequest } from '../../science/orbit/fit/index.ts';
+import {
+  fitOrbits,
+  type FitRequest,
+  type StarHints,
+  type StartInput,
+} from '../../science/orbit/fit/index.ts';
 import type { CampbellInput, OrbitInput } from '../../science/orbit/index.ts';
 import { toCampbellInput, validateOrbit } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
@@ -55,27 +60,19 @@ export interface KeptFits {
   fits: KeptFit[];
 }
 
-/** The demo's fits: one per star, the headline star with its relativistic terms. */
-function demoFitRequests(stars: FitStar[]): { names: string[]; request: FitRequest }[] {
+/**
+ * The demo's fits: one per star, the headline star with its relativistic terms. A star with a
+ * solution in `from` (its kept fit at this anchor) starts there alone: its measurements differ
+ * from the kept fit's by a few blocks, so the minimum is next to it and the search is not needed.
+ */
+function demoFitRequests(
+  stars: FitStar[],
+  from: Map<string, OrbitInput>,
+): { names: string[]; request: FitRequest }[] {
   const star = (s: FitStar) => ({
     name: s.name,
     measurements: s.measurements.map(toInput),
-    // Search near the entered orbit only (as a stored fit's defaults do, but narrower, for a quick fit).
-    hints: {
-      periodYears: {
-        min: 0.97 * s.orbit.elements.periodYears!,
-        max: 1.03 * s.orbit.elements.periodYears!,
-      },
-      eccentricity: {
-        min: Math.max(0, s.orbit.elements.eccentricity! - 0.05),
-        max: Math.min(0.97, s.orbit.elements.eccentricity! + 0.05),
-      },
-      start: {
-        elements: toCampbellInput(validateOrbit(s.orbit)),
-        ...(s.orbit.distancePc ? { distancePc: s.orbit.distancePc } : {}),
-        systemicVelocityKmS: s.orbit.systemicVelocityKmS ?? 0,
-      },
-    },
+    hints: from.has(s.name) ? startAt(from.get(s.name)!) : searchNear(s.orbit),
   });
   return stars.map((s) => {
     const relativity = s.orbit.relativity ?? {};
@@ -93,9 +90,44 @@ function demoFitRequests(stars: FitStar[]): { names: string[]; request: FitReque
   });
 }
 
-/** The demo's fits run now, kept relative to the anchor (what `npm run demo-fits` writes). */
-export function fitDemo(stars: FitStar[], anchor: DemoAnchor): KeptFits {
-  const fits = demoFitRequests(stars).map(({ request }): KeptFit => {
+/** An orbit as a fit's start. */
+function startOf(orbit: OrbitInput): StartInput {
+  return {
+    elements: toCampbellInput(validateOrbit(orbit)),
+    ...(orbit.distancePc ? { distancePc: orbit.distancePc } : {}),
+    systemicVelocityKmS: orbit.systemicVelocityKmS ?? 0,
+    ...(orbit.massRatio !== undefined ? { massRatio: orbit.massRatio } : {}),
+  };
+}
+
+/** Search near the entered orbit only (as a stored fit's defaults do, but narrower, for a quick fit). */
+function searchNear(orbit: OrbitInput): StarHints {
+  const { periodYears, eccentricity } = orbit.elements as CampbellInput;
+  return {
+    periodYears: { min: 0.97 * periodYears, max: 1.03 * periodYears },
+    eccentricity: {
+      min: Math.max(0, eccentricity - 0.05),
+      max: Math.min(0.97, eccentricity + 0.05),
+    },
+    start: startOf(orbit),
+  };
+}
+
+/** One LM from a kept solution, no search. */
+function startAt(orbit: OrbitInput): StarHints {
+  return { start: startOf(orbit), startOnly: true };
+}
+
+/**
+ * The demo's fits run now, kept relative to the anchor (what `npm run demo-fits` writes); stars
+ * with a solution in `from` start from it alone (demoFitRequests).
+ */
+export function fitDemo(
+  stars: FitStar[],
+  anchor: DemoAnchor,
+  from = new Map<string, OrbitInput>(),
+): KeptFits {
+  const fits = demoFitRequests(stars, from).map(({ request }): KeptFit => {
     const result = fitOrbits(request);
     return {
       chi2: result.chi2,
@@ -163,7 +195,7 @@ function keptSolutions(kept: KeptFits, anchor: DemoAnchor, origin: string) {
 }
 
 const KEPT_ORIGIN = 'demo fit, kept relative to the anchor day (npm run demo-fits)';
-const AT_LOAD = 'demo fit at load';
+const AT_LOAD = 'demo fit at load, started from the kept fit';
 
 /**
  * The solutions to store as current, fit by fit: the kept one shifted to the anchor where its stars'
@@ -185,8 +217,14 @@ export function demoSolutions(stars: FitStar[], anchor: DemoAnchor, fitNow: bool
   );
   const keptStars = new Set(still.flatMap((f) => f.stars.map((s) => s.name)));
   const fresh = stars.filter((s) => !keptStars.has(s.name));
+  // A star whose measurements moved starts from its kept fit at this anchor (fitNow: searches).
+  const starts = new Map(
+    keptSolutions({ anchorDay: KEPT_FITS.anchorDay, fits }, anchor, KEPT_ORIGIN).flatMap((f) =>
+      f.solutions.map((s) => [s.name, s.orbit] as const),
+    ),
+  );
   return [
     ...keptSolutions({ anchorDay: KEPT_FITS.anchorDay, fits: still }, anchor, KEPT_ORIGIN),
-    ...(fresh.length > 0 ? keptSolutions(fitDemo(fresh, anchor), anchor, AT_LOAD) : []),
+    ...(fresh.length > 0 ? keptSolutions(fitDemo(fresh, anchor, starts), anchor, AT_LOAD) : []),
   ];
 }

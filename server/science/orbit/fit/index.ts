@@ -6,6 +6,7 @@ export type {
   FitRequest,
   StarInput,
   StarHints,
+  StartInput,
   MeasurementInput,
   OffsetInput,
   SeparationInput,

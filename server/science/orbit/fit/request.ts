@@ -200,6 +200,7 @@ function checkStar(
             ...(st.systemicVelocityKmS !== undefined
               ? { systemicVelocityKmS: st.systemicVelocityKmS }
               : {}),
+            ...(st.massRatio !== undefined ? { massRatio: st.massRatio } : {}),
           },
           `${p}.hints.start`,
         );
@@ -212,7 +213,7 @@ function checkStar(
   };
 }
 
-/** The ranges a star's grid search is held to, each checked against its physical bounds. */
+/** The ranges a star's grid search is held to, each checked against its physical bounds, and whether it runs. */
 function starHints(input: StarInput['hints'], p: string): StarHints {
   const hints: StarHints = {};
   if (input === undefined) return hints;
@@ -222,6 +223,11 @@ function starHints(input: StarInput['hints'], p: string): StarHints {
     hints.periodYears = range(`${p}.hints.periodYears`, input.periodYears, 1e-6, 1e6);
   if (input.eccentricity !== undefined)
     hints.eccentricity = range(`${p}.hints.eccentricity`, input.eccentricity, 0, 0.99);
+  if (input.startOnly !== undefined) {
+    hints.startOnly = boolOf(`${p}.hints.startOnly`, input.startOnly);
+    if (hints.startOnly && input.start === undefined)
+      throw new InputError(`${p}.hints.startOnly`, true, 'needs hints.start to start from');
+  }
   return hints;
 }
 

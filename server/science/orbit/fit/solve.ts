@@ -388,6 +388,15 @@ export function solveStar(
   refusePhotocentre(b, star);
   refuseTooFew(b);
   const { periodDays, eccentricity } = searchRanges(b, star);
+  // Data known to lie near the given start: one LM from it, no search.
+  if (star.hints.startOnly && star.start)
+    return finish(
+      b,
+      lmOn(b, startFromOrbit(b, star.start), req, mode),
+      [periodDays],
+      req,
+      withCovariance,
+    );
   // Many epochs: the search and the starts' LM run on an even subset, and only the best minimum
   // is refined on every measurement (the basin is the same; the grid's cost stops growing with n).
   const coarse =
@@ -416,16 +425,39 @@ export function solveStar(
     if (!best || r.lm.cost < best.lm.cost) best = r;
   }
   if (coarse) best = lmOn(b, Float64Array.from(best!.theta), req, mode);
-  refuseSinglePhase(b.L, best!.theta);
-  best = nearDataPassages(best!);
+  return finish(b, best!, [periodDays], req, withCovariance);
+}
+
+/** A single star's minimum, checked and dressed: passages near the data, and the covariance. */
+function finish(
+  b: Built,
+  found: ReturnType<typeof lmOn>,
+  periodRanges: RangeHint[],
+  req: CheckedRequest,
+  withCovariance: boolean,
+): Solution {
+  refuseSinglePhase(b.L, found.theta);
+  const best = nearDataPassages(found);
   return {
     L: b.L,
-    problem: best!.problem,
-    theta: best!.theta,
-    lm: best!.lm,
-    periodRanges: [periodDays],
-    covariance: withCovariance ? covarianceOf(best!.problem, best!.lm, req) : [],
+    problem: best.problem,
+    theta: best.theta,
+    lm: best.lm,
+    periodRanges,
+    covariance: withCovariance ? covarianceOf(best.problem, best.lm, req) : [],
   };
+}
+
+/** The start vector of a single-star layout at a given orbit (`hints.start`): what a grid node would give. */
+function startFromOrbit(b: Built, o: Orbit): Float64Array {
+  const { L } = b;
+  const t = thetaFromOrbit(L, o);
+  const s = L.stars[0]!.slots;
+  if (L.sys.d >= 0 && o.distancePc === null)
+    t[L.sys.d] = b.priors.find((p) => p.index === L.sys.d)?.mean ?? 1000;
+  if (s.q >= 0) t[s.q] = o.massRatio ?? 1;
+  if (s.beta >= 0) t[s.beta] = o.lightFraction ?? photocentreStart(L, t);
+  return t;
 }
 
 /**

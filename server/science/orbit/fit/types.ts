@@ -12,6 +12,8 @@ export interface StartInput {
   elements: CampbellInput;
   distancePc?: number;
   systemicVelocityKmS?: number;
+  /** q = M₂/M₁, for a fit with velocities of a body about the barycentre. */
+  massRatio?: number;
 }
 
 /** An astrometric offset of the star from the primary's reference point. */
@@ -81,6 +83,12 @@ export interface StarHints {
   eccentricity?: RangeHint;
   /** An orbit to start from as well as the search's best nodes (e.g. the current solution); the lower χ² wins. */
   start?: StartInput;
+  /**
+   * Start from `start` alone, without the search: for measurements known to lie close to it (a
+   * refit after a few measurements changed). The answer is the minimum LM reaches from there, with
+   * its covariance; a start far from the best minimum can end in another one.
+   */
+  startOnly?: boolean;
 }
 
 export interface StarInput {
