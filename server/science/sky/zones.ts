@@ -72,6 +72,9 @@ export function nearestZones(typed: string, count = 3): string[] {
   return scored.slice(0, count).map((s) => s.z);
 }
 
+/** Zone names already found valid: luxon's check builds an Intl formatter each time, and sites are checked often. */
+const knownZones = new Set<string>();
+
 /**
  * Check an IANA time zone name.
  * @throws InputError naming the nearest valid names when the zone is unknown
@@ -84,7 +87,11 @@ export function checkTimeZone(value: unknown, field = 'timeZone'): string {
       'must be an IANA time zone name such as "America/Santiago" or "UTC"',
     );
   }
-  if (IANAZone.isValidZone(value)) return value;
+  if (knownZones.has(value)) return value;
+  if (IANAZone.isValidZone(value)) {
+    knownZones.add(value);
+    return value;
+  }
   const near = nearestZones(value);
   throw new InputError(
     field,
@@ -114,13 +121,18 @@ const gap = (a: number, b: number) => {
 
 /** The zone's UTC offsets in January and July of 2000–2030 (standard and summer time), hours. */
 function zoneOffsetsHours(zone: string): number[] {
+  const known = offsetsByZone.get(zone);
+  if (known) return known;
   const z = IANAZone.create(zone);
   const out = new Set<number>();
   for (const year of [2000, 2015, 2030]) {
     for (const month of [0, 6]) out.add(z.offset(Date.UTC(year, month, 15)) / 60);
   }
+  offsetsByZone.set(zone, [...out]);
   return [...out];
 }
+/** Each zone's offsets, computed once: the rules of past and fixed dates do not change while we run. */
+const offsetsByZone = new Map<string, number[]>();
 
 /**
  * Whether a longitude (degrees east) contradicts a zone by more than

@@ -10,23 +10,17 @@ import type { BlockKind } from '../../../descriptors/measurement-kinds.ts';
 import { SiderealTime } from 'astronomy-engine';
 import { DateTime } from 'luxon';
 import { predict, validateOrbit, type OrbitInput } from '../../science/orbit/index.ts';
-import {
-  TWILIGHT_SUN_ALTITUDE_DEG,
-  darknessExact,
-  nightSpan,
-  validateLimits,
-  validateSite,
-  validateTarget,
-} from '../../science/sky/index.ts';
+import { validateLimits, validateSite, validateTarget } from '../../science/sky/index.ts';
 import { nightMoments } from '../../science/plan/index.ts';
 import { addDays } from '../../science/sky/night.ts';
-import { jdToUnixMs, unixMsToJd } from '../../science/time/index.ts';
+import { unixMsToJd } from '../../science/time/index.ts';
 import type { Actor } from '../audit.ts';
 import type { DbOrTx } from '../database.ts';
 import type { StoreContext } from '../context.ts';
 import type { SiteRow } from '../repos/sites.ts';
 import type { MeasurementRow } from '../repos/measurements.ts';
 import { replaceClearPriorIn } from '../repos/clear-priors.ts';
+import { nightTimes } from '../repos/night-times.ts';
 import { demoSolutions } from './fits.ts';
 import {
   DEMO_DAYS,
@@ -75,13 +69,11 @@ function runStart(site: SiteRow, date: string, raDeg: number, minutes: number): 
   const lstHours = SiderealTime(midnight.toJSDate()) + site.longitudeDeg / 15;
   const ha = (((((lstHours - raDeg / 15) % 24) + 36) % 24) - 12) * 0.99727; // hours, sidereal to solar
   let start = midnight.minus({ hours: ha, minutes: minutes / 2 });
-  const sky = validateSite(site);
-  const dark = darknessExact(sky, nightSpan(sky, date), TWILIGHT_SUN_ALTITUDE_DEG.astronomical)[0];
+  // The store's own night times (remembered), which its block rules then read again.
+  const dark = nightTimes(site, date, 'astronomical').dark[0];
   if (dark) {
-    const earliest = DateTime.fromMillis(jdToUnixMs(dark.startJd) + 5 * 60_000, {
-      zone: site.timeZone,
-    });
-    const latest = DateTime.fromMillis(jdToUnixMs(dark.endJd) - (minutes + 5) * 60_000, {
+    const earliest = DateTime.fromMillis(dark.startMs + 5 * 60_000, { zone: site.timeZone });
+    const latest = DateTime.fromMillis(dark.endMs - (minutes + 5) * 60_000, {
       zone: site.timeZone,
     });
     if (start > latest) start = latest;
