@@ -164,6 +164,9 @@ describe('published double-lined visual binary', () => {
     );
     expect(Math.abs(mA - 2.5687)).toBeLessThan(0.0074);
     expect(Math.abs(mB - 2.4828)).toBeLessThan(0.0067);
+    // The parallax the published orbit implies against the trigonometric one: 76.20 ± 0.46 mas
+    // (Hipparcos, new reduction: van Leeuwen, A&A 474, 653, 2007; from memory), within its 1σ.
+    expect(Math.abs(1000 / quantity(res, 'distancePc').value - 76.2)).toBeLessThan(0.46);
     expect(quantity(res, 'primarySemiAmplitudeKmS').value).toBeCloseTo(kA, 3);
     expect(quantity(res, 'secondarySemiAmplitudeKmS').value).toBeCloseTo(kB, 3);
   });
