@@ -15,8 +15,27 @@ function usage(): string {
   return `usage: epochwright <command> [options]\n\ncommands:\n${lines.join('\n')}\n\n'epochwright <command> --help' shows a command's options.\n`;
 }
 
+/**
+ * `--dec -28:51:06` as `--dec=-28:51:06`: an option's value that starts with a minus and a digit
+ * (a southern declination, a western longitude, a negative proper motion) is that option's value,
+ * not an unknown option (node's reader would refuse it as ambiguous).
+ */
+export function joinNegativeValues(argv: readonly string[]): string[] {
+  const out: string[] = [];
+  for (let k = 0; k < argv.length; k++) {
+    const a = argv[k]!;
+    const next = argv[k + 1];
+    if (/^--[a-z][a-z-]*$/.test(a) && next !== undefined && /^[-−][\d.]/.test(next)) {
+      out.push(`${a}=${next}`);
+      k++;
+    } else out.push(a);
+  }
+  return out;
+}
+
 export async function main(argv: string[]): Promise<number> {
-  const [name, ...rest] = argv;
+  const [name, ...given] = argv;
+  const rest = joinNegativeValues(given);
   if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
     process.stdout.write(usage());
     return name === undefined ? 2 : 0;

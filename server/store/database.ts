@@ -95,7 +95,8 @@ export function displayUrl(url: string): string {
   return url.replace(/\/\/[^@/]*@/, '//…@');
 }
 
-function filePath(url: string): string | null {
+/** The path of a `file:` url (relative ones from the working folder); null for a database server. */
+export function filePath(url: string): string | null {
   if (!url.startsWith('file:')) return null;
   const p = url.slice('file:'.length).replace(/^\/\/(?=\/)/, '');
   return isAbsolute(p) ? p : resolve(process.cwd(), p);
@@ -122,7 +123,7 @@ export async function openDatabase(options: OpenOptions = {}): Promise<Database>
     throw new InputError(
       'database',
       url,
-      `names no database (from ${source}): the server creates its database on its first start; point DATABASE_URL or EPOCHWRIGHT_DATA_DIR (or --database) at the server's, or start the server once`,
+      `names no database (from ${source}): the server creates its database on its first start (or run 'epochwright create-database'); point DATABASE_URL or EPOCHWRIGHT_DATA_DIR (or --database) at the server's, or start the server once`,
     );
   }
   if (path) createPrivateFile(path);

@@ -6,6 +6,7 @@
 export { createStore, type Store } from './store.ts';
 export {
   displayUrl,
+  filePath,
   locateDatabase,
   openDatabase,
   resolveDatabaseUrl,

@@ -18,8 +18,26 @@ import { sitePrecisionCommand } from './site-precision.ts';
 import { siteStatisticsCommand } from './site-statistics.ts';
 import { replanCommand } from './replan.ts';
 import { timeRequestCommand } from './time-request.ts';
+import { allocateCommand } from './allocate.ts';
+import { createDatabaseCommand } from './create-database.ts';
+import {
+  blockCommand,
+  campaignCommand,
+  reportCommand,
+  siteCommand,
+  systemCommand,
+  targetCommand,
+} from './records.ts';
 
 export const commands: Record<string, Command> = {
+  'create-database': createDatabaseCommand,
+  system: systemCommand,
+  target: targetCommand,
+  site: siteCommand,
+  campaign: campaignCommand,
+  allocate: allocateCommand,
+  block: blockCommand,
+  report: reportCommand,
   ephemeris: ephemerisCommand,
   events: eventsCommand,
   night: nightCommand,

@@ -5,7 +5,13 @@
 import { copyFileSync, existsSync, renameSync, rmSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
-import { createStore, displayUrl, locateDatabase, openDatabase } from '../../store/index.ts';
+import {
+  createStore,
+  displayUrl,
+  filePath,
+  locateDatabase,
+  openDatabase,
+} from '../../store/index.ts';
 import { readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { DATABASE_HELP, databaseOption } from './store-option.ts';
@@ -24,13 +30,14 @@ ${DATABASE_HELP}
 `;
 
 function localPath(url: string): string {
-  if (!url.startsWith('file:'))
+  const path = filePath(url);
+  if (path === null)
     throw new InputError(
       '--database',
       url,
       'must be a local file to restore a backup into; a libSQL server is restored with its own tools',
     );
-  return url.slice('file:'.length).replace(/^\/\/(?=\/)/, '');
+  return path;
 }
 
 export const restoreCommand: Command = {

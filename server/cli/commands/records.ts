@@ -1,0 +1,743 @@
+/**
+ * The record commands: `system`, `target`, `site`, `campaign`, `night`s in bulk aside (allocate.ts),
+ * `block` and `report`, each with `add`, `list`, `show` and (for records a log changes) `edit`.
+ * One description per record (its options and the fields they fill, its table) and one runner
+ * for all of them, through storeAction: the store's own checks apply (a site's longitude against
+ * its zone, a misspelled zone's nearest names, a block's night and overlaps), and a refused
+ * value is named by the option the user typed, with nothing written.
+ */
+import { parseArgs } from 'node:util';
+import { InputError, refuseDecimalComma } from '../../science/errors.ts';
+import type { Store } from '../../store/index.ts';
+import { optionalId, outputFormat, positiveId, readJsonArg } from '../args.ts';
+import { UsageError, type Command } from '../io.ts';
+import { render, type Column } from '../output.ts';
+import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
+
+type Row = Record<string, unknown>;
+
+/** How an option's text becomes a field's value. */
+type Kind = 'text' | 'number' | 'id' | 'flag' | 'ids' | 'list' | 'outcomes';
+
+interface FieldOption {
+  option: string;
+  /** The field it fills, dotted for nested ones (`goals.cadenceDays`). */
+  field: string;
+  kind: Kind;
+  help: string;
+}
+
+/** The repositories the record commands reach, by name. */
+type RepoName = 'systems' | 'targets' | 'sites' | 'campaigns' | 'blocks' | 'nightReports';
+
+interface RecordSpec {
+  /** Singular, as typed: `site`. */
+  record: string;
+  repo: RepoName;
+  /** The HTTP collection: `/sites`. */
+  path: string;
+  summary: string;
+  about: string;
+  fields: FieldOption[];
+  /** Options that narrow `list` (each a field of the list's filter and a query parameter). */
+  filters?: { option: string; field: string }[];
+  /** The record is versioned (blocks, reports): `edit` sends the version it read. */
+  editable?: boolean;
+  /** What a stored row shows with (members of a campaign, outcomes of a report). */
+  view?: (store: Store, row: Row) => Promise<Row>;
+  columns: Column<Row>[];
+  /** Example lines for the help. */
+  examples: string[];
+}
+
+const str = (k: string) => (r: Row) => (r[k] === null || r[k] === undefined ? '' : String(r[k]));
+const num = (k: string) => (r: Row) => (typeof r[k] === 'number' ? (r[k] as number) : null);
+
+/** A number typed at the command line: a decimal comma is refused with the fix, never dropped. */
+function numberOf(option: string, text: string): number {
+  refuseDecimalComma(text.trim(), `--${option}`, text);
+  const x = Number(text);
+  if (text.trim() === '' || !Number.isFinite(x))
+    throw new InputError(`--${option}`, text, 'must be a number');
+  return x;
+}
+
+/** `--outcome 40=obtained:35`: block 40 obtained, 35 minutes of exposure. */
+function outcomeOf(text: string) {
+  const m = /^\s*(\d+)\s*=\s*([a-z]+)\s*(?::\s*([^:]+))?$/.exec(text);
+  if (!m)
+    throw new InputError(
+      '--outcome',
+      text,
+      'must be <block id>=<status>[:<exposure minutes>], e.g. 40=obtained or 41=partial:25',
+    );
+  return {
+    blockId: positiveId('outcome', m[1]),
+    status: m[2],
+    ...(m[3] === undefined ? {} : { exposureMinutes: numberOf('outcome', m[3]) }),
+  };
+}
+
+function fieldValue(f: FieldOption, text: string | boolean | string[]): unknown {
+  if (f.kind === 'flag') return text === true;
+  if (f.kind === 'outcomes') return (text as string[]).map(outcomeOf);
+  const t = String(text);
+  switch (f.kind) {
+    case 'number':
+      return numberOf(f.option, t);
+    case 'id':
+      return positiveId(f.option, t);
+    case 'ids':
+      return t
+        .split(',')
+        .filter((s) => s.trim() !== '')
+        .map((s) => positiveId(f.option, s.trim()));
+    case 'list':
+      return t
+        .split(',')
+        .map((s) => s.trim())
+        .filter(Boolean);
+    default:
+      return t;
+  }
+}
+
+function setPath(target: Row, path: string, value: unknown): void {
+  const keys = path.split('.');
+  let o = target;
+  for (const k of keys.slice(0, -1)) {
+    if (typeof o[k] !== 'object' || o[k] === null) o[k] = {};
+    o = o[k] as Row;
+  }
+  o[keys.at(-1)!] = value;
+}
+
+/** The store's field, renamed after the option that filled it (the longest dotted prefix that has one). */
+function asOption(spec: RecordSpec, err: unknown): never {
+  if (!(err instanceof InputError)) throw err;
+  const parts = err.field.split('.');
+  for (let n = parts.length; n > 0; n--) {
+    const f = spec.fields.find((x) => x.field === parts.slice(0, n).join('.'));
+    if (f) {
+      const rest = parts.slice(n).join('.');
+      // A rule that names another field (confirm with longitudeZoneConfirmed: true) names its
+      // option; only code names (camelCase) are looked for, never words such as "name".
+      let rule = err.rule;
+      for (const o of spec.fields)
+        if (/^[a-z]+[A-Z][A-Za-z]*$/.test(o.field))
+          rule = rule.replaceAll(new RegExp(`\\b${o.field}\\b(: true)?`, 'g'), `--${o.option}`);
+      throw new InputError(`--${f.option}${rest ? ` ${rest}` : ''}`, err.value, rule);
+    }
+  }
+  throw err;
+}
+
+function helpOf(spec: RecordSpec): string {
+  const width = Math.max(
+    ...spec.fields.map((f) => f.option.length + 2 + (f.kind === 'flag' ? 0 : 4)),
+  );
+  const line = (f: FieldOption) =>
+    `  ${`--${f.option}${f.kind === 'flag' ? '' : ' <x>'}`.padEnd(Math.max(width, 21))}  ${f.help}`;
+  const id = `--${spec.record}-id <id>`;
+  return `usage: epochwright ${spec.record} add [options] [--from <json|file>]
+       epochwright ${spec.record} list${spec.filters?.length ? ` [${spec.filters.map((f) => `--${f.option} <id>`).join('] [')}]` : ''} [--json | --csv]
+       epochwright ${spec.record} show ${id} [--json]${spec.editable ? `\n       epochwright ${spec.record} edit ${id} [options]` : ''}
+
+${spec.about}
+
+add stores one ${spec.record}, all of it or nothing: a refused value is named with its option and
+rule, and nothing is written. --from gives the whole record as JSON (fields as in the HTTP API);
+options given beside it replace its fields.${spec.editable ? `\nedit changes the options given and keeps the rest (the version read is sent along, so a change\nmade meanwhile by someone else is refused rather than overwritten).` : ''}
+
+fields:
+${spec.fields.map(line).join('\n')}
+
+options:
+${STORE_HELP}
+  --json | --csv         machine-readable output instead of a table
+
+examples:
+${spec.examples.map((e) => `  ${e}`).join('\n')}
+`;
+}
+
+/** One record's command. */
+export function recordCommand(spec: RecordSpec): Command {
+  const idOption = `${spec.record}-id`;
+  const options = {
+    ...storeOptions,
+    [idOption]: { type: 'string' },
+    from: { type: 'string' },
+    json: { type: 'boolean' },
+    csv: { type: 'boolean' },
+    ...Object.fromEntries(
+      spec.fields.map((f) => [
+        f.option,
+        f.kind === 'flag'
+          ? { type: 'boolean' }
+          : f.kind === 'outcomes'
+            ? { type: 'string', multiple: true }
+            : { type: 'string' },
+      ]),
+    ),
+    ...Object.fromEntries((spec.filters ?? []).map((f) => [f.option, { type: 'string' }])),
+  } as const;
+  const repo = (store: Store) =>
+    store[spec.repo] as unknown as {
+      create(actor: unknown, input: unknown): Promise<Row>;
+      get(id: number): Promise<Row>;
+      list(filter: Row, page: { limit: number }): Promise<{ items: Row[] }>;
+      update(actor: unknown, id: number, patch: Row, version?: number): Promise<Row>;
+    };
+  const view = (store: Store, row: Row) => (spec.view ? spec.view(store, row) : row);
+  return {
+    summary: spec.summary,
+    help: helpOf(spec),
+    async run(argv) {
+      const { values, positionals } = parseArgs({
+        args: argv,
+        options,
+        strict: true,
+        allowPositionals: true,
+      });
+      const v = values as Record<string, string | boolean | string[] | undefined>;
+      const [action, ...extra] = positionals;
+      if (extra.length) throw new UsageError(`unexpected ${JSON.stringify(extra[0])}`);
+      const format = outputFormat(values);
+      const fieldsGiven = (): Row => {
+        const body: Row = {};
+        for (const f of spec.fields)
+          if (v[f.option] !== undefined) setPath(body, f.field, fieldValue(f, v[f.option]!));
+        return body;
+      };
+      const show = (rows: Row[]) =>
+        render(format, rows, spec.columns, rows.length === 1 && action !== 'list' ? rows[0] : rows);
+      switch (action) {
+        case 'add': {
+          const from = v.from === undefined ? {} : readJsonArg('from', v.from as string);
+          if (typeof from !== 'object' || from === null || Array.isArray(from))
+            throw new UsageError('--from must be a JSON object (one record)');
+          const body = merge(from as Row, fieldsGiven());
+          const row = await storeAction(values, {
+            local: (store, actor) =>
+              repo(store)
+                .create(actor, body)
+                .then((r) => view(store, r)),
+            remote: { method: 'POST', path: spec.path, body },
+            writes: true,
+          }).catch((e: unknown) => asOption(spec, e));
+          return format === 'table'
+            ? `stored ${spec.record} ${row.id}${row.name ? ` ${JSON.stringify(row.name)}` : ''}\n${show([row])}`
+            : show([row]);
+        }
+        case 'edit': {
+          if (!spec.editable) throw new UsageError(`${spec.record}: say add, list or show`);
+          const id = positiveId(idOption, v[idOption] as string | undefined);
+          const patch = fieldsGiven();
+          if (Object.keys(patch).length === 0)
+            throw new UsageError(`${spec.record} edit: give at least one field to change`);
+          const row = await storeAction(values, {
+            local: async (store, actor) => {
+              const read = await repo(store).get(id);
+              return view(
+                store,
+                await repo(store).update(actor, id, patch, read.version as number),
+              );
+            },
+            remote: async (api) => {
+              const read = await api<Row>({ method: 'GET', path: `${spec.path}/${id}` });
+              return api<Row>({
+                method: 'PATCH',
+                path: `${spec.path}/${id}`,
+                body: { ...patch, version: read.version },
+              });
+            },
+            writes: true,
+          }).catch((e: unknown) => asOption(spec, e));
+          return format === 'table'
+            ? `changed ${spec.record} ${row.id} (now version ${row.version})\n${show([row])}`
+            : show([row]);
+        }
+        case 'list': {
+          const filter: Row = {};
+          for (const f of spec.filters ?? []) {
+            const id = optionalId(f.option, v[f.option] as string | undefined);
+            if (id !== undefined) filter[f.field] = id;
+          }
+          const rows = await storeAction(values, {
+            local: async (store) =>
+              Promise.all(
+                (await repo(store).list(filter, { limit: 500 })).items.map((r) => view(store, r)),
+              ),
+            remote: async (api) =>
+              (
+                await api<{ items: Row[] }>({
+                  method: 'GET',
+                  path: spec.path,
+                  query: { ...(filter as Record<string, number>), limit: 500 },
+                })
+              ).items,
+          });
+          if (format === 'table' && rows.length === 0)
+            return `no ${spec.record} stored yet: add one with 'epochwright ${spec.record} add' (see --help)\n`;
+          return show(rows);
+        }
+        case 'show': {
+          const id = positiveId(idOption, v[idOption] as string | undefined);
+          const row = await storeAction(values, {
+            local: async (store) => view(store, await repo(store).get(id)),
+            remote: { method: 'GET', path: `${spec.path}/${id}` },
+          });
+          return format === 'table' ? `${JSON.stringify(row, null, 2)}\n` : show([row]);
+        }
+        default:
+          throw new UsageError(
+            `${spec.record}: say add, list, show${spec.editable ? ' or edit' : ''}${action ? ` (not ${JSON.stringify(action)})` : ''}`,
+          );
+      }
+    },
+  };
+}
+
+/** `--from`'s record with the options' fields over it (nested objects merged, not replaced). */
+function merge(base: Row, over: Row): Row {
+  const out: Row = { ...base };
+  for (const [k, x] of Object.entries(over)) {
+    const b = out[k];
+    out[k] =
+      typeof x === 'object' &&
+      x !== null &&
+      !Array.isArray(x) &&
+      typeof b === 'object' &&
+      b &&
+      !Array.isArray(b)
+        ? merge(b as Row, x as Row)
+        : x;
+  }
+  return out;
+}
+
+const notes: FieldOption = { option: 'notes', field: 'notes', kind: 'text', help: 'free text' };
+
+export const systemCommand = recordCommand({
+  record: 'system',
+  repo: 'systems',
+  path: '/systems',
+  summary: 'add, list and show systems (a primary at its ICRS position)',
+  about:
+    'A system is one primary (a compact object or a primary star) at its ICRS position, with\nits distance and mass estimates; its stars are targets (epochwright target add).',
+  fields: [
+    { option: 'name', field: 'name', kind: 'text', help: 'the system’s name' },
+    {
+      option: 'ra',
+      field: 'raDeg',
+      kind: 'text',
+      help: 'ICRS right ascension: 250.3 (degrees), 16.69h, 16:41:12.5 (hours)',
+    },
+    {
+      option: 'dec',
+      field: 'decDeg',
+      kind: 'text',
+      help: 'ICRS declination: -26.69, -26:41:12, -26°41′12″',
+    },
+    {
+      option: 'position-epoch',
+      field: 'positionEpoch',
+      kind: 'text',
+      help: 'epoch of the position (default J2000.0)',
+    },
+    {
+      option: 'pm-ra',
+      field: 'pmRaMasYr',
+      kind: 'number',
+      help: 'proper motion μα* = μα·cos δ, mas/yr (default 0)',
+    },
+    {
+      option: 'pm-dec',
+      field: 'pmDecMasYr',
+      kind: 'number',
+      help: 'proper motion μδ, mas/yr (default 0)',
+    },
+    { option: 'distance-pc', field: 'distancePc', kind: 'number', help: 'distance, parsec' },
+    {
+      option: 'mass',
+      field: 'massSolar',
+      kind: 'number',
+      help: 'mass estimate of the primary, solar masses',
+    },
+    notes,
+  ],
+  columns: [
+    { header: 'id', value: num('id') },
+    { header: 'name', value: str('name') },
+    { header: 'ra_deg', value: num('raDeg'), digits: 6 },
+    { header: 'dec_deg', value: num('decDeg'), digits: 6 },
+    { header: 'distance_pc', value: num('distancePc') },
+    { header: 'mass_solar', value: num('massSolar') },
+  ],
+  examples: [
+    "epochwright system add --name 'Hollow Lamp' --ra 17:20:31.4 --dec -28:51:06 --distance-pc 8100 --mass 3.9e6",
+  ],
+});
+
+export const targetCommand = recordCommand({
+  record: 'target',
+  repo: 'targets',
+  path: '/targets',
+  summary: 'add, list and show targets (stars of a system)',
+  about:
+    'A target is a star orbiting a system’s primary. Its orbit solutions come by\n`epochwright import --kind orbits` or a fit (`epochwright fit --target-id <id> --accept`).',
+  fields: [
+    { option: 'system-id', field: 'systemId', kind: 'id', help: 'the system it orbits' },
+    { option: 'name', field: 'name', kind: 'text', help: 'the star’s name' },
+    {
+      option: 'magnitude',
+      field: 'magnitude',
+      kind: 'number',
+      help: 'apparent magnitude in --band',
+    },
+    {
+      option: 'band',
+      field: 'band',
+      kind: 'text',
+      help: 'photometric band of the magnitude (K, H, …)',
+    },
+    notes,
+  ],
+  filters: [{ option: 'system-id', field: 'systemId' }],
+  columns: [
+    { header: 'id', value: num('id') },
+    { header: 'system_id', value: num('systemId') },
+    { header: 'name', value: str('name') },
+    { header: 'magnitude', value: num('magnitude') },
+    { header: 'band', value: str('band') },
+  ],
+  examples: ["epochwright target add --system-id 1 --name 'Lamp-7' --magnitude 14.1 --band K"],
+});
+
+export const siteCommand = recordCommand({
+  record: 'site',
+  repo: 'sites',
+  path: '/sites',
+  summary: 'add, list and show observing sites (a longitude that contradicts the zone is refused)',
+  about:
+    'An observing site: where it is, its IANA time zone and its pointing limits. A longitude that\ndisagrees with the zone by more than 3 hours (a flipped sign, most often) is refused with the\nlikely correction; give --longitude-zone-confirmed to keep it (a station on another place’s\nclock). A misspelled zone is refused with the nearest valid names. Its precision model:\n`epochwright site-precision`.',
+  fields: [
+    { option: 'name', field: 'name', kind: 'text', help: 'the site’s name' },
+    {
+      option: 'latitude',
+      field: 'latitudeDeg',
+      kind: 'text',
+      help: 'geodetic latitude, north positive: -24.6, -24:37:38',
+    },
+    {
+      option: 'longitude',
+      field: 'longitudeDeg',
+      kind: 'text',
+      help: 'longitude, east positive: -70.4, -70:24:10',
+    },
+    {
+      option: 'elevation',
+      field: 'elevationM',
+      kind: 'number',
+      help: 'elevation above the ellipsoid, metres',
+    },
+    {
+      option: 'time-zone',
+      field: 'timeZone',
+      kind: 'text',
+      help: 'IANA time zone, e.g. America/Santiago',
+    },
+    {
+      option: 'longitude-zone-confirmed',
+      field: 'longitudeZoneConfirmed',
+      kind: 'flag',
+      help: 'the longitude and the zone disagree, and that is meant',
+    },
+    {
+      option: 'lowest-altitude',
+      field: 'lowestAltitudeDeg',
+      kind: 'number',
+      help: 'lowest usable altitude, degrees (default 30)',
+    },
+    {
+      option: 'least-sun-distance',
+      field: 'leastSunDistanceDeg',
+      kind: 'number',
+      help: 'closest allowed angle to the Sun, degrees (default 45)',
+    },
+    {
+      option: 'pressure',
+      field: 'pressureHpa',
+      kind: 'number',
+      help: 'typical pressure for refraction, hPa',
+    },
+    {
+      option: 'temperature',
+      field: 'temperatureC',
+      kind: 'number',
+      help: 'typical night temperature, °C',
+    },
+    {
+      option: 'humidity',
+      field: 'humidityPct',
+      kind: 'number',
+      help: 'typical relative humidity, % (default 50)',
+    },
+    {
+      option: 'wavelength',
+      field: 'wavelengthUm',
+      kind: 'number',
+      help: 'wavelength observed, µm (default 2.2)',
+    },
+    {
+      option: 'laser-guide-star',
+      field: 'laserGuideStar',
+      kind: 'flag',
+      help: 'the site runs a laser guide star',
+    },
+    notes,
+  ],
+  columns: [
+    { header: 'id', value: num('id') },
+    { header: 'name', value: str('name') },
+    { header: 'latitude_deg', value: num('latitudeDeg'), digits: 4 },
+    { header: 'longitude_deg', value: num('longitudeDeg'), digits: 4 },
+    { header: 'elevation_m', value: num('elevationM'), digits: 0 },
+    { header: 'time_zone', value: str('timeZone') },
+    { header: 'lowest_altitude_deg', value: num('lowestAltitudeDeg'), digits: 0 },
+    { header: 'laser', value: (r) => (r.laserGuideStar ? 'yes' : '') },
+  ],
+  examples: [
+    "epochwright site add --name 'Cerro Tanagra' --latitude -29:15:40 --longitude -70:44:10 --elevation 2380 --time-zone America/Santiago",
+  ],
+});
+
+const ids = (k: string) => (r: Row) => (Array.isArray(r[k]) ? (r[k] as number[]).join(',') : '');
+export const campaignCommand = recordCommand({
+  record: 'campaign',
+  repo: 'campaigns',
+  path: '/campaigns',
+  summary: 'add, list and show campaigns (targets, sites, goals over a date range)',
+  about:
+    'A campaign follows its targets from its sites over a date range, with goals (cadence, a\ndenser cadence near periapsis, the kinds of measurement) and limits. Its allocated nights:\n`epochwright allocate`. Other goals (per-target settings, precision): --from with the JSON.',
+  fields: [
+    { option: 'name', field: 'name', kind: 'text', help: 'the campaign’s name' },
+    {
+      option: 'start',
+      field: 'startDate',
+      kind: 'text',
+      help: 'first night, YYYY-MM-DD (local evening date)',
+    },
+    { option: 'end', field: 'endDate', kind: 'text', help: 'last night, YYYY-MM-DD' },
+    {
+      option: 'target-ids',
+      field: 'targetIds',
+      kind: 'ids',
+      help: 'its targets, comma-separated ids',
+    },
+    { option: 'site-ids', field: 'siteIds', kind: 'ids', help: 'its sites, comma-separated ids' },
+    {
+      option: 'cadence-days',
+      field: 'goals.cadenceDays',
+      kind: 'number',
+      help: 'wanted interval between epochs of a target, days',
+    },
+    {
+      option: 'kinds',
+      field: 'goals.kinds',
+      kind: 'list',
+      help: 'astrometry, spectroscopy or both (comma-separated)',
+    },
+    {
+      option: 'dense-cadence-days',
+      field: 'goals.densifiedCadenceDays',
+      kind: 'number',
+      help: 'the interval near periapsis, days',
+    },
+    {
+      option: 'dense-within-days',
+      field: 'goals.densifyWithinDays',
+      kind: 'number',
+      help: 'how close to periapsis the dense cadence applies, days',
+    },
+    {
+      option: 'highest-airmass',
+      field: 'limits.highestAirmass',
+      kind: 'number',
+      help: 'highest airmass (default 2)',
+    },
+    {
+      option: 'least-moon-distance',
+      field: 'limits.leastMoonDistanceDeg',
+      kind: 'number',
+      help: 'least Moon distance while it is up, degrees',
+    },
+    {
+      option: 'darkness',
+      field: 'limits.darkness',
+      kind: 'text',
+      help: 'civil, nautical or astronomical (default)',
+    },
+    notes,
+  ],
+  view: (store, row) => store.campaigns.withMembers(row as never) as Promise<Row>,
+  columns: [
+    { header: 'id', value: num('id') },
+    { header: 'name', value: str('name') },
+    { header: 'start', value: str('startDate') },
+    { header: 'end', value: str('endDate') },
+    { header: 'target_ids', value: ids('targetIds') },
+    { header: 'site_ids', value: ids('siteIds') },
+    {
+      header: 'cadence_d',
+      value: (r) => (r.goals as { cadenceDays?: number } | undefined)?.cadenceDays ?? null,
+    },
+    {
+      header: 'kinds',
+      value: (r) => ((r.goals as { kinds?: string[] } | undefined)?.kinds ?? []).join(','),
+    },
+  ],
+  examples: [
+    "epochwright campaign add --name 'Lamp passage' --start 2027-03-01 --end 2027-10-31 --target-ids 1,2 --site-ids 1 --cadence-days 14 --kinds astrometry,spectroscopy",
+  ],
+});
+
+export const blockCommand = recordCommand({
+  record: 'block',
+  repo: 'blocks',
+  path: '/blocks',
+  summary: 'add, list, show and edit blocks by hand (a past night’s too: what really ran)',
+  about:
+    'A block is an interval of a stored night for one target and one kind of measurement. Blocks\nadded here are by hand; a block of a night that has ended records what ran (--status obtained,\npartial or lost, with its real --start and --end). Plans come from plan-season and plan-night.',
+  fields: [
+    {
+      option: 'night-id',
+      field: 'nightId',
+      kind: 'id',
+      help: 'the stored night (see epochwright allocate)',
+    },
+    { option: 'target-id', field: 'targetId', kind: 'id', help: 'the target' },
+    { option: 'kind', field: 'kind', kind: 'text', help: 'astrometry or spectroscopy' },
+    {
+      option: 'start',
+      field: 'startUtc',
+      kind: 'text',
+      help: 'start: ISO 8601 with a zone (2027-06-06T02:10-04), JD, MJD',
+    },
+    { option: 'end', field: 'endUtc', kind: 'text', help: 'end, as --start' },
+    {
+      option: 'status',
+      field: 'status',
+      kind: 'text',
+      help: 'planned (default), obtained, partial, lost or withdrawn',
+    },
+    {
+      option: 'laser-guide-star',
+      field: 'laserGuideStar',
+      kind: 'flag',
+      help: 'the block uses the site’s laser guide star',
+    },
+    {
+      option: 'pinned',
+      field: 'pinned',
+      kind: 'flag',
+      help: 'keep it where it is: no accepted plan replaces it',
+    },
+    {
+      option: 'overlap-reason',
+      field: 'overlapReason',
+      kind: 'text',
+      help: 'why it may overlap another block of its site',
+    },
+    notes,
+  ],
+  filters: [
+    { option: 'night-id', field: 'nightId' },
+    { option: 'target-id', field: 'targetId' },
+  ],
+  editable: true,
+  columns: [
+    { header: 'id', value: num('id') },
+    { header: 'night_id', value: num('nightId') },
+    { header: 'target_id', value: num('targetId') },
+    { header: 'kind', value: str('kind') },
+    { header: 'start_utc', value: (r) => str('startUtc')(r).slice(0, 16).replace('T', ' ') },
+    { header: 'end_utc', value: (r) => str('endUtc')(r).slice(0, 16).replace('T', ' ') },
+    { header: 'status', value: str('status') },
+    { header: 'origin', value: str('origin') },
+    { header: 'version', value: num('version') },
+  ],
+  examples: [
+    'epochwright block add --night-id 12 --target-id 1 --kind astrometry --start 2027-05-03T04:10Z --end 2027-05-03T04:50Z --status obtained',
+    'epochwright block edit --block-id 40 --status partial --end 2027-05-03T04:35Z',
+  ],
+});
+
+export const reportCommand = recordCommand({
+  record: 'report',
+  repo: 'nightReports',
+  path: '/night-reports',
+  summary: 'add, list, show and edit night reports: conditions, time lost, each block’s outcome',
+  about:
+    'The log of a night that has ended: seeing, adaptive-optics Strehl ratio, clouds, time lost and\nwhy, and the outcome of each block (--outcome <block id>=<status>, repeatable, or --from with\nthe JSON). Its measurements: `epochwright import --kind measurements` (with blockId).',
+  fields: [
+    { option: 'night-id', field: 'nightId', kind: 'id', help: 'the stored night' },
+    {
+      option: 'seeing',
+      field: 'seeingArcsec',
+      kind: 'number',
+      help: 'seeing FWHM at zenith, arcsec',
+    },
+    {
+      option: 'strehl',
+      field: 'strehlRatio',
+      kind: 'number',
+      help: 'adaptive-optics Strehl ratio, 0–1',
+    },
+    { option: 'cloud-cover', field: 'cloudCoverPct', kind: 'number', help: 'cloud cover, %' },
+    { option: 'humidity', field: 'humidityPct', kind: 'number', help: 'relative humidity, %' },
+    { option: 'wind', field: 'windMS', kind: 'number', help: 'wind speed, m/s' },
+    { option: 'temperature', field: 'temperatureC', kind: 'number', help: 'temperature, °C' },
+    {
+      option: 'time-lost',
+      field: 'timeLostHours',
+      kind: 'number',
+      help: 'hours lost (default 0); 1.5, not 1,5',
+    },
+    {
+      option: 'time-lost-reason',
+      field: 'timeLostReason',
+      kind: 'text',
+      help: 'why (clouds, wind, a fault)',
+    },
+    {
+      option: 'outcome',
+      field: 'outcomes',
+      kind: 'outcomes',
+      help: '<block id>=<status>[:<exposure minutes>], repeatable',
+    },
+    notes,
+  ],
+  filters: [{ option: 'night-id', field: 'nightId' }],
+  editable: true,
+  view: (store, row) => store.nightReports.withOutcomes(row as never) as Promise<Row>,
+  columns: [
+    { header: 'id', value: num('id') },
+    { header: 'night_id', value: num('nightId') },
+    { header: 'seeing_arcsec', value: num('seeingArcsec'), digits: 2 },
+    { header: 'strehl', value: num('strehlRatio'), digits: 2 },
+    { header: 'lost_h', value: num('timeLostHours'), digits: 1 },
+    { header: 'reason', value: str('timeLostReason') },
+    {
+      header: 'outcomes',
+      value: (r) =>
+        ((r.outcomes as { blockId: number; status: string }[] | undefined) ?? [])
+          .map((o) => `${o.blockId}=${o.status}`)
+          .join(' '),
+    },
+  ],
+  examples: [
+    "epochwright report add --night-id 12 --seeing 0.7 --strehl 0.45 --time-lost 1.5 --time-lost-reason 'cirrus after 03:00' --outcome 40=obtained --outcome 41=lost",
+  ],
+});
