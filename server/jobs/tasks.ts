@@ -4,7 +4,7 @@
  * structured-clonable data. The server runs them through the pool (`pool.ts`); the CLI and the
  * tests call `inProcess`, the same functions on the calling thread.
  */
-import { prepareMeasurements } from '../store/csv/measurement-rows.ts';
+import { prepareMeasurementsPacked } from '../store/csv/measurement-rows.ts';
 import { ComputationError, InputError } from '../science/errors.ts';
 import { fitOrbits, FitRefusal, type FitRequest } from '../science/orbit/fit/index.ts';
 import { pageResiduals, type ResidualPageRequest } from '../science/orbit/fit/residual-page.ts';
@@ -72,7 +72,8 @@ export const TASKS = {
     ),
   /** When the relativistic terms become detectable: a Fisher matrix over every measurement. */
   forecastDetection,
-  prepareMeasurements,
+  /** The database-free half of a measurements import, its rows packed for the trip back. */
+  prepareMeasurementsPacked,
   measurementsCsv,
   /** A campaign's iCalendar feed from its gathered rows: darkness, passages and the text. */
   calendarText,

@@ -82,7 +82,7 @@ export function createStore(database: Database) {
     },
     /** A CSV file of targets, orbit solutions or measurements: all rows or none. */
     importCsv: bind(context, importCsv),
-    /** A measurements file already parsed and checked (`prepareMeasurements`, on a worker): the writes. */
+    /** A measurements file already parsed and checked (`prepareMeasurementsPacked`, on a worker): the writes. */
     importPreparedMeasurements: bind(context, importPreparedMeasurements),
     exports: {
       measurements: bind(db, measurementsForExport),

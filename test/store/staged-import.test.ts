@@ -16,6 +16,11 @@ import {
   type Store,
 } from '../../server/store/index.ts';
 import { databaseOf } from '../../server/store/testing.ts';
+import {
+  prepareMeasurements,
+  prepareMeasurementsPacked,
+  unpackMeasurements,
+} from '../../server/store/csv/measurement-rows.ts';
 
 const ROWS = 12_000;
 const HEAD = 'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument';
@@ -63,6 +68,36 @@ describe('a staged measurements import', () => {
     expect(await count(store, 'measurements')).toBe(ROWS);
     expect(await count(store, 'measurement_staging')).toBe(0);
     expect(await count(store, 'import_runs')).toBe(0);
+  });
+
+  it('leaves the event loop free between its statements: staging, moving in and cleaning up', async () => {
+    // The local driver is synchronous: an import written as one run of statements would hold the
+    // server's thread (health included) until it ended. Counted as turns of the event loop, not time.
+    let turns = 0;
+    let ticking = true;
+    const tick = () => {
+      turns++;
+      if (ticking) setImmediate(tick);
+    };
+    let turnsAtFirstBatch = -1;
+    const report = await store.importCsv(LOCAL_OPERATOR, 'measurements', file(ROWS), {
+      onRow: (i) => {
+        if (i !== 0) return;
+        turnsAtFirstBatch = turns;
+        setImmediate(tick);
+      },
+    });
+    ticking = false;
+    expect(report.written).toBe(ROWS);
+    // After the first batch: 7,000 rows staged at 250 a statement, moved in and deleted at 2,500.
+    expect(turns - turnsAtFirstBatch).toBeGreaterThanOrEqual(28 + 3 + 3);
+  });
+
+  it("unpacks a worker's packed rows to the rows prepared here", () => {
+    const text = file(4500);
+    return expect(unpackMeasurements(prepareMeasurementsPacked(text))).resolves.toEqual(
+      prepareMeasurements(text),
+    );
   });
 
   it('refuses the whole file when a twin of a row is stored while it is staged', async () => {

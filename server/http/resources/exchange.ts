@@ -94,7 +94,7 @@ export function exchangeRoutes(store: Store, run: Runner) {
         kind === 'measurements'
           ? await store.importPreparedMeasurements(
               actor,
-              await run('prepareMeasurements', text),
+              await run('prepareMeasurementsPacked', text),
               options,
             )
           : await store.importCsv(actor, kind, text, options);

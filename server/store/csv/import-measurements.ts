@@ -4,7 +4,8 @@
  * staged in short batches (staging.ts), and one last transaction checks again whatever another
  * writer may have changed meanwhile (targets, blocks, new twins, the same file) and moves the
  * rows in, with the import's one audit entry. The rows come checked from `prepareMeasurements`
- * (possibly run in a worker thread).
+ * (possibly run in a worker thread). The writes run on the server's thread, so every long loop and
+ * every bulk statement is cut into short steps with the event loop free between them (yield.ts).
  */
 import type { InValue } from '@libsql/client';
 import { and, gt, inArray, max } from 'drizzle-orm';
@@ -13,6 +14,7 @@ import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
 import { nowMs } from '../../clock.ts';
 import type { Db, DbOrTx } from '../database.ts';
+import { yieldToOthers } from '../yield.ts';
 import {
   MEASUREMENT_COLUMNS,
   clearAbandonedImports,
@@ -110,8 +112,7 @@ interface ResolvedRows {
 }
 
 /** Let other requests run between slices of a long loop on the server's thread. */
-const SLICE = 2000;
-const yieldToOthers = () => new Promise((r) => setImmediate(r));
+const SLICE = 1000;
 
 /** Each row with its target id, the clock and its block checked; problems for those that fail. */
 async function resolveRows(db: DbOrTx, prepared: PreparedMeasurements): Promise<ResolvedRows> {
@@ -171,10 +172,14 @@ function checkOnBlock(next: Record<string, unknown>, blocks: Map<number, BlockRe
 }
 
 /** A problem for each row that repeats a stored measurement (`stored`: key → id) or an earlier line. */
-function twinProblems(rows: ResolvedRows, stored: Map<string, number>): ImportProblem[] {
+async function twinProblems(
+  rows: ResolvedRows,
+  stored: Map<string, number>,
+): Promise<ImportProblem[]> {
   const seen = new Map<string, number>();
   const problems: ImportProblem[] = [];
-  rows.keys.forEach((key, i) => {
+  for (const [i, key] of rows.keys.entries()) {
+    if (i % SLICE === SLICE - 1) await yieldToOthers();
     const line = rows.lines[i]!;
     const id = stored.get(key);
     const earlier = seen.get(key);
@@ -193,7 +198,7 @@ function twinProblems(rows: ResolvedRows, stored: Map<string, number>): ImportPr
         rule: `${TWIN_RULE} as line ${earlier}`,
       });
     else seen.set(key, line);
-  });
+  }
   return problems;
 }
 
@@ -264,7 +269,7 @@ async function problemsSinceChecked(
       });
     }
   }
-  if (!allowDuplicates) problems.push(...twinProblems(rows, await twinsSince(tx, rows)));
+  if (!allowDuplicates) problems.push(...(await twinProblems(rows, await twinsSince(tx, rows))));
   return problems;
 }
 
@@ -301,7 +306,8 @@ export async function writeMeasurements(
     const repeated = await repeatedFileProblem(db, 'measurements', prepared.digest);
     // A repeated file is one problem, not one per row.
     if (repeated) problems.push(repeated);
-    else problems.push(...twinProblems(rows, await storedTwins(db, rowsForTwins(prepared))));
+    else
+      problems.push(...(await twinProblems(rows, await storedTwins(db, rowsForTwins(prepared)))));
   }
   problems.sort((a, b) => a.line - b.line);
   if (problems.length > 0 || options.dryRun) return problems;

@@ -23,7 +23,12 @@ import type { StoreContext } from '../context.ts';
 import type { CsvKind } from './columns.ts';
 import { writeMeasurements } from './import-measurements.ts';
 import { fileDigest, repeatedFileProblem } from './repeated-file.ts';
-import { prepareMeasurements, type PreparedMeasurements } from './measurement-rows.ts';
+import {
+  prepareMeasurements,
+  unpackMeasurements,
+  type PackedMeasurements,
+  type PreparedMeasurements,
+} from './measurement-rows.ts';
 import {
   ImportRejected,
   cellValues,
@@ -178,7 +183,7 @@ export async function importCsv(
   options: ImportOptions = {},
 ): Promise<ImportReport> {
   if (kind === 'measurements')
-    return importPreparedMeasurements(store, actor, prepareMeasurements(text), options);
+    return importMeasurementRows(store, actor, prepareMeasurements(text), options);
   const { rows } = readCsv(kind, text);
   const digest = fileDigest(text);
   const dryRun = options.dryRun ?? false;
@@ -204,15 +209,24 @@ export async function importCsv(
 }
 
 /**
- * Write a measurements file already parsed and checked by `prepareMeasurements` (the server runs
- * that part in a worker thread): checked against the store, staged in short batches, then moved
- * in at once (import-measurements.ts).
+ * Write a measurements file already parsed and checked on a worker thread
+ * (`prepareMeasurementsPacked`): unpacked in short steps, checked against the store, staged in
+ * short batches, then moved in at once (import-measurements.ts).
  */
 export async function importPreparedMeasurements(
   store: StoreContext,
   actor: Actor,
-  prepared: PreparedMeasurements,
+  packed: PackedMeasurements,
   options: ImportOptions = {},
+): Promise<ImportReport> {
+  return importMeasurementRows(store, actor, await unpackMeasurements(packed), options);
+}
+
+async function importMeasurementRows(
+  store: StoreContext,
+  actor: Actor,
+  prepared: PreparedMeasurements,
+  options: ImportOptions,
 ): Promise<ImportReport> {
   const dryRun = options.dryRun ?? false;
   const problems = await writeMeasurements(store.db, actor, prepared, {

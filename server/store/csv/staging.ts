@@ -16,14 +16,21 @@ import type { InValue } from '@libsql/client';
 import { eq, getTableColumns } from 'drizzle-orm';
 import { importRuns, measurements } from '../../../db/schema.ts';
 import { libsqlTransaction, type Db, type Tx } from '../database.ts';
+import { yieldToOthers } from '../yield.ts';
 
 /** Stored columns of a measurement in insert order: the table's columns but its generated id. */
 export const MEASUREMENT_COLUMNS = Object.entries(getTableColumns(measurements))
   .filter(([k]) => k !== 'id')
   .map(([key, c]) => ({ key, name: c.name }));
 
-/** Rows per staging INSERT: 21 bound values each, under SQLite's 32,766 parameters. */
-const ROWS_PER_STATEMENT = 1000;
+/**
+ * Rows per staging INSERT (21 bound values each). The driver is synchronous, so one statement holds
+ * the server's thread while SQLite parses and runs it: 250 rows take a few milliseconds, and the
+ * event loop runs between statements (yield.ts).
+ */
+const ROWS_PER_STATEMENT = 250;
+/** Rows per statement when the staged rows are moved in, or deleted, in the same short steps. */
+const ROWS_PER_MOVE = 2500;
 /** Rows per staging transaction: the longest this import holds the write lock before the swap. */
 export const ROWS_PER_BATCH = 5000;
 /** A run whose heartbeat is older than this is taken for dead (a process on another host). */
@@ -97,6 +104,7 @@ export async function stageRows(
           const args: InValue[] = [];
           for (let r = s; r < s + n; r++) args.push(runId, ...rows[r]!);
           await raw.execute({ sql: n === ROWS_PER_STATEMENT ? FULL_STATEMENT : stageSql(n), args });
+          await yieldToOthers();
         }
         await tx.update(importRuns).set({ heartbeatAt: wallIso() }).where(eq(importRuns.id, runId));
       });
@@ -109,16 +117,45 @@ export async function stageRows(
   return runId;
 }
 
-/** Inside the swap transaction: move the run's rows into `measurements`, in file order. */
+/**
+ * Inside the swap transaction: move the run's rows into `measurements`, in file order, in steps of
+ * ROWS_PER_MOVE rows with the event loop free between them (readers on other connections see
+ * none of them until the swap commits).
+ */
 export async function moveStagedRows(tx: Tx, runId: number): Promise<void> {
-  await rawOf(tx).execute({
-    sql: `insert into measurements (${columnList}) select ${columnList} from measurement_staging where "run_id" = ? order by rowid`,
-    args: [runId],
-  });
+  const raw = rawOf(tx);
+  for (let after = 0; ; ) {
+    const last = await raw.execute({
+      sql: `select max(rowid) as last from (select rowid from measurement_staging where rowid > ? and "run_id" = ? order by rowid limit ${ROWS_PER_MOVE})`,
+      args: [after, runId],
+    });
+    const upTo = last.rows[0]?.last;
+    if (upTo === null || upTo === undefined) break;
+    await raw.execute({
+      sql: `insert into measurements (${columnList}) select ${columnList} from measurement_staging where rowid > ? and rowid <= ? and "run_id" = ? order by rowid`,
+      args: [after, upTo, runId],
+    });
+    after = Number(upTo);
+    await yieldToOthers();
+  }
   await tx.update(importRuns).set({ finishedAt: wallIso() }).where(eq(importRuns.id, runId));
 }
 
-/** Delete a run and its staged rows (after the swap, or when the import failed). */
+/**
+ * Delete a run and its staged rows (after the swap, or when the import failed): the rows in short
+ * transactions of ROWS_PER_MOVE, then the run. Killed half-way, the run is left for
+ * `clearAbandonedImports`.
+ */
 export async function dropRun(db: Db, runId: number): Promise<void> {
+  for (;;) {
+    const { rowsAffected } = await db.transaction((tx) =>
+      rawOf(tx).execute({
+        sql: `delete from measurement_staging where rowid in (select rowid from measurement_staging where "run_id" = ? limit ${ROWS_PER_MOVE})`,
+        args: [runId],
+      }),
+    );
+    if (rowsAffected === 0) break;
+    await yieldToOthers();
+  }
   await db.transaction((tx) => tx.delete(importRuns).where(eq(importRuns.id, runId)));
 }

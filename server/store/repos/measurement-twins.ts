@@ -4,12 +4,16 @@
  * twice would count it twice in every fit and shrink every σ. The one-row write refuses a twin of
  * a stored row; the import reports each twin row (of a stored row or of an earlier line).
  */
-import { and, gte, inArray, lte } from 'drizzle-orm';
+import { and, gt, gte, inArray, lte } from 'drizzle-orm';
 import { measurements } from '../../../db/schema.ts';
 import { SECONDS_PER_DAY } from '../../science/constants.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import { MEASUREMENT_VALUE_FIELDS as VALUE_FIELDS } from '../../../descriptors/measurement-kinds.ts';
+import { yieldToOthers } from '../yield.ts';
+
+/** Stored rows read per statement while twins are sought (a file's worth may be stored already). */
+const PAGE = 5000;
 
 type Row = Record<string, unknown>;
 
@@ -40,20 +44,27 @@ export async function storedTwins(tx: DbOrTx, rows: readonly Row[]): Promise<Map
     if (jd < lo) lo = jd;
     if (jd > hi) hi = jd;
   }
-  const stored = await tx
-    .select()
-    .from(measurements)
-    .where(
-      and(
-        inArray(measurements.targetId, targetIds),
-        gte(measurements.epochJd, lo - margin),
-        lte(measurements.epochJd, hi + margin),
-      ),
-    )
-    .orderBy(measurements.id);
-  for (const s of stored) {
-    const key = twinKey(s as Row);
-    if (!out.has(key)) out.set(key, s.id);
+  for (let after = 0; ; ) {
+    const page = await tx
+      .select()
+      .from(measurements)
+      .where(
+        and(
+          gt(measurements.id, after),
+          inArray(measurements.targetId, targetIds),
+          gte(measurements.epochJd, lo - margin),
+          lte(measurements.epochJd, hi + margin),
+        ),
+      )
+      .orderBy(measurements.id)
+      .limit(PAGE);
+    for (const s of page) {
+      const key = twinKey(s as Row);
+      if (!out.has(key)) out.set(key, s.id);
+    }
+    if (page.length < PAGE) break;
+    after = page[page.length - 1]!.id;
+    await yieldToOthers();
   }
   return out;
 }
