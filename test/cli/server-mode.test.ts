@@ -124,3 +124,54 @@ it('gives a campaign’s flags through a running server as the store gives them'
   expect(remote).toEqual(local); // constructed case: one store, two ways in
   expect(remote.flags.length).toBeGreaterThan(0);
 });
+
+it('issues and lists tokens through a running server as the store lists them (lead only)', async () => {
+  const issued = await run(
+    'account',
+    'token',
+    '--name',
+    'watcher',
+    '--label',
+    'laptop',
+    '--server',
+    base,
+    '--token',
+    lead.secret,
+  );
+  expect(issued).toMatch(/^new token for "watcher" \(token id \d+\), shown once: \S+/);
+  const audit = await store.audit.list({ entity: 'token' }, { limit: 1, offset: 0 });
+  expect(audit.items[0]!.userId).toBe(lead.id);
+  const viaServer = await run(
+    'account',
+    'tokens',
+    '--json',
+    '--server',
+    base,
+    '--token',
+    lead.secret,
+  );
+  const local = await run(
+    'account',
+    'tokens',
+    '--json',
+    '--database',
+    `file:${join(dir, 'server.db')}`,
+  );
+  expect(JSON.parse(viaServer)).toEqual(JSON.parse(local)); // constructed case: one store, two ways in
+  expect(viaServer).not.toMatch(/secret|hash/);
+  const unknown = await run(
+    'account',
+    'tokens',
+    '--name',
+    'nobody',
+    '--server',
+    base,
+    '--token',
+    lead.secret,
+  ).catch((e: unknown) => e);
+  expect((unknown as Error).message).toMatch(/^--name: "nobody" does not name a user/);
+  const refused = await run('account', 'tokens', '--server', base, '--token', viewer).catch(
+    (e: unknown) => e,
+  );
+  expect((refused as Error).message).toMatch(/403/);
+});

@@ -1,7 +1,7 @@
 /** `epochwright account`: create users with a role, issue, list and revoke tokens (secrets shown once). */
 import { parseArgs } from 'node:util';
 import { InputError } from '../../science/errors.ts';
-import { NotFoundError, type Store, type UserRow } from '../../store/index.ts';
+import { NotFoundError, type Store, type TokenListing, type UserRow } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
 import { outputFormat, positiveId } from '../args.ts';
 import { render } from '../output.ts';
@@ -29,7 +29,6 @@ measurements; viewer reads.
 
 options:
 ${STORE_HELP}
-                         (add, list, feed-token and revoke; token and tokens open the database)
 `;
 
 /** A missing row named on the command line is bad input (exit 2), not a failure. */
@@ -61,11 +60,6 @@ export const accountCommand: Command = {
     const [action, ...extra] = positionals;
     if (extra.length) throw new UsageError(`unexpected ${JSON.stringify(extra[0])}`);
     const writes = ['add', 'token', 'feed-token', 'revoke'].includes(action ?? '');
-    const onlyLocal = (what: string) => async (): Promise<never> => {
-      throw new UsageError(
-        `account ${what} opens the database (a server issues tokens only as account add and feed-token do): run it where the database is`,
-      );
-    };
     const users = {
       local: (store: Store) => store.users.list({ limit: 500 }).then((p) => p.items),
       remote: async (api: Api) =>
@@ -98,7 +92,14 @@ export const accountCommand: Command = {
         const issued = await storeAction(values, {
           local: (store, actor) =>
             store.users.issueToken(actor, name, values.label ?? 'issued at the command line'),
-          remote: onlyLocal('token'),
+          remote: async (api) => {
+            const r = await api<{ user: UserRow; tokenId: number; token: string }>({
+              method: 'POST',
+              path: '/tokens',
+              body: { userName: name, label: values.label ?? 'issued at the command line' },
+            });
+            return { user: r.user, tokenId: r.tokenId, secret: r.token };
+          },
           writes,
         });
         return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
@@ -142,14 +143,16 @@ export const accountCommand: Command = {
       }
       case 'tokens': {
         const rows = await storeAction(values, {
-          local: (store) =>
-            store.users
-              .listTokens(values.name)
-              .catch(
-                asInputError('--name', values.name, 'does not name a user (see `account list`)'),
-              ),
-          remote: onlyLocal('tokens'),
-        });
+          local: (store) => store.users.listTokens(values.name),
+          remote: async (api) =>
+            (
+              await api<{ tokens: TokenListing[] }>({
+                method: 'GET',
+                path: '/tokens',
+                query: { userName: values.name },
+              })
+            ).tokens,
+        }).catch(asInputError('--name', values.name, 'does not name a user (see `account list`)'));
         return render(
           outputFormat(values),
           rows,

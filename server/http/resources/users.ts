@@ -101,6 +101,82 @@ export function userRoutes(store: Store) {
       return c.json({ user, tokenId, token: secret }, 201);
     },
   );
+  const Listing = z
+    .object({
+      id: z.number().int(),
+      userName: z.string(),
+      role: UserInput.shape.role,
+      label: z.string(),
+      createdAt: z.string(),
+      revokedAt: z.string().nullable(),
+      feedCampaignId: z
+        .number()
+        .int()
+        .nullable()
+        .openapi({
+          description: 'a feed token’s campaign (it opens only that feed); null otherwise',
+        }),
+    })
+    .strict()
+    .openapi('TokenListing');
+  app.openapi(
+    createRoute({
+      method: 'get',
+      path: '/tokens',
+      tags: ['users'],
+      security,
+      summary:
+        'List tokens (every user’s, or one’s): holder, label, issued, revoked; never a secret',
+      request: {
+        query: z.object({
+          userName: z.string().optional().openapi({ description: 'only this user’s tokens' }),
+        }),
+      },
+      responses: {
+        200: json(z.object({ tokens: z.array(Listing) }).strict(), 'oldest first'),
+        ...errorResponses,
+      },
+    }),
+    async (c) => {
+      requireRole(c, 'lead');
+      return c.json({ tokens: await store.users.listTokens(c.req.valid('query').userName) }, 200);
+    },
+  );
+  app.openapi(
+    createRoute({
+      method: 'post',
+      path: '/tokens',
+      tags: ['users'],
+      security,
+      summary: 'Issue a further token for an existing user (shown once)',
+      request: {
+        body: {
+          content: {
+            'application/json': {
+              schema: z
+                .object({
+                  userName: z.string().min(1).openapi({ description: 'the user’s name' }),
+                  label: z.string().max(200).optional().openapi({ description: 'what it is for' }),
+                })
+                .strict(),
+            },
+          },
+          required: true,
+        },
+      },
+      responses: { 201: json(Issued, 'issued'), ...errorResponses },
+    }),
+    async (c) => {
+      const lead = writer(c, 'lead');
+      const { userName, label } = c.req.valid('json');
+      const { user, tokenId, secret } = await store.users.issueToken(
+        lead,
+        userName,
+        label ?? 'issued through the server',
+      );
+      return c.json({ user, tokenId, token: secret }, 201);
+    },
+  );
   app.openapi(
     createRoute({
       method: 'delete',
