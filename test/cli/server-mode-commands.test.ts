@@ -106,6 +106,11 @@ it('plans a night, forecasts a target and exports its ephemeris the same both wa
   const csv = await bothWays('export', ...ephemeris);
   expect(csv.viaServer).toBe(csv.local);
   expect(csv.local.split('\n')[0]).toMatch(/sigmaDRaMas/); // the σ columns travel too
+  for (const only of [[], ['--current'], ['--target-id', String(ilex)]]) {
+    const orbits = await bothWays('export', 'orbits', ...only);
+    expect(orbits.viaServer).toBe(orbits.local);
+    expect(orbits.local.split('\n')[0]).toMatch(/sigmaPeriodYears.*correlations/); // with covariance
+  }
   const json = await bothWays('export', ...ephemeris, '--json');
   expect(JSON.parse(json.viaServer)).toEqual(JSON.parse(json.local));
 });

@@ -3,17 +3,20 @@ import { parseArgs } from 'node:util';
 import { ephemeris } from '../../science/orbit/index.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { resolveEpochs } from '../../science/time/index.ts';
-import { ephemerisCsv, measurementsCsv } from '../../store/index.ts';
+import { ephemerisCsv, measurementsCsv, orbitsCsv } from '../../store/index.ts';
 import { optionalId } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright export measurements [--target-id <id>] [--json]
+       epochwright export orbits [--target-id <id> | --system-id <id>] [--current] > orbits.csv
        epochwright export ephemeris --target-id <id> --start <epoch> --end <epoch> [--step <duration>] [--json]
        epochwright export calendar --campaign-id <id> [--at <epoch>]
        epochwright export archive > campaign-archive.json
 
 measurements  CSV in the layout 'epochwright import --kind measurements' reads (or JSON)
+orbits        orbit solutions (every version, or --current only) with σ and correlations, CSV in
+              the layout 'epochwright import --kind orbits' reads back
 ephemeris     predictions from the target's current orbit solution, CSV (or JSON)
 calendar      the campaign's planned blocks and periapsis passages as iCalendar (RFC 5545), with
               its flags as of --at (ISO 8601, JD, MJD; default now)
@@ -22,7 +25,9 @@ archive       every stored record (systems, targets, orbit solutions with covari
               no tokens) as JSON, for 'epochwright restore --archive' into an empty database
 
 options:
-  --target-id <id>       measurements: only this target's; ephemeris: the target
+  --target-id <id>       measurements, orbits: only this target's; ephemeris: the target
+  --system-id <id>       orbits: only this system's targets'
+  --current              orbits: only each target's current solution
   --start, --end <epoch> ephemeris: first and last epoch (ISO 8601, JD, MJD, J…)
   --step <duration>      ephemeris: ISO 8601 duration between epochs (default P30D)
   --campaign-id <id>     calendar: the campaign
@@ -32,7 +37,7 @@ ${STORE_HELP} (the archive needs a lead's token)
 `;
 
 export const exportCommand: Command = {
-  summary: 'export measurements, a stored target’s ephemeris, a campaign calendar, or everything',
+  summary: 'export measurements, orbit solutions, an ephemeris, a campaign calendar, or everything',
   help,
   async run(argv) {
     const { values, positionals } = parseArgs({
@@ -41,6 +46,8 @@ export const exportCommand: Command = {
         ...storeOptions,
         'target-id': { type: 'string' },
         'campaign-id': { type: 'string' },
+        'system-id': { type: 'string' },
+        current: { type: 'boolean' },
         start: { type: 'string' },
         end: { type: 'string' },
         step: { type: 'string' },
@@ -71,6 +78,24 @@ export const exportCommand: Command = {
               : api<string>(request);
           },
         });
+      case 'orbits': {
+        const systemId = optionalId('system-id', values['system-id']);
+        const filter = {
+          ...(targetId === undefined ? {} : { targetId }),
+          ...(systemId === undefined ? {} : { systemId }),
+        };
+        return storeAction(values, {
+          local: async (store) =>
+            orbitsCsv(
+              await store.exports.orbits({ ...filter, currentOnly: values.current === true }),
+            ),
+          remote: {
+            method: 'GET',
+            path: '/exports/orbits',
+            query: { ...filter, current: values.current === true },
+          },
+        });
+      }
       case 'ephemeris': {
         if (targetId === undefined || values.start === undefined || values.end === undefined)
           throw new UsageError('export ephemeris needs --target-id, --start and --end');
@@ -118,7 +143,7 @@ export const exportCommand: Command = {
         )}\n`;
       default:
         throw new UsageError(
-          `export: say measurements, ephemeris, calendar or archive${what ? ` (not ${JSON.stringify(what)})` : ''}`,
+          `export: say measurements, orbits, ephemeris, calendar or archive${what ? ` (not ${JSON.stringify(what)})` : ''}`,
         );
     }
   },
