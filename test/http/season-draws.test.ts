@@ -77,6 +77,24 @@ describe('weather-aware season plans and draws (demo campaign)', () => {
     expect(
       body.sites.find((s) => s.name === 'Tolvane Ridge')!.clearChance.nightsLogged,
     ).toBeGreaterThan(5);
+    // The headline star's passage: the nights that cover its date are critical (each takes ≥ 5
+    // points of coverage) and lie at the lossy site in its wet months; the plan says which and why
+    // each has or has not a backup.
+    const ilex = (
+      body as unknown as {
+        plan: {
+          targets: {
+            target: string;
+            backups: { critical: number; backedUp: number; words: string } | null;
+          }[];
+        };
+      }
+    ).plan.targets.find((t) => t.target === 'Ilex')!;
+    console.log(`Ilex against the weather: ${ilex.backups?.words}`);
+    expect(ilex.backups!.critical).toBeGreaterThan(0);
+    expect(ilex.backups!.words).toMatch(/critical epochs? on nights likely lost, \d+ backed up/);
+    if (ilex.backups!.backedUp < ilex.backups!.critical)
+      expect(ilex.backups!.words).toMatch(/no backup for Tolvane Ridge \S+ \(/);
   });
 
   it('draws the season: seeded, the same through a worker thread, percentiles in order', async () => {

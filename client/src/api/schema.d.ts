@@ -11632,6 +11632,12 @@ export interface components {
                     };
                     nominalPrior: boolean;
                 } | null;
+                /** @description critical epochs on nights likely lost and how many got a backup, in words with the numbers (or why none is critical); null when no night is likely lost */
+                backups: {
+                    critical: number;
+                    backedUp: number;
+                    words: string;
+                } | null;
                 nextBest: {
                     date: string;
                     site: string;

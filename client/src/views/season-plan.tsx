@@ -303,6 +303,20 @@ export function SeasonPlanPanel({
               )}
             </div>
           )}
+          {p.targets.some((t) => t.backups && (t.backups.critical > 0 || t.passage)) && (
+            <div class="plan-backups">
+              <h3>Against the weather: critical epochs and their backups</h3>
+              <ul>
+                {p.targets
+                  .filter((t) => t.backups && (t.backups.critical > 0 || t.passage))
+                  .map((t) => (
+                    <li key={t.target} data-target={t.target}>
+                      <strong>{t.target}</strong>: {t.backups!.words}.
+                    </li>
+                  ))}
+              </ul>
+            </div>
+          )}
           {p.targets.some((t) => t.passage) && (
             <details class="periapsis-windows">
               <summary>

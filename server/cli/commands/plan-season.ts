@@ -242,6 +242,11 @@ export const planSeasonCommand: Command = {
           ]
         : [],
     );
+    const backups = plan.targets.flatMap((t) =>
+      t.backups && (t.backups.critical > 0 || t.passage)
+        ? [`  ${t.target}: ${t.backups.words}\n`]
+        : [],
+    );
     const relativity = plan.targets.flatMap((t) =>
       t.relativity ? t.relativity.summary.map((line) => `  ${t.target}: ${line}\n`) : [],
     );
@@ -260,6 +265,9 @@ export const planSeasonCommand: Command = {
       '\n',
       targets,
       windows.length ? `\nperiapsis windows:\n${windows.join('')}` : '',
+      backups.length
+        ? `\nagainst the weather (critical epochs on likely-lost nights, backups):\n${backups.join('')}`
+        : '',
       relativity.length ? `\nrelativity forecast after the plan:\n${relativity.join('')}` : '',
       plan.unmet.length
         ? `\ngoals not met:\n${plan.unmet.map((u) => `  ${u.target} ${u.kind} ${u.start} to ${u.end}: ${u.reason}\n`).join('')}`

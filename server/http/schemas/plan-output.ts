@@ -346,6 +346,18 @@ export const SeasonPlanSchema = z
             .strict()
             .nullable()
             .openapi({ description: '1σ before and after the plan (linear, Fisher)' }),
+          backups: z
+            .object({
+              critical: z.number().int(),
+              backedUp: z.number().int(),
+              words: z.string(),
+            })
+            .strict()
+            .nullable()
+            .openapi({
+              description:
+                'critical epochs on nights likely lost and how many got a backup, in words with the numbers (or why none is critical); null when no night is likely lost',
+            }),
           nextBest: z.array(
             z.object({ date: z.string(), site: z.string(), kind: BlockKind, gain: Gain }).strict(),
           ),

@@ -125,9 +125,9 @@ export function planSeason(
   periapsisPass(p);
   cadencePass(p);
   extraPass(p);
-  backupPass(p, lossAbove);
+  const backups = backupPass(p, lossAbove);
   const timed = timeNights(p);
-  return seasonReport(p, timed);
+  return seasonReport(p, timed, backups);
 }
 
 /** Check the inputs, build the nights, the targets' states and options, and add kept blocks' information. */

@@ -22,9 +22,16 @@ import type {
 } from './season-types.ts';
 import { jdToIso, parseEpoch } from '../time/index.ts';
 
-export function seasonReport(p: Planner, timed: TimedPlan): SeasonPlan {
+export function seasonReport(
+  p: Planner,
+  timed: TimedPlan,
+  backups: readonly TargetPlan['backups'][],
+): SeasonPlan {
   const { nD, dates } = p.nights;
-  const targets = p.states.map((ts, ti) => targetPlan(p, timed, ts, ti));
+  const targets = p.states.map((ts, ti) => ({
+    ...targetPlan(p, timed, ts, ti),
+    backups: backups[ti] ?? null,
+  }));
   const cautions = [PLAN_ADVISORY];
   if (timed.epochs.some((e) => e.block.laserGuideStar)) cautions.push(LASER_GUIDE_STAR_CAUTION);
   return {
@@ -48,7 +55,12 @@ export function seasonReport(p: Planner, timed: TimedPlan): SeasonPlan {
   };
 }
 
-function targetPlan(p: Planner, timed: TimedPlan, ts: TargetState, ti: number): TargetPlan {
+function targetPlan(
+  p: Planner,
+  timed: TimedPlan,
+  ts: TargetState,
+  ti: number,
+): Omit<TargetPlan, 'backups'> {
   const { nD, dates } = p.nights;
   const f = timed.final[ti]!;
   const mine = timed.epochs.filter((e) => e.target === ts.t.name);

@@ -172,6 +172,11 @@ export interface TargetPlan {
     massFraction: { before: number | null; after: number | null };
     nominalPrior: boolean;
   } | null;
+  /**
+   * Critical epochs (season-backups.ts) on nights likely lost and their backups, in words with the
+   * numbers; null when no night of the plan is likely lost (a weather-blind plan).
+   */
+  backups: { critical: number; backedUp: number; words: string } | null;
   /** The best epochs not in the plan, by information given the plan. */
   nextBest: { date: string; site: string; kind: BlockKind; gain: EpochGain }[];
   /**

@@ -74,12 +74,18 @@ describe('a weather-aware season plan (constructed case: 60 % and 10 % of nights
     );
     expect(at(aware, EAST.name)).toBeGreaterThan(at(blind, EAST.name));
     expect(blind.epochs.some((e) => e.why === 'backup')).toBe(false); // every weight 1: nothing to back up
+    expect(blind.targets[0]!.backups).toBeNull();
+    const said = aware.targets[0]!.backups!;
+    console.log(`aware plan's backups: ${said.words}`);
+    expect(said.critical).toBeGreaterThan(0);
+    expect(said.backedUp).toBeGreaterThan(0);
+    expect(said.backedUp).toBeLessThanOrEqual(said.critical);
     const backups = aware.epochs.filter((e) => e.why === 'backup');
     expect(backups.length).toBeGreaterThan(0);
     for (const b of backups) {
       expect(b.site).toBe(EAST.name);
       expect(b.reason).toMatch(
-        /backup for the periapsis epoch at Harrow Crest \S+ \(lost with chance 60 %\)/,
+        /backup for the periapsis epoch at Harrow Crest \S+ \(without its night the passage.s coverage falls by [\d.]+ points[^)]*\) \(lost with chance 60 %\)/,
       );
     }
   });
