@@ -212,8 +212,14 @@ export function writeState(
   c: PredictionColumns,
   i: number,
 ): void {
+  // Hot kernel (once per epoch and orbit, inside batch predictions and every fit evaluation):
+  // one straight pass, no allocation. Steps: 1. position in the orbital plane and its rate;
+  // 2. ω with the precession swept so far, Thiele–Innes constants, sky offsets; 3. anomalies and
+  // position angle into the columns; 4. sky velocities with ω̇ and the light-time clock; 5. the
+  // photocentre; 6. with a distance, the 3-D quantities and the radial velocity with its terms.
   const o = p.orbit;
   const e = o.e;
+  // 1. The orbital plane: X, Y and their rates.
   const cosE = Math.cos(E),
     sinE = Math.sin(E);
   const X = cosE - e,
@@ -221,6 +227,7 @@ export function writeState(
   const Edot = p.n / (1 - e * cosE); // rad/day
   const Xd = -sinE * Edot,
     Yd = p.sq * cosE * Edot; // per day
+  // 2. ω with the precession swept since T; A, B, F, G and the offsets.
   const dOmega = precessionSinceT(p, tEm, E);
   const w = o.relativity.precession ? o.argRad + dOmega : o.argRad;
   const cw = Math.cos(w),
@@ -232,6 +239,7 @@ export function writeState(
   const G = a * (-sw * p.sn + cw * p.cn * p.ci);
   const dDec = A * X + F * Y;
   const dRa = B * X + G * Y;
+  // 3. Anomalies in [0, 2π) and the position angle in [0°, 360°).
   let M = (E - e * sinE) % TWO_PI;
   if (M < 0) M += TWO_PI;
   let nu = trueAnomalyFromEccentric(E, e);
@@ -249,6 +257,7 @@ export function writeState(
   c.dDecMas[i] = dDec;
   c.separationMas[i] = Math.hypot(dRa, dDec);
   c.positionAngleDeg[i] = pa;
+  // 4. Sky velocities.
   const aAu = p.aAu;
   // ω turns with ν when precession is on: ω̇ = (Δω/2π)·ν̇, ν̇ = n√(1−e²)/(1 − e cos E)². In the
   // orbital plane the velocity is then R(ω)·(Ẋ − ω̇Y, Ẏ + ω̇X): ∂A/∂ω = F, ∂F/∂ω = −A (B, G alike).
@@ -263,6 +272,7 @@ export function writeState(
   const clock = o.relativity.romer ? 1 / (1 + vzKmS / C_KM_PER_S) : 1;
   c.vRaMasYr[i] = (B * Xp + G * Yp) * JULIAN_YEAR_DAYS * clock;
   c.vDecMasYr[i] = (A * Xp + F * Yp) * JULIAN_YEAR_DAYS * clock;
+  // 5. The photocentre of an unresolved pair, (β − B) times the relative offset.
   const q = o.massRatio ?? Number.NaN;
   const light = photocentreShare(q, o.lightFraction ?? Number.NaN).share;
   c.photocentreDRaMas[i] = light * dRa;
@@ -274,6 +284,7 @@ export function writeState(
     c.primaryRadialVelocityKmS[i] = c.secondaryRadialVelocityKmS[i] = Number.NaN;
     return;
   }
+  // 6. With a distance: r, z, speed, each body's velocity, and the relativistic terms.
   const rAu = aAu * (1 - e * cosE);
   const zAu = aAu * p.si * (X * sw + Y * cw);
   const speed = (aAu * Math.hypot(Xp, Yp) * AU_KM) / SECONDS_PER_DAY;

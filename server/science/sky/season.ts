@@ -160,6 +160,12 @@ export function seasonMap(
   c: Limits,
   options: SeasonOptions = {},
 ): SeasonMap {
+  // Hot kernel (targets × nights, millions of samples for a large campaign; inlined on purpose).
+  // Steps: 1. the nights' frames and dark spans, the limits as sines and cosines; per target and
+  // night: 2. its apparent place of date (aberration, precession-nutation); 3. the dark samples
+  // above the altitude limit in closed form; 4. only where the horizon mask, the Moon or the Sun
+  // can reach, each sample tested; 5. the night's hours and the best night (most samples, then
+  // closest to transit at mid-darkness); then 6. each target's season summary and periapses.
   const stepMinutes = options.stepMinutes ?? 5;
   const stepDays = stepMinutes / 1440;
   const minSamples = Math.ceil(((options.minHoursPerNight ?? 1) * 60) / stepMinutes - 1e-9);
@@ -199,7 +205,8 @@ export function seasonMap(
         py = a[1] + (b[1] - a[1]) * u;
         pz = a[2] + (b[2] - a[2]) * u;
       }
-      // Annual aberration, then precession-nutation (inlined `apparentInFrame`; this loop runs millions of times).
+      // 2. Annual aberration, then precession-nutation (inlined `apparentInFrame`: this loop runs
+      // millions of times).
       const be = f.beta;
       const pb = px * be[0] + py * be[1] + pz * be[2];
       let qx = px + be[0] - pb * px,
@@ -220,6 +227,7 @@ export function seasonMap(
       qx = x / rr;
       qy = y / rr;
       qz = z / rr;
+      // 3. Closed-form count of the samples above the limit.
       const dH = f.lastRateRadPerDay * stepDays;
       // Does anything but altitude matter tonight? Mask band, Moon or Sun within reach → test each sample.
       const cosLo = cosLimitHourAngle(sinDec, cosDec, sinLat, cosLat, sinLimit);
@@ -244,6 +252,7 @@ export function seasonMap(
         const s = sunAt(f, n.midDarkJd);
         if (s[0] * qx + s[1] * qy + s[2] * qz > cosSunMargin) needSamples = true;
       }
+      // 4. Per-sample tests.
       if (needSamples) {
         count = 0;
         perSample++;
@@ -273,6 +282,7 @@ export function seasonMap(
           }
         }
       }
+      // 5. The night's hours; the best night so far.
       counts[i] = count;
       hours[i] = (count * stepMinutes) / 60;
       if (count >= bestCount && count > 0) {
@@ -286,6 +296,7 @@ export function seasonMap(
         }
       }
     }
+    // 6. The season's summary and the periapses in it.
     const season = summarise(counts, minSamples, maxGap, dates, bestNight, bestCount, stepMinutes);
     return {
       name: target.name,

@@ -109,6 +109,13 @@ export function keplerianModel(
   withDeriv: boolean,
   relativity: 'own' | 'none',
 ): ModelOutput {
+  // Hot kernel (every LM evaluation, every row): one pass per star and measurement, with the
+  // analytic Jacobian written beside each value. Steps: 1. per star, its orbit, one batch
+  // prediction and the Campbell orientation constants; 2. per measurement, the model value
+  // (velocity share, photocentre scale, frame terms; offsets or separation and angle); 3. with
+  // derivatives, ∂/∂(P, T, e) through Kepler's equation, then ∂/∂(A, B, F, G) or ∂/∂(a, i, Ω, ω),
+  // the photocentre, frame and velocity terms; 4. the row's gradient(s) into the Jacobian
+  // (separation and angle by the chain rule from Δα*, Δδ).
   const np = L.params.length;
   const values = new Float64Array(L.components);
   const deriv = withDeriv ? new Float64Array(L.components * np) : null;
@@ -131,7 +138,7 @@ export function keplerianModel(
       a = orbit.aMas;
     const sq = Math.sqrt(1 - e * e),
       n = TWO_PI / P;
-    // Orientation constants (mas) and their partials for the Campbell form.
+    // 1. (With the orbit and batch prediction above) the Campbell orientation constants, mas.
     const ci = Math.cos(orbit.iRad),
       si = Math.sin(orbit.iRad);
     const cn = Math.cos(orbit.nodeRad),
@@ -150,6 +157,7 @@ export function keplerianModel(
     const gamma = orbit.gammaKmS;
     let row = star.firstComponent;
     for (let m = 0; m < star.obs.length; m++) {
+      // 2. The model value of this measurement.
       const ob = star.obs[m]!;
       const tau = (ob.jd - L.frameEpochJd) / JULIAN_YEAR_DAYS;
       const [share, dShare] = velocityShare(ob.component, massRatio);
@@ -168,6 +176,7 @@ export function keplerianModel(
           values[row + 1] = Math.atan2(x, y);
         }
       }
+      // 3. Its gradient over every parameter.
       if (deriv) {
         gx.fill(0);
         gy.fill(0);
@@ -251,6 +260,7 @@ export function keplerianModel(
           if (s.q >= 0) gv[s.q] = dShare * vk;
           if (sys.gamma >= 0) gv[sys.gamma] = 1;
         }
+        // 4. Into the Jacobian.
         const base = row * np;
         if (ob.kind === 'radial-velocity') {
           deriv.set(gv, base);
