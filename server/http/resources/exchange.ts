@@ -55,8 +55,24 @@ const KindParam = z.object({
 /** Who may import what: orbit solutions and targets are the lead's, measurements the observers'. */
 const IMPORT_ROLE = { targets: 'lead', orbits: 'lead', measurements: 'observer' } as const;
 
+type ResourceApp = ReturnType<typeof resourceApp>;
+
 export function exchangeRoutes(store: Store, run: Runner) {
   const app = resourceApp();
+  for (const add of [
+    addImport,
+    addMeasurementsExport,
+    addOrbitsExport,
+    addArchiveExport,
+    addCalendarFeed,
+    addFeedTokens,
+  ])
+    add(app, store, run);
+  return app;
+}
+
+/** A CSV import of one kind, all rows or none; measurements are parsed and checked on a worker. */
+function addImport(app: ResourceApp, store: Store, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -101,6 +117,10 @@ export function exchangeRoutes(store: Store, run: Runner) {
       return c.json(report, 200);
     },
   );
+}
+
+/** Measurements as CSV (on a worker) or JSON. */
+function addMeasurementsExport(app: ResourceApp, store: Store, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -127,6 +147,10 @@ export function exchangeRoutes(store: Store, run: Runner) {
       });
     },
   );
+}
+
+/** Orbit solutions as CSV in the import layout. */
+function addOrbitsExport(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -151,6 +175,10 @@ export function exchangeRoutes(store: Store, run: Runner) {
       });
     },
   );
+}
+
+/** Every stored record but the tokens, as one JSON file (lead only). */
+function addArchiveExport(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -183,6 +211,10 @@ export function exchangeRoutes(store: Store, run: Runner) {
       return c.json(archive, 200);
     },
   );
+}
+
+/** A campaign's iCalendar feed, flags as of `at`. */
+function addCalendarFeed(app: ResourceApp, store: Store, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -207,6 +239,10 @@ export function exchangeRoutes(store: Store, run: Runner) {
       return c.body(text, 200, { 'content-type': 'text/calendar; charset=utf-8' });
     },
   );
+}
+
+/** A read-only token for one campaign's feed. */
+function addFeedTokens(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -259,5 +295,4 @@ export function exchangeRoutes(store: Store, run: Runner) {
       );
     },
   );
-  return app;
 }
