@@ -217,6 +217,62 @@ const StoredAccept = z
 
 export function fitRoutes(run: Runner, store?: Store) {
   const app = resourceApp();
+  addBodyFit(app, run);
+  addBodyResiduals(app, run);
+  if (!store) return app;
+  for (const path of [
+    '/targets/:id/fit',
+    '/targets/:id/fit/accept',
+    '/targets/:id/fit/residuals',
+    '/systems/:id/fit',
+    '/systems/:id/fit/accept',
+    '/systems/:id/fit/residuals',
+  ])
+    app.use(path, identify(store));
+  for (const scope of ['target', 'system'] as const) {
+    const on: StoredFit = {
+      run,
+      store,
+      scope,
+      base: scope === 'target' ? '/targets/{id}/fit' : '/systems/{id}/fit',
+      what:
+        scope === 'target'
+          ? 'a target’s stored measurements'
+          : 'the stored measurements of a system’s targets jointly (shared mass, distance, γ)',
+    };
+    addStoredPreview(app, on);
+    addStoredResiduals(app, on);
+    addStoredAccept(app, on);
+  }
+  return app;
+}
+
+type ResourceApp = ReturnType<typeof resourceApp>;
+
+/** What the stored-fit routes of one scope share. */
+interface StoredFit {
+  run: Runner;
+  store: Store;
+  scope: 'target' | 'system';
+  /** The routes' path, `/targets/{id}/fit` or `/systems/{id}/fit`. */
+  base: string;
+  /** What is fitted, in the summaries' words. */
+  what: string;
+}
+
+/** The targets a stored fit fits: the target itself, or the system's (all, or those listed). */
+function targetsOf(on: StoredFit, id: number, only?: number[]): Promise<number[]> | number[] {
+  if (on.scope === 'target' && only)
+    throw new HttpError(
+      400,
+      'invalid_request',
+      'targetIds: belongs to system fits; a target fit fits its own target',
+    );
+  return on.scope === 'target' ? [id] : on.store.fits.systemTargetIds(id, only);
+}
+
+/** Fit the measurements in the body. */
+function addBodyFit(app: ResourceApp, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -231,6 +287,10 @@ export function fitRoutes(run: Runner, store?: Store) {
       return c.json(await run('fitPage', request as FitRequest, residualPage), 200);
     },
   );
+}
+
+/** Fit the body and answer every residual as CSV. */
+function addBodyResiduals(app: ResourceApp, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -245,99 +305,84 @@ export function fitRoutes(run: Runner, store?: Store) {
       return csvAnswer(c, await run('fitResidualsCsv', request as FitRequest));
     },
   );
-  if (!store) return app;
-  for (const path of [
-    '/targets/:id/fit',
-    '/targets/:id/fit/accept',
-    '/targets/:id/fit/residuals',
-    '/systems/:id/fit',
-    '/systems/:id/fit/accept',
-    '/systems/:id/fit/residuals',
-  ])
-    app.use(path, identify(store));
-  const targetsOf = async (id: number, scope: 'target' | 'system', only?: number[]) => {
-    if (scope === 'target' && only)
-      throw new HttpError(
-        400,
-        'invalid_request',
-        'targetIds: belongs to system fits; a target fit fits its own target',
+}
+
+/** Fit stored measurements, storing nothing. */
+function addStoredPreview(app: ResourceApp, on: StoredFit): void {
+  app.openapi(
+    createRoute({
+      method: 'post',
+      path: on.base,
+      tags,
+      security,
+      summary: `Fit ${on.what} (preview, nothing stored)`,
+      request: { params: IdParam, ...body(StoredBody) },
+      responses: {
+        200: json(StoredPreview, 'the targets and measurements fitted, and the fit'),
+        ...errorResponses,
+      },
+    }),
+    async (c) => {
+      requireRole(c, 'viewer');
+      const { notes: _notes, targetIds, residualPage, ...options } = c.req.valid('json');
+      const ids = await targetsOf(on, c.req.valid('param').id, targetIds);
+      const prepared = await on.store.fits.prepare(ids, options);
+      return c.json(
+        {
+          targets: prepared.targets,
+          result: await on.run('fitPage', prepared.request, residualPage),
+        },
+        200,
       );
-    return scope === 'target' ? [id] : store.fits.systemTargetIds(id, only);
-  };
-  for (const scope of ['target', 'system'] as const) {
-    const base = scope === 'target' ? '/targets/{id}/fit' : '/systems/{id}/fit';
-    const what =
-      scope === 'target'
-        ? 'a target’s stored measurements'
-        : 'the stored measurements of a system’s targets jointly (shared mass, distance, γ)';
-    app.openapi(
-      createRoute({
-        method: 'post',
-        path: base,
-        tags,
-        security,
-        summary: `Fit ${what} (preview, nothing stored)`,
-        request: { params: IdParam, ...body(StoredBody) },
-        responses: {
-          200: json(StoredPreview, 'the targets and measurements fitted, and the fit'),
-          ...errorResponses,
-        },
-      }),
-      async (c) => {
-        requireRole(c, 'viewer');
-        const { notes: _notes, targetIds, residualPage, ...options } = c.req.valid('json');
-        const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
-        const prepared = await store.fits.prepare(ids, options);
-        return c.json(
-          {
-            targets: prepared.targets,
-            result: await run('fitPage', prepared.request, residualPage),
-          },
-          200,
-        );
+    },
+  );
+}
+
+/** Fit stored measurements and answer every residual as CSV. */
+function addStoredResiduals(app: ResourceApp, on: StoredFit): void {
+  app.openapi(
+    createRoute({
+      method: 'post',
+      path: `${on.base}/residuals`,
+      tags,
+      security,
+      summary: `Fit ${on.what} and answer every residual as CSV (preview, nothing stored)`,
+      request: { params: IdParam, ...body(StoredBody) },
+      responses: { 200: residualCsv, ...errorResponses },
+    }),
+    async (c) => {
+      requireRole(c, 'viewer');
+      const { notes: _notes, targetIds, residualPage: _page, ...options } = c.req.valid('json');
+      const ids = await targetsOf(on, c.req.valid('param').id, targetIds);
+      const prepared = await on.store.fits.prepare(ids, options);
+      return csvAnswer(c, await on.run('fitResidualsCsv', prepared.request));
+    },
+  );
+}
+
+/** Fit stored measurements and store the result as new current versions. */
+function addStoredAccept(app: ResourceApp, on: StoredFit): void {
+  app.openapi(
+    createRoute({
+      method: 'post',
+      path: `${on.base}/accept`,
+      tags,
+      security,
+      summary: `Fit ${on.what} and store the result as new current orbit-solution versions (lead)`,
+      request: { params: IdParam, ...body(StoredBody) },
+      responses: {
+        201: json(StoredAccept, 'the stored versions and the fit'),
+        ...errorResponses,
       },
-    );
-    app.openapi(
-      createRoute({
-        method: 'post',
-        path: `${base}/residuals`,
-        tags,
-        security,
-        summary: `Fit ${what} and answer every residual as CSV (preview, nothing stored)`,
-        request: { params: IdParam, ...body(StoredBody) },
-        responses: { 200: residualCsv, ...errorResponses },
-      }),
-      async (c) => {
-        requireRole(c, 'viewer');
-        const { notes: _notes, targetIds, residualPage: _page, ...options } = c.req.valid('json');
-        const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
-        const prepared = await store.fits.prepare(ids, options);
-        return csvAnswer(c, await run('fitResidualsCsv', prepared.request));
-      },
-    );
-    app.openapi(
-      createRoute({
-        method: 'post',
-        path: `${base}/accept`,
-        tags,
-        security,
-        summary: `Fit ${what} and store the result as new current orbit-solution versions (lead)`,
-        request: { params: IdParam, ...body(StoredBody) },
-        responses: {
-          201: json(StoredAccept, 'the stored versions and the fit'),
-          ...errorResponses,
-        },
-      }),
-      async (c) => {
-        const actor = writer(c, 'lead');
-        const { notes, targetIds, residualPage, ...options } = c.req.valid('json');
-        const ids = await targetsOf(c.req.valid('param').id, scope, targetIds);
-        const prepared = await store.fits.prepare(ids, options);
-        const result = await run('fitPage', prepared.request, residualPage);
-        const solutions = await store.fits.accept(actor, prepared, result, notes ?? '');
-        return c.json({ solutions, result }, 201);
-      },
-    );
-  }
-  return app;
+    }),
+    async (c) => {
+      const actor = writer(c, 'lead');
+      const { notes, targetIds, residualPage, ...options } = c.req.valid('json');
+      const ids = await targetsOf(on, c.req.valid('param').id, targetIds);
+      const prepared = await on.store.fits.prepare(ids, options);
+      const result = await on.run('fitPage', prepared.request, residualPage);
+      const solutions = await on.store.fits.accept(actor, prepared, result, notes ?? '');
+      return c.json({ solutions, result }, 201);
+    },
+  );
 }
