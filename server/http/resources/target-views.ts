@@ -70,6 +70,16 @@ const EventsQuery = z.object({
 
 export function targetViewRoutes(store: Store, run: Runner) {
   const app = resourceApp();
+  addEphemeris(app, store, run);
+  addEvents(app, store, run);
+  addForecast(app, store, run);
+  return app;
+}
+
+type ResourceApp = ReturnType<typeof resourceApp>;
+
+/** A target's ephemeris from its current solution, JSON or CSV. */
+function addEphemeris(app: ResourceApp, store: Store, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -109,6 +119,10 @@ export function targetViewRoutes(store: Store, run: Runner) {
       );
     },
   );
+}
+
+/** A target's periapses and other events with their uncertainty. */
+function addEvents(app: ResourceApp, store: Store, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -139,6 +153,10 @@ export function targetViewRoutes(store: Store, run: Runner) {
       return c.json({ solution: { id: solution.id, version: solution.version }, events }, 200);
     },
   );
+}
+
+/** When the relativity factors become detectable with the planned blocks. */
+function addForecast(app: ResourceApp, store: Store, run: Runner): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -170,5 +188,4 @@ export function targetViewRoutes(store: Store, run: Runner) {
       return c.json(forecast, 200);
     },
   );
-  return app;
 }
