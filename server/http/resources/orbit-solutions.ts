@@ -41,6 +41,18 @@ const Filters = PageQuery.extend({
 
 export function orbitSolutionRoutes(store: Store) {
   const app = resourceApp();
+  addSolutionList(app, store);
+  addSolutionRead(app, store);
+  addSolutionCreate(app, store);
+  addSolutionCurrent(app, store);
+  addSolutionDelete(app, store);
+  return app;
+}
+
+type ResourceApp = ReturnType<typeof resourceApp>;
+
+/** Orbit solutions, every version. */
+function addSolutionList(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -58,6 +70,10 @@ export function orbitSolutionRoutes(store: Store) {
       return c.json(await store.orbitSolutions.list(filter, page), 200);
     },
   );
+}
+
+/** One orbit solution. */
+function addSolutionRead(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -73,6 +89,10 @@ export function orbitSolutionRoutes(store: Store) {
       return c.json(await store.orbitSolutions.get(c.req.valid('param').id), 200);
     },
   );
+}
+
+/** A new version of a target's orbit, checked by the orbit engine. */
+function addSolutionCreate(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -88,6 +108,10 @@ export function orbitSolutionRoutes(store: Store) {
       return c.json(await store.orbitSolutions.create(actor, c.req.valid('json')), 201);
     },
   );
+}
+
+/** Make a version its target's current solution. */
+function addSolutionCurrent(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -103,6 +127,10 @@ export function orbitSolutionRoutes(store: Store) {
       return c.json(await store.orbitSolutions.makeCurrent(actor, c.req.valid('param').id), 200);
     },
   );
+}
+
+/** Delete a version that is not current. */
+function addSolutionDelete(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'delete',
@@ -119,5 +147,4 @@ export function orbitSolutionRoutes(store: Store) {
       return c.body(null, 204);
     },
   );
-  return app;
 }
