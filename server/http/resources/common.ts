@@ -71,12 +71,21 @@ export interface ResourceSpec<T, Q extends z.ZodObject> {
 
 /** The five routes of a plain resource. Versioned resources take `version` in the PATCH body. */
 export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
-  const { path, tag, repo, writeRole } = spec;
-  const view = spec.view ?? (async (r: T) => r);
-  const versioned = repo.entity.versioned;
-  const patchBody = versioned ? spec.patch.extend(VersionField.shape) : spec.patch;
-  const one = `${path}/{id}`;
   const app = resourceApp();
+  const view = spec.view ?? (async (r: T) => r);
+  addCrudReads(app, spec, view);
+  addCrudWrites(app, spec, view);
+  return app;
+}
+
+/** The list (one page, filtered) and the one-record read. */
+function addCrudReads<T, Q extends z.ZodObject>(
+  app: ReturnType<typeof resourceApp>,
+  spec: ResourceSpec<T, Q>,
+  view: (r: T) => Promise<unknown>,
+): void {
+  const { path, tag, repo } = spec;
+  const one = `${path}/{id}`;
   app.openapi(
     createRoute({
       method: 'get',
@@ -111,6 +120,18 @@ export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
       return c.json(await view(await repo.get(c.req.valid('param').id)), 200);
     },
   );
+}
+
+/** Create, change (with the version read, for versioned entities) and delete, by the writing role. */
+function addCrudWrites<T, Q extends z.ZodObject>(
+  app: ReturnType<typeof resourceApp>,
+  spec: ResourceSpec<T, Q>,
+  view: (r: T) => Promise<unknown>,
+): void {
+  const { path, tag, repo, writeRole } = spec;
+  const versioned = repo.entity.versioned;
+  const patchBody = versioned ? spec.patch.extend(VersionField.shape) : spec.patch;
+  const one = `${path}/{id}`;
   app.openapi(
     createRoute({
       method: 'post',
@@ -167,7 +188,6 @@ export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
       return c.body(null, 204);
     },
   );
-  return app;
 }
 
 /** A PATCH body: every field optional, no defaults (a missing field stays as stored), no unknown keys. */
