@@ -100,13 +100,27 @@ export async function campaignCalendar(
     startJd: parseEpoch(`${campaign.startDate}T00:00Z`, 'startDate'),
     endJd: parseEpoch(`${campaign.endDate}T00:00Z`, 'endDate') + 1 + 365.25,
     uidSuffix: `-c${campaign.id}-${key}@${UID_DOMAIN}`,
-    nights: [],
-    blocks: [],
+    nights: await nightEvents(db, campaignId),
+    blocks: await blockEvents(db, campaignId),
     passages: [],
     blends: [],
   };
+  const shownOf = await passageEvents(db, targetIds, feed.passages);
+  feed.blends = await blendEvents(db, campaign, options, run, shownOf);
+  // The darkness, the passages and the text where `run` puts them (the server: the pool).
+  return run('calendarText', feed);
+}
 
-  // One event per allocated site-night, in the site's zone.
+/** What a target's events show: a key by its id, and the revisions of its name and solution. */
+interface Shown {
+  key: string;
+  created: string;
+  changes: string[];
+}
+
+/** One event per allocated site-night, in the site's zone. */
+async function nightEvents(db: DbOrTx, campaignId: number): Promise<CalendarFeed['nights']> {
+  const out: CalendarFeed['nights'] = [];
   const nightRows = await db
     .select({ n: nights, s: sites })
     .from(nights)
@@ -114,14 +128,19 @@ export async function campaignCalendar(
     .where(eq(nights.campaignId, campaignId))
     .orderBy(nights.date, sites.name);
   for (const { n, s } of nightRows)
-    feed.nights.push({
+    out.push({
       id: `night-${n.id}`,
       ...revision(n.createdAt, [n.updatedAt, s.updatedAt]),
       date: n.date,
       site: s,
       notes: n.notes,
     });
+  return out;
+}
 
+/** One event per block, with its night, target and status; the laser caution where it applies. */
+async function blockEvents(db: DbOrTx, campaignId: number): Promise<CalendarFeed['blocks']> {
+  const out: CalendarFeed['blocks'] = [];
   const blockRows = await db
     .select({ b: blocks, n: nights, s: sites, t: targets, y: systems })
     .from(blocks)
@@ -132,7 +151,7 @@ export async function campaignCalendar(
     .where(eq(nights.campaignId, campaignId))
     .orderBy(blocks.startUtc);
   for (const r of blockRows)
-    feed.blocks.push({
+    out.push({
       id: `block-${r.b.id}`,
       ...revision(
         r.b.createdAt,
@@ -151,10 +170,20 @@ export async function campaignCalendar(
         .filter(Boolean)
         .join('\n'),
     });
+  return out;
+}
 
-  // Periapsis passages of each current orbit (computed with the text, calendar-text.ts).
+/**
+ * The periapsis passages of each current orbit, into `passages` (computed with the text,
+ * calendar-text.ts); returns what each target's events show (its key and its revisions) by name.
+ */
+async function passageEvents(
+  db: DbOrTx,
+  targetIds: number[],
+  passages: CalendarFeed['passages'],
+): Promise<Map<string, Shown>> {
   // What a target's events show: its name, its system's, its current solution.
-  const shownOf = new Map<string, { key: string; created: string; changes: string[] }>();
+  const shownOf = new Map<string, Shown>();
   if (targetIds.length) {
     const named = await db
       .select({ t: targets, y: systems })
@@ -190,7 +219,7 @@ export async function campaignCalendar(
         ].filter((x): x is string => x !== null),
       };
       shownOf.set(t.name, shown);
-      feed.passages.push({
+      passages.push({
         uidPrefix: `periapsis-t${t.id}-p`,
         name: t.name,
         system: t.system,
@@ -200,12 +229,24 @@ export async function campaignCalendar(
       });
     }
   }
+  return shownOf;
+}
 
-  // Flags with a date of their own: blend risk spans. Periapsis flags repeat the passages above,
-  // stale predictions date from the moment they are computed: neither is an event.
+/**
+ * Flags with a date of their own: blend risk spans. Periapsis flags repeat the passages, stale
+ * predictions date from the moment they are computed: neither is an event.
+ */
+async function blendEvents(
+  db: DbOrTx,
+  campaign: { id: number; createdAt: string; updatedAt: string },
+  options: CalendarOptions,
+  run: Runner,
+  shownOf: Map<string, Shown>,
+): Promise<CalendarFeed['blends']> {
+  const out: CalendarFeed['blends'] = [];
   const { flags } = await campaignFlags(
     db,
-    campaignId,
+    campaign.id,
     { nowJd: options.flagsAtJd ?? nowJd() },
     run,
   );
@@ -215,7 +256,7 @@ export async function campaignCalendar(
     const a = shownOf.get(f.target);
     const b = shownOf.get(f.blend.other);
     const pair = [a?.key ?? hashed(f.target), b?.key ?? hashed(f.blend.other)].join('-');
-    feed.blends.push({
+    out.push({
       id: `blend-${pair}-${f.blend.start.slice(0, 10).replace(/-/g, '')}`,
       ...revision(campaign.createdAt, [
         campaign.updatedAt,
@@ -228,8 +269,7 @@ export async function campaignCalendar(
       description: f.reason,
     });
   }
-  // The darkness, the passages and the text where `run` puts them (the server: the pool).
-  return run('calendarText', feed);
+  return out;
 }
 
 const hashed = (name: string) => createHash('sha256').update(name).digest('hex').slice(0, 8);
