@@ -88,32 +88,6 @@ async function keepOneLeadToken(tx: Tx, revokedId: number): Promise<void> {
 }
 
 export function userRepository(db: Db) {
-  const issue = async (
-    tx: Parameters<Parameters<Db['transaction']>[0]>[0],
-    actor: Actor,
-    user: UserRow,
-    rawLabel: string,
-    feedCampaignId: number | null = null,
-  ): Promise<IssuedToken> => {
-    const label = parseInput(TokenLabel, rawLabel, 'label');
-    const secret = TOKEN_PREFIX + randomBytes(32).toString('base64url');
-    const [row] = await tx
-      .insert(tokens)
-      .values({
-        userId: user.id,
-        hash: hashToken(secret),
-        label,
-        createdAt: nowIso(),
-        feedCampaignId,
-      })
-      .returning();
-    await recordAudit(tx, actor, 'create', 'token', row!.id, {
-      userId: user.id,
-      label,
-      ...(feedCampaignId === null ? {} : { feedCampaignId }),
-    });
-    return { user, tokenId: row!.id, secret };
-  };
   return {
     entity: userEntity,
     list: (page?: { limit?: number; offset?: number }) => list(db, userEntity, [], page),
@@ -145,23 +119,7 @@ export function userRepository(db: Db) {
         return issue(tx, actor, user, label, campaignId);
       }),
     /** Revoke an active token; returns what was revoked (never the hash). */
-    revokeToken: (actor: Actor, tokenId: number): Promise<TokenListing> =>
-      db.transaction(async (tx) => {
-        const done = await tx
-          .update(tokens)
-          .set({ revokedAt: nowIso() })
-          .where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt)))
-          .returning({ id: tokens.id });
-        if (done.length === 0) throw new NotFoundError('active token', tokenId);
-        await keepOneLeadToken(tx, tokenId);
-        await recordAudit(tx, actor, 'update', 'token', tokenId, { revoked: true });
-        const [row] = await tx
-          .select(listing)
-          .from(tokens)
-          .innerJoin(users, eq(users.id, tokens.userId))
-          .where(eq(tokens.id, tokenId));
-        return row!;
-      }),
+    revokeToken: (actor: Actor, tokenId: number) => revokeToken(db, actor, tokenId),
     /** Every token (or one user's, by name), oldest first: id, owner, label and dates; never the hash. */
     listTokens: async (userName?: string): Promise<TokenListing[]> => {
       if (
@@ -177,22 +135,8 @@ export function userRepository(db: Db) {
         .where(userName === undefined ? undefined : eq(users.name, userName))
         .orderBy(asc(tokens.id));
     },
-    /** The user a bearer secret belongs to and the token's id, or null when it is unknown, revoked or a feed token. */
-    authenticate: async (secret: string): Promise<{ user: UserRow; tokenId: number } | null> => {
-      const rows = await db
-        .select({ user: users, tokenId: tokens.id })
-        .from(tokens)
-        .innerJoin(users, eq(users.id, tokens.userId))
-        .where(
-          and(
-            eq(tokens.hash, hashToken(secret)),
-            isNull(tokens.revokedAt),
-            isNull(tokens.feedCampaignId),
-          ),
-        )
-        .limit(1);
-      return rows[0] ?? null;
-    },
+    /** The user a bearer secret belongs to, or null (unknown, revoked or a feed token). */
+    authenticate: (secret: string) => authenticate(db, secret),
     /** The campaign an active feed token opens, or null when the secret is no active feed token. */
     feedCampaignOf: async (secret: string): Promise<number | null> => {
       const [row] = await db
@@ -203,4 +147,71 @@ export function userRepository(db: Db) {
       return row?.campaignId ?? null;
     },
   };
+}
+
+async function issue(
+  tx: Tx,
+  actor: Actor,
+  user: UserRow,
+  rawLabel: string,
+  feedCampaignId: number | null = null,
+): Promise<IssuedToken> {
+  const label = parseInput(TokenLabel, rawLabel, 'label');
+  const secret = TOKEN_PREFIX + randomBytes(32).toString('base64url');
+  const [row] = await tx
+    .insert(tokens)
+    .values({
+      userId: user.id,
+      hash: hashToken(secret),
+      label,
+      createdAt: nowIso(),
+      feedCampaignId,
+    })
+    .returning();
+  await recordAudit(tx, actor, 'create', 'token', row!.id, {
+    userId: user.id,
+    label,
+    ...(feedCampaignId === null ? {} : { feedCampaignId }),
+  });
+  return { user, tokenId: row!.id, secret };
+}
+
+/** Revoke an active token; returns what was revoked (never the hash). */
+function revokeToken(db: Db, actor: Actor, tokenId: number): Promise<TokenListing> {
+  return db.transaction(async (tx) => {
+    const done = await tx
+      .update(tokens)
+      .set({ revokedAt: nowIso() })
+      .where(and(eq(tokens.id, tokenId), isNull(tokens.revokedAt)))
+      .returning({ id: tokens.id });
+    if (done.length === 0) throw new NotFoundError('active token', tokenId);
+    await keepOneLeadToken(tx, tokenId);
+    await recordAudit(tx, actor, 'update', 'token', tokenId, { revoked: true });
+    const [row] = await tx
+      .select(listing)
+      .from(tokens)
+      .innerJoin(users, eq(users.id, tokens.userId))
+      .where(eq(tokens.id, tokenId));
+    return row!;
+  });
+}
+
+/** The user a bearer secret belongs to and the token's id; null when unknown, revoked or a feed token. */
+async function authenticate(
+  db: Db,
+  secret: string,
+): Promise<{ user: UserRow; tokenId: number } | null> {
+  const rows = await db
+    .select({ user: users, tokenId: tokens.id })
+    .from(tokens)
+    .innerJoin(users, eq(users.id, tokens.userId))
+    .where(
+      and(
+        eq(tokens.hash, hashToken(secret)),
+        isNull(tokens.revokedAt),
+        isNull(tokens.feedCampaignId),
+      ),
+    )
+    .limit(1);
+  return rows[0] ?? null;
 }
