@@ -42,55 +42,6 @@ async function setCurrent(tx: DbOrTx, targetId: number, solutionId: number): Pro
 }
 
 export function orbitSolutionRepository(db: Db) {
-  const createIn = async (tx: DbOrTx, actor: Actor, input: unknown): Promise<OrbitSolutionRow> => {
-    const s = parseInput(OrbitSolutionInput, input);
-    validateOrbit(s.orbit as unknown as OrbitInput, 'orbit');
-    await requireRef(tx, targetEntity, 'targetId', s.targetId);
-    if (s.provenance === 'fitted' && !(s.fittedFrom && s.fittedFrom.length > 0)) {
-      throw new InputError(
-        'fittedFrom',
-        s.fittedFrom,
-        'must list the measurements a fitted solution used',
-      );
-    }
-    for (const [k, m] of (s.fittedFrom ?? []).entries()) {
-      const row = await requireRef(tx, measurementEntity, `fittedFrom.${k}`, m);
-      if (row.targetId !== s.targetId)
-        throw new InputError(
-          `fittedFrom.${k}`,
-          m,
-          `is a measurement of target ${row.targetId}, not ${s.targetId}`,
-        );
-    }
-    const [{ last }] = (await tx
-      .select({ last: max(orbitSolutions.version) })
-      .from(orbitSolutions)
-      .where(eq(orbitSolutions.targetId, s.targetId))) as [{ last: number | null }];
-    const version = (last ?? 0) + 1;
-    const makeCurrent = s.makeCurrent || last === null;
-    const [row] = await tx
-      .insert(orbitSolutions)
-      .values({
-        targetId: s.targetId,
-        version,
-        current: false,
-        orbit: s.orbit as unknown as OrbitInput,
-        provenance: s.provenance,
-        fittedFrom: s.fittedFrom ?? null,
-        reference: s.reference,
-        notes: s.notes,
-        createdBy: actor.userId,
-        createdAt: nowIso(),
-      })
-      .returning();
-    if (makeCurrent) await setCurrent(tx, s.targetId, row!.id);
-    await recordAudit(tx, actor, 'create', 'orbit solution', row!.id, {
-      targetId: s.targetId,
-      version,
-      provenance: s.provenance,
-    });
-    return { ...row!, current: makeCurrent };
-  };
   return {
     entity: orbitSolutionEntity,
     list: (filter: OrbitSolutionFilter = {}, page?: PageRequest): Promise<Page<OrbitSolutionRow>> =>
@@ -127,6 +78,60 @@ export function orbitSolutionRepository(db: Db) {
       await remove(db, orbitSolutionEntity, actor, id);
     },
   };
+}
+
+/**
+ * A new version of a target's orbit inside `tx`: checked by the orbit engine, a fitted one with
+ * the target's own measurements; the first version (or one asked to be) becomes current.
+ */
+async function createIn(tx: DbOrTx, actor: Actor, input: unknown): Promise<OrbitSolutionRow> {
+  const s = parseInput(OrbitSolutionInput, input);
+  validateOrbit(s.orbit as unknown as OrbitInput, 'orbit');
+  await requireRef(tx, targetEntity, 'targetId', s.targetId);
+  if (s.provenance === 'fitted' && !(s.fittedFrom && s.fittedFrom.length > 0)) {
+    throw new InputError(
+      'fittedFrom',
+      s.fittedFrom,
+      'must list the measurements a fitted solution used',
+    );
+  }
+  for (const [k, m] of (s.fittedFrom ?? []).entries()) {
+    const row = await requireRef(tx, measurementEntity, `fittedFrom.${k}`, m);
+    if (row.targetId !== s.targetId)
+      throw new InputError(
+        `fittedFrom.${k}`,
+        m,
+        `is a measurement of target ${row.targetId}, not ${s.targetId}`,
+      );
+  }
+  const [{ last }] = (await tx
+    .select({ last: max(orbitSolutions.version) })
+    .from(orbitSolutions)
+    .where(eq(orbitSolutions.targetId, s.targetId))) as [{ last: number | null }];
+  const version = (last ?? 0) + 1;
+  const makeCurrent = s.makeCurrent || last === null;
+  const [row] = await tx
+    .insert(orbitSolutions)
+    .values({
+      targetId: s.targetId,
+      version,
+      current: false,
+      orbit: s.orbit as unknown as OrbitInput,
+      provenance: s.provenance,
+      fittedFrom: s.fittedFrom ?? null,
+      reference: s.reference,
+      notes: s.notes,
+      createdBy: actor.userId,
+      createdAt: nowIso(),
+    })
+    .returning();
+  if (makeCurrent) await setCurrent(tx, s.targetId, row!.id);
+  await recordAudit(tx, actor, 'create', 'orbit solution', row!.id, {
+    targetId: s.targetId,
+    version,
+    provenance: s.provenance,
+  });
+  return { ...row!, current: makeCurrent };
 }
 
 /** The current solution of a target and its validated orbit. */
