@@ -80,7 +80,42 @@ export async function targetForecast(
       `target ${targetId}'s current solution has no distance; a forecast of the relativistic terms needs one`,
     );
   const rows = await db.select().from(measurements).where(eq(measurements.targetId, targetId));
-  const planned = await db
+  const planned = await plannedBlocks(db, targetId, options.atJd);
+  const [placed] = await db
+    .select({ t: targets, s: systems })
+    .from(targets)
+    .innerJoin(systems, eq(systems.id, targets.systemId))
+    .where(eq(targets.id, targetId));
+  const target = await placedTarget(db, placed!.t, placed!.s);
+  const given = options.precision ?? {};
+  const { counted, notCounted, plan } = planEpochs(planned, target, given);
+  const zenith = precisionModel([given]);
+  // The Fisher matrix over every measurement runs where `run` puts it (the server: the pool).
+  const forecast = await run('forecastDetection', {
+    orbit,
+    measurements: rows.map(toInput),
+    plan,
+    precision: { astrometryMas: zenith.astrometryMas, spectroscopyKmS: zenith.spectroscopyKmS },
+  });
+  const text = precisionText(counted, notCounted);
+  return {
+    ...forecast,
+    solution: { id: solution.id, version: solution.version },
+    at: jdToIso(options.atJd),
+    precision: {
+      source:
+        "each planned block at the season planner's precision: its site's model (under the request's, then its campaign's zenith values) × airmass^0.6 at the block's middle",
+      text,
+      epochs: counted,
+      notCounted,
+    },
+    blockIds: counted.map((e) => e.blockId),
+  };
+}
+
+/** The target's planned blocks from `atJd` on, with their nights, sites and campaigns. */
+function plannedBlocks(db: DbOrTx, targetId: number, atJd: number) {
+  return db
     .select({ b: blocks, n: nights, s: sites, c: campaigns })
     .from(blocks)
     .innerJoin(nights, eq(nights.id, blocks.nightId))
@@ -90,19 +125,27 @@ export async function targetForecast(
       and(
         eq(blocks.targetId, targetId),
         eq(blocks.status, 'planned'),
-        gte(blocks.startUtc, jdToIso(options.atJd)),
+        gte(blocks.startUtc, jdToIso(atJd)),
       ),
     )
     .orderBy(blocks.startUtc);
-  const [placed] = await db
-    .select({ t: targets, s: systems })
-    .from(targets)
-    .innerJoin(systems, eq(systems.id, targets.systemId))
-    .where(eq(targets.id, targetId));
-  const target = await placedTarget(db, placed!.t, placed!.s);
-  const given = options.precision ?? {};
-  const counted: TargetForecast['precision']['epochs'] = [];
-  const notCounted: TargetForecast['precision']['notCounted'] = [];
+}
+
+type Counted = TargetForecast['precision']['epochs'];
+type NotCounted = TargetForecast['precision']['notCounted'];
+
+/**
+ * Each planned block at its middle: open, it counts with the season planner's precision there
+ * (its site's model under the request's, then its campaign's, × airmass^0.6); closed, it is
+ * listed with the reason.
+ */
+function planEpochs(
+  planned: Awaited<ReturnType<typeof plannedBlocks>>,
+  target: Awaited<ReturnType<typeof placedTarget>>,
+  given: NonNullable<TargetForecastOptions['precision']>,
+): { counted: Counted; notCounted: NotCounted; plan: ForecastEpoch[] } {
+  const counted: Counted = [];
+  const notCounted: NotCounted = [];
   const plan: ForecastEpoch[] = [];
   for (const { b, n, s, c } of planned) {
     const jd = (parseEpoch(b.startUtc) + parseEpoch(b.endUtc)) / 2;
@@ -130,14 +173,11 @@ export async function targetForecast(
     });
     plan.push({ jd, kind: b.kind, sigma });
   }
-  const zenith = precisionModel([given]);
-  // The Fisher matrix over every measurement runs where `run` puts it (the server: the pool).
-  const forecast = await run('forecastDetection', {
-    orbit,
-    measurements: rows.map(toInput),
-    plan,
-    precision: { astrometryMas: zenith.astrometryMas, spectroscopyKmS: zenith.spectroscopyKmS },
-  });
+  return { counted, notCounted, plan };
+}
+
+/** The precision in words: each kind's σ range over the counted epochs, then what was not counted. */
+function precisionText(counted: Counted, notCounted: NotCounted): string {
   const range = (unit: 'mas' | 'km/s', what: string) => {
     const xs = counted.filter((e) => e.unit === unit).map((e) => e.sigma);
     if (xs.length === 0) return null;
@@ -148,18 +188,5 @@ export async function targetForecast(
   };
   const ranges = [range('mas', 'astrometry'), range('km/s', 'radial velocity')].filter(Boolean);
   const left = notCounted.map((e) => `${e.site} ${e.night} ${e.kind}: ${e.reason}`);
-  const text = `${ranges.length ? ranges.join(', ') : 'no planned epoch counted'}${left.length ? `; not counted (closed at the block's middle): ${left.join('; ')}` : ''}`;
-  return {
-    ...forecast,
-    solution: { id: solution.id, version: solution.version },
-    at: jdToIso(options.atJd),
-    precision: {
-      source:
-        "each planned block at the season planner's precision: its site's model (under the request's, then its campaign's zenith values) × airmass^0.6 at the block's middle",
-      text,
-      epochs: counted,
-      notCounted,
-    },
-    blockIds: counted.map((e) => e.blockId),
-  };
+  return `${ranges.length ? ranges.join(', ') : 'no planned epoch counted'}${left.length ? `; not counted (closed at the block's middle): ${left.join('; ')}` : ''}`;
 }
