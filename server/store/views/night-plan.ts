@@ -104,39 +104,9 @@ async function prepare(
   const keptBlocks = state!.blocks.filter((b) => b.kept !== null);
   const kept: KeptBlock[] = keptBlocks.map(({ block }) => asKeptBlock(block, names));
   const fromCampaign = request.candidates === undefined;
-  // The request's candidates as the scheduler reads them (it checks them again: the same errors).
-  let candidates: CandidateInput[] = fromCampaign
-    ? []
-    : checkCandidates(request.candidates, targets).map((c) => ({
-        id: c.id,
-        target: c.targetName,
-        kind: c.kind,
-        durationMinutes: c.durationMinutes,
-        priority: c.priority,
-        ...(c.highestAirmass === null ? {} : { highestAirmass: c.highestAirmass }),
-        laserGuideStar: c.laserGuideStar,
-        ...(Number.isFinite(c.earliestJd) ? { earliestStart: jdToIso(c.earliestJd) } : {}),
-        ...(Number.isFinite(c.latestJd) ? { latestEnd: jdToIso(c.latestJd) } : {}),
-      }));
-  if (fromCampaign) {
-    const last = new Map<number, Partial<Record<BlockKind, number>>>();
-    const seasonal = seasonTargets(input.targets, input.campaign.goals, names, last);
-    const options = {
-      ...campaignOptions(input.campaign.goals),
-      ...(request.blockMinutes ? { blockMinutes: request.blockMinutes } : {}),
-      ...(request.sameTargetMinutes !== undefined
-        ? { sameTargetMinutes: request.sameTargetMinutes }
-        : {}),
-    };
-    candidates = nightCandidates(
-      site.site,
-      site.limits,
-      site.laserGuideStar,
-      night.date,
-      seasonal,
-      options,
-    );
-  }
+  const candidates = fromCampaign
+    ? campaignCandidates(input, site, night.date, names, request)
+    : requestCandidates(request.candidates, targets);
   const schedule = await run('scheduleNight', site.site, site.limits, night.date, targets, {
     candidates,
     pins: request.pins,
@@ -170,6 +140,46 @@ async function prepare(
     reported: state!.reported,
     targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
   };
+}
+
+type PlanningInput = Awaited<ReturnType<typeof campaignPlanningInput>>;
+
+/** The request's candidates as the scheduler reads them (it checks them again: the same errors). */
+function requestCandidates(
+  input: unknown,
+  targets: Parameters<typeof checkCandidates>[1],
+): CandidateInput[] {
+  return checkCandidates(input, targets).map((c) => ({
+    id: c.id,
+    target: c.targetName,
+    kind: c.kind,
+    durationMinutes: c.durationMinutes,
+    priority: c.priority,
+    ...(c.highestAirmass === null ? {} : { highestAirmass: c.highestAirmass }),
+    laserGuideStar: c.laserGuideStar,
+    ...(Number.isFinite(c.earliestJd) ? { earliestStart: jdToIso(c.earliestJd) } : {}),
+    ...(Number.isFinite(c.latestJd) ? { latestEnd: jdToIso(c.latestJd) } : {}),
+  }));
+}
+
+/** The night's default candidates from the campaign's per-target settings (the season plan's). */
+function campaignCandidates(
+  input: PlanningInput,
+  site: PlanningInput['sites'][number],
+  date: string,
+  names: Map<number, string>,
+  request: NightScheduleRequest,
+): CandidateInput[] {
+  const last = new Map<number, Partial<Record<BlockKind, number>>>();
+  const seasonal = seasonTargets(input.targets, input.campaign.goals, names, last);
+  const options = {
+    ...campaignOptions(input.campaign.goals),
+    ...(request.blockMinutes ? { blockMinutes: request.blockMinutes } : {}),
+    ...(request.sameTargetMinutes !== undefined
+      ? { sameTargetMinutes: request.sameTargetMinutes }
+      : {}),
+  };
+  return nightCandidates(site.site, site.limits, site.laserGuideStar, date, seasonal, options);
 }
 
 /** The schedule of a stored night, written nowhere. @throws InputError naming the field. */
