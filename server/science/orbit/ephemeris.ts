@@ -50,7 +50,10 @@ export interface EphemerisRow extends Prediction {
 /** Most draws × epochs per request (memory bound). */
 const MAX_MC_WORK = 4_000_000;
 
-/** The uncertain quantities this orbit predicts (velocities need a distance; bodies need q; the photocentre q and β). */
+/**
+ * The uncertain quantities this orbit predicts (velocities need a distance; bodies need q; the
+ * photocentre q and β).
+ */
 function fieldsFor(orbit: Orbit): UncertainField[] {
   const hasD = orbit.distancePc !== null,
     hasQ = orbit.massRatio !== null;

@@ -134,7 +134,10 @@ export interface PhysicalQuantities {
   transverseDopplerAtPeriapsisKmS: number;
   /** Range of the Rømer delay over the orbit (light time from the nearest to the farthest point), days. */
   romerDelayRangeDays: number;
-  /** Largest Rømer delay over the orbit (light time from the primary's plane of the sky to the farthest point), days. */
+  /**
+   * Largest Rømer delay over the orbit (light time from the primary's plane of the sky to the
+   * farthest point), days.
+   */
   largestRomerDelayDays: number;
 }
 

@@ -68,7 +68,10 @@ export interface FlagSite {
 export interface FlagOptions {
   /** The moment flags are computed for, JD (UTC). */
   nowJd: number;
-  /** Lead-time bands, days, ascending; the largest is how far ahead periapses are looked for. Default [30, 182, 365]. */
+  /**
+   * Lead-time bands, days, ascending; the largest is how far ahead periapses are looked for.
+   * Default [30, 182, 365].
+   */
   leadDays?: number[];
   /** Resolution limit for blends, mas; no blend flags without it. */
   resolutionMas?: number;
@@ -80,7 +83,10 @@ export interface FlagOptions {
 
 export interface SiteHours {
   site: string;
-  /** Observable hours per night over the ± window (nights in order); a night with 0 h names the limit that closed it. */
+  /**
+   * Observable hours per night over the ± window (nights in order); a night with 0 h names the
+   * limit that closed it.
+   */
   nights: { date: string; hours: number; reason: NightReason | null; words: string | null }[];
   minHours: number;
   maxHours: number;
@@ -279,10 +285,16 @@ function periapsisFlags(
   const sampling =
     samplingDays === null
       ? ''
-      : `, so sample at least every ${samplingDays < 1 ? `${rounded(samplingDays * 24, 2)} h` : `${rounded(samplingDays, 2)} d`}`;
-  const rates = `radial velocity changes by ${rvRate === null ? '? (no distance)' : `${rounded(Math.abs(rvRate))} km/s`} and position by ${rounded(skyRate)} mas per day there${sampling}`;
+      : `, so sample at least every ` +
+        `${samplingDays < 1 ? `${rounded(samplingDays * 24, 2)} h` : `${rounded(samplingDays, 2)} d`}`;
+  const rates =
+    `radial velocity changes by ` +
+    `${rvRate === null ? '? (no distance)' : `${rounded(Math.abs(rvRate))} km/s`} and position ` +
+    `by ${rounded(skyRate)} mas per day there${sampling}`;
   const rel = relativity
-    ? `; gravitational redshift ${rounded(relativity.gravitationalRedshiftKmS)} km/s, transverse Doppler ${rounded(relativity.transverseDopplerKmS)} km/s, precession ${rounded(relativity.precessionArcminPerOrbit)}′ per orbit`
+    ? `; gravitational redshift ${rounded(relativity.gravitationalRedshiftKmS)} km/s, transverse ` +
+      `Doppler ${rounded(relativity.transverseDopplerKmS)} km/s, precession ` +
+      `${rounded(relativity.precessionArcminPerOrbit)}′ per orbit`
     : '';
   const where = siteHours.map(siteHoursWords).join('; ');
   const coverage = passageCoverage(ft, sites, siteHours, ev.jd, half);
@@ -304,7 +316,9 @@ function periapsisFlags(
       target: name,
       date,
       daysAhead,
-      reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, but no campaign site can observe it in that window: ${why}.`,
+      reason:
+        `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, but no campaign site can ` +
+        `observe it in that window: ${why}.`,
       periapsis: details,
     });
   }
@@ -313,7 +327,10 @@ function periapsisFlags(
     target: name,
     date,
     daysAhead,
-    reason: `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} days ahead (${band}). Observable: ${where}. ${coverage.text ? `${coverage.text} ` : ''}Its ${rates}${rel}.`,
+    reason:
+      `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} ` +
+      `days ahead (${band}). Observable: ${where}. ${coverage.text ? `${coverage.text} ` : ''}` +
+      `Its ${rates}${rel}.`,
     periapsis: details,
   });
   return out;
@@ -328,7 +345,10 @@ function siteHoursWords(s: SiteHours): string {
   return `${s.site} ${s.minHours.toFixed(1)}–${s.maxHours.toFixed(1)} h per night${zeros ? ` (${zeros})` : ''}`;
 }
 
-/** An epoch the forecast depends on: it carries this share of a factor's information, or a detection is reached with it. */
+/**
+ * An epoch the forecast depends on: it carries this share of a factor's information, or a detection
+ * is reached with it.
+ */
 export const CRITICAL_SHARE = 0.1;
 const FACTOR_WORDS: Record<string, string> = {
   redshiftFactor: 'redshift',
@@ -383,7 +403,9 @@ function relativityFlag(
     target: name,
     date: first.epoch,
     daysAhead: first.jd - now,
-    reason: `${name}: the relativity forecast depends on coming planned epochs: ${words.join('; ')}. ${f.summary.join('; ')}.`,
+    reason:
+      `${name}: the relativity forecast depends on coming planned epochs: ` +
+      `${words.join('; ')}. ${f.summary.join('; ')}.`,
     relativity: {
       epochs: epochs.map(({ epoch, shares, reaches }) => ({ epoch, shares, reaches })),
       summary: f.summary,
@@ -434,7 +456,10 @@ function blendFlags(
       target: a.target.name,
       date: start,
       daysAhead: iv.startJd - now,
-      reason: `${a.target.name} and ${other} are closer than the ${resolution} mas resolution limit from ${start.slice(0, 10)} to ${end.slice(0, 10)} (closest ${min.toFixed(1)} mas): astrometry of either is unreliable then.`,
+      reason:
+        `${a.target.name} and ${other} are closer than the ${resolution} mas resolution ` +
+        `limit from ${start.slice(0, 10)} to ${end.slice(0, 10)} (closest ${min.toFixed(1)} ` +
+        `mas): astrometry of either is unreliable then.`,
       blend: { other, start, end, closestMas: min },
     };
   });
@@ -476,11 +501,13 @@ function staleFlag(
   const reasons: string[] = [];
   if (sigma !== null && sigma > staleSigma)
     reasons.push(
-      `its predicted position${later ? ' then' : ''} is uncertain by ${rounded(sigma, 2)} mas (1σ), beyond the ${staleSigma} mas limit`,
+      `its predicted position${later ? ' then' : ''} is uncertain by ${rounded(sigma, 2)} mas ` +
+        `(1σ), beyond the ${staleSigma} mas limit`,
     );
   if (!plannedInTime && since !== null && cadence !== undefined && since > cadence)
     reasons.push(
-      `its last measurement (${jdToIso(last!).slice(0, 10)}) is ${Math.floor(since)} days old${at}, longer than its ${cadence}-day cadence`,
+      `its last measurement (${jdToIso(last!).slice(0, 10)}) is ${Math.floor(since)} days old${at}` +
+        `, longer than its ${cadence}-day cadence`,
     );
   if (!plannedInTime && cadence !== undefined && last === null)
     reasons.push('it has never been measured');
@@ -490,7 +517,8 @@ function staleFlag(
   const plan =
     next === undefined
       ? 'no epoch is planned'
-      : `the next planned epoch is ${jdToIso(next).slice(0, 10)}${later || next - now > 1 ? ` (${Math.round(next - when)} days after ${later ? 'that night' : 'today'})` : ''}`;
+      : `the next planned epoch is ${jdToIso(next).slice(0, 10)}` +
+        `${later || next - now > 1 ? ` (${Math.round(next - when)} days after ${later ? 'that night' : 'today'})` : ''}`;
   return {
     kind: 'stale-prediction',
     target: ft.target.name,
@@ -593,6 +621,9 @@ function passageCoverage(
   const known = sites.some((s) => s.nights !== undefined) || (ft.planned ?? []).length > 0;
   const text = !known
     ? ''
-    : `Covered: ${covered.length ? covered.join(', ') : 'no planned epoch or allocated observable night in the window'}${shut.length ? `; planned but closed, so not covering: ${shut.join(', ')}` : ''}${mostLikelyCovered ? '.' : `; not covered: the most likely night ${[...new Set(likely)].map((d) => d.slice(5)).join('/')} (no observable planned epoch within 1 d of the date).`}`;
+    : `Covered: ` +
+      `${covered.length ? covered.join(', ') : 'no planned epoch or allocated observable night in the window'}` +
+      `${shut.length ? `; planned but closed, so not covering: ${shut.join(', ')}` : ''}` +
+      `${mostLikelyCovered ? '.' : `; not covered: the most likely night ${[...new Set(likely)].map((d) => d.slice(5)).join('/')} (no observable planned epoch within 1 d of the date).`}`;
   return { planned, closed, allocated, mostLikelyCovered, text };
 }

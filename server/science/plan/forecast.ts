@@ -166,7 +166,8 @@ export function forecastDetection(req: ForecastRequest): DetectionForecast {
     plannedEpochs: plan.length,
     summary: factors.map(summaryLine),
     assumptions:
-      'linear (Fisher) forecast at the current solution, with every orbital element, the distance and γ free; a factor is assumed to have its solution value (1: general relativity)',
+      'linear (Fisher) forecast at the current solution, with every orbital element, the distance ' +
+      'and γ free; a factor is assumed to have its solution value (1: general relativity)',
   };
 }
 
@@ -179,6 +180,10 @@ function summaryLine(f: FactorForecast): string {
   if (five.already) return `${what} detected at 5σ already (${now})`;
   if (five.epoch) return `${what} detectable at 5σ after the ${day(five.epoch)} epochs (${now})`;
   if (three.already || three.epoch)
-    return `${what} reaches 3σ ${three.already ? 'already' : `after the ${day(three.epoch!)} epochs`}, ${f.significanceAfter.toFixed(1)}σ after the plan (${now})`;
+    return (
+      `${what} reaches 3σ ` +
+      `${three.already ? 'already' : `after the ${day(three.epoch!)} epochs`}, ` +
+      `${f.significanceAfter.toFixed(1)}σ after the plan (${now})`
+    );
   return `${what} not detectable with this plan: ${f.significanceAfter.toFixed(1)}σ after it (${now})`;
 }

@@ -69,14 +69,17 @@ const WORDS: Record<
   'sun-distance': (d, c) =>
     `inside the Sun-avoidance angle (${f0(d.sunDistanceDeg)}° from the Sun, limit ${c?.leastSunDistanceDeg ?? '?'}°)`,
   'too-short': (d) =>
-    `its longest window (${f1(d.longestHours)} h${d.cutBy ? `, cut short by ${CUT_WORDS[d.cutBy]}` : ''}) is shorter than the ${f0(d.blockMinutes)}-min block`,
+    `its longest window (${f1(d.longestHours)} ` +
+    `h${d.cutBy ? `, cut short by ${CUT_WORDS[d.cutBy]}` : ''}) is shorter than the ` +
+    `${f0(d.blockMinutes)}-min block`,
   'kept-epoch': () => 'already has its epoch there in a block that stays',
   'kept-full': (d) =>
     `its window is held by blocks that stay${d.takenBy?.length ? ` (${d.takenBy.join(', ')})` : ''}`,
   taken: (d) =>
     `taken by higher-priority epochs${d.takenBy?.length ? `: ${d.takenBy.join(', ')}` : ''}`,
   'no-room': (d) =>
-    `the plan's share of the night (${f0(d.roomMinutes)} min free) is shorter than the ${f0(d.blockMinutes)}-min block and its changeover`,
+    `the plan's share of the night (${f0(d.roomMinutes)} min free) is shorter than the ` +
+    `${f0(d.blockMinutes)}-min block and its changeover`,
 };
 const CUT_WORDS = {
   'horizon-mask': 'the horizon mask',

@@ -42,7 +42,10 @@ export const AUTO_EXACT_ITEMS = 8;
 export interface ScheduleOptions {
   /** Slot length, minutes, [1, 30]; default 5. Blocks start and end on slot edges. */
   slotMinutes?: number;
-  /** Gap between blocks of different targets (slew and acquisition), minutes, [0, 120]; default 8 (common practice, no source). */
+  /**
+   * Gap between blocks of different targets (slew and acquisition), minutes, [0, 120]; default 8
+   * (common practice, no source).
+   */
   slewMinutes?: number;
   /** Gap between consecutive blocks of the same target (instrument change), minutes, [0, 120]; default 3. */
   sameTargetMinutes?: number;
@@ -68,7 +71,10 @@ export interface KeptBlock {
   kind: BlockKind;
   startJd: number;
   endJd: number;
-  /** It stands for the night's epoch of its target and kind (planned or obtained, not lost or withdrawn): a candidate of the same target and kind is left out. */
+  /**
+   * It stands for the night's epoch of its target and kind (planned or obtained, not lost or
+   * withdrawn): a candidate of the same target and kind is left out.
+   */
   counts: boolean;
   /** It was already obtained (in whole or in part): a season's draws take it as certain, not subject to the weather. */
   obtained?: boolean;
@@ -324,7 +330,8 @@ function methodFor(method: ScheduleMethod, schedulable: number): 'exact' | 'heur
       throw new InputError(
         'method',
         method,
-        `solves at most ${EXACT_MAX_ITEMS} schedulable candidates (this night has ${schedulable}); use "auto" or "heuristic"`,
+        `solves at most ${EXACT_MAX_ITEMS} schedulable candidates (this night has ${schedulable}` +
+          `); use "auto" or "heuristic"`,
       );
     return 'exact';
   }
@@ -408,7 +415,9 @@ function readPins(
       throw new InputError(
         `${p}.start`,
         r.start,
-        `would put the ${c.targetName} ${c.kind} block where ${c.targetName} ${bad === null ? 'runs past the end of darkness' : `is closed by ${nightReasonWords(edgeReason(bad, grid, c.grid), grid.limits, 'block')}`}${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
+        `would put the ${c.targetName} ${c.kind} block where ${c.targetName} ` +
+          `${bad === null ? 'runs past the end of darkness' : `is closed by ${nightReasonWords(edgeReason(bad, grid, c.grid), grid.limits, 'block')}`}` +
+          `${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
       );
     }
     const over = clash(c, s);
@@ -416,7 +425,8 @@ function readPins(
       throw new InputError(
         `${p}.start`,
         r.start,
-        `would put the ${c.targetName} ${c.kind} block over ${over.label} (or inside the changeover gap around it), which stays on the night`,
+        `would put the ${c.targetName} ${c.kind} block over ${over.label} (or inside the ` +
+          `changeover gap around it), which stays on the night`,
       );
     return { candidate: c, start: s };
   });
@@ -454,8 +464,15 @@ function whyLeftOut(
     const r = closingLimit(grid, c.grid, c.slots, c.durationMinutes);
     if (r !== null) return `${c.targetName} on this night: ${nightReasonWords(r, grid.limits)}`;
     if (Number.isFinite(c.earliestJd) || Number.isFinite(c.latestJd))
-      return `its timing window (${Number.isFinite(c.earliestJd) ? jdToIso(c.earliestJd) : 'dusk'} to ${Number.isFinite(c.latestJd) ? jdToIso(c.latestJd) : 'dawn'}) holds no ${c.durationMinutes}-min window`;
-    return `${c.targetName} never stays below the block's own airmass limit ${c.highestAirmass} for ${c.durationMinutes} min`;
+      return (
+        `its timing window (${Number.isFinite(c.earliestJd) ? jdToIso(c.earliestJd) : 'dusk'}` +
+        ` to ${Number.isFinite(c.latestJd) ? jdToIso(c.latestJd) : 'dawn'}) holds no ` +
+        `${c.durationMinutes}-min window`
+      );
+    return (
+      `${c.targetName} never stays below the block's own airmass limit ${c.highestAirmass} ` +
+      `for ${c.durationMinutes} min`
+    );
   }
   const jd = grid.edgeJd;
   let lo = Infinity,

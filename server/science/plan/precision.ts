@@ -20,7 +20,10 @@ export interface PrecisionModel {
   astrometryMas: number;
   /** 1σ of a radial velocity at the zenith in the reference seeing, km/s, > 0. Default 5. */
   spectroscopyKmS: number;
-  /** Seeing FWHM the zenith values hold for, arcsec, (0, 10]; null: the site's own seeing (the ratio is 1 at the zenith). */
+  /**
+   * Seeing FWHM the zenith values hold for, arcsec, (0, 10]; null: the site's own seeing (the ratio
+   * is 1 at the zenith).
+   */
   referenceSeeingArcsec: number | null;
 }
 

@@ -126,7 +126,9 @@ export interface SiteStatistics {
 }
 
 export const BETA_RULE =
-  'loss share per month: Beta(s(1−c), s·c) prior from the clear-night fraction c worth s nights (flat Beta(1, 1) without one), each logged night adding its lost share to α and the rest to β; mean α/(α+β)';
+  'loss share per month: Beta(s(1−c), s·c) prior from the clear-night fraction c worth s nights ' +
+  '(flat Beta(1, 1) without one), each logged night adding its lost share to α and the rest to ' +
+  'β; mean α/(α+β)';
 
 /** Seeing bins, arcsec, and airmass bins of the precision tables. */
 export const SEEING_BINS = [0, 0.6, 0.9, 1.2] as const;

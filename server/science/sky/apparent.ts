@@ -48,7 +48,10 @@ export function rowMajor(r: RotationMatrix): number[][] {
   return [0, 1, 2].map((i) => [m[0]![i]!, m[1]![i]!, m[2]![i]!]);
 }
 
-/** Observer velocity in units of c, J2000 equator: Earth's barycentric velocity, plus the site's rotation when given. */
+/**
+ * Observer velocity in units of c, J2000 equator: Earth's barycentric velocity, plus the site's
+ * rotation when given.
+ */
 export function observerBeta(time: AstroTime, site?: Site): Vec3 {
   const e = BaryState(Body.Earth, time);
   let vx = e.vx,

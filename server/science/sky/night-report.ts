@@ -358,11 +358,13 @@ function round(x: number, digits: number): number {
 /** The usual cautions for pointing near the Sun; the site's rules always take precedence. */
 export function cautions(c: Limits): string[] {
   const out = [
-    "Windows are advisory: the site's own pointing limits, Sun-avoidance interlocks and operating rules take precedence.",
+    "Windows are advisory: the site's own pointing limits, Sun-avoidance interlocks and operating " +
+      'rules take precedence.',
   ];
   if (c.sunLimitDeg > TWILIGHT_SUN_ALTITUDE_DEG.nautical) {
     out.push(
-      `The darkness limit (${c.darknessLabel}) lets windows start in bright twilight: never point a telescope, finder or camera near the Sun; follow the site's Sun-avoidance rules.`,
+      `The darkness limit (${c.darknessLabel}) lets windows start in bright twilight: never point ` +
+        `a telescope, finder or camera near the Sun; follow the site's Sun-avoidance rules.`,
     );
   }
   // Refused would be wrong: 0° is the sites' default and right for rise and set times. But below
@@ -375,7 +377,8 @@ export function cautions(c: Limits): string[] {
   }
   if (c.leastSunDistanceDeg < 30) {
     out.push(
-      `Sun avoidance is set to ${c.leastSunDistanceDeg}°, below the usual 30–45°: check it against the site's rules before observing.`,
+      `Sun avoidance is set to ${c.leastSunDistanceDeg}°, below the usual 30–45°: check it ` +
+        `against the site's rules before observing.`,
     );
   }
   return out;

@@ -13,7 +13,8 @@
  *
  * Below 15°, where the tan z series fails, Sæmundsson's formula (Sky & Telescope 72, 70, 1986;
  * Meeus, Astronomical Algorithms, eq. 16.4) gives the shape, scaled to meet the series at 15°, so
- * the mapping is continuous; within 2 % of ERFA down to 5° (LOWEST_CHECKED_ALTITUDE_DEG). Below −1° the lift tapers linearly to zero at the nadir so that the
+ * the mapping is continuous; within 2 % of ERFA down to 5° (LOWEST_CHECKED_ALTITUDE_DEG). Below
+ * −1° the lift tapers linearly to zero at the nadir so that the
  * mapping stays monotonic, as astronomy-engine does.
  */
 import { DEG } from '../constants.ts';
@@ -48,7 +49,8 @@ export const NO_REFRACTION: RefractionModel = { aRad: 0, bRad: 0, lowScale: 0 };
 
 /**
  * The lowest true altitude (degrees) where the model is checked against an outside one: ERFA's
- * refraction agrees within 2 % (6″; 1.8 %, 5.5″ worst over 240 cases) from here to 15° (test/science/sky/refraction-band.test.ts).
+ * refraction agrees within 2 % (6″; 1.8 %, 5.5″ worst over 240 cases) from here to 15°
+ * (test/science/sky/refraction-band.test.ts).
  * Below it only Bennett's horizon value checks the shape; altitudes there are low-trust.
  */
 export const LOWEST_CHECKED_ALTITUDE_DEG = 5;

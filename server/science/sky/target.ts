@@ -115,7 +115,10 @@ export function offsetPosition(
   return { raDeg: raRad / DEG, decDeg: decRad / DEG };
 }
 
-/** ICRS unit vector of a target at a Julian Date: proper motion applied along the tangent plane, then the orbit offset. */
+/**
+ * ICRS unit vector of a target at a Julian Date: proper motion applied along the tangent plane,
+ * then the orbit offset.
+ */
 export function icrsDirection(target: Target, jd: number): Vec3 {
   const years = (jd - target.epochJd) / JULIAN_YEAR_DAYS;
   const base = unitFromRaDec(target.raRad, target.decRad);

@@ -87,7 +87,8 @@ export function parseEpoch(value: unknown, field = 'epoch'): number {
     throw new InputError(
       field,
       value,
-      'must give its time zone: add Z (UTC) or an offset such as -03 or +05:30; times are never read in the machine zone',
+      'must give its time zone: add Z (UTC) or an offset such as -03 or +05:30; times are never ' +
+        'read in the machine zone',
     );
   }
   // Date.UTC reads years 0–99 as 1900–1999: refuse them here, by the same range as every form.
@@ -139,7 +140,8 @@ function bareNumber(x: number, field: string, value: unknown): number {
   throw new InputError(
     field,
     value,
-    'is not a Julian Date (≥ 1e6), a Modified Julian Date (10000 to 1e6) or a year from 1000 to 3000: write "MJD …", "JD …" or "J…" before it',
+    'is not a Julian Date (≥ 1e6), a Modified Julian Date (10000 to 1e6) or a year from 1000 to ' +
+      '3000: write "MJD …", "JD …" or "J…" before it',
   );
 }
 

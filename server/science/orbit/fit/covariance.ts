@@ -67,7 +67,9 @@ export function covarianceFromJacobian(
       .map(([, a]) => names[a]!);
     throw new FitRefusal(
       'singular',
-      `singular normal matrix (condition ${(smax / Math.max(smin, 1e-300)).toExponential(1)}): the data cannot separate ${involved.join(', ')}; add measurements that tell them apart, fix one, or give a prior`,
+      `singular normal matrix (condition ${(smax / Math.max(smin, 1e-300)).toExponential(1)}): ` +
+        `the data cannot separate ${involved.join(', ')}; add measurements that tell them apart, ` +
+        `fix one, or give a prior`,
       involved,
     );
   }

@@ -15,7 +15,10 @@ import { JULIAN_YEAR_DAYS } from '../../constants.ts';
 import { TABLE_SIZE as INTERVALS, type AnomalyTable } from './anomaly-table.ts';
 import type { Observation } from './measurements.ts';
 
-/** A module-local copy: loaded as CommonJS (tsx does so for CommonJS callers), an imported binding is a getter call per read. */
+/**
+ * A module-local copy: loaded as CommonJS (tsx does so for CommonJS callers), an imported binding
+ * is a getter call per read.
+ */
 const TABLE_SIZE = INTERVALS;
 
 /**

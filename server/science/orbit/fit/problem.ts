@@ -148,7 +148,10 @@ export function makeProblem(
   };
 }
 
-/** The same problem with every derivative taken by central differences (the benchmark's baseline and the tests' check). */
+/**
+ * The same problem with every derivative taken by central differences (the benchmark's baseline and
+ * the tests' check).
+ */
 export function finiteDifferenceProblem(p: Problem): Problem {
   return {
     ...p,

@@ -259,20 +259,25 @@ function checkComponents(star: CheckedStar, k: number, starCount: number): void 
     throw new InputError(
       `stars.${k}.measurements.${relative.index}.component`,
       'relative',
-      `cannot be mixed with "${baryRv.component}" velocities of the same star: a velocity with the primary at rest and one about the barycentre belong to different models — mark every velocity "primary" or "secondary"`,
+      `cannot be mixed with "${baryRv.component}" velocities of the same star: a velocity with ` +
+        `the primary at rest and one about the barycentre belong to different models — mark ` +
+        `every velocity "primary" or "secondary"`,
     );
   if (starCount > 1)
     throw new InputError(
       field,
       bary.component,
-      'a joint fit models stars around one primary at rest: velocities and positions must be "relative" there — fit a binary of comparable masses on its own',
+      'a joint fit models stars around one primary at rest: velocities and positions must be ' +
+        '"relative" there — fit a binary of comparable masses on its own',
     );
   const on = SWITCHES.filter((s) => star.relativity[s]);
   if (on.length > 0)
     throw new InputError(
       field,
       bary.component,
-      `velocities about the barycentre and photocentre positions are modelled without relativistic terms, and ${on.join(', ')} ${on.length === 1 ? 'is' : 'are'} on — switch ${on.length === 1 ? 'it' : 'them'} off for a binary of comparable masses`,
+      `velocities about the barycentre and photocentre positions are modelled without ` +
+        `relativistic terms, and ${on.join(', ')} ${on.length === 1 ? 'is' : 'are'} on — switch ` +
+        `${on.length === 1 ? 'it' : 'them'} off for a binary of comparable masses`,
     );
 }
 

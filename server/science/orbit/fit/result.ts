@@ -310,14 +310,18 @@ function newtonianWarnings(sol: Solution, k: number): string[] {
   const redshift = q.gravitationalRedshiftAtPeriapsisKmS + q.transverseDopplerAtPeriapsisKmS;
   if (!s.relativity.gravitationalRedshift && rvSigma !== undefined && redshift > rvSigma)
     out.push(
-      `star ${s.name}: fitted without the gravitational redshift and transverse Doppler shift, which reach ${redshift.toFixed(1)} km/s at periapsis, above the velocities' median σ of ${rvSigma.toFixed(1)} km/s; switch them on (relativity) or fit the redshift factor`,
+      `star ${s.name}: fitted without the gravitational redshift and transverse Doppler shift, ` +
+        `which reach ${redshift.toFixed(1)} km/s at periapsis, above the velocities' median σ of ` +
+        `${rvSigma.toFixed(1)} km/s; switch them on (relativity) or fit the redshift factor`,
     );
   const astSigma = median(s.obs.filter((m) => m.kind === 'offsets').map((m) => m.sigma[0]));
   // The advance moves the apoapsis side of the orbit by Δω·a(1 + e) per orbit on the sky.
   const shiftMas = ((q.precessionArcminPerOrbit * Math.PI) / (180 * 60)) * o.aMas * (1 + o.e);
   if (!s.relativity.precession && astSigma !== undefined && shiftMas > astSigma)
     out.push(
-      `star ${s.name}: fitted without the Schwarzschild precession, which moves the orbit by up to ${shiftMas.toFixed(2)} mas per orbit, above the offsets' median σ of ${astSigma.toFixed(2)} mas; switch it on (relativity) or fit the precession factor`,
+      `star ${s.name}: fitted without the Schwarzschild precession, which moves the orbit by up ` +
+        `to ${shiftMas.toFixed(2)} mas per orbit, above the offsets' median σ of ` +
+        `${astSigma.toFixed(2)} mas; switch it on (relativity) or fit the precession factor`,
     );
   return out;
 }
@@ -342,7 +346,11 @@ function restingPrimaryWarnings(sol: Solution, k: number): string[] {
   const mass = physicalQuantities(o).massSolar;
   if (!(mass < RESTING_PRIMARY_MIN_MASS_SOLAR)) return [];
   return [
-    `star ${s.name}: the fitted total mass is ${mass.toPrecision(3)} M☉, that of stars, but its radial velocities are "relative" (modelled with the primary at rest); if they are velocities of either star about the barycentre, mark each "primary" or "secondary" so that the mass ratio is fitted — velocities of the primary fitted as the star's turn Ω and ω by 180° and give a wrong distance and mass`,
+    `star ${s.name}: the fitted total mass is ${mass.toPrecision(3)} M☉, that of stars, but its ` +
+      `radial velocities are "relative" (modelled with the primary at rest); if they are ` +
+      `velocities of either star about the barycentre, mark each "primary" or "secondary" so ` +
+      `that the mass ratio is fitted — velocities of the primary fitted as the star's turn Ω and ` +
+      `ω by 180° and give a wrong distance and mass`,
   ];
 }
 

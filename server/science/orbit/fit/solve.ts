@@ -102,7 +102,8 @@ function refuseEarly(star: CheckedStar, ownParams: number): void {
   if (ast.length === 0) {
     throw new FitRefusal(
       'no-astrometry',
-      `star ${star.name}: no astrometric measurement; radial velocities alone give a·sin i, not the orbit on the sky — add offsets or separations`,
+      `star ${star.name}: no astrometric measurement; radial velocities alone give a·sin i, not ` +
+        `the orbit on the sky — add offsets or separations`,
       [star.name],
     );
   }
@@ -110,7 +111,9 @@ function refuseEarly(star: CheckedStar, ownParams: number): void {
   if (n < ownParams) {
     throw new FitRefusal(
       'too-few-measurements',
-      `star ${star.name}: ${n} measurement components (${ast.length} astrometric epoch${ast.length === 1 ? ' counts' : 's count'} twice) for ${ownParams} free parameters of its orbit — at least ${ownParams} are needed`,
+      `star ${star.name}: ${n} measurement components (${ast.length} astrometric ` +
+        `epoch${ast.length === 1 ? ' counts' : 's count'} twice) for ${ownParams} free ` +
+        `parameters of its orbit — at least ${ownParams} are needed`,
       [star.name],
     );
   }
@@ -120,7 +123,8 @@ function refuseEarly(star: CheckedStar, ownParams: number): void {
   if (!(span >= 1e-3 * pMin)) {
     throw new FitRefusal(
       'single-phase',
-      `star ${star.name}: all ${ast.length} astrometric epochs fall at one orbital phase (they span ${span.toFixed(3)} d); an orbit needs epochs spread along it`,
+      `star ${star.name}: all ${ast.length} astrometric epochs fall at one orbital phase (they ` +
+        `span ${span.toFixed(3)} d); an orbit needs epochs spread along it`,
       [star.name],
     );
   }
@@ -144,7 +148,9 @@ function refuseOneBody(b: Built, star: CheckedStar): void {
   if (bodies.has('primary') && b.fixedMask[jq] && !(b.base[jq]! > 0))
     throw new FitRefusal(
       'singular',
-      `star ${star.name}: ${q} is fixed at ${b.base[jq]}, but the primary's velocities say it moves (q = M₂/M₁ > 0) — free ${q}, or mark the velocities "relative" if the primary is a compact object at rest`,
+      `star ${star.name}: ${q} is fixed at ${b.base[jq]}, but the primary's velocities say it ` +
+        `moves (q = M₂/M₁ > 0) — free ${q}, or mark the velocities "relative" if the primary is ` +
+        `a compact object at rest`,
       [q],
     );
   // No body's velocities (photocentre positions alone): refusePhotocentre speaks for q.
@@ -152,7 +158,10 @@ function refuseOneBody(b: Built, star: CheckedStar): void {
   const body = [...bodies][0]!;
   throw new FitRefusal(
     'singular',
-    `star ${star.name}: velocities of the ${body} alone fix ${body === 'primary' ? 'd·q/(1+q)' : 'd/(1+q)'}, not the distance and the mass ratio apart — add the other body's velocities (a double-lined binary), a prior on distancePc (a parallax), or fix or give a prior to ${q}`,
+    `star ${star.name}: velocities of the ${body} alone fix ` +
+      `${body === 'primary' ? 'd·q/(1+q)' : 'd/(1+q)'}, not the distance and the mass ratio ` +
+      `apart — add the other body's velocities (a double-lined binary), a prior on distancePc (a ` +
+      `parallax), or fix or give a prior to ${q}`,
     [q, 'distancePc'],
   );
 }
@@ -171,7 +180,8 @@ function refusePhotocentre(b: Built, star: CheckedStar): void {
   if (!star.obs.some((m) => m.kind !== 'radial-velocity' && m.component === 'relative'))
     throw new FitRefusal(
       'singular',
-      `star ${star.name}: photocentre positions give only a·(β − B), not the size of the orbit — add positions of the secondary relative to the primary (a resolved epoch)`,
+      `star ${star.name}: photocentre positions give only a·(β − B), not the size of the orbit — ` +
+        `add positions of the secondary relative to the primary (a resolved epoch)`,
       [beta],
     );
   const held = (j: number) => b.fixedMask[j] || b.priors.some((p) => p.index === j);
@@ -182,7 +192,8 @@ function refusePhotocentre(b: Built, star: CheckedStar): void {
   if (!bodies && !held(s.q) && !held(s.beta))
     throw new FitRefusal(
       'singular',
-      `star ${star.name}: photocentre positions give β − q/(1+q), not ${beta} and ${q} apart — add velocities of a body, or fix or give a prior to one of them`,
+      `star ${star.name}: photocentre positions give β − q/(1+q), not ${beta} and ${q} apart — ` +
+        `add velocities of a body, or fix or give a prior to one of them`,
       [beta, q],
     );
 }
@@ -220,7 +231,9 @@ function refusePhases(
   if (1 - gap < 0.005) {
     throw new FitRefusal(
       'single-phase',
-      `star ${name}: at a period of ${(periodDays / JULIAN_YEAR_DAYS).toPrecision(6)} yr all ${ph.length} epochs fall at one orbital phase (within ${((1 - gap) * 100).toFixed(2)}% of the orbit); add epochs at other phases`,
+      `star ${name}: at a period of ${(periodDays / JULIAN_YEAR_DAYS).toPrecision(6)} yr all ` +
+        `${ph.length} epochs fall at one orbital phase (within ${((1 - gap) * 100).toFixed(2)}% ` +
+        `of the orbit); add epochs at other phases`,
       [name],
     );
   }
@@ -412,7 +425,8 @@ export function solveStar(
   if (nodes.length === 0) {
     throw new FitRefusal(
       'no-start',
-      `star ${star.name}: no orbit in the search ranges fits the measurements by linear least squares (too few distinct epochs, or fewer than two radial velocities)`,
+      `star ${star.name}: no orbit in the search ranges fits the measurements by linear least ` +
+        `squares (too few distinct epochs, or fewer than two radial velocities)`,
       [star.name],
     );
   }
@@ -573,7 +587,8 @@ function refuseTooFew(b: Built): void {
   if (b.free.length > b.L.components + b.priors.length) {
     throw new FitRefusal(
       'too-few-measurements',
-      `${b.L.components} measurement components and ${b.priors.length} priors for ${b.free.length} free parameters — at least ${b.free.length} are needed`,
+      `${b.L.components} measurement components and ${b.priors.length} priors for ` +
+        `${b.free.length} free parameters — at least ${b.free.length} are needed`,
     );
   }
 }

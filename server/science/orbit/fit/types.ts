@@ -127,7 +127,10 @@ export interface FitRequest {
    * `precessionFactor` the Schwarzschild precession (and switches it on). 0 Newtonian, 1 GR.
    */
   freeFactors?: RelativityFactorName[];
-  /** Where `relativity` came from, said in the output (e.g. "the stored solution's switches"). Default "the request". */
+  /**
+   * Where `relativity` came from, said in the output (e.g. "the stored solution's switches").
+   * Default "the request".
+   */
   relativityOrigin?: string;
   /** Fit the primary's offset (x0, y0) and drift (vx, vy) on the sky. Default: neither. */
   frame?: { offset?: boolean; drift?: boolean };
