@@ -57,7 +57,10 @@ export const systems = sqliteTable('systems', {
   decDeg: real('dec_deg').notNull(),
   pmRaMasYr: real('pm_ra_mas_yr').notNull().default(0),
   pmDecMasYr: real('pm_dec_mas_yr').notNull().default(0),
-  /** Epoch of raDeg/decDeg (ISO 8601 UTC); proper motion carries the position from here. J2000.0 for rows older than the column. */
+  /**
+   * Epoch of raDeg/decDeg (ISO 8601 UTC); proper motion carries the position from here. J2000.0 for
+   * rows older than the column.
+   */
   positionEpoch: text('position_epoch').notNull().default(J2000_ISO),
   distancePc: real('distance_pc'),
   massSolar: real('mass_solar'),
@@ -284,7 +287,10 @@ export const blocks = sqliteTable(
     endUtc: text('end_utc').notNull(),
     status: text('status', { enum: BLOCK_STATUSES }).notNull().default('planned'),
     laserGuideStar: integer('laser_guide_star', { mode: 'boolean' }).notNull().default(false),
-    /** Set once, when the block is written. Rows older than the column are 'by-hand' unless their notes show a plan wrote them (migration 0002). */
+    /**
+     * Set once, when the block is written. Rows older than the column are 'by-hand' unless their
+     * notes show a plan wrote them (migration 0002).
+     */
     origin: text('origin', { enum: BLOCK_ORIGINS }).notNull().default('by-hand'),
     /** A person fixed this block where it is: no accepted plan replaces it. */
     pinned: integer('pinned', { mode: 'boolean' }).notNull().default(false),

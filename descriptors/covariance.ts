@@ -109,7 +109,9 @@ export function parseCorrelations(text: string): Correlation[] | { value: string
     if (!m || !names.has(m[1]!) || !names.has(m[2]!))
       return {
         value: part,
-        rule: 'must be pairs such as "eccentricity/periapsisDays=0.35" separated by ";", with names of the σ columns’ parameters',
+        rule:
+          'must be pairs such as "eccentricity/periapsisDays=0.35" separated by ";", with ' +
+          'names of the σ columns’ parameters',
       };
     out.push({ a: m[1] as CovarianceTerm, b: m[2] as CovarianceTerm, rho: Number(m[3]) });
   }

@@ -24,7 +24,10 @@ export const VERSION = '0.1.0';
 export interface AppOptions {
   /** Largest accepted request body, bytes (default 2 MiB). */
   maxBodyBytes?: number;
-  /** Largest accepted CSV import (POST /api/imports/…), bytes (default 64 MiB: 100,000 measurement rows take ~10 MB). */
+  /**
+   * Largest accepted CSV import (POST /api/imports/…), bytes (default 64 MiB: 100,000 measurement
+   * rows take ~10 MB).
+   */
   maxImportBytes?: number;
   /** The campaign store; without it only the stateless routes (health, ephemeris, events, sky) exist. */
   store?: Store;

@@ -50,10 +50,15 @@ const Hints = z
 /* Shapes and types here (400); ranges and rules in the fit's own checks (422 naming the field). */
 const measurement = {
   epoch: Epoch,
-  component: z.enum(MEASURED_COMPONENTS).optional().openapi({
-    description:
-      'which body: "relative" (default; positions of the secondary relative to the primary, a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre, fitted with the mass ratio q = M₂/M₁',
-  }),
+  component: z
+    .enum(MEASURED_COMPONENTS)
+    .optional()
+    .openapi({
+      description:
+        'which body: "relative" (default; positions of the secondary relative to the primary, a ' +
+        'velocity with the primary at rest), or for a radial velocity "primary" / "secondary" ' +
+        'about the barycentre, fitted with the mass ratio q = M₂/M₁',
+    }),
   id: z.string().optional().openapi({ description: 'your identifier, echoed in the residuals' }),
 };
 const MeasurementInput = z
@@ -141,7 +146,9 @@ const ResidualPage = z
       .int()
       .optional()
       .openapi({
-        description: `residuals in the answer, 1 to ${RESIDUAL_PAGE.maxLimit} (default ${RESIDUAL_PAGE.defaultLimit}); every residual: …/fit/residuals as CSV`,
+        description:
+          `residuals in the answer, 1 to ${RESIDUAL_PAGE.maxLimit} (default ` +
+          `${RESIDUAL_PAGE.defaultLimit}); every residual: …/fit/residuals as CSV`,
       }),
   })
   .strict()
@@ -206,7 +213,9 @@ const FittedTargets = z.array(
 );
 const residualCsv = {
   content: { 'text/csv': { schema: z.string() } },
-  description: `every residual, RFC 4180: ${RESIDUAL_CSV_COLUMNS.join(', ')} (observed − model, each component's unit beside it)`,
+  description:
+    `every residual, RFC 4180: ${RESIDUAL_CSV_COLUMNS.join(', ')} (observed − model, ` +
+    `each component's unit beside it)`,
 };
 const csvAnswer = (c: Context, text: string) =>
   c.body(text, 200, { 'content-type': 'text/csv; charset=utf-8' });

@@ -38,10 +38,14 @@ export const SiteSchema = z
     }),
     elevationM: z.number().openapi({ description: 'height above sea level, m' }),
     timeZone: z.string().openapi({ description: 'IANA time zone', example: 'America/Santiago' }),
-    longitudeZoneConfirmed: z.boolean().optional().openapi({
-      description:
-        'the longitude and the zone disagree by more than 3 h, and that is meant (otherwise refused with the likely correction)',
-    }),
+    longitudeZoneConfirmed: z
+      .boolean()
+      .optional()
+      .openapi({
+        description:
+          'the longitude and the zone disagree by more than 3 h, and that is meant (otherwise ' +
+          'refused with the likely correction)',
+      }),
     pressureHpa: z.number().optional().openapi({
       description:
         'air pressure, hPa (default: standard atmosphere at the elevation; 0: no refraction)',
@@ -81,7 +85,8 @@ export const SkyTargetSchema = z
     name: z.string(),
     raDeg: numberOrText.openapi({
       description:
-        "ICRS right ascension at epoch (the primary's when an orbit is given): degrees as a number, or text (250.3, 16.69 h, 16:41:12.5 in hours)",
+        "ICRS right ascension at epoch (the primary's when an orbit is given): degrees as a " +
+        'number, or text (250.3, 16.69 h, 16:41:12.5 in hours)',
     }),
     decDeg: numberOrText.openapi({
       description: 'ICRS declination at epoch: degrees as a number, or text (-26.69, -26:41:12)',

@@ -88,7 +88,10 @@ export function unknownQueryCheck<E extends Env>(app: OpenAPIHono<E>): Middlewar
         const list = accepted.length > 0 ? `accepted: ${accepted.join(', ')}` : 'it takes none';
         const issues = unknown.map((n) => ({
           field: n,
-          rule: `is not a query parameter of ${where}${RENAMED_PARAMETERS[n] && accepted.includes(RENAMED_PARAMETERS[n]) ? ` (renamed: use ${RENAMED_PARAMETERS[n]})` : ''}; ${list}`,
+          rule:
+            `is not a query parameter of ${where}` +
+            `${RENAMED_PARAMETERS[n] && accepted.includes(RENAMED_PARAMETERS[n]) ? ` (renamed: use ${RENAMED_PARAMETERS[n]})` : ''}` +
+            `; ${list}`,
           code: 'unknown_parameter',
         }));
         const more = issues.length > 1 ? ` (and ${issues.length - 1} more)` : '';

@@ -40,7 +40,8 @@ function refuse(field: string, value: unknown, cost: number, bound: Bound, what:
   throw new InputError(
     field,
     value,
-    `makes ${what} ${Math.round(cost).toLocaleString('en')}, beyond the bound of ${COST_BOUNDS[bound].toLocaleString('en')} (${bound}); ask for less`,
+    `makes ${what} ${Math.round(cost).toLocaleString('en')}, beyond the bound of ` +
+      `${COST_BOUNDS[bound].toLocaleString('en')} (${bound}); ask for less`,
   );
 }
 

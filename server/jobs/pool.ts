@@ -98,7 +98,8 @@ export function createJobPool(options: PoolOptions = {}): JobPool {
       if (abort.signal.aborted)
         throw new JobRefused(
           'time_limit',
-          `the computation (${name}) ran past the time limit of ${o.timeLimitS} s and was stopped; ask for less (fewer measurements, rounds, targets or nights)`,
+          `the computation (${name}) ran past the time limit of ${o.timeLimitS} s and was ` +
+            `stopped; ask for less (fewer measurements, rounds, targets or nights)`,
           { task: name, timeLimitS: o.timeLimitS },
         );
       if (err instanceof Error && /queue is at limit/i.test(err.message)) throw busy(o);

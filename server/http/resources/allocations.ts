@@ -42,7 +42,8 @@ export const AllocationBody = z
         source: z.literal('csv'),
         text: text.openapi({
           description:
-            'CSV with a header row: site (a stored site’s name or id), date (YYYY-MM-DD, the evening’s local date), semester (optional)',
+            'CSV with a header row: site (a stored site’s name or id), date (YYYY-MM-DD, the ' +
+            'evening’s local date), semester (optional)',
         }),
       })
       .strict(),
@@ -52,7 +53,9 @@ export const AllocationBody = z
         siteId: z.number().int().positive(),
         text: text.openapi({
           description:
-            'an iCalendar file (RFC 5545) of the telescope’s schedule; each event covers the nights of the local evenings it overlaps (an all-day event: its dates, DTEND excluded); recurring events are expanded to the campaign’s end',
+            'an iCalendar file (RFC 5545) of the telescope’s schedule; each event covers the ' +
+            'nights of the local evenings it overlaps (an all-day event: its dates, DTEND ' +
+            'excluded); recurring events are expanded to the campaign’s end',
         }),
         match: z.string().max(200).optional().openapi({
           description: 'keep only events whose summary or description contains this text',

@@ -27,7 +27,9 @@ const decimalInteger = (min: 0 | 1, description: string) =>
     .preprocess((v) => (typeof v === 'number' ? String(v) : v), z.string())
     .pipe(
       z.string().regex(min === 1 ? /^[1-9][0-9]{0,14}$/ : /^(0|[1-9][0-9]{0,14})$/, {
-        message: `must be a ${min === 1 ? 'positive' : 'non-negative'} whole number in plain decimal digits (${description})`,
+        message:
+          `must be a ${min === 1 ? 'positive' : 'non-negative'} whole number in plain ` +
+          `decimal digits (${description})`,
       }),
     )
     .transform(Number);

@@ -25,10 +25,14 @@ const ImportQuery = z.object({
     .enum(['true', 'false'])
     .default('false')
     .openapi({ description: 'check every row, write nothing' }),
-  allowDuplicates: z.enum(['true', 'false']).default('false').openapi({
-    description:
-      'import a file imported before (same SHA-256 digest) and measurements equal to stored ones (same target, kind, epoch to the second, values); refused by default',
-  }),
+  allowDuplicates: z
+    .enum(['true', 'false'])
+    .default('false')
+    .openapi({
+      description:
+        'import a file imported before (same SHA-256 digest) and measurements equal to stored ones ' +
+        '(same target, kind, epoch to the second, values); refused by default',
+    }),
 });
 const CalendarQuery = z.object({
   at: z.string().optional().openapi({
@@ -186,7 +190,10 @@ function addArchiveExport(app: ResourceApp, store: Store): void {
       tags: ['exports'],
       security,
       summary:
-        'Every stored record but the tokens (systems, targets, solutions with covariance and provenance, sites, campaigns, nights, blocks, reports, measurements, users, audit trail) as one JSON file, for `epochwright restore --archive` into an empty database (lead only: it holds the users and the audit trail)',
+        'Every stored record but the tokens (systems, targets, solutions with covariance and ' +
+        'provenance, sites, campaigns, nights, blocks, reports, measurements, users, audit ' +
+        'trail) as one JSON file, for `epochwright restore --archive` into an empty database ' +
+        '(lead only: it holds the users and the audit trail)',
       responses: {
         200: json(
           z

@@ -21,10 +21,16 @@ import { momentJd, nowMs } from '../../clock.ts';
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const NightScheduleBody = z
   .object({
-    candidates: z.array(CandidateSchema).optional().openapi({
-      description:
-        'blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, laserGuideStar?, earliestStart?, latestEnd? }; default the campaign’s, one per target and goal kind (id "<target>:<kind>"), repeated inside a periapsis window as the campaign asks (":<n>")',
-    }),
+    candidates: z
+      .array(CandidateSchema)
+      .optional()
+      .openapi({
+        description:
+          'blocks to choose from: { id, target, kind, durationMinutes, priority, highestAirmass?, ' +
+          'laserGuideStar?, earliestStart?, latestEnd? }; default the campaign’s, one per target ' +
+          'and goal kind (id "<target>:<kind>"), repeated inside a periapsis window as the ' +
+          'campaign asks (":<n>")',
+      }),
     pins: z
       .array(z.object({ id: z.string(), start: z.string() }).strict())
       .optional()
@@ -48,7 +54,10 @@ export const NightScheduleBody = z
       .string()
       .optional()
       .openapi({
-        description: `the moment of scheduling (ISO 8601, JD, MJD); default now. Blocks begun before it are kept. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock`,
+        description:
+          `the moment of scheduling (ISO 8601, JD, MJD); default now. Blocks begun ` +
+          `before it are kept. Accept refuses (422) a moment more than ` +
+          `${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock`,
       }),
     digest: z.string().optional().openapi({
       description: 'accept only: the preview’s digest; 409 if the schedule would now differ',
@@ -73,7 +82,8 @@ export function nightScheduleRoutes(store: Store, run: Runner) {
       tags: ['planning'],
       security,
       summary:
-        'Preview the schedule of a stored night: blocks in darkness, every left-out block with its reason, laser and Sun cautions',
+        'Preview the schedule of a stored night: blocks in darkness, every left-out block with ' +
+        'its reason, laser and Sun cautions',
       request: { params: IdParam, body },
       responses: {
         200: json(NightSchedulePreviewSchema, 'the schedule, written nowhere'),

@@ -7,10 +7,14 @@ import { NightVisibilitySchema } from '../schemas/sky-output.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 
 const Query = z.object({
-  curves: z.enum(['true', 'false']).default('false').openapi({
-    description:
-      'include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) the mask along its path, and the Moon’s altitude',
-  }),
+  curves: z
+    .enum(['true', 'false'])
+    .default('false')
+    .openapi({
+      description:
+        'include curves every 10 minutes: each target’s altitude, airmass and (with a horizon mask) ' +
+        'the mask along its path, and the Moon’s altitude',
+    }),
 });
 
 export function nightVisibilityRoutes(store: Store, run: Runner) {

@@ -46,7 +46,8 @@ const Audit = z
     entityId: z.number().int().nullable(),
     detail: z.unknown().openapi({
       description:
-        'create: the values written; update: { changed: { field: { old, new } } }; delete: the row as it was; import: rows and file digest',
+        'create: the values written; update: { changed: { field: { old, new } } }; delete: the ' +
+        'row as it was; import: rows and file digest',
     }),
   })
   .strict()

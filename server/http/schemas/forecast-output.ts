@@ -95,7 +95,8 @@ export const TargetForecastSchema = z
       .strict()
       .openapi({
         description:
-          'the σ each planned block is counted at (the season planner’s precision model at its airmass), and blocks the limits close',
+          'the σ each planned block is counted at (the season planner’s precision model at its ' +
+          'airmass), and blocks the limits close',
       }),
     blockIds: z.array(z.number().int()),
   })

@@ -44,7 +44,8 @@ export const FlagSchema = z
     target: z.string(),
     date: z.string().openapi({
       description:
-        'when it applies, ISO 8601 UTC: the periapsis, the blend’s start, or for a stale prediction the first moment a site can observe the target (now if it can)',
+        'when it applies, ISO 8601 UTC: the periapsis, the blend’s start, or for a stale ' +
+        'prediction the first moment a site can observe the target (now if it can)',
     }),
     daysAhead: z.number(),
     reason: z.string(),
@@ -86,7 +87,8 @@ export const FlagSchema = z
               .array(z.object({ site: z.string(), date: z.string(), words: z.string() }).strict())
               .openapi({
                 description:
-                  'planned epochs of the window at a moment the target cannot be observed (the Moon, …): they do not cover it',
+                  'planned epochs of the window at a moment the target cannot be observed (the ' +
+                  'Moon, …): they do not cover it',
               }),
             allocated: z.array(z.object({ site: z.string(), date: z.string() }).strict()),
             mostLikelyCovered: z.boolean(),
@@ -95,7 +97,9 @@ export const FlagSchema = z
           .strict()
           .openapi({
             description:
-              'nights (site, local evening date) of the ± window holding a planned epoch at an observable moment or an allocated observable night, and whether the most likely date is covered',
+              'nights (site, local evening date) of the ± window holding a planned epoch at an ' +
+              'observable moment or an allocated observable night, and whether the most likely ' +
+              'date is covered',
           }),
         relativity: z
           .object({
@@ -152,7 +156,8 @@ export const FlagSchema = z
           .nullable()
           .openapi({
             description:
-              'when a site can next observe the target, if not now: first open moment (UTC; the flag’s date), site, night (local evening date)',
+              'when a site can next observe the target, if not now: first open moment (UTC; the ' +
+              'flag’s date), site, night (local evening date)',
           }),
       })
       .strict()
@@ -325,7 +330,8 @@ export const SeasonPlanSchema = z
                 .strict()
                 .openapi({
                   description:
-                    'probability that the passage date lies within withinDays of an epoch, before (kept blocks) and after the plan',
+                    'probability that the passage date lies within withinDays of an epoch, before ' +
+                    '(kept blocks) and after the plan',
                 }),
               epochs: z.number().int(),
               unused: z.array(NightNote).openapi({

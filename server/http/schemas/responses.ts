@@ -26,7 +26,8 @@ export const ErrorDetailsSchema = z
       .optional()
       .openapi({
         description:
-          'a request that failed its schema: one per field (dotted path), with the value sent; 400 when any is a wrong shape, 422 when every one is a broken rule',
+          'a request that failed its schema: one per field (dotted path), with the value sent; ' +
+          '400 when any is a wrong shape, 422 when every one is a broken rule',
       }),
     field: z
       .string()
@@ -70,7 +71,8 @@ export const errorResponses = {
   409: err('clashes with the stored state (stale version, duplicate, still in use)'),
   422: err('a value breaks a rule (field, value, rule in details)'),
   503: err(
-    'computations busy (code busy, with Retry-After) or stopped at the time limit (code time_limit, details.timeLimitS)',
+    'computations busy (code busy, with Retry-After) or stopped at the time limit (code ' +
+      'time_limit, details.timeLimitS)',
   ),
 };
 
