@@ -18,7 +18,10 @@ export function asOf<R>(ms: number, work: () => Promise<R>): Promise<R> {
 
 const FROZEN = /^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:\d{2})$/;
 
-/** Milliseconds since 1970-01-01T00:00Z: the instant set by `asOf`, else the frozen one when EPOCHWRIGHT_NOW is set, else the system clock. */
+/**
+ * Milliseconds since 1970-01-01T00:00Z: the instant set by `asOf`, else the frozen one when
+ * EPOCHWRIGHT_NOW is set, else the system clock.
+ */
 export function nowMs(env: NodeJS.ProcessEnv = process.env): number {
   const set = scoped.getStore();
   if (set !== undefined) return set;

@@ -54,7 +54,9 @@ const server = serve({ fetch: app.fetch, port, hostname }, (info) => {
   );
   if (demo)
     console.log(
-      `demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty store)`,
+      `demo campaign loaded: ${demo.nights} nights, ${demo.blocks} blocks, ${demo.reports} night ` +
+        `reports, ${demo.measurements} measurements (start with EPOCHWRIGHT_DEMO=0 for an empty ` +
+        `store)`,
     );
   if (firstLead) {
     console.log(

@@ -45,7 +45,8 @@ export function entity<T>(spec: Omit<Entity<T>, '_row'>): Entity<T> {
   return spec;
 }
 
-// biome-ignore lint/suspicious/noExplicitAny: one generic path over every entity's table; each entity's row type is checked at its spec
+// One generic path over every entity's table; each entity's row type is checked at its spec.
+// biome-ignore lint/suspicious/noExplicitAny: see above
 const q = (db: DbOrTx) => db as any;
 
 export async function list<T>(
@@ -122,7 +123,8 @@ export async function updateIn<T>(
     if (expectedVersion !== prev.version) {
       throw new ConflictError(
         'stale_version',
-        `the ${e.name} was changed by someone else (you sent version ${expectedVersion}, it is now ${String(prev.version)}); reload and apply your change again`,
+        `the ${e.name} was changed by someone else (you sent version ${expectedVersion}, it is ` +
+          `now ${String(prev.version)}); reload and apply your change again`,
         {
           currentVersion: prev.version,
           current: previous,

@@ -157,7 +157,12 @@ export async function acceptStoredFit(
   notes = '',
 ): Promise<OrbitSolutionRow[]> {
   const when = nowIso();
-  const reference = `fit ${when}: ${result.derivatives === 'analytic' ? '' : 'relativistic terms on; '}χ² = ${result.chi2.toFixed(2)} for ${result.dof} degrees of freedom${result.reducedChi2 !== null ? ` (χ²/dof = ${result.reducedChi2.toFixed(3)})` : ''}, loss ${result.loss}, ${result.outliers} outlier(s)`;
+  const reference =
+    `fit ${when}: ` +
+    `${result.derivatives === 'analytic' ? '' : 'relativistic terms on; '}χ² = ` +
+    `${result.chi2.toFixed(2)} for ${result.dof} degrees of ` +
+    `freedom${result.reducedChi2 !== null ? ` (χ²/dof = ${result.reducedChi2.toFixed(3)})` : ''}` +
+    `, loss ${result.loss}, ${result.outliers} outlier(s)`;
   return store.db.transaction(async (tx) => {
     const rows: OrbitSolutionRow[] = [];
     for (const [k, t] of prepared.targets.entries()) {

@@ -89,7 +89,10 @@ export async function fillMigrationGaps(
   const unsafe = gaps.filter((m) => !m.sql.every(isAdditive));
   if (unsafe.length > 0) {
     throw new MigrationGap(
-      `this database was migrated past ${unsafe.map((m) => m.tag).join(', ')} without applying it, and it changes existing tables, so it cannot be applied after the later ones: restore a backup made before the later migrations and start again, or export the campaigns (archive) and load them into a new database`,
+      `this database was migrated past ${unsafe.map((m) => m.tag).join(', ')} without applying ` +
+        `it, and it changes existing tables, so it cannot be applied after the later ones: ` +
+        `restore a backup made before the later migrations and start again, or export the ` +
+        `campaigns (archive) and load them into a new database`,
     );
   }
   try {
@@ -105,7 +108,8 @@ export async function fillMigrationGaps(
     );
   } catch (err) {
     throw new MigrationGap(
-      `this database was migrated past ${gaps.map((m) => m.tag).join(', ')} without applying them, and applying them now failed (${(err as Error).message}); nothing was changed`,
+      `this database was migrated past ${gaps.map((m) => m.tag).join(', ')} without applying ` +
+        `them, and applying them now failed (${(err as Error).message}); nothing was changed`,
     );
   }
   return gaps.map((m) => m.tag);

@@ -60,7 +60,10 @@ export function createStore(database: Database) {
       /** When the relativistic terms of a target become detectable with its planned blocks. */
       forecast: bind(db, targetForecast),
     },
-    /** A campaign's allocated nights in bulk (a pattern, a CSV file, a telescope's calendar): preview, then all or none. */
+    /**
+     * A campaign's allocated nights in bulk (a pattern, a CSV file, a telescope's calendar):
+     * preview, then all or none.
+     */
     allocations: {
       preview: bind(context, previewAllocations),
       accept: bind(context, acceptAllocations),

@@ -22,7 +22,8 @@ export class NestedTransaction extends Error {
   override readonly name = 'NestedTransaction';
   constructor() {
     super(
-      'db.transaction was called inside a transaction of the same database: it would wait behind itself forever; use the tx you were given',
+      'db.transaction was called inside a transaction of the same database: it would wait behind ' +
+        'itself forever; use the tx you were given',
     );
   }
 }
@@ -44,7 +45,8 @@ type Transaction<Tx, C> = <R>(fn: (tx: Tx) => Promise<R>, config?: C) => Promise
  * a nested call refused at once (NestedTransaction).
  * A transaction that failed busy after it began (a statement left half-run, which would otherwise
  * keep its connection on an old snapshot and fail every later commit) makes `reset` drop the
- * pool's connections (none is in use: this is the only open transaction) and runs it again (a few times, within the deadline).
+ * pool's connections (none is in use: this is the only open transaction) and runs it again (a few
+ * times, within the deadline).
  */
 export function gatedTransaction<Tx, C>(
   original: Transaction<Tx, C>,

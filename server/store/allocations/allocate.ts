@@ -97,7 +97,9 @@ async function prepare(
     if (twin) {
       if (twin.semester !== l.semester && twin.state !== 'refused') {
         twin.state = 'refused';
-        twin.reason = `asked for twice with different semester labels (“${twin.semester}” from ${twin.foundIn}, “${l.semester}” from ${l.foundIn})`;
+        twin.reason =
+          `asked for twice with different semester labels (“${twin.semester}” from ` +
+          `${twin.foundIn}, “${l.semester}” from ${l.foundIn})`;
       }
       continue;
     }

@@ -29,7 +29,9 @@ export class ImportRejected extends Error {
   override readonly name = 'ImportRejected';
   constructor(readonly report: ImportReport) {
     super(
-      `${report.problems.length} problem(s) in ${report.kind} CSV; nothing was written (first: line ${report.problems[0]?.line}, ${report.problems[0]?.column}: ${report.problems[0]?.rule})`,
+      `${report.problems.length} problem(s) in ${report.kind} CSV; nothing was written (first: ` +
+        `line ${report.problems[0]?.line}, ${report.problems[0]?.column}: ` +
+        `${report.problems[0]?.rule})`,
     );
   }
 }

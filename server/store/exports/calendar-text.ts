@@ -151,7 +151,10 @@ export function calendarText(feed: CalendarFeed): string {
             ? `Periapsis of ${t.name} (${t.system})`
             : `Periapsis of ${t.name} (${t.system}), ± 1σ`,
         description: [
-          `Most likely at ${when} UTC${sigma === undefined ? '' : `, 1σ ${formatDays(sigma)}`}; the event spans ${sigma === undefined ? 'one minute (the solution has no covariance, so no σ)' : '± 1σ'}.`,
+          `Most likely at ${when} UTC${sigma === undefined ? '' : `, 1σ ${formatDays(sigma)}`}; ` +
+            `the event spans ` +
+            `${sigma === undefined ? 'one minute (the solution has no covariance, so no σ)' : '± 1σ'}` +
+            `.`,
           `Predicted from orbit solution version ${solution.version} (id ${solution.id}).`,
         ].join('\n'),
       });

@@ -83,7 +83,8 @@ export function blockTimeProblem(
     return new InputError(
       'startUtc',
       b.startUtc,
-      `with endUtc ${String(b.endUtc)} must lie within ${nightName(place)} (${isoSecond(t.startMs)} to ${isoSecond(t.endMs)})`,
+      `with endUtc ${String(b.endUtc)} must lie within ${nightName(place)} ` +
+        `(${isoSecond(t.startMs)} to ${isoSecond(t.endMs)})`,
     );
   const inside = t.dark.some(
     (d) => start >= d.startMs - DARKNESS_SLACK_MS && end <= d.endMs + DARKNESS_SLACK_MS,
@@ -93,7 +94,8 @@ export function blockTimeProblem(
     return new InputError(
       'startUtc',
       b.startUtc,
-      `with endUtc ${String(b.endUtc)} must lie in the darkness of ${nightName(place)}, ${t.darknessLabel}: ${dark.length ? dark.join(', ') : 'it has none'}`,
+      `with endUtc ${String(b.endUtc)} must lie in the darkness of ${nightName(place)}, ` +
+        `${t.darknessLabel}: ${dark.length ? dark.join(', ') : 'it has none'}`,
     );
   }
   return null;
@@ -180,7 +182,8 @@ export async function checkBlock(
     if (ids.length > 0)
       throw new ConflictError(
         'overlap',
-        `block overlaps block${ids.length > 1 ? 's' : ''} ${ids.join(', ')} of ${nightName(place)}; move it, or give overlapReason`,
+        `block overlaps block${ids.length > 1 ? 's' : ''} ${ids.join(', ')} of ${nightName(place)}` +
+          `; move it, or give overlapReason`,
         {
           field: 'startUtc',
           value: next.startUtc,
@@ -244,7 +247,8 @@ async function checkBlockDependents(
     throw dependentsError(
       field,
       next[field],
-      `cannot change: measurement${broken.length > 1 ? 's' : ''} ${broken.map((b) => b.id).join(', ')} of the block would break (${broken[0]!.rule})`,
+      `cannot change: measurement${broken.length > 1 ? 's' : ''} ` +
+        `${broken.map((b) => b.id).join(', ')} of the block would break (${broken[0]!.rule})`,
       broken.map((b) => ({ entity: 'measurement', id: b.id })),
     );
   }
@@ -344,7 +348,9 @@ export async function checkBlocksUnder(
     throw dependentsError(
       field,
       value,
-      `cannot change: block${broken.length > 1 ? 's' : ''} ${[...new Set(broken.map((b) => b.id))].join(', ')} would break (block ${broken[0]!.id}: ${broken[0]!.rule})`,
+      `cannot change: block${broken.length > 1 ? 's' : ''} ` +
+        `${[...new Set(broken.map((b) => b.id))].join(', ')} would break (block ${broken[0]!.id}` +
+        `: ${broken[0]!.rule})`,
       [...new Set(broken.map((b) => b.id))].map((id) => ({ entity: 'block', id })),
     );
 }

@@ -68,7 +68,9 @@ async function checkMembersInUse(
     throw dependentsError(
       'siteIds',
       siteIds,
-      `must keep site${atDropped.length > 1 ? 's' : ''} ${[...new Set(atDropped.map((n) => n.siteId))].join(', ')}: ${atDropped.length} of the campaign's nights are there`,
+      `must keep site${atDropped.length > 1 ? 's' : ''} ` +
+        `${[...new Set(atDropped.map((n) => n.siteId))].join(', ')}: ${atDropped.length} of the ` +
+        `campaign's nights are there`,
       atDropped.map((n) => ({ entity: 'night', id: n.id })),
     );
   const used = own.length

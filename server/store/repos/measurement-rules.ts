@@ -76,6 +76,7 @@ export function checkMeasurementBlock(
     throw new InputError(
       'blockId',
       next.blockId,
-      `is on ${block.night}, which is not over until sunrise (${isoSecond(block.overMs)}); record its measurements after that`,
+      `is on ${block.night}, which is not over until sunrise (${isoSecond(block.overMs)}); record ` +
+        `its measurements after that`,
     );
 }

@@ -1,6 +1,7 @@
 /**
  * Duplicate measurements. Two measurements are the same when they have the same target, kind,
- * component (the two stars of a binary may share a velocity at one epoch), epoch to the second and values (the kind's quantities, their σ and correlation): storing one
+ * component (the two stars of a binary may share a velocity at one epoch), epoch to the second and
+ * values (the kind's quantities, their σ and correlation): storing one
  * twice would count it twice in every fit and shrink every σ. The one-row write refuses a twin of
  * a stored row; the import reports each twin row (of a stored row or of an earlier line).
  */

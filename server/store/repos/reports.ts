@@ -38,7 +38,8 @@ export const nightReportEntity = entity<NightReportRow>({
       throw new InputError(
         'nightId',
         next.nightId,
-        `night ${night.date} at ${place.site.name} is not over until sunrise (${isoSecond(over)}); write its report after that`,
+        `night ${night.date} at ${place.site.name} is not over until sunrise (${isoSecond(over)}` +
+          `); write its report after that`,
       );
   },
 });

@@ -12,7 +12,10 @@ import { checkBlocksUnder } from './block-rules.ts';
 
 export type SiteRow = typeof sites.$inferSelect;
 
-/** The sky engine's validateSite is the one gate for sites: stored sites pass it too. Fields are named as in the store. */
+/**
+ * The sky engine's validateSite is the one gate for sites: stored sites pass it too. Fields are
+ * named as in the store.
+ */
 function skySite(values: Record<string, unknown>): Site {
   try {
     return validateSite(values, 'site');

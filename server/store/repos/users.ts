@@ -82,7 +82,8 @@ async function keepOneLeadToken(tx: Tx, revokedId: number): Promise<void> {
   if ((left?.n ?? 0) === 0)
     throw new ConflictError(
       'not_allowed',
-      `token ${revokedId} is the last active token of any lead; issue a lead another token first, or nobody could manage the team`,
+      `token ${revokedId} is the last active token of any lead; issue a lead another token first, ` +
+        `or nobody could manage the team`,
       { tokenId: revokedId },
     );
 }

@@ -35,7 +35,8 @@ const optionalNumber = (s: z.ZodNumber) => s.nullable().optional();
 export const SystemFields = z.object({
   name,
   raDeg: rightAscension(
-    'ICRS right ascension of the primary: degrees [0, 360) as a number, or text (250.3, 16h41m12.5s, 16:41:12.5 in hours, 16.69 h)',
+    'ICRS right ascension of the primary: degrees [0, 360) as a number, or text (250.3, ' +
+      '16h41m12.5s, 16:41:12.5 in hours, 16.69 h)',
   ),
   decDeg: declination(
     'ICRS declination of the primary: degrees as a number, or text (-26.69, -26:41:12, -26°41′12″)',
@@ -112,7 +113,8 @@ export const SiteFields = z.object({
     .boolean()
     .default(false)
     .describe(
-      'the longitude and the time zone disagree by more than 3 h, and that is meant; otherwise such a site is refused with the likely correction',
+      'the longitude and the time zone disagree by more than 3 h, and that is meant; otherwise ' +
+        'such a site is refused with the likely correction',
     ),
   lowestAltitudeDeg: z
     .number()
@@ -169,7 +171,8 @@ export const SiteFields = z.object({
       .positive()
       .max(1e6)
       .describe(
-        'expected 1σ of each astrometric offset at the zenith, mas; null: the default 1 mas (a campaign’s precision overrides it)',
+        'expected 1σ of each astrometric offset at the zenith, mas; null: the default 1 mas (a ' +
+          'campaign’s precision overrides it)',
       ),
   ),
   spectroscopySigmaKmS: optionalNumber(
@@ -178,7 +181,8 @@ export const SiteFields = z.object({
       .positive()
       .max(1e6)
       .describe(
-        'expected 1σ of a radial velocity at the zenith, km/s; null: the default 5 km/s (a campaign’s precision overrides it)',
+        'expected 1σ of a radial velocity at the zenith, km/s; null: the default 5 km/s (a ' +
+          'campaign’s precision overrides it)',
       ),
   ),
   referenceSeeingArcsec: optionalNumber(
@@ -241,7 +245,8 @@ export const CampaignFields = z.object({
         .boolean()
         .optional()
         .describe(
-          'also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false',
+          'also choose epochs that most tighten the redshift and precession factors of targets ' +
+            'with those terms on; default false',
         ),
       periapsisWindowSigma: z
         .number()
@@ -327,7 +332,8 @@ export const BlockFields = z.object({
     .nullable()
     .optional()
     .describe(
-      'why this block may overlap another block of its site (two instruments, a shared field); without it an overlap is refused',
+      'why this block may overlap another block of its site (two instruments, a shared field); ' +
+        'without it an overlap is refused',
     ),
   notes,
 });
@@ -389,7 +395,8 @@ export const MeasurementFields = z.object({
     .enum(MEASURED_COMPONENTS)
     .default('relative')
     .describe(
-      'which body: "relative" (the secondary relative to the primary; a velocity with the primary at rest), or for a radial velocity "primary" / "secondary" about the barycentre',
+      'which body: "relative" (the secondary relative to the primary; a velocity with the primary ' +
+        'at rest), or for a radial velocity "primary" / "secondary" about the barycentre',
     ),
   epoch,
   ...(measuredFields() as Record<MeasuredField, z.ZodOptional<z.ZodNullable<z.ZodNumber>>>),
@@ -416,7 +423,9 @@ export const MeasurementInput = MeasurementFields.superRefine((m, ctx) => {
     ctx.addIssue({
       code: 'custom',
       path: ['component'],
-      message: `must be ${components.map((c) => JSON.stringify(c)).join(', ')} for kind "${m.kind}" (positions are of the secondary relative to the primary)`,
+      message:
+        `must be ${components.map((c) => JSON.stringify(c)).join(', ')} for kind "${m.kind}` +
+        `" (positions are of the secondary relative to the primary)`,
     });
   if (!describeKind(m.kind).correlated && present(CORRELATION_FIELD)) {
     ctx.addIssue({

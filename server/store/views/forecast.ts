@@ -104,7 +104,8 @@ export async function targetForecast(
     at: jdToIso(options.atJd),
     precision: {
       source:
-        "each planned block at the season planner's precision: its site's model (under the request's, then its campaign's zenith values) × airmass^0.6 at the block's middle",
+        "each planned block at the season planner's precision: its site's model (under the " +
+        "request's, then its campaign's zenith values) × airmass^0.6 at the block's middle",
       text,
       epochs: counted,
       notCounted,
@@ -188,5 +189,8 @@ function precisionText(counted: Counted, notCounted: NotCounted): string {
   };
   const ranges = [range('mas', 'astrometry'), range('km/s', 'radial velocity')].filter(Boolean);
   const left = notCounted.map((e) => `${e.site} ${e.night} ${e.kind}: ${e.reason}`);
-  return `${ranges.length ? ranges.join(', ') : 'no planned epoch counted'}${left.length ? `; not counted (closed at the block's middle): ${left.join('; ')}` : ''}`;
+  const words = ranges.length ? ranges.join(', ') : 'no planned epoch counted';
+  return left.length
+    ? `${words}; not counted (closed at the block's middle): ${left.join('; ')}`
+    : words;
 }

@@ -66,7 +66,9 @@ export function requireAcceptMoment(atJd: number, clockMs: number = nowMs()): vo
     throw new InputError(
       'at',
       jdToIso(atJd),
-      `must not be earlier than the server's clock less ${ACCEPT_AT_TOLERANCE_MINUTES} min (${new Date(earliest).toISOString()}) when accepting: a plan may not replace blocks that have begun; preview as of a past moment instead, or leave "at" out`,
+      `must not be earlier than the server's clock less ${ACCEPT_AT_TOLERANCE_MINUTES} min ` +
+        `(${new Date(earliest).toISOString()}) when accepting: a plan may not replace blocks ` +
+        `that have begun; preview as of a past moment instead, or leave "at" out`,
     );
   }
 }

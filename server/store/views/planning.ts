@@ -82,7 +82,10 @@ export function planningSite(
   };
 }
 
-/** A stored target placed on the sky: its system's position (carried by proper motion) and its current orbit, if any. */
+/**
+ * A stored target placed on the sky: its system's position (carried by proper motion) and its
+ * current orbit, if any.
+ */
 export async function placedTarget(
   db: DbOrTx,
   t: typeof targetsTable.$inferSelect,
