@@ -7,7 +7,10 @@
 import { userInfo } from 'node:os';
 import { commandLineActor, type Actor } from '../store/index.ts';
 
-/** The operating-system account running this process (USER/LOGNAME when the lookup fails, e.g. in a container without a passwd entry). */
+/**
+ * The operating-system account running this process (USER/LOGNAME when the lookup fails, e.g. in a
+ * container without a passwd entry).
+ */
 export function operatingSystemAccount(env: NodeJS.ProcessEnv = process.env): string {
   try {
     return userInfo().username;

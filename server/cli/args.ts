@@ -77,7 +77,10 @@ export function outputFormat(values: { json?: boolean; csv?: boolean }): OutputF
   return values.json ? 'json' : values.csv ? 'csv' : 'table';
 }
 
-/** Re-raise an InputError under the option the user typed (`options`: request field → option), so the message names it. */
+/**
+ * Re-raise an InputError under the option the user typed (`options`: request field → option), so
+ * the message names it.
+ */
 export async function asOptions<T>(
   options: Record<string, string>,
   f: () => Promise<T>,

@@ -12,7 +12,10 @@ function usage(): string {
   const lines = Object.entries(commands).map(
     ([name, c]: [string, Command]) => `  ${name.padEnd(width)}  ${c.summary}`,
   );
-  return `usage: epochwright <command> [options]\n\ncommands:\n${lines.join('\n')}\n\n'epochwright <command> --help' shows a command's options.\n`;
+  return (
+    `usage: epochwright <command> [options]\n\ncommands:\n${lines.join('\n')}` +
+    `\n\n'epochwright <command> --help' shows a command's options.\n`
+  );
 }
 
 /**

@@ -79,14 +79,18 @@ const RESIDUAL_COLUMNS: Column<Residual>[] = [
 export function summary(r: FitResult): string {
   const rc = r.reducedChi2 === null ? 'n/a' : r.reducedChi2.toFixed(3);
   const lines = [
-    `χ² = ${r.chi2.toFixed(2)} for ${r.dof} degrees of freedom (χ²/dof = ${rc}); ${r.components} measurement components; ${r.outliers} outlier(s) beyond 5σ`,
-    `loss ${r.loss}; derivatives ${r.derivatives}; ${r.iterations} iterations${r.converged ? '' : ' (not converged)'}; next periapsis counted from ${r.asOf}`,
+    `χ² = ${r.chi2.toFixed(2)} for ${r.dof} degrees of freedom (χ²/dof = ${rc}); ${r.components} ` +
+      `measurement components; ${r.outliers} outlier(s) beyond 5σ`,
+    `loss ${r.loss}; derivatives ${r.derivatives}; ${r.iterations} ` +
+      `iterations${r.converged ? '' : ' (not converged)'}; next periapsis counted from ${r.asOf}`,
     ...r.stars.map((s) => `${s.name}: next periapsis ${s.nextPeriapsis}`),
   ];
   lines.push(...relativityLines(r));
   if (r.posterior)
     lines.push(
-      `posterior: ${r.posterior.samples} draws from an ensemble of ${r.posterior.ensembleSize} × ${r.posterior.rounds} rounds (seed ${r.posterior.seed}), acceptance ${r.posterior.acceptance.toFixed(2)}`,
+      `posterior: ${r.posterior.samples} draws from an ensemble of ${r.posterior.ensembleSize} × ` +
+        `${r.posterior.rounds} rounds (seed ${r.posterior.seed}), acceptance ` +
+        `${r.posterior.acceptance.toFixed(2)}`,
     );
   return `${lines.join('\n')}\n`;
 }
@@ -108,7 +112,8 @@ function relativityLines(r: FitResult): string[] {
   }
   for (const f of r.relativity.factors.filter((x) => x.fitted))
     lines.push(
-      `${f.name} = ${f.value.toFixed(3)} ± ${f.sigma.toFixed(3)}: ${f.detectionSigma.toFixed(1)}σ from 0 (Newtonian), ${f.departureFromGrSigma.toFixed(1)}σ from 1 (general relativity)`,
+      `${f.name} = ${f.value.toFixed(3)} ± ${f.sigma.toFixed(3)}: ${f.detectionSigma.toFixed(1)}σ ` +
+        `from 0 (Newtonian), ${f.departureFromGrSigma.toFixed(1)}σ from 1 (general relativity)`,
     );
   for (const w of r.warnings) lines.push(`warning: ${w}`);
   return lines;

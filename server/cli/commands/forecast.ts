@@ -82,7 +82,8 @@ export const forecastCommand: Command = {
     const table = render(format, result.factors, columns, result);
     if (format !== 'table') return table;
     return [
-      `solution ${result.solution.id} (version ${result.solution.version}); ${result.plannedEpochs} planned epochs after ${result.at}`,
+      `solution ${result.solution.id} (version ${result.solution.version}); ` +
+        `${result.plannedEpochs} planned epochs after ${result.at}`,
       `precision: ${result.precision.text}`,
       `  (${result.precision.source})`,
       ...result.summary,

@@ -24,7 +24,11 @@ stored one or to an earlier line (same target, kind, epoch to the second and val
 --allow-duplicates imports them anyway.
 
 columns (required ones marked *):
-${CSV_KINDS.map((k) => `  ${k}: ${COLUMNS[k].map((c) => (REQUIRED_COLUMNS[k].includes(c) ? `${c}*` : c)).join(', ')}`).join('\n')}
+${CSV_KINDS.map(
+  (k) =>
+    `  ${k}: ` +
+    `${COLUMNS[k].map((c) => (REQUIRED_COLUMNS[k].includes(c) ? `${c}*` : c)).join(', ')}`,
+).join('\n')}
   system and target are names; relativity lists switches separated by ";".
 
 options:

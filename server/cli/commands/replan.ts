@@ -87,11 +87,15 @@ export const replanCommand: Command = {
     const n = result.night;
     const stored = result.written ? { written: result.written } : null;
     return [
-      `night ${n.id} (${n.date}) lost ${n.timeLostHours.toFixed(1)} h${n.reason ? ` (${n.reason})` : ''}; lost blocks: ${result.lost.map((b) => `${b.blockId} ${b.target} ${b.kind} (${b.status})`).join(', ') || 'none'}`,
-      `re-planned ${result.request.startDate} to ${result.request.endDate}, weather-${result.request.weather}: ${result.preview.plan.epochs.length} epochs`,
+      `night ${n.id} (${n.date}) lost ${n.timeLostHours.toFixed(1)} ` +
+        `h${n.reason ? ` (${n.reason})` : ''}; lost blocks: ` +
+        `${result.lost.map((b) => `${b.blockId} ${b.target} ${b.kind} (${b.status})`).join(', ') || 'none'}`,
+      `re-planned ${result.request.startDate} to ${result.request.endDate}, ` +
+        `weather-${result.request.weather}: ${result.preview.plan.epochs.length} epochs`,
       stored
         ? `accepted: ${stored.written.length} blocks written, ${result.preview.replaces.length} replaced`
-        : `preview only (digest ${result.preview.digest}): accepting would replace ${result.preview.replaces.length} stored blocks; run again with --accept to store it`,
+        : `preview only (digest ${result.preview.digest}): accepting would replace ` +
+          `${result.preview.replaces.length} stored blocks; run again with --accept to store it`,
       '',
       render('table', result.preview.plan.epochs, columns, result),
     ].join('\n');

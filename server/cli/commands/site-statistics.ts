@@ -87,7 +87,10 @@ function jointTable(p: Achieved): string {
       value: (r: (typeof rows)[number]) => r.cells[k]!,
     })),
   ];
-  return `${p.instrument}, ${p.kind}: median σ (${p.unit}) and measurements by seeing and airmass together\n${formatTable(rows, columns)}`;
+  return (
+    `${p.instrument}, ${p.kind}: median σ (${p.unit}) and measurements by seeing and airmass ` +
+    `together\n${formatTable(rows, columns)}`
+  );
 }
 
 export const siteStatisticsCommand: Command = {
@@ -138,7 +141,9 @@ export const siteStatisticsCommand: Command = {
     if (format !== 'table') return render(format, stats.months, monthColumns, stats);
     const year = stats.year;
     return [
-      `${stats.site}: ${year.nights} night reports, ${year.lostHours.toFixed(1)} of ${year.darkHours.toFixed(1)} dark hours lost; loss over the year ${(100 * year.loss.mean).toFixed(0)} % ± ${(100 * year.loss.sigma).toFixed(0)} %`,
+      `${stats.site}: ${year.nights} night reports, ${year.lostHours.toFixed(1)} of ` +
+        `${year.darkHours.toFixed(1)} dark hours lost; loss over the year ` +
+        `${(100 * year.loss.mean).toFixed(0)} % ± ${(100 * year.loss.sigma).toFixed(0)} %`,
       `rule: ${stats.rule}`,
       '',
       formatTable(stats.months, monthColumns),
