@@ -6,7 +6,9 @@
  */
 import { jdToIso, parseEpoch } from '../time/index.ts';
 import { jacobians } from './information.ts';
-import { scheduleOnGrid } from './night-schedule.ts';
+import type { CandidateInput } from './candidates.ts';
+import type { NightGrid } from './grid.ts';
+import { scheduleOnGrid, type ScheduledBlock } from './night-schedule.ts';
 import { precisionAt } from './precision.ts';
 import type { Choice, Planner } from './season-plan.ts';
 import { addEpoch, type TargetState } from './season-state.ts';
@@ -43,24 +45,7 @@ export function timeNights(p: Planner): TimedPlan {
       grid,
       skyTargets,
       {
-        candidates: list.map((c, k) => {
-          const t = p.states[c.ti]!.t;
-          return {
-            id: `${k}`,
-            target: t.name,
-            kind: c.o.kind,
-            durationMinutes: t.blockMinutes[c.o.kind],
-            // A periapsis-window epoch's priority doubles, as in the night's own candidates (night-candidates.ts).
-            priority: Math.min(1000, t.priority * (c.why === 'periapsis' ? 2 : 1) * (1 + c.rank)),
-            laserGuideStar: site.laserGuideStar === true && t.laserGuideStar[c.o.kind],
-            ...(c.o.timed
-              ? {
-                  earliestStart: jdToIso(grid.edgeJd[c.o.first]!),
-                  latestEnd: jdToIso(grid.edgeJd[c.o.last]!),
-                }
-              : {}),
-          };
-        }),
+        candidates: list.map((c, k) => nightCandidate(p, site, grid, c, k)),
         slewMinutes: p.slewMinutes,
         sameTargetMinutes: p.sameTargetMinutes,
         kept: p.nights.kept[key]!,
@@ -71,26 +56,7 @@ export function timeNights(p: Planner): TimedPlan {
       const c = list[Number(b.id)]!;
       const ts = p.states[c.ti]!;
       const prec = precisionAt(p.precision[s]!, b.airmassMiddle, site.limits.zenithSeeingArcsec);
-      const astro = c.o.kind === 'astrometry';
-      epochs.push({
-        target: ts.t.name,
-        kind: c.o.kind,
-        site: site.site.name,
-        date: dates[d]!,
-        block: {
-          ...b,
-          id: `${ts.t.name}/${c.o.kind}/${dates[d]}/${site.site.name}/${b.start.utc.slice(11, 16)}`,
-        },
-        precision: {
-          sigma: astro ? prec.astrometryMas : prec.spectroscopyKmS,
-          unit: astro ? 'mas' : 'km/s',
-          airmass: b.airmassMiddle,
-          seeingArcsec: prec.seeingArcsec,
-        },
-        gain: c.gain,
-        why: c.why,
-        reason: c.reason,
-      });
+      epochs.push(plannedEpoch(ts.t.name, site.site.name, dates[d]!, b, c, prec));
       const f = final[c.ti]!;
       if (f.model) {
         const jd = (parseEpoch(b.start.utc) + parseEpoch(b.end.utc)) / 2;
@@ -115,4 +81,61 @@ export function timeNights(p: Planner): TimedPlan {
       a.block.start.utc.localeCompare(b.block.start.utc) || a.target.localeCompare(b.target),
   );
   return { epochs, final, leftOut };
+}
+
+/** A chosen option as a candidate of its night's schedule (timed options keep their edges). */
+function nightCandidate(
+  p: Planner,
+  site: Planner['sites'][number],
+  grid: NightGrid,
+  c: Choice,
+  k: number,
+): CandidateInput {
+  const t = p.states[c.ti]!.t;
+  return {
+    id: `${k}`,
+    target: t.name,
+    kind: c.o.kind,
+    durationMinutes: t.blockMinutes[c.o.kind],
+    // A periapsis-window epoch's priority doubles, as in the night's own candidates (night-candidates.ts).
+    priority: Math.min(1000, t.priority * (c.why === 'periapsis' ? 2 : 1) * (1 + c.rank)),
+    laserGuideStar: site.laserGuideStar === true && t.laserGuideStar[c.o.kind],
+    ...(c.o.timed
+      ? {
+          earliestStart: jdToIso(grid.edgeJd[c.o.first]!),
+          latestEnd: jdToIso(grid.edgeJd[c.o.last]!),
+        }
+      : {}),
+  };
+}
+
+/** A scheduled block as an epoch of the plan, with its precision at the block's middle. */
+function plannedEpoch(
+  target: string,
+  site: string,
+  date: string,
+  b: ScheduledBlock,
+  c: Choice,
+  prec: ReturnType<typeof precisionAt>,
+): PlannedEpoch {
+  const astro = c.o.kind === 'astrometry';
+  return {
+    target,
+    kind: c.o.kind,
+    site,
+    date,
+    block: {
+      ...b,
+      id: `${target}/${c.o.kind}/${date}/${site}/${b.start.utc.slice(11, 16)}`,
+    },
+    precision: {
+      sigma: astro ? prec.astrometryMas : prec.spectroscopyKmS,
+      unit: astro ? 'mas' : 'km/s',
+      airmass: b.airmassMiddle,
+      seeingArcsec: prec.seeingArcsec,
+    },
+    gain: c.gain,
+    why: c.why,
+    reason: c.reason,
+  };
 }
