@@ -210,15 +210,7 @@ export function nightReport(
       midnight: instant(sun.midnightJd, zone),
       twilights: twilightTable(sun, zone),
     },
-    darkness: {
-      limit: c.darknessLabel,
-      intervals: dark.map((d) => ({
-        start: instant(d.startJd, zone),
-        end: instant(d.endJd, zone),
-        hours: hoursOf(d),
-      })),
-      hours: dark.reduce((h, d) => h + hoursOf(d), 0),
-    },
+    darkness: darknessSummary(c.darknessLabel, dark, zone),
     moon: {
       rise: at(moon.riseJd),
       set: at(moon.setJd),
@@ -227,17 +219,39 @@ export function nightReport(
       phaseDeg: moon.phaseDeg,
       curve: curveStep > 0 ? moonCurve(frame, curveJd, setting.curveUtc) : null,
     },
-    limits: {
-      altitudeLimitDeg: c.altitudeLimitDeg,
-      highestAirmass: c.highestAirmass,
-      airmassFormula: c.airmassFormula,
-      leastMoonDistanceDeg: c.leastMoonDistanceDeg,
-      leastSunDistanceDeg: c.leastSunDistanceDeg,
-      horizonMask: c.mask.length > 0,
-    },
+    limits: limitsSummary(c),
     method,
     targets: targets.map((target) => targetNight(setting, target)),
     cautions: cautions(c),
+  };
+}
+
+/** The dark intervals in the site's zone, with the darkness limit's name and the total hours. */
+function darknessSummary(
+  limit: Limits['darknessLabel'],
+  dark: Interval[],
+  zone: string,
+): NightReport['darkness'] {
+  return {
+    limit,
+    intervals: dark.map((d) => ({
+      start: instant(d.startJd, zone),
+      end: instant(d.endJd, zone),
+      hours: hoursOf(d),
+    })),
+    hours: dark.reduce((h, d) => h + hoursOf(d), 0),
+  };
+}
+
+/** The limits the windows were judged by. */
+function limitsSummary(c: Limits): NightReport['limits'] {
+  return {
+    altitudeLimitDeg: c.altitudeLimitDeg,
+    highestAirmass: c.highestAirmass,
+    airmassFormula: c.airmassFormula,
+    leastMoonDistanceDeg: c.leastMoonDistanceDeg,
+    leastSunDistanceDeg: c.leastSunDistanceDeg,
+    horizonMask: c.mask.length > 0,
   };
 }
 
