@@ -258,44 +258,15 @@ function periapsisFlags(
   const sigmaDays = ev.sigmaDays ?? null;
   const half = Math.max(1, Math.min(60, Math.ceil(sigmaDays ?? 1)));
   const siteHours = sites.map((s) => hoursAround(s.site, s.limits, ft.target, ev.jd, half));
-  const rows = predictBatch(orbit, Float64Array.of(ev.jd - 0.5, ev.jd, ev.jd + 0.5));
-  const rvRate =
-    orbit.distancePc === null ? null : rows.radialVelocityKmS[2]! - rows.radialVelocityKmS[0]!;
-  const skyRate = Math.hypot(rows.vRaMasYr[1]!, rows.vDecMasYr[1]!) / 365.25;
-  const cands = [
-    precision.astrometryMas / skyRate,
-    rvRate ? precision.spectroscopyKmS / Math.abs(rvRate) : Infinity,
-  ].filter((x) => Number.isFinite(x));
-  const samplingDays = cands.length ? Math.min(...cands) : null;
-  let relativity: NonNullable<Flag['periapsis']>['relativity'] = null;
-  if (orbit.distancePc !== null) {
-    const q = physicalQuantities(orbit);
-    relativity = {
-      gravitationalRedshiftKmS: q.gravitationalRedshiftAtPeriapsisKmS,
-      transverseDopplerKmS: q.transverseDopplerAtPeriapsisKmS,
-      precessionArcminPerOrbit: q.precessionArcminPerOrbit,
-    };
-  }
+  const { rvRate, skyRate, samplingDays } = passageRates(orbit, ev.jd, precision);
+  const relativity = relativityAtPeriapsis(orbit);
   const daysAhead = ev.jd - now;
   const band = bandOf(daysAhead, lead);
   const seen = siteHours.filter((s) => s.maxHours > 0);
   const date = ev.epoch;
   const pm =
     sigmaDays === null ? '(no covariance: uncertainty unknown)' : `± ${sigmaDays.toFixed(1)} d`;
-  const sampling =
-    samplingDays === null
-      ? ''
-      : `, so sample at least every ` +
-        `${samplingDays < 1 ? `${rounded(samplingDays * 24, 2)} h` : `${rounded(samplingDays, 2)} d`}`;
-  const rates =
-    `radial velocity changes by ` +
-    `${rvRate === null ? '? (no distance)' : `${rounded(Math.abs(rvRate))} km/s`} and position ` +
-    `by ${rounded(skyRate)} mas per day there${sampling}`;
-  const rel = relativity
-    ? `; gravitational redshift ${rounded(relativity.gravitationalRedshiftKmS)} km/s, transverse ` +
-      `Doppler ${rounded(relativity.transverseDopplerKmS)} km/s, precession ` +
-      `${rounded(relativity.precessionArcminPerOrbit)}′ per orbit`
-    : '';
+  const rates = ratesWords(rvRate, skyRate, samplingDays, relativity);
   const where = siteHours.map(siteHoursWords).join('; ');
   const coverage = passageCoverage(ft, sites, siteHours, ev.jd, half);
   const details = {
@@ -330,10 +301,65 @@ function periapsisFlags(
     reason:
       `${name} passes periapsis on ${date.slice(0, 10)} ${pm}, ${Math.round(daysAhead)} ` +
       `days ahead (${band}). Observable: ${where}. ${coverage.text ? `${coverage.text} ` : ''}` +
-      `Its ${rates}${rel}.`,
+      `Its ${rates}.`,
     periapsis: details,
   });
   return out;
+}
+
+/**
+ * How fast the star moves at periapsis (radial velocity per day over ± 12 h, sky speed per day)
+ * and the sampling that resolves it: the interval over which either changes by its 1σ.
+ */
+function passageRates(
+  orbit: Orbit,
+  jd: number,
+  precision: { astrometryMas: number; spectroscopyKmS: number },
+): { rvRate: number | null; skyRate: number; samplingDays: number | null } {
+  const rows = predictBatch(orbit, Float64Array.of(jd - 0.5, jd, jd + 0.5));
+  const rvRate =
+    orbit.distancePc === null ? null : rows.radialVelocityKmS[2]! - rows.radialVelocityKmS[0]!;
+  const skyRate = Math.hypot(rows.vRaMasYr[1]!, rows.vDecMasYr[1]!) / 365.25;
+  const cands = [
+    precision.astrometryMas / skyRate,
+    rvRate ? precision.spectroscopyKmS / Math.abs(rvRate) : Infinity,
+  ].filter((x) => Number.isFinite(x));
+  return { rvRate, skyRate, samplingDays: cands.length ? Math.min(...cands) : null };
+}
+
+/** The relativistic terms' sizes at periapsis, when the distance is known. */
+function relativityAtPeriapsis(orbit: Orbit): NonNullable<Flag['periapsis']>['relativity'] {
+  if (orbit.distancePc === null) return null;
+  const q = physicalQuantities(orbit);
+  return {
+    gravitationalRedshiftKmS: q.gravitationalRedshiftAtPeriapsisKmS,
+    transverseDopplerKmS: q.transverseDopplerAtPeriapsisKmS,
+    precessionArcminPerOrbit: q.precessionArcminPerOrbit,
+  };
+}
+
+/** The rates, the sampling and the relativistic terms in words. */
+function ratesWords(
+  rvRate: number | null,
+  skyRate: number,
+  samplingDays: number | null,
+  relativity: NonNullable<Flag['periapsis']>['relativity'],
+): string {
+  const sampling =
+    samplingDays === null
+      ? ''
+      : `, so sample at least every ` +
+        `${samplingDays < 1 ? `${rounded(samplingDays * 24, 2)} h` : `${rounded(samplingDays, 2)} d`}`;
+  const rates =
+    `radial velocity changes by ` +
+    `${rvRate === null ? '? (no distance)' : `${rounded(Math.abs(rvRate))} km/s`} and position ` +
+    `by ${rounded(skyRate)} mas per day there${sampling}`;
+  const rel = relativity
+    ? `; gravitational redshift ${rounded(relativity.gravitationalRedshiftKmS)} km/s, transverse ` +
+      `Doppler ${rounded(relativity.transverseDopplerKmS)} km/s, precession ` +
+      `${rounded(relativity.precessionArcminPerOrbit)}′ per orbit`
+    : '';
+  return `${rates}${rel}`;
 }
 
 /** "Tolvane 0.0–6.5 h per night (0 h on 08-05, 08-06: the Moon (12° away, limit 25°) …)". */
