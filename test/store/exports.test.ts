@@ -14,6 +14,7 @@ it('exports exactly the store entry points', () => {
     'CSV_KINDS',
     'CampaignFields',
     'ConflictError',
+    'DEFAULT_PRIOR_STRENGTH_NIGHTS',
     'DEFAULT_WEATHER',
     'ImportRejected',
     'LOCAL_OPERATOR',
@@ -38,6 +39,7 @@ it('exports exactly the store entry points', () => {
     'displayUrl',
     'ephemerisCsv',
     'escapeFormulaCell',
+    'filePath',
     'locateDatabase',
     'measurementsCsv',
     'openDatabase',
@@ -45,6 +47,7 @@ it('exports exactly the store entry points', () => {
     'readClearPriorCsv',
     'residualsCsv',
     'resolveDatabaseUrl',
+    'skyOfRows',
     'startStore',
     'tokenActor',
   ]); // server/store/index.ts as designed
