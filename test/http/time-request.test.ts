@@ -72,6 +72,23 @@ describe('the semester time request (demo campaign)', () => {
     expect(r.totals.requestHours).toBeCloseTo(r.totals.hours + r.totals.allowanceHours, 9);
     expect(r.markdown).toContain('# Time request, semester D1');
     expect(r.targets.some((t) => /periapsis on \d{4}-\d{2}-\d{2}/.test(t.reason))).toBe(true);
+    // With and without are the same linear forecast with and without the blocks: more data never
+    // widens a Fisher σ (constructed by the forecast), and the answer says how it was reckoned.
+    const answer = r as unknown as {
+      method: string;
+      targets: {
+        periapsisSigmaDays: { with: number | null; without: number | null };
+        factors: { with: number | null; without: number | null }[];
+      }[];
+    };
+    expect(answer.method).toMatch(/Fisher/);
+    for (const t of answer.targets) {
+      const pairs = [t.periapsisSigmaDays, ...t.factors];
+      for (const x of pairs)
+        if (x.with !== null && x.without !== null)
+          expect(x.with).toBeLessThanOrEqual(x.without * (1 + 1e-9));
+    }
+    expect(answer.targets.some((t) => t.factors.some((f) => f.with !== null))).toBe(true);
   });
 
   it('gives CSV rows that add up to the same, and refuses a bad semester naming the field', {

@@ -11939,6 +11939,8 @@ export interface components {
                 nights: number;
             };
             rule: string;
+            /** @description how the results with and without the time are reckoned */
+            method: string;
             /** @description the same, ready to paste into a proposal */
             markdown: string;
         };

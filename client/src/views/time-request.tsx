@@ -205,6 +205,7 @@ export function TimeRequestView() {
             </p>
           ))}
           <p class="muted">Rule: {result.rule}.</p>
+          <p class="muted request-method">Expected results: {result.method}.</p>
           <details class="no-print">
             <summary>Markdown for the proposal</summary>
             <textarea class="request-markdown" readOnly rows={14} value={result.markdown} />

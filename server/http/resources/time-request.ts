@@ -81,6 +81,9 @@ const Answer = z
       })
       .strict(),
     rule: z.string(),
+    method: z
+      .string()
+      .openapi({ description: 'how the results with and without the time are reckoned' }),
     markdown: z.string().openapi({ description: 'the same, ready to paste into a proposal' }),
   })
   .strict()

@@ -67,7 +67,8 @@ const LABEL: Record<RelativityFactorName, string> = {
 };
 
 /** Planned epochs as measurements of the fit's kinds (values are placeholders: only σ counts). */
-function planned(e: ForecastEpoch, p: Precision): MeasurementInput {
+/** A planned epoch as the Fisher rows read it: a measurement of value 0 with the epoch's σ. */
+export function plannedMeasurement(e: ForecastEpoch, p: Precision): MeasurementInput {
   if (e.kind === 'spectroscopy')
     return {
       kind: 'radial-velocity',
@@ -111,7 +112,7 @@ function sigmasOf(F: Float64Array, n: number, which: number[]): (number | null)[
  */
 export function forecastDetection(req: ForecastRequest): DetectionForecast {
   const plan = [...req.plan].sort((a, b) => a.jd - b.jd);
-  const all = [...req.measurements, ...plan.map((e) => planned(e, req.precision))];
+  const all = [...req.measurements, ...plan.map((e) => plannedMeasurement(e, req.precision))];
   const fisher = fisherRows(req.orbit, all, [...FORECAST_FACTORS]);
   const n = fisher.parameters.length;
   const idx = FORECAST_FACTORS.map((f) => fisher.parameters.indexOf(f));

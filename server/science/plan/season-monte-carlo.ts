@@ -23,9 +23,14 @@ import { SeededRandom } from '../random.ts';
 import { parseEpoch } from '../time/index.ts';
 import { numberIn } from './checks.ts';
 import type { BlockKind } from './candidates.ts';
-import { precisionAt, precisionModel, type PrecisionModel } from './precision.ts';
+import {
+  DEFAULT_PRECISION,
+  precisionAt,
+  precisionModel,
+  type PrecisionModel,
+} from './precision.ts';
 import { airmassAt } from './site-log.ts';
-import { FORECAST_FACTORS } from './forecast.ts';
+import { FORECAST_FACTORS, plannedMeasurement } from './forecast.ts';
 import { addInformation, informationModel, jacobians, posteriorCovariance } from './information.ts';
 import { coverageProbability, passagesIn, quadratic } from './passage.ts';
 import type { SeasonPlan, SeasonSite, SeasonTarget } from './season-types.ts';
@@ -203,7 +208,7 @@ export function seasonMonteCarlo(
           sigma: e.precision.sigma,
           kept: false,
         })),
-      ...keptEpochs(sites, t, options.precision, nightOf),
+      ...keptEpochsOf(sites, t, options.precision, nightOf),
     ];
     const kept = {
       planned: mine.filter((e) => e.kept && e.night >= 0).length,
@@ -236,22 +241,8 @@ export function seasonMonteCarlo(
     });
     let factors: { n: number; now: Float64Array; which: number[] } | null = null;
     if (orbit.distancePc !== null && t.measurements) {
-      const planned: MeasurementInput[] = mine.map((e, k) =>
-        e.kind === 'spectroscopy'
-          ? {
-              kind: 'radial-velocity',
-              epoch: epochs[k]!.jd,
-              radialVelocityKmS: 0,
-              sigmaRadialVelocityKmS: e.sigma,
-            }
-          : {
-              kind: 'offsets',
-              epoch: epochs[k]!.jd,
-              dRaMas: 0,
-              dDecMas: 0,
-              sigmaDRaMas: e.sigma,
-              sigmaDDecMas: e.sigma,
-            },
+      const planned = mine.map((e, k) =>
+        plannedMeasurement({ jd: epochs[k]!.jd, kind: e.kind, sigma: e.sigma }, DEFAULT_PRECISION),
       );
       const fisher = fisherRows(orbit, [...t.measurements, ...planned], [...FORECAST_FACTORS]);
       const nf = fisher.parameters.length;
@@ -348,7 +339,7 @@ export function seasonMonteCarlo(
  * rest on their night; σ from the site's precision model at the block's middle airmass (2 where the
  * target is below the horizon there, as the planner takes it).
  */
-function keptEpochs(
+export function keptEpochsOf(
   sites: readonly SeasonSite[],
   t: DrawTarget,
   campaign: Partial<PrecisionModel> | undefined,

@@ -64,10 +64,16 @@ export interface TimeRequest {
   targets: TargetResult[];
   totals: { hours: number; allowanceHours: number; requestHours: number; nights: number };
   rule: string;
+  /** How "with" and "without" the requested time are computed. */
+  method: string;
 }
 
 export const ALLOWANCE_RULE =
   'weather allowance per block: its hours × (1 − c) / c, with c the chance its night is clear (learned from the site’s log and prior); request = blocks + allowance';
+
+/** How the expected results are reckoned, stated with every request. */
+export const RESULT_METHOD =
+  'with and without the time: linear (Fisher) 1σ from the current orbit solution and the stored measurements, and the blocks already on the semester’s nights that stay, without the requested blocks and with all of them at their expected σ (the weather allowance is what makes obtaining them the expectation; the season Monte Carlo gives the spread if nights are lost beyond it)';
 
 const LEAST_CLEAR = 0.01;
 const h1 = (x: number) => x.toFixed(1);
@@ -192,6 +198,7 @@ export function timeRequest(
       nights: sum((s) => s.nights),
     },
     rule: ALLOWANCE_RULE,
+    method: RESULT_METHOD,
   };
 }
 
@@ -218,6 +225,14 @@ export function timeRequestMarkdown(r: TimeRequest): string {
       '',
     );
   }
-  out.push('## Why', '', ...r.targets.flatMap((t) => [t.reason, '']), `Rule: ${r.rule}.`, '');
+  out.push(
+    '## Why',
+    '',
+    ...r.targets.flatMap((t) => [t.reason, '']),
+    `Rule: ${r.rule}.`,
+    '',
+    `Expected results: ${r.method}.`,
+    '',
+  );
   return out.join('\n');
 }

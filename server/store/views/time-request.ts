@@ -1,13 +1,16 @@
 /**
  * A stored campaign's time request for a semester: its season plan over the semester's nights
  * (weather-aware by default), the weather allowance from each site's learned clear chance, and the
- * relativity forecast of each target from its stored measurements and the plan's epochs.
+ * relativity forecast of each target from its stored measurements (and the blocks that stay) with
+ * and without the plan's epochs.
  */
 import { inArray } from 'drizzle-orm';
 import { measurements } from '../../../db/schema.ts';
 import { inProcess, type Runner } from '../../jobs/tasks.ts';
 import { InputError } from '../../science/errors.ts';
 import { DEFAULT_PRECISION, forecastDetection } from '../../science/plan/index.ts';
+import { plannedMeasurement } from '../../science/plan/forecast.ts';
+import { keptEpochsOf } from '../../science/plan/season-monte-carlo.ts';
 import {
   timeRequest,
   type FactorResult,
@@ -67,9 +70,13 @@ export async function timeRequestView(
         kind: e.kind,
         sigma: e.precision.sigma,
       }));
+    // Blocks that stay on the semester's nights count with and without the request, as in the plan.
+    const kept = keptEpochsOf(p.weatherSites, t, p.options.precision, () => 0).map((k) =>
+      plannedMeasurement(k, DEFAULT_PRECISION),
+    );
     const f = forecastDetection({
       orbit,
-      measurements: rows.filter((m) => m.targetId === id).map(toInput),
+      measurements: [...rows.filter((m) => m.targetId === id).map(toInput), ...kept],
       plan: epochs,
       precision: DEFAULT_PRECISION,
     });

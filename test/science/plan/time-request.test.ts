@@ -83,6 +83,8 @@ describe('the semester time request', () => {
 
   it('writes the same numbers in Markdown and a paragraph per target from its own σ', () => {
     const md = timeRequestMarkdown(r);
+    expect(md).toContain(`Expected results: ${r.method}.`); // says how with/without are reckoned
+    expect(r.method).toMatch(/Fisher/);
     expect(md).toContain(`Total: ${r.totals.requestHours.toFixed(1)} h`);
     for (const s of r.sites) expect(md).toContain(`## ${s.site}: ${s.requestHours.toFixed(1)} h`);
     const p1 = r.targets.find((t) => t.target === 'P1')!;
