@@ -181,7 +181,7 @@ export interface CampaignGoals {
   /** Laser guide star use per kind where a site has one (absent: none). */
   laserGuideStar?: PerKindGoal<boolean>;
   /** Epochs per night inside a periapsis window. */
-  periapsisRepeat?: 'single' | 'fill' | { everyHours: number };
+  periapsisRepeat?: 'single' | 'fill' | { step: string };
   /** Also maximise the relativity forecast of targets with the terms on (default false). */
   relativityGoal?: boolean;
   /** Half-width of the periapsis window in σ of the passage date (default 2). */
@@ -198,7 +198,7 @@ export interface CampaignGoals {
       cadenceDays?: number;
       blockMinutes?: PerKindGoal<number>;
       laserGuideStar?: PerKindGoal<boolean>;
-      periapsisRepeat?: 'single' | 'fill' | { everyHours: number };
+      periapsisRepeat?: 'single' | 'fill' | { step: string };
     }
   >;
 }

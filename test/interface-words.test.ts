@@ -27,21 +27,25 @@ const OLD_KEYS = [
   'every',
   'stepMinutes',
   'curveStepMinutes',
+  'everyHours',
+  'everyNights',
 ];
-/** Replaced CLI options. */
+/** Replaced CLI options (refused by name: server/cli/args.ts). */
 const OLD_OPTIONS = [
   '--constraints',
   '--max-airmass',
   '--moon-distance',
   '--sample',
   '--from',
+  '--to',
   '--every',
+  '--every-nights',
 ];
 /** Durations in the short forms of earlier versions (30d, 6h, 15min, 1yr) instead of ISO 8601. */
 const SHORT_DURATION = /(?<![\w.])\d+(?:\.\d+)?(?:d|h|min|yr)\b/;
 /** Replaced words, searched as whole words in every text (enum values included). */
 const OLD_WORDS =
-  /\b(constraints|minAltitudeDeg|maxAirmass|minMoonSeparationDeg|sunAvoidanceDeg|walkers|sun-avoidance)\b/;
+  /\b(constraints|minAltitudeDeg|maxAirmass|minMoonSeparationDeg|sunAvoidanceDeg|walkers|sun-avoidance|everyHours|everyNights)\b/;
 /**
  * Look-alikes of real stars and of the real Galactic-centre object (item 6): S-numbered star names,
  * the demo's old "VC s1" names, and distances of about 8 kpc in examples.
@@ -94,7 +98,10 @@ describe('no replaced name survives at an interface', () => {
     expect(OLD_OPTIONS.filter((o) => new RegExp(`${o}(?![\\w-])`).test(help))).toEqual([]);
     expect(firstOldWord(help)).toBeNull();
     expect(help).toContain('PT5M');
-    expect(SHORT_DURATION.exec(help)?.[0] ?? null).toBeNull();
+    // A right ascension in hours (16.69h) is a coordinate, not a duration: its lines are left out.
+    const ra = /^.*right ascension.*$/gim;
+    expect(help).toMatch(ra);
+    expect(SHORT_DURATION.exec(help.replace(ra, ''))?.[0] ?? null).toBeNull();
   });
 
   it('in the README', () => {

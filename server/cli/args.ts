@@ -113,9 +113,22 @@ export const RETIRED_ID_OPTIONS: Readonly<Record<string, string>> = {
   id: 'token-id',
 };
 
-/** The message for an unknown option that is a retired id spelling, or null for any other. */
+/**
+ * Range and step options of earlier versions (DEVELOPERS.md, "Vocabulary"): a range is
+ * --start/--end, its spacing --step (an ISO 8601 duration); refused by name with what replaced them.
+ */
+const RETIRED_OPTIONS: Readonly<Record<string, string>> = {
+  from: '--start (the first of a range) or --record (a whole record as JSON)',
+  to: '--end (the last of a range) or --file (where backup writes)',
+  every: '--step, an ISO 8601 duration such as P30D or PT6H',
+  'every-nights': '--step, an ISO 8601 duration in whole days (P2D: every second night)',
+};
+
+/** The message for an unknown option that is a retired spelling, or null for any other. */
 export function retiredIdOption(message: string): string | null {
   const m = /Unknown option '--([a-z-]+)'/.exec(message);
-  const now = m ? RETIRED_ID_OPTIONS[m[1]!] : undefined;
-  return now ? `--${m![1]} is now --${now} (every id option is --<record>-id)` : null;
+  const id = m ? RETIRED_ID_OPTIONS[m[1]!] : undefined;
+  if (id) return `--${m![1]} is now --${id} (every id option is --<record>-id)`;
+  const other = m ? RETIRED_OPTIONS[m[1]!] : undefined;
+  return other ? `--${m![1]} is now ${other}` : null;
 }

@@ -134,10 +134,10 @@ export async function run(): Promise<string[]> {
   const peri = periapsisCase();
   const periPair = bestOfPair(
     3,
-    () => void peri.plan({ everyHours: 2 }),
+    () => void peri.plan({ step: 'PT2H' }),
     () => void peri.plan('single'),
   );
-  const periPlan = peri.plan({ everyHours: 2 });
+  const periPlan = peri.plan({ step: 'PT2H' });
   return [
     benchLine('plan-night', night * 1000, 'ms'),
     benchLine(

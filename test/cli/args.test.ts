@@ -40,6 +40,30 @@ describe('one spelling for each id option', () => {
     expect(said).toContain(words);
   });
 
+  it.each([
+    [['ephemeris', '--from', '2027-01-01'], '--from is now --start'],
+    [['system', 'add', '--from', '{}'], '--from is now --start (the first of a range) or --record'],
+    [['events', '--to', '2027-01-01'], '--to is now --end'],
+    [['backup', '--to', 'copy.db'], '--to is now --end (the last of a range) or --file'],
+    [['ephemeris', '--every', '30d'], '--every is now --step, an ISO 8601 duration'],
+    [['allocate', '--campaign-id', '1', '--every-nights', '2'], '--every-nights is now --step'],
+  ])(
+    '%j: a range or step option of earlier versions is refused, naming its successor',
+    async (argv, words) => {
+      let said = '';
+      const spy = vi.spyOn(process.stderr, 'write').mockImplementation((chunk) => {
+        said += String(chunk);
+        return true;
+      });
+      try {
+        expect(await main(argv)).toBe(2);
+      } finally {
+        spy.mockRestore();
+      }
+      expect(said).toContain(words);
+    },
+  );
+
   it('answers only for a retired spelling', () => {
     expect(retiredIdOption("Unknown option '--site'")).toMatch(/--site-id/);
     expect(retiredIdOption("Unknown option '--sight'")).toBeNull();

@@ -154,7 +154,7 @@ describe('store commands', () => {
     );
     expect(bad).toBeInstanceOf(InputError); // exit 2: bad input (server/cli/main.ts)
     expect((bad as InputError).field).toBe('--at');
-    const out = await run('backup', '--to', join(dir, 'copy.db'));
+    const out = await run('backup', '--file', join(dir, 'copy.db'));
     const copy = await openDatabase({ url: `file:${/written to (.*)$/m.exec(out)![1]}` });
     expect(
       Number((await copy.client.execute('SELECT count(*) AS n FROM measurements')).rows[0]!.n),

@@ -113,20 +113,31 @@ for (const backend of BACKENDS) {
       expect(again.body.created).toHaveLength(0);
     });
 
-    it('every Nth night, both ends included', async () => {
+    it('one night per ISO 8601 step, both ends included', async () => {
       const p = await post('/allocations/preview', {
         source: 'pattern',
         siteId: f.ids.site,
         start: '2027-04-01',
         end: '2027-04-10',
-        everyNights: 3,
+        step: 'P3D',
       });
       expect(p.body.nights.map((n: Json) => n.date)).toEqual([
         '2027-04-01',
         '2027-04-04',
         '2027-04-07',
         '2027-04-10',
-      ]);
+      ]); // constructed case: every third evening from the first
+      const pattern = {
+        source: 'pattern',
+        siteId: f.ids.site,
+        start: '2027-04-01',
+        end: '2027-04-10',
+      };
+      const half = await post('/allocations/preview', { ...pattern, step: 'PT36H' });
+      expect(half.status).toBe(422);
+      expect(half.body.error.details).toMatchObject({ field: 'step', value: 'PT36H' });
+      expect((await post('/allocations/preview', { ...pattern, step: '3d' })).status).toBe(422);
+      expect((await post('/allocations/preview', { ...pattern, everyNights: 3 })).status).toBe(400); // the earlier name is not a key
     });
 
     it('one refused night stores none, and the refusal names the night and the rule', async () => {

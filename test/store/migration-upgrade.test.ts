@@ -194,3 +194,57 @@ it('upgrades a database made before migration 0003: limits keep their values und
     store.close();
   }
 });
+
+it('upgrades a database made before migration 0011: a periapsis repeat keeps its spacing as an ISO 8601 step', async () => {
+  // The migrations folder as it stood before 0011: the first eleven journal entries.
+  const old = join(dir, 'migrations-0010');
+  cpSync(MIGRATIONS_FOLDER, old, { recursive: true });
+  const journal = JSON.parse(readFileSync(join(old, 'meta/_journal.json'), 'utf8')) as {
+    entries: { tag: string }[];
+  };
+  expect(journal.entries[11]?.tag).toMatch(/^0011_/); // the migration under test exists
+  writeFileSync(
+    join(old, 'meta/_journal.json'),
+    JSON.stringify({ ...journal, entries: journal.entries.slice(0, 11) }),
+  );
+  const url = `file:${join(dir, 'old-repeat.db')}`;
+  const client = createClient({ url });
+  await migrate(drizzle(client), { migrationsFolder: old });
+  const now = '2026-01-01T00:00:00.000Z';
+  const campaign = (name: string, goals: object) =>
+    client.execute({
+      sql: 'INSERT INTO campaigns (name, start_date, end_date, goals, limits, created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?)',
+      args: [name, '2027-01-01', '2027-12-31', JSON.stringify(goals), '{}', now, now],
+    });
+  const base = { cadenceDays: 30, kinds: ['astrometry'] };
+  await campaign('Hours', {
+    ...base,
+    periapsisRepeat: { everyHours: 2 },
+    targets: { '7': { priority: 2, periapsisRepeat: { everyHours: 1.5 } }, '8': { priority: 1 } },
+  });
+  await campaign('Fill', { ...base, periapsisRepeat: 'fill', targets: { '9': { priority: 3 } } });
+  await campaign('Plain', base);
+  client.close();
+
+  const store = createStore(await openDatabase({ url }));
+  try {
+    const goals = (await store.campaigns.list({})).items.map((c) => [c.name, c.goals]);
+    expect(goals).toEqual([
+      [
+        'Hours',
+        {
+          ...base,
+          periapsisRepeat: { step: 'PT2H' },
+          targets: {
+            '7': { priority: 2, periapsisRepeat: { step: 'PT1.5H' } },
+            '8': { priority: 1 },
+          },
+        },
+      ],
+      ['Fill', { ...base, periapsisRepeat: 'fill', targets: { '9': { priority: 3 } } }],
+      ['Plain', base],
+    ]); // the values inserted above, the spacing as an ISO 8601 duration (1.5 h = PT1.5H)
+  } finally {
+    store.close();
+  }
+});

@@ -2986,9 +2986,10 @@ export interface paths {
                                 astrometry?: boolean;
                                 spectroscopy?: boolean;
                             };
-                            /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                            /** @description epochs per night in a periapsis window: one, as many as fit, or one per step */
                             periapsisRepeat?: ("single" | "fill") | {
-                                everyHours: number;
+                                /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. PT2H */
+                                step: string;
                             };
                             /** @description also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false */
                             relativityGoal?: boolean;
@@ -3015,9 +3016,10 @@ export interface paths {
                                         astrometry?: boolean;
                                         spectroscopy?: boolean;
                                     };
-                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one per step */
                                     periapsisRepeat?: ("single" | "fill") | {
-                                        everyHours: number;
+                                        /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. PT2H */
+                                        step: string;
                                     };
                                 };
                             };
@@ -3344,9 +3346,10 @@ export interface paths {
                                 astrometry?: boolean;
                                 spectroscopy?: boolean;
                             };
-                            /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                            /** @description epochs per night in a periapsis window: one, as many as fit, or one per step */
                             periapsisRepeat?: ("single" | "fill") | {
-                                everyHours: number;
+                                /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. PT2H */
+                                step: string;
                             };
                             /** @description also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false */
                             relativityGoal?: boolean;
@@ -3373,9 +3376,10 @@ export interface paths {
                                         astrometry?: boolean;
                                         spectroscopy?: boolean;
                                     };
-                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                                    /** @description epochs per night in a periapsis window: one, as many as fit, or one per step */
                                     periapsisRepeat?: ("single" | "fill") | {
-                                        everyHours: number;
+                                        /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. PT2H */
+                                        step: string;
                                     };
                                 };
                             };
@@ -7239,9 +7243,10 @@ export interface paths {
                             astrometry?: boolean;
                             spectroscopy?: boolean;
                         };
-                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours } */
+                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { step } (one per ISO 8601 duration) */
                         periapsisRepeat?: ("single" | "fill") | {
-                            everyHours: number;
+                            /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. "PT2H" */
+                            step: string;
                         };
                         /** @description also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false) */
                         relativityGoal?: boolean;
@@ -7413,9 +7418,10 @@ export interface paths {
                             astrometry?: boolean;
                             spectroscopy?: boolean;
                         };
-                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours } */
+                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { step } (one per ISO 8601 duration) */
                         periapsisRepeat?: ("single" | "fill") | {
-                            everyHours: number;
+                            /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. "PT2H" */
+                            step: string;
                         };
                         /** @description also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false) */
                         relativityGoal?: boolean;
@@ -7591,9 +7597,10 @@ export interface paths {
                             astrometry?: boolean;
                             spectroscopy?: boolean;
                         };
-                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours } */
+                        /** @description epochs per night in a periapsis window: "single", "fill" (as many as fit) or { step } (one per ISO 8601 duration) */
                         periapsisRepeat?: ("single" | "fill") | {
-                            everyHours: number;
+                            /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. "PT2H" */
+                            step: string;
                         };
                         /** @description also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false) */
                         relativityGoal?: boolean;
@@ -11212,9 +11219,10 @@ export interface components {
                     astrometry?: boolean;
                     spectroscopy?: boolean;
                 };
-                /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                /** @description epochs per night in a periapsis window: one, as many as fit, or one per step */
                 periapsisRepeat?: ("single" | "fill") | {
-                    everyHours: number;
+                    /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. PT2H */
+                    step: string;
                 };
                 /** @description also choose epochs that most tighten the redshift and precession factors of targets with those terms on; default false */
                 relativityGoal?: boolean;
@@ -11241,9 +11249,10 @@ export interface components {
                             astrometry?: boolean;
                             spectroscopy?: boolean;
                         };
-                        /** @description epochs per night in a periapsis window: one, as many as fit, or one every N hours */
+                        /** @description epochs per night in a periapsis window: one, as many as fit, or one per step */
                         periapsisRepeat?: ("single" | "fill") | {
-                            everyHours: number;
+                            /** @description ISO 8601 duration between epochs, PT30M to PT12H, e.g. PT2H */
+                            step: string;
                         };
                     };
                 };
@@ -11304,8 +11313,8 @@ export interface components {
             end: string;
             /** @description ISO 8601 weekdays of the evening, 1 Monday … 7 Sunday; default every day */
             weekdays?: number[];
-            /** @description every Nth night from start (1: every night); default 1 */
-            everyNights?: number;
+            /** @description spacing of the nights from start, an ISO 8601 duration in whole days from P1D to P366D (P2D: every second night); default P1D */
+            step?: string;
             /** @description label given to every night (a semester, a run), at most 40 characters */
             semester?: string;
         } | {

@@ -48,7 +48,7 @@ export function AllocationForm(p: {
       siteId,
       start,
       end,
-      ...(repeat === 'weekdays' ? { weekdays } : { everyNights: Number(every) }),
+      ...(repeat === 'weekdays' ? { weekdays } : { step: `P${Number(every)}D` }),
       ...label,
     };
   };
@@ -219,7 +219,7 @@ export function AllocationForm(p: {
                 </label>{' '}
                 <input
                   type="number"
-                  name="everyNights"
+                  name="stepNights"
                   min={1}
                   max={366}
                   value={every}

@@ -12,7 +12,7 @@ import { STORE_HELP, storeAction, storeOptions, type StoreValues } from './store
 
 const help = `usage: epochwright allocate --campaign-id <id>        (the nights it has, with their ids)
        epochwright allocate --campaign-id <id> --site-id <id> --start <date> --end <date>
-                          [--weekdays <list>] [--every-nights <n>] [--semester <label>] [--accept]
+                          [--weekdays <list>] [--step <duration>] [--semester <label>] [--accept]
        epochwright allocate --campaign-id <id> --csv-file <file> [--accept]
        epochwright allocate --campaign-id <id> --site-id <id> --calendar-file <file.ics>
                           [--match <text>] [--semester <label>] [--accept]
@@ -25,7 +25,8 @@ night is refused.
 sources:
   a pattern              --site-id, --start and --end (local evening dates, both included; at most
                          three years), on --weekdays (1–7 or mon,tue,…,sun; default every day),
-                         every Nth night from --start (--every-nights, default 1)
+                         one night per --step from --start (ISO 8601 whole days: P2D every
+                         second night; default P1D)
   --csv-file <file>      a CSV with a header row: site (a stored site's name or id), date
                          (YYYY-MM-DD, the evening's local date), semester (optional)
   --calendar-file <file> an iCalendar file (RFC 5545) of the telescope's schedule for --site-id:
@@ -105,7 +106,7 @@ export const allocateCommand: Command = {
         start: { type: 'string' },
         end: { type: 'string' },
         weekdays: { type: 'string' },
-        'every-nights': { type: 'string' },
+        step: { type: 'string' },
         semester: { type: 'string' },
         'csv-file': { type: 'string' },
         'calendar-file': { type: 'string' },
@@ -132,7 +133,7 @@ export const allocateCommand: Command = {
     const semester = values.semester === undefined ? {} : { semester: values.semester };
     let request: AllocationRequest;
     if (values['csv-file'] !== undefined) {
-      for (const o of ['site-id', 'semester', 'weekdays', 'every-nights', 'match'] as const)
+      for (const o of ['site-id', 'semester', 'weekdays', 'step', 'match'] as const)
         if (values[o] !== undefined)
           throw new UsageError(`--${o} does not go with --csv-file (the file names each night)`);
       request = { source: 'csv', text: readTextFile('csv-file', values['csv-file']) };
@@ -153,9 +154,7 @@ export const allocateCommand: Command = {
         start: values.start,
         end: values.end,
         ...(values.weekdays === undefined ? {} : { weekdays: weekdaysOf(values.weekdays) }),
-        ...(values['every-nights'] === undefined
-          ? {}
-          : { everyNights: positiveId('every-nights', values['every-nights']) }),
+        ...(values.step === undefined ? {} : { step: values.step }),
         ...semester,
       };
     }
@@ -164,7 +163,7 @@ export const allocateCommand: Command = {
       end: '--end',
       siteId: '--site-id',
       weekdays: '--weekdays',
-      everyNights: '--every-nights',
+      step: '--step',
       semester: '--semester',
       match: '--match',
       text: request.source === 'csv' ? '--csv-file' : '--calendar-file',

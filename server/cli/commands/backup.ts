@@ -3,13 +3,13 @@ import { parseArgs } from 'node:util';
 import { UsageError, type Command } from '../io.ts';
 import { DATABASE_HELP, databaseOption, withStore } from './store-option.ts';
 
-const help = `usage: epochwright backup --to <new file>
+const help = `usage: epochwright backup --file <new file>
 
 Writes a copy of the database as it is at one instant (SQLite's VACUUM INTO), while the server
 keeps running. The file must not exist yet. A libSQL server is backed up with its own tools.
 
 options:
-  --to <file>            where to write the copy
+  --file <file>          where to write the copy
 ${DATABASE_HELP}
 `;
 
@@ -19,13 +19,13 @@ export const backupCommand: Command = {
   async run(argv) {
     const { values } = parseArgs({
       args: argv,
-      options: { ...databaseOption, to: { type: 'string' } },
+      options: { ...databaseOption, file: { type: 'string' } },
       strict: true,
       allowPositionals: false,
     });
-    if (values.to === undefined) throw new UsageError('--to is required');
-    const to = values.to;
-    const path = await withStore(values.database, (store) => store.backup(to));
+    if (values.file === undefined) throw new UsageError('--file is required');
+    const file = values.file;
+    const path = await withStore(values.database, (store) => store.backup(file));
     return `backup written to ${path}\n`;
   },
 };

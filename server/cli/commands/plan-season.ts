@@ -46,7 +46,7 @@ options:
                          referenceSeeingArcsec }, slotMinutes, slewMinutes, sameTargetMinutes,
                          fillFraction, extraEpochsPerTarget, periapsisWindowSigma,
                          coverageWithinDays, laserGuideStar: { astrometry, spectroscopy },
-                         periapsisRepeat: "single" | "fill" | { everyHours },
+                         periapsisRepeat: "single" | "fill" | { step: "PT2H" },
                          backupLossAbove, relativityGoal: true | false }
   --weather aware|blind  aware (default): weigh each night by its site's learned chance of being
                          clear (site-statistics) and back up critical epochs on likely-lost

@@ -139,14 +139,14 @@ function helpOf(spec: RecordSpec): string {
   const line = (f: FieldOption) =>
     `  ${`--${f.option}${f.kind === 'flag' ? '' : ' <x>'}`.padEnd(Math.max(width, 21))}  ${f.help}`;
   const id = `--${spec.record}-id <id>`;
-  return `usage: epochwright ${spec.record} add [options] [--from <json|file>]
+  return `usage: epochwright ${spec.record} add [options] [--record <json|file>]
        epochwright ${spec.record} list${spec.filters?.length ? ` [${spec.filters.map((f) => `--${f.option} <id>`).join('] [')}]` : ''} [--json | --csv]
        epochwright ${spec.record} show ${id} [--json]${spec.editable ? `\n       epochwright ${spec.record} edit ${id} [options]` : ''}
 
 ${spec.about}
 
 add stores one ${spec.record}, all of it or nothing: a refused value is named with its option and
-rule, and nothing is written. --from gives the whole record as JSON (fields as in the HTTP API);
+rule, and nothing is written. --record gives the whole record as JSON (fields as in the HTTP API);
 options given beside it replace its fields.${spec.editable ? `\nedit changes the options given and keeps the rest (the version read is sent along, so a change\nmade meanwhile by someone else is refused rather than overwritten).` : ''}
 
 fields:
@@ -167,7 +167,7 @@ export function recordCommand(spec: RecordSpec): Command {
   const options = {
     ...storeOptions,
     [idOption]: { type: 'string' },
-    from: { type: 'string' },
+    record: { type: 'string' },
     json: { type: 'boolean' },
     csv: { type: 'boolean' },
     ...Object.fromEntries(
@@ -214,10 +214,10 @@ export function recordCommand(spec: RecordSpec): Command {
         render(format, rows, spec.columns, rows.length === 1 && action !== 'list' ? rows[0] : rows);
       switch (action) {
         case 'add': {
-          const from = v.from === undefined ? {} : readJsonArg('from', v.from as string);
-          if (typeof from !== 'object' || from === null || Array.isArray(from))
-            throw new UsageError('--from must be a JSON object (one record)');
-          const body = merge(from as Row, fieldsGiven());
+          const given = v.record === undefined ? {} : readJsonArg('record', v.record as string);
+          if (typeof given !== 'object' || given === null || Array.isArray(given))
+            throw new UsageError('--record must be a JSON object (one record)');
+          const body = merge(given as Row, fieldsGiven());
           const row = await storeAction(values, {
             local: (store, actor) =>
               repo(store)
@@ -299,7 +299,7 @@ export function recordCommand(spec: RecordSpec): Command {
   };
 }
 
-/** `--from`'s record with the options' fields over it (nested objects merged, not replaced). */
+/** `--record`'s record with the options' fields over it (nested objects merged, not replaced). */
 function merge(base: Row, over: Row): Row {
   const out: Row = { ...base };
   for (const [k, x] of Object.entries(over)) {
@@ -520,7 +520,7 @@ export const campaignCommand = recordCommand({
   path: '/campaigns',
   summary: 'add, list and show campaigns (targets, sites, goals over a date range)',
   about:
-    'A campaign follows its targets from its sites over a date range, with goals (cadence, a\ndenser cadence near periapsis, the kinds of measurement) and limits. Its allocated nights:\n`epochwright allocate`. Other goals (per-target settings, precision): --from with the JSON.',
+    'A campaign follows its targets from its sites over a date range, with goals (cadence, a\ndenser cadence near periapsis, the kinds of measurement) and limits. Its allocated nights:\n`epochwright allocate`. Other goals (per-target settings, precision): --record with the JSON.',
   fields: [
     { option: 'name', field: 'name', kind: 'text', help: 'the campaign’s name' },
     {
@@ -680,7 +680,7 @@ export const reportCommand = recordCommand({
   path: '/night-reports',
   summary: 'add, list, show and edit night reports: conditions, time lost, each block’s outcome',
   about:
-    'The log of a night that has ended: seeing, adaptive-optics Strehl ratio, clouds, time lost and\nwhy, and the outcome of each block (--outcome <block id>=<status>, repeatable, or --from with\nthe JSON). Its measurements: `epochwright import --kind measurements` (with blockId).',
+    'The log of a night that has ended: seeing, adaptive-optics Strehl ratio, clouds, time lost and\nwhy, and the outcome of each block (--outcome <block id>=<status>, repeatable, or --record with\nthe JSON). Its measurements: `epochwright import --kind measurements` (with blockId).',
   fields: [
     { option: 'night-id', field: 'nightId', kind: 'id', help: 'the stored night' },
     {

@@ -74,12 +74,18 @@ export const SeasonPlanBody = z
     periapsisRepeat: z
       .union([
         z.enum(['single', 'fill']),
-        z.object({ everyHours: z.number().min(0.5).max(12) }).strict(),
+        z
+          .object({
+            step: z.string().openapi({
+              description: 'ISO 8601 duration between epochs, PT30M to PT12H, e.g. "PT2H"',
+            }),
+          })
+          .strict(),
       ])
       .optional()
       .openapi({
         description:
-          'epochs per night in a periapsis window: "single", "fill" (as many as fit) or { everyHours }',
+          'epochs per night in a periapsis window: "single", "fill" (as many as fit) or { step } (one per ISO 8601 duration)',
       }),
     relativityGoal: z.boolean().optional().openapi({
       description:

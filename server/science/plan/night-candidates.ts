@@ -61,7 +61,7 @@ export function nightCandidates(
         );
         return Array.from({ length: n }, (_, i) => ({ id: idOf(`${id}:${i + 1}`), ...base }));
       }
-      const step = t.repeat.everyHours / 24;
+      const step = t.repeat.stepHours / 24;
       const out: CandidateInput[] = [];
       for (let a = dusk, i = 1; a < dawn - base.durationMinutes / 1440; a += step, i++)
         out.push({

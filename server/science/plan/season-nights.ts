@@ -13,7 +13,7 @@ import type { Precision } from './information.ts';
 import { closingLimit, type NightReasonDetail } from './night-reasons.ts';
 import type { KeptBlock } from './night-schedule.ts';
 import { precisionAt, type PrecisionModel } from './precision.ts';
-import type { PeriapsisRepeat, ResolvedTarget, SeasonSite } from './season-types.ts';
+import type { RepeatRule, ResolvedTarget, SeasonSite } from './season-types.ts';
 
 /** One place and time a target's block could go. */
 export interface Option {
@@ -149,7 +149,7 @@ function runAroundKept(
 /** Edge ranges [a, b] the night is cut into for repeated epochs (the whole night for 'single'). */
 function segments(
   g: NightGrid,
-  repeat: PeriapsisRepeat,
+  repeat: RepeatRule,
   slots: number,
   gapSlots: number,
 ): [number, number][] {
@@ -158,7 +158,7 @@ function segments(
   const len =
     repeat === 'fill'
       ? slots + gapSlots
-      : Math.max(slots, Math.round((repeat.everyHours * 60) / g.slotMinutes));
+      : Math.max(slots, Math.round((repeat.stepHours * 60) / g.slotMinutes));
   const out: [number, number][] = [];
   for (let a = 0; a < n - 1; a += len) out.push([a, Math.min(n - 1, a + len)]);
   return out;

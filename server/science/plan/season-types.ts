@@ -6,14 +6,20 @@ import type { Site } from '../sky/site.ts';
 import type { Target } from '../sky/target.ts';
 import { BLOCK_KINDS, type BlockKind } from './candidates.ts';
 import { numberIn, positive } from './checks.ts';
+import { parseDurationMinutes } from '../time/duration.ts';
 import type { NightReason } from './night-reasons.ts';
 import type { KeptBlock, ScheduledBlock } from './night-schedule.ts';
 import type { MeasurementInput } from '../orbit/fit/types.ts';
 import type { DetectionForecast } from './forecast.ts';
 import type { PrecisionModel } from './precision.ts';
 
-/** Epochs per night inside a periapsis window: one, one every N hours while observable, or as many as fit. */
-export type PeriapsisRepeat = 'single' | 'fill' | { everyHours: number };
+/**
+ * Epochs per night inside a periapsis window: one, one per `step` (an ISO 8601 duration, PT30M to
+ * PT12H) while observable, or as many as fit.
+ */
+export type PeriapsisRepeat = 'single' | 'fill' | { step: string };
+/** The same, checked: the step in hours. */
+export type RepeatRule = 'single' | 'fill' | { stepHours: number };
 export type PerKind<T> = Partial<Record<BlockKind, T>>;
 
 export interface SeasonSite {
@@ -210,7 +216,7 @@ export interface ResolvedTarget {
   priority: number;
   blockMinutes: Record<BlockKind, number>;
   laserGuideStar: Record<BlockKind, boolean>;
-  repeat: PeriapsisRepeat;
+  repeat: RepeatRule;
 }
 
 const MAX_NIGHTS = 400;
@@ -230,21 +236,25 @@ export function seasonDates(startDate: string, endDate: string): string[] {
   return dates;
 }
 
-function checkRepeat(field: string, r: unknown): PeriapsisRepeat {
+function checkRepeat(field: string, r: unknown): RepeatRule {
   if (r === 'single' || r === 'fill') return r;
   if (typeof r === 'object' && r !== null && 'everyHours' in r)
-    return {
-      everyHours: numberIn(
-        `${field}.everyHours`,
-        (r as { everyHours: unknown }).everyHours,
-        0.5,
-        12,
-      ),
-    };
+    throw new InputError(
+      `${field}.everyHours`,
+      (r as { everyHours: unknown }).everyHours,
+      'is now { step }, an ISO 8601 duration, e.g. { "step": "PT2H" }',
+    );
+  if (typeof r === 'object' && r !== null && 'step' in r) {
+    const minutes = parseDurationMinutes((r as { step: unknown }).step, `${field}.step`, {
+      atLeast: 'PT30M',
+      atMost: 'PT12H',
+    });
+    return { stepHours: minutes / 60 };
+  }
   throw new InputError(
     field,
     r,
-    'must be "single", "fill" or { everyHours } with hours in [0.5, 12]',
+    'must be "single", "fill" or { step } with an ISO 8601 duration from PT30M to PT12H',
   );
 }
 

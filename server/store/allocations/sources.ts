@@ -12,6 +12,7 @@ import { parse } from 'csv-parse/sync';
 import ICAL from 'ical.js';
 import { DateTime } from 'luxon';
 import { InputError } from '../../science/errors.ts';
+import { parseDurationDays } from '../../science/time/index.ts';
 
 /** One site-night a source asks for, and where in the source it came from (for the preview). */
 export interface AllocationLine {
@@ -47,19 +48,27 @@ export interface NightPattern {
   end: string;
   /** ISO 8601 weekdays of the evening (1 Monday … 7 Sunday); default every day. */
   weekdays?: number[] | undefined;
-  /** Every Nth night from `start` (1: every night); default 1. */
-  everyNights?: number | undefined;
+  /** Spacing of the nights from `start`, an ISO 8601 duration in whole days (P2D: every second night); default P1D. */
+  step?: string | undefined;
   semester?: string | undefined;
 }
 
-/** The nights of a pattern: from `start` to `end` (both included), on its weekdays, every Nth. */
+/** A pattern's step in nights: an ISO 8601 duration of whole days, P1D to P366D. */
+function nightStep(step: string): number {
+  const days = parseDurationDays(step, 'step', { atLeast: 'P1D', atMost: 'P366D' });
+  if (!Number.isInteger(days))
+    throw new InputError('step', step, 'must be whole days (nights), e.g. P1D or P2D');
+  return days;
+}
+
+/** The nights of a pattern: from `start` to `end` (both included), on its weekdays, one per step. */
 export function patternNights(p: NightPattern): AllocationLine[] {
   const first = dateOf('start', p.start);
   const last = dateOf('end', p.end);
   if (last < first) throw new InputError('end', p.end, `must not be before start ${p.start}`);
   const span = last.diff(first, 'days').days;
   if (span > 3 * 366) throw new InputError('end', p.end, 'must lie within three years of start');
-  const every = p.everyNights ?? 1;
+  const every = p.step === undefined ? 1 : nightStep(p.step);
   const days = new Set(p.weekdays ?? [1, 2, 3, 4, 5, 6, 7]);
   const out: AllocationLine[] = [];
   for (let k = 0; k <= span; k += every) {

@@ -11,7 +11,12 @@ import {
   parseLongitude,
   parseRightAscension,
 } from '../../science/sky/index.ts';
-import { parseEpoch, jdToIso } from '../../science/time/index.ts';
+import {
+  parseDurationMinutes,
+  parseEpoch,
+  jdToIso,
+  type DurationRule,
+} from '../../science/time/index.ts';
 import './issue-words.ts';
 
 export const id = z.number().int().positive();
@@ -65,6 +70,12 @@ export const epoch = z
   .string()
   .describe('epoch: ISO 8601 with zone, "JD …", "MJD …", "J2027.35" or "B1934.008"')
   .superRefine(ruleOf((v) => parseEpoch(v, 'epoch')));
+/** An ISO 8601 duration within a rule's bounds, read by the one duration parser. */
+export const isoDuration = (rule: DurationRule, description: string) =>
+  z
+    .string()
+    .describe(description)
+    .superRefine(ruleOf((v) => parseDurationMinutes(v, 'duration', rule)));
 /** An IANA zone; a misspelled one is refused with the nearest valid names. */
 export const timeZone = z
   .string()

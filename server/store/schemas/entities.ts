@@ -20,6 +20,7 @@ import {
   epoch,
   freeText,
   id,
+  isoDuration,
   latitude,
   lineText,
   localDate,
@@ -203,9 +204,16 @@ const perKind = <T extends z.ZodType>(v: T) =>
 const repeat = z
   .union([
     z.enum(['single', 'fill']),
-    z.object({ everyHours: z.number().min(0.5).max(12) }).strict(),
+    z
+      .object({
+        step: isoDuration(
+          { atLeast: 'PT30M', atMost: 'PT12H' },
+          'ISO 8601 duration between epochs, PT30M to PT12H, e.g. PT2H',
+        ),
+      })
+      .strict(),
   ])
-  .describe('epochs per night in a periapsis window: one, as many as fit, or one every N hours');
+  .describe('epochs per night in a periapsis window: one, as many as fit, or one per step');
 
 export const CampaignFields = z.object({
   name,

@@ -45,7 +45,7 @@ const targets: SeasonTarget[] = [
     priority: 3,
     blockMinutes: { spectroscopy: 30 },
     laserGuideStar: { spectroscopy: true },
-    periapsisRepeat: { everyHours: 2 },
+    periapsisRepeat: { step: 'PT2H' },
   },
   {
     target: validateTarget({

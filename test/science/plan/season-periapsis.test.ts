@@ -205,7 +205,7 @@ describe('repeated epochs on the periapsis night', () => {
     '2027-06-08',
     '2027-06-11',
     [sites()[0]!],
-    [star('P3', orbit, { periapsisRepeat: { everyHours: 1.5 } })],
+    [star('P3', orbit, { periapsisRepeat: { step: 'PT1H30M' } })],
     {},
   );
 
@@ -228,5 +228,18 @@ describe('repeated epochs on the periapsis night', () => {
     expect(many.targets[0]!.shrinkage!.periapsisDays.after!).toBeLessThan(
       one.targets[0]!.shrinkage!.periapsisDays.after!,
     ); // Fisher information is additive (common practice, no source)
+  });
+
+  it('take their spacing as an ISO 8601 step, and name the earlier hours form', () => {
+    const plan = (periapsisRepeat: unknown) => () =>
+      planSeason('2027-06-08', '2027-06-11', [sites()[0]!], [star('P3', orbit)], {
+        periapsisRepeat: periapsisRepeat as 'single',
+      });
+    expect(plan({ everyHours: 2 })).toThrow(
+      /periapsisRepeat\.everyHours.*is now \{ step \}, an ISO 8601 duration/,
+    );
+    expect(plan({ step: '2h' })).toThrow(/periapsisRepeat\.step.*ISO 8601 duration/);
+    expect(plan({ step: 'PT10M' })).toThrow(/periapsisRepeat\.step.*at least PT30M/);
+    expect(plan({ step: 'PT13H' })).toThrow(/periapsisRepeat\.step.*at most PT12H/);
   });
 });
