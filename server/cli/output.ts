@@ -6,6 +6,11 @@ import { escapeFormulaCell } from '../store/index.ts';
 
 export type OutputFormat = 'table' | 'json' | 'csv';
 
+/** `1 block`, `2 blocks`: a count with its noun. */
+export function plural(n: number, one: string, many = `${one}s`): string {
+  return `${n} ${n === 1 ? one : many}`;
+}
+
 /** A column of a table: its header (with unit) and how to show a row's value. */
 export interface Column<Row> {
   header: string;

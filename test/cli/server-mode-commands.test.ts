@@ -156,7 +156,7 @@ it('writes through the server under the token’s user, and names a bad option e
     '--accept',
     ...remote,
   );
-  expect(accepted).toMatch(/accepted: \d+ blocks written/);
+  expect(accepted).toMatch(/accepted: \d+ blocks? written/);
   const audit = await store.audit.list({ entity: 'block' }, { limit: 5, offset: 0 });
   expect(audit.items[0]!.userId).toBe(lead.id); // the token's user, not the local operator
   for (const way of [['--database', url], remote]) {

@@ -68,7 +68,7 @@ it('imports through a running server, audited under the token’s user, and expo
       '--token',
       lead.secret,
     ),
-  ).toBe('imported 1 measurements rows\n');
+  ).toBe('imported 1 row of measurements\n');
   const audit = await store.audit.list({ entity: 'measurements' }, { limit: 10, offset: 0 });
   expect(audit.items.map((a) => a.userId)).toEqual([lead.id]); // the token's user, not null
   // a viewer's token may not import: the server's role rule, exit 2

@@ -222,6 +222,11 @@ it('stores a system, its targets, sites and a campaign; refuses bad values by op
     'astrometry,spectroscopy',
     ...db,
   );
+  // For people, a record is shown under the options that set it, not its stored field names.
+  const shown = await run('campaign', 'show', '--campaign-id', '1', ...db);
+  expect(shown).toMatch(/^cadence-days\s+14$/m);
+  expect(shown).toMatch(/^kinds\s+astrometry, spectroscopy$/m);
+  expect(shown).not.toMatch(/cadenceDays|goals/);
   for (const record of ['system', 'target', 'site', 'campaign']) {
     const local = JSON.parse(await run(record, 'list', '--json', ...db));
     expect(JSON.parse(await run(record, 'list', '--json', ...remote))).toEqual(local);

@@ -126,7 +126,7 @@ describe('store commands', () => {
       'system,target,kind,component,epoch,dRaMas,dDecMas,sigmaDRaMas,sigmaDDecMas,separationMas,positionAngleDeg,sigmaSeparationMas,sigmaPositionAngleDeg,correlation,radialVelocityKmS,sigmaRadialVelocityKmS,instrument,blockId,notes\n',
     ); // header only: nothing written so far
     expect(await run('import', '--kind', 'measurements', '--file', good)).toBe(
-      'imported 2 measurements rows\n',
+      'imported 2 rows of measurements\n',
     );
     const csv = await run('export', 'measurements');
     expect(csv.trim().split('\n').length).toBe(3); // header + the 2 rows of good.csv

@@ -7,7 +7,7 @@ import { parseArgs } from 'node:util';
 import type { AllocationPreview, AllocationRequest, NightRow, SiteRow } from '../../store/index.ts';
 import { asOptions, outputFormat, positiveId, readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
-import { formatTable, render, type Column } from '../output.ts';
+import { formatTable, plural, render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions, type StoreValues } from './store-option.ts';
 
 const help = `usage: epochwright allocate --campaign-id <id>        (the nights it has, with their ids)
@@ -194,7 +194,6 @@ export const allocateCommand: Command = {
     ];
     if (format !== 'table') return render(format, answer.nights, columns, answer);
     const c = answer.counts;
-    const plural = (n: number, w: string) => `${n} ${w}${n === 1 ? '' : 's'}`;
     const tail = answer.created
       ? `stored ${plural(answer.created.length, 'night')} for campaign ${campaignId}\n`
       : c.refused > 0

@@ -10,7 +10,7 @@ import {
 } from '../../store/index.ts';
 import { readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
-import { formatTable } from '../output.ts';
+import { formatTable, plural } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
 const help = `usage: epochwright import --kind targets|orbits|measurements --file <csv> [--check-only]
@@ -70,8 +70,8 @@ export const importCommand: Command = {
         writes: !dryRun,
       });
       return dryRun
-        ? `checked ${report.rows} ${kind} rows: all good, nothing written\n`
-        : `imported ${report.written} ${kind} rows\n`;
+        ? `checked ${plural(report.rows, 'row')} of ${kind}: all good, nothing written\n`
+        : `imported ${plural(report.written, 'row')} of ${kind}\n`;
     } catch (err) {
       if (!(err instanceof ImportRejected)) throw err;
       const table = formatTable(err.report.problems, [

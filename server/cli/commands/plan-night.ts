@@ -8,7 +8,7 @@ import {
 } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
 import { asOptions, checkAcceptDigest, outputFormat, positiveId, readJsonArg } from '../args.ts';
-import { formatTable, render, type Column } from '../output.ts';
+import { formatTable, plural, render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
@@ -135,7 +135,7 @@ export const planNightCommand: Command = {
     ];
     if (format !== 'table') return render(format, s.blocks, columns, result);
     const written = result.written
-      ? `accepted: ${result.written.length} blocks written, ${result.replaces.length} replaced\n`
+      ? `accepted: ${plural(result.written.length, 'block')} written, ${result.replaces.length} replaced\n`
       : `preview only (digest ${result.digest}): accepting would replace stored blocks [${result.replaces.join(', ')}]; run again with --accept to store it\n`;
     return [
       `${s.site}, night of ${s.date} (${s.timeZone}; local times), ${s.method} schedule: ${s.scheduledHours.toFixed(2)} h of ${s.darkHours.toFixed(2)} h dark\n\n`,

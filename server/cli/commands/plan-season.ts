@@ -15,7 +15,7 @@ import {
   readJsonArg,
   weatherOption,
 } from '../args.ts';
-import { formatTable, render, type Column } from '../output.ts';
+import { formatTable, plural, render, type Column } from '../output.ts';
 import { renderDraws } from './season-draws-output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
@@ -195,7 +195,7 @@ export const planSeasonCommand: Command = {
     const stored = result;
     const written =
       stored.written && stored.nightsCreated
-        ? `accepted: ${stored.written.length} blocks written, ${result.replaces.length} replaced, ${stored.nightsCreated.length} nights created\n`
+        ? `accepted: ${plural(stored.written.length, 'block')} written, ${result.replaces.length} replaced, ${plural(stored.nightsCreated.length, 'night')} created\n`
         : `preview only (digest ${result.digest}): accepting would replace ${result.replaces.length} stored blocks; run again with --accept to store it\n`;
     const sigma = (x: number | null, d: number) => (x === null ? '—' : x.toFixed(d));
     const pct = (x: number) => `${(100 * x).toFixed(0)} %`;

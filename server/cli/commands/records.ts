@@ -288,7 +288,7 @@ export function recordCommand(spec: RecordSpec): Command {
             local: async (store) => view(store, await repo(store).get(id)),
             remote: { method: 'GET', path: `${spec.path}/${id}` },
           });
-          return format === 'table' ? `${JSON.stringify(row, null, 2)}\n` : show([row]);
+          return format === 'table' ? describe(spec, row) : show([row]);
         }
         default:
           throw new UsageError(
@@ -297,6 +297,43 @@ export function recordCommand(spec: RecordSpec): Command {
       }
     },
   };
+}
+
+/** One record for people: each field under the option that sets it, blanks left out. */
+function describe(spec: RecordSpec, row: Row): string {
+  const at = (path: string) =>
+    path
+      .split('.')
+      .reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Row)[k] : undefined), row);
+  const shown = (x: unknown): string =>
+    typeof x === 'number'
+      ? String(Number(x.toFixed(6)))
+      : Array.isArray(x)
+        ? x.map((v) => (typeof v === 'object' ? JSON.stringify(v) : String(v))).join(', ')
+        : typeof x === 'boolean'
+          ? x
+            ? 'yes'
+            : 'no'
+          : String(x);
+  const lines: [string, string][] = [[`${spec.record}-id`, String(row.id)]];
+  for (const f of spec.fields) {
+    const x =
+      f.kind === 'outcomes'
+        ? (row.outcomes as { blockId: number; status: string }[] | undefined)?.map(
+            (o) => `${o.blockId}=${o.status}`,
+          )
+        : at(f.field);
+    if (x === undefined || x === null || x === '' || (Array.isArray(x) && x.length === 0)) continue;
+    lines.push([f.option, shown(x)]);
+  }
+  for (const k of ['origin', 'version', 'createdAt', 'updatedAt'] as const)
+    if (row[k] !== undefined && row[k] !== null)
+      lines.push([
+        { createdAt: 'stored (UTC)', updatedAt: 'changed (UTC)' }[k as string] ?? k,
+        String(row[k]),
+      ]);
+  const width = Math.max(...lines.map(([k]) => k.length));
+  return `${lines.map(([k, v]) => `${k.padEnd(width)}  ${v}`).join('\n')}\n`;
 }
 
 /** `--record`'s record with the options' fields over it (nested objects merged, not replaced). */

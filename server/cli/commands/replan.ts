@@ -3,7 +3,7 @@ import { parseArgs } from 'node:util';
 import type { ReplanRequest, Store } from '../../store/index.ts';
 import { asOptions, checkAcceptDigest, outputFormat, positiveId, weatherOption } from '../args.ts';
 import type { Command } from '../io.ts';
-import { render, type Column } from '../output.ts';
+import { plural, render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
 
@@ -93,7 +93,7 @@ export const replanCommand: Command = {
       `re-planned ${result.request.startDate} to ${result.request.endDate}, ` +
         `weather-${result.request.weather}: ${result.preview.plan.epochs.length} epochs`,
       stored
-        ? `accepted: ${stored.written.length} blocks written, ${result.preview.replaces.length} replaced`
+        ? `accepted: ${plural(stored.written.length, 'block')} written, ${result.preview.replaces.length} replaced`
         : `preview only (digest ${result.preview.digest}): accepting would replace ` +
           `${result.preview.replaces.length} stored blocks; run again with --accept to store it`,
       '',
