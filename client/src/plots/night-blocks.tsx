@@ -114,8 +114,8 @@ export function AirmassKey({ L, edges }: { L: NightLayout; edges: number[] }) {
         {edges[n]!.toFixed(2).replace(/0$/, '')}
       </text>
       <text class="key-note" x={x0 + n * sw + 30} y={11}>
-        darker is lower airmass (Kasten &amp; Young) · blank: closed, the limit named in the gap and
-        on hover
+        stronger colour is lower airmass (Kasten &amp; Young) · blank: closed, the limit named in
+        the gap and on hover
       </text>
     </g>
   );
