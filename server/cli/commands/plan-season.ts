@@ -260,7 +260,8 @@ export const planSeasonCommand: Command = {
       ),
     );
     return [
-      `campaign ${id}, nights ${plan.startDate} to ${plan.endDate} (${result.nights}); ${plan.sites.map((s) => `${s.name}: ${s.nightsUsed} of ${s.nights} nights used, ${s.plannedHours.toFixed(1)} h planned`).join('; ')}\n\n`,
+      `campaign ${id}, nights ${plan.startDate} to ${plan.endDate} (${result.nights}); ${plan.sites.map((s) => `${s.name}: ${s.nightsUsed} of ${s.nights} nights used, ${s.plannedHours.toFixed(1)} h planned`).join('; ')}\n`,
+      `${result.weather === 'aware' ? 'weather-aware: each night weighed by its chance of being clear' : 'weather-blind: every night weighed as clear'}; ${result.sites.map((s) => `${s.name} clear with chance ${s.clearChance.mean === null ? '—' : `${(100 * s.clearChance.mean).toFixed(0)} %`} on average (${s.clearChance.nightsLogged} night reports and the prior)`).join('; ')}\n\n`,
       formatTable(plan.epochs, columns),
       '\n',
       targets,

@@ -80,6 +80,10 @@ const h1 = (x: number) => x.toFixed(1);
 const sig = (x: number | null, unit: string, digits = 2) =>
   x === null ? 'undetermined' : `± ${x.toFixed(digits)}${unit}`;
 
+/** σ of a relativity factor (1 in general relativity): two decimals below 10, none above (± 31, not ± 30.88). */
+const factorSigma = (x: number | null) =>
+  x === null ? 'undetermined' : sig(x, '', x >= 10 ? 0 : 2);
+
 /** σ of a date: in hours up to two days, in days beyond. */
 const dateSigma = (days: number | null) =>
   days === null ? 'undetermined' : days * 24 < 48 ? sig(days * 24, ' h', 1) : sig(days, ' d', 1);
@@ -104,7 +108,7 @@ function paragraph(t: Omit<TargetResult, 'reason'>, sites: SiteRequest[]): strin
   for (const f of t.factors)
     if (f.with !== null && (f.without === null || f.with < f.without))
       parts.push(
-        `The ${f.name === 'redshiftFactor' ? 'redshift' : 'precession'} factor would reach ${sig(f.with, '')} (${(1 / f.with).toFixed(1)}σ if general relativity holds), against ${sig(f.without, '')} without.`,
+        `The ${f.name === 'redshiftFactor' ? 'redshift' : 'precession'} factor would reach ${factorSigma(f.with)} (${(1 / f.with).toFixed(1)}σ if general relativity holds), against ${factorSigma(f.without)} without.`,
       );
   return parts.join(' ');
 }
