@@ -399,6 +399,55 @@ it('logs a past night: blocks by hand with what ran, then the report with each o
   expect(JSON.parse(await run('report', 'list', '--night-id', id, '--json', ...remote))).toEqual(
     JSON.parse(await run('report', 'list', '--night-id', id, '--json', ...db)),
   );
+  const measured = await run(
+    'measurement',
+    'add',
+    '--target-id',
+    '1',
+    '--block-id',
+    '1',
+    '--kind',
+    'offsets',
+    '--epoch',
+    '2026-10-02T21:30-03',
+    '--dra',
+    '-45.2',
+    '--ddec',
+    '12.1',
+    '--sigma-dra',
+    '0.8',
+    '--sigma-ddec',
+    '0.8',
+    '--instrument',
+    'imager K',
+    ...remote,
+  );
+  expect(measured).toMatch(
+    /2026-10-03 00:30:00\s+Δα\* -45\.200 ± 0\.800, Δδ 12\.100 ± 0\.800 mas\s+1\s+imager K/,
+  );
+  const noSigma = await refused(
+    run(
+      'measurement',
+      'add',
+      '--target-id',
+      '1',
+      '--kind',
+      'radial-velocity',
+      '--epoch',
+      '2026-10-03T01:00Z',
+      '--rv',
+      '1200',
+      '--instrument',
+      'spectrograph',
+      ...db,
+    ),
+  );
+  expect(noSigma?.message).toMatch(
+    /^--sigma-rv: \(missing\) is required for kind "radial-velocity"/,
+  );
+  expect(JSON.parse(await run('measurement', 'list', '--block-id', '1', '--json', ...db))).toEqual(
+    JSON.parse(await run('measurement', 'list', '--block-id', '1', '--json', ...remote)),
+  );
   expect(
     (await refused(run('report', 'add', '--night-id', id, '--outcome', '1:obtained', ...db)))
       ?.message,

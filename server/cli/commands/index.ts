@@ -23,6 +23,7 @@ import { createDatabaseCommand } from './create-database.ts';
 import {
   blockCommand,
   campaignCommand,
+  measurementCommand,
   reportCommand,
   siteCommand,
   systemCommand,
@@ -38,6 +39,7 @@ export const commands: Record<string, Command> = {
   allocate: allocateCommand,
   block: blockCommand,
   report: reportCommand,
+  measurement: measurementCommand,
   ephemeris: ephemerisCommand,
   events: eventsCommand,
   night: nightCommand,

@@ -28,7 +28,14 @@ interface FieldOption {
 }
 
 /** The repositories the record commands reach, by name. */
-type RepoName = 'systems' | 'targets' | 'sites' | 'campaigns' | 'blocks' | 'nightReports';
+type RepoName =
+  | 'systems'
+  | 'targets'
+  | 'sites'
+  | 'campaigns'
+  | 'blocks'
+  | 'nightReports'
+  | 'measurements';
 
 interface RecordSpec {
   /** Singular, as typed: `site`. */
@@ -776,5 +783,103 @@ export const reportCommand = recordCommand({
   ],
   examples: [
     "epochwright report add --night-id 12 --seeing 0.7 --strehl 0.45 --time-lost 1.5 --time-lost-reason 'cirrus after 03:00' --outcome 40=obtained --outcome 41=lost",
+  ],
+});
+
+export const measurementCommand = recordCommand({
+  record: 'measurement',
+  repo: 'measurements',
+  path: '/measurements',
+  summary: 'add, list and show measurements one at a time (a file: epochwright import)',
+  about:
+    'One astrometric position or radial velocity of a target at an epoch, with its 1σ and the\ninstrument; give the block it came from (--block-id) so the site learns its precision. Many at\nonce: `epochwright import --kind measurements`.',
+  fields: [
+    { option: 'target-id', field: 'targetId', kind: 'id', help: 'the target' },
+    { option: 'block-id', field: 'blockId', kind: 'id', help: 'the block it was obtained in' },
+    { option: 'kind', field: 'kind', kind: 'text', help: 'offsets, separation or radial-velocity' },
+    {
+      option: 'component',
+      field: 'component',
+      kind: 'text',
+      help: 'relative (default), or primary / secondary for a radial velocity',
+    },
+    {
+      option: 'epoch',
+      field: 'epoch',
+      kind: 'text',
+      help: 'when: ISO 8601 with a zone, JD, MJD, J2027.35',
+    },
+    {
+      option: 'dra',
+      field: 'dRaMas',
+      kind: 'number',
+      help: 'offsets: Δα* = Δα·cos δ, mas (east positive)',
+    },
+    { option: 'ddec', field: 'dDecMas', kind: 'number', help: 'offsets: Δδ, mas (north positive)' },
+    { option: 'sigma-dra', field: 'sigmaDRaMas', kind: 'number', help: 'offsets: 1σ of Δα*, mas' },
+    { option: 'sigma-ddec', field: 'sigmaDDecMas', kind: 'number', help: 'offsets: 1σ of Δδ, mas' },
+    {
+      option: 'correlation',
+      field: 'correlation',
+      kind: 'number',
+      help: 'offsets, separation: correlation of the two errors',
+    },
+    { option: 'separation', field: 'separationMas', kind: 'number', help: 'separation: ρ, mas' },
+    {
+      option: 'position-angle',
+      field: 'positionAngleDeg',
+      kind: 'number',
+      help: 'separation: θ from north through east, degrees',
+    },
+    {
+      option: 'sigma-separation',
+      field: 'sigmaSeparationMas',
+      kind: 'number',
+      help: 'separation: 1σ of ρ, mas',
+    },
+    {
+      option: 'sigma-position-angle',
+      field: 'sigmaPositionAngleDeg',
+      kind: 'number',
+      help: 'separation: 1σ of θ, degrees',
+    },
+    {
+      option: 'rv',
+      field: 'radialVelocityKmS',
+      kind: 'number',
+      help: 'radial-velocity: km/s, receding positive',
+    },
+    {
+      option: 'sigma-rv',
+      field: 'sigmaRadialVelocityKmS',
+      kind: 'number',
+      help: 'radial-velocity: 1σ, km/s',
+    },
+    { option: 'instrument', field: 'instrument', kind: 'text', help: 'the instrument' },
+    notes,
+  ],
+  filters: [
+    { option: 'target-id', field: 'targetId' },
+    { option: 'block-id', field: 'blockId' },
+  ],
+  columns: [
+    { header: 'id', value: num('id') },
+    { header: 'target_id', value: num('targetId') },
+    { header: 'kind', value: str('kind') },
+    { header: 'epoch_utc', value: (r) => str('epoch')(r).slice(0, 19).replace('T', ' ') },
+    {
+      header: 'value',
+      value: (r) =>
+        r.kind === 'radial-velocity'
+          ? `${(r.radialVelocityKmS as number).toFixed(2)} ± ${(r.sigmaRadialVelocityKmS as number).toFixed(2)} km/s`
+          : r.kind === 'offsets'
+            ? `Δα* ${(r.dRaMas as number).toFixed(3)} ± ${(r.sigmaDRaMas as number).toFixed(3)}, Δδ ${(r.dDecMas as number).toFixed(3)} ± ${(r.sigmaDDecMas as number).toFixed(3)} mas`
+            : `ρ ${(r.separationMas as number).toFixed(3)} ± ${(r.sigmaSeparationMas as number).toFixed(3)} mas, θ ${(r.positionAngleDeg as number).toFixed(3)} ± ${(r.sigmaPositionAngleDeg as number).toFixed(3)}°`,
+    },
+    { header: 'block_id', value: num('blockId') },
+    { header: 'instrument', value: str('instrument') },
+  ],
+  examples: [
+    "epochwright measurement add --target-id 1 --block-id 40 --kind offsets --epoch 2027-05-03T04:30Z --dra 12.41 --ddec -40.32 --sigma-dra 0.8 --sigma-ddec 0.8 --instrument 'imager K'",
   ],
 });
