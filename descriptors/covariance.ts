@@ -20,16 +20,31 @@ export const COVARIANCE_TERMS = [
   { parameter: 'lightFraction', symbol: 'β', unit: '' },
 ] as const;
 export type CovarianceTerm = (typeof COVARIANCE_TERMS)[number]['parameter'];
+/**
+ * Thiele–Innes constants: a solution given in them may take its σ and correlations over A, B, F,
+ * G; the orbit engine carries them to a, i, Ω, ω by first-order propagation before storing.
+ */
+export const THIELE_INNES_TERMS = [
+  { parameter: 'aArcsec', symbol: 'A', unit: '″' },
+  { parameter: 'bArcsec', symbol: 'B', unit: '″' },
+  { parameter: 'fArcsec', symbol: 'F', unit: '″' },
+  { parameter: 'gArcsec', symbol: 'G', unit: '″' },
+] as const;
+/** A parameter a typed-in uncertainty may cover: a stored one, or a Thiele–Innes constant. */
+export type UncertainTerm = CovarianceTerm | (typeof THIELE_INNES_TERMS)[number]['parameter'];
+const TERM_ORDER: readonly UncertainTerm[] = [...COVARIANCE_TERMS, ...THIELE_INNES_TERMS].map(
+  (t) => t.parameter,
+);
 
 /** The CSV column of a parameter's 1σ: `sigmaPeriodYears`, `sigmaPeriapsisDays`, … */
-export const sigmaColumn = (p: CovarianceTerm) => `sigma${p[0]!.toUpperCase()}${p.slice(1)}`;
+export const sigmaColumn = (p: UncertainTerm) => `sigma${p[0]!.toUpperCase()}${p.slice(1)}`;
 export const SIGMA_COLUMNS = COVARIANCE_TERMS.map((t) => sigmaColumn(t.parameter));
 /** The CSV column of the correlations: `periodYears/periapsisDays=0.42; eccentricity/periapsisDays=-0.1`. */
 export const CORRELATIONS_COLUMN = 'correlations';
 
 export interface Correlation {
-  a: CovarianceTerm;
-  b: CovarianceTerm;
+  a: UncertainTerm;
+  b: UncertainTerm;
   rho: number;
 }
 
@@ -38,15 +53,13 @@ export interface Correlation {
  * given). Returns null when no σ is given, or the first problem as { field, value, rule }.
  */
 export function covarianceOf(
-  sigmas: Partial<Record<CovarianceTerm, number>>,
+  sigmas: Partial<Record<UncertainTerm, number>>,
   correlations: readonly Correlation[] = [],
 ):
-  | { parameters: CovarianceTerm[]; matrix: number[][] }
+  | { parameters: UncertainTerm[]; matrix: number[][] }
   | null
   | { field: string; value: unknown; rule: string } {
-  const parameters = COVARIANCE_TERMS.map((t) => t.parameter).filter(
-    (p) => sigmas[p] !== undefined,
-  );
+  const parameters = TERM_ORDER.filter((p) => sigmas[p] !== undefined);
   for (const p of parameters) {
     const s = sigmas[p]!;
     if (!(Number.isFinite(s) && s > 0))

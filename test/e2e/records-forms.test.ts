@@ -9,6 +9,7 @@ import { join } from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, inject, test } from 'vitest';
 import { DEMO, SCREENSHOTS, apiCaller, launchBrowser, newContext } from './harness.ts';
+import { thieleInnesJacobian, thieleInnesToCampbell } from '../../server/science/orbit/index.ts';
 
 const base = inject('baseUrl');
 const lead = inject('leadToken');
@@ -109,9 +110,7 @@ describe('every record from the client', () => {
 
     // A pasted covariance instead.
     await form.locator('input[name=uncertainty]').nth(1).check();
-    await form
-      .locator('textarea[name=covariance]')
-      .fill('periodYears eccentricity\n0.04 0.0001\n0.0001 0.0004');
+    await form.locator('textarea[name=covariance]').fill('P e\n0.04 0.0001\n0.0001 0.0004'); // the elements' symbols name the rows
     await form.getByRole('button', { name: 'Store solution' }).click();
     await expect.poll(async () => (await solutionsOf(wren.id)).length).toBe(2);
     const pasted = (await solutionsOf(wren.id)).find((s) => s.id !== first!.id)!;
@@ -164,6 +163,11 @@ describe('every record from the client', () => {
     await form.locator('input[name=sigma-periodYears]').fill('0.2');
     await form.locator('input[name=sigma-periapsisDays]').fill('6');
     await form.locator('input[name=rho-periodYears-periapsisDays]').fill('-0.3');
+    // σ of A and B as a published Thiele–Innes orbit gives them (constructed case), correlated.
+    await form.locator('input[name=sigma-aArcsec]').fill('0.002');
+    await form.locator('input[name=sigma-bArcsec]').fill('0.003');
+    await form.locator('input[name=rho-aArcsec-bArcsec]').fill('0.25');
+    await form.locator('.thiele-innes-note').getByText('first-order propagation').waitFor();
     await form.locator('input[name=makeCurrent]').uncheck();
     await form.getByRole('button', { name: 'Store solution' }).click();
     await form.getByText(/Stored as solution #\d+\./).waitFor();
@@ -180,9 +184,36 @@ describe('every record from the client', () => {
       fArcsec: 0.027,
       gArcsec: 0.035,
     });
-    // C_ij = ρ σ_i σ_j (constructed case): −0.3 × 0.2 yr × 6 d.
-    expect(stored[0]!.orbit.covariance!.parameters).toEqual(['periodYears', 'periapsisDays']);
-    expect(stored[0]!.orbit.covariance!.matrix[0]![1]).toBeCloseTo(-0.3 * 0.2 * 6, 12);
+    // C_ij = ρ σ_i σ_j (constructed case): −0.3 × 0.2 yr × 6 d; A and B carried to a, i, Ω, ω
+    // through the conversion's Jacobian (its own checks: test/science/orbit/thiele-innes-covariance).
+    const cov = stored[0]!.orbit.covariance!;
+    expect(cov.parameters).toEqual([
+      'periodYears',
+      'periapsisDays',
+      'semiMajorAxisArcsec',
+      'inclinationDeg',
+      'ascendingNodeDeg',
+      'argPeriapsisDeg',
+    ]);
+    expect(cov.matrix[0]![1]).toBeCloseTo(-0.3 * 0.2 * 6, 12);
+    const constants = { A: 0.041, B: -0.018, F: 0.027, G: 0.035 };
+    const J = thieleInnesJacobian({
+      ti: constants,
+      campbell: thieleInnesToCampbell(constants),
+    });
+    const sAB = [
+      [0.002 ** 2, 0.25 * 0.002 * 0.003],
+      [0.25 * 0.002 * 0.003, 0.003 ** 2],
+    ];
+    for (let r = 0; r < 4; r++)
+      for (let c = 0; c < 4; c++) {
+        const expected = [0, 1].reduce(
+          (sum, x) => sum + [0, 1].reduce((t, y) => t + J[r]![x]! * sAB[x]![y]! * J[c]![y]!, 0),
+          0,
+        );
+        expect(cov.matrix[2 + r]![2 + c]).toBeCloseTo(expected, 12);
+      }
+    expect(cov.matrix[0]![2]).toBe(0); // P and A were uncorrelated, so P and a are
 
     // Campbell elements with two relativistic terms and their factors; a bad factor first.
     await form.getByLabel('Campbell elements').check();

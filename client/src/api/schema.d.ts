@@ -10623,9 +10623,9 @@ export interface components {
             massRatio?: number;
             /** @description β = L₂/(L₁+L₂), the secondary’s share of the light, 0 ≤ β ≤ 1: with q, the photocentre */
             lightFraction?: number;
-            /** @description covariance of the Campbell elements in the units of the parameter names (periapsisDays: T in days) */
+            /** @description covariance in the units of the parameter names (periapsisDays: T in days); with Thiele–Innes elements it may name aArcsec, bArcsec, fArcsec, gArcsec instead of a, i, Ω, ω, and is stored carried to those by first-order propagation */
             covariance?: {
-                parameters: ("periodYears" | "periapsisDays" | "eccentricity" | "semiMajorAxisArcsec" | "inclinationDeg" | "ascendingNodeDeg" | "argPeriapsisDeg" | "distancePc" | "systemicVelocityKmS" | "massRatio" | "lightFraction")[];
+                parameters: ("periodYears" | "periapsisDays" | "eccentricity" | "semiMajorAxisArcsec" | "inclinationDeg" | "ascendingNodeDeg" | "argPeriapsisDeg" | "distancePc" | "systemicVelocityKmS" | "massRatio" | "lightFraction" | "aArcsec" | "bArcsec" | "fArcsec" | "gArcsec")[];
                 matrix: number[][];
             };
         };

@@ -1,5 +1,5 @@
 /** The element table of the orbit-solution form: each element's value and, where it has one, its 1σ. */
-import type { CovarianceTerm } from '../../../descriptors/covariance.ts';
+import type { UncertainTerm } from '../../../descriptors/covariance.ts';
 import { elementRows, type ElementsKind, type SolutionDraft } from './solution-input.ts';
 
 export interface DraftProps {
@@ -37,7 +37,7 @@ export function ElementKindChoice({ draft, set }: DraftProps) {
 }
 
 export function ElementTable({ draft, set, msgs }: DraftProps) {
-  const sigmaOf = (p: CovarianceTerm, text: string) =>
+  const sigmaOf = (p: UncertainTerm, text: string) =>
     set({ sigmas: { ...draft.sigmas, [p]: text } });
   return (
     <table class="data element-table">

@@ -6,10 +6,11 @@
  */
 import {
   COVARIANCE_TERMS,
+  THIELE_INNES_TERMS,
   covarianceOf,
   sigmaColumn,
   type Correlation,
-  type CovarianceTerm,
+  type UncertainTerm,
 } from '../../../descriptors/covariance.ts';
 import { RELATIVITY_WORDS } from '../lib/numbers.ts';
 
@@ -20,7 +21,7 @@ export type UncertaintyMode = 'sigmas' | 'matrix';
 export interface ElementRow {
   key: string;
   label: string;
-  sigma: CovarianceTerm | null;
+  sigma: UncertainTerm | null;
   hint?: string;
   optional?: boolean;
 }
@@ -50,10 +51,10 @@ const CAMPBELL: ElementRow[] = [
   },
 ];
 const THIELE_INNES: ElementRow[] = [
-  { key: 'elements.aArcsec', label: 'A (″)', sigma: null, hint: 'Δδ = A·X + F·Y' },
-  { key: 'elements.bArcsec', label: 'B (″)', sigma: null, hint: 'Δα* = B·X + G·Y' },
-  { key: 'elements.fArcsec', label: 'F (″)', sigma: null },
-  { key: 'elements.gArcsec', label: 'G (″)', sigma: null },
+  { key: 'elements.aArcsec', label: 'A (″)', sigma: 'aArcsec', hint: 'Δδ = A·X + F·Y' },
+  { key: 'elements.bArcsec', label: 'B (″)', sigma: 'bArcsec', hint: 'Δα* = B·X + G·Y' },
+  { key: 'elements.fArcsec', label: 'F (″)', sigma: 'fArcsec' },
+  { key: 'elements.gArcsec', label: 'G (″)', sigma: 'gArcsec' },
 ];
 const TAIL: ElementRow[] = [
   { key: 'distancePc', label: 'distance (pc, optional)', sigma: 'distancePc', optional: true },
@@ -101,7 +102,7 @@ export const FACTORS = [
 export interface SolutionDraft {
   kind: ElementsKind;
   values: Record<string, string>;
-  sigmas: Partial<Record<CovarianceTerm, string>>;
+  sigmas: Partial<Record<UncertainTerm, string>>;
   rho: Record<string, string>;
   mode: UncertaintyMode;
   matrixText: string;
@@ -134,7 +135,7 @@ const numberOf = (field: string, text: string): number | LocalProblem => {
 };
 
 /** The element pairs that can carry a correlation: those with a σ typed, in table order. */
-export function correlationPairs(d: SolutionDraft): [CovarianceTerm, CovarianceTerm][] {
+export function correlationPairs(d: SolutionDraft): [UncertainTerm, UncertainTerm][] {
   const withSigma = elementRows(d.kind).flatMap((r) =>
     r.sigma && (d.sigmas[r.sigma] ?? '').trim() !== '' ? [r.sigma] : [],
   );
@@ -143,7 +144,11 @@ export function correlationPairs(d: SolutionDraft): [CovarianceTerm, CovarianceT
   );
 }
 
-/** A pasted covariance: a first row of parameter names, then one row of numbers per parameter. */
+/**
+ * A pasted covariance: a first row naming the parameters by their symbols (P T e a i Ω ω d γ q β,
+ * A B F G for Thiele–Innes constants; case matters: a is the semi-major axis, A a constant) or by
+ * the API's names, then one row of numbers per parameter.
+ */
 export function parseCovarianceText(
   text: string,
 ): { parameters: string[]; matrix: number[][] } | { rule: string } {
@@ -156,13 +161,16 @@ export function parseCovarianceText(
         .split(/[\s,;]+/)
         .filter(Boolean),
     );
-  const [names, ...body] = rows;
-  if (!names?.length) return { rule: 'is empty: give a row of parameter names, then the matrix' };
-  const known = new Set<string>(COVARIANCE_TERMS.map((t) => t.parameter));
-  const unknown = names.filter((n) => !known.has(n));
+  const [heads, ...body] = rows;
+  if (!heads?.length) return { rule: 'is empty: give a row of element symbols, then the matrix' };
+  const terms = [...COVARIANCE_TERMS, ...THIELE_INNES_TERMS];
+  const names = heads.map(
+    (h) => terms.find((t) => t.symbol === h || t.parameter === h)?.parameter ?? h,
+  );
+  const unknown = heads.filter((_, k) => !terms.some((t) => t.parameter === names[k]));
   if (unknown.length)
     return {
-      rule: `names ${unknown.join(', ')}: the first row must name parameters among ${[...known].join(', ')}`,
+      rule: `names ${unknown.join(', ')}: the first row must name elements among ${terms.map((t) => t.symbol).join(' ')}`,
     };
   if (body.length !== names.length || body.some((r) => r.length !== names.length))
     return { rule: `must have ${names.length} rows of ${names.length} numbers under the names` };
@@ -176,7 +184,9 @@ export function parseCovarianceText(
 function formFieldOf(field: string): string {
   const pair = /^correlations (\w+)\/(\w+)$/.exec(field);
   if (pair) return `rho-${pair[1]}-${pair[2]}`;
-  const term = COVARIANCE_TERMS.find((t) => sigmaColumn(t.parameter) === field);
+  const term = [...COVARIANCE_TERMS, ...THIELE_INNES_TERMS].find(
+    (t) => sigmaColumn(t.parameter) === field,
+  );
   return term ? `sigma-${term.parameter}` : 'covariance';
 }
 
@@ -186,7 +196,7 @@ function covarianceOfDraft(d: SolutionDraft): object | null | LocalProblem {
     const m = parseCovarianceText(d.matrixText);
     return 'rule' in m ? { field: 'covariance', rule: m.rule } : m;
   }
-  const sigmas: Partial<Record<CovarianceTerm, number>> = {};
+  const sigmas: Partial<Record<UncertainTerm, number>> = {};
   for (const r of elementRows(d.kind)) {
     const text = r.sigma ? (d.sigmas[r.sigma] ?? '').trim() : '';
     if (r.sigma && text) sigmas[r.sigma] = Number(text);

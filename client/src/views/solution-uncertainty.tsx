@@ -2,11 +2,16 @@
  * How the orbit-solution form takes the uncertainty: the σ of the element table with a
  * correlation per pair, or a covariance pasted as a matrix over named Campbell parameters.
  */
-import { COVARIANCE_TERMS, type CovarianceTerm } from '../../../descriptors/covariance.ts';
+import {
+  COVARIANCE_TERMS,
+  THIELE_INNES_TERMS,
+  type UncertainTerm,
+} from '../../../descriptors/covariance.ts';
 import type { DraftProps } from './solution-elements.tsx';
 import { correlationPairs, type UncertaintyMode } from './solution-input.ts';
 
-const symbol = (p: CovarianceTerm) => COVARIANCE_TERMS.find((t) => t.parameter === p)!.symbol;
+const symbol = (p: UncertainTerm) =>
+  [...COVARIANCE_TERMS, ...THIELE_INNES_TERMS].find((t) => t.parameter === p)!.symbol;
 const MODES: [UncertaintyMode, string][] = [
   ['sigmas', 'uncertainty from the σ above and these correlations'],
   ['matrix', 'a covariance matrix pasted below'],
@@ -31,9 +36,11 @@ export function UncertaintyInput({ draft, set, msgs }: DraftProps) {
         ))}
       </div>
       {draft.kind === 'thiele-innes' && (
-        <p class="muted">
-          A stored covariance is over Campbell elements (P, T, e, a, i, Ω, ω): the σ of A, B, F, G
-          enter as a pasted covariance over a, i, Ω and ω.
+        <p class="muted thiele-innes-note">
+          The σ and correlations of A, B, F, G are carried to a, i, Ω, ω at these constants by
+          first-order propagation (the Jacobian of the conversion), the form in which every solution
+          keeps its covariance: the stored solution lists σ for a, i, Ω, ω, and its predictions
+          carry the same uncertainty. A pasted matrix may name A, B, F, G in place of those four.
         </p>
       )}
       {draft.mode === 'sigmas' &&
@@ -68,14 +75,13 @@ export function UncertaintyInput({ draft, set, msgs }: DraftProps) {
       {draft.mode === 'matrix' && (
         <label class="field wide">
           <span>
-            covariance: a row of parameter names, then the matrix in their units (T in days)
+            covariance: a row of element symbols (P T e a i Ω ω d γ q β, or A B F G), then the
+            matrix in their units (T in days)
           </span>
           <textarea
             name="covariance"
             rows={5}
-            placeholder={
-              'periodYears periapsisDays eccentricity\n0.0004 0 0\n0 9 0.006\n0 0.006 0.000016'
-            }
+            placeholder={'P T e\n0.0004 0 0\n0 9 0.006\n0 0.006 0.000016'}
             value={draft.matrixText}
             onInput={(e) => set({ matrixText: e.currentTarget.value })}
           />

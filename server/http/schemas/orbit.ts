@@ -4,7 +4,7 @@
  * is written once.
  */
 import { z } from '@hono/zod-openapi';
-import { COVARIANCE_PARAMETERS } from '../../science/orbit/index.ts';
+import { COVARIANCE_PARAMETERS, THIELE_INNES_PARAMETERS } from '../../science/orbit/index.ts';
 import { EVENT_KINDS } from '../../science/orbit/index.ts';
 
 const epoch = z.string().openapi({
@@ -80,14 +80,14 @@ export const OrbitSchema = z
     }),
     covariance: z
       .object({
-        parameters: z.array(z.enum(COVARIANCE_PARAMETERS)),
+        parameters: z.array(z.enum([...COVARIANCE_PARAMETERS, ...THIELE_INNES_PARAMETERS])),
         matrix: z.array(z.array(z.number())),
       })
       .strict()
       .optional()
       .openapi({
         description:
-          'covariance of the Campbell elements in the units of the parameter names (periapsisDays: T in days)',
+          'covariance in the units of the parameter names (periapsisDays: T in days); with Thiele–Innes elements it may name aArcsec, bArcsec, fArcsec, gArcsec instead of a, i, Ω, ω, and is stored carried to those by first-order propagation',
       }),
   })
   .strict()

@@ -5,8 +5,10 @@
 import { DEG, JULIAN_YEAR_DAYS } from '../constants.ts';
 import { InputError, requireFinite } from '../errors.ts';
 import { parseEpoch, jdToIso } from '../time/index.ts';
+import { campbellCovariance } from './thiele-innes-covariance.ts';
 import {
   COVARIANCE_PARAMETERS,
+  THIELE_INNES_PARAMETERS,
   type CampbellInput,
   type Covariance,
   type CovarianceInput,
@@ -151,7 +153,7 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
     bounded(`${p}.periodYears`, el.periodYears, MAX_PERIOD_YEARS) * JULIAN_YEAR_DAYS;
   const periapsisJd = parseEpoch(el.periapsis, `${p}.periapsis`);
   const e = eccentricity(`${p}.eccentricity`, el.eccentricity);
-  const { aMas, iRad, nodeRad, argRad } = orbitGeometry(el, kind, p);
+  const { aMas, iRad, nodeRad, argRad, thieleInnes } = orbitGeometry(el, kind, p);
   const distancePc =
     input.distancePc === undefined || input.distancePc === null
       ? null
@@ -167,7 +169,7 @@ export function validateOrbit(input: OrbitInput, prefix = 'orbit'): Orbit {
   const covariance =
     input.covariance === undefined
       ? null
-      : validateCovariance(input.covariance, `${prefix}.covariance`);
+      : validateCovariance(input.covariance, `${prefix}.covariance`, thieleInnes);
   const absent = covariance?.parameters.find(
     (n) =>
       (n === 'massRatio' && massRatio === null) ||
@@ -198,7 +200,14 @@ function orbitGeometry(
   el: Record<string, unknown>,
   kind: 'campbell' | 'thiele-innes',
   p: string,
-): { aMas: number; iRad: number; nodeRad: number; argRad: number } {
+): {
+  aMas: number;
+  iRad: number;
+  nodeRad: number;
+  argRad: number;
+  /** The constants and the elements they give, for a covariance over A, B, F, G. */
+  thieleInnes: Parameters<typeof campbellCovariance>[1] | null;
+} {
   if (kind === 'campbell') {
     const aMas = positive(`${p}.semiMajorAxisArcsec`, el.semiMajorAxisArcsec) * 1000;
     const iDeg = requireFinite(`${p}.inclinationDeg`, el.inclinationDeg);
@@ -209,6 +218,7 @@ function orbitGeometry(
       iRad: iDeg * DEG,
       nodeRad: mod(requireFinite(`${p}.ascendingNodeDeg`, el.ascendingNodeDeg), 360) * DEG,
       argRad: mod(requireFinite(`${p}.argPeriapsisDeg`, el.argPeriapsisDeg), 360) * DEG,
+      thieleInnes: null,
     };
   }
   const ti = {
@@ -225,7 +235,13 @@ function orbitGeometry(
       ti.A,
       'with bArcsec, fArcsec, gArcsec must describe an orbit of non-zero size',
     );
-  return { aMas, iRad: c.iRad, nodeRad: c.nodeRad, argRad: c.argRad };
+  return {
+    aMas,
+    iRad: c.iRad,
+    nodeRad: c.nodeRad,
+    argRad: c.argRad,
+    thieleInnes: { ti, campbell: c },
+  };
 }
 
 /** The relativistic switches, each a known name with a boolean; any one on needs the distance. */
@@ -284,8 +300,19 @@ function validateFactors(input: unknown, field: string): RelativityFactors {
   return out;
 }
 
-function validateCovariance(input: CovarianceInput, field: string): Covariance {
+/**
+ * A covariance checked for names, shape, symmetry and range; one that names Thiele–Innes constants
+ * (allowed with Thiele–Innes elements, `thieleInnes` the solution) comes back over a, i, Ω, ω.
+ */
+function validateCovariance(
+  input: CovarianceInput,
+  field: string,
+  thieleInnes: Parameters<typeof campbellCovariance>[1] | null,
+): Covariance {
   const { parameters, matrix } = input;
+  const known: readonly string[] = thieleInnes
+    ? [...COVARIANCE_PARAMETERS, ...THIELE_INNES_PARAMETERS]
+    : COVARIANCE_PARAMETERS;
   if (!Array.isArray(parameters) || parameters.length === 0)
     throw new InputError(
       `${field}.parameters`,
@@ -294,11 +321,13 @@ function validateCovariance(input: CovarianceInput, field: string): Covariance {
     );
   const seen = new Set<string>();
   parameters.forEach((name, k) => {
-    if (!(COVARIANCE_PARAMETERS as readonly string[]).includes(name)) {
+    if (!known.includes(name)) {
       throw new InputError(
         `${field}.parameters.${k}`,
         name,
-        `must be one of ${COVARIANCE_PARAMETERS.join(', ')}`,
+        (THIELE_INNES_PARAMETERS as readonly string[]).includes(name)
+          ? 'is a Thiele–Innes constant: a covariance names it only with Thiele–Innes elements'
+          : `must be one of ${known.join(', ')}`,
       );
     }
     if (seen.has(name)) throw new InputError(`${field}.parameters.${k}`, name, 'appears twice');
@@ -340,7 +369,15 @@ function validateCovariance(input: CovarianceInput, field: string): Covariance {
         );
     }
   }
-  return { parameters: [...parameters], matrix: matrix.map((row) => [...row]) };
+  if (
+    thieleInnes &&
+    parameters.some((p) => (THIELE_INNES_PARAMETERS as readonly string[]).includes(p))
+  )
+    return campbellCovariance(input, thieleInnes, field);
+  return {
+    parameters: [...parameters] as CovarianceParameter[],
+    matrix: matrix.map((row) => [...row]),
+  };
 }
 
 /** An orbit's value of a covariance parameter, in that parameter's unit. */

@@ -9,7 +9,8 @@ export type {
   CovarianceInput,
   CovarianceParameter,
 } from './types.ts';
-export { COVARIANCE_PARAMETERS } from './types.ts';
+export { COVARIANCE_PARAMETERS, THIELE_INNES_PARAMETERS } from './types.ts';
+export { campbellCovariance, thieleInnesJacobian } from './thiele-innes-covariance.ts';
 export {
   validateOrbit,
   campbellToThieleInnes,

@@ -77,10 +77,19 @@ export const COVARIANCE_PARAMETERS = [
   'lightFraction',
 ] as const;
 export type CovarianceParameter = (typeof COVARIANCE_PARAMETERS)[number];
+/**
+ * Thiele–Innes constants, arcsec, which a covariance may name when the elements are Thiele–Innes
+ * constants; validateOrbit carries such a covariance to a, i, Ω, ω (thiele-innes-covariance.ts).
+ */
+export const THIELE_INNES_PARAMETERS = ['aArcsec', 'bArcsec', 'fArcsec', 'gArcsec'] as const;
+export type ThieleInnesParameter = (typeof THIELE_INNES_PARAMETERS)[number];
 
 export interface CovarianceInput {
-  /** Names of the rows/columns, each once, from COVARIANCE_PARAMETERS (periapsisDays: T in days). */
-  parameters: CovarianceParameter[];
+  /**
+   * Names of the rows/columns, each once, from COVARIANCE_PARAMETERS (periapsisDays: T in days),
+   * or with Thiele–Innes elements also THIELE_INNES_PARAMETERS in place of a, i, Ω, ω.
+   */
+  parameters: (CovarianceParameter | ThieleInnesParameter)[];
   /** Symmetric positive semi-definite matrix in the parameters' units. */
   matrix: number[][];
 }

@@ -5,7 +5,12 @@
 import { and, desc, eq, max } from 'drizzle-orm';
 import { orbitSolutions } from '../../../db/schema.ts';
 import { InputError } from '../../science/errors.ts';
-import { validateOrbit, type Orbit, type OrbitInput } from '../../science/orbit/index.ts';
+import {
+  THIELE_INNES_PARAMETERS,
+  validateOrbit,
+  type Orbit,
+  type OrbitInput,
+} from '../../science/orbit/index.ts';
 import { recordAudit, type Actor } from '../audit.ts';
 import { nowIso } from '../../clock.ts';
 import { entity, getById, list, remove, requireRef, type Page, type PageRequest } from '../crud.ts';
@@ -86,7 +91,13 @@ export function orbitSolutionRepository(db: Db) {
  */
 async function createIn(tx: DbOrTx, actor: Actor, input: unknown): Promise<OrbitSolutionRow> {
   const s = parseInput(OrbitSolutionInput, input);
-  validateOrbit(s.orbit as unknown as OrbitInput, 'orbit');
+  const checked = validateOrbit(s.orbit as unknown as OrbitInput, 'orbit');
+  // Stored as given, except a covariance over Thiele–Innes constants: kept as the orbit engine
+  // carried it to a, i, Ω, ω, the parameters every reader of a stored covariance expects.
+  const tiCovariance = (
+    s.orbit.covariance as { parameters?: string[] } | undefined
+  )?.parameters?.some((p) => (THIELE_INNES_PARAMETERS as readonly string[]).includes(p));
+  const orbit = tiCovariance ? { ...s.orbit, covariance: checked.covariance! } : s.orbit;
   await requireRef(tx, targetEntity, 'targetId', s.targetId);
   if (s.provenance === 'fitted' && !(s.fittedFrom && s.fittedFrom.length > 0)) {
     throw new InputError(
@@ -116,7 +127,7 @@ async function createIn(tx: DbOrTx, actor: Actor, input: unknown): Promise<Orbit
       targetId: s.targetId,
       version,
       current: false,
-      orbit: s.orbit as unknown as OrbitInput,
+      orbit: orbit as unknown as OrbitInput,
       provenance: s.provenance,
       fittedFrom: s.fittedFrom ?? null,
       reference: s.reference,
