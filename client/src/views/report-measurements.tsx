@@ -16,6 +16,8 @@ import { ErrorLine, Loading, Qty, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 
 type Kind = MeasurementRow['kind'];
+/** The component in a table cell: its meaning without the form's aside. */
+const componentWords = (c: MeasuredComponent) => COMPONENT_TEXT[c].replace(/ \(.*\)$/, '');
 /** The form's inputs for a kind: its values, their uncertainties, and the correlation where it has one. */
 function kindInputs(kind: Kind): { key: string; label: string }[] {
   const d = describeKind(kind);
@@ -199,8 +201,8 @@ export function ReportMeasurements({
                   <a href={`/targets/${m.targetId}`}>{cat.target(m.targetId)?.name}</a>
                 </td>
                 <td>{utcText(m.epoch)}</td>
-                <td>{m.kind}</td>
-                <td>{m.component}</td>
+                <td>{describeKind(m.kind).label}</td>
+                <td>{componentWords(m.component)}</td>
                 <td>{value(m)}</td>
                 <td>{m.instrument}</td>
               </tr>

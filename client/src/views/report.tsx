@@ -350,7 +350,9 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
 
 export function ReportView({ nightId }: { nightId: number }) {
   const [tick, setTick] = useState(0);
-  const { data, error } = useLoad(() => load(nightId), [nightId]);
+  // A save reloads the night too: the blocks' logged outcomes and the stored version the
+  // editor's "Discard draft" returns to must be the ones just saved.
+  const { data, error } = useLoad(() => load(nightId), [nightId, tick]);
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="the night report" />;
   const site = data.cat.site(data.night.siteId);

@@ -10,6 +10,7 @@ import { api, getAll, type Schemas } from '../api/client.ts';
 import { ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 import { useLoad } from '../lib/use-load.ts';
+import { useChosenCampaign } from '../lib/campaign.tsx';
 
 type Request = Schemas['TimeRequest'];
 const h1 = (x: number) => x.toFixed(1);
@@ -66,12 +67,13 @@ function SiteBars({ r }: { r: Request }) {
 
 export function TimeRequestView() {
   const { data: campaigns, error: loadError } = useLoad(() => getAll('/campaigns'), []);
-  const [form, setForm] = useState({ campaign: '', name: '', startDate: '', endDate: '' });
+  const [form, setForm] = useState({ name: '', startDate: '', endDate: '' });
+  // The campaign chosen on any campaign view, and chosen here for the others.
+  const [campaign, choose] = useChosenCampaign(campaigns);
   const [result, setResult] = useState<Request | null>(null);
   const { busy, error, run } = useAction();
   if (loadError) return <ErrorLine error={loadError} />;
   if (!campaigns) return <Loading what="the campaigns" />;
-  const campaign = campaigns.find((c) => String(c.id) === form.campaign) ?? campaigns[0];
   return (
     <div class="view time-request">
       <Section title="Semester time request" id="time-request-form">
@@ -99,7 +101,10 @@ export function TimeRequestView() {
             <select
               name="campaign"
               value={campaign ? String(campaign.id) : ''}
-              onChange={(e) => setForm({ ...form, campaign: e.currentTarget.value })}
+              onChange={(e) => {
+                setResult(null);
+                choose(Number(e.currentTarget.value));
+              }}
             >
               {campaigns.map((c) => (
                 <option key={c.id} value={String(c.id)}>
@@ -190,7 +195,7 @@ export function TimeRequestView() {
                     {s.site}: {s.nights} nights, clear with chance{' '}
                     {(100 * s.clearChance).toFixed(0)} %
                   </td>
-                  <td />
+                  <td>{s.byTarget.reduce((n, b) => n + b.blocks, 0)}</td>
                   <td>{h1(s.hours)}</td>
                   <td>{h1(s.allowanceHours)}</td>
                   <td>{h1(s.requestHours)}</td>
