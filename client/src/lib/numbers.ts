@@ -20,6 +20,25 @@ export function valueText(v: number, sigma?: number | null, significant = 5): st
   return Number(v.toPrecision(significant)).toString();
 }
 
+const SUPERSCRIPT = '⁰¹²³⁴⁵⁶⁷⁸⁹';
+
+/**
+ * `significant` digits, in powers of ten (2.00 × 10⁷) where plain digits would need zeros the
+ * precision does not support (from 10^significant up, and below 0.001); never the program's
+ * exponent form (2.00e+7).
+ */
+export function scaledText(v: number, significant = 3): string {
+  if (!Number.isFinite(v)) return '–';
+  if (v === 0 || (Math.abs(v) >= 1e-3 && Math.abs(v) < 10 ** significant))
+    return v.toPrecision(significant);
+  const [mantissa, exp] = v.toExponential(significant - 1).split('e') as [string, string];
+  const power = [...String(Math.abs(Number(exp)))].map((d) => SUPERSCRIPT[Number(d)]).join('');
+  return `${mantissa} × 10${Number(exp) < 0 ? '⁻' : ''}${power}`;
+}
+
+/** Why a radial velocity is missing: without a distance the orbit's size in au, hence K, is unknown. */
+export const RV_WHY = 'needs the solution’s distance (the orbit’s size in au)';
+
 /** The relativistic terms in words. */
 export const RELATIVITY_WORDS: Record<string, string> = {
   romer: 'light-travel time',

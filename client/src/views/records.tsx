@@ -16,29 +16,30 @@ import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
 import { OrbitExport } from './orbit-export.tsx';
-import { RELATIVITY_WORDS } from '../lib/numbers.ts';
+import { RELATIVITY_WORDS, scaledText } from '../lib/numbers.ts';
+import { formatDecDms, formatRaHms } from '../../../descriptors/sexagesimal.ts';
 import { plural } from '../lib/words.ts';
 
 type Row = Record<string, unknown> & { id: number };
 interface Column {
   key: string;
   label: string;
-  editable?: 'number' | 'text' | 'boolean';
+  /** `angle`: shown and edited as sexagesimal text, sent as typed (the server reads every form). */
+  editable?: 'number' | 'text' | 'boolean' | 'angle';
   /** Shown when the value is null (the default it stands for). */
   empty?: string;
   /** How a number shows (default: float noise cut, 8 significant digits). */
   format?: (v: number) => string;
 }
 const plainNumber = (v: number) => String(Number(v.toPrecision(8)));
-/** Degrees to 1e-5° (0.04″ at most), the precision of a catalogue position. */
-const degrees = (v: number) => v.toFixed(5);
 
 const SYSTEM_COLS: Column[] = [
   { key: 'name', label: 'name', editable: 'text' },
-  { key: 'raDeg', label: 'RA (°, ICRS)', editable: 'number', format: degrees },
-  { key: 'decDeg', label: 'Dec (°, ICRS)', editable: 'number', format: degrees },
+  // As a catalogue writes them: RA to 0.01 s and Dec to 0.1″ (0.15″ at most, finer than any pointing).
+  { key: 'raDeg', label: 'RA (h:m:s, ICRS)', editable: 'angle', format: (v) => formatRaHms(v) },
+  { key: 'decDeg', label: 'Dec (°:′:″, ICRS)', editable: 'angle', format: (v) => formatDecDms(v) },
   { key: 'distancePc', label: 'distance (pc)', editable: 'number' },
-  { key: 'massSolar', label: 'mass (M☉)', editable: 'number', format: (v) => v.toPrecision(3) },
+  { key: 'massSolar', label: 'mass (M☉)', editable: 'number', format: (v) => scaledText(v) },
 ];
 const TARGET_COLS: Column[] = [
   { key: 'name', label: 'name', editable: 'text' },
@@ -103,9 +104,11 @@ function RecordTable({
             c.key,
             c.editable === 'boolean'
               ? Boolean(r[c.key])
-              : r[c.key] === null || r[c.key] === undefined
-                ? ''
-                : String(r[c.key]),
+              : c.editable === 'angle' && typeof r[c.key] === 'number'
+                ? c.format!(r[c.key] as number)
+                : r[c.key] === null || r[c.key] === undefined
+                  ? ''
+                  : String(r[c.key]),
           ]),
       ),
     );
@@ -114,6 +117,11 @@ function RecordTable({
     const patch: Record<string, unknown> = {};
     for (const c of cols.filter((x) => x.editable)) {
       const v = values[c.key];
+      if (c.editable === 'angle') {
+        const text = String(v).trim();
+        if (text !== c.format!(r[c.key] as number)) patch[c.key] = text;
+        continue;
+      }
       const next = c.editable === 'number' ? (v === '' ? null : Number(v)) : v;
       if (next !== r[c.key]) patch[c.key] = next;
     }
