@@ -69,6 +69,8 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
         : null,
   );
   const [form, setForm] = useState<ReportForm>(stored?.form ?? formFor(data.report));
+  // The stored version this editor last read or wrote: what "Discard draft" returns to.
+  const [storedRow, setStoredRow] = useState<ReportRow | null>(data.report);
   const [dirty, setDirty] = useState(!!stored);
   const [status, setStatus] = useState<string>('');
   const [error, setError] = useState<unknown>(null);
@@ -110,6 +112,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
       setDirty(false);
       setTheirs(null);
       setBase({ id: saved.id, version: saved.version });
+      setStoredRow(saved);
       setForm(formFor(saved));
       setStatus(`Saved as version ${saved.version} at ${utcClock(new Date().toISOString())} UTC.`);
       onSaved();
@@ -175,6 +178,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
             setDirty(false);
             setTheirs(null);
             setBase({ id: theirs.id, version: theirs.version });
+            setStoredRow(theirs);
             setForm(formFor(theirs));
             setStatus(`Took version ${theirs.version} from the server; your draft was discarded.`);
           }}
@@ -322,14 +326,14 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
             <button type="submit" class="primary">
               Save report
             </button>
-            {dirty && data.report && (
+            {dirty && storedRow && (
               <button
                 type="button"
                 onClick={() => {
                   dropDraft(night.id);
                   setDirty(false);
-                  setBase({ id: data.report!.id, version: data.report!.version });
-                  setForm(formFor(data.report));
+                  setBase({ id: storedRow.id, version: storedRow.version });
+                  setForm(formFor(storedRow));
                   setStatus('Draft discarded; showing the stored version.');
                 }}
               >
@@ -350,8 +354,7 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
 
 export function ReportView({ nightId }: { nightId: number }) {
   const [tick, setTick] = useState(0);
-  // A save reloads the night too: the blocks' logged outcomes and the stored version the
-  // editor's "Discard draft" returns to must be the ones just saved.
+  // A save reloads the night too, so the blocks' logged outcomes are the ones just saved.
   const { data, error } = useLoad(() => load(nightId), [nightId, tick]);
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what="the night report" />;
