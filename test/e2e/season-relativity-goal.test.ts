@@ -8,6 +8,7 @@ import { join } from 'node:path';
 import { describe, expect, inject, test } from 'vitest';
 import { chartPages } from './chart-page.ts';
 import { HEADLINE, SCREENSHOTS, apiCaller, nearPeriapsis } from './harness.ts';
+import { factorSigmaText } from '../../client/src/lib/numbers.ts';
 
 const api = apiCaller(inject('baseUrl'), inject('leadToken'));
 const open = chartPages();
@@ -29,7 +30,7 @@ const shown = (p: Preview) =>
   p.plan.targets
     .find((t) => t.target === HEADLINE)!
     .relativity!.factors.map((f) =>
-      f.sigmaAfter === null ? 'not determined' : f.sigmaAfter.toFixed(3),
+      f.sigmaAfter === null ? 'not determined' : factorSigmaText(f.sigmaAfter),
     );
 
 describe('the relativity goal in the season view', () => {

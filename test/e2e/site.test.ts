@@ -48,8 +48,8 @@ describe('the site page', () => {
       await page.locator('.joint-precision').first().locator('tbody td').allTextContents(),
     ).toEqual(
       joint[0]!.bySeeingAndAirmass.flatMap((r) =>
-        r.byAirmass.map((c) =>
-          c.n > 0 && c.medianSigma !== null ? `${c.medianSigma.toFixed(2)} (${c.n})` : '—',
+        r.byAirmass.map(
+          (c) => (c.n > 0 && c.medianSigma !== null ? `${c.medianSigma.toFixed(2)} (${c.n})` : '–'), // a dash titled with its reason (no measurement in the bin)
         ),
       ),
     );

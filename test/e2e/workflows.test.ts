@@ -508,6 +508,19 @@ describe('season plan', () => {
     await page.getByRole('button', { name: 'Propose a season plan' }).click();
     await page.getByRole('button', { name: 'Accept into blocks' }).waitFor();
     expect(await page.locator('svg.season-chart .proposed-mark').count()).toBeGreaterThan(0);
+    // Every star's marks at every site, as "site-section target date".
+    const marksOf = (kind: string) =>
+      page
+        .locator(`svg.season-chart .member-track .${kind}-mark`)
+        .evaluateAll((ms) =>
+          ms.map(
+            (m) =>
+              `${m.closest('section')?.id} ${m.closest('.member-track')?.getAttribute('data-target')} ${m.getAttribute('data-date')}`,
+          ),
+        );
+    const plannedBefore = new Set(await marksOf('planned'));
+    const fresh = (await marksOf('proposed')).filter((d) => !plannedBefore.has(d));
+    expect(fresh.length).toBeGreaterThan(0);
     await page.locator('#season-plan details summary').first().click();
     const why = await page
       .locator('#season-plan table.epochs tbody tr td:last-child')
@@ -522,6 +535,14 @@ describe('season plan', () => {
       /Accepted: (\d+) blocks stored/.exec((await status.textContent())!)?.[1],
     );
     expect(written).toBe(why.length);
+    // The chart redraws from the store without a reload: the proposed nights are now planned ones.
+    await expect.poll(() => page.locator('svg.season-chart .proposed-mark').count()).toBe(0);
+    await expect
+      .poll(async () => {
+        const planned = new Set(await marksOf('planned'));
+        return fresh.filter((d) => !planned.has(d));
+      })
+      .toEqual([]);
     expect(errors).toEqual([]);
     await ctx.close();
   });

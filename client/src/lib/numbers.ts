@@ -36,6 +36,12 @@ export function scaledText(v: number, significant = 3): string {
   return `${mantissa} × 10${Number(exp) < 0 ? '⁻' : ''}${power}`;
 }
 
+/**
+ * A relativity factor's 1σ to three significant digits: enough to tell two plans apart, never the
+ * seven of fixed decimals on a large σ (1130, not 1133.293).
+ */
+export const factorSigmaText = (sigma: number) => valueText(sigma, null, 3);
+
 /** Why a radial velocity is missing: without a distance the orbit's size in au, hence K, is unknown. */
 export const RV_WHY = 'needs the solution’s distance (the orbit’s size in au)';
 

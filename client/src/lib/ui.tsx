@@ -34,18 +34,30 @@ export function Loading({ what }: { what: string }) {
   );
 }
 
+/** An empty table cell that says why it is empty: a dash with the reason as its title. */
+export function Blank({ why }: { why: string }) {
+  return (
+    <span class="blank" title={why}>
+      –
+    </span>
+  );
+}
+
 /** A number with its unit, or an en dash when missing. */
 export function Qty({
   v,
   unit,
   digits = 1,
+  why,
 }: {
   v: number | null | undefined;
   unit: string;
   digits?: number;
+  /** Why it can be missing, shown as the dash's title. */
+  why?: string;
 }) {
   if (v === null || v === undefined || !Number.isFinite(v))
-    return <span class="qty missing">–</span>;
+    return why ? <Blank why={why} /> : <span class="qty missing">–</span>;
   return (
     <span class="qty">
       {v.toFixed(digits)}

@@ -3,6 +3,7 @@ import { useState } from 'preact/hooks';
 import { api, downloadFile } from '../api/client.ts';
 import { utcText } from '../lib/time.ts';
 import { ErrorLine, Loading, Qty } from '../lib/ui.tsx';
+import { RV_WHY } from '../lib/numbers.ts';
 import { useLoad } from '../lib/use-load.ts';
 
 export function EphemerisTable({ targetId, name }: { targetId: number; name: string }) {
@@ -111,7 +112,7 @@ export function EphemerisTable({ targetId, name }: { targetId: number; name: str
                     <Qty v={p.positionAngleDeg} unit="" digits={2} />
                   </td>
                   <td>
-                    <Qty v={p.radialVelocityKmS} unit="" digits={2} />
+                    <Qty v={p.radialVelocityKmS} unit="" digits={2} why={RV_WHY} />
                   </td>
                   {data.orbit.binary && (
                     <>

@@ -6,7 +6,8 @@
 import { api } from '../api/client.ts';
 import type { DetectionForecast, FactorForecast } from '../api/client.ts';
 import { dateText } from '../lib/time.ts';
-import { ErrorLine, Loading, Qty } from '../lib/ui.tsx';
+import { Blank, ErrorLine, Loading, Qty } from '../lib/ui.tsx';
+import { factorSigmaText as sigmaText } from '../lib/numbers.ts';
 import { useLoad } from '../lib/use-load.ts';
 
 const LABEL: Record<FactorForecast['name'], string> = {
@@ -80,15 +81,9 @@ export function ForecastTable({
         {forecast.factors.map((f) => (
           <tr key={f.name} data-factor={f.name}>
             <td>{LABEL[f.name]}</td>
-            <td>
-              {f.sigmaNow === null ? 'not determined' : <Qty v={f.sigmaNow} unit="" digits={3} />}
-            </td>
+            <td>{f.sigmaNow === null ? 'not determined' : sigmaText(f.sigmaNow)}</td>
             <td class="sigma-after">
-              {f.sigmaAfter === null ? (
-                'not determined'
-              ) : (
-                <Qty v={f.sigmaAfter} unit="" digits={3} />
-              )}
+              {f.sigmaAfter === null ? 'not determined' : sigmaText(f.sigmaAfter)}
             </td>
             <td>
               <Qty v={f.significanceNow} unit="σ" />
@@ -99,10 +94,14 @@ export function ForecastTable({
             <td>{reached(f, 3)}</td>
             <td>{reached(f, 5)}</td>
             <td>
-              {f.topEpochs
-                .slice(0, 3)
-                .map((e) => `${dateText(e.epoch)} ${e.kind} ${(100 * e.share).toFixed(0)} %`)
-                .join(' · ')}
+              {f.topEpochs.length ? (
+                f.topEpochs
+                  .slice(0, 3)
+                  .map((e) => `${dateText(e.epoch)} ${e.kind} ${(100 * e.share).toFixed(0)} %`)
+                  .join(' · ')
+              ) : (
+                <Blank why="no planned epoch of this star adds to this factor" />
+              )}
             </td>
           </tr>
         ))}

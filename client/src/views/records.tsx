@@ -385,7 +385,7 @@ export function RecordsView() {
                   {s.current && <span class="tag">current</span>}
                 </td>
                 <td>{s.provenance}</td>
-                <td>{s.reference}</td>
+                <td>{s.reference || <span class="muted">none given</span>}</td>
                 <td>{elementText(s, 'periodYears')}</td>
                 <td>{elementText(s, 'eccentricity')}</td>
                 <td>{semiMajorAxisText(s)}</td>

@@ -6,6 +6,7 @@
 import { useState } from 'preact/hooks';
 import { ApiError, api, getAll, type Schemas } from '../api/client.ts';
 import { ErrorLine, useCan } from '../lib/ui.tsx';
+import { plural } from '../lib/words.ts';
 import { useAction } from '../lib/use-action.ts';
 import { useLoad } from '../lib/use-load.ts';
 
@@ -41,7 +42,7 @@ export function ReplanPanel({ nightId, tick }: { nightId: number; tick: number }
           body: { digest: preview!.preview.digest },
         });
         setStatus(
-          `Re-plan stored: ${r.written.length} blocks written, ${r.preview.replaces.length} planned blocks replaced; obtained and logged blocks kept.`,
+          `Re-plan stored: ${plural(r.written.length, 'block')} written, ${plural(r.preview.replaces.length, 'planned block')} replaced; obtained and logged blocks kept.`,
         );
         setPreview(null);
       },
@@ -75,8 +76,8 @@ export function ReplanPanel({ nightId, tick }: { nightId: number; tick: number }
             {preview.request.weather === 'aware'
               ? 'nights weighed by their chance of being clear'
               : 'every night counted as clear'}
-            ): {preview.preview.plan.epochs.length} epochs; accepting replaces{' '}
-            {preview.preview.replaces.length} blocks that are still only plans.
+            ): {plural(preview.preview.plan.epochs.length, 'epoch')}; accepting replaces{' '}
+            {plural(preview.preview.replaces.length, 'block')} that are still only plans.
           </p>
           <ul class="replan-targets">
             {preview.preview.plan.targets

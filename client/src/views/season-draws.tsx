@@ -6,6 +6,7 @@
  */
 import { api, type Schemas } from '../api/client.ts';
 import { ErrorLine } from '../lib/ui.tsx';
+import { plural } from '../lib/words.ts';
 import { useAction } from '../lib/use-action.ts';
 import { useState } from 'preact/hooks';
 
@@ -126,7 +127,7 @@ export function SeasonDrawsPanel({
           <p class="draws-head">
             {draws.draws.draws} seasons drawn (seed {draws.draws.seed}) of the{' '}
             {draws.weather === 'aware' ? 'weather-aware' : 'weather-blind'} plan (
-            {draws.planned.epochs} epochs):{' '}
+            {plural(draws.planned.epochs, 'epoch')}):{' '}
             {draws.sites
               .map(
                 (s) =>
@@ -152,7 +153,7 @@ export function SeasonDrawsPanel({
               <tbody key={t.target} data-target={t.target}>
                 <tr class="draw-target">
                   <th colSpan={8}>
-                    {t.target}: {t.epochs} epochs
+                    {t.target}: {plural(t.epochs, 'epoch')}
                     {t.kept.obtained + t.kept.planned > 0 &&
                       ` (${t.kept.obtained} already obtained, certain; ${t.kept.planned} kept as planned)`}
                     , {t.epochsLost.toFixed(1)} lost on average

@@ -10,6 +10,7 @@ import { loadCatalogue, skySite, skyTarget, type Catalogue } from '../api/catalo
 import type { BlockRow, CampaignRow, NightRow, OrbitEvent } from '../api/client.ts';
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
 import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
+import { plural } from '../lib/words.ts';
 import { useLoad } from '../lib/use-load.ts';
 import { CampaignChoice, useChosenCampaign } from '../lib/campaign.tsx';
 import { SeasonPlanPanel, type SeasonPlanPreview } from './season-plan.tsx';
@@ -104,7 +105,7 @@ function SiteSeason({
       ],
       seasonText:
         t.season.start !== null && t.season.end !== null
-          ? `${monthDay(t.season.start)} → ${monthDay(t.season.end)} · ${t.season.usableNights} nights`
+          ? `${monthDay(t.season.start)} → ${monthDay(t.season.end)} · ${plural(t.season.usableNights, 'night')}`
           : 'not observable',
     };
   });

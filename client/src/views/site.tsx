@@ -7,7 +7,7 @@
 import { Info } from 'luxon';
 import { useState } from 'preact/hooks';
 import { api, fieldMessages, type Schemas } from '../api/client.ts';
-import { ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
+import { Blank, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { fieldWords } from '../lib/field-words.ts';
 import { useAction } from '../lib/use-action.ts';
 import { useLoad } from '../lib/use-load.ts';
@@ -18,6 +18,12 @@ const MONTHS = 'Jan Feb Mar Apr May Jun Jul Aug Sep Oct Nov Dec'.split(' ');
 const MONTH_NAMES = Info.months('long', { locale: 'en' });
 const pct = (x: number | null | undefined) =>
   x === null || x === undefined ? '–' : `${(100 * x).toFixed(0)} %`;
+/** A month's empty cell: no night logged, or none of its reports gave the quantity. */
+const blankWhy = (nights: number, what: string) => (
+  <Blank
+    why={nights ? `none of the month’s reports gave ${what}` : 'no night logged in this month'}
+  />
+);
 
 /**
  * Twelve month tiles: the tile's lower part filled to the clear chance, a tick at the log's own
@@ -272,7 +278,13 @@ export function SiteView({ id }: { id: number }) {
                 <td>
                   <Qty v={m.lostHours} unit="h" />
                 </td>
-                <td>{pct(m.loggedLossFraction)}</td>
+                <td>
+                  {m.loggedLossFraction === null ? (
+                    <Blank why="no night logged in this month" />
+                  ) : (
+                    pct(m.loggedLossFraction)
+                  )}
+                </td>
                 <td>
                   {pct(m.loss.mean)} ± {pct(m.loss.sigma)}
                 </td>
@@ -284,17 +296,22 @@ export function SiteView({ id }: { id: number }) {
                 <td>
                   {m.seeingArcsec
                     ? `${m.seeingArcsec.median.toFixed(2)}″ (${m.seeingArcsec.q25.toFixed(2)}–${m.seeingArcsec.q75.toFixed(2)}, ${m.seeingArcsec.n} n)`
-                    : '–'}
+                    : blankWhy(m.nights, 'seeing')}
                 </td>
                 <td>
                   {m.strehlRatio
                     ? `${m.strehlRatio.median.toFixed(2)} (${m.strehlRatio.n} n)`
-                    : '–'}
+                    : blankWhy(m.nights, 'a Strehl ratio')}
                 </td>
                 <td>
                   {m.reasons
                     .map((r) => `${r.reason}: ${r.hours.toFixed(1)} h, ${r.nights} n`)
-                    .join('; ') || '–'}
+                    .join('; ') ||
+                    (m.nights ? (
+                      <Blank why="no time lost on the nights logged" />
+                    ) : (
+                      <Blank why="no night logged in this month" />
+                    ))}
                 </td>
               </tr>
             ))}
@@ -376,9 +393,11 @@ export function SiteView({ id }: { id: number }) {
                     </th>
                     {r.byAirmass.map((c) => (
                       <td key={c.low}>
-                        {c.n > 0 && c.medianSigma !== null
-                          ? `${c.medianSigma.toFixed(2)} (${c.n})`
-                          : '—'}
+                        {c.n > 0 && c.medianSigma !== null ? (
+                          `${c.medianSigma.toFixed(2)} (${c.n})`
+                        ) : (
+                          <Blank why="no measurement in this seeing and airmass bin" />
+                        )}
                       </td>
                     ))}
                   </tr>

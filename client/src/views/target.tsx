@@ -15,9 +15,10 @@ import {
 import { measurementPoint, SkyPlanePlot, type SkyMeasurement } from '../plots/sky-plane.tsx';
 import { RvCurvePlot, yearOf } from '../plots/rv-curve.tsx';
 import { utcText } from '../lib/time.ts';
-import { ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
+import { Blank, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
+import { plural } from '../lib/words.ts';
 import { useLoad } from '../lib/use-load.ts';
-import { EVENT_WORDS } from '../lib/numbers.ts';
+import { EVENT_WORDS, RV_WHY } from '../lib/numbers.ts';
 import { EphemerisTable } from './ephemeris-table.tsx';
 import { astrometricResidual, loadTargetData, rvSeries, type TargetData } from './target-data.ts';
 import { FitPanel } from './fit-panel.tsx';
@@ -267,7 +268,7 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
               <Qty v={e.state?.positionAngleDeg} unit="" />
             </td>
             <td>
-              <Qty v={e.state?.radialVelocityKmS} unit="" />
+              <Qty v={e.state?.radialVelocityKmS} unit="" why={RV_WHY} />
             </td>
           </tr>
         ))}
@@ -323,7 +324,7 @@ function Solutions({
               </td>
               <td>
                 {s.provenance}
-                {s.fittedFrom ? ` from ${s.fittedFrom.length} measurements` : ''}
+                {s.fittedFrom ? ` from ${plural(s.fittedFrom.length, 'measurement')}` : ''}
               </td>
               <td>{s.reference || <span class="muted">none given</span>}</td>
               <td>{elementText(s, 'periodYears')}</td>
@@ -331,10 +332,14 @@ function Solutions({
               <td>{semiMajorAxisText(s)}</td>
               <td>{utcText(s.createdAt)}</td>
               <td>
-                {lead && !s.current && (
+                {s.current ? (
+                  <Blank why="the current solution: the predictions on this page use it" />
+                ) : lead ? (
                   <button type="button" onClick={() => makeCurrent(s.id)}>
                     Make current
                   </button>
+                ) : (
+                  <Blank why="a lead can make an earlier version current" />
                 )}
               </td>
             </tr>

@@ -8,6 +8,7 @@
 import { useState } from 'preact/hooks';
 import { api, getAll, type Schemas } from '../api/client.ts';
 import { ErrorLine, Loading, Section } from '../lib/ui.tsx';
+import { plural } from '../lib/words.ts';
 import { useAction } from '../lib/use-action.ts';
 import { useLoad } from '../lib/use-load.ts';
 import { useChosenCampaign } from '../lib/campaign.tsx';
@@ -192,7 +193,7 @@ export function TimeRequestView() {
                 ))}
                 <tr class="site-total">
                   <td colSpan={3}>
-                    {s.site}: {s.nights} nights, clear with chance{' '}
+                    {s.site}: {plural(s.nights, 'night')}, clear with chance{' '}
                     {(100 * s.clearChance).toFixed(0)} %
                   </td>
                   <td>{s.byTarget.reduce((n, b) => n + b.blocks, 0)}</td>
