@@ -11,10 +11,32 @@ import type { Prediction } from '../api/client.ts';
 import { isoOfJd, utcText } from '../lib/time.ts';
 import { fieldWords } from '../lib/field-words.ts';
 import { valueText } from '../lib/numbers.ts';
-import { ErrorLine, Qty, useCan } from '../lib/ui.tsx';
+import { Blank, ErrorLine, Qty, useCan } from '../lib/ui.tsx';
 import { useAction } from '../lib/use-action.ts';
 
 type FitPreview = Answer<'/targets/{id}/fit', 'post'>;
+
+/**
+ * The element T is the passage at the star (emitted time); the next periapsis is when its light
+ * reaches us (observed time), earlier or later by the light-travel time across the orbit when the
+ * orbit includes it. The labels say which is which.
+ */
+const parameterWords = (name: string) =>
+  name.endsWith('.periapsisDays') || name === 'periapsisDays'
+    ? `${fieldWords(name)}, periapsis at the star (emitted time)`
+    : fieldWords(name);
+
+/** Hours from T (plus whole periods) to the next periapsis as observed: the Rømer delay there. */
+function lightTimeHours(r: FitPreview['result']): number | null {
+  const star = r.stars[0];
+  const at = (key: string) =>
+    r.parameters.find((p) => p.name === `${star?.name}.${key}` || p.name === key)?.value;
+  const [t, period] = [at('periapsisDays'), at('periodYears')];
+  if (!star || t === undefined || period === undefined) return null;
+  const next = Date.parse(star.nextPeriapsis) / 86_400_000 + 2440587.5;
+  const p = period * 365.25;
+  return (next - (t + Math.round((next - t) / p) * p)) * 24;
+}
 
 export function FitPanel({
   targetId,
@@ -58,6 +80,7 @@ export function FitPanel({
       onStored();
     });
   const r = fit?.result;
+  const lightTime = r ? lightTimeHours(r) : null;
   return (
     <div class="fit-panel">
       <div class="toolbar">
@@ -98,10 +121,17 @@ export function FitPanel({
             {r.converged ? `converged in ${plural(r.iterations, 'iteration')}` : 'did not converge'}{' '}
             · {plural(r.outliers, 'outlier')}
             {r.stars[0]?.nextPeriapsis && (
-              <> · next periapsis {utcText(r.stars[0].nextPeriapsis)} UTC</>
+              <> · next periapsis {utcText(r.stars[0].nextPeriapsis)} UTC as observed</>
             )}
             . The fitted track is drawn dashed on the sky plane.
           </p>
+          {r.stars[0]?.orbit.relativity?.romer && lightTime !== null && (
+            <p class="muted">
+              T is when the star passes periapsis; the next periapsis is when that passage is seen
+              from Earth, {Math.abs(lightTime).toFixed(1)} h {lightTime < 0 ? 'earlier' : 'later'}{' '}
+              than T plus whole periods: the light-travel time across the orbit (Rømer delay).
+            </p>
+          )}
           <table class="data fit-parameters">
             <thead>
               <tr>
@@ -114,7 +144,7 @@ export function FitPanel({
             <tbody>
               {r.parameters.map((p) => (
                 <tr key={p.name}>
-                  <td>{fieldWords(p.name)}</td>
+                  <td>{parameterWords(p.name)}</td>
                   {/* The value to the digits its σ supports; an epoch as its UTC date, σ in days. */}
                   <td>
                     {p.unit.startsWith('JD')
@@ -122,7 +152,11 @@ export function FitPanel({
                       : valueText(p.value, p.sigma).split(' ± ')[0]}
                   </td>
                   <td>{valueText(p.sigma, null, 2)}</td>
-                  <td>{p.unit.startsWith('JD') ? 'date; σ in days' : p.unit}</td>
+                  <td>
+                    {p.unit.startsWith('JD')
+                      ? 'date; σ in days'
+                      : p.unit || <Blank why="a pure number: no unit" />}
+                  </td>
                 </tr>
               ))}
             </tbody>
