@@ -211,7 +211,7 @@ function PriorCsvForm({ siteId, onSaved }: { siteId: number; onSaved: () => void
         />
       </label>
       <label>
-        rows without strength_nights are worth (nights){' '}
+        rows without <code>strength_nights</code> are worth (nights){' '}
         <input
           name="prior-csv-strength"
           inputMode="decimal"
