@@ -22,8 +22,6 @@ import {
 
 /** Commands that need the database file itself (a server cannot copy, restore or create it). */
 const DATABASE_ONLY = ['backup', 'restore', 'create-database'];
-/** Commands of pure computation, which read no store. */
-const NO_STORE = ['ephemeris', 'events'];
 
 let dir: string;
 let url: string;
@@ -50,10 +48,6 @@ afterAll(async () => {
 it('prints the database found here and now in every store command’s help, and offers --server', () => {
   const here = locateDatabase();
   for (const [name, command] of Object.entries(commands)) {
-    if (NO_STORE.includes(name)) {
-      expect(command.help, name).not.toMatch(/--database/);
-      continue;
-    }
     expect(command.help, name).toContain(
       `here and now: ${displayUrl(here.url)}, from ${here.source}`,
     );

@@ -92,6 +92,36 @@ it('plans a night, forecasts a target and exports its ephemeris the same both wa
     const { local, viaServer } = await bothWays(argv[0]!, ...argv.slice(1));
     expect(JSON.parse(viaServer)).toEqual(JSON.parse(local));
   }
+  for (const argv of [
+    [
+      'events',
+      '--target-id',
+      String(ilex),
+      '--start',
+      '2027-01-01T00:00Z',
+      '--end',
+      '2029-01-01T00:00Z',
+      '--kinds',
+      'periapsis',
+      '--json',
+    ],
+    [
+      'ephemeris',
+      '--target-id',
+      String(ilex),
+      '--start',
+      '2027-01-01T00:00Z',
+      '--end',
+      '2027-03-01T00:00Z',
+      '--step',
+      'P30D',
+      '--json',
+    ],
+  ]) {
+    const both = await bothWays(argv[0]!, ...argv.slice(1));
+    expect(JSON.parse(both.viaServer)).toEqual(JSON.parse(both.local));
+    expect(both.local).toMatch(/"periapsis"|"dRaMas"/); // the stored orbit's own events and offsets
+  }
   const ephemeris = [
     'ephemeris',
     '--target-id',

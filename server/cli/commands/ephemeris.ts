@@ -11,10 +11,10 @@ import {
   epochPrinter,
   orbitOptions,
   readMonteCarlo,
-  readOrbit,
+  orbitOf,
 } from './orbit-args.ts';
 
-const help = `usage: epochwright ephemeris --orbit <json|file> (--start <epoch> --end <epoch> --step <duration> | --at <epoch>[,<epoch>…]) [options]
+const help = `usage: epochwright ephemeris --orbit <json|file> | --target-id <id> (--start <epoch> --end <epoch> --step <duration> | --at <epoch>[,<epoch>…]) [options]
 
 Predicts, for each epoch: separation ρ (mas), position angle θ (deg, north through east), offsets
 Δα* (east) and Δδ (north) in mas, and with a distance the radial velocity (km/s, receding positive).
@@ -35,7 +35,7 @@ ${ORBIT_OPTION_HELP}
 export const ephemerisCommand: Command = {
   summary: 'predict sky offsets, separation, position angle and radial velocity at epochs',
   help,
-  run(argv) {
+  async run(argv) {
     const { values } = parseArgs({
       args: argv,
       options: {
@@ -49,7 +49,7 @@ export const ephemerisCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const orbit = readOrbit(values.orbit);
+    const orbit = await orbitOf(values);
     let epochs: EpochsInput;
     if (values.at !== undefined) {
       if (values.start ?? values.end ?? values.step)

@@ -16,10 +16,10 @@ import {
   epochPrinter,
   orbitOptions,
   readMonteCarlo,
-  readOrbit,
+  orbitOf,
 } from './orbit-args.ts';
 
-const help = `usage: epochwright events --orbit <json|file> --start <epoch> --end <epoch> [--kinds <k,k,…>] [options]
+const help = `usage: epochwright events --orbit <json|file> | --target-id <id> --start <epoch> --end <epoch> [--kinds <k,k,…>] [options]
 
 Lists, soonest first, the orbit's events between two epochs with the state at each: separation,
 position angle, radial velocity. With a covariance, each date comes with its 1σ in days; with --mc,
@@ -38,7 +38,7 @@ ${ORBIT_OPTION_HELP}
 export const eventsCommand: Command = {
   summary: 'find periapsis and apoapsis passages, nodes and extrema in an interval',
   help,
-  run(argv) {
+  async run(argv) {
     const { values } = parseArgs({
       args: argv,
       options: {
@@ -51,7 +51,7 @@ export const eventsCommand: Command = {
       allowPositionals: false,
     });
     const format = outputFormat(values);
-    const orbit = readOrbit(values.orbit);
+    const orbit = await orbitOf(values);
     if (values.start === undefined || values.end === undefined)
       throw new UsageError('--start and --end are required');
     const kinds = values.kinds?.split(',').map((k) => k.trim());
