@@ -103,7 +103,7 @@ export const api = {
 };
 
 /**
- * Save a file the server writes (a CSV export): fetched with the session's token like any other
+ * Save a file the server writes (a CSV export, the archive, a calendar): fetched with the session's token like any other
  * call (errors thrown as ApiError), then handed to the browser as a download named `filename`.
  */
 export async function downloadFile<P extends PathsWith<'get'>>(
@@ -112,7 +112,9 @@ export async function downloadFile<P extends PathsWith<'get'>>(
   filename: string,
   type = 'text/csv',
 ): Promise<void> {
-  const text = String(await request('GET', path, init));
+  const body = await request('GET', path, init);
+  // A JSON answer (the archive) is written back as the text it came as, numbers unchanged.
+  const text = typeof body === 'string' ? body : JSON.stringify(body);
   const url = URL.createObjectURL(new Blob([text], { type }));
   Object.assign(document.createElement('a'), { href: url, download: filename }).click();
   setTimeout(() => URL.revokeObjectURL(url), 1000);

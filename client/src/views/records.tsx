@@ -16,6 +16,7 @@ import { Caution, ErrorLine, Loading, Section, useCan } from '../lib/ui.tsx';
 import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
 import { OrbitExport } from './orbit-export.tsx';
+import { RecordExports } from './record-exports.tsx';
 import { RELATIVITY_WORDS, scaledText } from '../lib/numbers.ts';
 import { formatDecDms, formatRaHms } from '../../../descriptors/sexagesimal.ts';
 import { plural } from '../lib/words.ts';
@@ -413,6 +414,9 @@ export function RecordsView() {
             laser-traffic rules and the local aviation authority, not this tool.
           </Caution>
         )}
+      </Section>
+      <Section title="Export and back up" id="exports">
+        <RecordExports cat={cat} />
       </Section>
       {lead && (
         <Section title="Add a record" id="create">
