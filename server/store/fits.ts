@@ -3,7 +3,7 @@
  * with defaults from the current orbit solutions, and accept a fit as new orbit-solution versions
  * with their provenance, all targets in one transaction. The fit itself is the orbit engine's.
  */
-import { and, eq, inArray } from 'drizzle-orm';
+import { and, eq, gt, inArray } from 'drizzle-orm';
 import { measurements, orbitSolutions, targets } from '../../db/schema.ts';
 import { InputError } from '../science/errors.ts';
 import { JULIAN_YEAR_DAYS } from '../science/constants.ts';
@@ -21,6 +21,7 @@ import type { MeasurementRow } from './repos/measurements.ts';
 import type { OrbitSolutionRow } from './repos/orbits.ts';
 import { systemEntity, targetEntity } from './repos/catalogue.ts';
 import { nowIso } from '../clock.ts';
+import { readInPages } from './yield.ts';
 import { describeKind, fieldsOfKind } from '../../descriptors/measurement-kinds.ts';
 
 /** What a stored fit may set; everything else comes from the stored measurements. */
@@ -89,11 +90,19 @@ export async function prepareStoredFit(
   if (targetIds.length === 0)
     throw new InputError('targets', targetIds, 'must name at least one target with measurements');
   const { measurementIds, hints, ...rest } = options;
-  const rows = await store.db
-    .select()
-    .from(measurements)
-    .where(inArray(measurements.targetId, targetIds))
-    .orderBy(measurements.epochJd, measurements.id);
+  // In pages by id (a star may have 100,000 measurements), then in time order.
+  const rows = (
+    await readInPages(
+      (after, limit) =>
+        store.db
+          .select()
+          .from(measurements)
+          .where(and(inArray(measurements.targetId, targetIds), gt(measurements.id, after)))
+          .orderBy(measurements.id)
+          .limit(limit),
+      (r) => r.id,
+    )
+  ).sort((a, b) => a.epochJd - b.epochJd || a.id - b.id);
   const chosen = measurementIds ? new Set(measurementIds) : null;
   const stored = new Set(rows.map((r) => r.id));
   measurementIds?.forEach((id, k) => {

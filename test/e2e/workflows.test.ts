@@ -116,7 +116,7 @@ describe('night report', () => {
     );
     // Crash the renderer once the draft is stored: no unload handlers, no chance to save.
     const cdp = await ctx.newCDPSession(first.page);
-    const crashed = first.page.waitForEvent('crash', { timeout: 15_000 });
+    const crashed = first.page.waitForEvent('crash', { timeout: 60_000 });
     void cdp.send('Page.crash').catch(() => undefined);
     await crashed;
     void first.page.close().catch(() => undefined);
