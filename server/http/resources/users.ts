@@ -110,13 +110,9 @@ export function userRoutes(store: Store) {
       label: z.string(),
       createdAt: z.string(),
       revokedAt: z.string().nullable(),
-      feedCampaignId: z
-        .number()
-        .int()
-        .nullable()
-        .openapi({
-          description: 'a feed token’s campaign (it opens only that feed); null otherwise',
-        }),
+      feedCampaignId: z.number().int().nullable().openapi({
+        description: 'a feed token’s campaign (it opens only that feed); null otherwise',
+      }),
     })
     .strict()
     .openapi('TokenListing');
