@@ -87,6 +87,7 @@ export {
 } from './csv/clear-prior.ts';
 export type { PreparedMeasurements } from './csv/measurement-rows.ts';
 export { ephemerisCsv } from './exports/ephemeris.ts';
+export { SITE_TOTAL, timeRequestCsv } from './exports/time-request.ts';
 export { RESIDUAL_CSV_COLUMNS, residualsCsv } from './exports/residuals.ts';
 export { measurementsCsv, type ExportedMeasurement } from './exports/measurements.ts';
 export { orbitsCsv, type ExportedOrbit } from './exports/orbits.ts';

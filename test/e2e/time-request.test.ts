@@ -4,6 +4,7 @@
  * the Markdown is there to copy. Waits on state, never on time.
  */
 import { join } from 'node:path';
+import { parse } from 'csv-parse/sync';
 import { describe, expect, inject, test } from 'vitest';
 import { chartPages } from './chart-page.ts';
 import { SCREENSHOTS, apiCaller, nearPeriapsis } from './harness.ts';
@@ -48,6 +49,15 @@ describe('the semester time request page', () => {
     expect(await page.locator('.request-markdown').inputValue()).toMatch(
       /^# Time request, semester E1/,
     );
+    // The CSV download holds the same hours: each site's rows add up to its request.
+    const href = await page.locator('a.request-csv').getAttribute('href');
+    const csv = decodeURIComponent(href!.replace(/^data:text\/csv;charset=utf-8,/, ''));
+    const rows = (parse(csv) as string[][]).slice(1);
+    for (const s of answer.sites) {
+      const mine = rows.filter((r) => r[1] === s.site && r[2] !== '(site total)');
+      expect(mine.reduce((h, r) => h + Number(r[7]), 0)).toBeCloseTo(s.requestHours, 2);
+    }
+    expect(await page.locator('.request-method').textContent()).toMatch(/Fisher/);
     await page.emulateMedia({ media: 'print' });
     expect(await page.locator('.topbar').isVisible()).toBe(false);
     await page

@@ -11952,6 +11952,8 @@ export interface components {
             method: string;
             /** @description the same, ready to paste into a proposal */
             markdown: string;
+            /** @description hours per site, target and kind with the site totals, as the CLI’s --csv */
+            csv: string;
         };
         Flag: {
             /** @enum {string} */

@@ -212,6 +212,16 @@ export function TimeRequestView() {
           ))}
           <p class="muted">Rule: {result.rule}.</p>
           <p class="muted request-method">Expected results: {result.method}.</p>
+          <p class="no-print">
+            <a
+              class="request-csv"
+              download={`time-request-${result.semester.name}.csv`}
+              href={`data:text/csv;charset=utf-8,${encodeURIComponent(result.csv)}`}
+            >
+              Download the hours as CSV
+            </a>{' '}
+            <span class="muted">(per site, target and kind, with each site’s total)</span>
+          </p>
           <details class="no-print">
             <summary>Markdown for the proposal</summary>
             <textarea class="request-markdown" readOnly rows={14} value={result.markdown} />

@@ -1,7 +1,12 @@
 /** `epochwright time-request`: a semester's request for telescope time, from the campaign's plan and its log. */
 import { parseArgs } from 'node:util';
 import { timeRequestMarkdown } from '../../science/plan/time-request.ts';
-import type { Store, TimeRequestInput } from '../../store/index.ts';
+import {
+  SITE_TOTAL,
+  timeRequestCsv,
+  type Store,
+  type TimeRequestInput,
+} from '../../store/index.ts';
 import { asOptions, outputFormat, positiveId, weatherOption } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
@@ -80,8 +85,15 @@ export const timeRequestCommand: Command = {
         storeAction(values, {
           local: (store) => store.plans.timeRequest(id, input, atJd),
           remote: async (api) => {
-            type Answer = Awaited<ReturnType<Store['plans']['timeRequest']>> & { markdown: string };
-            const { markdown: _markdown, ...request } = await api<Answer>({
+            type Answer = Awaited<ReturnType<Store['plans']['timeRequest']>> & {
+              markdown: string;
+              csv: string;
+            };
+            const {
+              markdown: _markdown,
+              csv: _csv,
+              ...request
+            } = await api<Answer>({
               method: 'POST',
               path: `/campaigns/${id}/time-request`,
               body: { ...input, at: values.at },
@@ -91,6 +103,7 @@ export const timeRequestCommand: Command = {
         }),
     );
     if (values.markdown) return timeRequestMarkdown(r);
+    if (format === 'csv') return timeRequestCsv(r);
     const rows: Row[] = r.sites.flatMap((s) => [
       ...s.byTarget.map((b) => ({
         site: s.site,
@@ -103,7 +116,7 @@ export const timeRequestCommand: Command = {
       })),
       {
         site: s.site,
-        target: '(site total)',
+        target: SITE_TOTAL,
         kind: '',
         blocks: null,
         hours: s.hours,

@@ -2,7 +2,7 @@
 import { createRoute, z } from '@hono/zod-openapi';
 import type { Runner } from '../../jobs/tasks.ts';
 import { timeRequestMarkdown } from '../../science/plan/time-request.ts';
-import { WEATHER_CHOICES, type Store } from '../../store/index.ts';
+import { WEATHER_CHOICES, timeRequestCsv, type Store } from '../../store/index.ts';
 import { requireRole } from '../auth.ts';
 import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
 import { momentJd } from '../../clock.ts';
@@ -85,6 +85,9 @@ const Answer = z
       .string()
       .openapi({ description: 'how the results with and without the time are reckoned' }),
     markdown: z.string().openapi({ description: 'the same, ready to paste into a proposal' }),
+    csv: z.string().openapi({
+      description: 'hours per site, target and kind with the site totals, as the CLI’s --csv',
+    }),
   })
   .strict()
   .openapi('TimeRequest');
@@ -109,7 +112,7 @@ export function timeRequestRoutes(store: Store, run: Runner) {
       requireRole(c, 'viewer');
       const { at, ...b } = c.req.valid('json');
       const r = await store.plans.timeRequest(c.req.valid('param').id, b, momentJd(at, 'at'), run);
-      return c.json({ ...r, markdown: timeRequestMarkdown(r) }, 200);
+      return c.json({ ...r, markdown: timeRequestMarkdown(r), csv: timeRequestCsv(r) }, 200);
     },
   );
   return app;
