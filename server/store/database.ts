@@ -123,7 +123,9 @@ export async function openDatabase(options: OpenOptions = {}): Promise<Database>
     throw new InputError(
       'database',
       url,
-      `names no database (from ${source}): the server creates its database on its first start (or run 'epochwright create-database'); point DATABASE_URL or EPOCHWRIGHT_DATA_DIR (or --database) at the server's, or start the server once`,
+      `names no database (from ${source}): the server creates its database on its first start (or ` +
+        `run 'epochwright create-database'); point DATABASE_URL or EPOCHWRIGHT_DATA_DIR (or ` +
+        `--database) at the server's, or start the server once`,
     );
   }
   if (path) createPrivateFile(path);

@@ -37,13 +37,18 @@ const CsvBody = z
       .string()
       .max(20_000)
       .openapi({
-        description: `CSV text: a header with ${CLEAR_PRIOR_COLUMNS.slice(0, 2).join(' and ')} (and optionally ${CLEAR_PRIOR_COLUMNS[2]}), one row per month that has a prior; the rest are cleared`,
+        description:
+          `CSV text: a header with ${CLEAR_PRIOR_COLUMNS.slice(0, 2).join(' and ')} ` +
+          `(and optionally ${CLEAR_PRIOR_COLUMNS[2]}), one row per month that has a prior; the ` +
+          `rest are cleared`,
       }),
     strengthNights: z
       .number()
       .optional()
       .openapi({
-        description: `weight of rows without strength_nights, nights, (0, 1000]; default ${DEFAULT_PRIOR_STRENGTH_NIGHTS}`,
+        description:
+          `weight of rows without strength_nights, nights, (0, 1000]; default ` +
+          `${DEFAULT_PRIOR_STRENGTH_NIGHTS}`,
       }),
   })
   .strict();

@@ -362,14 +362,17 @@ export const SeasonPlanSchema = z
             .nullable()
             .openapi({
               description:
-                'critical epochs on nights likely lost and how many got a backup, in words with the numbers (or why none is critical); null when no night is likely lost',
+                'critical epochs on nights likely lost and how many got a backup, in words with ' +
+                'the numbers (or why none is critical); null when no night is likely lost',
             }),
           nextBest: z.array(
             z.object({ date: z.string(), site: z.string(), kind: BlockKind, gain: Gain }).strict(),
           ),
           relativity: z.union([DetectionForecastSchema, z.null()]).openapi({
             description:
-              'the relativity detection forecast after the plan: the measurements, then the blocks that stay and the plan’s epochs at their σ; null when the orbit has no distance or no relativistic term',
+              'the relativity detection forecast after the plan: the measurements, then the ' +
+              'blocks that stay and the plan’s epochs at their σ; null when the orbit has no ' +
+              'distance or no relativistic term',
           }),
         })
         .strict(),

@@ -95,7 +95,8 @@ export const NightReportSchema = z
           .openapi({ description: 'wavelength refraction is computed at, µm' }),
         wavelengthFrom: z.enum(WAVELENGTH_SOURCES).openapi({
           description:
-            'where the wavelength came from: "campaign" (its goals.wavelengthUm, over the site’s), "site" (the site’s own), "default" (2.2 µm, the K band)',
+            'where the wavelength came from: "campaign" (its goals.wavelengthUm, over the ' +
+            'site’s), "site" (the site’s own), "default" (2.2 µm, the K band)',
         }),
         refraction: z
           .string()

@@ -386,7 +386,11 @@ export function cautions(c: Limits): string[] {
   // there departs from any model by more than the model's own error.
   if (c.altitudeLimitDeg < LOWEST_CHECKED_ALTITUDE_DEG) {
     out.push(
-      `These limits allow altitudes down to ${round(c.altitudeLimitDeg, 1)}°, below ${LOWEST_CHECKED_ALTITUDE_DEG}°: there refraction is not checked against an outside model and varies with the air near the horizon, so times and altitudes that low may be off by minutes and arcminutes. Set a lowest altitude or highest airmass if the telescope does not observe that low.`,
+      `These limits allow altitudes down to ${round(c.altitudeLimitDeg, 1)}°, below ` +
+        `${LOWEST_CHECKED_ALTITUDE_DEG}°: there refraction is not checked against an outside ` +
+        `model and varies with the air near the horizon, so times and altitudes that low may be ` +
+        `off by minutes and arcminutes. Set a lowest altitude or highest airmass if the ` +
+        `telescope does not observe that low.`,
     );
   }
   if (c.leastSunDistanceDeg < 30) {

@@ -71,7 +71,11 @@ const BANDS = [
 export function refractionWords(site: Site): string {
   const band = BANDS.find(([, um]) => Math.abs(site.wavelengthUm / um - 1) < 0.02)?.[0];
   if (site.pressureHpa === 0) return 'no refraction (pressure 0 hPa)';
-  return `refraction at ${site.wavelengthUm} µm (${band ? `${band} band; ` : ''}${SOURCE_WORDS[site.wavelengthFrom]}), ${site.humidityPct.toFixed(0)} % humidity, ${site.pressureHpa.toFixed(0)} hPa, ${site.temperatureC.toFixed(1)} °C`;
+  return (
+    `refraction at ${site.wavelengthUm} µm (${band ? `${band} band; ` : ''}` +
+    `${SOURCE_WORDS[site.wavelengthFrom]}), ${site.humidityPct.toFixed(0)} % humidity, ` +
+    `${site.pressureHpa.toFixed(0)} hPa, ${site.temperatureC.toFixed(1)} °C`
+  );
 }
 
 /** A validated site: every default filled in. */

@@ -164,7 +164,8 @@ export function longitudeZoneMismatch(
 export function describeMismatch(m: ZoneMismatch, longitudeDeg: number, zone: string): string {
   const h = utcHours;
   return (
-    `contradicts the time zone: longitude ${Number(longitudeDeg.toFixed(4))}° keeps mean solar time ${h(m.meanSolarHours)}, ` +
+    `contradicts the time zone: longitude ${Number(longitudeDeg.toFixed(4))}° keeps mean solar ` +
+    `time ${h(m.meanSolarHours)}, ` +
     `but ${zone} is ${h(m.zoneOffsetHours)} (${m.gapHours.toFixed(1)} h apart, more than ` +
     `${ZONE_LONGITUDE_TOLERANCE_HOURS} h); likely correction: ${m.correction}; ` +
     'or confirm with longitudeZoneConfirmed: true to keep both as they are'

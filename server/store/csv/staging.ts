@@ -126,13 +126,17 @@ export async function moveStagedRows(tx: Tx, runId: number): Promise<void> {
   const raw = rawOf(tx);
   for (let after = 0; ; ) {
     const last = await raw.execute({
-      sql: `select max(rowid) as last from (select rowid from measurement_staging where rowid > ? and "run_id" = ? order by rowid limit ${ROWS_PER_MOVE})`,
+      sql:
+        `select max(rowid) as last from (select rowid from measurement_staging where rowid > ? ` +
+        `and "run_id" = ? order by rowid limit ${ROWS_PER_MOVE})`,
       args: [after, runId],
     });
     const upTo = last.rows[0]?.last;
     if (upTo === null || upTo === undefined) break;
     await raw.execute({
-      sql: `insert into measurements (${columnList}) select ${columnList} from measurement_staging where rowid > ? and rowid <= ? and "run_id" = ? order by rowid`,
+      sql:
+        `insert into measurements (${columnList}) select ${columnList} from ` +
+        `measurement_staging where rowid > ? and rowid <= ? and "run_id" = ? order by rowid`,
       args: [after, upTo, runId],
     });
     after = Number(upTo);
@@ -150,7 +154,9 @@ export async function dropRun(db: Db, runId: number): Promise<void> {
   for (;;) {
     const { rowsAffected } = await db.transaction((tx) =>
       rawOf(tx).execute({
-        sql: `delete from measurement_staging where rowid in (select rowid from measurement_staging where "run_id" = ? limit ${ROWS_PER_MOVE})`,
+        sql:
+          `delete from measurement_staging where rowid in (select rowid from ` +
+          `measurement_staging where "run_id" = ? limit ${ROWS_PER_MOVE})`,
         args: [runId],
       }),
     );

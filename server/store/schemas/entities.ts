@@ -231,7 +231,8 @@ export const CampaignFields = z.object({
         .max(100)
         .optional()
         .describe(
-          'wavelength the campaign observes at, µm, for refraction (V 0.55, J 1.25, H 1.65, K 2.2); absent: each site’s own; it overrides theirs',
+          'wavelength the campaign observes at, µm, for refraction (V 0.55, J 1.25, H 1.65, K ' +
+            '2.2); absent: each site’s own; it overrides theirs',
         ),
       densifiedCadenceDays: z
         .number()
