@@ -119,10 +119,6 @@ export function SkyPlanePlot(props: SkyPlaneProps) {
   const path = props.track
     .map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`)
     .join('');
-  const xt = ticks(x.domain[1], x.domain[0], 6);
-  const yt = ticks(y.domain[1], y.domain[0], 6);
-  const bottom = height - M.bottom;
-  const right = width - M.right;
   return (
     <svg
       class="plot sky-plane"
@@ -131,6 +127,67 @@ export function SkyPlanePlot(props: SkyPlaneProps) {
       aria-label={props.title ?? 'orbit on the sky, north up, east left'}
       data-mas-per-px={masPerPx}
     >
+      <SkyAxes x={x} y={y} width={width} height={height} />
+      {props.compareTrack && (
+        <path
+          class="track-compare"
+          d={props.compareTrack
+            .map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`)
+            .join('')}
+        />
+      )}
+      <path class="track" d={path} />
+      <g class="primary">
+        <path d={`M${x(0) - 6},${y(0)}h12M${x(0)},${y(0) - 6}v12`} />
+        <title>primary</title>
+      </g>
+      {labelSpaced(
+        props.dateTicks.map((t) => ({ t, px: x(t.dRaMas), py: y(t.dDecMas) })),
+        16,
+      ).map(({ t, px, py, label }) => (
+        <g class="date-tick" key={t.epoch}>
+          <circle cx={px} cy={py} r="2.5" />
+          {label && (
+            <text x={px + 5} y={py - 5}>
+              {t.epoch.slice(0, 4)}
+            </text>
+          )}
+          <title>{t.epoch.slice(0, 10)}</title>
+        </g>
+      ))}
+      {props.periapsis && (
+        <g class="periapsis-mark">
+          <path
+            d={`M${x(props.periapsis.dRaMas)},${y(props.periapsis.dDecMas) - 7}l6,7l-6,7l-6,-7z`}
+          />
+          <text x={x(props.periapsis.dRaMas) + 9} y={y(props.periapsis.dDecMas) + 14}>
+            periapsis {props.periapsis.epoch.slice(0, 10)}
+          </text>
+        </g>
+      )}
+      {props.measurements.map((m) => (
+        <MeasurementMark key={m.id} m={m} x={x} y={y} masPerPx={masPerPx} />
+      ))}
+      {props.planned.map((p) => (
+        <g class="planned" key={`p${p.epoch}`}>
+          <rect x={x(p.dRaMas) - 4} y={y(p.dDecMas) - 4} width="8" height="8" />
+          <title>{`planned ${p.epoch.slice(0, 16).replace('T', ' ')} UTC`}</title>
+        </g>
+      ))}
+    </svg>
+  );
+}
+
+type Scale = ReturnType<typeof linear>;
+
+/** Grid lines, the two axes with their ticks and titles, and the N/E compass. */
+function SkyAxes({ x, y, width, height }: { x: Scale; y: Scale; width: number; height: number }) {
+  const xt = ticks(x.domain[1], x.domain[0], 6);
+  const yt = ticks(y.domain[1], y.domain[0], 6);
+  const bottom = height - M.bottom;
+  const right = width - M.right;
+  return (
+    <>
       <g class="grid">
         {xt.map((v) => (
           <line key={`x${v}`} x1={x(v)} x2={x(v)} y1={M.top} y2={bottom} />
@@ -173,75 +230,50 @@ export function SkyPlanePlot(props: SkyPlaneProps) {
           E
         </text>
       </g>
-      {props.compareTrack && (
-        <path
-          class="track-compare"
-          d={props.compareTrack
-            .map((p, i) => `${i ? 'L' : 'M'}${x(p.dRaMas).toFixed(1)},${y(p.dDecMas).toFixed(1)}`)
-            .join('')}
+    </>
+  );
+}
+
+/** One measurement: its residual line to the prediction, its 1σ ellipse and its point. */
+function MeasurementMark({
+  m,
+  x,
+  y,
+  masPerPx,
+}: {
+  m: SkyMeasurement;
+  x: Scale;
+  y: Scale;
+  masPerPx: number;
+}) {
+  const e = m.ellipse;
+  const words =
+    `${m.epoch.slice(0, 10)}: Δα* ${m.dRaMas.toFixed(2)} mas, Δδ ${m.dDecMas.toFixed(2)} mas, ` +
+    `1σ ellipse ${e.majorMas.toFixed(2)} × ${e.minorMas.toFixed(2)} mas at PA ${e.paDeg.toFixed(0)}°`;
+  return (
+    <g class="measurement" data-id={m.id}>
+      {m.predicted && (
+        <line
+          class="residual"
+          x1={x(m.predicted.dRaMas)}
+          y1={y(m.predicted.dDecMas)}
+          x2={x(m.dRaMas)}
+          y2={y(m.dDecMas)}
         />
       )}
-      <path class="track" d={path} />
-      <g class="primary">
-        <path d={`M${x(0) - 6},${y(0)}h12M${x(0)},${y(0) - 6}v12`} />
-        <title>primary</title>
-      </g>
-      {labelSpaced(
-        props.dateTicks.map((t) => ({ t, px: x(t.dRaMas), py: y(t.dDecMas) })),
-        16,
-      ).map(({ t, px, py, label }) => (
-        <g class="date-tick" key={t.epoch}>
-          <circle cx={px} cy={py} r="2.5" />
-          {label && (
-            <text x={px + 5} y={py - 5}>
-              {t.epoch.slice(0, 4)}
-            </text>
-          )}
-          <title>{t.epoch.slice(0, 10)}</title>
-        </g>
-      ))}
-      {props.periapsis && (
-        <g class="periapsis-mark">
-          <path
-            d={`M${x(props.periapsis.dRaMas)},${y(props.periapsis.dDecMas) - 7}l6,7l-6,7l-6,-7z`}
-          />
-          <text x={x(props.periapsis.dRaMas) + 9} y={y(props.periapsis.dDecMas) + 14}>
-            periapsis {props.periapsis.epoch.slice(0, 10)}
-          </text>
-        </g>
-      )}
-      {props.measurements.map((m) => (
-        <g class="measurement" key={m.id} data-id={m.id}>
-          {m.predicted && (
-            <line
-              class="residual"
-              x1={x(m.predicted.dRaMas)}
-              y1={y(m.predicted.dDecMas)}
-              x2={x(m.dRaMas)}
-              y2={y(m.dDecMas)}
-            />
-          )}
-          <ellipse
-            class="error-ellipse"
-            cx={x(m.dRaMas)}
-            cy={y(m.dDecMas)}
-            rx={Math.max(m.ellipse.majorMas / masPerPx, 0.5)}
-            ry={Math.max(m.ellipse.minorMas / masPerPx, 0.5)}
-            transform={`rotate(${svgRotationDeg(m.ellipse.paDeg)} ${x(m.dRaMas)} ${y(m.dDecMas)})`}
-            data-major-mas={m.ellipse.majorMas}
-            data-minor-mas={m.ellipse.minorMas}
-            data-pa-deg={m.ellipse.paDeg}
-          />
-          <circle class="measured" cx={x(m.dRaMas)} cy={y(m.dDecMas)} r="1.8" />
-          <title>{`${m.epoch.slice(0, 10)}: Δα* ${m.dRaMas.toFixed(2)} mas, Δδ ${m.dDecMas.toFixed(2)} mas, 1σ ellipse ${m.ellipse.majorMas.toFixed(2)} × ${m.ellipse.minorMas.toFixed(2)} mas at PA ${m.ellipse.paDeg.toFixed(0)}°`}</title>
-        </g>
-      ))}
-      {props.planned.map((p) => (
-        <g class="planned" key={`p${p.epoch}`}>
-          <rect x={x(p.dRaMas) - 4} y={y(p.dDecMas) - 4} width="8" height="8" />
-          <title>{`planned ${p.epoch.slice(0, 16).replace('T', ' ')} UTC`}</title>
-        </g>
-      ))}
-    </svg>
+      <ellipse
+        class="error-ellipse"
+        cx={x(m.dRaMas)}
+        cy={y(m.dDecMas)}
+        rx={Math.max(m.ellipse.majorMas / masPerPx, 0.5)}
+        ry={Math.max(m.ellipse.minorMas / masPerPx, 0.5)}
+        transform={`rotate(${svgRotationDeg(m.ellipse.paDeg)} ${x(m.dRaMas)} ${y(m.dDecMas)})`}
+        data-major-mas={m.ellipse.majorMas}
+        data-minor-mas={m.ellipse.minorMas}
+        data-pa-deg={m.ellipse.paDeg}
+      />
+      <circle class="measured" cx={x(m.dRaMas)} cy={y(m.dDecMas)} r="1.8" />
+      <title>{words}</title>
+    </g>
   );
 }
