@@ -50,15 +50,7 @@ export function NightDetail(p: {
   const ticks = hourTicks(span[0], span[1], p.zone, labelStep(pxPerHour));
   const mask = curve.horizonMaskDeg;
   const zone = vis.site.timeZone;
-  const line = runs(t.length, (k) => inSpan(k) && alt[k]! >= 0)
-    .map(
-      ([a, b]) =>
-        `M${alt
-          .slice(a, b + 1)
-          .map((v, i) => `${x(t[a + i]!).toFixed(1)},${y(v).toFixed(1)}`)
-          .join('L')}`,
-    )
-    .join('');
+  const line = altitudePath(t, alt, (k) => inSpan(k) && alt[k]! >= 0, x, y);
   return (
     <svg
       class="plot night-detail"
@@ -92,24 +84,7 @@ export function NightDetail(p: {
         </g>
       ))}
       <g clip-path="url(#detail-area)">
-        {target.windows.map((w) => {
-          const s = ms(w.start.utc);
-          const e = ms(w.end.utc);
-          return (
-            <rect
-              key={w.start.utc}
-              class="window-column"
-              data-start-ms={s}
-              data-end-ms={e}
-              x={x(s)}
-              y={TOP}
-              width={x(e) - x(s)}
-              height={PLOT_H}
-            >
-              <title>{`window ${bothClocks(s, zone)} to ${bothClocks(e, zone)}`}</title>
-            </rect>
-          );
-        })}
+        <WindowColumns windows={target.windows} x={x} zone={zone} />
         {mask &&
           areaPaths(t, mask, (k) => inSpan(k) && mask[k]! > 0, x, y).map((d) => (
             <path key={d} class="mask-ground" d={d}>
@@ -134,5 +109,55 @@ export function NightDetail(p: {
         altitude
       </text>
     </svg>
+  );
+}
+
+/** The altitude line over its runs above the horizon, one subpath per run. */
+function altitudePath(
+  t: number[],
+  alt: number[],
+  shown: (k: number) => boolean,
+  x: (v: number) => number,
+  y: (v: number) => number,
+): string {
+  return runs(t.length, shown)
+    .map(
+      ([a, b]) =>
+        `M${alt
+          .slice(a, b + 1)
+          .map((v, i) => `${x(t[a + i]!).toFixed(1)},${y(v).toFixed(1)}`)
+          .join('L')}`,
+    )
+    .join('');
+}
+
+/** One full-height column per window, its edges in data attributes (ms). */
+function WindowColumns(p: {
+  windows: VisTarget['windows'];
+  x: (v: number) => number;
+  zone: string;
+}) {
+  const { x, zone } = p;
+  return (
+    <>
+      {p.windows.map((w) => {
+        const s = ms(w.start.utc);
+        const e = ms(w.end.utc);
+        return (
+          <rect
+            key={w.start.utc}
+            class="window-column"
+            data-start-ms={s}
+            data-end-ms={e}
+            x={x(s)}
+            y={TOP}
+            width={x(e) - x(s)}
+            height={PLOT_H}
+          >
+            <title>{`window ${bothClocks(s, zone)} to ${bothClocks(e, zone)}`}</title>
+          </rect>
+        );
+      })}
+    </>
   );
 }
