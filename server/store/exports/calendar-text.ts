@@ -90,6 +90,28 @@ export function calendarText(feed: CalendarFeed): string {
       generator: (zone) => vtimezone(zone, jdToUnixMs(feed.startJd), jdToUnixMs(feed.endJd)),
     },
   });
+  addNights(cal, feed, uid);
+  const plain = (e: FeedEvent) =>
+    cal.createEvent({
+      id: uid(e.id),
+      sequence: e.sequence,
+      stamp: e.stamp,
+      start: new Date(e.startMs),
+      end: new Date(e.endMs),
+      summary: e.summary,
+      ...(e.site ? { location: location(e.site) } : {}),
+      description: e.description,
+    });
+  feed.blocks.forEach(plain);
+  addPassages(cal, feed, uid);
+  feed.blends.forEach(plain);
+  return cal.toString();
+}
+
+type Calendar = ReturnType<typeof ical>;
+
+/** One event per allocated night, over its darkness in the site's zone (none without a sunset). */
+function addNights(cal: Calendar, feed: CalendarFeed, uid: (what: string) => string): void {
   const skySites = new Map<number, Site>();
   for (const { id, sequence, stamp, date, site: s, notes } of feed.nights) {
     let site = skySites.get(s.id);
@@ -117,19 +139,10 @@ export function calendarText(feed: CalendarFeed): string {
         .join('\n'),
     });
   }
-  const plain = (e: FeedEvent) =>
-    cal.createEvent({
-      id: uid(e.id),
-      sequence: e.sequence,
-      stamp: e.stamp,
-      start: new Date(e.startMs),
-      end: new Date(e.endMs),
-      summary: e.summary,
-      ...(e.site ? { location: location(e.site) } : {}),
-      description: e.description,
-    });
-  feed.blocks.forEach(plain);
-  // Periapsis passages as their ± 1σ span; the most likely instant in the description.
+}
+
+/** Periapsis passages as their ± 1σ span; the most likely instant in the description. */
+function addPassages(cal: Calendar, feed: CalendarFeed, uid: (what: string) => string): void {
   for (const t of feed.passages) {
     const { orbit, solution } = t;
     for (const ev of eventsWithUncertainty(orbit, feed.startJd, feed.endJd, {
@@ -160,8 +173,6 @@ export function calendarText(feed: CalendarFeed): string {
       });
     }
   }
-  feed.blends.forEach(plain);
-  return cal.toString();
 }
 
 /** A σ in days, or hours below a day. */
