@@ -119,20 +119,10 @@ function RvPanel({ d }: { d: TargetData }) {
     (m) => m.kind === 'radial-velocity' && m.radialVelocityKmS !== null,
   );
   const hidden = velocities.filter((m) => !shown.includes(m.component)).length;
-  const meas = velocities
-    .filter((m) => shown.includes(m.component))
-    .map((m) => {
-      const p = d.atMeasurement.get(m.id);
-      const predicted = p ? bodyVelocity(p, m.component) : null;
-      return {
-        id: m.id,
-        t: yearOf(m.epoch),
-        v: m.radialVelocityKmS!,
-        sigma: m.sigmaRadialVelocityKmS ?? 0,
-        label: m.component === 'relative' ? '' : `${m.component} `,
-        ...(predicted !== null ? { residual: m.radialVelocityKmS! - predicted } : {}),
-      };
-    });
+  const meas = rvPoints(
+    d,
+    velocities.filter((m) => shown.includes(m.component)),
+  );
   const plain = d.rvPlain && body === 'relative' ? rvSeries(d.rvPlain) : null;
   const ofBody = (c: MeasurementRow['component']) =>
     rvSeries(d.track.map((p) => ({ ...p, radialVelocityKmS: bodyVelocity(p, c) })));
@@ -179,38 +169,77 @@ function RvPanel({ d }: { d: TargetData }) {
         measurements={meas}
         nowYear={yearOf(new Date().toISOString())}
       />
-      <p class="legend">
-        <span class="key key-track" />{' '}
-        {body === 'both'
-          ? 'the primary'
-          : body !== 'relative'
-            ? RV_BODY_TEXT[body]
-            : !plain
-              ? 'predicted (this solution has no relativistic terms switched on)'
-              : withRel
-                ? 'with relativistic terms'
-                : 'without relativistic terms'}
-        {body === 'both' && (
-          <>
-            {' '}
-            · <span class="key key-compare" /> the secondary (mass ratio q ={' '}
-            <Qty v={d.solution!.orbit.massRatio!} unit="" digits={3} />)
-          </>
-        )}
-        {plain && (
-          <>
-            {' '}
-            · <span class="key key-compare" /> {withRel ? 'without' : 'with'} them, for comparison
-          </>
-        )}{' '}
-        · measurements with 1σ bars
-        {!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}
-        {hidden > 0 &&
-          (binary
-            ? ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of another body not drawn (choose it above)`
-            : ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of the primary or the secondary about the barycentre not drawn: this solution has no mass ratio (a fit of them stores one)`)}
-      </p>
+      <RvLegend
+        d={d}
+        body={body}
+        binary={binary}
+        plain={plain !== null}
+        withRel={withRel}
+        hidden={hidden}
+      />
     </>
+  );
+}
+
+/** The drawn velocities with their 1σ and, where the solution predicts the body, the residual. */
+function rvPoints(d: TargetData, velocities: MeasurementRow[]) {
+  return velocities.map((m) => {
+    const p = d.atMeasurement.get(m.id);
+    const predicted = p ? bodyVelocity(p, m.component) : null;
+    return {
+      id: m.id,
+      t: yearOf(m.epoch),
+      v: m.radialVelocityKmS!,
+      sigma: m.sigmaRadialVelocityKmS ?? 0,
+      label: m.component === 'relative' ? '' : `${m.component} `,
+      ...(predicted !== null ? { residual: m.radialVelocityKmS! - predicted } : {}),
+    };
+  });
+}
+
+/** What the curve, the comparison and the points are, and which velocities are not drawn. */
+function RvLegend(p: {
+  d: TargetData;
+  body: RvBody;
+  binary: boolean;
+  /** Whether a curve without the relativistic terms exists to compare with. */
+  plain: boolean;
+  withRel: boolean;
+  hidden: number;
+}) {
+  const { d, body, binary, plain, withRel, hidden } = p;
+  return (
+    <p class="legend">
+      <span class="key key-track" />{' '}
+      {body === 'both'
+        ? 'the primary'
+        : body !== 'relative'
+          ? RV_BODY_TEXT[body]
+          : !plain
+            ? 'predicted (this solution has no relativistic terms switched on)'
+            : withRel
+              ? 'with relativistic terms'
+              : 'without relativistic terms'}
+      {body === 'both' && (
+        <>
+          {' '}
+          · <span class="key key-compare" /> the secondary (mass ratio q ={' '}
+          <Qty v={d.solution!.orbit.massRatio!} unit="" digits={3} />)
+        </>
+      )}
+      {plain && (
+        <>
+          {' '}
+          · <span class="key key-compare" /> {withRel ? 'without' : 'with'} them, for comparison
+        </>
+      )}{' '}
+      · measurements with 1σ bars
+      {!withRel && plain ? ' (residuals in the tooltips are always against the full model)' : ''}
+      {hidden > 0 &&
+        (binary
+          ? ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of another body not drawn (choose it above)`
+          : ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of the primary or the secondary about the barycentre not drawn: this solution has no mass ratio (a fit of them stores one)`)}
+    </p>
   );
 }
 
