@@ -94,70 +94,22 @@ export function App() {
       setMe(null);
     });
   }, [tokenTick]);
-  const nav = [
-    ['/', 'Campaign'],
-    ['/nights', 'Nights'],
-    ['/season', 'Season'],
-    ['/sites', 'Sites'],
-    ['/time-request', 'Time request'],
-    ['/records', 'Records'],
-  ] as const;
   return (
     <MeContext.Provider value={me}>
       <div class="shell">
         <a class="skip" href="#main">
           Skip to content
         </a>
-        <header class="topbar">
-          <a class="wordmark" href="/">
-            <span class="mark" aria-hidden="true">
-              ◜◞
-            </span>{' '}
-            epochwright
-          </a>
-          <nav aria-label="views">
-            {nav.map(([href, label]) => (
-              <a
-                key={href}
-                href={href}
-                aria-current={
-                  (href === '/' ? path === '/' || path.startsWith('/?') : path.startsWith(href))
-                    ? 'page'
-                    : undefined
-                }
-              >
-                {label}
-              </a>
-            ))}
-          </nav>
-          <div class="who">
-            {me && (
-              <span class={`role role-${me.role}`} title="your role on this server">
-                {me.name} · {me.role}
-              </span>
-            )}
-            <button
-              type="button"
-              class="ghost"
-              onClick={() => setTheme(theme === 'night' ? 'day' : 'night')}
-              aria-label={`switch to the ${theme === 'night' ? 'day' : 'night'} theme`}
-            >
-              {theme === 'night' ? 'Day theme' : 'Night theme'}
-            </button>
-            {me && (
-              <button
-                type="button"
-                class="ghost"
-                onClick={() => {
-                  signOut();
-                  setMe(null);
-                }}
-              >
-                Sign out
-              </button>
-            )}
-          </div>
-        </header>
+        <TopBar
+          path={path}
+          me={me}
+          theme={theme}
+          onTheme={setTheme}
+          onSignOut={() => {
+            signOut();
+            setMe(null);
+          }}
+        />
         <main id="main" tabIndex={-1}>
           {me ? (
             <CautionScope key={path}>{route(path)}</CautionScope>
@@ -176,5 +128,70 @@ export function App() {
         </main>
       </div>
     </MeContext.Provider>
+  );
+}
+
+const NAV = [
+  ['/', 'Campaign'],
+  ['/nights', 'Nights'],
+  ['/season', 'Season'],
+  ['/sites', 'Sites'],
+  ['/time-request', 'Time request'],
+  ['/records', 'Records'],
+] as const;
+
+/** The word mark, the views, who is signed in, the theme switch and signing out. */
+function TopBar(p: {
+  path: string;
+  me: Me | null;
+  theme: Theme;
+  onTheme: (t: Theme) => void;
+  onSignOut: () => void;
+}) {
+  const { path, me, theme, onTheme, onSignOut } = p;
+  return (
+    <header class="topbar">
+      <a class="wordmark" href="/">
+        <span class="mark" aria-hidden="true">
+          ◜◞
+        </span>{' '}
+        epochwright
+      </a>
+      <nav aria-label="views">
+        {NAV.map(([href, label]) => (
+          <a
+            key={href}
+            href={href}
+            aria-current={
+              (href === '/' ? path === '/' || path.startsWith('/?') : path.startsWith(href))
+                ? 'page'
+                : undefined
+            }
+          >
+            {label}
+          </a>
+        ))}
+      </nav>
+      <div class="who">
+        {me && (
+          <span class={`role role-${me.role}`} title="your role on this server">
+            {me.name} · {me.role}
+          </span>
+        )}
+        <button
+          type="button"
+          class="ghost"
+          onClick={() => onTheme(theme === 'night' ? 'day' : 'night')}
+          aria-label={`switch to the ${theme === 'night' ? 'day' : 'night'} theme`}
+        >
+          {theme === 'night' ? 'Day theme' : 'Night theme'}
+        </button>
+        {me && (
+          <button type="button" class="ghost" onClick={onSignOut}>
+            Sign out
+          </button>
+        )}
+      </div>
+    </header>
   );
 }
