@@ -540,11 +540,14 @@ function staleFlag(
   if (reasons.length === 0) return null;
   const seen =
     opens === undefined ? '; no campaign site can observe it within the coming year' : '';
+  const after =
+    next !== undefined && (later || next - now > 1)
+      ? ` (${Math.round(next - when)} days after ${later ? 'that night' : 'today'})`
+      : '';
   const plan =
     next === undefined
       ? 'no epoch is planned'
-      : `the next planned epoch is ${jdToIso(next).slice(0, 10)}` +
-        `${later || next - now > 1 ? ` (${Math.round(next - when)} days after ${later ? 'that night' : 'today'})` : ''}`;
+      : `the next planned epoch is ${jdToIso(next).slice(0, 10)}${after}`;
   return {
     kind: 'stale-prediction',
     target: ft.target.name,
@@ -645,11 +648,17 @@ function passageCoverage(
   const covered = [...list(planned, ' (planned)'), ...list(allocated, ' (allocated)')];
   const shut = closed.map((c) => `${c.site} ${c.date.slice(5)} (${c.words})`);
   const known = sites.some((s) => s.nights !== undefined) || (ft.planned ?? []).length > 0;
-  const text = !known
-    ? ''
-    : `Covered: ` +
-      `${covered.length ? covered.join(', ') : 'no planned epoch or allocated observable night in the window'}` +
-      `${shut.length ? `; planned but closed, so not covering: ${shut.join(', ')}` : ''}` +
-      `${mostLikelyCovered ? '.' : `; not covered: the most likely night ${[...new Set(likely)].map((d) => d.slice(5)).join('/')} (no observable planned epoch within 1 d of the date).`}`;
+  const covering = covered.length
+    ? covered.join(', ')
+    : 'no planned epoch or allocated observable night in the window';
+  const closedWords = shut.length
+    ? `; planned but closed, so not covering: ${shut.join(', ')}`
+    : '';
+  const likelyNights = [...new Set(likely)].map((d) => d.slice(5)).join('/');
+  const uncovered = mostLikelyCovered
+    ? '.'
+    : `; not covered: the most likely night ${likelyNights} ` +
+      '(no observable planned epoch within 1 d of the date).';
+  const text = !known ? '' : `Covered: ${covering}${closedWords}${uncovered}`;
   return { planned, closed, allocated, mostLikelyCovered, text };
 }

@@ -412,12 +412,18 @@ function readPins(
       );
     if (s + c.slots >= jd.length || !fitsAt(c, s)) {
       const bad = firstBroken(c, s);
+      const why =
+        bad === null
+          ? 'runs past the end of darkness'
+          : `is closed by ${nightReasonWords(edgeReason(bad, grid, c.grid), grid.limits, 'block')}`;
+      const airmass =
+        c.highestAirmass !== null && bad === null
+          ? ` or above its airmass limit ${c.highestAirmass}`
+          : '';
       throw new InputError(
         `${p}.start`,
         r.start,
-        `would put the ${c.targetName} ${c.kind} block where ${c.targetName} ` +
-          `${bad === null ? 'runs past the end of darkness' : `is closed by ${nightReasonWords(edgeReason(bad, grid, c.grid), grid.limits, 'block')}`}` +
-          `${c.highestAirmass !== null && bad === null ? ` or above its airmass limit ${c.highestAirmass}` : ''}`,
+        `would put the ${c.targetName} ${c.kind} block where ${c.targetName} ${why}${airmass}`,
       );
     }
     const over = clash(c, s);
