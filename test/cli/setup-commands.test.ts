@@ -374,6 +374,9 @@ it('logs a past night: blocks by hand with what ran, then the report with each o
     ),
   );
   expect(outside?.message).toMatch(/^--start: .*must lie within night 2026-10-02/);
+  // Plans are for nights ahead: a schedule for the ended night is refused, pointing to the log.
+  const planned = await refused(run('plan-night', '--night-id', id, '--accept', ...db));
+  expect(planned?.message).toMatch(/has ended: .*record what ran as blocks by hand/);
   const comma = await refused(run('report', 'add', '--night-id', id, '--time-lost', '1,5', ...db));
   expect(comma?.message).toMatch(/^--time-lost: "1,5" has a comma: use a decimal point: 1\.5/);
   const report = await run(

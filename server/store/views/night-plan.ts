@@ -33,7 +33,7 @@ import { getById, removeIn } from '../crud.ts';
 import type { DbOrTx } from '../database.ts';
 import { ConflictError } from '../errors.ts';
 import type { StoreContext } from '../context.ts';
-import { blockEntity, nightEntity, type BlockRow } from '../repos/nights.ts';
+import { blockEntity, nightEntity, nightIntervalUtc, type BlockRow } from '../repos/nights.ts';
 import {
   asKeptBlock,
   nightStates,
@@ -217,6 +217,12 @@ export async function acceptNightSchedule(
       throw new ConflictError(
         'not_allowed',
         `night ${nightId} has a report: its blocks are a record now, not a plan`,
+      );
+    const { date, timeZone } = preview.schedule;
+    if (Date.parse(nightIntervalUtc(date, timeZone).end) <= Date.parse(preview.at))
+      throw new ConflictError(
+        'not_allowed',
+        `night ${nightId} (${date}) has ended: a schedule plans what is still ahead; record what ran as blocks by hand, each with its outcome and real start and end, then the night's report`,
       );
     for (const b of preview.schedule.blocks) {
       if (Date.parse(b.start.utc) <= Date.parse(preview.at)) {
