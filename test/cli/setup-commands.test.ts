@@ -262,6 +262,21 @@ it('allocates nights by pattern, CSV and iCalendar, previewing first and storing
   expect(await store.nights.list({}, { limit: 5 })).toMatchObject({ total: 0 });
   expect(await run('allocate', ...pattern, '--accept', ...remote)).toMatch(/stored 13 nights/);
   expect(await run('allocate', ...pattern, ...db)).toMatch(/^0 new nights, 13 already allocated/);
+  const stepped = [
+    '--campaign-id',
+    '1',
+    '--site-id',
+    '1',
+    '--start',
+    '2026-11-01',
+    '--end',
+    '2026-11-10',
+  ];
+  // One night per P3D from 1 November: the 1st, 4th, 7th and 10th (constructed case).
+  expect(await run('allocate', ...stepped, '--step', 'P3D', ...db)).toMatch(/^4 new nights/);
+  expect(await refused(run('allocate', ...stepped, '--step', 'PT36H', ...db))).toBeInstanceOf(
+    InputError,
+  );
   const csv = join(dir, 'nights.csv');
   writeFileSync(
     csv,
