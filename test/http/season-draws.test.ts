@@ -107,6 +107,17 @@ describe('weather-aware season plans and draws (demo campaign)', () => {
     const da = (await a.json()) as Draws;
     expect(await b.json()).toEqual(da); // constructed case: same seed, same draws, on any thread
     expect(da.draws.draws).toBe(200);
+    // Only the headline star's orbit has the relativistic terms on (the demo's scenario): the
+    // others have no factor to draw.
+    const factorsOf = (name: string) =>
+      (
+        da.draws.targets.find((t) => t.target === name) as unknown as {
+          factors: { sigma: unknown }[];
+        }
+      ).factors.map((f) => f.sigma !== null);
+    expect(factorsOf('Ilex')).toEqual([true, true]);
+    for (const other of ['Morrow', 'Quill', 'Sorrel'])
+      expect(factorsOf(other)).toEqual([false, false]);
     const withPassage = da.draws.targets.filter((t) => t.periapsisSigmaDays);
     expect(withPassage.length).toBeGreaterThan(0);
     for (const t of withPassage) {

@@ -20,7 +20,13 @@ const FACTOR: Record<string, string> = {
 /** A factor (about 1 under general relativity) with a σ beyond this is not measured at all. */
 const UNDETERMINED = 100;
 const num = (x: number) =>
-  Math.abs(x) >= 100 ? x.toFixed(0) : Math.abs(x) >= 1 ? x.toFixed(2) : x.toPrecision(2);
+  Math.abs(x) >= 100
+    ? x.toFixed(0)
+    : Math.abs(x) >= 10
+      ? x.toFixed(1)
+      : Math.abs(x) >= 1
+        ? x.toFixed(2)
+        : x.toPrecision(2);
 
 /** One band on a linear scale from 0 to the 95th percentile (or 1 for shares). */
 function Band({

@@ -35,6 +35,12 @@ import { addInformation, informationModel, jacobians, posteriorCovariance } from
 import { coverageProbability, passagesIn, quadratic } from './passage.ts';
 import type { SeasonPlan, SeasonSite, SeasonTarget } from './season-types.ts';
 
+/** The term each relativity factor scales (the redshift factor scales transverse Doppler with it). */
+const FACTOR_TERM = {
+  redshiftFactor: 'gravitationalRedshift',
+  precessionFactor: 'precession',
+} as const satisfies Record<RelativityFactorName, string>;
+
 /** Percentiles every distribution reports. */
 export const DRAW_PERCENTILES = [5, 16, 50, 84, 95] as const;
 
@@ -240,7 +246,9 @@ export function seasonMonteCarlo(
       e.info = info;
     });
     let factors: { n: number; now: Float64Array; which: number[] } | null = null;
-    if (orbit.distancePc !== null && t.measurements) {
+    // A factor scales a term the orbit has on; an orbit without relativity terms has none to draw.
+    const termsOn = orbit.relativity.gravitationalRedshift || orbit.relativity.precession;
+    if (orbit.distancePc !== null && t.measurements && termsOn) {
       const planned = mine.map((e, k) =>
         plannedMeasurement({ jd: epochs[k]!.jd, kind: e.kind, sigma: e.sigma }, DEFAULT_PRECISION),
       );
@@ -321,7 +329,10 @@ export function seasonMonteCarlo(
         massFraction: pt.model?.lnMassGradient ? distribution(acc.mass, keep) : null,
         factors: FORECAST_FACTORS.map((name, q) => ({
           name,
-          sigma: pt.factors ? distribution(acc.factors[q]!, keep) : null,
+          sigma:
+            pt.factors && pt.t.target.orbit?.relativity[FACTOR_TERM[name]]
+              ? distribution(acc.factors[q]!, keep)
+              : null,
         })),
         coverage: pt.passage
           ? { withinDays: o.within, distribution: distribution(acc.coverage, keep)! }
