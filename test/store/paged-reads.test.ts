@@ -8,9 +8,12 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { databaseOf } from '../../server/store/testing.ts';
+import { createApp } from '../../server/http/app.ts';
+import { measurementsCsv } from '../../server/store/exports/measurements.ts';
 import { PAGE_ROWS } from '../../server/store/yield.ts';
 
-const PER_TARGET = Math.ceil(PAGE_ROWS * 1.3);
+// Over several read pages, and over one export part (CSV_ROWS_PER_JOB, 5,000 rows) in all.
+const PER_TARGET = Math.max(Math.ceil(PAGE_ROWS * 1.3), 1800);
 let store: Store;
 let ids: Record<string, number>;
 
@@ -51,6 +54,18 @@ describe('reads in pages', () => {
       const jds = rows.filter((r) => r.target === name).map((r) => r.epochJd);
       expect(jds).toEqual([...jds].sort((a, b) => a - b));
     }
+  });
+
+  it('export over HTTP in parts that join to the one file', async () => {
+    const { secret } = await store.users.createWithToken(LOCAL_OPERATOR, {
+      name: 'page viewer',
+      role: 'viewer',
+    });
+    const res = await createApp({ store }).request('/api/exports/measurements', {
+      headers: { authorization: `Bearer ${secret}` },
+    });
+    expect(res.status).toBe(200);
+    expect(await res.text()).toBe(measurementsCsv(await store.exports.measurements({})));
   });
 
   it('give a stored fit every measurement of its target in epoch order', async () => {

@@ -11,6 +11,9 @@ import { HttpError } from '../errors.ts';
 import { IdParam, errorResponses, json, optionalId, resourceApp, security } from './common.ts';
 import { MeasurementFilters } from './measurements.ts';
 
+/** Rows of a measurements export written per job. */
+const CSV_ROWS_PER_JOB = 5000;
+
 const Report = z.object({
   kind: z.enum(CSV_KINDS),
   dryRun: z.boolean(),
@@ -145,7 +148,12 @@ function addMeasurementsExport(app: ResourceApp, store: Store, run: Runner): voi
       const { format, ...filters } = c.req.valid('query');
       const rows = await store.exports.measurements(filters as z.output<typeof MeasurementFilters>);
       if (format === 'json') return c.json({ measurements: rows }, 200);
-      return c.body(await run('measurementsCsv', rows), 200, {
+      // Written on a worker a part at a time: handing it 100,000 rows in one message held the
+      // server's thread for a quarter of a second (the rows are copied on the way).
+      const parts: string[] = [];
+      for (let i = 0; i === 0 || i < rows.length; i += CSV_ROWS_PER_JOB)
+        parts.push(await run('measurementsCsv', rows.slice(i, i + CSV_ROWS_PER_JOB), i === 0));
+      return c.body(parts.join(''), 200, {
         'content-type': 'text/csv; charset=utf-8',
         'content-disposition': 'attachment; filename="measurements.csv"',
       });

@@ -57,8 +57,9 @@ function byteOrderRanks(names: string[]): Map<string, number> {
 /**
  * RFC 4180 CSV with the header of MEASUREMENT_COLUMNS; numbers as stored (full precision), text
  * cells safe to open in a spreadsheet (csv/cells.ts; the import reads them back unchanged).
+ * `withHeader: false` gives the lines alone, to follow an earlier part of the same file.
  */
-export function measurementsCsv(rows: readonly ExportedMeasurement[]): string {
+export function measurementsCsv(rows: readonly ExportedMeasurement[], withHeader = true): string {
   const cells = rows.map((r) =>
     MEASUREMENT_COLUMNS.map((c) => {
       const v = (r as Record<string, unknown>)[c];
@@ -66,5 +67,5 @@ export function measurementsCsv(rows: readonly ExportedMeasurement[]): string {
       return NUMERIC.has(c) ? String(v) : escapeFormulaCell(String(v));
     }),
   );
-  return stringify([[...MEASUREMENT_COLUMNS], ...cells]);
+  return stringify(withHeader ? [[...MEASUREMENT_COLUMNS], ...cells] : cells);
 }
