@@ -290,7 +290,7 @@ export function SiteView({ id }: { id: number }) {
                 </td>
                 <td>
                   {m.loss.prior === 'user'
-                    ? `clear ${pct(data.priors[m.month - 1]?.clearFraction)}, worth ${data.priors[m.month - 1]?.strengthNights} n`
+                    ? `clear ${pct(data.priors[m.month - 1]?.clearFraction)}, worth ${data.priors[m.month - 1]?.strengthNights} nights`
                     : 'flat'}
                 </td>
                 <td>
