@@ -150,30 +150,6 @@ export function uncertainties(model: InformationModel, added: Float64Array | nul
   return { periapsisDays: t < 0 ? null : Math.sqrt(Math.max(0, cov.get(t, t))), massFraction };
 }
 
-/**
- * How much one more measurement would tighten the orbit, given what is already planned: the sum of
- * the fractional variance reductions of T and of the mass (0 … 2; larger is better).
- */
-export function gain(
-  model: InformationModel,
-  planned: Float64Array,
-  jac: Float64Array,
-  kind: BlockKind,
-  precision: Precision,
-  before: Uncertainties,
-): number {
-  const n = model.parameters.length;
-  const trial = Float64Array.from(planned);
-  addInformation(trial, jac, n, kind, precision);
-  const after = uncertainties(model, trial);
-  let g = 0;
-  if (before.periapsisDays && after.periapsisDays !== null)
-    g += 1 - (after.periapsisDays / before.periapsisDays) ** 2;
-  if (before.massFraction && after.massFraction !== null)
-    g += 1 - (after.massFraction / before.massFraction) ** 2;
-  return g;
-}
-
 /** Covariance after adding information (n×n, row-major). */
 export function posteriorCovariance(
   model: InformationModel,

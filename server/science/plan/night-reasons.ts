@@ -4,7 +4,6 @@
  * same words. The limit named is the one that actually closed that night (`closingLimit`), not a
  * majority over a window.
  */
-import { DEG } from '../constants.ts';
 import type { Limits } from '../sky/limits.ts';
 import { altitudeForAirmass } from '../sky/airmass.ts';
 import type { NightGrid, ReasonCode, TargetGrid } from './grid.ts';
@@ -142,11 +141,6 @@ export function closingLimit(
     return { reason: 'sun-distance', sunDistanceDeg: tg.sunSeparationDeg };
   if (upLimit === 'horizon-mask') return { reason: 'horizon-mask' };
   return { reason: airmassBinds(c, grid) ? 'airmass' : 'altitude' };
-}
-
-/** Unit vectors' dot product to an angle in degrees. */
-export function angleDeg(dot: number): number {
-  return Math.acos(Math.max(-1, Math.min(1, dot))) / DEG;
 }
 
 /** The detail for one edge's broken limit (grid.ts REASON_CODES), for a block placed by hand there. */

@@ -39,7 +39,7 @@ import {
   type Record_,
 } from './read.ts';
 
-export { ImportRejected, type ImportProblem, type ImportReport } from './read.ts';
+export { ImportRejected, type ImportReport } from './read.ts';
 
 export interface ImportOptions {
   dryRun?: boolean;
