@@ -53,8 +53,38 @@ const Audit = z
   .strict()
   .openapi('AuditEntry');
 
+const Listing = z
+  .object({
+    id: z.number().int(),
+    userName: z.string(),
+    role: UserInput.shape.role,
+    label: z.string(),
+    createdAt: z.string(),
+    revokedAt: z.string().nullable(),
+    feedCampaignId: z.number().int().nullable().openapi({
+      description: 'a feed token’s campaign (it opens only that feed); null otherwise',
+    }),
+  })
+  .strict()
+  .openapi('TokenListing');
+const AuditQuery = PageQuery.extend({ entity: z.string().optional(), entityId: optionalId });
+
 export function userRoutes(store: Store) {
   const app = resourceApp();
+  addMe(app);
+  addUserList(app, store);
+  addUserCreate(app, store);
+  addTokenList(app, store);
+  addTokenIssue(app, store);
+  addTokenRevoke(app, store);
+  addAuditList(app, store);
+  return app;
+}
+
+type ResourceApp = ReturnType<typeof resourceApp>;
+
+/** Who the token belongs to. */
+function addMe(app: ResourceApp): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -66,6 +96,10 @@ export function userRoutes(store: Store) {
     }),
     async (c) => c.json(requireRole(c, 'viewer'), 200),
   );
+}
+
+/** The users, one page at a time (lead). */
+function addUserList(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -81,6 +115,10 @@ export function userRoutes(store: Store) {
       return c.json(await store.users.list(c.req.valid('query')), 200);
     },
   );
+}
+
+/** A new user with its first token, shown once (lead). */
+function addUserCreate(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -102,20 +140,10 @@ export function userRoutes(store: Store) {
       return c.json({ user, tokenId, token: secret }, 201);
     },
   );
-  const Listing = z
-    .object({
-      id: z.number().int(),
-      userName: z.string(),
-      role: UserInput.shape.role,
-      label: z.string(),
-      createdAt: z.string(),
-      revokedAt: z.string().nullable(),
-      feedCampaignId: z.number().int().nullable().openapi({
-        description: 'a feed token’s campaign (it opens only that feed); null otherwise',
-      }),
-    })
-    .strict()
-    .openapi('TokenListing');
+}
+
+/** Every token (or one user's), never the hash (lead). */
+function addTokenList(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -139,6 +167,10 @@ export function userRoutes(store: Store) {
       return c.json({ tokens: await store.users.listTokens(c.req.valid('query').userName) }, 200);
     },
   );
+}
+
+/** A further token for a user, shown once (lead). */
+function addTokenIssue(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'post',
@@ -174,6 +206,10 @@ export function userRoutes(store: Store) {
       return c.json({ user, tokenId, token: secret }, 201);
     },
   );
+}
+
+/** Revoke a token (lead). */
+function addTokenRevoke(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'delete',
@@ -190,7 +226,10 @@ export function userRoutes(store: Store) {
       return c.body(null, 204);
     },
   );
-  const AuditQuery = PageQuery.extend({ entity: z.string().optional(), entityId: optionalId });
+}
+
+/** The audit trail, newest first (lead). */
+function addAuditList(app: ResourceApp, store: Store): void {
   app.openapi(
     createRoute({
       method: 'get',
@@ -207,5 +246,4 @@ export function userRoutes(store: Store) {
       return c.json(await store.audit.list({ entity, entityId }, page), 200);
     },
   );
-  return app;
 }
