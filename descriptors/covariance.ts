@@ -38,7 +38,10 @@ const TERM_ORDER: readonly UncertainTerm[] = [...COVARIANCE_TERMS, ...THIELE_INN
 
 /** The CSV column of a parameter's 1σ: `sigmaPeriodYears`, `sigmaPeriapsisDays`, … */
 export const sigmaColumn = (p: UncertainTerm) => `sigma${p[0]!.toUpperCase()}${p.slice(1)}`;
-export const SIGMA_COLUMNS = COVARIANCE_TERMS.map((t) => sigmaColumn(t.parameter));
+/** Every σ column of the orbit CSV layout: the stored parameters', then A, B, F, G's (Thiele–Innes rows). */
+export const SIGMA_COLUMNS = [...COVARIANCE_TERMS, ...THIELE_INNES_TERMS].map((t) =>
+  sigmaColumn(t.parameter),
+);
 /** The CSV column of the correlations: `periodYears/periapsisDays=0.42; eccentricity/periapsisDays=-0.1`. */
 export const CORRELATIONS_COLUMN = 'correlations';
 
@@ -112,7 +115,7 @@ export function sigmasOf(cov: { parameters: readonly string[]; matrix: readonly 
 
 /** Read a correlations cell: `a/b=ρ` pairs separated by ";" (the rule of a bad pair, or the list). */
 export function parseCorrelations(text: string): Correlation[] | { value: string; rule: string } {
-  const names = new Set<string>(COVARIANCE_TERMS.map((t) => t.parameter));
+  const names = new Set<string>(TERM_ORDER);
   const out: Correlation[] = [];
   for (const part of text
     .split(';')
@@ -126,7 +129,7 @@ export function parseCorrelations(text: string): Correlation[] | { value: string
           'must be pairs such as "eccentricity/periapsisDays=0.35" separated by ";", with ' +
           'names of the σ columns’ parameters',
       };
-    out.push({ a: m[1] as CovarianceTerm, b: m[2] as CovarianceTerm, rho: Number(m[3]) });
+    out.push({ a: m[1] as UncertainTerm, b: m[2] as UncertainTerm, rho: Number(m[3]) });
   }
   return out;
 }

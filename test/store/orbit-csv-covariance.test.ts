@@ -10,6 +10,7 @@ import {
   sigmasOf,
   type CovarianceTerm,
 } from '../../descriptors/covariance.ts';
+import { thieleInnesJacobian, thieleInnesToCampbell } from '../../server/science/orbit/index.ts';
 import { COVARIANCE_PARAMETERS } from '../../server/science/orbit/types.ts';
 import { COLUMNS, LOCAL_OPERATOR, orbitsCsv } from '../../server/store/index.ts';
 import { BACKENDS, ORBIT_WREN, fixture } from './backends.ts';
@@ -75,6 +76,46 @@ describe('orbit CSV with covariance columns', () => {
         })
         .catch((e: { report?: unknown }) => e.report ?? e);
       expect(JSON.stringify(worse)).toMatch(/correlations/);
+    } finally {
+      env.cleanup();
+    }
+  });
+
+  it('a Thiele–Innes row takes σ of A, B, F, G, stored carried to a, i, Ω, ω', async () => {
+    const env = await BACKENDS[1]!.open();
+    try {
+      await fixture(env.store);
+      // Constructed case: a visual binary's constants with σ as published, A and F correlated.
+      const csv =
+        'system,target,kind,periodYears,periapsis,eccentricity,aArcsec,bArcsec,fArcsec,gArcsec,sigmaPeriodYears,sigmaAArcsec,sigmaBArcsec,sigmaFArcsec,sigmaGArcsec,correlations\n' +
+        'Test Deep,Wren,thiele-innes,9.5,2028-02-01T00:00:00Z,0.6,0.05,-0.02,0.03,0.04,0.05,0.002,0.002,0.003,0.0025,aArcsec/fArcsec=-0.3\n';
+      const report = await env.store.importCsv(LOCAL_OPERATOR, 'orbits', csv);
+      expect(report.problems).toEqual([]);
+      const stored = (await env.store.orbitSolutions.list({}, { limit: 50 })).items.find(
+        (x) => x.provenance === 'imported',
+      )!;
+      const ti = { A: 0.05, B: -0.02, F: 0.03, G: 0.04 };
+      const J = thieleInnesJacobian({ ti, campbell: thieleInnesToCampbell(ti) });
+      const sigma = [0.002, 0.002, 0.003, 0.0025];
+      const rho = (i: number, j: number) =>
+        i === j ? 1 : (i === 0 && j === 2) || (i === 2 && j === 0) ? -0.3 : 0;
+      const C = sigma.map((si, i) => sigma.map((sj, j) => rho(i, j) * si * sj));
+      const cov = stored.orbit.covariance!;
+      expect(cov.parameters).toEqual([
+        'periodYears',
+        'semiMajorAxisArcsec',
+        'inclinationDeg',
+        'ascendingNodeDeg',
+        'argPeriapsisDeg',
+      ]);
+      expect(cov.matrix[0]![0]).toBeCloseTo(0.0025, 15);
+      for (let r = 0; r < 4; r++)
+        for (let c = 0; c < 4; c++) {
+          let x = 0;
+          for (let a = 0; a < 4; a++)
+            for (let b = 0; b < 4; b++) x += J[r]![a]! * C[a]![b]! * J[c]![b]!;
+          expect(cov.matrix[1 + r]![1 + c]).toBeCloseTo(x, 12);
+        }
     } finally {
       env.cleanup();
     }

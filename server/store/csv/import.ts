@@ -11,10 +11,11 @@ import { systems, targets } from '../../../db/schema.ts';
 import {
   CORRELATIONS_COLUMN,
   COVARIANCE_TERMS,
+  THIELE_INNES_TERMS,
   covarianceOf,
   parseCorrelations,
   sigmaColumn,
-  type CovarianceTerm,
+  type UncertainTerm,
 } from '../../../descriptors/covariance.ts';
 import { InputError } from '../../science/errors.ts';
 import { recordAudit, type Actor } from '../audit.ts';
@@ -160,11 +161,11 @@ async function toInput(
 /** The σ columns and the correlations cell of an orbit row as a covariance, or none when no σ is given. */
 function covarianceCells(v: Record<string, unknown>) {
   const sigmas = Object.fromEntries(
-    COVARIANCE_TERMS.flatMap((t) => {
+    [...COVARIANCE_TERMS, ...THIELE_INNES_TERMS].flatMap((t) => {
       const x = v[sigmaColumn(t.parameter)];
       return x === undefined ? [] : [[t.parameter, x]];
     }),
-  ) as Partial<Record<CovarianceTerm, number>>;
+  ) as Partial<Record<UncertainTerm, number>>;
   const text = v[CORRELATIONS_COLUMN];
   const correlations = typeof text === 'string' ? parseCorrelations(text) : [];
   if (!Array.isArray(correlations))
