@@ -29,6 +29,7 @@ it('exports exactly the store entry points', () => {
     'OrbitSolutionInput',
     'REQUIRED_COLUMNS',
     'RESIDUAL_CSV_COLUMNS',
+    'SITE_TOTAL',
     'SiteFields',
     'SystemFields',
     'TargetFields',
@@ -49,6 +50,7 @@ it('exports exactly the store entry points', () => {
     'resolveDatabaseUrl',
     'skyOfRows',
     'startStore',
+    'timeRequestCsv',
     'tokenActor',
   ]); // server/store/index.ts as designed
 });
