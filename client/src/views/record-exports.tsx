@@ -23,6 +23,12 @@ export function RecordExports({ cat }: { cat: Catalogue }) {
   const [campaign, choose] = useChosenCampaign(cat.campaigns);
   const { busy, error, run } = useAction();
   const target = cat.targets.find((t) => String(t.id) === targetId);
+  /** A button that saves one export under `name`. */
+  const save = (label: string, fetch: () => Promise<void>) => (
+    <button type="button" disabled={busy} onClick={() => run(fetch)}>
+      {label}
+    </button>
+  );
   return (
     <div class="record-exports">
       <div class="toolbar">
@@ -41,61 +47,32 @@ export function RecordExports({ cat }: { cat: Catalogue }) {
             ))}
           </select>
         </label>
-        <button
-          type="button"
-          disabled={busy}
-          onClick={() =>
-            run(() =>
-              downloadFile(
-                '/exports/measurements',
-                { params: { query: target ? { targetId: target.id } : {} } },
-                `${target ? slug(target.name) : 'all'}-measurements.csv`,
-              ),
-            )
-          }
-        >
-          Download measurements (CSV)
-        </button>
+        {save('Download measurements (CSV)', () =>
+          downloadFile(
+            '/exports/measurements',
+            { params: { query: target ? { targetId: target.id } : {} } },
+            `${target ? slug(target.name) : 'all'}-measurements.csv`,
+          ),
+        )}
       </div>
       {campaign && (
         <div class="toolbar">
           <CampaignChoice campaigns={cat.campaigns} value={campaign.id} onChoose={choose} />
-          <button
-            type="button"
-            disabled={busy}
-            onClick={() =>
-              run(() =>
-                downloadFile(
-                  '/campaigns/{id}/calendar.ics',
-                  { params: { path: { id: campaign.id } } },
-                  `${slug(campaign.name)}.ics`,
-                  'text/calendar',
-                ),
-              )
-            }
-          >
-            Download its calendar (iCalendar)
-          </button>
+          {save('Download its calendar (iCalendar)', () =>
+            downloadFile(
+              '/campaigns/{id}/calendar.ics',
+              { params: { path: { id: campaign.id } } },
+              `${slug(campaign.name)}.ics`,
+              'text/calendar',
+            ),
+          )}
         </div>
       )}
       {lead ? (
         <div class="toolbar">
-          <button
-            type="button"
-            disabled={busy}
-            onClick={() =>
-              run(() =>
-                downloadFile(
-                  '/exports/archive',
-                  {},
-                  'epochwright-archive.json',
-                  'application/json',
-                ),
-              )
-            }
-          >
-            Download the archive of every record (JSON)
-          </button>
+          {save('Download the archive of every record (JSON)', () =>
+            downloadFile('/exports/archive', {}, 'epochwright-archive.json', 'application/json'),
+          )}
           <span class="muted">
             Systems, targets, solutions with covariance and provenance, sites, campaigns, nights,
             blocks, reports, measurements, users and the audit trail (no tokens); restore it into an
