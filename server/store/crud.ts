@@ -70,9 +70,33 @@ export async function list<T>(
   return { items, total: n, limit, offset };
 }
 
+/**
+ * Rows that one long write transaction reads again and again, kept instead of queried each time:
+ * the demo load looks up the same targets, sites and campaigns for each of its blocks and
+ * measurements. Only in a transaction that asks for it (`rememberRows`), only for the tables it
+ * names, and only for tables that nothing writes past updateIn/removeIn, which forget the row.
+ */
+const remembered = new WeakMap<object, Map<Table, Map<number, unknown>>>();
+
+export function rememberRows(tx: DbOrTx, tables: Table[]): void {
+  remembered.set(tx, new Map(tables.map((t) => [t, new Map()])));
+}
+
+/** The stored row of `table` with this id, from the transaction's kept rows where it keeps them. */
+export async function rowById<T>(db: DbOrTx, table: Table, id: number): Promise<T | null> {
+  const kept = remembered.get(db)?.get(table);
+  if (kept?.has(id)) return kept.get(id) as T;
+  const row = ((await q(db).select().from(table).where(eq(table.id, id)).limit(1)) as T[])[0];
+  if (row && kept) kept.set(id, row);
+  return row ?? null;
+}
+
+function forget(db: DbOrTx, table: Table, id: number): void {
+  remembered.get(db)?.get(table)?.delete(id);
+}
+
 export async function findById<T>(db: DbOrTx, e: Entity<T>, id: number): Promise<T | null> {
-  const rows = (await q(db).select().from(e.table).where(eq(e.table.id, id)).limit(1)) as T[];
-  return rows[0] ?? null;
+  return rowById<T>(db, e.table, id);
 }
 
 export async function getById<T>(db: DbOrTx, e: Entity<T>, id: number): Promise<T> {
@@ -141,6 +165,7 @@ export async function updateIn<T>(
       and(eq(e.table.id, id), eq((e.table as any).version, prev.version))
     : eq(e.table.id, id);
   let rows: T[];
+  forget(tx, e.table, id);
   try {
     rows = (await q(tx).update(e.table).set(set).where(where).returning()) as T[];
   } catch (err) {
@@ -164,6 +189,7 @@ export async function removeIn<T>(
   id: number,
 ): Promise<void> {
   const previous = await getById(tx, e, id);
+  forget(tx, e.table, id);
   try {
     await q(tx).delete(e.table).where(eq(e.table.id, id));
   } catch (err) {

@@ -40,6 +40,8 @@ import {
   type DemoAnchor,
 } from './scenario.ts';
 import { asOf, nowIso } from '../../clock.ts';
+import * as schema from '../../../db/schema.ts';
+import { rememberRows } from '../crud.ts';
 
 /**
  * Seed of the targets' measurement errors. Chosen among a few so that the headline star's fitted
@@ -140,6 +142,14 @@ export async function loadDemo(
   // Written as of its own moment: the store's rules (nights over, measurements made) read that clock.
   await asOf(Date.parse(now), () =>
     store.db.transaction(async (tx) => {
+      // Each block and measurement looks up the same few catalogue rows: read each once.
+      rememberRows(tx, [
+        schema.systems,
+        schema.targets,
+        schema.sites,
+        schema.campaigns,
+        schema.nights,
+      ]);
       const { stars, lanternB, brindleB } = await demoCatalogue(store, tx, actor, anchor);
       const sites = await demoSites(store, tx, actor);
       const campaigns = await demoCampaigns(store, tx, actor, anchor, stars, lanternB, sites);

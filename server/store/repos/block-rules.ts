@@ -24,6 +24,7 @@ import {
 import { InputError } from '../../science/errors.ts';
 import { nowMs } from '../../clock.ts';
 import type { DbOrTx } from '../database.ts';
+import { rowById } from '../crud.ts';
 import { ConflictError } from '../errors.ts';
 import { checkMeasurementBlock, type BlockRef } from './measurement-rules.ts';
 import { isoSecond, nightTimes, type NightTimes, type SitePlace } from './night-times.ts';
@@ -55,12 +56,11 @@ export async function nightPlace(
   override: { site?: SitePlace & { id: number }; campaign?: CampaignRow | null } = {},
 ): Promise<NightPlace> {
   const site =
-    override.site ?? (await tx.select().from(sites).where(eq(sites.id, night.siteId)))[0]!;
+    override.site ?? (await rowById<typeof sites.$inferSelect>(tx, sites, night.siteId))!;
   let campaign: CampaignRow | null = null;
   if (override.campaign !== undefined) campaign = override.campaign;
   else if (night.campaignId !== null)
-    campaign =
-      (await tx.select().from(campaigns).where(eq(campaigns.id, night.campaignId)))[0] ?? null;
+    campaign = await rowById<CampaignRow>(tx, campaigns, night.campaignId);
   return { night, site, campaign };
 }
 
