@@ -21,16 +21,20 @@ interface Draws {
 }
 
 describe('season draws in the season view', () => {
-  test('a weather-aware plan drawn 200 times shows the API’s percentiles', async () => {
+  test('a weather-aware plan drawn 200 times shows the API’s percentiles', {
+    timeout: 300_000,
+  }, async () => {
     const { page, errors } = await open('/season');
     await page.locator('#season-plan select[name="weather"]').selectOption('aware');
     await page.getByRole('button', { name: 'Propose a season plan' }).click();
-    await page.locator('.season-draws form').waitFor();
+    await page.locator('.season-draws form').waitFor({ timeout: 150_000 });
     const startDate = await page.locator('#season-plan input[name="startDate"]').inputValue();
     const endDate = await page.locator('#season-plan input[name="endDate"]').inputValue();
     await page.locator('.season-draws input[name="draws"]').fill('200');
     await page.getByRole('button', { name: 'Draw this season under the learned weather' }).click();
-    await page.locator('.draws-table tbody[data-target]').first().waitFor();
+    // A weather-aware plan, then 200 draws on a job-pool thread: minutes on a crowded machine,
+    // within the pool's 120 s job limit each.
+    await page.locator('.draws-table tbody[data-target]').first().waitFor({ timeout: 150_000 });
     const campaign = (await api<{ items: { id: number }[] }>('/campaigns?limit=500')).items[0]!;
     const answer = await api<Draws>(`/campaigns/${campaign.id}/season-plan/draws`, {
       method: 'POST',

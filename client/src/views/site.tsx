@@ -349,13 +349,17 @@ export function SiteView({ id }: { id: number }) {
                       .map(
                         (b) => `${b.low}–${b.high ?? ''}″: ${b.medianSigma?.toFixed(2)} (${b.n})`,
                       )
-                      .join('; ')}
+                      .join('; ') || (
+                      <Blank why="no night report of these measurements gives the seeing" />
+                    )}
                   </td>
                   <td>
                     {p.byAirmass
                       .filter((b) => b.n > 0)
                       .map((b) => `${b.low}–${b.high ?? ''}: ${b.medianSigma?.toFixed(2)} (${b.n})`)
-                      .join('; ')}
+                      .join('; ') || (
+                      <Blank why="their target was below the horizon at every one of these measurements" />
+                    )}
                   </td>
                   <td>
                     {p.zenith
