@@ -54,8 +54,19 @@ export const TASKS = {
   /** The season map and its report in one job (the report reads the map). */
   seasonReport: (site: Site, ...rest: Rest<typeof seasonMap>) =>
     seasonReport(reviveSite(site), seasonMap(reviveSite(site), ...rest), rest[2] as SeasonArgs[3]),
-  /** Draws of a planned season (the sites are read for their names and night weights only). */
-  seasonMonteCarlo,
+  /** Draws of a planned season; kept blocks are placed on the sky, so the sites need their observers. */
+  seasonMonteCarlo: (
+    plan: Parameters<typeof seasonMonteCarlo>[0],
+    sites: Parameters<typeof seasonMonteCarlo>[1],
+    targets: Parameters<typeof seasonMonteCarlo>[2],
+    options: Parameters<typeof seasonMonteCarlo>[3],
+  ) =>
+    seasonMonteCarlo(
+      plan,
+      sites.map((s) => ({ ...s, site: reviveSite(s.site) })),
+      targets,
+      options,
+    ),
   ephemeris,
   /** An ephemeris written as CSV where it is computed (large tables never block the server). */
   ephemerisCsv: (...args: Parameters<typeof ephemeris>) => ephemerisCsv(ephemeris(...args)),

@@ -27,14 +27,19 @@ describe('season draws in the season view', () => {
     const { page, errors } = await open('/season');
     await page.locator('#season-plan select[name="weather"]').selectOption('aware');
     await page.getByRole('button', { name: 'Propose a season plan' }).click();
-    await page.locator('.season-draws form').waitFor({ timeout: 150_000 });
+    const proposed = page.locator('.season-draws form, #season-plan .error-line');
+    await proposed.first().waitFor({ timeout: 150_000 });
+    expect(await page.locator('#season-plan .error-line').allInnerTexts()).toEqual([]);
     const startDate = await page.locator('#season-plan input[name="startDate"]').inputValue();
     const endDate = await page.locator('#season-plan input[name="endDate"]').inputValue();
     await page.locator('.season-draws input[name="draws"]').fill('200');
     await page.getByRole('button', { name: 'Draw this season under the learned weather' }).click();
     // A weather-aware plan, then 200 draws on a job-pool thread: minutes on a crowded machine,
     // within the pool's 120 s job limit each.
-    await page.locator('.draws-table tbody[data-target]').first().waitFor({ timeout: 150_000 });
+    const shown = page.locator('.draws-table tbody[data-target], .season-draws .error-line');
+    await shown.first().waitFor({ timeout: 150_000 });
+    // A refusal fails here with its words, not as a wait that runs out.
+    expect(await page.locator('.season-draws .error-line').allInnerTexts()).toEqual([]);
     const campaign = (await api<{ items: { id: number }[] }>('/campaigns?limit=500')).items[0]!;
     const answer = await api<Draws>(`/campaigns/${campaign.id}/season-plan/draws`, {
       method: 'POST',
