@@ -19,7 +19,7 @@ function usage(): string {
 }
 
 /**
- * `--dec -28:51:06` as `--dec=-28:51:06`: an option's value that starts with a minus and a digit
+ * `--dec -21:42:58` as `--dec=-21:42:58`: an option's value that starts with a minus and a digit
  * (a southern declination, a western longitude, a negative proper motion) is that option's value,
  * not an unknown option (node's reader would refuse it as ambiguous).
  */

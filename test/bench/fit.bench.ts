@@ -24,8 +24,8 @@ import { SeededRandom } from '../../server/science/random.ts';
 import { epochs, simulate } from '../science/orbit/fit/simulate.ts';
 import { benchLine, bestOfPair, isMain } from './timing.ts';
 
-const MASS = 4.3e6,
-  DISTANCE = 8200,
+const MASS = 2e7,
+  DISTANCE = 15_000,
   J2012 = 2455927.5;
 
 function star(

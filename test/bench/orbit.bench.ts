@@ -58,7 +58,7 @@ export async function run(): Promise<string[]> {
       'ephemeris',
       validateOrbit({
         elements,
-        distancePc: 8150,
+        distancePc: 15_000,
         relativity: { gravitationalRedshift: true, transverseDoppler: true, precession: true },
       }),
     ],
@@ -66,7 +66,7 @@ export async function run(): Promise<string[]> {
       'ephemeris-light-time',
       validateOrbit({
         elements,
-        distancePc: 8150,
+        distancePc: 15_000,
         relativity: {
           romer: true,
           gravitationalRedshift: true,

@@ -57,8 +57,8 @@ afterAll(async () => {
 
 it('reads a negative value after its option as that option’s value', () => {
   expect(
-    joinNegativeValues(['--dec', '-28:51:06', '--accept', '--pm-ra', '−1.5', '--x', 'y']),
-  ).toEqual(['--dec=-28:51:06', '--accept', '--pm-ra=−1.5', '--x', 'y']);
+    joinNegativeValues(['--dec', '-21:42:58', '--accept', '--pm-ra', '−1.5', '--x', 'y']),
+  ).toEqual(['--dec=-21:42:58', '--accept', '--pm-ra=−1.5', '--x', 'y']);
 });
 
 it('stores a system, its targets, sites and a campaign; refuses bad values by option, writing nothing', async () => {
@@ -69,16 +69,16 @@ it('stores a system, its targets, sites and a campaign; refuses bad values by op
     '--name',
     'Hollow Lamp',
     '--ra',
-    '17:20:31.4',
+    '17:35:22.1',
     '--dec',
-    '-28:51:06',
+    '-21:42:58',
     '--distance-pc',
-    '8100',
+    '15000',
     ...db,
   );
   expect(system).toMatch(/stored system 1 "Hollow Lamp"/);
-  // 17h20m31.4s = 260.130833° and −28°51′06″ = −28.851667° (sexagesimal arithmetic, common practice, no source)
-  expect(system).toMatch(/260\.130833\s+-28\.851667/);
+  // 17h35m22.1s = 263.842083° and −21°42′58″ = −21.716111° (sexagesimal arithmetic, common practice, no source)
+  expect(system).toMatch(/263\.842083\s+-21\.716111/);
   await run(
     'target',
     'add',

@@ -350,7 +350,7 @@ describe.each(BACKENDS)('text, ids and epochs on $name', (backend) => {
     const night = await f.call('viewer', 'POST', '/api/sky/night', {
       site: { ...site, longitudeDeg: '-68:55:48', timeZone: 'America/Argentina/San_Juan' },
       date: '2027-06-15',
-      targets: [{ name: 'typed', raDeg: '17:45:40', decDeg: '-29:00:28' }],
+      targets: [{ name: 'typed', raDeg: '17:35:22', decDeg: '-21:42:58' }],
     });
     expect(night.status, await night.clone().text()).toBe(200);
   });

@@ -420,7 +420,7 @@ export const systemCommand = recordCommand({
     { header: 'mass_solar', value: num('massSolar') },
   ],
   examples: [
-    "epochwright system add --name 'Hollow Lamp' --ra 17:20:31.4 --dec -28:51:06 --distance-pc 8100 --mass 3.9e6",
+    "epochwright system add --name 'Hollow Lamp' --ra 17:35:22.1 --dec -21:42:58 --distance-pc 15000 --mass 2e7",
   ],
 });
 

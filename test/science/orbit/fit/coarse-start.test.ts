@@ -25,7 +25,7 @@ const truth = {
     ascendingNodeDeg: 70,
     argPeriapsisDeg: 300,
   },
-  distancePc: 7900,
+  distancePc: 14_200,
   systemicVelocityKmS: 3,
 };
 

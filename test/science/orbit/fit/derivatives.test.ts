@@ -70,7 +70,7 @@ function worstRelativeError(request: FitRequest): number {
     fArcsec: 210,
     gArcsec: 90,
     distancePc: 16_050,
-    massSolar: 4.1e6,
+    massSolar: 1.8e7,
     systemicVelocityKmS: 10,
     offsetRaMas: 0.3,
     offsetDecMas: -0.2,
