@@ -9,6 +9,7 @@ import { useState } from 'preact/hooks';
 import { api, fieldMessages, type Schemas } from '../api/client.ts';
 import { Blank, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { fieldWords } from '../lib/field-words.ts';
+import { FileOrPaste } from '../lib/file-or-paste.tsx';
 import { useAction } from '../lib/use-action.ts';
 import { useLoad } from '../lib/use-load.ts';
 
@@ -172,7 +173,6 @@ function PriorCsvForm({ siteId, onSaved }: { siteId: number; onSaved: () => void
   const [text, setText] = useState('');
   const [strength, setStrength] = useState('10');
   const { busy, error, run } = useAction();
-  const readFile = async (f: File | undefined) => f && setText(await f.text());
   return (
     <form
       class="prior-csv-form"
@@ -192,24 +192,14 @@ function PriorCsvForm({ siteId, onSaved }: { siteId: number; onSaved: () => void
         <code>strength_nights</code>), one row per month (1–12) that has a prior; months left out
         have none. It replaces the whole prior.
       </p>
-      <label class="field">
-        <span>file</span>
-        <input
-          type="file"
-          name="prior-file"
-          accept=".csv,text/csv"
-          onChange={(e) => readFile(e.currentTarget.files?.[0])}
-        />
-      </label>
-      <label class="field wide">
-        <span>or paste its text</span>
-        <textarea
-          name="prior-csv"
-          rows={4}
-          value={text}
-          onInput={(e) => setText(e.currentTarget.value)}
-        />
-      </label>
+      <FileOrPaste
+        fileName="prior-file"
+        textName="prior-csv"
+        accept=".csv,text/csv"
+        rows={4}
+        text={text}
+        onText={setText}
+      />
       <label>
         rows without <code>strength_nights</code> are worth (nights){' '}
         <input
