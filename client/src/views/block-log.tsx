@@ -114,6 +114,200 @@ function StatusField(p: {
   );
 }
 
+type Rule = { field: string; rule: string };
+
+/** The server's field messages, with the form's own check (if any) on top. */
+function messagesOf(error: unknown, local: Rule | null): Record<string, string> {
+  return { ...fieldMessages(error), ...(local ? { [local.field]: local.rule } : {}) };
+}
+
+/** The clock, both ends and the status: the fields the add form and the editor share. */
+function BlockTimes(p: {
+  clock: Clock;
+  onClock: (c: Clock) => void;
+  zone: string;
+  ended: boolean;
+  statuses: Status[];
+  v: { start: string; end: string; status: Status };
+  msgs: Record<string, string>;
+  onChange: (change: Partial<{ start: string; end: string; status: Status }>) => void;
+}) {
+  const { ended, v, msgs } = p;
+  return (
+    <>
+      <ClockChoice clock={p.clock} onClock={p.onClock} zone={p.zone} />
+      <TimeField
+        name="start"
+        label={ended ? 'started at' : 'starts at'}
+        value={v.start}
+        msg={msgs.startUtc}
+        onInput={(x) => p.onChange({ start: x })}
+      />
+      <TimeField
+        name="end"
+        label={ended ? 'ended at' : 'ends at'}
+        value={v.end}
+        msg={msgs.endUtc}
+        onInput={(x) => p.onChange({ end: x })}
+      />
+      <StatusField
+        ended={ended}
+        statuses={p.statuses}
+        value={v.status}
+        msg={msgs.status}
+        onChange={(x) => p.onChange({ status: x })}
+      />
+    </>
+  );
+}
+
+function TargetField(p: {
+  targets: Catalogue['targets'];
+  value: string;
+  msg: string | undefined;
+  onChange: (id: string) => void;
+}) {
+  return (
+    <label class={p.msg ? 'field invalid' : 'field'}>
+      <span>target</span>
+      <select name="targetId" value={p.value} onChange={(e) => p.onChange(e.currentTarget.value)}>
+        {p.targets.map((t) => (
+          <option key={t.id} value={t.id}>
+            {t.name}
+          </option>
+        ))}
+      </select>
+      {p.msg && <span class="field-msg">{p.msg}</span>}
+    </label>
+  );
+}
+
+function KindField(p: { value: Kind; onChange: (k: Kind) => void }) {
+  return (
+    <label class="field">
+      <span>kind</span>
+      <select
+        name="kind"
+        value={p.value}
+        onChange={(e) => p.onChange(e.currentTarget.value as Kind)}
+      >
+        {BLOCK_KINDS.map((k) => (
+          <option key={k} value={k}>
+            {k}
+          </option>
+        ))}
+      </select>
+    </label>
+  );
+}
+
+/** The laser checkbox (only at a site with a laser guide star) and the notes. */
+function LaserAndNotes(p: {
+  laserSite: boolean;
+  laser: boolean;
+  notes: string;
+  onLaser: (on: boolean) => void;
+  onNotes: (text: string) => void;
+}) {
+  return (
+    <>
+      {p.laserSite && (
+        <label class="field">
+          <span>laser guide star</span>
+          <input
+            type="checkbox"
+            name="laserGuideStar"
+            checked={p.laser}
+            onChange={(e) => p.onLaser(e.currentTarget.checked)}
+          />
+        </label>
+      )}
+      <label class="field wide">
+        <span>notes</span>
+        <input name="notes" value={p.notes} onInput={(e) => p.onNotes(e.currentTarget.value)} />
+      </label>
+    </>
+  );
+}
+
+/** The add form's button, what it stored, and why nothing was. */
+function AddBlockOutcome(p: {
+  ended: boolean;
+  busy: boolean;
+  hasTargets: boolean;
+  added: string;
+  error: unknown;
+  local: Rule | null;
+  msgs: Record<string, string>;
+}) {
+  const { error } = p;
+  return (
+    <>
+      <div class="toolbar">
+        <button type="submit" class="primary" disabled={p.busy || !p.hasTargets}>
+          {p.ended ? 'Record this block' : 'Add this block'}
+        </button>
+        {p.added && (
+          <span class="save-status" role="status">
+            {p.added}
+          </span>
+        )}
+      </div>
+      {!p.hasTargets && (
+        <p class="muted">No targets to choose: the campaign of this night has none yet.</p>
+      )}
+      {error !== null && !Object.keys(p.msgs).length ? <ErrorLine error={error} /> : null}
+      {(error !== null || p.local) && (
+        <p class="muted">Nothing was stored; correct the marked field and try again.</p>
+      )}
+    </>
+  );
+}
+
+/** The targets a block on this night may be for: its campaign's, or every one if it has none. */
+function targetsOf(cat: Catalogue, night: NightRow): Catalogue['targets'] {
+  const campaign = cat.campaigns.find((c) => c.id === night.campaignId);
+  return campaign ? campaign.targetIds.map((id) => cat.target(id)!).filter(Boolean) : cat.targets;
+}
+
+/** What the add form holds as typed. */
+interface Draft {
+  targetId: string;
+  kind: Kind;
+  start: string;
+  end: string;
+  status: Status;
+  laserGuideStar: boolean;
+  notes: string;
+}
+
+function blankDraft(targets: Catalogue['targets'], statuses: Status[]): Draft {
+  return {
+    targetId: String(targets[0]?.id ?? ''),
+    kind: BLOCK_KINDS[0] as Kind,
+    start: '',
+    end: '',
+    status: statuses[0]!,
+    laserGuideStar: false,
+    notes: '',
+  };
+}
+
+/** Store the drafted block on the night, at the instants its clock times resolved to. */
+function addBlock(night: NightRow, v: Draft, t: { startUtc: string; endUtc: string }) {
+  return api.POST('/blocks', {
+    body: {
+      nightId: night.id,
+      targetId: Number(v.targetId),
+      kind: v.kind,
+      ...t,
+      status: v.status,
+      laserGuideStar: v.laserGuideStar,
+      notes: v.notes,
+    },
+  });
+}
+
 /** Add one block to the night: what ran, once the night has ended; a block by hand, before. */
 export function AddBlockForm({
   night,
@@ -128,27 +322,15 @@ export function AddBlockForm({
   ended: boolean;
   onAdded: () => void;
 }) {
-  const campaign = cat.campaigns.find((c) => c.id === night.campaignId);
-  const targets = campaign
-    ? campaign.targetIds.map((id) => cat.target(id)!).filter(Boolean)
-    : cat.targets;
-  const site = cat.site(night.siteId);
+  const targets = targetsOf(cat, night);
   const statuses = statusesFor(ended);
   const [clock, setClock] = useState<Clock>('site');
-  const [v, setV] = useState({
-    targetId: String(targets[0]?.id ?? ''),
-    kind: BLOCK_KINDS[0] as Kind,
-    start: '',
-    end: '',
-    status: statuses[0]!,
-    laserGuideStar: false,
-    notes: '',
-  });
-  const [local, setLocal] = useState<{ field: string; rule: string } | null>(null);
+  const [v, setV] = useState(() => blankDraft(targets, statuses));
+  const [local, setLocal] = useState<Rule | null>(null);
   const [added, setAdded] = useState('');
   const { busy, error, run } = useAction();
-  const msgs = { ...fieldMessages(error), ...(local ? { [local.field]: local.rule } : {}) };
-  const set = (k: keyof typeof v, x: string | boolean) => setV({ ...v, [k]: x });
+  const msgs = messagesOf(error, local);
+  const change = (c: Partial<Draft>) => setV({ ...v, ...c });
   const submit = (e: Event) => {
     e.preventDefault();
     setLocal(null);
@@ -156,17 +338,7 @@ export function AddBlockForm({
     const t = instants(vis, clock, v.start, v.end);
     if ('rule' in t) return setLocal(t);
     return run(async () => {
-      const row = await api.POST('/blocks', {
-        body: {
-          nightId: night.id,
-          targetId: Number(v.targetId),
-          kind: v.kind,
-          ...t,
-          status: v.status,
-          laserGuideStar: v.laserGuideStar,
-          notes: v.notes,
-        },
-      });
+      const row = await addBlock(night, v, t);
       setAdded(`Added: ${cat.target(row.targetId)?.name} ${row.kind}, ${row.status}.`);
       setV({ ...v, start: '', end: '', notes: '' });
       onAdded();
@@ -180,92 +352,57 @@ export function AddBlockForm({
       noValidate
     >
       <div class="field-grid">
-        <label class={msgs.targetId ? 'field invalid' : 'field'}>
-          <span>target</span>
-          <select
-            name="targetId"
-            value={v.targetId}
-            onChange={(e) => set('targetId', e.currentTarget.value)}
-          >
-            {targets.map((t) => (
-              <option key={t.id} value={t.id}>
-                {t.name}
-              </option>
-            ))}
-          </select>
-          {msgs.targetId && <span class="field-msg">{msgs.targetId}</span>}
-        </label>
-        <label class="field">
-          <span>kind</span>
-          <select name="kind" value={v.kind} onChange={(e) => set('kind', e.currentTarget.value)}>
-            {BLOCK_KINDS.map((k) => (
-              <option key={k} value={k}>
-                {k}
-              </option>
-            ))}
-          </select>
-        </label>
-        <ClockChoice clock={clock} onClock={setClock} zone={vis.site.timeZone} />
-        <TimeField
-          name="start"
-          label={ended ? 'started at' : 'starts at'}
-          value={v.start}
-          msg={msgs.startUtc}
-          onInput={(x) => set('start', x)}
+        <TargetField
+          targets={targets}
+          value={v.targetId}
+          msg={msgs.targetId}
+          onChange={(targetId) => change({ targetId })}
         />
-        <TimeField
-          name="end"
-          label={ended ? 'ended at' : 'ends at'}
-          value={v.end}
-          msg={msgs.endUtc}
-          onInput={(x) => set('end', x)}
-        />
-        <StatusField
+        <KindField value={v.kind} onChange={(kind) => change({ kind })} />
+        <BlockTimes
+          clock={clock}
+          onClock={setClock}
+          zone={vis.site.timeZone}
           ended={ended}
           statuses={statuses}
-          value={v.status}
-          msg={msgs.status}
-          onChange={(x) => set('status', x)}
+          v={v}
+          msgs={msgs}
+          onChange={change}
         />
-        {site?.laserGuideStar && (
-          <label class="field">
-            <span>laser guide star</span>
-            <input
-              type="checkbox"
-              name="laserGuideStar"
-              checked={v.laserGuideStar}
-              onChange={(e) => set('laserGuideStar', e.currentTarget.checked)}
-            />
-          </label>
-        )}
-        <label class="field wide">
-          <span>notes</span>
-          <input
-            name="notes"
-            value={v.notes}
-            onInput={(e) => set('notes', e.currentTarget.value)}
-          />
-        </label>
+        <LaserAndNotes
+          laserSite={!!cat.site(night.siteId)?.laserGuideStar}
+          laser={v.laserGuideStar}
+          notes={v.notes}
+          onLaser={(laserGuideStar) => change({ laserGuideStar })}
+          onNotes={(notes) => change({ notes })}
+        />
       </div>
-      <div class="toolbar">
-        <button type="submit" class="primary" disabled={busy || !targets.length}>
-          {ended ? 'Record this block' : 'Add this block'}
-        </button>
-        {added && (
-          <span class="save-status" role="status">
-            {added}
-          </span>
-        )}
-      </div>
-      {!targets.length && (
-        <p class="muted">No targets to choose: the campaign of this night has none yet.</p>
-      )}
-      {error !== null && !Object.keys(msgs).length ? <ErrorLine error={error} /> : null}
-      {(error !== null || local) && (
-        <p class="muted">Nothing was stored; correct the marked field and try again.</p>
-      )}
+      <AddBlockOutcome
+        ended={ended}
+        busy={busy}
+        hasTargets={targets.length > 0}
+        added={added}
+        error={error}
+        local={local}
+        msgs={msgs}
+      />
     </form>
   );
+}
+
+/** The fields of `block` that the typed times and status change, with its version; null if none. */
+function blockChange(
+  block: BlockRow,
+  t: { startUtc: string; endUtc: string },
+  status: Status,
+): { startUtc?: string; endUtc?: string; status?: Status; version: number } | null {
+  const body: { startUtc?: string; endUtc?: string; status?: Status; version: number } = {
+    version: block.version,
+  };
+  if (ms(t.startUtc) !== ms(block.startUtc)) body.startUtc = t.startUtc;
+  if (ms(t.endUtc) !== ms(block.endUtc)) body.endUtc = t.endUtc;
+  if (status !== block.status) body.status = status;
+  return Object.keys(body).length === 1 ? null : body;
 }
 
 /** Edit one stored block in place: its real start and end, and what came of it. */
@@ -289,9 +426,9 @@ export function BlockEditor({
     end: clockOf(block.endUtc, vis.site.timeZone),
     status: block.status,
   });
-  const [local, setLocal] = useState<{ field: string; rule: string } | null>(null);
+  const [local, setLocal] = useState<Rule | null>(null);
   const { busy, error, run } = useAction();
-  const msgs = { ...fieldMessages(error), ...(local ? { [local.field]: local.rule } : {}) };
+  const msgs = messagesOf(error, local);
   // A status the night no longer allows stays on offer as it is stored, so opening the editor changes nothing.
   const statuses = [...new Set([block.status, ...statusesFor(ended)])];
   const switchClock = (c: Clock) => {
@@ -305,13 +442,8 @@ export function BlockEditor({
     setLocal(null);
     const t = instants(vis, clock, v.start, v.end);
     if ('rule' in t) return setLocal(t);
-    const body: { startUtc?: string; endUtc?: string; status?: Status; version: number } = {
-      version: block.version,
-    };
-    if (ms(t.startUtc) !== ms(block.startUtc)) body.startUtc = t.startUtc;
-    if (ms(t.endUtc) !== ms(block.endUtc)) body.endUtc = t.endUtc;
-    if (v.status !== block.status) body.status = v.status;
-    if (Object.keys(body).length === 1) return onDone(false);
+    const body = blockChange(block, t, v.status);
+    if (!body) return onDone(false);
     return run(async () => {
       await api.PATCH('/blocks/{id}', { params: { path: { id: block.id } }, body });
       onDone(true);
@@ -320,27 +452,15 @@ export function BlockEditor({
   return (
     <form class="block-editor" aria-label={`edit ${label}`} onSubmit={save} noValidate>
       <div class="field-grid">
-        <ClockChoice clock={clock} onClock={switchClock} zone={vis.site.timeZone} />
-        <TimeField
-          name="start"
-          label={ended ? 'started at' : 'starts at'}
-          value={v.start}
-          msg={msgs.startUtc}
-          onInput={(x) => setV({ ...v, start: x })}
-        />
-        <TimeField
-          name="end"
-          label={ended ? 'ended at' : 'ends at'}
-          value={v.end}
-          msg={msgs.endUtc}
-          onInput={(x) => setV({ ...v, end: x })}
-        />
-        <StatusField
+        <BlockTimes
+          clock={clock}
+          onClock={switchClock}
+          zone={vis.site.timeZone}
           ended={ended}
           statuses={statuses}
-          value={v.status}
-          msg={msgs.status}
-          onChange={(x) => setV({ ...v, status: x })}
+          v={v}
+          msgs={msgs}
+          onChange={(c) => setV({ ...v, ...c })}
         />
       </div>
       <div class="toolbar">
