@@ -6,6 +6,7 @@
  * observers move, pin and remove them; the scheduler panel; the site's cautions; and a printable
  * night sheet.
  */
+import type { ComponentChildren } from 'preact';
 import { useState } from 'preact/hooks';
 import { ApiError, getAll, api } from '../api/client.ts';
 import { loadCatalogue } from '../api/catalogue.ts';
@@ -49,6 +50,37 @@ export function blockProblem(
   return null;
 }
 
+type BlockChange = {
+  setPinned: (b: BlockRow, pinned: boolean) => void;
+  shift: (b: BlockRow, minutes: number) => void;
+  remove: (b: BlockRow) => void;
+};
+
+/** The calls behind the table's buttons, each run through `act` (which reports and reloads). */
+function blockChanges(act: (f: () => Promise<unknown>) => void): BlockChange {
+  return {
+    setPinned: (b, pinned) =>
+      act(() =>
+        api.PATCH('/blocks/{id}', {
+          params: { path: { id: b.id } },
+          body: { pinned, version: b.version },
+        }),
+      ),
+    shift: (b, minutes) =>
+      act(() =>
+        api.PATCH('/blocks/{id}', {
+          params: { path: { id: b.id } },
+          body: {
+            startUtc: isoOf(ms(b.startUtc) + minutes * 60_000),
+            endUtc: isoOf(ms(b.endUtc) + minutes * 60_000),
+            version: b.version,
+          },
+        }),
+      ),
+    remove: (b) => act(() => api.DELETE('/blocks/{id}', { params: { path: { id: b.id } } })),
+  };
+}
+
 function BlockTable({
   blocks,
   vis,
@@ -79,24 +111,7 @@ function BlockTable({
     }
     onChanged();
   };
-  const setPinned = (b: BlockRow, pinned: boolean) =>
-    act(() =>
-      api.PATCH('/blocks/{id}', {
-        params: { path: { id: b.id } },
-        body: { pinned, version: b.version },
-      }),
-    );
-  const shift = (b: BlockRow, minutes: number) =>
-    act(() =>
-      api.PATCH('/blocks/{id}', {
-        params: { path: { id: b.id } },
-        body: {
-          startUtc: isoOf(ms(b.startUtc) + minutes * 60_000),
-          endUtc: isoOf(ms(b.endUtc) + minutes * 60_000),
-          version: b.version,
-        },
-      }),
-    );
+  const change = blockChanges(act);
   if (!blocks.length)
     return (
       <p class="muted">
@@ -105,7 +120,6 @@ function BlockTable({
           : 'No blocks on this night yet.'}
       </p>
     );
-  const columns = canEdit ? 9 : 8;
   return (
     <>
       <p class="muted pin-note" hidden={ended}>
@@ -114,133 +128,27 @@ function BlockTable({
         next re-plan.
       </p>
       <table class="data blocks">
-        <thead>
-          <tr>
-            <th>target</th>
-            <th>kind</th>
-            <th>UTC</th>
-            <th>
-              {zoneAbbrev(blocks[0]!.startUtc, zone)} ({zone})
-            </th>
-            <th>status</th>
-            <th>made by</th>
-            <th>pinned</th>
-            <th>check</th>
-            {canEdit && <th>change</th>}
-          </tr>
-        </thead>
+        <BlockTableHead zone={zone} firstUtc={blocks[0]!.startUtc} canEdit={canEdit} />
         <tbody>
-          {blocks.map((b) => {
-            const problem = blockProblem(b, vis, names(b.targetId), leastSunDistance);
-            const label = `${names(b.targetId)} ${b.kind} ${utcClock(b.startUtc)} UTC`;
-            return [
-              <tr
-                key={b.id}
-                data-block={b.id}
-                data-version={b.version}
-                class={problem ? 'has-problem' : ''}
-              >
-                <td>
-                  <a href={`/targets/${b.targetId}`}>{names(b.targetId)}</a>
-                </td>
-                <td>
-                  {b.kind}
-                  {b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}
-                </td>
-                <td>
-                  {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
-                </td>
-                <td>
-                  {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
-                </td>
-                <td>{b.status}</td>
-                <td class="origin">{ORIGIN_LABEL[b.origin] ?? b.origin}</td>
-                <td class="pin-state">
-                  {b.pinned ? (
-                    <span class="tag pin-tag">pinned</span>
-                  ) : (
-                    <span class="muted">no</span>
-                  )}
-                </td>
-                <td>
-                  {problem ? (
-                    <span class="problem">{problem}</span>
-                  ) : (
-                    <span class="ok">inside its window</span>
-                  )}
-                </td>
-                {canEdit && (
-                  <td class="actions">
-                    <button
-                      type="button"
-                      aria-label={`edit ${label}`}
-                      aria-expanded={editing === b.id}
-                      onClick={() => setEditing(editing === b.id ? null : b.id)}
-                    >
-                      {ended ? 'Log times and outcome' : 'Edit'}
-                    </button>
-                    {b.pinned ? (
-                      <button
-                        type="button"
-                        aria-label={`unpin ${names(b.targetId)} ${b.kind}`}
-                        onClick={() => setPinned(b, false)}
-                      >
-                        Unpin
-                      </button>
-                    ) : (
-                      <button
-                        type="button"
-                        aria-label={`pin ${names(b.targetId)} ${b.kind}`}
-                        onClick={() => setPinned(b, true)}
-                      >
-                        Pin
-                      </button>
-                    )}
-                    <button
-                      type="button"
-                      aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes earlier`}
-                      onClick={() => shift(b, -STEP_MIN)}
-                    >
-                      −{STEP_MIN} min
-                    </button>
-                    <button
-                      type="button"
-                      aria-label={`move ${names(b.targetId)} ${b.kind} ${STEP_MIN} minutes later`}
-                      onClick={() => shift(b, STEP_MIN)}
-                    >
-                      +{STEP_MIN} min
-                    </button>
-                    <button
-                      type="button"
-                      class="danger"
-                      aria-label={`remove ${names(b.targetId)} ${b.kind}`}
-                      onClick={() =>
-                        act(() => api.DELETE('/blocks/{id}', { params: { path: { id: b.id } } }))
-                      }
-                    >
-                      Remove
-                    </button>
-                  </td>
-                )}
-              </tr>,
-              editing === b.id && (
-                <tr key={`${b.id}-edit`} class="edit-row">
-                  <td colSpan={columns}>
-                    <BlockEditor
-                      block={b}
-                      vis={vis}
-                      ended={ended}
-                      label={label}
-                      onDone={(changed) => {
-                        setEditing(null);
-                        if (changed) onChanged();
-                      }}
-                    />
-                  </td>
-                </tr>
-              ),
-            ];
-          })}
+          {blocks.map((b) => (
+            <BlockEntry
+              key={b.id}
+              b={b}
+              vis={vis}
+              name={names(b.targetId)}
+              problem={blockProblem(b, vis, names(b.targetId), leastSunDistance)}
+              zone={zone}
+              canEdit={canEdit}
+              ended={ended}
+              editing={editing === b.id}
+              onEdit={() => setEditing(editing === b.id ? null : b.id)}
+              onDone={(changed) => {
+                setEditing(null);
+                if (changed) onChanged();
+              }}
+              change={change}
+            />
+          ))}
         </tbody>
       </table>
       <ErrorLine error={error} />
@@ -250,6 +158,170 @@ function BlockTable({
         </p>
       )}
     </>
+  );
+}
+
+function BlockTableHead(p: { zone: string; firstUtc: string; canEdit: boolean }) {
+  return (
+    <thead>
+      <tr>
+        <th>target</th>
+        <th>kind</th>
+        <th>UTC</th>
+        <th>
+          {zoneAbbrev(p.firstUtc, p.zone)} ({p.zone})
+        </th>
+        <th>status</th>
+        <th>made by</th>
+        <th>pinned</th>
+        <th>check</th>
+        {p.canEdit && <th>change</th>}
+      </tr>
+    </thead>
+  );
+}
+
+/** One block's row and, while it is being edited, the editor row under it. */
+function BlockEntry(p: {
+  b: BlockRow;
+  vis: Visibility;
+  name: string;
+  problem: string | null;
+  zone: string;
+  canEdit: boolean;
+  ended: boolean;
+  editing: boolean;
+  onEdit: () => void;
+  onDone: (changed: boolean) => void;
+  change: BlockChange;
+}) {
+  const { b } = p;
+  const label = `${p.name} ${b.kind} ${utcClock(b.startUtc)} UTC`;
+  return (
+    <>
+      <BlockLine b={b} name={p.name} problem={p.problem} zone={p.zone}>
+        {p.canEdit && (
+          <BlockActions
+            b={b}
+            name={p.name}
+            label={label}
+            ended={p.ended}
+            editing={p.editing}
+            onEdit={p.onEdit}
+            change={p.change}
+          />
+        )}
+      </BlockLine>
+      {p.editing && (
+        <tr class="edit-row">
+          <td colSpan={p.canEdit ? 9 : 8}>
+            <BlockEditor block={b} vis={p.vis} ended={p.ended} label={label} onDone={p.onDone} />
+          </td>
+        </tr>
+      )}
+    </>
+  );
+}
+
+/** One stored block's row; its children are the last cell (the buttons), if any. */
+function BlockLine(p: {
+  b: BlockRow;
+  name: string;
+  problem: string | null;
+  zone: string;
+  children: ComponentChildren;
+}) {
+  const { b, zone, problem } = p;
+  return (
+    <tr data-block={b.id} data-version={b.version} class={problem ? 'has-problem' : ''}>
+      <td>
+        <a href={`/targets/${b.targetId}`}>{p.name}</a>
+      </td>
+      <td>
+        {b.kind}
+        {b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}
+      </td>
+      <td>
+        {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
+      </td>
+      <td>
+        {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
+      </td>
+      <td>{b.status}</td>
+      <td class="origin">{ORIGIN_LABEL[b.origin] ?? b.origin}</td>
+      <td class="pin-state">
+        {b.pinned ? <span class="tag pin-tag">pinned</span> : <span class="muted">no</span>}
+      </td>
+      <td>
+        {problem ? (
+          <span class="problem">{problem}</span>
+        ) : (
+          <span class="ok">inside its window</span>
+        )}
+      </td>
+      {p.children}
+    </tr>
+  );
+}
+
+/** Edit, pin or unpin, move and remove buttons for one block. */
+function BlockActions(p: {
+  b: BlockRow;
+  name: string;
+  label: string;
+  ended: boolean;
+  editing: boolean;
+  onEdit: () => void;
+  change: BlockChange;
+}) {
+  const { b, change } = p;
+  const what = `${p.name} ${b.kind}`;
+  return (
+    <td class="actions">
+      <button
+        type="button"
+        aria-label={`edit ${p.label}`}
+        aria-expanded={p.editing}
+        onClick={p.onEdit}
+      >
+        {p.ended ? 'Log times and outcome' : 'Edit'}
+      </button>
+      {b.pinned ? (
+        <button
+          type="button"
+          aria-label={`unpin ${what}`}
+          onClick={() => change.setPinned(b, false)}
+        >
+          Unpin
+        </button>
+      ) : (
+        <button type="button" aria-label={`pin ${what}`} onClick={() => change.setPinned(b, true)}>
+          Pin
+        </button>
+      )}
+      <button
+        type="button"
+        aria-label={`move ${what} ${STEP_MIN} minutes earlier`}
+        onClick={() => change.shift(b, -STEP_MIN)}
+      >
+        −{STEP_MIN} min
+      </button>
+      <button
+        type="button"
+        aria-label={`move ${what} ${STEP_MIN} minutes later`}
+        onClick={() => change.shift(b, STEP_MIN)}
+      >
+        +{STEP_MIN} min
+      </button>
+      <button
+        type="button"
+        class="danger"
+        aria-label={`remove ${what}`}
+        onClick={() => change.remove(b)}
+      >
+        Remove
+      </button>
+    </td>
   );
 }
 
@@ -275,35 +347,11 @@ export function NightView({ id }: { id: number }) {
   const names = (tid: number) => cat.target(tid)?.name ?? `#${tid}`;
   const zone = site.timeZone;
   const ended = nightEnded(vis, Date.now());
+  const reload = () => setTick(tick + 1);
   return (
     <div class="view night">
-      <div class="view-head">
-        <h1>
-          {site.name}, night of {night.date}
-        </h1>
-        <p class="muted">
-          {zone} · darkness ({vis.darkness.limit}) <Qty v={vis.darkness.hours} unit="h" /> · Moon{' '}
-          {Math.round(vis.moon.illuminatedFraction * 100)}% illuminated
-        </p>
-        <div class="toolbar no-print">
-          <a href={`/nights/${id}/report`} class="button">
-            Night report
-          </a>
-          <button type="button" onClick={() => print()}>
-            Print night sheet
-          </button>
-        </div>
-      </div>
-      {vis.cautions.map((c) => (
-        <Caution key={c}>{c}</Caution>
-      ))}
-      {blocks.some((b) => b.laserGuideStar) && (
-        <Caution>
-          Blocks marked “laser guide star” propagate a laser: coordinate with the site’s
-          laser-traffic system and stop whenever the site’s spotters or the aviation authority say
-          so.
-        </Caution>
-      )}
+      <NightHead id={id} title={`${site.name}, night of ${night.date}`} zone={zone} vis={vis} />
+      <NightCautions vis={vis} blocks={blocks} />
       <NightChartSection vis={vis} blocks={blocks} names={names} proposal={proposal} />
       <SunMoonTimes vis={vis} zone={zone} />
       <Section title="Blocks" id="blocks">
@@ -315,29 +363,11 @@ export function NightView({ id }: { id: number }) {
           leastSunDistance={site.leastSunDistanceDeg}
           canEdit={canEdit}
           ended={ended}
-          onChanged={() => setTick(tick + 1)}
+          onChanged={reload}
         />
       </Section>
       {canEdit && (
-        <Section title={ended ? 'Record what ran' : 'Add a block by hand'} id="add-block">
-          <p class="muted">
-            {ended
-              ? 'This night has ended. Record each block as it ran, with its real start and end; then write the night report and add the measurements.'
-              : 'A block made by hand is kept by every re-plan, like a pinned one.'}
-          </p>
-          <AddBlockForm
-            night={night}
-            vis={vis}
-            cat={cat}
-            ended={ended}
-            onAdded={() => setTick(tick + 1)}
-          />
-          {ended && (
-            <p>
-              <a href={`/nights/${id}/report`}>Write the night report →</a>
-            </p>
-          )}
-        </Section>
+        <AddBlockSection id={id} night={night} vis={vis} cat={cat} ended={ended} onAdded={reload} />
       )}
       {ended ? (
         <Section title="Scheduler" id="scheduler">
@@ -352,11 +382,77 @@ export function NightView({ id }: { id: number }) {
           blocks={blocks}
           cat={cat}
           canEdit={canEdit}
-          onChanged={() => setTick(tick + 1)}
+          onChanged={reload}
           onProposal={setProposal}
         />
       )}
     </div>
+  );
+}
+
+/** The night's title, darkness and Moon line, and its report and print links. */
+function NightHead(p: { id: number; title: string; zone: string; vis: Visibility }) {
+  const { vis } = p;
+  return (
+    <div class="view-head">
+      <h1>{p.title}</h1>
+      <p class="muted">
+        {p.zone} · darkness ({vis.darkness.limit}) <Qty v={vis.darkness.hours} unit="h" /> · Moon{' '}
+        {Math.round(vis.moon.illuminatedFraction * 100)}% illuminated
+      </p>
+      <div class="toolbar no-print">
+        <a href={`/nights/${p.id}/report`} class="button">
+          Night report
+        </a>
+        <button type="button" onClick={() => print()}>
+          Print night sheet
+        </button>
+      </div>
+    </div>
+  );
+}
+
+/** The site's cautions for the night, and the laser one when any block propagates a laser. */
+function NightCautions({ vis, blocks }: { vis: Visibility; blocks: BlockRow[] }) {
+  return (
+    <>
+      {vis.cautions.map((c) => (
+        <Caution key={c}>{c}</Caution>
+      ))}
+      {blocks.some((b) => b.laserGuideStar) && (
+        <Caution>
+          Blocks marked “laser guide star” propagate a laser: coordinate with the site’s
+          laser-traffic system and stop whenever the site’s spotters or the aviation authority say
+          so.
+        </Caution>
+      )}
+    </>
+  );
+}
+
+/** Adding a block by hand, or after the night recording what ran. */
+function AddBlockSection(
+  p: {
+    id: number;
+    ended: boolean;
+    onAdded: () => void;
+  } & Pick<Parameters<typeof AddBlockForm>[0], 'night' | 'vis' | 'cat'>,
+) {
+  const { ended } = p;
+  return (
+    <Section title={ended ? 'Record what ran' : 'Add a block by hand'} id="add-block">
+      <p class="muted">
+        {ended
+          ? 'This night has ended. Record each block as it ran, with its real start and end; then write the night report and add the measurements.'
+          : 'A block made by hand is kept by every re-plan, like a pinned one.'}
+      </p>
+      <AddBlockForm night={p.night} vis={p.vis} cat={p.cat} ended={ended} onAdded={p.onAdded} />
+      {ended && (
+        <p>
+          <a href={`/nights/${p.id}/report`}>Write the night report →</a>
+        </p>
+      )}
+    </Section>
   );
 }
 
