@@ -46,8 +46,6 @@ export function NightDetail(p: {
   const alt = curve.altitudeDeg;
   const inSpan = (k: number) => t[k]! >= span[0] - 600_000 && t[k]! <= span[1] + 600_000;
   const limit = vis.limits.altitudeLimitDeg;
-  const pxPerHour = (x(span[1]) - x(span[0])) / ((span[1] - span[0]) / 3_600_000);
-  const ticks = hourTicks(span[0], span[1], p.zone, labelStep(pxPerHour));
   const mask = curve.horizonMaskDeg;
   const zone = vis.site.timeZone;
   const line = altitudePath(t, alt, (k) => inSpan(k) && alt[k]! >= 0, x, y);
@@ -63,26 +61,8 @@ export function NightDetail(p: {
           <rect x={x(span[0])} y={TOP} width={x(span[1]) - x(span[0])} height={PLOT_H} />
         </clipPath>
       </defs>
-      <rect
-        class="below-limit"
-        x={x(span[0])}
-        y={y(limit)}
-        width={x(span[1]) - x(span[0])}
-        height={y(0) - y(limit)}
-      >
-        <title>{`below ${limit.toFixed(1)}°, the lowest altitude`}</title>
-      </rect>
-      <text class="floor-label" x={x(span[0]) + 6} y={y(limit) + 12}>
-        {`lowest altitude ${limit.toFixed(1)}°`}
-      </text>
-      {ticks.map((k) => (
-        <g key={k.ms}>
-          <line class="hour-grid" x1={x(k.ms)} x2={x(k.ms)} y1={TOP} y2={TOP + PLOT_H} />
-          {k.labelled && (
-            <text x={x(k.ms)} y={TOP + PLOT_H + 14} text-anchor="middle">{`${k.label}h`}</text>
-          )}
-        </g>
-      ))}
+      <AltitudeFloor x0={x(span[0])} x1={x(span[1])} y={y} limit={limit} />
+      <HourGrid span={span} zone={p.zone} x={x} />
       <g clip-path="url(#detail-area)">
         <WindowColumns windows={target.windows} x={x} zone={zone} />
         {mask &&
@@ -93,21 +73,7 @@ export function NightDetail(p: {
           ))}
         <path class="altitude-line" d={line} />
       </g>
-      {[0, 30, 60, 90].map((v) => (
-        <text
-          key={v}
-          class="alt-label"
-          x={x(span[0]) - 6}
-          y={y(v) + 4}
-          text-anchor="end"
-        >{`${v}°`}</text>
-      ))}
-      <text class="lane-name" x={x(span[0]) - 34} y={TOP + 10} text-anchor="end">
-        {shortName(target)}
-      </text>
-      <text class="lane-members" x={x(span[0]) - 34} y={TOP + 23} text-anchor="end">
-        altitude
-      </text>
+      <AltitudeAxis x0={x(span[0])} y={y} name={shortName(target)} />
     </svg>
   );
 }
@@ -158,6 +124,58 @@ function WindowColumns(p: {
           </rect>
         );
       })}
+    </>
+  );
+}
+
+/** The solid floor under the lowest altitude the target must clear, with its label. */
+function AltitudeFloor(p: { x0: number; x1: number; y: (deg: number) => number; limit: number }) {
+  const { x0, y, limit } = p;
+  return (
+    <>
+      <rect class="below-limit" x={x0} y={y(limit)} width={p.x1 - x0} height={y(0) - y(limit)}>
+        <title>{`below ${limit.toFixed(1)}°, the lowest altitude`}</title>
+      </rect>
+      <text class="floor-label" x={x0 + 6} y={y(limit) + 12}>
+        {`lowest altitude ${limit.toFixed(1)}°`}
+      </text>
+    </>
+  );
+}
+
+/** Hour lines across the plot, labelled as often as the width allows, on the chart's clock. */
+function HourGrid(p: { span: [number, number]; zone: string; x: (ms: number) => number }) {
+  const { span, x } = p;
+  const pxPerHour = (x(span[1]) - x(span[0])) / ((span[1] - span[0]) / 3_600_000);
+  const ticks = hourTicks(span[0], span[1], p.zone, labelStep(pxPerHour));
+  return (
+    <>
+      {ticks.map((k) => (
+        <g key={k.ms}>
+          <line class="hour-grid" x1={x(k.ms)} x2={x(k.ms)} y1={TOP} y2={TOP + PLOT_H} />
+          {k.labelled && (
+            <text x={x(k.ms)} y={TOP + PLOT_H + 14} text-anchor="middle">{`${k.label}h`}</text>
+          )}
+        </g>
+      ))}
+    </>
+  );
+}
+
+/** Altitude labels up the left edge and the lane's name beside them. */
+function AltitudeAxis(p: { x0: number; y: (deg: number) => number; name: string }) {
+  const { x0, y } = p;
+  return (
+    <>
+      {[0, 30, 60, 90].map((v) => (
+        <text key={v} class="alt-label" x={x0 - 6} y={y(v) + 4} text-anchor="end">{`${v}°`}</text>
+      ))}
+      <text class="lane-name" x={x0 - 34} y={TOP + 10} text-anchor="end">
+        {p.name}
+      </text>
+      <text class="lane-members" x={x0 - 34} y={TOP + 23} text-anchor="end">
+        altitude
+      </text>
     </>
   );
 }
