@@ -149,56 +149,31 @@ function CellDetail(p: {
 }) {
   const lead = useCan('lead');
   const { busy, error, run } = useAction();
-  const [semester, setSemester] = useState('');
   const [siteText, date] = p.cellKey.split('/') as [string, string];
   const siteId = Number(siteText);
   const site = p.data.cat.site(siteId);
   const n = p.data.nights.find((x) => x.siteId === siteId && x.date === date);
   const ours = n && n.campaignId === p.campaign.id;
   const blocks = n ? (p.data.blocksByNight.get(n.id) ?? 0) : 0;
-  const other = n && !ours ? p.data.cat.campaigns.find((c) => c.id === n.campaignId) : undefined;
   return (
     <section class="cell-detail" aria-label="the chosen night">
       <p>
         <strong>
           {site?.name}, night of {date}
         </strong>{' '}
-        ·{' '}
-        {ours
-          ? `allocated${n.semester ? ` (${n.semester})` : ''}, ${plural(blocks, 'block')}${p.data.reported.has(n.id) ? ', report written' : ''}`
-          : n
-            ? `stored for ${other ? `“${other.name}”` : 'no campaign'}`
-            : 'not allocated'}
+        · {cellWords(p.data, p.campaign, n)}
       </p>
       <div class="toolbar">
         {n && <a href={`/nights/${n.id}`}>Open the night →</a>}
         {lead && !n && (
-          <>
-            <label class="inline">
-              semester{' '}
-              <input
-                name="cell-semester"
-                value={semester}
-                placeholder="2027A"
-                onInput={(e) => setSemester(e.currentTarget.value)}
-              />
-            </label>
-            <button
-              type="button"
-              class="primary"
-              disabled={busy}
-              onClick={() =>
-                run(async () => {
-                  await api.POST('/nights', {
-                    body: { siteId, campaignId: p.campaign.id, date, semester },
-                  });
-                  p.onChanged();
-                })
-              }
-            >
-              Allocate this night
-            </button>
-          </>
+          <AllocateCell
+            busy={busy}
+            run={run}
+            onAllocate={(semester) =>
+              api.POST('/nights', { body: { siteId, campaignId: p.campaign.id, date, semester } })
+            }
+            onChanged={p.onChanged}
+          />
         )}
         {lead && ours && (
           <button
@@ -227,6 +202,101 @@ function CellDetail(p: {
   );
 }
 
+/** What the chosen cell holds, in words. */
+function cellWords(data: Data, campaign: CampaignRow, n: NightRow | undefined): string {
+  if (!n) return 'not allocated';
+  if (n.campaignId !== campaign.id) {
+    const other = data.cat.campaigns.find((c) => c.id === n.campaignId);
+    return `stored for ${other ? `“${other.name}”` : 'no campaign'}`;
+  }
+  const blocks = data.blocksByNight.get(n.id) ?? 0;
+  return `allocated${n.semester ? ` (${n.semester})` : ''}, ${plural(blocks, 'block')}${data.reported.has(n.id) ? ', report written' : ''}`;
+}
+
+/** A lead allocates a free cell's night, with an optional semester. */
+function AllocateCell(p: {
+  busy: boolean;
+  run: (action: () => Promise<void>) => Promise<void>;
+  onAllocate: (semester: string) => Promise<unknown>;
+  onChanged: () => void;
+}) {
+  const [semester, setSemester] = useState('');
+  return (
+    <>
+      <label class="inline">
+        semester{' '}
+        <input
+          name="cell-semester"
+          value={semester}
+          placeholder="2027A"
+          onInput={(e) => setSemester(e.currentTarget.value)}
+        />
+      </label>
+      <button
+        type="button"
+        class="primary"
+        disabled={p.busy}
+        onClick={() =>
+          p.run(async () => {
+            await p.onAllocate(semester);
+            p.onChanged();
+          })
+        }
+      >
+        Allocate this night
+      </button>
+    </>
+  );
+}
+
+/** The campaign's name and dates, and the choice of campaign. */
+function NightsHead(p: {
+  campaign: CampaignRow;
+  campaigns: readonly CampaignRow[];
+  onChoose: (id: number) => void;
+}) {
+  const { campaign } = p;
+  return (
+    <div class="view-head">
+      <h1>Nights of {campaign.name}</h1>
+      <CampaignChoice campaigns={p.campaigns} value={campaign.id} onChoose={p.onChoose} />
+      <p class="muted">
+        {campaign.startDate} to {campaign.endDate}. A night is named by the local date of its
+        evening. Choose a day to see or change it.
+      </p>
+    </div>
+  );
+}
+
+/** What the calendar's cell colours and marks mean. */
+function CellKey() {
+  return (
+    <ul class="cell-key" aria-label="what the cells show">
+      <li>
+        <span class="night-cell cell-ours" aria-hidden="true" /> allocated
+      </li>
+      <li>
+        <span class="night-cell cell-reported" aria-hidden="true" /> report written
+      </li>
+      <li>
+        <span class="night-cell cell-theirs" aria-hidden="true" /> another campaign’s
+      </li>
+      <li>
+        <span class="night-cell proposed-new" aria-hidden="true" /> the preview would allocate
+      </li>
+      <li>
+        <span class="night-cell proposed-refused" aria-hidden="true" /> the preview refuses
+      </li>
+      <li>
+        <span class="night-cell cell-free" aria-hidden="true">
+          <span class="cell-dot" />
+        </span>{' '}
+        has blocks
+      </li>
+    </ul>
+  );
+}
+
 export function NightsView() {
   const { data: cat, error: catError } = useLoad(loadCatalogue, []);
   const [campaign, choose] = useChosenCampaign(cat?.campaigns);
@@ -251,46 +321,17 @@ export function NightsView() {
   };
   return (
     <div class="view nights">
-      <div class="view-head">
-        <h1>Nights of {campaign.name}</h1>
-        <CampaignChoice
-          campaigns={cat.campaigns}
-          value={campaign.id}
-          onChoose={(id) => {
-            setPreview(null);
-            setSelected(null);
-            choose(id);
-          }}
-        />
-        <p class="muted">
-          {campaign.startDate} to {campaign.endDate}. A night is named by the local date of its
-          evening. Choose a day to see or change it.
-        </p>
-      </div>
+      <NightsHead
+        campaign={campaign}
+        campaigns={cat.campaigns}
+        onChoose={(id) => {
+          setPreview(null);
+          setSelected(null);
+          choose(id);
+        }}
+      />
       <Section title="Calendar of site-nights" id="night-calendar">
-        <ul class="cell-key" aria-label="what the cells show">
-          <li>
-            <span class="night-cell cell-ours" aria-hidden="true" /> allocated
-          </li>
-          <li>
-            <span class="night-cell cell-reported" aria-hidden="true" /> report written
-          </li>
-          <li>
-            <span class="night-cell cell-theirs" aria-hidden="true" /> another campaign’s
-          </li>
-          <li>
-            <span class="night-cell proposed-new" aria-hidden="true" /> the preview would allocate
-          </li>
-          <li>
-            <span class="night-cell proposed-refused" aria-hidden="true" /> the preview refuses
-          </li>
-          <li>
-            <span class="night-cell cell-free" aria-hidden="true">
-              <span class="cell-dot" />
-            </span>{' '}
-            has blocks
-          </li>
-        </ul>
+        <CellKey />
         {error ? <ErrorLine error={error} /> : null}
         {!data ? (
           <Loading what="the nights" />
