@@ -7,7 +7,7 @@ import { DateTime } from 'luxon';
 import { useState } from 'preact/hooks';
 import { ApiError, getAll, api } from '../api/client.ts';
 import { loadCatalogue, skySite, skyTarget, type Catalogue } from '../api/catalogue.ts';
-import type { BlockRow, CampaignRow, NightRow, OrbitEvent } from '../api/client.ts';
+import type { Answer, BlockRow, CampaignRow, NightRow, OrbitEvent } from '../api/client.ts';
 import { SeasonChart, type SeasonRow } from '../plots/season-chart.tsx';
 import { Caution, ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { plural } from '../lib/words.ts';
@@ -68,9 +68,53 @@ function SiteSeason({
   if (error) return <ErrorLine error={error} />;
   if (!data) return <Loading what={`the season at ${site.name}`} />;
   const [season, events] = data;
-  const nightDate = new Map(nights.filter((n) => n.siteId === siteId).map((n) => [n.id, n.date]));
-  const rows: SeasonRow[] = season.targets.map((t, i) => {
-    const tid = targets[i]!.id;
+  const rows = seasonRows({
+    cat,
+    season,
+    events,
+    targetIds: targets.map((x) => x.id),
+    siteId,
+    siteName: site.name,
+    year,
+    nights,
+    blocks,
+    proposal,
+  });
+  return (
+    <Section title={`${site.name} (${site.timeZone})`} id={`season-site-${siteId}`}>
+      <SeasonChart
+        year={year}
+        zone={site.timeZone}
+        rows={rows}
+        darkHours={season.nights.map((n) => n.darkHours)}
+        nowMs={Date.now()}
+      />
+      <SeasonNotes campaign={campaign} season={season} siteName={site.name} />
+    </Section>
+  );
+}
+
+type SeasonAnswer = Answer<'/sky/season', 'post'>;
+
+/** One chart row per target: its hours, periapses, and the nights planned and proposed for it. */
+function seasonRows(p: {
+  cat: Catalogue;
+  season: SeasonAnswer;
+  events: OrbitEvent[][];
+  targetIds: number[];
+  siteId: number;
+  siteName: string;
+  year: number;
+  nights: NightRow[];
+  blocks: BlockRow[];
+  proposal: SeasonPlanPreview | null;
+}): SeasonRow[] {
+  const { cat, season, events, year, blocks, proposal } = p;
+  const nightDate = new Map(
+    p.nights.filter((n) => n.siteId === p.siteId).map((n) => [n.id, n.date]),
+  );
+  return season.targets.map((t, i) => {
+    const tid = p.targetIds[i]!;
     const planned = [
       ...new Set(
         blocks
@@ -85,7 +129,7 @@ function SiteSeason({
       hoursPerNight: t.hoursPerNight,
       periapses: events[i]!.map((e) => {
         const inSeason = t.periapses.find(
-          (p) => p.epoch && Math.abs(Date.parse(p.epoch) - Date.parse(e.epoch)) < 86_400_000,
+          (q) => q.epoch && Math.abs(Date.parse(q.epoch) - Date.parse(e.epoch)) < 86_400_000,
         )?.inSeason;
         return {
           epoch: e.epoch,
@@ -98,7 +142,8 @@ function SiteSeason({
         ...new Set(
           (proposal?.plan.epochs ?? [])
             .filter(
-              (e) => e.site === site.name && e.target === t.name && e.date.startsWith(String(year)),
+              (e) =>
+                e.site === p.siteName && e.target === t.name && e.date.startsWith(String(year)),
             )
             .map((e) => e.date),
         ),
@@ -109,36 +154,33 @@ function SiteSeason({
           : 'not observable',
     };
   });
+}
+
+/** What the cells mean, the season's cautions, and each periapsis that falls out of season. */
+function SeasonNotes(p: { campaign: CampaignRow; season: SeasonAnswer; siteName: string }) {
   return (
-    <Section title={`${site.name} (${site.timeZone})`} id={`season-site-${siteId}`}>
-      <SeasonChart
-        year={year}
-        zone={site.timeZone}
-        rows={rows}
-        darkHours={season.nights.map((n) => n.darkHours)}
-        nowMs={Date.now()}
-      />
+    <>
       <p class="legend">
         Cells: hours per night a star meets the campaign’s limits (darkness{' '}
-        {campaign.limits.darkness ?? 'astronomical'}, airmass ≤{' '}
-        {campaign.limits.highestAirmass ?? 2}, Moon ≥ {campaign.limits.leastMoonDistanceDeg ?? 30}°
-        away); the top strip is the hours of darkness on the same scale. Stars at one sky position
-        share a strip and keep a track each.
+        {p.campaign.limits.darkness ?? 'astronomical'}, airmass ≤{' '}
+        {p.campaign.limits.highestAirmass ?? 2}, Moon ≥{' '}
+        {p.campaign.limits.leastMoonDistanceDeg ?? 30}° away); the top strip is the hours of
+        darkness on the same scale. Stars at one sky position share a strip and keep a track each.
       </p>
-      {(season.cautions ?? []).map((c) => (
+      {(p.season.cautions ?? []).map((c) => (
         <Caution key={c}>{c}</Caution>
       ))}
-      {season.targets.flatMap((t) =>
+      {p.season.targets.flatMap((t) =>
         t.periapses
-          .filter((p) => p.inSeason === false)
-          .map((p) => (
-            <p class="notice" key={`${t.name}${p.epoch}`}>
-              {t.name} passes periapsis on {(p.epoch ?? '').slice(0, 10)} while it cannot be
-              observed from {site.name}.
+          .filter((q) => q.inSeason === false)
+          .map((q) => (
+            <p class="notice" key={`${t.name}${q.epoch}`}>
+              {t.name} passes periapsis on {(q.epoch ?? '').slice(0, 10)} while it cannot be
+              observed from {p.siteName}.
             </p>
           )),
       )}
-    </Section>
+    </>
   );
 }
 
