@@ -7,6 +7,7 @@ import { useState } from 'preact/hooks';
 import { DEFAULT_ZENITH_SIGMA } from '../../../descriptors/measurement-kinds.ts';
 import { ApiError, fieldMessages, api, sendRecord, type Answer } from '../api/client.ts';
 import {
+  type Catalogue,
   elementText,
   invalidateCatalogue,
   loadCatalogue,
@@ -78,6 +79,117 @@ const SITE_COLS: Column[] = [
   },
 ];
 
+/** The form text each editable column starts from when a row is opened for editing. */
+function editValues(cols: Column[], r: Row): Record<string, string | boolean> {
+  return Object.fromEntries(
+    cols
+      .filter((c) => c.editable)
+      .map((c) => [
+        c.key,
+        c.editable === 'boolean'
+          ? Boolean(r[c.key])
+          : c.editable === 'angle' && typeof r[c.key] === 'number'
+            ? c.format!(r[c.key] as number)
+            : r[c.key] === null || r[c.key] === undefined
+              ? ''
+              : String(r[c.key]),
+      ]),
+  );
+}
+
+/** Only the fields the user changed: angles go as typed, empty numbers as null. */
+function changedFields(
+  cols: Column[],
+  values: Record<string, string | boolean>,
+  r: Row,
+): Record<string, unknown> {
+  const patch: Record<string, unknown> = {};
+  for (const c of cols.filter((x) => x.editable)) {
+    const v = values[c.key];
+    if (c.editable === 'angle') {
+      const text = String(v).trim();
+      if (text !== c.format!(r[c.key] as number)) patch[c.key] = text;
+      continue;
+    }
+    const next = c.editable === 'number' ? (v === '' ? null : Number(v)) : v;
+    if (next !== r[c.key]) patch[c.key] = next;
+  }
+  return patch;
+}
+
+function shownValue(c: Column, v: unknown): string {
+  if (typeof v === 'boolean') return v ? 'yes' : 'no';
+  if (typeof v === 'number') return (c.format ?? plainNumber)(v);
+  return String(v ?? c.empty ?? 'not given');
+}
+
+function EditField({
+  col: c,
+  value,
+  message,
+  onChange,
+}: {
+  col: Column;
+  value: string | boolean | undefined;
+  message: string | undefined;
+  onChange: (v: string | boolean) => void;
+}) {
+  return (
+    <>
+      {c.editable === 'boolean' ? (
+        <input
+          type="checkbox"
+          aria-label={c.label}
+          checked={Boolean(value)}
+          onChange={(e) => onChange(e.currentTarget.checked)}
+        />
+      ) : (
+        <input
+          aria-label={c.label}
+          name={c.key}
+          {...({ type: c.editable === 'number' ? 'number' : 'text' } as object)}
+          step="any"
+          value={String(value ?? '')}
+          aria-invalid={!!message}
+          onInput={(e) => onChange(e.currentTarget.value)}
+        />
+      )}
+      {message && <span class="field-msg">{message}</span>}
+    </>
+  );
+}
+
+function RowActions({
+  editing,
+  onEdit,
+  onSave,
+  onCancel,
+}: {
+  editing: boolean;
+  onEdit: () => void;
+  onSave: () => void;
+  onCancel: () => void;
+}) {
+  return (
+    <td class="actions">
+      {editing ? (
+        <>
+          <button type="button" class="primary" onClick={onSave}>
+            Save
+          </button>
+          <button type="button" onClick={onCancel}>
+            Cancel
+          </button>
+        </>
+      ) : (
+        <button type="button" onClick={onEdit}>
+          Edit
+        </button>
+      )}
+    </td>
+  );
+}
+
 function RecordTable({
   path,
   rows,
@@ -97,35 +209,10 @@ function RecordTable({
   const start = (r: Row) => {
     setEditing(r.id);
     setError(null);
-    setValues(
-      Object.fromEntries(
-        cols
-          .filter((c) => c.editable)
-          .map((c) => [
-            c.key,
-            c.editable === 'boolean'
-              ? Boolean(r[c.key])
-              : c.editable === 'angle' && typeof r[c.key] === 'number'
-                ? c.format!(r[c.key] as number)
-                : r[c.key] === null || r[c.key] === undefined
-                  ? ''
-                  : String(r[c.key]),
-          ]),
-      ),
-    );
+    setValues(editValues(cols, r));
   };
   const save = async (r: Row) => {
-    const patch: Record<string, unknown> = {};
-    for (const c of cols.filter((x) => x.editable)) {
-      const v = values[c.key];
-      if (c.editable === 'angle') {
-        const text = String(v).trim();
-        if (text !== c.format!(r[c.key] as number)) patch[c.key] = text;
-        continue;
-      }
-      const next = c.editable === 'number' ? (v === '' ? null : Number(v)) : v;
-      if (next !== r[c.key]) patch[c.key] = next;
-    }
+    const patch = changedFields(cols, values, r);
     try {
       if (Object.keys(patch).length) await sendRecord('PATCH', `${path}/${r.id}`, patch);
       setEditing(null);
@@ -151,57 +238,24 @@ function RecordTable({
             {cols.map((c) => (
               <td key={c.key}>
                 {editing === r.id && c.editable ? (
-                  <>
-                    {c.editable === 'boolean' ? (
-                      <input
-                        type="checkbox"
-                        aria-label={c.label}
-                        checked={Boolean(values[c.key])}
-                        onChange={(e) => setValues({ ...values, [c.key]: e.currentTarget.checked })}
-                      />
-                    ) : (
-                      <input
-                        aria-label={c.label}
-                        name={c.key}
-                        {...({ type: c.editable === 'number' ? 'number' : 'text' } as object)}
-                        step="any"
-                        value={String(values[c.key] ?? '')}
-                        aria-invalid={!!msgs[c.key]}
-                        onInput={(e) => setValues({ ...values, [c.key]: e.currentTarget.value })}
-                      />
-                    )}
-                    {msgs[c.key] && <span class="field-msg">{msgs[c.key]}</span>}
-                  </>
-                ) : typeof r[c.key] === 'boolean' ? (
-                  r[c.key] ? (
-                    'yes'
-                  ) : (
-                    'no'
-                  )
-                ) : typeof r[c.key] === 'number' ? (
-                  (c.format ?? plainNumber)(r[c.key] as number)
+                  <EditField
+                    col={c}
+                    value={values[c.key]}
+                    message={msgs[c.key]}
+                    onChange={(v) => setValues({ ...values, [c.key]: v })}
+                  />
                 ) : (
-                  String(r[c.key] ?? c.empty ?? 'not given')
+                  shownValue(c, r[c.key])
                 )}
               </td>
             ))}
             {lead && (
-              <td class="actions">
-                {editing === r.id ? (
-                  <>
-                    <button type="button" class="primary" onClick={() => save(r)}>
-                      Save
-                    </button>
-                    <button type="button" onClick={() => setEditing(null)}>
-                      Cancel
-                    </button>
-                  </>
-                ) : (
-                  <button type="button" onClick={() => start(r)}>
-                    Edit
-                  </button>
-                )}
-              </td>
+              <RowActions
+                editing={editing === r.id}
+                onEdit={() => start(r)}
+                onSave={() => save(r)}
+                onCancel={() => setEditing(null)}
+              />
             )}
           </tr>
         ))}
@@ -280,50 +334,96 @@ function CsvImport({ onDone }: { onDone: () => void }) {
         </button>
       </div>
       <ErrorLine error={error} />
-      {report && (
-        <div
-          class={report.problems.length ? 'import-report bad' : 'import-report good'}
-          role="status"
-        >
-          {report.problems.length ? (
-            <p>
-              {plural(report.problems.length, 'problem')} in {plural(report.rows, 'row')}; nothing
-              was written.
-            </p>
-          ) : (
-            <p>
-              {plural(report.rows, 'row')}{' '}
-              {report.dryRun
-                ? 'checked, all good; nothing written yet'
-                : `imported (${report.written} written)`}
-              .
-            </p>
-          )}
-          {report.problems.length > 0 && (
-            <table class="data">
-              <thead>
-                <tr>
-                  <th>line</th>
-                  <th>column</th>
-                  <th>value</th>
-                  <th>rule</th>
-                </tr>
-              </thead>
-              <tbody>
-                {report.problems.map((p, i) => (
-                  <tr key={i}>
-                    <td>{p.line}</td>
-                    <td>{p.column}</td>
-                    <td>{JSON.stringify(p.value)}</td>
-                    <td>{p.rule}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          )}
-        </div>
+      {report && <ImportResult report={report} />}
+    </div>
+  );
+}
+
+/** What an import or check found: a one-line verdict, then every bad cell. */
+function ImportResult({ report }: { report: ImportReport }) {
+  return (
+    <div class={report.problems.length ? 'import-report bad' : 'import-report good'} role="status">
+      {report.problems.length ? (
+        <p>
+          {plural(report.problems.length, 'problem')} in {plural(report.rows, 'row')}; nothing was
+          written.
+        </p>
+      ) : (
+        <p>
+          {plural(report.rows, 'row')}{' '}
+          {report.dryRun
+            ? 'checked, all good; nothing written yet'
+            : `imported (${report.written} written)`}
+          .
+        </p>
+      )}
+      {report.problems.length > 0 && (
+        <table class="data">
+          <thead>
+            <tr>
+              <th>line</th>
+              <th>column</th>
+              <th>value</th>
+              <th>rule</th>
+            </tr>
+          </thead>
+          <tbody>
+            {report.problems.map((p, i) => (
+              <tr key={i}>
+                <td>{p.line}</td>
+                <td>{p.column}</td>
+                <td>{JSON.stringify(p.value)}</td>
+                <td>{p.rule}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
       )}
     </div>
+  );
+}
+
+/** Every orbit solution of every target, the current one of each marked. */
+function SolutionTable({ cat }: { cat: Catalogue }) {
+  return (
+    <table class="data">
+      <thead>
+        <tr>
+          <th>target</th>
+          <th>version</th>
+          <th>provenance</th>
+          <th>reference</th>
+          <th>P (yr)</th>
+          <th>e</th>
+          <th>a (″)</th>
+          <th>relativistic terms</th>
+        </tr>
+      </thead>
+      <tbody>
+        {cat.solutions.map((s) => (
+          <tr key={s.id} class={s.current ? 'current' : ''}>
+            <td>
+              <a href={`/targets/${s.targetId}`}>{cat.target(s.targetId)?.name}</a>
+            </td>
+            <td>
+              v{s.version}
+              {s.current && <span class="tag">current</span>}
+            </td>
+            <td>{s.provenance}</td>
+            <td>{s.reference || <span class="muted">none given</span>}</td>
+            <td>{elementText(s, 'periodYears')}</td>
+            <td>{elementText(s, 'eccentricity')}</td>
+            <td>{semiMajorAxisText(s)}</td>
+            <td>
+              {Object.entries(s.orbit.relativity ?? {})
+                .filter(([, v]) => v)
+                .map(([k]) => RELATIVITY_WORDS[k] ?? k)
+                .join(', ') || 'none'}
+            </td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
   );
 }
 
@@ -362,44 +462,7 @@ export function RecordsView() {
         </p>
       </Section>
       <Section title="Orbit solutions" id="orbit-solutions">
-        <table class="data">
-          <thead>
-            <tr>
-              <th>target</th>
-              <th>version</th>
-              <th>provenance</th>
-              <th>reference</th>
-              <th>P (yr)</th>
-              <th>e</th>
-              <th>a (″)</th>
-              <th>relativistic terms</th>
-            </tr>
-          </thead>
-          <tbody>
-            {cat.solutions.map((s) => (
-              <tr key={s.id} class={s.current ? 'current' : ''}>
-                <td>
-                  <a href={`/targets/${s.targetId}`}>{cat.target(s.targetId)?.name}</a>
-                </td>
-                <td>
-                  v{s.version}
-                  {s.current && <span class="tag">current</span>}
-                </td>
-                <td>{s.provenance}</td>
-                <td>{s.reference || <span class="muted">none given</span>}</td>
-                <td>{elementText(s, 'periodYears')}</td>
-                <td>{elementText(s, 'eccentricity')}</td>
-                <td>{semiMajorAxisText(s)}</td>
-                <td>
-                  {Object.entries(s.orbit.relativity ?? {})
-                    .filter(([, v]) => v)
-                    .map(([k]) => RELATIVITY_WORDS[k] ?? k)
-                    .join(', ') || 'none'}
-                </td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <SolutionTable cat={cat} />
         <p class="muted">
           New versions come from a fit on a target’s page, the form below or a CSV import (σ columns
           and a correlations cell carry the covariance); a target’s page switches the current one.
