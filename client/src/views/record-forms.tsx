@@ -3,6 +3,7 @@
  * details are shown beside the field they name, the typed values stay for correcting, and nothing
  * is stored unless the whole record is accepted.
  */
+import type { ComponentChildren } from 'preact';
 import { useState } from 'preact/hooks';
 import { BLOCK_KINDS } from '../../../descriptors/measurement-kinds.ts';
 import { fieldMessages, sendRecord } from '../api/client.ts';
@@ -104,6 +105,162 @@ const initialOf = (fields: FieldSpec[]) =>
     ]),
   ) as Record<string, Value>;
 
+/** The checkboxes of an `ids` field: one per stored record it may name. */
+function IdChoices({
+  f,
+  chosen,
+  choices,
+  set,
+}: {
+  f: FieldSpec;
+  chosen: number[];
+  choices: { id: number; name: string }[];
+  set: (k: string, v: Value) => void;
+}) {
+  return (
+    // biome-ignore lint/a11y/useSemanticElements: an inline group inside the form's grid row; a fieldset would break the row
+    <span class="id-choices" role="group" aria-label={f.label}>
+      {choices.map((o) => (
+        <label key={o.id} class="inline">
+          <input
+            type="checkbox"
+            checked={chosen.includes(o.id)}
+            onChange={(e) =>
+              set(
+                f.key,
+                e.currentTarget.checked ? [...chosen, o.id] : chosen.filter((x) => x !== o.id),
+              )
+            }
+          />{' '}
+          {o.name}
+        </label>
+      ))}
+    </span>
+  );
+}
+
+/** The control of one field, by its kind; `msgId` names the message beside it when there is one. */
+function FieldInput({
+  f,
+  v,
+  msgId,
+  ids,
+  set,
+}: {
+  f: FieldSpec;
+  v: Value | undefined;
+  msgId: string | undefined;
+  ids?: Record<string, { id: number; name: string }[]>;
+  set: (k: string, v: Value) => void;
+}) {
+  const common = { name: f.key, 'aria-invalid': !!msgId, 'aria-describedby': msgId };
+  const text = (e: { currentTarget: { value: string } }) => set(f.key, e.currentTarget.value);
+  switch (f.kind) {
+    case 'boolean':
+      return (
+        <input
+          type="checkbox"
+          {...common}
+          checked={Boolean(v)}
+          onChange={(e) => set(f.key, e.currentTarget.checked)}
+        />
+      );
+    case 'select':
+      return (
+        <select {...common} value={String(v)} onChange={text}>
+          {f.options!.map((o) => (
+            <option key={o.value} value={o.value}>
+              {o.label}
+            </option>
+          ))}
+        </select>
+      );
+    case 'textarea':
+    case 'mask':
+      return <textarea {...common} rows={2} value={String(v)} onInput={text} />;
+    case 'ids':
+      return <IdChoices f={f} chosen={v as number[]} choices={ids?.[f.key] ?? []} set={set} />;
+    case 'number':
+      return <input {...common} type="number" step="any" value={String(v)} onInput={text} />;
+    case 'date':
+      return <input {...common} type="date" value={String(v)} onInput={text} />;
+    default:
+      return <input {...common} type="text" value={String(v)} onInput={text} />;
+  }
+}
+
+/** One field: its label, control, hint and the message the server or the client gave it. */
+function FieldRow({
+  f,
+  msg,
+  msgId,
+  children,
+}: {
+  f: FieldSpec;
+  msg: string | undefined;
+  msgId: string;
+  children: ComponentChildren;
+}) {
+  // A list of checkboxes holds labels of its own, so its wrapper cannot be a label.
+  const Wrap = f.kind === 'ids' ? 'div' : 'label';
+  const wide = f.kind === 'ids' || f.kind === 'mask' || f.kind === 'textarea';
+  return (
+    <Wrap class={`field${wide ? ' wide' : ''}${msg ? ' invalid' : ''}`}>
+      <span>
+        {f.label}
+        {f.optional ? <span class="muted"> (optional)</span> : null}
+      </span>
+      {children}
+      {f.hint && <span class="muted hint">{f.hint}</span>}
+      {msg && (
+        <span class="field-msg" id={msgId}>
+          {msg}
+        </span>
+      )}
+    </Wrap>
+  );
+}
+
+/** The Add button and what came of the last try: the record made, or why nothing was stored. */
+function FormOutcome({
+  busy,
+  created,
+  unplaced,
+  error,
+  marked,
+  refused,
+}: {
+  busy: boolean;
+  created: string | null;
+  unplaced: string | undefined;
+  error: unknown;
+  /** Some field carries a message, so the general error line is not needed. */
+  marked: boolean;
+  refused: boolean;
+}) {
+  return (
+    <>
+      <div class="toolbar">
+        <button type="submit" class="primary" disabled={busy}>
+          Add
+        </button>
+        {created && (
+          <span class="created" role="status">
+            {created}
+          </span>
+        )}
+      </div>
+      {unplaced && (
+        <p class="field-msg" role="alert">
+          {unplaced}
+        </p>
+      )}
+      {error !== null && !marked ? <ErrorLine error={error} /> : null}
+      {refused && <p class="muted">Nothing was stored; correct the marked fields and add again.</p>}
+    </>
+  );
+}
+
 export function CreateForm({
   title,
   path,
@@ -147,146 +304,32 @@ export function CreateForm({
       setBusy(false);
     }
   };
-  const input = (f: FieldSpec) => {
-    const v = values[f.key];
-    const common = {
-      name: f.key,
-      'aria-invalid': !!msgs[f.key],
-      'aria-describedby': msgs[f.key] ? `${path.slice(1)}-${f.key}-msg` : undefined,
-    };
-    switch (f.kind) {
-      case 'boolean':
-        return (
-          <input
-            type="checkbox"
-            {...common}
-            checked={Boolean(v)}
-            onChange={(e) => set(f.key, e.currentTarget.checked)}
-          />
-        );
-      case 'select':
-        return (
-          <select {...common} value={String(v)} onChange={(e) => set(f.key, e.currentTarget.value)}>
-            {f.options!.map((o) => (
-              <option key={o.value} value={o.value}>
-                {o.label}
-              </option>
-            ))}
-          </select>
-        );
-      case 'textarea':
-      case 'mask':
-        return (
-          <textarea
-            {...common}
-            rows={2}
-            value={String(v)}
-            onInput={(e) => set(f.key, e.currentTarget.value)}
-          />
-        );
-      case 'ids': {
-        const chosen = v as number[];
-        return (
-          // biome-ignore lint/a11y/useSemanticElements: an inline group inside the form's grid row; a fieldset would break the row
-          <span class="id-choices" role="group" aria-label={f.label}>
-            {(ids?.[f.key] ?? []).map((o) => (
-              <label key={o.id} class="inline">
-                <input
-                  type="checkbox"
-                  checked={chosen.includes(o.id)}
-                  onChange={(e) =>
-                    set(
-                      f.key,
-                      e.currentTarget.checked
-                        ? [...chosen, o.id]
-                        : chosen.filter((x) => x !== o.id),
-                    )
-                  }
-                />{' '}
-                {o.name}
-              </label>
-            ))}
-          </span>
-        );
-      }
-      case 'number':
-        return (
-          <input
-            {...common}
-            type="number"
-            step="any"
-            value={String(v)}
-            onInput={(e) => set(f.key, e.currentTarget.value)}
-          />
-        );
-      case 'date':
-        return (
-          <input
-            {...common}
-            type="date"
-            value={String(v)}
-            onInput={(e) => set(f.key, e.currentTarget.value)}
-          />
-        );
-      default:
-        return (
-          <input
-            {...common}
-            type="text"
-            value={String(v)}
-            onInput={(e) => set(f.key, e.currentTarget.value)}
-          />
-        );
-    }
-  };
-  const unplaced = msgs['(form)'];
+  const msgIdOf = (f: FieldSpec) => `${path.slice(1)}-${f.key}-msg`;
   return (
     <form class="create-form" aria-label={title} onSubmit={submit} noValidate>
       <fieldset>
         <legend>{title}</legend>
         <div class="field-grid">
-          {fields.map((f) => {
-            // A list of checkboxes holds labels of its own, so its wrapper cannot be a label.
-            const Wrap = f.kind === 'ids' ? 'div' : 'label';
-            return (
-              <Wrap
-                key={f.key}
-                class={`field${f.kind === 'ids' || f.kind === 'mask' || f.kind === 'textarea' ? ' wide' : ''}${msgs[f.key] ? ' invalid' : ''}`}
-              >
-                <span>
-                  {f.label}
-                  {f.optional ? <span class="muted"> (optional)</span> : null}
-                </span>
-                {input(f)}
-                {f.hint && <span class="muted hint">{f.hint}</span>}
-                {msgs[f.key] && (
-                  <span class="field-msg" id={`${path.slice(1)}-${f.key}-msg`}>
-                    {msgs[f.key]}
-                  </span>
-                )}
-              </Wrap>
-            );
-          })}
+          {fields.map((f) => (
+            <FieldRow key={f.key} f={f} msg={msgs[f.key]} msgId={msgIdOf(f)}>
+              <FieldInput
+                f={f}
+                v={values[f.key]}
+                msgId={msgs[f.key] ? msgIdOf(f) : undefined}
+                ids={ids}
+                set={set}
+              />
+            </FieldRow>
+          ))}
         </div>
-        <div class="toolbar">
-          <button type="submit" class="primary" disabled={busy}>
-            Add
-          </button>
-          {created && (
-            <span class="created" role="status">
-              {created}
-            </span>
-          )}
-        </div>
-        {unplaced && (
-          <p class="field-msg" role="alert">
-            {unplaced}
-          </p>
-        )}
-        {error !== null && !Object.keys(msgs).length ? <ErrorLine error={error} /> : null}
-        {(error !== null || local) && (
-          <p class="muted">Nothing was stored; correct the marked fields and add again.</p>
-        )}
+        <FormOutcome
+          busy={busy}
+          created={created}
+          unplaced={msgs['(form)']}
+          error={error}
+          marked={Object.keys(msgs).length > 0}
+          refused={error !== null || local !== null}
+        />
       </fieldset>
     </form>
   );
