@@ -38,6 +38,113 @@ function lightTimeHours(r: FitPreview['result']): number | null {
   return (next - (t + Math.round((next - t) / p) * p)) * 24;
 }
 
+/** Fit, store and discard, and what the last store did. */
+function FitActions({
+  fitted,
+  lead,
+  busy,
+  status,
+  onPreview,
+  onAccept,
+  onDiscard,
+}: {
+  fitted: boolean;
+  lead: boolean;
+  busy: boolean;
+  status: string;
+  onPreview: () => void;
+  onAccept: () => void;
+  onDiscard: () => void;
+}) {
+  return (
+    <div class="toolbar">
+      <button type="button" disabled={busy} onClick={onPreview}>
+        {fitted ? 'Fit again' : 'Fit the stored measurements'}
+      </button>
+      {fitted && lead && (
+        <button type="button" class="primary" disabled={busy} onClick={onAccept}>
+          Store as the current solution
+        </button>
+      )}
+      {fitted && (
+        <button type="button" disabled={busy} onClick={onDiscard}>
+          Discard fit
+        </button>
+      )}
+      {busy && <span class="loading">fitting…</span>}
+      {status && (
+        <span class="save-status" role="status">
+          {status}
+        </span>
+      )}
+    </div>
+  );
+}
+
+/** Each fitted parameter to the digits its σ supports; an epoch as its UTC date, σ in days. */
+function ParameterTable({ parameters }: { parameters: FitPreview['result']['parameters'] }) {
+  return (
+    <table class="data fit-parameters">
+      <thead>
+        <tr>
+          <th>parameter</th>
+          <th>value</th>
+          <th>1σ</th>
+          <th>unit</th>
+        </tr>
+      </thead>
+      <tbody>
+        {parameters.map((p) => (
+          <tr key={p.name}>
+            <td>{parameterWords(p.name)}</td>
+            <td>
+              {p.unit.startsWith('JD')
+                ? `${utcText(isoOfJd(p.value))} UTC (JD ${p.value.toFixed(2)})`
+                : valueText(p.value, p.sigma).split(' ± ')[0]}
+            </td>
+            <td>{valueText(p.sigma, null, 2)}</td>
+            <td>
+              {p.unit.startsWith('JD')
+                ? 'date; σ in days'
+                : p.unit || <Blank why="a pure number: no unit" />}
+            </td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+/** How well the fit went, the light-time note where it applies, and the fitted parameters. */
+function FitResult({ fit }: { fit: FitPreview }) {
+  const r = fit.result;
+  const lightTime = lightTimeHours(r);
+  return (
+    <>
+      <p>
+        {plural(fit.targets[0]?.measurementIds.length ?? 0, 'measurement')} · χ²{' '}
+        <Qty v={r.chi2} unit="" digits={2} /> for {r.dof} degrees of freedom (reduced{' '}
+        <Qty v={r.reducedChi2} unit="" digits={2} />) ·{' '}
+        {r.converged ? `converged in ${plural(r.iterations, 'iteration')}` : 'did not converge'} ·{' '}
+        {plural(r.outliers, 'outlier')}
+        {r.stars[0]?.nextPeriapsis && (
+          <> · next periapsis {utcText(r.stars[0].nextPeriapsis)} UTC as observed</>
+        )}
+        . The fitted track is drawn dashed on the sky plane.
+      </p>
+      {r.stars[0]?.orbit.relativity?.romer && lightTime !== null && (
+        <p class="muted">
+          T is when the star passes periapsis; the next periapsis is when that passage is seen from
+          Earth, {Math.abs(lightTime).toFixed(1)} h {lightTime < 0 ? 'earlier' : 'later'} than T
+          plus whole periods: the light-travel time across the orbit (Rømer delay).
+        </p>
+      )}
+      <ParameterTable parameters={r.parameters} />
+      <p class="muted">{r.method}</p>
+    </>
+  );
+}
+
 export function FitPanel({
   targetId,
   trackEpochs,
@@ -79,91 +186,22 @@ export function FitPanel({
       invalidateCatalogue();
       onStored();
     });
-  const r = fit?.result;
-  const lightTime = r ? lightTimeHours(r) : null;
   return (
     <div class="fit-panel">
-      <div class="toolbar">
-        <button type="button" disabled={busy} onClick={preview}>
-          {fit ? 'Fit again' : 'Fit the stored measurements'}
-        </button>
-        {fit && lead && (
-          <button type="button" class="primary" disabled={busy} onClick={accept}>
-            Store as the current solution
-          </button>
-        )}
-        {fit && (
-          <button
-            type="button"
-            disabled={busy}
-            onClick={() => {
-              setFit(null);
-              onFittedTrack(null);
-            }}
-          >
-            Discard fit
-          </button>
-        )}
-        {busy && <span class="loading">fitting…</span>}
-        {status && (
-          <span class="save-status" role="status">
-            {status}
-          </span>
-        )}
-      </div>
+      <FitActions
+        fitted={fit !== null}
+        lead={lead}
+        busy={busy}
+        status={status}
+        onPreview={preview}
+        onAccept={accept}
+        onDiscard={() => {
+          setFit(null);
+          onFittedTrack(null);
+        }}
+      />
       <ErrorLine error={error} />
-      {r && (
-        <>
-          <p>
-            {plural(fit!.targets[0]?.measurementIds.length ?? 0, 'measurement')} · χ²{' '}
-            <Qty v={r.chi2} unit="" digits={2} /> for {r.dof} degrees of freedom (reduced{' '}
-            <Qty v={r.reducedChi2} unit="" digits={2} />) ·{' '}
-            {r.converged ? `converged in ${plural(r.iterations, 'iteration')}` : 'did not converge'}{' '}
-            · {plural(r.outliers, 'outlier')}
-            {r.stars[0]?.nextPeriapsis && (
-              <> · next periapsis {utcText(r.stars[0].nextPeriapsis)} UTC as observed</>
-            )}
-            . The fitted track is drawn dashed on the sky plane.
-          </p>
-          {r.stars[0]?.orbit.relativity?.romer && lightTime !== null && (
-            <p class="muted">
-              T is when the star passes periapsis; the next periapsis is when that passage is seen
-              from Earth, {Math.abs(lightTime).toFixed(1)} h {lightTime < 0 ? 'earlier' : 'later'}{' '}
-              than T plus whole periods: the light-travel time across the orbit (Rømer delay).
-            </p>
-          )}
-          <table class="data fit-parameters">
-            <thead>
-              <tr>
-                <th>parameter</th>
-                <th>value</th>
-                <th>1σ</th>
-                <th>unit</th>
-              </tr>
-            </thead>
-            <tbody>
-              {r.parameters.map((p) => (
-                <tr key={p.name}>
-                  <td>{parameterWords(p.name)}</td>
-                  {/* The value to the digits its σ supports; an epoch as its UTC date, σ in days. */}
-                  <td>
-                    {p.unit.startsWith('JD')
-                      ? `${utcText(isoOfJd(p.value))} UTC (JD ${p.value.toFixed(2)})`
-                      : valueText(p.value, p.sigma).split(' ± ')[0]}
-                  </td>
-                  <td>{valueText(p.sigma, null, 2)}</td>
-                  <td>
-                    {p.unit.startsWith('JD')
-                      ? 'date; σ in days'
-                      : p.unit || <Blank why="a pure number: no unit" />}
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-          <p class="muted">{r.method}</p>
-        </>
-      )}
+      {fit && <FitResult fit={fit} />}
     </div>
   );
 }
