@@ -28,6 +28,157 @@ function kindInputs(kind: Kind): { key: string; label: string }[] {
   ];
 }
 
+/** The middle of a block, the epoch a measurement takes when none is typed. */
+const middleOf = (b: BlockRow) =>
+  new Date((Date.parse(b.startUtc) + Date.parse(b.endUtc)) / 2).toISOString();
+
+/**
+ * The measurement to post: the kind's typed numbers, the body picked (the kind's first when it
+ * does not allow that one), and the epoch typed or else the block's middle.
+ */
+function measurementBody(
+  block: BlockRow,
+  kind: Kind,
+  component: MeasuredComponent,
+  values: Record<string, string>,
+): Record<string, unknown> {
+  const components = describeKind(kind).components;
+  const nums = Object.fromEntries(
+    kindInputs(kind)
+      .filter((f) => (values[f.key] ?? '') !== '')
+      .map((f) => [f.key, Number(values[f.key])]),
+  );
+  return {
+    targetId: block.targetId,
+    blockId: block.id,
+    kind,
+    component: components.includes(component) ? component : components[0]!,
+    epoch: values.epoch || middleOf(block),
+    instrument: values.instrument ?? '',
+    ...nums,
+  };
+}
+
+/** One typed value of the form, with the server's message beside it. */
+function MeasureField({
+  name,
+  label,
+  type,
+  value,
+  message,
+  onInput,
+}: {
+  name: string;
+  label: string;
+  type: 'number' | 'text';
+  value: string;
+  message: string | undefined;
+  onInput: (v: string) => void;
+}) {
+  return (
+    <label class={message ? 'field invalid' : 'field'}>
+      <span>{label}</span>
+      <input
+        name={name}
+        {...({ type } as object)}
+        step="any"
+        value={value}
+        aria-invalid={!!message}
+        onInput={(e) => onInput(e.currentTarget.value)}
+      />
+      {message && <span class="field-msg">{message}</span>}
+    </label>
+  );
+}
+
+function ComponentChoice({
+  component,
+  components,
+  message,
+  onComponent,
+}: {
+  component: MeasuredComponent;
+  components: readonly MeasuredComponent[];
+  message: string | undefined;
+  onComponent: (c: MeasuredComponent) => void;
+}) {
+  return (
+    <label class={message ? 'field invalid' : 'field'}>
+      <span>of which body</span>
+      <select
+        name="component"
+        value={component}
+        onChange={(e) => onComponent(e.currentTarget.value as MeasuredComponent)}
+      >
+        {components.map((c) => (
+          <option key={c} value={c}>
+            {COMPONENT_TEXT[c]}
+          </option>
+        ))}
+      </select>
+      {message && <span class="field-msg">{message}</span>}
+    </label>
+  );
+}
+
+/** Which block, which kind of measurement and, where the kind allows several, which body. */
+function MeasurementChoices({
+  blocks,
+  cat,
+  blockId,
+  kind,
+  component,
+  components,
+  message,
+  onBlock,
+  onKind,
+  onComponent,
+}: {
+  blocks: BlockRow[];
+  cat: Catalogue;
+  blockId: number;
+  kind: Kind;
+  component: MeasuredComponent;
+  components: readonly MeasuredComponent[];
+  message: string | undefined;
+  onBlock: (id: number) => void;
+  onKind: (k: Kind) => void;
+  onComponent: (c: MeasuredComponent) => void;
+}) {
+  return (
+    <>
+      <label class="field">
+        <span>block</span>
+        <select value={blockId} onChange={(e) => onBlock(Number(e.currentTarget.value))}>
+          {blocks.map((b) => (
+            <option key={b.id} value={b.id}>
+              {cat.target(b.targetId)?.name} {b.kind} {b.startUtc.slice(11, 16)} UTC
+            </option>
+          ))}
+        </select>
+      </label>
+      <label class="field">
+        <span>kind</span>
+        <select value={kind} onChange={(e) => onKind(e.currentTarget.value as Kind)}>
+          {MEASUREMENT_KIND_NAMES.map((k) => (
+            <option key={k} value={k}>
+              {describeKind(k).label}
+            </option>
+          ))}
+        </select>
+      </label>
+      {components.length > 1 && (
+        <ComponentChoice
+          component={component}
+          components={components}
+          message={message}
+          onComponent={onComponent}
+        />
+      )}
+    </>
+  );
+}
+
 function AddMeasurement({
   blocks,
   cat,
@@ -48,25 +199,12 @@ function AddMeasurement({
   const [error, setError] = useState<unknown>(null);
   const msgs = fieldMessages(error);
   const block = blocks.find((b) => b.id === blockId) ?? first;
-  const mid = new Date((Date.parse(block.startUtc) + Date.parse(block.endUtc)) / 2).toISOString();
+  const mid = middleOf(block);
   const submit = async (e: Event) => {
     e.preventDefault();
     setError(null);
-    const nums = Object.fromEntries(
-      kindInputs(kind)
-        .filter((f) => (values[f.key] ?? '') !== '')
-        .map((f) => [f.key, Number(values[f.key])]),
-    );
     try {
-      await sendRecord('POST', '/measurements', {
-        targetId: block.targetId,
-        blockId: block.id,
-        kind,
-        component: components.includes(component) ? component : components[0]!,
-        epoch: values.epoch || mid,
-        instrument: values.instrument ?? '',
-        ...nums,
-      });
+      await sendRecord('POST', '/measurements', measurementBody(block, kind, component, values));
       setValues({ instrument: values.instrument ?? '' });
       onAdded();
     } catch (err) {
@@ -74,59 +212,31 @@ function AddMeasurement({
     }
   };
   const field = (key: string, label: string, type: 'number' | 'text' = 'number') => (
-    <label key={key} class={msgs[key] ? 'field invalid' : 'field'}>
-      <span>{label}</span>
-      <input
-        name={key}
-        {...({ type } as object)}
-        step="any"
-        value={values[key] ?? ''}
-        aria-invalid={!!msgs[key]}
-        onInput={(e) => setValues({ ...values, [key]: e.currentTarget.value })}
-      />
-      {msgs[key] && <span class="field-msg">{msgs[key]}</span>}
-    </label>
+    <MeasureField
+      key={key}
+      name={key}
+      label={label}
+      type={type}
+      value={values[key] ?? ''}
+      message={msgs[key]}
+      onInput={(v) => setValues({ ...values, [key]: v })}
+    />
   );
   return (
     <form class="measurement-form" onSubmit={submit} noValidate>
       <div class="field-grid">
-        <label class="field">
-          <span>block</span>
-          <select value={blockId} onChange={(e) => setBlockId(Number(e.currentTarget.value))}>
-            {blocks.map((b) => (
-              <option key={b.id} value={b.id}>
-                {cat.target(b.targetId)?.name} {b.kind} {b.startUtc.slice(11, 16)} UTC
-              </option>
-            ))}
-          </select>
-        </label>
-        <label class="field">
-          <span>kind</span>
-          <select value={kind} onChange={(e) => setKind(e.currentTarget.value as Kind)}>
-            {MEASUREMENT_KIND_NAMES.map((k) => (
-              <option key={k} value={k}>
-                {describeKind(k).label}
-              </option>
-            ))}
-          </select>
-        </label>
-        {components.length > 1 && (
-          <label class={msgs.component ? 'field invalid' : 'field'}>
-            <span>of which body</span>
-            <select
-              name="component"
-              value={component}
-              onChange={(e) => setComponent(e.currentTarget.value as MeasuredComponent)}
-            >
-              {components.map((c) => (
-                <option key={c} value={c}>
-                  {COMPONENT_TEXT[c]}
-                </option>
-              ))}
-            </select>
-            {msgs.component && <span class="field-msg">{msgs.component}</span>}
-          </label>
-        )}
+        <MeasurementChoices
+          blocks={blocks}
+          cat={cat}
+          blockId={blockId}
+          kind={kind}
+          component={component}
+          components={components}
+          message={msgs.component}
+          onBlock={setBlockId}
+          onKind={setKind}
+          onComponent={setComponent}
+        />
         {field(
           'epoch',
           `epoch (ISO 8601 with its zone or offset, JD, MJD, or a decimal year; empty: the block’s middle, ${mid.slice(11, 16)} UTC)`,
