@@ -25,6 +25,56 @@ export interface TargetData {
   periodYears: number | null;
 }
 
+/**
+ * The plotted span, ms since 1970: one full orbit (period in years, > 0) centred on `now`, or
+ * longer to cover every measurement and planned epoch in `times`.
+ */
+function plotSpan(periodYears: number, now: number, times: number[]): { t0: number; t1: number } {
+  const half = (periodYears * 365.25 * DAY) / 2;
+  return { t0: Math.min(now - half, ...times), t1: Math.max(now + half, ...times) };
+}
+
+/** The track's epochs: TRACK_POINTS equal steps from t0 to t1 (ms), both ends included. */
+const trackEpochs = (t0: number, t1: number) =>
+  Array.from({ length: TRACK_POINTS + 1 }, (_, i) =>
+    new Date(t0 + ((t1 - t0) * i) / TRACK_POINTS).toISOString(),
+  );
+
+/** New Year's Days inside t0..t1 (ms), thinned to at most about 16 ticks. */
+function yearTicks(t0: number, t1: number): string[] {
+  const y0 = new Date(t0).getUTCFullYear() + 1;
+  const y1 = new Date(t1).getUTCFullYear();
+  const every = Math.max(1, Math.ceil((y1 - y0 + 1) / 16));
+  const ticks: string[] = [];
+  for (let y = y0; y <= y1; y += every) ticks.push(`${y}-01-01T00:00:00Z`);
+  return ticks;
+}
+
+/** Cut one batch of predictions back into the runs of epochs it was asked for, in order. */
+function splitRuns(p: Prediction[], lengths: number[]): Prediction[][] {
+  const runs: Prediction[][] = [];
+  let k = 0;
+  for (const n of lengths) {
+    runs.push(p.slice(k, k + n));
+    k += n;
+  }
+  return runs;
+}
+
+async function periapsisEpochs(targetId: number, t0: number, t1: number): Promise<string[]> {
+  const events = await api.GET('/targets/{id}/events', {
+    params: {
+      path: { id: targetId },
+      query: {
+        start: new Date(t0).toISOString(),
+        end: new Date(t1).toISOString(),
+        kinds: 'periapsis',
+      },
+    },
+  });
+  return events.events.map((e) => e.epoch);
+}
+
 export async function loadTargetData(cat: Catalogue, targetId: number): Promise<TargetData> {
   const solution = cat.currentSolution(targetId);
   const [measurements, blocks] = await Promise.all([
@@ -47,59 +97,31 @@ export async function loadTargetData(cat: Catalogue, targetId: number): Promise<
   if (!solution) return empty;
   const periodYears = Number(solution.orbit.elements.periodYears);
   if (!Number.isFinite(periodYears) || periodYears <= 0) return empty;
-  // One full orbit centred on now, or longer to cover every measurement and planned epoch.
-  const now = Date.now();
-  const half = (periodYears * 365.25 * DAY) / 2;
-  const times = [
+  const { t0, t1 } = plotSpan(periodYears, Date.now(), [
     ...measurements.map((m) => Date.parse(m.epoch)),
     ...planned.map((b) => Date.parse(b.startUtc)),
-  ];
-  const t0 = Math.min(now - half, ...times);
-  const t1 = Math.max(now + half, ...times);
-  const track = Array.from({ length: TRACK_POINTS + 1 }, (_, i) =>
-    new Date(t0 + ((t1 - t0) * i) / TRACK_POINTS).toISOString(),
-  );
-  const y0 = new Date(t0).getUTCFullYear() + 1;
-  const y1 = new Date(t1).getUTCFullYear();
-  const every = Math.max(1, Math.ceil((y1 - y0 + 1) / 16));
-  const ticks: string[] = [];
-  for (let y = y0; y <= y1; y += every) ticks.push(`${y}-01-01T00:00:00Z`);
+  ]);
+  const track = trackEpochs(t0, t1);
+  const ticks = yearTicks(t0, t1);
   const mEpochs = measurements.map((m) => m.epoch);
   const pEpochs = planned.map((b) =>
     new Date((Date.parse(b.startUtc) + Date.parse(b.endUtc)) / 2).toISOString(),
   );
-  const events = await api.GET('/targets/{id}/events', {
-    params: {
-      path: { id: targetId },
-      query: {
-        start: new Date(t0).toISOString(),
-        end: new Date(t1).toISOString(),
-        kinds: 'periapsis',
-      },
-    },
-  });
-  const periEpochs = events.events.map((e) => e.epoch);
-  const epochs = [...track, ...ticks, ...mEpochs, ...pEpochs, ...periEpochs];
+  const periEpochs = await periapsisEpochs(targetId, t0, t1);
+  const runs = [track, ticks, mEpochs, pEpochs, periEpochs];
   const hasRelativity = Object.values(solution.orbit.relativity ?? {}).some(Boolean);
   const [main, plain] = await Promise.all([
-    api.POST('/ephemeris', { body: { orbit: solution.orbit, epochs } }),
+    api.POST('/ephemeris', { body: { orbit: solution.orbit, epochs: runs.flat() } }),
     hasRelativity
       ? api.POST('/ephemeris', {
           body: { orbit: { ...solution.orbit, relativity: {} }, epochs: track },
         })
       : Promise.resolve(null),
   ]);
-  const p = main.predictions;
-  let k = 0;
-  const take = (n: number) => {
-    k += n;
-    return p.slice(k - n, k);
-  };
-  const trackP = take(track.length);
-  const tickP = take(ticks.length);
-  const mP = take(mEpochs.length);
-  const plP = take(pEpochs.length);
-  const periP = take(periEpochs.length);
+  const [trackP, tickP, mP, plP, periP] = splitRuns(
+    main.predictions,
+    runs.map((r) => r.length),
+  ) as [Prediction[], Prediction[], Prediction[], Prediction[], Prediction[]];
   return {
     solution,
     measurements,
