@@ -4,10 +4,9 @@
  * reason (written nowhere); POST /campaigns/{id}/allocations: the same, stored in one
  * transaction, or nothing when any night is refused (lead: it shapes the campaign).
  */
-import { createRoute, z } from '@hono/zod-openapi';
+import { z } from '@hono/zod-openapi';
 import { MOST_NIGHTS_PER_REQUEST, type Store } from '../../store/index.ts';
-import { requireRole, writer } from '../auth.ts';
-import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { previewAcceptRoutes } from './preview-accept.ts';
 import { NightRowSchema } from './nights.ts';
 
 const date = (d: string) => z.iso.date().openapi({ description: d });
@@ -95,49 +94,24 @@ const StoredSchema = PreviewSchema.extend({ created: z.array(NightRowSchema) })
   .openapi('AllocationStored');
 
 export function allocationRoutes(store: Store) {
-  const app = resourceApp();
-  const body = { content: { 'application/json': { schema: AllocationBody } }, required: true };
-  app.openapi(
-    createRoute({
-      method: 'post',
+  return previewAcceptRoutes({
+    tag: 'campaigns',
+    body: AllocationBody,
+    preview: {
       path: '/campaigns/{id}/allocations/preview',
-      tags: ['campaigns'],
-      security,
       summary: 'Preview allocated nights from a pattern, a CSV file or an iCalendar schedule',
-      request: { params: IdParam, body },
-      responses: {
-        200: json(PreviewSchema, 'each night: new, already allocated, or refused and why'),
-        ...errorResponses,
-      },
-    }),
-    async (c) => {
-      requireRole(c, 'viewer');
-      return c.json(
-        await store.allocations.preview(c.req.valid('param').id, c.req.valid('json')),
-        200,
-      );
+      role: 'viewer',
+      response: PreviewSchema,
+      answers: 'each night: new, already allocated, or refused and why',
+      run: (id, request) => store.allocations.preview(id, request),
     },
-  );
-  app.openapi(
-    createRoute({
-      method: 'post',
+    accept: {
       path: '/campaigns/{id}/allocations',
-      tags: ['campaigns'],
-      security,
       summary: 'Store allocated nights, all or none (422 naming each refused night)',
-      request: { params: IdParam, body },
-      responses: {
-        201: json(StoredSchema, 'the nights stored'),
-        ...errorResponses,
-      },
-    }),
-    async (c) => {
-      const actor = writer(c, 'lead');
-      return c.json(
-        await store.allocations.accept(actor, c.req.valid('param').id, c.req.valid('json')),
-        201,
-      );
+      role: 'lead',
+      response: StoredSchema,
+      answers: 'the nights stored',
+      run: (actor, id, request) => store.allocations.accept(actor, id, request),
     },
-  );
-  return app;
+  });
 }

@@ -14,6 +14,7 @@ export function resourceApp() {
   app.onError((err, c) => errorResponse(c, err));
   return app;
 }
+export type ResourceApp = ReturnType<typeof resourceApp>;
 
 export const security = [{ bearer: [] }];
 export { errorResponses, json };
@@ -82,7 +83,7 @@ export function crudRoutes<T, Q extends z.ZodObject>(spec: ResourceSpec<T, Q>) {
 
 /** The list (one page, filtered) and the one-record read. */
 function addCrudReads<T, Q extends z.ZodObject>(
-  app: ReturnType<typeof resourceApp>,
+  app: ResourceApp,
   spec: ResourceSpec<T, Q>,
   view: (r: T) => Promise<unknown>,
 ): void {
@@ -126,7 +127,7 @@ function addCrudReads<T, Q extends z.ZodObject>(
 
 /** Create, change (with the version read, for versioned entities) and delete, by the writing role. */
 function addCrudWrites<T, Q extends z.ZodObject>(
-  app: ReturnType<typeof resourceApp>,
+  app: ResourceApp,
   spec: ResourceSpec<T, Q>,
   view: (r: T) => Promise<unknown>,
 ): void {

@@ -5,18 +5,13 @@
  * (observer, as for blocks). Which stored blocks it replaces: server/store/views/plan-scope.ts.
  */
 import type { Runner } from '../../jobs/tasks.ts';
-import { createRoute, z } from '@hono/zod-openapi';
+import { z } from '@hono/zod-openapi';
 import { SCHEDULE_METHODS } from '../../science/plan/index.ts';
-import {
-  ACCEPT_AT_TOLERANCE_MINUTES,
-  type NightScheduleRequest,
-  type Store,
-} from '../../store/index.ts';
-import { requireRole, writer } from '../auth.ts';
-import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { ACCEPT_AT_TOLERANCE_MINUTES, type Store } from '../../store/index.ts';
+import { digestField, previewAcceptRoutes, splitAt } from './preview-accept.ts';
 import { BlockRowSchema } from './nights.ts';
 import { CandidateSchema, NightSchedulePreviewSchema } from '../schemas/plan-output.ts';
-import { momentJd, nowMs } from '../../clock.ts';
+import { nowMs } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const NightScheduleBody = z
@@ -59,62 +54,39 @@ export const NightScheduleBody = z
           `before it are kept. Accept refuses (422) a moment more than ` +
           `${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock`,
       }),
-    digest: z.string().optional().openapi({
-      description: 'accept only: the preview’s digest; 409 if the schedule would now differ',
-    }),
+    digest: digestField('schedule'),
   })
   .strict();
 
 const Accepted = NightSchedulePreviewSchema.extend({ written: z.array(BlockRowSchema) }).strict();
 
-/** The body without `at`, and `at` as JD (default: the clock). */
-function split({ at, ...body }: z.output<typeof NightScheduleBody>) {
-  return { body: body satisfies NightScheduleRequest, atJd: momentJd(at, 'at') };
-}
-
 export function nightScheduleRoutes(store: Store, run: Runner) {
-  const app = resourceApp();
-  const body = { content: { 'application/json': { schema: NightScheduleBody } }, required: true };
-  app.openapi(
-    createRoute({
-      method: 'post',
+  return previewAcceptRoutes({
+    tag: 'planning',
+    body: NightScheduleBody,
+    preview: {
       path: '/nights/{id}/schedule',
-      tags: ['planning'],
-      security,
       summary:
         'Preview the schedule of a stored night: blocks in darkness, every left-out block with ' +
         'its reason, laser and Sun cautions',
-      request: { params: IdParam, body },
-      responses: {
-        200: json(NightSchedulePreviewSchema, 'the schedule, written nowhere'),
-        ...errorResponses,
+      role: 'viewer',
+      response: NightSchedulePreviewSchema,
+      answers: 'the schedule, written nowhere',
+      run: (id, request) => {
+        const { body, atJd } = splitAt(request);
+        return store.plans.previewNight(id, body, atJd, run);
       },
-    }),
-    async (c) => {
-      requireRole(c, 'viewer');
-      const { body: b, atJd } = split(c.req.valid('json'));
-      return c.json(await store.plans.previewNight(c.req.valid('param').id, b, atJd, run), 200);
     },
-  );
-  app.openapi(
-    createRoute({
-      method: 'post',
+    accept: {
       path: '/nights/{id}/schedule/accept',
-      tags: ['planning'],
-      security,
       summary: 'Store the night’s schedule in place of its still-planned blocks (all or nothing)',
-      request: { params: IdParam, body },
-      responses: {
-        201: json(Accepted, 'the schedule with the blocks written'),
-        ...errorResponses,
+      role: 'observer',
+      response: Accepted,
+      answers: 'the schedule with the blocks written',
+      run: (actor, id, request) => {
+        const { body, atJd } = splitAt(request);
+        return store.plans.acceptNight(actor, id, body, atJd, nowMs(), run);
       },
-    }),
-    async (c) => {
-      const actor = writer(c, 'observer');
-      const { body: b, atJd } = split(c.req.valid('json'));
-      const id = c.req.valid('param').id;
-      return c.json(await store.plans.acceptNight(actor, id, b, atJd, nowMs(), run), 201);
     },
-  );
-  return app;
+  });
 }

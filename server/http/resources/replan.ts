@@ -4,14 +4,13 @@
  * computed again and stored in one transaction (lead), with the preview's digest. The season
  * plan's rules apply: only blocks that are still plans are replaced.
  */
-import { createRoute, z } from '@hono/zod-openapi';
+import { z } from '@hono/zod-openapi';
 import type { Runner } from '../../jobs/tasks.ts';
 import { WEATHER_CHOICES, type Store } from '../../store/index.ts';
-import { requireRole, writer } from '../auth.ts';
 import { SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
-import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { digestField, previewAcceptRoutes, splitAt } from './preview-accept.ts';
 import { BlockRowSchema, NightRowSchema } from './nights.ts';
-import { momentJd, nowMs } from '../../clock.ts';
+import { nowMs } from '../../clock.ts';
 
 const ReplanBody = z
   .object({
@@ -24,9 +23,7 @@ const ReplanBody = z
     weather: z.enum(WEATHER_CHOICES).optional().openapi({
       description: 'default "aware": nights weigh by their site’s learned chance of being clear',
     }),
-    digest: z.string().optional().openapi({
-      description: 'accept only: the preview’s digest; 409 if the plan would now differ',
-    }),
+    digest: digestField('plan'),
   })
   .strict();
 
@@ -65,53 +62,31 @@ const Accepted = ReplanSchema.extend({
 }).strict();
 
 export function replanRoutes(store: Store, run: Runner) {
-  const app = resourceApp();
-  const body = { content: { 'application/json': { schema: ReplanBody } }, required: true };
-  app.openapi(
-    createRoute({
-      method: 'post',
+  return previewAcceptRoutes({
+    tag: 'planning',
+    body: ReplanBody,
+    preview: {
       path: '/nights/{id}/replan',
-      tags: ['planning'],
-      security,
       summary: 'Preview the rest of the season planned again after this night lost time',
-      request: { params: IdParam, body },
-      responses: { 200: json(ReplanSchema, 'the re-plan, written nowhere'), ...errorResponses },
-    }),
-    async (c) => {
-      requireRole(c, 'viewer');
-      const { at, ...b } = c.req.valid('json');
-      return c.json(
-        await store.plans.previewReplan(c.req.valid('param').id, b, momentJd(at, 'at'), run),
-        200,
-      );
+      role: 'viewer',
+      response: ReplanSchema,
+      answers: 'the re-plan, written nowhere',
+      run: (id, request) => {
+        const { body, atJd } = splitAt(request);
+        return store.plans.previewReplan(id, body, atJd, run);
+      },
     },
-  );
-  app.openapi(
-    createRoute({
-      method: 'post',
+    accept: {
       path: '/nights/{id}/replan/accept',
-      tags: ['planning'],
-      security,
       summary:
         'Store the re-plan after a lost night (all or nothing; only blocks still planned are replaced)',
-      request: { params: IdParam, body },
-      responses: { 201: json(Accepted, 'the re-plan with the blocks written'), ...errorResponses },
-    }),
-    async (c) => {
-      const actor = writer(c, 'lead');
-      const { at, ...b } = c.req.valid('json');
-      return c.json(
-        await store.plans.acceptReplan(
-          actor,
-          c.req.valid('param').id,
-          b,
-          momentJd(at, 'at'),
-          nowMs(),
-          run,
-        ),
-        201,
-      );
+      role: 'lead',
+      response: Accepted,
+      answers: 'the re-plan with the blocks written',
+      run: (actor, id, request) => {
+        const { body, atJd } = splitAt(request);
+        return store.plans.acceptReplan(actor, id, body, atJd, nowMs(), run);
+      },
     },
-  );
-  return app;
+  });
 }

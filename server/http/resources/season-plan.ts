@@ -10,14 +10,14 @@ import {
   ACCEPT_AT_TOLERANCE_MINUTES,
   NIGHT_CHOICES,
   WEATHER_CHOICES,
-  type SeasonPlanRequest,
   type Store,
 } from '../../store/index.ts';
-import { requireRole, writer } from '../auth.ts';
-import { IdParam, errorResponses, json, resourceApp, security } from './common.ts';
+import { requireRole } from '../auth.ts';
+import { IdParam, errorResponses, json, security, type ResourceApp } from './common.ts';
+import { digestField, previewAcceptRoutes, splitAt } from './preview-accept.ts';
 import { BlockRowSchema, NightRowSchema } from './nights.ts';
 import { SeasonDrawsSchema, SeasonPlanPreviewSchema } from '../schemas/plan-output.ts';
-import { momentJd, nowMs } from '../../clock.ts';
+import { nowMs } from '../../clock.ts';
 
 const num = (d: string) => z.number().optional().openapi({ description: d });
 export const SeasonPlanBody = z
@@ -105,9 +105,7 @@ export const SeasonPlanBody = z
     backupLossAbove: num(
       'a critical epoch (periapsis window, or one the relativity forecast rests on) whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2',
     ),
-    digest: z.string().optional().openapi({
-      description: 'accept only: the preview’s digest; 409 if the plan would now differ',
-    }),
+    digest: digestField('plan'),
   })
   .strict();
 
@@ -126,34 +124,40 @@ const Accepted = SeasonPlanPreviewSchema.extend({
   nightsCreated: z.array(NightRowSchema),
 }).strict();
 
-/** The body without `at`, and `at` as JD (default: the clock). */
-function split({ at, ...body }: z.output<typeof SeasonPlanBody>) {
-  return { body: body satisfies SeasonPlanRequest, atJd: momentJd(at, 'at') };
-}
-
 export function seasonPlanRoutes(store: Store, run: Runner) {
-  const app = resourceApp();
-  const body = { content: { 'application/json': { schema: SeasonPlanBody } }, required: true };
-  app.openapi(
-    createRoute({
-      method: 'post',
+  return previewAcceptRoutes({
+    tag: 'planning',
+    body: SeasonPlanBody,
+    preview: {
       path: '/campaigns/{id}/season-plan',
-      tags: ['planning'],
-      security,
       summary:
         'Preview the season plan of a campaign: epochs per target, reasons, unmet goals, expected σ shrinkage, blocks it would replace',
-      request: { params: IdParam, body },
-      responses: {
-        200: json(SeasonPlanPreviewSchema, 'the plan, written nowhere'),
-        ...errorResponses,
+      role: 'viewer',
+      response: SeasonPlanPreviewSchema,
+      answers: 'the plan, written nowhere',
+      run: (id, request) => {
+        const { body, atJd } = splitAt(request);
+        return store.plans.previewSeason(id, body, atJd, run);
       },
-    }),
-    async (c) => {
-      requireRole(c, 'viewer');
-      const { body: b, atJd } = split(c.req.valid('json'));
-      return c.json(await store.plans.previewSeason(c.req.valid('param').id, b, atJd, run), 200);
     },
-  );
+    between: (app) => addDrawsRoute(app, store, run),
+    accept: {
+      path: '/campaigns/{id}/season-plan/accept',
+      summary:
+        'Store the season plan as blocks, replacing the still-planned blocks of its open nights (all or nothing)',
+      role: 'lead',
+      response: Accepted,
+      answers: 'the plan with the blocks and nights written',
+      run: (actor, id, request) => {
+        const { body, atJd } = splitAt(request);
+        return store.plans.acceptSeason(actor, id, body, atJd, nowMs(), run);
+      },
+    },
+  });
+}
+
+/** POST /campaigns/{id}/season-plan/draws: the season plan drawn many times (written nowhere). */
+function addDrawsRoute(app: ResourceApp, store: Store, run: Runner) {
   app.openapi(
     createRoute({
       method: 'post',
@@ -170,33 +174,8 @@ export function seasonPlanRoutes(store: Store, run: Runner) {
     }),
     async (c) => {
       requireRole(c, 'viewer');
-      const { at, ...b } = c.req.valid('json');
-      return c.json(
-        await store.plans.seasonDraws(c.req.valid('param').id, b, momentJd(at, 'at'), run),
-        200,
-      );
+      const { body, atJd } = splitAt(c.req.valid('json'));
+      return c.json(await store.plans.seasonDraws(c.req.valid('param').id, body, atJd, run), 200);
     },
   );
-  app.openapi(
-    createRoute({
-      method: 'post',
-      path: '/campaigns/{id}/season-plan/accept',
-      tags: ['planning'],
-      security,
-      summary:
-        'Store the season plan as blocks, replacing the still-planned blocks of its open nights (all or nothing)',
-      request: { params: IdParam, body },
-      responses: {
-        201: json(Accepted, 'the plan with the blocks and nights written'),
-        ...errorResponses,
-      },
-    }),
-    async (c) => {
-      const actor = writer(c, 'lead');
-      const { body: b, atJd } = split(c.req.valid('json'));
-      const id = c.req.valid('param').id;
-      return c.json(await store.plans.acceptSeason(actor, id, b, atJd, nowMs(), run), 201);
-    },
-  );
-  return app;
 }
