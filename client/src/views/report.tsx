@@ -19,6 +19,7 @@ import {
   formOf,
   readDraft,
   writeDraft,
+  type Draft,
   type ReportForm,
 } from './report-draft.ts';
 import { ReportMeasurements } from './report-measurements.tsx';
@@ -48,26 +49,96 @@ async function load(nightId: number): Promise<Loaded> {
   };
 }
 
-function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
-  const { night, blocks, cat } = data;
+type Base = Draft['base'];
+type Edit = (f: (d: ReportForm) => void) => void;
+type Messages = Record<string, string>;
+
+/** The form for a stored report (or none), each block's outcome starting from its logged status. */
+function formMaker(blocks: BlockRow[]) {
   const logged = Object.fromEntries(blocks.map((b) => [b.id, b.status]));
-  const formFor = (r: ReportRow | null) =>
+  return (r: ReportRow | null) =>
     formOf(
       r,
       blocks.map((b) => b.id),
       logged,
     );
-  const canWrite = useCan('observer');
-  const zone = cat.site(night.siteId)?.timeZone ?? 'UTC';
+}
+
+/** Sends the form: a first report for the night, or a new version of the one it started from. */
+function sendReport(nightId: number, f: ReportForm, b: Base) {
+  const body = bodyOf(f);
+  return b
+    ? api.PATCH('/night-reports/{id}', {
+        params: { path: { id: b.id } },
+        body: { ...body, version: b.version },
+      })
+    : api.POST('/night-reports', { body: { nightId, ...body } });
+}
+
+/** After a refused save: the newer stored report when the refusal was a version conflict. */
+async function newerReport(e: unknown, nightId: number): Promise<ReportRow | null> {
+  if (!(e instanceof ApiError && e.status === 409)) return null;
+  return (await getAll('/night-reports', { nightId }))[0] ?? null;
+}
+
+/** A first base: the restored draft's, else the stored report's version, else none yet. */
+const initialBase = (stored: Draft | null, report: ReportRow | null): Base =>
+  stored ? stored.base : report ? { id: report.id, version: report.version } : null;
+
+// The draft is written by the edit itself, never by an effect: an effect scheduled before a save
+// could run after the save had dropped the draft and leave a stale one behind.
+const keepDraft = (nightId: number, f: ReportForm, b: Base) =>
+  writeDraft({ nightId, base: b, form: f, savedAt: new Date().toISOString() });
+
+/** Where a save's outcome goes in the editor. */
+interface SaveSteps {
+  nightId: number;
+  adopt: (row: ReportRow, words: string) => void;
+  setStatus: (s: string) => void;
+  setUnread: (m: Messages) => void;
+  setTheirs: (r: ReportRow | null) => void;
+  setError: (e: unknown) => void;
+  onSaved: () => void;
+}
+
+/**
+ * Saves the form as a new version of base (or a first report). Whatever keeps it from the server,
+ * the draft stays in the browser; a version conflict shows the newer stored report beside it.
+ */
+async function saveReport(s: SaveSteps, f: ReportForm, b: Base) {
+  s.setError(null);
+  // A number the client cannot read is named here, never sent as empty: "1,5" must not vanish.
+  const bad = numberProblems(f);
+  s.setUnread(bad);
+  if (Object.keys(bad).length) {
+    keepDraft(s.nightId, f, b);
+    s.setStatus('Not saved: correct the marked field; your draft is kept in this browser.');
+    return;
+  }
+  s.setStatus('Saving…');
+  try {
+    const saved = await sendReport(s.nightId, f, b);
+    s.setTheirs(null);
+    s.adopt(
+      saved,
+      `Saved as version ${saved.version} at ${utcClock(new Date().toISOString())} UTC.`,
+    );
+    s.onSaved();
+  } catch (e) {
+    keepDraft(s.nightId, f, b);
+    s.setStatus('Not saved: your draft is still kept in this browser.');
+    const now = await newerReport(e, s.nightId);
+    if (now) return s.setTheirs(now);
+    s.setError(e);
+  }
+}
+
+function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
+  const { night } = data;
+  const formFor = formMaker(data.blocks);
   const stored = readDraft(night.id);
   const [restored] = useState(stored);
-  const [base, setBase] = useState(
-    stored
-      ? stored.base
-      : data.report
-        ? { id: data.report.id, version: data.report.version }
-        : null,
-  );
+  const [base, setBase] = useState<Base>(initialBase(stored, data.report));
   const [form, setForm] = useState<ReportForm>(stored?.form ?? formFor(data.report));
   // The stored version this editor last read or wrote: what "Discard draft" returns to.
   const [storedRow, setStoredRow] = useState<ReportRow | null>(data.report);
@@ -75,59 +146,167 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
   const [status, setStatus] = useState<string>('');
   const [error, setError] = useState<unknown>(null);
   const [theirs, setTheirs] = useState<ReportRow | null>(null);
-  const [unread, setUnread] = useState<Record<string, string>>({});
-  const messages = { ...fieldMessages(error), ...unread };
-  // The draft is written by the edit itself, never by an effect: an effect scheduled before a save
-  // could run after the save had dropped the draft and leave a stale one behind.
-  const keepDraft = (f: ReportForm, b: typeof base) =>
-    writeDraft({ nightId: night.id, base: b, form: f, savedAt: new Date().toISOString() });
-  const edit = (f: (d: ReportForm) => void) => {
+  const [unread, setUnread] = useState<Messages>({});
+  const edit: Edit = (f) => {
     const next = structuredClone(form);
     f(next);
-    keepDraft(next, base);
+    keepDraft(night.id, next, base);
     setForm(next);
     setDirty(true);
     setStatus('Draft kept in this browser; not saved yet.');
   };
-  const save = async (f: ReportForm, b: typeof base) => {
-    setError(null);
-    // A number the client cannot read is named here, never sent as empty: "1,5" must not vanish.
-    const bad = numberProblems(f);
-    setUnread(bad);
-    if (Object.keys(bad).length) {
-      keepDraft(f, b);
-      setStatus('Not saved: correct the marked field; your draft is kept in this browser.');
-      return;
-    }
-    setStatus('Saving…');
-    try {
-      const body = bodyOf(f);
-      const saved = b
-        ? await api.PATCH('/night-reports/{id}', {
-            params: { path: { id: b.id } },
-            body: { ...body, version: b.version },
-          })
-        : await api.POST('/night-reports', { body: { nightId: night.id, ...body } });
-      dropDraft(night.id);
-      setDirty(false);
-      setTheirs(null);
-      setBase({ id: saved.id, version: saved.version });
-      setStoredRow(saved);
-      setForm(formFor(saved));
-      setStatus(`Saved as version ${saved.version} at ${utcClock(new Date().toISOString())} UTC.`);
-      onSaved();
-    } catch (e) {
-      keepDraft(f, b);
-      setStatus('Not saved: your draft is still kept in this browser.');
-      if (e instanceof ApiError && e.status === 409) {
-        const now = (await getAll('/night-reports', { nightId: night.id }))[0] ?? null;
-        if (now) return setTheirs(now);
-      }
-      setError(e);
-    }
+  // Show a stored version (saved, taken from the server or returned to) with no draft left.
+  const adopt = (row: ReportRow, words: string) => {
+    dropDraft(night.id);
+    setDirty(false);
+    setBase({ id: row.id, version: row.version });
+    setStoredRow(row);
+    setForm(formFor(row));
+    setStatus(words);
   };
-  const num = (k: (typeof CONDITION_FIELDS)[number]) => (
-    <label key={k.key} class={messages[k.key] ? 'field invalid' : 'field'}>
+  const steps = { nightId: night.id, adopt, setStatus, setUnread, setTheirs, setError, onSaved };
+  const save = (f: ReportForm, b: Base) => saveReport(steps, f, b);
+  return (
+    <>
+      {restored && <RestoredNotice restored={restored} />}
+      {theirs && (
+        <ReportConflict
+          mine={form}
+          theirs={formFor(theirs)}
+          theirsVersion={theirs.version}
+          onResolve={(merged) => {
+            setForm(merged);
+            save(merged, { id: theirs.id, version: theirs.version });
+          }}
+          onTakeTheirs={() => {
+            setTheirs(null);
+            adopt(
+              theirs,
+              `Took version ${theirs.version} from the server; your draft was discarded.`,
+            );
+          }}
+        />
+      )}
+      <EditorForm
+        data={data}
+        form={form}
+        messages={{ ...fieldMessages(error), ...unread }}
+        edit={edit}
+        status={status}
+        base={base}
+        error={error}
+        onSave={() => save(form, base)}
+        onDiscard={
+          dirty && storedRow
+            ? () => adopt(storedRow, 'Draft discarded; showing the stored version.')
+            : null
+        }
+      />
+    </>
+  );
+}
+
+/** The report's fields and, for an observer, the save and discard controls. */
+function EditorForm(p: {
+  data: Loaded;
+  form: ReportForm;
+  messages: Messages;
+  edit: Edit;
+  status: string;
+  base: Base;
+  error: unknown;
+  onSave: () => void;
+  onDiscard: (() => void) | null;
+}) {
+  const canWrite = useCan('observer');
+  const fields = { form: p.form, messages: p.messages, canWrite, edit: p.edit };
+  return (
+    <form
+      class="report-form"
+      onSubmit={(e) => {
+        e.preventDefault();
+        p.onSave();
+      }}
+      noValidate
+    >
+      <ConditionFields {...fields} />
+      <OutcomeFields data={p.data} {...fields} />
+      {canWrite && <EditorToolbar status={p.status} base={p.base} onDiscard={p.onDiscard} />}
+      <ErrorLine error={p.error} />
+    </form>
+  );
+}
+
+function RestoredNotice({ restored }: { restored: Draft }) {
+  return (
+    <p class="notice" role="status">
+      Restored an unsaved draft from {utcText(restored.savedAt)} UTC
+      {restored.base ? `, started from version ${restored.base.version}` : ''}. Save it, or reload
+      the stored version below.
+    </p>
+  );
+}
+
+type FieldsProps = { form: ReportForm; messages: Messages; canWrite: boolean; edit: Edit };
+
+function ConditionFields({ form, messages, canWrite, edit }: FieldsProps) {
+  return (
+    <fieldset>
+      <legend>Conditions</legend>
+      <div class="field-grid">
+        {CONDITION_FIELDS.map((k) => (
+          <ConditionField
+            key={k.key}
+            k={k}
+            form={form}
+            messages={messages}
+            canWrite={canWrite}
+            edit={edit}
+          />
+        ))}
+      </div>
+      <label class={messages.timeLostReason ? 'field wide invalid' : 'field wide'}>
+        <span>why time was lost</span>
+        <input
+          name="timeLostReason"
+          value={form.timeLostReason}
+          disabled={!canWrite}
+          onInput={(e) =>
+            edit((d) => {
+              d.timeLostReason = e.currentTarget.value;
+            })
+          }
+        />
+        {messages.timeLostReason && <span class="field-msg">{messages.timeLostReason}</span>}
+      </label>
+      <label class="field wide">
+        <span>notes</span>
+        <textarea
+          name="notes"
+          rows={3}
+          value={form.notes}
+          disabled={!canWrite}
+          onInput={(e) =>
+            edit((d) => {
+              d.notes = e.currentTarget.value;
+            })
+          }
+        />
+      </label>
+    </fieldset>
+  );
+}
+
+/** One condition, typed as text so a number the client cannot read stays visible and is named. */
+function ConditionField({
+  k,
+  form,
+  messages,
+  canWrite,
+  edit,
+}: FieldsProps & { k: (typeof CONDITION_FIELDS)[number] }) {
+  return (
+    <label class={messages[k.key] ? 'field invalid' : 'field'}>
       <span>
         {k.label} ({k.unit})
       </span>
@@ -155,200 +334,126 @@ function Editor({ data, onSaved }: { data: Loaded; onSaved: () => void }) {
       )}
     </label>
   );
+}
+
+function OutcomeFields(p: FieldsProps & { data: Loaded }) {
+  const { night, blocks } = p.data;
   return (
-    <>
-      {restored && (
-        <p class="notice" role="status">
-          Restored an unsaved draft from {utcText(restored.savedAt)} UTC
-          {restored.base ? `, started from version ${restored.base.version}` : ''}. Save it, or
-          reload the stored version below.
+    <fieldset>
+      <legend>Outcome of each block</legend>
+      {blocks.length === 0 && (
+        <p class="muted">
+          No blocks are stored for this night.{' '}
+          <a href={`/nights/${night.id}#add-block`}>Record the blocks that ran</a> on the night’s
+          page first.
         </p>
       )}
-      {theirs && (
-        <ReportConflict
-          mine={form}
-          theirs={formFor(theirs)}
-          theirsVersion={theirs.version}
-          onResolve={(merged) => {
-            setForm(merged);
-            save(merged, { id: theirs.id, version: theirs.version });
-          }}
-          onTakeTheirs={() => {
-            dropDraft(night.id);
-            setDirty(false);
-            setTheirs(null);
-            setBase({ id: theirs.id, version: theirs.version });
-            setStoredRow(theirs);
-            setForm(formFor(theirs));
-            setStatus(`Took version ${theirs.version} from the server; your draft was discarded.`);
-          }}
+      <table class="data outcomes">
+        <thead>
+          <tr>
+            <th>block</th>
+            <th>UTC</th>
+            <th>local</th>
+            <th>outcome</th>
+            <th>exposure (min)</th>
+            <th>notes</th>
+          </tr>
+        </thead>
+        <tbody>
+          {blocks.map((b, i) => (
+            <OutcomeRow key={b.id} {...p} b={b} i={i} />
+          ))}
+        </tbody>
+      </table>
+    </fieldset>
+  );
+}
+
+/** A block's outcome, exposure and notes; a message for its status or exposure shows beside it. */
+function OutcomeRow({
+  data,
+  form,
+  messages,
+  canWrite,
+  edit,
+  b,
+  i,
+}: FieldsProps & { data: Loaded; b: BlockRow; i: number }) {
+  const zone = data.cat.site(data.night.siteId)?.timeZone ?? 'UTC';
+  const o = form.outcomes[b.id] ?? { status: '', exposureMinutes: '', notes: '' };
+  const msg = messages[`outcomes.${i}.status`] ?? messages[`outcomes.${i}.exposureMinutes`];
+  const set = (patch: Partial<typeof o>) =>
+    edit((d) => {
+      d.outcomes[b.id] = { ...(d.outcomes[b.id] ?? o), ...patch };
+    });
+  return (
+    <tr data-block={b.id}>
+      <td>
+        {data.cat.target(b.targetId)?.name} {b.kind}
+        {b.laserGuideStar && <span class="tag lgs-tag">laser</span>}
+      </td>
+      <td>
+        {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
+      </td>
+      <td>
+        {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
+      </td>
+      <td>
+        <select
+          name={`outcome-${b.id}`}
+          aria-label={`outcome of block ${b.id}`}
+          value={o.status}
+          disabled={!canWrite}
+          onChange={(e) => set({ status: e.currentTarget.value })}
+        >
+          <option value="">(not reported)</option>
+          {STATUSES.map((s) => (
+            <option key={s} value={s}>
+              {s}
+            </option>
+          ))}
+        </select>
+      </td>
+      <td>
+        <input
+          type="number"
+          min={0}
+          max={1440}
+          aria-label={`exposure of block ${b.id}, minutes`}
+          value={o.exposureMinutes}
+          disabled={!canWrite}
+          onInput={(e) => set({ exposureMinutes: e.currentTarget.value })}
         />
+        {msg && <span class="field-msg">{msg}</span>}
+      </td>
+      <td>
+        <input
+          aria-label={`notes on block ${b.id}`}
+          value={o.notes}
+          disabled={!canWrite}
+          onInput={(e) => set({ notes: e.currentTarget.value })}
+        />
+      </td>
+    </tr>
+  );
+}
+
+function EditorToolbar(p: { status: string; base: Base; onDiscard: (() => void) | null }) {
+  return (
+    <div class="toolbar">
+      <button type="submit" class="primary">
+        Save report
+      </button>
+      {p.onDiscard && (
+        <button type="button" onClick={p.onDiscard}>
+          Discard draft
+        </button>
       )}
-      <form
-        class="report-form"
-        onSubmit={(e) => {
-          e.preventDefault();
-          save(form, base);
-        }}
-        noValidate
-      >
-        <fieldset>
-          <legend>Conditions</legend>
-          <div class="field-grid">{CONDITION_FIELDS.map(num)}</div>
-          <label class={messages.timeLostReason ? 'field wide invalid' : 'field wide'}>
-            <span>why time was lost</span>
-            <input
-              name="timeLostReason"
-              value={form.timeLostReason}
-              disabled={!canWrite}
-              onInput={(e) =>
-                edit((d) => {
-                  d.timeLostReason = e.currentTarget.value;
-                })
-              }
-            />
-            {messages.timeLostReason && <span class="field-msg">{messages.timeLostReason}</span>}
-          </label>
-          <label class="field wide">
-            <span>notes</span>
-            <textarea
-              name="notes"
-              rows={3}
-              value={form.notes}
-              disabled={!canWrite}
-              onInput={(e) =>
-                edit((d) => {
-                  d.notes = e.currentTarget.value;
-                })
-              }
-            />
-          </label>
-        </fieldset>
-        <fieldset>
-          <legend>Outcome of each block</legend>
-          {blocks.length === 0 && (
-            <p class="muted">
-              No blocks are stored for this night.{' '}
-              <a href={`/nights/${night.id}#add-block`}>Record the blocks that ran</a> on the
-              night’s page first.
-            </p>
-          )}
-          <table class="data outcomes">
-            <thead>
-              <tr>
-                <th>block</th>
-                <th>UTC</th>
-                <th>local</th>
-                <th>outcome</th>
-                <th>exposure (min)</th>
-                <th>notes</th>
-              </tr>
-            </thead>
-            <tbody>
-              {blocks.map((b, i) => {
-                const o = form.outcomes[b.id] ?? { status: '', exposureMinutes: '', notes: '' };
-                const msg =
-                  messages[`outcomes.${i}.status`] ?? messages[`outcomes.${i}.exposureMinutes`];
-                const set = (f: (x: typeof o) => void) =>
-                  edit((d) => {
-                    const x = { ...(d.outcomes[b.id] ?? o) };
-                    f(x);
-                    d.outcomes[b.id] = x;
-                  });
-                return (
-                  <tr key={b.id} data-block={b.id}>
-                    <td>
-                      {cat.target(b.targetId)?.name} {b.kind}
-                      {b.laserGuideStar && <span class="tag lgs-tag">laser</span>}
-                    </td>
-                    <td>
-                      {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
-                    </td>
-                    <td>
-                      {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
-                    </td>
-                    <td>
-                      <select
-                        name={`outcome-${b.id}`}
-                        aria-label={`outcome of block ${b.id}`}
-                        value={o.status}
-                        disabled={!canWrite}
-                        onChange={(e) =>
-                          set((x) => {
-                            x.status = e.currentTarget.value;
-                          })
-                        }
-                      >
-                        <option value="">(not reported)</option>
-                        {STATUSES.map((s) => (
-                          <option key={s} value={s}>
-                            {s}
-                          </option>
-                        ))}
-                      </select>
-                    </td>
-                    <td>
-                      <input
-                        type="number"
-                        min={0}
-                        max={1440}
-                        aria-label={`exposure of block ${b.id}, minutes`}
-                        value={o.exposureMinutes}
-                        disabled={!canWrite}
-                        onInput={(e) =>
-                          set((x) => {
-                            x.exposureMinutes = e.currentTarget.value;
-                          })
-                        }
-                      />
-                      {msg && <span class="field-msg">{msg}</span>}
-                    </td>
-                    <td>
-                      <input
-                        aria-label={`notes on block ${b.id}`}
-                        value={o.notes}
-                        disabled={!canWrite}
-                        onInput={(e) =>
-                          set((x) => {
-                            x.notes = e.currentTarget.value;
-                          })
-                        }
-                      />
-                    </td>
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
-        </fieldset>
-        {canWrite && (
-          <div class="toolbar">
-            <button type="submit" class="primary">
-              Save report
-            </button>
-            {dirty && storedRow && (
-              <button
-                type="button"
-                onClick={() => {
-                  dropDraft(night.id);
-                  setDirty(false);
-                  setBase({ id: storedRow.id, version: storedRow.version });
-                  setForm(formFor(storedRow));
-                  setStatus('Draft discarded; showing the stored version.');
-                }}
-              >
-                Discard draft
-              </button>
-            )}
-            <span class="save-status" role="status">
-              {status ||
-                (base ? `Stored version ${base.version}.` : 'No report stored for this night yet.')}
-            </span>
-          </div>
-        )}
-        <ErrorLine error={error} />
-      </form>
-    </>
+      <span class="save-status" role="status">
+        {p.status ||
+          (p.base ? `Stored version ${p.base.version}.` : 'No report stored for this night yet.')}
+      </span>
+    </div>
   );
 }
 
