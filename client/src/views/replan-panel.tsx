@@ -12,8 +12,19 @@ import { useLoad } from '../lib/use-load.ts';
 
 type Replan = Schemas['Replan'];
 
+function storedWords(r: { written: unknown[]; preview: { replaces: unknown[] } }): string {
+  const written = plural(r.written.length, 'block');
+  const replaced = plural(r.preview.replaces.length, 'planned block');
+  return `Re-plan stored: ${written} written, ${replaced} replaced; obtained and logged blocks kept.`;
+}
+
+/** A 409 means the plan changed since the preview (its digest no longer matches). */
+const stalePreview = (e: unknown) =>
+  e instanceof ApiError && e.status === 409
+    ? new Error(`${e.message}. Preview again to see the plan as it now comes out.`)
+    : e;
+
 export function ReplanPanel({ nightId, tick }: { nightId: number; tick: number }) {
-  const lead = useCan('lead');
   const { data: reports } = useLoad(() => getAll('/night-reports', { nightId }), [nightId, tick]);
   const [preview, setPreview] = useState<Replan | null>(null);
   const [status, setStatus] = useState('');
@@ -35,22 +46,14 @@ export function ReplanPanel({ nightId, tick }: { nightId: number; tick: number }
       );
     });
   const accept = () =>
-    run(
-      async () => {
-        const r = await api.POST('/nights/{id}/replan/accept', {
-          params: { path: { id: nightId } },
-          body: { digest: preview!.preview.digest },
-        });
-        setStatus(
-          `Re-plan stored: ${plural(r.written.length, 'block')} written, ${plural(r.preview.replaces.length, 'planned block')} replaced; obtained and logged blocks kept.`,
-        );
-        setPreview(null);
-      },
-      (e) =>
-        e instanceof ApiError && e.status === 409
-          ? new Error(`${e.message}. Preview again to see the plan as it now comes out.`)
-          : e,
-    );
+    run(async () => {
+      const r = await api.POST('/nights/{id}/replan/accept', {
+        params: { path: { id: nightId } },
+        body: { digest: preview!.preview.digest },
+      });
+      setStatus(storedWords(r));
+      setPreview(null);
+    }, stalePreview);
   return (
     <div class="replan">
       <p>
@@ -66,38 +69,52 @@ export function ReplanPanel({ nightId, tick }: { nightId: number; tick: number }
         </p>
       )}
       <ErrorLine error={error} />
-      {preview && (
-        <div class="replan-preview">
-          <p>
-            Lost here:{' '}
-            {preview.lost.map((b) => `${b.target} ${b.kind} (${b.status})`).join(', ') ||
-              'no block was marked lost'}
-            . New plan from {preview.request.startDate} to {preview.request.endDate} (
-            {preview.request.weather === 'aware'
-              ? 'nights weighed by their chance of being clear'
-              : 'every night counted as clear'}
-            ): {plural(preview.preview.plan.epochs.length, 'epoch')}; accepting replaces{' '}
-            {plural(preview.preview.replaces.length, 'block')} that are still only plans.
-          </p>
-          <ul class="replan-targets">
-            {preview.preview.plan.targets
-              .filter((t) => t.passage)
-              .map((t) => (
-                <li key={t.target}>
-                  {t.target}: periapsis {t.passage!.date.slice(0, 10)}, coverage within{' '}
-                  {t.passage!.coverage.withinDays} d {(100 * t.passage!.coverage.after).toFixed(0)}{' '}
-                  % with {t.passage!.epochs} epochs in its window
-                </li>
-              ))}
-          </ul>
-          {lead ? (
-            <button type="button" class="primary" disabled={busy} onClick={accept}>
-              Accept the re-plan
-            </button>
-          ) : (
-            <p class="muted">Accepting needs the lead role.</p>
-          )}
-        </div>
+      {preview && <ReplanPreview preview={preview} busy={busy} onAccept={accept} />}
+    </div>
+  );
+}
+
+/** What the re-plan would do: the lost blocks, the new plan's range and size, each periapsis. */
+function ReplanPreview({
+  preview,
+  busy,
+  onAccept,
+}: {
+  preview: Replan;
+  busy: boolean;
+  onAccept: () => void;
+}) {
+  const lead = useCan('lead');
+  return (
+    <div class="replan-preview">
+      <p>
+        Lost here:{' '}
+        {preview.lost.map((b) => `${b.target} ${b.kind} (${b.status})`).join(', ') ||
+          'no block was marked lost'}
+        . New plan from {preview.request.startDate} to {preview.request.endDate} (
+        {preview.request.weather === 'aware'
+          ? 'nights weighed by their chance of being clear'
+          : 'every night counted as clear'}
+        ): {plural(preview.preview.plan.epochs.length, 'epoch')}; accepting replaces{' '}
+        {plural(preview.preview.replaces.length, 'block')} that are still only plans.
+      </p>
+      <ul class="replan-targets">
+        {preview.preview.plan.targets
+          .filter((t) => t.passage)
+          .map((t) => (
+            <li key={t.target}>
+              {t.target}: periapsis {t.passage!.date.slice(0, 10)}, coverage within{' '}
+              {t.passage!.coverage.withinDays} d {(100 * t.passage!.coverage.after).toFixed(0)} %
+              with {t.passage!.epochs} epochs in its window
+            </li>
+          ))}
+      </ul>
+      {lead ? (
+        <button type="button" class="primary" disabled={busy} onClick={onAccept}>
+          Accept the re-plan
+        </button>
+      ) : (
+        <p class="muted">Accepting needs the lead role.</p>
       )}
     </div>
   );
