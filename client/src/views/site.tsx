@@ -11,6 +11,7 @@ import { Blank, ErrorLine, Loading, Qty, Section, useCan } from '../lib/ui.tsx';
 import { fieldWords } from '../lib/field-words.ts';
 import { FileOrPaste } from '../lib/file-or-paste.tsx';
 import { useAction } from '../lib/use-action.ts';
+import { PrecisionSection } from './site-precision.tsx';
 import { useLoad } from '../lib/use-load.ts';
 
 type Stats = Schemas['SiteStatistics'];
@@ -80,6 +81,37 @@ function MonthRibbon({ months }: { months: Month[] }) {
   );
 }
 
+/** The months given a clear share, each worth `strengthNights`; an empty field is no prior. */
+function priorMonths(values: string[], strengthNights: number) {
+  return values.flatMap((v, i) =>
+    v.trim() === '' ? [] : [{ month: i + 1, clearFraction: Number(v), strengthNights }],
+  );
+}
+
+/** One clear-share field per month. */
+function PriorMonthInputs(p: { values: string[]; onValues: (next: string[]) => void }) {
+  return (
+    <div class="prior-months">
+      {p.values.map((v, i) => (
+        <label key={MONTHS[i]}>
+          {MONTHS[i]}
+          <input
+            name={`clear-${i + 1}`}
+            inputMode="decimal"
+            size={4}
+            value={v}
+            onInput={(e) => {
+              const next = [...p.values];
+              next[i] = e.currentTarget.value;
+              p.onValues(next);
+            }}
+          />
+        </label>
+      ))}
+    </div>
+  );
+}
+
 function PriorForm({
   siteId,
   stats,
@@ -105,11 +137,7 @@ function PriorForm({
       onSubmit={(e) => {
         e.preventDefault();
         void run(async () => {
-          const months = values.flatMap((v, i) =>
-            v.trim() === ''
-              ? []
-              : [{ month: i + 1, clearFraction: Number(v), strengthNights: Number(strength) }],
-          );
+          const months = priorMonths(values, Number(strength));
           setSent(months);
           await api.PUT('/sites/{id}/clear-prior', {
             params: { path: { id: siteId } },
@@ -123,24 +151,7 @@ function PriorForm({
         The share of night time you expect to be clear in each month (0 to 1; leave a month empty
         for none), and how many nights of log that belief is worth.
       </p>
-      <div class="prior-months">
-        {values.map((v, i) => (
-          <label key={MONTHS[i]}>
-            {MONTHS[i]}
-            <input
-              name={`clear-${i + 1}`}
-              inputMode="decimal"
-              size={4}
-              value={v}
-              onInput={(e) => {
-                const next = [...values];
-                next[i] = e.currentTarget.value;
-                setValues(next);
-              }}
-            />
-          </label>
-        ))}
-      </div>
+      <PriorMonthInputs values={values} onValues={setValues} />
       <label>
         worth (nights){' '}
         <input
@@ -218,6 +229,114 @@ function PriorCsvForm({ siteId, onSaved }: { siteId: number; onSaved: () => void
   );
 }
 
+type Prior = Stats['priors'][number];
+
+function MonthTable({ months, priors }: { months: Month[]; priors: Prior[] }) {
+  return (
+    <table class="data site-months">
+      <thead>
+        <tr>
+          <th>month</th>
+          <th>nights</th>
+          <th>dark</th>
+          <th>lost</th>
+          <th>lost (log)</th>
+          <th>loss (estimate ± 1σ)</th>
+          <th>prior</th>
+          <th>seeing (median, quartiles)</th>
+          <th>Strehl ratio</th>
+          <th>time lost to</th>
+        </tr>
+      </thead>
+      <tbody>
+        {months.map((m) => (
+          <MonthLine key={m.month} m={m} prior={priors[m.month - 1] ?? null} />
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
+/** One month's row: nights, hours, loss, prior, seeing, Strehl ratio and reasons. */
+function MonthLine({ m, prior }: { m: Month; prior: Prior }) {
+  return (
+    <tr>
+      <td>{MONTHS[m.month - 1]}</td>
+      <td>{m.nights}</td>
+      <td>
+        <Qty v={m.darkHours} unit="h" />
+      </td>
+      <td>
+        <Qty v={m.lostHours} unit="h" />
+      </td>
+      <td>
+        {m.loggedLossFraction === null ? (
+          <Blank why="no night logged in this month" />
+        ) : (
+          pct(m.loggedLossFraction)
+        )}
+      </td>
+      <td>
+        {pct(m.loss.mean)} ± {pct(m.loss.sigma)}
+      </td>
+      <td>
+        {m.loss.prior === 'user'
+          ? `clear ${pct(prior?.clearFraction)}, worth ${prior?.strengthNights} nights`
+          : 'flat'}
+      </td>
+      <td>
+        {m.seeingArcsec
+          ? `${m.seeingArcsec.median.toFixed(2)}″ (${m.seeingArcsec.q25.toFixed(2)}–${m.seeingArcsec.q75.toFixed(2)}, ${m.seeingArcsec.n} n)`
+          : blankWhy(m.nights, 'seeing')}
+      </td>
+      <td>
+        {m.strehlRatio
+          ? `${m.strehlRatio.median.toFixed(2)} (${m.strehlRatio.n} n)`
+          : blankWhy(m.nights, 'a Strehl ratio')}
+      </td>
+      <td>
+        {m.reasons.map((r) => `${r.reason}: ${r.hours.toFixed(1)} h, ${r.nights} n`).join('; ') ||
+          (m.nights ? (
+            <Blank why="no time lost on the nights logged" />
+          ) : (
+            <Blank why="no night logged in this month" />
+          ))}
+      </td>
+    </tr>
+  );
+}
+
+/** The clear-night prior: a lead edits it by month or from CSV; others read it. */
+function PriorSection(p: { id: number; stats: Stats; lead: boolean; onSaved: () => void }) {
+  const { stats } = p;
+  return (
+    <Section title="Clear-night prior" id="site-prior">
+      {p.lead ? (
+        <>
+          {/* Keyed by the stored prior: a prior saved from CSV refills the month fields. */}
+          <PriorForm
+            key={JSON.stringify(stats.priors)}
+            siteId={p.id}
+            stats={stats}
+            onSaved={p.onSaved}
+          />
+          <PriorCsvForm siteId={p.id} onSaved={p.onSaved} />
+        </>
+      ) : (
+        <p class="muted">
+          {stats.priors.some((x) => x !== null)
+            ? stats.priors
+                .map((x, i) => (x ? `${MONTHS[i]} ${pct(x.clearFraction)}` : null))
+                .filter(Boolean)
+                .join(' · ')
+            : 'No prior: each month starts from a flat one.'}{' '}
+          A lead can change it.
+        </p>
+      )}
+    </Section>
+  );
+}
+
 export function SiteView({ id }: { id: number }) {
   const { data, error, reload } = useLoad(
     () => api.GET('/sites/{id}/statistics', { params: { path: { id } } }),
@@ -242,192 +361,10 @@ export function SiteView({ id }: { id: number }) {
           the log’s own clear share; bracket: ±1σ; hollow tiles rest on the prior alone. Rule:{' '}
           {data.rule}.
         </p>
-        <table class="data site-months">
-          <thead>
-            <tr>
-              <th>month</th>
-              <th>nights</th>
-              <th>dark</th>
-              <th>lost</th>
-              <th>lost (log)</th>
-              <th>loss (estimate ± 1σ)</th>
-              <th>prior</th>
-              <th>seeing (median, quartiles)</th>
-              <th>Strehl ratio</th>
-              <th>time lost to</th>
-            </tr>
-          </thead>
-          <tbody>
-            {data.months.map((m) => (
-              <tr key={m.month}>
-                <td>{MONTHS[m.month - 1]}</td>
-                <td>{m.nights}</td>
-                <td>
-                  <Qty v={m.darkHours} unit="h" />
-                </td>
-                <td>
-                  <Qty v={m.lostHours} unit="h" />
-                </td>
-                <td>
-                  {m.loggedLossFraction === null ? (
-                    <Blank why="no night logged in this month" />
-                  ) : (
-                    pct(m.loggedLossFraction)
-                  )}
-                </td>
-                <td>
-                  {pct(m.loss.mean)} ± {pct(m.loss.sigma)}
-                </td>
-                <td>
-                  {m.loss.prior === 'user'
-                    ? `clear ${pct(data.priors[m.month - 1]?.clearFraction)}, worth ${data.priors[m.month - 1]?.strengthNights} nights`
-                    : 'flat'}
-                </td>
-                <td>
-                  {m.seeingArcsec
-                    ? `${m.seeingArcsec.median.toFixed(2)}″ (${m.seeingArcsec.q25.toFixed(2)}–${m.seeingArcsec.q75.toFixed(2)}, ${m.seeingArcsec.n} n)`
-                    : blankWhy(m.nights, 'seeing')}
-                </td>
-                <td>
-                  {m.strehlRatio
-                    ? `${m.strehlRatio.median.toFixed(2)} (${m.strehlRatio.n} n)`
-                    : blankWhy(m.nights, 'a Strehl ratio')}
-                </td>
-                <td>
-                  {m.reasons
-                    .map((r) => `${r.reason}: ${r.hours.toFixed(1)} h, ${r.nights} n`)
-                    .join('; ') ||
-                    (m.nights ? (
-                      <Blank why="no time lost on the nights logged" />
-                    ) : (
-                      <Blank why="no night logged in this month" />
-                    ))}
-                </td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
+        <MonthTable months={data.months} priors={data.priors} />
       </Section>
-      <Section title="Precision reached" id="site-precision">
-        {data.precision.length === 0 ? (
-          <p class="muted">No measurement is linked to a block at this site yet.</p>
-        ) : (
-          <table class="data site-precision">
-            <thead>
-              <tr>
-                <th>instrument</th>
-                <th>kind</th>
-                <th>measurements</th>
-                <th>median σ</th>
-                <th>by seeing</th>
-                <th>by airmass</th>
-                <th>implied zenith σ</th>
-              </tr>
-            </thead>
-            <tbody>
-              {data.precision.map((p) => (
-                <tr key={`${p.kind} ${p.instrument}`}>
-                  <td>{p.instrument}</td>
-                  <td>{p.kind}</td>
-                  <td>{p.n}</td>
-                  <td>
-                    <Qty v={p.medianSigma} unit={p.unit} digits={2} />
-                  </td>
-                  <td>
-                    {p.bySeeing
-                      .filter((b) => b.n > 0)
-                      .map(
-                        (b) => `${b.low}–${b.high ?? ''}″: ${b.medianSigma?.toFixed(2)} (${b.n})`,
-                      )
-                      .join('; ') || (
-                      <Blank why="no night report of these measurements gives the seeing" />
-                    )}
-                  </td>
-                  <td>
-                    {p.byAirmass
-                      .filter((b) => b.n > 0)
-                      .map((b) => `${b.low}–${b.high ?? ''}: ${b.medianSigma?.toFixed(2)} (${b.n})`)
-                      .join('; ') || (
-                      <Blank why="their target was below the horizon at every one of these measurements" />
-                    )}
-                  </td>
-                  <td>
-                    {p.zenith
-                      ? `${p.zenith.sigma.toFixed(2)} ${p.unit} at ${p.zenith.referenceSeeingArcsec.toFixed(2)}″ seeing (${p.zenith.n})`
-                      : 'needs seeing in the night reports'}
-                  </td>
-                </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-        {data.precision
-          .filter((p) => p.bySeeingAndAirmass.some((r) => r.byAirmass.some((c) => c.n > 0)))
-          .map((p) => (
-            <table key={`joint ${p.kind} ${p.instrument}`} class="joint-precision">
-              <caption>
-                {p.instrument}, {p.kind}: median σ ({p.unit}) and measurements, by seeing and
-                airmass together
-              </caption>
-              <thead>
-                <tr>
-                  <th>seeing \ airmass</th>
-                  {p.bySeeingAndAirmass[0]!.byAirmass.map((c) => (
-                    <th key={c.low}>{c.high === null ? `≥ ${c.low}` : `${c.low}–${c.high}`}</th>
-                  ))}
-                </tr>
-              </thead>
-              <tbody>
-                {p.bySeeingAndAirmass.map((r) => (
-                  <tr key={r.seeingLow}>
-                    <th>
-                      {r.seeingHigh === null
-                        ? `≥ ${r.seeingLow}″`
-                        : `${r.seeingLow}–${r.seeingHigh}″`}
-                    </th>
-                    {r.byAirmass.map((c) => (
-                      <td key={c.low}>
-                        {c.n > 0 && c.medianSigma !== null ? (
-                          `${c.medianSigma.toFixed(2)} (${c.n})`
-                        ) : (
-                          <Blank why="no measurement in this seeing and airmass bin" />
-                        )}
-                      </td>
-                    ))}
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          ))}
-        <p class="muted">
-          Implied zenith σ: the median of σ scaled to the zenith (X^0.6) and to the median seeing —
-          the planner’s precision model, read back from what was reached.
-        </p>
-      </Section>
-      <Section title="Clear-night prior" id="site-prior">
-        {lead ? (
-          <>
-            {/* Keyed by the stored prior: a prior saved from CSV refills the month fields. */}
-            <PriorForm
-              key={JSON.stringify(data.priors)}
-              siteId={id}
-              stats={data}
-              onSaved={reload}
-            />
-            <PriorCsvForm siteId={id} onSaved={reload} />
-          </>
-        ) : (
-          <p class="muted">
-            {data.priors.some((p) => p !== null)
-              ? data.priors
-                  .map((p, i) => (p ? `${MONTHS[i]} ${pct(p.clearFraction)}` : null))
-                  .filter(Boolean)
-                  .join(' · ')
-              : 'No prior: each month starts from a flat one.'}{' '}
-            A lead can change it.
-          </p>
-        )}
-      </Section>
+      <PrecisionSection precision={data.precision} />
+      <PriorSection id={id} stats={data} lead={lead} onSaved={reload} />
     </div>
   );
 }
