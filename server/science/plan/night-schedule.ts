@@ -155,17 +155,13 @@ export function scheduleOnGrid(
   const byId = new Map(candidates.map((c) => [c.id, c]));
   const removed = readRemoved(request.remove, byId);
   const gapDays = (a: number, b: number) => (a === b ? sameTargetMinutes : slewMinutes) / 1440;
-  const kept = (request.kept ?? []).map((k) => ({
-    ...k,
-    targetIndex: k.target === null ? -1 : targets.findIndex((t) => t.name === k.target),
-  }));
-  const repeats = keptRepeats(candidates, kept);
-  // Clear of a kept block: the changeover gap on both sides (a target outside the request always needs a slew).
-  const clearOfKept = (c: Candidate, startJd: number, endJd: number) =>
-    kept.find((k) => {
-      const gap = k.targetIndex < 0 ? slewMinutes / 1440 : gapDays(c.targetIndex, k.targetIndex);
-      return !(endJd + gap <= k.startJd + 1e-9 || k.endJd + gap <= startJd + 1e-9);
-    }) ?? null;
+  const { kept, repeats, clearOfKept } = keptBlocks(
+    request,
+    targets,
+    candidates,
+    slewMinutes,
+    gapDays,
+  );
   const pins = readPins(request.pins, byId, removed, grid, repeats, (c, s) =>
     clearOfKept(c, grid.edgeJd[s]!, grid.edgeJd[s + c.slots]!),
   );
@@ -197,8 +193,6 @@ export function scheduleOnGrid(
     ...pins.map((p) => ({ c: p.candidate, start: p.start, pinned: true })),
     ...chosen.map((pl) => ({ c: free[pl.item]!, start: pl.start, pinned: false })),
   ].sort((a, b) => a.start - b.start || a.c.index - b.c.index);
-  const zone = grid.site.timeZone;
-  const blocks = placed.map(({ c, start, pinned }) => scheduledBlock(c, start, pinned, jd, zone));
   const leftOut = candidates
     .filter((c) => !placed.some((p) => p.c === c))
     .map((c) => ({
@@ -209,6 +203,42 @@ export function scheduleOnGrid(
         repeats.get(c) ??
         whyLeftOut(c, grid, removed, everFits.get(c) ?? false, pins, placed, kept.length > 0),
     }));
+  return scheduleResult(grid, placed, leftOut, { slewMinutes, sameTargetMinutes, method: used });
+}
+
+/** The kept blocks with their targets' indices, the candidates they repeat, and the test of a clash. */
+function keptBlocks(
+  request: ScheduleRequest,
+  targets: readonly Target[],
+  candidates: Candidate[],
+  slewMinutes: number,
+  gapDays: (a: number, b: number) => number,
+) {
+  const kept = (request.kept ?? []).map((k) => ({
+    ...k,
+    targetIndex: k.target === null ? -1 : targets.findIndex((t) => t.name === k.target),
+  }));
+  const repeats = keptRepeats(candidates, kept);
+  // Clear of a kept block: the changeover gap on both sides (a target outside the request always needs a slew).
+  const clearOfKept = (c: Candidate, startJd: number, endJd: number) =>
+    kept.find((k) => {
+      const gap = k.targetIndex < 0 ? slewMinutes / 1440 : gapDays(c.targetIndex, k.targetIndex);
+      return !(endJd + gap <= k.startJd + 1e-9 || k.endJd + gap <= startJd + 1e-9);
+    }) ?? null;
+  return { kept, repeats, clearOfKept };
+}
+
+/** The schedule as reported: the placed blocks in time order, the night's darkness, totals and cautions. */
+function scheduleResult(
+  grid: NightGrid,
+  placed: readonly { c: Candidate; start: number; pinned: boolean }[],
+  leftOut: NightSchedule['leftOut'],
+  used: Pick<NightSchedule, 'slewMinutes' | 'sameTargetMinutes' | 'method'>,
+): NightSchedule {
+  const zone = grid.site.timeZone;
+  const blocks = placed.map(({ c, start, pinned }) =>
+    scheduledBlock(c, start, pinned, grid.edgeJd, zone),
+  );
   const notes = [PLAN_ADVISORY, ...skyCautions(grid.limits).slice(1)];
   if (blocks.some((b) => b.laserGuideStar)) notes.push(LASER_GUIDE_STAR_CAUTION);
   return {
@@ -216,9 +246,9 @@ export function scheduleOnGrid(
     timeZone: zone,
     date: grid.date,
     slotMinutes: grid.slotMinutes,
-    slewMinutes,
-    sameTargetMinutes,
-    method: used,
+    slewMinutes: used.slewMinutes,
+    sameTargetMinutes: used.sameTargetMinutes,
+    method: used.method,
     darkness: grid.dark.map((d) => ({
       start: instant(d.startJd, zone),
       end: instant(d.endJd, zone),

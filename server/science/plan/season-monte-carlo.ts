@@ -185,6 +185,64 @@ export function seasonMonteCarlo(
   options: DrawOptions,
 ): SeasonDraws {
   const o = checkOptions(options);
+  const { nights, nightOf } = siteNights(sites);
+  const span = {
+    startJd: parseEpoch(`${plan.startDate}T12:00:00Z`),
+    endJd: parseEpoch(`${plan.endDate}T12:00:00Z`) + 1,
+  };
+  const prepared = targets.map((t) => {
+    const mine = [
+      ...plan.epochs
+        .filter((e) => e.target === t.target.name)
+        .map((e) => ({
+          night: nightOf(e.site, e.date),
+          jd: (parseEpoch(e.block.start.utc) + parseEpoch(e.block.end.utc)) / 2,
+          kind: e.kind,
+          sigma: e.precision.sigma,
+          kept: false,
+        })),
+      ...keptEpochsOf(sites, t, options.precision, nightOf),
+    ];
+    return preparedTarget(t, mine, span, o.windowSigma);
+  });
+  const out = drawSeasons(prepared, nights, o);
+  const keep = options.keepSamples === true;
+  return {
+    draws: o.draws,
+    seed: o.seed,
+    precisionScatter: o.scatter,
+    targets: prepared.map((pt, ti) => targetDraws(pt, out[ti]!, o, keep)),
+    assumptions: `each planned site-night lost with its chance (1 − its site's clear chance for that night), its epochs' σ times exp(${o.scatter}·z) per night; linear (Fisher) σ after the season, as a refit would report; kept blocks join the draws (obtained ones certain, planned ones lost with their night)`,
+  };
+}
+
+type Checked = ReturnType<typeof checkOptions>;
+
+/** One epoch of a target before the draws: its night (−1 when obtained), middle, kind and σ. */
+type MineEpoch = ReturnType<typeof keptEpochsOf>[number];
+
+/** A target ready for the draws: its epochs with their information, its orbit model and passage. */
+interface PreparedTarget {
+  t: DrawTarget;
+  epochs: DrawEpoch[];
+  kept: TargetDraws['kept'];
+  model: ReturnType<typeof informationModel> | null;
+  passage: ReturnType<typeof passagesIn>[number] | null;
+  factors: { n: number; now: Float64Array; which: number[] } | null;
+}
+
+/** What the draws gather for one target. */
+interface Gathered {
+  sigmaT: number[];
+  mass: number[];
+  factors: number[][];
+  coverage: number[];
+  inWindow: number;
+  lost: number;
+}
+
+/** The site-nights the epochs fall on, each with its chance of being lost, indexed as first met. */
+function siteNights(sites: readonly SeasonSite[]) {
   const siteOf = new Map(sites.map((s) => [s.site.name, s]));
   const nights: Night[] = [];
   const nightIndex = new Map<string, number>();
@@ -200,70 +258,70 @@ export function seasonMonteCarlo(
     }
     return k;
   };
-  const startJd = parseEpoch(`${plan.startDate}T12:00:00Z`);
-  const endJd = parseEpoch(`${plan.endDate}T12:00:00Z`) + 1;
+  return { nights, nightOf };
+}
 
-  const prepared = targets.map((t) => {
-    const mine = [
-      ...plan.epochs
-        .filter((e) => e.target === t.target.name)
-        .map((e) => ({
-          night: nightOf(e.site, e.date),
-          jd: (parseEpoch(e.block.start.utc) + parseEpoch(e.block.end.utc)) / 2,
-          kind: e.kind,
-          sigma: e.precision.sigma,
-          kept: false,
-        })),
-      ...keptEpochsOf(sites, t, options.precision, nightOf),
-    ];
-    const kept = {
-      planned: mine.filter((e) => e.kept && e.night >= 0).length,
-      obtained: mine.filter((e) => e.night < 0).length,
-    };
-    const epochs: DrawEpoch[] = mine.map((e) => ({
-      night: e.night,
-      jd: e.jd,
-      info: null,
-      factorRows: null,
-    }));
-    const orbit = t.target.orbit;
-    if (!orbit) return { t, epochs, kept, model: null, passage: null, factors: null };
-    const model = informationModel(orbit);
-    const n = model.parameters.length;
-    const passage =
-      passagesIn(model, posteriorCovariance(model, null), startJd, endJd, o.windowSigma)[0] ?? null;
-    const jac = jacobians(
-      model,
-      Float64Array.from(epochs, (e) => e.jd),
-    );
-    epochs.forEach((e, k) => {
-      const info = new Float64Array(n * n);
-      const sigma = mine[k]!.sigma;
-      addInformation(info, jac[k]!, n, mine[k]!.kind, {
-        astrometryMas: sigma,
-        spectroscopyKmS: sigma,
-      });
-      e.info = info;
+/** Each epoch's information at its nominal σ, the passage in the season, and the factors' rows. */
+function preparedTarget(
+  t: DrawTarget,
+  mine: MineEpoch[],
+  span: { startJd: number; endJd: number },
+  windowSigma: number,
+): PreparedTarget {
+  const kept = {
+    planned: mine.filter((e) => e.kept && e.night >= 0).length,
+    obtained: mine.filter((e) => e.night < 0).length,
+  };
+  const epochs: DrawEpoch[] = mine.map((e) => ({
+    night: e.night,
+    jd: e.jd,
+    info: null,
+    factorRows: null,
+  }));
+  const orbit = t.target.orbit;
+  if (!orbit) return { t, epochs, kept, model: null, passage: null, factors: null };
+  const model = informationModel(orbit);
+  const n = model.parameters.length;
+  const passage =
+    passagesIn(model, posteriorCovariance(model, null), span.startJd, span.endJd, windowSigma)[0] ??
+    null;
+  const jac = jacobians(
+    model,
+    Float64Array.from(epochs, (e) => e.jd),
+  );
+  epochs.forEach((e, k) => {
+    const info = new Float64Array(n * n);
+    const sigma = mine[k]!.sigma;
+    addInformation(info, jac[k]!, n, mine[k]!.kind, {
+      astrometryMas: sigma,
+      spectroscopyKmS: sigma,
     });
-    let factors: { n: number; now: Float64Array; which: number[] } | null = null;
-    // A factor scales a term the orbit has on; an orbit without relativity terms has none to draw.
-    const termsOn = orbit.relativity.gravitationalRedshift || orbit.relativity.precession;
-    if (orbit.distancePc !== null && t.measurements && termsOn) {
-      const planned = mine.map((e, k) =>
-        plannedMeasurement({ jd: epochs[k]!.jd, kind: e.kind, sigma: e.sigma }, DEFAULT_PRECISION),
-      );
-      const fisher = fisherRows(orbit, [...t.measurements, ...planned], [...FORECAST_FACTORS]);
-      const nf = fisher.parameters.length;
-      const now = new Float64Array(nf * nf);
-      for (let k = 0; k < t.measurements.length; k++) addRows(now, fisher.rows[k]!, nf, 1);
-      epochs.forEach((e, k) => {
-        e.factorRows = fisher.rows[t.measurements!.length + k]!;
-      });
-      factors = { n: nf, now, which: FORECAST_FACTORS.map((f) => fisher.parameters.indexOf(f)) };
-    }
-    return { t, epochs, kept, model, passage, factors };
+    e.info = info;
   });
+  return { t, epochs, kept, model, passage, factors: factorsOf(t, mine, epochs) };
+}
 
+/** The relativity factors' information now and each epoch's rows, or null with none to draw. */
+function factorsOf(t: DrawTarget, mine: MineEpoch[], epochs: DrawEpoch[]) {
+  const orbit = t.target.orbit!;
+  // A factor scales a term the orbit has on; an orbit without relativity terms has none to draw.
+  const termsOn = orbit.relativity.gravitationalRedshift || orbit.relativity.precession;
+  if (orbit.distancePc === null || !t.measurements || !termsOn) return null;
+  const planned = mine.map((e, k) =>
+    plannedMeasurement({ jd: epochs[k]!.jd, kind: e.kind, sigma: e.sigma }, DEFAULT_PRECISION),
+  );
+  const fisher = fisherRows(orbit, [...t.measurements, ...planned], [...FORECAST_FACTORS]);
+  const nf = fisher.parameters.length;
+  const now = new Float64Array(nf * nf);
+  for (let k = 0; k < t.measurements.length; k++) addRows(now, fisher.rows[k]!, nf, 1);
+  epochs.forEach((e, k) => {
+    e.factorRows = fisher.rows[t.measurements!.length + k]!;
+  });
+  return { n: nf, now, which: FORECAST_FACTORS.map((f) => fisher.parameters.indexOf(f)) };
+}
+
+/** The draws: per season, which nights are lost and each night's precision factor, then each target. */
+function drawSeasons(prepared: PreparedTarget[], nights: Night[], o: Checked): Gathered[] {
   const rnd = new SeededRandom(o.seed);
   const lost = new Uint8Array(nights.length);
   const factor = new Float64Array(nights.length);
@@ -281,67 +339,72 @@ export function seasonMonteCarlo(
       factor[k] = Math.exp(o.scatter * rnd.normal());
     }
     prepared.forEach((pt, ti) => {
-      const acc = out[ti]!;
-      const alive = pt.epochs.filter((e) => e.night < 0 || !lost[e.night]);
-      acc.lost += pt.epochs.length - alive.length;
-      const weightOf = (e: DrawEpoch) => (e.night < 0 ? 1 : 1 / factor[e.night]! ** 2);
-      if (pt.model) {
-        const n = pt.model.parameters.length;
-        const added = new Float64Array(n * n);
-        for (const e of alive) {
-          const w = weightOf(e);
-          for (let i = 0; i < n * n; i++) added[i] = added[i]! + w * e.info![i]!;
-        }
-        const cov = posteriorCovariance(pt.model, added);
-        if (pt.passage) acc.sigmaT.push(Math.sqrt(quadratic(cov, n, pt.passage.gradient)));
-        if (pt.model.lnMassGradient)
-          acc.mass.push(Math.sqrt(quadratic(cov, n, pt.model.lnMassGradient)));
-      }
-      if (pt.factors) {
-        const { n, now, which } = pt.factors;
-        const F = Float64Array.from(now);
-        for (const e of alive) addRows(F, e.factorRows!, n, weightOf(e));
-        sigmasFrom(F, n, which).forEach((s, q) => {
-          acc.factors[q]!.push(s);
-        });
-      }
-      if (pt.passage) {
-        const q = pt.passage;
-        const jds = alive.map((e) => e.jd);
-        acc.coverage.push(coverageProbability(q.jd, q.sigmaDays, jds, o.within));
-        if (jds.some((j) => j >= q.windowStartJd && j <= q.windowEndJd)) acc.inWindow++;
-      }
+      drawTarget(pt, out[ti]!, lost, factor, o.within);
     });
   }
-  const keep = options.keepSamples === true;
+  return out;
+}
+
+/** One target in one drawn season: its surviving epochs, weighted by their night's factor. */
+function drawTarget(
+  pt: PreparedTarget,
+  acc: Gathered,
+  lost: Uint8Array,
+  factor: Float64Array,
+  within: number,
+): void {
+  const alive = pt.epochs.filter((e) => e.night < 0 || !lost[e.night]);
+  acc.lost += pt.epochs.length - alive.length;
+  const weightOf = (e: DrawEpoch) => (e.night < 0 ? 1 : 1 / factor[e.night]! ** 2);
+  if (pt.model) {
+    const n = pt.model.parameters.length;
+    const added = new Float64Array(n * n);
+    for (const e of alive) {
+      const w = weightOf(e);
+      for (let i = 0; i < n * n; i++) added[i] = added[i]! + w * e.info![i]!;
+    }
+    const cov = posteriorCovariance(pt.model, added);
+    if (pt.passage) acc.sigmaT.push(Math.sqrt(quadratic(cov, n, pt.passage.gradient)));
+    if (pt.model.lnMassGradient)
+      acc.mass.push(Math.sqrt(quadratic(cov, n, pt.model.lnMassGradient)));
+  }
+  if (pt.factors) {
+    const { n, now, which } = pt.factors;
+    const F = Float64Array.from(now);
+    for (const e of alive) addRows(F, e.factorRows!, n, weightOf(e));
+    sigmasFrom(F, n, which).forEach((s, q) => {
+      acc.factors[q]!.push(s);
+    });
+  }
+  if (pt.passage) {
+    const q = pt.passage;
+    const jds = alive.map((e) => e.jd);
+    acc.coverage.push(coverageProbability(q.jd, q.sigmaDays, jds, within));
+    if (jds.some((j) => j >= q.windowStartJd && j <= q.windowEndJd)) acc.inWindow++;
+  }
+}
+
+/** One target's distributions over the draws. */
+function targetDraws(pt: PreparedTarget, acc: Gathered, o: Checked, keep: boolean): TargetDraws {
   return {
-    draws: o.draws,
-    seed: o.seed,
-    precisionScatter: o.scatter,
-    targets: prepared.map((pt, ti) => {
-      const acc = out[ti]!;
-      return {
-        target: pt.t.target.name,
-        epochs: pt.epochs.length,
-        kept: pt.kept,
-        passage: pt.passage ? { date: pt.passage.date, sigmaDaysNow: pt.passage.sigmaDays } : null,
-        periapsisSigmaDays: pt.passage ? distribution(acc.sigmaT, keep) : null,
-        massFraction: pt.model?.lnMassGradient ? distribution(acc.mass, keep) : null,
-        factors: FORECAST_FACTORS.map((name, q) => ({
-          name,
-          sigma:
-            pt.factors && pt.t.target.orbit?.relativity[FACTOR_TERM[name]]
-              ? distribution(acc.factors[q]!, keep)
-              : null,
-        })),
-        coverage: pt.passage
-          ? { withinDays: o.within, distribution: distribution(acc.coverage, keep)! }
+    target: pt.t.target.name,
+    epochs: pt.epochs.length,
+    kept: pt.kept,
+    passage: pt.passage ? { date: pt.passage.date, sigmaDaysNow: pt.passage.sigmaDays } : null,
+    periapsisSigmaDays: pt.passage ? distribution(acc.sigmaT, keep) : null,
+    massFraction: pt.model?.lnMassGradient ? distribution(acc.mass, keep) : null,
+    factors: FORECAST_FACTORS.map((name, q) => ({
+      name,
+      sigma:
+        pt.factors && pt.t.target.orbit?.relativity[FACTOR_TERM[name]]
+          ? distribution(acc.factors[q]!, keep)
           : null,
-        windowCovered: pt.passage ? acc.inWindow / o.draws : null,
-        epochsLost: acc.lost / o.draws,
-      };
-    }),
-    assumptions: `each planned site-night lost with its chance (1 − its site's clear chance for that night), its epochs' σ times exp(${o.scatter}·z) per night; linear (Fisher) σ after the season, as a refit would report; kept blocks join the draws (obtained ones certain, planned ones lost with their night)`,
+    })),
+    coverage: pt.passage
+      ? { withinDays: o.within, distribution: distribution(acc.coverage, keep)! }
+      : null,
+    windowCovered: pt.passage ? acc.inWindow / o.draws : null,
+    epochsLost: acc.lost / o.draws,
   };
 }
 

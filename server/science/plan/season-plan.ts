@@ -130,6 +130,21 @@ export function planSeason(
   return seasonReport(p, timed, backups);
 }
 
+/** The planner's checked settings: each option within its range, or an InputError naming it. */
+function plannerSettings(options: SeasonOptions) {
+  const slotMinutes = numberIn('slotMinutes', options.slotMinutes ?? 10, 1, 30);
+  const slewMinutes = numberIn('slewMinutes', options.slewMinutes ?? 8, 0, 120);
+  const sameTargetMinutes = numberIn('sameTargetMinutes', options.sameTargetMinutes ?? 3, 0, 120);
+  const fill = options.fillFraction ?? 0.9;
+  if (!(fill > 0 && fill <= 1)) throw new InputError('fillFraction', fill, 'must lie in (0, 1]');
+  const extra = numberIn('extraEpochsPerTarget', options.extraEpochsPerTarget ?? 0, 0, 20);
+  if (options.relativityGoal !== undefined && typeof options.relativityGoal !== 'boolean')
+    throw new InputError('relativityGoal', options.relativityGoal, 'must be true or false');
+  const windowSigma = numberIn('periapsisWindowSigma', options.periapsisWindowSigma ?? 2, 0.1, 10);
+  const within = numberIn('coverageWithinDays', options.coverageWithinDays ?? 1, 0.01, 30);
+  return { slotMinutes, slewMinutes, sameTargetMinutes, fill, extra, windowSigma, within };
+}
+
 /** Check the inputs, build the nights, the targets' states and options, and add kept blocks' information. */
 function preparePlanner(
   startDate: string,
@@ -142,62 +157,18 @@ function preparePlanner(
   if (sites.length === 0 || sites.length > 10)
     throw new InputError('sites', sites.length, 'must list 1 to 10 sites');
   const resolved = resolveTargets(targets, options);
-  const slotMinutes = numberIn('slotMinutes', options.slotMinutes ?? 10, 1, 30);
-  const slewMinutes = numberIn('slewMinutes', options.slewMinutes ?? 8, 0, 120);
-  const sameTargetMinutes = numberIn('sameTargetMinutes', options.sameTargetMinutes ?? 3, 0, 120);
-  const fill = options.fillFraction ?? 0.9;
-  if (!(fill > 0 && fill <= 1)) throw new InputError('fillFraction', fill, 'must lie in (0, 1]');
-  const extra = numberIn('extraEpochsPerTarget', options.extraEpochsPerTarget ?? 0, 0, 20);
-  if (options.relativityGoal !== undefined && typeof options.relativityGoal !== 'boolean')
-    throw new InputError('relativityGoal', options.relativityGoal, 'must be true or false');
-  const windowSigma = numberIn('periapsisWindowSigma', options.periapsisWindowSigma ?? 2, 0.1, 10);
-  const within = numberIn('coverageWithinDays', options.coverageWithinDays ?? 1, 0.01, 30);
+  const set = plannerSettings(options);
+  const { slotMinutes, slewMinutes, sameTargetMinutes, windowSigma } = set;
   const precision = sites.map((s, si) =>
     precisionModel([options.precision, s.precision], `sites.${si}.precision`),
   );
   const names = new Set(resolved.map((t) => t.name));
-  const nights = seasonNights(sites, dates, names, slotMinutes, fill, slewMinutes);
-  const { nD } = nights;
+  const nights = seasonNights(sites, dates, names, slotMinutes, set.fill, slewMinutes);
   const startJd = Math.min(...nights.darkStartJd),
     endJd = Math.max(...nights.darkEndJd);
   const states = resolved.map((t) => targetState(t, startJd, endJd, windowSigma));
-  const closed = states.map((ts) => {
-    const inWindow = (s: number, d: number) =>
-      ts.passages.some(
-        (q) =>
-          nights.darkEndJd[s * nD + d]! >= q.windowStartJd &&
-          nights.darkStartJd[s * nD + d]! <= q.windowEndJd,
-      );
-    const built = targetOptions(
-      { nights, sites, precision, slewMinutes, sameTargetMinutes, inWindow },
-      ts.t,
-    );
-    ts.options = built.options;
-    if (ts.model) {
-      const jac = jacobians(
-        ts.model,
-        Float64Array.from(ts.options, (o) => o.jd),
-      );
-      ts.options.forEach((o, k) => {
-        o.jac = jac[k]!;
-      });
-    }
-    const orbit = ts.t.input.target.orbit;
-    const kept = keptOf(nights, sites, precision, ts);
-    if (options.relativityGoal === true && orbit)
-      ts.rel = relativityState(
-        orbit,
-        ts.t.input.measurements ?? [],
-        ts.options,
-        kept.map(({ k, precision }) => ({
-          jd: (k.startJd + k.endJd) / 2,
-          kind: k.kind,
-          precision,
-        })),
-      );
-    addKept(ts, kept);
-    return built.closed;
-  });
+  const ctx = { nights, sites, precision, slewMinutes, sameTargetMinutes };
+  const closed = states.map((ts) => fillTargetState(ctx, ts, options.relativityGoal === true));
   const order = resolved
     .map((_, i) => i)
     .sort((a, b) => resolved[b]!.priority - resolved[a]!.priority || a - b);
@@ -216,9 +187,54 @@ function preparePlanner(
     slewMinutes,
     sameTargetMinutes,
     windowSigma,
-    coverageWithinDays: within,
-    extra,
+    coverageWithinDays: set.within,
+    extra: set.extra,
   };
+}
+
+/**
+ * One target's options (with their Jacobians), its relativity state when asked for, and its kept
+ * blocks' information; returns the closing limit of each (kind, site, night) without an option.
+ */
+function fillTargetState(
+  ctx: Pick<Planner, 'nights' | 'sites' | 'precision' | 'slewMinutes' | 'sameTargetMinutes'>,
+  ts: TargetState,
+  relativityGoal: boolean,
+): (NightReasonDetail | null)[] {
+  const { nights, sites, precision } = ctx;
+  const { nD } = nights;
+  const inWindow = (s: number, d: number) =>
+    ts.passages.some(
+      (q) =>
+        nights.darkEndJd[s * nD + d]! >= q.windowStartJd &&
+        nights.darkStartJd[s * nD + d]! <= q.windowEndJd,
+    );
+  const built = targetOptions({ ...ctx, inWindow }, ts.t);
+  ts.options = built.options;
+  if (ts.model) {
+    const jac = jacobians(
+      ts.model,
+      Float64Array.from(ts.options, (o) => o.jd),
+    );
+    ts.options.forEach((o, k) => {
+      o.jac = jac[k]!;
+    });
+  }
+  const orbit = ts.t.input.target.orbit;
+  const kept = keptOf(nights, sites, precision, ts);
+  if (relativityGoal && orbit)
+    ts.rel = relativityState(
+      orbit,
+      ts.t.input.measurements ?? [],
+      ts.options,
+      kept.map(({ k, precision }) => ({
+        jd: (k.startJd + k.endJd) / 2,
+        kind: k.kind,
+        precision,
+      })),
+    );
+  addKept(ts, kept);
+  return built.closed;
 }
 
 /** The target's kept blocks that count, each with the precision it has at its middle airmass. */

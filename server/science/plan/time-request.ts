@@ -126,70 +126,14 @@ export function timeRequest(
 ): TimeRequest {
   const chance = (site: string, date: string) =>
     Math.max(LEAST_CLEAR, Math.min(1, clear[site]?.[date] ?? 1));
-  const sites: SiteRequest[] = plan.sites.map((s) => {
-    const mine = plan.epochs.filter((e) => e.site === s.name);
-    const groups = new Map<string, SiteRequest['byTarget'][number]>();
-    let hours = 0,
-      allowance = 0,
-      weighted = 0;
-    for (const e of mine) {
-      const h = e.block.minutes / 60;
-      const c = chance(s.name, e.date);
-      const a = (h * (1 - c)) / c;
-      hours += h;
-      allowance += a;
-      weighted += h * c;
-      const key = `${e.target}\u0000${e.kind}`;
-      const g = groups.get(key) ?? {
-        target: e.target,
-        kind: e.kind,
-        blocks: 0,
-        hours: 0,
-        allowanceHours: 0,
-      };
-      g.blocks++;
-      g.hours += h;
-      g.allowanceHours += a;
-      groups.set(key, g);
-    }
-    return {
-      site: s.name,
-      nights: new Set(mine.map((e) => e.date)).size,
-      hours,
-      allowanceHours: allowance,
-      requestHours: hours + allowance,
-      clearChance: hours > 0 ? weighted / hours : 1,
-      byTarget: [...groups.values()].sort(
-        (a, b) => a.target.localeCompare(b.target) || a.kind.localeCompare(b.kind),
-      ),
-    };
-  });
-  const targets = plan.targets.map((t) => {
-    const rows = sites.flatMap((s) => s.byTarget.filter((b) => b.target === t.target));
-    const base: Omit<TargetResult, 'reason'> = {
-      target: t.target,
-      hours: rows.reduce((a, b) => a + b.hours, 0),
-      allowanceHours: rows.reduce((a, b) => a + b.allowanceHours, 0),
-      passage: t.passage?.date ?? null,
-      periapsisSigmaDays: {
-        without: t.shrinkage?.periapsisDays.before ?? null,
-        with: t.shrinkage?.periapsisDays.after ?? null,
-      },
-      massFraction: {
-        without: t.shrinkage?.massFraction.before ?? null,
-        with: t.shrinkage?.massFraction.after ?? null,
-      },
-      coverage: t.passage
-        ? {
-            withinDays: t.passage.coverage.withinDays,
-            without: t.passage.coverage.before,
-            with: t.passage.coverage.after,
-          }
-        : null,
-      factors: factors[t.target] ?? [],
-    };
-    return { ...base, reason: paragraph(base, sites) };
-  });
+  const sites = plan.sites.map((s) =>
+    siteRequest(
+      s.name,
+      plan.epochs.filter((e) => e.site === s.name),
+      chance,
+    ),
+  );
+  const targets = plan.targets.map((t) => targetResult(t, sites, factors[t.target] ?? []));
   const sum = (f: (s: SiteRequest) => number) => sites.reduce((a, s) => a + f(s), 0);
   return {
     semester,
@@ -206,7 +150,81 @@ export function timeRequest(
   };
 }
 
-/** The request as Markdown: a table per site, the totals, a paragraph per target. */
+/** One site's hours: its planned blocks, the weather allowance each needs, by target and kind. */
+function siteRequest(
+  site: string,
+  mine: readonly SeasonPlan['epochs'][number][],
+  chance: (site: string, date: string) => number,
+): SiteRequest {
+  const groups = new Map<string, SiteRequest['byTarget'][number]>();
+  let hours = 0,
+    allowance = 0,
+    weighted = 0;
+  for (const e of mine) {
+    const h = e.block.minutes / 60;
+    const c = chance(site, e.date);
+    const a = (h * (1 - c)) / c;
+    hours += h;
+    allowance += a;
+    weighted += h * c;
+    const key = `${e.target}\u0000${e.kind}`;
+    const g = groups.get(key) ?? {
+      target: e.target,
+      kind: e.kind,
+      blocks: 0,
+      hours: 0,
+      allowanceHours: 0,
+    };
+    g.blocks++;
+    g.hours += h;
+    g.allowanceHours += a;
+    groups.set(key, g);
+  }
+  return {
+    site,
+    nights: new Set(mine.map((e) => e.date)).size,
+    hours,
+    allowanceHours: allowance,
+    requestHours: hours + allowance,
+    clearChance: hours > 0 ? weighted / hours : 1,
+    byTarget: [...groups.values()].sort(
+      (a, b) => a.target.localeCompare(b.target) || a.kind.localeCompare(b.kind),
+    ),
+  };
+}
+
+/** One target's hours over the sites, what the plan gains it, and the paragraph that argues for it. */
+function targetResult(
+  t: SeasonPlan['targets'][number],
+  sites: SiteRequest[],
+  factors: FactorResult[],
+): TargetResult {
+  const rows = sites.flatMap((s) => s.byTarget.filter((b) => b.target === t.target));
+  const base: Omit<TargetResult, 'reason'> = {
+    target: t.target,
+    hours: rows.reduce((a, b) => a + b.hours, 0),
+    allowanceHours: rows.reduce((a, b) => a + b.allowanceHours, 0),
+    passage: t.passage?.date ?? null,
+    periapsisSigmaDays: {
+      without: t.shrinkage?.periapsisDays.before ?? null,
+      with: t.shrinkage?.periapsisDays.after ?? null,
+    },
+    massFraction: {
+      without: t.shrinkage?.massFraction.before ?? null,
+      with: t.shrinkage?.massFraction.after ?? null,
+    },
+    coverage: t.passage
+      ? {
+          withinDays: t.passage.coverage.withinDays,
+          without: t.passage.coverage.before,
+          with: t.passage.coverage.after,
+        }
+      : null,
+    factors,
+  };
+  return { ...base, reason: paragraph(base, sites) };
+}
+
 export function timeRequestMarkdown(r: TimeRequest): string {
   const out = [
     `# Time request, semester ${r.semester.name} (${r.semester.startDate} to ${r.semester.endDate})`,

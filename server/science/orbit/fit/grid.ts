@@ -92,6 +92,53 @@ function enumerateNodes(
   return { count, row, ecc, phase };
 }
 
+/** Each epoch's table position at phase 0 of each period row, in table intervals, in [0, TABLE_SIZE). */
+function phaseStarts(periods: readonly number[], jds: Float64Array, tRef: number): Float64Array[] {
+  return periods.map((P) =>
+    Float64Array.from(jds, (jd) => {
+      const u = (jd - tRef) / P,
+        x = (u - Math.floor(u)) * TABLE_SIZE;
+      return x < TABLE_SIZE ? x : 0;
+    }),
+  );
+}
+
+/** A node from its linear solution: Thiele–Innes constants, then the frame terms that were fitted. */
+function gridNode(
+  fit: NodeFit,
+  o: GridOptions,
+  periodDays: number,
+  periapsisJd: number,
+  e: number,
+): GridNode {
+  const { chi2, sx, sy } = fit;
+  const frame: [number, number, number, number] = [0, 0, 0, 0];
+  let k = 2;
+  if (o.frameOffset) {
+    frame[0] = sx[k]!;
+    frame[1] = sy[k]!;
+    k++;
+  }
+  if (o.frameDrift) {
+    frame[2] = sx[k]!;
+    frame[3] = sy[k]!;
+  }
+  return {
+    chi2: Math.max(chi2, 0),
+    periodDays,
+    periapsisJd,
+    e,
+    A: sy[0]!,
+    F: sy[1]!,
+    B: sx[0]!,
+    G: sx[1]!,
+    frame,
+    gamma: null,
+    signedDistancePc: null,
+    massRatio: null,
+  };
+}
+
 export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
   const ast = astrometryColumns(obs);
   const rv = obs.filter((m) => m.kind === 'radial-velocity');
@@ -108,14 +155,7 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
     nLin === 2
       ? twoUnknowns(ast)
       : withFrame(ast, nLin, o.frameOffset, o.frameDrift, o.frameEpochJd);
-  // Each epoch's table position at phase 0 of each period row, in table intervals, in [0, TABLE_SIZE).
-  const starts = periods.map((P) =>
-    Float64Array.from(ast.jd, (jd) => {
-      const u = (jd - tRef) / P,
-        x = (u - Math.floor(u)) * TABLE_SIZE;
-      return x < TABLE_SIZE ? x : 0;
-    }),
-  );
+  const starts = phaseStarts(periods, ast.jd, tRef);
   const { count, row, ecc, phase } = enumerateNodes(periods.length, eNodes);
   const tables = eNodes.map((e) => anomalyTable(e));
   // Most promising first: each node's bound from its first eighth of the epochs (cheap), then the
@@ -138,33 +178,8 @@ export function gridSearch(obs: Observation[], o: GridOptions): GridNode[] {
       !kernel.fit(tables[ecc[i]!]!, starts[row[i]!]!, phase[i]! * TABLE_SIZE, cut, fit)
     )
       return;
-    const { chi2, sx, sy } = fit;
-    const frame: [number, number, number, number] = [0, 0, 0, 0];
-    let k = 2;
-    if (o.frameOffset) {
-      frame[0] = sx[k]!;
-      frame[1] = sy[k]!;
-      k++;
-    }
-    if (o.frameDrift) {
-      frame[2] = sx[k]!;
-      frame[3] = sy[k]!;
-    }
     const P = periods[row[i]!]!;
-    nodes.push({
-      chi2: Math.max(chi2, 0),
-      periodDays: P,
-      periapsisJd: tRef - phase[i]! * P,
-      e: eNodes[ecc[i]!]!,
-      A: sy[0]!,
-      F: sy[1]!,
-      B: sx[0]!,
-      G: sx[1]!,
-      frame,
-      gamma: null,
-      signedDistancePc: null,
-      massRatio: null,
-    });
+    nodes.push(gridNode(fit, o, P, tRef - phase[i]! * P, eNodes[ecc[i]!]!));
     // Prune often: a tight cut early lets more nodes stop early.
     if (nodes.length >= POOL + 100) cut = prune(nodes);
   };
