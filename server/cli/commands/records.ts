@@ -57,6 +57,24 @@ interface RecordSpec {
   examples: string[];
 }
 
+const KINDS: readonly Kind[] = ['text', 'number', 'id', 'flag', 'ids', 'list', 'outcomes'];
+
+/**
+ * A record's fields as a table, one a line: the option, the field it fills, its kind, then the
+ * help (the rest of the line). Read once, when the command is built: a kind not known is refused.
+ */
+function fieldTable(table: string): FieldOption[] {
+  return table
+    .split('\n')
+    .filter((line) => line.trim() !== '')
+    .map((line) => {
+      const [option = '', field = '', kind = '', ...help] = line.trim().split(/\s+/);
+      if (!(KINDS as readonly string[]).includes(kind))
+        throw new Error(`field table: --${option} has kind ${JSON.stringify(kind)}`);
+      return { option, field, kind: kind as Kind, help: help.join(' ') };
+    });
+}
+
 const str = (k: string) => (r: Row) => (r[k] === null || r[k] === undefined ? '' : String(r[k]));
 const num = (k: string) => (r: Row) => (typeof r[k] === 'number' ? (r[k] as number) : null);
 
@@ -168,10 +186,33 @@ ${spec.examples.map((e) => `  ${e}`).join('\n')}
 `;
 }
 
-/** One record's command. */
-export function recordCommand(spec: RecordSpec): Command {
-  const idOption = `${spec.record}-id`;
-  const options = {
+/** The repository calls the record commands make, whichever repository the spec names. */
+interface RecordRepo {
+  create(actor: unknown, input: unknown): Promise<Row>;
+  get(id: number): Promise<Row>;
+  list(filter: Row, page: { limit: number }): Promise<{ items: Row[] }>;
+  update(actor: unknown, id: number, patch: Row, version?: number): Promise<Row>;
+}
+
+type Values = Record<string, string | boolean | string[] | undefined>;
+
+/** What each action of one run shares: the spec, the parsed options, the output format. */
+interface RecordRun {
+  spec: RecordSpec;
+  idOption: string;
+  values: Parameters<typeof storeAction>[0];
+  v: Values;
+  format: ReturnType<typeof outputFormat>;
+  repo: (store: Store) => RecordRepo;
+  view: (store: Store, row: Row) => Row | Promise<Row>;
+  /** The fields the options give, as a (nested) body. */
+  fieldsGiven: () => Row;
+  show: (rows: Row[]) => string;
+}
+
+/** The parseArgs options of a record's command: the store's, the id, --record, the fields, the filters. */
+function recordOptions(spec: RecordSpec, idOption: string) {
+  return {
     ...storeOptions,
     [idOption]: { type: 'string' },
     record: { type: 'string' },
@@ -189,13 +230,13 @@ export function recordCommand(spec: RecordSpec): Command {
     ),
     ...Object.fromEntries((spec.filters ?? []).map((f) => [f.option, { type: 'string' }])),
   } as const;
-  const repo = (store: Store) =>
-    store[spec.repo] as unknown as {
-      create(actor: unknown, input: unknown): Promise<Row>;
-      get(id: number): Promise<Row>;
-      list(filter: Row, page: { limit: number }): Promise<{ items: Row[] }>;
-      update(actor: unknown, id: number, patch: Row, version?: number): Promise<Row>;
-    };
+}
+
+/** One record's command. */
+export function recordCommand(spec: RecordSpec): Command {
+  const idOption = `${spec.record}-id`;
+  const options = recordOptions(spec, idOption);
+  const repo = (store: Store) => store[spec.repo] as unknown as RecordRepo;
   const view = (store: Store, row: Row) => (spec.view ? spec.view(store, row) : row);
   return {
     summary: spec.summary,
@@ -207,7 +248,7 @@ export function recordCommand(spec: RecordSpec): Command {
         strict: true,
         allowPositionals: true,
       });
-      const v = values as Record<string, string | boolean | string[] | undefined>;
+      const v = values as Values;
       const [action, ...extra] = positionals;
       if (extra.length) throw new UsageError(`unexpected ${JSON.stringify(extra[0])}`);
       const format = outputFormat(values);
@@ -219,84 +260,17 @@ export function recordCommand(spec: RecordSpec): Command {
       };
       const show = (rows: Row[]) =>
         render(format, rows, spec.columns, rows.length === 1 && action !== 'list' ? rows[0] : rows);
+      const r: RecordRun = { spec, idOption, values, v, format, repo, view, fieldsGiven, show };
       switch (action) {
-        case 'add': {
-          const given = v.record === undefined ? {} : readJsonArg('record', v.record as string);
-          if (typeof given !== 'object' || given === null || Array.isArray(given))
-            throw new UsageError('--record must be a JSON object (one record)');
-          const body = merge(given as Row, fieldsGiven());
-          const row = await storeAction(values, {
-            local: (store, actor) =>
-              repo(store)
-                .create(actor, body)
-                .then((r) => view(store, r)),
-            remote: { method: 'POST', path: spec.path, body },
-            writes: true,
-          }).catch((e: unknown) => asOption(spec, e));
-          return format === 'table'
-            ? `stored ${spec.record} ${row.id}${row.name ? ` ${JSON.stringify(row.name)}` : ''}\n${show([row])}`
-            : show([row]);
-        }
-        case 'edit': {
+        case 'add':
+          return addRecord(r);
+        case 'edit':
           if (!spec.editable) throw new UsageError(`${spec.record}: say add, list or show`);
-          const id = positiveId(idOption, v[idOption] as string | undefined);
-          const patch = fieldsGiven();
-          if (Object.keys(patch).length === 0)
-            throw new UsageError(`${spec.record} edit: give at least one field to change`);
-          const row = await storeAction(values, {
-            local: async (store, actor) => {
-              const read = await repo(store).get(id);
-              return view(
-                store,
-                await repo(store).update(actor, id, patch, read.version as number),
-              );
-            },
-            remote: async (api) => {
-              const read = await api<Row>({ method: 'GET', path: `${spec.path}/${id}` });
-              return api<Row>({
-                method: 'PATCH',
-                path: `${spec.path}/${id}`,
-                body: { ...patch, version: read.version },
-              });
-            },
-            writes: true,
-          }).catch((e: unknown) => asOption(spec, e));
-          return format === 'table'
-            ? `changed ${spec.record} ${row.id} (now version ${row.version})\n${show([row])}`
-            : show([row]);
-        }
-        case 'list': {
-          const filter: Row = {};
-          for (const f of spec.filters ?? []) {
-            const id = optionalId(f.option, v[f.option] as string | undefined);
-            if (id !== undefined) filter[f.field] = id;
-          }
-          const rows = await storeAction(values, {
-            local: async (store) =>
-              Promise.all(
-                (await repo(store).list(filter, { limit: 500 })).items.map((r) => view(store, r)),
-              ),
-            remote: async (api) =>
-              (
-                await api<{ items: Row[] }>({
-                  method: 'GET',
-                  path: spec.path,
-                  query: { ...(filter as Record<string, number>), limit: 500 },
-                })
-              ).items,
-          });
-          if (format === 'table' && rows.length === 0)
-            return `no ${spec.record} stored yet: add one with 'epochwright ${spec.record} add' (see --help)\n`;
-          return show(rows);
-        }
-        case 'show': {
-          const id = positiveId(idOption, v[idOption] as string | undefined);
-          const row = await storeAction(values, {
-            local: async (store) => view(store, await repo(store).get(id)),
-            remote: { method: 'GET', path: `${spec.path}/${id}` },
-          });
-          return format === 'table' ? describe(spec, row) : show([row]);
-        }
+          return editRecord(r);
+        case 'list':
+          return listRecords(r);
+        case 'show':
+          return showRecord(r);
         default:
           throw new UsageError(
             `${spec.record}: say add, list, show${spec.editable ? ' or edit' : ''}${action ? ` (not ${JSON.stringify(action)})` : ''}`,
@@ -304,6 +278,88 @@ export function recordCommand(spec: RecordSpec): Command {
       }
     },
   };
+}
+
+async function addRecord(r: RecordRun): Promise<string> {
+  const { spec, v } = r;
+  const given = v.record === undefined ? {} : readJsonArg('record', v.record as string);
+  if (typeof given !== 'object' || given === null || Array.isArray(given))
+    throw new UsageError('--record must be a JSON object (one record)');
+  const body = merge(given as Row, r.fieldsGiven());
+  const row = await storeAction(r.values, {
+    local: (store, actor) =>
+      r
+        .repo(store)
+        .create(actor, body)
+        .then((x) => r.view(store, x)),
+    remote: { method: 'POST', path: spec.path, body },
+    writes: true,
+  }).catch((e: unknown) => asOption(spec, e));
+  return r.format === 'table'
+    ? `stored ${spec.record} ${row.id}${row.name ? ` ${JSON.stringify(row.name)}` : ''}\n${r.show([row])}`
+    : r.show([row]);
+}
+
+/** Changes the fields given, sending the version read so a change made meanwhile is refused. */
+async function editRecord(r: RecordRun): Promise<string> {
+  const { spec } = r;
+  const id = positiveId(r.idOption, r.v[r.idOption] as string | undefined);
+  const patch = r.fieldsGiven();
+  if (Object.keys(patch).length === 0)
+    throw new UsageError(`${spec.record} edit: give at least one field to change`);
+  const row = await storeAction(r.values, {
+    local: async (store, actor) => {
+      const read = await r.repo(store).get(id);
+      return r.view(store, await r.repo(store).update(actor, id, patch, read.version as number));
+    },
+    remote: async (api) => {
+      const read = await api<Row>({ method: 'GET', path: `${spec.path}/${id}` });
+      return api<Row>({
+        method: 'PATCH',
+        path: `${spec.path}/${id}`,
+        body: { ...patch, version: read.version },
+      });
+    },
+    writes: true,
+  }).catch((e: unknown) => asOption(spec, e));
+  return r.format === 'table'
+    ? `changed ${spec.record} ${row.id} (now version ${row.version})\n${r.show([row])}`
+    : r.show([row]);
+}
+
+async function listRecords(r: RecordRun): Promise<string> {
+  const { spec } = r;
+  const filter: Row = {};
+  for (const f of spec.filters ?? []) {
+    const id = optionalId(f.option, r.v[f.option] as string | undefined);
+    if (id !== undefined) filter[f.field] = id;
+  }
+  const rows = await storeAction(r.values, {
+    local: async (store) =>
+      Promise.all(
+        (await r.repo(store).list(filter, { limit: 500 })).items.map((x) => r.view(store, x)),
+      ),
+    remote: async (api) =>
+      (
+        await api<{ items: Row[] }>({
+          method: 'GET',
+          path: spec.path,
+          query: { ...(filter as Record<string, number>), limit: 500 },
+        })
+      ).items,
+  });
+  if (r.format === 'table' && rows.length === 0)
+    return `no ${spec.record} stored yet: add one with 'epochwright ${spec.record} add' (see --help)\n`;
+  return r.show(rows);
+}
+
+async function showRecord(r: RecordRun): Promise<string> {
+  const id = positiveId(r.idOption, r.v[r.idOption] as string | undefined);
+  const row = await storeAction(r.values, {
+    local: async (store) => r.view(store, await r.repo(store).get(id)),
+    remote: { method: 'GET', path: `${r.spec.path}/${id}` },
+  });
+  return r.format === 'table' ? describe(r.spec, row) : r.show([row]);
 }
 
 /** One record for people: each field under the option that sets it, blanks left out. */
@@ -361,8 +417,6 @@ function merge(base: Row, over: Row): Row {
   return out;
 }
 
-const notes: FieldOption = { option: 'notes', field: 'notes', kind: 'text', help: 'free text' };
-
 export const systemCommand = recordCommand({
   record: 'system',
   repo: 'systems',
@@ -370,47 +424,17 @@ export const systemCommand = recordCommand({
   summary: 'add, list and show systems (a primary at its ICRS position)',
   about:
     'A system is one primary (a compact object or a primary star) at its ICRS position, with\nits distance and mass estimates; its stars are targets (epochwright target add).',
-  fields: [
-    { option: 'name', field: 'name', kind: 'text', help: 'the system’s name' },
-    {
-      option: 'ra',
-      field: 'raDeg',
-      kind: 'text',
-      help: 'ICRS right ascension: 250.3 (degrees), 16.69h, 16:41:12.5 (hours)',
-    },
-    {
-      option: 'dec',
-      field: 'decDeg',
-      kind: 'text',
-      help: 'ICRS declination: -26.69, -26:41:12, -26°41′12″',
-    },
-    {
-      option: 'position-epoch',
-      field: 'positionEpoch',
-      kind: 'text',
-      help: 'epoch of the position (default J2000.0)',
-    },
-    {
-      option: 'pm-ra',
-      field: 'pmRaMasYr',
-      kind: 'number',
-      help: 'proper motion μα* = μα·cos δ, mas/yr (default 0)',
-    },
-    {
-      option: 'pm-dec',
-      field: 'pmDecMasYr',
-      kind: 'number',
-      help: 'proper motion μδ, mas/yr (default 0)',
-    },
-    { option: 'distance-pc', field: 'distancePc', kind: 'number', help: 'distance, parsec' },
-    {
-      option: 'mass',
-      field: 'massSolar',
-      kind: 'number',
-      help: 'mass estimate of the primary, solar masses',
-    },
-    notes,
-  ],
+  fields: fieldTable(`
+    name            name           text    the system’s name
+    ra              raDeg          text    ICRS right ascension: 250.3 (degrees), 16.69h, 16:41:12.5 (hours)
+    dec             decDeg         text    ICRS declination: -26.69, -26:41:12, -26°41′12″
+    position-epoch  positionEpoch  text    epoch of the position (default J2000.0)
+    pm-ra           pmRaMasYr      number  proper motion μα* = μα·cos δ, mas/yr (default 0)
+    pm-dec          pmDecMasYr     number  proper motion μδ, mas/yr (default 0)
+    distance-pc     distancePc     number  distance, parsec
+    mass            massSolar      number  mass estimate of the primary, solar masses
+    notes           notes          text    free text
+  `),
   columns: [
     { header: 'id', value: num('id') },
     { header: 'name', value: str('name') },
@@ -431,23 +455,13 @@ export const targetCommand = recordCommand({
   summary: 'add, list and show targets (stars of a system)',
   about:
     'A target is a star orbiting a system’s primary. Its orbit solutions come by\n`epochwright import --kind orbits` or a fit (`epochwright fit --target-id <id> --accept`).',
-  fields: [
-    { option: 'system-id', field: 'systemId', kind: 'id', help: 'the system it orbits' },
-    { option: 'name', field: 'name', kind: 'text', help: 'the star’s name' },
-    {
-      option: 'magnitude',
-      field: 'magnitude',
-      kind: 'number',
-      help: 'apparent magnitude in --band',
-    },
-    {
-      option: 'band',
-      field: 'band',
-      kind: 'text',
-      help: 'photometric band of the magnitude (K, H, …)',
-    },
-    notes,
-  ],
+  fields: fieldTable(`
+    system-id  systemId   id      the system it orbits
+    name       name       text    the star’s name
+    magnitude  magnitude  number  apparent magnitude in --band
+    band       band       text    photometric band of the magnitude (K, H, …)
+    notes      notes      text    free text
+  `),
   filters: [{ option: 'system-id', field: 'systemId' }],
   columns: [
     { header: 'id', value: num('id') },
@@ -466,82 +480,22 @@ export const siteCommand = recordCommand({
   summary: 'add, list and show observing sites (a longitude that contradicts the zone is refused)',
   about:
     'An observing site: where it is, its IANA time zone and its pointing limits. A longitude that\ndisagrees with the zone by more than 3 hours (a flipped sign, most often) is refused with the\nlikely correction; give --longitude-zone-confirmed to keep it (a station on another place’s\nclock). A misspelled zone is refused with the nearest valid names. Its precision model:\n`epochwright site-precision`.',
-  fields: [
-    { option: 'name', field: 'name', kind: 'text', help: 'the site’s name' },
-    {
-      option: 'latitude',
-      field: 'latitudeDeg',
-      kind: 'text',
-      help: 'geodetic latitude, north positive: -24.6, -24:37:38',
-    },
-    {
-      option: 'longitude',
-      field: 'longitudeDeg',
-      kind: 'text',
-      help: 'longitude, east positive: -70.4, -70:24:10',
-    },
-    {
-      option: 'elevation',
-      field: 'elevationM',
-      kind: 'number',
-      help: 'elevation above the ellipsoid, metres',
-    },
-    {
-      option: 'time-zone',
-      field: 'timeZone',
-      kind: 'text',
-      help: 'IANA time zone, e.g. America/Santiago',
-    },
-    {
-      option: 'longitude-zone-confirmed',
-      field: 'longitudeZoneConfirmed',
-      kind: 'flag',
-      help: 'the longitude and the zone disagree, and that is meant',
-    },
-    {
-      option: 'lowest-altitude',
-      field: 'lowestAltitudeDeg',
-      kind: 'number',
-      help: 'lowest usable altitude, degrees (default 30)',
-    },
-    {
-      option: 'least-sun-distance',
-      field: 'leastSunDistanceDeg',
-      kind: 'number',
-      help: 'closest allowed angle to the Sun, degrees (default 45)',
-    },
-    {
-      option: 'pressure',
-      field: 'pressureHpa',
-      kind: 'number',
-      help: 'typical pressure for refraction, hPa',
-    },
-    {
-      option: 'temperature',
-      field: 'temperatureC',
-      kind: 'number',
-      help: 'typical night temperature, °C',
-    },
-    {
-      option: 'humidity',
-      field: 'humidityPct',
-      kind: 'number',
-      help: 'typical relative humidity, % (default 50)',
-    },
-    {
-      option: 'wavelength',
-      field: 'wavelengthUm',
-      kind: 'number',
-      help: 'wavelength observed, µm (default 2.2)',
-    },
-    {
-      option: 'laser-guide-star',
-      field: 'laserGuideStar',
-      kind: 'flag',
-      help: 'the site runs a laser guide star',
-    },
-    notes,
-  ],
+  fields: fieldTable(`
+    name                      name                    text    the site’s name
+    latitude                  latitudeDeg             text    geodetic latitude, north positive: -24.6, -24:37:38
+    longitude                 longitudeDeg            text    longitude, east positive: -70.4, -70:24:10
+    elevation                 elevationM              number  elevation above the ellipsoid, metres
+    time-zone                 timeZone                text    IANA time zone, e.g. America/Santiago
+    longitude-zone-confirmed  longitudeZoneConfirmed  flag    the longitude and the zone disagree, and that is meant
+    lowest-altitude           lowestAltitudeDeg       number  lowest usable altitude, degrees (default 30)
+    least-sun-distance        leastSunDistanceDeg     number  closest allowed angle to the Sun, degrees (default 45)
+    pressure                  pressureHpa             number  typical pressure for refraction, hPa
+    temperature               temperatureC            number  typical night temperature, °C
+    humidity                  humidityPct             number  typical relative humidity, % (default 50)
+    wavelength                wavelengthUm            number  wavelength observed, µm (default 2.2)
+    laser-guide-star          laserGuideStar          flag    the site runs a laser guide star
+    notes                     notes                   text    free text
+  `),
   columns: [
     { header: 'id', value: num('id') },
     { header: 'name', value: str('name') },
@@ -565,66 +519,21 @@ export const campaignCommand = recordCommand({
   summary: 'add, list and show campaigns (targets, sites, goals over a date range)',
   about:
     'A campaign follows its targets from its sites over a date range, with goals (cadence, a\ndenser cadence near periapsis, the kinds of measurement) and limits. Its allocated nights:\n`epochwright allocate`. Other goals (per-target settings, precision): --record with the JSON.',
-  fields: [
-    { option: 'name', field: 'name', kind: 'text', help: 'the campaign’s name' },
-    {
-      option: 'start',
-      field: 'startDate',
-      kind: 'text',
-      help: 'first night, YYYY-MM-DD (local evening date)',
-    },
-    { option: 'end', field: 'endDate', kind: 'text', help: 'last night, YYYY-MM-DD' },
-    {
-      option: 'target-ids',
-      field: 'targetIds',
-      kind: 'ids',
-      help: 'its targets, comma-separated ids',
-    },
-    { option: 'site-ids', field: 'siteIds', kind: 'ids', help: 'its sites, comma-separated ids' },
-    {
-      option: 'cadence-days',
-      field: 'goals.cadenceDays',
-      kind: 'number',
-      help: 'wanted interval between epochs of a target, days',
-    },
-    {
-      option: 'kinds',
-      field: 'goals.kinds',
-      kind: 'list',
-      help: 'astrometry, spectroscopy or both (comma-separated)',
-    },
-    {
-      option: 'dense-cadence-days',
-      field: 'goals.densifiedCadenceDays',
-      kind: 'number',
-      help: 'the interval near periapsis, days',
-    },
-    {
-      option: 'dense-within-days',
-      field: 'goals.densifyWithinDays',
-      kind: 'number',
-      help: 'how close to periapsis the dense cadence applies, days',
-    },
-    {
-      option: 'highest-airmass',
-      field: 'limits.highestAirmass',
-      kind: 'number',
-      help: 'highest airmass (default 2)',
-    },
-    {
-      option: 'least-moon-distance',
-      field: 'limits.leastMoonDistanceDeg',
-      kind: 'number',
-      help: 'least Moon distance while it is up, degrees',
-    },
-    {
-      option: 'darkness',
-      field: 'limits.darkness',
-      kind: 'text',
-      help: 'civil, nautical or astronomical (default)',
-    },
-    notes,
-  ],
+  fields: fieldTable(`
+    name                 name                         text    the campaign’s name
+    start                startDate                    text    first night, YYYY-MM-DD (local evening date)
+    end                  endDate                      text    last night, YYYY-MM-DD
+    target-ids           targetIds                    ids     its targets, comma-separated ids
+    site-ids             siteIds                      ids     its sites, comma-separated ids
+    cadence-days         goals.cadenceDays            number  wanted interval between epochs of a target, days
+    kinds                goals.kinds                  list    astrometry, spectroscopy or both (comma-separated)
+    dense-cadence-days   goals.densifiedCadenceDays   number  the interval near periapsis, days
+    dense-within-days    goals.densifyWithinDays      number  how close to periapsis the dense cadence applies, days
+    highest-airmass      limits.highestAirmass        number  highest airmass (default 2)
+    least-moon-distance  limits.leastMoonDistanceDeg  number  least Moon distance while it is up, degrees
+    darkness             limits.darkness              text    civil, nautical or astronomical (default)
+    notes                notes                        text    free text
+  `),
   view: (store, row) => store.campaigns.withMembers(row as never) as Promise<Row>,
   columns: [
     { header: 'id', value: num('id') },
@@ -654,48 +563,18 @@ export const blockCommand = recordCommand({
   summary: 'add, list, show and edit blocks by hand (a past night’s too: what really ran)',
   about:
     'A block is an interval of a stored night for one target and one kind of measurement. Blocks\nadded here are by hand; a block of a night that has ended records what ran (--status obtained,\npartial or lost, with its real --start and --end). Plans come from plan-season and plan-night.',
-  fields: [
-    {
-      option: 'night-id',
-      field: 'nightId',
-      kind: 'id',
-      help: 'the stored night (see epochwright allocate)',
-    },
-    { option: 'target-id', field: 'targetId', kind: 'id', help: 'the target' },
-    { option: 'kind', field: 'kind', kind: 'text', help: 'astrometry or spectroscopy' },
-    {
-      option: 'start',
-      field: 'startUtc',
-      kind: 'text',
-      help: 'start: ISO 8601 with a zone (2027-06-06T02:10-04), JD, MJD',
-    },
-    { option: 'end', field: 'endUtc', kind: 'text', help: 'end, as --start' },
-    {
-      option: 'status',
-      field: 'status',
-      kind: 'text',
-      help: 'planned (default), obtained, partial, lost or withdrawn',
-    },
-    {
-      option: 'laser-guide-star',
-      field: 'laserGuideStar',
-      kind: 'flag',
-      help: 'the block uses the site’s laser guide star',
-    },
-    {
-      option: 'pinned',
-      field: 'pinned',
-      kind: 'flag',
-      help: 'keep it where it is: no accepted plan replaces it',
-    },
-    {
-      option: 'overlap-reason',
-      field: 'overlapReason',
-      kind: 'text',
-      help: 'why it may overlap another block of its site',
-    },
-    notes,
-  ],
+  fields: fieldTable(`
+    night-id          nightId         id    the stored night (see epochwright allocate)
+    target-id         targetId        id    the target
+    kind              kind            text  astrometry or spectroscopy
+    start             startUtc        text  start: ISO 8601 with a zone (2027-06-06T02:10-04), JD, MJD
+    end               endUtc          text  end, as --start
+    status            status          text  planned (default), obtained, partial, lost or withdrawn
+    laser-guide-star  laserGuideStar  flag  the block uses the site’s laser guide star
+    pinned            pinned          flag  keep it where it is: no accepted plan replaces it
+    overlap-reason    overlapReason   text  why it may overlap another block of its site
+    notes             notes           text  free text
+  `),
   filters: [
     { option: 'night-id', field: 'nightId' },
     { option: 'target-id', field: 'targetId' },
@@ -725,44 +604,19 @@ export const reportCommand = recordCommand({
   summary: 'add, list, show and edit night reports: conditions, time lost, each block’s outcome',
   about:
     'The log of a night that has ended: seeing, adaptive-optics Strehl ratio, clouds, time lost and\nwhy, and the outcome of each block (--outcome <block id>=<status>, repeatable, or --record with\nthe JSON). Its measurements: `epochwright import --kind measurements` (with blockId).',
-  fields: [
-    { option: 'night-id', field: 'nightId', kind: 'id', help: 'the stored night' },
-    {
-      option: 'seeing',
-      field: 'seeingArcsec',
-      kind: 'number',
-      help: 'seeing FWHM at zenith, arcsec',
-    },
-    {
-      option: 'strehl',
-      field: 'strehlRatio',
-      kind: 'number',
-      help: 'adaptive-optics Strehl ratio, 0–1',
-    },
-    { option: 'cloud-cover', field: 'cloudCoverPct', kind: 'number', help: 'cloud cover, %' },
-    { option: 'humidity', field: 'humidityPct', kind: 'number', help: 'relative humidity, %' },
-    { option: 'wind', field: 'windMS', kind: 'number', help: 'wind speed, m/s' },
-    { option: 'temperature', field: 'temperatureC', kind: 'number', help: 'temperature, °C' },
-    {
-      option: 'time-lost',
-      field: 'timeLostHours',
-      kind: 'number',
-      help: 'hours lost (default 0); 1.5, not 1,5',
-    },
-    {
-      option: 'time-lost-reason',
-      field: 'timeLostReason',
-      kind: 'text',
-      help: 'why (clouds, wind, a fault)',
-    },
-    {
-      option: 'outcome',
-      field: 'outcomes',
-      kind: 'outcomes',
-      help: '<block id>=<status>[:<exposure minutes>], repeatable',
-    },
-    notes,
-  ],
+  fields: fieldTable(`
+    night-id          nightId         id        the stored night
+    seeing            seeingArcsec    number    seeing FWHM at zenith, arcsec
+    strehl            strehlRatio     number    adaptive-optics Strehl ratio, 0–1
+    cloud-cover       cloudCoverPct   number    cloud cover, %
+    humidity          humidityPct     number    relative humidity, %
+    wind              windMS          number    wind speed, m/s
+    temperature       temperatureC    number    temperature, °C
+    time-lost         timeLostHours   number    hours lost (default 0); 1.5, not 1,5
+    time-lost-reason  timeLostReason  text      why (clouds, wind, a fault)
+    outcome           outcomes        outcomes  <block id>=<status>[:<exposure minutes>], repeatable
+    notes             notes           text      free text
+  `),
   filters: [{ option: 'night-id', field: 'nightId' }],
   editable: true,
   view: (store, row) => store.nightReports.withOutcomes(row as never) as Promise<Row>,
@@ -793,71 +647,26 @@ export const measurementCommand = recordCommand({
   summary: 'add, list and show measurements one at a time (a file: epochwright import)',
   about:
     'One astrometric position or radial velocity of a target at an epoch, with its 1σ and the\ninstrument; give the block it came from (--block-id) so the site learns its precision. Many at\nonce: `epochwright import --kind measurements`.',
-  fields: [
-    { option: 'target-id', field: 'targetId', kind: 'id', help: 'the target' },
-    { option: 'block-id', field: 'blockId', kind: 'id', help: 'the block it was obtained in' },
-    { option: 'kind', field: 'kind', kind: 'text', help: 'offsets, separation or radial-velocity' },
-    {
-      option: 'component',
-      field: 'component',
-      kind: 'text',
-      help: 'relative (default), or primary / secondary for a radial velocity',
-    },
-    {
-      option: 'epoch',
-      field: 'epoch',
-      kind: 'text',
-      help: 'when: ISO 8601 with a zone, JD, MJD, J2027.35',
-    },
-    {
-      option: 'dra',
-      field: 'dRaMas',
-      kind: 'number',
-      help: 'offsets: Δα* = Δα·cos δ, mas (east positive)',
-    },
-    { option: 'ddec', field: 'dDecMas', kind: 'number', help: 'offsets: Δδ, mas (north positive)' },
-    { option: 'sigma-dra', field: 'sigmaDRaMas', kind: 'number', help: 'offsets: 1σ of Δα*, mas' },
-    { option: 'sigma-ddec', field: 'sigmaDDecMas', kind: 'number', help: 'offsets: 1σ of Δδ, mas' },
-    {
-      option: 'correlation',
-      field: 'correlation',
-      kind: 'number',
-      help: 'offsets, separation: correlation of the two errors',
-    },
-    { option: 'separation', field: 'separationMas', kind: 'number', help: 'separation: ρ, mas' },
-    {
-      option: 'position-angle',
-      field: 'positionAngleDeg',
-      kind: 'number',
-      help: 'separation: θ from north through east, degrees',
-    },
-    {
-      option: 'sigma-separation',
-      field: 'sigmaSeparationMas',
-      kind: 'number',
-      help: 'separation: 1σ of ρ, mas',
-    },
-    {
-      option: 'sigma-position-angle',
-      field: 'sigmaPositionAngleDeg',
-      kind: 'number',
-      help: 'separation: 1σ of θ, degrees',
-    },
-    {
-      option: 'rv',
-      field: 'radialVelocityKmS',
-      kind: 'number',
-      help: 'radial-velocity: km/s, receding positive',
-    },
-    {
-      option: 'sigma-rv',
-      field: 'sigmaRadialVelocityKmS',
-      kind: 'number',
-      help: 'radial-velocity: 1σ, km/s',
-    },
-    { option: 'instrument', field: 'instrument', kind: 'text', help: 'the instrument' },
-    notes,
-  ],
+  fields: fieldTable(`
+    target-id             targetId                id      the target
+    block-id              blockId                 id      the block it was obtained in
+    kind                  kind                    text    offsets, separation or radial-velocity
+    component             component               text    relative (default), or primary/secondary for a radial velocity
+    epoch                 epoch                   text    when: ISO 8601 with a zone, JD, MJD, J2027.35
+    dra                   dRaMas                  number  offsets: Δα* = Δα·cos δ, mas (east positive)
+    ddec                  dDecMas                 number  offsets: Δδ, mas (north positive)
+    sigma-dra             sigmaDRaMas             number  offsets: 1σ of Δα*, mas
+    sigma-ddec            sigmaDDecMas            number  offsets: 1σ of Δδ, mas
+    correlation           correlation             number  offsets, separation: correlation of the two errors
+    separation            separationMas           number  separation: ρ, mas
+    position-angle        positionAngleDeg        number  separation: θ from north through east, degrees
+    sigma-separation      sigmaSeparationMas      number  separation: 1σ of ρ, mas
+    sigma-position-angle  sigmaPositionAngleDeg   number  separation: 1σ of θ, degrees
+    rv                    radialVelocityKmS       number  radial-velocity: km/s, receding positive
+    sigma-rv              sigmaRadialVelocityKmS  number  radial-velocity: 1σ, km/s
+    instrument            instrument              text    the instrument
+    notes                 notes                   text    free text
+  `),
   filters: [
     { option: 'target-id', field: 'targetId' },
     { option: 'block-id', field: 'blockId' },

@@ -32,6 +32,7 @@ import { blockEntity, nightIntervalUtc, type BlockRow, type NightRow } from '../
 import {
   asKeptBlock,
   lastEpochs,
+  type NightState,
   nightStates,
   planDigest,
   plannerNames,
@@ -120,6 +121,78 @@ export async function prepare(
 ): Promise<Prepared> {
   const at = jdToIso(atJd);
   const input = await campaignPlanningInput(db, campaignId);
+  const { mode, weather, chosen } = checkedRequest(request, input, campaignId);
+  const names = plannerNames(input.targets);
+  const states = await nightStates(
+    db,
+    { siteIds: chosen.map((s) => s.id), from: request.startDate, to: request.endDate },
+    at,
+  );
+  const nightByKey = new Map<string, NightRow>();
+  const replaces: number[] = [];
+  const seasonSites: SeasonSite[] = [];
+  const weatherSites: SeasonSite[] = [];
+  const sitesOut: SeasonPlanPreview['sites'] = [];
+  for (const s of chosen) {
+    const mine = states.filter((n) => n.night.siteId === s.id);
+    const nights = siteNights(s, mine, request, { campaignId, mode, atJd, at }, names);
+    for (const [d, night] of nights.open) nightByKey.set(`${s.id}/${d}`, night);
+    replaces.push(...nights.replaces);
+    const stats = await siteStatisticsView(db, s.id);
+    const nightWeights = clearNightWeights(stats, nights.dates);
+    const site: SeasonSite = {
+      site: s.site,
+      limits: s.limits,
+      nights: nights.dates,
+      laserGuideStar: s.laserGuideStar,
+      kept: nights.keptByDate,
+      precision: s.precision,
+    };
+    seasonSites.push(weather === 'aware' ? { ...site, nightWeights } : site);
+    weatherSites.push({ ...site, nightWeights });
+    const chances = Object.values(nightWeights);
+    sitesOut.push({
+      siteId: s.id,
+      name: s.site.name,
+      openNights: nights.dates.length,
+      clearChance: {
+        mean: chances.length ? chances.reduce((a, x) => a + x, 0) / chances.length : null,
+        nightsLogged: stats.year.nights,
+      },
+      skipped: nights.skipped,
+      plannedAround: nights.plannedAround,
+    });
+  }
+  const { targets, options } = await planTargets(db, input, request, names, weather, chosen);
+  const { startDate, endDate } = request;
+  const plan = await run('planSeason', startDate, endDate, seasonSites, targets, options);
+  replaces.sort((a, b) => a - b);
+  const digest = planDigest({
+    epochs: plan.epochs.map((e) => [
+      e.target,
+      e.kind,
+      e.site,
+      e.date,
+      e.block.start.utc,
+      e.block.end.utc,
+    ]),
+    replaces,
+  });
+  return {
+    preview: { campaignId, at, nights: mode, weather, sites: sitesOut, plan, replaces, digest },
+    weatherSites,
+    targets,
+    options,
+    siteIdByName: new Map(chosen.map((s) => [s.site.name, s.id])),
+    targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
+    nightByKey,
+  };
+}
+
+type PlanningInput = Awaited<ReturnType<typeof campaignPlanningInput>>;
+
+/** The request's choices checked against the campaign: night mode, weather, dates, sites, targets. */
+function checkedRequest(request: SeasonPlanRequest, input: PlanningInput, campaignId: number) {
   const { campaign } = input;
   const mode = request.nights ?? 'allocated';
   if (!(NIGHT_CHOICES as readonly string[]).includes(mode))
@@ -159,94 +232,82 @@ export async function prepare(
     throw new InputError('siteIds', ids, 'must name at least one of the campaign’s sites');
   if (input.targets.length === 0)
     throw new InputError('campaignId', campaignId, 'has no targets to plan');
+  return { mode, weather, chosen };
+}
 
-  const names = plannerNames(input.targets);
-  const states = await nightStates(
-    db,
-    { siteIds: chosen.map((s) => s.id), from: request.startDate, to: request.endDate },
-    at,
-  );
-  const nightByKey = new Map<string, NightRow>();
+/**
+ * One site's nights of the range: those open to the plan (with their stored night, if any), those
+ * skipped and why, the kept blocks it plans around, and the planned blocks it would replace.
+ */
+function siteNights(
+  s: PlanningInput['sites'][number],
+  stored: readonly NightState[],
+  request: SeasonPlanRequest,
+  when: { campaignId: number; mode: string; atJd: number; at: string },
+  names: ReturnType<typeof plannerNames>,
+) {
+  const skipped: { date: string; reason: string }[] = [];
+  const plannedAround: { date: string; kept: { id: number; reason: string }[] }[] = [];
+  const keptByDate: Record<string, KeptBlock[]> = {};
+  const dates: string[] = [];
+  const open: [string, NightRow][] = [];
   const replaces: number[] = [];
-  const seasonSites: SeasonSite[] = [];
-  const weatherSites: SeasonSite[] = [];
-  const sitesOut: SeasonPlanPreview['sites'] = [];
-  for (const s of chosen) {
-    const skipped: { date: string; reason: string }[] = [];
-    const plannedAround: { date: string; kept: { id: number; reason: string }[] }[] = [];
-    const keptByDate: Record<string, KeptBlock[]> = {};
-    const open: string[] = [];
-    const stored = new Map(
-      states.filter((n) => n.night.siteId === s.id).map((n) => [n.night.date, n]),
-    );
-    for (let d = request.startDate; d <= request.endDate; d = addDays(d, 1)) {
-      const state = stored.get(d);
-      const begun = Date.parse(nightIntervalUtc(d, s.site.timeZone).start) <= jdToUnixMs(atJd);
-      if (!state) {
-        if (mode === 'all' && !begun) open.push(d);
-        continue;
-      }
-      const reason =
-        state.night.campaignId !== campaignId
-          ? state.night.campaignId === null
-            ? 'the night is stored without a campaign'
-            : `the night belongs to campaign ${state.night.campaignId}`
-          : state.reported
-            ? 'the night has a report'
-            : begun
-              ? `the night began before ${at}`
-              : null;
-      if (reason) {
-        skipped.push({ date: d, reason });
-        continue;
-      }
-      open.push(d);
-      nightByKey.set(`${s.id}/${d}`, state.night);
-      const kept = state.blocks.filter((b) => b.kept !== null);
-      if (kept.length > 0) {
-        keptByDate[d] = kept.map((b) => asKeptBlock(b.block, names));
-        plannedAround.push({
-          date: d,
-          kept: kept.map((b) => ({ id: b.block.id, reason: b.kept! })),
-        });
-      }
-      replaces.push(...state.blocks.filter((b) => b.kept === null).map((b) => b.block.id));
+  const byDate = new Map(stored.map((n) => [n.night.date, n]));
+  for (let d = request.startDate; d <= request.endDate; d = addDays(d, 1)) {
+    const state = byDate.get(d);
+    const begun = Date.parse(nightIntervalUtc(d, s.site.timeZone).start) <= jdToUnixMs(when.atJd);
+    if (!state) {
+      if (when.mode === 'all' && !begun) dates.push(d);
+      continue;
     }
-    const stats = await siteStatisticsView(db, s.id);
-    const nightWeights = clearNightWeights(stats, open);
-    const site: SeasonSite = {
-      site: s.site,
-      limits: s.limits,
-      nights: open,
-      laserGuideStar: s.laserGuideStar,
-      kept: keptByDate,
-      precision: s.precision,
-    };
-    seasonSites.push(weather === 'aware' ? { ...site, nightWeights } : site);
-    weatherSites.push({ ...site, nightWeights });
-    const chances = Object.values(nightWeights);
-    sitesOut.push({
-      siteId: s.id,
-      name: s.site.name,
-      openNights: open.length,
-      clearChance: {
-        mean: chances.length ? chances.reduce((a, x) => a + x, 0) / chances.length : null,
-        nightsLogged: stats.year.nights,
-      },
-      skipped,
-      plannedAround,
-    });
+    const reason =
+      state.night.campaignId !== when.campaignId
+        ? state.night.campaignId === null
+          ? 'the night is stored without a campaign'
+          : `the night belongs to campaign ${state.night.campaignId}`
+        : state.reported
+          ? 'the night has a report'
+          : begun
+            ? `the night began before ${when.at}`
+            : null;
+    if (reason) {
+      skipped.push({ date: d, reason });
+      continue;
+    }
+    dates.push(d);
+    open.push([d, state.night]);
+    const kept = state.blocks.filter((b) => b.kept !== null);
+    if (kept.length > 0) {
+      keptByDate[d] = kept.map((b) => asKeptBlock(b.block, names));
+      plannedAround.push({
+        date: d,
+        kept: kept.map((b) => ({ id: b.block.id, reason: b.kept! })),
+      });
+    }
+    replaces.push(...state.blocks.filter((b) => b.kept === null).map((b) => b.block.id));
   }
+  return { dates, open, skipped, plannedAround, keptByDate, replaces };
+}
 
+/** The planner's targets (with their measurements where a forecast needs them) and its options. */
+async function planTargets(
+  db: DbOrTx,
+  input: PlanningInput,
+  request: SeasonPlanRequest,
+  names: ReturnType<typeof plannerNames>,
+  weather: string,
+  chosen: PlanningInput['sites'],
+) {
+  const { campaign } = input;
   const last = await lastEpochs(
     db,
-    campaignId,
+    campaign.id,
     input.targets.map((t) => t.id),
     nightIntervalUtc(request.startDate, chosen[0]!.site.timeZone).start,
   );
   const {
-    startDate,
-    endDate,
+    startDate: _a,
+    endDate: _b,
     siteIds: _s,
     nights: _n,
     digest: _d,
@@ -269,28 +330,7 @@ export async function prepare(
     const m = measured.get(input.targets[i]!.id);
     return m ? { ...t, measurements: m } : t;
   });
-  const plan = await run('planSeason', startDate, endDate, seasonSites, targets, options);
-  replaces.sort((a, b) => a - b);
-  const digest = planDigest({
-    epochs: plan.epochs.map((e) => [
-      e.target,
-      e.kind,
-      e.site,
-      e.date,
-      e.block.start.utc,
-      e.block.end.utc,
-    ]),
-    replaces,
-  });
-  return {
-    preview: { campaignId, at, nights: mode, weather, sites: sitesOut, plan, replaces, digest },
-    weatherSites,
-    targets,
-    options,
-    siteIdByName: new Map(chosen.map((s) => [s.site.name, s.id])),
-    targetIdByName: new Map(input.targets.map((t) => [names.get(t.id)!, t.id])),
-    nightByKey,
-  };
+  return { targets, options };
 }
 
 /** The campaign's goals as the planner's settings (the request's own settings override them). */
