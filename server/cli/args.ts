@@ -4,6 +4,7 @@
  * and the value, and fails as a UsageError (exit code 2).
  */
 import { readFileSync } from 'node:fs';
+import { parseArgs, type ParseArgsConfig } from 'node:util';
 import { InputError } from '../science/errors.ts';
 import { UsageError } from './io.ts';
 import type { OutputFormat } from './output.ts';
@@ -75,6 +76,31 @@ export function checkAcceptDigest(values: { accept?: boolean; digest?: string })
 export function outputFormat(values: { json?: boolean; csv?: boolean }): OutputFormat {
   if (values.json && values.csv) throw new UsageError('choose one of --json and --csv');
   return values.json ? 'json' : values.csv ? 'csv' : 'table';
+}
+
+/** What parseArgs gives for these options, read strictly and without positionals. */
+type StrictValues<O extends NonNullable<ParseArgsConfig['options']>> = ReturnType<
+  typeof parseArgs<{ args: string[]; options: O; strict: true; allowPositionals: false }>
+>['values'];
+
+/** `--json` and `--csv`: the options of every command that prints a table. */
+export const outputOptions = { json: { type: 'boolean' }, csv: { type: 'boolean' } } as const;
+
+/**
+ * A command's options read strictly (an unknown option or a stray word is a usage error), with
+ * `--json` / `--csv` added, and the output format they ask for.
+ */
+export function commandArgs<const O extends NonNullable<ParseArgsConfig['options']>>(
+  argv: string[],
+  options: O,
+): { values: StrictValues<O & typeof outputOptions>; format: OutputFormat } {
+  const { values } = parseArgs({
+    args: argv,
+    options: { ...options, ...outputOptions },
+    strict: true,
+    allowPositionals: false,
+  });
+  return { values, format: outputFormat(values as { json?: boolean; csv?: boolean }) };
 }
 
 /**

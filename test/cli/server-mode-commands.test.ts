@@ -5,22 +5,20 @@
  * token's user; a bad value is named by its option either way.
  */
 import { mkdtempSync, rmSync } from 'node:fs';
-import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { serve, type ServerType } from '@hono/node-server';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { nowIso } from '../../server/clock.ts';
 import { commands } from '../../server/cli/commands/index.ts';
 import { InputError } from '../../server/science/errors.ts';
-import { createApp } from '../../server/http/app.ts';
 import { DEMO_DAYS, demoAnchor } from '../../server/store/demo/scenario.ts';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
+import { serveStore, type ServedStore } from './served-store.ts';
 
 let dir: string;
 let url: string;
 let store: Store;
-let server: ServerType;
+let served: ServedStore;
 let remote: string[];
 let lead: { id: number; secret: string };
 const demo = demoAnchor(nowIso());
@@ -39,26 +37,15 @@ beforeAll(async () => {
   url = `file:${join(dir, 'server.db')}`;
   store = createStore(await openDatabase({ url }));
   await store.loadDemo(LOCAL_OPERATOR, {});
-  const l = await store.users.createWithToken(LOCAL_OPERATOR, {
-    name: 'Mira Okonkwo-Tal',
-    role: 'lead',
-  });
-  lead = { id: l.user.id, secret: l.secret };
   ilex = (await store.targets.list({}, { limit: 50 })).items.find((t) => t.name === 'Ilex')!.id;
   comingNight = (await store.nights.list({}, { limit: 500 })).items.find(
     (n) => n.campaignId === 1 && n.siteId === 1 && n.date > demo.day(DEMO_DAYS.comingSeason.start),
   )!.id;
-  server = serve({ fetch: createApp({ store }).fetch, port: 0, hostname: '127.0.0.1' });
-  await new Promise((r) => server.once('listening', r));
-  remote = [
-    '--server',
-    `http://127.0.0.1:${(server.address() as AddressInfo).port}`,
-    '--token',
-    lead.secret,
-  ];
+  served = await serveStore(store, 'Mira Okonkwo-Tal');
+  ({ lead, remote } = served);
 });
 afterAll(async () => {
-  await new Promise((r) => server.close(r));
+  await served.close();
   store.close();
   rmSync(dir, { recursive: true, force: true });
 });

@@ -5,23 +5,21 @@
  * nothing. Names and places are invented.
  */
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import type { AddressInfo } from 'node:net';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { serve, type ServerType } from '@hono/node-server';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { commands } from '../../server/cli/commands/index.ts';
 import { UsageError } from '../../server/cli/io.ts';
 import { joinNegativeValues } from '../../server/cli/main.ts';
-import { createApp } from '../../server/http/app.ts';
 import { InputError } from '../../server/science/errors.ts';
-import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
+import { createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { tableCounts } from '../store/backends.ts';
+import { serveStore, type ServedStore } from './served-store.ts';
 
 let dir: string;
 let db: string[];
 let store: Store;
-let server: ServerType;
+let served: ServedStore;
 let remote: string[];
 let leadId: number;
 const run = (name: string, ...argv: string[]) =>
@@ -35,22 +33,12 @@ beforeAll(async () => {
   expect(await run('create-database', ...db)).toMatch(/created an empty database/);
   expect((await refused(run('create-database', ...db)))?.message).toMatch(/exists already/);
   store = createStore(await openDatabase({ url }));
-  const lead = await store.users.createWithToken(LOCAL_OPERATOR, {
-    name: 'Ines Varga',
-    role: 'lead',
-  });
-  leadId = lead.user.id;
-  server = serve({ fetch: createApp({ store }).fetch, port: 0, hostname: '127.0.0.1' });
-  await new Promise((r) => server.once('listening', r));
-  remote = [
-    '--server',
-    `http://127.0.0.1:${(server.address() as AddressInfo).port}`,
-    '--token',
-    lead.secret,
-  ];
+  served = await serveStore(store, 'Ines Varga');
+  leadId = served.lead.id;
+  remote = served.remote;
 });
 afterAll(async () => {
-  await new Promise((r) => server.close(r));
+  await served.close();
   store.close();
   rmSync(dir, { recursive: true, force: true });
 });

@@ -3,9 +3,8 @@
  * telescope's iCalendar schedule; a preview night by night, then (--accept) all of them or none.
  * The store reads the sources and judges each night (store/allocations/), as for the HTTP API.
  */
-import { parseArgs } from 'node:util';
 import type { AllocationPreview, AllocationRequest, NightRow, SiteRow } from '../../store/index.ts';
-import { asOptions, outputFormat, positiveId, readTextFile } from '../args.ts';
+import { asOptions, commandArgs, type outputFormat, positiveId, readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable, plural, render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions, type StoreValues } from './store-option.ts';
@@ -97,28 +96,20 @@ export const allocateCommand: Command = {
   summary: 'a campaign’s allocated nights from a pattern, a CSV or an iCalendar file (all or none)',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'campaign-id': { type: 'string' },
-        'site-id': { type: 'string' },
-        start: { type: 'string' },
-        end: { type: 'string' },
-        weekdays: { type: 'string' },
-        step: { type: 'string' },
-        semester: { type: 'string' },
-        'csv-file': { type: 'string' },
-        'calendar-file': { type: 'string' },
-        match: { type: 'string' },
-        accept: { type: 'boolean' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'campaign-id': { type: 'string' },
+      'site-id': { type: 'string' },
+      start: { type: 'string' },
+      end: { type: 'string' },
+      weekdays: { type: 'string' },
+      step: { type: 'string' },
+      semester: { type: 'string' },
+      'csv-file': { type: 'string' },
+      'calendar-file': { type: 'string' },
+      match: { type: 'string' },
+      accept: { type: 'boolean' },
     });
-    const format = outputFormat(values);
     const campaignId = positiveId('campaign-id', values['campaign-id']);
     const sources = [
       values['csv-file'] !== undefined,

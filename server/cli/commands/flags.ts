@@ -1,8 +1,7 @@
 /** `epochwright flags`: a stored campaign's planning flags, soonest first. */
-import { parseArgs } from 'node:util';
 import type { Flag } from '../../science/plan/index.ts';
 import type { Command } from '../io.ts';
-import { optionalPositive, outputFormat, positiveId } from '../args.ts';
+import { commandArgs, optionalPositive, positiveId } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import type { Store } from '../../store/index.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
@@ -28,20 +27,12 @@ export const flagsCommand: Command = {
   summary: 'periapsis, blend and stale-prediction flags of a stored campaign',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'campaign-id': { type: 'string' },
-        at: { type: 'string' },
-        resolution: { type: 'string' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'campaign-id': { type: 'string' },
+      at: { type: 'string' },
+      resolution: { type: 'string' },
     });
-    const format = outputFormat(values);
     const id = positiveId('campaign-id', values['campaign-id']);
     const nowJd = momentJd(values.at, '--at');
     const resolution = optionalPositive('resolution', values.resolution);

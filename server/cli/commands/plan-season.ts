@@ -1,5 +1,4 @@
 /** `epochwright plan-season`: a stored campaign's season plan; `--accept` stores it as blocks. */
-import { parseArgs } from 'node:util';
 import { SEASON_SETTINGS, type PlannedEpoch } from '../../science/plan/index.ts';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
@@ -10,7 +9,7 @@ import { UsageError, type Command } from '../io.ts';
 import {
   asOptions,
   checkAcceptDigest,
-  outputFormat,
+  commandArgs,
   positiveId,
   readJsonArg,
   weatherOption,
@@ -76,29 +75,21 @@ export const planSeasonCommand: Command = {
   summary: 'season plan of a stored campaign: epochs, reasons, unmet goals (--accept stores it)',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'campaign-id': { type: 'string' },
-        start: { type: 'string' },
-        end: { type: 'string' },
-        'site-id': { type: 'string', multiple: true },
-        'all-nights': { type: 'boolean' },
-        at: { type: 'string' },
-        settings: { type: 'string' },
-        accept: { type: 'boolean' },
-        digest: { type: 'string' },
-        weather: { type: 'string' },
-        draws: { type: 'string' },
-        seed: { type: 'string' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'campaign-id': { type: 'string' },
+      start: { type: 'string' },
+      end: { type: 'string' },
+      'site-id': { type: 'string', multiple: true },
+      'all-nights': { type: 'boolean' },
+      at: { type: 'string' },
+      settings: { type: 'string' },
+      accept: { type: 'boolean' },
+      digest: { type: 'string' },
+      weather: { type: 'string' },
+      draws: { type: 'string' },
+      seed: { type: 'string' },
     });
-    const format = outputFormat(values);
     const id = positiveId('campaign-id', values['campaign-id']);
     if (values.start === undefined || values.end === undefined)
       throw new UsageError('--start and --end are required (local evening dates, YYYY-MM-DD)');
