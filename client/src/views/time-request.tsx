@@ -6,7 +6,7 @@
  * /campaigns/{id}/time-request.
  */
 import { useState } from 'preact/hooks';
-import { api, getAll, type Schemas } from '../api/client.ts';
+import { api, getAll, type CampaignRow, type Schemas } from '../api/client.ts';
 import { ErrorLine, Loading, Section } from '../lib/ui.tsx';
 import { plural } from '../lib/words.ts';
 import { useAction } from '../lib/use-action.ts';
@@ -66,9 +66,11 @@ function SiteBars({ r }: { r: Request }) {
   );
 }
 
+type RequestForm = { name: string; startDate: string; endDate: string };
+
 export function TimeRequestView() {
   const { data: campaigns, error: loadError } = useLoad(() => getAll('/campaigns'), []);
-  const [form, setForm] = useState({ name: '', startDate: '', endDate: '' });
+  const [form, setForm] = useState<RequestForm>({ name: '', startDate: '', endDate: '' });
   // The campaign chosen on any campaign view, and chosen here for the others.
   const [campaign, choose] = useChosenCampaign(campaigns);
   const [result, setResult] = useState<Request | null>(null);
@@ -97,51 +99,17 @@ export function TimeRequestView() {
             });
           }}
         >
-          <label>
-            campaign{' '}
-            <select
-              name="campaign"
-              value={campaign ? String(campaign.id) : ''}
-              onChange={(e) => {
-                setResult(null);
-                choose(Number(e.currentTarget.value));
-              }}
-            >
-              {campaigns.map((c) => (
-                <option key={c.id} value={String(c.id)}>
-                  {c.name}
-                </option>
-              ))}
-            </select>
-          </label>
-          <label>
-            semester{' '}
-            <input
-              name="name"
-              size={8}
-              value={form.name}
-              placeholder="2027A"
-              onInput={(e) => setForm({ ...form, name: e.currentTarget.value })}
-            />
-          </label>
-          <label>
-            first night{' '}
-            <input
-              type="date"
-              name="startDate"
-              value={form.startDate}
-              onInput={(e) => setForm({ ...form, startDate: e.currentTarget.value })}
-            />
-          </label>
-          <label>
-            last night{' '}
-            <input
-              type="date"
-              name="endDate"
-              value={form.endDate}
-              onInput={(e) => setForm({ ...form, endDate: e.currentTarget.value })}
-            />
-          </label>
+          <RequestFields
+            campaigns={campaigns}
+            campaign={campaign}
+            onCampaign={(id) => {
+              // A request written for another campaign no longer answers the form.
+              setResult(null);
+              choose(id);
+            }}
+            form={form}
+            onForm={setForm}
+          />
           <button type="submit" class="primary" disabled={busy}>
             Write the request
           </button>
@@ -154,80 +122,154 @@ export function TimeRequestView() {
         </form>
         <ErrorLine error={error} />
       </Section>
-      {result && (
-        <article class="request-sheet">
-          <h1>
-            Time request, semester {result.semester.name} ({result.semester.startDate} to{' '}
-            {result.semester.endDate})
-          </h1>
-          <p class="request-total">
-            {h1(result.totals.requestHours)} h on {result.totals.nights} site-nights:{' '}
-            {h1(result.totals.hours)} h of planned blocks plus {h1(result.totals.allowanceHours)} h
-            weather allowance.
-          </p>
-          <SiteBars r={result} />
-          <table class="data request-table">
-            <thead>
-              <tr>
-                <th>site</th>
-                <th>target</th>
-                <th>kind</th>
-                <th>blocks</th>
-                <th>hours</th>
-                <th>weather (h)</th>
-                <th>request (h)</th>
-              </tr>
-            </thead>
-            {result.sites.map((s) => (
-              <tbody key={s.site} data-site={s.site}>
-                {s.byTarget.map((b) => (
-                  <tr key={`${b.target} ${b.kind}`}>
-                    <td>{s.site}</td>
-                    <td>{b.target}</td>
-                    <td>{b.kind}</td>
-                    <td>{b.blocks}</td>
-                    <td>{h1(b.hours)}</td>
-                    <td>{h1(b.allowanceHours)}</td>
-                    <td>{h1(b.hours + b.allowanceHours)}</td>
-                  </tr>
-                ))}
-                <tr class="site-total">
-                  <td colSpan={3}>
-                    {s.site}: {plural(s.nights, 'night')}, clear with chance{' '}
-                    {(100 * s.clearChance).toFixed(0)} %
-                  </td>
-                  <td>{s.byTarget.reduce((n, b) => n + b.blocks, 0)}</td>
-                  <td>{h1(s.hours)}</td>
-                  <td>{h1(s.allowanceHours)}</td>
-                  <td>{h1(s.requestHours)}</td>
-                </tr>
-              </tbody>
-            ))}
-          </table>
-          <h2>Why</h2>
-          {result.targets.map((t) => (
-            <p key={t.target} class="request-reason">
-              {t.reason}
-            </p>
-          ))}
-          <p class="muted">Rule: {result.rule}.</p>
-          <p class="muted request-method">Expected results: {result.method}.</p>
-          <p class="no-print">
-            <a
-              class="request-csv"
-              download={`time-request-${result.semester.name}.csv`}
-              href={`data:text/csv;charset=utf-8,${encodeURIComponent(result.csv)}`}
-            >
-              Download the hours as CSV
-            </a>{' '}
-            <span class="muted">(per site, target and kind, with each site’s total)</span>
-          </p>
-          <details class="no-print">
-            <summary>Markdown for the proposal</summary>
-            <textarea class="request-markdown" readOnly rows={14} value={result.markdown} />
-          </details>
-        </article>
-      )}
+      {result && <RequestSheet result={result} />}
     </div>
+  );
+}
+
+/** The campaign, the semester's label and its dates (blank: the campaign's own). */
+function RequestFields({
+  campaigns,
+  campaign,
+  onCampaign,
+  form,
+  onForm: setForm,
+}: {
+  campaigns: CampaignRow[];
+  campaign: CampaignRow | undefined;
+  onCampaign: (id: number) => void;
+  form: RequestForm;
+  onForm: (f: RequestForm) => void;
+}) {
+  return (
+    <>
+      <label>
+        campaign{' '}
+        <select
+          name="campaign"
+          value={campaign ? String(campaign.id) : ''}
+          onChange={(e) => onCampaign(Number(e.currentTarget.value))}
+        >
+          {campaigns.map((c) => (
+            <option key={c.id} value={String(c.id)}>
+              {c.name}
+            </option>
+          ))}
+        </select>
+      </label>
+      <label>
+        semester{' '}
+        <input
+          name="name"
+          size={8}
+          value={form.name}
+          placeholder="2027A"
+          onInput={(e) => setForm({ ...form, name: e.currentTarget.value })}
+        />
+      </label>
+      <label>
+        first night{' '}
+        <input
+          type="date"
+          name="startDate"
+          value={form.startDate}
+          onInput={(e) => setForm({ ...form, startDate: e.currentTarget.value })}
+        />
+      </label>
+      <label>
+        last night{' '}
+        <input
+          type="date"
+          name="endDate"
+          value={form.endDate}
+          onInput={(e) => setForm({ ...form, endDate: e.currentTarget.value })}
+        />
+      </label>
+    </>
+  );
+}
+
+/** The printable request: totals, the figure, the hours table, the reasons and the exports. */
+function RequestSheet({ result }: { result: Request }) {
+  return (
+    <article class="request-sheet">
+      <h1>
+        Time request, semester {result.semester.name} ({result.semester.startDate} to{' '}
+        {result.semester.endDate})
+      </h1>
+      <p class="request-total">
+        {h1(result.totals.requestHours)} h on {result.totals.nights} site-nights:{' '}
+        {h1(result.totals.hours)} h of planned blocks plus {h1(result.totals.allowanceHours)} h
+        weather allowance.
+      </p>
+      <SiteBars r={result} />
+      <RequestTable result={result} />
+      <h2>Why</h2>
+      {result.targets.map((t) => (
+        <p key={t.target} class="request-reason">
+          {t.reason}
+        </p>
+      ))}
+      <p class="muted">Rule: {result.rule}.</p>
+      <p class="muted request-method">Expected results: {result.method}.</p>
+      <p class="no-print">
+        <a
+          class="request-csv"
+          download={`time-request-${result.semester.name}.csv`}
+          href={`data:text/csv;charset=utf-8,${encodeURIComponent(result.csv)}`}
+        >
+          Download the hours as CSV
+        </a>{' '}
+        <span class="muted">(per site, target and kind, with each site’s total)</span>
+      </p>
+      <details class="no-print">
+        <summary>Markdown for the proposal</summary>
+        <textarea class="request-markdown" readOnly rows={14} value={result.markdown} />
+      </details>
+    </article>
+  );
+}
+
+/** Hours per site, one row per target and kind, then the site's total. */
+function RequestTable({ result }: { result: Request }) {
+  return (
+    <table class="data request-table">
+      <thead>
+        <tr>
+          <th>site</th>
+          <th>target</th>
+          <th>kind</th>
+          <th>blocks</th>
+          <th>hours</th>
+          <th>weather (h)</th>
+          <th>request (h)</th>
+        </tr>
+      </thead>
+      {result.sites.map((s) => (
+        <tbody key={s.site} data-site={s.site}>
+          {s.byTarget.map((b) => (
+            <tr key={`${b.target} ${b.kind}`}>
+              <td>{s.site}</td>
+              <td>{b.target}</td>
+              <td>{b.kind}</td>
+              <td>{b.blocks}</td>
+              <td>{h1(b.hours)}</td>
+              <td>{h1(b.allowanceHours)}</td>
+              <td>{h1(b.hours + b.allowanceHours)}</td>
+            </tr>
+          ))}
+          <tr class="site-total">
+            <td colSpan={3}>
+              {s.site}: {plural(s.nights, 'night')}, clear with chance{' '}
+              {(100 * s.clearChance).toFixed(0)} %
+            </td>
+            <td>{s.byTarget.reduce((n, b) => n + b.blocks, 0)}</td>
+            <td>{h1(s.hours)}</td>
+            <td>{h1(s.allowanceHours)}</td>
+            <td>{h1(s.requestHours)}</td>
+          </tr>
+        </tbody>
+      ))}
+    </table>
   );
 }
