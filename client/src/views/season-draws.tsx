@@ -12,6 +12,7 @@ import { useState } from 'preact/hooks';
 
 type Draws = Schemas['SeasonDraws'];
 type Dist = NonNullable<Schemas['DrawDistribution']>;
+type TargetDraws = Draws['draws']['targets'][number];
 
 const FACTOR: Record<string, string> = {
   redshiftFactor: 'σ of the redshift factor',
@@ -128,86 +129,97 @@ export function SeasonDrawsPanel({
         {busy && <span class="loading">drawing…</span>}
       </form>
       <ErrorLine error={error} />
-      {draws && (
-        <>
-          <p class="draws-head">
-            {draws.draws.draws} seasons drawn (seed {draws.draws.seed}) of the{' '}
-            {draws.weather === 'aware' ? 'weather-aware' : 'weather-blind'} plan (
-            {plural(draws.planned.epochs, 'epoch')}):{' '}
-            {draws.sites
-              .map(
-                (s) =>
-                  `${s.name} clear with chance ${s.clearChance.mean === null ? '–' : `${(100 * s.clearChance.mean).toFixed(0)} %`} (${s.clearChance.nightsLogged} night reports and the prior)`,
-              )
-              .join('; ')}
-            .
-          </p>
-          <table class="data draws-table">
-            <thead>
-              <tr>
-                <th>after the season</th>
-                <th>spread (5–95 %, 16–84 %, median)</th>
-                <th>5 %</th>
-                <th>16 %</th>
-                <th>median</th>
-                <th>84 %</th>
-                <th>95 %</th>
-                <th />
-              </tr>
-            </thead>
-            {draws.draws.targets.map((t) => (
-              <tbody key={t.target} data-target={t.target}>
-                <tr class="draw-target">
-                  <th colSpan={8}>
-                    {t.target}: {plural(t.epochs, 'epoch')}
-                    {t.kept.obtained + t.kept.planned > 0 &&
-                      ` (${t.kept.obtained} already obtained, certain; ${t.kept.planned} kept as planned)`}
-                    , {t.epochsLost.toFixed(1)} lost on average
-                    {t.windowCovered !== null &&
-                      `; an epoch survives in the passage’s window in ${(100 * t.windowCovered).toFixed(1)} % of seasons`}
-                  </th>
-                </tr>
-                {t.periapsisSigmaDays && (
-                  <Band
-                    d={t.periapsisSigmaDays}
-                    scale={24}
-                    unit="h"
-                    label={`σ of the ${t.passage!.date.slice(0, 10)} periapsis date`}
-                  />
-                )}
-                {t.massFraction && (
-                  <Band d={t.massFraction} scale={100} unit="%" label="σ of the mass" />
-                )}
-                {t.factors.map(
-                  (f) =>
-                    f.sigma &&
-                    (f.sigma.percentiles[2]!.value < UNDETERMINED ? (
-                      <Band key={f.name} d={f.sigma} scale={1} unit="" label={FACTOR[f.name]!} />
-                    ) : (
-                      <tr key={f.name} class="draw-row">
-                        <td>{FACTOR[f.name]}</td>
-                        <td colSpan={7} class="muted">
-                          not determined by this season (median σ{' '}
-                          {num(f.sigma.percentiles[2]!.value)}, the factor itself is about 1)
-                        </td>
-                      </tr>
-                    )),
-                )}
-                {t.coverage?.distribution && (
-                  <Band
-                    d={t.coverage.distribution}
-                    scale={100}
-                    unit="%"
-                    share
-                    label={`coverage of the passage within ${t.coverage.withinDays} d`}
-                  />
-                )}
-              </tbody>
-            ))}
-          </table>
-          <p class="muted">{draws.draws.assumptions}.</p>
-        </>
-      )}
+      {draws && <DrawsResult draws={draws} />}
     </div>
+  );
+}
+
+/** What the drawn seasons say: the plan and each site's clear chance, then a band per quantity. */
+function DrawsResult({ draws }: { draws: Draws }) {
+  return (
+    <>
+      <p class="draws-head">
+        {draws.draws.draws} seasons drawn (seed {draws.draws.seed}) of the{' '}
+        {draws.weather === 'aware' ? 'weather-aware' : 'weather-blind'} plan (
+        {plural(draws.planned.epochs, 'epoch')}):{' '}
+        {draws.sites
+          .map(
+            (s) =>
+              `${s.name} clear with chance ${s.clearChance.mean === null ? '–' : `${(100 * s.clearChance.mean).toFixed(0)} %`} (${s.clearChance.nightsLogged} night reports and the prior)`,
+          )
+          .join('; ')}
+        .
+      </p>
+      <table class="data draws-table">
+        <thead>
+          <tr>
+            <th>after the season</th>
+            <th>spread (5–95 %, 16–84 %, median)</th>
+            <th>5 %</th>
+            <th>16 %</th>
+            <th>median</th>
+            <th>84 %</th>
+            <th>95 %</th>
+            <th />
+          </tr>
+        </thead>
+        {draws.draws.targets.map((t) => (
+          <TargetBands key={t.target} t={t} />
+        ))}
+      </table>
+      <p class="muted">{draws.draws.assumptions}.</p>
+    </>
+  );
+}
+
+/** One target's epochs kept and lost, then the spread of each quantity the season should sharpen. */
+function TargetBands({ t }: { t: TargetDraws }) {
+  return (
+    <tbody data-target={t.target}>
+      <tr class="draw-target">
+        <th colSpan={8}>
+          {t.target}: {plural(t.epochs, 'epoch')}
+          {t.kept.obtained + t.kept.planned > 0 &&
+            ` (${t.kept.obtained} already obtained, certain; ${t.kept.planned} kept as planned)`}
+          , {t.epochsLost.toFixed(1)} lost on average
+          {t.windowCovered !== null &&
+            `; an epoch survives in the passage’s window in ${(100 * t.windowCovered).toFixed(1)} % of seasons`}
+        </th>
+      </tr>
+      {t.periapsisSigmaDays && (
+        <Band
+          d={t.periapsisSigmaDays}
+          scale={24}
+          unit="h"
+          label={`σ of the ${t.passage!.date.slice(0, 10)} periapsis date`}
+        />
+      )}
+      {t.massFraction && <Band d={t.massFraction} scale={100} unit="%" label="σ of the mass" />}
+      {t.factors.map((f) => f.sigma && <FactorBand key={f.name} name={f.name} sigma={f.sigma} />)}
+      {t.coverage?.distribution && (
+        <Band
+          d={t.coverage.distribution}
+          scale={100}
+          unit="%"
+          share
+          label={`coverage of the passage within ${t.coverage.withinDays} d`}
+        />
+      )}
+    </tbody>
+  );
+}
+
+/** A relativity factor's σ as a band, or said to be undetermined when the season cannot fix it. */
+function FactorBand({ name, sigma }: { name: string; sigma: Dist }) {
+  if (sigma.percentiles[2]!.value < UNDETERMINED)
+    return <Band d={sigma} scale={1} unit="" label={FACTOR[name]!} />;
+  return (
+    <tr class="draw-row">
+      <td>{FACTOR[name]}</td>
+      <td colSpan={7} class="muted">
+        not determined by this season (median σ {num(sigma.percentiles[2]!.value)}, the factor
+        itself is about 1)
+      </td>
+    </tr>
   );
 }
