@@ -3,7 +3,7 @@
  * with defaults from the current orbit solutions, and accept a fit as new orbit-solution versions
  * with their provenance, all targets in one transaction. The fit itself is the orbit engine's.
  */
-import { and, eq, gt, inArray } from 'drizzle-orm';
+import { and, eq, inArray } from 'drizzle-orm';
 import { measurements, orbitSolutions, targets } from '../../db/schema.ts';
 import { InputError } from '../science/errors.ts';
 import { JULIAN_YEAR_DAYS } from '../science/constants.ts';
@@ -17,11 +17,10 @@ import type {
 import type { Actor } from './audit.ts';
 import { getById } from './crud.ts';
 import type { StoreContext } from './context.ts';
-import type { MeasurementRow } from './repos/measurements.ts';
+import { measurementsInEpochOrder, type MeasurementRow } from './repos/measurements.ts';
 import type { OrbitSolutionRow } from './repos/orbits.ts';
 import { systemEntity, targetEntity } from './repos/catalogue.ts';
 import { nowIso } from '../clock.ts';
-import { readInPages } from './yield.ts';
 import { describeKind, fieldsOfKind } from '../../descriptors/measurement-kinds.ts';
 
 /** What a stored fit may set; everything else comes from the stored measurements. */
@@ -90,29 +89,27 @@ export async function prepareStoredFit(
   if (targetIds.length === 0)
     throw new InputError('targets', targetIds, 'must name at least one target with measurements');
   const { measurementIds, hints, ...rest } = options;
-  // In pages by id (a star may have 100,000 measurements), then in time order.
-  const rows = (
-    await readInPages(
-      (after, limit) =>
-        store.db
-          .select()
-          .from(measurements)
-          .where(and(inArray(measurements.targetId, targetIds), gt(measurements.id, after)))
-          .orderBy(measurements.id)
-          .limit(limit),
-      (r) => r.id,
-    )
-  ).sort((a, b) => a.epochJd - b.epochJd || a.id - b.id);
+  // Each target's rows in epoch order, in pages (a star may have 100,000 measurements), each
+  // row made the fit's input as its page comes in.
+  const byTarget = new Map<number, { id: number; input: MeasurementInput }[]>();
+  for (const id of targetIds)
+    byTarget.set(
+      id,
+      await measurementsInEpochOrder(store.db, id, [], (r) => ({ id: r.id, input: toInput(r) })),
+    );
   const chosen = measurementIds ? new Set(measurementIds) : null;
-  const stored = new Set(rows.map((r) => r.id));
-  measurementIds?.forEach((id, k) => {
-    if (!stored.has(id))
-      throw new InputError(
-        `measurementIds.${k}`,
-        id,
-        `is not a measurement of target ${targetIds.join(', ')}`,
-      );
-  });
+  if (measurementIds) {
+    const stored = new Set<number>();
+    for (const rows of byTarget.values()) for (const r of rows) stored.add(r.id);
+    measurementIds.forEach((id, k) => {
+      if (!stored.has(id))
+        throw new InputError(
+          `measurementIds.${k}`,
+          id,
+          `is not a measurement of target ${targetIds.join(', ')}`,
+        );
+    });
+  }
   const current = await store.db
     .select()
     .from(orbitSolutions)
@@ -121,7 +118,8 @@ export async function prepareStoredFit(
   const stars: FitRequest['stars'] = [];
   for (const id of targetIds) {
     const target = await getById(store.db, targetEntity, id);
-    const mine = rows.filter((r) => r.targetId === id && (!chosen || chosen.has(r.id)));
+    const all = byTarget.get(id)!;
+    const mine = chosen ? all.filter((r) => chosen.has(r.id)) : all;
     if (mine.length === 0)
       throw new InputError('targets', id, `target ${target.name} has no measurements to fit`);
     const sol = current.find((c) => c.targetId === id);
@@ -143,7 +141,7 @@ export async function prepareStoredFit(
         : undefined;
     stars.push({
       name: target.name,
-      measurements: mine.map(toInput),
+      measurements: mine.map((r) => r.input),
       ...(starHints ? { hints: starHints } : {}),
       ...(own ? { relativity: own } : {}),
     });

@@ -1,12 +1,12 @@
 /** Measurements for export, with their system and target names, as JSON rows or CSV (the import layout). */
 import { stringify } from 'csv-stringify/sync';
-import { and, asc, eq, gt } from 'drizzle-orm';
-import { measurements, systems, targets } from '../../../db/schema.ts';
+import { and, asc, eq } from 'drizzle-orm';
+import { systems, targets } from '../../../db/schema.ts';
 import type { DbOrTx } from '../database.ts';
-import { readInPages } from '../yield.ts';
 import { MEASUREMENT_COLUMNS, NUMERIC } from '../csv/columns.ts';
 import { escapeFormulaCell } from '../csv/cells.ts';
 import {
+  measurementsInEpochOrder,
   measurementWhere,
   type MeasurementFilter,
   type MeasurementRow,
@@ -15,43 +15,34 @@ import {
 export type ExportedMeasurement = MeasurementRow & { system: string; target: string };
 
 /**
- * Every measurement matching `filter`, ordered by system, target and epoch (no paging: exports are
- * whole). Read in pages by id with the event loop free between them (yield.ts), then put in order
- * here: names as SQLite's BINARY collation orders them (UTF-8 bytes), then epoch, then id.
+ * Every measurement matching `filter`, ordered by system, target and epoch, then id (no paging:
+ * exports are whole). The targets come in name order from SQLite (BINARY collation: UTF-8 bytes),
+ * and each target's rows in epoch order along its index, in pages with the event loop free between
+ * them (yield.ts): no sort of every row on the server's thread.
  */
 export async function measurementsForExport(
   db: DbOrTx,
   filter: MeasurementFilter = {},
 ): Promise<ExportedMeasurement[]> {
-  const rows = await readInPages(
-    (after, limit) =>
-      db
-        .select({ m: measurements, system: systems.name, target: targets.name })
-        .from(measurements)
-        .innerJoin(targets, eq(targets.id, measurements.targetId))
-        .innerJoin(systems, eq(systems.id, targets.systemId))
-        .where(and(gt(measurements.id, after), ...measurementWhere(filter, db)))
-        .orderBy(asc(measurements.id))
-        .limit(limit),
-    (r) => r.m.id,
-  );
-  const rank = byteOrderRanks(rows.flatMap((r) => [r.system, r.target]));
-  rows.sort(
-    (a, b) =>
-      rank.get(a.system)! - rank.get(b.system)! ||
-      rank.get(a.target)! - rank.get(b.target)! ||
-      a.m.epochJd - b.m.epochJd ||
-      a.m.id - b.m.id,
-  );
-  return rows.map((r) => ({ ...r.m, system: r.system, target: r.target }));
-}
-
-/** Each distinct name's place in UTF-8 byte order (how SQLite compares text by default). */
-function byteOrderRanks(names: string[]): Map<string, number> {
-  const distinct = [...new Set(names)].sort((a, b) =>
-    Buffer.compare(Buffer.from(a), Buffer.from(b)),
-  );
-  return new Map(distinct.map((n, i) => [n, i]));
+  const { targetId, systemId, ...rest } = filter;
+  const named = await db
+    .select({ id: targets.id, target: targets.name, system: systems.name })
+    .from(targets)
+    .innerJoin(systems, eq(systems.id, targets.systemId))
+    .where(
+      and(
+        targetId ? eq(targets.id, targetId) : undefined,
+        systemId ? eq(targets.systemId, systemId) : undefined,
+      ),
+    )
+    .orderBy(asc(systems.name), asc(targets.name), asc(targets.id));
+  const where = measurementWhere(rest, db);
+  const out: ExportedMeasurement[] = [];
+  for (const { id, system, target } of named) {
+    const rows = await measurementsInEpochOrder(db, id, where, (m) => ({ ...m, system, target }));
+    for (const r of rows) out.push(r);
+  }
+  return out;
 }
 
 /**

@@ -1,10 +1,11 @@
 /** Measurements: astrometric offsets, separation and position angle, or radial velocity, at an epoch. */
-import { eq, gte, inArray, lte } from 'drizzle-orm';
+import { and, asc, eq, gte, inArray, lte, sql, type SQL } from 'drizzle-orm';
 import { measurements, targets } from '../../../db/schema.ts';
 import { parseEpoch } from '../../science/time/index.ts';
 import { entity, requireRef } from '../crud.ts';
 import type { Db, DbOrTx } from '../database.ts';
 import { repository } from '../repository.ts';
+import { readInPages } from '../yield.ts';
 import { nowMs } from '../../clock.ts';
 import { blockRefs } from './block-rules.ts';
 import {
@@ -64,6 +65,39 @@ export function measurementWhere(f: MeasurementFilter, db: DbOrTx) {
     f.start ? gte(measurements.epochJd, parseEpoch(f.start, 'start')) : undefined,
     f.end ? lte(measurements.epochJd, parseEpoch(f.end, 'end')) : undefined,
   ];
+}
+
+/**
+ * A target's measurements (those `where` keeps) in epoch order, then id, read in pages along the
+ * (target, epoch) index: SQLite gives them in order, so no sort of every row holds the server's
+ * thread (a JavaScript sort of 100,000 rows did for a second under load). `keep` maps each row,
+ * a page at a time.
+ */
+export function measurementsInEpochOrder<T = MeasurementRow>(
+  db: DbOrTx,
+  targetId: number,
+  where: (SQL | undefined)[] = [],
+  keep?: (row: MeasurementRow) => T,
+): Promise<T[]> {
+  return readInPages(
+    (after: [number, number] | undefined, limit) =>
+      db
+        .select()
+        .from(measurements)
+        .where(
+          and(
+            eq(measurements.targetId, targetId),
+            after
+              ? sql`(${measurements.epochJd}, ${measurements.id}) > (${after[0]}, ${after[1]})`
+              : undefined,
+            ...where,
+          ),
+        )
+        .orderBy(asc(measurements.epochJd), asc(measurements.id))
+        .limit(limit),
+    (r): [number, number] => [r.epochJd, r.id],
+    keep,
+  );
 }
 
 export function measurementRepository(db: Db) {
