@@ -8,6 +8,7 @@
 import { availableParallelism } from 'node:os';
 import { MessageChannel } from 'node:worker_threads';
 import { Piscina } from 'piscina';
+import { handOver } from './hand-over.ts';
 import { errorFromData, type Runner, type TaskName } from './tasks.ts';
 import type { TaskMessage, TaskReply } from './worker.ts';
 
@@ -80,6 +81,7 @@ export function createJobPool(options: PoolOptions = {}): JobPool {
   });
   const run = (async (name: TaskName, ...args: unknown[]) => {
     if (piscina.queueSize >= o.maxQueue) throw busy(o);
+    const handed = await handOver(args);
     const abort = new AbortController();
     // The limit counts from when a thread takes the job up (the worker says so on this port), not
     // while it waits in the queue or a replacement thread starts.
@@ -91,8 +93,8 @@ export function createJobPool(options: PoolOptions = {}): JobPool {
     let reply: TaskReply;
     try {
       reply = await piscina.run(
-        { name, args, started: port2 },
-        { signal: abort.signal, transferList: [port2] },
+        { name, args: handed.args, started: port2 },
+        { signal: abort.signal, transferList: [port2, ...handed.transferList] },
       );
     } catch (err) {
       if (abort.signal.aborted)

@@ -5,6 +5,7 @@
 import { readlinkSync } from 'node:fs';
 import { setPriority } from 'node:os';
 import type { MessagePort } from 'node:worker_threads';
+import { takeOver } from './hand-over.ts';
 import { TASKS, errorToData, type ErrorData, type TaskName } from './tasks.ts';
 
 /**
@@ -47,7 +48,7 @@ export default function runTask({ name, args, started }: TaskMessage): TaskReply
   started?.postMessage('started');
   started?.close();
   try {
-    return { ok: true, value: (TASKS[name] as (...a: unknown[]) => unknown)(...args) };
+    return { ok: true, value: (TASKS[name] as (...a: unknown[]) => unknown)(...takeOver(args)) };
   } catch (err) {
     return { ok: false, error: errorToData(err) };
   }
