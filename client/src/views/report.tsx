@@ -379,7 +379,6 @@ function OutcomeRow({
   b,
   i,
 }: FieldsProps & { data: Loaded; b: BlockRow; i: number }) {
-  const zone = data.cat.site(data.night.siteId)?.timeZone ?? 'UTC';
   const o = form.outcomes[b.id] ?? { status: '', exposureMinutes: '', notes: '' };
   const msg = messages[`outcomes.${i}.status`] ?? messages[`outcomes.${i}.exposureMinutes`];
   const set = (patch: Partial<typeof o>) =>
@@ -388,16 +387,7 @@ function OutcomeRow({
     });
   return (
     <tr data-block={b.id}>
-      <td>
-        {data.cat.target(b.targetId)?.name} {b.kind}
-        {b.laserGuideStar && <span class="tag lgs-tag">laser</span>}
-      </td>
-      <td>
-        {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
-      </td>
-      <td>
-        {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
-      </td>
+      <BlockCells data={data} b={b} />
       <td>
         <select
           name={`outcome-${b.id}`}
@@ -435,6 +425,25 @@ function OutcomeRow({
         />
       </td>
     </tr>
+  );
+}
+
+/** Which block, and its times in UTC and the site's own zone. */
+function BlockCells({ data, b }: { data: Loaded; b: BlockRow }) {
+  const zone = data.cat.site(data.night.siteId)?.timeZone ?? 'UTC';
+  return (
+    <>
+      <td>
+        {data.cat.target(b.targetId)?.name} {b.kind}
+        {b.laserGuideStar && <span class="tag lgs-tag">laser</span>}
+      </td>
+      <td>
+        {utcClock(b.startUtc)}–{utcClock(b.endUtc)}
+      </td>
+      <td>
+        {zoneClock(b.startUtc, zone)}–{zoneClock(b.endUtc, zone)}
+      </td>
+    </>
   );
 }
 

@@ -226,9 +226,8 @@ function ProposedRow({
   edits,
   onEdits,
 }: Omit<ProposalProps, 'preview'> & { b: ScheduledBlock }) {
-  const pin = (shiftMin: number) => onEdits(withPin(edits, b, shiftMin));
   return (
-    <tr key={b.id} data-proposed={b.id}>
+    <tr data-proposed={b.id}>
       <td>
         {b.target} {b.kind}
         {b.laserGuideStar && <span class="tag lgs-tag">laser guide star</span>}
@@ -246,44 +245,56 @@ function ProposedRow({
         <Qty v={b.altitudeMiddleDeg} unit="" digits={0} />
       </td>
       <td>{b.pinned ? 'pinned' : ''}</td>
-      <td class="actions">
-        {b.pinned ? (
-          <button
-            type="button"
-            onClick={() => onEdits(withoutPin(edits, b.id))}
-            aria-label={`unpin ${b.id}`}
-          >
-            Unpin
-          </button>
-        ) : (
-          <button type="button" onClick={() => pin(0)} aria-label={`pin ${b.id}`}>
-            Pin
-          </button>
-        )}
-        <button
-          type="button"
-          onClick={() => pin(-MOVE_MIN)}
-          aria-label={`move ${b.id} ${MOVE_MIN} minutes earlier and pin it`}
-        >
-          −{MOVE_MIN} min
-        </button>
-        <button
-          type="button"
-          onClick={() => pin(MOVE_MIN)}
-          aria-label={`move ${b.id} ${MOVE_MIN} minutes later and pin it`}
-        >
-          +{MOVE_MIN} min
-        </button>
-        <button
-          type="button"
-          class="danger"
-          onClick={() => onEdits(withLeftOut(edits, b.id))}
-          aria-label={`leave out ${b.id}`}
-        >
-          Leave out
-        </button>
-      </td>
+      <BlockActions b={b} edits={edits} onEdits={onEdits} />
     </tr>
+  );
+}
+
+/** Pin or unpin a block, move it a step earlier or later (pinning it there), or leave it out. */
+function BlockActions({
+  b,
+  edits,
+  onEdits,
+}: Omit<ProposalProps, 'preview' | 'zone'> & { b: ScheduledBlock }) {
+  const pin = (shiftMin: number) => onEdits(withPin(edits, b, shiftMin));
+  return (
+    <td class="actions">
+      {b.pinned ? (
+        <button
+          type="button"
+          onClick={() => onEdits(withoutPin(edits, b.id))}
+          aria-label={`unpin ${b.id}`}
+        >
+          Unpin
+        </button>
+      ) : (
+        <button type="button" onClick={() => pin(0)} aria-label={`pin ${b.id}`}>
+          Pin
+        </button>
+      )}
+      <button
+        type="button"
+        onClick={() => pin(-MOVE_MIN)}
+        aria-label={`move ${b.id} ${MOVE_MIN} minutes earlier and pin it`}
+      >
+        −{MOVE_MIN} min
+      </button>
+      <button
+        type="button"
+        onClick={() => pin(MOVE_MIN)}
+        aria-label={`move ${b.id} ${MOVE_MIN} minutes later and pin it`}
+      >
+        +{MOVE_MIN} min
+      </button>
+      <button
+        type="button"
+        class="danger"
+        onClick={() => onEdits(withLeftOut(edits, b.id))}
+        aria-label={`leave out ${b.id}`}
+      >
+        Leave out
+      </button>
+    </td>
   );
 }
 

@@ -134,6 +134,13 @@ export function SeasonDrawsPanel({
   );
 }
 
+/** A site's learned clear chance and what it was learned from. */
+function siteWeather(s: Draws['sites'][number]): string {
+  const { mean, nightsLogged } = s.clearChance;
+  const chance = mean === null ? '–' : `${(100 * mean).toFixed(0)} %`;
+  return `${s.name} clear with chance ${chance} (${nightsLogged} night reports and the prior)`;
+}
+
 /** What the drawn seasons say: the plan and each site's clear chance, then a band per quantity. */
 function DrawsResult({ draws }: { draws: Draws }) {
   return (
@@ -141,14 +148,7 @@ function DrawsResult({ draws }: { draws: Draws }) {
       <p class="draws-head">
         {draws.draws.draws} seasons drawn (seed {draws.draws.seed}) of the{' '}
         {draws.weather === 'aware' ? 'weather-aware' : 'weather-blind'} plan (
-        {plural(draws.planned.epochs, 'epoch')}):{' '}
-        {draws.sites
-          .map(
-            (s) =>
-              `${s.name} clear with chance ${s.clearChance.mean === null ? '–' : `${(100 * s.clearChance.mean).toFixed(0)} %`} (${s.clearChance.nightsLogged} night reports and the prior)`,
-          )
-          .join('; ')}
-        .
+        {plural(draws.planned.epochs, 'epoch')}): {draws.sites.map(siteWeather).join('; ')}.
       </p>
       <table class="data draws-table">
         <thead>

@@ -173,26 +173,8 @@ function PlanRequestFields({
 }) {
   return (
     <>
-      <label>
-        first night (local date){' '}
-        <input
-          type="date"
-          name="startDate"
-          value={form.startDate}
-          onInput={(e) => setForm({ ...form, startDate: e.currentTarget.value })}
-        />
-        {msgs.startDate && <span class="field-msg">{msgs.startDate}</span>}
-      </label>
-      <label>
-        last night (local date){' '}
-        <input
-          type="date"
-          name="endDate"
-          value={form.endDate}
-          onInput={(e) => setForm({ ...form, endDate: e.currentTarget.value })}
-        />
-        {msgs.endDate && <span class="field-msg">{msgs.endDate}</span>}
-      </label>
+      <PlanNight field="startDate" label="first night" form={form} onForm={setForm} msgs={msgs} />
+      <PlanNight field="endDate" label="last night" form={form} onForm={setForm} msgs={msgs} />
       <label>
         nights{' '}
         <select
@@ -231,6 +213,29 @@ function PlanRequestFields({
         also pick the epochs that most sharpen the redshift and precession factors
       </label>
     </>
+  );
+}
+
+/** One end of the range, a local date, with the server's message for it. */
+function PlanNight(p: {
+  field: 'startDate' | 'endDate';
+  label: string;
+  form: PlanRequest;
+  onForm: (f: PlanRequest) => void;
+  msgs: FieldMsgs;
+}) {
+  const { field, form, msgs } = p;
+  return (
+    <label>
+      {p.label} (local date){' '}
+      <input
+        type="date"
+        name={field}
+        value={form[field]}
+        onInput={(e) => p.onForm({ ...form, [field]: e.currentTarget.value })}
+      />
+      {msgs[field] && <span class="field-msg">{msgs[field]}</span>}
+    </label>
   );
 }
 
@@ -343,6 +348,9 @@ function PlanTargetsTable({ plan: p }: { plan: Plan }) {
   );
 }
 
+const coverageWords = (c: { before: number; after: number; withinDays: number }) =>
+  `${pct(c.before)} → ${pct(c.after)} within ${c.withinDays} d`;
+
 /** One target's epochs and what the plan does to its coming periapsis and mass. */
 function TargetRow({ t }: { t: PlanTarget }) {
   return (
@@ -368,11 +376,7 @@ function TargetRow({ t }: { t: PlanTarget }) {
           '–'
         )}
       </td>
-      <td>
-        {t.passage
-          ? `${pct(t.passage.coverage.before)} → ${pct(t.passage.coverage.after)} within ${t.passage.coverage.withinDays} d`
-          : '–'}
-      </td>
+      <td>{t.passage ? coverageWords(t.passage.coverage) : '–'}</td>
       <td>
         {t.shrinkage?.massFraction.before != null ? (
           <>
@@ -386,6 +390,8 @@ function TargetRow({ t }: { t: PlanTarget }) {
     </tr>
   );
 }
+
+const CAPTION_REST = "the blocks that stay and this plan's, each at its expected σ.";
 
 function PlanRelativity({ plan: p, proposedGoal }: { plan: Plan; proposedGoal: boolean }) {
   if (!p.targets.some((t) => t.relativity)) return null;
@@ -402,7 +408,7 @@ function PlanRelativity({ plan: p, proposedGoal }: { plan: Plan; proposedGoal: b
             <ForecastSummary forecast={t.relativity} />
             <ForecastTable
               forecast={t.relativity}
-              caption={`Its measurements, then ${plural(t.relativity.plannedEpochs, 'epoch')}: the blocks that stay and this plan's, each at its expected σ.`}
+              caption={`Its measurements, then ${plural(t.relativity.plannedEpochs, 'epoch')}: ${CAPTION_REST}`}
             />
           </div>
         ) : null,
