@@ -1,9 +1,8 @@
 /** `epochwright forecast`: when a stored target's redshift and precession become detectable. */
-import { parseArgs } from 'node:util';
 import { momentJd } from '../../clock.ts';
 import type { FactorForecast } from '../../science/plan/index.ts';
 import type { Command } from '../io.ts';
-import { optionalPositive, outputFormat, positiveId } from '../args.ts';
+import { commandArgs, optionalPositive, positiveId } from '../args.ts';
 import { render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 
@@ -31,21 +30,13 @@ export const forecastCommand: Command = {
   summary: 'when the redshift and precession of a stored target become detectable',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'target-id': { type: 'string' },
-        at: { type: 'string' },
-        'astrometry-mas': { type: 'string' },
-        'spectroscopy-kms': { type: 'string' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'target-id': { type: 'string' },
+      at: { type: 'string' },
+      'astrometry-mas': { type: 'string' },
+      'spectroscopy-kms': { type: 'string' },
     });
-    const format = outputFormat(values);
     const id = positiveId('target-id', values['target-id']);
     const atJd = momentJd(values.at, '--at');
     const ast = optionalPositive('astrometry-mas', values['astrometry-mas']);

@@ -1,5 +1,4 @@
 /** `epochwright plan-night`: the schedule of a stored night; `--accept` stores it as blocks. */
-import { parseArgs } from 'node:util';
 import type { ScheduledBlock } from '../../science/plan/index.ts';
 import {
   ACCEPT_AT_TOLERANCE_MINUTES,
@@ -7,7 +6,7 @@ import {
   type Store,
 } from '../../store/index.ts';
 import { UsageError, type Command } from '../io.ts';
-import { asOptions, checkAcceptDigest, outputFormat, positiveId, readJsonArg } from '../args.ts';
+import { asOptions, checkAcceptDigest, commandArgs, positiveId, readJsonArg } from '../args.ts';
 import { formatTable, plural, render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
 import { momentJd } from '../../clock.ts';
@@ -54,26 +53,18 @@ export const planNightCommand: Command = {
   summary: 'schedule of a stored night: blocks, left-out blocks and why (--accept stores it)',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'night-id': { type: 'string' },
-        pin: { type: 'string', multiple: true },
-        remove: { type: 'string', multiple: true },
-        candidates: { type: 'string' },
-        method: { type: 'string' },
-        slot: { type: 'string' },
-        at: { type: 'string' },
-        accept: { type: 'boolean' },
-        digest: { type: 'string' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'night-id': { type: 'string' },
+      pin: { type: 'string', multiple: true },
+      remove: { type: 'string', multiple: true },
+      candidates: { type: 'string' },
+      method: { type: 'string' },
+      slot: { type: 'string' },
+      at: { type: 'string' },
+      accept: { type: 'boolean' },
+      digest: { type: 'string' },
     });
-    const format = outputFormat(values);
     const id = positiveId('night-id', values['night-id']);
     checkAcceptDigest(values);
     const pins = values.pin?.map((p) => {

@@ -1,7 +1,6 @@
 /** `epochwright replan`: after a night that lost time, the rest of its campaign's season planned again. */
-import { parseArgs } from 'node:util';
 import type { ReplanRequest, Store } from '../../store/index.ts';
-import { asOptions, checkAcceptDigest, outputFormat, positiveId, weatherOption } from '../args.ts';
+import { asOptions, checkAcceptDigest, commandArgs, positiveId, weatherOption } from '../args.ts';
 import type { Command } from '../io.ts';
 import { plural, render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
@@ -32,23 +31,15 @@ export const replanCommand: Command = {
     'after a night that lost time, the rest of the season planned again (--accept stores it)',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'night-id': { type: 'string' },
-        end: { type: 'string' },
-        weather: { type: 'string' },
-        at: { type: 'string' },
-        accept: { type: 'boolean' },
-        digest: { type: 'string' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'night-id': { type: 'string' },
+      end: { type: 'string' },
+      weather: { type: 'string' },
+      at: { type: 'string' },
+      accept: { type: 'boolean' },
+      digest: { type: 'string' },
     });
-    const format = outputFormat(values);
     const id = positiveId('night-id', values['night-id']);
     checkAcceptDigest(values);
     const weather = weatherOption(values.weather);

@@ -1,8 +1,7 @@
 /** `epochwright site-precision`: each site's expected measurement precision, shown or changed. */
-import { parseArgs } from 'node:util';
 import { DEFAULT_PRECISION } from '../../science/plan/index.ts';
 import type { SiteRow } from '../../store/index.ts';
-import { optionalId, outputFormat } from '../args.ts';
+import { commandArgs, optionalId } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
@@ -64,21 +63,13 @@ export const sitePrecisionCommand: Command = {
   summary: 'show or change each site’s expected measurement precision',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'site-id': { type: 'string' },
-        'astrometry-mas': { type: 'string' },
-        'spectroscopy-km-s': { type: 'string' },
-        'reference-seeing': { type: 'string' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'site-id': { type: 'string' },
+      'astrometry-mas': { type: 'string' },
+      'spectroscopy-km-s': { type: 'string' },
+      'reference-seeing': { type: 'string' },
     });
-    const format = outputFormat(values);
     const siteId = optionalId('site-id', values['site-id']);
     const patch: Record<string, number | null> = {};
     for (const [option, key] of Object.entries(FIELDS)) {

@@ -1,11 +1,10 @@
 /** `epochwright site-statistics`: what a site's log has learned per month, and setting its clear-night prior. */
-import { parseArgs } from 'node:util';
 import {
   DEFAULT_PRIOR_STRENGTH_NIGHTS,
   readClearPriorCsv,
   type SiteStatisticsView,
 } from '../../store/index.ts';
-import { optionalPositive, outputFormat, positiveId, readTextFile } from '../args.ts';
+import { commandArgs, optionalPositive, positiveId, readTextFile } from '../args.ts';
 import { UsageError, type Command } from '../io.ts';
 import { formatTable, render, type Column } from '../output.ts';
 import { STORE_HELP, storeAction, storeOptions } from './store-option.ts';
@@ -97,22 +96,14 @@ export const siteStatisticsCommand: Command = {
   summary: 'what a site’s log has learned: time lost per month, seeing, precision reached',
   help,
   async run(argv) {
-    const { values } = parseArgs({
-      args: argv,
-      options: {
-        ...storeOptions,
-        'site-id': { type: 'string' },
-        start: { type: 'string' },
-        end: { type: 'string' },
-        'set-prior': { type: 'string' },
-        strength: { type: 'string' },
-        json: { type: 'boolean' },
-        csv: { type: 'boolean' },
-      },
-      strict: true,
-      allowPositionals: false,
+    const { values, format } = commandArgs(argv, {
+      ...storeOptions,
+      'site-id': { type: 'string' },
+      start: { type: 'string' },
+      end: { type: 'string' },
+      'set-prior': { type: 'string' },
+      strength: { type: 'string' },
     });
-    const format = outputFormat(values);
     const id = positiveId('site-id', values['site-id']);
     const strength = optionalPositive('strength', values.strength) ?? DEFAULT_PRIOR_STRENGTH_NIGHTS;
     if (values.strength !== undefined && values['set-prior'] === undefined)
