@@ -9,7 +9,11 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LOCAL_OPERATOR, createStore, openDatabase, type Store } from '../../server/store/index.ts';
 import { databaseOf } from '../../server/store/testing.ts';
 import { createApp } from '../../server/http/app.ts';
-import { measurementsCsv } from '../../server/store/exports/measurements.ts';
+import {
+  measurementsCsv,
+  type ExportedMeasurement,
+} from '../../server/store/exports/measurements.ts';
+import type { MeasurementFilter } from '../../server/store/repos/measurements.ts';
 import { PAGE_ROWS } from '../../server/store/yield.ts';
 
 // Over several read pages, and over one export part (CSV_ROWS_PER_JOB, 5,000 rows) in all.
@@ -54,6 +58,23 @@ describe('reads in pages', () => {
       const jds = rows.filter((r) => r.target === name).map((r) => r.epochJd);
       expect(jds).toEqual([...jds].sort((a, b) => a - b));
     }
+  });
+
+  it('export with filters the rows of the whole export that match, in its order', async () => {
+    const all = await store.exports.measurements({});
+    const [lo, hi] = [2460000.5 + 100 * 0.37, 2460000.5 + 900 * 0.37];
+    const cases = [
+      [{ kind: 'offsets' as const }, () => false],
+      [{ kind: 'radial-velocity' as const }, () => true],
+      [{ targetId: ids['é-star'] }, (r) => r.target === 'é-star'],
+      [{ start: `JD ${lo}`, end: `JD ${hi}` }, (r) => r.epochJd >= lo && r.epochJd <= hi],
+      [{ systemId: 999 }, () => false],
+    ] satisfies [MeasurementFilter, (r: ExportedMeasurement) => boolean][];
+    for (const [filter, keep] of cases)
+      expect([filter, await store.exports.measurements(filter)]).toEqual([
+        filter,
+        all.filter(keep),
+      ]);
   });
 
   it('export over HTTP in parts that join to the one file', async () => {

@@ -1,7 +1,7 @@
 /** Measurements for export, with their system and target names, as JSON rows or CSV (the import layout). */
 import { stringify } from 'csv-stringify/sync';
-import { and, asc, eq } from 'drizzle-orm';
-import { systems, targets } from '../../../db/schema.ts';
+import { and, asc, eq, inArray } from 'drizzle-orm';
+import { measurements, systems, targets } from '../../../db/schema.ts';
 import type { DbOrTx } from '../database.ts';
 import { MEASUREMENT_COLUMNS, NUMERIC } from '../csv/columns.ts';
 import { escapeFormulaCell } from '../csv/cells.ts';
@@ -24,7 +24,7 @@ export async function measurementsForExport(
   db: DbOrTx,
   filter: MeasurementFilter = {},
 ): Promise<ExportedMeasurement[]> {
-  const { targetId, systemId, ...rest } = filter;
+  const { targetId, systemId, kind, blockId, ...epochs } = filter;
   const named = await db
     .select({ id: targets.id, target: targets.name, system: systems.name })
     .from(targets)
@@ -33,13 +33,29 @@ export async function measurementsForExport(
       and(
         targetId ? eq(targets.id, targetId) : undefined,
         systemId ? eq(targets.systemId, systemId) : undefined,
+        // A block's measurements are of its target alone (found along the block index).
+        blockId
+          ? inArray(
+              targets.id,
+              db
+                .select({ id: measurements.targetId })
+                .from(measurements)
+                .where(eq(measurements.blockId, blockId)),
+            )
+          : undefined,
       ),
     )
     .orderBy(asc(systems.name), asc(targets.name), asc(targets.id));
-  const where = measurementWhere(rest, db);
+  // The epoch range in SQL (along the index); kind and block a page at a time (see
+  // measurementsInEpochOrder).
+  const where = measurementWhere(epochs, db);
   const out: ExportedMeasurement[] = [];
   for (const { id, system, target } of named) {
-    const rows = await measurementsInEpochOrder(db, id, where, (m) => ({ ...m, system, target }));
+    const rows = await measurementsInEpochOrder(db, id, where, (m) =>
+      (kind && m.kind !== kind) || (blockId && m.blockId !== blockId)
+        ? undefined
+        : { ...m, system, target },
+    );
     for (const r of rows) out.push(r);
   }
   return out;

@@ -71,13 +71,14 @@ export function measurementWhere(f: MeasurementFilter, db: DbOrTx) {
  * A target's measurements (those `where` keeps) in epoch order, then id, read in pages along the
  * (target, epoch) index: SQLite gives them in order, so no sort of every row holds the server's
  * thread (a JavaScript sort of 100,000 rows did for a second under load). `keep` maps each row,
- * a page at a time.
+ * a page at a time, or drops it (undefined): a rare kind or block is better picked there than in
+ * `where`, where one statement would walk every row of the target to fill a page.
  */
 export function measurementsInEpochOrder<T = MeasurementRow>(
   db: DbOrTx,
   targetId: number,
   where: (SQL | undefined)[] = [],
-  keep?: (row: MeasurementRow) => T,
+  keep?: (row: MeasurementRow) => T | undefined,
 ): Promise<T[]> {
   return readInPages(
     (after: [number, number] | undefined, limit) =>
