@@ -5,7 +5,7 @@
  * with its job on the pool, each over 100,000 stored measurements of one target:
  * - `stall-fit` a stored target fit (preview) whose request the worker refuses at once (an unknown
  *   fixed parameter), so what is timed is the server's side: gathering the rows and handing them on;
- * - `stall-export` the measurements export (CSV) of that target;
+ * - `stall-export`, `stall-export-json` the measurements export of that target, as CSV and JSON;
  * - `stall-import` a 100,000-row measurements file imported over HTTP into a second target;
  * - `stall-idle` the same watch over three idle seconds: what waiting for a core alone gives.
  * Run once each (a stall is a maximum, not an average); the load average is on the line, since on a
@@ -129,9 +129,17 @@ export async function run(): Promise<string[]> {
       const res = await app.request(`/api/exports/measurements?targetId=${held.id}`, {
         headers: auth,
       });
-      return `${res.status} ${(await res.text()).length} chars`;
+      return `${res.status} ${(await res.arrayBuffer()).byteLength} bytes`;
     });
     lines.push(`${line('stall-export', exported)} answer ${exported.value}`);
+
+    const json = await longestStall(async () => {
+      const res = await app.request(`/api/exports/measurements?targetId=${held.id}&format=json`, {
+        headers: auth,
+      });
+      return `${res.status} ${(await res.arrayBuffer()).byteLength} bytes`;
+    });
+    lines.push(`${line('stall-export-json', json)} answer ${json.value}`);
 
     const head = 'system,target,kind,epoch,radialVelocityKmS,sigmaRadialVelocityKmS,instrument';
     const file = [
