@@ -84,7 +84,10 @@ export const accountCommand: Command = {
           },
           writes,
         });
-        return `created ${issued.user.role} ${JSON.stringify(issued.user.name)} (id ${issued.user.id}).\ntoken (shown once): ${issued.secret}\n`;
+        return (
+          `created ${issued.user.role} ${JSON.stringify(issued.user.name)} (id ${issued.user.id}).\ntoken ` +
+          `(shown once): ${issued.secret}\n`
+        );
       }
       case 'token': {
         if (values.name === undefined) throw new UsageError('account token needs --name');
@@ -102,7 +105,10 @@ export const accountCommand: Command = {
           },
           writes,
         });
-        return `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ${issued.secret}\n`;
+        return (
+          `new token for ${JSON.stringify(issued.user.name)} (token id ${issued.tokenId}), shown once: ` +
+          `${issued.secret}\n`
+        );
       }
       case 'feed-token': {
         const remote = values.server !== undefined;
@@ -125,7 +131,11 @@ export const accountCommand: Command = {
           },
           writes,
         });
-        return `feed token for campaign ${campaignId} (token id ${issued.tokenId}), shown once: ${issued.secret}\nsubscribe to /api/campaigns/${campaignId}/calendar.ics?token=${issued.secret}\n`;
+        return (
+          `feed token for campaign ${campaignId} (token id ${issued.tokenId}), shown once: ` +
+          `${issued.secret}\nsubscribe to ` +
+          `/api/campaigns/${campaignId}/calendar.ics?token=${issued.secret}\n`
+        );
       }
       case 'list': {
         const rows = await storeAction(values, users);
@@ -186,7 +196,10 @@ export const accountCommand: Command = {
         return storeAction(values, {
           local: async (store, actor) => {
             const t = await store.users.revokeToken(actor, id).catch(unknown);
-            return `revoked token ${t.id} (${JSON.stringify(t.label)}) of ${JSON.stringify(t.userName)} at ${t.revokedAt ?? ''}; it no longer signs in.\n`;
+            return (
+              `revoked token ${t.id} (${JSON.stringify(t.label)}) of ${JSON.stringify(t.userName)} at ` +
+              `${t.revokedAt ?? ''}; it no longer signs in.\n`
+            );
           },
           remote: async (api) => {
             await api({ method: 'DELETE', path: `/tokens/${id}` }).catch(unknown);

@@ -86,7 +86,10 @@ async function storedNights(
     { header: 'semester', value: (n) => n.semester },
   ];
   if (format === 'table' && nights.length === 0)
-    return `campaign ${campaignId} has no allocated nights yet: give a pattern, --csv-file or --calendar-file (see --help)\n`;
+    return (
+      `campaign ${campaignId} has no allocated nights yet: give a pattern, --csv-file or ` +
+      `--calendar-file (see --help)\n`
+    );
   return render(format, nights, columns, nights);
 }
 
@@ -188,10 +191,14 @@ export const allocateCommand: Command = {
     const tail = answer.created
       ? `stored ${plural(answer.created.length, 'night')} for campaign ${campaignId}\n`
       : c.refused > 0
-        ? `preview only: ${plural(c.refused, 'night')} refused, so --accept would store nothing; fix or leave them out\n`
+        ? `preview only: ${plural(c.refused, 'night')} refused, so --accept would store nothing; fix or ` +
+          `leave them out\n`
         : c.new > 0
           ? `preview only: run again with --accept to store the ${plural(c.new, 'new night')}\n`
           : 'nothing new to store\n';
-    return `${plural(c.new, 'new night')}, ${c.allocated} already allocated, ${c.refused} refused\n\n${formatTable(answer.nights, columns)}\n${tail}`;
+    return (
+      `${plural(c.new, 'new night')}, ${c.allocated} already allocated, ${c.refused} ` +
+      `refused\n\n${formatTable(answer.nights, columns)}\n${tail}`
+    );
   },
 };

@@ -50,6 +50,9 @@ export const createDatabaseCommand: Command = {
     } finally {
       store.close();
     }
-    return `created ${values.demo ? 'the demo database' : 'an empty database'} at ${displayUrl(where.url)} (from ${where.source})\n`;
+    return (
+      `created ${values.demo ? 'the demo database' : 'an empty database'} at ${displayUrl(where.url)} ` +
+      `(from ${where.source})\n`
+    );
   },
 };

@@ -295,7 +295,8 @@ export const fitCommand: Command = {
     const note = solutions
       .map(
         (r, k) =>
-          `stored ${result.stars[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ${r.version}, now current\n`,
+          `stored ${result.stars[k]!.name} (target ${r.targetId}) as orbit solution ${r.id}, version ` +
+          `${r.version}, now current\n`,
       )
       .join('');
     return renderFit(result, format, values.residuals === true, note);

@@ -92,10 +92,13 @@ export const nightCommand: Command = {
     const tw = report.sun.twilights;
     const head = [
       `${report.site.name}, night of ${report.night.date} (${report.site.timeZone}; local times)`,
-      `sunset ${t(report.sun.set)}  civil ${t(tw.civil.dusk)}  nautical ${t(tw.nautical.dusk)}  astronomical ${t(tw.astronomical.dusk)}`,
-      `astronomical ${t(tw.astronomical.dawn)}  nautical ${t(tw.nautical.dawn)}  civil ${t(tw.civil.dawn)}  sunrise ${t(report.sun.rise)}`,
+      `sunset ${t(report.sun.set)}  civil ${t(tw.civil.dusk)}  nautical ${t(tw.nautical.dusk)}  ` +
+        `astronomical ${t(tw.astronomical.dusk)}`,
+      `astronomical ${t(tw.astronomical.dawn)}  nautical ${t(tw.nautical.dawn)}  civil ` +
+        `${t(tw.civil.dawn)}  sunrise ${t(report.sun.rise)}`,
       `darkness, ${report.darkness.limit}: ${report.darkness.hours.toFixed(2)} h`,
-      `Moon: rises ${t(report.moon.rise)}, sets ${t(report.moon.set)}, ${(report.moon.illuminatedFraction * 100).toFixed(0)}% lit`,
+      `Moon: rises ${t(report.moon.rise)}, sets ${t(report.moon.set)}, ` +
+        `${(report.moon.illuminatedFraction * 100).toFixed(0)}% lit`,
       `altitudes and airmasses include ${report.site.refraction}`,
       `limits: altitude ≥ ${report.limits.altitudeLimitDeg.toFixed(1)}°${report.limits.highestAirmass ? ` (airmass ≤ ${report.limits.highestAirmass})` : ''}, Moon ≥ ${report.limits.leastMoonDistanceDeg}°, Sun ≥ ${report.limits.leastSunDistanceDeg}°`,
       '',

@@ -127,9 +127,11 @@ export const planNightCommand: Command = {
     if (format !== 'table') return render(format, s.blocks, columns, result);
     const written = result.written
       ? `accepted: ${plural(result.written.length, 'block')} written, ${result.replaces.length} replaced\n`
-      : `preview only (digest ${result.digest}): accepting would replace stored blocks [${result.replaces.join(', ')}]; run again with --accept to store it\n`;
+      : `preview only (digest ${result.digest}): accepting would replace stored blocks ` +
+        `[${result.replaces.join(', ')}]; run again with --accept to store it\n`;
     return [
-      `${s.site}, night of ${s.date} (${s.timeZone}; local times), ${s.method} schedule: ${s.scheduledHours.toFixed(2)} h of ${s.darkHours.toFixed(2)} h dark\n\n`,
+      `${s.site}, night of ${s.date} (${s.timeZone}; local times), ${s.method} schedule: ` +
+        `${s.scheduledHours.toFixed(2)} h of ${s.darkHours.toFixed(2)} h dark\n\n`,
       formatTable(s.blocks, columns),
       s.leftOut.length
         ? `\nleft out:\n${s.leftOut.map((l) => `  ${l.id}: ${l.reason}\n`).join('')}`

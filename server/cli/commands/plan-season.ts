@@ -186,8 +186,10 @@ export const planSeasonCommand: Command = {
     const stored = result;
     const written =
       stored.written && stored.nightsCreated
-        ? `accepted: ${plural(stored.written.length, 'block')} written, ${result.replaces.length} replaced, ${plural(stored.nightsCreated.length, 'night')} created\n`
-        : `preview only (digest ${result.digest}): accepting would replace ${result.replaces.length} stored blocks; run again with --accept to store it\n`;
+        ? `accepted: ${plural(stored.written.length, 'block')} written, ${result.replaces.length} ` +
+          `replaced, ${plural(stored.nightsCreated.length, 'night')} created\n`
+        : `preview only (digest ${result.digest}): accepting would replace ${result.replaces.length} ` +
+          `stored blocks; run again with --accept to store it\n`;
     const sigma = (x: number | null, d: number) => (x === null ? '—' : x.toFixed(d));
     const pct = (x: number) => `${(100 * x).toFixed(0)} %`;
     const targets = formatTable(plan.targets, [
@@ -205,28 +207,33 @@ export const planSeasonCommand: Command = {
         header: 'sigma_passage_d',
         value: (t) =>
           t.shrinkage?.passage
-            ? `${sigma(t.shrinkage.periapsisDays.before, 2)} → ${sigma(t.shrinkage.periapsisDays.after, 2)}${t.shrinkage.nominalPrior ? ' (nominal prior)' : ''}`
+            ? `${sigma(t.shrinkage.periapsisDays.before, 2)} → ` +
+              `${sigma(t.shrinkage.periapsisDays.after, 2)}${t.shrinkage.nominalPrior ? ' (nominal prior)' : ''}`
             : '—',
       },
       {
         header: 'coverage',
         value: (t) =>
           t.passage
-            ? `${pct(t.passage.coverage.before)} → ${pct(t.passage.coverage.after)} within ${t.passage.coverage.withinDays} d`
+            ? `${pct(t.passage.coverage.before)} → ${pct(t.passage.coverage.after)} within ` +
+              `${t.passage.coverage.withinDays} d`
             : '—',
       },
       {
         header: 'sigma_mass_pct',
         value: (t) =>
           t.shrinkage
-            ? `${sigma(t.shrinkage.massFraction.before && t.shrinkage.massFraction.before * 100, 2)} → ${sigma(t.shrinkage.massFraction.after && t.shrinkage.massFraction.after * 100, 2)}`
+            ? `${sigma(t.shrinkage.massFraction.before && t.shrinkage.massFraction.before * 100, 2)} → ` +
+              `${sigma(t.shrinkage.massFraction.after && t.shrinkage.massFraction.after * 100, 2)}`
             : '—',
       },
     ]);
     const windows = plan.targets.flatMap((t) =>
       t.passage
         ? [
-            `  ${t.target} passes periapsis ${t.passage.date.slice(0, 16).replace('T', ' ')} UTC; window ± ${t.passage.windowSigma} σ ${t.passage.windowStart.slice(0, 10)} to ${t.passage.windowEnd.slice(0, 10)}, ${t.passage.epochs} epochs in it\n`,
+            `  ${t.target} passes periapsis ${t.passage.date.slice(0, 16).replace('T', ' ')} UTC; window ± ` +
+              `${t.passage.windowSigma} σ ${t.passage.windowStart.slice(0, 10)} to ` +
+              `${t.passage.windowEnd.slice(0, 10)}, ${t.passage.epochs} epochs in it\n`,
             ...t.passage.unused.map(
               (n) => `    unused: ${n.site} ${n.date} ${n.kind}: ${n.words}\n`,
             ),

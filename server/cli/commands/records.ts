@@ -172,7 +172,12 @@ ${spec.about}
 
 add stores one ${spec.record}, all of it or nothing: a refused value is named with its option and
 rule, and nothing is written. --record gives the whole record as JSON (fields as in the HTTP API);
-options given beside it replace its fields.${spec.editable ? `\nedit changes the options given and keeps the rest (the version read is sent along, so a change\nmade meanwhile by someone else is refused rather than overwritten).` : ''}
+options given beside it replace its fields.${
+    spec.editable
+      ? `\nedit changes the options given and keeps the rest (the version read is sent along, so a ` +
+        `change\nmade meanwhile by someone else is refused rather than overwritten).`
+      : ''
+  }
 
 fields:
 ${spec.fields.map(line).join('\n')}
@@ -423,7 +428,8 @@ export const systemCommand = recordCommand({
   path: '/systems',
   summary: 'add, list and show systems (a primary at its ICRS position)',
   about:
-    'A system is one primary (a compact object or a primary star) at its ICRS position, with\nits distance and mass estimates; its stars are targets (epochwright target add).',
+    'A system is one primary (a compact object or a primary star) at its ICRS position, with\n' +
+    'its distance and mass estimates; its stars are targets (epochwright target add).',
   fields: fieldTable(`
     name            name           text    the system’s name
     ra              raDeg          text    ICRS right ascension: 250.3 (degrees), 16.69h, 16:41:12.5 (hours)
@@ -454,7 +460,8 @@ export const targetCommand = recordCommand({
   path: '/targets',
   summary: 'add, list and show targets (stars of a system)',
   about:
-    'A target is a star orbiting a system’s primary. Its orbit solutions come by\n`epochwright import --kind orbits` or a fit (`epochwright fit --target-id <id> --accept`).',
+    'A target is a star orbiting a system’s primary. Its orbit solutions come by\n' +
+    '`epochwright import --kind orbits` or a fit (`epochwright fit --target-id <id> --accept`).',
   fields: fieldTable(`
     system-id  systemId   id      the system it orbits
     name       name       text    the star’s name
@@ -479,7 +486,11 @@ export const siteCommand = recordCommand({
   path: '/sites',
   summary: 'add, list and show observing sites (a longitude that contradicts the zone is refused)',
   about:
-    'An observing site: where it is, its IANA time zone and its pointing limits. A longitude that\ndisagrees with the zone by more than 3 hours (a flipped sign, most often) is refused with the\nlikely correction; give --longitude-zone-confirmed to keep it (a station on another place’s\nclock). A misspelled zone is refused with the nearest valid names. Its precision model:\n`epochwright site-precision`.',
+    'An observing site: where it is, its IANA time zone and its pointing limits. A longitude that\n' +
+    'disagrees with the zone by more than 3 hours (a flipped sign, most often) is refused with the\n' +
+    'likely correction; give --longitude-zone-confirmed to keep it (a station on another place’s\n' +
+    'clock). A misspelled zone is refused with the nearest valid names. Its precision model:\n' +
+    '`epochwright site-precision`.',
   fields: fieldTable(`
     name                      name                    text    the site’s name
     latitude                  latitudeDeg             text    geodetic latitude, north positive: -24.6, -24:37:38
@@ -507,7 +518,8 @@ export const siteCommand = recordCommand({
     { header: 'laser', value: (r) => (r.laserGuideStar ? 'yes' : '') },
   ],
   examples: [
-    "epochwright site add --name 'Cerro Tanagra' --latitude -29:15:40 --longitude -70:44:10 --elevation 2380 --time-zone America/Santiago",
+    "epochwright site add --name 'Cerro Tanagra' --latitude -29:15:40 --longitude -70:44:10 --elevation " +
+      '2380 --time-zone America/Santiago',
   ],
 });
 
@@ -518,7 +530,9 @@ export const campaignCommand = recordCommand({
   path: '/campaigns',
   summary: 'add, list and show campaigns (targets, sites, goals over a date range)',
   about:
-    'A campaign follows its targets from its sites over a date range, with goals (cadence, a\ndenser cadence near periapsis, the kinds of measurement) and limits. Its allocated nights:\n`epochwright allocate`. Other goals (per-target settings, precision): --record with the JSON.',
+    'A campaign follows its targets from its sites over a date range, with goals (cadence, a\n' +
+    'denser cadence near periapsis, the kinds of measurement) and limits. Its allocated nights:\n' +
+    '`epochwright allocate`. Other goals (per-target settings, precision): --record with the JSON.',
   fields: fieldTable(`
     name                 name                         text    the campaign’s name
     start                startDate                    text    first night, YYYY-MM-DD (local evening date)
@@ -552,7 +566,8 @@ export const campaignCommand = recordCommand({
     },
   ],
   examples: [
-    "epochwright campaign add --name 'Lamp passage' --start 2027-03-01 --end 2027-10-31 --target-ids 1,2 --site-ids 1 --cadence-days 14 --kinds astrometry,spectroscopy",
+    "epochwright campaign add --name 'Lamp passage' --start 2027-03-01 --end 2027-10-31 --target-ids 1,2 " +
+      '--site-ids 1 --cadence-days 14 --kinds astrometry,spectroscopy',
   ],
 });
 
@@ -562,7 +577,9 @@ export const blockCommand = recordCommand({
   path: '/blocks',
   summary: 'add, list, show and edit blocks by hand (a past night’s too: what really ran)',
   about:
-    'A block is an interval of a stored night for one target and one kind of measurement. Blocks\nadded here are by hand; a block of a night that has ended records what ran (--status obtained,\npartial or lost, with its real --start and --end). Plans come from plan-season and plan-night.',
+    'A block is an interval of a stored night for one target and one kind of measurement. Blocks\n' +
+    'added here are by hand; a block of a night that has ended records what ran (--status obtained,\n' +
+    'partial or lost, with its real --start and --end). Plans come from plan-season and plan-night.',
   fields: fieldTable(`
     night-id          nightId         id    the stored night (see epochwright allocate)
     target-id         targetId        id    the target
@@ -592,7 +609,8 @@ export const blockCommand = recordCommand({
     { header: 'version', value: num('version') },
   ],
   examples: [
-    'epochwright block add --night-id 12 --target-id 1 --kind astrometry --start 2027-05-03T04:10Z --end 2027-05-03T04:50Z --status obtained',
+    'epochwright block add --night-id 12 --target-id 1 --kind astrometry --start 2027-05-03T04:10Z --end ' +
+      '2027-05-03T04:50Z --status obtained',
     'epochwright block edit --block-id 40 --status partial --end 2027-05-03T04:35Z',
   ],
 });
@@ -603,7 +621,9 @@ export const reportCommand = recordCommand({
   path: '/night-reports',
   summary: 'add, list, show and edit night reports: conditions, time lost, each block’s outcome',
   about:
-    'The log of a night that has ended: seeing, adaptive-optics Strehl ratio, clouds, time lost and\nwhy, and the outcome of each block (--outcome <block id>=<status>, repeatable, or --record with\nthe JSON). Its measurements: `epochwright import --kind measurements` (with blockId).',
+    'The log of a night that has ended: seeing, adaptive-optics Strehl ratio, clouds, time lost and\n' +
+    'why, and the outcome of each block (--outcome <block id>=<status>, repeatable, or --record with\n' +
+    'the JSON). Its measurements: `epochwright import --kind measurements` (with blockId).',
   fields: fieldTable(`
     night-id          nightId         id        the stored night
     seeing            seeingArcsec    number    seeing FWHM at zenith, arcsec
@@ -636,7 +656,8 @@ export const reportCommand = recordCommand({
     },
   ],
   examples: [
-    "epochwright report add --night-id 12 --seeing 0.7 --strehl 0.45 --time-lost 1.5 --time-lost-reason 'cirrus after 03:00' --outcome 40=obtained --outcome 41=lost",
+    'epochwright report add --night-id 12 --seeing 0.7 --strehl 0.45 --time-lost 1.5 --time-lost-reason ' +
+      "'cirrus after 03:00' --outcome 40=obtained --outcome 41=lost",
   ],
 });
 
@@ -646,7 +667,9 @@ export const measurementCommand = recordCommand({
   path: '/measurements',
   summary: 'add, list and show measurements one at a time (a file: epochwright import)',
   about:
-    'One astrometric position or radial velocity of a target at an epoch, with its 1σ and the\ninstrument; give the block it came from (--block-id) so the site learns its precision. Many at\nonce: `epochwright import --kind measurements`.',
+    'One astrometric position or radial velocity of a target at an epoch, with its 1σ and the\n' +
+    'instrument; give the block it came from (--block-id) so the site learns its precision. Many at\n' +
+    'once: `epochwright import --kind measurements`.',
   fields: fieldTable(`
     target-id             targetId                id      the target
     block-id              blockId                 id      the block it was obtained in
@@ -682,13 +705,17 @@ export const measurementCommand = recordCommand({
         r.kind === 'radial-velocity'
           ? `${(r.radialVelocityKmS as number).toFixed(2)} ± ${(r.sigmaRadialVelocityKmS as number).toFixed(2)} km/s`
           : r.kind === 'offsets'
-            ? `Δα* ${(r.dRaMas as number).toFixed(3)} ± ${(r.sigmaDRaMas as number).toFixed(3)}, Δδ ${(r.dDecMas as number).toFixed(3)} ± ${(r.sigmaDDecMas as number).toFixed(3)} mas`
-            : `ρ ${(r.separationMas as number).toFixed(3)} ± ${(r.sigmaSeparationMas as number).toFixed(3)} mas, θ ${(r.positionAngleDeg as number).toFixed(3)} ± ${(r.sigmaPositionAngleDeg as number).toFixed(3)}°`,
+            ? `Δα* ${(r.dRaMas as number).toFixed(3)} ± ${(r.sigmaDRaMas as number).toFixed(3)}, Δδ ` +
+              `${(r.dDecMas as number).toFixed(3)} ± ${(r.sigmaDDecMas as number).toFixed(3)} mas`
+            : `ρ ${(r.separationMas as number).toFixed(3)} ± ${(r.sigmaSeparationMas as number).toFixed(3)} ` +
+              `mas, θ ${(r.positionAngleDeg as number).toFixed(3)} ± ` +
+              `${(r.sigmaPositionAngleDeg as number).toFixed(3)}°`,
     },
     { header: 'block_id', value: num('blockId') },
     { header: 'instrument', value: str('instrument') },
   ],
   examples: [
-    "epochwright measurement add --target-id 1 --block-id 40 --kind offsets --epoch 2027-05-03T04:30Z --dra 12.41 --ddec -40.32 --sigma-dra 0.8 --sigma-ddec 0.8 --instrument 'imager K'",
+    'epochwright measurement add --target-id 1 --block-id 40 --kind offsets --epoch 2027-05-03T04:30Z ' +
+      "--dra 12.41 --ddec -40.32 --sigma-dra 0.8 --sigma-ddec 0.8 --instrument 'imager K'",
   ],
 });

@@ -56,7 +56,9 @@ export function renderDraws(view: SeasonDrawsView, format: OutputFormat): string
   if (format !== 'table') return render(format, rows, columns, view);
   const d = view.draws;
   const head = [
-    `${d.draws} seasons drawn (seed ${d.seed}) of the ${view.weather === 'aware' ? 'weather-aware' : 'weather-blind'} plan (${view.planned.epochs} epochs), each night lost at its site's learned chance:`,
+    `${d.draws} seasons drawn (seed ${d.seed}) of the ` +
+      `${view.weather === 'aware' ? 'weather-aware' : 'weather-blind'} plan (${view.planned.epochs} ` +
+      `epochs), each night lost at its site's learned chance:`,
     ...view.sites.map(
       (s) =>
         `  ${s.name}: a night is clear with chance ${s.clearChance.mean === null ? '—' : `${(100 * s.clearChance.mean).toFixed(0)} %`} (from ${s.clearChance.nightsLogged} night reports and the prior)`,
@@ -69,5 +71,8 @@ export function renderDraws(view: SeasonDrawsView, format: OutputFormat): string
       ),
     '',
   ];
-  return `${head.join('\n')}\n${formatTable(rows, columns)}\n${d.assumptions}; median_range: the median's sampling error (ranks N/2 ∓ √N).\n`;
+  return (
+    `${head.join('\n')}\n${formatTable(rows, columns)}\n${d.assumptions}; median_range: the ` +
+    `median's sampling error (ranks N/2 ∓ √N).\n`
+  );
 }

@@ -135,6 +135,11 @@ export const timeRequestCommand: Command = {
       { header: 'request_h', value: (x) => x.request, digits: format === 'table' ? 1 : 3 },
     ];
     if (format !== 'table') return render(format, rows, columns, r);
-    return `${render('table', rows, columns, r)}\ntotal: ${r.totals.requestHours.toFixed(1)} h (${r.totals.hours.toFixed(1)} h of blocks + ${r.totals.allowanceHours.toFixed(1)} h weather) on ${r.totals.nights} site-nights\n\n${r.targets.map((t) => t.reason).join('\n\n')}\n\nrule: ${r.rule}\nexpected results: ${r.method}\n`;
+    return (
+      `${render('table', rows, columns, r)}\ntotal: ${r.totals.requestHours.toFixed(1)} h ` +
+      `(${r.totals.hours.toFixed(1)} h of blocks + ${r.totals.allowanceHours.toFixed(1)} h weather) ` +
+      `on ${r.totals.nights} site-nights\n\n${r.targets.map((t) => t.reason).join('\n\n')}\n\nrule: ` +
+      `${r.rule}\nexpected results: ${r.method}\n`
+    );
   },
 };
