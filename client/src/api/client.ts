@@ -103,8 +103,8 @@ export const api = {
 };
 
 /**
- * Save a file the server writes (a CSV export, the archive, a calendar): fetched with the session's token like any other
- * call (errors thrown as ApiError), then handed to the browser as a download named `filename`.
+ * Save a file the server writes (a CSV export, the archive, a calendar): fetched with the session's token like any
+ * other call (errors thrown as ApiError), then handed to the browser as a download named `filename`.
  */
 export async function downloadFile<P extends PathsWith<'get'>>(
   path: P,

@@ -42,7 +42,10 @@ export function blockProblem(
   const t = visTargetOf(vis.targets, targetName);
   if (!t) return null;
   if (t.sunSeparationDeg < siteLeastSunDistanceDeg)
-    return `refused: ${t.sunSeparationDeg.toFixed(0)}° from the Sun, inside the site’s ${siteLeastSunDistanceDeg}° Sun-avoidance angle`;
+    return (
+      `refused: ${t.sunSeparationDeg.toFixed(0)}° from the Sun, inside the site’s ` +
+      `${siteLeastSunDistanceDeg}° Sun-avoidance angle`
+    );
   const s = ms(b.startUtc);
   const e = ms(b.endUtc);
   if (!t.windows.some((w) => ms(w.start.utc) <= s + 1000 && ms(w.end.utc) >= e - 1000))
@@ -443,7 +446,8 @@ function AddBlockSection(
     <Section title={ended ? 'Record what ran' : 'Add a block by hand'} id="add-block">
       <p class="muted">
         {ended
-          ? 'This night has ended. Record each block as it ran, with its real start and end; then write the night report and add the measurements.'
+          ? 'This night has ended. Record each block as it ran, with its real start and end; then write the ' +
+            'night report and add the measurements.'
           : 'A block made by hand is kept by every re-plan, like a pinned one.'}
       </p>
       <AddBlockForm night={p.night} vis={p.vis} cat={p.cat} ended={ended} onAdded={p.onAdded} />

@@ -50,7 +50,8 @@ function FlagItem({ f, targetId }: { f: Flag; targetId: number | undefined }) {
         ) : f.stale ? (
           <span class="flag-when">
             {f.stale.observableFrom
-              ? `from the night of ${f.stale.observableFrom.night} at ${f.stale.observableFrom.site} (${utcText(f.date)} UTC)`
+              ? `from the night of ${f.stale.observableFrom.night} at ${f.stale.observableFrom.site} ` +
+                `(${utcText(f.date)} UTC)`
               : 'now'}
           </span>
         ) : f.relativity ? (

@@ -239,7 +239,8 @@ function AddMeasurement({
         />
         {field(
           'epoch',
-          `epoch (ISO 8601 with its zone or offset, JD, MJD, or a decimal year; empty: the block’s middle, ${mid.slice(11, 16)} UTC)`,
+          `epoch (ISO 8601 with its zone or offset, JD, MJD, or a decimal year; empty: the block’s ` +
+            `middle, ${mid.slice(11, 16)} UTC)`,
           'text',
         )}
         {kindInputs(kind).map((f) => field(f.key, f.label))}

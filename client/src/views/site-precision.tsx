@@ -70,7 +70,8 @@ function PrecisionLine({ p }: { p: Precision }) {
       </td>
       <td>
         {p.zenith
-          ? `${p.zenith.sigma.toFixed(2)} ${p.unit} at ${p.zenith.referenceSeeingArcsec.toFixed(2)}″ seeing (${p.zenith.n})`
+          ? `${p.zenith.sigma.toFixed(2)} ${p.unit} at ${p.zenith.referenceSeeingArcsec.toFixed(2)}″ seeing ` +
+            `(${p.zenith.n})`
           : 'needs seeing in the night reports'}
       </td>
     </tr>

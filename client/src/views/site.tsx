@@ -286,7 +286,8 @@ function MonthLine({ m, prior }: { m: Month; prior: Prior }) {
       </td>
       <td>
         {m.seeingArcsec
-          ? `${m.seeingArcsec.median.toFixed(2)}″ (${m.seeingArcsec.q25.toFixed(2)}–${m.seeingArcsec.q75.toFixed(2)}, ${m.seeingArcsec.n} n)`
+          ? `${m.seeingArcsec.median.toFixed(2)}″ ` +
+            `(${m.seeingArcsec.q25.toFixed(2)}–${m.seeingArcsec.q75.toFixed(2)}, ${m.seeingArcsec.n} n)`
           : blankWhy(m.nights, 'seeing')}
       </td>
       <td>

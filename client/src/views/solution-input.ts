@@ -170,7 +170,9 @@ export function parseCovarianceText(
   const unknown = heads.filter((_, k) => !terms.some((t) => t.parameter === names[k]));
   if (unknown.length)
     return {
-      rule: `names ${unknown.join(', ')}: the first row must name elements among ${terms.map((t) => t.symbol).join(' ')}`,
+      rule:
+        `names ${unknown.join(', ')}: the first row must name elements among ` +
+        `${terms.map((t) => t.symbol).join(' ')}`,
     };
   if (body.length !== names.length || body.some((r) => r.length !== names.length))
     return { rule: `must have ${names.length} rows of ${names.length} numbers under the names` };

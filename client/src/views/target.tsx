@@ -80,7 +80,8 @@ function SkyPanel({ d, fitted }: { d: TargetData; fitted: Prediction[] | null })
           </>
         )}
         {photocentre > 0 &&
-          ` · ${photocentre} photocentre position${photocentre === 1 ? '' : 's'} not drawn: they lie on the light centre's orbit about the barycentre, not on the relative orbit`}
+          ` · ${photocentre} photocentre position${photocentre === 1 ? '' : 's'} not drawn: they lie on ` +
+            `the light centre's orbit about the barycentre, not on the relative orbit`}
       </p>
     </>
   );
@@ -238,7 +239,8 @@ function RvLegend(p: {
       {hidden > 0 &&
         (binary
           ? ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of another body not drawn (choose it above)`
-          : ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of the primary or the secondary about the barycentre not drawn: this solution has no mass ratio (a fit of them stores one)`)}
+          : ` · ${hidden} velocit${hidden === 1 ? 'y' : 'ies'} of the primary or the secondary about the ` +
+            `barycentre not drawn: this solution has no mass ratio (a fit of them stores one)`)}
     </p>
   );
 }
@@ -263,7 +265,8 @@ function Events({ targetId, periodYears }: { targetId: number; periodYears: numb
         From one year ago to {span.toFixed(0)} years ahead; uncertainty from the solution’s
         covariance where it has one.
         {lightTime
-          ? ' Observed times include the light-time across the orbit (Rømer delay); emitted times are when the light left the star.'
+          ? ' Observed times include the light-time across the orbit (Rømer delay); emitted times are when the ' +
+            'light left the star.'
           : ' This solution has the Rømer delay off: observed and emitted times are one clock.'}
       </caption>
       <thead>

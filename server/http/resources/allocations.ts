@@ -26,10 +26,14 @@ export const AllocationBody = z
         weekdays: z.array(z.number().int().min(1).max(7)).min(1).optional().openapi({
           description: 'ISO 8601 weekdays of the evening, 1 Monday … 7 Sunday; default every day',
         }),
-        step: z.string().optional().openapi({
-          description:
-            'spacing of the nights from start, an ISO 8601 duration in whole days from P1D to P366D (P2D: every second night); default P1D',
-        }),
+        step: z
+          .string()
+          .optional()
+          .openapi({
+            description:
+              'spacing of the nights from start, an ISO 8601 duration in whole days from P1D to P366D (P2D: every ' +
+              'second night); default P1D',
+          }),
         semester,
       })
       .strict(),

@@ -40,7 +40,10 @@ export const SeasonPlanBody = z
       .string()
       .optional()
       .openapi({
-        description: `the moment of planning (ISO 8601, JD, MJD); default now. Nights begun before it are not planned. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the server clock`,
+        description:
+          `the moment of planning (ISO 8601, JD, MJD); default now. Nights begun before it are not ` +
+          `planned. Accept refuses (422) a moment more than ${ACCEPT_AT_TOLERANCE_MINUTES} min before the ` +
+          `server clock`,
       }),
     blockMinutes: z
       .object({ astrometry: num('minutes, default 40'), spectroscopy: num('minutes, default 60') })
@@ -85,12 +88,17 @@ export const SeasonPlanBody = z
       .optional()
       .openapi({
         description:
-          'epochs per night in a periapsis window: "single", "fill" (as many as fit) or { step } (one per ISO 8601 duration)',
+          'epochs per night in a periapsis window: "single", "fill" (as many as fit) or { step } (one per ISO ' +
+          '8601 duration)',
       }),
-    relativityGoal: z.boolean().optional().openapi({
-      description:
-        'also maximise the relativity forecast: epochs that most tighten the redshift and precession factors of targets with those terms on; default the campaign’s (false)',
-    }),
+    relativityGoal: z
+      .boolean()
+      .optional()
+      .openapi({
+        description:
+          'also maximise the relativity forecast: epochs that most tighten the redshift and precession factors ' +
+          'of targets with those terms on; default the campaign’s (false)',
+      }),
     slotMinutes: num('slot length, minutes, [1, 30]; default 10'),
     slewMinutes: num('gap between targets, minutes, [0, 120]; default 8'),
     sameTargetMinutes: num('gap between blocks of one target, minutes, [0, 120]; default 3'),
@@ -98,12 +106,18 @@ export const SeasonPlanBody = z
     extraEpochsPerTarget: num(
       'epochs beyond the cadence, placed where they most tighten the orbit, [0, 20]; default 0',
     ),
-    weather: z.enum(WEATHER_CHOICES).optional().openapi({
-      description:
-        '"aware" (default): each night weighs by its site’s learned chance of being clear (GET /sites/{id}/statistics) and critical epochs on likely-lost nights get backups; "blind": every night weighs 1',
-    }),
+    weather: z
+      .enum(WEATHER_CHOICES)
+      .optional()
+      .openapi({
+        description:
+          '"aware" (default): each night weighs by its site’s learned chance of being clear (GET ' +
+          '/sites/{id}/statistics) and critical epochs on likely-lost nights get backups; "blind": every night ' +
+          'weighs 1',
+      }),
     backupLossAbove: num(
-      'a critical epoch (periapsis window, or one the relativity forecast rests on) whose night is lost with at least this chance gets a backup, [0.01, 1]; default 0.2',
+      'a critical epoch (periapsis window, or one the relativity forecast rests on) whose night is lost ' +
+        'with at least this chance gets a backup, [0.01, 1]; default 0.2',
     ),
     digest: digestField('plan'),
   })
@@ -131,7 +145,8 @@ export function seasonPlanRoutes(store: Store, run: Runner) {
     preview: {
       path: '/campaigns/{id}/season-plan',
       summary:
-        'Preview the season plan of a campaign: epochs per target, reasons, unmet goals, expected σ shrinkage, blocks it would replace',
+        'Preview the season plan of a campaign: epochs per target, reasons, unmet goals, expected σ ' +
+        'shrinkage, blocks it would replace',
       role: 'viewer',
       response: SeasonPlanPreviewSchema,
       answers: 'the plan, written nowhere',
@@ -165,7 +180,8 @@ function addDrawsRoute(app: ResourceApp, store: Store, run: Runner) {
       tags: ['planning'],
       security,
       summary:
-        'Draw the season plan many times under the learned weather: percentiles of the final σ of the passage date, the mass and the relativity factors, and the passage’s coverage',
+        'Draw the season plan many times under the learned weather: percentiles of the final σ of the ' +
+        'passage date, the mass and the relativity factors, and the passage’s coverage',
       request: {
         params: IdParam,
         body: { content: { 'application/json': { schema: DrawsBody } }, required: true },

@@ -101,7 +101,8 @@ export function timeRequestRoutes(store: Store, run: Runner) {
       tags: ['planning'],
       security,
       summary:
-        'A semester’s time request: hours per site, target and kind, the weather allowance, and the expected result with and without the time',
+        'A semester’s time request: hours per site, target and kind, the weather allowance, and the expected ' +
+        'result with and without the time',
       request: {
         params: IdParam,
         body: { content: { 'application/json': { schema: Body } }, required: true },

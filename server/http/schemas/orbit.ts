@@ -87,7 +87,9 @@ export const OrbitSchema = z
       .optional()
       .openapi({
         description:
-          'covariance in the units of the parameter names (periapsisDays: T in days); with Thiele–Innes elements it may name aArcsec, bArcsec, fArcsec, gArcsec instead of a, i, Ω, ω, and is stored carried to those by first-order propagation',
+          'covariance in the units of the parameter names (periapsisDays: T in days); with Thiele–Innes ' +
+          'elements it may name aArcsec, bArcsec, fArcsec, gArcsec instead of a, i, Ω, ω, and is stored ' +
+          'carried to those by first-order propagation',
       }),
   })
   .strict()

@@ -44,7 +44,8 @@ export function thieleInnesJacobian({ ti, campbell }: Point): number[][] {
     throw new InputError(
       'covariance',
       ti,
-      'cannot be carried to Campbell elements for a face-on orbit (i = 0° or 180°), where Ω and ω are not separately defined: give it over a, i, Ω, ω',
+      'cannot be carried to Campbell elements for a face-on orbit (i = 0° or 180°), where Ω and ω are not ' +
+        'separately defined: give it over a, i, Ω, ω',
     );
   const [sw, cw, sn, cn] = [
     Math.sin(argRad),
@@ -82,7 +83,8 @@ export function campbellCovariance(
     throw new InputError(
       `${field}.parameters`,
       cov.parameters,
-      `names both Thiele–Innes constants and ${clash}: give the covariance over A, B, F, G or over a, i, Ω, ω, not both`,
+      `names both Thiele–Innes constants and ${clash}: give the covariance over A, B, F, G or over a, ` +
+        `i, Ω, ω, not both`,
     );
   const J = thieleInnesJacobian(at);
   const out = COVARIANCE_PARAMETERS.filter(

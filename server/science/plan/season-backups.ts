@@ -97,7 +97,9 @@ function relativityCritical(
       const c = byKey.get(`${e.epoch}/${e.kind}`);
       if (!c) continue;
       const without = factor.sigmaAfter / Math.sqrt(Math.max(1e-12, 1 - e.share));
-      const words = `the ${FACTOR_WORDS[factor.name]} factor's forecast rests on it (${pct(e.share)} of its information; lost, its σ rises from ${factor.sigmaAfter.toFixed(3)} to ${without.toFixed(3)})`;
+      const words =
+        `the ${FACTOR_WORDS[factor.name]} factor's forecast rests on it (${pct(e.share)} of its ` +
+        `information; lost, its σ rises from ${factor.sigmaAfter.toFixed(3)} to ${without.toFixed(3)})`;
       out.set(c, out.has(c) ? `${out.get(c)}; ${words}` : words);
     }
   }
@@ -245,7 +247,10 @@ function whyNoBackup(p: Planner, c: Choice, reachDays: number): string {
     return `the allocated nights within ${reachDays} d (${nights(used)}) already hold a ${c.o.kind} epoch of ${name}`;
   const free = near.filter((o) => !o.used);
   if (free.every((o) => weight[o.s * nD + o.d]! < BACKUP_LEAST_CLEAR - 1e-12))
-    return `the free nights within ${reachDays} d (${nights(free)}) are clear with chance below ${pct(BACKUP_LEAST_CLEAR)}`;
+    return (
+      `the free nights within ${reachDays} d (${nights(free)}) are clear with chance below ` +
+      `${pct(BACKUP_LEAST_CLEAR)}`
+    );
   return `no room left on the free nights within ${reachDays} d (${nights(free)})`;
 }
 
@@ -271,7 +276,8 @@ function backupWords(
         `no backup for ${[...nights.entries()].map(([n, kinds]) => `${n} (${kinds.sort().join(', ')})`).join(', ')}: ${why}`,
     );
     const words = [
-      `${critical.length} critical epoch${critical.length === 1 ? '' : 's'} on nights likely lost, ${backedUp} backed up`,
+      `${critical.length} critical epoch${critical.length === 1 ? '' : 's'} on nights likely lost, ` +
+        `${backedUp} backed up`,
       ...missing,
     ].join('; ');
     return { critical: critical.length, backedUp, words };
@@ -283,7 +289,8 @@ function backupWords(
     );
   if (w && w.relativityShare !== null)
     parts.push(
-      `no epoch carries more than ${rise(w.relativityShare)} of a relativity factor's information (critical from ${pct(RELATIVITY_CRITICAL_SHARE)})`,
+      `no epoch carries more than ${rise(w.relativityShare)} of a relativity factor's information ` +
+        `(critical from ${pct(RELATIVITY_CRITICAL_SHARE)})`,
     );
   return {
     critical: 0,
@@ -337,7 +344,9 @@ export function backupPass(p: Planner, lossAbove: number): (TargetPlan['backups'
       b,
       'backup',
       (g) =>
-        `backup for ${why.join('; ')} (lost with chance ${pct(loss)}): ${other} ${dates[b.d]} is clear with chance ${pct(weight[b.s * nD + b.d]!)}, so both are lost with chance ${pct(both)}; ${g.text}`,
+        `backup for ${why.join('; ')} (lost with chance ${pct(loss)}): ${other} ${dates[b.d]} is clear ` +
+        `with chance ${pct(weight[b.s * nD + b.d]!)}, so both are lost with chance ${pct(both)}; ` +
+        `${g.text}`,
     );
   }
   const exposed = new Set(p.chosen.filter((c) => likelyLost(p, c, lossAbove)).map((c) => c.ti));

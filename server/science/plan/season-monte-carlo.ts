@@ -212,7 +212,11 @@ export function seasonMonteCarlo(
     seed: o.seed,
     precisionScatter: o.scatter,
     targets: prepared.map((pt, ti) => targetDraws(pt, out[ti]!, o, keep)),
-    assumptions: `each planned site-night lost with its chance (1 − its site's clear chance for that night), its epochs' σ times exp(${o.scatter}·z) per night; linear (Fisher) σ after the season, as a refit would report; kept blocks join the draws (obtained ones certain, planned ones lost with their night)`,
+    assumptions:
+      `each planned site-night lost with its chance (1 − its site's clear chance for that night), its ` +
+      `epochs' σ times exp(${o.scatter}·z) per night; linear (Fisher) σ after the season, as a refit ` +
+      `would report; kept blocks join the draws (obtained ones certain, planned ones lost with their ` +
+      `night)`,
   };
 }
 

@@ -363,7 +363,8 @@ function periapsisPass(p: Planner): void {
           chosen,
           'periapsis',
           (g) =>
-            `periapsis window of ${q.date.slice(0, 10)} (${sigma}): ${g.text}; expected σ ${prec} at airmass ${chosen.airmass.toFixed(2)}`,
+            `periapsis window of ${q.date.slice(0, 10)} (${sigma}): ${g.text}; expected σ ${prec} at ` +
+            `airmass ${chosen.airmass.toFixed(2)}`,
         );
       }
     }
@@ -437,7 +438,8 @@ function cadencePass(p: Planner): void {
             best,
             'cadence',
             (g) =>
-              `keeps every gap within ${cad} d${dens}: the most informative of ${count} open site-nights from ${dates[from]} to ${dates[to]} (${g.text}; airmass ${best.airmass.toFixed(2)})`,
+              `keeps every gap within ${cad} d${dens}: the most informative of ${count} open site-nights from ` +
+              `${dates[from]} to ${dates[to]} (${g.text}; airmass ${best.airmass.toFixed(2)})`,
           );
           held.add(best.d);
           lastIdx = best.d;
@@ -493,7 +495,9 @@ function unmetGoal(p: Planner, ti: number, kind: BlockKind, from: number, to: nu
     kind,
     start: dates[from]!,
     end: dates[to]!,
-    reason: `${peri ? 'a periapsis falls in this window, but ' : ''}no ${kind} epoch fits from ${dates[from]} to ${dates[to]}: ${summariseNotes(notes)}`,
+    reason:
+      `${peri ? 'a periapsis falls in this window, but ' : ''}no ${kind} epoch fits from ` +
+      `${dates[from]} to ${dates[to]}: ${summariseNotes(notes)}`,
     nights: notes,
   };
 }

@@ -69,11 +69,15 @@ export interface TimeRequest {
 }
 
 export const ALLOWANCE_RULE =
-  'weather allowance per block: its hours × (1 − c) / c, with c the chance its night is clear (learned from the site’s log and prior); request = blocks + allowance';
+  'weather allowance per block: its hours × (1 − c) / c, with c the chance its night is clear (learned ' +
+  'from the site’s log and prior); request = blocks + allowance';
 
 /** How the expected results are reckoned, stated with every request. */
 export const RESULT_METHOD =
-  'with and without the time: linear (Fisher) 1σ from the current orbit solution and the stored measurements, and the blocks already on the semester’s nights that stay, without the requested blocks and with all of them at their expected σ (the weather allowance is what makes obtaining them the expectation; the season Monte Carlo gives the spread if nights are lost beyond it)';
+  'with and without the time: linear (Fisher) 1σ from the current orbit solution and the stored ' +
+  'measurements, and the blocks already on the semester’s nights that stay, without the requested ' +
+  'blocks and with all of them at their expected σ (the weather allowance is what makes obtaining them ' +
+  'the expectation; the season Monte Carlo gives the spread if nights are lost beyond it)';
 
 const LEAST_CLEAR = 0.01;
 const h1 = (x: number) => x.toFixed(1);
@@ -108,7 +112,9 @@ function paragraph(t: Omit<TargetResult, 'reason'>, sites: SiteRequest[]): strin
   for (const f of t.factors)
     if (f.with !== null && (f.without === null || f.with < f.without))
       parts.push(
-        `The ${f.name === 'redshiftFactor' ? 'redshift' : 'precession'} factor would reach ${factorSigma(f.with)} (${(1 / f.with).toFixed(1)}σ if general relativity holds), against ${factorSigma(f.without)} without.`,
+        `The ${f.name === 'redshiftFactor' ? 'redshift' : 'precession'} factor would reach ` +
+          `${factorSigma(f.with)} (${(1 / f.with).toFixed(1)}σ if general relativity holds), against ` +
+          `${factorSigma(f.without)} without.`,
       );
   return parts.join(' ');
 }
@@ -229,14 +235,16 @@ export function timeRequestMarkdown(r: TimeRequest): string {
   const out = [
     `# Time request, semester ${r.semester.name} (${r.semester.startDate} to ${r.semester.endDate})`,
     '',
-    `Total: ${h1(r.totals.requestHours)} h on ${r.totals.nights} site-nights (${h1(r.totals.hours)} h of planned blocks plus ${h1(r.totals.allowanceHours)} h weather allowance).`,
+    `Total: ${h1(r.totals.requestHours)} h on ${r.totals.nights} site-nights (${h1(r.totals.hours)} ` +
+      `h of planned blocks plus ${h1(r.totals.allowanceHours)} h weather allowance).`,
     '',
   ];
   for (const s of r.sites) {
     out.push(
       `## ${s.site}: ${h1(s.requestHours)} h`,
       '',
-      `${s.nights} nights; ${h1(s.hours)} h of blocks plus ${h1(s.allowanceHours)} h for weather (nights clear with chance ${(100 * s.clearChance).toFixed(0)} % on average).`,
+      `${s.nights} nights; ${h1(s.hours)} h of blocks plus ${h1(s.allowanceHours)} h for weather ` +
+        `(nights clear with chance ${(100 * s.clearChance).toFixed(0)} % on average).`,
       '',
       '| target | kind | blocks | hours | weather allowance (h) |',
       '| --- | --- | ---: | ---: | ---: |',

@@ -207,7 +207,8 @@ export function demoSolutions(stars: FitStar[], anchor: DemoAnchor, fitNow: bool
   const wanted = stars.map((s) => s.name).sort();
   if (!fitNow && keptNames.join() !== wanted.join())
     throw new Error(
-      `the kept demo fits cover ${keptNames.join(', ')} but the scenario has ${wanted.join(', ')}: run npm run demo-fits`,
+      `the kept demo fits cover ${keptNames.join(', ')} but the scenario has ${wanted.join(', ')}: ` +
+        `run npm run demo-fits`,
     );
   const fits = fitNow ? [] : KEPT_FITS.fits;
   const still = fits.filter((f) =>

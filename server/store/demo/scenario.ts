@@ -114,7 +114,8 @@ export function brindleSystem(anchor: DemoAnchor) {
     distancePc: 24.7,
     massSolar: 2.3,
     notes:
-      'Invented double-lined visual binary for the demo: both stars’ lines are measured, so the fit gives the orbital parallax and each mass.',
+      'Invented double-lined visual binary for the demo: both stars’ lines are measured, so the fit gives ' +
+      'the orbital parallax and each mass.',
   };
 }
 
@@ -294,7 +295,8 @@ export const SITES = [
       { azimuthDeg: 320, altitudeDeg: 9 },
     ],
     notes:
-      'Invented site. Laser guide star in use: follow the site’s laser-traffic rules. The summit to the south rises to 34°, above the 30° limit between azimuths 163° and 191°.',
+      'Invented site. Laser guide star in use: follow the site’s laser-traffic rules. The summit to the ' +
+      'south rises to 34°, above the 30° limit between azimuths 163° and 191°.',
   },
   {
     name: 'Ostrel Summit',

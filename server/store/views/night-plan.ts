@@ -222,7 +222,8 @@ export async function acceptNightSchedule(
     if (Date.parse(nightIntervalUtc(date, timeZone).end) <= Date.parse(preview.at))
       throw new ConflictError(
         'not_allowed',
-        `night ${nightId} (${date}) has ended: a schedule plans what is still ahead; record what ran as blocks by hand, each with its outcome and real start and end, then the night's report`,
+        `night ${nightId} (${date}) has ended: a schedule plans what is still ahead; record what ran as ` +
+          `blocks by hand, each with its outcome and real start and end, then the night's report`,
       );
     for (const b of preview.schedule.blocks) {
       if (Date.parse(b.start.utc) <= Date.parse(preview.at)) {

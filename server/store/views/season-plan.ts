@@ -417,7 +417,8 @@ export async function acceptSeasonPlan(
     if (request.digest !== undefined && request.digest !== preview.digest) {
       throw new ConflictError(
         'stale_version',
-        `the plan has changed since the preview (digest ${request.digest}, now ${preview.digest}): the stored campaign, its nights or the moment moved on; preview again`,
+        `the plan has changed since the preview (digest ${request.digest}, now ${preview.digest}): the ` +
+          `stored campaign, its nights or the moment moved on; preview again`,
         { digest: preview.digest },
       );
     }
