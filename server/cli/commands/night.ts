@@ -90,6 +90,7 @@ export const nightCommand: Command = {
     }
     const t = (i: { local: string } | null) => (i ? hhmm(i.local) : '—');
     const tw = report.sun.twilights;
+    const held = report.limits;
     const head = [
       `${report.site.name}, night of ${report.night.date} (${report.site.timeZone}; local times)`,
       `sunset ${t(report.sun.set)}  civil ${t(tw.civil.dusk)}  nautical ${t(tw.nautical.dusk)}  ` +
@@ -100,7 +101,9 @@ export const nightCommand: Command = {
       `Moon: rises ${t(report.moon.rise)}, sets ${t(report.moon.set)}, ` +
         `${(report.moon.illuminatedFraction * 100).toFixed(0)}% lit`,
       `altitudes and airmasses include ${report.site.refraction}`,
-      `limits: altitude ≥ ${report.limits.altitudeLimitDeg.toFixed(1)}°${report.limits.highestAirmass ? ` (airmass ≤ ${report.limits.highestAirmass})` : ''}, Moon ≥ ${report.limits.leastMoonDistanceDeg}°, Sun ≥ ${report.limits.leastSunDistanceDeg}°`,
+      `limits: altitude ≥ ${held.altitudeLimitDeg.toFixed(1)}°` +
+        `${held.highestAirmass ? ` (airmass ≤ ${held.highestAirmass})` : ''}, ` +
+        `Moon ≥ ${held.leastMoonDistanceDeg}°, Sun ≥ ${held.leastSunDistanceDeg}°`,
       '',
     ];
     const none = report.targets.filter((x) => x.windows.length === 0).map((x) => x.name);

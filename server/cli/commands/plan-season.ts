@@ -257,9 +257,27 @@ export const planSeasonCommand: Command = {
           `  ${s.name} ${n.date}: ${n.kept.map((k) => `block ${k.id} (${k.reason})`).join(', ')}\n`,
       ),
     );
+    const siteUse = plan.sites
+      .map(
+        (s) =>
+          `${s.name}: ${s.nightsUsed} of ${s.nights} nights used, ${s.plannedHours.toFixed(1)} h planned`,
+      )
+      .join('; ');
+    const weighing =
+      result.weather === 'aware'
+        ? 'weather-aware: each night weighed by its chance of being clear'
+        : 'weather-blind: every night weighed as clear';
+    const clear = (mean: number | null) => (mean === null ? '—' : `${(100 * mean).toFixed(0)} %`);
+    const siteClear = result.sites
+      .map(
+        (s) =>
+          `${s.name} clear with chance ${clear(s.clearChance.mean)} on average ` +
+          `(${s.clearChance.nightsLogged} night reports and the prior)`,
+      )
+      .join('; ');
     return [
-      `campaign ${id}, nights ${plan.startDate} to ${plan.endDate} (${result.nights}); ${plan.sites.map((s) => `${s.name}: ${s.nightsUsed} of ${s.nights} nights used, ${s.plannedHours.toFixed(1)} h planned`).join('; ')}\n`,
-      `${result.weather === 'aware' ? 'weather-aware: each night weighed by its chance of being clear' : 'weather-blind: every night weighed as clear'}; ${result.sites.map((s) => `${s.name} clear with chance ${s.clearChance.mean === null ? '—' : `${(100 * s.clearChance.mean).toFixed(0)} %`} on average (${s.clearChance.nightsLogged} night reports and the prior)`).join('; ')}\n\n`,
+      `campaign ${id}, nights ${plan.startDate} to ${plan.endDate} (${result.nights}); ${siteUse}\n`,
+      `${weighing}; ${siteClear}\n\n`,
       formatTable(plan.epochs, columns),
       '\n',
       targets,

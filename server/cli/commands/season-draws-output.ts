@@ -61,13 +61,20 @@ export function renderDraws(view: SeasonDrawsView, format: OutputFormat): string
       `epochs), each night lost at its site's learned chance:`,
     ...view.sites.map(
       (s) =>
-        `  ${s.name}: a night is clear with chance ${s.clearChance.mean === null ? '—' : `${(100 * s.clearChance.mean).toFixed(0)} %`} (from ${s.clearChance.nightsLogged} night reports and the prior)`,
+        `  ${s.name}: a night is clear with chance ` +
+        `${s.clearChance.mean === null ? '—' : `${(100 * s.clearChance.mean).toFixed(0)} %`} ` +
+        `(from ${s.clearChance.nightsLogged} night reports and the prior)`,
     ),
     ...d.targets
       .filter((t) => t.windowCovered !== null)
       .map(
         (t) =>
-          `  ${t.target}: at least one epoch survives in the passage's window in ${(100 * t.windowCovered!).toFixed(1)} % of seasons; ${t.epochsLost.toFixed(1)} of ${t.epochs} epochs lost on average${t.kept.obtained + t.kept.planned > 0 ? ` (${t.kept.obtained} already obtained, certain; ${t.kept.planned} kept as planned)` : ''}`,
+          `  ${t.target}: at least one epoch survives in the passage's window in ` +
+          `${(100 * t.windowCovered!).toFixed(1)} % of seasons; ${t.epochsLost.toFixed(1)} of ${t.epochs} ` +
+          `epochs lost on average` +
+          (t.kept.obtained + t.kept.planned > 0
+            ? ` (${t.kept.obtained} already obtained, certain; ${t.kept.planned} kept as planned)`
+            : ''),
       ),
     '',
   ];
