@@ -285,7 +285,10 @@ function backupWords(
   const parts: string[] = [];
   if (w && w.periapsisEpochs > 0)
     parts.push(
-      `losing the night of any one of the ${w.periapsisEpochs} periapsis-window epochs lowers the passage's coverage by at most ${points(w.coverageDrop)}${w.sigmaRise === null ? '' : ` and raises σ of its date by at most ${rise(w.sigmaRise)}`} (critical from ${points(PERIAPSIS_CRITICAL_COVERAGE_DROP)} or ${rise(PERIAPSIS_CRITICAL_SIGMA_RISE)})`,
+      `losing the night of any one of the ${w.periapsisEpochs} periapsis-window epochs lowers the passage's ` +
+        `coverage by at most ${points(w.coverageDrop)}` +
+        (w.sigmaRise === null ? '' : ` and raises σ of its date by at most ${rise(w.sigmaRise)}`) +
+        ` (critical from ${points(PERIAPSIS_CRITICAL_COVERAGE_DROP)} or ${rise(PERIAPSIS_CRITICAL_SIGMA_RISE)})`,
     );
   if (w && w.relativityShare !== null)
     parts.push(

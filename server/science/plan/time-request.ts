@@ -103,11 +103,18 @@ function paragraph(t: Omit<TargetResult, 'reason'>, sites: SiteRequest[]): strin
   ];
   if (t.passage)
     parts.push(
-      `It passes periapsis on ${t.passage.slice(0, 10)}; with this time the date would be known to ${dateSigma(t.periapsisSigmaDays.with)}, against ${dateSigma(t.periapsisSigmaDays.without)} without it${t.coverage ? `, and ${(100 * t.coverage.with).toFixed(0)} % of the date’s distribution would lie within ${t.coverage.withinDays} d of an epoch (${(100 * t.coverage.without).toFixed(0)} % without)` : ''}.`,
+      `It passes periapsis on ${t.passage.slice(0, 10)}; with this time the date would be known to ` +
+        `${dateSigma(t.periapsisSigmaDays.with)}, against ${dateSigma(t.periapsisSigmaDays.without)} without it` +
+        (t.coverage
+          ? `, and ${(100 * t.coverage.with).toFixed(0)} % of the date’s distribution would lie within ` +
+            `${t.coverage.withinDays} d of an epoch (${(100 * t.coverage.without).toFixed(0)} % without)`
+          : '') +
+        '.',
     );
   if (t.massFraction.with !== null)
     parts.push(
-      `The mass would be known to ${(100 * t.massFraction.with).toFixed(2)} % (${t.massFraction.without === null ? 'undetermined' : `${(100 * t.massFraction.without).toFixed(2)} %`} without).`,
+      `The mass would be known to ${(100 * t.massFraction.with).toFixed(2)} % ` +
+        `(${t.massFraction.without === null ? 'undetermined' : `${(100 * t.massFraction.without).toFixed(2)} %`} without).`,
     );
   for (const f of t.factors)
     if (f.with !== null && (f.without === null || f.with < f.without))
