@@ -164,9 +164,13 @@ function helpOf(spec: RecordSpec): string {
   const line = (f: FieldOption) =>
     `  ${`--${f.option}${f.kind === 'flag' ? '' : ' <x>'}`.padEnd(Math.max(width, 21))}  ${f.help}`;
   const id = `--${spec.record}-id <id>`;
+  const filters = spec.filters?.length
+    ? ` [${spec.filters.map((f) => `--${f.option} <id>`).join('] [')}]`
+    : '';
+  const edit = spec.editable ? `\n       epochwright ${spec.record} edit ${id} [options]` : '';
   return `usage: epochwright ${spec.record} add [options] [--record <json|file>]
-       epochwright ${spec.record} list${spec.filters?.length ? ` [${spec.filters.map((f) => `--${f.option} <id>`).join('] [')}]` : ''} [--json | --csv]
-       epochwright ${spec.record} show ${id} [--json]${spec.editable ? `\n       epochwright ${spec.record} edit ${id} [options]` : ''}
+       epochwright ${spec.record} list${filters} [--json | --csv]
+       epochwright ${spec.record} show ${id} [--json]${edit}
 
 ${spec.about}
 
@@ -278,7 +282,8 @@ export function recordCommand(spec: RecordSpec): Command {
           return showRecord(r);
         default:
           throw new UsageError(
-            `${spec.record}: say add, list, show${spec.editable ? ' or edit' : ''}${action ? ` (not ${JSON.stringify(action)})` : ''}`,
+            `${spec.record}: say add, list, show${spec.editable ? ' or edit' : ''}` +
+              (action ? ` (not ${JSON.stringify(action)})` : ''),
           );
       }
     },
