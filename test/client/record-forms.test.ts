@@ -6,15 +6,15 @@
  */
 import { describe, expect, test } from 'vitest';
 import { ApiError, fieldMessages } from '../../client/src/api/client.ts';
-import {
-  CAMPAIGN_FIELDS,
-  SITE_FIELDS,
-  SYSTEM_FIELDS,
-  bodyOf,
-  messagesByField,
-  parseMask,
-} from '../../client/src/views/record-forms.tsx';
+import { bodyOf, messagesByField, parseMask } from '../../client/src/views/record-forms.tsx';
+import { formFields } from '../../client/src/views/record-fields.ts';
 import { CampaignInput, SiteFields, SystemFields } from '../../server/store/schemas/entities.ts';
+
+// No stored records to choose among: the bodies below name their ids themselves.
+const stored = { systems: [], targets: [], sites: [] };
+const SYSTEM_FIELDS = formFields('systems', stored);
+const SITE_FIELDS = formFields('sites', stored);
+const CAMPAIGN_FIELDS = formFields('campaigns', stored);
 
 describe('request bodies', () => {
   test('a campaign: nested goals and limits, empty optional fields left out, the schema accepts it', () => {

@@ -5,27 +5,14 @@
  */
 import type { ComponentChildren } from 'preact';
 import { useState } from 'preact/hooks';
-import { BLOCK_KINDS } from '../../../descriptors/measurement-kinds.ts';
 import { fieldMessages, sendRecord } from '../api/client.ts';
 import { invalidateCatalogue, type Catalogue } from '../api/catalogue.ts';
 import type { HorizonPoint } from '../api/client.ts';
 import { ErrorLine } from '../lib/ui.tsx';
 import { SolutionForm } from './solution-form.tsx';
 import { fieldWords } from '../lib/field-words.ts';
+import { type FieldSpec, formFields } from './record-fields.ts';
 
-/** One input. `key` is the dotted path in the request body, so server messages land beside it. */
-export interface FieldSpec {
-  key: string;
-  label: string;
-  kind: 'text' | 'number' | 'date' | 'boolean' | 'select' | 'ids' | 'mask' | 'textarea';
-  /** Left out of the body when empty (the server's default applies). */
-  optional?: boolean;
-  initial?: string | boolean | number[];
-  options?: { value: string; label: string }[];
-  hint?: string;
-  /** Turns the typed text into the body's value (default: the text itself). */
-  toValue?: (text: string) => unknown;
-}
 type Value = string | boolean | number[];
 
 /** "az alt, az alt, …" (degrees) → mask points, or the rule a pair breaks when it is not two numbers. */
@@ -109,32 +96,33 @@ const initialOf = (fields: FieldSpec[]) =>
 function IdChoices({
   f,
   chosen,
-  choices,
   set,
 }: {
   f: FieldSpec;
   chosen: number[];
-  choices: { id: number; name: string }[];
   set: (k: string, v: Value) => void;
 }) {
   return (
     // biome-ignore lint/a11y/useSemanticElements: an inline group inside the form's grid row; a fieldset would break the row
     <span class="id-choices" role="group" aria-label={f.label}>
-      {choices.map((o) => (
-        <label key={o.id} class="inline">
-          <input
-            type="checkbox"
-            checked={chosen.includes(o.id)}
-            onChange={(e) =>
-              set(
-                f.key,
-                e.currentTarget.checked ? [...chosen, o.id] : chosen.filter((x) => x !== o.id),
-              )
-            }
-          />{' '}
-          {o.name}
-        </label>
-      ))}
+      {(f.options ?? []).map((o) => {
+        const id = Number(o.value);
+        return (
+          <label key={id} class="inline">
+            <input
+              type="checkbox"
+              checked={chosen.includes(id)}
+              onChange={(e) =>
+                set(
+                  f.key,
+                  e.currentTarget.checked ? [...chosen, id] : chosen.filter((x) => x !== id),
+                )
+              }
+            />{' '}
+            {o.label}
+          </label>
+        );
+      })}
     </span>
   );
 }
@@ -144,13 +132,11 @@ function FieldInput({
   f,
   v,
   msgId,
-  ids,
   set,
 }: {
   f: FieldSpec;
   v: Value | undefined;
   msgId: string | undefined;
-  ids?: Record<string, { id: number; name: string }[]>;
   set: (k: string, v: Value) => void;
 }) {
   const common = { name: f.key, 'aria-invalid': !!msgId, 'aria-describedby': msgId };
@@ -179,7 +165,7 @@ function FieldInput({
     case 'mask':
       return <textarea {...common} rows={2} value={String(v)} onInput={text} />;
     case 'ids':
-      return <IdChoices f={f} chosen={v as number[]} choices={ids?.[f.key] ?? []} set={set} />;
+      return <IdChoices f={f} chosen={v as number[]} set={set} />;
     case 'number':
       return <input {...common} type="number" step="any" value={String(v)} onInput={text} />;
     case 'date':
@@ -266,13 +252,11 @@ export function CreateForm({
   path,
   fields,
   onCreated,
-  ids,
 }: {
   title: string;
   path: string;
   fields: FieldSpec[];
   onCreated: () => void;
-  ids?: Record<string, { id: number; name: string }[]>;
 }) {
   const [values, setValues] = useState(() => initialOf(fields));
   const [error, setError] = useState<unknown>(null);
@@ -316,7 +300,6 @@ export function CreateForm({
                 f={f}
                 v={values[f.key]}
                 msgId={msgs[f.key] ? msgIdOf(f) : undefined}
-                ids={ids}
                 set={set}
               />
             </FieldRow>
@@ -335,170 +318,37 @@ export function CreateForm({
   );
 }
 
-const DARKNESS = [
-  { value: '', label: 'server default (astronomical)' },
-  { value: 'astronomical', label: 'astronomical (Sun below −18°)' },
-  { value: 'nautical', label: 'nautical (Sun below −12°)' },
-  { value: 'civil', label: 'civil (Sun below −6°)' },
-];
-
-export const SYSTEM_FIELDS: FieldSpec[] = [
-  { key: 'name', label: 'name', kind: 'text' },
-  { key: 'raDeg', label: 'RA (°, ICRS)', kind: 'number' },
-  { key: 'decDeg', label: 'Dec (°, ICRS)', kind: 'number' },
-  {
-    key: 'positionEpoch',
-    label: 'position epoch',
-    kind: 'text',
-    optional: true,
-    hint: 'e.g. J2016.0, an ISO 8601 instant, JD or MJD; default J2000.0',
-  },
-  { key: 'pmRaMasYr', label: 'μα* (mas/yr)', kind: 'number', optional: true },
-  { key: 'pmDecMasYr', label: 'μδ (mas/yr)', kind: 'number', optional: true },
-  { key: 'distancePc', label: 'distance (pc)', kind: 'number', optional: true },
-  { key: 'massSolar', label: 'mass (M☉)', kind: 'number', optional: true },
-  { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
-];
-
-export const SITE_FIELDS: FieldSpec[] = [
-  { key: 'name', label: 'name', kind: 'text' },
-  { key: 'latitudeDeg', label: 'latitude (°, N +)', kind: 'number' },
-  { key: 'longitudeDeg', label: 'longitude (°, E +)', kind: 'number' },
-  { key: 'elevationM', label: 'elevation (m)', kind: 'number' },
-  { key: 'timeZone', label: 'time zone (IANA)', kind: 'text', hint: 'e.g. America/Santiago' },
-  { key: 'lowestAltitudeDeg', label: 'lowest altitude (°)', kind: 'number', optional: true },
-  {
-    key: 'leastSunDistanceDeg',
-    label: 'least Sun distance (°)',
-    kind: 'number',
-    optional: true,
-    hint: 'default 45°; follow the site’s own interlock if stricter',
-  },
-  { key: 'pressureHpa', label: 'pressure (hPa)', kind: 'number', optional: true },
-  { key: 'temperatureC', label: 'temperature (°C)', kind: 'number', optional: true },
-  {
-    key: 'humidityPct',
-    label: 'humidity (%)',
-    kind: 'number',
-    optional: true,
-    hint: 'for refraction; default 50 %',
-  },
-  {
-    key: 'wavelengthUm',
-    label: 'wavelength (µm)',
-    kind: 'number',
-    optional: true,
-    hint: 'band observed, for refraction: K 2.2, H 1.65, J 1.25, V 0.55; default 2.2',
-  },
-  {
-    key: 'horizonMask',
-    label: 'horizon mask',
-    kind: 'mask',
-    optional: true,
-    hint: 'pairs “azimuth altitude” in degrees, separated by commas, e.g. 0 8, 170 34, 260 7',
-  },
-  { key: 'laserGuideStar', label: 'laser guide star', kind: 'boolean' },
-  { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
-];
-
-export const CAMPAIGN_FIELDS: FieldSpec[] = [
-  { key: 'name', label: 'name', kind: 'text' },
-  { key: 'startDate', label: 'first night', kind: 'date' },
-  { key: 'endDate', label: 'last night', kind: 'date' },
-  { key: 'goals.cadenceDays', label: 'cadence (days)', kind: 'number' },
-  {
-    key: 'goals.kinds',
-    label: 'measurements',
-    kind: 'select',
-    initial: 'astrometry',
-    options: [
-      ...BLOCK_KINDS.map((k) => ({ value: k, label: k })),
-      { value: 'both', label: BLOCK_KINDS.join(' and ') },
-    ],
-    toValue: (s) => (s === 'both' ? [...BLOCK_KINDS] : [s]),
-  },
-  {
-    key: 'goals.densifiedCadenceDays',
-    label: 'cadence near periapsis (days)',
-    kind: 'number',
-    optional: true,
-  },
-  {
-    key: 'goals.densifyWithinDays',
-    label: 'near periapsis means within (days)',
-    kind: 'number',
-    optional: true,
-  },
-  {
-    key: 'goals.wavelengthUm',
-    label: 'wavelength (µm)',
-    kind: 'number',
-    optional: true,
-    hint: 'band observed, for refraction: K 2.2, J 1.25, V 0.55; empty: each site’s own',
-  },
-  { key: 'limits.highestAirmass', label: 'highest airmass', kind: 'number', optional: true },
-  {
-    key: 'limits.leastMoonDistanceDeg',
-    label: 'least Moon distance (°)',
-    kind: 'number',
-    optional: true,
-  },
-  {
-    key: 'limits.darkness',
-    label: 'darkness',
-    kind: 'select',
-    optional: true,
-    options: DARKNESS,
-    initial: '',
-  },
-  { key: 'targetIds', label: 'targets', kind: 'ids' },
-  { key: 'siteIds', label: 'sites', kind: 'ids' },
-  { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
-];
-
-/** A target's fields; its system is chosen among the stored ones. */
-export function targetFields(cat: Catalogue): FieldSpec[] {
-  return [
-    {
-      key: 'systemId',
-      label: 'system',
-      kind: 'select',
-      initial: String(cat.systems[0]?.id ?? ''),
-      options: cat.systems.map((s) => ({ value: String(s.id), label: s.name })),
-      toValue: Number,
-    },
-    { key: 'name', label: 'name', kind: 'text' },
-    { key: 'magnitude', label: 'magnitude', kind: 'number', optional: true },
-    { key: 'band', label: 'band', kind: 'text', optional: true, hint: 'e.g. K, H, V' },
-    { key: 'notes', label: 'notes', kind: 'textarea', optional: true },
-  ];
-}
-
 /** The forms of the records page (leads only): systems, targets, orbit solutions, sites, campaigns. */
 export function CreateRecords({ cat, onCreated }: { cat: Catalogue; onCreated: () => void }) {
   return (
     <div class="create-records">
-      <CreateForm title="New system" path="/systems" fields={SYSTEM_FIELDS} onCreated={onCreated} />
+      <CreateForm
+        title="New system"
+        path="/systems"
+        fields={formFields('systems', cat)}
+        onCreated={onCreated}
+      />
       {cat.systems.length > 0 && (
         <CreateForm
           key={cat.systems.length}
           title="New target"
           path="/targets"
-          fields={targetFields(cat)}
+          fields={formFields('targets', cat)}
           onCreated={onCreated}
         />
       )}
       {cat.targets.length > 0 && <SolutionForm cat={cat} onCreated={onCreated} />}
-      <CreateForm title="New site" path="/sites" fields={SITE_FIELDS} onCreated={onCreated} />
+      <CreateForm
+        title="New site"
+        path="/sites"
+        fields={formFields('sites', cat)}
+        onCreated={onCreated}
+      />
       <CreateForm
         title="New campaign"
         path="/campaigns"
-        fields={CAMPAIGN_FIELDS}
+        fields={formFields('campaigns', cat)}
         onCreated={onCreated}
-        ids={{
-          targetIds: cat.targets.map((t) => ({ id: t.id, name: t.name })),
-          siteIds: cat.sites.map((s) => ({ id: s.id, name: s.name })),
-        }}
       />
     </div>
   );

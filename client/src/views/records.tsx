@@ -4,7 +4,6 @@
  * nothing written when any row fails.
  */
 import { useState } from 'preact/hooks';
-import { DEFAULT_ZENITH_SIGMA } from '../../../descriptors/measurement-kinds.ts';
 import { ApiError, fieldMessages, api, sendRecord, type Answer } from '../api/client.ts';
 import {
   type Catalogue,
@@ -18,66 +17,12 @@ import { useLoad } from '../lib/use-load.ts';
 import { CreateRecords } from './record-forms.tsx';
 import { OrbitExport } from './orbit-export.tsx';
 import { RecordExports } from './record-exports.tsx';
-import { RELATIVITY_WORDS, scaledText } from '../lib/numbers.ts';
-import { formatDecDms, formatRaHms } from '../../../descriptors/sexagesimal.ts';
+import { RELATIVITY_WORDS } from '../lib/numbers.ts';
+import { type Column, tableColumns } from './record-fields.ts';
 import { plural } from '../lib/words.ts';
 
 type Row = Record<string, unknown> & { id: number };
-interface Column {
-  key: string;
-  label: string;
-  /** `angle`: shown and edited as sexagesimal text, sent as typed (the server reads every form). */
-  editable?: 'number' | 'text' | 'boolean' | 'angle';
-  /** Shown when the value is null (the default it stands for). */
-  empty?: string;
-  /** How a number shows (default: float noise cut, 8 significant digits). */
-  format?: (v: number) => string;
-}
 const plainNumber = (v: number) => String(Number(v.toPrecision(8)));
-
-const SYSTEM_COLS: Column[] = [
-  { key: 'name', label: 'name', editable: 'text' },
-  // As a catalogue writes them: RA to 0.01 s and Dec to 0.1″ (0.15″ at most, finer than any pointing).
-  { key: 'raDeg', label: 'RA (h:m:s, ICRS)', editable: 'angle', format: (v) => formatRaHms(v) },
-  { key: 'decDeg', label: 'Dec (°:′:″, ICRS)', editable: 'angle', format: (v) => formatDecDms(v) },
-  { key: 'distancePc', label: 'distance (pc)', editable: 'number' },
-  { key: 'massSolar', label: 'mass (M☉)', editable: 'number', format: (v) => scaledText(v) },
-];
-const TARGET_COLS: Column[] = [
-  { key: 'name', label: 'name', editable: 'text' },
-  { key: 'systemName', label: 'system' },
-  { key: 'magnitude', label: 'magnitude', editable: 'number' },
-  { key: 'band', label: 'band', editable: 'text' },
-];
-const SITE_COLS: Column[] = [
-  { key: 'name', label: 'name', editable: 'text' },
-  { key: 'latitudeDeg', label: 'latitude (°, N +)', editable: 'number' },
-  { key: 'longitudeDeg', label: 'longitude (°, E +)', editable: 'number' },
-  { key: 'elevationM', label: 'elevation (m)', editable: 'number' },
-  { key: 'timeZone', label: 'time zone (IANA)', editable: 'text' },
-  { key: 'lowestAltitudeDeg', label: 'lowest altitude (°)', editable: 'number' },
-  { key: 'leastSunDistanceDeg', label: 'least Sun distance (°)', editable: 'number' },
-  { key: 'laserGuideStar', label: 'laser guide star', editable: 'boolean' },
-  // The planner's precision model for the site; empty fields take its defaults.
-  {
-    key: 'astrometrySigmaMas',
-    label: 'astrometry σ at zenith (mas)',
-    editable: 'number',
-    empty: `${DEFAULT_ZENITH_SIGMA.astrometry.value} (default)`,
-  },
-  {
-    key: 'spectroscopySigmaKmS',
-    label: 'RV σ at zenith (km/s)',
-    editable: 'number',
-    empty: `${DEFAULT_ZENITH_SIGMA.spectroscopy.value} (default)`,
-  },
-  {
-    key: 'referenceSeeingArcsec',
-    label: 'σ holds for seeing (″)',
-    editable: 'number',
-    empty: 'any (default)',
-  },
-];
 
 /** The form text each editable column starts from when a row is opened for editing. */
 function editValues(cols: Column[], r: Row): Record<string, string | boolean> {
@@ -449,10 +394,20 @@ export function RecordsView() {
         </p>
       </div>
       <Section title="Systems" id="systems">
-        <RecordTable path="/systems" rows={cat.systems} cols={SYSTEM_COLS} onSaved={reload} />
+        <RecordTable
+          path="/systems"
+          rows={cat.systems}
+          cols={tableColumns('systems')}
+          onSaved={reload}
+        />
       </Section>
       <Section title="Targets" id="targets">
-        <RecordTable path="/targets" rows={targets} cols={TARGET_COLS} onSaved={reload} />
+        <RecordTable
+          path="/targets"
+          rows={targets}
+          cols={tableColumns('targets')}
+          onSaved={reload}
+        />
         <p>
           {cat.targets.map((t) => (
             <a key={t.id} class="chip" href={`/targets/${t.id}`}>
@@ -470,7 +425,7 @@ export function RecordsView() {
         <OrbitExport />
       </Section>
       <Section title="Sites" id="sites">
-        <RecordTable path="/sites" rows={cat.sites} cols={SITE_COLS} onSaved={reload} />
+        <RecordTable path="/sites" rows={cat.sites} cols={tableColumns('sites')} onSaved={reload} />
         {cat.sites.some((s) => s.laserGuideStar) && (
           <Caution>
             Sites marked “laser guide star”: aircraft and satellite avoidance follow the site’s
