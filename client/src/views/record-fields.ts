@@ -74,6 +74,13 @@ const NOTES: RecordField = {
   input: { kind: 'textarea', optional: true },
 };
 
+/** A number the form may leave empty (the server's default applies); not a table column. */
+const optionalNumber = (key: string, label: string): RecordField => ({
+  key,
+  label,
+  input: { kind: 'number', optional: true },
+});
+
 /** Each entity's fields in the order the form and the table show them. */
 export const RECORD_FIELDS = {
   systems: [
@@ -100,8 +107,8 @@ export const RECORD_FIELDS = {
         hint: 'e.g. J2016.0, an ISO 8601 instant, JD or MJD; default J2000.0',
       },
     },
-    { key: 'pmRaMasYr', label: 'μα* (mas/yr)', input: { kind: 'number', optional: true } },
-    { key: 'pmDecMasYr', label: 'μδ (mas/yr)', input: { kind: 'number', optional: true } },
+    optionalNumber('pmRaMasYr', 'μα* (mas/yr)'),
+    optionalNumber('pmDecMasYr', 'μδ (mas/yr)'),
     {
       key: 'distancePc',
       label: 'distance (pc)',
@@ -180,8 +187,8 @@ export const RECORD_FIELDS = {
       },
       column: { editable: 'number' },
     },
-    { key: 'pressureHpa', label: 'pressure (hPa)', input: { kind: 'number', optional: true } },
-    { key: 'temperatureC', label: 'temperature (°C)', input: { kind: 'number', optional: true } },
+    optionalNumber('pressureHpa', 'pressure (hPa)'),
+    optionalNumber('temperatureC', 'temperature (°C)'),
     {
       key: 'humidityPct',
       label: 'humidity (%)',
@@ -254,16 +261,8 @@ export const RECORD_FIELDS = {
         toValue: (s) => (s === 'both' ? [...BLOCK_KINDS] : [s]),
       },
     },
-    {
-      key: 'goals.densifiedCadenceDays',
-      label: 'cadence near periapsis (days)',
-      input: { kind: 'number', optional: true },
-    },
-    {
-      key: 'goals.densifyWithinDays',
-      label: 'near periapsis means within (days)',
-      input: { kind: 'number', optional: true },
-    },
+    optionalNumber('goals.densifiedCadenceDays', 'cadence near periapsis (days)'),
+    optionalNumber('goals.densifyWithinDays', 'near periapsis means within (days)'),
     {
       key: 'goals.wavelengthUm',
       label: 'wavelength (µm)',
@@ -273,16 +272,8 @@ export const RECORD_FIELDS = {
         hint: 'band observed, for refraction: K 2.2, J 1.25, V 0.55; empty: each site’s own',
       },
     },
-    {
-      key: 'limits.highestAirmass',
-      label: 'highest airmass',
-      input: { kind: 'number', optional: true },
-    },
-    {
-      key: 'limits.leastMoonDistanceDeg',
-      label: 'least Moon distance (°)',
-      input: { kind: 'number', optional: true },
-    },
+    optionalNumber('limits.highestAirmass', 'highest airmass'),
+    optionalNumber('limits.leastMoonDistanceDeg', 'least Moon distance (°)'),
     {
       key: 'limits.darkness',
       label: 'darkness',
